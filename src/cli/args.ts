@@ -1,0 +1,60 @@
+/** A small, strict command-line parser: flags are declared; anything undeclared is an error. */
+
+export interface FlagSpec {
+  /** Takes a value (`--window 25`) or is a switch (`--json`). */
+  value: boolean;
+  /** Allowed to repeat (values collected). */
+  repeat?: boolean;
+}
+
+export interface ParsedArgs {
+  positional: string[];
+  flags: Map<string, string[]>;
+}
+
+export class UsageError extends Error {}
+
+export function parseArgs(argv: string[], spec: Record<string, FlagSpec>): ParsedArgs {
+  const positional: string[] = [];
+  const flags = new Map<string, string[]>();
+  for (let i = 0; i < argv.length; i++) {
+    const a = argv[i]!;
+    if (a === '--') {
+      positional.push(...argv.slice(i + 1));
+      break;
+    }
+    if (a.startsWith('--')) {
+      const eq = a.indexOf('=');
+      const name = eq > 0 ? a.slice(2, eq) : a.slice(2);
+      const s = spec[name];
+      if (!s) throw new UsageError(`unknown option --${name}`);
+      let v = 'true';
+      if (s.value) {
+        if (eq > 0) v = a.slice(eq + 1);
+        else {
+          const next = argv[i + 1];
+          if (next === undefined) throw new UsageError(`--${name} needs a value`);
+          v = next;
+          i++;
+        }
+      } else if (eq > 0) throw new UsageError(`--${name} takes no value`);
+      const list = flags.get(name) ?? [];
+      if (list.length > 0 && !s.repeat) throw new UsageError(`--${name} given twice`);
+      list.push(v);
+      flags.set(name, list);
+    } else positional.push(a);
+  }
+  return { positional, flags };
+}
+
+export function flag(p: ParsedArgs, name: string): string | undefined {
+  return p.flags.get(name)?.[0];
+}
+
+export function numberFlag(p: ParsedArgs, name: string, check: (x: number) => boolean, what: string): number | undefined {
+  const v = flag(p, name);
+  if (v === undefined) return undefined;
+  const x = Number(v);
+  if (!Number.isFinite(x) || !check(x)) throw new UsageError(`--${name} must be ${what}, got "${v}"`);
+  return x;
+}

@@ -1,0 +1,49 @@
+/** `valleyscope analyze <file-or-folder> [--json] [--window meV] [--method name] [--range eV]` */
+import { flag, numberFlag, parseArgs, UsageError } from '../args';
+import { nodeFileAccessor } from '../nodeFileAccessor';
+import { loadRun } from '../../core/load';
+import { analyzeBandStructure, type AnalysisSettings } from '../../core/analysis/analyze';
+import { summaryText } from '../../core/report/summaryText';
+import { reportToJson } from '../../core/report/reportJson';
+import { FIT_METHODS } from '../../core/analysis/methods';
+import type { CliIO } from '../io';
+
+export const ANALYZE_HELP = `valleyscope analyze <file-or-folder> [options]
+  Read an eigenvalue file (or find one in a run folder) and report the gap, band edges and effective masses.
+  --json            print one JSON object
+  --window <meV>    energy window of the curvature fit (default 25)
+  --method <name>   ${FIT_METHODS.join(' | ')} (default parabola)
+  --range <eV>      report secondary extrema this close to the edges (default 0.5)
+  --soc             treat the run as spin-orbit (one electron per band) when the files do not say`;
+
+export function analysisSettingsFromArgs(p: ReturnType<typeof parseArgs>): Partial<AnalysisSettings> {
+  const s: Partial<AnalysisSettings> = {};
+  const w = numberFlag(p, 'window', (x) => x > 0 && x <= 5000, 'a positive number of meV');
+  if (w !== undefined) s.window_meV = w;
+  const r = numberFlag(p, 'range', (x) => x >= 0 && x <= 20, 'a number of eV between 0 and 20');
+  if (r !== undefined) s.range_eV = r;
+  const m = flag(p, 'method');
+  if (m !== undefined) {
+    if (!FIT_METHODS.includes(m)) throw new UsageError(`--method must be one of ${FIT_METHODS.join(', ')}, got "${m}"`);
+    s.method = m;
+  }
+  return s;
+}
+
+export const ANALYSIS_FLAGS = {
+  window: { value: true },
+  method: { value: true },
+  range: { value: true },
+  soc: { value: false },
+} as const;
+
+export async function runAnalyze(argv: string[], io: CliIO): Promise<number> {
+  const p = parseArgs(argv, { json: { value: false }, ...ANALYSIS_FLAGS });
+  if (p.positional.length !== 1) throw new UsageError('analyze takes exactly one file or folder');
+  const settings = analysisSettingsFromArgs(p);
+  const bs = await loadRun(nodeFileAccessor, p.positional[0]!, p.flags.has('soc') ? { spinorbit: true } : {});
+  const report = analyzeBandStructure(bs, settings);
+  if (p.flags.has('json')) io.out(JSON.stringify(reportToJson(report)));
+  else io.out(summaryText(report));
+  return 0;
+}

@@ -1,0 +1,82 @@
+/**
+ * valleyscope: the command-line twin of the editor extension.
+ * Every failure ends in one sentence on stderr and a non-zero exit code; never a stack trace.
+ */
+import { UsageError } from './args';
+import { processIO, type CliIO } from './io';
+import { ANALYZE_HELP, runAnalyze } from './commands/analyze';
+import { isValleyscopeError } from '../core/errors';
+
+export interface Command {
+  help: string;
+  run(argv: string[], io: CliIO): Promise<number>;
+}
+
+export const COMMANDS: Record<string, Command> = {
+  analyze: { help: ANALYZE_HELP, run: runAnalyze },
+};
+
+export function usage(): string {
+  return [
+    'valleyscope: band gaps, band edges, effective masses and valley degeneracy from eigenvalue files.',
+    '',
+    ...Object.values(COMMANDS).map((c) => c.help),
+    '',
+    'valleyscope <command> --help shows one command.',
+  ].join('\n');
+}
+
+export async function main(argv: string[], io: CliIO = processIO): Promise<number> {
+  const [name, ...rest] = argv;
+  if (!name || name === '--help' || name === '-h' || name === 'help') {
+    io.out(usage());
+    return name ? 0 : 2;
+  }
+  if (name === '--version') {
+    io.out(VERSION);
+    return 0;
+  }
+  const cmd = COMMANDS[name];
+  if (!cmd) {
+    io.err(`valleyscope: unknown command "${name}". Commands: ${Object.keys(COMMANDS).join(', ')}.`);
+    return 2;
+  }
+  if (rest.includes('--help') || rest.includes('-h')) {
+    io.out(cmd.help);
+    return 0;
+  }
+  try {
+    return await cmd.run(rest, io);
+  } catch (e) {
+    if (e instanceof UsageError) {
+      io.err(`valleyscope ${name}: ${e.message}. See "valleyscope ${name} --help".`);
+      return 2;
+    }
+    if (isValleyscopeError(e)) {
+      io.err(`valleyscope: ${e.message}`);
+      return 1;
+    }
+    const code = (e as NodeJS.ErrnoException | undefined)?.code;
+    if (code && typeof (e as Error).message === 'string') {
+      io.err(`valleyscope: ${(e as Error).message}`);
+      return 1;
+    }
+    io.err(`valleyscope: internal error: ${(e as Error)?.message ?? String(e)}. Please report this with the input file.`);
+    return 3;
+  }
+}
+
+declare const __VERSION__: string | undefined;
+const VERSION = typeof __VERSION__ === 'string' ? __VERSION__ : '0.1.0';
+
+// Run when executed as the CLI entry point (bundled dist/cli.js or tsx src/cli/main.ts).
+const isEntry = typeof require !== 'undefined' && typeof module !== 'undefined' && require.main === module;
+if (isEntry) {
+  main(process.argv.slice(2)).then(
+    (code) => process.exit(code),
+    (e: unknown) => {
+      process.stderr.write(`valleyscope: internal error: ${(e as Error)?.message ?? String(e)}\n`);
+      process.exit(3);
+    },
+  );
+}

@@ -1,0 +1,34 @@
+/** The FileAccessor over node's file system, for the CLI. */
+import { promises as fsp } from 'node:fs';
+import type { DirEntry, FileAccessor } from '../core/io/fileAccessor';
+
+export const nodeFileAccessor: FileAccessor = {
+  async readFile(path: string): Promise<Uint8Array> {
+    const b = await fsp.readFile(path);
+    return new Uint8Array(b.buffer, b.byteOffset, b.byteLength);
+  },
+  async readHead(path: string, bytes: number): Promise<Uint8Array> {
+    const fh = await fsp.open(path, 'r');
+    try {
+      const buf = Buffer.alloc(bytes);
+      const { bytesRead } = await fh.read(buf, 0, bytes, 0);
+      return new Uint8Array(buf.buffer, buf.byteOffset, bytesRead);
+    } finally {
+      await fh.close();
+    }
+  },
+  async stat(path: string) {
+    try {
+      const s = await fsp.stat(path);
+      return { type: s.isDirectory() ? 'directory' : 'file', size: s.size } as const;
+    } catch {
+      return null;
+    }
+  },
+  async list(dir: string): Promise<DirEntry[]> {
+    const entries = await fsp.readdir(dir, { withFileTypes: true });
+    return entries
+      .filter((e) => e.isFile() || e.isDirectory())
+      .map((e) => ({ name: e.name, type: e.isDirectory() ? 'directory' : 'file' }));
+  },
+};

@@ -1,0 +1,336 @@
+/**
+ * A cursor over the bytes of a text file that reads numbers and tokens straight from the bytes, tracking
+ * line and column for error messages. Used by every text-layout reader: no line arrays, no regular
+ * expression per number, no intermediate string per value.
+ */
+import { ReaderError } from '../errors';
+
+const NL = 10;
+const CR = 13;
+const SPACE = 32;
+const TAB = 9;
+const COMMA = 44;
+
+/** Exact powers of ten representable as doubles (10^0 .. 10^22). */
+const POW10 = [
+  1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18,
+  1e19, 1e20, 1e21, 1e22,
+];
+
+export function isSpace(c: number): boolean {
+  return c === SPACE || c === TAB || c === CR || c === 0x0b || c === 0x0c;
+}
+
+export function decodeText(bytes: Uint8Array, start = 0, end = bytes.length): string {
+  return new TextDecoder('utf-8', { fatal: false }).decode(bytes.subarray(start, end));
+}
+
+export class TextScanner {
+  readonly bytes: Uint8Array;
+  readonly file: string;
+  readonly format: string;
+  pos: number;
+  /** 1-based line number of `pos`. */
+  line = 1;
+  /** Byte offset at which the current line starts. */
+  lineStart: number;
+  /** Whether commas count as separators (some layouts use them). */
+  commaIsSpace = false;
+
+  constructor(bytes: Uint8Array, file: string, format: string) {
+    this.bytes = bytes;
+    this.file = file;
+    this.format = format;
+    // Skip a UTF-8 byte-order mark.
+    this.pos = bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf ? 3 : 0;
+    this.lineStart = this.pos;
+  }
+
+  get column(): number {
+    return this.pos - this.lineStart + 1;
+  }
+
+  atEnd(): boolean {
+    return this.pos >= this.bytes.length;
+  }
+
+  error(reason: string, line = this.line, column = this.column): ReaderError {
+    return new ReaderError(this.format, this.file, { line, column }, reason);
+  }
+
+  /** Skip spaces and tabs (and commas when enabled) on the current line. */
+  skipSpaces(): void {
+    const b = this.bytes;
+    let p = this.pos;
+    const n = b.length;
+    while (p < n) {
+      const c = b[p]!;
+      if (c === SPACE || c === TAB || c === CR || (this.commaIsSpace && c === COMMA)) p++;
+      else break;
+    }
+    this.pos = p;
+  }
+
+  /** Skip all whitespace including newlines. */
+  skipWhitespace(): void {
+    const b = this.bytes;
+    const n = b.length;
+    for (;;) {
+      this.skipSpaces();
+      if (this.pos < n && b[this.pos] === NL) {
+        this.pos++;
+        this.line++;
+        this.lineStart = this.pos;
+      } else break;
+    }
+    void n;
+  }
+
+  /** True when only spaces remain on the current line. */
+  atEol(): boolean {
+    this.skipSpaces();
+    return this.pos >= this.bytes.length || this.bytes[this.pos] === NL;
+  }
+
+  /** Move to the start of the next line. Returns false at the end of the file. */
+  nextLine(): boolean {
+    const b = this.bytes;
+    const idx = b.indexOf(NL, this.pos);
+    if (idx < 0) {
+      this.pos = b.length;
+      return false;
+    }
+    this.pos = idx + 1;
+    this.line++;
+    this.lineStart = this.pos;
+    return true;
+  }
+
+  /** Expect the current line to be finished (spaces only), then move to the next line. */
+  endLine(what: string): void {
+    if (!this.atEol()) throw this.error(`expected the end of the line after ${what}, found "${this.peekToken()}"`);
+    this.nextLine();
+  }
+
+  /** True when the current line holds nothing but spaces. */
+  lineIsBlank(): boolean {
+    const save = this.pos;
+    const blank = this.atEol();
+    this.pos = save;
+    return blank;
+  }
+
+  /** Skip blank lines. */
+  skipBlankLines(): void {
+    while (!this.atEnd() && this.lineIsBlank()) this.nextLine();
+  }
+
+  /** The rest of the current line as text (without the newline), leaving the cursor at the next line. */
+  restOfLine(): string {
+    const b = this.bytes;
+    let end = b.indexOf(NL, this.pos);
+    if (end < 0) end = b.length;
+    let e = end;
+    if (e > this.pos && b[e - 1] === CR) e--;
+    const s = decodeText(b, this.pos, e);
+    this.pos = end;
+    if (end < b.length) this.nextLine();
+    return s;
+  }
+
+  /** Peek the next token on the line without consuming it (for messages). */
+  peekToken(): string {
+    const save = this.pos;
+    this.skipSpaces();
+    const b = this.bytes;
+    let p = this.pos;
+    while (p < b.length && !isSpace(b[p]!) && b[p] !== NL && p - this.pos < 40) p++;
+    const s = p > this.pos ? decodeText(b, this.pos, p) : this.pos >= b.length ? 'the end of the file' : 'the end of the line';
+    this.pos = save;
+    return s;
+  }
+
+  /** Read a whitespace-delimited token on the current line, or null at the end of the line. */
+  token(): string | null {
+    this.skipSpaces();
+    const b = this.bytes;
+    const start = this.pos;
+    let p = start;
+    while (p < b.length) {
+      const c = b[p]!;
+      if (isSpace(c) || c === NL || (this.commaIsSpace && c === COMMA)) break;
+      p++;
+    }
+    if (p === start) return null;
+    this.pos = p;
+    return decodeText(b, start, p);
+  }
+
+  /**
+   * Read a number on the current line. `what` names the quantity for the error message.
+   * Accepts Fortran exponents (D/d), rejects overflow fields (`****`), NaN and infinities.
+   */
+  number(what: string): number {
+    this.skipSpaces();
+    const v = this.tryNumber();
+    if (v === null) throw this.numberError(what);
+    return v;
+  }
+
+  /** Skip spaces, then try to read a number; null (cursor unchanged) when none is there. */
+  tryNumberAfterSpaces(): number | null {
+    this.skipSpaces();
+    return this.tryNumber();
+  }
+
+  /** Read a number, skipping newlines before it. */
+  numberAcrossLines(what: string): number {
+    this.skipWhitespace();
+    if (this.atEnd()) throw this.error(`the file ends where ${what} was expected (it may be truncated)`);
+    return this.number(what);
+  }
+
+  /** Read an integer on the current line. */
+  integer(what: string): number {
+    const col = this.column + 0;
+    this.skipSpaces();
+    const startCol = this.column;
+    const v = this.number(what);
+    if (!Number.isInteger(v)) throw this.error(`${what} should be a whole number, found ${v}`, this.line, startCol);
+    void col;
+    return v;
+  }
+
+  private numberError(what: string): ReaderError {
+    const tok = this.peekToken();
+    if (tok.includes('***')) {
+      return this.error(
+        `${what} is written as "${tok}": the writing program's number field overflowed, so the value is unknown`,
+      );
+    }
+    if (/^[+-]?(nan|inf)/i.test(tok)) return this.error(`${what} is "${tok}", not a finite number`);
+    if (tok === 'the end of the line' || tok === 'the end of the file') {
+      return this.error(`expected ${what}, found ${tok}${tok === 'the end of the file' ? ' (the file may be truncated)' : ''}`);
+    }
+    return this.error(`expected ${what}, found "${tok}"`);
+  }
+
+  /**
+   * Parse a number at the cursor (no leading spaces skipped). Returns null, leaving the cursor unchanged,
+   * when no complete number is there. A number must be followed by a separator or the end of the line.
+   */
+  tryNumber(): number | null {
+    const b = this.bytes;
+    const n = b.length;
+    const start = this.pos;
+    let p = start;
+    let neg = false;
+    let c = b[p];
+    if (c === 45 /* - */) {
+      neg = true;
+      p++;
+    } else if (c === 43 /* + */) p++;
+    let mant = 0;
+    let digits = 0;
+    let sig = 0; // significant digits accumulated into mant
+    let scale = 0; // decimal exponent adjustment
+    let sawDigit = false;
+    while (p < n) {
+      c = b[p]!;
+      const d = c - 48;
+      if (d < 0 || d > 9) break;
+      sawDigit = true;
+      if (sig < 18) {
+        if (mant !== 0 || d !== 0) sig++;
+        mant = mant * 10 + d;
+      } else scale++;
+      digits++;
+      p++;
+    }
+    if (p < n && b[p] === 46 /* . */) {
+      p++;
+      while (p < n) {
+        c = b[p]!;
+        const d = c - 48;
+        if (d < 0 || d > 9) break;
+        sawDigit = true;
+        if (sig < 18) {
+          if (mant !== 0 || d !== 0) sig++;
+          mant = mant * 10 + d;
+          scale--;
+        }
+        digits++;
+        p++;
+      }
+    }
+    if (!sawDigit) return null;
+    let exp = 0;
+    if (p < n) {
+      c = b[p]!;
+      if (c === 101 || c === 69 || c === 100 || c === 68 /* e E d D */) {
+        let q = p + 1;
+        let eneg = false;
+        if (b[q] === 45) {
+          eneg = true;
+          q++;
+        } else if (b[q] === 43) q++;
+        let ed = 0;
+        let ev = 0;
+        while (q < n) {
+          const d = b[q]! - 48;
+          if (d < 0 || d > 9) break;
+          if (ev < 100000) ev = ev * 10 + d;
+          ed++;
+          q++;
+        }
+        if (ed === 0) return null;
+        exp = eneg ? -ev : ev;
+        p = q;
+      } else if ((c === 45 || c === 43) && digits > 0) {
+        // Fortran sometimes drops the E when the exponent has three digits: 0.1234-105.
+        let q = p + 1;
+        let ev = 0;
+        let ed = 0;
+        while (q < n) {
+          const d = b[q]! - 48;
+          if (d < 0 || d > 9) break;
+          ev = ev * 10 + d;
+          ed++;
+          q++;
+        }
+        if (ed >= 2 && ed <= 3 && (q >= n || !isNumberChar(b[q]!))) {
+          exp = c === 45 ? -ev : ev;
+          p = q;
+        }
+      }
+    }
+    // The number must end at a separator.
+    if (p < n) {
+      c = b[p]!;
+      if (!(isSpace(c) || c === NL || c === COMMA || c === 33 /* ! */ || c === 41 /* ) */ || c === 60 /* < */ || c === 59 /* ; */)) {
+        return null;
+      }
+    }
+    this.pos = p;
+    const e10 = scale + exp;
+    let v: number;
+    if (mant === 0) v = 0;
+    else if (sig <= 15 && e10 >= -22 && e10 <= 22) {
+      v = e10 < 0 ? mant / POW10[-e10]! : mant * POW10[e10]!;
+    } else {
+      // Rare: long mantissa or large exponent. Let the runtime round correctly.
+      let s = decodeText(b, start, p).replace(/[dD]/, 'e');
+      if (!/[eE]/.test(s)) s = s.replace(/(\d)([+-]\d+)$/, '$1e$2');
+      v = Math.abs(Number.parseFloat(s));
+    }
+    if (!Number.isFinite(v)) {
+      this.pos = start;
+      return null;
+    }
+    return neg ? -v : v;
+  }
+}
+
+function isNumberChar(c: number): boolean {
+  return (c >= 48 && c <= 57) || c === 46 || c === 101 || c === 69 || c === 45 || c === 43;
+}

@@ -1,0 +1,181 @@
+/**
+ * VASP EIGENVAL: eigenvalues per k-point, with or without the occupation column, one or two spin channels.
+ *
+ *   line 1   NIONS NIONS NBLOCK ISPIN
+ *   line 2   volume a b c POTIM
+ *   line 3   TEBEG
+ *   line 4   'CAR'
+ *   line 5   system name
+ *   line 6   NELECT NKPTS NBANDS
+ *   then per k-point: a blank line, "kx ky kz weight", NBANDS lines "index E [E_down] [occ [occ_down]]"
+ */
+import type { InputFile } from '../../io/fileAccessor';
+import { CancelledError } from '../../errors';
+import { TextScanner } from '../textScanner';
+import type { ReadOptions } from '../types';
+
+export const EIGENVAL_FORMAT = 'vasp-eigenval';
+
+export interface EigenvalData {
+  nSpin: 1 | 2;
+  electrons: number;
+  nk: number;
+  nBands: number;
+  kpoints: Float64Array;
+  weights: Float64Array;
+  energies: Float64Array[];
+  occupations: Float64Array[] | null;
+  system: string;
+  /** Number of k-points the header announced (equals nk unless partial). */
+  announcedK: number;
+  partial: boolean;
+}
+
+export function readEigenval(file: InputFile, options: ReadOptions = {}): EigenvalData {
+  const sc = new TextScanner(file.bytes, file.path, EIGENVAL_FORMAT);
+  if (sc.atEnd()) throw sc.error('the eigenvalue file is empty');
+  sc.integer('the number of ions');
+  sc.integer('the number of ions');
+  sc.integer('the block count');
+  const ispinLine = sc.line;
+  const ispin = sc.integer('ISPIN (1 or 2)');
+  if (ispin !== 1 && ispin !== 2) throw sc.error(`ISPIN must be 1 or 2, found ${ispin}`, ispinLine, 0);
+  sc.nextLine();
+  for (let i = 0; i < 3; i++) {
+    if (!sc.nextLine()) throw sc.error('the header ends early (six lines are expected before the k-points)');
+  }
+  const system = sc.restOfLine().trim();
+  if (sc.atEnd()) throw sc.error('the header ends early: the line with NELECT, NKPTS and NBANDS is missing');
+  const countsLine = sc.line;
+  const electrons = sc.number('the number of electrons (NELECT)');
+  const nkAnnounced = sc.integer('the number of k-points (NKPTS)');
+  const nBands = sc.integer('the number of bands (NBANDS)');
+  if (electrons < 0) throw sc.error(`the number of electrons cannot be negative (${electrons})`, countsLine, 0);
+  if (nkAnnounced <= 0) throw sc.error(`the header announces ${nkAnnounced} k-points; at least one is needed`, countsLine, 0);
+  if (nBands <= 0) throw sc.error(`the header announces ${nBands} bands; at least one is needed`, countsLine, 0);
+  const remaining = file.bytes.length - sc.pos;
+  // Every band line holds at least two numbers and a newline: refuse counts the file cannot possibly hold.
+  if (nkAnnounced * nBands * 4 > remaining + 64 && !options.allowPartial) {
+    // Continue: the truncation check below gives the precise location. This only guards allocation.
+  }
+  const maxK = Math.min(nkAnnounced, Math.floor(remaining / Math.max(1, 4 * nBands)) + 1);
+  sc.nextLine();
+
+  const kpoints = new Float64Array(maxK * 3);
+  const weights = new Float64Array(maxK);
+  const energies: Float64Array[] = [];
+  for (let s = 0; s < ispin; s++) energies.push(new Float64Array(maxK * nBands));
+  let occupations: Float64Array[] | null = null;
+  let columns = -1;
+  let nk = 0;
+  const progressEvery = Math.max(1, Math.floor(nkAnnounced / 100));
+  for (let k = 0; k < nkAnnounced; k++) {
+    if (k % progressEvery === 0) {
+      if (options.isCancelled?.()) throw new CancelledError();
+      options.onProgress?.(sc.pos / file.bytes.length);
+    }
+    sc.skipBlankLines();
+    if (sc.atEnd() || k >= maxK) {
+      if (options.allowPartial && k > 0) break;
+      throw sc.error(
+        `the file ends after ${k} of ${nkAnnounced} k-points (it is truncated, or the run is still writing it)`,
+      );
+    }
+    const kx = sc.number(`the first coordinate of k-point ${k + 1}`);
+    const ky = sc.number(`the second coordinate of k-point ${k + 1}`);
+    const kz = sc.number(`the third coordinate of k-point ${k + 1}`);
+    const w = sc.number(`the weight of k-point ${k + 1}`);
+    sc.endLine(`the weight of k-point ${k + 1}`);
+    const base = k * nBands;
+    let complete = true;
+    for (let b = 0; b < nBands; b++) {
+      if (sc.atEnd()) {
+        if (options.allowPartial) {
+          complete = false;
+          break;
+        }
+        throw sc.error(
+          `the file ends inside k-point ${k + 1} of ${nkAnnounced}, after ${b} of ${nBands} bands (it is truncated, or the run is still writing it)`,
+        );
+      }
+      const lineNo = sc.line;
+      const idx = sc.number(`the band index (k-point ${k + 1}, band ${b + 1})`);
+      if (idx !== b + 1) {
+        throw sc.error(
+          `expected band ${b + 1} of k-point ${k + 1}, found band index ${idx}: the header's NBANDS (${nBands}) does not match the data`,
+          lineNo,
+          1,
+        );
+      }
+      if (columns < 0) {
+        const save = sc.pos;
+        let c = 1;
+        while (!sc.atEol()) {
+          if (sc.tryNumber() === null) sc.token();
+          c++;
+        }
+        sc.pos = save;
+        columns = c;
+        const expectOcc = ispin === 1 ? 3 : 5;
+        const expectNoOcc = ispin === 1 ? 2 : 3;
+        if (columns !== expectOcc && columns !== expectNoOcc) {
+          throw sc.error(
+            `a band line has ${columns} columns; with ISPIN = ${ispin} expected ${expectNoOcc} (index, energies) or ${expectOcc} (with occupations)`,
+          );
+        }
+        if (columns === expectOcc) {
+          occupations = [];
+          for (let s = 0; s < ispin; s++) occupations.push(new Float64Array(maxK * nBands));
+        }
+      }
+      for (let s = 0; s < ispin; s++) energies[s]![base + b] = sc.number(`the energy of band ${b + 1} at k-point ${k + 1}${ispin === 2 ? (s === 0 ? ' (spin up)' : ' (spin down)') : ''}`);
+      if (occupations) {
+        for (let s = 0; s < ispin; s++) occupations[s]![base + b] = sc.number(`the occupation of band ${b + 1} at k-point ${k + 1}`);
+      }
+      if (!sc.atEol()) {
+        throw sc.error(`band ${b + 1} of k-point ${k + 1} has more columns than the first band line (${columns}): "${sc.peekToken()}"`);
+      }
+      sc.nextLine();
+    }
+    if (!complete) break;
+    kpoints[3 * k] = kx;
+    kpoints[3 * k + 1] = ky;
+    kpoints[3 * k + 2] = kz;
+    weights[k] = w;
+    nk = k + 1;
+  }
+  sc.skipBlankLines();
+  if (!sc.atEnd() && nk === nkAnnounced) {
+    throw sc.error(`unexpected data after the last of the ${nkAnnounced} k-points the header announces: "${sc.peekToken()}"`);
+  }
+  options.onProgress?.(1);
+  const trim = (a: Float64Array, n: number): Float64Array => (a.length === n ? a : a.slice(0, n));
+  return {
+    nSpin: ispin as 1 | 2,
+    electrons,
+    nk,
+    nBands,
+    kpoints: trim(kpoints, nk * 3),
+    weights: trim(weights, nk),
+    energies: energies.map((e) => trim(e, nk * nBands)),
+    occupations: occupations ? (occupations as Float64Array[]).map((e) => trim(e, nk * nBands)) : null,
+    system,
+    announcedK: nkAnnounced,
+    partial: nk < nkAnnounced,
+  };
+}
+
+/** Recognise EIGENVAL by its header: four integers, then on line 6 three numbers. */
+export function detectEigenval(head: Uint8Array, name: string): number {
+  const text = new TextDecoder().decode(head.subarray(0, 4096)).replace(/^\uFEFF/, '');
+  const lines = text.split(/\r?\n/);
+  if (lines.length < 7) return 0;
+  const ints = (l: string | undefined): boolean[] => (l ?? '').trim().split(/\s+/).map((t) => /^[+-]?\d+$/.test(t));
+  const l1 = ints(lines[0]);
+  if (l1.length !== 4 || !l1.every(Boolean)) return 0;
+  const l6 = (lines[5] ?? '').trim().split(/\s+/);
+  if (l6.length !== 3 || !l6.every((t) => /^[+-]?\d*\.?\d+([eE][+-]?\d+)?$/.test(t))) return 0;
+  const l2 = (lines[1] ?? '').trim().split(/\s+/);
+  if (l2.length !== 5) return 0.6;
+  return /eigenval/i.test(name) ? 1 : 0.95;
+}

@@ -1,0 +1,226 @@
+/**
+ * A VASP band run: EIGENVAL plus what sits beside it (POSCAR or CONTCAR for the structure, KPOINTS for the
+ * path labels, INCAR for spin-orbit). Each companion is optional; what is missing becomes a warning.
+ */
+import type { BandStructure, InputWarning, KLabel, Mat3, SourceFile, Structure, Vec3 } from '../../model';
+import type { InputFile } from '../../io/fileAccessor';
+import { basename } from '../../io/fileAccessor';
+import type { FormatReader, ReadOptions } from '../types';
+import { sha256Hex } from '../../hash';
+import { ReaderError } from '../../errors';
+import { EIGENVAL_FORMAT, detectEigenval, readEigenval } from './eigenval';
+import { readPoscarWithScale } from './poscar';
+import { kpointsCartesianToFractional, readKpoints, type LineModePath } from './kpoints';
+import { readIncarFlags } from './incar';
+
+const STRUCTURE_NAMES = ['CONTCAR', 'POSCAR'];
+
+function sameK(a: Vec3, b: ArrayLike<number>, off: number, tol = 2e-4): boolean {
+  return Math.abs(a[0] - b[off]!) < tol && Math.abs(a[1] - b[off + 1]!) < tol && Math.abs(a[2] - b[off + 2]!) < tol;
+}
+
+export const vaspEigenvalReader: FormatReader = {
+  id: EIGENVAL_FORMAT,
+  label: 'VASP EIGENVAL',
+  detect: detectEigenval,
+  companions(mainName: string, siblings: string[]): string[] {
+    // Run folders name files by role; a prefixed eigenvalue file (e.g. "si.EIGENVAL") pairs with
+    // "si.POSCAR" / "si.KPOINTS" when present.
+    const prefix = /^(.*?)(EIGENVAL)(.*)$/i.exec(mainName);
+    const want: string[] = [];
+    for (const role of [...STRUCTURE_NAMES, 'KPOINTS', 'INCAR']) {
+      const candidates = prefix ? [`${prefix[1]}${role}${prefix[3]}`, role] : [role];
+      const hit = candidates.find((c) => siblings.includes(c));
+      if (hit) want.push(hit);
+    }
+    return [...new Set(want)];
+  },
+  read(main: InputFile, companions: InputFile[], options: ReadOptions): BandStructure {
+    const data = readEigenval(main, options);
+    const warnings: InputWarning[] = [];
+    const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: sha256Hex(main.bytes) }];
+    const byRole = (role: string): InputFile | undefined =>
+      companions.find((c) => basename(c.path).toUpperCase().includes(role));
+
+    // Structure: CONTCAR (the final structure) when present and not empty, else POSCAR.
+    let structure: Structure | null = null;
+    let scale = 1;
+    for (const role of STRUCTURE_NAMES) {
+      const f = byRole(role);
+      if (!f || f.bytes.length === 0) continue;
+      try {
+        const r = readPoscarWithScale(f);
+        structure = r.structure;
+        scale = r.scale;
+        files.push({ role: 'structure', path: f.path, sha256: sha256Hex(f.bytes) });
+        break;
+      } catch (e) {
+        if (e instanceof ReaderError) warnings.push({ code: 'structure-unreadable', message: `${e.message}; the structure was not used`, file: f.path, line: e.line });
+        else throw e;
+      }
+    }
+    if (!structure && options.structure) structure = options.structure;
+    let lattice: Mat3 | null = structure?.lattice ?? options.lattice ?? null;
+    if (!lattice) {
+      warnings.push({
+        code: 'no-lattice',
+        message: 'No POSCAR or CONTCAR beside the eigenvalue file: path distances are in fractional units and masses cannot be given in m_e.',
+      });
+    } else if (!structure) {
+      warnings.push({ code: 'no-structure', message: 'No crystal structure: valley degeneracy cannot be determined.' });
+    }
+
+    // Spin-orbit: INCAR when present; otherwise inferred from occupations when they say so.
+    let spinorbit = options.spinorbit ?? false;
+    const incar = byRole('INCAR');
+    if (incar && options.spinorbit === undefined) {
+      const flags = readIncarFlags(incar);
+      if (flags.noncollinear !== null) {
+        spinorbit = flags.noncollinear;
+        files.push({ role: 'settings', path: incar.path, sha256: sha256Hex(incar.bytes) });
+      }
+    } else if (options.spinorbit === undefined && data.occupations && data.nSpin === 1 && data.nk > 0) {
+      let occupied = 0;
+      for (let b = 0; b < data.nBands; b++) occupied += data.occupations[0]![b]!;
+      if (Math.abs(occupied - data.electrons) < 0.5 && Math.abs(occupied * 2 - data.electrons) > 0.5) {
+        spinorbit = true;
+        warnings.push({
+          code: 'spinorbit-inferred',
+          message: 'Occupations hold one electron per band: read as a non-collinear (spin-orbit) run.',
+        });
+      }
+    }
+
+    let { kpoints, weights, energies, occupations, nk } = data;
+    const nBands = data.nBands;
+
+    // Hybrid-functional band runs list the self-consistent mesh (weighted) before the zero-weight path.
+    let firstPath = 0;
+    if (nk > 1 && weights[0]! > 0) {
+      let z = nk;
+      while (z > 0 && weights[z - 1] === 0) z--;
+      if (z > 0 && z < nk) {
+        let allWeighted = true;
+        for (let i = 0; i < z; i++) if (!(weights[i]! > 0)) allWeighted = false;
+        if (allWeighted && nk - z >= 2) firstPath = z;
+      }
+    }
+    if (firstPath > 0) {
+      warnings.push({
+        code: 'mesh-points-dropped',
+        message: `The first ${firstPath} k-points carry weights (the self-consistent mesh of a hybrid-functional run); the band path is the ${nk - firstPath} zero-weight points after them.`,
+      });
+      kpoints = kpoints.slice(firstPath * 3);
+      weights = weights.slice(firstPath);
+      energies = energies.map((e) => e.slice(firstPath * nBands));
+      occupations = occupations ? occupations.map((e) => e.slice(firstPath * nBands)) : null;
+      nk -= firstPath;
+    }
+
+    // Path labels from KPOINTS in line mode.
+    let labels: KLabel[] = [];
+    let sampling: BandStructure['sampling'] = 'points';
+    const kfile = byRole('KPOINTS');
+    if (kfile) {
+      try {
+        const content = readKpoints(kfile);
+        files.push({ role: 'kpath', path: kfile.path, sha256: sha256Hex(kfile.bytes) });
+        if (content.mode === 'line') {
+          sampling = 'path';
+          const r = labelsFromLineMode(content.path, kpoints, nk, structure ? structure.lattice.map((row) => row.map((x) => x / scale)) as Mat3 : null);
+          labels = r.labels;
+          if (r.warning) warnings.push({ code: 'kpath-mismatch', message: r.warning, file: kfile.path });
+        } else {
+          sampling = 'grid';
+        }
+      } catch (e) {
+        if (e instanceof ReaderError) warnings.push({ code: 'kpath-unreadable', message: `${e.message}; labels were not used`, file: kfile.path, line: e.line });
+        else throw e;
+      }
+    } else {
+      warnings.push({ code: 'no-kpath', message: 'No KPOINTS beside the eigenvalue file: high-symmetry labels are recognised from the lattice where possible.' });
+    }
+    if (data.partial) {
+      warnings.push({
+        code: 'partial',
+        message: `The file holds ${data.nk} of the ${data.announcedK} k-points its header announces (a running or interrupted job): results are provisional.`,
+      });
+    }
+    if (lattice === null && options.lattice) lattice = options.lattice;
+    return {
+      source: { format: EIGENVAL_FORMAT, file: main.path, files },
+      lattice,
+      structure,
+      nk,
+      nBands,
+      nSpin: data.nSpin,
+      kpoints,
+      weights,
+      energies,
+      occupations,
+      fermiEnergy: null,
+      electrons: data.electrons,
+      spinorbit,
+      labels,
+      sampling,
+      grid: null,
+      writtenDistance: null,
+      partial: data.partial,
+      warnings,
+    };
+  },
+};
+
+/** Place the KPOINTS segment-end labels on the eigenvalue k-points: by position, checked by coordinates. */
+function labelsFromLineMode(
+  path: LineModePath,
+  kpoints: Float64Array,
+  nk: number,
+  latticeOverScale: Mat3 | null,
+): { labels: KLabel[]; warning: string | null } {
+  let ends = path.ends.map((e) => ({ ...e }));
+  if (path.coordinates === 'cartesian') {
+    if (!latticeOverScale) return { labels: [], warning: 'KPOINTS gives the path in cartesian coordinates but no structure is known: labels were not placed.' };
+    ends = ends.map((e) => ({ ...e, k: kpointsCartesianToFractional(e.k, latticeOverScale) }));
+  }
+  const n = path.pointsPerSegment;
+  const segs = ends.length / 2;
+  const labels = new Map<number, string>();
+  if (nk === n * segs) {
+    let ok = true;
+    for (let s = 0; s < segs; s++) {
+      const a = ends[2 * s]!;
+      const b = ends[2 * s + 1]!;
+      const ia = s * n;
+      const ib = s * n + n - 1;
+      if (!sameK(a.k, kpoints, 3 * ia) || !sameK(b.k, kpoints, 3 * ib)) ok = false;
+      if (a.label) labels.set(ia, a.label);
+      if (b.label) labels.set(ib, b.label);
+    }
+    if (ok) return { labels: toList(labels), warning: null };
+    labels.clear();
+  }
+  // Fall back to matching coordinates: each end labels the k-points equal to it.
+  let matched = 0;
+  for (const e of ends) {
+    if (!e.label) continue;
+    let hit = false;
+    for (let i = 0; i < nk; i++) {
+      if (sameK(e.k, kpoints, 3 * i)) {
+        labels.set(i, e.label);
+        hit = true;
+      }
+    }
+    if (hit) matched++;
+  }
+  const named = ends.filter((e) => e.label).length;
+  const warning =
+    nk === n * segs
+      ? null
+      : `KPOINTS describes ${segs} segments of ${n} points (${n * segs} k-points) but the eigenvalue file has ${nk}; labels were placed by matching coordinates (${matched} of ${named} found).`;
+  return { labels: toList(labels), warning };
+}
+
+function toList(m: Map<number, string>): KLabel[] {
+  return [...m.entries()].sort((a, b) => a[0] - b[0]).map(([index, label]) => ({ index, label }));
+}

@@ -1,0 +1,114 @@
+/**
+ * Geometry of a k-path: cartesian k (Å⁻¹, with the 2π), cumulative distance, straight segments, jumps.
+ *
+ * Segment rules (common practice of line-mode runs):
+ * - a repeated point (the end of one segment written again as the start of the next) continues the path:
+ *   distance does not advance and a new segment starts there;
+ * - a change of direction at a point starts a new segment that shares that point;
+ * - a jump (consecutive points that are both labelled with different labels, e.g. K then U, or a step far
+ *   longer than the path's typical step) starts a new, disconnected segment: distance does not advance.
+ */
+import type { BandStructure, Vec3 } from '../model';
+import { reciprocalLattice, kpointsToCartesian } from './reciprocal';
+
+export interface PathSegment {
+  /** First and last k index (inclusive). */
+  start: number;
+  end: number;
+  startLabel: string | null;
+  endLabel: string | null;
+  /** True when this segment starts with a jump from the previous one (not connected). */
+  afterJump: boolean;
+}
+
+export interface PathTick {
+  distance: number;
+  label: string;
+  index: number;
+}
+
+export interface PathGeometry {
+  /** nk × 3 cartesian k in Å⁻¹, or null when the lattice is unknown. */
+  cartesian: Float64Array | null;
+  /** Cumulative distance along the path. */
+  distance: Float64Array;
+  /** 'inverse-angstrom' with a lattice, 'fractional' without, 'written' when the file gave distances. */
+  units: 'inverse-angstrom' | 'fractional' | 'written';
+  segments: PathSegment[];
+  /** Label ticks; labels meeting at one distance are joined as 'K|U'. */
+  ticks: PathTick[];
+}
+
+const DUP_TOL = 1e-7;
+
+export function pathGeometry(bs: BandStructure): PathGeometry {
+  const nk = bs.nk;
+  const cart = bs.lattice ? kpointsToCartesian(bs.kpoints, reciprocalLattice(bs.lattice)) : null;
+  const pts = cart ?? bs.kpoints;
+  const labelOf = new Map(bs.labels.map((l) => [l.index, l.label]));
+  const step = new Float64Array(nk);
+  for (let i = 1; i < nk; i++) {
+    step[i] = Math.hypot(pts[3 * i]! - pts[3 * i - 3]!, pts[3 * i + 1]! - pts[3 * i - 2]!, pts[3 * i + 2]! - pts[3 * i - 1]!);
+  }
+  const nonzero = Array.from(step.subarray(1)).filter((s) => s > DUP_TOL).sort((a, b) => a - b);
+  const median = nonzero.length ? nonzero[Math.floor(nonzero.length / 2)]! : 0;
+
+  const segments: PathSegment[] = [];
+  const distance = new Float64Array(nk);
+  let segStart = 0;
+  let afterJump = false;
+  let dir: Vec3 | null = null;
+  const close = (end: number, nextAfterJump: boolean): void => {
+    segments.push({ start: segStart, end, startLabel: labelOf.get(segStart) ?? null, endLabel: labelOf.get(end) ?? null, afterJump });
+    afterJump = nextAfterJump;
+  };
+  for (let i = 1; i < nk; i++) {
+    const s = step[i]!;
+    if (s <= DUP_TOL) {
+      // Repeated point: the path continues; a new segment starts here.
+      distance[i] = distance[i - 1]!;
+      if (i - 1 > segStart) close(i - 1, false);
+      segStart = i;
+      dir = null;
+      continue;
+    }
+    const la = labelOf.get(i - 1);
+    const lb = labelOf.get(i);
+    const labelledJump = la !== undefined && lb !== undefined && la !== lb && i - 1 > segStart && (i + 1 >= nk || labelOf.get(i + 1) === undefined);
+    const longJump = median > 0 && s > 4 * median && nonzero.length > 4;
+    if (labelledJump || longJump) {
+      distance[i] = distance[i - 1]!;
+      close(i - 1, true);
+      segStart = i;
+      dir = null;
+      continue;
+    }
+    const d: Vec3 = [(pts[3 * i]! - pts[3 * i - 3]!) / s, (pts[3 * i + 1]! - pts[3 * i - 2]!) / s, (pts[3 * i + 2]! - pts[3 * i - 1]!) / s];
+    if (dir && d[0] * dir[0] + d[1] * dir[1] + d[2] * dir[2] < 1 - 1e-6) {
+      // A turn at point i-1: it ends one segment and starts the next.
+      close(i - 1, false);
+      segStart = i - 1;
+    }
+    dir = d;
+    distance[i] = distance[i - 1]! + s;
+  }
+  if (nk > 0) close(nk - 1, false);
+
+  let units: PathGeometry['units'] = cart ? 'inverse-angstrom' : 'fractional';
+  let dist: Float64Array = distance;
+  if (bs.writtenDistance && (!cart || bs.writtenDistance.length === nk)) {
+    if (!cart) {
+      dist = bs.writtenDistance;
+      units = 'written';
+    }
+  }
+  const ticks: PathTick[] = [];
+  for (const l of bs.labels) {
+    const x = dist[l.index]!;
+    const last = ticks[ticks.length - 1];
+    if (last && Math.abs(last.distance - x) < 1e-9) {
+      if (last.label !== l.label) last.label = `${last.label}|${l.label}`;
+    } else ticks.push({ distance: x, label: l.label, index: l.index });
+  }
+  return { cartesian: cart, distance: dist, units, segments, ticks };
+}

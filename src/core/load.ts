@@ -1,0 +1,85 @@
+/**
+ * From a path (a file or a run folder) to a BandStructure: find the eigenvalue file by content, gather the
+ * companions its reader asks for, read. Uses only the FileAccessor, so it runs in the CLI and the editor.
+ */
+import type { BandStructure } from './model';
+import type { FileAccessor, InputFile } from './io/fileAccessor';
+import { basename, dirname, joinPath } from './io/fileAccessor';
+import { DETECT_HEAD_BYTES, READERS, detectFormat } from './formats/index';
+import type { FormatReader, ReadOptions } from './formats/types';
+import { ValleyscopeError } from './errors';
+
+export interface LoadOptions extends ReadOptions {
+  /** Refuse files larger than this many bytes (0: no limit). */
+  maxBytes?: number;
+}
+
+export interface RunLocation {
+  /** The eigenvalue file. */
+  file: string;
+  reader: FormatReader;
+}
+
+/** Files never worth opening when looking for eigenvalues in a run folder. */
+const SKIP = /^(WAVECAR|CHGCAR|CHG|WAVEDER|PROCAR|DOSCAR|LOCPOT|ELFCAR|AECCAR\d|vaspout\.h5|.*\.valleys\.json|.*\.(wfc\d*|save|hdf5|h5|npy|png|svg|pdf|gz|xz|zip|tar))$/i;
+
+/** Find the eigenvalue file in a folder (by content), or confirm a file's format. */
+export async function locateRun(fs: FileAccessor, path: string): Promise<RunLocation> {
+  const st = await fs.stat(path);
+  if (!st) throw new ValleyscopeError(`${path}: no such file or folder`);
+  if (st.type === 'file') {
+    const head = await fs.readHead(path, DETECT_HEAD_BYTES);
+    const d = detectFormat(head, basename(path));
+    if (!d) throw new ValleyscopeError(`${path}: not an eigenvalue file of a layout Valleyscope reads (${READERS.map((r) => r.label).join(', ')})`);
+    return { file: path, reader: d.reader };
+  }
+  const entries = (await fs.list(path)).filter((e) => e.type === 'file' && !SKIP.test(e.name));
+  let best: { file: string; reader: FormatReader; confidence: number } | null = null;
+  for (const e of entries.sort((a, b) => a.name.localeCompare(b.name))) {
+    const file = joinPath(path, e.name);
+    const head = await fs.readHead(file, DETECT_HEAD_BYTES);
+    const d = detectFormat(head, e.name);
+    if (d && (!best || d.confidence > best.confidence)) best = { file, reader: d.reader, confidence: d.confidence };
+  }
+  if (!best) throw new ValleyscopeError(`${path}: no eigenvalue file found in this folder (looked for ${READERS.map((r) => r.label).join(', ')})`);
+  return { file: best.file, reader: best.reader };
+}
+
+/** Read a run: the eigenvalue file plus the companions its reader wants from the same folder. */
+export async function loadRun(fs: FileAccessor, path: string, options: LoadOptions = {}): Promise<BandStructure> {
+  const loc = await locateRun(fs, path);
+  return readLocated(fs, loc, options);
+}
+
+export async function readLocated(fs: FileAccessor, loc: RunLocation, options: LoadOptions = {}): Promise<BandStructure> {
+  const st = await fs.stat(loc.file);
+  if (options.maxBytes && st && st.size > options.maxBytes) {
+    throw new ValleyscopeError(
+      `${loc.file}: the file is ${(st.size / 1e6).toFixed(0)} MB, above the limit of ${(options.maxBytes / 1e6).toFixed(0)} MB set for this session`,
+    );
+  }
+  const main: InputFile = { path: loc.file, bytes: await fs.readFile(loc.file) };
+  const companions = await readCompanions(fs, loc);
+  return loc.reader.read(main, companions, options);
+}
+
+export async function readCompanions(fs: FileAccessor, loc: RunLocation): Promise<InputFile[]> {
+  const dir = dirname(loc.file);
+  let siblings: string[] = [];
+  try {
+    siblings = (await fs.list(dir)).filter((e) => e.type === 'file').map((e) => e.name);
+  } catch {
+    siblings = [];
+  }
+  const names = loc.reader.companions(basename(loc.file), siblings.filter((n) => n !== basename(loc.file)));
+  const out: InputFile[] = [];
+  for (const n of names) {
+    const p = joinPath(dir, n);
+    try {
+      out.push({ path: p, bytes: await fs.readFile(p) });
+    } catch {
+      // A companion that vanished between listing and reading is simply absent.
+    }
+  }
+  return out;
+}

@@ -1,0 +1,192 @@
+/**
+ * The vocabulary of the whole project: band structures as read from files, and the report that analysis
+ * returns. Pure types and a few constructors; no I/O, no `vscode`.
+ *
+ * Units inside the core: energies in eV, lengths in Å, reciprocal lengths in Å⁻¹ including the 2π,
+ * masses in electron masses m_e. Readers convert once.
+ */
+
+export type Vec3 = [number, number, number];
+/** A 3×3 matrix stored as three rows. For a lattice the rows are a1, a2, a3 in Å. */
+export type Mat3 = [Vec3, Vec3, Vec3];
+
+/** Atoms in the cell: species per atom and fractional positions (nAtoms × 3). */
+export interface Structure {
+  lattice: Mat3;
+  species: string[];
+  positions: Float64Array;
+}
+
+/** A file that contributed to a band structure, with a SHA-256 of its bytes. */
+export interface SourceFile {
+  /** Role of the file in the run: 'eigenvalues', 'structure', 'kpath', 'lattice', ... */
+  role: string;
+  /** Path as given by the caller (relative to the run folder when the run is a folder). */
+  path: string;
+  sha256: string;
+}
+
+export interface BandSource {
+  /** Format id of the main file (e.g. 'vasp-eigenval'). */
+  format: string;
+  /** The main (eigenvalue) file. */
+  file: string;
+  /** Every file used, main file first. */
+  files: SourceFile[];
+}
+
+/** A non-fatal remark about the input, shown to the user beside the results. */
+export interface InputWarning {
+  code: string;
+  message: string;
+  file?: string;
+  line?: number;
+}
+
+export interface KLabel {
+  /** 0-based k-point index. */
+  index: number;
+  /** Display label, Γ spelled as 'Γ'. A jump in the path is written 'K|U'. */
+  label: string;
+}
+
+/** A uniform grid of k-points (e.g. BXSF): k-points are stored in grid order, first index slowest. */
+export interface KGrid {
+  dims: Vec3;
+  /** Grid origin, fractional reciprocal coordinates. */
+  origin: Vec3;
+  /** True when the last point along each axis repeats the first (periodic general grid). */
+  endpointsRepeated: boolean;
+}
+
+export interface BandStructure {
+  source: BandSource;
+  /** Real-space lattice rows in Å, when known. */
+  lattice: Mat3 | null;
+  /** Crystal structure, when known (needed for valley degeneracy). */
+  structure: Structure | null;
+  nk: number;
+  nBands: number;
+  nSpin: 1 | 2;
+  /** nk × 3 fractional reciprocal coordinates. */
+  kpoints: Float64Array;
+  /** nk weights, when the file gives them. */
+  weights: Float64Array | null;
+  /** One array per spin channel, layout [k * nBands + band], eV. */
+  energies: Float64Array[];
+  /** Same layout as energies, when the file gives occupations (0..1 or 0..2 as written). */
+  occupations: Float64Array[] | null;
+  fermiEnergy: number | null;
+  electrons: number | null;
+  /** Non-collinear / spin-orbit run: one electron per band. */
+  spinorbit: boolean;
+  labels: KLabel[];
+  /** 'path' for line-mode runs, 'grid' for uniform meshes, 'points' when unknown. */
+  sampling: 'path' | 'grid' | 'points';
+  grid: KGrid | null;
+  /**
+   * Path distance (Å⁻¹) as written by the file, for layouts that give distances but no k-points
+   * (or when the lattice is unknown). Null when distances are computed from k-points.
+   */
+  writtenDistance: Float64Array | null;
+  /** True when the file ended early (a running job): what is here is complete only up to nk. */
+  partial: boolean;
+  warnings: InputWarning[];
+}
+
+export function energyAt(bs: BandStructure, spin: number, k: number, band: number): number {
+  return bs.energies[spin]![k * bs.nBands + band]!;
+}
+
+export function kpointAt(bs: BandStructure, k: number): Vec3 {
+  return [bs.kpoints[3 * k]!, bs.kpoints[3 * k + 1]!, bs.kpoints[3 * k + 2]!];
+}
+
+export function labelAt(bs: BandStructure, k: number): string | null {
+  for (const l of bs.labels) if (l.index === k) return l.label;
+  return null;
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Report: what analysis returns and the CLI prints with --json. Band indices are 1-based here.
+
+/** A point on a band: the object called P in the CLI contract. */
+export interface BandPoint {
+  /** 1-based band index. */
+  band: number;
+  spin: 0 | 1;
+  /** Fractional reciprocal coordinates. */
+  k: Vec3;
+  eV: number;
+  label: string | null;
+}
+
+export interface DirectGap {
+  eV: number;
+  k: Vec3;
+}
+
+export interface GapReport {
+  eV: number;
+  direct: boolean;
+  vbm: BandPoint;
+  cbm: BandPoint;
+  directGap: DirectGap;
+}
+
+export interface MassFit {
+  /** Where the direction points: the far end's label, or its fractional k written as text. */
+  towards: string;
+  /** Cartesian unit vector of the direction. */
+  direction: Vec3;
+  /** Signed curvature mass in m_e; negative at a maximum. */
+  mass: number;
+  stderr: number;
+  points: number;
+  window_meV: number;
+  method: string;
+  alpha_per_eV?: number;
+  /** Root-mean-square residual of the fit, meV. */
+  residual_meV?: number;
+  warnings?: string[];
+}
+
+export interface MassTensor {
+  /** Principal signed masses, m_e. */
+  principal: Vec3;
+  /** Principal axes, cartesian unit vectors (rows), in the order of `principal`. */
+  axes: Mat3;
+  method: string;
+  points?: number;
+  residual_meV?: number;
+}
+
+export type ExtremumKind = 'vbm' | 'cbm' | 'valley' | 'peak';
+
+export interface ExtremumReport extends BandPoint {
+  kind: ExtremumKind;
+  offset_eV: number;
+  degenerateBands: number;
+  valleyDegeneracy: number | null;
+  masses: MassFit[];
+  tensor: MassTensor | null;
+  dosMass: number | null;
+  conductivityMass: number | null;
+  warnings: string[];
+}
+
+export interface Report {
+  file: string;
+  format: string;
+  nk: number;
+  nbands: number;
+  nspin: number;
+  electrons: number | null;
+  metal: boolean | null;
+  gap: GapReport | null;
+  extrema: ExtremumReport[];
+  /** Per spin channel gaps (spin-polarised runs only). */
+  spinGaps?: (GapReport | null)[];
+  warnings: string[];
+  cautions: string[];
+}
