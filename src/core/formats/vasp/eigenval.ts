@@ -99,6 +99,11 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
         );
       }
       const lineNo = sc.line;
+      if (sc.lineIsBlank()) {
+        throw sc.error(
+          `k-point ${k + 1} lists ${b} bands, but the header's NBANDS is ${nBands}: the header does not match the data`,
+        );
+      }
       const idx = sc.number(`the band index (k-point ${k + 1}, band ${b + 1})`);
       if (idx !== b + 1) {
         throw sc.error(

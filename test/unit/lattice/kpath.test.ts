@@ -1,0 +1,57 @@
+import assert from 'node:assert/strict';
+import { pathGeometry } from '../../../src/core/lattice/kpath';
+import { fccLattice, line, makeBands } from '../../support/bandStructure';
+
+// fcc with conventional constant a: in fractional reciprocal coordinates of the primitive cell
+// a1=(0,a/2,a/2), a2=(a/2,0,a/2), a3=(a/2,a/2,0): X = (0.5, 0, 0.5) = 2π/a (0,1,0),
+// L = (0.5,0.5,0.5) = π/a (1,1,1), W = (0.5,0.25,0.75) = 2π/a (1/2,1,0), K = (0.375,0.375,0.75) =
+// 2π/a (3/4,3/4,0), U = (0.625,0.25,0.625) = 2π/a (1/4,1,1/4) (Setyawan & Curtarolo 2010, Table for FCC).
+const a = 5.43;
+const G = [0, 0, 0];
+const X = [0.5, 0, 0.5];
+const W = [0.5, 0.25, 0.75];
+const K = [0.375, 0.375, 0.75];
+const U = [0.625, 0.25, 0.625];
+const L = [0.5, 0.5, 0.5];
+
+describe('k-path geometry', () => {
+  it('gives hand-computed fcc distances and segments for a line-mode path with repeated ends and a jump', () => {
+    const n = 11;
+    const kpts = [...line(G, X, n), ...line(X, W, n), ...line(K, G, n), ...line(U, X, n), ...line(X, L, n)];
+    const e = kpts.map(() => [0]);
+    const labels = [
+      { index: 0, label: 'Γ' }, { index: 10, label: 'X' }, { index: 11, label: 'X' }, { index: 21, label: 'W' },
+      { index: 22, label: 'K' }, { index: 32, label: 'Γ' }, { index: 33, label: 'U' }, { index: 43, label: 'X' },
+      { index: 44, label: 'X' }, { index: 54, label: 'L' },
+    ];
+    const g = pathGeometry(makeBands({ kpoints: kpts, energies: [e], lattice: fccLattice(a), labels }));
+    const u = (2 * Math.PI) / a;
+    // Hand-computed: |Γ−X| = 2π/a; |X−W| = π/a; |K−Γ| = 2π/a·(3√2/4); |U−X| = 2π/a·(√2/4); |X−L| = 2π/a·(√3/2).
+    const legs = [u, u / 2, (u * 3 * Math.SQRT2) / 4, (u * Math.SQRT2) / 4, (u * Math.sqrt(3)) / 2];
+    const expectEnd = (i: number, d: number): void => assert.ok(Math.abs(g.distance[i]! - d) < 1e-9, `distance at ${i}: ${g.distance[i]} vs ${d}`);
+    expectEnd(10, legs[0]!);
+    expectEnd(11, legs[0]!); // repeated X: no advance
+    expectEnd(21, legs[0]! + legs[1]!);
+    expectEnd(22, legs[0]! + legs[1]!); // W → K jump: no advance
+    expectEnd(32, legs[0]! + legs[1]! + legs[2]!);
+    expectEnd(54, legs.reduce((s, x) => s + x, 0));
+    assert.equal(g.units, 'inverse-angstrom');
+    assert.equal(g.segments.length, 5);
+    assert.deepEqual(g.segments.map((s) => [s.start, s.end, s.afterJump]), [[0, 10, false], [11, 21, false], [22, 32, true], [33, 43, true], [44, 54, false]]);
+    assert.deepEqual(g.ticks.map((t) => t.label), ['Γ', 'X', 'W|K', 'Γ|U', 'X', 'L']);
+  });
+
+  it('splits a path without repeated points where its direction turns', () => {
+    const kpts = [...line(G, X, 6), ...line(X, W, 6).slice(1)];
+    const g = pathGeometry(makeBands({ kpoints: kpts, energies: [kpts.map(() => [0])], lattice: fccLattice(a) }));
+    assert.deepEqual(g.segments.map((s) => [s.start, s.end]), [[0, 5], [5, 10]]);
+  });
+
+  it('uses fractional distances without a lattice', () => {
+    const kpts = line(G, X, 3);
+    const g = pathGeometry(makeBands({ kpoints: kpts, energies: [kpts.map(() => [0])] }));
+    assert.equal(g.units, 'fractional');
+    // |(0.5,0,0.5)| = √0.5 in fractional units (analytic).
+    assert.ok(Math.abs(g.distance[2]! - Math.SQRT1_2) < 1e-12);
+  });
+});
