@@ -70,8 +70,16 @@ export function bandPoint(bs: BandStructure, s: EdgeState): BandPoint {
 }
 
 /** Smallest same-spin gap at one k between the highest occupied and lowest empty state. */
-export function smallestDirectGap(bs: BandStructure, occ: OccupationRule, spins: number[]): { eV: number; k: number } | null {
-  let best: { eV: number; k: number } | null = null;
+export interface DirectGapState {
+  eV: number;
+  k: number;
+  /** Highest occupied and lowest empty states at that k (same spin). */
+  top: EdgeState;
+  bottom: EdgeState;
+}
+
+export function smallestDirectGap(bs: BandStructure, occ: OccupationRule, spins: number[]): DirectGapState | null {
+  let best: DirectGapState | null = null;
   const nb = bs.nBands;
   for (const s of spins) {
     const e = bs.energies[s]!;
@@ -79,12 +87,24 @@ export function smallestDirectGap(bs: BandStructure, occ: OccupationRule, spins:
     for (let k = 0; k < bs.nk; k++) {
       let hi = -Infinity;
       let lo = Infinity;
+      let hb = -1;
+      let lb = -1;
       for (let b = 0; b < nb; b++) {
         const x = e[k * nb + b]!;
-        if (o[k * nb + b]) hi = Math.max(hi, x);
-        else lo = Math.min(lo, x);
+        if (o[k * nb + b]) {
+          if (x >= hi) {
+            hi = x;
+            hb = b;
+          }
+        } else if (x < lo) {
+          lo = x;
+          lb = b;
+        }
       }
-      if (Number.isFinite(hi) && Number.isFinite(lo) && (!best || lo - hi < best.eV)) best = { eV: lo - hi, k };
+      if (hb >= 0 && lb >= 0 && (!best || lo - hi < best.eV)) {
+        const spin = s as 0 | 1;
+        best = { eV: lo - hi, k, top: { spin, k, band: hb, energy: hi }, bottom: { spin, k, band: lb, energy: lo } };
+      }
     }
   }
   return best;
@@ -100,9 +120,10 @@ export function gapReport(bs: BandStructure, occ: OccupationRule, vbm: EdgeState
   let v = vbm;
   let c = cbm;
   if (direct && v.k !== c.k) {
-    // The edges are degenerate in k (e.g. Γ written twice): report both at the direct-gap k.
-    v = { ...v, k: dg.k };
-    c = { ...c, k: dg.k };
+    // The edges are degenerate in k (e.g. Γ written twice, or equivalent points): report both at the
+    // k of the direct gap, with the bands found there.
+    v = dg.top;
+    c = dg.bottom;
   }
   return { eV, direct, vbm: bandPoint(bs, v), cbm: bandPoint(bs, c), directGap: { eV: dg.eV, k: kpointAt(bs, dg.k) } };
 }
