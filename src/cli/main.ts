@@ -5,6 +5,7 @@
 import { UsageError } from './args';
 import { processIO, type CliIO } from './io';
 import { ANALYZE_HELP, runAnalyze } from './commands/analyze';
+import { COMPARE_HELP, runCompare } from './commands/compare';
 import { isValleyscopeError } from '../core/errors';
 
 export interface Command {
@@ -14,6 +15,7 @@ export interface Command {
 
 export const COMMANDS: Record<string, Command> = {
   analyze: { help: ANALYZE_HELP, run: runAnalyze },
+  compare: { help: COMPARE_HELP, run: runCompare },
 };
 
 export function usage(): string {

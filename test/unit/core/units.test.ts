@@ -10,7 +10,7 @@ import {
   thermalEnergyEv,
 } from '../../../src/core/units';
 
-const math = create(all);
+const math = create(all!);
 
 describe('units (CODATA 2018)', () => {
   it('ħ²/m_e is 7.6199642 eV·Å²', () => {

@@ -99,7 +99,7 @@ describe('VASP EIGENVAL reader', () => {
       const d = readEigenval(f('EIGENVAL', eigenval({ ispin: 2, kpts: path3, bands: bands6, occ })));
       assert.equal(d.nSpin, 2);
       assert.equal(d.energies.length, 2);
-      assert.ok(Math.abs(d.energies[1]![4] - 1.3) < 1e-12);
+      assert.ok(Math.abs(d.energies[1]![4]! - 1.3) < 1e-12);
       assert.equal(d.occupations === null, !occ);
     }
   });

@@ -1,0 +1,49 @@
+/** `valleyscope compare <runs…> [--reference <run>] [--format table|csv|md|json] [analysis flags]` */
+import { flag, parseArgs, UsageError } from '../args';
+import { nodeFileAccessor } from '../nodeFileAccessor';
+import { loadRun } from '../../core/load';
+import { analyzeBandStructure } from '../../core/analysis/analyze';
+import { compareRuns, type RunInput } from '../../core/compare/compareRuns';
+import { formatComparison, type ComparisonFormat } from '../../core/compare/formatComparison';
+import { crystalSymmetry, ensureSymmetryReady } from '../../core/lattice/symmetry';
+import { ANALYSIS_FLAGS, analysisSettingsFromArgs } from './analyze';
+import type { CliIO } from '../io';
+
+export const COMPARE_HELP = `valleyscope compare <run> <run> [...] [options]
+  Compare runs (eigenvalue files or run folders): gap, edges, valleys matched up to symmetry, masses,
+  valley degeneracy, and strain relative to the reference run.
+  --reference <run>          the run the differences are taken against (default: the first)
+  --format table|csv|md|json table (default); md is ready to paste into a review comment
+  --window, --method, --range, --soc   as for analyze`;
+
+const FORMATS: ComparisonFormat[] = ['table', 'csv', 'md', 'json'];
+
+export async function runCompare(argv: string[], io: CliIO): Promise<number> {
+  const p = parseArgs(argv, { reference: { value: true }, format: { value: true }, ...ANALYSIS_FLAGS });
+  if (p.positional.length < 2) throw new UsageError('compare needs at least two runs');
+  const format = (flag(p, 'format') ?? 'table') as ComparisonFormat;
+  if (!FORMATS.includes(format)) throw new UsageError(`--format must be one of ${FORMATS.join(', ')}, got "${format}"`);
+  const reference = flag(p, 'reference');
+  if (reference !== undefined && !p.positional.includes(reference)) {
+    throw new UsageError(`--reference must be one of the runs given, got "${reference}"`);
+  }
+  const settings = analysisSettingsFromArgs(p);
+  await ensureSymmetryReady();
+  const runs: RunInput[] = [];
+  for (const path of p.positional) {
+    const bs = await loadRun(nodeFileAccessor, path, p.flags.has('soc') ? { spinorbit: true } : {});
+    const report = analyzeBandStructure(bs, settings);
+    let rotations = null;
+    if (bs.structure) {
+      try {
+        rotations = crystalSymmetry(bs.structure).rotations;
+      } catch {
+        rotations = null;
+      }
+    }
+    runs.push({ name: path, report, lattice: bs.lattice, rotations, origin: 'data' });
+  }
+  const c = compareRuns(runs, reference);
+  io.out(formatComparison(c, format));
+  return 0;
+}

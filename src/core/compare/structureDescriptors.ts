@@ -1,0 +1,70 @@
+/**
+ * Structural descriptors of a run, to serve as the x-axis of trends: lattice parameters, angles, volume,
+ * and strain relative to a reference lattice (Green–Lagrange strain E = (FᵀF − I)/2 with F the deformation
+ * gradient taking the reference cell to this one; for small strains E ≈ the engineering strain).
+ */
+import type { Mat3 } from '../model';
+import { det3, mat3Inverse, mulMat, norm, transpose3, dot } from '../lattice/linalg';
+
+export interface StructureDescriptors {
+  a: number;
+  b: number;
+  c: number;
+  alpha: number;
+  beta: number;
+  gamma: number;
+  /** Cell volume, Å³. */
+  volume: number;
+  /** Relative to the reference run, when one is given. */
+  volumeStrain: number | null;
+  /** Green–Lagrange strain tensor (cartesian), relative to the reference. */
+  strain: Mat3 | null;
+  /** Mean of the diagonal strain components (hydrostatic part). */
+  hydrostaticStrain: number | null;
+}
+
+const deg = (x: number): number => (x * 180) / Math.PI;
+
+export function latticeParameters(lattice: Mat3): Pick<StructureDescriptors, 'a' | 'b' | 'c' | 'alpha' | 'beta' | 'gamma' | 'volume'> {
+  const [a1, a2, a3] = lattice;
+  const a = norm(a1);
+  const b = norm(a2);
+  const c = norm(a3);
+  return {
+    a,
+    b,
+    c,
+    alpha: deg(Math.acos(dot(a2, a3) / (b * c))),
+    beta: deg(Math.acos(dot(a1, a3) / (a * c))),
+    gamma: deg(Math.acos(dot(a1, a2) / (a * b))),
+    volume: Math.abs(det3(lattice)),
+  };
+}
+
+/**
+ * Deformation gradient F with rows of `lattice` = rows of `reference` · Fᵀ, i.e. a_i = F a_i^ref.
+ * Both lattices must describe the same cell choice (same primitive vectors, deformed).
+ */
+export function deformationGradient(reference: Mat3, lattice: Mat3): Mat3 {
+  // L = R Fᵀ  →  Fᵀ = R⁻¹ L.
+  return transpose3(mulMat(mat3Inverse(reference), lattice));
+}
+
+export function greenLagrangeStrain(reference: Mat3, lattice: Mat3): Mat3 {
+  const F = deformationGradient(reference, lattice);
+  const C = mulMat(transpose3(F), F);
+  return C.map((row, i) => row.map((x, j) => (x - (i === j ? 1 : 0)) / 2)) as Mat3;
+}
+
+export function structureDescriptors(lattice: Mat3, reference: Mat3 | null): StructureDescriptors {
+  const p = latticeParameters(lattice);
+  if (!reference) return { ...p, volumeStrain: null, strain: null, hydrostaticStrain: null };
+  const v0 = Math.abs(det3(reference));
+  const strain = greenLagrangeStrain(reference, lattice);
+  return {
+    ...p,
+    volumeStrain: p.volume / v0 - 1,
+    strain,
+    hydrostaticStrain: (strain[0][0] + strain[1][1] + strain[2][2]) / 3,
+  };
+}

@@ -1,0 +1,118 @@
+import assert from 'node:assert/strict';
+import { compareRuns, type RunInput } from '../../../src/core/compare/compareRuns';
+import { formatComparison } from '../../../src/core/compare/formatComparison';
+import { structureDescriptors } from '../../../src/core/compare/structureDescriptors';
+import type { ExtremumReport, GapReport, Mat3, Report, Vec3 } from '../../../src/core/model';
+import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
+import { fccLattice } from '../../support/bandStructure';
+
+// Hand-made reports of a silicon-like crystal (numbers invented for the test, not physical claims).
+function ext(kind: ExtremumReport['kind'], band: number, k: Vec3, eV: number, offset: number, label: string | null, masses: [string, number][], nv: number | null = null): ExtremumReport {
+  return {
+    kind, band, spin: 0, k, eV, label, offset_eV: offset, degenerateBands: 1, valleyDegeneracy: nv,
+    masses: masses.map(([towards, mass]) => ({ towards, direction: [1, 0, 0], mass, stderr: 0.001, points: 7, window_meV: 25, method: 'parabola' })),
+    tensor: null, dosMass: null, conductivityMass: null, warnings: [],
+  };
+}
+
+function report(extrema: ExtremumReport[]): Report {
+  const vbm = extrema.find((e) => e.kind === 'vbm')!;
+  const cbm = extrema.find((e) => e.kind === 'cbm')!;
+  const gap: GapReport = {
+    eV: cbm.eV - vbm.eV, direct: false,
+    vbm: { band: vbm.band, spin: 0, k: vbm.k, eV: vbm.eV, label: vbm.label },
+    cbm: { band: cbm.band, spin: 0, k: cbm.k, eV: cbm.eV, label: cbm.label },
+    directGap: { eV: 3, k: [0, 0, 0] },
+  };
+  return { file: 'x', format: 'test', nk: 1, nbands: 8, nspin: 1, electrons: 8, metal: false, gap, extrema, warnings: [], cautions: [] };
+}
+
+const G: Vec3 = [0, 0, 0];
+const D: Vec3 = [0.425, 0, 0.425]; // 0.85 of Γ–X in the fcc primitive basis
+const L: Vec3 = [0.5, 0.5, 0.5];
+const a = 5.43;
+
+describe('comparing runs', () => {
+  it('gives differences against the reference on a hand-made pair', () => {
+    const A = report([ext('vbm', 4, G, 0, 0, 'Γ', [['X', -0.5]]), ext('cbm', 5, D, 1.0, 0, null, [['Γ', 0.9], ['X', 0.92]])]);
+    const B = report([ext('vbm', 4, G, 0.1, 0, 'Γ', [['X', -0.55]]), ext('cbm', 5, D, 1.3, 0, null, [['Γ', 0.99], ['X', 0.92]])]);
+    const c = compareRuns([{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }]);
+    const b = c.runs[1]!;
+    // Hand arithmetic: gap 1.0 → 1.2 eV; Γ-ward mass 0.9 → 0.99 is +10 %.
+    assert.ok(Math.abs(b.deltaGap_eV! - 0.2) < 1e-12);
+    const cbmCol = c.columns.find((x) => x.side === 'conduction')!;
+    const m = b.valleys[cbmCol.id]!.masses.find((x) => x.towards === 'Γ')!;
+    assert.ok(Math.abs(m.relativeChange! - 0.1) < 1e-12);
+    assert.equal(c.events.length, 0);
+  });
+
+  it('matches extrema whose band indices moved (more semicore bands in one run)', () => {
+    const A = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, D, 1, 0, null, [['X', 0.9]])]);
+    const B = report([ext('vbm', 9, G, 0, 0, 'Γ', []), ext('cbm', 10, D, 1, 0, null, [['X', 0.91]])]);
+    const c = compareRuns([{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }]);
+    assert.equal(c.columns.length, 2);
+    assert.equal(c.runs[1]!.cbmValley, c.runs[0]!.cbmValley);
+  });
+
+  it('matches symmetry-equivalent valleys (a Δ valley written along another cube axis)', async () => {
+    await ensureSymmetryReady();
+    const lattice = fccLattice(a);
+    const rotations = crystalSymmetry({ lattice, species: ['Si', 'Si'], positions: Float64Array.from([0, 0, 0, 0.25, 0.25, 0.25]) }).rotations;
+    // (0.425,0.425,0) is 0.85 of Γ→X along another cube axis: equivalent under O_h (Setyawan & Curtarolo fcc points).
+    const A = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, D, 1, 0, null, [])]);
+    const B = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, [0.425, 0.425, 0], 1, 0, null, [])]);
+    const c = compareRuns([
+      { name: 'a', report: A, lattice, rotations },
+      { name: 'b', report: B, lattice, rotations },
+    ]);
+    assert.equal(c.columns.length, 2);
+    assert.equal(c.events.filter((e) => e.kind === 'edge-moved').length, 0);
+  });
+
+  it('reports a valley-ordering flip as the edge moving, not as a huge mass change', () => {
+    // Reference: CBM at Δ, L valley 150 meV higher. Strained: L drops below Δ.
+    const A = report([
+      ext('vbm', 4, G, 0, 0, 'Γ', []),
+      ext('cbm', 5, D, 1.0, 0, null, [['X', 0.92]]),
+      ext('valley', 5, L, 1.15, 0.15, 'L', [['Γ', 1.6]]),
+    ]);
+    const B = report([
+      ext('vbm', 4, G, 0, 0, 'Γ', []),
+      ext('valley', 5, D, 0.95, 0.05, null, [['X', 0.93]]),
+      ext('cbm', 5, L, 0.9, 0, 'L', [['Γ', 1.58]]),
+    ]);
+    const c = compareRuns([{ name: 'relaxed', report: A, lattice: null }, { name: 'strained', report: B, lattice: null }]);
+    const moved = c.events.find((e) => e.kind === 'edge-moved');
+    assert.ok(moved, 'an edge-moved event');
+    assert.match(moved.message, /conduction band minimum moved from valley c1 .* to valley c2 \(L\)/);
+    const s = c.runs[1]!;
+    for (const v of Object.values(s.valleys)) for (const m of v.masses) if (m.relativeChange !== null) assert.ok(Math.abs(m.relativeChange) < 0.05);
+    const md = formatComparison(c, 'md');
+    assert.match(md, /\| run \| gap \(eV\)/);
+    assert.match(md, /What changed/);
+    const csv = formatComparison(c, 'csv').split('\n');
+    assert.equal(csv.length, 3);
+  });
+
+  it('describes strain relative to the reference lattice', () => {
+    const ref: Mat3 = fccLattice(a);
+    const strained: Mat3 = fccLattice(a * 1.01);
+    const d = structureDescriptors(strained, ref);
+    // Hydrostatic 1 %: V/V0 − 1 = 1.01³ − 1; Green–Lagrange ε = (1.01² − 1)/2 on the diagonal (analytic).
+    assert.ok(Math.abs(d.volumeStrain! - (1.01 ** 3 - 1)) < 1e-12);
+    assert.ok(Math.abs(d.strain![0][0] - (1.01 ** 2 - 1) / 2) < 1e-12);
+    assert.ok(Math.abs(d.strain![0][1]) < 1e-12);
+    // fcc primitive: |a_i| = a/√2 and 60° between vectors (analytic).
+    assert.ok(Math.abs(d.a - (a * 1.01) / Math.SQRT2) < 1e-12);
+    assert.ok(Math.abs(d.gamma - 60) < 1e-9);
+  });
+
+  it('uses the named reference run', () => {
+    const A = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, D, 1, 0, null, [])]);
+    const B = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, D, 1.5, 0, null, [])]);
+    const runs: RunInput[] = [{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }];
+    const c = compareRuns(runs, 'b');
+    assert.equal(c.reference, 'b');
+    assert.ok(Math.abs(c.runs[0]!.deltaGap_eV! + 0.5) < 1e-12);
+  });
+});
