@@ -148,6 +148,8 @@ export interface MassFit {
   alpha_per_eV?: number;
   /** Root-mean-square residual of the fit, meV. */
   residual_meV?: number;
+  /** At a degenerate edge: the branch (1-based, by energy at the first step) followed by smooth continuation. */
+  branch?: number;
   warnings?: string[];
 }
 
@@ -159,6 +161,8 @@ export interface MassTensor {
   method: string;
   points?: number;
   residual_meV?: number;
+  /** Standard errors of the principal masses, m_e. */
+  stderr?: Vec3;
 }
 
 export type ExtremumKind = 'vbm' | 'cbm' | 'valley' | 'peak';
