@@ -28,6 +28,7 @@ export async function locateRun(fs: FileAccessor, path: string): Promise<RunLoca
   const st = await fs.stat(path);
   if (!st) throw new ValleyscopeError(`${path}: no such file or folder`);
   if (st.type === 'file') {
+    if (st.size === 0) throw new ValleyscopeError(`${path}: the file is empty`);
     const head = await fs.readHead(path, DETECT_HEAD_BYTES);
     const d = detectFormat(head, basename(path));
     if (!d) throw new ValleyscopeError(`${path}: not an eigenvalue file of a layout Valleyscope reads (${READERS.map((r) => r.label).join(', ')})`);
