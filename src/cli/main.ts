@@ -7,6 +7,7 @@ import { processIO, type CliIO } from './io';
 import { ANALYZE_HELP, runAnalyze } from './commands/analyze';
 import { COMPARE_HELP, runCompare } from './commands/compare';
 import { isValleyscopeError } from '../core/errors';
+import { ensureSymmetryReady } from '../core/lattice/symmetry';
 
 export interface Command {
   help: string;
@@ -48,6 +49,8 @@ export async function main(argv: string[], io: CliIO = processIO): Promise<numbe
     return 0;
   }
   try {
+    // Crystal symmetry (valley degeneracy, label recognition) is synchronous once its module is loaded.
+    await ensureSymmetryReady();
     return await cmd.run(rest, io);
   } catch (e) {
     if (e instanceof UsageError) {

@@ -8,6 +8,7 @@ import { basename, dirname, joinPath } from './io/fileAccessor';
 import { DETECT_HEAD_BYTES, READERS, detectFormat } from './formats/index';
 import type { FormatReader, ReadOptions } from './formats/types';
 import { ValleyscopeError } from './errors';
+import { withInferredLabels } from './lattice/inferLabels';
 
 export interface LoadOptions extends ReadOptions {
   /** Refuse files larger than this many bytes (0: no limit). */
@@ -61,7 +62,8 @@ export async function readLocated(fs: FileAccessor, loc: RunLocation, options: L
   }
   const main: InputFile = { path: loc.file, bytes: await fs.readFile(loc.file) };
   const companions = await readCompanions(fs, loc);
-  return loc.reader.read(main, companions, options);
+  // Without a path file, label the high-symmetry points recognised from the lattice (with a warning).
+  return withInferredLabels(loc.reader.read(main, companions, options));
 }
 
 export async function readCompanions(fs: FileAccessor, loc: RunLocation): Promise<InputFile[]> {

@@ -1,0 +1,33 @@
+/**
+ * Give a run without path labels (no KPOINTS or equivalent) the standard high-symmetry labels recognised from
+ * its lattice, and say so in a warning: inferred labels are a convenience the reviewer should check.
+ */
+import type { BandStructure, InputWarning } from '../model';
+import { isValleyscopeError } from '../errors';
+import { recogniseSpecialPoints } from './specialPoints';
+import { ensureSymmetryReady } from './symmetry';
+
+/** Returns the band structure with inferred labels and a warning, or unchanged when labels exist or none fit. */
+export async function withInferredLabels(bs: BandStructure): Promise<BandStructure> {
+  if (bs.labels.length > 0 || bs.sampling === 'grid' || !(bs.structure?.lattice ?? bs.lattice) || bs.nk === 0) return bs;
+  let warning: InputWarning;
+  try {
+    await ensureSymmetryReady();
+    const r = recogniseSpecialPoints(bs);
+    if (r.labels.length > 0) {
+      const names = [...new Set(r.labels.map((l) => l.label))].join(', ');
+      warning = {
+        code: 'labels-inferred',
+        message:
+          `No path labels were given: ${names} were inferred from the ${r.kind ?? ''} lattice ` +
+          `(${bs.structure ? 'crystal structure' : 'lattice vectors only'}; Setyawan & Curtarolo 2010 convention). Check them against the path that was run.`,
+      };
+      return { ...bs, labels: r.labels, warnings: [...bs.warnings, warning] };
+    }
+    warning = { code: 'labels-not-inferred', message: `No path labels were given and none could be inferred: ${r.reason ?? 'no special point found'}.` };
+  } catch (e) {
+    if (!isValleyscopeError(e) && !(e instanceof Error)) throw e;
+    warning = { code: 'labels-not-inferred', message: `No path labels were given and none could be inferred: ${e.message}.` };
+  }
+  return { ...bs, warnings: [...bs.warnings, warning] };
+}
