@@ -10,6 +10,9 @@ import type { FormatReader, ReadOptions } from './formats/types';
 import { ValleyscopeError } from './errors';
 import { withInferredLabels } from './lattice/inferLabels';
 
+/** Files larger than this are streamed by readers that can (bytes). */
+export const STREAM_ABOVE_BYTES = 32 * 1024 * 1024;
+
 export interface LoadOptions extends ReadOptions {
   /** Refuse files larger than this many bytes (0: no limit). */
   maxBytes?: number;
@@ -60,10 +63,28 @@ export async function readLocated(fs: FileAccessor, loc: RunLocation, options: L
       `${loc.file}: the file is ${(st.size / 1e6).toFixed(0)} MB, above the limit of ${(options.maxBytes / 1e6).toFixed(0)} MB set for this session`,
     );
   }
-  const main: InputFile = { path: loc.file, bytes: await fs.readFile(loc.file) };
   const companions = await readCompanions(fs, loc);
+  // Large files are streamed when both the reader and the file system can: memory then holds the typed
+  // arrays, not the text.
+  if (loc.reader.streaming && fs.openRanged && st && st.size > STREAM_ABOVE_BYTES) {
+    const stream = fs.openRanged(loc.file);
+    try {
+      return await readFromBytes(loc.reader, { path: loc.file, bytes: new Uint8Array(0), stream }, companions, options);
+    } finally {
+      stream.close();
+    }
+  }
+  const main: InputFile = { path: loc.file, bytes: await fs.readFile(loc.file) };
+  return readFromBytes(loc.reader, main, companions, options);
+}
+
+/**
+ * The reading step once the bytes are in memory (the CLI after readLocated's reads, the editor's analysis
+ * worker, which receives bytes): one place, so both give the same band structure.
+ */
+export async function readFromBytes(reader: FormatReader, main: InputFile, companions: InputFile[], options: ReadOptions = {}): Promise<BandStructure> {
   // Without a path file, label the high-symmetry points recognised from the lattice (with a warning).
-  return withInferredLabels(loc.reader.read(main, companions, options));
+  return withInferredLabels(reader.read(main, companions, options));
 }
 
 export async function readCompanions(fs: FileAccessor, loc: RunLocation): Promise<InputFile[]> {
