@@ -1,6 +1,6 @@
 /** The FileAccessor over node's file system, for the CLI. */
-import { promises as fsp } from 'node:fs';
-import type { DirEntry, FileAccessor } from '../core/io/fileAccessor';
+import { closeSync, fstatSync, openSync, promises as fsp, readSync } from 'node:fs';
+import type { ByteRangeSource, DirEntry, FileAccessor } from '../core/io/fileAccessor';
 
 export const nodeFileAccessor: FileAccessor = {
   async readFile(path: string): Promise<Uint8Array> {
@@ -24,6 +24,27 @@ export const nodeFileAccessor: FileAccessor = {
     } catch {
       return null;
     }
+  },
+  openRanged(path: string): ByteRangeSource {
+    const fd = openSync(path, 'r');
+    const size = fstatSync(fd).size;
+    return {
+      size,
+      read(offset: number, length: number): Uint8Array {
+        const n = Math.max(0, Math.min(length, size - offset));
+        const buf = new Uint8Array(n);
+        let got = 0;
+        while (got < n) {
+          const r = readSync(fd, buf, got, n - got, offset + got);
+          if (r === 0) break;
+          got += r;
+        }
+        return got === n ? buf : buf.subarray(0, got);
+      },
+      close(): void {
+        closeSync(fd);
+      },
+    };
   },
   async list(dir: string): Promise<DirEntry[]> {
     const entries = await fsp.readdir(dir, { withFileTypes: true });

@@ -14,14 +14,62 @@ const K = new Uint32Array([
   0xc67178f2,
 ]);
 
-export function sha256Hex(data: Uint8Array): string {
-  const h = new Uint32Array([
+/** Incremental SHA-256: feed bytes in chunks (a large file need never be whole in memory). */
+export class Sha256 {
+  private readonly h = new Uint32Array([
     0x6a09e667, 0xbb67ae85, 0x3c6ef372, 0xa54ff53a, 0x510e527f, 0x9b05688c, 0x1f83d9ab, 0x5be0cd19,
   ]);
-  const w = new Uint32Array(64);
-  const len = data.length;
-  const fullBlocks = Math.floor(len / 64);
-  const processBlock = (block: Uint8Array, off: number): void => {
+  private readonly w = new Uint32Array(64);
+  private readonly pending = new Uint8Array(64);
+  private pendingLength = 0;
+  private length = 0;
+
+  update(data: Uint8Array): this {
+    this.length += data.length;
+    let off = 0;
+    if (this.pendingLength > 0) {
+      const take = Math.min(64 - this.pendingLength, data.length);
+      this.pending.set(data.subarray(0, take), this.pendingLength);
+      this.pendingLength += take;
+      off = take;
+      if (this.pendingLength < 64) return this;
+      this.block(this.pending, 0);
+      this.pendingLength = 0;
+    }
+    for (; off + 64 <= data.length; off += 64) this.block(data, off);
+    if (off < data.length) {
+      this.pending.set(data.subarray(off));
+      this.pendingLength = data.length - off;
+    }
+    return this;
+  }
+
+  hex(): string {
+    const rem = this.pendingLength;
+    const tail = new Uint8Array(rem < 56 ? 64 : 128);
+    tail.set(this.pending.subarray(0, rem));
+    tail[rem] = 0x80;
+    const bitLen = this.length * 8;
+    const hi = Math.floor(bitLen / 0x100000000);
+    const lo = bitLen >>> 0;
+    const t = tail.length;
+    tail[t - 8] = (hi >>> 24) & 0xff;
+    tail[t - 7] = (hi >>> 16) & 0xff;
+    tail[t - 6] = (hi >>> 8) & 0xff;
+    tail[t - 5] = hi & 0xff;
+    tail[t - 4] = (lo >>> 24) & 0xff;
+    tail[t - 3] = (lo >>> 16) & 0xff;
+    tail[t - 2] = (lo >>> 8) & 0xff;
+    tail[t - 1] = lo & 0xff;
+    for (let off = 0; off < t; off += 64) this.block(tail, off);
+    let out = '';
+    for (let i = 0; i < 8; i++) out += this.h[i]!.toString(16).padStart(8, '0');
+    return out;
+  }
+
+  private block(block: Uint8Array, off: number): void {
+    const w = this.w;
+    const h = this.h;
     for (let i = 0; i < 16; i++) {
       const j = off + 4 * i;
       w[i] = ((block[j]! << 24) | (block[j + 1]! << 16) | (block[j + 2]! << 8) | block[j + 3]!) >>> 0;
@@ -58,26 +106,9 @@ export function sha256Hex(data: Uint8Array): string {
     h[5] = (h[5]! + f) >>> 0;
     h[6] = (h[6]! + g) >>> 0;
     h[7] = (h[7]! + hh) >>> 0;
-  };
-  for (let b = 0; b < fullBlocks; b++) processBlock(data, 64 * b);
-  const rem = len - 64 * fullBlocks;
-  const tail = new Uint8Array(rem < 56 ? 64 : 128);
-  tail.set(data.subarray(64 * fullBlocks));
-  tail[rem] = 0x80;
-  const bitLen = len * 8;
-  const hi = Math.floor(bitLen / 0x100000000);
-  const lo = bitLen >>> 0;
-  const t = tail.length;
-  tail[t - 8] = (hi >>> 24) & 0xff;
-  tail[t - 7] = (hi >>> 16) & 0xff;
-  tail[t - 6] = (hi >>> 8) & 0xff;
-  tail[t - 5] = hi & 0xff;
-  tail[t - 4] = (lo >>> 24) & 0xff;
-  tail[t - 3] = (lo >>> 16) & 0xff;
-  tail[t - 2] = (lo >>> 8) & 0xff;
-  tail[t - 1] = lo & 0xff;
-  for (let off = 0; off < t; off += 64) processBlock(tail, off);
-  let out = '';
-  for (let i = 0; i < 8; i++) out += h[i]!.toString(16).padStart(8, '0');
-  return out;
+  }
+}
+
+export function sha256Hex(data: Uint8Array): string {
+  return new Sha256().update(data).hex();
 }

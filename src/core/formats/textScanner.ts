@@ -4,6 +4,7 @@
  * expression per number, no intermediate string per value.
  */
 import { ReaderError } from '../errors';
+import type { ByteRangeSource } from '../io/fileAccessor';
 
 const NL = 10;
 const CR = 13;
@@ -25,8 +26,12 @@ export function decodeText(bytes: Uint8Array, start = 0, end = bytes.length): st
   return new TextDecoder('utf-8', { fatal: false }).decode(bytes.subarray(start, end));
 }
 
+/** Bytes read per refill when streaming. */
+export const STREAM_CHUNK_BYTES = 16 * 1024 * 1024;
+
 export class TextScanner {
-  readonly bytes: Uint8Array;
+  /** The current window of the file (the whole file unless streaming). */
+  bytes: Uint8Array;
   readonly file: string;
   readonly format: string;
   pos: number;
@@ -36,6 +41,25 @@ export class TextScanner {
   lineStart: number;
   /** Whether commas count as separators (some layouts use them). */
   commaIsSpace = false;
+
+  private source: ByteRangeSource | null = null;
+  /** File offset of bytes[0]. */
+  private windowOffset = 0;
+  /** File offset of the next byte not yet read from the source. */
+  private nextRead = 0;
+  /** Called with every chunk read from a source (e.g. to hash the file while streaming). */
+  onChunk: ((chunk: Uint8Array) => void) | null = null;
+
+  /** A scanner that reads a large file in windows through a ranged source. */
+  static streaming(source: ByteRangeSource, file: string, format: string, onChunk?: (chunk: Uint8Array) => void): TextScanner {
+    const first = source.read(0, Math.min(STREAM_CHUNK_BYTES, source.size));
+    onChunk?.(first);
+    const sc = new TextScanner(first, file, format);
+    sc.source = source;
+    sc.nextRead = first.length;
+    sc.onChunk = onChunk ?? null;
+    return sc;
+  }
 
   constructor(bytes: Uint8Array, file: string, format: string) {
     this.bytes = bytes;
@@ -51,7 +75,60 @@ export class TextScanner {
   }
 
   atEnd(): boolean {
-    return this.pos >= this.bytes.length;
+    return this.pos >= this.bytes.length && (this.source === null || this.nextRead >= this.source.size);
+  }
+
+  /** Total size of the file, in bytes. */
+  get fileSize(): number {
+    return this.source ? this.source.size : this.bytes.length;
+  }
+
+  /** Offset of the cursor in the file. */
+  get filePosition(): number {
+    return this.windowOffset + this.pos;
+  }
+
+  /** Bytes of the file not yet consumed. */
+  get remainingBytes(): number {
+    return this.fileSize - this.filePosition;
+  }
+
+  /**
+   * When streaming: make sure at least `n` bytes from the start of the current line are in the window
+   * (fewer only at the end of the file). Call at record boundaries; a no-op for whole-file scanners.
+   */
+  ensure(n: number): void {
+    const src = this.source;
+    if (!src) return;
+    for (;;) {
+      const available = this.bytes.length - this.lineStart;
+      if (available >= n || this.nextRead >= src.size) return;
+      const keep = this.bytes.subarray(this.lineStart);
+      const chunk = src.read(this.nextRead, Math.max(STREAM_CHUNK_BYTES, n - keep.length));
+      if (chunk.length === 0) return;
+      this.onChunk?.(chunk);
+      this.nextRead += chunk.length;
+      const next = new Uint8Array(keep.length + chunk.length);
+      next.set(keep);
+      next.set(chunk, keep.length);
+      const shift = this.lineStart;
+      this.bytes = next;
+      this.windowOffset += shift;
+      this.pos -= shift;
+      this.lineStart = 0;
+    }
+  }
+
+  /** Read the rest of the file through the source (so a streaming caller's hash covers every byte). */
+  drain(): void {
+    const src = this.source;
+    if (!src) return;
+    while (this.nextRead < src.size) {
+      const chunk = src.read(this.nextRead, STREAM_CHUNK_BYTES);
+      if (chunk.length === 0) break;
+      this.onChunk?.(chunk);
+      this.nextRead += chunk.length;
+    }
   }
 
   error(reason: string, line = this.line, column = this.column): ReaderError {

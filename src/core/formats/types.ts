@@ -27,6 +27,8 @@ export interface FormatReader {
   readonly id: string;
   /** Human name of the layout, e.g. 'VASP EIGENVAL'. */
   readonly label: string;
+  /** True when `read` can take a main file given as a ranged stream (InputFile.stream) instead of bytes. */
+  readonly streaming?: boolean;
   /**
    * Confidence from 0 (not this layout) to 1 (certainly this layout), from the first bytes of the file and
    * its name. Content decides; the name only breaks ties.

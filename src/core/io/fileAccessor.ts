@@ -9,19 +9,31 @@ export interface DirEntry {
   type: 'file' | 'directory';
 }
 
+/** Synchronous ranged reads of one open file, for readers that stream very large files. */
+export interface ByteRangeSource {
+  readonly size: number;
+  /** Up to `length` bytes starting at `offset` (fewer only at the end of the file). */
+  read(offset: number, length: number): Uint8Array;
+  close(): void;
+}
+
 export interface FileAccessor {
   readFile(path: string): Promise<Uint8Array>;
   /** The first `bytes` bytes (or the whole file when shorter). */
   readHead(path: string, bytes: number): Promise<Uint8Array>;
   stat(path: string): Promise<{ type: 'file' | 'directory'; size: number } | null>;
   list(dir: string): Promise<DirEntry[]>;
+  /** Open a file for synchronous ranged reads (node only; absent where the file system cannot). */
+  openRanged?(path: string): ByteRangeSource;
 }
 
 /** A file's name and bytes, as handed to a reader. */
 export interface InputFile {
   /** Path as the user gave it (used in messages). */
   path: string;
+  /** The whole file, unless `stream` is given (then empty: a streaming reader reads through `stream`). */
   bytes: Uint8Array;
+  stream?: ByteRangeSource;
 }
 
 export function basename(path: string): string {

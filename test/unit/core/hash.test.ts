@@ -26,3 +26,23 @@ describe('sha256Hex', () => {
     );
   });
 });
+
+describe('Sha256 (incremental)', () => {
+  it('gives the one-shot digest whatever the chunking', async () => {
+    const { Sha256 } = await import('../../../src/core/hash');
+    // Reference: node's OpenSSL-backed SHA-256.
+    fc.assert(
+      fc.property(fc.uint8Array({ minLength: 0, maxLength: 400 }), fc.array(fc.nat(80), { maxLength: 10 }), (bytes, cuts) => {
+        const h = new Sha256();
+        let off = 0;
+        for (const c of cuts) {
+          h.update(bytes.subarray(off, Math.min(bytes.length, off + c)));
+          off = Math.min(bytes.length, off + c);
+        }
+        h.update(bytes.subarray(off));
+        assert.equal(h.hex(), createHash('sha256').update(bytes).digest('hex'));
+      }),
+      { seed: 3, numRuns: 200 },
+    );
+  });
+});

@@ -12,6 +12,7 @@
 import type { InputFile } from '../../io/fileAccessor';
 import { CancelledError } from '../../errors';
 import { TextScanner } from '../textScanner';
+import { Sha256, sha256Hex } from '../../hash';
 import type { ReadOptions } from '../types';
 
 export const EIGENVAL_FORMAT = 'vasp-eigenval';
@@ -29,10 +30,15 @@ export interface EigenvalData {
   /** Number of k-points the header announced (equals nk unless partial). */
   announcedK: number;
   partial: boolean;
+  /** SHA-256 of the file's bytes. */
+  sha256: string;
 }
 
 export function readEigenval(file: InputFile, options: ReadOptions = {}): EigenvalData {
-  const sc = new TextScanner(file.bytes, file.path, EIGENVAL_FORMAT);
+  const hasher = file.stream ? new Sha256() : null;
+  const sc = file.stream
+    ? TextScanner.streaming(file.stream, file.path, EIGENVAL_FORMAT, (c) => hasher!.update(c))
+    : new TextScanner(file.bytes, file.path, EIGENVAL_FORMAT);
   if (sc.atEnd()) throw sc.error('the eigenvalue file is empty');
   sc.integer('the number of ions');
   sc.integer('the number of ions');
@@ -53,11 +59,9 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
   if (electrons < 0) throw sc.error(`the number of electrons cannot be negative (${electrons})`, countsLine, 0);
   if (nkAnnounced <= 0) throw sc.error(`the header announces ${nkAnnounced} k-points; at least one is needed`, countsLine, 0);
   if (nBands <= 0) throw sc.error(`the header announces ${nBands} bands; at least one is needed`, countsLine, 0);
-  const remaining = file.bytes.length - sc.pos;
-  // Every band line holds at least two numbers and a newline: refuse counts the file cannot possibly hold.
-  if (nkAnnounced * nBands * 4 > remaining + 64 && !options.allowPartial) {
-    // Continue: the truncation check below gives the precise location. This only guards allocation.
-  }
+  const remaining = sc.remainingBytes;
+  // Every band line holds at least two numbers and a newline (4 bytes or more): never allocate for more
+  // k-points than the file can hold (a corrupt header must not exhaust memory).
   const maxK = Math.min(nkAnnounced, Math.floor(remaining / Math.max(1, 4 * nBands)) + 1);
   sc.nextLine();
 
@@ -69,10 +73,13 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
   let columns = -1;
   let nk = 0;
   const progressEvery = Math.max(1, Math.floor(nkAnnounced / 100));
+  // Bytes one k-point block may take, generously: streaming keeps at least two blocks in the window.
+  const blockBytes = (nBands + 3) * 256;
   for (let k = 0; k < nkAnnounced; k++) {
+    sc.ensure(2 * blockBytes);
     if (k % progressEvery === 0) {
       if (options.isCancelled?.()) throw new CancelledError();
-      options.onProgress?.(sc.pos / file.bytes.length);
+      options.onProgress?.(sc.filePosition / sc.fileSize);
     }
     sc.skipBlankLines();
     if (sc.atEnd() || k >= maxK) {
@@ -149,6 +156,7 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
     weights[k] = w;
     nk = k + 1;
   }
+  sc.ensure(blockBytes);
   sc.skipBlankLines();
   if (!sc.atEnd() && nk === nkAnnounced) {
     throw sc.error(`unexpected data after the last of the ${nkAnnounced} k-points the header announces: "${sc.peekToken()}"`);
@@ -167,6 +175,7 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
     system,
     announcedK: nkAnnounced,
     partial: nk < nkAnnounced,
+    sha256: hasher ? (sc.drain(), hasher.hex()) : sha256Hex(file.bytes),
   };
 }
 

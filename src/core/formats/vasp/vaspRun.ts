@@ -22,6 +22,7 @@ function sameK(a: Vec3, b: ArrayLike<number>, off: number, tol = 2e-4): boolean 
 export const vaspEigenvalReader: FormatReader = {
   id: EIGENVAL_FORMAT,
   label: 'VASP EIGENVAL',
+  streaming: true,
   detect: detectEigenval,
   companions(mainName: string, siblings: string[]): string[] {
     // Run folders name files by role; a prefixed eigenvalue file (e.g. "si.EIGENVAL") pairs with
@@ -38,7 +39,7 @@ export const vaspEigenvalReader: FormatReader = {
   read(main: InputFile, companions: InputFile[], options: ReadOptions): BandStructure {
     const data = readEigenval(main, options);
     const warnings: InputWarning[] = [];
-    const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: sha256Hex(main.bytes) }];
+    const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: data.sha256 }];
     const byRole = (role: string): InputFile | undefined =>
       companions.find((c) => basename(c.path).toUpperCase().includes(role));
 
