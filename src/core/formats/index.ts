@@ -3,8 +3,22 @@
  */
 import type { FormatReader } from './types';
 import { vaspEigenvalReader } from './vasp/vaspRun';
+import { vasprunReader } from './vasprun';
+import { qeXmlReader } from './qe/qeXml';
+import { bandsxReader } from './qe/bandsx';
+import { wannier90BandReader } from './wannier90';
+import { bxsfReader } from './bxsf';
+import { castepBandsReader } from './castep';
 
-export const READERS: FormatReader[] = [vaspEigenvalReader];
+export const READERS: FormatReader[] = [
+  vaspEigenvalReader,
+  vasprunReader,
+  qeXmlReader,
+  bandsxReader,
+  wannier90BandReader,
+  bxsfReader,
+  castepBandsReader,
+];
 
 /** Bytes of the head of a file that detection looks at. */
 export const DETECT_HEAD_BYTES = 8192;

@@ -1,0 +1,236 @@
+/**
+ * BXSF band grids (the XCrySDen band-grid layout Wannier90, Quantum ESPRESSO and others write for Fermi
+ * surfaces): energies of several bands on a periodic general grid whose end points repeat the start,
+ * spanned by the reciprocal vectors in Å⁻¹ (with the 2π). Energies are in eV as the writing codes use them.
+ *
+ *    BEGIN_INFO
+ *      Fermi Energy:   5.123
+ *    END_INFO
+ *    BEGIN_BLOCK_BANDGRID_3D
+ *      a comment
+ *      BEGIN_BANDGRID_3D_name
+ *        8                       number of bands
+ *        21 21 21                points along each reciprocal vector (end points included)
+ *        0.0 0.0 0.0             origin
+ *        b1x b1y b1z             reciprocal vectors, Å⁻¹
+ *        b2x b2y b2z
+ *        b3x b3y b3z
+ *      BAND:   1
+ *        e e e e e e ...         n1·n2·n3 values, the last index running fastest
+ *      BAND:   2 ...
+ *      END_BANDGRID_3D
+ *    END_BLOCK_BANDGRID_3D
+ */
+import type { BandStructure, InputWarning, Mat3, Vec3 } from '../model';
+import type { InputFile } from '../io/fileAccessor';
+import type { FormatReader, ReadOptions } from './types';
+import { sha256Hex } from '../hash';
+import { CancelledError } from '../errors';
+import { TextScanner, decodeText } from './textScanner';
+import { det3, mat3Inverse, transpose3 } from '../lattice/linalg';
+import { parseDecimal } from './decimal';
+
+export const BXSF_FORMAT = 'bxsf';
+
+/** Skip to the next line whose first token starts with `prefix` (case-insensitive); returns that token. */
+function seekToken(sc: TextScanner, prefix: string, stopAt: string[] = []): string | null {
+  const p = prefix.toUpperCase();
+  while (!sc.atEnd()) {
+    sc.skipWhitespace();
+    const save = sc.pos;
+    const t = sc.token();
+    if (t === null) {
+      if (!sc.nextLine()) return null;
+      continue;
+    }
+    const u = t.toUpperCase();
+    if (u.startsWith(p)) return t;
+    if (stopAt.some((s) => u.startsWith(s))) {
+      sc.pos = save;
+      return null;
+    }
+    sc.nextLine();
+  }
+  return null;
+}
+
+export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStructure {
+  const sc = new TextScanner(file.bytes, file.path, BXSF_FORMAT);
+  sc.skipBlankLines();
+  if (sc.atEnd()) throw sc.error('the band-grid file is empty');
+  // Header: the Fermi energy, anywhere before the grid block.
+  let fermiEnergy: number | null = null;
+  const headerEnd = (() => {
+    const idx = findAscii(file.bytes, 'BEGIN_BLOCK_BANDGRID_3D');
+    return idx < 0 ? Math.min(file.bytes.length, 65536) : idx;
+  })();
+  const header = decodeText(file.bytes, 0, headerEnd);
+  const fm = /Fermi\s+Energy\s*:?\s*(\S+)/i.exec(header);
+  if (fm) {
+    fermiEnergy = parseDecimal(fm[1]!);
+    if (fermiEnergy === null) {
+      const line = header.slice(0, fm.index).split('\n').length;
+      throw sc.error(`the Fermi energy should be a number, found "${fm[1]}"`, line, 0);
+    }
+  }
+  if (seekToken(sc, 'BEGIN_BLOCK_BANDGRID_3D') === null) throw sc.error('no BEGIN_BLOCK_BANDGRID_3D: this is not a band-grid file, or it is truncated');
+  sc.nextLine();
+  if (seekToken(sc, 'BEGIN_BANDGRID_3D', ['END_BLOCK_BANDGRID_3D']) === null) throw sc.error('no BEGIN_BANDGRID_3D inside the band-grid block');
+  sc.nextLine();
+  sc.skipBlankLines();
+  const countLine = sc.line;
+  const nBands = sc.integer('the number of bands');
+  if (nBands <= 0) throw sc.error(`the grid announces ${nBands} bands; at least one is needed`, countLine, 0);
+  sc.endLine('the number of bands');
+  sc.skipBlankLines();
+  const dimsLine = sc.line;
+  const dims: Vec3 = [sc.integer('the number of grid points along b1'), sc.integer('the number of grid points along b2'), sc.integer('the number of grid points along b3')];
+  sc.endLine('the grid dimensions');
+  if (dims.some((d) => d < 2)) throw sc.error(`each grid dimension must be at least 2 (end points repeated), found ${dims.join(' × ')}`, dimsLine, 0);
+  const nk = dims[0] * dims[1] * dims[2];
+  const remaining = file.bytes.length - sc.pos;
+  if (nk * nBands * 2 > remaining + 16) {
+    if (!options.allowPartial) {
+      throw sc.error(`the grid (${dims.join(' × ')} points, ${nBands} bands) needs more values than the rest of the file can hold: it is truncated or the header is wrong`, dimsLine, 0);
+    }
+  }
+  sc.skipBlankLines();
+  const origin: Vec3 = [sc.numberAcrossLines('the grid origin (x)'), sc.number('the grid origin (y)'), sc.number('the grid origin (z)')];
+  sc.endLine('the grid origin');
+  const rec: Vec3[] = [];
+  for (let i = 0; i < 3; i++) {
+    sc.skipBlankLines();
+    rec.push([sc.number(`reciprocal vector b${i + 1} (x)`), sc.number(`reciprocal vector b${i + 1} (y)`), sc.number(`reciprocal vector b${i + 1} (z)`)]);
+    sc.endLine(`reciprocal vector b${i + 1}`);
+  }
+  const reciprocal = rec as Mat3;
+  if (Math.abs(det3(reciprocal)) < 1e-12) throw sc.error('the reciprocal vectors are linearly dependent', sc.line - 1, 0);
+  // a = 2π (B⁻¹)ᵀ, rows a1, a2, a3.
+  const lattice = transpose3(mat3Inverse(reciprocal)).map((r) => r.map((x) => 2 * Math.PI * x)) as Mat3;
+
+  const maxBands = Math.max(1, Math.min(nBands, Math.floor(remaining / Math.max(1, 2 * nk)) + 1));
+  const bandMajor = new Float64Array(maxBands * nk);
+  let bandsRead = 0;
+  let partial = false;
+  for (let b = 0; b < nBands; b++) {
+    if (options.isCancelled?.()) throw new CancelledError();
+    options.onProgress?.(sc.pos / file.bytes.length);
+    sc.skipBlankLines();
+    if (sc.atEnd() || b >= maxBands) {
+      if (options.allowPartial && b > 0) {
+        partial = true;
+        break;
+      }
+      throw sc.error(`the file ends after ${b} of the ${nBands} bands the grid announces (it is truncated)`);
+    }
+    const bandLine = sc.line;
+    const tag = sc.token();
+    if (tag === null || !/^BAND:?$/i.test(tag)) throw sc.error(`expected "BAND:" starting band ${b + 1}, found "${tag ?? 'the end of the line'}"`, bandLine, 1);
+    sc.integer(`the index of band ${b + 1}`);
+    sc.endLine(`the band index`);
+    const base = b * nk;
+    let complete = true;
+    for (let i = 0; i < nk; i++) {
+      sc.skipWhitespace();
+      if (sc.atEnd()) {
+        if (options.allowPartial && b > 0) {
+          complete = false;
+          break;
+        }
+        throw sc.error(`the file ends inside band ${b + 1}, after ${i} of its ${nk} grid values (it is truncated)`);
+      }
+      bandMajor[base + i] = sc.number(`grid value ${i + 1} of band ${b + 1}`);
+    }
+    if (!complete) {
+      partial = true;
+      break;
+    }
+    bandsRead = b + 1;
+    if (!sc.atEol()) throw sc.error(`band ${b + 1} holds more than the ${nk} values the grid announces: "${sc.peekToken()}"`);
+  }
+  if (!partial) {
+    sc.skipBlankLines();
+    const end = sc.token();
+    if (end === null || !/^END_BANDGRID_3D/i.test(end)) {
+      throw sc.error(`expected END_BANDGRID_3D after the ${nBands} bands, found "${end ?? 'the end of the file'}"`);
+    }
+  }
+  options.onProgress?.(1);
+  const energies = new Float64Array(nk * bandsRead);
+  for (let b = 0; b < bandsRead; b++) for (let k = 0; k < nk; k++) energies[k * bandsRead + b] = bandMajor[b * nk + k]!;
+  // Grid points, first index slowest; fractional coordinates i/(n-1) from the origin.
+  const originFrac: Vec3 = [0, 0, 0];
+  for (let i = 0; i < 3; i++) originFrac[i] = (origin[0] * lattice[i]![0] + origin[1] * lattice[i]![1] + origin[2] * lattice[i]![2]) / (2 * Math.PI);
+  const kpoints = new Float64Array(3 * nk);
+  let p = 0;
+  for (let i = 0; i < dims[0]; i++) {
+    for (let j = 0; j < dims[1]; j++) {
+      for (let l = 0; l < dims[2]; l++) {
+        kpoints[3 * p] = originFrac[0] + i / (dims[0] - 1);
+        kpoints[3 * p + 1] = originFrac[1] + j / (dims[1] - 1);
+        kpoints[3 * p + 2] = originFrac[2] + l / (dims[2] - 1);
+        p++;
+      }
+    }
+  }
+  const warnings: InputWarning[] = [];
+  if (partial) {
+    warnings.push({
+      code: 'partial',
+      message: `The file ends inside band ${bandsRead + 1} of the ${nBands} it announces (truncated or still being written): only the first ${bandsRead} bands were read; results are provisional.`,
+    });
+  }
+  if (fermiEnergy === null) warnings.push({ code: 'no-fermi', message: 'The band-grid file gives no Fermi energy and no electron count: band edges cannot be placed.' });
+  warnings.push({ code: 'no-structure', message: 'A band-grid file holds the reciprocal cell but not the atoms: valley degeneracy needs the structure.' });
+  return {
+    source: { format: BXSF_FORMAT, file: file.path, files: [{ role: 'eigenvalues', path: file.path, sha256: sha256Hex(file.bytes) }] },
+    lattice,
+    structure: options.structure ?? null,
+    nk,
+    nBands: bandsRead,
+    nSpin: 1,
+    kpoints,
+    weights: null,
+    energies: [energies],
+    occupations: null,
+    fermiEnergy,
+    electrons: null,
+    spinorbit: options.spinorbit ?? false,
+    labels: [],
+    sampling: 'grid',
+    grid: { dims, origin: originFrac, endpointsRepeated: true },
+    writtenDistance: null,
+    partial,
+    warnings,
+  };
+}
+
+function findAscii(bytes: Uint8Array, s: string): number {
+  const first = s.charCodeAt(0);
+  const limit = Math.min(bytes.length, 1 << 20) - s.length;
+  outer: for (let i = 0; i <= limit; i++) {
+    if (bytes[i] !== first) continue;
+    for (let j = 1; j < s.length; j++) if (bytes[i + j] !== s.charCodeAt(j)) continue outer;
+    return i;
+  }
+  return -1;
+}
+
+export function detectBxsf(head: Uint8Array, name: string): number {
+  const text = decodeText(head, 0, Math.min(head.length, 8192));
+  if (/BEGIN_BLOCK_BANDGRID_3D/i.test(text) || /BEGIN_BANDGRID_3D/i.test(text)) return /\.bxsf$/i.test(name) ? 1 : 0.95;
+  if (/BEGIN_INFO/.test(text) && /Fermi Energy/i.test(text)) return 0.6;
+  return 0;
+}
+
+export const bxsfReader: FormatReader = {
+  id: BXSF_FORMAT,
+  label: 'BXSF band grid',
+  detect: detectBxsf,
+  companions(): string[] {
+    return [];
+  },
+  read(main: InputFile, _companions: InputFile[], options: ReadOptions): BandStructure {
+    return readBxsf(main, options);
+  },
+};

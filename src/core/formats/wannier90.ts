@@ -1,0 +1,342 @@
+/**
+ * Wannier90 interpolated bands: seedname_band.dat (path distance and energy in eV, one band after another,
+ * bands separated by a blank line; Fortran format '(2E16.8)'), with its companions
+ *
+ *   seedname_band.kpt            number of points, then "kx ky kz weight" per point (fractional)
+ *   seedname_band.labelinfo.dat  per labelled point: label, 1-based index, distance, kx ky kz (fractional)
+ *   seedname.win                 the input: unit_cell_cart (optionally with a bohr/ang line), atoms_frac or
+ *                                atoms_cart, spinors, fermi_energy
+ *
+ * The distance Wannier90 writes is the path length in Å⁻¹ with the 2π (its reciprocal lattice includes it).
+ */
+import type { BandStructure, InputWarning, KLabel, Mat3, SourceFile, Structure, Vec3 } from '../model';
+import type { InputFile } from '../io/fileAccessor';
+import { basename } from '../io/fileAccessor';
+import type { FormatReader, ReadOptions } from './types';
+import { sha256Hex } from '../hash';
+import { CancelledError, ReaderError } from '../errors';
+import { TextScanner, decodeText } from './textScanner';
+import { DoubleBuffer } from './doubleBuffer';
+import { BOHR_ANGSTROM } from '../units';
+import { det3, mat3Inverse, mulVecMat } from '../lattice/linalg';
+import { normaliseLabel } from '../lattice/labels';
+import { parseDecimal } from './decimal';
+
+export const WANNIER90_BAND_FORMAT = 'wannier90-band';
+
+export interface BandDatData {
+  nk: number;
+  nBands: number;
+  distance: Float64Array;
+  energies: Float64Array;
+  /** True when the last band was cut short (dropped; only with allowPartial). */
+  partial: boolean;
+}
+
+/** Read seedname_band.dat: blocks of (distance, energy) lines, one block per band. */
+export function readBandDat(file: InputFile, options: ReadOptions = {}): BandDatData {
+  const sc = new TextScanner(file.bytes, file.path, WANNIER90_BAND_FORMAT);
+  sc.skipBlankLines();
+  if (sc.atEnd()) throw sc.error('the band file is empty');
+  const x = new DoubleBuffer(1024);
+  const e = new DoubleBuffer(4096);
+  let nk = -1;
+  let inBlock = 0;
+  let band = 0;
+  let lines = 0;
+  while (!sc.atEnd()) {
+    if ((++lines & 0xffff) === 0) {
+      if (options.isCancelled?.()) throw new CancelledError();
+      options.onProgress?.(sc.pos / file.bytes.length);
+    }
+    if (sc.lineIsBlank()) {
+      if (inBlock > 0) {
+        if (nk < 0) nk = inBlock;
+        else if (inBlock !== nk) {
+          throw sc.error(`band ${band + 1} has ${inBlock} points where band 1 has ${nk}: the file is damaged or truncated`, sc.line, 0);
+        }
+        band++;
+        inBlock = 0;
+      }
+      sc.nextLine();
+      continue;
+    }
+    const d = sc.number(`the path distance (band ${band + 1}, point ${inBlock + 1})`);
+    const en = sc.number(`the energy (band ${band + 1}, point ${inBlock + 1})`);
+    sc.endLine(`the energy of band ${band + 1}, point ${inBlock + 1}`);
+    if (band === 0) x.push(d);
+    else if (inBlock < nk) {
+      const ref = x.data[inBlock]!;
+      if (Math.abs(ref - d) > 1e-4 * Math.max(1, Math.abs(ref))) {
+        throw sc.error(`band ${band + 1}, point ${inBlock + 1}: distance ${d} differs from band 1's ${ref} at the same point`, sc.line - 1, 1);
+      }
+    } else {
+      throw sc.error(`band ${band + 1} has more points than band 1 (${nk})`, sc.line - 1, 1);
+    }
+    e.push(en);
+    inBlock++;
+  }
+  let partial = false;
+  if (inBlock > 0) {
+    if (nk < 0 || inBlock === nk) {
+      if (nk < 0) nk = inBlock;
+      band++;
+    } else if (options.allowPartial) partial = true;
+    else throw sc.error(`the last band has ${inBlock} of ${nk} points: the file is truncated`, sc.line, 0);
+  }
+  if (nk <= 0 || band === 0) throw sc.error('the file holds no complete band');
+  options.onProgress?.(1);
+  return { nk, nBands: band, distance: x.toArray(), energies: transposeBands(e.data, band, nk), partial };
+}
+
+/** Band-major (as written) to k-major [k * nBands + band]. */
+function transposeBands(src: Float64Array, nBands: number, nk: number): Float64Array {
+  const out = new Float64Array(nk * nBands);
+  for (let b = 0; b < nBands; b++) for (let k = 0; k < nk; k++) out[k * nBands + b] = src[b * nk + k]!;
+  return out;
+}
+
+/** seedname_band.kpt: count, then fractional k and a weight per line. */
+export function readBandKpt(file: InputFile): Float64Array {
+  const sc = new TextScanner(file.bytes, file.path, 'wannier90-kpt');
+  sc.skipBlankLines();
+  if (sc.atEnd()) throw sc.error('the k-point file is empty');
+  const n = sc.integer('the number of k-points');
+  if (n <= 0) throw sc.error(`the k-point file announces ${n} points`);
+  if (n > file.bytes.length) throw sc.error(`the k-point file announces ${n} points, more than it could hold`);
+  sc.endLine('the number of k-points');
+  const k = new Float64Array(3 * n);
+  for (let i = 0; i < n; i++) {
+    sc.skipBlankLines();
+    if (sc.atEnd()) throw sc.error(`the file ends after ${i} of ${n} k-points (it is truncated)`);
+    for (let j = 0; j < 3; j++) k[3 * i + j] = sc.number(`coordinate ${j + 1} of k-point ${i + 1}`);
+    sc.restOfLine();
+  }
+  return k;
+}
+
+export interface LabelInfo {
+  label: string;
+  /** 0-based. */
+  index: number;
+  distance: number;
+  k: Vec3;
+}
+
+/** seedname_band.labelinfo.dat: label, 1-based index, distance, fractional k. */
+export function readLabelInfo(file: InputFile): LabelInfo[] {
+  const sc = new TextScanner(file.bytes, file.path, 'wannier90-labelinfo');
+  const out: LabelInfo[] = [];
+  for (;;) {
+    sc.skipBlankLines();
+    if (sc.atEnd()) break;
+    const label = sc.token()!;
+    const index = sc.integer(`the index of label "${label}"`);
+    const distance = sc.number(`the distance of label "${label}"`);
+    const k: Vec3 = [sc.number(`k of label "${label}" (1st)`), sc.number(`k of label "${label}" (2nd)`), sc.number(`k of label "${label}" (3rd)`)];
+    sc.endLine(`the k-point of label "${label}"`);
+    if (index < 1) throw sc.error(`label "${label}" has index ${index}; indices start at 1`, sc.line - 1, 0);
+    out.push({ label: normaliseLabel(label), index: index - 1, distance, k });
+  }
+  return out;
+}
+
+export interface WinSettings {
+  lattice: Mat3 | null;
+  structure: Structure | null;
+  spinors: boolean | null;
+  fermiEnergy: number | null;
+}
+
+/** The parts of seedname.win a band structure needs. Keywords and block names are case-insensitive. */
+export function readWin(file: InputFile): WinSettings {
+  const text = decodeText(file.bytes).replace(/^\uFEFF/, '');
+  const lines = text.split(/\r?\n/).map((l) => l.replace(/[!#].*$/, '').trim());
+  const fail = (line: number, reason: string): ReaderError => new ReaderError('wannier90-win', file.path, { line, column: 0 }, reason);
+  const block = (name: string): { rows: string[]; line: number } | null => {
+    const start = lines.findIndex((l) => new RegExp(`^begin\\s+${name}$`, 'i').test(l));
+    if (start < 0) return null;
+    const rows: string[] = [];
+    for (let i = start + 1; i < lines.length; i++) {
+      if (new RegExp(`^end\\s+${name}$`, 'i').test(lines[i]!)) return { rows, line: start + 2 };
+      if (lines[i]) rows.push(lines[i]!);
+    }
+    throw fail(start + 1, `the block "begin ${name}" has no "end ${name}"`);
+  };
+  const keyword = (name: string): string | null => {
+    for (const l of lines) {
+      const m = new RegExp(`^${name}\\s*[=:\\s]\\s*(.+)$`, 'i').exec(l);
+      if (m) return m[1]!.trim();
+    }
+    return null;
+  };
+  const nums = (row: string, n: number, line: number, what: string): number[] => {
+    const t = row.split(/\s+/);
+    const v = t.slice(-n).map((s) => parseDecimal(s));
+    if (t.length < n || v.some((x) => x === null)) throw fail(line, `${what} should end with ${n} numbers, found "${row}"`);
+    return v as number[];
+  };
+  let lattice: Mat3 | null = null;
+  const cell = block('unit_cell_cart');
+  if (cell) {
+    let rows = cell.rows;
+    let factor = 1;
+    if (rows[0] && /^(bohr|ang)/i.test(rows[0])) {
+      factor = /^bohr/i.test(rows[0]) ? BOHR_ANGSTROM : 1;
+      rows = rows.slice(1);
+    }
+    if (rows.length !== 3) throw fail(cell.line, `unit_cell_cart should hold three lattice vectors, found ${rows.length} lines`);
+    lattice = rows.map((r, i) => nums(r, 3, cell.line + i, `lattice vector ${i + 1}`).map((x) => x * factor)) as Mat3;
+    if (Math.abs(det3(lattice)) < 1e-10) throw fail(cell.line, 'the lattice vectors in unit_cell_cart are linearly dependent');
+  }
+  let structure: Structure | null = null;
+  const frac = block('atoms_frac');
+  const cart = block('atoms_cart');
+  if (lattice && (frac || cart)) {
+    const b = (frac ?? cart)!;
+    let rows = b.rows;
+    let factor = 1;
+    if (!frac && rows[0] && /^(bohr|ang)/i.test(rows[0])) {
+      factor = /^bohr/i.test(rows[0]) ? BOHR_ANGSTROM : 1;
+      rows = rows.slice(1);
+    }
+    const species: string[] = [];
+    const positions = new Float64Array(3 * rows.length);
+    const inv = frac ? null : mat3Inverse(lattice);
+    rows.forEach((r, i) => {
+      const p = nums(r, 3, b.line + i, `atom ${i + 1}`).map((x) => x * factor) as Vec3;
+      species.push(r.split(/\s+/)[0]!.replace(/[0-9_].*$/, ''));
+      positions.set(inv ? mulVecMat(p, inv) : p, 3 * i);
+    });
+    structure = { lattice, species, positions };
+  }
+  const sp = keyword('spinors');
+  const ef = keyword('fermi_energy');
+  return {
+    lattice,
+    structure,
+    spinors: sp === null ? null : /^(\.?t|true)/i.test(sp),
+    fermiEnergy: ef === null ? null : parseDecimal(ef.split(/\s+/)[0]!),
+  };
+}
+
+export function detectBandDat(head: Uint8Array, name: string): number {
+  // Name carries weight here: two columns of numbers say little by themselves.
+  const text = decodeText(head, 0, Math.min(head.length, 2048)).replace(/^\uFEFF/, '');
+  const lines = text.split(/\r?\n/).slice(0, 8).filter((l) => l.trim());
+  if (lines.length < 2) return 0;
+  const num = /^[+-]?(\d+\.?\d*|\.\d+)([eEdD][+-]?\d+)?$/;
+  const twoCols = lines.every((l) => {
+    const t = l.trim().split(/\s+/);
+    return t.length === 2 && t.every((x) => num.test(x));
+  });
+  if (!twoCols) return 0;
+  if (/_band\.dat$/i.test(name)) return 0.95;
+  // E16.8 layout: 16-character fields in exponent form.
+  return /^\s*-?\d\.\d{8}E[+-]\d\d\s+-?\d\.\d{8}E[+-]\d\d\s*$/.test(lines[0]!) ? 0.5 : 0.2;
+}
+
+function seedOf(mainName: string): string {
+  return mainName.replace(/_band\.dat$/i, '').replace(/\.dat$/i, '');
+}
+
+export const wannier90BandReader: FormatReader = {
+  id: WANNIER90_BAND_FORMAT,
+  label: 'Wannier90 _band.dat',
+  detect: detectBandDat,
+  companions(mainName: string, siblings: string[]): string[] {
+    const seed = seedOf(mainName);
+    return [`${seed}_band.kpt`, `${seed}_band.labelinfo.dat`, `${seed}.win`].filter((n) => siblings.includes(n));
+  },
+  read(main: InputFile, companions: InputFile[], options: ReadOptions): BandStructure {
+    const data = readBandDat(main, options);
+    const warnings: InputWarning[] = [];
+    const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: sha256Hex(main.bytes) }];
+    const find = (suffix: string): InputFile | undefined => companions.find((c) => basename(c.path).toLowerCase().endsWith(suffix));
+    const use = <T>(f: InputFile | undefined, role: string, fn: (f: InputFile) => T): T | null => {
+      if (!f) return null;
+      try {
+        const r = fn(f);
+        files.push({ role, path: f.path, sha256: sha256Hex(f.bytes) });
+        return r;
+      } catch (e) {
+        if (e instanceof ReaderError) {
+          warnings.push({ code: `${role}-unreadable`, message: `${e.message}; the file was not used`, file: f.path, line: e.line });
+          return null;
+        }
+        throw e;
+      }
+    };
+    const win = use(find('.win'), 'settings', readWin);
+    let kpoints = use(find('_band.kpt'), 'kpath', readBandKpt);
+    const labelInfo = use(find('_band.labelinfo.dat'), 'labels', readLabelInfo) ?? [];
+    if (kpoints && kpoints.length !== 3 * data.nk) {
+      warnings.push({ code: 'kpt-mismatch', message: `The _band.kpt file lists ${kpoints.length / 3} k-points but the band file has ${data.nk}: it was not used.` });
+      kpoints = null;
+    }
+    const labels: KLabel[] = [];
+    for (const l of labelInfo) if (l.index < data.nk) labels.push({ index: l.index, label: l.label });
+    labels.sort((a, b) => a.index - b.index);
+    let writtenDistance: Float64Array | null = null;
+    if (!kpoints) {
+      // Without the k-points, the path is known by its written distances (and the labelled ends).
+      writtenDistance = data.distance;
+      kpoints = new Float64Array(3 * data.nk);
+      if (labelInfo.length >= 2) {
+        // Interpolate fractional k linearly in distance between consecutive labelled points.
+        const ends = [...labelInfo].sort((a, b) => a.index - b.index);
+        for (let s = 0; s + 1 < ends.length; s++) {
+          const a = ends[s]!;
+          const b = ends[s + 1]!;
+          const span = b.distance - a.distance;
+          for (let i = a.index; i <= Math.min(b.index, data.nk - 1); i++) {
+            const t = span > 0 ? (data.distance[i]! - a.distance) / span : 0;
+            for (let j = 0; j < 3; j++) kpoints[3 * i + j] = a.k[j]! + t * (b.k[j]! - a.k[j]!);
+          }
+        }
+        warnings.push({ code: 'no-kpt', message: 'No _band.kpt beside the band file: k-points were placed between the labelled points by their written distances.' });
+      } else {
+        warnings.push({ code: 'no-kpt', message: 'No _band.kpt and no _band.labelinfo.dat beside the band file: only the written path distances are known.' });
+      }
+    }
+    const structure = win?.structure ?? options.structure ?? null;
+    const lattice = win?.lattice ?? structure?.lattice ?? options.lattice ?? null;
+    if (!lattice) {
+      warnings.push({ code: 'no-lattice', message: 'No seedname.win with unit_cell_cart beside the band file: the written path distances (Å⁻¹) are used.' });
+      writtenDistance = data.distance;
+    } else if (!structure) {
+      warnings.push({ code: 'no-structure', message: 'No atoms (atoms_frac or atoms_cart in seedname.win): valley degeneracy cannot be determined.' });
+    }
+    const fermiEnergy = win?.fermiEnergy ?? null;
+    if (data.partial) {
+      warnings.push({ code: 'partial', message: `The band file ends inside band ${data.nBands + 1} (truncated or still being written): only the ${data.nBands} complete bands were read; results are provisional.` });
+    }
+    warnings.push({
+      code: 'no-electrons',
+      message: fermiEnergy !== null
+        ? 'Wannier90 band files give no electron count: the fermi_energy of seedname.win places the band edges.'
+        : 'Wannier90 band files give no electron count, and seedname.win gives no fermi_energy: band edges cannot be placed.',
+    });
+    return {
+      source: { format: WANNIER90_BAND_FORMAT, file: main.path, files },
+      lattice,
+      structure,
+      nk: data.nk,
+      nBands: data.nBands,
+      nSpin: 1,
+      kpoints,
+      weights: null,
+      energies: [data.energies],
+      occupations: null,
+      fermiEnergy,
+      electrons: null,
+      spinorbit: options.spinorbit ?? win?.spinors ?? false,
+      labels,
+      sampling: 'path',
+      grid: null,
+      writtenDistance,
+      partial: data.partial,
+      warnings,
+    };
+  },
+};
