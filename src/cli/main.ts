@@ -6,6 +6,8 @@ import { UsageError } from './args';
 import { processIO, type CliIO } from './io';
 import { ANALYZE_HELP, runAnalyze } from './commands/analyze';
 import { COMPARE_HELP, runCompare } from './commands/compare';
+import { ANNOTATE_HELP, runAnnotate } from './commands/annotate';
+import { CHECK_HELP, runCheck } from './commands/check';
 import { isValleyscopeError } from '../core/errors';
 import { ensureSymmetryReady } from '../core/lattice/symmetry';
 
@@ -17,6 +19,8 @@ export interface Command {
 export const COMMANDS: Record<string, Command> = {
   analyze: { help: ANALYZE_HELP, run: runAnalyze },
   compare: { help: COMPARE_HELP, run: runCompare },
+  annotate: { help: ANNOTATE_HELP, run: runAnnotate },
+  check: { help: CHECK_HELP, run: runCheck },
 };
 
 export function usage(): string {

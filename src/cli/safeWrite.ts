@@ -1,0 +1,147 @@
+/**
+ * Writing a file so that a crash, a full disk or a concurrent change never leaves it truncated or loses
+ * what someone else wrote in the meantime:
+ *   1. write the new bytes to a temporary file beside the target (same folder, so the rename stays on one
+ *      file system), flush them to disk (fsync);
+ *   2. if asked, confirm the target still holds the bytes we read before (else stop: someone changed it);
+ *   3. rename the temporary file over the target (atomic on POSIX file systems), then flush the folder.
+ * On any failure the temporary file is removed and the target is left as it was.
+ *
+ * For annotations the target is always `<data file>.valleys.json` beside the data file
+ * (writeAnnotationsBeside); no path read from any file's content is ever used here.
+ */
+import { promises as fsp, constants as fsc } from 'node:fs';
+import { randomBytes } from 'node:crypto';
+import { basename, dirname, join } from 'node:path';
+import { ValleyscopeError } from '../core/errors';
+import { annotationsPathFor } from '../core/annotations/annotationsModel';
+
+/** The file-system calls used, replaceable in tests to simulate faults (disk full, crash before rename). */
+export interface SafeWriteFs {
+  open(path: string, flags: number, mode: number): Promise<fsp.FileHandle>;
+  rename(from: string, to: string): Promise<void>;
+  unlink(path: string): Promise<void>;
+  readFile(path: string): Promise<Uint8Array>;
+  stat(path: string): Promise<{ mode: number } | null>;
+}
+
+export const nodeSafeWriteFs: SafeWriteFs = {
+  open: (p, flags, mode) => fsp.open(p, flags, mode),
+  rename: (a, b) => fsp.rename(a, b),
+  unlink: (p) => fsp.unlink(p),
+  readFile: async (p) => new Uint8Array(await fsp.readFile(p)),
+  stat: async (p) => {
+    try {
+      return await fsp.stat(p);
+    } catch {
+      return null;
+    }
+  },
+};
+
+export interface SafeWriteOptions {
+  /**
+   * What the caller read from the target before computing the new content: `null` when it did not exist,
+   * the bytes when it did. The write stops (WriteConflictError) if the target changed since. Leave out to
+   * overwrite whatever is there.
+   */
+  expectExisting?: Uint8Array | null;
+  fs?: SafeWriteFs;
+  /** Called after the temporary file is written and flushed, before the rename (tests simulate crashes here). */
+  beforeRename?: (tempPath: string) => void | Promise<void>;
+}
+
+/** The target changed on disk between reading it and writing it; nothing was written. */
+export class WriteConflictError extends ValleyscopeError {
+  constructor(readonly target: string) {
+    super(`${target} changed on disk while Valleyscope was updating it; nothing was written — run the command again to merge with the new content`);
+    this.name = 'WriteConflictError';
+  }
+}
+
+function sameBytes(a: Uint8Array, b: Uint8Array): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
+}
+
+function explain(target: string, e: unknown): ValleyscopeError {
+  if (e instanceof ValleyscopeError) return e;
+  const code = (e as NodeJS.ErrnoException | undefined)?.code;
+  const what =
+    code === 'ENOSPC' ? 'the disk is full'
+    : code === 'EDQUOT' ? 'the disk quota is used up'
+    : code === 'EACCES' || code === 'EPERM' ? 'permission to write in its folder is denied'
+    : code === 'EROFS' ? 'the file system is read-only'
+    : code === 'ENOENT' ? 'its folder does not exist'
+    : `the system reported ${code ?? (e as Error)?.message ?? String(e)}`;
+  return new ValleyscopeError(`${target} could not be written (${what}); the previous file, if any, is unchanged`);
+}
+
+/** Temporary files are named after their target, hidden, and unique per attempt. */
+export function tempPathFor(target: string): string {
+  return join(dirname(target), `.${basename(target)}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
+}
+
+export async function writeFileSafely(target: string, content: Uint8Array | string, options: SafeWriteOptions = {}): Promise<void> {
+  const fs = options.fs ?? nodeSafeWriteFs;
+  const bytes = typeof content === 'string' ? new TextEncoder().encode(content) : content;
+  const temp = tempPathFor(target);
+  const existing = await fs.stat(target);
+  const mode = existing ? existing.mode & 0o777 : 0o644;
+  let handle: fsp.FileHandle | null = null;
+  let renamed = false;
+  try {
+    handle = await fs.open(temp, fsc.O_WRONLY | fsc.O_CREAT | fsc.O_EXCL, mode);
+    let off = 0;
+    while (off < bytes.length) {
+      const { bytesWritten } = await handle.write(bytes, off, bytes.length - off, off);
+      if (bytesWritten <= 0) throw Object.assign(new Error('no progress writing'), { code: 'EIO' });
+      off += bytesWritten;
+    }
+    await handle.sync();
+    await handle.close();
+    handle = null;
+    if (options.beforeRename) await options.beforeRename(temp);
+    if (options.expectExisting !== undefined) {
+      let now: Uint8Array | null;
+      try {
+        now = await fs.readFile(target);
+      } catch (e) {
+        if ((e as NodeJS.ErrnoException).code !== 'ENOENT') throw e;
+        now = null;
+      }
+      const expected = options.expectExisting;
+      if ((now === null) !== (expected === null) || (now && expected && !sameBytes(now, expected))) {
+        throw new WriteConflictError(target);
+      }
+    }
+    await fs.rename(temp, target);
+    renamed = true;
+    await syncFolder(dirname(target));
+  } catch (e) {
+    if (handle) await handle.close().catch(() => undefined);
+    if (!renamed) await fs.unlink(temp).catch(() => undefined);
+    throw explain(target, e);
+  }
+}
+
+/** Flush the folder entry of the rename; best effort (not every platform allows opening a folder). */
+async function syncFolder(dir: string): Promise<void> {
+  let h: fsp.FileHandle | null = null;
+  try {
+    h = await fsp.open(dir, 'r');
+    await h.sync();
+  } catch {
+    // Windows and some network file systems refuse; the rename itself is still atomic.
+  } finally {
+    await h?.close().catch(() => undefined);
+  }
+}
+
+/** Write the annotations of `dataFile`: always to `<dataFile>.valleys.json` beside it. Returns that path. */
+export async function writeAnnotationsBeside(dataFile: string, text: string, options: SafeWriteOptions = {}): Promise<string> {
+  const target = annotationsPathFor(dataFile);
+  await writeFileSafely(target, text, options);
+  return target;
+}

@@ -1,0 +1,174 @@
+/**
+ * The annotations file: what a reviewer concluded about a run, kept beside the data as
+ * `<data file name>.valleys.json`. These are the in-memory types; the byte layout is fixed by
+ * serializeAnnotations.ts and described for editors by schema/valleys.schema.json.
+ *
+ * Every object keeps the fields the program does not know in `extra` (hand-added fields survive every
+ * rewrite and merge). `extra` objects have no prototype, so a key such as "__proto__" is an ordinary key.
+ */
+import type { ExtremumKind, Mat3, Vec3 } from '../model';
+
+export type JsonValue = null | boolean | number | string | JsonValue[] | { [key: string]: JsonValue };
+/** Fields found in the file that this version does not know, in the order they were written. */
+export type ExtraFields = Record<string, JsonValue>;
+
+/** The value of the top-level key `valleyscopeAnnotations`: the layout version of the file. */
+export const ANNOTATIONS_LAYOUT_VERSION = 1;
+/** The file name ending that marks an annotations file. */
+export const ANNOTATIONS_SUFFIX = '.valleys.json';
+
+/** Review states offered to the reviewer; the reader keeps any other word a person typed. */
+export const REVIEW_STATUSES = ['unreviewed', 'accepted', 'questioned', 'rejected'] as const;
+export type KnownReviewStatus = (typeof REVIEW_STATUSES)[number];
+
+export const EXTREMUM_KINDS: readonly ExtremumKind[] = ['vbm', 'cbm', 'valley', 'peak'];
+
+export function emptyExtra(): ExtraFields {
+  return Object.create(null) as ExtraFields;
+}
+
+/** A file the results came from, with the SHA-256 of its bytes when the annotations were written. */
+export interface AnnotatedSource {
+  /** Path relative to the folder holding the annotations file, '/' separators. */
+  path: string;
+  role: string;
+  sha256: string;
+  extra: ExtraFields;
+}
+
+/** The analysis settings the numbers were obtained with (re-used by `check`). */
+export interface AnnotatedSettings {
+  window_meV: number;
+  method: string;
+  range_eV: number;
+  degeneracy_meV: number;
+  /** The run was read as spin-orbit (one electron per band) because the user said so. */
+  forceSpinorbit: boolean;
+  extra: ExtraFields;
+}
+
+export interface AnnotatedPoint {
+  /** 1-based band index. */
+  band: number;
+  spin: 0 | 1;
+  /** Fractional reciprocal coordinates. */
+  k: Vec3;
+  energy_eV: number;
+  label: string | null;
+}
+
+export interface AnnotatedGap {
+  eV: number;
+  direct: boolean;
+  vbm: AnnotatedPoint;
+  cbm: AnnotatedPoint;
+  directGap: { eV: number; k: Vec3 };
+  extra: ExtraFields;
+}
+
+/** A directional mass with the whole story of its fit. */
+export interface AnnotatedMass {
+  towards: string;
+  /** Cartesian unit vector. */
+  direction: Vec3;
+  /** Signed curvature mass in m_e (negative at a maximum); null when the fit gave no finite mass. */
+  mass: number | null;
+  stderr: number | null;
+  points: number;
+  window_meV: number;
+  method: string;
+  alpha_per_eV: number | null;
+  residual_meV: number | null;
+  /** At a degenerate edge: the branch (1-based) followed by smooth continuation, when the fit followed one. */
+  branch: number | null;
+  warnings: string[];
+  extra: ExtraFields;
+}
+
+export interface AnnotatedTensor {
+  principal: Vec3;
+  /** Standard errors of the principal masses, m_e, when known. */
+  stderr: Vec3 | null;
+  axes: Mat3;
+  method: string;
+  points: number | null;
+  residual_meV: number | null;
+  extra: ExtraFields;
+}
+
+export interface AnnotatedEntry {
+  /** Stable identity: kind, spin, band and k (see entryId). */
+  id: string;
+  /** Review state: 'unreviewed', 'accepted', 'questioned', 'rejected', or a word the reviewer typed. */
+  status: string;
+  note: string;
+  /** False when the latest analysis no longer finds this extremum (the entry is kept, never deleted). */
+  found: boolean;
+  kind: ExtremumKind;
+  spin: 0 | 1;
+  band: number;
+  k: Vec3;
+  label: string | null;
+  energy_eV: number;
+  /** Energy below the VBM (valence) or above the CBM (conduction), eV. */
+  offset_eV: number | null;
+  degenerateBands: number | null;
+  valleyDegeneracy: number | null;
+  masses: AnnotatedMass[];
+  tensor: AnnotatedTensor | null;
+  dosMass: number | null;
+  conductivityMass: number | null;
+  warnings: string[];
+  extra: ExtraFields;
+}
+
+export interface AnnotationsDoc {
+  layoutVersion: number;
+  toolVersion: string;
+  /** Format id of the eigenvalue file (e.g. 'vasp-eigenval'). */
+  format: string;
+  sources: AnnotatedSource[];
+  settings: AnnotatedSettings;
+  metal: boolean | null;
+  gap: AnnotatedGap | null;
+  /** The reviewer's note on the run as a whole. */
+  note: string;
+  entries: AnnotatedEntry[];
+  warnings: string[];
+  cautions: string[];
+  extra: ExtraFields;
+}
+
+/** The annotations file that belongs to a data file: always beside it, never a path taken from content. */
+export function annotationsPathFor(dataFile: string): string {
+  return dataFile.replace(/[\\/]+$/, '') + ANNOTATIONS_SUFFIX;
+}
+
+export function isAnnotationsPath(path: string): boolean {
+  return path.toLowerCase().endsWith(ANNOTATIONS_SUFFIX) && path.length > ANNOTATIONS_SUFFIX.length;
+}
+
+/** The data file an annotations file describes (its name without the suffix). */
+export function dataPathFor(annotationsFile: string): string {
+  if (!isAnnotationsPath(annotationsFile)) throw new Error(`${annotationsFile} is not an annotations file name`);
+  return annotationsFile.slice(0, annotationsFile.length - ANNOTATIONS_SUFFIX.length);
+}
+
+/** A number in an id: at most 4 decimals, trailing zeros dropped, no "-0". */
+function idNumber(x: number): string {
+  let s = x.toFixed(4);
+  if (s.includes('.')) s = s.replace(/0+$/, '').replace(/\.$/, '');
+  return s === '-0' ? '0' : s;
+}
+
+/** Stable identity of an extremum: kind, spin, 1-based band and k, e.g. "cbm/s0/b5/k=0.425,0,0.425". */
+export function entryId(e: { kind: string; spin: number; band: number; k: readonly number[] }): string {
+  return `${e.kind}/s${e.spin}/b${e.band}/k=${e.k.map(idNumber).join(',')}`;
+}
+
+/** A short human name for messages: "CBM, band 5, spin 0, at X (0.5, 0, 0.5)". */
+export function entryTitle(e: { kind: string; spin: number; band: number; k: readonly number[]; label: string | null }): string {
+  const kind = e.kind === 'vbm' || e.kind === 'cbm' ? e.kind.toUpperCase() : e.kind;
+  const at = `(${e.k.map(idNumber).join(', ')})`;
+  return `${kind}, band ${e.band}, spin ${e.spin}, at ${e.label ? `${e.label} ${at}` : `k = ${at}`}`;
+}

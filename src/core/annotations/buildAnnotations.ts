@@ -1,0 +1,215 @@
+/**
+ * A fresh annotations document from an analysis Report: one entry per extremum the report holds (and, when
+ * the report has no extrema of a band-edge kind, entries for the VBM and CBM of its gap), no notes yet, every
+ * entry 'unreviewed'. Merging with what a reviewer already wrote is mergeAnnotations' job.
+ */
+import type { BandPoint, BandSource, ExtremumReport, GapReport, MassFit, MassTensor, Report, Vec3 } from '../model';
+import type { AnalysisSettings } from '../analysis/analyze';
+import {
+  ANNOTATIONS_LAYOUT_VERSION,
+  emptyExtra,
+  entryId,
+  type AnnotatedEntry,
+  type AnnotatedGap,
+  type AnnotatedMass,
+  type AnnotatedPoint,
+  type AnnotatedSettings,
+  type AnnotatedSource,
+  type AnnotatedTensor,
+  type AnnotationsDoc,
+} from './annotationsModel';
+import { sortEntries } from './serializeAnnotations';
+
+export interface RecordedSettings extends AnalysisSettings {
+  /** The run was read as spin-orbit because the user asked (`--soc`), not because its files say so. */
+  forceSpinorbit?: boolean;
+}
+
+export interface BuildOptions {
+  /** Version of the program writing the file. */
+  toolVersion: string;
+}
+
+function splitPath(p: string): string[] {
+  return p.replace(/\\/g, '/').split('/').filter((s) => s !== '' && s !== '.');
+}
+
+/**
+ * `path` relative to the folder `dir` ('/' separators). Both are as the caller gave them (both relative to
+ * the same working folder, or both absolute).
+ */
+export function relativePath(dir: string, path: string): string {
+  const absolute = /^([a-zA-Z]:)?[\\/]/.test(path);
+  const d = splitPath(dir);
+  const p = splitPath(path);
+  if (/^([a-zA-Z]:)?[\\/]/.test(dir) !== absolute) return p.join('/');
+  let i = 0;
+  while (i < d.length && i < p.length && d[i] === p[i]) i++;
+  return [...d.slice(i).map(() => '..'), ...p.slice(i)].join('/');
+}
+
+function folderOf(path: string): string {
+  const p = path.replace(/[\\/]+$/, '');
+  const i = Math.max(p.lastIndexOf('/'), p.lastIndexOf('\\'));
+  return i < 0 ? '.' : i === 0 ? '/' : p.slice(0, i);
+}
+
+/** The source files, with paths relative to the folder of the data file (where the annotations live). */
+export function annotatedSources(source: BandSource): AnnotatedSource[] {
+  const dir = folderOf(source.file);
+  return source.files.map((f) => ({ path: relativePath(dir, f.path), role: f.role, sha256: f.sha256, extra: emptyExtra() }));
+}
+
+/** Messages may name files by the path the caller used; in the file they are named relative to it. */
+function withoutFolder(dir: string, text: string): string {
+  if (dir === '.' || dir === '') return text;
+  const prefix = dir.endsWith('/') || dir.endsWith('\\') ? dir : `${dir}/`;
+  return text.split(prefix).join('');
+}
+
+function point(p: BandPoint): AnnotatedPoint {
+  return { band: p.band, spin: p.spin, k: [p.k[0], p.k[1], p.k[2]], energy_eV: p.eV, label: p.label };
+}
+
+function gap(g: GapReport | null): AnnotatedGap | null {
+  if (!g) return null;
+  return {
+    eV: g.eV,
+    direct: g.direct,
+    vbm: point(g.vbm),
+    cbm: point(g.cbm),
+    directGap: { eV: g.directGap.eV, k: [g.directGap.k[0], g.directGap.k[1], g.directGap.k[2]] },
+    extra: emptyExtra(),
+  };
+}
+
+const finiteOrNull = (x: number | null | undefined): number | null => (x === null || x === undefined || !Number.isFinite(x) ? null : x);
+
+function mass(m: MassFit): AnnotatedMass {
+  return {
+    towards: m.towards,
+    direction: [m.direction[0], m.direction[1], m.direction[2]].map((x) => (Number.isFinite(x) ? x : 0)) as Vec3,
+    mass: finiteOrNull(m.mass),
+    stderr: finiteOrNull(m.stderr),
+    points: m.points,
+    window_meV: m.window_meV,
+    method: m.method,
+    alpha_per_eV: finiteOrNull(m.alpha_per_eV),
+    residual_meV: finiteOrNull(m.residual_meV),
+    branch: m.branch ?? null,
+    warnings: [...(m.warnings ?? [])],
+    extra: emptyExtra(),
+  };
+}
+
+function tensor(t: MassTensor | null): AnnotatedTensor | null {
+  // A tensor with a non-finite principal mass (a flat direction) has no written form; the entry says why.
+  if (!t || !t.principal.every(Number.isFinite) || !t.axes.every((row) => row.every(Number.isFinite))) return null;
+  return {
+    principal: [t.principal[0], t.principal[1], t.principal[2]],
+    stderr: t.stderr && t.stderr.every(Number.isFinite) ? [t.stderr[0], t.stderr[1], t.stderr[2]] : null,
+    axes: [
+      [t.axes[0][0], t.axes[0][1], t.axes[0][2]],
+      [t.axes[1][0], t.axes[1][1], t.axes[1][2]],
+      [t.axes[2][0], t.axes[2][1], t.axes[2][2]],
+    ],
+    method: t.method,
+    points: finiteOrNull(t.points),
+    residual_meV: finiteOrNull(t.residual_meV),
+    extra: emptyExtra(),
+  };
+}
+
+function blankEntry(p: BandPoint, kind: AnnotatedEntry['kind']): AnnotatedEntry {
+  const e: AnnotatedEntry = {
+    id: '',
+    status: 'unreviewed',
+    note: '',
+    found: true,
+    kind,
+    spin: p.spin,
+    band: p.band,
+    k: [p.k[0], p.k[1], p.k[2]],
+    label: p.label,
+    energy_eV: p.eV,
+    offset_eV: null,
+    degenerateBands: null,
+    valleyDegeneracy: null,
+    masses: [],
+    tensor: null,
+    dosMass: null,
+    conductivityMass: null,
+    warnings: [],
+    extra: emptyExtra(),
+  };
+  e.id = entryId(e);
+  return e;
+}
+
+function entryFromExtremum(x: ExtremumReport): AnnotatedEntry {
+  const e = blankEntry(x, x.kind);
+  e.offset_eV = finiteOrNull(x.offset_eV);
+  e.degenerateBands = x.degenerateBands;
+  e.valleyDegeneracy = x.valleyDegeneracy;
+  e.masses = x.masses.map(mass);
+  e.tensor = tensor(x.tensor);
+  if (x.tensor && !e.tensor) e.warnings.push('The mass tensor has a non-finite principal mass (a flat direction) and is not recorded.');
+  e.dosMass = finiteOrNull(x.dosMass);
+  e.conductivityMass = finiteOrNull(x.conductivityMass);
+  e.warnings = [...x.warnings, ...e.warnings];
+  return e;
+}
+
+/** The entries a report gives, in file order, without notes. */
+export function entriesFromReport(report: Report): AnnotatedEntry[] {
+  const out = new Map<string, AnnotatedEntry>();
+  for (const x of report.extrema) {
+    const e = entryFromExtremum(x);
+    if (!out.has(e.id)) out.set(e.id, e);
+  }
+  if (report.gap) {
+    // With no extremum of a band-edge kind in the report, the edges of the gap are still worth an entry.
+    for (const [kind, p] of [['vbm', report.gap.vbm], ['cbm', report.gap.cbm]] as const) {
+      if (report.extrema.some((x) => x.kind === kind)) continue;
+      const e = blankEntry(p, kind);
+      e.offset_eV = 0;
+      if (!out.has(e.id)) out.set(e.id, e);
+    }
+  }
+  return sortEntries([...out.values()]);
+}
+
+export function recordedSettings(s: RecordedSettings): AnnotatedSettings {
+  return {
+    window_meV: s.window_meV,
+    method: s.method,
+    range_eV: s.range_eV,
+    degeneracy_meV: s.degeneracy_meV,
+    forceSpinorbit: s.forceSpinorbit ?? false,
+    extra: emptyExtra(),
+  };
+}
+
+/** The analysis settings a document records, in the shape analyzeBandStructure takes. */
+export function analysisSettingsOf(doc: AnnotationsDoc): AnalysisSettings {
+  const s = doc.settings;
+  return { window_meV: s.window_meV, method: s.method, range_eV: s.range_eV, degeneracy_meV: s.degeneracy_meV };
+}
+
+export function buildAnnotations(report: Report, source: BandSource, settings: RecordedSettings, options: BuildOptions): AnnotationsDoc {
+  const dir = folderOf(source.file);
+  return {
+    layoutVersion: ANNOTATIONS_LAYOUT_VERSION,
+    toolVersion: options.toolVersion,
+    format: source.format,
+    sources: annotatedSources(source),
+    settings: recordedSettings(settings),
+    metal: report.metal,
+    gap: gap(report.gap),
+    note: '',
+    entries: entriesFromReport(report),
+    warnings: report.warnings.map((w) => withoutFolder(dir, w)),
+    cautions: [...report.cautions],
+    extra: emptyExtra(),
+  };
+}

@@ -1,0 +1,244 @@
+/**
+ * The stable writer: the same document always gives the same bytes.
+ * - keys in a fixed order (known keys first, in the order below; hand-added keys after them, as found);
+ * - numbers with a fixed number of digits per quantity (numberFormat.ts);
+ * - entries in a fixed order (kind, spin, band, k), whatever order they arrived in;
+ * - two-space indent, short lists of numbers on one line, a newline at the end.
+ * So re-writing unchanged results gives a byte-identical file and one changed mass a one-line diff.
+ */
+import type {
+  AnnotatedEntry,
+  AnnotatedGap,
+  AnnotatedMass,
+  AnnotatedPoint,
+  AnnotatedSettings,
+  AnnotatedSource,
+  AnnotatedTensor,
+  AnnotationsDoc,
+  ExtraFields,
+  JsonValue,
+} from './annotationsModel';
+import { EXTREMUM_KINDS } from './annotationsModel';
+import { formatNumber, type NumberStyle } from './numberFormat';
+
+/** A value on its way to text: numbers already formatted, objects as ordered key lists. */
+type Out =
+  | { t: 'raw'; text: string }
+  | { t: 'list'; items: Out[] }
+  | { t: 'obj'; fields: [string, Out][] };
+
+const raw = (text: string): Out => ({ t: 'raw', text });
+const str = (s: string): Out => raw(JSON.stringify(s));
+const bool = (b: boolean): Out => raw(b ? 'true' : 'false');
+const NULL: Out = raw('null');
+const num = (x: number, style: NumberStyle): Out => raw(formatNumber(x, style));
+const numOrNull = (x: number | null, style: NumberStyle): Out => (x === null || !Number.isFinite(x) ? NULL : num(x, style));
+const nums = (xs: readonly number[], style: NumberStyle): Out => ({ t: 'list', items: xs.map((x) => num(x, style)) });
+const strs = (xs: readonly string[]): Out => ({ t: 'list', items: xs.map(str) });
+
+function json(v: JsonValue): Out {
+  if (v === null) return NULL;
+  if (typeof v === 'boolean') return bool(v);
+  if (typeof v === 'number') return Number.isFinite(v) ? num(v, 'plain') : NULL;
+  if (typeof v === 'string') return str(v);
+  if (Array.isArray(v)) return { t: 'list', items: v.map(json) };
+  return { t: 'obj', fields: Object.keys(v).map((k) => [k, json(v[k]!)] as [string, Out]) };
+}
+
+function withExtra(fields: [string, Out][], extra: ExtraFields): Out {
+  const known = new Set(fields.map((f) => f[0]));
+  for (const k of Object.keys(extra)) if (!known.has(k)) fields.push([k, json(extra[k]!)]);
+  return { t: 'obj', fields };
+}
+
+function sourceOut(s: AnnotatedSource): Out {
+  return withExtra([['path', str(s.path)], ['role', str(s.role)], ['sha256', str(s.sha256)]], s.extra);
+}
+
+function settingsOut(s: AnnotatedSettings): Out {
+  return withExtra(
+    [
+      ['window_meV', num(s.window_meV, 'plain')],
+      ['method', str(s.method)],
+      ['range_eV', num(s.range_eV, 'plain')],
+      ['degeneracy_meV', num(s.degeneracy_meV, 'plain')],
+      ['forceSpinorbit', bool(s.forceSpinorbit)],
+    ],
+    s.extra,
+  );
+}
+
+function pointOut(p: AnnotatedPoint): Out {
+  return {
+    t: 'obj',
+    fields: [
+      ['band', num(p.band, 'plain')],
+      ['spin', num(p.spin, 'plain')],
+      ['k', nums(p.k, 'k')],
+      ['label', p.label === null ? NULL : str(p.label)],
+      ['energy_eV', num(p.energy_eV, 'energy')],
+    ],
+  };
+}
+
+function gapOut(g: AnnotatedGap | null): Out {
+  if (!g) return NULL;
+  return withExtra(
+    [
+      ['eV', num(g.eV, 'energy')],
+      ['direct', bool(g.direct)],
+      ['vbm', pointOut(g.vbm)],
+      ['cbm', pointOut(g.cbm)],
+      ['directGap', { t: 'obj', fields: [['eV', num(g.directGap.eV, 'energy')], ['k', nums(g.directGap.k, 'k')]] }],
+    ],
+    g.extra,
+  );
+}
+
+function massOut(m: AnnotatedMass): Out {
+  return withExtra(
+    [
+      ['towards', str(m.towards)],
+      ['direction', nums(m.direction, 'unit')],
+      ['mass', numOrNull(m.mass, 'mass')],
+      ['stderr', numOrNull(m.stderr, 'stderr')],
+      ['points', num(m.points, 'plain')],
+      ['window_meV', num(m.window_meV, 'meV')],
+      ['method', str(m.method)],
+      ['alpha_per_eV', numOrNull(m.alpha_per_eV, 'mass')],
+      ['residual_meV', numOrNull(m.residual_meV, 'residual')],
+      ['branch', numOrNull(m.branch, 'plain')],
+      ['warnings', strs(m.warnings)],
+    ],
+    m.extra,
+  );
+}
+
+function tensorOut(t: AnnotatedTensor | null): Out {
+  if (!t) return NULL;
+  return withExtra(
+    [
+      ['principal', nums(t.principal, 'mass')],
+      ['stderr', t.stderr ? nums(t.stderr, 'stderr') : NULL],
+      ['axes', { t: 'list', items: t.axes.map((row) => nums(row, 'unit')) }],
+      ['method', str(t.method)],
+      ['points', numOrNull(t.points, 'plain')],
+      ['residual_meV', numOrNull(t.residual_meV, 'residual')],
+    ],
+    t.extra,
+  );
+}
+
+function entryOut(e: AnnotatedEntry): Out {
+  return withExtra(
+    [
+      ['id', str(e.id)],
+      ['status', str(e.status)],
+      ['note', str(e.note)],
+      ['found', bool(e.found)],
+      ['kind', str(e.kind)],
+      ['spin', num(e.spin, 'plain')],
+      ['band', num(e.band, 'plain')],
+      ['k', nums(e.k, 'k')],
+      ['label', e.label === null ? NULL : str(e.label)],
+      ['energy_eV', num(e.energy_eV, 'energy')],
+      ['offset_eV', numOrNull(e.offset_eV, 'energy')],
+      ['degenerateBands', numOrNull(e.degenerateBands, 'plain')],
+      ['valleyDegeneracy', numOrNull(e.valleyDegeneracy, 'plain')],
+      ['masses', { t: 'list', items: e.masses.map(massOut) }],
+      ['tensor', tensorOut(e.tensor)],
+      ['dosMass', numOrNull(e.dosMass, 'mass')],
+      ['conductivityMass', numOrNull(e.conductivityMass, 'mass')],
+      ['warnings', strs(e.warnings)],
+    ],
+    e.extra,
+  );
+}
+
+/** Entry order: kind (vbm, cbm, valley, peak), spin, band, then k component by component (as written). */
+export function compareEntries(a: AnnotatedEntry, b: AnnotatedEntry): number {
+  const ka = EXTREMUM_KINDS.indexOf(a.kind);
+  const kb = EXTREMUM_KINDS.indexOf(b.kind);
+  if (ka !== kb) return ka - kb;
+  if (a.spin !== b.spin) return a.spin - b.spin;
+  if (a.band !== b.band) return a.band - b.band;
+  for (let i = 0; i < 3; i++) {
+    const x = Number(formatNumber(a.k[i]!, 'k'));
+    const y = Number(formatNumber(b.k[i]!, 'k'));
+    if (x !== y) return x - y;
+  }
+  return a.id < b.id ? -1 : a.id > b.id ? 1 : 0;
+}
+
+export function sortEntries(entries: readonly AnnotatedEntry[]): AnnotatedEntry[] {
+  return [...entries].sort(compareEntries);
+}
+
+function docOut(doc: AnnotationsDoc): Out {
+  return withExtra(
+    [
+      ['valleyscopeAnnotations', num(doc.layoutVersion, 'plain')],
+      ['toolVersion', str(doc.toolVersion)],
+      ['format', str(doc.format)],
+      ['sources', { t: 'list', items: doc.sources.map(sourceOut) }],
+      ['settings', settingsOut(doc.settings)],
+      ['metal', doc.metal === null ? NULL : bool(doc.metal)],
+      ['gap', gapOut(doc.gap)],
+      ['note', str(doc.note)],
+      ['entries', { t: 'list', items: sortEntries(doc.entries).map(entryOut) }],
+      ['warnings', strs(doc.warnings)],
+      ['cautions', strs(doc.cautions)],
+    ],
+    doc.extra,
+  );
+}
+
+const isFlat = (o: Out): boolean => o.t === 'list' && o.items.every((x) => x.t === 'raw') && o.items.length <= 8;
+
+function write(o: Out, indent: string, out: string[]): void {
+  if (o.t === 'raw') {
+    out.push(o.text);
+    return;
+  }
+  if (o.t === 'list') {
+    if (o.items.length === 0) {
+      out.push('[]');
+      return;
+    }
+    // A list of numbers (a k-point, a direction) stays on one line; a list of rows of numbers puts each
+    // row on its own line.
+    if (isFlat(o) && o.items.every((x) => x.t === 'raw' && !x.text.startsWith('"'))) {
+      out.push(`[${o.items.map((x) => (x as { text: string }).text).join(', ')}]`);
+      return;
+    }
+    const inner = indent + '  ';
+    out.push('[\n');
+    o.items.forEach((item, i) => {
+      out.push(inner);
+      write(item, inner, out);
+      out.push(i < o.items.length - 1 ? ',\n' : '\n');
+    });
+    out.push(indent, ']');
+    return;
+  }
+  if (o.fields.length === 0) {
+    out.push('{}');
+    return;
+  }
+  const inner = indent + '  ';
+  out.push('{\n');
+  o.fields.forEach(([key, value], i) => {
+    out.push(inner, JSON.stringify(key), ': ');
+    write(value, inner, out);
+    out.push(i < o.fields.length - 1 ? ',\n' : '\n');
+  });
+  out.push(indent, '}');
+}
+
+/** The file's text: stable, two-space indented, ending with a newline. */
+export function serializeAnnotations(doc: AnnotationsDoc): string {
+  const out: string[] = [];
+  write(docOut(doc), '', out);
+  out.push('\n');
+  return out.join('');
+}
