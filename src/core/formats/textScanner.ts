@@ -172,7 +172,7 @@ export class TextScanner {
   /** Move to the start of the next line. Returns false at the end of the file. */
   nextLine(): boolean {
     const b = this.bytes;
-    const idx = b.indexOf(NL, this.pos);
+    const idx = b[this.pos] === NL ? this.pos : b.indexOf(NL, this.pos);
     if (idx < 0) {
       this.pos = b.length;
       return false;
@@ -247,10 +247,10 @@ export class TextScanner {
    * Read a number on the current line. `what` names the quantity for the error message.
    * Accepts Fortran exponents (D/d), rejects overflow fields (`****`), NaN and infinities.
    */
-  number(what: string): number {
+  number(what: string | (() => string)): number {
     this.skipSpaces();
     const v = this.tryNumber();
-    if (v === null) throw this.numberError(what);
+    if (v === null) throw this.numberError(typeof what === 'string' ? what : what());
     return v;
   }
 

@@ -88,10 +88,10 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
         `the file ends after ${k} of ${nkAnnounced} k-points (it is truncated, or the run is still writing it)`,
       );
     }
-    const kx = sc.number(`the first coordinate of k-point ${k + 1}`);
-    const ky = sc.number(`the second coordinate of k-point ${k + 1}`);
-    const kz = sc.number(`the third coordinate of k-point ${k + 1}`);
-    const w = sc.number(`the weight of k-point ${k + 1}`);
+    const kx = sc.number(() => `the first coordinate of k-point ${k + 1}`);
+    const ky = sc.number(() => `the second coordinate of k-point ${k + 1}`);
+    const kz = sc.number(() => `the third coordinate of k-point ${k + 1}`);
+    const w = sc.number(() => `the weight of k-point ${k + 1}`);
     sc.endLine(`the weight of k-point ${k + 1}`);
     const base = k * nBands;
     let complete = true;
@@ -106,12 +106,7 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
         );
       }
       const lineNo = sc.line;
-      if (sc.lineIsBlank()) {
-        throw sc.error(
-          `k-point ${k + 1} lists ${b} bands, but the header's NBANDS is ${nBands}: the header does not match the data`,
-        );
-      }
-      const idx = sc.number(`the band index (k-point ${k + 1}, band ${b + 1})`);
+      const idx = sc.tryNumberAfterSpaces() ?? bandIndexError(sc, k, b, nBands);
       if (idx !== b + 1) {
         throw sc.error(
           `expected band ${b + 1} of k-point ${k + 1}, found band index ${idx}: the header's NBANDS (${nBands}) does not match the data`,
@@ -140,9 +135,9 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
           for (let s = 0; s < ispin; s++) occupations.push(new Float64Array(maxK * nBands));
         }
       }
-      for (let s = 0; s < ispin; s++) energies[s]![base + b] = sc.number(`the energy of band ${b + 1} at k-point ${k + 1}${ispin === 2 ? (s === 0 ? ' (spin up)' : ' (spin down)') : ''}`);
+      for (let s = 0; s < ispin; s++) energies[s]![base + b] = sc.number(() => `the energy of band ${b + 1} at k-point ${k + 1}${ispin === 2 ? (s === 0 ? ' (spin up)' : ' (spin down)') : ''}`);
       if (occupations) {
-        for (let s = 0; s < ispin; s++) occupations[s]![base + b] = sc.number(`the occupation of band ${b + 1} at k-point ${k + 1}`);
+        for (let s = 0; s < ispin; s++) occupations[s]![base + b] = sc.number(() => `the occupation of band ${b + 1} at k-point ${k + 1}`);
       }
       if (!sc.atEol()) {
         throw sc.error(`band ${b + 1} of k-point ${k + 1} has more columns than the first band line (${columns}): "${sc.peekToken()}"`);
@@ -193,4 +188,13 @@ export function detectEigenval(head: Uint8Array, name: string): number {
   const l2 = (lines[1] ?? '').trim().split(/\s+/);
   if (l2.length !== 5) return 0.6;
   return /eigenval/i.test(name) ? 1 : 0.95;
+}
+
+/** The band-index field did not hold a number: say why in the reader's words. */
+function bandIndexError(sc: TextScanner, k: number, b: number, nBands: number): never {
+  if (sc.lineIsBlank()) {
+    throw sc.error(`k-point ${k + 1} lists ${b} bands, but the header's NBANDS is ${nBands}: the header does not match the data`);
+  }
+  sc.number(() => `the band index (k-point ${k + 1}, band ${b + 1})`);
+  throw sc.error(`expected the band index (k-point ${k + 1}, band ${b + 1})`);
 }
