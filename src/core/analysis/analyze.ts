@@ -6,6 +6,7 @@ import type { BandStructure, Report } from '../model';
 import { occupationRule } from './occupation';
 import { bandEdges, gapReport } from './gap';
 import { standardCautions } from './cautions';
+import { analyseExtrema } from './massEngine';
 
 export interface AnalysisSettings {
   /** Energy window of the parabola fit, meV. */
@@ -24,16 +25,6 @@ export const DEFAULT_SETTINGS: AnalysisSettings = {
   range_eV: 0.5,
   degeneracy_meV: 1,
 };
-
-/** Fills `report.extrema`; provided by the effective-mass engine. */
-export type ExtremaAnalyser = (bs: BandStructure, report: Report, settings: AnalysisSettings) => void;
-
-let extremaAnalyser: ExtremaAnalyser | null = null;
-
-/** Called once by the effective-mass engine's module to plug itself in. */
-export function registerExtremaAnalyser(f: ExtremaAnalyser): void {
-  extremaAnalyser = f;
-}
 
 export function analyzeBandStructure(bs: BandStructure, settings: Partial<AnalysisSettings> = {}): Report {
   const s: AnalysisSettings = { ...DEFAULT_SETTINGS, ...settings };
@@ -64,7 +55,7 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
       report.spinGaps = edges.spins.map((e, i) => gapReport(bs, occ, e.vbm, e.cbm, e.metal, [i]));
     }
     if (occ.fractionalFilling) warnings.push(`${bs.electrons} electrons do not fill a whole number of bands: the system is metallic (or the count is wrong).`);
-    if (extremaAnalyser && report.gap) extremaAnalyser(bs, report, s);
+    if (report.gap) analyseExtrema(bs, report, s, { occ, edges });
   }
   if (bs.partial) warnings.push('Partial data: the file is incomplete, so these results are provisional.');
   report.cautions = standardCautions(bs, report);

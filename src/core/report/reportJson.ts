@@ -42,6 +42,7 @@ export function massJson(m: MassFit): Record<string, unknown> {
   };
   if (m.alpha_per_eV !== undefined) o.alpha_per_eV = r(m.alpha_per_eV, 6);
   if (m.residual_meV !== undefined) o.residual_meV = r(m.residual_meV, 3);
+  if (m.branch !== undefined) o.branch = m.branch;
   if (m.warnings && m.warnings.length) o.warnings = m.warnings;
   return o;
 }
@@ -55,6 +56,7 @@ export function tensorJson(t: MassTensor | null): Record<string, unknown> | null
   };
   if (t.points !== undefined) o.points = t.points;
   if (t.residual_meV !== undefined) o.residual_meV = r(t.residual_meV, 3);
+  if (t.stderr !== undefined) o.stderr = t.stderr.map((x) => r(x, 3));
   return o;
 }
 

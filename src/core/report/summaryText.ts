@@ -17,7 +17,8 @@ export function describePoint(p: BandPoint): string {
 function massLine(m: MassFit, atMaximum: boolean): string {
   const hole = atMaximum && m.mass < 0 ? ` (hole mass ${fmt(-m.mass, 3)})` : '';
   const alpha = m.alpha_per_eV !== undefined ? `, α = ${fmt(m.alpha_per_eV, 3)} /eV` : '';
-  return `      towards ${m.towards}: m* = ${fmt(m.mass, 3)} ± ${fmt(m.stderr, 3)} m_e${hole}${alpha}  [${m.method}, ${m.points} points, ${fmt(m.window_meV, 0)} meV window]`;
+  const branch = m.branch !== undefined ? ` (branch ${m.branch})` : '';
+  return `      towards ${m.towards}${branch}: m* = ${fmt(m.mass, 3)} ± ${fmt(m.stderr, 3)} m_e${hole}${alpha}  [${m.method}, ${m.points} points, ${fmt(m.window_meV, 0)} meV window]`;
 }
 
 function extremumBlock(e: ExtremumReport): string[] {
@@ -34,6 +35,7 @@ function extremumBlock(e: ExtremumReport): string[] {
   }
   if (e.tensor) {
     lines.push(`    mass tensor (${e.tensor.method}): principal ${e.tensor.principal.map((x) => fmt(x, 3)).join(', ')} m_e`);
+    e.tensor.axes.forEach((a, i) => lines.push(`      m${i + 1} = ${fmt(e.tensor!.principal[i]!, 3)} m_e along (${a.map((x) => fmt(x, 3)).join(', ')})${atMax && e.tensor!.principal[i]! < 0 ? ` (hole mass ${fmt(-e.tensor!.principal[i]!, 3)})` : ''}`));
   }
   if (e.dosMass !== null) lines.push(`    density-of-states mass ${fmt(e.dosMass, 3)} m_e`);
   if (e.conductivityMass !== null) lines.push(`    conductivity mass ${fmt(e.conductivityMass, 3)} m_e`);

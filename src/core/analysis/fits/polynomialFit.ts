@@ -1,0 +1,96 @@
+/**
+ * Least-squares polynomial E(t) = Σ c_j t^j along a line, the vertex free (the linear term is fitted, so an
+ * extremum between sampled points is located, not assumed at a sampled point). Degree 2 is the parabola
+ * fit; degree 4 separates the curvature from cubic and quartic terms.
+ */
+import { curvatureToMass } from '../../units';
+import { leastSquares } from './leastSquares';
+import type { CurvatureFit, FitSettings, LineSamples } from './types';
+import { chooseWindow } from './window';
+
+export interface PolynomialOptions {
+  degree: 2 | 3 | 4;
+  method: string;
+  minPoints: number;
+}
+
+export function polynomialCurvature(s: LineSamples, settings: FitSettings, opt: PolynomialOptions): CurvatureFit | null {
+  const what = opt.degree === 2 ? 'parabola fit' : `degree-${opt.degree} polynomial fit`;
+  const win = chooseWindow(s, settings.window_meV, opt.minPoints, what);
+  const n = win.n;
+  const p = opt.degree + 1;
+  if (n < p) return null;
+  const tmax = s.t[n - 1]!;
+  if (!(tmax > 0)) return null;
+  const a = new Float64Array(n * p);
+  const y = new Float64Array(n);
+  const e0 = s.e[0]!;
+  for (let i = 0; i < n; i++) {
+    const u = s.t[i]! / tmax;
+    let pw = 1;
+    for (let j = 0; j < p; j++) {
+      a[i * p + j] = pw;
+      pw *= u;
+    }
+    y[i] = s.e[i]! - e0;
+  }
+  const fit = leastSquares(a, y, n, p, settings.energySigma ** 2);
+  if (!fit) return null;
+  // Coefficients in u = t/tmax: E = c0 + c1 u + c2 u² + ...; in t the quadratic coefficient is c2/tmax².
+  const c1 = fit.coef[1]! / tmax;
+  const c2 = fit.coef[2]! / (tmax * tmax);
+  const var2 = fit.cov[2 * p + 2]! / tmax ** 4;
+  const warnings = [...win.warnings];
+  // Curvature at the vertex: for the parabola it is 2 c2 everywhere; for higher degrees evaluate E'' at
+  // the vertex t_v where E'(t_v) = 0, found by Newton from the parabolic estimate.
+  let tv = c2 !== 0 ? -c1 / (2 * c2) : 0;
+  const coefT = Array.from(fit.coef, (c, j) => c / tmax ** j);
+  const d1 = (t: number): number => coefT.reduce((acc, c, j) => (j >= 1 ? acc + j * c * t ** (j - 1) : acc), 0);
+  const d2 = (t: number): number => coefT.reduce((acc, c, j) => (j >= 2 ? acc + j * (j - 1) * c * t ** (j - 2) : acc), 0);
+  if (opt.degree > 2) {
+    for (let it = 0; it < 20; it++) {
+      const g = d2(tv);
+      if (g === 0) break;
+      const step = d1(tv) / g;
+      tv -= step;
+      if (Math.abs(step) < 1e-12) break;
+    }
+    if (!Number.isFinite(tv) || Math.abs(tv) > tmax) tv = c2 !== 0 ? -c1 / (2 * c2) : 0;
+  }
+  const curvature = opt.degree === 2 ? 2 * c2 : d2(tv);
+  // Error of the curvature: the quadratic coefficient's error dominates (first order, vertex near 0).
+  const curvatureStderr = 2 * Math.sqrt(Math.max(var2, 0));
+  const mass = curvatureToMass(curvature);
+  const stderr = Math.abs(mass) * (curvatureStderr / Math.abs(curvature));
+  const rms = Math.sqrt(fit.rss / n) * 1000;
+  let vertexE = e0;
+  for (let j = 0; j < coefT.length; j++) vertexE += coefT[j]! * tv ** j;
+  const h = s.t.length > 1 ? s.t[1]! : tmax;
+  if (tv < -1.5 * h || tv > tmax) {
+    warnings.push(`The fitted vertex lies ${tv.toFixed(4)} Å⁻¹ from the sampled extremum, outside the points used: the band may not have its extremum here.`);
+  }
+  if (rms > Math.max(0.04 * win.window_meV, 3000 * settings.energySigma, 0.05)) {
+    warnings.push(`Fit residual ${rms.toFixed(2)} meV in a ${win.window_meV.toFixed(0)} meV window: the band is not parabolic there (try a smaller window, or the poly4 or kane method).`);
+  }
+  return {
+    method: opt.method,
+    curvature,
+    curvatureStderr,
+    mass,
+    stderr,
+    points: n,
+    window_meV: win.window_meV,
+    residual_meV: rms,
+    vertexT: tv,
+    vertexE,
+    warnings,
+  };
+}
+
+/** Fewest points of the quartic fit: five unknowns and two more to judge the residual. */
+export const POLY4_MIN_POINTS = 7;
+
+/** Quartic polynomial: the curvature at the vertex, separated from cubic and quartic terms. */
+export function quarticCurvature(s: LineSamples, settings: FitSettings): CurvatureFit | null {
+  return polynomialCurvature(s, settings, { degree: 4, method: 'poly4', minPoints: POLY4_MIN_POINTS });
+}

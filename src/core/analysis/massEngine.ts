@@ -1,0 +1,282 @@
+/**
+ * The effective-mass engine: locates the extrema (extrema.ts) and characterises each one completely —
+ * degeneracy, valley count, directional masses along the path, the tensor (from off-path k-points, or from
+ * directional masses where the little group of k makes them sufficient), averaged masses — each number with
+ * its provenance. Also the editor's entry points: a fit at a clicked point and the mass-versus-window scan.
+ */
+import type { BandStructure, ExtremumKind, ExtremumReport, MassFit, MassTensor, Report, Vec3 } from '../model';
+import { kpointAt, labelAt } from '../model';
+import type { AnalysisSettings } from './analyze';
+import { bandEdges, type EdgeAnalysis } from './gap';
+import { occupationRule, type OccupationRule } from './occupation';
+import { energySigma } from './energyResolution';
+import { degenerateGroup, gridNeighbours, locateExtrema, pathNeighbours, type ExtremumSite, type NeighbourFn } from './extrema';
+import { pathNetwork, kKey, type PathNetwork } from './pathRays';
+import { directionalMasses } from './directionalMasses';
+import { tensorFromNeighbours } from './tensorFit';
+import { averagedFromPrincipal, multiBandDosMass } from './averagedMasses';
+import { cartesianLittleGroup, symmetryContext, valleysAt, type SymmetryContext } from './valleyCount';
+import { tensorFromDirections } from './symmetryTensor';
+import { pathGeometry } from '../lattice/kpath';
+
+/** What the engine derives once per band structure and reuses for every extremum and click. */
+export interface EngineContext {
+  bs: BandStructure;
+  /** The path's directions, when the k-points form a path. */
+  network: PathNetwork | null;
+  neighbours: NeighbourFn | null;
+  energySigma: number;
+  symmetry: SymmetryContext;
+}
+
+const contexts = new WeakMap<BandStructure, EngineContext>();
+
+/** True when the k-points run along lines (a band path), even if the file did not say so. */
+function looksLikePath(bs: BandStructure, net: PathNetwork): boolean {
+  if (bs.sampling === 'path') return true;
+  if (bs.sampling === 'grid' || bs.grid) return false;
+  const segs = net.geometry.segments;
+  if (segs.length === 0) return false;
+  const mean = segs.reduce((s, g) => s + g.end - g.start + 1, 0) / segs.length;
+  return mean >= 5;
+}
+
+export function engineContext(bs: BandStructure): EngineContext {
+  const hit = contexts.get(bs);
+  if (hit) return hit;
+  let network: PathNetwork | null = null;
+  let neighbours: NeighbourFn | null = null;
+  if (bs.nk > 1) {
+    const net = pathNetwork(bs, pathGeometry(bs));
+    if (looksLikePath(bs, net)) {
+      network = net;
+      neighbours = pathNeighbours(net);
+    } else neighbours = gridNeighbours(bs);
+  }
+  const ctx: EngineContext = { bs, network, neighbours, energySigma: energySigma(bs), symmetry: symmetryContext(bs) };
+  contexts.set(bs, ctx);
+  return ctx;
+}
+
+function pointLabel(bs: BandStructure, net: PathNetwork | null, k: number): string | null {
+  const own = labelAt(bs, k);
+  if (own || !net) return own;
+  for (const j of net.occurrences.get(net.keyOf[k]!) ?? []) {
+    const l = labelAt(bs, j);
+    if (l) return l;
+  }
+  return null;
+}
+
+function fmt3(x: number): string {
+  return x.toPrecision(3);
+}
+
+/** Characterise one located extremum. */
+export function characterise(ctx: EngineContext, site: ExtremumSite, settings: AnalysisSettings): ExtremumReport {
+  const { bs, network } = ctx;
+  const k = kpointAt(bs, site.k);
+  const warnings = [...site.warnings];
+  const maximum = site.kind === 'vbm' || site.kind === 'peak';
+  const g = site.group.length;
+  if (g > 1) {
+    warnings.push(
+      `${g} bands meet here within ${settings.degeneracy_meV} meV: masses by band index are ill-defined at a degenerate edge, so each mass below follows one branch by smooth continuation of E(k) (branch 1 is the one ${maximum ? 'highest' : 'lowest'} in energy next to the extremum).`,
+    );
+  }
+  const valleyDegeneracy = valleysAt(ctx.symmetry, k);
+  if (valleyDegeneracy === null && ctx.symmetry.unavailable) warnings.push(ctx.symmetry.unavailable);
+
+  let masses: MassFit[] = [];
+  let tensor: MassTensor | null = null;
+  let crossed = false;
+  if (network) {
+    if (!network.hasLengths) warnings.push('No lattice and no written path distances: masses cannot be given in m_e.');
+    else {
+      if (network.geometry.cartesian === null) warnings.push('No lattice: distances are as the file wrote them and directions are unknown (written as zero vectors).');
+      const rays = network.raysFrom(site.k);
+      const dm = directionalMasses(bs, site.spin, site.group, site.band, rays, {
+        method: settings.method,
+        window_meV: settings.window_meV,
+        energySigma: ctx.energySigma,
+      });
+      masses = dm.masses;
+      crossed = dm.crossed;
+      warnings.push(...dm.warnings);
+      if (crossed) warnings.push('Along some direction a branch crosses another band: it was followed across the crossing, not by band index.');
+    }
+  } else if (bs.nk > 1) {
+    if (g > 1) warnings.push('No mass tensor at a degenerate edge: the branches have no common tensor.');
+    else {
+      const t = tensorFromNeighbours(bs, site.spin, site.band, site.k, settings.window_meV, ctx.energySigma);
+      tensor = t.tensor;
+      warnings.push(...t.warnings);
+    }
+  }
+
+  // Tensor from directional masses and the little group of k, when the path and symmetry suffice.
+  if (!tensor && g === 1 && masses.length > 0 && bs.lattice && network?.geometry.cartesian) {
+    const ops = cartesianLittleGroup(ctx.symmetry, k, bs.lattice);
+    if (ops) {
+      const r = tensorFromDirections(
+        masses.map((m) => ({ direction: m.direction, inverseMass: 1 / m.mass })),
+        ops,
+      );
+      if (r.result) {
+        tensor = {
+          principal: r.result.principal,
+          axes: r.result.axes,
+          method: `from ${masses.length} directional mass${masses.length === 1 ? '' : 'es'} and the little group of k (${r.result.operations} operations with time reversal, ${r.result.components} independent component${r.result.components === 1 ? '' : 's'})`,
+          points: masses.reduce((s, m) => s + m.points, 0),
+        };
+      } else if (r.reason) {
+        warnings.push(`No mass tensor: ${r.reason}. A stencil run (valleyscope stencil --at ${site.kind === 'vbm' || site.kind === 'cbm' ? site.kind : fracText(k)}) gives the full tensor.`);
+      }
+    }
+  }
+
+  let dosMass: number | null = null;
+  let conductivityMass: number | null = null;
+  if (tensor) {
+    const av = averagedFromPrincipal(tensor.principal, valleyDegeneracy, tensor.method.startsWith('from') ? 'tensor built from the directional masses' : 'fitted mass tensor');
+    dosMass = av.dosMass;
+    conductivityMass = av.conductivityMass;
+    warnings.push(av.note);
+  } else if (g > 1 && masses.length > 0) {
+    // Several bands share the edge: the multi-band DOS mass (Σ m_i^(3/2))^(2/3), each branch's mass its
+    // DOS-weighted average over the path directions, ⟨|m|^(3/2)⟩^(2/3).
+    const perBranch: number[] = [];
+    for (let b = 1; b <= g; b++) {
+      const ms = masses.filter((m) => m.branch === b).map((m) => Math.abs(m.mass));
+      if (ms.length) perBranch.push((ms.reduce((s, m) => s + m ** 1.5, 0) / ms.length) ** (2 / 3));
+    }
+    const signsAgree = masses.every((m) => (maximum ? m.mass < 0 : m.mass > 0));
+    if (perBranch.length === g && signsAgree) {
+      const nv = valleyDegeneracy ?? 1;
+      dosMass = nv ** (2 / 3) * multiBandDosMass(perBranch);
+      warnings.push(
+        `Density-of-states mass of the ${g} branches together, (Σ m_i^(3/2))^(2/3)${nv > 1 ? ` × N_v^(2/3) with N_v = ${nv}` : ''}: branch masses ${perBranch.map(fmt3).join(', ')} m_e, each averaged over the ${masses.length / g} path direction${masses.length / g === 1 ? '' : 's'} as ⟨|m|^(3/2)⟩^(2/3) (warped bands: an approximation).${valleyDegeneracy === null ? ' N_v unknown: taken as 1.' : ''}`,
+      );
+    }
+  }
+  return {
+    band: site.band + 1,
+    spin: site.spin,
+    k,
+    eV: site.energy,
+    label: pointLabel(bs, network, site.k),
+    kind: site.kind,
+    offset_eV: site.offset,
+    degenerateBands: g,
+    valleyDegeneracy,
+    masses,
+    tensor,
+    dosMass,
+    conductivityMass,
+    warnings,
+  };
+}
+
+function fracText(k: Vec3): string {
+  return k.map((x) => String(Number(x.toFixed(4)))).join(',');
+}
+
+function kIndexOf(bs: BandStructure, k: Vec3): number | null {
+  for (let i = 0; i < bs.nk; i++) {
+    if (Math.abs(bs.kpoints[3 * i]! - k[0]) < 1e-7 && Math.abs(bs.kpoints[3 * i + 1]! - k[1]) < 1e-7 && Math.abs(bs.kpoints[3 * i + 2]! - k[2]) < 1e-7) return i;
+  }
+  return null;
+}
+
+export interface EdgeInputs {
+  occ: OccupationRule;
+  edges: EdgeAnalysis;
+}
+
+/** Fill `report.extrema` (called by analyzeBandStructure once the gap is known). */
+export function analyseExtrema(bs: BandStructure, report: Report, settings: AnalysisSettings, inputs: EdgeInputs): void {
+  const ctx = engineContext(bs);
+  const sites = locateExtrema({
+    bs,
+    occ: inputs.occ,
+    edges: inputs.edges,
+    vbmIndex: report.gap ? kIndexOf(bs, report.gap.vbm.k) : null,
+    cbmIndex: report.gap ? kIndexOf(bs, report.gap.cbm.k) : null,
+    neighbours: ctx.neighbours,
+    network: ctx.network,
+    range_eV: settings.range_eV,
+    degeneracy_eV: settings.degeneracy_meV / 1000,
+  });
+  if (!ctx.neighbours && bs.nk > 1) {
+    report.warnings.push('The k-points form neither a path nor a known grid: secondary extrema were not searched.');
+  }
+  report.extrema = sites.map((s) => characterise(ctx, s, settings));
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// The editor's entry points.
+
+/** Walk from k along the band to the nearest local extremum (uphill or downhill, whichever is closer). */
+function snap(ctx: EngineContext, spin: number, kIndex: number, band: number): { k: number; maximum: boolean } {
+  const e = ctx.bs.energies[spin]!;
+  const nb = ctx.bs.nBands;
+  const nbrs = ctx.neighbours ?? (() => []);
+  const climb = (up: boolean): { k: number; steps: number } => {
+    let k = kIndex;
+    let steps = 0;
+    for (; steps <= ctx.bs.nk; steps++) {
+      let best = k;
+      for (const j of nbrs(k)) {
+        const better = up ? e[j * nb + band]! > e[best * nb + band]! + 1e-12 : e[j * nb + band]! < e[best * nb + band]! - 1e-12;
+        if (better) best = j;
+      }
+      if (best === k) break;
+      k = best;
+    }
+    return { k, steps };
+  };
+  const up = climb(true);
+  const down = climb(false);
+  if (up.steps === down.steps) {
+    // Already at an extremum of one kind (0 steps each way only on a flat spot): curvature decides.
+    const d2 = nbrs(kIndex).reduce((s, j) => s + e[j * nb + band]! - e[kIndex * nb + band]!, 0);
+    return d2 < 0 ? { k: up.k, maximum: true } : { k: down.k, maximum: false };
+  }
+  return up.steps < down.steps ? { k: up.k, maximum: true } : { k: down.k, maximum: false };
+}
+
+/**
+ * Fit at a clicked point: snaps to the local extremum of band `band0` (0-based) nearest `kIndex`, then
+ * characterises it like the analysis does (kind vbm/cbm when it is the edge, else peak/valley).
+ */
+export function fitExtremumAt(bs: BandStructure, spin: number, kIndex: number, band0: number, settings: AnalysisSettings): ExtremumReport {
+  if (!(spin >= 0 && spin < bs.nSpin)) throw new RangeError(`spin ${spin} is not in this band structure`);
+  if (!(kIndex >= 0 && kIndex < bs.nk)) throw new RangeError(`k index ${kIndex} is out of range`);
+  if (!(band0 >= 0 && band0 < bs.nBands)) throw new RangeError(`band ${band0 + 1} is out of range`);
+  const ctx = engineContext(bs);
+  const { k, maximum } = snap(ctx, spin, kIndex, band0);
+  const energy = bs.energies[spin]![k * bs.nBands + band0]!;
+  const tol = settings.degeneracy_meV / 1000;
+  const group = degenerateGroup(bs, spin, k, band0, tol);
+  const occ = occupationRule(bs);
+  const edges = occ ? bandEdges(bs, occ) : null;
+  let kind: ExtremumKind = maximum ? 'peak' : 'valley';
+  let offset = 0;
+  const key = kKey(kpointAt(bs, k));
+  if (edges && !edges.metal && edges.vbm && edges.cbm) {
+    const edge = maximum ? edges.vbm : edges.cbm;
+    if (edge.spin === spin && Math.abs(edge.energy - energy) <= tol && kKey(kpointAt(bs, edge.k)) === key) kind = maximum ? 'vbm' : 'cbm';
+    offset = maximum ? edges.vbm.energy - energy : energy - edges.cbm.energy;
+  }
+  const site: ExtremumSite = {
+    spin: spin as 0 | 1,
+    k,
+    band: maximum ? group[group.length - 1]! : group[0]!,
+    energy,
+    kind,
+    offset,
+    group,
+    warnings: k !== kIndex ? [`Moved from the clicked point to the nearest ${maximum ? 'maximum' : 'minimum'} of band ${band0 + 1}.`] : [],
+  };
+  return characterise(ctx, site, settings);
+}

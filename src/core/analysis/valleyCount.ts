@@ -1,0 +1,44 @@
+/**
+ * The crystal's symmetry as the mass engine needs it: the number of equivalent valleys at a k-point and
+ * the little group of k in cartesian form. Null, with the reason, when no structure is known, the symmetry
+ * module is not loaded, or the structure's cell is not the band structure's cell.
+ */
+import type { BandStructure, Mat3, Vec3 } from '../model';
+import { crystalSymmetry, symmetryReady, valleyDegeneracy, type CrystalSymmetry } from '../lattice/symmetry';
+import { cartesianOperation, littleGroup } from './symmetryTensor';
+
+export interface SymmetryContext {
+  sym: CrystalSymmetry | null;
+  /** Why there is no symmetry (said once per extremum). */
+  unavailable: string | null;
+}
+
+/** Fractional tolerance for a sampled k-point (written to about 7 decimals, often fewer). */
+const K_TOL = 2e-4;
+
+function sameLattice(a: Mat3, b: Mat3): boolean {
+  return a.every((r, i) => r.every((x, j) => Math.abs(x - b[i]![j]!) < 1e-4 * Math.max(1, Math.abs(x))));
+}
+
+export function symmetryContext(bs: BandStructure): SymmetryContext {
+  if (!bs.structure) return { sym: null, unavailable: 'No crystal structure is known: valley degeneracy cannot be determined.' };
+  if (bs.lattice && !sameLattice(bs.lattice, bs.structure.lattice)) {
+    return { sym: null, unavailable: "The structure's cell differs from the cell of the k-points: valley degeneracy was not determined." };
+  }
+  if (!symmetryReady()) return { sym: null, unavailable: 'The crystal-symmetry module is not loaded: valley degeneracy was not determined.' };
+  try {
+    return { sym: crystalSymmetry(bs.structure), unavailable: null };
+  } catch (e) {
+    return { sym: null, unavailable: `${e instanceof Error ? e.message : String(e)} Valley degeneracy was not determined.` };
+  }
+}
+
+export function valleysAt(ctx: SymmetryContext, k: Vec3): number | null {
+  return ctx.sym ? valleyDegeneracy(ctx.sym, k, K_TOL) : null;
+}
+
+/** The little group of k (with time reversal) as cartesian operations. */
+export function cartesianLittleGroup(ctx: SymmetryContext, k: Vec3, lattice: Mat3): Mat3[] | null {
+  if (!ctx.sym) return null;
+  return littleGroup(ctx.sym.reciprocalPointGroup, k, K_TOL).map((r) => cartesianOperation(r, lattice));
+}
