@@ -1,0 +1,103 @@
+/**
+ * One load-and-analyse job, as run by the worker thread (desktop) or in-process (web): bytes in, band
+ * structure and report out. Pure: no `vscode`, no file system; the host reads the bytes first.
+ */
+import type { BandStructure, Report } from '../core/model';
+import type { InputFile } from '../core/io/fileAccessor';
+import type { ReadOptions } from '../core/formats/types';
+import { readerById } from '../core/formats/index';
+import { readFromBytes } from '../core/load';
+import { analyzeBandStructure, type AnalysisSettings } from '../core/analysis/analyze';
+import { ReaderError, ValleyscopeError, CancelledError } from '../core/errors';
+import { ensureSymmetryReady } from '../core/lattice/symmetry';
+
+/**
+ * Load what analysis needs before the first job in a thread: the crystal-symmetry module (its WebAssembly is
+ * compiled asynchronously). Resolves with null, or the sentence saying why symmetry is unavailable.
+ */
+export async function prepareAnalysis(): Promise<string | null> {
+  try {
+    await ensureSymmetryReady();
+    return null;
+  } catch (e) {
+    return `crystal symmetry unavailable: ${e instanceof Error ? e.message : String(e)}`;
+  }
+}
+
+export interface AnalysisJob {
+  readerId: string;
+  main: InputFile;
+  companions: InputFile[];
+  read: Pick<ReadOptions, 'spinorbit' | 'alatAngstrom' | 'allowPartial'>;
+  settings: AnalysisSettings;
+}
+
+export interface AnalysisOutcome {
+  bs: BandStructure;
+  report: Report;
+}
+
+/** An error as it crosses a thread boundary (class identity is lost in structured clone). */
+export interface JobError {
+  kind: 'reader' | 'valleyscope' | 'cancelled' | 'internal';
+  message: string;
+  file?: string;
+  line?: number;
+  column?: number;
+  format?: string;
+  reason?: string;
+}
+
+export interface JobHooks {
+  isCancelled?: () => boolean;
+  onProgress?: (fraction: number) => void;
+}
+
+export async function runAnalysisJob(job: AnalysisJob, hooks: JobHooks = {}): Promise<AnalysisOutcome> {
+  const reader = readerById(job.readerId);
+  if (!reader) throw new ValleyscopeError(`${job.main.path}: no reader named ${job.readerId}`);
+  const options: ReadOptions = { ...job.read };
+  if (hooks.isCancelled) options.isCancelled = hooks.isCancelled;
+  if (hooks.onProgress) options.onProgress = hooks.onProgress;
+  const bs = await readFromBytes(reader, job.main, job.companions, options);
+  if (hooks.isCancelled?.()) throw new CancelledError();
+  const report = analyzeBandStructure(bs, job.settings);
+  return { bs, report };
+}
+
+export function toJobError(e: unknown): JobError {
+  if (e instanceof ReaderError) {
+    return { kind: 'reader', message: e.message, file: e.file, line: e.line, column: e.column, format: e.format, reason: e.reason };
+  }
+  if (e instanceof CancelledError) return { kind: 'cancelled', message: e.message };
+  if (e instanceof ValleyscopeError) return { kind: 'valleyscope', message: e.message };
+  return { kind: 'internal', message: e instanceof Error ? `internal error: ${e.message}` : `internal error: ${String(e)}` };
+}
+
+export function fromJobError(j: JobError): Error {
+  switch (j.kind) {
+    case 'reader':
+      return new ReaderError(j.format ?? '', j.file ?? '', { line: j.line ?? 0, column: j.column ?? 0 }, j.reason ?? j.message);
+    case 'cancelled':
+      return new CancelledError();
+    case 'valleyscope':
+      return new ValleyscopeError(j.message);
+    default:
+      return new Error(j.message);
+  }
+}
+
+/** The typed arrays of a band structure, to hand over to another thread without copying. */
+export function transferablesOf(bs: BandStructure): ArrayBuffer[] {
+  const set = new Set<ArrayBuffer>();
+  const add = (a: Float64Array | null | undefined): void => {
+    if (a && a.buffer instanceof ArrayBuffer) set.add(a.buffer);
+  };
+  add(bs.kpoints);
+  add(bs.weights);
+  add(bs.writtenDistance);
+  bs.energies.forEach(add);
+  bs.occupations?.forEach(add);
+  if (bs.structure) add(bs.structure.positions);
+  return [...set];
+}

@@ -1,0 +1,32 @@
+/**
+ * Worker-thread entry (desktop and remote extension hosts): reads and analyses one file off the extension
+ * host's main thread, posting progress, so a large file does not freeze the editor. Cancellation is by
+ * terminating the worker.
+ */
+import { parentPort } from 'node:worker_threads';
+import { prepareAnalysis, runAnalysisJob, toJobError, transferablesOf, type AnalysisJob } from './analysisJob';
+import type { WorkerReply } from './workerMessages';
+
+const port = parentPort;
+if (port) {
+  const prepared = prepareAnalysis();
+  port.on('message', async (job: AnalysisJob) => {
+    await prepared;
+    let last = -1;
+    try {
+      const out = await runAnalysisJob(job, {
+        onProgress: (f) => {
+          // At most ~100 progress messages per job.
+          const step = Math.floor(f * 100);
+          if (step !== last) {
+            last = step;
+            port.postMessage({ type: 'progress', fraction: f } satisfies WorkerReply);
+          }
+        },
+      });
+      port.postMessage({ type: 'done', bs: out.bs, report: out.report } satisfies WorkerReply, transferablesOf(out.bs));
+    } catch (e) {
+      port.postMessage({ type: 'failed', error: toJobError(e) } satisfies WorkerReply);
+    }
+  });
+}

@@ -1,0 +1,62 @@
+/** The open band views, one per run; which one has focus. */
+import type * as vscode from 'vscode';
+import { BandViewPanel, type PanelDeps } from './bandViewPanel';
+
+export class BandViewPanels {
+  private readonly panels = new Map<string, BandViewPanel>();
+  private focusedPanel: BandViewPanel | null = null;
+  private lastFocused: BandViewPanel | null = null;
+
+  constructor(private readonly deps: Omit<PanelDeps, 'onFocus'> & { onFocus: (uri: vscode.Uri | null) => void }) {}
+
+  /** The band view with focus, else the last one that had it. */
+  get focused(): BandViewPanel | null {
+    return this.focusedPanel ?? this.lastFocused;
+  }
+
+  get any(): BandViewPanel | null {
+    return this.panels.values().next().value ?? null;
+  }
+
+  forUri(uri: vscode.Uri | null): BandViewPanel | null {
+    return uri ? (this.panels.get(uri.toString()) ?? null) : null;
+  }
+
+  isOpen(uri: vscode.Uri): boolean {
+    return this.panels.has(uri.toString());
+  }
+
+  async open(uri: vscode.Uri): Promise<BandViewPanel> {
+    const key = uri.toString();
+    const have = this.panels.get(key);
+    if (have) {
+      have.reveal();
+      return have;
+    }
+    let panel: BandViewPanel | null = null;
+    panel = await BandViewPanel.create(uri, {
+      ...this.deps,
+      onFocus: (u) => {
+        if (u && panel) {
+          this.focusedPanel = panel;
+          this.lastFocused = panel;
+        } else if (this.focusedPanel === panel) this.focusedPanel = null;
+        this.deps.onFocus(u);
+      },
+    });
+    this.panels.set(key, panel);
+    this.focusedPanel = panel;
+    this.lastFocused = panel;
+    const p = panel;
+    p.onDidDispose(() => {
+      this.panels.delete(key);
+      if (this.focusedPanel === p) this.focusedPanel = null;
+      if (this.lastFocused === p) this.lastFocused = null;
+    });
+    return panel;
+  }
+
+  dispose(): void {
+    for (const p of [...this.panels.values()]) p.dispose();
+  }
+}

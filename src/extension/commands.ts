@@ -1,0 +1,94 @@
+/** The commands (ids in commandIds.ts; titles in package.json; documented in test/editor/HOOKS.md). */
+import * as vscode from 'vscode';
+import { COMMANDS } from './commandIds';
+import type { RunStore } from './runStore';
+import type { BandViewPanels } from './bandViewPanels';
+import { isEigenvalueLanguage } from './languageIds';
+import { summaryText } from '../core/report/summaryText';
+import { saveAnnotations, type SaveDeps, type SaveOutcome } from './saveAnnotations';
+import { ViewToHostType, type ExportFormat } from '../protocol';
+
+function activeRunUri(panels: BandViewPanels): vscode.Uri | null {
+  const ed = vscode.window.activeTextEditor;
+  if (ed && isEigenvalueLanguage(ed.document.languageId)) return ed.document.uri;
+  return panels.focused?.runUri ?? null;
+}
+
+function asUri(x: unknown): vscode.Uri | null {
+  return x instanceof vscode.Uri ? x : null;
+}
+
+const NO_FILE = 'Open an eigenvalue file (EIGENVAL, vasprun.xml, QE XML, bands.x output, Wannier90 _band.dat, BXSF, CASTEP .bands) first.';
+
+export function registerCommands(store: RunStore, panels: BandViewPanels, saveDeps: SaveDeps): vscode.Disposable {
+  const reg = vscode.commands.registerCommand;
+  return vscode.Disposable.from(
+    reg(COMMANDS.openBandView, async (arg?: unknown) => {
+      const uri = asUri(arg) ?? activeRunUri(panels) ?? vscode.window.activeTextEditor?.document.uri ?? null;
+      if (!uri) {
+        void vscode.window.showWarningMessage(NO_FILE);
+        return;
+      }
+      void store.get(uri).catch(() => undefined);
+      await panels.open(uri);
+    }),
+    reg(COMMANDS.saveAnnotations, async (): Promise<SaveOutcome> => {
+      const panel = panels.focused ?? panels.forUri(activeRunUri(panels));
+      let outcome: SaveOutcome;
+      if (panel) outcome = await panel.requestSave();
+      else {
+        const uri = activeRunUri(panels);
+        if (!uri) outcome = { ok: false, message: NO_FILE };
+        else {
+          try {
+            outcome = await saveAnnotations(await store.get(uri), { type: ViewToHostType.Save, entries: [] }, saveDeps);
+          } catch (e) {
+            outcome = { ok: false, message: e instanceof Error ? e.message : String(e) };
+          }
+        }
+        if (outcome.ok) void vscode.window.showInformationMessage(outcome.message);
+        else void vscode.window.showWarningMessage(outcome.message);
+      }
+      return outcome;
+    }),
+    reg(COMMANDS.exportPlot, async (formatArg?: unknown, targetArg?: unknown): Promise<string> => {
+      const panel = panels.focused ?? panels.forUri(activeRunUri(panels)) ?? panels.any;
+      if (!panel) {
+        const m = 'Open the band view first (Valleyscope: Open Band View): the plot is exported from it.';
+        void vscode.window.showWarningMessage(m);
+        return m;
+      }
+      let format: ExportFormat | null = formatArg === 'svg' || formatArg === 'png' ? formatArg : null;
+      if (!format) {
+        const pick = await vscode.window.showQuickPick(
+          [
+            { label: 'SVG', description: 'vector, for papers and slides', value: 'svg' as const },
+            { label: 'PNG', description: 'image at publication resolution', value: 'png' as const },
+          ],
+          { title: 'Export band plot as' },
+        );
+        if (!pick) return 'Export cancelled.';
+        format = pick.value;
+      }
+      return panel.requestExport(format, asUri(targetArg));
+    }),
+    reg(COMMANDS.reload, async (arg?: unknown) => {
+      const uri = asUri(arg) ?? activeRunUri(panels);
+      if (uri) await store.reload(uri).catch(() => undefined);
+    }),
+    reg(COMMANDS.showSummary, async (arg?: unknown) => {
+      const uri = asUri(arg) ?? activeRunUri(panels);
+      if (!uri) {
+        void vscode.window.showWarningMessage(NO_FILE);
+        return;
+      }
+      try {
+        const run = await store.get(uri);
+        const doc = await vscode.workspace.openTextDocument({ content: summaryText(run.report), language: 'plaintext' });
+        await vscode.window.showTextDocument(doc, { viewColumn: vscode.ViewColumn.Beside, preview: true });
+      } catch (e) {
+        void vscode.window.showErrorMessage(e instanceof Error ? e.message : String(e));
+      }
+    }),
+  );
+}

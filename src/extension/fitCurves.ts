@@ -1,0 +1,66 @@
+/**
+ * Curves to draw over the data for a fitted extremum: along each path direction a fit was made, the
+ * fitted dispersion (parabola from the signed mass, or Kane's ε(1 + αε) = ħ²k²/2m* when α was fitted),
+ * sampled in the band view's path-distance coordinate. Pure; the masses come from the core's engine.
+ */
+import type { ExtremumReport, MassFit } from '../core/model';
+import type { PathGeometry } from '../core/lattice/kpath';
+import type { Ray } from '../core/analysis/pathRays';
+import { HBAR2_OVER_ME_EV_A2 } from '../core/units';
+import { kaneEnergy } from '../core/analysis/fits/kaneFit';
+import type { FitCurve } from '../protocol';
+
+export const CURVE_SAMPLES = 41;
+
+/** Energy of the fitted dispersion at distance t (Å⁻¹) from the vertex, eV. */
+export function fittedEnergy(e0: number, m: MassFit, t: number): number {
+  const a = HBAR2_OVER_ME_EV_A2 / (2 * Math.abs(m.mass));
+  const sign = m.mass < 0 ? -1 : 1;
+  const eps = m.alpha_per_eV !== undefined && m.alpha_per_eV !== 0 ? kaneEnergy(a, m.alpha_per_eV, t * t) : a * t * t;
+  return e0 + sign * eps;
+}
+
+function sameDirection(m: MassFit, r: Ray): boolean {
+  if (m.towards !== r.towards) return false;
+  const zero = (v: readonly number[]): boolean => v[0] === 0 && v[1] === 0 && v[2] === 0;
+  if (zero(m.direction) || zero(r.direction)) return true;
+  return m.direction[0] * r.direction[0] + m.direction[1] * r.direction[1] + m.direction[2] * r.direction[2] > 0.999;
+}
+
+/**
+ * Sampled curves for the masses of `x`, one per ray that matches a mass (an extremum visited twice by the
+ * path gets a curve at each visit). `rays` are the path directions leaving the extremum's k-point.
+ * Each curve runs until the fitted energy is 1.5 windows from the extremum, or the ray ends.
+ */
+export function fitCurves(geometry: PathGeometry, x: ExtremumReport, rays: Ray[]): FitCurve[] {
+  const out: FitCurve[] = [];
+  for (const m of x.masses) {
+    if (!Number.isFinite(m.mass) || m.mass === 0) continue;
+    const limit = (1.5 * Math.max(m.window_meV, 1)) / 1000;
+    for (const r of rays) {
+      if (r.indices.length < 2 || !sameDirection(m, r)) continue;
+      const i0 = r.indices[0]!;
+      const i1 = r.indices[1]!;
+      const d0 = geometry.distance[i0]!;
+      const dir = geometry.distance[i1]! >= d0 ? 1 : -1;
+      const tEnd = r.t[r.t.length - 1]!;
+      // Distance at which the fitted curve leaves the drawing range.
+      const a = HBAR2_OVER_ME_EV_A2 / (2 * Math.abs(m.mass));
+      const tMax = Math.min(tEnd, Math.sqrt(limit / a) * 1.2);
+      if (!(tMax > 0)) continue;
+      // Path distances per Å⁻¹ along the ray (1 when the path is in Å⁻¹; differs for written units).
+      const scale = r.t[1]! > 0 ? Math.abs(geometry.distance[i1]! - d0) / r.t[1]! : 1;
+      const distance: number[] = [];
+      const energy: number[] = [];
+      for (let j = 0; j < CURVE_SAMPLES; j++) {
+        const t = (tMax * j) / (CURVE_SAMPLES - 1);
+        const e = fittedEnergy(x.eV, m, t);
+        if (!Number.isFinite(e) || Math.abs(e - x.eV) > limit * 1.5) break;
+        distance.push(d0 + dir * t * scale);
+        energy.push(e);
+      }
+      if (distance.length >= 2) out.push({ towards: m.branch !== undefined ? `${m.towards} (branch ${m.branch})` : m.towards, distance, energy });
+    }
+  }
+  return out;
+}

@@ -1,0 +1,78 @@
+/**
+ * Which line of a file's text holds each k-point: found by content, not by format, so it works for every
+ * layout that writes the three fractional coordinates of a k-point on one line (EIGENVAL, vasprun.xml,
+ * CASTEP .bands, ...). k-points are searched for in order, each after the line of the previous one.
+ * Pure; no `vscode`.
+ */
+
+/** Numbers written within this of each other are the same coordinate (files print 6–8 decimals). */
+const MATCH_TOL = 2e-5;
+
+/** Text longer than this is not scanned (the editor turns off language features for such files anyway). */
+export const MAX_SCANNED_CHARS = 64 * 1024 * 1024;
+
+function isSep(c: number): boolean {
+  // space, tab, CR, ',', ';', '<', '>', '(', ')', '[', ']', '='
+  return c === 32 || c === 9 || c === 13 || c === 44 || c === 59 || c === 60 || c === 62 || c === 40 || c === 41 || c === 91 || c === 93 || c === 61;
+}
+
+/** Numeric tokens of one line (Fortran 'D' exponents accepted); other tokens become NaN. */
+export function lineNumbers(text: string, start: number, end: number, out: number[]): void {
+  out.length = 0;
+  let i = start;
+  while (i < end) {
+    while (i < end && isSep(text.charCodeAt(i))) i++;
+    if (i >= end) break;
+    const s = i;
+    while (i < end && !isSep(text.charCodeAt(i))) i++;
+    const tok = text.slice(s, i);
+    const v = Number(/[dD]/.test(tok) ? tok.replace(/[dD]/, 'e') : tok);
+    out.push(tok.length > 0 ? v : Number.NaN);
+  }
+}
+
+function hasTriple(nums: number[], kx: number, ky: number, kz: number): boolean {
+  for (let j = 0; j + 2 < nums.length; j++) {
+    if (Math.abs(nums[j]! - kx) <= MATCH_TOL && Math.abs(nums[j + 1]! - ky) <= MATCH_TOL && Math.abs(nums[j + 2]! - kz) <= MATCH_TOL) return true;
+  }
+  return false;
+}
+
+/**
+ * 0-based line of each k-point (nk entries; -1 where a k-point was not found, and for all k-points after
+ * it). `kpoints` is nk × 3 fractional coordinates.
+ */
+export function locateKpointLines(text: string, kpoints: Float64Array, nk: number): Int32Array {
+  const lines = new Int32Array(nk).fill(-1);
+  if (nk === 0 || text.length > MAX_SCANNED_CHARS) return lines;
+  const nums: number[] = [];
+  let k = 0;
+  let line = 0;
+  let pos = 0;
+  while (pos <= text.length && k < nk) {
+    let end = text.indexOf('\n', pos);
+    if (end < 0) end = text.length;
+    lineNumbers(text, pos, end, nums);
+    if (nums.length >= 3 && hasTriple(nums, kpoints[3 * k]!, kpoints[3 * k + 1]!, kpoints[3 * k + 2]!)) {
+      lines[k] = line;
+      k++;
+    }
+    pos = end + 1;
+    line++;
+  }
+  return lines;
+}
+
+/** The k-point whose line is `line`, or -1. `kLines` as returned by locateKpointLines (increasing). */
+export function kpointAtLine(kLines: Int32Array, line: number): number {
+  let lo = 0;
+  let hi = kLines.length - 1;
+  while (lo <= hi) {
+    const mid = (lo + hi) >> 1;
+    const v = kLines[mid]!;
+    if (v === -1 || v > line) hi = mid - 1;
+    else if (v < line) lo = mid + 1;
+    else return mid;
+  }
+  return -1;
+}

@@ -1,0 +1,101 @@
+/**
+ * Load and analyse a run through the workspace file system. Reading and analysis run on a worker thread on
+ * desktop and remote hosts (the editor stays responsive on files of hundreds of MB), in-process on the web.
+ * Progress is reported and cancellation honoured; the bytes are handed to the worker without a copy.
+ */
+import type * as vscode from 'vscode';
+import { Worker } from 'node:worker_threads';
+import { locateRun, readCompanions } from '../core/load';
+import { pathGeometry, type PathGeometry } from '../core/lattice/kpath';
+import type { BandStructure, Report } from '../core/model';
+import type { AnalysisSettings } from '../core/analysis/analyze';
+import { CancelledError } from '../core/errors';
+import { WorkspaceFileAccessor } from './fileAccessor';
+import { fromJobError, prepareAnalysis, runAnalysisJob, type AnalysisJob, type AnalysisOutcome } from './analysisJob';
+import type { WorkerReply } from './workerMessages';
+
+export interface LoadedRun {
+  /** The URI the user opened (a file or a run folder). */
+  uri: vscode.Uri;
+  /** The eigenvalue file that was read (differs from uri when a folder was opened). */
+  fileUri: vscode.Uri;
+  bs: BandStructure;
+  report: Report;
+  geometry: PathGeometry;
+  /** Size of the eigenvalue file in bytes when read (used to notice growth). */
+  size: number;
+}
+
+export interface LoadOptions {
+  settings: AnalysisSettings;
+  maxBytes: number;
+  /** The built worker script (dist/analysisWorker.js) as a file path, or null to stay in-process. */
+  workerScript: string | null;
+  /** Files at least this large go to the worker. */
+  workerThresholdBytes: number;
+}
+
+export type ProgressSink = (fraction: number, message: string) => void;
+
+export async function loadAndAnalyse(uri: vscode.Uri, opts: LoadOptions, token: vscode.CancellationToken, progress: ProgressSink): Promise<LoadedRun> {
+  const fs = new WorkspaceFileAccessor(uri, opts.maxBytes);
+  try {
+    progress(0, 'finding the eigenvalue file');
+    // Symmetry is needed on this thread too: fits at clicked points run here.
+    const symmetryProblem = await prepareAnalysis();
+    if (symmetryProblem) progress(0, symmetryProblem);
+    const loc = await locateRun(fs, uri.path);
+    if (token.isCancellationRequested) throw new CancelledError();
+    progress(0, 'reading');
+    const bytes = await fs.readFile(loc.file);
+    const companions = await readCompanions(fs, loc);
+    fs.release();
+    if (token.isCancellationRequested) throw new CancelledError();
+    const job: AnalysisJob = {
+      readerId: loc.reader.id,
+      main: { path: loc.file, bytes },
+      companions,
+      read: { allowPartial: true },
+      settings: opts.settings,
+    };
+    const size = bytes.byteLength;
+    const useWorker = Worker !== undefined && opts.workerScript !== null && size >= opts.workerThresholdBytes;
+    const out = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, token, progress);
+    progress(1, 'path geometry');
+    return { uri, fileUri: fs.uri(loc.file), bs: out.bs, report: out.report, geometry: pathGeometry(out.bs), size };
+  } finally {
+    fs.release();
+  }
+}
+
+function runInProcess(job: AnalysisJob, token: vscode.CancellationToken, progress: ProgressSink): Promise<AnalysisOutcome> {
+  return runAnalysisJob(job, {
+    isCancelled: () => token.isCancellationRequested,
+    onProgress: (f) => progress(f, 'reading'),
+  });
+}
+
+function runInWorker(script: string, job: AnalysisJob, token: vscode.CancellationToken, progress: ProgressSink): Promise<AnalysisOutcome> {
+  return new Promise<AnalysisOutcome>((resolve, reject) => {
+    const worker = new Worker!(script);
+    let settled = false;
+    const finish = (f: () => void): void => {
+      if (settled) return;
+      settled = true;
+      sub.dispose();
+      void worker.terminate();
+      f();
+    };
+    const sub = token.onCancellationRequested(() => finish(() => reject(new CancelledError())));
+    worker.on('message', (m: WorkerReply) => {
+      if (m.type === 'progress') progress(m.fraction, 'reading');
+      else if (m.type === 'done') finish(() => resolve({ bs: m.bs, report: m.report }));
+      else finish(() => reject(fromJobError(m.error)));
+    });
+    worker.on('error', (e) => finish(() => reject(new Error(`analysis worker failed: ${e.message}`))));
+    worker.on('exit', (code) => finish(() => reject(new Error(`analysis worker stopped (exit code ${code})`))));
+    const b = job.main.bytes;
+    const whole = b.byteOffset === 0 && b.byteLength === b.buffer.byteLength && b.buffer instanceof ArrayBuffer;
+    worker.postMessage(job, whole ? [b.buffer as ArrayBuffer] : []);
+  });
+}
