@@ -132,6 +132,15 @@ export class EditorSession {
       'files.autoSave': 'off',
       'window.restoreWindows': 'none',
       'editor.codeLens': true,
+      // Typed text arrives as typed (hand edits in the annotations scenario).
+      'editor.autoClosingQuotes': 'never',
+      'editor.autoClosingBrackets': 'never',
+      'editor.autoIndent': 'none',
+      'editor.formatOnType': false,
+      'editor.acceptSuggestionOnEnter': 'off',
+      'editor.quickSuggestions': { other: false, comments: false, strings: false },
+      // Outline rows: one per path segment until expanded.
+      'outline.collapseItems': 'alwaysCollapse',
       ...opts.settings,
     };
     writeFileSync(join(userData, 'User', 'settings.json'), JSON.stringify(settings, null, 2));
@@ -259,6 +268,64 @@ export class EditorSession {
     return this.page.frameLocator('iframe.webview.ready').last().frameLocator('iframe#active-frame');
   }
 
+  /** Close every editor (and webview panel) without saving prompts for clean editors. */
+  async closeAllEditors(): Promise<void> {
+    await this.runCommand('View: Close All Editors');
+    await this.page.locator('.tabs-container .tab').first().waitFor({ state: 'detached', timeout: 15_000 }).catch(() => undefined);
+  }
+
+  /** Labels of the top-level rows of the Outline view (opened in the Explorer), waiting until there are `min`. */
+  async outlineLabels(min: number, timeoutMs = 60_000): Promise<string[]> {
+    const header = this.page.locator('.pane-header', { hasText: /^\s*Outline/i }).first();
+    await header.waitFor({ timeout: 15_000 });
+    // Room for the outline: fold the file tree's section (the first section of the Explorer).
+    const files = this.page.locator('.explorer-viewlet .pane-header').first();
+    if ((await files.getAttribute('aria-expanded')) === 'true' && !(await files.innerText()).match(/outline/i)) await files.click();
+    if ((await header.getAttribute('aria-expanded')) !== 'true') await header.click();
+    const rows = this.page.locator('.outline-pane .monaco-list-row[aria-level="1"]');
+    const until = Date.now() + timeoutMs;
+    let labels: string[] = [];
+    let previous = '';
+    while (Date.now() < until) {
+      labels = (await rows.locator('.label-name').allInnerTexts()).map((l) => l.trim());
+      // Enough rows, and the same list twice in a row (the outline fills in as symbols arrive).
+      if (labels.length >= min && labels.join('\n') === previous) return labels;
+      previous = labels.join('\n');
+      await sleep(400);
+    }
+    return labels;
+  }
+
+  /** Text of each row of the Problems panel (message, source, "[Ln x, Col y]"), waiting for `min` rows. */
+  async problems(min: number, timeoutMs = 60_000): Promise<string[]> {
+    const panelRows = this.page.locator('.markers-panel .monaco-list-row');
+    if ((await this.page.locator('.markers-panel').count()) === 0 || !(await this.page.locator('.markers-panel').first().isVisible())) {
+      await this.runCommand('View: Toggle Problems');
+    }
+    await this.page.locator('.markers-panel').first().waitFor({ timeout: 15_000 });
+    const until = Date.now() + timeoutMs;
+    let rows: string[] = [];
+    while (Date.now() < until) {
+      rows = await panelRows.allInnerTexts();
+      // The file row plus its problems.
+      if (rows.length >= min) return rows;
+      await sleep(250);
+    }
+    return rows;
+  }
+
+  /** Click the code lens of the active editor whose text contains `text`. */
+  async clickCodeLens(text: string, timeoutMs = 60_000): Promise<void> {
+    const lens = this.page.locator('.editor-instance .monaco-editor .codelens-decoration a', { hasText: text }).first();
+    await lens.waitFor({ state: 'visible', timeout: timeoutMs });
+    await lens.click();
+  }
+
+  /** Text of the code lenses of the active editor. */
+  async codeLensTexts(): Promise<string[]> {
+    return this.page.locator('.editor-instance .monaco-editor .codelens-decoration').allInnerTexts();
+  }
+
   /** Text of the notification toasts now shown. */
   async notifications(): Promise<string[]> {
     return this.page.locator('.notifications-toasts .notification-list-item-message').allInnerTexts();
@@ -267,5 +334,16 @@ export class EditorSession {
   /** The code-server log so far (for failure messages). */
   get serverLog(): string {
     return this.logPath;
+  }
+}
+
+/** Wait until `check` returns a value (not undefined), polling; throws `message` on timeout. */
+export async function waitFor<T>(check: () => T | undefined | Promise<T | undefined>, message: string, timeoutMs = 30_000): Promise<T> {
+  const until = Date.now() + timeoutMs;
+  for (;;) {
+    const v = await check();
+    if (v !== undefined) return v;
+    if (Date.now() > until) throw new Error(`timed out after ${timeoutMs / 1000} s: ${message}`);
+    await sleep(250);
   }
 }

@@ -1,0 +1,278 @@
+/**
+ * Scenarios in a real VS Code (code-server 4.100.3) with the packaged extension, in a trusted workspace.
+ * Data: fixtures/epm/si, silicon from the empirical pseudopotential model of Cohen & Bergstresser,
+ * Phys. Rev. 141, 789 (1966), on the standard fcc path (Setyawan & Curtarolo 2010), written in VASP's layouts;
+ * each scenario gets its own copy of the run so none depends on another's files. Reference numbers come from
+ * outside the editor: the command-line twin on the same file (`analyze --json`) and the KPOINTS file itself.
+ */
+import assert from 'node:assert/strict';
+import { existsSync, readFileSync, statSync } from 'node:fs';
+import { join } from 'node:path';
+import { EditorSession, waitFor } from './support/editorSession';
+import { canvasInk, clickNearMark, fitKind, massRows, waitForBandView } from './support/bandViewDriver';
+import { cliAnalyze, lineModeSegments, type CliExtremum } from './support/reference';
+
+const repo = (...p: string[]): string => join(__dirname, '..', '..', ...p);
+const SI = repo('fixtures', 'epm', 'si');
+const MALFORMED = join(__dirname, 'fixtures', 'malformed');
+
+let starting: Promise<EditorSession> | undefined;
+/** One editor for this file's scenarios, started by the first that needs it; a failed start fails each. */
+function session(): Promise<EditorSession> {
+  starting ??= EditorSession.start({
+    name: 'trusted',
+    workspace: [
+      [SI, 'si-outline'],
+      [MALFORMED, 'malformed'],
+      [SI, 'si-view'],
+      [SI, 'si-save'],
+      [SI, 'si-merge'],
+    ],
+  });
+  return starting;
+}
+
+/** Energies in an annotations file have 4 decimals, masses 4 significant digits (the file's documented layout). */
+const ENERGY_TOL = 0.5e-4 + 1e-9;
+const massTol = (m: number): number => 0.5e-3 * Math.abs(m) + 1e-9;
+
+const sameK = (a: readonly number[], b: readonly number[]): boolean => a.length === 3 && a.every((x, i) => Math.abs(x - b[i]!) < 2e-6);
+
+interface FileMass {
+  towards: string;
+  mass: number | null;
+  window_meV: number;
+  method: string;
+  branch?: number;
+}
+interface FileEntry {
+  kind: string;
+  band: number;
+  spin: number;
+  k: number[];
+  energy_eV: number;
+  masses: FileMass[];
+  note?: string;
+}
+interface AnnotationsFile {
+  gap: { eV: number; direct: boolean; vbm: { band: number; k: number[]; energy_eV: number }; cbm: { band: number; k: number[]; energy_eV: number } } | null;
+  entries: FileEntry[];
+  [key: string]: unknown;
+}
+
+/** Checks that the numbers of an annotations file equal the CLI's on the same data file. */
+function assertSameNumbers(file: AnnotationsFile, dataFile: string, repoRoot: string, windowArgs: string[] = []): void {
+  const cli = cliAnalyze(repoRoot, dataFile, windowArgs);
+  assert.ok(cli.gap && file.gap, 'both the CLI and the annotations file report a gap');
+  // Reference: `valleyscope analyze --json` on the same file (issue 6's acceptance, issue 7's scenario).
+  assert.ok(Math.abs(file.gap.eV - cli.gap.eV) <= ENERGY_TOL, `gap ${file.gap.eV} eV in the file, ${cli.gap.eV} eV from the CLI`);
+  assert.equal(file.gap.direct, cli.gap.direct);
+  assert.equal(file.gap.cbm.band, cli.gap.cbm.band);
+  assert.ok(sameK(file.gap.cbm.k, cli.gap.cbm.k), `CBM k ${file.gap.cbm.k} vs ${cli.gap.cbm.k}`);
+  assert.ok(Math.abs(file.gap.cbm.energy_eV - cli.gap.cbm.eV) <= ENERGY_TOL);
+  assert.ok(Math.abs(file.gap.vbm.energy_eV - cli.gap.vbm.eV) <= ENERGY_TOL);
+  const cliCbm = cli.extrema.find((e) => e.kind === 'cbm');
+  assert.ok(cliCbm, 'the CLI reports a CBM');
+  const entry = file.entries.find((e) => e.kind === 'cbm' && e.band === cliCbm.band && sameK(e.k, cliCbm.k));
+  assert.ok(entry, `the annotations file has an entry for the CBM (band ${cliCbm.band} at ${cliCbm.k})`);
+  assertSameMasses(entry, cliCbm);
+}
+
+function assertSameMasses(entry: FileEntry, cli: CliExtremum): void {
+  assert.ok(Math.abs(entry.energy_eV - cli.eV) <= ENERGY_TOL, `energy ${entry.energy_eV} vs ${cli.eV}`);
+  assert.ok(cli.masses.length > 0, 'the CLI fitted masses at this extremum');
+  assert.equal(entry.masses.length, cli.masses.length, `${entry.masses.length} masses in the file, ${cli.masses.length} from the CLI`);
+  for (const m of cli.masses) {
+    const branch = (m as { branch?: number }).branch;
+    const f = entry.masses.find((x) => x.towards === m.towards && (branch === undefined || x.branch === undefined || x.branch === branch));
+    assert.ok(f, `a mass towards ${m.towards} in the file`);
+    assert.ok(f.mass !== null, `the mass towards ${m.towards} is a number in the file`);
+    assert.ok(Math.abs(f.mass - m.mass) <= massTol(m.mass), `mass towards ${m.towards}: ${f.mass} in the file, ${m.mass} from the CLI`);
+    assert.equal(f.method, m.method);
+    assert.ok(Math.abs(f.window_meV - m.window_meV) <= 0.01 * Math.max(1, m.window_meV), `window towards ${m.towards}: ${f.window_meV} vs ${m.window_meV}`);
+  }
+}
+
+describe('in a real VS Code, trusted workspace', function () {
+  this.timeout(240_000);
+
+  after(async () => {
+    if (starting) await (await starting.catch(() => undefined))?.close();
+  });
+
+  afterEach(async function () {
+    const s = await starting?.catch(() => undefined);
+    if (!s) return;
+    const name = (this.currentTest?.title ?? 'scenario').replace(/[^a-z0-9]+/gi, '-').toLowerCase();
+    if (this.currentTest?.state === 'failed') await s.screenshot(`failed-${name}`).catch(() => undefined);
+    await s.closeAllEditors().catch(() => undefined);
+  });
+
+  it('opening an eigenvalue file shows its outline with the labelled path segments', async () => {
+    const s = await session();
+    await s.openFile('si-outline/EIGENVAL');
+    // Reference: the path as written in the run's KPOINTS (line mode: pairs of labelled end points).
+    const expected = lineModeSegments(join(SI, 'KPOINTS'));
+    assert.equal(expected.length, 10, 'the fixture path has 10 segments (Γ–X–W–K–Γ–L–U–W–L–K|U–X)');
+    const labels = await s.outlineLabels(expected.length);
+    await s.screenshot('outline');
+    assert.deepEqual(labels, expected, `outline rows: ${JSON.stringify(labels)}`);
+  });
+
+  it('a malformed eigenvalue file shows a problem at the right line in the Problems panel', async () => {
+    const s = await session();
+    await s.openFile('malformed/EIGENVAL');
+    // The fixture's band 5 of k-point 3 on line 41 reads "13.85x8595" (made that way: see test/editor/fixtures/README.md);
+    // column 13 is where that token starts.
+    const lines = readFileSync(join(MALFORMED, 'EIGENVAL'), 'utf8').split('\n');
+    assert.equal(lines[40]!.trim().split(/\s+/)[1], '13.85x8595', 'the fixture still has its error on line 41');
+    const rows = await s.problems(2);
+    await s.screenshot('problems');
+    const problem = rows.find((r) => /\[Ln \d+, Col \d+\]/.test(r) && !/^EIGENVAL\s/.test(r));
+    assert.ok(problem, `a problem row with a position; rows: ${JSON.stringify(rows)}`);
+    assert.match(problem, /\[Ln 41, Col 13\]/, `the problem points at line 41, column 13: ${problem}`);
+    assert.match(problem, /13\.85x8595/, `the problem names what was found: ${problem}`);
+  });
+
+  it('the band view opens from the code lens and its band canvas is drawn', async () => {
+    const s = await session();
+    await s.openFile('si-view/EIGENVAL');
+    await s.clickCodeLens('Open band view');
+    const view = await waitForBandView(s, 'EIGENVAL');
+    const ink = await waitFor(
+      async () => {
+        const i = await canvasInk(view);
+        return i.columnsInked > 0.9 ? i : undefined;
+      },
+      'the band canvas was not drawn across its width',
+      60_000,
+    );
+    await s.screenshot('band-view');
+    // Bands run along the whole path (every column of the plot has ink), several bands cross one column,
+    // and the canvas has real size.
+    assert.ok(ink.width > 200 && ink.height > 150, `canvas ${ink.width}×${ink.height} px`);
+    assert.ok(ink.columnsInked > 0.9, `${(ink.columnsInked * 100).toFixed(0)} % of the columns are drawn`);
+    assert.ok(ink.maxRunsInColumn >= 3, `at most ${ink.maxRunsInColumn} separate bands cross one column`);
+    // The overlay marks both band edges of this semiconductor.
+    assert.equal(await view.locator('svg.vs-overlay .vs-mark-cbm').count() > 0, true, 'a CBM marker');
+    assert.equal(await view.locator('svg.vs-overlay .vs-mark-vbm').count() > 0, true, 'a VBM marker');
+  });
+
+  it('a click near the conduction minimum shows its masses, equal to the CLI', async () => {
+    const s = await session();
+    await s.openFile('si-view/EIGENVAL');
+    await s.clickCodeLens('Open band view');
+    const view = await waitForBandView(s, 'EIGENVAL');
+    await clickNearMark(view, 'cbm', 3, 2);
+    const rows = await massRows(view);
+    await s.screenshot('cbm-fit');
+    assert.match(await fitKind(view), /CBM|conduction/i);
+    // Reference: `valleyscope analyze --json` on the same file, same default window and method.
+    const cli = cliAnalyze(s.env.repoRoot, s.path('si-view', 'EIGENVAL'));
+    const cbm = cli.extrema.find((e) => e.kind === 'cbm');
+    assert.ok(cbm && cbm.masses.length > 0, 'the CLI fits masses at the CBM');
+    assert.equal(rows.length, cbm.masses.length, `rows: ${rows.map((r) => r.text).join(' | ')}`);
+    for (const m of cbm.masses) {
+      const row = rows.find((r) => r.towards === m.towards);
+      assert.ok(row, `a row towards ${m.towards}`);
+      // The panel shows 3 significant digits.
+      assert.ok(Math.abs(row.mass - m.mass) <= 0.5e-2 * Math.abs(m.mass) + 1e-9, `towards ${m.towards}: ${row.mass} shown, ${m.mass} from the CLI`);
+    }
+    // The fitted curve is drawn over the data.
+    assert.ok((await view.locator('svg.vs-overlay path.vs-fit-curve').count()) > 0, 'a fitted curve is drawn');
+  });
+
+  it('save writes <file>.valleys.json whose numbers equal `analyze --json` on the same file', async () => {
+    const s = await session();
+    const data = s.path('si-save', 'EIGENVAL');
+    const target = `${data}.valleys.json`;
+    assert.equal(existsSync(target), false, 'no annotations file before the save');
+    await s.openFile('si-save/EIGENVAL');
+    await s.clickCodeLens('Open band view');
+    const view = await waitForBandView(s, 'EIGENVAL');
+    await clickNearMark(view, 'cbm', -2, 3);
+    await massRows(view);
+    await view.locator('.vs-save').click();
+    await waitFor(() => (existsSync(target) ? true : undefined), `${target} was not written`, 30_000);
+    await s.screenshot('saved');
+    const file = await waitFor(() => {
+      try {
+        return JSON.parse(readFileSync(target, 'utf8')) as AnnotationsFile;
+      } catch {
+        return undefined; // still being written
+      }
+    }, 'the annotations file is not valid JSON');
+    assertSameNumbers(file, data, s.env.repoRoot);
+  });
+
+  it('a save from the band view merges into the open, edited, unsaved annotations file', async () => {
+    const s = await session();
+    const data = s.path('si-merge', 'EIGENVAL');
+    const target = `${data}.valleys.json`;
+    // 1. A first save, with no annotations file open: written to disk.
+    await s.openFile('si-merge/EIGENVAL');
+    await s.clickCodeLens('Open band view');
+    let view = await waitForBandView(s, 'EIGENVAL');
+    await clickNearMark(view, 'cbm', 2, -2);
+    await massRows(view);
+    await view.locator('.vs-save').click();
+    await waitFor(() => (existsSync(target) ? true : undefined), `${target} was not written by the first save`, 30_000);
+    const first = readFileSync(target, 'utf8');
+    const firstDoc = JSON.parse(first) as AnnotationsFile;
+    // 2. Open the annotations file and make a hand edit, not saved: a field of our own after the opening brace.
+    await s.openFile('si-merge/EIGENVAL.valleys.json');
+    await s.page.locator('.editor-instance .monaco-editor .view-lines').first().click();
+    await s.page.keyboard.press('Control+Home');
+    await s.page.keyboard.press('End');
+    await s.page.keyboard.press('Enter');
+    await s.page.keyboard.type('"reviewedBy": "hand edit from the editor test",');
+    await s.page.locator('.tabs-container .tab.active.dirty').waitFor({ timeout: 10_000 });
+    // 3. Back in the band view: a different fit window (40 meV), refit, save.
+    await s.page.locator('.tabs-container .tab', { hasText: 'Bands: EIGENVAL' }).first().click();
+    view = await waitForBandView(s, 'EIGENVAL');
+    await clickNearMark(view, 'cbm', 2, -2);
+    await massRows(view);
+    const provenance25 = await view.locator('.vs-provenance').innerText();
+    // The window slider (a range input: set its value and send the event a drag sends).
+    await view.locator('#vs-window-range').evaluate((el) => {
+      (el as HTMLInputElement).value = '40';
+      el.dispatchEvent(new Event('input', { bubbles: true }));
+    });
+    await waitFor(
+      async () => ((await view.locator('.vs-provenance').innerText()) !== provenance25 ? true : undefined),
+      'the refit at 40 meV did not show',
+      30_000,
+    );
+    await view.locator('.vs-save').click();
+    // The save went into the editor buffer: the file on disk is unchanged, the editor is still dirty.
+    await waitFor(
+      async () => ((await view.locator('.vs-status').innerText()).match(/Saved|Not saved/) ? true : undefined),
+      'the band view did not report the save',
+      30_000,
+    );
+    await s.screenshot('merge-before-editor-save');
+    assert.equal(readFileSync(target, 'utf8'), first, 'the save did not write the file on disk behind the open editor');
+    // 4. Save the editor; the file now has the hand edit and the new fit.
+    await s.page.locator('.tabs-container .tab', { hasText: 'EIGENVAL.valleys.json' }).first().click();
+    await s.page.locator('.tabs-container .tab.active.dirty').waitFor({ timeout: 10_000 });
+    await s.page.keyboard.press('Control+S');
+    await waitFor(() => (readFileSync(target, 'utf8') !== first ? true : undefined), 'saving the editor did not change the file', 30_000);
+    await s.screenshot('merge-after-editor-save');
+    const merged = JSON.parse(readFileSync(target, 'utf8')) as AnnotationsFile;
+    assert.equal(merged.reviewedBy, 'hand edit from the editor test', 'the hand edit survived the merge');
+    // The CBM entry now carries the 40 meV fit, equal to the CLI with --window 40.
+    const cbm = merged.entries.find((e) => e.kind === 'cbm');
+    assert.ok(cbm, 'a CBM entry after the merge');
+    assert.ok(cbm.masses.some((m) => Math.abs(m.window_meV - 40) < 1e-6 || m.window_meV > 40), 'the merged CBM masses come from the 40 meV fit');
+    const cli = cliAnalyze(s.env.repoRoot, data, ['--window', '40']).extrema.find((e) => e.kind === 'cbm');
+    assert.ok(cli);
+    assertSameMasses(cbm, cli);
+    assert.notDeepEqual(
+      cbm.masses.map((m) => m.window_meV),
+      firstDoc.entries.find((e) => e.kind === 'cbm')?.masses.map((m) => m.window_meV),
+      'the merge changed the CBM fit (25 → 40 meV)',
+    );
+    assert.ok(statSync(target).size > 0);
+  });
+});
+
