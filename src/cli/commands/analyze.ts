@@ -7,6 +7,8 @@ import { summaryText } from '../../core/report/summaryText';
 import { reportToJson } from '../../core/report/reportJson';
 import { FIT_METHODS } from '../../core/analysis/methods';
 import type { CliIO } from '../io';
+import type { ReadOptions } from '../../core/formats/types';
+import { readPoscar } from '../../core/formats/vasp/poscar';
 
 export const ANALYZE_HELP = `valleyscope analyze <file-or-folder> [options]
   Read an eigenvalue file (or find one in a run folder) and report the gap, band edges and effective masses.
@@ -14,7 +16,9 @@ export const ANALYZE_HELP = `valleyscope analyze <file-or-folder> [options]
   --window <meV>    energy window of the curvature fit (default 25)
   --method <name>   ${FIT_METHODS.join(' | ')} (default parabola)
   --range <eV>      report secondary extrema this close to the edges (default 0.5)
-  --soc             treat the run as spin-orbit (one electron per band) when the files do not say`;
+  --soc             treat the run as spin-orbit (one electron per band) when the files do not say
+  --alat <Å>        lattice parameter alat, for layouts that give k in 2π/alat without a cell (bands.x output)
+  --structure <file>  a POSCAR-like structure file, for runs whose files give no cell or atoms`;
 
 export function analysisSettingsFromArgs(p: ReturnType<typeof parseArgs>): Partial<AnalysisSettings> {
   const s: Partial<AnalysisSettings> = {};
@@ -37,11 +41,31 @@ export const ANALYSIS_FLAGS = {
   soc: { value: false },
 } as const;
 
+/** Flags that tell a reader what the run's files leave out. */
+export const READ_FLAGS = {
+  alat: { value: true },
+  structure: { value: true },
+} as const;
+
+/** ReadOptions from --soc, --alat and --structure (the structure file is read here, as a POSCAR). */
+export async function readOptionsFromArgs(p: ReturnType<typeof parseArgs>): Promise<ReadOptions> {
+  const o: ReadOptions = {};
+  if (p.flags.has('soc')) o.spinorbit = true;
+  const alat = numberFlag(p, 'alat', (x) => x > 0 && x < 1000, 'a positive length in Å');
+  if (alat !== undefined) o.alatAngstrom = alat;
+  const sfile = flag(p, 'structure');
+  if (sfile !== undefined) {
+    const bytes = await nodeFileAccessor.readFile(sfile);
+    o.structure = readPoscar({ path: sfile, bytes });
+  }
+  return o;
+}
+
 export async function runAnalyze(argv: string[], io: CliIO): Promise<number> {
-  const p = parseArgs(argv, { json: { value: false }, ...ANALYSIS_FLAGS });
+  const p = parseArgs(argv, { json: { value: false }, ...ANALYSIS_FLAGS, ...READ_FLAGS });
   if (p.positional.length !== 1) throw new UsageError('analyze takes exactly one file or folder');
   const settings = analysisSettingsFromArgs(p);
-  const bs = await loadRun(nodeFileAccessor, p.positional[0]!, p.flags.has('soc') ? { spinorbit: true } : {});
+  const bs = await loadRun(nodeFileAccessor, p.positional[0]!, await readOptionsFromArgs(p));
   const report = analyzeBandStructure(bs, settings);
   if (p.flags.has('json')) io.out(JSON.stringify(reportToJson(report)));
   else io.out(summaryText(report));

@@ -28,7 +28,7 @@ import type { BandStructure, InputWarning, KLabel, Mat3, SourceFile, Structure, 
 import type { InputFile } from '../io/fileAccessor';
 import { basename } from '../io/fileAccessor';
 import type { FormatReader, ReadOptions } from './types';
-import { sha256Hex } from '../hash';
+import { Sha256, sha256Hex } from '../hash';
 import { CancelledError, ReaderError } from '../errors';
 import { SafeXmlStream, parseDecimal, scanNumbers } from './xmlSafety';
 import { readKpoints } from './vasp/kpoints';
@@ -424,19 +424,27 @@ export class VasprunStream {
   }
 }
 
-/** Read a whole vasprun.xml held in memory, in chunks. */
-export function readVasprun(file: InputFile, options: ReadOptions = {}): VasprunData {
+/**
+ * Read a vasprun.xml in chunks: from `file.bytes`, or through `file.stream` (a ranged source) when given, so
+ * the file is never held whole. Returns what it says and the SHA-256 of its bytes.
+ */
+export function readVasprun(file: InputFile, options: ReadOptions = {}): VasprunData & { sha256: string } {
   const stream = new VasprunStream(file.path);
-  const bytes = file.bytes;
   const CHUNK = 1 << 20;
-  if (bytes.length === 0) return stream.finish(false);
-  for (let start = 0; start < bytes.length; start += CHUNK) {
+  const src = file.stream;
+  const size = src ? src.size : file.bytes.length;
+  const hasher = src ? new Sha256() : null;
+  if (size === 0) return { ...stream.finish(false), sha256: '' };
+  for (let start = 0; start < size; start += CHUNK) {
     if (options.isCancelled?.()) throw new CancelledError();
-    const end = Math.min(bytes.length, start + CHUNK);
-    stream.write(bytes.subarray(start, end), end >= bytes.length);
-    options.onProgress?.(end / bytes.length);
+    const end = Math.min(size, start + CHUNK);
+    const chunk = src ? src.read(start, end - start) : file.bytes.subarray(start, end);
+    hasher?.update(chunk);
+    stream.write(chunk, end >= size);
+    options.onProgress?.(end / size);
   }
-  return stream.finish(options.allowPartial ?? false);
+  const data = stream.finish(options.allowPartial ?? false);
+  return { ...data, sha256: hasher ? hasher.hex() : sha256Hex(file.bytes) };
 }
 
 /** Recognise a vasprun.xml: an XML file whose root is <modeling> with a VASP <generator>. */
@@ -453,9 +461,9 @@ function sameK(a: Vec3, b: ArrayLike<number>, off: number, tol = 2e-4): boolean 
 }
 
 /** Turn what the file says into a BandStructure, with warnings for what is missing. */
-export function vasprunToBandStructure(data: VasprunData, main: InputFile, companions: InputFile[], options: ReadOptions): BandStructure {
+export function vasprunToBandStructure(data: VasprunData & { sha256: string }, main: InputFile, companions: InputFile[], options: ReadOptions): BandStructure {
   const warnings: InputWarning[] = [];
-  const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: sha256Hex(main.bytes) }];
+  const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: data.sha256 }];
   const structure = data.structure ?? options.structure ?? null;
   const lattice = structure?.lattice ?? options.lattice ?? null;
   if (!data.structure) warnings.push({ code: 'no-structure', message: 'The file holds no complete structure: valley degeneracy cannot be determined.' });
@@ -507,10 +515,6 @@ export function vasprunToBandStructure(data: VasprunData, main: InputFile, compa
         else throw e;
       }
     }
-  } else if (weights && nk > 1) {
-    let allWeighted = true;
-    for (let i = 0; i < nk; i++) if (!(weights[i]! > 0)) allWeighted = false;
-    if (allWeighted) sampling = 'grid';
   }
   if (!data.complete) {
     warnings.push({
@@ -545,6 +549,7 @@ export function vasprunToBandStructure(data: VasprunData, main: InputFile, compa
 export const vasprunReader: FormatReader = {
   id: VASPRUN_FORMAT,
   label: 'VASP vasprun.xml',
+  streaming: true,
   detect: detectVasprun,
   companions(mainName: string, siblings: string[]): string[] {
     const prefix = /^(.*?)vasprun(.*)\.xml$/i.exec(mainName);

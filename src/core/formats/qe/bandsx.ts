@@ -171,7 +171,8 @@ export function inferAlat(kCart: Float64Array, lattice: Mat3): { alat: number; b
         score = Math.max(score, Math.min(d8, d6));
       }
     }
-    if (!best || score < best.score - 1e-9) best = { ...c, score };
+    // Written coordinates carry 6 decimals: scores this close are ties, and the earlier (likelier) candidate stays.
+    if (!best || score < best.score - 1e-4) best = { ...c, score };
   }
   return best && best.score < 2e-3 ? { alat: best.alat, basis: best.basis } : null;
 }
