@@ -8,6 +8,7 @@ import { ANALYZE_HELP, runAnalyze } from './commands/analyze';
 import { COMPARE_HELP, runCompare } from './commands/compare';
 import { ANNOTATE_HELP, runAnnotate } from './commands/annotate';
 import { CHECK_HELP, runCheck } from './commands/check';
+import { STENCIL_HELP, runStencil } from './commands/stencil';
 import { isValleyscopeError } from '../core/errors';
 import { ensureSymmetryReady } from '../core/lattice/symmetry';
 
@@ -21,6 +22,7 @@ export const COMMANDS: Record<string, Command> = {
   compare: { help: COMPARE_HELP, run: runCompare },
   annotate: { help: ANNOTATE_HELP, run: runAnnotate },
   check: { help: CHECK_HELP, run: runCheck },
+  stencil: { help: STENCIL_HELP, run: runStencil },
 };
 
 export function usage(): string {
