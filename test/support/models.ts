@@ -195,3 +195,27 @@ export function ellipsoidalValley(e0: number, k0: Vec3, u: Vec3, ml: number, mt:
     return e0 + (HBAR2_OVER_ME_EV_A2 / 2) * (l * l / ml + t2 / mt);
   };
 }
+
+/** fcc primitive vectors a1 = (0, a/2, a/2), a2 = (a/2, 0, a/2), a3 = (a/2, a/2, 0) (common practice). */
+export function fccLattice(a: number): Mat3 {
+  return [
+    [0, a / 2, a / 2],
+    [a / 2, 0, a / 2],
+    [a / 2, a / 2, 0],
+  ];
+}
+
+/** Diamond (one species) or zincblende (two) in the fcc primitive cell: atoms at 0 and (1/4, 1/4, 1/4). */
+export function diamondStructure(a: number, s1: string, s2: string = s1): Structure {
+  return { lattice: fccLattice(a), species: [s1, s2], positions: new Float64Array([0, 0, 0, 0.25, 0.25, 0.25]) };
+}
+
+/** A simple cubic crystal with one atom per cell (point group m-3m). */
+export function simpleCubicStructure(a: number, s = 'Po'): Structure {
+  return { lattice: cubicLattice(a), species: [s], positions: new Float64Array([0, 0, 0]) };
+}
+
+/** The smallest of several dispersions: one band made of several valleys (kinks where they meet). */
+export function lowestOf(...fs: Dispersion[]): Dispersion {
+  return (kc, kf) => Math.min(...fs.map((f) => f(kc, kf)));
+}
