@@ -1,0 +1,141 @@
+/**
+ * Runs the built band view bundle (dist/webview/bandView.js) in Debian's Chromium through playwright-core,
+ * inside the same HTML shell and content security policy the extension uses (src/extension/bandViewHtml.ts),
+ * with a stub `acquireVsCodeApi` that records what the view posts and lets a test post host messages.
+ */
+import { createServer, type Server } from 'node:http';
+import { existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { randomBytes } from 'node:crypto';
+import * as esbuild from 'esbuild';
+import { chromium, type Browser, type Page } from 'playwright-core';
+import { bandViewHtml } from '../../../src/extension/bandViewHtml';
+import { BODY_CLASS, THEME_VARS, type TestTheme } from './themes';
+import { waitForExpression } from './pageHelpers';
+
+export const CHROMIUM_PATH = '/usr/bin/chromium';
+export const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+export const BUNDLE = join('dist', 'webview', 'bandView.js');
+
+/** Builds the view bundle the way esbuild.mjs does (IIFE for the browser). */
+export async function buildBandViewBundle(): Promise<void> {
+  await esbuild.build({
+    entryPoints: [{ in: 'webview/bandView/main.ts', out: 'bandView' }],
+    outdir: join('dist', 'webview'),
+    bundle: true,
+    platform: 'browser',
+    format: 'iife',
+    target: 'es2022',
+    sourcemap: true,
+    logLevel: 'warning',
+  });
+}
+
+/** The stub of VS Code's webview API, run before the bundle. */
+const STUB = `
+window.__posted = [];
+window.__cspViolations = [];
+window.__state = undefined;
+document.addEventListener('securitypolicyviolation', function (e) {
+  window.__cspViolations.push(e.violatedDirective + ' ' + e.blockedURI);
+});
+window.acquireVsCodeApi = function () {
+  return {
+    postMessage: function (m) { window.__posted.push(m); },
+    getState: function () { return window.__state; },
+    setState: function (s) { window.__state = s; },
+  };
+};
+window.__hostPost = function (m) { window.postMessage(m, '*'); };
+(function () {
+  var p = new URLSearchParams(location.search);
+  document.body.className = p.get('bodyClass') || 'vscode-dark';
+  document.body.setAttribute('data-vscode-theme-kind', p.get('kind') || 'vscode-dark');
+})();
+`;
+
+export interface Harness {
+  origin: string;
+  browser: Browser;
+  close(): Promise<void>;
+  open(theme: TestTheme, viewport?: { width: number; height: number }): Promise<ViewPage>;
+}
+
+export interface ViewPage {
+  page: Page;
+  errors: string[];
+  posted(): Promise<Array<Record<string, unknown>>>;
+  hostPost(message: unknown): Promise<void>;
+  cspViolations(): Promise<string[]>;
+}
+
+export async function startHarness(): Promise<Harness> {
+  if (!existsSync(CHROMIUM_PATH)) throw new Error(`${CHROMIUM_PATH} is missing: run scripts/install-test-deps.sh`);
+  await buildBandViewBundle();
+  const bundle = readFileSync(BUNDLE);
+  let origin = '';
+  const server: Server = createServer((req, res) => {
+    const url = new URL(req.url ?? '/', origin || 'http://127.0.0.1');
+    if (url.pathname === '/bandView.js') {
+      res.writeHead(200, { 'content-type': 'text/javascript' });
+      res.end(bundle);
+      return;
+    }
+    if (url.pathname === '/stub.js') {
+      res.writeHead(200, { 'content-type': 'text/javascript' });
+      res.end(STUB);
+      return;
+    }
+    if (url.pathname === '/') {
+      const theme = (url.searchParams.get('theme') ?? 'dark') as TestTheme;
+      const nonce = randomBytes(16).toString('hex');
+      let html = bandViewHtml({ cspSource: origin, nonce, scriptUri: `${origin}/bandView.js`, styleUri: null, title: 'Band view test' });
+      const vars = Object.entries(THEME_VARS[theme]).map(([k, v]) => `${k}: ${v};`).join(' ');
+      // VS Code puts theme variables on <html>; here a nonce'd style element does the same.
+      html = html.replace('</head>', `  <style nonce="${nonce}">html { ${vars} }</style>\n</head>`);
+      // The stub runs first, with the page's nonce, as VS Code's own preload does.
+      html = html.replace(`<script nonce="${nonce}"`, `<script nonce="${nonce}" src="${origin}/stub.js"></script>\n  <script nonce="${nonce}"`);
+      res.writeHead(200, { 'content-type': 'text/html; charset=utf-8' });
+      res.end(html);
+      return;
+    }
+    if (url.pathname === '/favicon.ico') {
+      res.writeHead(204);
+      res.end();
+      return;
+    }
+    res.writeHead(404);
+    res.end();
+  });
+  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
+  const addr = server.address();
+  if (!addr || typeof addr === 'string') throw new Error('no server address');
+  origin = `http://127.0.0.1:${addr.port}`;
+  const browser = await chromium.launch({ executablePath: CHROMIUM_PATH, args: CHROMIUM_ARGS });
+  return {
+    origin,
+    browser,
+    async close() {
+      await browser.close();
+      await new Promise<void>((resolve) => server.close(() => resolve()));
+    },
+    async open(theme, viewport = { width: 1280, height: 760 }) {
+      const page = await browser.newPage({ viewport, deviceScaleFactor: 1 });
+      const errors: string[] = [];
+      page.on('pageerror', (e) => errors.push(`pageerror: ${e.message}`));
+      page.on('console', (m) => {
+        if (m.type() === 'error') errors.push(`console: ${m.text()}`);
+      });
+      const bc = BODY_CLASS[theme];
+      await page.goto(`${origin}/?theme=${theme}&bodyClass=${bc.cls}&kind=${bc.kind}`);
+      await waitForExpression(page, 'window.valleyscopeBandView !== undefined');
+      return {
+        page,
+        errors,
+        posted: () => page.evaluate(() => (window as unknown as { __posted: Array<Record<string, unknown>> }).__posted.map((m) => ({ ...m }))),
+        hostPost: (message: unknown) => page.evaluate((m) => (window as unknown as { __hostPost(m: unknown): void }).__hostPost(m), message as object),
+        cspViolations: () => page.evaluate(() => (window as unknown as { __cspViolations: string[] }).__cspViolations),
+      };
+    },
+  };
+}

@@ -1,0 +1,212 @@
+/**
+ * Draws the bands on a canvas. Two modes, chosen per redraw:
+ * - lines: every visible point joined by antialiased strokes (few points per pixel column: zoomed in, or
+ *   small data), so full detail shows on zoom;
+ * - envelope: per-pixel-column min/max of each band (decimate.ts), rasterised as vertical spans straight into
+ *   an ImageData, so 500 bands × 20 000 k-points redraw within a frame.
+ */
+import { clearEnvelope, columnEnvelope, createEnvelope, lowerBound, type Envelope } from './decimate';
+import type { ViewModel } from './viewModel';
+import type { Palette } from './theme';
+import { parseColour } from './theme';
+
+export interface Linear {
+  /** screen = a · value + b (CSS px). */
+  a: number;
+  b: number;
+}
+
+export interface DrawRequest {
+  vm: ViewModel;
+  spins: number[];
+  /** Path distance → CSS px within the plot area. */
+  x: Linear;
+  /** Energy relative to the reference → CSS px within the plot area. */
+  y: Linear;
+  /** Energy subtracted from raw energies. */
+  offset: number;
+  /** Plot area size in CSS px. */
+  width: number;
+  height: number;
+  dpr: number;
+  palette: Palette;
+  /** Force a mode (benchmark and tests); otherwise chosen from the point density. */
+  mode?: 'lines' | 'envelope';
+}
+
+export interface DrawStats {
+  mode: 'lines' | 'envelope';
+  /** Values read from the band arrays or the pyramid. */
+  valuesRead: number;
+  /** Visible points per device pixel column (over all pieces). */
+  density: number;
+}
+
+/** Use lines while there are at most this many visible points per device column and segments in total. */
+const LINES_MAX_DENSITY = 1.5;
+const LINES_MAX_SEGMENTS = 250_000;
+
+export class BandRenderer {
+  private env: Envelope | null = null;
+  private image: ImageData | null = null;
+  private pixels: Uint32Array | null = null;
+
+  constructor(private readonly canvas: HTMLCanvasElement) {}
+
+  /** Resizes the backing store to the plot area at the device pixel ratio. */
+  resize(width: number, height: number, dpr: number): void {
+    const w = Math.max(1, Math.round(width * dpr));
+    const h = Math.max(1, Math.round(height * dpr));
+    if (this.canvas.width !== w || this.canvas.height !== h) {
+      this.canvas.width = w;
+      this.canvas.height = h;
+    }
+    this.canvas.style.width = `${width}px`;
+    this.canvas.style.height = `${height}px`;
+  }
+
+  draw(req: DrawRequest): DrawStats {
+    const ctx = this.canvas.getContext('2d');
+    if (!ctx) throw new Error('band view: no 2D canvas context');
+    const W = this.canvas.width;
+    const H = this.canvas.height;
+    ctx.setTransform(1, 0, 0, 1, 0, 0);
+    ctx.clearRect(0, 0, W, H);
+    const { vm } = req;
+    // Visible points over all pieces.
+    const xLo = (0 - req.x.b) / req.x.a;
+    const xHi = (req.width - req.x.b) / req.x.a;
+    let visible = 0;
+    for (const p of vm.pieces) {
+      const a = lowerBound(vm.distance, xLo, p.i0, p.i1);
+      const z = lowerBound(vm.distance, xHi, a, p.i1);
+      visible += Math.max(0, z - a);
+    }
+    const density = visible / Math.max(1, W);
+    const segments = visible * vm.nBands * req.spins.length;
+    const mode = req.mode ?? (density <= LINES_MAX_DENSITY && segments <= LINES_MAX_SEGMENTS ? 'lines' : 'envelope');
+    const valuesRead = mode === 'lines' ? this.drawLines(ctx, req, xLo, xHi) : this.drawEnvelope(ctx, req);
+    return { mode, valuesRead, density };
+  }
+
+  private colourFor(req: DrawRequest, spinPos: number, spin: number, band: number): string {
+    const top = req.vm.topValenceBand[spin] ?? -1;
+    const filled = top >= 0 && band <= top;
+    if (spinPos === 0 || req.spins.length === 1) return filled ? req.palette.filled : req.palette.empty;
+    return filled ? req.palette.filled2 : req.palette.empty2;
+  }
+
+  private drawLines(ctx: CanvasRenderingContext2D, req: DrawRequest, xLo: number, xHi: number): number {
+    const { vm, dpr } = req;
+    const nb = vm.nBands;
+    const d = vm.distance;
+    ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
+    ctx.lineWidth = req.palette.bandWidth;
+    ctx.lineJoin = 'round';
+    let read = 0;
+    const ax = req.x.a;
+    const bx = req.x.b;
+    const ay = req.y.a;
+    const by = req.y.b - req.y.a * req.offset;
+    req.spins.forEach((spin, spinPos) => {
+      const E = vm.energies[spin]!;
+      // One path per colour, many sub-paths: few stroke calls.
+      const groups = new Map<string, number[]>();
+      for (let b = 0; b < nb; b++) {
+        const c = this.colourFor(req, spinPos, spin, b);
+        let g = groups.get(c);
+        if (!g) groups.set(c, (g = []));
+        g.push(b);
+      }
+      ctx.setLineDash(spinPos === 1 ? [4, 3] : []);
+      for (const [colour, bands] of groups) {
+        ctx.strokeStyle = colour;
+        ctx.beginPath();
+        for (const p of vm.pieces) {
+          // One point beyond each edge so lines run to the border.
+          const a = Math.max(p.i0, lowerBound(d, xLo, p.i0, p.i1) - 1);
+          const z = Math.min(p.i1, lowerBound(d, xHi, a, p.i1) + 1);
+          if (z - a < 1) continue;
+          for (const b of bands) {
+            ctx.moveTo(ax * d[a]! + bx, ay * E[a * nb + b]! + by);
+            for (let i = a + 1; i < z; i++) ctx.lineTo(ax * d[i]! + bx, ay * E[i * nb + b]! + by);
+            read += z - a;
+          }
+        }
+        ctx.stroke();
+      }
+    });
+    ctx.setLineDash([]);
+    return read;
+  }
+
+  private drawEnvelope(ctx: CanvasRenderingContext2D, req: DrawRequest): number {
+    const { vm, dpr } = req;
+    const W = this.canvas.width;
+    const H = this.canvas.height;
+    const nb = vm.nBands;
+    if (!this.env || this.env.width !== W || this.env.nBands !== nb) this.env = createEnvelope(W, nb);
+    if (!this.image || this.image.width !== W || this.image.height !== H) {
+      this.image = ctx.createImageData(W, H);
+      this.pixels = new Uint32Array(this.image.data.buffer);
+    }
+    const px = this.pixels!;
+    px.fill(0);
+    const env = this.env;
+    // Device-pixel mappings.
+    const map = { x0: -req.x.b / req.x.a, scale: req.x.a * dpr, width: W };
+    const ay = req.y.a * dpr;
+    const by = (req.y.b - req.y.a * req.offset) * dpr;
+    const thick = Math.max(1, Math.round(req.palette.bandWidth * dpr * 0.8));
+    let read = 0;
+    req.spins.forEach((spin, spinPos) => {
+      const E = vm.energies[spin]!;
+      const packed: number[] = [];
+      for (let b = 0; b < nb; b++) {
+        const [r, g, bl, a] = parseColour(this.colourFor(req, spinPos, spin, b), ctx);
+        // ImageData is RGBA in memory; a little-endian Uint32 sees it as ABGR.
+        packed.push(((a << 24) | (bl << 16) | (g << 8) | r) >>> 0);
+      }
+      vm.pieces.forEach((p, pi) => {
+        clearEnvelope(env);
+        read += columnEnvelope(vm.distance, E, nb, p.i0, p.i1, map, env, vm.pyramids[spin]?.[pi] ?? null);
+        const cLo = Math.max(0, Math.floor((vm.distance[p.i0]! - map.x0) * map.scale));
+        const cHi = Math.min(W - 1, Math.floor((vm.distance[p.i1 - 1]! - map.x0) * map.scale));
+        for (let b = 0; b < nb; b++) {
+          const colour = packed[b]!;
+          // The previous filled column of this piece: its last value joins this column's span.
+          let pc = -1;
+          for (let c = cLo; c <= cHi; c++) {
+            if (!env.filled[c]) continue;
+            const o = c * nb + b;
+            let lo = env.min[o]!;
+            let hi = env.max[o]!;
+            if (pc >= 0) {
+              const pl = env.last[pc * nb + b]!;
+              if (pl < lo) lo = pl;
+              if (pl > hi) hi = pl;
+            }
+            pc = c;
+            let top = Math.floor(ay * hi + by);
+            let bottom = Math.floor(ay * lo + by);
+            if (top > bottom) {
+              const t = top;
+              top = bottom;
+              bottom = t;
+            }
+            bottom += thick - 1;
+            if (bottom < 0 || top >= H) continue;
+            if (top < 0) top = 0;
+            if (bottom >= H) bottom = H - 1;
+            const cEnd = Math.min(W - 1, c + thick - 1);
+            for (let cc = c; cc <= cEnd; cc++) {
+              for (let r = top; r <= bottom; r++) px[r * W + cc] = colour;
+            }
+          }
+        }
+      });
+    });
+    ctx.putImageData(this.image, 0, 0);
+    return read;
+  }
+}
