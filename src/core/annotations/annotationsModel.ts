@@ -154,9 +154,12 @@ export function dataPathFor(annotationsFile: string): string {
   return annotationsFile.slice(0, annotationsFile.length - ANNOTATIONS_SUFFIX.length);
 }
 
-/** A number in an id: at most 4 decimals, trailing zeros dropped, no "-0". */
+/**
+ * A number in an id: at most 4 decimals, trailing zeros dropped, no "-0". Rounded from the 6 decimals the
+ * file keeps, so an id computed before writing and after reading back is the same.
+ */
 function idNumber(x: number): string {
-  let s = x.toFixed(4);
+  let s = Number(x.toFixed(6)).toFixed(4);
   if (s.includes('.')) s = s.replace(/0+$/, '').replace(/\.$/, '');
   return s === '-0' ? '0' : s;
 }

@@ -18,7 +18,7 @@ import type {
   ExtraFields,
   JsonValue,
 } from './annotationsModel';
-import { EXTREMUM_KINDS } from './annotationsModel';
+import { EXTREMUM_KINDS, entryId } from './annotationsModel';
 import { formatNumber, type NumberStyle } from './numberFormat';
 
 /** A value on its way to text: numbers already formatted, objects as ordered key lists. */
@@ -132,7 +132,7 @@ function tensorOut(t: AnnotatedTensor | null): Out {
 function entryOut(e: AnnotatedEntry): Out {
   return withExtra(
     [
-      ['id', str(e.id)],
+      ['id', str(entryId(e))],
       ['status', str(e.status)],
       ['note', str(e.note)],
       ['found', bool(e.found)],
