@@ -31,20 +31,20 @@ export function lineNumbers(text: string, start: number, end: number, out: numbe
   }
 }
 
-function hasTriple(nums: number[], kx: number, ky: number, kz: number): boolean {
+/** Where the triple sits in the line's tokens (-1: not there). */
+function tripleAt(nums: number[], kx: number, ky: number, kz: number): number {
   for (let j = 0; j + 2 < nums.length; j++) {
-    if (Math.abs(nums[j]! - kx) <= MATCH_TOL && Math.abs(nums[j + 1]! - ky) <= MATCH_TOL && Math.abs(nums[j + 2]! - kz) <= MATCH_TOL) return true;
+    if (Math.abs(nums[j]! - kx) <= MATCH_TOL && Math.abs(nums[j + 1]! - ky) <= MATCH_TOL && Math.abs(nums[j + 2]! - kz) <= MATCH_TOL) return j;
   }
-  return false;
+  return -1;
 }
 
-/**
- * 0-based line of each k-point (nk entries; -1 where a k-point was not found, and for all k-points after
- * it). `kpoints` is nk × 3 fractional coordinates.
- */
-export function locateKpointLines(text: string, kpoints: Float64Array, nk: number): Int32Array {
+/** A line's shape: how many tokens it has and where the coordinates sit, e.g. "4@0" for EIGENVAL. */
+type Shape = string;
+
+function scan(text: string, kpoints: Float64Array, nk: number, shape: Shape | null): { lines: Int32Array; shapes: Shape[] } {
   const lines = new Int32Array(nk).fill(-1);
-  if (nk === 0 || text.length > MAX_SCANNED_CHARS) return lines;
+  const shapes: Shape[] = [];
   const nums: number[] = [];
   let k = 0;
   let line = 0;
@@ -53,14 +53,35 @@ export function locateKpointLines(text: string, kpoints: Float64Array, nk: numbe
     let end = text.indexOf('\n', pos);
     if (end < 0) end = text.length;
     lineNumbers(text, pos, end, nums);
-    if (nums.length >= 3 && hasTriple(nums, kpoints[3 * k]!, kpoints[3 * k + 1]!, kpoints[3 * k + 2]!)) {
-      lines[k] = line;
-      k++;
+    if (nums.length >= 3) {
+      const j = tripleAt(nums, kpoints[3 * k]!, kpoints[3 * k + 1]!, kpoints[3 * k + 2]!);
+      const sh = `${nums.length}@${j}`;
+      if (j >= 0 && (shape === null || sh === shape)) {
+        lines[k] = line;
+        shapes.push(sh);
+        k++;
+      }
     }
     pos = end + 1;
     line++;
   }
-  return lines;
+  return { lines, shapes };
+}
+
+/**
+ * 0-based line of each k-point (nk entries; -1 where a k-point was not found, and for all k-points after
+ * it). `kpoints` is nk × 3 fractional coordinates.
+ *
+ * A first pass takes the first line holding each k-point's coordinates; header lines can hold numbers that
+ * look like a k-point (tiny values read as 0). When the 2nd and 3rd k-points sit on lines of the same shape,
+ * a second pass accepts only lines of that shape.
+ */
+export function locateKpointLines(text: string, kpoints: Float64Array, nk: number): Int32Array {
+  if (nk === 0 || text.length > MAX_SCANNED_CHARS) return new Int32Array(nk).fill(-1);
+  const first = scan(text, kpoints, nk, null);
+  if (nk < 3 || first.shapes.length < 3 || first.shapes[1] !== first.shapes[2]) return first.lines;
+  const second = scan(text, kpoints, nk, first.shapes[1]!);
+  return second.shapes.length >= first.shapes.length ? second.lines : first.lines;
 }
 
 /** The k-point whose line is `line`, or -1. `kLines` as returned by locateKpointLines (increasing). */

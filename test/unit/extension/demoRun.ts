@@ -1,0 +1,20 @@
+/** The demo silicon run (fixtures/demo/si-bulk: Cohen–Bergstresser EPM bands in EIGENVAL layout), loaded as the CLI does. */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { nodeFileAccessor } from '../../../src/cli/nodeFileAccessor';
+import { loadRun } from '../../../src/core/load';
+import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
+import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
+import { pathGeometry } from '../../../src/core/lattice/kpath';
+
+export const SI_DIR = join(__dirname, '../../../fixtures/demo/si-bulk');
+export const SI_EIGENVAL = join(SI_DIR, 'EIGENVAL');
+
+export async function loadSi() {
+  await ensureSymmetryReady();
+  const bs = await loadRun(nodeFileAccessor, SI_EIGENVAL);
+  const report = analyzeBandStructure(bs, DEFAULT_SETTINGS);
+  const geometry = pathGeometry(bs);
+  const text = readFileSync(SI_EIGENVAL, 'utf8');
+  return { bs, report, geometry, text };
+}

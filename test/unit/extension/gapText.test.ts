@@ -1,0 +1,27 @@
+import assert from 'node:assert/strict';
+import { gapLensText, gapStatusText, gapTooltip } from '../../../src/extension/gapText';
+import type { Report } from '../../../src/core/model';
+import { loadSi } from './demoRun';
+
+const base: Report = { file: 'x', format: 'test', nk: 1, nbands: 1, nspin: 1, electrons: 2, metal: null, gap: null, extrema: [], warnings: [], cautions: [] };
+
+describe('extension: gap texts for the status bar and code lens', () => {
+  it('reports the demo silicon gap as indirect with its edges', async () => {
+    const { report } = await loadSi();
+    const g = report.gap!;
+    assert.equal(gapStatusText(report, false), `Gap ${g.eV.toFixed(2)} eV indirect`);
+    assert.equal(gapStatusText(report, true), `Gap ${g.eV.toFixed(2)} eV indirect (partial)`);
+    assert.match(gapLensText(report, false), /^Gap \d\.\d\d eV indirect: VBM Γ \(band 4\) → CBM k 0\.423 0\.000 0\.423 \(band 5\)$/);
+    const tip = gapTooltip(report, false);
+    assert.ok(tip.includes(`VBM ${g.vbm.eV.toFixed(4)} eV`));
+    // The usual caution about semilocal DFT gaps is passed through from the report.
+    for (const c of report.cautions) assert.ok(tip.includes(c));
+  });
+
+  it('says Metal, or that edges are unknown', () => {
+    assert.equal(gapStatusText({ ...base, metal: true }, false), 'Metal');
+    assert.equal(gapLensText({ ...base, metal: true }, false), 'Metal: bands cross the Fermi level');
+    assert.equal(gapStatusText(base, false), 'Gap unknown');
+    assert.match(gapLensText(base, true), /unknown.*partial file, provisional/);
+  });
+});
