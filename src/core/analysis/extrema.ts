@@ -104,6 +104,25 @@ export interface ExtremaInput {
   network: PathNetwork | null;
   range_eV: number;
   degeneracy_eV: number;
+  /** Whether two k-points are equivalent by the crystal's symmetry (when it is known). */
+  equivalent?: (k1: number, k2: number) => boolean;
+}
+
+/** From an edge point, move along the band to the sampled extremum it belongs to (edges are found within a tolerance). */
+function climb(bs: BandStructure, spin: number, band: number, k: number, up: boolean, neighbours: NeighbourFn | null): number {
+  if (!neighbours) return k;
+  const e = bs.energies[spin]!;
+  const nb = bs.nBands;
+  for (let steps = 0; steps < bs.nk; steps++) {
+    let best = k;
+    for (const j of neighbours(k)) {
+      const y = e[j * nb + band]!;
+      if (up ? y > e[best * nb + band]! : y < e[best * nb + band]!) best = j;
+    }
+    if (best === k) break;
+    k = best;
+  }
+  return k;
 }
 
 export function locateExtrema(inp: ExtremaInput): ExtremumSite[] {
@@ -111,8 +130,6 @@ export function locateExtrema(inp: ExtremaInput): ExtremumSite[] {
   const sites: ExtremumSite[] = [];
   const nb = bs.nBands;
   if (!edges.vbm || !edges.cbm) return sites;
-  const overallV = edges.vbm.energy;
-  const overallC = edges.cbm.energy;
   const keys: string[] = [];
   for (let i = 0; i < bs.nk; i++) keys.push(kKey(kpointAt(bs, i)));
   const seen = (spin: number, k: number, energy: number): boolean =>
@@ -123,6 +140,8 @@ export function locateExtrema(inp: ExtremaInput): ExtremumSite[] {
     const overall = kind === 'vbm' ? edges.vbm! : edges.cbm!;
     const moved = kind === 'vbm' ? inp.vbmIndex : inp.cbmIndex;
     if (moved !== null && st.spin === overall.spin && st.band === overall.band && st.energy === overall.energy) k = moved;
+    k = climb(bs, st.spin, st.band, k, kind === 'vbm', inp.neighbours);
+    const energy = bs.energies[st.spin]![k * nb + st.band]!;
     const group = degenerateGroup(bs, st.spin, k, st.band, inp.degeneracy_eV);
     const band = kind === 'vbm' ? group[group.length - 1]! : group[0]!;
     const warnings: string[] = [];
@@ -136,9 +155,9 @@ export function locateExtrema(inp: ExtremaInput): ExtremumSite[] {
       spin: st.spin,
       k,
       band,
-      energy: st.energy,
+      energy,
       kind,
-      offset: kind === 'vbm' ? overallV - st.energy : st.energy - overallC,
+      offset: 0,
       group,
       warnings,
     };
@@ -148,6 +167,10 @@ export function locateExtrema(inp: ExtremaInput): ExtremumSite[] {
     if (s.vbm) sites.push(edgeSite(s.vbm, 'vbm'));
     if (s.cbm) sites.push(edgeSite(s.cbm, 'cbm'));
   }
+  // Offsets from the overall edges (non-zero only for the other spin channel's edge).
+  const overallV = Math.max(...sites.filter((s) => s.kind === 'vbm').map((s) => s.energy));
+  const overallC = Math.min(...sites.filter((s) => s.kind === 'cbm').map((s) => s.energy));
+  for (const s of sites) s.offset = s.kind === 'vbm' ? overallV - s.energy : s.energy - overallC;
   const neighbours = inp.neighbours;
   if (!neighbours) return sites;
 
@@ -180,6 +203,7 @@ export function locateExtrema(inp: ExtremaInput): ExtremumSite[] {
           const rays = inp.network.raysFrom(i);
           if (rays.length === 1 && extremumBeyondEnd(bs, spin, b, rays[0]!, valence)) continue;
         }
+        if (inp.equivalent && [...sites, ...found].some((f) => f.spin === spin && Math.abs(f.energy - x) <= inp.degeneracy_eV && inp.equivalent!(f.k, i))) continue;
         if (seen(spin, i, x) || found.some((f) => f.spin === spin && keys[f.k] === keys[i] && Math.abs(f.energy - x) <= inp.degeneracy_eV)) continue;
         // Equal-energy neighbours on either side of a vertex midway between samples: keep one.
         if (found.some((f) => f.spin === spin && f.band === b && Math.abs(f.energy - x) < 1e-9 && nbrs.includes(f.k))) continue;

@@ -18,6 +18,7 @@ import { averagedFromPrincipal, multiBandDosMass } from './averagedMasses';
 import { cartesianLittleGroup, symmetryContext, valleysAt, type SymmetryContext } from './valleyCount';
 import { tensorFromDirections } from './symmetryTensor';
 import { pathGeometry } from '../lattice/kpath';
+import { equivalentK } from '../lattice/symmetry';
 
 /** What the engine derives once per band structure and reuses for every extremum and click. */
 export interface EngineContext {
@@ -188,6 +189,13 @@ function kIndexOf(bs: BandStructure, k: Vec3): number | null {
   return null;
 }
 
+/** Symmetry-equivalent k-points (by the crystal's point group and time reversal), when the symmetry is known. */
+function equivalenceOf(ctx: EngineContext): ((a: number, b: number) => boolean) | undefined {
+  const sym = ctx.symmetry.sym;
+  if (!sym) return undefined;
+  return (a, b) => equivalentK(sym, kpointAt(ctx.bs, a), kpointAt(ctx.bs, b), 2e-4);
+}
+
 export interface EdgeInputs {
   occ: OccupationRule;
   edges: EdgeAnalysis;
@@ -206,6 +214,7 @@ export function analyseExtrema(bs: BandStructure, report: Report, settings: Anal
     network: ctx.network,
     range_eV: settings.range_eV,
     degeneracy_eV: settings.degeneracy_meV / 1000,
+    equivalent: equivalenceOf(ctx),
   });
   if (!ctx.neighbours && bs.nk > 1) {
     report.warnings.push('The k-points form neither a path nor a known grid: secondary extrema were not searched.');
