@@ -166,6 +166,7 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
     weights[k] = w;
     read++;
   }
+  if (read === 0) throw sc.error('the file ends inside the first k-point block, before its eigenvalues are complete (it is truncated, or still being written)');
   sc.skipBlankLines();
   if (!sc.atEnd() && !partial) throw sc.error(`unexpected data after the ${nkAnnounced} k-points the header announces: "${sc.peekToken()}"`);
   options.onProgress?.(1);

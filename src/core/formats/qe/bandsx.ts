@@ -90,6 +90,7 @@ export function readBandsx(file: InputFile, options: ReadOptions = {}): BandsxDa
     kCartesian[3 * k + 2] = z;
     nk = k + 1;
   }
+  if (nk === 0) throw sc.error(`the file ends inside the first k-point, before all ${nBands} of its energies (it is truncated, or still being written)`);
   sc.skipBlankLines();
   if (!sc.atEnd() && nk === nkAnnounced) {
     throw sc.error(`unexpected data after the last of the ${nkAnnounced} k-points the header announces: "${sc.peekToken()}"`);
