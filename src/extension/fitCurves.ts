@@ -12,6 +12,14 @@ import type { FitCurve } from '../protocol';
 
 export const CURVE_SAMPLES = 41;
 
+/** Where the fitted dispersion has its vertex, relative to the extremum's sampled point along the ray. */
+export interface Vertex {
+  /** Distance of the vertex from the sampled point along the ray, Å⁻¹. */
+  t: number;
+  /** Energy of the vertex, eV. */
+  e: number;
+}
+
 /** Energy of the fitted dispersion at distance t (Å⁻¹) from the vertex, eV. */
 export function fittedEnergy(e0: number, m: MassFit, t: number): number {
   const a = HBAR2_OVER_ME_EV_A2 / (2 * Math.abs(m.mass));
@@ -32,9 +40,11 @@ function sameDirection(m: MassFit, r: Ray): boolean {
  * path gets a curve at each visit). `rays` are the path directions leaving the extremum's k-point.
  * Each curve runs until the fitted energy is 1.5 windows from the extremum, or the ray ends.
  */
-export function fitCurves(geometry: PathGeometry, x: ExtremumReport, rays: Ray[]): FitCurve[] {
+export function fitCurves(geometry: PathGeometry, x: ExtremumReport, rays: Ray[], vertices: (Vertex | null)[] = []): FitCurve[] {
   const out: FitCurve[] = [];
-  for (const m of x.masses) {
+  for (const [mi, m] of x.masses.entries()) {
+    // Free-vertex fits put the vertex between sampled points; without one, the sampled point is the vertex.
+    const v = vertices[mi] ?? { t: 0, e: x.eV };
     if (!Number.isFinite(m.mass) || m.mass === 0) continue;
     const limit = (1.5 * Math.max(m.window_meV, 1)) / 1000;
     for (const r of rays) {
@@ -54,7 +64,8 @@ export function fitCurves(geometry: PathGeometry, x: ExtremumReport, rays: Ray[]
       const energy: number[] = [];
       for (let j = 0; j < CURVE_SAMPLES; j++) {
         const t = (tMax * j) / (CURVE_SAMPLES - 1);
-        const e = fittedEnergy(x.eV, m, t);
+        // Distance from the vertex; the curve starts at the sampled point (t = 0) and runs outwards.
+        const e = fittedEnergy(v.e, m, Math.abs(t - v.t));
         if (!Number.isFinite(e) || Math.abs(e - x.eV) > limit * 1.5) break;
         distance.push(d0 + dir * t * scale);
         energy.push(e);

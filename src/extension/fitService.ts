@@ -7,7 +7,11 @@ import { ValleyscopeError } from '../core/errors';
 import type { FitTarget, WindowScanSeries } from '../protocol';
 import type { FitOutcome, FitService } from './fitTypes';
 import type { LoadedRun } from './runLoader';
-import { fitCurves } from './fitCurves';
+import { fitCurves, type Vertex } from './fitCurves';
+import { directionalMasses } from '../core/analysis/directionalMasses';
+import { degenerateGroup } from '../core/analysis/extrema';
+import type { Ray } from '../core/analysis/pathRays';
+import type { ExtremumReport } from '../core/model';
 import { nearestKIndex } from './bandData';
 import type { WindowScanPoint } from '../core/analysis/windowScan';
 
@@ -35,6 +39,20 @@ export function scanSeries(points: WindowScanPoint[]): WindowScanSeries[] {
   return [...byName.values()];
 }
 
+/**
+ * The vertices of the directional fits (free-vertex fits put them between sampled points), from the core's
+ * own directional fit repeated with the engine's inputs. Used only when it reproduces the engine's masses
+ * exactly; otherwise the curves are drawn from the sampled point.
+ */
+function vertices(run: LoadedRun, x: ExtremumReport, kIndex: number, rays: Ray[], s: AnalysisSettings): (Vertex | null)[] {
+  const band0 = x.band - 1;
+  const group = degenerateGroup(run.bs, x.spin, kIndex, band0, s.degeneracy_meV / 1000);
+  const dm = directionalMasses(run.bs, x.spin, group, band0, rays, { method: s.method, window_meV: s.window_meV, energySigma: engineContext(run.bs).energySigma });
+  const same = dm.masses.length === x.masses.length && dm.masses.every((m, i) => m.mass === x.masses[i]!.mass && m.towards === x.masses[i]!.towards);
+  if (!same) return [];
+  return dm.fits.map((f) => (f.vertexT !== undefined && f.vertexE !== undefined ? { t: f.vertexT, e: f.vertexE } : null));
+}
+
 export function makeFitService(settings: () => AnalysisSettings): FitService {
   const scan = (run: LoadedRun, t: FitTarget, method: string, windows?: number[]): WindowScanSeries[] => {
     const s = { ...settings(), method: checkedMethod(method) };
@@ -45,10 +63,11 @@ export function makeFitService(settings: () => AnalysisSettings): FitService {
       const s: AnalysisSettings = { ...settings(), window_meV, method: checkedMethod(method) };
       const extremum = fitExtremumAt(run.bs, t.spin, t.kIndex, t.band0, s);
       const net = engineContext(run.bs).network;
-      const rays = net ? net.raysFrom(nearestKIndex(run.bs, extremum.k)) : [];
+      const kIndex = nearestKIndex(run.bs, extremum.k);
+      const rays = net ? net.raysFrom(kIndex) : [];
       return {
         extremum,
-        curves: fitCurves(run.geometry, extremum, rays),
+        curves: fitCurves(run.geometry, extremum, rays, vertices(run, extremum, kIndex, rays, s)),
         scan: withScan ? scan(run, t, method) : null,
       };
     },
