@@ -66,7 +66,7 @@ export async function annotateOne(path: string, flags: Partial<AnalysisSettings>
   }
   const changes = compareAnnotations(older, doc, EXACT_TOLERANCES);
   const kept = doc.entries.filter((e) => e.note !== '' || e.status !== 'unreviewed').length;
-  io.out(`${target}: updated; ${changes.length === 0 ? 'no recorded number changed' : `${changes.length} change${changes.length === 1 ? '' : 's'}`}${kept ? `; notes and statuses of ${kept} entr${kept === 1 ? 'y' : 'ies'} kept` : ''}`);
+  io.out(`${target}: updated; ${changes.length === 0 ? 'no recorded number moved (fit details, warnings or layout only)' : `${changes.length} change${changes.length === 1 ? '' : 's'}`}${kept ? `; notes and statuses of ${kept} entr${kept === 1 ? 'y' : 'ies'} kept` : ''}`);
   for (const c of changes) io.out(`  ${c.message}`);
 }
 

@@ -15,7 +15,7 @@ function cell(s: string): string {
 function massesText(e: AnnotatedEntry): string {
   if (e.masses.length === 0) return '—';
   return e.masses
-    .map((m) => `${m.mass === null ? 'n/a' : formatNumber(m.mass, 'mass')} → ${m.towards || '?'} (${m.method}, ${m.points} pts, ${formatNumber(m.window_meV, 'meV')} meV)`)
+    .map((m) => `${m.mass === null ? 'n/a' : formatNumber(m.mass, 'mass')} towards ${m.towards || '?'} (${m.method}, ${m.points} pts, ${formatNumber(m.window_meV, 'meV')} meV)`)
     .join('; ');
 }
 
@@ -57,7 +57,7 @@ export function annotationsMarkdown(doc: AnnotationsDoc, fileName: string, check
   );
   if (doc.note !== '') out.push(`> ${cell(doc.note)}`, '');
   if (doc.entries.length > 0) {
-    out.push('| Extremum | E (eV) | Masses (m_e) → direction (fit) | N_v | m_dos | m_c | Status | Note |');
+    out.push('| Extremum | E (eV) | Masses (m_e), direction (fit) | N_v | m_dos | m_c | Status | Note |');
     out.push('|---|---:|---|---:|---:|---:|---|---|');
     for (const e of doc.entries) out.push(entryRow(e));
     out.push('');

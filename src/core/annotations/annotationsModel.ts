@@ -7,6 +7,7 @@
  * rewrite and merge). `extra` objects have no prototype, so a key such as "__proto__" is an ordinary key.
  */
 import type { ExtremumKind, Mat3, Vec3 } from '../model';
+import { ValleyscopeError } from '../errors';
 
 export type JsonValue = null | boolean | number | string | JsonValue[] | { [key: string]: JsonValue };
 /** Fields found in the file that this version does not know, in the order they were written. */
@@ -150,7 +151,7 @@ export function isAnnotationsPath(path: string): boolean {
 
 /** The data file an annotations file describes (its name without the suffix). */
 export function dataPathFor(annotationsFile: string): string {
-  if (!isAnnotationsPath(annotationsFile)) throw new Error(`${annotationsFile} is not an annotations file name`);
+  if (!isAnnotationsPath(annotationsFile)) throw new ValleyscopeError(`${annotationsFile} is not an annotations file name (*${ANNOTATIONS_SUFFIX})`);
   return annotationsFile.slice(0, annotationsFile.length - ANNOTATIONS_SUFFIX.length);
 }
 

@@ -19,6 +19,7 @@ import {
   type AnnotationsDoc,
 } from './annotationsModel';
 import { sortEntries } from './serializeAnnotations';
+import { mergeAnnotations } from './mergeAnnotations';
 
 export interface RecordedSettings extends AnalysisSettings {
   /** The run was read as spin-orbit because the user asked (`--soc`), not because its files say so. */
@@ -28,6 +29,8 @@ export interface RecordedSettings extends AnalysisSettings {
 export interface BuildOptions {
   /** Version of the program writing the file. */
   toolVersion: string;
+  /** The document already beside the data, if any: the result is then merged with it (mergeAnnotations). */
+  existing?: AnnotationsDoc | null;
 }
 
 function splitPath(p: string): string[] {
@@ -196,9 +199,13 @@ export function analysisSettingsOf(doc: AnnotationsDoc): AnalysisSettings {
   return { window_meV: s.window_meV, method: s.method, range_eV: s.range_eV, degeneracy_meV: s.degeneracy_meV };
 }
 
+/**
+ * The annotations document for a report. With `options.existing`, the fresh numbers are merged into it:
+ * every note, status and hand-added field kept, entries no longer found kept as `found: false`.
+ */
 export function buildAnnotations(report: Report, source: BandSource, settings: RecordedSettings, options: BuildOptions): AnnotationsDoc {
   const dir = folderOf(source.file);
-  return {
+  const fresh: AnnotationsDoc = {
     layoutVersion: ANNOTATIONS_LAYOUT_VERSION,
     toolVersion: options.toolVersion,
     format: source.format,
@@ -212,4 +219,5 @@ export function buildAnnotations(report: Report, source: BandSource, settings: R
     cautions: [...report.cautions],
     extra: emptyExtra(),
   };
+  return options.existing ? mergeAnnotations(options.existing, fresh) : fresh;
 }

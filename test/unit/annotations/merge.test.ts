@@ -104,6 +104,13 @@ describe('annotations merge', function () {
     assert.equal(cbm[0]!.found, true);
   });
 
+  it('merges through buildAnnotations when given the existing document', () => {
+    const older = parseAnnotations(reviewedText(), 'x');
+    const viaBuild = buildAnnotations(analyticReport(), SOURCE, DEFAULT_SETTINGS, { toolVersion: '0.1.0', existing: older });
+    assert.equal(serializeAnnotations(viaBuild), serializeAnnotations(mergeAnnotations(older, build(analyticReport()))));
+    assert.equal(viaBuild.entries.find((e) => e.kind === 'cbm')!.note, 'Light electron, as expected.');
+  });
+
   it('loses nothing a person wrote, for any pair of documents', () => {
     fc.assert(
       fc.property(docArb, docArb, (older, fresh) => {
