@@ -76,13 +76,19 @@ export function readBandDat(file: InputFile, options: ReadOptions = {}): BandDat
     e.push(en);
     inBlock++;
   }
+  // Wannier90 ends every band, the last one too, with a blank record: a band without one was cut short.
   let partial = false;
   if (inBlock > 0) {
-    if (nk < 0 || inBlock === nk) {
-      if (nk < 0) nk = inBlock;
-      band++;
-    } else if (options.allowPartial) partial = true;
-    else throw sc.error(`the last band has ${inBlock} of ${nk} points: the file is truncated`, sc.line, 0);
+    if (options.allowPartial && band > 0) partial = true;
+    else {
+      throw sc.error(
+        nk < 0 || inBlock === nk
+          ? `the file ends inside band ${band + 1} (after ${inBlock} points, without the blank line that closes every band): it is truncated`
+          : `the last band has ${inBlock} of ${nk} points: the file is truncated`,
+        sc.line,
+        0,
+      );
+    }
   }
   if (nk <= 0 || band === 0) throw sc.error('the file holds no complete band');
   options.onProgress?.(1);
@@ -146,6 +152,8 @@ export interface WinSettings {
   structure: Structure | null;
   spinors: boolean | null;
   fermiEnergy: number | null;
+  /** num_wann: the number of bands the band file must hold. */
+  numWann: number | null;
 }
 
 /** The parts of seedname.win a band structure needs. Keywords and block names are case-insensitive. */
@@ -210,6 +218,7 @@ export function readWin(file: InputFile): WinSettings {
     });
     structure = { lattice, species, positions };
   }
+  const nw = keyword('num_wann');
   const sp = keyword('spinors');
   const ef = keyword('fermi_energy');
   return {
@@ -217,6 +226,7 @@ export function readWin(file: InputFile): WinSettings {
     structure,
     spinors: sp === null ? null : /^(\.?t|true)/i.test(sp),
     fermiEnergy: ef === null ? null : parseDecimal(ef.split(/\s+/)[0]!),
+    numWann: nw === null ? null : parseDecimal(nw.split(/\s+/)[0]!),
   };
 }
 
@@ -268,6 +278,14 @@ export const wannier90BandReader: FormatReader = {
       }
     };
     const win = use(find('.win'), 'settings', readWin);
+    if (win?.numWann != null && win.numWann !== data.nBands && !data.partial) {
+      throw new ReaderError(
+        WANNIER90_BAND_FORMAT,
+        main.path,
+        { line: 0, column: 0 },
+        `the band file holds ${data.nBands} bands but seedname.win sets num_wann = ${win.numWann}: the file is truncated or belongs to another run`,
+      );
+    }
     let kpoints = use(find('_band.kpt'), 'kpath', readBandKpt);
     const labelInfo = use(find('_band.labelinfo.dat'), 'labels', readLabelInfo) ?? [];
     if (kpoints && kpoints.length !== 3 * data.nk) {

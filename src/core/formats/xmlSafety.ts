@@ -49,6 +49,8 @@ function declaredEncoding(bytes: Uint8Array): string {
 export class SafeXmlStream {
   private readonly parser: SaxesParser<{ position: true; fileName: string; xmlns: false }>;
   private readonly path: string[] = [];
+  /** Per open element: 1 when it has child elements, 2 when it has non-blank text (the layouts never mix them). */
+  private readonly content: number[] = [];
   private decoder: TextDecoder | null = null;
   private fedBytes = 0;
   private sawBom = false;
@@ -71,18 +73,37 @@ export class SafeXmlStream {
     });
     parser.on('opentag', (tag: SaxesTagPlain) => {
       if (path.length >= MAX_XML_DEPTH) throw this.fail(`the XML nests elements more than ${MAX_XML_DEPTH} deep; this is not a layout Valleyscope reads`);
+      const n = this.content.length;
+      if (n > 0) {
+        if (this.content[n - 1] === 2) throw this.fail(`<${path[n - 1]}> holds both text and elements; the layout never mixes them (stray text in the file?)`);
+        this.content[n - 1] = 1;
+      }
+      this.content.push(0);
       path.push(tag.name);
       events.open(tag.name, tag.attributes as Record<string, string>, path, parser.line);
     });
     parser.on('closetag', (tag: SaxesTagPlain) => {
       events.close(tag.name, path, parser.line);
       path.pop();
+      this.content.pop();
     });
-    if (events.text) {
-      const onText = events.text;
-      parser.on('text', (t: string) => {
-        if (path.length > 0) onText(t, path);
-      });
+    const onText = events.text;
+    parser.on('text', (t: string) => {
+      const n = this.content.length;
+      if (n === 0) {
+        if (/\S/.test(t)) throw this.fail('text outside the root element');
+        return;
+      }
+      if (this.content[n - 1] !== 2 && /\S/.test(t)) {
+        if (this.content[n - 1] === 1) {
+          const shown = t.trim().slice(0, 20);
+          throw this.fail(`unexpected text "${shown}${t.trim().length > 20 ? '…' : ''}" between the elements of <${path[n - 1]}>`);
+        }
+        this.content[n - 1] = 2;
+      }
+      onText?.(t, path);
+    });
+    if (onText) {
       parser.on('cdata', (t: string) => {
         if (path.length > 0) onText(t, path);
       });
