@@ -69,6 +69,19 @@ function pointLabel(bs: BandStructure, net: PathNetwork | null, k: number): stri
   return null;
 }
 
+/** The closest band outside the site's degenerate group, at the site's k. */
+function nearestOtherBand(bs: BandStructure, site: ExtremumSite): { band: number; gap_meV: number } | null {
+  const e = bs.energies[site.spin]!;
+  const nb = bs.nBands;
+  let best: { band: number; gap_meV: number } | null = null;
+  for (const b of [site.group[0]! - 1, site.group[site.group.length - 1]! + 1]) {
+    if (b < 0 || b >= nb) continue;
+    const gap = Math.abs(e[site.k * nb + b]! - site.energy) * 1000;
+    if (!best || gap < best.gap_meV) best = { band: b, gap_meV: gap };
+  }
+  return best;
+}
+
 function fmt3(x: number): string {
   return x.toPrecision(3);
 }
@@ -84,6 +97,10 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     warnings.push(
       `${g} bands meet here within ${settings.degeneracy_meV} meV: masses by band index are ill-defined at a degenerate edge, so each mass below follows one branch by smooth continuation of E(k) (branch 1 is the one ${maximum ? 'highest' : 'lowest'} in energy next to the extremum).`,
     );
+  }
+  const near = nearestOtherBand(bs, site);
+  if (near && near.gap_meV < settings.window_meV) {
+    warnings.push(`Band ${near.band + 1} lies only ${near.gap_meV.toFixed(1)} meV away at this point, inside the ${settings.window_meV} meV fit window: the bands may mix (an avoided crossing) and the curvature of one band index can be unreliable; compare a smaller window.`);
   }
   const valleyDegeneracy = valleysAt(ctx.symmetry, k);
   if (valleyDegeneracy === null && ctx.symmetry.unavailable) warnings.push(ctx.symmetry.unavailable);
