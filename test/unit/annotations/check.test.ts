@@ -135,6 +135,16 @@ describe('valleyscope annotate and check', () => {
     assert.equal(readFileSync(ann, 'utf8'), broken, 'never overwritten');
   });
 
+  it('fails with the reader\'s located sentence when the data file is damaged', async () => {
+    await cli('annotate', runDir);
+    const text = readFileSync(eig, 'utf8');
+    writeFileSync(eig, text.slice(0, Math.floor(text.length / 2)));
+    const r = await cli('check', root);
+    assert.equal(r.code, 1);
+    assert.match(r.out, /^FAIL\s+.*could not be checked: .*EIGENVAL:\d+(:\d+)?: .*(truncated|ends)/m);
+    assert.doesNotMatch(r.out + r.err, /\n\s+at /, 'no stack trace');
+  });
+
   it('fails when the data file is gone, and when there is nothing to check', async () => {
     await cli('annotate', runDir);
     rmSync(eig);
