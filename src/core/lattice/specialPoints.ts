@@ -15,7 +15,7 @@
  * vector of the primitive lattice.
  */
 import type { BandStructure, KLabel, Mat3, Structure, Vec3 } from '../model';
-import { det3, mat3Inverse, mulMatVec } from './linalg';
+import { det3, mat3Inverse, mulMat, mulMatVec } from './linalg';
 import { bravaisLattice, latticeOnlyStructure, type BravaisLattice } from './bravais';
 import { crystalSymmetry, DEFAULT_SYMPREC, sameModuloG } from './symmetry';
 
@@ -117,6 +117,49 @@ function metric(m: Mat3): Mat3 {
  * number of standard primitive cells in the user's cell (1 for a primitive cell). Null when none is found.
  */
 export function relateCells(user: Mat3, std: Mat3, relTol = 2e-3, range = 3): Mat3 | null {
+  // Search from a reduced (short-vector) form of the user's cell, then carry the result back: a skewed but
+  // valid primitive cell (long combinations of short vectors) is related as well as a reduced one.
+  const { reduced, T } = reduceCell(user);
+  const m = relateReduced(reduced, std, relTol, range);
+  return m ? roundMat3(mulMat(mat3Inverse(T), m)) : null;
+}
+
+/**
+ * Pairwise (Gauss–Lagrange) reduction of lattice rows: subtract integer multiples of one row from another
+ * while that shortens it. Returns the reduced rows and the integer matrix T with reduced = T · lattice.
+ */
+export function reduceCell(lattice: Mat3): { reduced: Mat3; T: Mat3 } {
+  const r = lattice.map((row) => [...row]) as Mat3;
+  const T: Mat3 = [[1, 0, 0], [0, 1, 0], [0, 0, 1]];
+  for (let pass = 0; pass < 100; pass++) {
+    let changed = false;
+    for (let i = 0; i < 3; i++) {
+      for (let j = 0; j < 3; j++) {
+        if (i === j) continue;
+        const q = Math.round(dot3(r[i]!, r[j]!) / dot3(r[j]!, r[j]!));
+        if (q === 0) continue;
+        const next: Vec3 = [r[i]![0] - q * r[j]![0], r[i]![1] - q * r[j]![1], r[i]![2] - q * r[j]![2]];
+        if (dot3(next, next) < dot3(r[i]!, r[i]!) * (1 - 1e-12)) {
+          r[i] = next;
+          T[i] = [T[i]![0] - q * T[j]![0], T[i]![1] - q * T[j]![1], T[i]![2] - q * T[j]![2]];
+          changed = true;
+        }
+      }
+    }
+    if (!changed) break;
+  }
+  return { reduced: r, T };
+}
+
+function dot3(a: Vec3, b: Vec3): number {
+  return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
+}
+
+function roundMat3(m: Mat3): Mat3 {
+  return m.map((row) => row.map((x) => Math.round(x) + 0)) as Mat3;
+}
+
+function relateReduced(user: Mat3, std: Mat3, relTol: number, range: number): Mat3 | null {
   const gu = metric(user);
   const gs = metric(std);
   const ratio = Math.abs(det3(user) / det3(std));

@@ -1,0 +1,226 @@
+import assert from 'node:assert/strict';
+import fc from 'fast-check';
+import type { BandStructure, Mat3, Structure, Vec3 } from '../../../src/core/model';
+import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
+import { recogniseLabels, recogniseSpecialPoints, relateCells } from '../../../src/core/lattice/specialPoints';
+import { cartesianToFractional } from '../../../src/core/lattice/reciprocal';
+import { mulMat, mulMatVec } from '../../../src/core/lattice/linalg';
+import { makeBands } from '../../support/bandStructure';
+import { diamondConventional, diamondLike, fccPrimitive, redescribe, rotationMatrix, UNIMODULAR, wurtzite } from './crystals';
+
+// Special points are given here in CARTESIAN coordinates from the geometry of each Brillouin zone (common
+// practice; e.g. Ashcroft & Mermin ch. 8, Kittel ch. 2 (memory)), and named as in Setyawan & Curtarolo,
+// Comput. Mater. Sci. 49, 299 (2010). Each test converts them into the fractional reciprocal basis of the
+// cell under test, so the fractional tables inside the code are checked, not repeated.
+
+type Leg = [string, Vec3];
+/** Line-mode path: each segment from p to q with n points, ends repeated (as VASP writes line mode). */
+function linePath(legs: [Leg, Leg][], n: number): { kc: Vec3[]; ends: Map<number, string> } {
+  const kc: Vec3[] = [];
+  const ends = new Map<number, string>();
+  for (const [[la, a], [lb, b]] of legs) {
+    for (let i = 0; i < n; i++) {
+      const t = i / (n - 1);
+      if (i === 0) ends.set(kc.length, la);
+      if (i === n - 1) ends.set(kc.length, lb);
+      kc.push([a[0] + (b[0] - a[0]) * t, a[1] + (b[1] - a[1]) * t, a[2] + (b[2] - a[2]) * t]);
+    }
+  }
+  return { kc, ends };
+}
+
+/** A band structure whose k-points are the cartesian path `kc` expressed in the cell `lattice`. */
+function bandsOn(lattice: Mat3, kc: Vec3[], structure: Structure | null): BandStructure {
+  const kf = kc.map((k) => cartesianToFractional(k, lattice));
+  const bs = makeBands({ kpoints: kf, energies: [kf.map(() => [0])], lattice });
+  return { ...bs, structure };
+}
+
+function labelsOf(bs: BandStructure): Map<number, string> {
+  return new Map(recogniseLabels(bs).map((l) => [l.index, l.label]));
+}
+
+const rot = (v: Vec3, q: Mat3): Vec3 => mulMatVec(q, v);
+
+// --- fcc (2π/a units): X (0,1,0), L (½,½,½), W (½,1,0), K (¾,¾,0), U (¼,1,¼).
+const A = 5.431;
+const u = (2 * Math.PI) / A;
+const fccPts: Record<string, Vec3> = {
+  Γ: [0, 0, 0], X: [0, u, 0], L: [u / 2, u / 2, u / 2], W: [u / 2, u, 0], K: [(3 * u) / 4, (3 * u) / 4, 0], U: [u / 4, u, u / 4],
+};
+/** The fcc path of Setyawan & Curtarolo 2010: Γ–X–W–K–Γ–L–U–W–L–K|U–X. */
+const FCC_PATH: [string, string][] = [['Γ', 'X'], ['X', 'W'], ['W', 'K'], ['K', 'Γ'], ['Γ', 'L'], ['L', 'U'], ['U', 'W'], ['W', 'L'], ['L', 'K'], ['U', 'X']];
+const legsOf = (path: [string, string][], pts: Record<string, Vec3>, q?: Mat3): [Leg, Leg][] =>
+  path.map(([a, b]) => [[a, q ? rot(pts[a]!, q) : pts[a]!], [b, q ? rot(pts[b]!, q) : pts[b]!]]);
+
+describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
+  before(async () => {
+    await ensureSymmetryReady();
+  });
+
+  it('labels Γ, X, W, K, L, U on the fcc path of Si without a path file, and nothing in between', () => {
+    const { kc, ends } = linePath(legsOf(FCC_PATH, fccPts), 9);
+    for (const structure of [diamondLike(A, 'Si', 'Si'), null]) {
+      const got = labelsOf(bandsOn(fccPrimitive(A), kc, structure));
+      assert.deepEqual([...got].sort((x, y) => x[0] - y[0]), [...ends].sort((x, y) => x[0] - y[0]), structure ? 'with structure' : 'lattice only');
+    }
+    const r = recogniseSpecialPoints(bandsOn(fccPrimitive(A), kc, null));
+    assert.equal(r.kind, 'FCC');
+    assert.equal(r.bravaisClass, 'cF');
+  });
+
+  it('gives the same labels for any primitive cell of the crystal, rotated (property)', () => {
+    const si = diamondLike(A, 'Si', 'Si');
+    fc.assert(
+      fc.property(
+        fc.constantFrom(...UNIMODULAR),
+        fc.constantFrom(...UNIMODULAR),
+        fc.tuple(fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: 0.1, max: 1, noNaN: true })),
+        fc.double({ min: 0, max: 2 * Math.PI, noNaN: true }),
+        fc.boolean(),
+        (m1: Mat3, m2: Mat3, axis: Vec3, angle: number, withStructure: boolean) => {
+          const q = rotationMatrix(axis, angle);
+          const st = redescribe(si, mulMat(m1, m2), q);
+          // The cartesian path rotates with the crystal.
+          const { kc, ends } = linePath(legsOf(FCC_PATH, fccPts, q), 5);
+          const got = labelsOf(bandsOn(st.lattice, kc, withStructure ? st : null));
+          assert.deepEqual([...got].sort((x, y) => x[0] - y[0]), [...ends].sort((x, y) => x[0] - y[0]));
+        },
+      ),
+      { seed: 2010, numRuns: 20 },
+    );
+  });
+
+  it('labels the fcc points in the conventional cubic cell when the structure shows the fcc lattice', () => {
+    const { kc, ends } = linePath(legsOf([['Γ', 'X'], ['X', 'W'], ['W', 'L'], ['L', 'Γ'], ['Γ', 'K']], fccPts), 7);
+    const conv = diamondConventional(A, 'Si');
+    const got = labelsOf(bandsOn(conv.lattice, kc, conv));
+    assert.deepEqual([...got].sort((x, y) => x[0] - y[0]), [...ends].sort((x, y) => x[0] - y[0]));
+  });
+
+  it('labels Γ, M, K, A, L, H on the hexagonal path for 120° and 60° cells and for wurtzite', () => {
+    const a = 3.25;
+    const c = 5.21;
+    // Hexagonal zone (common practice): |ΓM| = 2π/(√3 a) towards an edge, |ΓK| = 4π/(3a) towards a corner
+    // (corners lie along the real-space a vectors), |ΓA| = π/c.
+    const a1: Vec3 = [1, 0, 0];
+    const m: Vec3 = [0, (2 * Math.PI) / (Math.sqrt(3) * a), 0];
+    const k: Vec3 = [((4 * Math.PI) / (3 * a)) * a1[0], 0, 0];
+    const az: Vec3 = [0, 0, Math.PI / c];
+    const add = (p: Vec3, q: Vec3): Vec3 => [p[0] + q[0], p[1] + q[1], p[2] + q[2]];
+    const pts: Record<string, Vec3> = { Γ: [0, 0, 0], M: m, K: k, A: az, L: add(m, az), H: add(k, az) };
+    // Setyawan & Curtarolo's hexagonal path: Γ–M–K–Γ–A–L–H–A|L–M|K–H.
+    const path: [string, string][] = [['Γ', 'M'], ['M', 'K'], ['K', 'Γ'], ['Γ', 'A'], ['A', 'L'], ['L', 'H'], ['H', 'A'], ['L', 'M'], ['K', 'H']];
+    const { kc, ends } = linePath(legsOf(path, pts), 6);
+    const h = (Math.sqrt(3) / 2) * a;
+    const cells: Mat3[] = [
+      [[a, 0, 0], [-a / 2, h, 0], [0, 0, c]], // 120°
+      [[a, 0, 0], [a / 2, h, 0], [0, 0, c]], // 60°
+      [[0, 0, c], [a, 0, 0], [a / 2, h, 0]], // c first
+    ];
+    for (const lat of cells) {
+      const got = labelsOf(bandsOn(lat, kc, null));
+      assert.deepEqual([...got].sort((x, y) => x[0] - y[0]), [...ends].sort((x, y) => x[0] - y[0]), JSON.stringify(lat));
+    }
+    // Wurtzite in the Setyawan & Curtarolo orientation, then rotated 30° about c: the labels follow the crystal.
+    const wz = wurtzite(a, c, 0.382, 'Zn', 'O');
+    const q = rotationMatrix([0, 0, 1], Math.PI / 6);
+    // In the S&C orientation (a1 = (a/2, −a√3/2, 0)) one corner K lies along a1.
+    const sc: Vec3 = [0.5, -Math.sqrt(3) / 2, 0];
+    const ang = Math.atan2(sc[1], sc[0]);
+    const r0 = rotationMatrix([0, 0, 1], ang);
+    const wzPts = Object.fromEntries(Object.entries(pts).map(([n, p]) => [n, rot(p, r0)])) as Record<string, Vec3>;
+    for (const [st, qq] of [[wz, null], [redescribe(wz, [[1, 0, 0], [0, 1, 0], [0, 0, 1]], q), q]] as const) {
+      const path2 = linePath(legsOf(path, wzPts, qq ?? undefined), 6);
+      const got = labelsOf(bandsOn(st.lattice, path2.kc, st));
+      assert.deepEqual([...got].sort((x, y) => x[0] - y[0]), [...path2.ends].sort((x, y) => x[0] - y[0]));
+    }
+  });
+
+  it('labels the simple cubic, bcc, simple tetragonal and simple orthorhombic points', () => {
+    const pi = Math.PI;
+    const cases: { name: string; lattice: Mat3; pts: Record<string, Vec3>; path: [string, string][]; kind: string }[] = [];
+    {
+      const a = 4.1;
+      // Simple cubic (common practice): X (0,π/a,0), M (π/a,π/a,0), R (π/a,π/a,π/a); path Γ–X–M–Γ–R–X|M–R.
+      cases.push({
+        name: 'sc', kind: 'CUB', lattice: [[a, 0, 0], [0, a, 0], [0, 0, a]],
+        pts: { Γ: [0, 0, 0], X: [0, pi / a, 0], M: [pi / a, pi / a, 0], R: [pi / a, pi / a, pi / a] },
+        path: [['Γ', 'X'], ['X', 'M'], ['M', 'Γ'], ['Γ', 'R'], ['R', 'X'], ['M', 'R']],
+      });
+    }
+    {
+      const a = 3.3;
+      const v = (2 * pi) / a;
+      // bcc (common practice): H (0,0,1)2π/a, N (½,½,0)2π/a, P (½,½,½)2π/a; path Γ–H–N–Γ–P–H|P–N.
+      cases.push({
+        name: 'bcc', kind: 'BCC', lattice: [[a / 2, a / 2, -a / 2], [-a / 2, a / 2, a / 2], [a / 2, -a / 2, a / 2]],
+        pts: { Γ: [0, 0, 0], H: [0, 0, v], N: [v / 2, v / 2, 0], P: [v / 2, v / 2, v / 2] },
+        path: [['Γ', 'H'], ['H', 'N'], ['N', 'Γ'], ['Γ', 'P'], ['P', 'H'], ['P', 'N']],
+      });
+    }
+    {
+      const a = 3.9;
+      const c = 5.1;
+      // Simple tetragonal: X (0,π/a,0), M (π/a,π/a,0), Z (0,0,π/c), R (0,π/a,π/c), A (π/a,π/a,π/c);
+      // path Γ–X–M–Γ–Z–R–A–Z|X–R|M–A. The cell is given with c first.
+      cases.push({
+        name: 'tet', kind: 'TET', lattice: [[0, 0, c], [a, 0, 0], [0, a, 0]],
+        pts: { Γ: [0, 0, 0], X: [0, pi / a, 0], M: [pi / a, pi / a, 0], Z: [0, 0, pi / c], R: [0, pi / a, pi / c], A: [pi / a, pi / a, pi / c] },
+        path: [['Γ', 'X'], ['X', 'M'], ['M', 'Γ'], ['Γ', 'Z'], ['Z', 'R'], ['R', 'A'], ['A', 'Z'], ['X', 'R'], ['M', 'A']],
+      });
+    }
+    {
+      const [a, b, c] = [3.1, 4.2, 5.7];
+      // Simple orthorhombic with a < b < c: X = π/a along the shortest axis, Y = π/b, Z = π/c, S = X+Y,
+      // T = Y+Z, U = X+Z, R = X+Y+Z; path Γ–X–S–Y–Γ–Z–U–R–T–Z|Y–T|U–X|S–R. The cell lists c, a, b.
+      const X: Vec3 = [pi / a, 0, 0];
+      const Y: Vec3 = [0, pi / b, 0];
+      const Z: Vec3 = [0, 0, pi / c];
+      const s = (...v: Vec3[]): Vec3 => v.reduce((p, q) => [p[0] + q[0], p[1] + q[1], p[2] + q[2]], [0, 0, 0] as Vec3);
+      cases.push({
+        name: 'orc', kind: 'ORC', lattice: [[0, 0, c], [a, 0, 0], [0, b, 0]],
+        pts: { Γ: [0, 0, 0], X, Y, Z, S: s(X, Y), T: s(Y, Z), U: s(X, Z), R: s(X, Y, Z) },
+        path: [['Γ', 'X'], ['X', 'S'], ['S', 'Y'], ['Y', 'Γ'], ['Γ', 'Z'], ['Z', 'U'], ['U', 'R'], ['R', 'T'], ['T', 'Z'], ['Y', 'T'], ['U', 'X'], ['S', 'R']],
+      });
+    }
+    for (const cs of cases) {
+      const { kc, ends } = linePath(legsOf(cs.path, cs.pts), 5);
+      const bs = bandsOn(cs.lattice, kc, null);
+      const r = recogniseSpecialPoints(bs);
+      assert.equal(r.kind, cs.kind, cs.name);
+      const got = new Map(r.labels.map((l) => [l.index, l.label]));
+      assert.deepEqual([...got].sort((x, y) => x[0] - y[0]), [...ends].sort((x, y) => x[0] - y[0]), cs.name);
+    }
+  });
+
+  it('recognises a special point written outside the first zone (modulo a reciprocal lattice vector)', () => {
+    // L + (b1 + b2) and X − b2 in the fcc primitive basis: the same points of the crystal.
+    const bs = makeBands({ kpoints: [[1.5, 1.5, 0.5], [0.5, -1, 0.5], [0.2, 0.1, 0]], energies: [[[0], [0], [0]]], lattice: fccPrimitive(A) });
+    assert.deepEqual(recogniseLabels(bs), [{ index: 0, label: 'L' }, { index: 1, label: 'X' }]);
+  });
+
+  it('gives no labels, and says why, for lattices outside the covered set', () => {
+    // Monoclinic (β ≠ 90°) and body-centred tetragonal cells: their points depend on the cell parameters.
+    const mono: Mat3 = [[4, 0, 0], [0, 5, 0], [1.2, 0, 6]];
+    const bct: Mat3 = [[-1.5, 1.5, 2.5], [1.5, -1.5, 2.5], [1.5, 1.5, -2.5]];
+    for (const [lat, cls] of [[mono, 'mP'], [bct, 'tI']] as const) {
+      const r = recogniseSpecialPoints(makeBands({ kpoints: [[0, 0, 0], [0.5, 0, 0]], energies: [[[0], [0]]], lattice: lat }));
+      assert.deepEqual(r.labels, []);
+      assert.equal(r.bravaisClass, cls);
+      assert.match(r.reason ?? '', new RegExp(`not for ${cls}`));
+    }
+    const none = recogniseSpecialPoints(makeBands({ kpoints: [[0, 0, 0]], energies: [[[0]]] }));
+    assert.deepEqual(none.labels, []);
+    assert.equal(none.reason, 'no lattice is known');
+  });
+
+  it('relates a cell to the standard one by an integer matrix of the right determinant', () => {
+    // The conventional cubic cell holds 4 fcc primitive cells (common practice): |det M| = 4.
+    const M = relateCells([[A, 0, 0], [0, A, 0], [0, 0, A]], fccPrimitive(A));
+    assert.ok(M);
+    const det = M[0][0] * (M[1][1] * M[2][2] - M[1][2] * M[2][1]) - M[0][1] * (M[1][0] * M[2][2] - M[1][2] * M[2][0]) + M[0][2] * (M[1][0] * M[2][1] - M[1][1] * M[2][0]);
+    assert.equal(Math.abs(det), 4);
+    assert.equal(relateCells([[A, 0, 0], [0, A, 0], [0, 0, 1.1 * A]], fccPrimitive(A)), null);
+  });
+});
