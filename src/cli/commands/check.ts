@@ -15,8 +15,6 @@ import { checkAnnotations, type CheckResult } from '../../core/annotations/check
 import { DEFAULT_TOLERANCES, type Tolerances } from '../../core/annotations/compareAnnotations';
 import { annotationsMarkdown } from '../../core/annotations/annotationsMarkdown';
 import { ValleyscopeError } from '../../core/errors';
-// Importing the analyze command also brings in every analysis it plugs in, so check re-analyses alike.
-import './analyze';
 import type { CliIO } from '../io';
 
 export const CHECK_HELP = `valleyscope check [paths...] [options]

@@ -12,7 +12,6 @@ import { loadRun } from '../../../src/core/load';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { nodeFileAccessor } from '../../../src/cli/nodeFileAccessor';
 import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
-import '../../../src/cli/commands/analyze';
 import { writeTinyRun } from './tinyRun';
 import { analyticReport } from './analyticReport';
 import { docArb, fuzzParams, fuzzTimeout } from './arbitraries';
