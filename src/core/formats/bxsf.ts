@@ -73,7 +73,25 @@ export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStruct
       throw sc.error(`the Fermi energy should be a number, found "${fm[1]}"`, line, 0);
     }
   }
-  if (seekToken(sc, 'BEGIN_BLOCK_BANDGRID_3D') === null) throw sc.error('no BEGIN_BLOCK_BANDGRID_3D: this is not a band-grid file, or it is truncated');
+  // Before the grid block: blank lines, comments (#) and the BEGIN_INFO … END_INFO block, nothing else.
+  let inInfo = false;
+  for (;;) {
+    sc.skipWhitespace();
+    if (sc.atEnd()) throw sc.error('no BEGIN_BLOCK_BANDGRID_3D: this is not a band-grid file, or it is truncated');
+    const lineNo = sc.line;
+    const t = sc.token() ?? '';
+    const u = t.toUpperCase();
+    if (u.startsWith('BEGIN_BLOCK_BANDGRID_3D')) {
+      if (inInfo) throw sc.error('BEGIN_BLOCK_BANDGRID_3D inside the BEGIN_INFO block (END_INFO is missing)', lineNo, 1);
+      break;
+    }
+    if (u === 'BEGIN_INFO') inInfo = true;
+    else if (u === 'END_INFO') inInfo = false;
+    else if (!inInfo && !t.startsWith('#')) {
+      throw sc.error(`unexpected "${t.length > 20 ? `${t.slice(0, 20)}…` : t}" before the band grid (only comments and the BEGIN_INFO block belong there)`, lineNo, 1);
+    }
+    sc.nextLine();
+  }
   sc.nextLine();
   if (seekToken(sc, 'BEGIN_BANDGRID_3D', ['END_BLOCK_BANDGRID_3D']) === null) throw sc.error('no BEGIN_BANDGRID_3D inside the band-grid block');
   sc.nextLine();
