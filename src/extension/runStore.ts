@@ -4,7 +4,7 @@
  * job). Features listen to `onDidChange` and redraw.
  */
 import * as vscode from 'vscode';
-import { CancelledError } from '../core/errors';
+import { CancelledError, ReaderError } from '../core/errors';
 import { loadAndAnalyse, type LoadedRun } from './runLoader';
 import type { ExtensionSettings } from './settings';
 
@@ -92,6 +92,9 @@ export class RunStore implements vscode.Disposable {
       (error: unknown) => {
         if (this.entries.get(key) === entry) {
           entry.state = { status: 'failed', error };
+          // Watch the file that failed too: a job still writing it, or a fix, brings a reload.
+          const failedFile = error instanceof ReaderError && error.file ? uri.with({ path: error.file }) : uri;
+          this.watch(entry, failedFile, uri);
           this.changed.fire(uri);
         }
         throw error;
