@@ -55,7 +55,7 @@ export class BandViewPanel implements vscode.Disposable {
   private postedRun: LoadedRun | null = null;
   private ready = false;
   private pendingSave: ((o: SaveOutcome) => void) | null = null;
-  private pendingExport: { format: ExportFormat; target: vscode.Uri | null; done: (m: string) => void } | null = null;
+  private pendingExport: { format: ExportFormat; target: vscode.Uri | null; done: (ok: boolean, m: string) => void } | null = null;
   private disposed = false;
   private readonly disposedEmitter = new vscode.EventEmitter<void>();
   readonly onDidDispose = this.disposedEmitter.event;
@@ -144,7 +144,10 @@ export class BandViewPanel implements vscode.Disposable {
     this.postedRun = run;
     const s = this.deps.settings();
     const data = buildBandData(run.bs, run.report, run.geometry, fileName(run.fileUri), s.analysis, s.energyReference);
-    this.post({ type: HostToViewType.BandData, data, environment: environmentFor(run.fileUri) });
+    const environment = environmentFor(run.fileUri);
+    this.post({ type: HostToViewType.BandData, data, environment });
+    // Also as its own message, so controls that depend on it (save) update the same way as on a trust change.
+    this.post({ type: HostToViewType.Environment, environment });
   }
 
   private async receive(raw: unknown): Promise<void> {
@@ -250,17 +253,17 @@ export class BandViewPanel implements vscode.Disposable {
     });
   }
 
-  requestExport(format: ExportFormat, target: vscode.Uri | null): Promise<string> {
-    return new Promise<string>((resolve) => {
+  requestExport(format: ExportFormat, target: vscode.Uri | null): Promise<{ ok: boolean; message: string }> {
+    return new Promise((resolve) => {
       const timer = setTimeout(() => {
         if (this.pendingExport?.done === done) {
           this.pendingExport = null;
-          resolve('The band view did not send the plot (is it still loading?).');
+          resolve({ ok: false, message: 'The band view did not send the plot (is it still loading?).' });
         }
       }, VIEW_ANSWER_MS);
-      const done = (msg: string): void => {
+      const done = (ok: boolean, message: string): void => {
         clearTimeout(timer);
-        resolve(msg);
+        resolve({ ok, message });
       };
       this.pendingExport = { format, target, done };
       this.post({ type: HostToViewType.ExportRequest, format });
@@ -274,7 +277,7 @@ export class BandViewPanel implements vscode.Disposable {
     const base = run?.fileUri ?? this.runUri;
     const finish = (ok: boolean, text: string): void => {
       this.post({ type: HostToViewType.ExportResult, ok, message: text });
-      if (pending) pending.done(text);
+      if (pending) pending.done(ok, text);
       else if (ok) void vscode.window.showInformationMessage(text);
       else void vscode.window.showWarningMessage(text);
     };

@@ -7,6 +7,7 @@ import { isEigenvalueLanguage } from './languageIds';
 import { summaryText } from '../core/report/summaryText';
 import { saveAnnotations, type SaveDeps, type SaveOutcome } from './saveAnnotations';
 import { ViewToHostType, type ExportFormat } from '../protocol';
+import { writeRefusal } from './trust';
 
 function activeRunUri(panels: BandViewPanels): vscode.Uri | null {
   const ed = vscode.window.activeTextEditor;
@@ -35,8 +36,17 @@ export function registerCommands(store: RunStore, panels: BandViewPanels, saveDe
     reg(COMMANDS.saveAnnotations, async (): Promise<SaveOutcome> => {
       const panel = panels.focused ?? panels.forUri(activeRunUri(panels));
       let outcome: SaveOutcome;
-      if (panel) outcome = await panel.requestSave();
-      else {
+      const refusal = writeRefusal(panel?.runUri ?? activeRunUri(panels));
+      if (refusal) {
+        // Restricted Mode or a read-only file system: say so at once; the view would not answer.
+        void vscode.window.showWarningMessage(refusal);
+        return { ok: false, message: refusal };
+      }
+      if (panel) {
+        outcome = await panel.requestSave();
+        if (outcome.ok) void vscode.window.showInformationMessage(outcome.message);
+        else void vscode.window.showWarningMessage(outcome.message);
+      } else {
         const uri = activeRunUri(panels);
         if (!uri) outcome = { ok: false, message: NO_FILE };
         else {
@@ -70,7 +80,16 @@ export function registerCommands(store: RunStore, panels: BandViewPanels, saveDe
         if (!pick) return 'Export cancelled.';
         format = pick.value;
       }
-      return panel.requestExport(format, asUri(targetArg));
+      const refusal = writeRefusal(panel.runUri);
+      if (refusal) {
+        const m = refusal.replace('write annotations', 'export plots');
+        void vscode.window.showWarningMessage(m);
+        return m;
+      }
+      const r = await panel.requestExport(format, asUri(targetArg));
+      if (r.ok) void vscode.window.showInformationMessage(r.message);
+      else void vscode.window.showWarningMessage(r.message);
+      return r.message;
     }),
     reg(COMMANDS.reload, async (arg?: unknown) => {
       const uri = asUri(arg) ?? activeRunUri(panels);
