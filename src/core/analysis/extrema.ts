@@ -141,9 +141,9 @@ export function locateExtrema(inp: ExtremaInput): ExtremumSite[] {
     const moved = kind === 'vbm' ? inp.vbmIndex : inp.cbmIndex;
     if (moved !== null && st.spin === overall.spin && st.band === overall.band && st.energy === overall.energy) k = moved;
     k = climb(bs, st.spin, st.band, k, kind === 'vbm', inp.neighbours);
-    const energy = bs.energies[st.spin]![k * nb + st.band]!;
     const group = degenerateGroup(bs, st.spin, k, st.band, inp.degeneracy_eV);
     const band = kind === 'vbm' ? group[group.length - 1]! : group[0]!;
+    const energy = bs.energies[st.spin]![k * nb + band]!;
     const warnings: string[] = [];
     if (inp.network) {
       const rays = inp.network.raysFrom(k);
@@ -208,13 +208,14 @@ export function locateExtrema(inp: ExtremaInput): ExtremumSite[] {
         // Equal-energy neighbours on either side of a vertex midway between samples: keep one.
         if (found.some((f) => f.spin === spin && f.band === b && Math.abs(f.energy - x) < 1e-9 && nbrs.includes(f.k))) continue;
         const group = degenerateGroup(bs, spin, i, b, inp.degeneracy_eV);
+        const rep = valence ? group[group.length - 1]! : group[0]!;
         found.push({
           spin: spin as 0 | 1,
           k: i,
-          band: valence ? group[group.length - 1]! : group[0]!,
-          energy: x,
+          band: rep,
+          energy: e[i * nb + rep]!,
           kind: valence ? 'peak' : 'valley',
-          offset: valence ? overallV - x : x - overallC,
+          offset: valence ? overallV - e[i * nb + rep]! : e[i * nb + rep]! - overallC,
           group,
           warnings: [],
         });
