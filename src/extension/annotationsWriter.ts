@@ -1,7 +1,7 @@
 /**
  * Writing the annotations text beside the data file. When `<file>.valleys.json` is open in an editor the
- * merge goes through a WorkspaceEdit on that document (its unsaved hand edits were merged in, and undo works),
- * then the document is saved. Otherwise through vscode.workspace.fs: write a temporary file next to it, then
+ * merge goes through a WorkspaceEdit on that document (its unsaved hand edits were merged in, and undo works);
+ * the document is saved unless it held unsaved edits of its own. Otherwise through vscode.workspace.fs: write a temporary file next to it, then
  * rename it over the old one, so a failed write never leaves half a file. The target path always comes from
  * the data file's URI, never from file content.
  */
@@ -33,13 +33,20 @@ export async function currentText(t: AnnotationsTarget): Promise<{ text: string 
   }
 }
 
-/** Replace the open document's text through a workspace edit and save it. */
-export async function writeThroughEditor(doc: vscode.TextDocument, text: string): Promise<void> {
+/**
+ * Replace the open document's text through a workspace edit (undo works). A document without unsaved changes
+ * is then saved, so the file on disk holds the result; one with unsaved hand edits is left for its author to
+ * save (returns 'left-unsaved'), since saving would also write edits nobody asked to write yet.
+ */
+export async function writeThroughEditor(doc: vscode.TextDocument, text: string): Promise<'saved' | 'left-unsaved'> {
+  const wasDirty = doc.isDirty;
   const edit = new vscode.WorkspaceEdit();
   const all = new vscode.Range(0, 0, doc.lineCount, 0);
   edit.replace(doc.uri, doc.validateRange(all), text);
   if (!(await vscode.workspace.applyEdit(edit))) throw new ValleyscopeError(`${doc.uri.path}: the editor refused the change`);
+  if (wasDirty) return 'left-unsaved';
   if (!(await doc.save())) throw new ValleyscopeError(`${doc.uri.path}: the merged annotations are in the editor but could not be saved to disk`);
+  return 'saved';
 }
 
 /**

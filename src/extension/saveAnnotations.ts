@@ -65,9 +65,10 @@ export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: Save
       return { ok: false, message: `Not saved, ${name} was left as it is: ${e instanceof Error ? e.message : String(e)}` };
     }
     for (const w of composed.warnings) deps.log.info(`${name}: ${w}`);
+    let leftUnsaved = false;
     try {
       if (target.document) {
-        await writeThroughEditor(target.document, composed.text);
+        leftUnsaved = (await writeThroughEditor(target.document, composed.text)) === 'left-unsaved';
       } else {
         const r = await writeThroughFs(target.uri, composed.text, mtime);
         if (r === 'changed-on-disk') {
@@ -76,11 +77,16 @@ export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: Save
         }
       }
     } catch (e) {
-      return { ok: false, message: `Not saved: ${name} could not be written (${e instanceof Error ? e.message : String(e)}). The old file is unchanged.` };
+      const where = target.document ? 'in the open editor' : 'on disk';
+      return { ok: false, message: `Not saved: ${name} could not be written (${e instanceof Error ? e.message : String(e)}). The file ${where} is as it was before, or holds the merge if the editor took it.` };
     }
     const c = composed.counts;
     const kept = c.notFound ? `, ${c.notFound} kept from before that this analysis no longer finds` : '';
-    return { ok: true, message: `Saved ${c.entries} entries to ${vscode.workspace.asRelativePath(target.uri)}${kept}.`, uri: target.uri };
+    const rel = vscode.workspace.asRelativePath(target.uri);
+    if (leftUnsaved) {
+      return { ok: true, message: `Merged ${c.entries} entries into the open editor of ${rel}${kept}; it has unsaved edits of yours, so save it to write the file.`, uri: target.uri };
+    }
+    return { ok: true, message: `Saved ${c.entries} entries to ${rel}${kept}.`, uri: target.uri };
   }
   return { ok: false, message: `Not saved: ${name} kept changing on disk while saving; try again.` };
 }
