@@ -7,7 +7,8 @@
  * p = Av, β = v†p, q = p − βv. A Hermitian tridiagonal matrix with off-diagonal elements e_k is unitarily
  * similar (by a diagonal matrix of phases) to the real one with |e_k|, so only the norms are kept.
  *
- * Matrices are dense n×n, row-major, as separate real and imaginary Float64Arrays; the input is not modified.
+ * Matrices are dense n×n, row-major, as separate real and imaginary Float64Arrays; only the lower triangle
+ * (with the diagonal) is read, and the input is not modified.
  */
 import { tridiagonalEigenvalues } from './tridiagonalEigenvalues';
 
@@ -51,31 +52,37 @@ export function reduceHermitian(n: number, reIn: Float64Array, imIn: Float64Arra
     }
     vr[j0] = ph_r * (r0 + xnorm) * inv;
     vi[j0] = ph_i * (r0 + xnorm) * inv;
-    // p = B v (B the trailing block), β = v† p.
-    let beta = 0;
+    // p = B v (B the trailing block, read from its lower triangle), β = v† p.
+    qr.fill(0, j0);
+    qi.fill(0, j0);
     for (let i = j0; i < n; i++) {
-      let sr = 0;
-      let si = 0;
       const row = i * n;
-      for (let j = j0; j < n; j++) {
-        const br = ar[row + j]!;
-        const bi = ai[row + j]!;
-        sr += br * vr[j]! - bi * vi[j]!;
-        si += br * vi[j]! + bi * vr[j]!;
+      const vri = vr[i]!, vii = vi[i]!;
+      let sr = ar[row + i]! * vri;
+      let si = ar[row + i]! * vii;
+      for (let j = j0; j < i; j++) {
+        const br = ar[row + j]!, bi = ai[row + j]!;
+        const vrj = vr[j]!, vij = vi[j]!;
+        // B_ij v_j into p_i, conj(B_ij) v_i into p_j.
+        sr += br * vrj - bi * vij;
+        si += br * vij + bi * vrj;
+        qr[j] = qr[j]! + br * vri + bi * vii;
+        qi[j] = qi[j]! + br * vii - bi * vri;
       }
-      qr[i] = sr;
-      qi[i] = si;
-      beta += vr[i]! * sr + vi[i]! * si;
+      qr[i] = qr[i]! + sr;
+      qi[i] = qi[i]! + si;
     }
+    let beta = 0;
+    for (let i = j0; i < n; i++) beta += vr[i]! * qr[i]! + vi[i]! * qi[i]!;
     for (let i = j0; i < n; i++) {
       qr[i] = qr[i]! - beta * vr[i]!;
       qi[i] = qi[i]! - beta * vi[i]!;
     }
-    // B ← B − 2(v q† + q v†)
+    // B ← B − 2(v q† + q v†), lower triangle only.
     for (let i = j0; i < n; i++) {
       const row = i * n;
       const vri = vr[i]!, vii = vi[i]!, qri = qr[i]!, qii = qi[i]!;
-      for (let j = j0; j < n; j++) {
+      for (let j = j0; j <= i; j++) {
         const qrj = qr[j]!, qij = qi[j]!, vrj = vr[j]!, vij = vi[j]!;
         ar[row + j] = ar[row + j]! - 2 * (vri * qrj + vii * qij + qri * vrj + qii * vij);
         ai[row + j] = ai[row + j]! - 2 * (vii * qrj - vri * qij + qii * vrj - qri * vij);
@@ -106,19 +113,25 @@ export function reduceSymmetric(n: number, aIn: Float64Array): { diagonal: Float
     const inv = 1 / Math.sqrt(2 * xnorm * (xnorm + Math.abs(x0)));
     for (let j = j0; j < n; j++) v[j] = a[j * n + k]! * inv;
     v[j0] = (x0 + sign * xnorm) * inv;
-    let beta = 0;
+    q.fill(0, j0);
     for (let i = j0; i < n; i++) {
-      let s = 0;
       const row = i * n;
-      for (let j = j0; j < n; j++) s += a[row + j]! * v[j]!;
-      q[i] = s;
-      beta += v[i]! * s;
+      const vi = v[i]!;
+      let s = a[row + i]! * vi;
+      for (let j = j0; j < i; j++) {
+        const aij = a[row + j]!;
+        s += aij * v[j]!;
+        q[j] = q[j]! + aij * vi;
+      }
+      q[i] = q[i]! + s;
     }
+    let beta = 0;
+    for (let i = j0; i < n; i++) beta += v[i]! * q[i]!;
     for (let i = j0; i < n; i++) q[i] = q[i]! - beta * v[i]!;
     for (let i = j0; i < n; i++) {
       const row = i * n;
       const vi = v[i]!, qi = q[i]!;
-      for (let j = j0; j < n; j++) a[row + j] = a[row + j]! - 2 * (vi * q[j]! + qi * v[j]!);
+      for (let j = j0; j <= i; j++) a[row + j] = a[row + j]! - 2 * (vi * q[j]! + qi * v[j]!);
     }
   }
   if (n > 0) diagonal[n - 1] = a[(n - 1) * n + (n - 1)]!;

@@ -30,7 +30,7 @@ export function writeCastepBands(bs: BandStructure, opts: CastepOptions = {}): s
     const w = bs.weights ? bs.weights[k]! : 1 / bs.nk;
     out.push(`K-point${fortranI(k + 1, 5)}${[bs.kpoints[3 * k]!, bs.kpoints[3 * k + 1]!, bs.kpoints[3 * k + 2]!, w].map((x) => fortranF(x, 12, 8)).join('')}`);
     for (let s = 0; s < ns; s++) {
-      out.push(`Spin component${fortranI(s + 1, 5)}`);
+      out.push(`Spin component ${s + 1}`);
       for (let b = 0; b < bs.nBands; b++) out.push(fortranF(bs.energies[s]![k * bs.nBands + b]! / HARTREE_EV, 14, 8));
     }
   }
