@@ -106,6 +106,8 @@ export class VasprunStream {
   private efermi: number | null = null;
   private stepEfermi: number | null = null;
   private sawRoot = false;
+  /** Scratch for one eigenvalue row. */
+  private readonly row = new Float64Array(3);
 
   constructor(private readonly fileName: string) {
     this.xml = new SafeXmlStream(fileName, VASPRUN_FORMAT, {
@@ -123,6 +125,22 @@ export class VasprunStream {
 
   private fail(reason: string): ReaderError {
     return this.xml.fail(reason);
+  }
+
+  /** A row that is not (energy, occupation) like the rows before it: fix the column count, or say what is wrong. */
+  private rowError(count: number, bad: string | null): void {
+    const e = this.eig!;
+    const where = `band ${e.rowsInSet} of k-point ${e.kInSpin}${e.spins > 1 ? ' (spin 2)' : ''}`;
+    if (bad !== null) {
+      if (bad.includes('***')) throw this.fail(`the energy of ${where} is written as "${bad}": VASP's number field overflowed, so the value is unknown`);
+      throw this.fail(`the energy and occupation of ${where} should be numbers, found "${bad}"`);
+    }
+    if (e.columns < 0) {
+      if (count < 1 || count > 3) throw this.fail(`an eigenvalue row holds ${count} numbers; expected the energy and the occupation`);
+      e.columns = count;
+      return;
+    }
+    throw this.fail(`the row for ${where} holds ${count} numbers where the rows before hold ${e.columns}`);
   }
 
   private collect(): void {
@@ -180,9 +198,14 @@ export class VasprunStream {
         return;
       case 'eigenvalues':
         if (parent === 'calculation') {
+          // NBANDS and ISPIN come before the eigenvalues: size the buffers exactly when they are known.
+          const nbands = Number(this.params.get('NBANDS') ?? NaN);
+          const ispin = Number(this.params.get('ISPIN') ?? 1);
+          const nk = this.kpointList.length / 3;
+          const guess = Number.isInteger(nbands) && nbands > 0 && (ispin === 1 || ispin === 2) && nk > 0 ? nk * nbands * ispin : Math.max(1024, nk * 16);
           this.eig = {
-            energies: new DoubleBuffer(Math.max(1024, this.kpointList.length * 16)),
-            occupations: new DoubleBuffer(Math.max(1024, this.kpointList.length * 16)),
+            energies: new DoubleBuffer(guess),
+            occupations: new DoubleBuffer(guess),
             bandsPerSet: -1,
             sets: 0,
             spins: 0,
@@ -288,18 +311,10 @@ export class VasprunStream {
         this.collecting = false;
         const e = this.eig;
         if (!e || parent !== 'set' || !path.includes('eigenvalues')) return;
-        const vals: number[] = [0, 0, 0];
+        const vals = this.row;
         const r = scanNumbers(this.text, vals, 0, 3);
-        const where = `band ${e.rowsInSet} of k-point ${e.kInSpin}${e.spins > 1 ? ' (spin 2)' : ''}`;
-        if (r.bad !== null) {
-          if (r.bad.includes('***')) throw this.fail(`the energy of ${where} is written as "${r.bad}": VASP's number field overflowed, so the value is unknown`);
-          throw this.fail(`the energy and occupation of ${where} should be numbers, found "${r.bad}"`);
-        }
-        if (e.columns < 0) {
-          if (r.count < 1 || r.count > 3) throw this.fail(`an eigenvalue row holds ${r.count} numbers; expected the energy and the occupation`);
-          e.columns = r.count;
-        } else if (r.count !== e.columns) {
-          throw this.fail(`the row for ${where} holds ${r.count} numbers where the rows before hold ${e.columns}`);
+        if (r.bad !== null || r.count !== e.columns) {
+          this.rowError(r.count, r.bad);
         }
         e.energies.push(vals[0]!);
         if (e.columns >= 2) e.occupations.push(vals[1]!);
@@ -374,9 +389,12 @@ export class VasprunStream {
     const energies: Float64Array[] = [];
     const occupations: Float64Array[] | null = eig.columns >= 2 ? [] : null;
     const per = nk * nBands;
+    // Buffers sized exactly (NBANDS known) are handed over as views: no second copy of the eigenvalues.
+    const exact = all.length === per * nSpin;
+    const part = (a: Float64Array, s: number): Float64Array => (exact ? a.subarray(s * per, (s + 1) * per) : a.slice(s * per, (s + 1) * per));
     for (let s = 0; s < nSpin; s++) {
-      energies.push(all.slice(s * per, (s + 1) * per));
-      if (occupations) occupations.push(eig.occupations.data.slice(s * per, (s + 1) * per));
+      energies.push(part(all, s));
+      if (occupations) occupations.push(part(eig.occupations.data, s));
     }
     // Structure: the final one when written, else the last complete one.
     const pick = this.structures.find((s) => s.name === 'finalpos') ?? this.structures[this.structures.length - 1] ?? null;

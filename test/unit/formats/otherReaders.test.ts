@@ -177,3 +177,24 @@ describe('CASTEP .bands', () => {
     throwsReader(() => castepBandsReader.read(f('m.bands', writeCastepBands(model).replace('Unit cell vectors', 'Cell')), [], {}), /Unit cell vectors/, 6);
   });
 });
+
+describe('XML number scanning', () => {
+  it('agrees with the runtime number parser on fixed, exponent and Fortran forms; refuses junk', async () => {
+    const fc = (await import('fast-check')).default;
+    const { scanNumbers } = await import('../../../src/core/formats/xmlSafety');
+    fc.assert(
+      fc.property(fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.integer({ min: 0, max: 15 }), (x, d) => {
+        for (const t of [x.toFixed(Math.min(d, 10)), x.toExponential(d), x.toExponential(d).replace('e', 'E'), x.toExponential(d).replace('e', 'D')]) {
+          const out = [0];
+          const r = scanNumbers(`  ${t} `, out, 0, 1);
+          assert.equal(r.bad, null, t);
+          assert.equal(r.count, 1);
+          // Same double as the runtime's correctly rounded parse (ECMAScript Number), D read as E.
+          assert.equal(out[0], Number(t.replace('D', 'e')), t);
+        }
+      }),
+      { seed: 42, numRuns: 300 },
+    );
+    for (const bad of ['NaN', 'Infinity', '****', '1.0x', '0x10', '--1', '1e', '.']) assert.notEqual(scanNumbers(bad, [0], 0, 1).bad, null, bad);
+  });
+});

@@ -1,0 +1,104 @@
+/**
+ * vasprun.xml benchmark (a script, not a test): generates a ~200 MB vasprun.xml (about 20 MB with --small)
+ * under bench-data/ (not committed), with the same energies as one JSON array beside it, then measures in
+ * separate processes (scripts/bench/measure.ts): the streaming reader through the core loader, JSON.parse of
+ * the energies, and a bare newline count of the XML. Prints each figure with the one it is compared against.
+ */
+import { spawnSync } from 'node:child_process';
+import { closeSync, existsSync, mkdirSync, openSync, statSync, writeSync } from 'node:fs';
+
+const small = process.argv.includes('--small');
+const nk = small ? 1000 : 10000;
+const nb = 520;
+const dir = 'bench-data';
+mkdirSync(dir, { recursive: true });
+const xml = `${dir}/vasprun-${nk}x${nb}.xml`;
+const json = `${xml}.json`;
+const MB = 2 ** 20;
+
+/** Deterministic smooth bands: half valence below 0 eV, half conduction above 1 eV. */
+function energy(k: number, b: number): number {
+  const x = k / nk;
+  const c = Math.cos(2 * Math.PI * x);
+  return b < nb / 2 ? -12 + (12 * b) / (nb / 2) + 0.3 * c : 1 + (12 * (b - nb / 2)) / (nb / 2) - 0.3 * c;
+}
+
+function generate(): void {
+  const fx = openSync(xml, 'w');
+  const fj = openSync(json, 'w');
+  let buf = '';
+  let jbuf = '[';
+  let first = true;
+  const flush = (force = false): void => {
+    if (force || buf.length > 1 << 22) {
+      writeSync(fx, buf);
+      buf = '';
+    }
+    if (force || jbuf.length > 1 << 22) {
+      writeSync(fj, jbuf);
+      jbuf = '';
+    }
+  };
+  const f = (v: number, w: number, d: number): string => v.toFixed(d).padStart(w);
+  buf += '<?xml version="1.0" encoding="ISO-8859-1"?>\n<modeling>\n <generator>\n  <i name="program" type="string">vasp </i>\n </generator>\n';
+  buf += ' <kpoints>\n  <generation param="listgenerated">\n   <i name="divisions" type="int">' + f(nk, 8, 0) + ' </i>\n';
+  buf += `   <v>${f(0, 16, 8)}${f(0, 16, 8)}${f(0, 16, 8)} </v>\n   <v>${f(0.5, 16, 8)}${f(0, 16, 8)}${f(0, 16, 8)} </v>\n  </generation>\n`;
+  buf += '  <varray name="kpointlist" >\n';
+  for (let k = 0; k < nk; k++) buf += `   <v>${f((0.5 * k) / (nk - 1), 16, 8)}${f(0, 16, 8)}${f(0, 16, 8)} </v>\n`;
+  buf += '  </varray>\n  <varray name="weights" >\n';
+  for (let k = 0; k < nk; k++) buf += `   <v>${f(1 / nk, 16, 8)} </v>\n`;
+  buf += '  </varray>\n </kpoints>\n <parameters>\n  <separator name="electronic" >\n';
+  buf += `   <i type="int" name="NBANDS">${f(nb, 6, 0)}</i>\n   <i name="NELECT">${f(nb, 16, 8)}</i>\n`;
+  buf += '   <separator name="electronic spin" >\n    <i type="int" name="ISPIN">     1</i>\n    <i type="logical" name="LSORBIT"> F  </i>\n   </separator>\n  </separator>\n </parameters>\n';
+  buf += ' <atominfo>\n  <array name="atoms" >\n   <set>\n    <rc><c>Si</c><c>   1</c></rc>\n    <rc><c>Si</c><c>   1</c></rc>\n   </set>\n  </array>\n </atominfo>\n';
+  const structure = (name: string): string =>
+    ` <structure name="${name}" >\n  <crystal>\n   <varray name="basis" >\n    <v>${f(0, 16, 8)}${f(2.715, 16, 8)}${f(2.715, 16, 8)} </v>\n    <v>${f(2.715, 16, 8)}${f(0, 16, 8)}${f(2.715, 16, 8)} </v>\n    <v>${f(2.715, 16, 8)}${f(2.715, 16, 8)}${f(0, 16, 8)} </v>\n   </varray>\n  </crystal>\n  <varray name="positions" >\n   <v>${f(0, 16, 8)}${f(0, 16, 8)}${f(0, 16, 8)} </v>\n   <v>${f(0.25, 16, 8)}${f(0.25, 16, 8)}${f(0.25, 16, 8)} </v>\n  </varray>\n </structure>\n`;
+  buf += structure('initialpos');
+  buf += ' <calculation>\n  <eigenvalues>\n   <array>\n    <dimension dim="1">band</dimension>\n    <dimension dim="2">kpoint</dimension>\n    <dimension dim="3">spin</dimension>\n    <field>eigene</field>\n    <field>occ</field>\n    <set>\n     <set comment="spin 1">\n';
+  for (let k = 0; k < nk; k++) {
+    buf += `      <set comment="kpoint ${k + 1}">\n`;
+    for (let b = 0; b < nb; b++) {
+      const e = energy(k, b);
+      buf += `       <r>${f(e, 10, 4)}${f(b < nb / 2 ? 1 : 0, 10, 4)} </r>\n`;
+      jbuf += (first ? '' : ',') + e.toFixed(4);
+      first = false;
+    }
+    buf += '      </set>\n';
+    flush();
+  }
+  buf += '     </set>\n    </set>\n   </array>\n  </eigenvalues>\n  <dos>\n   <i name="efermi">      0.50000000 </i>\n  </dos>\n </calculation>\n';
+  buf += structure('finalpos') + '</modeling>\n';
+  jbuf += ']';
+  flush(true);
+  closeSync(fx);
+  closeSync(fj);
+}
+
+if (!existsSync(xml) || !existsSync(json)) {
+  console.log(`generating ${xml} (${nk} k-points × ${nb} bands) ...`);
+  generate();
+}
+const size = statSync(xml).size;
+function measure(task: string, file: string): { ms: number; rssBeforeMB: number; maxRssMB: number; count: number } | null {
+  const r = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/bench/measure.ts', task, file], { encoding: 'utf8', maxBuffer: 1 << 26 });
+  if (r.status !== 0) {
+    console.log(`  ${task}: failed (${(r.stderr || '').trim().split('\n').slice(-1)[0]})`);
+    return null;
+  }
+  return JSON.parse(r.stdout.trim().split('\n').pop()!);
+}
+const fmt = (x: number, d = 2): string => x.toFixed(d);
+console.log(`\nvasprun.xml, ${fmt(size / MB, 0)} MiB, ${nk * nb} energies (streaming XML reader, saxes)`);
+const ours = measure('read-valleyscope', xml);
+const jp = measure('json-parse', json);
+const nl = measure('newline-count', xml);
+if (ours && jp && nl) {
+  console.log(`  valleyscope vasprun reader   ${fmt(ours.ms, 0)} ms  (${fmt(size / MB / (ours.ms / 1000), 0)} MiB/s, ${fmt((ours.ms * 1e6) / ours.count, 1)} ns per energy)`);
+  console.log(`  JSON.parse, same energies as one array (${fmt(statSync(json).size / MB, 0)} MiB)  ${fmt(jp.ms, 0)} ms  (${fmt((jp.ms * 1e6) / jp.count, 1)} ns per energy)`);
+  console.log(`  newline count over the same XML (I/O floor)  ${fmt(nl.ms, 0)} ms`);
+  console.log(`  ratio reader / JSON.parse (time per energy): ${fmt(ours.ms / ours.count / (jp.ms / jp.count))}`);
+  console.log(`  ratio reader / newline count (same file):    ${fmt(ours.ms / nl.ms)}`);
+  const peak = ours.maxRssMB - ours.rssBeforeMB;
+  console.log(`  peak memory while reading ${fmt(peak, 0)} MiB over a baseline of ${fmt(ours.rssBeforeMB, 0)} MiB; ratio to the file size: ${fmt((peak * MB) / size)}   (goal: well below 1)`);
+  console.log(`  (energies and occupations as 8-byte doubles: ${fmt((ours.count * 16) / MB, 0)} MiB, ${fmt((ours.count * 16) / size)} of the file size)`);
+}
