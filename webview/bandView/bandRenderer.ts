@@ -40,6 +40,9 @@ export interface DrawStats {
   valuesRead: number;
   /** Visible points per device pixel column (over all pieces). */
   density: number;
+  /** Envelope mode: milliseconds spent decimating and rasterising (for the benchmark's breakdown). */
+  decimateMs?: number;
+  rasterMs?: number;
 }
 
 /** Use lines while there are at most this many visible points per device column and segments in total. */
@@ -50,6 +53,8 @@ export class BandRenderer {
   private env: Envelope | null = null;
   private image: ImageData | null = null;
   private pixels: Uint32Array | null = null;
+  private timing = { decimateMs: 0, rasterMs: 0 };
+  private readonly colourCache = new Map<string, number>();
 
   constructor(private readonly canvas: HTMLCanvasElement) {}
 
@@ -85,8 +90,20 @@ export class BandRenderer {
     const density = visible / Math.max(1, W);
     const segments = visible * vm.nBands * req.spins.length;
     const mode = req.mode ?? (density <= LINES_MAX_DENSITY && segments <= LINES_MAX_SEGMENTS ? 'lines' : 'envelope');
+    this.timing = { decimateMs: 0, rasterMs: 0 };
     const valuesRead = mode === 'lines' ? this.drawLines(ctx, req, xLo, xHi) : this.drawEnvelope(ctx, req);
-    return { mode, valuesRead, density };
+    return mode === 'lines' ? { mode, valuesRead, density } : { mode, valuesRead, density, ...this.timing };
+  }
+
+  /** A CSS colour as the Uint32 an ImageData holds (RGBA bytes, little-endian: ABGR). */
+  private packedColour(css: string, ctx: CanvasRenderingContext2D): number {
+    let v = this.colourCache.get(css);
+    if (v === undefined) {
+      const [r, g, b, a] = parseColour(css, ctx);
+      v = ((a << 24) | (b << 16) | (g << 8) | r) >>> 0;
+      this.colourCache.set(css, v);
+    }
+    return v;
   }
 
   private colourFor(req: DrawRequest, spinPos: number, spin: number, band: number): string {
@@ -161,15 +178,14 @@ export class BandRenderer {
     let read = 0;
     req.spins.forEach((spin, spinPos) => {
       const E = vm.energies[spin]!;
-      const packed: number[] = [];
-      for (let b = 0; b < nb; b++) {
-        const [r, g, bl, a] = parseColour(this.colourFor(req, spinPos, spin, b), ctx);
-        // ImageData is RGBA in memory; a little-endian Uint32 sees it as ABGR.
-        packed.push(((a << 24) | (bl << 16) | (g << 8) | r) >>> 0);
-      }
+      const packed = new Uint32Array(nb);
+      for (let b = 0; b < nb; b++) packed[b] = this.packedColour(this.colourFor(req, spinPos, spin, b), ctx);
       vm.pieces.forEach((p, pi) => {
+        const t0 = performance.now();
         clearEnvelope(env);
         read += columnEnvelope(vm.distance, E, nb, p.i0, p.i1, map, env, vm.pyramids[spin]?.[pi] ?? null);
+        const t1 = performance.now();
+        this.timing.decimateMs += t1 - t0;
         const cLo = Math.max(0, Math.floor((vm.distance[p.i0]! - map.x0) * map.scale));
         const cHi = Math.min(W - 1, Math.floor((vm.distance[p.i1 - 1]! - map.x0) * map.scale));
         for (let b = 0; b < nb; b++) {
@@ -204,6 +220,7 @@ export class BandRenderer {
             }
           }
         }
+        this.timing.rasterMs += performance.now() - t1;
       });
     });
     ctx.putImageData(this.image, 0, 0);

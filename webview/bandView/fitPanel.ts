@@ -194,7 +194,7 @@ export class FitPanel {
     this.root.removeAttribute('aria-busy');
     this.body.hidden = false;
     this.holeSign = isMaximumKind(x.kind);
-    this.status.textContent = `Fitted ${kindName(x.kind).toLowerCase()} of band ${x.band}.`;
+    this.status.textContent = `Fitted: ${kindName(x.kind)}, band ${x.band}.`;
     this.head.replaceChildren(
       el('div', 'vs-fit-kind', kindName(x.kind)),
       el(

@@ -12,8 +12,8 @@ export const SERIES_COLOURS = ['var(--vscode-charts-green)', 'var(--vscode-chart
 
 export function drawScanPlot(svgEl: SVGSVGElement, series: WindowScanSeries[], currentWindow: number, holeSign: boolean): void {
   const W = 284;
-  const H = 140;
-  const m = { left: 46, right: 8, top: 8, bottom: 28 };
+  const H = 150;
+  const m = { left: 46, right: 8, top: 8, bottom: 34 };
   const svg = select(svgEl).attr('viewBox', `0 0 ${W} ${H}`).attr('width', W).attr('height', H);
   svg.selectAll('*').remove();
   const pts = series.flatMap((s) => s.points.filter((p) => Number.isFinite(p.mass)));
@@ -31,7 +31,11 @@ export function drawScanPlot(svgEl: SVGSVGElement, series: WindowScanSeries[], c
   const hi = Math.max(...pts.map((p) => val(p.mass) + (Number.isFinite(p.stderr) ? p.stderr : 0)));
   const pad = (hi - lo) * 0.1 || Math.abs(hi) * 0.1 || 0.1;
   const y = scaleLinear().domain([lo - pad, hi + pad]).nice().range([H - m.bottom, m.top]);
-  svg.append('g').attr('class', 'vs-axis').attr('transform', `translate(0,${H - m.bottom})`).call(axisBottom(x).ticks(4, useLog ? '~g' : undefined));
+  svg.append('g').attr('class', 'vs-axis').attr('transform', `translate(0,${H - m.bottom})`).call(
+      axisBottom(x)
+        .tickValues(niceWindowTicks(wMin, wMax))
+        .tickFormat((d) => String(d)),
+    );
   svg.append('g').attr('class', 'vs-axis').attr('transform', `translate(${m.left},0)`).call(axisLeft(y).ticks(4));
   svg.append('text').attr('class', 'vs-axis-title').attr('x', (m.left + W - m.right) / 2).attr('y', H - 2).attr('text-anchor', 'middle').text('fit window (meV)');
   svg
@@ -73,4 +77,13 @@ export function drawScanPlot(svgEl: SVGSVGElement, series: WindowScanSeries[], c
       .attr('cx', (p) => x(p.window_meV))
       .attr('cy', (p) => y(val(p.mass)));
   });
+}
+
+/** A few readable window ticks (meV) within [lo, hi]: 1-2-5 steps. */
+export function niceWindowTicks(lo: number, hi: number): number[] {
+  const out: number[] = [];
+  for (let d = 1e-1; d <= 1e4; d *= 10) for (const f of [1, 2, 5]) if (f * d >= lo - 1e-9 && f * d <= hi + 1e-9) out.push(Math.round(f * d * 1000) / 1000);
+  if (out.length > 6) return out.filter((_, i) => i % 2 === 0);
+  if (out.length < 2) return [lo, hi];
+  return out;
 }

@@ -97,17 +97,19 @@ export function withEdgeMarks(data: BandData, kpoints: Float64Array): ExtremumMa
   return marks;
 }
 
-/** The highest band whose every energy lies at or below the VBM (colouring only); −1 when unknown. */
+/** The highest band whose every energy lies at or below the VBM (or Fermi level) (colouring only); −1 when unknown. */
 function topValence(data: BandData, marks: ExtremumMark[], e: Float64Array, nBands: number, spin: number): number {
   const vbmMark = marks.find((m) => m.kind === 'vbm' && m.spin === spin) ?? marks.find((m) => m.kind === 'vbm');
   if (vbmMark && data.report.metal !== true) return vbmMark.band0;
-  if (data.vbm_eV === null) return -1;
+  // Without edges (a metal), bands wholly below the Fermi level count as filled.
+  const level = data.vbm_eV ?? data.fermiEnergy;
+  if (level === null) return -1;
   const tol = 1e-4;
   let top = -1;
   for (let b = 0; b < nBands; b++) {
     let hi = -Infinity;
     for (let k = 0; k < data.nk; k++) hi = Math.max(hi, e[k * nBands + b]!);
-    if (hi <= data.vbm_eV + tol) top = b;
+    if (hi <= level + tol) top = b;
   }
   return top;
 }

@@ -44,6 +44,20 @@ window.__t = {
       return { inside: inside, hit: hit, colour: colour, x: x, y: y };
     });
   },
+  /** Probe every band point of a spin channel that lies inside the canvas (up to cap points). */
+  probeVisible: function (spin, r, cap) {
+    var app = window.valleyscopeBandView, off = window.__t.canvasOffset();
+    var vm = app.vm, pts = [];
+    for (var k = 0; k < vm.nk && pts.length < cap; k++) {
+      var x = app.screenOf(spin, k, 0).x - off.x;
+      if (x < r || x >= off.w - r) continue;
+      for (var b = 0; b < vm.nBands && pts.length < cap; b++) {
+        var y = app.screenOf(spin, k, b).y - off.y;
+        if (y >= r && y < off.h - r) pts.push([spin, k, b]);
+      }
+    }
+    return window.__t.probe(pts, r);
+  },
   /** Opaque pixels in a square of half-size r around canvas pixel (x, y). */
   opaqueAround: function (x, y, r) {
     var c = document.querySelector('canvas.vs-bands');
@@ -94,3 +108,19 @@ export async function waitForExpression(page: Page, expression: string, timeoutM
     await new Promise((r) => setTimeout(r, 25));
   }
 }
+
+/** Per canvas column, the first and last opaque row (−1 when the column is empty); installed as __t.extents. */
+export const COLUMN_EXTENTS = String.raw`
+window.__t.extents = function () {
+  var c = document.querySelector('canvas.vs-bands');
+  var d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
+  var top = [], bottom = [];
+  for (var x = 0; x < c.width; x++) {
+    var t = -1, b = -1;
+    for (var y = 0; y < c.height; y++) {
+      if (d[(y * c.width + x) * 4 + 3] > 60) { if (t < 0) t = y; b = y; }
+    }
+    top.push(t); bottom.push(b);
+  }
+  return { top: top, bottom: bottom };
+};`;

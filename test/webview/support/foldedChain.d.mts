@@ -1,0 +1,1 @@
+export declare const FOLDED_CHAIN_SOURCE: string;
