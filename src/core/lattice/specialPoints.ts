@@ -4,7 +4,8 @@
  *
  * Convention: W. Setyawan and S. Curtarolo, "High-throughput electronic band structure calculations:
  * challenges and tools", Comput. Mater. Sci. 49, 299 (2010): for each Bravais lattice, a standard primitive
- * cell and the fractional coordinates of its special points in that cell's reciprocal basis. Covered here:
+ * cell and the fractional coordinates of its special points in that cell's reciprocal basis (tables below as
+ * recalled (memory); the unit tests check each point against the zone's cartesian geometry). Covered here:
  * simple cubic (CUB), face-centred cubic (FCC), body-centred cubic (BCC), hexagonal (HEX), simple tetragonal
  * (TET) and simple orthorhombic (ORC). Other lattices (centred tetragonal and orthorhombic, rhombohedral,
  * monoclinic, triclinic) have points that depend on the cell parameters and are not labelled.

@@ -10,8 +10,9 @@ import { diamondConventional, diamondLike, fccPrimitive, redescribe, rotationMat
 
 // Special points are given here in CARTESIAN coordinates from the geometry of each Brillouin zone (common
 // practice; e.g. Ashcroft & Mermin ch. 8, Kittel ch. 2 (memory)), and named as in Setyawan & Curtarolo,
-// Comput. Mater. Sci. 49, 299 (2010). Each test converts them into the fractional reciprocal basis of the
-// cell under test, so the fractional tables inside the code are checked, not repeated.
+// Comput. Mater. Sci. 49, 299 (2010) (names and paths recalled: memory). Each test converts them into the
+// fractional reciprocal basis of the cell under test, so the fractional tables inside the code are checked,
+// not repeated.
 
 type Leg = [string, Vec3];
 /** Line-mode path: each segment from p to q with n points, ends repeated (as VASP writes line mode). */
