@@ -179,6 +179,37 @@ describe('extrema and directional masses on analytic paths', () => {
   });
 });
 
+describe('edges per spin channel and missing geometry', () => {
+  it('reports the VBM and CBM of each spin channel, offsets from the overall edges', () => {
+    // Spin up: bands at −1 / +1 eV; spin down: the same shifted by +0.3 eV (a rigid exchange splitting).
+    const up = pathModel({ lattice: cubicLattice(4), bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.4)], electrons: 2, legs: [[G, X]], pointsPerSegment: 40 });
+    const down = pathModel({ lattice: cubicLattice(4), bands: [parabolicBand(-0.7, -0.6), parabolicBand(1.3, 0.3)], electrons: 2, legs: [[G, X]], pointsPerSegment: 40 });
+    const bs = { ...up, nSpin: 2 as const, energies: [up.energies[0]!, down.energies[0]!] };
+    const r = analyzeBandStructure(bs);
+    const vbms = byKind(r, 'vbm');
+    const cbms = byKind(r, 'cbm');
+    assert.equal(vbms.length, 2);
+    assert.equal(cbms.length, 2);
+    // Overall VBM −0.7 (down), CBM 1.0 (up): offsets 0.3 eV for the other channel's edges (model input).
+    const v0 = vbms.find((e) => e.spin === 0)!;
+    const v1 = vbms.find((e) => e.spin === 1)!;
+    assert.ok(Math.abs(v0.offset_eV - 0.3) < 1e-9 && v1.offset_eV === 0);
+    const c0 = cbms.find((e) => e.spin === 0)!;
+    const c1 = cbms.find((e) => e.spin === 1)!;
+    assert.ok(c0.offset_eV === 0 && Math.abs(c1.offset_eV - 0.3) < 1e-9);
+    assert.ok(Math.abs(c1.masses[0]!.mass - 0.3) < 1e-9 && Math.abs(v1.masses[0]!.mass + 0.6) < 1e-9); // model masses
+  });
+
+  it('without a lattice, still places the extrema but gives no masses in m_e, and says so', () => {
+    const bs = pathModel({ lattice: cubicLattice(4), bands: [parabolicBand(-1, -0.5), parabolicBand(1, 1)], electrons: 2, legs: [[G, X, M]], pointsPerSegment: 30 });
+    bs.lattice = null;
+    const [cbm] = byKind(analyzeBandStructure(bs), 'cbm');
+    assert.ok(cbm);
+    assert.equal(cbm.masses.length, 0);
+    assert.ok(cbm.warnings.some((w) => /cannot be given in m_e/.test(w)));
+  });
+});
+
 describe('fits at a clicked point and the window scan', () => {
   const bs = pathModel({
     lattice: cubicLattice(4),

@@ -104,6 +104,24 @@ describe('mass tensor from off-path k-points', () => {
   });
 });
 
+describe('extrema on a uniform grid', () => {
+  it('finds a secondary valley on the grid (periodic neighbours) with its offset and tensor', () => {
+    // Two periodic valleys: cosine minima at Γ (1.0 eV) and at (0.5, 0, 0) (1.2 eV), the band the lower of them.
+    const t = 0.5;
+    const atX = (_kc: Vec3, kf: Vec3): number =>
+      1.2 + 2 * t * (1 + Math.cos(2 * Math.PI * kf[0])) + 2 * t * (1 - Math.cos(2 * Math.PI * kf[1])) + 2 * t * (1 - Math.cos(2 * Math.PI * kf[2]));
+    const gamma = cosineBand(1.0, [t, t, t]);
+    const bs = gridModel({ lattice: orthorhombicLattice(4, 4, 4), bands: [cosineBand(-2, [-0.2, -0.2, -0.2]), (kc, kf) => Math.min(gamma(kc, kf), atX(kc, kf))], electrons: 2, dims: [12, 12, 12] });
+    const r = analyzeBandStructure(bs);
+    const valleys = r.extrema.filter((e) => e.kind === 'valley');
+    assert.equal(valleys.length, 1, JSON.stringify(valleys.map((v) => v.k)));
+    assert.deepEqual(valleys[0]!.k, [0.5, 0, 0]);
+    assert.ok(Math.abs(valleys[0]!.offset_eV - 0.2) < 1e-9); // model: 1.2 − 1.0 eV
+    assert.ok(valleys[0]!.tensor);
+    assert.equal(cbmOf(r).tensor!.principal.length, 3);
+  });
+});
+
 describe('tensor and averaged masses of a Si-like Δ valley (diamond structure, symmetry from the structure)', () => {
   before(async () => {
     await ensureSymmetryReady();

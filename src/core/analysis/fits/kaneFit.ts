@@ -105,8 +105,9 @@ export function kaneCurvature(s: LineSamples, settings: FitSettings): CurvatureF
   const warnings = [...win.warnings];
   const rms = Math.sqrt(cost / n) * 1000;
   const alphaStderr = Math.sqrt(Math.max(cov.cov[3 * p + 3]!, 0));
-  if (alphaStderr > Math.abs(alpha) && win.window_meV < 100) {
-    warnings.push(`α is not determined in a ${win.window_meV.toFixed(0)} meV window (±${alphaStderr.toPrecision(2)} /eV): use a wider window (100-200 meV) for the Kane fit.`);
+  // Typical α of semiconductors is 0.1-1 /eV (common practice): an error above half of α, and above 0.05 /eV, says little.
+  if (alphaStderr > Math.max(0.5 * Math.abs(alpha), 0.05)) {
+    warnings.push(`α is poorly determined in a ${win.window_meV.toFixed(0)} meV window (±${alphaStderr.toPrecision(2)} /eV): ${win.window_meV < 100 ? 'use a wider window (100-200 meV) for the Kane fit' : 'the band does not follow the Kane form closely here'}.`);
   }
   return {
     method: 'kane',
