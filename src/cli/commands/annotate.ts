@@ -1,9 +1,10 @@
 /** `valleyscope annotate <file-or-folder>… [analysis options]`: write or update `<data file>.valleys.json`. */
-import { parseArgs, UsageError } from '../args';
+import { dirname, join, relative, resolve } from 'node:path';
+import { flag, numberFlag, parseArgs, UsageError } from '../args';
 import { nodeFileAccessor } from '../nodeFileAccessor';
 import { locateRun, readLocated } from '../../core/load';
 import { analyzeBandStructure, DEFAULT_SETTINGS, type AnalysisSettings } from '../../core/analysis/analyze';
-import { annotationsPathFor } from '../../core/annotations/annotationsModel';
+import { annotationsPathFor, emptyExtra } from '../../core/annotations/annotationsModel';
 import { parseAnnotations } from '../../core/annotations/parseAnnotations';
 import { serializeAnnotations } from '../../core/annotations/serializeAnnotations';
 import { analysisSettingsOf, buildAnnotations } from '../../core/annotations/buildAnnotations';
@@ -11,18 +12,47 @@ import { mergeAnnotations } from '../../core/annotations/mergeAnnotations';
 import { compareAnnotations, EXACT_TOLERANCES } from '../../core/annotations/compareAnnotations';
 import { ValleyscopeError } from '../../core/errors';
 import { writeFileSafely } from '../safeWrite';
-import { ANALYSIS_FLAGS, analysisSettingsFromArgs } from './analyze';
+import { ANALYSIS_FLAGS, READ_FLAGS, analysisSettingsFromArgs } from './analyze';
 import type { CliIO } from '../io';
+import type { ReadOptions } from '../../core/formats/types';
+import type { AnnotatedSettings, AnnotatedSource } from '../../core/annotations/annotationsModel';
+import { readPoscar } from '../../core/formats/vasp/poscar';
+import { sha256Hex } from '../../core/hash';
 
 export const ANNOTATE_HELP = `valleyscope annotate <file-or-folder>... [options]
   Analyse each run and write its findings to <data file>.valleys.json beside the data file, for review.
   An existing annotations file is merged, never overwritten: notes, review statuses and fields added by
   hand are kept, entries the analysis no longer finds are kept and marked "found": false. Prints what
   changed. Without options, the settings recorded in an existing file are used again.
-  --window <meV>, --method <name>, --range <eV>, --soc   as for "valleyscope analyze"`;
+  --window <meV>, --method <name>, --range <eV>, --soc, --alat <Å>, --structure <file>
+                    as for "valleyscope analyze"; all are recorded, and "check" reads the run alike`;
 
 declare const __VERSION__: string | undefined;
 export const TOOL_VERSION = typeof __VERSION__ === 'string' ? __VERSION__ : '0.1.0';
+
+type ReadSettings = Pick<AnnotatedSettings, 'forceSpinorbit' | 'alat_angstrom' | 'structureFile'>;
+
+/**
+ * How to read a run so that it reads as it did when annotated: spin-orbit on request, alat, and a structure
+ * file given by the user (its path relative to the annotations file's folder; it becomes a source with its
+ * hash, so a changed structure file makes the annotations stale). Only ever read, never written.
+ */
+export async function readOptionsFor(annotationsFile: string, s: ReadSettings): Promise<{ options: ReadOptions; sources: AnnotatedSource[] }> {
+  const options: ReadOptions = {};
+  const sources: AnnotatedSource[] = [];
+  if (s.forceSpinorbit) options.spinorbit = true;
+  if (s.alat_angstrom !== null) options.alatAngstrom = s.alat_angstrom;
+  if (s.structureFile !== null) {
+    const path = join(dirname(annotationsFile), s.structureFile);
+    if (!(await nodeFileAccessor.stat(path))) {
+      throw new ValleyscopeError(`the structure file ${s.structureFile} recorded in ${annotationsFile} is missing (looked for ${path})`);
+    }
+    const bytes = await nodeFileAccessor.readFile(path);
+    options.structure = readPoscar({ path, bytes });
+    sources.push({ path: s.structureFile, role: 'structure', sha256: sha256Hex(bytes), extra: emptyExtra() });
+  }
+  return { options, sources };
+}
 
 async function readIfPresent(path: string): Promise<Uint8Array | null> {
   const st = await nodeFileAccessor.stat(path);
@@ -31,7 +61,14 @@ async function readIfPresent(path: string): Promise<Uint8Array | null> {
   return nodeFileAccessor.readFile(path);
 }
 
-export async function annotateOne(path: string, flags: Partial<AnalysisSettings>, soc: boolean, io: CliIO): Promise<void> {
+export interface ReadFlags {
+  soc: boolean;
+  alat?: number;
+  /** As the user typed it (relative to the working folder). */
+  structure?: string;
+}
+
+export async function annotateOne(path: string, flags: Partial<AnalysisSettings>, read: ReadFlags, io: CliIO): Promise<void> {
   const loc = await locateRun(nodeFileAccessor, path);
   // The target is derived from the data file's own path only.
   const target = annotationsPathFor(loc.file);
@@ -48,10 +85,19 @@ export async function annotateOne(path: string, flags: Partial<AnalysisSettings>
     }
   }
   const settings: AnalysisSettings = { ...DEFAULT_SETTINGS, ...(older ? analysisSettingsOf(older) : {}), ...flags };
-  const forceSpinorbit = soc || (older?.settings.forceSpinorbit ?? false);
-  const bs = await readLocated(nodeFileAccessor, loc, forceSpinorbit ? { spinorbit: true } : {});
+  const readSettings: ReadSettings = {
+    forceSpinorbit: read.soc || (older?.settings.forceSpinorbit ?? false),
+    alat_angstrom: read.alat ?? older?.settings.alat_angstrom ?? null,
+    structureFile:
+      read.structure !== undefined
+        ? relative(dirname(resolve(target)), resolve(read.structure)).replace(/\\/g, '/')
+        : (older?.settings.structureFile ?? null),
+  };
+  const { options, sources } = await readOptionsFor(target, readSettings);
+  const bs = await readLocated(nodeFileAccessor, loc, options);
   const report = analyzeBandStructure(bs, settings);
-  const fresh = buildAnnotations(report, bs.source, { ...settings, forceSpinorbit }, { toolVersion: TOOL_VERSION });
+  const fresh = buildAnnotations(report, bs.source, { ...settings, ...readSettings }, { toolVersion: TOOL_VERSION });
+  fresh.sources.push(...sources);
   const doc = older ? mergeAnnotations(older, fresh) : fresh;
   const text = serializeAnnotations(doc);
   for (const w of readWarnings) io.err(`valleyscope: ${target}: ${w}`);
@@ -71,13 +117,18 @@ export async function annotateOne(path: string, flags: Partial<AnalysisSettings>
 }
 
 export async function runAnnotate(argv: string[], io: CliIO): Promise<number> {
-  const p = parseArgs(argv, { ...ANALYSIS_FLAGS });
+  const p = parseArgs(argv, { ...ANALYSIS_FLAGS, ...READ_FLAGS });
   if (p.positional.length === 0) throw new UsageError('annotate needs at least one data file or run folder');
   const flags = analysisSettingsFromArgs(p);
+  const read: ReadFlags = { soc: p.flags.has('soc') };
+  const alat = numberFlag(p, 'alat', (x) => x > 0 && x < 1000, 'a positive length in Å');
+  if (alat !== undefined) read.alat = alat;
+  const structure = flag(p, 'structure');
+  if (structure !== undefined) read.structure = structure;
   let failed = 0;
   for (const path of p.positional) {
     try {
-      await annotateOne(path, flags, p.flags.has('soc'), io);
+      await annotateOne(path, flags, read, io);
     } catch (e) {
       // With several runs, one failure does not stop the others; it is reported and the exit code says so.
       if (p.positional.length === 1 || !(e instanceof ValleyscopeError)) throw e;

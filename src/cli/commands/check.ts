@@ -16,6 +16,7 @@ import { DEFAULT_TOLERANCES, type Tolerances } from '../../core/annotations/comp
 import { annotationsMarkdown } from '../../core/annotations/annotationsMarkdown';
 import { ValleyscopeError } from '../../core/errors';
 import type { CliIO } from '../io';
+import { readOptionsFor } from './annotate';
 
 export const CHECK_HELP = `valleyscope check [paths...] [options]
   Find *.valleys.json files under the paths (default: the current folder), re-read each data file,
@@ -70,9 +71,10 @@ export async function checkFile(file: string, tol: Tolerances): Promise<FileOutc
       return { file, doc, result: null, error: `the data file ${dataFile} it describes is missing` };
     }
     const loc = await locateRun(nodeFileAccessor, dataFile);
-    const bs = await readLocated(nodeFileAccessor, loc, doc.settings.forceSpinorbit ? { spinorbit: true } : {});
+    const { options, sources } = await readOptionsFor(file, doc.settings);
+    const bs = await readLocated(nodeFileAccessor, loc, options);
     const report = analyzeBandStructure(bs, analysisSettingsOf(doc));
-    return { file, doc, result: checkAnnotations(doc, annotatedSources(bs.source), report, tol), error: null };
+    return { file, doc, result: checkAnnotations(doc, [...annotatedSources(bs.source), ...sources], report, tol), error: null };
   } catch (e) {
     if (e instanceof ValleyscopeError) return { file, doc, result: null, error: e.message };
     const code = (e as NodeJS.ErrnoException | undefined)?.code;

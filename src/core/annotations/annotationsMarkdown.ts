@@ -52,7 +52,7 @@ export function annotationsMarkdown(doc: AnnotationsDoc, fileName: string, check
   const s = doc.settings;
   out.push(
     '',
-    `Settings: ${cell(s.method)} fit, ${formatNumber(s.window_meV, 'plain')} meV window, extrema within ${formatNumber(s.range_eV, 'plain')} eV of the edges, degeneracy within ${formatNumber(s.degeneracy_meV, 'plain')} meV${s.forceSpinorbit ? ', read as spin-orbit' : ''}. Masses are signed curvature masses in m_e (negative at a maximum).`,
+    `Settings: ${cell(s.method)} fit, ${formatNumber(s.window_meV, 'plain')} meV window, extrema within ${formatNumber(s.range_eV, 'plain')} eV of the edges, degeneracy within ${formatNumber(s.degeneracy_meV, 'plain')} meV${s.forceSpinorbit ? ', read as spin-orbit' : ''}${s.alat_angstrom !== null ? `, alat ${formatNumber(s.alat_angstrom, 'plain')} Å` : ''}${s.structureFile !== null ? `, structure from ${cell(s.structureFile)}` : ''}. Masses are signed curvature masses in m_e (negative at a maximum).`,
     '',
   );
   if (doc.note !== '') out.push(`> ${cell(doc.note)}`, '');

@@ -45,6 +45,13 @@ export interface AnnotatedSettings {
   degeneracy_meV: number;
   /** The run was read as spin-orbit (one electron per band) because the user said so. */
   forceSpinorbit: boolean;
+  /** alat in Å given by the user, for layouts that give k in 2π/alat without a cell; null when not needed. */
+  alat_angstrom: number | null;
+  /**
+   * A structure file given by the user (for runs whose files hold no cell or atoms), relative to the folder
+   * of the annotations file; it is also listed in `sources` with its hash. Null when not used.
+   */
+  structureFile: string | null;
   extra: ExtraFields;
 }
 

@@ -24,6 +24,10 @@ import { mergeAnnotations } from './mergeAnnotations';
 export interface RecordedSettings extends AnalysisSettings {
   /** The run was read as spin-orbit because the user asked (`--soc`), not because its files say so. */
   forceSpinorbit?: boolean;
+  /** alat (Å) the user gave for a layout that needs it. */
+  alat_angstrom?: number | null;
+  /** Structure file the user gave, relative to the annotations file's folder. */
+  structureFile?: string | null;
 }
 
 export interface BuildOptions {
@@ -189,6 +193,8 @@ export function recordedSettings(s: RecordedSettings): AnnotatedSettings {
     range_eV: s.range_eV,
     degeneracy_meV: s.degeneracy_meV,
     forceSpinorbit: s.forceSpinorbit ?? false,
+    alat_angstrom: s.alat_angstrom ?? null,
+    structureFile: s.structureFile ?? null,
     extra: emptyExtra(),
   };
 }

@@ -178,7 +178,7 @@ export function compareSources(older: readonly AnnotatedSource[], newer: readonl
 
 export function compareSettings(older: AnnotationsDoc, newer: AnnotationsDoc): AnnotationChange[] {
   const out: AnnotationChange[] = [];
-  for (const key of ['window_meV', 'method', 'range_eV', 'degeneracy_meV', 'forceSpinorbit'] as const) {
+  for (const key of ['window_meV', 'method', 'range_eV', 'degeneracy_meV', 'forceSpinorbit', 'alat_angstrom', 'structureFile'] as const) {
     const a = String(older.settings[key]);
     const b = String(newer.settings[key]);
     if (a !== b) out.push({ scope: 'settings', subject: 'settings', kind: 'changed', quantity: key, before: a, after: b, delta: null, message: `settings: ${key} ${a} → ${b}` });

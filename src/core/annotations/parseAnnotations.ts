@@ -174,10 +174,10 @@ function readSource(w: Walker, n: JsonNode, what: string): AnnotatedSource {
 function readSettings(w: Walker, n: JsonNode | undefined): AnnotatedSettings {
   if (n === undefined || n.type === 'null') {
     w.warnings.push('The file records no analysis settings: the defaults are assumed.');
-    return { ...DEFAULT_SETTINGS, forceSpinorbit: false, extra: emptyExtra() };
+    return { ...DEFAULT_SETTINGS, forceSpinorbit: false, alat_angstrom: null, structureFile: null, extra: emptyExtra() };
   }
   const o = w.obj(n, 'settings');
-  const f = w.fields(o, ['window_meV', 'method', 'range_eV', 'degeneracy_meV', 'forceSpinorbit']);
+  const f = w.fields(o, ['window_meV', 'method', 'range_eV', 'degeneracy_meV', 'forceSpinorbit', 'alat_angstrom', 'structureFile']);
   const pos = (x: number): boolean => x > 0;
   const get = (k: 'window_meV' | 'range_eV' | 'degeneracy_meV', check: (x: number) => boolean, rule: string): number =>
     f.get(k) === undefined ? DEFAULT_SETTINGS[k] : w.num(f.get(k), `settings.${k}`, check, rule);
@@ -187,6 +187,8 @@ function readSettings(w: Walker, n: JsonNode | undefined): AnnotatedSettings {
     range_eV: get('range_eV', nonNegative, 'zero or a positive number of eV'),
     degeneracy_meV: get('degeneracy_meV', nonNegative, 'zero or a positive number of meV'),
     forceSpinorbit: w.bool(f.get('forceSpinorbit'), 'settings.forceSpinorbit', false),
+    alat_angstrom: w.numOrNull(f.get('alat_angstrom'), 'settings.alat_angstrom', pos, 'a positive length in Å'),
+    structureFile: w.strOrNull(f.get('structureFile'), 'settings.structureFile'),
     extra: f.extra,
   };
 }

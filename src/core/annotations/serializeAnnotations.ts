@@ -56,16 +56,17 @@ function sourceOut(s: AnnotatedSource): Out {
 }
 
 function settingsOut(s: AnnotatedSettings): Out {
-  return withExtra(
-    [
-      ['window_meV', num(s.window_meV, 'plain')],
-      ['method', str(s.method)],
-      ['range_eV', num(s.range_eV, 'plain')],
-      ['degeneracy_meV', num(s.degeneracy_meV, 'plain')],
-      ['forceSpinorbit', bool(s.forceSpinorbit)],
-    ],
-    s.extra,
-  );
+  const fields: [string, Out][] = [
+    ['window_meV', num(s.window_meV, 'plain')],
+    ['method', str(s.method)],
+    ['range_eV', num(s.range_eV, 'plain')],
+    ['degeneracy_meV', num(s.degeneracy_meV, 'plain')],
+    ['forceSpinorbit', bool(s.forceSpinorbit)],
+  ];
+  // Written only when used, so most files do not carry them.
+  if (s.alat_angstrom !== null) fields.push(['alat_angstrom', num(s.alat_angstrom, 'plain')]);
+  if (s.structureFile !== null) fields.push(['structureFile', str(s.structureFile)]);
+  return withExtra(fields, s.extra);
 }
 
 function pointOut(p: AnnotatedPoint): Out {

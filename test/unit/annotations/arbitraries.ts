@@ -29,7 +29,7 @@ const KNOWN = new Set([
   'id', 'status', 'found', 'kind', 'spin', 'band', 'k', 'label', 'energy_eV', 'offset_eV', 'degenerateBands', 'valleyDegeneracy',
   'masses', 'tensor', 'dosMass', 'conductivityMass', 'towards', 'direction', 'mass', 'stderr', 'points', 'window_meV', 'method',
   'alpha_per_eV', 'residual_meV', 'branch', 'principal', 'axes', 'path', 'role', 'sha256', 'range_eV', 'degeneracy_meV',
-  'forceSpinorbit', 'eV', 'direct', 'vbm', 'cbm', 'directGap',
+  'forceSpinorbit', 'alat_angstrom', 'structureFile', 'eV', 'direct', 'vbm', 'cbm', 'directGap',
 ]);
 const extraKey = fc.oneof(fc.string({ minLength: 1, maxLength: 12 }), fc.constantFrom('__proto__', 'constructor', 'reviewer', 'x-ticket')).filter((k) => !KNOWN.has(k));
 const jsonLeaf: fc.Arbitrary<JsonValue> = fc.oneof(fc.constant(null), fc.boolean(), fc.integer(), finite(-1e6, 1e6), text);
@@ -110,6 +110,8 @@ export const docArb: fc.Arbitrary<AnnotationsDoc> = fc
       range_eV: fc.constantFrom(0, 0.5, 0.25),
       degeneracy_meV: fc.constantFrom(1, 0.5),
       forceSpinorbit: fc.boolean(),
+      alat_angstrom: fc.option(fc.constantFrom(5.431, 10.26), { nil: null }),
+      structureFile: fc.option(fc.constantFrom('POSCAR.given', '../shared/si.vasp'), { nil: null }),
       extra: extraArb,
     }),
     metal: fc.option(fc.boolean(), { nil: null }),

@@ -176,6 +176,33 @@ describe('valleyscope annotate and check', () => {
     assert.equal(back.extra.writeTo, join(root, 'elsewhere.valleys.json'), 'the hand-added field is kept, and only kept');
   });
 
+  it('records a structure file given with --structure as a source, and check reads it again', async () => {
+    const bare = join(root, 'bare');
+    mkdirSync(bare);
+    writeFileSync(join(bare, 'EIGENVAL'), readFileSync(eig));
+    const shared = join(root, 'shared');
+    mkdirSync(shared);
+    writeFileSync(join(shared, 'cubic.vasp'), readFileSync(join(runDir, 'POSCAR')));
+    const r = await cli('annotate', join(bare, 'EIGENVAL'), '--structure', join(shared, 'cubic.vasp'));
+    assert.equal(r.code, 0, r.err);
+    const doc = parseAnnotations(readFileSync(join(bare, 'EIGENVAL.valleys.json'), 'utf8'), 'bare');
+    assert.equal(doc.settings.structureFile, '../shared/cubic.vasp');
+    assert.ok(doc.sources.some((s) => s.path === '../shared/cubic.vasp' && s.role === 'structure'));
+    // With the cell known, the masses are in m_e: the cosine-model CBM is light (analytic m_c = 0.119 m_e;
+    // the fit over the coarse path reads it a little heavier).
+    const cbm = doc.entries.find((e) => e.kind === 'cbm')!;
+    assert.ok(cbm.masses.length > 0 && cbm.masses[0]!.mass! > 0.1 && cbm.masses[0]!.mass! < 0.14, `mass ${cbm.masses[0]?.mass}`);
+    assert.equal((await cli('check', bare)).code, 0);
+    // Re-annotating without the option keeps the recorded structure file.
+    assert.match((await cli('annotate', bare)).out, /unchanged/);
+    writeFileSync(join(shared, 'cubic.vasp'), readFileSync(join(runDir, 'POSCAR'), 'utf8').replace('4.0 0.0 0.0', '4.1 0.0 0.0'));
+    const stale = await cli('check', bare);
+    assert.equal(stale.code, 1);
+    assert.match(stale.out, /stale:\s+source \.\.\/shared\/cubic\.vasp \(structure\) has changed/);
+    rmSync(join(shared, 'cubic.vasp'));
+    assert.match((await cli('check', bare)).out, /could not be checked: the structure file \.\.\/shared\/cubic\.vasp recorded in .* is missing/);
+  });
+
   it('re-analyses with the recorded settings, not the defaults', async () => {
     await cli('annotate', runDir, '--window', '100');
     const doc = parseAnnotations(readFileSync(ann, 'utf8'), ann);
