@@ -18,6 +18,8 @@ export interface DirectionalResult {
   masses: MassFit[];
   /** The underlying fits, in the order of `masses` (vertex positions, α errors, ...). */
   fits: CurvatureFit[];
+  /** The ray of each fit, in the order of `masses`. */
+  rays: Ray[];
   warnings: string[];
   /** True when a branch left its band index along some direction (a crossing was followed). */
   crossed: boolean;
@@ -50,6 +52,7 @@ export function toMassFit(fit: CurvatureFit, ray: Ray, branch?: number): MassFit
 export function directionalMasses(bs: BandStructure, spin: number, group: number[], band: number, rays: Ray[], s: DirectionalSettings): DirectionalResult {
   const masses: MassFit[] = [];
   const fits: CurvatureFit[] = [];
+  const fitRays: Ray[] = [];
   const warnings: string[] = [];
   let crossed = false;
   const fitSettings = { window_meV: s.window_meV, energySigma: s.energySigma };
@@ -62,6 +65,7 @@ export function directionalMasses(bs: BandStructure, spin: number, group: number
       if (out.fit) {
         masses.push(toMassFit(out.fit, ray));
         fits.push(out.fit);
+        fitRays.push(ray);
       } else warnings.push(`Towards ${ray.towards}: too few points (${ray.indices.length}) along this direction for a ${s.method} fit.`);
       continue;
     }
@@ -76,8 +80,9 @@ export function directionalMasses(bs: BandStructure, spin: number, group: number
       if (out.fit) {
         masses.push(toMassFit(out.fit, ray, rank + 1));
         fits.push(out.fit);
+        fitRays.push(ray);
       } else warnings.push(`Towards ${ray.towards}, branch ${rank + 1}: too few points for a ${s.method} fit.`);
     });
   }
-  return { masses, fits, warnings, crossed };
+  return { masses, fits, rays: fitRays, warnings, crossed };
 }

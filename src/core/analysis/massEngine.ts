@@ -13,6 +13,9 @@ import { energySigma } from './energyResolution';
 import { degenerateGroup, gridNeighbours, locateExtrema, pathNeighbours, type ExtremumSite, type NeighbourFn } from './extrema';
 import { pathNetwork, kKey, type PathNetwork } from './pathRays';
 import { directionalMasses } from './directionalMasses';
+import type { CurvatureFit } from './fits/types';
+import type { Ray } from './pathRays';
+import { cartesianToFractional } from '../lattice/reciprocal';
 import { tensorFromNeighbours } from './tensorFit';
 import { averagedFromPrincipal, multiBandDosMass } from './averagedMasses';
 import { cartesianLittleGroup, symmetryContext, valleysAt, type SymmetryContext } from './valleyCount';
@@ -82,6 +85,29 @@ function nearestOtherBand(bs: BandStructure, site: ExtremumSite): { band: number
   return best;
 }
 
+/**
+ * Where a free-vertex fit puts the extremum when it lies between sampled points (Si's Δ minimum): the
+ * vertex of the best-determined fit whose vertex falls inside its own direction, more than a tenth of a step
+ * from the sampled point. Null when every vertex sits at the sampled point.
+ */
+function vertexNote(bs: BandStructure, k: number, fits: CurvatureFit[], rays: Ray[], maximum: boolean): string | null {
+  if (!bs.lattice) return null;
+  let best: { fit: CurvatureFit; ray: Ray } | null = null;
+  fits.forEach((fit, i) => {
+    const ray = rays[i]!;
+    const h = ray.t.length > 1 ? ray.t[1]! : 0;
+    if (fit.vertexT === undefined || !(h > 0) || fit.vertexT < 0.1 * h || fit.vertexT > h) return;
+    if (!best || fit.stderr < best.fit.stderr) best = { fit, ray };
+  });
+  if (!best) return null;
+  const { fit, ray } = best as { fit: CurvatureFit; ray: Ray };
+  const k0 = kpointAt(bs, k);
+  const d = cartesianToFractional(ray.direction.map((x) => x * fit.vertexT!) as Vec3, bs.lattice);
+  const kv = [k0[0] + d[0], k0[1] + d[1], k0[2] + d[2]].map((x) => Number(x.toFixed(4)));
+  const step = fit.vertexT! / ray.t[1]!;
+  return `The ${maximum ? 'maximum' : 'minimum'} lies between sampled points: the free-vertex ${fit.method} fit towards ${ray.towards} puts it ${step.toFixed(2)} of a step (${fit.vertexT!.toFixed(4)} Å⁻¹) from the sampled point, at k ≈ (${kv.join(', ')})${fit.vertexE !== undefined ? `, E ≈ ${fit.vertexE.toFixed(4)} eV` : ''}.`;
+}
+
 function fmt3(x: number): string {
   return x.toPrecision(3);
 }
@@ -120,6 +146,10 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
       });
       masses = dm.masses;
       crossed = dm.crossed;
+      if (g === 1) {
+        const v = vertexNote(bs, site.k, dm.fits, dm.rays, maximum);
+        if (v) warnings.push(v);
+      }
       warnings.push(...dm.warnings);
       if (crossed) warnings.push('Along some direction a branch crosses another band: it was followed across the crossing, not by band index.');
     }

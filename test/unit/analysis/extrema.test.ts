@@ -91,6 +91,11 @@ describe('extrema and directional masses on analytic paths', () => {
     assert.equal(ml.length, 2);
     for (const m of ml) assert.ok(Math.abs(m.mass - 0.92) < 1e-6, `${m.towards} ${m.mass}`); // model m_l = 0.92
     assert.ok(Math.abs(Math.abs(ml[0]!.direction[1]) - 1) < 1e-12); // along y
+    // The free vertex locates the minimum at 0.85 of Γ–X, i.e. fractional (0.425, 0, 0.425) (model input).
+    const note = cbm.warnings.find((w) => /lies between sampled points/.test(w));
+    assert.ok(note, JSON.stringify(cbm.warnings));
+    const m = /k ≈ \(([-\d.]+), ([-\d.]+), ([-\d.]+)\)/.exec(note)!;
+    assert.ok(Math.abs(Number(m[1]) - 0.425) < 2e-4 && Math.abs(Number(m[3]) - 0.425) < 2e-4, note);
   });
 
   it('treats an extremum at a turn of the path as an extremum of the continued band (valley at X, Γ–X–W)', () => {
