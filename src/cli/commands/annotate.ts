@@ -11,7 +11,7 @@ import { analysisSettingsOf, buildAnnotations } from '../../core/annotations/bui
 import { mergeAnnotations } from '../../core/annotations/mergeAnnotations';
 import { compareAnnotations, EXACT_TOLERANCES } from '../../core/annotations/compareAnnotations';
 import { ValleyscopeError } from '../../core/errors';
-import { writeFileSafely } from '../safeWrite';
+import { writeFileSafely, type SafeWriteOptions } from '../safeWrite';
 import { ANALYSIS_FLAGS, READ_FLAGS, analysisSettingsFromArgs } from './analyze';
 import type { CliIO } from '../io';
 import type { ReadOptions } from '../../core/formats/types';
@@ -68,7 +68,14 @@ export interface ReadFlags {
   structure?: string;
 }
 
-export async function annotateOne(path: string, flags: Partial<AnalysisSettings>, read: ReadFlags, io: CliIO): Promise<void> {
+/** `faults` lets tests interrupt or race the write (see safeWrite.ts); the CLI never passes it. */
+export async function annotateOne(
+  path: string,
+  flags: Partial<AnalysisSettings>,
+  read: ReadFlags,
+  io: CliIO,
+  faults: Pick<SafeWriteOptions, 'beforeRename' | 'fs'> = {},
+): Promise<void> {
   const loc = await locateRun(nodeFileAccessor, path);
   // The target is derived from the data file's own path only.
   const target = annotationsPathFor(loc.file);
@@ -105,7 +112,7 @@ export async function annotateOne(path: string, flags: Partial<AnalysisSettings>
     io.out(`${target}: unchanged (${doc.entries.length} entries)`);
     return;
   }
-  await writeFileSafely(target, text, { expectExisting: oldBytes });
+  await writeFileSafely(target, text, { ...faults, expectExisting: oldBytes });
   if (!older) {
     io.out(`${target}: created with ${doc.entries.length} entries${doc.entries.length ? ` (${doc.entries.map((e) => e.id).join(', ')})` : ''}`);
     return;

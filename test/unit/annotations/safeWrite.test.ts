@@ -5,6 +5,10 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { nodeSafeWriteFs, writeAnnotationsBeside, writeFileSafely, WriteConflictError, type SafeWriteFs } from '../../../src/cli/safeWrite';
 import { ValleyscopeError } from '../../../src/core/errors';
+import { annotateOne } from '../../../src/cli/commands/annotate';
+import { parseAnnotations } from '../../../src/core/annotations/parseAnnotations';
+import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
+import { writeTinyRun } from './tinyRun';
 
 const OLD = '{\n  "valleyscopeAnnotations": 1,\n  "note": "the reviewer\'s words"\n}\n';
 const NEW = '{\n  "valleyscopeAnnotations": 1,\n  "note": "rewritten"\n}\n';
@@ -141,5 +145,41 @@ writeFileSafely(${JSON.stringify(target)}, 'x'.repeat(1 << 20), {
     const leftovers = readdirSync(dir).filter((n) => n.endsWith('.tmp'));
     assert.equal(leftovers.length, 1, 'the killed writer left only its hidden temporary file');
     assert.equal(statSync(join(dir, leftovers[0]!)).size, 1 << 20);
+  });
+});
+
+describe('annotate under faults', () => {
+  let dir = '';
+  let eig = '';
+  const io = { out: () => undefined, err: () => undefined };
+  beforeEach(async () => {
+    await ensureSymmetryReady();
+    dir = mkdtempSync(join(tmpdir(), 'vs-annfault-'));
+    eig = writeTinyRun(join(dir, 'run'));
+    await annotateOne(eig, {}, { soc: false }, io);
+  });
+  afterEach(() => rmSync(dir, { recursive: true, force: true }));
+
+  it('keeps an edit saved in the editor between annotate\'s read and its write, and merges it next time', async () => {
+    const target = `${eig}.valleys.json`;
+    const theirs = readFileSync(target, 'utf8').replace('"note": "",\n  "entries"', '"note": "saved from the editor meanwhile",\n  "entries"');
+    writeTinyRun(join(dir, 'run'), { shift: [0, 2, -0.05] });
+    await assert.rejects(annotateOne(eig, {}, { soc: false }, io, { beforeRename: () => writeFileSync(target, theirs) }), WriteConflictError);
+    assert.equal(readFileSync(target, 'utf8'), theirs, 'the editor\'s save survives');
+    await annotateOne(eig, {}, { soc: false }, io);
+    const doc = parseAnnotations(readFileSync(target, 'utf8'), target);
+    assert.equal(doc.note, 'saved from the editor meanwhile');
+    // E_g − 50 meV (analytic model of tinyRun.ts, shifted by the test).
+    assert.equal(doc.gap!.eV, 1.45);
+  });
+
+  it('leaves the annotations untouched when the disk fills during annotate', async () => {
+    const target = `${eig}.valleys.json`;
+    const before = readFileSync(target, 'utf8');
+    writeTinyRun(join(dir, 'run'), { shift: [0, 2, -0.05] });
+    const full: SafeWriteFs = { ...nodeSafeWriteFs, rename: async () => { throw Object.assign(new Error('ENOSPC'), { code: 'ENOSPC' }); } };
+    await assert.rejects(annotateOne(eig, {}, { soc: false }, io, { fs: full }), /the disk is full/);
+    assert.equal(readFileSync(target, 'utf8'), before);
+    assert.deepEqual(readdirSync(join(dir, 'run')).sort(), ['EIGENVAL', 'EIGENVAL.valleys.json', 'KPOINTS', 'POSCAR']);
   });
 });
