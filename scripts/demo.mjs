@@ -3,6 +3,7 @@
 //   1. `analyze` on each run, printing the readable summaries;
 //   2. `annotate` on each run (writes <file>.valleys.json beside each EIGENVAL; a second run changes nothing),
 //      when the command exists;
+//      then `check` over fixtures/demo (the annotations must be fresh), when that command exists;
 //   3. `compare` over the strain series against the unstrained run, when the command exists;
 //   4. a trend plot (gap and conduction-band mass against in-plane strain): fixtures/demo/si-strain/trend.svg.
 // Only commands that `dist/cli.js --help` lists are called; anything skipped is said so.
@@ -74,6 +75,13 @@ if (has('annotate')) {
   heading('2. valleyscope annotate: findings written beside each EIGENVAL');
   const r = runCli(['annotate', ...runs.map(rel)]);
   if (r.status === 0) console.log(r.stdout.trimEnd());
+  if (has('check')) {
+    console.log('\nvalleyscope check: are the annotations just written fresh against their data files?');
+    const c = runCli(['check', rel(demo)]);
+    if (c.status === 0) console.log(c.stdout.trimEnd());
+  } else {
+    skipped.push('check (this build has no "check" command)');
+  }
 } else {
   skipped.push('annotate (this build has no "annotate" command)');
 }
@@ -157,7 +165,7 @@ function trendSvg(points) {
   const H = 340;
   const panels = [
     { key: 'gap', title: 'Band gap (eV)', x0: 70, fmt: (v) => v.toFixed(2) },
-    { key: 'mass', title: 'Conduction-band mass along the path (m_e)', x0: 450, fmt: (v) => v.toFixed(2) },
+    { key: 'mass', title: 'CBM mass along the path, m_e (mean of its fits)', x0: 450, fmt: (v) => v.toFixed(3) },
   ];
   const pw = 270;
   const top = 50;
