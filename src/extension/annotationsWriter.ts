@@ -7,6 +7,7 @@
  */
 import * as vscode from 'vscode';
 import { ValleyscopeError } from '../core/errors';
+import type { AtomicFs } from './atomicWrite';
 
 export interface AnnotationsTarget {
   uri: vscode.Uri;
@@ -49,31 +50,19 @@ export async function writeThroughEditor(doc: vscode.TextDocument, text: string)
   return 'saved';
 }
 
-/**
- * Write through the file system: temporary file, then rename. `expectedMtime` is the modification time when
- * the old text was read (null when there was no file): if the file changed since, nothing is written and the
- * caller merges again.
- */
-export async function writeThroughFs(uri: vscode.Uri, text: string, expectedMtime: number | null): Promise<'written' | 'changed-on-disk'> {
-  const bytes = new TextEncoder().encode(text);
-  const rand = Array.from(globalThis.crypto.getRandomValues(new Uint8Array(4)), (x) => x.toString(16).padStart(2, '0')).join('');
-  const tmp = uri.with({ path: `${uri.path}.tmp-${rand}` });
-  await vscode.workspace.fs.writeFile(tmp, bytes);
-  try {
-    let now: number | null = null;
-    try {
-      now = (await vscode.workspace.fs.stat(uri)).mtime;
-    } catch {
-      now = null;
-    }
-    if (now !== expectedMtime) return 'changed-on-disk';
-    await vscode.workspace.fs.rename(tmp, uri, { overwrite: true });
-    return 'written';
-  } finally {
-    try {
-      await vscode.workspace.fs.delete(tmp);
-    } catch {
-      // Renamed away (the usual case) or already gone.
-    }
-  }
+/** vscode.workspace.fs as the small interface writeAtomically needs, for files beside `base`. */
+export function workspaceAtomicFs(base: vscode.Uri): AtomicFs {
+  const at = (path: string) => base.with({ path });
+  return {
+    writeFile: async (path, bytes) => vscode.workspace.fs.writeFile(at(path), bytes),
+    mtime: async (path) => {
+      try {
+        return (await vscode.workspace.fs.stat(at(path))).mtime;
+      } catch {
+        return null;
+      }
+    },
+    rename: async (from, to) => vscode.workspace.fs.rename(at(from), at(to), { overwrite: true }),
+    delete: async (path) => vscode.workspace.fs.delete(at(path)),
+  };
 }

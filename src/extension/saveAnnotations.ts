@@ -9,8 +9,9 @@ import type { LoadedRun } from './runLoader';
 import type { ExtensionSettings } from './settings';
 import type { FitService } from './fitTypes';
 import { targetProblem } from './fitTypes';
-import { composeAnnotations, type ChosenFit } from './annotationsCompose';
-import { annotationsTarget, currentText, writeThroughEditor, writeThroughFs } from './annotationsWriter';
+import { composeAnnotations, type ChosenFit, type Composed } from './annotationsCompose';
+import { mergeAndWrite } from './mergeAndWrite';
+import { annotationsTarget, currentText, workspaceAtomicFs, writeThroughEditor } from './annotationsWriter';
 import { writeRefusal } from './trust';
 
 export interface SaveOutcome {
@@ -44,49 +45,72 @@ export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: Save
   const settings = deps.settings().analysis;
   const target = annotationsTarget(run.fileUri);
   const name = target.uri.path.split('/').pop() ?? target.uri.path;
-  for (let attempt = 1; attempt <= ATTEMPTS; attempt++) {
-    let composed;
-    let mtime: number | null;
+  const compose = (existingText: string | null): Composed => {
+    let c: Composed;
     try {
-      const cur = await currentText(target);
-      mtime = cur.mtime;
-      composed = composeAnnotations({
+      c = composeAnnotations({
         report: run.report,
         source: run.bs.source,
         settings,
         toolVersion: deps.toolVersion,
         fits,
         ...(m.notes !== undefined ? { runNote: m.notes } : {}),
-        existingText: cur.text,
+        existingText,
         existingName: name,
       });
     } catch (e) {
-      // The existing file cannot be read (bad JSON from a hand edit, a newer layout): never overwrite it.
-      return { ok: false, message: `Not saved, ${name} was left as it is: ${e instanceof Error ? e.message : String(e)}` };
+      throw new UnreadableExisting(e);
     }
-    for (const w of composed.warnings) deps.log.info(`${name}: ${w}`);
-    let leftUnsaved = false;
-    try {
-      if (target.document) {
-        leftUnsaved = (await writeThroughEditor(target.document, composed.text)) === 'left-unsaved';
-      } else {
-        const r = await writeThroughFs(target.uri, composed.text, mtime);
-        if (r === 'changed-on-disk') {
-          deps.log.info(`${name} changed on disk while saving: merging again (attempt ${attempt})`);
-          continue;
-        }
-      }
-    } catch (e) {
-      const where = target.document ? 'in the open editor' : 'on disk';
-      return { ok: false, message: `Not saved: ${name} could not be written (${e instanceof Error ? e.message : String(e)}). The file ${where} is as it was before, or holds the merge if the editor took it.` };
-    }
-    const c = composed.counts;
-    const kept = c.notFound ? `, ${c.notFound} kept from before that this analysis no longer finds` : '';
-    const rel = vscode.workspace.asRelativePath(target.uri);
+    for (const w of c.warnings) deps.log.info(`${name}: ${w}`);
+    return c;
+  };
+  const rel = vscode.workspace.asRelativePath(target.uri);
+  const done = (c: Composed, leftUnsaved: boolean): SaveOutcome => {
+    const kept = c.counts.notFound ? `, ${c.counts.notFound} kept from before that this analysis no longer finds` : '';
     if (leftUnsaved) {
-      return { ok: true, message: `Merged ${c.entries} entries into the open editor of ${rel}${kept}; it has unsaved edits of yours, so save it to write the file.`, uri: target.uri };
+      return { ok: true, message: `Merged ${c.counts.entries} entries into the open editor of ${rel}${kept}; it has unsaved edits of yours, so save it to write the file.`, uri: target.uri };
     }
-    return { ok: true, message: `Saved ${c.entries} entries to ${rel}${kept}.`, uri: target.uri };
+    return { ok: true, message: `Saved ${c.counts.entries} entries to ${rel}${kept}.`, uri: target.uri };
+  };
+
+  // Open in an editor: merge with the editor's text (unsaved hand edits included) through a workspace edit.
+  if (target.document) {
+    let c: Composed;
+    try {
+      c = compose(target.document.getText());
+    } catch (e) {
+      return refusedToRead(name, e instanceof UnreadableExisting ? e.cause : e);
+    }
+    try {
+      return done(c, (await writeThroughEditor(target.document, c.text)) === 'left-unsaved');
+    } catch (e) {
+      return { ok: false, message: `Not saved: ${name} could not be written (${message(e)}).` };
+    }
   }
-  return { ok: false, message: `Not saved: ${name} kept changing on disk while saving; try again.` };
+
+  // Otherwise on disk: read, merge, write atomically; merge again if the file changed meanwhile.
+  try {
+    const out = await mergeAndWrite(workspaceAtomicFs(target.uri), target.uri.path, () => currentText(target), compose, ATTEMPTS);
+    if (out.status === 'written') return done(out.result, false);
+    return { ok: false, message: `Not saved: ${name} kept changing on disk while saving; try again.` };
+  } catch (e) {
+    if (e instanceof UnreadableExisting) return refusedToRead(name, e.cause);
+    return { ok: false, message: `Not saved: ${name} could not be written (${message(e)}). The file on disk is as it was.` };
+  }
+}
+
+/** The annotations file as it stands could not be read (so it must not be overwritten). */
+class UnreadableExisting extends Error {
+  constructor(override readonly cause: unknown) {
+    super(cause instanceof Error ? cause.message : String(cause));
+  }
+}
+
+function message(e: unknown): string {
+  return e instanceof Error ? e.message : String(e);
+}
+
+/** The existing file cannot be read (bad JSON from a hand edit, a newer layout): it is never overwritten. */
+function refusedToRead(name: string, e: unknown): SaveOutcome {
+  return { ok: false, message: `Not saved, ${name} was left as it is: ${message(e)}` };
 }
