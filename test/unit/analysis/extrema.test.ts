@@ -117,6 +117,24 @@ describe('extrema and directional masses on analytic paths', () => {
     assert.ok(!cbm!.warnings.some((w) => /beyond/.test(w)));
   });
 
+  it('does not continue a direction across a jump in the path (X | M)', () => {
+    const a = 4;
+    const unit = (2 * Math.PI) / a;
+    // Valley at X; the path jumps from X to M (two legs): X has one direction only, towards Γ.
+    const bs = pathModel({
+      lattice: cubicLattice(a),
+      bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.7, [0.5 * unit, 0, 0])],
+      electrons: 2,
+      legs: [[G, X], [M, G]],
+      pointsPerSegment: 30,
+    });
+    const [cbm] = byKind(analyzeBandStructure(bs), 'cbm');
+    assert.equal(cbm!.label, 'X');
+    assert.deepEqual(cbm!.masses.map((m) => m.towards), ['Γ']);
+    assert.ok(Math.abs(cbm!.masses[0]!.mass - 0.7) < 1e-9); // model mass
+    assert.ok(!cbm!.warnings.some((w) => /beyond/.test(w))); // the band is flat at X: a true extremum
+  });
+
   it('warns when a band edge sits at a path end where the band still falls', () => {
     const a = 4;
     const unit = (2 * Math.PI) / a;
