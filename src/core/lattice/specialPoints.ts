@@ -7,8 +7,9 @@
  * cell and the fractional coordinates of its special points in that cell's reciprocal basis (tables below as
  * recalled (memory); the unit tests check each point against the zone's cartesian geometry). Covered here:
  * simple cubic (CUB), face-centred cubic (FCC), body-centred cubic (BCC), hexagonal (HEX), simple tetragonal
- * (TET) and simple orthorhombic (ORC). Other lattices (centred tetragonal and orthorhombic, rhombohedral,
- * monoclinic, triclinic) have points that depend on the cell parameters and are not labelled.
+ * (TET), body-centred tetragonal (BCT1, c < a; BCT2, c > a: e.g. fcc crystals under (001) strain) and simple
+ * orthorhombic (ORC). Other lattices (centred orthorhombic, rhombohedral, monoclinic, triclinic) are not
+ * labelled.
  *
  * Any choice of the user's cell works: the integer matrix M with A_user = M · A_std (rows; up to a rigid
  * rotation) is found by matching metric tensors, so k_user = M k_std. A k-point gets a label when it equals a
@@ -20,7 +21,7 @@ import { det3, mat3Inverse, mulMat, mulMatVec } from './linalg';
 import { bravaisLattice, latticeOnlyStructure, type BravaisLattice } from './bravais';
 import { crystalSymmetry, DEFAULT_SYMPREC, sameModuloG } from './symmetry';
 
-export type LabelledLatticeKind = 'CUB' | 'FCC' | 'BCC' | 'HEX' | 'TET' | 'ORC';
+export type LabelledLatticeKind = 'CUB' | 'FCC' | 'BCC' | 'HEX' | 'TET' | 'BCT1' | 'BCT2' | 'ORC';
 
 export interface SpecialPoint {
   label: string;
@@ -35,7 +36,7 @@ export interface StandardCell {
   points: SpecialPoint[];
 }
 
-const BRAVAIS_TO_KIND: Record<string, LabelledLatticeKind> = { cP: 'CUB', cF: 'FCC', cI: 'BCC', hP: 'HEX', tP: 'TET', oP: 'ORC' };
+const BRAVAIS_TO_KIND: Record<string, LabelledLatticeKind> = { cP: 'CUB', cF: 'FCC', cI: 'BCC', hP: 'HEX', tP: 'TET', tI: 'BCT1', oP: 'ORC' };
 
 /** Standard primitive cell and special points of Setyawan & Curtarolo (2010) for a Bravais lattice, or null. */
 export function standardCell(b: BravaisLattice): StandardCell | null {
@@ -85,6 +86,34 @@ export function standardCell(b: BravaisLattice): StandardCell | null {
         kind,
         primitive: [[a, 0, 0], [0, a, 0], [0, 0, c]],
         points: [pt('Γ', 0, 0, 0), pt('A', h, h, h), pt('M', h, h, 0), pt('R', 0, h, h), pt('X', 0, h, 0), pt('Z', 0, 0, h)],
+      };
+    }
+    case 'BCT1':
+    case 'BCT2': {
+      // Body-centred tetragonal (e.g. fcc crystals under (001) strain): BCT1 when c < a, BCT2 when c > a.
+      const a = (l1 + l2) / 2;
+      const c = l3;
+      const primitive: Mat3 = [[-a / 2, a / 2, c / 2], [a / 2, -a / 2, c / 2], [a / 2, a / 2, -c / 2]];
+      if (c < a) {
+        const eta = (1 + (c * c) / (a * a)) / 4;
+        return {
+          kind: 'BCT1',
+          primitive,
+          points: [
+            pt('Γ', 0, 0, 0), pt('M', -h, h, h), pt('N', 0, h, 0), pt('P', 1 / 4, 1 / 4, 1 / 4),
+            pt('X', 0, 0, h), pt('Z', eta, eta, -eta), pt('Z₁', -eta, 1 - eta, eta),
+          ],
+        };
+      }
+      const eta = (1 + (a * a) / (c * c)) / 4;
+      const zeta = (a * a) / (2 * c * c);
+      return {
+        kind: 'BCT2',
+        primitive,
+        points: [
+          pt('Γ', 0, 0, 0), pt('N', 0, h, 0), pt('P', 1 / 4, 1 / 4, 1 / 4), pt('Σ', -eta, eta, eta),
+          pt('Σ₁', eta, 1 - eta, -eta), pt('X', 0, 0, h), pt('Y', -zeta, zeta, h), pt('Y₁', h, h, -zeta), pt('Z', h, h, -h),
+        ],
       };
     }
     case 'ORC': {
@@ -272,7 +301,7 @@ export function recogniseSpecialPoints(bs: BandStructure, symprec: number = DEFA
       bravaisClass: b.bravaisClass,
       reason: covered
         ? `the cell could not be related to the standard ${b.bravaisClass} cell`
-        : `special-point labels are recognised for cubic, hexagonal, simple tetragonal and simple orthorhombic lattices, not for ${b.bravaisClass}`,
+        : `special-point labels are recognised for cubic, hexagonal, tetragonal and simple orthorhombic lattices, not for ${b.bravaisClass}`,
     };
   }
   const invM = mat3Inverse(map.M);

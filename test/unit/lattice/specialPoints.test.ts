@@ -2,8 +2,8 @@ import assert from 'node:assert/strict';
 import fc from 'fast-check';
 import type { BandStructure, Mat3, Structure, Vec3 } from '../../../src/core/model';
 import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
-import { recogniseLabels, recogniseSpecialPoints, relateCells } from '../../../src/core/lattice/specialPoints';
-import { cartesianToFractional } from '../../../src/core/lattice/reciprocal';
+import { recogniseLabels, recogniseSpecialPoints, relateCells, standardCell } from '../../../src/core/lattice/specialPoints';
+import { cartesianToFractional, fractionalToCartesian, reciprocalLattice } from '../../../src/core/lattice/reciprocal';
 import { mulMat, mulMatVec } from '../../../src/core/lattice/linalg';
 import { makeBands } from '../../support/bandStructure';
 import { diamondConventional, diamondLike, fccPrimitive, redescribe, rotationMatrix, UNIMODULAR, wurtzite } from './crystals';
@@ -202,10 +202,10 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
   });
 
   it('gives no labels, and says why, for lattices outside the covered set', () => {
-    // Monoclinic (β ≠ 90°) and body-centred tetragonal cells: their points depend on the cell parameters.
+    // Monoclinic (β ≠ 90°) and base-centred orthorhombic cells are not covered.
     const mono: Mat3 = [[4, 0, 0], [0, 5, 0], [1.2, 0, 6]];
-    const bct: Mat3 = [[-1.5, 1.5, 2.5], [1.5, -1.5, 2.5], [1.5, 1.5, -2.5]];
-    for (const [lat, cls] of [[mono, 'mP'], [bct, 'tI']] as const) {
+    const baseCentred: Mat3 = [[1.5, -2.5, 0], [1.5, 2.5, 0], [0, 0, 7]];
+    for (const [lat, cls] of [[mono, 'mP'], [baseCentred, 'oS']] as const) {
       const r = recogniseSpecialPoints(makeBands({ kpoints: [[0, 0, 0], [0.5, 0, 0]], energies: [[[0], [0]]], lattice: lat }));
       assert.deepEqual(r.labels, []);
       assert.equal(r.bravaisClass, cls);
@@ -223,5 +223,76 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     const det = M[0][0] * (M[1][1] * M[2][2] - M[1][2] * M[2][1]) - M[0][1] * (M[1][0] * M[2][2] - M[1][2] * M[2][0]) + M[0][2] * (M[1][0] * M[2][1] - M[1][1] * M[2][0]);
     assert.equal(Math.abs(det), 4);
     assert.equal(relateCells([[A, 0, 0], [0, A, 0], [0, 0, 1.1 * A]], fccPrimitive(A)), null);
+  });
+  it('puts every special point of every covered lattice on the zone surface (Wigner–Seitz construction)', () => {
+    // Wigner–Seitz construction (common practice): k lies on the first-zone surface when no reciprocal lattice
+    // vector G is closer to it than Γ and at least one G ≠ 0 is as close. Setyawan & Curtarolo's points other
+    // than Γ are all zone-surface points, so a wrong table entry (or BCT1/BCT2 mixed up) falls off the surface.
+    const lattices: [string, [number, number, number]][] = [
+      ['cP', [4, 4, 4]], ['cF', [5.4, 5.4, 5.4]], ['cI', [3.3, 3.3, 3.3]], ['hP', [3.2, 3.2, 5.2]], ['tP', [3.9, 3.9, 5.1]],
+      ['tI', [4, 4, 3]], ['tI', [3, 3, 5]], ['oP', [3.1, 4.2, 5.7]],
+    ];
+    for (const [cls, lengths] of lattices) {
+      const std = standardCell({ bravaisClass: cls, spaceGroup: 0, conventional: [[1, 0, 0], [0, 1, 0], [0, 0, 1]], lengths, fromStructure: false });
+      assert.ok(std, cls);
+      const B = reciprocalLattice(std.primitive);
+      for (const p of std.points) {
+        const k = fractionalToCartesian(p.k, B);
+        const k2 = k[0] ** 2 + k[1] ** 2 + k[2] ** 2;
+        let closest = Infinity;
+        for (let x = -3; x <= 3; x++) for (let y = -3; y <= 3; y++) for (let z = -3; z <= 3; z++) {
+          if (x === 0 && y === 0 && z === 0) continue;
+          const g = fractionalToCartesian([x, y, z], B);
+          closest = Math.min(closest, (k[0] - g[0]) ** 2 + (k[1] - g[1]) ** 2 + (k[2] - g[2]) ** 2);
+        }
+        if (p.label === 'Γ') assert.ok(closest > k2 + 1e-6, cls);
+        else assert.ok(Math.abs(closest - k2) < 1e-9 * Math.max(1, k2), `${std.kind} ${p.label}: not on the zone surface (${closest} vs ${k2})`);
+      }
+    }
+  });
+
+  it('names the points of body-centred tetragonal zones by their geometry (BCT1 c < a, BCT2 c > a)', () => {
+    const pi = Math.PI;
+    // BCT1, a = 4, c = 3 (c < a). Zone geometry (derived by hand from the Bragg planes, common practice):
+    // X = π/a (1,1,0) (half of G = 2π/a (1,1,0)); M = 2π/a (1,0,0); N = π (1/a, 0, 1/c); P = π (1/a, 1/a, 1/c)/…
+    // Z: the zone's apex on the c axis, equidistant from Γ and G = 2π (0, 1/a, 1/c): z = π (1/c + c/a²).
+    {
+      const [a, c] = [4, 3];
+      const lat: Mat3 = [[-a / 2, a / 2, c / 2], [a / 2, -a / 2, c / 2], [a / 2, a / 2, -c / 2]];
+      const pts: Record<string, Vec3> = { Γ: [0, 0, 0], X: [pi / a, pi / a, 0], M: [(2 * pi) / a, 0, 0], N: [pi / a, 0, pi / c], Z: [0, 0, pi * (1 / c + c / (a * a))] };
+      const { kc, ends } = linePath(legsOf([['Γ', 'X'], ['X', 'M'], ['M', 'Γ'], ['Γ', 'Z'], ['Z', 'N']], pts), 5);
+      const r = recogniseSpecialPoints(bandsOn(lat, kc, null));
+      assert.equal(r.kind, 'BCT1');
+      assert.deepEqual(new Map(r.labels.map((l) => [l.index, l.label])), ends);
+    }
+    // BCT2, a = 3, c = 5 (c > a): Z = 2π/c (0,0,1) (half of G = (0,0,4π/c)); Σ: the zone's vertex on the a
+    // axis, equidistant from Γ and G = 2π (1/a, 0, 1/c): x = π (1/a + a/c²).
+    {
+      const [a, c] = [3, 5];
+      const lat: Mat3 = [[-a / 2, a / 2, c / 2], [a / 2, -a / 2, c / 2], [a / 2, a / 2, -c / 2]];
+      const pts: Record<string, Vec3> = { Γ: [0, 0, 0], X: [pi / a, pi / a, 0], Z: [0, 0, (2 * pi) / c], Σ: [pi * (1 / a + a / (c * c)), 0, 0] };
+      const { kc, ends } = linePath(legsOf([['Γ', 'X'], ['X', 'Γ'], ['Γ', 'Z'], ['Z', 'Γ'], ['Γ', 'Σ']], pts), 5);
+      const r = recogniseSpecialPoints(bandsOn(lat, kc, null));
+      assert.equal(r.kind, 'BCT2');
+      assert.deepEqual(new Map(r.labels.map((l) => [l.index, l.label])), ends);
+    }
+  });
+
+  it('labels silicon under (001) biaxial strain: in-plane X stays X, the strain-axis X becomes Z, L becomes N', () => {
+    // −1 % in plane, +0.77 % along [001] (the demo's strain series; ε⊥ = −2 C12/C11 ε∥, handbook elastic
+    // constants (memory)). Under this strain the crystal is body-centred tetragonal with c/a = √2 (1+ε⊥)/(1+ε∥)
+    // > 1 in its bct cell: BCT2. Cartesian fcc points with the strained edges a∥, a⊥ (common practice).
+    const a0 = 5.431;
+    const [ap, az] = [a0 * 0.99, a0 * 1.0077];
+    const lattice: Mat3 = [[0, ap / 2, az / 2], [ap / 2, 0, az / 2], [ap / 2, ap / 2, 0]];
+    const si: Structure = { lattice, species: ['Si', 'Si'], positions: new Float64Array([0, 0, 0, 0.25, 0.25, 0.25]) };
+    const pts: Record<string, Vec3> = {
+      Γ: [0, 0, 0], X: [0, (2 * Math.PI) / ap, 0], Z: [0, 0, (2 * Math.PI) / az], N: [Math.PI / ap, Math.PI / ap, Math.PI / az],
+    };
+    const { kc, ends } = linePath(legsOf([['Z', 'Γ'], ['Γ', 'X'], ['X', 'Γ'], ['Γ', 'N']], pts), 6);
+    const r = recogniseSpecialPoints(bandsOn(lattice, kc, si));
+    assert.equal(r.bravaisClass, 'tI');
+    assert.equal(r.kind, 'BCT2');
+    assert.deepEqual(new Map(r.labels.map((l) => [l.index, l.label])), ends);
   });
 });
