@@ -106,7 +106,7 @@ function compareMasses(list: ChangeList, e: AnnotatedEntry, a: readonly Annotate
   const ka = massKeys(a);
   const kb = massKeys(b);
   const byKey = new Map(kb.map((k, i) => [k, b[i]!]));
-  const name = (m: AnnotatedMass): string => `mass towards ${m.towards || '(unnamed direction)'}`;
+  const name = (m: AnnotatedMass): string => `mass towards ${m.towards || '(unnamed direction)'}${m.branch === null ? '' : ` (branch ${m.branch})`}`;
   ka.forEach((key, i) => {
     const m = a[i]!;
     const n = byKey.get(key);

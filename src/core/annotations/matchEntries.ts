@@ -68,11 +68,14 @@ export function matchEntries(older: readonly AnnotatedEntry[], newer: readonly A
   };
 }
 
-/** A directional fit's identity inside an entry: where it points, and which of several towards there it is. */
+/**
+ * A directional fit's identity inside an entry: where it points, the branch it follows at a degenerate
+ * edge, and which of several alike it is (both sides of an interior extremum can point to the same label).
+ */
 export function massKeys(masses: readonly AnnotatedMass[]): string[] {
   const count = new Map<string, number>();
   return masses.map((m) => {
-    const base = m.towards;
+    const base = m.branch === null ? m.towards : `${m.towards}|branch ${m.branch}`;
     const n = count.get(base) ?? 0;
     count.set(base, n + 1);
     return `${base}|${n}`;
