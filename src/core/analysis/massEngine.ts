@@ -14,7 +14,7 @@ import { degenerateGroup, gridNeighbours, locateExtrema, pathNeighbours, type Ex
 import { pathNetwork, kKey, type PathNetwork } from './pathRays';
 import { directionalMasses } from './directionalMasses';
 import type { CurvatureFit } from './fits/types';
-import type { Ray } from './pathRays';
+import { oppositeRay, type Ray } from './pathRays';
 import { cartesianToFractional } from '../lattice/reciprocal';
 import { tensorFromNeighbours } from './tensorFit';
 import { averagedFromPrincipal, multiBandDosMass } from './averagedMasses';
@@ -96,7 +96,10 @@ function vertexNote(bs: BandStructure, k: number, fits: CurvatureFit[], rays: Ra
   fits.forEach((fit, i) => {
     const ray = rays[i]!;
     const h = ray.t.length > 1 ? ray.t[1]! : 0;
-    if (fit.vertexT === undefined || !(h > 0) || fit.vertexT < 0.1 * h || fit.vertexT > h) return;
+    // Only along a straight line through the point (both sides sampled): elsewhere a one-sided fit's vertex
+    // says more about higher-order terms than about where the extremum is.
+    if (!oppositeRay(rays, ray)) return;
+    if (fit.vertexT === undefined || !(h > 0) || fit.vertexT < 0.1 * h || fit.vertexT > 0.6 * h) return;
     if (!best || fit.stderr < best.fit.stderr) best = { fit, ray };
   });
   if (!best) return null;
