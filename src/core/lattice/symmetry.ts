@@ -194,7 +194,9 @@ function images(sym: CrystalSymmetry, k: Vec3): Vec3[] {
 /**
  * The star of k: its distinct images under the point group and time reversal (k → −k), points equal
  * modulo a reciprocal lattice vector counted once. k is in fractional reciprocal coordinates of the cell
- * the symmetry was found for; each member is returned as first generated (k itself comes first).
+ * the symmetry was found for; each member is returned as first generated (k itself comes first). For a
+ * supercell (e.g. the conventional cubic cell of an fcc crystal) "modulo G" means modulo the supercell's
+ * reciprocal lattice, i.e. in its folded zone: count valleys in the primitive cell where that matters.
  */
 export function starOfK(sym: CrystalSymmetry, k: Vec3, tol: number = K_TOLERANCE): Vec3[] {
   if (!k.every(Number.isFinite)) throw new AnalysisError('The star of k needs a finite k-point.');
