@@ -448,7 +448,9 @@ export class VasprunStream {
  */
 export function readVasprun(file: InputFile, options: ReadOptions = {}): VasprunData & { sha256: string } {
   const stream = new VasprunStream(file.path);
-  const CHUNK = 1 << 20;
+  // 64 KiB pieces: the decoded strings stay small, young objects that scavenges free at once (1 MiB pieces
+  // land in the large-object space and pile up until a full collection).
+  const CHUNK = 1 << 16;
   const src = file.stream;
   const size = src ? src.size : file.bytes.length;
   const hasher = src ? new Sha256() : null;

@@ -15,7 +15,7 @@ export { parseDecimal };
 /** Deeper nesting than this is refused: no electronic-structure XML layout comes close. */
 export const MAX_XML_DEPTH = 64;
 /** Bytes decoded and fed to the parser at a time. */
-const CHUNK_BYTES = 1 << 20;
+const CHUNK_BYTES = 1 << 16;
 
 export interface XmlEvents {
   /** An element opens; `path` holds the names of the open elements, root first, this one last. */

@@ -109,7 +109,8 @@ export function readBandsx(file: InputFile, options: ReadOptions = {}): BandsxDa
 export function detectBandsx(head: Uint8Array, name: string): number {
   const text = decodeText(head, 0, Math.min(head.length, 512)).replace(/^\uFEFF/, '');
   if (!/^\s*&plot\s+nbnd\s*=\s*\d+\s*,\s*nks\s*=\s*\d+\s*\//i.test(text)) return 0;
-  return /\.(gnu|rap)$/i.test(name) ? 0.3 : 0.95;
+  // matdyn.x writes phonon frequencies (cm⁻¹) under the same header, usually as *.freq.
+  return /\.(gnu|rap)$|freq/i.test(name) ? 0.3 : 0.95;
 }
 
 /** Fractional k from cartesian 2π/alat: k_i = k_cart · a_i / alat. */
@@ -285,6 +286,9 @@ export const bandsxReader: FormatReader = {
     }
     if (data.partial) {
       warnings.push({ code: 'partial', message: `The file holds ${data.nk} of the ${data.announcedK} k-points its header announces (truncated or still being written): results are provisional.` });
+    }
+    if (/freq/i.test(basename(main.path))) {
+      warnings.push({ code: 'maybe-phonons', message: 'The file name suggests phonon frequencies (matdyn.x writes them, in cm⁻¹, under the same header): the values were read as band energies in eV.' });
     }
     warnings.push({ code: 'rounded-energies', message: 'bands.x rounds energies to 1 meV: curvature fits on this file carry that rounding in their errors.' });
     return {
