@@ -193,13 +193,13 @@ export function compareResults(older: AnnotationsDoc, newer: AnnotationsDoc, tol
     list.add({ scope: 'gap', subject: 'gap', kind: 'changed', quantity: 'metal', before: String(older.metal), after: String(newer.metal), delta: null, message: `the run is ${newer.metal ? 'now a metal (no gap)' : newer.metal === false ? 'now gapped' : 'no longer classified'}, was ${older.metal === null ? 'unclassified' : older.metal ? 'a metal' : 'gapped'}` }, 'gap');
   }
   if (older.gap && newer.gap) {
-    list.energy('gap', 'gap', 'gap', 'gap', older.gap.eV, newer.gap.eV);
+    list.energy('gap', 'gap', 'band gap', 'fundamental gap', older.gap.eV, newer.gap.eV);
     if (older.gap.direct !== newer.gap.direct) {
-      list.add({ scope: 'gap', subject: 'gap', kind: 'changed', quantity: 'direct', before: String(older.gap.direct), after: String(newer.gap.direct), delta: null, message: `gap: ${older.gap.direct ? 'direct' : 'indirect'} → ${newer.gap.direct ? 'direct' : 'indirect'}` }, 'gap');
+      list.add({ scope: 'gap', subject: 'gap', kind: 'changed', quantity: 'direct', before: String(older.gap.direct), after: String(newer.gap.direct), delta: null, message: `band gap: ${older.gap.direct ? 'direct' : 'indirect'} → ${newer.gap.direct ? 'direct' : 'indirect'}` }, 'band gap');
     }
-    list.energy('gap', 'gap', 'gap', 'smallest direct gap', older.gap.directGap.eV, newer.gap.directGap.eV);
+    list.energy('gap', 'gap', 'band gap', 'smallest direct gap', older.gap.directGap.eV, newer.gap.directGap.eV);
   } else if (older.gap || newer.gap) {
-    list.add({ scope: 'gap', subject: 'gap', kind: older.gap ? 'removed' : 'added', quantity: 'gap', before: older.gap ? `${formatNumber(older.gap.eV, 'energy')} eV` : null, after: newer.gap ? `${formatNumber(newer.gap.eV, 'energy')} eV` : null, delta: null }, 'gap');
+    list.add({ scope: 'gap', subject: 'gap', kind: older.gap ? 'removed' : 'added', quantity: 'fundamental gap', before: older.gap ? `${formatNumber(older.gap.eV, 'energy')} eV` : null, after: newer.gap ? `${formatNumber(newer.gap.eV, 'energy')} eV` : null, delta: null }, 'band gap');
   }
   const m = matchEntries(older.entries, newer.entries);
   for (const [i, j] of m.pairs) compareEntry(list, older.entries[i]!, newer.entries[j]!);

@@ -61,7 +61,7 @@ describe('valleyscope annotate and check', () => {
     assert.equal(bad.code, 1);
     assert.match(bad.out, /stale:\s+source EIGENVAL \(eigenvalues\) has changed/);
     assert.match(bad.out, /drifted: cbm\/s0\/b2\/k=0,0,0 \(CBM, band 2, spin 0, at Γ \(0, 0, 0\)\): energy 1\.5000 eV → 1\.4500 eV \(−50\.0 meV; tolerance 1 meV\)/);
-    assert.match(bad.out, /drifted: gap: gap 1\.5000 eV → 1\.4500 eV \(−50\.0 meV/);
+    assert.match(bad.out, /drifted: band gap: fundamental gap 1\.5000 eV → 1\.4500 eV \(−50\.0 meV/);
     assert.match(bad.out, /0 match their data, 1 stale or drifted/);
   });
 
