@@ -47,6 +47,8 @@ export class BandViewPanels {
     this.panels.set(key, panel);
     this.focusedPanel = panel;
     this.lastFocused = panel;
+    // A new panel opens active; no view-state event tells so.
+    this.deps.onFocus(uri);
     const p = panel;
     p.onDidDispose(() => {
       this.panels.delete(key);
