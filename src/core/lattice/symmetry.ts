@@ -36,6 +36,11 @@ export interface CrystalSymmetry {
   crystalSystem: string;
   /** Lattice points per given cell: 1 for a primitive cell, 4 for the conventional cell of an fcc crystal. */
   latticePointsPerCell: number;
+  /**
+   * Pure translations of the crystal inside the given cell (fractional, nonzero): the centring vectors of a
+   * conventional cell, e.g. (0,½,½), (½,0,½), (½,½,0) for fcc. Empty for a primitive cell.
+   */
+  centringTranslations: Vec3[];
   /** Lattice rows (Å) of the cell the operations refer to. */
   lattice: Mat3;
   /** Distance tolerance used, Å. */
@@ -148,6 +153,15 @@ export function crystalSymmetry(structure: Structure, symprec: number = DEFAULT_
   const reciprocalPointGroup = pointGroup.map((w) => roundMat(transpose3(mat3Inverse(w))));
   const centrosymmetric = pointGroup.some((w) => w.every((r, i) => r.every((x, j) => x === (i === j ? -1 : 0))));
   const type = moyoSpaceGroupType(d.number);
+  const centringTranslations: Vec3[] = [];
+  rotations.forEach((w, i) => {
+    const t = translations[i]!;
+    const identity = w.every((r, a) => r.every((x, b) => x === (a === b ? 1 : 0)));
+    const wrapped = t.map((x) => x - Math.round(x)) as Vec3;
+    if (identity && wrapped.some((x) => Math.abs(x) > 1e-6) && !centringTranslations.some((c) => sameModuloG(c, wrapped, 1e-6))) {
+      centringTranslations.push(wrapped.map((x) => (x < -1e-9 ? x + 1 : x) + 0) as Vec3);
+    }
+  });
   const sym: CrystalSymmetry = {
     spaceGroup: d.number,
     hmSymbol: d.hm_symbol,
@@ -159,6 +173,7 @@ export function crystalSymmetry(structure: Structure, symprec: number = DEFAULT_
     bravaisClass: type.bravais_class,
     crystalSystem: type.crystal_system,
     latticePointsPerCell: Math.max(1, Math.round(rotations.length / pointGroup.length)),
+    centringTranslations,
     lattice: structure.lattice,
     symprec,
   };
@@ -181,6 +196,20 @@ export function sameModuloG(a: Vec3, b: Vec3, tol: number = K_TOLERANCE): boolea
   return true;
 }
 
+/**
+ * True when two k-points of the given cell differ by a reciprocal lattice vector of the crystal's primitive
+ * lattice: an integer vector d (a reciprocal vector of the cell) with d·t integer for every centring
+ * translation t. For a primitive cell this is sameModuloG.
+ */
+export function sameModuloCrystalG(sym: CrystalSymmetry, a: Vec3, b: Vec3, tol: number = K_TOLERANCE): boolean {
+  if (!sameModuloG(a, b, tol)) return false;
+  const d: Vec3 = [Math.round(a[0] - b[0]), Math.round(a[1] - b[1]), Math.round(a[2] - b[2])];
+  return sym.centringTranslations.every((t) => {
+    const p = d[0] * t[0] + d[1] * t[1] + d[2] * t[2];
+    return Math.abs(p - Math.round(p)) < 1e-6;
+  });
+}
+
 /** Images of k under the point group and time reversal, before removing duplicates (k first). */
 function images(sym: CrystalSymmetry, k: Vec3): Vec3[] {
   const out: Vec3[] = [k];
@@ -194,15 +223,16 @@ function images(sym: CrystalSymmetry, k: Vec3): Vec3[] {
 /**
  * The star of k: its distinct images under the point group and time reversal (k → −k), points equal
  * modulo a reciprocal lattice vector counted once. k is in fractional reciprocal coordinates of the cell
- * the symmetry was found for; each member is returned as first generated (k itself comes first). For a
- * supercell (e.g. the conventional cubic cell of an fcc crystal) "modulo G" means modulo the supercell's
- * reciprocal lattice, i.e. in its folded zone: count valleys in the primitive cell where that matters.
+ * the symmetry was found for; each member is returned as first generated (k itself comes first). "Modulo G"
+ * means modulo the reciprocal lattice of the crystal's primitive lattice, also when the cell given is a
+ * conventional one (e.g. the cubic cell of an fcc crystal, whose own zone folds the four L points onto one):
+ * valleys are counted in the crystal's Brillouin zone, with k taken as written (cartesian k unchanged).
  */
 export function starOfK(sym: CrystalSymmetry, k: Vec3, tol: number = K_TOLERANCE): Vec3[] {
   if (!k.every(Number.isFinite)) throw new AnalysisError('The star of k needs a finite k-point.');
   const star: Vec3[] = [];
   for (const q of images(sym, k)) {
-    if (!star.some((s) => sameModuloG(s, q, tol))) star.push([q[0] + 0, q[1] + 0, q[2] + 0]);
+    if (!star.some((s) => sameModuloCrystalG(sym, s, q, tol))) star.push([q[0] + 0, q[1] + 0, q[2] + 0]);
   }
   return star;
 }
@@ -218,5 +248,5 @@ export function valleyDegeneracy(sym: CrystalSymmetry, k: Vec3, tol: number = K_
 
 /** True when k2 is an image of k1 under the point group and time reversal, modulo G. */
 export function equivalentK(sym: CrystalSymmetry, k1: Vec3, k2: Vec3, tol: number = K_TOLERANCE): boolean {
-  return images(sym, k1).some((q) => sameModuloG(q, k2, tol));
+  return images(sym, k1).some((q) => sameModuloCrystalG(sym, q, k2, tol));
 }

@@ -125,6 +125,23 @@ describe('crystal symmetry (moyo-wasm)', () => {
     assert.equal(s.rotations.length, 192);
     assert.equal(s.pointGroup.length, 48);
     assert.equal(s.latticePointsPerCell, 4);
+    // The F-centring vectors (0,½,½), (½,0,½), (½,½,0) (International Tables Vol. A).
+    const key = (v: Vec3): string => v.map((x) => x.toFixed(3)).join(',');
+    assert.deepEqual(s.centringTranslations.map(key).sort(), ['0.000,0.500,0.500', '0.500,0.000,0.500', '0.500,0.500,0.000']);
+  });
+
+  it('counts valleys in the crystal zone also when the run used the conventional cubic cell', () => {
+    // In the conventional cell's reciprocal basis fractional k equals cartesian k in units of 2π/a, so the fcc
+    // points are X (0,1,0), L (½,½,½), W (½,1,0), K (¾,¾,0), U (¼,1,¼), Δ (0,0.85,0) (common practice).
+    // The counts are the crystal's (as for the primitive cell, FCC_STARS), not those of the cubic cell's folded
+    // zone, where all four L would fold onto one point.
+    const s = crystalSymmetry(diamondConventional(A_GE, 'Ge'));
+    const conv: [string, Vec3, number][] = [
+      ['Γ', [0, 0, 0], 1], ['X', [0, 1, 0], 3], ['L', [0.5, 0.5, 0.5], 4], ['Δ', [0, 0.85, 0], 6],
+      ['W', [0.5, 1, 0], 6], ['K', [0.75, 0.75, 0], 12], ['U', [0.25, 1, 0.25], 12],
+    ];
+    for (const [name, k, n] of conv) assert.equal(valleyDegeneracy(s, k), n, name);
+    assert.ok(!equivalentK(s, [0, 1, 0], [0, 0, 0])); // X is not Γ in the crystal, though it is in the cubic cell's zone
   });
 
   it('gives the fcc star sizes modulo G for Si (Oh) and for GaAs (Td with time reversal)', () => {
