@@ -8,7 +8,7 @@ import { spawnSync } from 'node:child_process';
 import { closeSync, existsSync, mkdirSync, openSync, statSync, writeSync } from 'node:fs';
 
 const small = process.argv.includes('--small');
-const nk = small ? 1000 : 10000;
+const nk = small ? 1000 : 11200;
 const nb = 520;
 const dir = 'bench-data';
 mkdirSync(dir, { recursive: true });

@@ -9,6 +9,7 @@ import { FIT_METHODS } from '../../core/analysis/methods';
 import type { CliIO } from '../io';
 import type { ReadOptions } from '../../core/formats/types';
 import { readPoscar } from '../../core/formats/vasp/poscar';
+import { detectQeXml, readQeXml } from '../../core/formats/qe/qeXml';
 
 export const ANALYZE_HELP = `valleyscope analyze <file-or-folder> [options]
   Read an eigenvalue file (or find one in a run folder) and report the gap, band edges and effective masses.
@@ -18,7 +19,8 @@ export const ANALYZE_HELP = `valleyscope analyze <file-or-folder> [options]
   --range <eV>      report secondary extrema this close to the edges (default 0.5)
   --soc             treat the run as spin-orbit (one electron per band) when the files do not say
   --alat <Å>        lattice parameter alat, for layouts that give k in 2π/alat without a cell (bands.x output)
-  --structure <file>  a POSCAR-like structure file, for runs whose files give no cell or atoms`;
+  --structure <file>  a POSCAR-like structure file (or a pw.x XML data file), for runs whose files give no
+                    cell or atoms`;
 
 export function analysisSettingsFromArgs(p: ReturnType<typeof parseArgs>): Partial<AnalysisSettings> {
   const s: Partial<AnalysisSettings> = {};
@@ -55,8 +57,18 @@ export async function readOptionsFromArgs(p: ReturnType<typeof parseArgs>): Prom
   if (alat !== undefined) o.alatAngstrom = alat;
   const sfile = flag(p, 'structure');
   if (sfile !== undefined) {
-    const bytes = await nodeFileAccessor.readFile(sfile);
-    o.structure = readPoscar({ path: sfile, bytes });
+    let bytes: Uint8Array;
+    try {
+      bytes = await nodeFileAccessor.readFile(sfile);
+    } catch (e) {
+      throw new UsageError(`--structure: cannot read "${sfile}" (${(e as NodeJS.ErrnoException).code ?? 'unreadable'})`);
+    }
+    if (detectQeXml(bytes.subarray(0, 4096), sfile) > 0) {
+      // A pw.x data file gives the structure and the alat its k-points are written in.
+      const qe = readQeXml({ path: sfile, bytes });
+      o.structure = qe.structure;
+      if (o.alatAngstrom === undefined) o.alatAngstrom = qe.alat;
+    } else o.structure = readPoscar({ path: sfile, bytes });
   }
   return o;
 }

@@ -143,6 +143,15 @@ describe('round trips through every layout (model → file → reader → analys
     assert.ok(r.warnings.some((w: string) => /electron count/.test(w)));
     const bad = await main(['analyze', join(dir, 'bands.out'), '--alat', '-3'], io);
     assert.equal(bad, 2);
+    const missing = await main(['analyze', join(dir, 'bands.out'), '--structure', join(root, 'no-such.POSCAR')], io);
+    assert.equal(missing, 2);
+    assert.match(io.stderr, /--structure: cannot read .*no-such\.POSCAR/);
+    // A pw.x data file as --structure gives the cell and alat: the bands' k-points land on the model's.
+    const xml = join(root, 'structure-source.xml');
+    writeFileSync(xml, writeQeXml(model, { alat }));
+    io.stdout = '';
+    assert.equal(await main(['analyze', join(dir, 'bands.out'), '--structure', xml, '--json'], io), 0, io.stderr);
+    assert.ok(!JSON.parse(io.stdout).warnings.some((w: string) => /alat is unknown|No pw.x data file/.test(w)));
   });
 
   describe('spin-polarised variant (vasprun.xml, pw.x XML, CASTEP)', () => {
