@@ -63,12 +63,18 @@ describe('in a real VS Code, restricted (untrusted) workspace', function () {
       await clickNearMark(view, 'cbm', 3, 2);
       await massRows(view);
 
-      // Read-only: the explanation is shown and a save (button, then command) writes nothing.
+      // Read-only: the view's save button is turned off with the explanation beside it; pressing it anyway
+      // does nothing; the command from the palette is refused with the explanation as a notification.
       const reason = 'Saving is turned off in Restricted Mode';
-      await view.locator('.vs-save').click({ force: true });
+      const saveButton = view.locator('.vs-save');
+      const disabled = await saveButton.evaluate((el) => el.hasAttribute('disabled') || el.getAttribute('aria-disabled') === 'true');
+      assert.equal(disabled, true, 'the save button is turned off');
       await waitFor(async () => ((await view.locator('body').innerText()).includes(reason) ? true : undefined), `the view does not say "${reason}"`, 20_000);
+      await saveButton.click({ force: true });
+      // (VS Code does not show a notification again while the same one is listed: clear them first.)
+      await s.runCommand('Notifications: Clear All Notifications');
       await s.runCommand('Valleyscope: Save Annotations');
-      const note = await waitFor(async () => (await s.notifications()).find((n) => n.includes(reason)), `no notification saying "${reason}"`, 20_000);
+      const note = await waitFor(async () => (await s.notifications()).find((n) => n.includes(reason)), `no notification saying "${reason}" after the command`, 20_000);
       assert.match(note, /trust/i, 'the notification says how to allow saving');
       await s.screenshot('restricted-read-only');
       // Nothing was written: the same files, same sizes and times; no annotations file anywhere.

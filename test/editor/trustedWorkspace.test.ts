@@ -221,12 +221,13 @@ describe('in a real VS Code, trusted workspace', function () {
     const firstDoc = JSON.parse(first) as AnnotationsFile;
     // 2. Open the annotations file and make a hand edit, not saved: a field of our own after the opening brace.
     await s.openFile('si-merge/EIGENVAL.valleys.json');
-    await s.page.locator('.editor-instance .monaco-editor .view-lines').first().click();
+    await s.activeEditorText().click();
     await s.page.keyboard.press('Control+Home');
     await s.page.keyboard.press('End');
     await s.page.keyboard.press('Enter');
     await s.page.keyboard.type('"reviewedBy": "hand edit from the editor test",');
-    await s.page.locator('.tabs-container .tab.active.dirty').waitFor({ timeout: 10_000 });
+    const annotationsTab = s.page.locator('.tabs-container .tab', { hasText: 'EIGENVAL.valleys.json' }).first();
+    await s.page.locator('.tabs-container .tab.dirty', { hasText: 'EIGENVAL.valleys.json' }).first().waitFor({ timeout: 10_000 });
     // 3. Back in the band view: a different fit window (40 meV), refit, save.
     await s.page.locator('.tabs-container .tab', { hasText: 'Bands: EIGENVAL' }).first().click();
     view = await waitForBandView(s, 'EIGENVAL');
@@ -244,20 +245,27 @@ describe('in a real VS Code, trusted workspace', function () {
       30_000,
     );
     await view.locator('.vs-save').click();
-    // The save went into the editor buffer: the file on disk is unchanged, the editor is still dirty.
     await waitFor(
       async () => ((await view.locator('.vs-status').innerText()).match(/Saved|Not saved/) ? true : undefined),
       'the band view did not report the save',
       30_000,
     );
-    await s.screenshot('merge-before-editor-save');
-    assert.equal(readFileSync(target, 'utf8'), first, 'the save did not write the file on disk behind the open editor');
-    // 4. Save the editor; the file now has the hand edit and the new fit.
-    await s.page.locator('.tabs-container .tab', { hasText: 'EIGENVAL.valleys.json' }).first().click();
-    await s.page.locator('.tabs-container .tab.active.dirty').waitFor({ timeout: 10_000 });
-    await s.page.keyboard.press('Control+S');
-    await waitFor(() => (readFileSync(target, 'utf8') !== first ? true : undefined), 'saving the editor did not change the file', 30_000);
-    await s.screenshot('merge-after-editor-save');
+    await s.screenshot('merge-after-view-save');
+    assert.match(await view.locator('.vs-status').innerText(), /Saved/, 'the band view reports a successful save');
+    // The merge went through the open editor: either the merged buffer was saved by the extension (the
+    // editor is clean again) or it waits in the editor for the user's save. Either way the hand edit must be
+    // in what reaches the disk.
+    const annotationsDirty = s.page.locator('.tabs-container .tab.dirty', { hasText: 'EIGENVAL.valleys.json' });
+    if ((await annotationsDirty.count()) > 0) {
+      assert.equal(readFileSync(target, 'utf8'), first, 'the file on disk is untouched while the merged buffer is unsaved');
+      await annotationsTab.click();
+      await s.activeEditorText().click();
+      await s.page.keyboard.press('Control+S');
+    }
+    await waitFor(() => (readFileSync(target, 'utf8') !== first ? true : undefined), 'the merged annotations never reached the disk', 30_000);
+    await annotationsDirty.first().waitFor({ state: 'detached', timeout: 15_000 });
+    await annotationsTab.click();
+    await s.screenshot('merge-saved');
     const merged = JSON.parse(readFileSync(target, 'utf8')) as AnnotationsFile;
     assert.equal(merged.reviewedBy, 'hand edit from the editor test', 'the hand edit survived the merge');
     // The CBM entry now carries the 40 meV fit, equal to the CLI with --window 40.

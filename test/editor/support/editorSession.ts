@@ -9,7 +9,7 @@ import { appendFileSync, cpSync, createWriteStream, mkdirSync, mkdtempSync, writ
 import { request } from 'node:http';
 import { createServer } from 'node:net';
 import { join } from 'node:path';
-import { chromium, type Browser, type FrameLocator, type Page } from 'playwright-core';
+import { chromium, type Browser, type FrameLocator, type Locator, type Page } from 'playwright-core';
 import { editorTestEnvironment, type EditorTestEnvironment } from './environment';
 
 export interface SessionOptions {
@@ -188,7 +188,7 @@ export class EditorSession {
       }
       if (status !== 302 && status !== 200) throw new Error(`code-server did not answer on 127.0.0.1:${port} within 60 s; see ${logPath}`);
       session.browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: CHROMIUM_ARGS });
-      const context = await session.browser.newContext({ viewport: { width: 1400, height: 900 } });
+      const context = await session.browser.newContext({ viewport: { width: 1920, height: 1080 } });
       session.page = await context.newPage();
       await session.page.goto(`http://127.0.0.1:${port}/?folder=${encodeURIComponent(workspaceDir)}`);
       await session.page.locator('.monaco-workbench').waitFor({ timeout: 60_000 });
@@ -268,8 +268,14 @@ export class EditorSession {
     return this.page.frameLocator('iframe.webview.ready').last().frameLocator('iframe#active-frame');
   }
 
-  /** Close every editor (and webview panel) without saving prompts for clean editors. */
+  /** The text area of the editor that has focus (the active editor group's). */
+  activeEditorText(): Locator {
+    return this.page.locator('.editor-group-container.active .editor-instance .monaco-editor .view-lines').first();
+  }
+
+  /** Close every editor (and webview panel) without saving prompts for clean editors, and the bottom panel. */
   async closeAllEditors(): Promise<void> {
+    await this.runCommand('View: Hide Panel').catch(() => undefined);
     await this.runCommand('View: Close All Editors');
     await this.page.locator('.tabs-container .tab').first().waitFor({ state: 'detached', timeout: 15_000 }).catch(() => undefined);
   }
