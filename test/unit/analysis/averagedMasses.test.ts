@@ -25,7 +25,7 @@ describe('averaged masses', () => {
     assert.equal(saddle.dosMass, null);
     assert.match(saddle.note, /both signs/);
     const holes = averagedFromPrincipal([-0.3, -0.3, -0.3], null, 'fitted mass tensor');
-    assert.ok(Math.abs(holes.dosMass! - 0.3) < 1e-12);
+    assert.ok(Math.abs(holes.dosMass! - 0.3) < 1e-12); // isotropic, N_v taken as 1: analytic
     assert.match(holes.note, /N_v unknown/);
     assert.match(holes.note, /hole/);
   });

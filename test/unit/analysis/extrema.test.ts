@@ -68,7 +68,7 @@ describe('extrema and directional masses on analytic paths', () => {
     }
     // The parabola in a small window: quartic terms bias it by (ka)²-order amounts only (analytic Taylor).
     const [cbm] = byKind(analyzeBandStructure(bs, { window_meV: 10 }), 'cbm');
-    for (const m of cbm!.masses) assert.ok(Math.abs(m.mass / expected - 1) < 0.01);
+    for (const m of cbm!.masses) assert.ok(Math.abs(m.mass / expected - 1) < 0.01); // analytic ħ²/(2ta²)
   });
 
   it('finds a valley between sampled points (Si-like Δ minimum at 0.85 Γ–X) with its longitudinal mass', () => {
@@ -86,7 +86,7 @@ describe('extrema and directional masses on analytic paths', () => {
     const [cbm] = byKind(analyzeBandStructure(bs), 'cbm');
     assert.ok(cbm);
     // The sampled point nearest 0.85 (steps of 1/39 along Γ–X).
-    assert.ok(Math.abs(cbm.k[0] / 0.5 - 0.85) < 1 / 39);
+    assert.ok(Math.abs(cbm.k[0] / 0.5 - 0.85) < 1 / 39); // model input 0.85, one step of 1/39
     const ml = cbm.masses.filter((m) => m.towards === 'Γ' || m.towards === 'X');
     assert.equal(ml.length, 2);
     for (const m of ml) assert.ok(Math.abs(m.mass - 0.92) < 1e-6, `${m.towards} ${m.mass}`); // model m_l = 0.92
@@ -162,7 +162,7 @@ describe('extrema and directional masses on analytic paths', () => {
     assert.ok(valley);
     assert.equal(valley.label, 'Γ');
     assert.ok(Math.abs(valley.offset_eV - 0.2) < 1e-9); // model: 1.2 − 1.0 eV
-    assert.ok(Math.abs(valley.masses[0]!.mass - 0.3) < 1e-6);
+    assert.ok(Math.abs(valley.masses[0]!.mass - 0.3) < 1e-6); // model mass of the Γ valley
     assert.equal(byKind(analyzeBandStructure(bs, { range_eV: 0.1 }), 'valley').length, 0);
     // The CBM at X: both directions X→Γ and X→M, longitudinal and transverse both 0.8 here (isotropic).
     const [cbm] = byKind(r, 'cbm');
@@ -265,6 +265,6 @@ describe('fits at a clicked point and the window scan', () => {
     assert.ok(last > first * 1.05, `${first} → ${last}`); // non-parabolicity raises the mass (Kane 1957)
     // The Kane fit over 200 meV returns the model's α = 0.64 /eV.
     const kane = fitExtremumAt(bs, 0, 0, 1, { ...DEFAULT_SETTINGS, method: 'kane', window_meV: 200 });
-    assert.ok(Math.abs(kane.masses[0]!.alpha_per_eV! - 0.64) < 1e-4);
+    assert.ok(Math.abs(kane.masses[0]!.alpha_per_eV! - 0.64) < 1e-4); // model α (Kane 1957 form)
   });
 });

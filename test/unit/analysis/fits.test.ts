@@ -63,7 +63,7 @@ describe('curvature fits on analytic lines', () => {
     const fit = parabolaCurvature(line(f, h, 20), exact)!;
     assert.ok(Math.abs(fit.mass - 0.9) < 1e-9); // analytic
     assert.ok(Math.abs(fit.vertexT! - t0) < 1e-9); // analytic vertex
-    assert.ok(Math.abs(fit.vertexE! - 1) < 1e-12);
+    assert.ok(Math.abs(fit.vertexE! - 1) < 1e-12); // analytic vertex energy
   });
 
   it('grows the window to the minimum number of points and says so', () => {
@@ -130,8 +130,8 @@ describe('Kane fit', () => {
   it('returns them for a hole band too (maximum, negative mass)', () => {
     const g = (t: number): number => -f(t);
     const fit = kaneCurvature(line(g, 0.004, 60), { window_meV: 200, energySigma: 0 })!;
-    assert.ok(Math.abs(fit.alpha_per_eV! - alpha) < 1e-5);
-    assert.ok(Math.abs(fit.mass + m) < 1e-7);
+    assert.ok(Math.abs(fit.alpha_per_eV! - alpha) < 1e-5); // built-in α
+    assert.ok(Math.abs(fit.mass + m) < 1e-7); // built-in m*, negative at a maximum
   });
 
   it('shows the mass of a parabola fit rising with the window on a Kane band', () => {
@@ -139,6 +139,6 @@ describe('Kane fit', () => {
     const large = parabolaCurvature(line(f, 0.002, 120), { window_meV: 200, energySigma: 0 })!;
     // Non-parabolicity raises the apparent mass with energy (Kane 1957).
     assert.ok(large.mass > small.mass * 1.05);
-    assert.ok(Math.abs(small.mass / m - 1) < 0.02);
+    assert.ok(Math.abs(small.mass / m - 1) < 0.02); // built-in m* near the edge
   });
 });
