@@ -4,6 +4,7 @@ import type { RunStore } from './runStore';
 import { gapLensText } from './gapText';
 import { COMMANDS } from './commandIds';
 import { CancelledError } from '../core/errors';
+import { dataPathFor, isAnnotationsPath } from '../core/annotations/annotationsModel';
 
 export class GapCodeLensProvider implements vscode.CodeLensProvider {
   private readonly changed = new vscode.EventEmitter<void>();
@@ -34,5 +35,17 @@ export class GapCodeLensProvider implements vscode.CodeLensProvider {
   dispose(): void {
     this.sub.dispose();
     this.changed.dispose();
+  }
+}
+
+/** On an annotations file (`<data>.valleys.json`): a lens that opens the band view of its data file. */
+export class AnnotationsCodeLensProvider implements vscode.CodeLensProvider {
+  provideCodeLenses(doc: vscode.TextDocument): vscode.CodeLens[] {
+    const path = doc.uri.path;
+    if (!isAnnotationsPath(path)) return [];
+    // The data file is named by the annotations file's own name, never by its content.
+    const data = doc.uri.with({ path: dataPathFor(path) });
+    const name = data.path.split('/').pop() ?? data.path;
+    return [new vscode.CodeLens(new vscode.Range(0, 0, 0, 0), { title: `Open band view of ${name}`, command: COMMANDS.openBandView, arguments: [data] })];
   }
 }

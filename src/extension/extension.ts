@@ -10,7 +10,7 @@ import { registerContentDetection } from './languages';
 import { registerDiagnostics } from './diagnostics';
 import { EigenvalueSymbolProvider } from './documentSymbols';
 import { KpointHoverProvider } from './hover';
-import { GapCodeLensProvider } from './codeLens';
+import { AnnotationsCodeLensProvider, GapCodeLensProvider } from './codeLens';
 import { GapStatusItem } from './statusBar';
 import { BandViewPanels } from './bandViewPanels';
 import { registerCommands } from './commands';
@@ -47,6 +47,7 @@ export function activate(context: vscode.ExtensionContext): void {
     vscode.languages.registerDocumentSymbolProvider(selector, new EigenvalueSymbolProvider(store), { label: 'k-path' }),
     vscode.languages.registerHoverProvider(selector, new KpointHoverProvider(store)),
     vscode.languages.registerCodeLensProvider(selector, lenses),
+    vscode.languages.registerCodeLensProvider({ pattern: '**/*.valleys.json' }, new AnnotationsCodeLensProvider()),
     registerCommands(store, panels, { settings: () => settings(), fits, toolVersion, log }),
     vscode.workspace.onDidOpenTextDocument(loadIfOurs),
     vscode.workspace.onDidCloseTextDocument((doc) => {
