@@ -47,7 +47,7 @@ export interface DrawStats {
 
 /** Use lines while there are at most this many visible points per device column and segments in total. */
 const LINES_MAX_DENSITY = 1.5;
-const LINES_MAX_SEGMENTS = 250_000;
+const LINES_MAX_SEGMENTS = 20_000;
 
 export class BandRenderer {
   private env: Envelope | null = null;
@@ -93,6 +93,20 @@ export class BandRenderer {
     this.timing = { decimateMs: 0, rasterMs: 0 };
     const valuesRead = mode === 'lines' ? this.drawLines(ctx, req, xLo, xHi) : this.drawEnvelope(ctx, req);
     return mode === 'lines' ? { mode, valuesRead, density } : { mode, valuesRead, density, ...this.timing };
+  }
+
+  /** Fills rows between y1 and y2 (device px, any order), `thick` rows more, in columns c0..c1. */
+  private span(px: Uint32Array, W: number, hMax: number, c0: number, c1: number, y1: number, y2: number, thick: number, colour: number): void {
+    let top = y1 < y2 ? y1 : y2;
+    const bottom = y1 < y2 ? y2 : y1;
+    if (bottom < 0 || top > hMax) return;
+    if (top < 0) top = 0;
+    const r0 = Math.floor(top);
+    let r1 = Math.floor(bottom) + thick - 1;
+    if (r1 > hMax) r1 = hMax;
+    for (let cc = c0; cc <= c1; cc++) {
+      for (let r = r0, idx = r0 * W + cc; r <= r1; r++, idx += W) px[idx] = colour;
+    }
   }
 
   /** A CSS colour as the Uint32 an ImageData holds (RGBA bytes, little-endian: ABGR). */
@@ -188,37 +202,57 @@ export class BandRenderer {
         this.timing.decimateMs += t1 - t0;
         const cLo = Math.max(0, Math.floor((vm.distance[p.i0]! - map.x0) * map.scale));
         const cHi = Math.min(W - 1, Math.floor((vm.distance[p.i1 - 1]! - map.x0) * map.scale));
-        for (let b = 0; b < nb; b++) {
-          const colour = packed[b]!;
-          // The previous filled column of this piece: its last value joins this column's span.
-          let pc = -1;
-          for (let c = cLo; c <= cHi; c++) {
-            if (!env.filled[c]) continue;
-            const o = c * nb + b;
-            let lo = env.min[o]!;
-            let hi = env.max[o]!;
+        // Column by column (reads of the envelope are contiguous), every band's vertical span: from its
+        // lowest to its highest value in the column, joined to the previous filled column's last value.
+        const emin = env.min;
+        const emax = env.max;
+        const elast = env.last;
+        const filled = env.filled;
+        const hMax = H - 1;
+        let pc = -1;
+        for (let c = cLo; c <= cHi; c++) {
+          if (!filled[c]) continue;
+          const o = c * nb;
+          const po = pc * nb;
+          const cEnd = Math.min(W - 1, c + thick - 1);
+          // Columns left empty between two filled ones (a pyramid bucket may span up to two columns; sparse
+          // stretches of a path) are bridged by the straight join, so lines have no holes.
+          const gap0 = pc >= 0 && c - pc > 1 ? pc + 1 : c;
+          for (let b = 0; b < nb; b++) {
+            let lo = emin[o + b]!;
+            let hi = emax[o + b]!;
+            const colour = packed[b]!;
             if (pc >= 0) {
-              const pl = env.last[pc * nb + b]!;
+              const pl = elast[po + b]!;
+              if (gap0 < c) {
+                const near = Math.abs(pl - lo) < Math.abs(pl - hi) ? lo : hi;
+                const n = c - pc;
+                for (let g = gap0; g < c; g++) {
+                  const ya = pl + ((near - pl) * (g - pc - 0.5)) / n;
+                  const yb = pl + ((near - pl) * (g - pc + 0.5)) / n;
+                  this.span(px, W, hMax, g, g, ay * ya + by, ay * yb + by, thick, colour);
+                }
+              }
               if (pl < lo) lo = pl;
-              if (pl > hi) hi = pl;
+              else if (pl > hi) hi = pl;
             }
-            pc = c;
-            let top = Math.floor(ay * hi + by);
-            let bottom = Math.floor(ay * lo + by);
-            if (top > bottom) {
-              const t = top;
-              top = bottom;
-              bottom = t;
+            // The span itself (inlined: this loop runs once per band and column).
+            let y1 = ay * hi + by;
+            let y2 = ay * lo + by;
+            if (y1 > y2) {
+              const t = y1;
+              y1 = y2;
+              y2 = t;
             }
-            bottom += thick - 1;
-            if (bottom < 0 || top >= H) continue;
-            if (top < 0) top = 0;
-            if (bottom >= H) bottom = H - 1;
-            const cEnd = Math.min(W - 1, c + thick - 1);
+            if (y2 < 0 || y1 > hMax) continue;
+            const r0 = y1 < 0 ? 0 : y1 | 0;
+            let r1 = (y2 | 0) + thick - 1;
+            if (r1 > hMax) r1 = hMax;
             for (let cc = c; cc <= cEnd; cc++) {
-              for (let r = top; r <= bottom; r++) px[r * W + cc] = colour;
+              for (let idx = r0 * W + cc, end = r1 * W + cc; idx <= end; idx += W) px[idx] = colour;
             }
           }
+          pc = c;
         }
         this.timing.rasterMs += performance.now() - t1;
       });

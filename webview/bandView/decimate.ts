@@ -57,6 +57,12 @@ export function createEnvelope(width: number, nBands: number): Envelope {
   };
 }
 
+/**
+ * A pyramid level is used when its widest bucket spans at most this many columns. Each bucket goes to the
+ * column of its midpoint, so no point is drawn more than one column away from its own.
+ */
+export const MAX_BUCKET_COLUMNS = 2;
+
 /** Points below this count per piece are never summarised: reading them is as fast as reading buckets. */
 export const PYRAMID_MIN_POINTS = 64;
 
@@ -153,7 +159,7 @@ export function clearEnvelope(env: Envelope): void {
 /**
  * Adds the piece i0..i1-1 to the envelope. Returns how many values were read (points × bands or
  * buckets × bands), for the benchmark's record. Uses the coarsest pyramid level whose buckets are no
- * wider than one column, or the raw points when none is.
+ * wider than MAX_BUCKET_COLUMNS columns, or the raw points when none is.
  */
 export function columnEnvelope(
   x: Float64Array,
@@ -175,7 +181,7 @@ export function columnEnvelope(
   if (z <= a) return 0;
   let level: PyramidLevel | null = null;
   if (pyramid && pyramid.i0 === i0 && pyramid.i1 === i1) {
-    for (const l of pyramid.levels) if (l.maxExtent * scale <= 1) level = l;
+    for (const l of pyramid.levels) if (l.maxExtent * scale <= MAX_BUCKET_COLUMNS) level = l;
   }
   const min = env.min;
   const max = env.max;
@@ -209,8 +215,11 @@ export function columnEnvelope(
     }
     return read;
   }
-  // Whole buckets that overlap the visible range; each goes to the column of its midpoint.
+  // Whole buckets that overlap the visible range; each goes to the column of its midpoint (a point of the
+  // bucket lies at most MAX_BUCKET_COLUMNS / 2 = 1 column from it).
   const size = level.size;
+  const lmin = level.min;
+  const lmax = level.max;
   const j0 = Math.floor((a - i0) / size);
   const j1 = Math.ceil((z - i0) / size);
   let read = 0;
@@ -226,14 +235,14 @@ export function columnEnvelope(
     if (!filled[c]) {
       filled[c] = 1;
       for (let b = 0; b < nBands; b++) {
-        min[o + b] = level.min[ob + b]!;
-        max[o + b] = level.max[ob + b]!;
+        min[o + b] = lmin[ob + b]!;
+        max[o + b] = lmax[ob + b]!;
         last[o + b] = values[lb + b]!;
       }
     } else {
       for (let b = 0; b < nBands; b++) {
-        const lo = level.min[ob + b]!;
-        const hi = level.max[ob + b]!;
+        const lo = lmin[ob + b]!;
+        const hi = lmax[ob + b]!;
         if (lo < min[o + b]!) min[o + b] = lo;
         if (hi > max[o + b]!) max[o + b] = hi;
         last[o + b] = values[lb + b]!;
