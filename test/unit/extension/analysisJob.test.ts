@@ -59,7 +59,11 @@ describe('extension: the analysis job (worker thread and in-process)', () => {
   it('sends a reader error back across the thread with its line and column', async function () {
     this.timeout(60000);
     const job = siJob();
-    const text = new TextDecoder().decode(job.main.bytes).replace('   10.482329', '   1*.482329');
+    // Corrupt the energy of band 2 at the first k-point (line 10 of the file) into a non-number.
+    const lines = new TextDecoder().decode(job.main.bytes).split('\n');
+    lines[9] = lines[9]!.replace(/(\s+2\s+)\S+/, '$11*.45');
+    assert.match(lines[9]!, /^\s+2\s+1\*\.45/);
+    const text = lines.join('\n');
     job.main = { path: job.main.path, bytes: new TextEncoder().encode(text) };
     const { done, worker } = runWorker(job);
     try {
@@ -68,7 +72,7 @@ describe('extension: the analysis job (worker thread and in-process)', () => {
       if (reply.type !== 'failed') return;
       const e = fromJobError(reply.error);
       assert.ok(e instanceof ReaderError);
-      assert.ok(e.line > 6, String(e.line));
+      assert.equal(e.line, 10);
       assert.match(e.message, /EIGENVAL:\d+/);
     } finally {
       await worker.terminate();
