@@ -37,11 +37,11 @@ function channelEdges(bs: BandStructure, occ: OccupationRule, spin: 0 | 1): { vb
       const i = k * nb + b;
       const x = e[i]!;
       if (o[i]) {
-        // Highest occupied; among equal energies prefer the highest band index, then the first k.
-        if (!vbm || x > vbm.energy + EDGE_TOLERANCE_EV || (Math.abs(x - vbm.energy) <= EDGE_TOLERANCE_EV && k === vbm.k && b > vbm.band)) {
+        // Highest occupied (the first k among exact ties; at one k the highest band index); lowest empty.
+        if (!vbm || x > vbm.energy || (x === vbm.energy && k === vbm.k && b > vbm.band)) {
           vbm = { spin, k, band: b, energy: x };
         }
-      } else if (!cbm || x < cbm.energy - EDGE_TOLERANCE_EV) {
+      } else if (!cbm || x < cbm.energy) {
         cbm = { spin, k, band: b, energy: x };
       }
     }

@@ -50,8 +50,6 @@ export function pathGeometry(bs: BandStructure): PathGeometry {
   for (let i = 1; i < nk; i++) {
     step[i] = Math.hypot(pts[3 * i]! - pts[3 * i - 3]!, pts[3 * i + 1]! - pts[3 * i - 2]!, pts[3 * i + 2]! - pts[3 * i - 1]!);
   }
-  const nonzero = Array.from(step.subarray(1)).filter((s) => s > DUP_TOL).sort((a, b) => a - b);
-  const median = nonzero.length ? nonzero[Math.floor(nonzero.length / 2)]! : 0;
 
   const segments: PathSegment[] = [];
   const distance = new Float64Array(nk);
@@ -74,8 +72,14 @@ export function pathGeometry(bs: BandStructure): PathGeometry {
     }
     const la = labelOf.get(i - 1);
     const lb = labelOf.get(i);
-    const labelledJump = la !== undefined && lb !== undefined && la !== lb && i - 1 > segStart && (i + 1 >= nk || labelOf.get(i + 1) === undefined);
-    const longJump = median > 0 && s > 4 * median && nonzero.length > 4;
+    // A labelled jump: the end of one segment and the start of the next, both labelled, with the new
+    // segment continuing unlabelled after it (a path written only at its corners has no jumps this way).
+    const labelledJump = la !== undefined && lb !== undefined && la !== lb && i - 1 > segStart && i + 1 < nk && labelOf.get(i + 1) === undefined;
+    // An unlabelled jump: a step far longer than the steps on both sides of it (legs of different
+    // densities are not jumps: their steps are alike within each leg).
+    const before = neighbourStep(step, i, -1);
+    const after = neighbourStep(step, i, +1);
+    const longJump = before > 0 && after > 0 && s > 4 * Math.max(before, after);
     if (labelledJump || longJump) {
       distance[i] = distance[i - 1]!;
       close(i - 1, true);
@@ -111,4 +115,10 @@ export function pathGeometry(bs: BandStructure): PathGeometry {
     } else ticks.push({ distance: x, label: l.label, index: l.index });
   }
   return { cartesian: cart, distance: dist, units, segments, ticks };
+}
+
+/** The nearest non-zero step before (dir −1) or after (dir +1) step i; 0 when there is none. */
+function neighbourStep(step: Float64Array, i: number, dir: -1 | 1): number {
+  for (let j = i + dir; j >= 1 && j < step.length; j += dir) if (step[j]! > DUP_TOL) return step[j]!;
+  return 0;
 }

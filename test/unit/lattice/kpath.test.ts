@@ -55,3 +55,27 @@ describe('k-path geometry', () => {
     assert.ok(Math.abs(g.distance[2]! - Math.SQRT1_2) < 1e-12);
   });
 });
+
+describe('k-path geometry, corner cases', () => {
+  it('a path written only at its corners advances on every leg, the last one included', () => {
+    const kpts = [G, X, W, K, G, L];
+    const labels = ['Γ', 'X', 'W', 'K', 'Γ', 'L'].map((label, index) => ({ index, label }));
+    const g = pathGeometry(makeBands({ kpoints: kpts, energies: [kpts.map(() => [0])], lattice: fccLattice(a), labels }));
+    const u = (2 * Math.PI) / a;
+    // Hand-computed legs (fcc, 2π/a units): Γ−X 1, X−W 1/2, W−K √2/4, K−Γ 3√2/4, Γ−L √3/2.
+    const total = u * (1 + 0.5 + Math.SQRT2 / 4 + (3 * Math.SQRT2) / 4 + Math.sqrt(3) / 2);
+    assert.ok(Math.abs(g.distance[5]! - total) < 1e-9, `${g.distance[5]} vs ${total}`);
+  });
+
+  it('legs of different point densities are not jumps', () => {
+    // Tetragonal a = 3 Å, c = 40 Å: three short legs along c, then a long in-plane leg with as many points.
+    const lat: [number, number, number][] = [[3, 0, 0], [0, 3, 0], [0, 0, 40]];
+    const Z = [0, 0, 0.5];
+    const kpts = [...line(G, Z, 6), ...line(Z, G, 6).slice(1), ...line(G, Z, 6).slice(1), ...line(Z, [0.5, 0, 0.5], 6).slice(1)];
+    const g = pathGeometry(makeBands({ kpoints: kpts, energies: [kpts.map(() => [0])], lattice: lat }));
+    // Hand-computed: |Γ−Z| = π/c three times, then |Z−R| = π/a (analytic, simple tetragonal).
+    const total = (3 * Math.PI) / 40 + Math.PI / 3;
+    assert.ok(Math.abs(g.distance[kpts.length - 1]! - total) < 1e-9, `${g.distance[kpts.length - 1]} vs ${total}`);
+    assert.ok(g.segments.every((s) => !s.afterJump));
+  });
+});
