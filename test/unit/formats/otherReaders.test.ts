@@ -130,6 +130,13 @@ describe('pw.x XML data file', () => {
     assert.equal(bs.partial, true);
     assert.equal(bs.nk, 30);
   });
+  it('a <ks_energies> block with two <k_point> or without eigenvalues is named', () => {
+    const text = writeQeXml(model, { alat: 4 });
+    const twice = text.replace(/(<k_point weight="[^"]*">[^<]*<\/k_point>)/, '$1$1');
+    throwsReader(() => qeXmlReader.read(f('pw.xml', twice), [], {}), /exactly one <k_point>/, 30);
+    const noEig = text.replace(/<eigenvalues size="3">[^<]*<\/eigenvalues>/, '');
+    throwsReader(() => qeXmlReader.read(f('pw.xml', noEig), [], {}), /has no eigenvalues/, 30);
+  });
   it('refuses files of the layout before 6.2 with a sentence', () => {
     throwsReader(() => qeXmlReader.read(f('old.xml', '<?xml version="1.0"?>\n<Root>\n</Root>\n'), [], {}), /versions before 6.2/, 1);
   });

@@ -214,8 +214,11 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
             if (parent === 'band_structure' || !flags.has(name)) flags.set(name, text.trim());
           }
           if (name === 'ks_energies') {
-            if (!kHasEig) throw fail(line, `k-point ${kComplete + 1} has no eigenvalues`);
-            if (kWeight === null && weights.length < kCart.length / 3) weights.push(0);
+            const k = kComplete + 1;
+            if (!kHasEig) throw fail(line, `k-point ${k} has no eigenvalues`);
+            if (kCart.length !== 3 * k) throw fail(line, `the block of k-point ${k} (<ks_energies>) should hold exactly one <k_point>`);
+            if (eig.length !== k * bandsPerK) throw fail(line, `the block of k-point ${k} (<ks_energies>) should hold exactly one <eigenvalues>`);
+            if (occ.length !== 0 && occ.length !== k * occPerK) throw fail(line, `the block of k-point ${k} (<ks_energies>) should hold exactly one <occupations>`);
             kComplete++;
           }
         } else if (parent === 'ks_energies') {
