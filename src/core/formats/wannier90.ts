@@ -76,10 +76,12 @@ export function readBandDat(file: InputFile, options: ReadOptions = {}): BandDat
     e.push(en);
     inBlock++;
   }
-  // Wannier90 ends every band, the last one too, with a blank record: a band without one was cut short.
+  // Wannier90 ends every band, the last one too, with a blank record. A last band as long as the first is
+  // accepted without it (other writers omit it); a lone band without it, or a shorter one, was cut short.
   let partial = false;
   if (inBlock > 0) {
-    if (options.allowPartial && band > 0) partial = true;
+    if (band > 0 && inBlock === nk) band++;
+    else if (options.allowPartial && band > 0) partial = true;
     else {
       throw sc.error(
         nk < 0 || inBlock === nk

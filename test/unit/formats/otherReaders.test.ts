@@ -162,6 +162,11 @@ describe('Wannier90 band.dat', () => {
     assert.ok(Math.abs(bs.lattice![2]![2]! - 6) < 1e-7);
     assert.deepEqual(bs.labels.map((l) => l.label).slice(0, 2), ['Γ', 'X']);
   });
+  it('the closing blank line: optional after a last band as long as the first, required after a lone band', () => {
+    const two = '  0.00000000E+00 -0.10000000E+01\n  0.10000000E+00 -0.90000000E+00\n  \n  0.00000000E+00  0.10000000E+01\n  0.10000000E+00  0.11000000E+01\n';
+    assert.equal(wannier90BandReader.read(f('m_band.dat', two), [], {}).nBands, 2);
+    throwsReader(() => wannier90BandReader.read(f('m_band.dat', '  0.00000000E+00 -0.10000000E+01\n  0.10000000E+00 -0.90000000E+00\n'), [], {}), /truncated/, 2);
+  });
   it('a band with fewer points than the first is named', () => {
     const w = writeWannier90(model, {});
     const lines = w.bandDat.split('\n');
