@@ -7,11 +7,14 @@ import { compareRuns, type RunInput } from '../../core/compare/compareRuns';
 import { formatComparison, type ComparisonFormat } from '../../core/compare/formatComparison';
 import { crystalSymmetry, ensureSymmetryReady } from '../../core/lattice/symmetry';
 import { ANALYSIS_FLAGS, analysisSettingsFromArgs } from './analyze';
+import { isAnnotationsPath } from '../../core/annotations/annotationsModel';
+import { loadAnnotationsRun } from '../../core/compare/loadAnnotationsRun';
 import type { CliIO } from '../io';
 
 export const COMPARE_HELP = `valleyscope compare <run> <run> [...] [options]
-  Compare runs (eigenvalue files or run folders): gap, edges, valleys matched up to symmetry, masses,
-  valley degeneracy, and strain relative to the reference run.
+  Compare runs (eigenvalue files, run folders, or annotations files *.valleys.json): gap, edges, valleys
+  matched up to symmetry, masses, valley degeneracy, and strain relative to the reference run. An
+  annotations file gives the numbers the reviewer saved; it is marked stale when its data files changed.
   --reference <run>          the run the differences are taken against (default: the first)
   --format table|csv|md|json table (default); md is ready to paste into a review comment
   --window, --method, --range, --soc   as for analyze`;
@@ -30,7 +33,14 @@ export async function runCompare(argv: string[], io: CliIO): Promise<number> {
   const settings = analysisSettingsFromArgs(p);
   await ensureSymmetryReady();
   const runs: RunInput[] = [];
+  const notes: string[] = [];
   for (const path of p.positional) {
+    if (isAnnotationsPath(path)) {
+      const a = await loadAnnotationsRun(nodeFileAccessor, path);
+      runs.push(a.run);
+      notes.push(...a.staleReasons.map((r) => `${path}: stale: ${r}`), ...a.notes.map((n) => `${path}: ${n}`));
+      continue;
+    }
     const bs = await loadRun(nodeFileAccessor, path, p.flags.has('soc') ? { spinorbit: true } : {});
     const report = analyzeBandStructure(bs, settings);
     let rotations = null;
@@ -45,5 +55,7 @@ export async function runCompare(argv: string[], io: CliIO): Promise<number> {
   }
   const c = compareRuns(runs, reference);
   io.out(formatComparison(c, format));
+  // Why a run is stale, or has no structure: on stderr, so csv/json output stays machine-readable.
+  for (const n of notes) io.err(n);
   return 0;
 }

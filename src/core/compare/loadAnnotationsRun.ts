@@ -1,0 +1,73 @@
+/**
+ * Read an annotations file as a comparison input through a FileAccessor (the CLI's node one, the editor's
+ * workspace one): parse it, hash the recorded sources as they are now (staleness), and find the run's
+ * structure for the trend descriptors and the symmetry matching: the recorded structure file (POSCAR /
+ * CONTCAR) when there is one, else the structure the data file itself carries (vasprun.xml, QE XML).
+ */
+import type { FileAccessor } from '../io/fileAccessor';
+import { dirname, joinPath } from '../io/fileAccessor';
+import type { Mat3, Structure } from '../model';
+import { sha256Hex } from '../hash';
+import { parseAnnotations } from '../annotations/parseAnnotations';
+import { dataPathFor, type AnnotationsDoc } from '../annotations/annotationsModel';
+import type { CurrentSource } from '../annotations/checkAnnotations';
+import { readPoscar } from '../formats/vasp/poscar';
+import { locateRun, readLocated } from '../load';
+import { crystalSymmetry, symmetryReady } from '../lattice/symmetry';
+import { runFromAnnotations, type AnnotationsRun } from './runFromAnnotations';
+
+export interface LoadedAnnotationsRun extends AnnotationsRun {
+  doc: AnnotationsDoc;
+  /** Sentences about what could not be found (no structure: no descriptors for this run). */
+  notes: string[];
+}
+
+/** Roles of recorded sources that hold a crystal structure in POSCAR layout. */
+const STRUCTURE_ROLES = new Set(['structure']);
+
+export async function loadAnnotationsRun(fs: FileAccessor, file: string, name: string = file): Promise<LoadedAnnotationsRun> {
+  const doc = parseAnnotations(new TextDecoder().decode(await fs.readFile(file)), file);
+  const dir = dirname(file);
+  const current: CurrentSource[] = [];
+  const notes: string[] = [];
+  let structure: Structure | null = null;
+  for (const s of doc.sources) {
+    const path = joinPath(dir, s.path);
+    const st = await fs.stat(path);
+    if (!st || st.type !== 'file') continue; // missing: compareSources says so
+    const bytes = await fs.readFile(path);
+    current.push({ path: s.path, sha256: sha256Hex(bytes), role: s.role });
+    if (!structure && STRUCTURE_ROLES.has(s.role)) {
+      try {
+        structure = readPoscar({ path, bytes });
+      } catch (e) {
+        notes.push(`the structure file ${s.path} could not be read: ${e instanceof Error ? e.message : String(e)}`);
+      }
+    }
+  }
+  let lattice: Mat3 | null = structure?.lattice ?? null;
+  if (!structure) {
+    // The data file may carry the structure itself (XML layouts); read it only for that.
+    try {
+      const data = dataPathFor(file);
+      if (await fs.stat(data)) {
+        const bs = await readLocated(fs, await locateRun(fs, data), doc.settings.forceSpinorbit ? { spinorbit: true } : {});
+        structure = bs.structure;
+        lattice = bs.lattice;
+      }
+    } catch {
+      // No structure: the run has no descriptors; the note below says so.
+    }
+  }
+  if (!lattice) notes.push('no crystal structure found for this run: it has no lattice parameters or strain');
+  let rotations: Mat3[] | null = null;
+  if (structure && symmetryReady()) {
+    try {
+      rotations = crystalSymmetry(structure).rotations;
+    } catch {
+      rotations = null;
+    }
+  }
+  const out = runFromAnnotations(doc, { name, currentSources: current, lattice, rotations });
+  return { ...out, doc, notes };
+}
