@@ -197,6 +197,12 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
     });
   }
   warnings.push({ code: 'no-structure', message: 'A .bands file holds the cell but not the atoms: valley degeneracy needs the structure (.cell file or a POSCAR-like file).' });
+  if (nSpin === 1 && options.spinorbit === undefined) {
+    warnings.push({
+      code: 'spinorbit-unknown',
+      message: 'A .bands file does not say whether the run was non-collinear (spin-orbit): read as collinear, two electrons per band; give --soc if it was.',
+    });
+  }
   let sampling: BandStructure['sampling'] = 'points';
   let allWeighted = nk > 1;
   for (let i = 0; i < nk; i++) if (!(wOut[i]! > 0)) allWeighted = false;
