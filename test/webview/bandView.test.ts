@@ -4,9 +4,9 @@
  * the core, shaped by the extension's own bandData.ts; fits answered by the extension's fit service.
  */
 import assert from 'node:assert/strict';
-import { mkdirSync } from 'node:fs';
+import { mkdirSync, writeFileSync } from 'node:fs';
 import { startHarness, type Harness, type ViewPage } from './support/bandViewHarness';
-import { bandDataMessage, hostFitResult, loadRunForView, type LoadedRun } from './support/coreBandData';
+import { bandDataFromStructure, bandDataMessage, hostFitResult, loadRunForView, type LoadedRun } from './support/coreBandData';
 import { installPageHelpers, hexToRgb, waitForExpression } from './support/pageHelpers';
 import { THEME_VARS, type TestTheme } from './support/themes';
 import { isViewToHostMessage, HostToViewType, type ExtremumMark, type FitTarget } from '../../src/protocol';
@@ -222,7 +222,11 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     // Pixels per eV from two band points at Γ (k index 0), bands 4 and 5.
     const pxSpan = (await v.page.evaluate(`(function () { var a = window.valleyscopeBandView; return a.screenOf(0, 0, 3).y - a.screenOf(0, 0, 4).y; })()`)) as number;
     const pxPerEv = pxSpan / (run.bs.energies[0]![4]! - run.bs.energies[0]![3]!);
-    assert.ok(Math.abs(expected - y - 0.06 * pxPerEv) < 0.5, 'window line 60 meV above the CBM');
+    // The line marks the widest window the engine used (it widens a window holding too few points).
+    const fit60 = hostFitResult(run, 0, cbm, 60, 'parabola', false).extremum;
+    const used = Math.max(...fit60.masses.map((m) => m.window_meV));
+    assert.ok(used >= 60);
+    assert.ok(Math.abs(expected - y - (used / 1000) * pxPerEv) < 0.5, `window line ${used} meV above the CBM`);
     await v.page.close();
   });
 
@@ -265,6 +269,90 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     const req = await waitPosted(v, 'requestFit', 1);
     assert.deepEqual({ spin: req.spin, kIndex: req.kIndex, band0: req.band0 }, down);
     assert.ok(isViewToHostMessage(req));
+    await assertClean(v);
+    await v.page.close();
+  });
+
+  it('at the VBM: hole masses shown as positive numbers, labelled, and the threefold degeneracy at Γ', async () => {
+    const v = await openWithRun(h, run);
+    await v.page.focus('.vs-plot');
+    await v.page.keyboard.press('ArrowDown'); // nothing selected: Down starts at the VBM
+    const vbm = mark(run, 'vbm');
+    assert.deepEqual(await v.page.evaluate('window.valleyscopeBandView.selection()'), { spin: vbm.spin, kIndex: vbm.kIndex, band0: vbm.band0 });
+    await v.page.keyboard.press('Enter');
+    const req = await waitPosted(v, 'requestFit', 1);
+    await v.hostPost(hostFitResult(run, req.requestId as number, vbm, 25, 'parabola', true));
+    await v.page.waitForSelector('.vs-fit-body:not([hidden])');
+    const fit = hostFitResult(run, 0, vbm, 25, 'parabola', false).extremum;
+    assert.match((await v.page.locator('.vs-fit-kind').textContent()) ?? '', /Valence-band maximum/);
+    assert.equal(await v.page.locator('.vs-masses thead th').nth(2).textContent(), 'hole mass');
+    const rows = await v.page.locator('.vs-masses tbody tr').evaluateAll((trs) => trs.map((tr) => Array.from(tr.querySelectorAll('td'), (td) => td.textContent)));
+    assert.equal(rows.length, fit.masses.length);
+    fit.masses.forEach((f, i) => {
+      assert.ok(f.mass < 0, 'curvature mass negative at a maximum (design.md sign convention)');
+      assert.equal(rows[i]![1], f.mass.toPrecision(3).replace('-', '−'), 'signed mass with a true minus sign');
+      assert.equal(rows[i]![2], (-f.mass).toPrecision(3), 'hole mass: the same number, positive');
+    });
+    // Without spin-orbit the top valence level of diamond-structure Si at Γ is threefold degenerate
+    // (heavy and light holes plus the split-off band, common practice; physics.md step 7).
+    assert.match((await v.page.locator('.vs-degeneracy').textContent()) ?? '', /Bands degenerate here3/);
+    await assertClean(v);
+    await v.page.close();
+  });
+
+  it('a file still being written: a banner says the results are provisional; a failed load shows its sentence', async () => {
+    const partial = bandDataFromStructure({ ...run.bs, partial: true }, 'Si (running job)');
+    const v = await openWithRun(h, partial);
+    const banner = v.page.locator('.vs-banner');
+    assert.equal(await banner.isVisible(), true);
+    assert.match((await banner.textContent()) ?? '', /Partial data: .* provisional/);
+    assert.equal(await banner.getAttribute('role'), 'alert');
+    const sentence = 'EIGENVAL, line 1234, column 5: the energy field holds "*******" (a number too wide for its field), not a number.';
+    await v.hostPost({ type: HostToViewType.LoadFailed, message: sentence });
+    await waitForExpression(v.page, `window.valleyscopeBandView.lastDraw === null`);
+    assert.equal(await v.page.locator('.vs-message').textContent(), sentence);
+    assert.equal(await v.page.locator('.vs-message').isVisible(), true);
+    const off = (await v.page.evaluate('__t.canvasOffset()')) as { w: number; h: number };
+    assert.equal(await v.page.evaluate(`__t.opaqueAround(${off.w / 2}, ${off.h / 2}, 30)`), 0, 'no stale bands under the message');
+    await assertClean(v);
+    await v.page.close();
+  });
+
+  it('a growing file (a running job): the view redraws the new k-points and keeps the zoom and selection', async () => {
+    // The first 200 k-points as a running job would have written them, then the whole file.
+    const nk0 = 200;
+    const bs = run.bs;
+    const first = bandDataFromStructure(
+      {
+        ...bs,
+        nk: nk0,
+        kpoints: bs.kpoints.slice(0, 3 * nk0),
+        weights: bs.weights ? bs.weights.slice(0, nk0) : null,
+        energies: bs.energies.map((e) => e.slice(0, nk0 * bs.nBands)),
+        occupations: bs.occupations ? bs.occupations.map((o) => o.slice(0, nk0 * bs.nBands)) : null,
+        labels: bs.labels.filter((l) => l.index < nk0),
+        partial: true,
+      },
+      'Si (EPM)',
+    );
+    const v = await openWithRun(h, first);
+    const cbm = mark(run, 'cbm');
+    await v.page.focus('.vs-plot');
+    await v.page.keyboard.press('ArrowUp');
+    await v.page.evaluate(`window.valleyscopeBandView.setZoom(1.5, -100, -50)`);
+    await v.hostPost(bandDataMessage(run.data));
+    await waitForExpression(v.page, `window.valleyscopeBandView.vm.nk === ${run.data.nk}`);
+    assert.equal(await v.page.locator('.vs-banner').isVisible(), false, 'no partial-data banner once complete');
+    assert.deepEqual(await v.page.evaluate('window.valleyscopeBandView.selection()'), { spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0 }, 'selection kept');
+    // Zoom kept: the transform is the same, so a point keeps its place relative to the path's start
+    // (the x scale now spans the longer path, so compare the transform, not the pixel).
+    assert.deepEqual(await v.page.evaluate('(function (t) { return [t.k, t.x, t.y]; })(window.valleyscopeBandView.transform)'), [1.5, -100, -50]);
+    await v.page.evaluate('window.valleyscopeBandView.setZoom(1, 0, 0)');
+    const pts: [number, number, number][] = [];
+    for (let k = nk0; k < run.data.nk; k += 9) for (let b = 0; b < 8; b++) pts.push([0, k, b]);
+    const res = ((await v.page.evaluate(`__t.probe(${JSON.stringify(pts)}, 2)`)) as Probe[]).filter((r) => r.inside);
+    assert.ok(res.length > 50);
+    assert.equal(res.filter((r) => !r.hit).length, 0, 'the k-points added by the growth are drawn');
     await assertClean(v);
     await v.page.close();
   });
@@ -382,8 +470,15 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     )) as { err: number; labels: string[] };
     assert.equal(parsed.err, 0, 'the SVG is well-formed XML');
     for (const l of ['Γ', 'X', 'L', 'K|U']) assert.ok(parsed.labels.includes(l), `label ${l} in the export`);
+    writeFileSync(`${ARTIFACTS}/bandview-export.svg`, text);
     await v.page.locator('vscode-button.vs-export-png').click();
     await waitPosted(v, 'export', 2);
+    const pngBase64 = (await v.page.evaluate(`(function () {
+      var b = window.__posted.filter(function (x) { return x.type === 'export'; })[1].data, s = '';
+      for (var i = 0; i < b.length; i++) s += String.fromCharCode(b[i]);
+      return btoa(s);
+    })()`)) as string;
+    writeFileSync(`${ARTIFACTS}/bandview-export.png`, Buffer.from(pngBase64, 'base64'));
     const png = (await v.page.evaluate(`(function () {
       var m = window.__posted.filter(function (x) { return x.type === 'export'; })[1];
       var b = m.data; var dv = new DataView(b.buffer, b.byteOffset, b.byteLength);

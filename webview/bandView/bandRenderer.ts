@@ -70,6 +70,13 @@ export class BandRenderer {
     this.canvas.style.height = `${height}px`;
   }
 
+  clear(): void {
+    const ctx = this.canvas.getContext('2d');
+    if (!ctx) return;
+    ctx.setTransform(1, 0, 0, 1, 0, 0);
+    ctx.clearRect(0, 0, this.canvas.width, this.canvas.height);
+  }
+
   draw(req: DrawRequest): DrawStats {
     const ctx = this.canvas.getContext('2d');
     if (!ctx) throw new Error('band view: no 2D canvas context');

@@ -139,8 +139,8 @@ export function buildExportSvg(input: ExportInput): { svg: string; width: number
     const px = x(vm.distance[mk.kIndex]!);
     const py = y(mk.eV - reference.offset);
     if (px < m.left || px > m.left + pw || py < m.top || py > m.top + ph) continue;
-    const shape = mk.kind === 'vbm' || mk.kind === 'cbm' ? edgeMarkerPath(3) : secondaryMarkerPath(isMaximumKind(mk.kind), 3);
-    parts.push(`<path transform="translate(${f(px)},${f(py)})" d="${shape}" stroke="${PRINT.ink}" stroke-width="0.7"/>`);
+    const shape = mk.kind === 'vbm' || mk.kind === 'cbm' ? edgeMarkerPath(2.2, 1.8, 1.2) : secondaryMarkerPath(isMaximumKind(mk.kind), 2);
+    parts.push(`<path transform="translate(${f(px)},${f(py)})" d="${shape}" stroke="${PRINT.ink}" stroke-width="0.5" fill="none"/>`);
   }
   parts.push(`</g>`);
   // Frame and axes.

@@ -320,6 +320,9 @@ export class BandViewApp {
         break;
       case HostToViewType.LoadFailed:
         this.vm = null;
+        this.fit = null;
+        this.selected = null;
+        this.panel.showHint('No band structure is loaded.');
         this.showMessage(m.message);
         this.render();
         break;
@@ -521,6 +524,8 @@ export class BandViewApp {
     if (!vm || pw <= 0 || ph <= 0) {
       this.svg.selectAll('*').remove();
       this.renderer.resize(Math.max(1, pw), Math.max(1, ph), window.devicePixelRatio || 1);
+      this.renderer.clear();
+      this.lastDraw = null;
       return 0;
     }
     const t0 = performance.now();
@@ -584,7 +589,9 @@ export class BandViewApp {
       const f = this.fit;
       const e0 = f.extremum.eV - off;
       const sign = isMaximumKind(f.extremum.kind) ? -1 : 1;
-      const yw = zy(e0 + (sign * f.window_meV) / 1000);
+      // The window the fit actually used (the engine widens it when too few points fall inside).
+      const used = f.extremum.masses.length ? Math.max(...f.extremum.masses.map((m) => m.window_meV)) : f.window_meV;
+      const yw = zy(e0 + (sign * used) / 1000);
       plotG.append('line').attr('class', 'vs-fit-window').attr('x1', MARGIN.left).attr('x2', MARGIN.left + pw).attr('y1', yw).attr('y2', yw);
       for (const c of f.curves) {
         const xs = c.distance;

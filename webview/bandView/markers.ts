@@ -5,11 +5,11 @@
  * - selection: a dashed ring drawn by the caller.
  */
 
-/** Ring of radius r with diagonal ticks from r+2 to r+5. */
-export function edgeMarkerPath(r = 5): string {
+/** Ring of radius r with diagonal ticks from r + gap to r + gap + tick. */
+export function edgeMarkerPath(r = 5, tick = 3, gap = 2): string {
   const ring = `M${r},0A${r},${r} 0 1,1 ${-r},0A${r},${r} 0 1,1 ${r},0Z`;
-  const a = (r + 2) / Math.SQRT2;
-  const b = (r + 5) / Math.SQRT2;
+  const a = (r + gap) / Math.SQRT2;
+  const b = (r + gap + tick) / Math.SQRT2;
   const f = (n: number): string => n.toFixed(2);
   const ticks = [
     [a, a, b, b],
