@@ -216,6 +216,13 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     const cbm = mark(run, 'cbm');
     await v.hostPost(hostFitResult(run, req.requestId as number, cbm, 60, 'parabola', false));
     await waitForExpression(v.page, `document.querySelector('.vs-provenance').textContent.indexOf('window 60') >= 0`);
+    // Changing the method refits at once, with a new window scan.
+    await v.page.evaluate(`(function () { var s = document.querySelector('vscode-single-select.vs-method'); s.value = 'fd5'; s.dispatchEvent(new Event('change')); })()`);
+    const byMethod = await waitPosted(v, 'requestFit', 3);
+    assert.equal(byMethod.method, 'fd5');
+    assert.equal(byMethod.window_meV, 60);
+    assert.equal(byMethod.withScan, true);
+    assert.ok(isViewToHostMessage(byMethod));
     // The window line sits 60 meV above the CBM.
     const y = Number(await v.page.locator('line.vs-fit-window').getAttribute('y1'));
     const expected = (await v.page.evaluate(`(function () { var a = window.valleyscopeBandView; var s = a.screenOf(${cbm.spin}, ${cbm.kIndex}, ${cbm.band0}); return s.y; })()`)) as number;
@@ -269,6 +276,15 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     const req = await waitPosted(v, 'requestFit', 1);
     assert.deepEqual({ spin: req.spin, kIndex: req.kIndex, band0: req.band0 }, down);
     assert.ok(isViewToHostMessage(req));
+    // + and − zoom about the centre, 0 resets.
+    await v.page.keyboard.press('+');
+    assert.equal(await v.page.evaluate('window.valleyscopeBandView.transform.k'), 1.5);
+    await v.page.keyboard.press('-');
+    await v.page.keyboard.press('-');
+    assert.ok(Math.abs(((await v.page.evaluate('window.valleyscopeBandView.transform.k')) as number) - 1) < 1e-9, 'zoom never goes below the whole path');
+    await v.page.keyboard.press('+');
+    await v.page.keyboard.press('0');
+    assert.equal(await v.page.evaluate('window.valleyscopeBandView.transform.k'), 1);
     await assertClean(v);
     await v.page.close();
   });

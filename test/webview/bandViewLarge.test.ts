@@ -32,6 +32,8 @@ describe('band view: large runs and spin channels (headless Chromium)', function
     await v.page.evaluate(`window.__hostPost((${FOLDED_CHAIN_SOURCE})(500, 4000))`);
     await waitForExpression(v.page, 'window.valleyscopeBandView.lastDraw !== null', 30_000);
     assert.equal(await v.page.evaluate('window.valleyscopeBandView.lastDraw.mode'), 'envelope');
+    // A metal (no gap, no VBM): the energy zero is the Fermi level the data gives.
+    assert.equal(await v.page.locator('.vs-y-title').textContent(), 'E − EF (eV)');
     const env = (await v.page.evaluate('__t.extents()')) as { top: number[]; bottom: number[] };
     await v.page.evaluate(`window.valleyscopeBandView.render('lines')`);
     const full = (await v.page.evaluate('__t.extents()')) as { top: number[]; bottom: number[] };
