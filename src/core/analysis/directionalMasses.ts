@@ -49,6 +49,15 @@ export function toMassFit(fit: CurvatureFit, ray: Ray, branch?: number): MassFit
   return m;
 }
 
+/** k ≡ −k modulo a reciprocal lattice vector (2k integer): E is even along every line through it. */
+export function isTimeReversalInvariant(bs: BandStructure, kIndex: number): boolean {
+  for (let c = 0; c < 3; c++) {
+    const twice = 2 * bs.kpoints[3 * kIndex + c]!;
+    if (Math.abs(twice - Math.round(twice)) > 1e-6) return false;
+  }
+  return true;
+}
+
 export function directionalMasses(bs: BandStructure, spin: number, group: number[], band: number, rays: Ray[], s: DirectionalSettings): DirectionalResult {
   const masses: MassFit[] = [];
   const fits: CurvatureFit[] = [];
@@ -56,9 +65,10 @@ export function directionalMasses(bs: BandStructure, spin: number, group: number
   const warnings: string[] = [];
   let crossed = false;
   const fitSettings = { window_meV: s.window_meV, energySigma: s.energySigma };
+  const even = rays.length > 0 && rays[0]!.indices.length > 0 && isTimeReversalInvariant(bs, rays[0]!.indices[0]!);
   for (const ray of rays) {
     if (group.length <= 1) {
-      const samples: LineSamples = { t: ray.t, e: bandAlong(bs, spin, band, ray) };
+      const samples: LineSamples = { t: ray.t, e: bandAlong(bs, spin, band, ray), even };
       const opp = oppositeRay(rays, ray);
       if (opp) samples.back = { t: opp.t, e: bandAlong(bs, spin, band, opp) };
       const out = fitCurvature(s.method, samples, fitSettings);
@@ -76,7 +86,7 @@ export function directionalMasses(bs: BandStructure, spin: number, group: number
     const order = trace.energies.map((_, j) => j);
     if (valenceLike) order.reverse();
     order.forEach((j, rank) => {
-      const out = fitCurvature(s.method, { t: ray.t, e: trace.energies[j]! }, fitSettings);
+      const out = fitCurvature(s.method, { t: ray.t, e: trace.energies[j]!, even }, fitSettings);
       if (out.fit) {
         masses.push(toMassFit(out.fit, ray, rank + 1));
         fits.push(out.fit);

@@ -1,4 +1,5 @@
 import assert from 'node:assert/strict';
+import type { Mat3 } from '../../../src/core/model';
 import { pathGeometry } from '../../../src/core/lattice/kpath';
 import { fccLattice, line, makeBands } from '../../support/bandStructure';
 
@@ -69,7 +70,7 @@ describe('k-path geometry, corner cases', () => {
 
   it('legs of different point densities are not jumps', () => {
     // Tetragonal a = 3 Å, c = 40 Å: three short legs along c, then a long in-plane leg with as many points.
-    const lat: [number, number, number][] = [[3, 0, 0], [0, 3, 0], [0, 0, 40]];
+    const lat: Mat3 = [[3, 0, 0], [0, 3, 0], [0, 0, 40]];
     const Z = [0, 0, 0.5];
     const kpts = [...line(G, Z, 6), ...line(Z, G, 6).slice(1), ...line(G, Z, 6).slice(1), ...line(Z, [0.5, 0, 0.5], 6).slice(1)];
     const g = pathGeometry(makeBands({ kpoints: kpts, energies: [kpts.map(() => [0])], lattice: lat }));

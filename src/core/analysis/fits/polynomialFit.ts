@@ -15,6 +15,7 @@ export interface PolynomialOptions {
 }
 
 export function polynomialCurvature(s: LineSamples, settings: FitSettings, opt: PolynomialOptions): CurvatureFit | null {
+  if (s.even) return evenPolynomialCurvature(s, settings, opt);
   const what = opt.degree === 2 ? 'parabola fit' : `degree-${opt.degree} polynomial fit`;
   const win = chooseWindow(s, settings.window_meV, opt.minPoints, what);
   const n = win.n;
@@ -83,6 +84,57 @@ export function polynomialCurvature(s: LineSamples, settings: FitSettings, opt: 
     residual_meV: rms,
     vertexT: tv,
     vertexE,
+    warnings,
+  };
+}
+
+/**
+ * Where symmetry makes E even in t (a time-reversal-invariant k): E = c0 + c2 t² (+ c4 t⁴), the vertex
+ * fixed at the sampled point. Two fewer unknowns than the free-vertex fit, so fewer points suffice and the
+ * window need not grow as far on a coarse path (where a light band's third point can lie hundreds of meV up).
+ */
+function evenPolynomialCurvature(s: LineSamples, settings: FitSettings, opt: PolynomialOptions): CurvatureFit | null {
+  const even = opt.degree === 2 ? 2 : 3; // unknowns: c0, c2 (, c4)
+  const minPoints = Math.max(even + 1, opt.minPoints - (opt.degree + 1 - even));
+  const what = `${opt.degree === 2 ? 'parabola' : 'quartic'} fit (vertex fixed by symmetry)`;
+  const win = chooseWindow(s, settings.window_meV, minPoints, what);
+  const n = win.n;
+  if (n < even + 1 && !(n === even && n >= 2)) return null;
+  const tmax = s.t[n - 1]!;
+  if (!(tmax > 0)) return null;
+  const a = new Float64Array(n * even);
+  const y = new Float64Array(n);
+  const e0 = s.e[0]!;
+  for (let i = 0; i < n; i++) {
+    const u2 = (s.t[i]! / tmax) ** 2;
+    a[i * even] = 1;
+    a[i * even + 1] = u2;
+    if (even === 3) a[i * even + 2] = u2 * u2;
+    y[i] = s.e[i]! - e0;
+  }
+  const fit = leastSquares(a, y, n, even, settings.energySigma ** 2);
+  if (!fit) return null;
+  const c2 = fit.coef[1]! / (tmax * tmax);
+  const curvature = 2 * c2;
+  const curvatureStderr = (2 * Math.sqrt(Math.max(fit.cov[1 * even + 1]!, 0))) / (tmax * tmax);
+  const mass = curvatureToMass(curvature);
+  const stderr = Math.abs(mass) * (curvatureStderr / Math.abs(curvature));
+  const rms = Math.sqrt(fit.rss / n) * 1000;
+  const warnings = [...win.warnings];
+  if (rms > Math.max(0.04 * win.window_meV, 3000 * settings.energySigma, 0.05)) {
+    warnings.push(`Fit residual ${rms.toFixed(2)} meV in a ${win.window_meV.toFixed(0)} meV window: the band is not parabolic there (try a smaller window, or the poly4 or kane method).`);
+  }
+  return {
+    method: opt.method,
+    curvature,
+    curvatureStderr,
+    mass,
+    stderr,
+    points: n,
+    window_meV: win.window_meV,
+    residual_meV: rms,
+    vertexT: 0,
+    vertexE: e0 + fit.coef[0]!,
     warnings,
   };
 }

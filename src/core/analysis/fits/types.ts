@@ -9,6 +9,11 @@ export interface LineSamples {
   t: Float64Array;
   e: Float64Array;
   back?: { t: Float64Array; e: Float64Array };
+  /**
+   * True when symmetry fixes the vertex at t = 0: at a time-reversal-invariant k (k ≡ −k modulo G, e.g. Γ,
+   * X, L) E(k0 + q) = E(k0 − q), so E is even along every line through k0 and has no odd terms.
+   */
+  even?: boolean;
 }
 
 export interface FitSettings {
