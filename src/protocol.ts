@@ -508,3 +508,208 @@ export function isHostToViewMessage(x: unknown): x is HostToViewMessage {
 
 /** Re-exported so both sides can name what a fit returns without reaching into the core. */
 export type { ExtremumReport, MassFit, Report, Vec3 };
+
+// ---------------------------------------------------------------------------------------------------------
+// Compare view: messages between the host and the compare view (webview/compareView). Own type names
+// (prefixed "compare") and an own validator, so neither view can be sent the other's messages.
+
+export const CompareHostToViewType = {
+  /** Runs found so far and how many are still being read. */
+  Progress: 'compareProgress',
+  /** The table: one row per run, the numeric columns, events and cautions. */
+  Table: 'compareTable',
+  /** Band data for the runs the view asked to overlay. */
+  Bands: 'compareBands',
+  /** A sentence for the status line (e.g. a run that could not be opened). */
+  Notice: 'compareNotice',
+} as const;
+export type CompareHostToViewType = (typeof CompareHostToViewType)[keyof typeof CompareHostToViewType];
+
+export const CompareViewToHostType = {
+  Ready: 'compareReady',
+  /** Look for runs again and re-read them. */
+  Rescan: 'compareRescan',
+  /** Take differences against this run. */
+  SetReference: 'compareSetReference',
+  /** List annotations files as runs of their own (true) or only beside their data runs (false). */
+  SetAnnotationsAsRuns: 'compareSetAnnotationsAsRuns',
+  /** Send band data of these runs (overlay). */
+  RequestBands: 'compareRequestBands',
+  /** Open a run: its band view, or its file in an editor. */
+  OpenRun: 'compareOpenRun',
+  ViewError: 'compareViewError',
+} as const;
+export type CompareViewToHostType = (typeof CompareViewToHostType)[keyof typeof CompareViewToHostType];
+
+/** A numeric column of the compare table (also a y quantity of the trend plot). */
+export interface CompareColumn {
+  key: string;
+  /** Header text. */
+  label: string;
+  /** Unit shown after the header, '' when none. */
+  unit: string;
+  /** What the column is about, for grouping and the trend plot's choices. */
+  group: 'edge' | 'mass' | 'valley' | 'structure';
+  /** Longer explanation (tooltip). */
+  title: string;
+  /** Decimals to show. */
+  decimals: number;
+}
+
+export interface CompareRow {
+  /** Stable within one table ("r0", "r1", …). */
+  id: string;
+  /** Workspace-relative path of the run's file (data file, or annotations file). */
+  name: string;
+  origin: 'data' | 'annotations';
+  isReference: boolean;
+  /** An annotations file exists beside the data file (data rows) or is this row (annotations rows). */
+  annotations: 'none' | 'current' | 'stale';
+  staleReasons: string[];
+  /** The run could not be read or analysed: the sentence why (all numbers null). */
+  error: string | null;
+  metal: boolean | null;
+  direct: boolean | null;
+  /** Where the edges are (label or fractional k as text). */
+  vbm: string | null;
+  cbm: string | null;
+  /** Valley id (see `valleys`) of the CBM and VBM, for spotting an edge that moved. */
+  cbmValley: string | null;
+  vbmValley: string | null;
+  /** Column key → value (null when the run has no such number). */
+  values: Record<string, number | null>;
+  /** Band data can be drawn for this run (a readable data file). */
+  canOverlay: boolean;
+}
+
+export interface CompareTable {
+  reference: string | null;
+  columns: CompareColumn[];
+  /** Column keys usable as the trend plot's x axis (structural descriptors). */
+  descriptorKeys: string[];
+  rows: CompareRow[];
+  /** What changed relative to the reference, one sentence each, with the row it is about. */
+  events: { rowId: string; kind: string; message: string }[];
+  /** Cautions shown beside the numbers. */
+  cautions: string[];
+  annotationsAsRuns: boolean;
+}
+
+export interface CompareBandRun {
+  rowId: string;
+  title: string;
+  nk: number;
+  nBands: number;
+  nSpin: 1 | 2;
+  distance: EncodedArray;
+  energies: EncodedArray[];
+  ticks: PathTickData[];
+  segments: PathSegmentData[];
+  /** The energy the run is aligned at (its VBM; its Fermi level when no gap is known), eV raw. */
+  align_eV: number | null;
+  alignedAt: 'vbm' | 'fermi' | 'none';
+  distanceUnits: BandData['distanceUnits'];
+}
+
+export interface CompareProgressMessage {
+  type: typeof CompareHostToViewType.Progress;
+  found: number;
+  done: number;
+  message: string;
+}
+export interface CompareTableMessage {
+  type: typeof CompareHostToViewType.Table;
+  table: CompareTable;
+  environment: EnvironmentData;
+}
+export interface CompareBandsMessage {
+  type: typeof CompareHostToViewType.Bands;
+  requestId: number;
+  runs: CompareBandRun[];
+  /** Rows asked for that could not be drawn, with the reason. */
+  missing: { rowId: string; reason: string }[];
+}
+export interface CompareNoticeMessage {
+  type: typeof CompareHostToViewType.Notice;
+  message: string;
+}
+export type CompareHostToViewMessage = CompareProgressMessage | CompareTableMessage | CompareBandsMessage | CompareNoticeMessage;
+
+export interface CompareReadyMessage {
+  type: typeof CompareViewToHostType.Ready;
+}
+export interface CompareRescanMessage {
+  type: typeof CompareViewToHostType.Rescan;
+}
+export interface CompareSetReferenceMessage {
+  type: typeof CompareViewToHostType.SetReference;
+  rowId: string;
+}
+export interface CompareSetAnnotationsAsRunsMessage {
+  type: typeof CompareViewToHostType.SetAnnotationsAsRuns;
+  value: boolean;
+}
+export interface CompareRequestBandsMessage {
+  type: typeof CompareViewToHostType.RequestBands;
+  requestId: number;
+  rowIds: string[];
+}
+export interface CompareOpenRunMessage {
+  type: typeof CompareViewToHostType.OpenRun;
+  rowId: string;
+  target: 'bandView' | 'file';
+}
+export interface CompareViewErrorMessage {
+  type: typeof CompareViewToHostType.ViewError;
+  message: string;
+}
+export type CompareViewToHostMessage =
+  | CompareReadyMessage
+  | CompareRescanMessage
+  | CompareSetReferenceMessage
+  | CompareSetAnnotationsAsRunsMessage
+  | CompareRequestBandsMessage
+  | CompareOpenRunMessage
+  | CompareViewErrorMessage;
+
+/** At most this many runs are overlaid at once. */
+export const COMPARE_MAX_OVERLAY = 8;
+
+function isRowId(x: unknown): x is string {
+  return typeof x === 'string' && /^r\d{1,6}$/.test(x);
+}
+
+/** True when `x` is a well-formed message from the compare view (known type, known fields, bounded values). */
+export function isCompareViewToHostMessage(x: unknown): x is CompareViewToHostMessage {
+  if (!isObj(x) || typeof x.type !== 'string') return false;
+  const m = x;
+  switch (m.type) {
+    case CompareViewToHostType.Ready:
+    case CompareViewToHostType.Rescan:
+      return onlyKeys(m, ['type']);
+    case CompareViewToHostType.SetReference:
+      return onlyKeys(m, ['type', 'rowId']) && isRowId(m.rowId);
+    case CompareViewToHostType.SetAnnotationsAsRuns:
+      return onlyKeys(m, ['type', 'value']) && typeof m.value === 'boolean';
+    case CompareViewToHostType.RequestBands:
+      return (
+        onlyKeys(m, ['type', 'requestId', 'rowIds']) &&
+        isRequestId(m.requestId) &&
+        Array.isArray(m.rowIds) &&
+        m.rowIds.length <= COMPARE_MAX_OVERLAY &&
+        m.rowIds.every(isRowId)
+      );
+    case CompareViewToHostType.OpenRun:
+      return onlyKeys(m, ['type', 'rowId', 'target']) && isRowId(m.rowId) && (m.target === 'bandView' || m.target === 'file');
+    case CompareViewToHostType.ViewError:
+      return onlyKeys(m, ['type', 'message']) && typeof m.message === 'string' && m.message.length <= MESSAGE_LIMITS.maxErrorChars;
+    default:
+      return false;
+  }
+}
+
+/** The view side's check on what the host sends. */
+export function isCompareHostToViewMessage(x: unknown): x is CompareHostToViewMessage {
+  if (!isObj(x) || typeof x.type !== 'string') return false;
+  return (Object.values(CompareHostToViewType) as string[]).includes(x.type);
+}

@@ -15,6 +15,7 @@ import { GapStatusItem } from './statusBar';
 import { BandViewPanels } from './bandViewPanels';
 import { registerCommands } from './commands';
 import { makeFitService } from './fitService';
+import { registerCompareView } from './compareViewPanel';
 
 export function activate(context: vscode.ExtensionContext): void {
   const log = vscode.window.createOutputChannel('Valleyscope', { log: true });
@@ -49,6 +50,7 @@ export function activate(context: vscode.ExtensionContext): void {
     vscode.languages.registerCodeLensProvider(selector, lenses),
     vscode.languages.registerCodeLensProvider({ pattern: '**/*.valleys.json' }, new AnnotationsCodeLensProvider()),
     registerCommands(store, panels, { settings: () => settings(), fits, toolVersion, log }),
+    registerCompareView({ store, extensionUri: context.extensionUri, log, settings }),
     vscode.workspace.onDidOpenTextDocument(loadIfOurs),
     vscode.workspace.onDidCloseTextDocument((doc) => {
       // Free the memory of a run nobody looks at any more.

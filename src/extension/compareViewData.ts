@@ -1,0 +1,172 @@
+/**
+ * The compare view's table, built from the core's comparison (src/core/compare/compareRuns.ts): one row per
+ * run, numeric columns for the gap, the edges' N_v and averaged masses, the edges' directional masses, every
+ * matched valley's offset and masses, and the structural descriptors that serve as trend x-axes. Pure (no
+ * `vscode`): the panel gathers the runs, this file only arranges numbers the core computed.
+ */
+import { compareRuns, type ComparedRun, type Comparison, type RunInput } from '../core/compare/compareRuns';
+import type { ExtremumReport, MassFit } from '../core/model';
+import type { CompareColumn, CompareRow, CompareTable } from '../protocol';
+
+/** One run as the panel found it. */
+export interface CompareEntry {
+  /** Row id ("r0", …), stable while the panel lives. */
+  id: string;
+  /** Workspace-relative path shown to the user. */
+  name: string;
+  origin: 'data' | 'annotations';
+  annotations: 'none' | 'current' | 'stale';
+  staleReasons: string[];
+  /** Null when it could not be read (then `error` says why). */
+  run: RunInput | null;
+  error: string | null;
+  canOverlay: boolean;
+}
+
+export const COMPARE_CAUTIONS = [
+  'Gaps from semilocal DFT (LDA/GGA) are usually too small, often by 30–50 %; compare gaps only between runs made with the same method.',
+  'Effective masses depend on the functional, on spin–orbit coupling and on strain; compare masses between runs that differ in one of these only.',
+  'Masses are signed curvature masses in mₑ (negative at a maximum). Each comes from a fit: its window and points are in the run’s band view.',
+];
+const ANNOTATIONS_CAUTION = 'Rows from annotations files show the numbers as they were saved; a stale one no longer matches its data files.';
+
+/** Structural descriptors offered as trend x-axes, in this order. */
+export const DESCRIPTOR_COLUMNS: CompareColumn[] = [
+  { key: 'volumeStrain', label: 'Volume strain', unit: '%', group: 'structure', title: 'Cell volume relative to the reference run, minus one (per cent).', decimals: 3 },
+  { key: 'hydrostaticStrain', label: 'Hydrostatic strain', unit: '%', group: 'structure', title: 'Mean of the diagonal Green–Lagrange strain relative to the reference run (per cent).', decimals: 3 },
+  { key: 'volume', label: 'Volume', unit: 'Å³', group: 'structure', title: 'Cell volume of the run’s structure.', decimals: 3 },
+  { key: 'a', label: 'a', unit: 'Å', group: 'structure', title: 'Length of the first lattice vector.', decimals: 4 },
+  { key: 'c', label: 'c', unit: 'Å', group: 'structure', title: 'Length of the third lattice vector.', decimals: 4 },
+];
+
+const EDGE_COLUMNS: CompareColumn[] = [
+  { key: 'gap', label: 'Gap', unit: 'eV', group: 'edge', title: 'Fundamental gap (CBM − VBM).', decimals: 4 },
+  { key: 'deltaGap', label: 'Δ gap', unit: 'eV', group: 'edge', title: 'Gap minus the reference run’s gap.', decimals: 4 },
+  { key: 'directGap', label: 'Direct gap', unit: 'eV', group: 'edge', title: 'Smallest direct gap.', decimals: 4 },
+  { key: 'cbm.nv', label: 'CBM N_v', unit: '', group: 'edge', title: 'Valley degeneracy of the conduction band minimum (size of the star of k).', decimals: 0 },
+  { key: 'cbm.dos', label: 'CBM m_dos', unit: 'mₑ', group: 'mass', title: 'Density-of-states mass of the CBM valley, N_v^(2/3)(m1 m2 m3)^(1/3).', decimals: 3 },
+  { key: 'cbm.cond', label: 'CBM m_c', unit: 'mₑ', group: 'mass', title: 'Conductivity mass of the CBM valley, 3/(1/m1 + 1/m2 + 1/m3).', decimals: 3 },
+  { key: 'vbm.nv', label: 'VBM N_v', unit: '', group: 'edge', title: 'Valley degeneracy of the valence band maximum.', decimals: 0 },
+  { key: 'vbm.dos', label: 'VBM m_dos', unit: 'mₑ', group: 'mass', title: 'Density-of-states mass at the VBM.', decimals: 3 },
+  { key: 'vbm.cond', label: 'VBM m_c', unit: 'mₑ', group: 'mass', title: 'Conductivity mass at the VBM.', decimals: 3 },
+];
+
+/** Masses of an extremum keyed by direction: "Γ", or "X·2" for branch 2 (or the second fit towards X). */
+export function massKeys(masses: readonly MassFit[]): { key: string; text: string; mass: number }[] {
+  const seen = new Map<string, number>();
+  return masses.map((m) => {
+    const n = (seen.get(m.towards) ?? 0) + 1;
+    seen.set(m.towards, n);
+    const part = m.branch ?? n;
+    const repeated = m.branch !== undefined ? masses.filter((x) => x.towards === m.towards).length > 1 : n > 1;
+    return { key: repeated || part > 1 ? `${m.towards}·${part}` : m.towards, text: repeated || part > 1 ? `→ ${m.towards} (branch ${part})` : `→ ${m.towards}`, mass: m.mass };
+  });
+}
+
+function pushColumn(cols: CompareColumn[], seen: Set<string>, c: CompareColumn): void {
+  if (seen.has(c.key)) return;
+  seen.add(c.key);
+  cols.push(c);
+}
+
+function edgeOf(run: ComparedRun, kind: 'cbm' | 'vbm'): ExtremumReport | null {
+  const id = kind === 'cbm' ? run.cbmValley : run.vbmValley;
+  return id ? (run.valleys[id]?.extremum ?? null) : null;
+}
+
+function valuesOf(c: Comparison, run: ComparedRun, report: RunInput['report']): Record<string, number | null> {
+  const v: Record<string, number | null> = {};
+  v.gap = run.metal ? 0 : run.gap_eV;
+  v.deltaGap = run.deltaGap_eV;
+  v.directGap = report.gap ? report.gap.directGap.eV : null;
+  for (const kind of ['cbm', 'vbm'] as const) {
+    const e = edgeOf(run, kind);
+    v[`${kind}.nv`] = e?.valleyDegeneracy ?? null;
+    v[`${kind}.dos`] = e?.dosMass ?? null;
+    v[`${kind}.cond`] = e?.conductivityMass ?? null;
+    if (e) for (const m of massKeys(e.masses)) v[`${kind}.m.${m.key}`] = m.mass;
+  }
+  for (const col of c.columns) {
+    const entry = run.valleys[col.id];
+    if (!entry) continue;
+    v[`valley.${col.id}.offset`] = entry.offset_eV * 1000;
+    for (const m of massKeys(entry.extremum.masses)) v[`valley.${col.id}.m.${m.key}`] = m.mass;
+  }
+  const d = run.descriptors;
+  v.volume = d?.volume ?? null;
+  v.a = d?.a ?? null;
+  v.c = d?.c ?? null;
+  v.volumeStrain = d?.volumeStrain === null || d?.volumeStrain === undefined ? null : d.volumeStrain * 100;
+  v.hydrostaticStrain = d?.hydrostaticStrain === null || d?.hydrostaticStrain === undefined ? null : d.hydrostaticStrain * 100;
+  return v;
+}
+
+/** The table for the view. `referenceId`: the row the differences are taken against (default: the first readable). */
+export function buildCompareTable(entries: readonly CompareEntry[], referenceId: string | null, annotationsAsRuns: boolean): CompareTable {
+  const readable = entries.filter((e) => e.run !== null);
+  const ref = referenceId && readable.some((e) => e.id === referenceId) ? referenceId : (readable[0]?.id ?? null);
+  const c: Comparison = readable.length ? compareRuns(readable.map((e) => ({ ...e.run!, name: e.id })), ref ?? undefined) : { reference: '', columns: [], runs: [], events: [] };
+  const byId = new Map(c.runs.map((r) => [r.name, r]));
+  const reportById = new Map(readable.map((e) => [e.id, e.run!.report]));
+
+  const columns: CompareColumn[] = [];
+  const seen = new Set<string>();
+  for (const col of EDGE_COLUMNS) pushColumn(columns, seen, col);
+  // Directional masses at each run's own edges (the valley may differ run to run: see the CBM column).
+  for (const kind of ['cbm', 'vbm'] as const) {
+    for (const r of c.runs) {
+      const e = edgeOf(r, kind);
+      if (!e) continue;
+      for (const m of massKeys(e.masses)) {
+        pushColumn(columns, seen, { key: `${kind}.m.${m.key}`, label: `${kind.toUpperCase()} m* ${m.text}`, unit: 'mₑ', group: 'mass', title: `Signed curvature mass at the ${kind.toUpperCase()} along the path ${m.text.replace('→', 'towards')}.`, decimals: 3 });
+      }
+    }
+  }
+  // Every matched valley: its distance from the edge and its masses, the same valley in every run.
+  for (const col of c.columns) {
+    const name = `${col.id} (${col.side === 'conduction' ? 'cond.' : 'val.'} ${col.where}${col.branch ? `, branch ${col.branch + 1}` : ''})`;
+    pushColumn(columns, seen, { key: `valley.${col.id}.offset`, label: `${name} offset`, unit: 'meV', group: 'valley', title: `Energy of valley ${col.id} from the band edge on its side (0 when it is the edge).`, decimals: 1 });
+    for (const r of c.runs) {
+      const entry = r.valleys[col.id];
+      if (!entry) continue;
+      for (const m of massKeys(entry.extremum.masses)) {
+        pushColumn(columns, seen, { key: `valley.${col.id}.m.${m.key}`, label: `${name} m* ${m.text}`, unit: 'mₑ', group: 'valley', title: `Signed curvature mass in valley ${col.id} ${m.text.replace('→', 'towards')}.`, decimals: 3 });
+      }
+    }
+  }
+  for (const col of DESCRIPTOR_COLUMNS) pushColumn(columns, seen, col);
+
+  const rows: CompareRow[] = entries.map((e) => {
+    const r = byId.get(e.id);
+    return {
+      id: e.id,
+      name: e.name,
+      origin: e.origin,
+      isReference: e.id === ref,
+      annotations: e.annotations,
+      staleReasons: e.staleReasons,
+      error: e.error,
+      metal: r?.metal ?? null,
+      direct: r?.direct ?? null,
+      vbm: r?.vbm ?? null,
+      cbm: r?.cbm ?? null,
+      cbmValley: r?.cbmValley ?? null,
+      vbmValley: r?.vbmValley ?? null,
+      values: r ? valuesOf(c, r, reportById.get(e.id)!) : {},
+      canOverlay: e.canOverlay,
+    };
+  });
+  // Columns no run has a number for are left out (e.g. strain with a single run).
+  const used = columns.filter((col) => rows.some((row) => typeof row.values[col.key] === 'number' && Number.isFinite(row.values[col.key])));
+  const cautions = [...COMPARE_CAUTIONS];
+  if (entries.some((e) => e.origin === 'annotations' || e.annotations !== 'none')) cautions.push(ANNOTATIONS_CAUTION);
+  return {
+    reference: ref,
+    columns: used,
+    descriptorKeys: DESCRIPTOR_COLUMNS.map((d) => d.key).filter((k) => used.some((u) => u.key === k)),
+    rows,
+    events: c.events.filter((ev) => ev.kind !== 'stale').map((ev) => ({ rowId: ev.run, kind: ev.kind, message: ev.message })),
+    cautions,
+    annotationsAsRuns,
+  };
+}

@@ -1,0 +1,376 @@
+/**
+ * The compare view, host side: one panel for the workspace. Finds the runs (compareViewRuns.ts), has the run
+ * store read and analyse each data file (the same runner and worker as the band view), reads annotations
+ * files as runs (src/core/compare/loadAnnotationsRun.ts), builds the table (compareViewData.ts), sends band
+ * data for overlays, and opens runs. Every message from the view is validated against the protocol first.
+ */
+import * as vscode from 'vscode';
+import {
+  COMPARE_MAX_OVERLAY,
+  CompareHostToViewType,
+  CompareViewToHostType,
+  encodeArray,
+  isCompareViewToHostMessage,
+  type CompareBandRun,
+  type CompareHostToViewMessage,
+  type CompareViewToHostMessage,
+} from '../protocol';
+import type { RunStore } from './runStore';
+import type { LoadedRun } from './runLoader';
+import type { ExtensionSettings } from './settings';
+import { bandViewHtml, makeNonce } from './bandViewHtml';
+import { environmentFor } from './trust';
+import { COMMANDS } from './commandIds';
+import { findWorkspaceRuns } from './compareViewRuns';
+import { buildCompareTable, type CompareEntry } from './compareViewData';
+import { WorkspaceFileAccessor } from './fileAccessor';
+import { loadAnnotationsRun, type LoadedAnnotationsRun } from '../core/compare/loadAnnotationsRun';
+import { dataPathFor } from '../core/annotations/annotationsModel';
+import { crystalSymmetry, symmetryReady } from '../core/lattice/symmetry';
+import { F64_ENERGY_LIMIT } from './bandData';
+import type { Mat3 } from '../core/model';
+
+export const COMPARE_VIEW_TYPE = 'valleyscope.compareView';
+export const OPEN_COMPARE_VIEW_COMMAND = 'valleyscope.openCompareView';
+const TITLE = 'Valleyscope: Run Comparison';
+
+export interface CompareDeps {
+  store: RunStore;
+  extensionUri: vscode.Uri;
+  log: vscode.LogOutputChannel;
+  settings: () => ExtensionSettings;
+}
+
+interface Found {
+  entry: CompareEntry;
+  /** The eigenvalue file to draw and open in a band view (null when there is none). */
+  dataUri: vscode.Uri | null;
+  /** The file opened by "open file". */
+  fileUri: vscode.Uri;
+}
+
+function message(e: unknown): string {
+  return e instanceof Error ? e.message : String(e);
+}
+
+function rotationsOf(run: LoadedRun): Mat3[] | null {
+  if (!run.bs.structure || !symmetryReady()) return null;
+  try {
+    return crystalSymmetry(run.bs.structure).rotations;
+  } catch {
+    return null;
+  }
+}
+
+export class CompareViewPanel implements vscode.Disposable {
+  private static current: CompareViewPanel | null = null;
+  private readonly subs: vscode.Disposable[] = [];
+  private ready = false;
+  private disposed = false;
+  private found: Found[] = [];
+  private referenceId: string | null = null;
+  private annotationsAsRuns = false;
+  private scan: vscode.CancellationTokenSource | null = null;
+  private rebuildTimer: ReturnType<typeof setTimeout> | null = null;
+  /** Tests and the editor scenarios read how many runs the last table had. */
+  lastRowCount = 0;
+
+  private constructor(
+    readonly panel: vscode.WebviewPanel,
+    private readonly deps: CompareDeps,
+  ) {
+    this.subs.push(
+      panel.webview.onDidReceiveMessage((m: unknown) => void this.receive(m)),
+      panel.onDidDispose(() => this.dispose()),
+      // A run re-read (file changed, settings changed): rebuild the table once things settle.
+      deps.store.onDidChange((uri) => {
+        if (this.found.some((f) => f.dataUri?.toString() === uri.toString())) this.scheduleRebuild();
+      }),
+      vscode.window.onDidChangeActiveColorTheme(() => this.scheduleRebuild()),
+    );
+  }
+
+  static async show(deps: CompareDeps): Promise<CompareViewPanel> {
+    if (CompareViewPanel.current) {
+      CompareViewPanel.current.panel.reveal(undefined, false);
+      return CompareViewPanel.current;
+    }
+    const root = vscode.Uri.joinPath(deps.extensionUri, 'dist', 'webview');
+    const panel = vscode.window.createWebviewPanel(COMPARE_VIEW_TYPE, TITLE, vscode.ViewColumn.Active, {
+      enableScripts: true,
+      retainContextWhenHidden: true,
+      localResourceRoots: [root],
+      enableFindWidget: true,
+    });
+    const script = vscode.Uri.joinPath(root, 'compareView.js');
+    try {
+      await vscode.workspace.fs.stat(script);
+    } catch {
+      deps.log.error(`the compare view script ${script.toString(true)} is missing: run the build (npm run build)`);
+    }
+    panel.webview.html = bandViewHtml({
+      cspSource: panel.webview.cspSource,
+      nonce: makeNonce(),
+      scriptUri: panel.webview.asWebviewUri(script).toString(),
+      styleUri: null,
+      title: TITLE,
+    });
+    CompareViewPanel.current = new CompareViewPanel(panel, deps);
+    return CompareViewPanel.current;
+  }
+
+  private post(m: CompareHostToViewMessage): void {
+    if (!this.disposed) void this.panel.webview.postMessage(m);
+  }
+
+  private async receive(raw: unknown): Promise<void> {
+    if (!isCompareViewToHostMessage(raw)) {
+      const t = typeof raw === 'object' && raw !== null && 'type' in raw ? String((raw as { type: unknown }).type).slice(0, 40) : typeof raw;
+      this.deps.log.warn(`compare view: a message that does not follow the protocol was dropped (type ${t})`);
+      return;
+    }
+    try {
+      await this.handle(raw);
+    } catch (e) {
+      this.deps.log.error(`compare view: ${raw.type}: ${message(e)}`);
+      this.post({ type: CompareHostToViewType.Notice, message: message(e) });
+    }
+  }
+
+  private async handle(m: CompareViewToHostMessage): Promise<void> {
+    switch (m.type) {
+      case CompareViewToHostType.Ready:
+        this.ready = true;
+        if (this.found.length) this.sendTable();
+        else await this.rescan();
+        return;
+      case CompareViewToHostType.Rescan:
+        await this.rescan();
+        return;
+      case CompareViewToHostType.SetReference:
+        this.referenceId = m.rowId;
+        this.sendTable();
+        return;
+      case CompareViewToHostType.SetAnnotationsAsRuns:
+        this.annotationsAsRuns = m.value;
+        await this.rescan();
+        return;
+      case CompareViewToHostType.RequestBands:
+        await this.sendBands(m.requestId, m.rowIds.slice(0, COMPARE_MAX_OVERLAY));
+        return;
+      case CompareViewToHostType.OpenRun:
+        await this.openRun(m.rowId, m.target);
+        return;
+      case CompareViewToHostType.ViewError:
+        this.deps.log.warn(`compare view reported: ${m.message}`);
+        return;
+    }
+  }
+
+  private progress(found: number, done: number, text: string): void {
+    this.post({ type: CompareHostToViewType.Progress, found, done, message: text });
+  }
+
+  /** Find the runs and read them all; the table is sent once, when every run is read or has failed. */
+  private async rescan(): Promise<void> {
+    this.scan?.cancel();
+    const cts = new vscode.CancellationTokenSource();
+    this.scan = cts;
+    this.progress(0, 0, 'Looking for runs in the workspace …');
+    const s = this.deps.settings();
+    const runs = await findWorkspaceRuns(cts.token, s.maxBytes);
+    if (cts.token.isCancellationRequested) return;
+    const annotationsByData = new Map(runs.annotations.map((u) => [dataPathFor(u.path), u]));
+    const found: Found[] = [];
+    let n = 0;
+    const nextId = (): string => `r${n++}`;
+    const total = runs.data.length + runs.annotations.length;
+    let done = 0;
+    const tick = (what: string): void => this.progress(total, ++done, `Read ${done} of ${total}: ${what}`);
+    const annotationsCache = new Map<string, LoadedAnnotationsRun | Error>();
+    const readAnnotations = async (u: vscode.Uri): Promise<LoadedAnnotationsRun | Error> => {
+      const key = u.toString();
+      const have = annotationsCache.get(key);
+      if (have) return have;
+      const fs = new WorkspaceFileAccessor(u, s.maxBytes);
+      let out: LoadedAnnotationsRun | Error;
+      try {
+        out = await loadAnnotationsRun(fs, u.path, vscode.workspace.asRelativePath(u));
+      } catch (e) {
+        out = e instanceof Error ? e : new Error(String(e));
+      } finally {
+        fs.release();
+      }
+      annotationsCache.set(key, out);
+      return out;
+    };
+    for (const uri of runs.data) {
+      if (cts.token.isCancellationRequested) return;
+      const name = vscode.workspace.asRelativePath(uri);
+      const beside = annotationsByData.get(uri.path) ?? null;
+      let annotations: CompareEntry['annotations'] = 'none';
+      let staleReasons: string[] = [];
+      if (beside) {
+        const a = await readAnnotations(beside);
+        if (a instanceof Error) {
+          annotations = 'stale';
+          staleReasons = [`the annotations file could not be read: ${a.message}`];
+        } else {
+          annotations = a.run.stale ? 'stale' : 'current';
+          staleReasons = a.staleReasons;
+        }
+      }
+      const id = nextId();
+      try {
+        const run = await this.deps.store.get(uri);
+        found.push({
+          entry: { id, name, origin: 'data', annotations, staleReasons, run: { name: id, report: run.report, lattice: run.bs.lattice, rotations: rotationsOf(run), origin: 'data' }, error: null, canOverlay: true },
+          dataUri: uri,
+          fileUri: uri,
+        });
+      } catch (e) {
+        found.push({ entry: { id, name, origin: 'data', annotations, staleReasons, run: null, error: message(e), canOverlay: false }, dataUri: uri, fileUri: uri });
+      }
+      tick(name);
+    }
+    const dataPaths = new Set(runs.data.map((u) => u.path));
+    for (const uri of runs.annotations) {
+      if (cts.token.isCancellationRequested) return;
+      const dataPath = dataPathFor(uri.path);
+      const hasData = dataPaths.has(dataPath);
+      // Beside a data run the annotations show as its flag; as a row of their own on request, or when the
+      // data file is gone or unreadable.
+      const dataReadable = hasData && found.some((f) => f.dataUri?.path === dataPath && f.entry.run !== null);
+      if (!this.annotationsAsRuns && dataReadable) {
+        tick(vscode.workspace.asRelativePath(uri));
+        continue;
+      }
+      const a = await readAnnotations(uri);
+      const name = vscode.workspace.asRelativePath(uri);
+      const id = nextId();
+      const dataUri = hasData ? uri.with({ path: dataPath }) : null;
+      if (a instanceof Error) {
+        found.push({ entry: { id, name, origin: 'annotations', annotations: 'stale', staleReasons: [], run: null, error: a.message, canOverlay: false }, dataUri, fileUri: uri });
+      } else {
+        found.push({
+          entry: { id, name, origin: 'annotations', annotations: a.run.stale ? 'stale' : 'current', staleReasons: a.staleReasons, run: { ...a.run, name: id }, error: null, canOverlay: dataReadable },
+          dataUri,
+          fileUri: uri,
+        });
+      }
+      tick(name);
+    }
+    if (cts.token.isCancellationRequested) return;
+    this.found = found;
+    if (this.referenceId && !found.some((f) => f.entry.id === this.referenceId)) this.referenceId = null;
+    if (runs.truncated) this.post({ type: CompareHostToViewType.Notice, message: `Only the first ${runs.data.length + runs.annotations.length} candidate files were looked at: the workspace has more.` });
+    this.sendTable();
+  }
+
+  private scheduleRebuild(): void {
+    if (this.rebuildTimer) clearTimeout(this.rebuildTimer);
+    this.rebuildTimer = setTimeout(() => {
+      this.rebuildTimer = null;
+      void this.refreshDataRuns();
+    }, 400);
+  }
+
+  /** After a data run was re-read: take its new report and send the table again. */
+  private async refreshDataRuns(): Promise<void> {
+    for (const f of this.found) {
+      if (f.entry.origin !== 'data' || !f.dataUri) continue;
+      const run = this.deps.store.loaded(f.dataUri);
+      if (run) f.entry = { ...f.entry, run: { name: f.entry.id, report: run.report, lattice: run.bs.lattice, rotations: rotationsOf(run), origin: 'data' }, error: null, canOverlay: true };
+    }
+    this.sendTable();
+  }
+
+  private sendTable(): void {
+    if (!this.ready) return;
+    const table = buildCompareTable(
+      this.found.map((f) => f.entry),
+      this.referenceId,
+      this.annotationsAsRuns,
+    );
+    this.lastRowCount = table.rows.length;
+    this.post({ type: CompareHostToViewType.Table, table, environment: environmentFor(null) });
+  }
+
+  private async sendBands(requestId: number, rowIds: string[]): Promise<void> {
+    const runs: CompareBandRun[] = [];
+    const missing: { rowId: string; reason: string }[] = [];
+    for (const rowId of rowIds) {
+      const f = this.found.find((x) => x.entry.id === rowId);
+      if (!f || !f.dataUri) {
+        missing.push({ rowId, reason: f ? 'no data file to draw' : 'no such run (the list was refreshed)' });
+        continue;
+      }
+      try {
+        const run = await this.deps.store.get(f.dataUri);
+        runs.push(bandRunOf(rowId, f.entry.name, run));
+      } catch (e) {
+        missing.push({ rowId, reason: message(e) });
+      }
+    }
+    this.post({ type: CompareHostToViewType.Bands, requestId, runs, missing });
+  }
+
+  private async openRun(rowId: string, target: 'bandView' | 'file'): Promise<void> {
+    const f = this.found.find((x) => x.entry.id === rowId);
+    if (!f) return;
+    if (target === 'bandView' && f.dataUri) {
+      await vscode.commands.executeCommand(COMMANDS.openBandView, f.dataUri);
+      return;
+    }
+    const doc = await vscode.workspace.openTextDocument(f.fileUri);
+    await vscode.window.showTextDocument(doc, { viewColumn: vscode.ViewColumn.Beside, preview: true });
+  }
+
+  dispose(): void {
+    if (this.disposed) return;
+    this.disposed = true;
+    this.scan?.cancel();
+    if (this.rebuildTimer) clearTimeout(this.rebuildTimer);
+    this.subs.forEach((s) => s.dispose());
+    if (CompareViewPanel.current === this) CompareViewPanel.current = null;
+    this.panel.dispose();
+  }
+
+  static disposeCurrent(): void {
+    CompareViewPanel.current?.dispose();
+  }
+}
+
+/** Band data of one run for the overlay: path, energies, and the energy it is aligned at. */
+export function bandRunOf(rowId: string, title: string, run: LoadedRun): CompareBandRun {
+  const bs = run.bs;
+  const dtype = bs.nk * bs.nBands * bs.nSpin > F64_ENERGY_LIMIT ? 'f32' : 'f64';
+  const vbm = run.report.gap?.vbm.eV ?? null;
+  const align = vbm ?? bs.fermiEnergy;
+  return {
+    rowId,
+    title,
+    nk: bs.nk,
+    nBands: bs.nBands,
+    nSpin: bs.nSpin,
+    distance: encodeArray(run.geometry.distance, 'f64'),
+    energies: bs.energies.map((e) => encodeArray(e, dtype)),
+    ticks: run.geometry.ticks.map((t) => ({ distance: t.distance, label: t.label, kIndex: t.index })),
+    segments: run.geometry.segments.map((s) => ({ start: s.start, end: s.end, startLabel: s.startLabel, endLabel: s.endLabel, afterJump: s.afterJump })),
+    align_eV: align,
+    alignedAt: vbm !== null ? 'vbm' : bs.fermiEnergy !== null ? 'fermi' : 'none',
+    distanceUnits: run.geometry.units,
+  };
+}
+
+/** The command that opens (or reveals) the compare view. */
+export function registerCompareView(deps: CompareDeps): vscode.Disposable {
+  return vscode.Disposable.from(
+    vscode.commands.registerCommand(OPEN_COMPARE_VIEW_COMMAND, async () => {
+      const p = await CompareViewPanel.show(deps);
+      return p.lastRowCount;
+    }),
+    { dispose: () => CompareViewPanel.disposeCurrent() },
+  );
+}
+
