@@ -397,6 +397,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     assert.ok(ticksBefore.includes('0'));
     await v.page.evaluate(`(function () { var s = document.querySelector('vscode-single-select.vs-ref'); s.value = 'raw'; s.dispatchEvent(new Event('change')); })()`);
     assert.equal(await v.page.locator('.vs-y-title').textContent(), 'E (eV)');
+    assert.deepEqual(await v.page.evaluate('window.__state'), { reference: 'raw', spin: 'up', window_meV: 25, method: 'parabola' }, 'the choice is kept in the webview state');
     assert.equal(await v.page.locator('line.vs-zero').count(), 0);
     const ticksAfter = (await v.page.locator('.vs-axis-y text').allTextContents()).map((t) => Number(t.replace('−', '-')));
     // Raw energies of the model: VBM at 10.48 eV (fixtures/epm/README.md), so the axis spans it.

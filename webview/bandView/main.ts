@@ -214,11 +214,13 @@ export class BandViewApp {
     this.panel = new FitPanel({
       onWindow: (w) => {
         this.window_meV = w;
+        this.saveViewState();
         if (this.selected) this.requestFit(this.selected, false);
         this.render();
       },
       onMethod: (m) => {
         this.method = m;
+        this.saveViewState();
         if (this.selected) this.requestFit(this.selected, true);
       },
     });
@@ -253,6 +255,23 @@ export class BandViewApp {
     mo.observe(document.body, { attributes: true, attributeFilter: ['class', 'data-vscode-theme-kind'] });
     mo.observe(document.documentElement, { attributes: true, attributeFilter: ['style', 'class'] });
     this.post({ type: ViewToHostType.Ready });
+  }
+
+  /** View choices kept by VS Code across reloads of the webview (vscode.setState). */
+  private saveViewState(): void {
+    this.api.setState({ reference: this.reference, spin: this.spinChoice, window_meV: this.window_meV, method: this.method });
+  }
+
+  private restoredState(): { reference?: EnergyReference; spin?: SpinChoice; window_meV?: number; method?: string } {
+    const s = this.api.getState();
+    if (typeof s !== 'object' || s === null) return {};
+    const o = s as Record<string, unknown>;
+    const out: { reference?: EnergyReference; spin?: SpinChoice; window_meV?: number; method?: string } = {};
+    if (o.reference === 'vbm' || o.reference === 'fermi' || o.reference === 'raw') out.reference = o.reference;
+    if (o.spin === 'up' || o.spin === 'down' || o.spin === 'both') out.spin = o.spin;
+    if (typeof o.window_meV === 'number' && Number.isFinite(o.window_meV) && o.window_meV >= 1 && o.window_meV <= 300) out.window_meV = o.window_meV;
+    if (typeof o.method === 'string') out.method = o.method;
+    return out;
   }
 
   private post(m: ViewToHostMessage): void {
@@ -337,7 +356,8 @@ export class BandViewApp {
     this.titleEl.textContent = data.title;
     // Energy reference and spin choices.
     const levels = { vbm_eV: data.vbm_eV, fermiEnergy: data.fermiEnergy };
-    if (!hadData) this.reference = data.defaults.energyReference;
+    const restored = hadData ? {} : this.restoredState();
+    if (!hadData) this.reference = restored.reference ?? data.defaults.energyReference;
     setOptions(
       this.refSelect,
       availableReferences(levels).map((r) => ({ value: r, label: REFERENCE_NAMES[r] })),
@@ -345,7 +365,7 @@ export class BandViewApp {
     );
     this.spinLabel.hidden = data.nSpin === 1;
     if (data.nSpin === 1) this.spinChoice = 'up';
-    else if (!hadData) this.spinChoice = 'both';
+    else if (!hadData) this.spinChoice = restored.spin ?? 'both';
     setOptions(
       this.spinSelect,
       [
@@ -356,8 +376,9 @@ export class BandViewApp {
       this.spinChoice,
     );
     if (!hadData) {
-      this.window_meV = data.defaults.window_meV;
-      this.method = data.defaults.method;
+      this.window_meV = restored.window_meV ?? data.defaults.window_meV;
+      const methods = data.defaults.methods.length ? data.defaults.methods : [data.defaults.method];
+      this.method = restored.method && methods.includes(restored.method) ? restored.method : data.defaults.method;
       this.panel.setMethods(data.defaults.methods.length ? data.defaults.methods : [data.defaults.method], this.method);
       this.panel.setWindow(this.window_meV);
     }
@@ -667,11 +688,13 @@ export class BandViewApp {
     this.plot.addEventListener('keydown', (ev) => this.onKey(ev));
     this.refSelect.addEventListener('change', () => {
       this.reference = this.refSelect.value as EnergyReference;
+      this.saveViewState();
       this.applyReference();
       this.render();
     });
     this.spinSelect.addEventListener('change', () => {
       this.spinChoice = this.spinSelect.value as SpinChoice;
+      this.saveViewState();
       this.render();
     });
     this.resetBtn.addEventListener('click', () => this.resetZoom());
