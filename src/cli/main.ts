@@ -10,6 +10,7 @@ import { ANNOTATE_HELP, runAnnotate } from './commands/annotate';
 import { CHECK_HELP, runCheck } from './commands/check';
 import { STENCIL_HELP, runStencil } from './commands/stencil';
 import { isValleyscopeError } from '../core/errors';
+import { TOOL_VERSION } from '../core/version';
 import { ensureSymmetryReady } from '../core/lattice/symmetry';
 
 export interface Command {
@@ -77,8 +78,7 @@ export async function main(argv: string[], io: CliIO = processIO): Promise<numbe
   }
 }
 
-declare const __VERSION__: string | undefined;
-const VERSION = typeof __VERSION__ === 'string' ? __VERSION__ : '0.1.0';
+const VERSION = TOOL_VERSION;
 
 // Run when executed as the CLI entry point (bundled dist/cli.js or tsx src/cli/main.ts).
 const isEntry = typeof require !== 'undefined' && typeof module !== 'undefined' && require.main === module;

@@ -27,8 +27,9 @@ export const ANNOTATE_HELP = `valleyscope annotate <file-or-folder>... [options]
   --window <meV>, --method <name>, --range <eV>, --soc, --alat <Å>, --structure <file>
                     as for "valleyscope analyze"; all are recorded, and "check" reads the run alike`;
 
-declare const __VERSION__: string | undefined;
-export const TOOL_VERSION = typeof __VERSION__ === 'string' ? __VERSION__ : '0.1.0';
+import { TOOL_VERSION } from '../../core/version';
+
+export { TOOL_VERSION };
 
 type ReadSettings = Pick<AnnotatedSettings, 'forceSpinorbit' | 'alat_angstrom' | 'structureFile'>;
 
