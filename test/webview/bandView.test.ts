@@ -107,6 +107,22 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     await v.page.close();
   });
 
+  it('on a high-density display (2 device pixels per CSS pixel) the canvas is sharp and the bands still sit on their data', async () => {
+    const v = await h.open('dark', { width: 1280, height: 760 }, 2);
+    await installPageHelpers(v.page);
+    await v.hostPost(bandDataMessage(run.data));
+    await waitForExpression(v.page, 'window.valleyscopeBandView.lastDraw !== null');
+    const off = (await v.page.evaluate('__t.canvasOffset()')) as { scale: number };
+    assert.equal(off.scale, 2, 'backing store at the device pixel ratio');
+    const pts: [number, number, number][] = [];
+    for (let k = 0; k < run.data.nk; k += 11) for (let b = 0; b < run.data.nBands; b++) pts.push([0, k, b]);
+    const inside = ((await v.page.evaluate(`__t.probe(${JSON.stringify(pts)}, 3)`)) as Probe[]).filter((r) => r.inside);
+    assert.ok(inside.length > 100);
+    assert.equal(inside.filter((r) => !r.hit).length, 0);
+    await assertClean(v);
+    await v.page.close();
+  });
+
   it('labels the path with high-symmetry points, breaks, and axis titles in proper units', async () => {
     const v = await openWithRun(h, run);
     const labels = (await v.page.evaluate(`__t.text('.vs-axis-x text')`)) as string[];

@@ -58,7 +58,7 @@ export interface Harness {
   origin: string;
   browser: Browser;
   close(): Promise<void>;
-  open(theme: TestTheme, viewport?: { width: number; height: number }): Promise<ViewPage>;
+  open(theme: TestTheme, viewport?: { width: number; height: number }, deviceScaleFactor?: number): Promise<ViewPage>;
 }
 
 export interface ViewPage {
@@ -119,8 +119,8 @@ export async function startHarness(): Promise<Harness> {
       await browser.close();
       await new Promise<void>((resolve) => server.close(() => resolve()));
     },
-    async open(theme, viewport = { width: 1280, height: 760 }) {
-      const page = await browser.newPage({ viewport, deviceScaleFactor: 1 });
+    async open(theme, viewport = { width: 1280, height: 760 }, deviceScaleFactor = 1) {
+      const page = await browser.newPage({ viewport, deviceScaleFactor });
       const errors: string[] = [];
       page.on('pageerror', (e) => errors.push(`pageerror: ${e.message}`));
       page.on('console', (m) => {

@@ -12,7 +12,7 @@ window.__t = {
     var c = document.querySelector('canvas.vs-bands');
     var p = document.querySelector('.vs-plot');
     var cr = c.getBoundingClientRect(), pr = p.getBoundingClientRect();
-    return { x: cr.left - pr.left, y: cr.top - pr.top, w: c.width, h: c.height };
+    return { x: cr.left - pr.left, y: cr.top - pr.top, w: c.width, h: c.height, scale: c.width / cr.width };
   },
   /** RGBA at canvas pixel (x, y). */
   pixel: function (x, y) {
@@ -31,7 +31,7 @@ window.__t = {
     var off = window.__t.canvasOffset();
     return pts.map(function (q) {
       var s = app.screenOf(q[0], q[1], q[2]);
-      var x = Math.round(s.x - off.x), y = Math.round(s.y - off.y);
+      var x = Math.round((s.x - off.x) * off.scale), y = Math.round((s.y - off.y) * off.scale);
       var inside = x >= r && y >= r && x < c.width - r && y < c.height - r;
       var hit = false, colour = null, bestA = 0;
       if (inside) {
