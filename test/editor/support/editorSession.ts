@@ -4,7 +4,7 @@
  * through playwright-core. `close()` stops both; the process-group id is also written to the run folder so
  * the runner can stop it if this process dies first.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
+import { spawn, spawnSync, type ChildProcess } from 'node:child_process';
 import { appendFileSync, cpSync, createWriteStream, mkdirSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { request } from 'node:http';
 import { createServer } from 'node:net';
@@ -62,6 +62,18 @@ function httpStatus(port: number): Promise<number> {
 }
 
 const sleep = (ms: number): Promise<void> => new Promise((r) => setTimeout(r, ms));
+
+/**
+ * playwright starts Chromium in a process group of its own; write the groups of this process's Chromium
+ * children to the run folder too, so the runner can stop them if this process dies before closing them.
+ */
+function recordBrowserGroups(runDir: string): void {
+  const r = spawnSync('ps', ['-o', 'pid=,pgid=,comm=', '--ppid', String(process.pid)], { encoding: 'utf8' });
+  for (const line of (r.stdout ?? '').split('\n')) {
+    const [pid, pgid, comm] = line.trim().split(/\s+/);
+    if (comm && /chrom/i.test(comm) && pid === pgid) appendFileSync(join(runDir, 'process-groups'), `${pgid}\n`);
+  }
+}
 
 /** Stop a process group: SIGTERM, then SIGKILL when it has not gone after a grace period. */
 export async function stopProcessGroup(pgid: number, graceMs = 3000): Promise<void> {
@@ -188,6 +200,7 @@ export class EditorSession {
       }
       if (status !== 302 && status !== 200) throw new Error(`code-server did not answer on 127.0.0.1:${port} within 60 s; see ${logPath}`);
       session.browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: CHROMIUM_ARGS });
+      recordBrowserGroups(env.runDir);
       const context = await session.browser.newContext({ viewport: { width: 1920, height: 1080 } });
       session.page = await context.newPage();
       await session.page.goto(`http://127.0.0.1:${port}/?folder=${encodeURIComponent(workspaceDir)}`);
