@@ -81,7 +81,35 @@ export function locateKpointLines(text: string, kpoints: Float64Array, nk: numbe
   const first = scan(text, kpoints, nk, null);
   if (nk < 3 || first.shapes.length < 3 || first.shapes[1] !== first.shapes[2]) return first.lines;
   const second = scan(text, kpoints, nk, first.shapes[1]!);
-  return second.shapes.length >= first.shapes.length ? second.lines : first.lines;
+  if (second.shapes.length < first.shapes.length) return first.lines;
+  refineFirst(text, kpoints, second.lines, first.shapes[1]!);
+  return second.lines;
+}
+
+/**
+ * The first k-point's coordinates can appear earlier than its own line, in a line of the same shape: vasprun.xml
+ * lists the path's corners (`<generation>`) before the k-point list, and Γ is usually the first corner. Take
+ * the last line of that shape holding k-point 1 before k-point 2's line.
+ */
+function refineFirst(text: string, kpoints: Float64Array, lines: Int32Array, shape: Shape): void {
+  const l0 = lines[0]!;
+  const l1 = lines[1]!;
+  if (l0 < 0 || l1 < 0 || l1 - l0 <= 1) return;
+  const nums: number[] = [];
+  let line = 0;
+  let pos = 0;
+  while (line < l0 + 1) {
+    pos = text.indexOf('\n', pos) + 1;
+    line++;
+  }
+  for (; line < l1 && pos > 0; line++) {
+    let end = text.indexOf('\n', pos);
+    if (end < 0) end = text.length;
+    lineNumbers(text, pos, end, nums);
+    const j = nums.length >= 3 ? tripleAt(nums, kpoints[0]!, kpoints[1]!, kpoints[2]!) : -1;
+    if (j >= 0 && `${nums.length}@${j}` === shape) lines[0] = line;
+    pos = end + 1;
+  }
 }
 
 /** The k-point whose line is `line`, or -1. `kLines` as returned by locateKpointLines (increasing). */

@@ -1,6 +1,10 @@
 import assert from 'node:assert/strict';
 import { kpointAtLine, lineNumbers, locateKpointLines } from '../../../src/extension/kpointLines';
 import { loadSi } from './demoRun';
+import { collinearModel } from '../../support/writers/roundTripModel';
+import { writeVasprun } from '../../support/writers/vasprun';
+import { writeCastepBands } from '../../support/writers/castep';
+import { readerById } from '../../../src/core/formats/index';
 
 describe('extension: k-point lines of a file', () => {
   it('finds the header line of every k-point of an EIGENVAL file, in order', async () => {
@@ -40,5 +44,29 @@ describe('extension: k-point lines of a file', () => {
     assert.equal(out[0], 0.5);
     assert.equal(out[1], 0.1);
     assert.ok(Number.isNaN(out[2]!));
+  });
+
+  it('in vasprun.xml and CASTEP .bands written by the test writers, every k-point is found on its own line', () => {
+    const model = collinearModel();
+    const vasprun = writeVasprun(model, { generation: { divisions: 21, ends: [[0, 0, 0], [0.5, 0, 0], [0.5, 0, 0], [0.5, 0.5, 0]] } });
+    const cases: [string, string, string, RegExp][] = [
+      // vasprun.xml lists the path corners (Γ first) before the k-point list: Γ must come from the list.
+      ['vasprun-xml', 'vasprun.xml', vasprun, /^\s*<v>/],
+      ['castep-bands', 'model.bands', writeCastepBands(model, {}), /^K-point\s+\d+\s/],
+    ];
+    for (const [id, name, text, shape] of cases) {
+      const bs = readerById(id)!.read({ path: name, bytes: new TextEncoder().encode(text) }, [], {});
+      const kl = locateKpointLines(text, bs.kpoints, bs.nk);
+      const lines = text.split('\n');
+      for (let k = 0; k < bs.nk; k++) {
+        assert.ok(kl[k]! >= 0, `${id}: k-point ${k + 1} found`);
+        assert.match(lines[kl[k]!]!, shape, `${id}: k-point ${k + 1}`);
+        if (k > 0) assert.ok(kl[k]! > kl[k - 1]!, `${id}: in order`);
+      }
+      if (id === 'vasprun-xml') {
+        const list = lines.findIndex((l) => l.includes('kpointlist'));
+        assert.equal(kl[0], list + 1, 'Γ is the first line of the k-point list, not the generation block');
+      }
+    }
   });
 });
