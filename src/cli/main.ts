@@ -12,6 +12,7 @@ import { STENCIL_HELP, runStencil } from './commands/stencil';
 import { isValleyscopeError } from '../core/errors';
 import { TOOL_VERSION } from '../core/version';
 import { ensureSymmetryReady } from '../core/lattice/symmetry';
+import { installNativeSha256 } from './nativeHash';
 
 export interface Command {
   help: string;
@@ -57,6 +58,7 @@ export async function main(argv: string[], io: CliIO = processIO): Promise<numbe
   }
   try {
     // Crystal symmetry (valley degeneracy, label recognition) is synchronous once its module is loaded.
+    installNativeSha256();
     await ensureSymmetryReady();
     return await cmd.run(rest, io);
   } catch (e) {

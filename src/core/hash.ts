@@ -14,8 +14,29 @@ const K = new Uint32Array([
   0xc67178f2,
 ]);
 
-/** Incremental SHA-256: feed bytes in chunks (a large file need never be whole in memory). */
-export class Sha256 {
+/** What a SHA-256 implementation offers: feed bytes in chunks, then the hex digest. */
+export interface IncrementalHash {
+  update(data: Uint8Array): unknown;
+  hex(): string;
+}
+
+let nativeFactory: (() => IncrementalHash) | null = null;
+
+/**
+ * Let a host with a native SHA-256 (node's crypto in the CLI and the desktop extension host) supply it;
+ * the pure implementation below serves everywhere else (web worker, webview). Same digests either way.
+ */
+export function useNativeSha256(factory: (() => IncrementalHash) | null): void {
+  nativeFactory = factory;
+}
+
+/** A fresh incremental SHA-256: native when a host supplied one, else the pure implementation. */
+export function createSha256(): IncrementalHash {
+  return nativeFactory ? nativeFactory() : new Sha256();
+}
+
+/** Incremental SHA-256 in pure TypeScript: feed bytes in chunks (a large file need never be whole in memory). */
+export class Sha256 implements IncrementalHash {
   private readonly h = new Uint32Array([
     0x6a09e667, 0xbb67ae85, 0x3c6ef372, 0xa54ff53a, 0x510e527f, 0x9b05688c, 0x1f83d9ab, 0x5be0cd19,
   ]);
@@ -110,5 +131,7 @@ export class Sha256 {
 }
 
 export function sha256Hex(data: Uint8Array): string {
-  return new Sha256().update(data).hex();
+  const h = createSha256();
+  h.update(data);
+  return h.hex();
 }

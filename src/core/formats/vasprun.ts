@@ -28,7 +28,7 @@ import type { BandStructure, InputWarning, KLabel, Mat3, SourceFile, Structure, 
 import type { InputFile } from '../io/fileAccessor';
 import { basename } from '../io/fileAccessor';
 import type { FormatReader, ReadOptions } from './types';
-import { Sha256, sha256Hex } from '../hash';
+import { createSha256, sha256Hex } from '../hash';
 import { CancelledError, ReaderError } from '../errors';
 import { SafeXmlStream, parseDecimal, scanNumbers } from './xmlSafety';
 import { readKpoints } from './vasp/kpoints';
@@ -453,7 +453,7 @@ export function readVasprun(file: InputFile, options: ReadOptions = {}): Vasprun
   const CHUNK = 1 << 16;
   const src = file.stream;
   const size = src ? src.size : file.bytes.length;
-  const hasher = src ? new Sha256() : null;
+  const hasher = src ? createSha256() : null;
   if (size === 0) return { ...stream.finish(false), sha256: '' };
   for (let start = 0; start < size; start += CHUNK) {
     if (options.isCancelled?.()) throw new CancelledError();

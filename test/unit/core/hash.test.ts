@@ -46,3 +46,20 @@ describe('Sha256 (incremental)', () => {
     );
   });
 });
+
+describe('native SHA-256 hook', () => {
+  it('a host-supplied hash gives the same digest as the pure one', async () => {
+    const { useNativeSha256, sha256Hex, Sha256 } = await import('../../../src/core/hash');
+    const { installNativeSha256 } = await import('../../../src/cli/nativeHash');
+    const bytes = new TextEncoder().encode('valleyscope '.repeat(1000));
+    const pure = new Sha256().update(bytes).hex();
+    installNativeSha256();
+    try {
+      assert.equal(sha256Hex(bytes), pure);
+      // Reference: FIPS 180-4 example vector, through the native path.
+      assert.equal(sha256Hex(enc('abc')), 'ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad');
+    } finally {
+      useNativeSha256(null);
+    }
+  });
+});

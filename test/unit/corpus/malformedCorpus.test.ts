@@ -26,8 +26,8 @@ const SAMPLES: Sample[] = [
   { format: 'vasp-eigenval', path: 'test/unit/corpus/samples/EIGENVAL' },
   ...[
     ['qe-xml', 'fixtures/qe/si.xml'],
-    ['qe-bandsx', 'fixtures/qe/si.bands.dat'],
-    ['vasprun', 'fixtures/vasprun/vasprun.xml'],
+    ['qe-bands', 'fixtures/qe/si.bands.dat'],
+    ['vasprun-xml', 'fixtures/vasprun/vasprun.xml'],
     ['wannier90-band', 'fixtures/wannier90/si_band.dat'],
     ['bxsf', 'fixtures/bxsf/model.bxsf'],
     ['castep-bands', 'fixtures/castep/si.bands'],

@@ -12,7 +12,7 @@
 import type { InputFile } from '../../io/fileAccessor';
 import { CancelledError } from '../../errors';
 import { TextScanner } from '../textScanner';
-import { Sha256, sha256Hex } from '../../hash';
+import { createSha256, sha256Hex } from '../../hash';
 import type { ReadOptions } from '../types';
 
 export const EIGENVAL_FORMAT = 'vasp-eigenval';
@@ -35,7 +35,7 @@ export interface EigenvalData {
 }
 
 export function readEigenval(file: InputFile, options: ReadOptions = {}): EigenvalData {
-  const hasher = file.stream ? new Sha256() : null;
+  const hasher = file.stream ? createSha256() : null;
   const sc = file.stream
     ? TextScanner.streaming(file.stream, file.path, EIGENVAL_FORMAT, (c) => hasher!.update(c))
     : new TextScanner(file.bytes, file.path, EIGENVAL_FORMAT);
