@@ -6,8 +6,11 @@
  * linearly from the nearest tabulated shell (within ±0.5 (2π/a)²) with a slope from the neighbouring table
  * entries (monotone piecewise-cubic slopes, Fritsch & Carlson, SIAM J. Numer. Anal. 17, 238 (1980)), and the
  * caller scales it by Ω₀/Ω for the change of cell volume. This continuation is our own modelling choice for
- * the invented strain demo, not part of Cohen & Bergstresser's paper; it gives deformation potentials of
- * the right sign and rough size, not fitted ones.
+ * the invented strain demo, not part of Cohen & Bergstresser's paper, and it is not fitted to deformation
+ * potentials. For silicon it gives a Δ-valley shear deformation potential Ξ_u ≈ 10.4 eV (published 8.6–9.3 eV,
+ * memory), so valley splittings under (001) biaxial strain are of the right sign and size; but the volume
+ * deformation potential of the indirect gap comes out near −4 eV where measurements give about +1.5 eV
+ * (memory): the hydrostatic part of any strain moves the gap the wrong way in this model.
  */
 
 const SHELLS = [3, 4, 8, 11];
