@@ -44,7 +44,7 @@ if (!cliOnly) {
       format: 'cjs',
       external: ['vscode'],
       define: { 'process.env.VALLEYSCOPE_WEB': '"1"' },
-      alias: { 'node:worker_threads': './src/extension/web/noWorkerThreads.ts' },
+      alias: { 'node:worker_threads': './src/extension/web/noWorkerThreads.ts', 'node:fs/promises': './src/extension/web/noFsPromises.ts' },
     });
   }
   const views = present([

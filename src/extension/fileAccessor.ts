@@ -7,6 +7,7 @@
 import * as vscode from 'vscode';
 import type { DirEntry, FileAccessor } from '../core/io/fileAccessor';
 import { ValleyscopeError } from '../core/errors';
+import { open } from 'node:fs/promises';
 
 export class WorkspaceFileAccessor implements FileAccessor {
   /** `maxBytes` (0: none) refuses files above the user's size limit before they are read. */
@@ -29,24 +30,33 @@ export class WorkspaceFileAccessor implements FileAccessor {
       this.pending = null;
       return bytes;
     }
-    return vscode.workspace.fs.readFile(this.uri(path));
+    const uri = this.uri(path);
+    await this.checkSize(uri, path);
+    return vscode.workspace.fs.readFile(uri);
   }
 
   async readHead(path: string, bytes: number): Promise<Uint8Array> {
-    // workspace.fs reads whole files only. Keep what was read so that the read which usually follows
-    // detection does not read the file a second time.
     const uri = this.uri(path);
-    if (this.maxBytes > 0) {
-      const st = await vscode.workspace.fs.stat(uri);
-      if (st.size > this.maxBytes) {
-        throw new ValleyscopeError(
-          `${path}: the file is ${(st.size / 1e6).toFixed(0)} MB, above the limit of ${(this.maxBytes / 1e6).toFixed(0)} MB (setting valleyscope.maxFileSizeMB)`,
-        );
-      }
-    }
+    // Local files (desktop, and the remote side of SSH/containers): a ranged read, so detecting the layout of
+    // a large file in a run folder (OUTCAR, vasprun.xml) does not read all of it.
+    const ranged = await rangedHead(uri, bytes);
+    if (ranged) return ranged;
+    // Other file systems read whole files only: keep what was read, so the read that usually follows
+    // detection does not read the file a second time.
+    await this.checkSize(uri, path);
     const all = await vscode.workspace.fs.readFile(uri);
     this.pending = { path, bytes: all };
     return all.subarray(0, Math.min(bytes, all.length));
+  }
+
+  private async checkSize(uri: vscode.Uri, path: string): Promise<void> {
+    if (this.maxBytes <= 0) return;
+    const st = await vscode.workspace.fs.stat(uri);
+    if (st.size > this.maxBytes) {
+      throw new ValleyscopeError(
+        `${path}: the file is ${(st.size / 1e6).toFixed(0)} MB, above the limit of ${(this.maxBytes / 1e6).toFixed(0)} MB (setting valleyscope.maxFileSizeMB)`,
+      );
+    }
   }
 
   /** Forget a kept read (call when loading ends, so the bytes can be freed). */
@@ -71,5 +81,22 @@ export class WorkspaceFileAccessor implements FileAccessor {
       else if (type & vscode.FileType.File) out.push({ name, type: 'file' });
     }
     return out;
+  }
+}
+
+/** The first `bytes` bytes of a local file through node, or null where node's file system is not available. */
+async function rangedHead(uri: vscode.Uri, bytes: number): Promise<Uint8Array | null> {
+  if (uri.scheme !== 'file' || !open) return null;
+  try {
+    const fh = await open(uri.fsPath, 'r');
+    try {
+      const buf = new Uint8Array(bytes);
+      const { bytesRead } = await fh.read(buf, 0, bytes, 0);
+      return buf.subarray(0, bytesRead);
+    } finally {
+      await fh.close();
+    }
+  } catch {
+    return null;
   }
 }
