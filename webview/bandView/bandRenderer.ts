@@ -102,20 +102,6 @@ export class BandRenderer {
     return mode === 'lines' ? { mode, valuesRead, density } : { mode, valuesRead, density, ...this.timing };
   }
 
-  /** Fills rows between y1 and y2 (device px, any order), `thick` rows more, in columns c0..c1. */
-  private span(px: Uint32Array, W: number, hMax: number, c0: number, c1: number, y1: number, y2: number, thick: number, colour: number): void {
-    let top = y1 < y2 ? y1 : y2;
-    const bottom = y1 < y2 ? y2 : y1;
-    if (bottom < 0 || top > hMax) return;
-    if (top < 0) top = 0;
-    const r0 = Math.floor(top);
-    let r1 = Math.floor(bottom) + thick - 1;
-    if (r1 > hMax) r1 = hMax;
-    for (let cc = c0; cc <= c1; cc++) {
-      for (let r = r0, idx = r0 * W + cc; r <= r1; r++, idx += W) px[idx] = colour;
-    }
-  }
-
   /** A CSS colour as the Uint32 an ImageData holds (RGBA bytes, little-endian: ABGR). */
   private packedColour(css: string, ctx: CanvasRenderingContext2D): number {
     let v = this.colourCache.get(css);
@@ -209,62 +195,91 @@ export class BandRenderer {
         this.timing.decimateMs += t1 - t0;
         const cLo = Math.max(0, Math.floor((vm.distance[p.i0]! - map.x0) * map.scale));
         const cHi = Math.min(W - 1, Math.floor((vm.distance[p.i1 - 1]! - map.x0) * map.scale));
-        // Column by column (reads of the envelope are contiguous), every band's vertical span: from its
-        // lowest to its highest value in the column, joined to the previous filled column's last value.
-        const emin = env.min;
-        const emax = env.max;
-        const elast = env.last;
-        const filled = env.filled;
-        const hMax = H - 1;
-        let pc = -1;
-        for (let c = cLo; c <= cHi; c++) {
-          if (!filled[c]) continue;
-          const o = c * nb;
-          const po = pc * nb;
-          const cEnd = Math.min(W - 1, c + thick - 1);
-          // Columns left empty between two filled ones (a pyramid bucket may span up to two columns; sparse
-          // stretches of a path) are bridged by the straight join, so lines have no holes.
-          const gap0 = pc >= 0 && c - pc > 1 ? pc + 1 : c;
-          for (let b = 0; b < nb; b++) {
-            let lo = emin[o + b]!;
-            let hi = emax[o + b]!;
-            const colour = packed[b]!;
-            if (pc >= 0) {
-              const pl = elast[po + b]!;
-              if (gap0 < c) {
-                const near = Math.abs(pl - lo) < Math.abs(pl - hi) ? lo : hi;
-                const n = c - pc;
-                for (let g = gap0; g < c; g++) {
-                  const ya = pl + ((near - pl) * (g - pc - 0.5)) / n;
-                  const yb = pl + ((near - pl) * (g - pc + 0.5)) / n;
-                  this.span(px, W, hMax, g, g, ay * ya + by, ay * yb + by, thick, colour);
-                }
-              }
-              if (pl < lo) lo = pl;
-              else if (pl > hi) hi = pl;
-            }
-            // The span itself (inlined: this loop runs once per band and column).
-            let y1 = ay * hi + by;
-            let y2 = ay * lo + by;
-            if (y1 > y2) {
-              const t = y1;
-              y1 = y2;
-              y2 = t;
-            }
-            if (y2 < 0 || y1 > hMax) continue;
-            const r0 = y1 < 0 ? 0 : y1 | 0;
-            let r1 = (y2 | 0) + thick - 1;
-            if (r1 > hMax) r1 = hMax;
-            for (let cc = c; cc <= cEnd; cc++) {
-              for (let idx = r0 * W + cc, end = r1 * W + cc; idx <= end; idx += W) px[idx] = colour;
-            }
-          }
-          pc = c;
-        }
+        rasterEnvelope(px, W, H, env, cLo, cHi, packed, ay, by, thick);
         this.timing.rasterMs += performance.now() - t1;
       });
     });
     ctx.putImageData(this.image, 0, 0);
     return read;
+  }
+}
+
+/**
+ * Rasterises one piece's envelope into RGBA pixels (as Uint32), column by column so the envelope is read
+ * contiguously: every band's vertical span from its lowest to its highest value in the column, joined to the
+ * previous filled column's last value. Columns left empty between two filled ones (a pyramid bucket may span
+ * up to two columns; sparse stretches of a path) are bridged by the straight join, so lines have no holes.
+ * A top-level function with everything in parameters: the hot loop keeps its values in registers.
+ */
+function rasterEnvelope(
+  px: Uint32Array,
+  W: number,
+  H: number,
+  env: Envelope,
+  cLo: number,
+  cHi: number,
+  packed: Uint32Array,
+  ay: number,
+  by: number,
+  thick: number,
+): void {
+  const nb = env.nBands;
+  const emin = env.min;
+  const emax = env.max;
+  const elast = env.last;
+  const filled = env.filled;
+  const hMax = H - 1;
+  let pc = -1;
+  for (let c = cLo; c <= cHi; c++) {
+    if (!filled[c]) continue;
+    const o = c * nb;
+    const po = pc * nb;
+    const cEnd = Math.min(W - 1, c + thick - 1);
+    const gap0 = pc >= 0 && c - pc > 1 ? pc + 1 : c;
+    for (let b = 0; b < nb; b++) {
+      let lo = emin[o + b]!;
+      let hi = emax[o + b]!;
+      const colour = packed[b]!;
+      if (pc >= 0) {
+        const pl = elast[po + b]!;
+        if (gap0 < c) bridge(px, W, hMax, pc, c, gap0, pl, Math.abs(pl - lo) < Math.abs(pl - hi) ? lo : hi, ay, by, thick, colour);
+        if (pl < lo) lo = pl;
+        else if (pl > hi) hi = pl;
+      }
+      let y1 = ay * hi + by;
+      let y2 = ay * lo + by;
+      if (y1 > y2) {
+        const t = y1;
+        y1 = y2;
+        y2 = t;
+      }
+      if (y2 < 0 || y1 > hMax) continue;
+      const r0 = y1 < 0 ? 0 : y1 | 0;
+      let r1 = (y2 | 0) + thick - 1;
+      if (r1 > hMax) r1 = hMax;
+      for (let cc = c; cc <= cEnd; cc++) {
+        for (let idx = r0 * W + cc, end = r1 * W + cc; idx <= end; idx += W) px[idx] = colour;
+      }
+    }
+    pc = c;
+  }
+}
+
+/** The straight join from (pc, from) to (c, to) through the empty columns gap0..c−1. */
+function bridge(px: Uint32Array, W: number, hMax: number, pc: number, c: number, gap0: number, from: number, to: number, ay: number, by: number, thick: number, colour: number): void {
+  const n = c - pc;
+  for (let g = gap0; g < c; g++) {
+    let y1 = ay * (from + ((to - from) * (g - pc - 0.5)) / n) + by;
+    let y2 = ay * (from + ((to - from) * (g - pc + 0.5)) / n) + by;
+    if (y1 > y2) {
+      const t = y1;
+      y1 = y2;
+      y2 = t;
+    }
+    if (y2 < 0 || y1 > hMax) continue;
+    const r0 = y1 < 0 ? 0 : y1 | 0;
+    let r1 = (y2 | 0) + thick - 1;
+    if (r1 > hMax) r1 = hMax;
+    for (let idx = r0 * W + g, end = r1 * W + g; idx <= end; idx += W) px[idx] = colour;
   }
 }

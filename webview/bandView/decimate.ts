@@ -9,6 +9,9 @@
  * point; when zoomed in past the pyramid's resolution the raw points are read, so full detail returns on zoom.
  */
 
+/** Band energies as the host sends them: 64-bit, or 32-bit for very large runs (kept as sent, to save memory). */
+export type EnergyArray = Float64Array | Float32Array;
+
 /** One level of the pyramid: buckets of `size` consecutive points, k-major [bucket * nBands + band]. */
 export interface PyramidLevel {
   size: number;
@@ -72,7 +75,7 @@ export const PYRAMID_MIN_POINTS = 64;
  */
 export function buildPyramid(
   x: Float64Array,
-  values: Float64Array,
+  values: EnergyArray,
   nBands: number,
   i0: number,
   i1: number,
@@ -163,7 +166,7 @@ export function clearEnvelope(env: Envelope): void {
  */
 export function columnEnvelope(
   x: Float64Array,
-  values: Float64Array,
+  values: EnergyArray,
   nBands: number,
   i0: number,
   i1: number,

@@ -25,7 +25,7 @@ export interface ExtremaSet {
 }
 
 export function findLocalExtrema(
-  energies: Float64Array[],
+  energies: (Float64Array | Float32Array)[],
   nBands: number,
   pieces: Piece[],
   labelled: (k: number) => boolean,

@@ -4,7 +4,7 @@
  */
 import type { BandData, ExtremumMark } from '../../src/protocol';
 import { decodeArray } from '../../src/protocol';
-import { buildPyramid, type MinMaxPyramid } from './decimate';
+import { buildPyramid, type EnergyArray, type MinMaxPyramid } from './decimate';
 import { findLocalExtrema, piecesFromSegments, type ExtremaSet, type Piece } from './localExtrema';
 
 export interface ViewModel {
@@ -17,7 +17,8 @@ export interface ViewModel {
   distance: Float64Array;
   kpoints: Float64Array;
   cartesian: Float64Array | null;
-  energies: Float64Array[];
+  /** One per spin channel, as sent (32-bit for very large runs). */
+  energies: EnergyArray[];
   pieces: Piece[];
   /** pyramids[spin][piece] */
   pyramids: MinMaxPyramid[][];
@@ -42,7 +43,7 @@ export function buildViewModel(data: BandData): ViewModel {
   const distance = asF64(decodeArray(data.distance));
   const kpoints = asF64(decodeArray(data.kpoints));
   const cartesian = data.cartesian ? asF64(decodeArray(data.cartesian)) : null;
-  const energies = data.energies.map((e) => asF64(decodeArray(e)));
+  const energies: EnergyArray[] = data.energies.map((e) => decodeArray(e));
   if (distance.length !== nk) throw new Error(`band data: ${distance.length} path distances for ${nk} k-points`);
   if (kpoints.length !== 3 * nk) throw new Error(`band data: ${kpoints.length / 3} k-points for ${nk}`);
   if (energies.length !== data.nSpin) throw new Error(`band data: ${energies.length} spin channels, expected ${data.nSpin}`);
@@ -98,7 +99,7 @@ export function withEdgeMarks(data: BandData, kpoints: Float64Array): ExtremumMa
 }
 
 /** The highest band whose every energy lies at or below the VBM (or Fermi level) (colouring only); −1 when unknown. */
-function topValence(data: BandData, marks: ExtremumMark[], e: Float64Array, nBands: number, spin: number): number {
+function topValence(data: BandData, marks: ExtremumMark[], e: EnergyArray, nBands: number, spin: number): number {
   const vbmMark = marks.find((m) => m.kind === 'vbm' && m.spin === spin) ?? marks.find((m) => m.kind === 'vbm');
   if (vbmMark && data.report.metal !== true) return vbmMark.band0;
   // Without edges (a metal), bands wholly below the Fermi level count as filled.

@@ -5,7 +5,8 @@
  *   E_n(φ) = −2t cos(θ_n),  θ_n = (2π⌈n/2⌉ + (n even ? φ : −φ)) / M,
  * which lists the M folded bands in increasing energy. Half filling puts the Fermi level at E = 0.
  * Exported as JavaScript text, evaluated in the page: `(${FOLDED_CHAIN_SOURCE})(nBands, nk)` returns a
- * BandDataMessage of src/protocol.ts with ArrayBuffer-encoded arrays.
+ * BandDataMessage of src/protocol.ts with ArrayBuffer-encoded arrays (energies as 32-bit floats above 4 million
+ * values, as the extension sends them).
  */
 export const FOLDED_CHAIN_SOURCE = String.raw`function (nBands, nk) {
   var t = 1.0;            // hopping, eV
@@ -14,7 +15,9 @@ export const FOLDED_CHAIN_SOURCE = String.raw`function (nBands, nk) {
   var kMax = Math.PI / aSuper;
   var distance = new Float64Array(nk);
   var kpoints = new Float64Array(nk * 3);
-  var energies = new Float64Array(nk * nBands);
+  // Like the extension (src/extension/bandData.ts), energies of very large runs travel as 32-bit floats.
+  var f32 = nk * nBands > 4000000;
+  var energies = f32 ? new Float32Array(nk * nBands) : new Float64Array(nk * nBands);
   for (var i = 0; i < nk; i++) {
     var phi = Math.PI * i / (nk - 1);
     distance[i] = kMax * i / (nk - 1);
@@ -32,7 +35,7 @@ export const FOLDED_CHAIN_SOURCE = String.raw`function (nBands, nk) {
     distanceUnits: 'inverse-angstrom',
     kpoints: { dtype: 'f64', length: 3 * nk, data: kpoints.buffer },
     cartesian: null,
-    energies: [{ dtype: 'f64', length: nk * nBands, data: energies.buffer }],
+    energies: [{ dtype: f32 ? 'f32' : 'f64', length: nk * nBands, data: energies.buffer }],
     ticks: [{ distance: 0, label: 'Γ', kIndex: 0 }, { distance: kMax, label: 'X', kIndex: nk - 1 }],
     segments: [{ start: 0, end: nk - 1, startLabel: 'Γ', endLabel: 'X', afterJump: false }],
     fermiEnergy: 0, vbm_eV: null, cbm_eV: null, report: report, marks: [],
