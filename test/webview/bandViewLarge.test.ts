@@ -34,6 +34,7 @@ describe('band view: large runs and spin channels (headless Chromium)', function
     assert.equal(await v.page.evaluate('window.valleyscopeBandView.lastDraw.mode'), 'envelope');
     // A metal (no gap, no VBM): the energy zero is the Fermi level the data gives.
     assert.equal(await v.page.locator('.vs-y-title').textContent(), 'E − EF (eV)');
+    await v.page.screenshot({ path: 'test-artifacts/bandview-500-bands.png' });
     const env = (await v.page.evaluate('__t.extents()')) as { top: number[]; bottom: number[] };
     await v.page.evaluate(`window.valleyscopeBandView.render('lines')`);
     const full = (await v.page.evaluate('__t.extents()')) as { top: number[]; bottom: number[] };
