@@ -5,8 +5,10 @@
  * `vscode`): the panel gathers the runs, this file only arranges numbers the core computed.
  */
 import { compareRuns, type ComparedRun, type Comparison, type RunInput } from '../core/compare/compareRuns';
-import type { ExtremumReport, MassFit } from '../core/model';
-import type { CompareColumn, CompareRow, CompareTable } from '../protocol';
+import type { BandStructure, ExtremumReport, MassFit, Report } from '../core/model';
+import type { PathGeometry } from '../core/lattice/kpath';
+import { encodeArray, type CompareBandRun, type CompareColumn, type CompareRow, type CompareTable } from '../protocol';
+import { F64_ENERGY_LIMIT } from './bandData';
 
 /** One run as the panel found it. */
 export interface CompareEntry {
@@ -124,13 +126,13 @@ export function buildCompareTable(entries: readonly CompareEntry[], referenceId:
   }
   // Every matched valley: its distance from the edge and its masses, the same valley in every run.
   for (const col of c.columns) {
-    const name = `${col.id} (${col.side === 'conduction' ? 'cond.' : 'val.'} ${col.where}${col.branch ? `, branch ${col.branch + 1}` : ''})`;
-    pushColumn(columns, seen, { key: `valley.${col.id}.offset`, label: `${name} offset`, unit: 'meV', group: 'valley', title: `Energy of valley ${col.id} from the band edge on its side (0 when it is the edge).`, decimals: 1 });
+    const where = `${col.side === 'conduction' ? 'conduction' : 'valence'} valley ${col.id} at ${col.where}${col.branch ? ` (branch ${col.branch + 1} there)` : ''}`;
+    pushColumn(columns, seen, { key: `valley.${col.id}.offset`, label: `${col.id} offset`, unit: 'meV', group: 'valley', title: `Energy of the ${where} from the band edge on its side (0 when it is the edge).`, decimals: 1 });
     for (const r of c.runs) {
       const entry = r.valleys[col.id];
       if (!entry) continue;
       for (const m of massKeys(entry.extremum.masses)) {
-        pushColumn(columns, seen, { key: `valley.${col.id}.m.${m.key}`, label: `${name} m* ${m.text}`, unit: 'mₑ', group: 'valley', title: `Signed curvature mass in valley ${col.id} ${m.text.replace('→', 'towards')}.`, decimals: 3 });
+        pushColumn(columns, seen, { key: `valley.${col.id}.m.${m.key}`, label: `${col.id} m* ${m.text}`, unit: 'mₑ', group: 'valley', title: `Signed curvature mass in the ${where}, ${m.text.replace('→', 'towards')}.`, decimals: 3 });
       }
     }
   }
@@ -168,5 +170,26 @@ export function buildCompareTable(entries: readonly CompareEntry[], referenceId:
     events: c.events.filter((ev) => ev.kind !== 'stale').map((ev) => ({ rowId: ev.run, kind: ev.kind, message: ev.message })),
     cautions,
     annotationsAsRuns,
+  };
+}
+
+/** Band data of one run for the overlay: path, energies, and the energy it is aligned at (VBM, else Fermi level). */
+export function bandRunOf(rowId: string, title: string, run: { bs: BandStructure; report: Report; geometry: PathGeometry }): CompareBandRun {
+  const bs = run.bs;
+  const dtype = bs.nk * bs.nBands * bs.nSpin > F64_ENERGY_LIMIT ? 'f32' : 'f64';
+  const vbm = run.report.gap?.vbm.eV ?? null;
+  return {
+    rowId,
+    title,
+    nk: bs.nk,
+    nBands: bs.nBands,
+    nSpin: bs.nSpin,
+    distance: encodeArray(run.geometry.distance, 'f64'),
+    energies: bs.energies.map((e) => encodeArray(e, dtype)),
+    ticks: run.geometry.ticks.map((t) => ({ distance: t.distance, label: t.label, kIndex: t.index })),
+    segments: run.geometry.segments.map((s) => ({ start: s.start, end: s.end, startLabel: s.startLabel, endLabel: s.endLabel, afterJump: s.afterJump })),
+    align_eV: vbm ?? bs.fermiEnergy,
+    alignedAt: vbm !== null ? 'vbm' : bs.fermiEnergy !== null ? 'fermi' : 'none',
+    distanceUnits: run.geometry.units,
   };
 }

@@ -9,7 +9,6 @@ import {
   COMPARE_MAX_OVERLAY,
   CompareHostToViewType,
   CompareViewToHostType,
-  encodeArray,
   isCompareViewToHostMessage,
   type CompareBandRun,
   type CompareHostToViewMessage,
@@ -22,12 +21,11 @@ import { bandViewHtml, makeNonce } from './bandViewHtml';
 import { environmentFor } from './trust';
 import { COMMANDS } from './commandIds';
 import { findWorkspaceRuns } from './compareViewRuns';
-import { buildCompareTable, type CompareEntry } from './compareViewData';
+import { bandRunOf, buildCompareTable, type CompareEntry } from './compareViewData';
 import { WorkspaceFileAccessor } from './fileAccessor';
 import { loadAnnotationsRun, type LoadedAnnotationsRun } from '../core/compare/loadAnnotationsRun';
 import { dataPathFor } from '../core/annotations/annotationsModel';
 import { crystalSymmetry, symmetryReady } from '../core/lattice/symmetry';
-import { F64_ENERGY_LIMIT } from './bandData';
 import type { Mat3 } from '../core/model';
 
 export const COMPARE_VIEW_TYPE = 'valleyscope.compareView';
@@ -339,28 +337,6 @@ export class CompareViewPanel implements vscode.Disposable {
   static disposeCurrent(): void {
     CompareViewPanel.current?.dispose();
   }
-}
-
-/** Band data of one run for the overlay: path, energies, and the energy it is aligned at. */
-export function bandRunOf(rowId: string, title: string, run: LoadedRun): CompareBandRun {
-  const bs = run.bs;
-  const dtype = bs.nk * bs.nBands * bs.nSpin > F64_ENERGY_LIMIT ? 'f32' : 'f64';
-  const vbm = run.report.gap?.vbm.eV ?? null;
-  const align = vbm ?? bs.fermiEnergy;
-  return {
-    rowId,
-    title,
-    nk: bs.nk,
-    nBands: bs.nBands,
-    nSpin: bs.nSpin,
-    distance: encodeArray(run.geometry.distance, 'f64'),
-    energies: bs.energies.map((e) => encodeArray(e, dtype)),
-    ticks: run.geometry.ticks.map((t) => ({ distance: t.distance, label: t.label, kIndex: t.index })),
-    segments: run.geometry.segments.map((s) => ({ start: s.start, end: s.end, startLabel: s.startLabel, endLabel: s.endLabel, afterJump: s.afterJump })),
-    align_eV: align,
-    alignedAt: vbm !== null ? 'vbm' : bs.fermiEnergy !== null ? 'fermi' : 'none',
-    distanceUnits: run.geometry.units,
-  };
 }
 
 /** The command that opens (or reveals) the compare view. */

@@ -116,6 +116,11 @@ async function startHarness(): Promise<Harness> {
       res.end(html);
       return;
     }
+    if (url.pathname === '/favicon.ico') {
+      res.writeHead(204);
+      res.end();
+      return;
+    }
     res.writeHead(404);
     res.end();
   });
