@@ -140,6 +140,18 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     await v.page.close();
   });
 
+  it('text from a hostile file (title, labels) is shown as text, never as markup', async () => {
+    const evil = '<img src="http://example.invalid/x.png" onerror="window.__pwned=1">';
+    const data = { ...run.data, title: `Si ${evil}`, ticks: run.data.ticks.map((t, i) => (i === 1 ? { ...t, label: evil } : t)) };
+    const v = await openWithRun(h, { ...run, data });
+    assert.equal(await v.page.locator('img').count(), 0);
+    assert.equal(await v.page.locator('.vs-title').textContent(), `Si ${evil}`);
+    assert.ok(((await v.page.evaluate(`__t.text('.vs-axis-x text')`)) as string[]).includes(evil));
+    assert.equal(await v.page.evaluate('window.__pwned'), undefined);
+    await assertClean(v);
+    await v.page.close();
+  });
+
   it('marks the VBM, the CBM and the secondary minimum at their data positions', async () => {
     const v = await openWithRun(h, run);
     for (const kind of ['vbm', 'cbm', 'valley'] as const) {

@@ -94,4 +94,16 @@ describe('band view modules', () => {
     assert.deepEqual(subpaths, [4 * 2, 8 * 2]);
     assert.equal(pngSize().width, Math.round((85 / 25.4) * 600));
   });
+
+  it('export SVG: labels and titles from a hostile file are escaped, never markup', async () => {
+    const run = await loadRunForView('fixtures/epm/si', 'Si <b>"x"</b> & co');
+    const evil = '<image href="http://example.invalid/x.png" onerror="alert(1)"/>';
+    const data = { ...run.data, ticks: run.data.ticks.map((t, i) => (i === 1 ? { ...t, label: evil } : t)) };
+    const vm = buildViewModel(data);
+    const ref = chooseReference('vbm', { vbm_eV: data.vbm_eV, fermiEnergy: null });
+    const { svg } = buildExportSvg({ vm, spins: [0], reference: ref, xDomain: [vm.distance[0]!, vm.distance[vm.nk - 1]!], yDomain: [-6, 6], marks: vm.marks, curves: [] });
+    assert.ok(!svg.includes('<image'), 'no element injected');
+    assert.ok(svg.includes('&lt;image href=&quot;http://example.invalid/x.png&quot; onerror=&quot;alert(1)&quot;/&gt;'));
+    assert.ok(svg.includes('<title>Si &lt;b&gt;&quot;x&quot;&lt;/b&gt; &amp; co: band structure</title>'));
+  });
 });
