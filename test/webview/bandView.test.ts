@@ -401,6 +401,34 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     await v.page.close();
   });
 
+  it('a k-grid around the CBM: the panel shows the mass tensor and the averaged masses the host computed', async () => {
+    // fixtures/epm/si-cbm-grid: 5×5×5 k-points centred on silicon's conduction minimum (same EPM model).
+    const grid = await loadRunForView('fixtures/epm/si-cbm-grid', 'Si CBM grid (EPM)');
+    const v = await openWithRun(h, grid);
+    await v.page.focus('.vs-plot');
+    await v.page.keyboard.press('ArrowUp');
+    const cbm = mark(grid, 'cbm');
+    await v.page.keyboard.press('Enter');
+    const req = await waitPosted(v, 'requestFit', 1);
+    assert.deepEqual({ spin: req.spin, kIndex: req.kIndex, band0: req.band0 }, { spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0 });
+    const answer = hostFitResult(grid, req.requestId as number, cbm, 25, 'parabola', true);
+    const t = answer.extremum.tensor;
+    assert.ok(t, 'the core gives a tensor on this grid');
+    await v.hostPost(answer);
+    await v.page.waitForSelector('.vs-fit-body:not([hidden])');
+    const items = await v.page.locator('.vs-tensor li').allTextContents();
+    assert.equal(items.length, 3);
+    t.principal.forEach((m, i) => assert.ok(items[i]!.startsWith(`${m.toPrecision(3)} mₑ along (`), items[i]));
+    assert.match((await v.page.locator('.vs-tensor').textContent()) ?? '', new RegExp(`method ${t.method}`));
+    const dl = (await v.page.locator('.vs-degeneracy').textContent()) ?? '';
+    const x = answer.extremum;
+    if (x.dosMass !== null) assert.ok(dl.includes(`Density-of-states mass${x.dosMass.toPrecision(3)} mₑ`), dl);
+    if (x.conductivityMass !== null) assert.ok(dl.includes(`Conductivity mass${x.conductivityMass.toPrecision(3)} mₑ`), dl);
+    assert.ok(x.dosMass !== null || x.conductivityMass !== null, 'averaged masses available with the tensor and N_v');
+    await assertClean(v);
+    await v.page.close();
+  });
+
   it('hover read-out names the k-point, band and energy from the VBM', async () => {
     const v = await openWithRun(h, run);
     const cbm = mark(run, 'cbm');

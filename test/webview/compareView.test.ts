@@ -33,6 +33,8 @@ import type { BandStructure, Report } from '../../src/core/model';
 import { CHROMIUM_ARGS, CHROMIUM_PATH } from './support/bandViewHarness';
 import { BODY_CLASS, THEME_VARS } from './support/themes';
 import { hexToRgb, waitForExpression } from './support/pageHelpers';
+import { layoutOverlay, pathsMatch } from '../../webview/compareView/overlayLayout';
+import { nextSort, sortRows } from '../../webview/compareView/tableSort';
 
 const ARTIFACTS = 'test-artifacts';
 const SERIES = join('fixtures', 'demo', 'si-strain');
@@ -356,5 +358,45 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     assert.ok(!isCompareViewToHostMessage({ type: 'compareReady', extra: 1 }));
     assert.ok(!isCompareViewToHostMessage({ type: 'ready' }), 'a band-view message is not a compare message');
     assert.ok(!isViewToHostMessage({ type: 'compareReady' }), 'and the other way round');
+  });
+});
+
+describe('compare view layout and sorting (pure modules)', () => {
+  const seg = (start: number, end: number, a: string, b: string, afterJump = false) => ({ start, end, startLabel: a, endLabel: b, afterJump });
+  const tick = (distance: number, label: string, kIndex: number) => ({ distance, label, kIndex });
+
+  it('runs on the same labelled path share the axis, each segment stretched onto the first run’s', () => {
+    // Two runs Γ–X–L: segment lengths differ (a strained cell), so raw distances would misplace X.
+    const a = { nk: 5, distance: Float64Array.from([0, 0.5, 1, 1.5, 2]), segments: [seg(0, 2, 'Γ', 'X'), seg(2, 4, 'X', 'L')], ticks: [tick(0, 'Γ', 0), tick(1, 'X', 2), tick(2, 'L', 4)] };
+    const b = { nk: 5, distance: Float64Array.from([0, 0.6, 1.2, 1.6, 2.0]), segments: [seg(0, 2, 'Γ', 'X'), seg(2, 4, 'X', 'L')], ticks: [tick(0, 'Γ', 0), tick(1.2, 'X', 2), tick(2.0, 'L', 4)] };
+    assert.equal(pathsMatch([a, b]), true);
+    const l = layoutOverlay([a, b]);
+    assert.equal(l.shared, true);
+    // Linear map of each segment onto the reference segment (hand computation): X of b lands on X of a.
+    assert.deepEqual(Array.from(l.x[1]!), [0, 0.5, 1, 1.5, 2]);
+    assert.deepEqual(l.separators, []);
+  });
+
+  it('runs on different paths go side by side with a separator', () => {
+    const a = { nk: 3, distance: Float64Array.from([0, 1, 2]), segments: [seg(0, 2, 'Γ', 'X')], ticks: [tick(0, 'Γ', 0), tick(2, 'X', 2)] };
+    const b = { nk: 3, distance: Float64Array.from([0, 1, 3]), segments: [seg(0, 2, 'Γ', 'L')], ticks: [tick(0, 'Γ', 0), tick(3, 'L', 2)] };
+    assert.equal(pathsMatch([a, b]), false);
+    const l = layoutOverlay([a, b]);
+    assert.equal(l.shared, false);
+    assert.equal(l.separators.length, 1);
+    // b starts after a (length 2) and a gap of 6 % of the longest run (3): 2.18.
+    assert.ok(Math.abs(l.x[1]![0]! - 2.18) < 1e-12);
+    assert.ok(l.separators[0]! > 2 && l.separators[0]! < 2.18);
+    // A path with an unlabelled end cannot be shared.
+    assert.equal(pathsMatch([a, { ...a, segments: [{ ...a.segments[0]!, endLabel: null }] }]), false);
+  });
+
+  it('sorts numbers as numbers, rows without a number last either way, ties by name', () => {
+    const row = (id: string, name: string, m: number | null) => ({ id, name, origin: 'data' as const, isReference: false, annotations: 'none' as const, staleReasons: [], error: null, metal: false, direct: false, vbm: null, cbm: null, cbmValley: null, vbmValley: null, values: m === null ? {} : { m }, canOverlay: true });
+    const rows = [row('r0', 'c', 10), row('r1', 'a', 9), row('r2', 'b', null), row('r3', 'd', 9)];
+    assert.deepEqual(sortRows(rows, { key: 'm', direction: 'ascending' }).map((r) => r.id), ['r1', 'r3', 'r0', 'r2']);
+    assert.deepEqual(sortRows(rows, { key: 'm', direction: 'descending' }).map((r) => r.id), ['r0', 'r1', 'r3', 'r2']);
+    assert.deepEqual(sortRows(rows, null).map((r) => r.name), ['a', 'b', 'c', 'd']);
+    assert.deepEqual(nextSort({ key: 'm', direction: 'ascending' }, 'm'), { key: 'm', direction: 'descending' });
   });
 });
