@@ -1,0 +1,112 @@
+/**
+ * The compare view in a real VS Code (code-server 4.100.3) with the packaged extension. Workspace: a copy of
+ * the demo's strained-silicon series (fixtures/demo/si-strain: an invented scenario; bands of Cohen &
+ * Bergstresser's empirical pseudopotential model, Phys. Rev. 141, 789 (1966), in VASP's layouts). Reference
+ * numbers come from outside the editor: the command-line twin's `analyze --json` on each run's EIGENVAL.
+ */
+import assert from 'node:assert/strict';
+import { readdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { EditorSession, waitFor } from './support/editorSession';
+import { cliAnalyze, type CliReport } from './support/reference';
+
+const repo = (...p: string[]): string => join(__dirname, '..', '..', ...p);
+const SERIES = repo('fixtures', 'demo', 'si-strain');
+const RUNS = readdirSync(SERIES, { withFileTypes: true })
+  .filter((d) => d.isDirectory())
+  .map((d) => d.name)
+  .sort();
+
+let starting: Promise<EditorSession> | undefined;
+function session(): Promise<EditorSession> {
+  starting ??= EditorSession.start({ name: 'compare', workspace: [[SERIES, 'si-strain']] });
+  return starting;
+}
+
+const TAB = 'Valleyscope: Run Comparison';
+
+describe('in a real VS Code, the compare view', function () {
+  this.timeout(300_000);
+
+  after(async () => {
+    if (starting) await (await starting.catch(() => undefined))?.close();
+  });
+
+  afterEach(async function () {
+    const s = await starting?.catch(() => undefined);
+    if (!s) return;
+    if (this.currentTest?.state === 'failed') await s.screenshot('failed-compare-view').catch(() => undefined);
+  });
+
+  it('opens on the demo series, sorts by a mass and overlays two runs', async () => {
+    assert.equal(RUNS.length, 5, `the demo series has five runs (${RUNS.join(', ')})`);
+    const s = await session();
+    await s.runCommand('Valleyscope: Compare Runs in Workspace');
+    await s.page.locator('.tabs-container .tab', { hasText: TAB }).first().waitFor({ timeout: 60_000 });
+    const view = s.webview();
+    const rows = view.locator('table.cv-table tbody tr');
+    await waitFor(async () => ((await rows.count()) === RUNS.length ? true : undefined), `the table did not list the ${RUNS.length} runs`, 120_000);
+    const names = (): Promise<string[]> => rows.evaluateAll((trs) => trs.map((tr) => (tr as HTMLElement).dataset.name ?? ''));
+    assert.deepEqual(await names(), RUNS.map((r) => `si-strain/${r}/EIGENVAL`));
+
+    // Reference: `valleyscope analyze --json` on each EIGENVAL of the workspace copy.
+    const cli = new Map<string, CliReport>(RUNS.map((r) => [`si-strain/${r}/EIGENVAL`, cliAnalyze(s.env.repoRoot, s.path('si-strain', r, 'EIGENVAL'))]));
+    const gaps = await view.locator('table.cv-table tbody td[data-key="gap"]').allInnerTexts();
+    RUNS.forEach((r, i) => {
+      const g = cli.get(`si-strain/${r}/EIGENVAL`)!.gap!;
+      assert.equal(gaps[i], g.eV.toFixed(4), `gap of ${r}: ${gaps[i]} shown, ${g.eV} from the CLI`);
+    });
+    await s.screenshot('compare-view-table');
+
+    // Sort by the CBM mass towards Γ (along the Δ line: every run's CBM lies on Γ–X or Γ–Z here).
+    const key = 'cbm.m.Γ';
+    const header = view.locator(`table.cv-table th[data-key="${key}"] button`);
+    assert.equal(await header.count(), 1, 'a column of CBM masses towards Γ');
+    await header.click();
+    const cbmMass = (name: string): number => {
+      const r = cli.get(name)!;
+      const cbm = r.extrema.find((e) => e.kind === 'cbm')!;
+      const m = cbm.masses.find((x) => x.towards === 'Γ');
+      assert.ok(m, `the CLI fits a CBM mass towards Γ for ${name}`);
+      return m.mass;
+    };
+    const expected = [...cli.keys()].sort((a, b) => cbmMass(a) - cbmMass(b));
+    assert.notDeepEqual(expected, [...cli.keys()], 'the mass order differs from the name order (else the check could not fail)');
+    await waitFor(async () => ((await names()).join() === expected.join() ? true : undefined), `rows not in ascending order of the CBM mass: ${expected.join(', ')}`, 15_000);
+    await s.screenshot('compare-view-sorted');
+
+    // Overlay the most compressed and the most stretched run.
+    const first = `si-strain/${RUNS[0]}/EIGENVAL`;
+    const last = `si-strain/${RUNS[RUNS.length - 1]}/EIGENVAL`;
+    await view.locator(`table.cv-table tbody tr[data-name="${first}"] input.cv-select`).check();
+    await view.locator(`table.cv-table tbody tr[data-name="${last}"] input.cv-select`).check();
+    const stats = await waitFor(
+      async () => {
+        const st = (await view.locator('body').evaluate(() => (window as unknown as { valleyscopeCompareView: { lastOverlay: { runs: string[]; shared: boolean; strokes: number[]; colours: string[] } | null } }).valleyscopeCompareView.lastOverlay)) ?? null;
+        return st && st.runs.length === 2 ? st : undefined;
+      },
+      'the two ticked runs were not drawn',
+      60_000,
+    );
+    assert.equal(stats.shared, true, 'the series shares one path (Z–Γ–X–W–K–Γ–L)');
+    // Both runs are on the canvas, each in its own colour.
+    const inked = await view.locator('canvas.cv-overlay-canvas').evaluate((node, colours) => {
+      const c = node as HTMLCanvasElement;
+      const d = c.getContext('2d')!.getImageData(0, 0, c.width, c.height).data;
+      const probe = document.createElement('canvas').getContext('2d')!;
+      return colours.map((col) => {
+        probe.fillStyle = col;
+        const norm = String(probe.fillStyle);
+        const rgb = norm.startsWith('#') ? [1, 3, 5].map((i) => parseInt(norm.slice(i, i + 2), 16)) : (norm.match(/[\d.]+/g) ?? []).slice(0, 3).map(Number);
+        let n = 0;
+        for (let i = 0; i < d.length; i += 4) if (d[i + 3]! > 150 && Math.abs(d[i]! - rgb[0]!) <= 30 && Math.abs(d[i + 1]! - rgb[1]!) <= 30 && Math.abs(d[i + 2]! - rgb[2]!) <= 30) n++;
+        return n;
+      });
+    }, stats.colours);
+    assert.ok(inked[0]! > 300, `the first run is drawn (${inked[0]} pixels of its colour)`);
+    assert.ok(inked[1]! > 150, `the second run is drawn (${inked[1]} pixels of its colour)`);
+    const legend = await view.locator('.cv-legend-item').allInnerTexts();
+    assert.deepEqual(legend.map((t) => t.trim()), [first, last]);
+    await s.screenshot('compare-view-overlay');
+  });
+});
