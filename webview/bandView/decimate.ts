@@ -255,10 +255,3 @@ export function columnEnvelope(
   }
   return read;
 }
-
-/** How many points of the piece i0..i1-1 fall in the visible x range of the mapping. */
-export function visiblePoints(x: Float64Array, i0: number, i1: number, map: ColumnMapping): number {
-  const a = lowerBound(x, map.x0, i0, i1);
-  const z = lowerBound(x, map.x0 + map.width / map.scale, a, i1);
-  return Math.max(0, z - a);
-}

@@ -41,7 +41,8 @@ body.vscode-high-contrast .vs-mark, body.vscode-high-contrast-light .vs-mark { s
 .vs-fit-window { stroke: var(--vscode-charts-green); stroke-width: 1; stroke-dasharray: 2 3; }
 .vs-hover-dot { fill: var(--vscode-editor-background); stroke: var(--vscode-foreground); stroke-width: 1.5; }
 .vs-hover-line { stroke: var(--vscode-foreground); stroke-opacity: 0.35; }
-.vs-message { position: absolute; inset: 0; display: flex; align-items: center; justify-content: center; padding: 20px; text-align: center; }
+.vs-message { position: absolute; inset: 0; display: flex; align-items: center; justify-content: center; padding: 20px; text-align: center;
+  background: color-mix(in srgb, var(--vscode-editor-background) 85%, transparent); }
 .vs-readout { min-height: 1.4em; font-variant-numeric: tabular-nums; color: var(--vscode-foreground); }
 .vs-status { min-height: 1.2em; color: var(--vscode-descriptionForeground); }
 .vs-side { flex: 0 0 300px; box-sizing: border-box; overflow-x: hidden; overflow-y: auto; padding-right: 6px; border-left: 1px solid var(--vscode-panel-border, var(--vscode-contrastBorder, transparent)); padding-left: 10px; }

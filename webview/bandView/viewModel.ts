@@ -147,16 +147,3 @@ export function labelNear(vm: ViewModel, k: number): string | null {
 export function energyAt(vm: ViewModel, spin: number, k: number, band0: number): number {
   return vm.energies[spin]![k * vm.nBands + band0]!;
 }
-
-export function markName(m: Pick<ExtremumMark, 'kind'>): string {
-  switch (m.kind) {
-    case 'vbm':
-      return 'Valence-band maximum (VBM)';
-    case 'cbm':
-      return 'Conduction-band minimum (CBM)';
-    case 'valley':
-      return 'Secondary conduction minimum';
-    case 'peak':
-      return 'Secondary valence maximum';
-  }
-}
