@@ -323,14 +323,12 @@ export class EditorSession {
     }
     await this.page.locator('.markers-panel').first().waitFor({ timeout: 15_000 });
     const until = Date.now() + timeoutMs;
-    let rows: string[] = [];
-    while (Date.now() < until) {
-      rows = await panelRows.allInnerTexts();
-      // The file row plus its problems.
-      if (rows.length >= min) return rows;
+    for (;;) {
+      const rows = await panelRows.allInnerTexts();
+      // (A file's row, then its problems.)
+      if (rows.length >= min || Date.now() >= until) return rows;
       await sleep(250);
     }
-    return rows;
   }
 
   /** Click the code lens of the active editor whose text contains `text`. */
