@@ -83,6 +83,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
 
   it('draws every band on the canvas where the data puts it, in the theme colours', async () => {
     const v = await openWithRun(h, run, 'dark');
+    await v.page.screenshot({ path: `${ARTIFACTS}/bandview-dark-whole-path.png` });
     const pts: [number, number, number][] = [];
     for (let k = 0; k < run.data.nk; k += 7) for (let b = 0; b < run.data.nBands; b++) pts.push([0, k, b]);
     const res = (await v.page.evaluate(`__t.probe(${JSON.stringify(pts)}, 2)`)) as Probe[];
