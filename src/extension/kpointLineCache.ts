@@ -8,7 +8,7 @@ const cache = new WeakMap<vscode.TextDocument, { version: number; run: LoadedRun
 export function kpointLinesOf(doc: vscode.TextDocument, run: LoadedRun): Int32Array {
   const c = cache.get(doc);
   if (c && c.version === doc.version && c.run === run) return c.lines;
-  const lines = locateKpointLines(doc.getText(), run.bs.kpoints, run.bs.nk);
+  const lines = locateKpointLines(doc.getText(), run.bs.kpoints, run.bs.nk, run.geometry.cartesian);
   cache.set(doc, { version: doc.version, run, lines });
   return lines;
 }

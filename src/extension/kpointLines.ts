@@ -76,8 +76,55 @@ function scan(text: string, kpoints: Float64Array, nk: number, shape: Shape | nu
  * look like a k-point (tiny values read as 0). When the 2nd and 3rd k-points sit on lines of the same shape,
  * a second pass accepts only lines of that shape.
  */
-export function locateKpointLines(text: string, kpoints: Float64Array, nk: number): Int32Array {
+export function locateKpointLines(text: string, kpoints: Float64Array, nk: number, cartesian: Float64Array | null = null): Int32Array {
   if (nk === 0 || text.length > MAX_SCANNED_CHARS) return new Int32Array(nk).fill(-1);
+  const fractional = locateBy(text, kpoints, nk);
+  if (!cartesian || fractional[nk - 1]! >= 0) return fractional;
+  // Layouts that write cartesian k in units of 2π/alat (Quantum ESPRESSO's XML and bands.x output): the
+  // written numbers are the cartesian k (Å⁻¹) times alat/2π, a factor found from the file itself.
+  const found = (a: Int32Array): number => a.reduce((n, l) => n + (l >= 0 ? 1 : 0), 0);
+  let best = fractional;
+  for (const scale of candidateScales(text, cartesian, nk)) {
+    const byCartesian = locateBy(text, cartesian.map((x) => x * scale), nk);
+    if (found(byCartesian) > found(best)) best = byCartesian;
+    if (best[nk - 1]! >= 0) break;
+  }
+  return best;
+}
+
+/** At most this many candidate factors are tried (lattice vectors and the like also give proportional triples). */
+const MAX_SCALES = 8;
+
+/**
+ * Candidate factors s with written ≈ s × cartesian: from lines holding a triple proportional (s > 0) to the
+ * first k-point away from Γ, in file order, distinct.
+ */
+function candidateScales(text: string, cartesian: Float64Array, nk: number): number[] {
+  let j = -1;
+  for (let k = 0; k < nk && j < 0; k++) if (Math.hypot(cartesian[3 * k]!, cartesian[3 * k + 1]!, cartesian[3 * k + 2]!) > 1e-6) j = k;
+  if (j < 0) return [];
+  const c = [cartesian[3 * j]!, cartesian[3 * j + 1]!, cartesian[3 * j + 2]!];
+  const c2 = c[0]! * c[0]! + c[1]! * c[1]! + c[2]! * c[2]!;
+  const out: number[] = [];
+  const nums: number[] = [];
+  let pos = 0;
+  while (pos <= text.length && out.length < MAX_SCALES) {
+    let end = text.indexOf('\n', pos);
+    if (end < 0) end = text.length;
+    lineNumbers(text, pos, end, nums);
+    for (let i = 0; i + 2 < nums.length; i++) {
+      const t = [nums[i]!, nums[i + 1]!, nums[i + 2]!];
+      if (!t.every(Number.isFinite)) continue;
+      const sc = (t[0]! * c[0]! + t[1]! * c[1]! + t[2]! * c[2]!) / c2;
+      if (!(sc > 0) || !t.every((x, m) => Math.abs(x - sc * c[m]!) <= MATCH_TOL)) continue;
+      if (!out.some((o) => Math.abs(o - sc) <= 1e-6 * o)) out.push(sc);
+    }
+    pos = end + 1;
+  }
+  return out;
+}
+
+function locateBy(text: string, kpoints: Float64Array, nk: number): Int32Array {
   const first = scan(text, kpoints, nk, null);
   if (nk < 3 || first.shapes.length < 3 || first.shapes[1] !== first.shapes[2]) return first.lines;
   const second = scan(text, kpoints, nk, first.shapes[1]!);

@@ -4,6 +4,8 @@ import { loadSi } from './demoRun';
 import { collinearModel } from '../../support/writers/roundTripModel';
 import { writeVasprun } from '../../support/writers/vasprun';
 import { writeCastepBands } from '../../support/writers/castep';
+import { writeBandsx, writeQeXml } from '../../support/writers/qe';
+import { pathGeometry } from '../../../src/core/lattice/kpath';
 import { readerById } from '../../../src/core/formats/index';
 
 describe('extension: k-point lines of a file', () => {
@@ -67,6 +69,36 @@ describe('extension: k-point lines of a file', () => {
         const list = lines.findIndex((l) => l.includes('kpointlist'));
         assert.equal(kl[0], list + 1, 'Γ is the first line of the k-point list, not the generation block');
       }
+    }
+  });
+
+  it('in Quantum ESPRESSO layouts (cartesian k in 2π/alat), finds every k-point from the cartesian k and a factor read from the file', () => {
+    const model = collinearModel();
+    // alat 3.7 Å is not a lattice constant of the model (4, 5, 6 Å): the factor alat/2π must come from the file.
+    const alat = 3.7;
+    const xml = writeQeXml(model, { alat });
+    const bandsx = writeBandsx(model, alat);
+    const enc = (t: string) => new TextEncoder().encode(t);
+    const fromXml = readerById('qe-xml')!.read({ path: 'data-file-schema.xml', bytes: enc(xml) }, [], {});
+    const fromBands = readerById('qe-bands')!.read({ path: 'si.bands.dat', bytes: enc(bandsx) }, [{ path: 'si.xml', bytes: enc(xml) }], {});
+    const cases: [string, typeof fromXml, string, RegExp][] = [
+      ['pw.x XML', fromXml, xml, /<k_point\b/],
+      ['bands.x', fromBands, bandsx, /^\s*-?\d+\.\d+\s+-?\d+\.\d+\s+-?\d+\.\d+\s*$/],
+    ];
+    for (const [name, bs, text, shape] of cases) {
+      const g = pathGeometry(bs);
+      assert.ok(g.cartesian, `${name}: lattice known`);
+      const kl = locateKpointLines(text, bs.kpoints, bs.nk, g.cartesian);
+      const lines = text.split('\n');
+      for (let k = 0; k < bs.nk; k++) {
+        assert.ok(kl[k]! >= 0, `${name}: k-point ${k + 1} found`);
+        assert.match(lines[kl[k]!]!, shape, `${name}: k-point ${k + 1}`);
+        if (k > 0) assert.ok(kl[k]! > kl[k - 1]!, `${name}: in order`);
+      }
+      // Without the cartesian k only the first leg (where the written numbers happen to equal fractional ones,
+      // if at all) could be found.
+      const fractionalOnly = locateKpointLines(text, bs.kpoints, bs.nk);
+      assert.ok(fractionalOnly[bs.nk - 1]! < 0, `${name}: fractional coordinates alone do not find the last k-point`);
     }
   });
 });
