@@ -3,6 +3,8 @@ import * as vscode from 'vscode';
 import type { RunStore } from './runStore';
 import { itemsFromError, itemsFromRun, type DiagnosticItem } from './diagnosticItems';
 import { CancelledError, ReaderError } from '../core/errors';
+import { isAnnotationsPath } from '../core/annotations/annotationsModel';
+import { annotationsProblems } from './annotationsCheck';
 
 const SEVERITY = {
   error: vscode.DiagnosticSeverity.Error,
@@ -10,7 +12,7 @@ const SEVERITY = {
   information: vscode.DiagnosticSeverity.Information,
 } as const;
 
-function toDiagnostic(doc: vscode.TextDocument | undefined, item: DiagnosticItem): vscode.Diagnostic {
+export function toDiagnostic(doc: vscode.TextDocument | undefined, item: DiagnosticItem): vscode.Diagnostic {
   let range: vscode.Range;
   if (doc && item.line < doc.lineCount) {
     const text = doc.lineAt(item.line);
@@ -50,4 +52,32 @@ export function registerDiagnostics(store: RunStore): vscode.Disposable {
     collection.set(target, itemsFromRun(run.bs, run.report, run.bs.source.file, lastLine).map((i) => toDiagnostic(targetDoc, i)));
   };
   return vscode.Disposable.from(collection, store.onDidChange(update));
+}
+
+/** Problems of `*.valleys.json` documents, checked as they are opened and edited. */
+export function registerAnnotationsDiagnostics(): vscode.Disposable {
+  const collection = vscode.languages.createDiagnosticCollection('valleyscope-annotations');
+  const timers = new Map<string, ReturnType<typeof setTimeout>>();
+  const check = (doc: vscode.TextDocument): void => {
+    if (!isAnnotationsPath(doc.uri.path)) return;
+    const key = doc.uri.toString();
+    const t = timers.get(key);
+    if (t) clearTimeout(t);
+    timers.set(
+      key,
+      setTimeout(() => {
+        timers.delete(key);
+        const name = doc.uri.path.split('/').pop() ?? doc.uri.path;
+        collection.set(doc.uri, annotationsProblems(doc.getText(), name).map((i) => toDiagnostic(doc, i)));
+      }, 300),
+    );
+  };
+  vscode.workspace.textDocuments.forEach(check);
+  return vscode.Disposable.from(
+    collection,
+    vscode.workspace.onDidOpenTextDocument(check),
+    vscode.workspace.onDidChangeTextDocument((e) => check(e.document)),
+    vscode.workspace.onDidCloseTextDocument((d) => collection.delete(d.uri)),
+    { dispose: () => timers.forEach((t) => clearTimeout(t)) },
+  );
 }

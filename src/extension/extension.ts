@@ -7,7 +7,7 @@ import { RunStore } from './runStore';
 import { readSettings } from './settings';
 import { LANGUAGE_IDS, isEigenvalueLanguage } from './languageIds';
 import { registerContentDetection } from './languages';
-import { registerDiagnostics } from './diagnostics';
+import { registerAnnotationsDiagnostics, registerDiagnostics } from './diagnostics';
 import { EigenvalueSymbolProvider } from './documentSymbols';
 import { KpointHoverProvider } from './hover';
 import { AnnotationsCodeLensProvider, GapCodeLensProvider } from './codeLens';
@@ -45,6 +45,7 @@ export function activate(context: vscode.ExtensionContext): void {
     { dispose: () => panels.dispose() },
     registerContentDetection(),
     registerDiagnostics(store),
+    registerAnnotationsDiagnostics(),
     vscode.languages.registerDocumentSymbolProvider(selector, new EigenvalueSymbolProvider(store), { label: 'k-path' }),
     vscode.languages.registerHoverProvider(selector, new KpointHoverProvider(store)),
     vscode.languages.registerCodeLensProvider(selector, lenses),
