@@ -93,14 +93,28 @@ export class CompareViewPanel implements vscode.Disposable {
       CompareViewPanel.current.panel.reveal(undefined, false);
       return CompareViewPanel.current;
     }
-    const root = vscode.Uri.joinPath(deps.extensionUri, 'dist', 'webview');
-    const panel = vscode.window.createWebviewPanel(COMPARE_VIEW_TYPE, TITLE, vscode.ViewColumn.Active, {
+    const panel = vscode.window.createWebviewPanel(COMPARE_VIEW_TYPE, TITLE, vscode.ViewColumn.Active, CompareViewPanel.options(deps));
+    return CompareViewPanel.attach(panel, deps);
+  }
+
+  /** A panel VS Code restored after a reload of the window: give it its page again, and look for runs anew. */
+  static async revive(panel: vscode.WebviewPanel, deps: CompareDeps): Promise<CompareViewPanel> {
+    CompareViewPanel.current?.dispose();
+    panel.webview.options = CompareViewPanel.options(deps);
+    return CompareViewPanel.attach(panel, deps);
+  }
+
+  private static options(deps: CompareDeps): vscode.WebviewPanelOptions & vscode.WebviewOptions {
+    return {
       enableScripts: true,
       retainContextWhenHidden: true,
-      localResourceRoots: [root],
+      localResourceRoots: [vscode.Uri.joinPath(deps.extensionUri, 'dist', 'webview')],
       enableFindWidget: true,
-    });
-    const script = vscode.Uri.joinPath(root, 'compareView.js');
+    };
+  }
+
+  private static async attach(panel: vscode.WebviewPanel, deps: CompareDeps): Promise<CompareViewPanel> {
+    const script = vscode.Uri.joinPath(deps.extensionUri, 'dist', 'webview', 'compareView.js');
     try {
       await vscode.workspace.fs.stat(script);
     } catch {
@@ -345,6 +359,11 @@ export function registerCompareView(deps: CompareDeps): vscode.Disposable {
     vscode.commands.registerCommand(OPEN_COMPARE_VIEW_COMMAND, async () => {
       const p = await CompareViewPanel.show(deps);
       return p.lastRowCount;
+    }),
+    vscode.window.registerWebviewPanelSerializer(COMPARE_VIEW_TYPE, {
+      deserializeWebviewPanel: async (panel: vscode.WebviewPanel) => {
+        await CompareViewPanel.revive(panel, deps);
+      },
     }),
     { dispose: () => CompareViewPanel.disposeCurrent() },
   );
