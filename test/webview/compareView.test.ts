@@ -351,6 +351,24 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     await v.page.close();
   });
 
+  it('flags stale annotations and marks rows that show saved numbers', async () => {
+    const a = entryOf(runs.get('r0')!, 'r0');
+    const stale: CompareEntry = { ...entryOf(runs.get('r1')!, 'r1'), annotations: 'stale', staleReasons: ['source EIGENVAL (eigenvalues) has changed since the annotations were written'] };
+    const saved: CompareEntry = { ...entryOf(runs.get('r2')!, 'r2'), name: 'si-strain/03_biaxial+0.00pct/EIGENVAL.valleys.json', origin: 'annotations', annotations: 'current', canOverlay: false };
+    const broken: CompareEntry = { ...entryOf(runs.get('r3')!, 'r3'), run: null, error: 'EIGENVAL line 9: a number was expected' };
+    const v = await openView(h, buildCompareTable([a, stale, saved, broken], null, true));
+    const flag = v.page.locator('tr[data-id="r1"] .cv-stale');
+    assert.equal(await flag.innerText(), 'stale');
+    assert.match((await flag.getAttribute('title')) ?? '', /has changed since/);
+    assert.equal(await v.page.locator('tr[data-id="r2"] .cv-tag', { hasText: 'saved numbers' }).count(), 1);
+    assert.equal(await v.page.locator('tr[data-id="r2"] input.cv-select').isDisabled(), true, 'nothing to draw without a data file');
+    assert.equal(await v.page.locator('tr[data-id="r3"] td[data-key="gap"]').innerText(), '—', 'an unreadable run has no numbers');
+    assert.ok((await v.page.locator('.cv-cautions li').allInnerTexts()).some((c) => /annotations files show the numbers as they were saved/i.test(c)));
+    assert.match((await v.page.locator('.cv-summary').innerText()) ?? '', /4 runs, 1 unreadable, 1 with stale annotations/);
+    await clean(v);
+    await v.page.close();
+  });
+
   it('the compare messages are checked: unknown types, extra fields and bad ids are refused', () => {
     assert.ok(isCompareViewToHostMessage({ type: 'compareRequestBands', requestId: 3, rowIds: ['r0', 'r12'] }));
     assert.ok(!isCompareViewToHostMessage({ type: 'compareRequestBands', requestId: 3, rowIds: ['../x'] }));
