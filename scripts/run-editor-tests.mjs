@@ -38,7 +38,7 @@ if (process.env.VALLEYSCOPE_EDITOR_LOCK_HELD !== '1' && spawnSync('flock', ['--v
 
 async function main() {
   const started = Date.now();
-  const artifactsDir = join(root, 'test-artifacts', 'editor');
+  const artifactsDir = resolve(process.env.VALLEYSCOPE_EDITOR_ARTIFACTS ?? join(root, 'test-artifacts', 'editor'));
   rmSync(artifactsDir, { recursive: true, force: true });
   mkdirSync(artifactsDir, { recursive: true });
   const runDir = mkdtempSync(join(tmpdir(), 'valleyscope-editor-run-'));

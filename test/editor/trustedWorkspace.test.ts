@@ -266,7 +266,13 @@ describe('in a real VS Code, trusted workspace', function () {
     await waitFor(() => (readFileSync(target, 'utf8') !== first ? true : undefined), 'the merged annotations never reached the disk', 30_000);
     await annotationsDirty.first().waitFor({ state: 'detached', timeout: 15_000 });
     await annotationsTab.click();
+    // Show the hand edit in the screenshot (find it in the editor).
+    await s.activeEditorText().click();
+    await s.page.keyboard.press('Control+F');
+    await s.page.keyboard.type('reviewedBy');
+    await s.page.keyboard.press('Enter');
     await s.screenshot('merge-saved');
+    await s.page.keyboard.press('Escape');
     const merged = JSON.parse(readFileSync(target, 'utf8')) as AnnotationsFile;
     assert.equal(merged.reviewedBy, 'hand edit from the editor test', 'the hand edit survived the merge');
     // The CBM entry now carries the 40 meV fit, equal to the CLI with --window 40.
