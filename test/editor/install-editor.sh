@@ -103,7 +103,10 @@ if ! installed_ok; then
     } >"$d/.npmrc"
   done
   # Step 3: run the allowed install scripts (code-server's post-install builds the VS Code dependencies).
-  ( cd "$INSTALL_DIR" && npm_config_unsafe_perm=true npm_config_yes=true \
+  # (npm_config_nodedir: native modules build against the local Node headers; there is no header download.)
+  nodedir_env=()
+  [ -d /usr/include/node ] && nodedir_env=(npm_config_nodedir=/usr)
+  ( cd "$INSTALL_DIR" && env "${nodedir_env[@]}" npm_config_unsafe_perm=true npm_config_yes=true \
       npm rebuild --foreground-scripts --omit-lockfile-registry-resolved=false ) >>"$LOG" 2>&1 \
     || fail "code-server's install scripts failed"
   if ! installed_files_ok; then
