@@ -119,6 +119,7 @@ export class RunStore implements vscode.Disposable {
     const name = uri.path.split('/').pop() ?? uri.path;
     const opts = { settings: s.analysis, maxBytes: s.maxBytes, workerScript: this.workerScript, workerThresholdBytes: s.workerThresholdBytes };
     const started = Date.now();
+    this.log.info(`${uri.toString(true)}: reading (${(size / 1e6).toFixed(1)} MB${this.workerScript && size >= s.workerThresholdBytes ? ', on a worker thread' : ''})`);
     const task = async (progress: vscode.Progress<{ message?: string; increment?: number }>, token: vscode.CancellationToken): Promise<LoadedRun> => {
       const sub = token.onCancellationRequested(() => cts.cancel());
       let reported = 0;
