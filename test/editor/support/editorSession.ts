@@ -290,6 +290,12 @@ export class EditorSession {
   async closeAllEditors(): Promise<void> {
     await this.runCommand('View: Hide Panel').catch(() => undefined);
     await this.runCommand('View: Close All Editors');
+    // A scenario that failed half-way may leave an unsaved editor: do not save it, do not block the next one.
+    const dontSave = this.page.locator('.monaco-dialog-box .monaco-button', { hasText: "Don't Save" }).first();
+    await dontSave.waitFor({ state: 'visible', timeout: 1500 }).then(
+      () => dontSave.click(),
+      () => undefined,
+    );
     await this.page.locator('.tabs-container .tab').first().waitFor({ state: 'detached', timeout: 15_000 }).catch(() => undefined);
   }
 
