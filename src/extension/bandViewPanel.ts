@@ -132,6 +132,8 @@ export class BandViewPanel implements vscode.Disposable {
     }
     if (state.status === 'loading') {
       this.post({ type: HostToViewType.Loading, title: fileName(this.runUri) });
+      // Whatever comes next (new data, or the old data after a cancelled re-read) is sent again.
+      this.postedRun = null;
       return;
     }
     if (state.status === 'failed') {

@@ -76,6 +76,7 @@ export class RunStore implements vscode.Disposable {
   private load(uri: vscode.Uri): Promise<LoadedRun> {
     const key = uri.toString();
     const old = this.entries.get(key);
+    const previous = old?.state.status === 'loaded' ? old.state.run : null;
     old?.cts.cancel();
     if (old?.reloadTimer) clearTimeout(old.reloadTimer);
     const cts = new vscode.CancellationTokenSource();
@@ -90,6 +91,13 @@ export class RunStore implements vscode.Disposable {
         return run;
       },
       (error: unknown) => {
+        if (this.entries.get(key) === entry && error instanceof CancelledError && previous) {
+          // A cancelled re-read keeps what was read before.
+          entry.state = { status: 'loaded', run: previous };
+          entry.promise = Promise.resolve(previous);
+          this.changed.fire(uri);
+          throw error;
+        }
         if (this.entries.get(key) === entry) {
           entry.state = { status: 'failed', error };
           // Watch the file that failed too: a job still writing it, or a fix, brings a reload.
