@@ -19,12 +19,16 @@ interface Entry {
   cts: vscode.CancellationTokenSource;
   watcher: vscode.FileSystemWatcher | null;
   reloadTimer: ReturnType<typeof setTimeout> | null;
+  /** When the first change not yet reloaded was seen (ms), or 0. */
+  changedSince: number;
 }
 
 /** Files at least this large get a notification with a Cancel button; smaller ones a status-bar spinner. */
 const NOTIFY_BYTES = 8 * 1024 * 1024;
 /** Wait this long after the last change before reloading (a job writes in bursts). */
 const RELOAD_DELAY_MS = 700;
+/** ... but reload at least this often while a job keeps writing. */
+const RELOAD_MAX_WAIT_MS = 5000;
 
 export class RunStore implements vscode.Disposable {
   private readonly entries = new Map<string, Entry>();
@@ -73,15 +77,16 @@ export class RunStore implements vscode.Disposable {
     this.entries.delete(key);
   }
 
-  private load(uri: vscode.Uri): Promise<LoadedRun> {
+  /** `quiet`: a reload the user did not ask for (the file changed): progress in the status bar, not a notification. */
+  private load(uri: vscode.Uri, quiet = false): Promise<LoadedRun> {
     const key = uri.toString();
     const old = this.entries.get(key);
     const previous = old?.state.status === 'loaded' ? old.state.run : null;
     old?.cts.cancel();
     if (old?.reloadTimer) clearTimeout(old.reloadTimer);
     const cts = new vscode.CancellationTokenSource();
-    const entry: Entry = { state: { status: 'loading' }, promise: Promise.resolve(null as unknown as LoadedRun), cts, watcher: old?.watcher ?? null, reloadTimer: null };
-    entry.promise = this.run(uri, cts).then(
+    const entry: Entry = { state: { status: 'loading' }, promise: Promise.resolve(null as unknown as LoadedRun), cts, watcher: old?.watcher ?? null, reloadTimer: null, changedSince: 0 };
+    entry.promise = this.run(uri, cts, quiet).then(
       (run) => {
         if (this.entries.get(key) === entry) {
           entry.state = { status: 'loaded', run };
@@ -115,7 +120,7 @@ export class RunStore implements vscode.Disposable {
     return entry.promise;
   }
 
-  private async run(uri: vscode.Uri, cts: vscode.CancellationTokenSource): Promise<LoadedRun> {
+  private async run(uri: vscode.Uri, cts: vscode.CancellationTokenSource, quiet: boolean): Promise<LoadedRun> {
     const s = this.settings();
     let size = 0;
     try {
@@ -143,7 +148,7 @@ export class RunStore implements vscode.Disposable {
     };
     try {
       const run =
-        size >= NOTIFY_BYTES
+        size >= NOTIFY_BYTES && !quiet
           ? await vscode.window.withProgress({ location: vscode.ProgressLocation.Notification, title: `Valleyscope: reading ${name}`, cancellable: true }, task)
           : await vscode.window.withProgress({ location: vscode.ProgressLocation.Window, title: 'Valleyscope' }, (p) => task(p, cts.token));
       this.log.info(`${uri.toString(true)}: read and analysed in ${Date.now() - started} ms (${run.bs.nk} k-points, ${run.bs.nBands} bands)`);
@@ -161,17 +166,24 @@ export class RunStore implements vscode.Disposable {
     const dir = vscode.Uri.joinPath(fileUri, '..');
     const base = fileUri.path.split('/').pop() ?? '';
     try {
-      const w = vscode.workspace.createFileSystemWatcher(new vscode.RelativePattern(dir, base), true, false, true);
-      w.onDidChange(() => {
+      const w = vscode.workspace.createFileSystemWatcher(new vscode.RelativePattern(dir, base), false, false, true);
+      const changed = (): void => {
         const e = this.entries.get(runUri.toString());
         if (!e) return;
         if (e.reloadTimer) clearTimeout(e.reloadTimer);
+        const now = Date.now();
+        if (!e.changedSince) e.changedSince = now;
+        const wait = Math.max(0, Math.min(RELOAD_DELAY_MS, e.changedSince + RELOAD_MAX_WAIT_MS - now));
         e.reloadTimer = setTimeout(() => {
           e.reloadTimer = null;
+          e.changedSince = 0;
           this.log.info(`${fileUri.toString(true)} changed on disk: reading it again`);
-          void this.load(runUri).catch(() => undefined);
-        }, RELOAD_DELAY_MS);
-      });
+          void this.load(runUri, true).catch(() => undefined);
+        }, wait);
+      };
+      // A job rewrites the file in place, or writes it anew.
+      w.onDidChange(changed);
+      w.onDidCreate(changed);
       entry.watcher = w;
     } catch {
       // Some virtual file systems cannot be watched: the user reloads by hand.
