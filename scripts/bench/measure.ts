@@ -12,10 +12,13 @@ import { loadRun } from '../../src/core/load';
 import { nodeFileAccessor } from '../../src/cli/nodeFileAccessor';
 import { analyzeBandStructure } from '../../src/core/analysis/analyze';
 import { ensureSymmetryReady } from '../../src/core/lattice/symmetry';
+import { installNativeSha256 } from '../../src/cli/nativeHash';
 import type { BandStructure } from '../../src/core/model';
 
 async function main(): Promise<void> {
   const [task, a1, a2] = process.argv.slice(2);
+  // As the CLI does: node's native SHA-256 for the source hash.
+  installNativeSha256();
   await ensureSymmetryReady();
   const rssBefore = process.memoryUsage().rss;
   const t0 = performance.now();

@@ -41,6 +41,16 @@ export const nodeFileAccessor: FileAccessor = {
         }
         return got === n ? buf : buf.subarray(0, got);
       },
+      readInto(offset: number, target: Uint8Array, targetOffset: number, length: number): number {
+        const n = Math.max(0, Math.min(length, size - offset, target.length - targetOffset));
+        let got = 0;
+        while (got < n) {
+          const r = readSync(fd, target, targetOffset + got, n - got, offset + got);
+          if (r === 0) break;
+          got += r;
+        }
+        return got;
+      },
       close(): void {
         closeSync(fd);
       },

@@ -59,6 +59,8 @@ export interface KGrid {
   endpointsRepeated: boolean;
 }
 
+export type OccupationArray = Float32Array | Float64Array;
+
 export interface BandStructure {
   source: BandSource;
   /** Real-space lattice rows in Å, when known. */
@@ -74,8 +76,12 @@ export interface BandStructure {
   weights: Float64Array | null;
   /** One array per spin channel, layout [k * nBands + band], eV. */
   energies: Float64Array[];
-  /** Same layout as energies, when the file gives occupations (0..1 or 0..2 as written). */
-  occupations: Float64Array[] | null;
+  /**
+   * Same layout as energies, when the file gives occupations (0..1 or 0..2 as written). Readers of large
+   * text files keep them in single precision: the files write them with six decimals at most, and they only
+   * decide which states are filled.
+   */
+  occupations: OccupationArray[] | null;
   fermiEnergy: number | null;
   electrons: number | null;
   /** Non-collinear / spin-orbit run: one electron per band. */

@@ -90,7 +90,7 @@ export function fromJobError(j: JobError): Error {
 /** The typed arrays of a band structure, to hand over to another thread without copying. */
 export function transferablesOf(bs: BandStructure): ArrayBuffer[] {
   const set = new Set<ArrayBuffer>();
-  const add = (a: Float64Array | null | undefined): void => {
+  const add = (a: Float64Array | Float32Array | null | undefined): void => {
     if (a && a.buffer instanceof ArrayBuffer) set.add(a.buffer);
   };
   add(bs.kpoints);

@@ -13,7 +13,7 @@ const TAB = 9;
 const COMMA = 44;
 
 /** Exact powers of ten representable as doubles (10^0 .. 10^22). */
-const POW10 = [
+export const POW10 = [
   1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18,
   1e19, 1e20, 1e21, 1e22,
 ];
@@ -27,7 +27,7 @@ export function decodeText(bytes: Uint8Array, start = 0, end = bytes.length): st
 }
 
 /** Bytes read per refill when streaming. */
-export const STREAM_CHUNK_BYTES = 16 * 1024 * 1024;
+export const STREAM_CHUNK_BYTES = 4 * 1024 * 1024;
 
 export class TextScanner {
   /** The current window of the file (the whole file unless streaming). */
@@ -47,6 +47,8 @@ export class TextScanner {
   private windowOffset = 0;
   /** File offset of the next byte not yet read from the source. */
   private nextRead = 0;
+  /** The reusable window buffer of a streaming scanner whose source can read into a buffer. */
+  private window: Uint8Array | null = null;
   /** Called with every chunk read from a source (e.g. to hash the file while streaming). */
   onChunk: ((chunk: Uint8Array) => void) | null = null;
 
@@ -103,16 +105,34 @@ export class TextScanner {
     for (;;) {
       const available = this.bytes.length - this.lineStart;
       if (available >= n || this.nextRead >= src.size) return;
-      const keep = this.bytes.subarray(this.lineStart);
-      const chunk = src.read(this.nextRead, Math.max(STREAM_CHUNK_BYTES, n - keep.length));
-      if (chunk.length === 0) return;
-      this.onChunk?.(chunk);
-      this.nextRead += chunk.length;
-      const next = new Uint8Array(keep.length + chunk.length);
-      next.set(keep);
-      next.set(chunk, keep.length);
+      const keepLength = available;
+      const want = Math.max(STREAM_CHUNK_BYTES, n - keepLength);
       const shift = this.lineStart;
-      this.bytes = next;
+      if (src.readInto) {
+        // Reuse one buffer: move the unread tail to its start and read the next piece after it, so a long
+        // file leaves no trail of discarded windows for the collector.
+        let buf = this.window;
+        if (!buf || buf.length < keepLength + want) {
+          const grown = new Uint8Array(keepLength + want);
+          grown.set(this.bytes.subarray(this.lineStart));
+          buf = grown;
+        } else buf.copyWithin(0, this.lineStart, this.bytes.length);
+        this.window = buf;
+        const got = src.readInto(this.nextRead, buf, keepLength, want);
+        if (got === 0) return;
+        this.onChunk?.(buf.subarray(keepLength, keepLength + got));
+        this.nextRead += got;
+        this.bytes = buf.subarray(0, keepLength + got);
+      } else {
+        const chunk = src.read(this.nextRead, want);
+        if (chunk.length === 0) return;
+        this.onChunk?.(chunk);
+        this.nextRead += chunk.length;
+        const next = new Uint8Array(keepLength + chunk.length);
+        next.set(this.bytes.subarray(this.lineStart));
+        next.set(chunk, keepLength);
+        this.bytes = next;
+      }
       this.windowOffset += shift;
       this.pos -= shift;
       this.lineStart = 0;

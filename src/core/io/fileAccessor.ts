@@ -14,6 +14,8 @@ export interface ByteRangeSource {
   readonly size: number;
   /** Up to `length` bytes starting at `offset` (fewer only at the end of the file). */
   read(offset: number, length: number): Uint8Array;
+  /** Read up to `length` bytes at `offset` into `target` at `targetOffset`; returns the count (optional). */
+  readInto?(offset: number, target: Uint8Array, targetOffset: number, length: number): number;
   close(): void;
 }
 

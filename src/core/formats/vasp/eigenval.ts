@@ -11,7 +11,7 @@
  */
 import type { InputFile } from '../../io/fileAccessor';
 import { CancelledError } from '../../errors';
-import { TextScanner } from '../textScanner';
+import { POW10, TextScanner } from '../textScanner';
 import { createSha256, sha256Hex } from '../../hash';
 import type { ReadOptions } from '../types';
 
@@ -25,7 +25,7 @@ export interface EigenvalData {
   kpoints: Float64Array;
   weights: Float64Array;
   energies: Float64Array[];
-  occupations: Float64Array[] | null;
+  occupations: Float32Array[] | null;
   system: string;
   /** Number of k-points the header announced (equals nk unless partial). */
   announcedK: number;
@@ -69,8 +69,9 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
   const weights = new Float64Array(maxK);
   const energies: Float64Array[] = [];
   for (let s = 0; s < ispin; s++) energies.push(new Float64Array(maxK * nBands));
-  let occupations: Float64Array[] | null = null;
+  let occupations: Float32Array[] | null = null;
   let columns = -1;
+  const values = new Float64Array(4);
   let nk = 0;
   const progressEvery = Math.max(1, Math.floor(nkAnnounced / 100));
   // Bytes one k-point block may take, generously: streaming keeps at least two blocks in the window.
@@ -96,6 +97,11 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
     const base = k * nBands;
     let complete = true;
     for (let b = 0; b < nBands; b++) {
+      if (columns > 0 && fastBandLine(sc, b + 1, values, columns - 1)) {
+        for (let s = 0; s < ispin; s++) energies[s]![base + b] = values[s]!;
+        if (occupations) for (let s = 0; s < ispin; s++) occupations[s]![base + b] = values[ispin + s]!;
+        continue;
+      }
       if (sc.atEnd()) {
         if (options.allowPartial) {
           complete = false;
@@ -132,12 +138,18 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
         }
         if (columns === expectOcc) {
           occupations = [];
-          for (let s = 0; s < ispin; s++) occupations.push(new Float64Array(maxK * nBands));
+          for (let s = 0; s < ispin; s++) occupations.push(new Float32Array(maxK * nBands));
         }
       }
-      for (let s = 0; s < ispin; s++) energies[s]![base + b] = sc.number(() => `the energy of band ${b + 1} at k-point ${k + 1}${ispin === 2 ? (s === 0 ? ' (spin up)' : ' (spin down)') : ''}`);
+      for (let s = 0; s < ispin; s++) {
+        const v = sc.tryNumberAfterSpaces();
+        energies[s]![base + b] = v ?? valueError(sc, 'the energy', k, b, ispin === 2 ? s : -1);
+      }
       if (occupations) {
-        for (let s = 0; s < ispin; s++) occupations[s]![base + b] = sc.number(() => `the occupation of band ${b + 1} at k-point ${k + 1}`);
+        for (let s = 0; s < ispin; s++) {
+          const v = sc.tryNumberAfterSpaces();
+          occupations[s]![base + b] = v ?? valueError(sc, 'the occupation', k, b, ispin === 2 ? s : -1);
+        }
       }
       if (!sc.atEol()) {
         throw sc.error(`band ${b + 1} of k-point ${k + 1} has more columns than the first band line (${columns}): "${sc.peekToken()}"`);
@@ -166,7 +178,7 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
     kpoints: trim(kpoints, nk * 3),
     weights: trim(weights, nk),
     energies: energies.map((e) => trim(e, nk * nBands)),
-    occupations: occupations ? (occupations as Float64Array[]).map((e) => trim(e, nk * nBands)) : null,
+    occupations: occupations ? (occupations as Float32Array[]).map((e) => (e.length === nk * nBands ? e : e.slice(0, nk * nBands))) : null,
     system,
     announcedK: nkAnnounced,
     partial: nk < nkAnnounced,
@@ -197,4 +209,76 @@ function bandIndexError(sc: TextScanner, k: number, b: number, nBands: number): 
   }
   sc.number(() => `the band index (k-point ${k + 1}, band ${b + 1})`);
   throw sc.error(`expected the band index (k-point ${k + 1}, band ${b + 1})`);
+}
+
+/** A value field did not hold a number: the scanner's sentence for it (overflow, NaN, missing...). */
+function valueError(sc: TextScanner, what: string, k: number, b: number, spin: number): never {
+  const channel = spin === 0 ? ' (spin up)' : spin === 1 ? ' (spin down)' : '';
+  sc.number(`${what} of band ${b + 1} at k-point ${k + 1}${channel}`);
+  throw sc.error(`expected ${what} of band ${b + 1} at k-point ${k + 1}${channel}`);
+}
+
+/**
+ * The common band line, "  index  E [E_down] [occ [occ_down]]" with plain decimals, parsed in one pass
+ * over the bytes. Returns false, leaving the scanner untouched, for anything else (exponents, long
+ * mantissas, a wrong index, damage): the general path then reads the line and words any error.
+ */
+function fastBandLine(sc: TextScanner, expectIndex: number, out: Float64Array, count: number): boolean {
+  const buf = sc.bytes;
+  const n = buf.length;
+  let p = sc.pos;
+  while (p < n && (buf[p] === 32 || buf[p] === 9)) p++;
+  let idx = 0;
+  let digits = 0;
+  while (p < n) {
+    const d = buf[p]! - 48;
+    if (d < 0 || d > 9) break;
+    idx = idx * 10 + d;
+    p++;
+    digits++;
+  }
+  if (digits === 0 || idx !== expectIndex) return false;
+  for (let j = 0; j < count; j++) {
+    const start = p;
+    while (p < n && (buf[p] === 32 || buf[p] === 9)) p++;
+    if (p === start) return false;
+    let neg = false;
+    if (buf[p] === 45) {
+      neg = true;
+      p++;
+    }
+    let m = 0;
+    let nd = 0;
+    let frac = 0;
+    while (p < n) {
+      const d = buf[p]! - 48;
+      if (d < 0 || d > 9) break;
+      m = m * 10 + d;
+      p++;
+      nd++;
+    }
+    if (p < n && buf[p] === 46) {
+      p++;
+      while (p < n) {
+        const d = buf[p]! - 48;
+        if (d < 0 || d > 9) break;
+        m = m * 10 + d;
+        p++;
+        nd++;
+        frac++;
+      }
+    }
+    if (nd === 0 || nd > 15) return false;
+    const c = buf[p];
+    if (!(c === 32 || c === 9 || c === 10 || c === 13)) return false;
+    const v = m / POW10[frac]!;
+    out[j] = neg ? -v : v;
+  }
+  while (p < n && (buf[p] === 32 || buf[p] === 9 || buf[p] === 13)) p++;
+  if (p >= n || buf[p] !== 10) return false;
+  p++;
+  sc.pos = p;
+  sc.line++;
+  sc.lineStart = p;
+  return true;
 }
