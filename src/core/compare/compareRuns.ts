@@ -154,9 +154,10 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
     for (const [e, id] of map) {
       const r = refById.get(id);
       const masses: MassChange[] = e.masses.map((m) => {
-        const rm = r?.masses.find((x) => x.towards === m.towards) ?? null;
+        // Same direction and, at a degenerate edge, the same branch (heavy with heavy, light with light).
+        const rm = r?.masses.find((x) => x.towards === m.towards && (x.branch ?? 0) === (m.branch ?? 0)) ?? null;
         return {
-          towards: m.towards,
+          towards: m.branch !== undefined ? `${m.towards} (branch ${m.branch})` : m.towards,
           mass: m.mass,
           referenceMass: rm ? rm.mass : null,
           relativeChange: rm ? (m.mass - rm.mass) / Math.abs(rm.mass) : null,

@@ -116,3 +116,22 @@ describe('comparing runs', () => {
     assert.ok(Math.abs(c.runs[0]!.deltaGap_eV! + 0.5) < 1e-12);
   });
 });
+
+describe('comparing degenerate edges', () => {
+  it('pairs masses branch with branch, not the first mass of a direction', () => {
+    // Heavy (branch 1) and light (branch 2) holes towards X: a 5 % change in each, hand-made numbers.
+    const withBranches = (heavy: number, light: number): ExtremumReport => {
+      const e = ext('vbm', 4, G, 0, 0, 'Γ', [['X', heavy], ['X', light]]);
+      e.masses[0]!.branch = 1;
+      e.masses[1]!.branch = 2;
+      return e;
+    };
+    const A = report([withBranches(-0.5, -0.2), ext('cbm', 5, D, 1, 0, null, [])]);
+    const B = report([withBranches(-0.525, -0.21), ext('cbm', 5, D, 1, 0, null, [])]);
+    const c = compareRuns([{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }]);
+    const v = c.columns.find((x) => x.side === 'valence')!;
+    const changes = c.runs[1]!.valleys[v.id]!.masses.map((m) => m.relativeChange!);
+    // Hand arithmetic: −0.525 vs −0.5 and −0.21 vs −0.2 are both −5 % of |m| (signed masses grow more negative).
+    for (const x of changes) assert.ok(Math.abs(x + 0.05) < 1e-12, `${x}`);
+  });
+});
