@@ -306,7 +306,8 @@ export class BandViewPanel implements vscode.Disposable {
     }
     try {
       await vscode.workspace.fs.writeFile(target, bytes);
-      finish(true, `Plot written to ${vscode.workspace.asRelativePath(target)} (${m.width}×${m.height}).`);
+      const size = m.format === 'png' ? ` (${m.width} × ${m.height} pixels)` : '';
+      finish(true, `Plot written to ${vscode.workspace.asRelativePath(target)}${size}.`);
     } catch (e) {
       finish(false, `The plot could not be written: ${message(e)}`);
     }
