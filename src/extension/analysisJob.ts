@@ -7,6 +7,7 @@ import type { InputFile } from '../core/io/fileAccessor';
 import type { ReadOptions } from '../core/formats/types';
 import { readerById } from '../core/formats/index';
 import { readFromBytes } from '../core/load';
+import { openLocalRanged } from './localRangedSource';
 import { analyzeBandStructure, type AnalysisSettings } from '../core/analysis/analyze';
 import { ReaderError, ValleyscopeError, CancelledError } from '../core/errors';
 import { ensureSymmetryReady } from '../core/lattice/symmetry';
@@ -26,7 +27,10 @@ export async function prepareAnalysis(): Promise<string | null> {
 
 export interface AnalysisJob {
   readerId: string;
+  /** The main file's bytes; empty when `streamFrom` is given. */
   main: InputFile;
+  /** Local path of the main file to stream from (very large files, readers that can stream, node only). */
+  streamFrom?: string;
   companions: InputFile[];
   read: Pick<ReadOptions, 'spinorbit' | 'alatAngstrom' | 'allowPartial'>;
   settings: AnalysisSettings;
@@ -59,7 +63,16 @@ export async function runAnalysisJob(job: AnalysisJob, hooks: JobHooks = {}): Pr
   const options: ReadOptions = { ...job.read };
   if (hooks.isCancelled) options.isCancelled = hooks.isCancelled;
   if (hooks.onProgress) options.onProgress = hooks.onProgress;
-  const bs = await readFromBytes(reader, job.main, job.companions, options);
+  let bs: BandStructure;
+  if (job.streamFrom !== undefined) {
+    // Very large local file: the reader streams it in windows; memory holds the arrays, not the text.
+    const stream = openLocalRanged(job.streamFrom);
+    try {
+      bs = await readFromBytes(reader, { path: job.main.path, bytes: new Uint8Array(0), stream }, job.companions, options);
+    } finally {
+      stream.close();
+    }
+  } else bs = await readFromBytes(reader, job.main, job.companions, options);
   if (hooks.isCancelled?.()) throw new CancelledError();
   const report = analyzeBandStructure(bs, job.settings);
   return { bs, report };

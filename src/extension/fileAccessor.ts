@@ -49,7 +49,8 @@ export class WorkspaceFileAccessor implements FileAccessor {
     return all.subarray(0, Math.min(bytes, all.length));
   }
 
-  private async checkSize(uri: vscode.Uri, path: string): Promise<void> {
+  /** Throws the size sentence when the file is above the user's limit. */
+  async checkSize(uri: vscode.Uri, path: string): Promise<void> {
     if (this.maxBytes <= 0) return;
     const st = await vscode.workspace.fs.stat(uri);
     if (st.size > this.maxBytes) {

@@ -5,7 +5,8 @@
  */
 import type * as vscode from 'vscode';
 import { Worker } from 'node:worker_threads';
-import { locateRun, readCompanions } from '../core/load';
+import { STREAM_ABOVE_BYTES, locateRun, readCompanions } from '../core/load';
+import { canReadLocalRanges } from './localRangedSource';
 import { pathGeometry, type PathGeometry } from '../core/lattice/kpath';
 import type { BandStructure, Report } from '../core/model';
 import type { AnalysisSettings } from '../core/analysis/analyze';
@@ -47,7 +48,15 @@ export async function loadAndAnalyse(uri: vscode.Uri, opts: LoadOptions, token: 
     const loc = await locateRun(fs, uri.path);
     if (token.isCancellationRequested) throw new CancelledError();
     progress(0, 'reading');
-    const bytes = await fs.readFile(loc.file);
+    const fileUri = fs.uri(loc.file);
+    const workerAvailable = Worker !== undefined && opts.workerScript !== null;
+    // A very large local file, with a reader that can stream: the worker streams it from disk (the bytes are
+    // never held whole, here or there). Otherwise the bytes are read here and handed over.
+    const st = await fs.stat(loc.file);
+    const stream =
+      workerAvailable && loc.reader.streaming === true && fileUri.scheme === 'file' && canReadLocalRanges() && st !== null && st.size > STREAM_ABOVE_BYTES;
+    if (stream) await fs.checkSize(fileUri, loc.file);
+    const bytes = stream ? new Uint8Array(0) : await fs.readFile(loc.file);
     const companions = await readCompanions(fs, loc);
     fs.release();
     if (token.isCancellationRequested) throw new CancelledError();
@@ -58,11 +67,12 @@ export async function loadAndAnalyse(uri: vscode.Uri, opts: LoadOptions, token: 
       read: { allowPartial: true },
       settings: opts.settings,
     };
-    const size = bytes.byteLength;
-    const useWorker = Worker !== undefined && opts.workerScript !== null && size >= opts.workerThresholdBytes;
+    if (stream) job.streamFrom = fileUri.fsPath;
+    const size = stream ? st!.size : bytes.byteLength;
+    const useWorker = workerAvailable && size >= opts.workerThresholdBytes;
     const out = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, token, progress);
     progress(1, 'path geometry');
-    return { uri, fileUri: fs.uri(loc.file), bs: out.bs, report: out.report, geometry: pathGeometry(out.bs), size };
+    return { uri, fileUri, bs: out.bs, report: out.report, geometry: pathGeometry(out.bs), size };
   } finally {
     fs.release();
   }

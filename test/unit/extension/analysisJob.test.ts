@@ -79,6 +79,26 @@ describe('extension: the analysis job (worker thread and in-process)', () => {
     }
   });
 
+  it('streams a local file from disk (no bytes handed over) with the same result, in-process and on a worker thread', async function () {
+    this.timeout(60000);
+    const cli = await loadSi();
+    const job = siJob();
+    const streamed: AnalysisJob = { ...job, main: { path: job.main.path, bytes: new Uint8Array(0) }, streamFrom: job.main.path };
+    const out = await runAnalysisJob(streamed);
+    assert.deepEqual(reportToJson(out.report), reportToJson(cli.report));
+    assert.deepEqual(Array.from(out.bs.energies[0]!), Array.from(cli.bs.energies[0]!));
+    // The content hash is of the file's bytes, streamed or not.
+    assert.equal(out.bs.source.files[0]!.sha256, cli.bs.source.files[0]!.sha256);
+    const { done, worker } = runWorker(streamed);
+    try {
+      const reply = await done;
+      assert.equal(reply.type, 'done');
+      if (reply.type === 'done') assert.deepEqual(reportToJson(reply.report), reportToJson(cli.report));
+    } finally {
+      await worker.terminate();
+    }
+  });
+
   it('keeps error kinds through the boundary', () => {
     const r = fromJobError(toJobError(new ReaderError('vasp-eigenval', 'f', { line: 3, column: 7 }, 'bad number')));
     assert.ok(r instanceof ReaderError);
