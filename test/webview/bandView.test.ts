@@ -393,6 +393,8 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     // (the x scale now spans the longer path, so compare the transform, not the pixel).
     assert.deepEqual(await v.page.evaluate('(function (t) { return [t.k, t.x, t.y]; })(window.valleyscopeBandView.transform)'), [1.5, -100, -50]);
     await v.page.evaluate('window.valleyscopeBandView.setZoom(1, 0, 0)');
+    // Let the zoom's redraw land before probing pixels (two animation frames).
+    await v.page.evaluate('new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(() => r(true))))');
     const pts: [number, number, number][] = [];
     for (let k = nk0; k < run.data.nk; k += 9) for (let b = 0; b < 8; b++) pts.push([0, k, b]);
     const res = ((await v.page.evaluate(`__t.probe(${JSON.stringify(pts)}, 2)`)) as Probe[]).filter((r) => r.inside);
