@@ -70,9 +70,8 @@ export function polynomialCurvature(s: LineSamples, settings: FitSettings, opt: 
   if (tv < -1.5 * h || tv > tmax) {
     warnings.push(`The fitted vertex lies ${tv.toFixed(4)} Å⁻¹ from the sampled extremum, outside the points used: the band may not have its extremum here.`);
   }
-  if (rms > Math.max(0.04 * win.window_meV, 3000 * settings.energySigma, 0.05)) {
-    warnings.push(`Fit residual ${rms.toFixed(2)} meV in a ${win.window_meV.toFixed(0)} meV window: the band is not parabolic there (try a smaller window, or the poly4 or kane method).`);
-  }
+  const nonParabolic = residualWarning(rms, win.window_meV, settings.energySigma);
+  if (nonParabolic) warnings.push(nonParabolic);
   return {
     method: opt.method,
     curvature,
@@ -121,9 +120,8 @@ function evenPolynomialCurvature(s: LineSamples, settings: FitSettings, opt: Pol
   const stderr = Math.abs(mass) * (curvatureStderr / Math.abs(curvature));
   const rms = Math.sqrt(fit.rss / n) * 1000;
   const warnings = [...win.warnings];
-  if (rms > Math.max(0.04 * win.window_meV, 3000 * settings.energySigma, 0.05)) {
-    warnings.push(`Fit residual ${rms.toFixed(2)} meV in a ${win.window_meV.toFixed(0)} meV window: the band is not parabolic there (try a smaller window, or the poly4 or kane method).`);
-  }
+  const nonParabolic = residualWarning(rms, win.window_meV, settings.energySigma);
+  if (nonParabolic) warnings.push(nonParabolic);
   return {
     method: opt.method,
     curvature,
@@ -137,6 +135,12 @@ function evenPolynomialCurvature(s: LineSamples, settings: FitSettings, opt: Pol
     vertexE: e0 + fit.coef[0]!,
     warnings,
   };
+}
+
+/** A residual beyond what rounding and a parabola explain says the band is not parabolic in the window. */
+function residualWarning(rms_meV: number, window_meV: number, energySigma: number): string | null {
+  if (rms_meV <= Math.max(0.04 * window_meV, 3000 * energySigma, 0.05)) return null;
+  return `Fit residual ${rms_meV.toFixed(2)} meV in a ${window_meV.toFixed(0)} meV window: the band is not parabolic there (try a smaller window, or the poly4 or kane method).`;
 }
 
 /** Fewest points of the quartic fit: five unknowns and two more to judge the residual. */
