@@ -40,6 +40,7 @@ import { snapToCandidate, SNAP_TOLERANCE_PX, type ScreenCandidate } from './snap
 import { BAND_VIEW_CSS } from './styles';
 import { readPalette, type Palette } from './theme';
 import { buildViewModel, energyAt, labelNear, nearestK, type ViewModel } from './viewModel';
+import { el, setOptions, vsButton, vsSelect, type VsButton, type VsSelect } from '../shared/controls';
 
 interface VsCodeApi {
   postMessage(message: unknown): void;
@@ -71,42 +72,6 @@ interface FitState {
   curves: FitCurve[];
   window_meV: number;
   method: string;
-}
-
-function el<K extends keyof HTMLElementTagNameMap>(tag: K, cls?: string, text?: string): HTMLElementTagNameMap[K] {
-  const e = document.createElement(tag);
-  if (cls) e.className = cls;
-  if (text !== undefined) e.textContent = text;
-  return e;
-}
-
-type VsButton = HTMLElement & { disabled: boolean };
-type VsSelect = HTMLElement & { value: string };
-
-function vsButton(label: string, secondary = false): VsButton {
-  const b = document.createElement('vscode-button') as unknown as VsButton;
-  b.textContent = label;
-  if (secondary) b.setAttribute('secondary', '');
-  return b;
-}
-
-function vsSelect(label: string): VsSelect {
-  const s = document.createElement('vscode-single-select') as unknown as VsSelect;
-  s.setAttribute('aria-label', label);
-  return s;
-}
-
-function setOptions(sel: VsSelect, options: { value: string; label: string }[], current: string): void {
-  sel.replaceChildren(
-    ...options.map((o) => {
-      const opt = document.createElement('vscode-option');
-      opt.setAttribute('value', o.value);
-      opt.textContent = o.label;
-      if (o.value === current) opt.setAttribute('selected', '');
-      return opt;
-    }),
-  );
-  sel.value = current;
 }
 
 export class BandViewApp {

@@ -33,6 +33,7 @@ import { fixed, minus } from '../bandView/format';
 import { layoutOverlay, type OverlayLayout } from './overlayLayout';
 import { nextSort, sortRows, type SortState } from './tableSort';
 import { COMPARE_VIEW_CSS } from './styles';
+import { el, setOptions, vsButton, vsSelect, type VsButton, type VsSelect } from '../shared/controls';
 
 interface VsCodeApi {
   postMessage(message: unknown): void;
@@ -41,8 +42,6 @@ interface VsCodeApi {
 }
 declare function acquireVsCodeApi(): VsCodeApi;
 
-type VsButton = HTMLElement & { disabled: boolean };
-type VsSelect = HTMLElement & { value: string };
 type VsCheckbox = HTMLElement & { checked: boolean };
 
 const SVG_NS = 'http://www.w3.org/2000/svg';
@@ -54,39 +53,6 @@ const E_HIGH = 5;
 /** Line patterns per run (so runs differ by more than colour). */
 const DASHES: number[][] = [[], [7, 4], [2, 3], [10, 3, 2, 3], [4, 4], [1, 2]];
 const USER_KEY = 'user';
-
-function el<K extends keyof HTMLElementTagNameMap>(tag: K, cls?: string, text?: string): HTMLElementTagNameMap[K] {
-  const e = document.createElement(tag);
-  if (cls) e.className = cls;
-  if (text !== undefined) e.textContent = text;
-  return e;
-}
-
-function vsButton(label: string, secondary = false): VsButton {
-  const b = document.createElement('vscode-button') as unknown as VsButton;
-  b.textContent = label;
-  if (secondary) b.setAttribute('secondary', '');
-  return b;
-}
-
-function vsSelect(label: string): VsSelect {
-  const s = document.createElement('vscode-single-select') as unknown as VsSelect;
-  s.setAttribute('aria-label', label);
-  return s;
-}
-
-function setOptions(sel: VsSelect, options: { value: string; label: string }[], current: string): void {
-  sel.replaceChildren(
-    ...options.map((o) => {
-      const opt = document.createElement('vscode-option');
-      opt.setAttribute('value', o.value);
-      opt.textContent = o.label;
-      if (o.value === current) opt.setAttribute('selected', '');
-      return opt;
-    }),
-  );
-  sel.value = current;
-}
 
 function formatValue(v: number | null | undefined, decimals: number): string {
   if (v === null || v === undefined || !Number.isFinite(v)) return '—';
