@@ -9,10 +9,8 @@ import assert from 'node:assert/strict';
 import { createServer, type Server } from 'node:http';
 import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { randomBytes } from 'node:crypto';
 import * as esbuild from 'esbuild';
 import { chromium, type Browser, type Page } from 'playwright-core';
-import { bandViewHtml } from '../../src/extension/bandViewHtml';
 import { bandRunOf, buildCompareTable, type CompareEntry } from '../../src/extension/compareViewData';
 import { loadRun } from '../../src/core/load';
 import { nodeFileAccessor } from '../../src/cli/nodeFileAccessor';
@@ -31,7 +29,7 @@ import {
   type EncodedArray,
 } from '../../src/protocol';
 import type { BandStructure, Report } from '../../src/core/model';
-import { CHROMIUM_ARGS, CHROMIUM_PATH } from './support/bandViewHarness';
+import { CHROMIUM_ARGS, CHROMIUM_PATH, testPageHtml } from './support/bandViewHarness';
 import { BODY_CLASS, THEME_VARS } from './support/themes';
 import { hexToRgb, waitForExpression } from './support/pageHelpers';
 import { layoutOverlay, pathsMatch } from '../../webview/compareView/overlayLayout';
@@ -110,11 +108,7 @@ async function startHarness(): Promise<Harness> {
       return;
     }
     if (url.pathname === '/') {
-      const nonce = randomBytes(16).toString('hex');
-      let html = bandViewHtml({ cspSource: origin, nonce, scriptUri: `${origin}/compareView.js`, styleUri: null, title: 'Compare view test' });
-      const vars = Object.entries(THEME_VARS.dark).map(([k, v]) => `${k}: ${v};`).join(' ');
-      html = html.replace('</head>', `  <style nonce="${nonce}">html { ${vars} }</style>\n</head>`);
-      html = html.replace(`<script nonce="${nonce}"`, `<script nonce="${nonce}" src="${origin}/stub.js"></script>\n  <script nonce="${nonce}"`);
+      const html = testPageHtml(origin, `${origin}/compareView.js`, 'Compare view test', 'dark');
       res.writeHead(200, { 'content-type': 'text/html; charset=utf-8' });
       res.end(html);
       return;

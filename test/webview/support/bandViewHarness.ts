@@ -69,6 +69,19 @@ export interface ViewPage {
   cspViolations(): Promise<string[]>;
 }
 
+/**
+ * The extension's own webview shell (same CSP), with the theme's variables on <html> (as VS Code puts them)
+ * and the acquireVsCodeApi stub (served as /stub.js) running first with the page's nonce, as VS Code's
+ * preload does.
+ */
+export function testPageHtml(origin: string, scriptUri: string, title: string, theme: TestTheme): string {
+  const nonce = randomBytes(16).toString('hex');
+  let html = bandViewHtml({ cspSource: origin, nonce, scriptUri, styleUri: null, title });
+  const vars = Object.entries(THEME_VARS[theme]).map(([k, v]) => `${k}: ${v};`).join(' ');
+  html = html.replace('</head>', `  <style nonce="${nonce}">html { ${vars} }</style>\n</head>`);
+  return html.replace(`<script nonce="${nonce}"`, `<script nonce="${nonce}" src="${origin}/stub.js"></script>\n  <script nonce="${nonce}"`);
+}
+
 export async function startHarness(): Promise<Harness> {
   if (!existsSync(CHROMIUM_PATH)) throw new Error(`${CHROMIUM_PATH} is missing: run scripts/install-test-deps.sh`);
   await buildBandViewBundle();
@@ -88,13 +101,7 @@ export async function startHarness(): Promise<Harness> {
     }
     if (url.pathname === '/') {
       const theme = (url.searchParams.get('theme') ?? 'dark') as TestTheme;
-      const nonce = randomBytes(16).toString('hex');
-      let html = bandViewHtml({ cspSource: origin, nonce, scriptUri: `${origin}/bandView.js`, styleUri: null, title: 'Band view test' });
-      const vars = Object.entries(THEME_VARS[theme]).map(([k, v]) => `${k}: ${v};`).join(' ');
-      // VS Code puts theme variables on <html>; here a nonce'd style element does the same.
-      html = html.replace('</head>', `  <style nonce="${nonce}">html { ${vars} }</style>\n</head>`);
-      // The stub runs first, with the page's nonce, as VS Code's own preload does.
-      html = html.replace(`<script nonce="${nonce}"`, `<script nonce="${nonce}" src="${origin}/stub.js"></script>\n  <script nonce="${nonce}"`);
+      const html = testPageHtml(origin, `${origin}/bandView.js`, 'Band view test', theme);
       res.writeHead(200, { 'content-type': 'text/html; charset=utf-8' });
       res.end(html);
       return;
