@@ -28,6 +28,8 @@ import { saveAnnotations, type SaveOutcome } from './saveAnnotations';
 import { checkExportBytes } from './exportBytes';
 import { kpointLinesOf } from './kpointLineCache';
 import { CancelledError } from '../core/errors';
+import { runTitle } from './runTitle';
+import { readerById } from '../core/formats/index';
 
 export interface PanelDeps {
   store: RunStore;
@@ -43,7 +45,7 @@ export interface PanelDeps {
 const VIEW_ANSWER_MS = 8000;
 
 function fileName(uri: vscode.Uri): string {
-  return uri.path.split('/').filter(Boolean).pop() ?? uri.path;
+  return runTitle(uri.path);
 }
 
 function message(e: unknown): string {
@@ -77,9 +79,10 @@ export class BandViewPanel implements vscode.Disposable {
     );
   }
 
-  static async create(runUri: vscode.Uri, deps: PanelDeps): Promise<BandViewPanel> {
+  /** `column`: where to open (the column the other band views use, so runs share one column). */
+  static async create(runUri: vscode.Uri, deps: PanelDeps, column: vscode.ViewColumn = vscode.ViewColumn.Beside): Promise<BandViewPanel> {
     const root = vscode.Uri.joinPath(deps.extensionUri, 'dist', 'webview');
-    const panel = vscode.window.createWebviewPanel(BAND_VIEW_TYPE, `Bands: ${fileName(runUri)}`, vscode.ViewColumn.Beside, {
+    const panel = vscode.window.createWebviewPanel(BAND_VIEW_TYPE, `Bands: ${fileName(runUri)}`, column, {
       enableScripts: true,
       retainContextWhenHidden: true,
       localResourceRoots: [root],
@@ -145,7 +148,9 @@ export class BandViewPanel implements vscode.Disposable {
     if (run === this.postedRun) return;
     this.postedRun = run;
     const s = this.deps.settings();
-    const data = buildBandData(run.bs, run.report, run.geometry, fileName(run.fileUri), s.analysis, s.energyReference);
+    // The header names the run's folder and file and the layout it was read as.
+    const layout = readerById(run.bs.source.format)?.label ?? run.bs.source.format;
+    const data = buildBandData(run.bs, run.report, run.geometry, `${fileName(run.fileUri)} (${layout})`, s.analysis, s.energyReference);
     const environment = environmentFor(run.fileUri);
     this.post({ type: HostToViewType.BandData, data, environment });
     // Also as its own message, so controls that depend on it (save) update the same way as on a trust change.

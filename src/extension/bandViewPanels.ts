@@ -34,6 +34,8 @@ export class BandViewPanels {
       return have;
     }
     let panel: BandViewPanel | null = null;
+    // One column for band views: a new run opens as a tab beside the others, not in yet another column.
+    const column = (this.lastFocused ?? this.any)?.panel.viewColumn;
     panel = await BandViewPanel.create(uri, {
       ...this.deps,
       onFocus: (u) => {
@@ -43,7 +45,7 @@ export class BandViewPanels {
         } else if (this.focusedPanel === panel) this.focusedPanel = null;
         this.deps.onFocus(u);
       },
-    });
+    }, column);
     this.panels.set(key, panel);
     this.focusedPanel = panel;
     this.lastFocused = panel;

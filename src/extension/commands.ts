@@ -4,7 +4,7 @@ import { COMMANDS } from './commandIds';
 import type { RunStore } from './runStore';
 import type { BandViewPanels } from './bandViewPanels';
 import { isEigenvalueLanguage } from './languageIds';
-import { summaryText } from '../core/report/summaryText';
+import { summaryUri } from './summaryDocuments';
 import { saveAnnotations, type SaveDeps, type SaveOutcome } from './saveAnnotations';
 import { ViewToHostType, type ExportFormat } from '../protocol';
 import { writeRefusal } from './trust';
@@ -102,8 +102,8 @@ export function registerCommands(store: RunStore, panels: BandViewPanels, saveDe
         return;
       }
       try {
-        const run = await store.get(uri);
-        const doc = await vscode.workspace.openTextDocument({ content: summaryText(run.report), language: 'plaintext' });
+        await store.get(uri);
+        const doc = await vscode.workspace.openTextDocument(summaryUri(uri));
         await vscode.window.showTextDocument(doc, { viewColumn: vscode.ViewColumn.Beside, preview: true });
       } catch (e) {
         void vscode.window.showErrorMessage(e instanceof Error ? e.message : String(e));

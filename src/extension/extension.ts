@@ -14,6 +14,7 @@ import { AnnotationsCodeLensProvider, GapCodeLensProvider } from './codeLens';
 import { GapStatusItem } from './statusBar';
 import { BandViewPanels } from './bandViewPanels';
 import { registerCommands } from './commands';
+import { SummaryDocuments } from './summaryDocuments';
 import { makeFitService } from './fitService';
 import { registerCompareView } from './compareViewPanel';
 
@@ -50,6 +51,7 @@ export function activate(context: vscode.ExtensionContext): void {
     vscode.languages.registerHoverProvider(selector, new KpointHoverProvider(store)),
     vscode.languages.registerCodeLensProvider(selector, lenses),
     vscode.languages.registerCodeLensProvider({ pattern: '**/*.valleys.json' }, new AnnotationsCodeLensProvider()),
+    new SummaryDocuments(store),
     registerCommands(store, panels, { settings: () => settings(), fits, toolVersion, log }),
     registerCompareView({ store, extensionUri: context.extensionUri, log, settings }),
     vscode.workspace.onDidOpenTextDocument(loadIfOurs),

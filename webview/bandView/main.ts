@@ -288,7 +288,8 @@ export class BandViewApp {
         break;
       }
       case HostToViewType.SaveResult:
-        this.setStatus(m.ok ? `Saved: ${m.message}` : `Not saved: ${m.message}`);
+        // The host's sentence says itself whether and where it was saved ("Saved 3 entries to …", "Not saved: …").
+        this.setStatus(m.message);
         break;
       case HostToViewType.ExportResult:
         this.setStatus(m.ok ? `Exported: ${m.message}` : `Not exported: ${m.message}`);
@@ -837,7 +838,7 @@ export class BandViewApp {
     const method = p?.method ?? this.method;
     this.fit = { target: m.target, extremum: m.extremum, curves: m.curves, window_meV, method };
     if (m.scan) this.scan = m.scan;
-    const rel = { value: m.extremum.eV - this.refChoice.offset, zero: this.refChoice.subscript ? `E_${this.refChoice.subscript}` : '0' };
+    const rel = { value: m.extremum.eV - this.refChoice.offset, zero: this.refChoice.subscript ? `E_${this.refChoice.subscript}` : '' };
     this.panel.showResult(m.extremum, rel, window_meV, method);
     this.panel.setScan(this.scan, window_meV);
     this.saved.set(`${m.target.spin}:${m.target.kIndex}:${m.target.band0}`, { ...m.target, window_meV, method });
