@@ -8,6 +8,7 @@ import { summaryUri } from './summaryDocuments';
 import { saveAnnotations, type SaveDeps, type SaveOutcome } from './saveAnnotations';
 import { ViewToHostType, type ExportFormat } from '../protocol';
 import { writeRefusal } from './trust';
+import { isFolder, pickRunInFolder } from './pickRun';
 
 function activeRunUri(panels: BandViewPanels): vscode.Uri | null {
   const ed = vscode.window.activeTextEditor;
@@ -25,10 +26,15 @@ export function registerCommands(store: RunStore, panels: BandViewPanels, saveDe
   const reg = vscode.commands.registerCommand;
   return vscode.Disposable.from(
     reg(COMMANDS.openBandView, async (arg?: unknown) => {
-      const uri = asUri(arg) ?? activeRunUri(panels) ?? vscode.window.activeTextEditor?.document.uri ?? null;
+      let uri = asUri(arg) ?? activeRunUri(panels) ?? vscode.window.activeTextEditor?.document.uri ?? null;
       if (!uri) {
         void vscode.window.showWarningMessage(NO_FILE);
         return;
+      }
+      // A folder (from the Explorer): the runs under it, one picked.
+      if (await isFolder(uri)) {
+        uri = await pickRunInFolder(uri, saveDeps.settings().maxBytes);
+        if (!uri) return;
       }
       void store.get(uri).catch(() => undefined);
       await panels.open(uri);

@@ -109,4 +109,45 @@ describe('in a real VS Code, the compare view', function () {
     assert.deepEqual(legend.map((t) => t.trim()), [first, last]);
     await s.screenshot('compare-view-overlay');
   });
+
+  it('Open Band View on a folder of runs offers a picker of the runs found, and opens the one chosen', async () => {
+    const s = await session();
+    await s.closeAllEditors().catch(() => undefined);
+    // The Explorer's context menu on the series folder (five runs below it).
+    await s.runCommand('View: Show Explorer');
+    const folderRow = s.page.locator('.explorer-folders-view .monaco-list-row', { hasText: 'si-strain' }).first();
+    await folderRow.waitFor({ timeout: 30_000 });
+    await folderRow.click({ button: 'right' });
+    const item = s.page.locator('.monaco-menu .action-item', { hasText: 'Open Band View' }).first();
+    await item.waitFor({ timeout: 15_000 });
+    await item.click();
+    const picks = s.page.locator('.quick-input-widget .monaco-list-row');
+    await waitFor(async () => ((await picks.count()) === RUNS.length ? true : undefined), `the picker did not list the ${RUNS.length} runs`, 60_000);
+    const labels = await picks.allInnerTexts();
+    await s.screenshot('folder-run-picker');
+    // Each run is named by its folder, so the five EIGENVAL files can be told apart.
+    for (const r of RUNS) assert.ok(labels.some((l) => l.includes(`${r}/EIGENVAL`)), `a row for ${r}: ${labels.join(' | ')}`);
+    const chosen = RUNS[2]!;
+    await s.page.locator('.quick-input-widget .monaco-list-row', { hasText: `${chosen}/EIGENVAL` }).first().click();
+    await s.page.locator('.tabs-container .tab', { hasText: `Bands: ${chosen}/EIGENVAL` }).first().waitFor({ timeout: 60_000 });
+    const view = s.webview();
+    await view.locator('svg.vs-overlay .vs-mark-group').first().waitFor({ state: 'attached', timeout: 60_000 });
+    // The header names the run and the layout it was read as.
+    assert.match(await view.locator('.vs-title').first().innerText(), new RegExp(`${chosen.replace(/[+.]/g, '\\$&')}/EIGENVAL \\(VASP`));
+    await s.screenshot('folder-run-opened');
+  });
+
+  it('the analysis summary opens read-only: closing it asks nothing', async () => {
+    const s = await session();
+    await s.openFile(`si-strain/${RUNS[0]}/EIGENVAL`);
+    await s.runCommand('Valleyscope: Show Analysis Summary');
+    const tab = s.page.locator('.tabs-container .tab', { hasText: '(summary)' }).first();
+    await tab.waitFor({ timeout: 60_000 });
+    await s.page.locator('.editor-instance .monaco-editor .view-lines', { hasText: 'gap' }).first().waitFor({ timeout: 30_000 });
+    await s.screenshot('summary-document');
+    assert.equal(await s.page.locator('.tabs-container .tab.dirty', { hasText: '(summary)' }).count(), 0, 'the summary is not an unsaved buffer');
+    await s.runCommand('View: Close Editor');
+    await tab.waitFor({ state: 'detached', timeout: 15_000 });
+    assert.equal(await s.page.locator('.monaco-dialog-box').count(), 0, 'no save prompt');
+  });
 });
