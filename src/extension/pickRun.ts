@@ -33,7 +33,7 @@ export async function pickRunInFolder(folder: vscode.Uri, maxBytes: number): Pro
       uri,
     }));
     const pick = await vscode.window.showQuickPick(items, {
-      title: `${found.data.length} runs in ${runTitle(folder.path)}${found.truncated ? ' (search stopped at its limit)' : ''}: open which?`,
+      title: `${found.data.length} runs in ${vscode.workspace.asRelativePath(folder)}${found.truncated ? ' (search stopped at its limit)' : ''}: open which?`,
       matchOnDescription: true,
     });
     return pick?.uri ?? null;

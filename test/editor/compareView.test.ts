@@ -120,8 +120,11 @@ describe('in a real VS Code, the compare view', function () {
     await folderRow.click({ button: 'right' });
     const item = s.page.locator('.monaco-menu .action-item', { hasText: 'Open Band View' }).first();
     await item.waitFor({ timeout: 15_000 });
-    await item.click();
-    const picks = s.page.locator('.quick-input-widget .monaco-list-row');
+    await item.hover();
+    await s.page.keyboard.press('Enter');
+    // The picker (not the command palette used before): its title counts the runs found.
+    await s.page.locator('.quick-input-widget', { hasText: `${RUNS.length} runs in si-strain` }).waitFor({ timeout: 60_000 });
+    const picks = s.page.locator('.quick-input-widget .monaco-list-row', { hasText: '/EIGENVAL' });
     await waitFor(async () => ((await picks.count()) === RUNS.length ? true : undefined), `the picker did not list the ${RUNS.length} runs`, 60_000);
     const labels = await picks.allInnerTexts();
     await s.screenshot('folder-run-picker');
