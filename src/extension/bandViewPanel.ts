@@ -81,13 +81,24 @@ export class BandViewPanel implements vscode.Disposable {
 
   /** `column`: where to open (the column the other band views use, so runs share one column). */
   static async create(runUri: vscode.Uri, deps: PanelDeps, column: vscode.ViewColumn = vscode.ViewColumn.Beside): Promise<BandViewPanel> {
-    const root = vscode.Uri.joinPath(deps.extensionUri, 'dist', 'webview');
-    const panel = vscode.window.createWebviewPanel(BAND_VIEW_TYPE, `Bands: ${fileName(runUri)}`, column, {
+    const panel = vscode.window.createWebviewPanel(BAND_VIEW_TYPE, `Bands: ${fileName(runUri)}`, column, BandViewPanel.options(deps));
+    return BandViewPanel.attach(panel, runUri, deps);
+  }
+
+  static options(deps: PanelDeps): vscode.WebviewPanelOptions & vscode.WebviewOptions {
+    return {
       enableScripts: true,
       retainContextWhenHidden: true,
-      localResourceRoots: [root],
+      localResourceRoots: [vscode.Uri.joinPath(deps.extensionUri, 'dist', 'webview')],
       enableFindWidget: false,
-    });
+    };
+  }
+
+  /** Fill a panel (a new one, or one VS Code restores after a window reload) with the band view of a run. */
+  static async attach(panel: vscode.WebviewPanel, runUri: vscode.Uri, deps: PanelDeps): Promise<BandViewPanel> {
+    const root = vscode.Uri.joinPath(deps.extensionUri, 'dist', 'webview');
+    panel.webview.options = BandViewPanel.options(deps);
+    panel.title = `Bands: ${fileName(runUri)}`;
     const script = vscode.Uri.joinPath(root, 'bandView.js');
     const css = vscode.Uri.joinPath(root, 'bandView.css');
     let hasCss = false;
@@ -108,6 +119,7 @@ export class BandViewPanel implements vscode.Disposable {
       scriptUri: panel.webview.asWebviewUri(script).toString(),
       styleUri: hasCss ? panel.webview.asWebviewUri(css).toString() : null,
       title: `Bands: ${fileName(runUri)}`,
+      runUri: runUri.toString(),
     });
     return new BandViewPanel(panel, runUri, deps);
   }

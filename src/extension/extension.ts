@@ -15,6 +15,7 @@ import { GapStatusItem } from './statusBar';
 import { BandViewPanels } from './bandViewPanels';
 import { registerCommands } from './commands';
 import { SummaryDocuments } from './summaryDocuments';
+import { registerBandViewRestore } from './bandViewRestore';
 import { makeFitService } from './fitService';
 import { registerCompareView } from './compareViewPanel';
 
@@ -52,6 +53,7 @@ export function activate(context: vscode.ExtensionContext): void {
     vscode.languages.registerCodeLensProvider(selector, lenses),
     vscode.languages.registerCodeLensProvider({ pattern: '**/*.valleys.json' }, new AnnotationsCodeLensProvider()),
     new SummaryDocuments(store),
+    registerBandViewRestore(panels, store, log),
     registerCommands(store, panels, { settings: () => settings(), fits, toolVersion, log }),
     registerCompareView({ store, extensionUri: context.extensionUri, log, settings }),
     vscode.workspace.onDidOpenTextDocument(loadIfOurs),

@@ -29,6 +29,7 @@ function session(): Promise<EditorSession> {
       [SI, 'si-save'],
       [SI, 'si-merge'],
       [SI, 'si-json'],
+      [SI, 'si-reload'],
     ],
   });
   return starting;
@@ -313,5 +314,26 @@ describe('in a real VS Code, trusted workspace', function () {
       await new Promise((r) => setTimeout(r, 500));
     }
     assert.deepEqual(wrong, [], 'no reader problem reported for the annotations file');
+  });
+
+  it('after a window reload the band view comes back with the fit made before', async () => {
+    const s = await session();
+    await s.closeAllEditors().catch(() => undefined);
+    await s.openFile('si-reload/EIGENVAL');
+    await s.clickCodeLens('Open band view');
+    let view = await waitForBandView(s, 'si-reload/EIGENVAL');
+    await clickNearMark(view, 'cbm', 2, 2);
+    const before = await massRows(view);
+    await s.runCommand('Developer: Reload Window');
+    // The workbench comes back; the band view's tab is restored by the extension (not reopened by the test).
+    await s.page.locator('.monaco-workbench').waitFor({ timeout: 60_000 });
+    view = await waitForBandView(s, 'si-reload/EIGENVAL', 120_000);
+    const after = await massRows(view);
+    await s.screenshot('band-view-after-reload');
+    assert.deepEqual(
+      after.map((r) => [r.towards, r.mass]),
+      before.map((r) => [r.towards, r.mass]),
+      'the same fit (directions and masses) is shown again',
+    );
   });
 });

@@ -38,6 +38,7 @@ import { fixed, fracK, sig } from './format';
 import { edgeMarkerPath, isMaximumKind, secondaryMarkerPath } from './markers';
 import { snapToCandidate, SNAP_TOLERANCE_PX, type ScreenCandidate } from './snap';
 import { BAND_VIEW_CSS } from './styles';
+import { fitsWithin, parseViewState, type BandViewState, type SpinName } from './viewState';
 import { readPalette, type Palette } from './theme';
 import { buildViewModel, energyAt, labelNear, nearestK, type ViewModel } from './viewModel';
 import { el, setOptions, vsButton, vsSelect, type VsButton, type VsSelect } from '../shared/controls';
@@ -52,7 +53,7 @@ declare function acquireVsCodeApi(): VsCodeApi;
 const SVG_NS = 'http://www.w3.org/2000/svg';
 const MARGIN = { top: 12, right: 14, bottom: 44, left: 58 };
 
-type SpinChoice = 'up' | 'down' | 'both';
+type SpinChoice = SpinName;
 
 /** A reachable extremum: a report mark or a local extremum of a band. */
 interface Candidate {
@@ -101,6 +102,8 @@ export class BandViewApp {
   private pendingTargets = new Map<number, { target: FitTarget; window_meV: number; method: string; kind: 'fit' | 'scan' }>();
   /** Fits the user made, kept for saving. */
   private saved = new Map<string, SaveEntry>();
+  /** A fit to show again once the first data has been drawn (after a window reload). */
+  private restoreFit: SaveEntry | null = null;
   lastDraw: (DrawStats & { ms: number }) | null = null;
 
   // DOM.
@@ -222,21 +225,16 @@ export class BandViewApp {
     this.post({ type: ViewToHostType.Ready });
   }
 
-  /** View choices kept by VS Code across reloads of the webview (vscode.setState). */
+  /** View choices and fits kept by VS Code across reloads of the window (vscode.setState; see viewState.ts). */
   private saveViewState(): void {
-    this.api.setState({ reference: this.reference, spin: this.spinChoice, window_meV: this.window_meV, method: this.method });
+    const state: BandViewState = { reference: this.reference, spin: this.spinChoice, window_meV: this.window_meV, method: this.method, fits: [...this.saved.values()] };
+    const run = document.getElementById('app')?.dataset.run;
+    if (run) state.run = run;
+    this.api.setState(state);
   }
 
-  private restoredState(): { reference?: EnergyReference; spin?: SpinChoice; window_meV?: number; method?: string } {
-    const s = this.api.getState();
-    if (typeof s !== 'object' || s === null) return {};
-    const o = s as Record<string, unknown>;
-    const out: { reference?: EnergyReference; spin?: SpinChoice; window_meV?: number; method?: string } = {};
-    if (o.reference === 'vbm' || o.reference === 'fermi' || o.reference === 'raw') out.reference = o.reference;
-    if (o.spin === 'up' || o.spin === 'down' || o.spin === 'both') out.spin = o.spin;
-    if (typeof o.window_meV === 'number' && Number.isFinite(o.window_meV) && o.window_meV >= 1 && o.window_meV <= 300) out.window_meV = o.window_meV;
-    if (typeof o.method === 'string') out.method = o.method;
-    return out;
+  private restoredState(): BandViewState {
+    return parseViewState(this.api.getState());
   }
 
   private post(m: ViewToHostMessage): void {
@@ -262,6 +260,11 @@ export class BandViewApp {
       case HostToViewType.BandData:
         this.env = m.environment;
         this.setData(m.data);
+        if (this.restoreFit) {
+          const f = this.restoreFit;
+          this.restoreFit = null;
+          this.requestFit(f, true);
+        }
         break;
       case HostToViewType.Environment:
         this.env = m.environment;
@@ -347,6 +350,13 @@ export class BandViewApp {
       this.method = restored.method && methods.includes(restored.method) ? restored.method : data.defaults.method;
       this.panel.setMethods(data.defaults.methods.length ? data.defaults.methods : [data.defaults.method], this.method);
       this.panel.setWindow(this.window_meV);
+      // After a window reload: the fits made before, kept for saving, and the last one shown again.
+      const fits = fitsWithin(restored.fits ?? [], data);
+      for (const f of fits) this.saved.set(`${f.spin}:${f.kIndex}:${f.band0}`, f);
+      const last = fits[fits.length - 1];
+      if (last) this.restoreFit = last;
+      // The page's state names the run from the start, so a reload can bring the view back.
+      this.saveViewState();
     }
     this.panel.setCautions(data.report.cautions);
     // Gap summary with its caution beside it.
@@ -841,7 +851,10 @@ export class BandViewApp {
     const rel = { value: m.extremum.eV - this.refChoice.offset, zero: this.refChoice.subscript ? `E_${this.refChoice.subscript}` : '' };
     this.panel.showResult(m.extremum, rel, window_meV, method);
     this.panel.setScan(this.scan, window_meV);
-    this.saved.set(`${m.target.spin}:${m.target.kIndex}:${m.target.band0}`, { ...m.target, window_meV, method });
+    const key = `${m.target.spin}:${m.target.kIndex}:${m.target.band0}`;
+    this.saved.delete(key); // re-inserted last: the state's last fit is the one shown
+    this.saved.set(key, { ...m.target, window_meV, method });
+    this.saveViewState();
     this.setStatus(`Fit done: ${kindName(m.extremum.kind)} of band ${m.extremum.band}, ${m.extremum.masses.map((f) => `${f.towards} ${sig(f.mass, 3)} mₑ`).join(', ') || 'no direction fitted'}.`);
     this.schedule();
   }
