@@ -108,6 +108,30 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     await v.page.close();
   });
 
+  it('in a narrow view (beside a file on a laptop) the side panel goes below the plot and nothing overlaps', async () => {
+    // 560 × 760 CSS px: about what a band view gets beside a file at 1280 × 800 (measured in a real editor).
+    const v = await openWithRun(h, run, 'dark', { width: 560, height: 760 });
+    await fitAtCbm(v, run);
+    await v.page.screenshot({ path: `${ARTIFACTS}/bandview-narrow.png` });
+    const boxes = (await v.page.evaluate(`(function () {
+      function box(sel) { var e = document.querySelector(sel); if (!e) return null; var r = e.getBoundingClientRect(); return { x: r.left, y: r.top, w: r.width, h: r.height }; }
+      var labels = Array.prototype.map.call(document.querySelectorAll('.vs-axis-x text'), function (t) { var r = t.getBoundingClientRect(); return { x: r.left, y: r.top, w: r.width, h: r.height }; });
+      return { plot: box('.vs-plot'), side: box('.vs-side'), readout: box('.vs-readout'), status: box('.vs-status'), masses: box('table.vs-masses'), labels: labels, width: document.documentElement.clientWidth };
+    })()`)) as Record<string, { x: number; y: number; w: number; h: number } | null> & { labels: { x: number; y: number; w: number; h: number }[]; width: number };
+    const overlap = (a: { x: number; y: number; w: number; h: number }, b: { x: number; y: number; w: number; h: number }): boolean =>
+      a.x < b.x + b.w - 0.5 && b.x < a.x + a.w - 0.5 && a.y < b.y + b.h - 0.5 && b.y < a.y + a.h - 0.5;
+    const plot = boxes.plot!;
+    const side = boxes.side!;
+    assert.ok(plot.w > 400, `the plot keeps the width (${plot.w.toFixed(0)} px)`);
+    assert.ok(side.y >= plot.y + plot.h - 0.5, 'the side panel sits below the plot');
+    assert.ok(side.x + side.w <= boxes.width + 0.5, 'the side panel is not cut off on the right');
+    assert.ok(boxes.masses!.x + boxes.masses!.w <= boxes.width + 0.5, 'the mass table fits the width');
+    assert.ok(!overlap(boxes.readout!, boxes.status!), 'the readout and the status line do not overlap');
+    for (let i = 1; i < boxes.labels.length; i++) assert.ok(!overlap(boxes.labels[i - 1]!, boxes.labels[i]!), `k labels ${i - 1} and ${i} do not overlap`);
+    await assertClean(v);
+    await v.page.close();
+  });
+
   it('on a high-density display (2 device pixels per CSS pixel) the canvas is sharp and the bands still sit on their data', async () => {
     const v = await h.open('dark', { width: 1280, height: 760 }, 2);
     await installPageHelpers(v.page);

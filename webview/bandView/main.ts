@@ -38,6 +38,7 @@ import { fixed, fracK, sig } from './format';
 import { edgeMarkerPath, isMaximumKind, secondaryMarkerPath } from './markers';
 import { snapToCandidate, SNAP_TOLERANCE_PX, type ScreenCandidate } from './snap';
 import { BAND_VIEW_CSS } from './styles';
+import { fittingLabels } from './tickLabels';
 import { fitsWithin, parseViewState, type BandViewState, type SpinName } from './viewState';
 import { readPalette, type Palette } from './theme';
 import { buildViewModel, energyAt, labelNear, nearestK, type ViewModel } from './viewModel';
@@ -632,11 +633,11 @@ export class BandViewApp {
     svg.append('rect').attr('class', 'vs-frame').attr('x', MARGIN.left).attr('y', MARGIN.top).attr('width', pw).attr('height', ph);
     svg.append('g').attr('class', 'vs-axis vs-axis-y').attr('transform', `translate(${MARGIN.left},0)`).call(axisLeft(zy).ticks(Math.max(3, Math.round(ph / 45))).tickFormat((d) => String(d).replace('-', '−')));
     const xg = svg.append('g').attr('class', 'vs-axis vs-axis-x');
-    for (const t of vm.data.ticks) {
-      const x = zx(t.distance);
-      if (x < MARGIN.left - 1 || x > MARGIN.left + pw + 1) continue;
-      xg.append('line').attr('x1', x).attr('x2', x).attr('y1', MARGIN.top + ph).attr('y2', MARGIN.top + ph + 5);
-      xg.append('text').attr('x', x).attr('y', MARGIN.top + ph + 17).attr('text-anchor', 'middle').text(t.label);
+    const shown = vm.data.ticks.map((t) => ({ x: zx(t.distance), label: t.label })).filter((t) => t.x >= MARGIN.left - 1 && t.x <= MARGIN.left + pw + 1);
+    for (const t of shown) xg.append('line').attr('x1', t.x).attr('x2', t.x).attr('y1', MARGIN.top + ph).attr('y2', MARGIN.top + ph + 5);
+    // On a narrow plot, labels that would print over each other are left out (the ticks stay).
+    for (const i of fittingLabels(shown.map((t) => t.x), shown.map((t) => t.label))) {
+      xg.append('text').attr('x', shown[i]!.x).attr('y', MARGIN.top + ph + 17).attr('text-anchor', 'middle').text(shown[i]!.label);
     }
     svg.append('text').attr('class', 'vs-axis-title vs-x-title').attr('x', MARGIN.left + pw / 2).attr('y', this.height - 6).attr('text-anchor', 'middle').text(xAxisTitle(vm.data.distanceUnits));
     const yt = svg
