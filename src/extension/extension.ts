@@ -55,7 +55,7 @@ export function activate(context: vscode.ExtensionContext): void {
     new SummaryDocuments(store),
     registerBandViewRestore(panels, store, log),
     registerCommands(store, panels, { settings: () => settings(), fits, toolVersion, log }),
-    registerCompareView({ store, extensionUri: context.extensionUri, log, settings }),
+    registerCompareView({ store, extensionUri: context.extensionUri, log, settings, memory: context.workspaceState }),
     vscode.workspace.onDidOpenTextDocument(loadIfOurs),
     vscode.workspace.onDidCloseTextDocument((doc) => {
       // Free the memory of a run nobody looks at any more.

@@ -153,4 +153,31 @@ describe('in a real VS Code, the compare view', function () {
     await tab.waitFor({ state: 'detached', timeout: 15_000 });
     assert.equal(await s.page.locator('.monaco-dialog-box').count(), 0, 'no save prompt');
   });
+
+  it('the reference run chosen in the compare view is remembered when the view is opened again', async () => {
+    const s = await session();
+    await s.closeAllEditors().catch(() => undefined);
+    await s.runCommand('Valleyscope: Compare Runs in Workspace');
+    const view = s.webview();
+    const rows = view.locator('table.cv-table tbody tr');
+    await waitFor(async () => ((await rows.count()) === RUNS.length ? true : undefined), 'the table did not list the runs', 120_000);
+    const refRow = (): Promise<string | undefined> => view.locator('table.cv-table tbody tr.cv-reference').first().evaluate((tr) => (tr as HTMLElement).dataset.name);
+    const chosen = `si-strain/${RUNS[2]}/EIGENVAL`;
+    assert.notEqual(await refRow(), chosen, 'the default reference is another run');
+    // Choose the unstrained run as the reference through the select (what a user's pick dispatches).
+    await view.locator('.cv-reference').first().evaluate((sel, name) => {
+      const rows = Array.from(document.querySelectorAll('table.cv-table tbody tr')) as HTMLElement[];
+      const id = rows.find((r) => r.dataset.name === name)?.dataset.id;
+      (sel as HTMLSelectElement).value = id ?? '';
+      sel.dispatchEvent(new Event('change'));
+    }, chosen);
+    await waitFor(async () => ((await refRow()) === chosen ? true : undefined), 'the chosen run did not become the reference', 30_000);
+    // Close the view and open it again: the same reference.
+    await s.closeAllEditors();
+    await s.runCommand('Valleyscope: Compare Runs in Workspace');
+    const again = s.webview().locator('table.cv-table tbody tr');
+    await waitFor(async () => ((await again.count()) === RUNS.length ? true : undefined), 'the table did not list the runs again', 120_000);
+    await waitFor(async () => ((await refRow()) === chosen ? true : undefined), 'the reference was not remembered', 30_000);
+    await s.screenshot('compare-view-reference-remembered');
+  });
 });
