@@ -9,6 +9,8 @@ import { saveAnnotations, type SaveDeps, type SaveOutcome } from './saveAnnotati
 import { ViewToHostType, type ExportFormat } from '../protocol';
 import { writeRefusal } from './trust';
 import { isFolder, pickRunInFolder } from './pickRun';
+import { runTitle } from './runTitle';
+import { gapStatusText } from './gapText';
 
 function activeRunUri(panels: BandViewPanels): vscode.Uri | null {
   const ed = vscode.window.activeTextEditor;
@@ -99,7 +101,18 @@ export function registerCommands(store: RunStore, panels: BandViewPanels, saveDe
     }),
     reg(COMMANDS.reload, async (arg?: unknown) => {
       const uri = asUri(arg) ?? activeRunUri(panels);
-      if (uri) await store.reload(uri).catch(() => undefined);
+      if (!uri) {
+        void vscode.window.showWarningMessage(NO_FILE);
+        return;
+      }
+      // Say what happened: the gap read again, or why it could not be read.
+      const name = runTitle(uri.path);
+      try {
+        const run = await store.reload(uri);
+        vscode.window.setStatusBarMessage(`Valleyscope: ${name} read again: ${gapStatusText(run.report, run.bs.partial)}.`, 6000);
+      } catch (e) {
+        void vscode.window.showWarningMessage(`${name} could not be read again: ${e instanceof Error ? e.message : String(e)}`);
+      }
     }),
     reg(COMMANDS.showSummary, async (arg?: unknown) => {
       const uri = asUri(arg) ?? activeRunUri(panels);

@@ -371,8 +371,9 @@ export class BandViewApp {
     const banners: string[] = [];
     if (data.partial) banners.push('Partial data: the file is still being written or was cut short; everything shown is provisional.');
     banners.push(...r.warnings.filter((w) => !/^Partial data/.test(w)));
-    this.banner.hidden = banners.length === 0;
-    this.banner.textContent = banners.join(' ');
+    const distinct = [...new Set(banners)];
+    this.banner.hidden = distinct.length === 0;
+    this.banner.textContent = distinct.join(' ');
     this.plot.setAttribute(
       'aria-label',
       `Band structure of ${data.title}: ${data.nBands} bands at ${data.nk} k-points. Arrow keys move between band extrema, Enter fits the selected one, plus and minus zoom, 0 resets.`,
@@ -609,6 +610,9 @@ export class BandViewApp {
       if (x < MARGIN.left - 1 || x > MARGIN.left + pw + 1 || y < MARGIN.top - 1 || y > MARGIN.top + ph + 1) continue;
       const primary = m.kind === 'vbm' || m.kind === 'cbm';
       const g = markG.append('g').attr('transform', `translate(${x},${y})`).attr('class', `vs-mark-group vs-mark-${m.kind}`);
+      // A tooltip on hover: what the marker is, where, and how to fit it.
+      const where = labelNear(vm, m.kIndex);
+      g.append('title').text(`${kindName(m.kind)}: band ${m.band0 + 1}${vm.nSpin === 2 ? (m.spin === 1 ? ', spin down' : ', spin up') : ''}, k-point ${m.kIndex + 1}${where ? ` (${where})` : ''}, ${this.refChoice.subscript ? `E − E_${this.refChoice.subscript}` : 'E'} = ${fixed(m.eV - off, 3)} eV. Click it to fit.`);
       g.append('path').attr('class', 'vs-mark').attr('d', primary ? edgeMarkerPath(5) : secondaryMarkerPath(isMaximumKind(m.kind), 4));
       if (primary) {
         g.append('text')
