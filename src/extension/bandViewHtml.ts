@@ -19,6 +19,8 @@ export interface ShellOptions {
   /** URI of dist/webview/bandView.css when the bundle has one. */
   styleUri: string | null;
   title: string;
+  /** The run's URI, kept by the view so the window can reopen it after a reload. */
+  runUri?: string;
 }
 
 export function contentSecurityPolicy(cspSource: string, nonce: string): string {
@@ -50,7 +52,7 @@ export function bandViewHtml(o: ShellOptions): string {
   <title>${escapeHtml(o.title)}</title>${style}
 </head>
 <body>
-  <div id="app" data-nonce="${o.nonce}"></div>
+  <div id="app" data-nonce="${o.nonce}"${o.runUri ? ` data-run="${escapeHtml(o.runUri)}"` : ''}></div>
   <script nonce="${o.nonce}" src="${escapeHtml(o.scriptUri)}"></script>
 </body>
 </html>

@@ -28,6 +28,8 @@ import { saveAnnotations, type SaveOutcome } from './saveAnnotations';
 import { checkExportBytes } from './exportBytes';
 import { kpointLinesOf } from './kpointLineCache';
 import { CancelledError } from '../core/errors';
+import { runTitle } from './runTitle';
+import { readerById } from '../core/formats/index';
 
 export interface PanelDeps {
   store: RunStore;
@@ -43,7 +45,7 @@ export interface PanelDeps {
 const VIEW_ANSWER_MS = 8000;
 
 function fileName(uri: vscode.Uri): string {
-  return uri.path.split('/').filter(Boolean).pop() ?? uri.path;
+  return runTitle(uri.path);
 }
 
 function message(e: unknown): string {
@@ -77,14 +79,26 @@ export class BandViewPanel implements vscode.Disposable {
     );
   }
 
-  static async create(runUri: vscode.Uri, deps: PanelDeps): Promise<BandViewPanel> {
-    const root = vscode.Uri.joinPath(deps.extensionUri, 'dist', 'webview');
-    const panel = vscode.window.createWebviewPanel(BAND_VIEW_TYPE, `Bands: ${fileName(runUri)}`, vscode.ViewColumn.Beside, {
+  /** `column`: where to open (the column the other band views use, so runs share one column). */
+  static async create(runUri: vscode.Uri, deps: PanelDeps, column: vscode.ViewColumn = vscode.ViewColumn.Beside): Promise<BandViewPanel> {
+    const panel = vscode.window.createWebviewPanel(BAND_VIEW_TYPE, `Bands: ${fileName(runUri)}`, column, BandViewPanel.options(deps));
+    return BandViewPanel.attach(panel, runUri, deps);
+  }
+
+  static options(deps: PanelDeps): vscode.WebviewPanelOptions & vscode.WebviewOptions {
+    return {
       enableScripts: true,
       retainContextWhenHidden: true,
-      localResourceRoots: [root],
+      localResourceRoots: [vscode.Uri.joinPath(deps.extensionUri, 'dist', 'webview')],
       enableFindWidget: false,
-    });
+    };
+  }
+
+  /** Fill a panel (a new one, or one VS Code restores after a window reload) with the band view of a run. */
+  static async attach(panel: vscode.WebviewPanel, runUri: vscode.Uri, deps: PanelDeps): Promise<BandViewPanel> {
+    const root = vscode.Uri.joinPath(deps.extensionUri, 'dist', 'webview');
+    panel.webview.options = BandViewPanel.options(deps);
+    panel.title = `Bands: ${fileName(runUri)}`;
     const script = vscode.Uri.joinPath(root, 'bandView.js');
     const css = vscode.Uri.joinPath(root, 'bandView.css');
     let hasCss = false;
@@ -105,6 +119,7 @@ export class BandViewPanel implements vscode.Disposable {
       scriptUri: panel.webview.asWebviewUri(script).toString(),
       styleUri: hasCss ? panel.webview.asWebviewUri(css).toString() : null,
       title: `Bands: ${fileName(runUri)}`,
+      runUri: runUri.toString(),
     });
     return new BandViewPanel(panel, runUri, deps);
   }
@@ -145,7 +160,9 @@ export class BandViewPanel implements vscode.Disposable {
     if (run === this.postedRun) return;
     this.postedRun = run;
     const s = this.deps.settings();
-    const data = buildBandData(run.bs, run.report, run.geometry, fileName(run.fileUri), s.analysis, s.energyReference);
+    // The header names the run's folder and file and the layout it was read as.
+    const layout = readerById(run.bs.source.format)?.label ?? run.bs.source.format;
+    const data = buildBandData(run.bs, run.report, run.geometry, `${fileName(run.fileUri)} (${layout})`, s.analysis, s.energyReference);
     const environment = environmentFor(run.fileUri);
     this.post({ type: HostToViewType.BandData, data, environment });
     // Also as its own message, so controls that depend on it (save) update the same way as on a trust change.

@@ -27,14 +27,32 @@ export class BandViewPanels {
   }
 
   async open(uri: vscode.Uri): Promise<BandViewPanel> {
-    const key = uri.toString();
-    const have = this.panels.get(key);
+    const have = this.panels.get(uri.toString());
     if (have) {
       have.reveal();
       return have;
     }
+    // One column for band views: a new run opens as a tab beside the others, not in yet another column.
+    const column = (this.lastFocused ?? this.any)?.panel.viewColumn;
+    return this.track(uri, (deps) => BandViewPanel.create(uri, deps, column));
+  }
+
+  /** A band view VS Code restores after a window reload (its state names the run). */
+  async revive(webviewPanel: vscode.WebviewPanel, uri: vscode.Uri): Promise<BandViewPanel> {
+    const have = this.panels.get(uri.toString());
+    if (have) {
+      // Already open (reopened before the restore came): one view per run.
+      webviewPanel.dispose();
+      have.reveal();
+      return have;
+    }
+    return this.track(uri, (deps) => BandViewPanel.attach(webviewPanel, uri, deps));
+  }
+
+  private async track(uri: vscode.Uri, make: (deps: PanelDeps) => Promise<BandViewPanel>): Promise<BandViewPanel> {
+    const key = uri.toString();
     let panel: BandViewPanel | null = null;
-    panel = await BandViewPanel.create(uri, {
+    panel = await make({
       ...this.deps,
       onFocus: (u) => {
         if (u && panel) {

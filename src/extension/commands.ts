@@ -4,10 +4,13 @@ import { COMMANDS } from './commandIds';
 import type { RunStore } from './runStore';
 import type { BandViewPanels } from './bandViewPanels';
 import { isEigenvalueLanguage } from './languageIds';
-import { summaryText } from '../core/report/summaryText';
+import { summaryUri } from './summaryDocuments';
 import { saveAnnotations, type SaveDeps, type SaveOutcome } from './saveAnnotations';
 import { ViewToHostType, type ExportFormat } from '../protocol';
 import { writeRefusal } from './trust';
+import { isFolder, pickRunInFolder } from './pickRun';
+import { runTitle } from './runTitle';
+import { gapStatusText } from './gapText';
 
 function activeRunUri(panels: BandViewPanels): vscode.Uri | null {
   const ed = vscode.window.activeTextEditor;
@@ -25,10 +28,15 @@ export function registerCommands(store: RunStore, panels: BandViewPanels, saveDe
   const reg = vscode.commands.registerCommand;
   return vscode.Disposable.from(
     reg(COMMANDS.openBandView, async (arg?: unknown) => {
-      const uri = asUri(arg) ?? activeRunUri(panels) ?? vscode.window.activeTextEditor?.document.uri ?? null;
+      let uri = asUri(arg) ?? activeRunUri(panels) ?? vscode.window.activeTextEditor?.document.uri ?? null;
       if (!uri) {
         void vscode.window.showWarningMessage(NO_FILE);
         return;
+      }
+      // A folder (from the Explorer): the runs under it, one picked.
+      if (await isFolder(uri)) {
+        uri = await pickRunInFolder(uri, saveDeps.settings().maxBytes);
+        if (!uri) return;
       }
       void store.get(uri).catch(() => undefined);
       await panels.open(uri);
@@ -93,7 +101,18 @@ export function registerCommands(store: RunStore, panels: BandViewPanels, saveDe
     }),
     reg(COMMANDS.reload, async (arg?: unknown) => {
       const uri = asUri(arg) ?? activeRunUri(panels);
-      if (uri) await store.reload(uri).catch(() => undefined);
+      if (!uri) {
+        void vscode.window.showWarningMessage(NO_FILE);
+        return;
+      }
+      // Say what happened: the gap read again, or why it could not be read.
+      const name = runTitle(uri.path);
+      try {
+        const run = await store.reload(uri);
+        vscode.window.setStatusBarMessage(`Valleyscope: ${name} read again: ${gapStatusText(run.report, run.bs.partial)}.`, 6000);
+      } catch (e) {
+        void vscode.window.showWarningMessage(`${name} could not be read again: ${e instanceof Error ? e.message : String(e)}`);
+      }
     }),
     reg(COMMANDS.showSummary, async (arg?: unknown) => {
       const uri = asUri(arg) ?? activeRunUri(panels);
@@ -102,8 +121,8 @@ export function registerCommands(store: RunStore, panels: BandViewPanels, saveDe
         return;
       }
       try {
-        const run = await store.get(uri);
-        const doc = await vscode.workspace.openTextDocument({ content: summaryText(run.report), language: 'plaintext' });
+        await store.get(uri);
+        const doc = await vscode.workspace.openTextDocument(summaryUri(uri));
         await vscode.window.showTextDocument(doc, { viewColumn: vscode.ViewColumn.Beside, preview: true });
       } catch (e) {
         void vscode.window.showErrorMessage(e instanceof Error ? e.message : String(e));

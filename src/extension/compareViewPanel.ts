@@ -37,7 +37,12 @@ export interface CompareDeps {
   extensionUri: vscode.Uri;
   log: vscode.LogOutputChannel;
   settings: () => ExtensionSettings;
+  /** The workspace's memory: the chosen reference run is kept there across sessions. */
+  memory?: vscode.Memento;
 }
+
+/** Key of the remembered reference (the run's workspace-relative name). */
+export const REFERENCE_MEMORY_KEY = 'valleyscope.compare.reference';
 
 interface Found {
   entry: CompareEntry;
@@ -159,10 +164,13 @@ export class CompareViewPanel implements vscode.Disposable {
       case CompareViewToHostType.Rescan:
         await this.rescan();
         return;
-      case CompareViewToHostType.SetReference:
+      case CompareViewToHostType.SetReference: {
         this.referenceId = m.rowId;
+        const name = this.found.find((f) => f.entry.id === m.rowId)?.entry.name;
+        if (name) void this.deps.memory?.update(REFERENCE_MEMORY_KEY, name);
         this.sendTable();
         return;
+      }
       case CompareViewToHostType.SetAnnotationsAsRuns:
         this.annotationsAsRuns = m.value;
         await this.rescan();
@@ -275,6 +283,11 @@ export class CompareViewPanel implements vscode.Disposable {
     if (cts.token.isCancellationRequested) return;
     this.found = found;
     if (this.referenceId && !found.some((f) => f.entry.id === this.referenceId)) this.referenceId = null;
+    // The reference chosen before (also in an earlier session), found again by its name.
+    if (!this.referenceId) {
+      const remembered = this.deps.memory?.get<string>(REFERENCE_MEMORY_KEY);
+      this.referenceId = (typeof remembered === 'string' && found.find((f) => f.entry.name === remembered)?.entry.id) || null;
+    }
     if (runs.truncated) this.post({ type: CompareHostToViewType.Notice, message: `Only the first ${runs.data.length + runs.annotations.length} candidate files were looked at: the workspace has more.` });
     this.sendTable();
   }

@@ -27,8 +27,10 @@ export interface FoundRuns {
   truncated: boolean;
 }
 
-export async function findWorkspaceRuns(token: vscode.CancellationToken, maxBytes: number): Promise<FoundRuns> {
-  const uris = await vscode.workspace.findFiles(RUN_CANDIDATES, RUN_EXCLUDES, MAX_CANDIDATES, token);
+/** Runs of the whole workspace, or only those under `folder` when given. */
+export async function findWorkspaceRuns(token: vscode.CancellationToken, maxBytes: number, folder?: vscode.Uri): Promise<FoundRuns> {
+  const include = folder ? new vscode.RelativePattern(folder, RUN_CANDIDATES) : RUN_CANDIDATES;
+  const uris = await vscode.workspace.findFiles(include, RUN_EXCLUDES, MAX_CANDIDATES, token);
   uris.sort((a, b) => (a.toString() < b.toString() ? -1 : a.toString() > b.toString() ? 1 : 0));
   const data: vscode.Uri[] = [];
   const annotations: vscode.Uri[] = [];

@@ -14,6 +14,8 @@ import { AnnotationsCodeLensProvider, GapCodeLensProvider } from './codeLens';
 import { GapStatusItem } from './statusBar';
 import { BandViewPanels } from './bandViewPanels';
 import { registerCommands } from './commands';
+import { SummaryDocuments } from './summaryDocuments';
+import { registerBandViewRestore } from './bandViewRestore';
 import { makeFitService } from './fitService';
 import { registerCompareView } from './compareViewPanel';
 
@@ -50,8 +52,10 @@ export function activate(context: vscode.ExtensionContext): void {
     vscode.languages.registerHoverProvider(selector, new KpointHoverProvider(store)),
     vscode.languages.registerCodeLensProvider(selector, lenses),
     vscode.languages.registerCodeLensProvider({ pattern: '**/*.valleys.json' }, new AnnotationsCodeLensProvider()),
+    new SummaryDocuments(store),
+    registerBandViewRestore(panels, store, log),
     registerCommands(store, panels, { settings: () => settings(), fits, toolVersion, log }),
-    registerCompareView({ store, extensionUri: context.extensionUri, log, settings }),
+    registerCompareView({ store, extensionUri: context.extensionUri, log, settings, memory: context.workspaceState }),
     vscode.workspace.onDidOpenTextDocument(loadIfOurs),
     vscode.workspace.onDidCloseTextDocument((doc) => {
       // Free the memory of a run nobody looks at any more.

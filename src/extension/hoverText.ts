@@ -74,7 +74,7 @@ export function hoverLines(bs: BandStructure, report: Report, geometry: PathGeom
     const parts = bands.map((b) => {
       const e = bs.energies[s]![k * bs.nBands + b]!;
       const tag = b === vbm0 ? (report.gap ? ' (VB top band)' : ' (below E_F)') : b === cbm0 ? (report.gap ? ' (CB bottom band)' : ' (above E_F)') : '';
-      const rel = ref !== null ? ` (${e - ref >= 0 ? '+' : ''}${f(e - ref, 3)} from ${refName})` : '';
+      const rel = ref !== null ? ` (${e - ref >= 0 ? '+' : ''}${f(e - ref, 3)} eV from ${refName})` : '';
       return `band ${b + 1}${tag}: ${f(e, 4)} eV${rel}`;
     });
     out.push(`${bs.nSpin === 2 ? (s === 0 ? 'spin up: ' : 'spin down: ') : ''}${parts.join('; ')}`);

@@ -67,10 +67,11 @@ export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: Save
   const rel = vscode.workspace.asRelativePath(target.uri);
   const done = (c: Composed, leftUnsaved: boolean): SaveOutcome => {
     const kept = c.counts.notFound ? `, ${c.counts.notFound} kept from before that this analysis no longer finds` : '';
+    const entries = plural(c.counts.entries, 'entry', 'entries');
     if (leftUnsaved) {
-      return { ok: true, message: `Merged ${c.counts.entries} entries into the open editor of ${rel}${kept}; it has unsaved edits of yours, so save it to write the file.`, uri: target.uri };
+      return { ok: true, message: `Merged ${entries} into the open editor of ${rel}${kept}. Not on disk yet: that editor has unsaved edits of yours, so save it to write the file.`, uri: target.uri };
     }
-    return { ok: true, message: `Saved ${c.counts.entries} entries to ${rel}${kept}.`, uri: target.uri };
+    return { ok: true, message: `Saved ${entries} to ${rel}${kept}.`, uri: target.uri };
   };
 
   // Open in an editor: merge with the editor's text (unsaved hand edits included) through a workspace edit.
@@ -104,6 +105,10 @@ class UnreadableExisting extends Error {
   constructor(override readonly cause: unknown) {
     super(cause instanceof Error ? cause.message : String(cause));
   }
+}
+
+function plural(n: number, one: string, many: string): string {
+  return `${n} ${n === 1 ? one : many}`;
 }
 
 function message(e: unknown): string {

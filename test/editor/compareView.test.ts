@@ -109,4 +109,75 @@ describe('in a real VS Code, the compare view', function () {
     assert.deepEqual(legend.map((t) => t.trim()), [first, last]);
     await s.screenshot('compare-view-overlay');
   });
+
+  it('Open Band View on a folder of runs offers a picker of the runs found, and opens the one chosen', async () => {
+    const s = await session();
+    await s.closeAllEditors().catch(() => undefined);
+    // The Explorer's context menu on the series folder (five runs below it).
+    await s.runCommand('View: Show Explorer');
+    const folderRow = s.page.locator('.explorer-folders-view .monaco-list-row', { hasText: 'si-strain' }).first();
+    await folderRow.waitFor({ timeout: 30_000 });
+    await folderRow.click({ button: 'right' });
+    const item = s.page.locator('.monaco-menu .action-item', { hasText: 'Open Band View' }).first();
+    await item.waitFor({ timeout: 15_000 });
+    await item.hover();
+    await s.page.keyboard.press('Enter');
+    // The picker (not the command palette used before): its title counts the runs found.
+    await s.page.locator('.quick-input-widget', { hasText: `${RUNS.length} runs in si-strain` }).waitFor({ timeout: 60_000 });
+    const picks = s.page.locator('.quick-input-widget .monaco-list-row', { hasText: '/EIGENVAL' });
+    await waitFor(async () => ((await picks.count()) === RUNS.length ? true : undefined), `the picker did not list the ${RUNS.length} runs`, 60_000);
+    const labels = await picks.allInnerTexts();
+    await s.screenshot('folder-run-picker');
+    // Each run is named by its folder, so the five EIGENVAL files can be told apart.
+    for (const r of RUNS) assert.ok(labels.some((l) => l.includes(`${r}/EIGENVAL`)), `a row for ${r}: ${labels.join(' | ')}`);
+    const chosen = RUNS[2]!;
+    await s.page.locator('.quick-input-widget .monaco-list-row', { hasText: `${chosen}/EIGENVAL` }).first().click();
+    await s.page.locator('.tabs-container .tab', { hasText: `Bands: ${chosen}/EIGENVAL` }).first().waitFor({ timeout: 60_000 });
+    const view = s.webview();
+    await view.locator('svg.vs-overlay .vs-mark-group').first().waitFor({ state: 'attached', timeout: 60_000 });
+    // The header names the run and the layout it was read as.
+    assert.match(await view.locator('.vs-title').first().innerText(), new RegExp(`${chosen.replace(/[+.]/g, '\\$&')}/EIGENVAL \\(VASP`));
+    await s.screenshot('folder-run-opened');
+  });
+
+  it('the analysis summary opens read-only: closing it asks nothing', async () => {
+    const s = await session();
+    await s.openFile(`si-strain/${RUNS[0]}/EIGENVAL`);
+    await s.runCommand('Valleyscope: Show Analysis Summary');
+    const tab = s.page.locator('.tabs-container .tab', { hasText: '(summary)' }).first();
+    await tab.waitFor({ timeout: 60_000 });
+    await s.page.locator('.editor-instance .monaco-editor .view-lines', { hasText: 'gap' }).first().waitFor({ timeout: 30_000 });
+    await s.screenshot('summary-document');
+    assert.equal(await s.page.locator('.tabs-container .tab.dirty', { hasText: '(summary)' }).count(), 0, 'the summary is not an unsaved buffer');
+    await s.runCommand('View: Close Editor');
+    await tab.waitFor({ state: 'detached', timeout: 15_000 });
+    assert.equal(await s.page.locator('.monaco-dialog-box').count(), 0, 'no save prompt');
+  });
+
+  it('the reference run chosen in the compare view is remembered when the view is opened again', async () => {
+    const s = await session();
+    await s.closeAllEditors().catch(() => undefined);
+    await s.runCommand('Valleyscope: Compare Runs in Workspace');
+    const view = s.webview();
+    const rows = view.locator('table.cv-table tbody tr');
+    await waitFor(async () => ((await rows.count()) === RUNS.length ? true : undefined), 'the table did not list the runs', 120_000);
+    const refRow = (): Promise<string | undefined> => view.locator('table.cv-table tbody tr.cv-reference').first().evaluate((tr) => (tr as HTMLElement).dataset.name);
+    const chosen = `si-strain/${RUNS[2]}/EIGENVAL`;
+    assert.notEqual(await refRow(), chosen, 'the default reference is another run');
+    // Choose the unstrained run as the reference through the select (what a user's pick dispatches).
+    await view.locator('.cv-reference').first().evaluate((sel, name) => {
+      const rows = Array.from(document.querySelectorAll('table.cv-table tbody tr')) as HTMLElement[];
+      const id = rows.find((r) => r.dataset.name === name)?.dataset.id;
+      (sel as HTMLSelectElement).value = id ?? '';
+      sel.dispatchEvent(new Event('change'));
+    }, chosen);
+    await waitFor(async () => ((await refRow()) === chosen ? true : undefined), 'the chosen run did not become the reference', 30_000);
+    // Close the view and open it again: the same reference.
+    await s.closeAllEditors();
+    await s.runCommand('Valleyscope: Compare Runs in Workspace');
+    const again = s.webview().locator('table.cv-table tbody tr');
+    await waitFor(async () => ((await again.count()) === RUNS.length ? true : undefined), 'the table did not list the runs again', 120_000);
+    await waitFor(async () => ((await refRow()) === chosen ? true : undefined), 'the reference was not remembered', 30_000);
+    await s.screenshot('compare-view-reference-remembered');
+  });
 });

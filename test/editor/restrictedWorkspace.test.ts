@@ -53,7 +53,7 @@ describe('in a real VS Code, restricted (untrusted) workspace', function () {
 
       await s.openFile('si/EIGENVAL');
       await s.clickCodeLens('Open band view');
-      const view = await waitForBandView(s, 'EIGENVAL');
+      const view = await waitForBandView(s, 'si/EIGENVAL');
       // Reading works: the bands are drawn and a fit can be made.
       const ink = await waitFor(async () => {
         const i = await canvasInk(view);

@@ -29,6 +29,7 @@ function session(): Promise<EditorSession> {
       [SI, 'si-save'],
       [SI, 'si-merge'],
       [SI, 'si-json'],
+      [SI, 'si-reload'],
     ],
   });
   return starting;
@@ -139,7 +140,7 @@ describe('in a real VS Code, trusted workspace', function () {
     const s = await session();
     await s.openFile('si-view/EIGENVAL');
     await s.clickCodeLens('Open band view');
-    const view = await waitForBandView(s, 'EIGENVAL');
+    const view = await waitForBandView(s, 'si-view/EIGENVAL');
     const ink = await waitFor(
       async () => {
         const i = await canvasInk(view);
@@ -163,7 +164,7 @@ describe('in a real VS Code, trusted workspace', function () {
     const s = await session();
     await s.openFile('si-view/EIGENVAL');
     await s.clickCodeLens('Open band view');
-    const view = await waitForBandView(s, 'EIGENVAL');
+    const view = await waitForBandView(s, 'si-view/EIGENVAL');
     await clickNearMark(view, 'cbm', 3, 2);
     const rows = await massRows(view);
     await s.screenshot('cbm-fit');
@@ -190,7 +191,7 @@ describe('in a real VS Code, trusted workspace', function () {
     assert.equal(existsSync(target), false, 'no annotations file before the save');
     await s.openFile('si-save/EIGENVAL');
     await s.clickCodeLens('Open band view');
-    const view = await waitForBandView(s, 'EIGENVAL');
+    const view = await waitForBandView(s, 'si-save/EIGENVAL');
     await clickNearMark(view, 'cbm', -2, 3);
     await massRows(view);
     await view.locator('.vs-save').click();
@@ -213,7 +214,7 @@ describe('in a real VS Code, trusted workspace', function () {
     // 1. A first save, with no annotations file open: written to disk.
     await s.openFile('si-merge/EIGENVAL');
     await s.clickCodeLens('Open band view');
-    let view = await waitForBandView(s, 'EIGENVAL');
+    let view = await waitForBandView(s, 'si-merge/EIGENVAL');
     await clickNearMark(view, 'cbm', 2, -2);
     await massRows(view);
     await view.locator('.vs-save').click();
@@ -230,8 +231,8 @@ describe('in a real VS Code, trusted workspace', function () {
     const annotationsTab = s.page.locator('.tabs-container .tab', { hasText: 'EIGENVAL.valleys.json' }).first();
     await s.page.locator('.tabs-container .tab.dirty', { hasText: 'EIGENVAL.valleys.json' }).first().waitFor({ timeout: 10_000 });
     // 3. Back in the band view: a different fit window (40 meV), refit, save.
-    await s.page.locator('.tabs-container .tab', { hasText: 'Bands: EIGENVAL' }).first().click();
-    view = await waitForBandView(s, 'EIGENVAL');
+    await s.page.locator('.tabs-container .tab', { hasText: 'Bands: si-merge/EIGENVAL' }).first().click();
+    view = await waitForBandView(s, 'si-merge/EIGENVAL');
     await clickNearMark(view, 'cbm', 2, -2);
     await massRows(view);
     const provenance25 = await view.locator('.vs-provenance').innerText();
@@ -313,5 +314,26 @@ describe('in a real VS Code, trusted workspace', function () {
       await new Promise((r) => setTimeout(r, 500));
     }
     assert.deepEqual(wrong, [], 'no reader problem reported for the annotations file');
+  });
+
+  it('after a window reload the band view comes back with the fit made before', async () => {
+    const s = await session();
+    await s.closeAllEditors().catch(() => undefined);
+    await s.openFile('si-reload/EIGENVAL');
+    await s.clickCodeLens('Open band view');
+    let view = await waitForBandView(s, 'si-reload/EIGENVAL');
+    await clickNearMark(view, 'cbm', 2, 2);
+    const before = await massRows(view);
+    await s.runCommand('Developer: Reload Window');
+    // The workbench comes back; the band view's tab is restored by the extension (not reopened by the test).
+    await s.page.locator('.monaco-workbench').waitFor({ timeout: 60_000 });
+    view = await waitForBandView(s, 'si-reload/EIGENVAL', 120_000);
+    const after = await massRows(view);
+    await s.screenshot('band-view-after-reload');
+    assert.deepEqual(
+      after.map((r) => [r.towards, r.mass]),
+      before.map((r) => [r.towards, r.mass]),
+      'the same fit (directions and masses) is shown again',
+    );
   });
 });

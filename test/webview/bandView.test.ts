@@ -108,6 +108,30 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     await v.page.close();
   });
 
+  it('in a narrow view (beside a file on a laptop) the side panel goes below the plot and nothing overlaps', async () => {
+    // 560 × 760 CSS px: about what a band view gets beside a file at 1280 × 800 (measured in a real editor).
+    const v = await openWithRun(h, run, 'dark', { width: 560, height: 760 });
+    await fitAtCbm(v, run);
+    await v.page.screenshot({ path: `${ARTIFACTS}/bandview-narrow.png` });
+    const boxes = (await v.page.evaluate(`(function () {
+      function box(sel) { var e = document.querySelector(sel); if (!e) return null; var r = e.getBoundingClientRect(); return { x: r.left, y: r.top, w: r.width, h: r.height }; }
+      var labels = Array.prototype.map.call(document.querySelectorAll('.vs-axis-x text'), function (t) { var r = t.getBoundingClientRect(); return { x: r.left, y: r.top, w: r.width, h: r.height }; });
+      return { plot: box('.vs-plot'), side: box('.vs-side'), readout: box('.vs-readout'), status: box('.vs-status'), masses: box('table.vs-masses'), labels: labels, width: document.documentElement.clientWidth };
+    })()`)) as Record<string, { x: number; y: number; w: number; h: number } | null> & { labels: { x: number; y: number; w: number; h: number }[]; width: number };
+    const overlap = (a: { x: number; y: number; w: number; h: number }, b: { x: number; y: number; w: number; h: number }): boolean =>
+      a.x < b.x + b.w - 0.5 && b.x < a.x + a.w - 0.5 && a.y < b.y + b.h - 0.5 && b.y < a.y + a.h - 0.5;
+    const plot = boxes.plot!;
+    const side = boxes.side!;
+    assert.ok(plot.w > 400, `the plot keeps the width (${plot.w.toFixed(0)} px)`);
+    assert.ok(side.y >= plot.y + plot.h - 0.5, 'the side panel sits below the plot');
+    assert.ok(side.x + side.w <= boxes.width + 0.5, 'the side panel is not cut off on the right');
+    assert.ok(boxes.masses!.x + boxes.masses!.w <= boxes.width + 0.5, 'the mass table fits the width');
+    assert.ok(!overlap(boxes.readout!, boxes.status!), 'the readout and the status line do not overlap');
+    for (let i = 1; i < boxes.labels.length; i++) assert.ok(!overlap(boxes.labels[i - 1]!, boxes.labels[i]!), `k labels ${i - 1} and ${i} do not overlap`);
+    await assertClean(v);
+    await v.page.close();
+  });
+
   it('on a high-density display (2 device pixels per CSS pixel) the canvas is sharp and the bands still sit on their data', async () => {
     const v = await h.open('dark', { width: 1280, height: 760 }, 2);
     await installPageHelpers(v.page);
@@ -143,7 +167,9 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
 
   it('text from a hostile file (title, labels) is shown as text, never as markup', async () => {
     const evil = '<img src="http://example.invalid/x.png" onerror="window.__pwned=1">';
-    const data = { ...run.data, title: `Si ${evil}`, ticks: run.data.ticks.map((t, i) => (i === 1 ? { ...t, label: evil } : t)) };
+    // On the path's last tick: a label that long is drawn only where it is never crowded out (see tickLabels.ts).
+    const last = run.data.ticks.length - 1;
+    const data = { ...run.data, title: `Si ${evil}`, ticks: run.data.ticks.map((t, i) => (i === last ? { ...t, label: evil } : t)) };
     const v = await openWithRun(h, { ...run, data });
     assert.equal(await v.page.locator('img').count(), 0);
     assert.equal(await v.page.locator('.vs-title').textContent(), `Si ${evil}`);
@@ -456,7 +482,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     assert.ok(ticksBefore.includes('0'));
     await v.page.evaluate(`(function () { var s = document.querySelector('vscode-single-select.vs-ref'); s.value = 'raw'; s.dispatchEvent(new Event('change')); })()`);
     assert.equal(await v.page.locator('.vs-y-title').textContent(), 'E (eV)');
-    assert.deepEqual(await v.page.evaluate('window.__state'), { reference: 'raw', spin: 'up', window_meV: 25, method: 'parabola' }, 'the choice is kept in the webview state');
+    assert.deepEqual(await v.page.evaluate('window.__state'), { reference: 'raw', spin: 'up', window_meV: 25, method: 'parabola', fits: [] }, 'the choice is kept in the webview state');
     assert.equal(await v.page.locator('line.vs-zero').count(), 0);
     const ticksAfter = (await v.page.locator('.vs-axis-y text').allTextContents()).map((t) => Number(t.replace('−', '-')));
     // Raw energies of the model: VBM at 10.48 eV (fixtures/epm/README.md), so the axis spans it.
@@ -515,8 +541,9 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     assert.ok(isViewToHostMessage(save), 'save passes the protocol validator');
     const cbm = mark(run, 'cbm');
     assert.deepEqual(save.entries, [{ spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0, window_meV: 25, method: 'parabola' }]);
-    await v.hostPost({ type: HostToViewType.SaveResult, ok: true, message: 'fixtures/epm/si/EIGENVAL.valleys.json' });
-    assert.match((await v.page.locator('.vs-status').textContent()) ?? '', /Saved: fixtures\/epm\/si\/EIGENVAL.valleys.json/);
+    await v.hostPost({ type: HostToViewType.SaveResult, ok: true, message: 'Saved 1 entry to fixtures/epm/si/EIGENVAL.valleys.json.' });
+    // The host's sentence is shown as it is (no second "Saved:" in front of it).
+    assert.equal((await v.page.locator('.vs-status').textContent()) ?? '', 'Saved 1 entry to fixtures/epm/si/EIGENVAL.valleys.json.');
     const reason = 'Restricted mode: this workspace is not trusted, so Valleyscope does not write files.';
     await v.hostPost({ type: HostToViewType.Environment, environment: { theme: 'dark', readOnly: true, readOnlyReason: reason } });
     await waitForExpression(v.page, `document.querySelector('vscode-button.vs-save').disabled === true`);

@@ -107,3 +107,26 @@ describe('band view modules', () => {
     assert.ok(svg.includes('<title>Si &lt;b&gt;&quot;x&quot;&lt;/b&gt; &amp; co: band structure</title>'));
   });
 });
+
+describe('k-axis labels on a narrow plot (tickLabels.ts)', () => {
+  it('keeps every label when they are far apart, drops those that would print over their neighbour', async () => {
+    const { fittingLabels } = await import('../../webview/bandView/tickLabels');
+    // 7 px per character (the function's own estimate): 'Γ' is 7 px wide, 'K|U' 21 px.
+    assert.deepEqual(fittingLabels([0, 100, 200], ['Γ', 'X', 'L']), [0, 1, 2]);
+    // X and W 6 px apart cannot both be written; the path's end (L) is kept.
+    assert.deepEqual(fittingLabels([0, 100, 106, 200], ['Γ', 'X', 'W', 'L']), [0, 1, 3]);
+    // The last label wins over the one just before it.
+    assert.deepEqual(fittingLabels([0, 100, 104], ['Γ', 'X', 'L']), [0, 2]);
+    // Kept labels never overlap (property over random positions).
+    for (let trial = 0; trial < 200; trial++) {
+      const xs = Array.from({ length: 2 + (trial % 9) }, () => Math.random() * 300).sort((a, b) => a - b);
+      const labels = xs.map((_, i) => ['Γ', 'X', 'K|U', 'W', 'L'][i % 5]!);
+      const kept = fittingLabels(xs, labels);
+      for (let j = 1; j < kept.length; j++) {
+        const a = kept[j - 1]!;
+        const b = kept[j]!;
+        assert.ok(xs[b]! - labels[b]!.length * 3.5 >= xs[a]! + labels[a]!.length * 3.5 + 4 - 1e-9, `labels ${a} and ${b} overlap`);
+      }
+    }
+  });
+});

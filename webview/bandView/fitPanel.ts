@@ -189,7 +189,7 @@ export class FitPanel {
     this.status.textContent = text;
   }
 
-  /** Shows a fit result. `relEnergy` is the extremum's energy relative to the plot's zero, with its name. */
+  /** Shows a fit result. `relEnergy` is the extremum's energy relative to the plot's zero, with its name ('' for raw energies). */
   showResult(x: ExtremumReport, relEnergy: { value: number; zero: string }, window_meV: number, method: string): void {
     this.root.removeAttribute('aria-busy');
     this.body.hidden = false;
@@ -200,7 +200,7 @@ export class FitPanel {
       el(
         'div',
         'vs-fit-where',
-        `band ${x.band}${x.spin === 1 ? ' (spin ↓)' : ''} · k = ${fracK(x.k)}${x.label ? ` (${x.label})` : ''} · E − ${relEnergy.zero} = ${fixed(relEnergy.value, 3)} eV`,
+        `band ${x.band}${x.spin === 1 ? ' (spin ↓)' : ''} · k = ${fracK(x.k)}${x.label ? ` (${x.label})` : ''} · ${relEnergy.zero ? `E − ${relEnergy.zero}` : 'E'} = ${fixed(relEnergy.value, 3)} eV`,
       ),
     );
     this.massTable.replaceChildren(...x.masses.map((f) => this.massRow(f)));

@@ -38,6 +38,8 @@ import { fixed, fracK, sig } from './format';
 import { edgeMarkerPath, isMaximumKind, secondaryMarkerPath } from './markers';
 import { snapToCandidate, SNAP_TOLERANCE_PX, type ScreenCandidate } from './snap';
 import { BAND_VIEW_CSS } from './styles';
+import { fittingLabels } from './tickLabels';
+import { fitsWithin, parseViewState, type BandViewState, type SpinName } from './viewState';
 import { readPalette, type Palette } from './theme';
 import { buildViewModel, energyAt, labelNear, nearestK, type ViewModel } from './viewModel';
 import { el, setOptions, vsButton, vsSelect, type VsButton, type VsSelect } from '../shared/controls';
@@ -52,7 +54,7 @@ declare function acquireVsCodeApi(): VsCodeApi;
 const SVG_NS = 'http://www.w3.org/2000/svg';
 const MARGIN = { top: 12, right: 14, bottom: 44, left: 58 };
 
-type SpinChoice = 'up' | 'down' | 'both';
+type SpinChoice = SpinName;
 
 /** A reachable extremum: a report mark or a local extremum of a band. */
 interface Candidate {
@@ -101,6 +103,8 @@ export class BandViewApp {
   private pendingTargets = new Map<number, { target: FitTarget; window_meV: number; method: string; kind: 'fit' | 'scan' }>();
   /** Fits the user made, kept for saving. */
   private saved = new Map<string, SaveEntry>();
+  /** A fit to show again once the first data has been drawn (after a window reload). */
+  private restoreFit: SaveEntry | null = null;
   lastDraw: (DrawStats & { ms: number }) | null = null;
 
   // DOM.
@@ -222,21 +226,16 @@ export class BandViewApp {
     this.post({ type: ViewToHostType.Ready });
   }
 
-  /** View choices kept by VS Code across reloads of the webview (vscode.setState). */
+  /** View choices and fits kept by VS Code across reloads of the window (vscode.setState; see viewState.ts). */
   private saveViewState(): void {
-    this.api.setState({ reference: this.reference, spin: this.spinChoice, window_meV: this.window_meV, method: this.method });
+    const state: BandViewState = { reference: this.reference, spin: this.spinChoice, window_meV: this.window_meV, method: this.method, fits: [...this.saved.values()] };
+    const run = document.getElementById('app')?.dataset.run;
+    if (run) state.run = run;
+    this.api.setState(state);
   }
 
-  private restoredState(): { reference?: EnergyReference; spin?: SpinChoice; window_meV?: number; method?: string } {
-    const s = this.api.getState();
-    if (typeof s !== 'object' || s === null) return {};
-    const o = s as Record<string, unknown>;
-    const out: { reference?: EnergyReference; spin?: SpinChoice; window_meV?: number; method?: string } = {};
-    if (o.reference === 'vbm' || o.reference === 'fermi' || o.reference === 'raw') out.reference = o.reference;
-    if (o.spin === 'up' || o.spin === 'down' || o.spin === 'both') out.spin = o.spin;
-    if (typeof o.window_meV === 'number' && Number.isFinite(o.window_meV) && o.window_meV >= 1 && o.window_meV <= 300) out.window_meV = o.window_meV;
-    if (typeof o.method === 'string') out.method = o.method;
-    return out;
+  private restoredState(): BandViewState {
+    return parseViewState(this.api.getState());
   }
 
   private post(m: ViewToHostMessage): void {
@@ -262,6 +261,11 @@ export class BandViewApp {
       case HostToViewType.BandData:
         this.env = m.environment;
         this.setData(m.data);
+        if (this.restoreFit) {
+          const f = this.restoreFit;
+          this.restoreFit = null;
+          this.requestFit(f, true);
+        }
         break;
       case HostToViewType.Environment:
         this.env = m.environment;
@@ -288,7 +292,8 @@ export class BandViewApp {
         break;
       }
       case HostToViewType.SaveResult:
-        this.setStatus(m.ok ? `Saved: ${m.message}` : `Not saved: ${m.message}`);
+        // The host's sentence says itself whether and where it was saved ("Saved 3 entries to …", "Not saved: …").
+        this.setStatus(m.message);
         break;
       case HostToViewType.ExportResult:
         this.setStatus(m.ok ? `Exported: ${m.message}` : `Not exported: ${m.message}`);
@@ -346,6 +351,13 @@ export class BandViewApp {
       this.method = restored.method && methods.includes(restored.method) ? restored.method : data.defaults.method;
       this.panel.setMethods(data.defaults.methods.length ? data.defaults.methods : [data.defaults.method], this.method);
       this.panel.setWindow(this.window_meV);
+      // After a window reload: the fits made before, kept for saving, and the last one shown again.
+      const fits = fitsWithin(restored.fits ?? [], data);
+      for (const f of fits) this.saved.set(`${f.spin}:${f.kIndex}:${f.band0}`, f);
+      const last = fits[fits.length - 1];
+      if (last) this.restoreFit = last;
+      // The page's state names the run from the start, so a reload can bring the view back.
+      this.saveViewState();
     }
     this.panel.setCautions(data.report.cautions);
     // Gap summary with its caution beside it.
@@ -359,8 +371,9 @@ export class BandViewApp {
     const banners: string[] = [];
     if (data.partial) banners.push('Partial data: the file is still being written or was cut short; everything shown is provisional.');
     banners.push(...r.warnings.filter((w) => !/^Partial data/.test(w)));
-    this.banner.hidden = banners.length === 0;
-    this.banner.textContent = banners.join(' ');
+    const distinct = [...new Set(banners)];
+    this.banner.hidden = distinct.length === 0;
+    this.banner.textContent = distinct.join(' ');
     this.plot.setAttribute(
       'aria-label',
       `Band structure of ${data.title}: ${data.nBands} bands at ${data.nk} k-points. Arrow keys move between band extrema, Enter fits the selected one, plus and minus zoom, 0 resets.`,
@@ -597,6 +610,9 @@ export class BandViewApp {
       if (x < MARGIN.left - 1 || x > MARGIN.left + pw + 1 || y < MARGIN.top - 1 || y > MARGIN.top + ph + 1) continue;
       const primary = m.kind === 'vbm' || m.kind === 'cbm';
       const g = markG.append('g').attr('transform', `translate(${x},${y})`).attr('class', `vs-mark-group vs-mark-${m.kind}`);
+      // A tooltip on hover: what the marker is, where, and how to fit it.
+      const where = labelNear(vm, m.kIndex);
+      g.append('title').text(`${kindName(m.kind)}: band ${m.band0 + 1}${vm.nSpin === 2 ? (m.spin === 1 ? ', spin down' : ', spin up') : ''}, k-point ${m.kIndex + 1}${where ? ` (${where})` : ''}, ${this.refChoice.subscript ? `E − E_${this.refChoice.subscript}` : 'E'} = ${fixed(m.eV - off, 3)} eV. Click it to fit.`);
       g.append('path').attr('class', 'vs-mark').attr('d', primary ? edgeMarkerPath(5) : secondaryMarkerPath(isMaximumKind(m.kind), 4));
       if (primary) {
         g.append('text')
@@ -621,11 +637,11 @@ export class BandViewApp {
     svg.append('rect').attr('class', 'vs-frame').attr('x', MARGIN.left).attr('y', MARGIN.top).attr('width', pw).attr('height', ph);
     svg.append('g').attr('class', 'vs-axis vs-axis-y').attr('transform', `translate(${MARGIN.left},0)`).call(axisLeft(zy).ticks(Math.max(3, Math.round(ph / 45))).tickFormat((d) => String(d).replace('-', '−')));
     const xg = svg.append('g').attr('class', 'vs-axis vs-axis-x');
-    for (const t of vm.data.ticks) {
-      const x = zx(t.distance);
-      if (x < MARGIN.left - 1 || x > MARGIN.left + pw + 1) continue;
-      xg.append('line').attr('x1', x).attr('x2', x).attr('y1', MARGIN.top + ph).attr('y2', MARGIN.top + ph + 5);
-      xg.append('text').attr('x', x).attr('y', MARGIN.top + ph + 17).attr('text-anchor', 'middle').text(t.label);
+    const shown = vm.data.ticks.map((t) => ({ x: zx(t.distance), label: t.label })).filter((t) => t.x >= MARGIN.left - 1 && t.x <= MARGIN.left + pw + 1);
+    for (const t of shown) xg.append('line').attr('x1', t.x).attr('x2', t.x).attr('y1', MARGIN.top + ph).attr('y2', MARGIN.top + ph + 5);
+    // On a narrow plot, labels that would print over each other are left out (the ticks stay).
+    for (const i of fittingLabels(shown.map((t) => t.x), shown.map((t) => t.label))) {
+      xg.append('text').attr('x', shown[i]!.x).attr('y', MARGIN.top + ph + 17).attr('text-anchor', 'middle').text(shown[i]!.label);
     }
     svg.append('text').attr('class', 'vs-axis-title vs-x-title').attr('x', MARGIN.left + pw / 2).attr('y', this.height - 6).attr('text-anchor', 'middle').text(xAxisTitle(vm.data.distanceUnits));
     const yt = svg
@@ -837,10 +853,13 @@ export class BandViewApp {
     const method = p?.method ?? this.method;
     this.fit = { target: m.target, extremum: m.extremum, curves: m.curves, window_meV, method };
     if (m.scan) this.scan = m.scan;
-    const rel = { value: m.extremum.eV - this.refChoice.offset, zero: this.refChoice.subscript ? `E_${this.refChoice.subscript}` : '0' };
+    const rel = { value: m.extremum.eV - this.refChoice.offset, zero: this.refChoice.subscript ? `E_${this.refChoice.subscript}` : '' };
     this.panel.showResult(m.extremum, rel, window_meV, method);
     this.panel.setScan(this.scan, window_meV);
-    this.saved.set(`${m.target.spin}:${m.target.kIndex}:${m.target.band0}`, { ...m.target, window_meV, method });
+    const key = `${m.target.spin}:${m.target.kIndex}:${m.target.band0}`;
+    this.saved.delete(key); // re-inserted last: the state's last fit is the one shown
+    this.saved.set(key, { ...m.target, window_meV, method });
+    this.saveViewState();
     this.setStatus(`Fit done: ${kindName(m.extremum.kind)} of band ${m.extremum.band}, ${m.extremum.masses.map((f) => `${f.towards} ${sig(f.mass, 3)} mₑ`).join(', ') || 'no direction fitted'}.`);
     this.schedule();
   }

@@ -43,8 +43,8 @@ body.vscode-high-contrast .vs-mark, body.vscode-high-contrast-light .vs-mark { s
 .vs-hover-line { stroke: var(--vscode-foreground); stroke-opacity: 0.35; }
 .vs-message { position: absolute; inset: 0; display: flex; align-items: center; justify-content: center; padding: 20px; text-align: center;
   background: color-mix(in srgb, var(--vscode-editor-background) 85%, transparent); }
-.vs-readout { min-height: 1.4em; font-variant-numeric: tabular-nums; color: var(--vscode-foreground); }
-.vs-status { min-height: 1.2em; color: var(--vscode-descriptionForeground); }
+.vs-readout { flex: 0 0 auto; overflow-wrap: anywhere; min-height: 1.4em; font-variant-numeric: tabular-nums; color: var(--vscode-foreground); }
+.vs-status { flex: 0 0 auto; overflow-wrap: anywhere; min-height: 1.2em; color: var(--vscode-descriptionForeground); }
 .vs-side { flex: 0 0 300px; box-sizing: border-box; overflow-x: hidden; overflow-y: auto; padding-right: 6px; border-left: 1px solid var(--vscode-panel-border, var(--vscode-contrastBorder, transparent)); padding-left: 10px; }
 .vs-side h2 { font-size: 1.05em; margin: 4px 0 6px; }
 .vs-side h3 { font-size: 0.95em; margin: 8px 0 4px; }
@@ -73,4 +73,11 @@ body.vscode-high-contrast .vs-mark, body.vscode-high-contrast-light .vs-mark { s
 .vs-fit-warnings li { color: var(--vscode-editorWarning-foreground, inherit); }
 .vs-cautions ul { padding-left: 18px; margin: 4px 0; }
 .vs-cautions li { margin-bottom: 4px; font-size: 0.92em; }
+/* Narrow views (beside a file on a laptop): the side panel goes below the plot, full width. */
+@media (max-width: 900px) {
+  .vs-main { flex-direction: column; }
+  .vs-plot { flex: 1 1 auto; min-height: 240px; }
+  .vs-side { flex: 0 1 auto; max-height: 45vh; border-left: none; padding-left: 0; padding-top: 6px;
+    border-top: 1px solid var(--vscode-panel-border, var(--vscode-contrastBorder, transparent)); }
+}
 `;

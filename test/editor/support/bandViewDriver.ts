@@ -16,9 +16,9 @@ export interface CanvasInk {
   colours: number;
 }
 
-/** Wait for the band view panel ("Bands: <file>") and its drawn plot; returns the webview frame. */
-export async function waitForBandView(s: EditorSession, fileName: string, timeoutMs = 90_000): Promise<FrameLocator> {
-  await s.page.locator('.tabs-container .tab', { hasText: `Bands: ${fileName}` }).first().waitFor({ timeout: timeoutMs });
+/** Wait for the band view panel ("Bands: <folder>/<file>") and its drawn plot; returns the webview frame. */
+export async function waitForBandView(s: EditorSession, runName: string, timeoutMs = 90_000): Promise<FrameLocator> {
+  await s.page.locator('.tabs-container .tab', { hasText: `Bands: ${runName}` }).first().waitFor({ timeout: timeoutMs });
   const view = s.webview();
   await view.locator('canvas.vs-bands').waitFor({ timeout: timeoutMs });
   // Drawn: the overlay carries the edge markers once data has arrived.

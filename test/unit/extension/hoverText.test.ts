@@ -35,7 +35,7 @@ describe('extension: hover on a k-point line', () => {
     const hosts = lines.find((l) => l.startsWith('hosts'))!;
     // Cubic semiconductors: the top valence bands are threefold degenerate at Γ without spin-orbit (physics.md, item 7).
     assert.match(hosts, /VBM \(band 4, 3 bands degenerate\)/);
-    assert.ok(lines.some((l) => l.includes('+0.000 from VBM')));
+    assert.ok(lines.some((l) => l.includes('+0.000 eV from VBM')));
   });
 
   it('for a metal lists the bands around the Fermi level and says when cartesian k is unknown', () => {
