@@ -10,7 +10,7 @@ import type { FormatReader, ReadOptions } from './formats/types';
 import { ValleyscopeError } from './errors';
 import { withInferredLabels } from './lattice/inferLabels';
 import { ReaderError } from './errors';
-import { checkConfined, PathRefusedError, readListedFile, redactContent } from './io/pathPolicy';
+import { checkConfined, notRegularSentence, PathRefusedError, readListedFile, redactContent } from './io/pathPolicy';
 import { refuseAbsurdKpoints } from './formats/kpointSanity';
 
 /** Files larger than this are streamed by readers that can (bytes). */
@@ -34,6 +34,7 @@ const SKIP = /^(WAVECAR|CHGCAR|CHG|WAVEDER|PROCAR|DOSCAR|LOCPOT|ELFCAR|AECCAR\d|
 export async function locateRun(fs: FileAccessor, path: string): Promise<RunLocation> {
   const st = await fs.stat(path);
   if (!st) throw new ValleyscopeError(`${path}: no such file or folder`);
+  if (st.type === 'other') throw new ValleyscopeError(notRegularSentence(path, st));
   if (st.type === 'file') {
     if (st.size === 0) throw new ValleyscopeError(`${path}: the file is empty`);
     const head = await fs.readHead(path, DETECT_HEAD_BYTES);

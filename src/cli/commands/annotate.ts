@@ -19,7 +19,7 @@ import type { AnnotatedSettings, AnnotatedSource } from '../../core/annotations/
 import { sha256Hex } from '../../core/hash';
 import { readStructureFile } from '../../core/formats/structureFile';
 import { READ_LIMITS } from '../../core/io/readLimits';
-import { checkRecordedPath, notRegularSentence, readRecordedPath, redactContent, shown } from '../../core/io/pathPolicy';
+import { checkConfined, checkRecordedPath, notRegularSentence, readRecordedPath, redactContent, shown } from '../../core/io/pathPolicy';
 
 export const ANNOTATE_HELP = `valleyscope annotate <file-or-folder>... [options]
   Analyse each run and write its findings to <data file>.valleys.json beside the data file, for review.
@@ -77,10 +77,12 @@ export async function readOptionsFor(
   return { options, sources };
 }
 
+/** The existing annotations file beside the data: read only when it stays in that folder and is a regular file. */
 async function readIfPresent(path: string): Promise<Uint8Array | null> {
   const st = await nodeFileAccessor.stat(path);
   if (!st) return null;
   if (st.type !== 'file') throw new ValleyscopeError(notRegularSentence(path, st, 'the annotations file') + '; remove it to write annotations there');
+  await checkConfined(nodeFileAccessor, dirname(path), path, 'the annotations file', 'annotations');
   return nodeFileAccessor.readFile(path, READ_LIMITS.annotations);
 }
 
