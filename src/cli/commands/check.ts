@@ -110,7 +110,7 @@ export async function checkFile(file: string, tol: Tolerances, root: string | nu
     doc = parseAnnotations(new TextDecoder().decode(await nodeFileAccessor.readFile(file, READ_LIMITS.annotations)), file);
     const dataFile = dataPathFor(file);
     const runFolder = dirname(file);
-    if (!(await checkConfined(nodeFileAccessor, runFolder, dataFile, 'the data file it describes', 'data'))) {
+    if (!(await checkConfined(nodeFileAccessor, runFolder, dataFile, 'the data file it describes', 'data', Number.MAX_SAFE_INTEGER))) {
       return { file, doc, result: null, error: `the data file ${dataFile} it describes is missing` };
     }
     const loc = await locateRun(nodeFileAccessor, dataFile);

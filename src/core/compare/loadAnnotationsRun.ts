@@ -61,7 +61,7 @@ export async function loadAnnotationsRun(fs: FileAccessor, file: string, name: s
     // The data file may carry the structure itself (XML layouts); read it only for that.
     try {
       const data = dataPathFor(file);
-      if (await checkConfined(fs, dir, data, 'the data file it describes', 'data')) {
+      if (await checkConfined(fs, dir, data, 'the data file it describes', 'data', Number.MAX_SAFE_INTEGER)) {
         const bs = await readLocated(fs, await locateRun(fs, data), doc.settings.forceSpinorbit ? { spinorbit: true } : {});
         structure = bs.structure;
         lattice = bs.lattice;
