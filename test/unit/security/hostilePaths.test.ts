@@ -18,6 +18,7 @@ import { writeTinyRun } from '../annotations/tinyRun';
 import { collinearModel } from '../../support/writers/roundTripModel';
 import { writeWannier90 } from '../../support/writers/wannier90';
 import { writeBandsx, writeQeXml } from '../../support/writers/qe';
+import { writeVasprun } from '../../support/writers/vasprun';
 import { SENTINEL_TEXT, TOKEN, filesContainingToken, mkfifo, runCli, type Outcome } from './hostileSupport';
 
 /** Growth of resident memory a refused case may cause, MB (the issue saw gigabytes; a refusal needs ~none). */
@@ -179,9 +180,9 @@ describe('hostile paths: the annotations file itself', function () {
   }
 });
 
-describe('hostile companions of a VASP run (POSCAR, KPOINTS, INCAR)', function () {
+describe('hostile companions of a VASP run (POSCAR, CONTCAR, KPOINTS, INCAR)', function () {
   this.timeout(30000);
-  for (const name of ['POSCAR', 'KPOINTS', 'INCAR']) {
+  for (const name of ['POSCAR', 'CONTCAR', 'KPOINTS', 'INCAR']) {
     for (const t of [...TARGETS, 'link-to-hidden' as const]) {
       it(`${name} ${t}: analyze and annotate end with a sentence`, async () => {
         const dir = caseDir(`vasp-${name}-${t}`);
@@ -197,6 +198,18 @@ describe('hostile companions of a VASP run (POSCAR, KPOINTS, INCAR)', function (
         assertContained(await runCli(['annotate', dir]), `annotate (${name} ${t})`, REFUSED);
         });
     }
+  }
+});
+
+describe('hostile KPOINTS beside vasprun.xml', function () {
+  this.timeout(30000);
+  for (const t of TARGETS) {
+    it(`KPOINTS ${t}: analyze ends with a sentence`, async () => {
+      const dir = caseDir(`vasprun-KPOINTS-${t}`);
+      writeFileSync(join(dir, 'vasprun.xml'), writeVasprun(collinearModel()));
+      plant(join(dir, 'KPOINTS'), t);
+      assertContained(await runCli(['analyze', dir]), `analyze (${t})`, REFUSED);
+    });
   }
 });
 
