@@ -11,6 +11,8 @@ import { readIncarFlags } from '../../../src/core/formats/vasp/incar';
 import { readBandKpt, readLabelInfo, readWin, wannier90BandReader } from '../../../src/core/formats/wannier90';
 import { readQeXml } from '../../../src/core/formats/qe/qeXml';
 import { bandsxReader } from '../../../src/core/formats/qe/bandsx';
+import { castepBandsReader } from '../../../src/core/formats/castep';
+import { writeCastepBands } from '../../support/writers/castep';
 import { vaspEigenvalReader } from '../../../src/core/formats/vasp/vaspRun';
 import { readFromBytes } from '../../../src/core/load';
 import { readStructureFile } from '../../../src/core/formats/structureFile';
@@ -72,6 +74,11 @@ const cases: [string, () => unknown][] = [
   ['pw.x XML with <nks>2000000000</nks>', () => readQeXml(file('data-file-schema.xml', qeXml.replace(/<nks>\d+<\/nks>/, '<nks>2000000000</nks>')))],
   ['pw.x XML with <nbnd>2000000000</nbnd>', () => readQeXml(file('data-file-schema.xml', qeXml.replace(/<nbnd>\d+<\/nbnd>/, '<nbnd>2000000000</nbnd>')))],
   ['pw.x XML with nat="2000000000"', () => readStructureFile(file('structure.xml', qeXml.replace(/nat="\d+"/, 'nat="2000000000"')))],
+  ['bands.x output with nbnd=5000000000', () => bandsxReader.read(file('bands.out', writeBandsx(model, 4).replace(/nbnd=\s*\d+/, 'nbnd=5000000000')), [], {})],
+  [
+    'CASTEP .bands with 5000000000 eigenvalues',
+    () => castepBandsReader.read(file('run.bands', writeCastepBands(model).replace(/Number of eigenvalues\s+\d+/, 'Number of eigenvalues 5000000000')), [], {}),
+  ],
   [
     'bands.x output with a bomb pw.x XML beside it',
     () => readFromBytes(bandsxReader, file('bands.out', writeBandsx(model, 4)), [file('data-file-schema.xml', qeXml.replace(/<nks>\d+<\/nks>/, '<nks>2000000000</nks>'))]),

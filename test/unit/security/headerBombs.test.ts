@@ -1,6 +1,7 @@
 /**
  * Header bombs in every companion reader (POSCAR/CONTCAR, KPOINTS, INCAR, Wannier90 _band.kpt,
- * _band.labelinfo.dat and .win, the pw.x XML beside bands.x output, a pw.x XML given as a structure): small
+ * _band.labelinfo.dat and .win, the pw.x XML beside bands.x output, a pw.x XML given as a structure; and the
+ * band counts of bands.x output and CASTEP .bands): small
  * files whose headers claim hundreds of millions to billions of items. Each must end in a sentence (a reader
  * error, or a warning while the rest of the run is read) or be ignored harmlessly, never an "internal error" or
  * a V8 abort, and must not allocate in proportion to the claim. Memory is measured in a fresh child process
@@ -33,6 +34,8 @@ const MUST_REFUSE: [RegExp, RegExp][] = [
   [/^pw\.x XML with <nks>/, /announces 2000000000 k-points/],
   [/^pw\.x XML with <nbnd>/, /says 2000000000 bands/],
   [/^Wannier90 run with num_wann/, /num_wann = 2000000000/],
+  [/^bands\.x output with nbnd/, /announces 5000000000 bands/],
+  [/^CASTEP \.bands with/, /announces 5000000000 eigenvalues per k-point/],
 ];
 
 /** Runs that go on without the bad companion must say so in a warning naming it. */
