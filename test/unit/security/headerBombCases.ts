@@ -12,6 +12,8 @@ import { readBandKpt, readLabelInfo, readWin, wannier90BandReader } from '../../
 import { readQeXml } from '../../../src/core/formats/qe/qeXml';
 import { bandsxReader } from '../../../src/core/formats/qe/bandsx';
 import { castepBandsReader } from '../../../src/core/formats/castep';
+import { bxsfReader } from '../../../src/core/formats/bxsf';
+import { writeBxsf } from '../../support/writers/bxsf';
 import { writeCastepBands } from '../../support/writers/castep';
 import { vaspEigenvalReader } from '../../../src/core/formats/vasp/vaspRun';
 import { readFromBytes } from '../../../src/core/load';
@@ -31,6 +33,12 @@ const poscarWithCount = (count: string): string => POSCAR_TEXT.replace(/\nH\n1\n
 const model = collinearModel();
 const w90 = writeWannier90(model, { fermiEnergy: 0.6 });
 const qeXml = writeQeXml(model, { alat: 4 });
+
+/** A small BXSF grid (4 × 4 × 4, one flat band): the header is what the case changes. */
+function bxsfText(): string {
+  const band = new Float64Array(64).fill(0.5);
+  return writeBxsf({ fermiEnergy: 0, dims: [4, 4, 4], reciprocal: [[1.5, 0, 0], [0, 1.5, 0], [0, 0, 1.5]], bands: [band] });
+}
 
 const cases: [string, () => unknown][] = [
   ['POSCAR atoms 100000000', () => readPoscar(file('POSCAR', poscarWithCount('100000000')))],
@@ -78,6 +86,10 @@ const cases: [string, () => unknown][] = [
   [
     'CASTEP .bands with 5000000000 eigenvalues',
     () => castepBandsReader.read(file('run.bands', writeCastepBands(model).replace(/Number of eigenvalues\s+\d+/, 'Number of eigenvalues 5000000000')), [], {}),
+  ],
+  [
+    'BXSF grid of 3000 × 3000 × 3000 points, read as a file still being written',
+    () => bxsfReader.read(file('grid.bxsf', bxsfText().replace(/^(\s+4){3}\s*$/m, '        3000        3000        3000')), [], { allowPartial: true }),
   ],
   [
     'bands.x output with a bomb pw.x XML beside it',

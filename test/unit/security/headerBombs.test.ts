@@ -36,6 +36,7 @@ const MUST_REFUSE: [RegExp, RegExp][] = [
   [/^Wannier90 run with num_wann/, /num_wann = 2000000000/],
   [/^bands\.x output with nbnd/, /announces 5000000000 bands/],
   [/^CASTEP \.bands with/, /announces 5000000000 eigenvalues per k-point/],
+  [/^BXSF grid of 3000/, /3000 × 3000 × 3000 points\) needs more values/],
 ];
 
 /** Runs that go on without the bad companion must say so in a warning naming it. */
