@@ -7,9 +7,8 @@ import type { FileAccessor, InputFile } from './io/fileAccessor';
 import { basename, dirname, joinPath } from './io/fileAccessor';
 import { DETECT_HEAD_BYTES, READERS, detectFormat } from './formats/index';
 import type { FormatReader, ReadOptions } from './formats/types';
-import { ValleyscopeError } from './errors';
+import { ReaderError, ValleyscopeError } from './errors';
 import { withInferredLabels } from './lattice/inferLabels';
-import { ReaderError } from './errors';
 import { checkConfined, notRegularSentence, PathRefusedError, readListedFile, redactContent } from './io/pathPolicy';
 import { refuseAbsurdKpoints } from './formats/kpointSanity';
 
