@@ -24,9 +24,7 @@ const stubPath = resolve(__dirname, 'vscodeStub.ts');
 M._resolveFilename = function (this: unknown, request: string, ...rest: unknown[]): string {
   return request === 'vscode' ? stubPath : original.call(this, request, ...rest);
 };
-// eslint-disable-next-line @typescript-eslint/no-require-imports
 const { WorkspaceFileAccessor } = require('../../../src/extension/fileAccessor') as { WorkspaceFileAccessor: typeof Accessor };
-// eslint-disable-next-line @typescript-eslint/no-require-imports
 const stub = require('vscode') as typeof import('./vscodeStub');
 M._resolveFilename = original;
 
