@@ -56,6 +56,7 @@ function typeOf(path: string): FileType {
 export const readLog: string[] = [];
 
 export const workspace = {
+  textDocuments: [] as unknown[],
   fs: {
     async stat(uri: Uri): Promise<{ type: FileType; size: number; mtime: number; ctime: number }> {
       try {

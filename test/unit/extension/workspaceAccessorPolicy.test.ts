@@ -26,6 +26,7 @@ M._resolveFilename = function (this: unknown, request: string, ...rest: unknown[
 };
 const { WorkspaceFileAccessor } = require('../../../src/extension/fileAccessor') as { WorkspaceFileAccessor: typeof Accessor };
 const stub = require('vscode') as typeof import('./vscodeStub');
+const { currentText } = require('../../../src/extension/annotationsWriter') as typeof import('../../../src/extension/annotationsWriter');
 M._resolveFilename = original;
 
 const base = mkdtempSync(join(tmpdir(), 'vs-wsaccess-'));
@@ -107,3 +108,23 @@ for (const scheme of ['file', 'vscode-vfs']) {
     });
   });
 }
+
+describe('the annotations file the editor merges into', function () {
+  this.timeout(20000);
+  it('is read only when it is a regular file within the annotations limit', async () => {
+    const d = join(base, 'writer');
+    mkdirSync(d, { recursive: true });
+    const at = (name: string) => ({ uri: stub.Uri.file(join(d, name)) as never, document: undefined });
+    mkfifo(join(d, 'fifo.valleys.json'));
+    symlinkSync('/dev/zero', join(d, 'zero.valleys.json'));
+    writeFileSync(join(d, 'big.valleys.json'), Buffer.alloc(17e6, 32));
+    writeFileSync(join(d, 'ok.valleys.json'), '{}\n');
+    stub.readLog.length = 0;
+    await assert.rejects(currentText(at('fifo.valleys.json')), /not a regular file/);
+    await assert.rejects(currentText(at('zero.valleys.json')), /not a regular file/);
+    await assert.rejects(currentText(at('big.valleys.json')), /above the limit of 16 MB/);
+    assert.deepEqual(stub.readLog, [], 'none of them was read');
+    assert.equal((await currentText(at('ok.valleys.json'))).text, '{}\n');
+    assert.equal((await currentText(at('missing.valleys.json'))).text, null);
+  });
+});
