@@ -62,7 +62,16 @@ export async function searchAnnotationsFiles(path: string): Promise<{ found: Fou
   const tooDeep: string[] = [];
   const linkedDirs: string[] = [];
   const walk = async (dir: string, depth: number): Promise<void> => {
-    const entries = (await nodeFileAccessor.list(dir)).sort((a, b) => (a.name < b.name ? -1 : a.name > b.name ? 1 : 0));
+    let listed;
+    try {
+      listed = await nodeFileAccessor.list(dir);
+    } catch (e) {
+      // A folder below the one named that cannot be listed (permission denied, ...) is said, and skipped.
+      if (depth === 0 || !(e instanceof ValleyscopeError)) throw e;
+      notes.push(e.message);
+      return;
+    }
+    const entries = listed.sort((a, b) => (a.name < b.name ? -1 : a.name > b.name ? 1 : 0));
     for (const e of entries) {
       const p = joinPath(dir, e.name);
       if (e.type === 'directory') {
