@@ -13,6 +13,7 @@ import { isValleyscopeError } from '../core/errors';
 import { TOOL_VERSION } from '../core/version';
 import { ensureSymmetryReady } from '../core/lattice/symmetry';
 import { installNativeSha256 } from './nativeHash';
+import { fsErrorCode, fsErrorSentence } from './fsErrors';
 
 export interface Command {
   help: string;
@@ -70,9 +71,9 @@ export async function main(argv: string[], io: CliIO = processIO): Promise<numbe
       io.err(`valleyscope: ${e.message}`);
       return 1;
     }
-    const code = (e as NodeJS.ErrnoException | undefined)?.code;
-    if (code && typeof (e as Error).message === 'string') {
-      io.err(`valleyscope: ${(e as Error).message}`);
+    if (fsErrorCode(e)) {
+      // A file-system failure as a sentence (permission denied, ...), never the raw system message.
+      io.err(`valleyscope: ${fsErrorSentence((e as NodeJS.ErrnoException).path ?? 'a file', e).message}`);
       return 1;
     }
     io.err(`valleyscope: internal error: ${(e as Error)?.message ?? String(e)}. Please report this with the input file.`);

@@ -1,33 +1,121 @@
-/** The FileAccessor over node's file system, for the CLI. */
-import { closeSync, fstatSync, openSync, promises as fsp, readSync } from 'node:fs';
-import type { ByteRangeSource, DirEntry, FileAccessor } from '../core/io/fileAccessor';
+/**
+ * The FileAccessor over node's file system, for the CLI. Keeps the contract of core/io/fileAccessor.ts:
+ * only regular files are read (checked by type before opening, through links, and again on the open
+ * descriptor), opened non-blocking so a FIFO swapped in at the last moment cannot hang the process, and
+ * every whole-file read is bounded.
+ */
+import { closeSync, constants as fsc, fstatSync, openSync, promises as fsp, readSync, statSync, type Stats } from 'node:fs';
+import { join } from 'node:path';
+import type { ByteRangeSource, DirEntry, EntryType, FileAccessor, FileStat } from '../core/io/fileAccessor';
+import { READ_LIMITS, tooLargeSentence } from '../core/io/readLimits';
+import { notRegularSentence } from '../core/io/pathPolicy';
+import { ValleyscopeError } from '../core/errors';
+import { fsErrorCode, fsErrorSentence } from './fsErrors';
+
+/** O_NONBLOCK: opening a FIFO returns at once instead of waiting for a writer (0 where the platform lacks it). */
+const OPEN_FLAGS = fsc.O_RDONLY | (fsc.O_NONBLOCK ?? 0) | (fsc.O_NOCTTY ?? 0);
+
+function kindOf(s: Stats): { type: EntryType; kind?: string } {
+  if (s.isFile()) return { type: 'file' };
+  if (s.isDirectory()) return { type: 'directory' };
+  const kind = s.isFIFO() ? 'a FIFO (named pipe)' : s.isCharacterDevice() ? 'a character device' : s.isBlockDevice() ? 'a block device' : s.isSocket() ? 'a socket' : 'not a regular file';
+  return { type: 'other', kind };
+}
+
+function toFileStat(s: Stats): FileStat {
+  return { ...kindOf(s), size: s.size };
+}
+
+function refuseIfNotRegular(path: string, s: Stats): void {
+  const st = toFileStat(s);
+  if (st.type !== 'file') throw new ValleyscopeError(notRegularSentence(path, st));
+}
+
+async function statOrThrow(path: string): Promise<Stats> {
+  try {
+    return await fsp.stat(path);
+  } catch (e) {
+    throw fsErrorSentence(path, e);
+  }
+}
+
+/** The open descriptor must still be the regular file that was looked at (not swapped for a FIFO or device). */
+function sameFile(a: Stats, b: Stats): boolean {
+  return a.dev === b.dev && a.ino === b.ino && b.isFile();
+}
+
+async function readBounded(path: string, maxBytes: number, headOnly: boolean): Promise<Uint8Array> {
+  const before = await statOrThrow(path);
+  refuseIfNotRegular(path, before);
+  if (!headOnly && before.size > maxBytes) throw new ValleyscopeError(tooLargeSentence(path, before.size, maxBytes));
+  let fh: fsp.FileHandle;
+  try {
+    fh = await fsp.open(path, OPEN_FLAGS);
+  } catch (e) {
+    throw fsErrorSentence(path, e);
+  }
+  try {
+    const now = await fh.stat();
+    if (!sameFile(before, now)) throw new ValleyscopeError(`${path} changed into something other than the regular file it was while being opened; it was not read`);
+    const want = Math.min(headOnly ? maxBytes : now.size, maxBytes);
+    const buf = new Uint8Array(want);
+    let got = 0;
+    while (got < want) {
+      const { bytesRead } = await fh.read(buf, got, want - got, got);
+      if (bytesRead === 0) break;
+      got += bytesRead;
+    }
+    return got === want ? buf : buf.subarray(0, got);
+  } catch (e) {
+    throw fsErrorSentence(path, e);
+  } finally {
+    await fh.close().catch(() => undefined);
+  }
+}
 
 export const nodeFileAccessor: FileAccessor = {
-  async readFile(path: string): Promise<Uint8Array> {
-    const b = await fsp.readFile(path);
-    return new Uint8Array(b.buffer, b.byteOffset, b.byteLength);
+  readFile(path: string, maxBytes: number = READ_LIMITS.data): Promise<Uint8Array> {
+    return readBounded(path, maxBytes, false);
   },
-  async readHead(path: string, bytes: number): Promise<Uint8Array> {
-    const fh = await fsp.open(path, 'r');
+  readHead(path: string, bytes: number): Promise<Uint8Array> {
+    return readBounded(path, bytes, true);
+  },
+  async stat(path: string): Promise<FileStat | null> {
     try {
-      const buf = Buffer.alloc(bytes);
-      const { bytesRead } = await fh.read(buf, 0, bytes, 0);
-      return new Uint8Array(buf.buffer, buf.byteOffset, bytesRead);
-    } finally {
-      await fh.close();
+      return toFileStat(await fsp.stat(path));
+    } catch (e) {
+      const code = fsErrorCode(e);
+      if (code === 'ENOENT' || code === 'ENOTDIR') return null;
+      throw fsErrorSentence(path, e, 'looked at');
     }
   },
-  async stat(path: string) {
+  async realpath(path: string): Promise<string> {
     try {
-      const s = await fsp.stat(path);
-      return { type: s.isDirectory() ? 'directory' : 'file', size: s.size } as const;
-    } catch {
-      return null;
+      return await fsp.realpath(path);
+    } catch (e) {
+      throw fsErrorSentence(path, e, 'looked at');
     }
   },
   openRanged(path: string): ByteRangeSource {
-    const fd = openSync(path, 'r');
-    const size = fstatSync(fd).size;
+    let before: Stats;
+    try {
+      before = statSync(path);
+    } catch (e) {
+      throw fsErrorSentence(path, e);
+    }
+    refuseIfNotRegular(path, before);
+    let fd: number;
+    try {
+      fd = openSync(path, OPEN_FLAGS);
+    } catch (e) {
+      throw fsErrorSentence(path, e);
+    }
+    const now = fstatSync(fd);
+    if (!sameFile(before, now)) {
+      closeSync(fd);
+      throw new ValleyscopeError(`${path} changed into something other than the regular file it was while being opened; it was not read`);
+    }
+    const size = now.size;
     return {
       size,
       read(offset: number, length: number): Uint8Array {
@@ -57,9 +145,25 @@ export const nodeFileAccessor: FileAccessor = {
     };
   },
   async list(dir: string): Promise<DirEntry[]> {
-    const entries = await fsp.readdir(dir, { withFileTypes: true });
-    return entries
-      .filter((e) => e.isFile() || e.isDirectory())
-      .map((e) => ({ name: e.name, type: e.isDirectory() ? 'directory' : 'file' }));
+    let entries;
+    try {
+      entries = await fsp.readdir(dir, { withFileTypes: true });
+    } catch (e) {
+      throw fsErrorSentence(dir, e, 'listed');
+    }
+    const out: DirEntry[] = [];
+    for (const e of entries) {
+      if (e.isSymbolicLink()) {
+        // Followed for its type; whether its target may be opened is the path policy's decision.
+        try {
+          out.push({ name: e.name, type: kindOf(await fsp.stat(join(dir, e.name))).type, link: true });
+        } catch {
+          // A dangling link is nothing to read.
+        }
+      } else if (e.isFile()) out.push({ name: e.name, type: 'file' });
+      else if (e.isDirectory()) out.push({ name: e.name, type: 'directory' });
+      else out.push({ name: e.name, type: 'other' });
+    }
+    return out;
   },
 };

@@ -74,19 +74,76 @@ function explain(target: string, e: unknown): ValleyscopeError {
     : code === 'EACCES' || code === 'EPERM' ? 'permission to write in its folder is denied'
     : code === 'EROFS' ? 'the file system is read-only'
     : code === 'ENOENT' ? 'its folder does not exist'
+    : code === 'ENAMETOOLONG' ? 'its name is too long for the file system'
     : `the system reported ${code ?? (e as Error)?.message ?? String(e)}`;
   return new ValleyscopeError(`${target} could not be written (${what}); the previous file, if any, is unchanged`);
 }
 
-/** Temporary files are named after their target, hidden, and unique per attempt. */
+/**
+ * Temporary files are hidden, short (so a long target name cannot make them too long for the file system),
+ * and unique per attempt: `.vs-<pid in base 36>-<8 hex digits>.tmp` beside the target.
+ */
 export function tempPathFor(target: string): string {
-  return join(dirname(target), `.${basename(target)}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
+  return join(dirname(target), `.vs-${process.pid.toString(36)}-${randomBytes(4).toString('hex')}.tmp`);
+}
+
+/** Our temporary names: the current form, and the older `.<target>.<pid>.<hex>.tmp`. */
+const TEMP_NAME = /^\.vs-([0-9a-z]{1,8})-[0-9a-f]{8}\.tmp$/;
+const OLD_TEMP_NAME = /^\..+\.valleys\.json\.(\d{1,10})\.[0-9a-f]{8}\.tmp$/;
+
+/** A temporary file younger than this may belong to a write in progress (on this or another machine). */
+export const STALE_TEMP_AGE_MS = 60_000;
+/** Older than this, a temporary file is stale whoever wrote it. */
+const ABANDONED_TEMP_AGE_MS = 24 * 3600_000;
+
+function processAlive(pid: number): boolean {
+  if (pid === process.pid) return true;
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code === 'EPERM';
+  }
+}
+
+/**
+ * Remove the temporary files a killed write left in `dir`: ours by name, regular files (never a link), older
+ * than a minute, and either of a process that is gone or older than a day. Best effort; returns the names
+ * removed.
+ */
+export async function removeStaleTemps(dir: string, now = Date.now()): Promise<string[]> {
+  const removed: string[] = [];
+  let names: string[];
+  try {
+    names = await fsp.readdir(dir);
+  } catch {
+    return removed;
+  }
+  for (const name of names) {
+    const m = TEMP_NAME.exec(name) ?? OLD_TEMP_NAME.exec(name);
+    if (!m) continue;
+    const pid = TEMP_NAME.test(name) ? parseInt(m[1]!, 36) : Number(m[1]);
+    const p = join(dir, name);
+    try {
+      const st = await fsp.lstat(p);
+      if (!st.isFile()) continue;
+      const age = now - st.mtimeMs;
+      if (age < STALE_TEMP_AGE_MS) continue;
+      if (age < ABANDONED_TEMP_AGE_MS && processAlive(pid)) continue;
+      await fsp.unlink(p);
+      removed.push(name);
+    } catch {
+      // Gone already, or not ours to remove.
+    }
+  }
+  return removed;
 }
 
 export async function writeFileSafely(target: string, content: Uint8Array | string, options: SafeWriteOptions = {}): Promise<void> {
   const fs = options.fs ?? nodeSafeWriteFs;
   const bytes = typeof content === 'string' ? new TextEncoder().encode(content) : content;
   const temp = tempPathFor(target);
+  if (!options.fs) await removeStaleTemps(dirname(target));
   const existing = await fs.stat(target);
   const mode = existing ? existing.mode & 0o777 : 0o644;
   let handle: fsp.FileHandle | null = null;

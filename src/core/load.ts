@@ -7,8 +7,10 @@ import type { FileAccessor, InputFile } from './io/fileAccessor';
 import { basename, dirname, joinPath } from './io/fileAccessor';
 import { DETECT_HEAD_BYTES, READERS, detectFormat } from './formats/index';
 import type { FormatReader, ReadOptions } from './formats/types';
-import { ValleyscopeError } from './errors';
+import { ReaderError, ValleyscopeError } from './errors';
 import { withInferredLabels } from './lattice/inferLabels';
+import { checkConfined, notRegularSentence, PathRefusedError, readListedFile, redactContent } from './io/pathPolicy';
+import { refuseAbsurdKpoints } from './formats/kpointSanity';
 
 /** Files larger than this are streamed by readers that can (bytes). */
 export const STREAM_ABOVE_BYTES = 32 * 1024 * 1024;
@@ -31,6 +33,7 @@ const SKIP = /^(WAVECAR|CHGCAR|CHG|WAVEDER|PROCAR|DOSCAR|LOCPOT|ELFCAR|AECCAR\d|
 export async function locateRun(fs: FileAccessor, path: string): Promise<RunLocation> {
   const st = await fs.stat(path);
   if (!st) throw new ValleyscopeError(`${path}: no such file or folder`);
+  if (st.type === 'other') throw new ValleyscopeError(notRegularSentence(path, st));
   if (st.type === 'file') {
     if (st.size === 0) throw new ValleyscopeError(`${path}: the file is empty`);
     const head = await fs.readHead(path, DETECT_HEAD_BYTES);
@@ -40,13 +43,24 @@ export async function locateRun(fs: FileAccessor, path: string): Promise<RunLoca
   }
   const entries = (await fs.list(path)).filter((e) => e.type === 'file' && !SKIP.test(e.name));
   let best: { file: string; reader: FormatReader; confidence: number } | null = null;
+  const refused: string[] = [];
   for (const e of entries.sort((a, b) => a.name.localeCompare(b.name))) {
     const file = joinPath(path, e.name);
+    if (e.link) {
+      // A symbolic link in a run folder is followed only when it stays inside the folder (io/pathPolicy.ts).
+      try {
+        await checkConfined(fs, path, file, `the link ${e.name}`, 'data', Number.MAX_SAFE_INTEGER);
+      } catch (err) {
+        if (!(err instanceof PathRefusedError)) throw err;
+        refused.push(err.message);
+        continue;
+      }
+    }
     const head = await fs.readHead(file, DETECT_HEAD_BYTES);
     const d = detectFormat(head, e.name);
     if (d && (!best || d.confidence > best.confidence)) best = { file, reader: d.reader, confidence: d.confidence };
   }
-  if (!best) throw new ValleyscopeError(`${path}: no eigenvalue file found in this folder (looked for ${READERS.map((r) => r.label).join(', ')})`);
+  if (!best) throw new ValleyscopeError(`${path}: no eigenvalue file found in this folder (looked for ${READERS.map((r) => r.label).join(', ')})${refused.length ? `; not followed: ${refused.join('; ')}` : ''}`);
   return { file: best.file, reader: best.reader };
 }
 
@@ -74,7 +88,7 @@ export async function readLocated(fs: FileAccessor, loc: RunLocation, options: L
       stream.close();
     }
   }
-  const main: InputFile = { path: loc.file, bytes: await fs.readFile(loc.file) };
+  const main: InputFile = { path: loc.file, bytes: await fs.readFile(loc.file, options.maxBytes || undefined) };
   return readFromBytes(loc.reader, main, companions, options);
 }
 
@@ -84,14 +98,23 @@ export async function readLocated(fs: FileAccessor, loc: RunLocation, options: L
  */
 export async function readFromBytes(reader: FormatReader, main: InputFile, companions: InputFile[], options: ReadOptions = {}): Promise<BandStructure> {
   // Without a path file, label the high-symmetry points recognised from the lattice (with a warning).
-  return withInferredLabels(reader.read(main, companions, options));
+  let bs: BandStructure;
+  try {
+    bs = reader.read(main, companions, options);
+  } catch (e) {
+    // A companion's error never quotes its content (the user named the run, not that file).
+    if (e instanceof ReaderError && e.file !== main.path) throw new ReaderError(e.format, e.file, e, redactContent(e.reason));
+    throw e;
+  }
+  bs.warnings = bs.warnings.map((w) => (w.file !== undefined && w.file !== main.path ? { ...w, message: redactContent(w.message) } : w));
+  return withInferredLabels(refuseAbsurdKpoints(bs));
 }
 
 export async function readCompanions(fs: FileAccessor, loc: RunLocation): Promise<InputFile[]> {
   const dir = dirname(loc.file);
   let siblings: string[] = [];
   try {
-    siblings = (await fs.list(dir)).filter((e) => e.type === 'file').map((e) => e.name);
+    siblings = (await fs.list(dir)).filter((e) => e.type !== 'directory').map((e) => e.name);
   } catch {
     siblings = [];
   }
@@ -99,11 +122,10 @@ export async function readCompanions(fs: FileAccessor, loc: RunLocation): Promis
   const out: InputFile[] = [];
   for (const n of names) {
     const p = joinPath(dir, n);
-    try {
-      out.push({ path: p, bytes: await fs.readFile(p) });
-    } catch {
-      // A companion that vanished between listing and reading is simply absent.
-    }
+    // Confined to the run's folder, regular files only, bounded (io/pathPolicy.ts); a pw.x XML beside bands.x
+    // output is itself a data file. A companion that vanished between listing and reading is simply absent.
+    const bytes = await readListedFile(fs, dir, p, /\.xml$/i.test(n) ? 'data' : 'companion');
+    if (bytes) out.push({ path: p, bytes });
   }
   return out;
 }

@@ -7,6 +7,7 @@
  */
 import * as vscode from 'vscode';
 import { ValleyscopeError } from '../core/errors';
+import { READ_LIMITS, tooLargeSentence } from '../core/io/readLimits';
 import type { AtomicFs } from './atomicWrite';
 
 export interface AnnotationsTarget {
@@ -26,6 +27,11 @@ export async function currentText(t: AnnotationsTarget): Promise<{ text: string 
   if (t.document) return { text: t.document.getText(), mtime: null };
   try {
     const st = await vscode.workspace.fs.stat(t.uri);
+    // Only a regular file within the annotations limit is read (a FIFO or device there would block or never end).
+    if (!(st.type & vscode.FileType.File) || st.type & vscode.FileType.Directory) {
+      throw new ValleyscopeError(`${t.uri.path}: the annotations file is not a regular file (a folder, FIFO, socket or device); it was not opened — remove it to write annotations there`);
+    }
+    if (st.size > READ_LIMITS.annotations) throw new ValleyscopeError(tooLargeSentence(t.uri.path, st.size, READ_LIMITS.annotations, 'annotations'));
     const bytes = await vscode.workspace.fs.readFile(t.uri);
     return { text: new TextDecoder('utf-8').decode(bytes), mtime: st.mtime };
   } catch (e) {

@@ -24,7 +24,9 @@ function randomSuffix(): string {
  * (as far as the file system lets us delete it); the error is passed on.
  */
 export async function writeAtomically(fs: AtomicFs, path: string, text: string, expectedMtime: number | null): Promise<AtomicWriteResult> {
-  const tmp = `${path}.tmp-${randomSuffix()}`;
+  // Short and hidden, beside the target: a long target name cannot make it too long for the file system.
+  const slash = path.lastIndexOf('/');
+  const tmp = `${slash >= 0 ? path.slice(0, slash + 1) : ''}.vs-edit-${randomSuffix()}.tmp`;
   let renamed = false;
   try {
     await fs.writeFile(tmp, new TextEncoder().encode(text));

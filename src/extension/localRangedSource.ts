@@ -6,8 +6,9 @@
 import type { ByteRangeSource } from '../core/io/fileAccessor';
 
 interface NodeFs {
-  openSync(path: string, flags: string): number;
-  fstatSync(fd: number): { size: number };
+  openSync(path: string, flags: number): number;
+  fstatSync(fd: number): { size: number; isFile(): boolean };
+  constants: { O_RDONLY: number; O_NONBLOCK?: number };
   readSync(fd: number, buffer: Uint8Array, offset: number, length: number, position: number): number;
   closeSync(fd: number): void;
 }
@@ -27,8 +28,14 @@ export function canReadLocalRanges(): boolean {
 export function openLocalRanged(fsPath: string): ByteRangeSource {
   const fs = nodeFs();
   if (!fs) throw new Error('ranged reads of local files need node');
-  const fd = fs.openSync(fsPath, 'r');
-  const size = fs.fstatSync(fd).size;
+  // Non-blocking, and only a regular file: a FIFO swapped in after the host checked the path cannot hang the worker.
+  const fd = fs.openSync(fsPath, fs.constants.O_RDONLY | (fs.constants.O_NONBLOCK ?? 0));
+  const st = fs.fstatSync(fd);
+  if (!st.isFile()) {
+    fs.closeSync(fd);
+    throw new Error(`${fsPath} is not a regular file; only regular files are read`);
+  }
+  const size = st.size;
   const readInto = (offset: number, target: Uint8Array, targetOffset: number, length: number): number => {
     const n = Math.max(0, Math.min(length, size - offset, target.length - targetOffset));
     let got = 0;

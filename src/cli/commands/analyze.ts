@@ -8,8 +8,8 @@ import { reportToJson } from '../../core/report/reportJson';
 import { FIT_METHODS } from '../../core/analysis/methods';
 import type { CliIO } from '../io';
 import type { ReadOptions } from '../../core/formats/types';
-import { readPoscar } from '../../core/formats/vasp/poscar';
-import { detectQeXml, readQeXml } from '../../core/formats/qe/qeXml';
+import { readStructureFile } from '../../core/formats/structureFile';
+import { READ_LIMITS } from '../../core/io/readLimits';
 
 export const ANALYZE_HELP = `valleyscope analyze <file-or-folder> [options]
   Read an eigenvalue file (or find one in a run folder) and report the gap, band edges and effective masses.
@@ -59,16 +59,15 @@ export async function readOptionsFromArgs(p: ReturnType<typeof parseArgs>): Prom
   if (sfile !== undefined) {
     let bytes: Uint8Array;
     try {
-      bytes = await nodeFileAccessor.readFile(sfile);
+      // Anywhere the user points, but a regular file within the structure-file limit (SECURITY.md).
+      bytes = await nodeFileAccessor.readFile(sfile, READ_LIMITS.structure);
     } catch (e) {
-      throw new UsageError(`--structure: cannot read "${sfile}" (${(e as NodeJS.ErrnoException).code ?? 'unreadable'})`);
+      throw new UsageError(`--structure: ${e instanceof Error ? e.message : String(e)}`);
     }
-    if (detectQeXml(bytes.subarray(0, 4096), sfile) > 0) {
-      // A pw.x data file gives the structure and the alat its k-points are written in.
-      const qe = readQeXml({ path: sfile, bytes });
-      o.structure = qe.structure;
-      if (o.alatAngstrom === undefined) o.alatAngstrom = qe.alat;
-    } else o.structure = readPoscar({ path: sfile, bytes });
+    // A pw.x data file gives the structure and the alat its k-points are written in.
+    const st = readStructureFile({ path: sfile, bytes });
+    o.structure = st.structure;
+    if (o.alatAngstrom === undefined && st.alat_angstrom !== null) o.alatAngstrom = st.alat_angstrom;
   }
   return o;
 }

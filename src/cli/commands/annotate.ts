@@ -1,5 +1,5 @@
 /** `valleyscope annotate <file-or-folder>… [analysis options]`: write or update `<data file>.valleys.json`. */
-import { dirname, join, relative, resolve } from 'node:path';
+import { dirname, relative, resolve } from 'node:path';
 import { flag, numberFlag, parseArgs, UsageError } from '../args';
 import { nodeFileAccessor } from '../nodeFileAccessor';
 import { locateRun, readLocated } from '../../core/load';
@@ -10,14 +10,16 @@ import { serializeAnnotations } from '../../core/annotations/serializeAnnotation
 import { analysisSettingsOf, buildAnnotations } from '../../core/annotations/buildAnnotations';
 import { mergeAnnotations } from '../../core/annotations/mergeAnnotations';
 import { compareAnnotations, EXACT_TOLERANCES } from '../../core/annotations/compareAnnotations';
-import { ValleyscopeError } from '../../core/errors';
+import { ReaderError, ValleyscopeError } from '../../core/errors';
 import { writeFileSafely, type SafeWriteOptions } from '../safeWrite';
 import { ANALYSIS_FLAGS, READ_FLAGS, analysisSettingsFromArgs } from './analyze';
 import type { CliIO } from '../io';
 import type { ReadOptions } from '../../core/formats/types';
 import type { AnnotatedSettings, AnnotatedSource } from '../../core/annotations/annotationsModel';
-import { readPoscar } from '../../core/formats/vasp/poscar';
 import { sha256Hex } from '../../core/hash';
+import { readStructureFile } from '../../core/formats/structureFile';
+import { READ_LIMITS } from '../../core/io/readLimits';
+import { checkConfined, checkRecordedPath, notRegularSentence, readRecordedPath, redactContent, shown } from '../../core/io/pathPolicy';
 
 export const ANNOTATE_HELP = `valleyscope annotate <file-or-folder>... [options]
   Analyse each run and write its findings to <data file>.valleys.json beside the data file, for review.
@@ -37,29 +39,61 @@ type ReadSettings = Pick<AnnotatedSettings, 'forceSpinorbit' | 'alat_angstrom' |
  * How to read a run so that it reads as it did when annotated: spin-orbit on request, alat, and a structure
  * file given by the user (its path relative to the annotations file's folder; it becomes a source with its
  * hash, so a changed structure file makes the annotations stale). Only ever read, never written.
+ *
+ * The structure file recorded in an annotations file is opened only inside the run's folder (the annotations
+ * file's folder), as io/pathPolicy.ts allows; `fromCommandLine` is the path the user typed with
+ * `--structure`, which may be anywhere (still a regular file within its size limit).
  */
-export async function readOptionsFor(annotationsFile: string, s: ReadSettings): Promise<{ options: ReadOptions; sources: AnnotatedSource[] }> {
+export async function readOptionsFor(
+  annotationsFile: string,
+  s: ReadSettings,
+  fromCommandLine?: string,
+): Promise<{ options: ReadOptions; sources: AnnotatedSource[] }> {
   const options: ReadOptions = {};
   const sources: AnnotatedSource[] = [];
   if (s.forceSpinorbit) options.spinorbit = true;
   if (s.alat_angstrom !== null) options.alatAngstrom = s.alat_angstrom;
   if (s.structureFile !== null) {
-    const path = join(dirname(annotationsFile), s.structureFile);
-    if (!(await nodeFileAccessor.stat(path))) {
-      throw new ValleyscopeError(`the structure file ${s.structureFile} recorded in ${annotationsFile} is missing (looked for ${path})`);
+    let file: { path: string; bytes: Uint8Array } | null;
+    if (fromCommandLine !== undefined) {
+      if (!(await nodeFileAccessor.stat(fromCommandLine))) throw new ValleyscopeError(`--structure: ${fromCommandLine}: no such file`);
+      file = { path: fromCommandLine, bytes: await nodeFileAccessor.readFile(fromCommandLine, READ_LIMITS.structure) };
+    } else {
+      file = await readRecordedPath(nodeFileAccessor, dirname(annotationsFile), s.structureFile, 'settings.structureFile', annotationsFile, 'structure');
+      if (!file) throw new ValleyscopeError(`the structure file ${shown(s.structureFile)} recorded in ${annotationsFile} (settings.structureFile) is missing`);
     }
-    const bytes = await nodeFileAccessor.readFile(path);
-    options.structure = readPoscar({ path, bytes });
-    sources.push({ path: s.structureFile, role: 'structure', sha256: sha256Hex(bytes), extra: emptyExtra() });
+    let st;
+    try {
+      st = readStructureFile(file);
+    } catch (e) {
+      // The user did not name a recorded structure file in this command: its content is never quoted.
+      if (fromCommandLine === undefined && e instanceof ReaderError) throw new ReaderError(e.format, e.file, e, redactContent(e.reason));
+      throw e;
+    }
+    options.structure = st.structure;
+    if (options.alatAngstrom === undefined && st.alat_angstrom !== null) options.alatAngstrom = st.alat_angstrom;
+    sources.push({ path: s.structureFile, role: 'structure', sha256: sha256Hex(file.bytes), extra: emptyExtra() });
   }
   return { options, sources };
 }
 
+/** The existing annotations file beside the data: read only when it stays in that folder and is a regular file. */
 async function readIfPresent(path: string): Promise<Uint8Array | null> {
   const st = await nodeFileAccessor.stat(path);
   if (!st) return null;
-  if (st.type !== 'file') throw new ValleyscopeError(`${path} exists but is not a file; remove it to write annotations there`);
-  return nodeFileAccessor.readFile(path);
+  if (st.type !== 'file') throw new ValleyscopeError(notRegularSentence(path, st, 'the annotations file') + '; remove it to write annotations there');
+  await checkConfined(nodeFileAccessor, dirname(path), path, 'the annotations file', 'annotations');
+  return nodeFileAccessor.readFile(path, READ_LIMITS.annotations);
+}
+
+/** Would the path policy open this recorded path (relative, no "..", nothing hidden)? */
+function isInsideRunFolder(recorded: string): boolean {
+  try {
+    checkRecordedPath(recorded, 'settings.structureFile', 'the annotations file');
+    return true;
+  } catch {
+    return false;
+  }
 }
 
 export interface ReadFlags {
@@ -101,7 +135,13 @@ export async function annotateOne(
         ? relative(dirname(resolve(target)), resolve(read.structure)).replace(/\\/g, '/')
         : (older?.settings.structureFile ?? null),
   };
-  const { options, sources } = await readOptionsFor(target, readSettings);
+  if (read.structure !== undefined && readSettings.structureFile !== null && !isInsideRunFolder(readSettings.structureFile)) {
+    io.err(
+      `valleyscope: ${target}: the structure file ${read.structure} is outside the run's folder; it is recorded, but "valleyscope check" ` +
+        `and later runs of annotate open recorded paths only inside the run's folder (SECURITY.md): copy it beside the data file to keep the run checkable`,
+    );
+  }
+  const { options, sources } = await readOptionsFor(target, readSettings, read.structure);
   const bs = await readLocated(nodeFileAccessor, loc, options);
   const report = analyzeBandStructure(bs, settings);
   const fresh = buildAnnotations(report, bs.source, { ...settings, ...readSettings }, { toolVersion: TOOL_VERSION });

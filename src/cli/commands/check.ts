@@ -7,7 +7,10 @@ import { flag, numberFlag, parseArgs, UsageError } from '../args';
 import { nodeFileAccessor } from '../nodeFileAccessor';
 import { locateRun, readLocated } from '../../core/load';
 import { analyzeBandStructure } from '../../core/analysis/analyze';
-import { joinPath } from '../../core/io/fileAccessor';
+import { dirname, joinPath } from '../../core/io/fileAccessor';
+import { checkConfined } from '../../core/io/pathPolicy';
+import { READ_LIMITS } from '../../core/io/readLimits';
+import { fsErrorCode, fsErrorSentence } from '../fsErrors';
 import { dataPathFor, isAnnotationsPath, annotationsPathFor, type AnnotationsDoc } from '../../core/annotations/annotationsModel';
 import { parseAnnotations } from '../../core/annotations/parseAnnotations';
 import { analysisSettingsOf, annotatedSources } from '../../core/annotations/buildAnnotations';
@@ -23,6 +26,8 @@ export const CHECK_HELP = `valleyscope check [paths...] [options]
   re-analyse with the settings recorded in the file, and report annotations that are stale (a source
   file's SHA-256 changed) or drifted (a recorded number moved beyond the tolerance). Exits with 1 when
   any is stale, drifted or unreadable, or when no annotations file is found: made for CI.
+  The search goes at most 32 folders deep and follows no link to a folder (it says so when it stops).
+  Paths read from an annotations file are opened only inside its folder (see SECURITY.md).
   --format <text|md>          plain lines (default) or a Markdown summary for a review comment
   --energy-tolerance <meV>    energies may move this much (default ${DEFAULT_TOLERANCES.energy_meV})
   --mass-tolerance <percent>  masses may move this much (default ${DEFAULT_TOLERANCES.mass_percent})`;
@@ -30,44 +35,91 @@ export const CHECK_HELP = `valleyscope check [paths...] [options]
 /** Folders never searched: version control and installed packages. */
 const SKIP_DIRS = new Set(['.git', '.hg', '.svn', 'node_modules']);
 
-/** Annotations files under `path` (or the annotations file of a data file), sorted. */
-export async function findAnnotationsFiles(path: string): Promise<string[]> {
+/** How many folders below a given path `check` looks for annotations files. */
+export const MAX_SEARCH_DEPTH = 32;
+
+export interface FoundAnnotations {
+  file: string;
+  /** The folder searched when the file was found by searching (it must stay inside it), null when named. */
+  root: string | null;
+}
+
+/**
+ * Annotations files under `path` (or the annotations file of a data file), sorted, with sentences about what
+ * the search left out (the depth limit; links to folders, which are not followed).
+ */
+export async function searchAnnotationsFiles(path: string): Promise<{ found: FoundAnnotations[]; notes: string[] }> {
   const st = await nodeFileAccessor.stat(path);
   if (!st) throw new ValleyscopeError(`${path}: no such file or folder`);
-  if (st.type === 'file') {
-    if (isAnnotationsPath(path)) return [path];
+  if (st.type !== 'directory') {
+    if (isAnnotationsPath(path)) return { found: [{ file: path, root: null }], notes: [] };
     const beside = annotationsPathFor(path);
-    if (await nodeFileAccessor.stat(beside)) return [beside];
+    if (await nodeFileAccessor.stat(beside)) return { found: [{ file: beside, root: null }], notes: [] };
     throw new ValleyscopeError(`${path} is neither an annotations file (*.valleys.json) nor a data file with one beside it`);
   }
-  const out: string[] = [];
+  const found: FoundAnnotations[] = [];
+  const notes: string[] = [];
+  const tooDeep: string[] = [];
+  const linkedDirs: string[] = [];
   const walk = async (dir: string, depth: number): Promise<void> => {
-    if (depth > 32) return;
-    const entries = (await nodeFileAccessor.list(dir)).sort((a, b) => (a.name < b.name ? -1 : a.name > b.name ? 1 : 0));
+    let listed;
+    try {
+      listed = await nodeFileAccessor.list(dir);
+    } catch (e) {
+      // A folder below the one named that cannot be listed (permission denied, ...) is said, and skipped.
+      if (depth === 0 || !(e instanceof ValleyscopeError)) throw e;
+      notes.push(e.message);
+      return;
+    }
+    const entries = listed.sort((a, b) => (a.name < b.name ? -1 : a.name > b.name ? 1 : 0));
     for (const e of entries) {
       const p = joinPath(dir, e.name);
       if (e.type === 'directory') {
-        if (!SKIP_DIRS.has(e.name)) await walk(p, depth + 1);
+        if (SKIP_DIRS.has(e.name)) continue;
+        // Links to folders are not followed: they can lead outside the searched folder or in circles.
+        if (e.link) linkedDirs.push(p);
+        else if (depth >= MAX_SEARCH_DEPTH) tooDeep.push(p);
+        else await walk(p, depth + 1);
       } else if (isAnnotationsPath(e.name) && !e.name.startsWith('.')) {
-        out.push(p);
+        found.push({ file: p, root: path });
       }
     }
   };
   await walk(path, 0);
-  return out;
+  if (tooDeep.length) {
+    notes.push(
+      `${path}: the search stopped ${MAX_SEARCH_DEPTH} folders deep; ${tooDeep.length} deeper folder${tooDeep.length === 1 ? ' was' : 's were'} not searched (first: ${tooDeep[0]}); name them on the command line to check them`,
+    );
+  }
+  if (linkedDirs.length) {
+    notes.push(`${path}: ${linkedDirs.length} symbolic link${linkedDirs.length === 1 ? '' : 's'} to folders ${linkedDirs.length === 1 ? 'was' : 'were'} not followed (first: ${linkedDirs[0]}); name the folder on the command line to check it`);
+  }
+  return { found, notes };
+}
+
+/** Annotations files under `path` (or the annotations file of a data file), sorted. */
+export async function findAnnotationsFiles(path: string): Promise<string[]> {
+  return (await searchAnnotationsFiles(path)).found.map((f) => f.file);
 }
 
 export type FileOutcome =
   | { file: string; doc: AnnotationsDoc; result: CheckResult; error: null }
   | { file: string; doc: AnnotationsDoc | null; result: null; error: string };
 
-/** Check one annotations file against its data (the data file is the annotations file's name minus the suffix). */
-export async function checkFile(file: string, tol: Tolerances): Promise<FileOutcome> {
+/**
+ * Check one annotations file against its data (the data file is the annotations file's name minus the
+ * suffix). Every path it leads to is opened under the policy of io/pathPolicy.ts: the data file and the
+ * recorded structure file only inside the annotations file's folder; an annotations file found by searching
+ * only inside the searched folder (`root`).
+ */
+export async function checkFile(file: string, tol: Tolerances, root: string | null = null): Promise<FileOutcome> {
   let doc: AnnotationsDoc | null = null;
   try {
-    doc = parseAnnotations(new TextDecoder().decode(await nodeFileAccessor.readFile(file)), file);
+    if (root !== null) await checkConfined(nodeFileAccessor, root, file, 'the annotations file', 'annotations');
+    doc = parseAnnotations(new TextDecoder().decode(await nodeFileAccessor.readFile(file, READ_LIMITS.annotations)), file);
     const dataFile = dataPathFor(file);
-    if (!(await nodeFileAccessor.stat(dataFile))) {
+    const runFolder = dirname(file);
+    if (!(await checkConfined(nodeFileAccessor, runFolder, dataFile, 'the data file it describes', 'data', Number.MAX_SAFE_INTEGER))) {
       return { file, doc, result: null, error: `the data file ${dataFile} it describes is missing` };
     }
     const loc = await locateRun(nodeFileAccessor, dataFile);
@@ -77,8 +129,7 @@ export async function checkFile(file: string, tol: Tolerances): Promise<FileOutc
     return { file, doc, result: checkAnnotations(doc, [...annotatedSources(bs.source), ...sources], report, tol), error: null };
   } catch (e) {
     if (e instanceof ValleyscopeError) return { file, doc, result: null, error: e.message };
-    const code = (e as NodeJS.ErrnoException | undefined)?.code;
-    if (code) return { file, doc, result: null, error: `${file}: ${(e as Error).message}` };
+    if (fsErrorCode(e)) return { file, doc, result: null, error: fsErrorSentence(file, e).message };
     throw e;
   }
 }
@@ -112,8 +163,9 @@ function summaryLine(outcomes: FileOutcome[]): string {
   return `${n} annotations file${n === 1 ? '' : 's'} checked: ${ok} match${ok === 1 ? 'es' : ''} ${ok === 1 ? 'its' : 'their'} data, ${bad} stale or drifted, ${failed} could not be checked.`;
 }
 
-function markdownReport(outcomes: FileOutcome[]): string {
+function markdownReport(outcomes: FileOutcome[], notes: string[] = []): string {
   const parts = [`**Valleyscope check:** ${summaryLine(outcomes)}`, ''];
+  for (const n of notes) parts.push(`> ${n.replace(/\|/g, '\\|')}`, '');
   for (const o of outcomes) {
     if (o.error !== null) {
       parts.push(`### Valleyscope annotations: \`${o.file.replace(/`/g, "'")}\` — **could not be checked**`, '', o.error.replace(/\|/g, '\\|'), '');
@@ -134,14 +186,20 @@ export async function runCheck(argv: string[], io: CliIO): Promise<number> {
     mass_percent: numberFlag(p, 'mass-tolerance', (x) => x >= 0 && x <= 1000, 'zero or a positive per cent') ?? DEFAULT_TOLERANCES.mass_percent,
   };
   const roots = p.positional.length ? p.positional : ['.'];
-  const files: string[] = [];
-  for (const r of roots) for (const f of await findAnnotationsFiles(r)) if (!files.includes(f)) files.push(f);
+  const files: FoundAnnotations[] = [];
+  const notes: string[] = [];
+  for (const r of roots) {
+    const s = await searchAnnotationsFiles(r);
+    notes.push(...s.notes);
+    for (const f of s.found) if (!files.some((g) => g.file === f.file)) files.push(f);
+  }
+  for (const n of notes) io.err(`valleyscope check: ${n}`);
   if (files.length === 0) {
     io.err(`valleyscope check: no annotations files (*.valleys.json) under ${roots.join(', ')}; write some with "valleyscope annotate"`);
     return 1;
   }
   const outcomes: FileOutcome[] = [];
-  for (const f of files) outcomes.push(await checkFile(f, tol));
-  io.out(format === 'md' ? markdownReport(outcomes) : textReport(outcomes));
+  for (const f of files) outcomes.push(await checkFile(f.file, tol, f.root));
+  io.out(format === 'md' ? markdownReport(outcomes, notes) : textReport(outcomes));
   return outcomes.every((o) => o.result?.ok) ? 0 : 1;
 }

@@ -2,16 +2,20 @@
  * Read an annotations file as a comparison input through a FileAccessor (the CLI's node one, the editor's
  * workspace one): parse it, hash the recorded sources as they are now (staleness), and find the run's
  * structure for the trend descriptors and the symmetry matching: the recorded structure file (POSCAR /
- * CONTCAR) when there is one, else the structure the data file itself carries (vasprun.xml, QE XML).
+ * CONTCAR, or a pw.x XML) when there is one, else the structure the data file itself carries (vasprun.xml,
+ * QE XML). Paths recorded in the file are opened only inside its folder (io/pathPolicy.ts); a refused one is
+ * reported in `notes` and counts as missing.
  */
 import type { FileAccessor } from '../io/fileAccessor';
-import { dirname, joinPath } from '../io/fileAccessor';
+import { dirname } from '../io/fileAccessor';
 import type { Mat3, Structure } from '../model';
 import { sha256Hex } from '../hash';
 import { parseAnnotations } from '../annotations/parseAnnotations';
 import { dataPathFor, type AnnotationsDoc } from '../annotations/annotationsModel';
 import type { CurrentSource } from '../annotations/checkAnnotations';
-import { readPoscar } from '../formats/vasp/poscar';
+import { readStructureFile } from '../formats/structureFile';
+import { READ_LIMITS } from '../io/readLimits';
+import { checkConfined, PathRefusedError, readRecordedPath, redactContent } from '../io/pathPolicy';
 import { locateRun, readLocated } from '../load';
 import { crystalSymmetry, symmetryReady } from '../lattice/symmetry';
 import { runFromAnnotations, type AnnotationsRun } from './runFromAnnotations';
@@ -26,22 +30,29 @@ export interface LoadedAnnotationsRun extends AnnotationsRun {
 const STRUCTURE_ROLES = new Set(['structure']);
 
 export async function loadAnnotationsRun(fs: FileAccessor, file: string, name: string = file): Promise<LoadedAnnotationsRun> {
-  const doc = parseAnnotations(new TextDecoder().decode(await fs.readFile(file)), file);
+  const doc = parseAnnotations(new TextDecoder().decode(await fs.readFile(file, READ_LIMITS.annotations)), file);
   const dir = dirname(file);
   const current: CurrentSource[] = [];
   const notes: string[] = [];
   let structure: Structure | null = null;
-  for (const s of doc.sources) {
-    const path = joinPath(dir, s.path);
-    const st = await fs.stat(path);
-    if (!st || st.type !== 'file') continue; // missing: compareSources says so
-    const bytes = await fs.readFile(path);
-    current.push({ path: s.path, sha256: sha256Hex(bytes), role: s.role });
+  for (const [i, s] of doc.sources.entries()) {
+    const role = STRUCTURE_ROLES.has(s.role) ? 'structure' : 'data';
+    let read;
+    try {
+      read = await readRecordedPath(fs, dir, s.path, `sources[${i}].path`, file, role);
+    } catch (e) {
+      if (!(e instanceof PathRefusedError)) throw e;
+      notes.push(e.message);
+      continue; // counts as missing: compareSources says so
+    }
+    if (!read) continue; // missing: compareSources says so
+    current.push({ path: s.path, sha256: sha256Hex(read.bytes), role: s.role });
     if (!structure && STRUCTURE_ROLES.has(s.role)) {
       try {
-        structure = readPoscar({ path, bytes });
+        structure = readStructureFile(read).structure;
       } catch (e) {
-        notes.push(`the structure file ${s.path} could not be read: ${e instanceof Error ? e.message : String(e)}`);
+        // Not a file the user named: the reason is given without quoting its content.
+        notes.push(`the structure file ${read.path} could not be read: ${redactContent(e instanceof Error ? e.message : String(e))}`);
       }
     }
   }
@@ -50,7 +61,7 @@ export async function loadAnnotationsRun(fs: FileAccessor, file: string, name: s
     // The data file may carry the structure itself (XML layouts); read it only for that.
     try {
       const data = dataPathFor(file);
-      if (await fs.stat(data)) {
+      if (await checkConfined(fs, dir, data, 'the data file it describes', 'data', Number.MAX_SAFE_INTEGER)) {
         const bs = await readLocated(fs, await locateRun(fs, data), doc.settings.forceSpinorbit ? { spinorbit: true } : {});
         structure = bs.structure;
         lattice = bs.lattice;

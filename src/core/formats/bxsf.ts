@@ -108,6 +108,10 @@ export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStruct
   if (dims.some((d) => d < 2)) throw sc.error(`each grid dimension must be at least 2 (end points repeated), found ${dims.join(' × ')}`, dimsLine, 0);
   const nk = dims[0] * dims[1] * dims[2];
   const remaining = file.bytes.length - sc.pos;
+  // Not even one band of that grid fits: refused also for a file still being written (nothing to allocate for).
+  if (nk * 2 > remaining + 16) {
+    throw sc.error(`the grid (${dims.join(' × ')} points) needs more values than the rest of the file can hold: it is truncated or the header is wrong`, dimsLine, 0);
+  }
   if (nk * nBands * 2 > remaining + 16) {
     if (!options.allowPartial) {
       throw sc.error(`the grid (${dims.join(' × ')} points, ${nBands} bands) needs more values than the rest of the file can hold: it is truncated or the header is wrong`, dimsLine, 0);

@@ -23,6 +23,7 @@ import type { InputFile } from '../io/fileAccessor';
 import type { FormatReader, ReadOptions } from './types';
 import { sha256Hex } from '../hash';
 import { CancelledError } from '../errors';
+import { checkAnnouncedCount } from './announcedCount';
 import { TextScanner, decodeText } from './textScanner';
 import { bohrToAngstrom, hartreeToEv } from '../units';
 import { det3 } from '../lattice/linalg';
@@ -67,6 +68,8 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
   sc.endLine('the number of eigenvalues');
   const nBands = counts[0]!;
   if (nBands <= 0) throw sc.error(`the header announces ${nBands} eigenvalues per k-point; at least one is needed`, eigLine, 0);
+  // Before allocating: one k-point's eigenvalues (a number and a newline each) must fit in the file.
+  checkAnnouncedCount(sc, nBands * nSpin, 2, 'eigenvalues per k-point', eigLine);
   if (counts.some((c) => c !== nBands)) {
     throw sc.error(`the spin channels have different numbers of eigenvalues (${counts.join(' and ')}); Valleyscope needs the same number in both`, eigLine, 0);
   }

@@ -15,6 +15,7 @@ import { basename } from '../io/fileAccessor';
 import type { FormatReader, ReadOptions } from './types';
 import { sha256Hex } from '../hash';
 import { CancelledError, ReaderError } from '../errors';
+import { checkAnnouncedCount } from './announcedCount';
 import { TextScanner, decodeText } from './textScanner';
 import { DoubleBuffer } from './doubleBuffer';
 import { BOHR_ANGSTROM } from '../units';
@@ -111,8 +112,9 @@ export function readBandKpt(file: InputFile): Float64Array {
   if (sc.atEnd()) throw sc.error('the k-point file is empty');
   const n = sc.integer('the number of k-points');
   if (n <= 0) throw sc.error(`the k-point file announces ${n} points`);
-  if (n > file.bytes.length) throw sc.error(`the k-point file announces ${n} points, more than it could hold`);
   sc.endLine('the number of k-points');
+  // Before allocating: each k-point line needs at least 6 bytes ("0 0 0" and a newline; the weight may be left out).
+  checkAnnouncedCount(sc, n, 6, 'k-points', sc.line - 1);
   const k = new Float64Array(3 * n);
   for (let i = 0; i < n; i++) {
     sc.skipBlankLines();

@@ -4,9 +4,24 @@
  * Paths are strings with '/' separators, interpreted only by the accessor.
  */
 
+/**
+ * What a path is, after following symbolic links. 'other' is anything that is neither a regular file nor a
+ * folder (a FIFO, a socket, a character or block device): never read (see SECURITY.md).
+ */
+export type EntryType = 'file' | 'directory' | 'other';
+
 export interface DirEntry {
   name: string;
-  type: 'file' | 'directory';
+  type: EntryType;
+  /** The entry is a symbolic link (its type is that of what it points to). */
+  link?: boolean;
+}
+
+export interface FileStat {
+  type: EntryType;
+  size: number;
+  /** For type 'other': what it is, in words ("a FIFO (named pipe)", "a character device", ...). */
+  kind?: string;
 }
 
 /** Synchronous ranged reads of one open file, for readers that stream very large files. */
@@ -19,14 +34,26 @@ export interface ByteRangeSource {
   close(): void;
 }
 
+/**
+ * The contract every implementation keeps (tested for the node one in test/unit/io/):
+ * - only regular files are read: `readFile`, `readHead` and `openRanged` refuse FIFOs, sockets and devices,
+ *   also behind symbolic links, with a sentence and before opening them, and open in a way that cannot block;
+ * - `readFile` never reads more than `maxBytes` (default: READ_LIMITS.data): a larger file is refused with a
+ *   sentence, a file that grows while being read is cut at the limit;
+ * - failures of the file system (permission denied, ...) are a ValleyscopeError with a sentence.
+ * Confinement of paths taken from file content is a separate policy (pathPolicy.ts) built on `realpath`.
+ */
 export interface FileAccessor {
-  readFile(path: string): Promise<Uint8Array>;
+  readFile(path: string, maxBytes?: number): Promise<Uint8Array>;
   /** The first `bytes` bytes (or the whole file when shorter). */
   readHead(path: string, bytes: number): Promise<Uint8Array>;
-  stat(path: string): Promise<{ type: 'file' | 'directory'; size: number } | null>;
+  /** Follows symbolic links; null when nothing is there (or it cannot be looked at). */
+  stat(path: string): Promise<FileStat | null>;
   list(dir: string): Promise<DirEntry[]>;
   /** Open a file for synchronous ranged reads (node only; absent where the file system cannot). */
   openRanged?(path: string): ByteRangeSource;
+  /** The path with every symbolic link resolved, in the accessor's '/' form (absent where links cannot exist). */
+  realpath?(path: string): Promise<string>;
 }
 
 /** A file's name and bytes, as handed to a reader. */

@@ -3,3 +3,6 @@
  * files, so the accessor reads through vscode.workspace.fs only.
  */
 export const open: undefined = undefined;
+export const stat: undefined = undefined;
+export const realpath: undefined = undefined;
+export const constants: undefined = undefined;

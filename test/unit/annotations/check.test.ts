@@ -180,14 +180,14 @@ describe('valleyscope annotate and check', () => {
     const bare = join(root, 'bare');
     mkdirSync(bare);
     writeFileSync(join(bare, 'EIGENVAL'), readFileSync(eig));
-    const shared = join(root, 'shared');
-    mkdirSync(shared);
-    writeFileSync(join(shared, 'cubic.vasp'), readFileSync(join(runDir, 'POSCAR')));
-    const r = await cli('annotate', join(bare, 'EIGENVAL'), '--structure', join(shared, 'cubic.vasp'));
+    mkdirSync(join(bare, 'cell'));
+    writeFileSync(join(bare, 'cell', 'cubic.vasp'), readFileSync(join(runDir, 'POSCAR')));
+    const r = await cli('annotate', join(bare, 'EIGENVAL'), '--structure', join(bare, 'cell', 'cubic.vasp'));
     assert.equal(r.code, 0, r.err);
+    assert.equal(r.err, '', 'a structure file inside the run folder needs no warning');
     const doc = parseAnnotations(readFileSync(join(bare, 'EIGENVAL.valleys.json'), 'utf8'), 'bare');
-    assert.equal(doc.settings.structureFile, '../shared/cubic.vasp');
-    assert.ok(doc.sources.some((s) => s.path === '../shared/cubic.vasp' && s.role === 'structure'));
+    assert.equal(doc.settings.structureFile, 'cell/cubic.vasp');
+    assert.ok(doc.sources.some((s) => s.path === 'cell/cubic.vasp' && s.role === 'structure'));
     // With the cell known, the masses are in m_e: the cosine-model CBM is light (analytic m_c = 0.119 m_e;
     // the fit over the coarse path reads it a little heavier).
     const cbm = doc.entries.find((e) => e.kind === 'cbm')!;
@@ -195,12 +195,29 @@ describe('valleyscope annotate and check', () => {
     assert.equal((await cli('check', bare)).code, 0);
     // Re-annotating without the option keeps the recorded structure file.
     assert.match((await cli('annotate', bare)).out, /unchanged/);
-    writeFileSync(join(shared, 'cubic.vasp'), readFileSync(join(runDir, 'POSCAR'), 'utf8').replace('4.0 0.0 0.0', '4.1 0.0 0.0'));
+    writeFileSync(join(bare, 'cell', 'cubic.vasp'), readFileSync(join(runDir, 'POSCAR'), 'utf8').replace('4.0 0.0 0.0', '4.1 0.0 0.0'));
     const stale = await cli('check', bare);
     assert.equal(stale.code, 1);
-    assert.match(stale.out, /stale:\s+source \.\.\/shared\/cubic\.vasp \(structure\) has changed/);
-    rmSync(join(shared, 'cubic.vasp'));
-    assert.match((await cli('check', bare)).out, /could not be checked: the structure file \.\.\/shared\/cubic\.vasp recorded in .* is missing/);
+    assert.match(stale.out, /stale:\s+source cell\/cubic\.vasp \(structure\) has changed/);
+    rmSync(join(bare, 'cell', 'cubic.vasp'));
+    assert.match((await cli('check', bare)).out, /could not be checked: the structure file "cell\/cubic\.vasp" recorded in .* is missing/);
+  });
+
+  it('records a structure file outside the run folder with a warning; check then refuses to open it', async () => {
+    const bare = join(root, 'bare-outside');
+    mkdirSync(bare);
+    writeFileSync(join(bare, 'EIGENVAL'), readFileSync(eig));
+    const shared = join(root, 'shared');
+    mkdirSync(shared);
+    writeFileSync(join(shared, 'cubic.vasp'), readFileSync(join(runDir, 'POSCAR')));
+    const r = await cli('annotate', join(bare, 'EIGENVAL'), '--structure', join(shared, 'cubic.vasp'));
+    assert.equal(r.code, 0, r.err);
+    assert.match(r.err, /outside the run's folder.*copy it beside the data file/);
+    const doc = parseAnnotations(readFileSync(join(bare, 'EIGENVAL.valleys.json'), 'utf8'), 'bare');
+    assert.equal(doc.settings.structureFile, '../shared/cubic.vasp');
+    const checked = await cli('check', bare);
+    assert.equal(checked.code, 1);
+    assert.match(checked.out, /settings\.structureFile in .* climbs out of the run's folder.*it was not opened/);
   });
 
   it('re-analyses with the recorded settings, not the defaults', async () => {

@@ -44,7 +44,7 @@ describe('safe writes', () => {
       (e: unknown) => e instanceof ValleyscopeError && /previous file, if any, is unchanged/.test(e.message),
     );
     assert.equal(readFileSync(target, 'utf8'), OLD);
-    assert.ok(temp.startsWith(join(dir, '.EIGENVAL.valleys.json.')), 'the temporary file sits beside the target');
+    assert.ok(temp.startsWith(join(dir, '.vs-')) && temp.endsWith('.tmp'), 'the temporary file sits beside the target, short and hidden');
     assert.ok(!existsSync(temp), 'the temporary file is removed');
   });
 

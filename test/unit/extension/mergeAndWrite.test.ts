@@ -37,7 +37,7 @@ class FakeFs implements AtomicFs {
     return { text: f?.text ?? null, mtime: f?.mtime ?? null };
   };
   temporaries(): string[] {
-    return [...this.files.keys()].filter((k) => k.includes('.tmp-'));
+    return [...this.files.keys()].filter((k) => k.endsWith('.tmp'));
   }
 }
 
@@ -121,6 +121,20 @@ describe('extension: safe writing of the annotations file (faults)', () => {
     };
     await writeAtomically(fs, P, 'x', null);
     assert.equal(seen.length, 1);
-    assert.ok(seen[0]!.startsWith(`${P}.tmp-`));
+    assert.match(seen[0]!, /^\/run\/\.vs-edit-[0-9a-f]{8}\.tmp$/);
+  });
+
+  it('keeps the temporary name short whatever the length of the target name', async () => {
+    const fs = new FakeFs();
+    const seen: string[] = [];
+    const orig = fs.writeFile.bind(fs);
+    fs.writeFile = async (p, b) => {
+      seen.push(p);
+      return orig(p, b);
+    };
+    const long = `/run/${'x'.repeat(230)}.valleys.json`;
+    assert.equal(await writeAtomically(fs, long, 'x', null), 'written');
+    // 255 bytes is the usual limit of one file name (common practice: ext4, APFS, NTFS).
+    assert.ok(seen[0]!.split('/').pop()!.length < 32);
   });
 });

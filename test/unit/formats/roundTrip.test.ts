@@ -145,7 +145,7 @@ describe('round trips through every layout (model → file → reader → analys
     assert.equal(bad, 2);
     const missing = await main(['analyze', join(dir, 'bands.out'), '--structure', join(root, 'no-such.POSCAR')], io);
     assert.equal(missing, 2);
-    assert.match(io.stderr, /--structure: cannot read .*no-such\.POSCAR/);
+    assert.match(io.stderr, /--structure: .*no-such\.POSCAR could not be read: there is no such file/);
     // A pw.x data file as --structure gives the cell and alat: the bands' k-points land on the model's.
     const xml = join(root, 'structure-source.xml');
     writeFileSync(xml, writeQeXml(model, { alat }));

@@ -18,6 +18,7 @@ import { basename } from '../../io/fileAccessor';
 import type { FormatReader, ReadOptions } from '../types';
 import { sha256Hex } from '../../hash';
 import { CancelledError, ReaderError } from '../../errors';
+import { checkAnnouncedCount } from '../announcedCount';
 import { TextScanner, decodeText } from '../textScanner';
 import { detectQeXml, readQeXml, type QeXmlData } from './qeXml';
 import { det3, norm } from '../../lattice/linalg';
@@ -47,6 +48,8 @@ export function readBandsx(file: InputFile, options: ReadOptions = {}): BandsxDa
   const nkAnnounced = Number(m[2]);
   if (!Number.isInteger(nBands) || nBands <= 0) throw sc.error(`nbnd should be a positive whole number, found "${m[1]}"`, headerLine, 1);
   if (!Number.isInteger(nkAnnounced) || nkAnnounced <= 0) throw sc.error(`nks should be a positive whole number, found "${m[2]}"`, headerLine, 1);
+  // Before allocating: one k-point's energies (two bytes each at least) must fit in the file.
+  checkAnnouncedCount(sc, nBands, 2, 'bands (nbnd)', headerLine);
   const remaining = file.bytes.length - sc.pos;
   // Each k-point needs at least 3 + nbnd numbers of two bytes: refuse counts the file cannot hold.
   const maxK = Math.min(nkAnnounced, Math.floor(remaining / (2 * (3 + nBands))) + 1);

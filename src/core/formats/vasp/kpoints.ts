@@ -19,9 +19,25 @@ export interface LineModePath {
 
 export type KpointsContent = { mode: 'line'; path: LineModePath } | { mode: 'other'; description: string };
 
+/** Largest |coordinate| of a path end accepted (fractional or 2π/scale units); see kpointSanity.ts. */
+const MAX_PATH_COORDINATE = 1000;
+
+/** Bytes that never occur in a text KPOINTS: NUL and the C0 controls other than tab, newline, CR, form feed. */
+function binaryAt(bytes: Uint8Array): number {
+  const n = Math.min(bytes.length, 4096);
+  for (let i = 0; i < n; i++) {
+    const b = bytes[i]!;
+    if (b < 32 && b !== 9 && b !== 10 && b !== 12 && b !== 13) return i;
+  }
+  return -1;
+}
+
 export function readKpoints(file: InputFile): KpointsContent {
   const sc = new TextScanner(file.bytes, file.path, KPOINTS_FORMAT);
   if (sc.atEnd()) throw sc.error('the k-points file is empty');
+  if (binaryAt(file.bytes) >= 0) {
+    throw sc.error('KPOINTS is not a text file (it holds binary bytes): the k-point layout could not be read, so the run is treated as having no KPOINTS', 0, 0);
+  }
   sc.restOfLine();
   const nLine = sc.line;
   const n = sc.tryNumberAfterSpaces();
@@ -29,9 +45,12 @@ export function readKpoints(file: InputFile): KpointsContent {
   const modeLine = sc.line;
   const mode = sc.restOfLine().trim();
   if (!/^[lL]/.test(mode)) {
+    if (n === null || !Number.isSafeInteger(n) || n < 0) {
+      throw sc.error('line 2 of KPOINTS should hold the number of k-points (0 for an automatic mesh): the k-point layout could not be read', nLine, 1);
+    }
     return { mode: 'other', description: n === 0 ? 'an automatic k-point mesh' : 'an explicit list of k-points' };
   }
-  if (n === null || !Number.isInteger(n) || n < 2) {
+  if (n === null || !Number.isSafeInteger(n) || n < 2) {
     throw sc.error('line mode needs the number of points per segment (2 or more) on line 2', nLine, 1);
   }
   const coordText = sc.restOfLine().trim();
@@ -45,6 +64,7 @@ export function readKpoints(file: InputFile): KpointsContent {
     if (sc.atEnd()) break;
     const line = sc.line;
     const k: Vec3 = [sc.number('a path end k-point (1st)'), sc.number('a path end k-point (2nd)'), sc.number('a path end k-point (3rd)')];
+    if (k.some((x) => Math.abs(x) > MAX_PATH_COORDINATE)) throw sc.error(`a path end has a coordinate beyond ±${MAX_PATH_COORDINATE}: not a k-point of a calculation`, line, 1);
     let rest = sc.restOfLine().trim();
     if (rest.startsWith('!')) rest = rest.slice(1).trim();
     // A weight column may precede the label in some hand-written files.

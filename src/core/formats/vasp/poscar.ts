@@ -7,6 +7,12 @@ import type { Mat3, Structure, Vec3 } from '../../model';
 import type { InputFile } from '../../io/fileAccessor';
 import { TextScanner } from '../textScanner';
 import { det3, mat3Inverse, mulVecMat } from '../../lattice/linalg';
+import { checkAnnouncedCount } from '../announcedCount';
+
+/** Largest cell edge accepted, Å: far beyond any periodic calculation (common practice: cells of 1–100 Å). */
+const MAX_CELL_EDGE_ANGSTROM = 1e4;
+/** Bytes of the shortest position line, "0 0 0" and a newline. */
+const MIN_POSITION_LINE_BYTES = 6;
 
 export const POSCAR_FORMAT = 'vasp-poscar';
 
@@ -51,6 +57,9 @@ export function readPoscarWithScale(file: InputFile): { structure: Structure; sc
     if (scales.some((x) => x <= 0)) throw sc.error('per-axis scaling factors must be positive', scaleLine, 1);
     lattice = raw.map((r) => r.map((x, j) => x * scales[j]!)) as Mat3;
   }
+  if (!lattice.every((r) => r.every((x) => Number.isFinite(x) && Math.abs(x) <= MAX_CELL_EDGE_ANGSTROM))) {
+    throw sc.error(`a lattice vector component (after scaling) is not finite or larger than ${MAX_CELL_EDGE_ANGSTROM} Å: not the cell of a calculation`, scaleLine + 1, 1);
+  }
   if (Math.abs(det3(lattice)) < 1e-8) throw sc.error('the lattice vectors are linearly dependent (zero cell volume)', scaleLine + 1, 1);
 
   // Species line (VASP 5+) or counts directly (VASP 4).
@@ -67,7 +76,12 @@ export function readPoscarWithScale(file: InputFile): { structure: Structure; sc
     sc.nextLine();
   }
   const counts: number[] = [];
-  while (!sc.atEol()) counts.push(sc.integer('the number of atoms of a species'));
+  const countsLine = sc.line;
+  while (!sc.atEol()) {
+    const c = sc.integer('the number of atoms of a species');
+    if (c < 0) throw sc.error(`a species has ${c} atoms; counts cannot be negative`, countsLine, 0);
+    counts.push(c);
+  }
   if (counts.length === 0) throw sc.error('expected the numbers of atoms per species');
   if (names && names.length !== counts.length) {
     throw sc.error(`the species line names ${names.length} species but ${counts.length} atom counts follow`, speciesLine, 1);
@@ -88,6 +102,9 @@ export function readPoscarWithScale(file: InputFile): { structure: Structure; sc
   if (!cartesian && !/^[dD]/.test(mode)) throw sc.error(`expected "Direct" or "Cartesian", found "${mode}"`);
   sc.nextLine();
   const nAtoms = counts.reduce((a, b) => a + b, 0);
+  if (nAtoms === 0) throw sc.error('the atom counts add up to zero: the structure has no atoms', countsLine, 0);
+  // Before allocating: the positions that follow must be able to hold that many atoms.
+  checkAnnouncedCount(sc, nAtoms, MIN_POSITION_LINE_BYTES, 'atoms', countsLine);
   const positions = new Float64Array(nAtoms * 3);
   const species: string[] = [];
   counts.forEach((c, i) => {
@@ -101,6 +118,7 @@ export function readPoscarWithScale(file: InputFile): { structure: Structure; sc
       sc.number(`position of atom ${a + 1} (2nd coordinate)`),
       sc.number(`position of atom ${a + 1} (3rd coordinate)`),
     ];
+    if (!p.every((x) => Math.abs(x) <= MAX_CELL_EDGE_ANGSTROM)) throw sc.error(`the position of atom ${a + 1} is larger than ${MAX_CELL_EDGE_ANGSTROM}: not a position in a cell`);
     let f = p;
     if (inv) f = mulVecMat([p[0] * lengthScale, p[1] * lengthScale, p[2] * lengthScale], inv);
     positions.set(f, 3 * a);
