@@ -248,12 +248,14 @@ describe('in a real VS Code, trusted workspace', function () {
     );
     await view.locator('.vs-save').click();
     await waitFor(
-      async () => ((await view.locator('.vs-status').innerText()).match(/Saved|Not saved/) ? true : undefined),
+      async () => ((await view.locator('.vs-status').innerText()).match(/Saved|Merged|Not saved/) ? true : undefined),
       'the band view did not report the save',
       30_000,
     );
     await s.screenshot('merge-after-view-save');
-    assert.match(await view.locator('.vs-status').innerText(), /Saved/, 'the band view reports a successful save');
+    // The host's sentence: "Saved N entries to …" (written) or "Merged N entries into the open editor …" (left in
+    // the edited buffer for the user's save).
+    assert.match(await view.locator('.vs-status').innerText(), /^(Saved|Merged) \d+ entr(y|ies)/, 'the band view reports a successful save');
     // The merge went through the open editor: either the merged buffer was saved by the extension (the
     // editor is clean again) or it waits in the editor for the user's save. Either way the hand edit must be
     // in what reaches the disk.
