@@ -46,18 +46,26 @@ function extremumBlock(e: ExtremumReport): string[] {
 export function summaryText(r: Report): string {
   const out: string[] = [];
   out.push(`${r.file}`);
-  out.push(`  ${r.format}: ${r.nk} k-points, ${r.nbands} bands, ${r.nspin === 2 ? 'spin-polarised' : 'spin-degenerate'}${r.electrons !== null ? `, ${r.electrons} electrons` : ''}`);
-  if (r.metal) out.push('  Metal: a band crosses the Fermi level, there is no gap.');
-  else if (r.gap) {
+  const spinState = r.spinors ? 'spinors (noncollinear: one electron per band)' : r.nspin === 2 ? 'spin-polarised' : 'spin-degenerate';
+  out.push(`  ${r.format}: ${r.nk} k-points, ${r.nbands} bands, ${spinState}${r.electrons !== null ? `, ${r.electrons} electrons` : ''}`);
+  if (r.metal) {
+    const crossing = r.crossingBands?.length ? `; crossing it: band${r.crossingBands.length > 1 ? 's' : ''} ${r.crossingBands.join(', ')}` : '';
+    out.push(`  ${r.semimetal ? 'Semimetal' : 'Metal'}: no gap. Fermi level ${r.fermi_eV !== null ? `${fmt(r.fermi_eV, 4)} eV` : 'unknown'}${crossing}.`);
+    if (r.classificationReason) out.push(`    ${r.classificationReason}`);
+  } else if (r.gap) {
     const g = r.gap;
     out.push(`  Band gap ${fmt(g.eV, 4)} eV, ${g.direct ? 'direct' : 'indirect'}`);
     out.push(`    VBM: ${describePoint(g.vbm)}`);
     out.push(`    CBM: ${describePoint(g.cbm)}`);
     out.push(`    smallest direct gap ${fmt(g.directGap.eV, 4)} eV at ${formatK(g.directGap.k)}`);
+    if (r.classificationReason) out.push(`    ${r.classificationReason}`);
   } else if (r.metal === null) out.push('  Band edges unknown (no occupations, electron count or Fermi energy).');
+  else if (r.gapReason) out.push(`  No gap: ${r.gapReason}`);
   if (r.spinGaps) {
     r.spinGaps.forEach((g, s) => {
-      out.push(`  spin ${s === 0 ? 'up' : 'down'}: ${g ? `gap ${fmt(g.eV, 4)} eV, ${g.direct ? 'direct' : 'indirect'}` : 'no gap (metallic channel)'}`);
+      const ch = r.spinChannels?.[s];
+      const what = g ? `gap ${fmt(g.eV, 4)} eV, ${g.direct ? 'direct' : 'indirect'}` : ch?.metal ? `no gap (${ch.semimetal ? 'semimetallic' : 'metallic'} channel${ch.crossingBands.length ? `; band${ch.crossingBands.length > 1 ? 's' : ''} ${ch.crossingBands.join(', ')} cross the Fermi level` : ''})` : r.gapReason ? 'no gap (local run)' : 'no gap';
+      out.push(`  spin ${s === 0 ? 'up' : 'down'}: ${what}`);
     });
   }
   if (r.extrema.length) {
