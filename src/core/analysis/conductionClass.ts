@@ -222,6 +222,8 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
         if ((above && below) || partial) crossing.push(b);
       }
       const metal = crossing.length > 0;
+      // Bands only smeared at E_F (partly filled everywhere sampled) lie near it; the crossing ones straddle it.
+      if (straddling.length > 0) crossing.splice(0, crossing.length, ...straddling);
       let reason: string;
       if (!metal) reason = 'The occupations fill every band either completely or not at all at each k-point: no band crosses the Fermi level.';
       else if (straddling.length > 0) reason = `The occupations show ${bandList(straddling)} filled at some k-points and empty at others: ${straddling.length === 1 ? 'it crosses' : 'they cross'} the Fermi level.`;
