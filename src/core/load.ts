@@ -18,16 +18,34 @@ export interface LoadOptions extends ReadOptions {
   maxBytes?: number;
 }
 
+export interface OtherCandidate {
+  /** Name relative to the run folder. */
+  name: string;
+  /** Layout label. */
+  label: string;
+  /** Byte-identical to the file read (pw.x writes <prefix>.xml and <prefix>.save/data-file-schema.xml alike). */
+  identical: boolean;
+}
+
 export interface RunLocation {
   /** The eigenvalue file. */
   file: string;
   reader: FormatReader;
+  /** Other files of the folder that hold eigenvalues too (none when a file was given). */
+  others?: OtherCandidate[];
 }
 
 /** Files never worth opening when looking for eigenvalues in a run folder. */
 const SKIP = /^(WAVECAR|CHGCAR|CHG|WAVEDER|PROCAR|DOSCAR|LOCPOT|ELFCAR|AECCAR\d|vaspout\.h5|.*\.valleys\.json|.*\.(wfc\d*|save|hdf5|h5|npy|png|svg|pdf|gz|xz|zip|tar))$/i;
 
-/** Find the eigenvalue file in a folder (by content), or confirm a file's format. */
+/**
+ * Find the eigenvalue file in a folder (by content), or confirm a file's format.
+ *
+ * A folder is searched for every layout Valleyscope reads: its own files and, one level down, the pw.x data
+ * file `<prefix>.save/data-file-schema.xml`. When several files qualify, the rule is: the file whose content
+ * is recognised most surely; among equals, files in the folder before those inside `*.save/`, then by name.
+ * The others are named in a notice (RunLocation.others), identical copies said to be so.
+ */
 export async function locateRun(fs: FileAccessor, path: string): Promise<RunLocation> {
   const st = await fs.stat(path);
   if (!st) throw new ValleyscopeError(`${path}: no such file or folder`);
@@ -36,18 +54,48 @@ export async function locateRun(fs: FileAccessor, path: string): Promise<RunLoca
     const head = await fs.readHead(path, DETECT_HEAD_BYTES);
     const d = detectFormat(head, basename(path));
     if (!d) throw new ValleyscopeError(`${path}: not an eigenvalue file of a layout Valleyscope reads (${READERS.map((r) => r.label).join(', ')})`);
-    return { file: path, reader: d.reader };
+    return { file: path, reader: d.reader, others: [] };
   }
-  const entries = (await fs.list(path)).filter((e) => e.type === 'file' && !SKIP.test(e.name));
-  let best: { file: string; reader: FormatReader; confidence: number } | null = null;
-  for (const e of entries.sort((a, b) => a.name.localeCompare(b.name))) {
-    const file = joinPath(path, e.name);
-    const head = await fs.readHead(file, DETECT_HEAD_BYTES);
-    const d = detectFormat(head, e.name);
-    if (d && (!best || d.confidence > best.confidence)) best = { file, reader: d.reader, confidence: d.confidence };
+  const listing = await fs.list(path);
+  const names: { file: string; name: string; depth: number }[] = listing
+    .filter((e) => e.type === 'file' && !SKIP.test(e.name))
+    .map((e) => ({ file: joinPath(path, e.name), name: e.name, depth: 0 }));
+  for (const d of listing.filter((e) => e.type === 'directory' && /\.save$/i.test(e.name))) {
+    const inner = joinPath(joinPath(path, d.name), 'data-file-schema.xml');
+    const ist = await fs.stat(inner).catch(() => null);
+    if (ist && ist.type === 'file' && ist.size > 0) names.push({ file: inner, name: `${d.name}/data-file-schema.xml`, depth: 1 });
   }
-  if (!best) throw new ValleyscopeError(`${path}: no eigenvalue file found in this folder (looked for ${READERS.map((r) => r.label).join(', ')})`);
-  return { file: best.file, reader: best.reader };
+  const found: { file: string; name: string; depth: number; reader: FormatReader; confidence: number; head: Uint8Array }[] = [];
+  for (const e of names) {
+    const head = await fs.readHead(e.file, DETECT_HEAD_BYTES);
+    const d = detectFormat(head, basename(e.file));
+    if (d) found.push({ ...e, reader: d.reader, confidence: d.confidence, head });
+  }
+  if (found.length === 0) {
+    throw new ValleyscopeError(`${path}: no eigenvalue file found in this folder or in a <prefix>.save/ inside it (looked for ${READERS.map((r) => r.label).join(', ')})`);
+  }
+  found.sort((a, b) => b.confidence - a.confidence || a.depth - b.depth || a.name.localeCompare(b.name));
+  const best = found[0]!;
+  const others: OtherCandidate[] = [];
+  for (const o of found.slice(1)) {
+    let identical = false;
+    if (o.reader === best.reader) {
+      const [sa, sb] = await Promise.all([fs.stat(best.file), fs.stat(o.file)]);
+      if (sa && sb && sa.size === sb.size && sa.size <= STREAM_ABOVE_BYTES) {
+        const [ba, bb] = await Promise.all([fs.readFile(best.file), fs.readFile(o.file)]);
+        identical = ba.length === bb.length && ba.every((x, i) => x === bb[i]);
+      }
+    }
+    others.push({ name: o.name, label: o.reader.label, identical });
+  }
+  return { file: best.file, reader: best.reader, others };
+}
+
+/** A notice naming the other candidate files of a run folder, or null when there were none. */
+export function otherCandidatesNotice(loc: RunLocation): string | null {
+  if (!loc.others || loc.others.length === 0) return null;
+  const list = loc.others.map((o) => `${o.name} (${o.label}${o.identical ? ', an identical copy' : ''})`).join(', ');
+  return `The folder holds more than one eigenvalue file: ${basename(loc.file)} was read (recognised most surely, then files in the folder before those in <prefix>.save/, then by name); also found: ${list}. Give the file itself to read another one.`;
 }
 
 /** Read a run: the eigenvalue file plus the companions its reader wants from the same folder. */
@@ -69,13 +117,19 @@ export async function readLocated(fs: FileAccessor, loc: RunLocation, options: L
   if (loc.reader.streaming && fs.openRanged && st && st.size > STREAM_ABOVE_BYTES) {
     const stream = fs.openRanged(loc.file);
     try {
-      return await readFromBytes(loc.reader, { path: loc.file, bytes: new Uint8Array(0), stream }, companions, options);
+      return withCandidateNotice(await readFromBytes(loc.reader, { path: loc.file, bytes: new Uint8Array(0), stream }, companions, options), loc);
     } finally {
       stream.close();
     }
   }
   const main: InputFile = { path: loc.file, bytes: await fs.readFile(loc.file) };
-  return readFromBytes(loc.reader, main, companions, options);
+  return withCandidateNotice(await readFromBytes(loc.reader, main, companions, options), loc);
+}
+
+function withCandidateNotice(bs: BandStructure, loc: RunLocation): BandStructure {
+  const notice = otherCandidatesNotice(loc);
+  if (notice) bs.warnings.push({ code: 'other-candidates', message: notice });
+  return bs;
 }
 
 /**
@@ -84,7 +138,12 @@ export async function readLocated(fs: FileAccessor, loc: RunLocation, options: L
  */
 export async function readFromBytes(reader: FormatReader, main: InputFile, companions: InputFile[], options: ReadOptions = {}): Promise<BandStructure> {
   // Without a path file, label the high-symmetry points recognised from the lattice (with a warning).
-  return withInferredLabels(reader.read(main, companions, options));
+  const bs = reader.read(main, companions, options);
+  if (bs.electrons === null && options.electrons !== undefined && options.electrons > 0) {
+    bs.electrons = options.electrons;
+    bs.warnings.push({ code: 'electrons-given', message: `The run's files give no electron count: ${options.electrons} electrons were taken from the structure file given.` });
+  }
+  return withInferredLabels(bs);
 }
 
 export async function readCompanions(fs: FileAccessor, loc: RunLocation): Promise<InputFile[]> {
