@@ -139,10 +139,14 @@ function wholeBandsPerChannel(bs: BandStructure, occ: OccupationRule | null, spi
  * dips above E_F (hole pockets), band n below (electron pockets), and the two never touch.
  */
 function semimetalVerdict(bs: BandStructure, spin: number, crossing: number[], nFilled: number | null): { semimetal: boolean | null; detail: string } {
-  if (nFilled === null) return { semimetal: bs.electrons === null && bs.nSpin === 1 ? null : false, detail: '' };
+  // Two adjacent bands must cross; whether they hold whole bands' worth of electrons needs the count.
+  if (crossing.length !== 2 || crossing[1] !== crossing[0]! + 1) return { semimetal: false, detail: '' };
+  if (nFilled === null) {
+    return { semimetal: null, detail: ` Bands ${crossing[0]! + 1} and ${crossing[1]! + 1} both cross the Fermi level; without the electron count, whether this is a semimetal (whole bands filled, electron and hole pockets) cannot be told.` };
+  }
   const lower = nFilled - 1;
   const upper = nFilled;
-  if (crossing.length !== 2 || crossing[0] !== lower || crossing[1] !== upper || upper >= bs.nBands || lower < 0) return { semimetal: false, detail: '' };
+  if (crossing[0] !== lower || upper >= bs.nBands || lower < 0) return { semimetal: false, detail: '' };
   const e = bs.energies[spin]!;
   const nb = bs.nBands;
   let closest = Infinity;
