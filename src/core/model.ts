@@ -103,6 +103,11 @@ export interface BandStructure {
    * (or when the lattice is unknown). Null when distances are computed from k-points.
    */
   writtenDistance: Float64Array | null;
+  /**
+   * When the file holds bands numbered from N + 1 (e.g. a band grid of bands 3–6): N. Reports number bands
+   * from it; core arrays stay 0-based from the first band held.
+   */
+  bandNumberOffset?: number;
   /** True when the file ended early (a running job): what is here is complete only up to nk. */
   partial: boolean;
   warnings: InputWarning[];

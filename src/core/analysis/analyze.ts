@@ -96,5 +96,22 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
   }
   if (bs.partial) warnings.push('Partial data: the file is incomplete, so these results are provisional.');
   report.cautions = standardCautions(bs, report);
+  if (bs.bandNumberOffset) renumberBands(report, bs.bandNumberOffset);
   return report;
+}
+
+/** Number bands as the file does (a file holding bands 3–6 reports band 3 for its first). */
+function renumberBands(r: Report, offset: number): void {
+  const shift = (p: { band: number }): void => {
+    p.band += offset;
+  };
+  for (const g of [r.gap, ...(r.spinGaps ?? [])]) {
+    if (g) {
+      shift(g.vbm);
+      shift(g.cbm);
+    }
+  }
+  r.extrema.forEach(shift);
+  if (r.crossingBands) r.crossingBands = r.crossingBands.map((b) => b + offset);
+  for (const c of r.spinChannels ?? []) c.crossingBands = c.crossingBands.map((b) => b + offset);
 }

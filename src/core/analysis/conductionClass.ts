@@ -77,8 +77,10 @@ function kWeights(bs: BandStructure): Float64Array {
   return w;
 }
 
+/** Band numbering offset of the file (bands numbered from offset + 1 in everything the user sees). */
+let offset = 0;
 const bandList = (bands: number[]): string => {
-  const b = bands.map((x) => x + 1);
+  const b = bands.map((x) => x + 1 + offset);
   return b.length === 1 ? `band ${b[0]}` : `bands ${b.slice(0, -1).join(', ')} and ${b[b.length - 1]}`;
 };
 const eV = (x: number): string => `${x.toFixed(4)} eV`;
@@ -142,7 +144,7 @@ function semimetalVerdict(bs: BandStructure, spin: number, crossing: number[], n
   // Two adjacent bands must cross; whether they hold whole bands' worth of electrons needs the count.
   if (crossing.length !== 2 || crossing[1] !== crossing[0]! + 1) return { semimetal: false, detail: '' };
   if (nFilled === null) {
-    return { semimetal: null, detail: ` Bands ${crossing[0]! + 1} and ${crossing[1]! + 1} both cross the Fermi level; without the electron count, whether this is a semimetal (whole bands filled, electron and hole pockets) cannot be told.` };
+    return { semimetal: null, detail: ` Bands ${crossing[0]! + 1 + offset} and ${crossing[1]! + 1 + offset} both cross the Fermi level; without the electron count, whether this is a semimetal (whole bands filled, electron and hole pockets) cannot be told.` };
   }
   const lower = nFilled - 1;
   const upper = nFilled;
@@ -160,11 +162,11 @@ function semimetalVerdict(bs: BandStructure, spin: number, crossing: number[], n
     upperMin = Math.min(upperMin, c);
   }
   if (closest < DISTINCT_BANDS_EV) {
-    return { semimetal: false, detail: ` Bands ${lower + 1} and ${upper + 1} touch or cross (${(closest * 1000).toFixed(1)} meV apart at closest), so the overlap is not between distinct bands.` };
+    return { semimetal: false, detail: ` Bands ${lower + 1 + offset} and ${upper + 1 + offset} touch or cross (${(closest * 1000).toFixed(1)} meV apart at closest), so the overlap is not between distinct bands.` };
   }
   return {
     semimetal: true,
-    detail: ` Semimetal: band ${lower + 1} has hole pockets and band ${upper + 1} electron pockets; they overlap by ${eV(lowerMax - upperMin)} (a negative indirect gap of ${eV(upperMin - lowerMax)}).`,
+    detail: ` Semimetal: band ${lower + 1 + offset} has hole pockets and band ${upper + 1 + offset} electron pockets; they overlap by ${eV(lowerMax - upperMin)} (a negative indirect gap of ${eV(upperMin - lowerMax)}).`,
   };
 }
 
@@ -178,6 +180,7 @@ function occupationFractions(bs: BandStructure): Float64Array[] {
 }
 
 export function classifyConduction(bs: BandStructure, occ: OccupationRule | null): ConductionClass {
+  offset = bs.bandNumberOffset ?? 0;
   const warnings: string[] = [];
   const spins = Array.from({ length: bs.nSpin }, (_, s) => s);
   const ranges = spins.map((s) => bandRanges(bs, s));
@@ -266,7 +269,7 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
         metal: true,
         semimetal: false,
         crossing: crossing.length ? crossing : [band],
-        reason: `${bs.electrons} electrons ${spinWord} fill ${slots} bands: band ${band + 1} is partly filled.`,
+        reason: `${bs.electrons} electrons ${spinWord} fill ${slots} bands: band ${band + 1 + offset} is partly filled.`,
       });
     } else {
       evidence = 'edges';
