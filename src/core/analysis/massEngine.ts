@@ -9,6 +9,7 @@ import { kpointAt, labelAt } from '../model';
 import type { AnalysisSettings } from './analyze';
 import { bandEdges, type EdgeAnalysis } from './gap';
 import { occupationRule, type OccupationRule } from './occupation';
+import { classifyConduction } from './conductionClass';
 import { energySigma } from './energyResolution';
 import { degenerateGroup, gridNeighbours, locateExtrema, pathNeighbours, type ExtremumSite, type NeighbourFn } from './extrema';
 import { pathNetwork, kKey, type PathNetwork } from './pathRays';
@@ -319,10 +320,12 @@ export function fitExtremumAt(bs: BandStructure, spin: number, kIndex: number, b
   const group = degenerateGroup(bs, spin, k, band0, tol);
   const occ = occupationRule(bs);
   const edges = occ ? bandEdges(bs, occ) : null;
+  // A metal (by the classification's evidence: occupations, Fermi energy, count, band order) has no edges.
+  const metal = occ ? classifyConduction(bs, occ).metal !== false : true;
   let kind: ExtremumKind = maximum ? 'peak' : 'valley';
   let offset = 0;
   const key = kKey(kpointAt(bs, k));
-  if (edges && !edges.metal && edges.vbm && edges.cbm) {
+  if (edges && !metal && edges.vbm && edges.cbm) {
     const edge = maximum ? edges.vbm : edges.cbm;
     if (edge.spin === spin && Math.abs(edge.energy - energy) <= tol && kKey(kpointAt(bs, edge.k)) === key) kind = maximum ? 'vbm' : 'cbm';
     offset = maximum ? edges.vbm.energy - energy : energy - edges.cbm.energy;
