@@ -77,9 +77,8 @@ function kWeights(bs: BandStructure): Float64Array {
   return w;
 }
 
-/** Band numbering offset of the file (bands numbered from offset + 1 in everything the user sees). */
-let offset = 0;
-const bandList = (bands: number[]): string => {
+/** "band 3" / "bands 3 and 4", numbered as the user sees them (from offset + 1, offset = the file's numbering). */
+const bandList = (bands: number[], offset: number): string => {
   const b = bands.map((x) => x + 1 + offset);
   return b.length === 1 ? `band ${b[0]}` : `bands ${b.slice(0, -1).join(', ')} and ${b[b.length - 1]}`;
 };
@@ -141,6 +140,7 @@ function wholeBandsPerChannel(bs: BandStructure, occ: OccupationRule | null, spi
  * dips above E_F (hole pockets), band n below (electron pockets), and the two never touch.
  */
 function semimetalVerdict(bs: BandStructure, spin: number, crossing: number[], nFilled: number | null): { semimetal: boolean | null; detail: string } {
+  const offset = bs.bandNumberOffset ?? 0;
   // Two adjacent bands must cross; whether they hold whole bands' worth of electrons needs the count.
   if (crossing.length !== 2 || crossing[1] !== crossing[0]! + 1) return { semimetal: false, detail: '' };
   if (nFilled === null) {
@@ -180,7 +180,7 @@ function occupationFractions(bs: BandStructure): Float64Array[] {
 }
 
 export function classifyConduction(bs: BandStructure, occ: OccupationRule | null): ConductionClass {
-  offset = bs.bandNumberOffset ?? 0;
+  const offset = bs.bandNumberOffset ?? 0;
   const warnings: string[] = [];
   const spins = Array.from({ length: bs.nSpin }, (_, s) => s);
   const ranges = spins.map((s) => bandRanges(bs, s));
@@ -233,8 +233,8 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
       if (straddling.length > 0) crossing.splice(0, crossing.length, ...straddling);
       let reason: string;
       if (!metal) reason = 'The occupations fill every band either completely or not at all at each k-point: no band crosses the Fermi level.';
-      else if (straddling.length > 0) reason = `The occupations show ${bandList(straddling)} filled at some k-points and empty at others: ${straddling.length === 1 ? 'it crosses' : 'they cross'} the Fermi level.`;
-      else reason = `The occupations show ${bandList(crossing)} partly filled (occupation ${partlyFilled!.value.toFixed(2)} of a full state): states lie at the Fermi level.`;
+      else if (straddling.length > 0) reason = `The occupations show ${bandList(straddling, offset)} filled at some k-points and empty at others: ${straddling.length === 1 ? 'it crosses' : 'they cross'} the Fermi level.`;
+      else reason = `The occupations show ${bandList(crossing, offset)} partly filled (occupation ${partlyFilled!.value.toFixed(2)} of a full state): states lie at the Fermi level.`;
       per.push({ spin: s as 0 | 1, metal, semimetal: null, crossing, reason });
     }
     if (largestTail > 1e-4) {
@@ -250,7 +250,7 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
     for (const s of spins) {
       const crossing = crossingAt(s, written);
       const reason = crossing.length
-        ? `The ${source} the file writes (${eV(written)}) lies inside the energy range of ${bandList(crossing)}.`
+        ? `The ${source} the file writes (${eV(written)}) lies inside the energy range of ${bandList(crossing, offset)}.`
         : `The ${source} the file writes (${eV(written)}) lies outside the energy range of every band.`;
       per.push({ spin: s as 0 | 1, metal: crossing.length > 0, semimetal: null, crossing, reason });
     }

@@ -4,6 +4,7 @@
  */
 import assert from 'node:assert/strict';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
+import { fitExtremumAt } from '../../../src/core/analysis/massEngine';
 import { localRun } from '../../../src/core/analysis/localRun';
 import { kStencil } from '../../../src/core/lattice/stencil';
 import { buildAnnotations } from '../../../src/core/annotations/buildAnnotations';
@@ -52,5 +53,13 @@ describe('local runs', () => {
     assert.equal(doc.gap, null);
     assert.equal(doc.metal, true);
     assert.ok(!doc.entries.some((e) => e.kind === 'vbm' || e.kind === 'cbm'));
+  });
+
+  it('a fit clicked in a metal is a peak or a valley, never a band edge', () => {
+    const bs = smearedFreeElectronMetal('fermi-dirac', 0.1);
+    // Band 1 at Γ (k index 0) is the free-electron minimum (analytic model).
+    const e = fitExtremumAt(bs, 0, 0, 0, DEFAULT_SETTINGS);
+    assert.equal(e.kind, 'valley');
+    assert.equal(e.band, 1);
   });
 });

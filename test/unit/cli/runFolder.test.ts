@@ -163,6 +163,18 @@ describe('spinors and cautions', () => {
     assert.ok(!r.cautions.some((c) => caution.test(c)));
   });
 
+  it('pw.x two_fermi_energies (fixed magnetisation): the higher is the reference, said in a warning', async () => {
+    const sp = collinearModel();
+    sp.nSpin = 2;
+    sp.energies = [sp.energies[0]!, sp.energies[0]!.map((e) => e + 0.05)];
+    sp.occupations = null;
+    const bs = await loadRun(nodeFileAccessor, folder({ 'data-file-schema.xml': writeQeXml(sp, { twoFermi: [0.6, 0.65] }) }));
+    assert.equal(bs.fermiSource, 'two_fermi_energies');
+    assert.ok(Math.abs(bs.fermiEnergy! - 0.65) < 1e-9);
+    assert.ok(bs.warnings.some((w) => w.code === 'two-fermi'));
+    assert.equal(analyzeBandStructure(bs).metal, false); // both levels lie in the 1.2 eV gap (analytic model)
+  });
+
   it('metals get the metal caution instead of gap cautions', () => {
     const bs = collinearModel();
     bs.occupations = null;
