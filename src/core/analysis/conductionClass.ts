@@ -237,7 +237,7 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
       else reason = `The occupations show ${bandList(crossing, offset)} partly filled (occupation ${partlyFilled!.value.toFixed(2)} of a full state): states lie at the Fermi level.`;
       per.push({ spin: s as 0 | 1, metal, semimetal: null, crossing, reason });
     }
-    if (largestTail > 1e-4) {
+    if (largestTail > 1e-4 && !per.some((v) => v.metal)) {
       warnings.push(`Smearing tails reach ${largestTail.toExponential(1)} of a full state: partly filled states below ${TAIL_LIMIT} were read as tails, not as a metal.`);
     }
     if (fermi === null && Number.isFinite(maxFilled) && Number.isFinite(minEmpty)) {
