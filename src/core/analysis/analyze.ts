@@ -9,7 +9,7 @@ import { bandEdges, gapReport } from './gap';
 import { standardCautions } from './cautions';
 import { classifyConduction } from './conductionClass';
 import { localRun } from './localRun';
-import { analyseExtrema } from './massEngine';
+import { analyseExtrema, analysePocketExtrema } from './massEngine';
 
 export interface AnalysisSettings {
   /** Energy window of the parabola fit, meV. */
@@ -84,6 +84,10 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
     }
     const local = gap ? localRun(bs) : null;
     if (gap) analyseExtrema(bs, report, s, { occ, edges });
+    else if (metal && cls.fermi_eV !== null) {
+      const crossing = cls.spins.flatMap((v) => v.crossing.map((band) => ({ spin: v.spin, band })));
+      analysePocketExtrema(bs, report, s, crossing, cls.fermi_eV);
+    }
     if (local) {
       // The patch's own edges are not the crystal's: keep only the extremum at its centre.
       const centreK = kpointAt(bs, local.centre);

@@ -273,6 +273,38 @@ export function analyseExtrema(bs: BandStructure, report: Report, settings: Anal
   report.extrema = sites.map((s) => characterise(ctx, s, settings));
 }
 
+/**
+ * A metal's pockets near the Fermi level: the top of each crossing band that rises above E_F (a hole pocket)
+ * and the bottom of each that dips below it (an electron pocket), within `range_eV` of E_F, characterised like
+ * band edges (kind 'peak' / 'valley', offset measured from E_F).
+ */
+export function analysePocketExtrema(bs: BandStructure, report: Report, settings: AnalysisSettings, crossing: { spin: 0 | 1; band: number }[], fermi: number): void {
+  const ctx = engineContext(bs);
+  const tol = settings.degeneracy_meV / 1000;
+  const nb = bs.nBands;
+  const sites: ExtremumSite[] = [];
+  for (const c of crossing) {
+    const e = bs.energies[c.spin]!;
+    let kMax = 0;
+    let kMin = 0;
+    for (let k = 1; k < bs.nk; k++) {
+      if (e[k * nb + c.band]! > e[kMax * nb + c.band]!) kMax = k;
+      if (e[k * nb + c.band]! < e[kMin * nb + c.band]!) kMin = k;
+    }
+    const top = e[kMax * nb + c.band]!;
+    const bottom = e[kMin * nb + c.band]!;
+    if (top > fermi && top - fermi <= settings.range_eV) {
+      const group = degenerateGroup(bs, c.spin, kMax, c.band, tol);
+      sites.push({ spin: c.spin, k: kMax, band: group[group.length - 1]!, energy: top, kind: 'peak', offset: top - fermi, group, warnings: ['Top of a hole pocket: the offset is measured from the Fermi level.'] });
+    }
+    if (bottom < fermi && fermi - bottom <= settings.range_eV) {
+      const group = degenerateGroup(bs, c.spin, kMin, c.band, tol);
+      sites.push({ spin: c.spin, k: kMin, band: group[0]!, energy: bottom, kind: 'valley', offset: fermi - bottom, group, warnings: ['Bottom of an electron pocket: the offset is measured from the Fermi level.'] });
+    }
+  }
+  report.extrema = sites.map((site) => characterise(ctx, site, settings));
+}
+
 // ---------------------------------------------------------------------------------------------------------
 // The editor's entry points.
 

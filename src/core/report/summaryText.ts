@@ -21,10 +21,10 @@ function massLine(m: MassFit, atMaximum: boolean): string {
   return `      towards ${m.towards}${branch}: m* = ${fmt(m.mass, 3)} ± ${fmt(m.stderr, 3)} m_e${hole}${alpha}  [${m.method}, ${m.points} points, ${fmt(m.window_meV, 0)} meV window]`;
 }
 
-function extremumBlock(e: ExtremumReport): string[] {
+function extremumBlock(e: ExtremumReport, metal = false): string[] {
   const lines: string[] = [];
-  const what = { vbm: 'VBM', cbm: 'CBM', valley: 'conduction valley', peak: 'valence peak' }[e.kind];
-  const off = e.kind === 'vbm' || e.kind === 'cbm' ? '' : ` (${fmt(e.offset_eV * 1000, 0)} meV from the edge)`;
+  const what = metal ? { vbm: 'VBM', cbm: 'CBM', valley: 'electron pocket bottom', peak: 'hole pocket top' }[e.kind] : { vbm: 'VBM', cbm: 'CBM', valley: 'conduction valley', peak: 'valence peak' }[e.kind];
+  const off = e.kind === 'vbm' || e.kind === 'cbm' ? '' : ` (${fmt(e.offset_eV * 1000, 0)} meV from the ${metal ? 'Fermi level' : 'edge'})`;
   lines.push(`  ${what}${off}: ${describePoint(e)}`);
   if (e.degenerateBands > 1) lines.push(`    ${e.degenerateBands} degenerate bands at this point`);
   if (e.valleyDegeneracy !== null) lines.push(`    valley degeneracy N_v = ${e.valleyDegeneracy}`);
@@ -70,7 +70,7 @@ export function summaryText(r: Report): string {
   }
   if (r.extrema.length) {
     out.push('  Extrema:');
-    for (const e of r.extrema) out.push(...extremumBlock(e));
+    for (const e of r.extrema) out.push(...extremumBlock(e, r.metal === true));
   }
   if (r.warnings.length) {
     out.push('  Warnings:');

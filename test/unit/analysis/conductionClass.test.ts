@@ -11,6 +11,7 @@ import { FERMI_INSIDE_TOLERANCE_EV } from '../../../src/core/analysis/conduction
 import { reportToJson } from '../../../src/core/report/reportJson';
 import { summaryText } from '../../../src/core/report/summaryText';
 import { makeBands } from '../../support/bandStructure';
+import { HBAR2_OVER_ME_EV_A2 } from '../../../src/core/units';
 import {
   FE_A,
   SEMIMETAL_OVERLAP_EV,
@@ -146,6 +147,30 @@ describe('metal, semimetal or insulator', () => {
     assert.equal(j.metal, false);
     assert.match(summaryText(analyzeBandStructure(spinOrbitModel())), /spinors \(noncollinear: one electron per band\)/);
     assert.doesNotMatch(summaryText(analyzeBandStructure(spinOrbitModel())), /spin-degenerate/);
+  });
+
+  it("a metal's pockets near E_F are characterised: free-electron band bottom m* = 1, semimetal pockets ħ²/(2|t|a²)", () => {
+    // Free electron (Ashcroft & Mermin ch. 2): E = ħ²k²/2m exactly, so m* = 1 m_e at Γ, 2.28 eV below E_F.
+    const fe = analyzeBandStructure(smearedFreeElectronMetal('gaussian', 0.1), { range_eV: 3 });
+    const bottom = fe.extrema.find((e) => e.kind === 'valley' && e.label === 'Γ');
+    assert.ok(bottom && bottom.masses.length > 0, JSON.stringify(fe.extrema.map((e) => [e.kind, e.label])));
+    for (const m of bottom.masses) assert.ok(Math.abs(m.mass - 1) < 1e-3, String(m.mass));
+    assert.ok(Math.abs(bottom.offset_eV - freeElectronFermi(1, FE_A)) < 1e-9); // measured from E_F
+    // Default range 0.5 eV: the band bottom, 2.28 eV below E_F, is not listed.
+    assert.ok(!analyzeBandStructure(smearedFreeElectronMetal('gaussian', 0.1)).extrema.some((e) => e.label === 'Γ' && e.kind === 'valley'));
+    // Semimetal pockets (cosine bands, analytic mass ħ²/(2|t|a²), t = 0.3 and 0.4 eV, a = 4 Å); a 25 meV
+    // parabola window on a cosine band reads up to a few % heavy (quartic term), hence 3 %.
+    const sm = analyzeBandStructure(twoBandSemimetal());
+    const hole = sm.extrema.find((e) => e.kind === 'peak');
+    const electron = sm.extrema.find((e) => e.kind === 'valley');
+    assert.ok(hole && electron);
+    assert.equal(hole.band, 2);
+    assert.equal(electron.band, 3);
+    const mh = HBAR2_OVER_ME_EV_A2 / (2 * 0.3 * FE_A * FE_A);
+    const me = HBAR2_OVER_ME_EV_A2 / (2 * 0.4 * FE_A * FE_A);
+    for (const m of hole.masses) assert.ok(Math.abs(-m.mass - mh) / mh < 0.03, String(m.mass));
+    for (const m of electron.masses) assert.ok(Math.abs(m.mass - me) / me < 0.03, String(m.mass));
+    assert.match(summaryText(sm), /hole pocket top \(100 meV from the Fermi level\)/);
   });
 
   it('property: with a written Fermi level, metal exactly when it lies inside some band (analytic truth)', () => {
