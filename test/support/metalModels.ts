@@ -100,12 +100,15 @@ export function twoBandSemimetal(): BandStructure {
 
 /**
  * A spin-polarised half-metal: spin up is the free-electron metal with its Fermi level (band 1 crosses it);
- * spin down has the same bands raised by 6 eV, so all of them lie above that Fermi level (empty, gapped).
+ * spin down has band 1 lowered by 6 eV (wholly below that level: its top, at R, is ħ²·3(π/a)²/2m − 6 eV
+ * ≈ 1.05 eV) and the other bands raised by 6 eV (wholly above: their bottom, at X, is ħ²(π/a)²/2m + 6 eV
+ * ≈ 8.35 eV), so spin down has a gap around E_F.
  */
 export function halfMetal(): BandStructure {
   const bs = freeElectronMetal();
   const up = bs.energies[0]!;
-  const down = Float64Array.from(up, (x) => x + 6);
+  const nb = bs.nBands;
+  const down = Float64Array.from(up, (x, i) => (i % nb === 0 ? x - 6 : x + 6));
   bs.nSpin = 2;
   bs.energies = [up, down];
   bs.occupations = smearedOccupations(bs, 'fermi-dirac', bs.fermiEnergy!, 0.05);

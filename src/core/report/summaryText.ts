@@ -64,7 +64,7 @@ export function summaryText(r: Report): string {
   if (r.spinGaps) {
     r.spinGaps.forEach((g, s) => {
       const ch = r.spinChannels?.[s];
-      const what = g ? `gap ${fmt(g.eV, 4)} eV, ${g.direct ? 'direct' : 'indirect'}` : ch?.metal ? `no gap (${ch.semimetal ? 'semimetallic' : 'metallic'} channel${ch.crossingBands.length ? `; band${ch.crossingBands.length > 1 ? 's' : ''} ${ch.crossingBands.join(', ')} cross the Fermi level` : ''})` : r.gapReason ? 'no gap (local run)' : 'no gap';
+      const what = g ? `gap ${fmt(g.eV, 4)} eV, ${g.direct ? 'direct' : 'indirect'}` : ch?.metal ? `no gap (${ch.semimetal ? 'semimetallic' : 'metallic'} channel${ch.crossingBands.length ? `; band${ch.crossingBands.length > 1 ? 's' : ''} ${ch.crossingBands.join(', ')} ${ch.crossingBands.length > 1 ? 'cross' : 'crosses'} the Fermi level` : ''})` : r.gapReason ? 'no gap (local run)' : 'no gap';
       out.push(`  spin ${s === 0 ? 'up' : 'down'}: ${what}`);
     });
   }

@@ -120,6 +120,10 @@ describe('metal, semimetal or insulator', () => {
     assert.equal(r.spinChannels[0]!.metal, true);
     assert.equal(r.spinChannels[1]!.metal, false);
     assert.match(r.classificationReason, /half-metal/);
+    // Spin down's gap: band 2 bottom at X minus band 1 top at R, (ħ²/2m)(π/a)²(1 − 3) + 12 eV (the model above).
+    const unit = (HBAR2_OVER_ME_EV_A2 / 2) * (Math.PI / FE_A) ** 2;
+    assert.equal(r.spinGaps?.[0], null);
+    assert.ok(r.spinGaps?.[1] && Math.abs(r.spinGaps[1].eV - (12 - 2 * unit)) < 1e-9, String(r.spinGaps?.[1]?.eV));
     const j = reportToJson(r) as { spinChannels: { metal: boolean; semimetal: boolean; fermi_eV: number; classificationReason: string }[] };
     assert.deepEqual(j.spinChannels.map((c) => c.metal), [true, false]);
     assert.ok(j.spinChannels.every((c) => typeof c.classificationReason === 'string' && 'fermi_eV' in c && 'semimetal' in c));
