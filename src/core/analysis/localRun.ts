@@ -7,7 +7,7 @@ import type { BandStructure, Vec3 } from '../model';
 import { reciprocalLattice } from '../lattice/reciprocal';
 
 /** A run whose k-points all lie within this fraction of the shortest reciprocal vector of their centre is local. */
-export const LOCAL_RUN_FRACTION = 0.15;
+export const LOCAL_RUN_FRACTION = 0.2;
 
 export interface LocalRun {
   /** 0-based index of the k-point nearest the centre of the sampled patch. */
