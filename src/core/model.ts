@@ -92,6 +92,8 @@ export interface BandStructure {
   spinorbit: boolean;
   /** How the energies were computed (functional family), when the files say. */
   method?: ElectronicMethod;
+  /** One Fermi energy per spin channel (eV), when the file writes two (fixed spin moment); fermiEnergy is the higher. */
+  fermiEnergies?: [number, number];
   /** Where the written Fermi energy came from, when the layout says (e.g. 'fermi_energy', 'highestOccupiedLevel'). */
   fermiSource?: string;
   labels: KLabel[];

@@ -61,7 +61,7 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
       spin: v.spin,
       metal: v.metal,
       semimetal: v.semimetal,
-      fermi_eV: cls.fermi_eV,
+      fermi_eV: bs.fermiEnergies?.[v.spin] ?? cls.fermi_eV,
       classificationReason: v.reason,
       crossingBands: v.crossing.map((b) => b + 1),
     }));

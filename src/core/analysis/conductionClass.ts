@@ -246,12 +246,14 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
     }
   } else if (written !== null) {
     evidence = 'fermi';
-    const source = bs.fermiSource === 'highestOccupiedLevel' ? 'highest occupied level' : 'Fermi energy';
+    const perChannel = bs.nSpin === 2 && bs.fermiEnergies ? bs.fermiEnergies : null;
+    const source = bs.fermiSource === 'highestOccupiedLevel' ? 'highest occupied level' : perChannel ? "channel's Fermi energy" : 'Fermi energy';
     for (const s of spins) {
-      const crossing = crossingAt(s, written);
+      const ef = perChannel ? perChannel[s]! : written;
+      const crossing = crossingAt(s, ef);
       const reason = crossing.length
-        ? `The ${source} the file writes (${eV(written)}) lies inside the energy range of ${bandList(crossing, offset)}.`
-        : `The ${source} the file writes (${eV(written)}) lies outside the energy range of every band.`;
+        ? `The ${source} the file writes (${eV(ef)}) lies inside the energy range of ${bandList(crossing, offset)}.`
+        : `The ${source} the file writes (${eV(ef)}) lies outside the energy range of every band.`;
       per.push({ spin: s as 0 | 1, metal: crossing.length > 0, semimetal: null, crossing, reason });
     }
   } else if (bs.electrons !== null && bs.electrons > 0 && occ) {

@@ -175,6 +175,20 @@ describe('spinors and cautions', () => {
     assert.equal(analyzeBandStructure(bs).metal, false); // both levels lie in the 1.2 eV gap (analytic model)
   });
 
+  it('two Fermi energies: each channel is classified at its own (a half-metal under a fixed spin moment)', async () => {
+    // Spin up: the model lowered by 1 eV (conduction band from 0.2 eV), its Fermi energy 1.5 eV inside it;
+    // spin down: the model as is (gap 0 … 1.2 eV, analytic), its Fermi energy 0.6 eV in the gap. The higher
+    // level (1.5 eV) lies inside spin down's conduction band: one shared level would call it metallic too.
+    const sp = collinearModel();
+    sp.nSpin = 2;
+    sp.energies = [sp.energies[0]!.map((e) => e - 1), sp.energies[0]!];
+    sp.occupations = null;
+    const r = analyzeBandStructure(await loadRun(nodeFileAccessor, folder({ 'data-file-schema.xml': writeQeXml(sp, { twoFermi: [1.5, 0.6] }) })));
+    assert.equal(r.metal, true);
+    assert.deepEqual(r.spinChannels?.map((c) => c.metal), [true, false]);
+    assert.deepEqual(r.spinChannels?.map((c) => Number(c.fermi_eV?.toFixed(6))), [1.5, 0.6]);
+  });
+
   it('metals get the metal caution instead of gap cautions', () => {
     const bs = collinearModel();
     bs.occupations = null;

@@ -68,6 +68,8 @@ export interface QeXmlData {
   fermiEnergy: number | null;
   /** How the energy reference was given: 'fermi_energy', 'highestOccupiedLevel', 'two_fermi_energies', or null. */
   fermiSource: string | null;
+  /** Spin up and down Fermi energies (eV) from <two_fermi_energies>. */
+  twoFermi: [number, number] | null;
   lsda: boolean;
   noncolin: boolean;
   spinorbit: boolean;
@@ -349,6 +351,7 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
   }
   let fermiEnergy: number | null = null;
   let fermiSource: string | null = null;
+  let twoFermi: [number, number] | null = null;
   const ef = num('fermi_energy');
   const homo = num('highestOccupiedLevel');
   const two = flags.get('two_fermi_energies');
@@ -364,6 +367,7 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
     if (r.bad === null && r.count === 2) {
       fermiEnergy = hartreeToEv(Math.max(out[0]!, out[1]!));
       fermiSource = 'two_fermi_energies';
+      twoFermi = [hartreeToEv(out[0]!), hartreeToEv(out[1]!)];
     }
   }
   return {
@@ -381,6 +385,7 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
     electrons: num('nelec'),
     fermiEnergy,
     fermiSource,
+    twoFermi,
     lsda,
     noncolin,
     spinorbit,
@@ -455,7 +460,7 @@ export function qeXmlToBandStructure(data: QeXmlData, main: InputFile, options: 
     warnings.push({ code: 'fermi-is-homo', message: 'pw.x gives the highest occupied level (fixed occupations), used as the energy reference.' });
   }
   if (data.fermiSource === 'two_fermi_energies') {
-    warnings.push({ code: 'two-fermi', message: 'pw.x gives one Fermi energy per spin channel (fixed magnetisation): the higher one is used as the energy reference.' });
+    warnings.push({ code: 'two-fermi', message: 'pw.x gives one Fermi energy per spin channel (fixed magnetisation): each channel is classified at its own, and the higher one is the energy reference.' });
   }
   if (data.noncolin && !data.spinorbit) {
     warnings.push({ code: 'noncollinear', message: 'Non-collinear run without spin-orbit coupling: each band holds one electron.' });
@@ -476,6 +481,7 @@ export function qeXmlToBandStructure(data: QeXmlData, main: InputFile, options: 
     spinorbit: options.spinorbit ?? (data.noncolin || data.spinorbit),
     method: qeMethod(data.functional, data.hybrid),
     ...(data.fermiSource ? { fermiSource: data.fermiSource } : {}),
+    ...(data.twoFermi && data.nSpin === 2 ? { fermiEnergies: data.twoFermi } : {}),
     labels: [],
     sampling: data.meshSampling ? 'grid' : 'points',
     grid: null,
