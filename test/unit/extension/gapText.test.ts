@@ -23,5 +23,8 @@ describe('extension: gap texts for the status bar and code lens', () => {
     assert.equal(gapLensText({ ...base, metal: true }, false), 'Metal: bands cross the Fermi level');
     assert.equal(gapStatusText(base, false), 'Gap unknown');
     assert.match(gapLensText(base, true), /unknown.*partial file, provisional/);
+    assert.equal(gapStatusText({ ...base, metal: true, semimetal: true }, false), 'Semimetal');
+    assert.equal(gapStatusText({ ...base, metal: false, gapReason: 'local' }, false), 'No gap (local run)');
+    assert.match(gapTooltip({ ...base, metal: true, fermi_eV: 1.5, crossingBands: [2, 3], spinors: true }, false), /Fermi level 1\.5000 eV, crossing bands 2, 3\n[\s\S]*Spinors/);
   });
 });
