@@ -177,6 +177,37 @@ describe('metal, semimetal or insulator', () => {
     assert.match(summaryText(sm), /hole pocket top \(100 meV from the Fermi level\)/);
   });
 
+  it('property: any mix of occupations, Fermi energy, count, spins and spinors gives a consistent verdict', () => {
+    const arb = fc.record({
+      nk: fc.integer({ min: 1, max: 6 }),
+      nb: fc.integer({ min: 1, max: 5 }),
+      nSpin: fc.constantFrom(1, 2),
+      seed: fc.array(fc.double({ min: -5, max: 5, noNaN: true }), { minLength: 60, maxLength: 60 }),
+      occ: fc.option(fc.array(fc.double({ min: -0.1, max: 2.1, noNaN: true }), { minLength: 60, maxLength: 60 })),
+      fermi: fc.option(fc.double({ min: -6, max: 6, noNaN: true })),
+      electrons: fc.option(fc.double({ min: 0, max: 12, noNaN: true })),
+      spinorbit: fc.boolean(),
+    });
+    fc.assert(
+      fc.property(arb, (a) => {
+        const kpoints = Array.from({ length: a.nk }, (_, i) => [i / 10, 0, 0]);
+        const at = (arr: number[], s: number, k: number, b: number): number => arr[(s * 30 + k * a.nb + b) % arr.length]!;
+        const energies = Array.from({ length: a.nSpin }, (_, s) => kpoints.map((_, k) => Array.from({ length: a.nb }, (_, b) => at(a.seed, s, k, b)).sort((x, y) => x - y)));
+        const occupations = a.occ ? Array.from({ length: a.nSpin }, (_, s) => kpoints.map((_, k) => Array.from({ length: a.nb }, (_, b) => at(a.occ!, s, k, b)))) : undefined;
+        const r = analyzeBandStructure(makeBands({ kpoints, energies, occupations, fermiEnergy: a.fermi, electrons: a.electrons, spinorbit: a.spinorbit && a.nSpin === 1 }));
+        if (r.metal) assert.equal(r.gap, null);
+        if (r.gap) assert.equal(r.metal, false);
+        if (r.metal !== true) assert.notEqual(r.semimetal, true);
+        assert.ok(r.fermi_eV === null || Number.isFinite(r.fermi_eV));
+        for (const b of r.crossingBands ?? []) assert.ok(b >= 1 && b <= a.nb);
+        assert.ok(r.classificationReason.length > 0);
+        if (a.nSpin === 2) assert.equal(r.spinChannels?.length, 2);
+        return true;
+      }),
+      { numRuns: 400 },
+    );
+  });
+
   it('property: with a written Fermi level, metal exactly when it lies inside some band (analytic truth)', () => {
     const band = fc.record({ centre: fc.double({ min: -5, max: 5, noNaN: true }), width: fc.double({ min: 0, max: 3, noNaN: true }), phase: fc.double({ min: 0, max: 6.28, noNaN: true }) });
     fc.assert(
