@@ -82,7 +82,7 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
     if (bs.nSpin === 2) {
       report.spinGaps = edges.spins.map((e, i) => gapReport(bs, occ, e.vbm, e.cbm, e.metal, [i]));
     }
-    const local = gap ? localRun(bs) : null;
+    const local = localRun(bs);
     if (gap) analyseExtrema(bs, report, s, { occ, edges });
     else if (metal && cls.fermi_eV !== null) {
       const crossing = cls.spins.flatMap((v) => v.crossing.map((band) => ({ spin: v.spin, band })));
@@ -93,6 +93,9 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
       const centreK = kpointAt(bs, local.centre);
       const at = (k: readonly number[]): boolean => k.every((x, j) => Math.abs(x - centreK[j]!) < 1e-7);
       report.extrema = report.extrema.filter((e) => at(e.k));
+    }
+    if (local && gap) {
+      const centreK = kpointAt(bs, local.centre);
       report.gap = null;
       if (report.spinGaps) report.spinGaps = report.spinGaps.map(() => null);
       report.gapReason = `The k-points cover only a small neighbourhood of ${centreK.map((x) => Number(x.toFixed(4))).join(', ')} (within ${(local.extent * 100).toFixed(0)} % of the shortest reciprocal vector): a gap needs the whole zone, so none is given, and only the extremum at the centre is reported.`;
