@@ -569,6 +569,10 @@ export interface CompareRow {
   /** The run could not be read or analysed: the sentence why (all numbers null). */
   error: string | null;
   metal: boolean | null;
+  /** A metal whose overlap is between distinct bands (electron and hole pockets); null when unknown. */
+  semimetal?: boolean | null;
+  /** Noncollinear (spin-orbit) run: one electron per band. */
+  spinors?: boolean;
   direct: boolean | null;
   /** Where the edges are (label or fractional k as text). */
   vbm: string | null;

@@ -1,4 +1,5 @@
 /** A small, strict command-line parser: flags are declared; anything undeclared is an error. */
+import { BOHR_ANGSTROM } from '../core/units';
 
 export interface FlagSpec {
   /** Takes a value (`--window 25`) or is a switch (`--json`). */
@@ -57,4 +58,25 @@ export function numberFlag(p: ParsedArgs, name: string, check: (x: number) => bo
   const x = Number(v);
   if (!Number.isFinite(x) || !check(x)) throw new UsageError(`--${name} must be ${what}, got "${v}"`);
   return x;
+}
+
+/**
+ * `--alat` with its unit: `10.20bohr` (as pw.x writes celldm(1)) or `5.40A` (Å). A bare number is refused:
+ * codes write alat in bohr and people copy it, so guessing the unit would silently scale masses by 3.6.
+ * Returns Å.
+ */
+export function alatFlag(p: ParsedArgs): number | undefined {
+  const v = flag(p, 'alat');
+  if (v === undefined) return undefined;
+  const m = /^\s*([+]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?)\s*(bohr|au|a\.u\.|a0|A|Å|ang|angstrom)?\s*$/i.exec(v);
+  if (!m || !m[2]) {
+    throw new UsageError(
+      `--alat needs a unit: write --alat ${m ? `${m[1]}bohr` : '10.20bohr'} for bohr (the unit pw.x writes celldm(1) and alat in) or --alat ${m ? `${m[1]}A` : '5.40A'} for ångström (Å); got "${v}"`,
+    );
+  }
+  const x = Number(m[1]);
+  const bohr = /^(bohr|au|a\.u\.|a0)$/i.test(m[2]);
+  const angstrom = bohr ? x * BOHR_ANGSTROM : x;
+  if (!(angstrom > 0 && angstrom < 1000)) throw new UsageError(`--alat must be a positive length below 1000 Å, got "${v}"`);
+  return angstrom;
 }

@@ -20,16 +20,34 @@ export interface LoadOptions extends ReadOptions {
   maxBytes?: number;
 }
 
+export interface OtherCandidate {
+  /** Name relative to the run folder. */
+  name: string;
+  /** Layout label. */
+  label: string;
+  /** Byte-identical to the file read (pw.x writes <prefix>.xml and <prefix>.save/data-file-schema.xml alike). */
+  identical: boolean;
+}
+
 export interface RunLocation {
   /** The eigenvalue file. */
   file: string;
   reader: FormatReader;
+  /** Other files of the folder that hold eigenvalues too (none when a file was given). */
+  others?: OtherCandidate[];
 }
 
 /** Files never worth opening when looking for eigenvalues in a run folder. */
 const SKIP = /^(WAVECAR|CHGCAR|CHG|WAVEDER|PROCAR|DOSCAR|LOCPOT|ELFCAR|AECCAR\d|vaspout\.h5|.*\.valleys\.json|.*\.(wfc\d*|save|hdf5|h5|npy|png|svg|pdf|gz|xz|zip|tar))$/i;
 
-/** Find the eigenvalue file in a folder (by content), or confirm a file's format. */
+/**
+ * Find the eigenvalue file in a folder (by content), or confirm a file's format.
+ *
+ * A folder is searched for every layout Valleyscope reads: its own files and, one level down, the pw.x data
+ * file `<prefix>.save/data-file-schema.xml`. When several files qualify, the rule is: the file whose content
+ * is recognised most surely; among equals, files in the folder before those inside `*.save/`, then by name.
+ * The others are named in a notice (RunLocation.others), identical copies said to be so.
+ */
 export async function locateRun(fs: FileAccessor, path: string): Promise<RunLocation> {
   const st = await fs.stat(path);
   if (!st) throw new ValleyscopeError(`${path}: no such file or folder`);
@@ -39,29 +57,68 @@ export async function locateRun(fs: FileAccessor, path: string): Promise<RunLoca
     const head = await fs.readHead(path, DETECT_HEAD_BYTES);
     const d = detectFormat(head, basename(path));
     if (!d) throw new ValleyscopeError(`${path}: not an eigenvalue file of a layout Valleyscope reads (${READERS.map((r) => r.label).join(', ')})`);
-    return { file: path, reader: d.reader };
+    return { file: path, reader: d.reader, others: [] };
   }
-  const entries = (await fs.list(path)).filter((e) => e.type === 'file' && !SKIP.test(e.name));
-  let best: { file: string; reader: FormatReader; confidence: number } | null = null;
+  const listing = await fs.list(path);
   const refused: string[] = [];
-  for (const e of entries.sort((a, b) => a.name.localeCompare(b.name))) {
+  /** A symbolic link in a run folder is followed only when it stays inside the folder (io/pathPolicy.ts). */
+  const followable = async (file: string, name: string): Promise<boolean> => {
+    try {
+      await checkConfined(fs, path, file, `the link ${name}`, 'data', Number.MAX_SAFE_INTEGER);
+      return true;
+    } catch (err) {
+      if (!(err instanceof PathRefusedError)) throw err;
+      refused.push(err.message);
+      return false;
+    }
+  };
+  const names: { file: string; name: string; depth: number }[] = [];
+  for (const e of listing.filter((x) => x.type === 'file' && !SKIP.test(x.name))) {
     const file = joinPath(path, e.name);
-    if (e.link) {
-      // A symbolic link in a run folder is followed only when it stays inside the folder (io/pathPolicy.ts).
-      try {
-        await checkConfined(fs, path, file, `the link ${e.name}`, 'data', Number.MAX_SAFE_INTEGER);
-      } catch (err) {
-        if (!(err instanceof PathRefusedError)) throw err;
-        refused.push(err.message);
-        continue;
+    if (e.link && !(await followable(file, e.name))) continue;
+    names.push({ file, name: e.name, depth: 0 });
+  }
+  for (const d of listing.filter((e) => e.type === 'directory' && /\.save$/i.test(e.name))) {
+    const inner = joinPath(joinPath(path, d.name), 'data-file-schema.xml');
+    const ist = await fs.stat(inner).catch(() => null);
+    if (!ist || ist.type !== 'file' || ist.size === 0) continue;
+    // The .save folder or the file in it may be links: the file read must stay inside the run folder.
+    if (!(await followable(inner, `${d.name}/data-file-schema.xml`))) continue;
+    names.push({ file: inner, name: `${d.name}/data-file-schema.xml`, depth: 1 });
+  }
+  const found: { file: string; name: string; depth: number; reader: FormatReader; confidence: number }[] = [];
+  for (const e of names) {
+    const head = await fs.readHead(e.file, DETECT_HEAD_BYTES);
+    const d = detectFormat(head, basename(e.file));
+    if (d) found.push({ ...e, reader: d.reader, confidence: d.confidence });
+  }
+  if (found.length === 0) {
+    throw new ValleyscopeError(
+      `${path}: no eigenvalue file found in this folder or in a <prefix>.save/ inside it (looked for ${READERS.map((r) => r.label).join(', ')})${refused.length ? `; not followed: ${refused.join('; ')}` : ''}`,
+    );
+  }
+  found.sort((a, b) => b.confidence - a.confidence || a.depth - b.depth || a.name.localeCompare(b.name));
+  const best = found[0]!;
+  const others: OtherCandidate[] = [];
+  for (const o of found.slice(1)) {
+    let identical = false;
+    if (o.reader === best.reader) {
+      const [sa, sb] = await Promise.all([fs.stat(best.file), fs.stat(o.file)]);
+      if (sa && sb && sa.size === sb.size && sa.size <= STREAM_ABOVE_BYTES) {
+        const [ba, bb] = await Promise.all([fs.readFile(best.file, STREAM_ABOVE_BYTES), fs.readFile(o.file, STREAM_ABOVE_BYTES)]);
+        identical = ba.length === bb.length && ba.every((x, i) => x === bb[i]);
       }
     }
-    const head = await fs.readHead(file, DETECT_HEAD_BYTES);
-    const d = detectFormat(head, e.name);
-    if (d && (!best || d.confidence > best.confidence)) best = { file, reader: d.reader, confidence: d.confidence };
+    others.push({ name: o.name, label: o.reader.label, identical });
   }
-  if (!best) throw new ValleyscopeError(`${path}: no eigenvalue file found in this folder (looked for ${READERS.map((r) => r.label).join(', ')})${refused.length ? `; not followed: ${refused.join('; ')}` : ''}`);
-  return { file: best.file, reader: best.reader };
+  return { file: best.file, reader: best.reader, others };
+}
+
+/** A notice naming the other candidate files of a run folder, or null when there were none. */
+export function otherCandidatesNotice(loc: RunLocation): string | null {
+  if (!loc.others || loc.others.length === 0) return null;
+  const list = loc.others.map((o) => `${o.name} (${o.label}${o.identical ? ', an identical copy' : ''})`).join(', ');
+  return `The folder holds more than one eigenvalue file: ${basename(loc.file)} was read (recognised most surely, then files in the folder before those in <prefix>.save/, then by name); also found: ${list}. Give the file itself to read another one.`;
 }
 
 /** Read a run: the eigenvalue file plus the companions its reader wants from the same folder. */
@@ -83,13 +140,19 @@ export async function readLocated(fs: FileAccessor, loc: RunLocation, options: L
   if (loc.reader.streaming && fs.openRanged && st && st.size > STREAM_ABOVE_BYTES) {
     const stream = fs.openRanged(loc.file);
     try {
-      return await readFromBytes(loc.reader, { path: loc.file, bytes: new Uint8Array(0), stream }, companions, options);
+      return withCandidateNotice(await readFromBytes(loc.reader, { path: loc.file, bytes: new Uint8Array(0), stream }, companions, options), loc);
     } finally {
       stream.close();
     }
   }
   const main: InputFile = { path: loc.file, bytes: await fs.readFile(loc.file, options.maxBytes || undefined) };
-  return readFromBytes(loc.reader, main, companions, options);
+  return withCandidateNotice(await readFromBytes(loc.reader, main, companions, options), loc);
+}
+
+function withCandidateNotice(bs: BandStructure, loc: RunLocation): BandStructure {
+  const notice = otherCandidatesNotice(loc);
+  if (notice) bs.warnings.push({ code: 'other-candidates', message: notice });
+  return bs;
 }
 
 /**
@@ -107,6 +170,10 @@ export async function readFromBytes(reader: FormatReader, main: InputFile, compa
     throw e;
   }
   bs.warnings = bs.warnings.map((w) => (w.file !== undefined && w.file !== main.path ? { ...w, message: redactContent(w.message) } : w));
+  if (bs.electrons === null && options.electrons !== undefined && options.electrons > 0) {
+    bs.electrons = options.electrons;
+    bs.warnings.push({ code: 'electrons-given', message: `The run's files give no electron count: ${options.electrons} electrons were taken from the structure file given.` });
+  }
   return withInferredLabels(refuseAbsurdKpoints(bs));
 }
 

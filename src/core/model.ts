@@ -61,6 +61,10 @@ export interface KGrid {
 
 export type OccupationArray = Float32Array | Float64Array;
 
+export type MethodFamily = 'semilocal' | 'hybrid' | 'gw' | 'model' | 'unknown';
+/** How the energies were computed, as far as the files say. */
+export interface ElectronicMethod { family: MethodFamily; name: string | null; evidence: string }
+
 export interface BandStructure {
   source: BandSource;
   /** Real-space lattice rows in Å, when known. */
@@ -86,6 +90,12 @@ export interface BandStructure {
   electrons: number | null;
   /** Non-collinear / spin-orbit run: one electron per band. */
   spinorbit: boolean;
+  /** How the energies were computed (functional family), when the files say. */
+  method?: ElectronicMethod;
+  /** One Fermi energy per spin channel (eV), when the file writes two (fixed spin moment); fermiEnergy is the higher. */
+  fermiEnergies?: [number, number];
+  /** Where the written Fermi energy came from, when the layout says (e.g. 'fermi_energy', 'highestOccupiedLevel'). */
+  fermiSource?: string;
   labels: KLabel[];
   /** 'path' for line-mode runs, 'grid' for uniform meshes, 'points' when unknown. */
   sampling: 'path' | 'grid' | 'points';
@@ -95,6 +105,11 @@ export interface BandStructure {
    * (or when the lattice is unknown). Null when distances are computed from k-points.
    */
   writtenDistance: Float64Array | null;
+  /**
+   * When the file holds bands numbered from N + 1 (e.g. a band grid of bands 3–6): N. Reports number bands
+   * from it; core arrays stay 0-based from the first band held.
+   */
+  bandNumberOffset?: number;
   /** True when the file ended early (a running job): what is here is complete only up to nk. */
   partial: boolean;
   warnings: InputWarning[];
@@ -185,6 +200,17 @@ export interface ExtremumReport extends BandPoint {
   warnings: string[];
 }
 
+/** Insulator/metal/semimetal classification of one spin channel (spin-polarised runs). */
+export interface ChannelClassification {
+  spin: 0 | 1;
+  metal: boolean | null;
+  semimetal: boolean | null;
+  fermi_eV: number | null;
+  classificationReason: string;
+  /** 1-based bands of this channel that cross the Fermi level. */
+  crossingBands: number[];
+}
+
 export interface Report {
   file: string;
   format: string;
@@ -193,6 +219,20 @@ export interface Report {
   nspin: number;
   electrons: number | null;
   metal: boolean | null;
+  /** A metal whose overlap is between different bands, with electron and hole pockets. */
+  semimetal: boolean | null;
+  /** The Fermi level used (written by the file, or estimated as the reason says); null if unknown. */
+  fermi_eV: number | null;
+  /** One sentence: which evidence decided the classification. */
+  classificationReason: string;
+  /** Noncollinear (spin-orbit) run: one electron per band. */
+  spinors: boolean;
+  /** 1-based bands that cross the Fermi level (metals), all spin channels merged. */
+  crossingBands?: number[];
+  /** Why there is no gap although the run is not a metal (e.g. a local grid around one point). */
+  gapReason?: string;
+  /** Per spin channel (spin-polarised runs only). */
+  spinChannels?: ChannelClassification[];
   gap: GapReport | null;
   extrema: ExtremumReport[];
   /** Per spin channel gaps (spin-polarised runs only). */

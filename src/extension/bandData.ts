@@ -49,8 +49,10 @@ export function buildBandData(
   const dtype: ArrayDType = total > F64_ENERGY_LIMIT ? 'f32' : 'f64';
   // With edges unknown, "VBM = 0" cannot be honoured: fall back to the Fermi level, then raw.
   let ref = energyReference;
-  if (ref === 'vbm' && !report.gap) ref = bs.fermiEnergy !== null ? 'fermi' : 'raw';
-  if (ref === 'fermi' && bs.fermiEnergy === null) ref = 'raw';
+  // A metal's Fermi level: as written, or as the analysis estimated it (its reason says so).
+  const fermi = bs.fermiEnergy ?? (report.metal ? report.fermi_eV : null);
+  if (ref === 'vbm' && !report.gap) ref = fermi !== null ? 'fermi' : 'raw';
+  if (ref === 'fermi' && fermi === null) ref = 'raw';
   return {
     title,
     format: bs.source.format,
@@ -64,7 +66,7 @@ export function buildBandData(
     energies: bs.energies.map((e) => encodeArray(e, dtype)),
     ticks: geometry.ticks.map((t) => ({ distance: t.distance, label: t.label, kIndex: t.index })),
     segments: geometry.segments.map((s) => ({ start: s.start, end: s.end, startLabel: s.startLabel, endLabel: s.endLabel, afterJump: s.afterJump })),
-    fermiEnergy: bs.fermiEnergy,
+    fermiEnergy: fermi,
     vbm_eV: report.gap ? report.gap.vbm.eV : null,
     cbm_eV: report.gap ? report.gap.cbm.eV : null,
     report,

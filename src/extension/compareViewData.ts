@@ -78,7 +78,8 @@ function edgeOf(run: ComparedRun, kind: 'cbm' | 'vbm'): ExtremumReport | null {
 
 function valuesOf(c: Comparison, run: ComparedRun, report: RunInput['report']): Record<string, number | null> {
   const v: Record<string, number | null> = {};
-  v.gap = run.metal ? 0 : run.gap_eV;
+  // A metal has no gap (not a gap of zero).
+  v.gap = run.metal ? null : run.gap_eV;
   v.deltaGap = run.deltaGap_eV;
   v.directGap = report.gap ? report.gap.directGap.eV : null;
   for (const kind of ['cbm', 'vbm'] as const) {
@@ -149,6 +150,8 @@ export function buildCompareTable(entries: readonly CompareEntry[], referenceId:
       staleReasons: e.staleReasons,
       error: e.error,
       metal: r?.metal ?? null,
+      semimetal: reportById.get(e.id)?.semimetal ?? null,
+      spinors: reportById.get(e.id)?.spinors ?? false,
       direct: r?.direct ?? null,
       vbm: r?.vbm ?? null,
       cbm: r?.cbm ?? null,
@@ -178,6 +181,7 @@ export function bandRunOf(rowId: string, title: string, run: { bs: BandStructure
   const bs = run.bs;
   const dtype = bs.nk * bs.nBands * bs.nSpin > F64_ENERGY_LIMIT ? 'f32' : 'f64';
   const vbm = run.report.gap?.vbm.eV ?? null;
+  const fermi = bs.fermiEnergy ?? (run.report.metal ? run.report.fermi_eV : null);
   return {
     rowId,
     title,
@@ -188,8 +192,8 @@ export function bandRunOf(rowId: string, title: string, run: { bs: BandStructure
     energies: bs.energies.map((e) => encodeArray(e, dtype)),
     ticks: run.geometry.ticks.map((t) => ({ distance: t.distance, label: t.label, kIndex: t.index })),
     segments: run.geometry.segments.map((s) => ({ start: s.start, end: s.end, startLabel: s.startLabel, endLabel: s.endLabel, afterJump: s.afterJump })),
-    align_eV: vbm ?? bs.fermiEnergy,
-    alignedAt: vbm !== null ? 'vbm' : bs.fermiEnergy !== null ? 'fermi' : 'none',
+    align_eV: vbm ?? fermi,
+    alignedAt: vbm !== null ? 'vbm' : fermi !== null ? 'fermi' : 'none',
     distanceUnits: run.geometry.units,
   };
 }

@@ -9,7 +9,8 @@ function where(p: BandPoint): string {
 /** Status bar text: "Gap 1.12 eV indirect", "Metal", "Gap unknown", with " (partial)" for a running job. */
 export function gapStatusText(report: Report, partial: boolean): string {
   const suffix = partial ? ' (partial)' : '';
-  if (report.metal) return `Metal${suffix}`;
+  if (report.metal) return `${report.semimetal ? 'Semimetal' : 'Metal'}${suffix}`;
+  if (report.gapReason) return `No gap (local run)${suffix}`;
   if (report.gap) return `Gap ${report.gap.eV.toFixed(2)} eV ${report.gap.direct ? 'direct' : 'indirect'}${suffix}`;
   return `Gap unknown${suffix}`;
 }
@@ -17,7 +18,11 @@ export function gapStatusText(report: Report, partial: boolean): string {
 /** Tooltip for the status bar item: a few lines with the edges and the usual caution. */
 export function gapTooltip(report: Report, partial: boolean): string {
   const lines: string[] = [];
-  if (report.metal) lines.push('A band crosses the Fermi level: no gap.');
+  if (report.metal) {
+    lines.push('A band crosses the Fermi level: no gap.');
+    if (report.fermi_eV !== null) lines.push(`Fermi level ${report.fermi_eV.toFixed(4)} eV${report.crossingBands?.length ? `, crossing bands ${report.crossingBands.join(', ')}` : ''}`);
+    if (report.classificationReason) lines.push(report.classificationReason);
+  } else if (report.gapReason) lines.push(report.gapReason);
   else if (report.gap) {
     const g = report.gap;
     lines.push(`Band gap ${g.eV.toFixed(4)} eV, ${g.direct ? 'direct' : 'indirect'}`);
@@ -25,6 +30,7 @@ export function gapTooltip(report: Report, partial: boolean): string {
     lines.push(`CBM ${g.cbm.eV.toFixed(4)} eV at ${where(g.cbm)}`);
     if (!g.direct) lines.push(`Smallest direct gap ${g.directGap.eV.toFixed(4)} eV`);
   } else lines.push('Band edges unknown: no occupations, electron count or Fermi energy in the files read.');
+  if (report.spinors) lines.push('Spinors (noncollinear run): one electron per band.');
   if (partial) lines.push('The file is incomplete (running job?): these numbers are provisional.');
   for (const c of report.cautions) lines.push(c);
   lines.push('Click to open the band view.');
@@ -34,7 +40,8 @@ export function gapTooltip(report: Report, partial: boolean): string {
 /** Code lens title at the top of the file. */
 export function gapLensText(report: Report, partial: boolean): string {
   const suffix = partial ? ' — partial file, provisional' : '';
-  if (report.metal) return `Metal: bands cross the Fermi level${suffix}`;
+  if (report.metal) return `${report.semimetal ? 'Semimetal' : 'Metal'}: bands cross the Fermi level${suffix}`;
+  if (report.gapReason) return `No gap: the run covers only the neighbourhood of one point${suffix}`;
   if (report.gap) {
     const g = report.gap;
     return `Gap ${g.eV.toFixed(2)} eV ${g.direct ? 'direct' : 'indirect'}: VBM ${where(g.vbm)} → CBM ${where(g.cbm)}${suffix}`;

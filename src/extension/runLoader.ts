@@ -5,7 +5,7 @@
  */
 import type * as vscode from 'vscode';
 import { Worker } from 'node:worker_threads';
-import { STREAM_ABOVE_BYTES, locateRun, readCompanions } from '../core/load';
+import { STREAM_ABOVE_BYTES, locateRun, otherCandidatesNotice, readCompanions } from '../core/load';
 import { canReadLocalRanges } from './localRangedSource';
 import { pathGeometry, type PathGeometry } from '../core/lattice/kpath';
 import type { BandStructure, Report } from '../core/model';
@@ -71,6 +71,8 @@ export async function loadAndAnalyse(uri: vscode.Uri, opts: LoadOptions, token: 
     const size = stream ? st!.size : bytes.byteLength;
     const useWorker = workerAvailable && size >= opts.workerThresholdBytes;
     const out = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, token, progress);
+    const notice = otherCandidatesNotice(loc);
+    if (notice) out.report.warnings.push(notice);
     progress(1, 'path geometry');
     return { uri, fileUri, bs: out.bs, report: out.report, geometry: pathGeometry(out.bs), size };
   } finally {

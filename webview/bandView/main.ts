@@ -362,9 +362,14 @@ export class BandViewApp {
     this.panel.setCautions(data.report.cautions);
     // Gap summary with its caution beside it.
     const r = data.report;
-    if (r.metal) this.gapEl.textContent = 'metal (no gap)';
-    else if (r.gap) this.gapEl.textContent = `gap ${fixed(r.gap.eV, 3)} eV, ${r.gap.direct ? 'direct' : 'indirect'}${r.gap.direct ? '' : ` (smallest direct ${fixed(r.gap.directGap.eV, 3)} eV)`}`;
-    else this.gapEl.textContent = 'gap unknown (no electron count or occupations)';
+    const spinors = r.spinors ? ' · spinors (one electron per band)' : '';
+    if (r.metal) {
+      const crossing = r.crossingBands?.length ? `, band${r.crossingBands.length > 1 ? 's' : ''} ${r.crossingBands.join(', ')} crossing` : '';
+      this.gapEl.textContent = `${r.semimetal ? 'semimetal' : 'metal'} (no gap)${data.fermiEnergy !== null ? `, E_F ${fixed(data.fermiEnergy, 3)} eV` : ''}${crossing}${spinors}`;
+    } else if (r.gap) this.gapEl.textContent = `gap ${fixed(r.gap.eV, 3)} eV, ${r.gap.direct ? 'direct' : 'indirect'}${r.gap.direct ? '' : ` (smallest direct ${fixed(r.gap.directGap.eV, 3)} eV)`}${spinors}`;
+    else if (r.metal === false && r.gapReason) this.gapEl.textContent = `no gap: local run around one point${spinors}`;
+    else this.gapEl.textContent = `gap unknown (no electron count or occupations)${spinors}`;
+    this.gapEl.title = r.gapReason ?? r.classificationReason ?? '';
     const gapCaution = r.cautions.find((c) => /gap/i.test(c));
     this.cautionLine.hidden = !gapCaution;
     this.cautionLine.textContent = gapCaution ? `Caution: ${gapCaution}` : '';
@@ -582,6 +587,12 @@ export class BandViewApp {
     if (this.refChoice.reference !== 'raw') {
       const y0 = zy(0);
       plotG.append('line').attr('class', 'vs-zero').attr('x1', MARGIN.left).attr('x2', MARGIN.left + pw).attr('y1', y0).attr('y2', y0);
+    }
+    // A metal: the Fermi level, drawn and named (no gap band).
+    if (r.metal && vm.data.fermiEnergy !== null) {
+      const yf = zy(vm.data.fermiEnergy - off);
+      plotG.append('line').attr('class', 'vs-fermi').attr('x1', MARGIN.left).attr('x2', MARGIN.left + pw).attr('y1', yf).attr('y2', yf);
+      plotG.append('text').attr('class', 'vs-fermi-label').attr('x', MARGIN.left + pw - 4).attr('y', yf - 3).attr('text-anchor', 'end').text('E_F');
     }
     // Fit overlay: window lines and fitted curves.
     if (this.fit) {

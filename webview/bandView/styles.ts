@@ -29,6 +29,8 @@ body { margin: 0; padding: 0; background: var(--vscode-editor-background); color
 body.vscode-high-contrast .vs-sym-line, body.vscode-high-contrast-light .vs-sym-line { stroke: var(--vscode-contrastBorder); stroke-dasharray: none; }
 .vs-break { stroke: var(--vscode-foreground); stroke-width: 1; }
 .vs-zero { stroke: var(--vscode-descriptionForeground); stroke-width: 1; stroke-dasharray: 6 3; }
+.vs-fermi { stroke: var(--vscode-charts-orange, var(--vscode-editorWarning-foreground)); stroke-width: 1.5; stroke-dasharray: 2 2; }
+.vs-fermi-label { fill: var(--vscode-charts-orange, var(--vscode-editorWarning-foreground)); font-size: 11px; }
 .vs-gap-band { fill: var(--vscode-charts-foreground, var(--vscode-foreground)); opacity: 0.06; }
 body.vscode-high-contrast .vs-gap-band, body.vscode-high-contrast-light .vs-gap-band { opacity: 0; }
 .vs-frame { fill: none; stroke: var(--vscode-foreground); stroke-opacity: 0.5; }

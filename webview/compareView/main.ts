@@ -434,8 +434,10 @@ export class CompareViewApp {
       tdAnn.append(s);
     } else if (r.annotations === 'current') tdAnn.append(el('span', 'cv-current', 'saved'));
     else tdAnn.append(el('span', 'cv-current', '—'));
-    const tdType = el('td', undefined, r.error ? 'unreadable' : r.metal ? 'metal' : r.direct === null ? '—' : r.direct ? 'direct' : 'indirect');
+    const kind = r.error ? 'unreadable' : r.metal ? (r.semimetal ? 'semimetal' : 'metal') : r.direct === null ? '—' : r.direct ? 'direct' : 'indirect';
+    const tdType = el('td', undefined, `${kind}${!r.error && r.spinors ? ' · spinors' : ''}`);
     if (r.error) tdType.title = r.error;
+    else if (r.spinors) tdType.title = 'Noncollinear (spin-orbit) run: one electron per band.';
     const tdVbm = el('td', undefined, r.vbm ?? '—');
     const tdCbm = el('td', undefined, r.cbm ? `${r.cbm}${r.cbmValley ? ` [${r.cbmValley}]` : ''}` : '—');
     const ref = this.table?.rows.find((x) => x.isReference);

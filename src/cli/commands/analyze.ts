@@ -1,5 +1,5 @@
 /** `valleyscope analyze <file-or-folder> [--json] [--window meV] [--method name] [--range eV]` */
-import { flag, numberFlag, parseArgs, UsageError } from '../args';
+import { alatFlag, flag, numberFlag, parseArgs, UsageError } from '../args';
 import { nodeFileAccessor } from '../nodeFileAccessor';
 import { loadRun } from '../../core/load';
 import { analyzeBandStructure, type AnalysisSettings } from '../../core/analysis/analyze';
@@ -18,9 +18,11 @@ export const ANALYZE_HELP = `valleyscope analyze <file-or-folder> [options]
   --method <name>   ${FIT_METHODS.join(' | ')} (default parabola)
   --range <eV>      report secondary extrema this close to the edges (default 0.5)
   --soc             treat the run as spin-orbit (one electron per band) when the files do not say
-  --alat <Å>        lattice parameter alat, for layouts that give k in 2π/alat without a cell (bands.x output)
-  --structure <file>  a POSCAR-like structure file (or a pw.x XML data file), for runs whose files give no
-                    cell or atoms`;
+  --alat <length+unit>  lattice parameter alat with its unit, e.g. 10.20bohr or 5.40A, for layouts that give
+                    k in 2π/alat without a cell (bands.x output); a bare number is refused. alat alone gives
+                    distances and masses, not the lattice: labels then need --structure
+  --structure <file>  a POSCAR-like structure file (or a pw.x XML data file, which also gives the electron
+                    count and spinor state), for runs whose files give no cell or atoms`;
 
 export function analysisSettingsFromArgs(p: ReturnType<typeof parseArgs>): Partial<AnalysisSettings> {
   const s: Partial<AnalysisSettings> = {};
@@ -53,7 +55,7 @@ export const READ_FLAGS = {
 export async function readOptionsFromArgs(p: ReturnType<typeof parseArgs>): Promise<ReadOptions> {
   const o: ReadOptions = {};
   if (p.flags.has('soc')) o.spinorbit = true;
-  const alat = numberFlag(p, 'alat', (x) => x > 0 && x < 1000, 'a positive length in Å');
+  const alat = alatFlag(p);
   if (alat !== undefined) o.alatAngstrom = alat;
   const sfile = flag(p, 'structure');
   if (sfile !== undefined) {
@@ -64,10 +66,13 @@ export async function readOptionsFromArgs(p: ReturnType<typeof parseArgs>): Prom
     } catch (e) {
       throw new UsageError(`--structure: ${e instanceof Error ? e.message : String(e)}`);
     }
-    // A pw.x data file gives the structure and the alat its k-points are written in.
+    // A pw.x data file gives the structure, the alat its k-points are written in, the electron count and
+    // whether the run used spinors; a POSCAR-like file the structure only.
     const st = readStructureFile({ path: sfile, bytes });
     o.structure = st.structure;
     if (o.alatAngstrom === undefined && st.alat_angstrom !== null) o.alatAngstrom = st.alat_angstrom;
+    if (st.electrons !== null) o.electrons = st.electrons;
+    if (o.spinorbit === undefined && st.spinors) o.spinorbit = true;
   }
   return o;
 }

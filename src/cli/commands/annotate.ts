@@ -1,6 +1,6 @@
 /** `valleyscope annotate <file-or-folder>… [analysis options]`: write or update `<data file>.valleys.json`. */
 import { dirname, relative, resolve } from 'node:path';
-import { flag, numberFlag, parseArgs, UsageError } from '../args';
+import { alatFlag, flag, parseArgs, UsageError } from '../args';
 import { nodeFileAccessor } from '../nodeFileAccessor';
 import { locateRun, readLocated } from '../../core/load';
 import { analyzeBandStructure, DEFAULT_SETTINGS, type AnalysisSettings } from '../../core/analysis/analyze';
@@ -26,7 +26,7 @@ export const ANNOTATE_HELP = `valleyscope annotate <file-or-folder>... [options]
   An existing annotations file is merged, never overwritten: notes, review statuses and fields added by
   hand are kept, entries the analysis no longer finds are kept and marked "found": false. Prints what
   changed. Without options, the settings recorded in an existing file are used again.
-  --window <meV>, --method <name>, --range <eV>, --soc, --alat <Å>, --structure <file>
+  --window <meV>, --method <name>, --range <eV>, --soc, --alat <length+unit>, --structure <file>
                     as for "valleyscope analyze"; all are recorded, and "check" reads the run alike`;
 
 import { TOOL_VERSION } from '../../core/version';
@@ -169,7 +169,7 @@ export async function runAnnotate(argv: string[], io: CliIO): Promise<number> {
   if (p.positional.length === 0) throw new UsageError('annotate needs at least one data file or run folder');
   const flags = analysisSettingsFromArgs(p);
   const read: ReadFlags = { soc: p.flags.has('soc') };
-  const alat = numberFlag(p, 'alat', (x) => x > 0 && x < 1000, 'a positive length in Å');
+  const alat = alatFlag(p);
   if (alat !== undefined) read.alat = alat;
   const structure = flag(p, 'structure');
   if (structure !== undefined) read.structure = structure;

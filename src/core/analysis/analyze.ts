@@ -3,10 +3,13 @@
  * Report the CLI prints and the editor shows. Pure: no I/O.
  */
 import type { BandStructure, Report } from '../model';
+import { kpointAt } from '../model';
 import { occupationRule } from './occupation';
 import { bandEdges, gapReport } from './gap';
 import { standardCautions } from './cautions';
-import { analyseExtrema } from './massEngine';
+import { classifyConduction } from './conductionClass';
+import { localRun } from './localRun';
+import { analyseExtrema, analysePocketExtrema } from './massEngine';
 
 export interface AnalysisSettings {
   /** Energy window of the parabola fit, meV. */
@@ -37,27 +40,85 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
     nspin: bs.nSpin,
     electrons: bs.electrons,
     metal: null,
+    semimetal: null,
+    fermi_eV: bs.fermiEnergy,
+    classificationReason: '',
+    spinors: bs.spinorbit,
     gap: null,
     extrema: [],
     warnings,
     cautions: [],
   };
   const occ = occupationRule(bs);
+  const cls = classifyConduction(bs, occ);
+  report.metal = cls.metal;
+  report.semimetal = cls.semimetal;
+  report.fermi_eV = cls.fermi_eV;
+  report.classificationReason = cls.reason;
+  if (cls.metal) report.crossingBands = [...new Set(cls.spins.flatMap((v) => v.crossing.map((b) => b + 1)))].sort((a, b) => a - b);
+  if (bs.nSpin === 2) {
+    report.spinChannels = cls.spins.map((v) => ({
+      spin: v.spin,
+      metal: v.metal,
+      semimetal: v.semimetal,
+      fermi_eV: bs.fermiEnergies?.[v.spin] ?? cls.fermi_eV,
+      classificationReason: v.reason,
+      crossingBands: v.crossing.map((b) => b + 1),
+    }));
+  }
+  warnings.push(...cls.warnings);
   if (!occ) {
     warnings.push('Neither occupations, an electron count nor a Fermi energy is known: band edges cannot be placed.');
   } else {
-    warnings.push(...occ.warnings);
+    // A metal's count warning is the classification itself.
+    warnings.push(...(cls.metal ? occ.warnings.filter((w) => !/^Occupations fill/.test(w)) : occ.warnings));
     const edges = bandEdges(bs, occ);
-    report.metal = edges.metal;
+    const metal = cls.metal === true;
+    edges.metal = metal;
+    edges.spins.forEach((e, i) => (e.metal = cls.spins[i]?.metal === true));
     const all = bs.nSpin === 2 ? [0, 1] : [0];
-    report.gap = gapReport(bs, occ, edges.vbm, edges.cbm, edges.metal, all);
+    const gap = gapReport(bs, occ, edges.vbm, edges.cbm, metal, all);
+    report.gap = gap;
     if (bs.nSpin === 2) {
       report.spinGaps = edges.spins.map((e, i) => gapReport(bs, occ, e.vbm, e.cbm, e.metal, [i]));
     }
-    if (occ.fractionalFilling) warnings.push(`${bs.electrons} electrons do not fill a whole number of bands: the system is metallic (or the count is wrong).`);
-    if (report.gap) analyseExtrema(bs, report, s, { occ, edges });
+    const local = localRun(bs);
+    if (gap) analyseExtrema(bs, report, s, { occ, edges });
+    else if (metal && cls.fermi_eV !== null) {
+      const crossing = cls.spins.flatMap((v) => v.crossing.map((band) => ({ spin: v.spin, band })));
+      analysePocketExtrema(bs, report, s, crossing, cls.fermi_eV);
+    }
+    if (local) {
+      // The patch's own edges are not the crystal's: keep only the extremum at its centre.
+      const centreK = kpointAt(bs, local.centre);
+      const at = (k: readonly number[]): boolean => k.every((x, j) => Math.abs(x - centreK[j]!) < 1e-7);
+      report.extrema = report.extrema.filter((e) => at(e.k));
+    }
+    if (local && gap) {
+      const centreK = kpointAt(bs, local.centre);
+      report.gap = null;
+      if (report.spinGaps) report.spinGaps = report.spinGaps.map(() => null);
+      report.gapReason = `The k-points cover only a small neighbourhood of ${centreK.map((x) => Number(x.toFixed(4))).join(', ')} (within ${(local.extent * 100).toFixed(0)} % of the shortest reciprocal vector): a gap needs the whole zone, so none is given, and only the extremum at the centre is reported.`;
+    }
   }
   if (bs.partial) warnings.push('Partial data: the file is incomplete, so these results are provisional.');
   report.cautions = standardCautions(bs, report);
+  if (bs.bandNumberOffset) renumberBands(report, bs.bandNumberOffset);
   return report;
+}
+
+/** Number bands as the file does (a file holding bands 3–6 reports band 3 for its first). */
+function renumberBands(r: Report, offset: number): void {
+  const shift = (p: { band: number }): void => {
+    p.band += offset;
+  };
+  for (const g of [r.gap, ...(r.spinGaps ?? [])]) {
+    if (g) {
+      shift(g.vbm);
+      shift(g.cbm);
+    }
+  }
+  r.extrema.forEach(shift);
+  if (r.crossingBands) r.crossingBands = r.crossingBands.map((b) => b + offset);
+  for (const c of r.spinChannels ?? []) c.crossingBands = c.crossingBands.map((b) => b + offset);
 }

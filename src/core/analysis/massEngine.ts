@@ -9,6 +9,7 @@ import { kpointAt, labelAt } from '../model';
 import type { AnalysisSettings } from './analyze';
 import { bandEdges, type EdgeAnalysis } from './gap';
 import { occupationRule, type OccupationRule } from './occupation';
+import { classifyConduction } from './conductionClass';
 import { energySigma } from './energyResolution';
 import { degenerateGroup, gridNeighbours, locateExtrema, pathNeighbours, type ExtremumSite, type NeighbourFn } from './extrema';
 import { pathNetwork, kKey, type PathNetwork } from './pathRays';
@@ -272,6 +273,38 @@ export function analyseExtrema(bs: BandStructure, report: Report, settings: Anal
   report.extrema = sites.map((s) => characterise(ctx, s, settings));
 }
 
+/**
+ * A metal's pockets near the Fermi level: the top of each crossing band that rises above E_F (a hole pocket)
+ * and the bottom of each that dips below it (an electron pocket), within `range_eV` of E_F, characterised like
+ * band edges (kind 'peak' / 'valley', offset measured from E_F).
+ */
+export function analysePocketExtrema(bs: BandStructure, report: Report, settings: AnalysisSettings, crossing: { spin: 0 | 1; band: number }[], fermi: number): void {
+  const ctx = engineContext(bs);
+  const tol = settings.degeneracy_meV / 1000;
+  const nb = bs.nBands;
+  const sites: ExtremumSite[] = [];
+  for (const c of crossing) {
+    const e = bs.energies[c.spin]!;
+    let kMax = 0;
+    let kMin = 0;
+    for (let k = 1; k < bs.nk; k++) {
+      if (e[k * nb + c.band]! > e[kMax * nb + c.band]!) kMax = k;
+      if (e[k * nb + c.band]! < e[kMin * nb + c.band]!) kMin = k;
+    }
+    const top = e[kMax * nb + c.band]!;
+    const bottom = e[kMin * nb + c.band]!;
+    if (top > fermi && top - fermi <= settings.range_eV) {
+      const group = degenerateGroup(bs, c.spin, kMax, c.band, tol);
+      sites.push({ spin: c.spin, k: kMax, band: group[group.length - 1]!, energy: top, kind: 'peak', offset: top - fermi, group, warnings: ['Top of a hole pocket: the offset is measured from the Fermi level.'] });
+    }
+    if (bottom < fermi && fermi - bottom <= settings.range_eV) {
+      const group = degenerateGroup(bs, c.spin, kMin, c.band, tol);
+      sites.push({ spin: c.spin, k: kMin, band: group[0]!, energy: bottom, kind: 'valley', offset: fermi - bottom, group, warnings: ['Bottom of an electron pocket: the offset is measured from the Fermi level.'] });
+    }
+  }
+  report.extrema = sites.map((site) => characterise(ctx, site, settings));
+}
+
 // ---------------------------------------------------------------------------------------------------------
 // The editor's entry points.
 
@@ -319,10 +352,12 @@ export function fitExtremumAt(bs: BandStructure, spin: number, kIndex: number, b
   const group = degenerateGroup(bs, spin, k, band0, tol);
   const occ = occupationRule(bs);
   const edges = occ ? bandEdges(bs, occ) : null;
+  // A metal (by the classification's evidence: occupations, Fermi energy, count, band order) has no edges.
+  const metal = occ ? classifyConduction(bs, occ).metal !== false : true;
   let kind: ExtremumKind = maximum ? 'peak' : 'valley';
   let offset = 0;
   const key = kKey(kpointAt(bs, k));
-  if (edges && !edges.metal && edges.vbm && edges.cbm) {
+  if (edges && !metal && edges.vbm && edges.cbm) {
     const edge = maximum ? edges.vbm : edges.cbm;
     if (edge.spin === spin && Math.abs(edge.energy - energy) <= tol && kKey(kpointAt(bs, edge.k)) === key) kind = maximum ? 'vbm' : 'cbm';
     offset = maximum ? edges.vbm.energy - energy : energy - edges.cbm.energy;

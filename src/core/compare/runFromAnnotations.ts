@@ -120,6 +120,11 @@ export function reportFromAnnotations(doc: AnnotationsDoc, file: string): Report
     nspin,
     electrons: null,
     metal: doc.metal,
+    // Not kept in an annotations file.
+    semimetal: null,
+    fermi_eV: null,
+    classificationReason: '',
+    spinors: false,
     gap: doc.gap ? gapReport(doc.gap) : null,
     extrema: found.map((e) => extremum(e, doc.gap)),
     warnings: [...doc.warnings],

@@ -229,6 +229,7 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
     energies: eOut,
     occupations: null,
     fermiEnergy: fermi,
+    ...(nSpin === 2 && fermiValues.length === 2 && fermiValues[0] !== fermiValues[1] ? { fermiEnergies: [hartreeToEv(fermiValues[0]!), hartreeToEv(fermiValues[1]!)] as [number, number] } : {}),
     electrons,
     spinorbit: options.spinorbit ?? false,
     labels: [],

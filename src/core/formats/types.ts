@@ -12,6 +12,8 @@ export interface ReadOptions {
   alatAngstrom?: number;
   /** A structure to use when the run's own files give none. */
   structure?: Structure;
+  /** The electron count (e.g. from the pw.x data file given as the structure), when the run's own files give none. */
+  electrons?: number;
   /** A lattice (rows, Å) to use when the run's own files give none. */
   lattice?: Mat3;
   /** Polled between blocks; reading stops with CancelledError when it returns true. */

@@ -10,6 +10,11 @@ import { ensureSymmetryReady } from './symmetry';
 /** Returns the band structure with inferred labels and a warning, or unchanged when labels exist or none fit. */
 export async function withInferredLabels(bs: BandStructure): Promise<BandStructure> {
   if (bs.labels.length > 0 || bs.sampling === 'grid' || !(bs.structure?.lattice ?? bs.lattice) || bs.nk === 0) return bs;
+  // alat alone does not give the lattice (an fcc and a simple-cubic crystal share it): no labels from a frame
+  // built from alat only.
+  if (!bs.structure && bs.warnings.some((w) => w.code === 'cell-unknown')) {
+    return { ...bs, warnings: [...bs.warnings, { code: 'labels-not-inferred', message: 'No path labels were given, and only alat is known, not the lattice: high-symmetry labels are not inferred from alat alone (give --structure).' }] };
+  }
   let warning: InputWarning;
   try {
     await ensureSymmetryReady();

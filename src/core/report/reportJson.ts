@@ -84,10 +84,26 @@ export function reportToJson(rep: Report): Record<string, unknown> {
     nspin: rep.nspin,
     electrons: rep.electrons,
     metal: rep.metal,
+    semimetal: rep.semimetal,
+    fermi_eV: rep.fermi_eV === null ? null : e6(rep.fermi_eV),
+    classificationReason: rep.classificationReason,
+    spinors: rep.spinors,
     gap: gapJson(rep.gap),
     extrema: rep.extrema.map(extremumJson),
   };
+  if (rep.crossingBands) o.crossingBands = rep.crossingBands;
+  if (rep.gapReason) o.gapReason = rep.gapReason;
   if (rep.spinGaps) o.spinGaps = rep.spinGaps.map(gapJson);
+  if (rep.spinChannels) {
+    o.spinChannels = rep.spinChannels.map((c) => ({
+      spin: c.spin,
+      metal: c.metal,
+      semimetal: c.semimetal,
+      fermi_eV: c.fermi_eV === null ? null : e6(c.fermi_eV),
+      classificationReason: c.classificationReason,
+      crossingBands: c.crossingBands,
+    }));
+  }
   o.warnings = rep.warnings;
   o.cautions = rep.cautions;
   return o;

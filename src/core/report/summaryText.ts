@@ -21,10 +21,10 @@ function massLine(m: MassFit, atMaximum: boolean): string {
   return `      towards ${m.towards}${branch}: m* = ${fmt(m.mass, 3)} ± ${fmt(m.stderr, 3)} m_e${hole}${alpha}  [${m.method}, ${m.points} points, ${fmt(m.window_meV, 0)} meV window]`;
 }
 
-function extremumBlock(e: ExtremumReport): string[] {
+function extremumBlock(e: ExtremumReport, metal = false): string[] {
   const lines: string[] = [];
-  const what = { vbm: 'VBM', cbm: 'CBM', valley: 'conduction valley', peak: 'valence peak' }[e.kind];
-  const off = e.kind === 'vbm' || e.kind === 'cbm' ? '' : ` (${fmt(e.offset_eV * 1000, 0)} meV from the edge)`;
+  const what = metal ? { vbm: 'VBM', cbm: 'CBM', valley: 'electron pocket bottom', peak: 'hole pocket top' }[e.kind] : { vbm: 'VBM', cbm: 'CBM', valley: 'conduction valley', peak: 'valence peak' }[e.kind];
+  const off = e.kind === 'vbm' || e.kind === 'cbm' ? '' : ` (${fmt(e.offset_eV * 1000, 0)} meV from the ${metal ? 'Fermi level' : 'edge'})`;
   lines.push(`  ${what}${off}: ${describePoint(e)}`);
   if (e.degenerateBands > 1) lines.push(`    ${e.degenerateBands} degenerate bands at this point`);
   if (e.valleyDegeneracy !== null) lines.push(`    valley degeneracy N_v = ${e.valleyDegeneracy}`);
@@ -46,23 +46,31 @@ function extremumBlock(e: ExtremumReport): string[] {
 export function summaryText(r: Report): string {
   const out: string[] = [];
   out.push(`${r.file}`);
-  out.push(`  ${r.format}: ${r.nk} k-points, ${r.nbands} bands, ${r.nspin === 2 ? 'spin-polarised' : 'spin-degenerate'}${r.electrons !== null ? `, ${r.electrons} electrons` : ''}`);
-  if (r.metal) out.push('  Metal: a band crosses the Fermi level, there is no gap.');
-  else if (r.gap) {
+  const spinState = r.spinors ? 'spinors (noncollinear: one electron per band)' : r.nspin === 2 ? 'spin-polarised' : 'spin-degenerate';
+  out.push(`  ${r.format}: ${r.nk} k-points, ${r.nbands} bands, ${spinState}${r.electrons !== null ? `, ${r.electrons} electrons` : ''}`);
+  if (r.metal) {
+    const crossing = r.crossingBands?.length ? `; crossing it: band${r.crossingBands.length > 1 ? 's' : ''} ${r.crossingBands.join(', ')}` : '';
+    out.push(`  ${r.semimetal ? 'Semimetal' : 'Metal'}: no gap. Fermi level ${r.fermi_eV !== null ? `${fmt(r.fermi_eV, 4)} eV` : 'unknown'}${crossing}.`);
+    if (r.classificationReason) out.push(`    ${r.classificationReason}`);
+  } else if (r.gap) {
     const g = r.gap;
     out.push(`  Band gap ${fmt(g.eV, 4)} eV, ${g.direct ? 'direct' : 'indirect'}`);
     out.push(`    VBM: ${describePoint(g.vbm)}`);
     out.push(`    CBM: ${describePoint(g.cbm)}`);
     out.push(`    smallest direct gap ${fmt(g.directGap.eV, 4)} eV at ${formatK(g.directGap.k)}`);
+    if (r.classificationReason) out.push(`    ${r.classificationReason}`);
   } else if (r.metal === null) out.push('  Band edges unknown (no occupations, electron count or Fermi energy).');
+  else if (r.gapReason) out.push(`  No gap: ${r.gapReason}`);
   if (r.spinGaps) {
     r.spinGaps.forEach((g, s) => {
-      out.push(`  spin ${s === 0 ? 'up' : 'down'}: ${g ? `gap ${fmt(g.eV, 4)} eV, ${g.direct ? 'direct' : 'indirect'}` : 'no gap (metallic channel)'}`);
+      const ch = r.spinChannels?.[s];
+      const what = g ? `gap ${fmt(g.eV, 4)} eV, ${g.direct ? 'direct' : 'indirect'}` : ch?.metal ? `no gap (${ch.semimetal ? 'semimetallic' : 'metallic'} channel${ch.crossingBands.length ? `; band${ch.crossingBands.length > 1 ? 's' : ''} ${ch.crossingBands.join(', ')} ${ch.crossingBands.length > 1 ? 'cross' : 'crosses'} the Fermi level` : ''})` : r.gapReason ? 'no gap (local run)' : 'no gap';
+      out.push(`  spin ${s === 0 ? 'up' : 'down'}: ${what}`);
     });
   }
   if (r.extrema.length) {
     out.push('  Extrema:');
-    for (const e of r.extrema) out.push(...extremumBlock(e));
+    for (const e of r.extrema) out.push(...extremumBlock(e, r.metal === true));
   }
   if (r.warnings.length) {
     out.push('  Warnings:');

@@ -45,6 +45,13 @@ export interface QeXmlOptions {
   /** Stop after this many k-points without closing the document (a file cut short). */
   truncateAfterK?: number;
   monkhorstPack?: [number, number, number];
+  /** Write <dft><functional>name</functional></dft> (e.g. 'PBE', 'HSE'); with `hybrid`, a <hybrid> block too. */
+  functional?: string;
+  hybrid?: boolean;
+  /** <occupations_kind> as pw.x writes it: 'fixed' (default), 'smearing', 'tetrahedra'. */
+  occupationsKind?: string;
+  /** Spin-polarised runs with fixed magnetisation: <two_fermi_energies> (eV, up and down) instead of <fermi_energy>. */
+  twoFermi?: [number, number];
 }
 
 export function writeQeXml(bs: BandStructure, opts: QeXmlOptions = {}): string {
@@ -100,6 +107,11 @@ export function writeQeXml(bs: BandStructure, opts: QeXmlOptions = {}): string {
     }
     out.push('    </symmetries>');
   }
+  if (opts.functional) {
+    out.push('    <dft>', `      <functional>${opts.functional}</functional>`);
+    if (opts.hybrid) out.push('      <hybrid>', `        <qpoint_grid nqx1="1" nqx2="1" nqx3="1">1 1 1</qpoint_grid>`, `        <exx_fraction>${qeNumber(0.25)}</exx_fraction>`, '      </hybrid>');
+    out.push('    </dft>');
+  }
   out.push('    <magnetization>');
   out.push(`      <lsda>${lsda}</lsda>`);
   out.push(`      <noncolin>${bs.spinorbit}</noncolin>`);
@@ -116,7 +128,9 @@ export function writeQeXml(bs: BandStructure, opts: QeXmlOptions = {}): string {
   out.push(`      <nelec>${qeNumber(bs.electrons ?? 0)}</nelec>`);
   out.push(`      <num_of_atomic_wfc>${bs.nBands}</num_of_atomic_wfc>`);
   out.push('      <wf_collected>true</wf_collected>');
-  if (bs.fermiEnergy !== null) {
+  if (opts.twoFermi) {
+    out.push(`      <two_fermi_energies>${opts.twoFermi.map((x) => qeNumber(x / HARTREE_EV)).join(' ')}</two_fermi_energies>`);
+  } else if (bs.fermiEnergy !== null) {
     out.push(opts.homo ? `      <highestOccupiedLevel>${qeNumber(bs.fermiEnergy / HARTREE_EV)}</highestOccupiedLevel>` : `      <fermi_energy>${qeNumber(bs.fermiEnergy / HARTREE_EV)}</fermi_energy>`);
   }
   out.push('      <starting_k_points>');
@@ -128,7 +142,7 @@ export function writeQeXml(bs: BandStructure, opts: QeXmlOptions = {}): string {
   }
   out.push('      </starting_k_points>');
   out.push(`      <nks>${bs.nk}</nks>`);
-  out.push('      <occupations_kind>fixed</occupations_kind>');
+  out.push(`      <occupations_kind>${opts.occupationsKind ?? 'fixed'}</occupations_kind>`);
   const kc = kCartesianTwoPiOverAlat(bs, alat);
   const nb = bs.nBands * bs.nSpin;
   for (let k = 0; k < bs.nk; k++) {

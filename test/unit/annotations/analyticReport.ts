@@ -16,7 +16,7 @@ export function analyticReport(): Report {
     dosMass: Math.abs(mass), conductivityMass: Math.abs(mass), warnings: [],
   });
   return {
-    file: 'run/EIGENVAL', format: 'vasp-eigenval', nk: TINY.nk, nbands: TINY.nBands, nspin: 1, electrons: TINY.electrons, metal: false,
+    file: 'run/EIGENVAL', format: 'vasp-eigenval', nk: TINY.nk, nbands: TINY.nBands, nspin: 1, electrons: TINY.electrons, metal: false, semimetal: false, fermi_eV: null, classificationReason: '', spinors: false,
     gap: { eV: TINY.gap_eV, direct: true, vbm: at(1, 0), cbm: at(2, TINY.gap_eV), directGap: { eV: TINY.gap_eV, k: [0, 0, 0] } },
     extrema: [extremum('cbm', 2, TINY.gap_eV, mc), extremum('vbm', 1, 0, mv)],
     warnings: [], cautions: ['Semilocal DFT (LDA/GGA) usually underestimates band gaps.'],

@@ -24,7 +24,7 @@ function report(extrema: ExtremumReport[]): Report {
     cbm: { band: cbm.band, spin: 0, k: cbm.k, eV: cbm.eV, label: cbm.label },
     directGap: { eV: 3, k: [0, 0, 0] },
   };
-  return { file: 'x', format: 'test', nk: 1, nbands: 8, nspin: 1, electrons: 8, metal: false, gap, extrema, warnings: [], cautions: [] };
+  return { file: 'x', format: 'test', nk: 1, nbands: 8, nspin: 1, electrons: 8, metal: false, semimetal: false, fermi_eV: null, classificationReason: '', spinors: false, gap, extrema, warnings: [], cautions: [] };
 }
 
 const G: Vec3 = [0, 0, 0];

@@ -136,7 +136,7 @@ describe('round trips through every layout (model → file → reader → analys
     writeFileSync(poscar, 'model\n1.0\n4 0 0\n0 5 0\n0 0 6\nXx\n1\nDirect\n0 0 0\n');
     const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
     // No electron count in bands.x output: the gap needs the XML; here the CLI must still run and say so.
-    const code = await main(['analyze', join(dir, 'bands.out'), '--alat', '4', '--structure', poscar, '--json'], io);
+    const code = await main(['analyze', join(dir, 'bands.out'), '--alat', '4A', '--structure', poscar, '--json'], io);
     assert.equal(code, 0, io.stderr);
     const r = JSON.parse(io.stdout);
     assert.equal(r.format, 'qe-bands');

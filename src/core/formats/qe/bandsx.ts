@@ -12,7 +12,7 @@
  * lattice come from the pw.x XML data file beside it, or from the caller (--alat, --structure). One spin
  * channel per file (bands.x writes spin-polarised runs one channel at a time).
  */
-import type { BandStructure, InputWarning, Mat3, SourceFile, Structure, Vec3 } from '../../model';
+import type { BandStructure, ElectronicMethod, InputWarning, Mat3, SourceFile, Structure, Vec3 } from '../../model';
 import type { InputFile } from '../../io/fileAccessor';
 import { basename } from '../../io/fileAccessor';
 import type { FormatReader, ReadOptions } from '../types';
@@ -20,7 +20,7 @@ import { sha256Hex } from '../../hash';
 import { CancelledError, ReaderError } from '../../errors';
 import { checkAnnouncedCount } from '../announcedCount';
 import { TextScanner, decodeText } from '../textScanner';
-import { detectQeXml, readQeXml, type QeXmlData } from './qeXml';
+import { detectQeXml, qeMethod, readQeXml, type QeXmlData } from './qeXml';
 import { det3, norm } from '../../lattice/linalg';
 
 export const BANDSX_FORMAT = 'qe-bands';
@@ -272,7 +272,9 @@ export const bandsxReader: FormatReader = {
     let electrons: number | null = null;
     let fermiEnergy: number | null = null;
     let spinorbit = options.spinorbit ?? false;
+    let method: ElectronicMethod | undefined;
     if (xml) {
+      method = qeMethod(xml.functional, xml.hybrid);
       if (xml.nBands < data.nBands) {
         warnings.push({ code: 'xml-band-count', message: `The data file lists ${xml.nBands} bands, the band file ${data.nBands}: the data file may belong to another run.` });
       }
@@ -308,6 +310,8 @@ export const bandsxReader: FormatReader = {
       fermiEnergy,
       electrons,
       spinorbit,
+      ...(method ? { method } : {}),
+      ...(xml?.fermiSource ? { fermiSource: xml.fermiSource } : {}),
       labels: [],
       sampling: 'path',
       grid: null,

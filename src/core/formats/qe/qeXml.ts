@@ -28,7 +28,7 @@
  *
  * With lsda the eigenvalues of one k-point hold the spin-up bands, then the spin-down bands.
  */
-import type { BandStructure, InputWarning, Mat3, SourceFile, Structure, Vec3 } from '../../model';
+import type { BandStructure, ElectronicMethod, InputWarning, Mat3, SourceFile, Structure, Vec3 } from '../../model';
 import type { InputFile } from '../../io/fileAccessor';
 import type { FormatReader, ReadOptions } from '../types';
 import { sha256Hex } from '../../hash';
@@ -68,6 +68,8 @@ export interface QeXmlData {
   fermiEnergy: number | null;
   /** How the energy reference was given: 'fermi_energy', 'highestOccupiedLevel', 'two_fermi_energies', or null. */
   fermiSource: string | null;
+  /** Spin up and down Fermi energies (eV) from <two_fermi_energies>. */
+  twoFermi: [number, number] | null;
   lsda: boolean;
   noncolin: boolean;
   spinorbit: boolean;
@@ -78,6 +80,27 @@ export interface QeXmlData {
   complete: boolean;
   /** True when pw.x generated the k-points as a Monkhorst-Pack mesh (then they sample a grid, not a path). */
   meshSampling: boolean;
+  /** The exchange-correlation functional pw.x names in <dft><functional>, and whether a <hybrid> block follows. */
+  functional: string | null;
+  hybrid: boolean;
+  /** <lowestUnoccupiedLevel> (eV) when pw.x wrote it (fixed occupations with empty bands). */
+  lowestUnoccupied: number | null;
+  /** <occupations_kind>: 'fixed', 'smearing', 'tetrahedra', ... as written. */
+  occupationsKind: string | null;
+}
+
+/** Functionals pw.x names, by family (common practice: the names of the QE input keyword input_dft). */
+const SEMILOCAL_FUNCTIONALS = /^(PZ|LDA|SLA-PZ|SLA-PW|PW|VWN|PBE|PBESOL|REVPBE|RPBE|PW91|BLYP|BP|PBC|WC|Q2D|OPTBK88|OPTB86B|VDW-DF.*|REV-VDW-DF2|RVV10|SCAN|R2SCAN|TPSS|M06L|SOGGA|HCTH|OLYP|KZK|XC-.*)$/i;
+const HYBRID_FUNCTIONALS = /^(PBE0|HSE|GAUPBE|B3LYP.*|X3LYP|HF|B86BPBEX|BHAHLYP|PBE0-.*|SCAN0|VDW-DF-CX0.*|VDW-DF2-0|EXX.*)$/i;
+
+/** The method family of a pw.x run from its functional name and whether exact exchange was used. */
+export function qeMethod(functional: string | null, hybrid: boolean): ElectronicMethod {
+  const name = functional?.trim() || null;
+  if (hybrid || (name && HYBRID_FUNCTIONALS.test(name))) {
+    return { family: 'hybrid', name, evidence: hybrid ? 'the data file has a <hybrid> block (exact exchange)' : `the data file names the functional ${name}` };
+  }
+  if (name && SEMILOCAL_FUNCTIONALS.test(name)) return { family: 'semilocal', name, evidence: `the data file names the functional ${name}` };
+  return { family: 'unknown', name, evidence: name ? `the data file names the functional ${name}, not recognised as semilocal or hybrid` : 'the data file names no functional' };
 }
 
 interface AtomicStructureDraft {
@@ -119,6 +142,8 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
   let rootSeen = false;
   let currentLine = 1;
   let meshSampling = false;
+  let functional: string | null = null;
+  let hybrid = false;
 
   const numbersOf = (what: string, expected: number, lineNo: number): number[] => {
     const out: number[] = [];
@@ -163,6 +188,8 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
           symTranslation = [0, 0, 0];
         } else if (name === 'info' && parent === 'symmetry') {
           symInfo = attrs.name ?? '';
+        } else if (name === 'hybrid' && parent === 'dft') {
+          hybrid = true;
         } else if (name === 'monkhorst_pack' && parent === 'starting_k_points' && section(path) === 'output') {
           meshSampling = true;
         } else if (name === 'ks_energies') {
@@ -191,6 +218,8 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
         } else if (draft && parent === 'cell' && /^a[123]$/.test(name)) {
           const v = numbersOf(`the lattice vector ${name}`, 3, line);
           draft.cell[Number(name[1]) - 1] = [v[0]!, v[1]!, v[2]!];
+        } else if (name === 'functional' && parent === 'dft') {
+          if (functional === null || sec === 'output') functional = text.trim();
         } else if (name === 'atomic_structure') {
           if (draft && draftSection) structures[draftSection] = draft;
           draft = null;
@@ -322,6 +351,7 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
   }
   let fermiEnergy: number | null = null;
   let fermiSource: string | null = null;
+  let twoFermi: [number, number] | null = null;
   const ef = num('fermi_energy');
   const homo = num('highestOccupiedLevel');
   const two = flags.get('two_fermi_energies');
@@ -337,6 +367,7 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
     if (r.bad === null && r.count === 2) {
       fermiEnergy = hartreeToEv(Math.max(out[0]!, out[1]!));
       fermiSource = 'two_fermi_energies';
+      twoFermi = [hartreeToEv(out[0]!), hartreeToEv(out[1]!)];
     }
   }
   return {
@@ -354,6 +385,7 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
     electrons: num('nelec'),
     fermiEnergy,
     fermiSource,
+    twoFermi,
     lsda,
     noncolin,
     spinorbit,
@@ -361,6 +393,10 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
     announcedK,
     complete: outcome.complete,
     meshSampling,
+    functional,
+    hybrid,
+    lowestUnoccupied: num('lowestUnoccupiedLevel') === null ? null : hartreeToEv(num('lowestUnoccupiedLevel')!),
+    occupationsKind: flags.get('occupations_kind') ?? null,
   };
 }
 
@@ -423,6 +459,9 @@ export function qeXmlToBandStructure(data: QeXmlData, main: InputFile, options: 
   if (data.fermiSource === 'highestOccupiedLevel') {
     warnings.push({ code: 'fermi-is-homo', message: 'pw.x gives the highest occupied level (fixed occupations), used as the energy reference.' });
   }
+  if (data.fermiSource === 'two_fermi_energies') {
+    warnings.push({ code: 'two-fermi', message: 'pw.x gives one Fermi energy per spin channel (fixed magnetisation): each channel is classified at its own, and the higher one is the energy reference.' });
+  }
   if (data.noncolin && !data.spinorbit) {
     warnings.push({ code: 'noncollinear', message: 'Non-collinear run without spin-orbit coupling: each band holds one electron.' });
   }
@@ -440,6 +479,9 @@ export function qeXmlToBandStructure(data: QeXmlData, main: InputFile, options: 
     fermiEnergy: data.fermiEnergy,
     electrons: data.electrons,
     spinorbit: options.spinorbit ?? (data.noncolin || data.spinorbit),
+    method: qeMethod(data.functional, data.hybrid),
+    ...(data.fermiSource ? { fermiSource: data.fermiSource } : {}),
+    ...(data.twoFermi && data.nSpin === 2 ? { fermiEnergies: data.twoFermi } : {}),
     labels: [],
     sampling: data.meshSampling ? 'grid' : 'points',
     grid: null,
