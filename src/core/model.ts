@@ -61,6 +61,14 @@ export interface KGrid {
 
 export type OccupationArray = Float32Array | Float64Array;
 
+export type MethodFamily = 'semilocal' | 'hybrid' | 'gw' | 'model' | 'unknown';
+/** How the energies were computed, as far as the files say. */
+export interface ElectronicMethod {
+  family: MethodFamily;
+  name: string | null;
+  evidence: string;
+}
+
 export interface BandStructure {
   source: BandSource;
   /** Real-space lattice rows in Å, when known. */
@@ -86,6 +94,8 @@ export interface BandStructure {
   electrons: number | null;
   /** Non-collinear / spin-orbit run: one electron per band. */
   spinorbit: boolean;
+  /** How the energies were computed, as far as the files say (absent: the reader does not tell). */
+  method?: ElectronicMethod;
   labels: KLabel[];
   /** 'path' for line-mode runs, 'grid' for uniform meshes, 'points' when unknown. */
   sampling: 'path' | 'grid' | 'points';
