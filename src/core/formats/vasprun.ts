@@ -345,7 +345,8 @@ export class VasprunStream {
           `the parameters say NBANDS = ${nbands}${ispin === 2 ? ' and ISPIN = 2' : ''} for ${nk} k-points: ${rows} eigenvalue rows, more than a file of ${this.sizeHint} bytes can hold (at least ${MIN_ROW_BYTES} bytes each)`,
         );
       }
-      guess = rows;
+      // Without the file size, the header is trusted only up to a modest start; the buffers grow with the data.
+      guess = this.sizeHint !== null ? rows : Math.min(rows, 1 << 20);
     } else if (this.sizeHint !== null) guess = Math.min(guess, Math.floor(this.sizeHint / MIN_ROW_BYTES) + 1);
     this.eig = {
       energies: new DoubleBuffer(guess),
@@ -688,6 +689,7 @@ export function vasprunToBandStructure(data: VasprunData & { sha256: string }, m
     fermiEnergy: data.fermiEnergy,
     electrons: data.electrons,
     spinorbit,
+    method: data.method,
     labels: labelList,
     sampling,
     grid: null,
