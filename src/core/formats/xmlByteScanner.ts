@@ -106,6 +106,19 @@ export class XmlByteScanner {
     return new ReaderError(this.format, this.fileName, { line, column: Math.max(1, column) }, reason);
   }
 
+  /** An error at buf[at], where the line count is valid at buf[from] (at >= from). */
+  private failIn(buf: Uint8Array, from: number, at: number, reason: string): ReaderError {
+    let line = this.line;
+    let start = this.lineStart;
+    for (let i = from; i < at; i++) {
+      if (buf[i] === NL) {
+        line++;
+        start = this.base + i + 1;
+      }
+    }
+    return this.fail(reason, line, this.base + at - start + 1);
+  }
+
   /** Advance the line count over buf[from, to). */
   countLines(buf: Uint8Array, from: number, to: number): void {
     for (let i = from; i < to; i++) {
@@ -299,20 +312,16 @@ export class XmlByteScanner {
       if (amp >= pos && indexIn(buf, 59 /* ; */, amp, end) < 0 && end - amp < 16) stop = amp;
     }
     if (stop === pos) return -1;
-    let blank = true;
-    for (let i = pos; i < stop; i++) {
-      if (!isWs(buf[i]!)) {
-        blank = false;
-        break;
-      }
-    }
+    let first = pos;
+    while (first < stop && isWs(buf[first]!)) first++;
+    const blank = first === stop;
     const depth = this.stack.length;
     if (!blank) {
-      if (depth === 0) throw this.fail('text outside the root element');
+      if (depth === 0) throw this.failIn(buf, pos, first, 'text outside the root element');
       const state = this.content[depth - 1]!;
       if (state === 1) {
-        const shown = this.decode(buf, pos, Math.min(stop, pos + 60)).trim().slice(0, 20);
-        throw this.fail(`unexpected text "${shown}…" between the elements of <${this.stack[depth - 1]}>`);
+        const shown = this.decode(buf, first, Math.min(stop, first + 20)).trim();
+        throw this.failIn(buf, pos, first, `unexpected text "${shown}…" between the elements of <${this.stack[depth - 1]}>`);
       }
       this.content[depth - 1] = 2;
       if (this.collecting) this.collect(buf, pos, stop);
@@ -327,14 +336,14 @@ export class XmlByteScanner {
     let i = indexIn(buf, AMP, from, to);
     while (i >= 0) {
       const semi = indexIn(buf, 59, i, to);
-      if (semi < 0 || semi - i > 12) throw this.fail('the XML is malformed: a "&" that starts no entity reference');
-      this.entity(buf, i + 1, semi);
+      if (semi < 0 || semi - i > 12) throw this.failIn(buf, from, i, 'the XML is malformed: a "&" that starts no entity reference');
+      this.entity(buf, i + 1, semi, from);
       i = indexIn(buf, AMP, semi, to);
     }
   }
 
   /** The character an entity reference `&name;` stands for (buf[from, to) is the name). */
-  private entity(buf: Uint8Array, from: number, to: number): number {
+  private entity(buf: Uint8Array, from: number, to: number, runStart = from): number {
     const s = this.decode(buf, from, to);
     switch (s) {
       case 'lt':
@@ -353,7 +362,7 @@ export class XmlByteScanner {
           const v = m[1] ? parseInt(m[1], 16) : parseInt(m[2]!, 10);
           if (v > 0 && v <= 0x10ffff) return v;
         }
-        throw this.fail(`the XML is malformed: undefined entity "&${s.slice(0, 12)};" (Valleyscope expands no entities beyond the five predefined ones)`);
+        throw this.failIn(buf, runStart, from - 1, `the XML is malformed: undefined entity "&${s.slice(0, 12)};" (Valleyscope expands no entities beyond the five predefined ones)`);
       }
     }
   }
@@ -379,8 +388,8 @@ export class XmlByteScanner {
         continue;
       }
       const semi = indexIn(buf, 59, i, to);
-      if (semi < 0 || semi - i > 12) throw this.fail('the XML is malformed: a "&" that starts no entity reference');
-      const v = this.entity(buf, i + 1, semi);
+      if (semi < 0 || semi - i > 12) throw this.failIn(buf, from, i, 'the XML is malformed: a "&" that starts no entity reference');
+      const v = this.entity(buf, i + 1, semi, from);
       // Numbers and names only need ASCII; other characters are kept as '?'.
       this.textBuf[this.textLen++] = v < 0x80 ? v : 63;
       i = semi;
