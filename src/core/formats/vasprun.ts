@@ -1,7 +1,8 @@
 /**
- * vasprun.xml: VASP's full record of a run, read with a streaming XML parser (never a DOM), keeping only
+ * vasprun.xml: VASP's full record of a run, scanned from the bytes in pieces (never a DOM), keeping only
  * what a band structure needs: the final structure, the k-points (and the line-mode generation ends), the
- * eigenvalues and occupations per spin of the last ionic step, the Fermi energy, NELECT, ISPIN, LSORBIT.
+ * eigenvalues and occupations per spin of the last ionic step, the Fermi energy, NELECT, ISPIN, LSORBIT /
+ * LNONCOLLINEAR (spinor run), and the tags that name the method (vasp/vaspMethod.ts).
  * Memory held is the eigenvalue arrays, not the file. Layout (as VASP writes it):
  *
  *   <modeling>
@@ -32,7 +33,6 @@ import { createSha256, sha256Hex } from '../hash';
 import { CancelledError, ReaderError } from '../errors';
 import { parseDecimal, scanDecimalBytes } from './decimal';
 import { XmlByteScanner, type RowReader } from './xmlByteScanner';
-import { POW10 } from './textScanner';
 import { vaspLogical } from './vasp/incar';
 import { vaspMethod } from './vasp/vaspMethod';
 import { readKpoints } from './vasp/kpoints';
@@ -85,6 +85,9 @@ export interface VasprunData {
   /** Ionic steps whose eigenvalues were seen; the last complete one is kept. */
   steps: number;
 }
+
+/** Exact powers of ten as doubles (10^0 .. 10^15), local to the row loop. */
+const POW10 = new Float64Array([1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15]);
 
 /** Fewest bytes one eigenvalue row can take (`<r>1</r>`): bounds what a header's NBANDS may claim. */
 const MIN_ROW_BYTES = 8;

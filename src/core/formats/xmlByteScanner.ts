@@ -523,9 +523,11 @@ export class XmlByteScanner {
       if (qc !== 34 && qc !== 39) throw this.fail(`the XML is malformed: the value of attribute "${aname}" of <${name}> is not quoted`);
       const close = indexIn(buf, qc, e + 1, stop);
       if (close < 0) throw this.fail(`the XML is malformed: the value of attribute "${aname}" of <${name}> is not closed`);
-      attrs ??= Object.create(null) as Record<string, string>;
-      if (aname in attrs) throw this.fail(`the XML is malformed: attribute "${aname}" appears twice in <${name}>`);
-      attrs[aname] = this.attrValue(buf, e + 1, close);
+      attrs ??= {};
+      if (Object.hasOwn(attrs, aname)) throw this.fail(`the XML is malformed: attribute "${aname}" appears twice in <${name}>`);
+      // A plain object: an attribute named like an Object.prototype member is kept as an own property;
+      // "__proto__" is not a name any layout uses and is skipped.
+      if (aname !== '__proto__') attrs[aname] = this.attrValue(buf, e + 1, close);
       p = close + 1;
     }
     const depth = this.stack.length;
