@@ -24,6 +24,8 @@ async function main(): Promise<void> {
   await ensureSymmetryReady();
   const rssBefore = process.memoryUsage().rss;
   const t0 = performance.now();
+  // CPU time of this process (user + system, all threads): less disturbed than wall time by other load.
+  const cpu0 = process.cpuUsage();
   let count = 0;
   if (task === 'read-valleyscope') {
     const bs = await loadRun(nodeFileAccessor, a1!);
@@ -59,7 +61,9 @@ async function main(): Promise<void> {
     return;
   } else throw new Error(`unknown task ${task}`);
   const ms = performance.now() - t0;
-  console.log(JSON.stringify({ ms, rssBeforeMB: rssBefore / 2 ** 20, maxRssMB: process.resourceUsage().maxRSS / 1024, count }));
+  const cpu = process.cpuUsage(cpu0);
+  const cpuMs = (cpu.user + cpu.system) / 1000;
+  console.log(JSON.stringify({ ms, cpuMs, rssBeforeMB: rssBefore / 2 ** 20, maxRssMB: process.resourceUsage().maxRSS / 1024, count }));
 }
 
 /** A diamond-like crystal's path with cosine bands: nk points along Γ–X–W–L–Γ, nb bands, a gap in the middle. */

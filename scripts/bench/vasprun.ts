@@ -80,7 +80,7 @@ function generate(): void {
   closeSync(fj);
 }
 
-function measure(task: string, file: string): { ms: number; rssBeforeMB: number; maxRssMB: number; count: number } | null {
+function measure(task: string, file: string): { ms: number; cpuMs: number; rssBeforeMB: number; maxRssMB: number; count: number } | null {
   const r = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/bench/measure.ts', task, file], { encoding: 'utf8', maxBuffer: 1 << 26 });
   if (r.status !== 0) {
     console.log(`  ${task}: failed (${(r.stderr || '').trim().split('\n').slice(-1)[0]})`);
@@ -109,6 +109,8 @@ for (const [k, b] of small ? [[1000, 520], [4000, 40]] : [[11200, 520], [20000, 
   console.log(`  JSON.parse, same energies as one array (${fmt(statSync(json).size / MB, 0)} MiB)  ${fmt(jp.ms, 0)} ms  (${fmt((jp.ms * 1e6) / jp.count, 1)} ns per energy)`);
   console.log(`  newline count over the same XML (I/O floor)  ${fmt(nl.ms, 0)} ms`);
   console.log(`  ratio reader / JSON.parse (time per energy): ${fmt(ratio)}   (goal ≤ ${TIME_GOAL}: ${ratio <= TIME_GOAL ? 'met' : 'NOT met'})`);
+  const cpuRatio = ours.cpuMs / ours.count / (jp.cpuMs / jp.count);
+  console.log(`  the same ratio in CPU time (less disturbed by other load): ${fmt(cpuRatio)}   (reader ${fmt(ours.cpuMs, 0)} ms, JSON.parse ${fmt(jp.cpuMs, 0)} ms)`);
   console.log(`  ratio reader / newline count (same file):    ${fmt(ours.ms / nl.ms)}`);
   const peak = ours.maxRssMB - ours.rssBeforeMB;
   const mem = (peak * MB) / size;

@@ -92,6 +92,71 @@ const POW10 = new Float64Array([1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9
 /** Fewest bytes one eigenvalue row can take (`<r>1</r>`): bounds what a header's NBANDS may claim. */
 const MIN_ROW_BYTES = 8;
 
+/** The numbers of the last row read by simpleRow. */
+const ROW = new Float64Array(3);
+
+/** Skip blanks from buf[p], counting newlines into the scanner; the position of the first other byte. */
+function skipBlanks(sc: XmlByteScanner, buf: Uint8Array, p: number, end: number): number {
+  let lines = 0;
+  let last = -1;
+  while (p < end) {
+    const c = buf[p]!;
+    if (c === 32 || c === 9 || c === 13) p++;
+    else if (c === 10) {
+      lines++;
+      last = p;
+      p++;
+    } else break;
+  }
+  if (lines > 0) sc.newlines(lines, last);
+  return p;
+}
+
+/**
+ * One simple row at buf[p]: `<tag>`, `n` plain decimals (sign, digits, point, digits: at most 15 digits) on
+ * one line, `</tag>`. Returns the position after it with the numbers in ROW, or -1 for anything else or a row
+ * not complete in the piece (the general path then reads it and words any error).
+ */
+function simpleRow(buf: Uint8Array, p: number, end: number, tag: number, n: number): number {
+  if (p + 3 >= end || buf[p] !== 60 || buf[p + 1] !== tag || buf[p + 2] !== 62) return -1;
+  let q = p + 3;
+  let c = 0;
+  for (let j = 0; j < n; j++) {
+    const s = q;
+    while (q < end && ((c = buf[q]!) === 32 || c === 9)) q++;
+    if (q === s && j > 0) return -1;
+    let neg = false;
+    if (c === 45) {
+      neg = true;
+      q++;
+    }
+    let m = 0;
+    let nd = 0;
+    let frac = 0;
+    let d = 0;
+    while (q < end && (d = buf[q]! - 48) >= 0 && d <= 9) {
+      m = m * 10 + d;
+      q++;
+      nd++;
+    }
+    if (q < end && buf[q] === 46) {
+      q++;
+      while (q < end && (d = buf[q]! - 48) >= 0 && d <= 9) {
+        m = m * 10 + d;
+        q++;
+        frac++;
+      }
+    }
+    c = q < end ? buf[q]! : 0;
+    if (nd + frac === 0 || nd + frac > 15 || !(c === 32 || c === 9 || c === 60)) return -1;
+    const v = frac === 0 ? m : m / POW10[frac]!;
+    ROW[j] = neg ? -v : v;
+  }
+  while (q < end && ((c = buf[q]!) === 32 || c === 9)) q++;
+  if (q + 3 >= end || c !== 60 || buf[q + 1] !== 47 || buf[q + 2] !== tag || buf[q + 3] !== 62) return -1;
+  return q + 4;
+}
+
 /**
  * A vasprun.xml reader fed piece by piece: the benchmark and large-file paths stream a file through it
  * without holding the file in memory. The bytes are scanned directly (XmlByteScanner); the eigenvalue rows,
@@ -125,6 +190,7 @@ export class VasprunStream {
   /** Scratch for one row of numbers. */
   private readonly row = new Float64Array(3);
   private readonly rowReader: RowReader;
+  private readonly kpointRowReader: RowReader;
 
   /** `sizeHint`: the file's size in bytes when known (header counts are checked against it). */
   constructor(
@@ -136,6 +202,7 @@ export class VasprunStream {
       close: (name, depth, text, length) => this.close(name, depth, text, length),
     });
     this.rowReader = (sc, buf, pos, end) => this.fastRows(sc, buf, pos, end);
+    this.kpointRowReader = (sc, buf, pos, end) => this.fastKpointRows(sc, buf, pos, end);
   }
 
   write(bytes: Uint8Array, last = false): void {
@@ -188,72 +255,42 @@ export class VasprunStream {
     if (cols < 1) return pos;
     const energies = e.energies;
     const occupations = e.occupations;
-    let p = pos;
     let rows = 0;
-    let lines = 0;
-    let lastNewline = -1;
-    let v0 = 0;
-    let v1 = 0;
     for (;;) {
-      let c = 0;
-      while (p < end) {
-        c = buf[p]!;
-        if (c === 32 || c === 9 || c === 13) p++;
-        else if (c === 10) {
-          lines++;
-          lastNewline = p;
-          p++;
-        } else break;
-      }
-      pos = p;
-      if (p + 3 >= end || c !== 60 || buf[p + 1] !== 114 || buf[p + 2] !== 62) break;
-      let q = p + 3;
-      let j = 0;
-      for (; j < cols; j++) {
-        const s = q;
-        while (q < end && ((c = buf[q]!) === 32 || c === 9)) q++;
-        if (q === s && j > 0) break;
-        let neg = false;
-        if (c === 45) {
-          neg = true;
-          q++;
-        }
-        let m = 0;
-        let nd = 0;
-        let frac = 0;
-        let d = 0;
-        while (q < end && (d = buf[q]! - 48) >= 0 && d <= 9) {
-          m = m * 10 + d;
-          q++;
-          nd++;
-        }
-        if (q < end && buf[q] === 46) {
-          q++;
-          while (q < end && (d = buf[q]! - 48) >= 0 && d <= 9) {
-            m = m * 10 + d;
-            q++;
-            frac++;
-          }
-        }
-        c = q < end ? buf[q]! : 0;
-        if (nd + frac === 0 || nd + frac > 15 || !(c === 32 || c === 9 || c === 60)) break;
-        const v = frac === 0 ? m : m / POW10[frac]!;
-        if (j === 0) v0 = neg ? -v : v;
-        else if (j === 1) v1 = neg ? -v : v;
-      }
-      if (j < cols) break;
-      while (q < end && ((c = buf[q]!) === 32 || c === 9)) q++;
-      if (q + 3 >= end || c !== 60 || buf[q + 1] !== 47 || buf[q + 2] !== 114 || buf[q + 3] !== 62) break;
-      energies.push(v0);
-      if (cols >= 2) occupations.push(v1);
+      pos = skipBlanks(sc, buf, pos, end);
+      const next = simpleRow(buf, pos, end, 114 /* r */, cols);
+      if (next < 0) break;
+      energies.push(ROW[0]!);
+      if (cols >= 2) occupations.push(ROW[1]!);
       rows++;
-      p = q + 4;
+      pos = next;
     }
-    if (lines > 0) sc.newlines(lines, lastNewline);
     if (rows > 0) {
       e.rowsInSet += rows;
       sc.markChild();
     }
+    return pos;
+  }
+
+  /** The k-point list and its weights (`<v>` rows of 3 and of 1 numbers) straight from the bytes, likewise. */
+  private fastKpointRows(sc: XmlByteScanner, buf: Uint8Array, pos: number, end: number): number {
+    const weights = this.varrayName === 'weights';
+    const list = weights ? this.weightList : this.kpointList;
+    const cols = weights ? 1 : 3;
+    let rows = 0;
+    for (;;) {
+      pos = skipBlanks(sc, buf, pos, end);
+      const next = simpleRow(buf, pos, end, 118 /* v */, cols);
+      if (next < 0) break;
+      list.push(ROW[0]!);
+      if (!weights) {
+        list.push(ROW[1]!);
+        list.push(ROW[2]!);
+      }
+      rows++;
+      pos = next;
+    }
+    if (rows > 0) sc.markChild();
     return pos;
   }
 
@@ -300,6 +337,9 @@ export class VasprunStream {
         return false;
       case 'varray':
         this.varrayName = attrs?.name ?? null;
+        if (depth === 3 && !this.kpointsDone && sc.ancestor(1) === 'kpoints' && (this.varrayName === 'kpointlist' || this.varrayName === 'weights')) {
+          sc.setRows(this.kpointRowReader);
+        }
         return false;
       case 'incar':
         if (depth === 2) this.inIncar = true;
@@ -455,7 +495,10 @@ export class VasprunStream {
         return;
       }
       case 'varray':
-        if (this.varrayName === 'weights' && depth === 3 && sc.ancestor(1) === 'kpoints') this.kpointsDone = true;
+        if (depth === 3 && sc.ancestor(1) === 'kpoints') {
+          sc.setRows(null);
+          if (this.varrayName === 'weights') this.kpointsDone = true;
+        }
         this.varrayName = null;
         return;
       case 'generation':
