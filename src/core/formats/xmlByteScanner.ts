@@ -10,13 +10,10 @@
  * Feed bytes in pieces with `write`, then `finish`.
  */
 import { ReaderError } from '../errors';
-import { MAX_XML_DEPTH } from './xmlSafety';
+import { DOCTYPE_REFUSED, MAX_XML_DEPTH } from './xmlSafety';
 
 /** Longest single construct (a tag, a comment, a collected text) accepted. */
 export const MAX_CONSTRUCT_BYTES = 1 << 20;
-
-export const DOCTYPE_REFUSED =
-  'the XML declares a document type (<!DOCTYPE ...>); Valleyscope refuses it, because document type declarations can pull in external files or expand entities without bound, and the codes it reads never write one';
 
 export interface XmlByteEvents {
   /** An element opens. `depth` counts the root as 1. Return true to receive its text (see `text`). */

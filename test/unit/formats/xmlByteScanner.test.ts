@@ -199,4 +199,21 @@ describe('vasprun.xml rows: the fast path and the general path agree', () => {
       (e: unknown) => e instanceof ReaderError && /holds 3 numbers where the rows before hold 2/.test(e.reason) && e.line === text.slice(0, at).split('\n').length,
     );
   });
+  it('a damaged k-point or weight is named with its line (the k-point list has a fast path too)', () => {
+    const text = writeVasprun(collinearModel());
+    const list = text.indexOf('name="kpointlist"');
+    const at = text.indexOf('<v>', list);
+    const fifth = text.indexOf('<v>', text.indexOf('<v>', text.indexOf('<v>', text.indexOf('<v>', at + 1) + 1) + 1) + 1);
+    const bad = `${text.slice(0, fifth)}<v> 0.1 0.2 </v>${text.slice(text.indexOf('</v>', fifth) + 4)}`;
+    assert.throws(
+      () => vasprunReader.read({ path: 'vasprun.xml', bytes: enc(bad) }, [], {}),
+      (e: unknown) => e instanceof ReaderError && /k-point 5 should hold 3 numbers, found 2/.test(e.reason) && e.line === text.slice(0, fifth).split('\n').length,
+    );
+    const w = text.indexOf('<v>', text.indexOf('name="weights"'));
+    const badW = `${text.slice(0, w)}<v> NaN </v>${text.slice(text.indexOf('</v>', w) + 4)}`;
+    assert.throws(
+      () => vasprunReader.read({ path: 'vasprun.xml', bytes: enc(badW) }, [], {}),
+      (e: unknown) => e instanceof ReaderError && /the weight of k-point 1 should be a number, found "NaN"/.test(e.reason) && e.line === text.slice(0, w).split('\n').length,
+    );
+  });
 });
