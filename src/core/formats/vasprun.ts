@@ -95,20 +95,21 @@ const MIN_ROW_BYTES = 8;
 /** The numbers of the last row read by simpleRow. */
 const ROW = new Float64Array(3);
 
-/** Skip blanks from buf[p], counting newlines into the scanner; the position of the first other byte. */
-function skipBlanks(sc: XmlByteScanner, buf: Uint8Array, p: number, end: number): number {
-  let lines = 0;
-  let last = -1;
+/** Newlines skipped by skipBlanks since the row reader started, and the offset of the last one. */
+let newlineCount = 0;
+let lastNewline = -1;
+
+/** Skip blanks from buf[p], counting newlines (newlineCount, lastNewline); the position of the first other byte. */
+function skipBlanks(buf: Uint8Array, p: number, end: number): number {
   while (p < end) {
     const c = buf[p]!;
     if (c === 32 || c === 9 || c === 13) p++;
     else if (c === 10) {
-      lines++;
-      last = p;
+      newlineCount++;
+      lastNewline = p;
       p++;
     } else break;
   }
-  if (lines > 0) sc.newlines(lines, last);
   return p;
 }
 
@@ -256,8 +257,9 @@ export class VasprunStream {
     const energies = e.energies;
     const occupations = e.occupations;
     let rows = 0;
+    newlineCount = 0;
     for (;;) {
-      pos = skipBlanks(sc, buf, pos, end);
+      pos = skipBlanks(buf, pos, end);
       const next = simpleRow(buf, pos, end, 114 /* r */, cols);
       if (next < 0) break;
       energies.push(ROW[0]!);
@@ -265,6 +267,7 @@ export class VasprunStream {
       rows++;
       pos = next;
     }
+    if (newlineCount > 0) sc.newlines(newlineCount, lastNewline);
     if (rows > 0) {
       e.rowsInSet += rows;
       sc.markChild();
@@ -278,8 +281,9 @@ export class VasprunStream {
     const list = weights ? this.weightList : this.kpointList;
     const cols = weights ? 1 : 3;
     let rows = 0;
+    newlineCount = 0;
     for (;;) {
-      pos = skipBlanks(sc, buf, pos, end);
+      pos = skipBlanks(buf, pos, end);
       const next = simpleRow(buf, pos, end, 118 /* v */, cols);
       if (next < 0) break;
       list.push(ROW[0]!);
@@ -290,6 +294,7 @@ export class VasprunStream {
       rows++;
       pos = next;
     }
+    if (newlineCount > 0) sc.newlines(newlineCount, lastNewline);
     if (rows > 0) sc.markChild();
     return pos;
   }
