@@ -113,6 +113,29 @@ function skipBlanks(buf: Uint8Array, p: number, end: number): number {
   return p;
 }
 
+const SET_BYTES = new Uint8Array([115, 101, 116]); // "set"
+const KPOINT_SET_OPEN = new TextEncoder().encode('<set comment="kpoint');
+
+/** Whether `</name>` (name as bytes) is at buf[p], complete in the piece. */
+function endTagAt(buf: Uint8Array, p: number, end: number, name: Uint8Array): boolean {
+  const n = name.length;
+  if (p + n + 2 >= end || buf[p] !== 60 || buf[p + 1] !== 47 || buf[p + n + 2] !== 62) return false;
+  for (let i = 0; i < n; i++) if (buf[p + 2 + i] !== name[i]) return false;
+  return true;
+}
+
+/** `<set comment="kpoint N">` at buf[p] (N digits and spaces only): the position after it, or -1. */
+function kpointSetAt(buf: Uint8Array, p: number, end: number): number {
+  const n = KPOINT_SET_OPEN.length;
+  if (p + n >= end) return -1;
+  for (let i = 0; i < n; i++) if (buf[p + i] !== KPOINT_SET_OPEN[i]) return -1;
+  let q = p + n;
+  let c = 0;
+  while (q < end && (((c = buf[q]!) >= 48 && c <= 57) || c === 32)) q++;
+  if (q + 1 >= end || c !== 34 || buf[q + 1] !== 62) return -1;
+  return q + 2;
+}
+
 /**
  * One simple row at buf[p]: `<tag>`, `n` plain decimals (sign, digits, point, digits: at most 15 digits) on
  * one line, `</tag>`. Returns the position after it with the numbers in ROW, or -1 for anything else or a row
@@ -256,22 +279,39 @@ export class VasprunStream {
     if (cols < 1) return pos;
     const energies = e.energies;
     const occupations = e.occupations;
-    let rows = 0;
     newlineCount = 0;
     for (;;) {
-      pos = skipBlanks(buf, pos, end);
-      const next = simpleRow(buf, pos, end, 114 /* r */, cols);
-      if (next < 0) break;
-      energies.push(ROW[0]!);
-      if (cols >= 2) occupations.push(ROW[1]!);
-      rows++;
+      let rows = 0;
+      for (;;) {
+        pos = skipBlanks(buf, pos, end);
+        const next = simpleRow(buf, pos, end, 114 /* r */, cols);
+        if (next < 0) break;
+        energies.push(ROW[0]!);
+        if (cols >= 2) occupations.push(ROW[1]!);
+        rows++;
+        pos = next;
+      }
+      if (rows > 0) {
+        e.rowsInSet += rows;
+        sc.markChild();
+      }
+      // The end of this k-point's set and the start of the next one, as VASP writes them, without the general
+      // path; anything else (a band count that differs, the end of the spin) is left to it.
+      if (!endTagAt(buf, pos, end, SET_BYTES) || e.rowsInSet === 0 || sc.ancestor(1) !== 'set') break;
+      if (e.bandsPerSet >= 0 && e.rowsInSet !== e.bandsPerSet) break;
+      if (e.bandsPerSet < 0) e.bandsPerSet = e.rowsInSet;
+      e.sets++;
+      e.rowsInSet = 0;
+      sc.leaveFast();
+      pos = skipBlanks(buf, pos + SET_BYTES.length + 3, end);
+      const next = kpointSetAt(buf, pos, end);
+      if (next < 0 || !sc.canEnterFast()) break;
+      sc.enterFast('set');
+      e.kInSpin++;
+      sc.setRows(this.rowReader);
       pos = next;
     }
     if (newlineCount > 0) sc.newlines(newlineCount, lastNewline);
-    if (rows > 0) {
-      e.rowsInSet += rows;
-      sc.markChild();
-    }
     return pos;
   }
 

@@ -138,6 +138,31 @@ export class XmlByteScanner {
     this.rowsDepth = this.stack.length;
   }
 
+  /**
+   * For row readers: the innermost element's end tag was consumed by the reader, which did what its close
+   * event would have done. Row reading stops (setRows again after `enterFast`).
+   */
+  leaveFast(): void {
+    this.stack.pop();
+    this.content.pop();
+    this.collecting = false;
+    this.textLen = 0;
+    this.rows = null;
+  }
+
+  /** For row readers: whether a child element may be opened by `enterFast` here. */
+  canEnterFast(): boolean {
+    const n = this.stack.length;
+    return n > 0 && n < MAX_XML_DEPTH && this.content[n - 1] !== 2;
+  }
+
+  /** For row readers: a child element was opened by the reader (its start tag consumed, its open event done). */
+  enterFast(name: string): void {
+    this.content[this.stack.length - 1] = 1;
+    this.stack.push(name);
+    this.content.push(0);
+  }
+
   /** For row readers: the innermost element has child elements (rows were read in it). */
   markChild(): void {
     const n = this.content.length;

@@ -216,4 +216,15 @@ describe('vasprun.xml rows: the fast path and the general path agree', () => {
       (e: unknown) => e instanceof ReaderError && /the weight of k-point 1 should be a number, found "NaN"/.test(e.reason) && e.line === text.slice(0, w).split('\n').length,
     );
   });
+  it('a k-point with a band missing is named, at the end of its set, whatever path read the sets before', () => {
+    const text = writeVasprun(spinPolarisedModel());
+    const spin2 = text.indexOf('<set comment="spin 2">');
+    const at = text.indexOf('<r>', text.indexOf('<set comment="kpoint 5">', spin2));
+    const bad = `${text.slice(0, at)}${text.slice(text.indexOf('</r>', at) + 4)}`;
+    const endOfSet = bad.indexOf('</set>', at);
+    assert.throws(
+      () => vasprunReader.read({ path: 'vasprun.xml', bytes: enc(bad) }, [], {}),
+      (e: unknown) => e instanceof ReaderError && /k-point 5 lists 2 bands where the k-points before list 3/.test(e.reason) && e.line === bad.slice(0, endOfSet).split('\n').length,
+    );
+  });
 });
