@@ -50,7 +50,7 @@ if (ours && jp && nl) {
   console.log(`  JSON.parse's peak memory for comparison: ${fmt(jpPeak, 0)} MiB (${fmt((jpPeak * MB) / size)} of the EIGENVAL size)`);
 }
 
-// 2. vasprun.xml through the streaming XML reader.
+// 2. vasprun.xml through the byte scanner (two shapes: many bands, many k-points).
 if (existsSync('scripts/bench/vasprun.ts')) {
   const r = spawnSync(process.execPath, [...tsx, 'scripts/bench/vasprun.ts', ...(small ? ['--small'] : [])], { stdio: 'inherit' });
   if (r.status !== 0) console.log('  vasprun benchmark failed');

@@ -21,6 +21,7 @@ import { FCC_STANDARD_PATH, STRAIN_DEMO_PATH, linePath, type LinePath, type Segm
 import { GALLIUM_ARSENIDE, GERMANIUM, SILICON, type EpmMaterial } from './epm/materials';
 import {
   insulatorOccupations,
+  modelSystemName,
   writeEigenval,
   writeExplicitKpoints,
   writeLineModeKpoints,
@@ -83,7 +84,7 @@ function lineModeRun(spec: RunSpec, energies: Float64Array): GeneratedFile[] {
   const m = spec.crystal.material;
   const nk = spec.path.kpoints.length / 3;
   const eigenval = writeEigenval({
-    system: spec.system,
+    system: modelSystemName(spec.system),
     nIons: 2,
     electrons: m.electrons,
     nBands: spec.nBands,
@@ -208,7 +209,7 @@ export function generateFixtures(): GeneratedFile[] {
   files.push({
     path: 'fixtures/epm/si-cbm-grid/EIGENVAL',
     content: writeEigenval({
-      system: `Si EPM grid around (0,${t0.toFixed(3)},0)2pi/a`,
+      system: modelSystemName(`Si EPM grid around (0,${t0.toFixed(3)},0)2pi/a`),
       nIons: 2,
       electrons: 8,
       nBands: FINE_BANDS,

@@ -3,12 +3,14 @@
  * { ms, rssBeforeMB, maxRssMB, count }.
  * Usage: tsx scripts/bench/measure.ts <task> <file> [args]
  *   read-valleyscope <file>     read through the core loader (streaming where the reader can)
+ *   read-only <file>            the reader alone, streamed through a ranged source (no companions, no label
+ *                               inference from the lattice): what a reader's own speed and memory goals are about
  *   json-parse <file.json>      read the file and JSON.parse it (the runtime's C++ number parser)
  *   newline-count <file>        read in 16 MiB chunks and count newlines (the I/O floor)
  *   analyze-path <nk> <nb>      full analysis of a synthetic path band structure (all extrema, fits, symmetry)
  */
 import { openSync, readSync, closeSync, readFileSync } from 'node:fs';
-import { loadRun } from '../../src/core/load';
+import { loadRun, locateRun } from '../../src/core/load';
 import { nodeFileAccessor } from '../../src/cli/nodeFileAccessor';
 import { analyzeBandStructure } from '../../src/core/analysis/analyze';
 import { ensureSymmetryReady } from '../../src/core/lattice/symmetry';
@@ -22,10 +24,21 @@ async function main(): Promise<void> {
   await ensureSymmetryReady();
   const rssBefore = process.memoryUsage().rss;
   const t0 = performance.now();
+  // CPU time of this process (user + system, all threads): less disturbed than wall time by other load.
+  const cpu0 = process.cpuUsage();
   let count = 0;
   if (task === 'read-valleyscope') {
     const bs = await loadRun(nodeFileAccessor, a1!);
     count = bs.nk * bs.nBands * bs.nSpin;
+  } else if (task === 'read-only') {
+    const loc = await locateRun(nodeFileAccessor, a1!);
+    const stream = nodeFileAccessor.openRanged!(loc.file);
+    try {
+      const bs = loc.reader.read({ path: loc.file, bytes: new Uint8Array(0), stream }, [], {});
+      count = bs.nk * bs.nBands * bs.nSpin;
+    } finally {
+      stream.close();
+    }
   } else if (task === 'json-parse') {
     const arr = JSON.parse(readFileSync(a1!, 'utf8')) as number[];
     count = arr.length;
@@ -48,7 +61,9 @@ async function main(): Promise<void> {
     return;
   } else throw new Error(`unknown task ${task}`);
   const ms = performance.now() - t0;
-  console.log(JSON.stringify({ ms, rssBeforeMB: rssBefore / 2 ** 20, maxRssMB: process.resourceUsage().maxRSS / 1024, count }));
+  const cpu = process.cpuUsage(cpu0);
+  const cpuMs = (cpu.user + cpu.system) / 1000;
+  console.log(JSON.stringify({ ms, cpuMs, rssBeforeMB: rssBefore / 2 ** 20, maxRssMB: process.resourceUsage().maxRSS / 1024, count }));
 }
 
 /** A diamond-like crystal's path with cosine bands: nk points along Γ–X–W–L–Γ, nb bands, a gap in the middle. */

@@ -63,7 +63,11 @@ export type OccupationArray = Float32Array | Float64Array;
 
 export type MethodFamily = 'semilocal' | 'hybrid' | 'gw' | 'model' | 'unknown';
 /** How the energies were computed, as far as the files say. */
-export interface ElectronicMethod { family: MethodFamily; name: string | null; evidence: string }
+export interface ElectronicMethod {
+  family: MethodFamily;
+  name: string | null;
+  evidence: string;
+}
 
 export interface BandStructure {
   source: BandSource;

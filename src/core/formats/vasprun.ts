@@ -1,7 +1,8 @@
 /**
- * vasprun.xml: VASP's full record of a run, read with a streaming XML parser (never a DOM), keeping only
+ * vasprun.xml: VASP's full record of a run, scanned from the bytes in pieces (never a DOM), keeping only
  * what a band structure needs: the final structure, the k-points (and the line-mode generation ends), the
- * eigenvalues and occupations per spin of the last ionic step, the Fermi energy, NELECT, ISPIN, LSORBIT.
+ * eigenvalues and occupations per spin of the last ionic step, the Fermi energy, NELECT, ISPIN, LSORBIT /
+ * LNONCOLLINEAR (spinor run), and the tags that name the method (vasp/vaspMethod.ts).
  * Memory held is the eigenvalue arrays, not the file. Layout (as VASP writes it):
  *
  *   <modeling>
@@ -24,16 +25,19 @@
  * Eigenvalues inside <projected> (and VASP 6's <eigenvalues_kpoints_opt>) are other blocks: only the
  * <eigenvalues> directly inside <calculation> are read.
  */
-import type { BandStructure, InputWarning, KLabel, Mat3, SourceFile, Structure, Vec3 } from '../model';
+import type { BandStructure, ElectronicMethod, InputWarning, KLabel, Mat3, OccupationArray, SourceFile, Structure, Vec3 } from '../model';
 import type { InputFile } from '../io/fileAccessor';
 import { basename } from '../io/fileAccessor';
 import type { FormatReader, ReadOptions } from './types';
 import { createSha256, sha256Hex } from '../hash';
 import { CancelledError, ReaderError } from '../errors';
-import { SafeXmlStream, parseDecimal, scanNumbers } from './xmlSafety';
+import { parseDecimal, scanDecimalBytes } from './decimal';
+import { XmlByteScanner, type RowReader } from './xmlByteScanner';
+import { vaspLogical } from './vasp/incar';
+import { vaspMethod } from './vasp/vaspMethod';
 import { readKpoints } from './vasp/kpoints';
 import { det3 } from '../lattice/linalg';
-import { DoubleBuffer } from './doubleBuffer';
+import { DoubleBuffer, FloatBuffer } from './doubleBuffer';
 
 export const VASPRUN_FORMAT = 'vasprun-xml';
 
@@ -45,7 +49,8 @@ interface StructureDraft {
 
 interface EigenBlock {
   energies: DoubleBuffer;
-  occupations: DoubleBuffer;
+  /** Occupations in single precision: VASP writes them with four decimals, and they only decide filling. */
+  occupations: FloatBuffer;
   /** Rows per (spin, k) set, to check every set has the same number of bands. */
   bandsPerSet: number;
   sets: number;
@@ -67,10 +72,12 @@ export interface VasprunData {
   nBands: number;
   nSpin: 1 | 2;
   energies: Float64Array[];
-  occupations: Float64Array[] | null;
+  occupations: OccupationArray[] | null;
   fermiEnergy: number | null;
   electrons: number | null;
   spinorbit: boolean | null;
+  /** How the energies were computed, from the <incar> and <parameters> tags (see vasp/vaspMethod.ts). */
+  method: ElectronicMethod;
   /** Line-mode generation: points per segment and the segment ends (fractional), when written. */
   generation: { divisions: number; ends: Vec3[] } | null;
   /** False when the file ended early (only with allowPartial). */
@@ -79,44 +86,147 @@ export interface VasprunData {
   steps: number;
 }
 
+/** Exact powers of ten as doubles (10^0 .. 10^15), local to the row loop. */
+const POW10 = new Float64Array([1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15]);
+
+/** Fewest bytes one eigenvalue row can take (`<r>1</r>`): bounds what a header's NBANDS may claim. */
+const MIN_ROW_BYTES = 8;
+
+/** The numbers of the last row read by simpleRow. */
+const ROW = new Float64Array(3);
+
+/** Newlines skipped by skipBlanks since the row reader started, and the offset of the last one. */
+let newlineCount = 0;
+let lastNewline = -1;
+
+/** Skip blanks from buf[p], counting newlines (newlineCount, lastNewline); the position of the first other byte. */
+function skipBlanks(buf: Uint8Array, p: number, end: number): number {
+  while (p < end) {
+    const c = buf[p]!;
+    if (c === 32 || c === 9 || c === 13) p++;
+    else if (c === 10) {
+      newlineCount++;
+      lastNewline = p;
+      p++;
+    } else break;
+  }
+  return p;
+}
+
+const SET_BYTES = new Uint8Array([115, 101, 116]); // "set"
+const KPOINT_SET_OPEN = new TextEncoder().encode('<set comment="kpoint');
+
+/** Whether `</name>` (name as bytes) is at buf[p], complete in the piece. */
+function endTagAt(buf: Uint8Array, p: number, end: number, name: Uint8Array): boolean {
+  const n = name.length;
+  if (p + n + 2 >= end || buf[p] !== 60 || buf[p + 1] !== 47 || buf[p + n + 2] !== 62) return false;
+  for (let i = 0; i < n; i++) if (buf[p + 2 + i] !== name[i]) return false;
+  return true;
+}
+
+/** `<set comment="kpoint N">` at buf[p] (N digits and spaces only): the position after it, or -1. */
+function kpointSetAt(buf: Uint8Array, p: number, end: number): number {
+  const n = KPOINT_SET_OPEN.length;
+  if (p + n >= end) return -1;
+  for (let i = 0; i < n; i++) if (buf[p + i] !== KPOINT_SET_OPEN[i]) return -1;
+  let q = p + n;
+  let c = 0;
+  while (q < end && (((c = buf[q]!) >= 48 && c <= 57) || c === 32)) q++;
+  if (q + 1 >= end || c !== 34 || buf[q + 1] !== 62) return -1;
+  return q + 2;
+}
+
 /**
- * A vasprun.xml reader fed piece by piece: the benchmark and large-file paths can stream a file through it
- * without holding the file in memory.
+ * One simple row at buf[p]: `<tag>`, `n` plain decimals (sign, digits, point, digits: at most 15 digits) on
+ * one line, `</tag>`. Returns the position after it with the numbers in ROW, or -1 for anything else or a row
+ * not complete in the piece (the general path then reads it and words any error).
+ */
+function simpleRow(buf: Uint8Array, p: number, end: number, tag: number, n: number): number {
+  if (p + 3 >= end || buf[p] !== 60 || buf[p + 1] !== tag || buf[p + 2] !== 62) return -1;
+  let q = p + 3;
+  let c = 0;
+  for (let j = 0; j < n; j++) {
+    const s = q;
+    while (q < end && ((c = buf[q]!) === 32 || c === 9)) q++;
+    if (q === s && j > 0) return -1;
+    let neg = false;
+    if (c === 45) {
+      neg = true;
+      q++;
+    }
+    let m = 0;
+    let nd = 0;
+    let frac = 0;
+    let d = 0;
+    while (q < end && (d = buf[q]! - 48) >= 0 && d <= 9) {
+      m = m * 10 + d;
+      q++;
+      nd++;
+    }
+    if (q < end && buf[q] === 46) {
+      q++;
+      while (q < end && (d = buf[q]! - 48) >= 0 && d <= 9) {
+        m = m * 10 + d;
+        q++;
+        frac++;
+      }
+    }
+    c = q < end ? buf[q]! : 0;
+    if (nd + frac === 0 || nd + frac > 15 || !(c === 32 || c === 9 || c === 60)) return -1;
+    const v = frac === 0 ? m : m / POW10[frac]!;
+    ROW[j] = neg ? -v : v;
+  }
+  while (q < end && ((c = buf[q]!) === 32 || c === 9)) q++;
+  if (q + 3 >= end || c !== 60 || buf[q + 1] !== 47 || buf[q + 2] !== tag || buf[q + 3] !== 62) return -1;
+  return q + 4;
+}
+
+/**
+ * A vasprun.xml reader fed piece by piece: the benchmark and large-file paths stream a file through it
+ * without holding the file in memory. The bytes are scanned directly (XmlByteScanner); the eigenvalue rows,
+ * by far the bulk of the file, are read straight from the bytes into typed arrays.
  */
 export class VasprunStream {
-  private readonly xml: SafeXmlStream;
-  private text = '';
-  private collecting = false;
+  private readonly xml: XmlByteScanner;
   private iName: string | null = null;
   private varrayName: string | null = null;
+  private inIncar = false;
+  private inParameters = false;
   private inGeneration = false;
+  private inAtomsArray = false;
   private generation: { divisions: number; ends: Vec3[] } | null = null;
   private readonly kpointList = new DoubleBuffer(3 * 256);
   private readonly weightList = new DoubleBuffer(256);
   private kpointsDone = false;
-  private readonly params = new Map<string, string>();
+  private readonly incarTags = new Map<string, string>();
+  private readonly paramTags = new Map<string, string>();
   private readonly species: string[] = [];
-  private inAtomsArray = false;
   private rcColumn = -1;
   private structures: StructureDraft[] = [];
   private draft: StructureDraft | null = null;
   private eig: EigenBlock | null = null;
+  private eigDepth = 0;
   private lastEig: EigenBlock | null = null;
   private steps = 0;
   private efermi: number | null = null;
   private stepEfermi: number | null = null;
   private sawRoot = false;
-  /** Scratch for one eigenvalue row. */
+  /** Scratch for one row of numbers. */
   private readonly row = new Float64Array(3);
+  private readonly rowReader: RowReader;
+  private readonly kpointRowReader: RowReader;
 
-  constructor(private readonly fileName: string) {
-    this.xml = new SafeXmlStream(fileName, VASPRUN_FORMAT, {
-      open: (name, attrs, path) => this.open(name, attrs, path),
-      text: (t) => {
-        if (this.collecting) this.text += t;
-      },
-      close: (name, path) => this.close(name, path),
+  /** `sizeHint`: the file's size in bytes when known (header counts are checked against it). */
+  constructor(
+    private readonly fileName: string,
+    private readonly sizeHint: number | null = null,
+  ) {
+    this.xml = new XmlByteScanner(fileName, VASPRUN_FORMAT, {
+      open: (name, attrs, depth) => this.open(name, attrs, depth),
+      close: (name, depth, text, length) => this.close(name, depth, text, length),
     });
+    this.rowReader = (sc, buf, pos, end) => this.fastRows(sc, buf, pos, end);
+    this.kpointRowReader = (sc, buf, pos, end) => this.fastKpointRows(sc, buf, pos, end);
   }
 
   write(bytes: Uint8Array, last = false): void {
@@ -143,14 +253,13 @@ export class VasprunStream {
     throw this.fail(`the row for ${where} holds ${count} numbers where the rows before hold ${e.columns}`);
   }
 
-  private collect(): void {
-    this.collecting = true;
-    this.text = '';
+  private textOf(text: Uint8Array | null, length: number): string {
+    return text === null ? '' : this.xml.decode(text, 0, length);
   }
 
-  private numbers(what: string, expected: number): number[] {
+  private numbers(text: Uint8Array | null, length: number, what: string, expected: number): number[] {
     const out: number[] = [];
-    const r = scanNumbers(this.text, out, 0, expected);
+    const r = text === null ? { count: 0, bad: null } : scanDecimalBytes(text, 0, length, out, 0, expected);
     if (r.bad !== null) {
       if (r.bad.includes('***')) throw this.fail(`${what} is written as "${r.bad}": VASP's number field overflowed, so the value is unknown`);
       throw this.fail(`${what} should be a number, found "${r.bad}"`);
@@ -159,116 +268,254 @@ export class VasprunStream {
     return out;
   }
 
-  private open(name: string, attrs: Record<string, string>, path: readonly string[]): void {
-    const depth = path.length;
-    const parent = depth >= 2 ? path[depth - 2]! : '';
+  /**
+   * Eigenvalue rows straight from the bytes: `<r>` numbers `</r>`, as many as are complete in the piece. Anything
+   * else (the first row, exponents, damage, the end of the set) is left to the general path, which words errors.
+   */
+  private fastRows(sc: XmlByteScanner, buf: Uint8Array, pos: number, end: number): number {
+    const e = this.eig;
+    if (e === null) return pos;
+    const cols = e.columns;
+    if (cols < 1) return pos;
+    const energies = e.energies;
+    const occupations = e.occupations;
+    newlineCount = 0;
+    for (;;) {
+      let rows = 0;
+      for (;;) {
+        pos = skipBlanks(buf, pos, end);
+        const next = simpleRow(buf, pos, end, 114 /* r */, cols);
+        if (next < 0) break;
+        energies.push(ROW[0]!);
+        if (cols >= 2) occupations.push(ROW[1]!);
+        rows++;
+        pos = next;
+      }
+      if (rows > 0) {
+        e.rowsInSet += rows;
+        sc.markChild();
+      }
+      // The end of this k-point's set and the start of the next one, as VASP writes them, without the general
+      // path; anything else (a band count that differs, the end of the spin) is left to it.
+      if (!endTagAt(buf, pos, end, SET_BYTES) || e.rowsInSet === 0 || sc.ancestor(1) !== 'set') break;
+      if (e.bandsPerSet >= 0 && e.rowsInSet !== e.bandsPerSet) break;
+      if (e.bandsPerSet < 0) e.bandsPerSet = e.rowsInSet;
+      e.sets++;
+      e.rowsInSet = 0;
+      sc.leaveFast();
+      pos = skipBlanks(buf, pos + SET_BYTES.length + 3, end);
+      const next = kpointSetAt(buf, pos, end);
+      if (next < 0 || !sc.canEnterFast()) break;
+      sc.enterFast('set');
+      e.kInSpin++;
+      sc.setRows(this.rowReader);
+      pos = next;
+    }
+    if (newlineCount > 0) sc.newlines(newlineCount, lastNewline);
+    return pos;
+  }
+
+  /** The k-point list and its weights (`<v>` rows of 3 and of 1 numbers) straight from the bytes, likewise. */
+  private fastKpointRows(sc: XmlByteScanner, buf: Uint8Array, pos: number, end: number): number {
+    const weights = this.varrayName === 'weights';
+    const list = weights ? this.weightList : this.kpointList;
+    const cols = weights ? 1 : 3;
+    let rows = 0;
+    newlineCount = 0;
+    for (;;) {
+      pos = skipBlanks(buf, pos, end);
+      const next = simpleRow(buf, pos, end, 118 /* v */, cols);
+      if (next < 0) break;
+      list.push(ROW[0]!);
+      if (!weights) {
+        list.push(ROW[1]!);
+        list.push(ROW[2]!);
+      }
+      rows++;
+      pos = next;
+    }
+    if (newlineCount > 0) sc.newlines(newlineCount, lastNewline);
+    if (rows > 0) sc.markChild();
+    return pos;
+  }
+
+  private open(name: string, attrs: Record<string, string> | null, depth: number): boolean {
+    const sc = this.xml;
     if (depth === 1) {
       if (name !== 'modeling') throw this.fail(`the root element is <${name}>; a vasprun.xml starts with <modeling>`);
       this.sawRoot = true;
-      return;
+      return false;
     }
     switch (name) {
-      case 'i':
-        this.iName = attrs.name ?? null;
-        if (this.iName !== null) this.collect();
-        return;
-      case 'v':
       case 'r':
+        if (this.eig !== null && sc.ancestor(1) === 'set') {
+          this.eig.rowsInSet++;
+          return true;
+        }
+        return false;
+      case 'v':
+        if (this.inGeneration) return sc.ancestor(1) === 'generation';
+        if (sc.ancestor(1) !== 'varray') return false;
+        if (depth === 4 && !this.kpointsDone && sc.ancestor(2) === 'kpoints') return this.varrayName === 'kpointlist' || this.varrayName === 'weights';
+        if (this.draft !== null) return this.varrayName === 'basis' || this.varrayName === 'positions';
+        return false;
+      case 'i': {
+        const key = attrs?.name ?? null;
+        this.iName = key;
+        if (key === null) return false;
+        return this.inIncar || this.inParameters || key === 'efermi' || (this.inGeneration && key === 'divisions');
+      }
       case 'c':
-        this.collect();
-        if (name === 'r' && this.eig && parent === 'set') this.eig.rowsInSet++;
-        return;
-      case 'varray':
-        this.varrayName = attrs.name ?? null;
-        return;
-      case 'generation':
-        if (parent === 'kpoints' && depth === 3 && /^listgenerated$/i.test(attrs.param ?? '')) {
-          this.inGeneration = true;
-          this.generation = { divisions: 0, ends: [] };
-        }
-        return;
-      case 'structure':
-        this.draft = { name: attrs.name ?? '', basis: [], positions: [] };
-        return;
-      case 'array':
-        if (parent === 'atominfo' && attrs.name === 'atoms') this.inAtomsArray = true;
-        return;
-      case 'rc':
-        if (this.inAtomsArray) this.rcColumn = 0;
-        return;
-      case 'eigenvalues':
-        if (parent === 'calculation') {
-          // NBANDS and ISPIN come before the eigenvalues: size the buffers exactly when they are known.
-          const nbands = Number(this.params.get('NBANDS') ?? NaN);
-          const ispin = Number(this.params.get('ISPIN') ?? 1);
-          const nk = this.kpointList.length / 3;
-          const guess = Number.isInteger(nbands) && nbands > 0 && (ispin === 1 || ispin === 2) && nk > 0 ? nk * nbands * ispin : Math.max(1024, nk * 16);
-          this.eig = {
-            energies: new DoubleBuffer(guess),
-            occupations: new DoubleBuffer(guess),
-            bandsPerSet: -1,
-            sets: 0,
-            spins: 0,
-            kInSpin: 0,
-            rowsInSet: 0,
-            columns: -1,
-            complete: false,
-            line: this.xml.line,
-          };
-        }
-        return;
+        return this.inAtomsArray && this.rcColumn === 0;
       case 'set':
-        if (this.eig && path.includes('eigenvalues')) {
-          const c = attrs.comment ?? '';
-          if (/^spin/.test(c)) {
+        if (this.eig !== null) {
+          const c = attrs?.comment ?? '';
+          if (c.startsWith('spin')) {
             this.eig.spins++;
             this.eig.kInSpin = 0;
-          } else if (/^kpoint/.test(c)) {
+          } else if (c.startsWith('kpoint')) {
             this.eig.kInSpin++;
             this.eig.rowsInSet = 0;
           }
+          sc.setRows(this.rowReader);
         }
-        return;
+        return false;
+      case 'varray':
+        this.varrayName = attrs?.name ?? null;
+        if (depth === 3 && !this.kpointsDone && sc.ancestor(1) === 'kpoints' && (this.varrayName === 'kpointlist' || this.varrayName === 'weights')) {
+          sc.setRows(this.kpointRowReader);
+        }
+        return false;
+      case 'incar':
+        if (depth === 2) this.inIncar = true;
+        return false;
+      case 'parameters':
+        if (depth === 2) this.inParameters = true;
+        return false;
+      case 'generation':
+        if (depth === 3 && sc.ancestor(1) === 'kpoints' && /^listgenerated$/i.test(attrs?.param ?? '')) {
+          this.inGeneration = true;
+          this.generation = { divisions: 0, ends: [] };
+        }
+        return false;
+      case 'structure':
+        this.draft = { name: attrs?.name ?? '', basis: [], positions: [] };
+        return false;
+      case 'array':
+        if (sc.ancestor(1) === 'atominfo' && attrs?.name === 'atoms') this.inAtomsArray = true;
+        return false;
+      case 'rc':
+        if (this.inAtomsArray) this.rcColumn = 0;
+        return false;
+      case 'eigenvalues':
+        if (depth === 3 && sc.ancestor(1) === 'calculation') this.startEigenvalues(depth);
+        return false;
       case 'calculation':
         this.stepEfermi = null;
-        return;
+        return false;
       default:
-        return;
+        return false;
     }
   }
 
-  private close(name: string, path: readonly string[]): void {
-    const depth = path.length;
-    const parent = depth >= 2 ? path[depth - 2]! : '';
+  /** An <eigenvalues> block opens: size the arrays from NBANDS, ISPIN and the k-points, checked against the file. */
+  private startEigenvalues(depth: number): void {
+    const nbText = this.paramTags.get('NBANDS') ?? this.incarTags.get('NBANDS');
+    const nbands = nbText === undefined ? NaN : Number(nbText.trim());
+    const ispinText = this.paramTags.get('ISPIN') ?? this.incarTags.get('ISPIN');
+    const ispin = ispinText === undefined ? 1 : Number(ispinText.trim());
+    const nk = this.kpointList.length / 3;
+    let guess = 1 << 16;
+    if (Number.isInteger(nbands) && nbands > 0 && (ispin === 1 || ispin === 2) && nk > 0) {
+      const rows = nk * nbands * ispin;
+      if (this.sizeHint !== null && rows * MIN_ROW_BYTES > this.sizeHint) {
+        throw this.fail(
+          `the parameters say NBANDS = ${nbands}${ispin === 2 ? ' and ISPIN = 2' : ''} for ${nk} k-points: ${rows} eigenvalue rows, more than a file of ${this.sizeHint} bytes can hold (at least ${MIN_ROW_BYTES} bytes each)`,
+        );
+      }
+      // Without the file size, the header is trusted only up to a modest start; the buffers grow with the data.
+      guess = this.sizeHint !== null ? rows : Math.min(rows, 1 << 20);
+    } else if (this.sizeHint !== null) guess = Math.min(guess, Math.floor(this.sizeHint / MIN_ROW_BYTES) + 1);
+    this.eig = {
+      energies: new DoubleBuffer(guess),
+      occupations: new FloatBuffer(guess),
+      bandsPerSet: -1,
+      sets: 0,
+      spins: 0,
+      kInSpin: 0,
+      rowsInSet: 0,
+      columns: -1,
+      complete: false,
+      line: this.xml.line,
+    };
+    this.eigDepth = depth;
+  }
+
+  private close(name: string, depth: number, text: Uint8Array | null, length: number): void {
+    const sc = this.xml;
     switch (name) {
+      case 'r': {
+        const e = this.eig;
+        if (e === null || sc.ancestor(1) !== 'set') return;
+        const vals = this.row;
+        const r = text === null ? { count: 0, bad: null } : scanDecimalBytes(text, 0, length, vals, 0, 3);
+        if (r.bad !== null || r.count !== e.columns) this.rowError(r.count, r.bad);
+        e.energies.push(vals[0]!);
+        if (e.columns >= 2) e.occupations.push(vals[1]!);
+        return;
+      }
+      case 'v': {
+        if (text === null) return;
+        if (this.inGeneration) {
+          const v = this.numbers(text, length, 'a line-mode segment end', 3);
+          this.generation?.ends.push([v[0]!, v[1]!, v[2]!]);
+          return;
+        }
+        if (depth === 4 && !this.kpointsDone && sc.ancestor(2) === 'kpoints') {
+          if (this.varrayName === 'kpointlist') {
+            const v = this.numbers(text, length, `k-point ${this.kpointList.length / 3 + 1}`, 3);
+            for (const x of v) this.kpointList.push(x);
+          } else if (this.varrayName === 'weights') {
+            this.weightList.push(this.numbers(text, length, `the weight of k-point ${this.weightList.length + 1}`, 1)[0]!);
+          }
+          return;
+        }
+        const d = this.draft;
+        if (d === null) return;
+        if (this.varrayName === 'basis' && sc.ancestor(2) === 'crystal') {
+          if (d.basis.length >= 3) throw this.fail('a structure lists more than three lattice vectors');
+          const v = this.numbers(text, length, 'a lattice vector', 3);
+          d.basis.push([v[0]!, v[1]!, v[2]!]);
+        } else if (this.varrayName === 'positions' && sc.ancestor(2) === 'structure') {
+          d.positions.push(...this.numbers(text, length, `the position of atom ${d.positions.length / 3 + 1}`, 3));
+        }
+        return;
+      }
       case 'i': {
-        this.collecting = false;
         const key = this.iName;
         this.iName = null;
-        if (key === null) return;
-        const value = this.text.trim();
+        if (key === null || text === null) return;
+        const value = this.textOf(text, length).trim();
         if (this.inGeneration && key === 'divisions') {
-          const n = this.numbers('the number of points per line-mode segment', 1)[0]!;
+          const n = this.numbers(text, length, 'the number of points per line-mode segment', 1)[0]!;
           if (this.generation) this.generation.divisions = n;
           return;
         }
         if (key === 'efermi') {
           const v = parseDecimal(value);
-          if (v === null) throw this.fail(`the Fermi energy (efermi) should be a number, found "${value}"`);
+          if (v === null) throw this.fail(`the Fermi energy (efermi) should be a number, found "${value.slice(0, 30)}"`);
           this.stepEfermi = v;
           this.efermi = v;
           return;
         }
-        if (path.includes('incar') || path.includes('parameters')) {
-          // <parameters> holds the values VASP used; it comes after <incar> and wins.
-          if (path.includes('parameters') || !this.params.has(key)) this.params.set(key, value);
-        }
+        // <parameters> holds the values VASP used; it comes after <incar> and wins.
+        if (this.inParameters) this.paramTags.set(key.toUpperCase(), value);
+        else if (this.inIncar) this.incarTags.set(key.toUpperCase(), value);
         return;
       }
       case 'c':
-        this.collecting = false;
         if (this.inAtomsArray && this.rcColumn >= 0) {
-          if (this.rcColumn === 0) this.species.push(this.text.trim());
+          if (this.rcColumn === 0) this.species.push(this.textOf(text, length).trim());
           this.rcColumn++;
         }
         return;
@@ -278,52 +525,11 @@ export class VasprunStream {
       case 'array':
         this.inAtomsArray = false;
         return;
-      case 'v': {
-        this.collecting = false;
-        const vname = this.varrayName;
-        if (this.inGeneration && parent === 'generation') {
-          const v = this.numbers('a line-mode segment end', 3);
-          this.generation?.ends.push([v[0]!, v[1]!, v[2]!]);
-          return;
-        }
-        if (parent !== 'varray') return;
-        if (path.includes('kpoints') && depth === 4 && !this.kpointsDone) {
-          if (vname === 'kpointlist') {
-            const v = this.numbers(`k-point ${this.kpointList.length / 3 + 1}`, 3);
-            for (const x of v) this.kpointList.push(x);
-          } else if (vname === 'weights') {
-            this.weightList.push(this.numbers(`the weight of k-point ${this.weightList.length + 1}`, 1)[0]!);
-          }
-          return;
-        }
-        if (this.draft && path.includes('structure')) {
-          if (vname === 'basis' && parent === 'varray' && path[depth - 3] === 'crystal') {
-            if (this.draft.basis.length >= 3) throw this.fail('a structure lists more than three lattice vectors');
-            const v = this.numbers('a lattice vector', 3);
-            this.draft.basis.push([v[0]!, v[1]!, v[2]!]);
-          } else if (vname === 'positions' && path[depth - 3] === 'structure') {
-            this.draft.positions.push(...this.numbers(`the position of atom ${this.draft.positions.length / 3 + 1}`, 3));
-          }
-        }
-        return;
-      }
-      case 'r': {
-        this.collecting = false;
-        const e = this.eig;
-        if (!e || parent !== 'set' || !path.includes('eigenvalues')) return;
-        const vals = this.row;
-        const r = scanNumbers(this.text, vals, 0, 3);
-        if (r.bad !== null || r.count !== e.columns) {
-          this.rowError(r.count, r.bad);
-        }
-        e.energies.push(vals[0]!);
-        if (e.columns >= 2) e.occupations.push(vals[1]!);
-        return;
-      }
       case 'set': {
         const e = this.eig;
-        if (!e || !path.includes('eigenvalues')) return;
-        if (e.rowsInSet > 0 && path[depth - 2] === 'set') {
+        if (e === null) return;
+        sc.setRows(null);
+        if (e.rowsInSet > 0 && sc.ancestor(1) === 'set') {
           if (e.bandsPerSet < 0) e.bandsPerSet = e.rowsInSet;
           else if (e.rowsInSet !== e.bandsPerSet) {
             throw this.fail(`k-point ${e.kInSpin} lists ${e.rowsInSet} bands where the k-points before list ${e.bandsPerSet}`);
@@ -334,11 +540,20 @@ export class VasprunStream {
         return;
       }
       case 'varray':
-        if (this.varrayName === 'weights' && path.includes('kpoints') && depth === 3) this.kpointsDone = true;
+        if (depth === 3 && sc.ancestor(1) === 'kpoints') {
+          sc.setRows(null);
+          if (this.varrayName === 'weights') this.kpointsDone = true;
+        }
         this.varrayName = null;
         return;
       case 'generation':
         this.inGeneration = false;
+        return;
+      case 'incar':
+        if (depth === 2) this.inIncar = false;
+        return;
+      case 'parameters':
+        if (depth === 2) this.inParameters = false;
         return;
       case 'structure': {
         const d = this.draft;
@@ -347,10 +562,11 @@ export class VasprunStream {
         return;
       }
       case 'eigenvalues':
-        if (this.eig && parent === 'calculation') {
+        if (this.eig !== null && depth === this.eigDepth) {
           this.eig.complete = true;
           this.lastEig = this.eig;
           this.eig = null;
+          sc.setRows(null);
           this.steps++;
         }
         return;
@@ -385,16 +601,15 @@ export class VasprunStream {
         `the eigenvalues cover ${eig.sets} (spin, k-point) sets, but ${nk} k-points${nSpin === 2 ? ' × 2 spins' : ''} are listed`,
       );
     }
-    const all = eig.energies.data;
-    const energies: Float64Array[] = [];
-    const occupations: Float64Array[] | null = eig.columns >= 2 ? [] : null;
     const per = nk * nBands;
     // Buffers sized exactly (NBANDS known) are handed over as views: no second copy of the eigenvalues.
-    const exact = all.length === per * nSpin;
-    const part = (a: Float64Array, s: number): Float64Array => (exact ? a.subarray(s * per, (s + 1) * per) : a.slice(s * per, (s + 1) * per));
+    const energies: Float64Array[] = [];
+    const occupations: Float32Array[] | null = eig.columns >= 2 ? [] : null;
+    const all = eig.energies.data;
+    const occ = eig.occupations.data;
     for (let s = 0; s < nSpin; s++) {
-      energies.push(part(all, s));
-      if (occupations) occupations.push(part(eig.occupations.data, s));
+      energies.push(all.length === per * nSpin ? all.subarray(s * per, (s + 1) * per) : all.slice(s * per, (s + 1) * per));
+      if (occupations) occupations.push(occ.length === per * nSpin ? occ.subarray(s * per, (s + 1) * per) : occ.slice(s * per, (s + 1) * per));
     }
     // Structure: the final one when written, else the last complete one.
     const pick = this.structures.find((s) => s.name === 'finalpos') ?? this.structures[this.structures.length - 1] ?? null;
@@ -407,19 +622,22 @@ export class VasprunStream {
         structure = { lattice, species, positions: Float64Array.from(pick.positions) };
       }
     }
+    const tag = (key: string): string | undefined => this.paramTags.get(key) ?? this.incarTags.get(key);
     const num = (key: string): number | null => {
-      const v = this.params.get(key);
+      const v = tag(key);
       return v === undefined ? null : parseDecimal(v);
     };
-    const logical = (key: string): boolean | null => {
-      const v = this.params.get(key);
-      if (v === undefined) return null;
-      const t = v.trim().replace(/^\./, '').toUpperCase();
-      return t.startsWith('T') ? true : t.startsWith('F') ? false : null;
-    };
-    const lsorbit = logical('LSORBIT');
-    const noncollinear = logical('LNONCOLLINEAR');
+    const lsorbit = vaspLogical(tag('LSORBIT'));
+    const noncollinear = vaspLogical(tag('LNONCOLLINEAR'));
     const spinorbit = lsorbit === null && noncollinear === null ? null : Boolean(lsorbit) || Boolean(noncollinear);
+    // Method: the values VASP used (<parameters>) over what the user wrote (<incar>); a GW ALGO the user
+    // wrote is kept even if the parameter list spells it otherwise.
+    const merged = new Map([...this.incarTags, ...this.paramTags]);
+    const userAlgo = this.incarTags.get('ALGO');
+    if (userAlgo !== undefined) merged.set('ALGO', userAlgo);
+    const name = basename(this.fileName);
+    const where = this.paramTags.size > 0 ? `${name} (its parameter list)` : `${name} (its <incar> block)`;
+    const method = vaspMethod(merged.size > 0 ? merged : null, merged.size > 0 ? where : name, tag('SYSTEM') ?? null);
     const weights = this.weightList.length === nk ? this.weightList.toArray() : null;
     const gen = this.generation && this.generation.divisions >= 2 && this.generation.ends.length >= 2 ? this.generation : null;
     return {
@@ -435,6 +653,7 @@ export class VasprunStream {
       fermiEnergy: this.stepEfermi ?? this.efermi,
       electrons: num('NELECT'),
       spinorbit,
+      method,
       generation: gen,
       complete: outcome.complete,
       steps: this.steps,
@@ -447,21 +666,25 @@ export class VasprunStream {
  * the file is never held whole. Returns what it says and the SHA-256 of its bytes.
  */
 export function readVasprun(file: InputFile, options: ReadOptions = {}): VasprunData & { sha256: string } {
-  const stream = new VasprunStream(file.path);
-  // 64 KiB pieces: the decoded strings stay small, young objects that scavenges free at once (1 MiB pieces
-  // land in the large-object space and pile up until a full collection).
-  const CHUNK = 1 << 16;
   const src = file.stream;
   const size = src ? src.size : file.bytes.length;
+  const stream = new VasprunStream(file.path, size);
+  // 1 MiB pieces through one reused buffer: nothing but the typed arrays of the result grows with the file.
+  const CHUNK = 1 << 20;
   const hasher = src ? createSha256() : null;
   if (size === 0) return { ...stream.finish(false), sha256: '' };
-  for (let start = 0; start < size; start += CHUNK) {
+  const buffer = src?.readInto ? new Uint8Array(Math.min(CHUNK, size)) : null;
+  for (let start = 0; start < size; ) {
     if (options.isCancelled?.()) throw new CancelledError();
-    const end = Math.min(size, start + CHUNK);
-    const chunk = src ? src.read(start, end - start) : file.bytes.subarray(start, end);
+    let chunk: Uint8Array;
+    if (!src) chunk = file.bytes.subarray(start, Math.min(size, start + CHUNK));
+    else if (buffer) chunk = buffer.subarray(0, src.readInto!(start, buffer, 0, Math.min(CHUNK, size - start)));
+    else chunk = src.read(start, Math.min(CHUNK, size - start));
+    if (chunk.length === 0) break;
+    start += chunk.length;
     hasher?.update(chunk);
-    stream.write(chunk, end >= size);
-    options.onProgress?.(end / size);
+    stream.write(chunk, start >= size);
+    options.onProgress?.(start / size);
   }
   const data = stream.finish(options.allowPartial ?? false);
   return { ...data, sha256: hasher ? hasher.hex() : sha256Hex(file.bytes) };
@@ -557,6 +780,7 @@ export function vasprunToBandStructure(data: VasprunData & { sha256: string }, m
     fermiEnergy: data.fermiEnergy,
     electrons: data.electrons,
     spinorbit,
+    method: data.method,
     labels: labelList,
     sampling,
     grid: null,

@@ -12,6 +12,10 @@ import { parseDecimal } from './decimal';
 
 export { parseDecimal };
 
+/** The sentence for a document type declaration, which every XML reader refuses. */
+export const DOCTYPE_REFUSED =
+  'the XML declares a document type (<!DOCTYPE ...>); Valleyscope refuses it, because document type declarations can pull in external files or expand entities without bound, and the codes it reads never write one';
+
 /** Deeper nesting than this is refused: no electronic-structure XML layout comes close. */
 export const MAX_XML_DEPTH = 64;
 /** Bytes decoded and fed to the parser at a time. */
@@ -64,9 +68,7 @@ export class SafeXmlStream {
     this.parser = parser;
     const path = this.path;
     parser.on('doctype', () => {
-      throw this.fail(
-        'the XML declares a document type (<!DOCTYPE ...>); Valleyscope refuses it, because document type declarations can pull in external files or expand entities without bound, and the codes it reads never write one',
-      );
+      throw this.fail(DOCTYPE_REFUSED);
     });
     parser.on('error', (err: Error) => {
       throw this.fail(`the XML is malformed: ${plainSaxesMessage(err.message)}`);

@@ -4,6 +4,7 @@
  * `(1X,I4,4X,F12.6[,2X,F12.6][,2X,F9.6 ...])`), a blank record written as one space, and `*` fields when a
  * number overflows its width (the layouts as seen in VASP 5.4/6 output files, common practice).
  */
+import { MODEL_SYSTEM_PREFIX } from '../../../src/core/formats/vasp/vaspMethod';
 import type { Mat3, Vec3 } from '../../../src/core/model';
 
 // ---------------------------------------------------------------------------------------------------------
@@ -40,6 +41,14 @@ export function fortranI(n: number, width: number): string {
 
 // ---------------------------------------------------------------------------------------------------------
 // EIGENVAL
+
+/**
+ * The SYSTEM name of a file written from a model Hamiltonian: "model: <description>". The VASP readers take
+ * this prefix as family 'model' (a Valleyscope convention, documented in DEVELOPERS.md).
+ */
+export function modelSystemName(description: string): string {
+  return `${MODEL_SYSTEM_PREFIX} ${description}`;
+}
 
 export interface EigenvalContent {
   /** System name (line 5). */

@@ -18,6 +18,13 @@ export interface VasprunOptions {
   projected?: boolean;
   /** Add a DOCTYPE with an entity (hostile file). */
   doctype?: boolean;
+  /** SYSTEM name (default "model"; `modelSystemName(...)` marks model data). */
+  system?: string;
+  /** Extra tags as the user set them (written into <incar>) and as VASP used them (into <parameters>). */
+  incarTags?: Record<string, string>;
+  parameterTags?: Record<string, string>;
+  /** Write no <parameters> block. */
+  noParameters?: boolean;
 }
 
 const f = (x: number, w = 16, d = 8): string => fortranF(x, w, d);
@@ -29,8 +36,11 @@ export function writeVasprun(bs: BandStructure, opts: VasprunOptions = {}): stri
   if (opts.doctype) out.push('<!DOCTYPE modeling [<!ENTITY a "aaaaaaaaaaaaaaaa"><!ENTITY b "&a;&a;&a;&a;&a;&a;&a;&a;">]>');
   out.push('<modeling>');
   out.push(' <generator>', '  <i name="program" type="string">vasp </i>', '  <i name="version" type="string">6.4.2  </i>', ' </generator>');
-  out.push(' <incar>', '  <i type="string" name="SYSTEM">model</i>', `  <i name="ISPIN">      ${bs.nSpin}</i>`);
+  const system = opts.system ?? 'model';
+  const tag = (k: string, v: string): string => (/^[.]?[TF]/i.test(v) && v.trim().length <= 7 ? `<i type="logical" name="${k}"> ${v} </i>` : /^[A-Za-z-]/.test(v) ? `<i type="string" name="${k}">${v}</i>` : `<i name="${k}">${v}</i>`);
+  out.push(' <incar>', `  <i type="string" name="SYSTEM">${system}</i>`, `  <i name="ISPIN">      ${bs.nSpin}</i>`);
   if (bs.spinorbit) out.push('  <i type="logical" name="LSORBIT"> T  </i>');
+  for (const [k, v] of Object.entries(opts.incarTags ?? {})) out.push(`  ${tag(k, v)}`);
   out.push(' </incar>');
   out.push(' <kpoints>');
   if (opts.generation) {
@@ -43,11 +53,15 @@ export function writeVasprun(bs: BandStructure, opts: VasprunOptions = {}): stri
   out.push('  </varray>', '  <varray name="weights" >');
   for (let k = 0; k < bs.nk; k++) out.push(`   <v>${f(bs.weights ? bs.weights[k]! : 1 / bs.nk)} </v>`);
   out.push('  </varray>', ' </kpoints>');
-  out.push(' <parameters>', '  <separator name="general" >', '   <i type="string" name="SYSTEM">model</i>', '  </separator>', '  <separator name="electronic" >');
-  out.push(`   <i name="NELECT">${f(bs.electrons ?? 0)}</i>`, `   <i type="int" name="NBANDS">${String(bs.nBands).padStart(6)}</i>`);
-  out.push('   <separator name="electronic spin" >', `    <i type="int" name="ISPIN">     ${bs.nSpin}</i>`);
-  out.push(`    <i type="logical" name="LNONCOLLINEAR"> ${bs.spinorbit ? 'T' : 'F'}  </i>`, `    <i type="logical" name="LSORBIT"> ${bs.spinorbit ? 'T' : 'F'}  </i>`);
-  out.push('   </separator>', '  </separator>', ' </parameters>');
+  if (!opts.noParameters) {
+    out.push(' <parameters>', '  <separator name="general" >', `   <i type="string" name="SYSTEM">${system}</i>`, '  </separator>', '  <separator name="electronic" >');
+    out.push(`   <i name="NELECT">${f(bs.electrons ?? 0)}</i>`, `   <i type="int" name="NBANDS">${String(bs.nBands).padStart(6)}</i>`);
+    out.push('   <separator name="electronic spin" >', `    <i type="int" name="ISPIN">     ${bs.nSpin}</i>`);
+    out.push(`    <i type="logical" name="LNONCOLLINEAR"> ${bs.spinorbit ? 'T' : 'F'}  </i>`, `    <i type="logical" name="LSORBIT"> ${bs.spinorbit ? 'T' : 'F'}  </i>`);
+    out.push('   </separator>', '   <separator name="electronic exchange-correlation" >');
+    for (const [k, v] of Object.entries(opts.parameterTags ?? {})) out.push(`    ${tag(k, v)}`);
+    out.push('   </separator>', '  </separator>', ' </parameters>');
+  }
   out.push(' <atominfo>', `  <atoms>${String(st.species.length).padStart(8)} </atoms>`, '  <types>       1 </types>', '  <array name="atoms" >');
   out.push('   <dimension dim="1">ion</dimension>', '   <field type="string">element</field>', '   <field type="int">atomtype</field>', '   <set>');
   for (const s of st.species) out.push(`    <rc><c>${s.padEnd(2)}</c><c>   1</c></rc>`);

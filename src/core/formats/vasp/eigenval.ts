@@ -60,6 +60,16 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
   if (nkAnnounced <= 0) throw sc.error(`the header announces ${nkAnnounced} k-points; at least one is needed`, countsLine, 0);
   if (nBands <= 0) throw sc.error(`the header announces ${nBands} bands; at least one is needed`, countsLine, 0);
   const remaining = sc.remainingBytes;
+  // Every band line holds at least the index, one energy and a newline (4 bytes; 6 with two spins): a header
+  // claiming more bands than the rest of the file can hold is refused before anything is allocated.
+  const minLine = ispin === 2 ? 6 : 4;
+  if (nBands * minLine > remaining) {
+    throw sc.error(
+      `the header announces ${nBands} bands, but the rest of the file (${remaining} bytes) cannot hold one k-point of them (at least ${minLine} bytes a band line): the file is truncated, or its header is damaged`,
+      countsLine,
+      0,
+    );
+  }
   // Every band line holds at least two numbers and a newline (4 bytes or more): never allocate for more
   // k-points than the file can hold (a corrupt header must not exhaust memory).
   const maxK = Math.min(nkAnnounced, Math.floor(remaining / Math.max(1, 4 * nBands)) + 1);

@@ -11,7 +11,8 @@ import { ReaderError } from '../../errors';
 import { EIGENVAL_FORMAT, detectEigenval, readEigenval } from './eigenval';
 import { readPoscarWithScale } from './poscar';
 import { kpointsCartesianToFractional, readKpoints, type LineModePath } from './kpoints';
-import { readIncarFlags } from './incar';
+import { readIncar } from './incar';
+import { modelMethodFromSystem, vaspMethod } from './vaspMethod';
 
 const STRUCTURE_NAMES = ['CONTCAR', 'POSCAR'];
 
@@ -74,12 +75,10 @@ export const vaspEigenvalReader: FormatReader = {
     // Spin-orbit: INCAR when present; otherwise inferred from occupations when they say so.
     let spinorbit = options.spinorbit ?? false;
     const incar = byRole('INCAR');
-    if (incar && options.spinorbit === undefined) {
-      const flags = readIncarFlags(incar);
-      if (flags.noncollinear !== null) {
-        spinorbit = flags.noncollinear;
-        files.push({ role: 'settings', path: incar.path, sha256: sha256Hex(incar.bytes) });
-      }
+    const incarContent = incar ? readIncar(incar) : null;
+    if (incar && incarContent) files.push({ role: 'settings', path: incar.path, sha256: sha256Hex(incar.bytes) });
+    if (incarContent && incarContent.noncollinear !== null && options.spinorbit === undefined) {
+      spinorbit = incarContent.noncollinear;
     } else if (options.spinorbit === undefined && data.occupations && data.nSpin === 1 && data.nk > 0) {
       let occupied = 0;
       for (let b = 0; b < data.nBands; b++) occupied += data.occupations[0]![b]!;
@@ -91,6 +90,12 @@ export const vaspEigenvalReader: FormatReader = {
         });
       }
     }
+    // How the energies were computed: INCAR's tags, or our model marker in the EIGENVAL's SYSTEM line.
+    const method =
+      modelMethodFromSystem(data.system, `The EIGENVAL (${basename(main.path)})`) ??
+      (incarContent
+        ? vaspMethod(incarContent.tags, `The INCAR beside the EIGENVAL (${basename(incar!.path)})`)
+        : { family: 'unknown' as const, name: null, evidence: `No INCAR beside ${basename(main.path)}: nothing says how the energies were computed.` });
 
     let { kpoints, weights, energies, occupations, nk } = data;
     const nBands = data.nBands;
@@ -162,6 +167,7 @@ export const vaspEigenvalReader: FormatReader = {
       fermiEnergy: null,
       electrons: data.electrons,
       spinorbit,
+      method,
       labels,
       sampling,
       grid: null,
