@@ -7,6 +7,8 @@ import { occupationRule } from './occupation';
 import { bandEdges, gapReport } from './gap';
 import { standardCautions } from './cautions';
 import { analyseExtrema } from './massEngine';
+import { symmetryContext } from './valleyCount';
+import { valleyRepresentative } from '../lattice/valleyIdentity';
 
 export interface AnalysisSettings {
   /** Energy window of the parabola fit, meV. */
@@ -56,6 +58,10 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
     }
     if (occ.fractionalFilling) warnings.push(`${bs.electrons} electrons do not fill a whole number of bands: the system is metallic (or the count is wrong).`);
     if (report.gap) analyseExtrema(bs, report, s, { occ, edges });
+    if (report.extrema.length) {
+      const sym = symmetryContext(bs).sym;
+      for (const x of report.extrema) x.valley = valleyRepresentative(x.k, sym ? sym.reciprocalPointGroup : null);
+    }
   }
   if (bs.partial) warnings.push('Partial data: the file is incomplete, so these results are provisional.');
   report.cautions = standardCautions(bs, report);
