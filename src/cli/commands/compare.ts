@@ -9,6 +9,7 @@ import { crystalSymmetry, ensureSymmetryReady } from '../../core/lattice/symmetr
 import { ANALYSIS_FLAGS, analysisSettingsFromArgs } from './analyze';
 import { isAnnotationsPath } from '../../core/annotations/annotationsModel';
 import { loadAnnotationsRun } from '../../core/compare/loadAnnotationsRun';
+import { compositionOf } from '../../core/compare/structureDescriptors';
 import type { CliIO } from '../io';
 
 export const COMPARE_HELP = `valleyscope compare <run> <run> [...] [options]
@@ -44,14 +45,18 @@ export async function runCompare(argv: string[], io: CliIO): Promise<number> {
     const bs = await loadRun(nodeFileAccessor, path, p.flags.has('soc') ? { spinorbit: true } : {});
     const report = analyzeBandStructure(bs, settings);
     let rotations = null;
+    let latticeType: string | null = null;
     if (bs.structure) {
       try {
-        rotations = crystalSymmetry(bs.structure).rotations;
+        const sym = crystalSymmetry(bs.structure);
+        rotations = sym.rotations;
+        latticeType = sym.bravaisClass;
       } catch {
         rotations = null;
       }
     }
-    runs.push({ name: path, report, lattice: bs.lattice, rotations, origin: 'data' });
+    const composition = bs.structure ? compositionOf(bs.structure.species) : null;
+    runs.push({ name: path, report, lattice: bs.lattice, rotations, latticeType, composition, fermi_eV: bs.fermiEnergy, origin: 'data' });
   }
   const c = compareRuns(runs, reference);
   io.out(formatComparison(c, format));
