@@ -20,6 +20,7 @@ import type { ExtremumReport, Mat3, Report, Vec3 } from '../model';
 import { equivalenceDistance, kRotations } from './kEquivalence';
 import { structureDescriptors, type StructureDescriptors } from './structureDescriptors';
 import { formatK } from '../report/summaryText';
+import { pathPosition, type LabelledLine } from '../lattice/pathPosition';
 
 export interface RunInput {
   name: string;
@@ -31,6 +32,8 @@ export interface RunInput {
   latticeType?: string | null;
   /** Species and counts of the cell (e.g. 'Ga1 As1'), when known: runs of one crystal may see valleys drift. */
   composition?: string | null;
+  /** The labelled lines of the run's path, to name unlabelled points as "0.85 Γ→X". */
+  pathLines?: LabelledLine[] | null;
   /** Fermi energy the run's files give (eV), for --energy-zero fermi; null or absent when unknown. */
   fermi_eV?: number | null;
   /** True when the run came from an annotations file whose sources changed. */
@@ -122,8 +125,9 @@ export const SAME_K_TOLERANCE = 2e-3;
 
 const sideOf = (e: ExtremumReport): Side => (e.kind === 'cbm' || e.kind === 'valley' ? 'conduction' : 'valence');
 
-function where(e: ExtremumReport): string {
-  return e.label ?? formatK(e.k);
+/** A point as people name it: its label, its place on a labelled line ("0.85 Γ→X"), or its fractional k. */
+function where(e: { label: string | null; k: Vec3 }, lines: LabelledLine[] | null = null): string {
+  return e.label ?? (lines ? pathPosition(e.k, lines) : null) ?? formatK(e.k);
 }
 
 function sortForBranches(list: ExtremumReport[], side: Side): ExtremumReport[] {
@@ -272,7 +276,7 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
         }
         if (!best) {
           const n = columns.filter((c) => c.side === g.side).length + 1;
-          best = { id: `${g.side === 'conduction' ? 'c' : 'v'}${n}`, side: g.side, spin: g.spin, where: where(e), k: e.k, branch };
+          best = { id: `${g.side === 'conduction' ? 'c' : 'v'}${n}`, side: g.side, spin: g.spin, where: where(e, run.pathLines ?? null), k: e.k, branch };
           columns.push(best);
           if (run === ref) ownColumns.add(best.id);
         }
@@ -301,13 +305,13 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
       valleys[id] = { extremum: e, offset_eV: e.offset_eV, deltaOffset_eV: r ? e.offset_eV - r.offset_eV : null, masses, split, degeneracyChanged };
       if (isReference || !r) continue;
       if (split.length) {
-        const parts = [e, ...split].map((x) => `${x.valleyDegeneracy ?? '?'} at ${where(x)}${x === e ? '' : ` (+${((sideOf(x) === 'conduction' ? x.eV - e.eV : e.eV - x.eV) * 1000).toFixed(0)} meV)`}`);
-        events.push({ run: run.name, kind: 'valley-split', message: `valley split: ${id} (${where(r)}, N_v ${r.valleyDegeneracy ?? '?'}) → ${parts.join(' + ')}` });
+        const parts = [e, ...split].map((x) => `${x.valleyDegeneracy ?? '?'} at ${where(x, run.pathLines ?? null)}${x === e ? '' : ` (+${((sideOf(x) === 'conduction' ? x.eV - e.eV : e.eV - x.eV) * 1000).toFixed(0)} meV)`}`);
+        events.push({ run: run.name, kind: 'valley-split', message: `valley split: ${id} (${where(r, ref.pathLines ?? null)}, N_v ${r.valleyDegeneracy ?? '?'}) → ${parts.join(' + ')}` });
       } else if (r.valleyDegeneracy !== null && e.valleyDegeneracy !== null && r.valleyDegeneracy !== e.valleyDegeneracy) {
-        events.push({ run: run.name, kind: 'valley-degeneracy', message: `valley ${id} (${where(e)}): N_v ${r.valleyDegeneracy} → ${e.valleyDegeneracy} (symmetry lowered or raised)` });
+        events.push({ run: run.name, kind: 'valley-degeneracy', message: `valley ${id} (${where(e, run.pathLines ?? null)}): N_v ${r.valleyDegeneracy} → ${e.valleyDegeneracy} (symmetry lowered or raised)` });
       }
       if (degeneracyChanged) {
-        events.push({ run: run.name, kind: 'degeneracy-changed', message: `degeneracy changed: valley ${id} (${where(e)}) has ${e.degenerateBands} degenerate band${e.degenerateBands === 1 ? '' : 's'}, the reference ${r.degenerateBands}; its branch masses are not paired` });
+        events.push({ run: run.name, kind: 'degeneracy-changed', message: `degeneracy changed: valley ${id} (${where(e, run.pathLines ?? null)}) has ${e.degenerateBands} degenerate band${e.degenerateBands === 1 ? '' : 's'}, the reference ${r.degenerateBands}; its branch masses are not paired` });
       }
     }
     const cbm = run.report.extrema.find((e) => e.kind === 'cbm');
@@ -324,8 +328,8 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
       gap_eV: g ? g.eV : null,
       deltaGap_eV: g && rg ? g.eV - rg.eV : null,
       direct: g ? g.direct : null,
-      vbm: g ? (g.vbm.label ?? formatK(g.vbm.k)) : null,
-      cbm: g ? (g.cbm.label ?? formatK(g.cbm.k)) : null,
+      vbm: g ? where(g.vbm, run.pathLines ?? null) : null,
+      cbm: g ? where(g.cbm, run.pathLines ?? null) : null,
       cbmValley: cbm ? (map.get(cbm) ?? null) : null,
       vbmValley: vbm ? (map.get(vbm) ?? null) : null,
       descriptors: run.lattice ? structureDescriptors(run.lattice, relative ? ref.lattice : null) : null,
@@ -336,10 +340,10 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
       const refCbmId = refCbm ? refMap.get(refCbm) : undefined;
       const refVbmId = refVbm ? refMap.get(refVbm) : undefined;
       if (refCbmId && out.cbmValley && refCbmId !== out.cbmValley) {
-        events.push({ run: run.name, kind: 'edge-moved', message: `the conduction band minimum moved from valley ${refCbmId} (${where(refCbm!)}) to valley ${out.cbmValley} (${where(cbm!)})` });
+        events.push({ run: run.name, kind: 'edge-moved', message: `the conduction band minimum moved from valley ${refCbmId} (${where(refCbm!, ref.pathLines ?? null)}) to valley ${out.cbmValley} (${where(cbm!, run.pathLines ?? null)})` });
       }
       if (refVbmId && out.vbmValley && refVbmId !== out.vbmValley) {
-        events.push({ run: run.name, kind: 'edge-moved', message: `the valence band maximum moved from valley ${refVbmId} (${where(refVbm!)}) to valley ${out.vbmValley} (${where(vbm!)})` });
+        events.push({ run: run.name, kind: 'edge-moved', message: `the valence band maximum moved from valley ${refVbmId} (${where(refVbm!, ref.pathLines ?? null)}) to valley ${out.vbmValley} (${where(vbm!, run.pathLines ?? null)})` });
       }
       if (rg && g && rg.direct !== g.direct) {
         events.push({ run: run.name, kind: 'direct-indirect', message: `the gap became ${g.direct ? 'direct' : 'indirect'}` });
