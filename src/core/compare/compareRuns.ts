@@ -318,7 +318,9 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
     const vbm = run.report.extrema.find((e) => e.kind === 'vbm');
     const g = run.report.gap;
     const rg = ref.report.gap;
-    const relative = !!(run.lattice && ref.lattice && sameShape(ref.lattice, run.lattice));
+    // Strain only between cells of one crystal (another material's cell is not a strained reference).
+    const sameCrystal = !ref.composition || !run.composition || ref.composition === run.composition;
+    const relative = !!(run.lattice && ref.lattice && sameShape(ref.lattice, run.lattice) && sameCrystal);
     const out: ComparedRun = {
       name: run.name,
       isReference,
