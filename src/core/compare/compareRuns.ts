@@ -99,6 +99,8 @@ export interface ComparedRun {
   cbmValley: string | null;
   vbmValley: string | null;
   descriptors: StructureDescriptors | null;
+  /** The run has two spin channels (outputs then name each valley's channel up/down). */
+  spinPolarised: boolean;
   /** The run the strain descriptors are relative to (the reference), or null when they are not. */
   relativeTo: string | null;
   /** valley id → entry (absent when the run has no such extremum). */
@@ -335,6 +337,7 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
       cbmValley: cbm ? (map.get(cbm) ?? null) : null,
       vbmValley: vbm ? (map.get(vbm) ?? null) : null,
       descriptors: run.lattice ? structureDescriptors(run.lattice, relative ? ref.lattice : null) : null,
+      spinPolarised: run.report.nspin === 2,
       relativeTo: run.lattice && relative ? ref.name : null,
       valleys,
     };

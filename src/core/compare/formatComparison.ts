@@ -73,8 +73,10 @@ function zeroOf(o: ComparisonFormatOptions, run: string): EnergyZero | null {
   return o.zeros?.[run] ?? null;
 }
 
-function valleyName(col: ValleyColumn): string {
-  return `${col.id} ${col.where}`;
+/** A valley as shown: id and place, and its spin channel when any run is spin-polarised (never otherwise). */
+function valleyName(col: ValleyColumn, c: Comparison): string {
+  const spin = c.runs.some((r) => r.spinPolarised) ? ` ${col.spin === 1 ? 'down' : 'up'}` : '';
+  return `${col.id}${spin} ${col.where}`;
 }
 
 function valleyTable(c: Comparison, short: Map<string, string>, o: ComparisonFormatOptions): Table {
@@ -90,7 +92,7 @@ function valleyTable(c: Comparison, short: Map<string, string>, o: ComparisonFor
         .filter(Boolean)
         .join('; ');
       rows.push([
-        valleyName(col),
+        valleyName(col, c),
         short.get(r.name)!,
         e.kind,
         num(e.eV - (z?.eV ?? 0), 4),
@@ -127,7 +129,7 @@ function massTable(c: Comparison, short: Map<string, string>): Table {
       for (const r of c.runs) {
         for (const m of r.valleys[col.id]?.masses ?? []) {
           if (m.direction !== k.direction || m.branch !== k.branch) continue;
-          rows.push([valleyName(col), k.direction, k.branch === null ? '' : String(k.branch), short.get(r.name)!, fmt(m.mass, 3), massDifference(m)]);
+          rows.push([valleyName(col, c), k.direction, k.branch === null ? '' : String(k.branch), short.get(r.name)!, fmt(m.mass, 3), massDifference(m)]);
         }
       }
     }
@@ -223,7 +225,7 @@ function csv(c: Comparison, o: ComparisonFormatOptions): string {
       const e = v.extremum;
       const z = zeroOf(o, r.name);
       const rz = ref ? zeroOf(o, ref.name) : null;
-      const x = { ...base, extremum: valleyName(col), kind: e.kind };
+      const x = { ...base, extremum: valleyName(col, c), kind: e.kind };
       rows.push(csvLine({ ...x, quantity: 'energy', value: e.eV - (z?.eV ?? 0), unit: z ? `eV (zero: ${z.used})` : 'eV', reference: rv ? rv.extremum.eV - (rz?.eV ?? 0) : null }));
       rows.push(csvLine({ ...x, quantity: 'offset_from_edge', value: v.offset_eV * 1000, unit: 'meV', reference: rv ? rv.offset_eV * 1000 : null }));
       rows.push(csvLine({ ...x, quantity: 'valley_degeneracy', value: e.valleyDegeneracy, unit: '', reference: rv?.extremum.valleyDegeneracy ?? null }));
