@@ -55,7 +55,8 @@ export function extremaWithFits(report: Report, fits: ChosenFit[]): ExtremumRepo
   for (const f of fits) {
     const id = layout1EntryId(f.extremum);
     const i = out.findIndex((x) => layout1EntryId(x) === id);
-    if (i >= 0) out[i] = f.extremum;
+    // The reviewer's fit keeps the valley the analysis named (the star of k needs the crystal's symmetry).
+    if (i >= 0) out[i] = { ...f.extremum, valley: f.extremum.valley ?? out[i]!.valley };
     else out.push(f.extremum);
   }
   return out;
