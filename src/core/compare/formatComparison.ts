@@ -215,8 +215,8 @@ function csv(c: Comparison, o: ComparisonFormatOptions): string {
       const rd = ref?.descriptors ?? null;
       rows.push(csvLine({ ...base, extremum: 'cell', kind: 'structure', quantity: 'volume', value: d.volume, unit: 'Å^3', reference: rd?.volume ?? null }));
       // Strains are themselves relative to the reference run: no second difference is taken.
-      if (d.volumeStrain !== null) rows.push(csvLine({ ...base, isReference: true, extremum: 'cell', kind: 'structure', quantity: `volume_strain_relative_to_${c.reference}`, value: d.volumeStrain * 100, unit: '%', reference: null }));
-      if (d.inPlaneStrain !== null) rows.push(csvLine({ ...base, isReference: true, extremum: 'cell', kind: 'structure', quantity: `in_plane_strain_relative_to_${c.reference}`, value: d.inPlaneStrain * 100, unit: '%', reference: null }));
+      if (d.volumeStrain !== null) rows.push(csvLine({ ...base, isReference: true, extremum: 'cell', kind: 'structure', quantity: 'volume_strain', value: d.volumeStrain * 100, unit: `% relative to ${c.reference}`, reference: null }));
+      if (d.inPlaneStrain !== null) rows.push(csvLine({ ...base, isReference: true, extremum: 'cell', kind: 'structure', quantity: 'in_plane_strain', value: d.inPlaneStrain * 100, unit: `% relative to ${c.reference}`, reference: null }));
     }
     for (const col of c.columns) {
       const v: ValleyEntry | undefined = r.valleys[col.id];

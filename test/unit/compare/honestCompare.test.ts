@@ -174,7 +174,8 @@ describe('comparison outputs', () => {
     assert.match(table, /in-plane \(%\)\*/);
     assert.match(table, /Strain relative to bulk \(the reference run\)/);
     const csv = formatComparison(c, 'csv');
-    assert.match(csv, /film,cell,structure,in_plane_strain_relative_to_bulk,,,1,%,,,/);
+    assert.match(csv, /^film,cell,structure,in_plane_strain,,,1,% relative to bulk,,,$/m);
+    assert.match(csv, /^film,cell,structure,volume_strain,,,[0-9.]+,% relative to bulk,,,$/m);
   });
 
   it('keeps the text table within 120 columns however long the run names', () => {
