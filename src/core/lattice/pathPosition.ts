@@ -47,7 +47,8 @@ export function pathPosition(k: readonly number[], lines: readonly LabelledLine[
     const t = ((k[0]! - l.kFrom[0]) * d[0]! + (k[1]! - l.kFrom[1]) * d[1]! + (k[2]! - l.kFrom[2]) * d[2]!) / dd;
     if (t <= tol || t >= 1 - tol) continue;
     const off = Math.max(...[0, 1, 2].map((i) => Math.abs(l.kFrom[i]! + t * d[i]! - k[i]!)));
-    if (off < tol) return `${t.toFixed(2)} ${l.from}→${l.to}`;
+    // Counted from Γ when the line ends there ("0.85 Γ→Z" rather than "0.15 Z→Γ"), as people say it.
+    if (off < tol) return l.to === 'Γ' && l.from !== 'Γ' ? `${(1 - t).toFixed(2)} Γ→${l.from}` : `${t.toFixed(2)} ${l.from}→${l.to}`;
   }
   return null;
 }

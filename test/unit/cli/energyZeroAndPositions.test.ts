@@ -28,6 +28,8 @@ describe('positions on labelled path lines', () => {
     // (0.425, 0, 0.425) = 0.85 × X with X = (½, 0, ½) (arithmetic).
     assert.equal(pathPosition([0.425, 0, 0.425], lines), '0.85 Γ→X');
     assert.equal(pathPosition([0.5, 0.125, 0.625], lines), '0.50 X→W');
+    // A line written towards Γ is still counted from Γ.
+    assert.equal(pathPosition([0, 0, 0.4], [{ from: 'Z', to: 'Γ', kFrom: [0, 0, 0.5], kTo: [0, 0, 0] }]), '0.80 Γ→Z');
   });
   it('gives nothing at the labelled ends or off the lines', () => {
     assert.equal(pathPosition([0, 0, 0], lines), null);
