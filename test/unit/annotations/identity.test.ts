@@ -176,8 +176,8 @@ describe('annotation entries keep their identity across re-runs', () => {
 
   it('reports an entry no longer found as orphaned, with its note kept', () => {
     const older = review(annotate(run()));
-    // The same file with the conduction valley lifted above the range of secondary extrema is another run;
-    // here a hand-added entry at a k the model has no extremum at stands in for it.
+    // An entry for an extremum the model does not have (a reviewer's entry for a shoulder at (¼, ¼, 0)): the
+    // next analysis cannot find it, so it is orphaned, kept with its note, and counted as such.
     older.entries.push({ ...older.entries[0]!, kind: 'peak', id: 'x', k: [0.25, 0.25, 0], valley: [0.25, 0.25, 0], edgeBand: 1, note: 'odd shoulder' });
     const merged = rerun(parseAnnotations(serializeAnnotations(older), 'a'), run());
     assert.equal(merged.summary.orphaned.length, 1);
