@@ -3,7 +3,8 @@
 //   1. `analyze` on each run, printing the readable summaries;
 //   2. `annotate` on each run (writes <file>.valleys.json beside each EIGENVAL; a second run changes nothing),
 //      when the command exists;
-//      then `check` over fixtures/demo (the annotations must be fresh), when that command exists;
+//      then `check` over fixtures/demo (the annotations must be fresh), as text and as a review comment
+//      (`--format md`), when that command exists;
 //   3. `compare` over the strain series against the unstrained run, when the command exists;
 //   4. a trend plot (gap and conduction-band mass against in-plane strain): fixtures/demo/si-strain/trend.svg.
 // Only commands that `dist/cli.js --help` lists are called; anything skipped is said so.
@@ -79,6 +80,9 @@ if (has('annotate')) {
     console.log('\nvalleyscope check: are the annotations just written fresh against their data files?');
     const c = runCli(['check', rel(demo)]);
     if (c.status === 0) console.log(c.stdout.trimEnd());
+    console.log('\nvalleyscope check --format md: the same as a review comment (details collapsed when rendered)');
+    const md = runCli(['check', rel(demo), '--format', 'md']);
+    if (md.status === 0) console.log(md.stdout.trimEnd());
   } else {
     skipped.push('check (this build has no "check" command)');
   }

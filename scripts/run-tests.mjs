@@ -1,10 +1,14 @@
 #!/usr/bin/env node
 // Runs the test suites that can run on this machine (unit, property, corpus, webview in headless Chromium)
 // with mocha, and ends with one line "N passed, N failed" for CI.
+// Before the webview suite it checks for the system browser (Debian's chromium) and installs it when it can
+// (as root), or says in one sentence which command to run (see browserCheck.mjs); the suite then counts as
+// failed, never as silently skipped.
 // Usage: node scripts/run-tests.mjs [unit|webview|all] [extra mocha args...]
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
+import { ensureBrowser, realMachine } from './browserCheck.mjs';
 
 const which = process.argv[2] && !process.argv[2].startsWith('-') ? process.argv[2] : 'all';
 const extra = process.argv.slice(which === process.argv[2] ? 3 : 2);
@@ -18,6 +22,12 @@ for (const suite of suites) {
   const dir = join('test', suite);
   if (!existsSync(dir)) {
     console.error(`test suite folder ${dir} is missing`);
+    failed++;
+    code = 1;
+    continue;
+  }
+  if (suite === 'webview' && !ensureBrowser(realMachine).ok) {
+    console.error('webview suite not run: the browser it needs is missing (see the sentence above).');
     failed++;
     code = 1;
     continue;

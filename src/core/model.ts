@@ -197,6 +197,12 @@ export interface ExtremumReport extends BandPoint {
   offset_eV: number;
   degenerateBands: number;
   valleyDegeneracy: number | null;
+  /**
+   * The valley as a name that survives re-runs: the chosen member of the star of k under the crystal's point
+   * group and time reversal (lattice/valleyIdentity.ts); under time reversal only when the crystal is
+   * unknown. Absent in reports made without it.
+   */
+  valley?: Vec3;
   masses: MassFit[];
   tensor: MassTensor | null;
   dosMass: number | null;

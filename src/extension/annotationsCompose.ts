@@ -9,7 +9,7 @@ import { buildAnnotations } from '../core/annotations/buildAnnotations';
 import { mergeAnnotations } from '../core/annotations/mergeAnnotations';
 import { parseAnnotations } from '../core/annotations/parseAnnotations';
 import { serializeAnnotations } from '../core/annotations/serializeAnnotations';
-import { entryId, type AnnotationsDoc } from '../core/annotations/annotationsModel';
+import { layout1EntryId, type AnnotationsDoc } from '../core/annotations/annotationsModel';
 
 export interface ChosenFit {
   /** The extremum as the core fitted it with the reviewer's window and method. */
@@ -53,9 +53,10 @@ export function joinNotes(before: string, now: string | undefined): string {
 export function extremaWithFits(report: Report, fits: ChosenFit[]): ExtremumReport[] {
   const out = [...report.extrema];
   for (const f of fits) {
-    const id = entryId(f.extremum);
-    const i = out.findIndex((x) => entryId(x) === id);
-    if (i >= 0) out[i] = f.extremum;
+    const id = layout1EntryId(f.extremum);
+    const i = out.findIndex((x) => layout1EntryId(x) === id);
+    // The reviewer's fit keeps the valley the analysis named (the star of k needs the crystal's symmetry).
+    if (i >= 0) out[i] = { ...f.extremum, valley: f.extremum.valley ?? out[i]!.valley };
     else out.push(f.extremum);
   }
   return out;
@@ -71,8 +72,9 @@ export function composeAnnotations(input: ComposeInput): Composed {
     doc = mergeAnnotations(older, doc);
   }
   for (const f of input.fits) {
-    const id = entryId(f.extremum);
-    const e = doc.entries.find((x) => x.id === id);
+    // The entry of this very extremum (same kind, spin, band and k; ids name valleys, which is coarser).
+    const id = layout1EntryId(f.extremum);
+    const e = doc.entries.find((x) => layout1EntryId(x) === id);
     if (e) e.note = joinNotes(e.note, f.note);
   }
   doc.note = joinNotes(doc.note, input.runNote);

@@ -35,6 +35,7 @@ const ANNOTATIONS_CAUTION = 'Rows from annotations files show the numbers as the
 /** Structural descriptors offered as trend x-axes, in this order. */
 export const DESCRIPTOR_COLUMNS: CompareColumn[] = [
   { key: 'volumeStrain', label: 'Volume strain', unit: '%', group: 'structure', title: 'Cell volume relative to the reference run, minus one (per cent).', decimals: 3 },
+  { key: 'inPlaneStrain', label: 'In-plane strain', unit: '%', group: 'structure', title: 'Biaxial series: in-plane strain λ∥ − 1 relative to the reference run (per cent); empty when the strain is not biaxial.', decimals: 3 },
   { key: 'hydrostaticStrain', label: 'Hydrostatic strain', unit: '%', group: 'structure', title: 'Mean of the diagonal Green–Lagrange strain relative to the reference run (per cent).', decimals: 3 },
   { key: 'volume', label: 'Volume', unit: 'Å³', group: 'structure', title: 'Cell volume of the run’s structure.', decimals: 3 },
   { key: 'a', label: 'a', unit: 'Å', group: 'structure', title: 'Length of the first lattice vector.', decimals: 4 },
@@ -101,6 +102,7 @@ function valuesOf(c: Comparison, run: ComparedRun, report: RunInput['report']): 
   v.c = d?.c ?? null;
   v.volumeStrain = d?.volumeStrain === null || d?.volumeStrain === undefined ? null : d.volumeStrain * 100;
   v.hydrostaticStrain = d?.hydrostaticStrain === null || d?.hydrostaticStrain === undefined ? null : d.hydrostaticStrain * 100;
+  v.inPlaneStrain = d?.inPlaneStrain === null || d?.inPlaneStrain === undefined ? null : d.inPlaneStrain * 100;
   return v;
 }
 

@@ -1,8 +1,9 @@
 /** Short texts about the gap for the status bar and the code lens. Pure. */
 import type { BandPoint, Report } from '../core/model';
 
-function where(p: BandPoint): string {
-  const spin = p.spin === 1 ? ', spin down' : '';
+/** Spin named up/down in a spin-polarised run, not mentioned otherwise. */
+function where(p: BandPoint, spinPolarised = false): string {
+  const spin = spinPolarised ? `, spin ${p.spin === 1 ? 'down' : 'up'}` : '';
   return `${p.label ?? 'k ' + p.k.map((x) => x.toFixed(3)).join(' ')} (band ${p.band}${spin})`;
 }
 
@@ -26,8 +27,8 @@ export function gapTooltip(report: Report, partial: boolean): string {
   else if (report.gap) {
     const g = report.gap;
     lines.push(`Band gap ${g.eV.toFixed(4)} eV, ${g.direct ? 'direct' : 'indirect'}`);
-    lines.push(`VBM ${g.vbm.eV.toFixed(4)} eV at ${where(g.vbm)}`);
-    lines.push(`CBM ${g.cbm.eV.toFixed(4)} eV at ${where(g.cbm)}`);
+    lines.push(`VBM ${g.vbm.eV.toFixed(4)} eV at ${where(g.vbm, report.nspin === 2)}`);
+    lines.push(`CBM ${g.cbm.eV.toFixed(4)} eV at ${where(g.cbm, report.nspin === 2)}`);
     if (!g.direct) lines.push(`Smallest direct gap ${g.directGap.eV.toFixed(4)} eV`);
   } else lines.push('Band edges unknown: no occupations, electron count or Fermi energy in the files read.');
   if (report.spinors) lines.push('Spinors (noncollinear run): one electron per band.');
@@ -44,7 +45,7 @@ export function gapLensText(report: Report, partial: boolean): string {
   if (report.gapReason) return `No gap: the run covers only the neighbourhood of one point${suffix}`;
   if (report.gap) {
     const g = report.gap;
-    return `Gap ${g.eV.toFixed(2)} eV ${g.direct ? 'direct' : 'indirect'}: VBM ${where(g.vbm)} → CBM ${where(g.cbm)}${suffix}`;
+    return `Gap ${g.eV.toFixed(2)} eV ${g.direct ? 'direct' : 'indirect'}: VBM ${where(g.vbm, report.nspin === 2)} → CBM ${where(g.cbm, report.nspin === 2)}${suffix}`;
   }
   return `Band edges unknown (no occupations, electron count or Fermi energy)${suffix}`;
 }

@@ -84,7 +84,7 @@ export function hoverLines(bs: BandStructure, report: Report, geometry: PathGeom
   for (const x of report.extrema) {
     if (sameK(bs, k, x.k)) {
       const n = x.degenerateBands > 1 ? `, ${x.degenerateBands} bands degenerate` : '';
-      hosts.push(`${KIND_WORDS[x.kind]} (band ${x.band}${x.spin === 1 ? ', spin down' : ''}${n})`);
+      hosts.push(`${KIND_WORDS[x.kind]} (band ${x.band}${bs.nSpin === 2 ? `, spin ${x.spin === 1 ? 'down' : 'up'}` : ''}${n})`);
     }
   }
   if (report.gap) {

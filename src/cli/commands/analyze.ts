@@ -10,6 +10,8 @@ import type { CliIO } from '../io';
 import type { ReadOptions } from '../../core/formats/types';
 import { readStructureFile } from '../../core/formats/structureFile';
 import { READ_LIMITS } from '../../core/io/readLimits';
+import { ENERGY_ZEROS, energyZeroOf, isEnergyZeroMode, type EnergyZeroMode } from '../../core/report/energyZero';
+import { labelledLines, pathPosition } from '../../core/lattice/pathPosition';
 
 export const ANALYZE_HELP = `valleyscope analyze <file-or-folder> [options]
   Read an eigenvalue file (or find one in a run folder) and report the gap, band edges and effective masses.
@@ -22,7 +24,17 @@ export const ANALYZE_HELP = `valleyscope analyze <file-or-folder> [options]
                     k in 2π/alat without a cell (bands.x output); a bare number is refused. alat alone gives
                     distances and masses, not the lattice: labels then need --structure
   --structure <file>  a POSCAR-like structure file (or a pw.x XML data file, which also gives the electron
-                    count and spinor state), for runs whose files give no cell or atoms`;
+                    count and spinor state), for runs whose files give no cell or atoms
+  --energy-zero <vbm|cbm|midgap|fermi|raw>
+                    the zero of the energies printed (default vbm); --json keeps the raw energies and
+                    says which zero the text would use`;
+
+/** --energy-zero, checked (default vbm). */
+export function energyZeroFromArgs(p: ReturnType<typeof parseArgs>): EnergyZeroMode {
+  const z = flag(p, 'energy-zero') ?? 'vbm';
+  if (!isEnergyZeroMode(z)) throw new UsageError(`--energy-zero must be one of ${ENERGY_ZEROS.join(', ')}, got "${z}"`);
+  return z;
+}
 
 export function analysisSettingsFromArgs(p: ReturnType<typeof parseArgs>): Partial<AnalysisSettings> {
   const s: Partial<AnalysisSettings> = {};
@@ -78,12 +90,21 @@ export async function readOptionsFromArgs(p: ReturnType<typeof parseArgs>): Prom
 }
 
 export async function runAnalyze(argv: string[], io: CliIO): Promise<number> {
-  const p = parseArgs(argv, { json: { value: false }, ...ANALYSIS_FLAGS, ...READ_FLAGS });
+  const p = parseArgs(argv, { json: { value: false }, 'energy-zero': { value: true }, ...ANALYSIS_FLAGS, ...READ_FLAGS });
   if (p.positional.length !== 1) throw new UsageError('analyze takes exactly one file or folder');
   const settings = analysisSettingsFromArgs(p);
+  const mode = energyZeroFromArgs(p);
   const bs = await loadRun(nodeFileAccessor, p.positional[0]!, await readOptionsFromArgs(p));
   const report = analyzeBandStructure(bs, settings);
-  if (p.flags.has('json')) io.out(JSON.stringify(reportToJson(report)));
-  else io.out(summaryText(report));
+  const zero = energyZeroOf(report, mode, bs.fermiEnergy);
+  const lines = labelledLines(bs);
+  const positionOf = (k: readonly number[]): string | null => pathPosition(k, lines);
+  if (p.flags.has('json')) {
+    // Raw energies as the code wrote them; the zero and the path positions beside them.
+    const json = reportToJson(report);
+    json.energyZero = { requested: zero.requested, used: zero.used, eV: zero.eV, reason: zero.reason };
+    json.extrema = (json.extrema as Record<string, unknown>[]).map((x, i) => ({ ...x, pathPosition: positionOf(report.extrema[i]!.k) }));
+    io.out(JSON.stringify(json));
+  } else io.out(summaryText(report, { zero, positionOf }));
   return 0;
 }

@@ -8,7 +8,7 @@ import { annotationsPathFor, emptyExtra } from '../../core/annotations/annotatio
 import { parseAnnotations } from '../../core/annotations/parseAnnotations';
 import { serializeAnnotations } from '../../core/annotations/serializeAnnotations';
 import { analysisSettingsOf, buildAnnotations } from '../../core/annotations/buildAnnotations';
-import { mergeAnnotations } from '../../core/annotations/mergeAnnotations';
+import { mergeWithSummary, type MergeSummary } from '../../core/annotations/mergeAnnotations';
 import { compareAnnotations, EXACT_TOLERANCES } from '../../core/annotations/compareAnnotations';
 import { ReaderError, ValleyscopeError } from '../../core/errors';
 import { writeFileSafely, type SafeWriteOptions } from '../safeWrite';
@@ -146,7 +146,8 @@ export async function annotateOne(
   const report = analyzeBandStructure(bs, settings);
   const fresh = buildAnnotations(report, bs.source, { ...settings, ...readSettings }, { toolVersion: TOOL_VERSION });
   fresh.sources.push(...sources);
-  const doc = older ? mergeAnnotations(older, fresh) : fresh;
+  const merged = older ? mergeWithSummary(older, fresh) : null;
+  const doc = merged ? merged.doc : fresh;
   const text = serializeAnnotations(doc);
   for (const w of readWarnings) io.err(`valleyscope: ${target}: ${w}`);
   if (text === oldText) {
@@ -159,9 +160,26 @@ export async function annotateOne(
     return;
   }
   const changes = compareAnnotations(older, doc, EXACT_TOLERANCES);
-  const kept = doc.entries.filter((e) => e.note !== '' || e.status !== 'unreviewed').length;
-  io.out(`${target}: updated; ${changes.length === 0 ? 'no recorded number moved (fit details, warnings or layout only)' : `${changes.length} change${changes.length === 1 ? '' : 's'}`}${kept ? `; notes and statuses of ${kept} entr${kept === 1 ? 'y' : 'ies'} kept` : ''}`);
+  io.out(`${target}: updated; ${changes.length === 0 ? 'no recorded number moved (fit details, warnings or layout only)' : `${changes.length} change${changes.length === 1 ? '' : 's'}`}${reviewSentence(merged!.summary)}`);
   for (const c of changes) io.out(`  ${c.message}`);
+  for (const f of merged!.summary.moved.filter((x) => x.reviewed)) io.out(`  moved (note and status kept): ${f.from} → ${f.to}`);
+  for (const f of merged!.summary.folded.filter((x) => x.reviewed)) io.out(`  folded into one entry (the run is no longer spin-polarised): ${f.from} → ${f.to}`);
+  for (const f of merged!.summary.orphaned.filter((x) => x.reviewed)) io.out(`  orphaned (kept with "found": false): ${f.from}`);
+}
+
+const entries = (n: number): string => `${n} entr${n === 1 ? 'y' : 'ies'}`;
+
+/** What happened to the reviewed entries (a note, or a status other than unreviewed), counted truthfully. */
+export function reviewSentence(s: MergeSummary): string {
+  const n = (list: { reviewed: boolean }[]): number => list.filter((x) => x.reviewed).length;
+  const parts = [
+    n(s.kept) ? `${n(s.kept)} kept` : '',
+    n(s.moved) ? `${n(s.moved)} moved to a new id` : '',
+    n(s.folded) ? `${n(s.folded)} folded into another` : '',
+    n(s.orphaned) ? `${n(s.orphaned)} orphaned (no longer found)` : '',
+  ].filter(Boolean);
+  const total = n(s.kept) + n(s.moved) + n(s.folded) + n(s.orphaned);
+  return total ? `; reviewed ${entries(total)}: ${parts.join(', ')}` : '';
 }
 
 export async function runAnnotate(argv: string[], io: CliIO): Promise<number> {

@@ -11,12 +11,13 @@ import { dirname, joinPath } from '../../core/io/fileAccessor';
 import { checkConfined } from '../../core/io/pathPolicy';
 import { READ_LIMITS } from '../../core/io/readLimits';
 import { fsErrorCode, fsErrorSentence } from '../fsErrors';
+import type { InputWarning } from '../../core/model';
 import { dataPathFor, isAnnotationsPath, annotationsPathFor, type AnnotationsDoc } from '../../core/annotations/annotationsModel';
 import { parseAnnotations } from '../../core/annotations/parseAnnotations';
 import { analysisSettingsOf, annotatedSources } from '../../core/annotations/buildAnnotations';
 import { checkAnnotations, type CheckResult } from '../../core/annotations/checkAnnotations';
 import { DEFAULT_TOLERANCES, type Tolerances } from '../../core/annotations/compareAnnotations';
-import { annotationsMarkdown } from '../../core/annotations/annotationsMarkdown';
+import { checkMarkdown } from '../../core/annotations/checkMarkdown';
 import { ValleyscopeError } from '../../core/errors';
 import type { CliIO } from '../io';
 import { readOptionsFor } from './annotate';
@@ -126,12 +127,42 @@ export async function checkFile(file: string, tol: Tolerances, root: string | nu
     const { options, sources } = await readOptionsFor(file, doc.settings);
     const bs = await readLocated(nodeFileAccessor, loc, options);
     const report = analyzeBandStructure(bs, analysisSettingsOf(doc));
-    return { file, doc, result: checkAnnotations(doc, [...annotatedSources(bs.source), ...sources], report, tol), error: null };
+    const result = checkAnnotations(doc, [...annotatedSources(bs.source), ...sources], report, tol);
+    return { file, doc, result: await explainUnread(result, file, bs.warnings), error: null };
   } catch (e) {
     if (e instanceof ValleyscopeError) return { file, doc, result: null, error: e.message };
     if (fsErrorCode(e)) return { file, doc, result: null, error: fsErrorSentence(file, e).message };
     throw e;
   }
+}
+
+/**
+ * A recorded source that the run no longer reads but that is still there was set aside by the reader (it
+ * did not parse): say so with the reader's own sentence (file, line, column), not "missing".
+ */
+async function explainUnread(result: CheckResult, file: string, warnings: readonly InputWarning[]): Promise<CheckResult> {
+  const dir = dirname(file);
+  const stale = [];
+  for (const c of result.stale) {
+    if (c.kind !== 'removed' || c.scope !== 'source') {
+      stale.push(c);
+      continue;
+    }
+    const path = joinPath(dir, c.subject);
+    const st = await nodeFileAccessor.stat(path);
+    if (!st || st.type !== 'file') {
+      stale.push({ ...c, message: c.message.replace('is no longer read with the run (missing, or no longer used)', 'is missing') });
+      continue;
+    }
+    const why = warnings.find((w) => w.file !== undefined && (w.file === path || w.file.replace(/\\/g, '/').endsWith(`/${c.subject}`)));
+    stale.push({
+      ...c,
+      message: why
+        ? c.message.replace('is no longer read with the run (missing, or no longer used)', `exists but could not be read: ${why.message}`)
+        : c.message.replace('is no longer read with the run (missing, or no longer used)', 'exists but is no longer used by the reader'),
+    });
+  }
+  return { ...result, stale };
 }
 
 function textReport(outcomes: FileOutcome[]): string {
@@ -164,16 +195,11 @@ function summaryLine(outcomes: FileOutcome[]): string {
 }
 
 function markdownReport(outcomes: FileOutcome[], notes: string[] = []): string {
-  const parts = [`**Valleyscope check:** ${summaryLine(outcomes)}`, ''];
-  for (const n of notes) parts.push(`> ${n.replace(/\|/g, '\\|')}`, '');
-  for (const o of outcomes) {
-    if (o.error !== null) {
-      parts.push(`### Valleyscope annotations: \`${o.file.replace(/`/g, "'")}\` — **could not be checked**`, '', o.error.replace(/\|/g, '\\|'), '');
-    } else {
-      parts.push(annotationsMarkdown(o.doc, o.file, o.result));
-    }
-  }
-  return parts.join('\n');
+  const md = checkMarkdown(outcomes, summaryLine(outcomes));
+  if (notes.length === 0) return md;
+  // What the search could not look at (depth limit, links not followed) goes under the summary line.
+  const [first, ...rest] = md.split('\n');
+  return [first!, '', ...notes.map((n) => `> ${n.replace(/\|/g, '\\|')}`), ...rest].join('\n');
 }
 
 export async function runCheck(argv: string[], io: CliIO): Promise<number> {

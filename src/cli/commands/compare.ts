@@ -6,9 +6,12 @@ import { analyzeBandStructure } from '../../core/analysis/analyze';
 import { compareRuns, type RunInput } from '../../core/compare/compareRuns';
 import { formatComparison, type ComparisonFormat } from '../../core/compare/formatComparison';
 import { crystalSymmetry, ensureSymmetryReady } from '../../core/lattice/symmetry';
-import { ANALYSIS_FLAGS, analysisSettingsFromArgs } from './analyze';
+import { ANALYSIS_FLAGS, analysisSettingsFromArgs, energyZeroFromArgs } from './analyze';
+import { energyZeroOf, type EnergyZero } from '../../core/report/energyZero';
 import { isAnnotationsPath } from '../../core/annotations/annotationsModel';
 import { loadAnnotationsRun } from '../../core/compare/loadAnnotationsRun';
+import { compositionOf } from '../../core/compare/structureDescriptors';
+import { labelledLines } from '../../core/lattice/pathPosition';
 import type { CliIO } from '../io';
 
 export const COMPARE_HELP = `valleyscope compare <run> <run> [...] [options]
@@ -16,13 +19,16 @@ export const COMPARE_HELP = `valleyscope compare <run> <run> [...] [options]
   matched up to symmetry, masses, valley degeneracy, and strain relative to the reference run. An
   annotations file gives the numbers the reviewer saved; it is marked stale when its data files changed.
   --reference <run>          the run the differences are taken against (default: the first)
-  --format table|csv|md|json table (default); md is ready to paste into a review comment
+  --format table|csv|md|json table (default); md is ready to paste into a review comment; csv is long
+                             form: run,extremum,kind,quantity,direction,branch,value,unit,reference_value,
+                             difference,relative_difference (mass differences on |m|)
+  --energy-zero vbm|cbm|midgap|fermi|raw   zero of the extrema energies shown (default vbm); json keeps raw
   --window, --method, --range, --soc   as for analyze`;
 
 const FORMATS: ComparisonFormat[] = ['table', 'csv', 'md', 'json'];
 
 export async function runCompare(argv: string[], io: CliIO): Promise<number> {
-  const p = parseArgs(argv, { reference: { value: true }, format: { value: true }, ...ANALYSIS_FLAGS });
+  const p = parseArgs(argv, { reference: { value: true }, format: { value: true }, 'energy-zero': { value: true }, ...ANALYSIS_FLAGS });
   if (p.positional.length < 2) throw new UsageError('compare needs at least two runs');
   const format = (flag(p, 'format') ?? 'table') as ComparisonFormat;
   if (!FORMATS.includes(format)) throw new UsageError(`--format must be one of ${FORMATS.join(', ')}, got "${format}"`);
@@ -31,6 +37,7 @@ export async function runCompare(argv: string[], io: CliIO): Promise<number> {
     throw new UsageError(`--reference must be one of the runs given, got "${reference}"`);
   }
   const settings = analysisSettingsFromArgs(p);
+  const zeroMode = energyZeroFromArgs(p);
   await ensureSymmetryReady();
   const runs: RunInput[] = [];
   const notes: string[] = [];
@@ -44,17 +51,27 @@ export async function runCompare(argv: string[], io: CliIO): Promise<number> {
     const bs = await loadRun(nodeFileAccessor, path, p.flags.has('soc') ? { spinorbit: true } : {});
     const report = analyzeBandStructure(bs, settings);
     let rotations = null;
+    let latticeType: string | null = null;
     if (bs.structure) {
       try {
-        rotations = crystalSymmetry(bs.structure).rotations;
+        const sym = crystalSymmetry(bs.structure);
+        rotations = sym.rotations;
+        latticeType = sym.bravaisClass;
       } catch {
         rotations = null;
       }
     }
-    runs.push({ name: path, report, lattice: bs.lattice, rotations, origin: 'data' });
+    const composition = bs.structure ? compositionOf(bs.structure.species) : null;
+    runs.push({ name: path, report, lattice: bs.lattice, rotations, latticeType, composition, fermi_eV: bs.fermiEnergy, pathLines: labelledLines(bs), origin: 'data' });
   }
   const c = compareRuns(runs, reference);
-  io.out(formatComparison(c, format));
+  const zeros: Record<string, EnergyZero> = {};
+  for (const r of runs) {
+    const z = energyZeroOf(r.report, zeroMode, r.fermi_eV ?? null);
+    zeros[r.name] = z;
+    if (z.reason) notes.push(`${r.name}: energies shown raw: the ${zeroMode} zero cannot be used (${z.reason})`);
+  }
+  io.out(formatComparison(c, format, { zeros }));
   // Why a run is stale, or has no structure: on stderr, so csv/json output stays machine-readable.
   for (const n of notes) io.err(n);
   return 0;

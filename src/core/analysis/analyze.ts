@@ -10,6 +10,8 @@ import { standardCautions } from './cautions';
 import { classifyConduction } from './conductionClass';
 import { localRun } from './localRun';
 import { analyseExtrema, analysePocketExtrema } from './massEngine';
+import { symmetryContext } from './valleyCount';
+import { valleyRepresentative } from '../lattice/valleyIdentity';
 
 export interface AnalysisSettings {
   /** Energy window of the parabola fit, meV. */
@@ -99,6 +101,11 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
       report.gap = null;
       if (report.spinGaps) report.spinGaps = report.spinGaps.map(() => null);
       report.gapReason = `The k-points cover only a small neighbourhood of ${centreK.map((x) => Number(x.toFixed(4))).join(', ')} (within ${(local.extent * 100).toFixed(0)} % of the shortest reciprocal vector): a gap needs the whole zone, so none is given, and only the extremum at the centre is reported.`;
+    }
+    if (report.extrema.length) {
+      // Each extremum's valley: one chosen member of the star of its k (the identity annotations use).
+      const sym = symmetryContext(bs).sym;
+      for (const x of report.extrema) x.valley = valleyRepresentative(x.k, sym ? sym.reciprocalPointGroup : null);
     }
   }
   if (bs.partial) warnings.push('Partial data: the file is incomplete, so these results are provisional.');

@@ -13,8 +13,12 @@ export type JsonValue = null | boolean | number | string | JsonValue[] | { [key:
 /** Fields found in the file that this version does not know, in the order they were written. */
 export type ExtraFields = Record<string, JsonValue>;
 
-/** The value of the top-level key `valleyscopeAnnotations`: the layout version of the file. */
-export const ANNOTATIONS_LAYOUT_VERSION = 1;
+/**
+ * The value of the top-level key `valleyscopeAnnotations`: the layout version of the file.
+ * 1: entries identified by kind, spin, absolute band and k. 2: by kind, spin channel (named only in
+ * spin-polarised runs), valley (the star of k) and band counted from the edge; layout 1 migrates on read.
+ */
+export const ANNOTATIONS_LAYOUT_VERSION = 2;
 /** The file name ending that marks an annotations file. */
 export const ANNOTATIONS_SUFFIX = '.valleys.json';
 
@@ -58,6 +62,7 @@ export interface AnnotatedSettings {
 export interface AnnotatedPoint {
   /** 1-based band index. */
   band: number;
+  /** Spin channel, 0 (up) or 1 (down); written as "up"/"down" only in spin-polarised runs. */
   spin: 0 | 1;
   /** Fractional reciprocal coordinates. */
   k: Vec3;
@@ -105,7 +110,7 @@ export interface AnnotatedTensor {
 }
 
 export interface AnnotatedEntry {
-  /** Stable identity: kind, spin, band and k (see entryId). */
+  /** Stable identity: kind, spin channel, band counted from the edge and valley (see entryId). */
   id: string;
   /** Review state: 'unreviewed', 'accepted', 'questioned', 'rejected', or a word the reviewer typed. */
   status: string;
@@ -114,8 +119,21 @@ export interface AnnotatedEntry {
   found: boolean;
   kind: ExtremumKind;
   spin: 0 | 1;
+  /** True when the run is spin-polarised (the spin channel is then part of the identity, named up/down). */
+  spinPolarised: boolean;
+  /** 1-based absolute band index in this run (information only: it shifts when bands are added below). */
   band: number;
+  /**
+   * Band counted from the edge on its side: valence 1 = the band of the VBM, 2 the one below; conduction
+   * 1 = the band of the CBM, 2 the one above. Null when the run has no gap to count from.
+   */
+  edgeBand: number | null;
   k: Vec3;
+  /**
+   * The valley: one chosen member of the star of k (the images of k under the crystal's point group and time
+   * reversal, modulo G; see valleyIdentity.ts). Equivalent k-points give the same member.
+   */
+  valley: Vec3;
   label: string | null;
   energy_eV: number;
   /** Energy below the VBM (valence) or above the CBM (conduction), eV. */
@@ -131,7 +149,10 @@ export interface AnnotatedEntry {
 }
 
 export interface AnnotationsDoc {
+  /** Layout version as read (the writer always writes ANNOTATIONS_LAYOUT_VERSION). */
   layoutVersion: number;
+  /** The run has two spin channels (entries then name theirs up/down). */
+  spinPolarised: boolean;
   toolVersion: string;
   /** Format id of the eigenvalue file (e.g. 'vasp-eigenval'). */
   format: string;
@@ -166,20 +187,50 @@ export function dataPathFor(annotationsFile: string): string {
  * A number in an id: at most 4 decimals, trailing zeros dropped, no "-0". Rounded from the 6 decimals the
  * file keeps, so an id computed before writing and after reading back is the same.
  */
-function idNumber(x: number): string {
+export function idNumber(x: number): string {
   let s = Number(x.toFixed(6)).toFixed(4);
   if (s.includes('.')) s = s.replace(/0+$/, '').replace(/\.$/, '');
   return s === '-0' ? '0' : s;
 }
 
-/** Stable identity of an extremum: kind, spin, 1-based band and k, e.g. "cbm/s0/b5/k=0.425,0,0.425". */
-export function entryId(e: { kind: string; spin: number; band: number; k: readonly number[] }): string {
+/** "up" / "down" for a spin-polarised run's channel; null when the run has one channel. */
+export function spinName(spin: number, spinPolarised: boolean): 'up' | 'down' | null {
+  return spinPolarised ? (spin === 1 ? 'down' : 'up') : null;
+}
+
+export interface EntryIdentity {
+  kind: string;
+  spin: number;
+  spinPolarised: boolean;
+  band: number;
+  edgeBand: number | null;
+  valley: readonly number[];
+}
+
+/**
+ * Stable identity of an extremum: kind, spin channel (only in spin-polarised runs), band counted from the
+ * edge ("e1"; the absolute band "b5" only when there is no edge to count from) and valley, e.g.
+ * "cbm/e1/v=0.425,0,0.425" or "vbm/down/e2/v=0,0,0". Never the absolute band when an edge is known: a
+ * deep band added to the run does not change it.
+ */
+export function entryId(e: EntryIdentity): string {
+  const spin = spinName(e.spin, e.spinPolarised);
+  const band = e.edgeBand !== null ? `e${e.edgeBand}` : `b${e.band}`;
+  return `${e.kind}/${spin ? `${spin}/` : ''}${band}/v=${e.valley.map(idNumber).join(',')}`;
+}
+
+/** Layout-1 identity (kind, spin number, absolute band, k): only to recognise ids written by older files. */
+export function layout1EntryId(e: { kind: string; spin: number; band: number; k: readonly number[] }): string {
   return `${e.kind}/s${e.spin}/b${e.band}/k=${e.k.map(idNumber).join(',')}`;
 }
 
-/** A short human name for messages: "CBM, band 5, spin 0, at X (0.5, 0, 0.5)". */
-export function entryTitle(e: { kind: string; spin: number; band: number; k: readonly number[]; label: string | null }): string {
+const ORDINAL = (n: number): string => (n === 1 ? '1st' : n === 2 ? '2nd' : n === 3 ? '3rd' : `${n}th`);
+
+/** A short human name for messages: "CBM, band 5 (1st from the edge), at X (0.5, 0, 0.5)"; spin named only when polarised. */
+export function entryTitle(e: { kind: string; spin: number; band: number; k: readonly number[]; label: string | null; spinPolarised?: boolean; edgeBand?: number | null }): string {
   const kind = e.kind === 'vbm' || e.kind === 'cbm' ? e.kind.toUpperCase() : e.kind;
   const at = `(${e.k.map(idNumber).join(', ')})`;
-  return `${kind}, band ${e.band}, spin ${e.spin}, at ${e.label ? `${e.label} ${at}` : `k = ${at}`}`;
+  const spin = spinName(e.spin, e.spinPolarised ?? false);
+  const edge = e.edgeBand !== undefined && e.edgeBand !== null ? ` (${ORDINAL(e.edgeBand)} from the edge)` : '';
+  return `${kind}, band ${e.band}${edge}${spin ? `, spin ${spin}` : ''}, at ${e.label ? `${e.label} ${at}` : `k = ${at}`}`;
 }

@@ -20,6 +20,7 @@ import {
 } from './annotationsModel';
 import { sortEntries } from './serializeAnnotations';
 import { mergeAnnotations } from './mergeAnnotations';
+import { valleyRepresentative } from '../lattice/valleyIdentity';
 
 export interface RecordedSettings extends AnalysisSettings {
   /** The run was read as spin-orbit because the user asked (`--soc`), not because its files say so. */
@@ -127,7 +128,35 @@ function tensor(t: MassTensor | null): AnnotatedTensor | null {
   };
 }
 
-function blankEntry(p: BandPoint, kind: AnnotatedEntry['kind']): AnnotatedEntry {
+/** Where the edges are, per spin channel, to count bands from them. */
+interface EdgeBands {
+  spinPolarised: boolean;
+  /** 1-based band of the VBM and CBM of each spin channel (index 0, 1), or of the run. */
+  vbm: (number | null)[];
+  cbm: (number | null)[];
+}
+
+function edgeBandsOf(report: Report): EdgeBands {
+  const spinPolarised = report.nspin === 2;
+  const vbm: (number | null)[] = [];
+  const cbm: (number | null)[] = [];
+  for (const s of [0, 1]) {
+    // A channel's own edges when the report gives them; the run's edges otherwise.
+    const g = report.spinGaps?.[s] ?? report.gap;
+    vbm.push(g ? g.vbm.band : null);
+    cbm.push(g ? g.cbm.band : null);
+  }
+  return { spinPolarised, vbm, cbm };
+}
+
+/** Band counted from the edge on its side (1 = the edge band), or null when there is no edge to count from. */
+export function bandFromEdge(kind: AnnotatedEntry['kind'], band: number, vbmBand: number | null, cbmBand: number | null): number | null {
+  const valence = kind === 'vbm' || kind === 'peak';
+  const n = valence ? (vbmBand === null ? null : vbmBand - band + 1) : cbmBand === null ? null : band - cbmBand + 1;
+  return n !== null && n >= 1 ? n : null;
+}
+
+function blankEntry(p: BandPoint, kind: AnnotatedEntry['kind'], edges: EdgeBands, valley?: Vec3): AnnotatedEntry {
   const e: AnnotatedEntry = {
     id: '',
     status: 'unreviewed',
@@ -135,8 +164,11 @@ function blankEntry(p: BandPoint, kind: AnnotatedEntry['kind']): AnnotatedEntry 
     found: true,
     kind,
     spin: p.spin,
+    spinPolarised: edges.spinPolarised,
     band: p.band,
+    edgeBand: bandFromEdge(kind, p.band, edges.vbm[p.spin] ?? null, edges.cbm[p.spin] ?? null),
     k: [p.k[0], p.k[1], p.k[2]],
+    valley: valley ? [valley[0], valley[1], valley[2]] : valleyRepresentative(p.k, null),
     label: p.label,
     energy_eV: p.eV,
     offset_eV: null,
@@ -153,8 +185,8 @@ function blankEntry(p: BandPoint, kind: AnnotatedEntry['kind']): AnnotatedEntry 
   return e;
 }
 
-function entryFromExtremum(x: ExtremumReport): AnnotatedEntry {
-  const e = blankEntry(x, x.kind);
+function entryFromExtremum(x: ExtremumReport, edges: EdgeBands): AnnotatedEntry {
+  const e = blankEntry(x, x.kind, edges, x.valley);
   e.offset_eV = finiteOrNull(x.offset_eV);
   e.degenerateBands = x.degenerateBands;
   e.valleyDegeneracy = x.valleyDegeneracy;
@@ -170,15 +202,18 @@ function entryFromExtremum(x: ExtremumReport): AnnotatedEntry {
 /** The entries a report gives, in file order, without notes. */
 export function entriesFromReport(report: Report): AnnotatedEntry[] {
   const out = new Map<string, AnnotatedEntry>();
+  const edges = edgeBandsOf(report);
   for (const x of report.extrema) {
-    const e = entryFromExtremum(x);
+    const e = entryFromExtremum(x, edges);
     if (!out.has(e.id)) out.set(e.id, e);
   }
   if (report.gap) {
     // With no extremum of a band-edge kind in the report, the edges of the gap are still worth an entry.
     for (const [kind, p] of [['vbm', report.gap.vbm], ['cbm', report.gap.cbm]] as const) {
       if (report.extrema.some((x) => x.kind === kind)) continue;
-      const e = blankEntry(p, kind);
+      // The same valley member as an extremum at this k would carry, when the report has one there.
+      const twin = report.extrema.find((x) => x.valley && x.k.every((v, i) => v === p.k[i]));
+      const e = blankEntry(p, kind, edges, twin?.valley);
       e.offset_eV = 0;
       if (!out.has(e.id)) out.set(e.id, e);
     }
@@ -213,6 +248,7 @@ export function buildAnnotations(report: Report, source: BandSource, settings: R
   const dir = folderOf(source.file);
   const fresh: AnnotationsDoc = {
     layoutVersion: ANNOTATIONS_LAYOUT_VERSION,
+    spinPolarised: report.nspin === 2,
     toolVersion: options.toolVersion,
     format: source.format,
     sources: annotatedSources(source),

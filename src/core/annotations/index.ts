@@ -10,10 +10,11 @@ export {
   analysisSettingsOf,
   recordedSettings,
   relativePath,
+  bandFromEdge,
   type BuildOptions,
   type RecordedSettings,
 } from './buildAnnotations';
-export { mergeAnnotations } from './mergeAnnotations';
+export { mergeAnnotations, mergeWithSummary, type EntryFate, type MergeSummary } from './mergeAnnotations';
 export { matchEntries, kDistance, K_MATCH_DISTANCE } from './matchEntries';
 export {
   compareAnnotations,
@@ -28,3 +29,4 @@ export {
 } from './compareAnnotations';
 export { checkAnnotations, type CheckResult, type CurrentSource } from './checkAnnotations';
 export { annotationsMarkdown } from './annotationsMarkdown';
+export { checkMarkdown, compactMasses, type CheckedFile } from './checkMarkdown';

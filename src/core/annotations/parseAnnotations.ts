@@ -13,6 +13,7 @@ import {
   REVIEW_STATUSES,
   emptyExtra,
   entryId,
+  layout1EntryId,
   type AnnotatedEntry,
   type AnnotatedGap,
   type AnnotatedMass,
@@ -26,6 +27,8 @@ import {
 } from './annotationsModel';
 import { JsonSyntaxError, parseJsonWithPositions, positionOf, type JsonNode } from './jsonWithPositions';
 import { DEFAULT_SETTINGS } from '../analysis/analyze';
+import { valleyRepresentative } from '../lattice/valleyIdentity';
+import { bandFromEdge } from './buildAnnotations';
 
 export const ANNOTATIONS_FORMAT = 'valleyscope-annotations';
 
@@ -193,9 +196,19 @@ function readSettings(w: Walker, n: JsonNode | undefined): AnnotatedSettings {
   };
 }
 
+/** A spin channel: "up"/"down" (layout 2, spin-polarised runs) or 0/1 (layout 1). */
 function readSpin(w: Walker, n: JsonNode | undefined, what: string): 0 | 1 {
-  return w.num(n, what, (x) => x === 0 || x === 1, '0 or 1') as 0 | 1;
+  if (n !== undefined && n.type === 'string') {
+    if (n.value === 'up') return 0;
+    if (n.value === 'down') return 1;
+    throw w.error(n.at, `${what} must be "up" or "down", found "${n.value}"`);
+  }
+  if (n !== undefined && n.type === 'null') return 0;
+  return w.num(n, what, (x) => x === 0 || x === 1, '"up", "down", 0 or 1') as 0 | 1;
 }
+
+/** Whether a spin field was written at all, and as a layout-1 number 1 (a second channel). */
+const saysSecondChannel = (n: JsonNode | undefined): boolean => n !== undefined && ((n.type === 'number' && n.value === 1) || (n.type === 'string' && n.value === 'down'));
 
 function readPoint(w: Walker, n: JsonNode, what: string): AnnotatedPoint {
   const o = w.obj(n, what);
@@ -269,11 +282,18 @@ function readTensor(w: Walker, n: JsonNode | undefined, what: string): Annotated
 }
 
 const ENTRY_KEYS = [
-  'id', 'status', 'note', 'found', 'kind', 'spin', 'band', 'k', 'label', 'energy_eV', 'offset_eV', 'degenerateBands',
+  'id', 'status', 'note', 'found', 'kind', 'spin', 'edgeBand', 'band', 'valley', 'k', 'label', 'energy_eV', 'offset_eV', 'degenerateBands',
   'valleyDegeneracy', 'masses', 'tensor', 'dosMass', 'conductivityMass', 'warnings',
 ];
 
-function readEntry(w: Walker, n: JsonNode, what: string): AnnotatedEntry {
+/** What an entry's identity needs from the rest of the file. */
+interface EntryContext {
+  layout: number;
+  spinPolarised: boolean;
+  gap: AnnotatedGap | null;
+}
+
+function readEntry(w: Walker, n: JsonNode, what: string, ctx: EntryContext): AnnotatedEntry {
   const o = w.obj(n, what);
   const f = w.fields(o, ENTRY_KEYS);
   const kindNode = need(w, o, f.get('kind'), `${what}.kind`);
@@ -290,8 +310,12 @@ function readEntry(w: Walker, n: JsonNode, what: string): AnnotatedEntry {
     found: w.bool(f.get('found'), `${what}.found`, true),
     kind: kind as ExtremumKind,
     spin: f.get('spin') === undefined ? 0 : readSpin(w, f.get('spin'), `${what}.spin`),
+    // Layout 2 names the channel ("up"/"down") exactly when the entry belongs to a spin-polarised run.
+    spinPolarised: ctx.layout < 2 ? ctx.spinPolarised : f.get('spin')?.type === 'string',
     band: w.num(need(w, o, f.get('band'), `${what}.band`), `${what}.band`, positiveWhole, 'a whole number of 1 or more'),
+    edgeBand: null,
     k: w.vec3(need(w, o, f.get('k'), `${what}.k`), `${what}.k`),
+    valley: [0, 0, 0],
     label: w.strOrNull(f.get('label'), `${what}.label`),
     energy_eV: w.num(need(w, o, f.get('energy_eV'), `${what}.energy_eV`), `${what}.energy_eV`),
     offset_eV: w.numOrNull(f.get('offset_eV'), `${what}.offset_eV`),
@@ -304,12 +328,23 @@ function readEntry(w: Walker, n: JsonNode, what: string): AnnotatedEntry {
     warnings: w.strings(f.get('warnings'), `${what}.warnings`),
     extra: f.extra,
   };
-  // The id is derived from kind, spin, band and k; a hand-edited id is replaced by the derived one.
+  // Layout 2 writes the band counted from the edge and the valley; layout 1 did not: derive them (from the
+  // gap's edge bands, and the star of k under time reversal only, since the file keeps no symmetry).
+  const edgeNode = f.get('edgeBand');
+  e.edgeBand =
+    edgeNode !== undefined
+      ? w.numOrNull(edgeNode, `${what}.edgeBand`, positiveWhole, 'a whole number of 1 or more')
+      : bandFromEdge(e.kind, e.band, ctx.gap ? ctx.gap.vbm.band : null, ctx.gap ? ctx.gap.cbm.band : null);
+  const valleyNode = f.get('valley');
+  e.valley = valleyNode !== undefined ? w.vec3(valleyNode, `${what}.valley`) : valleyRepresentative(e.k, null);
+  // The id is derived from kind, spin, band from the edge and valley; a hand-edited id is replaced by the
+  // derived one. A layout-1 id is recognised as such (it is migrated, not "hand-edited").
   e.id = entryId(e);
   const idNode = f.get('id');
   if (idNode !== undefined) {
     const written = w.str(idNode, `${what}.id`);
-    if (written !== e.id) w.warnings.push(`${what}: the id "${written}" does not match its kind, spin, band and k; it will be written as "${e.id}".`);
+    const expected = ctx.layout < 2 ? layout1EntryId(e) : e.id;
+    if (written !== expected) w.warnings.push(`${what}: the id "${written}" does not match the entry's other fields; it will be written as "${e.id}".`);
   }
   if (!(REVIEW_STATUSES as readonly string[]).includes(status)) {
     w.warnings.push(`${e.id}: the review status "${status}" is not one of ${REVIEW_STATUSES.join(', ')}; it is kept as written.`);
@@ -318,7 +353,7 @@ function readEntry(w: Walker, n: JsonNode, what: string): AnnotatedEntry {
 }
 
 const TOP_KEYS = [
-  'valleyscopeAnnotations', 'toolVersion', 'format', 'sources', 'settings', 'metal', 'gap', 'note', 'entries', 'warnings', 'cautions',
+  'valleyscopeAnnotations', 'toolVersion', 'format', 'spinPolarised', 'sources', 'settings', 'metal', 'gap', 'note', 'entries', 'warnings', 'cautions',
 ];
 
 /**
@@ -349,7 +384,22 @@ export function parseAnnotations(text: string, file: string, warnings: string[] 
       `the file uses annotations layout ${version}, newer than layout ${ANNOTATIONS_LAYOUT_VERSION} that this version of Valleyscope reads; update Valleyscope rather than overwrite it`,
     );
   }
-  const entries = w.list(f.get('entries'), 'entries').map((n, i) => readEntry(w, n, `entries[${i}]`));
+  const entryNodes = w.list(f.get('entries'), 'entries');
+  const gap = readGap(w, f.get('gap'));
+  const polarisedNode = f.get('spinPolarised');
+  // Layout 1 did not say; a second spin channel anywhere in the file says it.
+  const spinPolarised =
+    polarisedNode !== undefined
+      ? w.bool(polarisedNode, 'spinPolarised', false)
+      : entryNodes.some((n) => n.type === 'object' && saysSecondChannel(n.members.find((m) => m.key === 'spin')?.value)) ||
+        gap?.vbm.spin === 1 ||
+        gap?.cbm.spin === 1;
+  if (version < ANNOTATIONS_LAYOUT_VERSION) {
+    w.warnings.push(
+      `The file is in annotations layout ${version}: its entries are now identified by spin channel, valley and band counted from the edge (not the absolute band), and it will be written in layout ${ANNOTATIONS_LAYOUT_VERSION}.`,
+    );
+  }
+  const entries = entryNodes.map((n, i) => readEntry(w, n, `entries[${i}]`, { layout: version, spinPolarised, gap }));
   const seen = new Map<string, number>();
   entries.forEach((e, i) => {
     const first = seen.get(e.id);
@@ -362,12 +412,13 @@ export function parseAnnotations(text: string, file: string, warnings: string[] 
   const metalNode = f.get('metal');
   return {
     layoutVersion: version,
+    spinPolarised,
     toolVersion: w.str(f.get('toolVersion'), 'toolVersion', ''),
     format: w.str(f.get('format'), 'format', ''),
     sources: w.list(f.get('sources'), 'sources').map((n, i) => readSource(w, n, `sources[${i}]`)),
     settings: readSettings(w, f.get('settings')),
     metal: metalNode === undefined || metalNode.type === 'null' ? null : w.bool(metalNode, 'metal', false),
-    gap: readGap(w, f.get('gap')),
+    gap,
     note: w.str(f.get('note'), 'note', ''),
     entries,
     warnings: w.strings(f.get('warnings'), 'warnings'),

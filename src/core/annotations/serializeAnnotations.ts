@@ -18,7 +18,7 @@ import type {
   ExtraFields,
   JsonValue,
 } from './annotationsModel';
-import { EXTREMUM_KINDS, entryId } from './annotationsModel';
+import { EXTREMUM_KINDS, entryId, spinName } from './annotationsModel';
 import { formatNumber, type NumberStyle } from './numberFormat';
 
 /** A value on its way to text: numbers already formatted, objects as ordered key lists. */
@@ -69,12 +69,18 @@ function settingsOut(s: AnnotatedSettings): Out {
   return withExtra(fields, s.extra);
 }
 
-function pointOut(p: AnnotatedPoint): Out {
+/** The spin channel by name in a spin-polarised run; left out otherwise. */
+function spinField(spin: number, spinPolarised: boolean): [string, Out][] {
+  const name = spinName(spin, spinPolarised);
+  return name ? [['spin', str(name)]] : [];
+}
+
+function pointOut(p: AnnotatedPoint, spinPolarised: boolean): Out {
   return {
     t: 'obj',
     fields: [
       ['band', num(p.band, 'plain')],
-      ['spin', num(p.spin, 'plain')],
+      ...spinField(p.spin, spinPolarised),
       ['k', nums(p.k, 'k')],
       ['label', p.label === null ? NULL : str(p.label)],
       ['energy_eV', num(p.energy_eV, 'energy')],
@@ -82,14 +88,14 @@ function pointOut(p: AnnotatedPoint): Out {
   };
 }
 
-function gapOut(g: AnnotatedGap | null): Out {
+function gapOut(g: AnnotatedGap | null, spinPolarised: boolean): Out {
   if (!g) return NULL;
   return withExtra(
     [
       ['eV', num(g.eV, 'energy')],
       ['direct', bool(g.direct)],
-      ['vbm', pointOut(g.vbm)],
-      ['cbm', pointOut(g.cbm)],
+      ['vbm', pointOut(g.vbm, spinPolarised)],
+      ['cbm', pointOut(g.cbm, spinPolarised)],
       ['directGap', { t: 'obj', fields: [['eV', num(g.directGap.eV, 'energy')], ['k', nums(g.directGap.k, 'k')]] }],
     ],
     g.extra,
@@ -138,8 +144,10 @@ function entryOut(e: AnnotatedEntry): Out {
       ['note', str(e.note)],
       ['found', bool(e.found)],
       ['kind', str(e.kind)],
-      ['spin', num(e.spin, 'plain')],
+      ...spinField(e.spin, e.spinPolarised),
+      ['edgeBand', numOrNull(e.edgeBand, 'plain')],
       ['band', num(e.band, 'plain')],
+      ['valley', nums(e.valley, 'k')],
       ['k', nums(e.k, 'k')],
       ['label', e.label === null ? NULL : str(e.label)],
       ['energy_eV', num(e.energy_eV, 'energy')],
@@ -156,17 +164,25 @@ function entryOut(e: AnnotatedEntry): Out {
   );
 }
 
-/** Entry order: kind (vbm, cbm, valley, peak), spin, band, then k component by component (as written). */
+/**
+ * Entry order: kind (vbm, cbm, valley, peak), spin, band counted from the edge (entries without one last),
+ * then the valley and k component by component (as written).
+ */
 export function compareEntries(a: AnnotatedEntry, b: AnnotatedEntry): number {
   const ka = EXTREMUM_KINDS.indexOf(a.kind);
   const kb = EXTREMUM_KINDS.indexOf(b.kind);
   if (ka !== kb) return ka - kb;
   if (a.spin !== b.spin) return a.spin - b.spin;
+  const ea = a.edgeBand ?? Number.MAX_SAFE_INTEGER;
+  const eb = b.edgeBand ?? Number.MAX_SAFE_INTEGER;
+  if (ea !== eb) return ea - eb;
   if (a.band !== b.band) return a.band - b.band;
-  for (let i = 0; i < 3; i++) {
-    const x = Number(formatNumber(a.k[i]!, 'k'));
-    const y = Number(formatNumber(b.k[i]!, 'k'));
-    if (x !== y) return x - y;
+  for (const key of ['valley', 'k'] as const) {
+    for (let i = 0; i < 3; i++) {
+      const x = Number(formatNumber(a[key][i]!, 'k'));
+      const y = Number(formatNumber(b[key][i]!, 'k'));
+      if (x !== y) return x - y;
+    }
   }
   return a.id < b.id ? -1 : a.id > b.id ? 1 : 0;
 }
@@ -181,10 +197,11 @@ function docOut(doc: AnnotationsDoc): Out {
       ['valleyscopeAnnotations', num(doc.layoutVersion, 'plain')],
       ['toolVersion', str(doc.toolVersion)],
       ['format', str(doc.format)],
+      ['spinPolarised', bool(doc.spinPolarised)],
       ['sources', { t: 'list', items: doc.sources.map(sourceOut) }],
       ['settings', settingsOut(doc.settings)],
       ['metal', doc.metal === null ? NULL : bool(doc.metal)],
-      ['gap', gapOut(doc.gap)],
+      ['gap', gapOut(doc.gap, doc.spinPolarised)],
       ['note', str(doc.note)],
       ['entries', { t: 'list', items: sortEntries(doc.entries).map(entryOut) }],
       ['warnings', strs(doc.warnings)],

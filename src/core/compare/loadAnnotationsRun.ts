@@ -19,6 +19,7 @@ import { checkConfined, PathRefusedError, readRecordedPath, redactContent } from
 import { locateRun, readLocated } from '../load';
 import { crystalSymmetry, symmetryReady } from '../lattice/symmetry';
 import { runFromAnnotations, type AnnotationsRun } from './runFromAnnotations';
+import { compositionOf } from './structureDescriptors';
 
 export interface LoadedAnnotationsRun extends AnnotationsRun {
   doc: AnnotationsDoc;
@@ -72,13 +73,18 @@ export async function loadAnnotationsRun(fs: FileAccessor, file: string, name: s
   }
   if (!lattice) notes.push('no crystal structure found for this run: it has no lattice parameters or strain');
   let rotations: Mat3[] | null = null;
+  let latticeType: string | null = null;
   if (structure && symmetryReady()) {
     try {
-      rotations = crystalSymmetry(structure).rotations;
+      const sym = crystalSymmetry(structure);
+      rotations = sym.rotations;
+      latticeType = sym.bravaisClass;
     } catch {
       rotations = null;
     }
   }
   const out = runFromAnnotations(doc, { name, currentSources: current, lattice, rotations });
+  out.run.latticeType = latticeType;
+  out.run.composition = structure ? compositionOf(structure.species) : null;
   return { ...out, doc, notes };
 }

@@ -99,6 +99,7 @@ function extremum(e: AnnotatedEntry, gap: AnnotatedGap | null): ExtremumReport {
     offset_eV: offsetOf(e, gap),
     degenerateBands: e.degenerateBands ?? 1,
     valleyDegeneracy: e.valleyDegeneracy,
+    valley: e.valley,
     masses: e.masses.map(massFit).filter((m): m is MassFit => m !== null),
     tensor: e.tensor ? massTensor(e.tensor) : null,
     dosMass: e.dosMass,
@@ -110,7 +111,7 @@ function extremum(e: AnnotatedEntry, gap: AnnotatedGap | null): ExtremumReport {
 /** The report-like view of an annotations document (entries the analysis no longer found are left out). */
 export function reportFromAnnotations(doc: AnnotationsDoc, file: string): Report {
   const found = doc.entries.filter((e) => e.found);
-  const nspin = doc.entries.some((e) => e.spin === 1) || doc.gap?.vbm.spin === 1 || doc.gap?.cbm.spin === 1 ? 2 : 1;
+  const nspin = doc.spinPolarised || doc.entries.some((e) => e.spin === 1) || doc.gap?.vbm.spin === 1 || doc.gap?.cbm.spin === 1 ? 2 : 1;
   return {
     file,
     format: doc.format,

@@ -1,5 +1,16 @@
 /** The readable summary of a Report: what `valleyscope analyze` prints without --json. */
 import type { BandPoint, ExtremumReport, MassFit, Report } from '../model';
+import { energyZeroName, type EnergyZero } from './energyZero';
+
+/** How the summary shows energies and positions (both optional: raw energies, fractional k only). */
+export interface SummaryOptions {
+  /** Energies are printed relative to this zero. */
+  zero?: EnergyZero;
+  /** A point's place on a labelled line of the path ("0.85 Γ→X"), when it lies on one. */
+  positionOf?: (k: readonly number[]) => string | null;
+  /** The run is spin-polarised: channels are named "spin up" / "spin down" (never otherwise). */
+  spinPolarised?: boolean;
+}
 
 export function formatK(k: readonly number[]): string {
   return `(${k.map((x) => fmt(x, 4)).join(', ')})`;
@@ -10,8 +21,10 @@ export function fmt(x: number, digits: number): string {
   return s === `-${(0).toFixed(digits)}` ? s.slice(1) : s;
 }
 
-export function describePoint(p: BandPoint): string {
-  return `band ${p.band}${p.spin === 1 ? ' (spin down)' : ''} at ${p.label ? `${p.label} ` : ''}${formatK(p.k)}, ${fmt(p.eV, 4)} eV`;
+export function describePoint(p: BandPoint, o: SummaryOptions = {}): string {
+  const spin = o.spinPolarised ? ` (spin ${p.spin === 1 ? 'down' : 'up'})` : p.spin === 1 ? ' (spin down)' : '';
+  const place = p.label ? `${p.label} ` : o.positionOf ? (o.positionOf(p.k) ?? '').replace(/(.+)/, '$1 ') : '';
+  return `band ${p.band}${spin} at ${place}${formatK(p.k)}, ${fmt(p.eV - (o.zero?.eV ?? 0), 4)} eV`;
 }
 
 function massLine(m: MassFit, atMaximum: boolean): string {
@@ -21,11 +34,11 @@ function massLine(m: MassFit, atMaximum: boolean): string {
   return `      towards ${m.towards}${branch}: m* = ${fmt(m.mass, 3)} ± ${fmt(m.stderr, 3)} m_e${hole}${alpha}  [${m.method}, ${m.points} points, ${fmt(m.window_meV, 0)} meV window]`;
 }
 
-function extremumBlock(e: ExtremumReport, metal = false): string[] {
+function extremumBlock(e: ExtremumReport, o: SummaryOptions, metal = false): string[] {
   const lines: string[] = [];
   const what = metal ? { vbm: 'VBM', cbm: 'CBM', valley: 'electron pocket bottom', peak: 'hole pocket top' }[e.kind] : { vbm: 'VBM', cbm: 'CBM', valley: 'conduction valley', peak: 'valence peak' }[e.kind];
   const off = e.kind === 'vbm' || e.kind === 'cbm' ? '' : ` (${fmt(e.offset_eV * 1000, 0)} meV from the ${metal ? 'Fermi level' : 'edge'})`;
-  lines.push(`  ${what}${off}: ${describePoint(e)}`);
+  lines.push(`  ${what}${off}: ${describePoint(e, o)}`);
   if (e.degenerateBands > 1) lines.push(`    ${e.degenerateBands} degenerate bands at this point`);
   if (e.valleyDegeneracy !== null) lines.push(`    valley degeneracy N_v = ${e.valleyDegeneracy}`);
   const atMax = e.kind === 'vbm' || e.kind === 'peak';
@@ -43,11 +56,16 @@ function extremumBlock(e: ExtremumReport, metal = false): string[] {
   return lines;
 }
 
-export function summaryText(r: Report): string {
+export function summaryText(r: Report, options: SummaryOptions = {}): string {
+  const o: SummaryOptions = { ...options, spinPolarised: options.spinPolarised ?? r.nspin === 2 };
   const out: string[] = [];
   out.push(`${r.file}`);
   const spinState = r.spinors ? 'spinors (noncollinear: one electron per band)' : r.nspin === 2 ? 'spin-polarised' : 'spin-degenerate';
-  out.push(`  ${r.format}: ${r.nk} k-points, ${r.nbands} bands, ${spinState}${r.electrons !== null ? `, ${r.electrons} electrons` : ''}`);
+  out.push(`  ${r.format}: ${r.nk} k-points, ${r.nbands} bands, ${spinState}${r.electrons !== null ? `, ${r.electrons} electron${r.electrons === 1 ? '' : 's'}` : ''}`);
+  if (o.zero) {
+    const z = o.zero;
+    out.push(`  Energies relative to the ${energyZeroName(z)}${z.used === 'raw' ? '' : ` (raw ${fmt(z.eV, 4)} eV)`}${z.reason ? `; the ${z.requested === 'fermi' ? 'Fermi energy' : z.requested.toUpperCase()} zero asked for cannot be used: ${z.reason}` : ''}`);
+  }
   if (r.metal) {
     const crossing = r.crossingBands?.length ? `; crossing it: band${r.crossingBands.length > 1 ? 's' : ''} ${r.crossingBands.join(', ')}` : '';
     out.push(`  ${r.semimetal ? 'Semimetal' : 'Metal'}: no gap. Fermi level ${r.fermi_eV !== null ? `${fmt(r.fermi_eV, 4)} eV` : 'unknown'}${crossing}.`);
@@ -55,8 +73,8 @@ export function summaryText(r: Report): string {
   } else if (r.gap) {
     const g = r.gap;
     out.push(`  Band gap ${fmt(g.eV, 4)} eV, ${g.direct ? 'direct' : 'indirect'}`);
-    out.push(`    VBM: ${describePoint(g.vbm)}`);
-    out.push(`    CBM: ${describePoint(g.cbm)}`);
+    out.push(`    VBM: ${describePoint(g.vbm, o)}`);
+    out.push(`    CBM: ${describePoint(g.cbm, o)}`);
     out.push(`    smallest direct gap ${fmt(g.directGap.eV, 4)} eV at ${formatK(g.directGap.k)}`);
     if (r.classificationReason) out.push(`    ${r.classificationReason}`);
   } else if (r.metal === null) out.push('  Band edges unknown (no occupations, electron count or Fermi energy).');
@@ -70,7 +88,7 @@ export function summaryText(r: Report): string {
   }
   if (r.extrema.length) {
     out.push('  Extrema:');
-    for (const e of r.extrema) out.push(...extremumBlock(e, r.metal === true));
+    for (const e of r.extrema) out.push(...extremumBlock(e, o, r.metal === true));
   }
   if (r.warnings.length) {
     out.push('  Warnings:');

@@ -83,8 +83,11 @@ export const entryArb: fc.Arbitrary<AnnotatedEntry> = fc
     found: fc.boolean(),
     kind: fc.constantFrom(...EXTREMUM_KINDS),
     spin: fc.constantFrom(0 as const, 1 as const),
+    spinPolarised: fc.boolean(),
     band: fc.integer({ min: 1, max: 200 }),
+    edgeBand: fc.option(fc.integer({ min: 1, max: 8 }), { nil: null }),
     k: vec3(-1, 1),
+    valley: vec3(-0.5, 0.5),
     label: fc.option(fc.constantFrom('Γ', 'X', 'L', 'K|U'), { nil: null }),
     energy_eV: finite(-30, 30),
     offset_eV: fc.option(finite(0, 2), { nil: null }),
@@ -97,6 +100,8 @@ export const entryArb: fc.Arbitrary<AnnotatedEntry> = fc
     warnings: fc.array(text, { maxLength: 2 }),
     extra: extraArb,
   })
+  // A run with one spin channel has only channel 0.
+  .map((e) => ({ ...e, spin: e.spinPolarised ? e.spin : (0 as const) }))
   .map((e) => ({ ...e, id: entryId(e) }));
 
 export const docArb: fc.Arbitrary<AnnotationsDoc> = fc
@@ -127,12 +132,18 @@ export const docArb: fc.Arbitrary<AnnotationsDoc> = fc
       { nil: null },
     ),
     note: text,
+    spinPolarised: fc.boolean(),
     entries: fc.uniqueArray(entryArb, { maxLength: 4, selector: (e) => e.id }),
     warnings: fc.array(text, { maxLength: 2 }),
     cautions: fc.array(text, { maxLength: 2 }),
     extra: extraArb,
   })
-  .map((d) => ({ layoutVersion: ANNOTATIONS_LAYOUT_VERSION, ...d }));
+  .map((d) => ({ layoutVersion: ANNOTATIONS_LAYOUT_VERSION, ...d }))
+  // The gap's channels are named only in spin-polarised runs.
+  .map((d) => {
+    const gap = d.gap && !d.spinPolarised ? { ...d.gap, vbm: { ...d.gap.vbm, spin: 0 as const }, cbm: { ...d.gap.cbm, spin: 0 as const } } : d.gap;
+    return { ...d, gap };
+  });
 
 /** Fixed seed and bounded runs in the suite; VALLEYSCOPE_FUZZ_RUNS raises the count for a longer local run. */
 export function fuzzParams(defaultRuns: number): { seed: number; numRuns: number } {

@@ -39,7 +39,7 @@ describe('valleyscope annotate and check', () => {
     const first = await cli('annotate', runDir);
     assert.equal(first.code, 0, first.err);
     assert.match(first.out, /created with \d+ entries/);
-    assert.match(first.out, /cbm\/s0\/b2\/k=0,0,0/);
+    assert.match(first.out, /cbm\/e1\/v=0,0,0/);
     const bytes = readFileSync(ann);
     const second = await cli('annotate', runDir);
     assert.equal(second.code, 0, second.err);
@@ -60,7 +60,7 @@ describe('valleyscope annotate and check', () => {
     const bad = await cli('check', root);
     assert.equal(bad.code, 1);
     assert.match(bad.out, /stale:\s+source EIGENVAL \(eigenvalues\) has changed/);
-    assert.match(bad.out, /drifted: cbm\/s0\/b2\/k=0,0,0 \(CBM, band 2, spin 0, at Γ \(0, 0, 0\)\): energy 1\.5000 eV → 1\.4500 eV \(−50\.0 meV; tolerance 1 meV\)/);
+    assert.match(bad.out, /drifted: cbm\/e1\/v=0,0,0 \(CBM, band 2 \(1st from the edge\), at Γ \(0, 0, 0\)\): energy 1\.5000 eV → 1\.4500 eV \(−50\.0 meV; tolerance 1 meV\)/);
     assert.match(bad.out, /drifted: band gap: fundamental gap 1\.5000 eV → 1\.4500 eV \(−50\.0 meV/);
     assert.match(bad.out, /0 match their data, 1 stale or drifted/);
   });
@@ -100,7 +100,7 @@ describe('valleyscope annotate and check', () => {
     writeTinyRun(runDir, { shift: [0, 2, -0.05] });
     const r = await cli('annotate', runDir);
     assert.equal(r.code, 0, r.err);
-    assert.match(r.out, /updated; \d+ changes; notes and statuses of 1 entry kept/);
+    assert.match(r.out, /updated; \d+ changes; reviewed 1 entry: 1 kept\n/);
     assert.match(r.out, /energy 1\.5000 eV → 1\.4500 eV \(−50\.0 meV\)/);
     const after = parseAnnotations(readFileSync(ann, 'utf8'), ann);
     const c = after.entries.find((e) => e.kind === 'cbm')!;
@@ -115,10 +115,15 @@ describe('valleyscope annotate and check', () => {
     const r = await cli('check', root, '--format', 'md');
     assert.equal(r.code, 1);
     assert.match(r.out, /^\*\*Valleyscope check:\*\* 1 annotations file checked/);
-    assert.match(r.out, /\| Extremum \| E \(eV\) \|/);
-    assert.match(r.out, /\| CBM, band 2, spin 0, at Γ \(0, 0, 0\) \| 1\.5000 \|/);
-    assert.match(r.out, /\*\*Drifted\*\*/);
-    assert.match(r.out, /Semilocal DFT/);
+    assert.match(r.out, /\| run \| status \| gap \(eV\) \| reviewed \| what moved \|/);
+    // One row for the run: stale and drifted, the recorded gap (E_g = 1.5 eV, tinyRun.ts), the first two things
+    // that moved, and how many more.
+    assert.match(r.out, /\| `[^`]*EIGENVAL\.valleys\.json` \| \*\*stale, drifted\*\* \| 1\.5000 direct \| 0\/2 \| source EIGENVAL .*; \d+ more below \|/);
+    assert.match(r.out, /<details><summary>/);
+    // The details line of the run: the CBM by band from the edge, its mass, and the drifted energy (E_g − 50 meV).
+    assert.match(r.out, /CBM, band 2 \(1st from the edge\), at Γ \(0, 0, 0\), m\* X 0\.120/);
+    assert.match(r.out, /\*\*drifted:\*\* cbm\/e1\/v=0,0,0 .*energy 1\.5000 eV → 1\.4500 eV/);
+    assert.equal(r.out.split('\n').filter((l) => /Semilocal DFT/.test(l)).length, 1, 'cautions once');
   });
 
   it('fails, with a sentence and a location, on an annotations file it cannot read, and leaves it alone', async () => {

@@ -61,7 +61,7 @@ describe('annotate and check on the EPM silicon run', function () {
     const r = await cli('check', dir);
     assert.equal(r.code, 1);
     assert.match(r.out, /stale:\s+source EIGENVAL \(eigenvalues\) has changed/);
-    const lines = r.out.split('\n').filter((l) => l.includes('drifted: cbm/s0/b5/'));
+    const lines = r.out.split('\n').filter((l) => l.includes('drifted: cbm/e1/'));
     assert.ok(lines.length > 0, r.out);
     assert.ok(lines.some((l) => /(energy|mass towards|k) .* → /.test(l)), lines.join('\n'));
   });

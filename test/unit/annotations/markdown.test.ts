@@ -33,6 +33,6 @@ describe('annotations Markdown summary', () => {
     const md = annotationsMarkdown(doc, 'EIGENVAL.valleys.json', result);
     assert.match(md, /— \*\*needs attention\*\*/);
     assert.match(md, /\*\*Stale\*\*[^\n]*\n- source EIGENVAL \(eigenvalues\) has changed/);
-    assert.match(md, /\*\*Drifted\*\*[^\n]*\n- cbm\/s0\/b2\/k=0,0,0 .*energy 1\.5000 eV → 1\.5500 eV \(\+50\.0 meV; tolerance 1 meV\)/);
+    assert.match(md, /\*\*Drifted\*\*[^\n]*\n- cbm\/e1\/v=0,0,0 .*energy 1\.5000 eV → 1\.5500 eV \(\+50\.0 meV; tolerance 1 meV\)/);
   });
 });

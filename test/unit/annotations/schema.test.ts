@@ -75,7 +75,7 @@ describe('annotations JSON Schema', function () {
       good.replace('"band": 2,\n      "k"', '"band": 0,\n      "k"'),
       good.replace('"kind": "cbm"', '"kind": "bottom"'),
       good.replace('e'.repeat(64), 'E'.repeat(64)),
-      good.replace('"valleyscopeAnnotations": 1', '"valleyscopeAnnotations": 2'),
+      good.replace('"valleyscopeAnnotations": 2', '"valleyscopeAnnotations": 3'),
       good.replace(/"k": \[0\.000000, 0\.000000, 0\.000000\],\n      "label": "Γ",\n      "energy_eV": 1\.5/, '"k": [0, 0],\n      "label": "Γ",\n      "energy_eV": 1.5'),
       good.replace('"found": true', '"found": "yes"'),
     ];

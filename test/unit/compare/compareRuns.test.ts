@@ -91,7 +91,9 @@ describe('comparing runs', () => {
     assert.match(md, /\| run \| gap \(eV\)/);
     assert.match(md, /What changed/);
     const csv = formatComparison(c, 'csv').split('\n');
-    assert.equal(csv.length, 3);
+    assert.equal(csv[0], 'run,extremum,kind,quantity,direction,branch,value,unit,reference_value,difference,relative_difference');
+    // Long form: one mass row per run × valley × direction (this pair has one direction per valley).
+    assert.equal(csv.filter((l) => l.includes(',abs_mass,')).length, 4);
   });
 
   it('describes strain relative to the reference lattice', () => {
@@ -131,7 +133,7 @@ describe('comparing degenerate edges', () => {
     const c = compareRuns([{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }]);
     const v = c.columns.find((x) => x.side === 'valence')!;
     const changes = c.runs[1]!.valleys[v.id]!.masses.map((m) => m.relativeChange!);
-    // Hand arithmetic: −0.525 vs −0.5 and −0.21 vs −0.2 are both −5 % of |m| (signed masses grow more negative).
-    for (const x of changes) assert.ok(Math.abs(x + 0.05) < 1e-12, `${x}`);
+    // Hand arithmetic: |−0.525| vs |−0.5| and |−0.21| vs |−0.2| are both +5 %: the holes got heavier.
+    for (const x of changes) assert.ok(Math.abs(x - 0.05) < 1e-12, `${x}`);
   });
 });

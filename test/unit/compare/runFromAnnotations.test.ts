@@ -115,21 +115,24 @@ describe('runs from annotations files', function () {
     assert.ok(Math.abs(b.descriptors!.volumeStrain!) < 1e-12, 'same cell: no strain');
   });
 
-  it('reports the conduction minimum moving between Δ valleys across the strain series, from annotations alone', async () => {
+  it('reports the six Δ valleys splitting 4 + 2 across the strain series as one event per run, from annotations alone', async () => {
     const ref = await loadAnnotationsRun(nodeFileAccessor, annotationsOf('03_biaxial+0.00pct'));
     const comp = await loadAnnotationsRun(nodeFileAccessor, annotationsOf('01_biaxial-1.00pct'));
     const tens = await loadAnnotationsRun(nodeFileAccessor, annotationsOf('05_biaxial+1.00pct'));
     const c = compareRuns([ref.run, comp.run, tens.run]);
     // Under in-plane compression the in-plane Δ valleys (Δ4) are lowest, under tension the out-of-plane pair
     // (Δ2) (sign of the Δ-valley splitting under biaxial strain: common practice; the demo path puts both on it).
-    const moved = c.events.filter((e) => e.kind === 'edge-moved' && /conduction band minimum/.test(e.message));
-    assert.equal(moved.length, 1, JSON.stringify(c.events));
-    assert.equal(moved[0]!.run, comp.run.name);
-    const cr = c.runs[1]!;
-    assert.notEqual(cr.cbmValley, c.runs[0]!.cbmValley, 'the compressed run has its CBM in another valley');
-    // The same data analysed now reports the same move (the data run is the reference of this check).
+    // The unstrained crystal's six Δ valleys (N_v = 6, the star of Δ in m-3m) are one valley of the reference:
+    // the split is one event, and the CBM stays in that valley (no "edge moved").
+    const split = c.events.filter((e) => e.kind === 'valley-split');
+    assert.deepEqual(split.map((e) => e.run), [comp.run.name, tens.run.name], JSON.stringify(c.events));
+    assert.match(split[0]!.message, /N_v 6\) → 4 at .* \+ 2 at /);
+    assert.match(split[1]!.message, /N_v 6\) → 2 at .* \+ 4 at /);
+    assert.equal(c.events.filter((e) => e.kind === 'edge-moved').length, 0, JSON.stringify(c.events));
+    assert.equal(c.runs[1]!.cbmValley, c.runs[0]!.cbmValley);
+    // The same data analysed now reports the same split (the data run is the reference of this check).
     const d = compareRuns([data.get('03_biaxial+0.00pct')!.run, data.get('01_biaxial-1.00pct')!.run]);
-    assert.equal(d.events.filter((e) => e.kind === 'edge-moved' && /conduction band minimum/.test(e.message)).length, 1);
+    assert.equal(d.events.filter((e) => e.kind === 'valley-split').length, 1, JSON.stringify(d.events));
   });
 
   it('is stale when a data file changed or went missing, and says which', async () => {

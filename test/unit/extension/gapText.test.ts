@@ -18,6 +18,15 @@ describe('extension: gap texts for the status bar and code lens', () => {
     for (const c of report.cautions) assert.ok(tip.includes(c));
   });
 
+  it('names the spin channel of each edge only in a spin-polarised run', async () => {
+    const { report } = await loadSi();
+    assert.doesNotMatch(gapLensText(report, false), /spin/);
+    const g = report.gap!;
+    const polarised: Report = { ...report, nspin: 2, gap: { ...g, cbm: { ...g.cbm, spin: 1 } } };
+    assert.match(gapLensText(polarised, false), /VBM Γ \(band 4, spin up\) → CBM .*\(band 5, spin down\)$/);
+    assert.match(gapTooltip(polarised, false), /VBM .* \(band 4, spin up\)/);
+  });
+
   it('says Metal, or that edges are unknown', () => {
     assert.equal(gapStatusText({ ...base, metal: true }, false), 'Metal');
     assert.equal(gapLensText({ ...base, metal: true }, false), 'Metal: bands cross the Fermi level');
