@@ -17,7 +17,8 @@ import type { CurvatureFit } from './fits/types';
 import { oppositeRay, type Ray } from './pathRays';
 import { cartesianToFractional } from '../lattice/reciprocal';
 import { tensorFromNeighbours } from './tensorFit';
-import { averagedFromPrincipal, multiBandDosMass } from './averagedMasses';
+import { averagedFromPrincipal, pathLimitedDosMass } from './averagedMasses';
+import { cubicAxesAreCartesian } from './warpedBands';
 import { cartesianLittleGroup, symmetryContext, valleysAt, type SymmetryContext } from './valleyCount';
 import { tensorFromDirections } from './symmetryTensor';
 import { pathGeometry } from '../lattice/kpath';
@@ -111,10 +112,6 @@ function vertexNote(bs: BandStructure, k: number, fits: CurvatureFit[], rays: Ra
   return `The ${maximum ? 'maximum' : 'minimum'} lies between sampled points: the free-vertex ${fit.method} fit towards ${ray.towards} puts it ${step.toFixed(2)} of a step (${fit.vertexT!.toFixed(4)} Å⁻¹) from the sampled point, at k ≈ (${kv.join(', ')})${fit.vertexE !== undefined ? `, E ≈ ${fit.vertexE.toFixed(4)} eV` : ''}.`;
 }
 
-function fmt3(x: number): string {
-  return x.toPrecision(3);
-}
-
 /** Characterise one located extremum. */
 export function characterise(ctx: EngineContext, site: ExtremumSite, settings: AnalysisSettings): ExtremumReport {
   const { bs, network } = ctx;
@@ -194,20 +191,12 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     conductivityMass = av.conductivityMass;
     warnings.push(av.note);
   } else if (g > 1 && masses.length > 0) {
-    // Several bands share the edge: the multi-band DOS mass (Σ m_i^(3/2))^(2/3), each branch's mass its
-    // DOS-weighted average over the path directions, ⟨|m|^(3/2)⟩^(2/3).
-    const perBranch: number[] = [];
-    for (let b = 1; b <= g; b++) {
-      const ms = masses.filter((m) => m.branch === b).map((m) => Math.abs(m.mass));
-      if (ms.length) perBranch.push((ms.reduce((s, m) => s + m ** 1.5, 0) / ms.length) ** (2 / 3));
-    }
-    const signsAgree = masses.every((m) => (maximum ? m.mass < 0 : m.mass > 0));
-    if (perBranch.length === g && signsAgree) {
-      const nv = valleyDegeneracy ?? 1;
-      dosMass = nv ** (2 / 3) * multiBandDosMass(perBranch);
-      warnings.push(
-        `Density-of-states mass of the ${g} branches together, (Σ m_i^(3/2))^(2/3)${nv > 1 ? ` × N_v^(2/3) with N_v = ${nv}` : ''}: branch masses ${perBranch.map(fmt3).join(', ')} m_e, each averaged over the ${masses.length / g} path direction${masses.length / g === 1 ? '' : 's'} as ⟨|m|^(3/2)⟩^(2/3) (warped bands: an approximation).${valleyDegeneracy === null ? ' N_v unknown: taken as 1.' : ''}`,
-      );
+    // Several bands share the edge: path-limited DOS mass, directions weighted by their stars (averagedMasses.ts).
+    const ops = bs.lattice ? cartesianLittleGroup(ctx.symmetry, k, bs.lattice) : null;
+    const est = pathLimitedDosMass(masses.filter((m) => m.branch !== undefined).map((m) => ({ branch: m.branch!, direction: m.direction, mass: m.mass })), g, ops, ops ? cubicAxesAreCartesian(ops) : false, valleyDegeneracy, maximum);
+    if (est) {
+      dosMass = est.dosMass;
+      warnings.push(est.note);
     }
   }
   return {

@@ -233,3 +233,43 @@ export function fitWarpedBands(s: WarpedSamples, higherOrder: boolean, energySig
     warnings,
   };
 }
+
+/**
+ * True when every operation is a signed permutation matrix (within tolerance): the cartesian axes are the
+ * cubic axes, so kx, ky, kz in the form above are the cartesian components.
+ */
+export function cubicAxesAreCartesian(cartesianOps: readonly (readonly (readonly number[])[])[]): boolean {
+  if (cartesianOps.length < 24) return false;
+  return cartesianOps.every((r) =>
+    r.every((row) => {
+      let ones = 0;
+      for (const x of row) {
+        if (Math.abs(Math.abs(x) - 1) < 1e-6) ones++;
+        else if (Math.abs(x) > 1e-6) return false;
+      }
+      return ones === 1;
+    }),
+  );
+}
+
+/**
+ * A, B, C from directional inverse masses of the two branches (1/m_e, signed) along unit directions u:
+ * A = mean of the branches, (half difference)² = B² + C² f(u). Needs directions with at least two values of
+ * f (e.g. [100] and [111]). Null otherwise.
+ */
+export function warpingFromDirections(items: { u: Vec3; upper: number; lower: number }[]): WarpingParameters | null {
+  const fs = items.map((x) => cubicAnisotropy(x.u));
+  if (Math.max(...fs) - Math.min(...fs) < 0.05) return null;
+  const A = items.reduce((s, x) => s + (x.upper + x.lower) / 2, 0) / items.length;
+  const n = items.length;
+  const a = new Float64Array(n * 2);
+  const y = new Float64Array(n);
+  items.forEach((x, i) => {
+    a[2 * i] = 1;
+    a[2 * i + 1] = fs[i]!;
+    y[i] = ((x.upper - x.lower) / 2) ** 2;
+  });
+  const f = leastSquares(a, y, n, 2);
+  if (!f) return null;
+  return { A, B: Math.sqrt(Math.max(f.coef[0]!, 0)), C: Math.sqrt(Math.max(f.coef[1]!, 0)) };
+}
