@@ -182,7 +182,23 @@ export interface ExtremumReport extends BandPoint {
   tensor: MassTensor | null;
   dosMass: number | null;
   conductivityMass: number | null;
+  /** At a degenerate extremum of a cubic crystal sampled off the path: the warped-band fit (tensorRun.ts). */
+  warping?: WarpingFitReport;
   warnings: string[];
+}
+
+/** The warped-band form's parameters (Dresselhaus, Kip & Kittel 1955) and what follows from them, m_e. */
+export interface WarpingFitReport {
+  A: number;
+  B: number;
+  C: number;
+  /** Unit of A, B, C: ħ²/2m_e. */
+  unit: string;
+  stderr: { A: number; B: number; C: number };
+  points: number;
+  residual_meV: number;
+  heavy: { m100: number; m110: number; m111: number; dos: number | null };
+  light: { m100: number; m110: number; m111: number; dos: number | null };
 }
 
 export interface Report {

@@ -17,6 +17,7 @@ import type { CurvatureFit } from './fits/types';
 import { oppositeRay, type Ray } from './pathRays';
 import { cartesianToFractional } from '../lattice/reciprocal';
 import { tensorFromNeighbours } from './tensorFit';
+import { gridWarpedMasses, tensorRunMasses, type OffPathMasses } from './tensorRun';
 import { averagedFromPrincipal, pathLimitedDosMass } from './averagedMasses';
 import { cubicAxesAreCartesian } from './warpedBands';
 import { cartesianLittleGroup, symmetryContext, valleysAt, type SymmetryContext } from './valleyCount';
@@ -134,6 +135,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   let masses: MassFit[] = [];
   let tensor: MassTensor | null = null;
   let crossed = false;
+  let offPath: OffPathMasses | null = null;
   if (network) {
     if (!network.hasLengths) warnings.push('No lattice and no written path distances: masses cannot be given in m_e.');
     else {
@@ -154,7 +156,13 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
       if (crossed) warnings.push('Along some direction a branch crosses another band: it was followed across the crossing, not by band index.');
     }
   } else if (bs.nk > 1) {
-    if (g > 1) warnings.push('No mass tensor at a degenerate edge: the branches have no common tensor.');
+    // A tensor run (tensor-kpoints), or a grid around a degenerate edge: tensorRun.ts.
+    offPath = tensorRunMasses(bs, site.spin, site.group, site.k, ctx.symmetry.sym, maximum, valleyDegeneracy, ctx.energySigma) ?? (g > 1 ? gridWarpedMasses(bs, site.spin, site.group, site.k, ctx.symmetry.sym, ctx.energySigma) : null);
+    if (offPath) {
+      masses = offPath.masses;
+      tensor = offPath.tensor;
+      warnings.push(...offPath.warnings);
+    } else if (g > 1) warnings.push('No mass tensor at a degenerate edge: the branches have no common tensor.');
     else {
       const t = tensorFromNeighbours(bs, site.spin, site.band, site.k, settings.window_meV, ctx.energySigma);
       tensor = t.tensor;
@@ -178,7 +186,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
           points: masses.reduce((s, m) => s + m.points, 0),
         };
       } else if (r.reason) {
-        warnings.push(`No mass tensor: ${r.reason}. A stencil run (valleyscope stencil --at ${site.kind === 'vbm' || site.kind === 'cbm' ? site.kind : fracText(k)}) gives the full tensor.`);
+        warnings.push(`No mass tensor: ${r.reason}. A tensor run (valleyscope tensor-kpoints --at ${site.kind === 'vbm' || site.kind === 'cbm' ? site.kind : fracText(k)}) gives the full tensor.`);
       }
     }
   }
@@ -190,6 +198,8 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     dosMass = av.dosMass;
     conductivityMass = av.conductivityMass;
     warnings.push(av.note);
+  } else if (offPath) {
+    dosMass = offPath.dosMass;
   } else if (g > 1 && masses.length > 0) {
     // Several bands share the edge: path-limited DOS mass, directions weighted by their stars (averagedMasses.ts).
     const ops = bs.lattice ? cartesianLittleGroup(ctx.symmetry, k, bs.lattice) : null;
@@ -213,6 +223,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     tensor,
     dosMass,
     conductivityMass,
+    ...(offPath?.warping ? { warping: offPath.warping } : {}),
     warnings,
   };
 }
