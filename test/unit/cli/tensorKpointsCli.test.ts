@@ -1,5 +1,5 @@
 import assert from 'node:assert/strict';
-import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../src/cli/main';
@@ -8,10 +8,8 @@ import type { Vec3 } from '../../../src/core/model';
 import { EpmBandSolver } from '../../../scripts/epm/bandSolver';
 import { unstrainedCrystal } from '../../../scripts/epm/crystal';
 import { SILICON } from '../../../scripts/epm/materials';
-import { insulatorOccupations, writeEigenval } from '../../support/writers/vasp';
-import { loadRun } from '../../../src/core/load';
-import { nodeFileAccessor } from '../../../src/cli/nodeFileAccessor';
-import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
+import { fccLattice } from '../../support/models';
+import { cartesianDisplacement } from '../../../src/core/lattice/tensorKpoints';
 
 function capture(): CliIO & { stdout: string; stderr: string } {
   const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
@@ -20,86 +18,81 @@ function capture(): CliIO & { stdout: string; stderr: string } {
 
 const SI = join(__dirname, '..', '..', '..', 'fixtures', 'epm', 'si');
 
-function pointsOf(kpoints: string): Vec3[] {
-  return kpoints
-    .trim()
-    .split('\n')
-    .slice(3)
-    .map((l) => l.trim().split(/\s+/).slice(0, 3).map(Number) as Vec3);
+function pointsOf(kpoints: string): { k: Vec3; w: string }[] {
+  const lines = kpoints.trim().split('\n');
+  return lines.slice(3).map((l) => {
+    const f = l.trim().split(/\s+/);
+    return { k: f.slice(0, 3).map(Number) as Vec3, w: f[3]! };
+  });
 }
 
-describe('valleyscope stencil', function () {
+describe('valleyscope tensor-kpoints', function () {
   this.timeout(60000);
 
-  it('writes 19 k-points around the CBM in the VASP explicit layout, centre first', async () => {
+  it('centres on the refined conduction minimum, reduces by symmetry and writes weight 1 by default', async () => {
     const io = capture();
-    assert.equal(await main(['stencil', SI, '--at', 'cbm'], io), 0, io.stderr);
+    assert.equal(await main(['tensor-kpoints', SI, '--at', 'cbm'], io), 0, io.stderr);
     const lines = io.stdout.trim().split('\n');
-    assert.equal(lines[1], '19');
     assert.equal(lines[2], 'Reciprocal');
     const pts = pointsOf(io.stdout);
-    assert.equal(pts.length, 19);
-    // The CBM of the fixture is on Γ–X near 0.85 (Cohen & Bergstresser model): (≈0.425, 0, ≈0.425).
-    assert.ok(Math.abs(pts[0]![0] - 0.4230769) < 1e-6 && pts[0]![1] === 0);
-    assert.ok(lines.slice(3).every((l) => / 0$/.test(l)), 'zero weights');
+    assert.equal(Number(lines[1]), pts.length);
+    assert.ok(pts.every((p) => p.w === '1'), 'nscf weights');
+    // The little group of Δ (C4v with time reversal) relates most of the 37 points: far fewer are written.
+    assert.ok(pts.length < 37 && pts.length >= 7, String(pts.length));
+    // The model's minimum on Γ–X, (0, t, 0)2π/a = (t/2, 0, t/2) fractional, by golden section on the same
+    // model (Cohen & Bergstresser 1966, scripts/epm); the sampled point of the fixture is 11/13 of Γ–X.
+    const solver = new EpmBandSolver(unstrainedCrystal(SILICON));
+    const f = (t: number): number => solver.bandsAt([t / 2, 0, t / 2], 5)[4]!;
+    let a = 0.8;
+    let b = 0.9;
+    for (let i = 0; i < 50; i++) {
+      const c = b - 0.618034 * (b - a);
+      const d = a + 0.618034 * (b - a);
+      if (f(c) < f(d)) b = d;
+      else a = c;
+    }
+    const tMin = (a + b) / 2;
+    const centre = pts[0]!.k;
+    assert.ok(Math.abs(centre[0] * 2 - tMin) < Math.abs(0.4230769 * 2 - tMin) / 3, `centre ${centre[0] * 2} vs minimum ${tMin} (sampled 0.846)`);
+    assert.ok(Math.abs(centre[0] * 2 - tMin) < 2e-3, `centre ${centre[0] * 2} vs ${tMin}`);
+    assert.match(io.stderr, /refined between sampled points/);
+    assert.match(io.stderr, /moves 10\.0 meV at h/);
   });
 
-  it('accepts a fractional k and refuses to overwrite a file', async () => {
-    const dir = mkdtempSync(join(tmpdir(), 'vs-stencil-'));
+  it('--step fixes h; --for hybrid writes zero weights and says where the mesh goes', async () => {
+    const io = capture();
+    assert.equal(await main(['tensor-kpoints', SI, '--at', 'vbm', '--step', '0.015', '--for', 'hybrid'], io), 0, io.stderr);
+    const pts = pointsOf(io.stdout);
+    assert.ok(pts.every((p) => p.w === '0'));
+    const lat = fccLattice(5.43);
+    const r = pts.map((p) => Math.hypot(...cartesianDisplacement(p.k, pts[0]!.k, lat)));
+    // Shells at exactly h and 2h (as asked), and the centre.
+    assert.ok(r.every((x) => Math.abs(x) < 1e-8 || Math.abs(x - 0.015) < 1e-8 || Math.abs(x - 0.03) < 1e-8), r.join(' '));
+    // Degenerate top: the body diagonals are in the plan (7 orbits at Γ: centre + 3 directions × 2 shells).
+    assert.equal(pts.length, 7);
+    assert.match(io.stderr, /no weighted mesh/);
+  });
+
+  it('refuses to overwrite, rejects bad options, and the old verb is gone', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'vs-tensor-kpoints-'));
     const out = join(dir, 'KPOINTS');
     const io = capture();
-    assert.equal(await main(['stencil', SI, '--at', '0.5,0,0.5', '--step', '0.01', '--out', out], io), 0, io.stderr);
+    assert.equal(await main(['tensor-kpoints', SI, '--at', '0.5,0,0.5', '--step', '0.01', '--out', out], io), 0, io.stderr);
     assert.ok(existsSync(out));
-    assert.deepEqual(pointsOf(readFileSync(out, 'utf8'))[0], [0.5, 0, 0.5]);
+    assert.deepEqual(pointsOf(readFileSync(out, 'utf8'))[0]!.k, [0.5, 0, 0.5]);
     const again = capture();
-    assert.equal(await main(['stencil', SI, '--at', 'vbm', '--out', out], again), 1);
+    assert.equal(await main(['tensor-kpoints', SI, '--at', 'vbm', '--out', out], again), 1);
     assert.match(again.stderr, /already exists/);
     const bad = capture();
-    assert.equal(await main(['stencil', SI, '--at', 'somewhere'], bad), 2);
+    assert.equal(await main(['tensor-kpoints', SI, '--at', 'somewhere'], bad), 2);
     assert.equal(bad.stderr.trim().split('\n').length, 1);
-  });
-
-  it('round trip: the model run at the stencil points, analysed, gives the tensor of the Δ valley', async () => {
-    const io = capture();
-    assert.equal(await main(['stencil', SI, '--at', 'cbm'], io), 0);
-    const pts = pointsOf(io.stdout);
-    // The follow-up "run": the same published model (Cohen & Bergstresser 1966, scripts/epm) at these points.
-    const solver = new EpmBandSolver(unstrainedCrystal(SILICON));
-    const nb = 8;
-    const kpoints = Float64Array.from(pts.flat());
-    const energies = new Float64Array(pts.length * nb);
-    pts.forEach((k, i) => energies.set(solver.bandsAt(k, nb), i * nb));
-    const dir = mkdtempSync(join(tmpdir(), 'vs-stencil-run-'));
-    const poscar = readFileSync(join(SI, 'POSCAR'), 'utf8');
-    writeFileSync(join(dir, 'POSCAR'), poscar);
-    writeFileSync(join(dir, 'KPOINTS'), io.stdout);
-    writeFileSync(
-      join(dir, 'EIGENVAL'),
-      writeEigenval({
-        system: 'Si stencil',
-        nIons: 2,
-        electrons: 8,
-        nBands: nb,
-        kpoints,
-        weights: new Float64Array(pts.length),
-        energies: [energies],
-        occupations: [insulatorOccupations(pts.length, nb, 4)],
-      }),
-    );
-    const run = capture();
-    assert.equal(await main(['analyze', dir, '--json'], run), 0, run.stderr);
-    const report = JSON.parse(run.stdout) as { extrema: { kind: string; tensor: { principal: number[]; axes: number[][] } | null; valleyDegeneracy: number | null }[] };
-    const cbm = report.extrema.find((e) => e.kind === 'cbm')!;
-    assert.ok(cbm.tensor);
-    assert.equal(cbm.valleyDegeneracy, 6); // six Δ valleys
-    const iL = cbm.tensor.principal.indexOf(Math.max(...cbm.tensor.principal));
-    assert.ok(Math.abs(Math.abs(cbm.tensor.axes[iL]![1]!) - 1) < 1e-3); // longitudinal axis along Δ (y here)
-    // Reference: a centred 5-point finite difference on the fine Γ–X line of the same model
-    // (fixtures/epm/si-dense); handbook m_t ≈ 0.19 (memory, Sze & Ng): a loose check.
-    const dense = analyzeBandStructure(await loadRun(nodeFileAccessor, join(SI, '..', 'si-dense')), { method: 'fd5' });
-    const ml = dense.extrema.find((e) => e.kind === 'cbm')!.masses[0]!.mass;
-    assert.ok(Math.abs(cbm.tensor.principal[iL]! / ml - 1) < 0.1, `${cbm.tensor.principal} vs ${ml}`);
-    const mt = Math.min(...cbm.tensor.principal);
-    assert.ok(Math.abs(mt / 0.19 - 1) < 0.15, String(mt));
+    const noStep = capture();
+    assert.equal(await main(['tensor-kpoints', SI, '--at', '0.1,0.2,0.3'], noStep), 2);
+    assert.match(noStep.stderr, /--step/);
+    const badFor = capture();
+    assert.equal(await main(['tensor-kpoints', SI, '--at', 'cbm', '--for', 'scf'], badFor), 2);
+    const old = capture();
+    assert.equal(await main(['stencil', SI, '--at', 'cbm'], old), 2);
+    assert.match(old.stderr, /unknown command/);
   });
 });
