@@ -142,7 +142,7 @@ export function pathLimitedDosMass(masses: BranchDirectionMass[], branches: numb
   const error = warpedValue !== null ? Math.abs(dosMass - warpedValue) : spread * dosMass;
   const classes = [...new Set(masses.map((m) => starOf(m.direction)))].sort((a, b) => a - b);
   const note =
-    `Path-limited density-of-states mass of the ${branches} branches: each branch's ⟨|m|^(3/2)⟩ over the ${masses.length / branches} path direction${masses.length / branches === 1 ? '' : 's'}, each weighted by its star (${classes.join(', ')} equivalent directions${cartesianOps ? '' : '; symmetry unknown, so equal weights'}), then (Σ m_i^(3/2))^(2/3)${nv > 1 ? ` × N_v^(2/3), N_v = ${nv}` : ''}: ` +
+    `Path-limited density-of-states mass of the ${branches} branches together: each branch's ⟨|m|^(3/2)⟩ over the ${masses.length / branches} path direction${masses.length / branches === 1 ? '' : 's'}, each weighted by its star (${classes.join(', ')} equivalent directions${cartesianOps ? '' : '; symmetry unknown, so equal weights'}), then (Σ m_i^(3/2))^(2/3)${nv > 1 ? ` × N_v^(2/3), N_v = ${nv}` : ''}: ` +
     `branch masses ${perBranch.map((x) => x.toPrecision(3)).join(', ')} m_e, total ${dosMass.toPrecision(3)} ± ${error.toPrecision(2)} m_e (estimated error: ` +
     (warpedValue !== null ? `difference from the angular integral of the warped form fitted to these directions, ${warpedValue.toPrecision(3)} m_e` : "half the spread of the branch's directional masses") +
     `). Warped bands: a grid or a tensor run (valleyscope tensor-kpoints) gives the full angular average.${valleys === null ? ' N_v unknown: taken as 1.' : ''}`;
