@@ -56,6 +56,9 @@ export interface TensorRunData {
   written: number;
 }
 
+/** Points nearest the centre that are expanded and searched for shells (a plan writes at most 53). */
+const NEAREST_POINTS = 400;
+
 /** Matching tolerance for displacements, Å⁻¹: files write k with 7 significant digits or more (≈ 2e-7 Å⁻¹). */
 const MATCH_TOL = 2e-5;
 
@@ -100,8 +103,15 @@ export function readTensorRun(bs: BandStructure, spin: number, group: number[], 
   const set = new PointSet();
   const g = group.length;
   let written = 0;
+  // Only the points nearest the centre can belong to its shells (a hybrid run's mesh, or a large grid, lies
+  // farther out): expanding the nearest few hundred keeps the cost independent of the size of the file.
+  const near: { j: number; d: Vec3; r: number }[] = [];
   for (let j = 0; j < bs.nk; j++) {
     const d = cartesianDisplacement(kpointAt(bs, j), k0, lattice);
+    near.push({ j, d, r: Math.hypot(...d) });
+  }
+  near.sort((x, y) => x.r - y.r);
+  for (const { j, d } of near.slice(0, NEAREST_POINTS)) {
     const e = Float64Array.from(group.map((b) => en[j * nb + b]!)).sort().reverse();
     if (!set.find(d)) written++;
     const images: Vec3[] = [d];

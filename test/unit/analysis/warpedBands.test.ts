@@ -10,6 +10,9 @@ import {
   type WarpingParameters,
 } from '../../../src/core/analysis/warpedBands';
 import type { Vec3 } from '../../../src/core/model';
+import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
+import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
+import { cubicLattice, gridModel, simpleCubicStructure } from '../../support/models';
 
 /** The 26 directions ⟨100⟩, ⟨110⟩, ⟨111⟩ (unit vectors) and a few general ones. */
 function directions(): Vec3[] {
@@ -140,5 +143,39 @@ describe('warped degenerate bands (Dresselhaus, Kip & Kittel form)', () => {
   it('a branch whose curvature changes sign with direction has no DOS mass', () => {
     // A + √(B² + C² f) crosses zero between [100] and [111] when A = −2, B = 1, C = 4 (analytic).
     assert.equal(warpedDosMass({ A: -2, B: 1, C: 4 }, 1), null);
+  });
+});
+
+describe('warped-band fit from a grid around a degenerate maximum', () => {
+  before(async () => {
+    await ensureSymmetryReady();
+  });
+
+  it('a simple cubic grid of the form with Ge parameters gives A, B, C within 1 % and every branch mass', () => {
+    // Ge cyclotron-resonance parameters (Dresselhaus, Kip & Kittel 1955; physics.md, memory) on a 10×10×10
+    // grid of a simple cubic crystal (m-3m); a conduction band far above.
+    const a = 5;
+    const P = { A: -13.1, B: 8.3, C: 12.5 };
+    // The grid covers the zone as [0, 1)³: the form is evaluated at the image nearest Γ (a periodic model).
+    const wrap = (kf: Vec3): Vec3 => kf.map((x) => ((x - Math.round(x)) * 2 * Math.PI) / a) as Vec3;
+    const bs = gridModel({
+      lattice: cubicLattice(a),
+      structure: simpleCubicStructure(a),
+      bands: [(_kc, kf) => warpedEnergies(P, wrap(kf)).lower, (_kc, kf) => warpedEnergies(P, wrap(kf)).upper, () => 50],
+      electrons: 4,
+      dims: [10, 10, 10],
+    });
+    const vbm = analyzeBandStructure(bs).extrema.find((e) => e.kind === 'vbm')!;
+    assert.equal(vbm.degenerateBands, 2);
+    assert.ok(vbm.warping, vbm.warnings.join('\n'));
+    // The built-in parameters (the model): within 1 %.
+    assert.ok(Math.abs(vbm.warping.A / P.A - 1) < 0.01, String(vbm.warping.A));
+    assert.ok(Math.abs(vbm.warping.B / P.B - 1) < 0.01, String(vbm.warping.B));
+    assert.ok(Math.abs(vbm.warping.C / P.C - 1) < 0.01, String(vbm.warping.C));
+    assert.equal(vbm.masses.length, 6); // two branches × [100], [110], [111]
+    const heavy100 = vbm.masses.find((m) => m.branch === 1 && m.towards === '[100]')!;
+    // 1/(A + |B|) (analytic, Dresselhaus, Kip & Kittel form).
+    assert.ok(Math.abs(heavy100.mass / (1 / (P.A + P.B)) - 1) < 0.01, String(heavy100.mass));
+    assert.ok(vbm.warnings.some((w) => /Warped-band fit/.test(w)));
   });
 });
