@@ -182,6 +182,11 @@ export interface ExtremumReport extends BandPoint {
   tensor: MassTensor | null;
   dosMass: number | null;
   conductivityMass: number | null;
+  /**
+   * Set when `dosMass` comes from path directions only at a degenerate edge (a coarse angular average):
+   * its estimated error, m_e.
+   */
+  dosMassPathLimited?: { error: number };
   /** At a degenerate extremum of a cubic crystal sampled off the path: the warped-band fit (tensorRun.ts). */
   warping?: WarpingFitReport;
   warnings: string[];

@@ -136,6 +136,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   let tensor: MassTensor | null = null;
   let crossed = false;
   let offPath: OffPathMasses | null = null;
+  let dosPathLimited: { error: number } | null = null;
   if (network) {
     if (!network.hasLengths) warnings.push('No lattice and no written path distances: masses cannot be given in m_e.');
     else {
@@ -206,6 +207,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     const est = pathLimitedDosMass(masses.filter((m) => m.branch !== undefined).map((m) => ({ branch: m.branch!, direction: m.direction, mass: m.mass })), g, ops, ops ? cubicAxesAreCartesian(ops) : false, valleyDegeneracy, maximum);
     if (est) {
       dosMass = est.dosMass;
+      dosPathLimited = { error: est.error };
       warnings.push(est.note);
     }
   }
@@ -223,6 +225,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     tensor,
     dosMass,
     conductivityMass,
+    ...(dosPathLimited ? { dosMassPathLimited: dosPathLimited } : {}),
     ...(offPath?.warping ? { warping: offPath.warping } : {}),
     warnings,
   };

@@ -71,6 +71,7 @@ export function extremumJson(e: ExtremumReport): Record<string, unknown> {
     tensor: tensorJson(e.tensor),
     dosMass: e.dosMass === null ? null : r(e.dosMass, 6),
     conductivityMass: e.conductivityMass === null ? null : r(e.conductivityMass, 6),
+    ...(e.dosMassPathLimited ? { dosMassPathLimited: { error: r(e.dosMassPathLimited.error, 4) } } : {}),
     ...(e.warping ? { warping: warpingJson(e.warping) } : {}),
     warnings: e.warnings,
   };

@@ -44,7 +44,7 @@ function extremumBlock(e: ExtremumReport): string[] {
       lines.push(`      ${name}: ${fmt(b.m100, 3)} [100], ${fmt(b.m110, 3)} [110], ${fmt(b.m111, 3)} [111] m_e; DOS mass ${b.dos === null ? 'undetermined' : `${fmt(b.dos, 3)} m_e`}`);
     }
   }
-  if (e.dosMass !== null) lines.push(`    density-of-states mass ${fmt(e.dosMass, 3)} m_e`);
+  if (e.dosMass !== null) lines.push(`    density-of-states mass ${fmt(e.dosMass, 3)}${e.dosMassPathLimited ? ` ± ${fmt(e.dosMassPathLimited.error, 3)} m_e (path-limited: three directions stand for the whole sphere)` : ' m_e'}`);
   if (e.conductivityMass !== null) lines.push(`    conductivity mass ${fmt(e.conductivityMass, 3)} m_e`);
   for (const w of e.warnings) lines.push(`    ! ${w}`);
   return lines;
