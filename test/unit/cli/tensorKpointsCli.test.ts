@@ -1,5 +1,5 @@
 import assert from 'node:assert/strict';
-import { existsSync, mkdtempSync, readFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../src/cli/main';
@@ -71,6 +71,24 @@ describe('valleyscope tensor-kpoints', function () {
     // Degenerate top: the body diagonals are in the plan (7 orbits at Γ: centre + 3 directions × 2 shells).
     assert.equal(pts.length, 7);
     assert.match(io.stderr, /no weighted mesh/);
+  });
+
+  it('--for hybrid --mesh puts the weighted mesh first, then the points with weight 0; a bad mesh file is refused', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'vs-tensor-mesh-'));
+    const mesh = join(dir, 'IBZKPT');
+    // An explicit weighted list in VASP's IBZKPT layout (common practice): comment, count, "Reciprocal lattice".
+    writeFileSync(mesh, 'Automatically generated mesh\n       3\nReciprocal lattice\n    0.0 0.0 0.0   1\n    0.25 0.0 0.0   8\n    0.5 0.0 0.0   4\n');
+    const io = capture();
+    assert.equal(await main(['tensor-kpoints', SI, '--at', 'cbm', '--for', 'hybrid', '--mesh', mesh], io), 0, io.stderr);
+    const pts = pointsOf(io.stdout);
+    assert.deepEqual(pts.slice(0, 3).map((p) => p.w), ['1', '8', '4']);
+    assert.ok(pts.slice(3).every((p) => p.w === '0') && pts.length > 3);
+    assert.equal(Number(io.stdout.split('\n')[1]), pts.length);
+    const badMesh = join(dir, 'bad');
+    writeFileSync(badMesh, 'x\n  5\nReciprocal\n 0 0 0 1\n');
+    const bad = capture();
+    assert.equal(await main(['tensor-kpoints', SI, '--at', 'cbm', '--for', 'hybrid', '--mesh', badMesh], bad), 1);
+    assert.match(bad.stderr, /line 5: expected k1 k2 k3 weight/);
   });
 
   it('refuses to overwrite, rejects bad options, and the old verb is gone', async () => {
