@@ -203,6 +203,15 @@ export function warpedFromPoints(points: { d: Vec3; e: Float64Array }[], g: numb
   return fitWarpedBands({ d, upper, lower }, higherOrder, energySigma);
 }
 
+/**
+ * A mass with the `determined` flag the report carries (false when its standard error exceeds 30 % of |m|, or
+ * for the reason given). Typed as an intersection so it reads the same whether or not MassFit declares it yet.
+ */
+function quotable(m: MassFit, reason: string | null): MassFit & { determined: boolean; undeterminedReason?: string } {
+  const why = reason ?? (m.stderr > 0.3 * Math.abs(m.mass) ? `standard error ${m.stderr.toPrecision(2)} m_e is more than 30 % of |m|` : null);
+  return why ? { ...m, determined: false, undeterminedReason: why } : { ...m, determined: true };
+}
+
 const dirText = (u: Vec3): string => {
   const m = Math.min(...u.filter((x) => x !== 0).map(Math.abs));
   return `[${u.map((x) => {
@@ -274,17 +283,15 @@ export function tensorRunMasses(bs: BandStructure, spin: number, group: number[]
   for (let b = 0; b < g; b++) {
     for (const l of picks) {
       const branch = maximum ? b + 1 : g - b;
-      masses.push({
-        towards: dirText(l.u),
-        direction: l.u,
-        mass: lineMass(l.c4[b]!),
-        stderr: Math.abs(lineMass(l.c4[b]!)) * (sigmaC4 / Math.abs(l.c4[b]!)),
-        points: 5,
-        window_meV: l.span_meV[b]!,
-        method: TWO_SHELL_METHOD,
-        residual_meV: 0,
-        branch,
-      });
+      const mass = lineMass(l.c4[b]!);
+      const stderr = Math.abs(mass) * (sigmaC4 / Math.abs(l.c4[b]!));
+      const shells = Math.abs(l.c2h[b]! - l.c22h[b]!) / Math.abs(l.c4[b]!);
+      masses.push(
+        quotable(
+          { towards: dirText(l.u), direction: l.u, mass, stderr, points: 5, window_meV: l.span_meV[b]!, method: TWO_SHELL_METHOD, residual_meV: 0, branch },
+          shells > 0.5 ? `the curvatures at h and 2h differ by ${(shells * 100).toFixed(0)} %: the band is far from quadratic at this step` : null,
+        ),
+      );
     }
   }
   masses.sort((x, y) => x.branch! - y.branch!);
@@ -370,7 +377,7 @@ export function gridWarpedMasses(bs: BandStructure, spin: number, group: number[
       const sq = Math.sqrt(w.B * w.B + w.C * w.C * fu);
       const ds = sq > 0 ? Math.hypot(w.B * w.stderr.B, w.C * fu * w.stderr.C) / sq : Math.hypot(w.stderr.B, w.stderr.C);
       const stderr = mass * mass * Math.hypot(w.stderr.A, ds);
-      masses.push({ towards: name, direction: u, mass, stderr, points: use.length, window_meV: span, method: 'warped-band fit', residual_meV: w.residual_meV, branch: bi });
+      masses.push(quotable({ towards: name, direction: u, mass, stderr, points: use.length, window_meV: span, method: 'warped-band fit', residual_meV: w.residual_meV, branch: bi }, null));
     }
   }
   const warnings = [...f.warnings, warningsForGrid(g), warpingNote(w, g, `the ${use.length} grid points nearest the extremum`)];
