@@ -159,6 +159,18 @@ export function readTensorRun(bs: BandStructure, spin: number, group: number[], 
   return null;
 }
 
+/** Points nearest the centre at two distances r and 2r only (at least two at each), and nothing closer. */
+function looksLikeReducedRun(bs: BandStructure, center: number): boolean {
+  const k0 = kpointAt(bs, center);
+  const r: number[] = [];
+  for (let j = 0; j < bs.nk; j++) if (j !== center) r.push(Math.hypot(...cartesianDisplacement(kpointAt(bs, j), k0, bs.lattice!)));
+  r.sort((a, b) => a - b);
+  if (r.length < 4 || !(r[0]! > 0)) return false;
+  const h = r[0]!;
+  const at = (t: number): number => r.filter((x) => Math.abs(x - t) < 1e-3 * h).length;
+  return at(h) >= 2 && at(2 * h) >= 2 && at(h) + at(2 * h) === r.filter((x) => x < 2.5 * h).length;
+}
+
 export type WarpingReport = WarpingFitReport;
 
 export interface OffPathMasses {
@@ -226,7 +238,13 @@ const dirText = (u: Vec3): string => {
  */
 export function tensorRunMasses(bs: BandStructure, spin: number, group: number[], center: number, sym: CrystalSymmetry | null, maximum: boolean, valleys: number | null, energySigma: number): OffPathMasses | null {
   const run = readTensorRun(bs, spin, group, center, sym);
-  if (!run) return null;
+  if (!run) {
+    // Written with symmetry reduction and read without the structure: say so instead of fitting a fragment.
+    if (!sym && bs.lattice && looksLikeReducedRun(bs, center)) {
+      return { masses: [], tensor: null, warping: null, dosMass: null, warnings: ['These k-points look like a tensor run written with only its symmetry-inequivalent points (two shells, h and 2h): without the crystal structure they cannot be expanded, so no mass is given. Put the structure file (e.g. POSCAR) beside the run.'] };
+    }
+    return null;
+  }
   const h = run.step;
   const g = group.length;
   const warnings: string[] = [];

@@ -12,7 +12,8 @@ import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/
 import { SPHERE_26_WEIGHTS } from '../../../src/core/analysis/tensorRun';
 import { HBAR2_OVER_ME_EV_A2 } from '../../../src/core/units';
 import type { Vec3 } from '../../../src/core/model';
-import { diamondStructure, fccLattice } from '../../support/models';
+import { diamondStructure, fccLattice, parabolicBand, pointsModel } from '../../support/models';
+import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
 
 describe('tensor-run k-points (two shells, little group of k)', () => {
   const a = 5.43;
@@ -116,5 +117,27 @@ describe('tensor-run k-points (two shells, little group of k)', () => {
     assert.ok(Math.abs(avg((u) => u[0] ** 6) - 1 / 7) < 1e-14);
     assert.ok(Math.abs(avg((u) => u[0] ** 4 * u[1] ** 2) - 1 / 35) < 1e-14);
     assert.ok(Math.abs(avg((u) => u[0] ** 2 * u[1] ** 2 * u[2] ** 2) - 1 / 105) < 1e-14);
+  });
+});
+
+describe('reading a reduced tensor run without its structure', () => {
+  before(async () => {
+    await ensureSymmetryReady();
+  });
+
+  it('says the structure is needed instead of fitting the fragment', () => {
+    const a = 5.43;
+    const lattice = fccLattice(a);
+    const sym = crystalSymmetry(diamondStructure(a, 'Si'));
+    const plan = planTensorRun([0, 0, 0], 0.02, lattice, displacementOperations(sym.reciprocalPointGroup, [0, 0, 0]), false);
+    // A parabolic conduction band at Γ (mass 0.2) over a valence band: no structure given to the reader.
+    const bs = pointsModel({ lattice, bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.2)], electrons: 2, kpoints: plan.points });
+    const cbm = analyzeBandStructure(bs).extrema.find((e) => e.kind === 'cbm')!;
+    assert.equal(cbm.tensor, null);
+    assert.ok(cbm.warnings.some((w) => /structure file/.test(w) && /tensor run/.test(w)), cbm.warnings.join('\n'));
+    // With the structure, the same points give the model's isotropic mass (analytic: 0.2 m_e).
+    const full = pointsModel({ lattice, structure: diamondStructure(a, 'Si'), bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.2)], electrons: 2, kpoints: plan.points });
+    const t = analyzeBandStructure(full).extrema.find((e) => e.kind === 'cbm')!.tensor!;
+    assert.ok(t.principal.every((m) => Math.abs(m / 0.2 - 1) < 1e-6), String(t.principal));
   });
 });

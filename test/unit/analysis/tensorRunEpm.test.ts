@@ -149,33 +149,35 @@ describe('tensor runs on the EPM model (Cohen & Bergstresser 1966): plan, run, r
     });
   }
 
-  it('Si valence maximum: every branch, heavy and light masses along [100] within 2 %, and the warped fit', async () => {
-    const solver = new EpmBandSolver(unstrainedCrystal(SILICON));
-    const { edge, points } = await roundTrip('si', SILICON, 'vbm', solver);
-    assert.equal(edge.degenerateBands, 3); // threefold Γ maximum without spin-orbit (physics.md)
-    assert.equal(edge.tensor, null);
-    assert.ok(edge.masses.length >= 9, `${edge.masses.length} masses`);
-    assert.deepEqual([...new Set(edge.masses.map((m) => m.branch))].sort(), [1, 2, 3]);
-    // Reference: dense central differences (h = 0.002 Å⁻¹) of the model along [100] at Γ, bands sorted.
-    const h = 0.002;
-    const at = (t: number): number[] => [...solver.bandsAt(fractional(solver, [t, 0, 0]), NB).slice(1, 4)].sort((x, y) => y - x);
-    const [p, z, m] = [at(h), at(0), at(-h)];
-    const ref = [0, 1, 2].map((b) => HBAR2_OVER_ME_EV_A2 / ((p[b]! + m[b]! - 2 * z[b]!) / (h * h)));
-    const along100 = edge.masses.filter((x) => x.towards === '[100]');
-    assert.equal(along100.length, 3);
-    const heavy = along100.find((x) => x.branch === 1)!.mass;
-    const light = along100.find((x) => x.branch === 3)!.mass;
-    assert.ok(Math.abs(heavy / ref[0]! - 1) < 0.02, `heavy ${heavy} vs ${ref[0]} (${points} points)`);
-    assert.ok(Math.abs(light / ref[2]! - 1) < 0.02, `light ${light} vs ${ref[2]}`);
-    assert.ok(edge.warping, JSON.stringify(edge.warnings));
-    assert.equal(edge.warping.unit, 'hbar^2/(2 m_e)');
-    assert.ok(edge.warping.A < 0); // a maximum: A negative (holes; Dresselhaus, Kip & Kittel sign convention for energies)
-    assert.ok(edge.warping.B > 0 && edge.warping.C > 0);
-    // Without spin-orbit three branches meet; the two-branch form is then an approximation and the report says
-    // so beside the fit (its fidelity on the form itself is tested in warpedBands.test.ts).
-    assert.ok(edge.warnings.some((w) => /Three bands without spin-orbit/.test(w)));
-    // Its light [100] mass is of the right size (same sign, within 20 % of the direct line: the approximation).
-    assert.ok(Math.abs(edge.warping.light.m100 / ref[2]! - 1) < 0.2, `warped light ${edge.warping.light.m100} vs ${ref[2]}`);
-    assert.ok(edge.dosMass !== null && edge.dosMass > 0);
-  });
+  for (const [folder, material] of [['si', SILICON], ['ge', GERMANIUM], ['gaas', GALLIUM_ARSENIDE]] as const) {
+    it(`${material.name} valence maximum: every branch, heavy and light masses along [100] within 2 %, and the warped fit`, async () => {
+      const solver = new EpmBandSolver(unstrainedCrystal(material));
+      const { edge, points } = await roundTrip(folder, material, 'vbm', solver);
+      assert.equal(edge.degenerateBands, 3); // threefold Γ maximum without spin-orbit (physics.md)
+      assert.equal(edge.tensor, null);
+      assert.ok(edge.masses.length >= 9, `${edge.masses.length} masses`);
+      assert.deepEqual([...new Set(edge.masses.map((m) => m.branch))].sort(), [1, 2, 3]);
+      // Reference: dense central differences (h = 0.002 Å⁻¹) of the model along [100] at Γ, bands sorted.
+      const h = 0.002;
+      const at = (t: number): number[] => [...solver.bandsAt(fractional(solver, [t, 0, 0]), NB).slice(1, 4)].sort((x, y) => y - x);
+      const [p, z, m] = [at(h), at(0), at(-h)];
+      const ref = [0, 1, 2].map((b) => HBAR2_OVER_ME_EV_A2 / ((p[b]! + m[b]! - 2 * z[b]!) / (h * h)));
+      const along100 = edge.masses.filter((x) => x.towards === '[100]');
+      assert.equal(along100.length, 3);
+      const heavy = along100.find((x) => x.branch === 1)!.mass;
+      const light = along100.find((x) => x.branch === 3)!.mass;
+      assert.ok(Math.abs(heavy / ref[0]! - 1) < 0.02, `heavy ${heavy} vs ${ref[0]} (${points} points)`);
+      assert.ok(Math.abs(light / ref[2]! - 1) < 0.02, `light ${light} vs ${ref[2]}`);
+      assert.ok(edge.warping, JSON.stringify(edge.warnings));
+      assert.equal(edge.warping.unit, 'hbar^2/(2 m_e)');
+      assert.ok(edge.warping.A < 0); // a maximum: A negative (holes; Dresselhaus, Kip & Kittel sign convention for energies)
+      assert.ok(edge.warping.B > 0 && edge.warping.C > 0);
+      // Without spin-orbit three branches meet; the two-branch form is then an approximation and the report says
+      // so beside the fit (its fidelity on the form itself is tested in warpedBands.test.ts).
+      assert.ok(edge.warnings.some((w) => /Three bands without spin-orbit/.test(w)));
+      // Its light [100] mass is of the right size (same sign, within 20 % of the direct line: the approximation).
+      assert.ok(Math.abs(edge.warping.light.m100 / ref[2]! - 1) < 0.2, `warped light ${edge.warping.light.m100} vs ${ref[2]}`);
+      assert.ok(edge.dosMass !== null && edge.dosMass > 0);
+    });
+  }
 });
