@@ -46,9 +46,9 @@ interface ExtremumJson {
 }
 
 /** Plan with tensor-kpoints (default settings), run the model at the points, analyse: the edge's JSON. */
-async function roundTrip(folder: string, material: EpmMaterial, at: 'cbm' | 'vbm', solver: EpmBandSolver): Promise<{ edge: ExtremumJson; points: number; plan: string }> {
+async function roundTrip(folder: string, material: EpmMaterial, at: 'cbm' | 'vbm', solver: EpmBandSolver, extra: string[] = []): Promise<{ edge: ExtremumJson; points: number; plan: string }> {
   const io = capture();
-  assert.equal(await main(['tensor-kpoints', join(ROOT, folder), '--at', at], io), 0, io.stderr);
+  assert.equal(await main(['tensor-kpoints', join(ROOT, folder), '--at', at, ...extra], io), 0, io.stderr);
   const pts = pointsOf(io.stdout);
   const kpoints = Float64Array.from(pts.flatMap((p) => p.k));
   const energies = new Float64Array(pts.length * NB);
@@ -148,6 +148,20 @@ describe('tensor runs on the EPM model (Cohen & Bergstresser 1966): plan, run, r
       for (let i = 0; i < 3; i++) assert.ok(Math.abs(got[i]! / ref[i]! - 1) < 0.01, `${material.name} m${i + 1}: ${got[i]} vs dense ${ref[i]} (${points} points; ${plan})`);
     });
   }
+
+  it('Si, hybrid layout: the weighted mesh first, the tensor points with weight 0; the tensor is found among them', async () => {
+    const solver = new EpmBandSolver(unstrainedCrystal(SILICON));
+    const dir = mkdtempSync(join(tmpdir(), 'vs-tensor-hybrid-'));
+    // A small weighted list standing for the self-consistent mesh (IBZKPT layout): Γ, X, L and a general point.
+    const mesh = join(dir, 'IBZKPT');
+    writeFileSync(mesh, 'mesh\n4\nReciprocal lattice\n 0 0 0 1\n 0.5 0 0.5 3\n 0.5 0.5 0.5 4\n 0.25 0.125 0.375 24\n');
+    const plain = await roundTrip('si', SILICON, 'cbm', solver);
+    const hybrid = await roundTrip('si', SILICON, 'cbm', solver, ['--for', 'hybrid', '--mesh', mesh]);
+    assert.ok(hybrid.edge.tensor && plain.edge.tensor);
+    assert.equal(hybrid.points, plain.points + 4);
+    // The same points give the same tensor (the mesh lies far from the shells).
+    hybrid.edge.tensor.principal.forEach((m, i) => assert.ok(Math.abs(m / plain.edge.tensor!.principal[i]! - 1) < 1e-9));
+  });
 
   for (const [folder, material] of [['si', SILICON], ['ge', GERMANIUM], ['gaas', GALLIUM_ARSENIDE]] as const) {
     it(`${material.name} valence maximum: every branch, heavy and light masses along [100] within 2 %, and the warped fit`, async () => {
