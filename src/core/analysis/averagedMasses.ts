@@ -6,7 +6,7 @@
  * Masses here are carrier masses (positive); a signed tensor is made positive by the caller.
  */
 import type { Mat3, Vec3 } from '../model';
-import { warpedDosMass, warpingFromDirections } from './warpedBands';
+import { threefoldDosMasses, threefoldFromDirections, warpedDosMass, warpingFromDirections } from './warpedBands';
 
 export function densityOfStatesMass(principal: Vec3, valleys: number): number {
   return valleys ** (2 / 3) * Math.cbrt(principal[0] * principal[1] * principal[2]);
@@ -127,8 +127,13 @@ export function pathLimitedDosMass(masses: BranchDirectionMass[], branches: numb
       const inv = masses.filter((m) => Math.abs(m.direction[0] * u[0] + m.direction[1] * u[1] + m.direction[2] * u[2]) > 1 - 1e-6).map((m) => 1 / m.mass);
       return { u, upper: Math.max(...inv), lower: Math.min(...inv) };
     });
-    const p = items.length >= 2 ? warpingFromDirections(items) : null;
-    if (p) {
+    const three = branches === 3 ? threefoldFromDirections(dirs.map((u) => ({ u, inv: masses.filter((m) => Math.abs(m.direction[0] * u[0] + m.direction[1] * u[1] + m.direction[2] * u[2]) > 1 - 1e-6).map((m) => 1 / m.mass) }))) : null;
+    const p = !three && items.length >= 2 ? warpingFromDirections(items) : null;
+    if (three) {
+      // Three bands (no spin-orbit): the 3×3 form in L, M, N describes every branch.
+      const dos = threefoldDosMasses(three);
+      if (dos.every((x) => x !== null)) warpedValue = combine(dos as number[]);
+    } else if (p) {
       const up = warpedDosMass(p, 1);
       const lo = warpedDosMass(p, -1);
       if (up !== null && lo !== null) {
@@ -144,7 +149,7 @@ export function pathLimitedDosMass(masses: BranchDirectionMass[], branches: numb
   const note =
     `Path-limited density-of-states mass of the ${branches} branches together: each branch's ⟨|m|^(3/2)⟩ over the ${masses.length / branches} path direction${masses.length / branches === 1 ? '' : 's'}, each weighted by its star (${classes.join(', ')} equivalent directions${cartesianOps ? '' : '; symmetry unknown, so equal weights'}), then (Σ m_i^(3/2))^(2/3)${nv > 1 ? ` × N_v^(2/3), N_v = ${nv}` : ''}: ` +
     `branch masses ${perBranch.map((x) => x.toPrecision(3)).join(', ')} m_e, total ${dosMass.toPrecision(3)} ± ${error.toPrecision(2)} m_e (estimated error: ` +
-    (warpedValue !== null ? `difference from the angular integral of the warped form fitted to these directions, ${warpedValue.toPrecision(3)} m_e` : "half the spread of the branch's directional masses") +
+    (warpedValue !== null ? `difference from the angular integral of the ${branches === 3 ? 'three-band (L, M, N)' : 'warped'} form fitted to these directions, ${warpedValue.toPrecision(3)} m_e` : "half the spread of the branch's directional masses") +
     `). Warped bands: a grid or a tensor run (valleyscope tensor-kpoints) gives the full angular average.${valleys === null ? ' N_v unknown: taken as 1.' : ''}`;
   return { perBranch, dosMass, error, note };
 }

@@ -7,8 +7,9 @@
  *
  * One band at the centre: the six tensor components by least squares over the lines (uᵀHu = E''(u)).
  * Several bands (a degenerate edge): each branch (bands sorted by energy at each point) along each line,
- * masses listed along [100], [110], [111]; each branch's density-of-states mass from the 26 directions of
- * the lines (a spherical quadrature); and, in a cubic crystal, the warped-band fit (warpedBands.ts).
+ * masses listed along [100], [110], [111]; in a cubic crystal the warped-band fit (warpedBands.ts) and each
+ * branch's density-of-states mass by angular integration of the form that fits the bands (three bands: the
+ * L, M, N form; two or four: the warped form), else from the 26 directions of the lines.
  */
 import type { BandStructure, Mat3, MassFit, MassTensor, Vec3, WarpingFitReport } from '../model';
 import { kpointAt } from '../model';
@@ -19,7 +20,7 @@ import { cartesianOperation } from './symmetryTensor';
 import { leastSquares } from './fits/leastSquares';
 import { principalMasses } from './tensorFit';
 import { multiBandDosMass } from './averagedMasses';
-import { cubicAnisotropy, cubicAxesAreCartesian, fitWarpedBands, heavyLightMasses, warpedDosMass, WARPING_UNIT, type WarpedFit } from './warpedBands';
+import { cubicAnisotropy, cubicAxesAreCartesian, fitWarpedBands, threefoldDosMasses, threefoldFromDirections, heavyLightMasses, warpedDosMass, WARPING_UNIT, type WarpedFit } from './warpedBands';
 
 /** Method id of the two-shell line derivative (the 5-point central difference). */
 export const TWO_SHELL_METHOD = 'central-4';
@@ -313,32 +314,28 @@ export function tensorRunMasses(bs: BandStructure, spin: number, group: number[]
     }
   }
   masses.sort((x, y) => x.branch! - y.branch!);
-  // Each branch's DOS mass from the 26 directions (needs the body diagonals).
+  const cartOps = sym && bs.lattice ? displacementOperations(sym.reciprocalPointGroup, kpointAt(bs, center), 2e-5).map((o) => cartesianOperation(o.r, bs.lattice!)) : [];
+  const cubic = cubicAxesAreCartesian(cartOps);
+  // Each branch's DOS mass: from the form that describes the bands to order k² when the crystal is cubic (three
+  // bands without spin-orbit: the L, M, N form; two or four: the warped form), else from the 26 directions of
+  // the lines. The 26-point rule is exact for polynomials of degree 7 only, and a heavy branch is far from one
+  // (its mass peaks sharply along ⟨110⟩): on the silicon model it overestimates the heavy branch by half.
   let dosMass: number | null = null;
-  if (run.lines.some((l) => l.kind === 'body')) {
-    const per: number[] = [];
-    let ok = true;
-    for (let b = 0; b < g; b++) {
-      let s = 0;
-      for (const l of run.lines) {
-        const w = 2 * SPHERE_26_WEIGHTS[l.kind];
-        const m = lineMass(l.c4[b]!);
-        if (maximum ? m >= 0 : m <= 0) ok = false;
-        s += w * Math.abs(m) ** 1.5;
-      }
-      per.push(s ** (2 / 3));
-    }
-    if (ok) {
-      const nv = valleys ?? 1;
-      // Spinor runs (g = 4): the bands come in pairs holding one electron each, i.e. two spin-degenerate branches.
-      const perCarrier = g === 4 && bs.spinorbit ? [per[0]!, per[2]!] : per;
-      dosMass = nv ** (2 / 3) * multiBandDosMass(perCarrier);
-      warnings.push(`Density-of-states mass of the ${perCarrier.length} branches, (Σ m_i^(3/2))^(2/3)${nv > 1 ? ` × N_v^(2/3), N_v = ${nv}` : ''}: branch masses ${perCarrier.map((x) => x.toPrecision(3)).join(', ')} m_e, each ⟨|m|^(3/2)⟩^(2/3) over the 26 directions of the run's lines (a spherical rule exact to degree 7).${valleys === null ? ' N_v unknown: taken as 1.' : ''}`);
+  const nv = valleys ?? 1;
+  const nvText = `${nv > 1 ? ` × N_v^(2/3), N_v = ${nv}` : ''}`;
+  const perCarrier = (per: number[]): number[] => (g === 4 && bs.spinorbit ? [per[0]!, per[2]!] : per);
+  const sameSign = run.lines.every((l) => Array.from(l.c4).every((c) => (maximum ? c < 0 : c > 0)));
+  if (g === 3 && cubic && sameSign) {
+    const three = threefoldFromDirections(run.lines.map((l) => ({ u: l.u, inv: Array.from(l.c4).map((c) => c / HBAR2_OVER_ME_EV_A2) })));
+    const dos = three ? threefoldDosMasses(three) : null;
+    if (three && dos && dos.every((x) => x !== null)) {
+      dosMass = nv ** (2 / 3) * multiBandDosMass(dos as number[]);
+      const f = (x: number): string => x.toPrecision(3);
+      warnings.push(`Density-of-states mass of the 3 branches, (Σ m_i^(3/2))^(2/3)${nvText}: branch masses ${(dos as number[]).map(f).join(', ')} m_e by angular integration of the three-band form (Dresselhaus, Kip & Kittel 1955, no spin-orbit: H_ii = L k_i² + M (k² − k_i²), H_ij = N k_i k_j) fitted to the run's line curvatures, L = ${f(three.L)}, M = ${f(three.M)}, N = ${f(three.N)} (units ħ²/2m_e).${valleys === null ? ' N_v unknown: taken as 1.' : ''}`);
     }
   }
   let warping: WarpingReport | null = null;
-  const cartOps = sym && bs.lattice ? displacementOperations(sym.reciprocalPointGroup, kpointAt(bs, center), 2e-5).map((o) => cartesianOperation(o.r, bs.lattice!)) : [];
-  if (g >= 2 && g <= 4 && cubicAxesAreCartesian(cartOps)) {
+  if (g >= 2 && g <= 4 && cubic) {
     const f = warpedFromPoints(run.points, g, true, energySigma);
     if (f) {
       warping = warpingReport(f);
@@ -347,6 +344,21 @@ export function tensorRunMasses(bs: BandStructure, spin: number, group: number[]
     }
   } else if (g >= 2) {
     warnings.push('No warped-band fit: it needs a cubic crystal whose cubic axes are the cartesian axes, and 2 to 4 degenerate bands.');
+  }
+  if (dosMass === null && warping && (g === 2 || g === 4) && warping.heavy.dos !== null && warping.light.dos !== null) {
+    dosMass = nv ** (2 / 3) * multiBandDosMass([warping.heavy.dos, warping.light.dos]);
+    warnings.push(`Density-of-states mass of the heavy and light branches, (Σ m_i^(3/2))^(2/3)${nvText}, from the angular integration of the warped-band fit.${valleys === null ? ' N_v unknown: taken as 1.' : ''}`);
+  }
+  if (dosMass === null && sameSign && run.lines.some((l) => l.kind === 'body')) {
+    const per: number[] = [];
+    for (let b = 0; b < g; b++) {
+      let s2 = 0;
+      for (const l of run.lines) s2 += 2 * SPHERE_26_WEIGHTS[l.kind] * Math.abs(lineMass(l.c4[b]!)) ** 1.5;
+      per.push(s2 ** (2 / 3));
+    }
+    const pc = perCarrier(per);
+    dosMass = nv ** (2 / 3) * multiBandDosMass(pc);
+    warnings.push(`Density-of-states mass of the ${pc.length} branches, (Σ m_i^(3/2))^(2/3)${nvText}: branch masses ${pc.map((x) => x.toPrecision(3)).join(', ')} m_e, each ⟨|m|^(3/2)⟩^(2/3) over the 26 directions of the run's lines (a spherical rule exact to degree 7 only: a strongly warped branch can be off by tens of per cent).${valleys === null ? ' N_v unknown: taken as 1.' : ''}`);
   }
   return { masses, tensor: null, warping, dosMass, warnings };
 }

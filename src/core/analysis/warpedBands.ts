@@ -273,3 +273,83 @@ export function warpingFromDirections(items: { u: Vec3; upper: number; lower: nu
   if (!f) return null;
   return { A, B: Math.sqrt(Math.max(f.coef[0]!, 0)), C: Math.sqrt(Math.max(f.coef[1]!, 0)) };
 }
+
+// ---------------------------------------------------------------------------------------------------------
+// Three degenerate bands without spin-orbit (the threefold Γ top of diamond and zincblende crystals): to order
+// k² the bands are the eigenvalues of the 3×3 form of Dresselhaus, Kip & Kittel (1955), in units of ħ²/2m_e,
+//     H_ii = L k_i² + M (k² − k_i²),   H_ij = N k_i k_j  (i ≠ j).
+// Along [100] its eigenvalues are L and M (twice); along [111] (L + 2M + 2N)/3 and (L + 2M − N)/3 (twice).
+
+export interface ThreefoldParameters {
+  L: number;
+  M: number;
+  N: number;
+}
+
+/** Signed inverse masses (1/m_e) of the three branches along unit u, highest band first. */
+export function threefoldInverseMasses(p: ThreefoldParameters, u: Vec3): [number, number, number] {
+  const n2 = u[0] * u[0] + u[1] * u[1] + u[2] * u[2];
+  const k = u.map((x) => x / Math.sqrt(n2));
+  const h = [0, 1, 2].map((i) => [0, 1, 2].map((j) => (i === j ? p.L * k[i]! * k[i]! + p.M * (1 - k[i]! * k[i]!) : p.N * k[i]! * k[j]!)));
+  return symmetricEigenvalues3(h).sort((a, b) => b - a) as [number, number, number];
+}
+
+/** Eigenvalues of a symmetric 3×3 matrix (closed form by the trigonometric method, common practice). */
+function symmetricEigenvalues3(a: number[][]): number[] {
+  const p1 = a[0]![1]! ** 2 + a[0]![2]! ** 2 + a[1]![2]! ** 2;
+  const q = (a[0]![0]! + a[1]![1]! + a[2]![2]!) / 3;
+  if (p1 === 0) return [a[0]![0]!, a[1]![1]!, a[2]![2]!];
+  const p2 = (a[0]![0]! - q) ** 2 + (a[1]![1]! - q) ** 2 + (a[2]![2]! - q) ** 2 + 2 * p1;
+  const p = Math.sqrt(p2 / 6);
+  const b = a.map((r, i) => r.map((x, j) => (x - (i === j ? q : 0)) / p));
+  const detB = b[0]![0]! * (b[1]![1]! * b[2]![2]! - b[1]![2]! * b[2]![1]!) - b[0]![1]! * (b[1]![0]! * b[2]![2]! - b[1]![2]! * b[2]![0]!) + b[0]![2]! * (b[1]![0]! * b[2]![1]! - b[1]![1]! * b[2]![0]!);
+  const r = Math.max(-1, Math.min(1, detB / 2));
+  const phi = Math.acos(r) / 3;
+  const e1 = q + 2 * p * Math.cos(phi);
+  const e3 = q + 2 * p * Math.cos(phi + (2 * Math.PI) / 3);
+  return [e1, 3 * q - e1 - e3, e3];
+}
+
+/**
+ * L, M, N from the three branches' signed inverse masses along directions that include [100] (L: the single
+ * value there, M: the double one) and at least one other direction (N² from the sum of squares of the
+ * eigenvalues, its sign from the best match of the sorted values). Null when [100] is missing.
+ */
+export function threefoldFromDirections(items: { u: Vec3; inv: number[] }[]): ThreefoldParameters | null {
+  const axial = items.find((x) => cubicAnisotropy(x.u) < 1e-9 && x.inv.length === 3);
+  const others = items.filter((x) => cubicAnisotropy(x.u) > 0.05 && x.inv.length === 3);
+  if (!axial || !others.length) return null;
+  const v = [...axial.inv].sort((a, b) => a - b);
+  // The double value is the pair closer together.
+  const [L, M] = v[1]! - v[0]! < v[2]! - v[1]! ? [v[2]!, (v[0]! + v[1]!) / 2] : [v[0]!, (v[1]! + v[2]!) / 2];
+  let n2 = 0;
+  for (const x of others) {
+    const n = Math.hypot(...x.u);
+    const k = x.u.map((c) => c / n);
+    const diag = k.reduce((s, c) => s + (L * c * c + M * (1 - c * c)) ** 2, 0);
+    n2 += (x.inv.reduce((s, e) => s + e * e, 0) - diag) / (2 * cubicAnisotropy(x.u));
+  }
+  const N0 = Math.sqrt(Math.max(n2 / others.length, 0));
+  const mismatch = (N: number): number =>
+    others.reduce((s, x) => {
+      const model = threefoldInverseMasses({ L, M, N }, x.u);
+      const data = [...x.inv].sort((a, b) => b - a);
+      return s + model.reduce((t, e, i) => t + (e - data[i]!) ** 2, 0);
+    }, 0);
+  return { L, M, N: mismatch(N0) <= mismatch(-N0) ? N0 : -N0 };
+}
+
+/** Each branch's DOS mass (positive, m_e; highest band first), or null for a branch whose curvature changes sign. */
+export function threefoldDosMasses(p: ThreefoldParameters): (number | null)[] {
+  return [0, 1, 2].map((b) => {
+    let pos = false;
+    let neg = false;
+    const avg = cubicSphereAverage((u) => {
+      const inv = threefoldInverseMasses(p, u)[b]!;
+      if (inv > 0) pos = true;
+      else neg = true;
+      return Math.abs(inv) ** -1.5;
+    });
+    return pos && neg ? null : avg ** (2 / 3);
+  });
+}

@@ -3,6 +3,9 @@ import {
   cubicAnisotropy,
   cubicSphereAverage,
   fitWarpedBands,
+  threefoldDosMasses,
+  threefoldFromDirections,
+  threefoldInverseMasses,
   heavyLightMasses,
   warpedDosMass,
   warpedEnergies,
@@ -177,5 +180,43 @@ describe('warped-band fit from a grid around a degenerate maximum', () => {
     // 1/(A + |B|) (analytic, Dresselhaus, Kip & Kittel form).
     assert.ok(Math.abs(heavy100.mass / (1 / (P.A + P.B)) - 1) < 0.01, String(heavy100.mass));
     assert.ok(vbm.warnings.some((w) => /Warped-band fit/.test(w)));
+  });
+});
+
+describe('three degenerate bands without spin-orbit (L, M, N form of Dresselhaus, Kip & Kittel 1955)', () => {
+  // Parameters of the size of silicon's (units ħ²/2m_e; illustrative, chosen here, not quoted).
+  const P = { L: -6.3, M: -3.6, N: -9.1 };
+
+  it('has eigenvalues L, M, M along [100] and (L + 2M + 2N)/3, (L + 2M − N)/3 twice along [111] (analytic)', () => {
+    const a = threefoldInverseMasses(P, [1, 0, 0]);
+    assert.deepEqual(a.map((x) => Number(x.toFixed(12))), [P.M, P.M, P.L]);
+    const b = threefoldInverseMasses(P, [1, 1, 1]);
+    const single = (P.L + 2 * P.M + 2 * P.N) / 3;
+    const double = (P.L + 2 * P.M - P.N) / 3;
+    assert.ok(Math.abs(b[0] - double) < 1e-12 && Math.abs(b[1] - double) < 1e-12 && Math.abs(b[2] - single) < 1e-12);
+  });
+
+  it('L, M, N are recovered from the branches along [100], [110], [111], and the DOS masses match a brute-force sphere', () => {
+    const dirs: Vec3[] = [[1, 0, 0], [Math.SQRT1_2, Math.SQRT1_2, 0], [1, 1, 1].map((x) => x / Math.sqrt(3)) as Vec3];
+    const fit = threefoldFromDirections(dirs.map((u) => ({ u, inv: threefoldInverseMasses(P, u) })))!;
+    assert.ok(Math.abs(fit.L - P.L) < 1e-9 && Math.abs(fit.M - P.M) < 1e-9 && Math.abs(fit.N - P.N) < 1e-9, JSON.stringify(fit));
+    const dos = threefoldDosMasses(P);
+    // Reference: midpoint rule over the whole sphere, 200 × 400 cells (an independent rule).
+    const s = [0, 0, 0];
+    let ws = 0;
+    for (let i = 0; i < 200; i++) {
+      const th = ((i + 0.5) * Math.PI) / 200;
+      const w = Math.sin(th);
+      for (let j = 0; j < 400; j++) {
+        const ph = ((j + 0.5) * 2 * Math.PI) / 400;
+        const inv = threefoldInverseMasses(P, [Math.sin(th) * Math.cos(ph), Math.sin(th) * Math.sin(ph), Math.cos(th)]);
+        for (let b = 0; b < 3; b++) s[b] = s[b]! + w * Math.abs(inv[b]!) ** -1.5;
+        ws += w;
+      }
+    }
+    for (let b = 0; b < 3; b++) {
+      const ref = (s[b]! / ws) ** (2 / 3);
+      assert.ok(Math.abs(dos[b]! / ref - 1) < 2e-3, `branch ${b + 1}: ${dos[b]} vs ${ref}`);
+    }
   });
 });
