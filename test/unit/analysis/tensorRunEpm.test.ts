@@ -126,6 +126,32 @@ function minimumAlong(solver: EpmBandSolver, k0: Vec3, u: Vec3, band: number): V
   return [k0[0] + t * u[0], k0[1] + t * u[1], k0[2] + t * u[2]];
 }
 
+/**
+ * Full-sphere DOS mass of the model's three top valence bands at Γ (reference for the tests below).
+ */
+function sphereDosMass(solver: EpmBandSolver): number {
+  // Reference: the model's three top valence bands at Γ, curvature by central difference (h = 0.003 Å⁻¹,
+  // inversion makes E(−k) = E(k)) along 8 × 16 directions of a product rule (Gauss–Legendre nodes in cos θ on
+  // [0, 1] from the 8-point table of Abramowitz & Stegun 25.4.30 (memory; the weights sum to 2), midpoint in φ
+  // over [0, π/2)), each branch ⟨|m|^(3/2)⟩^(2/3), combined as (Σ m_i^(3/2))^(2/3) (physics.md step 9).
+  const x8 = [0.1834346424956498, 0.5255324099163290, 0.7966664774136267, 0.9602898564975363];
+  const w8 = [0.3626837833783620, 0.3137066458778873, 0.2223810344533745, 0.1012285362903763];
+  const nodes = [...x8.map((x, i) => ({ x: -x, w: w8[i]! })), ...x8.map((x, i) => ({ x, w: w8[i]! }))];
+  const h = 0.003;
+  const e0 = solver.bandsAt([0, 0, 0], NB)[3]!;
+  const acc = [0, 0, 0];
+  for (const { x, w } of nodes) {
+    const mu = (x + 1) / 2;
+    const s = Math.sqrt(1 - mu * mu);
+    for (let j = 0; j < 16; j++) {
+      const ph = ((j + 0.5) * (Math.PI / 2)) / 16;
+      const e = [...solver.bandsAt(fractional(solver, [h * s * Math.cos(ph), h * s * Math.sin(ph), h * mu]), NB).slice(1, 4)].sort((p, q) => q - p);
+      e.forEach((v, b) => (acc[b] = acc[b]! + ((w / 2) * Math.abs(HBAR2_OVER_ME_EV_A2 / ((2 * (v - e0)) / (h * h))) ** 1.5) / 16));
+    }
+  }
+  return acc.reduce((t, a) => t + a, 0) ** (2 / 3);
+}
+
 describe('tensor runs on the EPM model (Cohen & Bergstresser 1966): plan, run, read back', function () {
   this.timeout(300000);
 
@@ -152,28 +178,19 @@ describe('tensor runs on the EPM model (Cohen & Bergstresser 1966): plan, run, r
   it('Si valence maximum: the DOS mass of the three branches is within 2 % of a full-sphere average of the model', async () => {
     const solver = new EpmBandSolver(unstrainedCrystal(SILICON));
     const { edge } = await roundTrip('si', SILICON, 'vbm', solver);
-    // Reference: the model's three top valence bands at Γ, curvature by central difference (h = 0.003 Å⁻¹,
-    // inversion makes E(−k) = E(k)) along 8 × 16 directions of a product rule (Gauss–Legendre nodes in cos θ on
-    // [0, 1] from the 8-point table of Abramowitz & Stegun 25.4.30 (memory; the weights sum to 2), midpoint in φ over [0, π/2)), each branch
-    // ⟨|m|^(3/2)⟩^(2/3), combined as (Σ m_i^(3/2))^(2/3) (physics.md step 9).
-    const x8 = [0.1834346424956498, 0.5255324099163290, 0.7966664774136267, 0.9602898564975363];
-    const w8 = [0.3626837833783620, 0.3137066458778873, 0.2223810344533745, 0.1012285362903763];
-    const nodes = [...x8.map((x, i) => ({ x: -x, w: w8[i]! })), ...x8.map((x, i) => ({ x, w: w8[i]! }))];
-    const h = 0.003;
-    const e0 = solver.bandsAt([0, 0, 0], NB)[3]!;
-    const acc = [0, 0, 0];
-    for (const { x, w } of nodes) {
-      const mu = (x + 1) / 2;
-      const s = Math.sqrt(1 - mu * mu);
-      for (let j = 0; j < 16; j++) {
-        const ph = ((j + 0.5) * (Math.PI / 2)) / 16;
-        const e = [...solver.bandsAt(fractional(solver, [h * s * Math.cos(ph), h * s * Math.sin(ph), h * mu]), NB).slice(1, 4)].sort((p, q) => q - p);
-        e.forEach((v, b) => (acc[b] = acc[b]! + ((w / 2) * Math.abs(HBAR2_OVER_ME_EV_A2 / ((2 * (v - e0)) / (h * h))) ** 1.5) / 16));
-      }
-    }
-    const ref = acc.reduce((t, a) => t + a, 0) ** (2 / 3);
+    const ref = sphereDosMass(solver);
     assert.ok(edge.dosMass !== null);
     assert.ok(Math.abs(edge.dosMass / ref - 1) < 0.02, `${edge.dosMass} vs sphere ${ref}`);
+  });
+
+  it('Si path only: the path-limited valence DOS mass carries an error estimate that covers the full-sphere value', async () => {
+    const solver = new EpmBandSolver(unstrainedCrystal(SILICON));
+    const run = capture();
+    assert.equal(await main(['analyze', join(ROOT, 'si'), '--json'], run), 0, run.stderr);
+    const vbm = (JSON.parse(run.stdout) as { extrema: (ExtremumJson & { dosMassPathLimited?: { error: number } })[] }).extrema.find((e) => e.kind === 'vbm')!;
+    assert.ok(vbm.dosMass !== null && vbm.dosMassPathLimited);
+    const ref = sphereDosMass(solver);
+    assert.ok(Math.abs(vbm.dosMass - ref) <= vbm.dosMassPathLimited.error, `${vbm.dosMass} ± ${vbm.dosMassPathLimited.error} vs sphere ${ref}`);
   });
 
   it('Si, hybrid layout: the weighted mesh first, the tensor points with weight 0; the tensor is found among them', async () => {
