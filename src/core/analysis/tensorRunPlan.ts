@@ -139,7 +139,8 @@ export function stepFromMasses(e: ExtremumReport, energy_eV: number): StepChoice
   if (!ms.length) return null;
   const light = Math.min(...ms.map(Math.abs));
   const step = stepForEnergy(light, energy_eV, HBAR2_OVER_ME_EV_A2);
-  return { step, how: `h = ${step.toPrecision(3)} Å⁻¹: the lightest mass measured here (${light.toPrecision(3)} m_e) moves ${(energy_eV * 1000).toPrecision(3)} meV at h` };
+  const partial = !e.tensor && e.degenerateBands === 1 ? ` (only ${e.masses.length} direction${e.masses.length === 1 ? ' was' : 's were'} measured here and no tensor: a lighter unmeasured direction moves more, so a smaller --energy or --step is safer for a strongly anisotropic valley)` : '';
+  return { step, how: `h = ${step.toPrecision(3)} Å⁻¹: the lightest mass measured here (${light.toPrecision(3)} m_e) moves ${(energy_eV * 1000).toPrecision(3)} meV at h${partial}` };
 }
 
 export interface PlanOptions {
