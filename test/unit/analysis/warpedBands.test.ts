@@ -14,8 +14,9 @@ import {
 } from '../../../src/core/analysis/warpedBands';
 import type { Vec3 } from '../../../src/core/model';
 import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
-import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
-import { cubicLattice, gridModel, simpleCubicStructure } from '../../support/models';
+import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
+import { displacementOperations, planTensorRun } from '../../../src/core/lattice/tensorKpoints';
+import { cubicLattice, gridModel, pointsModel, simpleCubicStructure } from '../../support/models';
 
 /** The 26 directions ⟨100⟩, ⟨110⟩, ⟨111⟩ (unit vectors) and a few general ones. */
 function directions(): Vec3[] {
@@ -218,5 +219,37 @@ describe('three degenerate bands without spin-orbit (L, M, N form of Dresselhaus
       const ref = (s[b]! / ws) ** (2 / 3);
       assert.ok(Math.abs(dos[b]! / ref - 1) < 2e-3, `branch ${b + 1}: ${dos[b]} vs ${ref}`);
     }
+  });
+});
+
+describe('a spinor tensor run at a fourfold maximum (heavy and light pairs)', () => {
+  before(async () => {
+    await ensureSymmetryReady();
+  });
+
+  it('reads the two-shell run back to A, B, C within 1 %, every branch, and the DOS mass of the warped form', () => {
+    // Ge cyclotron-resonance parameters (Dresselhaus, Kip & Kittel 1955; physics.md, memory); each branch a
+    // Kramers pair, one electron per band (spin-orbit run).
+    const a = 5;
+    const P = { A: -13.1, B: 8.3, C: 12.5 };
+    const lattice = cubicLattice(a);
+    const structure = simpleCubicStructure(a);
+    const sym = crystalSymmetry(structure);
+    const plan = planTensorRun([0, 0, 0], 0.01, lattice, displacementOperations(sym.reciprocalPointGroup, [0, 0, 0]), true);
+    const lo = (kc: Vec3): number => warpedEnergies(P, kc).lower;
+    const up = (kc: Vec3): number => warpedEnergies(P, kc).upper;
+    const bs = pointsModel({ lattice, structure, bands: [lo, lo, up, up, () => 5], electrons: 4, kpoints: plan.points });
+    bs.spinorbit = true;
+    const vbm = analyzeBandStructure(bs).extrema.find((e) => e.kind === 'vbm')!;
+    assert.equal(vbm.degenerateBands, 4);
+    assert.ok(vbm.warping, vbm.warnings.join('\n'));
+    assert.ok(Math.abs(vbm.warping.A / P.A - 1) < 0.01 && Math.abs(vbm.warping.B / P.B - 1) < 0.01 && Math.abs(vbm.warping.C / P.C - 1) < 0.01, JSON.stringify(vbm.warping));
+    assert.equal(vbm.masses.length, 12); // four bands × [100], [110], [111]
+    // Heavy along [111]: 1/(A + √(B² + C²/3)) (analytic, the form).
+    const h111 = vbm.masses.find((m) => m.branch === 1 && m.towards === '[111]')!.mass;
+    assert.ok(Math.abs(h111 * (P.A + Math.sqrt(P.B ** 2 + P.C ** 2 / 3)) - 1) < 0.01, String(h111));
+    // Two spin-degenerate branches: (m_h^(3/2) + m_l^(3/2))^(2/3) of the form's angular averages.
+    const expected = (warpedDosMass(P, 1)! ** 1.5 + warpedDosMass(P, -1)! ** 1.5) ** (2 / 3);
+    assert.ok(vbm.dosMass !== null && Math.abs(vbm.dosMass / expected - 1) < 0.01, `${vbm.dosMass} vs ${expected}`);
   });
 });
