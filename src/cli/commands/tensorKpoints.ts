@@ -23,7 +23,8 @@ export const TENSOR_KPOINTS_HELP = `valleyscope tensor-kpoints <file-or-folder> 
   --energy <meV>    energy the band moves at h (default ${DEFAULT_SHELL_ENERGY_EV * 1000})
   --for nscf|hybrid nscf: weight 1 (a non-self-consistent run); hybrid: the self-consistent mesh with its
                     weights, then these points with weight 0 (VASP). Default: hybrid when the run read was a
-                    hybrid-functional run, else nscf. Quantum ESPRESSO and CASTEP inputs are for nscf/spectral runs.
+                    hybrid-functional run (as its files say, or weighted points followed by zero-weight ones),
+                    else nscf. Quantum ESPRESSO and CASTEP inputs are for nscf/spectral runs.
   --mesh <file>     for --for hybrid: the weighted k-points (IBZKPT layout) to put first (default: the run's own
                     weighted points when it is a mesh run)
   --out <file>      write to this file (never overwrites) instead of printing
@@ -52,9 +53,26 @@ export function parseWeightedList(text: string, file: string): WeightedMesh {
   return { k, w };
 }
 
-/** The run's own weighted mesh (a self-consistent run read back), or null. */
+/**
+ * True when the run was laid out as a hybrid-functional band run: weighted points followed by zero-weight ones
+ * (or the reader dropped such a mesh and said so).
+ */
+function zeroWeightAppended(bs: BandStructure): boolean {
+  if (bs.warnings.some((w) => w.code === 'mesh-points-dropped')) return true;
+  if (!bs.weights) return false;
+  let pos = false;
+  let zero = false;
+  for (let i = 0; i < bs.nk; i++) {
+    if (bs.weights[i]! > 0) pos = true;
+    else if (bs.weights[i] === 0) zero = true;
+  }
+  return pos && zero;
+}
+
+/** The run's own weighted mesh (a self-consistent run, or the mesh part of a hybrid band run), or null. */
 function ownMesh(bs: BandStructure): WeightedMesh | null {
-  if (bs.sampling === 'path' || !bs.weights) return null;
+  if (!bs.weights || (bs.sampling === 'path' && !zeroWeightAppended(bs))) return null;
+  // (A VASP reader drops the mesh of a hybrid band run: then there is none to reuse, and --mesh gives it.)
   const k: Vec3[] = [];
   const w: number[] = [];
   for (let i = 0; i < bs.nk; i++) {
@@ -82,7 +100,8 @@ export async function runTensorKpoints(argv: string[], io: CliIO): Promise<numbe
   if (forText !== undefined && forText !== 'nscf' && forText !== 'hybrid') throw new UsageError(`--for must be nscf or hybrid, got "${forText}"`);
   const bs = await loadRun(nodeFileAccessor, p.positional[0]!, p.flags.has('soc') ? { spinorbit: true } : {});
   if (!bs.lattice) throw new ValleyscopeError(`${bs.source.file}: no lattice is known for this run, so points in 1/Å cannot be placed (put the structure file beside it)`);
-  const kind: TensorRunKind = (forText as TensorRunKind | undefined) ?? (methodFamily(bs) === 'hybrid' ? 'hybrid' : 'nscf');
+  const family = methodFamily(bs);
+  const kind: TensorRunKind = (forText as TensorRunKind | undefined) ?? (family === 'hybrid' || (family === null && zeroWeightAppended(bs)) ? 'hybrid' : 'nscf');
   const report = analyzeBandStructure(bs);
   let plan: TensorRunPlan;
   let what: string;

@@ -46,7 +46,7 @@ interface ExtremumJson {
 }
 
 /** Plan with tensor-kpoints (default settings), run the model at the points, analyse: the edge's JSON. */
-async function roundTrip(folder: string, material: EpmMaterial, at: 'cbm' | 'vbm', solver: EpmBandSolver, extra: string[] = []): Promise<{ edge: ExtremumJson; points: number; plan: string }> {
+async function roundTrip(folder: string, material: EpmMaterial, at: 'cbm' | 'vbm', solver: EpmBandSolver, extra: string[] = []): Promise<{ edge: ExtremumJson; points: number; plan: string; dir: string }> {
   const io = capture();
   assert.equal(await main(['tensor-kpoints', join(ROOT, folder), '--at', at, ...extra], io), 0, io.stderr);
   const pts = pointsOf(io.stdout);
@@ -74,7 +74,7 @@ async function roundTrip(folder: string, material: EpmMaterial, at: 'cbm' | 'vbm
   const report = JSON.parse(run.stdout) as { extrema: ExtremumJson[] };
   const edge = report.extrema.find((e) => e.kind === at);
   assert.ok(edge, `no ${at} in the run`);
-  return { edge, points: pts.length, plan: io.stderr };
+  return { edge, points: pts.length, plan: io.stderr, dir };
 }
 
 /** Cartesian k (Å⁻¹) → fractional for the solver's lattice. */
@@ -205,6 +205,15 @@ describe('tensor runs on the EPM model (Cohen & Bergstresser 1966): plan, run, r
     assert.equal(hybrid.points, plain.points + 4);
     // The same points give the same tensor (the mesh lies far from the shells).
     hybrid.edge.tensor.principal.forEach((m, i) => assert.ok(Math.abs(m / plain.edge.tensor!.principal[i]! - 1) < 1e-9));
+    // Planning again from that run (weighted points followed by zero-weight ones): hybrid is the default. The
+    // reader keeps only the zero-weight points, so the mesh must come from --mesh; without it, only zeros.
+    const again = capture();
+    assert.equal(await main(['tensor-kpoints', hybrid.dir, '--at', 'cbm'], again), 0, again.stderr);
+    assert.ok(pointsOf(again.stdout).every((p) => p.w === 0));
+    assert.match(again.stderr, /no weighted mesh/);
+    const withMesh = capture();
+    assert.equal(await main(['tensor-kpoints', hybrid.dir, '--at', 'cbm', '--mesh', mesh], withMesh), 0, withMesh.stderr);
+    assert.deepEqual(pointsOf(withMesh.stdout).slice(0, 4).map((p) => p.w), [1, 3, 4, 24]);
   });
 
   for (const [folder, material] of [['si', SILICON], ['ge', GERMANIUM], ['gaas', GALLIUM_ARSENIDE]] as const) {
