@@ -94,7 +94,7 @@ export async function runTensorKpoints(argv: string[], io: CliIO): Promise<numbe
   if (p.positional.length !== 1) throw new UsageError('tensor-kpoints takes exactly one file or folder');
   const at = flag(p, 'at');
   if (at === undefined) throw new UsageError('--at is required: cbm, vbm or a fractional k such as 0.5,0,0.5');
-  const step = numberFlag(p, 'step', (x) => x > 0 && x < 1, 'a positive number of 1/Å below 1');
+  const step = numberFlag(p, 'step', (x) => x >= 0.001 && x < 1, 'a number of 1/Å from 0.001 to below 1');
   const energyMeV = numberFlag(p, 'energy', (x) => x > 0 && x <= 200, 'a positive number of meV up to 200');
   const forText = flag(p, 'for');
   if (forText !== undefined && forText !== 'nscf' && forText !== 'hybrid') throw new UsageError(`--for must be nscf or hybrid, got "${forText}"`);

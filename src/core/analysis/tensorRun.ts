@@ -103,7 +103,6 @@ export function readTensorRun(bs: BandStructure, spin: number, group: number[], 
   const nb = bs.nBands;
   const set = new PointSet();
   const g = group.length;
-  let written = 0;
   // Only the points nearest the centre can belong to its shells (a hybrid run's mesh, or a large grid, lies
   // farther out): expanding the nearest few hundred keeps the cost independent of the size of the file.
   const near: { j: number; d: Vec3; r: number }[] = [];
@@ -114,7 +113,6 @@ export function readTensorRun(bs: BandStructure, spin: number, group: number[], 
   near.sort((x, y) => x.r - y.r);
   for (const { j, d } of near.slice(0, NEAREST_POINTS)) {
     const e = Float64Array.from(group.map((b) => en[j * nb + b]!)).sort().reverse();
-    if (!set.find(d)) written++;
     const images: Vec3[] = [d];
     for (const op of ops) {
       const r = op.r;
@@ -155,7 +153,10 @@ export function readTensorRun(bs: BandStructure, spin: number, group: number[], 
       const nz = u.filter((x) => x !== 0).length;
       lines.push({ u, kind: nz === 1 ? 'axial' : nz === 2 ? 'face' : 'body', c2h, c22h, c4, span_meV: span });
     }
-    return { step: h, lines, points: set.all, written };
+    // Points of the file on the centre or the two shells (a hybrid run's mesh points are not counted).
+    const hh = h;
+    const written = near.filter((p) => p.r < 1e-9 || Math.abs(p.r - hh) < 1e-3 * hh || Math.abs(p.r - 2 * hh) < 2e-3 * hh).length;
+    return { step: h, lines, points: set.all.filter((p) => Math.hypot(...p.d) < 2.01 * hh), written };
   }
   return null;
 }
