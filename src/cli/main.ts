@@ -8,7 +8,7 @@ import { ANALYZE_HELP, runAnalyze } from './commands/analyze';
 import { COMPARE_HELP, runCompare } from './commands/compare';
 import { ANNOTATE_HELP, runAnnotate } from './commands/annotate';
 import { CHECK_HELP, runCheck } from './commands/check';
-import { STENCIL_HELP, runStencil } from './commands/stencil';
+import { TENSOR_KPOINTS_HELP, runTensorKpoints } from './commands/tensorKpoints';
 import { isValleyscopeError } from '../core/errors';
 import { TOOL_VERSION } from '../core/version';
 import { ensureSymmetryReady } from '../core/lattice/symmetry';
@@ -25,7 +25,7 @@ export const COMMANDS: Record<string, Command> = {
   compare: { help: COMPARE_HELP, run: runCompare },
   annotate: { help: ANNOTATE_HELP, run: runAnnotate },
   check: { help: CHECK_HELP, run: runCheck },
-  stencil: { help: STENCIL_HELP, run: runStencil },
+  'tensor-kpoints': { help: TENSOR_KPOINTS_HELP, run: runTensorKpoints },
 };
 
 export function usage(): string {

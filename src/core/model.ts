@@ -207,6 +207,13 @@ export interface ExtremumReport extends BandPoint {
   tensor: MassTensor | null;
   dosMass: number | null;
   conductivityMass: number | null;
+  /**
+   * Set when `dosMass` comes from path directions only at a degenerate edge (a coarse angular average):
+   * its estimated error, m_e.
+   */
+  dosMassPathLimited?: { error: number };
+  /** At a degenerate extremum of a cubic crystal sampled off the path: the warped-band fit (tensorRun.ts). */
+  warping?: WarpingFitReport;
   warnings: string[];
 }
 
@@ -219,6 +226,20 @@ export interface ChannelClassification {
   classificationReason: string;
   /** 1-based bands of this channel that cross the Fermi level. */
   crossingBands: number[];
+}
+
+/** The warped-band form's parameters (Dresselhaus, Kip & Kittel 1955) and what follows from them, m_e. */
+export interface WarpingFitReport {
+  A: number;
+  B: number;
+  C: number;
+  /** Unit of A, B, C: ħ²/2m_e. */
+  unit: string;
+  stderr: { A: number; B: number; C: number };
+  points: number;
+  residual_meV: number;
+  heavy: { m100: number; m110: number; m111: number; dos: number | null };
+  light: { m100: number; m110: number; m111: number; dos: number | null };
 }
 
 export interface Report {

@@ -1,5 +1,5 @@
 /**
- * Runs that sample only a small neighbourhood of one point (a stencil run for a mass tensor, a fine local
+ * Runs that sample only a small neighbourhood of one point (a tensor run for a mass tensor, a fine local
  * grid): their band edges are edges of the sampled patch, not of the crystal, so they give no gap, and only
  * the extremum the run was made for (at its centre) is meaningful. Pure.
  */

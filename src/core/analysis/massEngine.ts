@@ -18,7 +18,9 @@ import type { CurvatureFit } from './fits/types';
 import { oppositeRay, type Ray } from './pathRays';
 import { cartesianToFractional } from '../lattice/reciprocal';
 import { tensorFromNeighbours } from './tensorFit';
-import { averagedFromPrincipal, multiBandDosMass } from './averagedMasses';
+import { gridWarpedMasses, tensorRunMasses, type OffPathMasses } from './tensorRun';
+import { averagedFromPrincipal, pathLimitedDosMass } from './averagedMasses';
+import { cubicAxesAreCartesian } from './warpedBands';
 import { cartesianLittleGroup, symmetryContext, valleysAt, type SymmetryContext } from './valleyCount';
 import { tensorFromDirections } from './symmetryTensor';
 import { pathGeometry } from '../lattice/kpath';
@@ -112,10 +114,6 @@ function vertexNote(bs: BandStructure, k: number, fits: CurvatureFit[], rays: Ra
   return `The ${maximum ? 'maximum' : 'minimum'} lies between sampled points: the free-vertex ${fit.method} fit towards ${ray.towards} puts it ${step.toFixed(2)} of a step (${fit.vertexT!.toFixed(4)} Å⁻¹) from the sampled point, at k ≈ (${kv.join(', ')})${fit.vertexE !== undefined ? `, E ≈ ${fit.vertexE.toFixed(4)} eV` : ''}.`;
 }
 
-function fmt3(x: number): string {
-  return x.toPrecision(3);
-}
-
 /** Characterise one located extremum. */
 export function characterise(ctx: EngineContext, site: ExtremumSite, settings: AnalysisSettings): ExtremumReport {
   const { bs, network } = ctx;
@@ -138,6 +136,8 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   let masses: MassFit[] = [];
   let tensor: MassTensor | null = null;
   let crossed = false;
+  let offPath: OffPathMasses | null = null;
+  let dosPathLimited: { error: number } | null = null;
   if (network) {
     if (!network.hasLengths) warnings.push('No lattice and no written path distances: masses cannot be given in m_e.');
     else {
@@ -158,7 +158,13 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
       if (crossed) warnings.push('Along some direction a branch crosses another band: it was followed across the crossing, not by band index.');
     }
   } else if (bs.nk > 1) {
-    if (g > 1) warnings.push('No mass tensor at a degenerate edge: the branches have no common tensor.');
+    // A tensor run (tensor-kpoints), or a grid around a degenerate edge: tensorRun.ts.
+    offPath = tensorRunMasses(bs, site.spin, site.group, site.k, ctx.symmetry.sym, maximum, valleyDegeneracy, ctx.energySigma) ?? (g > 1 ? gridWarpedMasses(bs, site.spin, site.group, site.k, ctx.symmetry.sym, ctx.energySigma) : null);
+    if (offPath) {
+      masses = offPath.masses;
+      tensor = offPath.tensor;
+      warnings.push(...offPath.warnings);
+    } else if (g > 1) warnings.push('No mass tensor at a degenerate edge: the branches have no common tensor.');
     else {
       const t = tensorFromNeighbours(bs, site.spin, site.band, site.k, settings.window_meV, ctx.energySigma);
       tensor = t.tensor;
@@ -182,7 +188,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
           points: masses.reduce((s, m) => s + m.points, 0),
         };
       } else if (r.reason) {
-        warnings.push(`No mass tensor: ${r.reason}. A stencil run (valleyscope stencil --at ${site.kind === 'vbm' || site.kind === 'cbm' ? site.kind : fracText(k)}) gives the full tensor.`);
+        warnings.push(`No mass tensor: ${r.reason}. A tensor run (valleyscope tensor-kpoints --at ${site.kind === 'vbm' || site.kind === 'cbm' ? site.kind : fracText(k)}) gives the full tensor.`);
       }
     }
   }
@@ -194,21 +200,16 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     dosMass = av.dosMass;
     conductivityMass = av.conductivityMass;
     warnings.push(av.note);
+  } else if (offPath) {
+    dosMass = offPath.dosMass;
   } else if (g > 1 && masses.length > 0) {
-    // Several bands share the edge: the multi-band DOS mass (Σ m_i^(3/2))^(2/3), each branch's mass its
-    // DOS-weighted average over the path directions, ⟨|m|^(3/2)⟩^(2/3).
-    const perBranch: number[] = [];
-    for (let b = 1; b <= g; b++) {
-      const ms = masses.filter((m) => m.branch === b).map((m) => Math.abs(m.mass));
-      if (ms.length) perBranch.push((ms.reduce((s, m) => s + m ** 1.5, 0) / ms.length) ** (2 / 3));
-    }
-    const signsAgree = masses.every((m) => (maximum ? m.mass < 0 : m.mass > 0));
-    if (perBranch.length === g && signsAgree) {
-      const nv = valleyDegeneracy ?? 1;
-      dosMass = nv ** (2 / 3) * multiBandDosMass(perBranch);
-      warnings.push(
-        `Density-of-states mass of the ${g} branches together, (Σ m_i^(3/2))^(2/3)${nv > 1 ? ` × N_v^(2/3) with N_v = ${nv}` : ''}: branch masses ${perBranch.map(fmt3).join(', ')} m_e, each averaged over the ${masses.length / g} path direction${masses.length / g === 1 ? '' : 's'} as ⟨|m|^(3/2)⟩^(2/3) (warped bands: an approximation).${valleyDegeneracy === null ? ' N_v unknown: taken as 1.' : ''}`,
-      );
+    // Several bands share the edge: path-limited DOS mass, directions weighted by their stars (averagedMasses.ts).
+    const ops = bs.lattice ? cartesianLittleGroup(ctx.symmetry, k, bs.lattice) : null;
+    const est = pathLimitedDosMass(masses.filter((m) => m.branch !== undefined).map((m) => ({ branch: m.branch!, direction: m.direction, mass: m.mass })), g, ops, ops ? cubicAxesAreCartesian(ops) : false, valleyDegeneracy, maximum);
+    if (est) {
+      dosMass = est.dosMass;
+      dosPathLimited = { error: est.error };
+      warnings.push(est.note);
     }
   }
   return {
@@ -225,6 +226,8 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     tensor,
     dosMass,
     conductivityMass,
+    ...(dosPathLimited ? { dosMassPathLimited: dosPathLimited } : {}),
+    ...(offPath?.warping ? { warping: offPath.warping } : {}),
     warnings,
   };
 }

@@ -1,5 +1,5 @@
 /**
- * The full mass tensor from k-points around an extremum (a uniform grid, or a stencil run): least squares
+ * The full mass tensor from k-points around an extremum (a uniform grid, or a list of points around it): least squares
  * of the quadratic form E = E0 + g·d + ½ dᵀ H d over the displacements d (cartesian Å⁻¹), gradient free
  * so an extremum between points is allowed. The inverse mass tensor is H/(ħ²/m_e); its eigenvectors are the
  * principal axes and ħ²/(m_e λ) the principal (signed) masses. (physics.md step 5.)
@@ -139,7 +139,7 @@ export function tensorFromNeighbours(bs: BandStructure, spin: number, band: numb
       for (let i = 0; i < n; i++) span = Math.max(span, Math.abs(e[i]! - uniq[0]!.e));
       const spanMeV = span * 1000;
       if (spanMeV > window_meV) {
-        warnings.push(`The ${n} k-points nearest the extremum span ${spanMeV.toFixed(0)} meV, more than the ${window_meV} meV window: a finer mesh or a smaller stencil step would fit the curvature closer to the extremum.`);
+        warnings.push(`The ${n} k-points nearest the extremum span ${spanMeV.toFixed(0)} meV, more than the ${window_meV} meV window: a finer mesh or a tensor run (valleyscope tensor-kpoints) would fit the curvature closer to the extremum.`);
       }
       const t = principalMasses(q, `quadratic form, ${n} nearest k-points`);
       if (q.rms_meV > Math.max(0.04 * Math.max(spanMeV, window_meV), 3000 * energySigma, 0.05)) {

@@ -2,7 +2,7 @@
  * The JSON shape of a Report (the CLI contract): plain objects with keys in a fixed order, numbers rounded
  * to what the quantity can carry so output is stable.
  */
-import type { BandPoint, ExtremumReport, GapReport, MassFit, MassTensor, Report } from '../model';
+import type { BandPoint, ExtremumReport, GapReport, MassFit, MassTensor, Report, WarpingFitReport } from '../model';
 
 const r = (x: number, digits: number): number => {
   if (!Number.isFinite(x)) return x;
@@ -71,7 +71,25 @@ export function extremumJson(e: ExtremumReport): Record<string, unknown> {
     tensor: tensorJson(e.tensor),
     dosMass: e.dosMass === null ? null : r(e.dosMass, 6),
     conductivityMass: e.conductivityMass === null ? null : r(e.conductivityMass, 6),
+    ...(e.dosMassPathLimited ? { dosMassPathLimited: { error: r(e.dosMassPathLimited.error, 4) } } : {}),
+    ...(e.warping ? { warping: warpingJson(e.warping) } : {}),
     warnings: e.warnings,
+  };
+}
+
+/** The warped-band fit: `{A, B, C, unit}` first, then errors and the masses that follow from it. */
+export function warpingJson(w: WarpingFitReport): Record<string, unknown> {
+  const side = (b: WarpingFitReport['heavy']): Record<string, unknown> => ({ m100: r(b.m100, 6), m110: r(b.m110, 6), m111: r(b.m111, 6), dos: b.dos === null ? null : r(b.dos, 6) });
+  return {
+    A: r(w.A, 6),
+    B: r(w.B, 6),
+    C: r(w.C, 6),
+    unit: w.unit,
+    stderr: { A: r(w.stderr.A, 3), B: r(w.stderr.B, 3), C: r(w.stderr.C, 3) },
+    points: w.points,
+    residual_meV: r(w.residual_meV, 3),
+    heavy: side(w.heavy),
+    light: side(w.light),
   };
 }
 

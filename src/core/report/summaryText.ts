@@ -50,7 +50,14 @@ function extremumBlock(e: ExtremumReport, o: SummaryOptions, metal = false): str
     lines.push(`    mass tensor (${e.tensor.method}): principal ${e.tensor.principal.map((x) => fmt(x, 3)).join(', ')} m_e`);
     e.tensor.axes.forEach((a, i) => lines.push(`      m${i + 1} = ${fmt(e.tensor!.principal[i]!, 3)} m_e along (${a.map((x) => fmt(x, 3)).join(', ')})${atMax && e.tensor!.principal[i]! < 0 ? ` (hole mass ${fmt(-e.tensor!.principal[i]!, 3)})` : ''}`));
   }
-  if (e.dosMass !== null) lines.push(`    density-of-states mass ${fmt(e.dosMass, 3)} m_e`);
+  if (e.warping) {
+    const w = e.warping;
+    lines.push(`    warped-band fit: A = ${fmt(w.A, 2)}, |B| = ${fmt(w.B, 2)}, |C| = ${fmt(w.C, 2)} (${w.unit}), residual ${fmt(w.residual_meV, 2)} meV`);
+    for (const [name, b] of [['heavy', w.heavy], ['light', w.light]] as const) {
+      lines.push(`      ${name}: ${fmt(b.m100, 3)} [100], ${fmt(b.m110, 3)} [110], ${fmt(b.m111, 3)} [111] m_e; DOS mass ${b.dos === null ? 'undetermined' : `${fmt(b.dos, 3)} m_e`}`);
+    }
+  }
+  if (e.dosMass !== null) lines.push(`    density-of-states mass ${fmt(e.dosMass, 3)}${e.dosMassPathLimited ? ` ± ${fmt(e.dosMassPathLimited.error, 3)} m_e (path-limited: three directions stand for the whole sphere)` : ' m_e'}`);
   if (e.conductivityMass !== null) lines.push(`    conductivity mass ${fmt(e.conductivityMass, 3)} m_e`);
   for (const w of e.warnings) lines.push(`    ! ${w}`);
   return lines;

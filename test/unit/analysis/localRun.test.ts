@@ -1,12 +1,12 @@
 /**
- * A run that samples only a small neighbourhood of one point (a stencil run for the mass tensor) gives no gap
+ * A run that samples only a small neighbourhood of one point (a tensor run for the mass tensor) gives no gap
  * and reports only the extremum at its centre; a metal's annotations hold no gap entry.
  */
 import assert from 'node:assert/strict';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { fitExtremumAt } from '../../../src/core/analysis/massEngine';
 import { localRun } from '../../../src/core/analysis/localRun';
-import { kStencil } from '../../../src/core/lattice/stencil';
+import { planTensorRun } from '../../../src/core/lattice/tensorKpoints';
 import { buildAnnotations } from '../../../src/core/annotations/buildAnnotations';
 import { reportToJson } from '../../../src/core/report/reportJson';
 import { summaryText } from '../../../src/core/report/summaryText';
@@ -19,12 +19,13 @@ describe('local runs', () => {
   const aSi = 5.43;
   const unit = (2 * Math.PI) / aSi;
   // A conduction valley at 0.85 of Γ–X (physics.md, step 6: silicon-like, common practice), masses 0.98 / 0.19
-  // (handbook, memory: Sze & Ng); the valence maximum at Γ lies far outside the stencil.
+  // (handbook, memory: Sze & Ng); the valence maximum at Γ lies far outside the tensor run.
   const valley = ellipsoidalValley(1.1, [0, 0.85 * unit, 0], [0, 1, 0], 0.98, 0.19);
   const k0: Vec3 = [0.425, 0, 0.425];
 
-  it('a stencil run around the valley: no gap, the reason said, only the CBM at the centre', () => {
-    const st = kStencil(k0, 0.02, fccLattice(aSi));
+  it('a tensor run around the valley: no gap, the reason said, only the CBM at the centre', () => {
+    // Every point of the two shells (no symmetry reduction), as a tensor run computes them.
+    const st = { points: planTensorRun(k0, 0.02, fccLattice(aSi), null, false).allPoints };
     const bs = pointsModel({ lattice: fccLattice(aSi), bands: [parabolicBand(0, -0.3), valley], electrons: 2, kpoints: st.points });
     assert.ok(localRun(bs));
     const r = analyzeBandStructure(bs);

@@ -3,7 +3,7 @@ import { eigs } from 'mathjs';
 import fc from 'fast-check';
 import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
 import { symmetricEigen3 } from '../../../src/core/analysis/symmetricEigen';
-import { kStencil, writeStencil } from '../../../src/core/lattice/stencil';
+import { planTensorRun } from '../../../src/core/lattice/tensorKpoints';
 import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { mulMatVec } from '../../../src/core/lattice/linalg';
 import type { ExtremumReport, Mat3, Vec3 } from '../../../src/core/model';
@@ -55,15 +55,16 @@ describe('mass tensor from off-path k-points', () => {
   const expected = [0, 1, 2].map((i) => cosineMass(t[i]!, a[i]!));
   const lattice = orthorhombicLattice(...a);
 
-  function stencilRun(lat: Mat3): ReturnType<typeof analyzeBandStructure> {
-    const st = kStencil([0, 0, 0], 0.004, lat);
-    return analyzeBandStructure(pointsModel({ lattice: lat, bands: [cosineBand(-2, [-0.2, -0.2, -0.2]), cosineBand(1, t)], electrons: 2, kpoints: st.points }));
+  function tensorRun(lat: Mat3): ReturnType<typeof analyzeBandStructure> {
+    // Every point of the two-shell plan (no structure given, so no symmetry reduction).
+    const plan = planTensorRun([0, 0, 0], 0.004, lat, null, false);
+    return analyzeBandStructure(pointsModel({ lattice: lat, bands: [cosineBand(-2, [-0.2, -0.2, -0.2]), cosineBand(1, t)], electrons: 2, kpoints: plan.allPoints }));
   }
 
-  it('recovers the principal masses and axes of the orthorhombic model from a 19-point stencil run', () => {
-    const cbm = cbmOf(stencilRun(lattice));
+  it('recovers the principal masses and axes of the orthorhombic model from a two-shell tensor run', () => {
+    const cbm = cbmOf(tensorRun(lattice));
     assert.ok(cbm.tensor, JSON.stringify(cbm.warnings));
-    assert.equal(cbm.tensor.points, 19);
+    assert.equal(cbm.tensor.points, 37); // centre + 2 shells × 18 directions
     const axes: Vec3[] = [
       [1, 0, 0],
       [0, 1, 0],
@@ -72,14 +73,14 @@ describe('mass tensor from off-path k-points', () => {
     for (let i = 0; i < 3; i++) {
       const j = cbm.tensor.axes.findIndex((ax) => parallel(ax, axes[i]!));
       assert.ok(j >= 0, `axis ${i} not found`);
-      // Stencil truncation (k a)²/12 < 4e-5 at k = 0.004 Å⁻¹ (analytic Taylor series of cos).
+      // Central-4 truncation ~ (k a)⁴/90 < 1e-6 at k = 0.004 Å⁻¹ (analytic Taylor series of cos).
       assert.ok(Math.abs(cbm.tensor.principal[j]! / expected[i]! - 1) < 1e-4, `${cbm.tensor.principal[j]} vs ${expected[i]}`);
     }
   });
 
   it('recovers the same masses, with rotated axes, after rotating the lattice', () => {
     const q = rotation([1, 2, 3], 0.7);
-    const cbm = cbmOf(stencilRun(rotateLattice(lattice, q)));
+    const cbm = cbmOf(tensorRun(rotateLattice(lattice, q)));
     const axes: Vec3[] = [
       [q[0][0], q[1][0], q[2][0]],
       [q[0][1], q[1][1], q[2][1]],
@@ -135,10 +136,10 @@ describe('tensor and averaged masses of a Si-like Δ valley (diamond structure, 
   const mt = 0.19;
   const valley = ellipsoidalValley(1.1, [0, 0.85 * unit, 0], [0, 1, 0], ml, mt);
 
-  it('a stencil run round trip gives m_l, m_t, N_v = 6, m_dos ≈ 1.08 and m_c ≈ 0.26 (Sze & Ng, memory)', () => {
+  it('a tensor run round trip gives m_l, m_t, N_v = 6, m_dos ≈ 1.08 and m_c ≈ 0.26 (Sze & Ng, memory)', () => {
     const lattice = fccLattice(aSi);
-    const st = kStencil(k0frac, 0.02, lattice);
-    const bs = pointsModel({ lattice, structure: diamondStructure(aSi, 'Si'), bands: [parabolicBand(0, -0.3), valley], electrons: 2, kpoints: st.points });
+    const plan = planTensorRun(k0frac, 0.02, lattice, null, false);
+    const bs = pointsModel({ lattice, structure: diamondStructure(aSi, 'Si'), bands: [parabolicBand(0, -0.3), valley], electrons: 2, kpoints: plan.allPoints });
     const cbm = cbmOf(analyzeBandStructure(bs));
     assert.equal(cbm.valleyDegeneracy, 6); // six Δ valleys (physics.md step 8)
     assert.ok(cbm.tensor);
@@ -150,16 +151,6 @@ describe('tensor and averaged masses of a Si-like Δ valley (diamond structure, 
     assert.ok(Math.abs(cbm.dosMass! - 1.08) < 0.01, String(cbm.dosMass));
     assert.ok(Math.abs(cbm.conductivityMass! - 0.26) < 0.005, String(cbm.conductivityMass));
     assert.ok(cbm.warnings.some((w) => /N_v = 6/.test(w)));
-  });
-
-  it('the stencil text lists the 19 points in the VASP explicit layout with zero weights', () => {
-    const st = kStencil(k0frac, 0.02, fccLattice(aSi));
-    const text = writeStencil(st, 'vasp', 'the CBM');
-    const lines = text.trim().split('\n');
-    assert.equal(lines[1], '19');
-    assert.equal(lines[2], 'Reciprocal');
-    assert.equal(lines.length, 3 + 19);
-    assert.ok(lines.slice(3).every((l) => /^\s*-?\d+\.\d+\s+-?\d+\.\d+\s+-?\d+\.\d+\s+0$/.test(l)));
   });
 
   it('a path alone gives only the longitudinal mass at Δ: no tensor, and it says why', () => {
