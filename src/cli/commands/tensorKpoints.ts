@@ -7,7 +7,7 @@ import { analyzeBandStructure } from '../../core/analysis/analyze';
 import { DEFAULT_SHELL_ENERGY_EV, planAtK, planForExtremum } from '../../core/analysis/tensorRunPlan';
 import { KPOINT_FILE_NAMES, kpointLayoutFor, writeTensorKpoints, type TensorRunKind, type TensorRunPlan, type WeightedMesh } from '../../core/lattice/tensorKpoints';
 import { ValleyscopeError } from '../../core/errors';
-import type { BandStructure, ExtremumReport, Vec3 } from '../../core/model';
+import type { MethodFamily, BandStructure, ExtremumReport, Vec3 } from '../../core/model';
 import type { CliIO } from '../io';
 
 export const TENSOR_KPOINTS_HELP = `valleyscope tensor-kpoints <file-or-folder> --at cbm|vbm|<k> [options]
@@ -84,9 +84,10 @@ function ownMesh(bs: BandStructure): WeightedMesh | null {
   return k.length ? { k, w } : null;
 }
 
-function methodFamily(bs: BandStructure): string | null {
-  const m = (bs as BandStructure & { method?: { family?: unknown } }).method;
-  return m && typeof m.family === 'string' ? m.family : null;
+/** The run's functional family when the files name it ('unknown' counts as not named). */
+function methodFamily(bs: BandStructure): MethodFamily | null {
+  const f = bs.method?.family;
+  return f && f !== 'unknown' ? f : null;
 }
 
 export async function runTensorKpoints(argv: string[], io: CliIO): Promise<number> {
@@ -109,8 +110,9 @@ export async function runTensorKpoints(argv: string[], io: CliIO): Promise<numbe
   const where = at.toLowerCase();
   let edge: ExtremumReport | undefined;
   if (where === 'cbm' || where === 'vbm') {
-    if (!report.gap) throw new ValleyscopeError(`${bs.source.file}: no gap was found (${report.metal ? 'a metal' : 'band edges unknown'}), so there is no ${where.toUpperCase()} to centre the run on`);
     edge = report.extrema.find((e) => e.kind === where);
+    // A run of one neighbourhood (a tensor run) gives no gap but still its centre's extremum.
+    if (!report.gap && !edge) throw new ValleyscopeError(`${bs.source.file}: no gap was found (${report.metal ? 'a metal' : report.gapReason ?? 'band edges unknown'}), so there is no ${where.toUpperCase()} to centre the run on`);
     if (!edge) throw new ValleyscopeError(`${bs.source.file}: the ${where.toUpperCase()} was not characterised, so the run cannot be planned around it`);
   } else {
     const k = parseK(at);

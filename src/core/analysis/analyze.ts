@@ -2,7 +2,7 @@
  * The whole analysis of one band structure: occupations, edges, gap, extrema with masses. Returns the
  * Report the CLI prints and the editor shows. Pure: no I/O.
  */
-import type { BandStructure, Report } from '../model';
+import type { BandStructure, Report, Vec3 } from '../model';
 import { kpointAt } from '../model';
 import { occupationRule } from './occupation';
 import { bandEdges, gapReport } from './gap';
@@ -90,14 +90,15 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
       const crossing = cls.spins.flatMap((v) => v.crossing.map((band) => ({ spin: v.spin, band })));
       analysePocketExtrema(bs, report, s, crossing, cls.fermi_eV);
     }
+    let centreK = local ? kpointAt(bs, local.centre) : null;
     if (local) {
-      // The patch's own edges are not the crystal's: keep only the extremum at its centre.
-      const centreK = kpointAt(bs, local.centre);
-      const at = (k: readonly number[]): boolean => k.every((x, j) => Math.abs(x - centreK[j]!) < 1e-7);
-      report.extrema = report.extrema.filter((e) => at(e.k));
+      // The patch's own edges are not the crystal's: keep only the extrema at its centre.
+      const centres = local.centres.map((i) => kpointAt(bs, i));
+      const atCentre = (k: readonly number[]): Vec3 | undefined => centres.find((c) => k.every((x, j) => Math.abs(x - c[j]!) < 1e-7));
+      report.extrema = report.extrema.filter((e) => atCentre(e.k) !== undefined);
+      if (report.extrema[0]) centreK = atCentre(report.extrema[0].k)!;
     }
-    if (local && gap) {
-      const centreK = kpointAt(bs, local.centre);
+    if (local && gap && centreK) {
       report.gap = null;
       if (report.spinGaps) report.spinGaps = report.spinGaps.map(() => null);
       report.gapReason = `The k-points cover only a small neighbourhood of ${centreK.map((x) => Number(x.toFixed(4))).join(', ')} (within ${(local.extent * 100).toFixed(0)} % of the shortest reciprocal vector): a gap needs the whole zone, so none is given, and only the extremum at the centre is reported.`;

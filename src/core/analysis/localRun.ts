@@ -9,9 +9,17 @@ import { reciprocalLattice } from '../lattice/reciprocal';
 /** A run whose k-points all lie within this fraction of the shortest reciprocal vector of their centre is local. */
 export const LOCAL_RUN_FRACTION = 0.2;
 
+/** Up to this many points the centre is found by the minimax rule (quadratic in the points); else the centroid. */
+const MINIMAX_MAX_POINTS = 4000;
+
 export interface LocalRun {
-  /** 0-based index of the k-point nearest the centre of the sampled patch. */
+  /** 0-based index of the k-point at the centre of the sampled patch. */
   centre: number;
+  /**
+   * Every point that can be the centre (the centre first): a tensor run that holds only its symmetry-inequivalent
+   * points can look like two shells around more than one of them.
+   */
+  centres: number[];
   /** Largest distance of a k-point from the centre, as a fraction of the shortest reciprocal vector. */
   extent: number;
 }
@@ -45,5 +53,45 @@ export function localRun(bs: BandStructure): LocalRun | null {
     }
   });
   const fraction = extent / scale;
-  return fraction > 0 && fraction < LOCAL_RUN_FRACTION ? { centre, extent: fraction } : null;
+  if (!(fraction > 0 && fraction < LOCAL_RUN_FRACTION)) return null;
+  // The centre. A tensor run (tensor-kpoints) has one point whose neighbours all lie on two shells (h and 2h),
+  // also when only its symmetry-inequivalent points were computed, which lie on one side of it: that point is
+  // the centre. Otherwise (a local grid) the point whose farthest neighbour is nearest (minimax).
+  let centres = [centre];
+  if (bs.nk <= MINIMAX_MAX_POINTS) {
+    const shellCentres = pts.map((p, k) => (onTwoShells(p, pts) ? k : -1)).filter((k) => k >= 0);
+    if (shellCentres.length > 0) {
+      centre = shellCentres[0]!;
+      centres = shellCentres;
+    } else {
+      let best = Infinity;
+      pts.forEach((p, k) => {
+        let far = 0;
+        for (const q of pts) far = Math.max(far, Math.hypot(p[0] - q[0], p[1] - q[1], p[2] - q[2]));
+        if (far < best - 1e-12) {
+          best = far;
+          centre = k;
+        }
+      });
+      centres = [centre];
+    }
+  }
+  return { centre, centres, extent: fraction };
+}
+
+/** True when every other point lies at distance r or 2r from `c` (at least one at each): a two-shell centre. */
+function onTwoShells(c: Vec3, pts: readonly Vec3[]): boolean {
+  const d = pts.map((q) => Math.hypot(q[0] - c[0], q[1] - c[1], q[2] - c[2])).filter((x) => x > 0);
+  if (d.length < 2 || d.length !== pts.length - 1) return false;
+  const r = Math.min(...d);
+  // Files write k with 6–8 decimals: a tenth of a per cent of the shell radius covers that rounding.
+  const tol = 1e-3 * r + 1e-12;
+  let inner = 0;
+  let outer = 0;
+  for (const x of d) {
+    if (Math.abs(x - r) <= tol) inner++;
+    else if (Math.abs(x - 2 * r) <= tol) outer++;
+    else return false;
+  }
+  return inner > 0 && outer > 0;
 }
