@@ -546,7 +546,8 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     const cbm = mark(run, 'cbm');
     assert.deepEqual(save.entries, [{ spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0, window_meV: 25, method: 'parabola' }]);
     await v.hostPost({ type: HostToViewType.SaveResult, ok: true, message: 'Saved 1 entry to fixtures/epm/si/EIGENVAL.valleys.json.' });
-    // The host's sentence is shown as it is (no second "Saved:" in front of it).
+    // The host's sentence is shown as it is (no second "Saved:" in front of it); the message arrives asynchronously.
+    await waitForExpression(v.page, `document.querySelector('.vs-status').textContent !== 'Saving …'`);
     assert.equal((await v.page.locator('.vs-status').textContent()) ?? '', 'Saved 1 entry to fixtures/epm/si/EIGENVAL.valleys.json.');
     const reason = 'Restricted mode: this workspace is not trusted, so Valleyscope does not write files.';
     await v.hostPost({ type: HostToViewType.Environment, environment: { theme: 'dark', readOnly: true, readOnlyReason: reason } });
