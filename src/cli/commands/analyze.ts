@@ -10,10 +10,15 @@ import type { CliIO } from '../io';
 import type { ReadOptions } from '../../core/formats/types';
 import { readPoscar } from '../../core/formats/vasp/poscar';
 import { detectQeXml, readQeXml } from '../../core/formats/qe/qeXml';
+import { BATCH_FLAGS, BATCH_HELP, batchOptionsFromArgs } from '../batch/batchOptions';
+import { analyzeBatch } from '../batch/commands';
 
 export const ANALYZE_HELP = `valleyscope analyze <file-or-folder> [options]
+valleyscope analyze <files or folders>... --jsonl [--jobs N] [--shard i/n] [options]
   Read an eigenvalue file (or find one in a run folder) and report the gap, band edges and effective masses.
+  With --jsonl, every run found under the paths (folders are searched for run folders) is analysed.
   --json            print one JSON object
+${BATCH_HELP}
   --window <meV>    energy window of the curvature fit (default 25)
   --method <name>   ${FIT_METHODS.join(' | ')} (default parabola)
   --range <eV>      report secondary extrema this close to the edges (default 0.5)
@@ -74,8 +79,15 @@ export async function readOptionsFromArgs(p: ReturnType<typeof parseArgs>): Prom
 }
 
 export async function runAnalyze(argv: string[], io: CliIO): Promise<number> {
-  const p = parseArgs(argv, { json: { value: false }, ...ANALYSIS_FLAGS, ...READ_FLAGS });
-  if (p.positional.length !== 1) throw new UsageError('analyze takes exactly one file or folder');
+  const p = parseArgs(argv, { json: { value: false }, ...ANALYSIS_FLAGS, ...READ_FLAGS, ...BATCH_FLAGS });
+  const batch = batchOptionsFromArgs(p);
+  if (batch.requested) {
+    if (!batch.jsonl) throw new UsageError('--jobs and --shard go with --jsonl (one line per run)');
+    if (p.flags.has('json')) throw new UsageError('--json and --jsonl cannot be used together');
+    if (p.positional.length === 0) throw new UsageError('analyze --jsonl needs at least one file or folder');
+    return analyzeBatch(p.positional, analysisSettingsFromArgs(p), await readOptionsFromArgs(p), batch, io);
+  }
+  if (p.positional.length !== 1) throw new UsageError('analyze takes exactly one file or folder (several with --jsonl)');
   const settings = analysisSettingsFromArgs(p);
   const bs = await loadRun(nodeFileAccessor, p.positional[0]!, await readOptionsFromArgs(p));
   const report = analyzeBandStructure(bs, settings);

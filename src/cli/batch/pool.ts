@@ -1,0 +1,112 @@
+/**
+ * A pool of worker threads for batch commands: each worker takes the next task when it finishes one; results
+ * are handed on in the order of the tasks (not of completion), so the output does not depend on --jobs or on
+ * timing. With one job (or one task) the tasks run in this thread, one after another.
+ */
+import { join } from 'node:path';
+import { Worker } from 'node:worker_threads';
+import { runTask, type BatchResult, type BatchTask } from './tasks';
+
+export interface PoolProgress {
+  done: number;
+  failed: number;
+  total: number;
+}
+
+/** The worker script: the bundled one beside the CLI bundle, or the TypeScript source through tsx (tests, scripts). */
+function startWorker(): Worker {
+  if (__filename.endsWith('.ts')) {
+    const entry = join(__dirname, 'worker.ts');
+    return new Worker(`require('tsx/cjs/api').register(); require(${JSON.stringify(entry)});`, { eval: true });
+  }
+  return new Worker(join(__dirname, 'batchWorker.js'));
+}
+
+function stoppedResult(task: BatchTask, why: string): BatchResult {
+  const error = `the worker processing ${task.path} stopped (${why}); the other runs went on`;
+  switch (task.kind) {
+    case 'analyze':
+      return { kind: 'analyze', path: task.path, line: { path: task.path, error }, failed: true };
+    case 'check':
+      return { kind: 'check', path: task.path, outcome: { file: task.path, doc: null, result: null, error }, failed: true };
+    case 'annotate':
+      return { kind: 'annotate', path: task.path, out: [], err: [], error, failed: true };
+  }
+}
+
+export async function runPool(
+  tasks: readonly BatchTask[],
+  jobs: number,
+  onResult: (r: BatchResult, index: number) => void,
+  onProgress?: (p: PoolProgress) => void,
+): Promise<void> {
+  const total = tasks.length;
+  let failed = 0;
+  let done = 0;
+  const results = new Array<BatchResult | undefined>(total);
+  let nextOut = 0;
+  const deliver = (i: number, r: BatchResult): void => {
+    results[i] = r;
+    done++;
+    if (r.failed) failed++;
+    while (nextOut < total && results[nextOut] !== undefined) {
+      onResult(results[nextOut]!, nextOut);
+      results[nextOut] = undefined;
+      nextOut++;
+    }
+    onProgress?.({ done, failed, total });
+  };
+  const workers = Math.min(Math.max(1, Math.floor(jobs)), total);
+  if (workers <= 1) {
+    for (let i = 0; i < total; i++) deliver(i, await runTask(tasks[i]!));
+    return;
+  }
+  let next = 0;
+  await new Promise<void>((resolve) => {
+    const live = new Set<Worker>();
+    const finishIfDone = (): void => {
+      if (done < total) return;
+      const all = [...live];
+      live.clear();
+      for (const w of all) void w.terminate();
+      resolve();
+    };
+    const launch = (): void => {
+      if (next >= total) return;
+      const w = startWorker();
+      live.add(w);
+      let current = -1;
+      const feed = (): void => {
+        if (next >= total) {
+          current = -1;
+          return;
+        }
+        current = next++;
+        w.postMessage({ id: current, task: tasks[current] });
+      };
+      const lost = (why: string): void => {
+        if (!live.delete(w)) return;
+        void w.terminate();
+        if (current >= 0) {
+          const c = current;
+          current = -1;
+          deliver(c, stoppedResult(tasks[c]!, why));
+        }
+        // A replacement takes the remaining tasks.
+        launch();
+        finishIfDone();
+      };
+      w.on('message', (m: { id: number; result: BatchResult }) => {
+        if (m.id !== current) return;
+        current = -1;
+        deliver(m.id, m.result);
+        feed();
+        finishIfDone();
+      });
+      w.on('error', (e) => lost(e.message));
+      w.on('exit', (code) => lost(`exit code ${code}`));
+      feed();
+    };
+    for (let i = 0; i < workers; i++) launch();
+  });
+}
