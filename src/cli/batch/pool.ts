@@ -34,6 +34,9 @@ function stoppedResult(task: BatchTask, why: string): BatchResult {
   }
 }
 
+/** Tasks sent to a worker ahead of time, so it never waits for the main thread between two tasks. */
+const IN_FLIGHT_PER_WORKER = 2;
+
 export async function runPool(
   tasks: readonly BatchTask[],
   jobs: number,
@@ -56,13 +59,11 @@ export async function runPool(
     }
     onProgress?.({ done, failed, total });
   };
-  const workers = Math.min(Math.max(1, Math.floor(jobs)), total);
-  if (workers <= 1) {
-    for (let i = 0; i < total; i++) deliver(i, await runTask(tasks[i]!));
-    return;
-  }
+  // The main thread is one of the jobs: with N jobs, N − 1 workers start (each loads the code and the
+  // symmetry library again, a fixed cost worth paying only once there is more than one job).
+  const threads = Math.min(Math.max(1, Math.floor(jobs)), total);
   let next = 0;
-  await new Promise<void>((resolve) => {
+  const allDone = new Promise<void>((resolve) => {
     const live = new Set<Worker>();
     const finishIfDone = (): void => {
       if (done < total) return;
@@ -75,30 +76,25 @@ export async function runPool(
       if (next >= total) return;
       const w = startWorker();
       live.add(w);
-      let current = -1;
+      const inFlight = new Set<number>();
       const feed = (): void => {
-        if (next >= total) {
-          current = -1;
-          return;
+        while (inFlight.size < IN_FLIGHT_PER_WORKER && next < total) {
+          const i = next++;
+          inFlight.add(i);
+          w.postMessage({ id: i, task: tasks[i] });
         }
-        current = next++;
-        w.postMessage({ id: current, task: tasks[current] });
       };
       const lost = (why: string): void => {
         if (!live.delete(w)) return;
         void w.terminate();
-        if (current >= 0) {
-          const c = current;
-          current = -1;
-          deliver(c, stoppedResult(tasks[c]!, why));
-        }
+        for (const i of [...inFlight].sort((a, b) => a - b)) deliver(i, stoppedResult(tasks[i]!, why));
+        inFlight.clear();
         // A replacement takes the remaining tasks.
         launch();
         finishIfDone();
       };
       w.on('message', (m: { id: number; result: BatchResult }) => {
-        if (m.id !== current) return;
-        current = -1;
+        if (!inFlight.delete(m.id)) return;
         deliver(m.id, m.result);
         feed();
         finishIfDone();
@@ -107,6 +103,14 @@ export async function runPool(
       w.on('exit', (code) => lost(`exit code ${code}`));
       feed();
     };
-    for (let i = 0; i < workers; i++) launch();
+    for (let i = 1; i < threads; i++) launch();
+    finishIfDone();
   });
+  // This thread takes tasks too, one at a time, between which the workers' results are handled.
+  while (next < total) {
+    const i = next++;
+    deliver(i, await runTask(tasks[i]!));
+    await new Promise<void>((r) => setImmediate(r));
+  }
+  if (done < total) await allDone;
 }

@@ -12,8 +12,9 @@ export interface TaskMessage {
 if (parentPort) {
   const port = parentPort;
   installNativeSha256();
-  const ready = ensureSymmetryReady();
+  // Tasks arrive ahead of time; they run strictly one after another.
+  let queue: Promise<unknown> = ensureSymmetryReady();
   port.on('message', (m: TaskMessage) => {
-    void ready.then(() => runTask(m.task)).then((result) => port.postMessage({ id: m.id, result }));
+    queue = queue.then(() => runTask(m.task)).then((result) => port.postMessage({ id: m.id, result }));
   });
 }
