@@ -8,7 +8,7 @@ import type { ReadFlags } from '../commands/annotate';
 import { nodeFileAccessor } from '../nodeFileAccessor';
 import { findRuns } from './findRuns';
 import { inShard } from './shard';
-import { runPool } from './pool';
+import { prestartWorkers, runPool } from './pool';
 import { progressReporter, type BatchOptions } from './batchOptions';
 import type { BatchTask } from './tasks';
 
@@ -19,9 +19,17 @@ function shardNote(opts: BatchOptions, kept: number, all: number, what: string):
 
 /** `analyze --jsonl`: one line per run, in path order; exit 1 when any run failed (its line says why). */
 export async function analyzeBatch(roots: string[], settings: Partial<AnalysisSettings>, read: ReadOptions, opts: BatchOptions, io: CliIO): Promise<number> {
-  const found = await findRuns(nodeFileAccessor, roots);
+  const workers = prestartWorkers(opts.jobs);
+  let found;
+  try {
+    found = await findRuns(nodeFileAccessor, roots);
+  } catch (e) {
+    for (const w of workers) void w.terminate();
+    throw e;
+  }
   for (const n of found.notes) io.err(`valleyscope: ${n}`);
   if (found.runs.length === 0) {
+    for (const w of workers) void w.terminate();
     io.err(`valleyscope analyze: no eigenvalue files found under ${roots.join(', ')}`);
     return 1;
   }
@@ -40,6 +48,7 @@ export async function analyzeBatch(roots: string[], settings: Partial<AnalysisSe
       io.out(JSON.stringify(r.line));
     },
     progress.update,
+    workers,
   );
   progress.clear();
   return failed > 0 ? 1 : 0;

@@ -34,6 +34,16 @@ function stoppedResult(task: BatchTask, why: string): BatchResult {
   }
 }
 
+/**
+ * Start the workers of an N-job pool (N − 1 threads: this thread is the N-th) before the runs are known, so
+ * that their start (loading the code and the symmetry library) overlaps the search for runs.
+ */
+export function prestartWorkers(jobs: number): Worker[] {
+  const out: Worker[] = [];
+  for (let i = 1; i < Math.floor(jobs); i++) out.push(startWorker());
+  return out;
+}
+
 /** Tasks sent to a worker ahead of time, so it never waits for the main thread between two tasks. */
 const IN_FLIGHT_PER_WORKER = 2;
 
@@ -42,6 +52,7 @@ export async function runPool(
   jobs: number,
   onResult: (r: BatchResult, index: number) => void,
   onProgress?: (p: PoolProgress) => void,
+  prestarted: Worker[] = [],
 ): Promise<void> {
   const total = tasks.length;
   let failed = 0;
@@ -62,6 +73,8 @@ export async function runPool(
   // The main thread is one of the jobs: with N jobs, N − 1 workers start (each loads the code and the
   // symmetry library again, a fixed cost worth paying only once there is more than one job).
   const threads = Math.min(Math.max(1, Math.floor(jobs)), total);
+  const ready = prestarted.slice(0, Math.max(0, threads - 1));
+  for (const w of prestarted.slice(ready.length)) void w.terminate();
   let next = 0;
   const allDone = new Promise<void>((resolve) => {
     const live = new Set<Worker>();
@@ -73,8 +86,11 @@ export async function runPool(
       resolve();
     };
     const launch = (): void => {
-      if (next >= total) return;
-      const w = startWorker();
+      if (next >= total) {
+        for (const w of ready.splice(0)) void w.terminate();
+        return;
+      }
+      const w = ready.shift() ?? startWorker();
       live.add(w);
       const inFlight = new Set<number>();
       const feed = (): void => {

@@ -199,4 +199,19 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
     assert.match(text.stdout, /5 annotations files checked: 4 match their data, 1 stale or drifted, 0 could not be checked\./);
     assert.match(text.stdout, /STALE, DRIFTED +.*b-gap1\.5/);
   });
+
+  it('annotate --jsonl: one line per run with its messages, the failing run as a line with "error"', async () => {
+    const io = capture();
+    assert.equal(await main(['annotate', root, '--jsonl', '--jobs', '2'], io), 1);
+    const recs = lines(io.stdout);
+    assert.deepEqual(recs.map((r) => r.path), expectedPaths);
+    for (const r of recs) {
+      if ((r.path as string).endsWith('c-broken')) {
+        assert.match(r.error as string, /EIGENVAL:\d+:\d+: /);
+        continue;
+      }
+      assert.equal(r.error, undefined);
+      assert.match((r.messages as string[])[0]!, /\.valleys\.json: (unchanged|updated)/);
+    }
+  });
 });
