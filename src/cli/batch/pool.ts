@@ -76,6 +76,10 @@ export async function runPool(
   const ready = prestarted.slice(0, Math.max(0, threads - 1));
   for (const w of prestarted.slice(ready.length)) void w.terminate();
   let next = 0;
+  // Tasks a lost worker had received but not started, to be given out again (lowest first).
+  const retry: number[] = [];
+  const hasWork = (): boolean => retry.length > 0 || next < total;
+  const take = (): number => (retry.length > 0 ? retry.shift()! : next++);
   const allDone = new Promise<void>((resolve) => {
     const live = new Set<Worker>();
     const finishIfDone = (): void => {
@@ -86,7 +90,7 @@ export async function runPool(
       resolve();
     };
     const launch = (): void => {
-      if (next >= total) {
+      if (!hasWork()) {
         for (const w of ready.splice(0)) void w.terminate();
         return;
       }
@@ -94,8 +98,8 @@ export async function runPool(
       live.add(w);
       const inFlight = new Set<number>();
       const feed = (): void => {
-        while (inFlight.size < IN_FLIGHT_PER_WORKER && next < total) {
-          const i = next++;
+        while (inFlight.size < IN_FLIGHT_PER_WORKER && hasWork()) {
+          const i = take();
           inFlight.add(i);
           w.postMessage({ id: i, task: tasks[i] });
         }
@@ -103,8 +107,15 @@ export async function runPool(
       const lost = (why: string): void => {
         if (!live.delete(w)) return;
         void w.terminate();
-        for (const i of [...inFlight].sort((a, b) => a - b)) deliver(i, stoppedResult(tasks[i]!, why));
+        // A worker runs its tasks in the order received: the lowest one was running and fails with the
+        // reason; the others had not started and go back in the queue.
+        const held = [...inFlight].sort((a, b) => a - b);
         inFlight.clear();
+        if (held.length > 0) {
+          retry.push(...held.slice(1));
+          retry.sort((a, b) => a - b);
+          deliver(held[0]!, stoppedResult(tasks[held[0]!]!, why));
+        }
         // A replacement takes the remaining tasks.
         launch();
         finishIfDone();
@@ -123,8 +134,8 @@ export async function runPool(
     finishIfDone();
   });
   // This thread takes tasks too, one at a time, between which the workers' results are handled.
-  while (next < total) {
-    const i = next++;
+  while (hasWork()) {
+    const i = take();
     deliver(i, await runTask(tasks[i]!));
     await new Promise<void>((r) => setImmediate(r));
   }
