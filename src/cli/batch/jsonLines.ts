@@ -75,10 +75,10 @@ export function runsFromRecords(records: readonly JsonRecord[]): { runs: RunInpu
     if (r.value.extrema === undefined) {
       throw new ValleyscopeError(`${r.where}: not a record of "analyze --jsonl" (no "extrema"); compare takes the JSON Lines of analyze`);
     }
-    const lattice: Mat3 | null = r.value.lattice === undefined || r.value.lattice === null ? null : c.mat3(r.value.lattice, 'lattice');
+    const lattice: Mat3 | null = r.value.lattice === undefined || r.value.lattice === null ? null : c.finiteMat3(r.value.lattice, 'lattice');
     const rot = r.value.rotations;
     const rotations: Mat3[] | null =
-      rot === undefined || rot === null ? null : c.arr(rot, 'rotations').map((m, i) => c.mat3(m, `rotations[${i}]`));
+      rot === undefined || rot === null ? null : c.arr(rot, 'rotations').map((m, i) => c.finiteMat3(m, `rotations[${i}]`));
     runs.push({ name: r.path, report: reportFromJson(r.value, r.where), lattice, rotations, origin: 'data' });
   }
   return { runs, notes };

@@ -61,6 +61,12 @@ export class JsonShape {
     if (a.length !== 3) this.fail(field, 'three numbers');
     return [this.numOrNaN(a[0], field), this.numOrNaN(a[1], field), this.numOrNaN(a[2], field)];
   }
+  /** Three rows of three finite numbers (a lattice, a rotation). */
+  finiteMat3(v: unknown, field: string): Mat3 {
+    const m = this.mat3(v, field);
+    if (!m.every((row) => row.every((x) => Number.isFinite(x)))) this.fail(field, 'three rows of three finite numbers');
+    return m;
+  }
   mat3(v: unknown, field: string): Mat3 {
     const a = this.arr(v, field);
     if (a.length !== 3) this.fail(field, 'three rows of three numbers');
