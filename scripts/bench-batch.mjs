@@ -7,7 +7,7 @@
 // Γ–X–M–Γ–R, 200 k-points, in VASP's EIGENVAL/POSCAR/KPOINTS layouts. Invented numbers: input only.
 // Usage: node scripts/bench-batch.mjs [--runs N] [--repeat R]
 import { spawnSync } from 'node:child_process';
-import { availableParallelism } from 'node:os';
+import { availableParallelism, loadavg } from 'node:os';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 
@@ -78,6 +78,7 @@ function timeOnce(jobs) {
 }
 
 const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+const load0 = loadavg()[0];
 console.log(`\nBatch: analyze --jsonl over ${nRuns} small runs (200 k × 8 bands each), ${availableParallelism()} cores, median of ${repeat}, alternating`);
 const t1 = [];
 const t2 = [];
@@ -101,3 +102,6 @@ console.log(`  --jobs 1  ${m1.toFixed(0)} ms   (${(m1 / nRuns).toFixed(1)} ms pe
 console.log(`  --jobs 2  ${m2.toFixed(0)} ms`);
 console.log(`  ratio --jobs 2 / --jobs 1: ${(m2 / m1).toFixed(2)}   (goal ≤ 0.65 on 2 cores)${availableParallelism() < 2 ? '  [this machine has fewer than 2 cores: the goal cannot be met here]' : ''}`);
 console.log(`  the two outputs are ${same ? 'identical' : 'DIFFERENT (a bug: the output must not depend on --jobs)'}`);
+const load1 = loadavg()[0];
+const busy = Math.max(load0, load1) > availableParallelism();
+console.log(`  load average (1 min) ${load0.toFixed(1)} before, ${load1.toFixed(1)} after, on ${availableParallelism()} cores${busy ? ': other work shared the cores, so the ratio says little about what a second core gives' : ''}`);
