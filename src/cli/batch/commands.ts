@@ -36,7 +36,10 @@ export async function analyzeBatch(roots: string[], settings: Partial<AnalysisSe
   const runs = found.runs.filter((r) => inShard(r, opts.shard));
   const note = shardNote(opts, runs.length, found.runs.length, 'runs');
   if (note) io.err(`valleyscope: ${note}`);
-  const tasks: BatchTask[] = runs.map((path) => ({ kind: 'analyze', path, settings, read }));
+  const tasks: BatchTask[] = runs.map((path) => {
+    const file = found.files.get(path);
+    return file === undefined ? { kind: 'analyze', path, settings, read } : { kind: 'analyze', path, settings, read, file };
+  });
   let failed = 0;
   const progress = progressReporter(io.progress, 'runs analysed');
   await runPool(

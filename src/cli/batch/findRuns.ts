@@ -15,26 +15,31 @@ const SKIP_DIRS = new Set(['.git', '.hg', '.svn', 'node_modules']);
 
 export interface FoundRuns {
   runs: string[];
+  /** The eigenvalue file found in each run folder (run path → file), so it need not be searched for again. */
+  files: Map<string, string>;
   /** Sentences about what the search left out (depth limit reached). */
   notes: string[];
 }
 
-async function isRun(fs: FileAccessor, dir: string): Promise<boolean> {
+/** The eigenvalue file of a run folder, or null when the folder holds none. */
+async function runFile(fs: FileAccessor, dir: string): Promise<string | null> {
   try {
-    await locateRun(fs, dir);
-    return true;
+    return (await locateRun(fs, dir)).file;
   } catch (e) {
-    if (e instanceof ValleyscopeError) return false;
+    if (e instanceof ValleyscopeError) return null;
     throw e;
   }
 }
 
 export async function findRuns(fs: FileAccessor, roots: readonly string[]): Promise<FoundRuns> {
   const found = new Set<string>();
+  const files = new Map<string, string>();
   const notes: string[] = [];
   const walk = async (dir: string, depth: number): Promise<void> => {
-    if (await isRun(fs, dir)) {
+    const file = await runFile(fs, dir);
+    if (file !== null) {
       found.add(normalizeRunPath(dir));
+      files.set(normalizeRunPath(dir), file);
       return;
     }
     if (depth >= MAX_DEPTH) {
@@ -57,5 +62,5 @@ export async function findRuns(fs: FileAccessor, roots: readonly string[]): Prom
     if (st.type === 'file') found.add(normalizeRunPath(root));
     else await walk(normalizeRunPath(root), 0);
   }
-  return { runs: [...found].sort(comparePaths), notes };
+  return { runs: [...found].sort(comparePaths), files, notes };
 }

@@ -16,7 +16,7 @@ import { checkFile, type FileOutcome } from '../commands/check';
 import { annotateOne, type ReadFlags } from '../commands/annotate';
 
 export type BatchTask =
-  | { kind: 'analyze'; path: string; settings: Partial<AnalysisSettings>; read: ReadOptions }
+  | { kind: 'analyze'; path: string; settings: Partial<AnalysisSettings>; read: ReadOptions; file?: string }
   | { kind: 'check'; path: string; tolerances: Tolerances }
   | { kind: 'annotate'; path: string; settings: Partial<AnalysisSettings>; read: ReadFlags };
 
@@ -34,8 +34,9 @@ export function failureSentence(e: unknown, path: string): string {
 }
 
 /** The JSON Lines record of an analysed run: `path`, the `--json` contract, and what `compare` needs to match valleys up to symmetry. */
-async function analyzeLine(path: string, settings: Partial<AnalysisSettings>, read: ReadOptions): Promise<Record<string, unknown>> {
-  const bs = await loadRun(nodeFileAccessor, path, read);
+async function analyzeLine(path: string, settings: Partial<AnalysisSettings>, read: ReadOptions, file?: string): Promise<Record<string, unknown>> {
+  // The eigenvalue file found when the runs were searched, when known (the same file loadRun would find).
+  const bs = await loadRun(nodeFileAccessor, file ?? path, read);
   const report = analyzeBandStructure(bs, settings);
   let rotations: Mat3[] | null = null;
   if (bs.structure) {
@@ -53,7 +54,7 @@ export async function runTask(task: BatchTask): Promise<BatchResult> {
   switch (task.kind) {
     case 'analyze':
       try {
-        return { kind: 'analyze', path, line: await analyzeLine(path, task.settings, task.read), failed: false };
+        return { kind: 'analyze', path, line: await analyzeLine(path, task.settings, task.read, task.file), failed: false };
       } catch (e) {
         return { kind: 'analyze', path, line: { path, error: failureSentence(e, path) }, failed: true };
       }
