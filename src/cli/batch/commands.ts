@@ -48,7 +48,7 @@ export async function analyzeBatch(roots: string[], settings: Partial<AnalysisSe
     (r) => {
       if (r.kind !== 'analyze') return;
       if (r.failed) failed++;
-      io.out(JSON.stringify(r.line));
+      io.out(r.line);
     },
     progress.update,
     workers,

@@ -26,7 +26,7 @@ function stoppedResult(task: BatchTask, why: string): BatchResult {
   const error = `the worker processing ${task.path} stopped (${why}); the other runs went on`;
   switch (task.kind) {
     case 'analyze':
-      return { kind: 'analyze', path: task.path, line: { path: task.path, error }, failed: true };
+      return { kind: 'analyze', path: task.path, line: JSON.stringify({ path: task.path, error }), failed: true };
     case 'check':
       return { kind: 'check', path: task.path, outcome: { file: task.path, doc: null, result: null, error }, failed: true };
     case 'annotate':

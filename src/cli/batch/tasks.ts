@@ -21,7 +21,8 @@ export type BatchTask =
   | { kind: 'annotate'; path: string; settings: Partial<AnalysisSettings>; read: ReadFlags };
 
 export type BatchResult =
-  | { kind: 'analyze'; path: string; line: Record<string, unknown>; failed: boolean }
+  /** `line`: the JSON Lines record, already as text (a string crosses from a worker far faster than an object tree). */
+  | { kind: 'analyze'; path: string; line: string; failed: boolean }
   | { kind: 'check'; path: string; outcome: FileOutcome; failed: boolean }
   | { kind: 'annotate'; path: string; out: string[]; err: string[]; error: string | null; failed: boolean };
 
@@ -54,9 +55,9 @@ export async function runTask(task: BatchTask): Promise<BatchResult> {
   switch (task.kind) {
     case 'analyze':
       try {
-        return { kind: 'analyze', path, line: await analyzeLine(path, task.settings, task.read, task.file), failed: false };
+        return { kind: 'analyze', path, line: JSON.stringify(await analyzeLine(path, task.settings, task.read, task.file)), failed: false };
       } catch (e) {
-        return { kind: 'analyze', path, line: { path, error: failureSentence(e, path) }, failed: true };
+        return { kind: 'analyze', path, line: JSON.stringify({ path, error: failureSentence(e, path) }), failed: true };
       }
     case 'check': {
       let outcome: FileOutcome;

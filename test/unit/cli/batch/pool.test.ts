@@ -26,11 +26,11 @@ describe('batch worker pool', function () {
     assert.deepEqual(got.map(([i]) => i), [0, 1, 2, 3, 4, 5]);
     const failed = got.filter(([, r]) => r.failed);
     assert.equal(failed.length, 1);
-    const line = (failed[0]![1] as Extract<BatchResult, { kind: 'analyze' }>).line;
+    const line = JSON.parse((failed[0]![1] as Extract<BatchResult, { kind: 'analyze' }>).line) as { error: string };
     assert.match(String(line.error), /worker processing .*run-0 stopped \(exit code 7\)/);
     // The others: the tight-binding model's gap is the E_g written (tinyRun.ts), in task order.
     for (const [i, r] of got.filter(([, x]) => !x.failed)) {
-      const gap = (r as Extract<BatchResult, { kind: 'analyze' }>).line.gap as { eV: number };
+      const gap = (JSON.parse((r as Extract<BatchResult, { kind: 'analyze' }>).line) as { gap: { eV: number } }).gap;
       assert.ok(Math.abs(gap.eV - gaps[i]!) < 2e-6, `run ${i}: ${gap.eV}`);
     }
   });
