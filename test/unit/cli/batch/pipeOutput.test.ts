@@ -61,6 +61,8 @@ describe('output through a pipe', function () {
     assert.equal(r.code, 0, r.stderr);
     assert.ok(r.stdout.length > 256 * 1024, `only ${r.stdout.length} bytes: the test needs more than the pipe holds`);
     assert.ok(r.stdout.endsWith('\n'));
+    // stderr is a pipe here, not a terminal: no progress line.
+    assert.doesNotMatch(r.stderr, /\r|runs analysed/);
     const lines = r.stdout.trimEnd().split('\n').map((l) => JSON.parse(l) as { path: string; gap: { eV: number } });
     assert.equal(lines.length, 120);
     // Tight-binding model of tinyRun.ts: the gap is the E_g written, 0.5 + i/100 eV, in path order.
