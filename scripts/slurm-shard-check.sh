@@ -114,6 +114,9 @@ esac
 cp -r fixtures/demo "$D/demo"
 find "$D/demo" -name '*.valleys.json' -delete
 "$NODE" dist/cli.js annotate "$D/demo" --jobs 1 >"$D/annotate.log" 2>&1 || { cat "$D/annotate.log"; fail "annotate of the demo runs failed"; }
+# One run's data file then changes its bytes (the comment line), not its numbers: check must call it stale,
+# on one machine and in the merged shards alike.
+sed -i '5s/$/ (edited)/' "$D/demo/si-bulk/EIGENVAL"
 
 # 5. The job array: task i of n writes its shard of analyze and of check.
 cat > "$D/job.sh" <<JOB
@@ -155,6 +158,7 @@ cmp -s "$D/merged-compare.json" "$D/one-compare.json" || problems+=("compare of 
 merged_check_code=$?
 cmp -s "$D/merged-check.txt" "$D/one-check.txt" || problems+=("check of the merged shards differs from one machine's check")
 [ "$merged_check_code" = "$one_check_code" ] || problems+=("check exit codes differ: merged $merged_check_code, one machine $one_check_code")
+grep -q '^STALE .*si-bulk' "$D/one-check.txt" || problems+=("one machine's check did not find the edited run stale")
 n_runs=$(echo "$one_paths" | wc -l)
 counts=$(for f in "$D"/out/analyze-*.jsonl; do grep -c . "$f"; done | paste -sd+)
 if [ ${#problems[@]} -gt 0 ]; then
