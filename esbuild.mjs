@@ -23,6 +23,9 @@ if (cli.length) {
     banner: { js: '#!/usr/bin/env node' },
   });
 }
+// The worker threads of the CLI's batch commands (analyze/check/annotate --jobs), beside dist/cli.js.
+const cliWorker = present([{ in: 'src/cli/batch/worker.ts', out: 'batchWorker' }]);
+if (cliWorker.length) builds.push({ ...common, entryPoints: cliWorker, outdir: 'dist', platform: 'node', format: 'cjs' });
 if (!cliOnly) {
   const nodeEntries = present([
     { in: 'src/extension/extension.ts', out: 'extension' },

@@ -66,3 +66,9 @@ if (existsSync('scripts/bench-bandview.mjs')) {
   console.log('\nBand view redraw, 500 bands × 20 000 k-points, headless Chromium');
   spawnSync(process.execPath, ['scripts/bench-bandview.mjs'], { stdio: 'inherit' });
 } else console.log('\nband view: benchmark not available (scripts/bench-bandview.mjs missing)');
+
+// 5. Batch: analyze --jsonl over 200 small runs, --jobs 2 against --jobs 1 (its own script).
+if (existsSync('scripts/bench-batch.mjs')) {
+  const r = spawnSync(process.execPath, ['scripts/bench-batch.mjs'], { stdio: 'inherit' });
+  if (r.status !== 0) console.log('  batch benchmark failed');
+} else console.log('\nbatch: benchmark not available (scripts/bench-batch.mjs missing)');

@@ -3,7 +3,7 @@
  * Every failure ends in one sentence on stderr and a non-zero exit code; never a stack trace.
  */
 import { UsageError } from './args';
-import { processIO, type CliIO } from './io';
+import { drained, processIO, type CliIO } from './io';
 import { ANALYZE_HELP, runAnalyze } from './commands/analyze';
 import { COMPARE_HELP, runCompare } from './commands/compare';
 import { ANNOTATE_HELP, runAnnotate } from './commands/annotate';
@@ -86,11 +86,21 @@ const VERSION = TOOL_VERSION;
 // Run when executed as the CLI entry point (bundled dist/cli.js or tsx src/cli/main.ts).
 const isEntry = typeof require !== 'undefined' && typeof module !== 'undefined' && require.main === module;
 if (isEntry) {
+  // A reader that stops early (`| head`) is not an error of ours.
+  process.stdout.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code !== 'EPIPE') process.stderr.write(`valleyscope: cannot write the output: ${e.message}\n`);
+  });
+  // Exit only once standard output and standard error have drained: a pipe takes the output more slowly than
+  // it is written, and exiting earlier would cut it.
+  const exit = async (code: number): Promise<never> => {
+    await Promise.all([drained(process.stdout), drained(process.stderr)]);
+    process.exit(code);
+  };
   main(process.argv.slice(2)).then(
-    (code) => process.exit(code),
+    (code) => exit(code),
     (e: unknown) => {
       process.stderr.write(`valleyscope: internal error: ${(e as Error)?.message ?? String(e)}\n`);
-      process.exit(3);
+      return exit(3);
     },
   );
 }

@@ -12,10 +12,15 @@ import { readStructureFile } from '../../core/formats/structureFile';
 import { READ_LIMITS } from '../../core/io/readLimits';
 import { ENERGY_ZEROS, energyZeroOf, isEnergyZeroMode, type EnergyZeroMode } from '../../core/report/energyZero';
 import { labelledLines, pathPosition } from '../../core/lattice/pathPosition';
+import { BATCH_FLAGS, BATCH_HELP, batchOptionsFromArgs } from '../batch/batchOptions';
+import { analyzeBatch } from '../batch/commands';
 
 export const ANALYZE_HELP = `valleyscope analyze <file-or-folder> [options]
+valleyscope analyze <files or folders>... --jsonl [--jobs N] [--shard i/n] [options]
   Read an eigenvalue file (or find one in a run folder) and report the gap, band edges and effective masses.
+  With --jsonl, every run found under the paths (folders are searched for run folders) is analysed.
   --json            print one JSON object
+${BATCH_HELP}
   --window <meV>    energy window of the curvature fit (default 25)
   --method <name>   ${FIT_METHODS.join(' | ')} (default parabola)
   --range <eV>      report secondary extrema this close to the edges (default 0.5)
@@ -90,8 +95,15 @@ export async function readOptionsFromArgs(p: ReturnType<typeof parseArgs>): Prom
 }
 
 export async function runAnalyze(argv: string[], io: CliIO): Promise<number> {
-  const p = parseArgs(argv, { json: { value: false }, 'energy-zero': { value: true }, ...ANALYSIS_FLAGS, ...READ_FLAGS });
-  if (p.positional.length !== 1) throw new UsageError('analyze takes exactly one file or folder');
+  const p = parseArgs(argv, { json: { value: false }, 'energy-zero': { value: true }, ...ANALYSIS_FLAGS, ...READ_FLAGS, ...BATCH_FLAGS });
+  const batch = batchOptionsFromArgs(p);
+  if (batch.requested) {
+    if (!batch.jsonl) throw new UsageError('--jobs and --shard go with --jsonl (one line per run)');
+    if (p.flags.has('json')) throw new UsageError('--json and --jsonl cannot be used together');
+    if (p.positional.length === 0) throw new UsageError('analyze --jsonl needs at least one file or folder');
+    return analyzeBatch(p.positional, analysisSettingsFromArgs(p), await readOptionsFromArgs(p), batch, io);
+  }
+  if (p.positional.length !== 1) throw new UsageError('analyze takes exactly one file or folder (several with --jsonl)');
   const settings = analysisSettingsFromArgs(p);
   const mode = energyZeroFromArgs(p);
   const bs = await loadRun(nodeFileAccessor, p.positional[0]!, await readOptionsFromArgs(p));

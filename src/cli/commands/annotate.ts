@@ -20,6 +20,8 @@ import { sha256Hex } from '../../core/hash';
 import { readStructureFile } from '../../core/formats/structureFile';
 import { READ_LIMITS } from '../../core/io/readLimits';
 import { checkConfined, checkRecordedPath, notRegularSentence, readRecordedPath, redactContent, shown } from '../../core/io/pathPolicy';
+import { BATCH_FLAGS, BATCH_HELP, batchOptionsFromArgs } from '../batch/batchOptions';
+import { annotateBatch } from '../batch/commands';
 
 export const ANNOTATE_HELP = `valleyscope annotate <file-or-folder>... [options]
   Analyse each run and write its findings to <data file>.valleys.json beside the data file, for review.
@@ -27,7 +29,9 @@ export const ANNOTATE_HELP = `valleyscope annotate <file-or-folder>... [options]
   hand are kept, entries the analysis no longer finds are kept and marked "found": false. Prints what
   changed. Without options, the settings recorded in an existing file are used again.
   --window <meV>, --method <name>, --range <eV>, --soc, --alat <length+unit>, --structure <file>
-                    as for "valleyscope analyze"; all are recorded, and "check" reads the run alike`;
+                    as for "valleyscope analyze"; all are recorded, and "check" reads the run alike
+${BATCH_HELP}
+  With any of these three, folders are searched for run folders and the runs are annotated in parallel.`;
 
 import { TOOL_VERSION } from '../../core/version';
 
@@ -183,7 +187,8 @@ export function reviewSentence(s: MergeSummary): string {
 }
 
 export async function runAnnotate(argv: string[], io: CliIO): Promise<number> {
-  const p = parseArgs(argv, { ...ANALYSIS_FLAGS, ...READ_FLAGS });
+  const p = parseArgs(argv, { ...ANALYSIS_FLAGS, ...READ_FLAGS, ...BATCH_FLAGS });
+  const batch = batchOptionsFromArgs(p);
   if (p.positional.length === 0) throw new UsageError('annotate needs at least one data file or run folder');
   const flags = analysisSettingsFromArgs(p);
   const read: ReadFlags = { soc: p.flags.has('soc') };
@@ -191,6 +196,7 @@ export async function runAnnotate(argv: string[], io: CliIO): Promise<number> {
   if (alat !== undefined) read.alat = alat;
   const structure = flag(p, 'structure');
   if (structure !== undefined) read.structure = structure;
+  if (batch.requested) return annotateBatch(p.positional, flags, read, batch, io);
   let failed = 0;
   for (const path of p.positional) {
     try {

@@ -21,6 +21,10 @@ import { checkMarkdown } from '../../core/annotations/checkMarkdown';
 import { ValleyscopeError } from '../../core/errors';
 import type { CliIO } from '../io';
 import { readOptionsFor } from './annotate';
+import { BATCH_FLAGS, BATCH_HELP, batchOptionsFromArgs } from '../batch/batchOptions';
+import { checkInPool } from '../batch/commands';
+import { inShard } from '../batch/shard';
+import { checkRecord, isJsonLinesPath, outcomesFromRecords, readJsonLines } from '../batch/jsonLines';
 
 export const CHECK_HELP = `valleyscope check [paths...] [options]
   Find *.valleys.json files under the paths (default: the current folder), re-read each data file,
@@ -31,7 +35,10 @@ export const CHECK_HELP = `valleyscope check [paths...] [options]
   Paths read from an annotations file are opened only inside its folder (see SECURITY.md).
   --format <text|md>          plain lines (default) or a Markdown summary for a review comment
   --energy-tolerance <meV>    energies may move this much (default ${DEFAULT_TOLERANCES.energy_meV})
-  --mass-tolerance <percent>  masses may move this much (default ${DEFAULT_TOLERANCES.mass_percent})`;
+  --mass-tolerance <percent>  masses may move this much (default ${DEFAULT_TOLERANCES.mass_percent})
+${BATCH_HELP}
+  Paths ending in .jsonl are the --jsonl output of check (the shards of a job array): they are merged and
+  reported as one run over all the files would report them.`;
 
 /** Folders never searched: version control and installed packages. */
 const SKIP_DIRS = new Set(['.git', '.hg', '.svn', 'node_modules']);
@@ -203,7 +210,8 @@ function markdownReport(outcomes: FileOutcome[], notes: string[] = []): string {
 }
 
 export async function runCheck(argv: string[], io: CliIO): Promise<number> {
-  const p = parseArgs(argv, { format: { value: true }, 'energy-tolerance': { value: true }, 'mass-tolerance': { value: true } });
+  const p = parseArgs(argv, { format: { value: true }, 'energy-tolerance': { value: true }, 'mass-tolerance': { value: true }, ...BATCH_FLAGS });
+  const batch = batchOptionsFromArgs(p);
   const format = flag(p, 'format') ?? 'text';
   if (format !== 'text' && format !== 'md') throw new UsageError(`--format must be text or md, got "${format}"`);
   const tol: Tolerances = {
@@ -212,20 +220,30 @@ export async function runCheck(argv: string[], io: CliIO): Promise<number> {
     mass_percent: numberFlag(p, 'mass-tolerance', (x) => x >= 0 && x <= 1000, 'zero or a positive per cent') ?? DEFAULT_TOLERANCES.mass_percent,
   };
   const roots = p.positional.length ? p.positional : ['.'];
-  const files: FoundAnnotations[] = [];
-  const notes: string[] = [];
-  for (const r of roots) {
-    const s = await searchAnnotationsFiles(r);
-    notes.push(...s.notes);
-    for (const f of s.found) if (!files.some((g) => g.file === f.file)) files.push(f);
+  let outcomes: FileOutcome[];
+  let notes: string[] = [];
+  if (roots.some(isJsonLinesPath)) {
+    // The shards of a job array, merged: the same outcomes, in the same order, as one machine's run.
+    if (!roots.every(isJsonLinesPath)) throw new UsageError('give either JSON Lines files (*.jsonl) of earlier checks or folders to check, not both');
+    if (batch.shard) throw new UsageError('--shard selects runs to check, not records of JSON Lines files');
+    outcomes = outcomesFromRecords(await readJsonLines(nodeFileAccessor, roots));
+  } else {
+    const files: FoundAnnotations[] = [];
+    for (const r of roots) {
+      const s = await searchAnnotationsFiles(r);
+      notes = notes.concat(s.notes);
+      for (const f of s.found) if (!files.some((g) => g.file === f.file)) files.push(f);
+    }
+    for (const n of notes) io.err(`valleyscope check: ${n}`);
+    if (files.length === 0) {
+      io.err(`valleyscope check: no annotations files (*.valleys.json) under ${roots.join(', ')}; write some with "valleyscope annotate"`);
+      return 1;
+    }
+    const mine = files.filter((f) => inShard(f.file, batch.shard));
+    if (batch.shard) io.err(`valleyscope: shard ${batch.shard.index}/${batch.shard.count}: ${mine.length} of the ${files.length} annotations files`);
+    outcomes = await checkInPool(mine, tol, batch, io);
   }
-  for (const n of notes) io.err(`valleyscope check: ${n}`);
-  if (files.length === 0) {
-    io.err(`valleyscope check: no annotations files (*.valleys.json) under ${roots.join(', ')}; write some with "valleyscope annotate"`);
-    return 1;
-  }
-  const outcomes: FileOutcome[] = [];
-  for (const f of files) outcomes.push(await checkFile(f.file, tol, f.root));
-  io.out(format === 'md' ? markdownReport(outcomes, notes) : textReport(outcomes));
+  if (batch.jsonl) for (const o of outcomes) io.out(JSON.stringify(checkRecord(o)));
+  else io.out(format === 'md' ? markdownReport(outcomes, notes) : textReport(outcomes));
   return outcomes.every((o) => o.result?.ok) ? 0 : 1;
 }

@@ -13,6 +13,7 @@ import { loadAnnotationsRun } from '../../core/compare/loadAnnotationsRun';
 import { compositionOf } from '../../core/compare/structureDescriptors';
 import { labelledLines } from '../../core/lattice/pathPosition';
 import type { CliIO } from '../io';
+import { isJsonLinesPath, readJsonLines, runsFromRecords } from '../batch/jsonLines';
 
 export const COMPARE_HELP = `valleyscope compare <run> <run> [...] [options]
   Compare runs (eigenvalue files, run folders, or annotations files *.valleys.json): gap, edges, valleys
@@ -23,25 +24,35 @@ export const COMPARE_HELP = `valleyscope compare <run> <run> [...] [options]
                              form: run,extremum,kind,quantity,direction,branch,value,unit,reference_value,
                              difference,relative_difference (mass differences on |m|)
   --energy-zero vbm|cbm|midgap|fermi|raw   zero of the extrema energies shown (default vbm); json keeps raw
-  --window, --method, --range, --soc   as for analyze`;
+  --window, --method, --range, --soc   as for analyze
+  A path ending in .jsonl is the output of "analyze --jsonl" (one run per line; the shards of a job array):
+  the runs of all such files are merged in path order and compared as one machine's runs would be.`;
 
 const FORMATS: ComparisonFormat[] = ['table', 'csv', 'md', 'json'];
 
 export async function runCompare(argv: string[], io: CliIO): Promise<number> {
   const p = parseArgs(argv, { reference: { value: true }, format: { value: true }, 'energy-zero': { value: true }, ...ANALYSIS_FLAGS });
-  if (p.positional.length < 2) throw new UsageError('compare needs at least two runs');
+  const jsonl = p.positional.filter(isJsonLinesPath);
+  if (p.positional.length < 2 && jsonl.length === 0) throw new UsageError('compare needs at least two runs');
+  const fromLines = jsonl.length ? runsFromRecords(await readJsonLines(nodeFileAccessor, jsonl)) : { runs: [], notes: [] };
+  if (p.positional.length - jsonl.length + fromLines.runs.length < 2) throw new UsageError('compare needs at least two runs');
   const format = (flag(p, 'format') ?? 'table') as ComparisonFormat;
   if (!FORMATS.includes(format)) throw new UsageError(`--format must be one of ${FORMATS.join(', ')}, got "${format}"`);
   const reference = flag(p, 'reference');
-  if (reference !== undefined && !p.positional.includes(reference)) {
+  if (reference !== undefined && !p.positional.includes(reference) && !fromLines.runs.some((r) => r.name === reference)) {
     throw new UsageError(`--reference must be one of the runs given, got "${reference}"`);
   }
   const settings = analysisSettingsFromArgs(p);
   const zeroMode = energyZeroFromArgs(p);
   await ensureSymmetryReady();
   const runs: RunInput[] = [];
-  const notes: string[] = [];
+  const notes: string[] = [...fromLines.notes];
   for (const path of p.positional) {
+    if (isJsonLinesPath(path)) {
+      // All the JSON Lines runs, merged in path order, stand where the first such file was named.
+      if (path === jsonl[0]) runs.push(...fromLines.runs);
+      continue;
+    }
     if (isAnnotationsPath(path)) {
       const a = await loadAnnotationsRun(nodeFileAccessor, path);
       runs.push(a.run);

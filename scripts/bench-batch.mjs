@@ -1,0 +1,107 @@
+#!/usr/bin/env node
+// Benchmark (a script, not a test): `analyze --jsonl` over 200 small runs with --jobs 2 against --jobs 1,
+// both through the built CLI (dist/cli.js), in this run on this machine. The figure is the ratio of the
+// times (goal ≤ 0.65 on a 2-core machine); absolute times are printed for context only.
+// The runs are generated under bench-data/batch-200/ (not committed): each a simple cubic cell (a = 4 Å)
+// with 8 nearest-neighbour tight-binding bands (E = c ± 2t(3 − cos k_x a − cos k_y a − cos k_z a)) along
+// Γ–X–M–Γ–R, 200 k-points, in VASP's EIGENVAL/POSCAR/KPOINTS layouts. Invented numbers: input only.
+// Usage: node scripts/bench-batch.mjs [--runs N] [--repeat R]
+import { spawnSync } from 'node:child_process';
+import { availableParallelism, loadavg } from 'node:os';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+
+const arg = (name, dflt) => {
+  const i = process.argv.indexOf(name);
+  return i > 0 ? Math.max(1, Number(process.argv[i + 1]) || dflt) : dflt;
+};
+const nRuns = arg('--runs', 200);
+const repeat = arg('--repeat', 3);
+const cli = join('dist', 'cli.js');
+if (!existsSync(cli) || !existsSync(join('dist', 'batchWorker.js'))) {
+  console.log('batch: dist/cli.js or dist/batchWorker.js missing; run "node esbuild.mjs" first');
+  process.exit(1);
+}
+
+const dir = join('bench-data', `batch-${nRuns}`);
+const f = (x, w, d) => x.toFixed(d).padStart(w);
+const SEGMENTS = [
+  ['Γ', [0, 0, 0], 'X', [0.5, 0, 0]],
+  ['X', [0.5, 0, 0], 'M', [0.5, 0.5, 0]],
+  ['M', [0.5, 0.5, 0], 'Γ', [0, 0, 0]],
+  ['Γ', [0, 0, 0], 'R', [0.5, 0.5, 0.5]],
+];
+const PER_SEGMENT = 50;
+
+function writeRun(runDir, seed) {
+  mkdirSync(runDir, { recursive: true });
+  const nb = 8;
+  const bands = [];
+  for (let b = 0; b < nb; b++) {
+    const valence = b < 4;
+    const t = 0.4 + 0.1 * b + 0.003 * seed;
+    bands.push(valence ? { c: -1.5 * (3 - b), s: -1, t } : { c: 0.8 + 0.002 * seed + 1.1 * (b - 4), s: 1, t });
+  }
+  const ks = [];
+  for (const [, a, , z] of SEGMENTS) for (let i = 0; i < PER_SEGMENT; i++) ks.push(a.map((x, j) => x + ((z[j] - x) * i) / (PER_SEGMENT - 1)));
+  const lines = ['    1    1   200    1', '  0.6400000E+02  0.4000000E-09  0.4000000E-09  0.4000000E-09  0.5000000E-15', '  1.0000000000000E-004', '  CAR', ` batch benchmark run ${seed}`, `      8     ${ks.length}      ${nb}`];
+  for (const k of ks) {
+    lines.push('', `  ${f(k[0], 12, 7)}  ${f(k[1], 12, 7)}  ${f(k[2], 12, 7)}  ${f(1 / ks.length, 12, 7)}`);
+    const s = 3 - k.reduce((acc, x) => acc + Math.cos(2 * Math.PI * x), 0);
+    bands.forEach((bd, b) => {
+      const e = bd.s < 0 ? bd.c - 2 * bd.t * s : bd.c + 2 * bd.t * s;
+      lines.push(`    ${b + 1}   ${f(e, 12, 6)}   ${f(b < 4 ? 1 : 0, 8, 6)}`);
+    });
+  }
+  writeFileSync(join(runDir, 'EIGENVAL'), lines.join('\n') + '\n');
+  writeFileSync(join(runDir, 'POSCAR'), 'simple cubic model\n1.0\n  4.0 0.0 0.0\n  0.0 4.0 0.0\n  0.0 0.0 4.0\nH\n1\nDirect\n  0.0 0.0 0.0\n');
+  const kp = ['k-path of the batch benchmark', String(PER_SEGMENT), 'Line-mode', 'reciprocal'];
+  for (const [la, a, lz, z] of SEGMENTS) kp.push(`  ${a.join(' ')} ! ${la === 'Γ' ? 'G' : la}`, `  ${z.join(' ')} ! ${lz === 'Γ' ? 'G' : lz}`, '');
+  writeFileSync(join(runDir, 'KPOINTS'), kp.join('\n'));
+}
+
+const stamp = join(dir, '.complete');
+if (!existsSync(stamp)) {
+  console.log(`generating ${nRuns} small runs under ${dir} ...`);
+  for (let i = 0; i < nRuns; i++) writeRun(join(dir, `run-${String(i).padStart(4, '0')}`), i);
+  writeFileSync(stamp, 'generated\n');
+}
+
+function timeOnce(jobs) {
+  const out = join('bench-data', `batch-jobs${jobs}.jsonl`);
+  const t0 = process.hrtime.bigint();
+  const r = spawnSync(process.execPath, [cli, 'analyze', dir, '--jsonl', '--jobs', String(jobs)], { encoding: 'utf8', maxBuffer: 1 << 28 });
+  const ms = Number(process.hrtime.bigint() - t0) / 1e6;
+  if (r.status !== 0) throw new Error(`--jobs ${jobs} failed: ${(r.stderr || '').trim().split('\n').pop()}`);
+  writeFileSync(out, r.stdout);
+  return { ms, out };
+}
+
+const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+const load0 = loadavg()[0];
+console.log(`\nBatch: analyze --jsonl over ${nRuns} small runs (200 k × 8 bands each), ${availableParallelism()} cores, median of ${repeat}, alternating`);
+const t1 = [];
+const t2 = [];
+let outs;
+try {
+  for (let i = 0; i < repeat; i++) {
+    const a = timeOnce(1);
+    const b = timeOnce(2);
+    t1.push(a.ms);
+    t2.push(b.ms);
+    outs = [a.out, b.out];
+  }
+} catch (e) {
+  console.log(`  batch benchmark failed: ${e.message}`);
+  process.exit(1);
+}
+const same = readFileSync(outs[0], 'utf8') === readFileSync(outs[1], 'utf8');
+const m1 = median(t1);
+const m2 = median(t2);
+console.log(`  --jobs 1  ${m1.toFixed(0)} ms   (${(m1 / nRuns).toFixed(1)} ms per run, one process start included)`);
+console.log(`  --jobs 2  ${m2.toFixed(0)} ms`);
+console.log(`  ratio --jobs 2 / --jobs 1: ${(m2 / m1).toFixed(2)}   (goal ≤ 0.65 on 2 cores)${availableParallelism() < 2 ? '  [this machine has fewer than 2 cores: the goal cannot be met here]' : ''}`);
+console.log(`  the two outputs are ${same ? 'identical' : 'DIFFERENT (a bug: the output must not depend on --jobs)'}`);
+const load1 = loadavg()[0];
+const busy = Math.max(load0, load1) > availableParallelism();
+console.log(`  load average (1 min) ${load0.toFixed(1)} before, ${load1.toFixed(1)} after, on ${availableParallelism()} cores${busy ? ': other work shared the cores, so the ratio says little about what a second core gives' : ''}`);
