@@ -4,6 +4,7 @@ import type { ReadOptions } from '../../core/formats/types';
 import type { Tolerances } from '../../core/annotations/compareAnnotations';
 import type { CliIO } from '../io';
 import type { FileOutcome, FoundAnnotations } from '../commands/check';
+import type { EnergyZeroMode } from '../../core/report/energyZero';
 import type { ReadFlags } from '../commands/annotate';
 import { nodeFileAccessor } from '../nodeFileAccessor';
 import { findRuns } from './findRuns';
@@ -18,7 +19,7 @@ function shardNote(opts: BatchOptions, kept: number, all: number, what: string):
 }
 
 /** `analyze --jsonl`: one line per run, in path order; exit 1 when any run failed (its line says why). */
-export async function analyzeBatch(roots: string[], settings: Partial<AnalysisSettings>, read: ReadOptions, opts: BatchOptions, io: CliIO): Promise<number> {
+export async function analyzeBatch(roots: string[], settings: Partial<AnalysisSettings>, read: ReadOptions, opts: BatchOptions, io: CliIO, zero: EnergyZeroMode = 'vbm'): Promise<number> {
   const workers = prestartWorkers(opts.jobs);
   let found;
   try {
@@ -38,7 +39,7 @@ export async function analyzeBatch(roots: string[], settings: Partial<AnalysisSe
   if (note) io.err(`valleyscope: ${note}`);
   const tasks: BatchTask[] = runs.map((path) => {
     const file = found.files.get(path);
-    return file === undefined ? { kind: 'analyze', path, settings, read } : { kind: 'analyze', path, settings, read, file };
+    return file === undefined ? { kind: 'analyze', path, settings, read, zero } : { kind: 'analyze', path, settings, read, zero, file };
   });
   let failed = 0;
   const progress = progressReporter(io.progress, 'runs analysed');

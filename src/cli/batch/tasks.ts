@@ -7,16 +7,17 @@ import type { Mat3 } from '../../core/model';
 import { nodeFileAccessor } from '../nodeFileAccessor';
 import { loadRun } from '../../core/load';
 import { analyzeBandStructure, type AnalysisSettings } from '../../core/analysis/analyze';
-import { reportToJson } from '../../core/report/reportJson';
 import { crystalSymmetry } from '../../core/lattice/symmetry';
 import { isValleyscopeError } from '../../core/errors';
 import type { ReadOptions } from '../../core/formats/types';
 import type { Tolerances } from '../../core/annotations/compareAnnotations';
+import type { EnergyZeroMode } from '../../core/report/energyZero';
+import { analysisJson } from '../analysisJson';
 import { checkFile, type FileOutcome } from '../commands/check';
 import { annotateOne, type ReadFlags } from '../commands/annotate';
 
 export type BatchTask =
-  | { kind: 'analyze'; path: string; settings: Partial<AnalysisSettings>; read: ReadOptions; file?: string }
+  | { kind: 'analyze'; path: string; settings: Partial<AnalysisSettings>; read: ReadOptions; zero?: EnergyZeroMode; file?: string }
   /** `root`: the folder searched when the file was found by searching (it must stay inside it), null when named. */
   | { kind: 'check'; path: string; tolerances: Tolerances; root: string | null }
   | { kind: 'annotate'; path: string; settings: Partial<AnalysisSettings>; read: ReadFlags };
@@ -36,7 +37,7 @@ export function failureSentence(e: unknown, path: string): string {
 }
 
 /** The JSON Lines record of an analysed run: `path`, the `--json` contract, and what `compare` needs to match valleys up to symmetry. */
-async function analyzeLine(path: string, settings: Partial<AnalysisSettings>, read: ReadOptions, file?: string): Promise<Record<string, unknown>> {
+async function analyzeLine(path: string, settings: Partial<AnalysisSettings>, read: ReadOptions, zero: EnergyZeroMode, file?: string): Promise<Record<string, unknown>> {
   // The eigenvalue file found when the runs were searched, when known (the same file loadRun would find).
   const bs = await loadRun(nodeFileAccessor, file ?? path, read);
   const report = analyzeBandStructure(bs, settings);
@@ -48,7 +49,7 @@ async function analyzeLine(path: string, settings: Partial<AnalysisSettings>, re
       rotations = null;
     }
   }
-  return { path, ...reportToJson(report), lattice: bs.lattice, rotations };
+  return { path, ...analysisJson(bs, report, zero), lattice: bs.lattice, rotations };
 }
 
 export async function runTask(task: BatchTask): Promise<BatchResult> {
@@ -56,7 +57,7 @@ export async function runTask(task: BatchTask): Promise<BatchResult> {
   switch (task.kind) {
     case 'analyze':
       try {
-        return { kind: 'analyze', path, line: JSON.stringify(await analyzeLine(path, task.settings, task.read, task.file)), failed: false };
+        return { kind: 'analyze', path, line: JSON.stringify(await analyzeLine(path, task.settings, task.read, task.zero ?? 'vbm', task.file)), failed: false };
       } catch (e) {
         return { kind: 'analyze', path, line: JSON.stringify({ path, error: failureSentence(e, path) }), failed: true };
       }

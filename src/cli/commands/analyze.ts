@@ -4,7 +4,7 @@ import { nodeFileAccessor } from '../nodeFileAccessor';
 import { loadRun } from '../../core/load';
 import { analyzeBandStructure, type AnalysisSettings } from '../../core/analysis/analyze';
 import { summaryText } from '../../core/report/summaryText';
-import { reportToJson } from '../../core/report/reportJson';
+import { analysisJson } from '../analysisJson';
 import { FIT_METHODS } from '../../core/analysis/methods';
 import type { CliIO } from '../io';
 import type { ReadOptions } from '../../core/formats/types';
@@ -101,7 +101,7 @@ export async function runAnalyze(argv: string[], io: CliIO): Promise<number> {
     if (!batch.jsonl) throw new UsageError('--jobs and --shard go with --jsonl (one line per run)');
     if (p.flags.has('json')) throw new UsageError('--json and --jsonl cannot be used together');
     if (p.positional.length === 0) throw new UsageError('analyze --jsonl needs at least one file or folder');
-    return analyzeBatch(p.positional, analysisSettingsFromArgs(p), await readOptionsFromArgs(p), batch, io);
+    return analyzeBatch(p.positional, analysisSettingsFromArgs(p), await readOptionsFromArgs(p), batch, io, energyZeroFromArgs(p));
   }
   if (p.positional.length !== 1) throw new UsageError('analyze takes exactly one file or folder (several with --jsonl)');
   const settings = analysisSettingsFromArgs(p);
@@ -111,12 +111,8 @@ export async function runAnalyze(argv: string[], io: CliIO): Promise<number> {
   const zero = energyZeroOf(report, mode, bs.fermiEnergy);
   const lines = labelledLines(bs);
   const positionOf = (k: readonly number[]): string | null => pathPosition(k, lines);
-  if (p.flags.has('json')) {
-    // Raw energies as the code wrote them; the zero and the path positions beside them.
-    const json = reportToJson(report);
-    json.energyZero = { requested: zero.requested, used: zero.used, eV: zero.eV, reason: zero.reason };
-    json.extrema = (json.extrema as Record<string, unknown>[]).map((x, i) => ({ ...x, pathPosition: positionOf(report.extrema[i]!.k) }));
-    io.out(JSON.stringify(json));
-  } else io.out(summaryText(report, { zero, positionOf }));
+  // --json: raw energies as the code wrote them; the zero and the path positions beside them.
+  if (p.flags.has('json')) io.out(JSON.stringify(analysisJson(bs, report, mode)));
+  else io.out(summaryText(report, { zero, positionOf }));
   return 0;
 }

@@ -112,8 +112,11 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
 
   it('a report read back from its line writes the same JSON again', () => {
     for (const r of lines(oneMachine).filter((x) => !('error' in x))) {
-      const { path: _p, lattice: _l, rotations: _r, ...rest } = r;
-      assert.deepEqual(reportToJson(reportFromJson(r, 'test')), rest);
+      // The line's additions to the report (the energy zero and each extremum's path position, written by
+      // cli/analysisJson.ts) are not part of the Report: compare the rest.
+      const { path: _p, lattice: _l, rotations: _r, energyZero: _z, ...rest } = r;
+      const extrema = (rest.extrema as Record<string, unknown>[]).map(({ pathPosition: _pp, ...x }) => x);
+      assert.deepEqual(reportToJson(reportFromJson(r, 'test')), { ...rest, extrema });
     }
   });
 
