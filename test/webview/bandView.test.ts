@@ -246,9 +246,9 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     await v.hostPost(hostFitResult(run, req.requestId as number, cbm, 60, 'parabola', false));
     await waitForExpression(v.page, `document.querySelector('.vs-provenance').textContent.indexOf('window 60') >= 0`);
     // Changing the method refits at once, with a new window scan.
-    await v.page.evaluate(`(function () { var s = document.querySelector('vscode-single-select.vs-method'); s.value = 'fd5'; s.dispatchEvent(new Event('change')); })()`);
+    await v.page.evaluate(`(function () { var s = document.querySelector('vscode-single-select.vs-method'); s.value = 'central-4'; s.dispatchEvent(new Event('change')); })()`);
     const byMethod = await waitPosted(v, 'requestFit', 3);
-    assert.equal(byMethod.method, 'fd5');
+    assert.equal(byMethod.method, 'central-4');
     assert.equal(byMethod.window_meV, 60);
     assert.equal(byMethod.withScan, true);
     assert.ok(isViewToHostMessage(byMethod));

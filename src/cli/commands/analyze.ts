@@ -5,7 +5,7 @@ import { loadRun } from '../../core/load';
 import { analyzeBandStructure, type AnalysisSettings } from '../../core/analysis/analyze';
 import { summaryText } from '../../core/report/summaryText';
 import { reportToJson } from '../../core/report/reportJson';
-import { FIT_METHODS } from '../../core/analysis/methods';
+import { FIT_METHODS, methodId } from '../../core/analysis/methods';
 import type { CliIO } from '../io';
 import type { ReadOptions } from '../../core/formats/types';
 import { readPoscar } from '../../core/formats/vasp/poscar';
@@ -15,7 +15,7 @@ export const ANALYZE_HELP = `valleyscope analyze <file-or-folder> [options]
   Read an eigenvalue file (or find one in a run folder) and report the gap, band edges and effective masses.
   --json            print one JSON object
   --window <meV>    energy window of the curvature fit (default 25)
-  --method <name>   ${FIT_METHODS.join(' | ')} (default parabola)
+  --method <name>   ${FIT_METHODS.join(' | ')} (default parabola; fd3, fd5 still accepted)
   --range <eV>      report secondary extrema this close to the edges (default 0.5)
   --soc             treat the run as spin-orbit (one electron per band) when the files do not say
   --alat <Å>        lattice parameter alat, for layouts that give k in 2π/alat without a cell (bands.x output)
@@ -30,8 +30,9 @@ export function analysisSettingsFromArgs(p: ReturnType<typeof parseArgs>): Parti
   if (r !== undefined) s.range_eV = r;
   const m = flag(p, 'method');
   if (m !== undefined) {
-    if (!FIT_METHODS.includes(m)) throw new UsageError(`--method must be one of ${FIT_METHODS.join(', ')}, got "${m}"`);
-    s.method = m;
+    const id = methodId(m);
+    if (id === null) throw new UsageError(`--method must be one of ${FIT_METHODS.join(', ')}, got "${m}"`);
+    s.method = id;
   }
   return s;
 }

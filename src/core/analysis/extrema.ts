@@ -13,7 +13,8 @@ import type { BandStructure, ExtremumKind } from '../model';
 import { kpointAt } from '../model';
 import type { EdgeAnalysis, EdgeState } from './gap';
 import type { OccupationRule } from './occupation';
-import { kKey, type PathNetwork, type Ray } from './pathRays';
+import { kKey, oppositeRay, type PathNetwork, type Ray } from './pathRays';
+import { CROSSING_POINTS, findCrossing } from './bandCrossing';
 
 export interface ExtremumSite {
   spin: 0 | 1;
@@ -35,7 +36,7 @@ export interface ExtremumSite {
 export type NeighbourFn = (k: number) => number[];
 
 export function pathNeighbours(net: PathNetwork): NeighbourFn {
-  return (k) => net.raysFrom(k).map((r) => r.indices[1]!);
+  return (k) => net.neighboursOf(k);
 }
 
 /** Axis neighbours on a uniform grid stored first index slowest (periodic). */
@@ -106,7 +107,38 @@ export interface ExtremaInput {
   degeneracy_eV: number;
   /** Whether two k-points are equivalent by the crystal's symmetry (when it is known). */
   equivalent?: (k1: number, k2: number) => boolean;
+  /** Fit window, eV: a band closer than this at a candidate can be its crossing partner. Default 25 meV. */
+  window_eV?: number;
+  /** The decimal step the energies are written with, eV (0: full precision). */
+  precision_eV?: number;
 }
+
+export type RejectReason = 'saddle' | 'crossing' | 'boundary' | 'rounding' | 'shallow';
+
+/** A candidate that is not a minimum or a maximum of its band, and why. */
+export interface RejectedSite {
+  spin: 0 | 1;
+  k: number;
+  /** 0-based band. */
+  band: number;
+  energy: number;
+  reason: RejectReason;
+  detail: string;
+}
+
+export interface ExtremaSearch {
+  sites: ExtremumSite[];
+  rejected: RejectedSite[];
+}
+
+/** Energies that differ by less than this are equal (eV): the same written number read twice. */
+const TIE_EV = 1e-9;
+
+/**
+ * Candidates closer in energy than this many rounding steps are one extremum, and a candidate must stand
+ * out from its surroundings by more than this to be one (energies are known only to the written digits).
+ */
+export const ROUNDING_STEPS_MERGED = 3;
 
 /** From an edge point, move along the band to the sampled extremum it belongs to (edges are found within a tolerance). */
 function climb(bs: BandStructure, spin: number, band: number, k: number, up: boolean, neighbours: NeighbourFn | null): number {
@@ -125,15 +157,85 @@ function climb(bs: BandStructure, spin: number, band: number, k: number, up: boo
   return k;
 }
 
-export function locateExtrema(inp: ExtremaInput): ExtremumSite[] {
+interface TopRegion {
+  /** 'top' when nothing higher (for a maximum) lies within the tolerance; else why not. */
+  outcome: 'top' | 'higher' | 'flat';
+  /** k index of the middle of the plateau of equal top values. */
+  representative: number;
+  /** Every k index of the region (first occurrences). */
+  members: number[];
+}
+
+/**
+ * The region of a band around a candidate (connected through the neighbours) within `tol` below it (above,
+ * for a minimum): a plateau of equal rounded values, or values closer than the rounding can tell apart,
+ * is one extremum. Cost: the size of the region.
+ */
+function topRegion(e: Float64Array, nb: number, band: number, start: number, maximum: boolean, tol: number, neighbours: NeighbourFn, firstOf: Int32Array, nk: number): TopRegion {
+  const x = e[start * nb + band]!;
+  const sign = maximum ? 1 : -1;
+  const seen = new Set<number>([start]);
+  const queue = [start];
+  const plateau: number[] = [];
+  let outcome: TopRegion['outcome'] = 'top';
+  let dropSeen = false;
+  for (let q = 0; q < queue.length; q++) {
+    const i = queue[q]!;
+    if (sign * (e[i * nb + band]! - x) >= -TIE_EV) plateau.push(i);
+    for (const j0 of neighbours(i)) {
+      const j = firstOf[j0]!;
+      if (seen.has(j)) continue;
+      const d = sign * (e[j0 * nb + band]! - x);
+      if (d > TIE_EV) {
+        outcome = 'higher';
+        break;
+      }
+      if (d >= -tol) {
+        seen.add(j);
+        queue.push(j);
+      } else dropSeen = true;
+    }
+    if (outcome === 'higher') break;
+    if (queue.length > nk) break;
+  }
+  if (outcome === 'top' && !dropSeen) outcome = 'flat';
+  plateau.sort((a, b) => a - b);
+  return { outcome, representative: plateau[Math.floor((plateau.length - 1) / 2)] ?? start, members: queue };
+}
+
+function fracText(bs: BandStructure, k: number): string {
+  return `(${kpointAt(bs, k).map((x) => String(Number(x.toFixed(4)))).join(', ')})`;
+}
+
+export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
   const { bs, occ, edges } = inp;
   const sites: ExtremumSite[] = [];
+  const rejected: RejectedSite[] = [];
   const nb = bs.nBands;
-  if (!edges.vbm || !edges.cbm) return sites;
-  const keys: string[] = [];
-  for (let i = 0; i < bs.nk; i++) keys.push(kKey(kpointAt(bs, i)));
-  const seen = (spin: number, k: number, energy: number): boolean =>
-    sites.some((s) => s.spin === spin && keys[s.k] === keys[k] && Math.abs(s.energy - energy) <= inp.degeneracy_eV);
+  if (!edges.vbm || !edges.cbm) return { sites, rejected };
+  const keys: string[] = inp.network ? inp.network.keyOf : Array.from({ length: bs.nk }, (_, i) => kKey(kpointAt(bs, i)));
+  // First index of each k (modulo reciprocal lattice vectors): the point a repeated k is judged at.
+  const firstOfKey = new Map<string, number>();
+  const firstOf = new Int32Array(bs.nk);
+  for (let i = 0; i < bs.nk; i++) {
+    const f = firstOfKey.get(keys[i]!);
+    if (f === undefined) {
+      firstOfKey.set(keys[i]!, i);
+      firstOf[i] = i;
+    } else firstOf[i] = f;
+  }
+  const precision = inp.precision_eV ?? 0;
+  const mergeTol = Math.max(ROUNDING_STEPS_MERGED * precision, TIE_EV);
+  const window = inp.window_eV ?? 0.025;
+  const siteAt = new Map<string, ExtremumSite[]>();
+  const remember = (s: ExtremumSite): void => {
+    const key = `${s.spin}|${keys[s.k]}`;
+    const list = siteAt.get(key);
+    if (list) list.push(s);
+    else siteAt.set(key, [s]);
+  };
+  const seenAt = (spin: number, k: number, energy: number): boolean =>
+    (siteAt.get(`${spin}|${keys[k]}`) ?? []).some((s) => Math.abs(s.energy - energy) <= inp.degeneracy_eV);
 
   const edgeSite = (st: EdgeState, kind: 'vbm' | 'cbm'): ExtremumSite => {
     let k = st.k;
@@ -141,26 +243,24 @@ export function locateExtrema(inp: ExtremaInput): ExtremumSite[] {
     const moved = kind === 'vbm' ? inp.vbmIndex : inp.cbmIndex;
     if (moved !== null && st.spin === overall.spin && st.band === overall.band && st.energy === overall.energy) k = moved;
     k = climb(bs, st.spin, st.band, k, kind === 'vbm', inp.neighbours);
+    // A flat top of equal written values: the middle of the plateau.
+    if (inp.neighbours) {
+      const region = topRegion(bs.energies[st.spin]!, nb, st.band, firstOf[k]!, kind === 'vbm', TIE_EV, inp.neighbours, firstOf, bs.nk);
+      if (region.outcome !== 'higher') k = region.representative;
+    }
     const group = degenerateGroup(bs, st.spin, k, st.band, inp.degeneracy_eV);
     const band = kind === 'vbm' ? group[group.length - 1]! : group[0]!;
     const energy = bs.energies[st.spin]![k * nb + band]!;
     const warnings: string[] = [];
     if (inp.network) {
-      const rays = inp.network.raysFrom(k);
+      const rays = inp.network.raysFrom(k, (_, m) => m < 3);
       if (rays.length === 1 && extremumBeyondEnd(bs, st.spin, band, rays[0]!, kind === 'vbm')) {
         warnings.push(`The band is still ${kind === 'vbm' ? 'rising' : 'falling'} at the end of the path here: the true ${kind === 'vbm' ? 'maximum' : 'minimum'} lies beyond the sampled path, so this edge and its masses are approximate.`);
       }
+      const crossing = crossingAt(inp, st.spin, st.band, k, window, precision);
+      if (crossing) warnings.push(`This band edge is where two bands cross (${crossing}): band-index masses here are not curvature masses.`);
     }
-    return {
-      spin: st.spin,
-      k,
-      band,
-      energy,
-      kind,
-      offset: 0,
-      group,
-      warnings,
-    };
+    return { spin: st.spin, k, band, energy, kind, offset: 0, group, warnings };
   };
 
   for (const s of edges.spins) {
@@ -170,17 +270,24 @@ export function locateExtrema(inp: ExtremaInput): ExtremumSite[] {
   // Offsets from the overall edges (non-zero only for the other spin channel's edge).
   const overallV = Math.max(...sites.filter((s) => s.kind === 'vbm').map((s) => s.energy));
   const overallC = Math.min(...sites.filter((s) => s.kind === 'cbm').map((s) => s.energy));
-  for (const s of sites) s.offset = s.kind === 'vbm' ? overallV - s.energy : s.energy - overallC;
+  for (const s of sites) {
+    s.offset = s.kind === 'vbm' ? overallV - s.energy : s.energy - overallC;
+    remember(s);
+  }
   const neighbours = inp.neighbours;
-  if (!neighbours) return sites;
+  if (!neighbours) return { sites, rejected };
 
-  // Secondary extrema, each k visited once (the first of its repeats), both spin channels.
-  const firstOfKey = new Map<string, number>();
-  for (let i = 0; i < bs.nk; i++) if (!firstOfKey.has(keys[i]!)) firstOfKey.set(keys[i]!, i);
+  // Secondary extrema: each k visited once (the first of its repeats), both spin channels; only bands
+  // within the range of the edges. A candidate's region (plateau, rounding) is walked once.
   const found: ExtremumSite[] = [];
+  const reject = (r: RejectedSite): void => {
+    if (rejected.some((x) => x.spin === r.spin && x.band === r.band && keys[x.k] === keys[r.k])) return;
+    rejected.push(r);
+  };
   for (let spin = 0; spin < bs.nSpin; spin++) {
     const e = bs.energies[spin]!;
     const occupied = occ.occupied[spin]!;
+    const done = new Set<number>();
     for (const i of firstOfKey.values()) {
       const nbrs = neighbours(i);
       if (nbrs.length === 0) continue;
@@ -188,40 +295,152 @@ export function locateExtrema(inp: ExtremaInput): ExtremumSite[] {
         const x = e[i * nb + b]!;
         const valence = occupied[i * nb + b] === 1;
         if (valence ? x < overallV - inp.range_eV : x > overallC + inp.range_eV) continue;
-        let extremum = true;
-        let strict = false;
+        let up = 0;
+        let down = 0;
         for (const j of nbrs) {
           const y = e[j * nb + b]!;
-          if (valence ? y > x + 1e-9 : y < x - 1e-9) {
-            extremum = false;
-            break;
+          if (y > x + TIE_EV) up++;
+          else if (y < x - TIE_EV) down++;
+        }
+        const wanted = valence ? up === 0 : down === 0;
+        if (!wanted) {
+          if (up > 0 && down > 0 && nbrs.length >= 2) {
+            const saddle = stationarySaddle(inp, spin, b, i, precision);
+            if (saddle) reject({ spin: spin as 0 | 1, k: i, band: b, energy: x, reason: 'saddle', detail: saddle });
           }
-          if (Math.abs(y - x) > 1e-9) strict = true;
+          continue;
         }
-        if (!extremum || !strict) continue;
+        if (done.has(i * nb + b)) continue;
+        // First the plateau of equal values: a step of the rounding on a slope leads higher, silently.
+        const plateau = topRegion(e, nb, b, i, valence, TIE_EV, neighbours, firstOf, bs.nk);
+        for (const m of plateau.members) done.add(m * nb + b);
+        if (plateau.outcome === 'higher') continue;
+        let region = plateau;
+        if (mergeTol > TIE_EV) {
+          // Then everything the rounding cannot tell apart from it.
+          region = topRegion(e, nb, b, i, valence, mergeTol, neighbours, firstOf, bs.nk);
+          for (const m of region.members) done.add(m * nb + b);
+          if (region.outcome === 'higher') {
+            reject({ spin: spin as 0 | 1, k: plateau.representative, band: b, energy: x, reason: 'rounding', detail: `within ${ROUNDING_STEPS_MERGED} rounding steps (${(mergeTol * 1000).toPrecision(2)} meV) of a ${valence ? 'higher' : 'lower'} point of the same band: one extremum, counted there` });
+            continue;
+          }
+        }
+        const k = plateau.representative;
+        const xk = e[k * nb + b]!;
+        if (region.outcome === 'flat') {
+          reject({ spin: spin as 0 | 1, k, band: b, energy: xk, reason: 'shallow', detail: `the band varies by no more than ${(mergeTol * 1000).toPrecision(2)} meV around here: no extremum stands out from the rounding` });
+          continue;
+        }
         if (inp.network) {
-          const rays = inp.network.raysFrom(i);
-          if (rays.length === 1 && extremumBeyondEnd(bs, spin, b, rays[0]!, valence)) continue;
+          const rays = inp.network.raysFrom(k, (_, m) => m < 3);
+          if (rays.length === 1 && extremumBeyondEnd(bs, spin, b, rays[0]!, valence)) {
+            reject({ spin: spin as 0 | 1, k, band: b, energy: xk, reason: 'boundary', detail: `at the end of the sampled path with the band still ${valence ? 'rising' : 'falling'} beyond it` });
+            continue;
+          }
+          const crossing = crossingAt(inp, spin, b, k, window, precision);
+          if (crossing) {
+            reject({ spin: spin as 0 | 1, k, band: b, energy: xk, reason: 'crossing', detail: crossing });
+            continue;
+          }
         }
-        if (inp.equivalent && [...sites, ...found].some((f) => f.spin === spin && Math.abs(f.energy - x) <= inp.degeneracy_eV && inp.equivalent!(f.k, i))) continue;
-        if (seen(spin, i, x) || found.some((f) => f.spin === spin && keys[f.k] === keys[i] && Math.abs(f.energy - x) <= inp.degeneracy_eV)) continue;
-        // Equal-energy neighbours on either side of a vertex midway between samples: keep one.
-        if (found.some((f) => f.spin === spin && f.band === b && Math.abs(f.energy - x) < 1e-9 && nbrs.includes(f.k))) continue;
-        const group = degenerateGroup(bs, spin, i, b, inp.degeneracy_eV);
+        if (inp.equivalent && [...sites, ...found].some((f) => f.spin === spin && Math.abs(f.energy - xk) <= inp.degeneracy_eV && inp.equivalent!(f.k, k))) continue;
+        if (seenAt(spin, k, xk)) continue;
+        const group = degenerateGroup(bs, spin, k, b, inp.degeneracy_eV);
         const rep = valence ? group[group.length - 1]! : group[0]!;
-        found.push({
+        const site: ExtremumSite = {
           spin: spin as 0 | 1,
-          k: i,
+          k,
           band: rep,
-          energy: e[i * nb + rep]!,
+          energy: e[k * nb + rep]!,
           kind: valence ? 'peak' : 'valley',
-          offset: valence ? overallV - e[i * nb + rep]! : e[i * nb + rep]! - overallC,
+          offset: valence ? overallV - e[k * nb + rep]! : e[k * nb + rep]! - overallC,
           group,
           warnings: [],
-        });
+        };
+        found.push(site);
+        remember(site);
       }
     }
   }
   found.sort((a, b) => a.offset - b.offset || a.spin - b.spin || a.k - b.k);
-  return [...sites, ...found];
+  rejected.sort((a, b) => a.spin - b.spin || a.band - b.band || a.k - b.k);
+  return { sites: [...sites, ...found], rejected };
+}
+
+/** A few points along each direction: enough for the crossing and saddle tests. */
+function shortRays(net: PathNetwork, k: number): Ray[] {
+  return net.raysFrom(k, (_, m) => m <= CROSSING_POINTS);
+}
+
+/** One sentence naming the crossing at a candidate, or null. */
+function crossingAt(inp: ExtremaInput, spin: number, band: number, k: number, window: number, precision: number): string | null {
+  const net = inp.network;
+  if (!net) return null;
+  const e = inp.bs.energies[spin]!;
+  const nb = inp.bs.nBands;
+  const rays = shortRays(net, k);
+  const found = findCrossing({
+    energy: (b, kk) => e[kk * nb + b]!,
+    nBands: nb,
+    band,
+    rays,
+    opposite: (r) => oppositeRay(rays, r),
+    timeReversalInvariant: timeReversalInvariantK(inp.bs, k),
+    window_eV: window,
+    precision_eV: precision,
+  });
+  if (!found) return null;
+  const gap = found.gap_eV * 1000;
+  return `bands ${band + 1} and ${found.partner + 1} cross at ${fracText(inp.bs, k)} along the line towards ${found.towards} (near-linear on both sides, slopes swapped between the bands${gap > 1 ? `; an avoided crossing with a ${gap.toFixed(1)} meV gap` : ''}): the branches continue through the point, so there is no extremum`;
+}
+
+/**
+ * At a junction of path directions where the band rises along some and falls along others: a saddle when
+ * the band is stationary along every direction (the vertex of the parabola through its first three points
+ * lies within half a step of the point). A sloped point (the band just runs through) is not a candidate.
+ */
+function stationarySaddle(inp: ExtremaInput, spin: number, band: number, k: number, precision: number): string | null {
+  const net = inp.network;
+  if (!net) return null;
+  const e = inp.bs.energies[spin]!;
+  const nb = inp.bs.nBands;
+  const rays = net.raysFrom(k, (_, m) => m < 3);
+  if (rays.length < 2) return null;
+  // Opposite rays with opposite first steps: the band runs through the point along that line.
+  for (const r of rays) {
+    const o = oppositeRay(rays, r);
+    if (!o) continue;
+    const a = e[r.indices[1]! * nb + band]! - e[k * nb + band]!;
+    const b = e[o.indices[1]! * nb + band]! - e[k * nb + band]!;
+    if (a * b < 0) return null;
+  }
+  let rising = 0;
+  let falling = 0;
+  const trim = timeReversalInvariantK(inp.bs, k);
+  for (const r of rays) {
+    if (r.indices.length < 3) return null;
+    const [t1, t2] = [r.t[1]!, r.t[2]!];
+    const [e0, e1, e2] = [0, 1, 2].map((m) => e[r.indices[m]! * nb + band]!) as [number, number, number];
+    const c2 = ((e2 - e0) / t2 - (e1 - e0) / t1) / (t2 - t1);
+    const c1 = (e1 - e0) / t1 - c2 * t1;
+    if (Math.abs(e2 - e0) <= 3 * precision + TIE_EV) return null;
+    if (!trim) {
+      if (c2 === 0) return null;
+      const tv = -c1 / (2 * c2);
+      if (Math.abs(tv) > 0.5 * t1) return null;
+    }
+    if (c2 > 0) rising++;
+    else if (c2 < 0) falling++;
+  }
+  if (!(rising > 0 && falling > 0)) return null;
+  return `the band is stationary here but curves up along ${rising} and down along ${falling} of the ${rays.length} path directions`;
+}
+
+/** k ≡ −k modulo a reciprocal lattice vector (2k integer). */
+export function timeReversalInvariantK(bs: BandStructure, kIndex: number): boolean {
+  for (let c = 0; c < 3; c++) {
+    const twice = 2 * bs.kpoints[3 * kIndex + c]!;
+    if (Math.abs(twice - Math.round(twice)) > 1e-6) return false;
+  }
+  return true;
 }

@@ -4,14 +4,14 @@
  * directional masses where the little group of k makes them sufficient), averaged masses — each number with
  * its provenance. Also the editor's entry points: a fit at a clicked point and the mass-versus-window scan.
  */
-import type { BandStructure, ExtremumKind, ExtremumReport, MassFit, MassTensor, Report, Vec3 } from '../model';
+import type { BandStructure, ExtremumKind, ExtremumReport, MassFit, MassTensor, RejectedCandidate, Report, Vec3 } from '../model';
 import { kpointAt, labelAt } from '../model';
 import type { AnalysisSettings } from './analyze';
 import { bandEdges, type EdgeAnalysis } from './gap';
 import { occupationRule, type OccupationRule } from './occupation';
-import { energySigma } from './energyResolution';
+import { energyRoundingStep, energySigma } from './energyResolution';
 import { degenerateGroup, gridNeighbours, locateExtrema, pathNeighbours, type ExtremumSite, type NeighbourFn } from './extrema';
-import { pathNetwork, kKey, type PathNetwork } from './pathRays';
+import { pathNetwork, kKey, type PathNetwork, type RayExtent } from './pathRays';
 import { directionalMasses } from './directionalMasses';
 import type { CurvatureFit } from './fits/types';
 import { oppositeRay, type Ray } from './pathRays';
@@ -141,7 +141,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     if (!network.hasLengths) warnings.push('No lattice and no written path distances: masses cannot be given in m_e.');
     else {
       if (network.geometry.cartesian === null) warnings.push('No lattice: distances are as the file wrote them and directions are unknown (written as zero vectors).');
-      const rays = network.raysFrom(site.k);
+      const rays = network.raysFrom(site.k, fitExtent(bs, site, settings.window_meV / 1000));
       const dm = directionalMasses(bs, site.spin, site.group, site.band, rays, {
         method: settings.method,
         window_meV: settings.window_meV,
@@ -166,19 +166,23 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   }
 
   // Tensor from directional masses and the little group of k, when the path and symmetry suffice.
-  if (!tensor && g === 1 && masses.length > 0 && bs.lattice && network?.geometry.cartesian) {
+  const quotable = masses.filter((m) => m.determined);
+  if (masses.length > quotable.length) {
+    warnings.push(`${masses.length - quotable.length} of the ${masses.length} directional masses are undetermined (see each one): averaged masses and the tensor use only the determined ones.`);
+  }
+  if (!tensor && g === 1 && quotable.length > 0 && bs.lattice && network?.geometry.cartesian) {
     const ops = cartesianLittleGroup(ctx.symmetry, k, bs.lattice);
     if (ops) {
       const r = tensorFromDirections(
-        masses.map((m) => ({ direction: m.direction, inverseMass: 1 / m.mass })),
+        quotable.map((m) => ({ direction: m.direction, inverseMass: 1 / m.mass })),
         ops,
       );
       if (r.result) {
         tensor = {
           principal: r.result.principal,
           axes: r.result.axes,
-          method: `from ${masses.length} directional mass${masses.length === 1 ? '' : 'es'} and the little group of k (${r.result.operations} operations with time reversal, ${r.result.components} independent component${r.result.components === 1 ? '' : 's'})`,
-          points: masses.reduce((s, m) => s + m.points, 0),
+          method: `from ${quotable.length} directional mass${quotable.length === 1 ? '' : 'es'} and the little group of k (${r.result.operations} operations with time reversal, ${r.result.components} independent component${r.result.components === 1 ? '' : 's'})`,
+          points: quotable.reduce((s, m) => s + m.points, 0),
         };
       } else if (r.reason) {
         warnings.push(`No mass tensor: ${r.reason}. A stencil run (valleyscope stencil --at ${site.kind === 'vbm' || site.kind === 'cbm' ? site.kind : fracText(k)}) gives the full tensor.`);
@@ -193,6 +197,8 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     dosMass = av.dosMass;
     conductivityMass = av.conductivityMass;
     warnings.push(av.note);
+  } else if (g > 1 && masses.length > 0 && quotable.length < masses.length) {
+    warnings.push('No density-of-states mass for the degenerate branches: some branch masses are undetermined.');
   } else if (g > 1 && masses.length > 0) {
     // Several bands share the edge: the multi-band DOS mass (Σ m_i^(3/2))^(2/3), each branch's mass its
     // DOS-weighted average over the path directions, ⟨|m|^(3/2)⟩^(2/3).
@@ -254,7 +260,7 @@ export interface EdgeInputs {
 /** Fill `report.extrema` (called by analyzeBandStructure once the gap is known). */
 export function analyseExtrema(bs: BandStructure, report: Report, settings: AnalysisSettings, inputs: EdgeInputs): void {
   const ctx = engineContext(bs);
-  const sites = locateExtrema({
+  const search = locateExtrema({
     bs,
     occ: inputs.occ,
     edges: inputs.edges,
@@ -265,11 +271,70 @@ export function analyseExtrema(bs: BandStructure, report: Report, settings: Anal
     range_eV: settings.range_eV,
     degeneracy_eV: settings.degeneracy_meV / 1000,
     equivalent: equivalenceOf(ctx),
+    window_eV: settings.window_meV / 1000,
+    precision_eV: energyRoundingStep(bs),
   });
   if (!ctx.neighbours && bs.nk > 1) {
     report.warnings.push('The k-points form neither a path nor a known grid: secondary extrema were not searched.');
   }
-  report.extrema = sites.map((s) => characterise(ctx, s, settings));
+  const rejected: RejectedCandidate[] = search.rejected.map((r) => ({
+    band: r.band + 1,
+    spin: r.spin,
+    k: kpointAt(bs, r.k),
+    eV: r.energy,
+    reason: r.reason,
+    detail: r.detail,
+  }));
+  const extrema: ExtremumReport[] = [];
+  for (const site of search.sites) {
+    const x = characterise(ctx, site, settings);
+    const saddle = saddleFromMasses(x);
+    if (saddle && (x.kind === 'peak' || x.kind === 'valley')) {
+      rejected.push({ band: x.band, spin: x.spin, k: x.k, eV: x.eV, reason: 'saddle', detail: saddle });
+      continue;
+    }
+    if (saddle) x.warnings.push(`This band edge is a saddle point of the band, not an extremum: ${saddle}.`);
+    extrema.push(x);
+  }
+  report.extrema = extrema;
+  report.rejected = rejected;
+}
+
+/**
+ * A saddle seen in the fits: determined directional masses of both signs (each clear of zero by two
+ * standard errors), or a tensor with principal masses of both signs. Only for a single band: the branches
+ * of a degenerate edge may curve differently.
+ */
+export function saddleFromMasses(x: ExtremumReport): string | null {
+  if (x.degenerateBands > 1) return null;
+  const clear = x.masses.filter((m) => m.determined && Math.abs(m.mass) > 2 * m.stderr);
+  const up = clear.filter((m) => m.mass > 0);
+  const down = clear.filter((m) => m.mass < 0);
+  if (up.length && down.length) {
+    return `the band curves up towards ${up.map((m) => m.towards).join(', ')} (m* ${up.map((m) => m.mass.toPrecision(3)).join(', ')} m_e) and down towards ${down.map((m) => m.towards).join(', ')} (m* ${down.map((m) => m.mass.toPrecision(3)).join(', ')} m_e)`;
+  }
+  if (x.tensor && !x.tensor.method.startsWith('from')) {
+    const p = x.tensor.principal;
+    if (p.some((m) => m > 0) && p.some((m) => m < 0)) return `the fitted mass tensor has principal masses of both signs (${p.map((m) => m.toPrecision(3)).join(', ')} m_e)`;
+  }
+  return null;
+}
+
+/**
+ * How far along each direction the fits need points: past the window of every band of the site (twice
+ * the window, for branches that change band), and never fewer than a dozen points (the window grows to
+ * the fewest points a fit needs). Keeps the work per extremum proportional to the points near it.
+ */
+function fitExtent(bs: BandStructure, site: ExtremumSite, window_eV: number): RayExtent {
+  const e = bs.energies[site.spin]!;
+  const nb = bs.nBands;
+  const e0 = site.energy;
+  const limit = 2 * window_eV + 1e-9;
+  return (k, m) => {
+    if (m < 12) return true;
+    for (const b of site.group) if (Math.abs(e[k * nb + b]! - e0) <= limit) return true;
+    return false;
+  };
 }
 
 // ---------------------------------------------------------------------------------------------------------

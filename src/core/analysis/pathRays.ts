@@ -2,7 +2,8 @@
  * The directions leaving a k-point along a band path. A point is found at every place the path visits it
  * (the same k, or one equal to it modulo a reciprocal lattice vector); from each visit, the path segments
  * that contain it give one direction each way: both sides of an interior point, both segments at a turn or
- * a repeated corner. A direction is a ray of sampled points running to the segment's far end.
+ * a repeated corner. A direction is a ray of sampled points running towards the segment's far end, cut
+ * where the caller says it has enough (rays are built on demand, so memory stays linear in the path).
  */
 import type { BandStructure, Vec3 } from '../model';
 import { kpointAt, labelAt } from '../model';
@@ -26,7 +27,13 @@ export interface PathNetwork {
   /** Identity of each k index modulo reciprocal lattice vectors. */
   keyOf: string[];
   occurrences: Map<string, number[]>;
-  raysFrom(index: number): Ray[];
+  /**
+   * The rays leaving a point, one per direction. Without `extent` each runs to its segment's far end (cost
+   * proportional to the segment); with it, only as far as the caller needs.
+   */
+  raysFrom(index: number, extent?: RayExtent): Ray[];
+  /** The first sampled point along each direction leaving a point (cheap: no ray is built). */
+  neighboursOf(index: number): number[];
 }
 
 /** A key equal for k-points that differ by a reciprocal lattice vector. */
@@ -45,85 +52,118 @@ export function fractionalText(k: Vec3): string {
   return `(${k.map((x) => String(Number(x.toFixed(4)))).join(', ')})`;
 }
 
+/**
+ * Which sampled points a ray keeps beyond its first two: called with the k index and the position m ≥ 2 along
+ * the ray; the ray stops before the first point for which it returns false. Without it a ray runs to the
+ * segment's far end.
+ */
+export type RayExtent = (kIndex: number, m: number) => boolean;
+
 export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeometry(bs)): PathNetwork {
-  const keyOf: string[] = [];
+  const keyOf: string[] = new Array<string>(bs.nk);
   const occurrences = new Map<string, number[]>();
   for (let i = 0; i < bs.nk; i++) {
     const key = kKey(kpointAt(bs, i));
-    keyOf.push(key);
+    keyOf[i] = key;
     const list = occurrences.get(key);
     if (list) list.push(i);
     else occurrences.set(key, [i]);
   }
-  const segmentsAt: number[][] = Array.from({ length: bs.nk }, () => []);
+  // Segments are index ranges that overlap only at a shared corner: a point lies in at most two of them.
+  const segA = new Int32Array(bs.nk).fill(-1);
+  const segB = new Int32Array(bs.nk).fill(-1);
   geometry.segments.forEach((s, si) => {
-    for (let i = s.start; i <= s.end; i++) segmentsAt[i]!.push(si);
+    for (let i = s.start; i <= s.end; i++) {
+      if (segA[i] === -1) segA[i] = si;
+      else segB[i] = si;
+    }
   });
   const cart = geometry.cartesian;
   const hasLengths = cart !== null || geometry.units === 'written';
+  // Full rays are built only for the points asked about (extrema, clicks), and only the last few are kept:
+  // memory stays linear in the path length.
   const cache = new Map<string, Ray[]>();
+  const CACHE_SIZE = 32;
 
   const position = (i: number): Vec3 => (cart ? [cart[3 * i]!, cart[3 * i + 1]!, cart[3 * i + 2]!] : kpointAt(bs, i));
-  const makeRay = (from: number, to: number): Ray | null => {
+  const distanceBetween = (a: number, b: number): number => {
+    if (cart) return Math.hypot(cart[3 * b]! - cart[3 * a]!, cart[3 * b + 1]! - cart[3 * a + 1]!, cart[3 * b + 2]! - cart[3 * a + 2]!);
+    return Math.abs(geometry.distance[b]! - geometry.distance[a]!);
+  };
+  /** Unit vector from one sampled point towards another (cartesian with a lattice, fractional without). */
+  const unitBetween = (a: number, b: number): Vec3 | null => {
+    const pa = position(a);
+    const pb = position(b);
+    const d: Vec3 = [pb[0] - pa[0], pb[1] - pa[1], pb[2] - pa[2]];
+    const len = Math.hypot(...d);
+    return len > 0 ? [d[0] / len, d[1] / len, d[2] / len] : null;
+  };
+  const makeRay = (from: number, to: number, extent?: RayExtent): Ray | null => {
     const step = to > from ? 1 : -1;
-    const n = Math.abs(to - from) + 1;
-    if (n < 2) return null;
+    const full = Math.abs(to - from) + 1;
+    if (full < 2) return null;
+    const u = unitBetween(from, to);
+    if (!u) return null;
+    let n = Math.min(full, 2);
+    while (n < full && (!extent || extent(from + n * step, n))) n++;
     const indices = new Int32Array(n);
     const t = new Float64Array(n);
-    const p0 = position(from);
     for (let m = 0; m < n; m++) {
       const i = from + m * step;
       indices[m] = i;
-      if (cart) {
-        const p = position(i);
-        t[m] = Math.hypot(p[0] - p0[0], p[1] - p0[1], p[2] - p0[2]);
-      } else t[m] = Math.abs(geometry.distance[i]! - geometry.distance[from]!);
+      t[m] = distanceBetween(from, i);
     }
-    const pe = position(to);
-    const d: Vec3 = [pe[0] - p0[0], pe[1] - p0[1], pe[2] - p0[2]];
-    const len = Math.hypot(...d);
-    if (!(len > 0)) return null;
-    const direction: Vec3 = cart ? [d[0] / len, d[1] / len, d[2] / len] : [0, 0, 0];
+    const direction: Vec3 = cart ? u : [0, 0, 0];
     const towards = labelAt(bs, to) ?? fractionalText(kpointAt(bs, to));
     return { indices, t, direction, towards };
   };
-  const unitFractional = (r: Ray): Vec3 => {
-    const a = kpointAt(bs, r.indices[0]!);
-    const b = kpointAt(bs, r.indices[r.indices.length - 1]!);
-    const d: Vec3 = [b[0] - a[0], b[1] - a[1], b[2] - a[2]];
-    const len = Math.hypot(...d);
-    return [d[0] / len, d[1] / len, d[2] / len];
-  };
 
-  const raysFrom = (index: number): Ray[] => {
-    const key = keyOf[index]!;
-    const hit = cache.get(key);
-    if (hit) return hit;
-    const rays: Ray[] = [];
-    const dirs: Vec3[] = [];
-    for (const j of occurrences.get(key) ?? [index]) {
-      for (const si of segmentsAt[j]!) {
+  /**
+   * The segment ends reachable from a point, one per distinct direction, with the occurrence they start
+   * from (a path walked twice: the longer run is kept).
+   */
+  const legsFrom = (index: number): { from: number; to: number; u: Vec3 }[] => {
+    const legs: { from: number; to: number; u: Vec3 }[] = [];
+    for (const j of occurrences.get(keyOf[index]!) ?? [index]) {
+      for (const si of [segA[j]!, segB[j]!]) {
+        if (si < 0) continue;
         const s = geometry.segments[si]!;
         for (const end of [s.start, s.end]) {
           if (end === j) continue;
-          const r = makeRay(j, end);
-          if (!r) continue;
-          const u = cart ? r.direction : unitFractional(r);
-          const same = dirs.findIndex((d) => d[0] * u[0] + d[1] * u[1] + d[2] * u[2] > 1 - 1e-6);
+          // Direction from the segment's far end: the first step alone is short against the k-points' digits.
+          const u = unitBetween(j, end);
+          if (!u) continue;
+          const same = legs.findIndex((l) => l.u[0] * u[0] + l.u[1] * u[1] + l.u[2] * u[2] > 1 - 1e-6);
           if (same >= 0) {
-            // The same direction seen twice (a path walked twice): keep the better-sampled ray.
-            if (r.indices.length > rays[same]!.indices.length) rays[same] = r;
+            if (Math.abs(end - j) > Math.abs(legs[same]!.to - legs[same]!.from)) legs[same] = { from: j, to: end, u };
             continue;
           }
-          rays.push(r);
-          dirs.push(u);
+          legs.push({ from: j, to: end, u });
         }
       }
     }
-    cache.set(key, rays);
+    return legs;
+  };
+
+  const raysFrom = (index: number, extent?: RayExtent): Ray[] => {
+    const key = keyOf[index]!;
+    if (!extent) {
+      const hit = cache.get(key);
+      if (hit) return hit;
+    }
+    const rays: Ray[] = [];
+    for (const l of legsFrom(index)) {
+      const r = makeRay(l.from, l.to, extent);
+      if (r) rays.push(r);
+    }
+    if (!extent) {
+      if (cache.size >= CACHE_SIZE) cache.delete(cache.keys().next().value as string);
+      cache.set(key, rays);
+    }
     return rays;
   };
-  return { geometry, hasLengths, keyOf, occurrences, raysFrom };
+  const neighboursOf = (index: number): number[] => legsFrom(index).map((l) => (l.to > l.from ? l.from + 1 : l.from - 1));
+  return { geometry, hasLengths, keyOf, occurrences, raysFrom, neighboursOf };
 }
 
 /** The ray running the opposite way along the same line, when there is one. */
