@@ -171,7 +171,7 @@ interface TopRegion {
  * for a minimum): a plateau of equal rounded values, or values closer than the rounding can tell apart,
  * is one extremum. Cost: the size of the region.
  */
-function topRegion(e: Float64Array, nb: number, band: number, start: number, maximum: boolean, tol: number, neighbours: NeighbourFn, firstOf: Int32Array, nk: number): TopRegion {
+function topRegion(bs: BandStructure, e: Float64Array, nb: number, band: number, start: number, maximum: boolean, tol: number, neighbours: NeighbourFn, firstOf: Int32Array, nk: number): TopRegion {
   const x = e[start * nb + band]!;
   const sign = maximum ? 1 : -1;
   const seen = new Set<number>([start]);
@@ -199,8 +199,36 @@ function topRegion(e: Float64Array, nb: number, band: number, start: number, max
     if (queue.length > nk) break;
   }
   if (outcome === 'top' && !dropSeen) outcome = 'flat';
-  plateau.sort((a, b) => a - b);
-  return { outcome, representative: plateau[Math.floor((plateau.length - 1) / 2)] ?? start, members: queue };
+  return { outcome, representative: outcome === 'higher' ? start : plateauCentre(bs, plateau, neighbours, firstOf), members: queue };
+}
+
+/**
+ * The point that stands for a plateau of equal values: a time-reversal-invariant k on it (E is even about
+ * such a point, so the plateau is centred there), else the middle of the plateau's longest run of
+ * neighbours (two breadth-first passes; cost: the plateau's size).
+ */
+function plateauCentre(bs: BandStructure, plateau: number[], neighbours: NeighbourFn, firstOf: Int32Array): number {
+  if (plateau.length <= 2) return Math.min(...plateau);
+  for (const i of plateau) if (timeReversalInvariantK(bs, i)) return i;
+  const inside = new Set(plateau);
+  const walk = (from: number): { far: number; parent: Map<number, number> } => {
+    const parent = new Map<number, number>([[from, -1]]);
+    const queue = [from];
+    for (let q = 0; q < queue.length; q++) {
+      for (const j0 of neighbours(queue[q]!)) {
+        const j = firstOf[j0]!;
+        if (!inside.has(j) || parent.has(j)) continue;
+        parent.set(j, queue[q]!);
+        queue.push(j);
+      }
+    }
+    return { far: queue[queue.length - 1]!, parent };
+  };
+  const a = walk(Math.min(...plateau)).far;
+  const { far: b, parent } = walk(a);
+  const chain: number[] = [];
+  for (let x = b; x !== -1; x = parent.get(x)!) chain.push(x);
+  return chain[Math.floor((chain.length - 1) / 2)]!;
 }
 
 function fracText(bs: BandStructure, k: number): string {
@@ -245,7 +273,7 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
     k = climb(bs, st.spin, st.band, k, kind === 'vbm', inp.neighbours);
     // A flat top of equal written values: the middle of the plateau.
     if (inp.neighbours) {
-      const region = topRegion(bs.energies[st.spin]!, nb, st.band, firstOf[k]!, kind === 'vbm', TIE_EV, inp.neighbours, firstOf, bs.nk);
+      const region = topRegion(bs, bs.energies[st.spin]!, nb, st.band, firstOf[k]!, kind === 'vbm', TIE_EV, inp.neighbours, firstOf, bs.nk);
       if (region.outcome !== 'higher') k = region.representative;
     }
     const group = degenerateGroup(bs, st.spin, k, st.band, inp.degeneracy_eV);
@@ -312,13 +340,13 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
         }
         if (done.has(i * nb + b)) continue;
         // First the plateau of equal values: a step of the rounding on a slope leads higher, silently.
-        const plateau = topRegion(e, nb, b, i, valence, TIE_EV, neighbours, firstOf, bs.nk);
+        const plateau = topRegion(bs, e, nb, b, i, valence, TIE_EV, neighbours, firstOf, bs.nk);
         for (const m of plateau.members) done.add(m * nb + b);
         if (plateau.outcome === 'higher') continue;
         let region = plateau;
         if (mergeTol > TIE_EV) {
           // Then everything the rounding cannot tell apart from it.
-          region = topRegion(e, nb, b, i, valence, mergeTol, neighbours, firstOf, bs.nk);
+          region = topRegion(bs, e, nb, b, i, valence, mergeTol, neighbours, firstOf, bs.nk);
           for (const m of region.members) done.add(m * nb + b);
           if (region.outcome === 'higher') {
             reject({ spin: spin as 0 | 1, k: plateau.representative, band: b, energy: x, reason: 'rounding', detail: `within ${ROUNDING_STEPS_MERGED} rounding steps (${(mergeTol * 1000).toPrecision(2)} meV) of a ${valence ? 'higher' : 'lower'} point of the same band: one extremum, counted there` });
