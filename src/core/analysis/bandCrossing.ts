@@ -2,8 +2,9 @@
  * Whether a band-index extremum is a crossing: two branches that run straight through a point, where
  * ordering the states by energy makes one band index turn back (a kink, "V" or "Λ") and the other turn the
  * other way. The signs of a crossing (common practice of band-structure reading; no curvature is involved):
- *   - along a line through the point, the band is near-linear on both sides, with outward slopes of the
- *     same sign (so it looks like a minimum or a maximum);
+ *   - along a line through the point, the band leaves it near-linearly on both sides (the second step
+ *     continues the first instead of steepening as a parabola would), with outward slopes of the same sign
+ *     (so it looks like a minimum or a maximum);
  *   - another band within the fit window at the point has the swapped slopes: what leaves on one side in
  *     one band arrives on the other side in the other band, so each branch continues through the point.
  * A small avoided-crossing gap (smaller than the sampling resolves) looks the same and is treated the same.
@@ -13,60 +14,43 @@
 import type { Ray } from './pathRays';
 
 export interface LineSlope {
-  /** Outward slope dE/dt, eV·Å. */
+  /** Outward slope dE/dt over the first step, eV·Å. */
   slope: number;
-  /** Whether the points follow a straight line (rms residual small against the energy span). */
+  /** Whether the band leaves the point along a straight line (a kink), not a parabola. */
   linear: boolean;
 }
 
-/** Most points used on each side: enough to see a line, few enough to stay near the point. */
-export const CROSSING_POINTS = 4;
-
-/** Rms residual of a straight line through the side's points, as a share of their energy span, still called linear. */
-const LINEAR_SHARE = 0.03;
-
-/** Relative mismatch of two slopes still counted as the same branch. */
-const SLOPE_MATCH = 0.15;
+/** Points used on each side: the point, its neighbour, and the next one. */
+export const CROSSING_POINTS = 2;
 
 /**
- * Straight-line fit through the points 1..M of a ray (the centre point excluded, so a small gap at the
- * centre does not bend it). Null with fewer than two points.
+ * Slope of the first step over slope of the second, above which a side leaves the point as a line. For a
+ * straight line the ratio is 1; for a parabola with its vertex at the point, 1/3 (uniform steps), and at
+ * most 1/2 with the vertex anywhere within half a step (analytic: E = c(t + δ)², |δ| ≤ h/2); a small
+ * avoided-crossing gap lowers it below 1 only a little.
+ */
+const LINEAR_RATIO = 0.7;
+
+/**
+ * How the band leaves the point along a ray: the slope of the first step and whether the second step
+ * continues it (a line) or steepens (a parabola). Null with fewer than three points.
  */
 export function sideSlope(energy: (k: number) => number, ray: Ray, precision_eV: number): LineSlope | null {
-  const m = Math.min(CROSSING_POINTS, ray.indices.length - 1);
-  if (m < 2) return null;
-  let st = 0;
-  let se = 0;
-  for (let i = 1; i <= m; i++) {
-    st += ray.t[i]!;
-    se += energy(ray.indices[i]!);
-  }
-  const tm = st / m;
-  const em = se / m;
-  let stt = 0;
-  let ste = 0;
-  for (let i = 1; i <= m; i++) {
-    const dt = ray.t[i]! - tm;
-    stt += dt * dt;
-    ste += dt * (energy(ray.indices[i]!) - em);
-  }
-  if (!(stt > 0)) return null;
-  const slope = ste / stt;
-  let rss = 0;
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (let i = 1; i <= m; i++) {
-    const y = energy(ray.indices[i]!);
-    rss += (y - em - slope * (ray.t[i]! - tm)) ** 2;
-    lo = Math.min(lo, y);
-    hi = Math.max(hi, y);
-  }
-  const span = hi - lo;
-  const rms = Math.sqrt(rss / m);
+  if (ray.indices.length < 3) return null;
+  const [t1, t2] = [ray.t[1]!, ray.t[2]!];
+  if (!(t1 > 0 && t2 > t1)) return null;
+  const e0 = energy(ray.indices[0]!);
+  const e1 = energy(ray.indices[1]!);
+  const e2 = energy(ray.indices[2]!);
+  const s1 = (e1 - e0) / t1;
+  const s2 = (e2 - e1) / (t2 - t1);
   // A slope lost in the rounding of the file is no slope.
-  const resolved = span > 3 * precision_eV + 1e-9;
-  return { slope, linear: resolved && rms <= LINEAR_SHARE * span + precision_eV };
+  const resolved = Math.abs(e1 - e0) > 3 * precision_eV + 1e-9;
+  return { slope: s1, linear: resolved && s2 !== 0 && s1 / s2 > LINEAR_RATIO };
 }
+
+/** Relative mismatch of two first-step slopes still counted as one branch (the chords include curvature). */
+const SLOPE_MATCH = 0.3;
 
 function sameBranch(a: number, b: number): boolean {
   return Math.abs(a - b) <= SLOPE_MATCH * Math.max(Math.abs(a), Math.abs(b));
