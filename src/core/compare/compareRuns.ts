@@ -109,7 +109,7 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
     const map = new Map<ExtremumReport, string>();
     // Group this run's extrema by (side, spin, valley); branch = energy order within the group.
     const groups: { side: Side; spin: 0 | 1; k: Vec3; members: ExtremumReport[] }[] = [];
-    for (const e of run.report.extrema) {
+    for (const e of trackedExtrema(run.report, rots)) {
       const side = sideOf(e);
       const g = groups.find((x) => x.side === side && x.spin === e.spin && equivalenceDistance(x.k, e.k, rots) < 1e-4);
       if (g) g.members.push(e);
@@ -156,11 +156,13 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
       const masses: MassChange[] = e.masses.map((m) => {
         // Same direction and, at a degenerate edge, the same branch (heavy with heavy, light with light).
         const rm = r?.masses.find((x) => x.towards === m.towards && (x.branch ?? 0) === (m.branch ?? 0)) ?? null;
+        // A change is given only between masses that can be quoted (an undetermined one has no value to compare).
+        const both = !!rm && m.determined !== false && rm.determined !== false;
         return {
           towards: m.branch !== undefined ? `${m.towards} (branch ${m.branch})` : m.towards,
           mass: m.mass,
           referenceMass: rm ? rm.mass : null,
-          relativeChange: rm ? (m.mass - rm.mass) / Math.abs(rm.mass) : null,
+          relativeChange: both ? (m.mass - rm!.mass) / Math.abs(rm!.mass) : null,
         };
       });
       valleys[id] = { extremum: e, offset_eV: e.offset_eV, deltaOffset_eV: r ? e.offset_eV - r.offset_eV : null, masses };
@@ -208,6 +210,18 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
     return out;
   });
   return { reference: ref.name, columns, runs: compared, events };
+}
+
+/**
+ * The extrema a comparison follows: never a candidate the analysis set aside (a saddle, a crossing, a path
+ * end), even when a report lists it among its extrema too (reports built from older annotations files).
+ */
+function trackedExtrema(report: Report, rots: ReturnType<typeof kRotations> | null): ExtremumReport[] {
+  const rejected = report.rejected ?? [];
+  if (!rejected.length) return report.extrema;
+  return report.extrema.filter(
+    (e) => e.kind === 'vbm' || e.kind === 'cbm' || !rejected.some((x) => x.spin === e.spin && (x.band === e.band || Math.abs(x.eV - e.eV) <= 1e-3) && equivalenceDistance(x.k, e.k, rots) < 1e-4),
+  );
 }
 
 /** Lattices describe the same cell choice when their metrics are within 20 % (a strain series, not another cell). */
