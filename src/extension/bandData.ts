@@ -69,6 +69,7 @@ export function buildBandData(
     cbm_eV: report.gap ? report.gap.cbm.eV : null,
     report,
     marks: extremumMarks(bs, report),
+    setAside: (report.rejected ?? []).map((x) => ({ spin: x.spin, kIndex: nearestKIndex(bs, x.k), band0: x.band - 1, reason: x.reason, detail: x.detail })),
     defaults: {
       window_meV: settings.window_meV,
       method: settings.method,

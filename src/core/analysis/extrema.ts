@@ -33,7 +33,7 @@ export interface ExtremumSite {
 }
 
 /** Neighbouring k indices of a point (path directions or grid axes), or null when unknown. */
-export type NeighbourFn = (k: number) => number[];
+export type NeighbourFn = (k: number) => Int32Array | number[];
 
 export function pathNeighbours(net: PathNetwork): NeighbourFn {
   return (k) => net.neighboursOf(k);
@@ -316,10 +316,26 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
     const e = bs.energies[spin]!;
     const occupied = occ.occupied[spin]!;
     const done = new Set<number>();
+    // Only bands with a state within the range can hold a candidate: one pass over the array finds them,
+    // and the search below visits k-points × those bands.
+    const topValence = new Float64Array(nb).fill(-Infinity);
+    const bottomConduction = new Float64Array(nb).fill(Infinity);
+    for (let k = 0; k < bs.nk; k++) {
+      const row = k * nb;
+      for (let b = 0; b < nb; b++) {
+        const x = e[row + b]!;
+        if (occupied[row + b] === 1) {
+          if (x > topValence[b]!) topValence[b] = x;
+        } else if (x < bottomConduction[b]!) bottomConduction[b] = x;
+      }
+    }
+    const bands: number[] = [];
+    for (let b = 0; b < nb; b++) if (topValence[b]! >= overallV - inp.range_eV || bottomConduction[b]! <= overallC + inp.range_eV) bands.push(b);
+    if (!bands.length) continue;
     for (const i of firstOfKey.values()) {
       const nbrs = neighbours(i);
       if (nbrs.length === 0) continue;
-      for (let b = 0; b < nb; b++) {
+      for (const b of bands) {
         const x = e[i * nb + b]!;
         const valence = occupied[i * nb + b] === 1;
         if (valence ? x < overallV - inp.range_eV : x > overallC + inp.range_eV) continue;
@@ -332,7 +348,8 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
         }
         const wanted = valence ? up === 0 : down === 0;
         if (!wanted) {
-          if (up > 0 && down > 0 && nbrs.length >= 2) {
+          // Only at a corner of the path can directions disagree without the band simply running through.
+          if (up > 0 && down > 0 && inp.network && inp.network.isCorner(i)) {
             const saddle = stationarySaddle(inp, spin, b, i, precision);
             if (saddle) reject({ spin: spin as 0 | 1, k: i, band: b, energy: x, reason: 'saddle', detail: saddle });
           }

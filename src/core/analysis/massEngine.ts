@@ -9,7 +9,7 @@ import { kpointAt, labelAt } from '../model';
 import type { AnalysisSettings } from './analyze';
 import { bandEdges, type EdgeAnalysis } from './gap';
 import { occupationRule, type OccupationRule } from './occupation';
-import { energyRoundingStep, energySigma } from './energyResolution';
+import { energyRoundingStep } from './energyResolution';
 import { degenerateGroup, gridNeighbours, locateExtrema, pathNeighbours, type ExtremumSite, type NeighbourFn } from './extrema';
 import { pathNetwork, kKey, type PathNetwork, type RayExtent } from './pathRays';
 import { directionalMasses } from './directionalMasses';
@@ -30,6 +30,8 @@ export interface EngineContext {
   network: PathNetwork | null;
   neighbours: NeighbourFn | null;
   energySigma: number;
+  /** The decimal step the energies are written with, eV (0: full precision). */
+  energyStep: number;
   symmetry: SymmetryContext;
 }
 
@@ -57,7 +59,8 @@ export function engineContext(bs: BandStructure): EngineContext {
       neighbours = pathNeighbours(net);
     } else neighbours = gridNeighbours(bs);
   }
-  const ctx: EngineContext = { bs, network, neighbours, energySigma: energySigma(bs), symmetry: symmetryContext(bs) };
+  const energyStep = energyRoundingStep(bs);
+  const ctx: EngineContext = { bs, network, neighbours, energySigma: energyStep / Math.sqrt(12), energyStep, symmetry: symmetryContext(bs) };
   contexts.set(bs, ctx);
   return ctx;
 }
@@ -272,7 +275,7 @@ export function analyseExtrema(bs: BandStructure, report: Report, settings: Anal
     degeneracy_eV: settings.degeneracy_meV / 1000,
     equivalent: equivalenceOf(ctx),
     window_eV: settings.window_meV / 1000,
-    precision_eV: energyRoundingStep(bs),
+    precision_eV: ctx.energyStep,
   });
   if (!ctx.neighbours && bs.nk > 1) {
     report.warnings.push('The k-points form neither a path nor a known grid: secondary extrema were not searched.');
@@ -363,7 +366,8 @@ function snap(ctx: EngineContext, spin: number, kIndex: number, band: number): {
   const down = climb(false);
   if (up.steps === down.steps) {
     // Already at an extremum of one kind (0 steps each way only on a flat spot): curvature decides.
-    const d2 = nbrs(kIndex).reduce((s, j) => s + e[j * nb + band]! - e[kIndex * nb + band]!, 0);
+    let d2 = 0;
+    for (const j of nbrs(kIndex)) d2 += e[j * nb + band]! - e[kIndex * nb + band]!;
     return d2 < 0 ? { k: up.k, maximum: true } : { k: down.k, maximum: false };
   }
   return up.steps < down.steps ? { k: up.k, maximum: true } : { k: down.k, maximum: false };

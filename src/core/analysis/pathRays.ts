@@ -32,8 +32,10 @@ export interface PathNetwork {
    * proportional to the segment); with it, only as far as the caller needs.
    */
   raysFrom(index: number, extent?: RayExtent): Ray[];
-  /** The first sampled point along each direction leaving a point (cheap: no ray is built). */
-  neighboursOf(index: number): number[];
+  /** The first sampled point along each direction leaving a point (a view into a table built once). */
+  neighboursOf(index: number): Int32Array;
+  /** True when the point (at any of its visits) is a corner of the path: a segment starts or ends there. */
+  isCorner(index: number): boolean;
 }
 
 /** A key equal for k-points that differ by a reciprocal lattice vector. */
@@ -162,8 +164,50 @@ export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeom
     }
     return rays;
   };
-  const neighboursOf = (index: number): number[] => legsFrom(index).map((l) => (l.to > l.from ? l.from + 1 : l.from - 1));
-  return { geometry, hasLengths, keyOf, occurrences, raysFrom, neighboursOf };
+  const firstOf = new Int32Array(bs.nk);
+  for (const list of occurrences.values()) for (const j of list) firstOf[j] = list[0]!;
+  const corner = new Uint8Array(bs.nk);
+  for (const sg of geometry.segments) {
+    corner[firstOf[sg.start]!] = 1;
+    corner[firstOf[sg.end]!] = 1;
+  }
+  // Neighbours of every point, built once on first use (one pass over the distinct k, linear memory):
+  // nbrStart[i]..nbrStart[i + 1] indexes nbrList for the first occurrence of each k.
+  let nbrStart: Int32Array | null = null;
+  let nbrList: Int32Array | null = null;
+  const buildNeighbours = (): void => {
+    const start = new Int32Array(bs.nk + 1);
+    const lists: number[][] = new Array<number[]>(bs.nk);
+    let total = 0;
+    for (let i = 0; i < bs.nk; i++) {
+      if (firstOf[i] !== i) continue;
+      let l: number[];
+      if (segA[i]! < 0) l = [];
+      // Inside one segment, visited once: the two points beside it (most of a path, no geometry needed).
+      else if (corner[i] === 0 && occurrences.get(keyOf[i]!)!.length === 1) l = [i - 1, i + 1];
+      else l = legsFrom(i).map((g) => (g.to > g.from ? g.from + 1 : g.from - 1));
+      lists[i] = l;
+      total += l.length;
+    }
+    const list = new Int32Array(total);
+    let at = 0;
+    for (let i = 0; i < bs.nk; i++) {
+      start[i] = at;
+      const l = lists[i];
+      if (l) for (const j of l) list[at++] = j;
+    }
+    start[bs.nk] = at;
+    nbrStart = start;
+    nbrList = list;
+  };
+  const neighboursOf = (index: number): Int32Array => {
+    if (!nbrStart) buildNeighbours();
+    const f = firstOf[index]!;
+    // Only first occurrences have lists, so the next start ends this one.
+    return nbrList!.subarray(nbrStart![f]!, nbrStart![f + 1]!);
+  };
+  const isCorner = (index: number): boolean => corner[firstOf[index]!] === 1;
+  return { geometry, hasLengths, keyOf, occurrences, raysFrom, neighboursOf, isCorner };
 }
 
 /** The ray running the opposite way along the same line, when there is one. */
