@@ -13,7 +13,7 @@ import type { BandStructure, ExtremumKind } from '../model';
 import { kpointAt } from '../model';
 import type { EdgeAnalysis, EdgeState } from './gap';
 import type { OccupationRule } from './occupation';
-import { kKey, oppositeRay, type PathNetwork, type Ray } from './pathRays';
+import { kKeyNumber, oppositeRay, type PathNetwork, type Ray } from './pathRays';
 import { CROSSING_POINTS, findCrossing } from './bandCrossing';
 
 export interface ExtremumSite {
@@ -241,16 +241,25 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
   const rejected: RejectedSite[] = [];
   const nb = bs.nBands;
   if (!edges.vbm || !edges.cbm) return { sites, rejected };
-  const keys: string[] = inp.network ? inp.network.keyOf : Array.from({ length: bs.nk }, (_, i) => kKey(kpointAt(bs, i)));
-  // First index of each k (modulo reciprocal lattice vectors): the point a repeated k is judged at.
-  const firstOfKey = new Map<string, number>();
-  const firstOf = new Int32Array(bs.nk);
-  for (let i = 0; i < bs.nk; i++) {
-    const f = firstOfKey.get(keys[i]!);
-    if (f === undefined) {
-      firstOfKey.set(keys[i]!, i);
-      firstOf[i] = i;
-    } else firstOf[i] = f;
+  // Identity of each k modulo reciprocal lattice vectors, and the first index of each: the point a repeated k
+  // is judged at.
+  let keys: Float64Array;
+  let firstOf: Int32Array;
+  if (inp.network) {
+    keys = inp.network.keyOf;
+    firstOf = inp.network.firstOf;
+  } else {
+    keys = new Float64Array(bs.nk);
+    firstOf = new Int32Array(bs.nk);
+    const first = new Map<number, number>();
+    const kp = bs.kpoints;
+    for (let i = 0; i < bs.nk; i++) {
+      const key = kKeyNumber(kp[3 * i]!, kp[3 * i + 1]!, kp[3 * i + 2]!);
+      keys[i] = key;
+      const f = first.get(key);
+      if (f === undefined) first.set(key, i);
+      firstOf[i] = f ?? i;
+    }
   }
   const precision = inp.precision_eV ?? 0;
   const mergeTol = Math.max(ROUNDING_STEPS_MERGED * precision, TIE_EV);
@@ -316,40 +325,20 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
     const e = bs.energies[spin]!;
     const occupied = occ.occupied[spin]!;
     const done = new Set<number>();
-    // Only bands with a state within the range can hold a candidate: one pass over the array finds them,
-    // and the search below visits k-points × those bands.
-    const topValence = new Float64Array(nb).fill(-Infinity);
-    const bottomConduction = new Float64Array(nb).fill(Infinity);
-    for (let k = 0; k < bs.nk; k++) {
-      const row = k * nb;
-      for (let b = 0; b < nb; b++) {
-        const x = e[row + b]!;
-        if (occupied[row + b] === 1) {
-          if (x > topValence[b]!) topValence[b] = x;
-        } else if (x < bottomConduction[b]!) bottomConduction[b] = x;
-      }
-    }
-    const bands: number[] = [];
-    for (let b = 0; b < nb; b++) if (topValence[b]! >= overallV - inp.range_eV || bottomConduction[b]! <= overallC + inp.range_eV) bands.push(b);
+    const bands = bandsInRange(bs, spin, occupied, edges.spins[spin], overallV - inp.range_eV, overallC + inp.range_eV);
     if (!bands.length) continue;
-    for (const i of firstOfKey.values()) {
-      const nbrs = neighbours(i);
-      if (nbrs.length === 0) continue;
-      for (const b of bands) {
-        const x = e[i * nb + b]!;
-        const valence = occupied[i * nb + b] === 1;
-        if (valence ? x < overallV - inp.range_eV : x > overallC + inp.range_eV) continue;
-        let up = 0;
-        let down = 0;
-        for (const j of nbrs) {
-          const y = e[j * nb + b]!;
-          if (y > x + TIE_EV) up++;
-          else if (y < x - TIE_EV) down++;
-        }
-        const wanted = valence ? up === 0 : down === 0;
-        if (!wanted) {
-          // Only at a corner of the path can directions disagree without the band simply running through.
-          if (up > 0 && down > 0 && inp.network && inp.network.isCorner(i)) {
+    const table = inp.network ? inp.network.neighbourTable() : gridTable(bs, firstOf, neighbours);
+    const found0 = scanCandidates(e, occupied, nb, bs.nk, firstOf, table.start, table.list, Int32Array.from(bands), overallV - inp.range_eV, overallC + inp.range_eV);
+    for (let c = 0; c < found0.count; c++) {
+      const i = found0.k[c]!;
+      const b = found0.band[c]!;
+      const x = e[i * nb + b]!;
+      const valence = occupied[i * nb + b] === 1;
+      {
+        if (found0.mixed[c] === 1) {
+          // Rising along some directions and falling along others: only at a corner of the path can that be
+          // anything but the band running through the point.
+          if (inp.network && inp.network.isCorner(i)) {
             const saddle = stationarySaddle(inp, spin, b, i, precision);
             if (saddle) reject({ spin: spin as 0 | 1, k: i, band: b, energy: x, reason: 'saddle', detail: saddle });
           }
@@ -410,6 +399,118 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
   found.sort((a, b) => a.offset - b.offset || a.spin - b.spin || a.k - b.k);
   rejected.sort((a, b) => a.spin - b.spin || a.band - b.band || a.k - b.k);
   return { sites: [...sites, ...found], rejected };
+}
+
+/**
+ * The bands that can hold a candidate: those with an occupied state above `valenceFloor` or an empty one
+ * below `conductionCeiling`. Band indices order states by energy at every k, so the highest occupied energy
+ * of band b never exceeds that of band b + 1: walking down from the top valence band (up from the bottom
+ * conduction band) and stopping at the first band out of range reads only the bands near the edges.
+ */
+function bandsInRange(bs: BandStructure, spin: number, occupied: Uint8Array, edges: { vbm: EdgeState | null; cbm: EdgeState | null } | undefined, valenceFloor: number, conductionCeiling: number): number[] {
+  const e = bs.energies[spin]!;
+  const nb = bs.nBands;
+  const extreme = (b: number, valence: boolean): number => {
+    let best = valence ? -Infinity : Infinity;
+    for (let k = 0; k < bs.nk; k++) {
+      const i = k * nb + b;
+      if ((occupied[i] === 1) !== valence) continue;
+      const x = e[i]!;
+      if (valence ? x > best : x < best) best = x;
+    }
+    return best;
+  };
+  const out = new Set<number>();
+  if (edges?.vbm) {
+    for (let b = edges.vbm.band; b >= 0; b--) {
+      if (extreme(b, true) < valenceFloor) break;
+      out.add(b);
+    }
+    // Occupied states in bands above the top band (not expected with a gap): looked at too.
+    for (let b = edges.vbm.band + 1; b < nb && extreme(b, true) >= valenceFloor; b++) out.add(b);
+  }
+  if (edges?.cbm) {
+    for (let b = edges.cbm.band; b < nb; b++) {
+      if (extreme(b, false) > conductionCeiling) break;
+      out.add(b);
+    }
+    for (let b = edges.cbm.band - 1; b >= 0 && extreme(b, false) <= conductionCeiling; b--) out.add(b);
+  }
+  return [...out].sort((a, b) => a - b);
+}
+
+interface CandidateList {
+  k: Int32Array;
+  band: Int32Array;
+  /** 1 when the band rises along some directions and falls along others (a saddle to test), 0 for a candidate minimum or maximum. */
+  mixed: Uint8Array;
+  count: number;
+}
+
+/**
+ * The one pass over k-points × bands near the edges: a point is a candidate maximum of a valence band when no
+ * neighbour is higher (minimum of a conduction band: none lower), and a saddle to test when neighbours lie
+ * both above and below. Plain loops over typed arrays (this runs over the whole path; everything after it
+ * only over the candidates).
+ */
+function scanCandidates(e: Float64Array, occupied: Uint8Array, nb: number, nk: number, firstOf: Int32Array, start: Int32Array, list: Int32Array, bands: Int32Array, valenceFloor: number, conductionCeiling: number): CandidateList {
+  let cap = 64;
+  let k = new Int32Array(cap);
+  let band = new Int32Array(cap);
+  let mixed = new Uint8Array(cap);
+  let count = 0;
+  const push = (i: number, b: number, m: number): void => {
+    if (count === cap) {
+      cap *= 2;
+      const k2 = new Int32Array(cap);
+      k2.set(k);
+      k = k2;
+      const b2 = new Int32Array(cap);
+      b2.set(band);
+      band = b2;
+      const m2 = new Uint8Array(cap);
+      m2.set(mixed);
+      mixed = m2;
+    }
+    k[count] = i;
+    band[count] = b;
+    mixed[count] = m;
+    count++;
+  };
+  for (let i = 0; i < nk; i++) {
+    if (firstOf[i] !== i) continue;
+    const q0 = start[i]!;
+    const q1 = start[i + 1]!;
+    if (q1 === q0) continue;
+    for (let t = 0; t < bands.length; t++) {
+      const b = bands[t]!;
+      const x = e[i * nb + b]!;
+      const valence = occupied[i * nb + b] === 1;
+      if (valence ? x < valenceFloor : x > conductionCeiling) continue;
+      let up = 0;
+      let down = 0;
+      for (let q = q0; q < q1; q++) {
+        const y = e[list[q]! * nb + b]!;
+        if (y > x + TIE_EV) up++;
+        else if (y < x - TIE_EV) down++;
+      }
+      if (valence ? up === 0 : down === 0) push(i, b, 0);
+      else if (up > 0 && down > 0 && q1 - q0 >= 2) push(i, b, 1);
+    }
+  }
+  return { k, band, mixed, count };
+}
+
+/** The neighbour table of a grid (or any neighbour function), built once in the same layout as a path's. */
+function gridTable(bs: BandStructure, firstOf: Int32Array, neighbours: NeighbourFn): { start: Int32Array; list: Int32Array } {
+  const start = new Int32Array(bs.nk + 1);
+  const all: number[] = [];
+  for (let i = 0; i < bs.nk; i++) {
+    start[i] = all.length;
+    if (firstOf[i] === i) for (const j of neighbours(i)) all.push(j);
+  }
+  start[bs.nk] = all.length;
+  return { start, list: Int32Array.from(all) };
 }
 
 /** A few points along each direction: enough for the crossing and saddle tests. */

@@ -68,7 +68,7 @@ export function engineContext(bs: BandStructure): EngineContext {
 function pointLabel(bs: BandStructure, net: PathNetwork | null, k: number): string | null {
   const own = labelAt(bs, k);
   if (own || !net) return own;
-  for (const j of net.occurrences.get(net.keyOf[k]!) ?? []) {
+  for (const j of net.visitsOf(k)) {
     const l = labelAt(bs, j);
     if (l) return l;
   }

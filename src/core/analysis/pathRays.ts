@@ -24,9 +24,12 @@ export interface PathNetwork {
   geometry: PathGeometry;
   /** Whether distances are in Å⁻¹ (a lattice is known, or the file wrote distances). */
   hasLengths: boolean;
-  /** Identity of each k index modulo reciprocal lattice vectors. */
-  keyOf: string[];
-  occurrences: Map<string, number[]>;
+  /** Identity of each k index modulo reciprocal lattice vectors (kKeyNumber). */
+  keyOf: Float64Array;
+  /** The first index at which the path visits each k index's point (itself when it is the first). */
+  firstOf: Int32Array;
+  /** Every index at which the path visits the point of k index `index`, in path order. */
+  visitsOf(index: number): number[];
   /**
    * The rays leaving a point, one per direction. Without `extent` each runs to its segment's far end (cost
    * proportional to the segment); with it, only as far as the caller needs.
@@ -34,6 +37,11 @@ export interface PathNetwork {
   raysFrom(index: number, extent?: RayExtent): Ray[];
   /** The first sampled point along each direction leaving a point (a view into a table built once). */
   neighboursOf(index: number): Int32Array;
+  /**
+   * The neighbour table itself: the neighbours of first visit f are list[start[f]] .. list[start[f + 1] − 1]
+   * (empty for later visits). For loops over every point.
+   */
+  neighbourTable(): { start: Int32Array; list: Int32Array };
   /** True when the point (at any of its visits) is a corner of the path: a segment starts or ends there. */
   isCorner(index: number): boolean;
 }
@@ -50,6 +58,16 @@ export function kKey(k: Vec3): string {
     .join(',');
 }
 
+/** kKey as one number (three 5-digit fractions packed; exact in a double): cheap to build for every k. */
+export function kKeyNumber(x: number, y: number, z: number): number {
+  const part = (v: number): number => {
+    let r = v - Math.floor(v + 1e-6);
+    r = Math.round(r * 1e5);
+    return r === 100000 ? 0 : r;
+  };
+  return (part(x) * 100000 + part(y)) * 100000 + part(z);
+}
+
 export function fractionalText(k: Vec3): string {
   return `(${k.map((x) => String(Number(x.toFixed(4)))).join(', ')})`;
 }
@@ -62,15 +80,28 @@ export function fractionalText(k: Vec3): string {
 export type RayExtent = (kIndex: number, m: number) => boolean;
 
 export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeometry(bs)): PathNetwork {
-  const keyOf: string[] = new Array<string>(bs.nk);
-  const occurrences = new Map<string, number[]>();
+  // Visits of the same point: firstOf[i] is the first visit, nextVisit[i] the following one (−1: none).
+  const keyOf = new Float64Array(bs.nk);
+  const firstOf = new Int32Array(bs.nk);
+  const nextVisit = new Int32Array(bs.nk).fill(-1);
+  const lastVisit = new Map<number, number>();
+  const kp = bs.kpoints;
   for (let i = 0; i < bs.nk; i++) {
-    const key = kKey(kpointAt(bs, i));
+    const key = kKeyNumber(kp[3 * i]!, kp[3 * i + 1]!, kp[3 * i + 2]!);
     keyOf[i] = key;
-    const list = occurrences.get(key);
-    if (list) list.push(i);
-    else occurrences.set(key, [i]);
+    const prev = lastVisit.get(key);
+    if (prev === undefined) firstOf[i] = i;
+    else {
+      firstOf[i] = firstOf[prev]!;
+      nextVisit[prev] = i;
+    }
+    lastVisit.set(key, i);
   }
+  const visitsOf = (index: number): number[] => {
+    const out: number[] = [];
+    for (let j = firstOf[index]!; j >= 0; j = nextVisit[j]!) out.push(j);
+    return out;
+  };
   // Segments are index ranges that overlap only at a shared corner: a point lies in at most two of them.
   const segA = new Int32Array(bs.nk).fill(-1);
   const segB = new Int32Array(bs.nk).fill(-1);
@@ -84,7 +115,7 @@ export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeom
   const hasLengths = cart !== null || geometry.units === 'written';
   // Full rays are built only for the points asked about (extrema, clicks), and only the last few are kept:
   // memory stays linear in the path length.
-  const cache = new Map<string, Ray[]>();
+  const cache = new Map<number, Ray[]>();
   const CACHE_SIZE = 32;
 
   const position = (i: number): Vec3 => (cart ? [cart[3 * i]!, cart[3 * i + 1]!, cart[3 * i + 2]!] : kpointAt(bs, i));
@@ -126,7 +157,7 @@ export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeom
    */
   const legsFrom = (index: number): { from: number; to: number; u: Vec3 }[] => {
     const legs: { from: number; to: number; u: Vec3 }[] = [];
-    for (const j of occurrences.get(keyOf[index]!) ?? [index]) {
+    for (const j of visitsOf(index)) {
       for (const si of [segA[j]!, segB[j]!]) {
         if (si < 0) continue;
         const s = geometry.segments[si]!;
@@ -148,7 +179,7 @@ export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeom
   };
 
   const raysFrom = (index: number, extent?: RayExtent): Ray[] => {
-    const key = keyOf[index]!;
+    const key = firstOf[index]!;
     if (!extent) {
       const hit = cache.get(key);
       if (hit) return hit;
@@ -159,13 +190,11 @@ export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeom
       if (r) rays.push(r);
     }
     if (!extent) {
-      if (cache.size >= CACHE_SIZE) cache.delete(cache.keys().next().value as string);
+      if (cache.size >= CACHE_SIZE) cache.delete(cache.keys().next().value as number);
       cache.set(key, rays);
     }
     return rays;
   };
-  const firstOf = new Int32Array(bs.nk);
-  for (const list of occurrences.values()) for (const j of list) firstOf[j] = list[0]!;
   const corner = new Uint8Array(bs.nk);
   for (const sg of geometry.segments) {
     corner[firstOf[sg.start]!] = 1;
@@ -176,27 +205,33 @@ export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeom
   let nbrStart: Int32Array | null = null;
   let nbrList: Int32Array | null = null;
   const buildNeighbours = (): void => {
+    // Count, then fill: two passes over the points, typed arrays only (no list per point).
     const start = new Int32Array(bs.nk + 1);
-    const lists: number[][] = new Array<number[]>(bs.nk);
+    const special = new Map<number, number[]>();
+    const kind = (i: number): 0 | 1 | 2 => (firstOf[i] !== i || segA[i]! < 0 ? 0 : corner[i] === 0 && nextVisit[i] === -1 ? 1 : 2);
     let total = 0;
     for (let i = 0; i < bs.nk; i++) {
-      if (firstOf[i] !== i) continue;
-      let l: number[];
-      if (segA[i]! < 0) l = [];
-      // Inside one segment, visited once: the two points beside it (most of a path, no geometry needed).
-      else if (corner[i] === 0 && occurrences.get(keyOf[i]!)!.length === 1) l = [i - 1, i + 1];
-      else l = legsFrom(i).map((g) => (g.to > g.from ? g.from + 1 : g.from - 1));
-      lists[i] = l;
-      total += l.length;
+      start[i] = total;
+      const c = kind(i);
+      if (c === 1) total += 2;
+      else if (c === 2) {
+        // A corner, or a point the path visits more than once: one neighbour per distinct direction.
+        const l = legsFrom(i).map((g) => (g.to > g.from ? g.from + 1 : g.from - 1));
+        special.set(i, l);
+        total += l.length;
+      }
     }
+    start[bs.nk] = total;
     const list = new Int32Array(total);
-    let at = 0;
     for (let i = 0; i < bs.nk; i++) {
-      start[i] = at;
-      const l = lists[i];
+      let at = start[i]!;
+      const l = special.get(i);
       if (l) for (const j of l) list[at++] = j;
+      else if (start[i + 1]! - at === 2) {
+        list[at] = i - 1;
+        list[at + 1] = i + 1;
+      }
     }
-    start[bs.nk] = at;
     nbrStart = start;
     nbrList = list;
   };
@@ -207,7 +242,11 @@ export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeom
     return nbrList!.subarray(nbrStart![f]!, nbrStart![f + 1]!);
   };
   const isCorner = (index: number): boolean => corner[firstOf[index]!] === 1;
-  return { geometry, hasLengths, keyOf, occurrences, raysFrom, neighboursOf, isCorner };
+  const neighbourTable = (): { start: Int32Array; list: Int32Array } => {
+    if (!nbrStart) buildNeighbours();
+    return { start: nbrStart!, list: nbrList! };
+  };
+  return { geometry, hasLengths, keyOf, firstOf, visitsOf, raysFrom, neighboursOf, neighbourTable, isCorner };
 }
 
 /** The ray running the opposite way along the same line, when there is one. */
