@@ -66,3 +66,10 @@ if (existsSync('scripts/bench-bandview.mjs')) {
   console.log('\nBand view redraw, 500 bands × 20 000 k-points, headless Chromium');
   spawnSync(process.execPath, ['scripts/bench-bandview.mjs'], { stdio: 'inherit' });
 } else console.log('\nband view: benchmark not available (scripts/bench-bandview.mjs missing)');
+
+// 5. Analysis against the size of the data (issue goals: analyze --json ≤ 2.5× JSON.parse; memory and the other
+// commands on a 50 MB path), in its own script.
+if (existsSync('scripts/bench-scaling.mjs')) {
+  console.log('');
+  spawnSync(process.execPath, ['scripts/bench-scaling.mjs', ...(small ? ['--quick'] : [])], { stdio: 'inherit' });
+}
