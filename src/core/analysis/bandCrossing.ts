@@ -2,9 +2,9 @@
  * Whether a band-index extremum is a crossing: two branches that run straight through a point, where
  * ordering the states by energy makes one band index turn back (a kink, "V" or "Λ") and the other turn the
  * other way. The signs of a crossing (common practice of band-structure reading; no curvature is involved):
- *   - along a line through the point, the band leaves it near-linearly on both sides (the second step
- *     continues the first instead of steepening as a parabola would), with outward slopes of the same sign
- *     (so it looks like a minimum or a maximum);
+ *   - along a line through the point, the band runs on near-linearly on both sides (beyond the first step,
+ *     each step continues the last instead of steepening as a parabola would), with outward slopes of the
+ *     same sign (so it looks like a minimum or a maximum);
  *   - another band within the fit window at the point has the swapped slopes: what leaves on one side in
  *     one band arrives on the other side in the other band, so each branch continues through the point.
  * A small avoided-crossing gap (smaller than the sampling resolves) looks the same and is treated the same.
@@ -14,39 +14,40 @@
 import type { Ray } from './pathRays';
 
 export interface LineSlope {
-  /** Outward slope dE/dt over the first step, eV·Å. */
+  /** Outward slope dE/dt between the first and second points beyond the centre, eV·Å. */
   slope: number;
-  /** Whether the band leaves the point along a straight line (a kink), not a parabola. */
+  /** Whether the band runs on along a straight line there (a kink at the centre), not a parabola. */
   linear: boolean;
+  /** Outward slope of the step from the centre itself (it holds the kink when the crossing falls between samples). */
+  firstSlope: number;
 }
 
-/** Points used on each side: the point, its neighbour, and the next one. */
-export const CROSSING_POINTS = 2;
+/** Points used on each side beyond the centre: three, so that a crossing between samples is still seen. */
+export const CROSSING_POINTS = 3;
 
 /**
- * Slope of the first step over slope of the second, above which a side leaves the point as a line. For a
- * straight line the ratio is 1; for a parabola with its vertex at the point, 1/3 (uniform steps), and at
- * most 1/2 with the vertex anywhere within half a step (analytic: E = c(t + δ)², |δ| ≤ h/2); a small
- * avoided-crossing gap lowers it below 1 only a little.
+ * Lowest ratio of the two slopes beyond the first step (step 1→2 over step 2→3) still called a line. A line
+ * gives 1; a parabola with its vertex within half a step of the centre gives 3/5 at most (analytic:
+ * E = c(t + δ)², |δ| ≤ h/2, uniform steps: (3h + 2δ)/(5h + 2δ) ≤ 2/3).
  */
 const LINEAR_RATIO = 0.7;
 
 /**
- * How the band leaves the point along a ray: the slope of the first step and whether the second step
- * continues it (a line) or steepens (a parabola). Null with fewer than three points.
+ * How the band runs away from the point along a ray, beyond the first step (which may hold the kink when
+ * the crossing falls between samples): the slope from the first to the second point, and whether the next
+ * step continues it (a line) or steepens as a parabola does. Null with fewer than four points.
  */
 export function sideSlope(energy: (k: number) => number, ray: Ray, precision_eV: number): LineSlope | null {
-  if (ray.indices.length < 3) return null;
-  const [t1, t2] = [ray.t[1]!, ray.t[2]!];
-  if (!(t1 > 0 && t2 > t1)) return null;
-  const e0 = energy(ray.indices[0]!);
-  const e1 = energy(ray.indices[1]!);
-  const e2 = energy(ray.indices[2]!);
-  const s1 = (e1 - e0) / t1;
-  const s2 = (e2 - e1) / (t2 - t1);
+  if (ray.indices.length < 4) return null;
+  const [t1, t2, t3] = [ray.t[1]!, ray.t[2]!, ray.t[3]!];
+  if (!(t1 > 0 && t2 > t1 && t3 > t2)) return null;
+  const [e0, e1, e2, e3] = [0, 1, 2, 3].map((m) => energy(ray.indices[m]!)) as [number, number, number, number];
+  const s12 = (e2 - e1) / (t2 - t1);
+  const s23 = (e3 - e2) / (t3 - t2);
   // A slope lost in the rounding of the file is no slope.
-  const resolved = Math.abs(e1 - e0) > 3 * precision_eV + 1e-9;
-  return { slope: s1, linear: resolved && s2 !== 0 && s1 / s2 > LINEAR_RATIO };
+  const resolved = Math.abs(e2 - e1) > 3 * precision_eV + 1e-9;
+  const ratio = s12 / s23;
+  return { slope: s12, linear: resolved && s23 !== 0 && ratio > LINEAR_RATIO && ratio < 1 / LINEAR_RATIO, firstSlope: (e1 - e0) / t1 };
 }
 
 /** Relative mismatch of two first-step slopes still counted as one branch (the chords include curvature). */
@@ -80,6 +81,8 @@ export interface CrossingFinding {
   towards: string;
   /** Energy difference of the two bands at the point, eV (0 for a true crossing, the gap for an avoided one). */
   gap_eV: number;
+  /** The bands are farther apart at the point than the window: the crossing falls between sampled points. */
+  betweenSamples: boolean;
 }
 
 /** The crossing the candidate is part of, or null when it behaves like a true extremum. */
@@ -90,7 +93,6 @@ export function findCrossing(inp: CrossingInput): CrossingFinding | null {
   for (const partner of [inp.band - 1, inp.band + 1]) {
     if (partner < 0 || partner >= inp.nBands) continue;
     const gap = Math.abs(inp.energy(partner, k0) - e0);
-    if (gap > inp.window_eV) continue;
     for (const r of inp.rays) {
       const far = inp.opposite(r) ?? (inp.timeReversalInvariant ? r : null);
       if (!far) continue;
@@ -105,8 +107,15 @@ export function findCrossing(inp: CrossingInput): CrossingFinding | null {
       if (Math.sign(bNear.slope) !== Math.sign(bFar.slope) || bNear.slope === 0) continue;
       // Each branch continues through the point into the other band: dE/dt along the line is kept, i.e. an
       // outward slope on one side equals minus the other band's outward slope on the other side.
-      if (sameBranch(bNear.slope, -pFar.slope) && sameBranch(pNear.slope, -bFar.slope)) {
-        return { partner, towards: r.towards, gap_eV: gap };
+      // The partner must be close at the point: within the window, or within what the slopes cover in one
+      // step (a crossing between two samples leaves the bands that far apart at the nearest one).
+      const reach = Math.max(inp.window_eV, (Math.abs(bNear.slope) + Math.abs(pNear.slope)) * (r.t[1] ?? 0));
+      if (gap > reach) continue;
+      // Slopes compared just beyond the point (a crossing at a sample) or one step further out (a crossing
+      // between samples, where the first step holds the kink).
+      const continues = (a: LineSlope, b: LineSlope): boolean => sameBranch(a.firstSlope, -b.firstSlope) || sameBranch(a.slope, -b.slope);
+      if (continues(bNear, pFar) && continues(pNear, bFar)) {
+        return { partner, towards: r.towards, gap_eV: gap, betweenSamples: gap > inp.window_eV };
       }
     }
   }

@@ -537,7 +537,12 @@ function crossingAt(inp: ExtremaInput, spin: number, band: number, k: number, wi
   });
   if (!found) return null;
   const gap = found.gap_eV * 1000;
-  return `bands ${band + 1} and ${found.partner + 1} cross at ${fracText(inp.bs, k)} along the line towards ${found.towards} (near-linear on both sides, slopes swapped between the bands${gap > 1 ? `; an avoided crossing with a ${gap.toFixed(1)} meV gap` : ''}): the branches continue through the point, so there is no extremum`;
+  const gapText = found.betweenSamples
+    ? `; the crossing falls between sampled points, the bands are ${gap.toFixed(1)} meV apart at this one`
+    : gap > 1
+      ? `; an avoided crossing with a ${gap.toFixed(1)} meV gap`
+      : '';
+  return `bands ${band + 1} and ${found.partner + 1} cross at ${fracText(inp.bs, k)} along the line towards ${found.towards} (near-linear on both sides, slopes swapped between the bands${gapText}): the branches continue through the point, so there is no extremum`;
 }
 
 /**

@@ -101,6 +101,31 @@ describe('candidate classification: saddles', () => {
   });
 });
 
+describe('candidate classification: path ends', () => {
+  it('a band still falling at the end of the path is set aside as boundary, not a valley there', () => {
+    // A second conduction band E = 2.5 + ħ²|k − k0|²/2m with k0 beyond the path end Γ–M (a quarter of the way
+    // further, on the same line): on the path it only falls towards the end (analytic).
+    const k0: Vec3 = [(2 * Math.PI * 0.6) / A, (2 * Math.PI * 0.6) / A, 0];
+    const bs = pathModel({
+      lattice: cubicLattice(A),
+      bands: [parabolicBand(-1, -0.5), parabolicBand(2, 0.5), parabolicBand(2.5, 0.8, k0)],
+      electrons: 2,
+      legs: [[G, M]],
+      pointsPerSegment: 41,
+    });
+    const r = analyzeBandStructure(bs, { range_eV: 3 });
+    // Bands are numbered by energy: the falling band is band 2 beyond the point where the two parabolas
+    // cross (between samples, near 0.28 of Γ–M), band 3 before it.
+    assert.ok(!r.extrema.some((e) => e.kind === 'valley'), JSON.stringify(r.extrema.map((e) => [e.kind, e.band, e.k])));
+    const end = (r.rejected ?? []).find((x) => x.band === 2 && near(x.k, [0.5, 0.5, 0]));
+    assert.equal(end?.reason, 'boundary', JSON.stringify(r.rejected));
+    // The "V" of band 3 where the parabolas cross is a crossing, though it falls between sampled points.
+    const v = (r.rejected ?? []).find((x) => x.band === 3);
+    assert.equal(v?.reason, 'crossing', JSON.stringify(r.rejected));
+    assert.match(v!.detail, /between sampled points/);
+  });
+});
+
 describe('candidate classification: rounding of the written energies', () => {
   // Cosine bands E = e0 + 2t Σ(1 − cos 2πk_i) (nearest-neighbour tight binding, analytic) on a 20 001-point
   // path Γ–X–M–Γ, rounded to 4 and to 6 decimals as files write them. On this path the true extrema within
