@@ -406,5 +406,8 @@ export function fitExtremumAt(bs: BandStructure, spin: number, kIndex: number, b
     group,
     warnings: k !== kIndex ? [`Moved from the clicked point to the nearest ${maximum ? 'maximum' : 'minimum'} of band ${band0 + 1}.`] : [],
   };
-  return characterise(ctx, site, settings);
+  const x = characterise(ctx, site, settings);
+  const saddle = saddleFromMasses(x);
+  if (saddle) x.warnings.unshift(`Not an extremum but a saddle point: ${saddle}.`);
+  return x;
 }
