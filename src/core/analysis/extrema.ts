@@ -334,66 +334,64 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
       const b = found0.band[c]!;
       const x = e[i * nb + b]!;
       const valence = occupied[i * nb + b] === 1;
-      {
-        if (found0.mixed[c] === 1) {
-          // Rising along some directions and falling along others: only at a corner of the path can that be
-          // anything but the band running through the point.
-          if (inp.network && inp.network.isCorner(i)) {
-            const saddle = stationarySaddle(inp, spin, b, i, precision);
-            if (saddle) reject({ spin: spin as 0 | 1, k: i, band: b, energy: x, reason: 'saddle', detail: saddle });
-          }
-          continue;
+      if (found0.mixed[c] === 1) {
+        // Rising along some directions and falling along others: only at a corner of the path can that be
+        // anything but the band running through the point.
+        if (inp.network && inp.network.isCorner(i)) {
+          const saddle = stationarySaddle(inp, spin, b, i, precision);
+          if (saddle) reject({ spin: spin as 0 | 1, k: i, band: b, energy: x, reason: 'saddle', detail: saddle });
         }
-        if (done.has(i * nb + b)) continue;
-        // First the plateau of equal values: a step of the rounding on a slope leads higher, silently.
-        const plateau = topRegion(bs, e, nb, b, i, valence, TIE_EV, neighbours, firstOf, bs.nk);
-        for (const m of plateau.members) done.add(m * nb + b);
-        if (plateau.outcome === 'higher') continue;
-        let region = plateau;
-        if (mergeTol > TIE_EV) {
-          // Then everything the rounding cannot tell apart from it.
-          region = topRegion(bs, e, nb, b, i, valence, mergeTol, neighbours, firstOf, bs.nk);
-          for (const m of region.members) done.add(m * nb + b);
-          if (region.outcome === 'higher') {
-            reject({ spin: spin as 0 | 1, k: plateau.representative, band: b, energy: x, reason: 'rounding', detail: `within ${ROUNDING_STEPS_MERGED} rounding steps (${(mergeTol * 1000).toPrecision(2)} meV) of a ${valence ? 'higher' : 'lower'} point of the same band: one extremum, counted there` });
-            continue;
-          }
-        }
-        const k = plateau.representative;
-        const xk = e[k * nb + b]!;
-        if (region.outcome === 'flat') {
-          reject({ spin: spin as 0 | 1, k, band: b, energy: xk, reason: 'shallow', detail: `the band varies by no more than ${(mergeTol * 1000).toPrecision(2)} meV around here: no extremum stands out from the rounding` });
-          continue;
-        }
-        if (inp.network) {
-          const rays = inp.network.raysFrom(k, (_, m) => m < 3);
-          if (rays.length === 1 && extremumBeyondEnd(bs, spin, b, rays[0]!, valence)) {
-            reject({ spin: spin as 0 | 1, k, band: b, energy: xk, reason: 'boundary', detail: `at the end of the sampled path with the band still ${valence ? 'rising' : 'falling'} beyond it` });
-            continue;
-          }
-          const crossing = crossingAt(inp, spin, b, k, window, precision);
-          if (crossing) {
-            reject({ spin: spin as 0 | 1, k, band: b, energy: xk, reason: 'crossing', detail: crossing });
-            continue;
-          }
-        }
-        if (inp.equivalent && [...sites, ...found].some((f) => f.spin === spin && Math.abs(f.energy - xk) <= inp.degeneracy_eV && inp.equivalent!(f.k, k))) continue;
-        if (seenAt(spin, k, xk)) continue;
-        const group = degenerateGroup(bs, spin, k, b, inp.degeneracy_eV);
-        const rep = valence ? group[group.length - 1]! : group[0]!;
-        const site: ExtremumSite = {
-          spin: spin as 0 | 1,
-          k,
-          band: rep,
-          energy: e[k * nb + rep]!,
-          kind: valence ? 'peak' : 'valley',
-          offset: valence ? overallV - e[k * nb + rep]! : e[k * nb + rep]! - overallC,
-          group,
-          warnings: [],
-        };
-        found.push(site);
-        remember(site);
+        continue;
       }
+      if (done.has(i * nb + b)) continue;
+      // First the plateau of equal values: a step of the rounding on a slope leads higher, silently.
+      const plateau = topRegion(bs, e, nb, b, i, valence, TIE_EV, neighbours, firstOf, bs.nk);
+      for (const m of plateau.members) done.add(m * nb + b);
+      if (plateau.outcome === 'higher') continue;
+      let region = plateau;
+      if (mergeTol > TIE_EV) {
+        // Then everything the rounding cannot tell apart from it.
+        region = topRegion(bs, e, nb, b, i, valence, mergeTol, neighbours, firstOf, bs.nk);
+        for (const m of region.members) done.add(m * nb + b);
+        if (region.outcome === 'higher') {
+          reject({ spin: spin as 0 | 1, k: plateau.representative, band: b, energy: x, reason: 'rounding', detail: `within ${ROUNDING_STEPS_MERGED} rounding steps (${(mergeTol * 1000).toPrecision(2)} meV) of a ${valence ? 'higher' : 'lower'} point of the same band: one extremum, counted there` });
+          continue;
+        }
+      }
+      const k = plateau.representative;
+      const xk = e[k * nb + b]!;
+      if (region.outcome === 'flat') {
+        reject({ spin: spin as 0 | 1, k, band: b, energy: xk, reason: 'shallow', detail: `the band varies by no more than ${(mergeTol * 1000).toPrecision(2)} meV around here: no extremum stands out from the rounding` });
+        continue;
+      }
+      if (inp.network) {
+        const rays = inp.network.raysFrom(k, (_, m) => m < 3);
+        if (rays.length === 1 && extremumBeyondEnd(bs, spin, b, rays[0]!, valence)) {
+          reject({ spin: spin as 0 | 1, k, band: b, energy: xk, reason: 'boundary', detail: `at the end of the sampled path with the band still ${valence ? 'rising' : 'falling'} beyond it` });
+          continue;
+        }
+        const crossing = crossingAt(inp, spin, b, k, window, precision);
+        if (crossing) {
+          reject({ spin: spin as 0 | 1, k, band: b, energy: xk, reason: 'crossing', detail: crossing });
+          continue;
+        }
+      }
+      if (inp.equivalent && [...sites, ...found].some((f) => f.spin === spin && Math.abs(f.energy - xk) <= inp.degeneracy_eV && inp.equivalent!(f.k, k))) continue;
+      if (seenAt(spin, k, xk)) continue;
+      const group = degenerateGroup(bs, spin, k, b, inp.degeneracy_eV);
+      const rep = valence ? group[group.length - 1]! : group[0]!;
+      const site: ExtremumSite = {
+        spin: spin as 0 | 1,
+        k,
+        band: rep,
+        energy: e[k * nb + rep]!,
+        kind: valence ? 'peak' : 'valley',
+        offset: valence ? overallV - e[k * nb + rep]! : e[k * nb + rep]! - overallC,
+        group,
+        warnings: [],
+      };
+      found.push(site);
+      remember(site);
     }
   }
   found.sort((a, b) => a.offset - b.offset || a.spin - b.spin || a.k - b.k);

@@ -300,7 +300,24 @@ export function analyseExtrema(bs: BandStructure, report: Report, settings: Anal
     extrema.push(x);
   }
   report.extrema = extrema;
-  report.rejected = rejected;
+  report.rejected = listedRejections(rejected, report.warnings);
+}
+
+/** Most set-aside candidates listed per reason (noisy data can hold thousands of rounding bumps). */
+export const MAX_REJECTED_PER_REASON = 50;
+
+function listedRejections(all: RejectedCandidate[], warnings: string[]): RejectedCandidate[] {
+  const count = new Map<string, number>();
+  const out: RejectedCandidate[] = [];
+  for (const x of all) {
+    const n = (count.get(x.reason) ?? 0) + 1;
+    count.set(x.reason, n);
+    if (n <= MAX_REJECTED_PER_REASON) out.push(x);
+  }
+  for (const [reason, n] of count) {
+    if (n > MAX_REJECTED_PER_REASON) warnings.push(`${n} candidates were set aside as ${reason}; the first ${MAX_REJECTED_PER_REASON} are listed.`);
+  }
+  return out;
 }
 
 /**
