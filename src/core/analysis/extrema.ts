@@ -2,12 +2,20 @@
  * Where the band extrema are: the VBM and CBM of each spin channel, and the secondary extrema a reviewer
  * cares about — conduction minima ("valley") and valence maxima ("peak") within a range of the edge.
  *
+ * Only minima and maxima are extrema. Every candidate is classified, and those that are not go to the
+ * rejected list with a reason:
+ *   - rounding: energies are known only to their written digits. A plateau of equal values is one extremum
+ *     (stood at its time-reversal-invariant point or its middle); points within ROUNDING_STEPS_MERGED steps of
+ *     a higher point of the same band belong to that one; a band that never stands out from the rounding is
+ *     "shallow";
+ *   - crossing: a band-index kink where another band continues the slopes (bandCrossing.ts);
+ *   - saddle: at a corner of the path, stationary but curving up along some directions and down along others
+ *     (fitted masses of both signs are caught later, in massEngine.ts);
+ *   - boundary: at a path end with the band still falling (rising) beyond it.
  * Neighbours of a k-point are taken along every path direction leaving it (pathRays), so a point at the end
- * of a segment that turns, or at a repeated corner, is judged against both segments: an extremum there is
- * an extremum of the continued band, not an artefact of the segment boundary. A point with a single
- * direction (a path end, either side of a jump) is an extremum only if the band is flat there; when the band
- * still falls beyond the end, the point is not reported as a secondary extremum, and a band edge found there
- * carries a warning.
+ * of a segment that turns, or at a repeated corner, is judged against both segments.
+ *
+ * Cost: one pass over k-points × the bands near the edges (scanCandidates), then work per candidate only.
  */
 import type { BandStructure, ExtremumKind } from '../model';
 import { kpointAt } from '../model';
