@@ -5,9 +5,12 @@
  */
 import assert from 'node:assert/strict';
 import { fitCurvature } from '../../../src/core/analysis/fits/index';
-import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
 import { summaryText } from '../../../src/core/report/summaryText';
 import { reportToJson } from '../../../src/core/report/reportJson';
+import { buildAnnotations } from '../../../src/core/annotations/buildAnnotations';
+import { serializeAnnotations } from '../../../src/core/annotations/serializeAnnotations';
+import { parseAnnotations } from '../../../src/core/annotations/parseAnnotations';
+import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { HBAR2_OVER_ME_EV_A2 } from '../../../src/core/units';
 import { cosineBand, cubicLattice, parabolicBand, pathModel, type PathLeg } from '../../support/models';
 
@@ -131,5 +134,19 @@ describe('undetermined masses in the outputs', () => {
     const j = reportToJson(report) as { extrema: { kind: string; masses: { determined: boolean; undeterminedReason?: string }[] }[] };
     const c = j.extrema.find((e) => e.kind === 'cbm')!;
     assert.ok(c.masses.every((m) => m.determined === false && typeof m.undeterminedReason === 'string'));
+  });
+
+  it('the annotations file records determined (false here) with the reason among the mass warnings, and reads it back', () => {
+    const source = { format: 'model', file: 'run/EIGENVAL', files: [{ role: 'eigenvalues', path: 'EIGENVAL', sha256: '0'.repeat(64) }] };
+    const doc = buildAnnotations(report, source, { ...DEFAULT_SETTINGS, method: 'central-2' }, { toolVersion: '0.1.0' });
+    const entry = doc.entries.find((e) => e.kind === 'cbm')!;
+    assert.ok(entry.masses.every((m) => m.determined === false && m.warnings.some((w) => /^Undetermined: /.test(w))));
+    const text = serializeAnnotations(doc);
+    assert.match(text, /"determined": false/);
+    const back = parseAnnotations(text, 'run/EIGENVAL.valleys.json');
+    assert.ok(back.entries.find((e) => e.kind === 'cbm')!.masses.every((m) => m.determined === false));
+    // A file written before the field existed reads as "not recorded" (null), not as false.
+    const old = parseAnnotations(text.replace(/\s*"determined": false,/g, ''), 'run/EIGENVAL.valleys.json');
+    assert.ok(old.entries.find((e) => e.kind === 'cbm')!.masses.every((m) => m.determined === null));
   });
 });
