@@ -321,17 +321,22 @@ function listedRejections(all: RejectedCandidate[], warnings: string[]): Rejecte
 }
 
 /**
- * A saddle seen in the fits: determined directional masses of both signs (each clear of zero by two
- * standard errors), or a tensor with principal masses of both signs. Only for a single band: the branches
- * of a degenerate edge may curve differently.
+ * A saddle seen in the fits: a determined directional mass of the wrong sign for the kind of extremum
+ * (positive at a maximum, negative at a minimum; clear of zero by two standard errors) — for a single band,
+ * masses of both signs; at a degenerate point, a branch that curves the wrong way, so the point is not a
+ * maximum (minimum) of every branch — or a fitted tensor with principal masses of both signs.
  */
 export function saddleFromMasses(x: ExtremumReport): string | null {
-  if (x.degenerateBands > 1) return null;
+  const maximum = x.kind === 'vbm' || x.kind === 'peak';
   const clear = x.masses.filter((m) => m.determined && Math.abs(m.mass) > 2 * m.stderr);
-  const up = clear.filter((m) => m.mass > 0);
-  const down = clear.filter((m) => m.mass < 0);
-  if (up.length && down.length) {
-    return `the band curves up towards ${up.map((m) => m.towards).join(', ')} (m* ${up.map((m) => m.mass.toPrecision(3)).join(', ')} m_e) and down towards ${down.map((m) => m.towards).join(', ')} (m* ${down.map((m) => m.mass.toPrecision(3)).join(', ')} m_e)`;
+  const wrong = clear.filter((m) => (maximum ? m.mass > 0 : m.mass < 0));
+  const right = clear.filter((m) => (maximum ? m.mass < 0 : m.mass > 0));
+  const list = (ms: MassFit[]): string => ms.map((m) => `${m.towards}${m.branch !== undefined ? ` (branch ${m.branch})` : ''}`).join(', ');
+  const values = (ms: MassFit[]): string => ms.map((m) => m.mass.toPrecision(3)).join(', ');
+  if (wrong.length && right.length) {
+    const [up, down] = maximum ? [wrong, right] : [right, wrong];
+    const where = x.degenerateBands > 1 ? ' (at this degenerate point not every branch has its extremum here)' : '';
+    return `the band curves up towards ${list(up)} (m* ${values(up)} m_e) and down towards ${list(down)} (m* ${values(down)} m_e)${where}`;
   }
   if (x.tensor && !x.tensor.method.startsWith('from')) {
     const p = x.tensor.principal;
