@@ -293,7 +293,11 @@ export function analyseExtrema(bs: BandStructure, report: Report, settings: Anal
     const x = characterise(ctx, site, settings);
     const saddle = saddleFromMasses(x);
     if (saddle && (x.kind === 'peak' || x.kind === 'valley')) {
-      rejected.push({ band: x.band, spin: x.spin, k: x.k, eV: x.eV, reason: 'saddle', detail: saddle });
+      // One entry per point and band: the fits' account replaces a first one from the search.
+      const entry: RejectedCandidate = { band: x.band, spin: x.spin, k: x.k, eV: x.eV, reason: 'saddle', detail: saddle };
+      const same = rejected.findIndex((r) => r.spin === x.spin && r.band === x.band && r.k.every((c, i) => Math.abs(c - x.k[i]!) < 1e-9));
+      if (same >= 0) rejected[same] = entry;
+      else rejected.push(entry);
       continue;
     }
     if (saddle) x.warnings.push(`This band edge is a saddle point of the band, not an extremum: ${saddle}.`);

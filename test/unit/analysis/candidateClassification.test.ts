@@ -15,6 +15,7 @@ const Y: PathLeg = { label: 'Y', k: [0, 0.5, 0] };
 const M: PathLeg = { label: 'M', k: [0.5, 0.5, 0] };
 
 const A = 4; // Å, simple cubic
+const A_LATTICE = A;
 /** Cartesian k (Å⁻¹) of fractional kx along x for the cubic lattice: 2π kx / a. */
 const kx = (f: number): number => (2 * Math.PI * f) / A;
 
@@ -98,6 +99,38 @@ describe('candidate classification: saddles', () => {
     const cbm = r.extrema.find((e) => e.kind === 'cbm')!;
     assert.ok(near(cbm.k, [0, 0, 0]));
     assert.ok(Math.abs(cbm.masses[0]!.mass - m) < 1e-6); // analytic m = 2
+  });
+});
+
+describe('candidate classification: degenerate points', () => {
+  // Two conduction bands touching at Γ (E = 2 eV): A = 2 + ħ²k²/2m rises in every direction; B rises along y
+  // like A but falls along x as −ħ²kx²/2m'. By index the upper band has a minimum at Γ; the branch that falls
+  // makes Γ a saddle of the pair, not a valley (analytic). The CBM is elsewhere (a band with its minimum at X).
+  const c = (m: number): number => HBAR2_OVER_ME_EV_A2 / (2 * m);
+  const A: Dispersion = (k) => 2 + c(1) * (k[0] ** 2 + k[1] ** 2);
+  const model = (bx: number) =>
+    pathModel({
+      lattice: cubicLattice(A_LATTICE),
+      bands: [parabolicBand(-1, -0.5), parabolicBand(1.5, 1, [kx(0.5), 0, 0]), A, (k) => 2 + c(1) * k[1] ** 2 + bx * k[0] ** 2],
+      electrons: 2,
+      legs: [[X, G, Y]],
+      pointsPerSegment: 41,
+    });
+
+  it('a branch that falls along one direction makes the degenerate point a saddle, not a valley', () => {
+    const r = analyzeBandStructure(model(-c(20)), { range_eV: 1 });
+    assert.ok(!r.extrema.some((e) => e.kind === 'valley' && near(e.k, [0, 0, 0])), JSON.stringify(r.extrema.map((e) => [e.kind, e.band, e.k])));
+    const at = (r.rejected ?? []).filter((x) => near(x.k, [0, 0, 0]));
+    assert.equal(at.length, 1, JSON.stringify(r.rejected));
+    assert.equal(at[0]!.reason, 'saddle');
+    assert.match(at[0]!.detail, /branch/);
+  });
+
+  it('control: when both branches rise (B = 2 + ħ²(ky² + kx²/4)/2m), the degenerate point is a valley', () => {
+    const r = analyzeBandStructure(model(c(4)), { range_eV: 1 });
+    const v = r.extrema.find((e) => e.kind === 'valley' && near(e.k, [0, 0, 0]));
+    assert.ok(v, JSON.stringify(r.extrema.map((e) => [e.kind, e.band, e.k])));
+    assert.equal(v.degenerateBands, 2);
   });
 });
 
