@@ -72,3 +72,10 @@ if (existsSync('scripts/bench-batch.mjs')) {
   const r = spawnSync(process.execPath, ['scripts/bench-batch.mjs'], { stdio: 'inherit' });
   if (r.status !== 0) console.log('  batch benchmark failed');
 } else console.log('\nbatch: benchmark not available (scripts/bench-batch.mjs missing)');
+
+// 6. Analysis against the size of the data (issue goals: analyze --json ≤ 2.5× JSON.parse; memory and the other
+// commands on a 50 MB path), in its own script.
+if (existsSync('scripts/bench-scaling.mjs')) {
+  console.log('');
+  spawnSync(process.execPath, ['scripts/bench-scaling.mjs', ...(small ? ['--quick'] : [])], { stdio: 'inherit' });
+}

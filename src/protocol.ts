@@ -9,7 +9,7 @@
  * Index conventions: `kIndex` and `band0` are 0-based indices into the band arrays; the Report's BandPoint.band
  * is 1-based (band0 = band − 1). Energies are in eV, path distances in the units named by `distanceUnits`.
  */
-import type { ExtremumKind, ExtremumReport, MassFit, Report, Vec3 } from './core/model';
+import type { ExtremumKind, ExtremumReport, MassFit, RejectReason, Report, Vec3 } from './core/model';
 
 // ---------------------------------------------------------------------------------------------------------
 // Message type names
@@ -172,6 +172,18 @@ export interface ExtremumMark {
   reportIndex: number;
 }
 
+/**
+ * A candidate the analysis set aside (a saddle, a crossing, a path end, rounding), located on the arrays:
+ * the view does not offer it as an extremum to fit.
+ */
+export interface SetAsideMark {
+  spin: 0 | 1;
+  kIndex: number;
+  band0: number;
+  reason: RejectReason;
+  detail: string;
+}
+
 /** Fit settings the view starts from (the user's settings). */
 export interface FitDefaults {
   window_meV: number;
@@ -206,6 +218,8 @@ export interface BandData {
   cbm_eV: number | null;
   report: Report;
   marks: ExtremumMark[];
+  /** Candidates the analysis set aside (absent from hosts that predate them). */
+  setAside?: SetAsideMark[];
   defaults: FitDefaults;
   /** The file ended early (a running job): results are provisional. */
   partial: boolean;

@@ -176,6 +176,12 @@ export interface MassFit {
   /** At a degenerate edge: the branch (1-based, by energy at the first step) followed by smooth continuation. */
   branch?: number;
   warnings?: string[];
+  /**
+   * Whether the mass can be quoted: false when the fit has no more points than unknowns, its standard
+   * error exceeds 30 % of |m|, or its vertex lies outside the points used (then `undeterminedReason` says which).
+   */
+  determined: boolean;
+  undeterminedReason?: string;
 }
 
 export interface MassTensor {
@@ -242,6 +248,22 @@ export interface WarpingFitReport {
   light: { m100: number; m110: number; m111: number; dos: number | null };
 }
 
+/** Why a candidate is not a band extremum. */
+export type RejectReason = 'saddle' | 'crossing' | 'boundary' | 'rounding' | 'shallow';
+
+/** A point that looked like an extremum of its band index but is not a minimum or a maximum. */
+export interface RejectedCandidate {
+  /** 1-based band index. */
+  band: number;
+  spin: 0 | 1;
+  /** Fractional reciprocal coordinates. */
+  k: Vec3;
+  eV: number;
+  reason: RejectReason;
+  /** One sentence: what was seen. */
+  detail: string;
+}
+
 export interface Report {
   file: string;
   format: string;
@@ -270,4 +292,6 @@ export interface Report {
   spinGaps?: (GapReport | null)[];
   warnings: string[];
   cautions: string[];
+  /** Candidates that are not extrema (saddles, crossings, path ends, rounding): never valleys or peaks. */
+  rejected?: RejectedCandidate[];
 }

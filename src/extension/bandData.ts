@@ -5,7 +5,7 @@
 import type { BandStructure, Report, Vec3 } from '../core/model';
 import type { PathGeometry } from '../core/lattice/kpath';
 import { FIT_METHODS } from '../core/analysis/methods';
-import { encodeArray, type BandData, type EnergyReference, type ExtremumMark, type ArrayDType } from '../protocol';
+import { encodeArray, type BandData, type EnergyReference, type ExtremumMark, type ArrayDType, type SetAsideMark } from '../protocol';
 import type { AnalysisSettings } from '../core/analysis/analyze';
 
 /** Above this many energies (all spins) they travel as 32-bit floats (7 significant digits: µeV near 0–50 eV). */
@@ -35,6 +35,26 @@ export function extremumMarks(bs: BandStructure, report: Report): ExtremumMark[]
     label: x.label,
     reportIndex,
   }));
+}
+
+/** Same k modulo a reciprocal lattice vector (fractional coordinates differ by integers). */
+function sameKModG(bs: BandStructure, i: number, k: Vec3): boolean {
+  for (let c = 0; c < 3; c++) {
+    const d = bs.kpoints[3 * i + c]! - k[c]!;
+    if (Math.abs(d - Math.round(d)) > 1e-6) return false;
+  }
+  return true;
+}
+
+/** The report's set-aside candidates, at every place the path visits their k. */
+export function setAsideMarks(bs: BandStructure, report: Report): SetAsideMark[] {
+  const out: SetAsideMark[] = [];
+  for (const x of report.rejected ?? []) {
+    for (let i = 0; i < bs.nk; i++) {
+      if (sameKModG(bs, i, x.k)) out.push({ spin: x.spin, kIndex: i, band0: x.band - 1, reason: x.reason, detail: x.detail });
+    }
+  }
+  return out;
 }
 
 export function buildBandData(
@@ -71,6 +91,7 @@ export function buildBandData(
     cbm_eV: report.gap ? report.gap.cbm.eV : null,
     report,
     marks: extremumMarks(bs, report),
+    setAside: setAsideMarks(bs, report),
     defaults: {
       window_meV: settings.window_meV,
       method: settings.method,

@@ -2,7 +2,7 @@
 import { engineContext, fitExtremumAt } from '../core/analysis/massEngine';
 import { massWindowScan } from '../core/analysis/windowScan';
 import type { AnalysisSettings } from '../core/analysis/analyze';
-import { FIT_METHODS } from '../core/analysis/methods';
+import { FIT_METHODS, methodId } from '../core/analysis/methods';
 import { ValleyscopeError } from '../core/errors';
 import type { FitTarget, WindowScanSeries } from '../protocol';
 import type { FitOutcome, FitService } from './fitTypes';
@@ -16,8 +16,9 @@ import { nearestKIndex } from './bandData';
 import type { WindowScanPoint } from '../core/analysis/windowScan';
 
 function checkedMethod(method: string): string {
-  if (!FIT_METHODS.includes(method)) throw new ValleyscopeError(`unknown fit method "${method}" (known: ${FIT_METHODS.join(', ')})`);
-  return method;
+  const id = methodId(method);
+  if (id === null) throw new ValleyscopeError(`unknown fit method "${method}" (known: ${FIT_METHODS.join(', ')})`);
+  return id;
 }
 
 /** Scan points grouped into one series per direction (and branch). */

@@ -93,6 +93,9 @@ export function hoverLines(bs: BandStructure, report: Report, geometry: PathGeom
     if (!hosts.some((h) => h.startsWith('CBM')) && sameK(bs, k, g.cbm.k)) hosts.push(`CBM (band ${g.cbm.band})`);
   }
   out.push(hosts.length ? `hosts: ${hosts.join(', ')}` : 'hosts no band edge or reported extremum');
+  // Candidates the analysis set aside here (a crossing, a saddle...): said, so nobody takes them for valleys.
+  const aside = (report.rejected ?? []).filter((x) => sameK(bs, k, x.k)).map((x) => `band ${x.band}${x.spin === 1 ? ', spin down' : ''} (${x.reason})`);
+  if (aside.length) out.push(`not an extremum here: ${aside.join(', ')}`);
   if (bs.partial) out.push('_The file is incomplete: these values are provisional._');
   return out;
 }

@@ -3,7 +3,7 @@
  * a getter (vscode's WorkspaceConfiguration.get in the extension, a map in tests).
  */
 import { DEFAULT_SETTINGS, type AnalysisSettings } from '../core/analysis/analyze';
-import { FIT_METHODS } from '../core/analysis/methods';
+import { methodId } from '../core/analysis/methods';
 import type { EnergyReference } from '../protocol';
 
 export interface ExtensionSettings {
@@ -42,7 +42,7 @@ export function readSettings(get: SettingGetter): ExtensionSettings {
   return {
     analysis: {
       window_meV: num(get(SETTING_KEYS.window), DEFAULT_SETTINGS.window_meV, 0.1, 5000),
-      method: typeof method === 'string' && FIT_METHODS.includes(method) ? method : DEFAULT_SETTINGS.method,
+      method: (typeof method === 'string' ? methodId(method) : null) ?? DEFAULT_SETTINGS.method,
       range_eV: num(get(SETTING_KEYS.range), DEFAULT_SETTINGS.range_eV, 0, 20),
       degeneracy_meV: num(get(SETTING_KEYS.degeneracy), DEFAULT_SETTINGS.degeneracy_meV, 0, 1000),
     },

@@ -259,6 +259,20 @@ export class FitPanel {
   private massRow(f: MassFit): HTMLTableRowElement {
     const tr = el('tr');
     tr.dataset.towards = f.towards;
+    if (f.determined === false) {
+      // Not quotable: the word instead of the number; what the fit gave and why it is not quoted in the tooltip.
+      tr.classList.add('vs-undetermined');
+      tr.dataset.determined = 'false';
+      tr.append(
+        el('td', undefined, f.towards),
+        el('td', 'vs-num', 'undetermined'),
+        el('td', 'vs-num', '—'),
+        el('td', 'vs-num', sig(f.stderr, 2)),
+        el('td', 'vs-num', String(f.points)),
+      );
+      tr.title = `The fit gave ${sig(f.mass, 3)} ± ${sig(f.stderr, 2)} mₑ, not quoted: ${f.undeterminedReason ?? 'undetermined'}.`;
+      return tr;
+    }
     const hole = f.mass < 0 ? sig(-f.mass, 3) : '—';
     tr.append(
       el('td', undefined, f.towards),

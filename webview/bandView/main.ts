@@ -37,6 +37,7 @@ import { FitPanel, kindName } from './fitPanel';
 import { fixed, fracK, sig } from './format';
 import { edgeMarkerPath, isMaximumKind, secondaryMarkerPath } from './markers';
 import { snapToCandidate, SNAP_TOLERANCE_PX, type ScreenCandidate } from './snap';
+import { setAsideAt } from './setAside';
 import { BAND_VIEW_CSS } from './styles';
 import { fittingLabels } from './tickLabels';
 import { fitsWithin, parseViewState, type BandViewState, type SpinName } from './viewState';
@@ -408,6 +409,8 @@ export class BandViewApp {
     for (let i = 0; i < x.count; i++) {
       const key = `${x.spin[i]}:${x.kIndex[i]}:${x.band0[i]}`;
       if (seen.has(key)) continue;
+      // Not offered: what the analysis found to be a saddle, a crossing or a rounding artefact.
+      if (setAsideAt(vm.data.setAside, x.spin[i]!, x.kIndex[i]!, x.band0[i]!)) continue;
       out.push({ spin: x.spin[i] as 0 | 1, kIndex: x.kIndex[i]!, band0: x.band0[i]!, eV: x.energy[i]!, sign: x.sign[i]!, kind: null });
     }
     this.candidates = out;

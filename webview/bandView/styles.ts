@@ -57,6 +57,7 @@ body.vscode-high-contrast .vs-mark, body.vscode-high-contrast-light .vs-mark { s
 .vs-masses caption { text-align: left; font-weight: 600; padding: 4px 0; }
 .vs-masses th, .vs-masses td { padding: 2px 4px; border-bottom: 1px solid var(--vscode-editorIndentGuide-background1, rgba(128,128,128,0.3)); text-align: left; }
 .vs-num { text-align: right; }
+.vs-undetermined td { font-style: italic; opacity: 0.75; }
 .vs-degeneracy { display: grid; grid-template-columns: auto auto; gap: 2px 10px; margin: 6px 0; }
 .vs-degeneracy dt { color: var(--vscode-descriptionForeground); }
 .vs-degeneracy dd { margin: 0; }

@@ -103,6 +103,8 @@ function mass(c: JsonShape, v: unknown, f: string): MassFit {
     towards: c.str(o.towards, `${f}.towards`),
     direction: c.vec3(o.direction, `${f}.direction`),
     mass: c.numOrNaN(o.mass, `${f}.mass`),
+    // Lines written before masses carried the flag: quotable as they were printed.
+    determined: o.determined === undefined ? true : c.bool(o.determined, `${f}.determined`),
     stderr: c.numOrNaN(o.stderr, `${f}.stderr`),
     points: c.int(o.points, `${f}.points`, 0, MAX_COUNT),
     window_meV: c.num(o.window_meV, `${f}.window_meV`),

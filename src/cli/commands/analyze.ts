@@ -5,7 +5,7 @@ import { loadRun } from '../../core/load';
 import { analyzeBandStructure, type AnalysisSettings } from '../../core/analysis/analyze';
 import { summaryText } from '../../core/report/summaryText';
 import { analysisJson } from '../analysisJson';
-import { FIT_METHODS } from '../../core/analysis/methods';
+import { FIT_METHODS, methodId } from '../../core/analysis/methods';
 import type { CliIO } from '../io';
 import type { ReadOptions } from '../../core/formats/types';
 import { readStructureFile } from '../../core/formats/structureFile';
@@ -22,7 +22,7 @@ valleyscope analyze <files or folders>... --jsonl [--jobs N] [--shard i/n] [opti
   --json            print one JSON object
 ${BATCH_HELP}
   --window <meV>    energy window of the curvature fit (default 25)
-  --method <name>   ${FIT_METHODS.join(' | ')} (default parabola)
+  --method <name>   ${FIT_METHODS.join(' | ')} (default parabola; fd3, fd5 still accepted)
   --range <eV>      report secondary extrema this close to the edges (default 0.5)
   --soc             treat the run as spin-orbit (one electron per band) when the files do not say
   --alat <length+unit>  lattice parameter alat with its unit, e.g. 10.20bohr or 5.40A, for layouts that give
@@ -49,8 +49,9 @@ export function analysisSettingsFromArgs(p: ReturnType<typeof parseArgs>): Parti
   if (r !== undefined) s.range_eV = r;
   const m = flag(p, 'method');
   if (m !== undefined) {
-    if (!FIT_METHODS.includes(m)) throw new UsageError(`--method must be one of ${FIT_METHODS.join(', ')}, got "${m}"`);
-    s.method = m;
+    const id = methodId(m);
+    if (id === null) throw new UsageError(`--method must be one of ${FIT_METHODS.join(', ')}, got "${m}"`);
+    s.method = id;
   }
   return s;
 }

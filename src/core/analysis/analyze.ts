@@ -16,7 +16,7 @@ import { valleyRepresentative } from '../lattice/valleyIdentity';
 export interface AnalysisSettings {
   /** Energy window of the parabola fit, meV. */
   window_meV: number;
-  /** Fit method: 'parabola' | 'fd3' | 'fd5' | 'poly4' | 'kane'. */
+  /** Fit method: one of FIT_METHODS (methods.ts): 'parabola' | 'central-2' | 'central-4' | 'poly4' | 'kane'; fd3/fd5 accepted as aliases. */
   method: string;
   /** Range below the VBM / above the CBM in which secondary extrema are reported, eV. */
   range_eV: number;

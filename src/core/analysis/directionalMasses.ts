@@ -7,6 +7,7 @@ import type { BandStructure, MassFit } from '../model';
 import { followBranches } from './bandBranches';
 import { fitCurvature, type CurvatureFit, type LineSamples } from './fits/index';
 import { oppositeRay, type Ray } from './pathRays';
+import { timeReversalInvariantK } from './extrema';
 
 export interface DirectionalSettings {
   method: string;
@@ -42,7 +43,9 @@ export function toMassFit(fit: CurvatureFit, ray: Ray, branch?: number): MassFit
     window_meV: fit.window_meV,
     method: fit.method,
     residual_meV: fit.residual_meV,
+    determined: fit.determined,
   };
+  if (!fit.determined && fit.undeterminedReason) m.undeterminedReason = fit.undeterminedReason;
   if (fit.alpha_per_eV !== undefined) m.alpha_per_eV = fit.alpha_per_eV;
   if (branch !== undefined) m.branch = branch;
   if (fit.warnings.length) m.warnings = [...fit.warnings];
@@ -50,13 +53,7 @@ export function toMassFit(fit: CurvatureFit, ray: Ray, branch?: number): MassFit
 }
 
 /** k ≡ −k modulo a reciprocal lattice vector (2k integer): E is even along every line through it. */
-export function isTimeReversalInvariant(bs: BandStructure, kIndex: number): boolean {
-  for (let c = 0; c < 3; c++) {
-    const twice = 2 * bs.kpoints[3 * kIndex + c]!;
-    if (Math.abs(twice - Math.round(twice)) > 1e-6) return false;
-  }
-  return true;
-}
+export const isTimeReversalInvariant = timeReversalInvariantK;
 
 export function directionalMasses(bs: BandStructure, spin: number, group: number[], band: number, rays: Ray[], s: DirectionalSettings): DirectionalResult {
   const masses: MassFit[] = [];

@@ -4,15 +4,15 @@
  * directional masses where the little group of k makes them sufficient), averaged masses — each number with
  * its provenance. Also the editor's entry points: a fit at a clicked point and the mass-versus-window scan.
  */
-import type { BandStructure, ExtremumKind, ExtremumReport, MassFit, MassTensor, Report, Vec3 } from '../model';
+import type { BandStructure, ExtremumKind, ExtremumReport, MassFit, MassTensor, RejectedCandidate, Report, Vec3 } from '../model';
 import { kpointAt, labelAt } from '../model';
 import type { AnalysisSettings } from './analyze';
 import { bandEdges, type EdgeAnalysis } from './gap';
 import { occupationRule, type OccupationRule } from './occupation';
 import { classifyConduction } from './conductionClass';
-import { energySigma } from './energyResolution';
+import { energyRoundingStep } from './energyResolution';
 import { degenerateGroup, gridNeighbours, locateExtrema, pathNeighbours, type ExtremumSite, type NeighbourFn } from './extrema';
-import { pathNetwork, kKey, type PathNetwork } from './pathRays';
+import { pathNetwork, kKey, type PathNetwork, type RayExtent } from './pathRays';
 import { directionalMasses } from './directionalMasses';
 import type { CurvatureFit } from './fits/types';
 import { oppositeRay, type Ray } from './pathRays';
@@ -33,6 +33,8 @@ export interface EngineContext {
   network: PathNetwork | null;
   neighbours: NeighbourFn | null;
   energySigma: number;
+  /** The decimal step the energies are written with, eV (0: full precision). */
+  energyStep: number;
   symmetry: SymmetryContext;
 }
 
@@ -60,7 +62,8 @@ export function engineContext(bs: BandStructure): EngineContext {
       neighbours = pathNeighbours(net);
     } else neighbours = gridNeighbours(bs);
   }
-  const ctx: EngineContext = { bs, network, neighbours, energySigma: energySigma(bs), symmetry: symmetryContext(bs) };
+  const energyStep = energyRoundingStep(bs);
+  const ctx: EngineContext = { bs, network, neighbours, energySigma: energyStep / Math.sqrt(12), energyStep, symmetry: symmetryContext(bs) };
   contexts.set(bs, ctx);
   return ctx;
 }
@@ -68,7 +71,7 @@ export function engineContext(bs: BandStructure): EngineContext {
 function pointLabel(bs: BandStructure, net: PathNetwork | null, k: number): string | null {
   const own = labelAt(bs, k);
   if (own || !net) return own;
-  for (const j of net.occurrences.get(net.keyOf[k]!) ?? []) {
+  for (const j of net.visitsOf(k)) {
     const l = labelAt(bs, j);
     if (l) return l;
   }
@@ -142,7 +145,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     if (!network.hasLengths) warnings.push('No lattice and no written path distances: masses cannot be given in m_e.');
     else {
       if (network.geometry.cartesian === null) warnings.push('No lattice: distances are as the file wrote them and directions are unknown (written as zero vectors).');
-      const rays = network.raysFrom(site.k);
+      const rays = network.raysFrom(site.k, fitExtent(bs, site, settings.window_meV / 1000));
       const dm = directionalMasses(bs, site.spin, site.group, site.band, rays, {
         method: settings.method,
         window_meV: settings.window_meV,
@@ -173,19 +176,23 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   }
 
   // Tensor from directional masses and the little group of k, when the path and symmetry suffice.
-  if (!tensor && g === 1 && masses.length > 0 && bs.lattice && network?.geometry.cartesian) {
+  const quotable = masses.filter((m) => m.determined);
+  if (masses.length > quotable.length) {
+    warnings.push(`${masses.length - quotable.length} of the ${masses.length} directional masses are undetermined (see each one): averaged masses and the tensor use only the determined ones.`);
+  }
+  if (!tensor && g === 1 && quotable.length > 0 && bs.lattice && network?.geometry.cartesian) {
     const ops = cartesianLittleGroup(ctx.symmetry, k, bs.lattice);
     if (ops) {
       const r = tensorFromDirections(
-        masses.map((m) => ({ direction: m.direction, inverseMass: 1 / m.mass })),
+        quotable.map((m) => ({ direction: m.direction, inverseMass: 1 / m.mass })),
         ops,
       );
       if (r.result) {
         tensor = {
           principal: r.result.principal,
           axes: r.result.axes,
-          method: `from ${masses.length} directional mass${masses.length === 1 ? '' : 'es'} and the little group of k (${r.result.operations} operations with time reversal, ${r.result.components} independent component${r.result.components === 1 ? '' : 's'})`,
-          points: masses.reduce((s, m) => s + m.points, 0),
+          method: `from ${quotable.length} directional mass${quotable.length === 1 ? '' : 'es'} and the little group of k (${r.result.operations} operations with time reversal, ${r.result.components} independent component${r.result.components === 1 ? '' : 's'})`,
+          points: quotable.reduce((s, m) => s + m.points, 0),
         };
       } else if (r.reason) {
         warnings.push(`No mass tensor: ${r.reason}. A tensor run (valleyscope tensor-kpoints --at ${site.kind === 'vbm' || site.kind === 'cbm' ? site.kind : fracText(k)}) gives the full tensor.`);
@@ -202,6 +209,8 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     warnings.push(av.note);
   } else if (offPath) {
     dosMass = offPath.dosMass;
+  } else if (g > 1 && masses.length > 0 && quotable.length < masses.length) {
+    warnings.push('No density-of-states mass for the degenerate branches: some branch masses are undetermined.');
   } else if (g > 1 && masses.length > 0) {
     // Several bands share the edge: path-limited DOS mass, directions weighted by their stars (averagedMasses.ts).
     const ops = bs.lattice ? cartesianLittleGroup(ctx.symmetry, k, bs.lattice) : null;
@@ -258,7 +267,7 @@ export interface EdgeInputs {
 /** Fill `report.extrema` (called by analyzeBandStructure once the gap is known). */
 export function analyseExtrema(bs: BandStructure, report: Report, settings: AnalysisSettings, inputs: EdgeInputs): void {
   const ctx = engineContext(bs);
-  const sites = locateExtrema({
+  const search = locateExtrema({
     bs,
     occ: inputs.occ,
     edges: inputs.edges,
@@ -269,11 +278,96 @@ export function analyseExtrema(bs: BandStructure, report: Report, settings: Anal
     range_eV: settings.range_eV,
     degeneracy_eV: settings.degeneracy_meV / 1000,
     equivalent: equivalenceOf(ctx),
+    window_eV: settings.window_meV / 1000,
+    precision_eV: ctx.energyStep,
   });
   if (!ctx.neighbours && bs.nk > 1) {
     report.warnings.push('The k-points form neither a path nor a known grid: secondary extrema were not searched.');
   }
-  report.extrema = sites.map((s) => characterise(ctx, s, settings));
+  const rejected: RejectedCandidate[] = search.rejected.map((r) => ({
+    band: r.band + 1,
+    spin: r.spin,
+    k: kpointAt(bs, r.k),
+    eV: r.energy,
+    reason: r.reason,
+    detail: r.detail,
+  }));
+  const extrema: ExtremumReport[] = [];
+  for (const site of search.sites) {
+    const x = characterise(ctx, site, settings);
+    const saddle = saddleFromMasses(x);
+    if (saddle && (x.kind === 'peak' || x.kind === 'valley')) {
+      // One entry per point and band: the fits' account replaces a first one from the search.
+      const entry: RejectedCandidate = { band: x.band, spin: x.spin, k: x.k, eV: x.eV, reason: 'saddle', detail: saddle };
+      const same = rejected.findIndex((r) => r.spin === x.spin && r.band === x.band && r.k.every((c, i) => Math.abs(c - x.k[i]!) < 1e-9));
+      if (same >= 0) rejected[same] = entry;
+      else rejected.push(entry);
+      continue;
+    }
+    if (saddle) x.warnings.push(`This band edge is a saddle point of the band, not an extremum: ${saddle}.`);
+    extrema.push(x);
+  }
+  report.extrema = extrema;
+  report.rejected = listedRejections(rejected, report.warnings);
+}
+
+/** Most set-aside candidates listed per reason (noisy data can hold thousands of rounding bumps). */
+export const MAX_REJECTED_PER_REASON = 50;
+
+function listedRejections(all: RejectedCandidate[], warnings: string[]): RejectedCandidate[] {
+  const count = new Map<string, number>();
+  const out: RejectedCandidate[] = [];
+  for (const x of all) {
+    const n = (count.get(x.reason) ?? 0) + 1;
+    count.set(x.reason, n);
+    if (n <= MAX_REJECTED_PER_REASON) out.push(x);
+  }
+  for (const [reason, n] of count) {
+    if (n > MAX_REJECTED_PER_REASON) warnings.push(`${n} candidates were set aside as ${reason}; the first ${MAX_REJECTED_PER_REASON} are listed.`);
+  }
+  return out;
+}
+
+/**
+ * A saddle seen in the fits: a determined directional mass of the wrong sign for the kind of extremum
+ * (positive at a maximum, negative at a minimum; clear of zero by two standard errors) — for a single band,
+ * masses of both signs; at a degenerate point, a branch that curves the wrong way, so the point is not a
+ * maximum (minimum) of every branch — or a fitted tensor with principal masses of both signs.
+ */
+export function saddleFromMasses(x: ExtremumReport): string | null {
+  const maximum = x.kind === 'vbm' || x.kind === 'peak';
+  const clear = x.masses.filter((m) => m.determined && Math.abs(m.mass) > 2 * m.stderr);
+  const wrong = clear.filter((m) => (maximum ? m.mass > 0 : m.mass < 0));
+  const right = clear.filter((m) => (maximum ? m.mass < 0 : m.mass > 0));
+  const list = (ms: MassFit[]): string => ms.map((m) => `${m.towards}${m.branch !== undefined ? ` (branch ${m.branch})` : ''}`).join(', ');
+  const values = (ms: MassFit[]): string => ms.map((m) => m.mass.toPrecision(3)).join(', ');
+  if (wrong.length && right.length) {
+    const [up, down] = maximum ? [wrong, right] : [right, wrong];
+    const where = x.degenerateBands > 1 ? ' (at this degenerate point not every branch has its extremum here)' : '';
+    return `the band curves up towards ${list(up)} (m* ${values(up)} m_e) and down towards ${list(down)} (m* ${values(down)} m_e)${where}`;
+  }
+  if (x.tensor && !x.tensor.method.startsWith('from')) {
+    const p = x.tensor.principal;
+    if (p.some((m) => m > 0) && p.some((m) => m < 0)) return `the fitted mass tensor has principal masses of both signs (${p.map((m) => m.toPrecision(3)).join(', ')} m_e)`;
+  }
+  return null;
+}
+
+/**
+ * How far along each direction the fits need points: past the window of every band of the site (twice
+ * the window, for branches that change band), and never fewer than a dozen points (the window grows to
+ * the fewest points a fit needs). Keeps the work per extremum proportional to the points near it.
+ */
+function fitExtent(bs: BandStructure, site: ExtremumSite, window_eV: number): RayExtent {
+  const e = bs.energies[site.spin]!;
+  const nb = bs.nBands;
+  const e0 = site.energy;
+  const limit = 2 * window_eV + 1e-9;
+  return (k, m) => {
+    if (m < 12) return true;
+    for (const b of site.group) if (Math.abs(e[k * nb + b]! - e0) <= limit) return true;
+    return false;
+  };
 }
 
 /**
@@ -334,7 +428,8 @@ function snap(ctx: EngineContext, spin: number, kIndex: number, band: number): {
   const down = climb(false);
   if (up.steps === down.steps) {
     // Already at an extremum of one kind (0 steps each way only on a flat spot): curvature decides.
-    const d2 = nbrs(kIndex).reduce((s, j) => s + e[j * nb + band]! - e[kIndex * nb + band]!, 0);
+    let d2 = 0;
+    for (const j of nbrs(kIndex)) d2 += e[j * nb + band]! - e[kIndex * nb + band]!;
     return d2 < 0 ? { k: up.k, maximum: true } : { k: down.k, maximum: false };
   }
   return up.steps < down.steps ? { k: up.k, maximum: true } : { k: down.k, maximum: false };
@@ -375,5 +470,8 @@ export function fitExtremumAt(bs: BandStructure, spin: number, kIndex: number, b
     group,
     warnings: k !== kIndex ? [`Moved from the clicked point to the nearest ${maximum ? 'maximum' : 'minimum'} of band ${band0 + 1}.`] : [],
   };
-  return characterise(ctx, site, settings);
+  const x = characterise(ctx, site, settings);
+  const saddle = saddleFromMasses(x);
+  if (saddle) x.warnings.unshift(`Not an extremum but a saddle point: ${saddle}.`);
+  return x;
 }

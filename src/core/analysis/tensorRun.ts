@@ -221,7 +221,7 @@ export function warpedFromPoints(points: { d: Vec3; e: Float64Array }[], g: numb
  * A mass with the `determined` flag the report carries (false when its standard error exceeds 30 % of |m|, or
  * for the reason given). Typed as an intersection so it reads the same whether or not MassFit declares it yet.
  */
-function quotable(m: MassFit, reason: string | null): MassFit & { determined: boolean; undeterminedReason?: string } {
+function quotable(m: Omit<MassFit, 'determined'>, reason: string | null): MassFit {
   const why = reason ?? (m.stderr > 0.3 * Math.abs(m.mass) ? `standard error ${m.stderr.toPrecision(2)} m_e is more than 30 % of |m|` : null);
   return why ? { ...m, determined: false, undeterminedReason: why } : { ...m, determined: true };
 }

@@ -94,6 +94,8 @@ export interface AnnotatedMass {
   residual_meV: number | null;
   /** At a degenerate edge: the branch (1-based) followed by smooth continuation, when the fit followed one. */
   branch: number | null;
+  /** Whether the mass can be quoted (false: undetermined, the reason among the warnings); null in files written before it was recorded. */
+  determined: boolean | null;
   warnings: string[];
   extra: ExtraFields;
 }

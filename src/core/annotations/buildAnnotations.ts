@@ -21,6 +21,7 @@ import {
 import { sortEntries } from './serializeAnnotations';
 import { mergeAnnotations } from './mergeAnnotations';
 import { valleyRepresentative } from '../lattice/valleyIdentity';
+import { methodId } from '../analysis/methods';
 
 export interface RecordedSettings extends AnalysisSettings {
   /** The run was read as spin-orbit because the user asked (`--soc`), not because its files say so. */
@@ -105,7 +106,8 @@ function mass(m: MassFit): AnnotatedMass {
     alpha_per_eV: finiteOrNull(m.alpha_per_eV),
     residual_meV: finiteOrNull(m.residual_meV),
     branch: m.branch ?? null,
-    warnings: [...(m.warnings ?? [])],
+    determined: m.determined,
+    warnings: [...(m.warnings ?? []), ...(!m.determined && m.undeterminedReason ? [`Undetermined: ${m.undeterminedReason}.`] : [])],
     extra: emptyExtra(),
   };
 }
@@ -237,7 +239,8 @@ export function recordedSettings(s: RecordedSettings): AnnotatedSettings {
 /** The analysis settings a document records, in the shape analyzeBandStructure takes. */
 export function analysisSettingsOf(doc: AnnotationsDoc): AnalysisSettings {
   const s = doc.settings;
-  return { window_meV: s.window_meV, method: s.method, range_eV: s.range_eV, degeneracy_meV: s.degeneracy_meV };
+  // Earlier method names (fd3, fd5) are read as today's (central-2, central-4).
+  return { window_meV: s.window_meV, method: methodId(s.method) ?? s.method, range_eV: s.range_eV, degeneracy_meV: s.degeneracy_meV };
 }
 
 /**

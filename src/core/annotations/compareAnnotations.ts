@@ -7,6 +7,7 @@
 import { entryTitle, type AnnotatedEntry, type AnnotatedMass, type AnnotatedSource, type AnnotationsDoc } from './annotationsModel';
 import { kDistance, massKeys, matchEntries } from './matchEntries';
 import { formatNumber, roundAs } from './numberFormat';
+import { methodId } from '../analysis/methods';
 
 export interface Tolerances {
   /** Energies (band energies and gaps), meV. */
@@ -179,8 +180,9 @@ export function compareSources(older: readonly AnnotatedSource[], newer: readonl
 export function compareSettings(older: AnnotationsDoc, newer: AnnotationsDoc): AnnotationChange[] {
   const out: AnnotationChange[] = [];
   for (const key of ['window_meV', 'method', 'range_eV', 'degeneracy_meV', 'forceSpinorbit', 'alat_angstrom', 'structureFile'] as const) {
-    const a = String(older.settings[key]);
-    const b = String(newer.settings[key]);
+    // A method written under its earlier name (fd3, fd5) is the same method.
+    const a = key === 'method' ? methodId(older.settings.method) ?? older.settings.method : String(older.settings[key]);
+    const b = key === 'method' ? methodId(newer.settings.method) ?? newer.settings.method : String(newer.settings[key]);
     if (a !== b) out.push({ scope: 'settings', subject: 'settings', kind: 'changed', quantity: key, before: a, after: b, delta: null, message: `settings: ${key} ${a} → ${b}` });
   }
   return out;

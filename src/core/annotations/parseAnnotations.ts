@@ -242,7 +242,7 @@ function readGap(w: Walker, n: JsonNode | undefined): AnnotatedGap | null {
   };
 }
 
-const MASS_KEYS = ['towards', 'direction', 'mass', 'stderr', 'points', 'window_meV', 'method', 'alpha_per_eV', 'residual_meV', 'branch', 'warnings'];
+const MASS_KEYS = ['towards', 'direction', 'mass', 'stderr', 'points', 'window_meV', 'method', 'alpha_per_eV', 'residual_meV', 'branch', 'determined', 'warnings'];
 
 function readMass(w: Walker, n: JsonNode, what: string): AnnotatedMass {
   const o = w.obj(n, what);
@@ -258,6 +258,7 @@ function readMass(w: Walker, n: JsonNode, what: string): AnnotatedMass {
     alpha_per_eV: w.numOrNull(f.get('alpha_per_eV'), `${what}.alpha_per_eV`),
     residual_meV: w.numOrNull(f.get('residual_meV'), `${what}.residual_meV`, nonNegative, 'zero or positive'),
     branch: w.numOrNull(f.get('branch'), `${what}.branch`, positiveWhole, 'a whole number of 1 or more'),
+    determined: f.get('determined') === undefined || f.get('determined')!.type === 'null' ? null : w.bool(f.get('determined'), `${what}.determined`, true),
     warnings: w.strings(f.get('warnings'), `${what}.warnings`),
     extra: f.extra,
   };

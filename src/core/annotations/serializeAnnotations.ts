@@ -115,6 +115,7 @@ function massOut(m: AnnotatedMass): Out {
       ['alpha_per_eV', numOrNull(m.alpha_per_eV, 'mass')],
       ['residual_meV', numOrNull(m.residual_meV, 'residual')],
       ['branch', numOrNull(m.branch, 'plain')],
+      ...(m.determined === null ? [] : [['determined', bool(m.determined)] as [string, Out]]),
       ['warnings', strs(m.warnings)],
     ],
     m.extra,

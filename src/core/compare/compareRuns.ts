@@ -55,7 +55,7 @@ export interface ValleyColumn {
   branch: number;
 }
 
-export type MassComparison = 'reference' | 'compared' | 'no reference' | 'degeneracy changed';
+export type MassComparison = 'reference' | 'compared' | 'no reference' | 'degeneracy changed' | 'undetermined';
 
 export interface MassChange {
   /** Direction and branch as shown: "X" or "X (branch 2)". */
@@ -216,6 +216,8 @@ function compareMasses(e: ExtremumReport, r: ExtremumReport | undefined, isRefer
     // Same direction and, at a degenerate edge, the same branch (heavy with heavy, light with light).
     const rm = r.masses.find((x) => x.towards === m.towards && (x.branch ?? null) === branch);
     if (!rm || !Number.isFinite(rm.mass) || rm.mass === 0 || !Number.isFinite(m.mass)) return { ...base, referenceMass: rm ? rm.mass : null, relativeChange: null, status: 'no reference' };
+    // A change is given only between masses that can be quoted (an undetermined one has no value to compare).
+    if (m.determined === false || rm.determined === false) return { ...base, referenceMass: rm.mass, relativeChange: null, status: 'undetermined' };
     return { ...base, referenceMass: rm.mass, relativeChange: (Math.abs(m.mass) - Math.abs(rm.mass)) / Math.abs(rm.mass), status: 'compared' };
   });
   return { masses, degeneracyChanged };
@@ -247,7 +249,7 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
     const extra = new Map<string, ExtremumReport[]>();
     // Group this run's extrema by (side, spin, valley under its own symmetry); branch = energy order within.
     const groups: { side: Side; spin: 0 | 1; k: Vec3; members: ExtremumReport[] }[] = [];
-    for (const e of run.report.extrema) {
+    for (const e of trackedExtrema(run.report, ownRots)) {
       const side = sideOf(e);
       const g = groups.find((x) => x.side === side && x.spin === e.spin && equivalenceDistance(x.k, e.k, ownRots) < 1e-4);
       if (g) g.members.push(e);
@@ -362,3 +364,16 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
   });
   return { reference: ref.name, columns, runs: compared, events };
 }
+
+/**
+ * The extrema a comparison follows: never a candidate the analysis set aside (a saddle, a crossing, a path
+ * end), even when a report lists it among its extrema too (reports built from older annotations files).
+ */
+function trackedExtrema(report: Report, rots: ReturnType<typeof kRotations> | null): ExtremumReport[] {
+  const rejected = report.rejected ?? [];
+  if (!rejected.length) return report.extrema;
+  return report.extrema.filter(
+    (e) => e.kind === 'vbm' || e.kind === 'cbm' || !rejected.some((x) => x.spin === e.spin && (x.band === e.band || Math.abs(x.eV - e.eV) <= 1e-3) && equivalenceDistance(x.k, e.k, rots) < 1e-4),
+  );
+}
+

@@ -64,6 +64,8 @@ function massFit(m: AnnotatedMass): MassFit | null {
     points: m.points,
     window_meV: m.window_meV,
     method: m.method,
+    // Files written before `determined` was recorded: taken as quotable, as they were then.
+    determined: m.determined ?? true,
   };
   if (m.alpha_per_eV !== null) out.alpha_per_eV = m.alpha_per_eV;
   if (m.residual_meV !== null) out.residual_meV = m.residual_meV;

@@ -2,7 +2,7 @@
  * The JSON shape of a Report (the CLI contract): plain objects with keys in a fixed order, numbers rounded
  * to what the quantity can carry so output is stable.
  */
-import type { BandPoint, ExtremumReport, GapReport, MassFit, MassTensor, Report, WarpingFitReport } from '../model';
+import type { BandPoint, ExtremumReport, GapReport, MassFit, MassTensor, RejectedCandidate, Report, WarpingFitReport } from '../model';
 
 const r = (x: number, digits: number): number => {
   if (!Number.isFinite(x)) return x;
@@ -43,6 +43,8 @@ export function massJson(m: MassFit): Record<string, unknown> {
   if (m.alpha_per_eV !== undefined) o.alpha_per_eV = r(m.alpha_per_eV, 6);
   if (m.residual_meV !== undefined) o.residual_meV = r(m.residual_meV, 3);
   if (m.branch !== undefined) o.branch = m.branch;
+  o.determined = m.determined;
+  if (!m.determined && m.undeterminedReason) o.undeterminedReason = m.undeterminedReason;
   if (m.warnings && m.warnings.length) o.warnings = m.warnings;
   return o;
 }
@@ -93,6 +95,10 @@ export function warpingJson(w: WarpingFitReport): Record<string, unknown> {
   };
 }
 
+export function rejectedJson(x: RejectedCandidate): Record<string, unknown> {
+  return { band: x.band, spin: x.spin, k: kvec(x.k), eV: e6(x.eV), reason: x.reason, detail: x.detail };
+}
+
 export function reportToJson(rep: Report): Record<string, unknown> {
   const o: Record<string, unknown> = {
     file: rep.file,
@@ -122,6 +128,7 @@ export function reportToJson(rep: Report): Record<string, unknown> {
       crossingBands: c.crossingBands,
     }));
   }
+  if (rep.rejected) o.rejected = rep.rejected.map(rejectedJson);
   o.warnings = rep.warnings;
   o.cautions = rep.cautions;
   return o;

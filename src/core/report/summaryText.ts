@@ -1,5 +1,5 @@
 /** The readable summary of a Report: what `valleyscope analyze` prints without --json. */
-import type { BandPoint, ExtremumReport, MassFit, Report } from '../model';
+import type { BandPoint, ExtremumReport, MassFit, RejectedCandidate, Report } from '../model';
 import { energyZeroName, type EnergyZero } from './energyZero';
 
 /** How the summary shows energies and positions (both optional: raw energies, fractional k only). */
@@ -28,10 +28,32 @@ export function describePoint(p: BandPoint, o: SummaryOptions = {}): string {
 }
 
 function massLine(m: MassFit, atMaximum: boolean): string {
-  const hole = atMaximum && m.mass < 0 ? ` (hole mass ${fmt(-m.mass, 3)})` : '';
   const alpha = m.alpha_per_eV !== undefined ? `, α = ${fmt(m.alpha_per_eV, 3)} /eV` : '';
   const branch = m.branch !== undefined ? ` (branch ${m.branch})` : '';
-  return `      towards ${m.towards}${branch}: m* = ${fmt(m.mass, 3)} ± ${fmt(m.stderr, 3)} m_e${hole}${alpha}  [${m.method}, ${m.points} points, ${fmt(m.window_meV, 0)} meV window]`;
+  const provenance = `[${m.method}, ${m.points} points, ${fmt(m.window_meV, 0)} meV window]`;
+  // A mass that cannot be quoted is not printed as a bare number: the word comes first, the fit's value
+  // only as what the fit gave.
+  if (m.determined === false) {
+    return `      towards ${m.towards}${branch}: m* undetermined (the fit gave ${fmt(m.mass, 3)} ± ${fmt(m.stderr, 3)} m_e: ${m.undeterminedReason ?? 'not quotable'})  ${provenance}`;
+  }
+  const hole = atMaximum && m.mass < 0 ? ` (hole mass ${fmt(-m.mass, 3)})` : '';
+  return `      towards ${m.towards}${branch}: m* = ${fmt(m.mass, 3)} ± ${fmt(m.stderr, 3)} m_e${hole}${alpha}  ${provenance}`;
+}
+
+const REASON_WORDS: Record<RejectedCandidate['reason'], string> = {
+  saddle: 'saddle',
+  crossing: 'crossing',
+  boundary: 'path end',
+  rounding: 'rounding',
+  shallow: 'too shallow',
+};
+
+/** One line naming the candidates that are not extrema (the details are in the JSON output). */
+export function rejectedLine(rejected: RejectedCandidate[], shown = 6): string | null {
+  if (!rejected.length) return null;
+  const items = rejected.slice(0, shown).map((x) => `band ${x.band}${x.spin === 1 ? '↓' : ''} at ${formatK(x.k)} (${REASON_WORDS[x.reason]})`);
+  const more = rejected.length > shown ? `, and ${rejected.length - shown} more (see --json)` : '';
+  return `  Not extrema (set aside): ${items.join(', ')}${more}`;
 }
 
 function extremumBlock(e: ExtremumReport, o: SummaryOptions, metal = false): string[] {
@@ -44,7 +66,10 @@ function extremumBlock(e: ExtremumReport, o: SummaryOptions, metal = false): str
   const atMax = e.kind === 'vbm' || e.kind === 'peak';
   if (e.masses.length) {
     lines.push('    directional masses (signed curvature masses; negative at a maximum):');
-    for (const m of e.masses) lines.push(massLine(m, atMax));
+    for (const m of e.masses) {
+      lines.push(massLine(m, atMax));
+      for (const w of m.warnings ?? []) lines.push(`        ! ${w}`);
+    }
   }
   if (e.tensor) {
     lines.push(`    mass tensor (${e.tensor.method}): principal ${e.tensor.principal.map((x) => fmt(x, 3)).join(', ')} m_e`);
@@ -97,6 +122,8 @@ export function summaryText(r: Report, options: SummaryOptions = {}): string {
     out.push('  Extrema:');
     for (const e of r.extrema) out.push(...extremumBlock(e, o, r.metal === true));
   }
+  const rejected = rejectedLine(r.rejected ?? []);
+  if (rejected) out.push(rejected);
   if (r.warnings.length) {
     out.push('  Warnings:');
     for (const w of r.warnings) out.push(`    - ${w}`);

@@ -44,7 +44,7 @@ describe('curvature fits on analytic lines', () => {
   // Free electron E = ħ²k²/2m_e: m* = 1 exactly (analytic).
   const free = (t: number): number => (HBAR2_OVER_ME_EV_A2 / 2) * t * t;
 
-  for (const method of ['parabola', 'fd3', 'fd5', 'poly4', 'kane']) {
+  for (const method of ['parabola', 'central-2', 'central-4', 'poly4', 'kane']) {
     it(`${method}: free electron gives m* = 1`, () => {
       const out = fitCurvature(method, line(free, 0.01, 30, true), { window_meV: 100, energySigma: 0 });
       assert.ok(out.fit);

@@ -58,10 +58,11 @@ const massArb: fc.Arbitrary<AnnotatedMass> = fc.record({
   stderr: fc.option(finite(0, 1), { nil: null }),
   points: fc.integer({ min: 0, max: 40 }),
   window_meV: finite(0, 500),
-  method: fc.constantFrom('parabola', 'fd3', 'fd5', 'poly4', 'kane'),
+  method: fc.constantFrom('parabola', 'central-2', 'central-4', 'poly4', 'kane'),
   alpha_per_eV: fc.option(finite(-5, 5), { nil: null }),
   residual_meV: fc.option(finite(0, 20), { nil: null }),
   branch: fc.option(fc.integer({ min: 1, max: 4 }), { nil: null }),
+  determined: fc.option(fc.boolean(), { nil: null }),
   warnings: fc.array(text, { maxLength: 2 }),
   extra: extraArb,
 });

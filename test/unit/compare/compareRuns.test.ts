@@ -10,7 +10,7 @@ import { fccLattice } from '../../support/bandStructure';
 function ext(kind: ExtremumReport['kind'], band: number, k: Vec3, eV: number, offset: number, label: string | null, masses: [string, number][], nv: number | null = null): ExtremumReport {
   return {
     kind, band, spin: 0, k, eV, label, offset_eV: offset, degenerateBands: 1, valleyDegeneracy: nv,
-    masses: masses.map(([towards, mass]) => ({ towards, direction: [1, 0, 0], mass, stderr: 0.001, points: 7, window_meV: 25, method: 'parabola' })),
+    masses: masses.map(([towards, mass]) => ({ towards, direction: [1, 0, 0], mass, stderr: 0.001, points: 7, window_meV: 25, method: 'parabola', determined: true })),
     tensor: null, dosMass: null, conductivityMass: null, warnings: [],
   };
 }

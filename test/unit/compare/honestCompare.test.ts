@@ -20,7 +20,7 @@ import type { ExtremumReport, GapReport, Mat3, Report, Vec3 } from '../../../src
 function ext(kind: ExtremumReport['kind'], k: Vec3, eV: number, label: string | null, masses: [string, number, number?][], degenerate = 1): ExtremumReport {
   return {
     kind, band: kind === 'vbm' || kind === 'peak' ? 4 : 5, spin: 0, k, eV, label, offset_eV: 0, degenerateBands: degenerate, valleyDegeneracy: 1,
-    masses: masses.map(([towards, mass, branch]) => ({ towards, direction: [1, 0, 0], mass, stderr: 0.001, points: 7, window_meV: 25, method: 'parabola', ...(branch !== undefined ? { branch } : {}) })),
+    masses: masses.map(([towards, mass, branch]) => ({ towards, direction: [1, 0, 0], mass, stderr: 0.001, points: 7, window_meV: 25, method: 'parabola', determined: true, ...(branch !== undefined ? { branch } : {}) })),
     tensor: null, dosMass: null, conductivityMass: null, warnings: [],
   };
 }

@@ -85,7 +85,7 @@ describe('extension: fits for the band view', () => {
   });
 
   it('Kane curves follow ε(1 + αε) = ħ²k²/2m* (E. O. Kane, J. Phys. Chem. Solids 1, 249 (1957))', () => {
-    const m = { towards: 'X', direction: [1, 0, 0] as [number, number, number], mass: 0.2, stderr: 0, points: 9, window_meV: 50, method: 'kane', alpha_per_eV: 0.6 };
+    const m = { towards: 'X', direction: [1, 0, 0] as [number, number, number], mass: 0.2, stderr: 0, points: 9, window_meV: 50, method: 'kane', alpha_per_eV: 0.6, determined: true };
     for (const t of [0, 0.05, 0.1, 0.2]) {
       const e = fittedEnergy(1, m, t) - 1;
       const rhs = (HBAR2_ME * t * t) / (2 * 0.2);
@@ -128,7 +128,7 @@ describe('extension: fits for the band view', () => {
   });
 
   it('groups a window scan into one series per direction', () => {
-    const mk = (towards: string, mass: number, branch?: number) => ({ towards, direction: [0, 0, 0] as [number, number, number], mass, stderr: 0.01, points: 5, window_meV: 10, method: 'parabola', ...(branch ? { branch } : {}) });
+    const mk = (towards: string, mass: number, branch?: number) => ({ towards, direction: [0, 0, 0] as [number, number, number], mass, stderr: 0.01, points: 5, window_meV: 10, method: 'parabola', determined: true, ...(branch ? { branch } : {}) });
     const s = scanSeries([
       { window_meV: 10, masses: [mk('X', 0.9), mk('Γ', 0.2, 1)] },
       { window_meV: 20, masses: [mk('X', 0.95), mk('Γ', 0.21, 1)] },

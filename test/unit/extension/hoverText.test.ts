@@ -25,8 +25,10 @@ describe('extension: hover on a k-point line', () => {
     assert.match(bands, /band 3: .*band 4 \(VB top band\).*band 5 \(CB bottom band\).*band 6/);
     const e4 = bs.energies[0]![39 * bs.nBands + 3]!;
     assert.ok(bands.includes(`band 4 (VB top band): ${e4.toFixed(4)} eV`));
-    // X hosts a secondary conduction valley in this model (the report lists it).
-    assert.ok(lines.some((l) => l.startsWith('hosts:') && l.includes('conduction valley')));
+    // At X the two lowest conduction bands of the diamond structure meet and cross (common practice): by band
+    // index the upper one has a "V" there, which is not a valley. The hover says so and names no valley.
+    assert.ok(!lines.some((l) => l.includes('conduction valley')), lines.join('\n'));
+    assert.ok(lines.some((l) => l.startsWith('not an extremum here:') && /band 6 \(crossing\)/.test(l)), lines.join('\n'));
   });
 
   it('says that Γ hosts the VBM, with the degeneracy of the top valence bands', async () => {

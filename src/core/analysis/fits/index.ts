@@ -4,6 +4,7 @@ import { kaneCurvature } from './kaneFit';
 import { parabolaCurvature } from './parabolaFit';
 import { quarticCurvature } from './polynomialFit';
 import type { CurvatureFit, FitSettings, LineSamples } from './types';
+import { CENTRAL_2, CENTRAL_4, methodId } from '../methods';
 
 export type { CurvatureFit, FitSettings, LineSamples } from './types';
 
@@ -13,15 +14,16 @@ export interface MethodOutcome {
   fallback?: string;
 }
 
-/** Fit with the named method; finite differences fall back to the parabola where they cannot apply. */
+/** Fit with the named method (earlier names accepted: fd3, fd5); finite differences fall back to the parabola where they cannot apply. */
 export function fitCurvature(method: string, s: LineSamples, settings: FitSettings): MethodOutcome {
-  switch (method) {
-    case 'fd3':
-    case 'fd5': {
-      const r = finiteDifferenceCurvature(s, settings, method === 'fd3' ? 3 : 5);
+  const id = methodId(method);
+  switch (id) {
+    case CENTRAL_2:
+    case CENTRAL_4: {
+      const r = finiteDifferenceCurvature(s, settings, id === CENTRAL_2 ? 3 : 5);
       if (r.fit) return { fit: r.fit };
       const fit = parabolaCurvature(s, settings);
-      const why = `${r.refusal ?? `${method} could not be applied`}: the parabola fit was used instead.`;
+      const why = `${r.refusal ?? `${id} could not be applied`}: the parabola fit was used instead.`;
       if (fit) fit.warnings.unshift(why);
       return { fit, fallback: why };
     }

@@ -9,6 +9,7 @@ import { leastSquares } from './leastSquares';
 import { polynomialCurvature } from './polynomialFit';
 import type { CurvatureFit, FitSettings, LineSamples } from './types';
 import { chooseWindow } from './window';
+import { quotability } from './quotable';
 
 /** Fewest points: four unknowns and three more to judge the residual. */
 export const KANE_MIN_POINTS = 7;
@@ -109,7 +110,11 @@ export function kaneCurvature(s: LineSamples, settings: FitSettings): CurvatureF
   if (alphaStderr > Math.max(0.5 * Math.abs(alpha), 0.05)) {
     warnings.push(`α is poorly determined in a ${win.window_meV.toFixed(0)} meV window (±${alphaStderr.toPrecision(2)} /eV): ${win.window_meV < 100 ? 'use a wider window (100-200 meV) for the Kane fit' : 'the band does not follow the Kane form closely here'}.`);
   }
+  const h = t.length > 1 ? t[1]! : tmax;
+  const tv = x[1]!;
+  const outside = tv < -1.5 * h || tv > tmax ? `the fitted vertex lies ${tv.toFixed(4)} Å⁻¹ from the sampled point, outside the points used` : null;
   return {
+    ...quotability(mass, stderr, n, p, outside),
     method: 'kane',
     curvature,
     curvatureStderr: 2 * Math.sqrt(Math.max(varA, 0)),

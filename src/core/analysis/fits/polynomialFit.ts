@@ -7,6 +7,7 @@ import { curvatureToMass } from '../../units';
 import { leastSquares } from './leastSquares';
 import type { CurvatureFit, FitSettings, LineSamples } from './types';
 import { chooseWindow } from './window';
+import { quotability } from './quotable';
 
 export interface PolynomialOptions {
   degree: 2 | 3 | 4;
@@ -67,7 +68,8 @@ export function polynomialCurvature(s: LineSamples, settings: FitSettings, opt: 
   let vertexE = e0;
   for (let j = 0; j < coefT.length; j++) vertexE += coefT[j]! * tv ** j;
   const h = s.t.length > 1 ? s.t[1]! : tmax;
-  if (tv < -1.5 * h || tv > tmax) {
+  const outside = tv < -1.5 * h || tv > tmax ? `the fitted vertex lies ${tv.toFixed(4)} Å⁻¹ from the sampled point, outside the points used` : null;
+  if (outside) {
     warnings.push(`The fitted vertex lies ${tv.toFixed(4)} Å⁻¹ from the sampled extremum, outside the points used: the band may not have its extremum here.`);
   }
   const nonParabolic = residualWarning(rms, win.window_meV, settings.energySigma);
@@ -84,6 +86,7 @@ export function polynomialCurvature(s: LineSamples, settings: FitSettings, opt: 
     vertexT: tv,
     vertexE,
     warnings,
+    ...quotability(mass, stderr, n, p, outside),
   };
 }
 
@@ -134,6 +137,7 @@ function evenPolynomialCurvature(s: LineSamples, settings: FitSettings, opt: Pol
     vertexT: 0,
     vertexE: e0 + fit.coef[0]!,
     warnings,
+    ...quotability(mass, stderr, n, even, null),
   };
 }
 

@@ -46,6 +46,9 @@ export interface CurvatureFit {
   /** Energy of the fitted vertex, eV. */
   vertexE?: number;
   warnings: string[];
+  /** Whether the mass can be quoted (fits/quotable.ts); when false, `undeterminedReason` says why. */
+  determined: boolean;
+  undeterminedReason?: string;
 }
 
 export type CurvatureFitter = (s: LineSamples, settings: FitSettings) => CurvatureFit | null;
