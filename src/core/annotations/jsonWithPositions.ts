@@ -53,6 +53,12 @@ export function positionOf(text: string, offset: number): JsonPosition {
 
 const CONFLICT = /^(<{7}|={7}|>{7})(\s|$)/m;
 
+/** A key as it can be quoted in one line (control characters written as escapes, long keys cut). */
+function shownKey(key: string): string {
+  const q = JSON.stringify(key).slice(1, -1);
+  return q.length > 60 ? `${q.slice(0, 57)}...` : q;
+}
+
 function describeChar(text: string, i: number): string {
   if (i >= text.length) return 'the end of the file';
   const c = text.codePointAt(i)!;
@@ -112,7 +118,7 @@ export function parseJsonWithPositions(text: string): JsonNode {
             break;
           }
           default:
-            fail(`"\\${e ?? ''}" is not a JSON escape`);
+            fail(`a backslash followed by ${describeChar(text, i + 1)} is not a JSON escape`);
         }
         i += 2;
         chunk = i;
@@ -157,10 +163,10 @@ export function parseJsonWithPositions(text: string): JsonNode {
         if (text[i] !== '"') fail(`expected a key in double quotes, found ${describeChar(text, i)}`);
         const keyAt = i;
         const key = parseString();
-        if (seen.has(key)) fail(`the key "${key}" appears twice in the same object`, keyAt);
+        if (seen.has(key)) fail(`the key "${shownKey(key)}" appears twice in the same object`, keyAt);
         seen.add(key);
         ws();
-        if (text[i] !== ':') fail(`expected ":" after the key "${key}", found ${describeChar(text, i)}`);
+        if (text[i] !== ':') fail(`expected ":" after the key "${shownKey(key)}", found ${describeChar(text, i)}`);
         i++;
         const value = parseValue(depth + 1);
         members.push({ key, keyAt, value });
@@ -175,7 +181,7 @@ export function parseJsonWithPositions(text: string): JsonNode {
           i++;
           return { type: 'object', at, members };
         }
-        fail(`expected "," or "}" after the value of "${key}", found ${describeChar(text, i)}`);
+        fail(`expected "," or "}" after the value of "${shownKey(key)}", found ${describeChar(text, i)}`);
       }
     }
     if (c === '[') {
