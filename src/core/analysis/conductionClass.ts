@@ -176,7 +176,13 @@ function occupationFractions(bs: BandStructure): Float64Array[] {
   for (const o of bs.occupations!) for (let i = 0; i < o.length; i++) if (o[i]! > maxOcc) maxOcc = o[i]!;
   // Files write fractions (0..1, Methfessel-Paxton slightly beyond) or electrons (0..2).
   const full = maxOcc > 1.5 ? 2 : 1;
-  return bs.occupations!.map((o) => Float64Array.from(o, (x) => x / full));
+  // A plain loop: TypedArray.from with a mapping function goes through a JS list of every value on the way
+  // (tens of MB of heap on a large run).
+  return bs.occupations!.map((o) => {
+    const f = new Float64Array(o.length);
+    for (let i = 0; i < o.length; i++) f[i] = o[i]! / full;
+    return f;
+  });
 }
 
 export function classifyConduction(bs: BandStructure, occ: OccupationRule | null): ConductionClass {
