@@ -57,10 +57,19 @@ async function assertClean(v: ViewPage): Promise<void> {
 /** Click near the CBM, answer the fit request as the extension does; returns the request. */
 async function fitAtCbm(v: ViewPage, run: LoadedRun): Promise<Posted> {
   const cbm = mark(run, 'cbm');
-  const p = await screenOf(v, cbm);
   const before = (await v.posted()).filter((m) => m.type === 'requestFit').length;
-  await clickPlot(v, p.x + 3, p.y - 3);
-  const req = await waitPosted(v, 'requestFit', before + 1);
+  // On a loaded machine the first layout can still settle after the first draw (the plot resized, the marker
+  // moved): if the click found nothing, look up the marker's place again and click once more.
+  let req: Posted | undefined;
+  for (let attempt = 0; attempt < 2 && !req; attempt++) {
+    const p = await screenOf(v, cbm);
+    await clickPlot(v, p.x + 3, p.y - 3);
+    req = await waitPosted(v, 'requestFit', before + 1).catch((e: unknown) => {
+      if (attempt === 1) throw e;
+      return undefined;
+    });
+  }
+  if (!req) throw new Error('no fit request after two clicks at the CBM');
   const t = { spin: req.spin as 0 | 1, kIndex: req.kIndex as number, band0: req.band0 as number };
   await v.hostPost(hostFitResult(run, req.requestId as number, t, req.window_meV as number, req.method as string, req.withScan === true));
   await v.page.waitForSelector('.vs-fit-body:not([hidden])');
