@@ -15,7 +15,7 @@ function cell(s: string): string {
 function massesText(e: AnnotatedEntry): string {
   if (e.masses.length === 0) return '—';
   return e.masses
-    .map((m) => `${m.mass === null ? 'n/a' : formatNumber(m.mass, 'mass')} towards ${m.towards || '?'} (${m.method}, ${m.points} pts, ${formatNumber(m.window_meV, 'meV')} meV)`)
+    .map((m) => `${m.mass === null ? 'n/a' : m.determined === false ? `undetermined (${formatNumber(m.mass, 'mass')})` : formatNumber(m.mass, 'mass')} towards ${m.towards || '?'} (${m.method}, ${m.points} pts, ${formatNumber(m.window_meV, 'meV')} meV)`)
     .join('; ');
 }
 

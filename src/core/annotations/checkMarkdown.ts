@@ -25,7 +25,8 @@ export function compactMasses(e: AnnotatedEntry): string {
   const byDir = new Map<string, string[]>();
   for (const m of e.masses) {
     const list = byDir.get(m.towards || '?') ?? [];
-    list.push(m.mass === null ? 'n/a' : m.mass.toFixed(3));
+    // An undetermined mass is never quoted as a bare number (its value is in the file with the reason).
+    list.push(m.mass === null ? 'n/a' : m.determined === false ? 'undetermined' : m.mass.toFixed(3));
     byDir.set(m.towards || '?', list);
   }
   return [...byDir.entries()].map(([d, ms]) => `${d} ${ms.join('/')}`).join(', ');

@@ -65,3 +65,21 @@ describe('check --format md on the demo runs', function () {
     }
   });
 });
+
+describe('review comments never quote an undetermined mass as a number', () => {
+  it('writes "undetermined" in the compact mass list of check --format md', async () => {
+    const { compactMasses } = await import('../../../src/core/annotations/checkMarkdown');
+    const mass = (towards: string, m: number, determined: boolean | null) => ({
+      towards, direction: [1, 0, 0] as [number, number, number], mass: m, stderr: 0.01, points: 5, window_meV: 25, method: 'parabola',
+      alpha_per_eV: null, residual_meV: null, branch: null, determined, warnings: [],
+    });
+    // A stand-in entry: only its masses matter to the compact list (numbers chosen for the check, not physics).
+    const entry = { masses: [mass('Γ', 1.354, true), mass('X', -33.88, false), mass('L', 0.5, null)] } as unknown as Parameters<typeof compactMasses>[0];
+    const text = compactMasses(entry);
+    assert.match(text, /Γ 1\.354/);
+    assert.match(text, /X undetermined/);
+    assert.doesNotMatch(text, /33\.88/);
+    // Files written before the flag existed (null) keep their number.
+    assert.match(text, /L 0\.500/);
+  });
+});
