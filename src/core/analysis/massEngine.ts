@@ -96,7 +96,8 @@ function nearestOtherBand(bs: BandStructure, site: ExtremumSite): { band: number
  * vertex of the best-determined fit whose vertex falls inside its own direction, more than a tenth of a step
  * from the sampled point. Null when every vertex sits at the sampled point.
  */
-function vertexNote(bs: BandStructure, k: number, fits: CurvatureFit[], rays: Ray[], maximum: boolean): string | null {
+/** `sampledE`: the energy at the sampled point (eV); the note gives the vertex's energy relative to it (no energy zero needed). */
+function vertexNote(bs: BandStructure, k: number, fits: CurvatureFit[], rays: Ray[], maximum: boolean, sampledE: number): string | null {
   if (!bs.lattice) return null;
   let best: { fit: CurvatureFit; ray: Ray } | null = null;
   fits.forEach((fit, i) => {
@@ -114,7 +115,7 @@ function vertexNote(bs: BandStructure, k: number, fits: CurvatureFit[], rays: Ra
   const d = cartesianToFractional(ray.direction.map((x) => x * fit.vertexT!) as Vec3, bs.lattice);
   const kv = [k0[0] + d[0], k0[1] + d[1], k0[2] + d[2]].map((x) => Number(x.toFixed(4)));
   const step = fit.vertexT! / ray.t[1]!;
-  return `The ${maximum ? 'maximum' : 'minimum'} lies between sampled points: the free-vertex ${fit.method} fit towards ${ray.towards} puts it ${step.toFixed(2)} of a step (${fit.vertexT!.toFixed(4)} Å⁻¹) from the sampled point, at k ≈ (${kv.join(', ')})${fit.vertexE !== undefined ? `, E ≈ ${fit.vertexE.toFixed(4)} eV` : ''}.`;
+  return `The ${maximum ? 'maximum' : 'minimum'} lies between sampled points: the free-vertex ${fit.method} fit towards ${ray.towards} puts it ${step.toFixed(2)} of a step (${fit.vertexT!.toFixed(4)} Å⁻¹) from the sampled point, at k ≈ (${kv.join(', ')})${fit.vertexE !== undefined ? `, ${Math.abs(fit.vertexE - sampledE) * 1000 < 0.05 ? 'at the sampled energy' : `${(Math.abs(fit.vertexE - sampledE) * 1000).toFixed(1)} meV ${maximum ? 'above' : 'below'} the sampled energy`}` : ''}.`;
 }
 
 /** Characterise one located extremum. */
@@ -154,7 +155,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
       masses = dm.masses;
       crossed = dm.crossed;
       if (g === 1) {
-        const v = vertexNote(bs, site.k, dm.fits, dm.rays, maximum);
+        const v = vertexNote(bs, site.k, dm.fits, dm.rays, maximum, site.energy);
         if (v) warnings.push(v);
       }
       warnings.push(...dm.warnings);
