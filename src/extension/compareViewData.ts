@@ -214,10 +214,31 @@ export function buildCompareTable(entries: readonly CompareEntry[], referenceId:
     columns: used,
     descriptorKeys: DESCRIPTOR_COLUMNS.map((d) => d.key).filter((k) => used.some((u) => u.key === k)),
     rows,
-    events: c.events.filter((ev) => ev.kind !== 'stale').map((ev) => ({ rowId: ev.run, kind: ev.kind, message: ev.message })),
+    events: eventsAgainst(c, ref, inputById),
     cautions,
     annotationsAsRuns,
   };
+}
+
+/**
+ * What changed against the reference, for runs of the reference's material; a run of another material gets
+ * one sentence saying so instead of valley-by-valley changes that would compare two different crystals.
+ */
+function eventsAgainst(c: Comparison, ref: string | null, inputs: ReadonlyMap<string, RunInput>): CompareTable['events'] {
+  const refSeries = ref ? seriesOf(inputs.get(ref) ?? null) : null;
+  const out: CompareTable['events'] = [];
+  const told = new Set<string>();
+  for (const ev of c.events) {
+    if (ev.kind === 'stale') continue;
+    const series = seriesOf(inputs.get(ev.run) ?? null);
+    if (refSeries && series && series !== refSeries) {
+      if (!told.has(ev.run)) out.push({ rowId: ev.run, kind: 'other-material', message: `another material (${series}) than the reference (${refSeries}): its gap and masses are listed, not compared valley by valley` });
+      told.add(ev.run);
+      continue;
+    }
+    out.push({ rowId: ev.run, kind: ev.kind, message: ev.message });
+  }
+  return out;
 }
 
 /** Band data of one run for the overlay: path, energies, and the energy it is aligned at (VBM, else Fermi level). */

@@ -398,6 +398,11 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     assert.equal(await v.page.evaluate(`document.querySelector('vscode-single-select.cv-reference').value`), 'r5');
     const events = await v.page.locator('.cv-events h2').innerText();
     assert.match(events, /against si-bulk\/EIGENVAL/);
+    // GaAs is not compared valley by valley with silicon: one sentence says it is another material.
+    const gaasEvents = t.events.filter((e) => e.rowId === 'g0');
+    assert.deepEqual(gaasEvents.map((e) => e.kind), ['other-material']);
+    assert.match(gaasEvents[0]!.message, /another material \(As1 Ga1\) than the reference \(Si2\)/);
+    assert.ok(t.events.some((e) => e.rowId !== 'g0' && e.kind !== 'other-material'), 'control: silicon runs keep their valley events');
     // Trend of the gap against the volume: silicon (bulk and the strain series, cubic and tetragonal) is one
     // line; GaAs is a series of its own.
     await v.page.evaluate(`window.valleyscopeCompareView.setTrend('volume', 'gap')`);
