@@ -164,7 +164,7 @@ async function openView(h: Harness, table: CompareTable): Promise<View> {
 
 /** Ticks "More columns" (the compact default set hides directional masses, valleys, strains). */
 async function showMoreColumns(v: View): Promise<void> {
-  await v.page.evaluate(`(function () { var b = document.querySelector('vscode-checkbox.cv-more-columns'); b.checked = true; b.dispatchEvent(new Event('change')); })()`);
+  await v.page.locator('vscode-checkbox.cv-more-columns').click();
   await v.page.locator('table.cv-table th[data-key="volumeStrain"]').waitFor();
 }
 
