@@ -27,6 +27,7 @@ import { loadAnnotationsRun, type LoadedAnnotationsRun } from '../core/compare/l
 import { dataPathFor } from '../core/annotations/annotationsModel';
 import { crystalSymmetry, symmetryReady } from '../core/lattice/symmetry';
 import { compositionOf } from '../core/compare/structureDescriptors';
+import { labelledLines } from '../core/lattice/pathPosition';
 import type { RunInput } from '../core/compare/compareRuns';
 
 export const COMPARE_VIEW_TYPE = 'valleyscope.compareView';
@@ -58,14 +59,16 @@ function message(e: unknown): string {
 }
 
 /** What the comparison needs of a loaded run's crystal: rotations, lattice type, lattice points, composition. */
-function crystalOf(run: LoadedRun): Pick<RunInput, 'rotations' | 'latticeType' | 'latticePointsPerCell' | 'composition'> {
+function crystalOf(run: LoadedRun): Pick<RunInput, 'rotations' | 'latticeType' | 'latticePointsPerCell' | 'composition' | 'pathLines'> {
   const composition = run.bs.structure ? compositionOf(run.bs.structure.species) : null;
-  if (!run.bs.structure || !symmetryReady()) return { rotations: null, latticeType: null, latticePointsPerCell: null, composition };
+  // The labelled path lines name valleys off the labels as the CLI does ("0.85 Γ→X").
+  const pathLines = labelledLines(run.bs);
+  if (!run.bs.structure || !symmetryReady()) return { rotations: null, latticeType: null, latticePointsPerCell: null, composition, pathLines };
   try {
     const sym = crystalSymmetry(run.bs.structure);
-    return { rotations: sym.rotations, latticeType: sym.bravaisClass, latticePointsPerCell: sym.latticePointsPerCell, composition };
+    return { rotations: sym.rotations, latticeType: sym.bravaisClass, latticePointsPerCell: sym.latticePointsPerCell, composition, pathLines };
   } catch {
-    return { rotations: null, latticeType: null, latticePointsPerCell: null, composition };
+    return { rotations: null, latticeType: null, latticePointsPerCell: null, composition, pathLines };
   }
 }
 

@@ -13,6 +13,7 @@ import * as esbuild from 'esbuild';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { bandRunOf, buildCompareTable, type CompareEntry } from '../../src/extension/compareViewData';
 import { compositionOf } from '../../src/core/compare/structureDescriptors';
+import { labelledLines } from '../../src/core/lattice/pathPosition';
 import { loadRun } from '../../src/core/load';
 import { nodeFileAccessor } from '../../src/cli/nodeFileAccessor';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../src/core/analysis/analyze';
@@ -69,6 +70,7 @@ function entryOf(run: Run, id: string): CompareEntry {
       latticeType: sym ? sym.bravaisClass : null,
       latticePointsPerCell: sym ? sym.latticePointsPerCell : null,
       composition: run.bs.structure ? compositionOf(run.bs.structure.species) : null,
+      pathLines: labelledLines(run.bs),
       origin: 'data',
     },
     error: null,
@@ -432,6 +434,9 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     assert.ok(Math.abs(row.values.aConv! - 5.43) < 1e-6, `conventional a ${row.values.aConv}`);
     assert.ok(Math.abs(row.values.aConv! - Math.SQRT2 * row.values.a!) < 1e-9);
     assert.ok(row.values.a! < 4, 'the cell vector is the primitive one (3.84 Å), which is why it is not shown as "a"');
+    // Valleys are named by their place on the labelled path, as the CLI names them: the Si CBM lies on Γ–X
+    // (the Δ line, common practice), so "0.85 Γ→X"-style, not a bare fractional k.
+    assert.match(row.cbm ?? '', /^0\.\d+ (Γ→X|X→Γ)$/, `CBM at ${row.cbm}`);
     // A biaxially strained film is tetragonal: no cubic constant for it.
     const strained = t.rows.find((r) => r.id === 'r0')!;
     assert.equal(strained.values.aConv ?? null, null);
