@@ -405,6 +405,8 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     assert.deepEqual(gaasEvents.map((e) => e.kind), ['other-material']);
     assert.match(gaasEvents[0]!.message, /another material \(As1 Ga1\) than the reference \(Si2\)/);
     assert.ok(t.events.some((e) => e.rowId !== 'g0' && e.kind !== 'other-material'), 'control: silicon runs keep their valley events');
+    assert.match((await v.page.locator('tr[data-id="g0"] td', { hasText: '[' }).first().getAttribute('title')) ?? '', /Another material \(As1 Ga1\)/);
+    assert.equal(await v.page.locator('tr[data-id="g0"] td.cv-moved').count(), 0, 'no "edge moved" mark against another material');
     // Trend of the gap against the volume: silicon (bulk and the strain series, cubic and tetragonal) is one
     // line; GaAs is a series of its own.
     await v.page.evaluate(`window.valleyscopeCompareView.setTrend('volume', 'gap')`);

@@ -465,7 +465,9 @@ export class CompareViewApp {
     const tdVbm = el('td', undefined, r.vbm ?? '—');
     const tdCbm = el('td', undefined, r.cbm ? `${r.cbm}${r.cbmValley ? ` [${r.cbmValley}]` : ''}` : '—');
     const ref = this.table?.rows.find((x) => x.isReference);
-    if (ref && !r.isReference && ref.cbmValley && r.cbmValley && ref.cbmValley !== r.cbmValley) {
+    const sameMaterial = !ref || !ref.series || !r.series || ref.series === r.series;
+    if (!sameMaterial) tdCbm.title = `Another material (${r.series}) than the reference (${ref!.series}): its valleys are not matched with the reference's.`;
+    if (ref && sameMaterial && !r.isReference && ref.cbmValley && r.cbmValley && ref.cbmValley !== r.cbmValley) {
       tdCbm.classList.add('cv-moved');
       tdCbm.title = `The CBM is in valley ${r.cbmValley} here, in valley ${ref.cbmValley} in the reference: compare masses valley by valley.`;
     }
