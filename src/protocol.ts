@@ -568,6 +568,8 @@ export interface CompareColumn {
   title: string;
   /** Decimals to show. */
   decimals: number;
+  /** Shown only behind "More columns" (the compact default set: gap, edges, N_v, DOS and conductivity masses). */
+  more?: boolean;
 }
 
 export interface CompareRow {
@@ -598,6 +600,10 @@ export interface CompareRow {
   values: Record<string, number | null>;
   /** Band data can be drawn for this run (a readable data file). */
   canOverlay: boolean;
+  /** The material (composition of the cell, "Si2"), null when the run gives no structure: trend lines join only runs of one series. */
+  series?: string | null;
+  /** Bravais class of the run's crystal ("cF", "tI"), when known. */
+  latticeType?: string | null;
 }
 
 export interface CompareTable {

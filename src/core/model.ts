@@ -182,6 +182,24 @@ export interface MassFit {
    */
   determined: boolean;
   undeterminedReason?: string;
+  /**
+   * Finite differences only (they pass through their points, so they have no residual and their stderr is
+   * the rounding error alone): the same line fitted by the least-squares parabola at the same window
+   * setting, and how far the two masses lie apart. An uncertainty from method disagreement, not a stderr.
+   */
+  methodSpread?: MethodSpread;
+}
+
+/** Disagreement of a finite-difference mass with another method on the same samples. */
+export interface MethodSpread {
+  /** The method compared against (PARABOLA). */
+  against: string;
+  /** That method's signed mass, m_e. */
+  mass: number;
+  /** The window setting both used, meV. */
+  window_meV: number;
+  /** |m − mass|, m_e. */
+  spread: number;
 }
 
 export interface MassTensor {

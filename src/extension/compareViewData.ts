@@ -7,6 +7,7 @@
 import { compareRuns, type ComparedRun, type Comparison, type RunInput } from '../core/compare/compareRuns';
 import type { BandStructure, ExtremumReport, MassFit, Report } from '../core/model';
 import type { PathGeometry } from '../core/lattice/kpath';
+import { conventionalCubicA } from '../core/compare/structureDescriptors';
 import { encodeArray, type CompareBandRun, type CompareColumn, type CompareRow, type CompareTable } from '../protocol';
 import { F64_ENERGY_LIMIT } from './bandData';
 
@@ -34,13 +35,17 @@ const ANNOTATIONS_CAUTION = 'Rows from annotations files show the numbers as the
 
 /** Structural descriptors offered as trend x-axes, in this order. */
 export const DESCRIPTOR_COLUMNS: CompareColumn[] = [
-  { key: 'volumeStrain', label: 'Volume strain', unit: '%', group: 'structure', title: 'Cell volume relative to the reference run, minus one (per cent).', decimals: 3 },
-  { key: 'inPlaneStrain', label: 'In-plane strain', unit: '%', group: 'structure', title: 'Biaxial series: in-plane strain λ∥ − 1 relative to the reference run (per cent); empty when the strain is not biaxial.', decimals: 3 },
-  { key: 'hydrostaticStrain', label: 'Hydrostatic strain', unit: '%', group: 'structure', title: 'Mean of the diagonal Green–Lagrange strain relative to the reference run (per cent).', decimals: 3 },
-  { key: 'volume', label: 'Volume', unit: 'Å³', group: 'structure', title: 'Cell volume of the run’s structure.', decimals: 3 },
-  { key: 'a', label: 'a', unit: 'Å', group: 'structure', title: 'Length of the first lattice vector.', decimals: 4 },
-  { key: 'c', label: 'c', unit: 'Å', group: 'structure', title: 'Length of the third lattice vector.', decimals: 4 },
+  { key: 'volumeStrain', label: 'Volume strain', unit: '%', group: 'structure', title: 'Cell volume relative to the reference run, minus one (per cent).', decimals: 3, more: true },
+  { key: 'inPlaneStrain', label: 'In-plane strain', unit: '%', group: 'structure', title: 'Biaxial series: in-plane strain λ∥ − 1 relative to the reference run (per cent); empty when the strain is not biaxial.', decimals: 3, more: true },
+  { key: 'hydrostaticStrain', label: 'Hydrostatic strain', unit: '%', group: 'structure', title: 'Mean of the diagonal Green–Lagrange strain relative to the reference run (per cent).', decimals: 3, more: true },
+  { key: 'aConv', label: 'conventional a', unit: 'Å', group: 'structure', title: 'Conventional cubic lattice constant, from the lattice type and the volume per lattice point (fcc: √2 × the primitive-vector length; bcc: 2/√3 ×). Empty for lattices that are not cubic, strained cubic crystals included.', decimals: 4 },
+  { key: 'volume', label: 'Volume', unit: 'Å³', group: 'structure', title: 'Cell volume of the run’s structure.', decimals: 3, more: true },
+  { key: 'a', label: '|a₁| (cell vector)', unit: 'Å', group: 'structure', title: 'Length of the first vector of the cell as written (a primitive-vector length, not the conventional lattice constant).', decimals: 4, more: true },
+  { key: 'c', label: '|a₃| (cell vector)', unit: 'Å', group: 'structure', title: 'Length of the third vector of the cell as written (not the conventional c of a strained film).', decimals: 4, more: true },
 ];
+
+/** Column keys of the compact default set; every other column is behind "More columns". */
+const COMPACT_KEYS = new Set(['gap', 'deltaGap', 'cbm.nv', 'cbm.dos', 'cbm.cond', 'vbm.nv', 'vbm.dos', 'vbm.cond', 'aConv']);
 
 const EDGE_COLUMNS: CompareColumn[] = [
   { key: 'gap', label: 'Gap', unit: 'eV', group: 'edge', title: 'Fundamental gap (CBM − VBM).', decimals: 4 },
@@ -77,7 +82,8 @@ function edgeOf(run: ComparedRun, kind: 'cbm' | 'vbm'): ExtremumReport | null {
   return id ? (run.valleys[id]?.extremum ?? null) : null;
 }
 
-function valuesOf(c: Comparison, run: ComparedRun, report: RunInput['report']): Record<string, number | null> {
+function valuesOf(c: Comparison, run: ComparedRun, input: RunInput): Record<string, number | null> {
+  const report = input.report;
   const v: Record<string, number | null> = {};
   // A metal has no gap (not a gap of zero).
   v.gap = run.metal ? null : run.gap_eV;
@@ -100,19 +106,51 @@ function valuesOf(c: Comparison, run: ComparedRun, report: RunInput['report']): 
   v.volume = d?.volume ?? null;
   v.a = d?.a ?? null;
   v.c = d?.c ?? null;
+  v.aConv = d ? conventionalCubicA(input.latticeType, d.volume, input.latticePointsPerCell) : null;
   v.volumeStrain = d?.volumeStrain === null || d?.volumeStrain === undefined ? null : d.volumeStrain * 100;
   v.hydrostaticStrain = d?.hydrostaticStrain === null || d?.hydrostaticStrain === undefined ? null : d.hydrostaticStrain * 100;
   v.inPlaneStrain = d?.inPlaneStrain === null || d?.inPlaneStrain === undefined ? null : d.inPlaneStrain * 100;
   return v;
 }
 
-/** The table for the view. `referenceId`: the row the differences are taken against (default: the first readable). */
+/**
+ * The trend series of a run: its material, by the composition of its cell ("Si2"), or null when its files give
+ * no structure. The lattice type does not split a series: strain lowers it (a cubic crystal strained in its
+ * plane is tetragonal), and a strain series must stay one line through zero strain; the legend lists the
+ * lattice types a series holds.
+ */
+export function seriesOf(run: RunInput | null): string | null {
+  return run?.composition || null;
+}
+
+/**
+ * The reference when the user chose none: the first run of the material most runs share (by composition of
+ * the cell), so "what changed" compares a material with itself; the first readable run when no run gives a
+ * structure. Ties go to the material listed first.
+ */
+export function defaultReferenceId(entries: readonly CompareEntry[]): string | null {
+  const readable = entries.filter((e) => e.run !== null);
+  const counts = new Map<string, { n: number; first: string }>();
+  for (const e of readable) {
+    const m = e.run!.composition;
+    if (!m) continue;
+    const c = counts.get(m);
+    if (c) c.n++;
+    else counts.set(m, { n: 1, first: e.id });
+  }
+  let best: { n: number; first: string } | null = null;
+  for (const c of counts.values()) if (!best || c.n > best.n) best = c;
+  return best?.first ?? readable[0]?.id ?? null;
+}
+
+/** The table for the view. `referenceId`: the row the differences are taken against (default: defaultReferenceId). */
 export function buildCompareTable(entries: readonly CompareEntry[], referenceId: string | null, annotationsAsRuns: boolean): CompareTable {
   const readable = entries.filter((e) => e.run !== null);
-  const ref = referenceId && readable.some((e) => e.id === referenceId) ? referenceId : (readable[0]?.id ?? null);
+  const ref = referenceId && readable.some((e) => e.id === referenceId) ? referenceId : defaultReferenceId(entries);
   const c: Comparison = readable.length ? compareRuns(readable.map((e) => ({ ...e.run!, name: e.id })), ref ?? undefined) : { reference: '', columns: [], runs: [], events: [] };
   const byId = new Map(c.runs.map((r) => [r.name, r]));
   const reportById = new Map(readable.map((e) => [e.id, e.run!.report]));
+  const inputById = new Map(readable.map((e) => [e.id, e.run!]));
 
   const columns: CompareColumn[] = [];
   const seen = new Set<string>();
@@ -159,12 +197,16 @@ export function buildCompareTable(entries: readonly CompareEntry[], referenceId:
       cbm: r?.cbm ?? null,
       cbmValley: r?.cbmValley ?? null,
       vbmValley: r?.vbmValley ?? null,
-      values: r ? valuesOf(c, r, reportById.get(e.id)!) : {},
+      values: r ? valuesOf(c, r, inputById.get(e.id)!) : {},
       canOverlay: e.canOverlay,
+      series: seriesOf(e.run),
+      latticeType: e.run?.latticeType ?? null,
     };
   });
   // Columns no run has a number for are left out (e.g. strain with a single run).
-  const used = columns.filter((col) => rows.some((row) => typeof row.values[col.key] === 'number' && Number.isFinite(row.values[col.key])));
+  const used = columns
+    .filter((col) => rows.some((row) => typeof row.values[col.key] === 'number' && Number.isFinite(row.values[col.key])))
+    .map((col) => (COMPACT_KEYS.has(col.key) ? { ...col, more: false } : { ...col, more: true }));
   const cautions = [...COMPARE_CAUTIONS];
   if (entries.some((e) => e.origin === 'annotations' || e.annotations !== 'none')) cautions.push(ANNOTATIONS_CAUTION);
   return {
@@ -172,10 +214,31 @@ export function buildCompareTable(entries: readonly CompareEntry[], referenceId:
     columns: used,
     descriptorKeys: DESCRIPTOR_COLUMNS.map((d) => d.key).filter((k) => used.some((u) => u.key === k)),
     rows,
-    events: c.events.filter((ev) => ev.kind !== 'stale').map((ev) => ({ rowId: ev.run, kind: ev.kind, message: ev.message })),
+    events: eventsAgainst(c, ref, inputById),
     cautions,
     annotationsAsRuns,
   };
+}
+
+/**
+ * What changed against the reference, for runs of the reference's material; a run of another material gets
+ * one sentence saying so instead of valley-by-valley changes that would compare two different crystals.
+ */
+function eventsAgainst(c: Comparison, ref: string | null, inputs: ReadonlyMap<string, RunInput>): CompareTable['events'] {
+  const refSeries = ref ? seriesOf(inputs.get(ref) ?? null) : null;
+  const out: CompareTable['events'] = [];
+  const told = new Set<string>();
+  for (const ev of c.events) {
+    if (ev.kind === 'stale') continue;
+    const series = seriesOf(inputs.get(ev.run) ?? null);
+    if (refSeries && series && series !== refSeries) {
+      if (!told.has(ev.run)) out.push({ rowId: ev.run, kind: 'other-material', message: `another material (${series}) than the reference (${refSeries}): its gap and masses are listed, not compared valley by valley` });
+      told.add(ev.run);
+      continue;
+    }
+    out.push({ rowId: ev.run, kind: ev.kind, message: ev.message });
+  }
+  return out;
 }
 
 /** Band data of one run for the overlay: path, energies, and the energy it is aligned at (VBM, else Fermi level). */

@@ -26,7 +26,9 @@ import { WorkspaceFileAccessor } from './fileAccessor';
 import { loadAnnotationsRun, type LoadedAnnotationsRun } from '../core/compare/loadAnnotationsRun';
 import { dataPathFor } from '../core/annotations/annotationsModel';
 import { crystalSymmetry, symmetryReady } from '../core/lattice/symmetry';
-import type { Mat3 } from '../core/model';
+import { compositionOf } from '../core/compare/structureDescriptors';
+import { labelledLines } from '../core/lattice/pathPosition';
+import type { RunInput } from '../core/compare/compareRuns';
 
 export const COMPARE_VIEW_TYPE = 'valleyscope.compareView';
 export const OPEN_COMPARE_VIEW_COMMAND = 'valleyscope.openCompareView';
@@ -56,12 +58,17 @@ function message(e: unknown): string {
   return e instanceof Error ? e.message : String(e);
 }
 
-function rotationsOf(run: LoadedRun): Mat3[] | null {
-  if (!run.bs.structure || !symmetryReady()) return null;
+/** What the comparison needs of a loaded run's crystal: rotations, lattice type, lattice points, composition. */
+function crystalOf(run: LoadedRun): Pick<RunInput, 'rotations' | 'latticeType' | 'latticePointsPerCell' | 'composition' | 'pathLines'> {
+  const composition = run.bs.structure ? compositionOf(run.bs.structure.species) : null;
+  // The labelled path lines name valleys off the labels as the CLI does ("0.85 Γ→X").
+  const pathLines = labelledLines(run.bs);
+  if (!run.bs.structure || !symmetryReady()) return { rotations: null, latticeType: null, latticePointsPerCell: null, composition, pathLines };
   try {
-    return crystalSymmetry(run.bs.structure).rotations;
+    const sym = crystalSymmetry(run.bs.structure);
+    return { rotations: sym.rotations, latticeType: sym.bravaisClass, latticePointsPerCell: sym.latticePointsPerCell, composition, pathLines };
   } catch {
-    return null;
+    return { rotations: null, latticeType: null, latticePointsPerCell: null, composition, pathLines };
   }
 }
 
@@ -244,7 +251,7 @@ export class CompareViewPanel implements vscode.Disposable {
       try {
         const run = await this.deps.store.get(uri);
         found.push({
-          entry: { id, name, origin: 'data', annotations, staleReasons, run: { name: id, report: run.report, lattice: run.bs.lattice, rotations: rotationsOf(run), origin: 'data' }, error: null, canOverlay: true },
+          entry: { id, name, origin: 'data', annotations, staleReasons, run: { name: id, report: run.report, lattice: run.bs.lattice, ...crystalOf(run), origin: 'data' }, error: null, canOverlay: true },
           dataUri: uri,
           fileUri: uri,
         });
@@ -305,7 +312,7 @@ export class CompareViewPanel implements vscode.Disposable {
     for (const f of this.found) {
       if (f.entry.origin !== 'data' || !f.dataUri) continue;
       const run = this.deps.store.loaded(f.dataUri);
-      if (run) f.entry = { ...f.entry, run: { name: f.entry.id, report: run.report, lattice: run.bs.lattice, rotations: rotationsOf(run), origin: 'data' }, error: null, canOverlay: true };
+      if (run) f.entry = { ...f.entry, run: { name: f.entry.id, report: run.report, lattice: run.bs.lattice, ...crystalOf(run), origin: 'data' }, error: null, canOverlay: true };
     }
     this.sendTable();
   }

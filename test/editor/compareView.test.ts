@@ -60,7 +60,10 @@ describe('in a real VS Code, the compare view', function () {
 
     // Sort by the CBM mass towards Γ (along the Δ line: every run's CBM lies on Γ–X or Γ–Z here).
     const key = 'cbm.m.Γ';
+    // Directional masses are behind "More columns" (the compact default set has the averaged masses).
+    await view.locator('vscode-checkbox.cv-more-columns').click();
     const header = view.locator(`table.cv-table th[data-key="${key}"] button`);
+    await header.waitFor({ timeout: 10_000 });
     assert.equal(await header.count(), 1, 'a column of CBM masses towards Γ');
     await header.click();
     const cbmMass = (name: string): number => {

@@ -12,6 +12,7 @@ import { join } from 'node:path';
 import { EditorSession, waitFor } from './support/editorSession';
 import { canvasInk, clickNearMark, fitKind, massRows, waitForBandView } from './support/bandViewDriver';
 import { cliAnalyze, lineModeSegments, type CliExtremum } from './support/reference';
+import { sliderAtWindow } from '../../webview/bandView/windowSlider';
 
 const repo = (...p: string[]): string => join(__dirname, '..', '..', ...p);
 const SI = repo('fixtures', 'epm', 'si');
@@ -236,11 +237,12 @@ describe('in a real VS Code, trusted workspace', function () {
     await clickNearMark(view, 'cbm', 2, -2);
     await massRows(view);
     const provenance25 = await view.locator('.vs-provenance').innerText();
-    // The window slider (a range input: set its value and send the event a drag sends).
-    await view.locator('#vs-window-range').evaluate((el) => {
-      (el as HTMLInputElement).value = '40';
+    // The window slider (a range input: set its value and send the event a drag sends). It is logarithmic
+    // (webview/bandView/windowSlider.ts): the position of 40 meV.
+    await view.locator('#vs-window-range').evaluate((el, pos) => {
+      (el as HTMLInputElement).value = String(pos);
       el.dispatchEvent(new Event('input', { bubbles: true }));
-    });
+    }, sliderAtWindow(40));
     await waitFor(
       async () => ((await view.locator('.vs-provenance').innerText()) !== provenance25 ? true : undefined),
       'the refit at 40 meV did not show',

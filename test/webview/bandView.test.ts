@@ -9,6 +9,7 @@ import { startHarness, type Harness, type ViewPage } from './support/bandViewHar
 import { bandDataFromStructure, bandDataMessage, hostFitResult, loadRunForView, type LoadedRun } from './support/coreBandData';
 import { installPageHelpers, hexToRgb, waitForExpression } from './support/pageHelpers';
 import { THEME_VARS, type TestTheme } from './support/themes';
+import { sliderAtWindow } from '../../webview/bandView/windowSlider';
 import { isViewToHostMessage, HostToViewType, type ExtremumMark, type FitTarget } from '../../src/protocol';
 
 type Probe = { inside: boolean; hit: boolean; colour: [number, number, number, number] | null; x: number; y: number };
@@ -258,8 +259,9 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     const dl = await v.page.locator('.vs-degeneracy').textContent();
     assert.match(dl ?? '', /Valley degeneracy Nᵥ6/, 'six Δ valleys (physics.md: star of k in the diamond structure)');
     const prov = (await v.page.locator('.vs-provenance').textContent()) ?? '';
-    assert.match(prov, /method parabola/);
-    assert.match(prov, /points, stderr/);
+    assert.match(prov, /parabola: Least-squares parabola/);
+    const provHeads = await v.page.locator('.vs-provenance-table thead th').allTextContents();
+    assert.deepEqual(provHeads.slice(0, 5), ['direction', 'method', 'window (meV)', 'points', 'stderr (mₑ)']);
     // The fitted curves are drawn over the data, one per direction, and the window scan is plotted.
     const curves = v.page.locator('path.vs-fit-curve');
     assert.equal(await curves.count(), fit.masses.length);
@@ -305,13 +307,14 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
   it('moving the fit window refits live and moves the window line', async () => {
     const v = await openWithRun(h, run);
     await fitAtCbm(v, run);
-    await v.page.evaluate(`(function () { var r = document.querySelector('#vs-window-range'); r.value = '60'; r.dispatchEvent(new Event('input', { bubbles: true })); })()`);
+    // The slider is logarithmic (windowSlider.ts): its position for 60 meV gives back 60 meV.
+    await v.page.evaluate(`(function () { var r = document.querySelector('#vs-window-range'); r.value = '${sliderAtWindow(60)}'; r.dispatchEvent(new Event('input', { bubbles: true })); })()`);
     const req = await waitPosted(v, 'requestFit', 2);
     assert.equal(req.window_meV, 60);
     assert.equal(req.withScan, false, 'a refit does not rerun the scan');
     const cbm = mark(run, 'cbm');
     await v.hostPost(hostFitResult(run, req.requestId as number, cbm, 60, 'parabola', false));
-    await waitForExpression(v.page, `document.querySelector('.vs-provenance').textContent.indexOf('window 60') >= 0`);
+    await waitForExpression(v.page, `document.querySelector('.vs-provenance').textContent.indexOf('Window asked: 60 meV') >= 0`);
     // Changing the method refits at once, with a new window scan.
     await v.page.evaluate(`(function () { var s = document.querySelector('vscode-single-select.vs-method'); s.value = 'central-4'; s.dispatchEvent(new Event('change')); })()`);
     const byMethod = await waitPosted(v, 'requestFit', 3);
@@ -397,13 +400,16 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     await v.page.waitForSelector('.vs-fit-body:not([hidden])');
     const fit = hostFitResult(run, 0, vbm, 25, 'parabola', false).extremum;
     assert.match((await v.page.locator('.vs-fit-kind').textContent()) ?? '', /Valence-band maximum/);
-    assert.equal(await v.page.locator('.vs-masses thead th').nth(2).textContent(), 'hole mass');
+    const heads = await v.page.locator('.vs-masses thead th').allTextContents();
+    const signedCol = heads.indexOf('m* (signed)');
+    const holeCol = heads.indexOf('hole mass');
+    assert.ok(signedCol > 0 && holeCol === signedCol + 1, `columns ${heads.join(', ')}`);
     const rows = await v.page.locator('.vs-masses tbody tr').evaluateAll((trs) => trs.map((tr) => Array.from(tr.querySelectorAll('td'), (td) => td.textContent)));
     assert.equal(rows.length, fit.masses.length);
     fit.masses.forEach((f, i) => {
       assert.ok(f.mass < 0, 'curvature mass negative at a maximum (design.md sign convention)');
-      assert.equal(rows[i]![1], f.mass.toPrecision(3).replace('-', '−'), 'signed mass with a true minus sign');
-      assert.equal(rows[i]![2], (-f.mass).toPrecision(3), 'hole mass: the same number, positive');
+      assert.equal(rows[i]![signedCol], f.mass.toPrecision(3).replace('-', '−'), 'signed mass with a true minus sign');
+      assert.equal(rows[i]![holeCol], (-f.mass).toPrecision(3), 'hole mass: the same number, positive');
     });
     // Without spin-orbit the top valence level of diamond-structure Si at Γ is threefold degenerate
     // (heavy and light holes plus the split-off band, common practice; physics.md step 7).

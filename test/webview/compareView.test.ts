@@ -12,6 +12,8 @@ import { join } from 'node:path';
 import * as esbuild from 'esbuild';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { bandRunOf, buildCompareTable, type CompareEntry } from '../../src/extension/compareViewData';
+import { compositionOf } from '../../src/core/compare/structureDescriptors';
+import { labelledLines } from '../../src/core/lattice/pathPosition';
 import { loadRun } from '../../src/core/load';
 import { nodeFileAccessor } from '../../src/cli/nodeFileAccessor';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../src/core/analysis/analyze';
@@ -51,14 +53,26 @@ async function readRun(dir: string, name: string): Promise<Run> {
   return { name, bs, report: analyzeBandStructure(bs, DEFAULT_SETTINGS), geometry: pathGeometry(bs) };
 }
 
+/** As the panel builds it (compareViewPanel.ts crystalOf): rotations, lattice type, lattice points, composition. */
 function entryOf(run: Run, id: string): CompareEntry {
+  const sym = run.bs.structure ? crystalSymmetry(run.bs.structure) : null;
   return {
     id,
     name: run.name,
     origin: 'data',
     annotations: 'none',
     staleReasons: [],
-    run: { name: id, report: run.report, lattice: run.bs.lattice, rotations: run.bs.structure ? crystalSymmetry(run.bs.structure).rotations : null, origin: 'data' },
+    run: {
+      name: id,
+      report: run.report,
+      lattice: run.bs.lattice,
+      rotations: sym ? sym.rotations : null,
+      latticeType: sym ? sym.bravaisClass : null,
+      latticePointsPerCell: sym ? sym.latticePointsPerCell : null,
+      composition: run.bs.structure ? compositionOf(run.bs.structure.species) : null,
+      pathLines: labelledLines(run.bs),
+      origin: 'data',
+    },
     error: null,
     canOverlay: true,
   };
@@ -150,6 +164,12 @@ async function openView(h: Harness, table: CompareTable): Promise<View> {
   return { page, errors };
 }
 
+/** Ticks "More columns" (the compact default set hides directional masses, valleys, strains). */
+async function showMoreColumns(v: View): Promise<void> {
+  await v.page.locator('vscode-checkbox.cv-more-columns').click();
+  await v.page.locator('table.cv-table th[data-key="volumeStrain"]').waitFor();
+}
+
 async function posted(v: View): Promise<Array<Record<string, unknown>>> {
   return v.page.evaluate(() => (window as unknown as { __posted: Array<Record<string, unknown>> }).__posted);
 }
@@ -220,6 +240,7 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     const gaps = await v.page.locator('table.cv-table tbody td[data-key="gap"]').allInnerTexts();
     NAMES.forEach((_, i) => assert.equal(gaps[i], runs.get(`r${i}`)!.report.gap!.eV.toFixed(4), `gap of ${NAMES[i]}`));
     // Volume strain of the first run against the reference (the first run itself): zero (definition).
+    await showMoreColumns(v);
     const strains = await v.page.locator('table.cv-table tbody td[data-key="volumeStrain"]').allInnerTexts();
     assert.equal(strains[0], '0.000');
     // Biaxial strain ε∥ = −1 %, ε⊥ = −2 (C12/C11) ε∥ with C11 = 165.8, C12 = 63.9 GPa (demo README, handbook
@@ -246,6 +267,7 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     const ascending = [...values].sort((a, b) => a.m - b.m).map((x) => x.name);
     assert.notDeepEqual(ascending, values.map((x) => x.name), 'the mass order differs from the name order (else the test could not fail)');
     const v = await openView(h, table);
+    await showMoreColumns(v);
     const header = v.page.locator(`table.cv-table th[data-key="${key}"] button`);
     await header.click();
     const names = (): Promise<string[]> => v.page.evaluate(() => (window as unknown as { valleyscopeCompareView: { visibleRowNames(): string[] } }).valleyscopeCompareView.visibleRowNames());
@@ -359,6 +381,82 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     assert.equal(await v.page.locator('tr[data-id="r3"] td[data-key="gap"]').innerText(), '—', 'an unreadable run has no numbers');
     assert.ok((await v.page.locator('.cv-cautions li').allInnerTexts()).some((c) => /annotations files show the numbers as they were saved/i.test(c)));
     assert.match((await v.page.locator('.cv-summary').innerText()) ?? '', /4 runs, 1 unreadable, 1 with stale annotations/);
+    await clean(v);
+    await v.page.close();
+  });
+
+  it('mixed materials: the default reference is a run of the material most runs share; trend lines stay within one material', async () => {
+    // GaAs bulk listed first (as an alphabetical search finds it), then silicon: bulk and the strain series.
+    const gaas = await readRun(join('fixtures', 'demo', 'gaas-bulk'), 'gaas-bulk/EIGENVAL');
+    const list: CompareEntry[] = [entryOf(gaas, 'g0'), entryOf(runs.get('r5')!, 'r5'), ...NAMES.map((_, i) => entryOf(runs.get(`r${i}`)!, `r${i}`))];
+    const t = buildCompareTable(list, null, false);
+    // Six of seven runs are silicon (demo README): the reference is the first silicon run, not GaAs.
+    assert.equal(t.reference, 'r5');
+    assert.equal(t.rows.find((r) => r.id === 'g0')!.series, 'As1 Ga1');
+    assert.equal(t.rows.find((r) => r.id === 'g0')!.latticeType, 'cF'); // zincblende: face-centred cubic (common practice)
+    // The chosen reference still wins over the default.
+    assert.equal(buildCompareTable(list, 'g0', false).reference, 'g0');
+    const v = await openView(h, t);
+    assert.equal(await v.page.evaluate(`document.querySelector('vscode-single-select.cv-reference').value`), 'r5');
+    const events = await v.page.locator('.cv-events h2').innerText();
+    assert.match(events, /against si-bulk\/EIGENVAL/);
+    // GaAs is not compared valley by valley with silicon: one sentence says it is another material.
+    const gaasEvents = t.events.filter((e) => e.rowId === 'g0');
+    assert.deepEqual(gaasEvents.map((e) => e.kind), ['other-material']);
+    assert.match(gaasEvents[0]!.message, /another material \(As1 Ga1\) than the reference \(Si2\)/);
+    assert.ok(t.events.some((e) => e.rowId !== 'g0' && e.kind !== 'other-material'), 'control: silicon runs keep their valley events');
+    assert.match((await v.page.locator('tr[data-id="g0"] td', { hasText: '[' }).first().getAttribute('title')) ?? '', /Another material \(As1 Ga1\)/);
+    assert.equal(await v.page.locator('tr[data-id="g0"] td.cv-moved').count(), 0, 'no "edge moved" mark against another material');
+    // Trend of the gap against the volume: silicon (bulk and the strain series, cubic and tetragonal) is one
+    // line; GaAs is a series of its own.
+    await v.page.evaluate(`window.valleyscopeCompareView.setTrend('volume', 'gap')`);
+    const series = (await v.page.evaluate('window.valleyscopeCompareView.lastTrendSeries')) as { name: string; rowIds: string[] }[];
+    assert.ok(series.length >= 2, JSON.stringify(series));
+    for (const sr of series) {
+      const names = new Set(sr.rowIds.map((id) => t.rows.find((r) => r.id === id)!.series));
+      assert.equal(names.size, 1, `one material per line: ${sr.name}`);
+    }
+    const lines = await v.page.locator('svg.cv-trend-svg path.cv-trend-line').evaluateAll((ps) => ps.map((p) => p.getAttribute('data-series')));
+    assert.deepEqual(lines, ['Si2'], 'one line: silicon; the single GaAs run joins no line');
+    assert.deepEqual(series.find((x) => x.name === 'Si2')!.rowIds.length, 6);
+    const legend = (await v.page.locator('.cv-trend-legend').innerText()) ?? '';
+    assert.match(legend, /As1 Ga1 \(cF\): 1 run/);
+    assert.match(legend, /Si2 \(cF, tI\): 6 runs|Si2 \(tI, cF\): 6 runs/);
+    await v.page.screenshot({ path: join(ARTIFACTS, 'compare-view-materials.png'), fullPage: true });
+    await clean(v);
+    await v.page.close();
+  });
+
+  it('conventional lattice constants for cubic cells, labelled so; cell-vector lengths only behind More columns', async () => {
+    const bulk = runs.get('r5')!;
+    const t = buildCompareTable([entryOf(bulk, 'r5'), ...NAMES.map((_, i) => entryOf(runs.get(`r${i}`)!, `r${i}`))], null, false);
+    const row = t.rows.find((r) => r.id === 'r5')!;
+    // Silicon: a = 5.431 Å (handbook value, memory); the demo writes 5.43 Å (demo README). The fcc primitive
+    // vectors are a/√2 long (common practice), so the conventional a is √2 × |a₁|.
+    assert.ok(Math.abs(row.values.aConv! - 5.43) < 1e-6, `conventional a ${row.values.aConv}`);
+    assert.ok(Math.abs(row.values.aConv! - Math.SQRT2 * row.values.a!) < 1e-9);
+    assert.ok(row.values.a! < 4, 'the cell vector is the primitive one (3.84 Å), which is why it is not shown as "a"');
+    // Valleys are named by their place on the labelled path, as the CLI names them: the Si CBM lies on Γ–X
+    // (the Δ line, common practice), so "0.85 Γ→X"-style, not a bare fractional k.
+    assert.match(row.cbm ?? '', /^0\.\d+ (Γ→X|X→Γ)$/, `CBM at ${row.cbm}`);
+    // A biaxially strained film is tetragonal: no cubic constant for it.
+    const strained = t.rows.find((r) => r.id === 'r0')!;
+    assert.equal(strained.values.aConv ?? null, null);
+    const v = await openView(h, t);
+    const headerText = await v.page.locator('table.cv-table thead').innerText();
+    assert.match(headerText, /conventional a/);
+    assert.equal(await v.page.locator('table.cv-table th[data-key="a"]').count(), 0, 'cell-vector lengths hidden in the compact set');
+    // Compact default set: gap, edges, N_v, DOS and conductivity masses (and conventional a).
+    const keys = await v.page.locator('table.cv-table thead th[data-key]').evaluateAll((ths) => ths.map((th) => (th as HTMLElement).dataset.key));
+    const numeric = keys.filter((k) => !['name', 'annotations', 'type', 'vbm', 'cbm', 'user'].includes(k!));
+    for (const k of numeric) assert.ok(['gap', 'deltaGap', 'cbm.nv', 'cbm.dos', 'cbm.cond', 'vbm.nv', 'vbm.dos', 'vbm.cond', 'aConv'].includes(k!), `compact column ${k}`);
+    assert.ok(t.columns.length > numeric.length + 5, `control: the full set is larger (${t.columns.length})`);
+    assert.match((await v.page.locator('vscode-checkbox.cv-more-columns').getAttribute('label')) ?? '', /More columns \(\d+ more\)/);
+    await showMoreColumns(v);
+    assert.equal(await v.page.locator('table.cv-table th[data-key="a"]').count(), 1);
+    assert.match((await v.page.locator('table.cv-table th[data-key="a"]').innerText()) ?? '', /cell vector/);
+    // Remembered across a reload of the view (webview state).
+    assert.equal(await v.page.evaluate(`window.__state.more`), true);
     await clean(v);
     await v.page.close();
   });

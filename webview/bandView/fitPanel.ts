@@ -8,6 +8,8 @@ import type { ExtremumReport, MassFit, WindowScanSeries } from '../../src/protoc
 import { drawScanPlot, SERIES_COLOURS } from './scanPlot';
 import { fixed, fracK, sig } from './format';
 import { isMaximumKind } from './markers';
+import { methodDescription } from '../../src/core/analysis/methods';
+import { sliderAtWindow, windowAtSlider, WINDOW_MAX_MEV, WINDOW_MIN_MEV, WINDOW_SLIDER_STEPS } from './windowSlider';
 
 const SVG_NS = 'http://www.w3.org/2000/svg';
 
@@ -18,8 +20,7 @@ function el<K extends keyof HTMLElementTagNameMap>(tag: K, cls?: string, text?: 
   return e;
 }
 
-export const WINDOW_MIN_MEV = 1;
-export const WINDOW_MAX_MEV = 300;
+export { WINDOW_MAX_MEV, WINDOW_MIN_MEV } from './windowSlider';
 
 export interface FitPanelCallbacks {
   onWindow(window_meV: number): void;
@@ -46,7 +47,11 @@ export class FitPanel {
   private readonly status: HTMLElement;
   private readonly body: HTMLElement;
   private readonly head: HTMLElement;
+  private readonly massTableEl: HTMLTableElement;
+  private readonly massHead: HTMLTableSectionElement;
   private readonly massTable: HTMLTableSectionElement;
+  /** Whether the table shown has a branch column (a degenerate edge). */
+  private withBranch = false;
   private readonly tensor: HTMLElement;
   private readonly degeneracy: HTMLElement;
   private readonly provenance: HTMLElement;
@@ -54,6 +59,7 @@ export class FitPanel {
   private readonly range: HTMLInputElement;
   private readonly windowField: HTMLElement & { value: string };
   private readonly methodSelect: HTMLElement & { value: string };
+  private readonly methodNote: HTMLElement;
   private readonly scanSvg: SVGSVGElement;
   private readonly scanLegend: HTMLElement;
   private readonly cautions: HTMLUListElement;
@@ -74,17 +80,16 @@ export class FitPanel {
     this.head = el('div', 'vs-fit-head');
     this.body.append(this.head);
 
-    const table = el('table', 'vs-masses');
+    this.massTableEl = el('table', 'vs-masses');
     const cap = el('caption', undefined, 'Directional masses (mₑ)');
-    table.append(cap);
-    const thead = el('thead');
-    const hr = el('tr');
-    for (const h of ['towards', 'm* (signed)', 'hole mass', '± stderr', 'points']) hr.append(el('th', undefined, h));
-    thead.append(hr);
-    table.append(thead);
+    this.massTableEl.append(cap);
+    this.massHead = el('thead');
+    this.massTableEl.append(this.massHead);
     this.massTable = el('tbody');
-    table.append(this.massTable);
-    this.body.append(table);
+    this.massTableEl.append(this.massTable);
+    const massWrap = el('div', 'vs-masses-scroll');
+    massWrap.append(this.massTableEl);
+    this.body.append(massWrap);
 
     this.tensor = el('div', 'vs-tensor');
     this.degeneracy = el('dl', 'vs-degeneracy');
@@ -93,15 +98,16 @@ export class FitPanel {
 
     // Window and method controls.
     const controls = el('div', 'vs-fit-controls');
-    const wl = el('label', 'vs-control-label', 'Fit window (meV)');
+    const wl = el('label', 'vs-control-label', 'Fit window (meV, logarithmic like the scan plot)');
     wl.htmlFor = 'vs-window-range';
     this.range = el('input', 'vs-range');
     this.range.type = 'range';
     this.range.id = 'vs-window-range';
-    this.range.min = String(WINDOW_MIN_MEV);
-    this.range.max = String(WINDOW_MAX_MEV);
+    this.range.min = '0';
+    this.range.max = String(WINDOW_SLIDER_STEPS);
     this.range.step = '1';
-    this.range.setAttribute('aria-label', 'Fit window in meV');
+    this.range.setAttribute('aria-label', 'Fit window in meV, logarithmic scale');
+    this.range.dataset.scale = 'log';
     this.windowField = document.createElement('vscode-textfield') as unknown as HTMLElement & { value: string };
     this.windowField.setAttribute('type', 'number');
     this.windowField.setAttribute('min', String(WINDOW_MIN_MEV));
@@ -112,20 +118,27 @@ export class FitPanel {
     this.methodSelect = document.createElement('vscode-single-select') as unknown as HTMLElement & { value: string };
     this.methodSelect.className = 'vs-method';
     this.methodSelect.setAttribute('aria-label', 'Fit method');
-    controls.append(wl, this.range, this.windowField, ml, this.methodSelect);
+    this.methodNote = el('p', 'vs-method-note vs-muted');
+    controls.append(wl, this.range, this.windowField, ml, this.methodSelect, this.methodNote);
     this.body.append(controls);
     this.range.addEventListener('input', () => {
-      this.windowField.value = this.range.value;
-      this.queueWindow(Number(this.range.value));
+      const w = windowAtSlider(Number(this.range.value));
+      this.windowField.value = String(w);
+      this.range.setAttribute('aria-valuetext', `${w} meV`);
+      this.queueWindow(w);
     });
     this.windowField.addEventListener('change', () => {
       const v = Number(this.windowField.value);
       if (Number.isFinite(v) && v >= WINDOW_MIN_MEV && v <= WINDOW_MAX_MEV) {
-        this.range.value = String(v);
+        this.range.value = String(sliderAtWindow(v));
+        this.range.setAttribute('aria-valuetext', `${v} meV`);
         this.queueWindow(v);
       }
     });
-    this.methodSelect.addEventListener('change', () => this.cb.onMethod(this.methodSelect.value));
+    this.methodSelect.addEventListener('change', () => {
+      this.describeMethod(this.methodSelect.value);
+      this.cb.onMethod(this.methodSelect.value);
+    });
 
     const scanBox = el('figure', 'vs-scan');
     const scanCap = el('figcaption', undefined, 'Mass against fit window (window scan)');
@@ -153,15 +166,24 @@ export class FitPanel {
         const o = document.createElement('vscode-option');
         o.setAttribute('value', m);
         o.textContent = m;
+        const d = methodDescription(m);
+        if (d) o.setAttribute('description', d);
         if (m === current) o.setAttribute('selected', '');
         return o;
       }),
     );
     this.methodSelect.value = current;
+    this.describeMethod(current);
+  }
+
+  private describeMethod(m: string): void {
+    const d = methodDescription(m);
+    this.methodNote.textContent = d ? `${m}: ${d}` : '';
   }
 
   setWindow(window_meV: number): void {
-    this.range.value = String(window_meV);
+    this.range.value = String(sliderAtWindow(window_meV));
+    this.range.setAttribute('aria-valuetext', `${window_meV} meV`);
     this.windowField.value = String(window_meV);
   }
 
@@ -203,11 +225,24 @@ export class FitPanel {
         `band ${x.band}${x.spin === 1 ? ' (spin ↓)' : ''} · k = ${fracK(x.k)}${x.label ? ` (${x.label})` : ''} · ${relEnergy.zero ? `E − ${relEnergy.zero}` : 'E'} = ${fixed(relEnergy.value, 3)} eV`,
       ),
     );
+    this.withBranch = x.masses.some((f) => f.branch !== undefined);
+    const heads = ['towards', ...(this.withBranch ? ['branch'] : []), 'm* (signed)', 'hole mass', '±', 'pts'];
+    const hr = el('tr');
+    for (const h of heads) {
+      const th = el('th', undefined, h);
+      th.dataset.col = h;
+      if (h === 'pts') th.title = 'Points used by the fit';
+      if (h === 'branch') th.title = 'At a degenerate edge each branch is followed by smooth continuation; branch 1 lies nearest the gap.';
+      if (h === '±') th.title = 'One standard error of the fit; for finite differences (no residual) the spread against the parabola at the same window, marked "spread".';
+      hr.append(th);
+    }
+    this.massHead.replaceChildren(hr);
+    this.massTableEl.classList.toggle('vs-with-branch', this.withBranch);
     this.massTable.replaceChildren(...x.masses.map((f) => this.massRow(f)));
     if (x.masses.length === 0) {
       const tr = el('tr');
       const td = el('td', 'vs-muted', 'No direction could be fitted here (see the notes below).');
-      td.colSpan = 5;
+      td.colSpan = heads.length;
       tr.append(td);
       this.massTable.append(tr);
     }
@@ -238,20 +273,8 @@ export class FitPanel {
     add('Valley degeneracy Nᵥ', x.valleyDegeneracy === null ? 'unknown — needs the crystal structure' : String(x.valleyDegeneracy));
     if (x.dosMass !== null) add('Density-of-states mass', `${sig(x.dosMass, 3)} mₑ`);
     if (x.conductivityMass !== null) add('Conductivity mass', `${sig(x.conductivityMass, 3)} mₑ`);
-    // Provenance.
-    const methods = [...new Set(x.masses.map((f) => f.method))];
-    const windows = [...new Set(x.masses.map((f) => f.window_meV))];
-    this.provenance.replaceChildren(
-      el('h3', undefined, 'How these were measured'),
-      el(
-        'p',
-        undefined,
-        `method ${methods.join(', ') || method} · window ${windows.map((w) => sig(w, 3)).join(', ') || sig(window_meV, 3)} meV · ` +
-          x.masses.map((f) => `${f.towards}: ${f.points} points, stderr ${sig(f.stderr, 2)} mₑ${f.residual_meV !== undefined ? `, residual ${sig(f.residual_meV, 2)} meV` : ''}`).join('; '),
-      ),
-    );
-    const warns = [...x.warnings, ...x.masses.flatMap((f) => (f.warnings ?? []).map((w) => `${f.towards}: ${w}`))];
-    this.warnings.replaceChildren(...warns.map((w) => el('li', undefined, w)));
+    this.provenance.replaceChildren(el('h3', undefined, 'How these were measured'), ...provenanceParts(x.masses, method, window_meV, this.withBranch));
+    this.warnings.replaceChildren(...dedupedWarnings(x.warnings, x.masses).map((w) => el('li', undefined, w)));
     this.setWindow(window_meV);
     this.redrawScan(window_meV);
   }
@@ -259,28 +282,18 @@ export class FitPanel {
   private massRow(f: MassFit): HTMLTableRowElement {
     const tr = el('tr');
     tr.dataset.towards = f.towards;
+    if (f.branch !== undefined) tr.dataset.branch = String(f.branch);
+    const lead = [el('td', undefined, f.towards), ...(this.withBranch ? [el('td', 'vs-num vs-branch', f.branch === undefined ? '—' : String(f.branch))] : [])];
     if (f.determined === false) {
       // Not quotable: the word instead of the number; what the fit gave and why it is not quoted in the tooltip.
       tr.classList.add('vs-undetermined');
       tr.dataset.determined = 'false';
-      tr.append(
-        el('td', undefined, f.towards),
-        el('td', 'vs-num', 'undetermined'),
-        el('td', 'vs-num', '—'),
-        el('td', 'vs-num', sig(f.stderr, 2)),
-        el('td', 'vs-num', String(f.points)),
-      );
+      tr.append(...lead, el('td', 'vs-num', 'undetermined'), el('td', 'vs-num', '—'), uncertaintyCell(f), el('td', 'vs-num', String(f.points)));
       tr.title = `The fit gave ${sig(f.mass, 3)} ± ${sig(f.stderr, 2)} mₑ, not quoted: ${f.undeterminedReason ?? 'undetermined'}.`;
       return tr;
     }
     const hole = f.mass < 0 ? sig(-f.mass, 3) : '—';
-    tr.append(
-      el('td', undefined, f.towards),
-      el('td', 'vs-num', sig(f.mass, 3)),
-      el('td', 'vs-num', hole),
-      el('td', 'vs-num', sig(f.stderr, 2)),
-      el('td', 'vs-num', String(f.points)),
-    );
+    tr.append(...lead, el('td', 'vs-num', sig(f.mass, 3)), el('td', 'vs-num', hole), uncertaintyCell(f), el('td', 'vs-num', String(f.points)));
     if (f.alpha_per_eV !== undefined) tr.title = `non-parabolicity α = ${sig(f.alpha_per_eV, 3)} eV⁻¹`;
     return tr;
   }
@@ -300,4 +313,147 @@ export class FitPanel {
       }),
     );
   }
+}
+
+/** Direction with its branch, as provenance rows and warnings name it. */
+function directionName(f: MassFit): string {
+  return f.branch === undefined ? f.towards : `${f.towards} (branch ${f.branch})`;
+}
+
+/**
+ * The uncertainty cell: the fit's standard error; for a finite difference (no residual, stderr from rounding
+ * only) the spread against the parabola at the same window, marked "spread" so it is not read as a stderr.
+ */
+function uncertaintyCell(f: MassFit): HTMLTableCellElement {
+  const td = el('td', 'vs-num');
+  const sp = f.methodSpread;
+  if (!sp) {
+    td.textContent = sig(f.stderr, 2);
+    return td;
+  }
+  td.classList.add('vs-spread');
+  td.append(el('span', 'vs-spread-value', sig(sp.spread, 2)), ' ', el('span', 'vs-spread-tag', 'spread'));
+  td.title =
+    `Method spread: the ${sp.against} fit at the same window setting (${sig(sp.window_meV, 3)} meV) gives ${sig(sp.mass, 3)} mₑ; ` +
+    `this is how far the two disagree. The ${f.method} stencil's own standard error (rounding of the energies only) is ${sig(f.stderr, 2)} mₑ.`;
+  return td;
+}
+
+/** Provenance as a small table: one row per fitted direction (and branch); the Kane α column only for Kane fits. */
+function provenanceParts(masses: MassFit[], method: string, window_meV: number, withBranch: boolean): HTMLElement[] {
+  const usedMethods = [...new Set(masses.map((f) => f.method))];
+  const list = usedMethods.length ? usedMethods : [method];
+  const methodLines = list.map((m) => {
+    const p = el('p', 'vs-method-line');
+    p.append(el('strong', undefined, m), `: ${methodDescription(m) ?? 'no description'}`);
+    return p;
+  });
+  if (masses.length === 0) return [...methodLines, el('p', 'vs-muted', `window ${sig(window_meV, 3)} meV asked; nothing fitted.`)];
+  const withAlpha = masses.some((f) => f.alpha_per_eV !== undefined);
+  const withSpread = masses.some((f) => f.methodSpread !== undefined);
+  const heads = [
+    withBranch ? 'direction (branch)' : 'direction',
+    'method',
+    'window (meV)',
+    'points',
+    'stderr (mₑ)',
+    'residual (meV)',
+    ...(withSpread ? ['spread vs parabola (mₑ)'] : []),
+    ...(withAlpha ? ['Kane α (eV⁻¹)'] : []),
+  ];
+  const table = el('table', 'vs-provenance-table');
+  const thead = el('thead');
+  const hr = el('tr');
+  for (const h of heads) hr.append(el('th', undefined, h));
+  thead.append(hr);
+  const tbody = el('tbody');
+  for (const f of masses) {
+    const tr = el('tr');
+    tr.dataset.towards = f.towards;
+    const cells = [
+      el('td', undefined, directionName(f)),
+      el('td', undefined, f.method),
+      el('td', 'vs-num', sig(f.window_meV, 3)),
+      el('td', 'vs-num', String(f.points)),
+      el('td', 'vs-num', sig(f.stderr, 2)),
+      el('td', 'vs-num', f.residual_meV === undefined ? '—' : sig(f.residual_meV, 2)),
+    ];
+    if (withSpread) cells.push(el('td', 'vs-num', f.methodSpread ? sig(f.methodSpread.spread, 2) : '—'));
+    if (withAlpha) {
+      const td = el('td', 'vs-num vs-alpha', f.alpha_per_eV === undefined ? '—' : sig(f.alpha_per_eV, 3));
+      cells.push(td);
+    }
+    tr.append(...cells);
+    tbody.append(tr);
+  }
+  table.append(thead, tbody);
+  const wrap = el('div', 'vs-provenance-scroll');
+  wrap.append(table);
+  const asked = el('p', 'vs-muted', `Window asked: ${String(window_meV)} meV; the window column gives what each fit used (it grows where too few points lie inside).`);
+  const parts: HTMLElement[] = [...methodLines, wrap, asked];
+  if (withSpread) parts.push(el('p', 'vs-muted', 'A finite difference passes through its points: it has no residual, and its stderr is the rounding of the energies only. The spread against the parabola fit at the same window is the uncertainty to quote.'));
+  return parts;
+}
+
+/** Numbers inside a warning sentence (window sizes, point counts). */
+const NUMBER = /\d+(?:\.\d+)?/g;
+
+/** Sentences with the numbers taken out: warnings that differ only in their numbers share this. */
+function skeleton(text: string): string {
+  return text.replace(NUMBER, '#').replace(/\bpoints\b/g, 'point');
+}
+
+/** One sentence for a group of the same skeleton: a number that differs is shown as its range (47–83). */
+function mergeNumbers(texts: readonly string[]): string {
+  const first = texts[0]!;
+  if (texts.length === 1) return first;
+  const numbers = texts.map((t) => t.match(NUMBER) ?? []);
+  let i = 0;
+  return first.replace(NUMBER, (m) => {
+    const at = i++;
+    const vals = numbers.map((n) => n[at] ?? m);
+    const nums = vals.map(Number);
+    const lo = Math.min(...nums);
+    const hi = Math.max(...nums);
+    if (lo === hi) return m;
+    return `${vals[nums.indexOf(lo)]}–${vals[nums.indexOf(hi)]}`;
+  }).replace(/(\d–[\d.]+) point\b/g, '$1 points');
+}
+
+/** "X (branches 1, 2), K (branch 2)": the directions, each with its branches. */
+function whereText(who: readonly MassFit[]): string {
+  const byDir = new Map<string, number[]>();
+  for (const f of who) {
+    const list = byDir.get(f.towards) ?? [];
+    if (!byDir.has(f.towards)) byDir.set(f.towards, list);
+    if (f.branch !== undefined && !list.includes(f.branch)) list.push(f.branch);
+  }
+  return [...byDir].map(([dir, br]) => (br.length === 0 ? dir : `${dir} (branch${br.length > 1 ? 'es' : ''} ${br.join(', ')})`)).join(', ');
+}
+
+/**
+ * Each warning once: sentences that differ only in their numbers (the window each direction grew to) are
+ * listed once, with the range of those numbers and the directions (and branches) they apply to.
+ */
+export function dedupedWarnings(general: readonly string[], masses: readonly MassFit[]): string[] {
+  const order: string[] = [];
+  const groups = new Map<string, { texts: string[]; who: MassFit[] }>();
+  const add = (text: string, who: MassFit | null): void => {
+    const key = skeleton(text);
+    let g = groups.get(key);
+    if (!g) {
+      g = { texts: [], who: [] };
+      groups.set(key, g);
+      order.push(key);
+    }
+    if (!g.texts.includes(text)) g.texts.push(text);
+    if (who && !g.who.includes(who)) g.who.push(who);
+  };
+  for (const w of general) add(w, null);
+  for (const f of masses) for (const w of f.warnings ?? []) add(w, f);
+  return order.map((key) => {
+    const g = groups.get(key)!;
+    const text = mergeNumbers(g.texts);
+    return g.who.length === 0 ? text : `${text} [towards ${whereText(g.who)}]`;
+  });
 }

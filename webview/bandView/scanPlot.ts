@@ -25,8 +25,10 @@ export function drawScanPlot(svgEl: SVGSVGElement, series: WindowScanSeries[], c
   const wins = pts.map((p) => p.window_meV);
   const wMin = Math.min(...wins, currentWindow);
   const wMax = Math.max(...wins, currentWindow);
-  const useLog = wMin > 0 && wMax / wMin > 8;
+  // Logarithmic like the window slider (windowSlider.ts), whenever the windows allow it.
+  const useLog = wMin > 0 && wMax > wMin;
   const x = (useLog ? scaleLog() : scaleLinear()).domain([wMin, wMax]).range([m.left, W - m.right]);
+  svg.attr('data-x-scale', useLog ? 'log' : 'linear');
   const lo = Math.min(...pts.map((p) => val(p.mass) - (Number.isFinite(p.stderr) ? p.stderr : 0)));
   const hi = Math.max(...pts.map((p) => val(p.mass) + (Number.isFinite(p.stderr) ? p.stderr : 0)));
   const pad = (hi - lo) * 0.1 || Math.abs(hi) * 0.1 || 0.1;

@@ -26,7 +26,10 @@ body { margin: 0; padding: 0; background: var(--vscode-editor-background); color
 .vs-axis text { fill: var(--vscode-foreground); font-size: 11px; }
 .vs-axis-title { fill: var(--vscode-foreground); font-size: 12px; }
 .vs-sym-line { stroke: var(--vscode-editorIndentGuide-background1, var(--vscode-descriptionForeground)); stroke-width: 1; stroke-dasharray: 3 3; }
-body.vscode-high-contrast .vs-sym-line, body.vscode-high-contrast-light .vs-sym-line { stroke: var(--vscode-contrastBorder); stroke-dasharray: none; }
+body.vscode-high-contrast .vs-sym-line { stroke: var(--vscode-contrastBorder); stroke-dasharray: none; }
+/* Light High Contrast gives the contrast border and the first chart colour the same dark blue: the symmetry
+   lines take the text colour and a dash instead, so they never read as a band. */
+body.vscode-high-contrast-light .vs-sym-line { stroke: var(--vscode-editor-foreground, var(--vscode-foreground)); stroke-dasharray: 5 3; }
 .vs-break { stroke: var(--vscode-foreground); stroke-width: 1; }
 .vs-zero { stroke: var(--vscode-descriptionForeground); stroke-width: 1; stroke-dasharray: 6 3; }
 .vs-fermi { stroke: var(--vscode-charts-orange, var(--vscode-editorWarning-foreground)); stroke-width: 1.5; stroke-dasharray: 2 2; }
@@ -67,6 +70,18 @@ body.vscode-high-contrast .vs-mark, body.vscode-high-contrast-light .vs-mark { s
 .vs-fit-controls .vs-range { grid-column: 1; width: 100%; margin: 0; accent-color: var(--vscode-charts-green); }
 .vs-fit-controls .vs-window-field { grid-column: 2; width: 80px; }
 .vs-fit-controls .vs-method { grid-column: 1 / span 2; width: 100%; }
+.vs-fit-controls .vs-method-note { grid-column: 1 / span 2; margin: 0; font-size: 0.88em; }
+.vs-method-line { margin: 2px 0; font-size: 0.92em; }
+.vs-provenance-scroll { overflow-x: auto; max-width: 100%; }
+.vs-provenance-table { border-collapse: collapse; font-size: 0.86em; font-variant-numeric: tabular-nums; }
+.vs-provenance-table th, .vs-provenance-table td { padding: 1px 4px; text-align: left; white-space: nowrap;
+  border-bottom: 1px solid var(--vscode-editorIndentGuide-background1, rgba(128,128,128,0.3)); }
+.vs-provenance-table th { font-weight: 600; color: var(--vscode-descriptionForeground); white-space: normal; vertical-align: bottom; }
+.vs-spread-tag { font-size: 0.8em; color: var(--vscode-descriptionForeground); }
+.vs-branch { width: 3em; }
+.vs-masses-scroll { overflow-x: auto; max-width: 100%; }
+.vs-with-branch { font-size: 0.88em; }
+.vs-with-branch th, .vs-with-branch td { padding: 2px 2px; }
 .vs-scan { margin: 6px 0; }
 .vs-scan figcaption { font-size: 0.92em; color: var(--vscode-descriptionForeground); }
 .vs-scan-current { stroke: var(--vscode-focusBorder); stroke-dasharray: 3 2; }

@@ -81,6 +81,10 @@ export class CompareViewApp {
   private sort: SortState | null = null;
   private selected: string[] = [];
   private userValues = new Map<string, number>();
+  /** Whether the columns outside the compact default set are shown ("More columns"). */
+  private showMore = false;
+  private readonly moreBox: VsCheckbox;
+  private readonly trendLegend: HTMLElement;
   private bands = new Map<string, BandsOf>();
   private pendingRequest = 0;
   private nextRequestId = 1;
@@ -90,6 +94,8 @@ export class CompareViewApp {
   private frame = 0;
   lastOverlay: OverlayStats | null = null;
   lastTrendPoints: { rowId: string; x: number; y: number }[] = [];
+  /** The trend plot's series (one line each), for tests. */
+  lastTrendSeries: { name: string; rowIds: string[] }[] = [];
 
   readonly root: HTMLElement;
   private readonly summary: HTMLElement;
@@ -147,6 +153,17 @@ export class CompareViewApp {
     this.tableEl = el('table', 'cv-table');
     this.tableEl.setAttribute('aria-label', 'Runs in the workspace');
     this.tableWrap.append(this.tableEl);
+    this.moreBox = document.createElement('vscode-checkbox') as unknown as VsCheckbox;
+    this.moreBox.classList.add('cv-more-columns');
+    this.moreBox.setAttribute('label', 'More columns');
+    this.moreBox.title = 'Off: gap, edges, valley degeneracy, density-of-states and conductivity masses, conventional a. On: also every directional mass, every matched valley, strains and cell vectors.';
+    this.moreBox.checked = this.showMore;
+    this.moreBox.addEventListener('change', () => {
+      this.showMore = this.moreBox.checked;
+      this.saveState();
+      this.renderTable();
+      this.setStatus(this.showMore ? 'All columns shown.' : 'Compact columns shown.');
+    });
 
     const plots = el('div', 'cv-plots');
     const ov = el('section', 'cv-section cv-overlay');
@@ -186,12 +203,14 @@ export class CompareViewApp {
     this.trendMessage = el('div', 'cv-message');
     this.trendMessage.hidden = true;
     this.trendPlot.append(this.trendSvg, this.trendMessage);
-    tr.append(controls, this.trendNote, this.trendPlot);
+    this.trendLegend = el('div', 'cv-trend-legend');
+    this.trendLegend.setAttribute('aria-label', 'Series of the trend plot: one line per material');
+    tr.append(controls, this.trendNote, this.trendPlot, this.trendLegend);
     plots.append(ov, tr);
 
     this.status = el('div', 'cv-status');
     this.status.setAttribute('role', 'status');
-    this.root.append(bar, this.cautions, this.events, this.tableWrap, plots, this.status);
+    this.root.append(bar, this.cautions, this.events, this.moreBox, this.tableWrap, plots, this.status);
     (document.getElementById('app') ?? document.body).append(this.root);
 
     this.refSelect.addEventListener('change', () => {
@@ -229,12 +248,13 @@ export class CompareViewApp {
   // State kept across reloads of the view: typed values by run name, trend axes, sort.
 
   private restoreState(): void {
-    const s = this.api.getState() as { user?: Record<string, number>; trendX?: string; trendY?: string; sort?: SortState | null } | undefined;
+    const s = this.api.getState() as { user?: Record<string, number>; trendX?: string; trendY?: string; sort?: SortState | null; more?: boolean } | undefined;
     if (!s || typeof s !== 'object') return;
     this.pendingUserByName = s.user && typeof s.user === 'object' ? s.user : {};
     if (typeof s.trendX === 'string') this.trendX = s.trendX;
     if (typeof s.trendY === 'string') this.trendY = s.trendY;
     if (s.sort && typeof s.sort.key === 'string') this.sort = s.sort;
+    if (s.more === true) this.showMore = true;
   }
   private pendingUserByName: Record<string, number> = {};
 
@@ -246,7 +266,7 @@ export class CompareViewApp {
       else delete user[r.name];
     }
     this.pendingUserByName = user;
-    this.api.setState({ user, trendX: this.trendX, trendY: this.trendY, sort: this.sort });
+    this.api.setState({ user, trendX: this.trendX, trendY: this.trendY, sort: this.sort, more: this.showMore });
   }
 
   // -------------------------------------------------------------------------------------------------
@@ -387,11 +407,15 @@ export class CompareViewApp {
       this.headerCell('vbm', 'VBM at', '', 'Where the valence band maximum is (label or fractional k).'),
       this.headerCell('cbm', 'CBM at', '', 'Where the conduction band minimum is, and in which matched valley.'),
     );
-    for (const c of t.columns) hr.append(this.headerCell(c.key, c.label, c.unit, c.title));
+    const shown = t.columns.filter((c) => this.showMore || !c.more);
+    const hidden = t.columns.length - shown.length;
+    this.moreBox.setAttribute('label', this.showMore ? 'More columns' : `More columns (${hidden} more)`);
+    this.moreBox.hidden = t.columns.every((c) => !c.more);
+    for (const c of shown) hr.append(this.headerCell(c.key, c.label, c.unit, c.title));
     hr.append(this.headerCell(USER_KEY, 'Your value', 'typed', 'A number you type per run (e.g. a setting of the calculation), usable as the trend plot’s horizontal axis.'));
     thead.append(hr);
     const tbody = el('tbody');
-    for (const r of sortRows(t.rows, this.sort, this.userValues)) tbody.append(this.rowElement(r, t.columns));
+    for (const r of sortRows(t.rows, this.sort, this.userValues)) tbody.append(this.rowElement(r, shown));
     this.tableEl.replaceChildren(thead, tbody);
   }
 
@@ -441,7 +465,9 @@ export class CompareViewApp {
     const tdVbm = el('td', undefined, r.vbm ?? '—');
     const tdCbm = el('td', undefined, r.cbm ? `${r.cbm}${r.cbmValley ? ` [${r.cbmValley}]` : ''}` : '—');
     const ref = this.table?.rows.find((x) => x.isReference);
-    if (ref && !r.isReference && ref.cbmValley && r.cbmValley && ref.cbmValley !== r.cbmValley) {
+    const sameMaterial = !ref || !ref.series || !r.series || ref.series === r.series;
+    if (!sameMaterial) tdCbm.title = `Another material (${r.series}) than the reference (${ref!.series}): its valleys are not matched with the reference's.`;
+    if (ref && sameMaterial && !r.isReference && ref.cbmValley && r.cbmValley && ref.cbmValley !== r.cbmValley) {
       tdCbm.classList.add('cv-moved');
       tdCbm.title = `The CBM is in valley ${r.cbmValley} here, in valley ${ref.cbmValley} in the reference: compare masses valley by valley.`;
     }
@@ -741,14 +767,36 @@ export class CompareViewApp {
     svg.append('g').attr('class', 'cv-axis').attr('transform', `translate(${TREND_MARGIN.left},0)`).call(axisLeft(y).ticks(Math.max(2, Math.round(ph / 40))).tickFormat((d) => minus(String(d))));
     svg.append('text').attr('class', 'cv-axis-title').attr('x', TREND_MARGIN.left + pw / 2).attr('y', height - 6).attr('text-anchor', 'middle').text(this.columnTitle(this.trendX));
     svg.append('text').attr('class', 'cv-axis-title').attr('transform', `translate(14,${TREND_MARGIN.top + ph / 2}) rotate(-90)`).attr('text-anchor', 'middle').text(this.columnTitle(this.trendY));
-    if (pts.length > 1) {
-      svg.append('path').attr('class', 'cv-trend-line').attr('d', line<{ x: number; y: number }>().x((p) => x(p.x)).y((p) => y(p.y))(pts) ?? '');
+    // Lines join only runs of one material; a run without a structure joins nothing.
+    const seriesNames = [...new Set(pts.map((p) => p.r.series ?? null).filter((n): n is string => n !== null))];
+    const colourOf = (name: string | null): string => (name === null ? 'var(--vscode-descriptionForeground)' : TREND_SERIES_COLOURS[seriesNames.indexOf(name) % TREND_SERIES_COLOURS.length]!);
+    this.lastTrendSeries = seriesNames.map((name) => ({ name, rowIds: pts.filter((p) => p.r.series === name).map((p) => p.r.id) }));
+    for (const sr of this.lastTrendSeries) {
+      const sp = pts.filter((p) => p.r.series === sr.name);
+      if (sp.length < 2) continue;
+      svg
+        .append('path')
+        .attr('class', 'cv-trend-line')
+        .attr('data-series', sr.name)
+        .style('stroke', colourOf(sr.name))
+        .attr('d', line<{ x: number; y: number }>().x((p) => x(p.x)).y((p) => y(p.y))(sp) ?? '');
     }
+    const alone = pts.filter((p) => !p.r.series).length;
+    const legendItems = this.lastTrendSeries.map((sr) => {
+      const types = [...new Set(pts.filter((p) => p.r.series === sr.name).map((p) => p.r.latticeType).filter((x): x is string => !!x))];
+      const item = el('span', 'cv-series-item', `${sr.name}${types.length ? ` (${types.join(', ')})` : ''}: ${sr.rowIds.length} run${sr.rowIds.length === 1 ? '' : 's'}`);
+      item.style.setProperty('--cv-swatch', colourOf(sr.name));
+      item.dataset.series = sr.name;
+      return item;
+    });
+    if (alone) legendItems.push(el('span', 'cv-series-item cv-series-alone', `${alone} run${alone === 1 ? '' : 's'} without a structure: not joined`));
+    this.trendLegend.replaceChildren(...legendItems);
     const yCol = t.columns.find((c) => c.key === this.trendY);
     const xCol = t.columns.find((c) => c.key === this.trendX);
     for (const p of pts) {
       const c = svg
         .append('circle')
+        .attr('data-series', p.r.series ?? '')
         .attr('class', `cv-point${p.r.isReference ? ' cv-point-ref' : ''}${p.r.annotations === 'stale' && p.r.origin === 'annotations' ? ' cv-point-stale' : ''}`)
         .attr('cx', x(p.x))
         .attr('cy', y(p.y))
@@ -757,7 +805,8 @@ export class CompareViewApp {
         .attr('role', 'button')
         .attr('data-row', p.r.id)
         .attr('aria-label', `${p.r.name}: ${this.columnTitle(this.trendX)} ${formatValue(p.x, xCol?.decimals ?? 4)}, ${this.columnTitle(this.trendY)} ${formatValue(p.y, yCol?.decimals ?? 4)}. Press Enter to open it.`);
-      c.append('title').text(`${p.r.name}\n${this.columnTitle(this.trendX)}: ${formatValue(p.x, xCol?.decimals ?? 4)}\n${this.columnTitle(this.trendY)}: ${formatValue(p.y, yCol?.decimals ?? 4)}`);
+      c.append('title').text(`${p.r.name}${p.r.series ? ` (${p.r.series})` : ''}\n${this.columnTitle(this.trendX)}: ${formatValue(p.x, xCol?.decimals ?? 4)}\n${this.columnTitle(this.trendY)}: ${formatValue(p.y, yCol?.decimals ?? 4)}`);
+      if (!p.r.isReference && !(p.r.annotations === 'stale' && p.r.origin === 'annotations')) c.style('fill', colourOf(p.r.series ?? null));
       const node = c.node()!;
       const open = (): void => this.openRun(p.r, p.r.canOverlay ? 'bandView' : 'file');
       node.addEventListener('click', open);
@@ -774,6 +823,9 @@ export class CompareViewApp {
     this.status.textContent = text;
   }
 }
+
+/** Line colours of the trend plot's series (material and lattice type), in order of first appearance. */
+const TREND_SERIES_COLOURS = ['var(--vscode-charts-blue, #3794ff)', 'var(--vscode-charts-purple, #b180d7)', 'var(--vscode-charts-green, #89d185)', 'var(--vscode-charts-yellow, #cca700)', 'var(--vscode-charts-red, #f14c4c)'];
 
 function cssVar(name: string, fallback: string): string {
   return getComputedStyle(document.documentElement).getPropertyValue(name).trim() || fallback;

@@ -70,6 +70,9 @@ th[aria-sort="descending"] .cv-sort-mark::after { content: ' ▼'; }
 .cv-point.cv-point-ref { fill: var(--vscode-charts-orange, #d18616); }
 .cv-point.cv-point-stale { fill: none; stroke: var(--vscode-editorWarning-foreground, #cca700); stroke-width: 2; }
 body.vscode-high-contrast .cv-point, body.vscode-high-contrast-light .cv-point { stroke: var(--vscode-contrastBorder); stroke-width: 2; }
+.cv-trend-legend { display: flex; flex-wrap: wrap; gap: 4px 14px; font-size: 0.92em; margin-top: 4px; }
+.cv-series-item::before { content: ''; display: inline-block; width: 14px; height: 3px; margin-right: 5px; vertical-align: middle; background: var(--cv-swatch, var(--vscode-descriptionForeground)); }
+.cv-more-columns { margin: 2px 0; }
 .cv-point-label { fill: var(--vscode-descriptionForeground); font-size: 10px; pointer-events: none; }
 .cv-message { position: absolute; inset: 0; display: flex; align-items: center; justify-content: center; text-align: center; padding: 16px; color: var(--vscode-descriptionForeground); }
 .cv-status { min-height: 1.3em; color: var(--vscode-descriptionForeground); }

@@ -6,6 +6,7 @@
 import type { BandStructure, MassFit } from '../model';
 import { followBranches } from './bandBranches';
 import { fitCurvature, type CurvatureFit, type LineSamples } from './fits/index';
+import { spreadAgainstParabola } from './fits/methodSpread';
 import { oppositeRay, type Ray } from './pathRays';
 import { timeReversalInvariantK } from './extrema';
 
@@ -52,6 +53,13 @@ export function toMassFit(fit: CurvatureFit, ray: Ray, branch?: number): MassFit
   return m;
 }
 
+/** A finite-difference mass gets its spread against the parabola on the same samples (fits/methodSpread.ts). */
+function withSpread(m: MassFit, fit: CurvatureFit, samples: LineSamples, settings: { window_meV: number; energySigma: number }): MassFit {
+  const spread = spreadAgainstParabola(fit, samples, settings);
+  if (spread) m.methodSpread = spread;
+  return m;
+}
+
 /** k ≡ −k modulo a reciprocal lattice vector (2k integer): E is even along every line through it. */
 export const isTimeReversalInvariant = timeReversalInvariantK;
 
@@ -70,7 +78,7 @@ export function directionalMasses(bs: BandStructure, spin: number, group: number
       if (opp) samples.back = { t: opp.t, e: bandAlong(bs, spin, band, opp) };
       const out = fitCurvature(s.method, samples, fitSettings);
       if (out.fit) {
-        masses.push(toMassFit(out.fit, ray));
+        masses.push(withSpread(toMassFit(out.fit, ray), out.fit, samples, fitSettings));
         fits.push(out.fit);
         fitRays.push(ray);
       } else warnings.push(`Towards ${ray.towards}: too few points (${ray.indices.length}) along this direction for a ${s.method} fit.`);
@@ -83,9 +91,10 @@ export function directionalMasses(bs: BandStructure, spin: number, group: number
     const order = trace.energies.map((_, j) => j);
     if (valenceLike) order.reverse();
     order.forEach((j, rank) => {
-      const out = fitCurvature(s.method, { t: ray.t, e: trace.energies[j]!, even }, fitSettings);
+      const samples: LineSamples = { t: ray.t, e: trace.energies[j]!, even };
+      const out = fitCurvature(s.method, samples, fitSettings);
       if (out.fit) {
-        masses.push(toMassFit(out.fit, ray, rank + 1));
+        masses.push(withSpread(toMassFit(out.fit, ray, rank + 1), out.fit, samples, fitSettings));
         fits.push(out.fit);
         fitRays.push(ray);
       } else warnings.push(`Towards ${ray.towards}, branch ${rank + 1}: too few points for a ${s.method} fit.`);

@@ -30,6 +30,8 @@ export interface RunInput {
   rotations?: Mat3[] | null;
   /** Bravais class of the crystal (e.g. 'cF', 'tI'), when known. */
   latticeType?: string | null;
+  /** Lattice points in the run's cell (1: primitive), when the symmetry is known (conventional constants). */
+  latticePointsPerCell?: number | null;
   /** Species and counts of the cell (e.g. 'Ga1 As1'), when known: runs of one crystal may see valleys drift. */
   composition?: string | null;
   /** The labelled lines of the run's path, to name unlabelled points as "0.85 Γ→X". */

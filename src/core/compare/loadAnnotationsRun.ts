@@ -74,17 +74,20 @@ export async function loadAnnotationsRun(fs: FileAccessor, file: string, name: s
   if (!lattice) notes.push('no crystal structure found for this run: it has no lattice parameters or strain');
   let rotations: Mat3[] | null = null;
   let latticeType: string | null = null;
+  let latticePointsPerCell: number | null = null;
   if (structure && symmetryReady()) {
     try {
       const sym = crystalSymmetry(structure);
       rotations = sym.rotations;
       latticeType = sym.bravaisClass;
+      latticePointsPerCell = sym.latticePointsPerCell;
     } catch {
       rotations = null;
     }
   }
   const out = runFromAnnotations(doc, { name, currentSources: current, lattice, rotations });
   out.run.latticeType = latticeType;
+  out.run.latticePointsPerCell = latticePointsPerCell;
   out.run.composition = structure ? compositionOf(structure.species) : null;
   return { ...out, doc, notes };
 }

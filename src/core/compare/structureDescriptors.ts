@@ -100,3 +100,19 @@ export function compositionOf(species: readonly string[]): string {
   for (const s of species) n.set(s, (n.get(s) ?? 0) + 1);
   return [...n.entries()].sort((a, b) => (a[0] < b[0] ? -1 : a[0] > b[0] ? 1 : 0)).map(([s, c]) => `${s}${c}`).join(' ');
 }
+
+/** Lattice points in the conventional cubic cell, by Bravais class (common practice: cP 1, cI 2, cF 4). */
+const CUBIC_LATTICE_POINTS: Readonly<Record<string, number>> = { cP: 1, cI: 2, cF: 4 };
+
+/**
+ * The conventional cubic lattice constant of a cubic crystal, from the volume per lattice point: a³ holds
+ * 1 (cP), 2 (cI) or 4 (cF) lattice points, so a = (n V / p)^(1/3) for a cell of volume V holding p lattice
+ * points. For the fcc primitive cell (p = 1) this is √2 times its vector length; for bcc, 2/√3 times. Null
+ * for any other lattice type (a strained cubic crystal is no longer cubic: use its own cell).
+ */
+export function conventionalCubicA(latticeType: string | null | undefined, volume: number, latticePointsPerCell: number | null | undefined): number | null {
+  const n = latticeType ? CUBIC_LATTICE_POINTS[latticeType] : undefined;
+  const p = latticePointsPerCell ?? 1;
+  if (n === undefined || !(volume > 0) || !(p >= 1) || !Number.isInteger(p)) return null;
+  return Math.cbrt((n * volume) / p);
+}

@@ -3,7 +3,7 @@
  * The values follow VS Code's built-in Dark Modern, Light Modern and High Contrast themes (memory; only
  * used to check that the view picks colours up from these variables, not as reference data).
  */
-export type TestTheme = 'dark' | 'light' | 'hc';
+export type TestTheme = 'dark' | 'light' | 'hc' | 'hcLight';
 
 export const THEME_VARS: Record<TestTheme, Record<string, string>> = {
   dark: {
@@ -63,10 +63,31 @@ export const THEME_VARS: Record<TestTheme, Record<string, string>> = {
     '--vscode-font-family': 'system-ui, sans-serif',
     '--vscode-font-size': '13px',
   },
+  // Light High Contrast (memory): the contrast border and the first chart colour are the same dark blue.
+  hcLight: {
+    '--vscode-editor-background': '#ffffff',
+    '--vscode-editor-foreground': '#292929',
+    '--vscode-foreground': '#292929',
+    '--vscode-descriptionForeground': '#292929',
+    '--vscode-focusBorder': '#006bbd',
+    '--vscode-contrastBorder': '#0f4a85',
+    '--vscode-charts-foreground': '#292929',
+    '--vscode-charts-blue': '#0f4a85',
+    '--vscode-charts-orange': '#b5200d',
+    '--vscode-charts-green': '#374e06',
+    '--vscode-charts-purple': '#652d90',
+    '--vscode-charts-yellow': '#895503',
+    '--vscode-charts-red': '#b5200d',
+    '--vscode-panel-border': '#0f4a85',
+    '--vscode-editorWarning-foreground': '#895503',
+    '--vscode-font-family': 'system-ui, sans-serif',
+    '--vscode-font-size': '13px',
+  },
 };
 
 export const BODY_CLASS: Record<TestTheme, { cls: string; kind: string }> = {
   dark: { cls: 'vscode-dark', kind: 'vscode-dark' },
   light: { cls: 'vscode-light', kind: 'vscode-light' },
   hc: { cls: 'vscode-high-contrast', kind: 'vscode-high-contrast' },
+  hcLight: { cls: 'vscode-high-contrast-light', kind: 'vscode-high-contrast-light' },
 };
