@@ -163,7 +163,10 @@ export class MeshInterpolation {
         warnings.push(undeterminedReason);
       } else {
         const worst = Math.max(...p.masses.map((m, i) => uncertainty.masses[i]! / Math.abs(m)));
-        if (!(worst <= MASS_UNCERTAINTY_LIMIT)) {
+        if (uncertainty.lost > 0) {
+          determined = false;
+          undeterminedReason = `Refitted without one star of the nearest mesh points, the interpolation loses this extremum (${uncertainty.lost} of ${uncertainty.leftOut.length} times): the mesh is too coarse for this valley.`;
+        } else if (!(worst <= MASS_UNCERTAINTY_LIMIT)) {
           determined = false;
           undeterminedReason = `Leaving out one star of mesh points moves a principal mass by ${(100 * worst).toFixed(0)} % (limit ${100 * MASS_UNCERTAINTY_LIMIT} %): the mesh is too coarse for this valley.`;
         }
