@@ -49,3 +49,23 @@ export function meshLocalExtrema(mesh: RegularMesh, energies: ArrayLike<number>,
   }
   return starts;
 }
+
+/** True when every one of the 26 neighbours of mesh point j is strictly above (min) / below (max) it. */
+export function isStrictMeshExtremum(mesh: RegularMesh, energies: ArrayLike<number>, j: number, kind: StationaryKind): boolean {
+  const [n1, n2, n3] = mesh.divisions;
+  const j3 = j % n3;
+  const j2 = Math.floor(j / n3) % n2;
+  const j1 = Math.floor(j / (n2 * n3));
+  const sign = kind === 'min' ? 1 : -1;
+  const e0 = sign * energies[mesh.irreducibleOf[j]!]!;
+  for (let a = -1; a <= 1; a++) {
+    for (let b = -1; b <= 1; b++) {
+      for (let c = -1; c <= 1; c++) {
+        if (!(a || b || c)) continue;
+        const q = ((((j1 + a) % n1) + n1) % n1 * n2 + ((((j2 + b) % n2) + n2) % n2)) * n3 + ((((j3 + c) % n3) + n3) % n3);
+        if (!(sign * energies[mesh.irreducibleOf[q]!]! > e0)) return false;
+      }
+    }
+  }
+  return true;
+}

@@ -16,7 +16,7 @@ import { recogniseMesh, type RegularMesh } from './regularMesh';
 import { buildStarBasis } from './starBasis';
 import { SmoothStarFit, toCartesian } from './smoothFit';
 import type { StarInterpolant } from './starInterpolant';
-import { meshLocalExtrema, meshPoint } from './meshExtrema';
+import { isStrictMeshExtremum, meshLocalExtrema, meshPoint } from './meshExtrema';
 import { refineExtremum, type StationaryKind } from './newtonExtremum';
 import { extremumUncertainty, type ExtremumUncertainty } from './extremumUncertainty';
 import { positionOnGammaLine } from './linePosition';
@@ -62,6 +62,11 @@ export interface InterpolatedExtremum {
   /** Bands (0-based) within the interpolation's error of this one at k: a degeneracy or crossing. */
   touching: number[];
   warnings: string[];
+  /**
+   * False for a strict extremum of the mesh data that the interpolant does not resolve (it finds a saddle
+   * there): the entry then sits on the mesh point with the mesh energy and no masses.
+   */
+  resolved: boolean;
 }
 
 export interface RejectedStationaryPoint {
@@ -137,6 +142,30 @@ export class MeshInterpolation {
       const kFrac = cartesianToFractional(p.k, input.lattice).map((x) => x + 0) as Vec3;
       if (p.rejected) {
         rejected.push({ band: b, kind, k: kFrac, energy_eV: p.energy, reason: p.rejected });
+        // The data themselves have a strict extremum here: a true one lies within a mesh cell, but the
+        // interpolant does not resolve it (its curvature has the wrong sign). Keep the mesh point, with the
+        // data's energy (a bound: the true extremum is at most this high for a minimum) and no masses.
+        const onMesh = meshPoint(mesh, j).map((x) => (x > 0.5 + 1e-12 ? x - 1 : x) + 0) as Vec3;
+        if (isStrictMeshExtremum(mesh, energies, j, kind) && !out.some((e) => sameStar(input.sym, e.k, onMesh))) {
+          const reason = `The mesh has a ${kind === 'min' ? 'minimum' : 'maximum'} here but the interpolation does not resolve it (it finds a ${p.rejected === 'saddle' ? 'saddle' : 'stationary point of another kind'}): the energy is the mesh value, a bound on the true extremum; no masses.`;
+          out.push({
+            band: b,
+            kind,
+            k: onMesh,
+            kCartesian: this.toCart(onMesh),
+            energy_eV: energies[mesh.irreducibleOf[j]!]!,
+            masses: [NaN, NaN, NaN],
+            axes: [[1, 0, 0], [0, 1, 0], [0, 0, 1]],
+            valleyDegeneracy: valleyDegeneracy(input.sym, onMesh, 1e-4),
+            position: input.specialPoints ? positionOnGammaLine(input.specialPoints, onMesh) : null,
+            uncertainty: { energy_eV: NaN, masses: [Infinity, Infinity, Infinity], position_invA: this.halfSpacing * 2, leftOutError_eV: NaN, leftOut: [], lost: 0 },
+            determined: false,
+            undeterminedReason: reason,
+            touching: [],
+            warnings: [reason],
+            resolved: false,
+          });
+        }
         continue;
       }
       if (out.some((e) => sameStar(input.sym, e.k, kFrac)) || rejected.some((e) => e.reason === 'crossing' && sameStar(input.sym, e.k, kFrac))) continue;
@@ -186,6 +215,7 @@ export class MeshInterpolation {
         ...(undeterminedReason ? { undeterminedReason } : {}),
         touching,
         warnings,
+        resolved: true,
       });
     }
     out.sort((x, y) => (kind === 'min' ? x.energy_eV - y.energy_eV : y.energy_eV - x.energy_eV));
