@@ -20,6 +20,7 @@ import { isStrictMeshExtremum, meshLocalExtrema, meshPoint } from './meshExtrema
 import { refineExtremum, type StationaryKind } from './newtonExtremum';
 import { extremumUncertainty, type ExtremumUncertainty } from './extremumUncertainty';
 import { positionOnGammaLine } from './linePosition';
+import { averagedFromPrincipal } from '../analysis/averagedMasses';
 
 /** Default number of stars per irreducible data point (the published practice is 5–10). */
 export const DEFAULT_STARS_PER_POINT = 8;
@@ -62,6 +63,9 @@ export interface InterpolatedExtremum {
   /** Bands (0-based) within the interpolation's error of this one at k: a degeneracy or crossing. */
   touching: number[];
   warnings: string[];
+  /** Density-of-states mass (with N_v) and conductivity mass, m_e: only for determined masses, else null. */
+  dosMass: number | null;
+  conductivityMass: number | null;
   /**
    * False for a strict extremum of the mesh data that the interpolant does not resolve (it finds a saddle
    * there): the entry then sits on the mesh point with the mesh energy and no masses.
@@ -163,6 +167,8 @@ export class MeshInterpolation {
             undeterminedReason: reason,
             touching: [],
             warnings: [reason],
+            dosMass: null,
+            conductivityMass: null,
             resolved: false,
           });
         }
@@ -200,6 +206,7 @@ export class MeshInterpolation {
           undeterminedReason = `Leaving out one star of mesh points moves a principal mass by ${(100 * worst).toFixed(0)} % (limit ${100 * MASS_UNCERTAINTY_LIMIT} %): the mesh is too coarse for this valley.`;
         }
       }
+      const averaged = determined ? averagedFromPrincipal(p.masses, nv, 'interpolated band') : null;
       out.push({
         band: b,
         kind,
@@ -215,6 +222,8 @@ export class MeshInterpolation {
         ...(undeterminedReason ? { undeterminedReason } : {}),
         touching,
         warnings,
+        dosMass: averaged?.dosMass ?? null,
+        conductivityMass: averaged?.conductivityMass ?? null,
         resolved: true,
       });
     }

@@ -54,6 +54,8 @@ describe('star interpolation of tight-binding bands sampled on a mesh', function
     for (const m of gamma.masses) assert.ok(Math.abs(m / mass - 1) < 2e-4, `${m} vs ${mass}`);
     assert.equal(gamma.valleyDegeneracy, 1);
     assert.equal(gamma.determined, true);
+    // Isotropic single valley: both averaged masses equal the mass (their definitions, physics.md).
+    assert.ok(Math.abs(gamma.dosMass! / mass - 1) < 2e-4 && Math.abs(gamma.conductivityMass! / mass - 1) < 2e-4);
     // The quoted uncertainty covers the actual error of the mass.
     gamma.masses.forEach((m, i) => assert.ok(Math.abs(m - mass) <= gamma.uncertainty.masses[i]!, `${m - mass} vs ${gamma.uncertainty.masses[i]}`));
     const max = run.extrema(0, 'max').extrema;
