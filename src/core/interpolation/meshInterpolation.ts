@@ -26,6 +26,8 @@ import { averagedFromPrincipal } from '../analysis/averagedMasses';
 export const DEFAULT_STARS_PER_POINT = 8;
 /** Relative mass uncertainty above which a mass is not quoted (determined: false). */
 export const MASS_UNCERTAINTY_LIMIT = 0.1;
+/** Most irreducible points interpolated (the star-value matrix holds about 8 N² numbers). */
+export const MAX_INTERPOLATION_POINTS = 1500;
 /** Two bands closer than this (eV), or than three times the energy uncertainty, count as touching. */
 export const TOUCHING_EV = 1e-3;
 
@@ -104,7 +106,13 @@ export class MeshInterpolation {
   /** The interpolation of a mesh run, or the reason the k-points are not a mesh this can use. */
   static create(input: MeshRunInput): { run: MeshInterpolation; reason: null } | { run: null; reason: string } {
     const nk = input.kpoints.length / 3;
-    for (const b of input.bands) if (b.length !== nk) return { run: null, reason: `A band has ${b.length} energies for ${nk} k-points.` };
+    if (nk > MAX_INTERPOLATION_POINTS) {
+      return { run: null, reason: `${nk} irreducible k-points are more than the ${MAX_INTERPOLATION_POINTS} the interpolation handles (its matrices grow as the square).` };
+    }
+    for (const [i, b] of input.bands.entries()) {
+      if (b.length !== nk) return { run: null, reason: `Band ${i + 1} has ${b.length} energies for ${nk} k-points.` };
+      if (!b.every(Number.isFinite)) return { run: null, reason: `Band ${i + 1} has energies that are not finite numbers.` };
+    }
     const rec = recogniseMesh(input.kpoints, input.weights, input.sym.reciprocalPointGroup);
     if (!rec.mesh) return { run: null, reason: rec.reason };
     if (nk < 2) return { run: null, reason: 'One k-point cannot be interpolated.' };

@@ -99,7 +99,11 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
   if (weights) {
     if (weights.length !== nk) return { mesh: null, reason: `There are ${weights.length} weights for ${nk} k-points.` };
     let sum = 0;
-    for (let i = 0; i < nk; i++) sum += weights[i]!;
+    for (let i = 0; i < nk; i++) {
+      const w = weights[i]!;
+      if (!Number.isFinite(w) || w < 0) return { mesh: null, reason: `The weight of k-point ${i + 1} is not a finite non-negative number.` };
+      sum += w;
+    }
     if (!(sum > 0)) return { mesh: null, reason: 'The k-point weights do not add up to a positive number.' };
     for (let i = 0; i < nk; i++) {
       const expected = starSize[i]! / total;

@@ -58,7 +58,27 @@ describe('regular k-meshes: recognition and expansion by symmetry', () => {
     const k1 = [kpoints[3]!, kpoints[4]!, kpoints[5]!];
     const doubled = Float64Array.from([...kpoints, -k1[0]!, -k1[1]!, -k1[2]!]);
     assert.match(recogniseMesh(doubled, null, sym.reciprocalPointGroup).reason ?? '', /equivalent by symmetry/);
+    const nanWeights = Float64Array.from(weights);
+    nanWeights[2] = NaN;
+    assert.match(recogniseMesh(kpoints, nanWeights, sym.reciprocalPointGroup).reason ?? '', /weight of k-point 3 is not a finite/);
     const off = Float64Array.from([0, 0, 0, 0.1234567, 0.3, 0.05]);
     assert.match(recogniseMesh(off, null, sym.reciprocalPointGroup).reason ?? '', /no regular mesh|uncovered/);
+  });
+});
+
+describe('mesh interpolation refuses hostile band data with a reason', () => {
+  before(async () => {
+    await ensureSymmetryReady();
+  });
+  it('non-finite energies, a band of the wrong length', async () => {
+    const { MeshInterpolation } = await import('../../../src/core/interpolation/meshInterpolation');
+    const lattice: Mat3 = [[3, 0, 0], [0, 3, 0], [0, 0, 3]];
+    const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
+    const { kpoints, weights } = irreducibleMesh([4, 4, 4], [0, 0, 0], sym.reciprocalPointGroup);
+    const nk = kpoints.length / 3;
+    const bad = new Float64Array(nk).fill(1);
+    bad[1] = Infinity;
+    assert.match(MeshInterpolation.create({ lattice, kpoints, weights, bands: [new Float64Array(nk), bad], sym }).reason ?? '', /Band 2 has energies that are not finite/);
+    assert.match(MeshInterpolation.create({ lattice, kpoints, weights, bands: [new Float64Array(nk + 1)], sym }).reason ?? '', /Band 1 has/);
   });
 });
