@@ -42,29 +42,43 @@ export function massTensorOf(hessian: Mat3): { masses: Vec3; axes: Mat3; curvatu
 }
 
 export function refineExtremum(band: StarInterpolant, start: Vec3, kind: StationaryKind, opt: NewtonOptions): RefinedPoint {
+  // Newton steps where the Hessian has the curvature of the kind sought; elsewhere a steepest-descent step
+  // (ascent for a maximum) of at most maxStep; every step is halved until the energy moves the right way.
   let k: Vec3 = [start[0], start[1], start[2]];
   let d = band.derivatives(k);
   let iterations = 0;
   let converged = false;
-  const maxIterations = opt.maxIterations ?? 60;
+  const maxIterations = opt.maxIterations ?? 100;
+  const sign = kind === 'min' ? 1 : -1;
   const scale = Math.max(1e-12, Math.abs(d.hessian[0][0]) + Math.abs(d.hessian[1][1]) + Math.abs(d.hessian[2][2]));
   while (iterations < maxIterations) {
-    if (norm(d.gradient) <= 1e-12 * scale) {
+    const g = norm(d.gradient);
+    if (g <= 1e-12 * scale) {
       converged = true;
       break;
     }
     let step: Vec3;
-    try {
+    const curv = symmetricEigen3(d.hessian).values;
+    if (curv.every((c) => sign * c > 0)) {
       const inv = mat3Inverse(d.hessian);
       step = [0, 1, 2].map((i) => -(inv[i]![0]! * d.gradient[0] + inv[i]![1]! * d.gradient[1] + inv[i]![2]! * d.gradient[2])) as Vec3;
-    } catch {
-      break;
+    } else {
+      step = d.gradient.map((x) => (-sign * x * opt.maxStep) / g) as Vec3;
     }
-    const len = norm(step);
+    let len = norm(step);
     if (!Number.isFinite(len)) break;
-    if (len > opt.maxStep) step = step.map((x) => (x * opt.maxStep) / len) as Vec3;
+    if (len > opt.maxStep) {
+      step = step.map((x) => (x * opt.maxStep) / len) as Vec3;
+      len = opt.maxStep;
+    }
+    let next = band.derivatives([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
+    for (let halving = 0; halving < 30 && sign * (next.value - d.value) > 1e-12 * Math.max(1, Math.abs(d.value)); halving++) {
+      step = step.map((x) => x / 2) as Vec3;
+      len /= 2;
+      next = band.derivatives([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
+    }
     k = [k[0] + step[0], k[1] + step[1], k[2] + step[2]];
-    d = band.derivatives(k);
+    d = next;
     iterations++;
     if (len < 1e-11) {
       converged = true;
@@ -73,7 +87,6 @@ export function refineExtremum(band: StarInterpolant, start: Vec3, kind: Station
   }
   const { masses, axes, curvatures } = massTensorOf(d.hessian);
   const travel = norm([k[0] - start[0], k[1] - start[1], k[2] - start[2]]);
-  const sign = kind === 'min' ? 1 : -1;
   const smallest = Math.min(...curvatures.map((c) => Math.abs(c)));
   let rejected: RefinedPoint['rejected'] = null;
   if (travel > opt.maxTravel || !converged) rejected = 'escaped';
