@@ -30,8 +30,6 @@ export interface StarBasis {
   size: Int32Array;
 }
 
-const key = (n: readonly number[]): string => `${n[0]},${n[1]},${n[2]}`;
-
 function applyInteger(w: Mat3, n: readonly number[]): [number, number, number] {
   return [
     Math.round(w[0][0] * n[0]! + w[0][1] * n[1]! + w[0][2] * n[2]!) + 0,
@@ -50,10 +48,11 @@ export function buildStarBasis(lattice: Mat3, pointGroup: readonly Mat3[], count
   const volume = Math.abs(det3(lattice));
   if (!(volume > 1e-9)) throw new RangeError('The lattice spans no volume.');
   const b = reciprocalLattice(lattice);
+  // Lattice vectors needed: about count × (size of the group with inversion); more are tried if short.
   const order = 2 * Math.max(1, pointGroup.length);
-  let points = count * order * 1.5 + 27;
+  let points = count * order * 0.6 + 64;
   for (;;) {
-    const radius = Math.cbrt((3 * points * volume) / (4 * Math.PI)) + Math.max(...lattice.map((r) => Math.hypot(...r)));
+    const radius = Math.cbrt((3 * points * volume) / (4 * Math.PI));
     const out = starsWithin(lattice, b, pointGroup, radius, count);
     if (out) return out;
     points *= 2;
@@ -62,7 +61,14 @@ export function buildStarBasis(lattice: Mat3, pointGroup: readonly Mat3[], count
 
 function starsWithin(lattice: Mat3, b: Mat3, pointGroup: readonly Mat3[], radius: number, count: number): StarBasis | null {
   const reach = b.map((r) => Math.ceil((radius * Math.hypot(...r)) / (2 * Math.PI)));
-  const candidates: { n: [number, number, number]; r: number }[] = [];
+  // Integer vectors as one number: images under the group stay within 3·reach of the origin per component.
+  const off = 3 * Math.max(...reach) + 1;
+  const width = 2 * off + 1;
+  const key = (i: number, j: number, l: number): number => ((i + off) * width + (j + off)) * width + (l + off);
+  const ni: number[] = [];
+  const nj: number[] = [];
+  const nl: number[] = [];
+  const len: number[] = [];
   for (let i = -reach[0]!; i <= reach[0]!; i++) {
     for (let j = -reach[1]!; j <= reach[1]!; j++) {
       for (let l = -reach[2]!; l <= reach[2]!; l++) {
@@ -70,32 +76,37 @@ function starsWithin(lattice: Mat3, b: Mat3, pointGroup: readonly Mat3[], radius
         const y = i * lattice[0][1] + j * lattice[1][1] + l * lattice[2][1];
         const z = i * lattice[0][2] + j * lattice[1][2] + l * lattice[2][2];
         const r = Math.hypot(x, y, z);
-        if (r <= radius) candidates.push({ n: [i, j, l], r });
+        if (r <= radius) {
+          ni.push(i);
+          nj.push(j);
+          nl.push(l);
+          len.push(r);
+        }
       }
     }
   }
-  candidates.sort((p, q) => p.r - q.r);
+  const order = Array.from(len.keys()).sort((p, q) => len[p]! - len[q]!);
   const ops: Mat3[] = pointGroup.length > 0 ? [...pointGroup] : [[[1, 0, 0], [0, 1, 0], [0, 0, 1]]];
-  const taken = new Set<string>();
+  const taken = new Set<number>();
   const start: number[] = [0];
   const members: number[] = [];
   const weight: number[] = [];
   const radii: number[] = [];
   const sizes: number[] = [];
-  for (const c of candidates) {
-    if (taken.has(key(c.n))) continue;
+  for (const c of order) {
+    const n: [number, number, number] = [ni[c]!, nj[c]!, nl[c]!];
+    if (taken.has(key(n[0], n[1], n[2]))) continue;
     if (radii.length === count) break;
-    const star = new Map<string, [number, number, number]>();
+    const star = new Map<number, [number, number, number]>();
     for (const w of ops) {
-      const m = applyInteger(w, c.n);
-      star.set(key(m), m);
-      const neg: [number, number, number] = [-m[0] + 0, -m[1] + 0, -m[2] + 0];
-      star.set(key(neg), neg);
+      const m = applyInteger(w, n);
+      star.set(key(m[0], m[1], m[2]), m);
+      star.set(key(-m[0], -m[1], -m[2]), [-m[0] + 0, -m[1] + 0, -m[2] + 0]);
     }
     for (const k of star.keys()) taken.add(k);
-    const kept = new Set<string>();
+    const kept = new Set<number>();
     for (const [k, m] of star) {
-      if (kept.has(key([-m[0] + 0, -m[1] + 0, -m[2] + 0]))) continue;
+      if (kept.has(key(-m[0], -m[1], -m[2]))) continue;
       kept.add(k);
       members.push(
         m[0] * lattice[0][0] + m[1] * lattice[1][0] + m[2] * lattice[2][0],
@@ -104,12 +115,11 @@ function starsWithin(lattice: Mat3, b: Mat3, pointGroup: readonly Mat3[], radius
       );
     }
     start.push(members.length / 3);
-    weight.push(c.r === 0 ? 1 : 2 / star.size);
-    radii.push(c.r);
+    weight.push(len[c] === 0 ? 1 : 2 / star.size);
+    radii.push(len[c]!);
     sizes.push(star.size);
   }
   if (radii.length < count) return null;
-  // The last star must be complete within the radius searched: every candidate left is at least as long.
   return {
     count,
     start: Int32Array.from(start),
