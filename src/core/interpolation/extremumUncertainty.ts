@@ -1,0 +1,92 @@
+/**
+ * An uncertainty one can quote for an interpolated extremum, by leave-one-out: the fit is redone without
+ * each of the nearest irreducible data points (a whole star of mesh points each), the extremum refined again
+ * from the same place, and the largest change of its energy and of each principal mass taken as the
+ * uncertainty. Leaving a star out makes the mesh locally coarser, so this errs on the cautious side. The
+ * error of each reduced fit at the point it left out is kept too (the interpolation's own error there).
+ */
+import type { Mat3, Vec3 } from '../model';
+import { cartesianToFractional } from '../lattice/reciprocal';
+import type { RegularMesh } from './regularMesh';
+import type { SmoothStarFit } from './smoothFit';
+import { meshPoint } from './meshExtrema';
+import { refineExtremum, type NewtonOptions, type RefinedPoint, type StationaryKind } from './newtonExtremum';
+
+/** Number of nearest irreducible points left out, one at a time. */
+export const LEAVE_OUT_COUNT = 4;
+
+export interface ExtremumUncertainty {
+  /** Largest change of the extremum's energy, eV. */
+  energy_eV: number;
+  /** Largest change of each principal mass (in the order of the masses), m_e. */
+  masses: Vec3;
+  /** Largest change of the position, Å⁻¹. */
+  position_invA: number;
+  /** Largest error of a reduced fit at the point it left out, eV. */
+  leftOutError_eV: number;
+  /** Irreducible points (0-based) left out. */
+  leftOut: number[];
+  /** How many of the reduced fits lost the extremum (it moved away or changed kind). */
+  lost: number;
+}
+
+export function extremumUncertainty(
+  fit: SmoothStarFit,
+  energies: ArrayLike<number>,
+  found: RefinedPoint,
+  kind: StationaryKind,
+  kCart: Float64Array,
+  mesh: RegularMesh,
+  reciprocal: Mat3,
+  lattice: Mat3,
+  newton: NewtonOptions,
+  count: number = LEAVE_OUT_COUNT,
+): ExtremumUncertainty {
+  const nearest = nearestIrreducible(mesh, found.k, reciprocal, lattice, count);
+  let dE = 0;
+  let dPos = 0;
+  let leftOutError = 0;
+  let lost = 0;
+  const dm: Vec3 = [0, 0, 0];
+  for (const p of nearest) {
+    const reduced = fit.fit(energies, p);
+    leftOutError = Math.max(leftOutError, Math.abs(reduced.value([kCart[3 * p]!, kCart[3 * p + 1]!, kCart[3 * p + 2]!]) - energies[p]!));
+    const again = refineExtremum(reduced, found.k, kind, newton);
+    if (again.rejected) {
+      lost++;
+      continue;
+    }
+    dE = Math.max(dE, Math.abs(again.energy - found.energy));
+    dPos = Math.max(dPos, Math.hypot(again.k[0] - found.k[0], again.k[1] - found.k[1], again.k[2] - found.k[2]));
+    for (let i = 0; i < 3; i++) dm[i] = Math.max(dm[i]!, Math.abs(again.masses[i]! - found.masses[i]!));
+  }
+  if (lost > 0) for (let i = 0; i < 3; i++) dm[i] = Infinity;
+  return { energy_eV: dE, masses: dm, position_invA: dPos, leftOutError_eV: leftOutError, leftOut: nearest, lost };
+}
+
+/** The `count` distinct irreducible points whose mesh images lie nearest to cartesian k. */
+function nearestIrreducible(mesh: RegularMesh, k: Vec3, b: Mat3, lattice: Mat3, count: number): number[] {
+  // Cartesian distance to each mesh point, with the fractional difference wrapped into [−½, ½).
+  const kf = cartesianToFractional(k, lattice);
+  const dist: { j: number; d: number }[] = [];
+  for (let j = 0; j < mesh.total; j++) {
+    const p = meshPoint(mesh, j);
+    const df = [0, 1, 2].map((i) => {
+      const d = p[i]! - kf[i]!;
+      return d - Math.round(d);
+    });
+    const x = df[0]! * b[0]![0]! + df[1]! * b[1]![0]! + df[2]! * b[2]![0]!;
+    const y = df[0]! * b[0]![1]! + df[1]! * b[1]![1]! + df[2]! * b[2]![1]!;
+    const z = df[0]! * b[0]![2]! + df[1]! * b[1]![2]! + df[2]! * b[2]![2]!;
+    dist.push({ j, d: x * x + y * y + z * z });
+  }
+  dist.sort((p, q) => p.d - q.d);
+  const out: number[] = [];
+  for (const { j } of dist) {
+    const irr = mesh.irreducibleOf[j]!;
+    if (!out.includes(irr)) out.push(irr);
+    if (out.length === count) break;
+  }
+  return out;
+}
+

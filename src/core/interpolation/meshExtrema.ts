@@ -1,0 +1,71 @@
+/**
+ * Local extrema of one band on the full mesh (each mesh point compared with its 26 neighbours, periodic), one
+ * start per irreducible point: the starting points of the Newton refinement.
+ */
+import type { RegularMesh } from './regularMesh';
+import type { StationaryKind } from './newtonExtremum';
+
+/** Fractional k of mesh point j (each component in [0, 1)). */
+export function meshPoint(mesh: RegularMesh, j: number): [number, number, number] {
+  const [n1, n2, n3] = mesh.divisions;
+  const j3 = j % n3;
+  const j2 = Math.floor(j / n3) % n2;
+  const j1 = Math.floor(j / (n2 * n3));
+  return [(j1 + mesh.shift[0]) / n1, (j2 + mesh.shift[1]) / n2, (j3 + mesh.shift[2]) / n3];
+}
+
+/**
+ * Mesh points (one per irreducible point) whose energy is not above (min) / not below (max) any of their
+ * 26 neighbours. `energies`: the band at the irreducible points.
+ */
+export function meshLocalExtrema(mesh: RegularMesh, energies: ArrayLike<number>, kind: StationaryKind): number[] {
+  const [n1, n2, n3] = mesh.divisions;
+  const e = (j1: number, j2: number, j3: number): number =>
+    energies[mesh.irreducibleOf[((((j1 % n1) + n1) % n1) * n2 + (((j2 % n2) + n2) % n2)) * n3 + (((j3 % n3) + n3) % n3)]!]!;
+  const sign = kind === 'min' ? 1 : -1;
+  const starts: number[] = [];
+  const seen = new Set<number>();
+  for (let j1 = 0; j1 < n1; j1++) {
+    for (let j2 = 0; j2 < n2; j2++) {
+      for (let j3 = 0; j3 < n3; j3++) {
+        const j = (j1 * n2 + j2) * n3 + j3;
+        const irr = mesh.irreducibleOf[j]!;
+        if (seen.has(irr)) continue;
+        const e0 = sign * energies[irr]!;
+        let ok = true;
+        for (let a = -1; a <= 1 && ok; a++) {
+          for (let b = -1; b <= 1 && ok; b++) {
+            for (let c = -1; c <= 1 && ok; c++) {
+              if ((a || b || c) && sign * e(j1 + a, j2 + b, j3 + c) < e0) ok = false;
+            }
+          }
+        }
+        if (ok) {
+          seen.add(irr);
+          starts.push(j);
+        }
+      }
+    }
+  }
+  return starts;
+}
+
+/** True when every one of the 26 neighbours of mesh point j is strictly above (min) / below (max) it. */
+export function isStrictMeshExtremum(mesh: RegularMesh, energies: ArrayLike<number>, j: number, kind: StationaryKind): boolean {
+  const [n1, n2, n3] = mesh.divisions;
+  const j3 = j % n3;
+  const j2 = Math.floor(j / n3) % n2;
+  const j1 = Math.floor(j / (n2 * n3));
+  const sign = kind === 'min' ? 1 : -1;
+  const e0 = sign * energies[mesh.irreducibleOf[j]!]!;
+  for (let a = -1; a <= 1; a++) {
+    for (let b = -1; b <= 1; b++) {
+      for (let c = -1; c <= 1; c++) {
+        if (!(a || b || c)) continue;
+        const q = ((((j1 + a) % n1) + n1) % n1 * n2 + ((((j2 + b) % n2) + n2) % n2)) * n3 + ((((j3 + c) % n3) + n3) % n3);
+        if (!(sign * energies[mesh.irreducibleOf[q]!]! > e0)) return false;
+      }
+    }
+  }
+  return true;
+}

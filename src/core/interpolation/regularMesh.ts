@@ -1,0 +1,159 @@
+/**
+ * Recognising a regular (Monkhorst–Pack or Γ-centred) k-mesh from the irreducible points a code wrote, and
+ * expanding them to the full mesh with the crystal's point group and time reversal (k → −k).
+ *
+ * A mesh n1×n2×n3 with shift s (each 0 or ½) holds k = (j + s)/n per axis (fractional reciprocal
+ * coordinates). The irreducible points must, once expanded by the operations, land on the mesh, cover each
+ * mesh point exactly once, and carry weights proportional to their star sizes (the number of mesh points
+ * each stands for): a weight that disagrees means the code used other operations than the crystal's (a
+ * magnetic or lower-symmetry run), and the expansion is refused with that reason.
+ */
+import type { Mat3 } from '../model';
+
+export interface RegularMesh {
+  divisions: [number, number, number];
+  /** 0 or ½ per axis. */
+  shift: [number, number, number];
+  /** n1 n2 n3. */
+  total: number;
+  /** For each mesh point j = j1 n2 n3 + j2 n3 + j3: the irreducible point it is an image of. */
+  irreducibleOf: Int32Array;
+  /** For each irreducible point: how many mesh points it stands for. */
+  starSize: Int32Array;
+}
+
+export type MeshRecognition = { mesh: RegularMesh; reason: null } | { mesh: null; reason: string };
+
+/** Largest number of divisions per axis considered, and of mesh points expanded. */
+export const MAX_DIVISIONS = 400;
+export const MAX_MESH_POINTS = 4_000_000;
+/** A component within this of (j + s)/n is on the mesh (k-points are often written with 6–8 decimals). */
+const ON_MESH = 2e-5;
+
+function images(k: readonly number[], ops: readonly Mat3[]): number[][] {
+  const out: number[][] = [];
+  for (const r of ops) {
+    const q = [0, 1, 2].map((i) => r[i]![0]! * k[0]! + r[i]![1]! * k[1]! + r[i]![2]! * k[2]!);
+    out.push(q, q.map((x) => -x));
+  }
+  return out;
+}
+
+function offMesh(x: number, n: number, s: number): number {
+  const y = x * n - s;
+  return Math.abs(y - Math.round(y)) / n;
+}
+
+/**
+ * `kFrac`: nk × 3 fractional k-points; `weights`: their weights (any normalisation) or null; `reciprocalOps`:
+ * the point group acting on fractional k (CrystalSymmetry.reciprocalPointGroup).
+ */
+export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | null, reciprocalOps: readonly Mat3[]): MeshRecognition {
+  const nk = kFrac.length / 3;
+  if (!Number.isInteger(nk) || nk < 1) return { mesh: null, reason: 'There are no k-points.' };
+  if (!Array.from(kFrac).every(Number.isFinite)) return { mesh: null, reason: 'Some k-points are not finite numbers.' };
+  const ops: Mat3[] = reciprocalOps.length > 0 ? [...reciprocalOps] : [[[1, 0, 0], [0, 1, 0], [0, 0, 1]]];
+  const all: number[][][] = [];
+  for (let i = 0; i < nk; i++) all.push(images([kFrac[3 * i]!, kFrac[3 * i + 1]!, kFrac[3 * i + 2]!], ops));
+  const divisions: number[] = [];
+  const shift: number[] = [];
+  for (let axis = 0; axis < 3; axis++) {
+    let found = false;
+    for (let n = 1; n <= MAX_DIVISIONS && !found; n++) {
+      for (const s of [0, 0.5]) {
+        if (all.every((imgs) => imgs.every((q) => offMesh(q[axis]!, n, s) < ON_MESH))) {
+          divisions.push(n);
+          shift.push(s);
+          found = true;
+          break;
+        }
+      }
+    }
+    if (!found) {
+      return { mesh: null, reason: `Along reciprocal axis ${axis + 1} the k-points (with their symmetry images) lie on no regular mesh of up to ${MAX_DIVISIONS} divisions.` };
+    }
+  }
+  const [n1, n2, n3] = divisions as [number, number, number];
+  const total = n1 * n2 * n3;
+  if (total > MAX_MESH_POINTS) return { mesh: null, reason: `The mesh ${n1}×${n2}×${n3} has more than ${MAX_MESH_POINTS} points.` };
+  const irreducibleOf = new Int32Array(total).fill(-1);
+  const starSize = new Int32Array(nk);
+  const wrap = (x: number, n: number, s: number): number => (((Math.round(x * n - s) % n) + n) % n);
+  for (let i = 0; i < nk; i++) {
+    for (const q of all[i]!) {
+      const j = (wrap(q[0]!, n1, shift[0]!) * n2 + wrap(q[1]!, n2, shift[1]!)) * n3 + wrap(q[2]!, n3, shift[2]!);
+      const owner = irreducibleOf[j]!;
+      if (owner === -1) {
+        irreducibleOf[j] = i;
+        starSize[i]!++;
+      } else if (owner !== i) {
+        return { mesh: null, reason: `k-points ${owner + 1} and ${i + 1} are equivalent by symmetry: the list is not an irreducible set for this crystal.` };
+      }
+    }
+  }
+  let missing = 0;
+  for (let j = 0; j < total; j++) if (irreducibleOf[j] === -1) missing++;
+  if (missing > 0) {
+    return { mesh: null, reason: `Expanded by symmetry, the k-points leave ${missing} of the ${total} points of the ${n1}×${n2}×${n3} mesh uncovered.` };
+  }
+  if (weights) {
+    if (weights.length !== nk) return { mesh: null, reason: `There are ${weights.length} weights for ${nk} k-points.` };
+    let sum = 0;
+    for (let i = 0; i < nk; i++) {
+      const w = weights[i]!;
+      if (!Number.isFinite(w) || w < 0) return { mesh: null, reason: `The weight of k-point ${i + 1} is not a finite non-negative number.` };
+      sum += w;
+    }
+    if (!(sum > 0)) return { mesh: null, reason: 'The k-point weights do not add up to a positive number.' };
+    for (let i = 0; i < nk; i++) {
+      const expected = starSize[i]! / total;
+      const got = weights[i]! / sum;
+      if (Math.abs(got - expected) > 1e-3 * expected + 1e-7) {
+        return {
+          mesh: null,
+          reason: `The weight of k-point ${i + 1} (${got.toPrecision(4)} of the total) differs from its star (${starSize[i]} of ${total} mesh points): the run used other symmetry operations than the crystal's.`,
+        };
+      }
+    }
+  }
+  return { mesh: { divisions: [n1, n2, n3], shift: shift as [number, number, number], total, irreducibleOf, starSize }, reason: null };
+}
+
+/**
+ * The irreducible points of a mesh (for making model runs and for tests): one representative per star of
+ * mesh points, the first met in mesh order, with its weight (star size / total).
+ */
+export function irreducibleMesh(divisions: [number, number, number], shift: [number, number, number], reciprocalOps: readonly Mat3[]): { kpoints: Float64Array; weights: Float64Array } {
+  const [n1, n2, n3] = divisions;
+  const total = n1 * n2 * n3;
+  const seen = new Uint8Array(total);
+  const ops: Mat3[] = reciprocalOps.length > 0 ? [...reciprocalOps] : [[[1, 0, 0], [0, 1, 0], [0, 0, 1]]];
+  const k: number[] = [];
+  const w: number[] = [];
+  const wrap = (x: number, n: number, s: number): number => (((Math.round(x * n - s) % n) + n) % n);
+  const centred = (j: number, n: number, s: number): number => {
+    const x = (j + s) / n;
+    return x > 0.5 + 1e-12 ? x - 1 : x;
+  };
+  for (let j1 = 0; j1 < n1; j1++) {
+    for (let j2 = 0; j2 < n2; j2++) {
+      for (let j3 = 0; j3 < n3; j3++) {
+        const j = (j1 * n2 + j2) * n3 + j3;
+        if (seen[j]) continue;
+        const p = [centred(j1, n1, shift[0]), centred(j2, n2, shift[1]), centred(j3, n3, shift[2])];
+        let size = 0;
+        for (const q of images(p, ops)) {
+          if (q.some((x, a) => offMesh(x, divisions[a]!, shift[a]!) > ON_MESH)) throw new RangeError('The mesh is not symmetric under the operations given.');
+          const t = (wrap(q[0]!, n1, shift[0]) * n2 + wrap(q[1]!, n2, shift[1])) * n3 + wrap(q[2]!, n3, shift[2]);
+          if (!seen[t]) {
+            seen[t] = 1;
+            size++;
+          }
+        }
+        k.push(p[0]! + 0, p[1]! + 0, p[2]! + 0);
+        w.push(size / total);
+      }
+    }
+  }
+  return { kpoints: Float64Array.from(k), weights: Float64Array.from(w) };
+}
