@@ -171,7 +171,7 @@ export class BandViewPanel implements vscode.Disposable {
 
   private async receive(raw: unknown): Promise<void> {
     if (!isViewToHostMessage(raw)) {
-      const t = typeof raw === 'object' && raw !== null && 'type' in raw ? String((raw as { type: unknown }).type).slice(0, 40) : typeof raw;
+      const t = typeof raw === 'object' && raw !== null && 'type' in raw ? String((raw).type).slice(0, 40) : typeof raw;
       this.deps.log.warn(`band view: a message that does not follow the protocol was dropped (type ${t})`);
       return;
     }
@@ -346,7 +346,7 @@ export class BandViewPanel implements vscode.Disposable {
   dispose(): void {
     if (this.disposed) return;
     this.disposed = true;
-    this.subs.forEach((s) => s.dispose());
+    for (const s of this.subs) s.dispose();
     this.deps.onFocus(null);
     this.disposedEmitter.fire();
     this.disposedEmitter.dispose();

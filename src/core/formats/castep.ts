@@ -223,7 +223,7 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
     structure: options.structure ?? null,
     nk,
     nBands,
-    nSpin: nSpin as 1 | 2,
+    nSpin: nSpin,
     kpoints: kOut,
     weights: wOut,
     energies: eOut,

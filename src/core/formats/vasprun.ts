@@ -647,7 +647,7 @@ export class VasprunStream {
       weights,
       nk,
       nBands,
-      nSpin: nSpin as 1 | 2,
+      nSpin: nSpin,
       energies,
       occupations,
       fermiEnergy: this.stepEfermi ?? this.efermi,

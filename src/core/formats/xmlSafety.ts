@@ -25,7 +25,7 @@ export interface XmlEvents {
   /** An element opens; `path` holds the names of the open elements, root first, this one last. */
   open(name: string, attributes: Record<string, string>, path: readonly string[], line: number): void;
   /** Character data inside the innermost open element (may arrive in several pieces). */
-  text?(text: string, path: readonly string[]): void;
+  text?: (text: string, path: readonly string[]) => void;
   /** An element closes; `path` still includes it. `line` is the line of the closing tag. */
   close(name: string, path: readonly string[], line: number): void;
 }
@@ -82,7 +82,7 @@ export class SafeXmlStream {
       }
       this.content.push(0);
       path.push(tag.name);
-      events.open(tag.name, tag.attributes as Record<string, string>, path, parser.line);
+      events.open(tag.name, tag.attributes, path, parser.line);
     });
     parser.on('closetag', (tag: SaxesTagPlain) => {
       events.close(tag.name, path, parser.line);

@@ -22,8 +22,8 @@ describe('extension: band view HTML shell', () => {
   it('loads exactly one script, with the nonce, and escapes the title', () => {
     const scripts = html.match(/<script\b[^>]*>/g) ?? [];
     assert.equal(scripts.length, 1);
-    assert.ok(scripts[0]!.includes(`nonce="${nonce}"`));
-    assert.ok(scripts[0]!.includes('dist/webview/bandView.js'));
+    assert.ok(scripts[0].includes(`nonce="${nonce}"`));
+    assert.ok(scripts[0].includes('dist/webview/bandView.js'));
     assert.ok(html.includes('<title>Bands: &lt;EIGENVAL&gt;</title>'));
     assert.doesNotMatch(html, /\son\w+=/, 'no inline event handlers');
   });

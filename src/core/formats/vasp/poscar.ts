@@ -108,7 +108,7 @@ export function readPoscarWithScale(file: InputFile): { structure: Structure; sc
   const positions = new Float64Array(nAtoms * 3);
   const species: string[] = [];
   counts.forEach((c, i) => {
-    for (let j = 0; j < c; j++) species.push(names![i]!);
+    for (let j = 0; j < c; j++) species.push(names[i]!);
   });
   const inv = cartesian ? mat3Inverse(lattice) : null;
   for (let a = 0; a < nAtoms; a++) {
