@@ -100,14 +100,6 @@ export class BandViewPanel implements vscode.Disposable {
     panel.webview.options = BandViewPanel.options(deps);
     panel.title = `Bands: ${fileName(runUri)}`;
     const script = vscode.Uri.joinPath(root, 'bandView.js');
-    const css = vscode.Uri.joinPath(root, 'bandView.css');
-    let hasCss = false;
-    try {
-      await vscode.workspace.fs.stat(css);
-      hasCss = true;
-    } catch {
-      hasCss = false;
-    }
     try {
       await vscode.workspace.fs.stat(script);
     } catch {
@@ -117,7 +109,6 @@ export class BandViewPanel implements vscode.Disposable {
       cspSource: panel.webview.cspSource,
       nonce: makeNonce(),
       scriptUri: panel.webview.asWebviewUri(script).toString(),
-      styleUri: hasCss ? panel.webview.asWebviewUri(css).toString() : null,
       title: `Bands: ${fileName(runUri)}`,
       runUri: runUri.toString(),
     });

@@ -129,7 +129,6 @@ export class CompareViewPanel implements vscode.Disposable {
       cspSource: panel.webview.cspSource,
       nonce: makeNonce(),
       scriptUri: panel.webview.asWebviewUri(script).toString(),
-      styleUri: null,
       title: TITLE,
     });
     CompareViewPanel.current = new CompareViewPanel(panel, deps);

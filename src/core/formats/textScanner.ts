@@ -180,7 +180,6 @@ export class TextScanner {
         this.lineStart = this.pos;
       } else break;
     }
-    void n;
   }
 
   /** True when only spaces remain on the current line. */
