@@ -27,7 +27,7 @@ import { checkAnnouncedCount } from './announcedCount';
 import { TextScanner, decodeText } from './textScanner';
 import { bohrToAngstrom, hartreeToEv } from '../units';
 import { det3 } from '../lattice/linalg';
-import { parseDecimal } from './decimal';
+import { parseDecimal } from './numbers';
 
 export const CASTEP_BANDS_FORMAT = 'castep-bands';
 

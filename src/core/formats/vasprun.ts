@@ -31,7 +31,7 @@ import { basename } from '../io/fileAccessor';
 import type { FormatReader, ReadOptions } from './types';
 import { createSha256, sha256Hex } from '../hash';
 import { CancelledError, ReaderError } from '../errors';
-import { parseDecimal, scanDecimalBytes } from './decimal';
+import { POW10, parseDecimal, scanDecimalBytes } from './numbers';
 import { XmlByteScanner, type RowReader } from './xmlByteScanner';
 import { vaspLogical } from './vasp/incar';
 import { vaspMethod } from './vasp/vaspMethod';
@@ -87,9 +87,6 @@ export interface VasprunData {
   /** Ionic steps whose eigenvalues were seen; the last complete one is kept. */
   steps: number;
 }
-
-/** Exact powers of ten as doubles (10^0 .. 10^15), local to the row loop. */
-const POW10 = new Float64Array([1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15]);
 
 /** Fewest bytes one eigenvalue row can take (`<r>1</r>`): bounds what a header's NBANDS may claim. */
 const MIN_ROW_BYTES = 8;

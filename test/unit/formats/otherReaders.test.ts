@@ -193,7 +193,7 @@ describe('CASTEP .bands', () => {
 describe('XML number scanning', () => {
   it('agrees with the runtime number parser on fixed, exponent and Fortran forms; refuses junk', async () => {
     const fc = (await import('fast-check')).default;
-    const { scanNumbers } = await import('../../../src/core/formats/xmlSafety');
+    const { scanNumbers } = await import('../../../src/core/formats/numbers');
     fc.assert(
       fc.property(fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.integer({ min: 0, max: 15 }), (x, d) => {
         for (const t of [x.toFixed(Math.min(d, 10)), x.toExponential(d), x.toExponential(d).replace('e', 'E'), x.toExponential(d).replace('e', 'D')]) {
