@@ -22,6 +22,19 @@ const nodePatterns = {
   message: 'Node built-ins are for src/cli and src/extension; the core and the webviews run in browsers too.',
 };
 
+/**
+ * A layer of the tree (files) that imports neither vscode nor node built-ins nor any relative path matching
+ * `forbidden` (a regular expression over the import string).
+ */
+function layerRule(files, forbidden, message) {
+  return {
+    files: [files],
+    rules: {
+      'no-restricted-imports': ['error', { paths: nodeImports, patterns: [nodePatterns, { regex: forbidden, message }] }],
+    },
+  };
+}
+
 /** One spelling for names: analyze (the CLI verb), never analyse (`analysis`, the noun, is fine). */
 const oneSpelling = { regex: '[Aa]nalys(e|ing)', match: false };
 
@@ -121,42 +134,16 @@ export default tseslint.config(
     files: ['**/*.cjs'],
     languageOptions: { sourceType: 'commonjs' },
   },
-  {
-    // Layer rule: the core is pure.
-    files: ['src/core/**/*.ts'],
-    rules: {
-      'no-restricted-imports': [
-        'error',
-        {
-          paths: nodeImports,
-          patterns: [
-            nodePatterns,
-            {
-              regex: String.raw`^(\.\./)+(extension|cli|protocol)(/|$)|(^|/)webview(/|$)`,
-              message: 'src/core imports nothing from src/extension, src/cli, src/protocol.ts or webview/.',
-            },
-          ],
-        },
-      ],
-    },
-  },
-  {
-    // Layer rule: the webviews import only src/protocol.ts and the core's pure modules.
-    files: ['webview/**/*.ts'],
-    rules: {
-      'no-restricted-imports': [
-        'error',
-        {
-          paths: nodeImports,
-          patterns: [
-            nodePatterns,
-            {
-              regex: String.raw`^(\.\./)+src/(?!protocol$|core/)`,
-              message: 'The webviews import only src/protocol.ts and modules of src/core.',
-            },
-          ],
-        },
-      ],
-    },
-  },
+  // Layer rule: the core is pure.
+  layerRule(
+    'src/core/**/*.ts',
+    String.raw`^(\.\./)+(extension|cli|protocol)(/|$)|(^|/)webview(/|$)`,
+    'src/core imports nothing from src/extension, src/cli, src/protocol.ts or webview/.',
+  ),
+  // Layer rule: the webviews import only src/protocol.ts and the core's pure modules.
+  layerRule(
+    'webview/**/*.ts',
+    String.raw`^(\.\./)+src/(?!protocol$|core/)`,
+    'The webviews import only src/protocol.ts and modules of src/core.',
+  ),
 );
