@@ -6,7 +6,7 @@ export interface CliIO {
    * A transient status line (progress of a batch). Present only where it can be seen and does no harm: on a
    * terminal's stderr. An empty text clears the line.
    */
-  progress?(text: string): void;
+  progress?: (text: string) => void;
 }
 
 export const processIO: CliIO = {

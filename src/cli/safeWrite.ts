@@ -12,7 +12,7 @@
  */
 import { promises as fsp, constants as fsc } from 'node:fs';
 import { randomBytes } from 'node:crypto';
-import { basename, dirname, join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { ValleyscopeError } from '../core/errors';
 import { annotationsPathFor } from '../core/annotations/annotationsModel';
 

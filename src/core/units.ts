@@ -35,7 +35,6 @@ export function massToCurvature(mass: number): number {
 }
 
 export const hartreeToEv = (x: number): number => x * HARTREE_EV;
-export const rydbergToEv = (x: number): number => x * RYDBERG_EV;
 export const bohrToAngstrom = (x: number): number => x * BOHR_ANGSTROM;
 
 /** Thermal energy k_B·T in eV. */

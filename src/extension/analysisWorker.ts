@@ -13,10 +13,11 @@ if (port) {
   // Large files are hashed while they stream: the native hash is several times faster than the pure one.
   installNativeSha256IfAvailable();
   const prepared = prepareAnalysis();
-  port.on('message', async (job: AnalysisJob) => {
-    await prepared;
+  // One job per message; every failure (the preparation's too) is answered with a 'failed' reply.
+  const handle = async (job: AnalysisJob): Promise<void> => {
     let last = -1;
     try {
+      await prepared;
       const out = await runAnalysisJob(job, {
         onProgress: (f) => {
           // At most ~100 progress messages per job.
@@ -31,5 +32,6 @@ if (port) {
     } catch (e) {
       port.postMessage({ type: 'failed', error: toJobError(e) } satisfies WorkerReply);
     }
-  });
+  };
+  port.on('message', (job: AnalysisJob) => void handle(job));
 }

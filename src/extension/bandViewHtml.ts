@@ -16,8 +16,6 @@ export interface ShellOptions {
   nonce: string;
   /** URI of dist/webview/bandView.js as the webview sees it. */
   scriptUri: string;
-  /** URI of dist/webview/bandView.css when the bundle has one. */
-  styleUri: string | null;
   title: string;
   /** The run's URI, kept by the view so the window can reopen it after a reload. */
   runUri?: string;
@@ -42,14 +40,13 @@ function escapeHtml(s: string): string {
 }
 
 export function bandViewHtml(o: ShellOptions): string {
-  const style = o.styleUri ? `\n  <link rel="stylesheet" href="${escapeHtml(o.styleUri)}">` : '';
   return `<!DOCTYPE html>
 <html lang="en">
 <head>
   <meta charset="UTF-8">
   <meta http-equiv="Content-Security-Policy" content="${contentSecurityPolicy(o.cspSource, o.nonce)}">
   <meta name="viewport" content="width=device-width, initial-scale=1.0">
-  <title>${escapeHtml(o.title)}</title>${style}
+  <title>${escapeHtml(o.title)}</title>
 </head>
 <body>
   <div id="app" data-nonce="${o.nonce}"${o.runUri ? ` data-run="${escapeHtml(o.runUri)}"` : ''}></div>

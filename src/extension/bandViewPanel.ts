@@ -100,14 +100,6 @@ export class BandViewPanel implements vscode.Disposable {
     panel.webview.options = BandViewPanel.options(deps);
     panel.title = `Bands: ${fileName(runUri)}`;
     const script = vscode.Uri.joinPath(root, 'bandView.js');
-    const css = vscode.Uri.joinPath(root, 'bandView.css');
-    let hasCss = false;
-    try {
-      await vscode.workspace.fs.stat(css);
-      hasCss = true;
-    } catch {
-      hasCss = false;
-    }
     try {
       await vscode.workspace.fs.stat(script);
     } catch {
@@ -117,7 +109,6 @@ export class BandViewPanel implements vscode.Disposable {
       cspSource: panel.webview.cspSource,
       nonce: makeNonce(),
       scriptUri: panel.webview.asWebviewUri(script).toString(),
-      styleUri: hasCss ? panel.webview.asWebviewUri(css).toString() : null,
       title: `Bands: ${fileName(runUri)}`,
       runUri: runUri.toString(),
     });
@@ -171,7 +162,7 @@ export class BandViewPanel implements vscode.Disposable {
 
   private async receive(raw: unknown): Promise<void> {
     if (!isViewToHostMessage(raw)) {
-      const t = typeof raw === 'object' && raw !== null && 'type' in raw ? String((raw as { type: unknown }).type).slice(0, 40) : typeof raw;
+      const t = typeof raw === 'object' && raw !== null && 'type' in raw ? String((raw).type).slice(0, 40) : typeof raw;
       this.deps.log.warn(`band view: a message that does not follow the protocol was dropped (type ${t})`);
       return;
     }
@@ -346,7 +337,7 @@ export class BandViewPanel implements vscode.Disposable {
   dispose(): void {
     if (this.disposed) return;
     this.disposed = true;
-    this.subs.forEach((s) => s.dispose());
+    for (const s of this.subs) s.dispose();
     this.deps.onFocus(null);
     this.disposedEmitter.fire();
     this.disposedEmitter.dispose();

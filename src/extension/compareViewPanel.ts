@@ -136,7 +136,6 @@ export class CompareViewPanel implements vscode.Disposable {
       cspSource: panel.webview.cspSource,
       nonce: makeNonce(),
       scriptUri: panel.webview.asWebviewUri(script).toString(),
-      styleUri: null,
       title: TITLE,
     });
     CompareViewPanel.current = new CompareViewPanel(panel, deps);
@@ -149,7 +148,7 @@ export class CompareViewPanel implements vscode.Disposable {
 
   private async receive(raw: unknown): Promise<void> {
     if (!isCompareViewToHostMessage(raw)) {
-      const t = typeof raw === 'object' && raw !== null && 'type' in raw ? String((raw as { type: unknown }).type).slice(0, 40) : typeof raw;
+      const t = typeof raw === 'object' && raw !== null && 'type' in raw ? String((raw).type).slice(0, 40) : typeof raw;
       this.deps.log.warn(`compare view: a message that does not follow the protocol was dropped (type ${t})`);
       return;
     }
@@ -363,7 +362,7 @@ export class CompareViewPanel implements vscode.Disposable {
     this.disposed = true;
     this.scan?.cancel();
     if (this.rebuildTimer) clearTimeout(this.rebuildTimer);
-    this.subs.forEach((s) => s.dispose());
+    for (const s of this.subs) s.dispose();
     if (CompareViewPanel.current === this) CompareViewPanel.current = null;
     this.panel.dispose();
   }

@@ -29,7 +29,8 @@ export function activate(context: vscode.ExtensionContext): void {
   const store = new RunStore(settings, workerScript, log);
   const status = new GapStatusItem(store);
   const fits = makeFitService(() => settings().analysis);
-  const toolVersion = String((context.extension.packageJSON as { version?: unknown }).version ?? '0.0.0');
+  const written = (context.extension.packageJSON as { version?: unknown }).version;
+  const toolVersion = typeof written === 'string' ? written : '0.0.0';
   const panels = new BandViewPanels({ store, extensionUri: context.extensionUri, log, settings, fits, toolVersion, onFocus: (u) => status.setPanelRun(u) });
   const selector: vscode.DocumentSelector = LANGUAGE_IDS.map((language) => ({ language }));
   const lenses = new GapCodeLensProvider(store);

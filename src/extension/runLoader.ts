@@ -38,7 +38,7 @@ export interface LoadOptions {
 
 export type ProgressSink = (fraction: number, message: string) => void;
 
-export async function loadAndAnalyse(uri: vscode.Uri, opts: LoadOptions, token: vscode.CancellationToken, progress: ProgressSink): Promise<LoadedRun> {
+export async function loadAndAnalyze(uri: vscode.Uri, opts: LoadOptions, token: vscode.CancellationToken, progress: ProgressSink): Promise<LoadedRun> {
   const fs = new WorkspaceFileAccessor(uri, opts.maxBytes);
   try {
     progress(0, 'finding the eigenvalue file');
@@ -68,7 +68,7 @@ export async function loadAndAnalyse(uri: vscode.Uri, opts: LoadOptions, token: 
       settings: opts.settings,
     };
     if (stream) job.streamFrom = fileUri.fsPath;
-    const size = stream ? st!.size : bytes.byteLength;
+    const size = stream ? st.size : bytes.byteLength;
     const useWorker = workerAvailable && size >= opts.workerThresholdBytes;
     const out = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, token, progress);
     const notice = otherCandidatesNotice(loc);
@@ -89,7 +89,7 @@ function runInProcess(job: AnalysisJob, token: vscode.CancellationToken, progres
 
 function runInWorker(script: string, job: AnalysisJob, token: vscode.CancellationToken, progress: ProgressSink): Promise<AnalysisOutcome> {
   return new Promise<AnalysisOutcome>((resolve, reject) => {
-    const worker = new Worker!(script);
+    const worker = new Worker(script);
     let settled = false;
     const finish = (f: () => void): void => {
       if (settled) return;
@@ -108,6 +108,6 @@ function runInWorker(script: string, job: AnalysisJob, token: vscode.Cancellatio
     worker.on('exit', (code) => finish(() => reject(new Error(`analysis worker stopped (exit code ${code})`))));
     const b = job.main.bytes;
     const whole = b.byteOffset === 0 && b.byteLength === b.buffer.byteLength && b.buffer instanceof ArrayBuffer;
-    worker.postMessage(job, whole ? [b.buffer as ArrayBuffer] : []);
+    worker.postMessage(job, whole ? [b.buffer] : []);
   });
 }

@@ -5,7 +5,7 @@
  */
 import * as vscode from 'vscode';
 import { CancelledError, ReaderError } from '../core/errors';
-import { loadAndAnalyse, type LoadedRun } from './runLoader';
+import { loadAndAnalyze, type LoadedRun } from './runLoader';
 import type { ExtensionSettings } from './settings';
 
 export type RunState =
@@ -137,7 +137,7 @@ export class RunStore implements vscode.Disposable {
       const sub = token.onCancellationRequested(() => cts.cancel());
       let reported = 0;
       try {
-        return await loadAndAnalyse(uri, opts, cts.token, (fraction, message) => {
+        return await loadAndAnalyze(uri, opts, cts.token, (fraction, message) => {
           const pct = Math.round(fraction * 100);
           progress.report({ message: `${name}: ${message}`, increment: Math.max(0, pct - reported) });
           reported = Math.max(reported, pct);

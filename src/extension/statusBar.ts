@@ -60,7 +60,7 @@ export class GapStatusItem implements vscode.Disposable {
   }
 
   dispose(): void {
-    this.subs.forEach((s) => s.dispose());
+    for (const s of this.subs) s.dispose();
     this.item.dispose();
   }
 }

@@ -45,7 +45,7 @@ export class SummaryDocuments implements vscode.TextDocumentContentProvider, vsc
   }
 
   dispose(): void {
-    this.subs.forEach((s) => s.dispose());
+    for (const s of this.subs) s.dispose();
     this.changed.dispose();
   }
 }

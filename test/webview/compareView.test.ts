@@ -503,7 +503,7 @@ describe('compare view layout and sorting (pure modules)', () => {
   });
 
   it('sorts numbers as numbers, rows without a number last either way, ties by name', () => {
-    const row = (id: string, name: string, m: number | null): CompareRow => ({ id, name, origin: 'data' as const, isReference: false, annotations: 'none' as const, staleReasons: [], error: null, metal: false, direct: false, vbm: null, cbm: null, cbmValley: null, vbmValley: null, values: m === null ? ({} as Record<string, number | null>) : { m }, canOverlay: true });
+    const row = (id: string, name: string, m: number | null): CompareRow => ({ id, name, origin: 'data' as const, isReference: false, annotations: 'none' as const, staleReasons: [], error: null, metal: false, direct: false, vbm: null, cbm: null, cbmValley: null, vbmValley: null, values: m === null ? ({}) : { m }, canOverlay: true });
     const rows = [row('r0', 'c', 10), row('r1', 'a', 9), row('r2', 'b', null), row('r3', 'd', 9)];
     assert.deepEqual(sortRows(rows, { key: 'm', direction: 'ascending' }).map((r) => r.id), ['r1', 'r3', 'r0', 'r2']);
     assert.deepEqual(sortRows(rows, { key: 'm', direction: 'descending' }).map((r) => r.id), ['r0', 'r1', 'r3', 'r2']);

@@ -102,7 +102,7 @@ export async function runTensorKpoints(argv: string[], io: CliIO): Promise<numbe
   const bs = await loadRun(nodeFileAccessor, p.positional[0]!, p.flags.has('soc') ? { spinorbit: true } : {});
   if (!bs.lattice) throw new ValleyscopeError(`${bs.source.file}: no lattice is known for this run, so points in 1/Å cannot be placed (put the structure file beside it)`);
   const family = methodFamily(bs);
-  const kind: TensorRunKind = (forText as TensorRunKind | undefined) ?? (family === 'hybrid' || (family === null && zeroWeightAppended(bs)) ? 'hybrid' : 'nscf');
+  const kind: TensorRunKind = (forText) ?? (family === 'hybrid' || (family === null && zeroWeightAppended(bs)) ? 'hybrid' : 'nscf');
   const report = analyzeBandStructure(bs);
   let plan: TensorRunPlan;
   let what: string;

@@ -9,7 +9,7 @@ import { bandEdges, gapReport } from './gap';
 import { standardCautions } from './cautions';
 import { classifyConduction } from './conductionClass';
 import { localRun } from './localRun';
-import { analyseExtrema, analysePocketExtrema } from './massEngine';
+import { analyzeExtrema, analyzePocketExtrema } from './massEngine';
 import { symmetryContext } from './valleyCount';
 import { valleyRepresentative } from '../lattice/valleyIdentity';
 
@@ -85,10 +85,10 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
       report.spinGaps = edges.spins.map((e, i) => gapReport(bs, occ, e.vbm, e.cbm, e.metal, [i]));
     }
     const local = localRun(bs);
-    if (gap) analyseExtrema(bs, report, s, { occ, edges });
+    if (gap) analyzeExtrema(bs, report, s, { occ, edges });
     else if (metal && cls.fermi_eV !== null) {
       const crossing = cls.spins.flatMap((v) => v.crossing.map((band) => ({ spin: v.spin, band })));
-      analysePocketExtrema(bs, report, s, crossing, cls.fermi_eV);
+      analyzePocketExtrema(bs, report, s, crossing, cls.fermi_eV);
     }
     let centreK = local ? kpointAt(bs, local.centre) : null;
     if (local) {

@@ -132,7 +132,7 @@ export function pathLimitedDosMass(masses: BranchDirectionMass[], branches: numb
     if (three) {
       // Three bands (no spin-orbit): the 3×3 form in L, M, N describes every branch.
       const dos = threefoldDosMasses(three);
-      if (dos.every((x) => x !== null)) warpedValue = combine(dos as number[]);
+      if (dos.every((x) => x !== null)) warpedValue = combine(dos);
     } else if (p) {
       const up = warpedDosMass(p, 1);
       const lo = warpedDosMass(p, -1);

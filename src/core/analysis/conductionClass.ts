@@ -144,7 +144,7 @@ function semimetalVerdict(bs: BandStructure, spin: number, crossing: number[], n
   // Two adjacent bands must cross; whether they hold whole bands' worth of electrons needs the count.
   if (crossing.length !== 2 || crossing[1] !== crossing[0]! + 1) return { semimetal: false, detail: '' };
   if (nFilled === null) {
-    return { semimetal: null, detail: ` Bands ${crossing[0]! + 1 + offset} and ${crossing[1]! + 1 + offset} both cross the Fermi level; without the electron count, whether this is a semimetal (whole bands filled, electron and hole pockets) cannot be told.` };
+    return { semimetal: null, detail: ` Bands ${crossing[0]! + 1 + offset} and ${crossing[1] + 1 + offset} both cross the Fermi level; without the electron count, whether this is a semimetal (whole bands filled, electron and hole pockets) cannot be told.` };
   }
   const lower = nFilled - 1;
   const upper = nFilled;

@@ -266,7 +266,7 @@ export interface EdgeInputs {
 }
 
 /** Fill `report.extrema` (called by analyzeBandStructure once the gap is known). */
-export function analyseExtrema(bs: BandStructure, report: Report, settings: AnalysisSettings, inputs: EdgeInputs): void {
+export function analyzeExtrema(bs: BandStructure, report: Report, settings: AnalysisSettings, inputs: EdgeInputs): void {
   const ctx = engineContext(bs);
   const search = locateExtrema({
     bs,
@@ -376,7 +376,7 @@ function fitExtent(bs: BandStructure, site: ExtremumSite, window_eV: number): Ra
  * and the bottom of each that dips below it (an electron pocket), within `range_eV` of E_F, characterised like
  * band edges (kind 'peak' / 'valley', offset measured from E_F).
  */
-export function analysePocketExtrema(bs: BandStructure, report: Report, settings: AnalysisSettings, crossing: { spin: 0 | 1; band: number }[], fermi: number): void {
+export function analyzePocketExtrema(bs: BandStructure, report: Report, settings: AnalysisSettings, crossing: { spin: 0 | 1; band: number }[], fermi: number): void {
   const ctx = engineContext(bs);
   const tol = settings.degeneracy_meV / 1000;
   const nb = bs.nBands;

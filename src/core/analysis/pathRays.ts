@@ -239,7 +239,7 @@ export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeom
     if (!nbrStart) buildNeighbours();
     const f = firstOf[index]!;
     // Only first occurrences have lists, so the next start ends this one.
-    return nbrList!.subarray(nbrStart![f]!, nbrStart![f + 1]!);
+    return nbrList!.subarray(nbrStart![f], nbrStart![f + 1]);
   };
   const isCorner = (index: number): boolean => corner[firstOf[index]!] === 1;
   const neighbourTable = (): { start: Int32Array; list: Int32Array } => {

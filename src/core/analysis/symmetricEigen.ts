@@ -12,7 +12,7 @@ export interface SymmetricEigen {
 }
 
 export function symmetricEigen3(m: Mat3): SymmetricEigen {
-  const a = m.map((r) => [...r]) as number[][];
+  const a: number[][] = m.map((r) => [...r]);
   const v = [
     [1, 0, 0],
     [0, 1, 0],

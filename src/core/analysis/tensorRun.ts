@@ -116,7 +116,7 @@ export function readTensorRun(bs: BandStructure, spin: number, group: number[], 
     const images: Vec3[] = [d];
     for (const op of ops) {
       const r = op.r;
-      images.push([0, 1, 2].map((i) => op.sign * (r[i]![0]! * d[0] + r[i]![1]! * d[1] + r[i]![2]! * d[2])) as Vec3);
+      images.push([0, 1, 2].map((i) => op.sign * (r[i]![0] * d[0] + r[i]![1] * d[1] + r[i]![2] * d[2])) as Vec3);
     }
     for (const v of images) set.add({ d: v, e });
   }
@@ -330,9 +330,9 @@ export function tensorRunMasses(bs: BandStructure, spin: number, group: number[]
     const three = threefoldFromDirections(run.lines.map((l) => ({ u: l.u, inv: Array.from(l.c4).map((c) => c / HBAR2_OVER_ME_EV_A2) })));
     const dos = three ? threefoldDosMasses(three) : null;
     if (three && dos && dos.every((x) => x !== null)) {
-      dosMass = nv ** (2 / 3) * multiBandDosMass(dos as number[]);
+      dosMass = nv ** (2 / 3) * multiBandDosMass(dos);
       const f = (x: number): string => x.toPrecision(3);
-      warnings.push(`Density-of-states mass of the 3 branches, (Σ m_i^(3/2))^(2/3)${nvText}: branch masses ${(dos as number[]).map(f).join(', ')} m_e by angular integration of the three-band form (Dresselhaus, Kip & Kittel 1955, no spin-orbit: H_ii = L k_i² + M (k² − k_i²), H_ij = N k_i k_j) fitted to the run's line curvatures, L = ${f(three.L)}, M = ${f(three.M)}, N = ${f(three.N)} (units ħ²/2m_e).${valleys === null ? ' N_v unknown: taken as 1.' : ''}`);
+      warnings.push(`Density-of-states mass of the 3 branches, (Σ m_i^(3/2))^(2/3)${nvText}: branch masses ${(dos).map(f).join(', ')} m_e by angular integration of the three-band form (Dresselhaus, Kip & Kittel 1955, no spin-orbit: H_ii = L k_i² + M (k² − k_i²), H_ij = N k_i k_j) fitted to the run's line curvatures, L = ${f(three.L)}, M = ${f(three.M)}, N = ${f(three.N)} (units ħ²/2m_e).${valleys === null ? ' N_v unknown: taken as 1.' : ''}`);
     }
   }
   let warping: WarpingReport | null = null;

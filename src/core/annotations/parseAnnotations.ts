@@ -157,7 +157,7 @@ const nonNegative = (x: number): boolean => x >= 0;
 
 function need<T extends JsonNode | undefined>(w: Walker, o: ObjNode, n: T, what: string): NonNullable<T> {
   if (n === undefined) throw w.missingIn(o, what);
-  return n as NonNullable<T>;
+  return n;
 }
 
 function readSource(w: Walker, n: JsonNode, what: string): AnnotatedSource {

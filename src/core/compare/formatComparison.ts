@@ -259,7 +259,7 @@ export function formatComparison(c: Comparison, format: ComparisonFormat, option
   const { short, legend } = runNames(c);
   switch (format) {
     case 'json':
-      return JSON.stringify(c, (_k, v) => (typeof v === 'number' && Number.isFinite(v) ? Number(v.toPrecision(10)) : v), 2);
+      return JSON.stringify(c, (_k, v: unknown) => (typeof v === 'number' && Number.isFinite(v) ? Number(v.toPrecision(10)) : v), 2);
     case 'csv':
       return csv(c, options);
     case 'md': {

@@ -28,7 +28,7 @@ import { sha256Hex } from '../hash';
 import { CancelledError } from '../errors';
 import { TextScanner, decodeText } from './textScanner';
 import { det3, mat3Inverse, transpose3 } from '../lattice/linalg';
-import { parseDecimal } from './decimal';
+import { parseDecimal } from './numbers';
 import { HARTREE_EV } from '../units';
 
 export const BXSF_FORMAT = 'bxsf';

@@ -27,7 +27,7 @@ import { checkAnnouncedCount } from './announcedCount';
 import { TextScanner, decodeText } from './textScanner';
 import { bohrToAngstrom, hartreeToEv } from '../units';
 import { det3 } from '../lattice/linalg';
-import { parseDecimal } from './decimal';
+import { parseDecimal } from './numbers';
 
 export const CASTEP_BANDS_FORMAT = 'castep-bands';
 
@@ -223,7 +223,7 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
     structure: options.structure ?? null,
     nk,
     nBands,
-    nSpin: nSpin as 1 | 2,
+    nSpin: nSpin,
     kpoints: kOut,
     weights: wOut,
     energies: eOut,

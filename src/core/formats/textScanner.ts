@@ -5,6 +5,7 @@
  */
 import { ReaderError } from '../errors';
 import type { ByteRangeSource } from '../io/fileAccessor';
+import { POW10 } from './numbers';
 
 const NL = 10;
 const CR = 13;
@@ -12,11 +13,8 @@ const SPACE = 32;
 const TAB = 9;
 const COMMA = 44;
 
-/** Exact powers of ten representable as doubles (10^0 .. 10^22). */
-export const POW10 = [
-  1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18,
-  1e19, 1e20, 1e21, 1e22,
-];
+/** The one table of exact powers of ten (numbers.ts), re-exported for the readers built on the scanner. */
+export { POW10 };
 
 export function isSpace(c: number): boolean {
   return c === SPACE || c === TAB || c === CR || c === 0x0b || c === 0x0c;
@@ -180,7 +178,6 @@ export class TextScanner {
         this.lineStart = this.pos;
       } else break;
     }
-    void n;
   }
 
   /** True when only spaces remain on the current line. */

@@ -31,11 +31,13 @@ import { basename } from '../io/fileAccessor';
 import type { FormatReader, ReadOptions } from './types';
 import { createSha256, sha256Hex } from '../hash';
 import { CancelledError, ReaderError } from '../errors';
-import { parseDecimal, scanDecimalBytes } from './decimal';
+import { POW10, parseDecimal, scanDecimalBytes } from './numbers';
 import { XmlByteScanner, type RowReader } from './xmlByteScanner';
 import { vaspLogical } from './vasp/incar';
 import { vaspMethod } from './vasp/vaspMethod';
 import { readKpoints } from './vasp/kpoints';
+import { labelsFromLineMode } from './vasp/kpointLabels';
+import { dropMeshBeforePath } from './vasp/hybridMesh';
 import { det3 } from '../lattice/linalg';
 import { DoubleBuffer, FloatBuffer } from './doubleBuffer';
 
@@ -85,9 +87,6 @@ export interface VasprunData {
   /** Ionic steps whose eigenvalues were seen; the last complete one is kept. */
   steps: number;
 }
-
-/** Exact powers of ten as doubles (10^0 .. 10^15), local to the row loop. */
-const POW10 = new Float64Array([1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15]);
 
 /** Fewest bytes one eigenvalue row can take (`<r>1</r>`): bounds what a header's NBANDS may claim. */
 const MIN_ROW_BYTES = 8;
@@ -647,7 +646,7 @@ export class VasprunStream {
       weights,
       nk,
       nBands,
-      nSpin: nSpin as 1 | 2,
+      nSpin: nSpin,
       energies,
       occupations,
       fermiEnergy: this.stepEfermi ?? this.efermi,
@@ -699,10 +698,6 @@ export function detectVasprun(head: Uint8Array, name: string): number {
   return 0.5;
 }
 
-function sameK(a: Vec3, b: ArrayLike<number>, off: number, tol = 2e-4): boolean {
-  return Math.abs(a[0] - b[off]!) < tol && Math.abs(a[1] - b[off + 1]!) < tol && Math.abs(a[2] - b[off + 2]!) < tol;
-}
-
 /** Turn what the file says into a BandStructure, with warnings for what is missing. */
 export function vasprunToBandStructure(data: VasprunData & { sha256: string }, main: InputFile, companions: InputFile[], options: ReadOptions): BandStructure {
   const warnings: InputWarning[] = [];
@@ -717,28 +712,13 @@ export function vasprunToBandStructure(data: VasprunData & { sha256: string }, m
   if (data.electrons === null) warnings.push({ code: 'no-electrons', message: 'The file gives no electron count (NELECT).' });
 
   // Hybrid-functional band runs: weighted self-consistent mesh first, then the zero-weight path.
-  let { kpoints, weights, energies, occupations, nk } = data;
   const nBands = data.nBands;
-  if (weights && nk > 1 && weights[0]! > 0) {
-    let z = nk;
-    while (z > 0 && weights[z - 1] === 0) z--;
-    let allWeighted = z > 0 && z < nk;
-    for (let i = 0; allWeighted && i < z; i++) if (!(weights[i]! > 0)) allWeighted = false;
-    if (allWeighted && nk - z >= 2) {
-      warnings.push({
-        code: 'mesh-points-dropped',
-        message: `The first ${z} k-points carry weights (the self-consistent mesh of a hybrid-functional run); the band path is the ${nk - z} zero-weight points after them.`,
-      });
-      kpoints = kpoints.slice(3 * z);
-      weights = weights.slice(z);
-      energies = energies.map((e) => e.slice(z * nBands));
-      occupations = occupations ? occupations.map((e) => e.slice(z * nBands)) : null;
-      nk -= z;
-    }
-  }
+  const dropped = dropMeshBeforePath(data, nBands);
+  if (dropped.warning) warnings.push(dropped.warning);
+  const { kpoints, weights, energies, occupations, nk } = dropped.arrays;
 
   let sampling: BandStructure['sampling'] = 'points';
-  const labels = new Map<number, string>();
+  let labels: KLabel[] = [];
   if (data.generation) {
     sampling = 'path';
     // Labels: a KPOINTS file in line mode beside the run names the ends VASP lists here.
@@ -748,10 +728,10 @@ export function vasprunToBandStructure(data: VasprunData & { sha256: string }, m
         const content = readKpoints(kfile);
         if (content.mode === 'line' && content.path.coordinates === 'reciprocal') {
           files.push({ role: 'kpath', path: kfile.path, sha256: sha256Hex(kfile.bytes) });
-          for (const e of content.path.ends) {
-            if (!e.label) continue;
-            for (let i = 0; i < nk; i++) if (sameK(e.k, kpoints, 3 * i)) labels.set(i, e.label);
-          }
+          // The positions vasprun.xml lists are fractional, as the path's ends are here.
+          const placed = labelsFromLineMode(content.path, kpoints, nk, null);
+          labels = placed.labels;
+          if (placed.warning) warnings.push({ code: 'kpath-mismatch', message: placed.warning, file: kfile.path });
         }
       } catch (e) {
         if (e instanceof ReaderError) warnings.push({ code: 'kpath-unreadable', message: `${e.message}; labels were not used`, file: kfile.path, line: e.line });
@@ -765,7 +745,6 @@ export function vasprunToBandStructure(data: VasprunData & { sha256: string }, m
       message: `The file ends before the run finished (a running or interrupted job): the eigenvalues are those of the last completed step (${data.steps} written so far); results are provisional.`,
     });
   }
-  const labelList: KLabel[] = [...labels.entries()].sort((a, b) => a[0] - b[0]).map(([index, label]) => ({ index, label }));
   return {
     source: { format: VASPRUN_FORMAT, file: main.path, files },
     lattice,
@@ -781,7 +760,7 @@ export function vasprunToBandStructure(data: VasprunData & { sha256: string }, m
     electrons: data.electrons,
     spinorbit,
     method: data.method,
-    labels: labelList,
+    labels,
     sampling,
     grid: null,
     writtenDistance: null,

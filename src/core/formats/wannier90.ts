@@ -21,7 +21,7 @@ import { DoubleBuffer } from './doubleBuffer';
 import { BOHR_ANGSTROM } from '../units';
 import { det3, mat3Inverse, mulVecMat } from '../lattice/linalg';
 import { normaliseLabel } from '../lattice/labels';
-import { parseDecimal } from './decimal';
+import { parseDecimal } from './numbers';
 
 export const WANNIER90_BAND_FORMAT = 'wannier90-band';
 

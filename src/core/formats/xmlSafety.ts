@@ -8,9 +8,7 @@ import { SaxesParser, type SaxesTagPlain } from 'saxes';
 import { CancelledError, ReaderError } from '../errors';
 import type { InputFile } from '../io/fileAccessor';
 import type { ReadOptions } from './types';
-import { parseDecimal } from './decimal';
-
-export { parseDecimal };
+import { parseDecimal } from './numbers';
 
 /** The sentence for a document type declaration, which every XML reader refuses. */
 export const DOCTYPE_REFUSED =
@@ -25,7 +23,7 @@ export interface XmlEvents {
   /** An element opens; `path` holds the names of the open elements, root first, this one last. */
   open(name: string, attributes: Record<string, string>, path: readonly string[], line: number): void;
   /** Character data inside the innermost open element (may arrive in several pieces). */
-  text?(text: string, path: readonly string[]): void;
+  text?: (text: string, path: readonly string[]) => void;
   /** An element closes; `path` still includes it. `line` is the line of the closing tag. */
   close(name: string, path: readonly string[], line: number): void;
 }
@@ -82,7 +80,7 @@ export class SafeXmlStream {
       }
       this.content.push(0);
       path.push(tag.name);
-      events.open(tag.name, tag.attributes as Record<string, string>, path, parser.line);
+      events.open(tag.name, tag.attributes, path, parser.line);
     });
     parser.on('closetag', (tag: SaxesTagPlain) => {
       events.close(tag.name, path, parser.line);
@@ -202,85 +200,3 @@ export function numberAttribute(attributes: Record<string, string>, name: string
   return x;
 }
 
-/**
- * Read whitespace-separated numbers from XML character data into `out` from `at`, at most `max` of them.
- * Returns how many numbers the text holds (more than `max` means too many; only `max` were stored) and the
- * first token that is not a finite number, if any (reading stops there).
- */
-export function scanNumbers(text: string, out: Float64Array | number[], at: number, max: number): { count: number; bad: string | null } {
-  let count = 0;
-  const n = text.length;
-  let i = 0;
-  for (;;) {
-    let c = 0;
-    while (i < n && ((c = text.charCodeAt(i)) === 32 || c === 10 || c === 13 || c === 9)) i++;
-    if (i >= n) break;
-    const s = i;
-    // Fast path: [sign] digits [. digits] [(e|E) [sign] digits], at most 15 significant digits.
-    let neg = false;
-    if (c === 45 || c === 43) {
-      neg = c === 45;
-      i++;
-    }
-    let mant = 0;
-    let digits = 0;
-    let scale = 0;
-    while (i < n && (c = text.charCodeAt(i)) >= 48 && c <= 57) {
-      mant = mant * 10 + (c - 48);
-      digits++;
-      i++;
-    }
-    if (i < n && c === 46) {
-      i++;
-      while (i < n && (c = text.charCodeAt(i)) >= 48 && c <= 57) {
-        mant = mant * 10 + (c - 48);
-        digits++;
-        scale--;
-        i++;
-      }
-    }
-    let exp = 0;
-    let ok = digits > 0 && digits <= 15;
-    if (ok && i < n && (c === 101 || c === 69)) {
-      i++;
-      let eneg = false;
-      c = text.charCodeAt(i);
-      if (c === 45 || c === 43) {
-        eneg = c === 45;
-        i++;
-      }
-      let ed = 0;
-      while (i < n && (c = text.charCodeAt(i)) >= 48 && c <= 57) {
-        exp = exp * 10 + (c - 48);
-        ed++;
-        i++;
-      }
-      if (ed === 0 || ed > 3) ok = false;
-      if (eneg) exp = -exp;
-    }
-    let v: number;
-    const atSeparator = i >= n || (c = text.charCodeAt(i)) === 32 || c === 10 || c === 13 || c === 9;
-    const e10 = scale + exp;
-    if (ok && atSeparator && e10 >= -22 && e10 <= 22) {
-      v = e10 < 0 ? mant / POW10[-e10]! : mant * POW10[e10]!;
-      if (neg) v = -v;
-    } else {
-      // Anything unusual (Fortran D exponents, long mantissas, junk): the strict, slower path.
-      while (i < n && !((c = text.charCodeAt(i)) === 32 || c === 10 || c === 13 || c === 9)) i++;
-      const tok = text.slice(s, i);
-      const parsed = parseDecimal(tok);
-      if (parsed === null) return { count, bad: tok.length > 30 ? `${tok.slice(0, 30)}…` : tok };
-      v = parsed;
-    }
-    if (count >= max) return { count: count + 1, bad: null };
-    out[at + count] = v;
-    count++;
-  }
-  return { count, bad: null };
-}
-
-/** Exact powers of ten representable as doubles (10^0 .. 10^22). */
-const POW10 = [
-  1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18,
-  1e19, 1e20, 1e21, 1e22,
-];

@@ -36,6 +36,7 @@ export const MAX_RECORDED_PATH = 1024;
 
 /** A value from a file, safe to show in one line: control characters replaced, length bounded. */
 export function shown(value: string): string {
+  // eslint-disable-next-line no-control-regex -- finding control characters is what this does
   const clean = value.replace(/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/g, '?');
   return JSON.stringify(clean.length > 80 ? `${clean.slice(0, 77)}...` : clean);
 }
@@ -54,6 +55,7 @@ export function checkRecordedPath(value: string, field: string, holder: string):
   };
   if (value.length === 0) refuse('is empty');
   if (value.length > MAX_RECORDED_PATH) refuse(`is longer than ${MAX_RECORDED_PATH} characters`);
+  // eslint-disable-next-line no-control-regex -- finding control characters is what this does
   if (/[\u0000-\u001f\u007f]/.test(value)) refuse('contains control characters');
   const p = value.replace(/\\/g, '/');
   if (p.startsWith('/') || /^[a-zA-Z]:/.test(p) || p.startsWith('~')) refuse('is an absolute path; only paths inside the run\'s folder are opened');

@@ -4,7 +4,7 @@
  */
 import type { Mat3, Structure } from '../model';
 import { norm } from './linalg';
-import { analyseStructure, DEFAULT_SYMPREC, latticeFromMoyo } from './symmetry';
+import { analyzeStructure, DEFAULT_SYMPREC, latticeFromMoyo } from './symmetry';
 import { moyoSpaceGroupType } from './moyoRuntime';
 
 export interface BravaisLattice {
@@ -31,7 +31,7 @@ export function latticeOnlyStructure(lattice: Mat3): Structure {
  */
 export function bravaisLattice(lattice: Mat3, structure: Structure | null, symprec: number = DEFAULT_SYMPREC): BravaisLattice {
   const cell = structure ?? latticeOnlyStructure(lattice);
-  const d = analyseStructure(cell, symprec);
+  const d = analyzeStructure(cell, symprec);
   const conventional = latticeFromMoyo(d.std_cell.lattice.basis);
   return {
     bravaisClass: moyoSpaceGroupType(d.number).bravais_class,

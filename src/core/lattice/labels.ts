@@ -29,8 +29,3 @@ export function normaliseLabel(raw: string): string {
   }
   return s;
 }
-
-/** An ASCII spelling of a label, for file layouts that need one (Γ → G... kept as GAMMA for clarity). */
-export function asciiLabel(label: string): string {
-  return label.replace(/Γ/g, 'GAMMA').replace(/[₀-₉]/g, (c) => `_${c.charCodeAt(0) - 0x2080}`);
-}

@@ -82,8 +82,3 @@ export function add(a: Vec3, b: Vec3): Vec3 {
 export function scale(a: Vec3, s: number): Vec3 {
   return [a[0] * s, a[1] * s, a[2] * s];
 }
-
-export function normalise(a: Vec3): Vec3 {
-  const n = norm(a);
-  return n === 0 ? [0, 0, 0] : [a[0] / n, a[1] / n, a[2] / n];
-}

@@ -100,7 +100,7 @@ function describe(structure: Structure): string {
 }
 
 /** The library's dataset for a structure; throws AnalysisError with a plain sentence on failure. */
-export function analyseStructure(structure: Structure, symprec: number = DEFAULT_SYMPREC): MoyoDataset {
+export function analyzeStructure(structure: Structure, symprec: number = DEFAULT_SYMPREC): MoyoDataset {
   if (!moyoReady()) {
     throw new AnalysisError('Crystal symmetry is not available yet: the symmetry module has not been loaded (ensureSymmetryReady).');
   }
@@ -138,7 +138,7 @@ const cache = new WeakMap<Structure, Map<number, CrystalSymmetry>>();
 export function crystalSymmetry(structure: Structure, symprec: number = DEFAULT_SYMPREC): CrystalSymmetry {
   const hit = cache.get(structure)?.get(symprec);
   if (hit) return hit;
-  const d = analyseStructure(structure, symprec);
+  const d = analyzeStructure(structure, symprec);
   const rotations = d.operations.map((op) => matFromColumnMajor(op.rotation));
   const translations = d.operations.map((op) => [op.translation[0], op.translation[1], op.translation[2]] as Vec3);
   const pointGroup: Mat3[] = [];
@@ -178,7 +178,7 @@ export function crystalSymmetry(structure: Structure, symprec: number = DEFAULT_
     symprec,
   };
   let perStructure = cache.get(structure);
-  if (!perStructure) cache.set(structure, (perStructure = new Map()));
+  if (!perStructure) cache.set(structure, (perStructure = new Map<number, CrystalSymmetry>()));
   perStructure.set(symprec, sym);
   return sym;
 }

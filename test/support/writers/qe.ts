@@ -100,7 +100,7 @@ export function writeQeXml(bs: BandStructure, opts: QeXmlOptions = {}): string {
       out.push('        <info name="crystal_symmetry">crystal_symmetry</info>');
       // Fortran order: columns first.
       out.push('        <rotation rank="2" dims="3 3" order="F">');
-      for (let j = 0; j < 3; j++) out.push(`  ${qeNumber(s[0]![j]!)} ${qeNumber(s[1]![j]!)} ${qeNumber(s[2]![j]!)}`);
+      for (let j = 0; j < 3; j++) out.push(`  ${qeNumber(s[0][j]!)} ${qeNumber(s[1][j]!)} ${qeNumber(s[2][j]!)}`);
       out.push('        </rotation>');
       out.push(`        <fractional_translation>${vec([0, 0, 0])}</fractional_translation>`);
       out.push('      </symmetry>');

@@ -155,7 +155,7 @@ describe('candidate classification: path ends', () => {
     // The "V" of band 3 where the parabolas cross is a crossing, though it falls between sampled points.
     const v = (r.rejected ?? []).find((x) => x.band === 3);
     assert.equal(v?.reason, 'crossing', JSON.stringify(r.rejected));
-    assert.match(v!.detail, /between sampled points/);
+    assert.match(v.detail, /between sampled points/);
   });
 });
 

@@ -10,7 +10,7 @@ import type { ExtremumReport, Report } from '../../../src/core/model';
 // (Phys. Rev. 141, 789 (1966)), solved by scripts/epm and written in VASP layouts (fixtures/epm/README.md).
 const ROOT = join(__dirname, '..', '..', '..', 'fixtures', 'epm');
 
-async function analyse(folder: string, settings: Parameters<typeof analyzeBandStructure>[1] = {}): Promise<Report> {
+async function analyzeRun(folder: string, settings: Parameters<typeof analyzeBandStructure>[1] = {}): Promise<Report> {
   return analyzeBandStructure(await loadRun(nodeFileAccessor, join(ROOT, folder)), settings);
 }
 const edge = (r: Report, kind: string): ExtremumReport => {
@@ -26,7 +26,7 @@ describe('effective masses on the EPM fixtures (Cohen & Bergstresser 1966)', fun
   before(async () => {
     await ensureSymmetryReady();
     // Reference: a centred 5-point finite difference on the fine Γ–X line of the same model (301 points).
-    const cbm = edge(await analyse('si-dense', { method: 'central-4' }), 'cbm');
+    const cbm = edge(await analyzeRun('si-dense', { method: 'central-4' }), 'cbm');
     const central = cbm.masses.filter((m) => m.method === 'central-4' && !(m.warnings ?? []).some((w) => /One-sided/.test(w)));
     assert.equal(central.length, 2, 'the dense minimum is interior: both directions are centred differences');
     denseLongitudinal = central[0]!.mass;
@@ -35,7 +35,7 @@ describe('effective masses on the EPM fixtures (Cohen & Bergstresser 1966)', fun
   });
 
   it('Si: conduction minimum along Γ–X near 0.85, N_v = 6, longitudinal mass within 10 % of the dense finite difference', async () => {
-    const cbm = edge(await analyse('si'), 'cbm');
+    const cbm = edge(await analyzeRun('si'), 'cbm');
     // fcc: Γ–X runs to (0.5, 0, 0.5); the Δ minimum at about 0.85 of the way (physics.md; Cohen & Bergstresser model).
     assert.ok(Math.abs(cbm.k[0] / 0.5 - 0.85) < 0.03 && cbm.k[1] === 0 && Math.abs(cbm.k[2] - cbm.k[0]) < 1e-9, JSON.stringify(cbm.k));
     assert.equal(cbm.valleyDegeneracy, 6); // six Δ valleys (physics.md step 8)
@@ -47,7 +47,7 @@ describe('effective masses on the EPM fixtures (Cohen & Bergstresser 1966)', fun
   });
 
   it('Si: the 5×5×5 list around the minimum gives the tensor: longitudinal axis along Δ, m_l near the dense value, m_t ≈ 0.19', async () => {
-    const cbm = edge(await analyse('si-cbm-grid'), 'cbm');
+    const cbm = edge(await analyzeRun('si-cbm-grid'), 'cbm');
     assert.ok(cbm.tensor);
     const sorted = cbm.tensor.principal.map((m, i) => ({ m, axis: cbm.tensor!.axes[i]! })).sort((a, b) => a.m - b.m);
     const [t1, t2, l] = sorted as [(typeof sorted)[0], (typeof sorted)[0], (typeof sorted)[0]];
@@ -60,7 +60,7 @@ describe('effective masses on the EPM fixtures (Cohen & Bergstresser 1966)', fun
   });
 
   it('Si: the threefold-degenerate valence top at Γ is flagged, with per-branch masses', async () => {
-    const vbm = edge(await analyse('si'), 'vbm');
+    const vbm = edge(await analyzeRun('si'), 'vbm');
     assert.equal(vbm.label, 'Γ');
     assert.equal(vbm.degenerateBands, 3); // heavy, heavy, light hole without spin-orbit (physics.md step 7)
     assert.ok(vbm.warnings.some((w) => /ill-defined/.test(w)));
@@ -69,7 +69,7 @@ describe('effective masses on the EPM fixtures (Cohen & Bergstresser 1966)', fun
   });
 
   it('Ge: conduction minima at L with N_v = 4 and a tensor from the path (Γ–L longitudinal, L–W/U/K transverse)', async () => {
-    const cbm = edge(await analyse('ge'), 'cbm');
+    const cbm = edge(await analyzeRun('ge'), 'cbm');
     assert.equal(cbm.label, 'L');
     assert.equal(cbm.valleyDegeneracy, 4); // four L valleys (physics.md step 8)
     assert.ok(cbm.tensor);
@@ -80,7 +80,7 @@ describe('effective masses on the EPM fixtures (Cohen & Bergstresser 1966)', fun
   });
 
   it('GaAs: direct gap at Γ with N_v = 1 and an isotropic conduction mass', async () => {
-    const r = await analyse('gaas');
+    const r = await analyzeRun('gaas');
     assert.equal(r.gap!.direct, true);
     const cbm = edge(r, 'cbm');
     assert.equal(cbm.label, 'Γ');

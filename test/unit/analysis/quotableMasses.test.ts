@@ -36,7 +36,7 @@ describe('quotable masses (determined)', () => {
   it('the same 3 points at a time-reversal-invariant k (2 unknowns: E0 and the curvature) are determined', () => {
     const out = fitCurvature('parabola', { ...line(free, 0.05, 3), even: true }, { window_meV: 1000, energySigma: 0 });
     assert.equal(out.fit?.determined, true);
-    assert.ok(Math.abs(out.fit!.mass - 1) < 1e-9); // analytic m* = 1
+    assert.ok(Math.abs(out.fit.mass - 1) < 1e-9); // analytic m* = 1
   });
 
   it('a standard error above 30 % of |m| makes the mass undetermined', () => {
@@ -44,7 +44,7 @@ describe('quotable masses (determined)', () => {
     const heavy = (t: number): number => (HBAR2_OVER_ME_EV_A2 / (2 * 50)) * t * t;
     const noisy = fitCurvature('parabola', line(heavy, 0.01, 5), { window_meV: 1000, energySigma: 1e-4 });
     assert.equal(noisy.fit?.determined, false);
-    assert.match(noisy.fit!.undeterminedReason ?? '', /standard error/);
+    assert.match(noisy.fit.undeterminedReason ?? '', /standard error/);
     // Control: the same points with full precision are determined.
     const clean = fitCurvature('parabola', line(heavy, 0.01, 5), { window_meV: 1000, energySigma: 0 });
     assert.equal(clean.fit?.determined, true);
@@ -55,7 +55,7 @@ describe('quotable masses (determined)', () => {
     const sloped = (t: number): number => 2 * t + 0.5 * t * t;
     const out = fitCurvature('parabola', line(sloped, 0.02, 8), { window_meV: 1000, energySigma: 0 });
     assert.equal(out.fit?.determined, false);
-    assert.match(out.fit!.undeterminedReason ?? '', /vertex/);
+    assert.match(out.fit.undeterminedReason ?? '', /vertex/);
   });
 
   it('central-2 is checked against the same stencil at 2h: a cosine band sampled coarsely is undetermined', () => {
@@ -67,11 +67,11 @@ describe('quotable masses (determined)', () => {
     const coarse = fitCurvature('central-2', { ...line(band, Math.PI / 2 / a, 3), even: true }, { window_meV: 25, energySigma: 0 });
     assert.equal(coarse.fit?.method, 'central-2');
     assert.equal(coarse.fit?.determined, false);
-    assert.match(coarse.fit!.undeterminedReason ?? '', /between steps h and 2h/);
+    assert.match(coarse.fit.undeterminedReason ?? '', /between steps h and 2h/);
     // Fine steps (ah = 0.05): both agree within 0.1 %, and the mass is ħ²/(2ta²) within 0.1 % (analytic).
     const fine = fitCurvature('central-2', { ...line(band, 0.05 / a, 3), even: true }, { window_meV: 25, energySigma: 0 });
     assert.equal(fine.fit?.determined, true);
-    assert.ok(Math.abs(fine.fit!.mass / (HBAR2_OVER_ME_EV_A2 / (2 * t * a * a)) - 1) < 1e-3);
+    assert.ok(Math.abs(fine.fit.mass / (HBAR2_OVER_ME_EV_A2 / (2 * t * a * a)) - 1) < 1e-3);
   });
 
   it('old method names are accepted: fd3 is central-2, fd5 is central-4', () => {

@@ -16,7 +16,7 @@ import {
   type ExtraFields,
   type JsonValue,
 } from '../../../src/core/annotations/annotationsModel';
-import type { Mat3, Vec3 } from '../../../src/core/model';
+import type { Vec3 } from '../../../src/core/model';
 
 const finite = (min: number, max: number): fc.Arbitrary<number> => fc.double({ min, max, noNaN: true, noDefaultInfinity: true });
 const vec3 = (min: number, max: number): fc.Arbitrary<Vec3> => fc.tuple(finite(min, max), finite(min, max), finite(min, max));
@@ -70,7 +70,7 @@ const massArb: fc.Arbitrary<AnnotatedMass> = fc.record({
 const tensorArb: fc.Arbitrary<AnnotatedTensor> = fc.record({
   principal: vec3(-20, 20),
   stderr: fc.option(vec3(0, 1), { nil: null }),
-  axes: fc.tuple(vec3(-1, 1), vec3(-1, 1), vec3(-1, 1)) as fc.Arbitrary<Mat3>,
+  axes: fc.tuple(vec3(-1, 1), vec3(-1, 1), vec3(-1, 1)),
   method: fc.constantFrom('grid fit', 'from directional masses'),
   points: fc.option(fc.integer({ min: 0, max: 200 }), { nil: null }),
   residual_meV: fc.option(finite(0, 20), { nil: null }),

@@ -47,7 +47,7 @@ describe('extension: the analysis job (worker thread and in-process)', () => {
       if (reply.type !== 'done') return;
       const cli = await loadSi();
       assert.ok(reply.bs.energies[0] instanceof Float64Array);
-      assert.deepEqual(Array.from(reply.bs.energies[0]!), Array.from(cli.bs.energies[0]!));
+      assert.deepEqual(Array.from(reply.bs.energies[0]), Array.from(cli.bs.energies[0]!));
       assert.deepEqual(reportToJson(reply.report), reportToJson(cli.report));
       assert.ok(fractions.length > 0, "progress was reported");
       for (let i = 1; i < fractions.length; i++) assert.ok(fractions[i]! >= fractions[i - 1]!);
@@ -62,7 +62,7 @@ describe('extension: the analysis job (worker thread and in-process)', () => {
     // Corrupt the energy of band 2 at the first k-point (line 10 of the file) into a non-number.
     const lines = new TextDecoder().decode(job.main.bytes).split('\n');
     lines[9] = lines[9]!.replace(/(\s+2\s+)\S+/, '$11*.45');
-    assert.match(lines[9]!, /^\s+2\s+1\*\.45/);
+    assert.match(lines[9], /^\s+2\s+1\*\.45/);
     const text = lines.join('\n');
     job.main = { path: job.main.path, bytes: new TextEncoder().encode(text) };
     const { done, worker } = runWorker(job);
@@ -102,7 +102,7 @@ describe('extension: the analysis job (worker thread and in-process)', () => {
   it('keeps error kinds through the boundary', () => {
     const r = fromJobError(toJobError(new ReaderError('vasp-eigenval', 'f', { line: 3, column: 7 }, 'bad number')));
     assert.ok(r instanceof ReaderError);
-    assert.equal((r as ReaderError).column, 7);
+    assert.equal((r).column, 7);
     assert.ok(fromJobError(toJobError(new CancelledError())) instanceof CancelledError);
     assert.ok(fromJobError(toJobError(new ValleyscopeError('x'))) instanceof ValleyscopeError);
     assert.match(fromJobError(toJobError(new TypeError('boom'))).message, /internal error: boom/);

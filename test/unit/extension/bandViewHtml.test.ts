@@ -3,7 +3,7 @@ import { bandViewHtml, contentSecurityPolicy, makeNonce } from '../../../src/ext
 
 describe('extension: band view HTML shell', () => {
   const nonce = makeNonce();
-  const html = bandViewHtml({ cspSource: 'https://file+.vscode-resource.vscode-cdn.net', nonce, scriptUri: 'https://file+.vscode-resource.vscode-cdn.net/ext/dist/webview/bandView.js', styleUri: null, title: 'Bands: <EIGENVAL>' });
+  const html = bandViewHtml({ cspSource: 'https://file+.vscode-resource.vscode-cdn.net', nonce, scriptUri: 'https://file+.vscode-resource.vscode-cdn.net/ext/dist/webview/bandView.js', title: 'Bands: <EIGENVAL>' });
 
   it('makes fresh 128-bit nonces', () => {
     assert.match(nonce, /^[0-9a-f]{32}$/);
@@ -22,8 +22,8 @@ describe('extension: band view HTML shell', () => {
   it('loads exactly one script, with the nonce, and escapes the title', () => {
     const scripts = html.match(/<script\b[^>]*>/g) ?? [];
     assert.equal(scripts.length, 1);
-    assert.ok(scripts[0]!.includes(`nonce="${nonce}"`));
-    assert.ok(scripts[0]!.includes('dist/webview/bandView.js'));
+    assert.ok(scripts[0].includes(`nonce="${nonce}"`));
+    assert.ok(scripts[0].includes('dist/webview/bandView.js'));
     assert.ok(html.includes('<title>Bands: &lt;EIGENVAL&gt;</title>'));
     assert.doesNotMatch(html, /\son\w+=/, 'no inline event handlers');
   });

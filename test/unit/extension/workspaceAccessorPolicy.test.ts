@@ -24,9 +24,12 @@ const stubPath = resolve(__dirname, 'vscodeStub.ts');
 M._resolveFilename = function (this: unknown, request: string, ...rest: unknown[]): string {
   return request === 'vscode' ? stubPath : original.call(this, request, ...rest);
 };
+// The stub must be in place before these modules load, so they are required here, not imported.
+/* eslint-disable @typescript-eslint/no-require-imports */
 const { WorkspaceFileAccessor } = require('../../../src/extension/fileAccessor') as { WorkspaceFileAccessor: typeof Accessor };
 const stub = require('vscode') as typeof import('./vscodeStub');
 const { currentText } = require('../../../src/extension/annotationsWriter') as typeof import('../../../src/extension/annotationsWriter');
+/* eslint-enable @typescript-eslint/no-require-imports */
 M._resolveFilename = original;
 
 const base = mkdtempSync(join(tmpdir(), 'vs-wsaccess-'));

@@ -26,7 +26,7 @@ import { freeElectronMetal, halfMetal, smearedFreeElectronMetal, smearedOccupati
 
 const root = mkdtempSync(join(tmpdir(), 'vs-metals-'));
 let n = 0;
-async function analyse(files: Record<string, string>, main?: string): Promise<Report> {
+async function analyzeRun(files: Record<string, string>, main?: string): Promise<Report> {
   const dir = join(root, `run${n++}`);
   mkdirSync(dir);
   for (const [name, text] of Object.entries(files)) writeFileSync(join(dir, name), text);
@@ -71,7 +71,7 @@ const LAYOUTS: Layout[] = [
   },
 ];
 
-const analyseIn = (l: Layout, files: Record<string, string>): Promise<Report> => analyse(files, l.main);
+const analyzeIn = (l: Layout, files: Record<string, string>): Promise<Report> => analyzeRun(files, l.main);
 
 /** The model as the layout can hold it: without occupations where it has none. */
 function asWritten(bs: BandStructure, l: Layout): BandStructure {
@@ -85,7 +85,7 @@ describe('model metals through every layout', () => {
     describe(l.name, () => {
       for (const kind of ['fermi-dirac', 'gaussian', 'methfessel-paxton'] as const) {
         it(`free-electron metal (${kind} occupations where the layout has them): a metal, band 1 crossing`, async () => {
-          const r = await analyseIn(l, l.write(asWritten(smearedFreeElectronMetal(kind, 0.1), l)));
+          const r = await analyzeIn(l, l.write(asWritten(smearedFreeElectronMetal(kind, 0.1), l)));
           assert.equal(r.metal, true, r.classificationReason);
           assert.equal(r.gap, null);
           assert.equal(r.semimetal, false, r.classificationReason);
@@ -97,7 +97,7 @@ describe('model metals through every layout', () => {
       it('two-band semimetal: a semimetal, bands 2 and 3 crossing', async () => {
         const bs = twoBandSemimetal();
         if (l.occupations) bs.occupations = smearedOccupations(bs, 'fermi-dirac', 0, 0.01);
-        const r = await analyseIn(l, l.write(asWritten(bs, l)));
+        const r = await analyzeIn(l, l.write(asWritten(bs, l)));
         assert.equal(r.metal, true, r.classificationReason);
         // Without an electron count (Wannier90), whole filling cannot be checked: undetermined, not false.
         assert.equal(r.semimetal, l.count || l.occupations ? true : null, r.classificationReason);
@@ -107,7 +107,7 @@ describe('model metals through every layout', () => {
       if (l.spin2) {
         it('spin-polarised half-metal: spin up metallic, spin down gapped', async () => {
           const bs = halfMetal();
-          const r = await analyseIn(l, l.write(asWritten(bs, l)));
+          const r = await analyzeIn(l, l.write(asWritten(bs, l)));
           assert.equal(r.metal, true, r.classificationReason);
           assert.deepEqual(r.spinChannels?.map((c) => c.metal), [true, false], r.classificationReason);
         });
@@ -115,7 +115,7 @@ describe('model metals through every layout', () => {
 
       it('semiconductor with smearing tails stays a semiconductor (gap 1.2 eV, analytic model)', async () => {
         const bs = smearedSemiconductor(0.2);
-        const r = await analyseIn(l, l.write(asWritten(bs, l)));
+        const r = await analyzeIn(l, l.write(asWritten(bs, l)));
         assert.equal(r.metal, false, r.classificationReason);
         assert.ok(r.gap && Math.abs(r.gap.eV - 1.2) < 2e-4, JSON.stringify(r.gap?.eV));
       });
@@ -141,7 +141,7 @@ describe('model metals through every layout', () => {
       const row = bands.map((b) => b[p]!).sort((a, b) => a - b);
       row.forEach((e, b) => (bands[b]![p] = e));
     }
-    const r = await analyse({ 'fermi.bxsf': writeBxsf({ fermiEnergy: freeElectronFermi(1, FE_A), dims: [n, n, n], reciprocal: rec, bands }) });
+    const r = await analyzeRun({ 'fermi.bxsf': writeBxsf({ fermiEnergy: freeElectronFermi(1, FE_A), dims: [n, n, n], reciprocal: rec, bands }) });
     assert.equal(r.metal, true, r.classificationReason);
     assert.deepEqual(r.crossingBands, [1]);
     assert.equal(r.semimetal, false);
@@ -150,7 +150,7 @@ describe('model metals through every layout', () => {
   it('pw.x XML: a non-integer electron count (2.9, no occupations or Fermi energy written) is a metal', async () => {
     const bs = freeElectronMetal(2.9);
     bs.fermiEnergy = null;
-    const r = await analyse({ 'data-file-schema.xml': writeQeXml(bs) });
+    const r = await analyzeRun({ 'data-file-schema.xml': writeQeXml(bs) });
     assert.equal(r.electrons, 2.9);
     assert.equal(r.metal, true);
     assert.match(r.classificationReason, /2.9 electrons .* fill 1.45 bands/); // 2.9 / 2 per band
@@ -158,7 +158,7 @@ describe('model metals through every layout', () => {
 
   it('EIGENVAL without occupations: an odd count (3) without spin polarisation is a metal', async () => {
     const bs = freeElectronMetal(3);
-    const r = await analyse({ EIGENVAL: writeEigenval({ system: 'model', nIons: 1, electrons: 3, nBands: bs.nBands, kpoints: bs.kpoints, energies: bs.energies, lattice: bs.lattice! }) });
+    const r = await analyzeRun({ EIGENVAL: writeEigenval({ system: 'model', nIons: 1, electrons: 3, nBands: bs.nBands, kpoints: bs.kpoints, energies: bs.energies, lattice: bs.lattice! }) });
     assert.equal(r.metal, true);
     assert.match(r.classificationReason, /3 electrons without spin polarisation .* fill 1.5 bands/);
   });
@@ -166,7 +166,7 @@ describe('model metals through every layout', () => {
   it('CASTEP .bands: the same odd count with a Fermi energy outside every band is still reported, and the disagreement said', async () => {
     const bs = freeElectronMetal(3);
     bs.fermiEnergy = -1; // below every band: inconsistent with 3 electrons on purpose
-    const r = await analyse({ 'model.bands': writeCastepBands(bs) });
+    const r = await analyzeRun({ 'model.bands': writeCastepBands(bs) });
     assert.equal(r.metal, false); // the written Fermi energy is the stronger evidence
     assert.ok(r.warnings.some((w) => /cannot fill whole bands/.test(w)));
   });

@@ -30,7 +30,7 @@ function runFolder(files: Record<string, string>): string {
   return dir;
 }
 
-async function analyse(dir: string, options: ReadOptions = {}): Promise<{ bs: BandStructure; report: Report }> {
+async function analyzeRun(dir: string, options: ReadOptions = {}): Promise<{ bs: BandStructure; report: Report }> {
   const bs = await loadRun(nodeFileAccessor, dir, options);
   return { bs, report: analyzeBandStructure(bs) };
 }
@@ -95,7 +95,7 @@ describe('round trips through every layout (model → file → reader → analys
   for (const c of cases) {
     it(`${c.name}: same gap and conduction mass`, async () => {
       const dir = runFolder(c.files());
-      const { bs, report } = await analyse(c.main ? join(dir, c.main) : dir);
+      const { bs, report } = await analyzeRun(c.main ? join(dir, c.main) : dir);
       assert.equal(bs.source.format, c.format, 'detected by content');
       assert.equal(bs.nk, model.nk);
       assert.equal(bs.nBands, model.nBands);
@@ -107,25 +107,25 @@ describe('round trips through every layout (model → file → reader → analys
       assert.ok(m !== null, `${c.format}: a conduction mass towards Γ is reported`);
       // Same mass as the model analysed directly, within the fit's error (plus the layout's rounding).
       const tol = Math.max(3 * directFit.stderr, c.massTol * Math.abs(directMass));
-      assert.ok(Math.abs(m! - directMass) <= tol, `${c.format}: mass ${m} vs ${directMass} (±${tol})`);
+      assert.ok(Math.abs(m - directMass) <= tol, `${c.format}: mass ${m} vs ${directMass} (±${tol})`);
     });
   }
 
   it('bands.x without a data file: --alat and --structure place the k-points; structure alone infers alat; nothing gives a warning', async () => {
     const dir = runFolder({ 'bands.out': writeBandsx(model, alat) });
     const structure = model.structure!;
-    const withBoth = await analyse(dir, { alatAngstrom: alat, structure });
+    const withBoth = await analyzeRun(dir, { alatAngstrom: alat, structure });
     assert.equal(withBoth.bs.fermiEnergy, null);
     assert.ok(withBoth.bs.lattice);
     for (let i = 0; i < model.nk * 3; i++) assert.ok(Math.abs(withBoth.bs.kpoints[i]! - model.kpoints[i]!) < 2e-6);
     // Structure alone: alat inferred from the cell (|a1| here) with a warning naming the guess.
-    const inferred = await analyse(dir, { structure });
+    const inferred = await analyzeRun(dir, { structure });
     assert.ok(inferred.bs.warnings.some((w) => w.code === 'alat-inferred'));
     for (let i = 0; i < model.nk * 3; i++) assert.ok(Math.abs(inferred.bs.kpoints[i]! - model.kpoints[i]!) < 2e-6);
     // alat alone: a cubic frame; distances right, so masses in m_e still come out.
-    const alatOnly = await analyse(dir, { alatAngstrom: alat });
+    const alatOnly = await analyzeRun(dir, { alatAngstrom: alat });
     assert.ok(alatOnly.bs.warnings.some((w) => w.code === 'cell-unknown'));
-    const none = await analyse(dir);
+    const none = await analyzeRun(dir);
     assert.equal(none.bs.lattice, null);
     assert.ok(none.bs.warnings.some((w) => w.code === 'no-alat'));
   });
@@ -163,7 +163,7 @@ describe('round trips through every layout (model → file → reader → analys
     ];
     for (const [format, files, tol] of layouts) {
       it(`${format}: two channels, per-spin gaps 1.2 and 1.4 eV, overall 1.2 eV`, async () => {
-        const { bs, report } = await analyse(runFolder(files));
+        const { bs, report } = await analyzeRun(runFolder(files));
         assert.equal(bs.source.format, format);
         assert.equal(bs.nSpin, 2);
         checkGap(report, tol, format);
@@ -184,7 +184,7 @@ describe('round trips through every layout (model → file → reader → analys
     ];
     for (const [format, files, tol, options] of layouts) {
       it(`${format}: spin-orbit flag read, 4 electrons fill 4 bands, gap 1.2 eV`, async () => {
-        const { bs, report } = await analyse(runFolder(files), options);
+        const { bs, report } = await analyzeRun(runFolder(files), options);
         assert.equal(bs.source.format, format);
         assert.equal(bs.spinorbit, true);
         assert.equal(bs.nBands, 6);
@@ -194,7 +194,7 @@ describe('round trips through every layout (model → file → reader → analys
     }
     it('wannier90: spinors = true in the .win marks the run spin-orbit', async () => {
       const w = writeWannier90(so, { fermiEnergy: 0.6, spinors: true });
-      const { bs, report } = await analyse(runFolder({ 'so_band.dat': w.bandDat, 'so_band.kpt': w.kpt, 'so.win': w.win }));
+      const { bs, report } = await analyzeRun(runFolder({ 'so_band.dat': w.bandDat, 'so_band.kpt': w.kpt, 'so.win': w.win }));
       assert.equal(bs.spinorbit, true);
       checkGap(report, 1e-6, 'wannier90-band');
     });

@@ -55,7 +55,7 @@ export function rotationMatrix(u: Vec3, angle: number): Mat3 {
  */
 export function redescribe(s: Structure, M: Mat3, Q: Mat3): Structure {
   if (Math.abs(Math.abs(det3(M)) - 1) > 1e-12) throw new Error('redescribe: M must be unimodular');
-  const lat = mulMat(M, s.lattice).map((row) => mulMatVec(Q, row as Vec3)) as Mat3;
+  const lat = mulMat(M, s.lattice).map((row) => mulMatVec(Q, row)) as Mat3;
   const minvT = transpose3(mat3Inverse(M));
   const pos = new Float64Array(s.positions.length);
   for (let i = 0; i < s.species.length; i++) {

@@ -45,7 +45,7 @@ describe('k-path distances on the fcc path (hand-computed), for any description 
   ];
   for (const [name, M, Q] of cells) {
     it(`gives |ΓX| = 2π/a and the other legs in the ${name} cell`, () => {
-      const lattice = mulMat(M, fccPrimitive(a)).map((r) => mulMatVec(Q, r as Vec3)) as Mat3;
+      const lattice = mulMat(M, fccPrimitive(a)).map((r) => mulMatVec(Q, r)) as Mat3;
       const n = 7;
       const k = linePath(M, n);
       const g = pathGeometry(makeBands({ kpoints: k, energies: [k.map(() => [0])], lattice }));

@@ -76,7 +76,7 @@ export interface ViewPage {
  */
 export function testPageHtml(origin: string, scriptUri: string, title: string, theme: TestTheme): string {
   const nonce = randomBytes(16).toString('hex');
-  let html = bandViewHtml({ cspSource: origin, nonce, scriptUri, styleUri: null, title });
+  let html = bandViewHtml({ cspSource: origin, nonce, scriptUri, title });
   const vars = Object.entries(THEME_VARS[theme]).map(([k, v]) => `${k}: ${v};`).join(' ');
   html = html.replace('</head>', `  <style nonce="${nonce}">html { ${vars} }</style>\n</head>`);
   return html.replace(`<script nonce="${nonce}"`, `<script nonce="${nonce}" src="${origin}/stub.js"></script>\n  <script nonce="${nonce}"`);

@@ -181,14 +181,14 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
   options.onProgress?.(1);
   const trim = (a: Float64Array, n: number): Float64Array => (a.length === n ? a : a.slice(0, n));
   return {
-    nSpin: ispin as 1 | 2,
+    nSpin: ispin,
     electrons,
     nk,
     nBands,
     kpoints: trim(kpoints, nk * 3),
     weights: trim(weights, nk),
     energies: energies.map((e) => trim(e, nk * nBands)),
-    occupations: occupations ? (occupations as Float32Array[]).map((e) => (e.length === nk * nBands ? e : e.slice(0, nk * nBands))) : null,
+    occupations: occupations ? (occupations).map((e) => (e.length === nk * nBands ? e : e.slice(0, nk * nBands))) : null,
     system,
     announcedK: nkAnnounced,
     partial: nk < nkAnnounced,

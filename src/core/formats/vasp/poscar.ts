@@ -108,7 +108,7 @@ export function readPoscarWithScale(file: InputFile): { structure: Structure; sc
   const positions = new Float64Array(nAtoms * 3);
   const species: string[] = [];
   counts.forEach((c, i) => {
-    for (let j = 0; j < c; j++) species.push(names![i]!);
+    for (let j = 0; j < c; j++) species.push(names[i]!);
   });
   const inv = cartesian ? mat3Inverse(lattice) : null;
   for (let a = 0; a < nAtoms; a++) {
@@ -125,17 +125,4 @@ export function readPoscarWithScale(file: InputFile): { structure: Structure; sc
     sc.nextLine();
   }
   return { structure: { lattice, species, positions }, scale: lengthScale };
-}
-
-/** POSCAR has no magic line; recognise it by shape: comment, one or three numbers, three vectors. */
-export function looksLikePoscar(head: Uint8Array): boolean {
-  const text = new TextDecoder().decode(head.subarray(0, 2048));
-  const lines = text.split(/\r?\n/);
-  if (lines.length < 7) return false;
-  const num = /^[+-]?(\d+\.?\d*|\.\d+)([eEdD][+-]?\d+)?$/;
-  const nums = (l: string | undefined): number => (l ?? '').trim().split(/\s+/).filter((t) => num.test(t)).length;
-  const all = (l: string | undefined): number => (l ?? '').trim().split(/\s+/).filter(Boolean).length;
-  if (!(nums(lines[1]) === all(lines[1]) && (nums(lines[1]) === 1 || nums(lines[1]) === 3))) return false;
-  for (let i = 2; i < 5; i++) if (nums(lines[i]) !== 3 || all(lines[i]) !== 3) return false;
-  return true;
 }

@@ -2,7 +2,7 @@
  * A VASP band run: EIGENVAL plus what sits beside it (POSCAR or CONTCAR for the structure, KPOINTS for the
  * path labels, INCAR for spin-orbit). Each companion is optional; what is missing becomes a warning.
  */
-import type { BandStructure, InputWarning, KLabel, Mat3, SourceFile, Structure, Vec3 } from '../../model';
+import type { BandStructure, InputWarning, KLabel, Mat3, SourceFile, Structure } from '../../model';
 import type { InputFile } from '../../io/fileAccessor';
 import { basename } from '../../io/fileAccessor';
 import type { FormatReader, ReadOptions } from '../types';
@@ -10,15 +10,13 @@ import { sha256Hex } from '../../hash';
 import { ReaderError } from '../../errors';
 import { EIGENVAL_FORMAT, detectEigenval, readEigenval } from './eigenval';
 import { readPoscarWithScale } from './poscar';
-import { kpointsCartesianToFractional, readKpoints, type LineModePath } from './kpoints';
+import { readKpoints } from './kpoints';
+import { labelsFromLineMode } from './kpointLabels';
+import { dropMeshBeforePath } from './hybridMesh';
 import { readIncar } from './incar';
 import { modelMethodFromSystem, vaspMethod } from './vaspMethod';
 
 const STRUCTURE_NAMES = ['CONTCAR', 'POSCAR'];
-
-function sameK(a: Vec3, b: ArrayLike<number>, off: number, tol = 2e-4): boolean {
-  return Math.abs(a[0] - b[off]!) < tol && Math.abs(a[1] - b[off + 1]!) < tol && Math.abs(a[2] - b[off + 2]!) < tol;
-}
 
 export const vaspEigenvalReader: FormatReader = {
   id: EIGENVAL_FORMAT,
@@ -97,31 +95,11 @@ export const vaspEigenvalReader: FormatReader = {
         ? vaspMethod(incarContent.tags, `The INCAR beside the EIGENVAL (${basename(incar!.path)})`)
         : { family: 'unknown' as const, name: null, evidence: `No INCAR beside ${basename(main.path)}: nothing says how the energies were computed.` });
 
-    let { kpoints, weights, energies, occupations, nk } = data;
     const nBands = data.nBands;
-
     // Hybrid-functional band runs list the self-consistent mesh (weighted) before the zero-weight path.
-    let firstPath = 0;
-    if (nk > 1 && weights[0]! > 0) {
-      let z = nk;
-      while (z > 0 && weights[z - 1] === 0) z--;
-      if (z > 0 && z < nk) {
-        let allWeighted = true;
-        for (let i = 0; i < z; i++) if (!(weights[i]! > 0)) allWeighted = false;
-        if (allWeighted && nk - z >= 2) firstPath = z;
-      }
-    }
-    if (firstPath > 0) {
-      warnings.push({
-        code: 'mesh-points-dropped',
-        message: `The first ${firstPath} k-points carry weights (the self-consistent mesh of a hybrid-functional run); the band path is the ${nk - firstPath} zero-weight points after them.`,
-      });
-      kpoints = kpoints.slice(firstPath * 3);
-      weights = weights.slice(firstPath);
-      energies = energies.map((e) => e.slice(firstPath * nBands));
-      occupations = occupations ? occupations.map((e) => e.slice(firstPath * nBands)) : null;
-      nk -= firstPath;
-    }
+    const dropped = dropMeshBeforePath(data, nBands);
+    if (dropped.warning) warnings.push(dropped.warning);
+    const { kpoints, weights, energies, occupations, nk } = dropped.arrays;
 
     // Path labels from KPOINTS in line mode.
     let labels: KLabel[] = [];
@@ -177,57 +155,3 @@ export const vaspEigenvalReader: FormatReader = {
     };
   },
 };
-
-/** Place the KPOINTS segment-end labels on the eigenvalue k-points: by position, checked by coordinates. */
-function labelsFromLineMode(
-  path: LineModePath,
-  kpoints: Float64Array,
-  nk: number,
-  latticeOverScale: Mat3 | null,
-): { labels: KLabel[]; warning: string | null } {
-  let ends = path.ends.map((e) => ({ ...e }));
-  if (path.coordinates === 'cartesian') {
-    if (!latticeOverScale) return { labels: [], warning: 'KPOINTS gives the path in cartesian coordinates but no structure is known: labels were not placed.' };
-    ends = ends.map((e) => ({ ...e, k: kpointsCartesianToFractional(e.k, latticeOverScale) }));
-  }
-  const n = path.pointsPerSegment;
-  const segs = ends.length / 2;
-  const labels = new Map<number, string>();
-  if (nk === n * segs) {
-    let ok = true;
-    for (let s = 0; s < segs; s++) {
-      const a = ends[2 * s]!;
-      const b = ends[2 * s + 1]!;
-      const ia = s * n;
-      const ib = s * n + n - 1;
-      if (!sameK(a.k, kpoints, 3 * ia) || !sameK(b.k, kpoints, 3 * ib)) ok = false;
-      if (a.label) labels.set(ia, a.label);
-      if (b.label) labels.set(ib, b.label);
-    }
-    if (ok) return { labels: toList(labels), warning: null };
-    labels.clear();
-  }
-  // Fall back to matching coordinates: each end labels the k-points equal to it.
-  let matched = 0;
-  for (const e of ends) {
-    if (!e.label) continue;
-    let hit = false;
-    for (let i = 0; i < nk; i++) {
-      if (sameK(e.k, kpoints, 3 * i)) {
-        labels.set(i, e.label);
-        hit = true;
-      }
-    }
-    if (hit) matched++;
-  }
-  const named = ends.filter((e) => e.label).length;
-  const warning =
-    nk === n * segs
-      ? null
-      : `KPOINTS describes ${segs} segments of ${n} points (${n * segs} k-points) but the eigenvalue file has ${nk}; labels were placed by matching coordinates (${matched} of ${named} found).`;
-  return { labels: toList(labels), warning };
-}
-
-function toList(m: Map<number, string>): KLabel[] {
-  return [...m.entries()].sort((a, b) => a[0] - b[0]).map(([index, label]) => ({ index, label }));
-}

@@ -60,7 +60,7 @@ describe('VASP method from the INCAR beside an EIGENVAL', () => {
       const bs = withIncar(incar);
       assert.equal(bs.method?.family, family);
       assert.equal(bs.method?.name, name);
-      assert.match(bs.method!.evidence, /INCAR/);
+      assert.match(bs.method.evidence, /INCAR/);
       assert.ok(bs.source.files.some((f) => f.role === 'settings' && f.path === 'run/INCAR'));
     });
   }
@@ -72,7 +72,7 @@ describe('VASP method from the INCAR beside an EIGENVAL', () => {
   it('without an INCAR nothing says: unknown', () => {
     const bs = withIncar(null);
     assert.equal(bs.method?.family, 'unknown');
-    assert.match(bs.method!.evidence, /No INCAR/);
+    assert.match(bs.method.evidence, /No INCAR/);
   });
   it('a SYSTEM line starting with "model:" marks model data, with or without an INCAR', () => {
     const sys = modelSystemName('cosine bands');
@@ -96,7 +96,7 @@ describe('VASP method from a vasprun.xml', () => {
     const hse = read(writeVasprun(model, { parameterTags: { GGA: '--', LHFCALC: 'T', HFSCREEN: '0.20000000', AEXX: '0.25000000' } }));
     assert.equal(hse.method?.family, 'hybrid');
     assert.equal(hse.method?.name, 'HSE06');
-    assert.match(hse.method!.evidence, /vasprun\.xml \(its parameter list\) sets LHFCALC/);
+    assert.match(hse.method.evidence, /vasprun\.xml \(its parameter list\) sets LHFCALC/);
     const pbe = read(writeVasprun(model, { parameterTags: { GGA: '--', LHFCALC: 'F', HFSCREEN: '0.00000000', AEXX: '0.00000000', METAGGA: '--' } }));
     assert.equal(pbe.method?.family, 'semilocal');
     assert.equal(pbe.method?.name, null);
@@ -111,7 +111,7 @@ describe('VASP method from a vasprun.xml', () => {
   it('without a parameter list, the <incar> block is used', () => {
     const bs = read(writeVasprun(model, { noParameters: true, incarTags: { LHFCALC: '.TRUE.' } }));
     assert.equal(bs.method?.family, 'hybrid');
-    assert.match(bs.method!.evidence, /its <incar> block/);
+    assert.match(bs.method.evidence, /its <incar> block/);
   });
   it('LNONCOLLINEAR without LSORBIT is a spinor run', () => {
     const text = writeVasprun(model).replace('name="LNONCOLLINEAR"> F', 'name="LNONCOLLINEAR"> T');
