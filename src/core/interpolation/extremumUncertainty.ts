@@ -75,9 +75,9 @@ function nearestIrreducible(mesh: RegularMesh, k: Vec3, b: Mat3, lattice: Mat3, 
       const d = p[i]! - kf[i]!;
       return d - Math.round(d);
     });
-    const x = df[0]! * b[0]![0]! + df[1]! * b[1]![0]! + df[2]! * b[2]![0]!;
-    const y = df[0]! * b[0]![1]! + df[1]! * b[1]![1]! + df[2]! * b[2]![1]!;
-    const z = df[0]! * b[0]![2]! + df[1]! * b[1]![2]! + df[2]! * b[2]![2]!;
+    const x = df[0]! * b[0][0] + df[1]! * b[1][0] + df[2]! * b[2][0];
+    const y = df[0]! * b[0][1] + df[1]! * b[1][1] + df[2]! * b[2][1];
+    const z = df[0]! * b[0][2] + df[1]! * b[1][2] + df[2]! * b[2][2];
     dist.push({ j, d: x * x + y * y + z * z });
   }
   dist.sort((p, q) => p.d - q.d);

@@ -243,7 +243,7 @@ export class MeshInterpolation {
 function sameStar(sym: CrystalSymmetry, a: Vec3, b: Vec3): boolean {
   // equivalentK with a loose tolerance: two Newton runs converge to the same point to ~1e-9.
   for (const r of sym.reciprocalPointGroup) {
-    const q = [0, 1, 2].map((i) => r[i]![0]! * a[0] + r[i]![1]! * a[1] + r[i]![2]! * a[2]);
+    const q = [0, 1, 2].map((i) => r[i]![0] * a[0] + r[i]![1] * a[1] + r[i]![2] * a[2]);
     for (const s of [1, -1]) {
       if (q.every((x, i) => {
         const d = s * x - b[i]!;
@@ -258,7 +258,7 @@ function sameStar(sym: CrystalSymmetry, a: Vec3, b: Vec3): boolean {
 function isSymmetryPoint(sym: CrystalSymmetry, k: Vec3): boolean {
   let fixed = 0;
   for (const r of sym.reciprocalPointGroup) {
-    const q = [0, 1, 2].map((i) => r[i]![0]! * k[0] + r[i]![1]! * k[1] + r[i]![2]! * k[2]);
+    const q = [0, 1, 2].map((i) => r[i]![0] * k[0] + r[i]![1] * k[1] + r[i]![2] * k[2]);
     if (q.every((x, i) => Math.abs(x - k[i]! - Math.round(x - k[i]!)) < 1e-5)) fixed++;
   }
   // Degeneracies by symmetry need a little group with a representation of dimension > 1: at least order 3.

@@ -61,7 +61,7 @@ export function refineExtremum(band: StarInterpolant, start: Vec3, kind: Station
     const curv = symmetricEigen3(d.hessian).values;
     if (curv.every((c) => sign * c > 0)) {
       const inv = mat3Inverse(d.hessian);
-      step = [0, 1, 2].map((i) => -(inv[i]![0]! * d.gradient[0] + inv[i]![1]! * d.gradient[1] + inv[i]![2]! * d.gradient[2])) as Vec3;
+      step = [0, 1, 2].map((i) => -(inv[i]![0] * d.gradient[0] + inv[i]![1] * d.gradient[1] + inv[i]![2] * d.gradient[2])) as Vec3;
     } else {
       step = d.gradient.map((x) => (-sign * x * opt.maxStep) / g) as Vec3;
     }

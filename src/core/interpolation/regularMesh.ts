@@ -33,7 +33,7 @@ const ON_MESH = 2e-5;
 function images(k: readonly number[], ops: readonly Mat3[]): number[][] {
   const out: number[][] = [];
   for (const r of ops) {
-    const q = [0, 1, 2].map((i) => r[i]![0]! * k[0]! + r[i]![1]! * k[1]! + r[i]![2]! * k[2]!);
+    const q = [0, 1, 2].map((i) => r[i]![0] * k[0]! + r[i]![1] * k[1]! + r[i]![2] * k[2]!);
     out.push(q, q.map((x) => -x));
   }
   return out;
