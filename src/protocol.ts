@@ -253,6 +253,11 @@ export interface FitTarget {
   spin: 0 | 1;
   kIndex: number;
   band0: number;
+  /**
+   * The view names this point as an extremum (a maximum or a minimum): the host fits exactly there and never
+   * moves to another. Absent: the host fits the nearest local extremum of the band.
+   */
+  maximum?: boolean;
 }
 
 // ---------------------------------------------------------------------------------------------------------

@@ -198,7 +198,8 @@ export class BandViewPanel implements vscode.Disposable {
         }
         try {
           const out = this.deps.fits.fit(run, m, m.window_meV, m.method, m.withScan === true);
-          this.post({ type: HostToViewType.FitResult, requestId: m.requestId, target: { spin: m.spin, kIndex: m.kIndex, band0: m.band0 }, ...out });
+          const target = { spin: m.spin, kIndex: m.kIndex, band0: m.band0, ...(typeof m.maximum === 'boolean' ? { maximum: m.maximum } : {}) };
+          this.post({ type: HostToViewType.FitResult, requestId: m.requestId, target, ...out });
         } catch (e) {
           this.post({ type: HostToViewType.RequestFailed, requestId: m.requestId, message: message(e) });
         }

@@ -40,7 +40,7 @@ export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: Save
     const problem = targetProblem(run, e);
     if (problem) return { ok: false, message: `Not saved: ${problem}.` };
     // Only where and how: the core redoes each fit (chosenFits.ts), exactly as `check` will.
-    const at = { spin: e.spin, kIndex: e.kIndex, band0: e.band0, window_meV: e.window_meV, method: e.method };
+    const at = { spin: e.spin, kIndex: e.kIndex, band0: e.band0, window_meV: e.window_meV, method: e.method, ...(typeof e.maximum === 'boolean' ? { maximum: e.maximum } : {}) };
     fits.push(e.note !== undefined ? { ...at, note: e.note } : at);
   }
   const settings = deps.settings().analysis;

@@ -28,6 +28,11 @@ export interface ChosenExtremum extends FitChoice {
   spin: 0 | 1;
   kIndex: number;
   band0: number;
+  /**
+   * Given: the point is that extremum (a maximum or not), fitted exactly there. Absent: the nearest local
+   * extremum of the band is fitted (a click between extrema).
+   */
+  maximum?: boolean;
 }
 
 export interface AnnotatedReport {
@@ -53,7 +58,8 @@ export function withChosenFits(bs: BandStructure, report: Report, settings: Anal
   let rotations: readonly Mat3[] | null | undefined;
   for (const c of chosen) {
     const method = methodId(c.method) ?? c.method;
-    const fitted: ExtremumReport = fitExtremumAt(bs, c.spin, c.kIndex, c.band0, { ...settings, window_meV: c.window_meV, method });
+    const how = { ...settings, window_meV: c.window_meV, method };
+    const fitted: ExtremumReport = fitExtremumAt(bs, c.spin, c.kIndex, c.band0, how, c.maximum === undefined ? undefined : { maximum: c.maximum });
     fitted.band += offset;
     const key = placeKey(fitted);
     const i = extrema.findIndex((x) => placeKey(x) === key);
@@ -92,7 +98,9 @@ export function chosenFromDoc(doc: AnnotationsDoc, bs: BandStructure): ChosenExt
     if (e.spin >= bs.nSpin || band0 < 0 || band0 >= bs.nBands) continue;
     const kIndex = kIndexOf(bs, e.k);
     if (kIndex < 0) continue;
-    out.push({ spin: e.spin, kIndex, band0, window_meV: e.fit.window_meV, method: e.fit.method });
+    // Redone exactly at the recorded point: the entry is that extremum (its kind says maximum or minimum).
+    const maximum = e.kind === 'vbm' || e.kind === 'peak';
+    out.push({ spin: e.spin, kIndex, band0, window_meV: e.fit.window_meV, method: e.fit.method, maximum });
   }
   return out;
 }
