@@ -440,7 +440,7 @@ function isSpin(x: unknown): x is 0 | 1 {
   return x === 0 || x === 1;
 }
 function isFitTarget(m: Obj): boolean {
-  return isSpin(m.spin) && isIndex(m.kIndex) && isIndex(m.band0);
+  return isSpin(m.spin) && isIndex(m.kIndex) && isIndex(m.band0) && (m.maximum === undefined || typeof m.maximum === 'boolean');
 }
 function onlyKeys(m: Obj, allowed: readonly string[]): boolean {
   for (const k of Object.keys(m)) if (!allowed.includes(k)) return false;
@@ -470,7 +470,7 @@ export function isViewToHostMessage(x: unknown): x is ViewToHostMessage {
       return onlyKeys(m, ['type']);
     case ViewToHostType.RequestFit:
       return (
-        onlyKeys(m, ['type', 'requestId', 'spin', 'kIndex', 'band0', 'window_meV', 'method', 'withScan']) &&
+        onlyKeys(m, ['type', 'requestId', 'spin', 'kIndex', 'band0', 'maximum', 'window_meV', 'method', 'withScan']) &&
         isRequestId(m.requestId) &&
         isFitTarget(m) &&
         isWindow(m.window_meV) &&
@@ -479,7 +479,7 @@ export function isViewToHostMessage(x: unknown): x is ViewToHostMessage {
       );
     case ViewToHostType.RequestWindowScan:
       return (
-        onlyKeys(m, ['type', 'requestId', 'spin', 'kIndex', 'band0', 'method', 'windows_meV']) &&
+        onlyKeys(m, ['type', 'requestId', 'spin', 'kIndex', 'band0', 'maximum', 'method', 'windows_meV']) &&
         isRequestId(m.requestId) &&
         isFitTarget(m) &&
         isMethod(m.method) &&
@@ -494,7 +494,7 @@ export function isViewToHostMessage(x: unknown): x is ViewToHostMessage {
         m.entries.every(
           (e) =>
             isObj(e) &&
-            onlyKeys(e, ['spin', 'kIndex', 'band0', 'window_meV', 'method', 'note']) &&
+            onlyKeys(e, ['spin', 'kIndex', 'band0', 'maximum', 'window_meV', 'method', 'note']) &&
             isFitTarget(e) &&
             isWindow(e.window_meV) &&
             isMethod(e.method) &&
