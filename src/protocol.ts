@@ -37,6 +37,8 @@ export const HostToViewType = {
   Loading: 'loading',
   /** Loading failed: the sentence to show in place of the plot. */
   LoadFailed: 'loadFailed',
+  /** The review statuses and notes of the annotations file beside the run (after data, and after a save). */
+  Reviews: 'reviews',
 } as const;
 export type HostToViewType = (typeof HostToViewType)[keyof typeof HostToViewType];
 
@@ -320,7 +322,30 @@ export interface LoadFailedMessage {
   message: string;
 }
 
+/** A reviewed entry of the annotations file, placed on the run's arrays (one per k-point where it sits). */
+export interface ReviewMark {
+  /** The entry's id in the annotations file (kind, spin, band from the edge, valley). */
+  id: string;
+  spin: 0 | 1;
+  kIndex: number;
+  band0: number;
+  /** 'unreviewed', 'accepted', 'questioned', 'rejected' or the reviewer's own word. */
+  status: string;
+  note: string;
+  /** False when the latest analysis no longer finds this extremum (kept in the file as not found). */
+  found: boolean;
+}
+export interface ReviewsMessage {
+  type: typeof HostToViewType.Reviews;
+  /** Name of the annotations file (for the panel), or null when there is none beside the run. */
+  file: string | null;
+  reviews: ReviewMark[];
+  /** Why the file could not be read (refused by the path policy, bad JSON), or null. */
+  problem: string | null;
+}
+
 export type HostToViewMessage =
+  | ReviewsMessage
   | BandDataMessage
   | FitResultMessage
   | WindowScanResultMessage

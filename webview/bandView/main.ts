@@ -37,6 +37,7 @@ import { FitPanel, kindName } from './fitPanel';
 import { fixed, fracK, sig } from './format';
 import { edgeMarkerPath, isMaximumKind, secondaryMarkerPath } from './markers';
 import { snapToCandidate, SNAP_TOLERANCE_PX, type ScreenCandidate } from './snap';
+import { ReviewNote } from './reviewNote';
 import { nextCandidate, reachableCandidates, type ArrowKey, type Candidate } from './keyNavigation';
 import { BAND_VIEW_CSS } from './styles';
 import { fittingLabels } from './tickLabels';
@@ -82,6 +83,7 @@ export class BandViewApp {
   private height = 0;
   private frame = 0;
   private candidates: Candidate[] = [];
+  private readonly review = new ReviewNote();
   private selected: Candidate | null = null;
   private hover: { spin: number; k: number; band0: number } | null = null;
   private fit: FitState | null = null;
@@ -183,6 +185,8 @@ export class BandViewApp {
         if (this.selected) this.requestFit(this.selected, true);
       },
     });
+    // The saved review (status and note) of the fitted extremum, under the panel's title.
+    this.panel.root.firstElementChild?.after(this.review.root);
     main.append(this.plot, this.panel.root);
     this.readout = el('div', 'vs-readout');
     this.readout.id = 'vs-readout';
@@ -297,7 +301,12 @@ export class BandViewApp {
       case HostToViewType.Loading:
         this.showMessage(`Reading ${m.title} …`);
         break;
+      case HostToViewType.Reviews:
+        this.review.setReviews(m);
+        if (this.fit) this.showReview(this.fit.target, this.fit.extremum);
+        break;
       case HostToViewType.LoadFailed:
+        this.review.clear();
         this.vm = null;
         this.fit = null;
         this.selected = null;
@@ -812,6 +821,7 @@ export class BandViewApp {
     if (m.scan) this.scan = m.scan;
     const rel = { value: m.extremum.eV - this.refChoice.offset, zero: this.refChoice.subscript ? `E_${this.refChoice.subscript}` : '' };
     this.panel.showResult(m.extremum, rel, window_meV, method);
+    this.showReview(m.target, m.extremum);
     this.panel.setScan(this.scan, window_meV);
     const key = `${m.target.spin}:${m.target.kIndex}:${m.target.band0}`;
     this.saved.delete(key); // re-inserted last: the state's last fit is the one shown
@@ -819,6 +829,13 @@ export class BandViewApp {
     this.saveViewState();
     this.setStatus(`Fit done: ${kindName(m.extremum.kind)} of band ${m.extremum.band}, ${m.extremum.masses.map((f) => `${f.towards} ${sig(f.mass, 3)} mₑ`).join(', ') || 'no direction fitted'}.`);
     this.schedule();
+  }
+
+  /** The saved review of this extremum (its band or any band of its degenerate group, at its k-point). */
+  private showReview(t: FitTarget, x: ExtremumReport): void {
+    const first = x.band - 1;
+    const bands = [t.band0, ...Array.from({ length: Math.max(1, x.degenerateBands ?? 1) }, (_, i) => first + (x.kind === 'vbm' || x.kind === 'peak' ? -i : i))];
+    this.review.show(t.spin, t.kIndex, bands);
   }
 
   private updateSaveState(): void {
