@@ -12,6 +12,7 @@
 import type { InputFile } from '../../io/fileAccessor';
 import { CancelledError, ReaderError } from '../../errors';
 import { POW10, TextScanner } from '../textScanner';
+import { endsOnThisLine } from '../cutAtEnd';
 import { createSha256, sha256Hex } from '../../hash';
 import type { ReadOptions } from '../types';
 
@@ -211,15 +212,6 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
     partial: nk < nkAnnounced,
     sha256: hasher ? (sc.drain(), hasher.hex()) : sha256Hex(file.bytes),
   };
-}
-
-/** After an error: true when nothing but blank lines follows the current line (the file was cut there). */
-function endsOnThisLine(sc: TextScanner): boolean {
-  for (let i = 0; i < 64; i++) {
-    if (!sc.nextLine()) return sc.atEnd();
-    if (!sc.lineIsBlank()) return false;
-  }
-  return false;
 }
 
 /** Recognise EIGENVAL by its header: four integers, then on line 6 three numbers. */
