@@ -3,7 +3,7 @@
  * error (nothing complete yet) or the complete k-points before the cut, marked partial, each exactly as the
  * whole file gives it (a value cut inside its digits is never kept). Data: the fixtures of each layout
  * (fixtures/epm/si: Cohen & Bergstresser's Si model in VASP's EIGENVAL; fixtures/castep/si.bands;
- * fixtures/qe/si.bands.dat), which hold 400 k-points each.
+ * fixtures/qe/si.bands.dat, fixtures/wannier90/si_band.dat).
  */
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
@@ -11,6 +11,7 @@ import { join } from 'node:path';
 import { readEigenval } from '../../../src/core/formats/vasp/eigenval';
 import { readCastepBands } from '../../../src/core/formats/castep';
 import { readBandsx } from '../../../src/core/formats/qe/bandsx';
+import { readBandDat } from '../../../src/core/formats/wannier90';
 import { ReaderError } from '../../../src/core/errors';
 
 interface Read {
@@ -36,6 +37,28 @@ const layouts: [string, string, Reader][] = [
 ];
 
 describe('files cut at any byte, read with allowPartial', () => {
+  it('Wannier90 _band.dat (band after band): the complete bands before the cut, each point exactly as in the whole file', () => {
+    const path = 'fixtures/wannier90/si_band.dat';
+    const bytes = readFileSync(join(root, path));
+    const whole = readBandDat({ path, bytes });
+    let kept = 0;
+    for (let at = Math.floor(bytes.length * 0.05); at < bytes.length - 1; at += 997) {
+      let d;
+      try {
+        d = readBandDat({ path, bytes: bytes.subarray(0, at) }, { allowPartial: true });
+      } catch (e) {
+        assert.ok(e instanceof ReaderError, `cut at byte ${at}: ${String(e)}`);
+        continue;
+      }
+      kept++;
+      assert.equal(d.partial, true, `cut at byte ${at}`);
+      assert.equal(d.nk, whole.nk);
+      assert.ok(d.nBands < whole.nBands);
+      for (let k = 0; k < d.nk; k++) for (let b = 0; b < d.nBands; b++) assert.equal(d.energies[k * d.nBands + b], whole.energies[k * whole.nBands + b], `cut at byte ${at}: point ${k + 1}, band ${b + 1}`);
+    }
+    assert.ok(kept > 3, `${kept} cuts gave partial data`);
+  });
+
   for (const [name, path, read] of layouts) {
     it(`${name}: the k-points kept are the whole file's own, the rest left out and the data marked partial`, () => {
       const bytes = readFileSync(join(root, path));
