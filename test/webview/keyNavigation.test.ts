@@ -6,7 +6,7 @@
  * and near X (common practice for GaAs; the analysis lists them), Si a crossing of bands 5 and 6 at X.
  */
 import assert from 'node:assert/strict';
-import { buildViewModel } from '../../webview/bandView/viewModel';
+import { buildViewModel, energyAt } from '../../webview/bandView/viewModel';
 import { nextCandidate, reachableCandidates, type ArrowKey, type Candidate } from '../../webview/bandView/keyNavigation';
 import { hostFitResult, loadRunForView } from './support/coreBandData';
 import { kpointAt } from '../../src/core/model';
@@ -14,7 +14,7 @@ import { kpointAt } from '../../src/core/model';
 async function candidatesOf(path: string) {
   const run = await loadRunForView(path, path);
   const vm = buildViewModel(run.data);
-  const list = reachableCandidates(vm.marks, vm.extrema, run.data.setAside);
+  const list = reachableCandidates(vm.marks, vm.extrema, run.data.setAside, (s, k, b) => energyAt(vm, s, k, b));
   return { run, vm, list, x: (k: number) => vm.distance[k]! };
 }
 
@@ -60,12 +60,21 @@ describe('band view: keyboard order and exact fits', function () {
     }
   });
 
-  it('Si: what the analysis set aside (the crossing at X) is not offered', async () => {
+  it('Si: what the analysis set aside (the crossing at X), and the other band of that crossing, are not offered', async () => {
     const { run, list } = await candidatesOf('fixtures/epm/si');
     const aside = run.data.setAside ?? [];
     assert.ok(aside.length > 0, 'the analysis set something aside in Si');
     for (const a of aside) {
       assert.ok(!list.some((c) => c.spin === a.spin && c.band0 === a.band0 && Math.abs(c.kIndex - a.kIndex) <= 2), `set-aside candidate at k-point ${a.kIndex + 1}, band ${a.band0 + 1} is offered`);
     }
+    // Nor the other band of that crossing: at X bands 5 and 6 meet (the X₁ level of Si is twofold without
+    // spin-orbit; common practice), so band 5 at X is not an extremum to fit either.
+    const xs = aside.filter((a) => a.reason === 'crossing').map((a) => a.kIndex);
+    assert.ok(xs.length > 0);
+    assert.ok(!list.some((c) => c.band0 === 4 && xs.some((k) => Math.abs(c.kIndex - k) <= 2)), 'band 5 at the X crossing is not offered');
+    // Control: without the energies the view cannot tell, and offers band 5 at the last X of the path.
+    const { vm } = await candidatesOf('fixtures/epm/si');
+    const blind = reachableCandidates(vm.marks, vm.extrema, run.data.setAside);
+    assert.ok(blind.some((c) => c.band0 === 4 && xs.some((k) => Math.abs(c.kIndex - k) <= 2)));
   });
 });

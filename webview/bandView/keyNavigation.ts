@@ -8,7 +8,7 @@
 import type { ExtremumMark, SetAsideMark } from '../../src/protocol';
 import type { ExtremaSet } from './localExtrema';
 import { isMaximumKind } from './markers';
-import { setAsideAt } from './setAside';
+import { setAsideAt, SET_ASIDE_REACH } from './setAside';
 
 /** A reachable extremum: a listed one (the report's, with its kind) or another local extremum of a band. */
 export interface Candidate {
@@ -22,11 +22,26 @@ export interface Candidate {
   kind: string | null;
 }
 
+/** Bands within this of a set-aside band at the same k-point share its fate (the other band of a crossing), eV. */
+export const SET_ASIDE_DEGENERACY_EV = 1e-3;
+
 /**
  * What a click or an arrow key can reach: the report's extrema first (listed), then the local extrema of the
- * drawn arrays that the analysis did not set aside (saddles, crossings, path ends, rounding are never offered).
+ * drawn arrays that the analysis did not set aside (saddles, crossings, path ends, rounding are never offered;
+ * nor is a band that meets a set-aside one at that k-point, the other branch of the same crossing, when
+ * `energy(spin, k, band0)` is given).
  */
-export function reachableCandidates(marks: readonly ExtremumMark[], extrema: ExtremaSet, setAside: readonly SetAsideMark[] | undefined): Candidate[] {
+export function reachableCandidates(
+  marks: readonly ExtremumMark[],
+  extrema: ExtremaSet,
+  setAside: readonly SetAsideMark[] | undefined,
+  energy?: (spin: number, k: number, band0: number) => number,
+): Candidate[] {
+  const asideNear = (spin: number, k: number, band0: number, eV: number): boolean => {
+    if (setAsideAt(setAside, spin, k, band0)) return true;
+    if (!energy || !setAside) return false;
+    return setAside.some((m) => m.spin === spin && m.band0 !== band0 && Math.abs(m.kIndex - k) <= SET_ASIDE_REACH && Math.abs(energy(spin, m.kIndex, m.band0) - eV) <= SET_ASIDE_DEGENERACY_EV);
+  };
   const out: Candidate[] = [];
   const seen = new Set<string>();
   for (const m of marks) {
@@ -39,7 +54,7 @@ export function reachableCandidates(marks: readonly ExtremumMark[], extrema: Ext
   for (let i = 0; i < x.count; i++) {
     const key = `${x.spin[i]}:${x.kIndex[i]}:${x.band0[i]}`;
     if (seen.has(key)) continue;
-    if (setAsideAt(setAside, x.spin[i]!, x.kIndex[i]!, x.band0[i]!)) continue;
+    if (asideNear(x.spin[i]!, x.kIndex[i]!, x.band0[i]!, x.energy[i]!)) continue;
     out.push({ spin: x.spin[i] as 0 | 1, kIndex: x.kIndex[i]!, band0: x.band0[i]!, eV: x.energy[i]!, sign: x.sign[i]!, kind: null });
   }
   return out;

@@ -396,7 +396,7 @@ export class BandViewApp {
 
   private buildCandidates(): void {
     const vm = this.vm!;
-    this.candidates = reachableCandidates(vm.marks, vm.extrema, vm.data.setAside);
+    this.candidates = reachableCandidates(vm.marks, vm.extrema, vm.data.setAside, (s, k, b) => energyAt(vm, s, k, b));
   }
 
   private applyReference(): void {
