@@ -37,6 +37,8 @@ export const HostToViewType = {
   Loading: 'loading',
   /** Loading failed: the sentence to show in place of the plot. */
   LoadFailed: 'loadFailed',
+  /** The review statuses and notes of the annotations file beside the run (after data, and after a save). */
+  Reviews: 'reviews',
 } as const;
 export type HostToViewType = (typeof HostToViewType)[keyof typeof HostToViewType];
 
@@ -253,6 +255,11 @@ export interface FitTarget {
   spin: 0 | 1;
   kIndex: number;
   band0: number;
+  /**
+   * The view names this point as an extremum (a maximum or a minimum): the host fits exactly there and never
+   * moves to another. Absent: the host fits the nearest local extremum of the band.
+   */
+  maximum?: boolean;
 }
 
 // ---------------------------------------------------------------------------------------------------------
@@ -315,7 +322,30 @@ export interface LoadFailedMessage {
   message: string;
 }
 
+/** A reviewed entry of the annotations file, placed on the run's arrays (one per k-point where it sits). */
+export interface ReviewMark {
+  /** The entry's id in the annotations file (kind, spin, band from the edge, valley). */
+  id: string;
+  spin: 0 | 1;
+  kIndex: number;
+  band0: number;
+  /** 'unreviewed', 'accepted', 'questioned', 'rejected' or the reviewer's own word. */
+  status: string;
+  note: string;
+  /** False when the latest analysis no longer finds this extremum (kept in the file as not found). */
+  found: boolean;
+}
+export interface ReviewsMessage {
+  type: typeof HostToViewType.Reviews;
+  /** Name of the annotations file (for the panel), or null when there is none beside the run. */
+  file: string | null;
+  reviews: ReviewMark[];
+  /** Why the file could not be read (refused by the path policy, bad JSON), or null. */
+  problem: string | null;
+}
+
 export type HostToViewMessage =
+  | ReviewsMessage
   | BandDataMessage
   | FitResultMessage
   | WindowScanResultMessage
@@ -435,7 +465,7 @@ function isSpin(x: unknown): x is 0 | 1 {
   return x === 0 || x === 1;
 }
 function isFitTarget(m: Obj): boolean {
-  return isSpin(m.spin) && isIndex(m.kIndex) && isIndex(m.band0);
+  return isSpin(m.spin) && isIndex(m.kIndex) && isIndex(m.band0) && (m.maximum === undefined || typeof m.maximum === 'boolean');
 }
 function onlyKeys(m: Obj, allowed: readonly string[]): boolean {
   for (const k of Object.keys(m)) if (!allowed.includes(k)) return false;
@@ -465,7 +495,7 @@ export function isViewToHostMessage(x: unknown): x is ViewToHostMessage {
       return onlyKeys(m, ['type']);
     case ViewToHostType.RequestFit:
       return (
-        onlyKeys(m, ['type', 'requestId', 'spin', 'kIndex', 'band0', 'window_meV', 'method', 'withScan']) &&
+        onlyKeys(m, ['type', 'requestId', 'spin', 'kIndex', 'band0', 'maximum', 'window_meV', 'method', 'withScan']) &&
         isRequestId(m.requestId) &&
         isFitTarget(m) &&
         isWindow(m.window_meV) &&
@@ -474,7 +504,7 @@ export function isViewToHostMessage(x: unknown): x is ViewToHostMessage {
       );
     case ViewToHostType.RequestWindowScan:
       return (
-        onlyKeys(m, ['type', 'requestId', 'spin', 'kIndex', 'band0', 'method', 'windows_meV']) &&
+        onlyKeys(m, ['type', 'requestId', 'spin', 'kIndex', 'band0', 'maximum', 'method', 'windows_meV']) &&
         isRequestId(m.requestId) &&
         isFitTarget(m) &&
         isMethod(m.method) &&
@@ -489,7 +519,7 @@ export function isViewToHostMessage(x: unknown): x is ViewToHostMessage {
         m.entries.every(
           (e) =>
             isObj(e) &&
-            onlyKeys(e, ['spin', 'kIndex', 'band0', 'window_meV', 'method', 'note']) &&
+            onlyKeys(e, ['spin', 'kIndex', 'band0', 'maximum', 'window_meV', 'method', 'note']) &&
             isFitTarget(e) &&
             isWindow(e.window_meV) &&
             isMethod(e.method) &&

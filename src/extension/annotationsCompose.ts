@@ -1,27 +1,32 @@
 /**
  * The text to save as `<file>.valleys.json`: the fresh analysis (with the fits the reviewer chose in the
  * band view) merged with what the file already holds, so no note, status or hand-added field is lost.
- * Pure; the writer decides how the text reaches the disk.
+ * The chosen fits go through the core's one definition of an annotated extremum (core/annotations/chosenFits:
+ * each entry records its window and method, and `check` redoes exactly that fit). Pure; the writer decides
+ * how the text reaches the disk.
  */
-import type { BandSource, ExtremumReport, Report } from '../core/model';
+import type { BandSource, BandStructure, Report } from '../core/model';
 import type { AnalysisSettings } from '../core/analysis/analyze';
 import { buildAnnotations } from '../core/annotations/buildAnnotations';
+import { chosenFromDoc, withChosenFits, type ChosenExtremum } from '../core/annotations/chosenFits';
 import { mergeAnnotations } from '../core/annotations/mergeAnnotations';
 import { parseAnnotations } from '../core/annotations/parseAnnotations';
 import { serializeAnnotations } from '../core/annotations/serializeAnnotations';
-import { layout1EntryId, type AnnotationsDoc } from '../core/annotations/annotationsModel';
+import { placeKey, type AnnotationsDoc } from '../core/annotations/annotationsModel';
 
-export interface ChosenFit {
-  /** The extremum as the core fitted it with the reviewer's window and method. */
-  extremum: ExtremumReport;
+export interface ChosenFit extends ChosenExtremum {
   note?: string;
 }
 
 export interface ComposeInput {
+  /** The run's bands (the chosen fits are redone on them). */
+  bs: BandStructure;
+  /** The analysis of the run with `settings`. */
   report: Report;
   source: BandSource;
   settings: AnalysisSettings;
   toolVersion: string;
+  /** The extrema the reviewer fitted in the view, with the window and method of each. */
   fits: ChosenFit[];
   /** A note on the run as a whole, typed in the view. */
   runNote?: string;
@@ -49,34 +54,21 @@ export function joinNotes(before: string, now: string | undefined): string {
   return `${before}\n${n}`;
 }
 
-/** The report's extrema with the reviewer's fits in place of the same extremum (same kind, spin, band, k). */
-export function extremaWithFits(report: Report, fits: ChosenFit[]): ExtremumReport[] {
-  const out = [...report.extrema];
-  for (const f of fits) {
-    const id = layout1EntryId(f.extremum);
-    const i = out.findIndex((x) => layout1EntryId(x) === id);
-    // The reviewer's fit keeps the valley the analysis named (the star of k needs the crystal's symmetry).
-    if (i >= 0) out[i] = { ...f.extremum, valley: f.extremum.valley ?? out[i]!.valley };
-    else out.push(f.extremum);
-  }
-  return out;
-}
-
 /** Throws the annotations reader's error (with line and column) when the existing text cannot be read. */
 export function composeAnnotations(input: ComposeInput): Composed {
-  const report: Report = { ...input.report, extrema: extremaWithFits(input.report, input.fits) };
-  let doc = buildAnnotations(report, input.source, input.settings, { toolVersion: input.toolVersion });
   const warnings: string[] = [];
-  if (input.existingText !== null && input.existingText.trim() !== '') {
-    const older = parseAnnotations(input.existingText, input.existingName, warnings);
-    doc = mergeAnnotations(older, doc);
-  }
-  for (const f of input.fits) {
-    // The entry of this very extremum (same kind, spin, band and k; ids name valleys, which is coarser).
-    const id = layout1EntryId(f.extremum);
-    const e = doc.entries.find((x) => layout1EntryId(x) === id);
+  const older =
+    input.existingText !== null && input.existingText.trim() !== '' ? parseAnnotations(input.existingText, input.existingName, warnings) : null;
+  // Fits chosen before (recorded in the file) are redone as recorded; the view's fits come last and win.
+  const before = older ? chosenFromDoc(older, input.bs) : [];
+  const { report, fits, placed } = withChosenFits(input.bs, input.report, input.settings, [...before, ...input.fits]);
+  let doc = buildAnnotations(report, input.source, input.settings, { toolVersion: input.toolVersion, fits });
+  if (older) doc = mergeAnnotations(older, doc);
+  input.fits.forEach((f, i) => {
+    const key = placed[before.length + i]!;
+    const e = doc.entries.find((x) => x.found && placeKey(x) === key);
     if (e) e.note = joinNotes(e.note, f.note);
-  }
+  });
   doc.note = joinNotes(doc.note, input.runNote);
   return {
     text: serializeAnnotations(doc),

@@ -25,6 +25,7 @@ import { bandViewHtml, makeNonce } from './bandViewHtml';
 import { BAND_VIEW_TYPE } from './commandIds';
 import { environmentFor, writeRefusal } from './trust';
 import { saveAnnotations, type SaveOutcome } from './saveAnnotations';
+import { readReviews } from './readReviews';
 import { checkExportBytes } from './exportBytes';
 import { kpointLinesOf } from './kpointLineCache';
 import { CancelledError } from '../core/errors';
@@ -158,6 +159,14 @@ export class BandViewPanel implements vscode.Disposable {
     this.post({ type: HostToViewType.BandData, data, environment });
     // Also as its own message, so controls that depend on it (save) update the same way as on a trust change.
     this.post({ type: HostToViewType.Environment, environment });
+    await this.sendReviews(run);
+  }
+
+  /** The saved review statuses and notes of the annotations file beside the run. */
+  private async sendReviews(run: LoadedRun): Promise<void> {
+    const m = await readReviews(run);
+    if (m.problem) this.deps.log.info(m.problem);
+    this.post(m);
   }
 
   private async receive(raw: unknown): Promise<void> {
@@ -189,7 +198,8 @@ export class BandViewPanel implements vscode.Disposable {
         }
         try {
           const out = this.deps.fits.fit(run, m, m.window_meV, m.method, m.withScan === true);
-          this.post({ type: HostToViewType.FitResult, requestId: m.requestId, target: { spin: m.spin, kIndex: m.kIndex, band0: m.band0 }, ...out });
+          const target = { spin: m.spin, kIndex: m.kIndex, band0: m.band0, ...(typeof m.maximum === 'boolean' ? { maximum: m.maximum } : {}) };
+          this.post({ type: HostToViewType.FitResult, requestId: m.requestId, target, ...out });
         } catch (e) {
           this.post({ type: HostToViewType.RequestFailed, requestId: m.requestId, message: message(e) });
         }
@@ -231,6 +241,7 @@ export class BandViewPanel implements vscode.Disposable {
     if (!run) outcome = { ok: false, message: 'Nothing to save: the run is not loaded.' };
     else outcome = await saveAnnotations(run, m, this.deps);
     this.post({ type: HostToViewType.SaveResult, ok: outcome.ok, message: outcome.message });
+    if (run && outcome.ok) await this.sendReviews(run);
     const p = this.pendingSave;
     this.pendingSave = null;
     if (p) p(outcome);

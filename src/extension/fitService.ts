@@ -54,15 +54,20 @@ function vertices(run: LoadedRun, x: ExtremumReport, kIndex: number, rays: Ray[]
   return dm.fits.map((f) => (f.vertexT !== undefined && f.vertexE !== undefined ? { t: f.vertexT, e: f.vertexE } : null));
 }
 
+/** A target the view names as an extremum is fitted exactly there (never moved to another); else it snaps. */
+function exactAt(t: FitTarget): { maximum: boolean } | undefined {
+  return typeof t.maximum === 'boolean' ? { maximum: t.maximum } : undefined;
+}
+
 export function makeFitService(settings: () => AnalysisSettings): FitService {
   const scan = (run: LoadedRun, t: FitTarget, method: string, windows?: number[]): WindowScanSeries[] => {
     const s = { ...settings(), method: checkedMethod(method) };
-    return scanSeries(massWindowScan(run.bs, t.spin, t.kIndex, t.band0, s, windows));
+    return scanSeries(massWindowScan(run.bs, t.spin, t.kIndex, t.band0, s, windows, exactAt(t)));
   };
   return {
     fit(run, t, window_meV, method, withScan): FitOutcome {
       const s: AnalysisSettings = { ...settings(), window_meV, method: checkedMethod(method) };
-      const extremum = fitExtremumAt(run.bs, t.spin, t.kIndex, t.band0, s);
+      const extremum = fitExtremumAt(run.bs, t.spin, t.kIndex, t.band0, s, exactAt(t));
       const net = engineContext(run.bs).network;
       const kIndex = nearestKIndex(run.bs, extremum.k);
       const rays = net ? net.raysFrom(kIndex) : [];

@@ -39,8 +39,9 @@ export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: Save
   for (const e of m.entries) {
     const problem = targetProblem(run, e);
     if (problem) return { ok: false, message: `Not saved: ${problem}.` };
-    const out = deps.fits.fit(run, e, e.window_meV, e.method, false);
-    fits.push(e.note !== undefined ? { extremum: out.extremum, note: e.note } : { extremum: out.extremum });
+    // Only where and how: the core redoes each fit (chosenFits.ts), exactly as `check` will.
+    const at = { spin: e.spin, kIndex: e.kIndex, band0: e.band0, window_meV: e.window_meV, method: e.method, ...(typeof e.maximum === 'boolean' ? { maximum: e.maximum } : {}) };
+    fits.push(e.note !== undefined ? { ...at, note: e.note } : at);
   }
   const settings = deps.settings().analysis;
   const target = annotationsTarget(run.fileUri);
@@ -49,6 +50,7 @@ export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: Save
     let c: Composed;
     try {
       c = composeAnnotations({
+        bs: run.bs,
         report: run.report,
         source: run.bs.source,
         settings,

@@ -37,7 +37,8 @@ import { FitPanel, kindName } from './fitPanel';
 import { fixed, fracK, sig } from './format';
 import { edgeMarkerPath, isMaximumKind, secondaryMarkerPath } from './markers';
 import { snapToCandidate, SNAP_TOLERANCE_PX, type ScreenCandidate } from './snap';
-import { setAsideAt } from './setAside';
+import { ReviewNote } from './reviewNote';
+import { nextCandidate, reachableCandidates, type ArrowKey, type Candidate } from './keyNavigation';
 import { BAND_VIEW_CSS } from './styles';
 import { fittingLabels } from './tickLabels';
 import { fitsWithin, parseViewState, type BandViewState, type SpinName } from './viewState';
@@ -57,17 +58,6 @@ const MARGIN = { top: 12, right: 14, bottom: 44, left: 58 };
 
 type SpinChoice = SpinName;
 
-/** A reachable extremum: a report mark or a local extremum of a band. */
-interface Candidate {
-  spin: 0 | 1;
-  kIndex: number;
-  band0: number;
-  eV: number;
-  /** +1 maximum, −1 minimum. */
-  sign: number;
-  /** Report kind when this is a report extremum. */
-  kind: string | null;
-}
 
 interface FitState {
   target: FitTarget;
@@ -93,6 +83,7 @@ export class BandViewApp {
   private height = 0;
   private frame = 0;
   private candidates: Candidate[] = [];
+  private readonly review = new ReviewNote();
   private selected: Candidate | null = null;
   private hover: { spin: number; k: number; band0: number } | null = null;
   private fit: FitState | null = null;
@@ -194,6 +185,8 @@ export class BandViewApp {
         if (this.selected) this.requestFit(this.selected, true);
       },
     });
+    // The saved review (status and note) of the fitted extremum, under the panel's title.
+    this.panel.root.firstElementChild?.after(this.review.root);
     main.append(this.plot, this.panel.root);
     this.readout = el('div', 'vs-readout');
     this.readout.id = 'vs-readout';
@@ -308,7 +301,12 @@ export class BandViewApp {
       case HostToViewType.Loading:
         this.showMessage(`Reading ${m.title} …`);
         break;
+      case HostToViewType.Reviews:
+        this.review.setReviews(m);
+        if (this.fit) this.showReview(this.fit.target, this.fit.extremum);
+        break;
       case HostToViewType.LoadFailed:
+        this.review.clear();
         this.vm = null;
         this.fit = null;
         this.selected = null;
@@ -398,22 +396,7 @@ export class BandViewApp {
 
   private buildCandidates(): void {
     const vm = this.vm!;
-    const out: Candidate[] = [];
-    const seen = new Set<string>();
-    for (const m of vm.marks) {
-      const key = `${m.spin}:${m.kIndex}:${m.band0}`;
-      seen.add(key);
-      out.push({ spin: m.spin, kIndex: m.kIndex, band0: m.band0, eV: m.eV, sign: isMaximumKind(m.kind) ? 1 : -1, kind: m.kind });
-    }
-    const x = vm.extrema;
-    for (let i = 0; i < x.count; i++) {
-      const key = `${x.spin[i]}:${x.kIndex[i]}:${x.band0[i]}`;
-      if (seen.has(key)) continue;
-      // Not offered: what the analysis found to be a saddle, a crossing or a rounding artefact.
-      if (setAsideAt(vm.data.setAside, x.spin[i]!, x.kIndex[i]!, x.band0[i]!)) continue;
-      out.push({ spin: x.spin[i] as 0 | 1, kIndex: x.kIndex[i]!, band0: x.band0[i]!, eV: x.energy[i]!, sign: x.sign[i]!, kind: null });
-    }
-    this.candidates = out;
+    this.candidates = reachableCandidates(vm.marks, vm.extrema, vm.data.setAside, (s, k, b) => energyAt(vm, s, k, b));
   }
 
   private applyReference(): void {
@@ -799,45 +782,12 @@ export class BandViewApp {
     }
   }
 
-  /**
-   * Arrow keys: with nothing selected, start at the CBM (Up/Right) or the VBM (Down/Left). Left/Right move
-   * to the previous/next extremum along the path on the same band; Up/Down to the nearest extremum on the
-   * next band above/below.
-   */
+  /** Arrow keys: band edges and the listed extrema first, then the other local extrema (keyNavigation.ts). */
   private neighbourCandidate(key: string): Candidate | null {
     const spins = this.spins();
     const list = this.candidates.filter((c) => spins.includes(c.spin));
-    if (list.length === 0) return null;
-    const cur = this.selected;
-    if (!cur) {
-      const want = key === 'ArrowDown' || key === 'ArrowLeft' ? 'vbm' : 'cbm';
-      return list.find((c) => c.kind === want) ?? list.find((c) => c.kind !== null) ?? list[0]!;
-    }
     const vm = this.vm!;
-    const x0 = vm.distance[cur.kIndex]!;
-    if (key === 'ArrowLeft' || key === 'ArrowRight') {
-      const dir = key === 'ArrowRight' ? 1 : -1;
-      let best: Candidate | null = null;
-      for (const c of list) {
-        if (c.spin !== cur.spin || c.band0 !== cur.band0) continue;
-        const dx = (vm.distance[c.kIndex]! - x0) * dir;
-        const dk = (c.kIndex - cur.kIndex) * dir;
-        if (dx < 0 || (dx === 0 && dk <= 0)) continue;
-        if (!best || (vm.distance[c.kIndex]! - x0) * dir < (vm.distance[best.kIndex]! - x0) * dir) best = c;
-      }
-      return best ?? cur;
-    }
-    // Up/Down: nearest extremum (in x) on the closest band above/below, by band index.
-    const dir = key === 'ArrowUp' ? 1 : -1;
-    for (let b = cur.band0 + dir; b >= 0 && b < vm.nBands; b += dir) {
-      let best: Candidate | null = null;
-      for (const c of list) {
-        if (c.spin !== cur.spin || c.band0 !== b) continue;
-        if (!best || Math.abs(vm.distance[c.kIndex]! - x0) < Math.abs(vm.distance[best.kIndex]! - x0)) best = c;
-      }
-      if (best) return best;
-    }
-    return cur;
+    return nextCandidate(list, this.selected, key as ArrowKey, (k) => vm.distance[k]!);
   }
 
   private ensureVisible(c: Candidate): void {
@@ -850,9 +800,11 @@ export class BandViewApp {
     }
   }
 
-  private requestFit(c: FitTarget & { kind?: string | null }, withScan: boolean): void {
+  private requestFit(c: FitTarget & { kind?: string | null; sign?: number }, withScan: boolean): void {
     const requestId = this.nextRequestId++;
-    const target: FitTarget = { spin: c.spin, kIndex: c.kIndex, band0: c.band0 };
+    // A candidate is an extremum by name (maximum or minimum): the host fits exactly it, never another.
+    const maximum = typeof c.sign === 'number' && c.sign !== 0 ? c.sign > 0 : c.maximum;
+    const target: FitTarget = { spin: c.spin, kIndex: c.kIndex, band0: c.band0, ...(typeof maximum === 'boolean' ? { maximum } : {}) };
     this.latestFitRequest = requestId;
     this.pendingTargets.set(requestId, { target, window_meV: this.window_meV, method: this.method, kind: 'fit' });
     this.panel.showPending(`band ${c.band0 + 1} at k-point ${c.kIndex + 1}`);
@@ -869,6 +821,7 @@ export class BandViewApp {
     if (m.scan) this.scan = m.scan;
     const rel = { value: m.extremum.eV - this.refChoice.offset, zero: this.refChoice.subscript ? `E_${this.refChoice.subscript}` : '' };
     this.panel.showResult(m.extremum, rel, window_meV, method);
+    this.showReview(m.target, m.extremum);
     this.panel.setScan(this.scan, window_meV);
     const key = `${m.target.spin}:${m.target.kIndex}:${m.target.band0}`;
     this.saved.delete(key); // re-inserted last: the state's last fit is the one shown
@@ -876,6 +829,13 @@ export class BandViewApp {
     this.saveViewState();
     this.setStatus(`Fit done: ${kindName(m.extremum.kind)} of band ${m.extremum.band}, ${m.extremum.masses.map((f) => `${f.towards} ${sig(f.mass, 3)} mₑ`).join(', ') || 'no direction fitted'}.`);
     this.schedule();
+  }
+
+  /** The saved review of this extremum (its band or any band of its degenerate group, at its k-point). */
+  private showReview(t: FitTarget, x: ExtremumReport): void {
+    const first = x.band - 1;
+    const bands = [t.band0, ...Array.from({ length: Math.max(1, x.degenerateBands ?? 1) }, (_, i) => first + (x.kind === 'vbm' || x.kind === 'peak' ? -i : i))];
+    this.review.show(t.spin, t.kIndex, bands);
   }
 
   private updateSaveState(): void {

@@ -91,6 +91,10 @@ body.vscode-high-contrast .vs-mark, body.vscode-high-contrast-light .vs-mark { s
 .vs-fit-warnings li { color: var(--vscode-editorWarning-foreground, inherit); }
 .vs-cautions ul { padding-left: 18px; margin: 4px 0; }
 .vs-cautions li { margin-bottom: 4px; font-size: 0.92em; }
+.vs-review { margin: 4px 0 8px; padding: 4px 8px; border-left: 3px solid var(--vscode-textLink-foreground, currentColor); }
+.vs-review p { margin: 2px 0; }
+.vs-review-note { white-space: pre-wrap; }
+.vs-review-problem { color: var(--vscode-editorWarning-foreground, inherit); }
 /* Narrow views (beside a file on a laptop): the side panel goes below the plot, full width. */
 @media (max-width: 900px) {
   .vs-main { flex-direction: column; }

@@ -33,6 +33,7 @@ function saveEntry(x: unknown): SaveEntry | null {
   if (typeof o.method !== 'string' || o.method.length > 40) return null;
   const e: SaveEntry = { spin: o.spin === 1 ? 1 : 0, kIndex: o.kIndex, band0: o.band0, window_meV: o.window_meV, method: o.method };
   if (typeof o.note === 'string') e.note = o.note.slice(0, 10_000);
+  if (typeof o.maximum === 'boolean') e.maximum = o.maximum;
   return e;
 }
 

@@ -5,6 +5,7 @@ import { nodeFileAccessor } from '../nodeFileAccessor';
 import { locateRun, readLocated } from '../../core/load';
 import { analyzeBandStructure, DEFAULT_SETTINGS, type AnalysisSettings } from '../../core/analysis/analyze';
 import { annotationsPathFor, emptyExtra } from '../../core/annotations/annotationsModel';
+import { chosenFromDoc, withChosenFits } from '../../core/annotations/chosenFits';
 import { parseAnnotations } from '../../core/annotations/parseAnnotations';
 import { serializeAnnotations } from '../../core/annotations/serializeAnnotations';
 import { analysisSettingsOf, buildAnnotations } from '../../core/annotations/buildAnnotations';
@@ -147,8 +148,9 @@ export async function annotateOne(
   }
   const { options, sources } = await readOptionsFor(target, readSettings, read.structure);
   const bs = await readLocated(nodeFileAccessor, loc, options);
-  const report = analyzeBandStructure(bs, settings);
-  const fresh = buildAnnotations(report, bs.source, { ...settings, ...readSettings }, { toolVersion: TOOL_VERSION });
+  // Fits a reviewer chose (entries with "fit") are redone with their own window and method, as check does.
+  const { report, fits } = withChosenFits(bs, analyzeBandStructure(bs, settings), settings, older ? chosenFromDoc(older, bs) : []);
+  const fresh = buildAnnotations(report, bs.source, { ...settings, ...readSettings }, { toolVersion: TOOL_VERSION, fits });
   fresh.sources.push(...sources);
   const merged = older ? mergeWithSummary(older, fresh) : null;
   const doc = merged ? merged.doc : fresh;

@@ -6,7 +6,6 @@
 import { flag, numberFlag, parseArgs, UsageError } from '../args';
 import { nodeFileAccessor } from '../nodeFileAccessor';
 import { locateRun, readLocated } from '../../core/load';
-import { analyzeBandStructure } from '../../core/analysis/analyze';
 import { dirname, joinPath } from '../../core/io/fileAccessor';
 import { checkConfined } from '../../core/io/pathPolicy';
 import { READ_LIMITS } from '../../core/io/readLimits';
@@ -14,7 +13,8 @@ import { fsErrorCode, fsErrorSentence } from '../fsErrors';
 import type { InputWarning } from '../../core/model';
 import { dataPathFor, isAnnotationsPath, annotationsPathFor, type AnnotationsDoc } from '../../core/annotations/annotationsModel';
 import { parseAnnotations } from '../../core/annotations/parseAnnotations';
-import { analysisSettingsOf, annotatedSources } from '../../core/annotations/buildAnnotations';
+import { annotatedSources } from '../../core/annotations/buildAnnotations';
+import { reanalyseAsRecorded } from '../../core/annotations/chosenFits';
 import { checkAnnotations, type CheckResult } from '../../core/annotations/checkAnnotations';
 import { DEFAULT_TOLERANCES, type Tolerances } from '../../core/annotations/compareAnnotations';
 import { checkMarkdown } from '../../core/annotations/checkMarkdown';
@@ -133,8 +133,8 @@ export async function checkFile(file: string, tol: Tolerances, root: string | nu
     const loc = await locateRun(nodeFileAccessor, dataFile);
     const { options, sources } = await readOptionsFor(file, doc.settings);
     const bs = await readLocated(nodeFileAccessor, loc, options);
-    const report = analyzeBandStructure(bs, analysisSettingsOf(doc));
-    const result = checkAnnotations(doc, [...annotatedSources(bs.source), ...sources], report, tol);
+    // The recorded settings, and each fit a reviewer chose redone with its own (the one definition of chosenFits.ts).
+    const result = checkAnnotations(doc, [...annotatedSources(bs.source), ...sources], reanalyseAsRecorded(doc, bs), tol);
     return { file, doc, result: await explainUnread(result, file, bs.warnings), error: null };
   } catch (e) {
     if (e instanceof ValleyscopeError) return { file, doc, result: null, error: e.message };

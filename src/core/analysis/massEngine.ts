@@ -438,14 +438,23 @@ function snap(ctx: EngineContext, spin: number, kIndex: number, band: number): {
 
 /**
  * Fit at a clicked point: snaps to the local extremum of band `band0` (0-based) nearest `kIndex`, then
- * characterises it like the analysis does (kind vbm/cbm when it is the edge, else peak/valley).
+ * characterises it like the analysis does (kind vbm/cbm when it is the edge, else peak/valley). With `at`,
+ * the point is taken as the extremum (a maximum or a minimum, as given) without moving.
  */
-export function fitExtremumAt(bs: BandStructure, spin: number, kIndex: number, band0: number, settings: AnalysisSettings): ExtremumReport {
+export function fitExtremumAt(
+  bs: BandStructure,
+  spin: number,
+  kIndex: number,
+  band0: number,
+  settings: AnalysisSettings,
+  at?: { maximum: boolean },
+): ExtremumReport {
   if (!(spin >= 0 && spin < bs.nSpin)) throw new RangeError(`spin ${spin} is not in this band structure`);
   if (!(kIndex >= 0 && kIndex < bs.nk)) throw new RangeError(`k index ${kIndex} is out of range`);
   if (!(band0 >= 0 && band0 < bs.nBands)) throw new RangeError(`band ${band0 + 1} is out of range`);
   const ctx = engineContext(bs);
-  const { k, maximum } = snap(ctx, spin, kIndex, band0);
+  // `at`: the caller names the extremum (a listed one, or one saved before): fit exactly there, never snap.
+  const { k, maximum } = at ? { k: kIndex, maximum: at.maximum } : snap(ctx, spin, kIndex, band0);
   const energy = bs.energies[spin]![k * bs.nBands + band0]!;
   const tol = settings.degeneracy_meV / 1000;
   const group = degenerateGroup(bs, spin, k, band0, tol);

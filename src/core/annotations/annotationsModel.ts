@@ -147,6 +147,12 @@ export interface AnnotatedEntry {
   dosMass: number | null;
   conductivityMass: number | null;
   warnings: string[];
+  /**
+   * The window and method a reviewer chose for this extremum (in the band view), when its numbers come from
+   * that fit rather than from the run's settings; every re-analysis (check, annotate, the next save) redoes
+   * it at this band and k (chosenFits.ts). Null for the analysis's own fits.
+   */
+  fit: { window_meV: number; method: string; extra: ExtraFields } | null;
   extra: ExtraFields;
 }
 
@@ -219,6 +225,11 @@ export function entryId(e: EntryIdentity): string {
   const spin = spinName(e.spin, e.spinPolarised);
   const band = e.edgeBand !== null ? `e${e.edgeBand}` : `b${e.band}`;
   return `${e.kind}/${spin ? `${spin}/` : ''}${band}/v=${e.valley.map(idNumber).join(',')}`;
+}
+
+/** Identity of a place in the bands, without kind or valley: spin, 1-based band as reported, k (6 decimals). */
+export function placeKey(x: { spin: number; band: number; k: readonly number[] }): string {
+  return `${x.spin}/${x.band}/${x.k.map((v) => Number(v.toFixed(6))).join(',')}`;
 }
 
 /** Layout-1 identity (kind, spin number, absolute band, k): only to recognise ids written by older files. */

@@ -9,6 +9,7 @@ import {
   ANNOTATIONS_LAYOUT_VERSION,
   emptyExtra,
   entryId,
+  placeKey,
   type AnnotatedEntry,
   type AnnotatedGap,
   type AnnotatedMass,
@@ -22,6 +23,7 @@ import { sortEntries } from './serializeAnnotations';
 import { mergeAnnotations } from './mergeAnnotations';
 import { valleyRepresentative } from '../lattice/valleyIdentity';
 import { methodId } from '../analysis/methods';
+import type { FitChoice } from './chosenFits';
 
 export interface RecordedSettings extends AnalysisSettings {
   /** The run was read as spin-orbit because the user asked (`--soc`), not because its files say so. */
@@ -37,6 +39,8 @@ export interface BuildOptions {
   toolVersion: string;
   /** The document already beside the data, if any: the result is then merged with it (mergeAnnotations). */
   existing?: AnnotationsDoc | null;
+  /** The fits a reviewer chose (withChosenFits), recorded on their entries as `fit`. */
+  fits?: ReadonlyMap<string, FitChoice>;
 }
 
 function splitPath(p: string): string[] {
@@ -181,6 +185,7 @@ function blankEntry(p: BandPoint, kind: AnnotatedEntry['kind'], edges: EdgeBands
     dosMass: null,
     conductivityMass: null,
     warnings: [],
+    fit: null,
     extra: emptyExtra(),
   };
   e.id = entryId(e);
@@ -201,12 +206,14 @@ function entryFromExtremum(x: ExtremumReport, edges: EdgeBands): AnnotatedEntry 
   return e;
 }
 
-/** The entries a report gives, in file order, without notes. */
-export function entriesFromReport(report: Report): AnnotatedEntry[] {
+/** The entries a report gives, in file order, without notes; chosen fits carry their settings. */
+export function entriesFromReport(report: Report, fits?: ReadonlyMap<string, FitChoice>): AnnotatedEntry[] {
   const out = new Map<string, AnnotatedEntry>();
   const edges = edgeBandsOf(report);
   for (const x of report.extrema) {
     const e = entryFromExtremum(x, edges);
+    const f = fits?.get(placeKey(x));
+    if (f) e.fit = { window_meV: f.window_meV, method: f.method, extra: emptyExtra() };
     if (!out.has(e.id)) out.set(e.id, e);
   }
   if (report.gap) {
@@ -259,7 +266,7 @@ export function buildAnnotations(report: Report, source: BandSource, settings: R
     metal: report.metal,
     gap: gap(report.gap),
     note: '',
-    entries: entriesFromReport(report),
+    entries: entriesFromReport(report, options.fits),
     warnings: report.warnings.map((w) => withoutFolder(dir, w)),
     cautions: [...report.cautions],
     extra: emptyExtra(),

@@ -10,6 +10,7 @@
 import type { Report } from '../model';
 import type { AnnotationsDoc } from './annotationsModel';
 import { buildAnnotations } from './buildAnnotations';
+import type { AnnotatedReport } from './chosenFits';
 import { compareResults, compareSources, DEFAULT_TOLERANCES, type AnnotationChange, type Tolerances } from './compareAnnotations';
 
 export interface CurrentSource {
@@ -28,22 +29,25 @@ export interface CheckResult {
 
 /**
  * `currentSources`: the files the run is read from now, with the SHA-256 of their bytes now (see
- * annotatedSources). `freshReport`: the analysis of the data now, made with the settings the document
- * records (analysisSettingsOf(doc)).
+ * annotatedSources). `fresh`: the analysis of the data now as the document records it
+ * (reanalyseAsRecorded(doc, bs): its settings, and its chosen fits redone), or a bare Report made with the
+ * recorded settings (then entries with a chosen fit are compared with the analysis's own fit).
  */
 export function checkAnnotations(
   doc: AnnotationsDoc,
   currentSources: readonly CurrentSource[],
-  freshReport: Report,
+  fresh: Report | AnnotatedReport,
   tolerances: Tolerances = DEFAULT_TOLERANCES,
 ): CheckResult {
   const stale = compareSources(doc.sources, currentSources);
-  const fresh = buildAnnotations(
+  const freshReport = 'report' in fresh && 'fits' in fresh ? fresh.report : (fresh as Report);
+  const fits = 'fits' in fresh && fresh.fits instanceof Map ? fresh.fits : undefined;
+  const rebuilt = buildAnnotations(
     freshReport,
     { format: doc.format, file: freshReport.file, files: [] },
     { ...doc.settings },
-    { toolVersion: doc.toolVersion },
+    { toolVersion: doc.toolVersion, ...(fits ? { fits } : {}) },
   );
-  const drifted = compareResults(doc, fresh, tolerances);
+  const drifted = compareResults(doc, rebuilt, tolerances);
   return { ok: stale.length === 0 && drifted.length === 0, stale, drifted };
 }

@@ -282,9 +282,21 @@ function readTensor(w: Walker, n: JsonNode | undefined, what: string): Annotated
   };
 }
 
+/** A reviewer's fit settings for one entry; null when absent. The window must be a positive number of meV. */
+function readFit(w: Walker, n: JsonNode | undefined, what: string): AnnotatedEntry['fit'] {
+  if (n === undefined || n.type === 'null') return null;
+  const o = w.obj(n, what);
+  const f = w.fields(o, ['window_meV', 'method']);
+  return {
+    window_meV: w.num(need(w, o, f.get('window_meV'), `${what}.window_meV`), `${what}.window_meV`, (x) => x > 0 && x <= 1e5, 'a positive number of meV'),
+    method: w.str(need(w, o, f.get('method'), `${what}.method`), `${what}.method`),
+    extra: f.extra,
+  };
+}
+
 const ENTRY_KEYS = [
   'id', 'status', 'note', 'found', 'kind', 'spin', 'edgeBand', 'band', 'valley', 'k', 'label', 'energy_eV', 'offset_eV', 'degenerateBands',
-  'valleyDegeneracy', 'masses', 'tensor', 'dosMass', 'conductivityMass', 'warnings',
+  'valleyDegeneracy', 'masses', 'tensor', 'dosMass', 'conductivityMass', 'warnings', 'fit',
 ];
 
 /** What an entry's identity needs from the rest of the file. */
@@ -327,6 +339,7 @@ function readEntry(w: Walker, n: JsonNode, what: string, ctx: EntryContext): Ann
     dosMass: w.numOrNull(f.get('dosMass'), `${what}.dosMass`),
     conductivityMass: w.numOrNull(f.get('conductivityMass'), `${what}.conductivityMass`),
     warnings: w.strings(f.get('warnings'), `${what}.warnings`),
+    fit: readFit(w, f.get('fit'), `${what}.fit`),
     extra: f.extra,
   };
   // Layout 2 writes the band counted from the edge and the valley; layout 1 did not: derive them (from the

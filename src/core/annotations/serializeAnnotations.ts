@@ -137,6 +137,16 @@ function tensorOut(t: AnnotatedTensor | null): Out {
   );
 }
 
+function fitOut(f: NonNullable<AnnotatedEntry['fit']>): Out {
+  return withExtra(
+    [
+      ['window_meV', num(f.window_meV, 'meV')],
+      ['method', str(f.method)],
+    ],
+    f.extra,
+  );
+}
+
 function entryOut(e: AnnotatedEntry): Out {
   return withExtra(
     [
@@ -160,6 +170,7 @@ function entryOut(e: AnnotatedEntry): Out {
       ['dosMass', numOrNull(e.dosMass, 'mass')],
       ['conductivityMass', numOrNull(e.conductivityMass, 'mass')],
       ['warnings', strs(e.warnings)],
+      ...(e.fit === null ? [] : [['fit', fitOut(e.fit)] as [string, Out]]),
     ],
     e.extra,
   );

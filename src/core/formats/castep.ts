@@ -22,7 +22,8 @@ import type { BandStructure, InputWarning, Mat3 } from '../model';
 import type { InputFile } from '../io/fileAccessor';
 import type { FormatReader, ReadOptions } from './types';
 import { sha256Hex } from '../hash';
-import { CancelledError } from '../errors';
+import { CancelledError, ReaderError } from '../errors';
+import { endsOnThisLine } from './cutAtEnd';
 import { checkAnnouncedCount } from './announcedCount';
 import { TextScanner, decodeText } from './textScanner';
 import { bohrToAngstrom, hartreeToEv } from '../units';
@@ -116,47 +117,63 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
       }
       throw sc.error(`the file ends after ${n} of the ${nkAnnounced} k-points its header announces (it is truncated, or the run is still writing it)`);
     }
-    const kLine = sc.line;
-    const word = sc.token();
-    if (word === null || word.toLowerCase() !== 'k-point') throw sc.error(`expected "K-point" starting the block of k-point ${n + 1}, found "${word ?? 'the end of the line'}"`, kLine, 1);
-    const index = sc.integer('the k-point index');
-    if (index < 1 || index > nkAnnounced) throw sc.error(`k-point index ${index} is outside 1…${nkAnnounced}`, kLine, 0);
-    if (index > maxK) throw sc.error(`k-point index ${index} cannot fit in what remains of the file (it is truncated)`, kLine, 0);
-    if (seen[index - 1]) throw sc.error(`k-point ${index} appears twice`, kLine, 0);
-    const k = index - 1;
-    const kx = sc.number(`the first coordinate of k-point ${index}`);
-    const ky = sc.number(`the second coordinate of k-point ${index}`);
-    const kz = sc.number(`the third coordinate of k-point ${index}`);
-    const w = sc.number(`the weight of k-point ${index}`);
-    sc.endLine(`the weight of k-point ${index}`);
     let complete = true;
-    for (let s = 0; s < nSpin && complete; s++) {
-      sc.skipBlankLines();
-      if (sc.atEnd()) {
-        if (options.allowPartial) {
-          complete = false;
-          break;
-        }
-        throw sc.error(`the file ends inside k-point ${index} before spin component ${s + 1} (it is truncated)`);
-      }
-      expectWords(sc, ['Spin', 'component'], `Spin component ${s + 1}`);
-      const sLine = sc.line;
-      const sIdx = sc.integer('the spin component');
-      if (sIdx !== s + 1) throw sc.error(`expected spin component ${s + 1} of k-point ${index}, found ${sIdx}`, sLine, 0);
-      sc.endLine('the spin component');
-      const e = energies[s]!;
-      for (let b = 0; b < nBands; b++) {
+    let k = 0;
+    let kx = 0;
+    let ky = 0;
+    let kz = 0;
+    let w = 0;
+    try {
+      const kLine = sc.line;
+      const word = sc.token();
+      if (word === null || word.toLowerCase() !== 'k-point') throw sc.error(`expected "K-point" starting the block of k-point ${n + 1}, found "${word ?? 'the end of the line'}"`, kLine, 1);
+      const index = sc.integer('the k-point index');
+      if (index < 1 || index > nkAnnounced) throw sc.error(`k-point index ${index} is outside 1…${nkAnnounced}`, kLine, 0);
+      if (index > maxK) throw sc.error(`k-point index ${index} cannot fit in what remains of the file (it is truncated)`, kLine, 0);
+      if (seen[index - 1]) throw sc.error(`k-point ${index} appears twice`, kLine, 0);
+      k = index - 1;
+      kx = sc.number(`the first coordinate of k-point ${index}`);
+      ky = sc.number(`the second coordinate of k-point ${index}`);
+      kz = sc.number(`the third coordinate of k-point ${index}`);
+      w = sc.number(`the weight of k-point ${index}`);
+      sc.endLine(`the weight of k-point ${index}`);
+      for (let s = 0; s < nSpin && complete; s++) {
         sc.skipBlankLines();
         if (sc.atEnd()) {
           if (options.allowPartial) {
             complete = false;
             break;
           }
-          throw sc.error(`the file ends inside k-point ${index}, spin ${s + 1}, after ${b} of ${nBands} eigenvalues (it is truncated)`);
+          throw sc.error(`the file ends inside k-point ${index} before spin component ${s + 1} (it is truncated)`);
         }
-        e[k * nBands + b] = hartreeToEv(sc.number(`eigenvalue ${b + 1} of k-point ${index}${nSpin === 2 ? `, spin ${s + 1}` : ''}`));
-        sc.endLine(`eigenvalue ${b + 1} of k-point ${index}`);
+        expectWords(sc, ['Spin', 'component'], `Spin component ${s + 1}`);
+        const sLine = sc.line;
+        const sIdx = sc.integer('the spin component');
+        if (sIdx !== s + 1) throw sc.error(`expected spin component ${s + 1} of k-point ${index}, found ${sIdx}`, sLine, 0);
+        sc.endLine('the spin component');
+        const e = energies[s]!;
+        for (let b = 0; b < nBands; b++) {
+          sc.skipBlankLines();
+          if (sc.atEnd()) {
+            if (options.allowPartial) {
+              complete = false;
+              break;
+            }
+            throw sc.error(`the file ends inside k-point ${index}, spin ${s + 1}, after ${b} of ${nBands} eigenvalues (it is truncated)`);
+          }
+          e[k * nBands + b] = hartreeToEv(sc.number(`eigenvalue ${b + 1} of k-point ${index}${nSpin === 2 ? `, spin ${s + 1}` : ''}`));
+          if (!sc.atEol()) sc.endLine(`eigenvalue ${b + 1} of k-point ${index}`);
+          // A last line without its newline may have been cut inside a number: not trusted in a file still being written.
+          else if (!sc.nextLine() && options.allowPartial && !(n === nkAnnounced - 1 && s === nSpin - 1 && b === nBands - 1)) {
+            complete = false;
+            break;
+          }
+        }
       }
+    } catch (e) {
+      // Cut inside this k-point's block (a running job, a copy cut short): keep the complete k-points before it.
+      if (!(options.allowPartial && n > 0 && e instanceof ReaderError && endsOnThisLine(sc))) throw e;
+      complete = false;
     }
     if (!complete) {
       partial = true;

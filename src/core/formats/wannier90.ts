@@ -17,6 +17,7 @@ import { sha256Hex } from '../hash';
 import { CancelledError, ReaderError } from '../errors';
 import { checkAnnouncedCount } from './announcedCount';
 import { TextScanner, decodeText } from './textScanner';
+import { endsOnThisLine } from './cutAtEnd';
 import { DoubleBuffer } from './doubleBuffer';
 import { BOHR_ANGSTROM } from '../units';
 import { det3, mat3Inverse, mulVecMat } from '../lattice/linalg';
@@ -45,12 +46,19 @@ export function readBandDat(file: InputFile, options: ReadOptions = {}): BandDat
   let inBlock = 0;
   let band = 0;
   let lines = 0;
+  /** The file ends on a line without its newline (or inside a line): its last value may be cut. */
+  let cutLastLine = false;
   while (!sc.atEnd()) {
     if ((++lines & 0xffff) === 0) {
       if (options.isCancelled?.()) throw new CancelledError();
       options.onProgress?.(sc.pos / file.bytes.length);
     }
     if (sc.lineIsBlank()) {
+      // Spaces at the very end without a newline are the start of a line cut short, not the record that closes a band.
+      if (!sc.nextLine()) {
+        cutLastLine = true;
+        break;
+      }
       if (inBlock > 0) {
         if (nk < 0) nk = inBlock;
         else if (inBlock !== nk) {
@@ -59,12 +67,21 @@ export function readBandDat(file: InputFile, options: ReadOptions = {}): BandDat
         band++;
         inBlock = 0;
       }
-      sc.nextLine();
       continue;
     }
-    const d = sc.number(`the path distance (band ${band + 1}, point ${inBlock + 1})`);
-    const en = sc.number(`the energy (band ${band + 1}, point ${inBlock + 1})`);
-    sc.endLine(`the energy of band ${band + 1}, point ${inBlock + 1}`);
+    let d: number;
+    let en: number;
+    try {
+      d = sc.number(`the path distance (band ${band + 1}, point ${inBlock + 1})`);
+      en = sc.number(`the energy (band ${band + 1}, point ${inBlock + 1})`);
+      if (!sc.atEol()) sc.endLine(`the energy of band ${band + 1}, point ${inBlock + 1}`);
+      else if (!sc.nextLine()) cutLastLine = true;
+    } catch (err) {
+      // Cut inside this line (a running job, a copy cut short): the bands before it are kept, this one dropped.
+      if (!(options.allowPartial && band > 0 && err instanceof ReaderError && endsOnThisLine(sc))) throw err;
+      cutLastLine = true;
+      break;
+    }
     if (band === 0) x.push(d);
     else if (inBlock < nk) {
       const ref = x.data[inBlock]!;
@@ -81,7 +98,8 @@ export function readBandDat(file: InputFile, options: ReadOptions = {}): BandDat
   // accepted without it (other writers omit it); a lone band without it, or a shorter one, was cut short.
   let partial = false;
   if (inBlock > 0) {
-    if (band > 0 && inBlock === nk) band++;
+    // A last line without its newline may have been cut inside a number: not trusted in a file still being written.
+    if (band > 0 && inBlock === nk && !(cutLastLine && options.allowPartial)) band++;
     else if (options.allowPartial && band > 0) partial = true;
     else {
       throw sc.error(
@@ -93,6 +111,7 @@ export function readBandDat(file: InputFile, options: ReadOptions = {}): BandDat
       );
     }
   }
+  if (inBlock === 0 && cutLastLine && options.allowPartial && band > 0) partial = true;
   if (nk <= 0 || band === 0) throw sc.error('the file holds no complete band');
   options.onProgress?.(1);
   return { nk, nBands: band, distance: x.toArray(), energies: transposeBands(e.data, band, nk), partial };

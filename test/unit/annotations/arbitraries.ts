@@ -98,6 +98,7 @@ export const entryArb: fc.Arbitrary<AnnotatedEntry> = fc
     tensor: fc.option(tensorArb, { nil: null }),
     dosMass: fc.option(finite(0.001, 50), { nil: null }),
     conductivityMass: fc.option(finite(0.001, 50), { nil: null }),
+    fit: fc.option(fc.record({ window_meV: finite(1, 500), method: fc.constantFrom('parabola', 'central-2', 'poly4', 'kane'), extra: extraArb }), { nil: null }),
     warnings: fc.array(text, { maxLength: 2 }),
     extra: extraArb,
   })

@@ -1,5 +1,5 @@
 import assert from 'node:assert/strict';
-import { composeAnnotations, joinNotes, extremaWithFits } from '../../../src/extension/annotationsCompose';
+import { composeAnnotations, joinNotes } from '../../../src/extension/annotationsCompose';
 import { parseAnnotations } from '../../../src/core/annotations/parseAnnotations';
 import { ReaderError } from '../../../src/core/errors';
 import { DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
@@ -9,7 +9,7 @@ import { loadSi } from './demoRun';
 
 async function base() {
   const si = await loadSi();
-  const input = { report: si.report, source: si.bs.source, settings: DEFAULT_SETTINGS, toolVersion: '0.1.0', fits: [], existingText: null, existingName: 'EIGENVAL.valleys.json' };
+  const input = { bs: si.bs, report: si.report, source: si.bs.source, settings: DEFAULT_SETTINGS, toolVersion: '0.1.0', fits: [], existingText: null, existingName: 'EIGENVAL.valleys.json' };
   return { si, input };
 }
 
@@ -42,8 +42,7 @@ describe('extension: composing the annotations file', () => {
     cbmJson.myFlag = true;
     const existingText = JSON.stringify(first, null, 2);
     const b = nearestKIndex(si.bs, si.report.gap!.cbm.k);
-    const fit = fitExtremumAt(si.bs, 0, b, 4, { ...DEFAULT_SETTINGS, window_meV: 50 });
-    const c = composeAnnotations({ ...input, existingText, fits: [{ extremum: fit, note: 'Refit with 50 meV.' }], runNote: 'Gap checked.' });
+    const c = composeAnnotations({ ...input, existingText, fits: [{ spin: 0, kIndex: b, band0: 4, window_meV: 50, method: DEFAULT_SETTINGS.method, note: 'Refit with 50 meV.' }], runNote: 'Gap checked.' });
     const doc = parseAnnotations(c.text, 'x');
     assert.equal(doc.note, 'Reviewed on the cluster.\nGap checked.');
     assert.equal(doc.extra.reviewedBy, 'A. Reviewer');
@@ -84,15 +83,19 @@ describe('extension: composing the annotations file', () => {
     );
   });
 
-  it('puts a view fit in place of the same extremum, or adds it', async () => {
-    const { si } = await base();
+  it('puts a view fit in place of the same extremum, recording its window and method on the entry', async () => {
+    const { si, input } = await base();
     const b = nearestKIndex(si.bs, si.report.gap!.cbm.k);
     const fit = fitExtremumAt(si.bs, 0, b, 4, { ...DEFAULT_SETTINGS, window_meV: 40 });
-    const out = extremaWithFits(si.report, [{ extremum: fit }]);
-    assert.equal(out.length, si.report.extrema.length);
-    const cbm = out.find((x) => x.kind === 'cbm')!;
-    // The view's fit, with the valley name the analysis gave this extremum (the star of k needs the symmetry).
-    assert.deepEqual(cbm, { ...fit, valley: si.report.extrema.find((x) => x.kind === 'cbm')!.valley });
+    const c = composeAnnotations({ ...input, fits: [{ spin: 0, kIndex: b, band0: 4, window_meV: 40, method: DEFAULT_SETTINGS.method }] });
+    assert.equal(c.doc.entries.length, si.report.extrema.length);
+    const cbm = c.doc.entries.find((x) => x.kind === 'cbm')!;
+    // The same fit as the engine's at this point, under the valley the analysis gave this extremum.
+    assert.deepEqual(cbm.masses.map((m) => m.mass), fit.masses.map((m) => m.mass));
+    assert.deepEqual(cbm.valley, si.report.extrema.find((x) => x.kind === 'cbm')!.valley);
+    assert.equal(cbm.fit?.window_meV, 40);
+    assert.equal(cbm.fit?.method, DEFAULT_SETTINGS.method);
+    assert.ok(c.doc.entries.filter((x) => x.kind !== 'cbm').every((x) => x.fit === null), 'only the chosen entry records a fit');
   });
 
   it('joins notes without losing or repeating what was written', () => {

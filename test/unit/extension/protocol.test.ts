@@ -19,6 +19,8 @@ describe('protocol: validation of messages from the webview', () => {
       { type: 'ready' },
       fit,
       { ...fit, withScan: true },
+      { ...fit, maximum: false },
+      { type: 'save', entries: [{ spin: 0, kIndex: 3, band0: 4, maximum: true, window_meV: 30, method: 'poly4' }] },
       { type: 'requestWindowScan', requestId: 1, spin: 1, kIndex: 0, band0: 0, method: 'kane' },
       { type: 'requestWindowScan', requestId: 1, spin: 0, kIndex: 0, band0: 0, method: 'fd5', windows_meV: [10, 20, 40] },
       { type: 'save', entries: [] },
@@ -47,6 +49,7 @@ describe('protocol: validation of messages from the webview', () => {
       { type: 'ready', extra: 1 },
       { type: 'bandData' }, // a host-to-view type sent the wrong way
       { ...fit, spin: 2 },
+      { ...fit, maximum: 'yes' },
       { ...fit, spin: '0' },
       { ...fit, kIndex: -1 },
       { ...fit, kIndex: 1.5 },

@@ -10,8 +10,9 @@
  *   then per k-point: a blank line, "kx ky kz weight", NBANDS lines "index E [E_down] [occ [occ_down]]"
  */
 import type { InputFile } from '../../io/fileAccessor';
-import { CancelledError } from '../../errors';
+import { CancelledError, ReaderError } from '../../errors';
 import { POW10, TextScanner } from '../textScanner';
+import { endsOnThisLine } from '../cutAtEnd';
 import { createSha256, sha256Hex } from '../../hash';
 import type { ReadOptions } from '../types';
 
@@ -99,72 +100,89 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
         `the file ends after ${k} of ${nkAnnounced} k-points (it is truncated, or the run is still writing it)`,
       );
     }
-    const kx = sc.number(() => `the first coordinate of k-point ${k + 1}`);
-    const ky = sc.number(() => `the second coordinate of k-point ${k + 1}`);
-    const kz = sc.number(() => `the third coordinate of k-point ${k + 1}`);
-    const w = sc.number(() => `the weight of k-point ${k + 1}`);
-    sc.endLine(`the weight of k-point ${k + 1}`);
-    const base = k * nBands;
     let complete = true;
-    for (let b = 0; b < nBands; b++) {
-      if (columns > 0 && fastBandLine(sc, b + 1, values, columns - 1)) {
-        for (let s = 0; s < ispin; s++) energies[s]![base + b] = values[s]!;
-        if (occupations) for (let s = 0; s < ispin; s++) occupations[s]![base + b] = values[ispin + s]!;
-        continue;
-      }
-      if (sc.atEnd()) {
-        if (options.allowPartial) {
+    let kx = 0;
+    let ky = 0;
+    let kz = 0;
+    let w = 0;
+    try {
+      kx = sc.number(() => `the first coordinate of k-point ${k + 1}`);
+      ky = sc.number(() => `the second coordinate of k-point ${k + 1}`);
+      kz = sc.number(() => `the third coordinate of k-point ${k + 1}`);
+      w = sc.number(() => `the weight of k-point ${k + 1}`);
+      sc.endLine(`the weight of k-point ${k + 1}`);
+      const base = k * nBands;
+      for (let b = 0; b < nBands; b++) {
+        if (columns > 0 && fastBandLine(sc, b + 1, values, columns - 1)) {
+          for (let s = 0; s < ispin; s++) energies[s]![base + b] = values[s]!;
+          if (occupations) for (let s = 0; s < ispin; s++) occupations[s]![base + b] = values[ispin + s]!;
+          continue;
+        }
+        if (sc.atEnd()) {
+          if (options.allowPartial) {
+            complete = false;
+            break;
+          }
+          throw sc.error(
+            `the file ends inside k-point ${k + 1} of ${nkAnnounced}, after ${b} of ${nBands} bands (it is truncated, or the run is still writing it)`,
+          );
+        }
+        const lineNo = sc.line;
+        const idx = sc.tryNumberAfterSpaces() ?? bandIndexError(sc, k, b, nBands);
+        if (idx !== b + 1) {
+          // Band 1 again: the next k-point began early, so the header's NBANDS is wrong. Any other index: this line.
+          throw sc.error(
+            idx === 1 && b > 0
+              ? `expected band ${b + 1} of k-point ${k + 1}, found band index ${idx}: the header's NBANDS (${nBands}) does not match the data`
+              : `band line ${b + 1} of k-point ${k + 1} has the band index ${idx}, expected ${b + 1}: the line is damaged or out of order`,
+            lineNo,
+            1,
+          );
+        }
+        if (columns < 0) {
+          const save = sc.pos;
+          let c = 1;
+          while (!sc.atEol()) {
+            if (sc.tryNumber() === null) sc.token();
+            c++;
+          }
+          sc.pos = save;
+          columns = c;
+          const expectOcc = ispin === 1 ? 3 : 5;
+          const expectNoOcc = ispin === 1 ? 2 : 3;
+          if (columns !== expectOcc && columns !== expectNoOcc) {
+            throw sc.error(
+              `a band line has ${columns} columns; with ISPIN = ${ispin} expected ${expectNoOcc} (index, energies) or ${expectOcc} (with occupations)`,
+            );
+          }
+          if (columns === expectOcc) {
+            occupations = [];
+            for (let s = 0; s < ispin; s++) occupations.push(new Float32Array(maxK * nBands));
+          }
+        }
+        for (let s = 0; s < ispin; s++) {
+          const v = sc.tryNumberAfterSpaces();
+          energies[s]![base + b] = v ?? valueError(sc, 'the energy', k, b, ispin === 2 ? s : -1);
+        }
+        if (occupations) {
+          for (let s = 0; s < ispin; s++) {
+            const v = sc.tryNumberAfterSpaces();
+            occupations[s]![base + b] = v ?? valueError(sc, 'the occupation', k, b, ispin === 2 ? s : -1);
+          }
+        }
+        if (!sc.atEol()) {
+          throw sc.error(`band ${b + 1} of k-point ${k + 1} has more columns than the first band line (${columns}): "${sc.peekToken()}"`);
+        }
+        // A last line without its newline may have been cut inside a number: not trusted in a file still being written.
+        if (!sc.nextLine() && options.allowPartial && !(k === nkAnnounced - 1 && b === nBands - 1)) {
           complete = false;
           break;
         }
-        throw sc.error(
-          `the file ends inside k-point ${k + 1} of ${nkAnnounced}, after ${b} of ${nBands} bands (it is truncated, or the run is still writing it)`,
-        );
       }
-      const lineNo = sc.line;
-      const idx = sc.tryNumberAfterSpaces() ?? bandIndexError(sc, k, b, nBands);
-      if (idx !== b + 1) {
-        throw sc.error(
-          `expected band ${b + 1} of k-point ${k + 1}, found band index ${idx}: the header's NBANDS (${nBands}) does not match the data`,
-          lineNo,
-          1,
-        );
-      }
-      if (columns < 0) {
-        const save = sc.pos;
-        let c = 1;
-        while (!sc.atEol()) {
-          if (sc.tryNumber() === null) sc.token();
-          c++;
-        }
-        sc.pos = save;
-        columns = c;
-        const expectOcc = ispin === 1 ? 3 : 5;
-        const expectNoOcc = ispin === 1 ? 2 : 3;
-        if (columns !== expectOcc && columns !== expectNoOcc) {
-          throw sc.error(
-            `a band line has ${columns} columns; with ISPIN = ${ispin} expected ${expectNoOcc} (index, energies) or ${expectOcc} (with occupations)`,
-          );
-        }
-        if (columns === expectOcc) {
-          occupations = [];
-          for (let s = 0; s < ispin; s++) occupations.push(new Float32Array(maxK * nBands));
-        }
-      }
-      for (let s = 0; s < ispin; s++) {
-        const v = sc.tryNumberAfterSpaces();
-        energies[s]![base + b] = v ?? valueError(sc, 'the energy', k, b, ispin === 2 ? s : -1);
-      }
-      if (occupations) {
-        for (let s = 0; s < ispin; s++) {
-          const v = sc.tryNumberAfterSpaces();
-          occupations[s]![base + b] = v ?? valueError(sc, 'the occupation', k, b, ispin === 2 ? s : -1);
-        }
-      }
-      if (!sc.atEol()) {
-        throw sc.error(`band ${b + 1} of k-point ${k + 1} has more columns than the first band line (${columns}): "${sc.peekToken()}"`);
-      }
-      sc.nextLine();
+    } catch (e) {
+      // Cut inside this k-point's block (a running job, a copy cut short): keep the complete k-points before it.
+      if (!(options.allowPartial && k > 0 && e instanceof ReaderError && endsOnThisLine(sc))) throw e;
+      complete = false;
     }
     if (!complete) break;
     kpoints[3 * k] = kx;
