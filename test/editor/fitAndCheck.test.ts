@@ -12,7 +12,7 @@ import { spawnSync } from 'node:child_process';
 import { join } from 'node:path';
 import type { FrameLocator } from 'playwright-core';
 import { EditorSession, waitFor } from './support/editorSession';
-import { fitKind, massRows, waitForBandView } from './support/bandViewDriver';
+import { massRows, waitForBandView } from './support/bandViewDriver';
 import { cliAnalyze } from './support/reference';
 
 const repo = (...p: string[]): string => join(__dirname, '..', '..', ...p);

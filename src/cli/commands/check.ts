@@ -14,7 +14,7 @@ import type { InputWarning } from '../../core/model';
 import { dataPathFor, isAnnotationsPath, annotationsPathFor, type AnnotationsDoc } from '../../core/annotations/annotationsModel';
 import { parseAnnotations } from '../../core/annotations/parseAnnotations';
 import { annotatedSources } from '../../core/annotations/buildAnnotations';
-import { reanalyseAsRecorded } from '../../core/annotations/chosenFits';
+import { reanalyzeAsRecorded } from '../../core/annotations/chosenFits';
 import { checkAnnotations, type CheckResult } from '../../core/annotations/checkAnnotations';
 import { DEFAULT_TOLERANCES, type Tolerances } from '../../core/annotations/compareAnnotations';
 import { checkMarkdown } from '../../core/annotations/checkMarkdown';
@@ -134,7 +134,7 @@ export async function checkFile(file: string, tol: Tolerances, root: string | nu
     const { options, sources } = await readOptionsFor(file, doc.settings);
     const bs = await readLocated(nodeFileAccessor, loc, options);
     // The recorded settings, and each fit a reviewer chose redone with its own (the one definition of chosenFits.ts).
-    const result = checkAnnotations(doc, [...annotatedSources(bs.source), ...sources], reanalyseAsRecorded(doc, bs), tol);
+    const result = checkAnnotations(doc, [...annotatedSources(bs.source), ...sources], reanalyzeAsRecorded(doc, bs), tol);
     return { file, doc, result: await explainUnread(result, file, bs.warnings), error: null };
   } catch (e) {
     if (e instanceof ValleyscopeError) return { file, doc, result: null, error: e.message };

@@ -30,7 +30,7 @@ export interface CheckResult {
 /**
  * `currentSources`: the files the run is read from now, with the SHA-256 of their bytes now (see
  * annotatedSources). `fresh`: the analysis of the data now as the document records it
- * (reanalyseAsRecorded(doc, bs): its settings, and its chosen fits redone), or a bare Report made with the
+ * (reanalyzeAsRecorded(doc, bs): its settings, and its chosen fits redone), or a bare Report made with the
  * recorded settings (then entries with a chosen fit are compared with the analysis's own fit).
  */
 export function checkAnnotations(
@@ -40,7 +40,7 @@ export function checkAnnotations(
   tolerances: Tolerances = DEFAULT_TOLERANCES,
 ): CheckResult {
   const stale = compareSources(doc.sources, currentSources);
-  const freshReport = 'report' in fresh && 'fits' in fresh ? fresh.report : (fresh as Report);
+  const freshReport = 'report' in fresh && 'fits' in fresh ? fresh.report : (fresh);
   const fits = 'fits' in fresh && fresh.fits instanceof Map ? fresh.fits : undefined;
   const rebuilt = buildAnnotations(
     freshReport,

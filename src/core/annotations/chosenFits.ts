@@ -109,7 +109,7 @@ export function chosenFromDoc(doc: AnnotationsDoc, bs: BandStructure): ChosenExt
  * The analysis an annotations document describes, redone on `bs`: the recorded settings, and every chosen fit
  * it records redone with its own window and method. What `check` compares the document with.
  */
-export function reanalyseAsRecorded(doc: AnnotationsDoc, bs: BandStructure): AnnotatedReport {
+export function reanalyzeAsRecorded(doc: AnnotationsDoc, bs: BandStructure): AnnotatedReport {
   const settings = analysisSettingsOf(doc);
   return withChosenFits(bs, analyzeBandStructure(bs, settings), settings, chosenFromDoc(doc, bs));
 }

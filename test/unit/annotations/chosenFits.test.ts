@@ -16,7 +16,7 @@ import { parseAnnotations } from '../../../src/core/annotations/parseAnnotations
 import { serializeAnnotations } from '../../../src/core/annotations/serializeAnnotations';
 import { annotatedSources, analysisSettingsOf } from '../../../src/core/annotations/buildAnnotations';
 import { checkAnnotations } from '../../../src/core/annotations/checkAnnotations';
-import { reanalyseAsRecorded } from '../../../src/core/annotations/chosenFits';
+import { reanalyzeAsRecorded } from '../../../src/core/annotations/chosenFits';
 import { DEFAULT_TOLERANCES } from '../../../src/core/annotations/compareAnnotations';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { CENTRAL_4, POLY4 } from '../../../src/core/analysis/methods';
@@ -76,7 +76,7 @@ describe('annotations: a chosen fit is what check finds again', function () {
     const { si, c } = await saved();
     const doc = parseAnnotations(c.text, 'x');
     const sources = annotatedSources(si.bs.source);
-    const r = checkAnnotations(doc, sources, reanalyseAsRecorded(doc, si.bs), DEFAULT_TOLERANCES);
+    const r = checkAnnotations(doc, sources, reanalyzeAsRecorded(doc, si.bs), DEFAULT_TOLERANCES);
     assert.deepEqual(r.drifted.map((d) => d.message), []);
     assert.ok(r.ok);
     const bare = checkAnnotations(doc, sources, analyzeBandStructure(si.bs, analysisSettingsOf(doc)), DEFAULT_TOLERANCES);
