@@ -112,6 +112,10 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
     const sideRight = (await v.page.locator('.vs-side').boundingBox())!;
     const lastHead = (await v.page.locator('.vs-masses thead th').last().boundingBox())!;
     assert.ok(lastHead.x + lastHead.width <= sideRight.x + sideRight.width + 0.5, `points column at ${lastHead.x + lastHead.width} inside ${sideRight.x + sideRight.width}`);
+    // The DOS mass of the branches from path directions only is shown with its error and the word path-limited
+    // (the core estimates it from the path; a number without that would be quoted as a full-sphere value).
+    const dl = (await v.page.locator('.vs-degeneracy').textContent()) ?? '';
+    assert.match(dl, /Density-of-states mass[\d.]+ ± [\d.]+ mₑ \(path-limited\)/);
     await v.page.screenshot({ path: `${ARTIFACTS}/fitpanel-vbm-branches.png` });
     assert.deepEqual(v.errors, []);
     await v.page.close();

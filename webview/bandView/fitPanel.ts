@@ -271,7 +271,8 @@ export class FitPanel {
     };
     add('Bands degenerate here', String(x.degenerateBands));
     add('Valley degeneracy Nᵥ', x.valleyDegeneracy === null ? 'unknown — needs the crystal structure' : String(x.valleyDegeneracy));
-    if (x.dosMass !== null) add('Density-of-states mass', `${sig(x.dosMass, 3)} mₑ`);
+    // A DOS mass from path directions only is an estimate: its error and the word "path-limited" go with it.
+    if (x.dosMass !== null) add('Density-of-states mass', x.dosMassPathLimited ? `${sig(x.dosMass, 3)} ± ${sig(x.dosMassPathLimited.error, 2)} mₑ (path-limited)` : `${sig(x.dosMass, 3)} mₑ`);
     if (x.conductivityMass !== null) add('Conductivity mass', `${sig(x.conductivityMass, 3)} mₑ`);
     this.provenance.replaceChildren(el('h3', undefined, 'How these were measured'), ...provenanceParts(x.masses, method, window_meV, this.withBranch));
     this.warnings.replaceChildren(...dedupedWarnings(x.warnings, x.masses).map((w) => el('li', undefined, w)));
