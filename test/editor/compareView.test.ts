@@ -7,7 +7,8 @@
 import assert from 'node:assert/strict';
 import { readdirSync } from 'node:fs';
 import { join } from 'node:path';
-import { EditorSession, waitFor } from './support/editorSession';
+import { SharedSession } from './support/sharedSession';
+import { type EditorSession, waitFor } from './support/editorSession';
 import { cliAnalyze, type CliReport } from './support/reference';
 
 const repo = (...p: string[]): string => join(__dirname, '..', '..', ...p);
@@ -17,26 +18,15 @@ const RUNS = readdirSync(SERIES, { withFileTypes: true })
   .map((d) => d.name)
   .sort();
 
-let starting: Promise<EditorSession> | undefined;
-function session(): Promise<EditorSession> {
-  starting ??= EditorSession.start({ name: 'compare', workspace: [[SERIES, 'si-strain']] });
-  return starting;
-}
+const shared = new SharedSession({ name: 'compare', workspace: [[SERIES, 'si-strain']] });
+const session = (): Promise<EditorSession> => shared.get();
 
 const TAB = 'Valleyscope: Run Comparison';
 
 describe('in a real VS Code, the compare view', function () {
   this.timeout(300_000);
 
-  after(async () => {
-    if (starting) await (await starting.catch(() => undefined))?.close();
-  });
-
-  afterEach(async function () {
-    const s = await starting?.catch(() => undefined);
-    if (!s) return;
-    if (this.currentTest?.state === 'failed') await s.screenshot('failed-compare-view').catch(() => undefined);
-  });
+  shared.hooks({ closeEditors: false, failedShot: 'failed-compare-view' });
 
   it('opens on the demo series, sorts by a mass and overlays two runs', async () => {
     assert.equal(RUNS.length, 5, `the demo series has five runs (${RUNS.join(', ')})`);

@@ -11,24 +11,22 @@ import { existsSync, readFileSync } from 'node:fs';
 import { spawnSync } from 'node:child_process';
 import { join } from 'node:path';
 import type { FrameLocator } from 'playwright-core';
-import { EditorSession, waitFor } from './support/editorSession';
+import { SharedSession } from './support/sharedSession';
+import { type EditorSession, waitFor } from './support/editorSession';
 import { massRows, waitForBandView } from './support/bandViewDriver';
 import { cliAnalyze } from './support/reference';
 
 const repo = (...p: string[]): string => join(__dirname, '..', '..', ...p);
 
-let starting: Promise<EditorSession> | undefined;
-function session(): Promise<EditorSession> {
-  starting ??= EditorSession.start({
-    name: 'fitcheck',
-    workspace: [
-      [repo('fixtures', 'epm', 'si'), 'si-check'],
-      [repo('fixtures', 'epm', 'gaas'), 'gaas-keys'],
-      [repo('fixtures', 'epm', 'gaas'), 'gaas-click'],
-    ],
-  });
-  return starting;
-}
+const shared = new SharedSession({
+  name: 'fitcheck',
+  workspace: [
+    [repo('fixtures', 'epm', 'si'), 'si-check'],
+    [repo('fixtures', 'epm', 'gaas'), 'gaas-keys'],
+    [repo('fixtures', 'epm', 'gaas'), 'gaas-click'],
+  ],
+});
+const session = (): Promise<EditorSession> => shared.get();
 
 /** The view's status line (what the keyboard selected, what was fitted, saved). */
 async function statusText(view: FrameLocator): Promise<string> {
@@ -66,17 +64,7 @@ async function waitForFit(view: FrameLocator, kind: RegExp, where: RegExp): Prom
 describe('in a real VS Code: saved fits pass check; secondary valleys are fitted where selected', function () {
   this.timeout(300_000);
 
-  after(async () => {
-    if (starting) await (await starting.catch(() => undefined))?.close();
-  });
-
-  afterEach(async function () {
-    const s = await starting?.catch(() => undefined);
-    if (!s) return;
-    const name = (this.currentTest?.title ?? 'scenario').replace(/[^a-z0-9]+/gi, '-').toLowerCase();
-    if (this.currentTest?.state === 'failed') await s.screenshot(`failed-${name}`).catch(() => undefined);
-    await s.closeAllEditors().catch(() => undefined);
-  });
+  shared.hooks({ closeEditors: true });
 
   it('fit the L valley and the CBM, save, and `valleyscope check` on the run exits 0', async () => {
     const s = await session();

@@ -10,22 +10,20 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { execFileSync } from 'node:child_process';
 import { join } from 'node:path';
 import type { FrameLocator } from 'playwright-core';
-import { EditorSession, waitFor } from './support/editorSession';
+import { SharedSession } from './support/sharedSession';
+import { type EditorSession, waitFor } from './support/editorSession';
 import { massRows, waitForBandView } from './support/bandViewDriver';
 
 const repo = (...p: string[]): string => join(__dirname, '..', '..', ...p);
 
-let starting: Promise<EditorSession> | undefined;
-function session(): Promise<EditorSession> {
-  starting ??= EditorSession.start({
-    name: 'reviews',
-    workspace: [
-      [repo('fixtures', 'epm', 'si'), 'si-reviewed'],
-      [repo('fixtures', 'epm', 'si'), 'si-cut'],
-    ],
-  });
-  return starting;
-}
+const shared = new SharedSession({
+  name: 'reviews',
+  workspace: [
+    [repo('fixtures', 'epm', 'si'), 'si-reviewed'],
+    [repo('fixtures', 'epm', 'si'), 'si-cut'],
+  ],
+});
+const session = (): Promise<EditorSession> => shared.get();
 
 async function fitCbmByKeys(s: EditorSession, view: FrameLocator): Promise<void> {
   await view.locator('.vs-plot').focus();
@@ -37,17 +35,7 @@ async function fitCbmByKeys(s: EditorSession, view: FrameLocator): Promise<void>
 describe('in a real VS Code: saved reviews in the band view; a file cut short opens as partial', function () {
   this.timeout(300_000);
 
-  after(async () => {
-    if (starting) await (await starting.catch(() => undefined))?.close();
-  });
-
-  afterEach(async function () {
-    const s = await starting?.catch(() => undefined);
-    if (!s) return;
-    const name = (this.currentTest?.title ?? 'scenario').replace(/[^a-z0-9]+/gi, '-').toLowerCase();
-    if (this.currentTest?.state === 'failed') await s.screenshot(`failed-${name}`).catch(() => undefined);
-    await s.closeAllEditors().catch(() => undefined);
-  });
+  shared.hooks({ closeEditors: true });
 
   it('an annotated run: the CBM fit shows its saved status and note', async () => {
     const s = await session();

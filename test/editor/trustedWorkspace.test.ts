@@ -9,7 +9,8 @@ import assert from 'node:assert/strict';
 import { existsSync, readFileSync, statSync } from 'node:fs';
 import { execFileSync } from 'node:child_process';
 import { join } from 'node:path';
-import { EditorSession, waitFor } from './support/editorSession';
+import { SharedSession } from './support/sharedSession';
+import { type EditorSession, waitFor } from './support/editorSession';
 import { canvasInk, clickNearMark, fitKind, massRows, waitForBandView } from './support/bandViewDriver';
 import { cliAnalyze, lineModeSegments, type CliExtremum } from './support/reference';
 import { sliderAtWindow } from '../../webview/bandView/windowSlider';
@@ -18,23 +19,20 @@ const repo = (...p: string[]): string => join(__dirname, '..', '..', ...p);
 const SI = repo('fixtures', 'epm', 'si');
 const MALFORMED = join(__dirname, 'fixtures', 'malformed');
 
-let starting: Promise<EditorSession> | undefined;
 /** One editor for this file's scenarios, started by the first that needs it; a failed start fails each. */
-function session(): Promise<EditorSession> {
-  starting ??= EditorSession.start({
-    name: 'trusted',
-    workspace: [
-      [SI, 'si-outline'],
-      [MALFORMED, 'malformed'],
-      [SI, 'si-view'],
-      [SI, 'si-save'],
-      [SI, 'si-merge'],
-      [SI, 'si-json'],
-      [SI, 'si-reload'],
-    ],
-  });
-  return starting;
-}
+const shared = new SharedSession({
+  name: 'trusted',
+  workspace: [
+    [SI, 'si-outline'],
+    [MALFORMED, 'malformed'],
+    [SI, 'si-view'],
+    [SI, 'si-save'],
+    [SI, 'si-merge'],
+    [SI, 'si-json'],
+    [SI, 'si-reload'],
+  ],
+});
+const session = (): Promise<EditorSession> => shared.get();
 
 /** Energies in an annotations file have 4 decimals, masses 4 significant digits (the file's documented layout). */
 const ENERGY_TOL = 0.5e-4 + 1e-9;
@@ -100,17 +98,7 @@ function assertSameMasses(entry: FileEntry, cli: CliExtremum): void {
 describe('in a real VS Code, trusted workspace', function () {
   this.timeout(240_000);
 
-  after(async () => {
-    if (starting) await (await starting.catch(() => undefined))?.close();
-  });
-
-  afterEach(async function () {
-    const s = await starting?.catch(() => undefined);
-    if (!s) return;
-    const name = (this.currentTest?.title ?? 'scenario').replace(/[^a-z0-9]+/gi, '-').toLowerCase();
-    if (this.currentTest?.state === 'failed') await s.screenshot(`failed-${name}`).catch(() => undefined);
-    await s.closeAllEditors().catch(() => undefined);
-  });
+  shared.hooks({ closeEditors: true });
 
   it('opening an eigenvalue file shows its outline with the labelled path segments', async () => {
     const s = await session();
