@@ -3,7 +3,7 @@
  * the little group of k in cartesian form. Null, with the reason, when no structure is known, the symmetry
  * module is not loaded, or the structure's cell is not the band structure's cell.
  */
-import type { BandStructure, Mat3, Vec3 } from '../model';
+import type { BandStructure, Mat3, Structure, Vec3 } from '../model';
 import { crystalSymmetry, symmetryReady, valleyDegeneracy, type CrystalSymmetry } from '../lattice/symmetry';
 import { cartesianOperation, littleGroup } from './symmetryTensor';
 
@@ -20,17 +20,30 @@ function sameLattice(a: Mat3, b: Mat3): boolean {
   return a.every((r, i) => r.every((x, j) => Math.abs(x - b[i]![j]!) < 1e-4 * Math.max(1, Math.abs(x))));
 }
 
+/**
+ * The crystal's symmetry for a run, found once per structure and cell: the analysis, the valley identities of
+ * the annotations and the chosen-fit redo all ask for it. Cached by the structure object (the symmetry depends
+ * on the structure alone; a run read again brings a new object).
+ */
+const contexts = new WeakMap<Structure, SymmetryContext>();
+
 export function symmetryContext(bs: BandStructure): SymmetryContext {
   if (!bs.structure) return { sym: null, unavailable: 'No crystal structure is known: valley degeneracy cannot be determined.' };
   if (bs.lattice && !sameLattice(bs.lattice, bs.structure.lattice)) {
     return { sym: null, unavailable: "The structure's cell differs from the cell of the k-points: valley degeneracy was not determined." };
   }
+  // Not cached: the module may be loaded by the next call.
   if (!symmetryReady()) return { sym: null, unavailable: 'The crystal-symmetry module is not loaded: valley degeneracy was not determined.' };
+  const known = contexts.get(bs.structure);
+  if (known) return known;
+  let ctx: SymmetryContext;
   try {
-    return { sym: crystalSymmetry(bs.structure), unavailable: null };
+    ctx = { sym: crystalSymmetry(bs.structure), unavailable: null };
   } catch (e) {
-    return { sym: null, unavailable: `${e instanceof Error ? e.message : String(e)} Valley degeneracy was not determined.` };
+    ctx = { sym: null, unavailable: `${e instanceof Error ? e.message : String(e)} Valley degeneracy was not determined.` };
   }
+  contexts.set(bs.structure, ctx);
+  return ctx;
 }
 
 export function valleysAt(ctx: SymmetryContext, k: Vec3): number | null {
