@@ -7,8 +7,8 @@
  */
 import { clearEnvelope, columnEnvelope, createEnvelope, lowerBound, type Envelope } from './decimate';
 import type { ViewModel } from './viewModel';
-import type { Palette } from './theme';
-import { parseColour } from './theme';
+import type { Palette } from '../shared/theme';
+import { parseColour } from '../shared/theme';
 
 export interface Linear {
   /** screen = a · value + b (CSS px). */

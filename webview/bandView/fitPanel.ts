@@ -6,7 +6,7 @@
  */
 import type { ExtremumReport, MassFit, WindowScanSeries } from '../../src/protocol';
 import { drawScanPlot, SERIES_COLOURS } from './scanPlot';
-import { fixed, fracK, sig } from './format';
+import { fixed, fracK, sig } from '../shared/format';
 import { isMaximumKind } from './markers';
 import { methodDescription } from '../../src/core/analysis/methods';
 import { sliderAtWindow, windowAtSlider, WINDOW_MAX_MEV, WINDOW_MIN_MEV, WINDOW_SLIDER_STEPS } from './windowSlider';

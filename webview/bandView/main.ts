@@ -34,7 +34,7 @@ import { BandRenderer, type DrawStats } from './bandRenderer';
 import { availableReferences, chooseReference, REFERENCE_NAMES, type ReferenceChoice } from './energyReference';
 import { buildExportSvg, pngSize, xAxisTitle } from './exportPlot';
 import { FitPanel, kindName } from './fitPanel';
-import { fixed, fracK, sig } from './format';
+import { fixed, fracK, sig } from '../shared/format';
 import { edgeMarkerPath, isMaximumKind, secondaryMarkerPath } from './markers';
 import { snapToCandidate, SNAP_TOLERANCE_PX, type ScreenCandidate } from './snap';
 import { ReviewNote } from './reviewNote';
@@ -42,16 +42,12 @@ import { nextCandidate, reachableCandidates, type ArrowKey, type Candidate } fro
 import { BAND_VIEW_CSS } from './styles';
 import { fittingLabels } from './tickLabels';
 import { fitsWithin, parseViewState, type BandViewState, type SpinName } from './viewState';
-import { readPalette, type Palette } from './theme';
+import { readPalette, type Palette } from '../shared/theme';
 import { buildViewModel, energyAt, labelNear, nearestK, type ViewModel } from './viewModel';
+import { vscodeApi, type VsCodeApi } from '../shared/vscodeApi';
+import { watchTheme } from '../shared/themeWatch';
 import { el, setOptions, vsButton, vsSelect, type VsButton, type VsSelect } from '../shared/controls';
 
-interface VsCodeApi {
-  postMessage(message: unknown): void;
-  getState(): unknown;
-  setState(state: unknown): void;
-}
-declare function acquireVsCodeApi(): VsCodeApi;
 
 const SVG_NS = 'http://www.w3.org/2000/svg';
 const MARGIN = { top: 12, right: 14, bottom: 44, left: 58 };
@@ -210,13 +206,10 @@ export class BandViewApp {
     this.updateSaveState();
     window.addEventListener('message', (ev: MessageEvent) => this.onMessage(ev.data));
     new ResizeObserver(() => this.layout()).observe(this.plot);
-    // Theme changes: VS Code updates body classes and the variables on <html>.
-    const mo = new MutationObserver(() => {
+    watchTheme(document, () => {
       this.palette = readPalette(document);
       this.schedule();
     });
-    mo.observe(document.body, { attributes: true, attributeFilter: ['class', 'data-vscode-theme-kind'] });
-    mo.observe(document.documentElement, { attributes: true, attributeFilter: ['style', 'class'] });
     this.post({ type: ViewToHostType.Ready });
   }
 
@@ -930,5 +923,5 @@ async function rasterise(svg: string, width: number, height: number): Promise<Ui
 }
 
 // Start, exposing the instance for tests and the benchmark (read-only use).
-const app = new BandViewApp(acquireVsCodeApi());
+const app = new BandViewApp(vscodeApi());
 (window as unknown as { valleyscopeBandView: BandViewApp }).valleyscopeBandView = app;

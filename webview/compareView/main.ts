@@ -28,19 +28,15 @@ import {
   type CompareViewToHostMessage,
 } from '../../src/protocol';
 import { piecesFromSegments, type Piece } from '../bandView/localExtrema';
-import { readPalette, type Palette } from '../bandView/theme';
-import { fixed, minus } from '../bandView/format';
+import { readPalette, type Palette } from '../shared/theme';
+import { fixed, minus } from '../shared/format';
 import { layoutOverlay, type OverlayLayout } from './overlayLayout';
 import { nextSort, sortRows, type SortState } from './tableSort';
 import { COMPARE_VIEW_CSS } from './styles';
+import { vscodeApi, type VsCodeApi } from '../shared/vscodeApi';
+import { watchTheme } from '../shared/themeWatch';
 import { el, setOptions, vsButton, vsSelect, type VsButton, type VsSelect } from '../shared/controls';
 
-interface VsCodeApi {
-  postMessage(message: unknown): void;
-  getState(): unknown;
-  setState(state: unknown): void;
-}
-declare function acquireVsCodeApi(): VsCodeApi;
 
 type VsCheckbox = HTMLElement & { checked: boolean };
 
@@ -231,12 +227,10 @@ export class CompareViewApp {
     window.addEventListener('message', (ev: MessageEvent) => this.onMessage(ev.data));
     new ResizeObserver(() => this.schedule()).observe(this.overlayPlot);
     new ResizeObserver(() => this.schedule()).observe(this.trendPlot);
-    const mo = new MutationObserver(() => {
+    watchTheme(document, () => {
       this.palette = readPalette(document);
       this.schedule();
     });
-    mo.observe(document.body, { attributes: true, attributeFilter: ['class', 'data-vscode-theme-kind'] });
-    mo.observe(document.documentElement, { attributes: true, attributeFilter: ['style', 'class'] });
     this.post({ type: CompareViewToHostType.Ready });
   }
 
@@ -832,5 +826,5 @@ function cssVar(name: string, fallback: string): string {
 }
 
 // Start, exposing the instance for tests (read-only use).
-const app = new CompareViewApp(acquireVsCodeApi());
+const app = new CompareViewApp(vscodeApi());
 (window as unknown as { valleyscopeCompareView: CompareViewApp }).valleyscopeCompareView = app;
