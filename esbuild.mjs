@@ -6,7 +6,14 @@ import { existsSync, mkdirSync } from 'node:fs';
 const production = process.argv.includes('--production');
 const cliOnly = process.argv.includes('--cli-only');
 // '.wasm' as bytes: the crystal-symmetry library's WebAssembly is inlined, so every bundle (node, web, worker) carries it.
-const common = { bundle: true, sourcemap: !production, minify: production, logLevel: 'warning', target: 'es2022', loader: { '.wasm': 'binary' } };
+const common = {
+  bundle: true,
+  sourcemap: !production,
+  minify: production,
+  logLevel: 'warning',
+  target: 'es2022',
+  loader: { '.wasm': 'binary' },
+};
 
 /** Entry points that exist (features land one by one; a missing entry is not built). */
 const present = (entries) => entries.filter((e) => existsSync(e.in));

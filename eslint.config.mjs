@@ -4,6 +4,7 @@
 import { builtinModules } from 'node:module';
 import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
+import prettierOff from 'eslint-config-prettier';
 
 /** Every node built-in, bare and with the `node:` prefix. */
 const nodeBuiltins = builtinModules.filter((m) => !m.startsWith('_'));
@@ -67,14 +68,8 @@ export default tseslint.config(
       'no-undef': 'off',
       // An async method may implement a Promise-returning contract without awaiting anything.
       '@typescript-eslint/require-await': 'off',
-      '@typescript-eslint/no-unused-vars': [
-        'error',
-        { argsIgnorePattern: '^_', varsIgnorePattern: '^_', caughtErrors: 'none' },
-      ],
-      '@typescript-eslint/consistent-type-imports': [
-        'error',
-        { fixStyle: 'separate-type-imports', disallowTypeAnnotations: false },
-      ],
+      '@typescript-eslint/no-unused-vars': ['error', { argsIgnorePattern: '^_', varsIgnorePattern: '^_', caughtErrors: 'none' }],
+      '@typescript-eslint/consistent-type-imports': ['error', { fixStyle: 'separate-type-imports', disallowTypeAnnotations: false }],
       '@typescript-eslint/naming-convention': [
         'error',
         // Types, interfaces, classes, enums: PascalCase.
@@ -146,4 +141,6 @@ export default tseslint.config(
     String.raw`^(\.\./)+src/(?!protocol$|core/)`,
     'The webviews import only src/protocol.ts and modules of src/core.',
   ),
+  // Formatting is Prettier's (`prettier --check` in `npm run lint`): turn off the lint rules it owns.
+  prettierOff,
 );

@@ -77,7 +77,9 @@ async function measure(label, read, readWord = 'read') {
   console.log(`  ${readWord} ${rd.toFixed(1)} ms`);
   for (const [method, times] of Object.entries(analyseTimes)) {
     const t = median(times);
-    console.log(`  full analysis, ${method.padEnd(8)} ${t.toFixed(1).padStart(7)} ms   ratio to ${readWord === "read" ? "reading" : "building"}: ${(t / rd).toFixed(2)}`);
+    console.log(
+      `  full analysis, ${method.padEnd(8)} ${t.toFixed(1).padStart(7)} ms   ratio to ${readWord === 'read' ? 'reading' : 'building'}: ${(t / rd).toFixed(2)}`,
+    );
   }
   return median(analyseTimes.parabola);
 }
@@ -88,15 +90,34 @@ console.log(`Full analysis time, median of ${repeat} runs each after one warm-up
 let total = 0;
 if (runs.length) {
   for (const dir of runs) total += await measure(relative(root, dir), () => loadRun(nodeFileAccessor, dir));
-  console.log(`\nAll ${runs.length} demo runs, parabola method: ${total.toFixed(1)} ms in total, ${(total / runs.length).toFixed(1)} ms per run.`);
+  console.log(
+    `\nAll ${runs.length} demo runs, parabola method: ${total.toFixed(1)} ms in total, ${(total / runs.length).toFixed(1)} ms per run.`,
+  );
 } else {
-  console.log(process.argv.includes('--model') ? 'A generated model band structure (--model).\n' : 'fixtures/demo/ has no runs: analysing a generated model band structure instead.\n');
-  const { pathModel, fccLattice, diamondStructure, parabolicBand, cosineBand } = await import(pathToFileURL(join(root, 'test', 'support', 'models.ts')).href);
-  const legs = [[{ label: 'Γ', k: [0, 0, 0] }, { label: 'X', k: [0.5, 0, 0.5] }, { label: 'W', k: [0.5, 0.25, 0.75] }, { label: 'L', k: [0.5, 0.5, 0.5] }, { label: 'Γ', k: [0, 0, 0] }]];
+  console.log(
+    process.argv.includes('--model')
+      ? 'A generated model band structure (--model).\n'
+      : 'fixtures/demo/ has no runs: analysing a generated model band structure instead.\n',
+  );
+  const { pathModel, fccLattice, diamondStructure, parabolicBand, cosineBand } = await import(
+    pathToFileURL(join(root, 'test', 'support', 'models.ts')).href
+  );
+  const legs = [
+    [
+      { label: 'Γ', k: [0, 0, 0] },
+      { label: 'X', k: [0.5, 0, 0.5] },
+      { label: 'W', k: [0.5, 0.25, 0.75] },
+      { label: 'L', k: [0.5, 0.5, 0.5] },
+      { label: 'Γ', k: [0, 0, 0] },
+    ],
+  ];
   const bands = [];
-  for (let b = 0; b < 20; b++) bands.push(b < 10 ? cosineBand(-10 + b * 0.9, [-0.3 - 0.01 * b, -0.3, -0.3]) : parabolicBand(1 + (b - 10) * 0.7, 0.3 + 0.05 * b));
-  await measure('generated model (fcc path, 20 bands)', async () =>
-    pathModel({ lattice: fccLattice(5.43), structure: diamondStructure(5.43, 'Si'), bands, electrons: 20, legs, pointsPerSegment: 100 }),
+  for (let b = 0; b < 20; b++)
+    bands.push(b < 10 ? cosineBand(-10 + b * 0.9, [-0.3 - 0.01 * b, -0.3, -0.3]) : parabolicBand(1 + (b - 10) * 0.7, 0.3 + 0.05 * b));
+  await measure(
+    'generated model (fcc path, 20 bands)',
+    async () =>
+      pathModel({ lattice: fccLattice(5.43), structure: diamondStructure(5.43, 'Si'), bands, electrons: 20, legs, pointsPerSegment: 100 }),
     'build',
   );
 }

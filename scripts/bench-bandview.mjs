@@ -73,7 +73,15 @@ await new Promise((r) => server.listen(0, '127.0.0.1', r));
 const port = server.address().port;
 const browser = await chromium.launch({
   executablePath: CHROMIUM,
-  args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  args: [
+    '--no-sandbox',
+    '--disable-gpu',
+    '--disable-quic',
+    '--no-first-run',
+    '--disable-background-networking',
+    '--disable-component-update',
+    '--disable-sync',
+  ],
 });
 try {
   const page = await browser.newPage({ viewport: { width, height }, deviceScaleFactor: 1 });
@@ -90,7 +98,8 @@ try {
     window.__hostPost(msg);
     return { generateMs: t1 - t0 };
   })()`);
-  for (let i = 0; i < 2400 && !(await page.evaluate('!!(window.valleyscopeBandView && window.valleyscopeBandView.lastDraw)')); i++) await new Promise((r) => setTimeout(r, 25));
+  for (let i = 0; i < 2400 && !(await page.evaluate('!!(window.valleyscopeBandView && window.valleyscopeBandView.lastDraw)')); i++)
+    await new Promise((r) => setTimeout(r, 25));
   const firstDraw = await page.evaluate('performance.now() - window.__loadStart');
   if (errors.length) throw new Error(errors.join('; '));
   // One redraw = the view's render() (canvas and SVG overlay) plus a 1-pixel read that forces the canvas to
@@ -137,16 +146,32 @@ try {
   })()`);
   const f = (x) => x.toFixed(1);
   const load1 = loadavg()[0];
-  console.log(`Machine: ${cpus().length} cores, load average ${load1.toFixed(1)} during the run${load1 > cpus().length ? ' (busy: other work shares the cores, so times are inflated)' : ''}`);
-  console.log(`Band view redraw, ${nBands} bands × ${nk} k-points (${millions(nBands * nk)} million energies), headless Chromium, canvas ${result.canvas[0]}×${result.canvas[1]} px`);
-  console.log(`  model built in the page: ${f(load.generateMs)} ms; from message to first draw (decode, pyramid, extrema): ${f(firstDraw)} ms`);
+  console.log(
+    `Machine: ${cpus().length} cores, load average ${load1.toFixed(1)} during the run${load1 > cpus().length ? ' (busy: other work shares the cores, so times are inflated)' : ''}`,
+  );
+  console.log(
+    `Band view redraw, ${nBands} bands × ${nk} k-points (${millions(nBands * nk)} million energies), headless Chromium, canvas ${result.canvas[0]}×${result.canvas[1]} px`,
+  );
+  console.log(
+    `  model built in the page: ${f(load.generateMs)} ms; from message to first draw (decode, pyramid, extrema): ${f(firstDraw)} ms`,
+  );
   console.log(`  redraw while zooming 1×→50× and panning (${redraws} redraws; modes ${JSON.stringify(result.modes)}):`);
   console.log(`    median ${f(result.redraw.median)} ms, 95th percentile ${f(result.redraw.p95)} ms, max ${f(result.redraw.max)} ms`);
-  console.log(`    vs one 60 Hz frame (16.7 ms): median ${(result.redraw.median / FRAME_MS).toFixed(2)}×, 95th percentile ${(result.redraw.p95 / FRAME_MS).toFixed(2)}× (goal: 1.0 or less)`);
-  console.log(`    per redraw: ${millions(result.valuesPerRedraw)} million values read (of ${millions(nBands * nk)} million); decimation ${f(result.decimateMs)} ms, rasterising ${f(result.rasterMs)} ms`);
-  console.log(`  whole path (zoomed out): median ${f(result.zoomedOut.median)} ms = ${(result.zoomedOut.median / FRAME_MS).toFixed(2)}× a frame (decimation ${f(result.zDecimateMs)} ms, rasterising ${f(result.zRasterMs)} ms, the rest: clearing, image upload, axes)`);
-  console.log(`  vs one bare pass summing all ${millions(nBands * nk)} million energies (${f(result.bare.median)} ms): median redraw ${(result.redraw.median / result.bare.median).toFixed(2)}×`);
-  console.log(`  for comparison, every point stroked (no decimation), whole path: median ${f(result.full.median)} ms = ${(result.full.median / FRAME_MS).toFixed(1)}× a frame; decimation is ${(result.full.median / result.zoomedOut.median).toFixed(0)}× faster`);
+  console.log(
+    `    vs one 60 Hz frame (16.7 ms): median ${(result.redraw.median / FRAME_MS).toFixed(2)}×, 95th percentile ${(result.redraw.p95 / FRAME_MS).toFixed(2)}× (goal: 1.0 or less)`,
+  );
+  console.log(
+    `    per redraw: ${millions(result.valuesPerRedraw)} million values read (of ${millions(nBands * nk)} million); decimation ${f(result.decimateMs)} ms, rasterising ${f(result.rasterMs)} ms`,
+  );
+  console.log(
+    `  whole path (zoomed out): median ${f(result.zoomedOut.median)} ms = ${(result.zoomedOut.median / FRAME_MS).toFixed(2)}× a frame (decimation ${f(result.zDecimateMs)} ms, rasterising ${f(result.zRasterMs)} ms, the rest: clearing, image upload, axes)`,
+  );
+  console.log(
+    `  vs one bare pass summing all ${millions(nBands * nk)} million energies (${f(result.bare.median)} ms): median redraw ${(result.redraw.median / result.bare.median).toFixed(2)}×`,
+  );
+  console.log(
+    `  for comparison, every point stroked (no decimation), whole path: median ${f(result.full.median)} ms = ${(result.full.median / FRAME_MS).toFixed(1)}× a frame; decimation is ${(result.full.median / result.zoomedOut.median).toFixed(0)}× faster`,
+  );
 } finally {
   await browser.close();
   server.close();

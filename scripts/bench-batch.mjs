@@ -43,8 +43,16 @@ function writeRun(runDir, seed) {
     bands.push(valence ? { c: -1.5 * (3 - b), s: -1, t } : { c: 0.8 + 0.002 * seed + 1.1 * (b - 4), s: 1, t });
   }
   const ks = [];
-  for (const [, a, , z] of SEGMENTS) for (let i = 0; i < PER_SEGMENT; i++) ks.push(a.map((x, j) => x + ((z[j] - x) * i) / (PER_SEGMENT - 1)));
-  const lines = ['    1    1   200    1', '  0.6400000E+02  0.4000000E-09  0.4000000E-09  0.4000000E-09  0.5000000E-15', '  1.0000000000000E-004', '  CAR', ` batch benchmark run ${seed}`, `      8     ${ks.length}      ${nb}`];
+  for (const [, a, , z] of SEGMENTS)
+    for (let i = 0; i < PER_SEGMENT; i++) ks.push(a.map((x, j) => x + ((z[j] - x) * i) / (PER_SEGMENT - 1)));
+  const lines = [
+    '    1    1   200    1',
+    '  0.6400000E+02  0.4000000E-09  0.4000000E-09  0.4000000E-09  0.5000000E-15',
+    '  1.0000000000000E-004',
+    '  CAR',
+    ` batch benchmark run ${seed}`,
+    `      8     ${ks.length}      ${nb}`,
+  ];
   for (const k of ks) {
     lines.push('', `  ${f(k[0], 12, 7)}  ${f(k[1], 12, 7)}  ${f(k[2], 12, 7)}  ${f(1 / ks.length, 12, 7)}`);
     const s = 3 - k.reduce((acc, x) => acc + Math.cos(2 * Math.PI * x), 0);
@@ -54,9 +62,13 @@ function writeRun(runDir, seed) {
     });
   }
   writeFileSync(join(runDir, 'EIGENVAL'), lines.join('\n') + '\n');
-  writeFileSync(join(runDir, 'POSCAR'), 'simple cubic model\n1.0\n  4.0 0.0 0.0\n  0.0 4.0 0.0\n  0.0 0.0 4.0\nH\n1\nDirect\n  0.0 0.0 0.0\n');
+  writeFileSync(
+    join(runDir, 'POSCAR'),
+    'simple cubic model\n1.0\n  4.0 0.0 0.0\n  0.0 4.0 0.0\n  0.0 0.0 4.0\nH\n1\nDirect\n  0.0 0.0 0.0\n',
+  );
   const kp = ['k-path of the batch benchmark', String(PER_SEGMENT), 'Line-mode', 'reciprocal'];
-  for (const [la, a, lz, z] of SEGMENTS) kp.push(`  ${a.join(' ')} ! ${la === 'Γ' ? 'G' : la}`, `  ${z.join(' ')} ! ${lz === 'Γ' ? 'G' : lz}`, '');
+  for (const [la, a, lz, z] of SEGMENTS)
+    kp.push(`  ${a.join(' ')} ! ${la === 'Γ' ? 'G' : la}`, `  ${z.join(' ')} ! ${lz === 'Γ' ? 'G' : lz}`, '');
   writeFileSync(join(runDir, 'KPOINTS'), kp.join('\n'));
 }
 
@@ -79,7 +91,9 @@ function timeOnce(jobs) {
 
 const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 const load0 = loadavg()[0];
-console.log(`\nBatch: analyze --jsonl over ${nRuns} small runs (200 k × 8 bands each), ${availableParallelism()} cores, median of ${repeat}, alternating`);
+console.log(
+  `\nBatch: analyze --jsonl over ${nRuns} small runs (200 k × 8 bands each), ${availableParallelism()} cores, median of ${repeat}, alternating`,
+);
 const t1 = [];
 const t2 = [];
 let outs;
@@ -100,8 +114,12 @@ const m1 = median(t1);
 const m2 = median(t2);
 console.log(`  --jobs 1  ${m1.toFixed(0)} ms   (${(m1 / nRuns).toFixed(1)} ms per run, one process start included)`);
 console.log(`  --jobs 2  ${m2.toFixed(0)} ms`);
-console.log(`  ratio --jobs 2 / --jobs 1: ${(m2 / m1).toFixed(2)}   (goal ≤ 0.65 on 2 cores)${availableParallelism() < 2 ? '  [this machine has fewer than 2 cores: the goal cannot be met here]' : ''}`);
+console.log(
+  `  ratio --jobs 2 / --jobs 1: ${(m2 / m1).toFixed(2)}   (goal ≤ 0.65 on 2 cores)${availableParallelism() < 2 ? '  [this machine has fewer than 2 cores: the goal cannot be met here]' : ''}`,
+);
 console.log(`  the two outputs are ${same ? 'identical' : 'DIFFERENT (a bug: the output must not depend on --jobs)'}`);
 const load1 = loadavg()[0];
 const busy = Math.max(load0, load1) > availableParallelism();
-console.log(`  load average (1 min) ${load0.toFixed(1)} before, ${load1.toFixed(1)} after, on ${availableParallelism()} cores${busy ? ': other work shared the cores, so the ratio says little about what a second core gives' : ''}`);
+console.log(
+  `  load average (1 min) ${load0.toFixed(1)} before, ${load1.toFixed(1)} after, on ${availableParallelism()} cores${busy ? ': other work shared the cores, so the ratio says little about what a second core gives' : ''}`,
+);

@@ -27,7 +27,9 @@ function generate(name, nk, nb) {
   const folder = join(dir, name);
   if (!existsSync(join(folder, 'EIGENVAL')) || !existsSync(join(folder, 'energies.json'))) {
     console.log(`generating ${folder} (${nk} k-points × ${nb} bands) ...`);
-    const r = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/bench/generatePathRun.ts', folder, String(nk), String(nb), '4'], { stdio: 'inherit' });
+    const r = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/bench/generatePathRun.ts', folder, String(nk), String(nb), '4'], {
+      stdio: 'inherit',
+    });
     if (r.status !== 0) throw new Error('generator failed');
   }
   return folder;
@@ -38,7 +40,11 @@ function generate(name, nk, nb) {
  * than wall time on a shared machine) and peak resident memory (MiB).
  */
 function timed(args, label) {
-  const r = spawnSync('/usr/bin/time', ['-f', '%e %M %U %S', ...args], { encoding: 'utf8', stdio: ['ignore', 'ignore', 'pipe'], maxBuffer: 1 << 26 });
+  const r = spawnSync('/usr/bin/time', ['-f', '%e %M %U %S', ...args], {
+    encoding: 'utf8',
+    stdio: ['ignore', 'ignore', 'pipe'],
+    maxBuffer: 1 << 26,
+  });
   const last = (r.stderr || '').trim().split('\n').pop() ?? '';
   const m = /^([\d.]+) (\d+) ([\d.]+) ([\d.]+)$/.exec(last);
   if (!m) {
@@ -86,20 +92,30 @@ function analyzeCase(name, nk, nb) {
   const tj = median(jp);
   const ta = median(an.map((x) => x.s));
   console.log(`  JSON.parse of the same energies       ${(tj * 1000).toFixed(0)} ms`);
-  console.log(`  valleyscope analyze --json (process)  ${(ta * 1000).toFixed(0)} ms, peak ${median(an.map((x) => x.peakMB)).toFixed(0)} MiB`);
-  console.log(`  ratio analyze / JSON.parse (wall, analyze as a whole process against the parse alone): ${(ta / tj).toFixed(2)}   (goal ≤ 2.5)`);
+  console.log(
+    `  valleyscope analyze --json (process)  ${(ta * 1000).toFixed(0)} ms, peak ${median(an.map((x) => x.peakMB)).toFixed(0)} MiB`,
+  );
+  console.log(
+    `  ratio analyze / JSON.parse (wall, analyze as a whole process against the parse alone): ${(ta / tj).toFixed(2)}   (goal ≤ 2.5)`,
+  );
   if (jpp.length) {
     const cj = median(jpp.map((x) => x.cpu));
     const ca = median(an.map((x) => x.cpu));
-    console.log(`  CPU time, both as whole processes: analyze ${(ca * 1000).toFixed(0)} ms, JSON.parse ${(cj * 1000).toFixed(0)} ms; ratio ${(ca / cj).toFixed(2)}   (goal ≤ 2.5)`);
+    console.log(
+      `  CPU time, both as whole processes: analyze ${(ca * 1000).toFixed(0)} ms, JSON.parse ${(cj * 1000).toFixed(0)} ms; ratio ${(ca / cj).toFixed(2)}   (goal ≤ 2.5)`,
+    );
   }
   // Where the time goes, in one process (CPU time per phase; process start-up and module loading excluded).
   const ph = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/bench/measurePhases.ts', folder], { encoding: 'utf8' });
   if (ph.status === 0) {
     const p = JSON.parse(ph.stdout.trim().split('\n').pop());
     const total = p.readMs + p.analyzeMs + p.jsonMs;
-    console.log(`  phases (CPU ms, one process): read ${p.readMs.toFixed(0)}, analysis ${p.analyzeMs.toFixed(0)} (${p.extrema} extrema, ${p.rejected} set aside), JSON output ${p.jsonMs.toFixed(0)}; JSON.parse ${p.parseMs.toFixed(0)}`);
-    console.log(`  ratio read + analysis + output / JSON.parse: ${(total / p.parseMs).toFixed(2)}   (goal ≤ 2.5); analysis alone / JSON.parse: ${(p.analyzeMs / p.parseMs).toFixed(2)}`);
+    console.log(
+      `  phases (CPU ms, one process): read ${p.readMs.toFixed(0)}, analysis ${p.analyzeMs.toFixed(0)} (${p.extrema} extrema, ${p.rejected} set aside), JSON output ${p.jsonMs.toFixed(0)}; JSON.parse ${p.parseMs.toFixed(0)}`,
+    );
+    console.log(
+      `  ratio read + analysis + output / JSON.parse: ${(total / p.parseMs).toFixed(2)}   (goal ≤ 2.5); analysis alone / JSON.parse: ${(p.analyzeMs / p.parseMs).toFixed(2)}`,
+    );
   } else console.log(`  phases: failed (${(ph.stderr || '').trim().split('\n').pop()})`);
   return { folder, eig, size, ta };
 }
@@ -128,13 +144,17 @@ if (runs.analyze.length) {
   const ta = median(runs.analyze.map((x) => x.s));
   const peak = median(runs.analyze.map((x) => x.peakMB));
   const goal = (0.5 * size) / MB + 150;
-  console.log(`  analyze --json   ${(ta * 1000).toFixed(0)} ms (CPU ${(median(runs.analyze.map((x) => x.cpu)) * 1000).toFixed(0)} ms), peak memory ${peak.toFixed(0)} MiB   (goal ≤ 0.5 × file + 150 MiB = ${goal.toFixed(0)} MiB: ratio ${(peak / goal).toFixed(2)})`);
+  console.log(
+    `  analyze --json   ${(ta * 1000).toFixed(0)} ms (CPU ${(median(runs.analyze.map((x) => x.cpu)) * 1000).toFixed(0)} ms), peak memory ${peak.toFixed(0)} MiB   (goal ≤ 0.5 × file + 150 MiB = ${goal.toFixed(0)} MiB: ratio ${(peak / goal).toFixed(2)})`,
+  );
   for (const cmd of ['annotate', 'check']) {
     const xs = runs[cmd];
     if (!xs.length) continue;
     const t = median(xs.map((x) => x.s));
     const ok = xs.every((x) => x.status === 0) ? '' : ` (exit status ${xs.map((x) => x.status).join(', ')})`;
     const cpuRatio = median(xs.map((x) => x.cpu)) / median(runs.analyze.map((x) => x.cpu));
-    console.log(`  ${cmd.padEnd(16)} ${(t * 1000).toFixed(0)} ms, peak ${median(xs.map((x) => x.peakMB)).toFixed(0)} MiB; ratio to analyze ${(t / ta).toFixed(2)} (CPU time: ${cpuRatio.toFixed(2)})   (goal ≤ 1.5)${ok}`);
+    console.log(
+      `  ${cmd.padEnd(16)} ${(t * 1000).toFixed(0)} ms, peak ${median(xs.map((x) => x.peakMB)).toFixed(0)} MiB; ratio to analyze ${(t / ta).toFixed(2)} (CPU time: ${cpuRatio.toFixed(2)})   (goal ≤ 1.5)${ok}`,
+    );
   }
 }

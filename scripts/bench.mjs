@@ -38,14 +38,22 @@ const ours = run(['scripts/bench/measure.ts', 'read-valleyscope', eig], 'valleys
 const jp = run(['scripts/bench/measure.ts', 'json-parse', json], 'JSON.parse');
 const nl = run(['scripts/bench/measure.ts', 'newline-count', eig], 'newline count');
 if (ours && jp && nl) {
-  console.log(`  valleyscope reader      ${fmt(ours.ms, 0)} ms  (${fmt(size / MB / (ours.ms / 1000), 0)} MiB/s, ${fmt((ours.ms * 1e6) / ours.count, 1)} ns per energy)`);
-  console.log(`  JSON.parse, same energies as one array (${fmt(statSync(json).size / MB, 0)} MiB)  ${fmt(jp.ms, 0)} ms  (${fmt((jp.ms * 1e6) / jp.count, 1)} ns per energy)`);
+  console.log(
+    `  valleyscope reader      ${fmt(ours.ms, 0)} ms  (${fmt(size / MB / (ours.ms / 1000), 0)} MiB/s, ${fmt((ours.ms * 1e6) / ours.count, 1)} ns per energy)`,
+  );
+  console.log(
+    `  JSON.parse, same energies as one array (${fmt(statSync(json).size / MB, 0)} MiB)  ${fmt(jp.ms, 0)} ms  (${fmt((jp.ms * 1e6) / jp.count, 1)} ns per energy)`,
+  );
   console.log(`  newline count over the same file (I/O floor)  ${fmt(nl.ms, 0)} ms`);
   console.log(`  ratio reader / JSON.parse (time per energy): ${fmt(ours.ms / ours.count / (jp.ms / jp.count))}   (goal ≤ 1.0)`);
   console.log(`  ratio reader / newline count (same file):    ${fmt(ours.ms / nl.ms)}`);
   const peak = ours.maxRssMB - ours.rssBeforeMB;
-  console.log(`  peak memory while reading ${fmt(peak, 0)} MiB over a baseline of ${fmt(ours.rssBeforeMB, 0)} MiB; ratio to the file size: ${fmt((peak * MB) / size)}   (goal ≤ 0.5)`);
-  console.log(`  (the energies alone, as 8-byte doubles, are ${fmt((ours.count * 8) / MB, 0)} MiB: ${fmt((ours.count * 8) / size)} of the file size)`);
+  console.log(
+    `  peak memory while reading ${fmt(peak, 0)} MiB over a baseline of ${fmt(ours.rssBeforeMB, 0)} MiB; ratio to the file size: ${fmt((peak * MB) / size)}   (goal ≤ 0.5)`,
+  );
+  console.log(
+    `  (the energies alone, as 8-byte doubles, are ${fmt((ours.count * 8) / MB, 0)} MiB: ${fmt((ours.count * 8) / size)} of the file size)`,
+  );
   const jpPeak = jp.maxRssMB - jp.rssBeforeMB;
   console.log(`  JSON.parse's peak memory for comparison: ${fmt(jpPeak, 0)} MiB (${fmt((jpPeak * MB) / size)} of the EIGENVAL size)`);
 }

@@ -108,7 +108,12 @@ if (strainRuns.length >= 2) {
     const f = ['CONTCAR', 'POSCAR'].map((n) => join(run, n)).find((p) => existsSync(p));
     const lines = readFileSync(f, 'utf8').split(/\r?\n/);
     const s = Number(lines[1].trim().split(/\s+/)[0]);
-    return [2, 3, 4].map((i) => lines[i].trim().split(/\s+/).map((x) => Number(x) * s));
+    return [2, 3, 4].map((i) =>
+      lines[i]
+        .trim()
+        .split(/\s+/)
+        .map((x) => Number(x) * s),
+    );
   };
   const reference = strainRuns.find((p) => /\+0\.00pct$/.test(p)) ?? strainRuns[0];
   const a0 = latticeOf(reference);
@@ -144,7 +149,7 @@ if (strainRuns.length >= 2) {
   const svgPath = join(strainDir, 'trend.svg');
   writeFileSync(svgPath, trendSvg(points));
   console.log(`\nwrote ${rel(svgPath)}`);
-  console.log('Caution: model bands (no spin-orbit, energies on the model\'s own scale); the model\'s silicon gap');
+  console.log("Caution: model bands (no spin-orbit, energies on the model's own scale); the model's silicon gap");
   console.log('(≈ 0.82 eV) is below the measured 1.17 eV (memory), and real semilocal-DFT gaps are too small as well.');
 } else {
   skipped.push('trend plot (fewer than two strain runs)');
@@ -175,9 +180,13 @@ function trendSvg(points) {
   const top = 50;
   const ph = 210;
   const out = [];
-  out.push(`<svg xmlns="http://www.w3.org/2000/svg" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" font-family="sans-serif" font-size="12">`);
+  out.push(
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" font-family="sans-serif" font-size="12">`,
+  );
   out.push(`<rect width="${W}" height="${H}" fill="#ffffff"/>`);
-  out.push(`<text x="${W / 2}" y="22" text-anchor="middle" font-size="14">Si under (001) biaxial strain: Brightwater demo (invented scenario, EPM model data)</text>`);
+  out.push(
+    `<text x="${W / 2}" y="22" text-anchor="middle" font-size="14">Si under (001) biaxial strain: Brightwater demo (invented scenario, EPM model data)</text>`,
+  );
   const xs = points.map((p) => p.exx * 100);
   const xmin = Math.min(...xs);
   const xmax = Math.max(...xs);
@@ -209,15 +218,21 @@ function trendSvg(points) {
       out.push(`<text x="${left - 8}" y="${f(sy(y) + 4)}" text-anchor="end">${panel.fmt(y)}</text>`);
     }
     const pts = points.filter((p) => p[panel.key] !== null);
-    out.push(`<polyline fill="none" stroke="#2b6cb0" stroke-width="2" points="${pts.map((p) => `${f(sx(p.exx * 100))},${f(sy(p[panel.key]))}`).join(' ')}"/>`);
+    out.push(
+      `<polyline fill="none" stroke="#2b6cb0" stroke-width="2" points="${pts.map((p) => `${f(sx(p.exx * 100))},${f(sy(p[panel.key]))}`).join(' ')}"/>`,
+    );
     for (const p of pts) {
-      out.push(`<circle cx="${f(sx(p.exx * 100))}" cy="${f(sy(p[panel.key]))}" r="4" fill="#2b6cb0"><title>${esc(p.run)}: ${panel.fmt(p[panel.key])}</title></circle>`);
+      out.push(
+        `<circle cx="${f(sx(p.exx * 100))}" cy="${f(sy(p[panel.key]))}" r="4" fill="#2b6cb0"><title>${esc(p.run)}: ${panel.fmt(p[panel.key])}</title></circle>`,
+      );
       if (panel.key === 'gap' && p.nv !== null) {
         out.push(`<text x="${f(sx(p.exx * 100))}" y="${f(sy(p.gap) - 9)}" text-anchor="middle" font-size="10">N_v=${p.nv}</text>`);
       }
     }
   }
-  out.push(`<text x="${W / 2}" y="${H - 12}" text-anchor="middle" font-size="10" fill="#555">Model bands without spin-orbit; gaps are not comparable with experiment. N_v: conduction valleys related by symmetry.</text>`);
+  out.push(
+    `<text x="${W / 2}" y="${H - 12}" text-anchor="middle" font-size="10" fill="#555">Model bands without spin-orbit; gaps are not comparable with experiment. N_v: conduction valleys related by symmetry.</text>`,
+  );
   out.push('</svg>');
   return out.join('\n') + '\n';
 }

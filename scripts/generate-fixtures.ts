@@ -220,7 +220,10 @@ export function generateFixtures(): GeneratedFile[] {
       lattice: si.lattice,
     }),
   });
-  files.push({ path: 'fixtures/epm/si-cbm-grid/POSCAR', content: poscarFor(si, 'Si diamond a = 5.43 A (local EPM model, Cohen & Bergstresser 1966)') });
+  files.push({
+    path: 'fixtures/epm/si-cbm-grid/POSCAR',
+    content: poscarFor(si, 'Si diamond a = 5.43 A (local EPM model, Cohen & Bergstresser 1966)'),
+  });
   files.push({
     path: 'fixtures/epm/si-cbm-grid/KPOINTS',
     content: writeExplicitKpoints(`5x5x5 cartesian grid, step 0.01 2pi/a, centred at (0,${t0.toFixed(3)},0) 2pi/a`, gridK),
@@ -290,5 +293,7 @@ if (isEntry) {
   const files = generateFixtures();
   writeFixtures(root, files);
   const kb = files.reduce((a, f) => a + f.content.length, 0) / 1024;
-  process.stdout.write(`wrote ${files.length} files (${kb.toFixed(0)} KB) under ${root} in ${((performance.now() - t) / 1000).toFixed(1)} s\n`);
+  process.stdout.write(
+    `wrote ${files.length} files (${kb.toFixed(0)} KB) under ${root} in ${((performance.now() - t) / 1000).toFixed(1)} s\n`,
+  );
 }

@@ -73,10 +73,22 @@ async function main() {
         if (Number.isInteger(n) && n > 1) groups.push(n);
       }
     }
-    for (const g of groups) if (groupAlive(g)) try { process.kill(-g, 'SIGTERM'); } catch { /* gone */ }
+    for (const g of groups)
+      if (groupAlive(g))
+        try {
+          process.kill(-g, 'SIGTERM');
+        } catch {
+          /* gone */
+        }
     const until = Date.now() + 3000;
     while (groups.some(groupAlive) && Date.now() < until) spawnSync('sleep', ['0.1']);
-    for (const g of groups) if (groupAlive(g)) try { process.kill(-g, 'SIGKILL'); } catch { /* gone */ }
+    for (const g of groups)
+      if (groupAlive(g))
+        try {
+          process.kill(-g, 'SIGKILL');
+        } catch {
+          /* gone */
+        }
     return groups.filter(groupAlive);
   }
   let cleaned = false;
@@ -124,8 +136,17 @@ async function main() {
     mkdirSync(extensionsDir, { recursive: true });
     const r = spawnSync(
       process.execPath,
-      [codeServerEntry, '--install-extension', vsix, '--extensions-dir', extensionsDir,
-        '--user-data-dir', join(runDir, 'install-user-data'), '--config', join(runDir, 'install-config.yaml')],
+      [
+        codeServerEntry,
+        '--install-extension',
+        vsix,
+        '--extensions-dir',
+        extensionsDir,
+        '--user-data-dir',
+        join(runDir, 'install-user-data'),
+        '--config',
+        join(runDir, 'install-config.yaml'),
+      ],
       {
         encoding: 'utf8',
         env: { ...process.env, XDG_CONFIG_HOME: join(runDir, 'xdg-config'), XDG_DATA_HOME: join(runDir, 'xdg-data') },

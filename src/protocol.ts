@@ -72,7 +72,10 @@ export interface EncodedArray {
 }
 
 /** Encode as an ArrayBuffer (a copy, so the caller's array stays usable). */
-export function encodeArray(values: Float64Array | Float32Array, dtype: ArrayDType = values instanceof Float32Array ? 'f32' : 'f64'): EncodedArray {
+export function encodeArray(
+  values: Float64Array | Float32Array,
+  dtype: ArrayDType = values instanceof Float32Array ? 'f32' : 'f64',
+): EncodedArray {
   const out = dtype === 'f32' ? Float32Array.from(values) : Float64Array.from(values);
   return { dtype, length: out.length, data: out.buffer };
 }
@@ -416,13 +419,7 @@ export interface ViewErrorMessage {
 }
 
 export type ViewToHostMessage =
-  | ReadyMessage
-  | RequestFitMessage
-  | RequestWindowScanMessage
-  | SaveMessage
-  | ExportMessage
-  | OpenFileMessage
-  | ViewErrorMessage;
+  ReadyMessage | RequestFitMessage | RequestWindowScanMessage | SaveMessage | ExportMessage | OpenFileMessage | ViewErrorMessage;
 
 // ---------------------------------------------------------------------------------------------------------
 // Validation of what the view sends (issue: every message from the webview is validated before use)
@@ -509,7 +506,10 @@ export function isViewToHostMessage(x: unknown): x is ViewToHostMessage {
         isFitTarget(m) &&
         isMethod(m.method) &&
         (m.windows_meV === undefined ||
-          (Array.isArray(m.windows_meV) && m.windows_meV.length > 0 && m.windows_meV.length <= MESSAGE_LIMITS.maxScanWindows && m.windows_meV.every(isWindow)))
+          (Array.isArray(m.windows_meV) &&
+            m.windows_meV.length > 0 &&
+            m.windows_meV.length <= MESSAGE_LIMITS.maxScanWindows &&
+            m.windows_meV.every(isWindow)))
       );
     case ViewToHostType.Save:
       return (

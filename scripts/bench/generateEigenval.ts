@@ -23,7 +23,10 @@ async function main(): Promise<void> {
   const nb = Number(nbArg);
   const ws = createWriteStream(out!);
   const js = createWriteStream(jsonOut!);
-  await write(ws, `       2       2       1       1\n  0.4002443E+02  0.3840000E-09  0.3840000E-09  0.3840000E-09  0.5000000E-15\n  1.000000000000000E-004\n  CAR \n  benchmark\n     ${2 * Math.floor(nb / 4)}  ${nk}  ${nb}\n`);
+  await write(
+    ws,
+    `       2       2       1       1\n  0.4002443E+02  0.3840000E-09  0.3840000E-09  0.3840000E-09  0.5000000E-15\n  1.000000000000000E-004\n  CAR \n  benchmark\n     ${2 * Math.floor(nb / 4)}  ${nk}  ${nb}\n`,
+  );
   await write(js, '[');
   let first = true;
   for (let k = 0; k < nk; k++) {

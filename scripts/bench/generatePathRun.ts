@@ -54,7 +54,10 @@ async function main(): Promise<void> {
   const ws = createWriteStream(join(dir!, 'EIGENVAL'));
   const js = createWriteStream(join(dir!, 'energies.json'));
   const nOcc = Math.floor(nb / 2);
-  await write(ws, `       2       2       1       1\n  0.4002443E+02  0.3840000E-09  0.3840000E-09  0.3840000E-09  0.5000000E-15\n  1.000000000000000E-004\n  CAR \n  benchmark\n     ${2 * nOcc}  ${nk}  ${nb}\n`);
+  await write(
+    ws,
+    `       2       2       1       1\n  0.4002443E+02  0.3840000E-09  0.3840000E-09  0.3840000E-09  0.5000000E-15\n  1.000000000000000E-004\n  CAR \n  benchmark\n     ${2 * nOcc}  ${nk}  ${nb}\n`,
+  );
   await write(js, '[');
   const spacing = 40 / nb;
   let first = true;
@@ -68,7 +71,10 @@ async function main(): Promise<void> {
       const kx = -kf[0] + kf[1] + kf[2];
       const ky = kf[0] - kf[1] + kf[2];
       const kz = kf[0] + kf[1] - kf[2];
-      const fcc = Math.cos(Math.PI * kx) * Math.cos(Math.PI * ky) + Math.cos(Math.PI * ky) * Math.cos(Math.PI * kz) + Math.cos(Math.PI * kz) * Math.cos(Math.PI * kx);
+      const fcc =
+        Math.cos(Math.PI * kx) * Math.cos(Math.PI * ky) +
+        Math.cos(Math.PI * ky) * Math.cos(Math.PI * kz) +
+        Math.cos(Math.PI * kz) * Math.cos(Math.PI * kx);
       const sc = Math.cos(2 * Math.PI * kx) + Math.cos(2 * Math.PI * ky) + Math.cos(2 * Math.PI * kz);
       let line = `\n  ${kf.map(fortranE).join('  ')}  ${fortranE(1 / nk)}\n`;
       let j = '';

@@ -69,7 +69,13 @@ async function main(): Promise<void> {
 /** A diamond-like crystal's path with cosine bands: nk points along Γ–X–W–L–Γ, nb bands, a gap in the middle. */
 function syntheticPath(nk: number, nb: number): BandStructure {
   const a = 5.43;
-  const ends = [[0, 0, 0], [0.5, 0, 0.5], [0.5, 0.25, 0.75], [0.5, 0.5, 0.5], [0, 0, 0]];
+  const ends = [
+    [0, 0, 0],
+    [0.5, 0, 0.5],
+    [0.5, 0.25, 0.75],
+    [0.5, 0.5, 0.5],
+    [0, 0, 0],
+  ];
   const per = Math.floor(nk / (ends.length - 1));
   const kpoints = new Float64Array(per * (ends.length - 1) * 3);
   const n = kpoints.length / 3;
@@ -83,7 +89,9 @@ function syntheticPath(nk: number, nb: number): BandStructure {
   }
   const energies = new Float64Array(n * nb);
   for (let k = 0; k < n; k++) {
-    const x = kpoints[3 * k]!, y = kpoints[3 * k + 1]!, z = kpoints[3 * k + 2]!;
+    const x = kpoints[3 * k]!,
+      y = kpoints[3 * k + 1]!,
+      z = kpoints[3 * k + 2]!;
     const c = Math.cos(2 * Math.PI * x) + Math.cos(2 * Math.PI * y) + Math.cos(2 * Math.PI * z);
     for (let b = 0; b < nb; b++) {
       const base = b < nb / 2 ? -12 + (10 * b) / (nb / 2) : 1 + (10 * (b - nb / 2)) / (nb / 2);
@@ -93,10 +101,36 @@ function syntheticPath(nk: number, nb: number): BandStructure {
   const labels = ['Γ', 'X', 'W', 'L'].map((label, s) => ({ index: s * per, label }));
   return {
     source: { format: 'synthetic', file: 'synthetic', files: [] },
-    lattice: [[0, a / 2, a / 2], [a / 2, 0, a / 2], [a / 2, a / 2, 0]],
-    structure: { lattice: [[0, a / 2, a / 2], [a / 2, 0, a / 2], [a / 2, a / 2, 0]], species: ['Si', 'Si'], positions: Float64Array.from([0, 0, 0, 0.25, 0.25, 0.25]) },
-    nk: n, nBands: nb, nSpin: 1, kpoints, weights: null, energies: [energies], occupations: null, fermiEnergy: null,
-    electrons: nb, spinorbit: false, labels, sampling: 'path', grid: null, writtenDistance: null, partial: false, warnings: [],
+    lattice: [
+      [0, a / 2, a / 2],
+      [a / 2, 0, a / 2],
+      [a / 2, a / 2, 0],
+    ],
+    structure: {
+      lattice: [
+        [0, a / 2, a / 2],
+        [a / 2, 0, a / 2],
+        [a / 2, a / 2, 0],
+      ],
+      species: ['Si', 'Si'],
+      positions: Float64Array.from([0, 0, 0, 0.25, 0.25, 0.25]),
+    },
+    nk: n,
+    nBands: nb,
+    nSpin: 1,
+    kpoints,
+    weights: null,
+    energies: [energies],
+    occupations: null,
+    fermiEnergy: null,
+    electrons: nb,
+    spinorbit: false,
+    labels,
+    sampling: 'path',
+    grid: null,
+    writtenDistance: null,
+    partial: false,
+    warnings: [],
   };
 }
 

@@ -32,7 +32,17 @@ async function main(): Promise<void> {
   u = process.cpuUsage();
   const text = JSON.stringify(reportToJson(report), null, 2);
   const jsonMs = cpuMs(process.cpuUsage(u));
-  console.log(JSON.stringify({ parseMs, readMs, analyzeMs, jsonMs, bytes: text.length, extrema: report.extrema.length, rejected: (report.rejected ?? []).length }));
+  console.log(
+    JSON.stringify({
+      parseMs,
+      readMs,
+      analyzeMs,
+      jsonMs,
+      bytes: text.length,
+      extrema: report.extrema.length,
+      rejected: (report.rejected ?? []).length,
+    }),
+  );
 }
 
 void main();

@@ -17,12 +17,23 @@ async function main(): Promise<void> {
   await ensureSymmetryReady();
   const a = 5.43;
   const h = a / 2;
-  const lattice: Mat3 = [[0, h, h], [h, 0, h], [h, h, 0]];
+  const lattice: Mat3 = [
+    [0, h, h],
+    [h, 0, h],
+    [h, h, 0],
+  ];
   const sym = crystalSymmetry({ lattice, species: ['Si', 'Si'], positions: new Float64Array([0, 0, 0, 0.25, 0.25, 0.25]) });
   const { kpoints, weights } = irreducibleMesh([n, n, n], [0, 0, 0], sym.reciprocalPointGroup);
   const nk = kpoints.length / 3;
   const b = reciprocalLattice(lattice);
-  const neighbours = [[0, 1, 1], [0, 1, -1], [1, 0, 1], [1, 0, -1], [1, 1, 0], [1, -1, 0]].map((s) => s.map((x) => x * h));
+  const neighbours = [
+    [0, 1, 1],
+    [0, 1, -1],
+    [1, 0, 1],
+    [1, 0, -1],
+    [1, 1, 0],
+    [1, -1, 0],
+  ].map((s) => s.map((x) => x * h));
   const bands = Array.from({ length: nb }, (_, band) => {
     const e = new Float64Array(nk);
     for (let i = 0; i < nk; i++) {
@@ -50,10 +61,18 @@ async function main(): Promise<void> {
   made.run.extrema(edge - 1, 'max');
   made.run.extrema(edge, 'min');
   const t3 = performance.now();
-  console.log(JSON.stringify({
-    mesh: `${n}×${n}×${n}`, irreducible: nk, bands: nb, stars: made.run.fit.basis.count,
-    setupMs: Math.round(t1 - t0), fitAllBandsMs: Math.round(t2 - t1), edgeExtremaMs: Math.round(t3 - t2),
-    jsonParseMs: Number(parseMs.toFixed(1)), ratio: Number(((t3 - t0) / parseMs).toFixed(1)),
-  }));
+  console.log(
+    JSON.stringify({
+      mesh: `${n}×${n}×${n}`,
+      irreducible: nk,
+      bands: nb,
+      stars: made.run.fit.basis.count,
+      setupMs: Math.round(t1 - t0),
+      fitAllBandsMs: Math.round(t2 - t1),
+      edgeExtremaMs: Math.round(t3 - t2),
+      jsonParseMs: Number(parseMs.toFixed(1)),
+      ratio: Number(((t3 - t0) / parseMs).toFixed(1)),
+    }),
+  );
 }
 void main();

@@ -46,7 +46,8 @@ function generate(): void {
     }
   };
   const f = (v: number, w: number, d: number): string => v.toFixed(d).padStart(w);
-  buf += '<?xml version="1.0" encoding="ISO-8859-1"?>\n<modeling>\n <generator>\n  <i name="program" type="string">vasp </i>\n </generator>\n';
+  buf +=
+    '<?xml version="1.0" encoding="ISO-8859-1"?>\n<modeling>\n <generator>\n  <i name="program" type="string">vasp </i>\n </generator>\n';
   buf += ' <kpoints>\n  <generation param="listgenerated">\n   <i name="divisions" type="int">' + f(nk, 8, 0) + ' </i>\n';
   buf += `   <v>${f(0, 16, 8)}${f(0, 16, 8)}${f(0, 16, 8)} </v>\n   <v>${f(0.5, 16, 8)}${f(0, 16, 8)}${f(0, 16, 8)} </v>\n  </generation>\n`;
   buf += '  <varray name="kpointlist" >\n';
@@ -55,12 +56,15 @@ function generate(): void {
   for (let k = 0; k < nk; k++) buf += `   <v>${f(1 / nk, 16, 8)} </v>\n`;
   buf += '  </varray>\n </kpoints>\n <parameters>\n  <separator name="electronic" >\n';
   buf += `   <i type="int" name="NBANDS">${f(nb, 6, 0)}</i>\n   <i name="NELECT">${f(nb, 16, 8)}</i>\n`;
-  buf += '   <separator name="electronic spin" >\n    <i type="int" name="ISPIN">     1</i>\n    <i type="logical" name="LSORBIT"> F  </i>\n   </separator>\n  </separator>\n </parameters>\n';
-  buf += ' <atominfo>\n  <array name="atoms" >\n   <set>\n    <rc><c>Si</c><c>   1</c></rc>\n    <rc><c>Si</c><c>   1</c></rc>\n   </set>\n  </array>\n </atominfo>\n';
+  buf +=
+    '   <separator name="electronic spin" >\n    <i type="int" name="ISPIN">     1</i>\n    <i type="logical" name="LSORBIT"> F  </i>\n   </separator>\n  </separator>\n </parameters>\n';
+  buf +=
+    ' <atominfo>\n  <array name="atoms" >\n   <set>\n    <rc><c>Si</c><c>   1</c></rc>\n    <rc><c>Si</c><c>   1</c></rc>\n   </set>\n  </array>\n </atominfo>\n';
   const structure = (name: string): string =>
     ` <structure name="${name}" >\n  <crystal>\n   <varray name="basis" >\n    <v>${f(0, 16, 8)}${f(2.715, 16, 8)}${f(2.715, 16, 8)} </v>\n    <v>${f(2.715, 16, 8)}${f(0, 16, 8)}${f(2.715, 16, 8)} </v>\n    <v>${f(2.715, 16, 8)}${f(2.715, 16, 8)}${f(0, 16, 8)} </v>\n   </varray>\n  </crystal>\n  <varray name="positions" >\n   <v>${f(0, 16, 8)}${f(0, 16, 8)}${f(0, 16, 8)} </v>\n   <v>${f(0.25, 16, 8)}${f(0.25, 16, 8)}${f(0.25, 16, 8)} </v>\n  </varray>\n </structure>\n`;
   buf += structure('initialpos');
-  buf += ' <calculation>\n  <eigenvalues>\n   <array>\n    <dimension dim="1">band</dimension>\n    <dimension dim="2">kpoint</dimension>\n    <dimension dim="3">spin</dimension>\n    <field>eigene</field>\n    <field>occ</field>\n    <set>\n     <set comment="spin 1">\n';
+  buf +=
+    ' <calculation>\n  <eigenvalues>\n   <array>\n    <dimension dim="1">band</dimension>\n    <dimension dim="2">kpoint</dimension>\n    <dimension dim="3">spin</dimension>\n    <field>eigene</field>\n    <field>occ</field>\n    <set>\n     <set comment="spin 1">\n';
   for (let k = 0; k < nk; k++) {
     buf += `      <set comment="kpoint ${k + 1}">\n`;
     for (let b = 0; b < nb; b++) {
@@ -72,7 +76,8 @@ function generate(): void {
     buf += '      </set>\n';
     flush();
   }
-  buf += '     </set>\n    </set>\n   </array>\n  </eigenvalues>\n  <dos>\n   <i name="efermi">      0.50000000 </i>\n  </dos>\n </calculation>\n';
+  buf +=
+    '     </set>\n    </set>\n   </array>\n  </eigenvalues>\n  <dos>\n   <i name="efermi">      0.50000000 </i>\n  </dos>\n </calculation>\n';
   buf += structure('finalpos') + '</modeling>\n';
   jbuf += ']';
   flush(true);
@@ -81,7 +86,10 @@ function generate(): void {
 }
 
 function measure(task: string, file: string): { ms: number; cpuMs: number; rssBeforeMB: number; maxRssMB: number; count: number } | null {
-  const r = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/bench/measure.ts', task, file], { encoding: 'utf8', maxBuffer: 1 << 26 });
+  const r = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/bench/measure.ts', task, file], {
+    encoding: 'utf8',
+    maxBuffer: 1 << 26,
+  });
   if (r.status !== 0) {
     console.log(`  ${task}: failed (${(r.stderr || '').trim().split('\n').slice(-1)[0]})`);
     return null;
@@ -91,7 +99,15 @@ function measure(task: string, file: string): { ms: number; cpuMs: number; rssBe
 const fmt = (x: number, d = 2): string => x.toFixed(d);
 const STREAM_ABOVE_MB = 32;
 
-for (const [k, b] of small ? [[1000, 520], [4000, 40]] : [[11200, 520], [20000, 40]]) {
+for (const [k, b] of small
+  ? [
+      [1000, 520],
+      [4000, 40],
+    ]
+  : [
+      [11200, 520],
+      [20000, 40],
+    ]) {
   nk = k!;
   nb = b!;
   xml = `${dir}/vasprun-${nk}x${nb}.xml`;
@@ -105,17 +121,29 @@ for (const [k, b] of small ? [[1000, 520], [4000, 40]] : [[11200, 520], [20000, 
   const nl = measure('newline-count', xml);
   if (!ours || !loader || !jp || !nl) continue;
   const ratio = ours.ms / ours.count / (jp.ms / jp.count);
-  console.log(`  vasprun reader alone, streamed   ${fmt(ours.ms, 0)} ms  (${fmt(size / MB / (ours.ms / 1000), 0)} MiB/s, ${fmt((ours.ms * 1e6) / ours.count, 1)} ns per energy)`);
-  console.log(`  JSON.parse, same energies as one array (${fmt(statSync(json).size / MB, 0)} MiB)  ${fmt(jp.ms, 0)} ms  (${fmt((jp.ms * 1e6) / jp.count, 1)} ns per energy)`);
+  console.log(
+    `  vasprun reader alone, streamed   ${fmt(ours.ms, 0)} ms  (${fmt(size / MB / (ours.ms / 1000), 0)} MiB/s, ${fmt((ours.ms * 1e6) / ours.count, 1)} ns per energy)`,
+  );
+  console.log(
+    `  JSON.parse, same energies as one array (${fmt(statSync(json).size / MB, 0)} MiB)  ${fmt(jp.ms, 0)} ms  (${fmt((jp.ms * 1e6) / jp.count, 1)} ns per energy)`,
+  );
   console.log(`  newline count over the same XML (I/O floor)  ${fmt(nl.ms, 0)} ms`);
-  console.log(`  ratio reader / JSON.parse (time per energy): ${fmt(ratio)}   (goal ≤ ${TIME_GOAL}: ${ratio <= TIME_GOAL ? 'met' : 'NOT met'})`);
+  console.log(
+    `  ratio reader / JSON.parse (time per energy): ${fmt(ratio)}   (goal ≤ ${TIME_GOAL}: ${ratio <= TIME_GOAL ? 'met' : 'NOT met'})`,
+  );
   const cpuRatio = ours.cpuMs / ours.count / (jp.cpuMs / jp.count);
-  console.log(`  the same ratio in CPU time (less disturbed by other load): ${fmt(cpuRatio)}   (reader ${fmt(ours.cpuMs, 0)} ms, JSON.parse ${fmt(jp.cpuMs, 0)} ms)`);
+  console.log(
+    `  the same ratio in CPU time (less disturbed by other load): ${fmt(cpuRatio)}   (reader ${fmt(ours.cpuMs, 0)} ms, JSON.parse ${fmt(jp.cpuMs, 0)} ms)`,
+  );
   console.log(`  ratio reader / newline count (same file):    ${fmt(ours.ms / nl.ms)}`);
   const peak = ours.maxRssMB - ours.rssBeforeMB;
   const mem = (peak * MB) / size;
-  console.log(`  peak memory while reading ${fmt(peak, 0)} MiB over a baseline of ${fmt(ours.rssBeforeMB, 0)} MiB; ratio to the file size: ${fmt(mem)}   (goal ≤ ${MEMORY_GOAL}: ${mem <= MEMORY_GOAL ? 'met' : 'NOT met'})`);
-  console.log(`  (energies as doubles and occupations as floats: ${fmt((ours.count * 12) / MB, 0)} MiB, ${fmt((ours.count * 12) / size)} of the file size)`);
+  console.log(
+    `  peak memory while reading ${fmt(peak, 0)} MiB over a baseline of ${fmt(ours.rssBeforeMB, 0)} MiB; ratio to the file size: ${fmt(mem)}   (goal ≤ ${MEMORY_GOAL}: ${mem <= MEMORY_GOAL ? 'met' : 'NOT met'})`,
+  );
+  console.log(
+    `  (energies as doubles and occupations as floats: ${fmt((ours.count * 12) / MB, 0)} MiB, ${fmt((ours.count * 12) / size)} of the file size)`,
+  );
   const lpeak = loader.maxRssMB - loader.rssBeforeMB;
   const streamed = size > STREAM_ABOVE_MB * MB;
   console.log(

@@ -33,7 +33,10 @@ export class EpmBandSolver {
   private readonly reciprocal: [Vec3, Vec3, Vec3];
   private readonly bohr2 = BOHR_ANGSTROM * BOHR_ANGSTROM;
 
-  constructor(readonly crystal: EpmCrystal, cutoff = DEFAULT_CUTOFF) {
+  constructor(
+    readonly crystal: EpmCrystal,
+    cutoff = DEFAULT_CUTOFF,
+  ) {
     const a0 = crystal.material.latticeConstant;
     const unit = (2 * Math.PI) / a0;
     const b0 = reciprocalLattice(fccLattice(a0));

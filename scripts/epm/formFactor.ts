@@ -32,7 +32,9 @@ export function formFactorAt(table: FormFactorTable, q2: number): number {
 
 /** dV/dq² at a tabulated shell: one-sided at the ends, the harmonic mean of the secants inside. */
 export function tableSlope(table: FormFactorTable, shell: number): number {
-  const nodes = Object.keys(table).map(Number).sort((a, b) => a - b);
+  const nodes = Object.keys(table)
+    .map(Number)
+    .sort((a, b) => a - b);
   const i = nodes.indexOf(shell);
   if (i < 0 || nodes.length < 2) return 0;
   const secant = (a: number, b: number): number => (table[nodes[b]!]! - table[nodes[a]!]!) / (nodes[b]! - nodes[a]!);

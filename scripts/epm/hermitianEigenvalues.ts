@@ -57,12 +57,15 @@ export function reduceHermitian(n: number, reIn: Float64Array, imIn: Float64Arra
     qi.fill(0, j0);
     for (let i = j0; i < n; i++) {
       const row = i * n;
-      const vri = vr[i]!, vii = vi[i]!;
+      const vri = vr[i]!,
+        vii = vi[i]!;
       let sr = ar[row + i]! * vri;
       let si = ar[row + i]! * vii;
       for (let j = j0; j < i; j++) {
-        const br = ar[row + j]!, bi = ai[row + j]!;
-        const vrj = vr[j]!, vij = vi[j]!;
+        const br = ar[row + j]!,
+          bi = ai[row + j]!;
+        const vrj = vr[j]!,
+          vij = vi[j]!;
         // B_ij v_j into p_i, conj(B_ij) v_i into p_j.
         sr += br * vrj - bi * vij;
         si += br * vij + bi * vrj;
@@ -81,9 +84,15 @@ export function reduceHermitian(n: number, reIn: Float64Array, imIn: Float64Arra
     // B ← B − 2(v q† + q v†), lower triangle only.
     for (let i = j0; i < n; i++) {
       const row = i * n;
-      const vri = vr[i]!, vii = vi[i]!, qri = qr[i]!, qii = qi[i]!;
+      const vri = vr[i]!,
+        vii = vi[i]!,
+        qri = qr[i]!,
+        qii = qi[i]!;
       for (let j = j0; j <= i; j++) {
-        const qrj = qr[j]!, qij = qi[j]!, vrj = vr[j]!, vij = vi[j]!;
+        const qrj = qr[j]!,
+          qij = qi[j]!,
+          vrj = vr[j]!,
+          vij = vi[j]!;
         ar[row + j] = ar[row + j]! - 2 * (vri * qrj + vii * qij + qri * vrj + qii * vij);
         ai[row + j] = ai[row + j]! - 2 * (vii * qrj - vri * qij + qii * vrj - qri * vij);
       }
@@ -130,7 +139,8 @@ export function reduceSymmetric(n: number, aIn: Float64Array): { diagonal: Float
     for (let i = j0; i < n; i++) q[i] = q[i]! - beta * v[i]!;
     for (let i = j0; i < n; i++) {
       const row = i * n;
-      const vi = v[i]!, qi = q[i]!;
+      const vi = v[i]!,
+        qi = q[i]!;
       for (let j = j0; j <= i; j++) a[row + j] = a[row + j]! - 2 * (vi * q[j]! + qi * v[j]!);
     }
   }

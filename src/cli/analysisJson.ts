@@ -13,6 +13,9 @@ export function analysisJson(bs: BandStructure, report: Report, mode: EnergyZero
   const lines = labelledLines(bs);
   const json = reportToJson(report);
   json.energyZero = { requested: zero.requested, used: zero.used, eV: zero.eV, reason: zero.reason };
-  json.extrema = (json.extrema as Record<string, unknown>[]).map((x, i) => ({ ...x, pathPosition: pathPosition(report.extrema[i]!.k, lines) }));
+  json.extrema = (json.extrema as Record<string, unknown>[]).map((x, i) => ({
+    ...x,
+    pathPosition: pathPosition(report.extrema[i]!.k, lines),
+  }));
   return json;
 }

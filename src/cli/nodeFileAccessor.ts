@@ -18,7 +18,15 @@ const OPEN_FLAGS = fsc.O_RDONLY | (fsc.O_NONBLOCK ?? 0) | (fsc.O_NOCTTY ?? 0);
 function kindOf(s: Stats): { type: EntryType; kind?: string } {
   if (s.isFile()) return { type: 'file' };
   if (s.isDirectory()) return { type: 'directory' };
-  const kind = s.isFIFO() ? 'a FIFO (named pipe)' : s.isCharacterDevice() ? 'a character device' : s.isBlockDevice() ? 'a block device' : s.isSocket() ? 'a socket' : 'not a regular file';
+  const kind = s.isFIFO()
+    ? 'a FIFO (named pipe)'
+    : s.isCharacterDevice()
+      ? 'a character device'
+      : s.isBlockDevice()
+        ? 'a block device'
+        : s.isSocket()
+          ? 'a socket'
+          : 'not a regular file';
   return { type: 'other', kind };
 }
 
@@ -56,7 +64,8 @@ async function readBounded(path: string, maxBytes: number, headOnly: boolean): P
   }
   try {
     const now = await fh.stat();
-    if (!sameFile(before, now)) throw new ValleyscopeError(`${path} changed into something other than the regular file it was while being opened; it was not read`);
+    if (!sameFile(before, now))
+      throw new ValleyscopeError(`${path} changed into something other than the regular file it was while being opened; it was not read`);
     const want = Math.min(headOnly ? maxBytes : now.size, maxBytes);
     const buf = new Uint8Array(want);
     let got = 0;

@@ -54,7 +54,9 @@ export interface SafeWriteOptions {
 /** The target changed on disk between reading it and writing it; nothing was written. */
 export class WriteConflictError extends ValleyscopeError {
   constructor(readonly target: string) {
-    super(`${target} changed on disk while Valleyscope was updating it; nothing was written — run the command again to merge with the new content`);
+    super(
+      `${target} changed on disk while Valleyscope was updating it; nothing was written — run the command again to merge with the new content`,
+    );
     this.name = 'WriteConflictError';
   }
 }
@@ -69,13 +71,19 @@ function explain(target: string, e: unknown): ValleyscopeError {
   if (e instanceof ValleyscopeError) return e;
   const code = (e as NodeJS.ErrnoException | undefined)?.code;
   const what =
-    code === 'ENOSPC' ? 'the disk is full'
-    : code === 'EDQUOT' ? 'the disk quota is used up'
-    : code === 'EACCES' || code === 'EPERM' ? 'permission to write in its folder is denied'
-    : code === 'EROFS' ? 'the file system is read-only'
-    : code === 'ENOENT' ? 'its folder does not exist'
-    : code === 'ENAMETOOLONG' ? 'its name is too long for the file system'
-    : `the system reported ${code ?? (e as Error)?.message ?? String(e)}`;
+    code === 'ENOSPC'
+      ? 'the disk is full'
+      : code === 'EDQUOT'
+        ? 'the disk quota is used up'
+        : code === 'EACCES' || code === 'EPERM'
+          ? 'permission to write in its folder is denied'
+          : code === 'EROFS'
+            ? 'the file system is read-only'
+            : code === 'ENOENT'
+              ? 'its folder does not exist'
+              : code === 'ENAMETOOLONG'
+                ? 'its name is too long for the file system'
+                : `the system reported ${code ?? (e as Error)?.message ?? String(e)}`;
   return new ValleyscopeError(`${target} could not be written (${what}); the previous file, if any, is unchanged`);
 }
 

@@ -38,7 +38,8 @@ export interface RunLocation {
 }
 
 /** Files never worth opening when looking for eigenvalues in a run folder. */
-const SKIP = /^(WAVECAR|CHGCAR|CHG|WAVEDER|PROCAR|DOSCAR|LOCPOT|ELFCAR|AECCAR\d|vaspout\.h5|.*\.valleys\.json|.*\.(wfc\d*|save|hdf5|h5|npy|png|svg|pdf|gz|xz|zip|tar))$/i;
+const SKIP =
+  /^(WAVECAR|CHGCAR|CHG|WAVEDER|PROCAR|DOSCAR|LOCPOT|ELFCAR|AECCAR\d|vaspout\.h5|.*\.valleys\.json|.*\.(wfc\d*|save|hdf5|h5|npy|png|svg|pdf|gz|xz|zip|tar))$/i;
 
 /**
  * Find the eigenvalue file in a folder (by content), or confirm a file's format.
@@ -56,7 +57,10 @@ export async function locateRun(fs: FileAccessor, path: string): Promise<RunLoca
     if (st.size === 0) throw new ValleyscopeError(`${path}: the file is empty`);
     const head = await fs.readHead(path, DETECT_HEAD_BYTES);
     const d = detectFormat(head, basename(path));
-    if (!d) throw new ValleyscopeError(`${path}: not an eigenvalue file of a layout Valleyscope reads (${READERS.map((r) => r.label).join(', ')})`);
+    if (!d)
+      throw new ValleyscopeError(
+        `${path}: not an eigenvalue file of a layout Valleyscope reads (${READERS.map((r) => r.label).join(', ')})`,
+      );
     return { file: path, reader: d.reader, others: [] };
   }
   const listing = await fs.list(path);
@@ -140,7 +144,10 @@ export async function readLocated(fs: FileAccessor, loc: RunLocation, options: L
   if (loc.reader.streaming && fs.openRanged && st && st.size > STREAM_ABOVE_BYTES) {
     const stream = fs.openRanged(loc.file);
     try {
-      return withCandidateNotice(await readFromBytes(loc.reader, { path: loc.file, bytes: new Uint8Array(0), stream }, companions, options), loc);
+      return withCandidateNotice(
+        await readFromBytes(loc.reader, { path: loc.file, bytes: new Uint8Array(0), stream }, companions, options),
+        loc,
+      );
     } finally {
       stream.close();
     }
@@ -159,7 +166,12 @@ function withCandidateNotice(bs: BandStructure, loc: RunLocation): BandStructure
  * The reading step once the bytes are in memory (the CLI after readLocated's reads, the editor's analysis
  * worker, which receives bytes): one place, so both give the same band structure.
  */
-export async function readFromBytes(reader: FormatReader, main: InputFile, companions: InputFile[], options: ReadOptions = {}): Promise<BandStructure> {
+export async function readFromBytes(
+  reader: FormatReader,
+  main: InputFile,
+  companions: InputFile[],
+  options: ReadOptions = {},
+): Promise<BandStructure> {
   // Without a path file, label the high-symmetry points recognised from the lattice (with a warning).
   let bs: BandStructure;
   try {
@@ -172,7 +184,10 @@ export async function readFromBytes(reader: FormatReader, main: InputFile, compa
   bs.warnings = bs.warnings.map((w) => (w.file !== undefined && w.file !== main.path ? { ...w, message: redactContent(w.message) } : w));
   if (bs.electrons === null && options.electrons !== undefined && options.electrons > 0) {
     bs.electrons = options.electrons;
-    bs.warnings.push({ code: 'electrons-given', message: `The run's files give no electron count: ${options.electrons} electrons were taken from the structure file given.` });
+    bs.warnings.push({
+      code: 'electrons-given',
+      message: `The run's files give no electron count: ${options.electrons} electrons were taken from the structure file given.`,
+    });
   }
   return withInferredLabels(refuseAbsurdKpoints(bs));
 }
@@ -185,7 +200,10 @@ export async function readCompanions(fs: FileAccessor, loc: RunLocation): Promis
   } catch {
     siblings = [];
   }
-  const names = loc.reader.companions(basename(loc.file), siblings.filter((n) => n !== basename(loc.file)));
+  const names = loc.reader.companions(
+    basename(loc.file),
+    siblings.filter((n) => n !== basename(loc.file)),
+  );
   const out: InputFile[] = [];
   for (const n of names) {
     const p = joinPath(dir, n);

@@ -22,7 +22,7 @@ export const BOLTZMANN_EV_PER_K = 8.617333262e-5;
  * ħ²/m_e in eV·Å², derived from the constants above:
  * ħ² / (m_e · e) in J·m²/… → eV·m², times 1e20 for Å².  ≈ 7.6199642 eV·Å².
  */
-export const HBAR2_OVER_ME_EV_A2 = (HBAR_J_S * HBAR_J_S) / (ELECTRON_MASS_KG * ELEMENTARY_CHARGE_C) * 1e20;
+export const HBAR2_OVER_ME_EV_A2 = ((HBAR_J_S * HBAR_J_S) / (ELECTRON_MASS_KG * ELEMENTARY_CHARGE_C)) * 1e20;
 
 /** Convert a band curvature d²E/dk² (eV·Å²) to an effective mass in units of m_e. */
 export function curvatureToMass(d2EdK2: number): number {

@@ -58,7 +58,9 @@ export function joinNotes(before: string, now: string | undefined): string {
 export function composeAnnotations(input: ComposeInput): Composed {
   const warnings: string[] = [];
   const older =
-    input.existingText !== null && input.existingText.trim() !== '' ? parseAnnotations(input.existingText, input.existingName, warnings) : null;
+    input.existingText !== null && input.existingText.trim() !== ''
+      ? parseAnnotations(input.existingText, input.existingName, warnings)
+      : null;
   // Fits chosen before (recorded in the file) are redone as recorded; the view's fits come last and win.
   const before = older ? chosenFromDoc(older, input.bs) : [];
   const { report, fits, placed } = withChosenFits(input.bs, input.report, input.settings, [...before, ...input.fits]);

@@ -29,9 +29,12 @@ export async function currentText(t: AnnotationsTarget): Promise<{ text: string 
     const st = await vscode.workspace.fs.stat(t.uri);
     // Only a regular file within the annotations limit is read (a FIFO or device there would block or never end).
     if (!(st.type & vscode.FileType.File) || st.type & vscode.FileType.Directory) {
-      throw new ValleyscopeError(`${t.uri.path}: the annotations file is not a regular file (a folder, FIFO, socket or device); it was not opened — remove it to write annotations there`);
+      throw new ValleyscopeError(
+        `${t.uri.path}: the annotations file is not a regular file (a folder, FIFO, socket or device); it was not opened — remove it to write annotations there`,
+      );
     }
-    if (st.size > READ_LIMITS.annotations) throw new ValleyscopeError(tooLargeSentence(t.uri.path, st.size, READ_LIMITS.annotations, 'annotations'));
+    if (st.size > READ_LIMITS.annotations)
+      throw new ValleyscopeError(tooLargeSentence(t.uri.path, st.size, READ_LIMITS.annotations, 'annotations'));
     const bytes = await vscode.workspace.fs.readFile(t.uri);
     return { text: new TextDecoder('utf-8').decode(bytes), mtime: st.mtime };
   } catch (e) {
@@ -52,7 +55,8 @@ export async function writeThroughEditor(doc: vscode.TextDocument, text: string)
   edit.replace(doc.uri, doc.validateRange(all), text);
   if (!(await vscode.workspace.applyEdit(edit))) throw new ValleyscopeError(`${doc.uri.path}: the editor refused the change`);
   if (wasDirty) return 'left-unsaved';
-  if (!(await doc.save())) throw new ValleyscopeError(`${doc.uri.path}: the merged annotations are in the editor but could not be saved to disk`);
+  if (!(await doc.save()))
+    throw new ValleyscopeError(`${doc.uri.path}: the merged annotations are in the editor but could not be saved to disk`);
   return 'saved';
 }
 

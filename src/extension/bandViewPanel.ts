@@ -144,7 +144,10 @@ export class BandViewPanel implements vscode.Disposable {
       return;
     }
     if (state.status === 'failed') {
-      const why = state.error instanceof CancelledError ? 'Reading was cancelled. Run "Valleyscope: Reload Run" to read it again.' : message(state.error);
+      const why =
+        state.error instanceof CancelledError
+          ? 'Reading was cancelled. Run "Valleyscope: Reload Run" to read it again.'
+          : message(state.error);
       this.post({ type: HostToViewType.LoadFailed, message: why });
       return;
     }
@@ -171,7 +174,7 @@ export class BandViewPanel implements vscode.Disposable {
 
   private async receive(raw: unknown): Promise<void> {
     if (!isViewToHostMessage(raw)) {
-      const t = typeof raw === 'object' && raw !== null && 'type' in raw ? String((raw).type).slice(0, 40) : typeof raw;
+      const t = typeof raw === 'object' && raw !== null && 'type' in raw ? String(raw.type).slice(0, 40) : typeof raw;
       this.deps.log.warn(`band view: a message that does not follow the protocol was dropped (type ${t})`);
       return;
     }
@@ -198,7 +201,12 @@ export class BandViewPanel implements vscode.Disposable {
         }
         try {
           const out = this.deps.fits.fit(run, m, m.window_meV, m.method, m.withScan === true);
-          const target = { spin: m.spin, kIndex: m.kIndex, band0: m.band0, ...(typeof m.maximum === 'boolean' ? { maximum: m.maximum } : {}) };
+          const target = {
+            spin: m.spin,
+            kIndex: m.kIndex,
+            band0: m.band0,
+            ...(typeof m.maximum === 'boolean' ? { maximum: m.maximum } : {}),
+          };
           this.post({ type: HostToViewType.FitResult, requestId: m.requestId, target, ...out });
         } catch (e) {
           this.post({ type: HostToViewType.RequestFailed, requestId: m.requestId, message: message(e) });
@@ -214,7 +222,12 @@ export class BandViewPanel implements vscode.Disposable {
         }
         try {
           const scan = this.deps.fits.scan(run, m, m.method, m.windows_meV);
-          this.post({ type: HostToViewType.WindowScanResult, requestId: m.requestId, target: { spin: m.spin, kIndex: m.kIndex, band0: m.band0 }, scan });
+          this.post({
+            type: HostToViewType.WindowScanResult,
+            requestId: m.requestId,
+            target: { spin: m.spin, kIndex: m.kIndex, band0: m.band0 },
+            scan,
+          });
         } catch (e) {
           this.post({ type: HostToViewType.RequestFailed, requestId: m.requestId, message: message(e) });
         }
@@ -306,7 +319,14 @@ export class BandViewPanel implements vscode.Disposable {
     if (refusal) return finish(false, refusal.replace('write annotations', 'export plots'));
     let bytes: Uint8Array;
     try {
-      bytes = m.format === 'svg' ? new TextEncoder().encode(m.data as string) : typeof m.data === 'string' ? base64ToBytes(m.data) : m.data instanceof ArrayBuffer ? new Uint8Array(m.data) : m.data;
+      bytes =
+        m.format === 'svg'
+          ? new TextEncoder().encode(m.data as string)
+          : typeof m.data === 'string'
+            ? base64ToBytes(m.data)
+            : m.data instanceof ArrayBuffer
+              ? new Uint8Array(m.data)
+              : m.data;
       const bad = checkExportBytes(m.format, bytes);
       if (bad) return finish(false, bad);
     } catch (e) {

@@ -29,7 +29,10 @@ export class GapCodeLensProvider implements vscode.CodeLensProvider {
       return [new vscode.CodeLens(top, { title: `Valleyscope: ${why}`, command: COMMANDS.reload, arguments: [doc.uri] })];
     }
     const run = state.run;
-    return [new vscode.CodeLens(top, { title: gapLensText(run.report, run.bs.partial), command: COMMANDS.showSummary, arguments: [doc.uri] }), open];
+    return [
+      new vscode.CodeLens(top, { title: gapLensText(run.report, run.bs.partial), command: COMMANDS.showSummary, arguments: [doc.uri] }),
+      open,
+    ];
   }
 
   dispose(): void {
@@ -46,6 +49,12 @@ export class AnnotationsCodeLensProvider implements vscode.CodeLensProvider {
     // The data file is named by the annotations file's own name, never by its content.
     const data = doc.uri.with({ path: dataPathFor(path) });
     const name = data.path.split('/').pop() ?? data.path;
-    return [new vscode.CodeLens(new vscode.Range(0, 0, 0, 0), { title: `Open band view of ${name}`, command: COMMANDS.openBandView, arguments: [data] })];
+    return [
+      new vscode.CodeLens(new vscode.Range(0, 0, 0, 0), {
+        title: `Open band view of ${name}`,
+        command: COMMANDS.openBandView,
+        arguments: [data],
+      }),
+    ];
   }
 }

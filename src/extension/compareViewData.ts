@@ -31,17 +31,66 @@ export const COMPARE_CAUTIONS = [
   'Effective masses depend on the functional, on spin–orbit coupling and on strain; compare masses between runs that differ in one of these only.',
   'Masses are signed curvature masses in mₑ (negative at a maximum). Each comes from a fit: its window and points are in the run’s band view.',
 ];
-const ANNOTATIONS_CAUTION = 'Rows from annotations files show the numbers as they were saved; a stale one no longer matches its data files.';
+const ANNOTATIONS_CAUTION =
+  'Rows from annotations files show the numbers as they were saved; a stale one no longer matches its data files.';
 
 /** Structural descriptors offered as trend x-axes, in this order. */
 export const DESCRIPTOR_COLUMNS: CompareColumn[] = [
-  { key: 'volumeStrain', label: 'Volume strain', unit: '%', group: 'structure', title: 'Cell volume relative to the reference run, minus one (per cent).', decimals: 3, more: true },
-  { key: 'inPlaneStrain', label: 'In-plane strain', unit: '%', group: 'structure', title: 'Biaxial series: in-plane strain λ∥ − 1 relative to the reference run (per cent); empty when the strain is not biaxial.', decimals: 3, more: true },
-  { key: 'hydrostaticStrain', label: 'Hydrostatic strain', unit: '%', group: 'structure', title: 'Mean of the diagonal Green–Lagrange strain relative to the reference run (per cent).', decimals: 3, more: true },
-  { key: 'aConv', label: 'conventional a', unit: 'Å', group: 'structure', title: 'Conventional cubic lattice constant, from the lattice type and the volume per lattice point (fcc: √2 × the primitive-vector length; bcc: 2/√3 ×). Empty for lattices that are not cubic, strained cubic crystals included.', decimals: 4 },
+  {
+    key: 'volumeStrain',
+    label: 'Volume strain',
+    unit: '%',
+    group: 'structure',
+    title: 'Cell volume relative to the reference run, minus one (per cent).',
+    decimals: 3,
+    more: true,
+  },
+  {
+    key: 'inPlaneStrain',
+    label: 'In-plane strain',
+    unit: '%',
+    group: 'structure',
+    title: 'Biaxial series: in-plane strain λ∥ − 1 relative to the reference run (per cent); empty when the strain is not biaxial.',
+    decimals: 3,
+    more: true,
+  },
+  {
+    key: 'hydrostaticStrain',
+    label: 'Hydrostatic strain',
+    unit: '%',
+    group: 'structure',
+    title: 'Mean of the diagonal Green–Lagrange strain relative to the reference run (per cent).',
+    decimals: 3,
+    more: true,
+  },
+  {
+    key: 'aConv',
+    label: 'conventional a',
+    unit: 'Å',
+    group: 'structure',
+    title:
+      'Conventional cubic lattice constant, from the lattice type and the volume per lattice point (fcc: √2 × the primitive-vector length; bcc: 2/√3 ×). Empty for lattices that are not cubic, strained cubic crystals included.',
+    decimals: 4,
+  },
   { key: 'volume', label: 'Volume', unit: 'Å³', group: 'structure', title: 'Cell volume of the run’s structure.', decimals: 3, more: true },
-  { key: 'a', label: '|a₁| (cell vector)', unit: 'Å', group: 'structure', title: 'Length of the first vector of the cell as written (a primitive-vector length, not the conventional lattice constant).', decimals: 4, more: true },
-  { key: 'c', label: '|a₃| (cell vector)', unit: 'Å', group: 'structure', title: 'Length of the third vector of the cell as written (not the conventional c of a strained film).', decimals: 4, more: true },
+  {
+    key: 'a',
+    label: '|a₁| (cell vector)',
+    unit: 'Å',
+    group: 'structure',
+    title: 'Length of the first vector of the cell as written (a primitive-vector length, not the conventional lattice constant).',
+    decimals: 4,
+    more: true,
+  },
+  {
+    key: 'c',
+    label: '|a₃| (cell vector)',
+    unit: 'Å',
+    group: 'structure',
+    title: 'Length of the third vector of the cell as written (not the conventional c of a strained film).',
+    decimals: 4,
+    more: true,
+  },
 ];
 
 /** Column keys of the compact default set; every other column is behind "More columns". */
@@ -51,9 +100,30 @@ const EDGE_COLUMNS: CompareColumn[] = [
   { key: 'gap', label: 'Gap', unit: 'eV', group: 'edge', title: 'Fundamental gap (CBM − VBM).', decimals: 4 },
   { key: 'deltaGap', label: 'Δ gap', unit: 'eV', group: 'edge', title: 'Gap minus the reference run’s gap.', decimals: 4 },
   { key: 'directGap', label: 'Direct gap', unit: 'eV', group: 'edge', title: 'Smallest direct gap.', decimals: 4 },
-  { key: 'cbm.nv', label: 'CBM N_v', unit: '', group: 'edge', title: 'Valley degeneracy of the conduction band minimum (size of the star of k).', decimals: 0 },
-  { key: 'cbm.dos', label: 'CBM m_dos', unit: 'mₑ', group: 'mass', title: 'Density-of-states mass of the CBM valley, N_v^(2/3)(m1 m2 m3)^(1/3).', decimals: 3 },
-  { key: 'cbm.cond', label: 'CBM m_c', unit: 'mₑ', group: 'mass', title: 'Conductivity mass of the CBM valley, 3/(1/m1 + 1/m2 + 1/m3).', decimals: 3 },
+  {
+    key: 'cbm.nv',
+    label: 'CBM N_v',
+    unit: '',
+    group: 'edge',
+    title: 'Valley degeneracy of the conduction band minimum (size of the star of k).',
+    decimals: 0,
+  },
+  {
+    key: 'cbm.dos',
+    label: 'CBM m_dos',
+    unit: 'mₑ',
+    group: 'mass',
+    title: 'Density-of-states mass of the CBM valley, N_v^(2/3)(m1 m2 m3)^(1/3).',
+    decimals: 3,
+  },
+  {
+    key: 'cbm.cond',
+    label: 'CBM m_c',
+    unit: 'mₑ',
+    group: 'mass',
+    title: 'Conductivity mass of the CBM valley, 3/(1/m1 + 1/m2 + 1/m3).',
+    decimals: 3,
+  },
   { key: 'vbm.nv', label: 'VBM N_v', unit: '', group: 'edge', title: 'Valley degeneracy of the valence band maximum.', decimals: 0 },
   { key: 'vbm.dos', label: 'VBM m_dos', unit: 'mₑ', group: 'mass', title: 'Density-of-states mass at the VBM.', decimals: 3 },
   { key: 'vbm.cond', label: 'VBM m_c', unit: 'mₑ', group: 'mass', title: 'Conductivity mass at the VBM.', decimals: 3 },
@@ -67,7 +137,11 @@ export function massKeys(masses: readonly MassFit[]): { key: string; text: strin
     seen.set(m.towards, n);
     const part = m.branch ?? n;
     const repeated = m.branch !== undefined ? masses.filter((x) => x.towards === m.towards).length > 1 : n > 1;
-    return { key: repeated || part > 1 ? `${m.towards}·${part}` : m.towards, text: repeated || part > 1 ? `→ ${m.towards} (branch ${part})` : `→ ${m.towards}`, mass: m.mass };
+    return {
+      key: repeated || part > 1 ? `${m.towards}·${part}` : m.towards,
+      text: repeated || part > 1 ? `→ ${m.towards} (branch ${part})` : `→ ${m.towards}`,
+      mass: m.mass,
+    };
   });
 }
 
@@ -147,7 +221,12 @@ export function defaultReferenceId(entries: readonly CompareEntry[]): string | n
 export function buildCompareTable(entries: readonly CompareEntry[], referenceId: string | null, annotationsAsRuns: boolean): CompareTable {
   const readable = entries.filter((e) => e.run !== null);
   const ref = referenceId && readable.some((e) => e.id === referenceId) ? referenceId : defaultReferenceId(entries);
-  const c: Comparison = readable.length ? compareRuns(readable.map((e) => ({ ...e.run!, name: e.id })), ref ?? undefined) : { reference: '', columns: [], runs: [], events: [] };
+  const c: Comparison = readable.length
+    ? compareRuns(
+        readable.map((e) => ({ ...e.run!, name: e.id })),
+        ref ?? undefined,
+      )
+    : { reference: '', columns: [], runs: [], events: [] };
   const byId = new Map(c.runs.map((r) => [r.name, r]));
   const reportById = new Map(readable.map((e) => [e.id, e.run!.report]));
   const inputById = new Map(readable.map((e) => [e.id, e.run!]));
@@ -161,19 +240,40 @@ export function buildCompareTable(entries: readonly CompareEntry[], referenceId:
       const e = edgeOf(r, kind);
       if (!e) continue;
       for (const m of massKeys(e.masses)) {
-        pushColumn(columns, seen, { key: `${kind}.m.${m.key}`, label: `${kind.toUpperCase()} m* ${m.text}`, unit: 'mₑ', group: 'mass', title: `Signed curvature mass at the ${kind.toUpperCase()} along the path ${m.text.replace('→', 'towards')}.`, decimals: 3 });
+        pushColumn(columns, seen, {
+          key: `${kind}.m.${m.key}`,
+          label: `${kind.toUpperCase()} m* ${m.text}`,
+          unit: 'mₑ',
+          group: 'mass',
+          title: `Signed curvature mass at the ${kind.toUpperCase()} along the path ${m.text.replace('→', 'towards')}.`,
+          decimals: 3,
+        });
       }
     }
   }
   // Every matched valley: its distance from the edge and its masses, the same valley in every run.
   for (const col of c.columns) {
     const where = `${col.side === 'conduction' ? 'conduction' : 'valence'} valley ${col.id} at ${col.where}${col.branch ? ` (branch ${col.branch + 1} there)` : ''}`;
-    pushColumn(columns, seen, { key: `valley.${col.id}.offset`, label: `${col.id} offset`, unit: 'meV', group: 'valley', title: `Energy of the ${where} from the band edge on its side (0 when it is the edge).`, decimals: 1 });
+    pushColumn(columns, seen, {
+      key: `valley.${col.id}.offset`,
+      label: `${col.id} offset`,
+      unit: 'meV',
+      group: 'valley',
+      title: `Energy of the ${where} from the band edge on its side (0 when it is the edge).`,
+      decimals: 1,
+    });
     for (const r of c.runs) {
       const entry = r.valleys[col.id];
       if (!entry) continue;
       for (const m of massKeys(entry.extremum.masses)) {
-        pushColumn(columns, seen, { key: `valley.${col.id}.m.${m.key}`, label: `${col.id} m* ${m.text}`, unit: 'mₑ', group: 'valley', title: `Signed curvature mass in the ${where}, ${m.text.replace('→', 'towards')}.`, decimals: 3 });
+        pushColumn(columns, seen, {
+          key: `valley.${col.id}.m.${m.key}`,
+          label: `${col.id} m* ${m.text}`,
+          unit: 'mₑ',
+          group: 'valley',
+          title: `Signed curvature mass in the ${where}, ${m.text.replace('→', 'towards')}.`,
+          decimals: 3,
+        });
       }
     }
   }
@@ -232,7 +332,12 @@ function eventsAgainst(c: Comparison, ref: string | null, inputs: ReadonlyMap<st
     if (ev.kind === 'stale') continue;
     const series = seriesOf(inputs.get(ev.run) ?? null);
     if (refSeries && series && series !== refSeries) {
-      if (!told.has(ev.run)) out.push({ rowId: ev.run, kind: 'other-material', message: `another material (${series}) than the reference (${refSeries}): its gap and masses are listed, not compared valley by valley` });
+      if (!told.has(ev.run))
+        out.push({
+          rowId: ev.run,
+          kind: 'other-material',
+          message: `another material (${series}) than the reference (${refSeries}): its gap and masses are listed, not compared valley by valley`,
+        });
       told.add(ev.run);
       continue;
     }
@@ -242,7 +347,11 @@ function eventsAgainst(c: Comparison, ref: string | null, inputs: ReadonlyMap<st
 }
 
 /** Band data of one run for the overlay: path, energies, and the energy it is aligned at (VBM, else Fermi level). */
-export function bandRunOf(rowId: string, title: string, run: { bs: BandStructure; report: Report; geometry: PathGeometry }): CompareBandRun {
+export function bandRunOf(
+  rowId: string,
+  title: string,
+  run: { bs: BandStructure; report: Report; geometry: PathGeometry },
+): CompareBandRun {
   const bs = run.bs;
   const dtype = bs.nk * bs.nBands * bs.nSpin > F64_ENERGY_LIMIT ? 'f32' : 'f64';
   const vbm = run.report.gap?.vbm.eV ?? null;
@@ -256,7 +365,13 @@ export function bandRunOf(rowId: string, title: string, run: { bs: BandStructure
     distance: encodeArray(run.geometry.distance, 'f64'),
     energies: bs.energies.map((e) => encodeArray(e, dtype)),
     ticks: run.geometry.ticks.map((t) => ({ distance: t.distance, label: t.label, kIndex: t.index })),
-    segments: run.geometry.segments.map((s) => ({ start: s.start, end: s.end, startLabel: s.startLabel, endLabel: s.endLabel, afterJump: s.afterJump })),
+    segments: run.geometry.segments.map((s) => ({
+      start: s.start,
+      end: s.end,
+      startLabel: s.startLabel,
+      endLabel: s.endLabel,
+      afterJump: s.afterJump,
+    })),
     align_eV: vbm ?? fermi,
     alignedAt: vbm !== null ? 'vbm' : fermi !== null ? 'fermi' : 'none',
     distanceUnits: run.geometry.units,

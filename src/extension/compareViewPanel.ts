@@ -63,10 +63,17 @@ function crystalOf(run: LoadedRun): Pick<RunInput, 'rotations' | 'latticeType' |
   const composition = run.bs.structure ? compositionOf(run.bs.structure.species) : null;
   // The labelled path lines name valleys off the labels as the CLI does ("0.85 Γ→X").
   const pathLines = labelledLines(run.bs);
-  if (!run.bs.structure || !symmetryReady()) return { rotations: null, latticeType: null, latticePointsPerCell: null, composition, pathLines };
+  if (!run.bs.structure || !symmetryReady())
+    return { rotations: null, latticeType: null, latticePointsPerCell: null, composition, pathLines };
   try {
     const sym = crystalSymmetry(run.bs.structure);
-    return { rotations: sym.rotations, latticeType: sym.bravaisClass, latticePointsPerCell: sym.latticePointsPerCell, composition, pathLines };
+    return {
+      rotations: sym.rotations,
+      latticeType: sym.bravaisClass,
+      latticePointsPerCell: sym.latticePointsPerCell,
+      composition,
+      pathLines,
+    };
   } catch {
     return { rotations: null, latticeType: null, latticePointsPerCell: null, composition, pathLines };
   }
@@ -148,7 +155,7 @@ export class CompareViewPanel implements vscode.Disposable {
 
   private async receive(raw: unknown): Promise<void> {
     if (!isCompareViewToHostMessage(raw)) {
-      const t = typeof raw === 'object' && raw !== null && 'type' in raw ? String((raw).type).slice(0, 40) : typeof raw;
+      const t = typeof raw === 'object' && raw !== null && 'type' in raw ? String(raw.type).slice(0, 40) : typeof raw;
       this.deps.log.warn(`compare view: a message that does not follow the protocol was dropped (type ${t})`);
       return;
     }
@@ -250,12 +257,25 @@ export class CompareViewPanel implements vscode.Disposable {
       try {
         const run = await this.deps.store.get(uri);
         found.push({
-          entry: { id, name, origin: 'data', annotations, staleReasons, run: { name: id, report: run.report, lattice: run.bs.lattice, ...crystalOf(run), origin: 'data' }, error: null, canOverlay: true },
+          entry: {
+            id,
+            name,
+            origin: 'data',
+            annotations,
+            staleReasons,
+            run: { name: id, report: run.report, lattice: run.bs.lattice, ...crystalOf(run), origin: 'data' },
+            error: null,
+            canOverlay: true,
+          },
           dataUri: uri,
           fileUri: uri,
         });
       } catch (e) {
-        found.push({ entry: { id, name, origin: 'data', annotations, staleReasons, run: null, error: message(e), canOverlay: false }, dataUri: uri, fileUri: uri });
+        found.push({
+          entry: { id, name, origin: 'data', annotations, staleReasons, run: null, error: message(e), canOverlay: false },
+          dataUri: uri,
+          fileUri: uri,
+        });
       }
       tick(name);
     }
@@ -276,10 +296,32 @@ export class CompareViewPanel implements vscode.Disposable {
       const id = nextId();
       const dataUri = hasData ? uri.with({ path: dataPath }) : null;
       if (a instanceof Error) {
-        found.push({ entry: { id, name, origin: 'annotations', annotations: 'stale', staleReasons: [], run: null, error: a.message, canOverlay: false }, dataUri, fileUri: uri });
+        found.push({
+          entry: {
+            id,
+            name,
+            origin: 'annotations',
+            annotations: 'stale',
+            staleReasons: [],
+            run: null,
+            error: a.message,
+            canOverlay: false,
+          },
+          dataUri,
+          fileUri: uri,
+        });
       } else {
         found.push({
-          entry: { id, name, origin: 'annotations', annotations: a.run.stale ? 'stale' : 'current', staleReasons: a.staleReasons, run: { ...a.run, name: id }, error: null, canOverlay: dataReadable },
+          entry: {
+            id,
+            name,
+            origin: 'annotations',
+            annotations: a.run.stale ? 'stale' : 'current',
+            staleReasons: a.staleReasons,
+            run: { ...a.run, name: id },
+            error: null,
+            canOverlay: dataReadable,
+          },
           dataUri,
           fileUri: uri,
         });
@@ -294,7 +336,11 @@ export class CompareViewPanel implements vscode.Disposable {
       const remembered = this.deps.memory?.get<string>(REFERENCE_MEMORY_KEY);
       this.referenceId = (typeof remembered === 'string' && found.find((f) => f.entry.name === remembered)?.entry.id) || null;
     }
-    if (runs.truncated) this.post({ type: CompareHostToViewType.Notice, message: `Only the first ${runs.data.length + runs.annotations.length} candidate files were looked at: the workspace has more.` });
+    if (runs.truncated)
+      this.post({
+        type: CompareHostToViewType.Notice,
+        message: `Only the first ${runs.data.length + runs.annotations.length} candidate files were looked at: the workspace has more.`,
+      });
     this.sendTable();
   }
 
@@ -311,7 +357,13 @@ export class CompareViewPanel implements vscode.Disposable {
     for (const f of this.found) {
       if (f.entry.origin !== 'data' || !f.dataUri) continue;
       const run = this.deps.store.loaded(f.dataUri);
-      if (run) f.entry = { ...f.entry, run: { name: f.entry.id, report: run.report, lattice: run.bs.lattice, ...crystalOf(run), origin: 'data' }, error: null, canOverlay: true };
+      if (run)
+        f.entry = {
+          ...f.entry,
+          run: { name: f.entry.id, report: run.report, lattice: run.bs.lattice, ...crystalOf(run), origin: 'data' },
+          error: null,
+          canOverlay: true,
+        };
     }
     this.sendTable();
   }
@@ -387,4 +439,3 @@ export function registerCompareView(deps: CompareDeps): vscode.Disposable {
     { dispose: () => CompareViewPanel.disposeCurrent() },
   );
 }
-

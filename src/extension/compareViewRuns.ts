@@ -9,14 +9,17 @@ import { isAnnotationsPath } from '../core/annotations/annotationsModel';
 import { WorkspaceFileAccessor } from './fileAccessor';
 
 /** Names eigenvalue files usually have, plus the layouts that need a look inside (*.xml, *.dat, *.txt). */
-export const RUN_CANDIDATES = '**/{EIGENVAL,EIGENVAL*,*EIGENVAL,*_EIGENVAL,*.EIGENVAL,vasprun*.xml,data-file-schema.xml,*.xml,*.dat,*.bxsf,*.bands,*.txt,*.valleys.json}';
+export const RUN_CANDIDATES =
+  '**/{EIGENVAL,EIGENVAL*,*EIGENVAL,*_EIGENVAL,*.EIGENVAL,vasprun*.xml,data-file-schema.xml,*.xml,*.dat,*.bxsf,*.bands,*.txt,*.valleys.json}';
 /** Folders never searched: version control, installed packages, build output, editor caches. */
-export const RUN_EXCLUDES = '{**/node_modules/**,**/.git/**,**/.hg/**,**/.svn/**,**/dist/**,**/out/**,**/.vscode-test/**,**/test-artifacts/**,**/__pycache__/**}';
+export const RUN_EXCLUDES =
+  '{**/node_modules/**,**/.git/**,**/.hg/**,**/.svn/**,**/dist/**,**/out/**,**/.vscode-test/**,**/test-artifacts/**,**/__pycache__/**}';
 /** At most this many candidate files are looked at. */
 export const MAX_CANDIDATES = 2000;
 /** Files with no tell-tale name larger than this are not opened just to look for a layout (bytes). */
 const MAX_SNIFF_BYTES = 64 * 1024 * 1024;
-const TELLING_NAME = /(^|[._-])(EIGENVAL)([._-]|$)|^vasprun.*\.xml$|^data-file-schema\.xml$|_band\.dat$|\.bxsf$|\.bands$|(^|\.)bands\.dat$/i;
+const TELLING_NAME =
+  /(^|[._-])(EIGENVAL)([._-]|$)|^vasprun.*\.xml$|^data-file-schema\.xml$|_band\.dat$|\.bxsf$|\.bands$|(^|\.)bands\.dat$/i;
 
 export interface FoundRuns {
   /** Eigenvalue files, confirmed by content, sorted by path. */

@@ -40,7 +40,10 @@ export function registerDiagnostics(store: RunStore): vscode.Disposable {
         // A reader error names the file it is about (the file inside a folder that was opened).
         const target = state.error instanceof ReaderError && state.error.file ? uri.with({ path: state.error.file }) : uri;
         const targetDoc = vscode.workspace.textDocuments.find((d) => d.uri.toString() === target.toString());
-        collection.set(target, itemsFromError(state.error).map((i) => toDiagnostic(targetDoc, i)));
+        collection.set(
+          target,
+          itemsFromError(state.error).map((i) => toDiagnostic(targetDoc, i)),
+        );
       }
       return;
     }
@@ -49,7 +52,10 @@ export function registerDiagnostics(store: RunStore): vscode.Disposable {
     const target = run.fileUri;
     const targetDoc = vscode.workspace.textDocuments.find((d) => d.uri.toString() === target.toString()) ?? doc;
     const lastLine = targetDoc ? targetDoc.lineCount - 1 : 0;
-    collection.set(target, itemsFromRun(run.bs, run.report, run.bs.source.file, lastLine).map((i) => toDiagnostic(targetDoc, i)));
+    collection.set(
+      target,
+      itemsFromRun(run.bs, run.report, run.bs.source.file, lastLine).map((i) => toDiagnostic(targetDoc, i)),
+    );
   };
   return vscode.Disposable.from(collection, store.onDidChange(update));
 }
@@ -68,7 +74,10 @@ export function registerAnnotationsDiagnostics(): vscode.Disposable {
       setTimeout(() => {
         timers.delete(key);
         const name = doc.uri.path.split('/').pop() ?? doc.uri.path;
-        collection.set(doc.uri, annotationsProblems(doc.getText(), name).map((i) => toDiagnostic(doc, i)));
+        collection.set(
+          doc.uri,
+          annotationsProblems(doc.getText(), name).map((i) => toDiagnostic(doc, i)),
+        );
       }, 300),
     );
   };

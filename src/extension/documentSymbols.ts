@@ -12,7 +12,13 @@ function toSymbol(doc: vscode.TextDocument, n: SymbolNode): vscode.DocumentSymbo
   const sel = Math.min(Math.max(n.selectionLine, start), end);
   const selection = doc.lineAt(sel).range;
   const kind = n.kind === 'kpoint' ? vscode.SymbolKind.Constant : vscode.SymbolKind.Namespace;
-  const s = new vscode.DocumentSymbol(n.name, n.detail, kind, range, range.contains(selection) ? selection : new vscode.Range(start, 0, start, 0));
+  const s = new vscode.DocumentSymbol(
+    n.name,
+    n.detail,
+    kind,
+    range,
+    range.contains(selection) ? selection : new vscode.Range(start, 0, start, 0),
+  );
   s.children = n.children.map((c) => toSymbol(doc, c));
   return s;
 }

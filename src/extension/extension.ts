@@ -25,13 +25,23 @@ export function activate(context: vscode.ExtensionContext): void {
   // Worker threads exist in desktop and remote extension hosts (extension files on a local disk); the web
   // build replaces node:worker_threads and runs jobs in-process.
   const workerScript =
-    process.env.VALLEYSCOPE_WEB !== '1' && context.extensionUri.scheme === 'file' ? vscode.Uri.joinPath(context.extensionUri, 'dist', 'analysisWorker.js').fsPath : null;
+    process.env.VALLEYSCOPE_WEB !== '1' && context.extensionUri.scheme === 'file'
+      ? vscode.Uri.joinPath(context.extensionUri, 'dist', 'analysisWorker.js').fsPath
+      : null;
   const store = new RunStore(settings, workerScript, log);
   const status = new GapStatusItem(store);
   const fits = makeFitService(() => settings().analysis);
   const written = (context.extension.packageJSON as { version?: unknown }).version;
   const toolVersion = typeof written === 'string' ? written : '0.0.0';
-  const panels = new BandViewPanels({ store, extensionUri: context.extensionUri, log, settings, fits, toolVersion, onFocus: (u) => status.setPanelRun(u) });
+  const panels = new BandViewPanels({
+    store,
+    extensionUri: context.extensionUri,
+    log,
+    settings,
+    fits,
+    toolVersion,
+    onFocus: (u) => status.setPanelRun(u),
+  });
   const selector: vscode.DocumentSelector = LANGUAGE_IDS.map((language) => ({ language }));
   const lenses = new GapCodeLensProvider(store);
 

@@ -102,7 +102,15 @@ export class WorkspaceFileAccessor implements FileAccessor {
         const s = await nodeStat(uri.fsPath);
         if (s.isFile()) return { type: 'file', size: s.size };
         if (s.isDirectory()) return { type: 'directory', size: s.size };
-        const kind = s.isFIFO() ? 'a FIFO (named pipe)' : s.isCharacterDevice() ? 'a character device' : s.isBlockDevice() ? 'a block device' : s.isSocket() ? 'a socket' : 'not a regular file';
+        const kind = s.isFIFO()
+          ? 'a FIFO (named pipe)'
+          : s.isCharacterDevice()
+            ? 'a character device'
+            : s.isBlockDevice()
+              ? 'a block device'
+              : s.isSocket()
+                ? 'a socket'
+                : 'not a regular file';
         return { type: 'other', size: s.size, kind };
       } catch {
         return null;

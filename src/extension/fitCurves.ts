@@ -70,7 +70,8 @@ export function fitCurves(geometry: PathGeometry, x: ExtremumReport, rays: Ray[]
         distance.push(d0 + dir * t * scale);
         energy.push(e);
       }
-      if (distance.length >= 2) out.push({ towards: m.branch !== undefined ? `${m.towards} (branch ${m.branch})` : m.towards, distance, energy });
+      if (distance.length >= 2)
+        out.push({ towards: m.branch !== undefined ? `${m.towards} (branch ${m.branch})` : m.towards, distance, energy });
     }
   }
   return out;

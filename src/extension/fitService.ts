@@ -48,8 +48,13 @@ export function scanSeries(points: WindowScanPoint[]): WindowScanSeries[] {
 function vertices(run: LoadedRun, x: ExtremumReport, kIndex: number, rays: Ray[], s: AnalysisSettings): (Vertex | null)[] {
   const band0 = x.band - 1;
   const group = degenerateGroup(run.bs, x.spin, kIndex, band0, s.degeneracy_meV / 1000);
-  const dm = directionalMasses(run.bs, x.spin, group, band0, rays, { method: s.method, window_meV: s.window_meV, energySigma: engineContext(run.bs).energySigma });
-  const same = dm.masses.length === x.masses.length && dm.masses.every((m, i) => m.mass === x.masses[i]!.mass && m.towards === x.masses[i]!.towards);
+  const dm = directionalMasses(run.bs, x.spin, group, band0, rays, {
+    method: s.method,
+    window_meV: s.window_meV,
+    energySigma: engineContext(run.bs).energySigma,
+  });
+  const same =
+    dm.masses.length === x.masses.length && dm.masses.every((m, i) => m.mass === x.masses[i]!.mass && m.towards === x.masses[i]!.towards);
   if (!same) return [];
   return dm.fits.map((f) => (f.vertexT !== undefined && f.vertexE !== undefined ? { t: f.vertexT, e: f.vertexE } : null));
 }

@@ -21,7 +21,10 @@ export function gapTooltip(report: Report, partial: boolean): string {
   const lines: string[] = [];
   if (report.metal) {
     lines.push('A band crosses the Fermi level: no gap.');
-    if (report.fermi_eV !== null) lines.push(`Fermi level ${report.fermi_eV.toFixed(4)} eV${report.crossingBands?.length ? `, crossing bands ${report.crossingBands.join(', ')}` : ''}`);
+    if (report.fermi_eV !== null)
+      lines.push(
+        `Fermi level ${report.fermi_eV.toFixed(4)} eV${report.crossingBands?.length ? `, crossing bands ${report.crossingBands.join(', ')}` : ''}`,
+      );
     if (report.classificationReason) lines.push(report.classificationReason);
   } else if (report.gapReason) lines.push(report.gapReason);
   else if (report.gap) {

@@ -14,7 +14,11 @@ function f(x: number, d: number): string {
 }
 
 function sameK(bs: BandStructure, k: number, q: readonly number[]): boolean {
-  return Math.abs(bs.kpoints[3 * k]! - q[0]!) < SAME_K && Math.abs(bs.kpoints[3 * k + 1]! - q[1]!) < SAME_K && Math.abs(bs.kpoints[3 * k + 2]! - q[2]!) < SAME_K;
+  return (
+    Math.abs(bs.kpoints[3 * k]! - q[0]!) < SAME_K &&
+    Math.abs(bs.kpoints[3 * k + 1]! - q[1]!) < SAME_K &&
+    Math.abs(bs.kpoints[3 * k + 2]! - q[2]!) < SAME_K
+  );
 }
 
 const KIND_WORDS = { vbm: 'VBM', cbm: 'CBM', valley: 'conduction valley', peak: 'valence peak' } as const;
@@ -73,7 +77,16 @@ export function hoverLines(bs: BandStructure, report: Report, geometry: PathGeom
     if (!bands.length) break;
     const parts = bands.map((b) => {
       const e = bs.energies[s]![k * bs.nBands + b]!;
-      const tag = b === vbm0 ? (report.gap ? ' (VB top band)' : ' (below E_F)') : b === cbm0 ? (report.gap ? ' (CB bottom band)' : ' (above E_F)') : '';
+      const tag =
+        b === vbm0
+          ? report.gap
+            ? ' (VB top band)'
+            : ' (below E_F)'
+          : b === cbm0
+            ? report.gap
+              ? ' (CB bottom band)'
+              : ' (above E_F)'
+            : '';
       const rel = ref !== null ? ` (${e - ref >= 0 ? '+' : ''}${f(e - ref, 3)} eV from ${refName})` : '';
       return `band ${b + 1}${tag}: ${f(e, 4)} eV${rel}`;
     });
@@ -94,7 +107,9 @@ export function hoverLines(bs: BandStructure, report: Report, geometry: PathGeom
   }
   out.push(hosts.length ? `hosts: ${hosts.join(', ')}` : 'hosts no band edge or reported extremum');
   // Candidates the analysis set aside here (a crossing, a saddle...): said, so nobody takes them for valleys.
-  const aside = (report.rejected ?? []).filter((x) => sameK(bs, k, x.k)).map((x) => `band ${x.band}${x.spin === 1 ? ', spin down' : ''} (${x.reason})`);
+  const aside = (report.rejected ?? [])
+    .filter((x) => sameK(bs, k, x.k))
+    .map((x) => `band ${x.band}${x.spin === 1 ? ', spin down' : ''} (${x.reason})`);
   if (aside.length) out.push(`not an extremum here: ${aside.join(', ')}`);
   if (bs.partial) out.push('_The file is incomplete: these values are provisional._');
   return out;

@@ -13,7 +13,20 @@ export const MAX_SCANNED_CHARS = 64 * 1024 * 1024;
 
 function isSep(c: number): boolean {
   // space, tab, CR, ',', ';', '<', '>', '(', ')', '[', ']', '='
-  return c === 32 || c === 9 || c === 13 || c === 44 || c === 59 || c === 60 || c === 62 || c === 40 || c === 41 || c === 91 || c === 93 || c === 61;
+  return (
+    c === 32 ||
+    c === 9 ||
+    c === 13 ||
+    c === 44 ||
+    c === 59 ||
+    c === 60 ||
+    c === 62 ||
+    c === 40 ||
+    c === 41 ||
+    c === 91 ||
+    c === 93 ||
+    c === 61
+  );
 }
 
 /** Numeric tokens of one line (Fortran 'D' exponents accepted); other tokens become NaN. */
@@ -34,7 +47,8 @@ export function lineNumbers(text: string, start: number, end: number, out: numbe
 /** Where the triple sits in the line's tokens (-1: not there). */
 function tripleAt(nums: number[], kx: number, ky: number, kz: number): number {
   for (let j = 0; j + 2 < nums.length; j++) {
-    if (Math.abs(nums[j]! - kx) <= MATCH_TOL && Math.abs(nums[j + 1]! - ky) <= MATCH_TOL && Math.abs(nums[j + 2]! - kz) <= MATCH_TOL) return j;
+    if (Math.abs(nums[j]! - kx) <= MATCH_TOL && Math.abs(nums[j + 1]! - ky) <= MATCH_TOL && Math.abs(nums[j + 2]! - kz) <= MATCH_TOL)
+      return j;
   }
   return -1;
 }
@@ -85,7 +99,11 @@ export function locateKpointLines(text: string, kpoints: Float64Array, nk: numbe
   const found = (a: Int32Array): number => a.reduce((n, l) => n + (l >= 0 ? 1 : 0), 0);
   let best = fractional;
   for (const scale of candidateScales(text, cartesian, nk)) {
-    const byCartesian = locateBy(text, cartesian.map((x) => x * scale), nk);
+    const byCartesian = locateBy(
+      text,
+      cartesian.map((x) => x * scale),
+      nk,
+    );
     if (found(byCartesian) > found(best)) best = byCartesian;
     if (best[nk - 1]! >= 0) break;
   }

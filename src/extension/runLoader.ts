@@ -38,7 +38,12 @@ export interface LoadOptions {
 
 export type ProgressSink = (fraction: number, message: string) => void;
 
-export async function loadAndAnalyze(uri: vscode.Uri, opts: LoadOptions, token: vscode.CancellationToken, progress: ProgressSink): Promise<LoadedRun> {
+export async function loadAndAnalyze(
+  uri: vscode.Uri,
+  opts: LoadOptions,
+  token: vscode.CancellationToken,
+  progress: ProgressSink,
+): Promise<LoadedRun> {
   const fs = new WorkspaceFileAccessor(uri, opts.maxBytes);
   try {
     progress(0, 'finding the eigenvalue file');
@@ -54,7 +59,12 @@ export async function loadAndAnalyze(uri: vscode.Uri, opts: LoadOptions, token: 
     // never held whole, here or there). Otherwise the bytes are read here and handed over.
     const st = await fs.stat(loc.file);
     const stream =
-      workerAvailable && loc.reader.streaming === true && fileUri.scheme === 'file' && canReadLocalRanges() && st !== null && st.size > STREAM_ABOVE_BYTES;
+      workerAvailable &&
+      loc.reader.streaming === true &&
+      fileUri.scheme === 'file' &&
+      canReadLocalRanges() &&
+      st !== null &&
+      st.size > STREAM_ABOVE_BYTES;
     if (stream) await fs.checkSize(fileUri, loc.file);
     const bytes = stream ? new Uint8Array(0) : await fs.readFile(loc.file);
     const companions = await readCompanions(fs, loc);

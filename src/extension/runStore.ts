@@ -8,10 +8,7 @@ import { CancelledError, ReaderError } from '../core/errors';
 import { loadAndAnalyze, type LoadedRun } from './runLoader';
 import type { ExtensionSettings } from './settings';
 
-export type RunState =
-  | { status: 'loading' }
-  | { status: 'loaded'; run: LoadedRun }
-  | { status: 'failed'; error: unknown };
+export type RunState = { status: 'loading' } | { status: 'loaded'; run: LoadedRun } | { status: 'failed'; error: unknown };
 
 interface Entry {
   state: RunState;
@@ -85,7 +82,14 @@ export class RunStore implements vscode.Disposable {
     old?.cts.cancel();
     if (old?.reloadTimer) clearTimeout(old.reloadTimer);
     const cts = new vscode.CancellationTokenSource();
-    const entry: Entry = { state: { status: 'loading' }, promise: Promise.resolve(null as unknown as LoadedRun), cts, watcher: old?.watcher ?? null, reloadTimer: null, changedSince: 0 };
+    const entry: Entry = {
+      state: { status: 'loading' },
+      promise: Promise.resolve(null as unknown as LoadedRun),
+      cts,
+      watcher: old?.watcher ?? null,
+      reloadTimer: null,
+      changedSince: 0,
+    };
     entry.promise = this.run(uri, cts, quiet).then(
       (run) => {
         if (this.entries.get(key) === entry) {
@@ -130,10 +134,20 @@ export class RunStore implements vscode.Disposable {
       size = 0;
     }
     const name = uri.path.split('/').pop() ?? uri.path;
-    const opts = { settings: s.analysis, maxBytes: s.maxBytes, workerScript: this.workerScript, workerThresholdBytes: s.workerThresholdBytes };
+    const opts = {
+      settings: s.analysis,
+      maxBytes: s.maxBytes,
+      workerScript: this.workerScript,
+      workerThresholdBytes: s.workerThresholdBytes,
+    };
     const started = Date.now();
-    this.log.info(`${uri.toString(true)}: reading (${(size / 1e6).toFixed(1)} MB${this.workerScript && size >= s.workerThresholdBytes ? ', on a worker thread' : ''})`);
-    const task = async (progress: vscode.Progress<{ message?: string; increment?: number }>, token: vscode.CancellationToken): Promise<LoadedRun> => {
+    this.log.info(
+      `${uri.toString(true)}: reading (${(size / 1e6).toFixed(1)} MB${this.workerScript && size >= s.workerThresholdBytes ? ', on a worker thread' : ''})`,
+    );
+    const task = async (
+      progress: vscode.Progress<{ message?: string; increment?: number }>,
+      token: vscode.CancellationToken,
+    ): Promise<LoadedRun> => {
       const sub = token.onCancellationRequested(() => cts.cancel());
       let reported = 0;
       try {
@@ -149,9 +163,14 @@ export class RunStore implements vscode.Disposable {
     try {
       const run =
         size >= NOTIFY_BYTES && !quiet
-          ? await vscode.window.withProgress({ location: vscode.ProgressLocation.Notification, title: `Valleyscope: reading ${name}`, cancellable: true }, task)
+          ? await vscode.window.withProgress(
+              { location: vscode.ProgressLocation.Notification, title: `Valleyscope: reading ${name}`, cancellable: true },
+              task,
+            )
           : await vscode.window.withProgress({ location: vscode.ProgressLocation.Window, title: 'Valleyscope' }, (p) => task(p, cts.token));
-      this.log.info(`${uri.toString(true)}: read and analysed in ${Date.now() - started} ms (${run.bs.nk} k-points, ${run.bs.nBands} bands)`);
+      this.log.info(
+        `${uri.toString(true)}: read and analysed in ${Date.now() - started} ms (${run.bs.nk} k-points, ${run.bs.nBands} bands)`,
+      );
       return run;
     } catch (e) {
       if (e instanceof CancelledError) this.log.info(`${uri.toString(true)}: reading cancelled`);

@@ -33,14 +33,24 @@ export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: Save
   const refusal = writeRefusal(run.fileUri);
   if (refusal) return { ok: false, message: refusal };
   if (run.bs.partial) {
-    return { ok: false, message: 'Not saved: the file is incomplete (a running job?), so its numbers are provisional. Save once the run has finished.' };
+    return {
+      ok: false,
+      message: 'Not saved: the file is incomplete (a running job?), so its numbers are provisional. Save once the run has finished.',
+    };
   }
   const fits: ChosenFit[] = [];
   for (const e of m.entries) {
     const problem = targetProblem(run, e);
     if (problem) return { ok: false, message: `Not saved: ${problem}.` };
     // Only where and how: the core redoes each fit (chosenFits.ts), exactly as `check` will.
-    const at = { spin: e.spin, kIndex: e.kIndex, band0: e.band0, window_meV: e.window_meV, method: e.method, ...(typeof e.maximum === 'boolean' ? { maximum: e.maximum } : {}) };
+    const at = {
+      spin: e.spin,
+      kIndex: e.kIndex,
+      band0: e.band0,
+      window_meV: e.window_meV,
+      method: e.method,
+      ...(typeof e.maximum === 'boolean' ? { maximum: e.maximum } : {}),
+    };
     fits.push(e.note !== undefined ? { ...at, note: e.note } : at);
   }
   const settings = deps.settings().analysis;
@@ -71,7 +81,11 @@ export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: Save
     const kept = c.counts.notFound ? `, ${c.counts.notFound} kept from before that this analysis no longer finds` : '';
     const entries = plural(c.counts.entries, 'entry', 'entries');
     if (leftUnsaved) {
-      return { ok: true, message: `Merged ${entries} into the open editor of ${rel}${kept}. Not on disk yet: that editor has unsaved edits of yours, so save it to write the file.`, uri: target.uri };
+      return {
+        ok: true,
+        message: `Merged ${entries} into the open editor of ${rel}${kept}. Not on disk yet: that editor has unsaved edits of yours, so save it to write the file.`,
+        uri: target.uri,
+      };
     }
     return { ok: true, message: `Saved ${entries} to ${rel}${kept}.`, uri: target.uri };
   };

@@ -52,7 +52,15 @@ export function buildSymbolTree(bs: BandStructure, geometry: PathGeometry, kLine
     if (l < 0) return null;
     const label = labelOf.get(k);
     if (!listAll && label === undefined) return null;
-    return { name: pointName(k, label), detail: fmtK(bs, k), kind: 'kpoint', startLine: l, endLine: Math.max(l, blockEnd(k)), selectionLine: l, children: [] };
+    return {
+      name: pointName(k, label),
+      detail: fmtK(bs, k),
+      kind: 'kpoint',
+      startLine: l,
+      endLine: Math.max(l, blockEnd(k)),
+      selectionLine: l,
+      children: [],
+    };
   };
 
   if (bs.sampling === 'grid' || geometry.segments.length === 0) {
@@ -63,7 +71,17 @@ export function buildSymbolTree(bs: BandStructure, geometry: PathGeometry, kLine
       const c = child(k);
       if (c) children.push(c);
     }
-    return [{ name: `${bs.nk} k-points`, detail: bs.sampling === 'grid' ? 'uniform grid' : '', kind: 'grid', startLine: first, endLine: lastLine, selectionLine: first, children }];
+    return [
+      {
+        name: `${bs.nk} k-points`,
+        detail: bs.sampling === 'grid' ? 'uniform grid' : '',
+        kind: 'grid',
+        startLine: first,
+        endLine: lastLine,
+        selectionLine: first,
+        children,
+      },
+    ];
   }
 
   const out: SymbolNode[] = [];

@@ -35,12 +35,21 @@ describe('in a real VS Code, the compare view', function () {
     await s.page.locator('.tabs-container .tab', { hasText: TAB }).first().waitFor({ timeout: 60_000 });
     const view = s.webview();
     const rows = view.locator('table.cv-table tbody tr');
-    await waitFor(async () => ((await rows.count()) === RUNS.length ? true : undefined), `the table did not list the ${RUNS.length} runs`, 120_000);
+    await waitFor(
+      async () => ((await rows.count()) === RUNS.length ? true : undefined),
+      `the table did not list the ${RUNS.length} runs`,
+      120_000,
+    );
     const names = (): Promise<string[]> => rows.evaluateAll((trs) => trs.map((tr) => (tr as HTMLElement).dataset.name ?? ''));
-    assert.deepEqual(await names(), RUNS.map((r) => `si-strain/${r}/EIGENVAL`));
+    assert.deepEqual(
+      await names(),
+      RUNS.map((r) => `si-strain/${r}/EIGENVAL`),
+    );
 
     // Reference: `valleyscope analyze --json` on each EIGENVAL of the workspace copy.
-    const cli = new Map<string, CliReport>(RUNS.map((r) => [`si-strain/${r}/EIGENVAL`, cliAnalyze(s.env.repoRoot, s.path('si-strain', r, 'EIGENVAL'))]));
+    const cli = new Map<string, CliReport>(
+      RUNS.map((r) => [`si-strain/${r}/EIGENVAL`, cliAnalyze(s.env.repoRoot, s.path('si-strain', r, 'EIGENVAL'))]),
+    );
     const gaps = await view.locator('table.cv-table tbody td[data-key="gap"]').allInnerTexts();
     RUNS.forEach((r, i) => {
       const g = cli.get(`si-strain/${r}/EIGENVAL`)!.gap!;
@@ -65,7 +74,11 @@ describe('in a real VS Code, the compare view', function () {
     };
     const expected = [...cli.keys()].sort((a, b) => cbmMass(a) - cbmMass(b));
     assert.notDeepEqual(expected, [...cli.keys()], 'the mass order differs from the name order (else the check could not fail)');
-    await waitFor(async () => ((await names()).join() === expected.join() ? true : undefined), `rows not in ascending order of the CBM mass: ${expected.join(', ')}`, 15_000);
+    await waitFor(
+      async () => ((await names()).join() === expected.join() ? true : undefined),
+      `rows not in ascending order of the CBM mass: ${expected.join(', ')}`,
+      15_000,
+    );
     await s.screenshot('compare-view-sorted');
 
     // Overlay the most compressed and the most stretched run.
@@ -75,7 +88,17 @@ describe('in a real VS Code, the compare view', function () {
     await view.locator(`table.cv-table tbody tr[data-name="${last}"] input.cv-select`).check();
     const stats = await waitFor(
       async () => {
-        const st = (await view.locator('body').evaluate(() => (window as unknown as { valleyscopeCompareView: { lastOverlay: { runs: string[]; shared: boolean; strokes: number[]; colours: string[] } | null } }).valleyscopeCompareView.lastOverlay)) ?? null;
+        const st =
+          (await view.locator('body').evaluate(
+            () =>
+              (
+                window as unknown as {
+                  valleyscopeCompareView: {
+                    lastOverlay: { runs: string[]; shared: boolean; strokes: number[]; colours: string[] } | null;
+                  };
+                }
+              ).valleyscopeCompareView.lastOverlay,
+          )) ?? null;
         return st && st.runs.length === 2 ? st : undefined;
       },
       'the two ticked runs were not drawn',
@@ -90,16 +113,28 @@ describe('in a real VS Code, the compare view', function () {
       return colours.map((col) => {
         probe.fillStyle = col;
         const norm = String(probe.fillStyle);
-        const rgb = norm.startsWith('#') ? [1, 3, 5].map((i) => parseInt(norm.slice(i, i + 2), 16)) : (norm.match(/[\d.]+/g) ?? []).slice(0, 3).map(Number);
+        const rgb = norm.startsWith('#')
+          ? [1, 3, 5].map((i) => parseInt(norm.slice(i, i + 2), 16))
+          : (norm.match(/[\d.]+/g) ?? []).slice(0, 3).map(Number);
         let n = 0;
-        for (let i = 0; i < d.length; i += 4) if (d[i + 3]! > 150 && Math.abs(d[i]! - rgb[0]!) <= 30 && Math.abs(d[i + 1]! - rgb[1]!) <= 30 && Math.abs(d[i + 2]! - rgb[2]!) <= 30) n++;
+        for (let i = 0; i < d.length; i += 4)
+          if (
+            d[i + 3]! > 150 &&
+            Math.abs(d[i]! - rgb[0]!) <= 30 &&
+            Math.abs(d[i + 1]! - rgb[1]!) <= 30 &&
+            Math.abs(d[i + 2]! - rgb[2]!) <= 30
+          )
+            n++;
         return n;
       });
     }, stats.colours);
     assert.ok(inked[0]! > 300, `the first run is drawn (${inked[0]} pixels of its colour)`);
     assert.ok(inked[1]! > 150, `the second run is drawn (${inked[1]} pixels of its colour)`);
     const legend = await view.locator('.cv-legend-item').allInnerTexts();
-    assert.deepEqual(legend.map((t) => t.trim()), [first, last]);
+    assert.deepEqual(
+      legend.map((t) => t.trim()),
+      [first, last],
+    );
     await s.screenshot('compare-view-overlay');
   });
 
@@ -118,14 +153,28 @@ describe('in a real VS Code, the compare view', function () {
     // The picker (not the command palette used before): its title counts the runs found.
     await s.page.locator('.quick-input-widget', { hasText: `${RUNS.length} runs in si-strain` }).waitFor({ timeout: 60_000 });
     const picks = s.page.locator('.quick-input-widget .monaco-list-row', { hasText: '/EIGENVAL' });
-    await waitFor(async () => ((await picks.count()) === RUNS.length ? true : undefined), `the picker did not list the ${RUNS.length} runs`, 60_000);
+    await waitFor(
+      async () => ((await picks.count()) === RUNS.length ? true : undefined),
+      `the picker did not list the ${RUNS.length} runs`,
+      60_000,
+    );
     const labels = await picks.allInnerTexts();
     await s.screenshot('folder-run-picker');
     // Each run is named by its folder, so the five EIGENVAL files can be told apart.
-    for (const r of RUNS) assert.ok(labels.some((l) => l.includes(`${r}/EIGENVAL`)), `a row for ${r}: ${labels.join(' | ')}`);
+    for (const r of RUNS)
+      assert.ok(
+        labels.some((l) => l.includes(`${r}/EIGENVAL`)),
+        `a row for ${r}: ${labels.join(' | ')}`,
+      );
     const chosen = RUNS[2]!;
-    await s.page.locator('.quick-input-widget .monaco-list-row', { hasText: `${chosen}/EIGENVAL` }).first().click();
-    await s.page.locator('.tabs-container .tab', { hasText: `Bands: ${chosen}/EIGENVAL` }).first().waitFor({ timeout: 60_000 });
+    await s.page
+      .locator('.quick-input-widget .monaco-list-row', { hasText: `${chosen}/EIGENVAL` })
+      .first()
+      .click();
+    await s.page
+      .locator('.tabs-container .tab', { hasText: `Bands: ${chosen}/EIGENVAL` })
+      .first()
+      .waitFor({ timeout: 60_000 });
     const view = s.webview();
     await view.locator('svg.vs-overlay .vs-mark-group').first().waitFor({ state: 'attached', timeout: 60_000 });
     // The header names the run and the layout it was read as.
@@ -141,7 +190,11 @@ describe('in a real VS Code, the compare view', function () {
     await tab.waitFor({ timeout: 60_000 });
     await s.page.locator('.editor-instance .monaco-editor .view-lines', { hasText: 'gap' }).first().waitFor({ timeout: 30_000 });
     await s.screenshot('summary-document');
-    assert.equal(await s.page.locator('.tabs-container .tab.dirty', { hasText: '(summary)' }).count(), 0, 'the summary is not an unsaved buffer');
+    assert.equal(
+      await s.page.locator('.tabs-container .tab.dirty', { hasText: '(summary)' }).count(),
+      0,
+      'the summary is not an unsaved buffer',
+    );
     await s.runCommand('View: Close Editor');
     await tab.waitFor({ state: 'detached', timeout: 15_000 });
     assert.equal(await s.page.locator('.monaco-dialog-box').count(), 0, 'no save prompt');
@@ -154,16 +207,23 @@ describe('in a real VS Code, the compare view', function () {
     const view = s.webview();
     const rows = view.locator('table.cv-table tbody tr');
     await waitFor(async () => ((await rows.count()) === RUNS.length ? true : undefined), 'the table did not list the runs', 120_000);
-    const refRow = (): Promise<string | undefined> => view.locator('table.cv-table tbody tr.cv-reference').first().evaluate((tr) => (tr as HTMLElement).dataset.name);
+    const refRow = (): Promise<string | undefined> =>
+      view
+        .locator('table.cv-table tbody tr.cv-reference')
+        .first()
+        .evaluate((tr) => (tr as HTMLElement).dataset.name);
     const chosen = `si-strain/${RUNS[2]}/EIGENVAL`;
     assert.notEqual(await refRow(), chosen, 'the default reference is another run');
     // Choose the unstrained run as the reference through the select (what a user's pick dispatches).
-    await view.locator('.cv-reference').first().evaluate((sel, name) => {
-      const rows = Array.from(document.querySelectorAll('table.cv-table tbody tr')) as HTMLElement[];
-      const id = rows.find((r) => r.dataset.name === name)?.dataset.id;
-      (sel as HTMLSelectElement).value = id ?? '';
-      sel.dispatchEvent(new Event('change'));
-    }, chosen);
+    await view
+      .locator('.cv-reference')
+      .first()
+      .evaluate((sel, name) => {
+        const rows = Array.from(document.querySelectorAll('table.cv-table tbody tr')) as HTMLElement[];
+        const id = rows.find((r) => r.dataset.name === name)?.dataset.id;
+        (sel as HTMLSelectElement).value = id ?? '';
+        sel.dispatchEvent(new Event('change'));
+      }, chosen);
     await waitFor(async () => ((await refRow()) === chosen ? true : undefined), 'the chosen run did not become the reference', 30_000);
     // Close the view and open it again: the same reference.
     await s.closeAllEditors();

@@ -52,8 +52,14 @@ async function fitWhere(view: FrameLocator): Promise<string> {
 async function waitForFit(view: FrameLocator, kind: RegExp, where: RegExp): Promise<void> {
   await waitFor(
     async () => {
-      const head = await view.locator('.vs-fit-head .vs-fit-kind').innerText().catch(() => '');
-      const w = await view.locator('.vs-fit-head .vs-fit-where').innerText().catch(() => '');
+      const head = await view
+        .locator('.vs-fit-head .vs-fit-kind')
+        .innerText()
+        .catch(() => '');
+      const w = await view
+        .locator('.vs-fit-head .vs-fit-where')
+        .innerText()
+        .catch(() => '');
       return kind.test(head) && where.test(w) ? true : undefined;
     },
     `no fit of ${kind} at ${where}`,
@@ -86,7 +92,9 @@ describe('in a real VS Code: saved fits pass check; secondary valleys are fitted
     await waitFor(() => (existsSync(target) ? true : undefined), `${target} was not written`, 30_000);
     await waitFor(async () => (/Saved/.test(await statusText(view)) ? true : undefined), 'no "Saved" message', 30_000);
     await s.screenshot('saved-then-check');
-    const file = JSON.parse(readFileSync(target, 'utf8')) as { entries: { kind: string; k: number[]; fit?: { window_meV: number; method: string } }[] };
+    const file = JSON.parse(readFileSync(target, 'utf8')) as {
+      entries: { kind: string; k: number[]; fit?: { window_meV: number; method: string } }[];
+    };
     assert.equal(file.entries.filter((e) => e.fit).length, 2, 'both fits recorded with their window and method');
     const check = spawnSync(process.execPath, [join(s.env.repoRoot, 'dist', 'cli.js'), 'check', run], { encoding: 'utf8' });
     assert.equal(check.status, 0, `check exited ${check.status}:\n${check.stdout}\n${check.stderr}`);
@@ -133,7 +141,11 @@ describe('in a real VS Code: saved fits pass check; secondary valleys are fitted
       await view.locator('svg.vs-overlay').click({ position: { x: Number(m[1]) + 1, y: Number(m[2]) + 1 } });
       // The fit of this marker's valley (another marker's fit may still be shown for a moment).
       const want = `k = (${xValley.k[0]!.toFixed(3)}, 0.000, ${xValley.k[2]!.toFixed(3)})`;
-      done = await waitFor(async () => ((await fitWhere(view).catch(() => '')).includes(want) ? true : undefined), 'not this marker', 15_000).catch(() => false);
+      done = await waitFor(
+        async () => ((await fitWhere(view).catch(() => '')).includes(want) ? true : undefined),
+        'not this marker',
+        15_000,
+      ).catch(() => false);
     }
     await s.screenshot('gaas-x-valley-click');
     assert.ok(done, `no marker click fitted the valley at ${xValley.k}; last: ${await fitWhere(view)}`);

@@ -54,9 +54,25 @@ describe('in a real VS Code at 1280 × 800, the band view beside its file', func
         bar: all('.vs-bar > *').filter(function (b) { return b.w > 0; })
       };
     })()`;
-    const m = (await view.locator('body').evaluate(measure)) as { width: number; plot: Box; side: Box; readout: Box; status: Box; masses: Box; method: Box | null; windowField: Box | null; labels: Box[]; bar: Box[] };
-    const overlap = (a: Box, b: Box): boolean => a.x < b.x + b.w - 0.5 && b.x < a.x + a.w - 0.5 && a.y < b.y + b.h - 0.5 && b.y < a.y + a.h - 0.5;
-    const inside = (a: Box, what: string): void => assert.ok(a.x >= -0.5 && a.x + a.w <= m.width + 0.5, `${what} is cut off (${a.x.toFixed(0)}–${(a.x + a.w).toFixed(0)} of ${m.width} px)`);
+    const m = (await view.locator('body').evaluate(measure)) as {
+      width: number;
+      plot: Box;
+      side: Box;
+      readout: Box;
+      status: Box;
+      masses: Box;
+      method: Box | null;
+      windowField: Box | null;
+      labels: Box[];
+      bar: Box[];
+    };
+    const overlap = (a: Box, b: Box): boolean =>
+      a.x < b.x + b.w - 0.5 && b.x < a.x + a.w - 0.5 && a.y < b.y + b.h - 0.5 && b.y < a.y + a.h - 0.5;
+    const inside = (a: Box, what: string): void =>
+      assert.ok(
+        a.x >= -0.5 && a.x + a.w <= m.width + 0.5,
+        `${what} is cut off (${a.x.toFixed(0)}–${(a.x + a.w).toFixed(0)} of ${m.width} px)`,
+      );
     // The view's width beside the file: narrow enough that the side panel goes below the plot (styles.ts).
     assert.ok(m.width < 900, `the band view is ${m.width} px wide beside the file`);
     assert.ok(m.plot.w > 300 && m.plot.h > 150, `the plot keeps a usable size (${m.plot.w.toFixed(0)} × ${m.plot.h.toFixed(0)} px)`);
@@ -66,6 +82,7 @@ describe('in a real VS Code at 1280 × 800, the band view beside its file', func
     if (m.method) inside(m.method, 'the method list');
     if (m.windowField) inside(m.windowField, 'the window field');
     for (let i = 1; i < m.labels.length; i++) assert.ok(!overlap(m.labels[i - 1]!, m.labels[i]!), `k labels ${i - 1} and ${i} overlap`);
-    for (let i = 0; i < m.bar.length; i++) for (let j = i + 1; j < m.bar.length; j++) assert.ok(!overlap(m.bar[i]!, m.bar[j]!), `toolbar items ${i} and ${j} overlap`);
+    for (let i = 0; i < m.bar.length; i++)
+      for (let j = i + 1; j < m.bar.length; j++) assert.ok(!overlap(m.bar[i]!, m.bar[j]!), `toolbar items ${i} and ${j} overlap`);
   });
 });

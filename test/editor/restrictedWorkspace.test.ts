@@ -55,10 +55,14 @@ describe('in a real VS Code, restricted (untrusted) workspace', function () {
       await s.clickCodeLens('Open band view');
       const view = await waitForBandView(s, 'si/EIGENVAL');
       // Reading works: the bands are drawn and a fit can be made.
-      const ink = await waitFor(async () => {
-        const i = await canvasInk(view);
-        return i.columnsInked > 0.9 ? i : undefined;
-      }, 'the band canvas was not drawn in Restricted Mode', 60_000);
+      const ink = await waitFor(
+        async () => {
+          const i = await canvasInk(view);
+          return i.columnsInked > 0.9 ? i : undefined;
+        },
+        'the band canvas was not drawn in Restricted Mode',
+        60_000,
+      );
       assert.ok(ink.maxRunsInColumn >= 3);
       await clickNearMark(view, 'cbm', 3, 2);
       await massRows(view);
@@ -69,12 +73,20 @@ describe('in a real VS Code, restricted (untrusted) workspace', function () {
       const saveButton = view.locator('.vs-save');
       const disabled = await saveButton.evaluate((el) => el.hasAttribute('disabled') || el.getAttribute('aria-disabled') === 'true');
       assert.equal(disabled, true, 'the save button is turned off');
-      await waitFor(async () => ((await view.locator('body').innerText()).includes(reason) ? true : undefined), `the view does not say "${reason}"`, 20_000);
+      await waitFor(
+        async () => ((await view.locator('body').innerText()).includes(reason) ? true : undefined),
+        `the view does not say "${reason}"`,
+        20_000,
+      );
       await saveButton.click({ force: true });
       // (VS Code does not show a notification again while the same one is listed: clear them first.)
       await s.runCommand('Notifications: Clear All Notifications');
       await s.runCommand('Valleyscope: Save Annotations');
-      const note = await waitFor(async () => (await s.notifications()).find((n) => n.includes(reason)), `no notification saying "${reason}" after the command`, 20_000);
+      const note = await waitFor(
+        async () => (await s.notifications()).find((n) => n.includes(reason)),
+        `no notification saying "${reason}" after the command`,
+        20_000,
+      );
       assert.match(note, /trust/i, 'the notification says how to allow saving');
       await s.screenshot('restricted-read-only');
       // Nothing was written: the same files, same sizes and times; no annotations file anywhere.

@@ -57,7 +57,12 @@ interface FileEntry {
   note?: string;
 }
 interface AnnotationsFile {
-  gap: { eV: number; direct: boolean; vbm: { band: number; k: number[]; energy_eV: number }; cbm: { band: number; k: number[]; energy_eV: number } } | null;
+  gap: {
+    eV: number;
+    direct: boolean;
+    vbm: { band: number; k: number[]; energy_eV: number };
+    cbm: { band: number; k: number[]; energy_eV: number };
+  } | null;
   entries: FileEntry[];
   [key: string]: unknown;
 }
@@ -91,7 +96,10 @@ function assertSameMasses(entry: FileEntry, cli: CliExtremum): void {
     assert.ok(f.mass !== null, `the mass towards ${m.towards} is a number in the file`);
     assert.ok(Math.abs(f.mass - m.mass) <= massTol(m.mass), `mass towards ${m.towards}: ${f.mass} in the file, ${m.mass} from the CLI`);
     assert.equal(f.method, m.method);
-    assert.ok(Math.abs(f.window_meV - m.window_meV) <= 0.01 * Math.max(1, m.window_meV), `window towards ${m.towards}: ${f.window_meV} vs ${m.window_meV}`);
+    assert.ok(
+      Math.abs(f.window_meV - m.window_meV) <= 0.01 * Math.max(1, m.window_meV),
+      `window towards ${m.towards}: ${f.window_meV} vs ${m.window_meV}`,
+    );
   }
 }
 
@@ -145,8 +153,8 @@ describe('in a real VS Code, trusted workspace', function () {
     assert.ok(ink.columnsInked > 0.9, `${(ink.columnsInked * 100).toFixed(0)} % of the columns are drawn`);
     assert.ok(ink.maxRunsInColumn >= 3, `at most ${ink.maxRunsInColumn} separate bands cross one column`);
     // The overlay marks both band edges of this semiconductor.
-    assert.equal(await view.locator('svg.vs-overlay .vs-mark-cbm').count() > 0, true, 'a CBM marker');
-    assert.equal(await view.locator('svg.vs-overlay .vs-mark-vbm').count() > 0, true, 'a VBM marker');
+    assert.equal((await view.locator('svg.vs-overlay .vs-mark-cbm').count()) > 0, true, 'a CBM marker');
+    assert.equal((await view.locator('svg.vs-overlay .vs-mark-vbm').count()) > 0, true, 'a VBM marker');
   });
 
   it('a click near the conduction minimum shows its masses, equal to the CLI', async () => {
@@ -167,7 +175,10 @@ describe('in a real VS Code, trusted workspace', function () {
       const row = rows.find((r) => r.towards === m.towards);
       assert.ok(row, `a row towards ${m.towards}`);
       // The panel shows 3 significant digits.
-      assert.ok(Math.abs(row.mass - m.mass) <= 0.5e-2 * Math.abs(m.mass) + 1e-9, `towards ${m.towards}: ${row.mass} shown, ${m.mass} from the CLI`);
+      assert.ok(
+        Math.abs(row.mass - m.mass) <= 0.5e-2 * Math.abs(m.mass) + 1e-9,
+        `towards ${m.towards}: ${row.mass} shown, ${m.mass} from the CLI`,
+      );
     }
     // The fitted curve is drawn over the data.
     assert.ok((await view.locator('svg.vs-overlay path.vs-fit-curve').count()) > 0, 'a fitted curve is drawn');
@@ -245,7 +256,11 @@ describe('in a real VS Code, trusted workspace', function () {
     await s.screenshot('merge-after-view-save');
     // The host's sentence: "Saved N entries to …" (written) or "Merged N entries into the open editor …" (left in
     // the edited buffer for the user's save).
-    assert.match(await view.locator('.vs-status').innerText(), /^(Saved|Merged) \d+ entr(y|ies)/, 'the band view reports a successful save');
+    assert.match(
+      await view.locator('.vs-status').innerText(),
+      /^(Saved|Merged) \d+ entr(y|ies)/,
+      'the band view reports a successful save',
+    );
     // The merge went through the open editor: either the merged buffer was saved by the extension (the
     // editor is clean again) or it waits in the editor for the user's save. Either way the hand edit must be
     // in what reaches the disk.
@@ -256,7 +271,11 @@ describe('in a real VS Code, trusted workspace', function () {
       await s.activeEditorText().click();
       await s.page.keyboard.press('Control+S');
     }
-    await waitFor(() => (readFileSync(target, 'utf8') !== first ? true : undefined), 'the merged annotations never reached the disk', 30_000);
+    await waitFor(
+      () => (readFileSync(target, 'utf8') !== first ? true : undefined),
+      'the merged annotations never reached the disk',
+      30_000,
+    );
     await annotationsDirty.first().waitFor({ state: 'detached', timeout: 15_000 });
     await annotationsTab.click();
     // Show the hand edit in the screenshot (find it in the editor).
@@ -271,7 +290,10 @@ describe('in a real VS Code, trusted workspace', function () {
     // The CBM entry now carries the 40 meV fit, equal to the CLI with --window 40.
     const cbm = merged.entries.find((e) => e.kind === 'cbm');
     assert.ok(cbm, 'a CBM entry after the merge');
-    assert.ok(cbm.masses.some((m) => Math.abs(m.window_meV - 40) < 1e-6 || m.window_meV > 40), 'the merged CBM masses come from the 40 meV fit');
+    assert.ok(
+      cbm.masses.some((m) => Math.abs(m.window_meV - 40) < 1e-6 || m.window_meV > 40),
+      'the merged CBM masses come from the 40 meV fit',
+    );
     const cli = cliAnalyze(s.env.repoRoot, data, ['--window', '40']).extrema.find((e) => e.kind === 'cbm');
     assert.ok(cli);
     assertSameMasses(cbm, cli);
@@ -286,7 +308,9 @@ describe('in a real VS Code, trusted workspace', function () {
   it('an annotations file opens as JSON, not as an eigenvalue file', async () => {
     const s = await session();
     // An annotations file written by the command-line twin beside the data.
-    execFileSync(process.execPath, [join(s.env.repoRoot, 'dist', 'cli.js'), 'annotate', s.path('si-json', 'EIGENVAL')], { timeout: 120_000 });
+    execFileSync(process.execPath, [join(s.env.repoRoot, 'dist', 'cli.js'), 'annotate', s.path('si-json', 'EIGENVAL')], {
+      timeout: 120_000,
+    });
     assert.ok(existsSync(s.path('si-json', 'EIGENVAL.valleys.json')), 'valleyscope annotate wrote the file');
     await s.openFile('si-json/EIGENVAL.valleys.json');
     const mode = s.page.locator('.statusbar-item[id="status.editor.mode"]');

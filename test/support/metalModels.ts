@@ -64,8 +64,22 @@ const CUBIC_PATH: PathLeg[][] = [[G, X, M, G, R]];
  * the six shortest G), `electrons` per cell, spin-degenerate; the Fermi energy of the free-electron gas.
  */
 export function freeElectronMetal(electrons = FE_ELECTRONS, a = FE_A): BandStructure {
-  const gs: Vec3[] = [[0, 0, 0], [1, 0, 0], [-1, 0, 0], [0, 1, 0], [0, -1, 0], [0, 0, 1], [0, 0, -1]];
-  const bs = pathModel({ lattice: cubicLattice(a), bands: gs.map((n) => emptyLatticeBand(n, a)), electrons, legs: CUBIC_PATH, pointsPerSegment: 21 });
+  const gs: Vec3[] = [
+    [0, 0, 0],
+    [1, 0, 0],
+    [-1, 0, 0],
+    [0, 1, 0],
+    [0, -1, 0],
+    [0, 0, 1],
+    [0, 0, -1],
+  ];
+  const bs = pathModel({
+    lattice: cubicLattice(a),
+    bands: gs.map((n) => emptyLatticeBand(n, a)),
+    electrons,
+    legs: CUBIC_PATH,
+    pointsPerSegment: 21,
+  });
   bs.structure = { lattice: cubicLattice(a), species: ['Na'], positions: new Float64Array([0, 0, 0]) };
   bs.fermiEnergy = freeElectronFermi(electrons, a);
   return bs;
@@ -90,9 +104,18 @@ export const SEMIMETAL_OVERLAP_EV = 0.2;
 export function twoBandSemimetal(): BandStructure {
   const hole: Dispersion = cosineBand(0.1, [-0.3, -0.3, -0.3]);
   const electron: Dispersion = (_kc, kf) =>
-    -0.1 + 0.8 * (1 + Math.cos(2 * Math.PI * kf[0])) + 0.8 * (1 - Math.cos(2 * Math.PI * kf[1])) + 0.8 * (1 - Math.cos(2 * Math.PI * kf[2]));
+    -0.1 +
+    0.8 * (1 + Math.cos(2 * Math.PI * kf[0])) +
+    0.8 * (1 - Math.cos(2 * Math.PI * kf[1])) +
+    0.8 * (1 - Math.cos(2 * Math.PI * kf[2]));
   const deep = cosineBand(-6, [-0.1, -0.1, -0.1]);
-  const bs = pathModel({ lattice: cubicLattice(FE_A), bands: [deep, hole, electron], electrons: 4, legs: CUBIC_PATH, pointsPerSegment: 21 });
+  const bs = pathModel({
+    lattice: cubicLattice(FE_A),
+    bands: [deep, hole, electron],
+    electrons: 4,
+    legs: CUBIC_PATH,
+    pointsPerSegment: 21,
+  });
   bs.structure = { lattice: cubicLattice(FE_A), species: ['Bi'], positions: new Float64Array([0, 0, 0]) };
   bs.fermiEnergy = 0;
   return bs;

@@ -161,7 +161,11 @@ export function parabolicBand(e0: number, mass: number, k0: Vec3 = [0, 0, 0]): D
  * ħ²/(2 t_i a_i²) (analytic: E ≈ e0 + t_i a_i² k_i², cartesian k_i = 2π k_i/a_i). Negative t gives a maximum.
  */
 export function cosineBand(e0: number, t: Vec3): Dispersion {
-  return (_kc, kf) => e0 + 2 * t[0] * (1 - Math.cos(2 * Math.PI * kf[0])) + 2 * t[1] * (1 - Math.cos(2 * Math.PI * kf[1])) + 2 * t[2] * (1 - Math.cos(2 * Math.PI * kf[2]));
+  return (_kc, kf) =>
+    e0 +
+    2 * t[0] * (1 - Math.cos(2 * Math.PI * kf[0])) +
+    2 * t[1] * (1 - Math.cos(2 * Math.PI * kf[1])) +
+    2 * t[2] * (1 - Math.cos(2 * Math.PI * kf[2]));
 }
 
 /** Analytic mass of the cosine band along an axis of length a with hopping t: ħ²/(2 t a²), in m_e. */
@@ -192,7 +196,7 @@ export function ellipsoidalValley(e0: number, k0: Vec3, u: Vec3, ml: number, mt:
     const d: Vec3 = [kc[0] - k0[0], kc[1] - k0[1], kc[2] - k0[2]];
     const l = d[0] * u[0] + d[1] * u[1] + d[2] * u[2];
     const t2 = d[0] ** 2 + d[1] ** 2 + d[2] ** 2 - l * l;
-    return e0 + (HBAR2_OVER_ME_EV_A2 / 2) * (l * l / ml + t2 / mt);
+    return e0 + (HBAR2_OVER_ME_EV_A2 / 2) * ((l * l) / ml + t2 / mt);
   };
 }
 

@@ -17,7 +17,12 @@ type Posted = Record<string, unknown>;
 
 const ARTIFACTS = 'test-artifacts';
 
-async function openWithRun(h: Harness, run: LoadedRun, theme: TestTheme = 'dark', viewport?: { width: number; height: number }): Promise<ViewPage> {
+async function openWithRun(
+  h: Harness,
+  run: LoadedRun,
+  theme: TestTheme = 'dark',
+  viewport?: { width: number; height: number },
+): Promise<ViewPage> {
   const v = await h.open(theme, viewport);
   await installPageHelpers(v.page);
   await v.hostPost(bandDataMessage(run.data));
@@ -104,8 +109,14 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     // Filled bands in --vscode-charts-blue, empty ones in --vscode-charts-orange (the view's colour rule).
     const blue = hexToRgb(THEME_VARS.dark['--vscode-charts-blue']!);
     const orange = hexToRgb(THEME_VARS.dark['--vscode-charts-orange']!);
-    assert.ok(((await v.page.evaluate(`__t.countColour(${JSON.stringify(blue)}, 24)`)) as number) > 100, 'valence bands drawn in the theme blue');
-    assert.ok(((await v.page.evaluate(`__t.countColour(${JSON.stringify(orange)}, 24)`)) as number) > 100, 'conduction bands drawn in the theme orange');
+    assert.ok(
+      ((await v.page.evaluate(`__t.countColour(${JSON.stringify(blue)}, 24)`)) as number) > 100,
+      'valence bands drawn in the theme blue',
+    );
+    assert.ok(
+      ((await v.page.evaluate(`__t.countColour(${JSON.stringify(orange)}, 24)`)) as number) > 100,
+      'conduction bands drawn in the theme orange',
+    );
     // Inside the gap, away from any band, the canvas is empty: at the CBM's k, halfway between VBM band and CBM.
     const cbm = mark(run, 'cbm');
     const top = await screenOf(v, cbm);
@@ -127,7 +138,10 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
       function box(sel) { var e = document.querySelector(sel); if (!e) return null; var r = e.getBoundingClientRect(); return { x: r.left, y: r.top, w: r.width, h: r.height }; }
       var labels = Array.prototype.map.call(document.querySelectorAll('.vs-axis-x text'), function (t) { var r = t.getBoundingClientRect(); return { x: r.left, y: r.top, w: r.width, h: r.height }; });
       return { plot: box('.vs-plot'), side: box('.vs-side'), readout: box('.vs-readout'), status: box('.vs-status'), masses: box('table.vs-masses'), labels: labels, width: document.documentElement.clientWidth };
-    })()`)) as Record<string, { x: number; y: number; w: number; h: number } | null> & { labels: { x: number; y: number; w: number; h: number }[]; width: number };
+    })()`)) as Record<string, { x: number; y: number; w: number; h: number } | null> & {
+      labels: { x: number; y: number; w: number; h: number }[];
+      width: number;
+    };
     const overlap = (a: { x: number; y: number; w: number; h: number }, b: { x: number; y: number; w: number; h: number }): boolean =>
       a.x < b.x + b.w - 0.5 && b.x < a.x + a.w - 0.5 && a.y < b.y + b.h - 0.5 && b.y < a.y + a.h - 0.5;
     const plot = boxes.plot!;
@@ -137,7 +151,8 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     assert.ok(side.x + side.w <= boxes.width + 0.5, 'the side panel is not cut off on the right');
     assert.ok(boxes.masses!.x + boxes.masses!.w <= boxes.width + 0.5, 'the mass table fits the width');
     assert.ok(!overlap(boxes.readout!, boxes.status!), 'the readout and the status line do not overlap');
-    for (let i = 1; i < boxes.labels.length; i++) assert.ok(!overlap(boxes.labels[i - 1]!, boxes.labels[i]!), `k labels ${i - 1} and ${i} do not overlap`);
+    for (let i = 1; i < boxes.labels.length; i++)
+      assert.ok(!overlap(boxes.labels[i - 1]!, boxes.labels[i]!), `k labels ${i - 1} and ${i} do not overlap`);
     await assertClean(v);
     await v.page.close();
   });
@@ -196,7 +211,10 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     const v = await openWithRun(h, run);
     // At X the two lowest conduction bands of the diamond structure cross (common practice): the analysis sets
     // the band-index "V" there aside, so silicon has no secondary valley here and none is drawn.
-    assert.ok((run.data.setAside ?? []).some((m) => m.reason === 'crossing'), 'the X crossing is set aside');
+    assert.ok(
+      (run.data.setAside ?? []).some((m) => m.reason === 'crossing'),
+      'the X crossing is set aside',
+    );
     assert.equal(run.data.marks.filter((m) => m.kind === 'valley').length, 0);
     assert.equal(await v.page.locator('.vs-mark-valley').count(), 0);
     for (const kind of ['vbm', 'cbm'] as const) {
@@ -210,7 +228,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     await v.page.close();
   });
 
-  it('an undetermined mass is shown as the word, with the fit\'s value and the reason in its tooltip', async () => {
+  it("an undetermined mass is shown as the word, with the fit's value and the reason in its tooltip", async () => {
     const v = await openWithRun(h, run);
     const cbm = mark(run, 'cbm');
     const p = await screenOf(v, cbm);
@@ -265,7 +283,8 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     // The fitted curves are drawn over the data, one per direction, and the window scan is plotted.
     const curves = v.page.locator('path.vs-fit-curve');
     assert.equal(await curves.count(), fit.masses.length);
-    for (const d of await curves.evaluateAll((ps) => ps.map((p) => p.getAttribute('d') ?? ''))) assert.ok(d.length > 50, 'curve has a path');
+    for (const d of await curves.evaluateAll((ps) => ps.map((p) => p.getAttribute('d') ?? '')))
+      assert.ok(d.length > 50, 'curve has a path');
     const scanPoints = await v.page.locator('.vs-scan svg circle').count();
     const expected = hostFitResult(run, 0, cbm, 25, 'parabola', true).scan!.reduce((n, s) => n + s.points.length, 0);
     assert.equal(scanPoints, expected, 'every window-scan point is plotted');
@@ -308,7 +327,9 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     const v = await openWithRun(h, run);
     await fitAtCbm(v, run);
     // The slider is logarithmic (windowSlider.ts): its position for 60 meV gives back 60 meV.
-    await v.page.evaluate(`(function () { var r = document.querySelector('#vs-window-range'); r.value = '${sliderAtWindow(60)}'; r.dispatchEvent(new Event('input', { bubbles: true })); })()`);
+    await v.page.evaluate(
+      `(function () { var r = document.querySelector('#vs-window-range'); r.value = '${sliderAtWindow(60)}'; r.dispatchEvent(new Event('input', { bubbles: true })); })()`,
+    );
     const req = await waitPosted(v, 'requestFit', 2);
     assert.equal(req.window_meV, 60);
     assert.equal(req.withScan, false, 'a refit does not rerun the scan');
@@ -316,7 +337,9 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     await v.hostPost(hostFitResult(run, req.requestId as number, cbm, 60, 'parabola', false));
     await waitForExpression(v.page, `document.querySelector('.vs-provenance').textContent.indexOf('Window asked: 60 meV') >= 0`);
     // Changing the method refits at once, with a new window scan.
-    await v.page.evaluate(`(function () { var s = document.querySelector('vscode-single-select.vs-method'); s.value = 'central-4'; s.dispatchEvent(new Event('change')); })()`);
+    await v.page.evaluate(
+      `(function () { var s = document.querySelector('vscode-single-select.vs-method'); s.value = 'central-4'; s.dispatchEvent(new Event('change')); })()`,
+    );
     const byMethod = await waitPosted(v, 'requestFit', 3);
     assert.equal(byMethod.method, 'central-4');
     assert.equal(byMethod.window_meV, 60);
@@ -324,9 +347,13 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     assert.ok(isViewToHostMessage(byMethod));
     // The window line sits 60 meV above the CBM.
     const y = Number(await v.page.locator('line.vs-fit-window').getAttribute('y1'));
-    const expected = (await v.page.evaluate(`(function () { var a = window.valleyscopeBandView; var s = a.screenOf(${cbm.spin}, ${cbm.kIndex}, ${cbm.band0}); return s.y; })()`)) as number;
+    const expected = (await v.page.evaluate(
+      `(function () { var a = window.valleyscopeBandView; var s = a.screenOf(${cbm.spin}, ${cbm.kIndex}, ${cbm.band0}); return s.y; })()`,
+    )) as number;
     // Pixels per eV from two band points at Γ (k index 0), bands 4 and 5.
-    const pxSpan = (await v.page.evaluate(`(function () { var a = window.valleyscopeBandView; return a.screenOf(0, 0, 3).y - a.screenOf(0, 0, 4).y; })()`)) as number;
+    const pxSpan = (await v.page.evaluate(
+      `(function () { var a = window.valleyscopeBandView; return a.screenOf(0, 0, 3).y - a.screenOf(0, 0, 4).y; })()`,
+    )) as number;
     const pxPerEv = pxSpan / (run.bs.energies[0]![4]! - run.bs.energies[0]![3]!);
     // The line marks the widest window the engine used (it widens a window holding too few points).
     const fit60 = hostFitResult(run, 0, cbm, 60, 'parabola', false).extremum;
@@ -349,7 +376,11 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     assert.match((await v.page.locator('.vs-plot').getAttribute('aria-label')) ?? '', /Arrow keys move between band extrema, Enter fits/);
     const cbm = mark(run, 'cbm');
     await v.page.keyboard.press('ArrowUp');
-    assert.deepEqual(await v.page.evaluate('window.valleyscopeBandView.selection()'), { spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0 }, 'first arrow selects the CBM');
+    assert.deepEqual(
+      await v.page.evaluate('window.valleyscopeBandView.selection()'),
+      { spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0 },
+      'first arrow selects the CBM',
+    );
     await v.page.keyboard.press('ArrowRight');
     const right = (await v.page.evaluate('window.valleyscopeBandView.selection()')) as FitTarget;
     assert.equal(right.band0, cbm.band0, 'Right stays on the band');
@@ -364,7 +395,11 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
       assert.ok(!(dl * dr < 0), `no extremum skipped at k-point ${k + 1}`);
     }
     await v.page.keyboard.press('ArrowLeft');
-    assert.deepEqual(await v.page.evaluate('window.valleyscopeBandView.selection()'), { spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0 }, 'Left comes back');
+    assert.deepEqual(
+      await v.page.evaluate('window.valleyscopeBandView.selection()'),
+      { spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0 },
+      'Left comes back',
+    );
     await v.page.keyboard.press('ArrowDown');
     const down = (await v.page.evaluate('window.valleyscopeBandView.selection()')) as FitTarget;
     assert.equal(down.band0, cbm.band0 - 1, 'Down moves to the band below');
@@ -380,7 +415,10 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     assert.equal(await v.page.evaluate('window.valleyscopeBandView.transform.k'), 1.5);
     await v.page.keyboard.press('-');
     await v.page.keyboard.press('-');
-    assert.ok(Math.abs(((await v.page.evaluate('window.valleyscopeBandView.transform.k')) as number) - 1) < 1e-9, 'zoom never goes below the whole path');
+    assert.ok(
+      Math.abs(((await v.page.evaluate('window.valleyscopeBandView.transform.k')) as number) - 1) < 1e-9,
+      'zoom never goes below the whole path',
+    );
     await v.page.keyboard.press('+');
     await v.page.keyboard.press('0');
     assert.equal(await v.page.evaluate('window.valleyscopeBandView.transform.k'), 1);
@@ -393,7 +431,11 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     await v.page.focus('.vs-plot');
     await v.page.keyboard.press('ArrowDown'); // nothing selected: Down starts at the VBM
     const vbm = mark(run, 'vbm');
-    assert.deepEqual(await v.page.evaluate('window.valleyscopeBandView.selection()'), { spin: vbm.spin, kIndex: vbm.kIndex, band0: vbm.band0 });
+    assert.deepEqual(await v.page.evaluate('window.valleyscopeBandView.selection()'), {
+      spin: vbm.spin,
+      kIndex: vbm.kIndex,
+      band0: vbm.band0,
+    });
     await v.page.keyboard.press('Enter');
     const req = await waitPosted(v, 'requestFit', 1);
     await v.hostPost(hostFitResult(run, req.requestId as number, vbm, 25, 'parabola', true));
@@ -404,7 +446,9 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     const signedCol = heads.indexOf('m* (signed)');
     const holeCol = heads.indexOf('hole mass');
     assert.ok(signedCol > 0 && holeCol === signedCol + 1, `columns ${heads.join(', ')}`);
-    const rows = await v.page.locator('.vs-masses tbody tr').evaluateAll((trs) => trs.map((tr) => Array.from(tr.querySelectorAll('td'), (td) => td.textContent)));
+    const rows = await v.page
+      .locator('.vs-masses tbody tr')
+      .evaluateAll((trs) => trs.map((tr) => Array.from(tr.querySelectorAll('td'), (td) => td.textContent)));
     assert.equal(rows.length, fit.masses.length);
     fit.masses.forEach((f, i) => {
       assert.ok(f.mass < 0, 'curvature mass negative at a maximum (design.md sign convention)');
@@ -461,10 +505,17 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     await v.hostPost(bandDataMessage(run.data));
     await waitForExpression(v.page, `window.valleyscopeBandView.vm.nk === ${run.data.nk}`);
     assert.equal(await v.page.locator('.vs-banner').isVisible(), false, 'no partial-data banner once complete');
-    assert.deepEqual(await v.page.evaluate('window.valleyscopeBandView.selection()'), { spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0 }, 'selection kept');
+    assert.deepEqual(
+      await v.page.evaluate('window.valleyscopeBandView.selection()'),
+      { spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0 },
+      'selection kept',
+    );
     // Zoom kept: the transform is the same, so a point keeps its place relative to the path's start
     // (the x scale now spans the longer path, so compare the transform, not the pixel).
-    assert.deepEqual(await v.page.evaluate('(function (t) { return [t.k, t.x, t.y]; })(window.valleyscopeBandView.transform)'), [1.5, -100, -50]);
+    assert.deepEqual(
+      await v.page.evaluate('(function (t) { return [t.k, t.x, t.y]; })(window.valleyscopeBandView.transform)'),
+      [1.5, -100, -50],
+    );
     await v.page.evaluate('window.valleyscopeBandView.setZoom(1, 0, 0)');
     // Let the zoom's redraw land before probing pixels (two animation frames).
     await v.page.evaluate('new Promise((r) => requestAnimationFrame(() => requestAnimationFrame(() => r(true))))');
@@ -523,17 +574,28 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
 
   it('energy zero: VBM or as written (this file gives no Fermi level)', async () => {
     const v = await openWithRun(h, run);
-    const options = await v.page.locator('vscode-single-select.vs-ref vscode-option').evaluateAll((os) => os.map((o) => o.getAttribute('value')));
+    const options = await v.page
+      .locator('vscode-single-select.vs-ref vscode-option')
+      .evaluateAll((os) => os.map((o) => o.getAttribute('value')));
     assert.deepEqual(options, ['vbm', 'raw'], 'EIGENVAL carries no Fermi energy, so that reference is not offered');
     const ticksBefore = await v.page.locator('.vs-axis-y text').allTextContents();
     assert.ok(ticksBefore.includes('0'));
-    await v.page.evaluate(`(function () { var s = document.querySelector('vscode-single-select.vs-ref'); s.value = 'raw'; s.dispatchEvent(new Event('change')); })()`);
+    await v.page.evaluate(
+      `(function () { var s = document.querySelector('vscode-single-select.vs-ref'); s.value = 'raw'; s.dispatchEvent(new Event('change')); })()`,
+    );
     assert.equal(await v.page.locator('.vs-y-title').textContent(), 'E (eV)');
-    assert.deepEqual(await v.page.evaluate('window.__state'), { reference: 'raw', spin: 'up', window_meV: 25, method: 'parabola', fits: [] }, 'the choice is kept in the webview state');
+    assert.deepEqual(
+      await v.page.evaluate('window.__state'),
+      { reference: 'raw', spin: 'up', window_meV: 25, method: 'parabola', fits: [] },
+      'the choice is kept in the webview state',
+    );
     assert.equal(await v.page.locator('line.vs-zero').count(), 0);
     const ticksAfter = (await v.page.locator('.vs-axis-y text').allTextContents()).map((t) => Number(t.replace('−', '-')));
     // Raw energies of the model: VBM at 10.48 eV (fixtures/epm/README.md), so the axis spans it.
-    assert.ok(Math.min(...ticksAfter) < run.data.vbm_eV! && Math.max(...ticksAfter) > run.data.vbm_eV!, `raw axis spans the VBM: ${ticksAfter.join(' ')}`);
+    assert.ok(
+      Math.min(...ticksAfter) < run.data.vbm_eV! && Math.max(...ticksAfter) > run.data.vbm_eV!,
+      `raw axis spans the VBM: ${ticksAfter.join(' ')}`,
+    );
     await v.page.close();
   });
 
@@ -556,7 +618,10 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     const k = (b.x - a.x) / (b0.x - a0.x);
     const p1 = await screenOf(v, cbm);
     // Zooming about the pointer scales every offset from it by k (and leaves the pointer's data point in place).
-    assert.ok(Math.abs(p1.x - ptr.x - k * (p0.x - ptr.x)) < 1 && Math.abs(p1.y - ptr.y - k * (p0.y - ptr.y)) < 1, `wheel zoom about the pointer (${JSON.stringify([p0, p1, k])})`);
+    assert.ok(
+      Math.abs(p1.x - ptr.x - k * (p0.x - ptr.x)) < 1 && Math.abs(p1.y - ptr.y - k * (p0.y - ptr.y)) < 1,
+      `wheel zoom about the pointer (${JSON.stringify([p0, p1, k])})`,
+    );
     // Drag to pan.
     await v.page.mouse.move(q.x, q.y);
     await v.page.mouse.down();
@@ -668,7 +733,10 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
       // Zoomed at the CBM: the conduction bands (theme orange) fill the view.
       const orange = hexToRgb(THEME_VARS[theme]['--vscode-charts-orange']!);
       assert.ok(((await v.page.evaluate(`__t.countColour(${JSON.stringify(orange)}, 24)`)) as number) > 100, 'bands in the theme colour');
-      const fitStroke = await v.page.locator('path.vs-fit-curve').first().evaluate((el) => getComputedStyle(el).stroke);
+      const fitStroke = await v.page
+        .locator('path.vs-fit-curve')
+        .first()
+        .evaluate((el) => getComputedStyle(el).stroke);
       const [fr, fg, fb] = hexToRgb(THEME_VARS[theme]['--vscode-charts-green']!);
       assert.equal(fitStroke, `rgb(${fr}, ${fg}, ${fb})`, 'fitted curve in the theme green');
       await assertClean(v);

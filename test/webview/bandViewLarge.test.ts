@@ -43,7 +43,10 @@ describe('band view: large runs and spin channels (headless Chromium)', function
     for (let x = 2; x < env.top.length - 2; x++) {
       assert.equal(env.top[x]! < 0, full.top[x]! < 0, `column ${x} coverage`);
       if (full.top[x]! < 0) continue;
-      assert.ok(Math.abs(env.top[x]! - full.top[x]!) <= 2 && Math.abs(env.bottom[x]! - full.bottom[x]!) <= 2, `column ${x}: ${env.top[x]}–${env.bottom[x]} vs ${full.top[x]}–${full.bottom[x]}`);
+      assert.ok(
+        Math.abs(env.top[x]! - full.top[x]!) <= 2 && Math.abs(env.bottom[x]! - full.bottom[x]!) <= 2,
+        `column ${x}: ${env.top[x]}–${env.bottom[x]} vs ${full.top[x]}–${full.bottom[x]}`,
+      );
       compared++;
     }
     assert.ok(compared > 500, `compared ${compared} columns`);
@@ -93,7 +96,9 @@ describe('band view: large runs and spin channels (headless Chromium)', function
       return [a.filter((r) => r.hit).length / a.length, b.filter((r) => r.hit).length / b.length];
     };
     const choose = async (value: string): Promise<void> => {
-      await v.page.evaluate(`(function () { var s = document.querySelector('vscode-single-select.vs-spin'); s.value = '${value}'; s.dispatchEvent(new Event('change')); })()`);
+      await v.page.evaluate(
+        `(function () { var s = document.querySelector('vscode-single-select.vs-spin'); s.value = '${value}'; s.dispatchEvent(new Event('change')); })()`,
+      );
     };
     // Both channels shown by default (channel 2 dashed: probes look 2 px around each point, wider than a dash gap).
     let [up, down] = await probeBoth();

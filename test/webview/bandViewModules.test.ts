@@ -101,7 +101,15 @@ describe('band view modules', () => {
     const data = { ...run.data, ticks: run.data.ticks.map((t, i) => (i === 1 ? { ...t, label: evil } : t)) };
     const vm = buildViewModel(data);
     const ref = chooseReference('vbm', { vbm_eV: data.vbm_eV, fermiEnergy: null });
-    const { svg } = buildExportSvg({ vm, spins: [0], reference: ref, xDomain: [vm.distance[0]!, vm.distance[vm.nk - 1]!], yDomain: [-6, 6], marks: vm.marks, curves: [] });
+    const { svg } = buildExportSvg({
+      vm,
+      spins: [0],
+      reference: ref,
+      xDomain: [vm.distance[0]!, vm.distance[vm.nk - 1]!],
+      yDomain: [-6, 6],
+      marks: vm.marks,
+      curves: [],
+    });
     assert.ok(!svg.includes('<image'), 'no element injected');
     assert.ok(svg.includes('&lt;image href=&quot;http://example.invalid/x.png&quot; onerror=&quot;alert(1)&quot;/&gt;'));
     assert.ok(svg.includes('<title>Si &lt;b&gt;&quot;x&quot;&lt;/b&gt; &amp; co: band structure</title>'));

@@ -46,7 +46,16 @@ describe('band view: saved reviews in the side panel', function () {
   before(async () => {
     h = await startHarness();
     run = await loadRunForView('fixtures/epm/si', 'Si (EPM)');
-    const c = composeAnnotations({ bs: run.bs, report: run.report, source: run.bs.source, settings: DEFAULT_SETTINGS, toolVersion: 'test', fits: [], existingText: null, existingName: 'EIGENVAL.valleys.json' });
+    const c = composeAnnotations({
+      bs: run.bs,
+      report: run.report,
+      source: run.bs.source,
+      settings: DEFAULT_SETTINGS,
+      toolVersion: 'test',
+      fits: [],
+      existingText: null,
+      existingName: 'EIGENVAL.valleys.json',
+    });
     const json = JSON.parse(c.text) as { entries: { kind: string; status: string; note: string }[] };
     const cbm = json.entries.find((e) => e.kind === 'cbm')!;
     cbm.status = 'questioned';
@@ -60,7 +69,10 @@ describe('band view: saved reviews in the side panel', function () {
 
   it('places only reviewed entries on the arrays: the CBM, at its k-point and band', () => {
     const cbm = run.data.marks.find((m) => m.kind === 'cbm')!;
-    assert.deepEqual(reviews.reviews.map((r) => [r.kIndex, r.band0, r.status]), [[cbm.kIndex, cbm.band0, 'questioned']]);
+    assert.deepEqual(
+      reviews.reviews.map((r) => [r.kIndex, r.band0, r.status]),
+      [[cbm.kIndex, cbm.band0, 'questioned']],
+    );
   });
 
   it('shows the status and note of the fitted CBM (as text), and nothing for the unreviewed VBM', async () => {
@@ -83,7 +95,12 @@ describe('band view: saved reviews in the side panel', function () {
 
   it('a file that could not be read is said in the panel, not silently ignored', async () => {
     const v = await open(h, run);
-    await v.hostPost({ type: HostToViewType.Reviews, file: 'EIGENVAL.valleys.json', reviews: [], problem: 'EIGENVAL.valleys.json could not be read: line 3, column 5: bad JSON' });
+    await v.hostPost({
+      type: HostToViewType.Reviews,
+      file: 'EIGENVAL.valleys.json',
+      reviews: [],
+      problem: 'EIGENVAL.valleys.json could not be read: line 3, column 5: bad JSON',
+    });
     await fitByKey(v, run, 'ArrowUp');
     await v.page.waitForSelector('.vs-review:not([hidden])');
     assert.match((await v.page.locator('.vs-review').textContent()) ?? '', /Saved reviews not shown: .*line 3, column 5/);

@@ -159,7 +159,11 @@ async function openView(h: Harness, table: CompareTable): Promise<View> {
   await page.goto(`${h.origin}/`);
   await waitForExpression(page, 'window.valleyscopeCompareView !== undefined');
   await waitForExpression(page, `window.__posted.some(function (m) { return m.type === 'compareReady'; })`);
-  await page.evaluate((m) => (window as unknown as { __hostPost(m: unknown): void }).__hostPost(m), { type: CompareHostToViewType.Table, table, environment: { theme: 'dark', readOnly: false, readOnlyReason: null } } as object);
+  await page.evaluate((m) => (window as unknown as { __hostPost(m: unknown): void }).__hostPost(m), {
+    type: CompareHostToViewType.Table,
+    table,
+    environment: { theme: 'dark', readOnly: false, readOnlyReason: null },
+  } as object);
   await page.locator('table.cv-table tbody tr').first().waitFor();
   return { page, errors };
 }
@@ -175,9 +179,14 @@ async function posted(v: View): Promise<Array<Record<string, unknown>>> {
 }
 
 async function clean(v: View): Promise<void> {
-  assert.deepEqual(await v.page.evaluate(() => (window as unknown as { __cspViolations: string[] }).__cspViolations), [], 'no content-security-policy violation');
+  assert.deepEqual(
+    await v.page.evaluate(() => (window as unknown as { __cspViolations: string[] }).__cspViolations),
+    [],
+    'no content-security-policy violation',
+  );
   assert.deepEqual(v.errors, [], 'no error in the page');
-  for (const m of await posted(v)) assert.ok(isCompareViewToHostMessage(m), `the view posts only valid compare messages: ${JSON.stringify(m).slice(0, 200)}`);
+  for (const m of await posted(v))
+    assert.ok(isCompareViewToHostMessage(m), `the view posts only valid compare messages: ${JSON.stringify(m).slice(0, 200)}`);
 }
 
 /** Answers the view's band requests as the host does (compareViewData.bandRunOf on the runs read here). */
@@ -186,7 +195,12 @@ async function answerBands(v: View, runs: Map<string, Run>, count: number): Prom
   const reqs = (await posted(v)).filter((m) => m.type === 'compareRequestBands');
   const req = reqs[count - 1]!;
   const out = (req.rowIds as string[]).map((id) => jsonBands(bandRunOf(id, runs.get(id)!.name, runs.get(id)!)));
-  await v.page.evaluate((m) => (window as unknown as { __hostPost(m: unknown): void }).__hostPost(m), { type: CompareHostToViewType.Bands, requestId: req.requestId, runs: out, missing: [] } as object);
+  await v.page.evaluate((m) => (window as unknown as { __hostPost(m: unknown): void }).__hostPost(m), {
+    type: CompareHostToViewType.Bands,
+    requestId: req.requestId,
+    runs: out,
+    missing: [],
+  } as object);
 }
 
 /** Canvas pixels near a colour, in all rows or in rows [y0, y1]. */
@@ -224,7 +238,11 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     list.push(await readRun(join('fixtures', 'demo', 'si-bulk'), 'si-bulk/EIGENVAL'));
     list.forEach((r, i) => runs.set(`r${i}`, r));
     // The strain series only in the table; the bulk run (another path) joins in the side-by-side check.
-    table = buildCompareTable(list.slice(0, NAMES.length).map((r, i) => entryOf(r, `r${i}`)), null, false);
+    table = buildCompareTable(
+      list.slice(0, NAMES.length).map((r, i) => entryOf(r, `r${i}`)),
+      null,
+      false,
+    );
     h = await startHarness();
   });
   after(async () => {
@@ -234,8 +252,14 @@ describe('compare view in headless Chromium (demo strain series)', function () {
 
   it('lists the demo series with the gap, edges and structure of each run, and the cautions', async () => {
     const v = await openView(h, table);
-    const names = await v.page.evaluate(() => (window as unknown as { valleyscopeCompareView: { visibleRowNames(): string[] } }).valleyscopeCompareView.visibleRowNames());
-    assert.deepEqual(names, NAMES.map((n) => `si-strain/${n}/EIGENVAL`), 'one row per run, by name');
+    const names = await v.page.evaluate(() =>
+      (window as unknown as { valleyscopeCompareView: { visibleRowNames(): string[] } }).valleyscopeCompareView.visibleRowNames(),
+    );
+    assert.deepEqual(
+      names,
+      NAMES.map((n) => `si-strain/${n}/EIGENVAL`),
+      'one row per run, by name',
+    );
     // Gap cells equal the core's analysis of the same files (4 decimals, as the column shows them).
     const gaps = await v.page.locator('table.cv-table tbody td[data-key="gap"]').allInnerTexts();
     NAMES.forEach((_, i) => assert.equal(gaps[i], runs.get(`r${i}`)!.report.gap!.eV.toFixed(4), `gap of ${NAMES[i]}`));
@@ -249,12 +273,21 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     const v05 = ((1.01 ** 2 * (1 + ep(0.01))) / (0.99 ** 2 * (1 + ep(-0.01))) - 1) * 100;
     assert.ok(Math.abs(Number(strains[4]) - v05) < 0.01, `volume strain of run 05: ${strains[4]} %, expected ${v05.toFixed(3)} %`);
     const cautions = await v.page.locator('.cv-cautions li').allInnerTexts();
-    assert.ok(cautions.some((c) => /semilocal DFT/i.test(c)), 'the semilocal-gap caution is shown');
-    assert.ok(cautions.some((c) => /functional.*spin–orbit.*strain/i.test(c)), 'the mass caution is shown');
+    assert.ok(
+      cautions.some((c) => /semilocal DFT/i.test(c)),
+      'the semilocal-gap caution is shown',
+    );
+    assert.ok(
+      cautions.some((c) => /functional.*spin–orbit.*strain/i.test(c)),
+      'the mass caution is shown',
+    );
     // The conduction minimum moves between Δ valleys across the series (common practice: biaxial strain
     // splits the six Δ valleys into 2 + 4, lowest pair depending on the sign of the strain).
     const events = await v.page.locator('.cv-events li').allInnerTexts();
-    assert.ok(events.some((e) => /conduction band minimum moved/.test(e)), events.join('\n'));
+    assert.ok(
+      events.some((e) => /conduction band minimum moved/.test(e)),
+      events.join('\n'),
+    );
     await v.page.screenshot({ path: join(ARTIFACTS, 'compare-view-table.png'), fullPage: true });
     await clean(v);
     await v.page.close();
@@ -263,20 +296,32 @@ describe('compare view in headless Chromium (demo strain series)', function () {
   it('sorting by a mass column reorders the rows, both ways', async () => {
     const key = table.columns.find((c) => c.key.startsWith('cbm.m.'))!.key;
     const values = NAMES.map((n, i) => ({ name: `si-strain/${n}/EIGENVAL`, m: table.rows[i]!.values[key]! }));
-    assert.ok(values.every((x) => typeof x.m === 'number'), 'every run has a CBM mass in this column');
+    assert.ok(
+      values.every((x) => typeof x.m === 'number'),
+      'every run has a CBM mass in this column',
+    );
     const ascending = [...values].sort((a, b) => a.m - b.m).map((x) => x.name);
-    assert.notDeepEqual(ascending, values.map((x) => x.name), 'the mass order differs from the name order (else the test could not fail)');
+    assert.notDeepEqual(
+      ascending,
+      values.map((x) => x.name),
+      'the mass order differs from the name order (else the test could not fail)',
+    );
     const v = await openView(h, table);
     await showMoreColumns(v);
     const header = v.page.locator(`table.cv-table th[data-key="${key}"] button`);
     await header.click();
-    const names = (): Promise<string[]> => v.page.evaluate(() => (window as unknown as { valleyscopeCompareView: { visibleRowNames(): string[] } }).valleyscopeCompareView.visibleRowNames());
+    const names = (): Promise<string[]> =>
+      v.page.evaluate(() =>
+        (window as unknown as { valleyscopeCompareView: { visibleRowNames(): string[] } }).valleyscopeCompareView.visibleRowNames(),
+      );
     assert.deepEqual(await names(), ascending);
     assert.equal(await v.page.locator(`table.cv-table th[data-key="${key}"]`).getAttribute('aria-sort'), 'ascending');
     // Keyboard: the header button has focus after the click; Enter sorts the other way.
     await v.page.keyboard.press('Enter');
     assert.deepEqual(await names(), [...ascending].reverse());
-    const cells = (await v.page.locator(`table.cv-table tbody td[data-key="${key}"]`).allInnerTexts()).map((t) => Number(t.replace('−', '-')));
+    const cells = (await v.page.locator(`table.cv-table tbody td[data-key="${key}"]`).allInnerTexts()).map((t) =>
+      Number(t.replace('−', '-')),
+    );
     for (let i = 1; i < cells.length; i++) assert.ok(cells[i - 1]! >= cells[i]!, `descending cells: ${cells.join(', ')}`);
     await v.page.screenshot({ path: join(ARTIFACTS, 'compare-view-sorted.png'), fullPage: true });
     await clean(v);
@@ -289,8 +334,15 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     await answerBands(v, runs, 1);
     await v.page.locator('table.cv-table tbody tr[data-id="r4"] input.cv-select').check();
     await answerBands(v, runs, 2);
-    await waitForExpression(v.page, 'window.valleyscopeCompareView.lastOverlay && window.valleyscopeCompareView.lastOverlay.runs.length === 2');
-    const stats = (await v.page.evaluate('window.valleyscopeCompareView.lastOverlay')) as { runs: string[]; shared: boolean; strokes: number[] };
+    await waitForExpression(
+      v.page,
+      'window.valleyscopeCompareView.lastOverlay && window.valleyscopeCompareView.lastOverlay.runs.length === 2',
+    );
+    const stats = (await v.page.evaluate('window.valleyscopeCompareView.lastOverlay')) as {
+      runs: string[];
+      shared: boolean;
+      strokes: number[];
+    };
     assert.deepEqual(stats.runs, ['r0', 'r4']);
     assert.equal(stats.shared, true, 'the series shares its path (Z–Γ–X–W–K–Γ–L in every KPOINTS)');
     // First run in --vscode-charts-blue, second in --vscode-charts-orange (the view's order of colours).
@@ -307,7 +359,10 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     assert.ok((await countColour(v, blue, 30, [y0 - 2, y0 + 2])) > 0, 'first run touches E = 0');
     assert.ok((await countColour(v, orange, 30, [y0 - 3, y0 + 3])) > 0, 'second run touches E = 0');
     const legend = await v.page.locator('.cv-legend-item').allInnerTexts();
-    assert.deepEqual(legend.map((t) => t.trim()), ['si-strain/01_biaxial-1.00pct/EIGENVAL', 'si-strain/05_biaxial+1.00pct/EIGENVAL']);
+    assert.deepEqual(
+      legend.map((t) => t.trim()),
+      ['si-strain/01_biaxial-1.00pct/EIGENVAL', 'si-strain/05_biaxial+1.00pct/EIGENVAL'],
+    );
     const labels = await v.page.locator('.cv-axis-x text').evaluateAll((els) => els.map((e) => e.textContent));
     assert.deepEqual(labels, ['Z', 'Γ', 'X', 'W', 'K', 'Γ', 'L'], 'the path labels as written in the series KPOINTS');
     await v.page.screenshot({ path: join(ARTIFACTS, 'compare-view-overlay.png'), fullPage: true });
@@ -326,7 +381,10 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     await answerBands(v, runs, 1);
     await v.page.locator('table.cv-table tbody tr[data-id="r5"] input.cv-select').check();
     await answerBands(v, runs, 2);
-    await waitForExpression(v.page, 'window.valleyscopeCompareView.lastOverlay && window.valleyscopeCompareView.lastOverlay.runs.length === 2');
+    await waitForExpression(
+      v.page,
+      'window.valleyscopeCompareView.lastOverlay && window.valleyscopeCompareView.lastOverlay.runs.length === 2',
+    );
     const stats = (await v.page.evaluate('window.valleyscopeCompareView.lastOverlay')) as { shared: boolean };
     assert.equal(stats.shared, false, 'Z–Γ–X–W–K–Γ–L and the bulk fcc path differ');
     assert.equal(await v.page.locator('line.cv-separator').count(), 1, 'one separator between the two runs');
@@ -344,7 +402,10 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     // Each point's y is the gap the core found for that run.
     for (const p of pts) assert.ok(Math.abs(p.y - runs.get(p.rowId)!.report.gap!.eV) < 1e-12, `point ${p.rowId}`);
     // Volume grows with in-plane strain here (ε⊥ = −0.77 ε∥ keeps (1+ε∥)²(1+ε⊥) increasing: demo README values).
-    assert.deepEqual(pts.map((p) => p.rowId), ['r0', 'r1', 'r2', 'r3', 'r4']);
+    assert.deepEqual(
+      pts.map((p) => p.rowId),
+      ['r0', 'r1', 'r2', 'r3', 'r4'],
+    );
     const last = v.page.locator('svg.cv-trend-svg circle.cv-point[data-row="r4"]');
     await last.click();
     await waitForExpression(v.page, `window.__posted.some(function (m) { return m.type === 'compareOpenRun' && m.rowId === 'r4'; })`);
@@ -369,8 +430,18 @@ describe('compare view in headless Chromium (demo strain series)', function () {
 
   it('flags stale annotations and marks rows that show saved numbers', async () => {
     const a = entryOf(runs.get('r0')!, 'r0');
-    const stale: CompareEntry = { ...entryOf(runs.get('r1')!, 'r1'), annotations: 'stale', staleReasons: ['source EIGENVAL (eigenvalues) has changed since the annotations were written'] };
-    const saved: CompareEntry = { ...entryOf(runs.get('r2')!, 'r2'), name: 'si-strain/03_biaxial+0.00pct/EIGENVAL.valleys.json', origin: 'annotations', annotations: 'current', canOverlay: false };
+    const stale: CompareEntry = {
+      ...entryOf(runs.get('r1')!, 'r1'),
+      annotations: 'stale',
+      staleReasons: ['source EIGENVAL (eigenvalues) has changed since the annotations were written'],
+    };
+    const saved: CompareEntry = {
+      ...entryOf(runs.get('r2')!, 'r2'),
+      name: 'si-strain/03_biaxial+0.00pct/EIGENVAL.valleys.json',
+      origin: 'annotations',
+      annotations: 'current',
+      canOverlay: false,
+    };
     const broken: CompareEntry = { ...entryOf(runs.get('r3')!, 'r3'), run: null, error: 'EIGENVAL line 9: a number was expected' };
     const v = await openView(h, buildCompareTable([a, stale, saved, broken], null, true));
     const flag = v.page.locator('tr[data-id="r1"] .cv-stale');
@@ -379,7 +450,11 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     assert.equal(await v.page.locator('tr[data-id="r2"] .cv-tag', { hasText: 'saved numbers' }).count(), 1);
     assert.equal(await v.page.locator('tr[data-id="r2"] input.cv-select').isDisabled(), true, 'nothing to draw without a data file');
     assert.equal(await v.page.locator('tr[data-id="r3"] td[data-key="gap"]').innerText(), '—', 'an unreadable run has no numbers');
-    assert.ok((await v.page.locator('.cv-cautions li').allInnerTexts()).some((c) => /annotations files show the numbers as they were saved/i.test(c)));
+    assert.ok(
+      (await v.page.locator('.cv-cautions li').allInnerTexts()).some((c) =>
+        /annotations files show the numbers as they were saved/i.test(c),
+      ),
+    );
     assert.match((await v.page.locator('.cv-summary').innerText()) ?? '', /4 runs, 1 unreadable, 1 with stale annotations/);
     await clean(v);
     await v.page.close();
@@ -388,7 +463,11 @@ describe('compare view in headless Chromium (demo strain series)', function () {
   it('mixed materials: the default reference is a run of the material most runs share; trend lines stay within one material', async () => {
     // GaAs bulk listed first (as an alphabetical search finds it), then silicon: bulk and the strain series.
     const gaas = await readRun(join('fixtures', 'demo', 'gaas-bulk'), 'gaas-bulk/EIGENVAL');
-    const list: CompareEntry[] = [entryOf(gaas, 'g0'), entryOf(runs.get('r5')!, 'r5'), ...NAMES.map((_, i) => entryOf(runs.get(`r${i}`)!, `r${i}`))];
+    const list: CompareEntry[] = [
+      entryOf(gaas, 'g0'),
+      entryOf(runs.get('r5')!, 'r5'),
+      ...NAMES.map((_, i) => entryOf(runs.get(`r${i}`)!, `r${i}`)),
+    ];
     const t = buildCompareTable(list, null, false);
     // Six of seven runs are silicon (demo README): the reference is the first silicon run, not GaAs.
     assert.equal(t.reference, 'r5');
@@ -402,10 +481,19 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     assert.match(events, /against si-bulk\/EIGENVAL/);
     // GaAs is not compared valley by valley with silicon: one sentence says it is another material.
     const gaasEvents = t.events.filter((e) => e.rowId === 'g0');
-    assert.deepEqual(gaasEvents.map((e) => e.kind), ['other-material']);
+    assert.deepEqual(
+      gaasEvents.map((e) => e.kind),
+      ['other-material'],
+    );
     assert.match(gaasEvents[0]!.message, /another material \(As1 Ga1\) than the reference \(Si2\)/);
-    assert.ok(t.events.some((e) => e.rowId !== 'g0' && e.kind !== 'other-material'), 'control: silicon runs keep their valley events');
-    assert.match((await v.page.locator('tr[data-id="g0"] td', { hasText: '[' }).first().getAttribute('title')) ?? '', /Another material \(As1 Ga1\)/);
+    assert.ok(
+      t.events.some((e) => e.rowId !== 'g0' && e.kind !== 'other-material'),
+      'control: silicon runs keep their valley events',
+    );
+    assert.match(
+      (await v.page.locator('tr[data-id="g0"] td', { hasText: '[' }).first().getAttribute('title')) ?? '',
+      /Another material \(As1 Ga1\)/,
+    );
     assert.equal(await v.page.locator('tr[data-id="g0"] td.cv-moved').count(), 0, 'no "edge moved" mark against another material');
     // Trend of the gap against the volume: silicon (bulk and the strain series, cubic and tetragonal) is one
     // line; GaAs is a series of its own.
@@ -416,7 +504,9 @@ describe('compare view in headless Chromium (demo strain series)', function () {
       const names = new Set(sr.rowIds.map((id) => t.rows.find((r) => r.id === id)!.series));
       assert.equal(names.size, 1, `one material per line: ${sr.name}`);
     }
-    const lines = await v.page.locator('svg.cv-trend-svg path.cv-trend-line').evaluateAll((ps) => ps.map((p) => p.getAttribute('data-series')));
+    const lines = await v.page
+      .locator('svg.cv-trend-svg path.cv-trend-line')
+      .evaluateAll((ps) => ps.map((p) => p.getAttribute('data-series')));
     assert.deepEqual(lines, ['Si2'], 'one line: silicon; the single GaAs run joins no line');
     assert.deepEqual(series.find((x) => x.name === 'Si2')!.rowIds.length, 6);
     const legend = (await v.page.locator('.cv-trend-legend').innerText()) ?? '';
@@ -447,9 +537,15 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     assert.match(headerText, /conventional a/);
     assert.equal(await v.page.locator('table.cv-table th[data-key="a"]').count(), 0, 'cell-vector lengths hidden in the compact set');
     // Compact default set: gap, edges, N_v, DOS and conductivity masses (and conventional a).
-    const keys = await v.page.locator('table.cv-table thead th[data-key]').evaluateAll((ths) => ths.map((th) => (th as HTMLElement).dataset.key));
+    const keys = await v.page
+      .locator('table.cv-table thead th[data-key]')
+      .evaluateAll((ths) => ths.map((th) => (th as HTMLElement).dataset.key));
     const numeric = keys.filter((k) => !['name', 'annotations', 'type', 'vbm', 'cbm', 'user'].includes(k!));
-    for (const k of numeric) assert.ok(['gap', 'deltaGap', 'cbm.nv', 'cbm.dos', 'cbm.cond', 'vbm.nv', 'vbm.dos', 'vbm.cond', 'aConv'].includes(k!), `compact column ${k}`);
+    for (const k of numeric)
+      assert.ok(
+        ['gap', 'deltaGap', 'cbm.nv', 'cbm.dos', 'cbm.cond', 'vbm.nv', 'vbm.dos', 'vbm.cond', 'aConv'].includes(k!),
+        `compact column ${k}`,
+      );
     assert.ok(t.columns.length > numeric.length + 5, `control: the full set is larger (${t.columns.length})`);
     assert.match((await v.page.locator('vscode-checkbox.cv-more-columns').getAttribute('label')) ?? '', /More columns \(\d+ more\)/);
     await showMoreColumns(v);
@@ -464,7 +560,10 @@ describe('compare view in headless Chromium (demo strain series)', function () {
   it('the compare messages are checked: unknown types, extra fields and bad ids are refused', () => {
     assert.ok(isCompareViewToHostMessage({ type: 'compareRequestBands', requestId: 3, rowIds: ['r0', 'r12'] }));
     assert.ok(!isCompareViewToHostMessage({ type: 'compareRequestBands', requestId: 3, rowIds: ['../x'] }));
-    assert.ok(!isCompareViewToHostMessage({ type: 'compareRequestBands', requestId: 3, rowIds: Array.from({ length: 9 }, (_, i) => `r${i}`) }), 'at most 8 runs');
+    assert.ok(
+      !isCompareViewToHostMessage({ type: 'compareRequestBands', requestId: 3, rowIds: Array.from({ length: 9 }, (_, i) => `r${i}`) }),
+      'at most 8 runs',
+    );
     assert.ok(!isCompareViewToHostMessage({ type: 'compareOpenRun', rowId: 'r1', target: 'terminal' }));
     assert.ok(!isCompareViewToHostMessage({ type: 'compareReady', extra: 1 }));
     assert.ok(!isCompareViewToHostMessage({ type: 'ready' }), 'a band-view message is not a compare message');
@@ -473,13 +572,29 @@ describe('compare view in headless Chromium (demo strain series)', function () {
 });
 
 describe('compare view layout and sorting (pure modules)', () => {
-  const seg = (start: number, end: number, a: string, b: string, afterJump = false) => ({ start, end, startLabel: a, endLabel: b, afterJump });
+  const seg = (start: number, end: number, a: string, b: string, afterJump = false) => ({
+    start,
+    end,
+    startLabel: a,
+    endLabel: b,
+    afterJump,
+  });
   const tick = (distance: number, label: string, kIndex: number) => ({ distance, label, kIndex });
 
   it('runs on the same labelled path share the axis, each segment stretched onto the first run’s', () => {
     // Two runs Γ–X–L: segment lengths differ (a strained cell), so raw distances would misplace X.
-    const a = { nk: 5, distance: Float64Array.from([0, 0.5, 1, 1.5, 2]), segments: [seg(0, 2, 'Γ', 'X'), seg(2, 4, 'X', 'L')], ticks: [tick(0, 'Γ', 0), tick(1, 'X', 2), tick(2, 'L', 4)] };
-    const b = { nk: 5, distance: Float64Array.from([0, 0.6, 1.2, 1.6, 2.0]), segments: [seg(0, 2, 'Γ', 'X'), seg(2, 4, 'X', 'L')], ticks: [tick(0, 'Γ', 0), tick(1.2, 'X', 2), tick(2.0, 'L', 4)] };
+    const a = {
+      nk: 5,
+      distance: Float64Array.from([0, 0.5, 1, 1.5, 2]),
+      segments: [seg(0, 2, 'Γ', 'X'), seg(2, 4, 'X', 'L')],
+      ticks: [tick(0, 'Γ', 0), tick(1, 'X', 2), tick(2, 'L', 4)],
+    };
+    const b = {
+      nk: 5,
+      distance: Float64Array.from([0, 0.6, 1.2, 1.6, 2.0]),
+      segments: [seg(0, 2, 'Γ', 'X'), seg(2, 4, 'X', 'L')],
+      ticks: [tick(0, 'Γ', 0), tick(1.2, 'X', 2), tick(2.0, 'L', 4)],
+    };
     assert.equal(pathsMatch([a, b]), true);
     const l = layoutOverlay([a, b]);
     assert.equal(l.shared, true);
@@ -503,11 +618,36 @@ describe('compare view layout and sorting (pure modules)', () => {
   });
 
   it('sorts numbers as numbers, rows without a number last either way, ties by name', () => {
-    const row = (id: string, name: string, m: number | null): CompareRow => ({ id, name, origin: 'data' as const, isReference: false, annotations: 'none' as const, staleReasons: [], error: null, metal: false, direct: false, vbm: null, cbm: null, cbmValley: null, vbmValley: null, values: m === null ? ({}) : { m }, canOverlay: true });
+    const row = (id: string, name: string, m: number | null): CompareRow => ({
+      id,
+      name,
+      origin: 'data' as const,
+      isReference: false,
+      annotations: 'none' as const,
+      staleReasons: [],
+      error: null,
+      metal: false,
+      direct: false,
+      vbm: null,
+      cbm: null,
+      cbmValley: null,
+      vbmValley: null,
+      values: m === null ? {} : { m },
+      canOverlay: true,
+    });
     const rows = [row('r0', 'c', 10), row('r1', 'a', 9), row('r2', 'b', null), row('r3', 'd', 9)];
-    assert.deepEqual(sortRows(rows, { key: 'm', direction: 'ascending' }).map((r) => r.id), ['r1', 'r3', 'r0', 'r2']);
-    assert.deepEqual(sortRows(rows, { key: 'm', direction: 'descending' }).map((r) => r.id), ['r0', 'r1', 'r3', 'r2']);
-    assert.deepEqual(sortRows(rows, null).map((r) => r.name), ['a', 'b', 'c', 'd']);
+    assert.deepEqual(
+      sortRows(rows, { key: 'm', direction: 'ascending' }).map((r) => r.id),
+      ['r1', 'r3', 'r0', 'r2'],
+    );
+    assert.deepEqual(
+      sortRows(rows, { key: 'm', direction: 'descending' }).map((r) => r.id),
+      ['r0', 'r1', 'r3', 'r2'],
+    );
+    assert.deepEqual(
+      sortRows(rows, null).map((r) => r.name),
+      ['a', 'b', 'c', 'd'],
+    );
     assert.deepEqual(nextSort({ key: 'm', direction: 'ascending' }, 'm'), { key: 'm', direction: 'descending' });
   });
 });

@@ -4,7 +4,14 @@
  */
 import assert from 'node:assert/strict';
 import fc from 'fast-check';
-import { buildPyramid, clearEnvelope, columnEnvelope, createEnvelope, lowerBound, type ColumnMapping } from '../../webview/bandView/decimate';
+import {
+  buildPyramid,
+  clearEnvelope,
+  columnEnvelope,
+  createEnvelope,
+  lowerBound,
+  type ColumnMapping,
+} from '../../webview/bandView/decimate';
 
 /** The definition: for each column, min, max and last value of the points whose x falls in it. */
 function bruteForce(x: Float64Array, v: Float64Array, nb: number, i0: number, i1: number, map: ColumnMapping) {
@@ -163,7 +170,7 @@ describe('decimate: per-pixel-column min/max envelope', () => {
     assert.ok(read < (n * nb) / 8);
   });
 
-  it('cosine band: each column holds the band\'s exact range over that column (analytic)', () => {
+  it("cosine band: each column holds the band's exact range over that column (analytic)", () => {
     // E(k) = −2t cos(ka), the nearest-neighbour tight-binding chain (textbook analytic model), t = 1 eV, a = 1.
     const n = 100_001;
     const x = Float64Array.from({ length: n }, (_, i) => (i / (n - 1)) * 2 * Math.PI);

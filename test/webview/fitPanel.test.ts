@@ -39,11 +39,20 @@ async function waitPosted(v: ViewPage, type: string, count: number): Promise<Pos
 }
 
 /** Select an extremum with the keyboard (Down from nothing: the VBM; Up: the CBM), Enter, answer the request. */
-async function fitByKey(v: ViewPage, run: LoadedRun, key: 'ArrowDown' | 'ArrowUp', method: string, window_meV: number, n: number): Promise<MassFit[]> {
+async function fitByKey(
+  v: ViewPage,
+  run: LoadedRun,
+  key: 'ArrowDown' | 'ArrowUp',
+  method: string,
+  window_meV: number,
+  n: number,
+): Promise<MassFit[]> {
   await v.page.focus('.vs-plot');
   if (n === 1) await v.page.keyboard.press(key);
   if (method !== 'parabola') {
-    await v.page.evaluate(`(function () { var s = document.querySelector('vscode-single-select.vs-method'); s.value = ${JSON.stringify(method)}; s.dispatchEvent(new Event('change')); })()`);
+    await v.page.evaluate(
+      `(function () { var s = document.querySelector('vscode-single-select.vs-method'); s.value = ${JSON.stringify(method)}; s.dispatchEvent(new Event('change')); })()`,
+    );
   }
   await v.page.keyboard.press('Enter');
   const req = await waitPosted(v, 'requestFit', n);
@@ -56,7 +65,9 @@ async function fitByKey(v: ViewPage, run: LoadedRun, key: 'ArrowDown' | 'ArrowUp
 }
 
 function cells(v: ViewPage, selector: string): Promise<string[][]> {
-  return v.page.locator(selector).evaluateAll((trs) => trs.map((tr) => Array.from(tr.querySelectorAll('td'), (td) => td.textContent ?? '')));
+  return v.page
+    .locator(selector)
+    .evaluateAll((trs) => trs.map((tr) => Array.from(tr.querySelectorAll('td'), (td) => td.textContent ?? '')));
 }
 
 describe('fit panel (headless Chromium, silicon EPM)', function () {
@@ -111,7 +122,10 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
     // Nothing cut off: the table's last column ends inside the side panel (1280 px wide view).
     const sideRight = (await v.page.locator('.vs-side').boundingBox())!;
     const lastHead = (await v.page.locator('.vs-masses thead th').last().boundingBox())!;
-    assert.ok(lastHead.x + lastHead.width <= sideRight.x + sideRight.width + 0.5, `points column at ${lastHead.x + lastHead.width} inside ${sideRight.x + sideRight.width}`);
+    assert.ok(
+      lastHead.x + lastHead.width <= sideRight.x + sideRight.width + 0.5,
+      `points column at ${lastHead.x + lastHead.width} inside ${sideRight.x + sideRight.width}`,
+    );
     // The DOS mass of the branches from path directions only is shown with its error and the word path-limited
     // (the core estimates it from the path; a number without that would be quoted as a full-sphere value).
     const dl = (await v.page.locator('.vs-degeneracy').textContent()) ?? '';
@@ -132,7 +146,10 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
 
   it('the window slider is logarithmic like the scan plot: equal distances are equal ratios, and it reports what it sets', async () => {
     // Log scale (definition): 1 → 10 meV and 10 → 100 meV take the same slider distance.
-    assert.ok(Math.abs(sliderAtWindow(10) - sliderAtWindow(1) - (sliderAtWindow(100) - sliderAtWindow(10))) <= 1, 'within one step of rounding');
+    assert.ok(
+      Math.abs(sliderAtWindow(10) - sliderAtWindow(1) - (sliderAtWindow(100) - sliderAtWindow(10))) <= 1,
+      'within one step of rounding',
+    );
     assert.equal(windowAtSlider(0), 1);
     assert.equal(windowAtSlider(WINDOW_SLIDER_STEPS), 300);
     assert.equal(windowAtSlider(WINDOW_SLIDER_STEPS / 2), Math.round(Math.sqrt(300))); // geometric mean of 1 and 300
@@ -140,19 +157,39 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
     await fitByKey(v, run, 'ArrowUp', 'parabola', 25, 1);
     const range = v.page.locator('#vs-window-range');
     assert.equal(await range.getAttribute('max'), String(WINDOW_SLIDER_STEPS));
-    assert.equal(Number(await range.inputValue()), Math.round((WINDOW_SLIDER_STEPS * Math.log(25)) / Math.log(300)), 'thumb at log(25)/log(300)');
+    assert.equal(
+      Number(await range.inputValue()),
+      Math.round((WINDOW_SLIDER_STEPS * Math.log(25)) / Math.log(300)),
+      'thumb at log(25)/log(300)',
+    );
     // Dragging to the middle asks for the geometric mean.
-    await v.page.evaluate(`(function () { var r = document.querySelector('#vs-window-range'); r.value = '${WINDOW_SLIDER_STEPS / 2}'; r.dispatchEvent(new Event('input', { bubbles: true })); })()`);
+    await v.page.evaluate(
+      `(function () { var r = document.querySelector('#vs-window-range'); r.value = '${WINDOW_SLIDER_STEPS / 2}'; r.dispatchEvent(new Event('input', { bubbles: true })); })()`,
+    );
     const req = await waitPosted(v, 'requestFit', 2);
     assert.equal(req.window_meV, 17);
     assert.equal(await v.page.evaluate(`document.querySelector('.vs-window-field').value`), '17');
     // The scan plot's window axis is logarithmic too: ticks 10 → 20 and 50 → 100 (both ×2) are equally far apart.
     assert.equal(await v.page.locator('.vs-scan svg').getAttribute('data-x-scale'), 'log');
-    const ticks = (await v.page.locator('.vs-scan svg .vs-axis').first().evaluate((g) =>
-      Array.from(g.querySelectorAll('.tick'), (t) => [Number(t.textContent), Number((t.getAttribute('transform') ?? '').replace(/[^\d.,-]/g, '').split(',')[0])]),
-    )) as [number, number][];
+    const ticks = (await v.page
+      .locator('.vs-scan svg .vs-axis')
+      .first()
+      .evaluate((g) =>
+        Array.from(g.querySelectorAll('.tick'), (t) => [
+          Number(t.textContent),
+          Number((t.getAttribute('transform') ?? '').replace(/[^\d.,-]/g, '').split(',')[0]),
+        ]),
+      )) as [number, number][];
     const at = new Map(ticks);
-    const pairs = [[1, 2], [2, 5], [5, 10], [10, 20], [20, 50], [50, 100], [100, 200]].filter(([a, b]) => at.has(a!) && at.has(b!));
+    const pairs = [
+      [1, 2],
+      [2, 5],
+      [5, 10],
+      [10, 20],
+      [20, 50],
+      [50, 100],
+      [100, 200],
+    ].filter(([a, b]) => at.has(a!) && at.has(b!));
     assert.ok(pairs.length >= 2, `ticks ${JSON.stringify(ticks)}`);
     // On a log axis the pixel distance per decade is constant: distance / ln(ratio) agrees for every pair.
     const perLn = pairs.map(([a, b]) => (at.get(b!)! - at.get(a!)!) / Math.log(b! / a!));
@@ -197,7 +234,9 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
       if (f.alpha_per_eV !== undefined) assert.equal(rows[i]![col], f.alpha_per_eV.toPrecision(3).replace('-', '−'));
     });
     assert.ok(masses.some((f) => f.alpha_per_eV !== undefined));
-    const opts = (await v.page.locator('vscode-single-select.vs-method vscode-option').evaluateAll((os) => os.map((o) => [o.getAttribute('value'), o.getAttribute('description')]))) as [string, string][];
+    const opts = (await v.page
+      .locator('vscode-single-select.vs-method vscode-option')
+      .evaluateAll((os) => os.map((o) => [o.getAttribute('value'), o.getAttribute('description')]))) as [string, string][];
     assert.ok(opts.length >= 5);
     for (const [id, d] of opts) assert.equal(d, METHOD_DESCRIPTIONS[id], id);
     assert.match((await v.page.locator('.vs-method-note').textContent()) ?? '', /^kane: Kane dispersion/);
@@ -206,9 +245,13 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
 
   it('Light High Contrast: the symmetry lines are not drawn in a band colour', async () => {
     const v = await open(h, run, 'hcLight');
-    const stroke = await v.page.locator('line.vs-sym-line').first().evaluate((l) => getComputedStyle(l).stroke);
+    const stroke = await v.page
+      .locator('line.vs-sym-line')
+      .first()
+      .evaluate((l) => getComputedStyle(l).stroke);
     const hex = (c: string): string => c.toLowerCase();
-    const toRgb = (x: string): string => `rgb(${parseInt(x.slice(1, 3), 16)}, ${parseInt(x.slice(3, 5), 16)}, ${parseInt(x.slice(5, 7), 16)})`;
+    const toRgb = (x: string): string =>
+      `rgb(${parseInt(x.slice(1, 3), 16)}, ${parseInt(x.slice(3, 5), 16)}, ${parseInt(x.slice(5, 7), 16)})`;
     const vars = THEME_VARS.hcLight;
     // Control: in this theme the contrast border and the first band colour coincide.
     assert.equal(hex(vars['--vscode-contrastBorder']!), hex(vars['--vscode-charts-blue']!));

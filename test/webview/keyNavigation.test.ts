@@ -35,18 +35,35 @@ describe('band view: keyboard order and exact fits', function () {
     const { list, x } = await candidatesOf('fixtures/epm/gaas');
     const listed = list.filter((c) => c.kind !== null);
     assert.ok(listed.length >= 4, `listed: ${listed.map((c) => c.kind).join(', ')}`);
-    assert.ok(listed.some((c) => c.kind === 'valley'), 'a secondary conduction valley is listed');
+    assert.ok(
+      listed.some((c) => c.kind === 'valley'),
+      'a secondary conduction valley is listed',
+    );
     // From nothing, Left selects the VBM; going Left to the start of the path, then Right to its end.
     const first = nextCandidate(list, null, 'ArrowLeft', x)!;
     assert.equal(first.kind, 'vbm');
-    const path = walk(list, x, ['ArrowLeft', ...Array<ArrowKey>(listed.length + 2).fill('ArrowLeft'), ...Array<ArrowKey>(2 * listed.length + 2).fill('ArrowRight')]);
+    const path = walk(list, x, [
+      'ArrowLeft',
+      ...Array<ArrowKey>(listed.length + 2).fill('ArrowLeft'),
+      ...Array<ArrowKey>(2 * listed.length + 2).fill('ArrowRight'),
+    ]);
     const firstUnlisted = path.findIndex((c) => c.kind === null);
     const before = new Set(path.slice(0, firstUnlisted < 0 ? path.length : firstUnlisted).map((c) => `${c.kIndex}:${c.band0}`));
-    for (const c of listed) assert.ok(before.has(`${c.kIndex}:${c.band0}`), `listed ${c.kind} at k-point ${c.kIndex + 1}, band ${c.band0 + 1} reached before other extrema`);
+    for (const c of listed)
+      assert.ok(
+        before.has(`${c.kIndex}:${c.band0}`),
+        `listed ${c.kind} at k-point ${c.kIndex + 1}, band ${c.band0 + 1} reached before other extrema`,
+      );
     // Control: the walk does go on to other local extrema once the listed ones are behind it.
     const more = walk(list, x, [...Array<ArrowKey>(list.length).fill('ArrowRight')]);
-    assert.ok(list.some((c) => c.kind === null), 'the bands have other local extrema too');
-    assert.ok(more.some((c) => c.kind === null), 'Right goes on to them past the last listed extremum');
+    assert.ok(
+      list.some((c) => c.kind === null),
+      'the bands have other local extrema too',
+    );
+    assert.ok(
+      more.some((c) => c.kind === null),
+      'Right goes on to them past the last listed extremum',
+    );
   });
 
   it('GaAs: the host fits exactly the selected extremum, listed or not (never another)', async () => {
@@ -65,7 +82,10 @@ describe('band view: keyboard order and exact fits', function () {
     const aside = run.data.setAside ?? [];
     assert.ok(aside.length > 0, 'the analysis set something aside in Si');
     for (const a of aside) {
-      assert.ok(!list.some((c) => c.spin === a.spin && c.band0 === a.band0 && Math.abs(c.kIndex - a.kIndex) <= 2), `set-aside candidate at k-point ${a.kIndex + 1}, band ${a.band0 + 1} is offered`);
+      assert.ok(
+        !list.some((c) => c.spin === a.spin && c.band0 === a.band0 && Math.abs(c.kIndex - a.kIndex) <= 2),
+        `set-aside candidate at k-point ${a.kIndex + 1}, band ${a.band0 + 1} is offered`,
+      );
     }
     // Nor the other band of that crossing: at X bands 5 and 6 meet (the X₁ level of Si is twofold without
     // spin-orbit; common practice), so band 5 at X is not an extremum to fit either.

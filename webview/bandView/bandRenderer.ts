@@ -266,7 +266,20 @@ function rasterEnvelope(
 }
 
 /** The straight join from (pc, from) to (c, to) through the empty columns gap0..c−1. */
-function bridge(px: Uint32Array, W: number, hMax: number, pc: number, c: number, gap0: number, from: number, to: number, ay: number, by: number, thick: number, colour: number): void {
+function bridge(
+  px: Uint32Array,
+  W: number,
+  hMax: number,
+  pc: number,
+  c: number,
+  gap0: number,
+  from: number,
+  to: number,
+  ay: number,
+  by: number,
+  thick: number,
+  colour: number,
+): void {
   const n = c - pc;
   for (let g = gap0; g < c; g++) {
     let y1 = ay * (from + ((to - from) * (g - pc - 0.5)) / n) + by;

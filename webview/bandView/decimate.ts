@@ -73,14 +73,7 @@ export const PYRAMID_MIN_POINTS = 64;
  * Builds bucket minima/maxima for the points i0..i1-1 (a connected piece of the path), bucket sizes
  * firstSize, 2·firstSize, ... while a level has at least two buckets.
  */
-export function buildPyramid(
-  x: Float64Array,
-  values: EnergyArray,
-  nBands: number,
-  i0: number,
-  i1: number,
-  firstSize = 8,
-): MinMaxPyramid {
+export function buildPyramid(x: Float64Array, values: EnergyArray, nBands: number, i0: number, i1: number, firstSize = 8): MinMaxPyramid {
   const levels: PyramidLevel[] = [];
   const n = i1 - i0;
   if (n < PYRAMID_MIN_POINTS || firstSize < 2) return { i0, i1, nBands, levels };

@@ -38,8 +38,10 @@ export function chooseReference(wanted: EnergyReference, levels: ReferenceLevels
     ref = avail[0]!;
     fallbackNote =
       wanted === 'vbm'
-        ? 'No valence-band maximum is known (a metal, or no electron count): energies are shown ' + (ref === 'fermi' ? 'from the Fermi level.' : 'as written in the file.')
-        : 'The file gives no Fermi level: energies are shown ' + (ref === 'vbm' ? 'from the valence-band maximum.' : 'as written in the file.');
+        ? 'No valence-band maximum is known (a metal, or no electron count): energies are shown ' +
+          (ref === 'fermi' ? 'from the Fermi level.' : 'as written in the file.')
+        : 'The file gives no Fermi level: energies are shown ' +
+          (ref === 'vbm' ? 'from the valence-band maximum.' : 'as written in the file.');
   }
   if (ref === 'vbm') return { reference: ref, offset: levels.vbm_eV!, axisTitle: 'E − E_VBM (eV)', subscript: 'VBM', fallbackNote };
   if (ref === 'fermi') return { reference: ref, offset: levels.fermiEnergy!, axisTitle: 'E − E_F (eV)', subscript: 'F', fallbackNote };

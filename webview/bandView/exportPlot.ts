@@ -60,8 +60,12 @@ export function buildExportSvg(input: ExportInput): { svg: string; width: number
   const m = { left: 40, right: 8, top: 8, bottom: 30 };
   const pw = W - m.left - m.right;
   const ph = H - m.top - m.bottom;
-  const x = scaleLinear().domain(input.xDomain).range([m.left, m.left + pw]);
-  const y = scaleLinear().domain(input.yDomain).range([m.top + ph, m.top]);
+  const x = scaleLinear()
+    .domain(input.xDomain)
+    .range([m.left, m.left + pw]);
+  const y = scaleLinear()
+    .domain(input.yDomain)
+    .range([m.top + ph, m.top]);
   const parts: string[] = [];
   parts.push(
     `<svg xmlns="http://www.w3.org/2000/svg" width="${EXPORT_WIDTH_MM}mm" height="${EXPORT_HEIGHT_MM}mm" viewBox="0 0 ${W} ${H}" font-family="Helvetica, Arial, sans-serif" font-size="8">`,
@@ -104,7 +108,8 @@ export function buildExportSvg(input: ExportInput): { svg: string; width: number
       for (let b = 0; b < vm.nBands; b++) {
         const d: string[] = [];
         if (!dense) {
-          for (let i = a; i < z; i++) d.push(`${i === a ? 'M' : 'L'}${f(x(vm.distance[i]!))},${f(y(E[i * vm.nBands + b]! - reference.offset))}`);
+          for (let i = a; i < z; i++)
+            d.push(`${i === a ? 'M' : 'L'}${f(x(vm.distance[i]!))},${f(y(E[i * vm.nBands + b]! - reference.offset))}`);
         } else {
           let prev = NaN;
           for (let c = 0; c < cols; c++) {
@@ -149,17 +154,19 @@ export function buildExportSvg(input: ExportInput): { svg: string; width: number
   const tickPath = yTicks.map((t) => `M${m.left - 3},${f(y(t))}H${m.left}`).join('');
   parts.push(`<path d="${tickPath}" stroke="${PRINT.ink}" stroke-width="0.6"/>`);
   for (const t of yTicks) {
-    parts.push(`<text x="${m.left - 5}" y="${f(y(t))}" text-anchor="end" dominant-baseline="middle" fill="${PRINT.ink}">${esc(y.tickFormat(6)(t).replace('-', '−'))}</text>`);
+    parts.push(
+      `<text x="${m.left - 5}" y="${f(y(t))}" text-anchor="end" dominant-baseline="middle" fill="${PRINT.ink}">${esc(y.tickFormat(6)(t).replace('-', '−'))}</text>`,
+    );
   }
   for (const t of vm.data.ticks) {
     if (t.distance < input.xDomain[0] || t.distance > input.xDomain[1]) continue;
     parts.push(`<text x="${f(x(t.distance))}" y="${m.top + ph + 10}" text-anchor="middle" fill="${PRINT.ink}">${esc(t.label)}</text>`);
   }
-  parts.push(`<text x="${m.left + pw / 2}" y="${H - 4}" text-anchor="middle" fill="${PRINT.ink}">${esc(xAxisTitle(vm.data.distanceUnits))}</text>`);
+  parts.push(
+    `<text x="${m.left + pw / 2}" y="${H - 4}" text-anchor="middle" fill="${PRINT.ink}">${esc(xAxisTitle(vm.data.distanceUnits))}</text>`,
+  );
   const ty = m.top + ph / 2;
-  const yTitle = reference.subscript
-    ? `E − E<tspan baseline-shift="sub" font-size="6">${esc(reference.subscript)}</tspan> (eV)`
-    : 'E (eV)';
+  const yTitle = reference.subscript ? `E − E<tspan baseline-shift="sub" font-size="6">${esc(reference.subscript)}</tspan> (eV)` : 'E (eV)';
   parts.push(`<text transform="translate(10,${f(ty)}) rotate(-90)" text-anchor="middle" fill="${PRINT.ink}">${yTitle}</text>`);
   parts.push(`</svg>`);
   return { svg: parts.join('\n'), width: W, height: H };

@@ -71,7 +71,11 @@ export class FitPanel {
     this.root = el('aside', 'vs-side');
     this.root.setAttribute('aria-label', 'Effective-mass fit at the selected extremum');
     this.root.append(el('h2', 'vs-side-title', 'Curvature fit'));
-    this.status = el('p', 'vs-hint', 'Click near a band minimum or maximum, or focus the plot and use the arrow keys and Enter, to measure effective masses there.');
+    this.status = el(
+      'p',
+      'vs-hint',
+      'Click near a band minimum or maximum, or focus the plot and use the arrow keys and Enter, to measure effective masses there.',
+    );
     this.status.setAttribute('role', 'status');
     this.root.append(this.status);
 
@@ -233,7 +237,9 @@ export class FitPanel {
       th.dataset.col = h;
       if (h === 'pts') th.title = 'Points used by the fit';
       if (h === 'branch') th.title = 'At a degenerate edge each branch is followed by smooth continuation; branch 1 lies nearest the gap.';
-      if (h === '±') th.title = 'One standard error of the fit; for finite differences (no residual) the spread against the parabola at the same window, marked "spread".';
+      if (h === '±')
+        th.title =
+          'One standard error of the fit; for finite differences (no residual) the spread against the parabola at the same window, marked "spread".';
       hr.append(th);
     }
     this.massHead.replaceChildren(hr);
@@ -251,17 +257,27 @@ export class FitPanel {
       const t = x.tensor;
       const rows = t.principal.map((mm, i) => {
         const ax = t.axes[i]!;
-        return el('li', undefined, `${sig(mm, 3)} mₑ along (${fixed(ax[0], 2)}, ${fixed(ax[1], 2)}, ${fixed(ax[2], 2)})${this.holeSign && mm < 0 ? ` — hole mass ${sig(-mm, 3)} mₑ` : ''}`);
+        return el(
+          'li',
+          undefined,
+          `${sig(mm, 3)} mₑ along (${fixed(ax[0], 2)}, ${fixed(ax[1], 2)}, ${fixed(ax[2], 2)})${this.holeSign && mm < 0 ? ` — hole mass ${sig(-mm, 3)} mₑ` : ''}`,
+        );
       });
       const list = el('ul');
       list.append(...rows);
       this.tensor.replaceChildren(
         el('h3', undefined, 'Mass tensor (principal values, cartesian axes)'),
         list,
-        el('p', 'vs-muted', `method ${t.method}${t.points ? ` · ${t.points} points` : ''}${t.residual_meV !== undefined ? ` · residual ${sig(t.residual_meV, 2)} meV` : ''}`),
+        el(
+          'p',
+          'vs-muted',
+          `method ${t.method}${t.points ? ` · ${t.points} points` : ''}${t.residual_meV !== undefined ? ` · residual ${sig(t.residual_meV, 2)} meV` : ''}`,
+        ),
       );
     } else {
-      this.tensor.replaceChildren(el('p', 'vs-muted', 'Mass tensor: not available (needs k-points off the path around this extremum, e.g. a small grid).'));
+      this.tensor.replaceChildren(
+        el('p', 'vs-muted', 'Mass tensor: not available (needs k-points off the path around this extremum, e.g. a small grid).'),
+      );
     }
     // Degeneracy and averaged masses.
     const dl = this.degeneracy;
@@ -272,9 +288,16 @@ export class FitPanel {
     add('Bands degenerate here', String(x.degenerateBands));
     add('Valley degeneracy Nᵥ', x.valleyDegeneracy === null ? 'unknown — needs the crystal structure' : String(x.valleyDegeneracy));
     // A DOS mass from path directions only is an estimate: its error and the word "path-limited" go with it.
-    if (x.dosMass !== null) add('Density-of-states mass', x.dosMassPathLimited ? `${sig(x.dosMass, 3)} ± ${sig(x.dosMassPathLimited.error, 2)} mₑ (path-limited)` : `${sig(x.dosMass, 3)} mₑ`);
+    if (x.dosMass !== null)
+      add(
+        'Density-of-states mass',
+        x.dosMassPathLimited ? `${sig(x.dosMass, 3)} ± ${sig(x.dosMassPathLimited.error, 2)} mₑ (path-limited)` : `${sig(x.dosMass, 3)} mₑ`,
+      );
     if (x.conductivityMass !== null) add('Conductivity mass', `${sig(x.conductivityMass, 3)} mₑ`);
-    this.provenance.replaceChildren(el('h3', undefined, 'How these were measured'), ...provenanceParts(x.masses, method, window_meV, this.withBranch));
+    this.provenance.replaceChildren(
+      el('h3', undefined, 'How these were measured'),
+      ...provenanceParts(x.masses, method, window_meV, this.withBranch),
+    );
     this.warnings.replaceChildren(...dedupedWarnings(x.warnings, x.masses).map((w) => el('li', undefined, w)));
     this.setWindow(window_meV);
     this.redrawScan(window_meV);
@@ -284,17 +307,32 @@ export class FitPanel {
     const tr = el('tr');
     tr.dataset.towards = f.towards;
     if (f.branch !== undefined) tr.dataset.branch = String(f.branch);
-    const lead = [el('td', undefined, f.towards), ...(this.withBranch ? [el('td', 'vs-num vs-branch', f.branch === undefined ? '—' : String(f.branch))] : [])];
+    const lead = [
+      el('td', undefined, f.towards),
+      ...(this.withBranch ? [el('td', 'vs-num vs-branch', f.branch === undefined ? '—' : String(f.branch))] : []),
+    ];
     if (f.determined === false) {
       // Not quotable: the word instead of the number; what the fit gave and why it is not quoted in the tooltip.
       tr.classList.add('vs-undetermined');
       tr.dataset.determined = 'false';
-      tr.append(...lead, el('td', 'vs-num', 'undetermined'), el('td', 'vs-num', '—'), uncertaintyCell(f), el('td', 'vs-num', String(f.points)));
+      tr.append(
+        ...lead,
+        el('td', 'vs-num', 'undetermined'),
+        el('td', 'vs-num', '—'),
+        uncertaintyCell(f),
+        el('td', 'vs-num', String(f.points)),
+      );
       tr.title = `The fit gave ${sig(f.mass, 3)} ± ${sig(f.stderr, 2)} mₑ, not quoted: ${f.undeterminedReason ?? 'undetermined'}.`;
       return tr;
     }
     const hole = f.mass < 0 ? sig(-f.mass, 3) : '—';
-    tr.append(...lead, el('td', 'vs-num', sig(f.mass, 3)), el('td', 'vs-num', hole), uncertaintyCell(f), el('td', 'vs-num', String(f.points)));
+    tr.append(
+      ...lead,
+      el('td', 'vs-num', sig(f.mass, 3)),
+      el('td', 'vs-num', hole),
+      uncertaintyCell(f),
+      el('td', 'vs-num', String(f.points)),
+    );
     if (f.alpha_per_eV !== undefined) tr.title = `non-parabolicity α = ${sig(f.alpha_per_eV, 3)} eV⁻¹`;
     return tr;
   }
@@ -390,9 +428,20 @@ function provenanceParts(masses: MassFit[], method: string, window_meV: number, 
   table.append(thead, tbody);
   const wrap = el('div', 'vs-provenance-scroll');
   wrap.append(table);
-  const asked = el('p', 'vs-muted', `Window asked: ${String(window_meV)} meV; the window column gives what each fit used (it grows where too few points lie inside).`);
+  const asked = el(
+    'p',
+    'vs-muted',
+    `Window asked: ${String(window_meV)} meV; the window column gives what each fit used (it grows where too few points lie inside).`,
+  );
   const parts: HTMLElement[] = [...methodLines, wrap, asked];
-  if (withSpread) parts.push(el('p', 'vs-muted', 'A finite difference passes through its points: it has no residual, and its stderr is the rounding of the energies only. The spread against the parabola fit at the same window is the uncertainty to quote.'));
+  if (withSpread)
+    parts.push(
+      el(
+        'p',
+        'vs-muted',
+        'A finite difference passes through its points: it has no residual, and its stderr is the rounding of the energies only. The spread against the parabola fit at the same window is the uncertainty to quote.',
+      ),
+    );
   return parts;
 }
 
@@ -410,15 +459,17 @@ function mergeNumbers(texts: readonly string[]): string {
   if (texts.length === 1) return first;
   const numbers = texts.map((t) => t.match(NUMBER) ?? []);
   let i = 0;
-  return first.replace(NUMBER, (m) => {
-    const at = i++;
-    const vals = numbers.map((n) => n[at] ?? m);
-    const nums = vals.map(Number);
-    const lo = Math.min(...nums);
-    const hi = Math.max(...nums);
-    if (lo === hi) return m;
-    return `${vals[nums.indexOf(lo)]}–${vals[nums.indexOf(hi)]}`;
-  }).replace(/(\d–[\d.]+) point\b/g, '$1 points');
+  return first
+    .replace(NUMBER, (m) => {
+      const at = i++;
+      const vals = numbers.map((n) => n[at] ?? m);
+      const nums = vals.map(Number);
+      const lo = Math.min(...nums);
+      const hi = Math.max(...nums);
+      if (lo === hi) return m;
+      return `${vals[nums.indexOf(lo)]}–${vals[nums.indexOf(hi)]}`;
+    })
+    .replace(/(\d–[\d.]+) point\b/g, '$1 points');
 }
 
 /** "X (branches 1, 2), K (branch 2)": the directions, each with its branches. */

@@ -40,7 +40,13 @@ export function reachableCandidates(
   const asideNear = (spin: number, k: number, band0: number, eV: number): boolean => {
     if (setAsideAt(setAside, spin, k, band0)) return true;
     if (!energy || !setAside) return false;
-    return setAside.some((m) => m.spin === spin && m.band0 !== band0 && Math.abs(m.kIndex - k) <= SET_ASIDE_REACH && Math.abs(energy(spin, m.kIndex, m.band0) - eV) <= SET_ASIDE_DEGENERACY_EV);
+    return setAside.some(
+      (m) =>
+        m.spin === spin &&
+        m.band0 !== band0 &&
+        Math.abs(m.kIndex - k) <= SET_ASIDE_REACH &&
+        Math.abs(energy(spin, m.kIndex, m.band0) - eV) <= SET_ASIDE_DEGENERACY_EV,
+    );
   };
   const out: Candidate[] = [];
   const seen = new Set<string>();
@@ -74,7 +80,12 @@ export type ArrowKey = 'ArrowLeft' | 'ArrowRight' | 'ArrowUp' | 'ArrowDown';
  * The candidate the key moves to from `cur` (null: nothing selected yet, then the CBM for Up/Right and the
  * VBM for Down/Left). `x(k)`: the path position of k-point k. Returns `cur` when there is nowhere to go.
  */
-export function nextCandidate<C extends NavCandidate>(list: readonly C[], cur: C | null, key: ArrowKey, x: (k: number) => number): C | null {
+export function nextCandidate<C extends NavCandidate>(
+  list: readonly C[],
+  cur: C | null,
+  key: ArrowKey,
+  x: (k: number) => number,
+): C | null {
   if (list.length === 0) return null;
   if (!cur) {
     const want = key === 'ArrowDown' || key === 'ArrowLeft' ? 'vbm' : 'cbm';
@@ -102,7 +113,8 @@ export function nextCandidate<C extends NavCandidate>(list: readonly C[], cur: C
           continue;
         }
         const d = (x(c.kIndex) - x0) * dir - (x(best.kIndex) - x0) * dir;
-        if (d < 0 || (d === 0 && ((c.kIndex - best.kIndex) * dir < 0 || (c.kIndex === best.kIndex && (c.band0 - best.band0) * dir < 0)))) best = c;
+        if (d < 0 || (d === 0 && ((c.kIndex - best.kIndex) * dir < 0 || (c.kIndex === best.kIndex && (c.band0 - best.band0) * dir < 0))))
+          best = c;
       }
       return best;
     };

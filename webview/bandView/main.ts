@@ -48,12 +48,10 @@ import { vscodeApi, type VsCodeApi } from '../shared/vscodeApi';
 import { watchTheme } from '../shared/themeWatch';
 import { el, setOptions, vsButton, vsSelect, type VsButton, type VsSelect } from '../shared/controls';
 
-
 const SVG_NS = 'http://www.w3.org/2000/svg';
 const MARGIN = { top: 12, right: 14, bottom: 44, left: 58 };
 
 type SpinChoice = SpinName;
-
 
 interface FitState {
   target: FitTarget;
@@ -215,7 +213,13 @@ export class BandViewApp {
 
   /** View choices and fits kept by VS Code across reloads of the window (vscode.setState; see viewState.ts). */
   private saveViewState(): void {
-    const state: BandViewState = { reference: this.reference, spin: this.spinChoice, window_meV: this.window_meV, method: this.method, fits: [...this.saved.values()] };
+    const state: BandViewState = {
+      reference: this.reference,
+      spin: this.spinChoice,
+      window_meV: this.window_meV,
+      method: this.method,
+      fits: [...this.saved.values()],
+    };
     const run = document.getElementById('app')?.dataset.run;
     if (run) state.run = run;
     this.api.setState(state);
@@ -356,9 +360,12 @@ export class BandViewApp {
     const r = data.report;
     const spinors = r.spinors ? ' · spinors (one electron per band)' : '';
     if (r.metal) {
-      const crossing = r.crossingBands?.length ? `, band${r.crossingBands.length > 1 ? 's' : ''} ${r.crossingBands.join(', ')} crossing` : '';
+      const crossing = r.crossingBands?.length
+        ? `, band${r.crossingBands.length > 1 ? 's' : ''} ${r.crossingBands.join(', ')} crossing`
+        : '';
       this.gapEl.textContent = `${r.semimetal ? 'semimetal' : 'metal'} (no gap)${data.fermiEnergy !== null ? `, E_F ${fixed(data.fermiEnergy, 3)} eV` : ''}${crossing}${spinors}`;
-    } else if (r.gap) this.gapEl.textContent = `gap ${fixed(r.gap.eV, 3)} eV, ${r.gap.direct ? 'direct' : 'indirect'}${r.gap.direct ? '' : ` (smallest direct ${fixed(r.gap.directGap.eV, 3)} eV)`}${spinors}`;
+    } else if (r.gap)
+      this.gapEl.textContent = `gap ${fixed(r.gap.eV, 3)} eV, ${r.gap.direct ? 'direct' : 'indirect'}${r.gap.direct ? '' : ` (smallest direct ${fixed(r.gap.directGap.eV, 3)} eV)`}${spinors}`;
     else if (r.metal === false && r.gapReason) this.gapEl.textContent = `no gap: local run around one point${spinors}`;
     else this.gapEl.textContent = `gap unknown (no electron count or occupations)${spinors}`;
     this.gapEl.title = r.gapReason ?? r.classificationReason ?? '';
@@ -437,7 +444,9 @@ export class BandViewApp {
     if (!vm || vm.nk === 0) return;
     const x0 = vm.distance[0]!;
     const x1 = vm.distance[vm.nk - 1]!;
-    this.baseX = scaleLinear().domain([x0, x1 > x0 ? x1 : x0 + 1]).range([MARGIN.left, MARGIN.left + pw]);
+    this.baseX = scaleLinear()
+      .domain([x0, x1 > x0 ? x1 : x0 + 1])
+      .range([MARGIN.left, MARGIN.left + pw]);
     const off = this.refChoice.offset;
     const lowData = vm.energyMin - off;
     const highData = vm.energyMax - off;
@@ -461,7 +470,9 @@ export class BandViewApp {
       lo = lowData - 0.5;
       hi = highData + 0.5;
     }
-    this.baseY = scaleLinear().domain([lo, hi]).range([MARGIN.top + ph, MARGIN.top]);
+    this.baseY = scaleLinear()
+      .domain([lo, hi])
+      .range([MARGIN.top + ph, MARGIN.top]);
   }
 
   private resetZoom(): void {
@@ -538,7 +549,14 @@ export class BandViewApp {
     const svg = this.svg;
     svg.selectAll('*').remove();
     const defs = svg.append('defs');
-    defs.append('clipPath').attr('id', 'vs-clip').append('rect').attr('x', MARGIN.left).attr('y', MARGIN.top).attr('width', pw).attr('height', ph);
+    defs
+      .append('clipPath')
+      .attr('id', 'vs-clip')
+      .append('rect')
+      .attr('x', MARGIN.left)
+      .attr('y', MARGIN.top)
+      .attr('width', pw)
+      .attr('height', ph);
     const off = this.refChoice.offset;
     const zx = this.zx;
     const zy = this.zy;
@@ -548,7 +566,13 @@ export class BandViewApp {
     if (vm.data.vbm_eV !== null && vm.data.cbm_eV !== null && !r.metal) {
       const yTop = zy(vm.data.cbm_eV - off);
       const yBot = zy(vm.data.vbm_eV - off);
-      plotG.append('rect').attr('class', 'vs-gap-band').attr('x', MARGIN.left).attr('width', pw).attr('y', yTop).attr('height', Math.max(0, yBot - yTop));
+      plotG
+        .append('rect')
+        .attr('class', 'vs-gap-band')
+        .attr('x', MARGIN.left)
+        .attr('width', pw)
+        .attr('y', yTop)
+        .attr('height', Math.max(0, yBot - yTop));
     }
     // High-symmetry lines and path breaks.
     const jumps = new Set(vm.data.segments.filter((s) => s.afterJump).map((s) => s.start));
@@ -557,21 +581,57 @@ export class BandViewApp {
       if (x < MARGIN.left - 1 || x > MARGIN.left + pw + 1) continue;
       const isBreak = jumps.has(t.kIndex) || t.label.includes('|');
       if (isBreak) {
-        plotG.append('line').attr('class', 'vs-break').attr('x1', x - 1.5).attr('x2', x - 1.5).attr('y1', MARGIN.top).attr('y2', MARGIN.top + ph);
-        plotG.append('line').attr('class', 'vs-break').attr('x1', x + 1.5).attr('x2', x + 1.5).attr('y1', MARGIN.top).attr('y2', MARGIN.top + ph);
+        plotG
+          .append('line')
+          .attr('class', 'vs-break')
+          .attr('x1', x - 1.5)
+          .attr('x2', x - 1.5)
+          .attr('y1', MARGIN.top)
+          .attr('y2', MARGIN.top + ph);
+        plotG
+          .append('line')
+          .attr('class', 'vs-break')
+          .attr('x1', x + 1.5)
+          .attr('x2', x + 1.5)
+          .attr('y1', MARGIN.top)
+          .attr('y2', MARGIN.top + ph);
       } else {
-        plotG.append('line').attr('class', 'vs-sym-line').attr('x1', x).attr('x2', x).attr('y1', MARGIN.top).attr('y2', MARGIN.top + ph);
+        plotG
+          .append('line')
+          .attr('class', 'vs-sym-line')
+          .attr('x1', x)
+          .attr('x2', x)
+          .attr('y1', MARGIN.top)
+          .attr('y2', MARGIN.top + ph);
       }
     }
     if (this.refChoice.reference !== 'raw') {
       const y0 = zy(0);
-      plotG.append('line').attr('class', 'vs-zero').attr('x1', MARGIN.left).attr('x2', MARGIN.left + pw).attr('y1', y0).attr('y2', y0);
+      plotG
+        .append('line')
+        .attr('class', 'vs-zero')
+        .attr('x1', MARGIN.left)
+        .attr('x2', MARGIN.left + pw)
+        .attr('y1', y0)
+        .attr('y2', y0);
     }
     // A metal: the Fermi level, drawn and named (no gap band).
     if (r.metal && vm.data.fermiEnergy !== null) {
       const yf = zy(vm.data.fermiEnergy - off);
-      plotG.append('line').attr('class', 'vs-fermi').attr('x1', MARGIN.left).attr('x2', MARGIN.left + pw).attr('y1', yf).attr('y2', yf);
-      plotG.append('text').attr('class', 'vs-fermi-label').attr('x', MARGIN.left + pw - 4).attr('y', yf - 3).attr('text-anchor', 'end').text('E_F');
+      plotG
+        .append('line')
+        .attr('class', 'vs-fermi')
+        .attr('x1', MARGIN.left)
+        .attr('x2', MARGIN.left + pw)
+        .attr('y1', yf)
+        .attr('y2', yf);
+      plotG
+        .append('text')
+        .attr('class', 'vs-fermi-label')
+        .attr('x', MARGIN.left + pw - 4)
+        .attr('y', yf - 3)
+        .attr('text-anchor', 'end')
+        .text('E_F');
     }
     // Fit overlay: window lines and fitted curves.
     if (this.fit) {
@@ -581,13 +641,23 @@ export class BandViewApp {
       // The window the fit actually used (the engine widens it when too few points fall inside).
       const used = f.extremum.masses.length ? Math.max(...f.extremum.masses.map((m) => m.window_meV)) : f.window_meV;
       const yw = zy(e0 + (sign * used) / 1000);
-      plotG.append('line').attr('class', 'vs-fit-window').attr('x1', MARGIN.left).attr('x2', MARGIN.left + pw).attr('y1', yw).attr('y2', yw);
+      plotG
+        .append('line')
+        .attr('class', 'vs-fit-window')
+        .attr('x1', MARGIN.left)
+        .attr('x2', MARGIN.left + pw)
+        .attr('y1', yw)
+        .attr('y2', yw);
       for (const c of f.curves) {
         const xs = c.distance;
         const d = line<number>()
           .x((_, i) => zx(xs[i]!))
           .y((e) => zy(e - off))(c.energy);
-        plotG.append('path').attr('class', 'vs-fit-curve').attr('data-towards', c.towards).attr('d', d ?? '');
+        plotG
+          .append('path')
+          .attr('class', 'vs-fit-curve')
+          .attr('data-towards', c.towards)
+          .attr('d', d ?? '');
       }
     }
     // Markers: report extrema (not clipped, so a marker at the plot's edge shows whole).
@@ -602,8 +672,12 @@ export class BandViewApp {
       const g = markG.append('g').attr('transform', `translate(${x},${y})`).attr('class', `vs-mark-group vs-mark-${m.kind}`);
       // A tooltip on hover: what the marker is, where, and how to fit it.
       const where = labelNear(vm, m.kIndex);
-      g.append('title').text(`${kindName(m.kind)}: band ${m.band0 + 1}${vm.nSpin === 2 ? (m.spin === 1 ? ', spin down' : ', spin up') : ''}, k-point ${m.kIndex + 1}${where ? ` (${where})` : ''}, ${this.refChoice.subscript ? `E − E_${this.refChoice.subscript}` : 'E'} = ${fixed(m.eV - off, 3)} eV. Click it to fit.`);
-      g.append('path').attr('class', 'vs-mark').attr('d', primary ? edgeMarkerPath(5) : secondaryMarkerPath(isMaximumKind(m.kind), 4));
+      g.append('title').text(
+        `${kindName(m.kind)}: band ${m.band0 + 1}${vm.nSpin === 2 ? (m.spin === 1 ? ', spin down' : ', spin up') : ''}, k-point ${m.kIndex + 1}${where ? ` (${where})` : ''}, ${this.refChoice.subscript ? `E − E_${this.refChoice.subscript}` : 'E'} = ${fixed(m.eV - off, 3)} eV. Click it to fit.`,
+      );
+      g.append('path')
+        .attr('class', 'vs-mark')
+        .attr('d', primary ? edgeMarkerPath(5) : secondaryMarkerPath(isMaximumKind(m.kind), 4));
       if (primary) {
         g.append('text')
           .attr('class', 'vs-mark-label')
@@ -620,20 +694,54 @@ export class BandViewApp {
     // Hover.
     if (this.hover) {
       const p = this.screenOf(this.hover.spin, this.hover.k, this.hover.band0)!;
-      plotG.append('line').attr('class', 'vs-hover-line').attr('x1', p.x).attr('x2', p.x).attr('y1', MARGIN.top).attr('y2', MARGIN.top + ph);
+      plotG
+        .append('line')
+        .attr('class', 'vs-hover-line')
+        .attr('x1', p.x)
+        .attr('x2', p.x)
+        .attr('y1', MARGIN.top)
+        .attr('y2', MARGIN.top + ph);
       plotG.append('circle').attr('class', 'vs-hover-dot').attr('cx', p.x).attr('cy', p.y).attr('r', 3.5);
     }
     // Frame, axes, titles.
     svg.append('rect').attr('class', 'vs-frame').attr('x', MARGIN.left).attr('y', MARGIN.top).attr('width', pw).attr('height', ph);
-    svg.append('g').attr('class', 'vs-axis vs-axis-y').attr('transform', `translate(${MARGIN.left},0)`).call(axisLeft(zy).ticks(Math.max(3, Math.round(ph / 45))).tickFormat((d) => String(d).replace('-', '−')));
+    svg
+      .append('g')
+      .attr('class', 'vs-axis vs-axis-y')
+      .attr('transform', `translate(${MARGIN.left},0)`)
+      .call(
+        axisLeft(zy)
+          .ticks(Math.max(3, Math.round(ph / 45)))
+          .tickFormat((d) => String(d).replace('-', '−')),
+      );
     const xg = svg.append('g').attr('class', 'vs-axis vs-axis-x');
-    const shown = vm.data.ticks.map((t) => ({ x: zx(t.distance), label: t.label })).filter((t) => t.x >= MARGIN.left - 1 && t.x <= MARGIN.left + pw + 1);
-    for (const t of shown) xg.append('line').attr('x1', t.x).attr('x2', t.x).attr('y1', MARGIN.top + ph).attr('y2', MARGIN.top + ph + 5);
+    const shown = vm.data.ticks
+      .map((t) => ({ x: zx(t.distance), label: t.label }))
+      .filter((t) => t.x >= MARGIN.left - 1 && t.x <= MARGIN.left + pw + 1);
+    for (const t of shown)
+      xg.append('line')
+        .attr('x1', t.x)
+        .attr('x2', t.x)
+        .attr('y1', MARGIN.top + ph)
+        .attr('y2', MARGIN.top + ph + 5);
     // On a narrow plot, labels that would print over each other are left out (the ticks stay).
-    for (const i of fittingLabels(shown.map((t) => t.x), shown.map((t) => t.label))) {
-      xg.append('text').attr('x', shown[i]!.x).attr('y', MARGIN.top + ph + 17).attr('text-anchor', 'middle').text(shown[i]!.label);
+    for (const i of fittingLabels(
+      shown.map((t) => t.x),
+      shown.map((t) => t.label),
+    )) {
+      xg.append('text')
+        .attr('x', shown[i]!.x)
+        .attr('y', MARGIN.top + ph + 17)
+        .attr('text-anchor', 'middle')
+        .text(shown[i]!.label);
     }
-    svg.append('text').attr('class', 'vs-axis-title vs-x-title').attr('x', MARGIN.left + pw / 2).attr('y', this.height - 6).attr('text-anchor', 'middle').text(xAxisTitle(vm.data.distanceUnits));
+    svg
+      .append('text')
+      .attr('class', 'vs-axis-title vs-x-title')
+      .attr('x', MARGIN.left + pw / 2)
+      .attr('y', this.height - 6)
+      .attr('text-anchor', 'middle')
+      .text(xAxisTitle(vm.data.distanceUnits));
     const yt = svg
       .append('text')
       .attr('class', 'vs-axis-title vs-y-title')
@@ -702,7 +810,9 @@ export class BandViewApp {
     const vm = this.vm!;
     const kf = vm.kpoints.subarray(3 * k, 3 * k + 3);
     const label = labelNear(vm, k);
-    const cart = vm.cartesian ? ` · k = (${fixed(vm.cartesian[3 * k]!, 3)}, ${fixed(vm.cartesian[3 * k + 1]!, 3)}, ${fixed(vm.cartesian[3 * k + 2]!, 3)}) Å⁻¹` : '';
+    const cart = vm.cartesian
+      ? ` · k = (${fixed(vm.cartesian[3 * k]!, 3)}, ${fixed(vm.cartesian[3 * k + 1]!, 3)}, ${fixed(vm.cartesian[3 * k + 2]!, 3)}) Å⁻¹`
+      : '';
     const zero = this.refChoice.subscript ? `E − E_${this.refChoice.subscript}` : 'E';
     const spinText = vm.nSpin === 2 ? (spin === 0 ? ' (spin ↑)' : ' (spin ↓)') : '';
     return `k-point ${k + 1}${label ? ` ${label}` : ''} · k = ${fracK(kf)} (fractional)${cart} · band ${band0 + 1}${spinText} · ${zero} = ${fixed(energyAt(vm, spin, k, band0) - this.refChoice.offset, 4)} eV`;
@@ -820,14 +930,19 @@ export class BandViewApp {
     this.saved.delete(key); // re-inserted last: the state's last fit is the one shown
     this.saved.set(key, { ...m.target, window_meV, method });
     this.saveViewState();
-    this.setStatus(`Fit done: ${kindName(m.extremum.kind)} of band ${m.extremum.band}, ${m.extremum.masses.map((f) => `${f.towards} ${sig(f.mass, 3)} mₑ`).join(', ') || 'no direction fitted'}.`);
+    this.setStatus(
+      `Fit done: ${kindName(m.extremum.kind)} of band ${m.extremum.band}, ${m.extremum.masses.map((f) => `${f.towards} ${sig(f.mass, 3)} mₑ`).join(', ') || 'no direction fitted'}.`,
+    );
     this.schedule();
   }
 
   /** The saved review of this extremum (its band or any band of its degenerate group, at its k-point). */
   private showReview(t: FitTarget, x: ExtremumReport): void {
     const first = x.band - 1;
-    const bands = [t.band0, ...Array.from({ length: Math.max(1, x.degenerateBands ?? 1) }, (_, i) => first + (x.kind === 'vbm' || x.kind === 'peak' ? -i : i))];
+    const bands = [
+      t.band0,
+      ...Array.from({ length: Math.max(1, x.degenerateBands ?? 1) }, (_, i) => first + (x.kind === 'vbm' || x.kind === 'peak' ? -i : i)),
+    ];
     this.review.show(t.spin, t.kIndex, bands);
   }
 

@@ -43,8 +43,17 @@ export class ReviewNote {
       return;
     }
     const head = el('p', 'vs-review-status');
-    head.append(el('span', 'vs-review-label', 'Review: '), el('strong', `vs-review-word vs-review-${/^[a-z]+$/.test(r.status) ? r.status : 'other'}`, r.status));
-    head.append(el('span', 'vs-muted', ` (saved in ${this.file ?? 'the annotations file'}${r.found ? '' : '; the latest analysis no longer finds this extremum'})`));
+    head.append(
+      el('span', 'vs-review-label', 'Review: '),
+      el('strong', `vs-review-word vs-review-${/^[a-z]+$/.test(r.status) ? r.status : 'other'}`, r.status),
+    );
+    head.append(
+      el(
+        'span',
+        'vs-muted',
+        ` (saved in ${this.file ?? 'the annotations file'}${r.found ? '' : '; the latest analysis no longer finds this extremum'})`,
+      ),
+    );
     const parts: HTMLElement[] = [head];
     if (r.note.trim() !== '') parts.push(el('p', 'vs-review-note', r.note));
     this.root.replaceChildren(...parts);

@@ -8,7 +8,14 @@ import { axisBottom, axisLeft } from 'd3-axis';
 import { line } from 'd3-shape';
 import type { WindowScanSeries } from '../../src/protocol';
 
-export const SERIES_COLOURS = ['var(--vscode-charts-green)', 'var(--vscode-charts-blue)', 'var(--vscode-charts-purple)', 'var(--vscode-charts-orange)', 'var(--vscode-charts-red)', 'var(--vscode-charts-yellow)'];
+export const SERIES_COLOURS = [
+  'var(--vscode-charts-green)',
+  'var(--vscode-charts-blue)',
+  'var(--vscode-charts-purple)',
+  'var(--vscode-charts-orange)',
+  'var(--vscode-charts-red)',
+  'var(--vscode-charts-yellow)',
+];
 
 export function drawScanPlot(svgEl: SVGSVGElement, series: WindowScanSeries[], currentWindow: number, holeSign: boolean): void {
   const W = 284;
@@ -18,7 +25,13 @@ export function drawScanPlot(svgEl: SVGSVGElement, series: WindowScanSeries[], c
   svg.selectAll('*').remove();
   const pts = series.flatMap((s) => s.points.filter((p) => Number.isFinite(p.mass)));
   if (pts.length === 0) {
-    svg.append('text').attr('x', W / 2).attr('y', H / 2).attr('text-anchor', 'middle').attr('class', 'vs-muted').text('No window scan yet');
+    svg
+      .append('text')
+      .attr('x', W / 2)
+      .attr('y', H / 2)
+      .attr('text-anchor', 'middle')
+      .attr('class', 'vs-muted')
+      .text('No window scan yet');
     return;
   }
   const val = (mass: number): number => (holeSign ? -mass : mass);
@@ -32,14 +45,27 @@ export function drawScanPlot(svgEl: SVGSVGElement, series: WindowScanSeries[], c
   const lo = Math.min(...pts.map((p) => val(p.mass) - (Number.isFinite(p.stderr) ? p.stderr : 0)));
   const hi = Math.max(...pts.map((p) => val(p.mass) + (Number.isFinite(p.stderr) ? p.stderr : 0)));
   const pad = (hi - lo) * 0.1 || Math.abs(hi) * 0.1 || 0.1;
-  const y = scaleLinear().domain([lo - pad, hi + pad]).nice().range([H - m.bottom, m.top]);
-  svg.append('g').attr('class', 'vs-axis').attr('transform', `translate(0,${H - m.bottom})`).call(
+  const y = scaleLinear()
+    .domain([lo - pad, hi + pad])
+    .nice()
+    .range([H - m.bottom, m.top]);
+  svg
+    .append('g')
+    .attr('class', 'vs-axis')
+    .attr('transform', `translate(0,${H - m.bottom})`)
+    .call(
       axisBottom(x)
         .tickValues(niceWindowTicks(wMin, wMax))
         .tickFormat((d) => String(d)),
     );
   svg.append('g').attr('class', 'vs-axis').attr('transform', `translate(${m.left},0)`).call(axisLeft(y).ticks(4));
-  svg.append('text').attr('class', 'vs-axis-title').attr('x', (m.left + W - m.right) / 2).attr('y', H - 2).attr('text-anchor', 'middle').text('fit window (meV)');
+  svg
+    .append('text')
+    .attr('class', 'vs-axis-title')
+    .attr('x', (m.left + W - m.right) / 2)
+    .attr('y', H - 2)
+    .attr('text-anchor', 'middle')
+    .text('fit window (meV)');
   svg
     .append('text')
     .attr('class', 'vs-axis-title')
@@ -61,7 +87,12 @@ export function drawScanPlot(svgEl: SVGSVGElement, series: WindowScanSeries[], c
       .attr('fill', 'none')
       .style('stroke', colour)
       .attr('stroke-width', 1.5)
-      .attr('d', line<(typeof ok)[number]>().x((p) => x(p.window_meV)).y((p) => y(val(p.mass)))(ok) ?? '');
+      .attr(
+        'd',
+        line<(typeof ok)[number]>()
+          .x((p) => x(p.window_meV))
+          .y((p) => y(val(p.mass)))(ok) ?? '',
+      );
     g.selectAll('line.err')
       .data(ok.filter((p) => Number.isFinite(p.stderr) && p.stderr > 0))
       .join('line')
@@ -84,7 +115,8 @@ export function drawScanPlot(svgEl: SVGSVGElement, series: WindowScanSeries[], c
 /** A few readable window ticks (meV) within [lo, hi]: 1-2-5 steps. */
 export function niceWindowTicks(lo: number, hi: number): number[] {
   const out: number[] = [];
-  for (let d = 1e-1; d <= 1e4; d *= 10) for (const f of [1, 2, 5]) if (f * d >= lo - 1e-9 && f * d <= hi + 1e-9) out.push(Math.round(f * d * 1000) / 1000);
+  for (let d = 1e-1; d <= 1e4; d *= 10)
+    for (const f of [1, 2, 5]) if (f * d >= lo - 1e-9 && f * d <= hi + 1e-9) out.push(Math.round(f * d * 1000) / 1000);
   if (out.length > 6) return out.filter((_, i) => i % 2 === 0);
   if (out.length < 2) return [lo, hi];
   return out;

@@ -12,7 +12,13 @@ import type { SetAsideMark } from '../../src/protocol';
 export const SET_ASIDE_REACH = 2;
 
 /** The set-aside candidate at (spin, kIndex, band0), or null. */
-export function setAsideAt(marks: readonly SetAsideMark[] | undefined, spin: number, kIndex: number, band0: number, reach = SET_ASIDE_REACH): SetAsideMark | null {
+export function setAsideAt(
+  marks: readonly SetAsideMark[] | undefined,
+  spin: number,
+  kIndex: number,
+  band0: number,
+  reach = SET_ASIDE_REACH,
+): SetAsideMark | null {
   if (!marks) return null;
   for (const m of marks) if (m.spin === spin && m.band0 === band0 && Math.abs(m.kIndex - kIndex) <= reach) return m;
   return null;

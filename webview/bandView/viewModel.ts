@@ -47,12 +47,18 @@ export function buildViewModel(data: BandData): ViewModel {
   if (distance.length !== nk) throw new Error(`band data: ${distance.length} path distances for ${nk} k-points`);
   if (kpoints.length !== 3 * nk) throw new Error(`band data: ${kpoints.length / 3} k-points for ${nk}`);
   if (energies.length !== data.nSpin) throw new Error(`band data: ${energies.length} spin channels, expected ${data.nSpin}`);
-  for (const e of energies) if (e.length !== nk * nBands) throw new Error(`band data: ${e.length} energies for ${nk} k-points × ${nBands} bands`);
+  for (const e of energies)
+    if (e.length !== nk * nBands) throw new Error(`band data: ${e.length} energies for ${nk} k-points × ${nBands} bands`);
   // x must be nondecreasing for the column mapping; path distances are by construction.
-  for (let i = 1; i < nk; i++) if (distance[i]! < distance[i - 1]!) throw new Error(`band data: path distance decreases at k-point ${i + 1}`);
+  for (let i = 1; i < nk; i++)
+    if (distance[i]! < distance[i - 1]!) throw new Error(`band data: path distance decreases at k-point ${i + 1}`);
   const pieces = piecesFromSegments(data.segments, nk);
   const total = nk * nBands;
-  const pyramids = energies.map((e) => pieces.map((p) => (total >= PYRAMID_THRESHOLD ? buildPyramid(distance, e, nBands, p.i0, p.i1) : { i0: p.i0, i1: p.i1, nBands, levels: [] })));
+  const pyramids = energies.map((e) =>
+    pieces.map((p) =>
+      total >= PYRAMID_THRESHOLD ? buildPyramid(distance, e, nBands, p.i0, p.i1) : { i0: p.i0, i1: p.i1, nBands, levels: [] },
+    ),
+  );
   const labelAt = new Map<number, string>();
   for (const t of data.ticks) labelAt.set(t.kIndex, t.label);
   const labelled = (k: number): boolean => labelAt.has(k);
@@ -68,7 +74,24 @@ export function buildViewModel(data: BandData): ViewModel {
   }
   const marks = withEdgeMarks(data, kpoints);
   const topValenceBand = [0, 1].slice(0, data.nSpin).map((s) => topValence(data, marks, energies[s]!, nBands, s));
-  return { data, marks, nk, nBands, nSpin: data.nSpin, distance, kpoints, cartesian, energies, pieces, pyramids, extrema, topValenceBand, labelAt, energyMin, energyMax };
+  return {
+    data,
+    marks,
+    nk,
+    nBands,
+    nSpin: data.nSpin,
+    distance,
+    kpoints,
+    cartesian,
+    energies,
+    pieces,
+    pyramids,
+    extrema,
+    topValenceBand,
+    labelAt,
+    energyMin,
+    energyMax,
+  };
 }
 
 /**

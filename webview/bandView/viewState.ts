@@ -45,10 +45,14 @@ export function parseViewState(s: unknown): BandViewState {
   if (typeof o.run === 'string' && o.run.length < 4096) out.run = o.run;
   if (o.reference === 'vbm' || o.reference === 'fermi' || o.reference === 'raw') out.reference = o.reference;
   if (o.spin === 'up' || o.spin === 'down' || o.spin === 'both') out.spin = o.spin;
-  if (typeof o.window_meV === 'number' && Number.isFinite(o.window_meV) && o.window_meV >= 1 && o.window_meV <= 300) out.window_meV = o.window_meV;
+  if (typeof o.window_meV === 'number' && Number.isFinite(o.window_meV) && o.window_meV >= 1 && o.window_meV <= 300)
+    out.window_meV = o.window_meV;
   if (typeof o.method === 'string' && o.method.length <= 40) out.method = o.method;
   if (Array.isArray(o.fits)) {
-    const fits = o.fits.slice(-MAX_FITS).map(saveEntry).filter((e): e is SaveEntry => e !== null);
+    const fits = o.fits
+      .slice(-MAX_FITS)
+      .map(saveEntry)
+      .filter((e): e is SaveEntry => e !== null);
     if (fits.length) out.fits = fits;
   }
   return out;

@@ -37,7 +37,6 @@ import { vscodeApi, type VsCodeApi } from '../shared/vscodeApi';
 import { watchTheme } from '../shared/themeWatch';
 import { el, setOptions, vsButton, vsSelect, type VsButton, type VsSelect } from '../shared/controls';
 
-
 type VsCheckbox = HTMLElement & { checked: boolean };
 
 const SVG_NS = 'http://www.w3.org/2000/svg';
@@ -134,7 +133,8 @@ export class CompareViewApp {
     this.annotationsBox = document.createElement('vscode-checkbox') as unknown as VsCheckbox;
     this.annotationsBox.classList.add('cv-annotations-rows');
     this.annotationsBox.setAttribute('label', 'Annotations files as rows of their own');
-    this.annotationsBox.title = 'Off: an annotations file is a flag on its data run (saved / stale). On: it is also a row, with the numbers as saved.';
+    this.annotationsBox.title =
+      'Off: an annotations file is a flag on its data run (saved / stale). On: it is also a row, with the numbers as saved.';
     this.rescanBtn = vsButton('Look for runs again', true);
     this.rescanBtn.classList.add('cv-rescan');
     bar.append(title, this.summary, refLabel, this.annotationsBox, this.rescanBtn);
@@ -152,7 +152,8 @@ export class CompareViewApp {
     this.moreBox = document.createElement('vscode-checkbox') as unknown as VsCheckbox;
     this.moreBox.classList.add('cv-more-columns');
     this.moreBox.setAttribute('label', 'More columns');
-    this.moreBox.title = 'Off: gap, edges, valley degeneracy, density-of-states and conductivity masses, conventional a. On: also every directional mass, every matched valley, strains and cell vectors.';
+    this.moreBox.title =
+      'Off: gap, edges, valley degeneracy, density-of-states and conductivity masses, conventional a. On: also every directional mass, every matched valley, strains and cell vectors.';
     this.moreBox.checked = this.showMore;
     this.moreBox.addEventListener('change', () => {
       this.showMore = this.moreBox.checked;
@@ -210,9 +211,12 @@ export class CompareViewApp {
     (document.getElementById('app') ?? document.body).append(this.root);
 
     this.refSelect.addEventListener('change', () => {
-      if (this.refSelect.value && this.table && this.refSelect.value !== this.table.reference) this.post({ type: CompareViewToHostType.SetReference, rowId: this.refSelect.value });
+      if (this.refSelect.value && this.table && this.refSelect.value !== this.table.reference)
+        this.post({ type: CompareViewToHostType.SetReference, rowId: this.refSelect.value });
     });
-    this.annotationsBox.addEventListener('change', () => this.post({ type: CompareViewToHostType.SetAnnotationsAsRuns, value: this.annotationsBox.checked }));
+    this.annotationsBox.addEventListener('change', () =>
+      this.post({ type: CompareViewToHostType.SetAnnotationsAsRuns, value: this.annotationsBox.checked }),
+    );
     this.rescanBtn.addEventListener('click', () => this.post({ type: CompareViewToHostType.Rescan }));
     this.trendY_.addEventListener('change', () => {
       this.trendY = this.trendY_.value;
@@ -242,7 +246,8 @@ export class CompareViewApp {
   // State kept across reloads of the view: typed values by run name, trend axes, sort.
 
   private restoreState(): void {
-    const s = this.api.getState() as { user?: Record<string, number>; trendX?: string; trendY?: string; sort?: SortState | null; more?: boolean } | undefined;
+    const s = this.api.getState() as
+      { user?: Record<string, number>; trendX?: string; trendY?: string; sort?: SortState | null; more?: boolean } | undefined;
     if (!s || typeof s !== 'object') return;
     this.pendingUserByName = s.user && typeof s.user === 'object' ? s.user : {};
     if (typeof s.trendX === 'string') this.trendX = s.trendX;
@@ -326,12 +331,22 @@ export class CompareViewApp {
     this.annotationsBox.checked = t.annotationsAsRuns;
     this.cautions.replaceChildren(...t.cautions.map((c) => el('li', undefined, c)));
     this.renderEvents();
-    if (this.sort && this.sort.key !== USER_KEY && !['name', 'type', 'vbm', 'cbm', 'annotations'].includes(this.sort.key) && !t.columns.some((c) => c.key === this.sort!.key)) this.sort = null;
+    if (
+      this.sort &&
+      this.sort.key !== USER_KEY &&
+      !['name', 'type', 'vbm', 'cbm', 'annotations'].includes(this.sort.key) &&
+      !t.columns.some((c) => c.key === this.sort!.key)
+    )
+      this.sort = null;
     this.renderTable();
     this.setTrendOptions();
     this.requestBands();
     this.schedule();
-    this.setStatus(n ? 'Tick runs to overlay their bands; click a column header to sort; click a run’s name to open its band view.' : 'No eigenvalue or annotations files were found in this workspace.');
+    this.setStatus(
+      n
+        ? 'Tick runs to overlay their bands; click a column header to sort; click a run’s name to open its band view.'
+        : 'No eigenvalue or annotations files were found in this workspace.',
+    );
   }
 
   private renderEvents(): void {
@@ -396,7 +411,12 @@ export class CompareViewApp {
     hr.append(
       sel,
       this.headerCell('name', 'Run', '', 'Path of the run’s file in the workspace.'),
-      this.headerCell('annotations', 'Annotations', '', 'Saved annotations beside the run: current, stale (its data changed since), or none.'),
+      this.headerCell(
+        'annotations',
+        'Annotations',
+        '',
+        'Saved annotations beside the run: current, stale (its data changed since), or none.',
+      ),
       this.headerCell('type', 'Gap type', '', 'Direct or indirect gap, or metal.'),
       this.headerCell('vbm', 'VBM at', '', 'Where the valence band maximum is (label or fractional k).'),
       this.headerCell('cbm', 'CBM at', '', 'Where the conduction band minimum is, and in which matched valley.'),
@@ -406,7 +426,14 @@ export class CompareViewApp {
     this.moreBox.setAttribute('label', this.showMore ? 'More columns' : `More columns (${hidden} more)`);
     this.moreBox.hidden = t.columns.every((c) => !c.more);
     for (const c of shown) hr.append(this.headerCell(c.key, c.label, c.unit, c.title));
-    hr.append(this.headerCell(USER_KEY, 'Your value', 'typed', 'A number you type per run (e.g. a setting of the calculation), usable as the trend plot’s horizontal axis.'));
+    hr.append(
+      this.headerCell(
+        USER_KEY,
+        'Your value',
+        'typed',
+        'A number you type per run (e.g. a setting of the calculation), usable as the trend plot’s horizontal axis.',
+      ),
+    );
     thead.append(hr);
     const tbody = el('tbody');
     for (const r of sortRows(t.rows, this.sort, this.userValues)) tbody.append(this.rowElement(r, shown));
@@ -452,7 +479,17 @@ export class CompareViewApp {
       tdAnn.append(s);
     } else if (r.annotations === 'current') tdAnn.append(el('span', 'cv-current', 'saved'));
     else tdAnn.append(el('span', 'cv-current', '—'));
-    const kind = r.error ? 'unreadable' : r.metal ? (r.semimetal ? 'semimetal' : 'metal') : r.direct === null ? '—' : r.direct ? 'direct' : 'indirect';
+    const kind = r.error
+      ? 'unreadable'
+      : r.metal
+        ? r.semimetal
+          ? 'semimetal'
+          : 'metal'
+        : r.direct === null
+          ? '—'
+          : r.direct
+            ? 'direct'
+            : 'indirect';
     const tdType = el('td', undefined, `${kind}${!r.error && r.spinors ? ' · spinors' : ''}`);
     if (r.error) tdType.title = r.error;
     else if (r.spinors) tdType.title = 'Noncollinear (spin-orbit) run: one electron per band.';
@@ -460,7 +497,8 @@ export class CompareViewApp {
     const tdCbm = el('td', undefined, r.cbm ? `${r.cbm}${r.cbmValley ? ` [${r.cbmValley}]` : ''}` : '—');
     const ref = this.table?.rows.find((x) => x.isReference);
     const sameMaterial = !ref || !ref.series || !r.series || ref.series === r.series;
-    if (!sameMaterial) tdCbm.title = `Another material (${r.series}) than the reference (${ref!.series}): its valleys are not matched with the reference's.`;
+    if (!sameMaterial)
+      tdCbm.title = `Another material (${r.series}) than the reference (${ref!.series}): its valleys are not matched with the reference's.`;
     if (ref && sameMaterial && !r.isReference && ref.cbmValley && r.cbmValley && ref.cbmValley !== r.cbmValley) {
       tdCbm.classList.add('cv-moved');
       tdCbm.title = `The CBM is in valley ${r.cbmValley} here, in valley ${ref.cbmValley} in the reference: compare masses valley by valley.`;
@@ -542,7 +580,8 @@ export class CompareViewApp {
       const distance = Float64Array.from(decodeArray(r.distance));
       const energies = r.energies.map((e) => Float64Array.from(decodeArray(e)));
       if (distance.length !== r.nk) throw new Error(`band data of ${r.title}: ${distance.length} distances for ${r.nk} k-points`);
-      for (const e of energies) if (e.length !== r.nk * r.nBands) throw new Error(`band data of ${r.title}: ${e.length} energies for ${r.nk} × ${r.nBands}`);
+      for (const e of energies)
+        if (e.length !== r.nk * r.nBands) throw new Error(`band data of ${r.title}: ${e.length} energies for ${r.nk} × ${r.nBands}`);
       this.bands.set(r.rowId, { meta: r, distance, energies, pieces: piecesFromSegments(r.segments, r.nk) });
     }
     if (missing.length) {
@@ -594,13 +633,18 @@ export class CompareViewApp {
     if (runs.length === 0) {
       this.lastOverlay = { runs: [], shared: true, strokes: [], colours: [] };
       this.overlayMessage.hidden = false;
-      this.overlayMessage.textContent = this.selected.length ? 'Reading the bands …' : 'No runs ticked: tick runs in the table to overlay their bands.';
+      this.overlayMessage.textContent = this.selected.length
+        ? 'Reading the bands …'
+        : 'No runs ticked: tick runs in the table to overlay their bands.';
       this.overlayPlot.setAttribute('aria-label', 'Overlaid band structures (none ticked yet)');
-      if (!this.selected.length) this.overlayNote.textContent = `Tick runs in the table (up to ${COMPARE_MAX_OVERLAY}) to draw their bands here.`;
+      if (!this.selected.length)
+        this.overlayNote.textContent = `Tick runs in the table (up to ${COMPARE_MAX_OVERLAY}) to draw their bands here.`;
       return;
     }
     this.overlayMessage.hidden = true;
-    const layout: OverlayLayout = layoutOverlay(runs.map((r) => ({ nk: r.meta.nk, distance: r.distance, segments: r.meta.segments, ticks: r.meta.ticks })));
+    const layout: OverlayLayout = layoutOverlay(
+      runs.map((r) => ({ nk: r.meta.nk, distance: r.distance, segments: r.meta.segments, ticks: r.meta.ticks })),
+    );
     const x = scaleLinear().domain([0, layout.total]).range([0, pw]);
     const y = scaleLinear().domain([E_LOW, E_HIGH]).range([ph, 0]);
     ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
@@ -656,26 +700,77 @@ export class CompareViewApp {
     const X = (v: number): number => MARGIN.left + x(v);
     const Y = (v: number): number => MARGIN.top + y(v);
     const g = svg.append('g');
-    for (const t of layout.ticks) g.append('line').attr('class', 'cv-sym-line').attr('x1', X(t.x)).attr('x2', X(t.x)).attr('y1', MARGIN.top).attr('y2', MARGIN.top + ph);
-    for (const s of layout.separators) g.append('line').attr('class', 'cv-separator').attr('x1', X(s)).attr('x2', X(s)).attr('y1', MARGIN.top).attr('y2', MARGIN.top + ph);
-    g.append('line').attr('class', 'cv-zero').attr('x1', MARGIN.left).attr('x2', MARGIN.left + pw).attr('y1', Y(0)).attr('y2', Y(0));
+    for (const t of layout.ticks)
+      g.append('line')
+        .attr('class', 'cv-sym-line')
+        .attr('x1', X(t.x))
+        .attr('x2', X(t.x))
+        .attr('y1', MARGIN.top)
+        .attr('y2', MARGIN.top + ph);
+    for (const s of layout.separators)
+      g.append('line')
+        .attr('class', 'cv-separator')
+        .attr('x1', X(s))
+        .attr('x2', X(s))
+        .attr('y1', MARGIN.top)
+        .attr('y2', MARGIN.top + ph);
+    g.append('line')
+      .attr('class', 'cv-zero')
+      .attr('x1', MARGIN.left)
+      .attr('x2', MARGIN.left + pw)
+      .attr('y1', Y(0))
+      .attr('y2', Y(0));
     svg.append('rect').attr('class', 'cv-frame').attr('x', MARGIN.left).attr('y', MARGIN.top).attr('width', pw).attr('height', ph);
-    svg.append('g').attr('class', 'cv-axis cv-axis-y').attr('transform', `translate(${MARGIN.left},${MARGIN.top})`).call(axisLeft(y).ticks(Math.max(3, Math.round(ph / 40))).tickFormat((d) => minus(String(d))));
+    svg
+      .append('g')
+      .attr('class', 'cv-axis cv-axis-y')
+      .attr('transform', `translate(${MARGIN.left},${MARGIN.top})`)
+      .call(
+        axisLeft(y)
+          .ticks(Math.max(3, Math.round(ph / 40)))
+          .tickFormat((d) => minus(String(d))),
+      );
     const xg = svg.append('g').attr('class', 'cv-axis cv-axis-x');
     for (const t of layout.ticks) {
-      xg.append('line').attr('x1', X(t.x)).attr('x2', X(t.x)).attr('y1', MARGIN.top + ph).attr('y2', MARGIN.top + ph + 4);
-      xg.append('text').attr('x', X(t.x)).attr('y', MARGIN.top + ph + 15).attr('text-anchor', 'middle').text(t.label);
+      xg.append('line')
+        .attr('x1', X(t.x))
+        .attr('x2', X(t.x))
+        .attr('y1', MARGIN.top + ph)
+        .attr('y2', MARGIN.top + ph + 4);
+      xg.append('text')
+        .attr('x', X(t.x))
+        .attr('y', MARGIN.top + ph + 15)
+        .attr('text-anchor', 'middle')
+        .text(t.label);
     }
     if (!layout.shared) {
       layout.spans.forEach(([a, b], i) => {
-        svg.append('text').attr('class', 'cv-span-title').attr('x', X((a + b) / 2)).attr('y', MARGIN.top - 6).attr('text-anchor', 'middle').text(`${i + 1}`);
+        svg
+          .append('text')
+          .attr('class', 'cv-span-title')
+          .attr('x', X((a + b) / 2))
+          .attr('y', MARGIN.top - 6)
+          .attr('text-anchor', 'middle')
+          .text(`${i + 1}`);
       });
     }
-    const yt = svg.append('text').attr('class', 'cv-axis-title').attr('transform', `translate(14,${MARGIN.top + ph / 2}) rotate(-90)`).attr('text-anchor', 'middle');
+    const yt = svg
+      .append('text')
+      .attr('class', 'cv-axis-title')
+      .attr('transform', `translate(14,${MARGIN.top + ph / 2}) rotate(-90)`)
+      .attr('text-anchor', 'middle');
     yt.append('tspan').text('E − E');
     yt.append('tspan').attr('baseline-shift', 'sub').attr('font-size', '9px').text('VBM');
     yt.append('tspan').text(' (eV)');
-    svg.append('text').attr('class', 'cv-axis-title').attr('x', MARGIN.left + pw / 2).attr('y', height - 6).attr('text-anchor', 'middle').text(layout.shared ? 'k-path (segments of each run stretched onto the first run’s)' : 'k-path of each run (paths differ: side by side)');
+    svg
+      .append('text')
+      .attr('class', 'cv-axis-title')
+      .attr('x', MARGIN.left + pw / 2)
+      .attr('y', height - 6)
+      .attr('text-anchor', 'middle')
+      .text(
+        layout.shared ? 'k-path (segments of each run stretched onto the first run’s)' : 'k-path of each run (paths differ: side by side)',
+      );
     // Legend and note.
     const names = new Map((this.table?.rows ?? []).map((r) => [r.id, r.name]));
     runs.forEach((r, i) => {
@@ -691,14 +786,22 @@ export class CompareViewApp {
       const dash = DASHES[i % DASHES.length]!;
       if (dash.length) ln.setAttribute('stroke-dasharray', dash.join(' '));
       sw.append(ln);
-      const zero = r.meta.alignedAt === 'vbm' ? '' : r.meta.alignedAt === 'fermi' ? ' (no gap: aligned at its Fermi level)' : ' (no gap or Fermi level: not aligned)';
+      const zero =
+        r.meta.alignedAt === 'vbm'
+          ? ''
+          : r.meta.alignedAt === 'fermi'
+            ? ' (no gap: aligned at its Fermi level)'
+            : ' (no gap or Fermi level: not aligned)';
       item.append(sw, document.createTextNode(`${layout.shared ? '' : `${i + 1}: `}${names.get(r.meta.rowId) ?? r.meta.title}${zero}`));
       this.legend.append(item);
     });
     this.overlayNote.textContent = layout.shared
       ? `${runs.length} run${runs.length === 1 ? '' : 's'} on one path (same labelled segments), each shifted so its VBM is at 0.`
       : `${runs.length} runs with different paths, side by side, each shifted so its VBM is at 0.`;
-    this.overlayPlot.setAttribute('aria-label', `Band structures of ${runs.map((r) => names.get(r.meta.rowId) ?? r.meta.title).join(', ')}, aligned at the VBM, ${layout.shared ? 'on one shared path' : 'side by side'}.`);
+    this.overlayPlot.setAttribute(
+      'aria-label',
+      `Band structures of ${runs.map((r) => names.get(r.meta.rowId) ?? r.meta.title).join(', ')}, aligned at the VBM, ${layout.shared ? 'on one shared path' : 'side by side'}.`,
+    );
   }
 
   // -------------------------------------------------------------------------------------------------
@@ -708,9 +811,16 @@ export class CompareViewApp {
     const t = this.table!;
     const numeric = t.columns.filter((c) => c.group !== 'structure');
     if (!numeric.some((c) => c.key === this.trendY)) this.trendY = numeric[0]?.key ?? 'gap';
-    const xs = [...t.descriptorKeys.map((k) => ({ value: k, label: this.columnTitle(k) })), { value: USER_KEY, label: 'Your value (typed in the table)' }];
+    const xs = [
+      ...t.descriptorKeys.map((k) => ({ value: k, label: this.columnTitle(k) })),
+      { value: USER_KEY, label: 'Your value (typed in the table)' },
+    ];
     if (!xs.some((o) => o.value === this.trendX)) this.trendX = xs[0]!.value;
-    setOptions(this.trendY_, numeric.map((c) => ({ value: c.key, label: this.columnTitle(c.key) })), this.trendY);
+    setOptions(
+      this.trendY_,
+      numeric.map((c) => ({ value: c.key, label: this.columnTitle(c.key) })),
+      this.trendY,
+    );
     setOptions(this.trendX_, xs, this.trendX);
   }
 
@@ -747,23 +857,69 @@ export class CompareViewApp {
     this.trendNote.textContent = `${pts.length} run${pts.length === 1 ? '' : 's'} plotted${without ? `; ${without} without a value for both axes left out` : ''}. Click a point (or Tab to it and press Enter) to open that run.`;
     if (pts.length === 0) {
       this.trendMessage.hidden = false;
-      this.trendMessage.textContent = this.trendX === USER_KEY ? 'Type values in the table’s “Your value” column to plot against them.' : 'No run has a value for both quantities.';
+      this.trendMessage.textContent =
+        this.trendX === USER_KEY
+          ? 'Type values in the table’s “Your value” column to plot against them.'
+          : 'No run has a value for both quantities.';
       return;
     }
     this.trendMessage.hidden = true;
-    const pad = (lo: number, hi: number): [number, number] => (hi > lo ? [lo - 0.06 * (hi - lo), hi + 0.06 * (hi - lo)] : [lo - Math.max(1e-3, Math.abs(lo) * 0.05), hi + Math.max(1e-3, Math.abs(hi) * 0.05)]);
+    const pad = (lo: number, hi: number): [number, number] =>
+      hi > lo
+        ? [lo - 0.06 * (hi - lo), hi + 0.06 * (hi - lo)]
+        : [lo - Math.max(1e-3, Math.abs(lo) * 0.05), hi + Math.max(1e-3, Math.abs(hi) * 0.05)];
     const xs = pts.map((p) => p.x);
     const ys = pts.map((p) => p.y);
-    const x: ScaleLinear<number, number> = scaleLinear().domain(pad(Math.min(...xs), Math.max(...xs))).range([TREND_MARGIN.left, TREND_MARGIN.left + pw]);
-    const y: ScaleLinear<number, number> = scaleLinear().domain(pad(Math.min(...ys), Math.max(...ys))).range([TREND_MARGIN.top + ph, TREND_MARGIN.top]);
-    svg.append('rect').attr('class', 'cv-frame').attr('x', TREND_MARGIN.left).attr('y', TREND_MARGIN.top).attr('width', pw).attr('height', ph);
-    svg.append('g').attr('class', 'cv-axis').attr('transform', `translate(0,${TREND_MARGIN.top + ph})`).call(axisBottom(x).ticks(Math.max(2, Math.round(pw / 70))).tickFormat((d) => minus(String(d))));
-    svg.append('g').attr('class', 'cv-axis').attr('transform', `translate(${TREND_MARGIN.left},0)`).call(axisLeft(y).ticks(Math.max(2, Math.round(ph / 40))).tickFormat((d) => minus(String(d))));
-    svg.append('text').attr('class', 'cv-axis-title').attr('x', TREND_MARGIN.left + pw / 2).attr('y', height - 6).attr('text-anchor', 'middle').text(this.columnTitle(this.trendX));
-    svg.append('text').attr('class', 'cv-axis-title').attr('transform', `translate(14,${TREND_MARGIN.top + ph / 2}) rotate(-90)`).attr('text-anchor', 'middle').text(this.columnTitle(this.trendY));
+    const x: ScaleLinear<number, number> = scaleLinear()
+      .domain(pad(Math.min(...xs), Math.max(...xs)))
+      .range([TREND_MARGIN.left, TREND_MARGIN.left + pw]);
+    const y: ScaleLinear<number, number> = scaleLinear()
+      .domain(pad(Math.min(...ys), Math.max(...ys)))
+      .range([TREND_MARGIN.top + ph, TREND_MARGIN.top]);
+    svg
+      .append('rect')
+      .attr('class', 'cv-frame')
+      .attr('x', TREND_MARGIN.left)
+      .attr('y', TREND_MARGIN.top)
+      .attr('width', pw)
+      .attr('height', ph);
+    svg
+      .append('g')
+      .attr('class', 'cv-axis')
+      .attr('transform', `translate(0,${TREND_MARGIN.top + ph})`)
+      .call(
+        axisBottom(x)
+          .ticks(Math.max(2, Math.round(pw / 70)))
+          .tickFormat((d) => minus(String(d))),
+      );
+    svg
+      .append('g')
+      .attr('class', 'cv-axis')
+      .attr('transform', `translate(${TREND_MARGIN.left},0)`)
+      .call(
+        axisLeft(y)
+          .ticks(Math.max(2, Math.round(ph / 40)))
+          .tickFormat((d) => minus(String(d))),
+      );
+    svg
+      .append('text')
+      .attr('class', 'cv-axis-title')
+      .attr('x', TREND_MARGIN.left + pw / 2)
+      .attr('y', height - 6)
+      .attr('text-anchor', 'middle')
+      .text(this.columnTitle(this.trendX));
+    svg
+      .append('text')
+      .attr('class', 'cv-axis-title')
+      .attr('transform', `translate(14,${TREND_MARGIN.top + ph / 2}) rotate(-90)`)
+      .attr('text-anchor', 'middle')
+      .text(this.columnTitle(this.trendY));
     // Lines join only runs of one material; a run without a structure joins nothing.
     const seriesNames = [...new Set(pts.map((p) => p.r.series ?? null).filter((n): n is string => n !== null))];
-    const colourOf = (name: string | null): string => (name === null ? 'var(--vscode-descriptionForeground)' : TREND_SERIES_COLOURS[seriesNames.indexOf(name) % TREND_SERIES_COLOURS.length]!);
+    const colourOf = (name: string | null): string =>
+      name === null
+        ? 'var(--vscode-descriptionForeground)'
+        : TREND_SERIES_COLOURS[seriesNames.indexOf(name) % TREND_SERIES_COLOURS.length]!;
     this.lastTrendSeries = seriesNames.map((name) => ({ name, rowIds: pts.filter((p) => p.r.series === name).map((p) => p.r.id) }));
     for (const sr of this.lastTrendSeries) {
       const sp = pts.filter((p) => p.r.series === sr.name);
@@ -773,17 +929,36 @@ export class CompareViewApp {
         .attr('class', 'cv-trend-line')
         .attr('data-series', sr.name)
         .style('stroke', colourOf(sr.name))
-        .attr('d', line<{ x: number; y: number }>().x((p) => x(p.x)).y((p) => y(p.y))(sp) ?? '');
+        .attr(
+          'd',
+          line<{ x: number; y: number }>()
+            .x((p) => x(p.x))
+            .y((p) => y(p.y))(sp) ?? '',
+        );
     }
     const alone = pts.filter((p) => !p.r.series).length;
     const legendItems = this.lastTrendSeries.map((sr) => {
-      const types = [...new Set(pts.filter((p) => p.r.series === sr.name).map((p) => p.r.latticeType).filter((x): x is string => !!x))];
-      const item = el('span', 'cv-series-item', `${sr.name}${types.length ? ` (${types.join(', ')})` : ''}: ${sr.rowIds.length} run${sr.rowIds.length === 1 ? '' : 's'}`);
+      const types = [
+        ...new Set(
+          pts
+            .filter((p) => p.r.series === sr.name)
+            .map((p) => p.r.latticeType)
+            .filter((x): x is string => !!x),
+        ),
+      ];
+      const item = el(
+        'span',
+        'cv-series-item',
+        `${sr.name}${types.length ? ` (${types.join(', ')})` : ''}: ${sr.rowIds.length} run${sr.rowIds.length === 1 ? '' : 's'}`,
+      );
       item.style.setProperty('--cv-swatch', colourOf(sr.name));
       item.dataset.series = sr.name;
       return item;
     });
-    if (alone) legendItems.push(el('span', 'cv-series-item cv-series-alone', `${alone} run${alone === 1 ? '' : 's'} without a structure: not joined`));
+    if (alone)
+      legendItems.push(
+        el('span', 'cv-series-item cv-series-alone', `${alone} run${alone === 1 ? '' : 's'} without a structure: not joined`),
+      );
     this.trendLegend.replaceChildren(...legendItems);
     const yCol = t.columns.find((c) => c.key === this.trendY);
     const xCol = t.columns.find((c) => c.key === this.trendX);
@@ -791,15 +966,23 @@ export class CompareViewApp {
       const c = svg
         .append('circle')
         .attr('data-series', p.r.series ?? '')
-        .attr('class', `cv-point${p.r.isReference ? ' cv-point-ref' : ''}${p.r.annotations === 'stale' && p.r.origin === 'annotations' ? ' cv-point-stale' : ''}`)
+        .attr(
+          'class',
+          `cv-point${p.r.isReference ? ' cv-point-ref' : ''}${p.r.annotations === 'stale' && p.r.origin === 'annotations' ? ' cv-point-stale' : ''}`,
+        )
         .attr('cx', x(p.x))
         .attr('cy', y(p.y))
         .attr('r', 5.5)
         .attr('tabindex', 0)
         .attr('role', 'button')
         .attr('data-row', p.r.id)
-        .attr('aria-label', `${p.r.name}: ${this.columnTitle(this.trendX)} ${formatValue(p.x, xCol?.decimals ?? 4)}, ${this.columnTitle(this.trendY)} ${formatValue(p.y, yCol?.decimals ?? 4)}. Press Enter to open it.`);
-      c.append('title').text(`${p.r.name}${p.r.series ? ` (${p.r.series})` : ''}\n${this.columnTitle(this.trendX)}: ${formatValue(p.x, xCol?.decimals ?? 4)}\n${this.columnTitle(this.trendY)}: ${formatValue(p.y, yCol?.decimals ?? 4)}`);
+        .attr(
+          'aria-label',
+          `${p.r.name}: ${this.columnTitle(this.trendX)} ${formatValue(p.x, xCol?.decimals ?? 4)}, ${this.columnTitle(this.trendY)} ${formatValue(p.y, yCol?.decimals ?? 4)}. Press Enter to open it.`,
+        );
+      c.append('title').text(
+        `${p.r.name}${p.r.series ? ` (${p.r.series})` : ''}\n${this.columnTitle(this.trendX)}: ${formatValue(p.x, xCol?.decimals ?? 4)}\n${this.columnTitle(this.trendY)}: ${formatValue(p.y, yCol?.decimals ?? 4)}`,
+      );
       if (!p.r.isReference && !(p.r.annotations === 'stale' && p.r.origin === 'annotations')) c.style('fill', colourOf(p.r.series ?? null));
       const node = c.node()!;
       const open = (): void => this.openRun(p.r, p.r.canOverlay ? 'bandView' : 'file');
@@ -819,7 +1002,13 @@ export class CompareViewApp {
 }
 
 /** Line colours of the trend plot's series (material and lattice type), in order of first appearance. */
-const TREND_SERIES_COLOURS = ['var(--vscode-charts-blue, #3794ff)', 'var(--vscode-charts-purple, #b180d7)', 'var(--vscode-charts-green, #89d185)', 'var(--vscode-charts-yellow, #cca700)', 'var(--vscode-charts-red, #f14c4c)'];
+const TREND_SERIES_COLOURS = [
+  'var(--vscode-charts-blue, #3794ff)',
+  'var(--vscode-charts-purple, #b180d7)',
+  'var(--vscode-charts-green, #89d185)',
+  'var(--vscode-charts-yellow, #cca700)',
+  'var(--vscode-charts-red, #f14c4c)',
+];
 
 function cssVar(name: string, fallback: string): string {
   return getComputedStyle(document.documentElement).getPropertyValue(name).trim() || fallback;

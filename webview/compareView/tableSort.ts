@@ -32,7 +32,11 @@ function textOf(row: CompareRow, key: string): string {
  * Rows in the order of the column. Numbers compare as numbers, rows without a number go last whatever the
  * direction, ties keep the table's order (by name) so a sort is reproducible.
  */
-export function sortRows(rows: readonly CompareRow[], sort: SortState | null, userValues: ReadonlyMap<string, number> = new Map()): CompareRow[] {
+export function sortRows(
+  rows: readonly CompareRow[],
+  sort: SortState | null,
+  userValues: ReadonlyMap<string, number> = new Map(),
+): CompareRow[] {
   const byName = [...rows].sort((a, b) => (a.name < b.name ? -1 : a.name > b.name ? 1 : 0));
   if (!sort) return byName;
   const sign = sort.direction === 'ascending' ? 1 : -1;

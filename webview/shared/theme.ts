@@ -47,7 +47,9 @@ export function readPalette(doc: Document): Palette {
     background: cssVar(style, '--vscode-editor-background', light ? '#ffffff' : '#1e1e1e'),
     foreground: fg,
     muted: cssVar(style, '--vscode-descriptionForeground', light ? '#616161' : '#9d9d9d'),
-    grid: hc ? cssVar(style, '--vscode-contrastBorder', fg) : cssVar(style, '--vscode-editorIndentGuide-background1', light ? '#d3d3d3' : '#404040'),
+    grid: hc
+      ? cssVar(style, '--vscode-contrastBorder', fg)
+      : cssVar(style, '--vscode-editorIndentGuide-background1', light ? '#d3d3d3' : '#404040'),
     filled: cssVar(style, '--vscode-charts-blue', light ? '#1a85ff' : '#3794ff'),
     empty: cssVar(style, '--vscode-charts-orange', light ? '#d18616' : '#d18616'),
     filled2: cssVar(style, '--vscode-charts-purple', '#b180d7'),

@@ -19,7 +19,14 @@ function shardNote(opts: BatchOptions, kept: number, all: number, what: string):
 }
 
 /** `analyze --jsonl`: one line per run, in path order; exit 1 when any run failed (its line says why). */
-export async function analyzeBatch(roots: string[], settings: Partial<AnalysisSettings>, read: ReadOptions, opts: BatchOptions, io: CliIO, zero: EnergyZeroMode = 'vbm'): Promise<number> {
+export async function analyzeBatch(
+  roots: string[],
+  settings: Partial<AnalysisSettings>,
+  read: ReadOptions,
+  opts: BatchOptions,
+  io: CliIO,
+  zero: EnergyZeroMode = 'vbm',
+): Promise<number> {
   const workers = prestartWorkers(opts.jobs);
   let found;
   try {
@@ -59,7 +66,12 @@ export async function analyzeBatch(roots: string[], settings: Partial<AnalysisSe
 }
 
 /** Check annotations files in the pool; outcomes in the order of `files`. */
-export async function checkInPool(files: FoundAnnotations[], tolerances: Tolerances, opts: BatchOptions, io: CliIO): Promise<FileOutcome[]> {
+export async function checkInPool(
+  files: FoundAnnotations[],
+  tolerances: Tolerances,
+  opts: BatchOptions,
+  io: CliIO,
+): Promise<FileOutcome[]> {
   const outcomes: FileOutcome[] = [];
   const progress = progressReporter(io.progress, 'annotations files checked');
   await runPool(
@@ -75,7 +87,13 @@ export async function checkInPool(files: FoundAnnotations[], tolerances: Toleran
 }
 
 /** `annotate` with batch options: every run found under the paths, this shard's share, in the pool. */
-export async function annotateBatch(roots: string[], settings: Partial<AnalysisSettings>, read: ReadFlags, opts: BatchOptions, io: CliIO): Promise<number> {
+export async function annotateBatch(
+  roots: string[],
+  settings: Partial<AnalysisSettings>,
+  read: ReadFlags,
+  opts: BatchOptions,
+  io: CliIO,
+): Promise<number> {
   const found = await findRuns(nodeFileAccessor, roots);
   for (const n of found.notes) io.err(`valleyscope: ${n}`);
   if (found.runs.length === 0) {

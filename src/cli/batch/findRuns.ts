@@ -53,7 +53,10 @@ export async function findRuns(fs: FileAccessor, roots: readonly string[]): Prom
       notes.push(`${dir}: the folder could not be listed`);
       return;
     }
-    const dirs = entries.filter((e) => e.type === 'directory' && !SKIP_DIRS.has(e.name)).map((e) => e.name).sort();
+    const dirs = entries
+      .filter((e) => e.type === 'directory' && !SKIP_DIRS.has(e.name))
+      .map((e) => e.name)
+      .sort();
     for (const name of dirs) await walk(joinPath(dir, name), depth + 1);
   };
   for (const root of roots) {

@@ -37,7 +37,10 @@ export async function readJsonLines(fs: FileAccessor, files: readonly string[]):
     const st = await fs.stat(file);
     if (!st) throw new ValleyscopeError(`${file}: no such file`);
     if (st.type !== 'file') throw new ValleyscopeError(`${file} is not a file of JSON Lines`);
-    if (st.size > MAX_JSONL_BYTES) throw new ValleyscopeError(`${file}: ${(st.size / 2 ** 20).toFixed(0)} MiB is more than the ${MAX_JSONL_BYTES / 2 ** 20} MiB a JSON Lines file may hold`);
+    if (st.size > MAX_JSONL_BYTES)
+      throw new ValleyscopeError(
+        `${file}: ${(st.size / 2 ** 20).toFixed(0)} MiB is more than the ${MAX_JSONL_BYTES / 2 ** 20} MiB a JSON Lines file may hold`,
+      );
     const text = new TextDecoder('utf-8', { fatal: false }).decode(await fs.readFile(file));
     const lines = text.split('\n');
     for (let i = 0; i < lines.length; i++) {
@@ -54,7 +57,8 @@ export async function readJsonLines(fs: FileAccessor, files: readonly string[]):
       const value = c.obj(v, 'record');
       const path = c.str(value.path, 'path');
       const before = seen.get(path);
-      if (before !== undefined) throw new ValleyscopeError(`${where}: the run ${path} was already given at ${before}; were shards merged twice?`);
+      if (before !== undefined)
+        throw new ValleyscopeError(`${where}: the run ${path} was already given at ${before}; were shards merged twice?`);
       seen.set(path, where);
       out.push({ path, where, value });
     }
@@ -75,7 +79,8 @@ export function runsFromRecords(records: readonly JsonRecord[]): { runs: RunInpu
     if (r.value.extrema === undefined) {
       throw new ValleyscopeError(`${r.where}: not a record of "analyze --jsonl" (no "extrema"); compare takes the JSON Lines of analyze`);
     }
-    const lattice: Mat3 | null = r.value.lattice === undefined || r.value.lattice === null ? null : c.finiteMat3(r.value.lattice, 'lattice');
+    const lattice: Mat3 | null =
+      r.value.lattice === undefined || r.value.lattice === null ? null : c.finiteMat3(r.value.lattice, 'lattice');
     const rot = r.value.rotations;
     const rotations: Mat3[] | null =
       rot === undefined || rot === null ? null : c.arr(rot, 'rotations').map((m, i) => c.finiteMat3(m, `rotations[${i}]`));
@@ -86,7 +91,12 @@ export function runsFromRecords(records: readonly JsonRecord[]): { runs: RunInpu
 
 /** The JSON Lines record of one checked annotations file. */
 export function checkRecord(o: FileOutcome): Record<string, unknown> {
-  const status = o.error !== null ? 'error' : o.result.ok ? 'ok' : [o.result.stale.length ? 'stale' : '', o.result.drifted.length ? 'drifted' : ''].filter(Boolean).join('+');
+  const status =
+    o.error !== null
+      ? 'error'
+      : o.result.ok
+        ? 'ok'
+        : [o.result.stale.length ? 'stale' : '', o.result.drifted.length ? 'drifted' : ''].filter(Boolean).join('+');
   return {
     path: o.file,
     status,
@@ -118,7 +128,9 @@ export function outcomesFromRecords(records: readonly JsonRecord[]): FileOutcome
     const c = new JsonShape(r.where);
     const v = r.value;
     if (v.status === undefined || v.annotations === undefined) {
-      throw new ValleyscopeError(`${r.where}: not a record of "check --jsonl" (no "status" or "annotations"); check takes the JSON Lines of check`);
+      throw new ValleyscopeError(
+        `${r.where}: not a record of "check --jsonl" (no "status" or "annotations"); check takes the JSON Lines of check`,
+      );
     }
     const doc = v.annotations === null ? null : parseAnnotations(JSON.stringify(c.obj(v.annotations, 'annotations')), r.path);
     if (v.error !== null && v.error !== undefined) return { file: r.path, doc, result: null, error: c.str(v.error, 'error') };

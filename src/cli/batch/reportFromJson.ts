@@ -79,7 +79,13 @@ const MAX_COUNT = 2 ** 31;
 function point(c: JsonShape, v: unknown, f: string): BandPoint {
   const o = c.obj(v, f);
   const spin = c.int(o.spin, `${f}.spin`, 0, 1) as 0 | 1;
-  return { band: c.int(o.band, `${f}.band`, 1, MAX_COUNT), spin, k: c.vec3(o.k, `${f}.k`), eV: c.num(o.eV, `${f}.eV`), label: c.strOrNull(o.label, `${f}.label`) };
+  return {
+    band: c.int(o.band, `${f}.band`, 1, MAX_COUNT),
+    spin,
+    k: c.vec3(o.k, `${f}.k`),
+    eV: c.num(o.eV, `${f}.eV`),
+    label: c.strOrNull(o.label, `${f}.label`),
+  };
 }
 
 function gap(c: JsonShape, v: unknown, f: string): GapReport | null {
@@ -120,7 +126,12 @@ function mass(c: JsonShape, v: unknown, f: string): MassFit {
 function tensor(c: JsonShape, v: unknown, f: string): MassTensor | null {
   if (v === null) return null;
   const o = c.obj(v, f);
-  const t: MassTensor = { ...o, principal: c.vec3(o.principal, `${f}.principal`), axes: c.mat3(o.axes, `${f}.axes`), method: c.str(o.method, `${f}.method`) };
+  const t: MassTensor = {
+    ...o,
+    principal: c.vec3(o.principal, `${f}.principal`),
+    axes: c.mat3(o.axes, `${f}.axes`),
+    method: c.str(o.method, `${f}.method`),
+  };
   if (o.points !== undefined) t.points = c.int(o.points, `${f}.points`, 0, MAX_COUNT);
   if (o.residual_meV !== undefined) t.residual_meV = c.numOrNaN(o.residual_meV, `${f}.residual_meV`);
   if (o.stderr !== undefined) t.stderr = c.vec3(o.stderr, `${f}.stderr`);
@@ -171,7 +182,8 @@ export function reportFromJson(v: unknown, where: string): Report {
     cautions: c.strings(o.cautions, 'cautions'),
   };
   if (o.gapReason !== undefined) rep.gapReason = c.str(o.gapReason, 'gapReason');
-  if (o.crossingBands !== undefined) rep.crossingBands = c.arr(o.crossingBands, 'crossingBands').map((b, i) => c.int(b, `crossingBands[${i}]`, 1, MAX_COUNT));
+  if (o.crossingBands !== undefined)
+    rep.crossingBands = c.arr(o.crossingBands, 'crossingBands').map((b, i) => c.int(b, `crossingBands[${i}]`, 1, MAX_COUNT));
   if (o.spinGaps !== undefined) rep.spinGaps = c.arr(o.spinGaps, 'spinGaps').map((g, i) => gap(c, g, `spinGaps[${i}]`));
   return rep;
 }

@@ -37,7 +37,13 @@ export function failureSentence(e: unknown, path: string): string {
 }
 
 /** The JSON Lines record of an analysed run: `path`, the `--json` contract, and what `compare` needs to match valleys up to symmetry. */
-async function analyzeLine(path: string, settings: Partial<AnalysisSettings>, read: ReadOptions, zero: EnergyZeroMode, file?: string): Promise<Record<string, unknown>> {
+async function analyzeLine(
+  path: string,
+  settings: Partial<AnalysisSettings>,
+  read: ReadOptions,
+  zero: EnergyZeroMode,
+  file?: string,
+): Promise<Record<string, unknown>> {
   // The eigenvalue file found when the runs were searched, when known (the same file loadRun would find).
   const bs = await loadRun(nodeFileAccessor, file ?? path, read);
   const report = analyzeBandStructure(bs, settings);
@@ -57,7 +63,12 @@ export async function runTask(task: BatchTask): Promise<BatchResult> {
   switch (task.kind) {
     case 'analyze':
       try {
-        return { kind: 'analyze', path, line: JSON.stringify(await analyzeLine(path, task.settings, task.read, task.zero ?? 'vbm', task.file)), failed: false };
+        return {
+          kind: 'analyze',
+          path,
+          line: JSON.stringify(await analyzeLine(path, task.settings, task.read, task.zero ?? 'vbm', task.file)),
+          failed: false,
+        };
       } catch (e) {
         return { kind: 'analyze', path, line: JSON.stringify({ path, error: failureSentence(e, path) }), failed: true };
       }

@@ -64,8 +64,18 @@ export async function readOptionsFor(
       if (!(await nodeFileAccessor.stat(fromCommandLine))) throw new ValleyscopeError(`--structure: ${fromCommandLine}: no such file`);
       file = { path: fromCommandLine, bytes: await nodeFileAccessor.readFile(fromCommandLine, READ_LIMITS.structure) };
     } else {
-      file = await readRecordedPath(nodeFileAccessor, dirname(annotationsFile), s.structureFile, 'settings.structureFile', annotationsFile, 'structure');
-      if (!file) throw new ValleyscopeError(`the structure file ${shown(s.structureFile)} recorded in ${annotationsFile} (settings.structureFile) is missing`);
+      file = await readRecordedPath(
+        nodeFileAccessor,
+        dirname(annotationsFile),
+        s.structureFile,
+        'settings.structureFile',
+        annotationsFile,
+        'structure',
+      );
+      if (!file)
+        throw new ValleyscopeError(
+          `the structure file ${shown(s.structureFile)} recorded in ${annotationsFile} (settings.structureFile) is missing`,
+        );
     }
     let st;
     try {
@@ -86,7 +96,8 @@ export async function readOptionsFor(
 async function readIfPresent(path: string): Promise<Uint8Array | null> {
   const st = await nodeFileAccessor.stat(path);
   if (!st) return null;
-  if (st.type !== 'file') throw new ValleyscopeError(notRegularSentence(path, st, 'the annotations file') + '; remove it to write annotations there');
+  if (st.type !== 'file')
+    throw new ValleyscopeError(notRegularSentence(path, st, 'the annotations file') + '; remove it to write annotations there');
   await checkConfined(nodeFileAccessor, dirname(path), path, 'the annotations file', 'annotations');
   return nodeFileAccessor.readFile(path, READ_LIMITS.annotations);
 }
@@ -127,7 +138,8 @@ export async function annotateOne(
     try {
       older = parseAnnotations(oldText, target, readWarnings);
     } catch (e) {
-      if (e instanceof ValleyscopeError) throw new ValleyscopeError(`${e.message}. The annotations file was left as it is; fix it (or move it away) and run annotate again`);
+      if (e instanceof ValleyscopeError)
+        throw new ValleyscopeError(`${e.message}. The annotations file was left as it is; fix it (or move it away) and run annotate again`);
       throw e;
     }
   }
@@ -162,14 +174,19 @@ export async function annotateOne(
   }
   await writeFileSafely(target, text, { ...faults, expectExisting: oldBytes });
   if (!older) {
-    io.out(`${target}: created with ${doc.entries.length} entries${doc.entries.length ? ` (${doc.entries.map((e) => e.id).join(', ')})` : ''}`);
+    io.out(
+      `${target}: created with ${doc.entries.length} entries${doc.entries.length ? ` (${doc.entries.map((e) => e.id).join(', ')})` : ''}`,
+    );
     return;
   }
   const changes = compareAnnotations(older, doc, EXACT_TOLERANCES);
-  io.out(`${target}: updated; ${changes.length === 0 ? 'no recorded number moved (fit details, warnings or layout only)' : `${changes.length} change${changes.length === 1 ? '' : 's'}`}${reviewSentence(merged!.summary)}`);
+  io.out(
+    `${target}: updated; ${changes.length === 0 ? 'no recorded number moved (fit details, warnings or layout only)' : `${changes.length} change${changes.length === 1 ? '' : 's'}`}${reviewSentence(merged!.summary)}`,
+  );
   for (const c of changes) io.out(`  ${c.message}`);
   for (const f of merged!.summary.moved.filter((x) => x.reviewed)) io.out(`  moved (note and status kept): ${f.from} → ${f.to}`);
-  for (const f of merged!.summary.folded.filter((x) => x.reviewed)) io.out(`  folded into one entry (the run is no longer spin-polarised): ${f.from} → ${f.to}`);
+  for (const f of merged!.summary.folded.filter((x) => x.reviewed))
+    io.out(`  folded into one entry (the run is no longer spin-polarised): ${f.from} → ${f.to}`);
   for (const f of merged!.summary.orphaned.filter((x) => x.reviewed)) io.out(`  orphaned (kept with "found": false): ${f.from}`);
 }
 

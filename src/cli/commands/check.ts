@@ -100,7 +100,9 @@ export async function searchAnnotationsFiles(path: string): Promise<{ found: Fou
     );
   }
   if (linkedDirs.length) {
-    notes.push(`${path}: ${linkedDirs.length} symbolic link${linkedDirs.length === 1 ? '' : 's'} to folders ${linkedDirs.length === 1 ? 'was' : 'were'} not followed (first: ${linkedDirs[0]}); name the folder on the command line to check it`);
+    notes.push(
+      `${path}: ${linkedDirs.length} symbolic link${linkedDirs.length === 1 ? '' : 's'} to folders ${linkedDirs.length === 1 ? 'was' : 'were'} not followed (first: ${linkedDirs[0]}); name the folder on the command line to check it`,
+    );
   }
   return { found, notes };
 }
@@ -210,21 +212,29 @@ function markdownReport(outcomes: FileOutcome[], notes: string[] = []): string {
 }
 
 export async function runCheck(argv: string[], io: CliIO): Promise<number> {
-  const p = parseArgs(argv, { format: { value: true }, 'energy-tolerance': { value: true }, 'mass-tolerance': { value: true }, ...BATCH_FLAGS });
+  const p = parseArgs(argv, {
+    format: { value: true },
+    'energy-tolerance': { value: true },
+    'mass-tolerance': { value: true },
+    ...BATCH_FLAGS,
+  });
   const batch = batchOptionsFromArgs(p);
   const format = flag(p, 'format') ?? 'text';
   if (format !== 'text' && format !== 'md') throw new UsageError(`--format must be text or md, got "${format}"`);
   const tol: Tolerances = {
     ...DEFAULT_TOLERANCES,
-    energy_meV: numberFlag(p, 'energy-tolerance', (x) => x >= 0 && x <= 1e4, 'zero or a positive number of meV') ?? DEFAULT_TOLERANCES.energy_meV,
-    mass_percent: numberFlag(p, 'mass-tolerance', (x) => x >= 0 && x <= 1000, 'zero or a positive per cent') ?? DEFAULT_TOLERANCES.mass_percent,
+    energy_meV:
+      numberFlag(p, 'energy-tolerance', (x) => x >= 0 && x <= 1e4, 'zero or a positive number of meV') ?? DEFAULT_TOLERANCES.energy_meV,
+    mass_percent:
+      numberFlag(p, 'mass-tolerance', (x) => x >= 0 && x <= 1000, 'zero or a positive per cent') ?? DEFAULT_TOLERANCES.mass_percent,
   };
   const roots = p.positional.length ? p.positional : ['.'];
   let outcomes: FileOutcome[];
   let notes: string[] = [];
   if (roots.some(isJsonLinesPath)) {
     // The shards of a job array, merged: the same outcomes, in the same order, as one machine's run.
-    if (!roots.every(isJsonLinesPath)) throw new UsageError('give either JSON Lines files (*.jsonl) of earlier checks or folders to check, not both');
+    if (!roots.every(isJsonLinesPath))
+      throw new UsageError('give either JSON Lines files (*.jsonl) of earlier checks or folders to check, not both');
     if (batch.shard) throw new UsageError('--shard selects runs to check, not records of JSON Lines files');
     outcomes = outcomesFromRecords(await readJsonLines(nodeFileAccessor, roots));
   } else {
@@ -240,7 +250,8 @@ export async function runCheck(argv: string[], io: CliIO): Promise<number> {
       return 1;
     }
     const mine = files.filter((f) => inShard(f.file, batch.shard));
-    if (batch.shard) io.err(`valleyscope: shard ${batch.shard.index}/${batch.shard.count}: ${mine.length} of the ${files.length} annotations files`);
+    if (batch.shard)
+      io.err(`valleyscope: shard ${batch.shard.index}/${batch.shard.count}: ${mine.length} of the ${files.length} annotations files`);
     outcomes = await checkInPool(mine, tol, batch, io);
   }
   if (batch.jsonl) for (const o of outcomes) io.out(JSON.stringify(checkRecord(o)));

@@ -73,7 +73,17 @@ export async function runCompare(argv: string[], io: CliIO): Promise<number> {
       }
     }
     const composition = bs.structure ? compositionOf(bs.structure.species) : null;
-    runs.push({ name: path, report, lattice: bs.lattice, rotations, latticeType, composition, fermi_eV: bs.fermiEnergy, pathLines: labelledLines(bs), origin: 'data' });
+    runs.push({
+      name: path,
+      report,
+      lattice: bs.lattice,
+      rotations,
+      latticeType,
+      composition,
+      fermi_eV: bs.fermiEnergy,
+      pathLines: labelledLines(bs),
+      origin: 'data',
+    });
   }
   const c = compareRuns(runs, reference);
   const zeros: Record<string, EnergyZero> = {};

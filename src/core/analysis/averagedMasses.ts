@@ -36,7 +36,11 @@ export function averagedFromPrincipal(signed: Vec3, valleys: number | null, sour
   const pos = signed.every((m) => m > 0);
   const neg = signed.every((m) => m < 0);
   if (!pos && !neg) {
-    return { dosMass: null, conductivityMass: null, note: `No averaged masses: the ${source} has principal masses of both signs (a saddle point, not a valley).` };
+    return {
+      dosMass: null,
+      conductivityMass: null,
+      note: `No averaged masses: the ${source} has principal masses of both signs (a saddle point, not a valley).`,
+    };
   }
   const m = signed.map(Math.abs) as Vec3;
   const nv = valleys ?? 1;
@@ -95,7 +99,14 @@ export interface PathLimitedDos {
  * it, else from the spread of the branch's directional masses. Null when a branch has no direction or the
  * masses are not all of the extremum's sign.
  */
-export function pathLimitedDosMass(masses: BranchDirectionMass[], branches: number, cartesianOps: Mat3[] | null, cubicAxes: boolean, valleys: number | null, maximum: boolean): PathLimitedDos | null {
+export function pathLimitedDosMass(
+  masses: BranchDirectionMass[],
+  branches: number,
+  cartesianOps: Mat3[] | null,
+  cubicAxes: boolean,
+  valleys: number | null,
+  maximum: boolean,
+): PathLimitedDos | null {
   if (!masses.length || !masses.every((m) => (maximum ? m.mass < 0 : m.mass > 0))) return null;
   const perBranch: number[] = [];
   const starOf = (u: Vec3): number => (cartesianOps && cartesianOps.length ? directionStarSize(u, cartesianOps) : 1);
@@ -122,12 +133,26 @@ export function pathLimitedDosMass(masses: BranchDirectionMass[], branches: numb
   let warpedValue: number | null = null;
   if (cubicAxes && branches >= 2) {
     const dirs: Vec3[] = [];
-    for (const m of masses) if (!dirs.some((d) => Math.abs(d[0] * m.direction[0] + d[1] * m.direction[1] + d[2] * m.direction[2]) > 1 - 1e-6)) dirs.push(m.direction);
+    for (const m of masses)
+      if (!dirs.some((d) => Math.abs(d[0] * m.direction[0] + d[1] * m.direction[1] + d[2] * m.direction[2]) > 1 - 1e-6))
+        dirs.push(m.direction);
     const items = dirs.map((u) => {
-      const inv = masses.filter((m) => Math.abs(m.direction[0] * u[0] + m.direction[1] * u[1] + m.direction[2] * u[2]) > 1 - 1e-6).map((m) => 1 / m.mass);
+      const inv = masses
+        .filter((m) => Math.abs(m.direction[0] * u[0] + m.direction[1] * u[1] + m.direction[2] * u[2]) > 1 - 1e-6)
+        .map((m) => 1 / m.mass);
       return { u, upper: Math.max(...inv), lower: Math.min(...inv) };
     });
-    const three = branches === 3 ? threefoldFromDirections(dirs.map((u) => ({ u, inv: masses.filter((m) => Math.abs(m.direction[0] * u[0] + m.direction[1] * u[1] + m.direction[2] * u[2]) > 1 - 1e-6).map((m) => 1 / m.mass) }))) : null;
+    const three =
+      branches === 3
+        ? threefoldFromDirections(
+            dirs.map((u) => ({
+              u,
+              inv: masses
+                .filter((m) => Math.abs(m.direction[0] * u[0] + m.direction[1] * u[1] + m.direction[2] * u[2]) > 1 - 1e-6)
+                .map((m) => 1 / m.mass),
+            })),
+          )
+        : null;
     const p = !three && items.length >= 2 ? warpingFromDirections(items) : null;
     if (three) {
       // Three bands (no spin-orbit): the 3×3 form in L, M, N describes every branch.
@@ -149,7 +174,9 @@ export function pathLimitedDosMass(masses: BranchDirectionMass[], branches: numb
   const note =
     `Path-limited density-of-states mass of the ${branches} branches together: each branch's ⟨|m|^(3/2)⟩ over the ${masses.length / branches} path direction${masses.length / branches === 1 ? '' : 's'}, each weighted by its star (${classes.join(', ')} equivalent directions${cartesianOps ? '' : '; symmetry unknown, so equal weights'}), then (Σ m_i^(3/2))^(2/3)${nv > 1 ? ` × N_v^(2/3), N_v = ${nv}` : ''}: ` +
     `branch masses ${perBranch.map((x) => x.toPrecision(3)).join(', ')} m_e, total ${dosMass.toPrecision(3)} ± ${error.toPrecision(2)} m_e (estimated error: ` +
-    (warpedValue !== null ? `difference from the angular integral of the ${branches === 3 ? 'three-band (L, M, N)' : 'warped'} form fitted to these directions, ${warpedValue.toPrecision(3)} m_e` : "half the spread of the branch's directional masses") +
+    (warpedValue !== null
+      ? `difference from the angular integral of the ${branches === 3 ? 'three-band (L, M, N)' : 'warped'} form fitted to these directions, ${warpedValue.toPrecision(3)} m_e`
+      : "half the spread of the branch's directional masses") +
     `). Warped bands: a grid or a tensor run (valleyscope tensor-kpoints) gives the full angular average.${valleys === null ? ' N_v unknown: taken as 1.' : ''}`;
   return { perBranch, dosMass, error, note };
 }

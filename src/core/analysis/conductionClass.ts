@@ -98,13 +98,15 @@ export function fillingFermiLevel(bs: BandStructure, electrons: number, perBand:
   const w = kWeights(bs);
   let lo = Infinity;
   let hi = -Infinity;
-  for (const e of bs.energies) for (let i = 0; i < e.length; i++) {
-    if (e[i]! < lo) lo = e[i]!;
-    if (e[i]! > hi) hi = e[i]!;
-  }
+  for (const e of bs.energies)
+    for (let i = 0; i < e.length; i++) {
+      if (e[i]! < lo) lo = e[i]!;
+      if (e[i]! > hi) hi = e[i]!;
+    }
   const count = (ef: number): number => {
     let n = 0;
-    for (const e of bs.energies) for (let k = 0; k < bs.nk; k++) for (let b = 0; b < bs.nBands; b++) if (e[k * bs.nBands + b]! <= ef) n += w[k]! * perBand;
+    for (const e of bs.energies)
+      for (let k = 0; k < bs.nk; k++) for (let b = 0; b < bs.nBands; b++) if (e[k * bs.nBands + b]! <= ef) n += w[k]! * perBand;
     return n;
   };
   if (count(hi) < electrons - 1e-9) return null;
@@ -139,12 +141,20 @@ function wholeBandsPerChannel(bs: BandStructure, occ: OccupationRule | null, spi
  * Semimetal test for one channel of a metal: exactly bands n−1 and n cross (n whole bands filled), band n−1
  * dips above E_F (hole pockets), band n below (electron pockets), and the two never touch.
  */
-function semimetalVerdict(bs: BandStructure, spin: number, crossing: number[], nFilled: number | null): { semimetal: boolean | null; detail: string } {
+function semimetalVerdict(
+  bs: BandStructure,
+  spin: number,
+  crossing: number[],
+  nFilled: number | null,
+): { semimetal: boolean | null; detail: string } {
   const offset = bs.bandNumberOffset ?? 0;
   // Two adjacent bands must cross; whether they hold whole bands' worth of electrons needs the count.
   if (crossing.length !== 2 || crossing[1] !== crossing[0]! + 1) return { semimetal: false, detail: '' };
   if (nFilled === null) {
-    return { semimetal: null, detail: ` Bands ${crossing[0]! + 1 + offset} and ${crossing[1] + 1 + offset} both cross the Fermi level; without the electron count, whether this is a semimetal (whole bands filled, electron and hole pockets) cannot be told.` };
+    return {
+      semimetal: null,
+      detail: ` Bands ${crossing[0]! + 1 + offset} and ${crossing[1] + 1 + offset} both cross the Fermi level; without the electron count, whether this is a semimetal (whole bands filled, electron and hole pockets) cannot be told.`,
+    };
   }
   const lower = nFilled - 1;
   const upper = nFilled;
@@ -162,7 +172,10 @@ function semimetalVerdict(bs: BandStructure, spin: number, crossing: number[], n
     upperMin = Math.min(upperMin, c);
   }
   if (closest < DISTINCT_BANDS_EV) {
-    return { semimetal: false, detail: ` Bands ${lower + 1 + offset} and ${upper + 1 + offset} touch or cross (${(closest * 1000).toFixed(1)} meV apart at closest), so the overlap is not between distinct bands.` };
+    return {
+      semimetal: false,
+      detail: ` Bands ${lower + 1 + offset} and ${upper + 1 + offset} touch or cross (${(closest * 1000).toFixed(1)} meV apart at closest), so the overlap is not between distinct bands.`,
+    };
   }
   return {
     semimetal: true,
@@ -238,13 +251,18 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
       // Bands only smeared at E_F (partly filled everywhere sampled) lie near it; the crossing ones straddle it.
       if (straddling.length > 0) crossing.splice(0, crossing.length, ...straddling);
       let reason: string;
-      if (!metal) reason = 'The occupations fill every band either completely or not at all at each k-point: no band crosses the Fermi level.';
-      else if (straddling.length > 0) reason = `The occupations show ${bandList(straddling, offset)} filled at some k-points and empty at others: ${straddling.length === 1 ? 'it crosses' : 'they cross'} the Fermi level.`;
-      else reason = `The occupations show ${bandList(crossing, offset)} partly filled (occupation ${partlyFilled!.value.toFixed(2)} of a full state): states lie at the Fermi level.`;
+      if (!metal)
+        reason = 'The occupations fill every band either completely or not at all at each k-point: no band crosses the Fermi level.';
+      else if (straddling.length > 0)
+        reason = `The occupations show ${bandList(straddling, offset)} filled at some k-points and empty at others: ${straddling.length === 1 ? 'it crosses' : 'they cross'} the Fermi level.`;
+      else
+        reason = `The occupations show ${bandList(crossing, offset)} partly filled (occupation ${partlyFilled!.value.toFixed(2)} of a full state): states lie at the Fermi level.`;
       per.push({ spin: s as 0 | 1, metal, semimetal: null, crossing, reason });
     }
     if (largestTail > 1e-4 && !per.some((v) => v.metal)) {
-      warnings.push(`Smearing tails reach ${largestTail.toExponential(1)} of a full state: partly filled states below ${TAIL_LIMIT} were read as tails, not as a metal.`);
+      warnings.push(
+        `Smearing tails reach ${largestTail.toExponential(1)} of a full state: partly filled states below ${TAIL_LIMIT} were read as tails, not as a metal.`,
+      );
     }
     if (fermi === null && Number.isFinite(maxFilled) && Number.isFinite(minEmpty)) {
       fermi = maxFilled < minEmpty ? 0.5 * (maxFilled + minEmpty) : fillingFermiLevel(bs, totalElectrons(bs, fractions, perBand), perBand);
@@ -253,7 +271,8 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
   } else if (written !== null) {
     evidence = 'fermi';
     const perChannel = bs.nSpin === 2 && bs.fermiEnergies ? bs.fermiEnergies : null;
-    const source = bs.fermiSource === 'highestOccupiedLevel' ? 'highest occupied level' : perChannel ? "channel's Fermi energy" : 'Fermi energy';
+    const source =
+      bs.fermiSource === 'highestOccupiedLevel' ? 'highest occupied level' : perChannel ? "channel's Fermi energy" : 'Fermi energy';
     for (const s of spins) {
       const ef = perChannel ? perChannel[s]! : written;
       const crossing = crossingAt(s, ef);
@@ -265,7 +284,11 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
   } else if (bs.electrons !== null && bs.electrons > 0 && occ) {
     const slots = bs.electrons / perBand;
     const whole = Math.abs(slots - Math.round(slots)) < 1e-6;
-    const spinWord = bs.spinorbit ? 'with spinors (one electron per band)' : bs.nSpin === 2 ? 'in two spin channels' : 'without spin polarisation (two electrons per band)';
+    const spinWord = bs.spinorbit
+      ? 'with spinors (one electron per band)'
+      : bs.nSpin === 2
+        ? 'in two spin channels'
+        : 'without spin polarisation (two electrons per band)';
     if (!whole && bs.nSpin === 1) {
       evidence = 'count';
       fermi = fillingFermiLevel(bs, bs.electrons, perBand);
@@ -307,7 +330,8 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
         const metal = partial.length > 0 || overlap;
         let crossing = partial;
         let reason: string;
-        if (!metal) reason = `${bs.electrons} electrons ${spinWord} fill whole bands, and the highest filled state lies below the lowest empty one.`;
+        if (!metal)
+          reason = `${bs.electrons} electrons ${spinWord} fill whole bands, and the highest filled state lies below the lowest empty one.`;
         else {
           const ef = fillingFermiLevel(bs, bs.electrons, perBand);
           if (ef !== null) {
@@ -328,7 +352,14 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
     }
   } else {
     for (const s of spins) {
-      per.push({ spin: s as 0 | 1, metal: null, semimetal: null, crossing: [], reason: 'Neither occupations, a Fermi energy nor an electron count is known: whether a band crosses the Fermi level cannot be told.' });
+      per.push({
+        spin: s as 0 | 1,
+        metal: null,
+        semimetal: null,
+        crossing: [],
+        reason:
+          'Neither occupations, a Fermi energy nor an electron count is known: whether a band crosses the Fermi level cannot be told.',
+      });
     }
   }
 
@@ -350,7 +381,9 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
     if (bs.electrons !== null && bs.nSpin === 1 && !per[0]!.metal) {
       const slots = bs.electrons / perBand;
       if (Math.abs(slots - Math.round(slots)) > 1e-6) {
-        warnings.push(`${bs.electrons} electrons cannot fill whole bands (${slots} bands), yet the ${evidence === 'occupations' ? 'occupations' : 'Fermi energy'} of the file show no band crossing the Fermi level: check the electron count.`);
+        warnings.push(
+          `${bs.electrons} electrons cannot fill whole bands (${slots} bands), yet the ${evidence === 'occupations' ? 'occupations' : 'Fermi energy'} of the file show no band crossing the Fermi level: check the electron count.`,
+        );
       }
     }
   }
@@ -358,29 +391,51 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
     const inside = spins.some((s) => crossingAt(s, written).length > 0);
     const metalNow = per.some((v) => v.metal);
     if (inside && !metalNow && bs.fermiSource !== 'highestOccupiedLevel') {
-      warnings.push(`The Fermi energy the file writes (${eV(written)}) lies inside a band's range, but the occupations fill whole bands: the occupations were followed.`);
+      warnings.push(
+        `The Fermi energy the file writes (${eV(written)}) lies inside a band's range, but the occupations fill whole bands: the occupations were followed.`,
+      );
     }
   }
 
   const anyNull = per.some((v) => v.metal === null);
   const metal = anyNull ? null : per.some((v) => v.metal);
   const metals = per.filter((v) => v.metal);
-  const semimetal = metal === null ? null : !metal ? false : metals.every((v) => v.semimetal === true) ? true : metals.some((v) => v.semimetal === null) ? null : false;
+  const semimetal =
+    metal === null
+      ? null
+      : !metal
+        ? false
+        : metals.every((v) => v.semimetal === true)
+          ? true
+          : metals.some((v) => v.semimetal === null)
+            ? null
+            : false;
   let reason: string;
   if (per.length === 1) reason = per[0]!.reason;
   else {
-    const word = (v: ChannelVerdict): string => (v.metal === null ? 'undetermined' : v.semimetal ? 'semimetallic' : v.metal ? 'metallic' : 'gapped');
+    const word = (v: ChannelVerdict): string =>
+      v.metal === null ? 'undetermined' : v.semimetal ? 'semimetallic' : v.metal ? 'metallic' : 'gapped';
     reason = `Spin up is ${word(per[0]!)}, spin down ${word(per[1]!)}${metal && per.some((v) => v.metal === false) ? ' (a half-metal)' : ''}. ${per.map((v, i) => `${i === 0 ? 'Up' : 'Down'}: ${v.reason}`).join(' ')}`;
   }
   if (metal && fermi !== null && fermiEstimated) {
     reason += ` The file writes no Fermi energy: it was estimated at ${eV(fermi)} from the ${evidence === 'occupations' ? 'occupations' : 'electron count filling the sampled states'}.`;
   }
-  return { metal, semimetal, fermi_eV: metal ? fermi : written, fermiEstimated: metal ? fermiEstimated : false, evidence, reason, spins: per, warnings };
+  return {
+    metal,
+    semimetal,
+    fermi_eV: metal ? fermi : written,
+    fermiEstimated: metal ? fermiEstimated : false,
+    evidence,
+    reason,
+    spins: per,
+    warnings,
+  };
 }
 
 function totalElectrons(bs: BandStructure, fractions: Float64Array[], perBand: 1 | 2): number {
   const w = kWeights(bs);
   let n = 0;
-  for (const f of fractions) for (let k = 0; k < bs.nk; k++) for (let b = 0; b < bs.nBands; b++) n += w[k]! * perBand * f[k * bs.nBands + b]!;
+  for (const f of fractions)
+    for (let k = 0; k < bs.nk; k++) for (let b = 0; b < bs.nBands; b++) n += w[k]! * perBand * f[k * bs.nBands + b]!;
   return n;
 }

@@ -63,7 +63,14 @@ function withSpread(m: MassFit, fit: CurvatureFit, samples: LineSamples, setting
 /** k ≡ −k modulo a reciprocal lattice vector (2k integer): E is even along every line through it. */
 export const isTimeReversalInvariant = timeReversalInvariantK;
 
-export function directionalMasses(bs: BandStructure, spin: number, group: number[], band: number, rays: Ray[], s: DirectionalSettings): DirectionalResult {
+export function directionalMasses(
+  bs: BandStructure,
+  spin: number,
+  group: number[],
+  band: number,
+  rays: Ray[],
+  s: DirectionalSettings,
+): DirectionalResult {
   const masses: MassFit[] = [];
   const fits: CurvatureFit[] = [];
   const fitRays: Ray[] = [];

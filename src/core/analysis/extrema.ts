@@ -59,7 +59,8 @@ export function gridNeighbours(bs: BandStructure): NeighbourFn | null {
     const j = Math.floor(k / n3) % n2;
     const l = k % n3;
     const out: number[] = [];
-    const at = (a: number, b: number, c: number): number => (((a % m[0]!) + m[0]!) % m[0]! * n2 + (((b % m[1]!) + m[1]!) % m[1]!)) * n3 + (((c % m[2]!) + m[2]!) % m[2]!);
+    const at = (a: number, b: number, c: number): number =>
+      ((((a % m[0]!) + m[0]!) % m[0]!) * n2 + (((b % m[1]!) + m[1]!) % m[1]!)) * n3 + (((c % m[2]!) + m[2]!) % m[2]!);
     if (m[0]! > 1) out.push(at(i - 1, j, l), at(i + 1, j, l));
     if (m[1]! > 1) out.push(at(i, j - 1, l), at(i, j + 1, l));
     if (m[2]! > 1) out.push(at(i, j, l - 1), at(i, j, l + 1));
@@ -179,7 +180,18 @@ interface TopRegion {
  * for a minimum): a plateau of equal rounded values, or values closer than the rounding can tell apart,
  * is one extremum. Cost: the size of the region.
  */
-function topRegion(bs: BandStructure, e: Float64Array, nb: number, band: number, start: number, maximum: boolean, tol: number, neighbours: NeighbourFn, firstOf: Int32Array, nk: number): TopRegion {
+function topRegion(
+  bs: BandStructure,
+  e: Float64Array,
+  nb: number,
+  band: number,
+  start: number,
+  maximum: boolean,
+  tol: number,
+  neighbours: NeighbourFn,
+  firstOf: Int32Array,
+  nk: number,
+): TopRegion {
   const x = e[start * nb + band]!;
   const sign = maximum ? 1 : -1;
   const seen = new Set<number>([start]);
@@ -240,7 +252,9 @@ function plateauCentre(bs: BandStructure, plateau: number[], neighbours: Neighbo
 }
 
 function fracText(bs: BandStructure, k: number): string {
-  return `(${kpointAt(bs, k).map((x) => String(Number(x.toFixed(4)))).join(', ')})`;
+  return `(${kpointAt(bs, k)
+    .map((x) => String(Number(x.toFixed(4))))
+    .join(', ')})`;
 }
 
 export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
@@ -300,10 +314,13 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
     if (inp.network) {
       const rays = inp.network.raysFrom(k, (_, m) => m < 3);
       if (rays.length === 1 && extremumBeyondEnd(bs, st.spin, band, rays[0]!, kind === 'vbm')) {
-        warnings.push(`The band is still ${kind === 'vbm' ? 'rising' : 'falling'} at the end of the path here: the true ${kind === 'vbm' ? 'maximum' : 'minimum'} lies beyond the sampled path, so this edge and its masses are approximate.`);
+        warnings.push(
+          `The band is still ${kind === 'vbm' ? 'rising' : 'falling'} at the end of the path here: the true ${kind === 'vbm' ? 'maximum' : 'minimum'} lies beyond the sampled path, so this edge and its masses are approximate.`,
+        );
       }
       const crossing = crossingAt(inp, st.spin, st.band, k, window, precision);
-      if (crossing) warnings.push(`This band edge is where two bands cross (${crossing}): band-index masses here are not curvature masses.`);
+      if (crossing)
+        warnings.push(`This band edge is where two bands cross (${crossing}): band-index masses here are not curvature masses.`);
     }
     return { spin: st.spin, k, band, energy, kind, offset: 0, group, warnings };
   };
@@ -336,7 +353,18 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
     const bands = bandsInRange(bs, spin, occupied, edges.spins[spin], overallV - inp.range_eV, overallC + inp.range_eV);
     if (!bands.length) continue;
     const table = inp.network ? inp.network.neighbourTable() : gridTable(bs, firstOf, neighbours);
-    const found0 = scanCandidates(e, occupied, nb, bs.nk, firstOf, table.start, table.list, Int32Array.from(bands), overallV - inp.range_eV, overallC + inp.range_eV);
+    const found0 = scanCandidates(
+      e,
+      occupied,
+      nb,
+      bs.nk,
+      firstOf,
+      table.start,
+      table.list,
+      Int32Array.from(bands),
+      overallV - inp.range_eV,
+      overallC + inp.range_eV,
+    );
     for (let c = 0; c < found0.count; c++) {
       const i = found0.k[c]!;
       const b = found0.band[c]!;
@@ -362,20 +390,41 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
         region = topRegion(bs, e, nb, b, i, valence, mergeTol, neighbours, firstOf, bs.nk);
         for (const m of region.members) done.add(m * nb + b);
         if (region.outcome === 'higher') {
-          reject({ spin: spin as 0 | 1, k: plateau.representative, band: b, energy: x, reason: 'rounding', detail: `within ${ROUNDING_STEPS_MERGED} rounding steps (${(mergeTol * 1000).toPrecision(2)} meV) of a ${valence ? 'higher' : 'lower'} point of the same band: one extremum, counted there` });
+          reject({
+            spin: spin as 0 | 1,
+            k: plateau.representative,
+            band: b,
+            energy: x,
+            reason: 'rounding',
+            detail: `within ${ROUNDING_STEPS_MERGED} rounding steps (${(mergeTol * 1000).toPrecision(2)} meV) of a ${valence ? 'higher' : 'lower'} point of the same band: one extremum, counted there`,
+          });
           continue;
         }
       }
       const k = plateau.representative;
       const xk = e[k * nb + b]!;
       if (region.outcome === 'flat') {
-        reject({ spin: spin as 0 | 1, k, band: b, energy: xk, reason: 'shallow', detail: `the band varies by no more than ${(mergeTol * 1000).toPrecision(2)} meV around here: no extremum stands out from the rounding` });
+        reject({
+          spin: spin as 0 | 1,
+          k,
+          band: b,
+          energy: xk,
+          reason: 'shallow',
+          detail: `the band varies by no more than ${(mergeTol * 1000).toPrecision(2)} meV around here: no extremum stands out from the rounding`,
+        });
         continue;
       }
       if (inp.network) {
         const rays = inp.network.raysFrom(k, (_, m) => m < 3);
         if (rays.length === 1 && extremumBeyondEnd(bs, spin, b, rays[0]!, valence)) {
-          reject({ spin: spin as 0 | 1, k, band: b, energy: xk, reason: 'boundary', detail: `at the end of the sampled path with the band still ${valence ? 'rising' : 'falling'} beyond it` });
+          reject({
+            spin: spin as 0 | 1,
+            k,
+            band: b,
+            energy: xk,
+            reason: 'boundary',
+            detail: `at the end of the sampled path with the band still ${valence ? 'rising' : 'falling'} beyond it`,
+          });
           continue;
         }
         const crossing = crossingAt(inp, spin, b, k, window, precision);
@@ -384,7 +433,11 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
           continue;
         }
       }
-      if (inp.equivalent && [...sites, ...found].some((f) => f.spin === spin && Math.abs(f.energy - xk) <= inp.degeneracy_eV && inp.equivalent!(f.k, k))) continue;
+      if (
+        inp.equivalent &&
+        [...sites, ...found].some((f) => f.spin === spin && Math.abs(f.energy - xk) <= inp.degeneracy_eV && inp.equivalent!(f.k, k))
+      )
+        continue;
       if (seenAt(spin, k, xk)) continue;
       const group = degenerateGroup(bs, spin, k, b, inp.degeneracy_eV);
       const rep = valence ? group[group.length - 1]! : group[0]!;
@@ -413,7 +466,14 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
  * of band b never exceeds that of band b + 1: walking down from the top valence band (up from the bottom
  * conduction band) and stopping at the first band out of range reads only the bands near the edges.
  */
-function bandsInRange(bs: BandStructure, spin: number, occupied: Uint8Array, edges: { vbm: EdgeState | null; cbm: EdgeState | null } | undefined, valenceFloor: number, conductionCeiling: number): number[] {
+function bandsInRange(
+  bs: BandStructure,
+  spin: number,
+  occupied: Uint8Array,
+  edges: { vbm: EdgeState | null; cbm: EdgeState | null } | undefined,
+  valenceFloor: number,
+  conductionCeiling: number,
+): number[] {
   const e = bs.energies[spin]!;
   const nb = bs.nBands;
   const extreme = (b: number, valence: boolean): number => {
@@ -459,7 +519,18 @@ interface CandidateList {
  * both above and below. Plain loops over typed arrays (this runs over the whole path; everything after it
  * only over the candidates).
  */
-function scanCandidates(e: Float64Array, occupied: Uint8Array, nb: number, nk: number, firstOf: Int32Array, start: Int32Array, list: Int32Array, bands: Int32Array, valenceFloor: number, conductionCeiling: number): CandidateList {
+function scanCandidates(
+  e: Float64Array,
+  occupied: Uint8Array,
+  nb: number,
+  nk: number,
+  firstOf: Int32Array,
+  start: Int32Array,
+  list: Int32Array,
+  bands: Int32Array,
+  valenceFloor: number,
+  conductionCeiling: number,
+): CandidateList {
   let cap = 64;
   let k = new Int32Array(cap);
   let band = new Int32Array(cap);

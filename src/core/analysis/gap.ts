@@ -111,7 +111,14 @@ export function smallestDirectGap(bs: BandStructure, occ: OccupationRule, spins:
 }
 
 /** The gap report for the given spin channels (all channels for the overall gap). */
-export function gapReport(bs: BandStructure, occ: OccupationRule, vbm: EdgeState | null, cbm: EdgeState | null, metal: boolean, spins: number[]): GapReport | null {
+export function gapReport(
+  bs: BandStructure,
+  occ: OccupationRule,
+  vbm: EdgeState | null,
+  cbm: EdgeState | null,
+  metal: boolean,
+  spins: number[],
+): GapReport | null {
   if (metal || !vbm || !cbm) return null;
   const dg = smallestDirectGap(bs, occ, spins);
   if (!dg) return null;

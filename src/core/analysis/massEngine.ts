@@ -63,7 +63,14 @@ export function engineContext(bs: BandStructure): EngineContext {
     } else neighbours = gridNeighbours(bs);
   }
   const energyStep = energyRoundingStep(bs);
-  const ctx: EngineContext = { bs, network, neighbours, energySigma: energyStep / Math.sqrt(12), energyStep, symmetry: symmetryContext(bs) };
+  const ctx: EngineContext = {
+    bs,
+    network,
+    neighbours,
+    energySigma: energyStep / Math.sqrt(12),
+    energyStep,
+    symmetry: symmetryContext(bs),
+  };
   contexts.set(bs, ctx);
   return ctx;
 }
@@ -132,7 +139,9 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   }
   const near = nearestOtherBand(bs, site);
   if (near && near.gap_meV < settings.window_meV) {
-    warnings.push(`Band ${near.band + 1} lies only ${near.gap_meV.toFixed(1)} meV away at this point, inside the ${settings.window_meV} meV fit window: the bands may mix (an avoided crossing) and the curvature of one band index can be unreliable; compare a smaller window.`);
+    warnings.push(
+      `Band ${near.band + 1} lies only ${near.gap_meV.toFixed(1)} meV away at this point, inside the ${settings.window_meV} meV fit window: the bands may mix (an avoided crossing) and the curvature of one band index can be unreliable; compare a smaller window.`,
+    );
   }
   const valleyDegeneracy = valleysAt(ctx.symmetry, k);
   if (valleyDegeneracy === null && ctx.symmetry.unavailable) warnings.push(ctx.symmetry.unavailable);
@@ -145,7 +154,8 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   if (network) {
     if (!network.hasLengths) warnings.push('No lattice and no written path distances: masses cannot be given in m_e.');
     else {
-      if (network.geometry.cartesian === null) warnings.push('No lattice: distances are as the file wrote them and directions are unknown (written as zero vectors).');
+      if (network.geometry.cartesian === null)
+        warnings.push('No lattice: distances are as the file wrote them and directions are unknown (written as zero vectors).');
       const rays = network.raysFrom(site.k, fitExtent(bs, site, settings.window_meV / 1000));
       const dm = directionalMasses(bs, site.spin, site.group, site.band, rays, {
         method: settings.method,
@@ -159,11 +169,14 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
         if (v) warnings.push(v);
       }
       warnings.push(...dm.warnings);
-      if (crossed) warnings.push('Along some direction a branch crosses another band: it was followed across the crossing, not by band index.');
+      if (crossed)
+        warnings.push('Along some direction a branch crosses another band: it was followed across the crossing, not by band index.');
     }
   } else if (bs.nk > 1) {
     // A tensor run (tensor-kpoints), or a grid around a degenerate edge: tensorRun.ts.
-    offPath = tensorRunMasses(bs, site.spin, site.group, site.k, ctx.symmetry.sym, maximum, valleyDegeneracy, ctx.energySigma) ?? (g > 1 ? gridWarpedMasses(bs, site.spin, site.group, site.k, ctx.symmetry.sym, ctx.energySigma) : null);
+    offPath =
+      tensorRunMasses(bs, site.spin, site.group, site.k, ctx.symmetry.sym, maximum, valleyDegeneracy, ctx.energySigma) ??
+      (g > 1 ? gridWarpedMasses(bs, site.spin, site.group, site.k, ctx.symmetry.sym, ctx.energySigma) : null);
     if (offPath) {
       masses = offPath.masses;
       tensor = offPath.tensor;
@@ -179,7 +192,9 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   // Tensor from directional masses and the little group of k, when the path and symmetry suffice.
   const quotable = masses.filter((m) => m.determined);
   if (masses.length > quotable.length) {
-    warnings.push(`${masses.length - quotable.length} of the ${masses.length} directional masses are undetermined (see each one): averaged masses and the tensor use only the determined ones.`);
+    warnings.push(
+      `${masses.length - quotable.length} of the ${masses.length} directional masses are undetermined (see each one): averaged masses and the tensor use only the determined ones.`,
+    );
   }
   if (!tensor && g === 1 && quotable.length > 0 && bs.lattice && network?.geometry.cartesian) {
     const ops = cartesianLittleGroup(ctx.symmetry, k, bs.lattice);
@@ -196,7 +211,9 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
           points: quotable.reduce((s, m) => s + m.points, 0),
         };
       } else if (r.reason) {
-        warnings.push(`No mass tensor: ${r.reason}. A tensor run (valleyscope tensor-kpoints --at ${site.kind === 'vbm' || site.kind === 'cbm' ? site.kind : fracText(k)}) gives the full tensor.`);
+        warnings.push(
+          `No mass tensor: ${r.reason}. A tensor run (valleyscope tensor-kpoints --at ${site.kind === 'vbm' || site.kind === 'cbm' ? site.kind : fracText(k)}) gives the full tensor.`,
+        );
       }
     }
   }
@@ -204,7 +221,11 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   let dosMass: number | null = null;
   let conductivityMass: number | null = null;
   if (tensor) {
-    const av = averagedFromPrincipal(tensor.principal, valleyDegeneracy, tensor.method.startsWith('from') ? 'tensor built from the directional masses' : 'fitted mass tensor');
+    const av = averagedFromPrincipal(
+      tensor.principal,
+      valleyDegeneracy,
+      tensor.method.startsWith('from') ? 'tensor built from the directional masses' : 'fitted mass tensor',
+    );
     dosMass = av.dosMass;
     conductivityMass = av.conductivityMass;
     warnings.push(av.note);
@@ -215,7 +236,14 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   } else if (g > 1 && masses.length > 0) {
     // Several bands share the edge: path-limited DOS mass, directions weighted by their stars (averagedMasses.ts).
     const ops = bs.lattice ? cartesianLittleGroup(ctx.symmetry, k, bs.lattice) : null;
-    const est = pathLimitedDosMass(masses.filter((m) => m.branch !== undefined).map((m) => ({ branch: m.branch!, direction: m.direction, mass: m.mass })), g, ops, ops ? cubicAxesAreCartesian(ops) : false, valleyDegeneracy, maximum);
+    const est = pathLimitedDosMass(
+      masses.filter((m) => m.branch !== undefined).map((m) => ({ branch: m.branch!, direction: m.direction, mass: m.mass })),
+      g,
+      ops,
+      ops ? cubicAxesAreCartesian(ops) : false,
+      valleyDegeneracy,
+      maximum,
+    );
     if (est) {
       dosMass = est.dosMass;
       dosPathLimited = { error: est.error };
@@ -248,7 +276,12 @@ function fracText(k: Vec3): string {
 
 function kIndexOf(bs: BandStructure, k: Vec3): number | null {
   for (let i = 0; i < bs.nk; i++) {
-    if (Math.abs(bs.kpoints[3 * i]! - k[0]) < 1e-7 && Math.abs(bs.kpoints[3 * i + 1]! - k[1]) < 1e-7 && Math.abs(bs.kpoints[3 * i + 2]! - k[2]) < 1e-7) return i;
+    if (
+      Math.abs(bs.kpoints[3 * i]! - k[0]) < 1e-7 &&
+      Math.abs(bs.kpoints[3 * i + 1]! - k[1]) < 1e-7 &&
+      Math.abs(bs.kpoints[3 * i + 2]! - k[2]) < 1e-7
+    )
+      return i;
   }
   return null;
 }
@@ -324,7 +357,8 @@ function listedRejections(all: RejectedCandidate[], warnings: string[]): Rejecte
     if (n <= MAX_REJECTED_PER_REASON) out.push(x);
   }
   for (const [reason, n] of count) {
-    if (n > MAX_REJECTED_PER_REASON) warnings.push(`${n} candidates were set aside as ${reason}; the first ${MAX_REJECTED_PER_REASON} are listed.`);
+    if (n > MAX_REJECTED_PER_REASON)
+      warnings.push(`${n} candidates were set aside as ${reason}; the first ${MAX_REJECTED_PER_REASON} are listed.`);
   }
   return out;
 }
@@ -349,7 +383,8 @@ export function saddleFromMasses(x: ExtremumReport): string | null {
   }
   if (x.tensor && !x.tensor.method.startsWith('from')) {
     const p = x.tensor.principal;
-    if (p.some((m) => m > 0) && p.some((m) => m < 0)) return `the fitted mass tensor has principal masses of both signs (${p.map((m) => m.toPrecision(3)).join(', ')} m_e)`;
+    if (p.some((m) => m > 0) && p.some((m) => m < 0))
+      return `the fitted mass tensor has principal masses of both signs (${p.map((m) => m.toPrecision(3)).join(', ')} m_e)`;
   }
   return null;
 }
@@ -376,7 +411,13 @@ function fitExtent(bs: BandStructure, site: ExtremumSite, window_eV: number): Ra
  * and the bottom of each that dips below it (an electron pocket), within `range_eV` of E_F, characterised like
  * band edges (kind 'peak' / 'valley', offset measured from E_F).
  */
-export function analyzePocketExtrema(bs: BandStructure, report: Report, settings: AnalysisSettings, crossing: { spin: 0 | 1; band: number }[], fermi: number): void {
+export function analyzePocketExtrema(
+  bs: BandStructure,
+  report: Report,
+  settings: AnalysisSettings,
+  crossing: { spin: 0 | 1; band: number }[],
+  fermi: number,
+): void {
   const ctx = engineContext(bs);
   const tol = settings.degeneracy_meV / 1000;
   const nb = bs.nBands;
@@ -393,11 +434,29 @@ export function analyzePocketExtrema(bs: BandStructure, report: Report, settings
     const bottom = e[kMin * nb + c.band]!;
     if (top > fermi && top - fermi <= settings.range_eV) {
       const group = degenerateGroup(bs, c.spin, kMax, c.band, tol);
-      sites.push({ spin: c.spin, k: kMax, band: group[group.length - 1]!, energy: top, kind: 'peak', offset: top - fermi, group, warnings: ['Top of a hole pocket: the offset is measured from the Fermi level.'] });
+      sites.push({
+        spin: c.spin,
+        k: kMax,
+        band: group[group.length - 1]!,
+        energy: top,
+        kind: 'peak',
+        offset: top - fermi,
+        group,
+        warnings: ['Top of a hole pocket: the offset is measured from the Fermi level.'],
+      });
     }
     if (bottom < fermi && fermi - bottom <= settings.range_eV) {
       const group = degenerateGroup(bs, c.spin, kMin, c.band, tol);
-      sites.push({ spin: c.spin, k: kMin, band: group[0]!, energy: bottom, kind: 'valley', offset: fermi - bottom, group, warnings: ['Bottom of an electron pocket: the offset is measured from the Fermi level.'] });
+      sites.push({
+        spin: c.spin,
+        k: kMin,
+        band: group[0]!,
+        energy: bottom,
+        kind: 'valley',
+        offset: fermi - bottom,
+        group,
+        warnings: ['Bottom of an electron pocket: the offset is measured from the Fermi level.'],
+      });
     }
   }
   report.extrema = sites.map((site) => characterise(ctx, site, settings));

@@ -30,10 +30,11 @@ export function occupationRule(bs: BandStructure): OccupationRule | null {
     let anyOcc = false;
     for (let s = 0; s < nSpin; s++) {
       const o = bs.occupations[s]!;
-      for (let i = 0; i < o.length; i++) if (o[i]! > 0.5 * full) {
-        occupied[s]![i] = 1;
-        anyOcc = true;
-      }
+      for (let i = 0; i < o.length; i++)
+        if (o[i]! > 0.5 * full) {
+          occupied[s]![i] = 1;
+          anyOcc = true;
+        }
     }
     if (anyOcc) {
       if (bs.electrons !== null && bs.nk > 0) {
@@ -47,7 +48,9 @@ export function occupationRule(bs: BandStructure): OccupationRule | null {
       }
       return { basis: 'occupations', perBand, fractionalFilling: false, occupied, warnings };
     }
-    warnings.push('Every occupation in the file is zero (a non-self-consistent run may write them so): the electron count was used instead.');
+    warnings.push(
+      'Every occupation in the file is zero (a non-self-consistent run may write them so): the electron count was used instead.',
+    );
   }
   if (bs.electrons !== null && bs.electrons > 0) {
     const slots = bs.electrons / perBand;

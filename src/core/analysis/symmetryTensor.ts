@@ -40,12 +40,36 @@ export function cartesianOperation(r: Mat3, lattice: Mat3): Mat3 {
 }
 
 const SYM_BASIS: Mat3[] = [
-  [[1, 0, 0], [0, 0, 0], [0, 0, 0]],
-  [[0, 0, 0], [0, 1, 0], [0, 0, 0]],
-  [[0, 0, 0], [0, 0, 0], [0, 0, 1]],
-  [[0, 1, 0], [1, 0, 0], [0, 0, 0]],
-  [[0, 0, 1], [0, 0, 0], [1, 0, 0]],
-  [[0, 0, 0], [0, 0, 1], [0, 1, 0]],
+  [
+    [1, 0, 0],
+    [0, 0, 0],
+    [0, 0, 0],
+  ],
+  [
+    [0, 0, 0],
+    [0, 1, 0],
+    [0, 0, 0],
+  ],
+  [
+    [0, 0, 0],
+    [0, 0, 0],
+    [0, 0, 1],
+  ],
+  [
+    [0, 1, 0],
+    [1, 0, 0],
+    [0, 0, 0],
+  ],
+  [
+    [0, 0, 1],
+    [0, 0, 0],
+    [1, 0, 0],
+  ],
+  [
+    [0, 0, 0],
+    [0, 0, 1],
+    [0, 1, 0],
+  ],
 ];
 
 const flat6 = (m: Mat3): number[] => [m[0][0], m[1][1], m[2][2], m[0][1], m[0][2], m[1][2]];
@@ -99,25 +123,44 @@ export function tensorFromDirections(
   measurements: DirectionalInverseMass[],
   cartesianOps: Mat3[],
 ): { result: SymmetryTensorResult | null; reason?: string } {
-  const basis = invariantTensorBasis(cartesianOps.length ? cartesianOps : [[[1, 0, 0], [0, 1, 0], [0, 0, 1]]]);
+  const basis = invariantTensorBasis(
+    cartesianOps.length
+      ? cartesianOps
+      : [
+          [
+            [1, 0, 0],
+            [0, 1, 0],
+            [0, 0, 1],
+          ],
+        ],
+  );
   const r = basis.length;
   const n = measurements.length;
   if (n < r) {
-    return { result: null, reason: `the little group of k allows ${r} independent tensor components, and the path gives ${n} direction${n === 1 ? '' : 's'}` };
+    return {
+      result: null,
+      reason: `the little group of k allows ${r} independent tensor components, and the path gives ${n} direction${n === 1 ? '' : 's'}`,
+    };
   }
   const a = new Float64Array(n * r);
   const y = new Float64Array(n);
   measurements.forEach((m, i) => {
     const d = m.direction;
     basis.forEach((b, j) => {
-      a[i * r + j] = d[0] * (b[0][0] * d[0] + b[0][1] * d[1] + b[0][2] * d[2]) + d[1] * (b[1][0] * d[0] + b[1][1] * d[1] + b[1][2] * d[2]) + d[2] * (b[2][0] * d[0] + b[2][1] * d[1] + b[2][2] * d[2]);
+      a[i * r + j] =
+        d[0] * (b[0][0] * d[0] + b[0][1] * d[1] + b[0][2] * d[2]) +
+        d[1] * (b[1][0] * d[0] + b[1][1] * d[1] + b[1][2] * d[2]) +
+        d[2] * (b[2][0] * d[0] + b[2][1] * d[1] + b[2][2] * d[2]);
     });
     y[i] = m.inverseMass;
   });
   // Directions that all probe the same combination (e.g. only along a valley's axis) leave the system singular.
   const fit = leastSquares(a, y, n, r);
   if (!fit || !isWellDetermined(a, n, r)) {
-    return { result: null, reason: `the path's directions do not determine the ${r} independent tensor components the little group of k allows` };
+    return {
+      result: null,
+      reason: `the path's directions do not determine the ${r} independent tensor components the little group of k allows`,
+    };
   }
   const inv: Mat3 = [
     [0, 0, 0],
@@ -145,11 +188,12 @@ export function tensorFromDirections(
 function isWellDetermined(a: Float64Array, n: number, r: number): boolean {
   // Gram matrix eigenvalues by power-free route: Gaussian elimination pivots of AᵀA, scaled.
   const g = new Float64Array(r * r);
-  for (let i = 0; i < r; i++) for (let j = 0; j < r; j++) {
-    let s = 0;
-    for (let k = 0; k < n; k++) s += a[k * r + i]! * a[k * r + j]!;
-    g[i * r + j] = s;
-  }
+  for (let i = 0; i < r; i++)
+    for (let j = 0; j < r; j++) {
+      let s = 0;
+      for (let k = 0; k < n; k++) s += a[k * r + i]! * a[k * r + j]!;
+      g[i * r + j] = s;
+    }
   let maxDiag = 0;
   for (let i = 0; i < r; i++) maxDiag = Math.max(maxDiag, g[i * r + i]!);
   for (let c = 0; c < r; c++) {

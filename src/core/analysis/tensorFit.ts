@@ -33,7 +33,7 @@ export function fitQuadraticForm(d: Float64Array, e: Float64Array, sigma2Floor =
     const x = d[3 * i]! / rmax;
     const y = d[3 * i + 1]! / rmax;
     const z = d[3 * i + 2]! / rmax;
-    a.set([1, x, y, z, x * x / 2, y * y / 2, z * z / 2, x * y, x * z, y * z], i * p);
+    a.set([1, x, y, z, (x * x) / 2, (y * y) / 2, (z * z) / 2, x * y, x * z, y * z], i * p);
   }
   const fit = leastSquares(a, e, n, p, sigma2Floor);
   if (!fit) return null;
@@ -95,7 +95,14 @@ const TENSOR_MAX_POINTS = 81;
  * Tensor at k index `center` of `band` from the surrounding k-points of a grid or point list, nearest
  * first (displacements taken to the nearest periodic image).
  */
-export function tensorFromNeighbours(bs: BandStructure, spin: number, band: number, center: number, window_meV: number, energySigma: number): TensorOutcome {
+export function tensorFromNeighbours(
+  bs: BandStructure,
+  spin: number,
+  band: number,
+  center: number,
+  window_meV: number,
+  energySigma: number,
+): TensorOutcome {
   const warnings: string[] = [];
   if (!bs.lattice) return { tensor: null, window_meV: 0, warnings: ['No lattice: the mass tensor needs cartesian k.'] };
   const rec = reciprocalLattice(bs.lattice);
@@ -123,7 +130,8 @@ export function tensorFromNeighbours(bs: BandStructure, spin: number, band: numb
     uniq.push(c);
     if (uniq.length >= TENSOR_MAX_POINTS * 2) break;
   }
-  if (uniq.length < 10) return { tensor: null, window_meV: 0, warnings: [`Only ${uniq.length} distinct k-points: the mass tensor needs at least 10.`] };
+  if (uniq.length < 10)
+    return { tensor: null, window_meV: 0, warnings: [`Only ${uniq.length} distinct k-points: the mass tensor needs at least 10.`] };
   let n = Math.min(TENSOR_MIN_POINTS, uniq.length);
   while (n < uniq.length && uniq[n]!.r - uniq[n - 1]!.r < 1e-6 * uniq[n - 1]!.r) n++;
   for (;;) {
@@ -139,7 +147,9 @@ export function tensorFromNeighbours(bs: BandStructure, spin: number, band: numb
       for (let i = 0; i < n; i++) span = Math.max(span, Math.abs(e[i]! - uniq[0]!.e));
       const spanMeV = span * 1000;
       if (spanMeV > window_meV) {
-        warnings.push(`The ${n} k-points nearest the extremum span ${spanMeV.toFixed(0)} meV, more than the ${window_meV} meV window: a finer mesh or a tensor run (valleyscope tensor-kpoints) would fit the curvature closer to the extremum.`);
+        warnings.push(
+          `The ${n} k-points nearest the extremum span ${spanMeV.toFixed(0)} meV, more than the ${window_meV} meV window: a finer mesh or a tensor run (valleyscope tensor-kpoints) would fit the curvature closer to the extremum.`,
+        );
       }
       const t = principalMasses(q, `quadratic form, ${n} nearest k-points`);
       if (q.rms_meV > Math.max(0.04 * Math.max(spanMeV, window_meV), 3000 * energySigma, 0.05)) {

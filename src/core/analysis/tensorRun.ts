@@ -20,7 +20,17 @@ import { cartesianOperation } from './symmetryTensor';
 import { leastSquares } from './fits/leastSquares';
 import { principalMasses } from './tensorFit';
 import { multiBandDosMass } from './averagedMasses';
-import { cubicAnisotropy, cubicAxesAreCartesian, fitWarpedBands, threefoldDosMasses, threefoldFromDirections, heavyLightMasses, warpedDosMass, WARPING_UNIT, type WarpedFit } from './warpedBands';
+import {
+  cubicAnisotropy,
+  cubicAxesAreCartesian,
+  fitWarpedBands,
+  threefoldDosMasses,
+  threefoldFromDirections,
+  heavyLightMasses,
+  warpedDosMass,
+  WARPING_UNIT,
+  type WarpedFit,
+} from './warpedBands';
 
 /** Method id of the two-shell line derivative (the 5-point central difference). */
 export const TWO_SHELL_METHOD = 'central-4';
@@ -71,11 +81,13 @@ class PointSet {
     return d.map((x, i) => Math.floor(x / MATCH_TOL) + o[i]!).join(',');
   }
   find(d: Vec3): Point | undefined {
-    for (let a = -1; a <= 1; a++) for (let b = -1; b <= 1; b++) for (let c = -1; c <= 1; c++) {
-      for (const p of this.cells.get(this.cell(d, [a, b, c])) ?? []) {
-        if (Math.abs(p.d[0] - d[0]) < MATCH_TOL && Math.abs(p.d[1] - d[1]) < MATCH_TOL && Math.abs(p.d[2] - d[2]) < MATCH_TOL) return p;
-      }
-    }
+    for (let a = -1; a <= 1; a++)
+      for (let b = -1; b <= 1; b++)
+        for (let c = -1; c <= 1; c++) {
+          for (const p of this.cells.get(this.cell(d, [a, b, c])) ?? []) {
+            if (Math.abs(p.d[0] - d[0]) < MATCH_TOL && Math.abs(p.d[1] - d[1]) < MATCH_TOL && Math.abs(p.d[2] - d[2]) < MATCH_TOL) return p;
+          }
+        }
     return undefined;
   }
   add(p: Point): boolean {
@@ -93,7 +105,13 @@ class PointSet {
  * The expanded points and lines of a tensor run centred at k index `center`, or null when the k-points are
  * not one (no common h with both shells complete along the axes and face diagonals).
  */
-export function readTensorRun(bs: BandStructure, spin: number, group: number[], center: number, sym: CrystalSymmetry | null): TensorRunData | null {
+export function readTensorRun(
+  bs: BandStructure,
+  spin: number,
+  group: number[],
+  center: number,
+  sym: CrystalSymmetry | null,
+): TensorRunData | null {
   if (!bs.lattice || bs.nk < 2) return null;
   const lattice = bs.lattice;
   const k0 = kpointAt(bs, center);
@@ -112,7 +130,9 @@ export function readTensorRun(bs: BandStructure, spin: number, group: number[], 
   }
   near.sort((x, y) => x.r - y.r);
   for (const { j, d } of near.slice(0, NEAREST_POINTS)) {
-    const e = Float64Array.from(group.map((b) => en[j * nb + b]!)).sort().reverse();
+    const e = Float64Array.from(group.map((b) => en[j * nb + b]!))
+      .sort()
+      .reverse();
     const images: Vec3[] = [d];
     for (const op of ops) {
       const r = op.r;
@@ -123,7 +143,14 @@ export function readTensorRun(bs: BandStructure, spin: number, group: number[], 
   const at = (u: Vec3, t: number): Point | undefined => set.find([u[0] * t, u[1] * t, u[2] * t]);
   const origin = set.find([0, 0, 0]);
   if (!origin) return null;
-  const radii = [...new Set(set.all.map((p) => Math.hypot(...p.d)).filter((r) => r > 1e-9).map((r) => Number(r.toPrecision(5))))].sort((a, b) => a - b);
+  const radii = [
+    ...new Set(
+      set.all
+        .map((p) => Math.hypot(...p.d))
+        .filter((r) => r > 1e-9)
+        .map((r) => Number(r.toPrecision(5))),
+    ),
+  ].sort((a, b) => a - b);
   const base = tensorRunDirections(false);
   const body = tensorRunDirections(true).filter((u) => u.every((x) => x !== 0));
   for (let h of radii.slice(0, 40)) {
@@ -199,7 +226,12 @@ function warpingReport(f: WarpedFit): WarpingReport {
 }
 
 /** Warped fit from points with two or more branches (sorted descending): the outer branches, or the pairs of four. */
-export function warpedFromPoints(points: { d: Vec3; e: Float64Array }[], g: number, higherOrder: boolean, energySigma: number): WarpedFit | null {
+export function warpedFromPoints(
+  points: { d: Vec3; e: Float64Array }[],
+  g: number,
+  higherOrder: boolean,
+  energySigma: number,
+): WarpedFit | null {
   const n = points.length;
   const d = new Float64Array(3 * n);
   const upper = new Float64Array(n);
@@ -222,28 +254,48 @@ export function warpedFromPoints(points: { d: Vec3; e: Float64Array }[], g: numb
  * for the reason given). Typed as an intersection so it reads the same whether or not MassFit declares it yet.
  */
 function quotable(m: Omit<MassFit, 'determined'>, reason: string | null): MassFit {
-  const why = reason ?? (m.stderr > 0.3 * Math.abs(m.mass) ? `standard error ${m.stderr.toPrecision(2)} m_e is more than 30 % of |m|` : null);
+  const why =
+    reason ?? (m.stderr > 0.3 * Math.abs(m.mass) ? `standard error ${m.stderr.toPrecision(2)} m_e is more than 30 % of |m|` : null);
   return why ? { ...m, determined: false, undeterminedReason: why } : { ...m, determined: true };
 }
 
 const dirText = (u: Vec3): string => {
   const m = Math.min(...u.filter((x) => x !== 0).map(Math.abs));
-  return `[${u.map((x) => {
-    const v = Math.round(x / m);
-    return v < 0 ? `-${-v}` : String(v);
-  }).join('')}]`;
+  return `[${u
+    .map((x) => {
+      const v = Math.round(x / m);
+      return v < 0 ? `-${-v}` : String(v);
+    })
+    .join('')}]`;
 };
 
 /**
  * Masses from a tensor run at the extremum with k index `center` and bands `group` (0-based), or null when
  * the k-points are not a tensor run.
  */
-export function tensorRunMasses(bs: BandStructure, spin: number, group: number[], center: number, sym: CrystalSymmetry | null, maximum: boolean, valleys: number | null, energySigma: number): OffPathMasses | null {
+export function tensorRunMasses(
+  bs: BandStructure,
+  spin: number,
+  group: number[],
+  center: number,
+  sym: CrystalSymmetry | null,
+  maximum: boolean,
+  valleys: number | null,
+  energySigma: number,
+): OffPathMasses | null {
   const run = readTensorRun(bs, spin, group, center, sym);
   if (!run) {
     // Written with symmetry reduction and read without the structure: say so instead of fitting a fragment.
     if (!sym && bs.lattice && looksLikeReducedRun(bs, center)) {
-      return { masses: [], tensor: null, warping: null, dosMass: null, warnings: ['These k-points look like a tensor run written with only its symmetry-inequivalent points (two shells, h and 2h): without the crystal structure they cannot be expanded, so no mass is given. Put the structure file (e.g. POSCAR) beside the run.'] };
+      return {
+        masses: [],
+        tensor: null,
+        warping: null,
+        dosMass: null,
+        warnings: [
+          'These k-points look like a tensor run written with only its symmetry-inequivalent points (two shells, h and 2h): without the crystal structure they cannot be expanded, so no mass is given. Put the structure file (e.g. POSCAR) beside the run.',
+        ],
+      };
     }
     return null;
   }
@@ -251,13 +303,20 @@ export function tensorRunMasses(bs: BandStructure, spin: number, group: number[]
   const g = group.length;
   const warnings: string[] = [];
   const what = `tensor run: ${run.written} k-points written, ${run.points.length} after expansion by the little group of k, shells at ${h.toPrecision(3)} and ${(2 * h).toPrecision(3)} Å⁻¹`;
-  if (!sym) warnings.push('No crystal symmetry is known for this run: the points were used as written, without expansion (put the structure file beside it).');
+  if (!sym)
+    warnings.push(
+      'No crystal symmetry is known for this run: the points were used as written, without expansion (put the structure file beside it).',
+    );
   // Rounding of the energies: σ of central-4 = σ √(1 + 256 + 900 + 256 + 1) / (12 h²).
   const sigmaC4 = (energySigma * Math.sqrt(1414)) / (12 * h * h);
   // Two shells that disagree strongly: the band is far from quadratic at this step.
   let worst = 0;
-  for (const l of run.lines) for (let b = 0; b < g; b++) worst = Math.max(worst, Math.abs(l.c2h[b]! - l.c22h[b]!) / Math.max(Math.abs(l.c4[b]!), 1e-12));
-  if (worst > 0.15) warnings.push(`The curvatures at h and 2h differ by up to ${(worst * 100).toFixed(0)} %: the band is strongly non-parabolic at this step; the extrapolated value removes the h² term only (a smaller --step would be safer).`);
+  for (const l of run.lines)
+    for (let b = 0; b < g; b++) worst = Math.max(worst, Math.abs(l.c2h[b]! - l.c22h[b]!) / Math.max(Math.abs(l.c4[b]!), 1e-12));
+  if (worst > 0.15)
+    warnings.push(
+      `The curvatures at h and 2h differ by up to ${(worst * 100).toFixed(0)} %: the band is strongly non-parabolic at this step; the extrapolated value removes the h² term only (a smaller --step would be safer).`,
+    );
   const lineMass = (c: number): number => HBAR2_OVER_ME_EV_A2 / c;
   if (g === 1) {
     const n = run.lines.length;
@@ -277,7 +336,14 @@ export function tensorRunMasses(bs: BandStructure, spin: number, group: number[]
       [c[4]!, c[5]!, c[2]!],
     ];
     const t = principalMasses(
-      { hessian, hessianCov: fit.cov, gradient: [0, 0, 0], e0: run.points[0]!.e[0]!, rms_meV: (Math.sqrt(fit.rss / n) * h * h * 1000) / 2, points: run.points.length },
+      {
+        hessian,
+        hessianCov: fit.cov,
+        gradient: [0, 0, 0],
+        e0: run.points[0]!.e[0]!,
+        rms_meV: (Math.sqrt(fit.rss / n) * h * h * 1000) / 2,
+        points: run.points.length,
+      },
       `${TWO_SHELL_METHOD} line curvatures, ${what}`,
     );
     // Where the extremum lies from the centre, from the odd part along the axes: δ = −g/E''.
@@ -287,7 +353,10 @@ export function tensorRunMasses(bs: BandStructure, spin: number, group: number[]
       const m1 = run.points.find((p) => Math.hypot(p.d[0] + l.u[0] * h, p.d[1] + l.u[1] * h, p.d[2] + l.u[2] * h) < 1e-7);
       if (p1 && m1) off = Math.max(off, Math.abs((p1.e[0]! - m1.e[0]!) / (2 * h) / l.c4[0]!));
     }
-    if (off > 0.5 * h) warnings.push(`The extremum lies about ${off.toFixed(4)} Å⁻¹ from the centre of the tensor run (more than half a step): plan it again centred on the refined extremum.`);
+    if (off > 0.5 * h)
+      warnings.push(
+        `The extremum lies about ${off.toFixed(4)} Å⁻¹ from the centre of the tensor run (more than half a step): plan it again centred on the refined extremum.`,
+      );
     return { masses: [], tensor: t, warping: null, dosMass: null, warnings };
   }
   // Degenerate edge: every branch along [100], [110], [111] (the first line of each kind), then the warped fit.
@@ -299,7 +368,9 @@ export function tensorRunMasses(bs: BandStructure, spin: number, group: number[]
     const n = Math.hypot(...c);
     return Math.abs(l.u[0] * c[0] + l.u[1] * c[1] + l.u[2] * c[2] - n) < 1e-9;
   };
-  const picks = (['axial', 'face', 'body'] as const).map((k) => run.lines.find((l) => l.kind === k && isCanonical(l)) ?? run.lines.find((l) => l.kind === k)).filter((l): l is TensorRunLine => !!l);
+  const picks = (['axial', 'face', 'body'] as const)
+    .map((k) => run.lines.find((l) => l.kind === k && isCanonical(l)) ?? run.lines.find((l) => l.kind === k))
+    .filter((l): l is TensorRunLine => !!l);
   for (let b = 0; b < g; b++) {
     for (const l of picks) {
       const branch = maximum ? b + 1 : g - b;
@@ -308,14 +379,29 @@ export function tensorRunMasses(bs: BandStructure, spin: number, group: number[]
       const shells = Math.abs(l.c2h[b]! - l.c22h[b]!) / Math.abs(l.c4[b]!);
       masses.push(
         quotable(
-          { towards: dirText(l.u), direction: l.u, mass, stderr, points: 5, window_meV: l.span_meV[b]!, method: TWO_SHELL_METHOD, residual_meV: 0, branch },
-          shells > 0.5 ? `the curvatures at h and 2h differ by ${(shells * 100).toFixed(0)} %: the band is far from quadratic at this step` : null,
+          {
+            towards: dirText(l.u),
+            direction: l.u,
+            mass,
+            stderr,
+            points: 5,
+            window_meV: l.span_meV[b]!,
+            method: TWO_SHELL_METHOD,
+            residual_meV: 0,
+            branch,
+          },
+          shells > 0.5
+            ? `the curvatures at h and 2h differ by ${(shells * 100).toFixed(0)} %: the band is far from quadratic at this step`
+            : null,
         ),
       );
     }
   }
   masses.sort((x, y) => x.branch! - y.branch!);
-  const cartOps = sym && bs.lattice ? displacementOperations(sym.reciprocalPointGroup, kpointAt(bs, center), 2e-5).map((o) => cartesianOperation(o.r, bs.lattice!)) : [];
+  const cartOps =
+    sym && bs.lattice
+      ? displacementOperations(sym.reciprocalPointGroup, kpointAt(bs, center), 2e-5).map((o) => cartesianOperation(o.r, bs.lattice!))
+      : [];
   const cubic = cubicAxesAreCartesian(cartOps);
   // Each branch's DOS mass: from the form that describes the bands to order k² when the crystal is cubic (three
   // bands without spin-orbit: the L, M, N form; two or four: the warped form), else from the 26 directions of
@@ -332,7 +418,9 @@ export function tensorRunMasses(bs: BandStructure, spin: number, group: number[]
     if (three && dos && dos.every((x) => x !== null)) {
       dosMass = nv ** (2 / 3) * multiBandDosMass(dos);
       const f = (x: number): string => x.toPrecision(3);
-      warnings.push(`Density-of-states mass of the 3 branches, (Σ m_i^(3/2))^(2/3)${nvText}: branch masses ${(dos).map(f).join(', ')} m_e by angular integration of the three-band form (Dresselhaus, Kip & Kittel 1955, no spin-orbit: H_ii = L k_i² + M (k² − k_i²), H_ij = N k_i k_j) fitted to the run's line curvatures, L = ${f(three.L)}, M = ${f(three.M)}, N = ${f(three.N)} (units ħ²/2m_e).${valleys === null ? ' N_v unknown: taken as 1.' : ''}`);
+      warnings.push(
+        `Density-of-states mass of the 3 branches, (Σ m_i^(3/2))^(2/3)${nvText}: branch masses ${dos.map(f).join(', ')} m_e by angular integration of the three-band form (Dresselhaus, Kip & Kittel 1955, no spin-orbit: H_ii = L k_i² + M (k² − k_i²), H_ij = N k_i k_j) fitted to the run's line curvatures, L = ${f(three.L)}, M = ${f(three.M)}, N = ${f(three.N)} (units ħ²/2m_e).${valleys === null ? ' N_v unknown: taken as 1.' : ''}`,
+      );
     }
   }
   let warping: WarpingReport | null = null;
@@ -341,14 +429,18 @@ export function tensorRunMasses(bs: BandStructure, spin: number, group: number[]
     if (f) {
       warping = warpingReport(f);
       warnings.push(...f.warnings);
-      warnings.push(warpingNote(warping, g, `the ${run.points.length} points of the tensor run (two shells: higher-order cubic invariants fitted too)`));
+      warnings.push(
+        warpingNote(warping, g, `the ${run.points.length} points of the tensor run (two shells: higher-order cubic invariants fitted too)`),
+      );
     }
   } else if (g >= 2) {
     warnings.push('No warped-band fit: it needs a cubic crystal whose cubic axes are the cartesian axes, and 2 to 4 degenerate bands.');
   }
   if (dosMass === null && warping && (g === 2 || g === 4) && warping.heavy.dos !== null && warping.light.dos !== null) {
     dosMass = nv ** (2 / 3) * multiBandDosMass([warping.heavy.dos, warping.light.dos]);
-    warnings.push(`Density-of-states mass of the heavy and light branches, (Σ m_i^(3/2))^(2/3)${nvText}, from the angular integration of the warped-band fit.${valleys === null ? ' N_v unknown: taken as 1.' : ''}`);
+    warnings.push(
+      `Density-of-states mass of the heavy and light branches, (Σ m_i^(3/2))^(2/3)${nvText}, from the angular integration of the warped-band fit.${valleys === null ? ' N_v unknown: taken as 1.' : ''}`,
+    );
   }
   if (dosMass === null && sameSign && run.lines.some((l) => l.kind === 'body')) {
     const per: number[] = [];
@@ -359,14 +451,19 @@ export function tensorRunMasses(bs: BandStructure, spin: number, group: number[]
     }
     const pc = perCarrier(per);
     dosMass = nv ** (2 / 3) * multiBandDosMass(pc);
-    warnings.push(`Density-of-states mass of the ${pc.length} branches, (Σ m_i^(3/2))^(2/3)${nvText}: branch masses ${pc.map((x) => x.toPrecision(3)).join(', ')} m_e, each ⟨|m|^(3/2)⟩^(2/3) over the 26 directions of the run's lines (a spherical rule exact to degree 7 only: a strongly warped branch can be off by tens of per cent).${valleys === null ? ' N_v unknown: taken as 1.' : ''}`);
+    warnings.push(
+      `Density-of-states mass of the ${pc.length} branches, (Σ m_i^(3/2))^(2/3)${nvText}: branch masses ${pc.map((x) => x.toPrecision(3)).join(', ')} m_e, each ⟨|m|^(3/2)⟩^(2/3) over the 26 directions of the run's lines (a spherical rule exact to degree 7 only: a strongly warped branch can be off by tens of per cent).${valleys === null ? ' N_v unknown: taken as 1.' : ''}`,
+    );
   }
   return { masses, tensor: null, warping, dosMass, warnings };
 }
 
 export function warpingNote(w: WarpingReport, g: number, from: string): string {
   const f = (x: number): string => x.toPrecision(3);
-  const three = g === 3 ? ' Three bands without spin-orbit: the two-branch form describes the upper and lower branch only, so read its residual before quoting A, B, C.' : '';
+  const three =
+    g === 3
+      ? ' Three bands without spin-orbit: the two-branch form describes the upper and lower branch only, so read its residual before quoting A, B, C.'
+      : '';
   return `Warped-band fit (Dresselhaus, Kip & Kittel form) to ${from}: A = ${f(w.A)} ± ${f(w.stderr.A)}, |B| = ${f(w.B)} ± ${f(w.stderr.B)}, |C| = ${f(w.C)} ± ${f(w.stderr.C)} (units ħ²/2m_e), residual ${w.residual_meV.toFixed(2)} meV; heavy ${f(w.heavy.m100)}, ${f(w.heavy.m110)}, ${f(w.heavy.m111)} and light ${f(w.light.m100)}, ${f(w.light.m110)}, ${f(w.light.m111)} m_e along [100], [110], [111]; branch DOS masses ${w.heavy.dos === null ? 'undetermined' : f(w.heavy.dos)} (heavy) and ${w.light.dos === null ? 'undetermined' : f(w.light.dos)} (light) m_e by angular integration of the fitted form.${three}`;
 }
 
@@ -374,10 +471,19 @@ export function warpingNote(w: WarpingReport, g: number, from: string): string {
  * A grid around a degenerate extremum (not a tensor run): the warped-band fit from the nearest points, and
  * the branch masses along [100], [110], [111] from it. Null when it does not apply.
  */
-export function gridWarpedMasses(bs: BandStructure, spin: number, group: number[], center: number, sym: CrystalSymmetry | null, energySigma: number): OffPathMasses | null {
+export function gridWarpedMasses(
+  bs: BandStructure,
+  spin: number,
+  group: number[],
+  center: number,
+  sym: CrystalSymmetry | null,
+  energySigma: number,
+): OffPathMasses | null {
   const g = group.length;
   if (!bs.lattice || !sym || g < 2 || g > 4) return null;
-  const cartOps = displacementOperations(sym.reciprocalPointGroup, kpointAt(bs, center), 2e-5).map((o) => cartesianOperation(o.r, bs.lattice!));
+  const cartOps = displacementOperations(sym.reciprocalPointGroup, kpointAt(bs, center), 2e-5).map((o) =>
+    cartesianOperation(o.r, bs.lattice!),
+  );
   if (!cubicAxesAreCartesian(cartOps)) return null;
   const en = bs.energies[spin]!;
   const nb = bs.nBands;
@@ -385,7 +491,13 @@ export function gridWarpedMasses(bs: BandStructure, spin: number, group: number[
   const pts = [];
   for (let j = 0; j < bs.nk; j++) {
     const d = cartesianDisplacement(kpointAt(bs, j), k0, bs.lattice);
-    pts.push({ d, r: Math.hypot(...d), e: Float64Array.from(group.map((b) => en[j * nb + b]!)).sort().reverse() });
+    pts.push({
+      d,
+      r: Math.hypot(...d),
+      e: Float64Array.from(group.map((b) => en[j * nb + b]!))
+        .sort()
+        .reverse(),
+    });
   }
   pts.sort((a, b) => a.r - b.r);
   // The centre and the nearest shells: up to 57 points (centre + 6 + 12 + 8 + 6 + 24 on a cubic grid).
@@ -400,7 +512,10 @@ export function gridWarpedMasses(bs: BandStructure, spin: number, group: number[
     ['[111]', [1 / Math.sqrt(3), 1 / Math.sqrt(3), 1 / Math.sqrt(3)], 'm111'],
   ];
   const span = Math.max(...use.map((p) => Math.abs(p.e[0]! - use[0]!.e[0]!))) * 1000;
-  for (const [bi, which] of [[1, 'heavy'], [2, 'light']] as const) {
+  for (const [bi, which] of [
+    [1, 'heavy'],
+    [2, 'light'],
+  ] as const) {
     for (const [name, u, m] of dirs) {
       const mass = w[which][m] as number;
       // δ(1/m)² = δA² + δs², s = √(B² + C² f): δs = √((B δB)² + (C f δC)²) / s; δm = m² δ(1/m).
@@ -408,7 +523,22 @@ export function gridWarpedMasses(bs: BandStructure, spin: number, group: number[
       const sq = Math.sqrt(w.B * w.B + w.C * w.C * fu);
       const ds = sq > 0 ? Math.hypot(w.B * w.stderr.B, w.C * fu * w.stderr.C) / sq : Math.hypot(w.stderr.B, w.stderr.C);
       const stderr = mass * mass * Math.hypot(w.stderr.A, ds);
-      masses.push(quotable({ towards: name, direction: u, mass, stderr, points: use.length, window_meV: span, method: 'warped-band fit', residual_meV: w.residual_meV, branch: bi }, null));
+      masses.push(
+        quotable(
+          {
+            towards: name,
+            direction: u,
+            mass,
+            stderr,
+            points: use.length,
+            window_meV: span,
+            method: 'warped-band fit',
+            residual_meV: w.residual_meV,
+            branch: bi,
+          },
+          null,
+        ),
+      );
     }
   }
   const warnings = [...f.warnings, warningsForGrid(g), warpingNote(w, g, `the ${use.length} grid points nearest the extremum`)];

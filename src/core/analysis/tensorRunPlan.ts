@@ -24,7 +24,12 @@ export interface RefinedCentre {
 
 function kIndexOf(bs: BandStructure, k: Vec3): number | null {
   for (let i = 0; i < bs.nk; i++) {
-    if (Math.abs(bs.kpoints[3 * i]! - k[0]) < 1e-7 && Math.abs(bs.kpoints[3 * i + 1]! - k[1]) < 1e-7 && Math.abs(bs.kpoints[3 * i + 2]! - k[2]) < 1e-7) return i;
+    if (
+      Math.abs(bs.kpoints[3 * i]! - k[0]) < 1e-7 &&
+      Math.abs(bs.kpoints[3 * i + 1]! - k[1]) < 1e-7 &&
+      Math.abs(bs.kpoints[3 * i + 2]! - k[2]) < 1e-7
+    )
+      return i;
   }
   return null;
 }
@@ -107,7 +112,11 @@ export function refinedCentre(bs: BandStructure, e: ExtremumReport): RefinedCent
   const shift = solve3(m, rhs);
   const f = cartesianToFractional(shift as Vec3, bs.lattice);
   const k: Vec3 = [e.k[0] + f[0], e.k[1] + f[1], e.k[2] + f[2]];
-  return { k, shift: Math.hypot(...shift), how: `refined between sampled points along ${moving.length} line${moving.length === 1 ? '' : 's'} of the path (quartic through five points), ${Math.hypot(...shift).toFixed(5)} Å⁻¹ from the sampled point` };
+  return {
+    k,
+    shift: Math.hypot(...shift),
+    how: `refined between sampled points along ${moving.length} line${moving.length === 1 ? '' : 's'} of the path (quartic through five points), ${Math.hypot(...shift).toFixed(5)} Å⁻¹ from the sampled point`,
+  };
 }
 
 function solve3(m: number[][], b: number[]): number[] {
@@ -139,8 +148,14 @@ export function stepFromMasses(e: ExtremumReport, energy_eV: number): StepChoice
   if (!ms.length) return null;
   const light = Math.min(...ms.map(Math.abs));
   const step = stepForEnergy(light, energy_eV, HBAR2_OVER_ME_EV_A2);
-  const partial = !e.tensor && e.degenerateBands === 1 ? ` (only ${e.masses.length} direction${e.masses.length === 1 ? ' was' : 's were'} measured here and no tensor: a lighter unmeasured direction moves more, so a smaller --energy or --step is safer for a strongly anisotropic valley)` : '';
-  return { step, how: `h = ${step.toPrecision(3)} Å⁻¹: the lightest mass measured here (${light.toPrecision(3)} m_e) moves ${(energy_eV * 1000).toPrecision(3)} meV at h${partial}` };
+  const partial =
+    !e.tensor && e.degenerateBands === 1
+      ? ` (only ${e.masses.length} direction${e.masses.length === 1 ? ' was' : 's were'} measured here and no tensor: a lighter unmeasured direction moves more, so a smaller --energy or --step is safer for a strongly anisotropic valley)`
+      : '';
+  return {
+    step,
+    how: `h = ${step.toPrecision(3)} Å⁻¹: the lightest mass measured here (${light.toPrecision(3)} m_e) moves ${(energy_eV * 1000).toPrecision(3)} meV at h${partial}`,
+  };
 }
 
 export interface PlanOptions {

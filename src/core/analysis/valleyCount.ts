@@ -33,7 +33,8 @@ export function symmetryContext(bs: BandStructure): SymmetryContext {
     return { sym: null, unavailable: "The structure's cell differs from the cell of the k-points: valley degeneracy was not determined." };
   }
   // Not cached: the module may be loaded by the next call.
-  if (!symmetryReady()) return { sym: null, unavailable: 'The crystal-symmetry module is not loaded: valley degeneracy was not determined.' };
+  if (!symmetryReady())
+    return { sym: null, unavailable: 'The crystal-symmetry module is not loaded: valley degeneracy was not determined.' };
   const known = contexts.get(bs.structure);
   if (known) return known;
   let ctx: SymmetryContext;

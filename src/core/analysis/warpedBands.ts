@@ -302,7 +302,10 @@ function symmetricEigenvalues3(a: number[][]): number[] {
   const p2 = (a[0]![0]! - q) ** 2 + (a[1]![1]! - q) ** 2 + (a[2]![2]! - q) ** 2 + 2 * p1;
   const p = Math.sqrt(p2 / 6);
   const b = a.map((r, i) => r.map((x, j) => (x - (i === j ? q : 0)) / p));
-  const detB = b[0]![0]! * (b[1]![1]! * b[2]![2]! - b[1]![2]! * b[2]![1]!) - b[0]![1]! * (b[1]![0]! * b[2]![2]! - b[1]![2]! * b[2]![0]!) + b[0]![2]! * (b[1]![0]! * b[2]![1]! - b[1]![1]! * b[2]![0]!);
+  const detB =
+    b[0]![0]! * (b[1]![1]! * b[2]![2]! - b[1]![2]! * b[2]![1]!) -
+    b[0]![1]! * (b[1]![0]! * b[2]![2]! - b[1]![2]! * b[2]![0]!) +
+    b[0]![2]! * (b[1]![0]! * b[2]![1]! - b[1]![1]! * b[2]![0]!);
   const r = Math.max(-1, Math.min(1, detB / 2));
   const phi = Math.acos(r) / 3;
   const e1 = q + 2 * p * Math.cos(phi);

@@ -9,13 +9,20 @@ import { formatNumber } from './numberFormat';
 
 /** Text safe inside a Markdown table cell. */
 function cell(s: string): string {
-  return s.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/\r?\n|\r/g, ' ').replace(/([`*_<>[\]])/g, '\\$1');
+  return s
+    .replace(/\\/g, '\\\\')
+    .replace(/\|/g, '\\|')
+    .replace(/\r?\n|\r/g, ' ')
+    .replace(/([`*_<>[\]])/g, '\\$1');
 }
 
 function massesText(e: AnnotatedEntry): string {
   if (e.masses.length === 0) return '—';
   return e.masses
-    .map((m) => `${m.mass === null ? 'n/a' : m.determined === false ? `undetermined (${formatNumber(m.mass, 'mass')})` : formatNumber(m.mass, 'mass')} towards ${m.towards || '?'} (${m.method}, ${m.points} pts, ${formatNumber(m.window_meV, 'meV')} meV)`)
+    .map(
+      (m) =>
+        `${m.mass === null ? 'n/a' : m.determined === false ? `undetermined (${formatNumber(m.mass, 'mass')})` : formatNumber(m.mass, 'mass')} towards ${m.towards || '?'} (${m.method}, ${m.points} pts, ${formatNumber(m.window_meV, 'meV')} meV)`,
+    )
     .join('; ');
 }
 

@@ -187,7 +187,8 @@ export function isAnnotationsPath(path: string): boolean {
 
 /** The data file an annotations file describes (its name without the suffix). */
 export function dataPathFor(annotationsFile: string): string {
-  if (!isAnnotationsPath(annotationsFile)) throw new ValleyscopeError(`${annotationsFile} is not an annotations file name (*${ANNOTATIONS_SUFFIX})`);
+  if (!isAnnotationsPath(annotationsFile))
+    throw new ValleyscopeError(`${annotationsFile} is not an annotations file name (*${ANNOTATIONS_SUFFIX})`);
   return annotationsFile.slice(0, annotationsFile.length - ANNOTATIONS_SUFFIX.length);
 }
 
@@ -240,7 +241,15 @@ export function layout1EntryId(e: { kind: string; spin: number; band: number; k:
 const ORDINAL = (n: number): string => (n === 1 ? '1st' : n === 2 ? '2nd' : n === 3 ? '3rd' : `${n}th`);
 
 /** A short human name for messages: "CBM, band 5 (1st from the edge), at X (0.5, 0, 0.5)"; spin named only when polarised. */
-export function entryTitle(e: { kind: string; spin: number; band: number; k: readonly number[]; label: string | null; spinPolarised?: boolean; edgeBand?: number | null }): string {
+export function entryTitle(e: {
+  kind: string;
+  spin: number;
+  band: number;
+  k: readonly number[];
+  label: string | null;
+  spinPolarised?: boolean;
+  edgeBand?: number | null;
+}): string {
   const kind = e.kind === 'vbm' || e.kind === 'cbm' ? e.kind.toUpperCase() : e.kind;
   const at = `(${e.k.map(idNumber).join(', ')})`;
   const spin = spinName(e.spin, e.spinPolarised ?? false);

@@ -44,7 +44,10 @@ export interface BuildOptions {
 }
 
 function splitPath(p: string): string[] {
-  return p.replace(/\\/g, '/').split('/').filter((s) => s !== '' && s !== '.');
+  return p
+    .replace(/\\/g, '/')
+    .split('/')
+    .filter((s) => s !== '' && s !== '.');
 }
 
 /**
@@ -218,7 +221,10 @@ export function entriesFromReport(report: Report, fits?: ReadonlyMap<string, Fit
   }
   if (report.gap) {
     // With no extremum of a band-edge kind in the report, the edges of the gap are still worth an entry.
-    for (const [kind, p] of [['vbm', report.gap.vbm], ['cbm', report.gap.cbm]] as const) {
+    for (const [kind, p] of [
+      ['vbm', report.gap.vbm],
+      ['cbm', report.gap.cbm],
+    ] as const) {
       if (report.extrema.some((x) => x.kind === kind)) continue;
       // The same valley member as an extremum at this k would carry, when the report has one there.
       const twin = report.extrema.find((x) => x.valley && x.k.every((v, i) => v === p.k[i]));

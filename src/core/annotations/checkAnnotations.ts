@@ -40,7 +40,7 @@ export function checkAnnotations(
   tolerances: Tolerances = DEFAULT_TOLERANCES,
 ): CheckResult {
   const stale = compareSources(doc.sources, currentSources);
-  const freshReport = 'report' in fresh && 'fits' in fresh ? fresh.report : (fresh);
+  const freshReport = 'report' in fresh && 'fits' in fresh ? fresh.report : fresh;
   const fits = 'fits' in fresh && fresh.fits instanceof Map ? fresh.fits : undefined;
   const rebuilt = buildAnnotations(
     freshReport,

@@ -15,7 +15,11 @@ export type CheckedFile =
 
 /** Text safe inside a Markdown table cell or list item. */
 export function mdCell(s: string): string {
-  return s.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/\r?\n|\r/g, ' ').replace(/([`*_<>[\]])/g, '\\$1');
+  return s
+    .replace(/\\/g, '\\\\')
+    .replace(/\|/g, '\\|')
+    .replace(/\r?\n|\r/g, ' ')
+    .replace(/([`*_<>[\]])/g, '\\$1');
 }
 
 const code = (s: string): string => `\`${s.replace(/`/g, "'")}\``;
@@ -43,7 +47,10 @@ function whatMoved(o: CheckedFile): string {
   if (o.error !== null) return mdCell(o.error);
   const items = [...o.result.stale, ...o.result.drifted];
   if (items.length === 0) return '—';
-  const first = items.slice(0, 2).map((c) => mdCell(c.message)).join('; ');
+  const first = items
+    .slice(0, 2)
+    .map((c) => mdCell(c.message))
+    .join('; ');
   return items.length > 2 ? `${first}; ${items.length - 2} more below` : first;
 }
 
@@ -73,12 +80,16 @@ function entryText(e: AnnotatedEntry): string {
 function detailsLine(o: CheckedFile): string {
   const out: string[] = [];
   if (o.doc) {
-    out.push(o.doc.gap ? `gap ${formatNumber(o.doc.gap.eV, 'energy')} eV, ${o.doc.gap.direct ? 'direct' : 'indirect'}` : `gap ${gapText(o.doc)}`);
+    out.push(
+      o.doc.gap ? `gap ${formatNumber(o.doc.gap.eV, 'energy')} eV, ${o.doc.gap.direct ? 'direct' : 'indirect'}` : `gap ${gapText(o.doc)}`,
+    );
     for (const e of o.doc.entries) out.push(entryText(e));
     if (o.doc.note.trim() !== '') out.push(`note: “${mdCell(o.doc.note.trim())}”`);
     for (const w of o.doc.warnings) out.push(`warning: ${mdCell(w)}`);
   }
-  if (o.result) for (const c of [...o.result.stale, ...o.result.drifted]) out.push(`**${o.result.stale.includes(c) ? 'stale' : 'drifted'}:** ${mdCell(c.message)}`);
+  if (o.result)
+    for (const c of [...o.result.stale, ...o.result.drifted])
+      out.push(`**${o.result.stale.includes(c) ? 'stale' : 'drifted'}:** ${mdCell(c.message)}`);
   if (o.error !== null) out.push(`could not be checked: ${mdCell(o.error)}`);
   return `- ${code(o.file)}: ${out.join(' · ')}`;
 }
@@ -87,7 +98,11 @@ export function checkMarkdown(outcomes: readonly CheckedFile[], summary: string)
   const out = [`**Valleyscope check:** ${summary}`, ''];
   out.push('| run | status | gap (eV) | reviewed | what moved |', '|---|---|---|---:|---|');
   for (const o of outcomes) out.push(`| ${code(o.file)} | ${status(o)} | ${gapText(o.doc)} | ${reviewText(o.doc)} | ${whatMoved(o)} |`);
-  out.push('', '<details><summary>Entries, masses (m_e, signed: negative at a maximum; branch by branch separated by /), notes</summary>', '');
+  out.push(
+    '',
+    '<details><summary>Entries, masses (m_e, signed: negative at a maximum; branch by branch separated by /), notes</summary>',
+    '',
+  );
   for (const o of outcomes) out.push(detailsLine(o));
   out.push('', '</details>');
   const cautions = [...new Set(outcomes.flatMap((o) => o.doc?.cautions ?? []))];

@@ -50,7 +50,12 @@ export interface AnnotatedReport {
  * lists keeps the analysis's kind and valley (the identity); elsewhere its valley is the star member the
  * analysis would choose. Throws RangeError when a choice lies outside the arrays.
  */
-export function withChosenFits(bs: BandStructure, report: Report, settings: AnalysisSettings, chosen: readonly ChosenExtremum[]): AnnotatedReport {
+export function withChosenFits(
+  bs: BandStructure,
+  report: Report,
+  settings: AnalysisSettings,
+  chosen: readonly ChosenExtremum[],
+): AnnotatedReport {
   const extrema = [...report.extrema];
   const fits = new Map<string, FitChoice>();
   const placed: string[] = [];
@@ -59,7 +64,14 @@ export function withChosenFits(bs: BandStructure, report: Report, settings: Anal
   for (const c of chosen) {
     const method = methodId(c.method) ?? c.method;
     const how = { ...settings, window_meV: c.window_meV, method };
-    const fitted: ExtremumReport = fitExtremumAt(bs, c.spin, c.kIndex, c.band0, how, c.maximum === undefined ? undefined : { maximum: c.maximum });
+    const fitted: ExtremumReport = fitExtremumAt(
+      bs,
+      c.spin,
+      c.kIndex,
+      c.band0,
+      how,
+      c.maximum === undefined ? undefined : { maximum: c.maximum },
+    );
     fitted.band += offset;
     const key = placeKey(fitted);
     const i = extrema.findIndex((x) => placeKey(x) === key);

@@ -54,9 +54,7 @@ class ChangeList {
   }
 
   add(c: Omit<AnnotationChange, 'message'> & { message?: string }, title: string): void {
-    const message =
-      c.message ??
-      `${title}: ${c.quantity} ${c.before ?? 'none'} → ${c.after ?? 'none'}${c.delta ? ` (${c.delta})` : ''}`;
+    const message = c.message ?? `${title}: ${c.quantity} ${c.before ?? 'none'} → ${c.after ?? 'none'}${c.delta ? ` (${c.delta})` : ''}`;
     this.items.push({ ...c, message });
   }
 
@@ -67,7 +65,10 @@ class ChangeList {
     if (Math.abs(dmeV) <= this.tol.energy_meV + EPS || x === y) return;
     this.add(
       {
-        scope, subject, kind: 'changed', quantity,
+        scope,
+        subject,
+        kind: 'changed',
+        quantity,
         before: `${formatNumber(x, 'energy')} eV`,
         after: `${formatNumber(y, 'energy')} eV`,
         delta: `${signed(dmeV, 1)} meV${this.tolText('energy')}`,
@@ -88,7 +89,10 @@ class ChangeList {
     }
     this.add(
       {
-        scope: 'entry', subject, kind: 'changed', quantity,
+        scope: 'entry',
+        subject,
+        kind: 'changed',
+        quantity,
         before: x === null ? null : `${formatNumber(x, 'mass')} m_e`,
         after: y === null ? null : `${formatNumber(y, 'mass')} m_e`,
         delta,
@@ -99,7 +103,18 @@ class ChangeList {
 
   count(subject: string, title: string, quantity: string, a: number | null, b: number | null): void {
     if (a === b) return;
-    this.add({ scope: 'entry', subject, kind: 'changed', quantity, before: a === null ? null : String(a), after: b === null ? null : String(b), delta: null }, title);
+    this.add(
+      {
+        scope: 'entry',
+        subject,
+        kind: 'changed',
+        quantity,
+        before: a === null ? null : String(a),
+        after: b === null ? null : String(b),
+        delta: null,
+      },
+      title,
+    );
   }
 }
 
@@ -107,12 +122,25 @@ function compareMasses(list: ChangeList, e: AnnotatedEntry, a: readonly Annotate
   const ka = massKeys(a);
   const kb = massKeys(b);
   const byKey = new Map(kb.map((k, i) => [k, b[i]!]));
-  const name = (m: AnnotatedMass): string => `mass towards ${m.towards || '(unnamed direction)'}${m.branch === null ? '' : ` (branch ${m.branch})`}`;
+  const name = (m: AnnotatedMass): string =>
+    `mass towards ${m.towards || '(unnamed direction)'}${m.branch === null ? '' : ` (branch ${m.branch})`}`;
   ka.forEach((key, i) => {
     const m = a[i]!;
     const n = byKey.get(key);
     if (!n) {
-      list.add({ scope: 'entry', subject: e.id, kind: 'removed', quantity: name(m), before: m.mass === null ? null : `${formatNumber(m.mass, 'mass')} m_e`, after: null, delta: null, message: `${title}: the ${name(m)} is no longer fitted` }, title);
+      list.add(
+        {
+          scope: 'entry',
+          subject: e.id,
+          kind: 'removed',
+          quantity: name(m),
+          before: m.mass === null ? null : `${formatNumber(m.mass, 'mass')} m_e`,
+          after: null,
+          delta: null,
+          message: `${title}: the ${name(m)} is no longer fitted`,
+        },
+        title,
+      );
       return;
     }
     list.mass(e.id, title, name(m), m.mass, n.mass);
@@ -121,20 +149,47 @@ function compareMasses(list: ChangeList, e: AnnotatedEntry, a: readonly Annotate
   kb.forEach((key, i) => {
     if (inA.has(key)) return;
     const n = b[i]!;
-    list.add({ scope: 'entry', subject: e.id, kind: 'added', quantity: name(n), before: null, after: n.mass === null ? null : `${formatNumber(n.mass, 'mass')} m_e`, delta: null, message: `${title}: a new ${name(n)} of ${n.mass === null ? 'no finite value' : `${formatNumber(n.mass, 'mass')} m_e`}` }, title);
+    list.add(
+      {
+        scope: 'entry',
+        subject: e.id,
+        kind: 'added',
+        quantity: name(n),
+        before: null,
+        after: n.mass === null ? null : `${formatNumber(n.mass, 'mass')} m_e`,
+        delta: null,
+        message: `${title}: a new ${name(n)} of ${n.mass === null ? 'no finite value' : `${formatNumber(n.mass, 'mass')} m_e`}`,
+      },
+      title,
+    );
   });
 }
 
 function compareEntry(list: ChangeList, a: AnnotatedEntry, b: AnnotatedEntry): void {
   const title = `${a.id} (${entryTitle(a)})`;
   if (!a.found) {
-    list.add({ scope: 'entry', subject: a.id, kind: 'refound', quantity: 'found', before: 'false', after: 'true', delta: null, message: `${title}: found again by the analysis` }, title);
+    list.add(
+      {
+        scope: 'entry',
+        subject: a.id,
+        kind: 'refound',
+        quantity: 'found',
+        before: 'false',
+        after: 'true',
+        delta: null,
+        message: `${title}: found again by the analysis`,
+      },
+      title,
+    );
   }
   const dk = kDistance(a.k, b.k);
   if (dk > list.tol.k + EPS && a.k.some((x, i) => formatNumber(x, 'k') !== formatNumber(b.k[i]!, 'k'))) {
     list.add(
       {
-        scope: 'entry', subject: a.id, kind: 'changed', quantity: 'k',
+        scope: 'entry',
+        subject: a.id,
+        kind: 'changed',
+        quantity: 'k',
         before: `(${a.k.map((x) => formatNumber(x, 'k')).join(', ')})`,
         after: `(${b.k.map((x) => formatNumber(x, 'k')).join(', ')})`,
         delta: null,
@@ -147,7 +202,19 @@ function compareEntry(list: ChangeList, a: AnnotatedEntry, b: AnnotatedEntry): v
   list.count(a.id, title, 'degenerate bands', a.degenerateBands, b.degenerateBands);
   compareMasses(list, a, a.masses, b.masses, title);
   if ((a.tensor === null) !== (b.tensor === null)) {
-    list.add({ scope: 'entry', subject: a.id, kind: a.tensor ? 'removed' : 'added', quantity: 'mass tensor', before: a.tensor ? 'present' : null, after: b.tensor ? 'present' : null, delta: null, message: `${title}: the mass tensor ${a.tensor ? 'is no longer available' : 'is now available'}` }, title);
+    list.add(
+      {
+        scope: 'entry',
+        subject: a.id,
+        kind: a.tensor ? 'removed' : 'added',
+        quantity: 'mass tensor',
+        before: a.tensor ? 'present' : null,
+        after: b.tensor ? 'present' : null,
+        delta: null,
+        message: `${title}: the mass tensor ${a.tensor ? 'is no longer available' : 'is now available'}`,
+      },
+      title,
+    );
   } else if (a.tensor && b.tensor) {
     for (let i = 0; i < 3; i++) list.mass(a.id, title, `principal mass ${i + 1}`, a.tensor.principal[i]!, b.tensor.principal[i]!);
   }
@@ -156,22 +223,52 @@ function compareEntry(list: ChangeList, a: AnnotatedEntry, b: AnnotatedEntry): v
 }
 
 /** Source files: which were added, removed, or hold other bytes now. */
-export function compareSources(older: readonly AnnotatedSource[], newer: readonly { path: string; sha256: string; role?: string }[]): AnnotationChange[] {
+export function compareSources(
+  older: readonly AnnotatedSource[],
+  newer: readonly { path: string; sha256: string; role?: string }[],
+): AnnotationChange[] {
   const out: AnnotationChange[] = [];
   const now = new Map(newer.map((s) => [s.path, s]));
   const short = (h: string): string => `${h.slice(0, 12)}…`;
   for (const s of older) {
     const n = now.get(s.path);
     if (!n) {
-      out.push({ scope: 'source', subject: s.path, kind: 'removed', quantity: 'sha256', before: short(s.sha256), after: null, delta: null, message: `source ${s.path} (${s.role}) is no longer read with the run (missing, or no longer used)` });
+      out.push({
+        scope: 'source',
+        subject: s.path,
+        kind: 'removed',
+        quantity: 'sha256',
+        before: short(s.sha256),
+        after: null,
+        delta: null,
+        message: `source ${s.path} (${s.role}) is no longer read with the run (missing, or no longer used)`,
+      });
     } else if (n.sha256 !== s.sha256) {
-      out.push({ scope: 'source', subject: s.path, kind: 'changed', quantity: 'sha256', before: short(s.sha256), after: short(n.sha256), delta: null, message: `source ${s.path} (${s.role}) has changed since the annotations were written (sha256 ${short(s.sha256)} → ${short(n.sha256)})` });
+      out.push({
+        scope: 'source',
+        subject: s.path,
+        kind: 'changed',
+        quantity: 'sha256',
+        before: short(s.sha256),
+        after: short(n.sha256),
+        delta: null,
+        message: `source ${s.path} (${s.role}) has changed since the annotations were written (sha256 ${short(s.sha256)} → ${short(n.sha256)})`,
+      });
     }
   }
   const then = new Set(older.map((s) => s.path));
   for (const n of newer) {
     if (!then.has(n.path)) {
-      out.push({ scope: 'source', subject: n.path, kind: 'added', quantity: 'sha256', before: null, after: short(n.sha256), delta: null, message: `source ${n.path}${n.role ? ` (${n.role})` : ''} is now read with the run but is not recorded in the annotations` });
+      out.push({
+        scope: 'source',
+        subject: n.path,
+        kind: 'added',
+        quantity: 'sha256',
+        before: null,
+        after: short(n.sha256),
+        delta: null,
+        message: `source ${n.path}${n.role ? ` (${n.role})` : ''} is now read with the run but is not recorded in the annotations`,
+      });
     }
   }
   return out;
@@ -181,9 +278,19 @@ export function compareSettings(older: AnnotationsDoc, newer: AnnotationsDoc): A
   const out: AnnotationChange[] = [];
   for (const key of ['window_meV', 'method', 'range_eV', 'degeneracy_meV', 'forceSpinorbit', 'alat_angstrom', 'structureFile'] as const) {
     // A method written under its earlier name (fd3, fd5) is the same method.
-    const a = key === 'method' ? methodId(older.settings.method) ?? older.settings.method : String(older.settings[key]);
-    const b = key === 'method' ? methodId(newer.settings.method) ?? newer.settings.method : String(newer.settings[key]);
-    if (a !== b) out.push({ scope: 'settings', subject: 'settings', kind: 'changed', quantity: key, before: a, after: b, delta: null, message: `settings: ${key} ${a} → ${b}` });
+    const a = key === 'method' ? (methodId(older.settings.method) ?? older.settings.method) : String(older.settings[key]);
+    const b = key === 'method' ? (methodId(newer.settings.method) ?? newer.settings.method) : String(newer.settings[key]);
+    if (a !== b)
+      out.push({
+        scope: 'settings',
+        subject: 'settings',
+        kind: 'changed',
+        quantity: key,
+        before: a,
+        after: b,
+        delta: null,
+        message: `settings: ${key} ${a} → ${b}`,
+      });
   }
   return out;
 }
@@ -192,27 +299,86 @@ export function compareSettings(older: AnnotationsDoc, newer: AnnotationsDoc): A
 export function compareResults(older: AnnotationsDoc, newer: AnnotationsDoc, tol: Tolerances = DEFAULT_TOLERANCES): AnnotationChange[] {
   const list = new ChangeList(tol);
   if (older.metal !== newer.metal) {
-    list.add({ scope: 'gap', subject: 'gap', kind: 'changed', quantity: 'metal', before: String(older.metal), after: String(newer.metal), delta: null, message: `the run is ${newer.metal ? 'now a metal (no gap)' : newer.metal === false ? 'now gapped' : 'no longer classified'}, was ${older.metal === null ? 'unclassified' : older.metal ? 'a metal' : 'gapped'}` }, 'gap');
+    list.add(
+      {
+        scope: 'gap',
+        subject: 'gap',
+        kind: 'changed',
+        quantity: 'metal',
+        before: String(older.metal),
+        after: String(newer.metal),
+        delta: null,
+        message: `the run is ${newer.metal ? 'now a metal (no gap)' : newer.metal === false ? 'now gapped' : 'no longer classified'}, was ${older.metal === null ? 'unclassified' : older.metal ? 'a metal' : 'gapped'}`,
+      },
+      'gap',
+    );
   }
   if (older.gap && newer.gap) {
     list.energy('gap', 'gap', 'band gap', 'fundamental gap', older.gap.eV, newer.gap.eV);
     if (older.gap.direct !== newer.gap.direct) {
-      list.add({ scope: 'gap', subject: 'gap', kind: 'changed', quantity: 'direct', before: String(older.gap.direct), after: String(newer.gap.direct), delta: null, message: `band gap: ${older.gap.direct ? 'direct' : 'indirect'} → ${newer.gap.direct ? 'direct' : 'indirect'}` }, 'band gap');
+      list.add(
+        {
+          scope: 'gap',
+          subject: 'gap',
+          kind: 'changed',
+          quantity: 'direct',
+          before: String(older.gap.direct),
+          after: String(newer.gap.direct),
+          delta: null,
+          message: `band gap: ${older.gap.direct ? 'direct' : 'indirect'} → ${newer.gap.direct ? 'direct' : 'indirect'}`,
+        },
+        'band gap',
+      );
     }
     list.energy('gap', 'gap', 'band gap', 'smallest direct gap', older.gap.directGap.eV, newer.gap.directGap.eV);
   } else if (older.gap || newer.gap) {
-    list.add({ scope: 'gap', subject: 'gap', kind: older.gap ? 'removed' : 'added', quantity: 'fundamental gap', before: older.gap ? `${formatNumber(older.gap.eV, 'energy')} eV` : null, after: newer.gap ? `${formatNumber(newer.gap.eV, 'energy')} eV` : null, delta: null }, 'band gap');
+    list.add(
+      {
+        scope: 'gap',
+        subject: 'gap',
+        kind: older.gap ? 'removed' : 'added',
+        quantity: 'fundamental gap',
+        before: older.gap ? `${formatNumber(older.gap.eV, 'energy')} eV` : null,
+        after: newer.gap ? `${formatNumber(newer.gap.eV, 'energy')} eV` : null,
+        delta: null,
+      },
+      'band gap',
+    );
   }
   const m = matchEntries(older.entries, newer.entries);
   for (const [i, j] of m.pairs) compareEntry(list, older.entries[i]!, newer.entries[j]!);
   for (const i of m.onlyOld) {
     const e = older.entries[i]!;
     if (!e.found) continue; // already recorded as not found
-    list.add({ scope: 'entry', subject: e.id, kind: 'lost', quantity: 'found', before: 'true', after: 'false', delta: null, message: `${e.id} (${entryTitle(e)}): no longer found by the analysis` }, e.id);
+    list.add(
+      {
+        scope: 'entry',
+        subject: e.id,
+        kind: 'lost',
+        quantity: 'found',
+        before: 'true',
+        after: 'false',
+        delta: null,
+        message: `${e.id} (${entryTitle(e)}): no longer found by the analysis`,
+      },
+      e.id,
+    );
   }
   for (const j of m.onlyNew) {
     const e = newer.entries[j]!;
-    list.add({ scope: 'entry', subject: e.id, kind: 'added', quantity: 'entry', before: null, after: `${formatNumber(e.energy_eV, 'energy')} eV`, delta: null, message: `${e.id} (${entryTitle(e)}): found by the analysis at ${formatNumber(e.energy_eV, 'energy')} eV but not in the annotations` }, e.id);
+    list.add(
+      {
+        scope: 'entry',
+        subject: e.id,
+        kind: 'added',
+        quantity: 'entry',
+        before: null,
+        after: `${formatNumber(e.energy_eV, 'energy')} eV`,
+        delta: null,
+        message: `${e.id} (${entryTitle(e)}): found by the analysis at ${formatNumber(e.energy_eV, 'energy')} eV but not in the annotations`,
+      },
+      e.id,
+    );
   }
   return list.items;
 }

@@ -102,14 +102,30 @@ export function parseJsonWithPositions(text: string): JsonNode {
         out += text.slice(chunk, i);
         const e = text[i + 1];
         switch (e) {
-          case '"': out += '"'; break;
-          case '\\': out += '\\'; break;
-          case '/': out += '/'; break;
-          case 'b': out += '\b'; break;
-          case 'f': out += '\f'; break;
-          case 'n': out += '\n'; break;
-          case 'r': out += '\r'; break;
-          case 't': out += '\t'; break;
+          case '"':
+            out += '"';
+            break;
+          case '\\':
+            out += '\\';
+            break;
+          case '/':
+            out += '/';
+            break;
+          case 'b':
+            out += '\b';
+            break;
+          case 'f':
+            out += '\f';
+            break;
+          case 'n':
+            out += '\n';
+            break;
+          case 'r':
+            out += '\r';
+            break;
+          case 't':
+            out += '\t';
+            break;
           case 'u': {
             const hex = text.slice(i + 2, i + 6);
             if (!/^[0-9a-fA-F]{4}$/.test(hex)) fail('"\\u" must be followed by four hexadecimal digits');

@@ -66,7 +66,12 @@ const isReviewed = (e: AnnotatedEntry): boolean => e.note.trim() !== '' || e.sta
 
 /** The entry standing for both spin channels takes the second channel's note and, if it had none, its status. */
 function fold(into: AnnotatedEntry, other: AnnotatedEntry): AnnotatedEntry {
-  const note = other.note.trim() === '' || into.note.includes(other.note) ? into.note : into.note.trim() === '' ? other.note : `${into.note}\n(spin down) ${other.note}`;
+  const note =
+    other.note.trim() === '' || into.note.includes(other.note)
+      ? into.note
+      : into.note.trim() === ''
+        ? other.note
+        : `${into.note}\n(spin down) ${other.note}`;
   const status = into.status === 'unreviewed' ? other.status : into.status;
   return { ...into, note, status, extra: mergeExtra(other.extra, into.extra) };
 }
@@ -104,7 +109,6 @@ export function mergeAnnotations(older: AnnotationsDoc, fresh: AnnotationsDoc): 
 }
 
 function assemble(older: AnnotationsDoc, fresh: AnnotationsDoc, entries: AnnotatedEntry[]): AnnotationsDoc {
-
   const oldSources = new Map(older.sources.map((s) => [s.path, s]));
   return {
     ...fresh,

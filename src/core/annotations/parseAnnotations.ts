@@ -124,12 +124,18 @@ class Walker {
 
 function typeName(n: JsonNode): string {
   switch (n.type) {
-    case 'object': return 'an object';
-    case 'array': return 'a list';
-    case 'string': return `the text "${n.value.length > 40 ? n.value.slice(0, 40) + '…' : n.value}"`;
-    case 'number': return `the number ${n.value}`;
-    case 'boolean': return String(n.value);
-    case 'null': return 'null';
+    case 'object':
+      return 'an object';
+    case 'array':
+      return 'a list';
+    case 'string':
+      return `the text "${n.value.length > 40 ? n.value.slice(0, 40) + '…' : n.value}"`;
+    case 'number':
+      return `the number ${n.value}`;
+    case 'boolean':
+      return String(n.value);
+    case 'null':
+      return 'null';
   }
 }
 
@@ -141,7 +147,8 @@ function plain(n: JsonNode): JsonValue {
       for (const m of n.members) o[m.key] = plain(m.value);
       return o;
     }
-    case 'array': return n.items.map(plain);
+    case 'array':
+      return n.items.map(plain);
     case 'string':
     case 'number':
     case 'boolean':
@@ -208,7 +215,8 @@ function readSpin(w: Walker, n: JsonNode | undefined, what: string): 0 | 1 {
 }
 
 /** Whether a spin field was written at all, and as a layout-1 number 1 (a second channel). */
-const saysSecondChannel = (n: JsonNode | undefined): boolean => n !== undefined && ((n.type === 'number' && n.value === 1) || (n.type === 'string' && n.value === 'down'));
+const saysSecondChannel = (n: JsonNode | undefined): boolean =>
+  n !== undefined && ((n.type === 'number' && n.value === 1) || (n.type === 'string' && n.value === 'down'));
 
 function readPoint(w: Walker, n: JsonNode, what: string): AnnotatedPoint {
   const o = w.obj(n, what);
@@ -242,7 +250,20 @@ function readGap(w: Walker, n: JsonNode | undefined): AnnotatedGap | null {
   };
 }
 
-const MASS_KEYS = ['towards', 'direction', 'mass', 'stderr', 'points', 'window_meV', 'method', 'alpha_per_eV', 'residual_meV', 'branch', 'determined', 'warnings'];
+const MASS_KEYS = [
+  'towards',
+  'direction',
+  'mass',
+  'stderr',
+  'points',
+  'window_meV',
+  'method',
+  'alpha_per_eV',
+  'residual_meV',
+  'branch',
+  'determined',
+  'warnings',
+];
 
 function readMass(w: Walker, n: JsonNode, what: string): AnnotatedMass {
   const o = w.obj(n, what);
@@ -258,7 +279,10 @@ function readMass(w: Walker, n: JsonNode, what: string): AnnotatedMass {
     alpha_per_eV: w.numOrNull(f.get('alpha_per_eV'), `${what}.alpha_per_eV`),
     residual_meV: w.numOrNull(f.get('residual_meV'), `${what}.residual_meV`, nonNegative, 'zero or positive'),
     branch: w.numOrNull(f.get('branch'), `${what}.branch`, positiveWhole, 'a whole number of 1 or more'),
-    determined: f.get('determined') === undefined || f.get('determined')!.type === 'null' ? null : w.bool(f.get('determined'), `${what}.determined`, true),
+    determined:
+      f.get('determined') === undefined || f.get('determined')!.type === 'null'
+        ? null
+        : w.bool(f.get('determined'), `${what}.determined`, true),
     warnings: w.strings(f.get('warnings'), `${what}.warnings`),
     extra: f.extra,
   };
@@ -288,15 +312,39 @@ function readFit(w: Walker, n: JsonNode | undefined, what: string): AnnotatedEnt
   const o = w.obj(n, what);
   const f = w.fields(o, ['window_meV', 'method']);
   return {
-    window_meV: w.num(need(w, o, f.get('window_meV'), `${what}.window_meV`), `${what}.window_meV`, (x) => x > 0 && x <= 1e5, 'a positive number of meV'),
+    window_meV: w.num(
+      need(w, o, f.get('window_meV'), `${what}.window_meV`),
+      `${what}.window_meV`,
+      (x) => x > 0 && x <= 1e5,
+      'a positive number of meV',
+    ),
     method: w.str(need(w, o, f.get('method'), `${what}.method`), `${what}.method`),
     extra: f.extra,
   };
 }
 
 const ENTRY_KEYS = [
-  'id', 'status', 'note', 'found', 'kind', 'spin', 'edgeBand', 'band', 'valley', 'k', 'label', 'energy_eV', 'offset_eV', 'degenerateBands',
-  'valleyDegeneracy', 'masses', 'tensor', 'dosMass', 'conductivityMass', 'warnings', 'fit',
+  'id',
+  'status',
+  'note',
+  'found',
+  'kind',
+  'spin',
+  'edgeBand',
+  'band',
+  'valley',
+  'k',
+  'label',
+  'energy_eV',
+  'offset_eV',
+  'degenerateBands',
+  'valleyDegeneracy',
+  'masses',
+  'tensor',
+  'dosMass',
+  'conductivityMass',
+  'warnings',
+  'fit',
 ];
 
 /** What an entry's identity needs from the rest of the file. */
@@ -358,7 +406,8 @@ function readEntry(w: Walker, n: JsonNode, what: string, ctx: EntryContext): Ann
   if (idNode !== undefined) {
     const written = w.str(idNode, `${what}.id`);
     const expected = ctx.layout < 2 ? layout1EntryId(e) : e.id;
-    if (written !== expected) w.warnings.push(`${what}: the id "${written}" does not match the entry's other fields; it will be written as "${e.id}".`);
+    if (written !== expected)
+      w.warnings.push(`${what}: the id "${written}" does not match the entry's other fields; it will be written as "${e.id}".`);
   }
   if (!(REVIEW_STATUSES as readonly string[]).includes(status)) {
     w.warnings.push(`${e.id}: the review status "${status}" is not one of ${REVIEW_STATUSES.join(', ')}; it is kept as written.`);
@@ -367,7 +416,18 @@ function readEntry(w: Walker, n: JsonNode, what: string, ctx: EntryContext): Ann
 }
 
 const TOP_KEYS = [
-  'valleyscopeAnnotations', 'toolVersion', 'format', 'spinPolarised', 'sources', 'settings', 'metal', 'gap', 'note', 'entries', 'warnings', 'cautions',
+  'valleyscopeAnnotations',
+  'toolVersion',
+  'format',
+  'spinPolarised',
+  'sources',
+  'settings',
+  'metal',
+  'gap',
+  'note',
+  'entries',
+  'warnings',
+  'cautions',
 ];
 
 /**

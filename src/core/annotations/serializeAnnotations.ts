@@ -22,10 +22,7 @@ import { EXTREMUM_KINDS, entryId, spinName } from './annotationsModel';
 import { formatNumber, type NumberStyle } from './numberFormat';
 
 /** A value on its way to text: numbers already formatted, objects as ordered key lists. */
-type Out =
-  | { t: 'raw'; text: string }
-  | { t: 'list'; items: Out[] }
-  | { t: 'obj'; fields: [string, Out][] };
+type Out = { t: 'raw'; text: string } | { t: 'list'; items: Out[] } | { t: 'obj'; fields: [string, Out][] };
 
 const raw = (text: string): Out => ({ t: 'raw', text });
 const str = (s: string): Out => raw(JSON.stringify(s));
@@ -52,7 +49,14 @@ function withExtra(fields: [string, Out][], extra: ExtraFields): Out {
 }
 
 function sourceOut(s: AnnotatedSource): Out {
-  return withExtra([['path', str(s.path)], ['role', str(s.role)], ['sha256', str(s.sha256)]], s.extra);
+  return withExtra(
+    [
+      ['path', str(s.path)],
+      ['role', str(s.role)],
+      ['sha256', str(s.sha256)],
+    ],
+    s.extra,
+  );
 }
 
 function settingsOut(s: AnnotatedSettings): Out {
@@ -96,7 +100,16 @@ function gapOut(g: AnnotatedGap | null, spinPolarised: boolean): Out {
       ['direct', bool(g.direct)],
       ['vbm', pointOut(g.vbm, spinPolarised)],
       ['cbm', pointOut(g.cbm, spinPolarised)],
-      ['directGap', { t: 'obj', fields: [['eV', num(g.directGap.eV, 'energy')], ['k', nums(g.directGap.k, 'k')]] }],
+      [
+        'directGap',
+        {
+          t: 'obj',
+          fields: [
+            ['eV', num(g.directGap.eV, 'energy')],
+            ['k', nums(g.directGap.k, 'k')],
+          ],
+        },
+      ],
     ],
     g.extra,
   );

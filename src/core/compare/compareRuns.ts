@@ -148,7 +148,16 @@ function apply(m: Mat3, k: Vec3): Vec3 {
 
 /** Order of the little group of k (operations with time reversal that map k to itself modulo G). */
 export function littleGroupOrder(k: Vec3, kRots: Mat3[] | null): number {
-  const ops = kRots && kRots.length ? kRots : [[[1, 0, 0], [0, 1, 0], [0, 0, 1]] as Mat3];
+  const ops =
+    kRots && kRots.length
+      ? kRots
+      : [
+          [
+            [1, 0, 0],
+            [0, 1, 0],
+            [0, 0, 1],
+          ] as Mat3,
+        ];
   let n = 0;
   for (const r of ops) {
     const q = apply(r, k);
@@ -179,9 +188,13 @@ export function shareLatticeType(a: RunInput, b: RunInput): { shared: boolean; w
   if (a.latticeType && b.latticeType && a.latticeType === b.latticeType) return { shared: true, why: '' };
   if (a.lattice && b.lattice) {
     if (sameShape(a.lattice, b.lattice)) return { shared: true, why: '' };
-    return { shared: false, why: `its cell${a.latticeType && b.latticeType ? ` (${b.latticeType})` : ''} is not the reference's${a.latticeType && b.latticeType ? ` (${a.latticeType})` : ''}, strained or not` };
+    return {
+      shared: false,
+      why: `its cell${a.latticeType && b.latticeType ? ` (${b.latticeType})` : ''} is not the reference's${a.latticeType && b.latticeType ? ` (${a.latticeType})` : ''}, strained or not`,
+    };
   }
-  if (a.latticeType && b.latticeType) return { shared: false, why: `its lattice type ${b.latticeType} differs from the reference's ${a.latticeType}` };
+  if (a.latticeType && b.latticeType)
+    return { shared: false, why: `its lattice type ${b.latticeType} differs from the reference's ${a.latticeType}` };
   // Nothing known about one of them: k-points are compared as written (same point only).
   return { shared: true, why: '' };
 }
@@ -207,7 +220,11 @@ function massLabel(towards: string, branch: number | null): string {
   return branch !== null ? `${towards} (branch ${branch})` : towards;
 }
 
-function compareMasses(e: ExtremumReport, r: ExtremumReport | undefined, isReference: boolean): { masses: MassChange[]; degeneracyChanged: boolean } {
+function compareMasses(
+  e: ExtremumReport,
+  r: ExtremumReport | undefined,
+  isReference: boolean,
+): { masses: MassChange[]; degeneracyChanged: boolean } {
   const degeneracyChanged = !isReference && r !== undefined && r.degenerateBands !== e.degenerateBands;
   const masses = e.masses.map((m): MassChange => {
     const branch = m.branch ?? null;
@@ -217,10 +234,17 @@ function compareMasses(e: ExtremumReport, r: ExtremumReport | undefined, isRefer
     if (degeneracyChanged) return { ...base, referenceMass: null, relativeChange: null, status: 'degeneracy changed' };
     // Same direction and, at a degenerate edge, the same branch (heavy with heavy, light with light).
     const rm = r.masses.find((x) => x.towards === m.towards && (x.branch ?? null) === branch);
-    if (!rm || !Number.isFinite(rm.mass) || rm.mass === 0 || !Number.isFinite(m.mass)) return { ...base, referenceMass: rm ? rm.mass : null, relativeChange: null, status: 'no reference' };
+    if (!rm || !Number.isFinite(rm.mass) || rm.mass === 0 || !Number.isFinite(m.mass))
+      return { ...base, referenceMass: rm ? rm.mass : null, relativeChange: null, status: 'no reference' };
     // A change is given only between masses that can be quoted (an undetermined one has no value to compare).
-    if (m.determined === false || rm.determined === false) return { ...base, referenceMass: rm.mass, relativeChange: null, status: 'undetermined' };
-    return { ...base, referenceMass: rm.mass, relativeChange: (Math.abs(m.mass) - Math.abs(rm.mass)) / Math.abs(rm.mass), status: 'compared' };
+    if (m.determined === false || rm.determined === false)
+      return { ...base, referenceMass: rm.mass, relativeChange: null, status: 'undetermined' };
+    return {
+      ...base,
+      referenceMass: rm.mass,
+      relativeChange: (Math.abs(m.mass) - Math.abs(rm.mass)) / Math.abs(rm.mass),
+      status: 'compared',
+    };
   });
   return { masses, degeneracyChanged };
 }
@@ -258,7 +282,8 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
       else groups.push({ side, spin: e.spin, k: e.k, members: [e] });
     }
     // Lowest conduction / highest valence groups first, so the lower part of a split valley takes the column.
-    const groupEnergy = (g: (typeof groups)[number]): number => (g.side === 'conduction' ? Math.min(...g.members.map((e) => e.eV)) : -Math.max(...g.members.map((e) => e.eV)));
+    const groupEnergy = (g: (typeof groups)[number]): number =>
+      g.side === 'conduction' ? Math.min(...g.members.map((e) => e.eV)) : -Math.max(...g.members.map((e) => e.eV));
     groups.sort((a, b) => groupEnergy(a) - groupEnergy(b));
     const ownColumns = new Set<string>();
     for (const g of groups) {
@@ -282,7 +307,14 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
         }
         if (!best) {
           const n = columns.filter((c) => c.side === g.side).length + 1;
-          best = { id: `${g.side === 'conduction' ? 'c' : 'v'}${n}`, side: g.side, spin: g.spin, where: where(e, run.pathLines ?? null), k: e.k, branch };
+          best = {
+            id: `${g.side === 'conduction' ? 'c' : 'v'}${n}`,
+            side: g.side,
+            spin: g.spin,
+            where: where(e, run.pathLines ?? null),
+            k: e.k,
+            branch,
+          };
           columns.push(best);
           if (run === ref) ownColumns.add(best.id);
         }
@@ -308,16 +340,38 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
       const r = refById.get(id);
       const { masses, degeneracyChanged } = compareMasses(e, r, isReference);
       const split = extra.get(id) ?? [];
-      valleys[id] = { extremum: e, offset_eV: e.offset_eV, deltaOffset_eV: r ? e.offset_eV - r.offset_eV : null, masses, split, degeneracyChanged };
+      valleys[id] = {
+        extremum: e,
+        offset_eV: e.offset_eV,
+        deltaOffset_eV: r ? e.offset_eV - r.offset_eV : null,
+        masses,
+        split,
+        degeneracyChanged,
+      };
       if (isReference || !r) continue;
       if (split.length) {
-        const parts = [e, ...split].map((x) => `${x.valleyDegeneracy ?? '?'} at ${where(x, run.pathLines ?? null)}${x === e ? '' : ` (+${((sideOf(x) === 'conduction' ? x.eV - e.eV : e.eV - x.eV) * 1000).toFixed(0)} meV)`}`);
-        events.push({ run: run.name, kind: 'valley-split', message: `valley split: ${id} (${where(r, ref.pathLines ?? null)}, N_v ${r.valleyDegeneracy ?? '?'}) → ${parts.join(' + ')}` });
+        const parts = [e, ...split].map(
+          (x) =>
+            `${x.valleyDegeneracy ?? '?'} at ${where(x, run.pathLines ?? null)}${x === e ? '' : ` (+${((sideOf(x) === 'conduction' ? x.eV - e.eV : e.eV - x.eV) * 1000).toFixed(0)} meV)`}`,
+        );
+        events.push({
+          run: run.name,
+          kind: 'valley-split',
+          message: `valley split: ${id} (${where(r, ref.pathLines ?? null)}, N_v ${r.valleyDegeneracy ?? '?'}) → ${parts.join(' + ')}`,
+        });
       } else if (r.valleyDegeneracy !== null && e.valleyDegeneracy !== null && r.valleyDegeneracy !== e.valleyDegeneracy) {
-        events.push({ run: run.name, kind: 'valley-degeneracy', message: `valley ${id} (${where(e, run.pathLines ?? null)}): N_v ${r.valleyDegeneracy} → ${e.valleyDegeneracy} (symmetry lowered or raised)` });
+        events.push({
+          run: run.name,
+          kind: 'valley-degeneracy',
+          message: `valley ${id} (${where(e, run.pathLines ?? null)}): N_v ${r.valleyDegeneracy} → ${e.valleyDegeneracy} (symmetry lowered or raised)`,
+        });
       }
       if (degeneracyChanged) {
-        events.push({ run: run.name, kind: 'degeneracy-changed', message: `degeneracy changed: valley ${id} (${where(e, run.pathLines ?? null)}) has ${e.degenerateBands} degenerate band${e.degenerateBands === 1 ? '' : 's'}, the reference ${r.degenerateBands}; its branch masses are not paired` });
+        events.push({
+          run: run.name,
+          kind: 'degeneracy-changed',
+          message: `degeneracy changed: valley ${id} (${where(e, run.pathLines ?? null)}) has ${e.degenerateBands} degenerate band${e.degenerateBands === 1 ? '' : 's'}, the reference ${r.degenerateBands}; its branch masses are not paired`,
+        });
       }
     }
     const cbm = run.report.extrema.find((e) => e.kind === 'cbm');
@@ -349,10 +403,18 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
       const refCbmId = refCbm ? refMap.get(refCbm) : undefined;
       const refVbmId = refVbm ? refMap.get(refVbm) : undefined;
       if (refCbmId && out.cbmValley && refCbmId !== out.cbmValley) {
-        events.push({ run: run.name, kind: 'edge-moved', message: `the conduction band minimum moved from valley ${refCbmId} (${where(refCbm!, ref.pathLines ?? null)}) to valley ${out.cbmValley} (${where(cbm!, run.pathLines ?? null)})` });
+        events.push({
+          run: run.name,
+          kind: 'edge-moved',
+          message: `the conduction band minimum moved from valley ${refCbmId} (${where(refCbm!, ref.pathLines ?? null)}) to valley ${out.cbmValley} (${where(cbm!, run.pathLines ?? null)})`,
+        });
       }
       if (refVbmId && out.vbmValley && refVbmId !== out.vbmValley) {
-        events.push({ run: run.name, kind: 'edge-moved', message: `the valence band maximum moved from valley ${refVbmId} (${where(refVbm!, ref.pathLines ?? null)}) to valley ${out.vbmValley} (${where(vbm!, run.pathLines ?? null)})` });
+        events.push({
+          run: run.name,
+          kind: 'edge-moved',
+          message: `the valence band maximum moved from valley ${refVbmId} (${where(refVbm!, ref.pathLines ?? null)}) to valley ${out.vbmValley} (${where(vbm!, run.pathLines ?? null)})`,
+        });
       }
       if (rg && g && rg.direct !== g.direct) {
         events.push({ run: run.name, kind: 'direct-indirect', message: `the gap became ${g.direct ? 'direct' : 'indirect'}` });
@@ -361,7 +423,8 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
         events.push({ run: run.name, kind: 'metal', message: run.report.metal ? 'the gap closed: metallic' : 'a gap opened' });
       }
     }
-    if (run.stale) events.push({ run: run.name, kind: 'stale', message: 'its annotations no longer match the data files they were made from' });
+    if (run.stale)
+      events.push({ run: run.name, kind: 'stale', message: 'its annotations no longer match the data files they were made from' });
     return out;
   });
   return { reference: ref.name, columns, runs: compared, events };
@@ -375,7 +438,11 @@ function trackedExtrema(report: Report, rots: ReturnType<typeof kRotations> | nu
   const rejected = report.rejected ?? [];
   if (!rejected.length) return report.extrema;
   return report.extrema.filter(
-    (e) => e.kind === 'vbm' || e.kind === 'cbm' || !rejected.some((x) => x.spin === e.spin && (x.band === e.band || Math.abs(x.eV - e.eV) <= 1e-3) && equivalenceDistance(x.k, e.k, rots) < 1e-4),
+    (e) =>
+      e.kind === 'vbm' ||
+      e.kind === 'cbm' ||
+      !rejected.some(
+        (x) => x.spin === e.spin && (x.band === e.band || Math.abs(x.eV - e.eV) <= 1e-3) && equivalenceDistance(x.k, e.k, rots) < 1e-4,
+      ),
   );
 }
-

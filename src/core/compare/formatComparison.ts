@@ -88,7 +88,11 @@ function valleyTable(c: Comparison, short: Map<string, string>, o: ComparisonFor
       if (!v) continue;
       const e = v.extremum;
       const z = zeroOf(o, r.name);
-      const note = [v.split.length ? 'valley split' : '', v.degeneracyChanged ? 'degeneracy changed' : '', e.degenerateBands > 1 ? `${e.degenerateBands} bands` : '']
+      const note = [
+        v.split.length ? 'valley split' : '',
+        v.degeneracyChanged ? 'degeneracy changed' : '',
+        e.degenerateBands > 1 ? `${e.degenerateBands} bands` : '',
+      ]
         .filter(Boolean)
         .join('; ');
       rows.push([
@@ -122,14 +126,22 @@ function massTable(c: Comparison, short: Map<string, string>): Table {
     const keys: { direction: string; branch: number | null }[] = [];
     for (const r of c.runs) {
       for (const m of r.valleys[col.id]?.masses ?? []) {
-        if (!keys.some((k) => k.direction === m.direction && k.branch === m.branch)) keys.push({ direction: m.direction, branch: m.branch });
+        if (!keys.some((k) => k.direction === m.direction && k.branch === m.branch))
+          keys.push({ direction: m.direction, branch: m.branch });
       }
     }
     for (const k of keys) {
       for (const r of c.runs) {
         for (const m of r.valleys[col.id]?.masses ?? []) {
           if (m.direction !== k.direction || m.branch !== k.branch) continue;
-          rows.push([valleyName(col, c), k.direction, k.branch === null ? '' : String(k.branch), short.get(r.name)!, fmt(m.mass, 3), massDifference(m)]);
+          rows.push([
+            valleyName(col, c),
+            k.direction,
+            k.branch === null ? '' : String(k.branch),
+            short.get(r.name)!,
+            fmt(m.mass, 3),
+            massDifference(m),
+          ]);
         }
       }
     }
@@ -139,7 +151,11 @@ function massTable(c: Comparison, short: Map<string, string>): Table {
 
 function aligned(t: Table): string[] {
   const widths = t.header.map((h, i) => Math.max(h.length, ...t.rows.map((r) => (r[i] ?? '').length)));
-  const line = (cells: string[]): string => cells.map((x, i) => x.padEnd(widths[i]!)).join('  ').trimEnd();
+  const line = (cells: string[]): string =>
+    cells
+      .map((x, i) => x.padEnd(widths[i]!))
+      .join('  ')
+      .trimEnd();
   return [line(t.header), widths.map((w) => '-'.repeat(w)).join('  '), ...t.rows.map(line)];
 }
 
@@ -169,7 +185,11 @@ function wrap(lines: string[], width: number = TABLE_WIDTH): string[] {
 
 function markdown(t: Table): string {
   const esc = (s: string): string => s.replace(/\|/g, '\\|');
-  return [`| ${t.header.map(esc).join(' | ')} |`, `|${t.header.map(() => '---').join('|')}|`, ...t.rows.map((r) => `| ${r.map(esc).join(' | ')} |`)].join('\n');
+  return [
+    `| ${t.header.map(esc).join(' | ')} |`,
+    `|${t.header.map(() => '---').join('|')}|`,
+    ...t.rows.map((r) => `| ${r.map(esc).join(' | ')} |`),
+  ].join('\n');
 }
 
 function csvCell(s: string): string {
@@ -177,7 +197,19 @@ function csvCell(s: string): string {
 }
 
 /** The CSV columns, in this order (long form). */
-export const CSV_COLUMNS = ['run', 'extremum', 'kind', 'quantity', 'direction', 'branch', 'value', 'unit', 'reference_value', 'difference', 'relative_difference'] as const;
+export const CSV_COLUMNS = [
+  'run',
+  'extremum',
+  'kind',
+  'quantity',
+  'direction',
+  'branch',
+  'value',
+  'unit',
+  'reference_value',
+  'difference',
+  'relative_difference',
+] as const;
 
 interface CsvRow {
   run: string;
@@ -201,7 +233,19 @@ function csvLine(r: CsvRow): string[] {
   const b = r.magnitudes && r.reference !== null ? Math.abs(r.reference) : r.reference;
   const diff = !r.isReference && a !== null && b !== null ? a - b : null;
   const rel = diff !== null && b !== null && b !== 0 ? diff / Math.abs(b) : null;
-  return [r.run, r.extremum, r.kind, r.quantity, r.direction ?? '', r.branch === null || r.branch === undefined ? '' : String(r.branch), g(a), r.unit, r.isReference ? '' : g(b), g(diff), g(rel)];
+  return [
+    r.run,
+    r.extremum,
+    r.kind,
+    r.quantity,
+    r.direction ?? '',
+    r.branch === null || r.branch === undefined ? '' : String(r.branch),
+    g(a),
+    r.unit,
+    r.isReference ? '' : g(b),
+    g(diff),
+    g(rel),
+  ];
 }
 
 function csv(c: Comparison, o: ComparisonFormatOptions): string {
@@ -209,14 +253,58 @@ function csv(c: Comparison, o: ComparisonFormatOptions): string {
   const ref = c.runs.find((r) => r.isReference) ?? null;
   for (const r of c.runs) {
     const base = { run: r.name, isReference: r.isReference };
-    rows.push(csvLine({ ...base, extremum: 'gap', kind: r.metal ? 'metal' : r.direct === null ? '' : r.direct ? 'direct' : 'indirect', quantity: 'gap', value: r.metal ? 0 : r.gap_eV, unit: 'eV', reference: ref?.gap_eV ?? null }));
+    rows.push(
+      csvLine({
+        ...base,
+        extremum: 'gap',
+        kind: r.metal ? 'metal' : r.direct === null ? '' : r.direct ? 'direct' : 'indirect',
+        quantity: 'gap',
+        value: r.metal ? 0 : r.gap_eV,
+        unit: 'eV',
+        reference: ref?.gap_eV ?? null,
+      }),
+    );
     const d = r.descriptors;
     if (d) {
       const rd = ref?.descriptors ?? null;
-      rows.push(csvLine({ ...base, extremum: 'cell', kind: 'structure', quantity: 'volume', value: d.volume, unit: 'Å^3', reference: rd?.volume ?? null }));
+      rows.push(
+        csvLine({
+          ...base,
+          extremum: 'cell',
+          kind: 'structure',
+          quantity: 'volume',
+          value: d.volume,
+          unit: 'Å^3',
+          reference: rd?.volume ?? null,
+        }),
+      );
       // Strains are themselves relative to the reference run: no second difference is taken.
-      if (d.volumeStrain !== null) rows.push(csvLine({ ...base, isReference: true, extremum: 'cell', kind: 'structure', quantity: 'volume_strain', value: d.volumeStrain * 100, unit: `% relative to ${c.reference}`, reference: null }));
-      if (d.inPlaneStrain !== null) rows.push(csvLine({ ...base, isReference: true, extremum: 'cell', kind: 'structure', quantity: 'in_plane_strain', value: d.inPlaneStrain * 100, unit: `% relative to ${c.reference}`, reference: null }));
+      if (d.volumeStrain !== null)
+        rows.push(
+          csvLine({
+            ...base,
+            isReference: true,
+            extremum: 'cell',
+            kind: 'structure',
+            quantity: 'volume_strain',
+            value: d.volumeStrain * 100,
+            unit: `% relative to ${c.reference}`,
+            reference: null,
+          }),
+        );
+      if (d.inPlaneStrain !== null)
+        rows.push(
+          csvLine({
+            ...base,
+            isReference: true,
+            extremum: 'cell',
+            kind: 'structure',
+            quantity: 'in_plane_strain',
+            value: d.inPlaneStrain * 100,
+            unit: `% relative to ${c.reference}`,
+            reference: null,
+          }),
+        );
     }
     for (const col of c.columns) {
       const v: ValleyEntry | undefined = r.valleys[col.id];
@@ -226,14 +314,51 @@ function csv(c: Comparison, o: ComparisonFormatOptions): string {
       const z = zeroOf(o, r.name);
       const rz = ref ? zeroOf(o, ref.name) : null;
       const x = { ...base, extremum: valleyName(col, c), kind: e.kind };
-      rows.push(csvLine({ ...x, quantity: 'energy', value: e.eV - (z?.eV ?? 0), unit: z ? `eV (zero: ${z.used})` : 'eV', reference: rv ? rv.extremum.eV - (rz?.eV ?? 0) : null }));
-      rows.push(csvLine({ ...x, quantity: 'offset_from_edge', value: v.offset_eV * 1000, unit: 'meV', reference: rv ? rv.offset_eV * 1000 : null }));
-      rows.push(csvLine({ ...x, quantity: 'valley_degeneracy', value: e.valleyDegeneracy, unit: '', reference: rv?.extremum.valleyDegeneracy ?? null }));
+      rows.push(
+        csvLine({
+          ...x,
+          quantity: 'energy',
+          value: e.eV - (z?.eV ?? 0),
+          unit: z ? `eV (zero: ${z.used})` : 'eV',
+          reference: rv ? rv.extremum.eV - (rz?.eV ?? 0) : null,
+        }),
+      );
+      rows.push(
+        csvLine({ ...x, quantity: 'offset_from_edge', value: v.offset_eV * 1000, unit: 'meV', reference: rv ? rv.offset_eV * 1000 : null }),
+      );
+      rows.push(
+        csvLine({
+          ...x,
+          quantity: 'valley_degeneracy',
+          value: e.valleyDegeneracy,
+          unit: '',
+          reference: rv?.extremum.valleyDegeneracy ?? null,
+        }),
+      );
       for (const m of v.masses) {
-        rows.push(csvLine({ ...x, quantity: 'abs_mass', direction: m.direction, branch: m.branch, value: m.mass, unit: 'm_e', reference: m.status === 'compared' ? m.referenceMass : null, magnitudes: true }));
+        rows.push(
+          csvLine({
+            ...x,
+            quantity: 'abs_mass',
+            direction: m.direction,
+            branch: m.branch,
+            value: m.mass,
+            unit: 'm_e',
+            reference: m.status === 'compared' ? m.referenceMass : null,
+            magnitudes: true,
+          }),
+        );
       }
       rows.push(csvLine({ ...x, quantity: 'dos_mass', value: e.dosMass, unit: 'm_e', reference: rv?.extremum.dosMass ?? null }));
-      rows.push(csvLine({ ...x, quantity: 'conductivity_mass', value: e.conductivityMass, unit: 'm_e', reference: rv?.extremum.conductivityMass ?? null }));
+      rows.push(
+        csvLine({
+          ...x,
+          quantity: 'conductivity_mass',
+          value: e.conductivityMass,
+          unit: 'm_e',
+          reference: rv?.extremum.conductivityMass ?? null,
+        }),
+      );
     }
   }
   return rows.map((r) => r.map(csvCell).join(',')).join('\n');
@@ -248,12 +373,15 @@ function footnotes(c: Comparison, o: ComparisonFormatOptions): string[] {
   const relative = c.runs.some((r) => r.relativeTo !== null && !r.isReference);
   if (relative) out.push(`* Strain relative to ${c.reference} (the reference run), not to an unstrained crystal.`);
   const zeros = new Set(Object.values(o.zeros ?? {}).map((z) => energyZeroName(z)));
-  out.push(`† Energies relative to ${zeros.size === 0 ? 'nothing (raw, as each code wrote them)' : [...zeros].map((z) => `the ${z}`).join(' / ')} of each run.`);
+  out.push(
+    `† Energies relative to ${zeros.size === 0 ? 'nothing (raw, as each code wrote them)' : [...zeros].map((z) => `the ${z}`).join(' / ')} of each run.`,
+  );
   out.push('Mass differences are on magnitudes, (|m| − |m_ref|)/|m_ref|: positive means heavier, for electrons and holes alike.');
   return out;
 }
 
-const CAUTION = 'Gaps from semilocal DFT are usually underestimated; compare runs made with the same functional, spin-orbit treatment and k-path.';
+const CAUTION =
+  'Gaps from semilocal DFT are usually underestimated; compare runs made with the same functional, spin-orbit treatment and k-path.';
 
 export function formatComparison(c: Comparison, format: ComparisonFormat, options: ComparisonFormatOptions = {}): string {
   const { short, legend } = runNames(c);
@@ -266,7 +394,8 @@ export function formatComparison(c: Comparison, format: ComparisonFormat, option
       const out = [`### Band-structure comparison (reference: ${c.reference})`, ''];
       if (legend.length) out.push(...legend.map((l) => `- ${l.trim()}`), '');
       out.push(markdown(summaryTable(c, short)));
-      if (c.columns.length) out.push('', '#### Valleys', '', markdown(valleyTable(c, short, options)), '', '#### Masses', '', markdown(massTable(c, short)));
+      if (c.columns.length)
+        out.push('', '#### Valleys', '', markdown(valleyTable(c, short, options)), '', '#### Masses', '', markdown(massTable(c, short)));
       if (c.events.length) out.push('', '#### What changed', '', ...eventsText(c, short, '- '));
       out.push('', ...footnotes(c, options).map((f) => `_${f}_`), '', `_${CAUTION}_`);
       return out.join('\n');

@@ -39,7 +39,10 @@ export function annotationsStaleness(doc: AnnotationsDoc, currentSources: readon
   if (currentSources === null) return ['the source files were not checked against the hashes recorded in the annotations'];
   // Only the recorded sources are compared: a file that was never recorded is not a reason here.
   const recorded = new Set(doc.sources.map((s) => s.path));
-  return compareSources(doc.sources, currentSources.filter((s) => recorded.has(s.path))).map((c) => c.message);
+  return compareSources(
+    doc.sources,
+    currentSources.filter((s) => recorded.has(s.path)),
+  ).map((c) => c.message);
 }
 
 function gapReport(g: AnnotatedGap): GapReport {

@@ -98,7 +98,10 @@ export function structureDescriptors(lattice: Mat3, reference: Mat3 | null): Str
 export function compositionOf(species: readonly string[]): string {
   const n = new Map<string, number>();
   for (const s of species) n.set(s, (n.get(s) ?? 0) + 1);
-  return [...n.entries()].sort((a, b) => (a[0] < b[0] ? -1 : a[0] > b[0] ? 1 : 0)).map(([s, c]) => `${s}${c}`).join(' ');
+  return [...n.entries()]
+    .sort((a, b) => (a[0] < b[0] ? -1 : a[0] > b[0] ? 1 : 0))
+    .map(([s, c]) => `${s}${c}`)
+    .join(' ');
 }
 
 /** Lattice points in the conventional cubic cell, by Bravais class (common practice: cP 1, cI 2, cF 4). */
@@ -110,7 +113,11 @@ const CUBIC_LATTICE_POINTS: Readonly<Record<string, number>> = { cP: 1, cI: 2, c
  * points. For the fcc primitive cell (p = 1) this is √2 times its vector length; for bcc, 2/√3 times. Null
  * for any other lattice type (a strained cubic crystal is no longer cubic: use its own cell).
  */
-export function conventionalCubicA(latticeType: string | null | undefined, volume: number, latticePointsPerCell: number | null | undefined): number | null {
+export function conventionalCubicA(
+  latticeType: string | null | undefined,
+  volume: number,
+  latticePointsPerCell: number | null | undefined,
+): number | null {
   const n = latticeType ? CUBIC_LATTICE_POINTS[latticeType] : undefined;
   const p = latticePointsPerCell ?? 1;
   if (n === undefined || !(volume > 0) || !(p >= 1) || !Number.isInteger(p)) return null;

@@ -67,7 +67,11 @@ export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStruct
     if (u === 'BEGIN_INFO') inInfo = true;
     else if (u === 'END_INFO') inInfo = false;
     else if (!inInfo && !t.startsWith('#')) {
-      throw sc.error(`unexpected "${t.length > 20 ? `${t.slice(0, 20)}…` : t}" before the band grid (only comments and the BEGIN_INFO block belong there)`, lineNo, 1);
+      throw sc.error(
+        `unexpected "${t.length > 20 ? `${t.slice(0, 20)}…` : t}" before the band grid (only comments and the BEGIN_INFO block belong there)`,
+        lineNo,
+        1,
+      );
     }
     sc.nextLine();
   }
@@ -91,7 +95,11 @@ export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStruct
     sc.nextLine();
   }
   if (gridHeader === null) {
-    throw sc.error(`no grid header (BEGIN_BANDGRID_3D_… or BANDGRID_3D_…) in the lines after BEGIN_BLOCK_BANDGRID_3D on line ${blockLine}`, blockLine + 1, 1);
+    throw sc.error(
+      `no grid header (BEGIN_BANDGRID_3D_… or BANDGRID_3D_…) in the lines after BEGIN_BLOCK_BANDGRID_3D on line ${blockLine}`,
+      blockLine + 1,
+      1,
+    );
   }
   const bareHeader = !/^BEGIN_/i.test(gridHeader);
   sc.nextLine();
@@ -102,18 +110,31 @@ export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStruct
   sc.endLine('the number of bands');
   sc.skipBlankLines();
   const dimsLine = sc.line;
-  const dims: Vec3 = [sc.integer('the number of grid points along b1'), sc.integer('the number of grid points along b2'), sc.integer('the number of grid points along b3')];
+  const dims: Vec3 = [
+    sc.integer('the number of grid points along b1'),
+    sc.integer('the number of grid points along b2'),
+    sc.integer('the number of grid points along b3'),
+  ];
   sc.endLine('the grid dimensions');
-  if (dims.some((d) => d < 2)) throw sc.error(`each grid dimension must be at least 2 (end points repeated), found ${dims.join(' × ')}`, dimsLine, 0);
+  if (dims.some((d) => d < 2))
+    throw sc.error(`each grid dimension must be at least 2 (end points repeated), found ${dims.join(' × ')}`, dimsLine, 0);
   const nk = dims[0] * dims[1] * dims[2];
   const remaining = file.bytes.length - sc.pos;
   // Not even one band of that grid fits: refused also for a file still being written (nothing to allocate for).
   if (nk * 2 > remaining + 16) {
-    throw sc.error(`the grid (${dims.join(' × ')} points) needs more values than the rest of the file can hold: it is truncated or the header is wrong`, dimsLine, 0);
+    throw sc.error(
+      `the grid (${dims.join(' × ')} points) needs more values than the rest of the file can hold: it is truncated or the header is wrong`,
+      dimsLine,
+      0,
+    );
   }
   if (nk * nBands * 2 > remaining + 16) {
     if (!options.allowPartial) {
-      throw sc.error(`the grid (${dims.join(' × ')} points, ${nBands} bands) needs more values than the rest of the file can hold: it is truncated or the header is wrong`, dimsLine, 0);
+      throw sc.error(
+        `the grid (${dims.join(' × ')} points, ${nBands} bands) needs more values than the rest of the file can hold: it is truncated or the header is wrong`,
+        dimsLine,
+        0,
+      );
     }
   }
   sc.skipBlankLines();
@@ -122,7 +143,11 @@ export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStruct
   const rec: Vec3[] = [];
   for (let i = 0; i < 3; i++) {
     sc.skipBlankLines();
-    rec.push([sc.number(`reciprocal vector b${i + 1} (x)`), sc.number(`reciprocal vector b${i + 1} (y)`), sc.number(`reciprocal vector b${i + 1} (z)`)]);
+    rec.push([
+      sc.number(`reciprocal vector b${i + 1} (x)`),
+      sc.number(`reciprocal vector b${i + 1} (y)`),
+      sc.number(`reciprocal vector b${i + 1} (z)`),
+    ]);
     sc.endLine(`reciprocal vector b${i + 1}`);
   }
   // ABINIT writes its own conventions into the layout (its printbxsf): energies and the Fermi energy in
@@ -155,7 +180,8 @@ export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStruct
     }
     const bandLine = sc.line;
     const tag = sc.token();
-    if (tag === null || !/^BAND:?$/i.test(tag)) throw sc.error(`expected "BAND:" starting band ${b + 1}, found "${tag ?? 'the end of the line'}"`, bandLine, 1);
+    if (tag === null || !/^BAND:?$/i.test(tag))
+      throw sc.error(`expected "BAND:" starting band ${b + 1}, found "${tag ?? 'the end of the line'}"`, bandLine, 1);
     bandNumbers.push(sc.integer(`the index of band ${b + 1}`));
     sc.endLine(`the band index`);
     const base = b * nk;
@@ -217,7 +243,9 @@ export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStruct
   // Grid points, first index slowest; fractional coordinates i/(n-1) from the origin.
   const originFrac: Vec3 = [0, 0, 0];
   for (let i = 0; i < 3; i++) {
-    originFrac[i] = abinit ? origin[i]! : (origin[0] * lattice[i]![0] + origin[1] * lattice[i]![1] + origin[2] * lattice[i]![2]) / (2 * Math.PI);
+    originFrac[i] = abinit
+      ? origin[i]!
+      : (origin[0] * lattice[i]![0] + origin[1] * lattice[i]![1] + origin[2] * lattice[i]![2]) / (2 * Math.PI);
   }
   // End points repeated (a periodic general grid: the last plane along each axis repeats the first) or not:
   // told from the energies themselves.
@@ -238,14 +266,23 @@ export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStruct
   const warnings: InputWarning[] = [];
   if (units.note) warnings.push({ code: 'bxsf-units', message: units.note });
   if (!repeated) {
-    warnings.push({ code: 'bxsf-endpoints', message: `The grid's last points do not repeat its first ones: read as ${dims.join(' × ')} distinct points over the cell (not a periodic general grid).` });
+    warnings.push({
+      code: 'bxsf-endpoints',
+      message: `The grid's last points do not repeat its first ones: read as ${dims.join(' × ')} distinct points over the cell (not a periodic general grid).`,
+    });
   }
   const firstBand = bandNumbers[0] ?? 1;
   const consecutive = bandNumbers.every((x, i) => x === firstBand + i);
   if (firstBand !== 1 && consecutive && nSpin === 1) {
-    warnings.push({ code: 'bxsf-band-numbers', message: `The file holds bands ${firstBand}–${firstBand + bandsRead - 1} (numbered by its BAND: lines); they are reported with those numbers.` });
+    warnings.push({
+      code: 'bxsf-band-numbers',
+      message: `The file holds bands ${firstBand}–${firstBand + bandsRead - 1} (numbered by its BAND: lines); they are reported with those numbers.`,
+    });
   } else if (!consecutive) {
-    warnings.push({ code: 'bxsf-band-numbers', message: `The BAND: lines are not numbered consecutively (${bandNumbers.slice(0, 6).join(', ')}${bandNumbers.length > 6 ? ', …' : ''}): bands are reported in file order, from 1.` });
+    warnings.push({
+      code: 'bxsf-band-numbers',
+      message: `The BAND: lines are not numbered consecutively (${bandNumbers.slice(0, 6).join(', ')}${bandNumbers.length > 6 ? ', …' : ''}): bands are reported in file order, from 1.`,
+    });
   }
   if (partial) {
     warnings.push({
@@ -260,13 +297,27 @@ export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStruct
     });
   }
   if (interleavedSpins && nSpin === 1) {
-    warnings.push({ code: 'spin-interleave', message: 'The header says bands alternate spin up and down, but the file holds an odd number of bands: read as one channel.' });
+    warnings.push({
+      code: 'spin-interleave',
+      message: 'The header says bands alternate spin up and down, but the file holds an odd number of bands: read as one channel.',
+    });
   }
   if (moreGrids > 0) {
-    warnings.push({ code: 'more-grids', message: 'The file holds more than one band grid (e.g. one per spin channel): only the first was read.' });
+    warnings.push({
+      code: 'more-grids',
+      message: 'The file holds more than one band grid (e.g. one per spin channel): only the first was read.',
+    });
   }
-  if (fermiEnergy === null) warnings.push({ code: 'no-fermi', message: 'The band-grid file gives no Fermi energy and no electron count: band edges cannot be placed.' });
-  if (!options.structure) warnings.push({ code: 'no-structure', message: 'A band-grid file holds the reciprocal cell but not the atoms: valley degeneracy needs the structure.' });
+  if (fermiEnergy === null)
+    warnings.push({
+      code: 'no-fermi',
+      message: 'The band-grid file gives no Fermi energy and no electron count: band edges cannot be placed.',
+    });
+  if (!options.structure)
+    warnings.push({
+      code: 'no-structure',
+      message: 'A band-grid file holds the reciprocal cell but not the atoms: valley degeneracy needs the structure.',
+    });
   return {
     source: { format: BXSF_FORMAT, file: file.path, files: [{ role: 'eigenvalues', path: file.path, sha256: sha256Hex(file.bytes) }] },
     lattice,
@@ -322,13 +373,22 @@ function reciprocalUnits(rec: Mat3, bareHeader: boolean, options: ReadOptions): 
   if (known) {
     const ref = transpose3(mat3Inverse(known)).map((r) => r.map((x) => 2 * Math.PI * x)) as Mat3;
     const refScale = Math.max(...ref.map((r) => Math.hypot(...r)));
-    const misfit = (scale: number): number => Math.max(...rec.map((r, i) => Math.hypot(...r.map((x, j) => scale * x - ref[i]![j]!)))) / refScale;
+    const misfit = (scale: number): number =>
+      Math.max(...rec.map((r, i) => Math.hypot(...r.map((x, j) => scale * x - ref[i]![j]!)))) / refScale;
     const best = hyps.map((h) => ({ ...h, err: misfit(h.scale) })).sort((a, b) => a.err - b.err)[0]!;
-    if (best.err < 1e-3) return { scale: best.scale, note: `Reciprocal vectors read in ${best.name}: the only unit that matches the structure given.` };
-    return { scale: 1, note: `The reciprocal vectors match the structure given in none of the units tried (${hyps.map((h) => h.name).join('; ')}): read as Å⁻¹ including 2π. Check that the structure belongs to this grid.` };
+    if (best.err < 1e-3)
+      return { scale: best.scale, note: `Reciprocal vectors read in ${best.name}: the only unit that matches the structure given.` };
+    return {
+      scale: 1,
+      note: `The reciprocal vectors match the structure given in none of the units tried (${hyps.map((h) => h.name).join('; ')}): read as Å⁻¹ including 2π. Check that the structure belongs to this grid.`,
+    };
   }
   if (bareHeader) {
-    if (alat) return { scale: (2 * Math.PI) / alat, note: `Reciprocal vectors assumed in units of 2π/alat (alat = ${alat.toFixed(5)} Å), as Quantum ESPRESSO's fs.x writes this header; give --structure to check.` };
+    if (alat)
+      return {
+        scale: (2 * Math.PI) / alat,
+        note: `Reciprocal vectors assumed in units of 2π/alat (alat = ${alat.toFixed(5)} Å), as Quantum ESPRESSO's fs.x writes this header; give --structure to check.`,
+      };
     return {
       scale: 1,
       note: "This header style is Quantum ESPRESSO fs.x's, which writes reciprocal vectors in units of 2π/alat; without --alat or --structure they were read as Å⁻¹ including 2π, so k distances and masses may be off by the factor alat/2π.",

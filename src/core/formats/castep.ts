@@ -72,14 +72,22 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
   // Before allocating: one k-point's eigenvalues (a number and a newline each) must fit in the file.
   checkAnnouncedCount(sc, nBands * nSpin, 2, 'eigenvalues per k-point', eigLine);
   if (counts.some((c) => c !== nBands)) {
-    throw sc.error(`the spin channels have different numbers of eigenvalues (${counts.join(' and ')}); Valleyscope needs the same number in both`, eigLine, 0);
+    throw sc.error(
+      `the spin channels have different numbers of eigenvalues (${counts.join(' and ')}); Valleyscope needs the same number in both`,
+      eigLine,
+      0,
+    );
   }
   sc.skipBlankLines();
   const fermiLine = sc.line;
   const fermiText = sc.restOfLine();
   const fm = /^\s*Fermi\s+energ(?:y|ies)\s*\(in\s+atomic\s+units\)\s*(.*)$/i.exec(fermiText);
   if (!fm) throw sc.error('expected the header line "Fermi energy (in atomic units)"', fermiLine, 1);
-  const fermiValues = fm[1]!.trim().split(/\s+/).filter(Boolean).map((t) => parseDecimal(t) ?? Number.NaN);
+  const fermiValues = fm[1]!
+    .trim()
+    .split(/\s+/)
+    .filter(Boolean)
+    .map((t) => parseDecimal(t) ?? Number.NaN);
   if (fermiValues.length < 1 || fermiValues.length > 2 || fermiValues.some((x) => !Number.isFinite(x))) {
     throw sc.error(`the Fermi energy should be ${nSpin === 2 ? 'one or two numbers' : 'a number'}, found "${fm[1]!.trim()}"`, fermiLine, 1);
   }
@@ -88,7 +96,11 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
   const cell: number[][] = [];
   for (let i = 0; i < 3; i++) {
     sc.skipBlankLines();
-    const row = [sc.number(`unit cell vector ${i + 1} (x)`), sc.number(`unit cell vector ${i + 1} (y)`), sc.number(`unit cell vector ${i + 1} (z)`)];
+    const row = [
+      sc.number(`unit cell vector ${i + 1} (x)`),
+      sc.number(`unit cell vector ${i + 1} (y)`),
+      sc.number(`unit cell vector ${i + 1} (z)`),
+    ];
     sc.endLine(`unit cell vector ${i + 1}`);
     cell.push(row.map(bohrToAngstrom));
   }
@@ -115,7 +127,9 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
         partial = true;
         break;
       }
-      throw sc.error(`the file ends after ${n} of the ${nkAnnounced} k-points its header announces (it is truncated, or the run is still writing it)`);
+      throw sc.error(
+        `the file ends after ${n} of the ${nkAnnounced} k-points its header announces (it is truncated, or the run is still writing it)`,
+      );
     }
     let complete = true;
     let k = 0;
@@ -126,7 +140,8 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
     try {
       const kLine = sc.line;
       const word = sc.token();
-      if (word === null || word.toLowerCase() !== 'k-point') throw sc.error(`expected "K-point" starting the block of k-point ${n + 1}, found "${word ?? 'the end of the line'}"`, kLine, 1);
+      if (word === null || word.toLowerCase() !== 'k-point')
+        throw sc.error(`expected "K-point" starting the block of k-point ${n + 1}, found "${word ?? 'the end of the line'}"`, kLine, 1);
       const index = sc.integer('the k-point index');
       if (index < 1 || index > nkAnnounced) throw sc.error(`k-point index ${index} is outside 1…${nkAnnounced}`, kLine, 0);
       if (index > maxK) throw sc.error(`k-point index ${index} cannot fit in what remains of the file (it is truncated)`, kLine, 0);
@@ -186,9 +201,13 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
     weights[k] = w;
     read++;
   }
-  if (read === 0) throw sc.error('the file ends inside the first k-point block, before its eigenvalues are complete (it is truncated, or still being written)');
+  if (read === 0)
+    throw sc.error(
+      'the file ends inside the first k-point block, before its eigenvalues are complete (it is truncated, or still being written)',
+    );
   sc.skipBlankLines();
-  if (!sc.atEnd() && !partial) throw sc.error(`unexpected data after the ${nkAnnounced} k-points the header announces: "${sc.peekToken()}"`);
+  if (!sc.atEnd() && !partial)
+    throw sc.error(`unexpected data after the ${nkAnnounced} k-points the header announces: "${sc.peekToken()}"`);
   options.onProgress?.(1);
 
   // Keep the k-points read, in index order (all of them unless partial).
@@ -216,11 +235,15 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
       message: `The file holds ${nk} of the ${nkAnnounced} k-points its header announces (a running or interrupted job): results are provisional.`,
     });
   }
-  warnings.push({ code: 'no-structure', message: 'A .bands file holds the cell but not the atoms: valley degeneracy needs the structure (.cell file or a POSCAR-like file).' });
+  warnings.push({
+    code: 'no-structure',
+    message: 'A .bands file holds the cell but not the atoms: valley degeneracy needs the structure (.cell file or a POSCAR-like file).',
+  });
   if (nSpin === 1 && options.spinorbit === undefined) {
     warnings.push({
       code: 'spinorbit-unknown',
-      message: 'A .bands file does not say whether the run was non-collinear (spin-orbit): read as collinear, two electrons per band; give --soc if it was.',
+      message:
+        'A .bands file does not say whether the run was non-collinear (spin-orbit): read as collinear, two electrons per band; give --soc if it was.',
     });
   }
   let sampling: BandStructure['sampling'] = 'points';
@@ -235,7 +258,11 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
   // A spin-polarised file gives two Fermi energies; the higher one bounds the occupied states of both.
   const fermi = hartreeToEv(Math.max(...fermiValues));
   return {
-    source: { format: CASTEP_BANDS_FORMAT, file: file.path, files: [{ role: 'eigenvalues', path: file.path, sha256: sha256Hex(file.bytes) }] },
+    source: {
+      format: CASTEP_BANDS_FORMAT,
+      file: file.path,
+      files: [{ role: 'eigenvalues', path: file.path, sha256: sha256Hex(file.bytes) }],
+    },
     lattice,
     structure: options.structure ?? null,
     nk,
@@ -246,7 +273,9 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
     energies: eOut,
     occupations: null,
     fermiEnergy: fermi,
-    ...(nSpin === 2 && fermiValues.length === 2 && fermiValues[0] !== fermiValues[1] ? { fermiEnergies: [hartreeToEv(fermiValues[0]!), hartreeToEv(fermiValues[1]!)] as [number, number] } : {}),
+    ...(nSpin === 2 && fermiValues.length === 2 && fermiValues[0] !== fermiValues[1]
+      ? { fermiEnergies: [hartreeToEv(fermiValues[0]!), hartreeToEv(fermiValues[1]!)] as [number, number] }
+      : {}),
     electrons,
     spinorbit: options.spinorbit ?? false,
     labels: [],

@@ -30,8 +30,7 @@ export function parseDecimal(token: string): number | null {
  * over one of them is rounded once, so the result is the correctly rounded double (IEEE 754).
  */
 export const POW10 = new Float64Array([
-  1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18,
-  1e19, 1e20, 1e21, 1e22,
+  1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22,
 ]);
 
 function isBlank(c: number): boolean {
@@ -43,7 +42,14 @@ function isBlank(c: number): boolean {
  * them, without building strings. Returns how many numbers the bytes hold (more than `max` means too many;
  * only `max` were stored) and the first token that is not a finite number, if any (reading stops there).
  */
-export function scanDecimalBytes(buf: Uint8Array, from: number, to: number, out: Float64Array | number[], at: number, max: number): { count: number; bad: string | null } {
+export function scanDecimalBytes(
+  buf: Uint8Array,
+  from: number,
+  to: number,
+  out: Float64Array | number[],
+  at: number,
+  max: number,
+): { count: number; bad: string | null } {
   let count = 0;
   let i = from;
   for (;;) {

@@ -26,7 +26,13 @@ export interface StructureFileContent {
 export function readStructureFile(file: InputFile): StructureFileContent {
   if (detectQeXml(file.bytes.subarray(0, 4096), basename(file.path)) > 0) {
     const qe = readQeXml(file);
-    return { structure: qe.structure, alat_angstrom: qe.alat, layout: 'qe-xml', electrons: qe.electrons !== null && !qe.lsda ? qe.electrons : null, spinors: qe.noncolin || qe.spinorbit };
+    return {
+      structure: qe.structure,
+      alat_angstrom: qe.alat,
+      layout: 'qe-xml',
+      electrons: qe.electrons !== null && !qe.lsda ? qe.electrons : null,
+      spinors: qe.noncolin || qe.spinorbit,
+    };
   }
   return { structure: readPoscar(file), alat_angstrom: null, layout: 'poscar', electrons: null, spinors: false };
 }

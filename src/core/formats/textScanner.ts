@@ -298,9 +298,7 @@ export class TextScanner {
   private numberError(what: string): ReaderError {
     const tok = this.peekToken();
     if (tok.includes('***')) {
-      return this.error(
-        `${what} is written as "${tok}": the writing program's number field overflowed, so the value is unknown`,
-      );
+      return this.error(`${what} is written as "${tok}": the writing program's number field overflowed, so the value is unknown`);
     }
     if (/^[+-]?(nan|inf)/i.test(tok)) return this.error(`${what} is "${tok}", not a finite number`);
     if (tok === 'the end of the line' || tok === 'the end of the file') {

@@ -241,7 +241,8 @@ export class VasprunStream {
     const e = this.eig!;
     const where = `band ${e.rowsInSet} of k-point ${e.kInSpin}${e.spins > 1 ? ' (spin 2)' : ''}`;
     if (bad !== null) {
-      if (bad.includes('***')) throw this.fail(`the energy of ${where} is written as "${bad}": VASP's number field overflowed, so the value is unknown`);
+      if (bad.includes('***'))
+        throw this.fail(`the energy of ${where} is written as "${bad}": VASP's number field overflowed, so the value is unknown`);
       throw this.fail(`the energy and occupation of ${where} should be numbers, found "${bad}"`);
     }
     if (e.columns < 0) {
@@ -260,7 +261,8 @@ export class VasprunStream {
     const out: number[] = [];
     const r = text === null ? { count: 0, bad: null } : scanDecimalBytes(text, 0, length, out, 0, expected);
     if (r.bad !== null) {
-      if (r.bad.includes('***')) throw this.fail(`${what} is written as "${r.bad}": VASP's number field overflowed, so the value is unknown`);
+      if (r.bad.includes('***'))
+        throw this.fail(`${what} is written as "${r.bad}": VASP's number field overflowed, so the value is unknown`);
       throw this.fail(`${what} should be a number, found "${r.bad}"`);
     }
     if (r.count !== expected) throw this.fail(`${what} should hold ${expected} number${expected === 1 ? '' : 's'}, found ${r.count}`);
@@ -355,7 +357,8 @@ export class VasprunStream {
       case 'v':
         if (this.inGeneration) return sc.ancestor(1) === 'generation';
         if (sc.ancestor(1) !== 'varray') return false;
-        if (depth === 4 && !this.kpointsDone && sc.ancestor(2) === 'kpoints') return this.varrayName === 'kpointlist' || this.varrayName === 'weights';
+        if (depth === 4 && !this.kpointsDone && sc.ancestor(2) === 'kpoints')
+          return this.varrayName === 'kpointlist' || this.varrayName === 'weights';
         if (this.draft !== null) return this.varrayName === 'basis' || this.varrayName === 'positions';
         return false;
       case 'i': {
@@ -381,7 +384,12 @@ export class VasprunStream {
         return false;
       case 'varray':
         this.varrayName = attrs?.name ?? null;
-        if (depth === 3 && !this.kpointsDone && sc.ancestor(1) === 'kpoints' && (this.varrayName === 'kpointlist' || this.varrayName === 'weights')) {
+        if (
+          depth === 3 &&
+          !this.kpointsDone &&
+          sc.ancestor(1) === 'kpoints' &&
+          (this.varrayName === 'kpointlist' || this.varrayName === 'weights')
+        ) {
           sc.setRows(this.kpointRowReader);
         }
         return false;
@@ -577,7 +585,8 @@ export class VasprunStream {
   /** End of the input: what the file says. */
   finish(allowPartial: boolean): VasprunData {
     const outcome = this.xml.finish(allowPartial);
-    if (!this.sawRoot) throw new ReaderError(VASPRUN_FORMAT, this.fileName, { line: 1, column: 1 }, 'no <modeling> root element: this is not a vasprun.xml');
+    if (!this.sawRoot)
+      throw new ReaderError(VASPRUN_FORMAT, this.fileName, { line: 1, column: 1 }, 'no <modeling> root element: this is not a vasprun.xml');
     const eig = this.lastEig;
     if (!eig) {
       const reason = outcome.complete
@@ -586,10 +595,21 @@ export class VasprunStream {
       throw new ReaderError(VASPRUN_FORMAT, this.fileName, { line: outcome.endLine, column: 0 }, reason);
     }
     const nk = this.kpointList.length / 3;
-    if (nk === 0) throw new ReaderError(VASPRUN_FORMAT, this.fileName, { line: eig.line, column: 0 }, 'the file lists no k-points (<kpoints> with a "kpointlist")');
+    if (nk === 0)
+      throw new ReaderError(
+        VASPRUN_FORMAT,
+        this.fileName,
+        { line: eig.line, column: 0 },
+        'the file lists no k-points (<kpoints> with a "kpointlist")',
+      );
     const nSpin = eig.spins;
     if (nSpin !== 1 && nSpin !== 2) {
-      throw new ReaderError(VASPRUN_FORMAT, this.fileName, { line: eig.line, column: 0 }, `the eigenvalues come in ${nSpin} spin sets; 1 or 2 are expected`);
+      throw new ReaderError(
+        VASPRUN_FORMAT,
+        this.fileName,
+        { line: eig.line, column: 0 },
+        `the eigenvalues come in ${nSpin} spin sets; 1 or 2 are expected`,
+      );
     }
     const nBands = eig.bandsPerSet;
     if (eig.sets !== nk * nSpin || nBands <= 0) {
@@ -608,7 +628,8 @@ export class VasprunStream {
     const occ = eig.occupations.data;
     for (let s = 0; s < nSpin; s++) {
       energies.push(all.length === per * nSpin ? all.subarray(s * per, (s + 1) * per) : all.slice(s * per, (s + 1) * per));
-      if (occupations) occupations.push(occ.length === per * nSpin ? occ.subarray(s * per, (s + 1) * per) : occ.slice(s * per, (s + 1) * per));
+      if (occupations)
+        occupations.push(occ.length === per * nSpin ? occ.subarray(s * per, (s + 1) * per) : occ.slice(s * per, (s + 1) * per));
     }
     // Structure: the final one when written, else the last complete one.
     const pick = this.structures.find((s) => s.name === 'finalpos') ?? this.structures[this.structures.length - 1] ?? null;
@@ -617,7 +638,8 @@ export class VasprunStream {
       const lattice = pick.basis as Mat3;
       const nAtoms = pick.positions.length / 3;
       if (Math.abs(det3(lattice)) > 1e-8) {
-        const species = this.species.length === nAtoms ? this.species.slice() : Array.from({ length: nAtoms }, (_, i) => this.species[i] ?? `X${i + 1}`);
+        const species =
+          this.species.length === nAtoms ? this.species.slice() : Array.from({ length: nAtoms }, (_, i) => this.species[i] ?? `X${i + 1}`);
         structure = { lattice, species, positions: Float64Array.from(pick.positions) };
       }
     }
@@ -673,7 +695,7 @@ export function readVasprun(file: InputFile, options: ReadOptions = {}): Vasprun
   const hasher = src ? createSha256() : null;
   if (size === 0) return { ...stream.finish(false), sha256: '' };
   const buffer = src?.readInto ? new Uint8Array(Math.min(CHUNK, size)) : null;
-  for (let start = 0; start < size; ) {
+  for (let start = 0; start < size;) {
     if (options.isCancelled?.()) throw new CancelledError();
     let chunk: Uint8Array;
     if (!src) chunk = file.bytes.subarray(start, Math.min(size, start + CHUNK));
@@ -699,15 +721,24 @@ export function detectVasprun(head: Uint8Array, name: string): number {
 }
 
 /** Turn what the file says into a BandStructure, with warnings for what is missing. */
-export function vasprunToBandStructure(data: VasprunData & { sha256: string }, main: InputFile, companions: InputFile[], options: ReadOptions): BandStructure {
+export function vasprunToBandStructure(
+  data: VasprunData & { sha256: string },
+  main: InputFile,
+  companions: InputFile[],
+  options: ReadOptions,
+): BandStructure {
   const warnings: InputWarning[] = [];
   const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: data.sha256 }];
   const structure = data.structure ?? options.structure ?? null;
   const lattice = structure?.lattice ?? options.lattice ?? null;
-  if (!data.structure) warnings.push({ code: 'no-structure', message: 'The file holds no complete structure: valley degeneracy cannot be determined.' });
+  if (!data.structure)
+    warnings.push({ code: 'no-structure', message: 'The file holds no complete structure: valley degeneracy cannot be determined.' });
   const spinorbit = options.spinorbit ?? data.spinorbit ?? false;
   if (data.spinorbit === null && options.spinorbit === undefined) {
-    warnings.push({ code: 'spinorbit-unknown', message: 'The file does not say whether spin-orbit coupling was on (LSORBIT): read as a collinear run.' });
+    warnings.push({
+      code: 'spinorbit-unknown',
+      message: 'The file does not say whether spin-orbit coupling was on (LSORBIT): read as a collinear run.',
+    });
   }
   if (data.electrons === null) warnings.push({ code: 'no-electrons', message: 'The file gives no electron count (NELECT).' });
 
@@ -734,7 +765,8 @@ export function vasprunToBandStructure(data: VasprunData & { sha256: string }, m
           if (placed.warning) warnings.push({ code: 'kpath-mismatch', message: placed.warning, file: kfile.path });
         }
       } catch (e) {
-        if (e instanceof ReaderError) warnings.push({ code: 'kpath-unreadable', message: `${e.message}; labels were not used`, file: kfile.path, line: e.line });
+        if (e instanceof ReaderError)
+          warnings.push({ code: 'kpath-unreadable', message: `${e.message}; labels were not used`, file: kfile.path, line: e.line });
         else throw e;
       }
     }

@@ -86,7 +86,11 @@ export function readBandDat(file: InputFile, options: ReadOptions = {}): BandDat
     else if (inBlock < nk) {
       const ref = x.data[inBlock]!;
       if (Math.abs(ref - d) > 1e-4 * Math.max(1, Math.abs(ref))) {
-        throw sc.error(`band ${band + 1}, point ${inBlock + 1}: distance ${d} differs from band 1's ${ref} at the same point`, sc.line - 1, 1);
+        throw sc.error(
+          `band ${band + 1}, point ${inBlock + 1}: distance ${d} differs from band 1's ${ref} at the same point`,
+          sc.line - 1,
+          1,
+        );
       }
     } else {
       throw sc.error(`band ${band + 1} has more points than band 1 (${nk})`, sc.line - 1, 1);
@@ -162,7 +166,11 @@ export function readLabelInfo(file: InputFile): LabelInfo[] {
     const label = sc.token()!;
     const index = sc.integer(`the index of label "${label}"`);
     const distance = sc.number(`the distance of label "${label}"`);
-    const k: Vec3 = [sc.number(`k of label "${label}" (1st)`), sc.number(`k of label "${label}" (2nd)`), sc.number(`k of label "${label}" (3rd)`)];
+    const k: Vec3 = [
+      sc.number(`k of label "${label}" (1st)`),
+      sc.number(`k of label "${label}" (2nd)`),
+      sc.number(`k of label "${label}" (3rd)`),
+    ];
     sc.endLine(`the k-point of label "${label}"`);
     if (index < 1) throw sc.error(`label "${label}" has index ${index}; indices start at 1`, sc.line - 1, 0);
     out.push({ label: normaliseLabel(label), index: index - 1, distance, k });
@@ -256,7 +264,10 @@ export function readWin(file: InputFile): WinSettings {
 export function detectBandDat(head: Uint8Array, name: string): number {
   // Name carries weight here: two columns of numbers say little by themselves.
   const text = decodeText(head, 0, Math.min(head.length, 2048)).replace(/^\uFEFF/, '');
-  const lines = text.split(/\r?\n/).slice(0, 8).filter((l) => l.trim());
+  const lines = text
+    .split(/\r?\n/)
+    .slice(0, 8)
+    .filter((l) => l.trim());
   if (lines.length < 2) return 0;
   const num = /^[+-]?(\d+\.?\d*|\.\d+)([eEdD][+-]?\d+)?$/;
   const twoCols = lines.every((l) => {
@@ -312,7 +323,10 @@ export const wannier90BandReader: FormatReader = {
     let kpoints = use(find('_band.kpt'), 'kpath', readBandKpt);
     const labelInfo = use(find('_band.labelinfo.dat'), 'labels', readLabelInfo) ?? [];
     if (kpoints && kpoints.length !== 3 * data.nk) {
-      warnings.push({ code: 'kpt-mismatch', message: `The _band.kpt file lists ${kpoints.length / 3} k-points but the band file has ${data.nk}: it was not used.` });
+      warnings.push({
+        code: 'kpt-mismatch',
+        message: `The _band.kpt file lists ${kpoints.length / 3} k-points but the band file has ${data.nk}: it was not used.`,
+      });
       kpoints = null;
     }
     const labels: KLabel[] = [];
@@ -335,28 +349,44 @@ export const wannier90BandReader: FormatReader = {
             for (let j = 0; j < 3; j++) kpoints[3 * i + j] = a.k[j]! + t * (b.k[j]! - a.k[j]!);
           }
         }
-        warnings.push({ code: 'no-kpt', message: 'No _band.kpt beside the band file: k-points were placed between the labelled points by their written distances.' });
+        warnings.push({
+          code: 'no-kpt',
+          message: 'No _band.kpt beside the band file: k-points were placed between the labelled points by their written distances.',
+        });
       } else {
-        warnings.push({ code: 'no-kpt', message: 'No _band.kpt and no _band.labelinfo.dat beside the band file: only the written path distances are known.' });
+        warnings.push({
+          code: 'no-kpt',
+          message: 'No _band.kpt and no _band.labelinfo.dat beside the band file: only the written path distances are known.',
+        });
       }
     }
     const structure = win?.structure ?? options.structure ?? null;
     const lattice = win?.lattice ?? structure?.lattice ?? options.lattice ?? null;
     if (!lattice) {
-      warnings.push({ code: 'no-lattice', message: 'No seedname.win with unit_cell_cart beside the band file: the written path distances (Å⁻¹) are used.' });
+      warnings.push({
+        code: 'no-lattice',
+        message: 'No seedname.win with unit_cell_cart beside the band file: the written path distances (Å⁻¹) are used.',
+      });
       writtenDistance = data.distance;
     } else if (!structure) {
-      warnings.push({ code: 'no-structure', message: 'No atoms (atoms_frac or atoms_cart in seedname.win): valley degeneracy cannot be determined.' });
+      warnings.push({
+        code: 'no-structure',
+        message: 'No atoms (atoms_frac or atoms_cart in seedname.win): valley degeneracy cannot be determined.',
+      });
     }
     const fermiEnergy = win?.fermiEnergy ?? null;
     if (data.partial) {
-      warnings.push({ code: 'partial', message: `The band file ends inside band ${data.nBands + 1} (truncated or still being written): only the ${data.nBands} complete bands were read; results are provisional.` });
+      warnings.push({
+        code: 'partial',
+        message: `The band file ends inside band ${data.nBands + 1} (truncated or still being written): only the ${data.nBands} complete bands were read; results are provisional.`,
+      });
     }
     warnings.push({
       code: 'no-electrons',
-      message: fermiEnergy !== null
-        ? 'Wannier90 band files give no electron count: the fermi_energy of seedname.win places the band edges.'
-        : 'Wannier90 band files give no electron count, and seedname.win gives no fermi_energy: band edges cannot be placed.',
+      message:
+        fermiEnergy !== null
+          ? 'Wannier90 band files give no electron count: the fermi_energy of seedname.win places the band edges.'
+          : 'Wannier90 band files give no electron count, and seedname.win gives no fermi_energy: band edges cannot be placed.',
     });
     return {
       source: { format: WANNIER90_BAND_FORMAT, file: main.path, files },

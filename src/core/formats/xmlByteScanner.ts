@@ -266,7 +266,12 @@ export class XmlByteScanner {
       this.work = w;
     }
     // `bytes` may be a view of `work` (the unconsumed tail): copyWithin handles the overlap.
-    if (bytes.buffer === this.work.buffer) this.work.copyWithin(this.carryLength, bytes.byteOffset - this.work.byteOffset, bytes.byteOffset - this.work.byteOffset + bytes.length);
+    if (bytes.buffer === this.work.buffer)
+      this.work.copyWithin(
+        this.carryLength,
+        bytes.byteOffset - this.work.byteOffset,
+        bytes.byteOffset - this.work.byteOffset + bytes.length,
+      );
     else this.work.set(bytes, this.carryLength);
     this.carryLength += bytes.length;
   }
@@ -299,7 +304,10 @@ export class XmlByteScanner {
         this.pos = pos;
         return;
       }
-      if (rest > MAX_CONSTRUCT_BYTES) throw this.fail(`a single XML construct (tag, comment or value) runs over ${MAX_CONSTRUCT_BYTES} bytes; this is not a layout Valleyscope reads`);
+      if (rest > MAX_CONSTRUCT_BYTES)
+        throw this.fail(
+          `a single XML construct (tag, comment or value) runs over ${MAX_CONSTRUCT_BYTES} bytes; this is not a layout Valleyscope reads`,
+        );
       const tail = buf.subarray(pos);
       this.base += pos;
       this.stashTail(tail);
@@ -384,14 +392,22 @@ export class XmlByteScanner {
           const v = m[1] ? parseInt(m[1], 16) : parseInt(m[2]!, 10);
           if (v > 0 && v <= 0x10ffff) return v;
         }
-        throw this.failIn(buf, runStart, from - 1, `the XML is malformed: undefined entity "&${s.slice(0, 12)};" (Valleyscope expands no entities beyond the five predefined ones)`);
+        throw this.failIn(
+          buf,
+          runStart,
+          from - 1,
+          `the XML is malformed: undefined entity "&${s.slice(0, 12)};" (Valleyscope expands no entities beyond the five predefined ones)`,
+        );
       }
     }
   }
 
   private collect(buf: Uint8Array, from: number, to: number): void {
     const n = to - from;
-    if (this.textLen + n > MAX_CONSTRUCT_BYTES) throw this.fail(`the text of <${this.stack[this.stack.length - 1]}> runs over ${MAX_CONSTRUCT_BYTES} bytes; this is not a layout Valleyscope reads`);
+    if (this.textLen + n > MAX_CONSTRUCT_BYTES)
+      throw this.fail(
+        `the text of <${this.stack[this.stack.length - 1]}> runs over ${MAX_CONSTRUCT_BYTES} bytes; this is not a layout Valleyscope reads`,
+      );
     if (this.textLen + n > this.textBuf.length) {
       const t = new Uint8Array(Math.max(this.textLen + n, 2 * this.textBuf.length));
       t.set(this.textBuf.subarray(0, this.textLen));
@@ -427,7 +443,8 @@ export class XmlByteScanner {
       const close = this.find2(buf, pos + 2, end, QUESTION, GT);
       if (close < 0) return last ? this.truncatedMarkup() : -1;
       const isDecl = end - pos >= 6 && buf[pos + 2] === 120 && buf[pos + 3] === 109 && buf[pos + 4] === 108 && isWs(buf[pos + 5]!);
-      if (isDecl && (this.base + pos > (this.sawBom ? 3 : 0) || this.sawRoot)) throw this.fail('the XML is malformed: an XML declaration that is not at the start of the file');
+      if (isDecl && (this.base + pos > (this.sawBom ? 3 : 0) || this.sawRoot))
+        throw this.fail('the XML is malformed: an XML declaration that is not at the start of the file');
       this.countLines(buf, pos, close + 2);
       return close + 2;
     }
@@ -498,7 +515,8 @@ export class XmlByteScanner {
       }
       if (this.collecting) {
         const n = i - (pos + 9);
-        if (this.textLen + n > MAX_CONSTRUCT_BYTES) throw this.fail(`the text of <${this.stack[depth - 1]}> runs over ${MAX_CONSTRUCT_BYTES} bytes`);
+        if (this.textLen + n > MAX_CONSTRUCT_BYTES)
+          throw this.fail(`the text of <${this.stack[depth - 1]}> runs over ${MAX_CONSTRUCT_BYTES} bytes`);
         if (this.textLen + n > this.textBuf.length) {
           const t = new Uint8Array(Math.max(this.textLen + n, 2 * this.textBuf.length));
           t.set(this.textBuf.subarray(0, this.textLen));
@@ -557,10 +575,12 @@ export class XmlByteScanner {
       if (this.rootClosed) throw this.fail('the XML is malformed: a second root element');
       this.sawRoot = true;
     } else {
-      if (this.content[depth - 1] === 2) throw this.fail(`<${this.stack[depth - 1]}> holds both text and elements; the layout never mixes them (stray text in the file?)`);
+      if (this.content[depth - 1] === 2)
+        throw this.fail(`<${this.stack[depth - 1]}> holds both text and elements; the layout never mixes them (stray text in the file?)`);
       this.content[depth - 1] = 1;
     }
-    if (depth >= MAX_XML_DEPTH) throw this.fail(`the XML nests elements more than ${MAX_XML_DEPTH} deep; this is not a layout Valleyscope reads`);
+    if (depth >= MAX_XML_DEPTH)
+      throw this.fail(`the XML nests elements more than ${MAX_XML_DEPTH} deep; this is not a layout Valleyscope reads`);
     this.stack.push(name);
     this.content.push(0);
     this.collecting = false;
@@ -619,7 +639,12 @@ export class XmlByteScanner {
   finish(allowPartial: boolean): { complete: boolean; endLine: number } {
     if (this.first && this.carryLength > 0) this.write(new Uint8Array(0), true);
     if (this.fed === 0) {
-      throw new ReaderError(this.format, this.fileName, { line: 0, column: 0 }, this.sawBom ? 'the file holds only a byte-order mark' : 'the file is empty');
+      throw new ReaderError(
+        this.format,
+        this.fileName,
+        { line: 0, column: 0 },
+        this.sawBom ? 'the file holds only a byte-order mark' : 'the file is empty',
+      );
     }
     const depth = this.stack.length;
     if (depth > 0 || (this.ended && !this.rootClosed)) {
@@ -633,7 +658,8 @@ export class XmlByteScanner {
       );
     }
     if (this.ended) throw this.fail('the XML is malformed: the file ends inside a tag after the root element');
-    if (!this.sawRoot) throw new ReaderError(this.format, this.fileName, { line: this.line, column: 0 }, 'the XML is malformed: no root element');
+    if (!this.sawRoot)
+      throw new ReaderError(this.format, this.fileName, { line: this.line, column: 0 }, 'the XML is malformed: no root element');
     return { complete: true, endLine: this.line };
   }
 }

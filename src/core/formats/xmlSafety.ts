@@ -72,10 +72,12 @@ export class SafeXmlStream {
       throw this.fail(`the XML is malformed: ${plainSaxesMessage(err.message)}`);
     });
     parser.on('opentag', (tag: SaxesTagPlain) => {
-      if (path.length >= MAX_XML_DEPTH) throw this.fail(`the XML nests elements more than ${MAX_XML_DEPTH} deep; this is not a layout Valleyscope reads`);
+      if (path.length >= MAX_XML_DEPTH)
+        throw this.fail(`the XML nests elements more than ${MAX_XML_DEPTH} deep; this is not a layout Valleyscope reads`);
       const n = this.content.length;
       if (n > 0) {
-        if (this.content[n - 1] === 2) throw this.fail(`<${path[n - 1]}> holds both text and elements; the layout never mixes them (stray text in the file?)`);
+        if (this.content[n - 1] === 2)
+          throw this.fail(`<${path[n - 1]}> holds both text and elements; the layout never mixes them (stray text in the file?)`);
         this.content[n - 1] = 1;
       }
       this.content.push(0);
@@ -140,7 +142,12 @@ export class SafeXmlStream {
    */
   finish(allowPartial: boolean): XmlOutcome {
     if (this.fedBytes === 0) {
-      throw new ReaderError(this.format, this.fileName, { line: 0, column: 0 }, this.sawBom ? 'the file holds only a byte-order mark' : 'the file is empty');
+      throw new ReaderError(
+        this.format,
+        this.fileName,
+        { line: 0, column: 0 },
+        this.sawBom ? 'the file holds only a byte-order mark' : 'the file is empty',
+      );
     }
     if (this.decoder) {
       const tail = this.decoder.decode();
@@ -199,4 +206,3 @@ export function numberAttribute(attributes: Record<string, string>, name: string
   const x = parseDecimal(v.trim());
   return x;
 }
-

@@ -89,4 +89,3 @@ function nearestIrreducible(mesh: RegularMesh, k: Vec3, b: Mat3, lattice: Mat3, 
   }
   return out;
 }
-

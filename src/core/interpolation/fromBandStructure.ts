@@ -16,7 +16,10 @@ export interface MeshRunRequest {
   starsPerPoint?: number;
 }
 
-export function meshRunInput(bs: BandStructure, req: MeshRunRequest = {}): { input: MeshRunInput; reason: null } | { input: null; reason: string } {
+export function meshRunInput(
+  bs: BandStructure,
+  req: MeshRunRequest = {},
+): { input: MeshRunInput; reason: null } | { input: null; reason: string } {
   if (bs.sampling === 'path') return { input: null, reason: 'The k-points form a path, not a mesh.' };
   const ctx = symmetryContext(bs);
   if (!ctx.sym || !bs.structure) return { input: null, reason: ctx.unavailable ?? 'No crystal structure is known.' };
@@ -55,7 +58,10 @@ export function meshRunInput(bs: BandStructure, req: MeshRunRequest = {}): { inp
 }
 
 /** The interpolation of a read run (band b of the result is band firstBand + b of the run). */
-export function interpolateRun(bs: BandStructure, req: MeshRunRequest = {}): { run: MeshInterpolation; reason: null } | { run: null; reason: string } {
+export function interpolateRun(
+  bs: BandStructure,
+  req: MeshRunRequest = {},
+): { run: MeshInterpolation; reason: null } | { run: null; reason: string } {
   const made = meshRunInput(bs, req);
   if (!made.input) return { run: null, reason: made.reason };
   return MeshInterpolation.create(made.input);

@@ -62,7 +62,7 @@ export function isStrictMeshExtremum(mesh: RegularMesh, energies: ArrayLike<numb
     for (let b = -1; b <= 1; b++) {
       for (let c = -1; c <= 1; c++) {
         if (!(a || b || c)) continue;
-        const q = ((((j1 + a) % n1) + n1) % n1 * n2 + ((((j2 + b) % n2) + n2) % n2)) * n3 + ((((j3 + c) % n3) + n3) % n3);
+        const q = (((((j1 + a) % n1) + n1) % n1) * n2 + ((((j2 + b) % n2) + n2) % n2)) * n3 + ((((j3 + c) % n3) + n3) % n3);
         if (!(sign * energies[mesh.irreducibleOf[q]!]! > e0)) return false;
       }
     }

@@ -92,7 +92,10 @@ export class MeshInterpolation {
   /** Half the shortest mesh spacing, Å⁻¹. */
   readonly halfSpacing: number;
 
-  private constructor(readonly input: MeshRunInput, mesh: RegularMesh) {
+  private constructor(
+    readonly input: MeshRunInput,
+    mesh: RegularMesh,
+  ) {
     this.mesh = mesh;
     this.reciprocal = reciprocalLattice(input.lattice);
     const nk = input.kpoints.length / 3;
@@ -107,7 +110,10 @@ export class MeshInterpolation {
   static create(input: MeshRunInput): { run: MeshInterpolation; reason: null } | { run: null; reason: string } {
     const nk = input.kpoints.length / 3;
     if (nk > MAX_INTERPOLATION_POINTS) {
-      return { run: null, reason: `${nk} irreducible k-points are more than the ${MAX_INTERPOLATION_POINTS} the interpolation handles (its matrices grow as the square).` };
+      return {
+        run: null,
+        reason: `${nk} irreducible k-points are more than the ${MAX_INTERPOLATION_POINTS} the interpolation handles (its matrices grow as the square).`,
+      };
     }
     for (const [i, b] of input.bands.entries()) {
       if (b.length !== nk) return { run: null, reason: `Band ${i + 1} has ${b.length} energies for ${nk} k-points.` };
@@ -167,10 +173,21 @@ export class MeshInterpolation {
             kCartesian: this.toCart(onMesh),
             energy_eV: energies[mesh.irreducibleOf[j]!]!,
             masses: [NaN, NaN, NaN],
-            axes: [[1, 0, 0], [0, 1, 0], [0, 0, 1]],
+            axes: [
+              [1, 0, 0],
+              [0, 1, 0],
+              [0, 0, 1],
+            ],
             valleyDegeneracy: valleyDegeneracy(input.sym, onMesh, 1e-4),
             position: input.specialPoints ? positionOnGammaLine(input.specialPoints, onMesh) : null,
-            uncertainty: { energy_eV: NaN, masses: [Infinity, Infinity, Infinity], position_invA: this.halfSpacing * 2, leftOutError_eV: NaN, leftOut: [], lost: 0 },
+            uncertainty: {
+              energy_eV: NaN,
+              masses: [Infinity, Infinity, Infinity],
+              position_invA: this.halfSpacing * 2,
+              leftOutError_eV: NaN,
+              leftOut: [],
+              lost: 0,
+            },
             determined: false,
             undeterminedReason: reason,
             touching: [],
@@ -182,7 +199,11 @@ export class MeshInterpolation {
         }
         continue;
       }
-      if (out.some((e) => sameStar(input.sym, e.k, kFrac)) || rejected.some((e) => e.reason === 'crossing' && sameStar(input.sym, e.k, kFrac))) continue;
+      if (
+        out.some((e) => sameStar(input.sym, e.k, kFrac)) ||
+        rejected.some((e) => e.reason === 'crossing' && sameStar(input.sym, e.k, kFrac))
+      )
+        continue;
       const uncertainty = extremumUncertainty(this.fit, energies, p, kind, this.kCart, mesh, this.reciprocal, input.lattice, newton);
       const touching: number[] = [];
       for (const other of [b - 1, b + 1]) {
@@ -245,10 +266,13 @@ function sameStar(sym: CrystalSymmetry, a: Vec3, b: Vec3): boolean {
   for (const r of sym.reciprocalPointGroup) {
     const q = [0, 1, 2].map((i) => r[i]![0] * a[0] + r[i]![1] * a[1] + r[i]![2] * a[2]);
     for (const s of [1, -1]) {
-      if (q.every((x, i) => {
-        const d = s * x - b[i]!;
-        return Math.abs(d - Math.round(d)) < 1e-5;
-      })) return true;
+      if (
+        q.every((x, i) => {
+          const d = s * x - b[i]!;
+          return Math.abs(d - Math.round(d)) < 1e-5;
+        })
+      )
+        return true;
     }
   }
   return false;

@@ -34,7 +34,10 @@ function images(k: readonly number[], ops: readonly Mat3[]): number[][] {
   const out: number[][] = [];
   for (const r of ops) {
     const q = [0, 1, 2].map((i) => r[i]![0] * k[0]! + r[i]![1] * k[1]! + r[i]![2] * k[2]!);
-    out.push(q, q.map((x) => -x));
+    out.push(
+      q,
+      q.map((x) => -x),
+    );
   }
   return out;
 }
@@ -52,7 +55,16 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
   const nk = kFrac.length / 3;
   if (!Number.isInteger(nk) || nk < 1) return { mesh: null, reason: 'There are no k-points.' };
   if (!Array.from(kFrac).every(Number.isFinite)) return { mesh: null, reason: 'Some k-points are not finite numbers.' };
-  const ops: Mat3[] = reciprocalOps.length > 0 ? [...reciprocalOps] : [[[1, 0, 0], [0, 1, 0], [0, 0, 1]]];
+  const ops: Mat3[] =
+    reciprocalOps.length > 0
+      ? [...reciprocalOps]
+      : [
+          [
+            [1, 0, 0],
+            [0, 1, 0],
+            [0, 0, 1],
+          ],
+        ];
   const all: number[][][] = [];
   for (let i = 0; i < nk; i++) all.push(images([kFrac[3 * i]!, kFrac[3 * i + 1]!, kFrac[3 * i + 2]!], ops));
   const divisions: number[] = [];
@@ -70,7 +82,10 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
       }
     }
     if (!found) {
-      return { mesh: null, reason: `Along reciprocal axis ${axis + 1} the k-points (with their symmetry images) lie on no regular mesh of up to ${MAX_DIVISIONS} divisions.` };
+      return {
+        mesh: null,
+        reason: `Along reciprocal axis ${axis + 1} the k-points (with their symmetry images) lie on no regular mesh of up to ${MAX_DIVISIONS} divisions.`,
+      };
     }
   }
   const [n1, n2, n3] = divisions as [number, number, number];
@@ -78,7 +93,7 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
   if (total > MAX_MESH_POINTS) return { mesh: null, reason: `The mesh ${n1}×${n2}×${n3} has more than ${MAX_MESH_POINTS} points.` };
   const irreducibleOf = new Int32Array(total).fill(-1);
   const starSize = new Int32Array(nk);
-  const wrap = (x: number, n: number, s: number): number => (((Math.round(x * n - s) % n) + n) % n);
+  const wrap = (x: number, n: number, s: number): number => ((Math.round(x * n - s) % n) + n) % n;
   for (let i = 0; i < nk; i++) {
     for (const q of all[i]!) {
       const j = (wrap(q[0]!, n1, shift[0]!) * n2 + wrap(q[1]!, n2, shift[1]!)) * n3 + wrap(q[2]!, n3, shift[2]!);
@@ -87,21 +102,28 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
         irreducibleOf[j] = i;
         starSize[i]!++;
       } else if (owner !== i) {
-        return { mesh: null, reason: `k-points ${owner + 1} and ${i + 1} are equivalent by symmetry: the list is not an irreducible set for this crystal.` };
+        return {
+          mesh: null,
+          reason: `k-points ${owner + 1} and ${i + 1} are equivalent by symmetry: the list is not an irreducible set for this crystal.`,
+        };
       }
     }
   }
   let missing = 0;
   for (let j = 0; j < total; j++) if (irreducibleOf[j] === -1) missing++;
   if (missing > 0) {
-    return { mesh: null, reason: `Expanded by symmetry, the k-points leave ${missing} of the ${total} points of the ${n1}×${n2}×${n3} mesh uncovered.` };
+    return {
+      mesh: null,
+      reason: `Expanded by symmetry, the k-points leave ${missing} of the ${total} points of the ${n1}×${n2}×${n3} mesh uncovered.`,
+    };
   }
   if (weights) {
     if (weights.length !== nk) return { mesh: null, reason: `There are ${weights.length} weights for ${nk} k-points.` };
     let sum = 0;
     for (let i = 0; i < nk; i++) {
       const w = weights[i]!;
-      if (!Number.isFinite(w) || w < 0) return { mesh: null, reason: `The weight of k-point ${i + 1} is not a finite non-negative number.` };
+      if (!Number.isFinite(w) || w < 0)
+        return { mesh: null, reason: `The weight of k-point ${i + 1} is not a finite non-negative number.` };
       sum += w;
     }
     if (!(sum > 0)) return { mesh: null, reason: 'The k-point weights do not add up to a positive number.' };
@@ -123,14 +145,27 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
  * The irreducible points of a mesh (for making model runs and for tests): one representative per star of
  * mesh points, the first met in mesh order, with its weight (star size / total).
  */
-export function irreducibleMesh(divisions: [number, number, number], shift: [number, number, number], reciprocalOps: readonly Mat3[]): { kpoints: Float64Array; weights: Float64Array } {
+export function irreducibleMesh(
+  divisions: [number, number, number],
+  shift: [number, number, number],
+  reciprocalOps: readonly Mat3[],
+): { kpoints: Float64Array; weights: Float64Array } {
   const [n1, n2, n3] = divisions;
   const total = n1 * n2 * n3;
   const seen = new Uint8Array(total);
-  const ops: Mat3[] = reciprocalOps.length > 0 ? [...reciprocalOps] : [[[1, 0, 0], [0, 1, 0], [0, 0, 1]]];
+  const ops: Mat3[] =
+    reciprocalOps.length > 0
+      ? [...reciprocalOps]
+      : [
+          [
+            [1, 0, 0],
+            [0, 1, 0],
+            [0, 0, 1],
+          ],
+        ];
   const k: number[] = [];
   const w: number[] = [];
-  const wrap = (x: number, n: number, s: number): number => (((Math.round(x * n - s) % n) + n) % n);
+  const wrap = (x: number, n: number, s: number): number => ((Math.round(x * n - s) % n) + n) % n;
   const centred = (j: number, n: number, s: number): number => {
     const x = (j + s) / n;
     return x > 0.5 + 1e-12 ? x - 1 : x;
@@ -143,7 +178,8 @@ export function irreducibleMesh(divisions: [number, number, number], shift: [num
         const p = [centred(j1, n1, shift[0]), centred(j2, n2, shift[1]), centred(j3, n3, shift[2])];
         let size = 0;
         for (const q of images(p, ops)) {
-          if (q.some((x, a) => offMesh(x, divisions[a]!, shift[a]!) > ON_MESH)) throw new RangeError('The mesh is not symmetric under the operations given.');
+          if (q.some((x, a) => offMesh(x, divisions[a]!, shift[a]!) > ON_MESH))
+            throw new RangeError('The mesh is not symmetric under the operations given.');
           const t = (wrap(q[0]!, n1, shift[0]) * n2 + wrap(q[1]!, n2, shift[1])) * n3 + wrap(q[2]!, n3, shift[2]);
           if (!seen[t]) {
             seen[t] = 1;

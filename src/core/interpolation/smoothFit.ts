@@ -26,7 +26,10 @@ export class SmoothStarFit {
   private readonly factors = new Map<number, Float64Array>();
 
   /** `kCart`: the data k-points (irreducible, one per star of k), cartesian Å⁻¹, 3 numbers each. */
-  constructor(readonly basis: StarBasis, kCart: Float64Array) {
+  constructor(
+    readonly basis: StarBasis,
+    kCart: Float64Array,
+  ) {
     const n = kCart.length / 3;
     const m = basis.count;
     if (!Number.isInteger(n) || n < 2) throw new RangeError('The fit needs at least two k-points.');

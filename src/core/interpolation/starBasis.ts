@@ -86,7 +86,16 @@ function starsWithin(lattice: Mat3, b: Mat3, pointGroup: readonly Mat3[], radius
     }
   }
   const order = Array.from(len.keys()).sort((p, q) => len[p]! - len[q]!);
-  const ops: Mat3[] = pointGroup.length > 0 ? [...pointGroup] : [[[1, 0, 0], [0, 1, 0], [0, 0, 1]]];
+  const ops: Mat3[] =
+    pointGroup.length > 0
+      ? [...pointGroup]
+      : [
+          [
+            [1, 0, 0],
+            [0, 1, 0],
+            [0, 0, 1],
+          ],
+        ];
   const taken = new Set<number>();
   const start: number[] = [0];
   const members: number[] = [];

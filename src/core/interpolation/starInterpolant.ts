@@ -16,7 +16,10 @@ export class StarInterpolant {
   private readonly memberCoefficient: Float64Array;
   private readonly members: Float64Array;
 
-  constructor(readonly basis: StarBasis, readonly coefficients: Float64Array) {
+  constructor(
+    readonly basis: StarBasis,
+    readonly coefficients: Float64Array,
+  ) {
     this.members = basis.members;
     this.memberCoefficient = new Float64Array(basis.members.length / 3);
     for (let m = 0; m < basis.count; m++) {
@@ -39,8 +42,15 @@ export class StarInterpolant {
     const r = this.members;
     const c = this.memberCoefficient;
     let e = 0;
-    let gx = 0, gy = 0, gz = 0;
-    let hxx = 0, hxy = 0, hxz = 0, hyy = 0, hyz = 0, hzz = 0;
+    let gx = 0,
+      gy = 0,
+      gz = 0;
+    let hxx = 0,
+      hxy = 0,
+      hxz = 0,
+      hyy = 0,
+      hyz = 0,
+      hzz = 0;
     for (let j = 0; j < c.length; j++) {
       const x = r[3 * j]!;
       const y = r[3 * j + 1]!;

@@ -58,11 +58,12 @@ export function checkRecordedPath(value: string, field: string, holder: string):
   // eslint-disable-next-line no-control-regex -- finding control characters is what this does
   if (/[\u0000-\u001f\u007f]/.test(value)) refuse('contains control characters');
   const p = value.replace(/\\/g, '/');
-  if (p.startsWith('/') || /^[a-zA-Z]:/.test(p) || p.startsWith('~')) refuse('is an absolute path; only paths inside the run\'s folder are opened');
+  if (p.startsWith('/') || /^[a-zA-Z]:/.test(p) || p.startsWith('~'))
+    refuse("is an absolute path; only paths inside the run's folder are opened");
   const segments = p.split('/').filter((s) => s !== '' && s !== '.');
   if (segments.length === 0) refuse('names no file');
   if (segments.includes('..')) refuse('climbs out of the run\'s folder ("..")');
-  if (segments.some(isHidden)) refuse('names a hidden file or folder (such as .git); those are never opened from a file\'s content');
+  if (segments.some(isHidden)) refuse("names a hidden file or folder (such as .git); those are never opened from a file's content");
   return segments.join('/');
 }
 
@@ -81,7 +82,14 @@ function slashes(p: string): string {
  * and is a regular file within the limit of its role. Returns its stat, or null when nothing is there.
  * `what` names the field or role in the sentence ("the companion POSCAR", "settings.structureFile in X").
  */
-export async function checkConfined(fs: FileAccessor, root: string, path: string, what: string, role: ReadRole, limit = READ_LIMITS[role]): Promise<FileStat | null> {
+export async function checkConfined(
+  fs: FileAccessor,
+  root: string,
+  path: string,
+  what: string,
+  role: ReadRole,
+  limit = READ_LIMITS[role],
+): Promise<FileStat | null> {
   const st = await fs.stat(path);
   if (!st) return null;
   if (fs.realpath) {
@@ -94,7 +102,10 @@ export async function checkConfined(fs: FileAccessor, root: string, path: string
     }
     const below = t.slice(r.length + 1).split('/');
     if (below.some(isHidden)) {
-      throw new PathRefusedError(`${path}: ${what} leads to a hidden file or folder (such as .git) inside the run's folder; it was not opened`, what);
+      throw new PathRefusedError(
+        `${path}: ${what} leads to a hidden file or folder (such as .git) inside the run's folder; it was not opened`,
+        what,
+      );
     }
   }
   if (st.type !== 'file') throw new PathRefusedError(notRegularSentence(path, st, what), what);

@@ -13,7 +13,17 @@ export async function withInferredLabels(bs: BandStructure): Promise<BandStructu
   // alat alone does not give the lattice (an fcc and a simple-cubic crystal share it): no labels from a frame
   // built from alat only.
   if (!bs.structure && bs.warnings.some((w) => w.code === 'cell-unknown')) {
-    return { ...bs, warnings: [...bs.warnings, { code: 'labels-not-inferred', message: 'No path labels were given, and only alat is known, not the lattice: high-symmetry labels are not inferred from alat alone (give --structure).' }] };
+    return {
+      ...bs,
+      warnings: [
+        ...bs.warnings,
+        {
+          code: 'labels-not-inferred',
+          message:
+            'No path labels were given, and only alat is known, not the lattice: high-symmetry labels are not inferred from alat alone (give --structure).',
+        },
+      ],
+    };
   }
   let warning: InputWarning;
   try {
@@ -29,7 +39,10 @@ export async function withInferredLabels(bs: BandStructure): Promise<BandStructu
       };
       return { ...bs, labels: r.labels, warnings: [...bs.warnings, warning] };
     }
-    warning = { code: 'labels-not-inferred', message: `No path labels were given and none could be inferred: ${r.reason ?? 'no special point found'}.` };
+    warning = {
+      code: 'labels-not-inferred',
+      message: `No path labels were given and none could be inferred: ${r.reason ?? 'no special point found'}.`,
+    };
   } catch (e) {
     if (!isValleyscopeError(e) && !(e instanceof Error)) throw e;
     warning = { code: 'labels-not-inferred', message: `No path labels were given and none could be inferred: ${e.message}.` };

@@ -74,7 +74,8 @@ export function pathGeometry(bs: BandStructure): PathGeometry {
     const lb = labelOf.get(i);
     // A labelled jump: the end of one segment and the start of the next, both labelled, with the new
     // segment continuing unlabelled after it (a path written only at its corners has no jumps this way).
-    const labelledJump = la !== undefined && lb !== undefined && la !== lb && i - 1 > segStart && i + 1 < nk && labelOf.get(i + 1) === undefined;
+    const labelledJump =
+      la !== undefined && lb !== undefined && la !== lb && i - 1 > segStart && i + 1 < nk && labelOf.get(i + 1) === undefined;
     // An unlabelled jump: a step far longer than the steps on both sides of it (legs of different
     // densities are not jumps: their steps are alike within each leg).
     const before = neighbourStep(step, i, -1);

@@ -5,7 +5,7 @@ const GREEK: Record<string, string> = {
   g: 'Γ',
   gm: 'Γ',
   gam: 'Γ',
-  'γ': 'Γ',
+  γ: 'Γ',
   delta: 'Δ',
   lambda: 'Λ',
   sigma: 'Σ',
@@ -18,7 +18,11 @@ const GREEK: Record<string, string> = {
  * written _1 become ₁; anything else is kept as written (trimmed).
  */
 export function normaliseLabel(raw: string): string {
-  let s = raw.trim().replace(/^\$+|\$+$/g, '').replace(/^\\(mathrm|rm)\{(.*)\}$/, '$2').trim();
+  let s = raw
+    .trim()
+    .replace(/^\$+|\$+$/g, '')
+    .replace(/^\\(mathrm|rm)\{(.*)\}$/, '$2')
+    .trim();
   s = s.replace(/^\\/, '');
   const lower = s.toLowerCase();
   if (lower in GREEK) return GREEK[lower]!;

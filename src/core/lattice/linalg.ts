@@ -3,9 +3,7 @@ import type { Mat3, Vec3 } from '../model';
 
 export function det3(m: Mat3): number {
   const [a, b, c] = m;
-  return (
-    a[0] * (b[1] * c[2] - b[2] * c[1]) - a[1] * (b[0] * c[2] - b[2] * c[0]) + a[2] * (b[0] * c[1] - b[1] * c[0])
-  );
+  return a[0] * (b[1] * c[2] - b[2] * c[1]) - a[1] * (b[0] * c[2] - b[2] * c[0]) + a[2] * (b[0] * c[1] - b[1] * c[0]);
 }
 
 export function mat3Inverse(m: Mat3): Mat3 {

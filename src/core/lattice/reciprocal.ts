@@ -29,7 +29,9 @@ export function kpointsToCartesian(kpoints: Float64Array, reciprocal: Mat3): Flo
   const out = new Float64Array(kpoints.length);
   const [b1, b2, b3] = reciprocal;
   for (let i = 0; i < n; i++) {
-    const x = kpoints[3 * i]!, y = kpoints[3 * i + 1]!, z = kpoints[3 * i + 2]!;
+    const x = kpoints[3 * i]!,
+      y = kpoints[3 * i + 1]!,
+      z = kpoints[3 * i + 2]!;
     out[3 * i] = x * b1[0] + y * b2[0] + z * b3[0];
     out[3 * i + 1] = x * b1[1] + y * b2[1] + z * b3[1];
     out[3 * i + 2] = x * b1[2] + y * b2[2] + z * b3[2];

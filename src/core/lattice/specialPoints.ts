@@ -36,7 +36,15 @@ export interface StandardCell {
   points: SpecialPoint[];
 }
 
-const BRAVAIS_TO_KIND: Record<string, LabelledLatticeKind> = { cP: 'CUB', cF: 'FCC', cI: 'BCC', hP: 'HEX', tP: 'TET', tI: 'BCT1', oP: 'ORC' };
+const BRAVAIS_TO_KIND: Record<string, LabelledLatticeKind> = {
+  cP: 'CUB',
+  cF: 'FCC',
+  cI: 'BCC',
+  hP: 'HEX',
+  tP: 'TET',
+  tI: 'BCT1',
+  oP: 'ORC',
+};
 
 /** Standard primitive cell and special points of Setyawan & Curtarolo (2010) for a Bravais lattice, or null. */
 export function standardCell(b: BravaisLattice): StandardCell | null {
@@ -49,7 +57,11 @@ export function standardCell(b: BravaisLattice): StandardCell | null {
       const a = (l1 + l2 + l3) / 3;
       return {
         kind,
-        primitive: [[a, 0, 0], [0, a, 0], [0, 0, a]],
+        primitive: [
+          [a, 0, 0],
+          [0, a, 0],
+          [0, 0, a],
+        ],
         points: [pt('Γ', 0, 0, 0), pt('M', h, h, 0), pt('R', h, h, h), pt('X', 0, h, 0)],
       };
     }
@@ -57,15 +69,30 @@ export function standardCell(b: BravaisLattice): StandardCell | null {
       const a = (l1 + l2 + l3) / 3;
       return {
         kind,
-        primitive: [[0, a / 2, a / 2], [a / 2, 0, a / 2], [a / 2, a / 2, 0]],
-        points: [pt('Γ', 0, 0, 0), pt('K', 3 / 8, 3 / 8, 3 / 4), pt('L', h, h, h), pt('U', 5 / 8, 1 / 4, 5 / 8), pt('W', h, 1 / 4, 3 / 4), pt('X', h, 0, h)],
+        primitive: [
+          [0, a / 2, a / 2],
+          [a / 2, 0, a / 2],
+          [a / 2, a / 2, 0],
+        ],
+        points: [
+          pt('Γ', 0, 0, 0),
+          pt('K', 3 / 8, 3 / 8, 3 / 4),
+          pt('L', h, h, h),
+          pt('U', 5 / 8, 1 / 4, 5 / 8),
+          pt('W', h, 1 / 4, 3 / 4),
+          pt('X', h, 0, h),
+        ],
       };
     }
     case 'BCC': {
       const a = (l1 + l2 + l3) / 3;
       return {
         kind,
-        primitive: [[-a / 2, a / 2, a / 2], [a / 2, -a / 2, a / 2], [a / 2, a / 2, -a / 2]],
+        primitive: [
+          [-a / 2, a / 2, a / 2],
+          [a / 2, -a / 2, a / 2],
+          [a / 2, a / 2, -a / 2],
+        ],
         points: [pt('Γ', 0, 0, 0), pt('H', h, -h, h), pt('P', 1 / 4, 1 / 4, 1 / 4), pt('N', 0, 0, h)],
       };
     }
@@ -75,8 +102,19 @@ export function standardCell(b: BravaisLattice): StandardCell | null {
       const s = (Math.sqrt(3) / 2) * a;
       return {
         kind,
-        primitive: [[a / 2, -s, 0], [a / 2, s, 0], [0, 0, c]],
-        points: [pt('Γ', 0, 0, 0), pt('A', 0, 0, h), pt('H', 1 / 3, 1 / 3, h), pt('K', 1 / 3, 1 / 3, 0), pt('L', h, 0, h), pt('M', h, 0, 0)],
+        primitive: [
+          [a / 2, -s, 0],
+          [a / 2, s, 0],
+          [0, 0, c],
+        ],
+        points: [
+          pt('Γ', 0, 0, 0),
+          pt('A', 0, 0, h),
+          pt('H', 1 / 3, 1 / 3, h),
+          pt('K', 1 / 3, 1 / 3, 0),
+          pt('L', h, 0, h),
+          pt('M', h, 0, 0),
+        ],
       };
     }
     case 'TET': {
@@ -84,7 +122,11 @@ export function standardCell(b: BravaisLattice): StandardCell | null {
       const c = l3;
       return {
         kind,
-        primitive: [[a, 0, 0], [0, a, 0], [0, 0, c]],
+        primitive: [
+          [a, 0, 0],
+          [0, a, 0],
+          [0, 0, c],
+        ],
         points: [pt('Γ', 0, 0, 0), pt('A', h, h, h), pt('M', h, h, 0), pt('R', 0, h, h), pt('X', 0, h, 0), pt('Z', 0, 0, h)],
       };
     }
@@ -93,15 +135,24 @@ export function standardCell(b: BravaisLattice): StandardCell | null {
       // Body-centred tetragonal (e.g. fcc crystals under (001) strain): BCT1 when c < a, BCT2 when c > a.
       const a = (l1 + l2) / 2;
       const c = l3;
-      const primitive: Mat3 = [[-a / 2, a / 2, c / 2], [a / 2, -a / 2, c / 2], [a / 2, a / 2, -c / 2]];
+      const primitive: Mat3 = [
+        [-a / 2, a / 2, c / 2],
+        [a / 2, -a / 2, c / 2],
+        [a / 2, a / 2, -c / 2],
+      ];
       if (c < a) {
         const eta = (1 + (c * c) / (a * a)) / 4;
         return {
           kind: 'BCT1',
           primitive,
           points: [
-            pt('Γ', 0, 0, 0), pt('M', -h, h, h), pt('N', 0, h, 0), pt('P', 1 / 4, 1 / 4, 1 / 4),
-            pt('X', 0, 0, h), pt('Z', eta, eta, -eta), pt('Z₁', -eta, 1 - eta, eta),
+            pt('Γ', 0, 0, 0),
+            pt('M', -h, h, h),
+            pt('N', 0, h, 0),
+            pt('P', 1 / 4, 1 / 4, 1 / 4),
+            pt('X', 0, 0, h),
+            pt('Z', eta, eta, -eta),
+            pt('Z₁', -eta, 1 - eta, eta),
           ],
         };
       }
@@ -111,8 +162,15 @@ export function standardCell(b: BravaisLattice): StandardCell | null {
         kind: 'BCT2',
         primitive,
         points: [
-          pt('Γ', 0, 0, 0), pt('N', 0, h, 0), pt('P', 1 / 4, 1 / 4, 1 / 4), pt('Σ', -eta, eta, eta),
-          pt('Σ₁', eta, 1 - eta, -eta), pt('X', 0, 0, h), pt('Y', -zeta, zeta, h), pt('Y₁', h, h, -zeta), pt('Z', h, h, -h),
+          pt('Γ', 0, 0, 0),
+          pt('N', 0, h, 0),
+          pt('P', 1 / 4, 1 / 4, 1 / 4),
+          pt('Σ', -eta, eta, eta),
+          pt('Σ₁', eta, 1 - eta, -eta),
+          pt('X', 0, 0, h),
+          pt('Y', -zeta, zeta, h),
+          pt('Y₁', h, h, -zeta),
+          pt('Z', h, h, -h),
         ],
       };
     }
@@ -121,10 +179,20 @@ export function standardCell(b: BravaisLattice): StandardCell | null {
       const [a, bb, c] = [l1, l2, l3].sort((x, y) => x - y) as [number, number, number];
       return {
         kind,
-        primitive: [[a, 0, 0], [0, bb, 0], [0, 0, c]],
+        primitive: [
+          [a, 0, 0],
+          [0, bb, 0],
+          [0, 0, c],
+        ],
         points: [
-          pt('Γ', 0, 0, 0), pt('R', h, h, h), pt('S', h, h, 0), pt('T', 0, h, h),
-          pt('U', h, 0, h), pt('X', h, 0, 0), pt('Y', 0, h, 0), pt('Z', 0, 0, h),
+          pt('Γ', 0, 0, 0),
+          pt('R', h, h, h),
+          pt('S', h, h, 0),
+          pt('T', 0, h, h),
+          pt('U', h, 0, h),
+          pt('X', h, 0, 0),
+          pt('Y', 0, h, 0),
+          pt('Z', 0, 0, h),
         ],
       };
     }
@@ -136,7 +204,11 @@ function pt(label: string, x: number, y: number, z: number): SpecialPoint {
 }
 
 function metric(m: Mat3): Mat3 {
-  const g: Mat3 = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
+  const g: Mat3 = [
+    [0, 0, 0],
+    [0, 0, 0],
+    [0, 0, 0],
+  ];
   for (let i = 0; i < 3; i++) for (let j = 0; j < 3; j++) g[i]![j] = m[i]![0] * m[j]![0] + m[i]![1] * m[j]![1] + m[i]![2] * m[j]![2];
   return g;
 }
@@ -160,7 +232,11 @@ export function relateCells(user: Mat3, std: Mat3, relTol = 2e-3, range = 3): Ma
  */
 export function reduceCell(lattice: Mat3): { reduced: Mat3; T: Mat3 } {
   const r = lattice.map((row) => [...row]) as Mat3;
-  const T: Mat3 = [[1, 0, 0], [0, 1, 0], [0, 0, 1]];
+  const T: Mat3 = [
+    [1, 0, 0],
+    [0, 1, 0],
+    [0, 0, 1],
+  ];
   for (let pass = 0; pass < 100; pass++) {
     let changed = false;
     for (let i = 0; i < 3; i++) {
@@ -311,7 +387,12 @@ export function recogniseSpecialPoints(bs: BandStructure, symprec: number = DEFA
     const label = labelOfK(map, k, invM);
     if (label) labels.push({ index: i, label });
   }
-  return { labels, kind: map.kind, bravaisClass: map.bravais.bravaisClass, reason: labels.length ? null : 'no k-point sits on a special point' };
+  return {
+    labels,
+    kind: map.kind,
+    bravaisClass: map.bravais.bravaisClass,
+    reason: labels.length ? null : 'no k-point sits on a special point',
+  };
 }
 
 /** Labels for the k-points of a band structure (empty when none can be recognised). */

@@ -107,7 +107,9 @@ export function analyzeStructure(structure: Structure, symprec: number = DEFAULT
   const n = structure.species.length;
   if (n === 0) throw new AnalysisError('Cannot determine crystal symmetry: the structure has no atoms.');
   if (structure.positions.length !== 3 * n) {
-    throw new AnalysisError(`Cannot determine crystal symmetry: the structure lists ${n} atoms but ${structure.positions.length / 3} positions.`);
+    throw new AnalysisError(
+      `Cannot determine crystal symmetry: the structure lists ${n} atoms but ${structure.positions.length / 3} positions.`,
+    );
   }
   const lat = structure.lattice;
   const vol = det3(lat);
@@ -119,7 +121,8 @@ export function analyzeStructure(structure: Structure, symprec: number = DEFAULT
   }
   if (!(symprec > 0)) throw new AnalysisError(`The symmetry tolerance must be a positive length in Å, got ${symprec}.`);
   const positions: [number, number, number][] = [];
-  for (let i = 0; i < n; i++) positions.push([structure.positions[3 * i]!, structure.positions[3 * i + 1]!, structure.positions[3 * i + 2]!]);
+  for (let i = 0; i < n; i++)
+    positions.push([structure.positions[3 * i]!, structure.positions[3 * i + 1]!, structure.positions[3 * i + 2]!]);
   const cell = { lattice: { basis: [...lat[0], ...lat[1], ...lat[2]] }, positions, numbers: speciesNumbers(structure.species) };
   try {
     return moyoAnalyze(JSON.stringify(cell), symprec);

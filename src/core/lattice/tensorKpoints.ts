@@ -96,7 +96,13 @@ export interface TensorRunPlan {
  * Plan the points around fractional `center` with shell distance `step` (Å⁻¹). `ops`: the little group of
  * the centre as displacement operations (displacementOperations), or null to write every point.
  */
-export function planTensorRun(center: Vec3, step: number, lattice: Mat3, ops: DisplacementOperation[] | null, bodyDiagonals: boolean): TensorRunPlan {
+export function planTensorRun(
+  center: Vec3,
+  step: number,
+  lattice: Mat3,
+  ops: DisplacementOperation[] | null,
+  bodyDiagonals: boolean,
+): TensorRunPlan {
   if (!(step > 0) || !Number.isFinite(step)) throw new RangeError(`the tensor-run step must be a positive number of Å⁻¹, got ${step}`);
   const disp: Vec3[] = [[0, 0, 0]];
   for (const t of [step, 2 * step]) {
@@ -171,10 +177,18 @@ const wnum = (x: number): string => (Number.isInteger(x) ? String(x) : x.toPreci
  * with weight zero (VASP's layout for band energies of a hybrid-functional run); 'nscf' writes the points
  * with weight 1. Quantum ESPRESSO and CASTEP inputs are written for a non-self-consistent (or spectral) run.
  */
-export function writeTensorKpoints(plan: TensorRunPlan, layout: KpointLayout, what: string, kind: TensorRunKind, mesh: WeightedMesh | null = null): string {
+export function writeTensorKpoints(
+  plan: TensorRunPlan,
+  layout: KpointLayout,
+  what: string,
+  kind: TensorRunKind,
+  mesh: WeightedMesh | null = null,
+): string {
   const pts = plan.points;
   const n = pts.length;
-  const sym = plan.operations ? `, ${n} of ${plan.allPoints.length} points (the rest follow by the ${plan.operations} operations of the little group)` : `, ${n} points`;
+  const sym = plan.operations
+    ? `, ${n} of ${plan.allPoints.length} points (the rest follow by the ${plan.operations} operations of the little group)`
+    : `, ${n} points`;
   const about = `tensor-run k-points around ${what}: shells at ${plan.step.toPrecision(4)} and ${(2 * plan.step).toPrecision(4)} 1/Angstrom${sym} (Valleyscope)`;
   switch (layout) {
     case 'vasp': {
@@ -186,9 +200,20 @@ export function writeTensorKpoints(plan: TensorRunPlan, layout: KpointLayout, wh
     case 'qe':
       return [`! ${about}`, 'K_POINTS crystal', String(n), ...pts.map((k) => `${num(k[0])}${num(k[1])}${num(k[2])}  1.0`), ''].join('\n');
     case 'castep':
-      return [`! ${about}`, '%BLOCK SPECTRAL_KPOINT_LIST', ...pts.map((k) => `${num(k[0])}${num(k[1])}${num(k[2])}  ${(1 / n).toFixed(10)}`), '%ENDBLOCK SPECTRAL_KPOINT_LIST', ''].join('\n');
+      return [
+        `! ${about}`,
+        '%BLOCK SPECTRAL_KPOINT_LIST',
+        ...pts.map((k) => `${num(k[0])}${num(k[1])}${num(k[2])}  ${(1 / n).toFixed(10)}`),
+        '%ENDBLOCK SPECTRAL_KPOINT_LIST',
+        '',
+      ].join('\n');
     case 'list':
-      return [`# ${about}`, '# fractional reciprocal coordinates k1 k2 k3', ...pts.map((k) => `${num(k[0])}${num(k[1])}${num(k[2])}`), ''].join('\n');
+      return [
+        `# ${about}`,
+        '# fractional reciprocal coordinates k1 k2 k3',
+        ...pts.map((k) => `${num(k[0])}${num(k[1])}${num(k[2])}`),
+        '',
+      ].join('\n');
   }
 }
 

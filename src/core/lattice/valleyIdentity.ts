@@ -40,7 +40,8 @@ function apply(m: Mat3, k: readonly number[]): Vec3 {
  * group acting on fractional k ((W⁻¹)ᵀ for each real-space rotation W), or null when the crystal is unknown.
  */
 export function valleyRepresentative(k: readonly number[], reciprocalRotations: readonly Mat3[] | null): Vec3 {
-  const images: Vec3[] = reciprocalRotations && reciprocalRotations.length ? reciprocalRotations.map((r) => apply(r, k)) : [[k[0]!, k[1]!, k[2]!]];
+  const images: Vec3[] =
+    reciprocalRotations && reciprocalRotations.length ? reciprocalRotations.map((r) => apply(r, k)) : [[k[0]!, k[1]!, k[2]!]];
   let best: Vec3 | null = null;
   for (const q of images) {
     for (const c of [centred(q), centred([-q[0], -q[1], -q[2]])]) {

@@ -32,7 +32,9 @@ export function energyZeroOf(report: Report, requested: EnergyZeroMode, fermi_eV
     case 'raw':
       return { requested, used: 'raw', eV: 0, reason: null };
     case 'fermi':
-      return fermi_eV !== null && Number.isFinite(fermi_eV) ? { requested, used: 'fermi', eV: fermi_eV, reason: null } : fallback('the files give no Fermi energy');
+      return fermi_eV !== null && Number.isFinite(fermi_eV)
+        ? { requested, used: 'fermi', eV: fermi_eV, reason: null }
+        : fallback('the files give no Fermi energy');
     default: {
       if (!g) return fallback(report.metal ? 'the run is metallic: there is no gap' : 'the band edges are not known');
       const eV = requested === 'vbm' ? g.vbm.eV : requested === 'cbm' ? g.cbm.eV : (g.vbm.eV + g.cbm.eV) / 2;

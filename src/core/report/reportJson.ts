@@ -81,7 +81,12 @@ export function extremumJson(e: ExtremumReport): Record<string, unknown> {
 
 /** The warped-band fit: `{A, B, C, unit}` first, then errors and the masses that follow from it. */
 export function warpingJson(w: WarpingFitReport): Record<string, unknown> {
-  const side = (b: WarpingFitReport['heavy']): Record<string, unknown> => ({ m100: r(b.m100, 6), m110: r(b.m110, 6), m111: r(b.m111, 6), dos: b.dos === null ? null : r(b.dos, 6) });
+  const side = (b: WarpingFitReport['heavy']): Record<string, unknown> => ({
+    m100: r(b.m100, 6),
+    m110: r(b.m110, 6),
+    m111: r(b.m111, 6),
+    dos: b.dos === null ? null : r(b.dos, 6),
+  });
   return {
     A: r(w.A, 6),
     B: r(w.B, 6),

@@ -51,14 +51,18 @@ const REASON_WORDS: Record<RejectedCandidate['reason'], string> = {
 /** One line naming the candidates that are not extrema (the details are in the JSON output). */
 export function rejectedLine(rejected: RejectedCandidate[], shown = 6): string | null {
   if (!rejected.length) return null;
-  const items = rejected.slice(0, shown).map((x) => `band ${x.band}${x.spin === 1 ? '↓' : ''} at ${formatK(x.k)} (${REASON_WORDS[x.reason]})`);
+  const items = rejected
+    .slice(0, shown)
+    .map((x) => `band ${x.band}${x.spin === 1 ? '↓' : ''} at ${formatK(x.k)} (${REASON_WORDS[x.reason]})`);
   const more = rejected.length > shown ? `, and ${rejected.length - shown} more (see --json)` : '';
   return `  Not extrema (set aside): ${items.join(', ')}${more}`;
 }
 
 function extremumBlock(e: ExtremumReport, o: SummaryOptions, metal = false): string[] {
   const lines: string[] = [];
-  const what = metal ? { vbm: 'VBM', cbm: 'CBM', valley: 'electron pocket bottom', peak: 'hole pocket top' }[e.kind] : { vbm: 'VBM', cbm: 'CBM', valley: 'conduction valley', peak: 'valence peak' }[e.kind];
+  const what = metal
+    ? { vbm: 'VBM', cbm: 'CBM', valley: 'electron pocket bottom', peak: 'hole pocket top' }[e.kind]
+    : { vbm: 'VBM', cbm: 'CBM', valley: 'conduction valley', peak: 'valence peak' }[e.kind];
   const off = e.kind === 'vbm' || e.kind === 'cbm' ? '' : ` (${fmt(e.offset_eV * 1000, 0)} meV from the ${metal ? 'Fermi level' : 'edge'})`;
   lines.push(`  ${what}${off}: ${describePoint(e, o)}`);
   if (e.degenerateBands > 1) lines.push(`    ${e.degenerateBands} degenerate bands at this point`);
@@ -73,16 +77,30 @@ function extremumBlock(e: ExtremumReport, o: SummaryOptions, metal = false): str
   }
   if (e.tensor) {
     lines.push(`    mass tensor (${e.tensor.method}): principal ${e.tensor.principal.map((x) => fmt(x, 3)).join(', ')} m_e`);
-    e.tensor.axes.forEach((a, i) => lines.push(`      m${i + 1} = ${fmt(e.tensor!.principal[i]!, 3)} m_e along (${a.map((x) => fmt(x, 3)).join(', ')})${atMax && e.tensor!.principal[i]! < 0 ? ` (hole mass ${fmt(-e.tensor!.principal[i]!, 3)})` : ''}`));
+    e.tensor.axes.forEach((a, i) =>
+      lines.push(
+        `      m${i + 1} = ${fmt(e.tensor!.principal[i]!, 3)} m_e along (${a.map((x) => fmt(x, 3)).join(', ')})${atMax && e.tensor!.principal[i]! < 0 ? ` (hole mass ${fmt(-e.tensor!.principal[i]!, 3)})` : ''}`,
+      ),
+    );
   }
   if (e.warping) {
     const w = e.warping;
-    lines.push(`    warped-band fit: A = ${fmt(w.A, 2)}, |B| = ${fmt(w.B, 2)}, |C| = ${fmt(w.C, 2)} (${w.unit}), residual ${fmt(w.residual_meV, 2)} meV`);
-    for (const [name, b] of [['heavy', w.heavy], ['light', w.light]] as const) {
-      lines.push(`      ${name}: ${fmt(b.m100, 3)} [100], ${fmt(b.m110, 3)} [110], ${fmt(b.m111, 3)} [111] m_e; DOS mass ${b.dos === null ? 'undetermined' : `${fmt(b.dos, 3)} m_e`}`);
+    lines.push(
+      `    warped-band fit: A = ${fmt(w.A, 2)}, |B| = ${fmt(w.B, 2)}, |C| = ${fmt(w.C, 2)} (${w.unit}), residual ${fmt(w.residual_meV, 2)} meV`,
+    );
+    for (const [name, b] of [
+      ['heavy', w.heavy],
+      ['light', w.light],
+    ] as const) {
+      lines.push(
+        `      ${name}: ${fmt(b.m100, 3)} [100], ${fmt(b.m110, 3)} [110], ${fmt(b.m111, 3)} [111] m_e; DOS mass ${b.dos === null ? 'undetermined' : `${fmt(b.dos, 3)} m_e`}`,
+      );
     }
   }
-  if (e.dosMass !== null) lines.push(`    density-of-states mass ${fmt(e.dosMass, 3)}${e.dosMassPathLimited ? ` ± ${fmt(e.dosMassPathLimited.error, 3)} m_e (path-limited: three directions stand for the whole sphere)` : ' m_e'}`);
+  if (e.dosMass !== null)
+    lines.push(
+      `    density-of-states mass ${fmt(e.dosMass, 3)}${e.dosMassPathLimited ? ` ± ${fmt(e.dosMassPathLimited.error, 3)} m_e (path-limited: three directions stand for the whole sphere)` : ' m_e'}`,
+    );
   if (e.conductivityMass !== null) lines.push(`    conductivity mass ${fmt(e.conductivityMass, 3)} m_e`);
   for (const w of e.warnings) lines.push(`    ! ${w}`);
   return lines;
@@ -93,14 +111,22 @@ export function summaryText(r: Report, options: SummaryOptions = {}): string {
   const out: string[] = [];
   out.push(`${r.file}`);
   const spinState = r.spinors ? 'spinors (noncollinear: one electron per band)' : r.nspin === 2 ? 'spin-polarised' : 'spin-degenerate';
-  out.push(`  ${r.format}: ${r.nk} k-points, ${r.nbands} bands, ${spinState}${r.electrons !== null ? `, ${r.electrons} electron${r.electrons === 1 ? '' : 's'}` : ''}`);
+  out.push(
+    `  ${r.format}: ${r.nk} k-points, ${r.nbands} bands, ${spinState}${r.electrons !== null ? `, ${r.electrons} electron${r.electrons === 1 ? '' : 's'}` : ''}`,
+  );
   if (o.zero) {
     const z = o.zero;
-    out.push(`  Energies relative to the ${energyZeroName(z)}${z.used === 'raw' ? '' : ` (raw ${fmt(z.eV, 4)} eV)`}${z.reason ? `; the ${z.requested === 'fermi' ? 'Fermi energy' : z.requested.toUpperCase()} zero asked for cannot be used: ${z.reason}` : ''}`);
+    out.push(
+      `  Energies relative to the ${energyZeroName(z)}${z.used === 'raw' ? '' : ` (raw ${fmt(z.eV, 4)} eV)`}${z.reason ? `; the ${z.requested === 'fermi' ? 'Fermi energy' : z.requested.toUpperCase()} zero asked for cannot be used: ${z.reason}` : ''}`,
+    );
   }
   if (r.metal) {
-    const crossing = r.crossingBands?.length ? `; crossing it: band${r.crossingBands.length > 1 ? 's' : ''} ${r.crossingBands.join(', ')}` : '';
-    out.push(`  ${r.semimetal ? 'Semimetal' : 'Metal'}: no gap. Fermi level ${r.fermi_eV !== null ? `${fmt(r.fermi_eV, 4)} eV` : 'unknown'}${crossing}.`);
+    const crossing = r.crossingBands?.length
+      ? `; crossing it: band${r.crossingBands.length > 1 ? 's' : ''} ${r.crossingBands.join(', ')}`
+      : '';
+    out.push(
+      `  ${r.semimetal ? 'Semimetal' : 'Metal'}: no gap. Fermi level ${r.fermi_eV !== null ? `${fmt(r.fermi_eV, 4)} eV` : 'unknown'}${crossing}.`,
+    );
     if (r.classificationReason) out.push(`    ${r.classificationReason}`);
   } else if (r.gap) {
     const g = r.gap;
@@ -114,7 +140,13 @@ export function summaryText(r: Report, options: SummaryOptions = {}): string {
   if (r.spinGaps) {
     r.spinGaps.forEach((g, s) => {
       const ch = r.spinChannels?.[s];
-      const what = g ? `gap ${fmt(g.eV, 4)} eV, ${g.direct ? 'direct' : 'indirect'}` : ch?.metal ? `no gap (${ch.semimetal ? 'semimetallic' : 'metallic'} channel${ch.crossingBands.length ? `; band${ch.crossingBands.length > 1 ? 's' : ''} ${ch.crossingBands.join(', ')} ${ch.crossingBands.length > 1 ? 'cross' : 'crosses'} the Fermi level` : ''})` : r.gapReason ? 'no gap (local run)' : 'no gap';
+      const what = g
+        ? `gap ${fmt(g.eV, 4)} eV, ${g.direct ? 'direct' : 'indirect'}`
+        : ch?.metal
+          ? `no gap (${ch.semimetal ? 'semimetallic' : 'metallic'} channel${ch.crossingBands.length ? `; band${ch.crossingBands.length > 1 ? 's' : ''} ${ch.crossingBands.join(', ')} ${ch.crossingBands.length > 1 ? 'cross' : 'crosses'} the Fermi level` : ''})`
+          : r.gapReason
+            ? 'no gap (local run)'
+            : 'no gap';
       out.push(`  spin ${s === 0 ? 'up' : 'down'}: ${what}`);
     });
   }

@@ -18,7 +18,10 @@ export interface CanvasInk {
 
 /** Wait for the band view panel ("Bands: <folder>/<file>") and its drawn plot; returns the webview frame. */
 export async function waitForBandView(s: EditorSession, runName: string, timeoutMs = 90_000): Promise<FrameLocator> {
-  await s.page.locator('.tabs-container .tab', { hasText: `Bands: ${runName}` }).first().waitFor({ timeout: timeoutMs });
+  await s.page
+    .locator('.tabs-container .tab', { hasText: `Bands: ${runName}` })
+    .first()
+    .waitFor({ timeout: timeoutMs });
   const view = s.webview();
   await view.locator('canvas.vs-bands').waitFor({ timeout: timeoutMs });
   // Drawn: the overlay carries the edge markers once data has arrived.

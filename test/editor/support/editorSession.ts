@@ -241,7 +241,10 @@ export class EditorSession {
   /** Focus the workbench (keyboard shortcuts need a focused page). */
   async focusWorkbench(): Promise<void> {
     await this.page.keyboard.press('Escape');
-    await this.page.locator('.monaco-workbench .part.statusbar').click({ position: { x: 5, y: 5 } }).catch(() => undefined);
+    await this.page
+      .locator('.monaco-workbench .part.statusbar')
+      .click({ position: { x: 5, y: 5 } })
+      .catch(() => undefined);
   }
 
   /** Run a command from the command palette by its exact title (e.g. "Valleyscope: Open Band View"). */
@@ -266,10 +269,7 @@ export class EditorSession {
     await input.fill(relativePath);
     const base = relativePath.split('/').pop() ?? relativePath;
     const dir = relativePath.includes('/') ? relativePath.slice(0, relativePath.lastIndexOf('/')) : '';
-    const row = this.page
-      .locator('.quick-input-widget .monaco-list-row', { hasText: dir })
-      .filter({ hasText: base })
-      .first();
+    const row = this.page.locator('.quick-input-widget .monaco-list-row', { hasText: dir }).filter({ hasText: base }).first();
     await row.waitFor({ state: 'visible', timeout: 30_000 });
     await row.click();
     await this.page.locator(`.tabs-container .tab.active[aria-label*="${base}"]`).waitFor({ timeout: 30_000 });
@@ -296,7 +296,11 @@ export class EditorSession {
       () => dontSave.click(),
       () => undefined,
     );
-    await this.page.locator('.tabs-container .tab').first().waitFor({ state: 'detached', timeout: 15_000 }).catch(() => undefined);
+    await this.page
+      .locator('.tabs-container .tab')
+      .first()
+      .waitFor({ state: 'detached', timeout: 15_000 })
+      .catch(() => undefined);
   }
 
   /** Labels of the top-level rows of the Outline view (opened in the Explorer), waiting until there are `min`. */

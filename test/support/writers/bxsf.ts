@@ -28,9 +28,21 @@ export interface BxsfContent {
 
 export function writeBxsf(c: BxsfContent): string {
   const out: string[] = [];
-  out.push('  BEGIN_INFO', '       #', '       # this is a Band-XCRYSDEN-Structure-File', '       # for Fermi Surface Visualisation', '       #');
+  out.push(
+    '  BEGIN_INFO',
+    '       #',
+    '       # this is a Band-XCRYSDEN-Structure-File',
+    '       # for Fermi Surface Visualisation',
+    '       #',
+  );
   out.push(`       Fermi Energy:   ${c.fermiEnergy.toFixed(14)}`);
-  out.push('  END_INFO', '', '  BEGIN_BLOCK_BANDGRID_3D', c.style === 'fs.x' ? ' band_energies' : ' from_wannier_code', c.style === 'fs.x' ? ' BANDGRID_3D_BANDS' : '  BEGIN_BANDGRID_3D_fermi');
+  out.push(
+    '  END_INFO',
+    '',
+    '  BEGIN_BLOCK_BANDGRID_3D',
+    c.style === 'fs.x' ? ' band_energies' : ' from_wannier_code',
+    c.style === 'fs.x' ? ' BANDGRID_3D_BANDS' : '  BEGIN_BANDGRID_3D_fermi',
+  );
   out.push(`           ${c.bands.length}`);
   out.push(c.dims.map((d) => String(d).padStart(12)).join(''));
   out.push(` ${(c.origin ?? [0, 0, 0]).map((x) => x.toFixed(1)).join(' ')}`);

@@ -18,7 +18,10 @@ import { writeBxsf } from './bxsf';
 import { orthorhombicLattice } from '../models';
 
 const root = process.argv[2] ?? '.';
-const read = (name: string) => ({ path: join('fixtures/epm/si', name), bytes: new Uint8Array(readFileSync(join(root, 'fixtures/epm/si', name))) });
+const read = (name: string) => ({
+  path: join('fixtures/epm/si', name),
+  bytes: new Uint8Array(readFileSync(join(root, 'fixtures/epm/si', name))),
+});
 const si: BandStructure = vaspEigenvalReader.read(read('EIGENVAL'), [read('POSCAR'), read('KPOINTS')], {});
 // Keep eight bands (four valence, four conduction): small files, the same edges.
 const nb = 8;
@@ -56,7 +59,8 @@ out('qe', 'si.xml', writeQeXml(bs, { alat, homo: true }));
 out('qe', 'si.bands.dat', writeBandsx(bs, alat));
 // Line mode: 40 points per segment; the generation lists each segment's two ends, as VASP writes them.
 const ends: number[][] = [];
-for (let s = 0; s * 40 < bs.nk; s++) for (const i of [s * 40, s * 40 + 39]) ends.push([bs.kpoints[3 * i]!, bs.kpoints[3 * i + 1]!, bs.kpoints[3 * i + 2]!]);
+for (let s = 0; s * 40 < bs.nk; s++)
+  for (const i of [s * 40, s * 40 + 39]) ends.push([bs.kpoints[3 * i]!, bs.kpoints[3 * i + 1]!, bs.kpoints[3 * i + 2]!]);
 const gen = { divisions: 40, ends };
 out('vasprun', 'vasprun.xml', writeVasprun(bs, { generation: gen, system: modelSystemName('Si EPM (Cohen-Bergstresser 1966), 8 bands') }));
 const w = writeWannier90({ ...bs, occupations: null }, { fermiEnergy: Number(((vbm + cbm) / 2).toFixed(4)) });
@@ -73,10 +77,16 @@ const n = 9;
 const v = new Float64Array(n * n * n);
 const c = new Float64Array(n * n * n);
 let p = 0;
-for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) for (let l = 0; l < n; l++) {
-  const s = [i, j, l].reduce((acc, x, a) => acc + 2 * T[a]! * (1 - Math.cos((2 * Math.PI * x) / (n - 1))), 0);
-  v[p] = -1 - 0.5 * s;
-  c[p++] = 1 + s;
-}
-out('bxsf', 'model.bxsf', writeBxsf({ fermiEnergy: 0, dims: [n, n, n], reciprocal: reciprocalLattice(orthorhombicLattice(...A)), bands: [v, c] }));
+for (let i = 0; i < n; i++)
+  for (let j = 0; j < n; j++)
+    for (let l = 0; l < n; l++) {
+      const s = [i, j, l].reduce((acc, x, a) => acc + 2 * T[a]! * (1 - Math.cos((2 * Math.PI * x) / (n - 1))), 0);
+      v[p] = -1 - 0.5 * s;
+      c[p++] = 1 + s;
+    }
+out(
+  'bxsf',
+  'model.bxsf',
+  writeBxsf({ fermiEnergy: 0, dims: [n, n, n], reciprocal: reciprocalLattice(orthorhombicLattice(...A)), bands: [v, c] }),
+);
 console.log(`fixtures written: Si VBM ${vbm.toFixed(4)} eV, CBM ${cbm.toFixed(4)} eV, alat ${alat.toFixed(4)} Å`);

@@ -17,7 +17,9 @@ export function kCartesianTwoPiOverAlat(bs: BandStructure, alat: number): Float6
   const a = bs.lattice!;
   // b_i (in 2π/Å) = rows of inverse-transpose of a; times alat gives units of 2π/alat.
   const det =
-    a[0][0] * (a[1][1] * a[2][2] - a[1][2] * a[2][1]) - a[0][1] * (a[1][0] * a[2][2] - a[1][2] * a[2][0]) + a[0][2] * (a[1][0] * a[2][1] - a[1][1] * a[2][0]);
+    a[0][0] * (a[1][1] * a[2][2] - a[1][2] * a[2][1]) -
+    a[0][1] * (a[1][0] * a[2][2] - a[1][2] * a[2][0]) +
+    a[0][2] * (a[1][0] * a[2][1] - a[1][1] * a[2][0]);
   const cof = (i: number, j: number): number => {
     const r = [0, 1, 2].filter((x) => x !== i);
     const c = [0, 1, 2].filter((x) => x !== j);
@@ -109,7 +111,13 @@ export function writeQeXml(bs: BandStructure, opts: QeXmlOptions = {}): string {
   }
   if (opts.functional) {
     out.push('    <dft>', `      <functional>${opts.functional}</functional>`);
-    if (opts.hybrid) out.push('      <hybrid>', `        <qpoint_grid nqx1="1" nqx2="1" nqx3="1">1 1 1</qpoint_grid>`, `        <exx_fraction>${qeNumber(0.25)}</exx_fraction>`, '      </hybrid>');
+    if (opts.hybrid)
+      out.push(
+        '      <hybrid>',
+        `        <qpoint_grid nqx1="1" nqx2="1" nqx3="1">1 1 1</qpoint_grid>`,
+        `        <exx_fraction>${qeNumber(0.25)}</exx_fraction>`,
+        '      </hybrid>',
+      );
     out.push('    </dft>');
   }
   out.push('    <magnetization>');
@@ -131,7 +139,11 @@ export function writeQeXml(bs: BandStructure, opts: QeXmlOptions = {}): string {
   if (opts.twoFermi) {
     out.push(`      <two_fermi_energies>${opts.twoFermi.map((x) => qeNumber(x / HARTREE_EV)).join(' ')}</two_fermi_energies>`);
   } else if (bs.fermiEnergy !== null) {
-    out.push(opts.homo ? `      <highestOccupiedLevel>${qeNumber(bs.fermiEnergy / HARTREE_EV)}</highestOccupiedLevel>` : `      <fermi_energy>${qeNumber(bs.fermiEnergy / HARTREE_EV)}</fermi_energy>`);
+    out.push(
+      opts.homo
+        ? `      <highestOccupiedLevel>${qeNumber(bs.fermiEnergy / HARTREE_EV)}</highestOccupiedLevel>`
+        : `      <fermi_energy>${qeNumber(bs.fermiEnergy / HARTREE_EV)}</fermi_energy>`,
+    );
   }
   out.push('      <starting_k_points>');
   if (opts.monkhorstPack) {
@@ -160,11 +172,23 @@ export function writeQeXml(bs: BandStructure, opts: QeXmlOptions = {}): string {
       }
     }
     out.push(`        <eigenvalues size="${nb}">`);
-    for (let i = 0; i < e.length; i += 4) out.push(`  ${e.slice(i, i + 4).map(qeNumber).join(' ')}`);
+    for (let i = 0; i < e.length; i += 4)
+      out.push(
+        `  ${e
+          .slice(i, i + 4)
+          .map(qeNumber)
+          .join(' ')}`,
+      );
     out.push('        </eigenvalues>');
     if (bs.occupations) {
       out.push(`        <occupations size="${nb}">`);
-      for (let i = 0; i < o.length; i += 4) out.push(`  ${o.slice(i, i + 4).map(qeNumber).join(' ')}`);
+      for (let i = 0; i < o.length; i += 4)
+        out.push(
+          `  ${o
+            .slice(i, i + 4)
+            .map(qeNumber)
+            .join(' ')}`,
+        );
       out.push('        </occupations>');
     }
     out.push('      </ks_energies>');

@@ -18,7 +18,10 @@ export const MODEL_TV: Vec3 = [-0.5, -0.4, -0.3];
 /** Conduction band with its minimum at X: E = Ec + 2t_x(1 + cos 2πk_x) + Σ_{y,z} 2t(1 − cos 2πk). */
 function conductionAtX(ec: number, t: Vec3): Dispersion {
   return (_kc, kf) =>
-    ec + 2 * t[0] * (1 + Math.cos(2 * Math.PI * kf[0])) + 2 * t[1] * (1 - Math.cos(2 * Math.PI * kf[1])) + 2 * t[2] * (1 - Math.cos(2 * Math.PI * kf[2]));
+    ec +
+    2 * t[0] * (1 + Math.cos(2 * Math.PI * kf[0])) +
+    2 * t[1] * (1 - Math.cos(2 * Math.PI * kf[1])) +
+    2 * t[2] * (1 - Math.cos(2 * Math.PI * kf[2]));
 }
 
 const G = { label: 'Γ', k: [0, 0, 0] as Vec3 };
@@ -68,10 +71,11 @@ export function spinOrbitModel(): BandStructure {
   const c = collinearModel();
   const nb = 2 * c.nBands;
   const e = new Float64Array(c.nk * nb);
-  for (let k = 0; k < c.nk; k++) for (let b = 0; b < c.nBands; b++) {
-    e[k * nb + 2 * b] = c.energies[0]![k * c.nBands + b]!;
-    e[k * nb + 2 * b + 1] = c.energies[0]![k * c.nBands + b]!;
-  }
+  for (let k = 0; k < c.nk; k++)
+    for (let b = 0; b < c.nBands; b++) {
+      e[k * nb + 2 * b] = c.energies[0]![k * c.nBands + b]!;
+      e[k * nb + 2 * b + 1] = c.energies[0]![k * c.nBands + b]!;
+    }
   c.nBands = nb;
   c.energies = [e];
   c.spinorbit = true;

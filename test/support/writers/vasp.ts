@@ -24,7 +24,9 @@ export function fortranE(x: number, width: number, digits: number): string {
     mantissa = '0'.repeat(digits);
     exponent = 0;
   } else {
-    const [m, e] = Math.abs(x).toExponential(digits - 1).split('e') as [string, string];
+    const [m, e] = Math.abs(x)
+      .toExponential(digits - 1)
+      .split('e') as [string, string];
     mantissa = m.replace('.', '');
     exponent = Number(e) + 1;
   }
@@ -178,7 +180,9 @@ export function writeExplicitKpoints(comment: string, kpoints: Float64Array, wei
   const out: string[] = [comment, String(nk).padStart(5), 'Reciprocal'];
   for (let k = 0; k < nk; k++) {
     const w = weights ? weights[k]! : 1;
-    out.push(`${[kpoints[3 * k]!, kpoints[3 * k + 1]!, kpoints[3 * k + 2]!].map((x) => x.toFixed(10).padStart(15)).join('')}${w.toFixed(6).padStart(12)}`);
+    out.push(
+      `${[kpoints[3 * k]!, kpoints[3 * k + 1]!, kpoints[3 * k + 2]!].map((x) => x.toFixed(10).padStart(15)).join('')}${w.toFixed(6).padStart(12)}`,
+    );
   }
   return out.join('\n') + '\n';
 }

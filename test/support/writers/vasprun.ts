@@ -37,14 +37,22 @@ export function writeVasprun(bs: BandStructure, opts: VasprunOptions = {}): stri
   out.push('<modeling>');
   out.push(' <generator>', '  <i name="program" type="string">vasp </i>', '  <i name="version" type="string">6.4.2  </i>', ' </generator>');
   const system = opts.system ?? 'model';
-  const tag = (k: string, v: string): string => (/^[.]?[TF]/i.test(v) && v.trim().length <= 7 ? `<i type="logical" name="${k}"> ${v} </i>` : /^[A-Za-z-]/.test(v) ? `<i type="string" name="${k}">${v}</i>` : `<i name="${k}">${v}</i>`);
+  const tag = (k: string, v: string): string =>
+    /^[.]?[TF]/i.test(v) && v.trim().length <= 7
+      ? `<i type="logical" name="${k}"> ${v} </i>`
+      : /^[A-Za-z-]/.test(v)
+        ? `<i type="string" name="${k}">${v}</i>`
+        : `<i name="${k}">${v}</i>`;
   out.push(' <incar>', `  <i type="string" name="SYSTEM">${system}</i>`, `  <i name="ISPIN">      ${bs.nSpin}</i>`);
   if (bs.spinorbit) out.push('  <i type="logical" name="LSORBIT"> T  </i>');
   for (const [k, v] of Object.entries(opts.incarTags ?? {})) out.push(`  ${tag(k, v)}`);
   out.push(' </incar>');
   out.push(' <kpoints>');
   if (opts.generation) {
-    out.push('  <generation param="listgenerated">', `   <i name="divisions" type="int">${String(opts.generation.divisions).padStart(8)} </i>`);
+    out.push(
+      '  <generation param="listgenerated">',
+      `   <i name="divisions" type="int">${String(opts.generation.divisions).padStart(8)} </i>`,
+    );
     for (const e of opts.generation.ends) out.push(`   <v>${e.map((x) => f(x)).join('')} </v>`);
     out.push('  </generation>');
   }
@@ -54,16 +62,35 @@ export function writeVasprun(bs: BandStructure, opts: VasprunOptions = {}): stri
   for (let k = 0; k < bs.nk; k++) out.push(`   <v>${f(bs.weights ? bs.weights[k]! : 1 / bs.nk)} </v>`);
   out.push('  </varray>', ' </kpoints>');
   if (!opts.noParameters) {
-    out.push(' <parameters>', '  <separator name="general" >', `   <i type="string" name="SYSTEM">${system}</i>`, '  </separator>', '  <separator name="electronic" >');
+    out.push(
+      ' <parameters>',
+      '  <separator name="general" >',
+      `   <i type="string" name="SYSTEM">${system}</i>`,
+      '  </separator>',
+      '  <separator name="electronic" >',
+    );
     out.push(`   <i name="NELECT">${f(bs.electrons ?? 0)}</i>`, `   <i type="int" name="NBANDS">${String(bs.nBands).padStart(6)}</i>`);
     out.push('   <separator name="electronic spin" >', `    <i type="int" name="ISPIN">     ${bs.nSpin}</i>`);
-    out.push(`    <i type="logical" name="LNONCOLLINEAR"> ${bs.spinorbit ? 'T' : 'F'}  </i>`, `    <i type="logical" name="LSORBIT"> ${bs.spinorbit ? 'T' : 'F'}  </i>`);
+    out.push(
+      `    <i type="logical" name="LNONCOLLINEAR"> ${bs.spinorbit ? 'T' : 'F'}  </i>`,
+      `    <i type="logical" name="LSORBIT"> ${bs.spinorbit ? 'T' : 'F'}  </i>`,
+    );
     out.push('   </separator>', '   <separator name="electronic exchange-correlation" >');
     for (const [k, v] of Object.entries(opts.parameterTags ?? {})) out.push(`    ${tag(k, v)}`);
     out.push('   </separator>', '  </separator>', ' </parameters>');
   }
-  out.push(' <atominfo>', `  <atoms>${String(st.species.length).padStart(8)} </atoms>`, '  <types>       1 </types>', '  <array name="atoms" >');
-  out.push('   <dimension dim="1">ion</dimension>', '   <field type="string">element</field>', '   <field type="int">atomtype</field>', '   <set>');
+  out.push(
+    ' <atominfo>',
+    `  <atoms>${String(st.species.length).padStart(8)} </atoms>`,
+    '  <types>       1 </types>',
+    '  <array name="atoms" >',
+  );
+  out.push(
+    '   <dimension dim="1">ion</dimension>',
+    '   <field type="string">element</field>',
+    '   <field type="int">atomtype</field>',
+    '   <set>',
+  );
   for (const s of st.species) out.push(`    <rc><c>${s.padEnd(2)}</c><c>   1</c></rc>`);
   out.push('   </set>', '  </array>', ' </atominfo>');
   const structure = (name: string | null): void => {

@@ -24,11 +24,16 @@ export function writeWannier90(bs: BandStructure, opts: { fermiEnergy?: number; 
     dat.push('  ');
   }
   const kpt = [fortranI(bs.nk, 12)];
-  for (let k = 0; k < bs.nk; k++) kpt.push(`${[bs.kpoints[3 * k]!, bs.kpoints[3 * k + 1]!, bs.kpoints[3 * k + 2]!].map((v) => fortranF(v, 12, 6)).join('')}   ${fortranF(1, 4, 1)}`);
+  for (let k = 0; k < bs.nk; k++)
+    kpt.push(
+      `${[bs.kpoints[3 * k]!, bs.kpoints[3 * k + 1]!, bs.kpoints[3 * k + 2]!].map((v) => fortranF(v, 12, 6)).join('')}   ${fortranF(1, 4, 1)}`,
+    );
   const li: string[] = [];
   for (const l of bs.labels) {
     const name = l.label === 'Γ' ? 'G' : l.label;
-    li.push(`${name.padEnd(2)}   ${fortranI(l.index + 1, 10)}   ${[x[l.index]!, bs.kpoints[3 * l.index]!, bs.kpoints[3 * l.index + 1]!, bs.kpoints[3 * l.index + 2]!].map((v) => fortranF(v, 18, 10)).join('')}`);
+    li.push(
+      `${name.padEnd(2)}   ${fortranI(l.index + 1, 10)}   ${[x[l.index]!, bs.kpoints[3 * l.index]!, bs.kpoints[3 * l.index + 1]!, bs.kpoints[3 * l.index + 2]!].map((v) => fortranF(v, 18, 10)).join('')}`,
+    );
   }
   const win: string[] = ['num_wann = ' + bs.nBands, 'num_bands = ' + bs.nBands, ''];
   if (opts.fermiEnergy !== undefined) win.push(`fermi_energy = ${opts.fermiEnergy}`);
@@ -38,7 +43,9 @@ export function writeWannier90(bs: BandStructure, opts: { fermiEnergy?: number; 
   win.push('End Unit_Cell_Cart', '');
   if (bs.structure) {
     win.push('begin atoms_frac');
-    bs.structure.species.forEach((s, i) => win.push(`${s} ${[0, 1, 2].map((j) => bs.structure!.positions[3 * i + j]!.toFixed(8)).join(' ')}`));
+    bs.structure.species.forEach((s, i) =>
+      win.push(`${s} ${[0, 1, 2].map((j) => bs.structure!.positions[3 * i + j]!.toFixed(8)).join(' ')}`),
+    );
     win.push('end atoms_frac', '');
   }
   win.push('mp_grid = 4 4 4');

@@ -1,5 +1,11 @@
 import assert from 'node:assert/strict';
-import { averagedFromPrincipal, conductivityMass, densityOfStatesMass, directionStarSize, multiBandDosMass } from '../../../src/core/analysis/averagedMasses';
+import {
+  averagedFromPrincipal,
+  conductivityMass,
+  densityOfStatesMass,
+  directionStarSize,
+  multiBandDosMass,
+} from '../../../src/core/analysis/averagedMasses';
 import { warpedDosMass, warpedEnergies, warpedInverseMass, type WarpingParameters } from '../../../src/core/analysis/warpedBands';
 import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
 import { cartesianOperation } from '../../../src/core/analysis/symmetryTensor';
@@ -50,9 +56,19 @@ describe('path-limited density-of-states mass at a warped degenerate maximum', (
   const bs = pathModel({
     lattice: cubicLattice(a),
     structure: simpleCubicStructure(a),
-    bands: [(kc) => branch(-1)(kc), (kc) => branch(1)(kc), (kc) => 2 + HBAR2_OVER_ME_EV_A2 / 2 * (kc[0] ** 2 + kc[1] ** 2 + kc[2] ** 2)],
+    bands: [(kc) => branch(-1)(kc), (kc) => branch(1)(kc), (kc) => 2 + (HBAR2_OVER_ME_EV_A2 / 2) * (kc[0] ** 2 + kc[1] ** 2 + kc[2] ** 2)],
     electrons: 4,
-    legs: [[{ label: 'X', k: [0.5, 0, 0] }, { label: 'Γ', k: [0, 0, 0] }, { label: 'M', k: [0.5, 0.5, 0] }], [{ label: 'Γ', k: [0, 0, 0] }, { label: 'R', k: [0.5, 0.5, 0.5] }]],
+    legs: [
+      [
+        { label: 'X', k: [0.5, 0, 0] },
+        { label: 'Γ', k: [0, 0, 0] },
+        { label: 'M', k: [0.5, 0.5, 0] },
+      ],
+      [
+        { label: 'Γ', k: [0, 0, 0] },
+        { label: 'R', k: [0.5, 0.5, 0.5] },
+      ],
+    ],
     pointsPerSegment: 81,
   });
 
@@ -71,7 +87,8 @@ describe('path-limited density-of-states mass at a warped degenerate maximum', (
     assert.equal(directionStarSize([1, 1, 1].map((x) => x / Math.sqrt(3)) as Vec3, ops), 8);
     // Expected: the star-weighted average of the analytic directional masses of the form, per branch.
     const m = (u: Vec3, b: 1 | -1): number => Math.abs(1 / warpedInverseMass(P, u, b));
-    const starAvg = (b: 1 | -1): number => ((6 * m([1, 0, 0], b) ** 1.5 + 12 * m([1, 1, 0], b) ** 1.5 + 8 * m([1, 1, 1], b) ** 1.5) / 26) ** (2 / 3);
+    const starAvg = (b: 1 | -1): number =>
+      ((6 * m([1, 0, 0], b) ** 1.5 + 12 * m([1, 1, 0], b) ** 1.5 + 8 * m([1, 1, 1], b) ** 1.5) / 26) ** (2 / 3);
     const expected = (starAvg(1) ** 1.5 + starAvg(-1) ** 1.5) ** (2 / 3);
     assert.ok(vbm.dosMass !== null);
     assert.ok(Math.abs(vbm.dosMass / expected - 1) < 0.005, `${vbm.dosMass} vs ${expected}`);

@@ -53,7 +53,10 @@ describe('candidate classification: crossings', () => {
       assert.equal(valleysAt(r, kc), 0, JSON.stringify(r.extrema.map((e) => [e.kind, e.band, e.k])));
       const rej = (r.rejected ?? []).filter((x) => near(x.k, kc));
       assert.ok(rej.length >= 1, JSON.stringify(r.rejected));
-      assert.ok(rej.every((x) => x.reason === 'crossing'), JSON.stringify(rej));
+      assert.ok(
+        rej.every((x) => x.reason === 'crossing'),
+        JSON.stringify(rej),
+      );
       // The upper band of the pair (band 4, 1-based) is the one with the "V".
       assert.ok(rej.some((x) => x.band === 4));
     });
@@ -73,7 +76,10 @@ describe('candidate classification: crossings', () => {
     const v3 = r.extrema.find((e) => e.kind === 'valley' && near(e.k, [k0f, 0, 0]) && e.band === 3);
     assert.ok(v3, JSON.stringify(r.extrema.map((e) => [e.kind, e.band, e.k])));
     // Analytic mass 0.4 (parabolic band built with it).
-    assert.ok(v3.masses.every((m) => Math.abs(m.mass - 0.4) < 1e-6), JSON.stringify(v3.masses.map((m) => m.mass)));
+    assert.ok(
+      v3.masses.every((m) => Math.abs(m.mass - 0.4) < 1e-6),
+      JSON.stringify(v3.masses.map((m) => m.mass)),
+    );
     assert.ok(!(r.rejected ?? []).some((x) => x.reason === 'crossing'));
   });
 });
@@ -82,7 +88,13 @@ describe('candidate classification: saddles', () => {
   it('E = E0 + (kx² − ky²)ħ²/2m at Γ on the path X–Γ–Y is a saddle, not a valley', () => {
     const m = 2;
     const saddle: Dispersion = (kc) => 2 + (HBAR2_OVER_ME_EV_A2 / (2 * m)) * (kc[0] ** 2 - kc[1] ** 2);
-    const bs = pathModel({ lattice: cubicLattice(A), bands: [parabolicBand(-1, -0.5), saddle], electrons: 2, legs: [[X, G, Y]], pointsPerSegment: 41 });
+    const bs = pathModel({
+      lattice: cubicLattice(A),
+      bands: [parabolicBand(-1, -0.5), saddle],
+      electrons: 2,
+      legs: [[X, G, Y]],
+      pointsPerSegment: 41,
+    });
     const r = analyzeBandStructure(bs, { range_eV: 3 });
     assert.equal(r.extrema.filter((e) => e.kind === 'valley' && near(e.k, [0, 0, 0])).length, 0);
     const at = (r.rejected ?? []).filter((x) => near(x.k, [0, 0, 0]) && x.band === 2);
@@ -94,7 +106,13 @@ describe('candidate classification: saddles', () => {
     // Control: along x alone the saddle band is an upward parabola of mass m (analytic).
     const m = 2;
     const saddle: Dispersion = (kc) => 2 + (HBAR2_OVER_ME_EV_A2 / (2 * m)) * (kc[0] ** 2 - kc[1] ** 2);
-    const bs = pathModel({ lattice: cubicLattice(A), bands: [parabolicBand(-1, -0.5), saddle], electrons: 2, legs: [[G, X]], pointsPerSegment: 41 });
+    const bs = pathModel({
+      lattice: cubicLattice(A),
+      bands: [parabolicBand(-1, -0.5), saddle],
+      electrons: 2,
+      legs: [[G, X]],
+      pointsPerSegment: 41,
+    });
     const r = analyzeBandStructure(bs, { range_eV: 3 });
     const cbm = r.extrema.find((e) => e.kind === 'cbm')!;
     assert.ok(near(cbm.k, [0, 0, 0]));
@@ -119,7 +137,10 @@ describe('candidate classification: degenerate points', () => {
 
   it('a branch that falls along one direction makes the degenerate point a saddle, not a valley', () => {
     const r = analyzeBandStructure(model(-c(20)), { range_eV: 1 });
-    assert.ok(!r.extrema.some((e) => e.kind === 'valley' && near(e.k, [0, 0, 0])), JSON.stringify(r.extrema.map((e) => [e.kind, e.band, e.k])));
+    assert.ok(
+      !r.extrema.some((e) => e.kind === 'valley' && near(e.k, [0, 0, 0])),
+      JSON.stringify(r.extrema.map((e) => [e.kind, e.band, e.k])),
+    );
     const at = (r.rejected ?? []).filter((x) => near(x.k, [0, 0, 0]));
     assert.equal(at.length, 1, JSON.stringify(r.rejected));
     assert.equal(at[0]!.reason, 'saddle');
@@ -169,7 +190,14 @@ describe('candidate classification: rounding of the written energies', () => {
   for (const decimals of [4, 6]) {
     it(`written with ${decimals} decimals: exactly VBM and CBM at Γ and the second band's valley at M`, function () {
       this.timeout(30000);
-      const bs = pathModel({ lattice: cubicLattice(3.2), bands, electrons: 2, legs: [[G, X, M, G]], pointsPerSegment: 6667, roundTo: 10 ** -decimals });
+      const bs = pathModel({
+        lattice: cubicLattice(3.2),
+        bands,
+        electrons: 2,
+        legs: [[G, X, M, G]],
+        pointsPerSegment: 6667,
+        roundTo: 10 ** -decimals,
+      });
       assert.ok(bs.nk >= 20000);
       const r = analyzeBandStructure(bs, { range_eV: 1.4 });
       const got = r.extrema.map((e) => `${e.kind} b${e.band} ${e.label}`).sort();
@@ -188,7 +216,14 @@ describe('candidate classification: rounding of the written energies', () => {
     // 0.3 of Γ–X; the analytic maximum is k0 (a sampled point, the plateau's centre by symmetry).
     const k0 = 0.3;
     const flatTop: Dispersion = (kc) => -50 * (kc[0] - kx(k0)) ** 4;
-    const bs = pathModel({ lattice: cubicLattice(A), bands: [flatTop, parabolicBand(3, 1)], electrons: 2, legs: [[G, X]], pointsPerSegment: 201, roundTo: 1e-4 });
+    const bs = pathModel({
+      lattice: cubicLattice(A),
+      bands: [flatTop, parabolicBand(3, 1)],
+      electrons: 2,
+      legs: [[G, X]],
+      pointsPerSegment: 201,
+      roundTo: 1e-4,
+    });
     const r = analyzeBandStructure(bs);
     const tops = r.extrema.filter((e) => e.kind === 'vbm' || e.kind === 'peak');
     assert.equal(tops.length, 1, JSON.stringify(tops.map((e) => [e.kind, e.k])));

@@ -72,7 +72,19 @@ describe('metal, semimetal or insulator', () => {
   });
 
   it('a non-integer electron count (2.9) is a metal whatever the band order', () => {
-    const bs = makeBands({ kpoints: [[0, 0, 0], [0.5, 0, 0]], energies: [[[-3, -1, 2], [-3.1, -1.2, 2.5]]], electrons: 2.9 });
+    const bs = makeBands({
+      kpoints: [
+        [0, 0, 0],
+        [0.5, 0, 0],
+      ],
+      energies: [
+        [
+          [-3, -1, 2],
+          [-3.1, -1.2, 2.5],
+        ],
+      ],
+      electrons: 2.9,
+    });
     const r = analyzeBandStructure(bs);
     assert.equal(r.metal, true);
     assert.equal(r.gap, null);
@@ -80,7 +92,20 @@ describe('metal, semimetal or insulator', () => {
   });
 
   it('the same odd count with spinors fills whole bands: one electron per band (common practice)', () => {
-    const bs = makeBands({ kpoints: [[0, 0, 0], [0.5, 0, 0]], energies: [[[-3, -1, 2], [-3.1, -1.2, 2.5]]], electrons: 1, spinorbit: true });
+    const bs = makeBands({
+      kpoints: [
+        [0, 0, 0],
+        [0.5, 0, 0],
+      ],
+      energies: [
+        [
+          [-3, -1, 2],
+          [-3.1, -1.2, 2.5],
+        ],
+      ],
+      electrons: 1,
+      spinorbit: true,
+    });
     const r = analyzeBandStructure(bs);
     assert.equal(r.metal, false);
     assert.equal(r.spinors, true);
@@ -107,7 +132,22 @@ describe('metal, semimetal or insulator', () => {
 
   it('a metal whose overlap is inside one band pair that crosses is not called a semimetal', () => {
     // Bands 1 and 2 cross at k1 (E equal): not clearly distinct bands.
-    const bs = makeBands({ kpoints: [[0, 0, 0], [0.25, 0, 0], [0.5, 0, 0]], energies: [[[0.3, 0.5], [0.4, 0.4], [-0.5, -0.2]]], electrons: 2, fermiEnergy: 0 });
+    const bs = makeBands({
+      kpoints: [
+        [0, 0, 0],
+        [0.25, 0, 0],
+        [0.5, 0, 0],
+      ],
+      energies: [
+        [
+          [0.3, 0.5],
+          [0.4, 0.4],
+          [-0.5, -0.2],
+        ],
+      ],
+      electrons: 2,
+      fermiEnergy: 0,
+    });
     const r = analyzeBandStructure(bs);
     assert.equal(r.metal, true);
     assert.equal(r.semimetal, false);
@@ -125,7 +165,10 @@ describe('metal, semimetal or insulator', () => {
     assert.equal(r.spinGaps?.[0], null);
     assert.ok(r.spinGaps?.[1] && Math.abs(r.spinGaps[1].eV - (12 - 2 * unit)) < 1e-9, String(r.spinGaps?.[1]?.eV));
     const j = reportToJson(r) as { spinChannels: { metal: boolean; semimetal: boolean; fermi_eV: number; classificationReason: string }[] };
-    assert.deepEqual(j.spinChannels.map((c) => c.metal), [true, false]);
+    assert.deepEqual(
+      j.spinChannels.map((c) => c.metal),
+      [true, false],
+    );
     assert.ok(j.spinChannels.every((c) => typeof c.classificationReason === 'string' && 'fermi_eV' in c && 'semimetal' in c));
   });
 
@@ -192,9 +235,22 @@ describe('metal, semimetal or insulator', () => {
       fc.property(arb, (a) => {
         const kpoints = Array.from({ length: a.nk }, (_, i) => [i / 10, 0, 0]);
         const at = (arr: number[], s: number, k: number, b: number): number => arr[(s * 30 + k * a.nb + b) % arr.length]!;
-        const energies = Array.from({ length: a.nSpin }, (_, s) => kpoints.map((_, k) => Array.from({ length: a.nb }, (_, b) => at(a.seed, s, k, b)).sort((x, y) => x - y)));
-        const occupations = a.occ ? Array.from({ length: a.nSpin }, (_, s) => kpoints.map((_, k) => Array.from({ length: a.nb }, (_, b) => at(a.occ!, s, k, b)))) : undefined;
-        const r = analyzeBandStructure(makeBands({ kpoints, energies, occupations, fermiEnergy: a.fermi, electrons: a.electrons, spinorbit: a.spinorbit && a.nSpin === 1 }));
+        const energies = Array.from({ length: a.nSpin }, (_, s) =>
+          kpoints.map((_, k) => Array.from({ length: a.nb }, (_, b) => at(a.seed, s, k, b)).sort((x, y) => x - y)),
+        );
+        const occupations = a.occ
+          ? Array.from({ length: a.nSpin }, (_, s) => kpoints.map((_, k) => Array.from({ length: a.nb }, (_, b) => at(a.occ!, s, k, b))))
+          : undefined;
+        const r = analyzeBandStructure(
+          makeBands({
+            kpoints,
+            energies,
+            occupations,
+            fermiEnergy: a.fermi,
+            electrons: a.electrons,
+            spinorbit: a.spinorbit && a.nSpin === 1,
+          }),
+        );
         if (r.metal) assert.equal(r.gap, null);
         if (r.gap) assert.equal(r.metal, false);
         if (r.metal !== true) assert.notEqual(r.semimetal, true);
@@ -209,22 +265,37 @@ describe('metal, semimetal or insulator', () => {
   });
 
   it('property: with a written Fermi level, metal exactly when it lies inside some band (analytic truth)', () => {
-    const band = fc.record({ centre: fc.double({ min: -5, max: 5, noNaN: true }), width: fc.double({ min: 0, max: 3, noNaN: true }), phase: fc.double({ min: 0, max: 6.28, noNaN: true }) });
+    const band = fc.record({
+      centre: fc.double({ min: -5, max: 5, noNaN: true }),
+      width: fc.double({ min: 0, max: 3, noNaN: true }),
+      phase: fc.double({ min: 0, max: 6.28, noNaN: true }),
+    });
     fc.assert(
-      fc.property(fc.array(band, { minLength: 1, maxLength: 5 }), fc.integer({ min: 2, max: 12 }), fc.double({ min: -8, max: 8, noNaN: true }), fc.boolean(), (bands, nk, ef, withOcc) => {
-        const kpoints = Array.from({ length: nk }, (_, i) => [i / (2 * (nk - 1)), 0, 0]);
-        const rows = kpoints.map((k) => bands.map((b) => b.centre + b.width * Math.cos(2 * Math.PI * k[0]! + b.phase)).sort((x, y) => x - y));
-        // Ranges of the bands as sorted by energy (the file's band order).
-        const nb = bands.length;
-        const ranges = Array.from({ length: nb }, (_, b) => ({ min: Math.min(...rows.map((r) => r[b]!)), max: Math.max(...rows.map((r) => r[b]!)) }));
-        const margin = 2 * FERMI_INSIDE_TOLERANCE_EV;
-        fc.pre(ranges.every((r) => Math.abs(r.min - ef) > margin && Math.abs(r.max - ef) > margin));
-        const inside = ranges.some((r) => r.min < ef && ef < r.max);
-        const occupations = withOcc ? [rows.map((r) => r.map((e) => (e < ef ? 1 : 0)))] : undefined;
-        const bs = makeBands({ kpoints, energies: [rows], fermiEnergy: ef, occupations });
-        const r = analyzeBandStructure(bs);
-        return r.metal === inside && (inside ? r.gap === null : true);
-      }),
+      fc.property(
+        fc.array(band, { minLength: 1, maxLength: 5 }),
+        fc.integer({ min: 2, max: 12 }),
+        fc.double({ min: -8, max: 8, noNaN: true }),
+        fc.boolean(),
+        (bands, nk, ef, withOcc) => {
+          const kpoints = Array.from({ length: nk }, (_, i) => [i / (2 * (nk - 1)), 0, 0]);
+          const rows = kpoints.map((k) =>
+            bands.map((b) => b.centre + b.width * Math.cos(2 * Math.PI * k[0]! + b.phase)).sort((x, y) => x - y),
+          );
+          // Ranges of the bands as sorted by energy (the file's band order).
+          const nb = bands.length;
+          const ranges = Array.from({ length: nb }, (_, b) => ({
+            min: Math.min(...rows.map((r) => r[b]!)),
+            max: Math.max(...rows.map((r) => r[b]!)),
+          }));
+          const margin = 2 * FERMI_INSIDE_TOLERANCE_EV;
+          fc.pre(ranges.every((r) => Math.abs(r.min - ef) > margin && Math.abs(r.max - ef) > margin));
+          const inside = ranges.some((r) => r.min < ef && ef < r.max);
+          const occupations = withOcc ? [rows.map((r) => r.map((e) => (e < ef ? 1 : 0)))] : undefined;
+          const bs = makeBands({ kpoints, energies: [rows], fermiEnergy: ef, occupations });
+          const r = analyzeBandStructure(bs);
+          return r.metal === inside && (inside ? r.gap === null : true);
+        },
+      ),
       { numRuns: 300 },
     );
   });

@@ -127,12 +127,18 @@ describe('extrema and directional masses on analytic paths', () => {
       lattice: cubicLattice(a),
       bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.7, [0.5 * unit, 0, 0])],
       electrons: 2,
-      legs: [[G, X], [M, G]],
+      legs: [
+        [G, X],
+        [M, G],
+      ],
       pointsPerSegment: 30,
     });
     const [cbm] = byKind(analyzeBandStructure(bs), 'cbm');
     assert.equal(cbm!.label, 'X');
-    assert.deepEqual(cbm!.masses.map((m) => m.towards), ['Γ']);
+    assert.deepEqual(
+      cbm!.masses.map((m) => m.towards),
+      ['Γ'],
+    );
     assert.ok(Math.abs(cbm!.masses[0]!.mass - 0.7) < 1e-9); // model mass
     assert.ok(!cbm!.warnings.some((w) => /beyond/.test(w))); // the band is flat at X: a true extremum
   });
@@ -158,7 +164,13 @@ describe('extrema and directional masses on analytic paths', () => {
     const unit = (2 * Math.PI) / a;
     // Conduction band: the lower of a valley at X (1.0 eV) and one at Γ (1.2 eV).
     const cb: Dispersion = lowestOf(parabolicBand(1.2, 0.3), parabolicBand(1.0, 0.8, [0.5 * unit, 0, 0]));
-    const bs = pathModel({ lattice: cubicLattice(a), bands: [parabolicBand(-1, -0.5), cb], electrons: 2, legs: [[G, X, M]], pointsPerSegment: 60 });
+    const bs = pathModel({
+      lattice: cubicLattice(a),
+      bands: [parabolicBand(-1, -0.5), cb],
+      electrons: 2,
+      legs: [[G, X, M]],
+      pointsPerSegment: 60,
+    });
     const r = analyzeBandStructure(bs);
     const [valley] = byKind(r, 'valley');
     assert.ok(valley);
@@ -207,8 +219,20 @@ describe('extrema and directional masses on analytic paths', () => {
 describe('edges per spin channel and missing geometry', () => {
   it('reports the VBM and CBM of each spin channel, offsets from the overall edges', () => {
     // Spin up: bands at −1 / +1 eV; spin down: the same shifted by +0.3 eV (a rigid exchange splitting).
-    const up = pathModel({ lattice: cubicLattice(4), bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.4)], electrons: 2, legs: [[G, X]], pointsPerSegment: 40 });
-    const down = pathModel({ lattice: cubicLattice(4), bands: [parabolicBand(-0.7, -0.6), parabolicBand(1.3, 0.3)], electrons: 2, legs: [[G, X]], pointsPerSegment: 40 });
+    const up = pathModel({
+      lattice: cubicLattice(4),
+      bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.4)],
+      electrons: 2,
+      legs: [[G, X]],
+      pointsPerSegment: 40,
+    });
+    const down = pathModel({
+      lattice: cubicLattice(4),
+      bands: [parabolicBand(-0.7, -0.6), parabolicBand(1.3, 0.3)],
+      electrons: 2,
+      legs: [[G, X]],
+      pointsPerSegment: 40,
+    });
     const bs = { ...up, nSpin: 2 as const, energies: [up.energies[0]!, down.energies[0]!] };
     const r = analyzeBandStructure(bs);
     const vbms = byKind(r, 'vbm');
@@ -226,7 +250,13 @@ describe('edges per spin channel and missing geometry', () => {
   });
 
   it('without a lattice, still places the extrema but gives no masses in m_e, and says so', () => {
-    const bs = pathModel({ lattice: cubicLattice(4), bands: [parabolicBand(-1, -0.5), parabolicBand(1, 1)], electrons: 2, legs: [[G, X, M]], pointsPerSegment: 30 });
+    const bs = pathModel({
+      lattice: cubicLattice(4),
+      bands: [parabolicBand(-1, -0.5), parabolicBand(1, 1)],
+      electrons: 2,
+      legs: [[G, X, M]],
+      pointsPerSegment: 30,
+    });
     bs.lattice = null;
     const [cbm] = byKind(analyzeBandStructure(bs), 'cbm');
     assert.ok(cbm);

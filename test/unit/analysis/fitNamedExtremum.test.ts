@@ -48,14 +48,19 @@ describe('analysis: fitting a named extremum', () => {
     // The window scan of a named extremum stays there too.
     const scan = massWindowScan(bs, 0, kX, cb0, DEFAULT_SETTINGS, [20, 60], { maximum: false });
     const direct = fitExtremumAt(bs, 0, kX, cb0, { ...DEFAULT_SETTINGS, window_meV: 60 }, { maximum: false });
-    assert.deepEqual(scan[1]!.masses.map((m) => m.mass), direct.masses.map((m) => m.mass));
+    assert.deepEqual(
+      scan[1]!.masses.map((m) => m.mass),
+      direct.masses.map((m) => m.mass),
+    );
   });
 
   it('a saved fit named as a minimum at X is redone at X, and added beside the analysis’s own extrema', () => {
     const kX = indexOf(bs, [0.5, 0, 0.5]);
     const report = analyzeBandStructure(bs, DEFAULT_SETTINGS);
     const cb0 = report.gap!.cbm.band - 1;
-    const out = withChosenFits(bs, report, DEFAULT_SETTINGS, [{ spin: 0, kIndex: kX, band0: cb0, window_meV: 40, method: 'parabola', maximum: false }]);
+    const out = withChosenFits(bs, report, DEFAULT_SETTINGS, [
+      { spin: 0, kIndex: kX, band0: cb0, window_meV: 40, method: 'parabola', maximum: false },
+    ]);
     assert.equal(out.report.extrema.length, report.extrema.length + 1);
     const added = out.report.extrema[out.report.extrema.length - 1]!;
     assert.deepEqual(added.k, kpointAt(bs, kX));

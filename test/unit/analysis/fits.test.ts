@@ -152,7 +152,10 @@ describe('parabola with the vertex fixed by symmetry', () => {
     const m = 0.067;
     const alpha = 0.64;
     const t = Float64Array.from({ length: 10 }, (_, i) => 0.029 * i);
-    const e = t.map((k) => { const x = (H * k * k) / (2 * m); return (-1 + Math.sqrt(1 + 4 * alpha * x)) / (2 * alpha); });
+    const e = t.map((k) => {
+      const x = (H * k * k) / (2 * m);
+      return (-1 + Math.sqrt(1 + 4 * alpha * x)) / (2 * alpha);
+    });
     const free = parabolaCurvature({ t, e }, { window_meV: 25, energySigma: 0 })!;
     const even = parabolaCurvature({ t, e, even: true }, { window_meV: 25, energySigma: 0 })!;
     // The symmetric fit needs fewer points, so its window grows less and non-parabolicity biases it less.

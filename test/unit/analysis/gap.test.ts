@@ -14,7 +14,13 @@ describe('band edges and gap', () => {
   it('finds a direct gap at the shared k of VBM and CBM', () => {
     const bs = makeBands({
       kpoints: ks,
-      energies: [[[-3, -1, 1, 3], [-3.1, -1.2, 1.3, 3], [-3.2, -1.5, 1.6, 3]]],
+      energies: [
+        [
+          [-3, -1, 1, 3],
+          [-3.1, -1.2, 1.3, 3],
+          [-3.2, -1.5, 1.6, 3],
+        ],
+      ],
       electrons: 4,
     });
     const r = analyzeBandStructure(bs);
@@ -32,7 +38,13 @@ describe('band edges and gap', () => {
   it('finds an indirect gap and the smallest direct gap elsewhere', () => {
     const bs = makeBands({
       kpoints: ks,
-      energies: [[[-3, -1, 2, 3], [-3.1, -1.2, 1.5, 3], [-3.2, -1.5, 0.9, 3]]],
+      energies: [
+        [
+          [-3, -1, 2, 3],
+          [-3.1, -1.2, 1.5, 3],
+          [-3.2, -1.5, 0.9, 3],
+        ],
+      ],
       electrons: 4,
     });
     const r = analyzeBandStructure(bs);
@@ -48,7 +60,13 @@ describe('band edges and gap', () => {
   it('reports a metal when a filled band rises above an empty one', () => {
     const bs = makeBands({
       kpoints: ks,
-      energies: [[[-3, -1, 0.2, 3], [-3.1, 0.5, 1.3, 3], [-3.2, -1.5, 1.6, 3]]],
+      energies: [
+        [
+          [-3, -1, 0.2, 3],
+          [-3.1, 0.5, 1.3, 3],
+          [-3.2, -1.5, 1.6, 3],
+        ],
+      ],
       electrons: 4,
     });
     const r = analyzeBandStructure(bs);
@@ -58,7 +76,17 @@ describe('band edges and gap', () => {
   });
 
   it('reports a metal for an odd electron count without spin', () => {
-    const bs = makeBands({ kpoints: ks, energies: [[[-3, -1, 1, 3], [-3, -1, 1, 3], [-3, -1, 1, 3]]], electrons: 3 });
+    const bs = makeBands({
+      kpoints: ks,
+      energies: [
+        [
+          [-3, -1, 1, 3],
+          [-3, -1, 1, 3],
+          [-3, -1, 1, 3],
+        ],
+      ],
+      electrons: 3,
+    });
     const r = analyzeBandStructure(bs);
     // 3 electrons, 2 per band: band 2 is half filled (physics.md step 2).
     assert.equal(r.metal, true);
@@ -66,7 +94,18 @@ describe('band edges and gap', () => {
   });
 
   it('with spin-orbit one electron fills one band', () => {
-    const bs = makeBands({ kpoints: ks, energies: [[[-3, -1, 1, 3], [-3, -1, 1, 3], [-3, -1, 1, 3]]], electrons: 3, spinorbit: true });
+    const bs = makeBands({
+      kpoints: ks,
+      energies: [
+        [
+          [-3, -1, 1, 3],
+          [-3, -1, 1, 3],
+          [-3, -1, 1, 3],
+        ],
+      ],
+      electrons: 3,
+      spinorbit: true,
+    });
     const r = analyzeBandStructure(bs);
     // 3 electrons, 1 per band with spin-orbit (physics.md step 2): VBM band 3 (1 eV), CBM band 4 (3 eV).
     assert.equal(r.metal, false);
@@ -77,8 +116,20 @@ describe('band edges and gap', () => {
   it('occupations decide over the electron count', () => {
     const bs = makeBands({
       kpoints: ks,
-      energies: [[[-3, -1, 1, 3], [-3, -1, 1, 3], [-3, -1, 1, 3]]],
-      occupations: [[[1, 1, 1, 0], [1, 1, 1, 0], [1, 1, 1, 0]]],
+      energies: [
+        [
+          [-3, -1, 1, 3],
+          [-3, -1, 1, 3],
+          [-3, -1, 1, 3],
+        ],
+      ],
+      occupations: [
+        [
+          [1, 1, 1, 0],
+          [1, 1, 1, 0],
+          [1, 1, 1, 0],
+        ],
+      ],
       electrons: 4,
     });
     const r = analyzeBandStructure(bs);
@@ -88,8 +139,16 @@ describe('band edges and gap', () => {
 
   it('spin-polarised: gaps per channel and overall', () => {
     // Up channel: filled −1, empty 1.0; down channel: filled −0.5, empty 1.5; 2 electrons per k in all.
-    const up = [[-2, -1, 1, 3], [-2, -1.1, 1.2, 3], [-2, -1.2, 1.4, 3]];
-    const dn = [[-2.5, -0.5, 1.5, 3], [-2.5, -0.6, 1.7, 3], [-2.5, -0.7, 1.8, 3]];
+    const up = [
+      [-2, -1, 1, 3],
+      [-2, -1.1, 1.2, 3],
+      [-2, -1.2, 1.4, 3],
+    ];
+    const dn = [
+      [-2.5, -0.5, 1.5, 3],
+      [-2.5, -0.6, 1.7, 3],
+      [-2.5, -0.7, 1.8, 3],
+    ];
     const bs = makeBands({ kpoints: ks, energies: [up, dn], electrons: 4 });
     const r = analyzeBandStructure(bs);
     assert.equal(r.nspin, 2);
@@ -105,7 +164,17 @@ describe('band edges and gap', () => {
   });
 
   it('without electrons, occupations or Fermi energy the edges are unknown, said plainly', () => {
-    const bs = makeBands({ kpoints: ks, energies: [[[-3, -1, 1, 3], [-3, -1, 1, 3], [-3, -1, 1, 3]]], electrons: null });
+    const bs = makeBands({
+      kpoints: ks,
+      energies: [
+        [
+          [-3, -1, 1, 3],
+          [-3, -1, 1, 3],
+          [-3, -1, 1, 3],
+        ],
+      ],
+      electrons: null,
+    });
     const r = analyzeBandStructure(bs);
     assert.equal(r.gap, null);
     assert.equal(r.metal, null);
@@ -113,7 +182,17 @@ describe('band edges and gap', () => {
   });
 
   it('states the semilocal-DFT caution beside a gap', () => {
-    const bs = makeBands({ kpoints: ks, energies: [[[-3, -1, 1, 3], [-3, -1, 1, 3], [-3, -1, 1, 3]]], electrons: 4 });
+    const bs = makeBands({
+      kpoints: ks,
+      energies: [
+        [
+          [-3, -1, 1, 3],
+          [-3, -1, 1, 3],
+          [-3, -1, 1, 3],
+        ],
+      ],
+      electrons: 4,
+    });
     const r = analyzeBandStructure(bs);
     assert.ok(r.cautions.some((c) => /underestimates band gaps/.test(c)));
   });

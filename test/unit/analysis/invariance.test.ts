@@ -15,8 +15,16 @@ const Y: PathLeg = { label: 'Y', k: [0, 0.5, 0] };
 const Z: PathLeg = { label: 'Z', k: [0, 0, 0.5] };
 const S: PathLeg = { label: 'S', k: [0.5, 0.5, 0] };
 
-const hopping = fc.tuple(fc.double({ min: 0.2, max: 1.5, noNaN: true }), fc.double({ min: 0.2, max: 1.5, noNaN: true }), fc.double({ min: 0.2, max: 1.5, noNaN: true }));
-const lengths = fc.tuple(fc.double({ min: 2.5, max: 6, noNaN: true }), fc.double({ min: 2.5, max: 6, noNaN: true }), fc.double({ min: 2.5, max: 6, noNaN: true }));
+const hopping = fc.tuple(
+  fc.double({ min: 0.2, max: 1.5, noNaN: true }),
+  fc.double({ min: 0.2, max: 1.5, noNaN: true }),
+  fc.double({ min: 0.2, max: 1.5, noNaN: true }),
+);
+const lengths = fc.tuple(
+  fc.double({ min: 2.5, max: 6, noNaN: true }),
+  fc.double({ min: 2.5, max: 6, noNaN: true }),
+  fc.double({ min: 2.5, max: 6, noNaN: true }),
+);
 
 function model(a: Vec3, t: Vec3, legs: PathLeg[][], lattice = orthorhombicLattice(...a)): BandStructure {
   return pathModel({ lattice, bands: [cosineBand(-1, [-0.3, -0.4, -0.5]), cosineBand(1, t)], electrons: 2, legs, pointsPerSegment: 31 });
@@ -95,7 +103,11 @@ describe('mass invariances (fast-check)', () => {
       fc.property(
         lengths,
         hopping,
-        fc.tuple(fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: 0.1, max: 1, noNaN: true })),
+        fc.tuple(
+          fc.double({ min: -1, max: 1, noNaN: true }),
+          fc.double({ min: -1, max: 1, noNaN: true }),
+          fc.double({ min: 0.1, max: 1, noNaN: true }),
+        ),
         fc.double({ min: -Math.PI, max: Math.PI, noNaN: true }),
         (a, t, axis, angle) => {
           const q = rotation(axis, angle);

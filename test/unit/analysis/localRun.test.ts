@@ -32,7 +32,10 @@ describe('local runs', () => {
     assert.equal(r.gap, null);
     assert.equal(r.metal, false);
     assert.match(r.gapReason ?? '', /small neighbourhood/);
-    assert.deepEqual(r.extrema.map((e) => e.kind), ['cbm']);
+    assert.deepEqual(
+      r.extrema.map((e) => e.kind),
+      ['cbm'],
+    );
     assert.deepEqual(r.extrema[0]!.k, k0);
     const j = reportToJson(r);
     assert.equal(j.gap, null);

@@ -83,7 +83,13 @@ describe('quotable masses (determined)', () => {
   it('the symmetric difference at a time-reversal-invariant path end equals the centred one (E even about Γ)', () => {
     const G: PathLeg = { label: 'Γ', k: [0, 0, 0] };
     const X: PathLeg = { label: 'X', k: [0.5, 0, 0] };
-    const bs = pathModel({ lattice: cubicLattice(4), bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.3)], electrons: 2, legs: [[G, X]], pointsPerSegment: 41 });
+    const bs = pathModel({
+      lattice: cubicLattice(4),
+      bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.3)],
+      electrons: 2,
+      legs: [[G, X]],
+      pointsPerSegment: 41,
+    });
     const cbm = analyzeBandStructure(bs, { method: 'central-4' }).extrema.find((e) => e.kind === 'cbm')!;
     assert.equal(cbm.masses.length, 1);
     assert.equal(cbm.masses[0]!.method, 'central-4'); // not the one-sided 'forward-3'
@@ -109,7 +115,10 @@ describe('undetermined masses in the outputs', () => {
 
   it('every mass at the CBM is undetermined, and no averaged mass is built from them', () => {
     assert.ok(cbm.masses.length > 0);
-    assert.ok(cbm.masses.every((m) => m.determined === false), JSON.stringify(cbm.masses));
+    assert.ok(
+      cbm.masses.every((m) => m.determined === false),
+      JSON.stringify(cbm.masses),
+    );
     assert.equal(cbm.tensor, null);
     assert.equal(cbm.dosMass, null);
     assert.ok(cbm.warnings.some((w) => /undetermined/.test(w)));

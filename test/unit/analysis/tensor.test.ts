@@ -58,7 +58,9 @@ describe('mass tensor from off-path k-points', () => {
   function tensorRun(lat: Mat3): ReturnType<typeof analyzeBandStructure> {
     // Every point of the two-shell plan (no structure given, so no symmetry reduction).
     const plan = planTensorRun([0, 0, 0], 0.004, lat, null, false);
-    return analyzeBandStructure(pointsModel({ lattice: lat, bands: [cosineBand(-2, [-0.2, -0.2, -0.2]), cosineBand(1, t)], electrons: 2, kpoints: plan.allPoints }));
+    return analyzeBandStructure(
+      pointsModel({ lattice: lat, bands: [cosineBand(-2, [-0.2, -0.2, -0.2]), cosineBand(1, t)], electrons: 2, kpoints: plan.allPoints }),
+    );
   }
 
   it('recovers the principal masses and axes of the orthorhombic model from a two-shell tensor run', () => {
@@ -110,9 +112,17 @@ describe('extrema on a uniform grid', () => {
     // Two periodic valleys: cosine minima at Γ (1.0 eV) and at (0.5, 0, 0) (1.2 eV), the band the lower of them.
     const t = 0.5;
     const atX = (_kc: Vec3, kf: Vec3): number =>
-      1.2 + 2 * t * (1 + Math.cos(2 * Math.PI * kf[0])) + 2 * t * (1 - Math.cos(2 * Math.PI * kf[1])) + 2 * t * (1 - Math.cos(2 * Math.PI * kf[2]));
+      1.2 +
+      2 * t * (1 + Math.cos(2 * Math.PI * kf[0])) +
+      2 * t * (1 - Math.cos(2 * Math.PI * kf[1])) +
+      2 * t * (1 - Math.cos(2 * Math.PI * kf[2]));
     const gamma = cosineBand(1.0, [t, t, t]);
-    const bs = gridModel({ lattice: orthorhombicLattice(4, 4, 4), bands: [cosineBand(-2, [-0.2, -0.2, -0.2]), (kc, kf) => Math.min(gamma(kc, kf), atX(kc, kf))], electrons: 2, dims: [12, 12, 12] });
+    const bs = gridModel({
+      lattice: orthorhombicLattice(4, 4, 4),
+      bands: [cosineBand(-2, [-0.2, -0.2, -0.2]), (kc, kf) => Math.min(gamma(kc, kf), atX(kc, kf))],
+      electrons: 2,
+      dims: [12, 12, 12],
+    });
     const r = analyzeBandStructure(bs);
     const valleys = r.extrema.filter((e) => e.kind === 'valley');
     assert.equal(valleys.length, 1, JSON.stringify(valleys.map((v) => v.k)));
@@ -139,7 +149,13 @@ describe('tensor and averaged masses of a Si-like Δ valley (diamond structure, 
   it('a tensor run round trip gives m_l, m_t, N_v = 6, m_dos ≈ 1.08 and m_c ≈ 0.26 (Sze & Ng, memory)', () => {
     const lattice = fccLattice(aSi);
     const plan = planTensorRun(k0frac, 0.02, lattice, null, false);
-    const bs = pointsModel({ lattice, structure: diamondStructure(aSi, 'Si'), bands: [parabolicBand(0, -0.3), valley], electrons: 2, kpoints: plan.allPoints });
+    const bs = pointsModel({
+      lattice,
+      structure: diamondStructure(aSi, 'Si'),
+      bands: [parabolicBand(0, -0.3), valley],
+      electrons: 2,
+      kpoints: plan.allPoints,
+    });
     const cbm = cbmOf(analyzeBandStructure(bs));
     assert.equal(cbm.valleyDegeneracy, 6); // six Δ valleys (physics.md step 8)
     assert.ok(cbm.tensor);
@@ -159,7 +175,12 @@ describe('tensor and averaged masses of a Si-like Δ valley (diamond structure, 
       structure: diamondStructure(aSi, 'Si'),
       bands: [parabolicBand(0, -0.3), valley],
       electrons: 2,
-      legs: [[{ label: 'Γ', k: [0, 0, 0] }, { label: 'X', k: [0.5, 0, 0.5] }]],
+      legs: [
+        [
+          { label: 'Γ', k: [0, 0, 0] },
+          { label: 'X', k: [0.5, 0, 0.5] },
+        ],
+      ],
       pointsPerSegment: 40,
     });
     const cbm = cbmOf(analyzeBandStructure(bs));
@@ -180,7 +201,13 @@ describe('tensor and averaged masses of a Si-like Δ valley (diamond structure, 
       structure: diamondStructure(aGe, 'Ge'),
       bands: [parabolicBand(0, -0.3), L],
       electrons: 2,
-      legs: [[{ label: 'Γ', k: [0, 0, 0] }, { label: 'L', k: [0.5, 0.5, 0.5] }, { label: 'W', k: [0.5, 0.25, 0.75] }]],
+      legs: [
+        [
+          { label: 'Γ', k: [0, 0, 0] },
+          { label: 'L', k: [0.5, 0.5, 0.5] },
+          { label: 'W', k: [0.5, 0.25, 0.75] },
+        ],
+      ],
       pointsPerSegment: 60,
     });
     const cbm = cbmOf(analyzeBandStructure(bs));
@@ -188,7 +215,10 @@ describe('tensor and averaged masses of a Si-like Δ valley (diamond structure, 
     assert.equal(cbm.valleyDegeneracy, 4); // four L valleys (physics.md step 8)
     assert.ok(cbm.tensor, JSON.stringify(cbm.warnings));
     const sorted = [...cbm.tensor.principal].sort((x, y) => x - y);
-    assert.ok(Math.abs(sorted[0]! - 0.08) < 1e-5 && Math.abs(sorted[1]! - 0.08) < 1e-5 && Math.abs(sorted[2]! - 1.6) < 1e-4, String(sorted));
+    assert.ok(
+      Math.abs(sorted[0]! - 0.08) < 1e-5 && Math.abs(sorted[1]! - 0.08) < 1e-5 && Math.abs(sorted[2]! - 1.6) < 1e-4,
+      String(sorted),
+    );
     // m_dos = 4^(2/3) (1.6 · 0.08²)^(1/3) and m_c = 3/(1/1.6 + 2/0.08) (the formulas of physics.md step 9).
     assert.ok(Math.abs(cbm.dosMass! - 4 ** (2 / 3) * Math.cbrt(1.6 * 0.08 * 0.08)) < 1e-4);
     assert.ok(Math.abs(cbm.conductivityMass! - 3 / (1 / 1.6 + 2 / 0.08)) < 1e-5);

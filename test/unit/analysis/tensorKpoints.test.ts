@@ -24,7 +24,10 @@ describe('tensor-run k-points (two shells, little group of k)', () => {
 
   it('places the centre and two shells at h and 2h along 18 (26 with body diagonals) directions', () => {
     const h = 0.02;
-    for (const [body, n] of [[false, 18], [true, 26]] as const) {
+    for (const [body, n] of [
+      [false, 18],
+      [true, 26],
+    ] as const) {
       const plan = planTensorRun([0.425, 0, 0.425], h, lattice, null, body);
       assert.equal(plan.allPoints.length, 1 + 2 * n);
       assert.equal(plan.points.length, plan.allPoints.length); // no symmetry given: every point written
@@ -42,7 +45,10 @@ describe('tensor-run k-points (two shells, little group of k)', () => {
     const plan = planTensorRun([0, 0, 0], 0.02, lattice, ops, true);
     // O_h: the axes, face diagonals and body diagonals are one orbit each, per shell (International Tables, Vol. A).
     assert.equal(plan.points.length, 7);
-    assert.equal(plan.multiplicity.reduce((s, m) => s + m, 0), plan.allPoints.length);
+    assert.equal(
+      plan.multiplicity.reduce((s, m) => s + m, 0),
+      plan.allPoints.length,
+    );
     const key = (k: Vec3): string => k.map((x) => x.toFixed(8)).join(',');
     const expanded = new Set(plan.points.flatMap((p) => displacementOrbit(p, ops).map(key)));
     assert.deepEqual([...expanded].sort(), plan.allPoints.map(key).sort());
@@ -57,7 +63,9 @@ describe('tensor-run k-points (two shells, little group of k)', () => {
     // sides of the axes through L are computed, so the differences there are centred. (Along a two-fold axis
     // perpendicular to [111], the rotation with time reversal does relate them exactly.)
     const plan = planTensorRun([0.5, 0.5, 0.5], 0.02, lattice, ops, false);
-    const axial = plan.points.map((k) => cartesianDisplacement(k, plan.center, lattice)).filter((d) => d.filter((x) => Math.abs(x) > 1e-9).length === 1);
+    const axial = plan.points
+      .map((k) => cartesianDisplacement(k, plan.center, lattice))
+      .filter((d) => d.filter((x) => Math.abs(x) > 1e-9).length === 1);
     assert.ok(axial.length >= 4, String(axial.length));
     for (const k of plan.points.slice(1)) {
       const d: Vec3 = [k[0] - 0.5, k[1] - 0.5, k[2] - 0.5];
@@ -82,7 +90,13 @@ describe('tensor-run k-points (two shells, little group of k)', () => {
     assert.equal(nscf[1], '37');
     assert.equal(nscf[2], 'Reciprocal');
     assert.ok(nscf.slice(3).every((l) => / 1$/.test(l)));
-    const mesh = { k: [[0, 0, 0], [0.5, 0, 0]] as Vec3[], w: [1, 6] };
+    const mesh = {
+      k: [
+        [0, 0, 0],
+        [0.5, 0, 0],
+      ] as Vec3[],
+      w: [1, 6],
+    };
     const hyb = writeTensorKpoints(plan, 'vasp', 'Γ', 'hybrid', mesh).trim().split('\n');
     assert.equal(hyb[1], String(37 + 2));
     assert.match(hyb[3]!, / 1$/);
@@ -97,17 +111,28 @@ describe('tensor-run k-points (two shells, little group of k)', () => {
     assert.equal(qe.length, 3 + 37);
     const castep = writeTensorKpoints(plan, 'castep', 'Γ', 'nscf').trim().split('\n');
     assert.equal(castep[castep.length - 1], '%ENDBLOCK SPECTRAL_KPOINT_LIST');
-    assert.equal(writeTensorKpoints(plan, 'list', 'Γ', 'nscf').trim().split('\n').filter((l) => !l.startsWith('#')).length, 37);
+    assert.equal(
+      writeTensorKpoints(plan, 'list', 'Γ', 'nscf')
+        .trim()
+        .split('\n')
+        .filter((l) => !l.startsWith('#')).length,
+      37,
+    );
   });
 
   it('the 26-direction spherical rule integrates even monomials up to degree 7 exactly (analytic sphere averages)', () => {
     const dirs: { u: Vec3; w: number }[] = [];
-    for (let x = -1; x <= 1; x++) for (let y = -1; y <= 1; y++) for (let z = -1; z <= 1; z++) {
-      const nz = (x ? 1 : 0) + (y ? 1 : 0) + (z ? 1 : 0);
-      if (!nz) continue;
-      const n = Math.sqrt(nz);
-      dirs.push({ u: [x / n, y / n, z / n], w: nz === 1 ? SPHERE_26_WEIGHTS.axial : nz === 2 ? SPHERE_26_WEIGHTS.face : SPHERE_26_WEIGHTS.body });
-    }
+    for (let x = -1; x <= 1; x++)
+      for (let y = -1; y <= 1; y++)
+        for (let z = -1; z <= 1; z++) {
+          const nz = (x ? 1 : 0) + (y ? 1 : 0) + (z ? 1 : 0);
+          if (!nz) continue;
+          const n = Math.sqrt(nz);
+          dirs.push({
+            u: [x / n, y / n, z / n],
+            w: nz === 1 ? SPHERE_26_WEIGHTS.axial : nz === 2 ? SPHERE_26_WEIGHTS.face : SPHERE_26_WEIGHTS.body,
+          });
+        }
     const avg = (f: (u: Vec3) => number): number => dirs.reduce((s, d) => s + d.w * f(d.u), 0);
     // ⟨x^2a y^2b z^2c⟩ over the sphere = (2a−1)!!(2b−1)!!(2c−1)!!/(2n+1)!!, n = a + b + c (analytic).
     assert.ok(Math.abs(avg(() => 1) - 1) < 1e-14);
@@ -134,10 +159,22 @@ describe('reading a reduced tensor run without its structure', () => {
     const bs = pointsModel({ lattice, bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.2)], electrons: 2, kpoints: plan.points });
     const cbm = analyzeBandStructure(bs).extrema.find((e) => e.kind === 'cbm')!;
     assert.equal(cbm.tensor, null);
-    assert.ok(cbm.warnings.some((w) => /structure file/.test(w) && /tensor run/.test(w)), cbm.warnings.join('\n'));
+    assert.ok(
+      cbm.warnings.some((w) => /structure file/.test(w) && /tensor run/.test(w)),
+      cbm.warnings.join('\n'),
+    );
     // With the structure, the same points give the model's isotropic mass (analytic: 0.2 m_e).
-    const full = pointsModel({ lattice, structure: diamondStructure(a, 'Si'), bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.2)], electrons: 2, kpoints: plan.points });
+    const full = pointsModel({
+      lattice,
+      structure: diamondStructure(a, 'Si'),
+      bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.2)],
+      electrons: 2,
+      kpoints: plan.points,
+    });
     const t = analyzeBandStructure(full).extrema.find((e) => e.kind === 'cbm')!.tensor!;
-    assert.ok(t.principal.every((m) => Math.abs(m / 0.2 - 1) < 1e-6), String(t.principal));
+    assert.ok(
+      t.principal.every((m) => Math.abs(m / 0.2 - 1) < 1e-6),
+      String(t.principal),
+    );
   });
 });

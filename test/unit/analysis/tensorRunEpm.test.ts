@@ -46,7 +46,13 @@ interface ExtremumJson {
 }
 
 /** Plan with tensor-kpoints (default settings), run the model at the points, analyse: the edge's JSON. */
-async function roundTrip(folder: string, material: EpmMaterial, at: 'cbm' | 'vbm', solver: EpmBandSolver, extra: string[] = []): Promise<{ edge: ExtremumJson; points: number; plan: string; dir: string }> {
+async function roundTrip(
+  folder: string,
+  material: EpmMaterial,
+  at: 'cbm' | 'vbm',
+  solver: EpmBandSolver,
+  extra: string[] = [],
+): Promise<{ edge: ExtremumJson; points: number; plan: string; dir: string }> {
   const io = capture();
   assert.equal(await main(['tensor-kpoints', join(ROOT, folder), '--at', at, ...extra], io), 0, io.stderr);
   const pts = pointsOf(io.stdout);
@@ -86,9 +92,15 @@ function fractional(solver: EpmBandSolver, kc: Vec3): Vec3 {
     [b[0][1], b[1][1], b[2][1]],
     [b[0][2], b[1][2], b[2][2]],
   ];
-  const det = m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1]) - m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0]) + m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]);
+  const det =
+    m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1]) -
+    m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0]) +
+    m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]);
   const col = (j: number): Mat3 => m.map((r, i) => r.map((x, c) => (c === j ? kc[i]! : x))) as Mat3;
-  const d3 = (a: Mat3): number => a[0][0] * (a[1][1] * a[2][2] - a[1][2] * a[2][1]) - a[0][1] * (a[1][0] * a[2][2] - a[1][2] * a[2][0]) + a[0][2] * (a[1][0] * a[2][1] - a[1][1] * a[2][0]);
+  const d3 = (a: Mat3): number =>
+    a[0][0] * (a[1][1] * a[2][2] - a[1][2] * a[2][1]) -
+    a[0][1] * (a[1][0] * a[2][2] - a[1][2] * a[2][0]) +
+    a[0][2] * (a[1][0] * a[2][1] - a[1][1] * a[2][0]);
   return [d3(col(0)) / det, d3(col(1)) / det, d3(col(2)) / det];
 }
 
@@ -100,13 +112,18 @@ function referenceMasses(solver: EpmBandSolver, k0: Vec3, band: number): number[
   const h = 0.002;
   const E = (d: Vec3): number => energy(solver, [k0[0] + d[0], k0[1] + d[1], k0[2] + d[2]], band);
   const e0 = E([0, 0, 0]);
-  const H: number[][] = [[0, 0, 0], [0, 0, 0], [0, 0, 0]];
+  const H: number[][] = [
+    [0, 0, 0],
+    [0, 0, 0],
+    [0, 0, 0],
+  ];
   const unit = (i: number, s: number): Vec3 => [0, 1, 2].map((j) => (j === i ? s * h : 0)) as Vec3;
   for (let i = 0; i < 3; i++) H[i]![i] = (E(unit(i, 1)) + E(unit(i, -1)) - 2 * e0) / (h * h);
-  for (let i = 0; i < 3; i++) for (let j = i + 1; j < 3; j++) {
-    const d = (si: number, sj: number): Vec3 => [0, 1, 2].map((c) => (c === i ? si * h : c === j ? sj * h : 0)) as Vec3;
-    H[i]![j] = H[j]![i] = (E(d(1, 1)) + E(d(-1, -1)) - E(d(1, -1)) - E(d(-1, 1))) / (4 * h * h);
-  }
+  for (let i = 0; i < 3; i++)
+    for (let j = i + 1; j < 3; j++) {
+      const d = (si: number, sj: number): Vec3 => [0, 1, 2].map((c) => (c === i ? si * h : c === j ? sj * h : 0)) as Vec3;
+      H[i]![j] = H[j]![i] = (E(d(1, 1)) + E(d(-1, -1)) - E(d(1, -1)) - E(d(-1, 1))) / (4 * h * h);
+    }
   return [...symmetricEigen3(H as Mat3).values].map((l) => HBAR2_OVER_ME_EV_A2 / l).sort((a, b) => a - b);
 }
 
@@ -134,8 +151,8 @@ function sphereDosMass(solver: EpmBandSolver): number {
   // inversion makes E(−k) = E(k)) along 8 × 16 directions of a product rule (Gauss–Legendre nodes in cos θ on
   // [0, 1] from the 8-point table of Abramowitz & Stegun 25.4.30 (memory; the weights sum to 2), midpoint in φ
   // over [0, π/2)), each branch ⟨|m|^(3/2)⟩^(2/3), combined as (Σ m_i^(3/2))^(2/3) (physics.md step 9).
-  const x8 = [0.1834346424956498, 0.5255324099163290, 0.7966664774136267, 0.9602898564975363];
-  const w8 = [0.3626837833783620, 0.3137066458778873, 0.2223810344533745, 0.1012285362903763];
+  const x8 = [0.1834346424956498, 0.525532409916329, 0.7966664774136267, 0.9602898564975363];
+  const w8 = [0.362683783378362, 0.3137066458778873, 0.2223810344533745, 0.1012285362903763];
   const nodes = [...x8.map((x, i) => ({ x: -x, w: w8[i]! })), ...x8.map((x, i) => ({ x, w: w8[i]! }))];
   const h = 0.003;
   const e0 = solver.bandsAt([0, 0, 0], NB)[3]!;
@@ -145,7 +162,9 @@ function sphereDosMass(solver: EpmBandSolver): number {
     const s = Math.sqrt(1 - mu * mu);
     for (let j = 0; j < 16; j++) {
       const ph = ((j + 0.5) * (Math.PI / 2)) / 16;
-      const e = [...solver.bandsAt(fractional(solver, [h * s * Math.cos(ph), h * s * Math.sin(ph), h * mu]), NB).slice(1, 4)].sort((p, q) => q - p);
+      const e = [...solver.bandsAt(fractional(solver, [h * s * Math.cos(ph), h * s * Math.sin(ph), h * mu]), NB).slice(1, 4)].sort(
+        (p, q) => q - p,
+      );
       e.forEach((v, b) => (acc[b] = acc[b]! + ((w / 2) * Math.abs(HBAR2_OVER_ME_EV_A2 / ((2 * (v - e0)) / (h * h))) ** 1.5) / 16));
     }
   }
@@ -168,10 +187,19 @@ describe('tensor runs on the EPM model (Cohen & Bergstresser 1966): plan, run, r
       const u = (2 * Math.PI) / a;
       // Where the model's minimum is: Δ on Γ–X (0, y, 0)2π/a near y = 0.85 (located here by golden section),
       // L = (½, ½, ½)2π/a, Γ (Cohen & Bergstresser model; fixtures/epm/README.md).
-      const k0: Vec3 = where === 'Δ' ? minimumAlong(solver, [0, 0.85 * u, 0], [0, 1, 0], material.electrons / 2) : where === 'L' ? [u / 2, u / 2, u / 2] : [0, 0, 0];
+      const k0: Vec3 =
+        where === 'Δ'
+          ? minimumAlong(solver, [0, 0.85 * u, 0], [0, 1, 0], material.electrons / 2)
+          : where === 'L'
+            ? [u / 2, u / 2, u / 2]
+            : [0, 0, 0];
       const ref = referenceMasses(solver, k0, material.electrons / 2);
       const got = [...edge.tensor.principal].sort((x, y) => x - y);
-      for (let i = 0; i < 3; i++) assert.ok(Math.abs(got[i]! / ref[i]! - 1) < 0.01, `${material.name} m${i + 1}: ${got[i]} vs dense ${ref[i]} (${points} points; ${plan})`);
+      for (let i = 0; i < 3; i++)
+        assert.ok(
+          Math.abs(got[i]! / ref[i]! - 1) < 0.01,
+          `${material.name} m${i + 1}: ${got[i]} vs dense ${ref[i]} (${points} points; ${plan})`,
+        );
     });
   }
 
@@ -187,10 +215,15 @@ describe('tensor runs on the EPM model (Cohen & Bergstresser 1966): plan, run, r
     const solver = new EpmBandSolver(unstrainedCrystal(SILICON));
     const run = capture();
     assert.equal(await main(['analyze', join(ROOT, 'si'), '--json'], run), 0, run.stderr);
-    const vbm = (JSON.parse(run.stdout) as { extrema: (ExtremumJson & { dosMassPathLimited?: { error: number } })[] }).extrema.find((e) => e.kind === 'vbm')!;
+    const vbm = (JSON.parse(run.stdout) as { extrema: (ExtremumJson & { dosMassPathLimited?: { error: number } })[] }).extrema.find(
+      (e) => e.kind === 'vbm',
+    )!;
     assert.ok(vbm.dosMass !== null && vbm.dosMassPathLimited);
     const ref = sphereDosMass(solver);
-    assert.ok(Math.abs(vbm.dosMass - ref) <= vbm.dosMassPathLimited.error, `${vbm.dosMass} ± ${vbm.dosMassPathLimited.error} vs sphere ${ref}`);
+    assert.ok(
+      Math.abs(vbm.dosMass - ref) <= vbm.dosMassPathLimited.error,
+      `${vbm.dosMass} ± ${vbm.dosMassPathLimited.error} vs sphere ${ref}`,
+    );
   });
 
   it('Si, hybrid layout: the weighted mesh first, the tensor points with weight 0; the tensor is found among them', async () => {
@@ -213,10 +246,19 @@ describe('tensor runs on the EPM model (Cohen & Bergstresser 1966): plan, run, r
     assert.match(again.stderr, /no weighted mesh/);
     const withMesh = capture();
     assert.equal(await main(['tensor-kpoints', hybrid.dir, '--at', 'cbm', '--mesh', mesh], withMesh), 0, withMesh.stderr);
-    assert.deepEqual(pointsOf(withMesh.stdout).slice(0, 4).map((p) => p.w), [1, 3, 4, 24]);
+    assert.deepEqual(
+      pointsOf(withMesh.stdout)
+        .slice(0, 4)
+        .map((p) => p.w),
+      [1, 3, 4, 24],
+    );
   });
 
-  for (const [folder, material] of [['si', SILICON], ['ge', GERMANIUM], ['gaas', GALLIUM_ARSENIDE]] as const) {
+  for (const [folder, material] of [
+    ['si', SILICON],
+    ['ge', GERMANIUM],
+    ['gaas', GALLIUM_ARSENIDE],
+  ] as const) {
     it(`${material.name} valence maximum: every branch, heavy and light masses along [100] within 2 %, and the warped fit`, async () => {
       const solver = new EpmBandSolver(unstrainedCrystal(material));
       const { edge, points } = await roundTrip(folder, material, 'vbm', solver);

@@ -21,11 +21,13 @@ import { cubicLattice, gridModel, pointsModel, simpleCubicStructure } from '../.
 /** The 26 directions ⟨100⟩, ⟨110⟩, ⟨111⟩ (unit vectors) and a few general ones. */
 function directions(): Vec3[] {
   const out: Vec3[] = [];
-  for (let x = -1; x <= 1; x++) for (let y = -1; y <= 1; y++) for (let z = -1; z <= 1; z++) {
-    if (!x && !y && !z) continue;
-    const n = Math.hypot(x, y, z);
-    out.push([x / n, y / n, z / n]);
-  }
+  for (let x = -1; x <= 1; x++)
+    for (let y = -1; y <= 1; y++)
+      for (let z = -1; z <= 1; z++) {
+        if (!x && !y && !z) continue;
+        const n = Math.hypot(x, y, z);
+        out.push([x / n, y / n, z / n]);
+      }
   const g = Math.hypot(1, 2, 3);
   out.push([1 / g, 2 / g, 3 / g], [-3 / g, 1 / g, 2 / g]);
   return out;
@@ -62,7 +64,10 @@ describe('warped degenerate bands (Dresselhaus, Kip & Kittel form)', () => {
     assert.ok(Math.abs(cubicAnisotropy([1, 1, 1]) - 1 / 3) < 1e-15);
   });
 
-  for (const [name, p] of [['Si', SI], ['Ge', GE]] as const) {
+  for (const [name, p] of [
+    ['Si', SI],
+    ['Ge', GE],
+  ] as const) {
     it(`${name}: the form built from A, B, C is fitted back within 1 % (exact data, then 1e-6 eV rounding)`, () => {
       for (const round of [0, 1e-6]) {
         const f = fitWarpedBands(samples(p, 0.02, 0, round), false, round / Math.sqrt(12));
@@ -84,7 +89,12 @@ describe('warped degenerate bands (Dresselhaus, Kip & Kittel form)', () => {
       const r = Math.sqrt(p.B ** 2 + p.C ** 2 / 3);
       const heavy111 = 1 / (p.A + r);
       const light111 = 1 / (p.A - r);
-      for (const [got, want] of [[hl.heavy.m100, heavy100], [hl.light.m100, light100], [hl.heavy.m111, heavy111], [hl.light.m111, light111]]) {
+      for (const [got, want] of [
+        [hl.heavy.m100, heavy100],
+        [hl.light.m100, light100],
+        [hl.heavy.m111, heavy111],
+        [hl.light.m111, light111],
+      ]) {
         assert.ok(Math.abs(got! / want! - 1) < 0.01, `${got} vs ${want}`);
       }
       // Holes at a maximum: both masses negative, the heavy branch is the upper one.
@@ -190,7 +200,10 @@ describe('three degenerate bands without spin-orbit (L, M, N form of Dresselhaus
 
   it('has eigenvalues L, M, M along [100] and (L + 2M + 2N)/3, (L + 2M − N)/3 twice along [111] (analytic)', () => {
     const a = threefoldInverseMasses(P, [1, 0, 0]);
-    assert.deepEqual(a.map((x) => Number(x.toFixed(12))), [P.M, P.M, P.L]);
+    assert.deepEqual(
+      a.map((x) => Number(x.toFixed(12))),
+      [P.M, P.M, P.L],
+    );
     const b = threefoldInverseMasses(P, [1, 1, 1]);
     const single = (P.L + 2 * P.M + 2 * P.N) / 3;
     const double = (P.L + 2 * P.M - P.N) / 3;
@@ -243,7 +256,10 @@ describe('a spinor tensor run at a fourfold maximum (heavy and light pairs)', ()
     const vbm = analyzeBandStructure(bs).extrema.find((e) => e.kind === 'vbm')!;
     assert.equal(vbm.degenerateBands, 4);
     assert.ok(vbm.warping, vbm.warnings.join('\n'));
-    assert.ok(Math.abs(vbm.warping.A / P.A - 1) < 0.01 && Math.abs(vbm.warping.B / P.B - 1) < 0.01 && Math.abs(vbm.warping.C / P.C - 1) < 0.01, JSON.stringify(vbm.warping));
+    assert.ok(
+      Math.abs(vbm.warping.A / P.A - 1) < 0.01 && Math.abs(vbm.warping.B / P.B - 1) < 0.01 && Math.abs(vbm.warping.C / P.C - 1) < 0.01,
+      JSON.stringify(vbm.warping),
+    );
     assert.equal(vbm.masses.length, 12); // four bands × [100], [110], [111]
     // Heavy along [111]: 1/(A + √(B² + C²/3)) (analytic, the form).
     const h111 = vbm.masses.find((m) => m.branch === 1 && m.towards === '[111]')!.mass;

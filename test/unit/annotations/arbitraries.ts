@@ -25,13 +25,62 @@ const hex64 = fc.stringMatching(/^[0-9a-f]{64}$/);
 
 /** Hand-added fields, with keys the program does not use (including awkward ones). */
 const KNOWN = new Set([
-  'valleyscopeAnnotations', 'toolVersion', 'format', 'sources', 'settings', 'metal', 'gap', 'note', 'entries', 'warnings', 'cautions',
-  'id', 'status', 'found', 'kind', 'spin', 'band', 'k', 'label', 'energy_eV', 'offset_eV', 'degenerateBands', 'valleyDegeneracy',
-  'masses', 'tensor', 'dosMass', 'conductivityMass', 'towards', 'direction', 'mass', 'stderr', 'points', 'window_meV', 'method',
-  'alpha_per_eV', 'residual_meV', 'branch', 'principal', 'axes', 'path', 'role', 'sha256', 'range_eV', 'degeneracy_meV',
-  'forceSpinorbit', 'alat_angstrom', 'structureFile', 'eV', 'direct', 'vbm', 'cbm', 'directGap',
+  'valleyscopeAnnotations',
+  'toolVersion',
+  'format',
+  'sources',
+  'settings',
+  'metal',
+  'gap',
+  'note',
+  'entries',
+  'warnings',
+  'cautions',
+  'id',
+  'status',
+  'found',
+  'kind',
+  'spin',
+  'band',
+  'k',
+  'label',
+  'energy_eV',
+  'offset_eV',
+  'degenerateBands',
+  'valleyDegeneracy',
+  'masses',
+  'tensor',
+  'dosMass',
+  'conductivityMass',
+  'towards',
+  'direction',
+  'mass',
+  'stderr',
+  'points',
+  'window_meV',
+  'method',
+  'alpha_per_eV',
+  'residual_meV',
+  'branch',
+  'principal',
+  'axes',
+  'path',
+  'role',
+  'sha256',
+  'range_eV',
+  'degeneracy_meV',
+  'forceSpinorbit',
+  'alat_angstrom',
+  'structureFile',
+  'eV',
+  'direct',
+  'vbm',
+  'cbm',
+  'directGap',
 ]);
-const extraKey = fc.oneof(fc.string({ minLength: 1, maxLength: 12 }), fc.constantFrom('__proto__', 'constructor', 'reviewer', 'x-ticket')).filter((k) => !KNOWN.has(k));
+const extraKey = fc
+  .oneof(fc.string({ minLength: 1, maxLength: 12 }), fc.constantFrom('__proto__', 'constructor', 'reviewer', 'x-ticket'))
+  .filter((k) => !KNOWN.has(k));
 const jsonLeaf: fc.Arbitrary<JsonValue> = fc.oneof(fc.constant(null), fc.boolean(), fc.integer(), finite(-1e6, 1e6), text);
 const jsonValue: fc.Arbitrary<JsonValue> = fc.letrec<{ v: JsonValue }>((tie) => ({
   v: fc.oneof(
@@ -45,11 +94,13 @@ const jsonValue: fc.Arbitrary<JsonValue> = fc.letrec<{ v: JsonValue }>((tie) => 
     }),
   ),
 })).v;
-export const extraArb: fc.Arbitrary<ExtraFields> = fc.uniqueArray(fc.tuple(extraKey, jsonValue), { maxLength: 2, selector: (t) => t[0] }).map((pairs) => {
-  const o = emptyExtra();
-  for (const [k, v] of pairs) o[k] = v;
-  return o;
-});
+export const extraArb: fc.Arbitrary<ExtraFields> = fc
+  .uniqueArray(fc.tuple(extraKey, jsonValue), { maxLength: 2, selector: (t) => t[0] })
+  .map((pairs) => {
+    const o = emptyExtra();
+    for (const [k, v] of pairs) o[k] = v;
+    return o;
+  });
 
 const massArb: fc.Arbitrary<AnnotatedMass> = fc.record({
   towards: fc.constantFrom('X', 'L', 'Γ', 'K', '(0.5, 0.25, 0)'),
@@ -98,7 +149,10 @@ export const entryArb: fc.Arbitrary<AnnotatedEntry> = fc
     tensor: fc.option(tensorArb, { nil: null }),
     dosMass: fc.option(finite(0.001, 50), { nil: null }),
     conductivityMass: fc.option(finite(0.001, 50), { nil: null }),
-    fit: fc.option(fc.record({ window_meV: finite(1, 500), method: fc.constantFrom('parabola', 'central-2', 'poly4', 'kane'), extra: extraArb }), { nil: null }),
+    fit: fc.option(
+      fc.record({ window_meV: finite(1, 500), method: fc.constantFrom('parabola', 'central-2', 'poly4', 'kane'), extra: extraArb }),
+      { nil: null },
+    ),
     warnings: fc.array(text, { maxLength: 2 }),
     extra: extraArb,
   })
@@ -110,7 +164,15 @@ export const docArb: fc.Arbitrary<AnnotationsDoc> = fc
   .record({
     toolVersion: fc.constantFrom('0.1.0', '0.2.0-dev'),
     format: fc.constantFrom('vasp-eigenval', 'qe-xml', 'castep-bands'),
-    sources: fc.array(fc.record({ path: fc.constantFrom('EIGENVAL', 'POSCAR', 'KPOINTS', 'sub/x.dat'), role: fc.constantFrom('eigenvalues', 'structure', 'kpath'), sha256: hex64, extra: extraArb }), { maxLength: 3 }),
+    sources: fc.array(
+      fc.record({
+        path: fc.constantFrom('EIGENVAL', 'POSCAR', 'KPOINTS', 'sub/x.dat'),
+        role: fc.constantFrom('eigenvalues', 'structure', 'kpath'),
+        sha256: hex64,
+        extra: extraArb,
+      }),
+      { maxLength: 3 },
+    ),
     settings: fc.record({
       window_meV: fc.constantFrom(10, 25, 12.5, 100),
       method: fc.constantFrom('parabola', 'kane'),
@@ -126,8 +188,20 @@ export const docArb: fc.Arbitrary<AnnotationsDoc> = fc
       fc.record({
         eV: finite(0, 10),
         direct: fc.boolean(),
-        vbm: fc.record({ band: fc.integer({ min: 1, max: 50 }), spin: fc.constantFrom(0 as const, 1 as const), k: vec3(-1, 1), energy_eV: finite(-5, 5), label: fc.option(fc.constantFrom('Γ', 'X'), { nil: null }) }),
-        cbm: fc.record({ band: fc.integer({ min: 1, max: 50 }), spin: fc.constantFrom(0 as const, 1 as const), k: vec3(-1, 1), energy_eV: finite(-5, 5), label: fc.option(fc.constantFrom('Γ', 'X'), { nil: null }) }),
+        vbm: fc.record({
+          band: fc.integer({ min: 1, max: 50 }),
+          spin: fc.constantFrom(0 as const, 1 as const),
+          k: vec3(-1, 1),
+          energy_eV: finite(-5, 5),
+          label: fc.option(fc.constantFrom('Γ', 'X'), { nil: null }),
+        }),
+        cbm: fc.record({
+          band: fc.integer({ min: 1, max: 50 }),
+          spin: fc.constantFrom(0 as const, 1 as const),
+          k: vec3(-1, 1),
+          energy_eV: finite(-5, 5),
+          label: fc.option(fc.constantFrom('Γ', 'X'), { nil: null }),
+        }),
         directGap: fc.record({ eV: finite(0, 10), k: vec3(-1, 1) }),
         extra: extraArb,
       }),
@@ -143,7 +217,8 @@ export const docArb: fc.Arbitrary<AnnotationsDoc> = fc
   .map((d) => ({ layoutVersion: ANNOTATIONS_LAYOUT_VERSION, ...d }))
   // The gap's channels are named only in spin-polarised runs.
   .map((d) => {
-    const gap = d.gap && !d.spinPolarised ? { ...d.gap, vbm: { ...d.gap.vbm, spin: 0 as const }, cbm: { ...d.gap.cbm, spin: 0 as const } } : d.gap;
+    const gap =
+      d.gap && !d.spinPolarised ? { ...d.gap, vbm: { ...d.gap.vbm, spin: 0 as const }, cbm: { ...d.gap.cbm, spin: 0 as const } } : d.gap;
     return { ...d, gap };
   });
 

@@ -60,7 +60,10 @@ describe('valleyscope annotate and check', () => {
     const bad = await cli('check', root);
     assert.equal(bad.code, 1);
     assert.match(bad.out, /stale:\s+source EIGENVAL \(eigenvalues\) has changed/);
-    assert.match(bad.out, /drifted: cbm\/e1\/v=0,0,0 \(CBM, band 2 \(1st from the edge\), at Γ \(0, 0, 0\)\): energy 1\.5000 eV → 1\.4500 eV \(−50\.0 meV; tolerance 1 meV\)/);
+    assert.match(
+      bad.out,
+      /drifted: cbm\/e1\/v=0,0,0 \(CBM, band 2 \(1st from the edge\), at Γ \(0, 0, 0\)\): energy 1\.5000 eV → 1\.4500 eV \(−50\.0 meV; tolerance 1 meV\)/,
+    );
     assert.match(bad.out, /drifted: band gap: fundamental gap 1\.5000 eV → 1\.4500 eV \(−50\.0 meV/);
     assert.match(bad.out, /0 match their data, 1 stale or drifted/);
   });
@@ -89,7 +92,7 @@ describe('valleyscope annotate and check', () => {
     assert.doesNotMatch(r.out, /drifted:/);
   });
 
-  it('re-annotating after a change keeps the reviewer\'s words, lists what changed, and check passes again', async () => {
+  it("re-annotating after a change keeps the reviewer's words, lists what changed, and check passes again", async () => {
     await cli('annotate', runDir);
     const doc = parseAnnotations(readFileSync(ann, 'utf8'), ann);
     const cbm = doc.entries.find((e) => e.kind === 'cbm')!;
@@ -118,7 +121,10 @@ describe('valleyscope annotate and check', () => {
     assert.match(r.out, /\| run \| status \| gap \(eV\) \| reviewed \| what moved \|/);
     // One row for the run: stale and drifted, the recorded gap (E_g = 1.5 eV, tinyRun.ts), the first two things
     // that moved, and how many more.
-    assert.match(r.out, /\| `[^`]*EIGENVAL\.valleys\.json` \| \*\*stale, drifted\*\* \| 1\.5000 direct \| 0\/2 \| source EIGENVAL .*; \d+ more below \|/);
+    assert.match(
+      r.out,
+      /\| `[^`]*EIGENVAL\.valleys\.json` \| \*\*stale, drifted\*\* \| 1\.5000 direct \| 0\/2 \| source EIGENVAL .*; \d+ more below \|/,
+    );
     assert.match(r.out, /<details><summary>/);
     // The details line of the run: the CBM by band from the edge, its mass, and the drifted energy (E_g − 50 meV).
     assert.match(r.out, /CBM, band 2 \(1st from the edge\), at Γ \(0, 0, 0\), m\* X 0\.120/);
@@ -140,7 +146,7 @@ describe('valleyscope annotate and check', () => {
     assert.equal(readFileSync(ann, 'utf8'), broken, 'never overwritten');
   });
 
-  it('fails with the reader\'s located sentence when the data file is damaged', async () => {
+  it("fails with the reader's located sentence when the data file is damaged", async () => {
     await cli('annotate', runDir);
     const text = readFileSync(eig, 'utf8');
     writeFileSync(eig, text.slice(0, Math.floor(text.length / 2)));

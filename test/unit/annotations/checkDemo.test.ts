@@ -26,7 +26,9 @@ describe('check --format md on the demo runs', function () {
   before(async () => {
     dir = mkdtempSync(join(tmpdir(), 'vs-demo-md-'));
     cpSync(join('fixtures', 'demo'), dir, { recursive: true, filter: (p) => !p.endsWith('.valleys.json') && !p.endsWith('.svg') });
-    const strain = readdirSync(join(dir, 'si-strain'), { withFileTypes: true }).filter((d) => d.isDirectory()).map((d) => join(dir, 'si-strain', d.name));
+    const strain = readdirSync(join(dir, 'si-strain'), { withFileTypes: true })
+      .filter((d) => d.isDirectory())
+      .map((d) => join(dir, 'si-strain', d.name));
     runs = [join(dir, 'si-bulk'), join(dir, 'gaas-bulk'), ...strain];
     const r = await cli('annotate', ...runs);
     assert.equal(r.code, 0, r.err);
@@ -70,11 +72,23 @@ describe('review comments never quote an undetermined mass as a number', () => {
   it('writes "undetermined" in the compact mass list of check --format md', async () => {
     const { compactMasses } = await import('../../../src/core/annotations/checkMarkdown');
     const mass = (towards: string, m: number, determined: boolean | null) => ({
-      towards, direction: [1, 0, 0] as [number, number, number], mass: m, stderr: 0.01, points: 5, window_meV: 25, method: 'parabola',
-      alpha_per_eV: null, residual_meV: null, branch: null, determined, warnings: [],
+      towards,
+      direction: [1, 0, 0] as [number, number, number],
+      mass: m,
+      stderr: 0.01,
+      points: 5,
+      window_meV: 25,
+      method: 'parabola',
+      alpha_per_eV: null,
+      residual_meV: null,
+      branch: null,
+      determined,
+      warnings: [],
     });
     // A stand-in entry: only its masses matter to the compact list (numbers chosen for the check, not physics).
-    const entry = { masses: [mass('Γ', 1.354, true), mass('X', -33.88, false), mass('L', 0.5, null)] } as unknown as Parameters<typeof compactMasses>[0];
+    const entry = { masses: [mass('Γ', 1.354, true), mass('X', -33.88, false), mass('L', 0.5, null)] } as unknown as Parameters<
+      typeof compactMasses
+    >[0];
     const text = compactMasses(entry);
     assert.match(text, /Γ 1\.354/);
     assert.match(text, /X undetermined/);

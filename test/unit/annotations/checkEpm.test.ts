@@ -63,6 +63,9 @@ describe('annotate and check on the EPM silicon run', function () {
     assert.match(r.out, /stale:\s+source EIGENVAL \(eigenvalues\) has changed/);
     const lines = r.out.split('\n').filter((l) => l.includes('drifted: cbm/e1/'));
     assert.ok(lines.length > 0, r.out);
-    assert.ok(lines.some((l) => /(energy|mass towards|k) .* → /.test(l)), lines.join('\n'));
+    assert.ok(
+      lines.some((l) => /(energy|mass towards|k) .* → /.test(l)),
+      lines.join('\n'),
+    );
   });
 });

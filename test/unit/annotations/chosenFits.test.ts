@@ -52,7 +52,16 @@ describe('annotations: a chosen fit is what check finds again', function () {
       { spin: 0 as const, kIndex: kL, band0: cbm.band - 1, window_meV: 60, method: POLY4, note: 'L valley' },
       { spin: 0 as const, kIndex: kC, band0: cbm.band - 1, window_meV: 35, method: CENTRAL_4 },
     ];
-    const c = composeAnnotations({ bs: si.bs, report: si.report, source: si.bs.source, settings: DEFAULT_SETTINGS, toolVersion: 'test', fits, existingText: null, existingName: 'EIGENVAL.valleys.json' });
+    const c = composeAnnotations({
+      bs: si.bs,
+      report: si.report,
+      source: si.bs.source,
+      settings: DEFAULT_SETTINGS,
+      toolVersion: 'test',
+      fits,
+      existingText: null,
+      existingName: 'EIGENVAL.valleys.json',
+    });
     return { si, c, kL };
   }
 
@@ -61,7 +70,10 @@ describe('annotations: a chosen fit is what check finds again', function () {
     const doc = parseAnnotations(c.text, 'x');
     const l = doc.entries.find((e) => e.k.every((x) => Math.abs(x - 0.5) < 1e-9))!;
     assert.ok(l, 'an entry at L');
-    assert.ok(!si.report.extrema.some((x) => x.k.every((v) => Math.abs(v - 0.5) < 1e-9)), 'control: the analysis alone lists no extremum at L');
+    assert.ok(
+      !si.report.extrema.some((x) => x.k.every((v) => Math.abs(v - 0.5) < 1e-9)),
+      'control: the analysis alone lists no extremum at L',
+    );
     assert.deepEqual({ w: l.fit?.window_meV, m: l.fit?.method }, { w: 60, m: POLY4 });
     assert.equal(l.note, 'L valley');
     assert.equal(l.kind, 'valley');
@@ -77,7 +89,10 @@ describe('annotations: a chosen fit is what check finds again', function () {
     const doc = parseAnnotations(c.text, 'x');
     const sources = annotatedSources(si.bs.source);
     const r = checkAnnotations(doc, sources, reanalyzeAsRecorded(doc, si.bs), DEFAULT_TOLERANCES);
-    assert.deepEqual(r.drifted.map((d) => d.message), []);
+    assert.deepEqual(
+      r.drifted.map((d) => d.message),
+      [],
+    );
     assert.ok(r.ok);
     const bare = checkAnnotations(doc, sources, analyzeBandStructure(si.bs, analysisSettingsOf(doc)), DEFAULT_TOLERANCES);
     assert.ok(!bare.ok, 'without redoing the chosen fits the L entry is lost and the CBM masses move');

@@ -48,7 +48,11 @@ describe('annotations reader under fuzzing', function () {
     const mutation = fc.oneof(
       fc.record({ op: fc.constant('cut' as const), at: fc.double({ min: 0, max: 1, noNaN: true }) }),
       fc.record({ op: fc.constant('delete' as const), at: fc.double({ min: 0, max: 1, noNaN: true }), n: fc.integer({ min: 1, max: 20 }) }),
-      fc.record({ op: fc.constant('insert' as const), at: fc.double({ min: 0, max: 1, noNaN: true }), s: fc.constantFrom('"', ',', '{', ']', '-', 'e', '\\', '\u0000', '\r', 'null', '<<<<<<< x\n', '1e400') }),
+      fc.record({
+        op: fc.constant('insert' as const),
+        at: fc.double({ min: 0, max: 1, noNaN: true }),
+        s: fc.constantFrom('"', ',', '{', ']', '-', 'e', '\\', '\u0000', '\r', 'null', '<<<<<<< x\n', '1e400'),
+      }),
     );
     fc.assert(
       fc.property(docArb, fc.array(mutation, { minLength: 1, maxLength: 3 }), (doc, ops) => {
@@ -71,7 +75,10 @@ describe('annotations reader under fuzzing', function () {
         const text = serializeAnnotations(doc);
         const back = parseAnnotations(text, 'x');
         assert.equal(back.entries.length, doc.entries.length);
-        assert.deepEqual(back.entries.map((e) => [e.id, e.note, e.status, e.found]).sort(), doc.entries.map((e) => [e.id, e.note, e.status, e.found]).sort());
+        assert.deepEqual(
+          back.entries.map((e) => [e.id, e.note, e.status, e.found]).sort(),
+          doc.entries.map((e) => [e.id, e.note, e.status, e.found]).sort(),
+        );
         assert.deepEqual(JSON.parse(JSON.stringify(back.extra)), JSON.parse(JSON.stringify(doc.extra)));
       }),
       fuzzParams(150),

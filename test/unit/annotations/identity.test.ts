@@ -22,11 +22,20 @@ import type { AnnotationsDoc } from '../../../src/core/annotations/annotationsMo
 import { valleyRepresentative } from '../../../src/core/lattice/valleyIdentity';
 import { DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import type { BandStructure, Vec3 } from '../../../src/core/model';
-import { cubicLattice, ellipsoidalValley, flatBand, lowestOf, pathModel, simpleCubicStructure, type Dispersion } from '../../support/models';
+import {
+  cubicLattice,
+  ellipsoidalValley,
+  flatBand,
+  lowestOf,
+  pathModel,
+  simpleCubicStructure,
+  type Dispersion,
+} from '../../support/models';
 
 const A = 4;
 const G = (2 * Math.PI) / A;
-const valence: Dispersion = (_kc, kf) => 2 * 0.5 * (Math.cos(2 * Math.PI * kf[0]) + Math.cos(2 * Math.PI * kf[1]) + Math.cos(2 * Math.PI * kf[2]) - 3);
+const valence: Dispersion = (_kc, kf) =>
+  2 * 0.5 * (Math.cos(2 * Math.PI * kf[0]) + Math.cos(2 * Math.PI * kf[1]) + Math.cos(2 * Math.PI * kf[2]) - 3);
 const conduction: Dispersion = lowestOf(
   ellipsoidalValley(1.2, [G / 2, 0, 0], [1, 0, 0], 1.0, 0.2),
   ellipsoidalValley(1.2, [0, G / 2, 0], [0, 1, 0], 1.0, 0.2),
@@ -51,7 +60,12 @@ function run(shape: RunShape = {}): BandStructure {
     structure: simpleCubicStructure(A),
     bands,
     electrons: shape.deepBand ? 4 : 2,
-    legs: [[{ label: 'Γ', k: [0, 0, 0] }, { label: shape.towards ?? 'X', k: end }]],
+    legs: [
+      [
+        { label: 'Γ', k: [0, 0, 0] },
+        { label: shape.towards ?? 'X', k: end },
+      ],
+    ],
     pointsPerSegment: 41,
   });
   if (shape.spinPolarised) {
@@ -130,7 +144,10 @@ describe('annotation entries keep their identity across re-runs', () => {
     const polarised = rerun(older, run({ spinPolarised: true }));
     assertReviewKept(older, polarised);
     assert.ok(polarised.doc.spinPolarised);
-    assert.ok(polarised.doc.entries.some((e) => e.id.startsWith('cbm/up/')), polarised.doc.entries.map((e) => e.id).join(' '));
+    assert.ok(
+      polarised.doc.entries.some((e) => e.id.startsWith('cbm/up/')),
+      polarised.doc.entries.map((e) => e.id).join(' '),
+    );
     // The text names the channels by name.
     assert.match(serializeAnnotations(polarised.doc), /"spin": "up"/);
 
@@ -149,7 +166,10 @@ describe('annotation entries keep their identity across re-runs', () => {
     // Y = (0, ½, 0) is in the star of X under m-3m (International Tables Vol. A).
     assert.deepEqual(cbm.k, [0, 0.5, 0]);
     assertReviewKept(older, merged);
-    assert.ok(merged.summary.kept.some((f) => f.to === cbm.id), 'kept under the same id');
+    assert.ok(
+      merged.summary.kept.some((f) => f.to === cbm.id),
+      'kept under the same id',
+    );
   });
 
   it('migrates a layout-1 file: its note follows the extremum into a run with a deep band', () => {
@@ -167,7 +187,10 @@ describe('annotation entries keep their identity across re-runs', () => {
     const warnings: string[] = [];
     const older = parseAnnotations(v1, 'old.valleys.json', warnings);
     assert.equal(older.entries[0]!.id, 'cbm/e1/v=0.5,0,0');
-    assert.ok(warnings.some((w) => /layout 1/.test(w)), warnings.join('\n'));
+    assert.ok(
+      warnings.some((w) => /layout 1/.test(w)),
+      warnings.join('\n'),
+    );
     assert.ok(!warnings.some((w) => /does not match/.test(w)), 'a layout-1 id is not a hand edit');
     const merged = rerun(older, run({ deepBand: true }));
     assertReviewKept(older, merged);
@@ -178,7 +201,15 @@ describe('annotation entries keep their identity across re-runs', () => {
     const older = review(annotate(run()));
     // An entry for an extremum the model does not have (a reviewer's entry for a shoulder at (¼, ¼, 0)): the
     // next analysis cannot find it, so it is orphaned, kept with its note, and counted as such.
-    older.entries.push({ ...older.entries[0]!, kind: 'peak', id: 'x', k: [0.25, 0.25, 0], valley: [0.25, 0.25, 0], edgeBand: 1, note: 'odd shoulder' });
+    older.entries.push({
+      ...older.entries[0]!,
+      kind: 'peak',
+      id: 'x',
+      k: [0.25, 0.25, 0],
+      valley: [0.25, 0.25, 0],
+      edgeBand: 1,
+      note: 'odd shoulder',
+    });
     const merged = rerun(parseAnnotations(serializeAnnotations(older), 'a'), run());
     assert.equal(merged.summary.orphaned.length, 1);
     const orphan = merged.doc.entries.find((e) => !e.found)!;
@@ -192,7 +223,14 @@ describe('valleyRepresentative', () => {
     const { crystalSymmetry } = await import('../../../src/core/lattice/symmetry');
     const rots = crystalSymmetry(simpleCubicStructure(A)).reciprocalPointGroup;
     // The six Δ points (±0.4, 0, 0), (0, ±0.4, 0), (0, 0, ±0.4) are one star in m-3m (International Tables).
-    const star: Vec3[] = [[0.4, 0, 0], [-0.4, 0, 0], [0, 0.4, 0], [0, -0.4, 0], [0, 0, 0.4], [0, 0, -0.4]];
+    const star: Vec3[] = [
+      [0.4, 0, 0],
+      [-0.4, 0, 0],
+      [0, 0.4, 0],
+      [0, -0.4, 0],
+      [0, 0, 0.4],
+      [0, 0, -0.4],
+    ];
     const reps = star.map((k) => valleyRepresentative(k, rots).join(','));
     assert.equal(new Set(reps).size, 1);
     // (0.4, 0.4, 0) is on Σ, another star.

@@ -18,7 +18,10 @@ describe('annotations Markdown summary', () => {
     assert.match(md, /\*\*Gap:\*\* 1\.5000 eV, direct \(VBM band 1 at Γ, CBM band 2 at Γ\)/);
     const row = md.split('\n').find((l) => l.startsWith('| CBM'))!;
     // m_c = ħ²/(2 t a²) = 0.1191 m_e (analytic model, CODATA 2018 ħ²/m_e).
-    assert.match(row, /\| 1\.5000 \| 0\.1191 towards X \(parabola, 7 pts, 25\.00 meV\) \| 1 \| 0\.1191 \| 0\.1191 \| accepted \| light \\\| as expected see \\\*run 2\\\* \|$/);
+    assert.match(
+      row,
+      /\| 1\.5000 \| 0\.1191 towards X \(parabola, 7 pts, 25\.00 meV\) \| 1 \| 0\.1191 \| 0\.1191 \| accepted \| light \\\| as expected see \\\*run 2\\\* \|$/,
+    );
     assert.equal(row.split(/(?<!\\)\|/).length - 2, 8, 'eight cells');
     assert.match(md, /Review: 1 unreviewed, 1 accepted\./);
     assert.match(md, /Cautions:\n- Semilocal DFT/);

@@ -33,7 +33,15 @@ function reviewedText(): string {
   vbm.status = 'questioned';
   vbm.note = 'Needs spin-orbit.';
   // An extremum the reviewer added by hand (or an older analysis found), which the new analysis does not report.
-  o.entries.push({ kind: 'valley', spin: 0, band: 3, k: [0.25, 0, 0], energy_eV: 8.1, note: 'Satellite valley seen in run 1.', status: 'questioned' });
+  o.entries.push({
+    kind: 'valley',
+    spin: 0,
+    band: 3,
+    k: [0.25, 0, 0],
+    energy_eV: 8.1,
+    note: 'Satellite valley seen in run 1.',
+    status: 'questioned',
+  });
   return serializeAnnotations(parseAnnotations(JSON.stringify(o, null, 2), 'reviewed'));
 }
 
@@ -121,7 +129,9 @@ describe('annotations merge', function () {
         for (const e of older.entries) {
           // Every older entry is still there (by id, or by a match that carried its note and status).
           // (The absolute band is not part of an entry's identity: the same extremum may sit on another index.)
-          const same = back.entries.filter((b) => b.note.includes(e.note) && (b.status === e.status || e.status === 'unreviewed') && b.kind === e.kind);
+          const same = back.entries.filter(
+            (b) => b.note.includes(e.note) && (b.status === e.status || e.status === 'unreviewed') && b.kind === e.kind,
+          );
           assert.ok(same.length >= 1, `entry ${e.id} lost`);
         }
         for (const k of Object.keys(older.extra)) assert.ok(k in back.extra, `top-level field ${k} lost`);

@@ -63,7 +63,10 @@ describe('safe writes', () => {
         return h;
       },
     };
-    await assert.rejects(writeFileSafely(target, NEW, { fs: full }), (e: unknown) => e instanceof ValleyscopeError && /the disk is full/.test(e.message) && e.message.includes(target));
+    await assert.rejects(
+      writeFileSafely(target, NEW, { fs: full }),
+      (e: unknown) => e instanceof ValleyscopeError && /the disk is full/.test(e.message) && e.message.includes(target),
+    );
     assert.equal(readFileSync(target, 'utf8'), OLD);
     assert.deepEqual(readdirSync(dir), ['EIGENVAL.valleys.json']);
   });
@@ -81,14 +84,22 @@ describe('safe writes', () => {
 
   it('writes nothing when a file appeared where none was expected', async () => {
     const fresh = join(dir, 'other.valleys.json');
-    await assert.rejects(writeFileSafely(fresh, NEW, { expectExisting: null, beforeRename: () => writeFileSync(fresh, 'someone else') }), WriteConflictError);
+    await assert.rejects(
+      writeFileSafely(fresh, NEW, { expectExisting: null, beforeRename: () => writeFileSync(fresh, 'someone else') }),
+      WriteConflictError,
+    );
     assert.equal(readFileSync(fresh, 'utf8'), 'someone else');
   });
 
   it('reports a folder that cannot be written in one sentence, old file intact', async function () {
     if (process.getuid?.() === 0) {
       // root ignores folder permissions: simulate the refusal instead of skipping the check.
-      const denied: SafeWriteFs = { ...nodeSafeWriteFs, open: async () => { throw Object.assign(new Error('EACCES'), { code: 'EACCES' }); } };
+      const denied: SafeWriteFs = {
+        ...nodeSafeWriteFs,
+        open: async () => {
+          throw Object.assign(new Error('EACCES'), { code: 'EACCES' });
+        },
+      };
       await assert.rejects(writeFileSafely(target, NEW, { fs: denied }), /permission to write in its folder is denied/);
     } else {
       chmodSync(dir, 0o500);
@@ -160,12 +171,18 @@ describe('annotate under faults', () => {
   });
   afterEach(() => rmSync(dir, { recursive: true, force: true }));
 
-  it('keeps an edit saved in the editor between annotate\'s read and its write, and merges it next time', async () => {
+  it("keeps an edit saved in the editor between annotate's read and its write, and merges it next time", async () => {
     const target = `${eig}.valleys.json`;
-    const theirs = readFileSync(target, 'utf8').replace('"note": "",\n  "entries"', '"note": "saved from the editor meanwhile",\n  "entries"');
+    const theirs = readFileSync(target, 'utf8').replace(
+      '"note": "",\n  "entries"',
+      '"note": "saved from the editor meanwhile",\n  "entries"',
+    );
     writeTinyRun(join(dir, 'run'), { shift: [0, 2, -0.05] });
-    await assert.rejects(annotateOne(eig, {}, { soc: false }, io, { beforeRename: () => writeFileSync(target, theirs) }), WriteConflictError);
-    assert.equal(readFileSync(target, 'utf8'), theirs, 'the editor\'s save survives');
+    await assert.rejects(
+      annotateOne(eig, {}, { soc: false }, io, { beforeRename: () => writeFileSync(target, theirs) }),
+      WriteConflictError,
+    );
+    assert.equal(readFileSync(target, 'utf8'), theirs, "the editor's save survives");
     await annotateOne(eig, {}, { soc: false }, io);
     const doc = parseAnnotations(readFileSync(target, 'utf8'), target);
     assert.equal(doc.note, 'saved from the editor meanwhile');
@@ -177,7 +194,12 @@ describe('annotate under faults', () => {
     const target = `${eig}.valleys.json`;
     const before = readFileSync(target, 'utf8');
     writeTinyRun(join(dir, 'run'), { shift: [0, 2, -0.05] });
-    const full: SafeWriteFs = { ...nodeSafeWriteFs, rename: async () => { throw Object.assign(new Error('ENOSPC'), { code: 'ENOSPC' }); } };
+    const full: SafeWriteFs = {
+      ...nodeSafeWriteFs,
+      rename: async () => {
+        throw Object.assign(new Error('ENOSPC'), { code: 'ENOSPC' });
+      },
+    };
     await assert.rejects(annotateOne(eig, {}, { soc: false }, io, { fs: full }), /the disk is full/);
     assert.equal(readFileSync(target, 'utf8'), before);
     assert.deepEqual(readdirSync(join(dir, 'run')).sort(), ['EIGENVAL', 'EIGENVAL.valleys.json', 'KPOINTS', 'POSCAR']);

@@ -29,7 +29,9 @@ function assertValid(text: string): void {
 describe('annotations JSON Schema', function () {
   this.timeout(fuzzTimeout());
   it('is contributed to VS Code for *.valleys.json files', () => {
-    const pkg = JSON.parse(readFileSync('package.json', 'utf8')) as { contributes?: { jsonValidation?: { fileMatch: string; url: string }[] } };
+    const pkg = JSON.parse(readFileSync('package.json', 'utf8')) as {
+      contributes?: { jsonValidation?: { fileMatch: string; url: string }[] };
+    };
     const entry = pkg.contributes?.jsonValidation?.find((j) => j.fileMatch === '*.valleys.json');
     assert.ok(entry, 'jsonValidation entry');
     assert.equal(entry.url, './schema/valleys.schema.json');
@@ -76,7 +78,10 @@ describe('annotations JSON Schema', function () {
       good.replace('"kind": "cbm"', '"kind": "bottom"'),
       good.replace('e'.repeat(64), 'E'.repeat(64)),
       good.replace('"valleyscopeAnnotations": 2', '"valleyscopeAnnotations": 3'),
-      good.replace(/"k": \[0\.000000, 0\.000000, 0\.000000\],\n {6}"label": "Γ",\n {6}"energy_eV": 1\.5/, '"k": [0, 0],\n      "label": "Γ",\n      "energy_eV": 1.5'),
+      good.replace(
+        /"k": \[0\.000000, 0\.000000, 0\.000000\],\n {6}"label": "Γ",\n {6}"energy_eV": 1\.5/,
+        '"k": [0, 0],\n      "label": "Γ",\n      "energy_eV": 1.5',
+      ),
       good.replace('"found": true', '"found": "yes"'),
     ];
     for (const text of bad) {

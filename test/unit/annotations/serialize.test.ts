@@ -16,7 +16,11 @@ import { writeTinyRun } from './tinyRun';
 import { analyticReport } from './analyticReport';
 import { docArb, fuzzParams, fuzzTimeout } from './arbitraries';
 
-const SOURCE = { format: 'vasp-eigenval', file: 'run/EIGENVAL', files: [{ role: 'eigenvalues', path: 'run/EIGENVAL', sha256: 'a'.repeat(64) }] };
+const SOURCE = {
+  format: 'vasp-eigenval',
+  file: 'run/EIGENVAL',
+  files: [{ role: 'eigenvalues', path: 'run/EIGENVAL', sha256: 'a'.repeat(64) }],
+};
 
 function analyticDoc(): AnnotationsDoc {
   return buildAnnotations(analyticReport(), SOURCE, DEFAULT_SETTINGS, { toolVersion: '0.1.0' });
@@ -88,7 +92,13 @@ describe('annotations writer', function () {
   it('writes entries in the same order whatever order they come in', () => {
     fc.assert(
       fc.property(docArb, fc.infiniteStream(fc.nat()), (doc, rnd) => {
-        const shuffled = { ...doc, entries: [...doc.entries].map((e) => [rnd.next().value, e] as const).sort((x, y) => x[0] - y[0]).map((x) => x[1]) };
+        const shuffled = {
+          ...doc,
+          entries: [...doc.entries]
+            .map((e) => [rnd.next().value, e] as const)
+            .sort((x, y) => x[0] - y[0])
+            .map((x) => x[1]),
+        };
         assert.equal(serializeAnnotations(shuffled), serializeAnnotations(doc));
       }),
       fuzzParams(100),

@@ -79,7 +79,18 @@ describe('--energy-zero', () => {
   });
 
   it('falls back to raw energies, saying why, when the Fermi energy is not known', () => {
-    const bs = pathModel({ lattice: cubicLattice(4), bands: [cosineBand(0, [-0.5, -0.5, -0.5]), cosineBand(2, [0.5, 0.5, 0.5])], electrons: 2, legs: [[{ label: 'Γ', k: [0, 0, 0] }, { label: 'X', k: [0.5, 0, 0] }]], pointsPerSegment: 11 });
+    const bs = pathModel({
+      lattice: cubicLattice(4),
+      bands: [cosineBand(0, [-0.5, -0.5, -0.5]), cosineBand(2, [0.5, 0.5, 0.5])],
+      electrons: 2,
+      legs: [
+        [
+          { label: 'Γ', k: [0, 0, 0] },
+          { label: 'X', k: [0.5, 0, 0] },
+        ],
+      ],
+      pointsPerSegment: 11,
+    });
     const z = energyZeroOf(analyzeBandStructure(bs), 'fermi', null);
     assert.deepEqual([z.used, z.eV], ['raw', 0]);
     assert.match(z.reason!, /no Fermi energy/);
@@ -103,7 +114,18 @@ describe('--energy-zero', () => {
 
 describe('spin channels in the text', () => {
   function model(spinPolarised: boolean): ReturnType<typeof pathModel> {
-    const bs = pathModel({ lattice: cubicLattice(4), bands: [cosineBand(0, [-0.5, -0.5, -0.5]), cosineBand(2, [0.5, 0.5, 0.5])], electrons: 2, legs: [[{ label: 'Γ', k: [0, 0, 0] }, { label: 'X', k: [0.5, 0, 0] }]], pointsPerSegment: 11 });
+    const bs = pathModel({
+      lattice: cubicLattice(4),
+      bands: [cosineBand(0, [-0.5, -0.5, -0.5]), cosineBand(2, [0.5, 0.5, 0.5])],
+      electrons: 2,
+      legs: [
+        [
+          { label: 'Γ', k: [0, 0, 0] },
+          { label: 'X', k: [0.5, 0, 0] },
+        ],
+      ],
+      pointsPerSegment: 11,
+    });
     if (spinPolarised) {
       bs.nSpin = 2;
       bs.energies = [bs.energies[0]!, Float64Array.from(bs.energies[0]!, (e) => e + 0.1)];

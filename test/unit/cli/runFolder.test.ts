@@ -86,7 +86,11 @@ describe('--alat with a unit', () => {
     const inBohr = (alat / BOHR_ANGSTROM).toFixed(8);
     const a = capture();
     const b = capture();
-    assert.equal(await main(['analyze', join(dir, 'bands.out'), '--alat', `${inBohr}bohr`, '--structure', poscar, '--json'], a), 0, a.stderr);
+    assert.equal(
+      await main(['analyze', join(dir, 'bands.out'), '--alat', `${inBohr}bohr`, '--structure', poscar, '--json'], a),
+      0,
+      a.stderr,
+    );
     assert.equal(await main(['analyze', join(dir, 'bands.out'), '--alat', '4A', '--structure', poscar, '--json'], b), 0, b.stderr);
     assert.deepEqual(JSON.parse(a.stdout).extrema, JSON.parse(b.stdout).extrema);
   });
@@ -98,7 +102,13 @@ describe('--alat with a unit', () => {
       lattice: fccLattice(aFcc),
       bands: [parabolicBand(-1, -0.5), parabolicBand(1, 0.3)],
       electrons: 2,
-      legs: [[{ label: 'Γ', k: [0, 0, 0] }, { label: 'X', k: [0.5, 0, 0.5] }, { label: 'W', k: [0.5, 0.25, 0.75] }]],
+      legs: [
+        [
+          { label: 'Γ', k: [0, 0, 0] },
+          { label: 'X', k: [0.5, 0, 0.5] },
+          { label: 'W', k: [0.5, 0.25, 0.75] },
+        ],
+      ],
       pointsPerSegment: 11,
     });
     const dir = folder({ 'bands.out': writeBandsx(fcc, aFcc) });
@@ -143,7 +153,10 @@ describe('spinors and cautions', () => {
   });
 
   it('hybrid functional (HSE with a <hybrid> block): no semilocal caution, a hybrid one', async () => {
-    const bs = await loadRun(nodeFileAccessor, folder({ 'data-file-schema.xml': writeQeXml(collinearModel(), { functional: 'HSE', hybrid: true }) }));
+    const bs = await loadRun(
+      nodeFileAccessor,
+      folder({ 'data-file-schema.xml': writeQeXml(collinearModel(), { functional: 'HSE', hybrid: true }) }),
+    );
     assert.equal(bs.method?.family, 'hybrid');
     const r = analyzeBandStructure(bs);
     assert.ok(!r.cautions.some((c) => caution.test(c)));
@@ -183,10 +196,18 @@ describe('spinors and cautions', () => {
     sp.nSpin = 2;
     sp.energies = [sp.energies[0]!.map((e) => e - 1), sp.energies[0]!];
     sp.occupations = null;
-    const r = analyzeBandStructure(await loadRun(nodeFileAccessor, folder({ 'data-file-schema.xml': writeQeXml(sp, { twoFermi: [1.5, 0.6] }) })));
+    const r = analyzeBandStructure(
+      await loadRun(nodeFileAccessor, folder({ 'data-file-schema.xml': writeQeXml(sp, { twoFermi: [1.5, 0.6] }) })),
+    );
     assert.equal(r.metal, true);
-    assert.deepEqual(r.spinChannels?.map((c) => c.metal), [true, false]);
-    assert.deepEqual(r.spinChannels?.map((c) => Number(c.fermi_eV?.toFixed(6))), [1.5, 0.6]);
+    assert.deepEqual(
+      r.spinChannels?.map((c) => c.metal),
+      [true, false],
+    );
+    assert.deepEqual(
+      r.spinChannels?.map((c) => Number(c.fermi_eV?.toFixed(6))),
+      [1.5, 0.6],
+    );
   });
 
   it('metals get the metal caution instead of gap cautions', () => {

@@ -36,7 +36,10 @@ describe('valleyscope tensor-kpoints', function () {
     assert.equal(lines[2], 'Reciprocal');
     const pts = pointsOf(io.stdout);
     assert.equal(Number(lines[1]), pts.length);
-    assert.ok(pts.every((p) => p.w === '1'), 'nscf weights');
+    assert.ok(
+      pts.every((p) => p.w === '1'),
+      'nscf weights',
+    );
     // The little group of Δ (C4v with time reversal) relates most of the 37 points: far fewer are written.
     assert.ok(pts.length < 37 && pts.length >= 7, String(pts.length));
     // The model's minimum on Γ–X, (0, t, 0)2π/a = (t/2, 0, t/2) fractional, by golden section on the same
@@ -53,7 +56,10 @@ describe('valleyscope tensor-kpoints', function () {
     }
     const tMin = (a + b) / 2;
     const centre = pts[0]!.k;
-    assert.ok(Math.abs(centre[0] * 2 - tMin) < Math.abs(0.4230769 * 2 - tMin) / 3, `centre ${centre[0] * 2} vs minimum ${tMin} (sampled 0.846)`);
+    assert.ok(
+      Math.abs(centre[0] * 2 - tMin) < Math.abs(0.4230769 * 2 - tMin) / 3,
+      `centre ${centre[0] * 2} vs minimum ${tMin} (sampled 0.846)`,
+    );
     assert.ok(Math.abs(centre[0] * 2 - tMin) < 2e-3, `centre ${centre[0] * 2} vs ${tMin}`);
     assert.match(io.stderr, /refined between sampled points/);
     assert.match(io.stderr, /moves 10\.0 meV at h/);
@@ -67,7 +73,10 @@ describe('valleyscope tensor-kpoints', function () {
     const lat = fccLattice(5.43);
     const r = pts.map((p) => Math.hypot(...cartesianDisplacement(p.k, pts[0]!.k, lat)));
     // Shells at exactly h and 2h (as asked), and the centre.
-    assert.ok(r.every((x) => Math.abs(x) < 1e-8 || Math.abs(x - 0.015) < 1e-8 || Math.abs(x - 0.03) < 1e-8), r.join(' '));
+    assert.ok(
+      r.every((x) => Math.abs(x) < 1e-8 || Math.abs(x - 0.015) < 1e-8 || Math.abs(x - 0.03) < 1e-8),
+      r.join(' '),
+    );
     // Degenerate top: the body diagonals are in the plan (7 orbits at Γ: centre + 3 directions × 2 shells).
     assert.equal(pts.length, 7);
     assert.match(io.stderr, /no weighted mesh/);
@@ -77,11 +86,17 @@ describe('valleyscope tensor-kpoints', function () {
     const dir = mkdtempSync(join(tmpdir(), 'vs-tensor-mesh-'));
     const mesh = join(dir, 'IBZKPT');
     // An explicit weighted list in VASP's IBZKPT layout (common practice): comment, count, "Reciprocal lattice".
-    writeFileSync(mesh, 'Automatically generated mesh\n       3\nReciprocal lattice\n    0.0 0.0 0.0   1\n    0.25 0.0 0.0   8\n    0.5 0.0 0.0   4\n');
+    writeFileSync(
+      mesh,
+      'Automatically generated mesh\n       3\nReciprocal lattice\n    0.0 0.0 0.0   1\n    0.25 0.0 0.0   8\n    0.5 0.0 0.0   4\n',
+    );
     const io = capture();
     assert.equal(await main(['tensor-kpoints', SI, '--at', 'cbm', '--for', 'hybrid', '--mesh', mesh], io), 0, io.stderr);
     const pts = pointsOf(io.stdout);
-    assert.deepEqual(pts.slice(0, 3).map((p) => p.w), ['1', '8', '4']);
+    assert.deepEqual(
+      pts.slice(0, 3).map((p) => p.w),
+      ['1', '8', '4'],
+    );
     assert.ok(pts.slice(3).every((p) => p.w === '0') && pts.length > 3);
     assert.equal(Number(io.stdout.split('\n')[1]), pts.length);
     const badMesh = join(dir, 'bad');

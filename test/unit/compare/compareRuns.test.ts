@@ -7,11 +7,40 @@ import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/
 import { fccLattice } from '../../support/bandStructure';
 
 // Hand-made reports of a silicon-like crystal (numbers invented for the test, not physical claims).
-function ext(kind: ExtremumReport['kind'], band: number, k: Vec3, eV: number, offset: number, label: string | null, masses: [string, number][], nv: number | null = null): ExtremumReport {
+function ext(
+  kind: ExtremumReport['kind'],
+  band: number,
+  k: Vec3,
+  eV: number,
+  offset: number,
+  label: string | null,
+  masses: [string, number][],
+  nv: number | null = null,
+): ExtremumReport {
   return {
-    kind, band, spin: 0, k, eV, label, offset_eV: offset, degenerateBands: 1, valleyDegeneracy: nv,
-    masses: masses.map(([towards, mass]) => ({ towards, direction: [1, 0, 0], mass, stderr: 0.001, points: 7, window_meV: 25, method: 'parabola', determined: true })),
-    tensor: null, dosMass: null, conductivityMass: null, warnings: [],
+    kind,
+    band,
+    spin: 0,
+    k,
+    eV,
+    label,
+    offset_eV: offset,
+    degenerateBands: 1,
+    valleyDegeneracy: nv,
+    masses: masses.map(([towards, mass]) => ({
+      towards,
+      direction: [1, 0, 0],
+      mass,
+      stderr: 0.001,
+      points: 7,
+      window_meV: 25,
+      method: 'parabola',
+      determined: true,
+    })),
+    tensor: null,
+    dosMass: null,
+    conductivityMass: null,
+    warnings: [],
   };
 }
 
@@ -19,12 +48,29 @@ function report(extrema: ExtremumReport[]): Report {
   const vbm = extrema.find((e) => e.kind === 'vbm')!;
   const cbm = extrema.find((e) => e.kind === 'cbm')!;
   const gap: GapReport = {
-    eV: cbm.eV - vbm.eV, direct: false,
+    eV: cbm.eV - vbm.eV,
+    direct: false,
     vbm: { band: vbm.band, spin: 0, k: vbm.k, eV: vbm.eV, label: vbm.label },
     cbm: { band: cbm.band, spin: 0, k: cbm.k, eV: cbm.eV, label: cbm.label },
     directGap: { eV: 3, k: [0, 0, 0] },
   };
-  return { file: 'x', format: 'test', nk: 1, nbands: 8, nspin: 1, electrons: 8, metal: false, semimetal: false, fermi_eV: null, classificationReason: '', spinors: false, gap, extrema, warnings: [], cautions: [] };
+  return {
+    file: 'x',
+    format: 'test',
+    nk: 1,
+    nbands: 8,
+    nspin: 1,
+    electrons: 8,
+    metal: false,
+    semimetal: false,
+    fermi_eV: null,
+    classificationReason: '',
+    spinors: false,
+    gap,
+    extrema,
+    warnings: [],
+    cautions: [],
+  };
 }
 
 const G: Vec3 = [0, 0, 0];
@@ -34,9 +80,24 @@ const a = 5.43;
 
 describe('comparing runs', () => {
   it('gives differences against the reference on a hand-made pair', () => {
-    const A = report([ext('vbm', 4, G, 0, 0, 'Γ', [['X', -0.5]]), ext('cbm', 5, D, 1.0, 0, null, [['Γ', 0.9], ['X', 0.92]])]);
-    const B = report([ext('vbm', 4, G, 0.1, 0, 'Γ', [['X', -0.55]]), ext('cbm', 5, D, 1.3, 0, null, [['Γ', 0.99], ['X', 0.92]])]);
-    const c = compareRuns([{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }]);
+    const A = report([
+      ext('vbm', 4, G, 0, 0, 'Γ', [['X', -0.5]]),
+      ext('cbm', 5, D, 1.0, 0, null, [
+        ['Γ', 0.9],
+        ['X', 0.92],
+      ]),
+    ]);
+    const B = report([
+      ext('vbm', 4, G, 0.1, 0, 'Γ', [['X', -0.55]]),
+      ext('cbm', 5, D, 1.3, 0, null, [
+        ['Γ', 0.99],
+        ['X', 0.92],
+      ]),
+    ]);
+    const c = compareRuns([
+      { name: 'a', report: A, lattice: null },
+      { name: 'b', report: B, lattice: null },
+    ]);
     const b = c.runs[1]!;
     // Hand arithmetic: gap 1.0 → 1.2 eV; Γ-ward mass 0.9 → 0.99 is +10 %.
     assert.ok(Math.abs(b.deltaGap_eV! - 0.2) < 1e-12);
@@ -49,7 +110,10 @@ describe('comparing runs', () => {
   it('matches extrema whose band indices moved (more semicore bands in one run)', () => {
     const A = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, D, 1, 0, null, [['X', 0.9]])]);
     const B = report([ext('vbm', 9, G, 0, 0, 'Γ', []), ext('cbm', 10, D, 1, 0, null, [['X', 0.91]])]);
-    const c = compareRuns([{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }]);
+    const c = compareRuns([
+      { name: 'a', report: A, lattice: null },
+      { name: 'b', report: B, lattice: null },
+    ]);
     assert.equal(c.columns.length, 2);
     assert.equal(c.runs[1]!.cbmValley, c.runs[0]!.cbmValley);
   });
@@ -57,7 +121,11 @@ describe('comparing runs', () => {
   it('matches symmetry-equivalent valleys (a Δ valley written along another cube axis)', async () => {
     await ensureSymmetryReady();
     const lattice = fccLattice(a);
-    const rotations = crystalSymmetry({ lattice, species: ['Si', 'Si'], positions: Float64Array.from([0, 0, 0, 0.25, 0.25, 0.25]) }).rotations;
+    const rotations = crystalSymmetry({
+      lattice,
+      species: ['Si', 'Si'],
+      positions: Float64Array.from([0, 0, 0, 0.25, 0.25, 0.25]),
+    }).rotations;
     // (0.425,0.425,0) is 0.85 of Γ→X along another cube axis: equivalent under O_h (Setyawan & Curtarolo fcc points).
     const A = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, D, 1, 0, null, [])]);
     const B = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, [0.425, 0.425, 0], 1, 0, null, [])]);
@@ -81,12 +149,16 @@ describe('comparing runs', () => {
       ext('valley', 5, D, 0.95, 0.05, null, [['X', 0.93]]),
       ext('cbm', 5, L, 0.9, 0, 'L', [['Γ', 1.58]]),
     ]);
-    const c = compareRuns([{ name: 'relaxed', report: A, lattice: null }, { name: 'strained', report: B, lattice: null }]);
+    const c = compareRuns([
+      { name: 'relaxed', report: A, lattice: null },
+      { name: 'strained', report: B, lattice: null },
+    ]);
     const moved = c.events.find((e) => e.kind === 'edge-moved');
     assert.ok(moved, 'an edge-moved event');
     assert.match(moved.message, /conduction band minimum moved from valley c1 .* to valley c2 \(L\)/);
     const s = c.runs[1]!;
-    for (const v of Object.values(s.valleys)) for (const m of v.masses) if (m.relativeChange !== null) assert.ok(Math.abs(m.relativeChange) < 0.05);
+    for (const v of Object.values(s.valleys))
+      for (const m of v.masses) if (m.relativeChange !== null) assert.ok(Math.abs(m.relativeChange) < 0.05);
     const md = formatComparison(c, 'md');
     assert.match(md, /\| run \| gap \(eV\)/);
     assert.match(md, /What changed/);
@@ -112,7 +184,10 @@ describe('comparing runs', () => {
   it('uses the named reference run', () => {
     const A = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, D, 1, 0, null, [])]);
     const B = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, D, 1.5, 0, null, [])]);
-    const runs: RunInput[] = [{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }];
+    const runs: RunInput[] = [
+      { name: 'a', report: A, lattice: null },
+      { name: 'b', report: B, lattice: null },
+    ];
     const c = compareRuns(runs, 'b');
     assert.equal(c.reference, 'b');
     assert.ok(Math.abs(c.runs[0]!.deltaGap_eV! + 0.5) < 1e-12);
@@ -123,14 +198,20 @@ describe('comparing degenerate edges', () => {
   it('pairs masses branch with branch, not the first mass of a direction', () => {
     // Heavy (branch 1) and light (branch 2) holes towards X: a 5 % change in each, hand-made numbers.
     const withBranches = (heavy: number, light: number): ExtremumReport => {
-      const e = ext('vbm', 4, G, 0, 0, 'Γ', [['X', heavy], ['X', light]]);
+      const e = ext('vbm', 4, G, 0, 0, 'Γ', [
+        ['X', heavy],
+        ['X', light],
+      ]);
       e.masses[0]!.branch = 1;
       e.masses[1]!.branch = 2;
       return e;
     };
     const A = report([withBranches(-0.5, -0.2), ext('cbm', 5, D, 1, 0, null, [])]);
     const B = report([withBranches(-0.525, -0.21), ext('cbm', 5, D, 1, 0, null, [])]);
-    const c = compareRuns([{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }]);
+    const c = compareRuns([
+      { name: 'a', report: A, lattice: null },
+      { name: 'b', report: B, lattice: null },
+    ]);
     const v = c.columns.find((x) => x.side === 'valence')!;
     const changes = c.runs[1]!.valleys[v.id]!.masses.map((m) => m.relativeChange!);
     // Hand arithmetic: |−0.525| vs |−0.5| and |−0.21| vs |−0.2| are both +5 %: the holes got heavier.

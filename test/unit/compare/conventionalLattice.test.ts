@@ -11,7 +11,11 @@ const a = 5.431; // Si lattice constant at room temperature, Å (handbook value,
 
 describe('conventional cubic lattice constant', () => {
   it('fcc primitive vectors (0, a/2, a/2)…: a = √2 × the primitive-vector length', () => {
-    const fcc: Mat3 = [[0, a / 2, a / 2], [a / 2, 0, a / 2], [a / 2, a / 2, 0]];
+    const fcc: Mat3 = [
+      [0, a / 2, a / 2],
+      [a / 2, 0, a / 2],
+      [a / 2, a / 2, 0],
+    ];
     const p = latticeParameters(fcc);
     const conv = conventionalCubicA('cF', p.volume, 1)!;
     assert.ok(Math.abs(conv - a) < 1e-12); // the fcc primitive cell holds a³/4 (common practice)
@@ -19,7 +23,11 @@ describe('conventional cubic lattice constant', () => {
   });
 
   it('bcc primitive vectors (−a/2, a/2, a/2)…: a = 2/√3 × the primitive-vector length', () => {
-    const bcc: Mat3 = [[-a / 2, a / 2, a / 2], [a / 2, -a / 2, a / 2], [a / 2, a / 2, -a / 2]];
+    const bcc: Mat3 = [
+      [-a / 2, a / 2, a / 2],
+      [a / 2, -a / 2, a / 2],
+      [a / 2, a / 2, -a / 2],
+    ];
     const p = latticeParameters(bcc);
     const conv = conventionalCubicA('cI', p.volume, 1)!;
     assert.ok(Math.abs(conv - a) < 1e-12); // the bcc primitive cell holds a³/2 (common practice)
@@ -27,7 +35,11 @@ describe('conventional cubic lattice constant', () => {
   });
 
   it('a conventional fcc cell given as is (4 lattice points in it) gives its own edge', () => {
-    const cube: Mat3 = [[a, 0, 0], [0, a, 0], [0, 0, a]];
+    const cube: Mat3 = [
+      [a, 0, 0],
+      [0, a, 0],
+      [0, 0, a],
+    ];
     assert.ok(Math.abs(conventionalCubicA('cF', latticeParameters(cube).volume, 4)! - a) < 1e-12);
     // Control: the same cell read as primitive would be wrong by 4^(1/3).
     assert.ok(Math.abs(conventionalCubicA('cF', latticeParameters(cube).volume, 1)! - a * Math.cbrt(4)) < 1e-12);

@@ -17,11 +17,39 @@ import { nodeFileAccessor } from '../../../src/cli/nodeFileAccessor';
 import type { ExtremumReport, GapReport, Mat3, Report, Vec3 } from '../../../src/core/model';
 
 // Hand-made reports (numbers chosen for the arithmetic, not physical claims).
-function ext(kind: ExtremumReport['kind'], k: Vec3, eV: number, label: string | null, masses: [string, number, number?][], degenerate = 1): ExtremumReport {
+function ext(
+  kind: ExtremumReport['kind'],
+  k: Vec3,
+  eV: number,
+  label: string | null,
+  masses: [string, number, number?][],
+  degenerate = 1,
+): ExtremumReport {
   return {
-    kind, band: kind === 'vbm' || kind === 'peak' ? 4 : 5, spin: 0, k, eV, label, offset_eV: 0, degenerateBands: degenerate, valleyDegeneracy: 1,
-    masses: masses.map(([towards, mass, branch]) => ({ towards, direction: [1, 0, 0], mass, stderr: 0.001, points: 7, window_meV: 25, method: 'parabola', determined: true, ...(branch !== undefined ? { branch } : {}) })),
-    tensor: null, dosMass: null, conductivityMass: null, warnings: [],
+    kind,
+    band: kind === 'vbm' || kind === 'peak' ? 4 : 5,
+    spin: 0,
+    k,
+    eV,
+    label,
+    offset_eV: 0,
+    degenerateBands: degenerate,
+    valleyDegeneracy: 1,
+    masses: masses.map(([towards, mass, branch]) => ({
+      towards,
+      direction: [1, 0, 0],
+      mass,
+      stderr: 0.001,
+      points: 7,
+      window_meV: 25,
+      method: 'parabola',
+      determined: true,
+      ...(branch !== undefined ? { branch } : {}),
+    })),
+    tensor: null,
+    dosMass: null,
+    conductivityMass: null,
+    warnings: [],
   };
 }
 
@@ -29,12 +57,29 @@ function report(extrema: ExtremumReport[]): Report {
   const vbm = extrema.find((e) => e.kind === 'vbm')!;
   const cbm = extrema.find((e) => e.kind === 'cbm')!;
   const gap: GapReport = {
-    eV: cbm.eV - vbm.eV, direct: true,
+    eV: cbm.eV - vbm.eV,
+    direct: true,
     vbm: { band: vbm.band, spin: 0, k: vbm.k, eV: vbm.eV, label: vbm.label },
     cbm: { band: cbm.band, spin: 0, k: cbm.k, eV: cbm.eV, label: cbm.label },
     directGap: { eV: cbm.eV - vbm.eV, k: [0, 0, 0] },
   };
-  return { file: 'x', format: 'test', nk: 1, nbands: 8, nspin: 1, electrons: 8, metal: false, semimetal: false, fermi_eV: null, classificationReason: 'test report', spinors: false, gap, extrema, warnings: [], cautions: [] };
+  return {
+    file: 'x',
+    format: 'test',
+    nk: 1,
+    nbands: 8,
+    nspin: 1,
+    electrons: 8,
+    metal: false,
+    semimetal: false,
+    fermi_eV: null,
+    classificationReason: 'test report',
+    spinors: false,
+    gap,
+    extrema,
+    warnings: [],
+    cautions: [],
+  };
 }
 
 const G: Vec3 = [0, 0, 0];
@@ -47,9 +92,15 @@ describe('honest comparison of masses', () => {
         // Holes carry negative curvature masses at the VBM, electrons positive ones at the CBM (design: signed masses).
         const A = report([ext('vbm', G, 0, 'Γ', [['X', -h0]]), ext('cbm', G, 1, 'Γ', [['X', e0]])]);
         const B = report([ext('vbm', G, 0, 'Γ', [['X', -h1]]), ext('cbm', G, 1, 'Γ', [['X', e1]])]);
-        const c = compareRuns([{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }]);
+        const c = compareRuns([
+          { name: 'a', report: A, lattice: null },
+          { name: 'b', report: B, lattice: null },
+        ]);
         const b = c.runs[1]!;
-        for (const [side, m0, m1] of [['valence', h0, h1], ['conduction', e0, e1]] as const) {
+        for (const [side, m0, m1] of [
+          ['valence', h0, h1],
+          ['conduction', e0, e1],
+        ] as const) {
           const col = c.columns.find((x) => x.side === side)!;
           const m = b.valleys[col.id]!.masses[0]!;
           // (|m1| − |m0|)/|m0|, the definition (the issue's example: a hole 59 % heavier is +59 %, not −59 %).
@@ -63,13 +114,51 @@ describe('honest comparison of masses', () => {
   });
 
   it('labels every difference with its direction and branch', () => {
-    const A = report([ext('vbm', G, 0, 'Γ', [['X', -0.5, 1], ['X', -0.2, 2], ['L', -0.7, 1], ['L', -0.1, 2]], 2), ext('cbm', G, 1, 'Γ', [])]);
-    const B = report([ext('vbm', G, 0, 'Γ', [['X', -0.6, 1], ['X', -0.2, 2], ['L', -0.7, 1], ['L', -0.15, 2]], 2), ext('cbm', G, 1, 'Γ', [])]);
-    const c = compareRuns([{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }]);
+    const A = report([
+      ext(
+        'vbm',
+        G,
+        0,
+        'Γ',
+        [
+          ['X', -0.5, 1],
+          ['X', -0.2, 2],
+          ['L', -0.7, 1],
+          ['L', -0.1, 2],
+        ],
+        2,
+      ),
+      ext('cbm', G, 1, 'Γ', []),
+    ]);
+    const B = report([
+      ext(
+        'vbm',
+        G,
+        0,
+        'Γ',
+        [
+          ['X', -0.6, 1],
+          ['X', -0.2, 2],
+          ['L', -0.7, 1],
+          ['L', -0.15, 2],
+        ],
+        2,
+      ),
+      ext('cbm', G, 1, 'Γ', []),
+    ]);
+    const c = compareRuns([
+      { name: 'a', report: A, lattice: null },
+      { name: 'b', report: B, lattice: null },
+    ]);
     const v = c.runs[1]!.valleys[c.columns.find((x) => x.side === 'valence')!.id]!;
     // Hand arithmetic: X branch 1: 0.6/0.5 − 1 = +20 %; X branch 2: 0; L branch 1: 0; L branch 2: 0.15/0.1 − 1 = +50 %.
     const got = v.masses.map((m) => [m.direction, m.branch, Math.round(m.relativeChange! * 1000) / 10]);
-    assert.deepEqual(got, [['X', 1, 20], ['X', 2, 0], ['L', 1, 0], ['L', 2, 50]]);
+    assert.deepEqual(got, [
+      ['X', 1, 20],
+      ['X', 2, 0],
+      ['L', 1, 0],
+      ['L', 2, 50],
+    ]);
     const table = formatComparison(c, 'table');
     assert.match(table, /v1 Γ\s+X\s+1\s+b\s+-0\.600\s+\+20\.0 %/);
     assert.match(table, /v1 Γ\s+L\s+2\s+b\s+-0\.150\s+\+50\.0 %/);
@@ -77,9 +166,39 @@ describe('honest comparison of masses', () => {
 
   it('reports a change of degeneracy instead of pairing branches across it', () => {
     // Reference: three bands meet at Γ (heavy, heavy, light); the other run: two (a lowered symmetry).
-    const A = report([ext('vbm', G, 0, 'Γ', [['X', -0.29, 1], ['X', -0.29, 2], ['X', -0.16, 3]], 3), ext('cbm', G, 1, 'Γ', [['X', 0.1]])]);
-    const B = report([ext('vbm', G, 0, 'Γ', [['X', -0.29, 1], ['X', -0.17, 2]], 2), ext('cbm', G, 1, 'Γ', [['X', 0.1]])]);
-    const c = compareRuns([{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }]);
+    const A = report([
+      ext(
+        'vbm',
+        G,
+        0,
+        'Γ',
+        [
+          ['X', -0.29, 1],
+          ['X', -0.29, 2],
+          ['X', -0.16, 3],
+        ],
+        3,
+      ),
+      ext('cbm', G, 1, 'Γ', [['X', 0.1]]),
+    ]);
+    const B = report([
+      ext(
+        'vbm',
+        G,
+        0,
+        'Γ',
+        [
+          ['X', -0.29, 1],
+          ['X', -0.17, 2],
+        ],
+        2,
+      ),
+      ext('cbm', G, 1, 'Γ', [['X', 0.1]]),
+    ]);
+    const c = compareRuns([
+      { name: 'a', report: A, lattice: null },
+      { name: 'b', report: B, lattice: null },
+    ]);
     const v = c.runs[1]!.valleys[c.columns.find((x) => x.side === 'valence')!.id]!;
     assert.ok(v.degeneracyChanged);
     for (const m of v.masses) {
@@ -126,7 +245,10 @@ describe('matching valleys between different crystals', () => {
       if (!a || !b) continue;
       paired++;
       // Both ends of a pair are labelled high-symmetry points (Γ, X, L, …: the fixtures' KPOINTS labels).
-      assert.ok(a.extremum.label && b.extremum.label, `${col.id}: ${a.extremum.label ?? a.extremum.k} with ${b.extremum.label ?? b.extremum.k}`);
+      assert.ok(
+        a.extremum.label && b.extremum.label,
+        `${col.id}: ${a.extremum.label ?? a.extremum.k} with ${b.extremum.label ?? b.extremum.k}`,
+      );
     }
     assert.ok(paired >= 1, 'the VBM at Γ is shared');
     // Si's conduction minimum lies on Γ–X (about 0.85 of the way, the model's README) and is not at a labelled
@@ -145,12 +267,42 @@ describe('matching valleys between different crystals', () => {
 
 describe('comparison outputs', () => {
   it('writes CSV in long form with exactly the agreed columns', () => {
-    const A = report([ext('vbm', G, 0, 'Γ', [['X', -0.5]]), ext('cbm', G, 1, 'Γ', [['X', 0.2], ['L', 0.3]])]);
-    const B = report([ext('vbm', G, 0, 'Γ', [['X', -0.75]]), ext('cbm', G, 1.2, 'Γ', [['X', 0.1], ['L', 0.3]])]);
-    const c = compareRuns([{ name: 'a', report: A, lattice: null }, { name: 'b', report: B, lattice: null }]);
+    const A = report([
+      ext('vbm', G, 0, 'Γ', [['X', -0.5]]),
+      ext('cbm', G, 1, 'Γ', [
+        ['X', 0.2],
+        ['L', 0.3],
+      ]),
+    ]);
+    const B = report([
+      ext('vbm', G, 0, 'Γ', [['X', -0.75]]),
+      ext('cbm', G, 1.2, 'Γ', [
+        ['X', 0.1],
+        ['L', 0.3],
+      ]),
+    ]);
+    const c = compareRuns([
+      { name: 'a', report: A, lattice: null },
+      { name: 'b', report: B, lattice: null },
+    ]);
     const lines = formatComparison(c, 'csv').split('\n');
     assert.equal(lines[0], CSV_COLUMNS.join(','));
-    assert.deepEqual([...CSV_COLUMNS], ['run', 'extremum', 'kind', 'quantity', 'direction', 'branch', 'value', 'unit', 'reference_value', 'difference', 'relative_difference']);
+    assert.deepEqual(
+      [...CSV_COLUMNS],
+      [
+        'run',
+        'extremum',
+        'kind',
+        'quantity',
+        'direction',
+        'branch',
+        'value',
+        'unit',
+        'reference_value',
+        'difference',
+        'relative_difference',
+      ],
+    );
     for (const l of lines) assert.equal(l.split(',').length, CSV_COLUMNS.length, l);
     // Hand arithmetic: hole |m| 0.5 → 0.75: difference +0.25, relative +0.5; electron X 0.2 → 0.1: −0.1, −0.5.
     assert.ok(lines.includes('b,v1 Γ,vbm,abs_mass,X,,0.75,m_e,0.5,0.25,0.5'), lines.join('\n'));
@@ -160,16 +312,27 @@ describe('comparison outputs', () => {
 
   it('gives in-plane strain for a biaxial series, relative to the reference, in per cent in every format', () => {
     const a = 5.43;
-    const cubic: Mat3 = [[a, 0, 0], [0, a, 0], [0, 0, a]];
+    const cubic: Mat3 = [
+      [a, 0, 0],
+      [0, a, 0],
+      [0, 0, a],
+    ];
     // (001) biaxial: in-plane stretch 1.01, out-of-plane 0.992 (analytic: engineering strain = stretch − 1).
-    const film: Mat3 = [[a * 1.01, 0, 0], [0, a * 1.01, 0], [0, 0, a * 0.992]];
+    const film: Mat3 = [
+      [a * 1.01, 0, 0],
+      [0, a * 1.01, 0],
+      [0, 0, a * 0.992],
+    ];
     const d = structureDescriptors(film, cubic);
     assert.ok(Math.abs(d.inPlaneStrain! - 0.01) < 1e-12);
     assert.ok(Math.abs(d.outOfPlaneStrain! + 0.008) < 1e-12);
     // Hydrostatic strain is not biaxial.
     assert.equal(structureDescriptors(cubic.map((r) => r.map((x) => x * 1.01)) as Mat3, cubic).inPlaneStrain, null);
     const A = report([ext('vbm', G, 0, 'Γ', []), ext('cbm', G, 1, 'Γ', [])]);
-    const c = compareRuns([{ name: 'bulk', report: A, lattice: cubic }, { name: 'film', report: A, lattice: film }]);
+    const c = compareRuns([
+      { name: 'bulk', report: A, lattice: cubic },
+      { name: 'film', report: A, lattice: film },
+    ]);
     const table = formatComparison(c, 'table');
     assert.match(table, /in-plane \(%\)\*/);
     assert.match(table, /Strain relative to bulk \(the reference run\)/);
@@ -179,8 +342,27 @@ describe('comparison outputs', () => {
   });
 
   it('keeps the text table within 120 columns however long the run names', () => {
-    const A = report([ext('vbm', G, 0, 'Γ', [['X', -0.5, 1], ['X', -0.2, 2]], 2), ext('cbm', [0.425, 0, 0.425], 1, null, [['Γ', 0.9], ['X', 0.92]])]);
-    const names = ['runs/a-very-long-folder-name/of-a-cluster-project/bulk/EIGENVAL', 'runs/a-very-long-folder-name/of-a-cluster-project/strained-by-one-per-cent/EIGENVAL'];
+    const A = report([
+      ext(
+        'vbm',
+        G,
+        0,
+        'Γ',
+        [
+          ['X', -0.5, 1],
+          ['X', -0.2, 2],
+        ],
+        2,
+      ),
+      ext('cbm', [0.425, 0, 0.425], 1, null, [
+        ['Γ', 0.9],
+        ['X', 0.92],
+      ]),
+    ]);
+    const names = [
+      'runs/a-very-long-folder-name/of-a-cluster-project/bulk/EIGENVAL',
+      'runs/a-very-long-folder-name/of-a-cluster-project/strained-by-one-per-cent/EIGENVAL',
+    ];
     const c = compareRuns(names.map((name) => ({ name, report: A, lattice: null })));
     const text = formatComparison(c, 'table');
     for (const l of text.split('\n')) assert.ok([...l].length <= TABLE_WIDTH, `${[...l].length}: ${l}`);

@@ -17,7 +17,13 @@ const A = 4;
 function run(gap: number): Report {
   const k0 = (2 * Math.PI * 0.25) / A;
   const lines: Dispersion[] = [1, -1].map((s) => (kc) => 3.5 + s * Math.sqrt((1.0 * (kc[0] - k0)) ** 2 + (gap / 2) ** 2));
-  const bs = pathModel({ lattice: cubicLattice(A), bands: [parabolicBand(-1, -0.5), parabolicBand(2, 5), ...lines], electrons: 2, legs: [[G, X, M]], pointsPerSegment: 41 });
+  const bs = pathModel({
+    lattice: cubicLattice(A),
+    bands: [parabolicBand(-1, -0.5), parabolicBand(2, 5), ...lines],
+    electrons: 2,
+    legs: [[G, X, M]],
+    pointsPerSegment: 41,
+  });
   return analyzeBandStructure(bs, { range_eV: 2 });
 }
 

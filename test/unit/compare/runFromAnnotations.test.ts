@@ -49,7 +49,16 @@ describe('runs from annotations files', function () {
       assert.equal(code, 0, io.stderr);
       const bs = await loadRun(nodeFileAccessor, join(dir, r, 'EIGENVAL'));
       const report = analyzeBandStructure(bs, DEFAULT_SETTINGS);
-      data.set(r, { report, run: { name: `${r}/EIGENVAL`, report, lattice: bs.lattice, rotations: bs.structure ? crystalSymmetry(bs.structure).rotations : null, origin: 'data' } });
+      data.set(r, {
+        report,
+        run: {
+          name: `${r}/EIGENVAL`,
+          report,
+          lattice: bs.lattice,
+          rotations: bs.structure ? crystalSymmetry(bs.structure).rotations : null,
+          origin: 'data',
+        },
+      });
     }
   });
   after(() => rmSync(dir, { recursive: true, force: true }));
@@ -65,7 +74,10 @@ describe('runs from annotations files', function () {
     // Reference: the core's analysis of the same EIGENVAL (round trip through the annotations layout).
     assert.ok(Math.abs(rep.gap.eV - fresh.gap.eV) <= E_TOL, `gap ${rep.gap.eV} vs ${fresh.gap.eV}`);
     assert.equal(rep.gap.direct, fresh.gap.direct);
-    assert.deepEqual(rep.gap.cbm.k.map((x) => x.toFixed(4)), fresh.gap.cbm.k.map((x) => x.toFixed(4)));
+    assert.deepEqual(
+      rep.gap.cbm.k.map((x) => x.toFixed(4)),
+      fresh.gap.cbm.k.map((x) => x.toFixed(4)),
+    );
     assert.equal(rep.metal, false);
     assert.equal(rep.extrema.length, fresh.extrema.length, 'every extremum the analysis found');
     for (const e of fresh.extrema) {
@@ -84,7 +96,8 @@ describe('runs from annotations files', function () {
         assert.equal(b.points, m.points);
       });
       if (e.dosMass !== null) assert.ok(Math.abs(a.dosMass! - e.dosMass) <= massTol(e.dosMass), 'density-of-states mass');
-      if (e.conductivityMass !== null) assert.ok(Math.abs(a.conductivityMass! - e.conductivityMass) <= massTol(e.conductivityMass), 'conductivity mass');
+      if (e.conductivityMass !== null)
+        assert.ok(Math.abs(a.conductivityMass! - e.conductivityMass) <= massTol(e.conductivityMass), 'conductivity mass');
     }
   });
 
@@ -111,7 +124,11 @@ describe('runs from annotations files', function () {
     assert.ok(Math.abs(b.deltaGap_eV!) <= E_TOL, `Δgap ${b.deltaGap_eV}`);
     assert.equal(b.cbmValley, c.runs[0]!.cbmValley);
     assert.equal(b.vbmValley, c.runs[0]!.vbmValley);
-    assert.deepEqual(c.events.filter((e) => e.run === b.name), [], 'no event for an unchanged run');
+    assert.deepEqual(
+      c.events.filter((e) => e.run === b.name),
+      [],
+      'no event for an unchanged run',
+    );
     assert.ok(Math.abs(b.descriptors!.volumeStrain!) < 1e-12, 'same cell: no strain');
   });
 
@@ -125,7 +142,11 @@ describe('runs from annotations files', function () {
     // The unstrained crystal's six Δ valleys (N_v = 6, the star of Δ in m-3m) are one valley of the reference:
     // the split is one event, and the CBM stays in that valley (no "edge moved").
     const split = c.events.filter((e) => e.kind === 'valley-split');
-    assert.deepEqual(split.map((e) => e.run), [comp.run.name, tens.run.name], JSON.stringify(c.events));
+    assert.deepEqual(
+      split.map((e) => e.run),
+      [comp.run.name, tens.run.name],
+      JSON.stringify(c.events),
+    );
     assert.match(split[0]!.message, /N_v 6\) → 4 at .* \+ 2 at /);
     assert.match(split[1]!.message, /N_v 6\) → 2 at .* \+ 4 at /);
     assert.equal(c.events.filter((e) => e.kind === 'edge-moved').length, 0, JSON.stringify(c.events));
@@ -145,7 +166,10 @@ describe('runs from annotations files', function () {
     rmSync(join(dir, r, 'KPOINTS'));
     const b = await loadAnnotationsRun(nodeFileAccessor, annotationsOf(r));
     assert.equal(b.staleReasons.length, 2);
-    assert.ok(b.staleReasons.some((s) => /KPOINTS \(kpath\) is no longer read/.test(s)), b.staleReasons.join('; '));
+    assert.ok(
+      b.staleReasons.some((s) => /KPOINTS \(kpath\) is no longer read/.test(s)),
+      b.staleReasons.join('; '),
+    );
     const c = compareRuns([b.run]);
     assert.equal(c.runs[0]!.stale, true);
     assert.ok(c.events.some((e) => e.kind === 'stale'));
@@ -166,7 +190,17 @@ describe('runs from annotations files', function () {
     // an entry for one is written here, 0.1 eV above the CBM at X, as a file could hold it.
     let valley = doc.entries.find((e) => e.kind === 'valley');
     if (!valley) {
-      valley = { ...cbm, kind: 'valley', id: 'valley/s0/b5/k=0.5,0,0.5', k: [0.5, 0, 0.5], label: 'X', energy_eV: cbm.energy_eV + 0.1, masses: [], tensor: null, warnings: [] };
+      valley = {
+        ...cbm,
+        kind: 'valley',
+        id: 'valley/s0/b5/k=0.5,0,0.5',
+        k: [0.5, 0, 0.5],
+        label: 'X',
+        energy_eV: cbm.energy_eV + 0.1,
+        masses: [],
+        tensor: null,
+        warnings: [],
+      };
       doc.entries.push(valley);
     }
     const n = doc.entries.filter((e) => e.found).length;
@@ -188,11 +222,28 @@ describe('runs from annotations files', function () {
 
   it('valleyscope compare takes annotations files beside data files, flags stale ones on stderr', async () => {
     const io = capture();
-    const code = await main(['compare', annotationsOf('03_biaxial+0.00pct'), join(dir, '05_biaxial+1.00pct', 'EIGENVAL'), annotationsOf('01_biaxial-1.00pct'), '--format', 'json'], io);
+    const code = await main(
+      [
+        'compare',
+        annotationsOf('03_biaxial+0.00pct'),
+        join(dir, '05_biaxial+1.00pct', 'EIGENVAL'),
+        annotationsOf('01_biaxial-1.00pct'),
+        '--format',
+        'json',
+      ],
+      io,
+    );
     assert.equal(code, 0, io.stderr);
     const j = JSON.parse(io.stdout) as { runs: { origin: string; stale: boolean; gap_eV: number }[] };
-    assert.deepEqual(j.runs.map((r) => r.origin), ['annotations', 'data', 'annotations']);
-    assert.deepEqual(j.runs.map((r) => r.stale), [false, false, true], 'run 01 was edited above');
+    assert.deepEqual(
+      j.runs.map((r) => r.origin),
+      ['annotations', 'data', 'annotations'],
+    );
+    assert.deepEqual(
+      j.runs.map((r) => r.stale),
+      [false, false, true],
+      'run 01 was edited above',
+    );
     assert.match(io.stderr, /01_biaxial-1\.00pct\/EIGENVAL\.valleys\.json: stale: source EIGENVAL/);
     // Reference: the analysis of the same data files.
     assert.ok(Math.abs(j.runs[0]!.gap_eV - data.get('03_biaxial+0.00pct')!.report.gap!.eV) <= E_TOL);

@@ -58,7 +58,15 @@ function damages(text: string): Damage[] {
     { name: 'binary junk', expect: 'error', apply: () => Uint8Array.from({ length: 4096 }, (_, i) => (i * 7919 + 13) % 256) },
     { name: 'Windows line endings', expect: 'same', apply: (t) => t.replace(/\n/g, '\r\n') },
     { name: 'byte-order mark', expect: 'same', apply: (t) => `\uFEFF${t}` },
-    { name: 'a huge line inserted', expect: 'error', apply: (t) => { const l = lines(t); l.splice(Math.min(8, l.length - 1), 0, 'x'.repeat(2_000_000)); return l.join('\n'); } },
+    {
+      name: 'a huge line inserted',
+      expect: 'error',
+      apply: (t) => {
+        const l = lines(t);
+        l.splice(Math.min(8, l.length - 1), 0, 'x'.repeat(2_000_000));
+        return l.join('\n');
+      },
+    },
   ];
   // Truncation at structural points: after each of the first lines, then at a spread of later lines, and
   // in the middle of a line.
@@ -73,12 +81,40 @@ function damages(text: string): Damage[] {
   out.push({ name: 'truncated mid-line', expect: 'error', apply: (t) => t.slice(0, mid) });
   // Overflow and NaN in a number on a data line near the middle.
   let target = -1;
-  for (let i = Math.floor(ls.length / 2); i < ls.length; i++) if (numberToken(ls[i]!)) { target = i; break; }
+  for (let i = Math.floor(ls.length / 2); i < ls.length; i++)
+    if (numberToken(ls[i]!)) {
+      target = i;
+      break;
+    }
   if (target >= 0) {
     const tok = numberToken(ls[target]!)![0];
-    out.push({ name: `overflow field (****) on line ${target + 1}`, expect: 'error', apply: () => { const l = [...ls]; l[target] = l[target]!.replace(tok, '*'.repeat(tok.length)); return l.join('\n'); } });
-    out.push({ name: `NaN on line ${target + 1}`, expect: 'error', apply: () => { const l = [...ls]; l[target] = l[target]!.replace(tok, 'NaN'); return l.join('\n'); } });
-    out.push({ name: `Infinity on line ${target + 1}`, expect: 'error', apply: () => { const l = [...ls]; l[target] = l[target]!.replace(tok, 'Infinity'); return l.join('\n'); } });
+    out.push({
+      name: `overflow field (****) on line ${target + 1}`,
+      expect: 'error',
+      apply: () => {
+        const l = [...ls];
+        l[target] = l[target]!.replace(tok, '*'.repeat(tok.length));
+        return l.join('\n');
+      },
+    });
+    out.push({
+      name: `NaN on line ${target + 1}`,
+      expect: 'error',
+      apply: () => {
+        const l = [...ls];
+        l[target] = l[target]!.replace(tok, 'NaN');
+        return l.join('\n');
+      },
+    });
+    out.push({
+      name: `Infinity on line ${target + 1}`,
+      expect: 'error',
+      apply: () => {
+        const l = [...ls];
+        l[target] = l[target]!.replace(tok, 'Infinity');
+        return l.join('\n');
+      },
+    });
   }
   return out;
 }

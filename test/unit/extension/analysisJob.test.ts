@@ -11,7 +11,13 @@ import { loadSi, SI_DIR } from './demoRun';
 
 function siJob(): AnalysisJob {
   const read = (n: string) => ({ path: join(SI_DIR, n), bytes: new Uint8Array(readFileSync(join(SI_DIR, n))) });
-  return { readerId: 'vasp-eigenval', main: read('EIGENVAL'), companions: [read('POSCAR'), read('KPOINTS')], read: { allowPartial: true }, settings: DEFAULT_SETTINGS };
+  return {
+    readerId: 'vasp-eigenval',
+    main: read('EIGENVAL'),
+    companions: [read('POSCAR'), read('KPOINTS')],
+    read: { allowPartial: true },
+    settings: DEFAULT_SETTINGS,
+  };
 }
 
 function runWorker(job: AnalysisJob, onProgress?: (f: number) => void): { done: Promise<WorkerReply>; worker: Worker } {
@@ -49,7 +55,7 @@ describe('extension: the analysis job (worker thread and in-process)', () => {
       assert.ok(reply.bs.energies[0] instanceof Float64Array);
       assert.deepEqual(Array.from(reply.bs.energies[0]), Array.from(cli.bs.energies[0]!));
       assert.deepEqual(reportToJson(reply.report), reportToJson(cli.report));
-      assert.ok(fractions.length > 0, "progress was reported");
+      assert.ok(fractions.length > 0, 'progress was reported');
       for (let i = 1; i < fractions.length; i++) assert.ok(fractions[i]! >= fractions[i - 1]!);
     } finally {
       await worker.terminate();
@@ -102,7 +108,7 @@ describe('extension: the analysis job (worker thread and in-process)', () => {
   it('keeps error kinds through the boundary', () => {
     const r = fromJobError(toJobError(new ReaderError('vasp-eigenval', 'f', { line: 3, column: 7 }, 'bad number')));
     assert.ok(r instanceof ReaderError);
-    assert.equal((r).column, 7);
+    assert.equal(r.column, 7);
     assert.ok(fromJobError(toJobError(new CancelledError())) instanceof CancelledError);
     assert.ok(fromJobError(toJobError(new ValleyscopeError('x'))) instanceof ValleyscopeError);
     assert.match(fromJobError(toJobError(new TypeError('boom'))).message, /internal error: boom/);

@@ -9,7 +9,16 @@ import { loadSi } from './demoRun';
 
 async function base() {
   const si = await loadSi();
-  const input = { bs: si.bs, report: si.report, source: si.bs.source, settings: DEFAULT_SETTINGS, toolVersion: '0.1.0', fits: [], existingText: null, existingName: 'EIGENVAL.valleys.json' };
+  const input = {
+    bs: si.bs,
+    report: si.report,
+    source: si.bs.source,
+    settings: DEFAULT_SETTINGS,
+    toolVersion: '0.1.0',
+    fits: [],
+    existingText: null,
+    existingName: 'EIGENVAL.valleys.json',
+  };
   return { si, input };
 }
 
@@ -42,7 +51,12 @@ describe('extension: composing the annotations file', () => {
     cbmJson.myFlag = true;
     const existingText = JSON.stringify(first, null, 2);
     const b = nearestKIndex(si.bs, si.report.gap!.cbm.k);
-    const c = composeAnnotations({ ...input, existingText, fits: [{ spin: 0, kIndex: b, band0: 4, window_meV: 50, method: DEFAULT_SETTINGS.method, note: 'Refit with 50 meV.' }], runNote: 'Gap checked.' });
+    const c = composeAnnotations({
+      ...input,
+      existingText,
+      fits: [{ spin: 0, kIndex: b, band0: 4, window_meV: 50, method: DEFAULT_SETTINGS.method, note: 'Refit with 50 meV.' }],
+      runNote: 'Gap checked.',
+    });
     const doc = parseAnnotations(c.text, 'x');
     assert.equal(doc.note, 'Reviewed on the cluster.\nGap checked.');
     assert.equal(doc.extra.reviewedBy, 'A. Reviewer');
@@ -53,12 +67,17 @@ describe('extension: composing the annotations file', () => {
     // The reviewer's window, with its provenance, replaced the default one for this entry only.
     assert.ok(cbm.masses.every((m) => m.window_meV >= 50));
     const cbmDefault = si.report.extrema.find((x) => x.kind === 'cbm')!;
-    assert.ok(cbmDefault.masses.some((m) => m.window_meV < 50), 'the default fit used a smaller window');
+    assert.ok(
+      cbmDefault.masses.some((m) => m.window_meV < 50),
+      'the default fit used a smaller window',
+    );
     const vbm = doc.entries.find((e) => e.kind === 'vbm')!;
     const vbmReport = si.report.extrema.find((x) => x.kind === 'vbm')!;
     assert.equal(vbm.masses.length, vbmReport.masses.length);
     // The file rounds numbers to what they can carry (4–5 significant digits): compare to 0.1 %.
-    vbm.masses.forEach((m, i) => assert.ok(Math.abs(m.window_meV - vbmReport.masses[i]!.window_meV) <= 1e-3 * vbmReport.masses[i]!.window_meV, `${m.window_meV}`));
+    vbm.masses.forEach((m, i) =>
+      assert.ok(Math.abs(m.window_meV - vbmReport.masses[i]!.window_meV) <= 1e-3 * vbmReport.masses[i]!.window_meV, `${m.window_meV}`),
+    );
   });
 
   it('keeps an entry the analysis no longer finds, marked as not found', async () => {
@@ -91,11 +110,17 @@ describe('extension: composing the annotations file', () => {
     assert.equal(c.doc.entries.length, si.report.extrema.length);
     const cbm = c.doc.entries.find((x) => x.kind === 'cbm')!;
     // The same fit as the engine's at this point, under the valley the analysis gave this extremum.
-    assert.deepEqual(cbm.masses.map((m) => m.mass), fit.masses.map((m) => m.mass));
+    assert.deepEqual(
+      cbm.masses.map((m) => m.mass),
+      fit.masses.map((m) => m.mass),
+    );
     assert.deepEqual(cbm.valley, si.report.extrema.find((x) => x.kind === 'cbm')!.valley);
     assert.equal(cbm.fit?.window_meV, 40);
     assert.equal(cbm.fit?.method, DEFAULT_SETTINGS.method);
-    assert.ok(c.doc.entries.filter((x) => x.kind !== 'cbm').every((x) => x.fit === null), 'only the chosen entry records a fit');
+    assert.ok(
+      c.doc.entries.filter((x) => x.kind !== 'cbm').every((x) => x.fit === null),
+      'only the chosen entry records a fit',
+    );
   });
 
   it('joins notes without losing or repeating what was written', () => {

@@ -45,7 +45,23 @@ describe('extension: band data sent to the band view', () => {
     const small = makeBands({ kpoints: [[0, 0, 0]], energies: [[[0]]] });
     const bs = { ...small, nk, nBands: 100, kpoints: new Float64Array(3 * nk), energies: [new Float64Array(nk * 100)] };
     const geometry = { cartesian: null, distance: new Float64Array(nk), units: 'fractional' as const, segments: [], ticks: [] };
-    const report: Report = { file: 'big', format: 'test', nk, nbands: 100, nspin: 1, electrons: null, metal: null, semimetal: null, fermi_eV: null, classificationReason: '', spinors: false, gap: null, extrema: [], warnings: [], cautions: [] };
+    const report: Report = {
+      file: 'big',
+      format: 'test',
+      nk,
+      nbands: 100,
+      nspin: 1,
+      electrons: null,
+      metal: null,
+      semimetal: null,
+      fermi_eV: null,
+      classificationReason: '',
+      spinors: false,
+      gap: null,
+      extrema: [],
+      warnings: [],
+      cautions: [],
+    };
     const d = buildBandData(bs, report, geometry, 'big', DEFAULT_SETTINGS, 'raw');
     assert.equal(d.energies[0]!.dtype, 'f32');
   });

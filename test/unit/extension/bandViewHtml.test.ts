@@ -3,7 +3,12 @@ import { bandViewHtml, contentSecurityPolicy, makeNonce } from '../../../src/ext
 
 describe('extension: band view HTML shell', () => {
   const nonce = makeNonce();
-  const html = bandViewHtml({ cspSource: 'https://file+.vscode-resource.vscode-cdn.net', nonce, scriptUri: 'https://file+.vscode-resource.vscode-cdn.net/ext/dist/webview/bandView.js', title: 'Bands: <EIGENVAL>' });
+  const html = bandViewHtml({
+    cspSource: 'https://file+.vscode-resource.vscode-cdn.net',
+    nonce,
+    scriptUri: 'https://file+.vscode-resource.vscode-cdn.net/ext/dist/webview/bandView.js',
+    title: 'Bands: <EIGENVAL>',
+  });
 
   it('makes fresh 128-bit nonces', () => {
     assert.match(nonce, /^[0-9a-f]{32}$/);

@@ -42,20 +42,41 @@ describe('compare view: one valley name per valley across data rows, annotations
         origin: 'data',
         annotations: 'current',
         staleReasons: [],
-        run: { name: id, report: analyzeBandStructure(bs, DEFAULT_SETTINGS), lattice: bs.lattice, rotations: sym.rotations, latticeType: sym.bravaisClass, latticePointsPerCell: sym.latticePointsPerCell, composition: compositionOf(bs.structure!.species), origin: 'data' },
+        run: {
+          name: id,
+          report: analyzeBandStructure(bs, DEFAULT_SETTINGS),
+          lattice: bs.lattice,
+          rotations: sym.rotations,
+          latticeType: sym.bravaisClass,
+          latticePointsPerCell: sym.latticePointsPerCell,
+          composition: compositionOf(bs.structure!.species),
+          origin: 'data',
+        },
         error: null,
         canOverlay: true,
       });
       const a = await loadAnnotationsRun(nodeFileAccessor, join(dir, r, 'EIGENVAL.valleys.json'));
       const aid = `r${i++}`;
-      entries.push({ id: aid, name: `${r}/EIGENVAL.valleys.json`, origin: 'annotations', annotations: 'current', staleReasons: [], run: { ...a.run, name: aid }, error: null, canOverlay: false });
+      entries.push({
+        id: aid,
+        name: `${r}/EIGENVAL.valleys.json`,
+        origin: 'annotations',
+        annotations: 'current',
+        staleReasons: [],
+        run: { ...a.run, name: aid },
+        error: null,
+        canOverlay: false,
+      });
     }
   });
   after(() => rmSync(dir, { recursive: true, force: true }));
 
   it('each annotations row names its edges and valleys as its data row does', () => {
     const t = buildCompareTable(entries, null, true);
-    const valleyKeys = (values: Record<string, number | null>): string[] => Object.keys(values).filter((k) => /^valley\.[cv]\d+\.offset$/.test(k) && values[k] !== null).sort();
+    const valleyKeys = (values: Record<string, number | null>): string[] =>
+      Object.keys(values)
+        .filter((k) => /^valley\.[cv]\d+\.offset$/.test(k) && values[k] !== null)
+        .sort();
     for (let i = 0; i < t.rows.length; i += 2) {
       const data = t.rows[i]!;
       const saved = t.rows[i + 1]!;

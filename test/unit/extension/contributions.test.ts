@@ -33,8 +33,20 @@ describe('extension: package.json contributions agree with the code and HOOKS.md
 
   it('no file-name pattern of an eigenvalue language claims an annotations file (EIGENVAL.valleys.json stays JSON)', () => {
     // VS Code's glob: '*' within a name, '?' one character; a simple translation is enough for these patterns.
-    const globToRegExp = (g: string) => new RegExp(`^${g.replace(/[.+^${}()|[\]\\]/g, '\\$&').replace(/\*/g, '.*').replace(/\?/g, '.')}$`);
-    for (const name of ['EIGENVAL.valleys.json', 'vasprun.xml.valleys.json', 'si_band.dat.valleys.json', 'Si.bands.valleys.json', 'x.bxsf.valleys.json']) {
+    const globToRegExp = (g: string) =>
+      new RegExp(
+        `^${g
+          .replace(/[.+^${}()|[\]\\]/g, '\\$&')
+          .replace(/\*/g, '.*')
+          .replace(/\?/g, '.')}$`,
+      );
+    for (const name of [
+      'EIGENVAL.valleys.json',
+      'vasprun.xml.valleys.json',
+      'si_band.dat.valleys.json',
+      'Si.bands.valleys.json',
+      'x.bxsf.valleys.json',
+    ]) {
       for (const l of pkg.contributes.languages) {
         for (const f of l.filenames ?? []) assert.notEqual(f, name, `${l.id} claims ${name}`);
         for (const g of l.filenamePatterns ?? []) assert.doesNotMatch(name, globToRegExp(g), `${l.id} pattern ${g} claims ${name}`);
@@ -43,7 +55,7 @@ describe('extension: package.json contributions agree with the code and HOOKS.md
     }
   });
 
-  it('first-line patterns match the layouts they name (bands.x `&plot` header, CASTEP and BXSF headers; the codes\' own layouts)', () => {
+  it("first-line patterns match the layouts they name (bands.x `&plot` header, CASTEP and BXSF headers; the codes' own layouts)", () => {
     const first = (id: string) => new RegExp(pkg.contributes.languages.find((l) => l.id === id)!.firstLine!);
     assert.match(' &plot nbnd=   8, nks=   400 /', first('qe-bands'));
     assert.match('Number of k-points    400', first('castep-bands'));

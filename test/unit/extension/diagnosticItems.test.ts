@@ -48,7 +48,10 @@ describe('extension: Problems-panel entries', () => {
   it('lists reader warnings at their lines, analysis warnings once, and marks a partial file at its end', () => {
     const bs = makeBands({ kpoints: [[0, 0, 0]], energies: [[[0, 1]]] });
     bs.source.file = '/run/EIGENVAL';
-    bs.warnings.push({ code: 'w1', message: 'odd weight', line: 8 }, { code: 'w2', message: 'POSCAR has no species line', file: '/run/POSCAR' });
+    bs.warnings.push(
+      { code: 'w1', message: 'odd weight', line: 8 },
+      { code: 'w2', message: 'POSCAR has no species line', file: '/run/POSCAR' },
+    );
     bs.partial = true;
     const report = analyzeBandStructure(bs);
     const items = itemsFromRun(bs, report, '/run/EIGENVAL', 41);

@@ -78,14 +78,27 @@ describe('extension: fits for the band view', () => {
     const run = parabolicRun(0.5);
     const series = service.scan(run, { spin: 0, kIndex: 0, band0: 1 }, 'parabola', [10, 25, 50, 100]);
     assert.equal(series.length, 1);
-    assert.deepEqual(series[0]!.points.map((p) => p.window_meV), [10, 25, 50, 100]);
+    assert.deepEqual(
+      series[0]!.points.map((p) => p.window_meV),
+      [10, 25, 50, 100],
+    );
     for (const p of series[0]!.points) assert.ok(Math.abs(p.mass - 0.5) < 2e-3, `${p.window_meV} meV: ${p.mass}`);
     const withScan = service.fit(run, { spin: 0, kIndex: 0, band0: 1 }, 25, 'parabola', true);
     assert.ok(withScan.scan && withScan.scan.length === 1);
   });
 
   it('Kane curves follow ε(1 + αε) = ħ²k²/2m* (E. O. Kane, J. Phys. Chem. Solids 1, 249 (1957))', () => {
-    const m = { towards: 'X', direction: [1, 0, 0] as [number, number, number], mass: 0.2, stderr: 0, points: 9, window_meV: 50, method: 'kane', alpha_per_eV: 0.6, determined: true };
+    const m = {
+      towards: 'X',
+      direction: [1, 0, 0] as [number, number, number],
+      mass: 0.2,
+      stderr: 0,
+      points: 9,
+      window_meV: 50,
+      method: 'kane',
+      alpha_per_eV: 0.6,
+      determined: true,
+    };
     for (const t of [0, 0.05, 0.1, 0.2]) {
       const e = fittedEnergy(1, m, t) - 1;
       const rhs = (HBAR2_ME * t * t) / (2 * 0.2);
@@ -104,7 +117,10 @@ describe('extension: fits for the band view', () => {
     assert.deepEqual(out.extremum.k, report.gap!.cbm.k);
     // Same numbers as the analysis (the CLI's `analyze`) at the same settings.
     const fromReport = report.extrema.find((x) => x.kind === 'cbm')!;
-    assert.deepEqual(out.extremum.masses.map((m) => m.mass), fromReport.masses.map((m) => m.mass));
+    assert.deepEqual(
+      out.extremum.masses.map((m) => m.mass),
+      fromReport.masses.map((m) => m.mass),
+    );
     assert.ok(out.curves.length >= 2, 'both sides of an interior minimum');
     const d = geometry.distance;
     const e = bs.energies[0]!;
@@ -128,13 +144,29 @@ describe('extension: fits for the band view', () => {
   });
 
   it('groups a window scan into one series per direction', () => {
-    const mk = (towards: string, mass: number, branch?: number) => ({ towards, direction: [0, 0, 0] as [number, number, number], mass, stderr: 0.01, points: 5, window_meV: 10, method: 'parabola', determined: true, ...(branch ? { branch } : {}) });
+    const mk = (towards: string, mass: number, branch?: number) => ({
+      towards,
+      direction: [0, 0, 0] as [number, number, number],
+      mass,
+      stderr: 0.01,
+      points: 5,
+      window_meV: 10,
+      method: 'parabola',
+      determined: true,
+      ...(branch ? { branch } : {}),
+    });
     const s = scanSeries([
       { window_meV: 10, masses: [mk('X', 0.9), mk('Γ', 0.2, 1)] },
       { window_meV: 20, masses: [mk('X', 0.95), mk('Γ', 0.21, 1)] },
     ]);
-    assert.deepEqual(s.map((x) => x.towards), ['X', 'Γ (branch 1)']);
-    assert.deepEqual(s[0]!.points.map((p) => p.mass), [0.9, 0.95]);
+    assert.deepEqual(
+      s.map((x) => x.towards),
+      ['X', 'Γ (branch 1)'],
+    );
+    assert.deepEqual(
+      s[0]!.points.map((p) => p.mass),
+      [0.9, 0.95],
+    );
   });
 
   it('refuses an unknown method', () => {

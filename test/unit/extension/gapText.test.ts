@@ -3,7 +3,23 @@ import { gapLensText, gapStatusText, gapTooltip } from '../../../src/extension/g
 import type { Report } from '../../../src/core/model';
 import { loadSi } from './demoRun';
 
-const base: Report = { file: 'x', format: 'test', nk: 1, nbands: 1, nspin: 1, electrons: 2, metal: null, semimetal: null, fermi_eV: null, classificationReason: '', spinors: false, gap: null, extrema: [], warnings: [], cautions: [] };
+const base: Report = {
+  file: 'x',
+  format: 'test',
+  nk: 1,
+  nbands: 1,
+  nspin: 1,
+  electrons: 2,
+  metal: null,
+  semimetal: null,
+  fermi_eV: null,
+  classificationReason: '',
+  spinors: false,
+  gap: null,
+  extrema: [],
+  warnings: [],
+  cautions: [],
+};
 
 describe('extension: gap texts for the status bar and code lens', () => {
   it('reports the demo silicon gap as indirect with its edges', async () => {
@@ -34,6 +50,9 @@ describe('extension: gap texts for the status bar and code lens', () => {
     assert.match(gapLensText(base, true), /unknown.*partial file, provisional/);
     assert.equal(gapStatusText({ ...base, metal: true, semimetal: true }, false), 'Semimetal');
     assert.equal(gapStatusText({ ...base, metal: false, gapReason: 'local' }, false), 'No gap (local run)');
-    assert.match(gapTooltip({ ...base, metal: true, fermi_eV: 1.5, crossingBands: [2, 3], spinors: true }, false), /Fermi level 1\.5000 eV, crossing bands 2, 3\n[\s\S]*Spinors/);
+    assert.match(
+      gapTooltip({ ...base, metal: true, fermi_eV: 1.5, crossingBands: [2, 3], spinors: true }, false),
+      /Fermi level 1\.5000 eV, crossing bands 2, 3\n[\s\S]*Spinors/,
+    );
   });
 });

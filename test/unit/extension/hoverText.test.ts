@@ -28,7 +28,10 @@ describe('extension: hover on a k-point line', () => {
     // At X the two lowest conduction bands of the diamond structure meet and cross (common practice): by band
     // index the upper one has a "V" there, which is not a valley. The hover says so and names no valley.
     assert.ok(!lines.some((l) => l.includes('conduction valley')), lines.join('\n'));
-    assert.ok(lines.some((l) => l.startsWith('not an extremum here:') && /band 6 \(crossing\)/.test(l)), lines.join('\n'));
+    assert.ok(
+      lines.some((l) => l.startsWith('not an extremum here:') && /band 6 \(crossing\)/.test(l)),
+      lines.join('\n'),
+    );
   });
 
   it('says that Γ hosts the VBM, with the degeneracy of the top valence bands', async () => {
@@ -47,10 +50,24 @@ describe('extension: hover on a k-point line', () => {
       [0.5, 0, 0],
     ];
     // One band crossing E_F = 0 (a metal), no lattice.
-    const bs = makeBands({ kpoints: kpts, energies: [[[-3, -1], [-3, 0.5], [-3, 1]]], fermiEnergy: 0, electrons: 3 });
+    const bs = makeBands({
+      kpoints: kpts,
+      energies: [
+        [
+          [-3, -1],
+          [-3, 0.5],
+          [-3, 1],
+        ],
+      ],
+      fermiEnergy: 0,
+      electrons: 3,
+    });
     const report = analyzeBandStructure(bs);
     const lines = hoverLines(bs, report, pathGeometry(bs), 1);
     assert.ok(lines.some((l) => l.includes('cartesian k unknown')));
-    assert.ok(lines.some((l) => l.includes('(below E_F)') && l.includes('from E_F')), lines.join('\n'));
+    assert.ok(
+      lines.some((l) => l.includes('(below E_F)') && l.includes('from E_F')),
+      lines.join('\n'),
+    );
   });
 });

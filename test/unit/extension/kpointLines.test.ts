@@ -27,9 +27,23 @@ describe('extension: k-point lines of a file', () => {
 
   it('works for XML and CASTEP-like layouts, where the k-point is not the first number', () => {
     const k = Float64Array.from([0, 0, 0, 0.5, 0, 0.5, 0.5, 0.25, 0.75]);
-    const xml = ['<kpoints>', ' <varray name="kpointlist" >', '  <v>       0.00000000       0.00000000       0.00000000 </v>', '  <v>       0.50000000       0.00000000       0.50000000 </v>', '  <v>       0.50000000       0.25000000       0.75000000 </v>', ' </varray>'].join('\n');
+    const xml = [
+      '<kpoints>',
+      ' <varray name="kpointlist" >',
+      '  <v>       0.00000000       0.00000000       0.00000000 </v>',
+      '  <v>       0.50000000       0.00000000       0.50000000 </v>',
+      '  <v>       0.50000000       0.25000000       0.75000000 </v>',
+      ' </varray>',
+    ].join('\n');
     assert.deepEqual(Array.from(locateKpointLines(xml, k, 3)), [2, 3, 4]);
-    const castep = ['Number of k-points   3', 'K-point    1  0.00000000  0.00000000  0.00000000  0.33333333', '  -0.2', 'K-point    2  0.50000000  0.00000000  0.50000000  0.33333333', '  -0.1', 'K-point    3  0.50000000  0.25000000  0.75000000  0.33333333'].join('\r\n');
+    const castep = [
+      'Number of k-points   3',
+      'K-point    1  0.00000000  0.00000000  0.00000000  0.33333333',
+      '  -0.2',
+      'K-point    2  0.50000000  0.00000000  0.50000000  0.33333333',
+      '  -0.1',
+      'K-point    3  0.50000000  0.25000000  0.75000000  0.33333333',
+    ].join('\r\n');
     assert.deepEqual(Array.from(locateKpointLines(castep, k, 3)), [1, 3, 5]);
   });
 
@@ -50,7 +64,17 @@ describe('extension: k-point lines of a file', () => {
 
   it('in vasprun.xml and CASTEP .bands written by the test writers, every k-point is found on its own line', () => {
     const model = collinearModel();
-    const vasprun = writeVasprun(model, { generation: { divisions: 21, ends: [[0, 0, 0], [0.5, 0, 0], [0.5, 0, 0], [0.5, 0.5, 0]] } });
+    const vasprun = writeVasprun(model, {
+      generation: {
+        divisions: 21,
+        ends: [
+          [0, 0, 0],
+          [0.5, 0, 0],
+          [0.5, 0, 0],
+          [0.5, 0.5, 0],
+        ],
+      },
+    });
     const cases: [string, string, string, RegExp][] = [
       // vasprun.xml lists the path corners (Γ first) before the k-point list: Γ must come from the list.
       ['vasprun-xml', 'vasprun.xml', vasprun, /^\s*<v>/],

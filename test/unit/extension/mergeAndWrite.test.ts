@@ -86,7 +86,10 @@ describe('extension: safe writing of the annotations file (faults)', () => {
     const fs = new FakeFs();
     fs.put(P, 'old\n');
     fs.failWrite = Object.assign(new Error('ENOSPC: no space left on device'), { code: 'ENOSPC' });
-    await assert.rejects(mergeAndWrite(fs, P, () => fs.read(P), merge), /ENOSPC/);
+    await assert.rejects(
+      mergeAndWrite(fs, P, () => fs.read(P), merge),
+      /ENOSPC/,
+    );
     assert.equal(fs.files.get(P)!.text, 'old\n');
     assert.deepEqual(fs.temporaries(), []);
   });
@@ -106,7 +109,10 @@ describe('extension: safe writing of the annotations file (faults)', () => {
     const refuse = () => {
       throw new Error('not valid JSON');
     };
-    await assert.rejects(mergeAndWrite(fs, P, () => fs.read(P), refuse), /not valid JSON/);
+    await assert.rejects(
+      mergeAndWrite(fs, P, () => fs.read(P), refuse),
+      /not valid JSON/,
+    );
     assert.equal(fs.files.get(P)!.text, '{ broken');
     assert.deepEqual(fs.temporaries(), []);
   });

@@ -24,7 +24,11 @@ describe('protocol: validation of messages from the webview', () => {
       { type: 'requestWindowScan', requestId: 1, spin: 1, kIndex: 0, band0: 0, method: 'kane' },
       { type: 'requestWindowScan', requestId: 1, spin: 0, kIndex: 0, band0: 0, method: 'fd5', windows_meV: [10, 20, 40] },
       { type: 'save', entries: [] },
-      { type: 'save', entries: [{ spin: 0, kIndex: 3, band0: 4, window_meV: 30, method: 'poly4', note: 'heavy along L' }], notes: 'run looks fine' },
+      {
+        type: 'save',
+        entries: [{ spin: 0, kIndex: 3, band0: 4, window_meV: 30, method: 'poly4', note: 'heavy along L' }],
+        notes: 'run looks fine',
+      },
       { type: 'export', format: 'svg', data: '<svg xmlns="http://www.w3.org/2000/svg"></svg>', width: 800, height: 600 },
       { type: 'export', format: 'png', data: new Uint8Array([0x89, 0x50]), width: 2400, height: 1800 },
       { type: 'export', format: 'png', data: new ArrayBuffer(8), width: 10, height: 10 },
@@ -66,7 +70,15 @@ describe('protocol: validation of messages from the webview', () => {
       { ...fit, __proto__: { polluted: true }, extra: 1 },
       { type: 'requestWindowScan', requestId: 1, spin: 0, kIndex: 0, band0: 0, method: 'kane', windows_meV: [] },
       { type: 'requestWindowScan', requestId: 1, spin: 0, kIndex: 0, band0: 0, method: 'kane', windows_meV: [10, -1] },
-      { type: 'requestWindowScan', requestId: 1, spin: 0, kIndex: 0, band0: 0, method: 'kane', windows_meV: new Array(MESSAGE_LIMITS.maxScanWindows + 1).fill(10) },
+      {
+        type: 'requestWindowScan',
+        requestId: 1,
+        spin: 0,
+        kIndex: 0,
+        band0: 0,
+        method: 'kane',
+        windows_meV: new Array(MESSAGE_LIMITS.maxScanWindows + 1).fill(10),
+      },
       { type: 'save' },
       { type: 'save', entries: {} },
       { type: 'save', entries: [{ spin: 0, kIndex: 3, band0: 4, window_meV: 30, method: 'poly4', path: '/etc/passwd' }] },
@@ -89,10 +101,19 @@ describe('protocol: validation of messages from the webview', () => {
 
   it('never throws on arbitrary JSON-like input (fast-check, fixed seed)', () => {
     fc.assert(
-      fc.property(fc.oneof(fc.anything(), fc.record({ type: fc.constantFrom('ready', 'requestFit', 'save', 'export', 'openFile', 'viewError', 'requestWindowScan') }, { requiredKeys: [] })), (x) => {
-        const r = isViewToHostMessage(x);
-        assert.equal(typeof r, 'boolean');
-      }),
+      fc.property(
+        fc.oneof(
+          fc.anything(),
+          fc.record(
+            { type: fc.constantFrom('ready', 'requestFit', 'save', 'export', 'openFile', 'viewError', 'requestWindowScan') },
+            { requiredKeys: [] },
+          ),
+        ),
+        (x) => {
+          const r = isViewToHostMessage(x);
+          assert.equal(typeof r, 'boolean');
+        },
+      ),
       { seed: 20261201, numRuns: 500 },
     );
   });
@@ -105,7 +126,7 @@ describe('protocol: validation of messages from the webview', () => {
 });
 
 describe('protocol: compact arrays', () => {
-  it('base64 agrees with Node\'s Buffer encoder (a general-purpose reference) on random bytes', () => {
+  it("base64 agrees with Node's Buffer encoder (a general-purpose reference) on random bytes", () => {
     fc.assert(
       fc.property(fc.uint8Array({ maxLength: 200 }), (bytes) => {
         const ref = Buffer.from(bytes).toString('base64');

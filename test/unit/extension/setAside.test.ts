@@ -13,7 +13,7 @@ import { setAsideAt } from '../../../webview/bandView/setAside';
 import { loadSi } from './demoRun';
 
 describe('set-aside candidates in the band view data', () => {
-  it('the crossing at X is listed as set aside, and the drawn arrays\' local minimum there is not offered', async () => {
+  it("the crossing at X is listed as set aside, and the drawn arrays' local minimum there is not offered", async () => {
     const { bs, report, geometry } = await loadSi();
     const d = buildBandData(bs, report, geometry, 'EIGENVAL', DEFAULT_SETTINGS, 'vbm');
     const crossing = (d.setAside ?? []).find((m) => m.reason === 'crossing');

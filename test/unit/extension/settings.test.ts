@@ -40,7 +40,9 @@ describe('extension: settings', () => {
   });
 
   it('offers in package.json the settings it reads, with the same defaults', async () => {
-    const pkg = JSON.parse(readFileSync(join(__dirname, '../../../package.json'), 'utf8')) as { contributes: { configuration: { properties: Record<string, { default: unknown; enum?: string[] }> } } };
+    const pkg = JSON.parse(readFileSync(join(__dirname, '../../../package.json'), 'utf8')) as {
+      contributes: { configuration: { properties: Record<string, { default: unknown; enum?: string[] }> } };
+    };
     const props = pkg.contributes.configuration.properties;
     for (const key of Object.values(SETTING_KEYS)) assert.ok(props[`valleyscope.${key}`], key);
     assert.equal(props['valleyscope.fit.window_meV']!.default, DEFAULT_SETTINGS.window_meV);

@@ -48,7 +48,10 @@ describe('extension: outline of an eigenvalue file', () => {
     const kl = Int32Array.from({ length: n }, (_, i) => i);
     const tree = buildSymbolTree(bs, pathGeometry(bs), kl, n - 1);
     assert.equal(tree.length, 1);
-    assert.deepEqual(tree[0]!.children.map((c) => c.name), ['Γ (k 1)', `X (k ${n})`]);
+    assert.deepEqual(
+      tree[0]!.children.map((c) => c.name),
+      ['Γ (k 1)', `X (k ${n})`],
+    );
   });
 
   it('gives a single group for a uniform grid and nothing when no k-point line was found', () => {

@@ -58,12 +58,19 @@ for (const scheme of ['file', 'vscode-vfs']) {
     };
 
     it('refuses a FIFO or device companion by type, without reading it', async () => {
-      for (const plant of [(p: string) => mkfifo(p), (p: string) => symlinkSync('/dev/zero', p), (p: string) => symlinkSync(outsideFifo, p)]) {
+      for (const plant of [
+        (p: string) => mkfifo(p),
+        (p: string) => symlinkSync('/dev/zero', p),
+        (p: string) => symlinkSync(outsideFifo, p),
+      ]) {
         const d = fresh();
         rmSync(join(d, 'POSCAR'));
         plant(join(d, 'POSCAR'));
         stub.readLog.length = 0;
-        await assert.rejects(loadRun(accessorFor(d, scheme), d), (e: unknown) => noQuote(e) && /POSCAR.*(FIFO|device|not a regular file|outside the run's folder)/.test((e as Error).message));
+        await assert.rejects(
+          loadRun(accessorFor(d, scheme), d),
+          (e: unknown) => noQuote(e) && /POSCAR.*(FIFO|device|not a regular file|outside the run's folder)/.test((e as Error).message),
+        );
         assert.ok(!stub.readLog.some((p) => p.endsWith('POSCAR')), 'the companion was never read');
       }
     });
@@ -80,7 +87,10 @@ for (const scheme of ['file', 'vscode-vfs']) {
         const d = fresh();
         rmSync(join(d, 'POSCAR'));
         symlinkSync(sentinel, join(d, 'POSCAR'));
-        await assert.rejects(loadRun(accessorFor(d, scheme), d), (e: unknown) => noQuote(e) && /outside the run's folder/.test((e as Error).message));
+        await assert.rejects(
+          loadRun(accessorFor(d, scheme), d),
+          (e: unknown) => noQuote(e) && /outside the run's folder/.test((e as Error).message),
+        );
         const ok = fresh();
         mkdirSync(join(ok, 'cell'));
         writeFileSync(join(ok, 'cell', 'POSCAR'), readFileSync(join(ok, 'POSCAR')));

@@ -24,13 +24,15 @@ function tightBindingGrid(n: number): { text: string; bands: Float64Array[] } {
   const v = new Float64Array(nk);
   const c = new Float64Array(nk);
   let p = 0;
-  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) for (let l = 0; l < n; l++) {
-    const f = [i / (n - 1), j / (n - 1), l / (n - 1)];
-    const s = f.reduce((acc, x, a) => acc + 2 * T[a]! * (1 - Math.cos(2 * Math.PI * x)), 0);
-    v[p] = -1 - 0.5 * s;
-    c[p] = 1 + s;
-    p++;
-  }
+  for (let i = 0; i < n; i++)
+    for (let j = 0; j < n; j++)
+      for (let l = 0; l < n; l++) {
+        const f = [i / (n - 1), j / (n - 1), l / (n - 1)];
+        const s = f.reduce((acc, x, a) => acc + 2 * T[a]! * (1 - Math.cos(2 * Math.PI * x)), 0);
+        v[p] = -1 - 0.5 * s;
+        c[p] = 1 + s;
+        p++;
+      }
   const reciprocal = reciprocalLattice(orthorhombicLattice(...A));
   return { text: writeBxsf({ fermiEnergy: 0, dims: [n, n, n], reciprocal, bands: [v, c] }), bands: [v, c] };
 }
@@ -78,7 +80,10 @@ describe('BXSF band grid reader', () => {
   it('refuses a grid whose header announces more values than the file holds, and marks a cut file partial on request', () => {
     const text = tightBindingGrid(5).text;
     const cut = text.slice(0, Math.floor(text.length * 0.8));
-    assert.throws(() => readBxsf(file(cut)), (e: unknown) => e instanceof ReaderError && e.line > 0 && /truncated/.test(e.reason));
+    assert.throws(
+      () => readBxsf(file(cut)),
+      (e: unknown) => e instanceof ReaderError && e.line > 0 && /truncated/.test(e.reason),
+    );
     const bs = bxsfReader.read(file(cut), [], { allowPartial: true });
     assert.equal(bs.partial, true);
     assert.equal(bs.nBands, 1);
@@ -87,7 +92,10 @@ describe('BXSF band grid reader', () => {
 
   it('refuses overflow fields with a sentence naming the line', () => {
     const text = tightBindingGrid(3).text.replace(/(BAND:\s+1\n)(\s*\S+)/, '$1 ***************');
-    assert.throws(() => readBxsf(file(text)), (e: unknown) => e instanceof ReaderError && /overflowed/.test(e.reason) && e.line > 10);
+    assert.throws(
+      () => readBxsf(file(text)),
+      (e: unknown) => e instanceof ReaderError && /overflowed/.test(e.reason) && e.line > 10,
+    );
   });
 
   it("ABINIT's variant: Hartree, reciprocal vectors without the 2π, fractional origin, spins interleaved", () => {

@@ -26,11 +26,13 @@ function grid(n: number, repeated: boolean, fermiEnergy = 0): Pick<BxsfContent, 
   const v = new Float64Array(n ** 3);
   const c = new Float64Array(n ** 3);
   let p = 0;
-  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) for (let l = 0; l < n; l++) {
-    const s = [i / d, j / d, l / d].reduce((acc, x, a) => acc + 2 * T[a]! * (1 - Math.cos(2 * Math.PI * x)), 0);
-    v[p] = -1 - 0.5 * s;
-    c[p++] = 1 + s;
-  }
+  for (let i = 0; i < n; i++)
+    for (let j = 0; j < n; j++)
+      for (let l = 0; l < n; l++) {
+        const s = [i / d, j / d, l / d].reduce((acc, x, a) => acc + 2 * T[a]! * (1 - Math.cos(2 * Math.PI * x)), 0);
+        v[p] = -1 - 0.5 * s;
+        c[p++] = 1 + s;
+      }
   return { fermiEnergy, dims: [n, n, n], reciprocal: reciprocalLattice(LATTICE), bands: [v, c] };
 }
 
@@ -48,7 +50,13 @@ function cbmMasses(text: string, options: ReadOptions): { masses: number[]; band
 
 describe('BXSF header variants and units', () => {
   const variants: { name: string; content: BxsfContent; options: ReadOptions; band: number; unitNote: RegExp | null }[] = [
-    { name: 'Wannier90 header, Å⁻¹ with 2π, end points repeated', content: { ...grid(25, true) }, options: { structure: STRUCTURE }, band: 2, unitNote: /Å⁻¹ including 2π/ },
+    {
+      name: 'Wannier90 header, Å⁻¹ with 2π, end points repeated',
+      content: { ...grid(25, true) },
+      options: { structure: STRUCTURE },
+      band: 2,
+      unitNote: /Å⁻¹ including 2π/,
+    },
     {
       name: 'fs.x header (BANDGRID_3D_BANDS), 2π/alat, bands numbered 3–4',
       content: { ...grid(25, true), style: 'fs.x', units: 'two-pi-over-alat', alat: 4, firstBand: 3 },
@@ -56,13 +64,26 @@ describe('BXSF header variants and units', () => {
       band: 4,
       unitNote: /2π\/alat/,
     },
-    { name: 'Å⁻¹ without the 2π, end points not repeated (24 distinct points)', content: { ...grid(24, false), units: 'angstrom' }, options: { structure: STRUCTURE }, band: 2, unitNote: /without the 2π/ },
-    { name: 'fs.x header with --alat and no structure: 2π/alat assumed', content: { ...grid(25, true), style: 'fs.x', units: 'two-pi-over-alat', alat: 4 }, options: { alatAngstrom: 4 }, band: 2, unitNote: /assumed in units of 2π\/alat/ },
+    {
+      name: 'Å⁻¹ without the 2π, end points not repeated (24 distinct points)',
+      content: { ...grid(24, false), units: 'angstrom' },
+      options: { structure: STRUCTURE },
+      band: 2,
+      unitNote: /without the 2π/,
+    },
+    {
+      name: 'fs.x header with --alat and no structure: 2π/alat assumed',
+      content: { ...grid(25, true), style: 'fs.x', units: 'two-pi-over-alat', alat: 4 },
+      options: { alatAngstrom: 4 },
+      band: 2,
+      unitNote: /assumed in units of 2π\/alat/,
+    },
   ];
   const reference = cbmMasses(writeBxsf(variants[0]!.content), variants[0]!.options).masses;
 
   it('the reference variant gives the analytic principal masses within 3 % (tight-binding model)', () => {
-    for (let i = 0; i < 3; i++) assert.ok(Math.abs(reference[i]! - EXPECTED[i]!) / EXPECTED[i]! < 0.03, `${reference[i]} vs ${EXPECTED[i]}`);
+    for (let i = 0; i < 3; i++)
+      assert.ok(Math.abs(reference[i]! - EXPECTED[i]!) / EXPECTED[i]! < 0.03, `${reference[i]} vs ${EXPECTED[i]}`);
   });
 
   for (const v of variants) {
@@ -70,9 +91,14 @@ describe('BXSF header variants and units', () => {
       const text = writeBxsf(v.content);
       const got = cbmMasses(text, v.options);
       // Same k-points and energies in every variant (written to 8 significant digits): same masses.
-      for (let i = 0; i < 3; i++) assert.ok(Math.abs(got.masses[i]! - reference[i]!) < 1e-4 * reference[i]!, `${got.masses[i]} vs ${reference[i]}`);
+      for (let i = 0; i < 3; i++)
+        assert.ok(Math.abs(got.masses[i]! - reference[i]!) < 1e-4 * reference[i]!, `${got.masses[i]} vs ${reference[i]}`);
       assert.equal(got.band, v.band);
-      if (v.unitNote) assert.ok(got.warnings.some((w) => v.unitNote!.test(w)), got.warnings.join(' | '));
+      if (v.unitNote)
+        assert.ok(
+          got.warnings.some((w) => v.unitNote!.test(w)),
+          got.warnings.join(' | '),
+        );
     });
   }
 

@@ -54,7 +54,13 @@ describe('files cut at any byte, read with allowPartial', () => {
       assert.equal(d.partial, true, `cut at byte ${at}`);
       assert.equal(d.nk, whole.nk);
       assert.ok(d.nBands < whole.nBands);
-      for (let k = 0; k < d.nk; k++) for (let b = 0; b < d.nBands; b++) assert.equal(d.energies[k * d.nBands + b], whole.energies[k * whole.nBands + b], `cut at byte ${at}: point ${k + 1}, band ${b + 1}`);
+      for (let k = 0; k < d.nk; k++)
+        for (let b = 0; b < d.nBands; b++)
+          assert.equal(
+            d.energies[k * d.nBands + b],
+            whole.energies[k * whole.nBands + b],
+            `cut at byte ${at}: point ${k + 1}, band ${b + 1}`,
+          );
     }
     assert.ok(kept > 3, `${kept} cuts gave partial data`);
   });
@@ -83,7 +89,8 @@ describe('files cut at any byte, read with allowPartial', () => {
           for (let q = 0; q < whole.nk && j < 0; q++) if ([0, 1, 2].every((c) => whole.kpoints[3 * q + c] === d.kpoints[3 * k + c])) j = q;
           assert.ok(j >= 0, `cut at byte ${at}: k-point ${k + 1} is not one of the file's`);
           // ...with exactly its energies.
-          for (let b = 0; b < nb; b++) assert.equal(d.energies[0]![k * nb + b], whole.energies[0]![j * nb + b], `cut at byte ${at}: k-point ${k + 1}, band ${b + 1}`);
+          for (let b = 0; b < nb; b++)
+            assert.equal(d.energies[0]![k * nb + b], whole.energies[0]![j * nb + b], `cut at byte ${at}: k-point ${k + 1}, band ${b + 1}`);
         }
       }
       assert.ok(kept > 10, `${kept} cuts gave partial data`);

@@ -22,7 +22,14 @@ import { FE_A, freeElectronFermi } from '../../support/metalModels';
 import { HBAR2_OVER_ME_EV_A2 } from '../../../src/core/units';
 import { writeCastepBands } from '../../support/writers/castep';
 import { writeWannier90 } from '../../support/writers/wannier90';
-import { freeElectronMetal, halfMetal, smearedFreeElectronMetal, smearedOccupations, smearedSemiconductor, twoBandSemimetal } from '../../support/metalModels';
+import {
+  freeElectronMetal,
+  halfMetal,
+  smearedFreeElectronMetal,
+  smearedOccupations,
+  smearedSemiconductor,
+  twoBandSemimetal,
+} from '../../support/metalModels';
 
 const root = mkdtempSync(join(tmpdir(), 'vs-metals-'));
 let n = 0;
@@ -34,7 +41,15 @@ async function analyzeRun(files: Record<string, string>, main?: string): Promise
   return analyzeBandStructure(bs);
 }
 
-type Layout = { name: string; occupations: boolean; fermi: boolean; count: boolean; spin2: boolean; main?: string; write: (bs: BandStructure) => Record<string, string> };
+type Layout = {
+  name: string;
+  occupations: boolean;
+  fermi: boolean;
+  count: boolean;
+  spin2: boolean;
+  main?: string;
+  write: (bs: BandStructure) => Record<string, string>;
+};
 
 const LAYOUTS: Layout[] = [
   {
@@ -43,11 +58,36 @@ const LAYOUTS: Layout[] = [
     fermi: false,
     count: true,
     spin2: true,
-    write: (bs) => ({ EIGENVAL: writeEigenval({ system: 'model', nIons: 1, electrons: bs.electrons ?? 0, nBands: bs.nBands, kpoints: bs.kpoints, energies: bs.energies, occupations: bs.occupations as Float64Array[] | null, lattice: bs.lattice! }) }),
+    write: (bs) => ({
+      EIGENVAL: writeEigenval({
+        system: 'model',
+        nIons: 1,
+        electrons: bs.electrons ?? 0,
+        nBands: bs.nBands,
+        kpoints: bs.kpoints,
+        energies: bs.energies,
+        occupations: bs.occupations as Float64Array[] | null,
+        lattice: bs.lattice!,
+      }),
+    }),
   },
   { name: 'vasprun.xml', occupations: true, fermi: true, count: true, spin2: true, write: (bs) => ({ 'vasprun.xml': writeVasprun(bs) }) },
-  { name: 'pw.x XML', occupations: true, fermi: true, count: true, spin2: true, write: (bs) => ({ 'data-file-schema.xml': writeQeXml(bs, { occupationsKind: bs.occupations ? 'smearing' : 'fixed' }) }) },
-  { name: 'CASTEP .bands', occupations: false, fermi: true, count: true, spin2: true, write: (bs) => ({ 'model.bands': writeCastepBands(bs) }) },
+  {
+    name: 'pw.x XML',
+    occupations: true,
+    fermi: true,
+    count: true,
+    spin2: true,
+    write: (bs) => ({ 'data-file-schema.xml': writeQeXml(bs, { occupationsKind: bs.occupations ? 'smearing' : 'fixed' }) }),
+  },
+  {
+    name: 'CASTEP .bands',
+    occupations: false,
+    fermi: true,
+    count: true,
+    spin2: true,
+    write: (bs) => ({ 'model.bands': writeCastepBands(bs) }),
+  },
   {
     // bands.x rounds energies to 1 meV and takes the Fermi energy and count from the pw.x data file beside it.
     name: 'bands.x output with the data file',
@@ -56,7 +96,10 @@ const LAYOUTS: Layout[] = [
     count: true,
     spin2: false,
     main: 'model.bands.dat',
-    write: (bs) => ({ 'model.bands.dat': writeBandsx(bs, Math.hypot(...bs.lattice![0])), 'model.xml': writeQeXml({ ...bs, occupations: null }) }),
+    write: (bs) => ({
+      'model.bands.dat': writeBandsx(bs, Math.hypot(...bs.lattice![0])),
+      'model.xml': writeQeXml({ ...bs, occupations: null }),
+    }),
   },
   {
     name: 'Wannier90 band.dat',
@@ -109,7 +152,11 @@ describe('model metals through every layout', () => {
           const bs = halfMetal();
           const r = await analyzeIn(l, l.write(asWritten(bs, l)));
           assert.equal(r.metal, true, r.classificationReason);
-          assert.deepEqual(r.spinChannels?.map((c) => c.metal), [true, false], r.classificationReason);
+          assert.deepEqual(
+            r.spinChannels?.map((c) => c.metal),
+            [true, false],
+            r.classificationReason,
+          );
         });
       }
 
@@ -130,10 +177,12 @@ describe('model metals through every layout', () => {
     const bands = [0, 1, -1].map((sh) => {
       const out = new Float64Array(n ** 3);
       let p = 0;
-      for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) for (let l = 0; l < n; l++) {
-        const k = [i / (n - 1), j / (n - 1), l / (n - 1)].map((f) => (f > 0.5 ? f - 1 : f) * g);
-        out[p++] = (HBAR2_OVER_ME_EV_A2 / 2) * ((k[0]! + sh * g) ** 2 + k[1]! ** 2 + k[2]! ** 2);
-      }
+      for (let i = 0; i < n; i++)
+        for (let j = 0; j < n; j++)
+          for (let l = 0; l < n; l++) {
+            const k = [i / (n - 1), j / (n - 1), l / (n - 1)].map((f) => (f > 0.5 ? f - 1 : f) * g);
+            out[p++] = (HBAR2_OVER_ME_EV_A2 / 2) * ((k[0]! + sh * g) ** 2 + k[1]! ** 2 + k[2]! ** 2);
+          }
       return out;
     });
     // Sort per point so bands are numbered by energy, as codes write them.
@@ -141,7 +190,9 @@ describe('model metals through every layout', () => {
       const row = bands.map((b) => b[p]!).sort((a, b) => a - b);
       row.forEach((e, b) => (bands[b]![p] = e));
     }
-    const r = await analyzeRun({ 'fermi.bxsf': writeBxsf({ fermiEnergy: freeElectronFermi(1, FE_A), dims: [n, n, n], reciprocal: rec, bands }) });
+    const r = await analyzeRun({
+      'fermi.bxsf': writeBxsf({ fermiEnergy: freeElectronFermi(1, FE_A), dims: [n, n, n], reciprocal: rec, bands }),
+    });
     assert.equal(r.metal, true, r.classificationReason);
     assert.deepEqual(r.crossingBands, [1]);
     assert.equal(r.semimetal, false);
@@ -158,7 +209,17 @@ describe('model metals through every layout', () => {
 
   it('EIGENVAL without occupations: an odd count (3) without spin polarisation is a metal', async () => {
     const bs = freeElectronMetal(3);
-    const r = await analyzeRun({ EIGENVAL: writeEigenval({ system: 'model', nIons: 1, electrons: 3, nBands: bs.nBands, kpoints: bs.kpoints, energies: bs.energies, lattice: bs.lattice! }) });
+    const r = await analyzeRun({
+      EIGENVAL: writeEigenval({
+        system: 'model',
+        nIons: 1,
+        electrons: 3,
+        nBands: bs.nBands,
+        kpoints: bs.kpoints,
+        energies: bs.energies,
+        lattice: bs.lattice!,
+      }),
+    });
     assert.equal(r.metal, true);
     assert.match(r.classificationReason, /3 electrons without spin polarisation .* fill 1.5 bands/);
   });

@@ -52,7 +52,10 @@ describe('detection by content', () => {
 describe('XML safety (vasprun.xml and pw.x XML)', () => {
   it('refuses a DOCTYPE with an entity expansion bomb, naming the line', () => {
     throwsReader(() => vasprunReader.read(f('vasprun.xml', writeVasprun(model, { doctype: true })), [], {}), /document type/, 2);
-    const qe = writeQeXml(model, { alat: 4 }).replace('<qes:espresso', '<!DOCTYPE q [<!ENTITY x SYSTEM "file:///etc/passwd">]>\n<qes:espresso');
+    const qe = writeQeXml(model, { alat: 4 }).replace(
+      '<qes:espresso',
+      '<!DOCTYPE q [<!ENTITY x SYSTEM "file:///etc/passwd">]>\n<qes:espresso',
+    );
     throwsReader(() => qeXmlReader.read(f('pw.xml', qe), [], {}), /document type/, 2);
   });
   it('refuses undefined entities and deep nesting', () => {
@@ -111,15 +114,43 @@ describe('pw.x XML data file', () => {
   });
   it('lists the symmetry operations and cross-checks them against the symmetry library', async () => {
     await ensureSymmetryReady();
-    const id: Mat3 = [[1, 0, 0], [0, 1, 0], [0, 0, 1]];
-    const mirrors: Mat3[] = [id, [[-1, 0, 0], [0, 1, 0], [0, 0, 1]], [[1, 0, 0], [0, -1, 0], [0, 0, 1]], [[1, 0, 0], [0, 1, 0], [0, 0, -1]]];
+    const id: Mat3 = [
+      [1, 0, 0],
+      [0, 1, 0],
+      [0, 0, 1],
+    ];
+    const mirrors: Mat3[] = [
+      id,
+      [
+        [-1, 0, 0],
+        [0, 1, 0],
+        [0, 0, 1],
+      ],
+      [
+        [1, 0, 0],
+        [0, -1, 0],
+        [0, 0, 1],
+      ],
+      [
+        [1, 0, 0],
+        [0, 1, 0],
+        [0, 0, -1],
+      ],
+    ];
     // One atom in an orthorhombic cell: point group mmm, 8 operations (International Tables, Vol. A).
     const all = readQeXml(f('pw.xml', writeQeXml(model, { alat: 4, symmetries: mirrors })));
     assert.equal(all.symmetries.length, 4);
     assert.deepEqual(all.symmetries[1]!.rotation, mirrors[1]);
     const sub = qeXmlReader.read(f('pw.xml', writeQeXml(model, { alat: 4, symmetries: mirrors })), [], {});
-    assert.ok(sub.warnings.some((w) => w.code === 'symmetry-subgroup'), 'four of eight: a subgroup');
-    const wrong: Mat3 = [[0, 1, 0], [1, 0, 0], [0, 0, 1]]; // swaps a and b: not a symmetry of a 4 × 5 × 6 cell
+    assert.ok(
+      sub.warnings.some((w) => w.code === 'symmetry-subgroup'),
+      'four of eight: a subgroup',
+    );
+    const wrong: Mat3 = [
+      [0, 1, 0],
+      [1, 0, 0],
+      [0, 0, 1],
+    ]; // swaps a and b: not a symmetry of a 4 × 5 × 6 cell
     const bad = qeXmlReader.read(f('pw.xml', writeQeXml(model, { alat: 4, symmetries: [id, wrong] })), [], {});
     assert.ok(bad.warnings.some((w) => w.code === 'symmetry-mismatch'));
   });
@@ -163,9 +194,14 @@ describe('Wannier90 band.dat', () => {
     assert.deepEqual(bs.labels.map((l) => l.label).slice(0, 2), ['Γ', 'X']);
   });
   it('the closing blank line: optional after a last band as long as the first, required after a lone band', () => {
-    const two = '  0.00000000E+00 -0.10000000E+01\n  0.10000000E+00 -0.90000000E+00\n  \n  0.00000000E+00  0.10000000E+01\n  0.10000000E+00  0.11000000E+01\n';
+    const two =
+      '  0.00000000E+00 -0.10000000E+01\n  0.10000000E+00 -0.90000000E+00\n  \n  0.00000000E+00  0.10000000E+01\n  0.10000000E+00  0.11000000E+01\n';
     assert.equal(wannier90BandReader.read(f('m_band.dat', two), [], {}).nBands, 2);
-    throwsReader(() => wannier90BandReader.read(f('m_band.dat', '  0.00000000E+00 -0.10000000E+01\n  0.10000000E+00 -0.90000000E+00\n'), [], {}), /truncated/, 2);
+    throwsReader(
+      () => wannier90BandReader.read(f('m_band.dat', '  0.00000000E+00 -0.10000000E+01\n  0.10000000E+00 -0.90000000E+00\n'), [], {}),
+      /truncated/,
+      2,
+    );
   });
   it('a band with fewer points than the first is named', () => {
     const w = writeWannier90(model, {});
@@ -186,7 +222,11 @@ describe('CASTEP .bands', () => {
   it('a repeated k-point and a missing header line are named', () => {
     const text = writeCastepBands(model).replace('K-point    2', 'K-point    1');
     throwsReader(() => castepBandsReader.read(f('m.bands', text), [], {}), /appears twice/, 10);
-    throwsReader(() => castepBandsReader.read(f('m.bands', writeCastepBands(model).replace('Unit cell vectors', 'Cell')), [], {}), /Unit cell vectors/, 6);
+    throwsReader(
+      () => castepBandsReader.read(f('m.bands', writeCastepBands(model).replace('Unit cell vectors', 'Cell')), [], {}),
+      /Unit cell vectors/,
+      6,
+    );
   });
 });
 
@@ -196,7 +236,12 @@ describe('XML number scanning', () => {
     const { scanNumbers } = await import('../../../src/core/formats/numbers');
     fc.assert(
       fc.property(fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.integer({ min: 0, max: 15 }), (x, d) => {
-        for (const t of [x.toFixed(Math.min(d, 10)), x.toExponential(d), x.toExponential(d).replace('e', 'E'), x.toExponential(d).replace('e', 'D')]) {
+        for (const t of [
+          x.toFixed(Math.min(d, 10)),
+          x.toExponential(d),
+          x.toExponential(d).replace('e', 'E'),
+          x.toExponential(d).replace('e', 'D'),
+        ]) {
           const out = [0];
           const r = scanNumbers(`  ${t} `, out, 0, 1);
           assert.equal(r.bad, null, t);
@@ -207,6 +252,7 @@ describe('XML number scanning', () => {
       }),
       { seed: 42, numRuns: 300 },
     );
-    for (const bad of ['NaN', 'Infinity', '****', '1.0x', '0x10', '--1', '1e', '.']) assert.notEqual(scanNumbers(bad, [0], 0, 1).bad, null, bad);
+    for (const bad of ['NaN', 'Infinity', '****', '1.0x', '0x10', '--1', '1e', '.'])
+      assert.notEqual(scanNumbers(bad, [0], 0, 1).bad, null, bad);
   });
 });

@@ -32,7 +32,14 @@ function small(): BandStructure {
   const m = collinearModel();
   // Keep the first 12 k-points: small files keep the fuzzing fast.
   const nk = 12;
-  return { ...m, nk, kpoints: m.kpoints.slice(0, 3 * nk), energies: m.energies.map((e) => e.slice(0, nk * m.nBands)), occupations: m.occupations!.map((e) => e.slice(0, nk * m.nBands)), labels: m.labels.filter((l) => l.index < nk) };
+  return {
+    ...m,
+    nk,
+    kpoints: m.kpoints.slice(0, 3 * nk),
+    energies: m.energies.map((e) => e.slice(0, nk * m.nBands)),
+    occupations: m.occupations!.map((e) => e.slice(0, nk * m.nBands)),
+    labels: m.labels.filter((l) => l.index < nk),
+  };
 }
 
 const enc = (s: string): Uint8Array => new TextEncoder().encode(s);
@@ -47,10 +54,25 @@ const grid = (() => {
 
 const SAMPLES: { reader: FormatReader; name: string; text: string; companions?: InputFile[] }[] = [
   { reader: qeXmlReader, name: 'data-file-schema.xml', text: writeQeXml(model, { alat: 4 }) },
-  { reader: qeXmlReader, name: 'sp.xml', text: writeQeXml({ ...sp, nk: 4, kpoints: sp.kpoints.slice(0, 12), energies: sp.energies.map((e) => e.slice(0, 12)), occupations: null }, { alat: 4 }) },
+  {
+    reader: qeXmlReader,
+    name: 'sp.xml',
+    text: writeQeXml(
+      { ...sp, nk: 4, kpoints: sp.kpoints.slice(0, 12), energies: sp.energies.map((e) => e.slice(0, 12)), occupations: null },
+      { alat: 4 },
+    ),
+  },
   { reader: bandsxReader, name: 'bands.out', text: writeBandsx(model, 4) },
   { reader: vasprunReader, name: 'vasprun.xml', text: writeVasprun(model) },
-  { reader: wannier90BandReader, name: 'm_band.dat', text: w90.bandDat, companions: [{ path: 'm_band.kpt', bytes: enc(w90.kpt) }, { path: 'm.win', bytes: enc(w90.win) }] },
+  {
+    reader: wannier90BandReader,
+    name: 'm_band.dat',
+    text: w90.bandDat,
+    companions: [
+      { path: 'm_band.kpt', bytes: enc(w90.kpt) },
+      { path: 'm.win', bytes: enc(w90.win) },
+    ],
+  },
   { reader: bxsfReader, name: 'g.bxsf', text: grid },
   { reader: castepBandsReader, name: 'm.bands', text: writeCastepBands(model) },
 ];
@@ -79,7 +101,30 @@ type Mutation =
   | { kind: 'bom' };
 
 const junkText = fc.oneof(
-  fc.constantFrom('*******', 'NaN', '-Infinity', '1e999', '<', '>', '&amp;', '&foo;', '<!DOCTYPE x [<!ENTITY a "b">]>', '</', '\u0000\u0001', '\n\n', ' ', '-', '.', 'e', '0', '99999999', '-1', '<r>1 2 3</r>', 'K-point', 'BAND: 9'),
+  fc.constantFrom(
+    '*******',
+    'NaN',
+    '-Infinity',
+    '1e999',
+    '<',
+    '>',
+    '&amp;',
+    '&foo;',
+    '<!DOCTYPE x [<!ENTITY a "b">]>',
+    '</',
+    '\u0000\u0001',
+    '\n\n',
+    ' ',
+    '-',
+    '.',
+    'e',
+    '0',
+    '99999999',
+    '-1',
+    '<r>1 2 3</r>',
+    'K-point',
+    'BAND: 9',
+  ),
   fc.string({ maxLength: 12 }),
 );
 
@@ -137,7 +182,8 @@ describe('reader property tests: mutated and truncated inputs end in a typed err
               checkValid(s.reader.read({ path: s.name, bytes: enc(text) }, s.companions ?? [], { allowPartial }));
               valid++;
             } catch (e) {
-              if (!(e instanceof ValleyscopeError)) throw new Error(`not a typed error: ${String(e)} (${(e as Error)?.stack?.split('\n')[1] ?? ''})`);
+              if (!(e instanceof ValleyscopeError))
+                throw new Error(`not a typed error: ${String(e)} (${(e as Error)?.stack?.split('\n')[1] ?? ''})`);
               assert.ok(e.message.length > 10 && !/\n\s+at /.test(e.message), 'one sentence, no stack trace');
               errors++;
             }

@@ -14,7 +14,14 @@ import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
 import type { BandStructure, Report } from '../../../src/core/model';
 import type { ReadOptions } from '../../../src/core/formats/types';
 import { HBAR2_OVER_ME_EV_A2 } from '../../../src/core/units';
-import { MODEL_GAP_EV, MODEL_SPLIT_EV, MODEL_TC, collinearModel, spinOrbitModel, spinPolarisedModel } from '../../support/writers/roundTripModel';
+import {
+  MODEL_GAP_EV,
+  MODEL_SPLIT_EV,
+  MODEL_TC,
+  collinearModel,
+  spinOrbitModel,
+  spinPolarisedModel,
+} from '../../support/writers/roundTripModel';
 import { writeBandsx, writeQeXml } from '../../support/writers/qe';
 import { writeVasprun } from '../../support/writers/vasprun';
 import { writeCastepBands } from '../../support/writers/castep';
@@ -49,8 +56,16 @@ function checkGap(report: Report, tol: number, format: string): void {
   // Analytic model: 1.2 eV, indirect (VBM at Γ, CBM at X).
   assert.ok(Math.abs(report.gap.eV - MODEL_GAP_EV) <= tol, `${format}: gap ${report.gap.eV} eV, expected ${MODEL_GAP_EV} within ${tol}`);
   assert.equal(report.gap.direct, false, format);
-  assert.deepEqual(report.gap.vbm.k.map((x) => Math.round(x * 1e4) / 1e4 + 0), [0, 0, 0], `${format}: VBM at Γ`);
-  assert.deepEqual(report.gap.cbm.k.map((x) => Math.round(x * 1e4) / 1e4 + 0), [0.5, 0, 0], `${format}: CBM at X`);
+  assert.deepEqual(
+    report.gap.vbm.k.map((x) => Math.round(x * 1e4) / 1e4 + 0),
+    [0, 0, 0],
+    `${format}: VBM at Γ`,
+  );
+  assert.deepEqual(
+    report.gap.cbm.k.map((x) => Math.round(x * 1e4) / 1e4 + 0),
+    [0.5, 0, 0],
+    `${format}: CBM at X`,
+  );
 }
 
 describe('round trips through every layout (model → file → reader → analysis)', () => {
@@ -58,7 +73,13 @@ describe('round trips through every layout (model → file → reader → analys
   const alat = 4; // Å: |a1| of the orthorhombic model cell, pw.x's alat for CELL_PARAMETERS in Å (common practice)
 
   const cases: { name: string; files: () => Record<string, string>; main?: string; tol: number; format: string; massTol: number }[] = [
-    { name: 'pw.x XML data file', files: () => ({ 'data-file-schema.xml': writeQeXml(model, { alat }) }), tol: 1e-9, format: 'qe-xml', massTol: 0.002 },
+    {
+      name: 'pw.x XML data file',
+      files: () => ({ 'data-file-schema.xml': writeQeXml(model, { alat }) }),
+      tol: 1e-9,
+      format: 'qe-xml',
+      massTol: 0.002,
+    },
     {
       name: 'bands.x output with the XML beside it',
       files: () => ({ 'si.bands.dat': writeBandsx(model, alat), 'si.xml': writeQeXml(model, { alat }) }),
@@ -67,8 +88,32 @@ describe('round trips through every layout (model → file → reader → analys
       format: 'qe-bands',
       massTol: 0.03,
     },
-    { name: 'vasprun.xml', files: () => ({ 'vasprun.xml': writeVasprun(model, { generation: { divisions: 21, ends: [[0, 0, 0], [0.5, 0, 0], [0.5, 0, 0], [0.5, 0.5, 0]] } }) }), tol: 1.5e-4, format: 'vasprun-xml', massTol: 0.002 },
-    { name: 'CASTEP .bands', files: () => ({ 'model.bands': writeCastepBands(model, { order: [...Array(model.nk).keys()].reverse() }) }), tol: 1e-6, format: 'castep-bands', massTol: 0.002 },
+    {
+      name: 'vasprun.xml',
+      files: () => ({
+        'vasprun.xml': writeVasprun(model, {
+          generation: {
+            divisions: 21,
+            ends: [
+              [0, 0, 0],
+              [0.5, 0, 0],
+              [0.5, 0, 0],
+              [0.5, 0.5, 0],
+            ],
+          },
+        }),
+      }),
+      tol: 1.5e-4,
+      format: 'vasprun-xml',
+      massTol: 0.002,
+    },
+    {
+      name: 'CASTEP .bands',
+      files: () => ({ 'model.bands': writeCastepBands(model, { order: [...Array(model.nk).keys()].reverse() }) }),
+      tol: 1e-6,
+      format: 'castep-bands',
+      massTol: 0.002,
+    },
     {
       name: 'Wannier90 band.dat with .kpt, labelinfo and .win',
       files: () => {

@@ -37,7 +37,8 @@ describe('TextScanner', () => {
     sc.number('b');
     assert.throws(
       () => sc.number('the energy'),
-      (e: unknown) => e instanceof ReaderError && e.line === 2 && e.column === 7 && /overflowed/.test(e.message) && e.message.startsWith('f.txt:2:7'),
+      (e: unknown) =>
+        e instanceof ReaderError && e.line === 2 && e.column === 7 && /overflowed/.test(e.message) && e.message.startsWith('f.txt:2:7'),
     );
   });
 

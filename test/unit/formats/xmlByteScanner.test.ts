@@ -24,7 +24,13 @@ function scan(text: string, pieces: number[] = [text.length + 1], allowPartial =
   const seen: Seen = { opens: [], texts: [] };
   const sc: XmlByteScanner = new XmlByteScanner('t.xml', 'test', {
     open: (name, attrs) => {
-      seen.opens.push(attrs ? `${name}${Object.entries(attrs).map(([k, v]) => ` ${k}=${v}`).join('')}` : name);
+      seen.opens.push(
+        attrs
+          ? `${name}${Object.entries(attrs)
+              .map(([k, v]) => ` ${k}=${v}`)
+              .join('')}`
+          : name,
+      );
       return true;
     },
     close: (_name, _depth, text, length) => {
@@ -57,7 +63,9 @@ function fails(text: string, reason: RegExp, line?: number, pieces?: number[]): 
 
 describe('XmlByteScanner: XML rules', () => {
   it('reads elements, attributes (both quote kinds), text, comments, CDATA and processing instructions', () => {
-    const s = scan(`<?xml version="1.0" encoding="ISO-8859-1"?>\n<!-- head -->\n<a x="1" y='two'>\n <b>hi &lt;there&gt; &#65;&#x42;</b><?pi stuff?>\n <c><![CDATA[ 1 < 2 ]]></c>\n <d/>\n</a>\n`);
+    const s = scan(
+      `<?xml version="1.0" encoding="ISO-8859-1"?>\n<!-- head -->\n<a x="1" y='two'>\n <b>hi &lt;there&gt; &#65;&#x42;</b><?pi stuff?>\n <c><![CDATA[ 1 < 2 ]]></c>\n <d/>\n</a>\n`,
+    );
     assert.deepEqual(s.opens, ['a x=1 y=two', 'b', 'c', 'd']);
     // <a> holds elements, so it has no text of its own.
     assert.deepEqual(s.texts, ['hi <there> AB', ' 1 < 2 ', '']);
@@ -85,7 +93,8 @@ describe('XmlByteScanner: XML rules', () => {
 
 describe('XmlByteScanner: safety', () => {
   it('refuses a document type declaration, wherever the pieces are cut', () => {
-    const laughs = '<?xml version="1.0"?>\n<!DOCTYPE lolz [<!ENTITY lol "lol"><!ENTITY lol2 "&lol;&lol;&lol;&lol;">]>\n<lolz>&lol2;</lolz>\n';
+    const laughs =
+      '<?xml version="1.0"?>\n<!DOCTYPE lolz [<!ENTITY lol "lol"><!ENTITY lol2 "&lol;&lol;&lol;&lol;">]>\n<lolz>&lol2;</lolz>\n';
     for (const n of [1, 2, 3, 5, 8, 13, 1000]) fails(laughs, /document type/, 2, [n]);
     fails('<!DOCTYPE a SYSTEM "file:///etc/passwd">\n<a/>', /document type/, 1);
   });
@@ -115,7 +124,9 @@ function summary(d: VasprunData): unknown {
     energies: d.energies.map((e) => Array.from(e)),
     occupations: d.occupations?.map((o) => Array.from(o)) ?? null,
     kpoints: Array.from(d.kpoints),
-    structure: d.structure ? { lattice: d.structure.lattice, species: d.structure.species, positions: Array.from(d.structure.positions) } : null,
+    structure: d.structure
+      ? { lattice: d.structure.lattice, species: d.structure.species, positions: Array.from(d.structure.positions) }
+      : null,
     fermi: d.fermiEnergy,
     electrons: d.electrons,
     method: d.method,
@@ -144,13 +155,28 @@ function outcome(fn: () => VasprunData): unknown {
 }
 
 describe('VasprunStream: independent of where the pieces are cut', () => {
-  const good = enc(writeVasprun(spinPolarisedModel(), { generation: { divisions: 21, ends: [[0, 0, 0], [0.5, 0, 0]] }, projected: true, earlierStepShift: 1 }));
+  const good = enc(
+    writeVasprun(spinPolarisedModel(), {
+      generation: {
+        divisions: 21,
+        ends: [
+          [0, 0, 0],
+          [0.5, 0, 0],
+        ],
+      },
+      projected: true,
+      earlierStepShift: 1,
+    }),
+  );
   it('valid file: the same data for any cuts (property test, fixed seed)', () => {
     const whole = outcome(() => feed(good, [], good.length));
     assert.ok(!(whole as { error?: string }).error);
     fc.assert(
       fc.property(fc.array(fc.integer({ min: 0, max: good.length }), { maxLength: 40 }), (cuts) => {
-        assert.deepEqual(outcome(() => feed(good, cuts, good.length)), whole);
+        assert.deepEqual(
+          outcome(() => feed(good, cuts, good.length)),
+          whole,
+        );
       }),
       { seed: 20261202, numRuns: 40 },
     );
@@ -164,7 +190,10 @@ describe('VasprunStream: independent of where the pieces are cut', () => {
     assert.equal(whole.line, text.slice(0, at).split('\n').length, 'the line of the damaged row');
     fc.assert(
       fc.property(fc.array(fc.integer({ min: 0, max: damaged.length }), { maxLength: 20 }), (cuts) => {
-        assert.deepEqual(outcome(() => feed(damaged, cuts, damaged.length)), whole);
+        assert.deepEqual(
+          outcome(() => feed(damaged, cuts, damaged.length)),
+          whole,
+        );
       }),
       { seed: 20261203, numRuns: 30 },
     );
@@ -196,7 +225,10 @@ describe('vasprun.xml rows: the fast path and the general path agree', () => {
     const bad = `${text.slice(0, at)}<r> 1.0 2.0 3.0 </r>${text.slice(text.indexOf('</r>', at) + 4)}`;
     assert.throws(
       () => vasprunReader.read({ path: 'vasprun.xml', bytes: enc(bad) }, [], {}),
-      (e: unknown) => e instanceof ReaderError && /holds 3 numbers where the rows before hold 2/.test(e.reason) && e.line === text.slice(0, at).split('\n').length,
+      (e: unknown) =>
+        e instanceof ReaderError &&
+        /holds 3 numbers where the rows before hold 2/.test(e.reason) &&
+        e.line === text.slice(0, at).split('\n').length,
     );
   });
   it('a damaged k-point or weight is named with its line (the k-point list has a fast path too)', () => {
@@ -207,13 +239,19 @@ describe('vasprun.xml rows: the fast path and the general path agree', () => {
     const bad = `${text.slice(0, fifth)}<v> 0.1 0.2 </v>${text.slice(text.indexOf('</v>', fifth) + 4)}`;
     assert.throws(
       () => vasprunReader.read({ path: 'vasprun.xml', bytes: enc(bad) }, [], {}),
-      (e: unknown) => e instanceof ReaderError && /k-point 5 should hold 3 numbers, found 2/.test(e.reason) && e.line === text.slice(0, fifth).split('\n').length,
+      (e: unknown) =>
+        e instanceof ReaderError &&
+        /k-point 5 should hold 3 numbers, found 2/.test(e.reason) &&
+        e.line === text.slice(0, fifth).split('\n').length,
     );
     const w = text.indexOf('<v>', text.indexOf('name="weights"'));
     const badW = `${text.slice(0, w)}<v> NaN </v>${text.slice(text.indexOf('</v>', w) + 4)}`;
     assert.throws(
       () => vasprunReader.read({ path: 'vasprun.xml', bytes: enc(badW) }, [], {}),
-      (e: unknown) => e instanceof ReaderError && /the weight of k-point 1 should be a number, found "NaN"/.test(e.reason) && e.line === text.slice(0, w).split('\n').length,
+      (e: unknown) =>
+        e instanceof ReaderError &&
+        /the weight of k-point 1 should be a number, found "NaN"/.test(e.reason) &&
+        e.line === text.slice(0, w).split('\n').length,
     );
   });
   it('a k-point with a band missing is named, at the end of its set, whatever path read the sets before', () => {
@@ -224,7 +262,10 @@ describe('vasprun.xml rows: the fast path and the general path agree', () => {
     const endOfSet = bad.indexOf('</set>', at);
     assert.throws(
       () => vasprunReader.read({ path: 'vasprun.xml', bytes: enc(bad) }, [], {}),
-      (e: unknown) => e instanceof ReaderError && /k-point 5 lists 2 bands where the k-points before list 3/.test(e.reason) && e.line === bad.slice(0, endOfSet).split('\n').length,
+      (e: unknown) =>
+        e instanceof ReaderError &&
+        /k-point 5 lists 2 bands where the k-points before list 3/.test(e.reason) &&
+        e.line === bad.slice(0, endOfSet).split('\n').length,
     );
   });
 });

@@ -31,12 +31,35 @@ describe('an EIGENVAL of a mesh run, read and interpolated', function () {
     const nBands = 8;
     const solver = new EpmBandSolver(crystal);
     const energies = new Float64Array(nk * nBands);
-    for (let i = 0; i < nk; i++) energies.set(solver.bandsAt([kpoints[3 * i]!, kpoints[3 * i + 1]!, kpoints[3 * i + 2]!], nBands), i * nBands);
-    writeFileSync(join(dir, 'EIGENVAL'), writeEigenval({
-      system: 'Si model mesh', nIons: 2, electrons: 8, nBands, kpoints, weights, energies: [energies],
-      occupations: [insulatorOccupations(nk, nBands, 4)], lattice: crystal.lattice,
-    }));
-    writeFileSync(join(dir, 'POSCAR'), writePoscar({ comment: 'Si', lattice: crystal.lattice, species: ['Si'], counts: [2], positions: [[0, 0, 0], [0.25, 0.25, 0.25]] }));
+    for (let i = 0; i < nk; i++)
+      energies.set(solver.bandsAt([kpoints[3 * i]!, kpoints[3 * i + 1]!, kpoints[3 * i + 2]!], nBands), i * nBands);
+    writeFileSync(
+      join(dir, 'EIGENVAL'),
+      writeEigenval({
+        system: 'Si model mesh',
+        nIons: 2,
+        electrons: 8,
+        nBands,
+        kpoints,
+        weights,
+        energies: [energies],
+        occupations: [insulatorOccupations(nk, nBands, 4)],
+        lattice: crystal.lattice,
+      }),
+    );
+    writeFileSync(
+      join(dir, 'POSCAR'),
+      writePoscar({
+        comment: 'Si',
+        lattice: crystal.lattice,
+        species: ['Si'],
+        counts: [2],
+        positions: [
+          [0, 0, 0],
+          [0.25, 0.25, 0.25],
+        ],
+      }),
+    );
   });
   after(() => {
     if (dir) rmSync(dir, { recursive: true, force: true });

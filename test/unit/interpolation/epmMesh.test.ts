@@ -27,7 +27,13 @@ function model(kCart: Vec3, band: number): number {
   return solver.bandsAt(cartesianToFractional(kCart, crystal.lattice), band + 1)[band]!;
 }
 
-interface Reference { t: number; cbm: number; vbm: number; ml: number; mt: number }
+interface Reference {
+  t: number;
+  cbm: number;
+  vbm: number;
+  ml: number;
+  mt: number;
+}
 
 function denseReference(): Reference {
   // Γ–X along cartesian y for this primitive cell: X = (2π/a)(0, 1, 0).
@@ -44,7 +50,10 @@ function denseReference(): Reference {
   const k0: Vec3 = [0, t * unit, 0];
   const h = 0.005;
   const second = (d: Vec3): number =>
-    (model([k0[0] + h * d[0], k0[1] + h * d[1], k0[2] + h * d[2]], 4) - 2 * model(k0, 4) + model([k0[0] - h * d[0], k0[1] - h * d[1], k0[2] - h * d[2]], 4)) / (h * h);
+    (model([k0[0] + h * d[0], k0[1] + h * d[1], k0[2] + h * d[2]], 4) -
+      2 * model(k0, 4) +
+      model([k0[0] - h * d[0], k0[1] - h * d[1], k0[2] - h * d[2]], 4)) /
+    (h * h);
   return { t, cbm: e(t), vbm: model([0, 0, 0], 3), ml: curvatureToMass(second([0, 1, 0])), mt: curvatureToMass(second([1, 0, 0])) };
 }
 
@@ -57,7 +66,14 @@ function meshRun(n: number): MeshInterpolation {
     const e = solver.bandsAt([kpoints[3 * i]!, kpoints[3 * i + 1]!, kpoints[3 * i + 2]!], 8);
     for (let b = 0; b < 8; b++) bands[b]![i] = e[b]!;
   }
-  const made = MeshInterpolation.create({ lattice: crystal.lattice, kpoints, weights, bands, sym, specialPoints: specialPointMap(crystal.lattice, structure) });
+  const made = MeshInterpolation.create({
+    lattice: crystal.lattice,
+    kpoints,
+    weights,
+    bands,
+    sym,
+    specialPoints: specialPointMap(crystal.lattice, structure),
+  });
   assert.ok(made.run, made.reason ?? '');
   return made.run;
 }
@@ -84,9 +100,15 @@ describe('masses from an ordinary mesh run: silicon in the EPM model (Cohen & Be
     const [t1, t2, l] = [...cbm.masses].sort((x, y) => x - y) as [number, number, number];
     assert.ok(Math.abs(t1 / t2 - 1) < 1e-6, `${t1} ${t2}`);
     // The energy error is inside the quoted leave-one-out uncertainty.
-    assert.ok(Math.abs(cbm.energy_eV - ref.cbm) <= cbm.uncertainty.energy_eV, `${cbm.energy_eV - ref.cbm} vs ±${cbm.uncertainty.energy_eV}`);
+    assert.ok(
+      Math.abs(cbm.energy_eV - ref.cbm) <= cbm.uncertainty.energy_eV,
+      `${cbm.energy_eV - ref.cbm} vs ±${cbm.uncertainty.energy_eV}`,
+    );
     // A mass reported as determined must be within the limit of the dense reference; otherwise it is flagged.
-    for (const [m, r] of [[l, ref.ml], [t1, ref.mt]] as const) {
+    for (const [m, r] of [
+      [l, ref.ml],
+      [t1, ref.mt],
+    ] as const) {
       if (cbm.determined) assert.ok(Math.abs(m / r - 1) <= MASS_UNCERTAINTY_LIMIT, `${m} vs ${r} reported as determined`);
     }
     if (!cbm.determined) assert.ok(cbm.undeterminedReason && /too coarse/.test(cbm.undeterminedReason));
@@ -116,7 +138,6 @@ describe('masses from an ordinary mesh run: silicon in the EPM model (Cohen & Be
   });
 });
 
-
 /** Mesh run of another material of the model, bands 1–8. */
 function materialRun(material: EpmMaterial, n: number): { run: MeshInterpolation; solver: EpmBandSolver; lattice: typeof crystal.lattice } {
   const c = unstrainedCrystal(material);
@@ -130,7 +151,14 @@ function materialRun(material: EpmMaterial, n: number): { run: MeshInterpolation
     const e = s.bandsAt([kpoints[3 * i]!, kpoints[3 * i + 1]!, kpoints[3 * i + 2]!], 8);
     for (let b = 0; b < 8; b++) bands[b]![i] = e[b]!;
   }
-  const made = MeshInterpolation.create({ lattice: c.lattice, kpoints, weights, bands, sym, specialPoints: specialPointMap(c.lattice, st) });
+  const made = MeshInterpolation.create({
+    lattice: c.lattice,
+    kpoints,
+    weights,
+    bands,
+    sym,
+    specialPoints: specialPointMap(c.lattice, st),
+  });
   assert.ok(made.run, made.reason ?? '');
   return { run: made.run, solver: s, lattice: c.lattice };
 }
@@ -146,7 +174,10 @@ describe('mesh runs of germanium and gallium arsenide in the EPM model (Cohen & 
     const cbm = run.extrema(4, 'min').extrema[0]!;
     // L: every fractional component 0 or ±½ in the fcc primitive reciprocal basis (common practice).
     assert.equal(cbm.valleyDegeneracy, 4); // four L valleys (physics.md)
-    assert.ok(cbm.k.every((x) => Math.abs(Math.abs(x) - 0.5) < 1e-9 || Math.abs(x) < 1e-9), JSON.stringify(cbm.k));
+    assert.ok(
+      cbm.k.every((x) => Math.abs(Math.abs(x) - 0.5) < 1e-9 || Math.abs(x) < 1e-9),
+      JSON.stringify(cbm.k),
+    );
     assert.ok(Math.abs(cbm.energy_eV - s.bandsAt(cbm.k, 5)[4]!) < 1e-6);
     // Masses only when resolved and within the limit; otherwise flagged.
     if (!cbm.determined) assert.ok(cbm.undeterminedReason);
@@ -162,7 +193,9 @@ describe('mesh runs of germanium and gallium arsenide in the EPM model (Cohen & 
     const h = 0.005;
     const reference = curvatureToMass((e(h) - 2 * e(0) + e(-h)) / (h * h));
     assert.ok(Math.abs(cbm.energy_eV - e(0)) < 1e-6);
-    cbm.masses.forEach((m, i) => assert.ok(Math.abs(m - reference) <= cbm.uncertainty.masses[i]!, `${m} vs ${reference} ± ${cbm.uncertainty.masses[i]}`));
+    cbm.masses.forEach((m, i) =>
+      assert.ok(Math.abs(m - reference) <= cbm.uncertainty.masses[i]!, `${m} vs ${reference} ± ${cbm.uncertainty.masses[i]}`),
+    );
     if (cbm.determined) cbm.masses.forEach((m) => assert.ok(Math.abs(m / reference - 1) <= MASS_UNCERTAINTY_LIMIT));
   });
 });

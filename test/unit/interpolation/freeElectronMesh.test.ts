@@ -22,7 +22,11 @@ describe('a free-electron (empty-lattice) band sampled on an fcc mesh', function
     it(`${n}×${n}×${n}: minimum at Γ, isotropic, N_v = 1; m = 1 within ${100 * MASS_UNCERTAINTY_LIMIT} % or flagged`, () => {
       const a = 5.43;
       const h = a / 2;
-      const lattice: Mat3 = [[0, h, h], [h, 0, h], [h, h, 0]];
+      const lattice: Mat3 = [
+        [0, h, h],
+        [h, 0, h],
+        [h, h, 0],
+      ];
       const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
       const b = reciprocalLattice(lattice);
       const energy = (k: Vec3): number => {
@@ -48,7 +52,8 @@ describe('a free-electron (empty-lattice) band sampled on an fcc mesh', function
       assert.equal(gamma.valleyDegeneracy, 1);
       assert.ok(Math.abs(gamma.energy_eV) < 1e-9); // E(Γ) = 0, a mesh point (analytic)
       assert.ok(Math.max(...gamma.masses) - Math.min(...gamma.masses) < 1e-6 * Math.abs(gamma.masses[0]));
-      if (gamma.determined) for (const m of gamma.masses) assert.ok(Math.abs(m - 1) <= MASS_UNCERTAINTY_LIMIT, `${m} reported as determined`);
+      if (gamma.determined)
+        for (const m of gamma.masses) assert.ok(Math.abs(m - 1) <= MASS_UNCERTAINTY_LIMIT, `${m} reported as determined`);
       else assert.ok(gamma.undeterminedReason);
     });
   }

@@ -7,7 +7,11 @@ import { irreducibleMesh, recogniseMesh } from '../../../src/core/interpolation/
 // by the crystal's point group and time reversal: each irreducible point stands for the mesh points of its
 // star, and the weights are the star sizes over the mesh size (common practice).
 
-const fcc = (a: number): Mat3 => [[0, a / 2, a / 2], [a / 2, 0, a / 2], [a / 2, a / 2, 0]];
+const fcc = (a: number): Mat3 => [
+  [0, a / 2, a / 2],
+  [a / 2, 0, a / 2],
+  [a / 2, a / 2, 0],
+];
 
 describe('regular k-meshes: recognition and expansion by symmetry', () => {
   before(async () => {
@@ -34,10 +38,22 @@ describe('regular k-meshes: recognition and expansion by symmetry', () => {
   });
 
   it('a shifted 4×4×4 Monkhorst–Pack mesh of a simple cubic crystal is recognised with shift ½', () => {
-    const sym = crystalSymmetry({ lattice: [[3, 0, 0], [0, 3, 0], [0, 0, 3]], species: ['X'], positions: new Float64Array([0, 0, 0]) });
+    const sym = crystalSymmetry({
+      lattice: [
+        [3, 0, 0],
+        [0, 3, 0],
+        [0, 0, 3],
+      ],
+      species: ['X'],
+      positions: new Float64Array([0, 0, 0]),
+    });
     const { kpoints, weights } = irreducibleMesh([4, 4, 4], [0.5, 0.5, 0.5], sym.reciprocalPointGroup);
     // Written with integer multiplicities as a code's irreducible list does: the normalisation is free.
-    const rec = recogniseMesh(kpoints, weights.map((w) => Math.round(w * 64)), sym.reciprocalPointGroup);
+    const rec = recogniseMesh(
+      kpoints,
+      weights.map((w) => Math.round(w * 64)),
+      sym.reciprocalPointGroup,
+    );
     assert.ok(rec.mesh, rec.reason ?? '');
     assert.deepEqual(rec.mesh.divisions, [4, 4, 4]);
     assert.deepEqual(rec.mesh.shift, [0.5, 0.5, 0.5]);
@@ -72,13 +88,23 @@ describe('mesh interpolation refuses hostile band data with a reason', () => {
   });
   it('non-finite energies, a band of the wrong length', async () => {
     const { MeshInterpolation } = await import('../../../src/core/interpolation/meshInterpolation');
-    const lattice: Mat3 = [[3, 0, 0], [0, 3, 0], [0, 0, 3]];
+    const lattice: Mat3 = [
+      [3, 0, 0],
+      [0, 3, 0],
+      [0, 0, 3],
+    ];
     const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
     const { kpoints, weights } = irreducibleMesh([4, 4, 4], [0, 0, 0], sym.reciprocalPointGroup);
     const nk = kpoints.length / 3;
     const bad = new Float64Array(nk).fill(1);
     bad[1] = Infinity;
-    assert.match(MeshInterpolation.create({ lattice, kpoints, weights, bands: [new Float64Array(nk), bad], sym }).reason ?? '', /Band 2 has energies that are not finite/);
-    assert.match(MeshInterpolation.create({ lattice, kpoints, weights, bands: [new Float64Array(nk + 1)], sym }).reason ?? '', /Band 1 has/);
+    assert.match(
+      MeshInterpolation.create({ lattice, kpoints, weights, bands: [new Float64Array(nk), bad], sym }).reason ?? '',
+      /Band 2 has energies that are not finite/,
+    );
+    assert.match(
+      MeshInterpolation.create({ lattice, kpoints, weights, bands: [new Float64Array(nk + 1)], sym }).reason ?? '',
+      /Band 1 has/,
+    );
   });
 });

@@ -20,7 +20,11 @@ describe('smoothness-constrained star fit: exactness and minimum roughness', fun
   });
 
   it('a diamond 6×6×6 mesh with arbitrary energies: exact at the data, minimum roughness, leave-one-out exact at the rest', () => {
-    const lattice: Mat3 = [[0, 2.715, 2.715], [2.715, 0, 2.715], [2.715, 2.715, 0]];
+    const lattice: Mat3 = [
+      [0, 2.715, 2.715],
+      [2.715, 0, 2.715],
+      [2.715, 2.715, 0],
+    ];
     const sym = crystalSymmetry({ lattice, species: ['Si', 'Si'], positions: new Float64Array([0, 0, 0, 0.25, 0.25, 0.25]) });
     const { kpoints } = irreducibleMesh([6, 6, 6], [0, 0, 0], sym.reciprocalPointGroup);
     const n = kpoints.length / 3;
@@ -42,7 +46,10 @@ describe('smoothness-constrained star fit: exactness and minimum roughness', fun
       const si = starValues(basis, k(i));
       rows.push(Float64Array.from({ length: M - 1 }, (_, j) => si[j + 1]! - s0[j + 1]!));
     }
-    const g = Float64Array.from({ length: M - 1 }, (_, j) => roughness(basis.radius[j + 1]!, basis.radius[1]!) * interp.coefficients[j + 1]!);
+    const g = Float64Array.from(
+      { length: M - 1 },
+      (_, j) => roughness(basis.radius[j + 1]!, basis.radius[1]!) * interp.coefficients[j + 1]!,
+    );
     const r = rows.length;
     const gram = new Float64Array(r * r);
     const rhs = new Float64Array(r);
@@ -79,7 +86,11 @@ describe('smoothness-constrained star fit: exactness and minimum roughness', fun
   });
 
   it('the analytic gradient and Hessian agree with finite differences of the interpolant', () => {
-    const lattice: Mat3 = [[3, 0, 0], [0, 3.2, 0], [0, 0, 3.5]];
+    const lattice: Mat3 = [
+      [3, 0, 0],
+      [0, 3.2, 0],
+      [0, 0, 3.5],
+    ];
     const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
     const { kpoints } = irreducibleMesh([6, 6, 6], [0, 0, 0], sym.reciprocalPointGroup);
     const n = kpoints.length / 3;

@@ -14,7 +14,7 @@ import { HBAR2_OVER_ME_EV_A2 } from '../../../src/core/units';
 /** Deterministic points in [−½, ½)³ (a linear congruential sequence, so the test is repeatable). */
 function pseudoRandomK(count: number): Vec3[] {
   let s = 12345;
-  const next = (): number => ((s = (1103515245 * s + 12345) % 2147483648) / 2147483648) - 0.5;
+  const next = (): number => (s = (1103515245 * s + 12345) % 2147483648) / 2147483648 - 0.5;
   return Array.from({ length: count }, () => [next(), next(), next()] as Vec3);
 }
 
@@ -31,9 +31,14 @@ describe('star interpolation of tight-binding bands sampled on a mesh', function
   it('simple cubic, 16×16×16 mesh: values within 1e-6 of the band width at random k; masses at Γ and R to 2e-4', () => {
     const a = 3;
     const t = 0.5;
-    const lattice: Mat3 = [[a, 0, 0], [0, a, 0], [0, 0, a]];
+    const lattice: Mat3 = [
+      [a, 0, 0],
+      [0, a, 0],
+      [0, 0, a],
+    ];
     const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
-    const energy = (k: Vec3): number => -2 * t * (Math.cos(2 * Math.PI * k[0]) + Math.cos(2 * Math.PI * k[1]) + Math.cos(2 * Math.PI * k[2]));
+    const energy = (k: Vec3): number =>
+      -2 * t * (Math.cos(2 * Math.PI * k[0]) + Math.cos(2 * Math.PI * k[1]) + Math.cos(2 * Math.PI * k[2]));
     const { kpoints, weights } = irreducibleMesh([16, 16, 16], [0, 0, 0], sym.reciprocalPointGroup);
     const nk = kpoints.length / 3;
     const band = new Float64Array(nk);
@@ -57,10 +62,15 @@ describe('star interpolation of tight-binding bands sampled on a mesh', function
     // Isotropic single valley: both averaged masses equal the mass (their definitions, physics.md).
     assert.ok(Math.abs(gamma.dosMass! / mass - 1) < 2e-4 && Math.abs(gamma.conductivityMass! / mass - 1) < 2e-4);
     // The quoted uncertainty covers the actual error of the mass.
-    gamma.masses.forEach((m, i) => assert.ok(Math.abs(m - mass) <= gamma.uncertainty.masses[i]!, `${m - mass} vs ${gamma.uncertainty.masses[i]}`));
+    gamma.masses.forEach((m, i) =>
+      assert.ok(Math.abs(m - mass) <= gamma.uncertainty.masses[i]!, `${m - mass} vs ${gamma.uncertainty.masses[i]}`),
+    );
     const max = run.extrema(0, 'max').extrema;
     assert.equal(max.length, 1);
-    assert.deepEqual(max[0]!.k.map((x) => Math.abs(x)), [0.5, 0.5, 0.5]); // R, the band top (analytic)
+    assert.deepEqual(
+      max[0]!.k.map((x) => Math.abs(x)),
+      [0.5, 0.5, 0.5],
+    ); // R, the band top (analytic)
     for (const m of max[0]!.masses) assert.ok(Math.abs(m / -mass - 1) < 2e-4, String(m));
   });
 
@@ -68,11 +78,22 @@ describe('star interpolation of tight-binding bands sampled on a mesh', function
     const a = 5.43;
     const h = a / 2;
     const t = 0.3;
-    const lattice: Mat3 = [[0, h, h], [h, 0, h], [h, h, 0]];
+    const lattice: Mat3 = [
+      [0, h, h],
+      [h, 0, h],
+      [h, h, 0],
+    ];
     const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
     const b = reciprocalLattice(lattice);
     const neighbours: Vec3[] = [];
-    for (const s of [[0, 1, 1], [0, 1, -1], [1, 0, 1], [1, 0, -1], [1, 1, 0], [1, -1, 0]]) {
+    for (const s of [
+      [0, 1, 1],
+      [0, 1, -1],
+      [1, 0, 1],
+      [1, 0, -1],
+      [1, 1, 0],
+      [1, -1, 0],
+    ]) {
       neighbours.push(s.map((x) => x * h) as Vec3, s.map((x) => -x * h) as Vec3);
     }
     const energy = (k: Vec3): number => {
@@ -99,11 +120,19 @@ describe('star interpolation of tight-binding bands sampled on a mesh', function
     const c = 4;
     const t = 0.4;
     const tz = 0.1;
-    const lattice: Mat3 = [[a, 0, 0], [-a / 2, (Math.sqrt(3) / 2) * a, 0], [0, 0, c]];
+    const lattice: Mat3 = [
+      [a, 0, 0],
+      [-a / 2, (Math.sqrt(3) / 2) * a, 0],
+      [0, 0, c],
+    ];
     const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
     assert.equal(sym.pointGroup.length, 24); // 6/mmm (International Tables)
     const b = reciprocalLattice(lattice);
-    const inPlane: Vec3[] = [[a, 0, 0], [-a / 2, (Math.sqrt(3) / 2) * a, 0], [a / 2, (Math.sqrt(3) / 2) * a, 0]];
+    const inPlane: Vec3[] = [
+      [a, 0, 0],
+      [-a / 2, (Math.sqrt(3) / 2) * a, 0],
+      [a / 2, (Math.sqrt(3) / 2) * a, 0],
+    ];
     const energy = (k: Vec3): number => {
       const q = cartesian(k, b);
       return -2 * t * inPlane.reduce((e, r) => e + Math.cos(q[0] * r[0] + q[1] * r[1]), 0) - 2 * tz * Math.cos(q[2] * c);

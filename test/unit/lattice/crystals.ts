@@ -4,7 +4,11 @@ import { det3, mat3Inverse, mulMat, mulMatVec, transpose3 } from '../../../src/c
 
 /** fcc primitive vectors a1=(0,a/2,a/2), a2=(a/2,0,a/2), a3=(a/2,a/2,0) for conventional constant a. */
 export function fccPrimitive(a: number): Mat3 {
-  return [[0, a / 2, a / 2], [a / 2, 0, a / 2], [a / 2, a / 2, 0]];
+  return [
+    [0, a / 2, a / 2],
+    [a / 2, 0, a / 2],
+    [a / 2, a / 2, 0],
+  ];
 }
 
 /**
@@ -18,18 +22,35 @@ export function diamondLike(a: number, s1: string, s2: string): Structure {
 
 /** Diamond in its conventional cubic cell: 8 atoms (fcc translations of the two-atom basis). */
 export function diamondConventional(a: number, s: string): Structure {
-  const fcc: Vec3[] = [[0, 0, 0], [0, 0.5, 0.5], [0.5, 0, 0.5], [0.5, 0.5, 0]];
+  const fcc: Vec3[] = [
+    [0, 0, 0],
+    [0, 0.5, 0.5],
+    [0.5, 0, 0.5],
+    [0.5, 0.5, 0],
+  ];
   const pos: number[] = [];
   for (const t of fcc) pos.push(...t);
   for (const t of fcc) pos.push(t[0] + 0.25, t[1] + 0.25, t[2] + 0.25);
-  return { lattice: [[a, 0, 0], [0, a, 0], [0, 0, a]], species: Array(8).fill(s) as string[], positions: new Float64Array(pos) };
+  return {
+    lattice: [
+      [a, 0, 0],
+      [0, a, 0],
+      [0, 0, a],
+    ],
+    species: Array(8).fill(s) as string[],
+    positions: new Float64Array(pos),
+  };
 }
 
 /** Wurtzite: hexagonal a, c, atoms at (1/3,2/3,0), (2/3,1/3,1/2) and the same shifted by u along c. */
 export function wurtzite(a: number, c: number, u: number, s1: string, s2: string): Structure {
   const h = (Math.sqrt(3) / 2) * a;
   return {
-    lattice: [[a / 2, -h, 0], [a / 2, h, 0], [0, 0, c]],
+    lattice: [
+      [a / 2, -h, 0],
+      [a / 2, h, 0],
+      [0, 0, c],
+    ],
     species: [s1, s1, s2, s2],
     positions: new Float64Array([1 / 3, 2 / 3, 0, 2 / 3, 1 / 3, 0.5, 1 / 3, 2 / 3, u, 2 / 3, 1 / 3, 0.5 + u]),
   };
@@ -72,11 +93,39 @@ export function redescribeK(M: Mat3, k: Vec3): Vec3 {
 
 /** Unimodular integer matrices: products of elementary shears and permutations (deterministic list). */
 export const UNIMODULAR: Mat3[] = [
-  [[1, 0, 0], [0, 1, 0], [0, 0, 1]],
-  [[0, 1, 0], [0, 0, 1], [1, 0, 0]],
-  [[1, 1, 0], [0, 1, 0], [0, 0, 1]],
-  [[1, 0, 0], [1, 1, 0], [0, -1, 1]],
-  [[0, -1, 0], [1, 0, 1], [0, 0, 1]],
-  [[2, 1, 0], [1, 1, 0], [0, 0, 1]],
-  [[1, 0, -1], [0, 1, 1], [0, 0, -1]],
+  [
+    [1, 0, 0],
+    [0, 1, 0],
+    [0, 0, 1],
+  ],
+  [
+    [0, 1, 0],
+    [0, 0, 1],
+    [1, 0, 0],
+  ],
+  [
+    [1, 1, 0],
+    [0, 1, 0],
+    [0, 0, 1],
+  ],
+  [
+    [1, 0, 0],
+    [1, 1, 0],
+    [0, -1, 1],
+  ],
+  [
+    [0, -1, 0],
+    [1, 0, 1],
+    [0, 0, 1],
+  ],
+  [
+    [2, 1, 0],
+    [1, 1, 0],
+    [0, 0, 1],
+  ],
+  [
+    [1, 0, -1],
+    [0, 1, 1],
+    [0, 0, -1],
+  ],
 ];

@@ -21,31 +21,60 @@ describe('k-path geometry', () => {
     const kpts = [...line(G, X, n), ...line(X, W, n), ...line(K, G, n), ...line(U, X, n), ...line(X, L, n)];
     const e = kpts.map(() => [0]);
     const labels = [
-      { index: 0, label: 'Γ' }, { index: 10, label: 'X' }, { index: 11, label: 'X' }, { index: 21, label: 'W' },
-      { index: 22, label: 'K' }, { index: 32, label: 'Γ' }, { index: 33, label: 'U' }, { index: 43, label: 'X' },
-      { index: 44, label: 'X' }, { index: 54, label: 'L' },
+      { index: 0, label: 'Γ' },
+      { index: 10, label: 'X' },
+      { index: 11, label: 'X' },
+      { index: 21, label: 'W' },
+      { index: 22, label: 'K' },
+      { index: 32, label: 'Γ' },
+      { index: 33, label: 'U' },
+      { index: 43, label: 'X' },
+      { index: 44, label: 'X' },
+      { index: 54, label: 'L' },
     ];
     const g = pathGeometry(makeBands({ kpoints: kpts, energies: [e], lattice: fccLattice(a), labels }));
     const u = (2 * Math.PI) / a;
     // Hand-computed: |Γ−X| = 2π/a; |X−W| = π/a; |K−Γ| = 2π/a·(3√2/4); |U−X| = 2π/a·(√2/4); |X−L| = 2π/a·(√3/2).
     const legs = [u, u / 2, (u * 3 * Math.SQRT2) / 4, (u * Math.SQRT2) / 4, (u * Math.sqrt(3)) / 2];
-    const expectEnd = (i: number, d: number): void => assert.ok(Math.abs(g.distance[i]! - d) < 1e-9, `distance at ${i}: ${g.distance[i]} vs ${d}`);
+    const expectEnd = (i: number, d: number): void =>
+      assert.ok(Math.abs(g.distance[i]! - d) < 1e-9, `distance at ${i}: ${g.distance[i]} vs ${d}`);
     expectEnd(10, legs[0]!);
     expectEnd(11, legs[0]!); // repeated X: no advance
     expectEnd(21, legs[0]! + legs[1]!);
     expectEnd(22, legs[0]! + legs[1]!); // W → K jump: no advance
     expectEnd(32, legs[0]! + legs[1]! + legs[2]!);
-    expectEnd(54, legs.reduce((s, x) => s + x, 0));
+    expectEnd(
+      54,
+      legs.reduce((s, x) => s + x, 0),
+    );
     assert.equal(g.units, 'inverse-angstrom');
     assert.equal(g.segments.length, 5);
-    assert.deepEqual(g.segments.map((s) => [s.start, s.end, s.afterJump]), [[0, 10, false], [11, 21, false], [22, 32, true], [33, 43, true], [44, 54, false]]);
-    assert.deepEqual(g.ticks.map((t) => t.label), ['Γ', 'X', 'W|K', 'Γ|U', 'X', 'L']);
+    assert.deepEqual(
+      g.segments.map((s) => [s.start, s.end, s.afterJump]),
+      [
+        [0, 10, false],
+        [11, 21, false],
+        [22, 32, true],
+        [33, 43, true],
+        [44, 54, false],
+      ],
+    );
+    assert.deepEqual(
+      g.ticks.map((t) => t.label),
+      ['Γ', 'X', 'W|K', 'Γ|U', 'X', 'L'],
+    );
   });
 
   it('splits a path without repeated points where its direction turns', () => {
     const kpts = [...line(G, X, 6), ...line(X, W, 6).slice(1)];
     const g = pathGeometry(makeBands({ kpoints: kpts, energies: [kpts.map(() => [0])], lattice: fccLattice(a) }));
-    assert.deepEqual(g.segments.map((s) => [s.start, s.end]), [[0, 5], [5, 10]]);
+    assert.deepEqual(
+      g.segments.map((s) => [s.start, s.end]),
+      [
+        [0, 5],
+        [5, 10],
+      ],
+    );
   });
 
   it('uses fractional distances without a lattice', () => {
@@ -70,7 +99,11 @@ describe('k-path geometry, corner cases', () => {
 
   it('legs of different point densities are not jumps', () => {
     // Tetragonal a = 3 Å, c = 40 Å: three short legs along c, then a long in-plane leg with as many points.
-    const lat: Mat3 = [[3, 0, 0], [0, 3, 0], [0, 0, 40]];
+    const lat: Mat3 = [
+      [3, 0, 0],
+      [0, 3, 0],
+      [0, 0, 40],
+    ];
     const Z = [0, 0, 0.5];
     const kpts = [...line(G, Z, 6), ...line(Z, G, 6).slice(1), ...line(G, Z, 6).slice(1), ...line(Z, [0.5, 0, 0.5], 6).slice(1)];
     const g = pathGeometry(makeBands({ kpoints: kpts, energies: [kpts.map(() => [0])], lattice: lat }));

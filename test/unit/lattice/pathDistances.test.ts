@@ -21,7 +21,14 @@ const LEGS: [string, string, number][] = [
 ];
 // Fractional coordinates in the primitive reciprocal basis of a1=(0,a/2,a/2), a2=(a/2,0,a/2), a3=(a/2,a/2,0)
 // (Setyawan & Curtarolo 2010, FCC table).
-const F: Record<string, Vec3> = { Γ: [0, 0, 0], X: [0.5, 0, 0.5], W: [0.5, 0.25, 0.75], K: [0.375, 0.375, 0.75], L: [0.5, 0.5, 0.5], U: [0.625, 0.25, 0.625] };
+const F: Record<string, Vec3> = {
+  Γ: [0, 0, 0],
+  X: [0.5, 0, 0.5],
+  W: [0.5, 0.25, 0.75],
+  K: [0.375, 0.375, 0.75],
+  L: [0.5, 0.5, 0.5],
+  U: [0.625, 0.25, 0.625],
+};
 
 function linePath(M: Mat3, n: number): number[][] {
   const out: number[][] = [];
@@ -38,10 +45,42 @@ describe('k-path distances on the fcc path (hand-computed), for any description 
   const unit = (2 * Math.PI) / a;
   const cells: [string, Mat3, Mat3][] = [
     // [name, M (A' = M·A, so k' = M k), rotation]
-    ['standard primitive', [[1, 0, 0], [0, 1, 0], [0, 0, 1]], [[1, 0, 0], [0, 1, 0], [0, 0, 1]]],
-    ['sheared, permuted and rotated primitive', [[0, 1, 0], [1, 1, 0], [0, -1, 1]], rotationMatrix([1, 2, 3], 0.7)],
+    [
+      'standard primitive',
+      [
+        [1, 0, 0],
+        [0, 1, 0],
+        [0, 0, 1],
+      ],
+      [
+        [1, 0, 0],
+        [0, 1, 0],
+        [0, 0, 1],
+      ],
+    ],
+    [
+      'sheared, permuted and rotated primitive',
+      [
+        [0, 1, 0],
+        [1, 1, 0],
+        [0, -1, 1],
+      ],
+      rotationMatrix([1, 2, 3], 0.7),
+    ],
     // Conventional cubic cell: (a,0,0) = −a1+a2+a3 etc., 4 primitive cells (common practice).
-    ['conventional cubic', [[-1, 1, 1], [1, -1, 1], [1, 1, -1]], [[1, 0, 0], [0, 1, 0], [0, 0, 1]]],
+    [
+      'conventional cubic',
+      [
+        [-1, 1, 1],
+        [1, -1, 1],
+        [1, 1, -1],
+      ],
+      [
+        [1, 0, 0],
+        [0, 1, 0],
+        [0, 0, 1],
+      ],
+    ],
   ];
   for (const [name, M, Q] of cells) {
     it(`gives |ΓX| = 2π/a and the other legs in the ${name} cell`, () => {
@@ -54,7 +93,10 @@ describe('k-path distances on the fcc path (hand-computed), for any description 
       LEGS.forEach(([, , len], s) => {
         expected += len * unit;
         const end = s * n + n - 1;
-        assert.ok(Math.abs(g.distance[end]! - expected) < 1e-9, `${name}: distance at the end of leg ${s}: ${g.distance[end]} vs ${expected}`);
+        assert.ok(
+          Math.abs(g.distance[end]! - expected) < 1e-9,
+          `${name}: distance at the end of leg ${s}: ${g.distance[end]} vs ${expected}`,
+        );
         // The repeated start of the next leg does not advance the distance.
         if (s + 1 < LEGS.length) assert.ok(Math.abs(g.distance[end + 1]! - expected) < 1e-12);
       });

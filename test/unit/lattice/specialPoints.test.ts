@@ -47,12 +47,31 @@ const rot = (v: Vec3, q: Mat3): Vec3 => mulMatVec(q, v);
 const A = 5.431;
 const u = (2 * Math.PI) / A;
 const fccPts: Record<string, Vec3> = {
-  Γ: [0, 0, 0], X: [0, u, 0], L: [u / 2, u / 2, u / 2], W: [u / 2, u, 0], K: [(3 * u) / 4, (3 * u) / 4, 0], U: [u / 4, u, u / 4],
+  Γ: [0, 0, 0],
+  X: [0, u, 0],
+  L: [u / 2, u / 2, u / 2],
+  W: [u / 2, u, 0],
+  K: [(3 * u) / 4, (3 * u) / 4, 0],
+  U: [u / 4, u, u / 4],
 };
 /** The fcc path of Setyawan & Curtarolo 2010: Γ–X–W–K–Γ–L–U–W–L–K|U–X. */
-const FCC_PATH: [string, string][] = [['Γ', 'X'], ['X', 'W'], ['W', 'K'], ['K', 'Γ'], ['Γ', 'L'], ['L', 'U'], ['U', 'W'], ['W', 'L'], ['L', 'K'], ['U', 'X']];
+const FCC_PATH: [string, string][] = [
+  ['Γ', 'X'],
+  ['X', 'W'],
+  ['W', 'K'],
+  ['K', 'Γ'],
+  ['Γ', 'L'],
+  ['L', 'U'],
+  ['U', 'W'],
+  ['W', 'L'],
+  ['L', 'K'],
+  ['U', 'X'],
+];
 const legsOf = (path: [string, string][], pts: Record<string, Vec3>, q?: Mat3): [Leg, Leg][] =>
-  path.map(([a, b]) => [[a, q ? rot(pts[a]!, q) : pts[a]!], [b, q ? rot(pts[b]!, q) : pts[b]!]]);
+  path.map(([a, b]) => [
+    [a, q ? rot(pts[a]!, q) : pts[a]!],
+    [b, q ? rot(pts[b]!, q) : pts[b]!],
+  ]);
 
 describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
   before(async () => {
@@ -63,7 +82,11 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     const { kc, ends } = linePath(legsOf(FCC_PATH, fccPts), 9);
     for (const structure of [diamondLike(A, 'Si', 'Si'), null]) {
       const got = labelsOf(bandsOn(fccPrimitive(A), kc, structure));
-      assert.deepEqual([...got].sort((x, y) => x[0] - y[0]), [...ends].sort((x, y) => x[0] - y[0]), structure ? 'with structure' : 'lattice only');
+      assert.deepEqual(
+        [...got].sort((x, y) => x[0] - y[0]),
+        [...ends].sort((x, y) => x[0] - y[0]),
+        structure ? 'with structure' : 'lattice only',
+      );
     }
     const r = recogniseSpecialPoints(bandsOn(fccPrimitive(A), kc, null));
     assert.equal(r.kind, 'FCC');
@@ -76,7 +99,11 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
       fc.property(
         fc.constantFrom(...UNIMODULAR),
         fc.constantFrom(...UNIMODULAR),
-        fc.tuple(fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: 0.1, max: 1, noNaN: true })),
+        fc.tuple(
+          fc.double({ min: -1, max: 1, noNaN: true }),
+          fc.double({ min: -1, max: 1, noNaN: true }),
+          fc.double({ min: 0.1, max: 1, noNaN: true }),
+        ),
         fc.double({ min: 0, max: 2 * Math.PI, noNaN: true }),
         fc.boolean(),
         (m1: Mat3, m2: Mat3, axis: Vec3, angle: number, withStructure: boolean) => {
@@ -85,7 +112,10 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
           // The cartesian path rotates with the crystal.
           const { kc, ends } = linePath(legsOf(FCC_PATH, fccPts, q), 5);
           const got = labelsOf(bandsOn(st.lattice, kc, withStructure ? st : null));
-          assert.deepEqual([...got].sort((x, y) => x[0] - y[0]), [...ends].sort((x, y) => x[0] - y[0]));
+          assert.deepEqual(
+            [...got].sort((x, y) => x[0] - y[0]),
+            [...ends].sort((x, y) => x[0] - y[0]),
+          );
         },
       ),
       { seed: 2010, numRuns: 20 },
@@ -93,10 +123,25 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
   });
 
   it('labels the fcc points in the conventional cubic cell when the structure shows the fcc lattice', () => {
-    const { kc, ends } = linePath(legsOf([['Γ', 'X'], ['X', 'W'], ['W', 'L'], ['L', 'Γ'], ['Γ', 'K']], fccPts), 7);
+    const { kc, ends } = linePath(
+      legsOf(
+        [
+          ['Γ', 'X'],
+          ['X', 'W'],
+          ['W', 'L'],
+          ['L', 'Γ'],
+          ['Γ', 'K'],
+        ],
+        fccPts,
+      ),
+      7,
+    );
     const conv = diamondConventional(A, 'Si');
     const got = labelsOf(bandsOn(conv.lattice, kc, conv));
-    assert.deepEqual([...got].sort((x, y) => x[0] - y[0]), [...ends].sort((x, y) => x[0] - y[0]));
+    assert.deepEqual(
+      [...got].sort((x, y) => x[0] - y[0]),
+      [...ends].sort((x, y) => x[0] - y[0]),
+    );
   });
 
   it('labels Γ, M, K, A, L, H on the hexagonal path for 120° and 60° cells and for wurtzite', () => {
@@ -111,17 +156,43 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     const add = (p: Vec3, q: Vec3): Vec3 => [p[0] + q[0], p[1] + q[1], p[2] + q[2]];
     const pts: Record<string, Vec3> = { Γ: [0, 0, 0], M: m, K: k, A: az, L: add(m, az), H: add(k, az) };
     // Setyawan & Curtarolo's hexagonal path: Γ–M–K–Γ–A–L–H–A|L–M|K–H.
-    const path: [string, string][] = [['Γ', 'M'], ['M', 'K'], ['K', 'Γ'], ['Γ', 'A'], ['A', 'L'], ['L', 'H'], ['H', 'A'], ['L', 'M'], ['K', 'H']];
+    const path: [string, string][] = [
+      ['Γ', 'M'],
+      ['M', 'K'],
+      ['K', 'Γ'],
+      ['Γ', 'A'],
+      ['A', 'L'],
+      ['L', 'H'],
+      ['H', 'A'],
+      ['L', 'M'],
+      ['K', 'H'],
+    ];
     const { kc, ends } = linePath(legsOf(path, pts), 6);
     const h = (Math.sqrt(3) / 2) * a;
     const cells: Mat3[] = [
-      [[a, 0, 0], [-a / 2, h, 0], [0, 0, c]], // 120°
-      [[a, 0, 0], [a / 2, h, 0], [0, 0, c]], // 60°
-      [[0, 0, c], [a, 0, 0], [a / 2, h, 0]], // c first
+      [
+        [a, 0, 0],
+        [-a / 2, h, 0],
+        [0, 0, c],
+      ], // 120°
+      [
+        [a, 0, 0],
+        [a / 2, h, 0],
+        [0, 0, c],
+      ], // 60°
+      [
+        [0, 0, c],
+        [a, 0, 0],
+        [a / 2, h, 0],
+      ], // c first
     ];
     for (const lat of cells) {
       const got = labelsOf(bandsOn(lat, kc, null));
-      assert.deepEqual([...got].sort((x, y) => x[0] - y[0]), [...ends].sort((x, y) => x[0] - y[0]), JSON.stringify(lat));
+      assert.deepEqual(
+        [...got].sort((x, y) => x[0] - y[0]),
+        [...ends].sort((x, y) => x[0] - y[0]),
+        JSON.stringify(lat),
+      );
     }
     // Wurtzite in the Setyawan & Curtarolo orientation, then rotated 30° about c: the labels follow the crystal.
     const wz = wurtzite(a, c, 0.382, 'Zn', 'O');
@@ -131,10 +202,27 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     const ang = Math.atan2(sc[1], sc[0]);
     const r0 = rotationMatrix([0, 0, 1], ang);
     const wzPts = Object.fromEntries(Object.entries(pts).map(([n, p]) => [n, rot(p, r0)])) as Record<string, Vec3>;
-    for (const [st, qq] of [[wz, null], [redescribe(wz, [[1, 0, 0], [0, 1, 0], [0, 0, 1]], q), q]] as const) {
+    for (const [st, qq] of [
+      [wz, null],
+      [
+        redescribe(
+          wz,
+          [
+            [1, 0, 0],
+            [0, 1, 0],
+            [0, 0, 1],
+          ],
+          q,
+        ),
+        q,
+      ],
+    ] as const) {
       const path2 = linePath(legsOf(path, wzPts, qq ?? undefined), 6);
       const got = labelsOf(bandsOn(st.lattice, path2.kc, st));
-      assert.deepEqual([...got].sort((x, y) => x[0] - y[0]), [...path2.ends].sort((x, y) => x[0] - y[0]));
+      assert.deepEqual(
+        [...got].sort((x, y) => x[0] - y[0]),
+        [...path2.ends].sort((x, y) => x[0] - y[0]),
+      );
     }
   });
 
@@ -145,9 +233,22 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
       const a = 4.1;
       // Simple cubic (common practice): X (0,π/a,0), M (π/a,π/a,0), R (π/a,π/a,π/a); path Γ–X–M–Γ–R–X|M–R.
       cases.push({
-        name: 'sc', kind: 'CUB', lattice: [[a, 0, 0], [0, a, 0], [0, 0, a]],
+        name: 'sc',
+        kind: 'CUB',
+        lattice: [
+          [a, 0, 0],
+          [0, a, 0],
+          [0, 0, a],
+        ],
         pts: { Γ: [0, 0, 0], X: [0, pi / a, 0], M: [pi / a, pi / a, 0], R: [pi / a, pi / a, pi / a] },
-        path: [['Γ', 'X'], ['X', 'M'], ['M', 'Γ'], ['Γ', 'R'], ['R', 'X'], ['M', 'R']],
+        path: [
+          ['Γ', 'X'],
+          ['X', 'M'],
+          ['M', 'Γ'],
+          ['Γ', 'R'],
+          ['R', 'X'],
+          ['M', 'R'],
+        ],
       });
     }
     {
@@ -155,9 +256,22 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
       const v = (2 * pi) / a;
       // bcc (common practice): H (0,0,1)2π/a, N (½,½,0)2π/a, P (½,½,½)2π/a; path Γ–H–N–Γ–P–H|P–N.
       cases.push({
-        name: 'bcc', kind: 'BCC', lattice: [[a / 2, a / 2, -a / 2], [-a / 2, a / 2, a / 2], [a / 2, -a / 2, a / 2]],
+        name: 'bcc',
+        kind: 'BCC',
+        lattice: [
+          [a / 2, a / 2, -a / 2],
+          [-a / 2, a / 2, a / 2],
+          [a / 2, -a / 2, a / 2],
+        ],
         pts: { Γ: [0, 0, 0], H: [0, 0, v], N: [v / 2, v / 2, 0], P: [v / 2, v / 2, v / 2] },
-        path: [['Γ', 'H'], ['H', 'N'], ['N', 'Γ'], ['Γ', 'P'], ['P', 'H'], ['P', 'N']],
+        path: [
+          ['Γ', 'H'],
+          ['H', 'N'],
+          ['N', 'Γ'],
+          ['Γ', 'P'],
+          ['P', 'H'],
+          ['P', 'N'],
+        ],
       });
     }
     {
@@ -166,9 +280,32 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
       // Simple tetragonal: X (0,π/a,0), M (π/a,π/a,0), Z (0,0,π/c), R (0,π/a,π/c), A (π/a,π/a,π/c);
       // path Γ–X–M–Γ–Z–R–A–Z|X–R|M–A. The cell is given with c first.
       cases.push({
-        name: 'tet', kind: 'TET', lattice: [[0, 0, c], [a, 0, 0], [0, a, 0]],
-        pts: { Γ: [0, 0, 0], X: [0, pi / a, 0], M: [pi / a, pi / a, 0], Z: [0, 0, pi / c], R: [0, pi / a, pi / c], A: [pi / a, pi / a, pi / c] },
-        path: [['Γ', 'X'], ['X', 'M'], ['M', 'Γ'], ['Γ', 'Z'], ['Z', 'R'], ['R', 'A'], ['A', 'Z'], ['X', 'R'], ['M', 'A']],
+        name: 'tet',
+        kind: 'TET',
+        lattice: [
+          [0, 0, c],
+          [a, 0, 0],
+          [0, a, 0],
+        ],
+        pts: {
+          Γ: [0, 0, 0],
+          X: [0, pi / a, 0],
+          M: [pi / a, pi / a, 0],
+          Z: [0, 0, pi / c],
+          R: [0, pi / a, pi / c],
+          A: [pi / a, pi / a, pi / c],
+        },
+        path: [
+          ['Γ', 'X'],
+          ['X', 'M'],
+          ['M', 'Γ'],
+          ['Γ', 'Z'],
+          ['Z', 'R'],
+          ['R', 'A'],
+          ['A', 'Z'],
+          ['X', 'R'],
+          ['M', 'A'],
+        ],
       });
     }
     {
@@ -180,9 +317,28 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
       const Z: Vec3 = [0, 0, pi / c];
       const s = (...v: Vec3[]): Vec3 => v.reduce((p, q) => [p[0] + q[0], p[1] + q[1], p[2] + q[2]], [0, 0, 0] as Vec3);
       cases.push({
-        name: 'orc', kind: 'ORC', lattice: [[0, 0, c], [a, 0, 0], [0, b, 0]],
+        name: 'orc',
+        kind: 'ORC',
+        lattice: [
+          [0, 0, c],
+          [a, 0, 0],
+          [0, b, 0],
+        ],
         pts: { Γ: [0, 0, 0], X, Y, Z, S: s(X, Y), T: s(Y, Z), U: s(X, Z), R: s(X, Y, Z) },
-        path: [['Γ', 'X'], ['X', 'S'], ['S', 'Y'], ['Y', 'Γ'], ['Γ', 'Z'], ['Z', 'U'], ['U', 'R'], ['R', 'T'], ['T', 'Z'], ['Y', 'T'], ['U', 'X'], ['S', 'R']],
+        path: [
+          ['Γ', 'X'],
+          ['X', 'S'],
+          ['S', 'Y'],
+          ['Y', 'Γ'],
+          ['Γ', 'Z'],
+          ['Z', 'U'],
+          ['U', 'R'],
+          ['R', 'T'],
+          ['T', 'Z'],
+          ['Y', 'T'],
+          ['U', 'X'],
+          ['S', 'R'],
+        ],
       });
     }
     for (const cs of cases) {
@@ -191,22 +347,57 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
       const r = recogniseSpecialPoints(bs);
       assert.equal(r.kind, cs.kind, cs.name);
       const got = new Map(r.labels.map((l) => [l.index, l.label]));
-      assert.deepEqual([...got].sort((x, y) => x[0] - y[0]), [...ends].sort((x, y) => x[0] - y[0]), cs.name);
+      assert.deepEqual(
+        [...got].sort((x, y) => x[0] - y[0]),
+        [...ends].sort((x, y) => x[0] - y[0]),
+        cs.name,
+      );
     }
   });
 
   it('recognises a special point written outside the first zone (modulo a reciprocal lattice vector)', () => {
     // L + (b1 + b2) and X − b2 in the fcc primitive basis: the same points of the crystal.
-    const bs = makeBands({ kpoints: [[1.5, 1.5, 0.5], [0.5, -1, 0.5], [0.2, 0.1, 0]], energies: [[[0], [0], [0]]], lattice: fccPrimitive(A) });
-    assert.deepEqual(recogniseLabels(bs), [{ index: 0, label: 'L' }, { index: 1, label: 'X' }]);
+    const bs = makeBands({
+      kpoints: [
+        [1.5, 1.5, 0.5],
+        [0.5, -1, 0.5],
+        [0.2, 0.1, 0],
+      ],
+      energies: [[[0], [0], [0]]],
+      lattice: fccPrimitive(A),
+    });
+    assert.deepEqual(recogniseLabels(bs), [
+      { index: 0, label: 'L' },
+      { index: 1, label: 'X' },
+    ]);
   });
 
   it('gives no labels, and says why, for lattices outside the covered set', () => {
     // Monoclinic (β ≠ 90°) and base-centred orthorhombic cells are not covered.
-    const mono: Mat3 = [[4, 0, 0], [0, 5, 0], [1.2, 0, 6]];
-    const baseCentred: Mat3 = [[1.5, -2.5, 0], [1.5, 2.5, 0], [0, 0, 7]];
-    for (const [lat, cls] of [[mono, 'mP'], [baseCentred, 'oS']] as const) {
-      const r = recogniseSpecialPoints(makeBands({ kpoints: [[0, 0, 0], [0.5, 0, 0]], energies: [[[0], [0]]], lattice: lat }));
+    const mono: Mat3 = [
+      [4, 0, 0],
+      [0, 5, 0],
+      [1.2, 0, 6],
+    ];
+    const baseCentred: Mat3 = [
+      [1.5, -2.5, 0],
+      [1.5, 2.5, 0],
+      [0, 0, 7],
+    ];
+    for (const [lat, cls] of [
+      [mono, 'mP'],
+      [baseCentred, 'oS'],
+    ] as const) {
+      const r = recogniseSpecialPoints(
+        makeBands({
+          kpoints: [
+            [0, 0, 0],
+            [0.5, 0, 0],
+          ],
+          energies: [[[0], [0]]],
+          lattice: lat,
+        }),
+      );
       assert.deepEqual(r.labels, []);
       assert.equal(r.bravaisClass, cls);
       assert.match(r.reason ?? '', new RegExp(`not for ${cls}`));
@@ -218,35 +409,77 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
 
   it('relates a cell to the standard one by an integer matrix of the right determinant', () => {
     // The conventional cubic cell holds 4 fcc primitive cells (common practice): |det M| = 4.
-    const M = relateCells([[A, 0, 0], [0, A, 0], [0, 0, A]], fccPrimitive(A));
+    const M = relateCells(
+      [
+        [A, 0, 0],
+        [0, A, 0],
+        [0, 0, A],
+      ],
+      fccPrimitive(A),
+    );
     assert.ok(M);
-    const det = M[0][0] * (M[1][1] * M[2][2] - M[1][2] * M[2][1]) - M[0][1] * (M[1][0] * M[2][2] - M[1][2] * M[2][0]) + M[0][2] * (M[1][0] * M[2][1] - M[1][1] * M[2][0]);
+    const det =
+      M[0][0] * (M[1][1] * M[2][2] - M[1][2] * M[2][1]) -
+      M[0][1] * (M[1][0] * M[2][2] - M[1][2] * M[2][0]) +
+      M[0][2] * (M[1][0] * M[2][1] - M[1][1] * M[2][0]);
     assert.equal(Math.abs(det), 4);
-    assert.equal(relateCells([[A, 0, 0], [0, A, 0], [0, 0, 1.1 * A]], fccPrimitive(A)), null);
+    assert.equal(
+      relateCells(
+        [
+          [A, 0, 0],
+          [0, A, 0],
+          [0, 0, 1.1 * A],
+        ],
+        fccPrimitive(A),
+      ),
+      null,
+    );
   });
   it('puts every special point of every covered lattice on the zone surface (Wigner–Seitz construction)', () => {
     // Wigner–Seitz construction (common practice): k lies on the first-zone surface when no reciprocal lattice
     // vector G is closer to it than Γ and at least one G ≠ 0 is as close. Setyawan & Curtarolo's points other
     // than Γ are all zone-surface points, so a wrong table entry (or BCT1/BCT2 mixed up) falls off the surface.
     const lattices: [string, [number, number, number]][] = [
-      ['cP', [4, 4, 4]], ['cF', [5.4, 5.4, 5.4]], ['cI', [3.3, 3.3, 3.3]], ['hP', [3.2, 3.2, 5.2]], ['tP', [3.9, 3.9, 5.1]],
-      ['tI', [4, 4, 3]], ['tI', [3, 3, 5]], ['oP', [3.1, 4.2, 5.7]],
+      ['cP', [4, 4, 4]],
+      ['cF', [5.4, 5.4, 5.4]],
+      ['cI', [3.3, 3.3, 3.3]],
+      ['hP', [3.2, 3.2, 5.2]],
+      ['tP', [3.9, 3.9, 5.1]],
+      ['tI', [4, 4, 3]],
+      ['tI', [3, 3, 5]],
+      ['oP', [3.1, 4.2, 5.7]],
     ];
     for (const [cls, lengths] of lattices) {
-      const std = standardCell({ bravaisClass: cls, spaceGroup: 0, conventional: [[1, 0, 0], [0, 1, 0], [0, 0, 1]], lengths, fromStructure: false });
+      const std = standardCell({
+        bravaisClass: cls,
+        spaceGroup: 0,
+        conventional: [
+          [1, 0, 0],
+          [0, 1, 0],
+          [0, 0, 1],
+        ],
+        lengths,
+        fromStructure: false,
+      });
       assert.ok(std, cls);
       const B = reciprocalLattice(std.primitive);
       for (const p of std.points) {
         const k = fractionalToCartesian(p.k, B);
         const k2 = k[0] ** 2 + k[1] ** 2 + k[2] ** 2;
         let closest = Infinity;
-        for (let x = -3; x <= 3; x++) for (let y = -3; y <= 3; y++) for (let z = -3; z <= 3; z++) {
-          if (x === 0 && y === 0 && z === 0) continue;
-          const g = fractionalToCartesian([x, y, z], B);
-          closest = Math.min(closest, (k[0] - g[0]) ** 2 + (k[1] - g[1]) ** 2 + (k[2] - g[2]) ** 2);
-        }
+        for (let x = -3; x <= 3; x++)
+          for (let y = -3; y <= 3; y++)
+            for (let z = -3; z <= 3; z++) {
+              if (x === 0 && y === 0 && z === 0) continue;
+              const g = fractionalToCartesian([x, y, z], B);
+              closest = Math.min(closest, (k[0] - g[0]) ** 2 + (k[1] - g[1]) ** 2 + (k[2] - g[2]) ** 2);
+            }
         if (p.label === 'Γ') assert.ok(closest > k2 + 1e-6, cls);
-        else assert.ok(Math.abs(closest - k2) < 1e-9 * Math.max(1, k2), `${std.kind} ${p.label}: not on the zone surface (${closest} vs ${k2})`);
+        else
+          assert.ok(
+            Math.abs(closest - k2) < 1e-9 * Math.max(1, k2),
+            `${std.kind} ${p.label}: not on the zone surface (${closest} vs ${k2})`,
+          );
       }
     }
   });
@@ -258,9 +491,31 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     // Z: the zone's apex on the c axis, equidistant from Γ and G = 2π (0, 1/a, 1/c): z = π (1/c + c/a²).
     {
       const [a, c] = [4, 3];
-      const lat: Mat3 = [[-a / 2, a / 2, c / 2], [a / 2, -a / 2, c / 2], [a / 2, a / 2, -c / 2]];
-      const pts: Record<string, Vec3> = { Γ: [0, 0, 0], X: [pi / a, pi / a, 0], M: [(2 * pi) / a, 0, 0], N: [pi / a, 0, pi / c], Z: [0, 0, pi * (1 / c + c / (a * a))] };
-      const { kc, ends } = linePath(legsOf([['Γ', 'X'], ['X', 'M'], ['M', 'Γ'], ['Γ', 'Z'], ['Z', 'N']], pts), 5);
+      const lat: Mat3 = [
+        [-a / 2, a / 2, c / 2],
+        [a / 2, -a / 2, c / 2],
+        [a / 2, a / 2, -c / 2],
+      ];
+      const pts: Record<string, Vec3> = {
+        Γ: [0, 0, 0],
+        X: [pi / a, pi / a, 0],
+        M: [(2 * pi) / a, 0, 0],
+        N: [pi / a, 0, pi / c],
+        Z: [0, 0, pi * (1 / c + c / (a * a))],
+      };
+      const { kc, ends } = linePath(
+        legsOf(
+          [
+            ['Γ', 'X'],
+            ['X', 'M'],
+            ['M', 'Γ'],
+            ['Γ', 'Z'],
+            ['Z', 'N'],
+          ],
+          pts,
+        ),
+        5,
+      );
       const r = recogniseSpecialPoints(bandsOn(lat, kc, null));
       assert.equal(r.kind, 'BCT1');
       assert.deepEqual(new Map(r.labels.map((l) => [l.index, l.label])), ends);
@@ -269,9 +524,30 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     // axis, equidistant from Γ and G = 2π (1/a, 0, 1/c): x = π (1/a + a/c²).
     {
       const [a, c] = [3, 5];
-      const lat: Mat3 = [[-a / 2, a / 2, c / 2], [a / 2, -a / 2, c / 2], [a / 2, a / 2, -c / 2]];
-      const pts: Record<string, Vec3> = { Γ: [0, 0, 0], X: [pi / a, pi / a, 0], Z: [0, 0, (2 * pi) / c], Σ: [pi * (1 / a + a / (c * c)), 0, 0] };
-      const { kc, ends } = linePath(legsOf([['Γ', 'X'], ['X', 'Γ'], ['Γ', 'Z'], ['Z', 'Γ'], ['Γ', 'Σ']], pts), 5);
+      const lat: Mat3 = [
+        [-a / 2, a / 2, c / 2],
+        [a / 2, -a / 2, c / 2],
+        [a / 2, a / 2, -c / 2],
+      ];
+      const pts: Record<string, Vec3> = {
+        Γ: [0, 0, 0],
+        X: [pi / a, pi / a, 0],
+        Z: [0, 0, (2 * pi) / c],
+        Σ: [pi * (1 / a + a / (c * c)), 0, 0],
+      };
+      const { kc, ends } = linePath(
+        legsOf(
+          [
+            ['Γ', 'X'],
+            ['X', 'Γ'],
+            ['Γ', 'Z'],
+            ['Z', 'Γ'],
+            ['Γ', 'Σ'],
+          ],
+          pts,
+        ),
+        5,
+      );
       const r = recogniseSpecialPoints(bandsOn(lat, kc, null));
       assert.equal(r.kind, 'BCT2');
       assert.deepEqual(new Map(r.labels.map((l) => [l.index, l.label])), ends);
@@ -284,12 +560,30 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     // > 1 in its bct cell: BCT2. Cartesian fcc points with the strained edges a∥, a⊥ (common practice).
     const a0 = 5.431;
     const [ap, az] = [a0 * 0.99, a0 * 1.0077];
-    const lattice: Mat3 = [[0, ap / 2, az / 2], [ap / 2, 0, az / 2], [ap / 2, ap / 2, 0]];
+    const lattice: Mat3 = [
+      [0, ap / 2, az / 2],
+      [ap / 2, 0, az / 2],
+      [ap / 2, ap / 2, 0],
+    ];
     const si: Structure = { lattice, species: ['Si', 'Si'], positions: new Float64Array([0, 0, 0, 0.25, 0.25, 0.25]) };
     const pts: Record<string, Vec3> = {
-      Γ: [0, 0, 0], X: [0, (2 * Math.PI) / ap, 0], Z: [0, 0, (2 * Math.PI) / az], N: [Math.PI / ap, Math.PI / ap, Math.PI / az],
+      Γ: [0, 0, 0],
+      X: [0, (2 * Math.PI) / ap, 0],
+      Z: [0, 0, (2 * Math.PI) / az],
+      N: [Math.PI / ap, Math.PI / ap, Math.PI / az],
     };
-    const { kc, ends } = linePath(legsOf([['Z', 'Γ'], ['Γ', 'X'], ['X', 'Γ'], ['Γ', 'N']], pts), 6);
+    const { kc, ends } = linePath(
+      legsOf(
+        [
+          ['Z', 'Γ'],
+          ['Γ', 'X'],
+          ['X', 'Γ'],
+          ['Γ', 'N'],
+        ],
+        pts,
+      ),
+      6,
+    );
     const r = recogniseSpecialPoints(bandsOn(lattice, kc, si));
     assert.equal(r.bravaisClass, 'tI');
     assert.equal(r.kind, 'BCT2');

@@ -63,7 +63,10 @@ describe('crystal symmetry (moyo-wasm)', () => {
   });
 
   it('finds Fd-3m (227) with 48 operations for diamond Si and Ge', () => {
-    for (const [name, a] of [['Si', A_SI], ['Ge', A_GE]] as const) {
+    for (const [name, a] of [
+      ['Si', A_SI],
+      ['Ge', A_GE],
+    ] as const) {
       const s = crystalSymmetry(diamondLike(a, name, name));
       // International Tables for Crystallography Vol. A: diamond is Fd-3m, No. 227; its point group m-3m has
       // order 48, so a primitive cell has 48 operations.
@@ -104,9 +107,13 @@ describe('crystal symmetry (moyo-wasm)', () => {
       s.rotations.forEach((w, o) => {
         const t = s.translations[o]!;
         for (let i = 0; i < n; i++) {
-          const x = [0, 1, 2].map((r) => w[r]![0] * st.positions[3 * i]! + w[r]![1] * st.positions[3 * i + 1]! + w[r]![2] * st.positions[3 * i + 2]! + t[r]!);
+          const x = [0, 1, 2].map(
+            (r) => w[r]![0] * st.positions[3 * i]! + w[r]![1] * st.positions[3 * i + 1]! + w[r]![2] * st.positions[3 * i + 2]! + t[r]!,
+          );
           const hit = [...Array(n).keys()].some(
-            (j) => st.species[j] === st.species[i] && [0, 1, 2].every((c) => Math.abs(((x[c]! - st.positions[3 * j + c]! + 0.5) % 1 + 1) % 1 - 0.5) < 1e-6),
+            (j) =>
+              st.species[j] === st.species[i] &&
+              [0, 1, 2].every((c) => Math.abs(((((x[c]! - st.positions[3 * j + c]! + 0.5) % 1) + 1) % 1) - 0.5) < 1e-6),
           );
           assert.ok(hit, `operation ${o} sends atom ${i} nowhere`);
         }
@@ -137,8 +144,13 @@ describe('crystal symmetry (moyo-wasm)', () => {
     // zone, where all four L would fold onto one point.
     const s = crystalSymmetry(diamondConventional(A_GE, 'Ge'));
     const conv: [string, Vec3, number][] = [
-      ['Γ', [0, 0, 0], 1], ['X', [0, 1, 0], 3], ['L', [0.5, 0.5, 0.5], 4], ['Δ', [0, 0.85, 0], 6],
-      ['W', [0.5, 1, 0], 6], ['K', [0.75, 0.75, 0], 12], ['U', [0.25, 1, 0.25], 12],
+      ['Γ', [0, 0, 0], 1],
+      ['X', [0, 1, 0], 3],
+      ['L', [0.5, 0.5, 0.5], 4],
+      ['Δ', [0, 0.85, 0], 6],
+      ['W', [0.5, 1, 0], 6],
+      ['K', [0.75, 0.75, 0], 12],
+      ['U', [0.25, 1, 0.25], 12],
     ];
     for (const [name, k, n] of conv) assert.equal(valleyDegeneracy(s, k), n, name);
     assert.ok(!equivalentK(s, [0, 1, 0], [0, 0, 0])); // X is not Γ in the crystal, though it is in the cubic cell's zone
@@ -170,7 +182,10 @@ describe('crystal symmetry (moyo-wasm)', () => {
       assert.ok(equivalentK(s, L, star[i]!));
       for (let j = 0; j < i; j++) {
         const d = star[i]!.map((x, c) => x - star[j]![c]!);
-        assert.ok(d.some((x) => Math.abs(x - Math.round(x)) > 1e-6), 'two members equal modulo G');
+        assert.ok(
+          d.some((x) => Math.abs(x - Math.round(x)) > 1e-6),
+          'two members equal modulo G',
+        );
       }
     }
   });
@@ -211,7 +226,11 @@ describe('crystal symmetry (moyo-wasm)', () => {
       fc.property(
         fc.constantFrom(...UNIMODULAR),
         fc.constantFrom(...UNIMODULAR),
-        fc.tuple(fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: 0.1, max: 1, noNaN: true })),
+        fc.tuple(
+          fc.double({ min: -1, max: 1, noNaN: true }),
+          fc.double({ min: -1, max: 1, noNaN: true }),
+          fc.double({ min: 0.1, max: 1, noNaN: true }),
+        ),
         fc.double({ min: 0, max: 2 * Math.PI, noNaN: true }),
         (m1: Mat3, m2: Mat3, axis: Vec3, angle: number) => {
           const M = mulMat(m1, m2);
@@ -239,14 +258,59 @@ describe('crystal symmetry (moyo-wasm)', () => {
   });
 
   it('throws an AnalysisError with a plain sentence for impossible structures', () => {
-    const bad: Structure = { lattice: [[1, 0, 0], [0, 1, 0], [0, 0, 0]], species: ['Si'], positions: new Float64Array([0, 0, 0]) };
-    assert.throws(() => crystalSymmetry(bad), (e: unknown) => e instanceof AnalysisError && /span no volume/.test(e.message));
-    const empty: Structure = { lattice: [[1, 0, 0], [0, 1, 0], [0, 0, 1]], species: [], positions: new Float64Array(0) };
-    assert.throws(() => crystalSymmetry(empty), (e: unknown) => e instanceof AnalysisError && /no atoms/.test(e.message));
-    const mismatch: Structure = { lattice: [[1, 0, 0], [0, 1, 0], [0, 0, 1]], species: ['Si', 'Si'], positions: new Float64Array([0, 0, 0]) };
-    assert.throws(() => crystalSymmetry(mismatch), (e: unknown) => e instanceof AnalysisError && /2 atoms but 1 positions/.test(e.message));
-    const overlap: Structure = { lattice: [[3, 0, 0], [0, 3, 0], [0, 0, 3]], species: ['Si', 'Si'], positions: new Float64Array([0, 0, 0, 0, 0, 1e-9]) };
+    const bad: Structure = {
+      lattice: [
+        [1, 0, 0],
+        [0, 1, 0],
+        [0, 0, 0],
+      ],
+      species: ['Si'],
+      positions: new Float64Array([0, 0, 0]),
+    };
+    assert.throws(
+      () => crystalSymmetry(bad),
+      (e: unknown) => e instanceof AnalysisError && /span no volume/.test(e.message),
+    );
+    const empty: Structure = {
+      lattice: [
+        [1, 0, 0],
+        [0, 1, 0],
+        [0, 0, 1],
+      ],
+      species: [],
+      positions: new Float64Array(0),
+    };
+    assert.throws(
+      () => crystalSymmetry(empty),
+      (e: unknown) => e instanceof AnalysisError && /no atoms/.test(e.message),
+    );
+    const mismatch: Structure = {
+      lattice: [
+        [1, 0, 0],
+        [0, 1, 0],
+        [0, 0, 1],
+      ],
+      species: ['Si', 'Si'],
+      positions: new Float64Array([0, 0, 0]),
+    };
+    assert.throws(
+      () => crystalSymmetry(mismatch),
+      (e: unknown) => e instanceof AnalysisError && /2 atoms but 1 positions/.test(e.message),
+    );
+    const overlap: Structure = {
+      lattice: [
+        [3, 0, 0],
+        [0, 3, 0],
+        [0, 0, 3],
+      ],
+      species: ['Si', 'Si'],
+      positions: new Float64Array([0, 0, 0, 0, 0, 1e-9]),
+    };
     // Two Si atoms 3e-9 Å apart: the library refuses the cell; the message is one sentence naming the cell.
-    assert.throws(() => crystalSymmetry(overlap), (e: unknown) => e instanceof AnalysisError && /crystal symmetry of the structure \(Si2, 2 atoms\)/.test(e.message) && !/\n/.test(e.message));
+    assert.throws(
+      () => crystalSymmetry(overlap),
+      (e: unknown) =>
+        e instanceof AnalysisError && /crystal symmetry of the structure \(Si2, 2 atoms\)/.test(e.message) && !/\n/.test(e.message),
+    );
   });
 });

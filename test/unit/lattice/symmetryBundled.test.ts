@@ -76,7 +76,9 @@ describe('symmetry module in bundles (node, browser page, web worker)', function
       const page = await browser.newPage();
       await page.setContent('<!doctype html><html><body></body></html>');
       await page.addScriptTag({ content: code });
-      await page.waitForFunction(() => (globalThis as { __symmetryResult?: unknown }).__symmetryResult !== undefined, null, { timeout: 30000 });
+      await page.waitForFunction(() => (globalThis as { __symmetryResult?: unknown }).__symmetryResult !== undefined, null, {
+        timeout: 30000,
+      });
       assert.deepEqual(await page.evaluate(() => (globalThis as { __symmetryResult?: unknown }).__symmetryResult), EXPECTED);
       const inWorker = await page.evaluate(
         (src: string) =>

@@ -37,7 +37,10 @@ describe('the node file accessor', function () {
   it('refuses a file above the limit it is asked to keep, before reading it', async () => {
     const d = dir('limit');
     writeFileSync(join(d, 'big'), 'x'.repeat(5000));
-    await assert.rejects(nodeFileAccessor.readFile(join(d, 'big'), 4096), (e: unknown) => e instanceof ValleyscopeError && /above the limit/.test(e.message));
+    await assert.rejects(
+      nodeFileAccessor.readFile(join(d, 'big'), 4096),
+      (e: unknown) => e instanceof ValleyscopeError && /above the limit/.test(e.message),
+    );
     assert.equal((await nodeFileAccessor.readFile(join(d, 'big'), 5000)).length, 5000);
   });
 
@@ -106,7 +109,11 @@ describe('the path policy for paths read from files', () => {
     it(`refuses ${JSON.stringify(value.slice(0, 20))}, naming the field`, () => {
       assert.throws(
         () => checkRecordedPath(value, 'settings.structureFile', 'run/EIGENVAL.valleys.json'),
-        (e: unknown) => e instanceof PathRefusedError && /^settings\.structureFile in run\/EIGENVAL\.valleys\.json/.test(e.message) && why.test(e.message) && !/\n/.test(e.message),
+        (e: unknown) =>
+          e instanceof PathRefusedError &&
+          /^settings\.structureFile in run\/EIGENVAL\.valleys\.json/.test(e.message) &&
+          why.test(e.message) &&
+          !/\n/.test(e.message),
       );
     });
   }
@@ -129,7 +136,10 @@ describe('smaller items', function () {
     const o = await runCli(['analyze', '--json', d]);
     assert.equal(o.code, 0, o.err);
     const r = JSON.parse(o.out) as { warnings: string[]; extrema: { kind: string; masses: { mass: number }[] }[] };
-    assert.ok(r.warnings.some((w) => /KPOINTS.*not a text file/.test(w)), JSON.stringify(r.warnings));
+    assert.ok(
+      r.warnings.some((w) => /KPOINTS.*not a text file/.test(w)),
+      JSON.stringify(r.warnings),
+    );
     // Still read as a path: the CBM keeps its mass (cosine tight-binding model, analytic m_c = 0.119 m_e with
     // t = 2 eV, a = 4 Å; tinyRun.ts; the coarse path reads it within a few per cent).
     const cbm = r.extrema.find((e) => e.kind === 'cbm');
@@ -236,7 +246,10 @@ describe('smaller items', function () {
     assert.ok(!a.warnings.some((w) => noCell.test(w)), JSON.stringify(a.warnings));
     assert.ok(!doc.warnings.some((w) => noCell.test(w)), JSON.stringify(doc.warnings));
     const without = await runCli(['analyze', '--json', join(d, 'bands.out')]);
-    assert.ok((JSON.parse(without.out) as { warnings: string[] }).warnings.some((w) => noCell.test(w)), 'the warning exists without --structure');
+    assert.ok(
+      (JSON.parse(without.out) as { warnings: string[] }).warnings.some((w) => noCell.test(w)),
+      'the warning exists without --structure',
+    );
     assert.equal((await runCli(['check', d])).code, 0);
   });
 });

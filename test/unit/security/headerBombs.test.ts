@@ -86,7 +86,10 @@ describe('header bombs in companion files', function () {
       const r = results.find((x) => name.test(x.name));
       assert.ok(r, `a case for ${name}`);
       assert.equal(r.kind, 'none', `${r.name}: the run itself is read`);
-      assert.ok(r.warnings.some((w) => warning.test(w)), `${r.name}: warnings ${JSON.stringify(r.warnings)}`);
+      assert.ok(
+        r.warnings.some((w) => warning.test(w)),
+        `${r.name}: warnings ${JSON.stringify(r.warnings)}`,
+      );
     }
   });
 });

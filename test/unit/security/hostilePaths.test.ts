@@ -196,7 +196,7 @@ describe('hostile companions of a VASP run (POSCAR, CONTCAR, KPOINTS, INCAR)', f
         assertContained(await runCli(['analyze', dir]), `analyze (${name} ${t})`, REFUSED);
         assertContained(await runCli(['analyze', '--json', dir]), `analyze --json (${name} ${t})`, REFUSED);
         assertContained(await runCli(['annotate', dir]), `annotate (${name} ${t})`, REFUSED);
-        });
+      });
     }
   }
 });
@@ -262,8 +262,17 @@ describe('hostile paths on the command line (may go anywhere, but only regular f
     symlinkSync('/dev/zero', link);
     for (const s of ['/dev/zero', fifo, link, outsideFifo]) {
       // analyze reports a bad --structure as a usage error (exit 2), as for a missing file.
-      assertContained(await runCli(['analyze', dir, '--structure', s]), `analyze --structure ${s}`, /not a regular file|FIFO|character device|not opened/, [2]);
-      assertContained(await runCli(['annotate', dir, '--structure', s]), `annotate --structure ${s}`, /not a regular file|FIFO|character device|not opened/);
+      assertContained(
+        await runCli(['analyze', dir, '--structure', s]),
+        `analyze --structure ${s}`,
+        /not a regular file|FIFO|character device|not opened/,
+        [2],
+      );
+      assertContained(
+        await runCli(['annotate', dir, '--structure', s]),
+        `annotate --structure ${s}`,
+        /not a regular file|FIFO|character device|not opened/,
+      );
     }
   });
   it('the data path itself: /dev/zero or a FIFO end with a sentence', async () => {

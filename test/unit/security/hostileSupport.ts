@@ -70,8 +70,7 @@ export function filesContainingToken(dir: string, except: string[] = []): string
       const st = lstatSync(p);
       if (st.isDirectory()) {
         if (name !== '.git') walk(p);
-      }
-      else if (st.isFile() && readFileSync(p, 'latin1').includes(TOKEN)) hits.push(p);
+      } else if (st.isFile() && readFileSync(p, 'latin1').includes(TOKEN)) hits.push(p);
     }
   };
   walk(dir);

@@ -14,7 +14,15 @@ import { BODY_CLASS, THEME_VARS, type TestTheme } from './themes';
 import { waitForExpression } from './pageHelpers';
 
 export const CHROMIUM_PATH = '/usr/bin/chromium';
-export const CHROMIUM_ARGS = ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+export const CHROMIUM_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
 export const BUNDLE = join('dist', 'webview', 'bandView.js');
 
 /** Builds the view bundle the way esbuild.mjs does (IIFE for the browser). */
@@ -77,7 +85,9 @@ export interface ViewPage {
 export function testPageHtml(origin: string, scriptUri: string, title: string, theme: TestTheme): string {
   const nonce = randomBytes(16).toString('hex');
   let html = bandViewHtml({ cspSource: origin, nonce, scriptUri, title });
-  const vars = Object.entries(THEME_VARS[theme]).map(([k, v]) => `${k}: ${v};`).join(' ');
+  const vars = Object.entries(THEME_VARS[theme])
+    .map(([k, v]) => `${k}: ${v};`)
+    .join(' ');
   html = html.replace('</head>', `  <style nonce="${nonce}">html { ${vars} }</style>\n</head>`);
   return html.replace(`<script nonce="${nonce}"`, `<script nonce="${nonce}" src="${origin}/stub.js"></script>\n  <script nonce="${nonce}"`);
 }
@@ -139,8 +149,10 @@ export async function startHarness(): Promise<Harness> {
       return {
         page,
         errors,
-        posted: () => page.evaluate(() => (window as unknown as { __posted: Array<Record<string, unknown>> }).__posted.map((m) => ({ ...m }))),
-        hostPost: (message: unknown) => page.evaluate((m) => (window as unknown as { __hostPost(m: unknown): void }).__hostPost(m), message as object),
+        posted: () =>
+          page.evaluate(() => (window as unknown as { __posted: Array<Record<string, unknown>> }).__posted.map((m) => ({ ...m }))),
+        hostPost: (message: unknown) =>
+          page.evaluate((m) => (window as unknown as { __hostPost(m: unknown): void }).__hostPost(m), message as object),
         cspViolations: () => page.evaluate(() => (window as unknown as { __cspViolations: string[] }).__cspViolations),
       };
     },

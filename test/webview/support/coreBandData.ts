@@ -13,7 +13,15 @@ import { makeFitService } from '../../../src/extension/fitService';
 import type { LoadedRun as HostRun } from '../../../src/extension/runLoader';
 import type { PathGeometry } from '../../../src/core/lattice/kpath';
 import type { FitResultMessage, FitTarget } from '../../../src/protocol';
-import { decodeArray, encodeArrayBase64, HostToViewType, type BandData, type BandDataMessage, type EncodedArray, type EnvironmentData } from '../../../src/protocol';
+import {
+  decodeArray,
+  encodeArrayBase64,
+  HostToViewType,
+  type BandData,
+  type BandDataMessage,
+  type EncodedArray,
+  type EnvironmentData,
+} from '../../../src/protocol';
 import type { BandStructure, Report } from '../../../src/core/model';
 
 export interface LoadedRun {
@@ -61,7 +69,14 @@ export function bandDataMessage(data: BandData, environment: EnvironmentData = W
  * the core's effective-mass engine). The fit service reads only the band structure and path geometry of a
  * run, so the editor-only fields (URIs, size) are left out here.
  */
-export function hostFitResult(run: LoadedRun, requestId: number, target: FitTarget, window_meV: number, method: string, withScan: boolean): FitResultMessage {
+export function hostFitResult(
+  run: LoadedRun,
+  requestId: number,
+  target: FitTarget,
+  window_meV: number,
+  method: string,
+  withScan: boolean,
+): FitResultMessage {
   const service = makeFitService(() => DEFAULT_SETTINGS);
   const hostRun = { bs: run.bs, report: run.report, geometry: run.geometry } as unknown as HostRun;
   const out = service.fit(hostRun, target, window_meV, method, withScan);

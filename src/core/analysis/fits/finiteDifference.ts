@@ -103,7 +103,9 @@ export function finiteDifferenceCurvature(s: LineSamples, settings: FitSettings,
     warnings.push('Symmetric difference: at this time-reversal-invariant k the far side of the line mirrors the near side.');
   }
   if (settings.energySigma > 0 && curvatureStderr > 0.1 * Math.abs(curvature)) {
-    warnings.push('The rounding of the energies in the file is large against the energy change over the stencil: this finite difference is noisy.');
+    warnings.push(
+      'The rounding of the energies in the file is large against the energy change over the stencil: this finite difference is noisy.',
+    );
   }
   // The check: the same stencil at twice the step.
   const wide = apply(2);
@@ -124,7 +126,9 @@ export function finiteDifferenceCurvature(s: LineSamples, settings: FitSettings,
       determined = false;
       undeterminedReason = `the curvature changes by ${(100 * change).toFixed(0)} % between steps h and 2h: the band is not parabolic over the stencil`;
     } else if (change > 0.05) {
-      warnings.push(`The same stencil at twice the step gives a curvature ${(100 * change).toFixed(0)} % different: non-parabolic terms matter at this spacing.`);
+      warnings.push(
+        `The same stencil at twice the step gives a curvature ${(100 * change).toFixed(0)} % different: non-parabolic terms matter at this spacing.`,
+      );
     }
   }
   const fit: CurvatureFit = {

@@ -26,7 +26,11 @@ export function kaneCurvature(s: LineSamples, settings: FitSettings): CurvatureF
   const n = win.n;
   const p = 4;
   if (n < p + 1) return null;
-  const start = polynomialCurvature({ t: s.t.subarray(0, n), e: s.e.subarray(0, n) }, { ...settings, window_meV: Infinity }, { degree: 2, method: 'kane', minPoints: 3 });
+  const start = polynomialCurvature(
+    { t: s.t.subarray(0, n), e: s.e.subarray(0, n) },
+    { ...settings, window_meV: Infinity },
+    { degree: 2, method: 'kane', minPoints: 3 },
+  );
   if (!start || !Number.isFinite(start.curvature) || start.curvature === 0) return null;
   const sign = start.curvature > 0 ? 1 : -1;
   // Parameters: E0 (eV), t0 (Å⁻¹), A = ħ²/2m* (eV Å²), α (1/eV).
@@ -108,11 +112,14 @@ export function kaneCurvature(s: LineSamples, settings: FitSettings): CurvatureF
   const alphaStderr = Math.sqrt(Math.max(cov.cov[3 * p + 3]!, 0));
   // Typical α of semiconductors is 0.1-1 /eV (common practice): an error above half of α, and above 0.05 /eV, says little.
   if (alphaStderr > Math.max(0.5 * Math.abs(alpha), 0.05)) {
-    warnings.push(`α is poorly determined in a ${win.window_meV.toFixed(0)} meV window (±${alphaStderr.toPrecision(2)} /eV): ${win.window_meV < 100 ? 'use a wider window (100-200 meV) for the Kane fit' : 'the band does not follow the Kane form closely here'}.`);
+    warnings.push(
+      `α is poorly determined in a ${win.window_meV.toFixed(0)} meV window (±${alphaStderr.toPrecision(2)} /eV): ${win.window_meV < 100 ? 'use a wider window (100-200 meV) for the Kane fit' : 'the band does not follow the Kane form closely here'}.`,
+    );
   }
   const h = t.length > 1 ? t[1]! : tmax;
   const tv = x[1]!;
-  const outside = tv < -1.5 * h || tv > tmax ? `the fitted vertex lies ${tv.toFixed(4)} Å⁻¹ from the sampled point, outside the points used` : null;
+  const outside =
+    tv < -1.5 * h || tv > tmax ? `the fitted vertex lies ${tv.toFixed(4)} Å⁻¹ from the sampled point, outside the points used` : null;
   return {
     ...quotability(mass, stderr, n, p, outside),
     method: 'kane',

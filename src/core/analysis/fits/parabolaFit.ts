@@ -11,4 +11,3 @@ export const PARABOLA_MIN_POINTS = 4;
 export function parabolaCurvature(s: LineSamples, settings: FitSettings): CurvatureFit | null {
   return polynomialCurvature(s, settings, { degree: 2, method: 'parabola', minPoints: PARABOLA_MIN_POINTS });
 }
-

@@ -68,9 +68,12 @@ export function polynomialCurvature(s: LineSamples, settings: FitSettings, opt: 
   let vertexE = e0;
   for (let j = 0; j < coefT.length; j++) vertexE += coefT[j]! * tv ** j;
   const h = s.t.length > 1 ? s.t[1]! : tmax;
-  const outside = tv < -1.5 * h || tv > tmax ? `the fitted vertex lies ${tv.toFixed(4)} Å⁻¹ from the sampled point, outside the points used` : null;
+  const outside =
+    tv < -1.5 * h || tv > tmax ? `the fitted vertex lies ${tv.toFixed(4)} Å⁻¹ from the sampled point, outside the points used` : null;
   if (outside) {
-    warnings.push(`The fitted vertex lies ${tv.toFixed(4)} Å⁻¹ from the sampled extremum, outside the points used: the band may not have its extremum here.`);
+    warnings.push(
+      `The fitted vertex lies ${tv.toFixed(4)} Å⁻¹ from the sampled extremum, outside the points used: the band may not have its extremum here.`,
+    );
   }
   const nonParabolic = residualWarning(rms, win.window_meV, settings.energySigma);
   if (nonParabolic) warnings.push(nonParabolic);

@@ -15,10 +15,16 @@ export interface Quotability {
 export function quotability(mass: number, stderr: number, points: number, unknowns: number, vertexOutside: string | null): Quotability {
   if (!Number.isFinite(mass) || mass === 0) return { determined: false, undeterminedReason: 'the fitted curvature is zero or not finite' };
   if (points <= unknowns) {
-    return { determined: false, undeterminedReason: `${points} point${points === 1 ? '' : 's'} for ${unknowns} unknowns: the fit passes through every point and nothing tests it` };
+    return {
+      determined: false,
+      undeterminedReason: `${points} point${points === 1 ? '' : 's'} for ${unknowns} unknowns: the fit passes through every point and nothing tests it`,
+    };
   }
   if (!(stderr <= MAX_RELATIVE_STDERR * Math.abs(mass))) {
-    return { determined: false, undeterminedReason: `standard error ${Number.isFinite(stderr) ? `${((100 * stderr) / Math.abs(mass)).toFixed(0)} %` : 'unknown'} of |m| (above ${100 * MAX_RELATIVE_STDERR} %)` };
+    return {
+      determined: false,
+      undeterminedReason: `standard error ${Number.isFinite(stderr) ? `${((100 * stderr) / Math.abs(mass)).toFixed(0)} %` : 'unknown'} of |m| (above ${100 * MAX_RELATIVE_STDERR} %)`,
+    };
   }
   if (vertexOutside) return { determined: false, undeterminedReason: vertexOutside };
   return { determined: true };

@@ -48,7 +48,8 @@ export function readBandsx(file: InputFile, options: ReadOptions = {}): BandsxDa
   const nBands = Number(m[1]);
   const nkAnnounced = Number(m[2]);
   if (!Number.isInteger(nBands) || nBands <= 0) throw sc.error(`nbnd should be a positive whole number, found "${m[1]}"`, headerLine, 1);
-  if (!Number.isInteger(nkAnnounced) || nkAnnounced <= 0) throw sc.error(`nks should be a positive whole number, found "${m[2]}"`, headerLine, 1);
+  if (!Number.isInteger(nkAnnounced) || nkAnnounced <= 0)
+    throw sc.error(`nks should be a positive whole number, found "${m[2]}"`, headerLine, 1);
   // Before allocating: one k-point's energies (two bytes each at least) must fit in the file.
   checkAnnouncedCount(sc, nBands, 2, 'bands (nbnd)', headerLine);
   const remaining = file.bytes.length - sc.pos;
@@ -77,7 +78,8 @@ export function readBandsx(file: InputFile, options: ReadOptions = {}): BandsxDa
       x = sc.number(`the first coordinate of k-point ${k + 1}`);
       y = sc.number(`the second coordinate of k-point ${k + 1}`);
       z = sc.number(`the third coordinate of k-point ${k + 1}`);
-      if (!sc.atEol()) throw sc.error(`the line of k-point ${k + 1} should hold three coordinates only, found also "${sc.peekToken()}"`, kLine);
+      if (!sc.atEol())
+        throw sc.error(`the line of k-point ${k + 1} should hold three coordinates only, found also "${sc.peekToken()}"`, kLine);
       sc.nextLine();
       for (let b = 0; b < nBands; b++) {
         sc.skipWhitespace();
@@ -90,7 +92,8 @@ export function readBandsx(file: InputFile, options: ReadOptions = {}): BandsxDa
         }
         energies[k * nBands + b] = sc.number(`the energy of band ${b + 1} at k-point ${k + 1}`);
       }
-      if (complete && !sc.atEol()) throw sc.error(`k-point ${k + 1} has more than the ${nBands} energies the header announces: "${sc.peekToken()}"`);
+      if (complete && !sc.atEol())
+        throw sc.error(`k-point ${k + 1} has more than the ${nBands} energies the header announces: "${sc.peekToken()}"`);
       // A last line without its newline may have been cut inside a number: not trusted in a file still being written.
       if (complete && !sc.nextLine() && options.allowPartial && k < nkAnnounced - 1) complete = false;
     } catch (e) {
@@ -104,7 +107,10 @@ export function readBandsx(file: InputFile, options: ReadOptions = {}): BandsxDa
     kCartesian[3 * k + 2] = z;
     nk = k + 1;
   }
-  if (nk === 0) throw sc.error(`the file ends inside the first k-point, before all ${nBands} of its energies (it is truncated, or still being written)`);
+  if (nk === 0)
+    throw sc.error(
+      `the file ends inside the first k-point, before all ${nBands} of its energies (it is truncated, or still being written)`,
+    );
   sc.skipBlankLines();
   if (!sc.atEnd() && nk === nkAnnounced) {
     throw sc.error(`unexpected data after the last of the ${nkAnnounced} k-points the header announces: "${sc.peekToken()}"`);
@@ -214,7 +220,8 @@ export const bandsxReader: FormatReader = {
         files.push({ role: 'lattice', path: c.path, sha256: sha256Hex(c.bytes) });
         break;
       } catch (e) {
-        if (e instanceof ReaderError) warnings.push({ code: 'xml-unreadable', message: `${e.message}; the data file was not used`, file: c.path, line: e.line });
+        if (e instanceof ReaderError)
+          warnings.push({ code: 'xml-unreadable', message: `${e.message}; the data file was not used`, file: c.path, line: e.line });
         else throw e;
       }
     }
@@ -248,7 +255,8 @@ export const bandsxReader: FormatReader = {
         } else {
           warnings.push({
             code: 'no-alat',
-            message: 'alat is unknown (no pw.x data file beside the bands and none given) and could not be inferred from the cell: k-points stay in cartesian units of 2π/alat; masses cannot be given in m_e.',
+            message:
+              'alat is unknown (no pw.x data file beside the bands and none given) and could not be inferred from the cell: k-points stay in cartesian units of 2π/alat; masses cannot be given in m_e.',
           });
           lattice = null;
           structure = null;
@@ -274,11 +282,13 @@ export const bandsxReader: FormatReader = {
       if (!warnings.some((w) => w.code === 'no-alat')) {
         warnings.push({
           code: 'no-alat',
-          message: 'No pw.x data file (prefix.xml or data-file-schema.xml) beside the bands and no --alat or --structure given: k-points stay in cartesian units of 2π/alat and masses cannot be given in m_e.',
+          message:
+            'No pw.x data file (prefix.xml or data-file-schema.xml) beside the bands and no --alat or --structure given: k-points stay in cartesian units of 2π/alat and masses cannot be given in m_e.',
         });
       }
     }
-    if (lattice && !structure) warnings.push({ code: 'no-structure', message: 'No crystal structure: valley degeneracy cannot be determined.' });
+    if (lattice && !structure)
+      warnings.push({ code: 'no-structure', message: 'No crystal structure: valley degeneracy cannot be determined.' });
 
     let electrons: number | null = null;
     let fermiEnergy: number | null = null;
@@ -287,26 +297,43 @@ export const bandsxReader: FormatReader = {
     if (xml) {
       method = qeMethod(xml.functional, xml.hybrid);
       if (xml.nBands < data.nBands) {
-        warnings.push({ code: 'xml-band-count', message: `The data file lists ${xml.nBands} bands, the band file ${data.nBands}: the data file may belong to another run.` });
+        warnings.push({
+          code: 'xml-band-count',
+          message: `The data file lists ${xml.nBands} bands, the band file ${data.nBands}: the data file may belong to another run.`,
+        });
       }
       fermiEnergy = xml.fermiEnergy;
       if (options.spinorbit === undefined) spinorbit = xml.noncolin || xml.spinorbit;
       if (xml.lsda) {
         warnings.push({
           code: 'one-spin-channel',
-          message: 'The data file describes a spin-polarised run; bands.x writes one spin channel per file, so band edges are placed with the Fermi energy, not the electron count.',
+          message:
+            'The data file describes a spin-polarised run; bands.x writes one spin channel per file, so band edges are placed with the Fermi energy, not the electron count.',
         });
       } else electrons = xml.electrons;
     } else {
-      warnings.push({ code: 'no-electrons', message: 'bands.x output gives no electron count or Fermi energy; the pw.x data file beside it would.' });
+      warnings.push({
+        code: 'no-electrons',
+        message: 'bands.x output gives no electron count or Fermi energy; the pw.x data file beside it would.',
+      });
     }
     if (data.partial) {
-      warnings.push({ code: 'partial', message: `The file holds ${data.nk} of the ${data.announcedK} k-points its header announces (truncated or still being written): results are provisional.` });
+      warnings.push({
+        code: 'partial',
+        message: `The file holds ${data.nk} of the ${data.announcedK} k-points its header announces (truncated or still being written): results are provisional.`,
+      });
     }
     if (/freq/i.test(basename(main.path))) {
-      warnings.push({ code: 'maybe-phonons', message: 'The file name suggests phonon frequencies (matdyn.x writes them, in cm⁻¹, under the same header): the values were read as band energies in eV.' });
+      warnings.push({
+        code: 'maybe-phonons',
+        message:
+          'The file name suggests phonon frequencies (matdyn.x writes them, in cm⁻¹, under the same header): the values were read as band energies in eV.',
+      });
     }
-    warnings.push({ code: 'rounded-energies', message: 'bands.x rounds energies to 1 meV: curvature fits on this file carry that rounding in their errors.' });
+    warnings.push({
+      code: 'rounded-energies',
+      message: 'bands.x rounds energies to 1 meV: curvature fits on this file carry that rounding in their errors.',
+    });
     return {
       source: { format: BANDSX_FORMAT, file: main.path, files },
       lattice,

@@ -91,17 +91,29 @@ export interface QeXmlData {
 }
 
 /** Functionals pw.x names, by family (common practice: the names of the QE input keyword input_dft). */
-const SEMILOCAL_FUNCTIONALS = /^(PZ|LDA|SLA-PZ|SLA-PW|PW|VWN|PBE|PBESOL|REVPBE|RPBE|PW91|BLYP|BP|PBC|WC|Q2D|OPTBK88|OPTB86B|VDW-DF.*|REV-VDW-DF2|RVV10|SCAN|R2SCAN|TPSS|M06L|SOGGA|HCTH|OLYP|KZK|XC-.*)$/i;
+const SEMILOCAL_FUNCTIONALS =
+  /^(PZ|LDA|SLA-PZ|SLA-PW|PW|VWN|PBE|PBESOL|REVPBE|RPBE|PW91|BLYP|BP|PBC|WC|Q2D|OPTBK88|OPTB86B|VDW-DF.*|REV-VDW-DF2|RVV10|SCAN|R2SCAN|TPSS|M06L|SOGGA|HCTH|OLYP|KZK|XC-.*)$/i;
 const HYBRID_FUNCTIONALS = /^(PBE0|HSE|GAUPBE|B3LYP.*|X3LYP|HF|B86BPBEX|BHAHLYP|PBE0-.*|SCAN0|VDW-DF-CX0.*|VDW-DF2-0|EXX.*)$/i;
 
 /** The method family of a pw.x run from its functional name and whether exact exchange was used. */
 export function qeMethod(functional: string | null, hybrid: boolean): ElectronicMethod {
   const name = functional?.trim() || null;
   if (hybrid || (name && HYBRID_FUNCTIONALS.test(name))) {
-    return { family: 'hybrid', name, evidence: hybrid ? 'the data file has a <hybrid> block (exact exchange)' : `the data file names the functional ${name}` };
+    return {
+      family: 'hybrid',
+      name,
+      evidence: hybrid ? 'the data file has a <hybrid> block (exact exchange)' : `the data file names the functional ${name}`,
+    };
   }
-  if (name && SEMILOCAL_FUNCTIONALS.test(name)) return { family: 'semilocal', name, evidence: `the data file names the functional ${name}` };
-  return { family: 'unknown', name, evidence: name ? `the data file names the functional ${name}, not recognised as semilocal or hybrid` : 'the data file names no functional' };
+  if (name && SEMILOCAL_FUNCTIONALS.test(name))
+    return { family: 'semilocal', name, evidence: `the data file names the functional ${name}` };
+  return {
+    family: 'unknown',
+    name,
+    evidence: name
+      ? `the data file names the functional ${name}, not recognised as semilocal or hybrid`
+      : 'the data file names no functional',
+  };
 }
 
 interface AtomicStructureDraft {
@@ -150,7 +162,8 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
     const out: number[] = [];
     const r = scanNumbers(text, out, 0, expected);
     if (r.bad !== null) {
-      if (r.bad.includes('***')) throw fail(lineNo, `${what} is written as "${r.bad}": the number field overflowed, so the value is unknown`);
+      if (r.bad.includes('***'))
+        throw fail(lineNo, `${what} is written as "${r.bad}": the number field overflowed, so the value is unknown`);
       throw fail(lineNo, `${what} should be a number, found "${r.bad}"`);
     }
     if (r.count !== expected) throw fail(lineNo, `${what} should hold ${expected} numbers, found ${r.count}`);
@@ -168,7 +181,10 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
         const depth = path.length;
         if (depth === 1) {
           if (!/(^|:)espresso$/.test(name)) {
-            throw fail(1, `the root element is <${name}>; a pw.x data file starts with <qes:espresso> (files of versions before 6.2 are not read)`);
+            throw fail(
+              1,
+              `the root element is <${name}>; a pw.x data file starts with <qes:espresso> (files of versions before 6.2 are not read)`,
+            );
           }
           rootSeen = true;
           return;
@@ -179,7 +195,14 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
         if (name === 'atomic_structure') {
           const sec = section(path);
           draftSection = sec;
-          draft = { alat: numberAttribute(attrs, 'alat'), species: [], positions: [], kind: null, cell: [null, null, null], line: currentLine };
+          draft = {
+            alat: numberAttribute(attrs, 'alat'),
+            species: [],
+            positions: [],
+            kind: null,
+            cell: [null, null, null],
+            line: currentLine,
+          };
         } else if (name === 'atom' && draft && (parent === 'atomic_positions' || parent === 'crystal_positions')) {
           atomName = (attrs.name ?? '').trim();
           draft.kind = parent === 'atomic_positions' ? 'cartesian' : 'crystal';
@@ -247,8 +270,10 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
             const k = kComplete + 1;
             if (!kHasEig) throw fail(line, `k-point ${k} has no eigenvalues`);
             if (kCart.length !== 3 * k) throw fail(line, `the block of k-point ${k} (<ks_energies>) should hold exactly one <k_point>`);
-            if (eig.length !== k * bandsPerK) throw fail(line, `the block of k-point ${k} (<ks_energies>) should hold exactly one <eigenvalues>`);
-            if (occ.length !== 0 && occ.length !== k * occPerK) throw fail(line, `the block of k-point ${k} (<ks_energies>) should hold exactly one <occupations>`);
+            if (eig.length !== k * bandsPerK)
+              throw fail(line, `the block of k-point ${k} (<ks_energies>) should hold exactly one <eigenvalues>`);
+            if (occ.length !== 0 && occ.length !== k * occPerK)
+              throw fail(line, `the block of k-point ${k} (<ks_energies>) should hold exactly one <occupations>`);
             kComplete++;
           }
         } else if (parent === 'ks_energies') {
@@ -307,7 +332,12 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
   const noncolin = bool('noncolin');
   const spinorbit = bool('spinorbit');
   if (!kSeen || kComplete === 0) {
-    throw fail(line, outcome.complete ? 'the file holds no eigenvalues (no <ks_energies> in <band_structure>)' : 'the file ends before the first eigenvalues (it is truncated, or pw.x is still writing it)');
+    throw fail(
+      line,
+      outcome.complete
+        ? 'the file holds no eigenvalues (no <ks_energies> in <band_structure>)'
+        : 'the file ends before the first eigenvalues (it is truncated, or pw.x is still writing it)',
+    );
   }
   const announcedK = num('nks') ?? kComplete;
   if (outcome.complete && kComplete !== announcedK) {
@@ -319,8 +349,10 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
   if (lsda) {
     const up = num('nbnd_up');
     const dw = num('nbnd_dw');
-    if (up !== null && dw !== null && up !== dw) throw fail(line, `spin-up and spin-down band counts differ (${up} and ${dw}); Valleyscope needs the same number in both channels`);
-    if (bandsPerK % 2 !== 0) throw fail(line, `a spin-polarised (lsda) file must hold an even number of eigenvalues per k-point, found ${bandsPerK}`);
+    if (up !== null && dw !== null && up !== dw)
+      throw fail(line, `spin-up and spin-down band counts differ (${up} and ${dw}); Valleyscope needs the same number in both channels`);
+    if (bandsPerK % 2 !== 0)
+      throw fail(line, `a spin-polarised (lsda) file must hold an even number of eigenvalues per k-point, found ${bandsPerK}`);
     nBands = bandsPerK / 2;
   } else {
     const nbnd = num('nbnd');
@@ -458,10 +490,17 @@ export function qeXmlToBandStructure(data: QeXmlData, main: InputFile, options: 
     });
   }
   if (data.fermiSource === 'highestOccupiedLevel') {
-    warnings.push({ code: 'fermi-is-homo', message: 'pw.x gives the highest occupied level (fixed occupations), used as the energy reference.' });
+    warnings.push({
+      code: 'fermi-is-homo',
+      message: 'pw.x gives the highest occupied level (fixed occupations), used as the energy reference.',
+    });
   }
   if (data.fermiSource === 'two_fermi_energies') {
-    warnings.push({ code: 'two-fermi', message: 'pw.x gives one Fermi energy per spin channel (fixed magnetisation): each channel is classified at its own, and the higher one is the energy reference.' });
+    warnings.push({
+      code: 'two-fermi',
+      message:
+        'pw.x gives one Fermi energy per spin channel (fixed magnetisation): each channel is classified at its own, and the higher one is the energy reference.',
+    });
   }
   if (data.noncolin && !data.spinorbit) {
     warnings.push({ code: 'noncollinear', message: 'Non-collinear run without spin-orbit coupling: each band holds one electron.' });

@@ -96,9 +96,7 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
     sc.skipBlankLines();
     if (sc.atEnd() || k >= maxK) {
       if (options.allowPartial && k > 0) break;
-      throw sc.error(
-        `the file ends after ${k} of ${nkAnnounced} k-points (it is truncated, or the run is still writing it)`,
-      );
+      throw sc.error(`the file ends after ${k} of ${nkAnnounced} k-points (it is truncated, or the run is still writing it)`);
     }
     let complete = true;
     let kx = 0;
@@ -206,7 +204,7 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
     kpoints: trim(kpoints, nk * 3),
     weights: trim(weights, nk),
     energies: energies.map((e) => trim(e, nk * nBands)),
-    occupations: occupations ? (occupations).map((e) => (e.length === nk * nBands ? e : e.slice(0, nk * nBands))) : null,
+    occupations: occupations ? occupations.map((e) => (e.length === nk * nBands ? e : e.slice(0, nk * nBands))) : null,
     system,
     announcedK: nkAnnounced,
     partial: nk < nkAnnounced,
@@ -218,7 +216,11 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
 export function detectEigenval(head: Uint8Array, name: string): number {
   const text = new TextDecoder().decode(head.subarray(0, 4096)).replace(/^\uFEFF/, '');
   const lines = text.split(/\r?\n/);
-  const ints = (l: string | undefined): boolean[] => (l ?? '').trim().split(/\s+/).map((t) => /^[+-]?\d+$/.test(t));
+  const ints = (l: string | undefined): boolean[] =>
+    (l ?? '')
+      .trim()
+      .split(/\s+/)
+      .map((t) => /^[+-]?\d+$/.test(t));
   const l1 = ints(lines[0]);
   if (l1.length !== 4 || !l1.every(Boolean)) return 0;
   // A header cut short (a job that has just started, or a truncated copy): let the reader say where.

@@ -13,9 +13,7 @@ export const SAME_K_TOLERANCE = 2e-4;
 
 /** Whether the fractional k-point `a` equals the one at kpoints[off .. off+2] within `tol` per coordinate. */
 export function sameK(a: Vec3, kpoints: ArrayLike<number>, off: number, tol = SAME_K_TOLERANCE): boolean {
-  return (
-    Math.abs(a[0] - kpoints[off]!) < tol && Math.abs(a[1] - kpoints[off + 1]!) < tol && Math.abs(a[2] - kpoints[off + 2]!) < tol
-  );
+  return Math.abs(a[0] - kpoints[off]!) < tol && Math.abs(a[1] - kpoints[off + 1]!) < tol && Math.abs(a[2] - kpoints[off + 2]!) < tol;
 }
 
 /**
@@ -31,7 +29,8 @@ export function labelsFromLineMode(
 ): { labels: KLabel[]; warning: string | null } {
   let ends = path.ends.map((e) => ({ ...e }));
   if (path.coordinates === 'cartesian') {
-    if (!latticeOverScale) return { labels: [], warning: 'KPOINTS gives the path in cartesian coordinates but no structure is known: labels were not placed.' };
+    if (!latticeOverScale)
+      return { labels: [], warning: 'KPOINTS gives the path in cartesian coordinates but no structure is known: labels were not placed.' };
     ends = ends.map((e) => ({ ...e, k: kpointsCartesianToFractional(e.k, latticeOverScale) }));
   }
   const n = path.pointsPerSegment;

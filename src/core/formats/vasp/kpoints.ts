@@ -36,7 +36,11 @@ export function readKpoints(file: InputFile): KpointsContent {
   const sc = new TextScanner(file.bytes, file.path, KPOINTS_FORMAT);
   if (sc.atEnd()) throw sc.error('the k-points file is empty');
   if (binaryAt(file.bytes) >= 0) {
-    throw sc.error('KPOINTS is not a text file (it holds binary bytes): the k-point layout could not be read, so the run is treated as having no KPOINTS', 0, 0);
+    throw sc.error(
+      'KPOINTS is not a text file (it holds binary bytes): the k-point layout could not be read, so the run is treated as having no KPOINTS',
+      0,
+      0,
+    );
   }
   sc.restOfLine();
   const nLine = sc.line;
@@ -46,7 +50,11 @@ export function readKpoints(file: InputFile): KpointsContent {
   const mode = sc.restOfLine().trim();
   if (!/^[lL]/.test(mode)) {
     if (n === null || !Number.isSafeInteger(n) || n < 0) {
-      throw sc.error('line 2 of KPOINTS should hold the number of k-points (0 for an automatic mesh): the k-point layout could not be read', nLine, 1);
+      throw sc.error(
+        'line 2 of KPOINTS should hold the number of k-points (0 for an automatic mesh): the k-point layout could not be read',
+        nLine,
+        1,
+      );
     }
     return { mode: 'other', description: n === 0 ? 'an automatic k-point mesh' : 'an explicit list of k-points' };
   }
@@ -64,7 +72,8 @@ export function readKpoints(file: InputFile): KpointsContent {
     if (sc.atEnd()) break;
     const line = sc.line;
     const k: Vec3 = [sc.number('a path end k-point (1st)'), sc.number('a path end k-point (2nd)'), sc.number('a path end k-point (3rd)')];
-    if (k.some((x) => Math.abs(x) > MAX_PATH_COORDINATE)) throw sc.error(`a path end has a coordinate beyond ±${MAX_PATH_COORDINATE}: not a k-point of a calculation`, line, 1);
+    if (k.some((x) => Math.abs(x) > MAX_PATH_COORDINATE))
+      throw sc.error(`a path end has a coordinate beyond ±${MAX_PATH_COORDINATE}: not a k-point of a calculation`, line, 1);
     let rest = sc.restOfLine().trim();
     if (rest.startsWith('!')) rest = rest.slice(1).trim();
     // A weight column may precede the label in some hand-written files.
@@ -76,7 +85,11 @@ export function readKpoints(file: InputFile): KpointsContent {
   }
   if (ends.length < 2) throw sc.error('line mode needs at least one segment (two end points)');
   if (ends.length % 2 !== 0) {
-    throw sc.error(`line mode lists ${ends.length} end points; segments need them in pairs (the last one has no partner)`, ends[ends.length - 1]!.line, 1);
+    throw sc.error(
+      `line mode lists ${ends.length} end points; segments need them in pairs (the last one has no partner)`,
+      ends[ends.length - 1]!.line,
+      1,
+    );
   }
   return { mode: 'line', path: { pointsPerSegment: n, coordinates, ends } };
 }

@@ -15,21 +15,25 @@ export interface RequestedMesh {
 }
 
 export type KpointsMeshHeader =
-  | { kind: 'mesh'; mesh: RequestedMesh }
-  | { kind: 'auto-length'; length: number }
-  | { kind: 'not-a-mesh'; reason: string };
+  { kind: 'mesh'; mesh: RequestedMesh } | { kind: 'auto-length'; length: number } | { kind: 'not-a-mesh'; reason: string };
 
 const MAX_DIVISIONS = 1000;
 
 function numbers(line: string | undefined): number[] {
   if (line === undefined) return [];
-  return line.trim().split(/\s+/).filter((x) => x.length > 0).slice(0, 3).map(Number);
+  return line
+    .trim()
+    .split(/\s+/)
+    .filter((x) => x.length > 0)
+    .slice(0, 3)
+    .map(Number);
 }
 
 export function readKpointsMeshHeader(text: string): KpointsMeshHeader {
   const lines = text.split(/\r?\n/, 6);
   const count = Number((lines[1] ?? '').trim().split(/\s+/)[0]);
-  if (!Number.isInteger(count) || count !== 0) return { kind: 'not-a-mesh', reason: 'Line 2 of the KPOINTS file is not 0: the file lists k-points or a path, not an automatic mesh.' };
+  if (!Number.isInteger(count) || count !== 0)
+    return { kind: 'not-a-mesh', reason: 'Line 2 of the KPOINTS file is not 0: the file lists k-points or a path, not an automatic mesh.' };
   const mode = (lines[2] ?? '').trim().charAt(0).toLowerCase();
   if (mode === 'a') {
     const length = numbers(lines[3])[0];
@@ -38,10 +42,17 @@ export function readKpointsMeshHeader(text: string): KpointsMeshHeader {
     }
     return { kind: 'auto-length', length };
   }
-  if (mode !== 'g' && mode !== 'm') return { kind: 'not-a-mesh', reason: `Line 3 of the KPOINTS file ("${(lines[2] ?? '').trim().slice(0, 40)}") names no mesh kind this reads (Gamma, Monkhorst-Pack, Auto).` };
+  if (mode !== 'g' && mode !== 'm')
+    return {
+      kind: 'not-a-mesh',
+      reason: `Line 3 of the KPOINTS file ("${(lines[2] ?? '').trim().slice(0, 40)}") names no mesh kind this reads (Gamma, Monkhorst-Pack, Auto).`,
+    };
   const n = numbers(lines[3]);
   if (n.length !== 3 || !n.every((x) => Number.isInteger(x) && x >= 1 && x <= MAX_DIVISIONS)) {
-    return { kind: 'not-a-mesh', reason: `Line 4 of the KPOINTS file does not give three whole numbers of divisions between 1 and ${MAX_DIVISIONS}.` };
+    return {
+      kind: 'not-a-mesh',
+      reason: `Line 4 of the KPOINTS file does not give three whole numbers of divisions between 1 and ${MAX_DIVISIONS}.`,
+    };
   }
   const extra = numbers(lines[4]);
   const user = extra.length === 3 && extra.every(Number.isFinite) ? extra : [0, 0, 0];
@@ -60,7 +71,13 @@ export function readKpointsMeshHeader(text: string): KpointsMeshHeader {
  */
 export function automaticDivisions(length: number, lattice: Mat3): [number, number, number] {
   const [a1, a2, a3] = lattice;
-  const cross = (u: readonly number[], v: readonly number[]): number[] => [u[1]! * v[2]! - u[2]! * v[1]!, u[2]! * v[0]! - u[0]! * v[2]!, u[0]! * v[1]! - u[1]! * v[0]!];
+  const cross = (u: readonly number[], v: readonly number[]): number[] => [
+    u[1]! * v[2]! - u[2]! * v[1]!,
+    u[2]! * v[0]! - u[0]! * v[2]!,
+    u[0]! * v[1]! - u[1]! * v[0]!,
+  ];
   const vol = a1[0] * (a2[1] * a3[2] - a2[2] * a3[1]) - a1[1] * (a2[0] * a3[2] - a2[2] * a3[0]) + a1[2] * (a2[0] * a3[1] - a2[1] * a3[0]);
-  return [cross(a2, a3), cross(a3, a1), cross(a1, a2)].map((c) => Math.max(1, Math.floor((length * Math.hypot(c[0]!, c[1]!, c[2]!)) / Math.abs(vol) + 0.5))) as [number, number, number];
+  return [cross(a2, a3), cross(a3, a1), cross(a1, a2)].map((c) =>
+    Math.max(1, Math.floor((length * Math.hypot(c[0]!, c[1]!, c[2]!)) / Math.abs(vol) + 0.5)),
+  ) as [number, number, number];
 }

@@ -58,7 +58,11 @@ export function readPoscarWithScale(file: InputFile): { structure: Structure; sc
     lattice = raw.map((r) => r.map((x, j) => x * scales[j]!)) as Mat3;
   }
   if (!lattice.every((r) => r.every((x) => Number.isFinite(x) && Math.abs(x) <= MAX_CELL_EDGE_ANGSTROM))) {
-    throw sc.error(`a lattice vector component (after scaling) is not finite or larger than ${MAX_CELL_EDGE_ANGSTROM} Å: not the cell of a calculation`, scaleLine + 1, 1);
+    throw sc.error(
+      `a lattice vector component (after scaling) is not finite or larger than ${MAX_CELL_EDGE_ANGSTROM} Å: not the cell of a calculation`,
+      scaleLine + 1,
+      1,
+    );
   }
   if (Math.abs(det3(lattice)) < 1e-8) throw sc.error('the lattice vectors are linearly dependent (zero cell volume)', scaleLine + 1, 1);
 
@@ -89,7 +93,10 @@ export function readPoscarWithScale(file: InputFile): { structure: Structure; sc
   sc.nextLine();
   if (!names) {
     // VASP 4 layout: the species may be in the comment line.
-    const fromComment = comment.trim().split(/\s+/).filter((t) => /^[A-Z][a-z]?$/.test(t));
+    const fromComment = comment
+      .trim()
+      .split(/\s+/)
+      .filter((t) => /^[A-Z][a-z]?$/.test(t));
     names = fromComment.length === counts.length ? fromComment : counts.map((_, i) => `X${i + 1}`);
   }
   let mode = sc.token();
@@ -118,7 +125,8 @@ export function readPoscarWithScale(file: InputFile): { structure: Structure; sc
       sc.number(`position of atom ${a + 1} (2nd coordinate)`),
       sc.number(`position of atom ${a + 1} (3rd coordinate)`),
     ];
-    if (!p.every((x) => Math.abs(x) <= MAX_CELL_EDGE_ANGSTROM)) throw sc.error(`the position of atom ${a + 1} is larger than ${MAX_CELL_EDGE_ANGSTROM}: not a position in a cell`);
+    if (!p.every((x) => Math.abs(x) <= MAX_CELL_EDGE_ANGSTROM))
+      throw sc.error(`the position of atom ${a + 1} is larger than ${MAX_CELL_EDGE_ANGSTROM}: not a position in a cell`);
     let f = p;
     if (inv) f = mulVecMat([p[0] * lengthScale, p[1] * lengthScale, p[2] * lengthScale], inv);
     positions.set(f, 3 * a);

@@ -88,7 +88,11 @@ export function vaspMethod(tags: ReadonlyMap<string, string> | null, where: stri
   const metagga = tags.get('METAGGA');
   if (!unset(metagga)) {
     const m = metagga!.trim();
-    return { family: 'semilocal', name: `meta-GGA ${m}${plusU}`, evidence: `${where} sets METAGGA = ${m}: a semilocal (meta-GGA) functional.` };
+    return {
+      family: 'semilocal',
+      name: `meta-GGA ${m}${plusU}`,
+      evidence: `${where} sets METAGGA = ${m}: a semilocal (meta-GGA) functional.`,
+    };
   }
   const gga = tags.get('GGA');
   if (!unset(gga)) {

@@ -39,8 +39,7 @@ export const vaspEigenvalReader: FormatReader = {
     const data = readEigenval(main, options);
     const warnings: InputWarning[] = [];
     const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: data.sha256 }];
-    const byRole = (role: string): InputFile | undefined =>
-      companions.find((c) => basename(c.path).toUpperCase().includes(role));
+    const byRole = (role: string): InputFile | undefined => companions.find((c) => basename(c.path).toUpperCase().includes(role));
 
     // Structure: CONTCAR (the final structure) when present and not empty, else POSCAR.
     let structure: Structure | null = null;
@@ -55,7 +54,8 @@ export const vaspEigenvalReader: FormatReader = {
         files.push({ role: 'structure', path: f.path, sha256: sha256Hex(f.bytes) });
         break;
       } catch (e) {
-        if (e instanceof ReaderError) warnings.push({ code: 'structure-unreadable', message: `${e.message}; the structure was not used`, file: f.path, line: e.line });
+        if (e instanceof ReaderError)
+          warnings.push({ code: 'structure-unreadable', message: `${e.message}; the structure was not used`, file: f.path, line: e.line });
         else throw e;
       }
     }
@@ -64,7 +64,8 @@ export const vaspEigenvalReader: FormatReader = {
     if (!lattice) {
       warnings.push({
         code: 'no-lattice',
-        message: 'No POSCAR or CONTCAR beside the eigenvalue file: path distances are in fractional units and masses cannot be given in m_e.',
+        message:
+          'No POSCAR or CONTCAR beside the eigenvalue file: path distances are in fractional units and masses cannot be given in m_e.',
       });
     } else if (!structure) {
       warnings.push({ code: 'no-structure', message: 'No crystal structure: valley degeneracy cannot be determined.' });
@@ -93,7 +94,11 @@ export const vaspEigenvalReader: FormatReader = {
       modelMethodFromSystem(data.system, `The EIGENVAL (${basename(main.path)})`) ??
       (incarContent
         ? vaspMethod(incarContent.tags, `The INCAR beside the EIGENVAL (${basename(incar!.path)})`)
-        : { family: 'unknown' as const, name: null, evidence: `No INCAR beside ${basename(main.path)}: nothing says how the energies were computed.` });
+        : {
+            family: 'unknown' as const,
+            name: null,
+            evidence: `No INCAR beside ${basename(main.path)}: nothing says how the energies were computed.`,
+          });
 
     const nBands = data.nBands;
     // Hybrid-functional band runs list the self-consistent mesh (weighted) before the zero-weight path.
@@ -111,18 +116,27 @@ export const vaspEigenvalReader: FormatReader = {
         files.push({ role: 'kpath', path: kfile.path, sha256: sha256Hex(kfile.bytes) });
         if (content.mode === 'line') {
           sampling = 'path';
-          const r = labelsFromLineMode(content.path, kpoints, nk, structure ? structure.lattice.map((row) => row.map((x) => x / scale)) as Mat3 : null);
+          const r = labelsFromLineMode(
+            content.path,
+            kpoints,
+            nk,
+            structure ? (structure.lattice.map((row) => row.map((x) => x / scale)) as Mat3) : null,
+          );
           labels = r.labels;
           if (r.warning) warnings.push({ code: 'kpath-mismatch', message: r.warning, file: kfile.path });
         } else {
           sampling = 'grid';
         }
       } catch (e) {
-        if (e instanceof ReaderError) warnings.push({ code: 'kpath-unreadable', message: `${e.message}; labels were not used`, file: kfile.path, line: e.line });
+        if (e instanceof ReaderError)
+          warnings.push({ code: 'kpath-unreadable', message: `${e.message}; labels were not used`, file: kfile.path, line: e.line });
         else throw e;
       }
     } else {
-      warnings.push({ code: 'no-kpath', message: 'No KPOINTS beside the eigenvalue file: high-symmetry labels are recognised from the lattice where possible.' });
+      warnings.push({
+        code: 'no-kpath',
+        message: 'No KPOINTS beside the eigenvalue file: high-symmetry labels are recognised from the lattice where possible.',
+      });
     }
     if (data.partial) {
       warnings.push({

@@ -26,7 +26,11 @@ function capture(progress = false): CliIO & { stdout: string; stderr: string; sh
   return io;
 }
 
-const lines = (text: string) => text.split('\n').filter((l) => l !== '').map((l) => JSON.parse(l) as Record<string, unknown>);
+const lines = (text: string) =>
+  text
+    .split('\n')
+    .filter((l) => l !== '')
+    .map((l) => JSON.parse(l) as Record<string, unknown>);
 
 /** The gap each run is written with (eV); the tight-binding model's gap is exactly this, direct at Γ. */
 const GAPS: Record<string, number> = { 'a-gap1.0': 1.0, 'b-gap1.5': 1.5, 'group/d-gap2.0': 2.0, 'group/e-gap0.5': 0.5, 'zz/f-gap1.2': 1.2 };
@@ -47,12 +51,14 @@ function makeScreen(): string {
 describe('batch commands: JSON Lines, jobs and shards', function () {
   this.timeout(120000);
   const root = makeScreen();
-  const expectedPaths = [...Object.keys(GAPS), 'c-broken'].map((n) => `${root}/${n}`).sort((a, b) => {
-    const x = a.split('/');
-    const y = b.split('/');
-    for (let i = 0; i < Math.min(x.length, y.length); i++) if (x[i] !== y[i]) return x[i]! < y[i]! ? -1 : 1;
-    return x.length - y.length;
-  });
+  const expectedPaths = [...Object.keys(GAPS), 'c-broken']
+    .map((n) => `${root}/${n}`)
+    .sort((a, b) => {
+      const x = a.split('/');
+      const y = b.split('/');
+      for (let i = 0; i < Math.min(x.length, y.length); i++) if (x[i] !== y[i]) return x[i]! < y[i]! ? -1 : 1;
+      return x.length - y.length;
+    });
 
   let oneMachine = '';
   it('analyze --jsonl: one line per run in path order, a failing run as a line with "error", exit 1', async () => {
@@ -60,7 +66,10 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
     const code = await main(['analyze', root, '--jsonl', '--jobs', '2'], io);
     assert.equal(code, 1, io.stderr);
     const recs = lines(io.stdout);
-    assert.deepEqual(recs.map((r) => r.path), expectedPaths);
+    assert.deepEqual(
+      recs.map((r) => r.path),
+      expectedPaths,
+    );
     for (const r of recs) {
       const name = (r.path as string).slice(root.length + 1);
       if (name === 'c-broken') {
@@ -68,7 +77,8 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
         assert.match(r.error as string, /EIGENVAL:\d+:\d+: /);
         continue;
       }
-      for (const key of ['path', 'file', 'format', 'nk', 'nbands', 'nspin', 'electrons', 'metal', 'gap', 'extrema', 'warnings', 'cautions']) assert.ok(key in r, key);
+      for (const key of ['path', 'file', 'format', 'nk', 'nbands', 'nspin', 'electrons', 'metal', 'gap', 'extrema', 'warnings', 'cautions'])
+        assert.ok(key in r, key);
       const gap = r.gap as { eV: number; direct: boolean; vbm: { band: number }; cbm: { band: number } };
       // Analytic model: gap E_g exactly (written with 6 decimals), direct at Γ, band 1 → band 2 (1-based).
       assert.ok(Math.abs(gap.eV - GAPS[name]!) < 2e-6, `${name}: ${gap.eV}`);
@@ -89,7 +99,11 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
     assert.equal(path, run);
     assert.deepEqual(rest, single);
     // POSCAR: simple cubic, a = 4 Å; its point group m-3m has 48 rotations (International Tables, Vol. A).
-    assert.deepEqual(lattice, [[4, 0, 0], [0, 4, 0], [0, 0, 4]]);
+    assert.deepEqual(lattice, [
+      [4, 0, 0],
+      [0, 4, 0],
+      [0, 0, 4],
+    ]);
     assert.equal((rotations as unknown[]).length, 48);
   });
 
@@ -105,7 +119,10 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
     assert.doesNotMatch(quiet.stderr, /\//);
     const tty = capture(true);
     await main(['analyze', root, '--jsonl', '--jobs', '1'], tty);
-    assert.ok(tty.shown.some((t) => /^valleyscope: 6\/6 runs analysed, 1 failed$/.test(t)), tty.shown.join('|'));
+    assert.ok(
+      tty.shown.some((t) => /^valleyscope: 6\/6 runs analysed, 1 failed$/.test(t)),
+      tty.shown.join('|'),
+    );
     assert.equal(tty.shown.at(-1), '');
     assert.equal(tty.stdout, oneMachine);
   });
@@ -166,7 +183,10 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
     await main(['compare', ...files, '--format', 'json'], j);
     const c = JSON.parse(j.stdout) as { reference: string; runs: { name: string; gap_eV: number }[] };
     assert.equal(c.reference, `${root}/a-gap1.0`);
-    assert.deepEqual(c.runs.map((r) => r.name), expectedPaths.filter((p) => !p.endsWith('c-broken')));
+    assert.deepEqual(
+      c.runs.map((r) => r.name),
+      expectedPaths.filter((p) => !p.endsWith('c-broken')),
+    );
     // A run given twice (shards merged twice) is refused.
     const twice = capture();
     // (Which shard holds which run depends on the paths, here under a random temporary folder.)
@@ -175,7 +195,7 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
     assert.match(twice.stderr, /already given/);
   });
 
-  it('check: the shards of --jsonl merged give one machine\'s report and exit code', async () => {
+  it("check: the shards of --jsonl merged give one machine's report and exit code", async () => {
     const io = capture();
     assert.equal(await main(['annotate', root, '--jobs', '2'], io), 1, io.stderr); // c-broken cannot be annotated
     assert.match(io.stderr, /c-broken/);
@@ -209,7 +229,10 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
     const io = capture();
     assert.equal(await main(['annotate', root, '--jsonl', '--jobs', '2'], io), 1);
     const recs = lines(io.stdout);
-    assert.deepEqual(recs.map((r) => r.path), expectedPaths);
+    assert.deepEqual(
+      recs.map((r) => r.path),
+      expectedPaths,
+    );
     for (const r of recs) {
       if ((r.path as string).endsWith('c-broken')) {
         assert.match(r.error as string, /EIGENVAL:\d+:\d+: /);

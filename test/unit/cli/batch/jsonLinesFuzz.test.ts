@@ -47,14 +47,39 @@ describe('JSON Lines records from anywhere', function () {
     writeTinyRun(join(root, 'b'), { gap_eV: 1.4 });
     let text = '';
     await main(['analyze', root, '--jsonl', '--jobs', '1'], { out: (t) => void (text += `${t}\n`), err: () => undefined });
-    good = text.trim().split('\n').map((l) => JSON.parse(l) as Json);
+    good = text
+      .trim()
+      .split('\n')
+      .map((l) => JSON.parse(l) as Json);
     assert.equal(good.length, 2);
   });
 
   it('a record with one field replaced or removed is refused with a sentence or compared', () => {
     const value: fc.Arbitrary<Json | undefined> = fc.oneof(
       fc.constant(undefined),
-      fc.constantFrom<Json>(null, true, false, 0, -1, 1e308, -0.5, 2.5, 3, 49, '', 'Γ', 'cbm', [], {}, [0, 0, 0], [[1, 0, 0], [0, 1, 0], [0, 0, 1]]),
+      fc.constantFrom<Json>(
+        null,
+        true,
+        false,
+        0,
+        -1,
+        1e308,
+        -0.5,
+        2.5,
+        3,
+        49,
+        '',
+        'Γ',
+        'cbm',
+        [],
+        {},
+        [0, 0, 0],
+        [
+          [1, 0, 0],
+          [0, 1, 0],
+          [0, 0, 1],
+        ],
+      ),
       fc.jsonValue() as fc.Arbitrary<Json>,
     );
     fc.assert(

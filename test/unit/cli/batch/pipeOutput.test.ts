@@ -15,7 +15,10 @@ const ROOT = join(__dirname, '..', '..', '..', '..');
 
 function runThroughSlowPipe(args: string[]): Promise<{ code: number | null; stdout: string; stderr: string }> {
   return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'src', 'cli', 'main.ts'), ...args], { cwd: ROOT, stdio: ['ignore', 'pipe', 'pipe'] });
+    const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'src', 'cli', 'main.ts'), ...args], {
+      cwd: ROOT,
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
     const chunks: Buffer[] = [];
     let err = '';
     let paused = false;
@@ -44,7 +47,13 @@ function runThroughSlowPipe(args: string[]): Promise<{ code: number | null; stdo
 describe('output through a pipe', function () {
   this.timeout(120000);
   const demo = join('fixtures', 'demo');
-  const runs = [join(demo, 'gaas-bulk'), join(demo, 'si-bulk'), ...readdirSync(join(ROOT, demo, 'si-strain'), { withFileTypes: true }).filter((d) => d.isDirectory()).map((d) => join(demo, 'si-strain', d.name))];
+  const runs = [
+    join(demo, 'gaas-bulk'),
+    join(demo, 'si-bulk'),
+    ...readdirSync(join(ROOT, demo, 'si-strain'), { withFileTypes: true })
+      .filter((d) => d.isDirectory())
+      .map((d) => join(demo, 'si-strain', d.name)),
+  ];
 
   it('compare --format json of many runs arrives whole and parses', async () => {
     const r = await runThroughSlowPipe(['compare', ...runs, ...runs, ...runs, ...runs, '--format', 'json']);
@@ -63,7 +72,10 @@ describe('output through a pipe', function () {
     assert.ok(r.stdout.endsWith('\n'));
     // stderr is a pipe here, not a terminal: no progress line.
     assert.doesNotMatch(r.stderr, /\r|runs analysed/);
-    const lines = r.stdout.trimEnd().split('\n').map((l) => JSON.parse(l) as { path: string; gap: { eV: number } });
+    const lines = r.stdout
+      .trimEnd()
+      .split('\n')
+      .map((l) => JSON.parse(l) as { path: string; gap: { eV: number } });
     assert.equal(lines.length, 120);
     // Tight-binding model of tinyRun.ts: the gap is the E_g written, 0.5 + i/100 eV, in path order.
     lines.forEach((l, i) => assert.ok(Math.abs(l.gap.eV - (0.5 + i / 100)) < 2e-6, l.path));

@@ -23,7 +23,10 @@ describe('batch worker pool', function () {
     const dying = new Worker("require('node:worker_threads').parentPort.on('message', () => process.exit(7));", { eval: true });
     const got: [number, BatchResult][] = [];
     await runPool(tasks, 2, (r, i) => got.push([i, r]), undefined, [dying]);
-    assert.deepEqual(got.map(([i]) => i), [0, 1, 2, 3, 4, 5]);
+    assert.deepEqual(
+      got.map(([i]) => i),
+      [0, 1, 2, 3, 4, 5],
+    );
     const failed = got.filter(([, r]) => r.failed);
     assert.equal(failed.length, 1);
     const line = JSON.parse((failed[0]![1] as Extract<BatchResult, { kind: 'analyze' }>).line) as { error: string };

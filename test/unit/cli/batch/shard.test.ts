@@ -31,12 +31,17 @@ describe('--shard i/n', () => {
 
   it('keeps every run in its shard when other runs are added or removed', () => {
     fc.assert(
-      fc.property(fc.uniqueArray(runPath, { minLength: 1, maxLength: 40 }), fc.uniqueArray(runPath, { maxLength: 40 }), fc.integer({ min: 2, max: 9 }), (before, added, n) => {
-        const assign = (all: string[]) => new Map(all.map((p) => [p, shardOf(p, n)]));
-        const a = assign(before);
-        const b = assign([...added, ...before].reverse());
-        for (const p of before) assert.equal(b.get(p), a.get(p), p);
-      }),
+      fc.property(
+        fc.uniqueArray(runPath, { minLength: 1, maxLength: 40 }),
+        fc.uniqueArray(runPath, { maxLength: 40 }),
+        fc.integer({ min: 2, max: 9 }),
+        (before, added, n) => {
+          const assign = (all: string[]) => new Map(all.map((p) => [p, shardOf(p, n)]));
+          const a = assign(before);
+          const b = assign([...added, ...before].reverse());
+          for (const p of before) assert.equal(b.get(p), a.get(p), p);
+        },
+      ),
     );
   });
 

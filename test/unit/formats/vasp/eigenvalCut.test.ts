@@ -42,7 +42,10 @@ describe('EIGENVAL cut inside a k-point block', () => {
       // The k-points kept are the file's own, unchanged (compared with the whole file's read).
       assert.deepEqual(Array.from(d.energies[0]!.subarray(0, 217 * NB)), Array.from(whole.energies[0]!.subarray(0, 217 * NB)));
       assert.deepEqual(Array.from(d.kpoints), Array.from(whole.kpoints.subarray(0, 217 * 3)));
-      assert.throws(() => readEigenval(file(text)), (e: unknown) => e instanceof ReaderError);
+      assert.throws(
+        () => readEigenval(file(text)),
+        (e: unknown) => e instanceof ReaderError,
+      );
     });
   }
 
@@ -53,19 +56,26 @@ describe('EIGENVAL cut inside a k-point block', () => {
     for (const opts of [{}, { allowPartial: true }]) {
       assert.throws(
         () => readEigenval(file(lines.join('\n')), opts),
-        (e: unknown) => e instanceof ReaderError && e.line === at + 1 && /damaged or out of order/.test(e.message) && !/NBANDS/.test(e.message),
+        (e: unknown) =>
+          e instanceof ReaderError && e.line === at + 1 && /damaged or out of order/.test(e.message) && !/NBANDS/.test(e.message),
       );
     }
     // Control: a k-point with fewer band lines than the header announces is still blamed on NBANDS.
     const short = [...LINES];
     short.splice(kLine(40) + NB, 1);
-    assert.throws(() => readEigenval(file(short.join('\n'))), (e: unknown) => e instanceof ReaderError && /NBANDS/.test(e.message));
+    assert.throws(
+      () => readEigenval(file(short.join('\n'))),
+      (e: unknown) => e instanceof ReaderError && /NBANDS/.test(e.message),
+    );
   });
 
   it('a damaged value on a line followed by more data is an error with allowPartial too (not read as a cut)', () => {
     const lines = [...LINES];
     const at = kLine(100) + 3;
     lines[at] = lines[at]!.replace(/(\d)\.(\d)/, '$1.x$2');
-    assert.throws(() => readEigenval(file(lines.join('\n')), { allowPartial: true }), (e: unknown) => e instanceof ReaderError && e.line === at + 1);
+    assert.throws(
+      () => readEigenval(file(lines.join('\n')), { allowPartial: true }),
+      (e: unknown) => e instanceof ReaderError && e.line === at + 1,
+    );
   });
 });

@@ -91,7 +91,10 @@ describe('vasprun.xml header bombs', () => {
   const nbandsTag = /<i type="int" name="NBANDS">\s*\d+<\/i>/;
   it('NBANDS = 2e9: refused where the eigenvalues start, with the sizes that disagree', () => {
     const bomb = text.replace(nbandsTag, '<i type="int" name="NBANDS">2000000000</i>');
-    bounded(() => vasprunReader.read({ path: 'vasprun.xml', bytes: enc(bomb) }, [], {}), /NBANDS = 2000000000 .* more than a file of \d+ bytes can hold/);
+    bounded(
+      () => vasprunReader.read({ path: 'vasprun.xml', bytes: enc(bomb) }, [], {}),
+      /NBANDS = 2000000000 .* more than a file of \d+ bytes can hold/,
+    );
     const line = bomb.slice(0, bomb.indexOf('<eigenvalues>')).split('\n').length;
     try {
       vasprunReader.read({ path: 'vasprun.xml', bytes: enc(bomb) }, [], {});
@@ -117,7 +120,15 @@ describe('vasprun.xml header bombs', () => {
     }
   });
   it('3e8 atoms in <atominfo> and 2e9 line-mode divisions: counts that are not used to allocate', () => {
-    const bomb = writeVasprun(model, { generation: { divisions: 21, ends: [[0, 0, 0], [0.5, 0, 0]] } })
+    const bomb = writeVasprun(model, {
+      generation: {
+        divisions: 21,
+        ends: [
+          [0, 0, 0],
+          [0.5, 0, 0],
+        ],
+      },
+    })
       .replace(/<atoms>\s*\d+\s*<\/atoms>/, '<atoms> 300000000 </atoms>')
       .replace(/<i name="divisions" type="int">\s*\d+ <\/i>/, '<i name="divisions" type="int">2000000000 </i>');
     bounded(() => {

@@ -32,9 +32,19 @@ function sample(ends: Vec3[], n: number): Float64Array {
 }
 
 describe('VASP k-point labels: one rule for EIGENVAL and vasprun.xml', () => {
-  const ends: [Vec3, string | null][] = [[G, 'Γ'], [X, 'X'], [X, 'X'], [W, 'W'], [W, 'W'], [L, 'L']];
+  const ends: [Vec3, string | null][] = [
+    [G, 'Γ'],
+    [X, 'X'],
+    [X, 'X'],
+    [W, 'W'],
+    [W, 'W'],
+    [L, 'L'],
+  ];
   const path = linePath(ends, 5);
-  const k = sample(ends.map((e) => e[0]), 5);
+  const k = sample(
+    ends.map((e) => e[0]),
+    5,
+  );
 
   it('labels the ends of each segment by position when the count matches', () => {
     const r = labelsFromLineMode(path, k, 15, null);
@@ -53,7 +63,10 @@ describe('VASP k-point labels: one rule for EIGENVAL and vasprun.xml', () => {
     const r = labelsFromLineMode(path, k.slice(0, 3 * 10), 10, null);
     assert.match(r.warning ?? '', /3 segments of 5 points \(15 k-points\) but the eigenvalue file has 10/);
     assert.match(r.warning ?? '', /5 of 6 found/); // ends Γ, X, X, W, W lie among the first 10 points; L does not
-    assert.deepEqual(r.labels.map((l) => l.label), ['Γ', 'X', 'X', 'W']);
+    assert.deepEqual(
+      r.labels.map((l) => l.label),
+      ['Γ', 'X', 'X', 'W'],
+    );
   });
 
   it('does not label by position when a coordinate disagrees (labels only where the coordinates match)', () => {

@@ -13,9 +13,18 @@ describe('KPOINTS automatic mesh headers', () => {
   });
 
   it('Γ-centred and Monkhorst–Pack meshes, with and without a shift', () => {
-    assert.deepEqual(readKpointsMeshHeader('Automatic mesh\n0\nGamma\n  12 12 12\n  0 0 0\n'), { kind: 'mesh', mesh: { centring: 'gamma', divisions: [12, 12, 12], shift: [0, 0, 0] } });
-    assert.deepEqual(readKpointsMeshHeader('mesh\n 0\nMonkhorst-Pack\n4 4 3\n'), { kind: 'mesh', mesh: { centring: 'monkhorst-pack', divisions: [4, 4, 3], shift: [0.5, 0.5, 0] } });
-    assert.deepEqual(readKpointsMeshHeader('mesh\n0\ngamma\n6 6 6\n0.5 0.5 0.5\n'), { kind: 'mesh', mesh: { centring: 'gamma', divisions: [6, 6, 6], shift: [0.5, 0.5, 0.5] } });
+    assert.deepEqual(readKpointsMeshHeader('Automatic mesh\n0\nGamma\n  12 12 12\n  0 0 0\n'), {
+      kind: 'mesh',
+      mesh: { centring: 'gamma', divisions: [12, 12, 12], shift: [0, 0, 0] },
+    });
+    assert.deepEqual(readKpointsMeshHeader('mesh\n 0\nMonkhorst-Pack\n4 4 3\n'), {
+      kind: 'mesh',
+      mesh: { centring: 'monkhorst-pack', divisions: [4, 4, 3], shift: [0.5, 0.5, 0] },
+    });
+    assert.deepEqual(readKpointsMeshHeader('mesh\n0\ngamma\n6 6 6\n0.5 0.5 0.5\n'), {
+      kind: 'mesh',
+      mesh: { centring: 'gamma', divisions: [6, 6, 6], shift: [0.5, 0.5, 0.5] },
+    });
     assert.deepEqual(readKpointsMeshHeader('auto\n0\nAuto\n  20\n'), { kind: 'auto-length', length: 20 });
   });
 
@@ -31,7 +40,15 @@ describe('KPOINTS automatic mesh headers', () => {
     const header = readKpointsMeshHeader('m\n0\nMonkhorst-Pack\n4 4 4\n');
     assert.equal(header.kind, 'mesh');
     if (header.kind !== 'mesh') return;
-    const sym = crystalSymmetry({ lattice: [[3, 0, 0], [0, 3, 0], [0, 0, 3]], species: ['X'], positions: new Float64Array([0, 0, 0]) });
+    const sym = crystalSymmetry({
+      lattice: [
+        [3, 0, 0],
+        [0, 3, 0],
+        [0, 0, 3],
+      ],
+      species: ['X'],
+      positions: new Float64Array([0, 0, 0]),
+    });
     const { kpoints, weights } = irreducibleMesh(header.mesh.divisions, header.mesh.shift, sym.reciprocalPointGroup);
     const rec = recogniseMesh(kpoints, weights, sym.reciprocalPointGroup);
     assert.ok(rec.mesh);
@@ -41,9 +58,30 @@ describe('KPOINTS automatic mesh headers', () => {
 
   it('fully automatic divisions follow n = max(1, ⌊R_k |b| + ½⌋)', () => {
     // Cubic a = 4 Å: |b| = 1/4 Å⁻¹ without 2π, R_k = 20 → n = 5 (the documented rule, worked by hand).
-    assert.deepEqual(automaticDivisions(20, [[4, 0, 0], [0, 4, 0], [0, 0, 4]]), [5, 5, 5]);
+    assert.deepEqual(
+      automaticDivisions(20, [
+        [4, 0, 0],
+        [0, 4, 0],
+        [0, 0, 4],
+      ]),
+      [5, 5, 5],
+    );
     // Tetragonal c = 10 Å: |b3| = 0.1, R_k = 20 → 2; R_k = 1 → 1 (at least one division).
-    assert.deepEqual(automaticDivisions(20, [[4, 0, 0], [0, 4, 0], [0, 0, 10]]), [5, 5, 2]);
-    assert.deepEqual(automaticDivisions(1, [[4, 0, 0], [0, 4, 0], [0, 0, 10]]), [1, 1, 1]);
+    assert.deepEqual(
+      automaticDivisions(20, [
+        [4, 0, 0],
+        [0, 4, 0],
+        [0, 0, 10],
+      ]),
+      [5, 5, 2],
+    );
+    assert.deepEqual(
+      automaticDivisions(1, [
+        [4, 0, 0],
+        [0, 4, 0],
+        [0, 0, 10],
+      ]),
+      [1, 1, 1],
+    );
   });
 });

@@ -41,9 +41,19 @@ function withIncar(incar: string | null, system = 'Xx bulk'): BandStructure {
 describe('VASP method from the INCAR beside an EIGENVAL', () => {
   const cases: [string, string, string, string | null][] = [
     // [what, INCAR, family, name]
-    ['HSE06 (HFSCREEN 0.2, AEXX 0.25: Krukau et al. 2006, memory)', 'LHFCALC = .TRUE.\nHFSCREEN = 0.2\nAEXX = 0.25\nALGO = All\n', 'hybrid', 'HSE06'],
+    [
+      'HSE06 (HFSCREEN 0.2, AEXX 0.25: Krukau et al. 2006, memory)',
+      'LHFCALC = .TRUE.\nHFSCREEN = 0.2\nAEXX = 0.25\nALGO = All\n',
+      'hybrid',
+      'HSE06',
+    ],
     ['an unscreened hybrid with 25 % exchange', 'LHFCALC = T ; AEXX = 0.25', 'hybrid', 'PBE0-type (25 % exact exchange, unscreened)'],
-    ['a hybrid with its own fraction', 'LHFCALC = .TRUE.\nHFSCREEN = 0.2\nAEXX = 0.3 # tuned\n', 'hybrid', 'hybrid (30 % exact exchange, screened with 0.2 Å⁻¹)'],
+    [
+      'a hybrid with its own fraction',
+      'LHFCALC = .TRUE.\nHFSCREEN = 0.2\nAEXX = 0.3 # tuned\n',
+      'hybrid',
+      'hybrid (30 % exact exchange, screened with 0.2 Å⁻¹)',
+    ],
     ['G0W0', 'ALGO = G0W0\nNOMEGA = 50\nLHFCALC = .FALSE.\n', 'gw', 'G0W0'],
     ['partially self-consistent GW0', 'ALGO = EVGW0', 'gw', 'EVGW0'],
     ['QP self-consistent GW', '  algo = qpGW ! comment', 'gw', 'qpGW'],
@@ -97,7 +107,9 @@ describe('VASP method from a vasprun.xml', () => {
     assert.equal(hse.method?.family, 'hybrid');
     assert.equal(hse.method?.name, 'HSE06');
     assert.match(hse.method.evidence, /vasprun\.xml \(its parameter list\) sets LHFCALC/);
-    const pbe = read(writeVasprun(model, { parameterTags: { GGA: '--', LHFCALC: 'F', HFSCREEN: '0.00000000', AEXX: '0.00000000', METAGGA: '--' } }));
+    const pbe = read(
+      writeVasprun(model, { parameterTags: { GGA: '--', LHFCALC: 'F', HFSCREEN: '0.00000000', AEXX: '0.00000000', METAGGA: '--' } }),
+    );
     assert.equal(pbe.method?.family, 'semilocal');
     assert.equal(pbe.method?.name, null);
     const scan = read(writeVasprun(model, { parameterTags: { GGA: '--', LHFCALC: 'F', METAGGA: 'SCAN' } }));

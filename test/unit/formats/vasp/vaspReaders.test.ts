@@ -61,7 +61,14 @@ const path3 = [
   [0.25, 0, 0.25],
   [0.5, 0, 0.5],
 ];
-const bands6 = (s: number, k: number): number[] => [-5.8 + 0.1 * k, -1 - 0.2 * k - 0.05 * s, -0.5 - 0.3 * k, -0.2 * k, 1.2 - 0.3 * k + 0.1 * s, 3 + k];
+const bands6 = (s: number, k: number): number[] => [
+  -5.8 + 0.1 * k,
+  -1 - 0.2 * k - 0.05 * s,
+  -0.5 - 0.3 * k,
+  -0.2 * k,
+  1.2 - 0.3 * k + 0.1 * s,
+  3 + k,
+];
 
 const POSCAR5 = `Si2 diamond
    5.43000000000000
@@ -111,9 +118,19 @@ describe('VASP EIGENVAL reader', () => {
   });
 
   const bad: [string, string, number, RegExp][] = [
-    ['truncated inside a k-point', eigenval({ kpts: path3, bands: bands6 }).split('\n').slice(0, 20).join('\n'), 20, /ends inside k-point 2 of 3, after 4 of 6 bands/],
+    [
+      'truncated inside a k-point',
+      eigenval({ kpts: path3, bands: bands6 }).split('\n').slice(0, 20).join('\n'),
+      20,
+      /ends inside k-point 2 of 3, after 4 of 6 bands/,
+    ],
     ['overflow field', eigenval({ kpts: path3, bands: bands6 }).replace('-0.200000', '*********'), 0, /overflowed/],
-    ['band count that disagrees with the data', eigenval({ kpts: path3, bands: bands6 }).replace('     8     3     6', '     8     3     7'), 0, /lists 6 bands, but the header's NBANDS is 7/],
+    [
+      'band count that disagrees with the data',
+      eigenval({ kpts: path3, bands: bands6 }).replace('     8     3     6', '     8     3     7'),
+      0,
+      /lists 6 bands, but the header's NBANDS is 7/,
+    ],
     ['empty file', '', 1, /empty/],
     ['NaN energy', eigenval({ kpts: path3, bands: bands6 }).replace('-0.200000', '      NaN'), 0, /not a finite number/],
     ['header that ends early', '       2       2       1       1\n  0.4E+02\n', 3, /header ends early/],
@@ -122,7 +139,8 @@ describe('VASP EIGENVAL reader', () => {
     it(`refuses a ${what} with the file, line and a plain sentence`, () => {
       assert.throws(
         () => readEigenval(f('EIGENVAL', text)),
-        (e: unknown) => e instanceof ReaderError && re.test(e.message) && e.message.startsWith('EIGENVAL:') && (line === 0 || e.line === line),
+        (e: unknown) =>
+          e instanceof ReaderError && re.test(e.message) && e.message.startsWith('EIGENVAL:') && (line === 0 || e.line === line),
       );
     });
   }
@@ -165,13 +183,18 @@ Cartesian
   });
 
   it('reads Selective dynamics and VASP 6 species with POTCAR hashes', () => {
-    const text = POSCAR5.replace('   Si\n', '   Si/b0c6fb84\n').replace('Direct', 'Selective dynamics\nDirect').replace(/0\.0000000000000000\n/, '0.0000000000000000 T T T\n');
+    const text = POSCAR5.replace('   Si\n', '   Si/b0c6fb84\n')
+      .replace('Direct', 'Selective dynamics\nDirect')
+      .replace(/0\.0000000000000000\n/, '0.0000000000000000 T T T\n');
     const s = readPoscar(f('POSCAR', text));
     assert.deepEqual(s.species, ['Si', 'Si']);
   });
 
   it('names the line when the species and counts disagree', () => {
-    assert.throws(() => readPoscar(f('POSCAR', POSCAR5.replace('     2\n', '     1 1\n'))), (e: unknown) => e instanceof ReaderError && e.line === 6);
+    assert.throws(
+      () => readPoscar(f('POSCAR', POSCAR5.replace('     2\n', '     1 1\n'))),
+      (e: unknown) => e instanceof ReaderError && e.line === 6,
+    );
   });
 });
 
@@ -194,7 +217,10 @@ reciprocal
     assert.equal(k.mode, 'line');
     if (k.mode !== 'line') return;
     assert.equal(k.path.pointsPerSegment, 20);
-    assert.deepEqual(k.path.ends.map((e) => e.label), ['Γ', 'X', 'X', 'Γ', 'Γ', 'L']);
+    assert.deepEqual(
+      k.path.ends.map((e) => e.label),
+      ['Γ', 'X', 'X', 'Γ', 'Γ', 'L'],
+    );
   });
 
   it('says when KPOINTS is a mesh, not a path', () => {
@@ -206,7 +232,12 @@ reciprocal
 describe('a VASP run folder', () => {
   const dir = mkdtempSync(join(tmpdir(), 'vs-vasp-'));
   const kpoints = `fcc path\n 2\nLine-mode\nReciprocal\n 0 0 0 ! \\Gamma\n 0.5 0 0.5 ! X\n\n 0.5 0 0.5 ! X\n 0.5 0.5 0.5 ! L\n`;
-  const kp = [[0, 0, 0], [0.5, 0, 0.5], [0.5, 0, 0.5], [0.5, 0.5, 0.5]];
+  const kp = [
+    [0, 0, 0],
+    [0.5, 0, 0.5],
+    [0.5, 0, 0.5],
+    [0.5, 0.5, 0.5],
+  ];
   before(() => {
     mkdirSync(join(dir, 'run'), { recursive: true });
     writeFileSync(join(dir, 'run', 'EIGENVAL'), eigenval({ kpts: kp, bands: (s, k) => bands6(s, Math.min(k, 2)), occ: true }));
@@ -220,8 +251,19 @@ describe('a VASP run folder', () => {
     assert.equal(bs.source.format, 'vasp-eigenval');
     assert.ok(bs.lattice);
     assert.equal(bs.sampling, 'path');
-    assert.deepEqual(bs.labels.map((l) => [l.index, l.label]), [[0, 'Γ'], [1, 'X'], [2, 'X'], [3, 'L']]);
-    assert.deepEqual(bs.source.files.map((x) => x.role), ['eigenvalues', 'structure', 'settings', 'kpath']);
+    assert.deepEqual(
+      bs.labels.map((l) => [l.index, l.label]),
+      [
+        [0, 'Γ'],
+        [1, 'X'],
+        [2, 'X'],
+        [3, 'L'],
+      ],
+    );
+    assert.deepEqual(
+      bs.source.files.map((x) => x.role),
+      ['eigenvalues', 'structure', 'settings', 'kpath'],
+    );
     assert.equal(bs.spinorbit, false);
   });
 
@@ -235,7 +277,11 @@ describe('a VASP run folder', () => {
 
   it('keeps only the zero-weight path of a hybrid-functional run', async () => {
     mkdirSync(join(dir, 'hybrid'), { recursive: true });
-    const mesh = [[0, 0, 0], [0.25, 0, 0], [0.5, 0, 0]];
+    const mesh = [
+      [0, 0, 0],
+      [0.25, 0, 0],
+      [0.5, 0, 0],
+    ];
     writeFileSync(
       join(dir, 'hybrid', 'EIGENVAL'),
       eigenval({ kpts: [...mesh, ...kp], weights: [0.1, 0.4, 0.5, 0, 0, 0, 0], bands: (s, k) => bands6(s, k % 3), occ: true }),
@@ -244,7 +290,10 @@ describe('a VASP run folder', () => {
     const bs = await loadRun(nodeFileAccessor, join(dir, 'hybrid'));
     assert.equal(bs.nk, 4);
     assert.ok(bs.warnings.some((w) => w.code === 'mesh-points-dropped'));
-    assert.deepEqual(bs.labels.map((l) => l.label), ['Γ', 'X', 'X', 'L']);
+    assert.deepEqual(
+      bs.labels.map((l) => l.label),
+      ['Γ', 'X', 'X', 'L'],
+    );
   });
 
   it('infers spin-orbit from occupations holding one electron per band', async () => {
