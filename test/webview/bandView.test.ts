@@ -4,31 +4,16 @@
  * the core, shaped by the extension's own bandData.ts; fits answered by the extension's fit service.
  */
 import assert from 'node:assert/strict';
-import { mkdirSync, writeFileSync } from 'node:fs';
-import { startHarness, type Harness, type ViewPage } from './support/bandViewHarness';
+import { writeFileSync } from 'node:fs';
+import { ARTIFACTS, markOf, openWithRun, siliconSession, waitPosted, type Harness, type ViewPage } from './support/bandViewHarness';
 import { bandDataFromStructure, bandDataMessage, hostFitResult, loadRunForView, type LoadedRun } from './support/coreBandData';
 import { installPageHelpers, hexToRgb, waitForExpression } from './support/pageHelpers';
 import { THEME_VARS, type TestTheme } from './support/themes';
 import { sliderAtWindow } from '../../webview/bandView/windowSlider';
-import { isViewToHostMessage, HostToViewType, type ExtremumMark, type FitTarget } from '../../src/protocol';
+import { isViewToHostMessage, HostToViewType, type FitTarget } from '../../src/protocol';
 
 type Probe = { inside: boolean; hit: boolean; colour: [number, number, number, number] | null; x: number; y: number };
 type Posted = Record<string, unknown>;
-
-const ARTIFACTS = 'test-artifacts';
-
-async function openWithRun(
-  h: Harness,
-  run: LoadedRun,
-  theme: TestTheme = 'dark',
-  viewport?: { width: number; height: number },
-): Promise<ViewPage> {
-  const v = await h.open(theme, viewport);
-  await installPageHelpers(v.page);
-  await v.hostPost(bandDataMessage(run.data));
-  await waitForExpression(v.page, 'window.valleyscopeBandView.lastDraw !== null');
-  return v;
-}
 
 async function screenOf(v: ViewPage, t: FitTarget): Promise<{ x: number; y: number }> {
   return v.page.evaluate(`window.valleyscopeBandView.screenOf(${t.spin}, ${t.kIndex}, ${t.band0})`);
@@ -39,22 +24,6 @@ async function clickPlot(v: ViewPage, x: number, y: number): Promise<void> {
   await v.page.mouse.click(p.x, p.y);
 }
 
-async function lastOfType(v: ViewPage, type: string): Promise<Posted | undefined> {
-  const all = await v.posted();
-  return all.filter((m) => m.type === type).pop();
-}
-
-async function waitPosted(v: ViewPage, type: string, count: number): Promise<Posted> {
-  await waitForExpression(v.page, `window.__posted.filter(function (m) { return m.type === ${JSON.stringify(type)}; }).length >= ${count}`);
-  return (await lastOfType(v, type))!;
-}
-
-function mark(run: LoadedRun, kind: ExtremumMark['kind']): ExtremumMark {
-  const m = run.data.marks.find((x) => x.kind === kind);
-  assert.ok(m, `the core reports a ${kind} for silicon`);
-  return m;
-}
-
 async function assertClean(v: ViewPage): Promise<void> {
   assert.deepEqual(await v.cspViolations(), [], 'no content-security-policy violation');
   assert.deepEqual(v.errors, [], 'no error in the page');
@@ -62,7 +31,7 @@ async function assertClean(v: ViewPage): Promise<void> {
 
 /** Click near the CBM, answer the fit request as the extension does; returns the request. */
 async function fitAtCbm(v: ViewPage, run: LoadedRun): Promise<Posted> {
-  const cbm = mark(run, 'cbm');
+  const cbm = markOf(run, 'cbm');
   const before = (await v.posted()).filter((m) => m.type === 'requestFit').length;
   // On a loaded machine the first layout can still settle after the first draw (the plot resized, the marker
   // moved): if the click found nothing, look up the marker's place again and click once more.
@@ -84,16 +53,11 @@ async function fitAtCbm(v: ViewPage, run: LoadedRun): Promise<Posted> {
 
 describe('band view in headless Chromium (silicon, empirical pseudopotential model)', function () {
   this.timeout(90_000);
+  const session = siliconSession();
   let h: Harness;
   let run: LoadedRun;
-
-  before(async function () {
-    mkdirSync(ARTIFACTS, { recursive: true });
-    h = await startHarness();
-    run = await loadRunForView('fixtures/epm/si', 'Si (EPM)');
-  });
-  after(async () => {
-    if (h) await h.close();
+  before(() => {
+    ({ h, run } = session);
   });
 
   it('draws every band on the canvas where the data puts it, in the theme colours', async () => {
@@ -118,7 +82,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
       'conduction bands drawn in the theme orange',
     );
     // Inside the gap, away from any band, the canvas is empty: at the CBM's k, halfway between VBM band and CBM.
-    const cbm = mark(run, 'cbm');
+    const cbm = markOf(run, 'cbm');
     const top = await screenOf(v, cbm);
     const below = await screenOf(v, { spin: 0, kIndex: cbm.kIndex, band0: cbm.band0 - 1 });
     assert.ok(below.y - top.y > 20, 'the gap at the CBM is more than 20 px tall in the default view');
@@ -218,7 +182,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     assert.equal(run.data.marks.filter((m) => m.kind === 'valley').length, 0);
     assert.equal(await v.page.locator('.vs-mark-valley').count(), 0);
     for (const kind of ['vbm', 'cbm'] as const) {
-      const m = mark(run, kind);
+      const m = markOf(run, kind);
       const p = await screenOf(v, m);
       const tr = await v.page.locator(`.vs-mark-${kind}`).first().getAttribute('transform');
       const g = /translate\(([-\d.e]+),([-\d.e]+)\)/.exec(tr ?? '');
@@ -230,7 +194,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
 
   it("an undetermined mass is shown as the word, with the fit's value and the reason in its tooltip", async () => {
     const v = await openWithRun(h, run);
-    const cbm = mark(run, 'cbm');
+    const cbm = markOf(run, 'cbm');
     const p = await screenOf(v, cbm);
     const before = (await v.posted()).filter((m) => m.type === 'requestFit').length;
     await clickPlot(v, p.x + 3, p.y - 3);
@@ -253,7 +217,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
 
   it('a click near the CBM snaps to it, posts a valid fit request, and shows the returned fit', async () => {
     const v = await openWithRun(h, run);
-    const cbm = mark(run, 'cbm');
+    const cbm = markOf(run, 'cbm');
     const req = await fitAtCbm(v, run);
     assert.ok(isViewToHostMessage(req), 'the request passes the protocol validator');
     assert.deepEqual({ spin: req.spin, kIndex: req.kIndex, band0: req.band0 }, { spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0 });
@@ -314,7 +278,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
 
   it('a click far from any extremum posts nothing and says why', async () => {
     const v = await openWithRun(h, run);
-    const cbm = mark(run, 'cbm');
+    const cbm = markOf(run, 'cbm');
     const top = await screenOf(v, cbm);
     const below = await screenOf(v, { spin: 0, kIndex: cbm.kIndex, band0: cbm.band0 - 1 });
     await clickPlot(v, top.x, (top.y + below.y) / 2);
@@ -333,7 +297,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     const req = await waitPosted(v, 'requestFit', 2);
     assert.equal(req.window_meV, 60);
     assert.equal(req.withScan, false, 'a refit does not rerun the scan');
-    const cbm = mark(run, 'cbm');
+    const cbm = markOf(run, 'cbm');
     await v.hostPost(hostFitResult(run, req.requestId as number, cbm, 60, 'parabola', false));
     await waitForExpression(v.page, `document.querySelector('.vs-provenance').textContent.indexOf('Window asked: 60 meV') >= 0`);
     // Changing the method refits at once, with a new window scan.
@@ -374,7 +338,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     assert.equal(await v.page.evaluate(`document.activeElement.matches(':focus-visible')`), true);
     assert.equal(await v.page.evaluate(`getComputedStyle(document.activeElement).outlineStyle`), 'solid', 'focus outline visible');
     assert.match((await v.page.locator('.vs-plot').getAttribute('aria-label')) ?? '', /Arrow keys move between band extrema, Enter fits/);
-    const cbm = mark(run, 'cbm');
+    const cbm = markOf(run, 'cbm');
     await v.page.keyboard.press('ArrowUp');
     assert.deepEqual(
       await v.page.evaluate('window.valleyscopeBandView.selection()'),
@@ -430,7 +394,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     const v = await openWithRun(h, run);
     await v.page.focus('.vs-plot');
     await v.page.keyboard.press('ArrowDown'); // nothing selected: Down starts at the VBM
-    const vbm = mark(run, 'vbm');
+    const vbm = markOf(run, 'vbm');
     assert.deepEqual(await v.page.evaluate('window.valleyscopeBandView.selection()'), {
       spin: vbm.spin,
       kIndex: vbm.kIndex,
@@ -498,7 +462,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
       'Si (EPM)',
     );
     const v = await openWithRun(h, first);
-    const cbm = mark(run, 'cbm');
+    const cbm = markOf(run, 'cbm');
     await v.page.focus('.vs-plot');
     await v.page.keyboard.press('ArrowUp');
     await v.page.evaluate(`window.valleyscopeBandView.setZoom(1.5, -100, -50)`);
@@ -534,7 +498,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     const v = await openWithRun(h, grid);
     await v.page.focus('.vs-plot');
     await v.page.keyboard.press('ArrowUp');
-    const cbm = mark(grid, 'cbm');
+    const cbm = markOf(grid, 'cbm');
     await v.page.keyboard.press('Enter');
     const req = await waitPosted(v, 'requestFit', 1);
     assert.deepEqual({ spin: req.spin, kIndex: req.kIndex, band0: req.band0 }, { spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0 });
@@ -558,7 +522,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
 
   it('hover read-out names the k-point, band and energy from the VBM', async () => {
     const v = await openWithRun(h, run);
-    const cbm = mark(run, 'cbm');
+    const cbm = markOf(run, 'cbm');
     const p = await screenOf(v, cbm);
     const q = (await v.page.evaluate(`__t.pagePoint(${p.x}, ${p.y})`)) as { x: number; y: number };
     await v.page.mouse.move(q.x, q.y);
@@ -601,7 +565,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
 
   it('zoom and pan: full detail on zoom, bands stay on their data', async () => {
     const v = await openWithRun(h, run);
-    const cbm = mark(run, 'cbm');
+    const cbm = markOf(run, 'cbm');
     const p0 = await screenOf(v, cbm);
     const qf = (await v.page.evaluate(`__t.pagePoint(${p0.x}, ${p0.y})`)) as { x: number; y: number };
     // Mouse events carry whole CSS pixels: the zoom centre is the rounded pointer position.
@@ -651,7 +615,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     await v.page.locator('vscode-button.vs-save').click();
     const save = await waitPosted(v, 'save', 1);
     assert.ok(isViewToHostMessage(save), 'save passes the protocol validator');
-    const cbm = mark(run, 'cbm');
+    const cbm = markOf(run, 'cbm');
     assert.deepEqual(save.entries, [{ spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0, window_meV: 25, method: 'parabola' }]);
     await v.hostPost({ type: HostToViewType.SaveResult, ok: true, message: 'Saved 1 entry to fixtures/epm/si/EIGENVAL.valleys.json.' });
     // The host's sentence is shown as it is (no second "Saved:" in front of it); the message arrives asynchronously.
@@ -716,7 +680,7 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
       const v = await openWithRun(h, run, theme, { width: 1280, height: 900 });
       await fitAtCbm(v, run);
       // Zoom towards the CBM (wheel at the marker) so the fitted curves are large enough to see.
-      const cbm = mark(run, 'cbm');
+      const cbm = markOf(run, 'cbm');
       const p = await screenOf(v, cbm);
       const q = (await v.page.evaluate(`__t.pagePoint(${p.x}, ${p.y})`)) as { x: number; y: number };
       await v.page.mouse.move(q.x, q.y);

@@ -6,22 +6,14 @@
  * extension's own save path from the core's analysis of that run.
  */
 import assert from 'node:assert/strict';
-import { startHarness, type Harness, type ViewPage } from './support/bandViewHarness';
-import { bandDataMessage, hostFitResult, loadRunForView, type LoadedRun } from './support/coreBandData';
-import { installPageHelpers, waitForExpression } from './support/pageHelpers';
+import { openWithRun, startHarness, type Harness, type ViewPage } from './support/bandViewHarness';
+import { hostFitResult, loadRunForView, type LoadedRun } from './support/coreBandData';
+import { waitForExpression } from './support/pageHelpers';
 import { HostToViewType, type FitTarget, type ReviewsMessage } from '../../src/protocol';
 import { composeAnnotations } from '../../src/extension/annotationsCompose';
 import { parseAnnotations } from '../../src/core/annotations/parseAnnotations';
 import { reviewMarks } from '../../src/extension/reviewMarks';
 import { DEFAULT_SETTINGS } from '../../src/core/analysis/analyze';
-
-async function open(h: Harness, run: LoadedRun): Promise<ViewPage> {
-  const v = await h.open('dark');
-  await installPageHelpers(v.page);
-  await v.hostPost(bandDataMessage(run.data));
-  await waitForExpression(v.page, 'window.valleyscopeBandView.lastDraw !== null');
-  return v;
-}
 
 /** Select with the keyboard (Up: the CBM, Down: the VBM, from nothing), Enter, and answer as the host does. */
 async function fitByKey(v: ViewPage, run: LoadedRun, key: 'ArrowUp' | 'ArrowDown'): Promise<void> {
@@ -76,7 +68,7 @@ describe('band view: saved reviews in the side panel', function () {
   });
 
   it('shows the status and note of the fitted CBM (as text), and nothing for the unreviewed VBM', async () => {
-    const v = await open(h, run);
+    const v = await openWithRun(h, run);
     await v.hostPost(reviews);
     await fitByKey(v, run, 'ArrowUp');
     await v.page.waitForSelector('.vs-review:not([hidden])');
@@ -94,7 +86,7 @@ describe('band view: saved reviews in the side panel', function () {
   });
 
   it('a file that could not be read is said in the panel, not silently ignored', async () => {
-    const v = await open(h, run);
+    const v = await openWithRun(h, run);
     await v.hostPost({
       type: HostToViewType.Reviews,
       file: 'EIGENVAL.valleys.json',

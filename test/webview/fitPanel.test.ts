@@ -6,37 +6,13 @@
  * symmetry lines in Light High Contrast.
  */
 import assert from 'node:assert/strict';
-import { mkdirSync } from 'node:fs';
-import { startHarness, type Harness, type ViewPage } from './support/bandViewHarness';
-import { bandDataMessage, hostFitResult, loadRunForView, type LoadedRun } from './support/coreBandData';
-import { installPageHelpers, waitForExpression } from './support/pageHelpers';
-import { THEME_VARS, type TestTheme } from './support/themes';
-import type { ExtremumMark, MassFit } from '../../src/protocol';
+import { ARTIFACTS, markOf, openWithRun, siliconSession, waitPosted, type Harness, type ViewPage } from './support/bandViewHarness';
+import { hostFitResult, type LoadedRun } from './support/coreBandData';
+import { waitForExpression } from './support/pageHelpers';
+import { THEME_VARS } from './support/themes';
+import type { MassFit } from '../../src/protocol';
 import { sliderAtWindow, windowAtSlider, WINDOW_SLIDER_STEPS } from '../../webview/bandView/windowSlider';
 import { METHOD_DESCRIPTIONS } from '../../src/core/analysis/methods';
-
-type Posted = Record<string, unknown>;
-const ARTIFACTS = 'test-artifacts';
-
-async function open(h: Harness, run: LoadedRun, theme: TestTheme = 'dark'): Promise<ViewPage> {
-  const v = await h.open(theme);
-  await installPageHelpers(v.page);
-  await v.hostPost(bandDataMessage(run.data));
-  await waitForExpression(v.page, 'window.valleyscopeBandView.lastDraw !== null');
-  return v;
-}
-
-function mark(run: LoadedRun, kind: ExtremumMark['kind']): ExtremumMark {
-  const m = run.data.marks.find((x) => x.kind === kind);
-  assert.ok(m, `the core reports a ${kind} for silicon`);
-  return m;
-}
-
-async function waitPosted(v: ViewPage, type: string, count: number): Promise<Posted> {
-  await waitForExpression(v.page, `window.__posted.filter(function (m) { return m.type === ${JSON.stringify(type)}; }).length >= ${count}`);
-  const all = await v.posted();
-  return all.filter((m) => m.type === type).pop()!;
-}
 
 /** Select an extremum with the keyboard (Down from nothing: the VBM; Up: the CBM), Enter, answer the request. */
 async function fitByKey(
@@ -72,20 +48,15 @@ function cells(v: ViewPage, selector: string): Promise<string[][]> {
 
 describe('fit panel (headless Chromium, silicon EPM)', function () {
   this.timeout(90_000);
+  const session = siliconSession();
   let h: Harness;
   let run: LoadedRun;
-
-  before(async function () {
-    mkdirSync(ARTIFACTS, { recursive: true });
-    h = await startHarness();
-    run = await loadRunForView('fixtures/epm/si', 'Si (EPM)');
-  });
-  after(async () => {
-    if (h) await h.close();
+  before(() => {
+    ({ h, run } = session);
   });
 
   it('at the threefold VBM: a branch column, rows told apart by direction and branch, provenance as a table, each warning once', async () => {
-    const v = await open(h, run);
+    const v = await openWithRun(h, run);
     const masses = await fitByKey(v, run, 'ArrowDown', 'parabola', 25, 1);
     // Without spin-orbit the top valence level of diamond-structure Si at Γ is threefold degenerate (heavy,
     // light and split-off holes; common practice): every direction carries three branches.
@@ -136,7 +107,7 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
   });
 
   it('at the non-degenerate CBM there is no branch column (control)', async () => {
-    const v = await open(h, run);
+    const v = await openWithRun(h, run);
     const masses = await fitByKey(v, run, 'ArrowUp', 'parabola', 25, 1);
     assert.ok(masses.every((f) => f.branch === undefined));
     const heads = await v.page.locator('.vs-masses thead th').allTextContents();
@@ -153,7 +124,7 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
     assert.equal(windowAtSlider(0), 1);
     assert.equal(windowAtSlider(WINDOW_SLIDER_STEPS), 300);
     assert.equal(windowAtSlider(WINDOW_SLIDER_STEPS / 2), Math.round(Math.sqrt(300))); // geometric mean of 1 and 300
-    const v = await open(h, run);
+    const v = await openWithRun(h, run);
     await fitByKey(v, run, 'ArrowUp', 'parabola', 25, 1);
     const range = v.page.locator('#vs-window-range');
     assert.equal(await range.getAttribute('max'), String(WINDOW_SLIDER_STEPS));
@@ -198,10 +169,10 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
   });
 
   it('central differences: the uncertainty is the spread against the parabola at the same window, labelled so', async () => {
-    const v = await open(h, run);
+    const v = await openWithRun(h, run);
     const masses = await fitByKey(v, run, 'ArrowUp', 'central-2', 25, 1);
     // The parabola at the same point and window, from the fit service independently.
-    const cbm = mark(run, 'cbm');
+    const cbm = markOf(run, 'cbm');
     const parabola = hostFitResult(run, 0, cbm, 25, 'parabola', false).extremum.masses;
     const withSpread = masses.filter((f) => f.methodSpread);
     assert.ok(withSpread.length > 0, 'some direction was fitted by a finite difference');
@@ -224,7 +195,7 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
   });
 
   it('Kane fits show α in the provenance table; the method list carries one-line descriptions', async () => {
-    const v = await open(h, run);
+    const v = await openWithRun(h, run);
     const masses = await fitByKey(v, run, 'ArrowUp', 'kane', 100, 1);
     const heads = await v.page.locator('.vs-provenance-table thead th').allTextContents();
     const col = heads.indexOf('Kane α (eV⁻¹)');
@@ -244,7 +215,7 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
   });
 
   it('Light High Contrast: the symmetry lines are not drawn in a band colour', async () => {
-    const v = await open(h, run, 'hcLight');
+    const v = await openWithRun(h, run, 'hcLight');
     const stroke = await v.page
       .locator('line.vs-sym-line')
       .first()

@@ -246,20 +246,7 @@ function rasterEnvelope(
         if (pl < lo) lo = pl;
         else if (pl > hi) hi = pl;
       }
-      let y1 = ay * hi + by;
-      let y2 = ay * lo + by;
-      if (y1 > y2) {
-        const t = y1;
-        y1 = y2;
-        y2 = t;
-      }
-      if (y2 < 0 || y1 > hMax) continue;
-      const r0 = y1 < 0 ? 0 : y1 | 0;
-      let r1 = (y2 | 0) + thick - 1;
-      if (r1 > hMax) r1 = hMax;
-      for (let cc = c; cc <= cEnd; cc++) {
-        for (let idx = r0 * W + cc, end = r1 * W + cc; idx <= end; idx += W) px[idx] = colour;
-      }
+      fillSpan(px, W, hMax, c, cEnd, ay * hi + by, ay * lo + by, thick, colour);
     }
     pc = c;
   }
@@ -282,17 +269,34 @@ function bridge(
 ): void {
   const n = c - pc;
   for (let g = gap0; g < c; g++) {
-    let y1 = ay * (from + ((to - from) * (g - pc - 0.5)) / n) + by;
-    let y2 = ay * (from + ((to - from) * (g - pc + 0.5)) / n) + by;
-    if (y1 > y2) {
-      const t = y1;
-      y1 = y2;
-      y2 = t;
-    }
-    if (y2 < 0 || y1 > hMax) continue;
-    const r0 = y1 < 0 ? 0 : y1 | 0;
-    let r1 = (y2 | 0) + thick - 1;
-    if (r1 > hMax) r1 = hMax;
-    for (let idx = r0 * W + g, end = r1 * W + g; idx <= end; idx += W) px[idx] = colour;
+    const ya = ay * (from + ((to - from) * (g - pc - 0.5)) / n) + by;
+    const yb = ay * (from + ((to - from) * (g - pc + 0.5)) / n) + by;
+    fillSpan(px, W, hMax, g, g, ya, yb, thick, colour);
+  }
+}
+
+/**
+ * Fills columns c0..c1 from screen row ya to yb (either order), `thick` rows deep below the lower end,
+ * clipped to rows 0..hMax; nothing when the span lies wholly outside.
+ */
+function fillSpan(
+  px: Uint32Array,
+  W: number,
+  hMax: number,
+  c0: number,
+  c1: number,
+  ya: number,
+  yb: number,
+  thick: number,
+  colour: number,
+): void {
+  const y1 = ya < yb ? ya : yb;
+  const y2 = ya < yb ? yb : ya;
+  if (y2 < 0 || y1 > hMax) return;
+  const r0 = y1 < 0 ? 0 : y1 | 0;
+  let r1 = (y2 | 0) + thick - 1;
+  if (r1 > hMax) r1 = hMax;
+  for (let cc = c0; cc <= c1; cc++) {
+    for (let idx = r0 * W + cc, end = r1 * W + cc; idx <= end; idx += W) px[idx] = colour;
   }
 }

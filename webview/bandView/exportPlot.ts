@@ -1,6 +1,6 @@
 /**
  * The plot as a standalone SVG at publication size (one journal column, 85 mm wide), in print colours on
- * white, with axis titles in proper units. The PNG export rasterises this SVG at 600 dpi (exportPng.ts).
+ * white, with axis titles in proper units. The PNG export rasterises this SVG at 600 dpi (rasterise.ts).
  * Pure string building (no DOM), so it is testable anywhere.
  */
 import { scaleLinear } from 'd3-scale';

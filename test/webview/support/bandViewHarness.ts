@@ -3,15 +3,18 @@
  * inside the same HTML shell and content security policy the extension uses (src/extension/bandViewHtml.ts),
  * with a stub `acquireVsCodeApi` that records what the view posts and lets a test post host messages.
  */
+import assert from 'node:assert/strict';
 import { createServer, type Server } from 'node:http';
-import { existsSync, readFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { randomBytes } from 'node:crypto';
 import * as esbuild from 'esbuild';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { bandViewHtml } from '../../../src/extension/bandViewHtml';
 import { BODY_CLASS, THEME_VARS, type TestTheme } from './themes';
-import { waitForExpression } from './pageHelpers';
+import { installPageHelpers, waitForExpression } from './pageHelpers';
+import { bandDataMessage, loadRunForView, type LoadedRun } from './coreBandData';
+import type { ExtremumMark } from '../../../src/protocol';
 
 export const CHROMIUM_PATH = '/usr/bin/chromium';
 export const CHROMIUM_ARGS = [
@@ -157,4 +160,51 @@ export async function startHarness(): Promise<Harness> {
       };
     },
   };
+}
+
+/** Where the suites write screenshots and exported images. */
+export const ARTIFACTS = 'test-artifacts';
+
+/**
+ * The harness and the silicon run (empirical pseudopotential model of Cohen & Bergstresser, Phys. Rev. 141,
+ * 789 (1966), fixtures/epm/si) of one describe block: started before its tests, closed after them.
+ */
+export function siliconSession(): { h: Harness; run: LoadedRun } {
+  const session = {} as { h: Harness; run: LoadedRun };
+  before(async function () {
+    mkdirSync(ARTIFACTS, { recursive: true });
+    session.h = await startHarness();
+    session.run = await loadRunForView('fixtures/epm/si', 'Si (EPM)');
+  });
+  after(async () => {
+    if (session.h) await session.h.close();
+  });
+  return session;
+}
+
+/** A page showing the run, once its first draw is done. */
+export async function openWithRun(
+  h: Harness,
+  run: LoadedRun,
+  theme: TestTheme = 'dark',
+  viewport?: { width: number; height: number },
+): Promise<ViewPage> {
+  const v = await h.open(theme, viewport);
+  await installPageHelpers(v.page);
+  await v.hostPost(bandDataMessage(run.data));
+  await waitForExpression(v.page, 'window.valleyscopeBandView.lastDraw !== null');
+  return v;
+}
+
+/** Waits until the view has posted `count` messages of `type`; returns the last of them. */
+export async function waitPosted(v: ViewPage, type: string, count: number): Promise<Record<string, unknown>> {
+  await waitForExpression(v.page, `window.__posted.filter(function (m) { return m.type === ${JSON.stringify(type)}; }).length >= ${count}`);
+  return (await v.posted()).filter((m) => m.type === type).pop()!;
+}
+
+/** The run's extremum of this kind (the test fails when the core reports none). */
+export function markOf(run: LoadedRun, kind: ExtremumMark['kind']): ExtremumMark {
+  const m = run.data.marks.find((x) => x.kind === kind);
+  assert.ok(m, `the core reports a ${kind} for ${run.data.title}`);
+  return m;
 }
