@@ -6,6 +6,21 @@ import { availableReferences, chooseReference } from '../../webview/bandView/ene
 import { buildExportSvg, EXPORT_UNITS_W, pngSize } from '../../webview/bandView/exportPlot';
 import { buildViewModel } from '../../webview/bandView/viewModel';
 import { loadRunForView } from './support/coreBandData';
+import type { BandData } from '../../src/protocol';
+
+/** The export SVG of the whole path, spin channel 1, energies from −6 to 6 eV about the VBM. */
+function exportWholePath(data: BandData): ReturnType<typeof buildExportSvg> {
+  const vm = buildViewModel(data);
+  return buildExportSvg({
+    vm,
+    spins: [0],
+    reference: chooseReference('vbm', { vbm_eV: data.vbm_eV, fermiEnergy: null }),
+    xDomain: [vm.distance[0]!, vm.distance[vm.nk - 1]!],
+    yDomain: [-6, 6],
+    marks: vm.marks,
+    curves: [],
+  });
+}
 
 describe('band view modules', () => {
   it('local extrema of a cosine band sit at k = 0 (minimum) and k = π/a (maximum)', () => {
@@ -68,17 +83,7 @@ describe('band view modules', () => {
 
   it('export SVG: one journal column wide, axis titles with units, every band inside the frame', async () => {
     const run = await loadRunForView('fixtures/epm/si', 'Si (EPM)');
-    const vm = buildViewModel(run.data);
-    const ref = chooseReference('vbm', { vbm_eV: run.data.vbm_eV, fermiEnergy: null });
-    const { svg, width, height } = buildExportSvg({
-      vm,
-      spins: [0],
-      reference: ref,
-      xDomain: [vm.distance[0]!, vm.distance[vm.nk - 1]!],
-      yDomain: [-6, 6],
-      marks: vm.marks,
-      curves: [],
-    });
+    const { svg, width, height } = exportWholePath(run.data);
     // 85 mm at 72 pt per inch (25.4 mm per inch, the definition of the inch).
     assert.equal(width, EXPORT_UNITS_W);
     assert.equal(EXPORT_UNITS_W, Math.round((85 / 25.4) * 72));
@@ -99,17 +104,7 @@ describe('band view modules', () => {
     const run = await loadRunForView('fixtures/epm/si', 'Si <b>"x"</b> & co');
     const evil = '<image href="http://example.invalid/x.png" onerror="alert(1)"/>';
     const data = { ...run.data, ticks: run.data.ticks.map((t, i) => (i === 1 ? { ...t, label: evil } : t)) };
-    const vm = buildViewModel(data);
-    const ref = chooseReference('vbm', { vbm_eV: data.vbm_eV, fermiEnergy: null });
-    const { svg } = buildExportSvg({
-      vm,
-      spins: [0],
-      reference: ref,
-      xDomain: [vm.distance[0]!, vm.distance[vm.nk - 1]!],
-      yDomain: [-6, 6],
-      marks: vm.marks,
-      curves: [],
-    });
+    const { svg } = exportWholePath(data);
     assert.ok(!svg.includes('<image'), 'no element injected');
     assert.ok(svg.includes('&lt;image href=&quot;http://example.invalid/x.png&quot; onerror=&quot;alert(1)&quot;/&gt;'));
     assert.ok(svg.includes('<title>Si &lt;b&gt;&quot;x&quot;&lt;/b&gt; &amp; co: band structure</title>'));

@@ -40,7 +40,7 @@ export class BandViewApp {
   readonly toolbar = new Toolbar();
   private readonly review = new ReviewNote();
   private readonly panel: FitPanel;
-  readonly el: PlotElements;
+  readonly page: PlotElements;
   readonly scales: PlotScales;
   /** The selected extremum and the hover point (main.ts sends it the pointer and the keys). */
   readonly nav: PlotSelection;
@@ -60,9 +60,9 @@ export class BandViewApp {
     this.panel = new FitPanel({ onWindow: (w) => this.setWindow(w), onMethod: (m) => this.setMethod(m) });
     // The saved review (status and note) of the fitted extremum, under the panel's title.
     this.panel.root.firstElementChild?.after(this.review.root);
-    this.el = buildPage(this.toolbar, this.panel.root);
-    this.renderer = new BandRenderer(this.el.canvas);
-    this.scales = new PlotScales(this.el.svg, () => this.schedule());
+    this.page = buildPage(this.toolbar, this.panel.root);
+    this.renderer = new BandRenderer(this.page.canvas);
+    this.scales = new PlotScales(this.page.svg, () => this.schedule());
     const setStatus = (text: string): void => this.setStatus(text);
     this.fits = new FitRequests({ post: (m) => this.post(m), panel: this.panel, review: this.review, choices: this.choices, setStatus });
     this.nav = new PlotSelection({
@@ -73,7 +73,7 @@ export class BandViewApp {
       screenOf: (s, k, b) => this.screenOf(s, k, b),
       fit: (c) => this.fits.request(c, true),
       setStatus,
-      describe: (text) => (this.el.readout.textContent = text),
+      describe: (text) => (this.page.readout.textContent = text),
       schedule: () => this.schedule(),
     });
     this.toolbar.showSaveState(this.env);
@@ -161,7 +161,7 @@ export class BandViewApp {
   private setData(data: BandData): void {
     const prev = this.vm;
     this.vm = buildViewModel(data);
-    this.el.message.hidden = true;
+    this.page.message.hidden = true;
     const restore = this.choices.adopt(data, prev === null);
     if (prev === null) {
       this.panel.setMethods(runMethods(data), this.choices.method);
@@ -170,7 +170,7 @@ export class BandViewApp {
     }
     this.toolbar.showRun(data, this.choices.reference, this.choices.spin);
     this.panel.setCautions(data.report.cautions);
-    this.el.plot.setAttribute('aria-label', plotLabel(data.title, data.nBands, data.nk));
+    this.page.plot.setAttribute('aria-label', plotLabel(data.title, data.nBands, data.nk));
     const vm = this.vm;
     this.nav.candidates = reachableCandidates(vm.marks, vm.extrema, data.setAside, (s, k, b) => energyAt(vm, s, k, b));
     // Keep the selection and zoom on a refresh of the same run (a growing file); reset otherwise.
@@ -231,10 +231,10 @@ export class BandViewApp {
   // Geometry ---------------------------------------------------------------------------------------------
 
   layout(): void {
-    const r = this.el.plot.getBoundingClientRect();
+    const r = this.page.plot.getBoundingClientRect();
     this.scales.resize(r.width, r.height);
-    this.el.canvas.style.left = `${MARGIN.left}px`;
-    this.el.canvas.style.top = `${MARGIN.top}px`;
+    this.page.canvas.style.left = `${MARGIN.left}px`;
+    this.page.canvas.style.top = `${MARGIN.top}px`;
     this.renderer.resize(this.scales.pw, this.scales.ph, window.devicePixelRatio || 1);
     this.scales.setBase(this.vm, this.refChoice.offset);
     this.render();
@@ -279,7 +279,7 @@ export class BandViewApp {
     const { pw, ph, zx, zy } = s;
     const dpr = window.devicePixelRatio || 1;
     if (!vm || pw <= 0 || ph <= 0) {
-      this.el.svg.selectAll('*').remove();
+      this.page.svg.selectAll('*').remove();
       this.renderer.resize(Math.max(1, pw), Math.max(1, ph), dpr);
       this.renderer.clear();
       this.lastDraw = null;
@@ -304,10 +304,10 @@ export class BandViewApp {
     });
     const ms = performance.now() - t0;
     this.lastDraw = { ...stats, ms };
-    this.el.canvas.dataset.mode = stats.mode;
+    this.page.canvas.dataset.mode = stats.mode;
     const sel = this.nav.selected && spins.includes(this.nav.selected.spin) ? this.nav.selected : null;
     const hov = this.nav.hover;
-    drawOverlay(this.el.svg, {
+    drawOverlay(this.page.svg, {
       vm,
       zx,
       zy,
@@ -354,11 +354,11 @@ export class BandViewApp {
   }
 
   private showMessage(text: string): void {
-    this.el.message.hidden = false;
-    this.el.message.textContent = text;
+    this.page.message.hidden = false;
+    this.page.message.textContent = text;
   }
 
   private setStatus(text: string): void {
-    this.el.status.textContent = text;
+    this.page.status.textContent = text;
   }
 }

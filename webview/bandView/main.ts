@@ -18,7 +18,7 @@ import type { ReferenceName, SpinName } from './viewState';
 
 adoptStyleSheet(document, BAND_VIEW_CSS);
 const app = new BandViewApp(vscodeApi());
-const { plot, overlay: svg } = app.el;
+const { plot, overlay: svg } = app.page;
 const bar = app.toolbar;
 
 /** A pointer event's position inside the plot element, CSS px. */
