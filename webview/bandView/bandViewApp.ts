@@ -6,7 +6,6 @@
 import {
   HostToViewType,
   ViewToHostType,
-  isHostToViewMessage,
   type BandData,
   type EnvironmentData,
   type ExportFormat,
@@ -90,18 +89,13 @@ export class BandViewApp {
 
   // Messages ---------------------------------------------------------------------------------------------
 
-  onMessage(raw: unknown): void {
-    if (!isHostToViewMessage(raw)) return;
-    try {
-      this.handle(raw);
-    } catch (e) {
-      const msg = e instanceof Error ? e.message : String(e);
-      this.showMessage(`The band view could not show this data: ${msg}`);
-      this.post({ type: ViewToHostType.ViewError, message: msg.slice(0, 3000) });
-    }
+  /** A host message could not be shown: the sentence in the plot, and the error to the host. */
+  showError(message: string): void {
+    this.showMessage(`The band view could not show this data: ${message}`);
+    this.post({ type: ViewToHostType.ViewError, message: message.slice(0, 3000) });
   }
 
-  private handle(m: HostToViewMessage): void {
+  handle(m: HostToViewMessage): void {
     switch (m.type) {
       case HostToViewType.BandData:
         this.env = m.environment;

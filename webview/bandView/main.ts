@@ -8,7 +8,8 @@ import '@vscode-elements/elements/dist/vscode-button/index.js';
 import '@vscode-elements/elements/dist/vscode-single-select/index.js';
 import '@vscode-elements/elements/dist/vscode-option/index.js';
 import '@vscode-elements/elements/dist/vscode-textfield/index.js';
-import { ViewToHostType } from '../../src/protocol';
+import { isHostToViewMessage, ViewToHostType } from '../../src/protocol';
+import { receiveHostMessages } from '../shared/hostMessages';
 import { adoptStyleSheet } from '../shared/styleSheet';
 import { watchTheme } from '../shared/themeWatch';
 import { vscodeApi } from '../shared/vscodeApi';
@@ -46,7 +47,12 @@ bar.svgButton.addEventListener('click', () => void app.exportPlot('svg'));
 bar.pngButton.addEventListener('click', () => void app.exportPlot('png'));
 bar.saveButton.addEventListener('click', () => app.save());
 
-window.addEventListener('message', (ev: MessageEvent) => app.onMessage(ev.data));
+receiveHostMessages(
+  window,
+  isHostToViewMessage,
+  (m) => app.handle(m),
+  (message) => app.showError(message),
+);
 new ResizeObserver(() => app.layout()).observe(plot);
 watchTheme(document, () => app.themeChanged());
 app.post({ type: ViewToHostType.Ready });
