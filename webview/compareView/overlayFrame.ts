@@ -6,10 +6,10 @@ import { select } from 'd3-selection';
 import { scaleLinear } from 'd3-scale';
 import { axisLeft } from 'd3-axis';
 import type { CompareBandRun } from '../../src/protocol';
-import { minus } from '../shared/format';
 import { el } from '../shared/controls';
 import { E_HIGH, E_LOW } from './overlayData';
 import type { OverlayLayout } from './overlayLayout';
+import { appendAxisTitles, appendNumberAxis } from './svgAxes';
 
 const SVG_NS = 'http://www.w3.org/2000/svg';
 /** Space around the plot area, CSS px. */
@@ -40,15 +40,7 @@ export function drawOverlayFrame(svgEl: SVGSVGElement, layout: OverlayLayout, pw
     .attr('y1', Y(0))
     .attr('y2', Y(0));
   svg.append('rect').attr('class', 'cv-frame').attr('x', MARGIN.left).attr('y', MARGIN.top).attr('width', pw).attr('height', ph);
-  svg
-    .append('g')
-    .attr('class', 'cv-axis cv-axis-y')
-    .attr('transform', `translate(${MARGIN.left},${MARGIN.top})`)
-    .call(
-      axisLeft(y)
-        .ticks(Math.max(3, Math.round(ph / 40)))
-        .tickFormat((d) => minus(String(d))),
-    );
+  appendNumberAxis(svg, 'cv-axis cv-axis-y', `translate(${MARGIN.left},${MARGIN.top})`, axisLeft(y), Math.max(3, Math.round(ph / 40)));
   const xg = svg.append('g').attr('class', 'cv-axis cv-axis-x');
   for (const t of layout.ticks) {
     xg.append('line')
@@ -73,23 +65,13 @@ export function drawOverlayFrame(svgEl: SVGSVGElement, layout: OverlayLayout, pw
         .text(`${i + 1}`);
     });
   }
-  const yt = svg
-    .append('text')
-    .attr('class', 'cv-axis-title')
-    .attr('transform', `translate(14,${MARGIN.top + ph / 2}) rotate(-90)`)
-    .attr('text-anchor', 'middle');
+  const xTitle = layout.shared
+    ? 'k-path (segments of each run stretched onto the first run’s)'
+    : 'k-path of each run (paths differ: side by side)';
+  const yt = appendAxisTitles(svg, MARGIN.left + pw / 2, height, MARGIN.top + ph / 2, xTitle);
   yt.append('tspan').text('E − E');
   yt.append('tspan').attr('baseline-shift', 'sub').attr('font-size', '9px').text('VBM');
   yt.append('tspan').text(' (eV)');
-  svg
-    .append('text')
-    .attr('class', 'cv-axis-title')
-    .attr('x', MARGIN.left + pw / 2)
-    .attr('y', height - 6)
-    .attr('text-anchor', 'middle')
-    .text(
-      layout.shared ? 'k-path (segments of each run stretched onto the first run’s)' : 'k-path of each run (paths differ: side by side)',
-    );
 }
 
 /** What a run's zero is when it is not its VBM. */

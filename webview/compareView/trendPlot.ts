@@ -7,9 +7,9 @@ import { scaleLinear } from 'd3-scale';
 import { axisBottom, axisLeft } from 'd3-axis';
 import { line } from 'd3-shape';
 import type { CompareRow, CompareTable } from '../../src/protocol';
-import { minus } from '../shared/format';
 import { el } from '../shared/controls';
 import { columnTitle, formatValue } from './tableText';
+import { appendAxisTitles, appendNumberAxis } from './svgAxes';
 import {
   emptyTrendText,
   paddedDomain,
@@ -80,37 +80,9 @@ export function drawTrend(e: TrendElements, input: TrendInput | null): TrendDraw
   const xTitle = columnTitle(t.columns, xKey);
   const yTitle = columnTitle(t.columns, yKey);
   svg.append('rect').attr('class', 'cv-frame').attr('x', MARGIN.left).attr('y', MARGIN.top).attr('width', pw).attr('height', ph);
-  svg
-    .append('g')
-    .attr('class', 'cv-axis')
-    .attr('transform', `translate(0,${MARGIN.top + ph})`)
-    .call(
-      axisBottom(x)
-        .ticks(Math.max(2, Math.round(pw / 70)))
-        .tickFormat((d) => minus(String(d))),
-    );
-  svg
-    .append('g')
-    .attr('class', 'cv-axis')
-    .attr('transform', `translate(${MARGIN.left},0)`)
-    .call(
-      axisLeft(y)
-        .ticks(Math.max(2, Math.round(ph / 40)))
-        .tickFormat((d) => minus(String(d))),
-    );
-  svg
-    .append('text')
-    .attr('class', 'cv-axis-title')
-    .attr('x', MARGIN.left + pw / 2)
-    .attr('y', height - 6)
-    .attr('text-anchor', 'middle')
-    .text(xTitle);
-  svg
-    .append('text')
-    .attr('class', 'cv-axis-title')
-    .attr('transform', `translate(14,${MARGIN.top + ph / 2}) rotate(-90)`)
-    .attr('text-anchor', 'middle')
-    .text(yTitle);
+  appendNumberAxis(svg, 'cv-axis', `translate(0,${MARGIN.top + ph})`, axisBottom(x), Math.max(2, Math.round(pw / 70)));
+  appendNumberAxis(svg, 'cv-axis', `translate(${MARGIN.left},0)`, axisLeft(y), Math.max(2, Math.round(ph / 40)));
+  appendAxisTitles(svg, MARGIN.left + pw / 2, height, MARGIN.top + ph / 2, xTitle).text(yTitle);
   // Lines join only runs of one material; a run without a structure joins nothing.
   const series = trendSeries(pts);
   for (const sr of series) {
