@@ -6,6 +6,7 @@
 import {
   COMPARE_MAX_OVERLAY,
   CompareViewToHostType,
+  type CompareBandRun,
   type CompareRow,
   type CompareTable,
   type CompareViewToHostMessage,
@@ -18,7 +19,7 @@ import { OverlayView, type OverlayStats } from './overlayView';
 import { carryRows, readSavedState, userValuesByName, type SavedState } from './savedState';
 import { keepSort, nextSort } from './tableSort';
 import { columnTitle, tableSummary } from './tableText';
-import { markSelected, renderTable, visibleRowNames, type OpenTarget, type TableActions } from './tableView';
+import { defaultTarget, markSelected, renderTable, visibleRowNames, type OpenTarget, type TableActions } from './tableView';
 import { trendAxes } from './trendData';
 import { drawTrend, type TrendDrawn } from './trendPlot';
 
@@ -199,7 +200,7 @@ export class CompareViewApp {
   }
 
   /** Band data from the host; rows it could not send are unticked with the reason in the status line. */
-  onBands(runs: Parameters<OverlayView['receive']>[0], missing: readonly { rowId: string; reason: string }[]): void {
+  onBands(runs: readonly CompareBandRun[], missing: readonly { rowId: string; reason: string }[]): void {
     this.overlay.receive(runs);
     if (missing.length) {
       const names = this.rowNames();
@@ -266,7 +267,7 @@ export class CompareViewApp {
       xKey: this.state.trendX,
       yKey: this.state.trendY,
       userValues: this.userValues,
-      open: (r: CompareRow) => this.openRun(r, r.canOverlay ? 'bandView' : 'file'),
+      open: (r: CompareRow) => this.openRun(r, defaultTarget(r)),
     };
     this.trend = drawTrend(this.page.trend, input);
   }

@@ -29,7 +29,8 @@ export interface TableActions {
   typed(row: CompareRow, value: number | null | { invalid: string }): void;
 }
 
-const defaultTarget = (r: CompareRow): OpenTarget => (r.canOverlay ? 'bandView' : 'file');
+/** Where a run opens by default: its band view when it has band data, else its file. */
+export const defaultTarget = (r: CompareRow): OpenTarget => (r.canOverlay ? 'bandView' : 'file');
 
 function headerCell(
   key: string,
