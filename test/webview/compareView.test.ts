@@ -6,10 +6,8 @@
  * Reference values come from the core's analysis of the same files, read in this process.
  */
 import assert from 'node:assert/strict';
-import { createServer, type Server } from 'node:http';
-import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { existsSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
-import * as esbuild from 'esbuild';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { bandRunOf, buildCompareTable, type CompareEntry } from '../../src/extension/compareViewData';
 import { compositionOf } from '../../src/core/compare/structureDescriptors';
@@ -26,7 +24,6 @@ import {
   isCompareViewToHostMessage,
   isViewToHostMessage,
   type CompareBandRun,
-  type CompareRow,
   type CompareTable,
   type EncodedArray,
 } from '../../src/protocol';
@@ -34,8 +31,7 @@ import type { BandStructure, Report } from '../../src/core/model';
 import { CHROMIUM_ARGS, CHROMIUM_PATH, testPageHtml } from './support/bandViewHarness';
 import { BODY_CLASS, THEME_VARS } from './support/themes';
 import { hexToRgb, waitForExpression } from './support/pageHelpers';
-import { layoutOverlay, pathsMatch } from '../../webview/compareView/overlayLayout';
-import { nextSort, sortRows } from '../../webview/compareView/tableSort';
+import { buildViewBundle, startPageServer, type PageServer } from './support/pageHarness';
 
 const ARTIFACTS = 'test-artifacts';
 const SERIES = join('fixtures', 'demo', 'si-strain');
@@ -97,50 +93,20 @@ document.body.className = 'vscode-dark'; document.body.setAttribute('data-vscode
 interface Harness {
   browser: Browser;
   origin: string;
-  server: Server;
+  server: PageServer;
 }
 
 async function startHarness(): Promise<Harness> {
   if (!existsSync(CHROMIUM_PATH)) throw new Error(`${CHROMIUM_PATH} is missing: run scripts/install-test-deps.sh`);
-  await esbuild.build({
-    entryPoints: [{ in: 'webview/compareView/main.ts', out: 'compareView' }],
-    outdir: join('dist', 'webview'),
-    bundle: true,
-    platform: 'browser',
-    format: 'iife',
-    target: 'es2022',
-    sourcemap: true,
-    logLevel: 'warning',
+  const bundle = await buildViewBundle('webview/compareView/main.ts', 'compareView');
+  const server = await startPageServer({
+    bundlePath: '/compareView.js',
+    bundle,
+    stub: STUB,
+    page: (_url, origin) => testPageHtml(origin, `${origin}/compareView.js`, 'Compare view test', 'dark'),
   });
-  const bundle = readFileSync(join('dist', 'webview', 'compareView.js'));
-  let origin = '';
-  const server = createServer((req, res) => {
-    const url = new URL(req.url ?? '/', 'http://127.0.0.1');
-    if (url.pathname === '/compareView.js' || url.pathname === '/stub.js') {
-      res.writeHead(200, { 'content-type': 'text/javascript' });
-      res.end(url.pathname === '/stub.js' ? STUB : bundle);
-      return;
-    }
-    if (url.pathname === '/') {
-      const html = testPageHtml(origin, `${origin}/compareView.js`, 'Compare view test', 'dark');
-      res.writeHead(200, { 'content-type': 'text/html; charset=utf-8' });
-      res.end(html);
-      return;
-    }
-    if (url.pathname === '/favicon.ico') {
-      res.writeHead(204);
-      res.end();
-      return;
-    }
-    res.writeHead(404);
-    res.end();
-  });
-  await new Promise<void>((r) => server.listen(0, '127.0.0.1', r));
-  const addr = server.address();
-  if (!addr || typeof addr === 'string') throw new Error('no server address');
-  origin = `http://127.0.0.1:${addr.port}`;
   const browser = await chromium.launch({ executablePath: CHROMIUM_PATH, args: CHROMIUM_ARGS });
-  return { browser, origin, server };
+  return { browser, origin: server.origin, server };
 }
 
 interface View {
@@ -247,7 +213,7 @@ describe('compare view in headless Chromium (demo strain series)', function () {
   });
   after(async () => {
     await h?.browser.close();
-    await new Promise<void>((r) => (h ? h.server.close(() => r()) : r()));
+    await h?.server.close();
   });
 
   it('lists the demo series with the gap, edges and structure of each run, and the cautions', async () => {
@@ -370,6 +336,16 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     await v.page.locator('table.cv-table tbody tr[data-id="r4"] input.cv-select').uncheck();
     await waitForExpression(v.page, 'window.valleyscopeCompareView.lastOverlay.runs.length === 1');
     assert.equal(await countColour(v, orange, 30), 0, 'no orange left after unticking the second run');
+    // Runs differ by more than colour: the second run's line pattern (7 px drawn, 4 px left out) inks about
+    // 7/11 of what the same run inks drawn solid as the only run (hand computation; butt caps).
+    await v.page.locator('table.cv-table tbody tr[data-id="r0"] input.cv-select').uncheck();
+    await v.page.locator('table.cv-table tbody tr[data-id="r4"] input.cv-select').check();
+    await waitForExpression(
+      v.page,
+      "window.valleyscopeCompareView.lastOverlay.runs.length === 1 && window.valleyscopeCompareView.lastOverlay.runs[0] === 'r4'",
+    );
+    const solid = await countColour(v, blue, 30);
+    assert.ok(nOrange / solid > 0.45 && nOrange / solid < 0.85, `dashed ${nOrange} px against solid ${solid} px`);
     await clean(v);
     await v.page.close();
   });
@@ -568,86 +544,5 @@ describe('compare view in headless Chromium (demo strain series)', function () {
     assert.ok(!isCompareViewToHostMessage({ type: 'compareReady', extra: 1 }));
     assert.ok(!isCompareViewToHostMessage({ type: 'ready' }), 'a band-view message is not a compare message');
     assert.ok(!isViewToHostMessage({ type: 'compareReady' }), 'and the other way round');
-  });
-});
-
-describe('compare view layout and sorting (pure modules)', () => {
-  const seg = (start: number, end: number, a: string, b: string, afterJump = false) => ({
-    start,
-    end,
-    startLabel: a,
-    endLabel: b,
-    afterJump,
-  });
-  const tick = (distance: number, label: string, kIndex: number) => ({ distance, label, kIndex });
-
-  it('runs on the same labelled path share the axis, each segment stretched onto the first run’s', () => {
-    // Two runs Γ–X–L: segment lengths differ (a strained cell), so raw distances would misplace X.
-    const a = {
-      nk: 5,
-      distance: Float64Array.from([0, 0.5, 1, 1.5, 2]),
-      segments: [seg(0, 2, 'Γ', 'X'), seg(2, 4, 'X', 'L')],
-      ticks: [tick(0, 'Γ', 0), tick(1, 'X', 2), tick(2, 'L', 4)],
-    };
-    const b = {
-      nk: 5,
-      distance: Float64Array.from([0, 0.6, 1.2, 1.6, 2.0]),
-      segments: [seg(0, 2, 'Γ', 'X'), seg(2, 4, 'X', 'L')],
-      ticks: [tick(0, 'Γ', 0), tick(1.2, 'X', 2), tick(2.0, 'L', 4)],
-    };
-    assert.equal(pathsMatch([a, b]), true);
-    const l = layoutOverlay([a, b]);
-    assert.equal(l.shared, true);
-    // Linear map of each segment onto the reference segment (hand computation): X of b lands on X of a.
-    Array.from(l.x[1]!).forEach((x, i) => assert.ok(Math.abs(x - [0, 0.5, 1, 1.5, 2][i]!) < 1e-12, `k ${i}: ${x}`));
-    assert.deepEqual(l.separators, []);
-  });
-
-  it('runs on different paths go side by side with a separator', () => {
-    const a = { nk: 3, distance: Float64Array.from([0, 1, 2]), segments: [seg(0, 2, 'Γ', 'X')], ticks: [tick(0, 'Γ', 0), tick(2, 'X', 2)] };
-    const b = { nk: 3, distance: Float64Array.from([0, 1, 3]), segments: [seg(0, 2, 'Γ', 'L')], ticks: [tick(0, 'Γ', 0), tick(3, 'L', 2)] };
-    assert.equal(pathsMatch([a, b]), false);
-    const l = layoutOverlay([a, b]);
-    assert.equal(l.shared, false);
-    assert.equal(l.separators.length, 1);
-    // b starts after a (length 2) and a gap of 6 % of the longest run (3): 2.18.
-    assert.ok(Math.abs(l.x[1]![0]! - 2.18) < 1e-12);
-    assert.ok(l.separators[0]! > 2 && l.separators[0]! < 2.18);
-    // A path with an unlabelled end cannot be shared.
-    assert.equal(pathsMatch([a, { ...a, segments: [{ ...a.segments[0]!, endLabel: null }] }]), false);
-  });
-
-  it('sorts numbers as numbers, rows without a number last either way, ties by name', () => {
-    const row = (id: string, name: string, m: number | null): CompareRow => ({
-      id,
-      name,
-      origin: 'data' as const,
-      isReference: false,
-      annotations: 'none' as const,
-      staleReasons: [],
-      error: null,
-      metal: false,
-      direct: false,
-      vbm: null,
-      cbm: null,
-      cbmValley: null,
-      vbmValley: null,
-      values: m === null ? {} : { m },
-      canOverlay: true,
-    });
-    const rows = [row('r0', 'c', 10), row('r1', 'a', 9), row('r2', 'b', null), row('r3', 'd', 9)];
-    assert.deepEqual(
-      sortRows(rows, { key: 'm', direction: 'ascending' }).map((r) => r.id),
-      ['r1', 'r3', 'r0', 'r2'],
-    );
-    assert.deepEqual(
-      sortRows(rows, { key: 'm', direction: 'descending' }).map((r) => r.id),
-      ['r0', 'r1', 'r3', 'r2'],
-    );
-    assert.deepEqual(
-      sortRows(rows, null).map((r) => r.name),
-      ['a', 'b', 'c', 'd'],
-    );
-    assert.deepEqual(nextSort({ key: 'm', direction: 'ascending' }, 'm'), { key: 'm', direction: 'descending' });
   });
 });

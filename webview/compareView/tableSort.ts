@@ -68,3 +68,10 @@ export function nextSort(current: SortState | null, key: string): SortState {
   if (current && current.key === key) return { key, direction: current.direction === 'ascending' ? 'descending' : 'ascending' };
   return { key, direction: 'ascending' };
 }
+
+/** The sort kept after a new table: dropped when its column is gone (text columns and typed values stay). */
+export function keepSort(sort: SortState | null, columnKeys: readonly string[]): SortState | null {
+  if (!sort) return null;
+  if ((TEXT_SORT_KEYS as readonly string[]).includes(sort.key) || columnKeys.includes(sort.key)) return sort;
+  return null;
+}
