@@ -110,16 +110,6 @@ export default tseslint.config(
     },
   },
   {
-    // webview/ is being split into small modules on another branch this session; these three rules are turned
-    // back on for webview/ once that lands (the layer rule below stays on).
-    files: ['webview/**/*.ts'],
-    rules: {
-      '@typescript-eslint/naming-convention': 'off',
-      '@typescript-eslint/unbound-method': 'off',
-      '@typescript-eslint/no-unnecessary-type-assertion': 'off',
-    },
-  },
-  {
     files: ['**/*.mjs', '**/*.cjs'],
     extends: [js.configs.recommended],
     languageOptions: { sourceType: 'module', ecmaVersion: 2022 },

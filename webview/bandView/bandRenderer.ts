@@ -16,8 +16,11 @@ export interface Linear {
   b: number;
 }
 
+/** The fields of a band view model the renderer reads (the compare view draws its runs with these alone). */
+export type RenderedBands = Pick<ViewModel, 'nBands' | 'distance' | 'energies' | 'pieces' | 'pyramids' | 'topValenceBand'>;
+
 export interface DrawRequest {
-  vm: ViewModel;
+  vm: RenderedBands;
   spins: number[];
   /** Path distance → CSS px within the plot area. */
   x: Linear;
@@ -32,6 +35,10 @@ export interface DrawRequest {
   palette: Palette;
   /** Force a mode (benchmark and tests); otherwise chosen from the point density. */
   mode?: 'lines' | 'envelope';
+  /** Line pattern for every spin channel (default: solid, dashed for a second spin). */
+  dash?: number[];
+  /** Draw over what the canvas holds instead of clearing it first (several runs on one plot); always as lines. */
+  keepCanvas?: boolean;
 }
 
 export interface DrawStats {
@@ -83,7 +90,7 @@ export class BandRenderer {
     const W = this.canvas.width;
     const H = this.canvas.height;
     ctx.setTransform(1, 0, 0, 1, 0, 0);
-    ctx.clearRect(0, 0, W, H);
+    if (!req.keepCanvas) ctx.clearRect(0, 0, W, H);
     const { vm } = req;
     // Visible points over all pieces.
     const xLo = (0 - req.x.b) / req.x.a;
@@ -96,7 +103,9 @@ export class BandRenderer {
     }
     const density = visible / Math.max(1, W);
     const segments = visible * vm.nBands * req.spins.length;
-    const mode = req.mode ?? (density <= LINES_MAX_DENSITY && segments <= LINES_MAX_SEGMENTS ? 'lines' : 'envelope');
+    const mode = req.keepCanvas
+      ? 'lines'
+      : (req.mode ?? (density <= LINES_MAX_DENSITY && segments <= LINES_MAX_SEGMENTS ? 'lines' : 'envelope'));
     this.timing = { decimateMs: 0, rasterMs: 0 };
     const valuesRead = mode === 'lines' ? this.drawLines(ctx, req, xLo, xHi) : this.drawEnvelope(ctx, req);
     return mode === 'lines' ? { mode, valuesRead, density } : { mode, valuesRead, density, ...this.timing };
@@ -142,7 +151,7 @@ export class BandRenderer {
         if (!g) groups.set(c, (g = []));
         g.push(b);
       }
-      ctx.setLineDash(spinPos === 1 ? [4, 3] : []);
+      ctx.setLineDash(req.dash ?? (spinPos === 1 ? [4, 3] : []));
       for (const [colour, bands] of groups) {
         ctx.strokeStyle = colour;
         ctx.beginPath();

@@ -9,14 +9,13 @@
 import { CompareViewToHostType } from '../../src/protocol';
 import { vscodeApi } from '../shared/vscodeApi';
 import { watchTheme } from '../shared/themeWatch';
+import { adoptStyleSheet } from '../shared/styleSheet';
 import { COMPARE_VIEW_CSS } from './styles';
 import { buildComparePage } from './pageSkeleton';
 import { CompareViewApp } from './compareApp';
 import { listenToHost } from './messages';
 
-const sheet = new CSSStyleSheet();
-sheet.replaceSync(COMPARE_VIEW_CSS);
-document.adoptedStyleSheets = [...document.adoptedStyleSheets, sheet];
+adoptStyleSheet(document, COMPARE_VIEW_CSS);
 
 const page = buildComparePage();
 const app = new CompareViewApp(page, vscodeApi());

@@ -9,6 +9,7 @@ import {
   type CompareHostToViewMessage,
 } from '../../src/protocol';
 import type { CompareViewApp } from './compareApp';
+import { receiveHostMessages } from '../shared/hostMessages';
 
 /** Hands one checked host message to the view. */
 export function handleHostMessage(app: CompareViewApp, m: CompareHostToViewMessage): void {
@@ -30,15 +31,13 @@ export function handleHostMessage(app: CompareViewApp, m: CompareHostToViewMessa
 
 /** Listens to the host's messages for the life of the page. */
 export function listenToHost(app: CompareViewApp): void {
-  window.addEventListener('message', (ev: MessageEvent) => {
-    const raw: unknown = ev.data;
-    if (!isCompareHostToViewMessage(raw)) return;
-    try {
-      handleHostMessage(app, raw);
-    } catch (e) {
-      const msg = e instanceof Error ? e.message : String(e);
+  receiveHostMessages(
+    window,
+    isCompareHostToViewMessage,
+    (m) => handleHostMessage(app, m),
+    (msg) => {
       app.setStatus(`The compare view could not show this: ${msg}`);
       app.post({ type: CompareViewToHostType.ViewError, message: msg.slice(0, 3000) });
-    }
-  });
+    },
+  );
 }

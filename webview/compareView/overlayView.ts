@@ -86,10 +86,10 @@ export class OverlayView {
       dpr: window.devicePixelRatio || 1,
       total: 1,
     };
-    const ctx = this.canvas.resize(frame, MARGIN.left, MARGIN.top);
+    const drawable = this.canvas.resize(frame, MARGIN.left, MARGIN.top);
     select(e.svg).selectAll('*').remove();
     e.legend.replaceChildren();
-    if (!ctx) return;
+    if (!drawable) return;
     if (runs.length === 0) {
       this.last = { runs: [], shared: true, strokes: [], colours: [] };
       e.message.hidden = false;
@@ -115,7 +115,7 @@ export class OverlayView {
         align: r.meta.align_eV ?? 0,
       };
     });
-    const strokes = this.canvas.draw(ctx, frame, drawn, palette);
+    const strokes = this.canvas.draw(frame, drawn, palette);
     this.last = { runs: runs.map((r) => r.meta.rowId), shared: layout.shared, strokes, colours };
     drawOverlayFrame(e.svg, layout, frame.width, frame.height, height);
     const nameOf = (r: OverlayRun): string => names.get(r.meta.rowId) ?? r.meta.title;

@@ -4,11 +4,10 @@
  * with a stub `acquireVsCodeApi` that records what the view posts and lets a test post host messages.
  */
 import assert from 'node:assert/strict';
-import { createServer, type Server } from 'node:http';
-import { existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { existsSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { randomBytes } from 'node:crypto';
-import * as esbuild from 'esbuild';
+import { buildViewBundle, startPageServer } from './pageHarness';
 import { chromium, type Browser, type Page } from 'playwright-core';
 import { bandViewHtml } from '../../../src/extension/bandViewHtml';
 import { BODY_CLASS, THEME_VARS, type TestTheme } from './themes';
@@ -27,20 +26,6 @@ export const CHROMIUM_ARGS = [
   '--disable-sync',
 ];
 export const BUNDLE = join('dist', 'webview', 'bandView.js');
-
-/** Builds the view bundle the way esbuild.mjs does (IIFE for the browser). */
-export async function buildBandViewBundle(): Promise<void> {
-  await esbuild.build({
-    entryPoints: [{ in: 'webview/bandView/main.ts', out: 'bandView' }],
-    outdir: join('dist', 'webview'),
-    bundle: true,
-    platform: 'browser',
-    format: 'iife',
-    target: 'es2022',
-    sourcemap: true,
-    logLevel: 'warning',
-  });
-}
 
 /** The stub of VS Code's webview API, run before the bundle. */
 const STUB = `
@@ -97,47 +82,22 @@ export function testPageHtml(origin: string, scriptUri: string, title: string, t
 
 export async function startHarness(): Promise<Harness> {
   if (!existsSync(CHROMIUM_PATH)) throw new Error(`${CHROMIUM_PATH} is missing: run scripts/install-test-deps.sh`);
-  await buildBandViewBundle();
-  const bundle = readFileSync(BUNDLE);
-  let origin = '';
-  const server: Server = createServer((req, res) => {
-    const url = new URL(req.url ?? '/', origin || 'http://127.0.0.1');
-    if (url.pathname === '/bandView.js') {
-      res.writeHead(200, { 'content-type': 'text/javascript' });
-      res.end(bundle);
-      return;
-    }
-    if (url.pathname === '/stub.js') {
-      res.writeHead(200, { 'content-type': 'text/javascript' });
-      res.end(STUB);
-      return;
-    }
-    if (url.pathname === '/') {
-      const theme = (url.searchParams.get('theme') ?? 'dark') as TestTheme;
-      const html = testPageHtml(origin, `${origin}/bandView.js`, 'Band view test', theme);
-      res.writeHead(200, { 'content-type': 'text/html; charset=utf-8' });
-      res.end(html);
-      return;
-    }
-    if (url.pathname === '/favicon.ico') {
-      res.writeHead(204);
-      res.end();
-      return;
-    }
-    res.writeHead(404);
-    res.end();
+  const bundle = await buildViewBundle('webview/bandView/main.ts', 'bandView');
+  const server = await startPageServer({
+    bundlePath: '/bandView.js',
+    bundle,
+    stub: STUB,
+    page: (url, origin) =>
+      testPageHtml(origin, `${origin}/bandView.js`, 'Band view test', (url.searchParams.get('theme') ?? 'dark') as TestTheme),
   });
-  await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
-  const addr = server.address();
-  if (!addr || typeof addr === 'string') throw new Error('no server address');
-  origin = `http://127.0.0.1:${addr.port}`;
+  const origin = server.origin;
   const browser = await chromium.launch({ executablePath: CHROMIUM_PATH, args: CHROMIUM_ARGS });
   return {
     origin,
     browser,
     async close() {
       await browser.close();
-      await new Promise<void>((resolve) => server.close(() => resolve()));
+      await server.close();
     },
     async open(theme, viewport = { width: 1280, height: 760 }, deviceScaleFactor = 1) {
       const page = await browser.newPage({ viewport, deviceScaleFactor });
