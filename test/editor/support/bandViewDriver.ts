@@ -1,6 +1,6 @@
 /**
  * Driving the band view inside the editor: wait for it, read its canvas, click near a marked extremum,
- * read the mass table. Selectors are the view's own classes (webview/bandView/main.ts, fitPanel.ts).
+ * read the mass table. Selectors are the view's own classes (webview/bandView/page.ts, toolbar.ts, massTable.ts and their neighbours).
  */
 import type { FrameLocator } from 'playwright-core';
 import { waitFor, type EditorSession } from './editorSession';
