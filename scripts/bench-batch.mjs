@@ -118,8 +118,8 @@ console.log(
 );
 console.log(`  the two outputs are ${same ? 'identical' : 'DIFFERENT (a bug: the output must not depend on --jobs)'}`);
 if (r1[0].cpu !== null) {
-  // Per thread: the main thread, the busiest other thread (with --jobs 2, the worker running runs), the rest
-  // (the runtime's own threads: optimising compiler, garbage collector, file I/O).
+  // Per thread: the main thread, the busiest other thread (with --jobs 2 usually the worker running runs, but
+  // threads carry no names to tell), the rest (the runtime's own threads: optimising compiler, garbage collector).
   const split = (rs) => {
     const cpu = median(rs.map((r) => r.cpu));
     const main = median(rs.map((r) => r.main ?? 0));
@@ -133,7 +133,7 @@ if (r1[0].cpu !== null) {
   const s2 = split(r2);
   const f2 = (x) => x.toFixed(2);
   console.log(
-    `  CPU time, s: --jobs 1 ${f2(s1.cpu)} (main thread ${f2(s1.main)}, the runtime's other threads ${f2(s1.busiest + s1.rest)}); --jobs 2 ${f2(s2.cpu)} (main ${f2(s2.main)}, worker ${f2(s2.busiest)}, the rest ${f2(s2.rest)}); ratio ${f2(s2.cpu / s1.cpu)}`,
+    `  CPU time, s: --jobs 1 ${f2(s1.cpu)} (main thread ${f2(s1.main)}, the runtime's other threads ${f2(s1.busiest + s1.rest)}); --jobs 2 ${f2(s2.cpu)} (main ${f2(s2.main)}, busiest other thread ${f2(s2.busiest)}, the rest ${f2(s2.rest)}); ratio ${f2(s2.cpu / s1.cpu)}`,
   );
   console.log(
     `  shortest possible wall time with both cores free (max of each thread's CPU time and half the total): --jobs 1 ${f2(s1.bound)} s, --jobs 2 ${f2(s2.bound)} s; ratio ${f2(s2.bound / s1.bound)}   (an estimate beside the goal, not the goal's measurement)`,
