@@ -15,7 +15,7 @@ function say(...parts) {
   const text = parts.join(' ');
   for (const line of text.split('\n')) {
     if (line.trim() && !line.startsWith(' ')) heading = line.trim();
-    if (/\(goal|goal ≤/.test(line)) withGoal.push([heading, line.trim()]);
+    if (/\(goal|goal ≤|beside the goal/.test(line)) withGoal.push([heading, line.trim()]);
   }
   print(text);
 }
