@@ -2,8 +2,8 @@
 // Benchmark (a script, not a test): does the analysis scale with the data? Every figure is measured in this
 // run on this machine and printed beside its goal. Inputs are generated under bench-data/ (not committed).
 //   1. `valleyscope analyze --json` of a 20 000-point × 40-band path and of a 4 000 × 400 path (EIGENVAL),
-//      end to end (one process each, output to /dev/null), against JSON.parse of the same energies.
-//      Goal: ≤ 2.5×.
+//      and of a 2 000 × 400 path in vasprun.xml, end to end (one process each, output to /dev/null), against
+//      JSON.parse of the same energies. Goal: ≤ 2.5×.
 //   2. A 50 MB EIGENVAL path (≈30 400 k-points × 48 bands, 4 segments): peak memory of `analyze` against
 //      0.5 × file + 150 MB, and `annotate` and `check` on it against 1.5 × the time of `analyze`.
 // Usage: node esbuild.mjs --cli-only && node scripts/bench-scaling.mjs [--quick]
@@ -23,13 +23,12 @@ mkdirSync(dir, { recursive: true });
 const MB = 2 ** 20;
 const scale = quick ? 0.1 : 1;
 
-function generate(name, nk, nb) {
+function generate(name, nk, nb, layout = 'EIGENVAL') {
   const folder = join(dir, name);
-  if (!existsSync(join(folder, 'EIGENVAL')) || !existsSync(join(folder, 'energies.json'))) {
-    console.log(`generating ${folder} (${nk} k-points × ${nb} bands) ...`);
-    const r = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/bench/generatePathRun.ts', folder, String(nk), String(nb), '4'], {
-      stdio: 'inherit',
-    });
+  if (!existsSync(join(folder, layout === 'vasprun' ? 'vasprun.xml' : 'EIGENVAL')) || !existsSync(join(folder, 'energies.json'))) {
+    console.log(`generating ${folder} (${nk} k-points × ${nb} bands, ${layout}) ...`);
+    const args = ['--import', 'tsx', 'scripts/bench/generatePathRun.ts', folder, String(nk), String(nb), '4'];
+    const r = spawnSync(process.execPath, layout === 'vasprun' ? [...args, 'vasprun'] : args, { stdio: 'inherit' });
     if (r.status !== 0) throw new Error('generator failed');
   }
   return folder;
@@ -69,9 +68,9 @@ function jsonParse(file) {
 const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 const repeat = 3;
 
-function analyzeCase(name, nk, nb) {
-  const folder = generate(name, nk, nb);
-  const eig = join(folder, 'EIGENVAL');
+function analyzeCase(name, nk, nb, layout = 'EIGENVAL') {
+  const folder = generate(name, nk, nb, layout);
+  const eig = join(folder, layout === 'vasprun' ? 'vasprun.xml' : 'EIGENVAL');
   const size = statSync(eig).size;
   const jp = [];
   const jpp = [];
@@ -84,7 +83,7 @@ function analyzeCase(name, nk, nb) {
     const a = timed([process.execPath, cli, 'analyze', eig, '--json'], 'analyze --json');
     if (a && a.status === 0) an.push(a);
   }
-  console.log(`\n${nk} k-points × ${nb} bands, EIGENVAL ${(size / MB).toFixed(1)} MiB`);
+  console.log(`\n${nk} k-points × ${nb} bands, ${layout === 'vasprun' ? 'vasprun.xml' : 'EIGENVAL'} ${(size / MB).toFixed(1)} MiB`);
   if (!jp.length || !an.length) {
     console.log('  failed to measure');
     return null;
@@ -106,7 +105,9 @@ function analyzeCase(name, nk, nb) {
     );
   }
   // Where the time goes, in one process (CPU time per phase; process start-up and module loading excluded).
-  const ph = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/bench/measurePhases.ts', folder], { encoding: 'utf8' });
+  const ph = spawnSync(process.execPath, ['--import', 'tsx', 'scripts/bench/measurePhases.ts', layout === 'vasprun' ? eig : folder], {
+    encoding: 'utf8',
+  });
   if (ph.status === 0) {
     const p = JSON.parse(ph.stdout.trim().split('\n').pop());
     const total = p.readMs + p.analyzeMs + p.jsonMs;
@@ -123,6 +124,7 @@ function analyzeCase(name, nk, nb) {
 console.log(`Analysis scaling${quick ? ' (--quick: a tenth of the sizes; goals are for the full sizes)' : ''}; medians of ${repeat} runs`);
 analyzeCase(`path-${20000 * scale}x40`, 20000 * scale, 40);
 analyzeCase(`path-${4000 * scale}x400`, 4000 * scale, 400);
+analyzeCase(`vasprun-${2000 * scale}x400`, 2000 * scale, 400, 'vasprun');
 
 // The 50 MB path: memory and the other commands.
 const big = generate(`path-${30400 * scale}x48`, 30400 * scale, 48);

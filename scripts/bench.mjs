@@ -1,9 +1,34 @@
 #!/usr/bin/env node
 // Benchmarks (a script, not a test): every figure is measured in this run on this machine and printed beside
 // the figure it is compared against. Inputs are generated under bench-data/ (not committed).
+// Every figure printed with a goal is gathered at the end under its heading, so the goals can be read in one place.
 // Usage: npm run bench [-- --small]   (--small: a 30 MB file instead of 300 MB, for a quick look)
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, statSync } from 'node:fs';
+import { createInterface } from 'node:readline';
+
+// Every line printed goes through `say`, which remembers the lines that carry a goal under the last heading.
+const withGoal = [];
+let heading = '';
+const print = console.log;
+function say(...parts) {
+  const text = parts.join(' ');
+  for (const line of text.split('\n')) {
+    if (line.trim() && !line.startsWith(' ')) heading = line.trim();
+    if (/\(goal|goal ≤|beside the goal/.test(line)) withGoal.push([heading, line.trim()]);
+  }
+  print(text);
+}
+console.log = say;
+
+/** A benchmark script in its own process, its output passed on line by line as it comes (and scanned for goals). */
+function section(args) {
+  return new Promise((resolve) => {
+    const child = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'inherit'] });
+    createInterface({ input: child.stdout }).on('line', (l) => say(l));
+    child.on('close', (code) => resolve(code));
+  });
+}
 
 const small = process.argv.includes('--small');
 const dir = 'bench-data';
@@ -60,8 +85,7 @@ if (ours && jp && nl) {
 
 // 2. vasprun.xml through the byte scanner (two shapes: many bands, many k-points).
 if (existsSync('scripts/bench/vasprun.ts')) {
-  const r = spawnSync(process.execPath, [...tsx, 'scripts/bench/vasprun.ts', ...(small ? ['--small'] : [])], { stdio: 'inherit' });
-  if (r.status !== 0) console.log('  vasprun benchmark failed');
+  if ((await section([...tsx, 'scripts/bench/vasprun.ts', ...(small ? ['--small'] : [])])) !== 0) console.log('  vasprun benchmark failed');
 } else console.log('\nvasprun.xml: benchmark not available (scripts/bench/vasprun.ts missing)');
 
 // 3. Full analysis of a 100-band, 2000-point path.
@@ -72,18 +96,25 @@ if (an) console.log(`  ${fmt(an.ms, 0)} ms for ${an.count} extrema   (compared w
 // 4. Band view redraw in headless Chromium.
 if (existsSync('scripts/bench-bandview.mjs')) {
   console.log('\nBand view redraw, 500 bands × 20 000 k-points, headless Chromium');
-  spawnSync(process.execPath, ['scripts/bench-bandview.mjs'], { stdio: 'inherit' });
+  await section(['scripts/bench-bandview.mjs']);
 } else console.log('\nband view: benchmark not available (scripts/bench-bandview.mjs missing)');
 
 // 5. Batch: analyze --jsonl over 200 small runs, --jobs 2 against --jobs 1 (its own script).
 if (existsSync('scripts/bench-batch.mjs')) {
-  const r = spawnSync(process.execPath, ['scripts/bench-batch.mjs'], { stdio: 'inherit' });
-  if (r.status !== 0) console.log('  batch benchmark failed');
+  if ((await section(['scripts/bench-batch.mjs'])) !== 0) console.log('  batch benchmark failed');
 } else console.log('\nbatch: benchmark not available (scripts/bench-batch.mjs missing)');
 
 // 6. Analysis against the size of the data (issue goals: analyze --json ≤ 2.5× JSON.parse; memory and the other
 // commands on a 50 MB path), in its own script.
 if (existsSync('scripts/bench-scaling.mjs')) {
   console.log('');
-  spawnSync(process.execPath, ['scripts/bench-scaling.mjs', ...(small ? ['--quick'] : [])], { stdio: 'inherit' });
+  await section(['scripts/bench-scaling.mjs', ...(small ? ['--quick'] : [])]);
+}
+
+print('\nEvery figure with a goal, from this run (under the heading it was measured for):');
+let last = '';
+for (const [h, line] of withGoal) {
+  if (h !== last) print(`  ${h}`);
+  last = h;
+  print(`    ${line}`);
 }

@@ -2,10 +2,10 @@
  * The phases of `analyze --json` in one process, each timed by the CPU time it used (user + system: steadier
  * than wall time on a shared machine), beside JSON.parse of the same energies in the same process.
  * Prints one JSON line: { parseMs, readMs, analyzeMs, jsonMs, extrema, rejected }.
- * Usage: tsx scripts/bench/measurePhases.ts <run folder holding EIGENVAL and energies.json>
+ * Usage: tsx scripts/bench/measurePhases.ts <run folder holding EIGENVAL and energies.json | eigenvalue file with energies.json beside it>
  */
-import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
+import { readFileSync, statSync } from 'node:fs';
+import { dirname, join } from 'node:path';
 import { loadRun } from '../../src/core/load';
 import { nodeFileAccessor } from '../../src/cli/nodeFileAccessor';
 import { analyzeBandStructure } from '../../src/core/analysis/analyze';
@@ -16,7 +16,9 @@ import { reportToJson } from '../../src/core/report/reportJson';
 const cpuMs = (u: NodeJS.CpuUsage): number => (u.user + u.system) / 1000;
 
 async function main(): Promise<void> {
-  const dir = process.argv[2]!;
+  const arg = process.argv[2]!;
+  const dir = statSync(arg).isDirectory() ? arg : dirname(arg);
+  const file = dir === arg ? join(dir, 'EIGENVAL') : arg;
   installNativeSha256();
   await ensureSymmetryReady();
   let u = process.cpuUsage();
@@ -24,7 +26,7 @@ async function main(): Promise<void> {
   const parseMs = cpuMs(process.cpuUsage(u));
   if (!arr.length) throw new Error('no energies');
   u = process.cpuUsage();
-  const bs = await loadRun(nodeFileAccessor, join(dir, 'EIGENVAL'));
+  const bs = await loadRun(nodeFileAccessor, file);
   const readMs = cpuMs(process.cpuUsage(u));
   u = process.cpuUsage();
   const report = analyzeBandStructure(bs);

@@ -14,6 +14,7 @@ import { TOOL_VERSION } from '../core/version';
 import { ensureSymmetryReady } from '../core/lattice/symmetry';
 import { installNativeSha256 } from './nativeHash';
 import { fsErrorCode, fsErrorSentence } from './fsErrors';
+import { raiseWasmTieringBudget } from './wasmTiering';
 
 export interface Command {
   help: string;
@@ -86,6 +87,8 @@ const VERSION = TOOL_VERSION;
 // Run when executed as the CLI entry point (bundled dist/cli.js or tsx src/cli/main.ts).
 const isEntry = typeof require !== 'undefined' && typeof module !== 'undefined' && require.main === module;
 if (isEntry) {
+  // Before the symmetry module is compiled (the setting applies to modules compiled afterwards; workers share it).
+  raiseWasmTieringBudget();
   // A reader that stops early (`| head`) is not an error of ours.
   process.stdout.on('error', (e: NodeJS.ErrnoException) => {
     if (e.code !== 'EPIPE') process.stderr.write(`valleyscope: cannot write the output: ${e.message}\n`);

@@ -5,7 +5,13 @@
  */
 import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
+import { symmetryCompiledModule } from '../../core/lattice/symmetry';
 import { runTask, type BatchResult, type BatchTask } from './tasks';
+
+/** What a worker is started with: this thread's compiled symmetry module, so the worker neither compiles it nor optimises its code again. */
+export interface WorkerStart {
+  symmetryModule: WebAssembly.Module | null;
+}
 
 export interface PoolProgress {
   done: number;
@@ -15,11 +21,12 @@ export interface PoolProgress {
 
 /** The worker script: the bundled one beside the CLI bundle, or the TypeScript source through tsx (tests, scripts). */
 function startWorker(): Worker {
+  const workerData: WorkerStart = { symmetryModule: symmetryCompiledModule() };
   if (__filename.endsWith('.ts')) {
     const entry = join(__dirname, 'worker.ts');
-    return new Worker(`require('tsx/cjs/api').register(); require(${JSON.stringify(entry)});`, { eval: true });
+    return new Worker(`require('tsx/cjs/api').register(); require(${JSON.stringify(entry)});`, { eval: true, workerData });
   }
-  return new Worker(join(__dirname, 'batchWorker.js'));
+  return new Worker(join(__dirname, 'batchWorker.js'), { workerData });
 }
 
 function stoppedResult(task: BatchTask, why: string): BatchResult {

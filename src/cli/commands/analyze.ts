@@ -109,11 +109,14 @@ export async function runAnalyze(argv: string[], io: CliIO): Promise<number> {
   const mode = energyZeroFromArgs(p);
   const bs = await loadRun(nodeFileAccessor, p.positional[0]!, await readOptionsFromArgs(p));
   const report = analyzeBandStructure(bs, settings);
-  const zero = energyZeroOf(report, mode, bs.fermiEnergy);
+  // --json: raw energies as the code wrote them; the zero and the path positions beside them.
+  if (p.flags.has('json')) {
+    io.out(JSON.stringify(analysisJson(bs, report, mode)));
+    return 0;
+  }
+  // The path's labelled lines (a pass over every k-point) only for the text, which analysisJson does not share.
   const lines = labelledLines(bs);
   const positionOf = (k: readonly number[]): string | null => pathPosition(k, lines);
-  // --json: raw energies as the code wrote them; the zero and the path positions beside them.
-  if (p.flags.has('json')) io.out(JSON.stringify(analysisJson(bs, report, mode)));
-  else io.out(summaryText(report, { zero, positionOf }));
+  io.out(summaryText(report, { zero: energyZeroOf(report, mode, bs.fermiEnergy), positionOf }));
   return 0;
 }

@@ -6,19 +6,23 @@
  * compilation of modules this size on a page's main thread, and the same code runs in the webview, the web
  * extension host, workers and Node.
  */
-import initMoyo, { analyze_cell, space_group_type } from '@spglib/moyo-wasm';
+import initMoyo, { analyze_cell, initSync, space_group_type } from '@spglib/moyo-wasm';
 import type { MoyoDataset, MoyoSpaceGroupType } from '@spglib/moyo-wasm';
 
 export type { MoyoDataset, MoyoSpaceGroupType };
 
 let ready = false;
 let loading: Promise<void> | null = null;
+let compiled: WebAssembly.Module | null = null;
 
-/** Bytes of the WebAssembly module: inlined by the bundler, or read from the installed package in Node. */
-async function wasmBytes(): Promise<Uint8Array> {
+/**
+ * Bytes of the WebAssembly module: inlined by the bundler, or read from the installed package in Node. Both
+ * live in an ordinary ArrayBuffer (never a shared one), which is what WebAssembly.compile accepts.
+ */
+async function wasmBytes(): Promise<Uint8Array<ArrayBuffer>> {
   try {
     const m = await import('./moyoWasmBytes');
-    if (m.MOYO_WASM_BYTES instanceof Uint8Array && m.MOYO_WASM_BYTES.length > 0) return m.MOYO_WASM_BYTES;
+    if (m.MOYO_WASM_BYTES instanceof Uint8Array && m.MOYO_WASM_BYTES.length > 0) return m.MOYO_WASM_BYTES as Uint8Array<ArrayBuffer>;
   } catch {
     // Not bundled (tests and development runs under tsx): fall through to the installed package.
   }
@@ -33,7 +37,7 @@ interface NodeProcessLike {
   getBuiltinModule?: (id: string) => object | undefined;
 }
 interface NodeFsLike {
-  readFileSync(path: string): Uint8Array;
+  readFileSync(path: string): Uint8Array<ArrayBuffer>;
 }
 interface NodeModuleLike {
   createRequire(path: string): { resolve(id: string): string };
@@ -44,7 +48,7 @@ interface NodeModuleLike {
  * built-ins through `process.getBuiltinModule` at run time, so no bundle for the web ever references them;
  * bundles never reach this point because the bytes are inlined.
  */
-function readFromInstalledPackage(): Uint8Array | null {
+function readFromInstalledPackage(): Uint8Array<ArrayBuffer> | null {
   const proc = (globalThis as { process?: NodeProcessLike }).process;
   if (!proc || typeof proc.getBuiltinModule !== 'function') return null;
   const fs = proc.getBuiltinModule('node:fs') as NodeFsLike | undefined;
@@ -62,13 +66,31 @@ function readFromInstalledPackage(): Uint8Array | null {
   return null;
 }
 
-/** Load the WebAssembly module once; later calls return the same promise. */
-export function ensureMoyoReady(): Promise<void> {
+/** True in Node (CLI, extension host, worker threads); false in a browser, a webview or the web extension host. */
+function inNode(): boolean {
+  const proc = (globalThis as { process?: { versions?: { node?: string } } }).process;
+  return typeof proc?.versions?.node === 'string';
+}
+
+/**
+ * Load the WebAssembly module once; later calls return the same promise. `module`: a module already compiled
+ * elsewhere (a batch worker gets the one its parent compiled, see moyoCompiledModule), so it is not compiled
+ * again.
+ *
+ * In Node the module is compiled here and instantiated synchronously: the library's own loader asks whether
+ * `Response` and `Request` exist, and in Node that question alone loads the runtime's HTTP client (about 20 ms
+ * of a CLI run). Browsers keep the library's asynchronous loader.
+ */
+export function ensureMoyoReady(module?: WebAssembly.Module): Promise<void> {
   if (ready) return Promise.resolve();
   if (!loading) {
     loading = (async () => {
-      const bytes = await wasmBytes();
-      await initMoyo({ module_or_path: bytes });
+      if (inNode()) {
+        compiled = module ?? (await WebAssembly.compile(await wasmBytes()));
+        initSync({ module: compiled });
+      } else {
+        await initMoyo({ module_or_path: module ?? (await wasmBytes()) });
+      }
       ready = true;
     })();
     loading.catch(() => {
@@ -76,6 +98,14 @@ export function ensureMoyoReady(): Promise<void> {
     });
   }
   return loading;
+}
+
+/**
+ * The compiled WebAssembly module once loaded in Node (null before, and in browsers): a worker thread given it
+ * (postMessage or workerData copy it by reference) skips compiling the same bytes again.
+ */
+export function moyoCompiledModule(): WebAssembly.Module | null {
+  return compiled;
 }
 
 export function moyoReady(): boolean {

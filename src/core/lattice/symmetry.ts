@@ -14,6 +14,7 @@ import type { Mat3, Structure, Vec3 } from '../model';
 import { AnalysisError } from '../errors';
 import { det3, mat3Inverse, mulMatVec, transpose3 } from './linalg';
 import { ensureMoyoReady, moyoAnalyze, moyoReady, moyoSpaceGroupType, type MoyoDataset } from './moyoRuntime';
+export { moyoCompiledModule as symmetryCompiledModule } from './moyoRuntime';
 
 export interface CrystalSymmetry {
   /** International Tables space-group number, 1–230. */
@@ -53,8 +54,9 @@ export const DEFAULT_SYMPREC = 1e-3;
 /** Two fractional k-points closer than this (in every component, modulo 1) are the same point. */
 export const K_TOLERANCE = 1e-5;
 
-export async function ensureSymmetryReady(): Promise<void> {
-  await ensureMoyoReady();
+/** Load the symmetry library (once). `compiled`: its WebAssembly module compiled by another thread, when one has it. */
+export async function ensureSymmetryReady(compiled?: WebAssembly.Module): Promise<void> {
+  await ensureMoyoReady(compiled);
 }
 
 export function symmetryReady(): boolean {
