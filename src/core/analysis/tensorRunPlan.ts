@@ -8,7 +8,7 @@ import { HBAR2_OVER_ME_EV_A2 } from '../units';
 import { cartesianToFractional } from '../lattice/reciprocal';
 import { displacementOperations, planTensorRun, stepForEnergy, type TensorRunPlan } from '../lattice/tensorKpoints';
 import { leastSquares } from './fits/leastSquares';
-import { engineContext } from './massEngine';
+import { engineContext } from './engineContext';
 import { oppositeRay } from './pathRays';
 
 /** Default energy the band moves at the first shell, eV. */
