@@ -3,7 +3,7 @@
  * sets aside saddles found in the fits, and lists the rejected candidates; a metal's pockets; and the
  * editor's entry point, a fit at a clicked point (snapped along the band to its nearest extremum).
  */
-import type { BandStructure, ExtremumKind, ExtremumReport, MassFit, RejectedCandidate, Report, Vec3 } from '../model';
+import type { BandStructure, ExtremumKind, ExtremumReport, MassFit, RejectedCandidate, Report } from '../model';
 import { kpointAt } from '../model';
 import type { AnalysisSettings } from './analyze';
 import { bandEdges, type EdgeAnalysis } from './gap';
@@ -15,20 +15,9 @@ import { equivalentK } from '../lattice/symmetry';
 import { engineContext, type EngineContext } from './engineContext';
 import { characterise } from './extremumCharacter';
 import { compareNeighbour } from './pathLocalExtrema';
+import { kIndexOf } from './kIndex';
 
 export { engineContext, type EngineContext } from './engineContext';
-
-function kIndexOf(bs: BandStructure, k: Vec3): number | null {
-  for (let i = 0; i < bs.nk; i++) {
-    if (
-      Math.abs(bs.kpoints[3 * i]! - k[0]) < 1e-7 &&
-      Math.abs(bs.kpoints[3 * i + 1]! - k[1]) < 1e-7 &&
-      Math.abs(bs.kpoints[3 * i + 2]! - k[2]) < 1e-7
-    )
-      return i;
-  }
-  return null;
-}
 
 /** Symmetry-equivalent k-points (by the crystal's point group and time reversal), when the symmetry is known. */
 function equivalenceOf(ctx: EngineContext): ((a: number, b: number) => boolean) | undefined {

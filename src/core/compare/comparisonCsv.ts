@@ -93,32 +93,24 @@ export function comparisonCsv(c: Comparison, o: ComparisonFormatOptions): string
         }),
       );
       // Strains are themselves relative to the reference run: no second difference is taken.
-      if (d.volumeStrain !== null)
+      for (const [quantity, strain] of [
+        ['volume_strain', d.volumeStrain],
+        ['in_plane_strain', d.inPlaneStrain],
+      ] as const) {
+        if (strain === null) continue;
         rows.push(
           csvLine({
             ...base,
             isReference: true,
             extremum: 'cell',
             kind: 'structure',
-            quantity: 'volume_strain',
-            value: d.volumeStrain * 100,
+            quantity,
+            value: strain * 100,
             unit: `% relative to ${c.reference}`,
             reference: null,
           }),
         );
-      if (d.inPlaneStrain !== null)
-        rows.push(
-          csvLine({
-            ...base,
-            isReference: true,
-            extremum: 'cell',
-            kind: 'structure',
-            quantity: 'in_plane_strain',
-            value: d.inPlaneStrain * 100,
-            unit: `% relative to ${c.reference}`,
-            reference: null,
-          }),
-        );
+      }
     }
     for (const col of c.columns) {
       const v: ValleyEntry | undefined = r.valleys[col.id];
