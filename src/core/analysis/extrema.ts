@@ -24,7 +24,7 @@
 import type { BandStructure, ExtremumKind } from '../model';
 import type { EdgeAnalysis, EdgeState } from './gap';
 import type { OccupationRule } from './occupation';
-import { kKeyNumber, type PathNetwork } from './pathRays';
+import { kIdentities, type PathNetwork } from './pathRays';
 import { TIE_EV } from './pathLocalExtrema';
 import { gridTable, type NeighbourFn } from './kNeighbours';
 import { climb, topRegion } from './plateauRegion';
@@ -112,24 +112,7 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
   if (!edges.vbm || !edges.cbm) return { sites, rejected };
   // Identity of each k modulo reciprocal lattice vectors, and the first index of each: the point a repeated k
   // is judged at.
-  let keys: Float64Array;
-  let firstOf: Int32Array;
-  if (inp.network) {
-    keys = inp.network.keyOf;
-    firstOf = inp.network.firstOf;
-  } else {
-    keys = new Float64Array(bs.nk);
-    firstOf = new Int32Array(bs.nk);
-    const first = new Map<number, number>();
-    const kp = bs.kpoints;
-    for (let i = 0; i < bs.nk; i++) {
-      const key = kKeyNumber(kp[3 * i]!, kp[3 * i + 1]!, kp[3 * i + 2]!);
-      keys[i] = key;
-      const f = first.get(key);
-      if (f === undefined) first.set(key, i);
-      firstOf[i] = f ?? i;
-    }
-  }
+  const { keyOf: keys, firstOf } = inp.network ?? kIdentities(bs);
   const precision = inp.precision_eV ?? 0;
   const mergeTol = Math.max(ROUNDING_STEPS_MERGED * precision, TIE_EV);
   const window = inp.window_eV ?? 0.025;

@@ -7,7 +7,7 @@ import { pieceExtrema, plateauMiddle } from '../../../src/core/analysis/pathLoca
 import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
 import { findLocalExtrema } from '../../../webview/bandView/localExtrema';
 import { HBAR2_OVER_ME_EV_A2 } from '../../../src/core/units';
-import { cubicLattice, lowestOf, parabolicBand, pathModel, type Dispersion, type PathLeg } from '../../support/models';
+import { cubicLattice, lowestOf, parabolicBand, pathModel, type PathLeg } from '../../support/models';
 
 const G: PathLeg = { label: 'Γ', k: [0, 0, 0] };
 const X: PathLeg = { label: 'X', k: [0.5, 0, 0] };
@@ -70,22 +70,20 @@ describe('one local-extremum rule along a path (pathLocalExtrema.ts)', () => {
   });
 
   it("the band view's snapping candidates include every valley the analysis reports, at the same k", () => {
-    // Conduction band: the lower of a parabolic valley at Γ (1.2 eV, m* = 0.3) and one at X (1.0 eV, m* = 0.8),
+    // Conduction band: the lower of a parabolic valley at Γ (1.0 eV, m* = 0.4) and one at M (1.15 eV, m* = 0.6),
     // written to 4 decimals (common practice for eigenvalue files); the valence band a free-hole parabola.
-    const a = 4;
-    const unit = (2 * Math.PI) / a;
-    const cb: Dispersion = lowestOf(parabolicBand(1.2, 0.3), parabolicBand(1.0, 0.8, [0.5 * unit, 0, 0]));
+    const atM: [number, number, number] = [Math.PI / 4, Math.PI / 4, 0]; // M = (π/a, π/a, 0), a = 4 Å
     const bs = pathModel({
-      lattice: cubicLattice(a),
-      bands: [parabolicBand(-1, -0.5), cb],
-      electrons: 2,
-      legs: [[M, G, X, M]],
+      legs: [[X, G, M, X]],
+      bands: [lowestOf(parabolicBand(1.0, 0.4), parabolicBand(1.15, 0.6, atM)), parabolicBand(-1, -0.5)],
+      lattice: cubicLattice(4),
       pointsPerSegment: 61,
+      electrons: 2,
       roundTo: 1e-4,
     });
     const r = analyzeBandStructure(bs);
     const minima = r.extrema.filter((x) => x.kind === 'cbm' || x.kind === 'valley');
-    assert.deepEqual(minima.map((x) => x.label).sort(), ['X', 'Γ']);
+    assert.deepEqual(minima.map((x) => x.label).sort(), ['M', 'Γ']);
     const labelled = new Set(bs.labels.map((l) => l.index));
     const snap = findLocalExtrema(bs.energies, bs.nBands, [{ i0: 0, i1: bs.nk }], (k) => labelled.has(k));
     for (const m of minima) {
