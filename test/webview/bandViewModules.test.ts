@@ -37,10 +37,11 @@ describe('band view modules', () => {
     ]);
   });
 
-  it('a flat run counts once, at its first point; unlabelled ends do not count', () => {
+  it('a flat run counts once, at its middle (the core rule, pathLocalExtrema.ts); unlabelled ends do not count', () => {
+    // The band view used to place a plateau at its first point; it now uses the analysis's rule (middle of the run).
     const e = Float64Array.from([3, 1, 1, 1, 2, 0]);
     const x = findLocalExtrema([e], 1, [{ i0: 0, i1: 6 }], () => false);
-    assert.deepEqual(Array.from(x.kIndex), [1, 4]);
+    assert.deepEqual(Array.from(x.kIndex), [2, 4]);
     assert.deepEqual(Array.from(x.sign), [-1, 1]);
   });
 

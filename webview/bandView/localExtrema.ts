@@ -2,10 +2,13 @@
  * Local minima and maxima of every band along the connected pieces of a path, for snapping a click or an
  * arrow key to the nearest extremum. Pure; presentation only (the fit itself is done by the core, in the host).
  *
- * A point is a local minimum when it is no higher than both neighbours and strictly lower than at least one
- * (plateaus count once, at their first point); likewise for maxima. The ends of a piece count when they
- * carry a high-symmetry label (where bands are flat by symmetry) and are lower/higher than their neighbour.
+ * What counts as a local extremum (tie tolerance, plateaus, where a plateau stands) is the core's rule,
+ * src/core/analysis/pathLocalExtrema.ts, the same one the analysis scans candidates with. The band view adds
+ * one choice of its own: an extremum at an end of a piece is offered only where the end carries a
+ * high-symmetry label (where bands are flat by symmetry); the analysis judges ends by the band's slope instead
+ * and lists those it rejects as set aside.
  */
+import { pieceExtrema } from '../../src/core/analysis/pathLocalExtrema';
 
 export interface Piece {
   /** First index and one past the last index of a connected run of k-points. */
@@ -29,48 +32,26 @@ export function findLocalExtrema(
   nBands: number,
   pieces: Piece[],
   labelled: (k: number) => boolean,
+  timeReversalInvariant?: (k: number) => boolean,
 ): ExtremaSet {
   const spin: number[] = [];
   const band0: number[] = [];
   const kIndex: number[] = [];
   const energy: number[] = [];
   const sign: number[] = [];
-  const push = (s: number, b: number, k: number, e: number, sg: number): void => {
-    spin.push(s);
-    band0.push(b);
-    kIndex.push(k);
-    energy.push(e);
-    sign.push(sg);
-  };
   for (let s = 0; s < energies.length; s++) {
     const E = energies[s]!;
     for (const p of pieces) {
-      const n = p.i1 - p.i0;
-      if (n < 2) continue;
       for (let b = 0; b < nBands; b++) {
         const at = (i: number): number => E[i * nBands + b]!;
-        // Ends of the piece.
-        if (labelled(p.i0)) {
-          const d = at(p.i0 + 1) - at(p.i0);
-          if (d > 0) push(s, b, p.i0, at(p.i0), -1);
-          else if (d < 0) push(s, b, p.i0, at(p.i0), 1);
-        }
-        // Interior, with plateaus: walk runs of equal values.
-        let i = p.i0 + 1;
-        while (i < p.i1 - 1) {
-          const v = at(i);
-          let j = i;
-          while (j + 1 < p.i1 - 1 && at(j + 1) === v) j++;
-          const left = at(i - 1);
-          const right = at(j + 1);
-          if (v <= left && v <= right && (v < left || v < right)) push(s, b, i, v, -1);
-          else if (v >= left && v >= right && (v > left || v > right)) push(s, b, i, v, 1);
-          i = j + 1;
-        }
-        if (labelled(p.i1 - 1)) {
-          const d = at(p.i1 - 2) - at(p.i1 - 1);
-          if (d > 0) push(s, b, p.i1 - 1, at(p.i1 - 1), -1);
-          else if (d < 0) push(s, b, p.i1 - 1, at(p.i1 - 1), 1);
+        for (const x of pieceExtrema(at, p.i0, p.i1, timeReversalInvariant)) {
+          // An end of a piece is offered only at a labelled point.
+          if ((x.k === p.i0 || x.k === p.i1 - 1) && !labelled(x.k)) continue;
+          spin.push(s);
+          band0.push(b);
+          kIndex.push(x.k);
+          energy.push(at(x.k));
+          sign.push(x.sign);
         }
       }
     }

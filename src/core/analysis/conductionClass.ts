@@ -8,10 +8,13 @@
  *   4. band order at the edges: the highest filled state at or above the lowest empty one.
  * A semimetal is a metal whose overlap is between two distinct bands, the lower with hole pockets and the upper
  * with electron pockets, the electron count filling a whole number of bands.
+ * Parts: bandFilling.ts (k weights, filling, the Fermi level a count fills), semimetal.ts (the semimetal test).
  * Pure: no I/O.
  */
 import type { BandStructure } from '../model';
 import type { OccupationRule } from './occupation';
+import { electronsPerBand, fillingFermiLevel, LEVEL_EV, occupationFractions, totalElectrons, wholeBandsPerChannel } from './bandFilling';
+import { semimetalVerdict } from './semimetal';
 
 /** Which evidence decided. */
 export type ClassEvidence = 'occupations' | 'fermi' | 'count' | 'edges' | 'none';
@@ -20,10 +23,6 @@ export type ClassEvidence = 'occupations' | 'fermi' | 'count' | 'edges' | 'none'
 export const TAIL_LIMIT = 0.05;
 /** A written Fermi energy this close to a band's extreme value counts as at the edge, not inside (eV). */
 export const FERMI_INSIDE_TOLERANCE_EV = 2e-3;
-/** Two bands closer than this at some k touch or cross: not "clearly distinct" (eV). */
-export const DISTINCT_BANDS_EV = 0.01;
-/** Energies within this of each other are one level (eV), as in gap.ts. */
-const LEVEL_EV = 1e-4;
 
 export interface ChannelVerdict {
   spin: 0 | 1;
@@ -68,135 +67,12 @@ function bandRanges(bs: BandStructure, spin: number): BandRange[] {
   return out;
 }
 
-/** Normalised k weights (equal when the file gives none, or none that sum to a positive number). */
-function kWeights(bs: BandStructure): Float64Array {
-  const w = new Float64Array(bs.nk);
-  let sum = 0;
-  if (bs.weights) for (let k = 0; k < bs.nk; k++) sum += Math.max(0, bs.weights[k]!);
-  for (let k = 0; k < bs.nk; k++) w[k] = sum > 0 ? Math.max(0, bs.weights![k]!) / sum : 1 / bs.nk;
-  return w;
-}
-
 /** "band 3" / "bands 3 and 4", numbered as the user sees them (from offset + 1, offset = the file's numbering). */
 const bandList = (bands: number[], offset: number): string => {
   const b = bands.map((x) => x + 1 + offset);
   return b.length === 1 ? `band ${b[0]}` : `bands ${b.slice(0, -1).join(', ')} and ${b[b.length - 1]}`;
 };
 const eV = (x: number): string => `${x.toFixed(4)} eV`;
-
-/** Electrons per band of one channel. */
-function electronsPerBand(bs: BandStructure, occ: OccupationRule | null): 1 | 2 {
-  return occ?.perBand ?? (bs.nSpin === 1 && !bs.spinorbit ? 2 : 1);
-}
-
-/**
- * The Fermi level that fills `electrons` into the sampled states (k weights normalised), by bisection on the
- * counting function: an estimate, exact only as the sampling becomes dense.
- */
-export function fillingFermiLevel(bs: BandStructure, electrons: number, perBand: 1 | 2): number | null {
-  if (!(electrons > 0) || bs.nk === 0) return null;
-  const w = kWeights(bs);
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (const e of bs.energies)
-    for (let i = 0; i < e.length; i++) {
-      if (e[i]! < lo) lo = e[i]!;
-      if (e[i]! > hi) hi = e[i]!;
-    }
-  const count = (ef: number): number => {
-    let n = 0;
-    for (const e of bs.energies)
-      for (let k = 0; k < bs.nk; k++) for (let b = 0; b < bs.nBands; b++) if (e[k * bs.nBands + b]! <= ef) n += w[k]! * perBand;
-    return n;
-  };
-  if (count(hi) < electrons - 1e-9) return null;
-  // Smallest level holding the electrons, then the midpoint to the next state above it.
-  for (let it = 0; it < 80; it++) {
-    const mid = 0.5 * (lo + hi);
-    if (count(mid) >= electrons - 1e-9) hi = mid;
-    else lo = mid;
-  }
-  let next = Infinity;
-  for (const e of bs.energies) for (let i = 0; i < e.length; i++) if (e[i]! > hi + LEVEL_EV && e[i]! < next) next = e[i]!;
-  return Number.isFinite(next) ? 0.5 * (hi + next) : hi;
-}
-
-/** Whole bands per channel the electrons fill, when they fill a whole number; null otherwise. */
-function wholeBandsPerChannel(bs: BandStructure, occ: OccupationRule | null, spin: number, fractions: Float64Array | null): number | null {
-  const perBand = electronsPerBand(bs, occ);
-  if (bs.nSpin === 1 && bs.electrons !== null) {
-    const slots = bs.electrons / perBand;
-    return Math.abs(slots - Math.round(slots)) < 1e-6 ? Math.round(slots) : null;
-  }
-  // Spin-polarised (or no count): the channel's own filling, from its occupations (k-weighted mean).
-  if (!fractions) return null;
-  const w = kWeights(bs);
-  let n = 0;
-  for (let k = 0; k < bs.nk; k++) for (let b = 0; b < bs.nBands; b++) n += w[k]! * fractions[k * bs.nBands + b]!;
-  void spin;
-  return Math.abs(n - Math.round(n)) < 0.05 ? Math.round(n) : null;
-}
-
-/**
- * Semimetal test for one channel of a metal: exactly bands n−1 and n cross (n whole bands filled), band n−1
- * dips above E_F (hole pockets), band n below (electron pockets), and the two never touch.
- */
-function semimetalVerdict(
-  bs: BandStructure,
-  spin: number,
-  crossing: number[],
-  nFilled: number | null,
-): { semimetal: boolean | null; detail: string } {
-  const offset = bs.bandNumberOffset ?? 0;
-  // Two adjacent bands must cross; whether they hold whole bands' worth of electrons needs the count.
-  if (crossing.length !== 2 || crossing[1] !== crossing[0]! + 1) return { semimetal: false, detail: '' };
-  if (nFilled === null) {
-    return {
-      semimetal: null,
-      detail: ` Bands ${crossing[0]! + 1 + offset} and ${crossing[1] + 1 + offset} both cross the Fermi level; without the electron count, whether this is a semimetal (whole bands filled, electron and hole pockets) cannot be told.`,
-    };
-  }
-  const lower = nFilled - 1;
-  const upper = nFilled;
-  if (crossing[0] !== lower || upper >= bs.nBands || lower < 0) return { semimetal: false, detail: '' };
-  const e = bs.energies[spin]!;
-  const nb = bs.nBands;
-  let closest = Infinity;
-  let lowerMax = -Infinity;
-  let upperMin = Infinity;
-  for (let k = 0; k < bs.nk; k++) {
-    const a = e[k * nb + lower]!;
-    const c = e[k * nb + upper]!;
-    closest = Math.min(closest, c - a);
-    lowerMax = Math.max(lowerMax, a);
-    upperMin = Math.min(upperMin, c);
-  }
-  if (closest < DISTINCT_BANDS_EV) {
-    return {
-      semimetal: false,
-      detail: ` Bands ${lower + 1 + offset} and ${upper + 1 + offset} touch or cross (${(closest * 1000).toFixed(1)} meV apart at closest), so the overlap is not between distinct bands.`,
-    };
-  }
-  return {
-    semimetal: true,
-    detail: ` Semimetal: band ${lower + 1 + offset} has hole pockets and band ${upper + 1 + offset} electron pockets; they overlap by ${eV(lowerMax - upperMin)} (a negative indirect gap of ${eV(upperMin - lowerMax)}).`,
-  };
-}
-
-/** Occupation fractions (0..1 of a full state) per channel, as the file writes them. */
-function occupationFractions(bs: BandStructure): Float64Array[] {
-  let maxOcc = 0;
-  for (const o of bs.occupations!) for (let i = 0; i < o.length; i++) if (o[i]! > maxOcc) maxOcc = o[i]!;
-  // Files write fractions (0..1, Methfessel-Paxton slightly beyond) or electrons (0..2).
-  const full = maxOcc > 1.5 ? 2 : 1;
-  // A plain loop: TypedArray.from with a mapping function goes through a JS list of every value on the way
-  // (tens of MB of heap on a large run).
-  return bs.occupations!.map((o) => {
-    const f = new Float64Array(o.length);
-    for (let i = 0; i < o.length; i++) f[i] = o[i]! / full;
-    return f;
-  });
-}
 
 export function classifyConduction(bs: BandStructure, occ: OccupationRule | null): ConductionClass {
   const offset = bs.bandNumberOffset ?? 0;
@@ -370,7 +246,7 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
       continue;
     }
     if (v.crossing.length === 0 && fermi !== null) v.crossing = crossingAt(v.spin, fermi);
-    const n = wholeBandsPerChannel(bs, occ, v.spin, fractions ? fractions[v.spin]! : null);
+    const n = wholeBandsPerChannel(bs, occ, fractions ? fractions[v.spin]! : null);
     const sm = semimetalVerdict(bs, v.spin, v.crossing, n);
     if (v.semimetal === null || v.semimetal === undefined) v.semimetal = sm.semimetal;
     v.reason += sm.detail;
@@ -430,12 +306,4 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
     spins: per,
     warnings,
   };
-}
-
-function totalElectrons(bs: BandStructure, fractions: Float64Array[], perBand: 1 | 2): number {
-  const w = kWeights(bs);
-  let n = 0;
-  for (const f of fractions)
-    for (let k = 0; k < bs.nk; k++) for (let b = 0; b < bs.nBands; b++) n += w[k]! * perBand * f[k * bs.nBands + b]!;
-  return n;
 }

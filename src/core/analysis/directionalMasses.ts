@@ -8,7 +8,7 @@ import { followBranches } from './bandBranches';
 import { fitCurvature, type CurvatureFit, type LineSamples } from './fits/index';
 import { spreadAgainstParabola } from './fits/methodSpread';
 import { oppositeRay, type Ray } from './pathRays';
-import { timeReversalInvariantK } from './extrema';
+import { timeReversalInvariantK } from './candidateChecks';
 
 export interface DirectionalSettings {
   method: string;

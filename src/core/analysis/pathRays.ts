@@ -79,23 +79,34 @@ export function fractionalText(k: Vec3): string {
  */
 export type RayExtent = (kIndex: number, m: number) => boolean;
 
-export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeometry(bs)): PathNetwork {
-  // Visits of the same point: firstOf[i] is the first visit, nextVisit[i] the following one (−1: none).
+/**
+ * The identity of each k-point modulo reciprocal lattice vectors (keyOf) and the first index with the same
+ * identity (firstOf): the point a repeated k is judged at.
+ */
+export function kIdentities(bs: BandStructure): { keyOf: Float64Array; firstOf: Int32Array } {
   const keyOf = new Float64Array(bs.nk);
   const firstOf = new Int32Array(bs.nk);
-  const nextVisit = new Int32Array(bs.nk).fill(-1);
-  const lastVisit = new Map<number, number>();
+  const first = new Map<number, number>();
   const kp = bs.kpoints;
   for (let i = 0; i < bs.nk; i++) {
     const key = kKeyNumber(kp[3 * i]!, kp[3 * i + 1]!, kp[3 * i + 2]!);
     keyOf[i] = key;
-    const prev = lastVisit.get(key);
-    if (prev === undefined) firstOf[i] = i;
-    else {
-      firstOf[i] = firstOf[prev]!;
-      nextVisit[prev] = i;
-    }
-    lastVisit.set(key, i);
+    const f = first.get(key);
+    if (f === undefined) first.set(key, i);
+    firstOf[i] = f ?? i;
+  }
+  return { keyOf, firstOf };
+}
+
+export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeometry(bs)): PathNetwork {
+  // Visits of the same point: firstOf[i] is the first visit, nextVisit[i] the following one (−1: none).
+  const { keyOf, firstOf } = kIdentities(bs);
+  const nextVisit = new Int32Array(bs.nk).fill(-1);
+  const lastVisit = new Int32Array(bs.nk).fill(-1);
+  for (let i = 0; i < bs.nk; i++) {
+    const f = firstOf[i]!;
+    if (f !== i) nextVisit[lastVisit[f]!] = i;
+    lastVisit[f] = i;
   }
   const visitsOf = (index: number): number[] => {
     const out: number[] = [];

@@ -1,9 +1,6 @@
 /**
- * Reading a tensor run back (the points tensor-kpoints plans: lattice/tensorKpoints.ts). The written points
- * are expanded by the little group of the centre (with time reversal), the two shells recognised, and along
- * every line through the centre the second derivative taken as the Richardson combination of the central
- * differences at h and 2h:  E'' ≈ [−E(2h) + 16E(h) − 30E(0) + 16E(−h) − E(−2h)] / (12h²)  (central-4,
- * error O(h⁴); the 5-point formula of any numerical-analysis text, e.g. Abramowitz & Stegun 25.3.24).
+ * Masses from a tensor run (read by tensorRunRead.ts: two shells h and 2h around the centre, and along every
+ * line through it the central-4 second derivative, error O(h⁴)); a grid around a degenerate edge: gridWarping.ts.
  *
  * One band at the centre: the six tensor components by least squares over the lines (uᵀHu = E''(u)).
  * Several bands (a degenerate edge): each branch (bands sorted by energy at each point) along each line,
@@ -11,26 +8,18 @@
  * branch's density-of-states mass by angular integration of the form that fits the bands (three bands: the
  * L, M, N form; two or four: the warped form), else from the 26 directions of the lines.
  */
-import type { BandStructure, Mat3, MassFit, MassTensor, Vec3, WarpingFitReport } from '../model';
+import type { BandStructure, Mat3, MassFit, Vec3 } from '../model';
 import { kpointAt } from '../model';
 import { HBAR2_OVER_ME_EV_A2 } from '../units';
 import type { CrystalSymmetry } from '../lattice/symmetry';
-import { cartesianDisplacement, displacementOperations, tensorRunDirections } from '../lattice/tensorKpoints';
+import { displacementOperations } from '../lattice/tensorKpoints';
 import { cartesianOperation } from './symmetryTensor';
 import { leastSquares } from './fits/leastSquares';
 import { principalMasses } from './tensorFit';
 import { multiBandDosMass } from './averagedMasses';
-import {
-  cubicAnisotropy,
-  cubicAxesAreCartesian,
-  fitWarpedBands,
-  threefoldDosMasses,
-  threefoldFromDirections,
-  heavyLightMasses,
-  warpedDosMass,
-  WARPING_UNIT,
-  type WarpedFit,
-} from './warpedBands';
+import { looksLikeReducedRun, readTensorRun, type TensorRunLine } from './tensorRunRead';
+import { quotable, warpedFromPoints, warpingNote, warpingReport, type OffPathMasses, type WarpingReport } from './gridWarping';
+import { cubicAxesAreCartesian, threefoldDosMasses, threefoldFromDirections } from './warpedBands';
 
 /** Method id of the two-shell line derivative (the 5-point central difference). */
 export const TWO_SHELL_METHOD = 'central-4';
@@ -41,223 +30,6 @@ export const TWO_SHELL_METHOD = 'central-4';
  * point, memory; the tests check the exactness on monomials).
  */
 export const SPHERE_26_WEIGHTS = { axial: 1 / 21, face: 4 / 105, body: 9 / 280 };
-
-interface Point {
-  d: Vec3;
-  /** Energies of the group's bands, sorted descending. */
-  e: Float64Array;
-}
-
-export interface TensorRunLine {
-  u: Vec3;
-  kind: 'axial' | 'face' | 'body';
-  /** Per branch (sorted as the points): central-2 at h and 2h, and central-4, eV·Å². */
-  c2h: Float64Array;
-  c22h: Float64Array;
-  c4: Float64Array;
-  /** Energy span of the five points per branch, meV. */
-  span_meV: Float64Array;
-}
-
-export interface TensorRunData {
-  step: number;
-  lines: TensorRunLine[];
-  /** Every point after expansion (centre included). */
-  points: Point[];
-  written: number;
-}
-
-/** Points nearest the centre that are expanded and searched for shells (a plan writes at most 53). */
-const NEAREST_POINTS = 400;
-
-/** Matching tolerance for displacements, Å⁻¹: files write k with 7 significant digits or more (≈ 2e-7 Å⁻¹). */
-const MATCH_TOL = 2e-5;
-
-/** Points in a spatial hash with cells of MATCH_TOL: lookup within the tolerance in O(1). */
-class PointSet {
-  private readonly cells = new Map<string, Point[]>();
-  readonly all: Point[] = [];
-  private cell(d: Vec3, o: Vec3 = [0, 0, 0]): string {
-    return d.map((x, i) => Math.floor(x / MATCH_TOL) + o[i]!).join(',');
-  }
-  find(d: Vec3): Point | undefined {
-    for (let a = -1; a <= 1; a++)
-      for (let b = -1; b <= 1; b++)
-        for (let c = -1; c <= 1; c++) {
-          for (const p of this.cells.get(this.cell(d, [a, b, c])) ?? []) {
-            if (Math.abs(p.d[0] - d[0]) < MATCH_TOL && Math.abs(p.d[1] - d[1]) < MATCH_TOL && Math.abs(p.d[2] - d[2]) < MATCH_TOL) return p;
-          }
-        }
-    return undefined;
-  }
-  add(p: Point): boolean {
-    if (this.find(p.d)) return false;
-    const k = this.cell(p.d);
-    const list = this.cells.get(k);
-    if (list) list.push(p);
-    else this.cells.set(k, [p]);
-    this.all.push(p);
-    return true;
-  }
-}
-
-/**
- * The expanded points and lines of a tensor run centred at k index `center`, or null when the k-points are
- * not one (no common h with both shells complete along the axes and face diagonals).
- */
-export function readTensorRun(
-  bs: BandStructure,
-  spin: number,
-  group: number[],
-  center: number,
-  sym: CrystalSymmetry | null,
-): TensorRunData | null {
-  if (!bs.lattice || bs.nk < 2) return null;
-  const lattice = bs.lattice;
-  const k0 = kpointAt(bs, center);
-  const fracOps = sym ? displacementOperations(sym.reciprocalPointGroup, k0, 2e-5) : [];
-  const ops = fracOps.map((o) => ({ r: cartesianOperation(o.r, lattice), sign: o.sign }));
-  const en = bs.energies[spin]!;
-  const nb = bs.nBands;
-  const set = new PointSet();
-  const g = group.length;
-  // Only the points nearest the centre can belong to its shells (a hybrid run's mesh, or a large grid, lies
-  // farther out): expanding the nearest few hundred keeps the cost independent of the size of the file.
-  const near: { j: number; d: Vec3; r: number }[] = [];
-  for (let j = 0; j < bs.nk; j++) {
-    const d = cartesianDisplacement(kpointAt(bs, j), k0, lattice);
-    near.push({ j, d, r: Math.hypot(...d) });
-  }
-  near.sort((x, y) => x.r - y.r);
-  for (const { j, d } of near.slice(0, NEAREST_POINTS)) {
-    const e = Float64Array.from(group.map((b) => en[j * nb + b]!))
-      .sort()
-      .reverse();
-    const images: Vec3[] = [d];
-    for (const op of ops) {
-      const r = op.r;
-      images.push([0, 1, 2].map((i) => op.sign * (r[i]![0] * d[0] + r[i]![1] * d[1] + r[i]![2] * d[2])) as Vec3);
-    }
-    for (const v of images) set.add({ d: v, e });
-  }
-  const at = (u: Vec3, t: number): Point | undefined => set.find([u[0] * t, u[1] * t, u[2] * t]);
-  const origin = set.find([0, 0, 0]);
-  if (!origin) return null;
-  const radii = [
-    ...new Set(
-      set.all
-        .map((p) => Math.hypot(...p.d))
-        .filter((r) => r > 1e-9)
-        .map((r) => Number(r.toPrecision(5))),
-    ),
-  ].sort((a, b) => a - b);
-  const base = tensorRunDirections(false);
-  const body = tensorRunDirections(true).filter((u) => u.every((x) => x !== 0));
-  for (let h of radii.slice(0, 40)) {
-    if (!base.every((u) => at(u, h) && at(u, 2 * h))) continue;
-    const hasBody = body.every((u) => at(u, h) && at(u, 2 * h));
-    // The shell distance as written (mean over the six axial points), not the rounded candidate.
-    h = base.filter((u) => u.filter((x) => x !== 0).length === 1).reduce((acc, u) => acc + Math.hypot(...at(u, h)!.d), 0) / 6;
-    const lines: TensorRunLine[] = [];
-    const all = hasBody ? [...base, ...body] : base;
-    for (const u of all) {
-      // One line per ± pair: keep the direction whose first non-zero component is positive.
-      const first = u.find((x) => x !== 0)!;
-      if (first < 0) continue;
-      const m: Vec3 = [-u[0], -u[1], -u[2]];
-      const p = [at(m, 2 * h)!, at(m, h)!, origin, at(u, h)!, at(u, 2 * h)!];
-      const c2h = new Float64Array(g);
-      const c22h = new Float64Array(g);
-      const c4 = new Float64Array(g);
-      const span = new Float64Array(g);
-      for (let b = 0; b < g; b++) {
-        const E = p.map((x) => x.e[b]!);
-        c2h[b] = (E[3]! + E[1]! - 2 * E[2]!) / (h * h);
-        c22h[b] = (E[4]! + E[0]! - 2 * E[2]!) / (4 * h * h);
-        c4[b] = (-E[4]! + 16 * E[3]! - 30 * E[2]! + 16 * E[1]! - E[0]!) / (12 * h * h);
-        span[b] = (Math.max(...E) - Math.min(...E)) * 1000;
-      }
-      const nz = u.filter((x) => x !== 0).length;
-      lines.push({ u, kind: nz === 1 ? 'axial' : nz === 2 ? 'face' : 'body', c2h, c22h, c4, span_meV: span });
-    }
-    // Points of the file on the centre or the two shells (a hybrid run's mesh points are not counted).
-    const hh = h;
-    const written = near.filter((p) => p.r < 1e-9 || Math.abs(p.r - hh) < 1e-3 * hh || Math.abs(p.r - 2 * hh) < 2e-3 * hh).length;
-    return { step: h, lines, points: set.all.filter((p) => Math.hypot(...p.d) < 2.01 * hh), written };
-  }
-  return null;
-}
-
-/** Points nearest the centre at two distances r and 2r only (at least two at each), and nothing closer. */
-function looksLikeReducedRun(bs: BandStructure, center: number): boolean {
-  const k0 = kpointAt(bs, center);
-  const r: number[] = [];
-  for (let j = 0; j < bs.nk; j++) if (j !== center) r.push(Math.hypot(...cartesianDisplacement(kpointAt(bs, j), k0, bs.lattice!)));
-  r.sort((a, b) => a - b);
-  if (r.length < 4 || !(r[0]! > 0)) return false;
-  const h = r[0]!;
-  const at = (t: number): number => r.filter((x) => Math.abs(x - t) < 1e-3 * h).length;
-  return at(h) >= 2 && at(2 * h) >= 2 && at(h) + at(2 * h) === r.filter((x) => x < 2.5 * h).length;
-}
-
-export type WarpingReport = WarpingFitReport;
-
-export interface OffPathMasses {
-  masses: MassFit[];
-  tensor: MassTensor | null;
-  warping: WarpingReport | null;
-  dosMass: number | null;
-  warnings: string[];
-}
-
-function warpingReport(f: WarpedFit): WarpingReport {
-  const hl = heavyLightMasses(f);
-  return {
-    A: f.A,
-    B: f.B,
-    C: f.C,
-    unit: WARPING_UNIT,
-    stderr: f.stderr,
-    points: f.points,
-    residual_meV: f.residual_meV,
-    heavy: { ...hl.heavy, dos: warpedDosMass(f, hl.heavyBranch) },
-    light: { ...hl.light, dos: warpedDosMass(f, hl.heavyBranch === 1 ? -1 : 1) },
-  };
-}
-
-/** Warped fit from points with two or more branches (sorted descending): the outer branches, or the pairs of four. */
-export function warpedFromPoints(
-  points: { d: Vec3; e: Float64Array }[],
-  g: number,
-  higherOrder: boolean,
-  energySigma: number,
-): WarpedFit | null {
-  const n = points.length;
-  const d = new Float64Array(3 * n);
-  const upper = new Float64Array(n);
-  const lower = new Float64Array(n);
-  points.forEach((p, i) => {
-    d.set(p.d, 3 * i);
-    if (g === 4) {
-      upper[i] = (p.e[0]! + p.e[1]!) / 2;
-      lower[i] = (p.e[2]! + p.e[3]!) / 2;
-    } else {
-      upper[i] = p.e[0]!;
-      lower[i] = p.e[g - 1]!;
-    }
-  });
-  return fitWarpedBands({ d, upper, lower }, higherOrder, energySigma);
-}
-
-/**
- * A mass with the `determined` flag the report carries (false when its standard error exceeds 30 % of |m|, or
- * for the reason given). Typed as an intersection so it reads the same whether or not MassFit declares it yet.
- */
-function quotable(m: Omit<MassFit, 'determined'>, reason: string | null): MassFit {
-  const why =
-    reason ?? (m.stderr > 0.3 * Math.abs(m.mass) ? `standard error ${m.stderr.toPrecision(2)} m_e is more than 30 % of |m|` : null);
-  return why ? { ...m, determined: false, undeterminedReason: why } : { ...m, determined: true };
-}
 
 const dirText = (u: Vec3): string => {
   const m = Math.min(...u.filter((x) => x !== 0).map(Math.abs));
@@ -456,95 +228,4 @@ export function tensorRunMasses(
     );
   }
   return { masses, tensor: null, warping, dosMass, warnings };
-}
-
-export function warpingNote(w: WarpingReport, g: number, from: string): string {
-  const f = (x: number): string => x.toPrecision(3);
-  const three =
-    g === 3
-      ? ' Three bands without spin-orbit: the two-branch form describes the upper and lower branch only, so read its residual before quoting A, B, C.'
-      : '';
-  return `Warped-band fit (Dresselhaus, Kip & Kittel form) to ${from}: A = ${f(w.A)} ± ${f(w.stderr.A)}, |B| = ${f(w.B)} ± ${f(w.stderr.B)}, |C| = ${f(w.C)} ± ${f(w.stderr.C)} (units ħ²/2m_e), residual ${w.residual_meV.toFixed(2)} meV; heavy ${f(w.heavy.m100)}, ${f(w.heavy.m110)}, ${f(w.heavy.m111)} and light ${f(w.light.m100)}, ${f(w.light.m110)}, ${f(w.light.m111)} m_e along [100], [110], [111]; branch DOS masses ${w.heavy.dos === null ? 'undetermined' : f(w.heavy.dos)} (heavy) and ${w.light.dos === null ? 'undetermined' : f(w.light.dos)} (light) m_e by angular integration of the fitted form.${three}`;
-}
-
-/**
- * A grid around a degenerate extremum (not a tensor run): the warped-band fit from the nearest points, and
- * the branch masses along [100], [110], [111] from it. Null when it does not apply.
- */
-export function gridWarpedMasses(
-  bs: BandStructure,
-  spin: number,
-  group: number[],
-  center: number,
-  sym: CrystalSymmetry | null,
-  energySigma: number,
-): OffPathMasses | null {
-  const g = group.length;
-  if (!bs.lattice || !sym || g < 2 || g > 4) return null;
-  const cartOps = displacementOperations(sym.reciprocalPointGroup, kpointAt(bs, center), 2e-5).map((o) =>
-    cartesianOperation(o.r, bs.lattice!),
-  );
-  if (!cubicAxesAreCartesian(cartOps)) return null;
-  const en = bs.energies[spin]!;
-  const nb = bs.nBands;
-  const k0 = kpointAt(bs, center);
-  const pts = [];
-  for (let j = 0; j < bs.nk; j++) {
-    const d = cartesianDisplacement(kpointAt(bs, j), k0, bs.lattice);
-    pts.push({
-      d,
-      r: Math.hypot(...d),
-      e: Float64Array.from(group.map((b) => en[j * nb + b]!))
-        .sort()
-        .reverse(),
-    });
-  }
-  pts.sort((a, b) => a.r - b.r);
-  // The centre and the nearest shells: up to 57 points (centre + 6 + 12 + 8 + 6 + 24 on a cubic grid).
-  const use = pts.slice(0, Math.min(57, pts.length));
-  const f = warpedFromPoints(use, g, false, energySigma);
-  if (!f) return null;
-  const w = warpingReport(f);
-  const masses: MassFit[] = [];
-  const dirs: [string, Vec3, keyof WarpingReport['heavy']][] = [
-    ['[100]', [1, 0, 0], 'm100'],
-    ['[110]', [Math.SQRT1_2, Math.SQRT1_2, 0], 'm110'],
-    ['[111]', [1 / Math.sqrt(3), 1 / Math.sqrt(3), 1 / Math.sqrt(3)], 'm111'],
-  ];
-  const span = Math.max(...use.map((p) => Math.abs(p.e[0]! - use[0]!.e[0]!))) * 1000;
-  for (const [bi, which] of [
-    [1, 'heavy'],
-    [2, 'light'],
-  ] as const) {
-    for (const [name, u, m] of dirs) {
-      const mass = w[which][m] as number;
-      // δ(1/m)² = δA² + δs², s = √(B² + C² f): δs = √((B δB)² + (C f δC)²) / s; δm = m² δ(1/m).
-      const fu = cubicAnisotropy(u);
-      const sq = Math.sqrt(w.B * w.B + w.C * w.C * fu);
-      const ds = sq > 0 ? Math.hypot(w.B * w.stderr.B, w.C * fu * w.stderr.C) / sq : Math.hypot(w.stderr.B, w.stderr.C);
-      const stderr = mass * mass * Math.hypot(w.stderr.A, ds);
-      masses.push(
-        quotable(
-          {
-            towards: name,
-            direction: u,
-            mass,
-            stderr,
-            points: use.length,
-            window_meV: span,
-            method: 'warped-band fit',
-            residual_meV: w.residual_meV,
-            branch: bi,
-          },
-          null,
-        ),
-      );
-    }
-  }
-  const warnings = [...f.warnings, warningsForGrid(g), warpingNote(w, g, `the ${use.length} grid points nearest the extremum`)];
-  return { masses, tensor: null, warping: w, dosMass: null, warnings };
-}
-
-function warningsForGrid(g: number): string {
-  return `Branch masses on this grid come from the warped-band fit (${g === 3 ? 'upper and lower of the three branches' : 'both branches'}); their errors follow from the fit's residual, not from a per-direction fit.`;
 }

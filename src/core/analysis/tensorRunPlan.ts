@@ -8,7 +8,8 @@ import { HBAR2_OVER_ME_EV_A2 } from '../units';
 import { cartesianToFractional } from '../lattice/reciprocal';
 import { displacementOperations, planTensorRun, stepForEnergy, type TensorRunPlan } from '../lattice/tensorKpoints';
 import { leastSquares } from './fits/leastSquares';
-import { engineContext } from './massEngine';
+import { engineContext } from './engineContext';
+import { kIndexOf } from './kIndex';
 import { oppositeRay } from './pathRays';
 
 /** Default energy the band moves at the first shell, eV. */
@@ -20,18 +21,6 @@ export interface RefinedCentre {
   /** Cartesian shift from the sampled point, Å⁻¹. */
   shift: number;
   how: string;
-}
-
-function kIndexOf(bs: BandStructure, k: Vec3): number | null {
-  for (let i = 0; i < bs.nk; i++) {
-    if (
-      Math.abs(bs.kpoints[3 * i]! - k[0]) < 1e-7 &&
-      Math.abs(bs.kpoints[3 * i + 1]! - k[1]) < 1e-7 &&
-      Math.abs(bs.kpoints[3 * i + 2]! - k[2]) < 1e-7
-    )
-      return i;
-  }
-  return null;
 }
 
 /**

@@ -14,13 +14,16 @@
  * - mass differences are on magnitudes, (|m| − |m_ref|)/|m_ref|, each labelled with its direction and branch;
  *   branch masses are paired only between edges of equal degeneracy, else "degeneracy changed".
  * When the lowest conduction valley (or highest valence peak) changes from one k to another, that is reported
- * as an edge moving between valleys, not as a change of mass.
+ * as an edge moving between valleys, not as a change of mass. Parts: valleyMatching.ts (when two extrema are
+ * the same valley), massComparison.ts (mass differences).
  */
 import type { ExtremumReport, Mat3, Report, Vec3 } from '../model';
 import { equivalenceDistance, kRotations } from './kEquivalence';
 import { structureDescriptors, type StructureDescriptors } from './structureDescriptors';
 import { formatK } from '../report/summaryText';
 import { pathPosition, type LabelledLine } from '../lattice/pathPosition';
+import { sameShape, sameValley, shareLatticeType, trackedExtrema, type Matcher } from './valleyMatching';
+import { compareMasses } from './massComparison';
 
 export interface RunInput {
   name: string;
@@ -122,11 +125,6 @@ export interface Comparison {
   events: ComparisonEvent[];
 }
 
-/** Tolerance (fractional, max-norm modulo G) within which a drifting extremum of the same crystal is one valley. */
-export const VALLEY_K_TOLERANCE = 0.06;
-/** Tolerance within which two k-points are the same point (written k, fitted vertices). */
-export const SAME_K_TOLERANCE = 2e-3;
-
 const sideOf = (e: ExtremumReport): Side => (e.kind === 'cbm' || e.kind === 'valley' ? 'conduction' : 'valence');
 
 /** A point as people name it: its label, its place on a labelled line ("0.85 Γ→X"), or its fractional k. */
@@ -136,117 +134,6 @@ function where(e: { label: string | null; k: Vec3 }, lines: LabelledLine[] | nul
 
 function sortForBranches(list: ExtremumReport[], side: Side): ExtremumReport[] {
   return [...list].sort((a, b) => (side === 'conduction' ? a.eV - b.eV : b.eV - a.eV));
-}
-
-function apply(m: Mat3, k: Vec3): Vec3 {
-  return [
-    m[0][0] * k[0] + m[0][1] * k[1] + m[0][2] * k[2],
-    m[1][0] * k[0] + m[1][1] * k[1] + m[1][2] * k[2],
-    m[2][0] * k[0] + m[2][1] * k[1] + m[2][2] * k[2],
-  ];
-}
-
-/** Order of the little group of k (operations with time reversal that map k to itself modulo G). */
-export function littleGroupOrder(k: Vec3, kRots: Mat3[] | null): number {
-  const ops =
-    kRots && kRots.length
-      ? kRots
-      : [
-          [
-            [1, 0, 0],
-            [0, 1, 0],
-            [0, 0, 1],
-          ] as Mat3,
-        ];
-  let n = 0;
-  for (const r of ops) {
-    const q = apply(r, k);
-    for (const s of [q, [-q[0], -q[1], -q[2]] as Vec3]) {
-      let same = true;
-      for (let i = 0; i < 3; i++) {
-        const d = s[i]! - k[i]!;
-        if (Math.abs(d - Math.round(d)) > SAME_K_TOLERANCE) same = false;
-      }
-      if (same) n++;
-    }
-  }
-  return n;
-}
-
-/** Lattices describe the same cell choice when their metrics are within 20 % (a strain series, not another cell). */
-function sameShape(a: Mat3, b: Mat3): boolean {
-  for (let i = 0; i < 3; i++) {
-    const la = Math.hypot(...a[i]!);
-    const lb = Math.hypot(...b[i]!);
-    if (Math.abs(la / lb - 1) > 0.2) return false;
-  }
-  return true;
-}
-
-/** Whether two runs share a lattice type, and why not when they do not. */
-export function shareLatticeType(a: RunInput, b: RunInput): { shared: boolean; why: string } {
-  if (a.latticeType && b.latticeType && a.latticeType === b.latticeType) return { shared: true, why: '' };
-  if (a.lattice && b.lattice) {
-    if (sameShape(a.lattice, b.lattice)) return { shared: true, why: '' };
-    return {
-      shared: false,
-      why: `its cell${a.latticeType && b.latticeType ? ` (${b.latticeType})` : ''} is not the reference's${a.latticeType && b.latticeType ? ` (${a.latticeType})` : ''}, strained or not`,
-    };
-  }
-  if (a.latticeType && b.latticeType)
-    return { shared: false, why: `its lattice type ${b.latticeType} differs from the reference's ${a.latticeType}` };
-  // Nothing known about one of them: k-points are compared as written (same point only).
-  return { shared: true, why: '' };
-}
-
-interface Matcher {
-  kRots: Mat3[] | null;
-  /** Drift of an off-symmetry valley allowed (the same crystal). */
-  drift: boolean;
-  shared: boolean;
-}
-
-function sameValley(m: Matcher, a: Vec3, b: Vec3): boolean {
-  if (!m.shared) return false;
-  const d = equivalenceDistance(a, b, m.kRots);
-  if (d < SAME_K_TOLERANCE) return true;
-  if (!m.drift || d >= VALLEY_K_TOLERANCE) return false;
-  // A drifting valley keeps its symmetry: the same little group, and never a high-symmetry point's.
-  const ga = littleGroupOrder(a, m.kRots);
-  return ga === littleGroupOrder(b, m.kRots) && ga < (m.kRots && m.kRots.length ? 2 * m.kRots.length : 2);
-}
-
-function massLabel(towards: string, branch: number | null): string {
-  return branch !== null ? `${towards} (branch ${branch})` : towards;
-}
-
-function compareMasses(
-  e: ExtremumReport,
-  r: ExtremumReport | undefined,
-  isReference: boolean,
-): { masses: MassChange[]; degeneracyChanged: boolean } {
-  const degeneracyChanged = !isReference && r !== undefined && r.degenerateBands !== e.degenerateBands;
-  const masses = e.masses.map((m): MassChange => {
-    const branch = m.branch ?? null;
-    const base = { towards: massLabel(m.towards, branch), direction: m.towards, branch, mass: m.mass };
-    if (isReference) return { ...base, referenceMass: null, relativeChange: null, status: 'reference' };
-    if (!r) return { ...base, referenceMass: null, relativeChange: null, status: 'no reference' };
-    if (degeneracyChanged) return { ...base, referenceMass: null, relativeChange: null, status: 'degeneracy changed' };
-    // Same direction and, at a degenerate edge, the same branch (heavy with heavy, light with light).
-    const rm = r.masses.find((x) => x.towards === m.towards && (x.branch ?? null) === branch);
-    if (!rm || !Number.isFinite(rm.mass) || rm.mass === 0 || !Number.isFinite(m.mass))
-      return { ...base, referenceMass: rm ? rm.mass : null, relativeChange: null, status: 'no reference' };
-    // A change is given only between masses that can be quoted (an undetermined one has no value to compare).
-    if (m.determined === false || rm.determined === false)
-      return { ...base, referenceMass: rm.mass, relativeChange: null, status: 'undetermined' };
-    return {
-      ...base,
-      referenceMass: rm.mass,
-      relativeChange: (Math.abs(m.mass) - Math.abs(rm.mass)) / Math.abs(rm.mass),
-      status: 'compared',
-    };
-  });
-  return { masses, degeneracyChanged };
 }
 
 export function compareRuns(runs: RunInput[], referenceName?: string): Comparison {
@@ -428,21 +315,4 @@ export function compareRuns(runs: RunInput[], referenceName?: string): Compariso
     return out;
   });
   return { reference: ref.name, columns, runs: compared, events };
-}
-
-/**
- * The extrema a comparison follows: never a candidate the analysis set aside (a saddle, a crossing, a path
- * end), even when a report lists it among its extrema too (reports built from older annotations files).
- */
-function trackedExtrema(report: Report, rots: ReturnType<typeof kRotations> | null): ExtremumReport[] {
-  const rejected = report.rejected ?? [];
-  if (!rejected.length) return report.extrema;
-  return report.extrema.filter(
-    (e) =>
-      e.kind === 'vbm' ||
-      e.kind === 'cbm' ||
-      !rejected.some(
-        (x) => x.spin === e.spin && (x.band === e.band || Math.abs(x.eV - e.eV) <= 1e-3) && equivalenceDistance(x.k, e.k, rots) < 1e-4,
-      ),
-  );
 }

@@ -5,11 +5,14 @@
  * Mass differences are on magnitudes, (|m| − |m_ref|)/|m_ref| (positive: the carrier got heavier, electron
  * or hole), each on its own row with its direction and branch. Strain is relative to the reference run, and
  * says so. Energies of extrema are shown against the energy zero of each run (default its VBM).
+ * Parts: comparisonCsv.ts (the CSV), comparisonCells.ts (cells shared by every format).
  */
-import type { Comparison, ComparedRun, MassChange, ValleyColumn, ValleyEntry } from './compareRuns';
+import type { Comparison, ComparedRun, MassChange } from './compareRuns';
 import { fmt } from '../report/summaryText';
 import type { EnergyZero } from '../report/energyZero';
 import { energyZeroName } from '../report/energyZero';
+import { num, pct, signed, valleyName, zeroOf } from './comparisonCells';
+import { comparisonCsv } from './comparisonCsv';
 
 export type ComparisonFormat = 'table' | 'csv' | 'md' | 'json';
 
@@ -20,10 +23,6 @@ export interface ComparisonFormatOptions {
 
 /** Widest line of the text table. */
 export const TABLE_WIDTH = 120;
-
-const signed = (x: number | null, d: number): string => (x === null ? '' : `${x >= 0 ? '+' : ''}${fmt(x, d)}`);
-const num = (x: number | null | undefined, d: number): string => (x === null || x === undefined || !Number.isFinite(x) ? '' : fmt(x, d));
-const pct = (x: number | null | undefined, d: number): string => (x === null || x === undefined ? '' : signed(x * 100, d));
 
 interface Table {
   header: string[];
@@ -67,16 +66,6 @@ function summaryTable(c: Comparison, short: Map<string, string>): Table {
     return row;
   });
   return { header, rows };
-}
-
-function zeroOf(o: ComparisonFormatOptions, run: string): EnergyZero | null {
-  return o.zeros?.[run] ?? null;
-}
-
-/** A valley as shown: id and place, and its spin channel when any run is spin-polarised (never otherwise). */
-function valleyName(col: ValleyColumn, c: Comparison): string {
-  const spin = c.runs.some((r) => r.spinPolarised) ? ` ${col.spin === 1 ? 'down' : 'up'}` : '';
-  return `${col.id}${spin} ${col.where}`;
 }
 
 function valleyTable(c: Comparison, short: Map<string, string>, o: ComparisonFormatOptions): Table {
@@ -192,178 +181,6 @@ function markdown(t: Table): string {
   ].join('\n');
 }
 
-function csvCell(s: string): string {
-  return /[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
-/** The CSV columns, in this order (long form). */
-export const CSV_COLUMNS = [
-  'run',
-  'extremum',
-  'kind',
-  'quantity',
-  'direction',
-  'branch',
-  'value',
-  'unit',
-  'reference_value',
-  'difference',
-  'relative_difference',
-] as const;
-
-interface CsvRow {
-  run: string;
-  extremum: string;
-  kind: string;
-  quantity: string;
-  direction?: string;
-  branch?: number | null;
-  value: number | null;
-  unit: string;
-  reference: number | null;
-  /** Difference and relative difference taken on magnitudes (masses). */
-  magnitudes?: boolean;
-  isReference: boolean;
-}
-
-const g = (x: number | null, d = 6): string => (x === null || !Number.isFinite(x) ? '' : String(Number(x.toPrecision(d + 1))));
-
-function csvLine(r: CsvRow): string[] {
-  const a = r.magnitudes && r.value !== null ? Math.abs(r.value) : r.value;
-  const b = r.magnitudes && r.reference !== null ? Math.abs(r.reference) : r.reference;
-  const diff = !r.isReference && a !== null && b !== null ? a - b : null;
-  const rel = diff !== null && b !== null && b !== 0 ? diff / Math.abs(b) : null;
-  return [
-    r.run,
-    r.extremum,
-    r.kind,
-    r.quantity,
-    r.direction ?? '',
-    r.branch === null || r.branch === undefined ? '' : String(r.branch),
-    g(a),
-    r.unit,
-    r.isReference ? '' : g(b),
-    g(diff),
-    g(rel),
-  ];
-}
-
-function csv(c: Comparison, o: ComparisonFormatOptions): string {
-  const rows: string[][] = [[...CSV_COLUMNS]];
-  const ref = c.runs.find((r) => r.isReference) ?? null;
-  for (const r of c.runs) {
-    const base = { run: r.name, isReference: r.isReference };
-    rows.push(
-      csvLine({
-        ...base,
-        extremum: 'gap',
-        kind: r.metal ? 'metal' : r.direct === null ? '' : r.direct ? 'direct' : 'indirect',
-        quantity: 'gap',
-        value: r.metal ? 0 : r.gap_eV,
-        unit: 'eV',
-        reference: ref?.gap_eV ?? null,
-      }),
-    );
-    const d = r.descriptors;
-    if (d) {
-      const rd = ref?.descriptors ?? null;
-      rows.push(
-        csvLine({
-          ...base,
-          extremum: 'cell',
-          kind: 'structure',
-          quantity: 'volume',
-          value: d.volume,
-          unit: 'Å^3',
-          reference: rd?.volume ?? null,
-        }),
-      );
-      // Strains are themselves relative to the reference run: no second difference is taken.
-      if (d.volumeStrain !== null)
-        rows.push(
-          csvLine({
-            ...base,
-            isReference: true,
-            extremum: 'cell',
-            kind: 'structure',
-            quantity: 'volume_strain',
-            value: d.volumeStrain * 100,
-            unit: `% relative to ${c.reference}`,
-            reference: null,
-          }),
-        );
-      if (d.inPlaneStrain !== null)
-        rows.push(
-          csvLine({
-            ...base,
-            isReference: true,
-            extremum: 'cell',
-            kind: 'structure',
-            quantity: 'in_plane_strain',
-            value: d.inPlaneStrain * 100,
-            unit: `% relative to ${c.reference}`,
-            reference: null,
-          }),
-        );
-    }
-    for (const col of c.columns) {
-      const v: ValleyEntry | undefined = r.valleys[col.id];
-      if (!v) continue;
-      const rv = ref?.valleys[col.id];
-      const e = v.extremum;
-      const z = zeroOf(o, r.name);
-      const rz = ref ? zeroOf(o, ref.name) : null;
-      const x = { ...base, extremum: valleyName(col, c), kind: e.kind };
-      rows.push(
-        csvLine({
-          ...x,
-          quantity: 'energy',
-          value: e.eV - (z?.eV ?? 0),
-          unit: z ? `eV (zero: ${z.used})` : 'eV',
-          reference: rv ? rv.extremum.eV - (rz?.eV ?? 0) : null,
-        }),
-      );
-      rows.push(
-        csvLine({ ...x, quantity: 'offset_from_edge', value: v.offset_eV * 1000, unit: 'meV', reference: rv ? rv.offset_eV * 1000 : null }),
-      );
-      rows.push(
-        csvLine({
-          ...x,
-          quantity: 'valley_degeneracy',
-          value: e.valleyDegeneracy,
-          unit: '',
-          reference: rv?.extremum.valleyDegeneracy ?? null,
-        }),
-      );
-      for (const m of v.masses) {
-        rows.push(
-          csvLine({
-            ...x,
-            quantity: 'abs_mass',
-            direction: m.direction,
-            branch: m.branch,
-            value: m.mass,
-            unit: 'm_e',
-            reference: m.status === 'compared' ? m.referenceMass : null,
-            magnitudes: true,
-          }),
-        );
-      }
-      rows.push(csvLine({ ...x, quantity: 'dos_mass', value: e.dosMass, unit: 'm_e', reference: rv?.extremum.dosMass ?? null }));
-      rows.push(
-        csvLine({
-          ...x,
-          quantity: 'conductivity_mass',
-          value: e.conductivityMass,
-          unit: 'm_e',
-          reference: rv?.extremum.conductivityMass ?? null,
-        }),
-      );
-    }
-  }
-  return rows.map((r) => r.map(csvCell).join(',')).join('\n');
-}
-
 function eventsText(c: Comparison, short: Map<string, string>, bullet: string): string[] {
   return c.events.map((e) => `${bullet}${short.get(e.run) ?? e.run}: ${e.message}`);
 }
@@ -389,7 +206,7 @@ export function formatComparison(c: Comparison, format: ComparisonFormat, option
     case 'json':
       return JSON.stringify(c, (_k, v: unknown) => (typeof v === 'number' && Number.isFinite(v) ? Number(v.toPrecision(10)) : v), 2);
     case 'csv':
-      return csv(c, options);
+      return comparisonCsv(c, options);
     case 'md': {
       const out = [`### Band-structure comparison (reference: ${c.reference})`, ''];
       if (legend.length) out.push(...legend.map((l) => `- ${l.trim()}`), '');

@@ -1,4 +1,5 @@
 /** Crystal structures for the lattice tests, built from their textbook descriptions. */
+import fc from 'fast-check';
 import type { Mat3, Structure, Vec3 } from '../../../src/core/model';
 import { det3, mat3Inverse, mulMat, mulMatVec, transpose3 } from '../../../src/core/lattice/linalg';
 
@@ -129,3 +130,20 @@ export const UNIMODULAR: Mat3[] = [
     [0, 0, -1],
   ],
 ];
+
+/**
+ * Any primitive cell of a crystal, rotated (for property tests): M, a product of two unimodular integer
+ * matrices (another primitive cell of the same lattice), and Q, a rotation about a random axis.
+ */
+export const anyCellChange: fc.Arbitrary<{ M: Mat3; Q: Mat3 }> = fc
+  .tuple(
+    fc.constantFrom(...UNIMODULAR),
+    fc.constantFrom(...UNIMODULAR),
+    fc.tuple(
+      fc.double({ min: -1, max: 1, noNaN: true }),
+      fc.double({ min: -1, max: 1, noNaN: true }),
+      fc.double({ min: 0.1, max: 1, noNaN: true }),
+    ),
+    fc.double({ min: 0, max: 2 * Math.PI, noNaN: true }),
+  )
+  .map(([m1, m2, axis, angle]) => ({ M: mulMat(m1, m2), Q: rotationMatrix(axis as Vec3, angle) }));

@@ -62,9 +62,6 @@ export function polynomialCurvature(s: LineSamples, settings: FitSettings, opt: 
   const curvature = opt.degree === 2 ? 2 * c2 : d2(tv);
   // Error of the curvature: the quadratic coefficient's error dominates (first order, vertex near 0).
   const curvatureStderr = 2 * Math.sqrt(Math.max(var2, 0));
-  const mass = curvatureToMass(curvature);
-  const stderr = Math.abs(mass) * (curvatureStderr / Math.abs(curvature));
-  const rms = Math.sqrt(fit.rss / n) * 1000;
   let vertexE = e0;
   for (let j = 0; j < coefT.length; j++) vertexE += coefT[j]! * tv ** j;
   const h = s.t.length > 1 ? s.t[1]! : tmax;
@@ -75,21 +72,39 @@ export function polynomialCurvature(s: LineSamples, settings: FitSettings, opt: 
       `The fitted vertex lies ${tv.toFixed(4)} Å⁻¹ from the sampled extremum, outside the points used: the band may not have its extremum here.`,
     );
   }
-  const nonParabolic = residualWarning(rms, win.window_meV, settings.energySigma);
-  if (nonParabolic) warnings.push(nonParabolic);
-  return {
-    method: opt.method,
-    curvature,
-    curvatureStderr,
-    mass,
-    stderr,
-    points: n,
-    window_meV: win.window_meV,
-    residual_meV: rms,
+  return curvatureResult(opt.method, { curvature, curvatureStderr, rss: fit.rss, n, p, window_meV: win.window_meV }, settings, {
     vertexT: tv,
     vertexE,
     warnings,
-    ...quotability(mass, stderr, n, p, outside),
+    outside,
+  });
+}
+
+/** The fit's report from its curvature and error: the mass, its error, the residual and when it can be quoted. */
+function curvatureResult(
+  method: string,
+  f: { curvature: number; curvatureStderr: number; rss: number; n: number; p: number; window_meV: number },
+  settings: FitSettings,
+  v: { vertexT: number; vertexE: number; warnings: string[]; outside: string | null },
+): CurvatureFit {
+  const mass = curvatureToMass(f.curvature);
+  const stderr = Math.abs(mass) * (f.curvatureStderr / Math.abs(f.curvature));
+  const rms = Math.sqrt(f.rss / f.n) * 1000;
+  const nonParabolic = residualWarning(rms, f.window_meV, settings.energySigma);
+  if (nonParabolic) v.warnings.push(nonParabolic);
+  return {
+    method,
+    curvature: f.curvature,
+    curvatureStderr: f.curvatureStderr,
+    mass,
+    stderr,
+    points: f.n,
+    window_meV: f.window_meV,
+    residual_meV: rms,
+    vertexT: v.vertexT,
+    vertexE: v.vertexE,
+    warnings: v.warnings,
+    ...quotability(mass, stderr, f.n, f.p, v.outside),
   };
 }
 
@@ -122,26 +137,12 @@ function evenPolynomialCurvature(s: LineSamples, settings: FitSettings, opt: Pol
   const c2 = fit.coef[1]! / (tmax * tmax);
   const curvature = 2 * c2;
   const curvatureStderr = (2 * Math.sqrt(Math.max(fit.cov[1 * even + 1]!, 0))) / (tmax * tmax);
-  const mass = curvatureToMass(curvature);
-  const stderr = Math.abs(mass) * (curvatureStderr / Math.abs(curvature));
-  const rms = Math.sqrt(fit.rss / n) * 1000;
-  const warnings = [...win.warnings];
-  const nonParabolic = residualWarning(rms, win.window_meV, settings.energySigma);
-  if (nonParabolic) warnings.push(nonParabolic);
-  return {
-    method: opt.method,
-    curvature,
-    curvatureStderr,
-    mass,
-    stderr,
-    points: n,
-    window_meV: win.window_meV,
-    residual_meV: rms,
+  return curvatureResult(opt.method, { curvature, curvatureStderr, rss: fit.rss, n, p: even, window_meV: win.window_meV }, settings, {
     vertexT: 0,
     vertexE: e0 + fit.coef[0]!,
-    warnings,
-    ...quotability(mass, stderr, n, even, null),
-  };
+    warnings: [...win.warnings],
+    outside: null,
+  });
 }
 
 /** A residual beyond what rounding and a parabola explain says the band is not parabolic in the window. */

@@ -1,0 +1,94 @@
+/**
+ * Filling the sampled states with electrons: the k weights, electrons per band, the occupations as fractions
+ * of a full state, the electrons they hold, whole bands per channel, and the Fermi level that fills a count
+ * (by bisection on the counting function).
+ */
+import type { BandStructure } from '../model';
+import type { OccupationRule } from './occupation';
+
+/** Energies within this of each other are one level (eV), as in gap.ts. */
+export const LEVEL_EV = 1e-4;
+
+/** Normalised k weights (equal when the file gives none, or none that sum to a positive number). */
+export function kWeights(bs: BandStructure): Float64Array {
+  const w = new Float64Array(bs.nk);
+  let sum = 0;
+  if (bs.weights) for (let k = 0; k < bs.nk; k++) sum += Math.max(0, bs.weights[k]!);
+  for (let k = 0; k < bs.nk; k++) w[k] = sum > 0 ? Math.max(0, bs.weights![k]!) / sum : 1 / bs.nk;
+  return w;
+}
+
+/** Electrons per band of one channel. */
+export function electronsPerBand(bs: BandStructure, occ: OccupationRule | null): 1 | 2 {
+  return occ?.perBand ?? (bs.nSpin === 1 && !bs.spinorbit ? 2 : 1);
+}
+
+/**
+ * The Fermi level that fills `electrons` into the sampled states (k weights normalised), by bisection on the
+ * counting function: an estimate, exact only as the sampling becomes dense.
+ */
+export function fillingFermiLevel(bs: BandStructure, electrons: number, perBand: 1 | 2): number | null {
+  if (!(electrons > 0) || bs.nk === 0) return null;
+  const w = kWeights(bs);
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const e of bs.energies)
+    for (let i = 0; i < e.length; i++) {
+      if (e[i]! < lo) lo = e[i]!;
+      if (e[i]! > hi) hi = e[i]!;
+    }
+  const count = (ef: number): number => {
+    let n = 0;
+    for (const e of bs.energies)
+      for (let k = 0; k < bs.nk; k++) for (let b = 0; b < bs.nBands; b++) if (e[k * bs.nBands + b]! <= ef) n += w[k]! * perBand;
+    return n;
+  };
+  if (count(hi) < electrons - 1e-9) return null;
+  // Smallest level holding the electrons, then the midpoint to the next state above it.
+  for (let it = 0; it < 80; it++) {
+    const mid = 0.5 * (lo + hi);
+    if (count(mid) >= electrons - 1e-9) hi = mid;
+    else lo = mid;
+  }
+  let next = Infinity;
+  for (const e of bs.energies) for (let i = 0; i < e.length; i++) if (e[i]! > hi + LEVEL_EV && e[i]! < next) next = e[i]!;
+  return Number.isFinite(next) ? 0.5 * (hi + next) : hi;
+}
+
+/** Whole bands per channel the electrons fill, when they fill a whole number; null otherwise. */
+export function wholeBandsPerChannel(bs: BandStructure, occ: OccupationRule | null, fractions: Float64Array | null): number | null {
+  const perBand = electronsPerBand(bs, occ);
+  if (bs.nSpin === 1 && bs.electrons !== null) {
+    const slots = bs.electrons / perBand;
+    return Math.abs(slots - Math.round(slots)) < 1e-6 ? Math.round(slots) : null;
+  }
+  // Spin-polarised (or no count): the channel's own filling, from its occupations (k-weighted mean).
+  if (!fractions) return null;
+  const w = kWeights(bs);
+  let n = 0;
+  for (let k = 0; k < bs.nk; k++) for (let b = 0; b < bs.nBands; b++) n += w[k]! * fractions[k * bs.nBands + b]!;
+  return Math.abs(n - Math.round(n)) < 0.05 ? Math.round(n) : null;
+}
+
+/** Occupation fractions (0..1 of a full state) per channel, as the file writes them. */
+export function occupationFractions(bs: BandStructure): Float64Array[] {
+  let maxOcc = 0;
+  for (const o of bs.occupations!) for (let i = 0; i < o.length; i++) if (o[i]! > maxOcc) maxOcc = o[i]!;
+  // Files write fractions (0..1, Methfessel-Paxton slightly beyond) or electrons (0..2).
+  const full = maxOcc > 1.5 ? 2 : 1;
+  // A plain loop: TypedArray.from with a mapping function goes through a JS list of every value on the way
+  // (tens of MB of heap on a large run).
+  return bs.occupations!.map((o) => {
+    const f = new Float64Array(o.length);
+    for (let i = 0; i < o.length; i++) f[i] = o[i]! / full;
+    return f;
+  });
+}
+
+export function totalElectrons(bs: BandStructure, fractions: Float64Array[], perBand: 1 | 2): number {
+  const w = kWeights(bs);
+  let n = 0;
+  for (const f of fractions)
+    for (let k = 0; k < bs.nk; k++) for (let b = 0; b < bs.nBands; b++) n += w[k]! * perBand * f[k * bs.nBands + b]!;
+  return n;
+}
