@@ -1,0 +1,53 @@
+/**
+ * The readable lines of a mesh run's interpolated results: which mesh and method, the gap's uncertainty, and
+ * each interpolated mass tensor with its leave-one-out uncertainty (or the word undetermined and why).
+ */
+import type { ExtremumReport, GapReport, Report } from '../model';
+
+const fixed = (x: number, digits: number): string => {
+  const s = x.toFixed(digits);
+  return s === `-${(0).toFixed(digits)}` ? s.slice(1) : s;
+};
+
+/** The line saying the results are interpolated, and how (null for other runs). */
+export function interpolationLine(r: Report): string | null {
+  const i = r.interpolation;
+  if (!i) return null;
+  const bands = i.bands.map(([a, b]) => (a === b ? `band ${a}` : `bands ${a}–${b}`)).join(' and ');
+  return `  Mesh run: ${bands} interpolated from the ${i.divisions.join('×')} mesh (${i.irreduciblePoints} irreducible points, ${i.stars} star functions) by star-function interpolation with minimum Pickett–Krakauer–Allen roughness; the edges and masses below are interpolated.`;
+}
+
+/** "± 0.3 meV (interpolated)" after a gap from interpolated edges; empty otherwise. */
+export function gapUncertaintyText(g: GapReport): string {
+  if (g.source !== 'interpolated') return '';
+  const u = g.uncertainty_eV;
+  return u === null || u === undefined ? ' (interpolated; uncertainty unknown)' : ` ± ${fixed(u * 1000, 1)} meV (interpolated)`;
+}
+
+/** The interpolated mass tensor of an extremum, with uncertainties; null when the extremum is not interpolated. */
+export function interpolatedMassLines(e: ExtremumReport): string[] | null {
+  if (!e.interpolated) return null;
+  const lines: string[] = [];
+  const u = e.interpolated.energyUncertainty_eV;
+  if (u !== null) lines.push(`    energy uncertainty ${fixed(u * 1000, 2)} meV (leave-one-out)`);
+  const t = e.tensor;
+  if (!t) {
+    lines.push('    masses: none (the interpolation does not resolve this extremum)');
+    return lines;
+  }
+  const atMax = e.kind === 'vbm' || e.kind === 'peak';
+  const state = t.determined === false ? `undetermined: ${t.undeterminedReason ?? 'not quotable'}` : 'quotable';
+  lines.push(`    interpolated mass tensor (analytic Hessian of the interpolant; uncertainties leave-one-out; ${state}):`);
+  t.principal.forEach((m, i) => {
+    const err = t.stderr?.[i];
+    const value = t.determined === false ? `m${i + 1} undetermined (the interpolant gives ${fixed(m, 3)}` : `m${i + 1} = ${fixed(m, 3)}`;
+    const close = t.determined === false ? ')' : '';
+    const hole = atMax && m < 0 && t.determined !== false ? ` (hole mass ${fixed(-m, 3)})` : '';
+    lines.push(
+      `      ${value}${err !== undefined && Number.isFinite(err) ? ` ± ${fixed(err, 3)}` : ''} m_e${close} along (${t.axes[i]!.map((x) => fixed(x, 3)).join(', ')})${hole}`,
+    );
+  });
+  if (e.interpolated.touchingBands.length)
+    lines.push(`    band ${e.interpolated.touchingBands.join(' and ')} within the interpolation's error here`);
+  return lines;
+}
