@@ -51,3 +51,22 @@ export function interpolatedMassLines(e: ExtremumReport): string[] | null {
     lines.push(`    band ${e.interpolated.touchingBands.join(' and ')} within the interpolation's error here`);
   return lines;
 }
+
+/**
+ * One sentence with what the mesh analysis found anywhere in the zone (for a view that shows the
+ * interpolated bands along a path only); null for other runs.
+ */
+export function meshResultLine(r: Report): string | null {
+  if (!r.interpolation) return null;
+  const place = (p: { label: string | null; position?: string | null; k: readonly number[] }): string =>
+    p.label ?? p.position ?? `(${p.k.map((x) => fixed(x, 4)).join(', ')})`;
+  const g = r.gap;
+  const valley = (kind: 'vbm' | 'cbm'): string => {
+    const e = r.extrema.find((x) => x.kind === kind);
+    return e && e.valleyDegeneracy !== null ? `, N_v = ${e.valleyDegeneracy}` : '';
+  };
+  const gap = g
+    ? `gap ${fixed(g.eV, 4)} eV${gapUncertaintyText(g)}, ${g.direct ? 'direct' : 'indirect'}; VBM at ${place(g.vbm)}${valley('vbm')}; CBM at ${place(g.cbm)}${valley('cbm')}`
+    : 'no gap';
+  return `The analysis of the ${r.interpolation.divisions.join('×')} mesh itself (extrema anywhere in the zone, interpolated mass tensors with uncertainties: valleyscope analyze) gives: ${gap}.`;
+}

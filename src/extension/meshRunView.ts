@@ -1,0 +1,27 @@
+/**
+ * A mesh run opened in the band view: the host shows its interpolated bands along the standard path of the
+ * lattice (core/analysis/meshRunPath.ts), analysed like a path run, with the caution that they are
+ * interpolated and one line with what the mesh analysis found anywhere in the zone. Other runs pass through.
+ * The mesh points lying on the path are not drawn as markers (that needs a protocol message: not done here).
+ */
+import type { BandStructure, Report } from '../core/model';
+import { analyzeBandStructure, type AnalysisSettings } from '../core/analysis/analyze';
+import { interpolatedPathRun } from '../core/analysis/meshRunPath';
+import { meshResultLine } from '../core/report/meshRunText';
+
+export function meshRunForView(
+  run: { bs: BandStructure; report: Report },
+  settings: AnalysisSettings,
+): { bs: BandStructure; report: Report } {
+  if (!run.report.interpolation) return run;
+  const made = interpolatedPathRun(run.bs);
+  if (!made.path) {
+    run.report.warnings.push(`The interpolated bands cannot be drawn along a path: ${made.reason}`);
+    return run;
+  }
+  const report = analyzeBandStructure(made.path, settings);
+  report.cautions.unshift(made.caution);
+  const found = meshResultLine(run.report);
+  if (found) report.warnings.unshift(found);
+  return { bs: made.path, report };
+}
