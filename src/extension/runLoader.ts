@@ -81,9 +81,9 @@ export async function loadAndAnalyze(
     if (stream) job.streamFrom = fileUri.fsPath;
     const size = stream ? st.size : bytes.byteLength;
     const useWorker = workerAvailable && size >= opts.workerThresholdBytes;
-    const analysed = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, token, progress);
+    const done = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, token, progress);
     // A mesh run is shown as its interpolated bands along the standard path (meshRunView.ts).
-    const out = meshRunForView(analysed, opts.settings);
+    const out = meshRunForView(done, opts.settings);
     const notice = otherCandidatesNotice(loc);
     if (notice) out.report.warnings.push(notice);
     progress(1, 'path geometry');
