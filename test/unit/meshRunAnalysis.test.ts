@@ -123,6 +123,17 @@ describe('a mesh run through loadRun and analyze', function () {
     assert.ok(report.cautions.some((c) => /interpolated from a 12×12×12 mesh/.test(c) && /crossings/.test(c)));
   });
 
+  it('is interpolated too when an automatic-mesh KPOINTS lies beside the EIGENVAL', async () => {
+    const run = axisValleyMeshRun(MODEL, 12, 'axis-valley test model');
+    // VASP's automatic Γ-centred mesh layout: comment, 0, Gamma, divisions, shift (common practice of the format).
+    const kpoints = 'Automatic mesh\n0\nGamma\n 12 12 12\n 0 0 0\n';
+    const withMesh = await loadRun(nodeFileAccessor, runDir({ EIGENVAL: run.eigenval, POSCAR: run.poscar, KPOINTS: kpoints }));
+    const r = analyzeBandStructure(withMesh);
+    assert.deepEqual(r.interpolation?.divisions, [12, 12, 12]);
+    assert.equal(r.gap?.source, 'interpolated');
+    assert.ok(Math.abs(r.gap!.eV - (truth.cbm_eV - truth.vbm_eV)) < 1e-3); // closed form (axisValleyTruth)
+  });
+
   it('k-points that form no mesh are analysed as points, as before (no interpolation)', async () => {
     // Eleven scattered points (not a regular mesh): the earlier behaviour, with its warning, is kept.
     const nk = 11;

@@ -32,9 +32,12 @@ interface ChannelResult {
   rejected: RejectedCandidate[];
 }
 
-/** The k-points of a run that may be a mesh to interpolate (not a path, not a grid, not one point's neighbourhood). */
+/**
+ * The k-points of a run that may be a mesh to interpolate: not a path, not a full grid in grid order (BXSF),
+ * not one point's neighbourhood. A reader that saw an automatic-mesh KPOINTS says 'grid' without a grid.
+ */
 export function mayBeMeshRun(bs: BandStructure, local: boolean): boolean {
-  return bs.sampling === 'points' && bs.nk > 1 && !local;
+  return (bs.sampling === 'points' || (bs.sampling === 'grid' && bs.grid === null)) && bs.nk > 1 && !local;
 }
 
 /**
