@@ -8,15 +8,18 @@ import type { BandStructure, Report } from '../core/model';
 import { analyzeBandStructure, type AnalysisSettings } from '../core/analysis/analyze';
 import { interpolatedPathRun } from '../core/analysis/meshRunPath';
 import { meshResultLine } from '../core/report/meshRunText';
+import { mayBeMeshRun } from '../core/analysis/meshRunAnalysis';
+import { localRun } from '../core/analysis/localRun';
 
 export function meshRunForView(
   run: { bs: BandStructure; report: Report },
   settings: AnalysisSettings,
 ): { bs: BandStructure; report: Report } {
-  if (!run.report.interpolation) return run;
+  // Interpolated by the analysis (insulators), or a mesh run without a gap (metals keep their classification).
+  if (!run.report.interpolation && !mayBeMeshRun(run.bs, localRun(run.bs) !== null)) return run;
   const made = interpolatedPathRun(run.bs);
   if (!made.path) {
-    run.report.warnings.push(`The interpolated bands cannot be drawn along a path: ${made.reason}`);
+    if (run.report.interpolation) run.report.warnings.push(`The interpolated bands cannot be drawn along a path: ${made.reason}`);
     return run;
   }
   const report = analyzeBandStructure(made.path, settings);

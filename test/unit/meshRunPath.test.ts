@@ -10,7 +10,16 @@ import { interpolatedPathRun } from '../../src/core/analysis/meshRunPath';
 import { pathGeometry } from '../../src/core/lattice/kpath';
 import { meshRunForView } from '../../src/extension/meshRunView';
 import type { BandStructure } from '../../src/core/model';
-import { axisValleyBands, axisValleyMeshRun, axisValleyTruth, type AxisValleyParameters } from '../../scripts/meshModel/axisValleyModel';
+import {
+  AXIS_VALLEY_BANDS,
+  axisValleyBands,
+  axisValleyMeshRun,
+  axisValleyTruth,
+  cubicOperations,
+  type AxisValleyParameters,
+} from '../../scripts/meshModel/axisValleyModel';
+import { irreducibleMesh } from '../../src/core/interpolation/regularMesh';
+import { writeEigenval } from '../support/writers/vasp';
 
 // The band view's picture of a mesh run: the interpolated bands along the standard simple-cubic path
 // Γ–X–M–Γ–R–X|M–R (Setyawan & Curtarolo, Comput. Mater. Sci. 49, 299 (2010), memory). The model
@@ -73,8 +82,52 @@ describe('a mesh run drawn along the standard path of its lattice', function () 
     // (closed form, axisValleyTruth), within the path's sampling.
     const truth = axisValleyTruth(MODEL);
     assert.ok(Math.abs(shown.report.gap!.eV - (truth.cbm_eV - truth.vbm_eV)) < 2e-3, String(shown.report.gap!.eV));
-    // Path runs and runs that are not meshes pass through unchanged.
+    // Path runs pass through unchanged.
     const other = { bs: { ...mesh, sampling: 'path' as const }, report: analyzeBandStructure({ ...mesh, sampling: 'path' }) };
     assert.equal(meshRunForView(other, DEFAULT_SETTINGS), other);
+  });
+
+  it('a metallic mesh run keeps its classification (no gap) and still opens as interpolated bands along the path', async () => {
+    // The same model with 3 electrons: the valence band half filled, states below a Fermi level at the
+    // band's centre occupied (a metal by construction).
+    const { kpoints, weights } = irreducibleMesh([12, 12, 12], [0, 0, 0], cubicOperations());
+    const nk = kpoints.length / 3;
+    const energies = new Float64Array(nk * AXIS_VALLEY_BANDS);
+    const occupations = new Float64Array(nk * AXIS_VALLEY_BANDS);
+    for (let i = 0; i < nk; i++) {
+      const e = axisValleyBands(MODEL, [kpoints[3 * i]!, kpoints[3 * i + 1]!, kpoints[3 * i + 2]!]);
+      energies.set(e, i * AXIS_VALLEY_BANDS);
+      occupations[i * AXIS_VALLEY_BANDS] = 1;
+      occupations[i * AXIS_VALLEY_BANDS + 1] = e[1]! < MODEL.v0 ? 1 : 0;
+    }
+    const metalDir = mkdtempSync(join(tmpdir(), 'vs-meshmetal-'));
+    try {
+      writeFileSync(
+        join(metalDir, 'EIGENVAL'),
+        writeEigenval({
+          system: 'axis-valley metal',
+          nIons: 1,
+          electrons: 3,
+          nBands: AXIS_VALLEY_BANDS,
+          kpoints,
+          weights,
+          energies: [energies],
+          occupations: [occupations],
+          lattice: mesh.lattice!,
+        }),
+      );
+      writeFileSync(join(metalDir, 'POSCAR'), axisValleyMeshRun(MODEL, 2, 'metal').poscar);
+      const bs = await loadRun(nodeFileAccessor, metalDir);
+      const report = analyzeBandStructure(bs);
+      assert.equal(report.metal, true);
+      assert.equal(report.gap, null);
+      assert.equal(report.interpolation, undefined);
+      const shown = meshRunForView({ bs, report }, DEFAULT_SETTINGS);
+      assert.equal(shown.bs.sampling, 'path');
+      assert.equal(shown.report.metal, true);
+      assert.match(shown.report.cautions[0]!, /^Interpolated from a 12×12×12 mesh/);
+    } finally {
+      rmSync(metalDir, { recursive: true, force: true });
+    }
   });
 });
