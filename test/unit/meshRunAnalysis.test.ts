@@ -9,7 +9,7 @@ import { analyzeBandStructure } from '../../src/core/analysis/analyze';
 import { summaryText } from '../../src/core/report/summaryText';
 import { analysisJson } from '../../src/cli/analysisJson';
 import type { BandStructure, Report } from '../../src/core/model';
-import { axisValleyMeshRun, axisValleyTruth, type AxisValleyParameters } from '../../scripts/meshModel/axisValleyModel';
+import { axisValleyBands, axisValleyMeshRun, axisValleyTruth, type AxisValleyParameters } from '../../scripts/meshModel/axisValleyModel';
 import { insulatorOccupations, writeEigenval, writePoscar } from '../support/writers/vasp';
 
 // A mesh run of a tight-binding model (scripts/meshModel/axisValleyModel.ts): a valence band with its maximum
@@ -59,6 +59,17 @@ describe('a mesh run through loadRun and analyze', function () {
     assert.ok(Math.abs(along - truth.x0) < 2e-3, `${along} vs ${truth.x0}`);
     assert.equal(g.cbm.k.filter((x) => Math.abs(x) < 1e-6).length, 2);
     assert.equal(g.cbm.position, `${(truth.x0 / 0.5).toFixed(2)} Γ→X`); // X = (½, 0, 0) in the simple-cubic zone (common practice)
+    // The smallest direct gap of the model, E_c − E_v minimised by a dense scan of the wedge 0 ≤ k_z ≤ k_y ≤ k_x ≤ ½
+    // and a fine one along Γ–X, where it lies (the model itself, evaluated).
+    let smallest = Infinity;
+    const directAt = (k: number[]): number => {
+      const e = axisValleyBands(MODEL, k);
+      return e[2]! - e[1]!;
+    };
+    for (let i = 0; i <= 40; i++)
+      for (let j = 0; j <= i; j++) for (let l = 0; l <= j; l++) smallest = Math.min(smallest, directAt([i / 80, j / 80, l / 80]));
+    for (let x = 0; x <= 0.5; x += 1e-5) smallest = Math.min(smallest, directAt([x, 0, 0]));
+    assert.ok(Math.abs(g.directGap.eV - smallest) < 1e-3, `${g.directGap.eV} vs ${smallest}`);
     const cbm = report.extrema.find((e) => e.kind === 'cbm')!;
     assert.equal(cbm.valleyDegeneracy, 6); // ±x, ±y, ±z: the star of (x₀, 0, 0) under O_h (group theory, common practice)
   });

@@ -11,6 +11,9 @@ import type { BandStructure, ExtremumReport, GapReport, RejectedCandidate, Repor
 import { interpolateRun } from '../interpolation/fromBandStructure';
 import type { InterpolatedExtremum, MeshInterpolation } from '../interpolation/meshInterpolation';
 import { equivalentK } from '../lattice/symmetry';
+import { cartesianToFractional } from '../lattice/reciprocal';
+import { StarInterpolant } from '../interpolation/starInterpolant';
+import { refineExtremum } from '../interpolation/newtonExtremum';
 import { labelOfK } from '../lattice/specialPoints';
 import {
   STAR_INTERPOLATION,
@@ -171,10 +174,8 @@ function interpolatedGap(vbm: ExtremumReport, cbm: ExtremumReport, channels: Cha
   const direct = vbm.spin === cbm.spin && ch !== undefined && equivalentK(ch.run.input.sym, vbm.k, cbm.k, 2e-4);
   let directGap = mesh ? { eV: mesh.directGap.eV, k: mesh.directGap.k } : { eV: Infinity, k: vbm.k };
   for (const c of channels) {
-    for (const at of [c.vbm, c.cbm]) {
-      const gapAt = c.run.energyAt(c.cbm.band - 1 - c.firstBand, at.k) - c.run.energyAt(c.vbm.band - 1 - c.firstBand, at.k);
-      if (gapAt < directGap.eV) directGap = { eV: gapAt, k: [...at.k] as Vec3 };
-    }
+    const found = smallestDirectGap(c, [c.vbm.k, c.cbm.k, ...(mesh ? [mesh.directGap.k] : [])]);
+    if (found && found.eV < directGap.eV) directGap = found;
   }
   if (direct || directGap.eV < eV) directGap = { eV, k: [...cbm.k] as Vec3 };
   const [uv, uc] = [vbm, cbm].map((x) => x.interpolated?.energyUncertainty_eV ?? null);
@@ -195,6 +196,29 @@ function interpolatedGap(vbm: ExtremumReport, cbm: ExtremumReport, channels: Cha
     source: 'interpolated',
     uncertainty_eV: typeof uv === 'number' && typeof uc === 'number' ? Math.hypot(uv, uc) : null,
   };
+}
+
+/**
+ * The smallest direct gap between a channel's edge bands on the interpolant: E_c − E_v is itself a sum of
+ * star functions (the difference of the coefficients), refined to its minimum from each start.
+ */
+function smallestDirectGap(c: ChannelResult, starts: readonly Vec3[]): { eV: number; k: Vec3 } | null {
+  const { run } = c;
+  const upper = run.band(c.cbm.band - 1 - c.firstBand).coefficients;
+  const lower = run.band(c.vbm.band - 1 - c.firstBand).coefficients;
+  const difference = new StarInterpolant(
+    run.fit.basis,
+    upper.map((x, m) => x - lower[m]!),
+  );
+  const opt = { maxStep: run.halfSpacing, maxTravel: 3 * run.halfSpacing };
+  let best: { eV: number; k: Vec3 } | null = null;
+  for (const start of starts) {
+    const p = refineExtremum(difference, run.toCart(start), 'min', opt);
+    const eV = p.rejected ? difference.value(run.toCart(start)) : p.energy;
+    const k = p.rejected ? start : cartesianToFractional(p.k, run.input.lattice);
+    if (!best || eV < best.eV) best = { eV, k: k.map((x) => x + 0) as Vec3 };
+  }
+  return best;
 }
 
 /** The caution every interpolated result carries (shown with the standard ones). */
