@@ -145,6 +145,42 @@ describe('a mesh run through loadRun and analyze', function () {
     assert.ok(Math.abs(r.gap!.eV - (truth.cbm_eV - truth.vbm_eV)) < 1e-3); // closed form (axisValleyTruth)
   });
 
+  it('spin-polarised: each channel interpolated, the overall gap between the channels’ edges', async () => {
+    // Spin down: the model's valence band raised by 0.05 eV and conduction band lowered by 0.1 eV (a rigid shift
+    // of our own), so the down channel's gap is the model's minus 0.15 eV (closed form, axisValleyTruth).
+    const run = axisValleyMeshRun(MODEL, 12, 'axis-valley test model');
+    const up = await loadRun(nodeFileAccessor, runDir({ EIGENVAL: run.eigenval, POSCAR: run.poscar }));
+    const down = new Float64Array(up.energies[0]!).map((e, i) => e + [0, 0.05, -0.1, 0][i % 4]!);
+    const dir = runDir({
+      EIGENVAL: writeEigenval({
+        system: 'two channels',
+        nIons: 1,
+        electrons: 4,
+        nBands: 4,
+        kpoints: up.kpoints,
+        weights: up.weights!,
+        energies: [up.energies[0]!, down],
+        occupations: [insulatorOccupations(up.nk, 4, 2), insulatorOccupations(up.nk, 4, 2)],
+        lattice: up.lattice!,
+      }),
+      POSCAR: run.poscar,
+    });
+    const r = analyzeBandStructure(await loadRun(nodeFileAccessor, dir));
+    const gap = truth.cbm_eV - truth.vbm_eV;
+    assert.deepEqual(
+      r.spinGaps?.map((g) => g?.source),
+      ['interpolated', 'interpolated'],
+    );
+    assert.ok(Math.abs(r.spinGaps![0]!.eV - gap) < 1e-3 && Math.abs(r.spinGaps![1]!.eV - (gap - 0.15)) < 1e-3);
+    assert.ok(Math.abs(r.gap!.eV - (gap - 0.15)) < 1e-3);
+    assert.equal(r.gap!.vbm.spin, 1);
+    assert.equal(r.gap!.cbm.spin, 1);
+    // The up channel's edges lie 0.05 eV below the VBM and 0.1 eV above the CBM (the shifts above).
+    const upVbm = r.extrema.find((e) => e.kind === 'vbm' && e.spin === 0)!;
+    assert.ok(Math.abs(upVbm.offset_eV - 0.05) < 1e-4, String(upVbm.offset_eV));
+    assert.match(summaryText(r), /bands 1–4 \(spin up\) and bands 1–4 \(spin down\)/);
+  });
+
   it('k-points that form no mesh are analysed as points, as before (no interpolation)', async () => {
     // Eleven scattered points (not a regular mesh): the earlier behaviour, with its warning, is kept.
     const nk = 11;

@@ -68,6 +68,8 @@ export function analyzeMeshRun(bs: BandStructure, report: Report, s: AnalysisSet
     });
   }
   report.extrema = channels.flatMap((c) => c.extrema);
+  // Offsets from the overall edges (a spin channel's own edge may lie below them), as for path runs.
+  for (const x of report.extrema) x.offset_eV = x.kind === 'vbm' || x.kind === 'peak' ? vbm.eV - x.eV : x.eV - cbm.eV;
   report.rejected = channels.flatMap((c) => c.rejected);
   const first = channels[0]!.run;
   report.interpolation = {

@@ -13,7 +13,8 @@ const fixed = (x: number, digits: number): string => {
 export function interpolationLine(r: Report): string | null {
   const i = r.interpolation;
   if (!i) return null;
-  const bands = i.bands.map(([a, b]) => (a === b ? `band ${a}` : `bands ${a}–${b}`)).join(' and ');
+  const spin = (n: number): string => (i.bands.length === 2 ? ` (spin ${n === 0 ? 'up' : 'down'})` : '');
+  const bands = i.bands.map(([a, b], n) => `${a === b ? `band ${a}` : `bands ${a}–${b}`}${spin(n)}`).join(' and ');
   return `  Mesh run: ${bands} interpolated from the ${i.divisions.join('×')} mesh (${i.irreduciblePoints} irreducible points, ${i.stars} star functions) by star-function interpolation with minimum Pickett–Krakauer–Allen roughness; the edges and masses below are interpolated.`;
 }
 
@@ -36,7 +37,7 @@ export function interpolatedMassLines(e: ExtremumReport): string[] | null {
     return lines;
   }
   const atMax = e.kind === 'vbm' || e.kind === 'peak';
-  const state = t.determined === false ? `undetermined: ${t.undeterminedReason ?? 'not quotable'}` : 'quotable';
+  const state = t.determined === false ? `undetermined: ${(t.undeterminedReason ?? 'not quotable').replace(/\.$/, '')}` : 'quotable';
   lines.push(`    interpolated mass tensor (analytic Hessian of the interpolant; uncertainties leave-one-out; ${state}):`);
   t.principal.forEach((m, i) => {
     const err = t.stderr?.[i];
