@@ -2,8 +2,7 @@ import assert from 'node:assert/strict';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { crystalSymmetry, ensureSymmetryReady } from '../../src/core/lattice/symmetry';
-import { irreducibleMesh } from '../../src/core/interpolation/regularMesh';
+import { ensureSymmetryReady } from '../../src/core/lattice/symmetry';
 import { loadRun } from '../../src/core/load';
 import { nodeFileAccessor } from '../../src/cli/nodeFileAccessor';
 import { analyzeBandStructure } from '../../src/core/analysis/analyze';
@@ -12,7 +11,7 @@ import type { Report } from '../../src/core/model';
 import { EpmBandSolver } from '../../scripts/epm/bandSolver';
 import { unstrainedCrystal } from '../../scripts/epm/crystal';
 import { SILICON } from '../../scripts/epm/materials';
-import { insulatorOccupations, modelSystemName, writeEigenval, writePoscar } from '../support/writers/vasp';
+import { epmMeshRunFiles } from '../support/epmMeshRun';
 
 // Silicon in the empirical pseudopotential model (Cohen & Bergstresser, Phys. Rev. 141, 789 (1966)) as an
 // ordinary self-consistent run: a Γ-centred 12×12×12 mesh reduced to its irreducible points, EIGENVAL + POSCAR.
@@ -30,42 +29,9 @@ describe('an EPM silicon mesh run through loadRun and analyze', function () {
     await ensureSymmetryReady();
     dir = mkdtempSync(join(tmpdir(), 'vs-meshrun-si-'));
     const crystal = unstrainedCrystal(SILICON);
-    const positions = new Float64Array([0, 0, 0, 0.25, 0.25, 0.25]);
-    const sym = crystalSymmetry({ lattice: crystal.lattice, species: [...SILICON.species], positions });
-    const { kpoints, weights } = irreducibleMesh([12, 12, 12], [0, 0, 0], sym.reciprocalPointGroup);
-    const nk = kpoints.length / 3;
     const nBands = 8;
+    for (const [name, text] of Object.entries(epmMeshRunFiles(crystal, 12, nBands))) writeFileSync(join(dir, name), text);
     const solver = new EpmBandSolver(crystal);
-    const energies = new Float64Array(nk * nBands);
-    for (let i = 0; i < nk; i++)
-      energies.set(solver.bandsAt([kpoints[3 * i]!, kpoints[3 * i + 1]!, kpoints[3 * i + 2]!], nBands), i * nBands);
-    writeFileSync(
-      join(dir, 'EIGENVAL'),
-      writeEigenval({
-        system: modelSystemName('Si EPM mesh'),
-        nIons: 2,
-        electrons: 8,
-        nBands,
-        kpoints,
-        weights,
-        energies: [energies],
-        occupations: [insulatorOccupations(nk, nBands, 4)],
-        lattice: crystal.lattice,
-      }),
-    );
-    writeFileSync(
-      join(dir, 'POSCAR'),
-      writePoscar({
-        comment: 'Si',
-        lattice: crystal.lattice,
-        species: ['Si'],
-        counts: [2],
-        positions: [
-          [0, 0, 0],
-          [0.25, 0.25, 0.25],
-        ],
-      }),
-    );
     report = analyzeBandStructure(await loadRun(nodeFileAccessor, dir));
     // The model's gap: VBM at Γ (band 4), CBM on Γ–X (band 5) found on a 0.0005-step line, Γ–X = (0, t/2, t/2).
     let cbm = Infinity;
