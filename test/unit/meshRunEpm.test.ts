@@ -10,7 +10,7 @@ import { summaryText } from '../../src/core/report/summaryText';
 import type { Report } from '../../src/core/model';
 import { EpmBandSolver } from '../../scripts/epm/bandSolver';
 import { unstrainedCrystal } from '../../scripts/epm/crystal';
-import { SILICON } from '../../scripts/epm/materials';
+import { GERMANIUM, SILICON } from '../../scripts/epm/materials';
 import { epmMeshRunFiles } from '../support/epmMeshRun';
 
 // Silicon in the empirical pseudopotential model (Cohen & Bergstresser, Phys. Rev. 141, 789 (1966)) as an
@@ -46,6 +46,7 @@ describe('an EPM silicon mesh run through loadRun and analyze', function () {
     const vbm = report.extrema.find((e) => e.kind === 'vbm')!;
     assert.ok(Math.hypot(...vbm.k) < 1e-6);
     assert.equal(vbm.degenerateBands, 3); // Γ25′ is threefold without spin-orbit (group theory of diamond, common practice)
+    assert.equal(vbm.band, 4); // named by the top band of the triplet, as on paths: 8 electrons fill bands 1–4 (common practice)
     assert.equal(vbm.tensor?.determined, false);
     assert.ok(vbm.masses.every((m) => !m.determined));
     const cbm = report.extrema.find((e) => e.kind === 'cbm')!;
@@ -59,5 +60,30 @@ describe('an EPM silicon mesh run through loadRun and analyze', function () {
     assert.equal(g.direct, false);
     assert.ok(typeof g.uncertainty_eV === 'number', String(g.uncertainty_eV));
     assert.ok(Math.abs(g.eV - trueGap) <= g.uncertainty_eV, `${g.eV} vs ${trueGap} ± ${g.uncertainty_eV}`);
+  });
+
+  it('germanium: the minimum at L (N_v = 4) is the CBM; an extremum the interpolation cannot resolve keeps the mesh energy and no masses', async () => {
+    const geDir = mkdtempSync(join(tmpdir(), 'vs-meshrun-ge-'));
+    try {
+      const crystal = unstrainedCrystal(GERMANIUM);
+      for (const [name, text] of Object.entries(epmMeshRunFiles(crystal, 12, 8))) writeFileSync(join(geDir, name), text);
+      const r = analyzeBandStructure(await loadRun(nodeFileAccessor, geDir));
+      const cbm = r.extrema.find((e) => e.kind === 'cbm')!;
+      assert.equal(cbm.label, 'L'); // germanium's conduction minimum at L (Cohen & Bergstresser 1966; common practice)
+      assert.equal(cbm.valleyDegeneracy, 4); // eight half-valleys at the zone faces: four (common practice)
+      assert.equal(r.extrema.find((e) => e.kind === 'vbm')!.band, 4);
+      if (cbm.interpolated!.resolved) {
+        assert.ok(cbm.tensor && cbm.tensor.source === 'interpolated');
+      } else {
+        // L is a point of the Γ-centred 12³ mesh: the entry keeps the model's energy there, and no masses.
+        const atL = new EpmBandSolver(crystal).bandsAt([0.5, 0.5, 0.5], 8)[4]!;
+        assert.ok(Math.abs(cbm.eV - atL) < 2e-6, `${cbm.eV} vs ${atL}`);
+        assert.equal(cbm.tensor, null);
+        assert.deepEqual(cbm.masses, []);
+        assert.equal(r.gap!.uncertainty_eV, null);
+      }
+    } finally {
+      rmSync(geDir, { recursive: true, force: true });
+    }
   });
 });

@@ -158,6 +158,8 @@ function listed(
     const same = kept.findIndex((y) => equivalentK(sym, y.k, x.k, 2e-4) && Math.abs(y.energy_eV - x.energy_eV) <= s.degeneracy_meV / 1000);
     if (same >= 0) {
       if (x.band !== kept[same]!.band) degenerate[same]!++;
+      // A degenerate edge is named by its outermost band, as on paths: the highest of a maximum, the lowest of a minimum.
+      if (edgeKind === 'vbm' ? x.band > kept[same]!.band : x.band < kept[same]!.band) kept[same] = x;
       continue;
     }
     kept.push(x);
