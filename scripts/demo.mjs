@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 // The demo: runs the bundled command-line tool on the invented scenario in fixtures/demo (see its README.md).
-//   1. `analyze` on each run, printing the readable summaries;
+//   1. `analyze` on each run, printing the readable summaries (the mesh run's from its interpolated bands);
 //   2. `annotate` on each run (writes <file>.valleys.json beside each EIGENVAL; a second run changes nothing),
 //      when the command exists;
 //      then `check` over fixtures/demo (the annotations must be fresh), as text and as a review comment
@@ -50,7 +50,10 @@ const strainRuns = existsSync(strainDir)
       .map((d) => join(strainDir, d.name))
       .sort()
   : [];
-const runs = [join(demo, 'si-bulk'), join(demo, 'gaas-bulk'), ...strainRuns].filter((p) => existsSync(p));
+// The mesh run (tessellite-mesh): an ordinary self-consistent run on a 12×12×12 mesh, no band path; its
+// edges and masses come from the interpolated bands.
+const meshRun = join(demo, 'tessellite-mesh');
+const runs = [join(demo, 'si-bulk'), join(demo, 'gaas-bulk'), ...strainRuns, meshRun].filter((p) => existsSync(p));
 if (runs.length === 0) {
   console.error('fixtures/demo holds no runs: regenerate them with "npm run fixtures".');
   process.exit(1);
@@ -58,7 +61,8 @@ if (runs.length === 0) {
 
 console.log('Valleyscope demo: the Brightwater Lattice Group reviews its model runs.');
 console.log('(An invented scenario: the group does not exist, and the data are bands of the Cohen & Bergstresser');
-console.log('empirical pseudopotential model written in VASP layouts; see fixtures/demo/README.md.)');
+console.log('empirical pseudopotential model, and of a tight-binding model of our own for the fictitious');
+console.log('tessellite mesh run, written in VASP layouts; see fixtures/demo/README.md.)');
 
 // Which commands does this build have?
 const help = runCli(['--help'], { quiet: true }).stdout ?? '';

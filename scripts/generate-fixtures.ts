@@ -27,6 +27,7 @@ import {
   writeLineModeKpoints,
   writePoscar,
 } from '../test/support/writers/vasp';
+import { demoMeshRunFiles } from './meshModel/demoMeshRun';
 
 /** Si elastic constants C11 = 165.8 GPa, C12 = 63.9 GPa (memory; handbook values at room temperature). */
 export const SI_C12_OVER_C11 = 63.9 / 165.8;
@@ -273,6 +274,7 @@ export function generateFixtures(): GeneratedFile[] {
       ),
     );
   });
+  files.push(...demoMeshRunFiles());
   return files;
 }
 

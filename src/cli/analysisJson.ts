@@ -15,7 +15,8 @@ export function analysisJson(bs: BandStructure, report: Report, mode: EnergyZero
   json.energyZero = { requested: zero.requested, used: zero.used, eV: zero.eV, reason: zero.reason };
   json.extrema = (json.extrema as Record<string, unknown>[]).map((x, i) => ({
     ...x,
-    pathPosition: pathPosition(report.extrema[i]!.k, lines),
+    // A mesh run has no path: its extrema carry their place on a labelled line from Γ themselves.
+    pathPosition: pathPosition(report.extrema[i]!.k, lines) ?? report.extrema[i]!.position ?? null,
   }));
   return json;
 }

@@ -144,6 +144,8 @@ export interface BandPoint {
   k: Vec3;
   eV: number;
   label: string | null;
+  /** Mesh runs: the point's place on a labelled line from Γ ("0.85 Γ→X"), when it lies on one. */
+  position?: string | null;
 }
 
 export interface DirectGap {
@@ -157,6 +159,9 @@ export interface GapReport {
   vbm: BandPoint;
   cbm: BandPoint;
   directGap: DirectGap;
+  /** Mesh runs: 'interpolated' when the edges come from the interpolated bands, with the gap's uncertainty (eV; null when unknown). */
+  source?: 'interpolated';
+  uncertainty_eV?: number | null;
 }
 
 export interface MassFit {
@@ -188,6 +193,8 @@ export interface MassFit {
    * setting, and how far the two masses lie apart. An uncertainty from method disagreement, not a stderr.
    */
   methodSpread?: MethodSpread;
+  /** Mesh runs: the mass is a principal mass of the interpolated band's analytic Hessian (stderr: its leave-one-out uncertainty). */
+  source?: 'interpolated';
 }
 
 /** Disagreement of a finite-difference mass with another method on the same samples. */
@@ -210,8 +217,12 @@ export interface MassTensor {
   method: string;
   points?: number;
   residual_meV?: number;
-  /** Standard errors of the principal masses, m_e. */
+  /** Standard errors of the principal masses, m_e (interpolated tensors: the leave-one-out uncertainty). */
   stderr?: Vec3;
+  /** Mesh runs: the tensor is the interpolated band's analytic Hessian; whether its masses can be quoted, and why not. */
+  source?: 'interpolated';
+  determined?: boolean;
+  undeterminedReason?: string;
 }
 
 export type ExtremumKind = 'vbm' | 'cbm' | 'valley' | 'peak';
@@ -238,7 +249,35 @@ export interface ExtremumReport extends BandPoint {
   dosMassPathLimited?: { error: number };
   /** At a degenerate extremum of a cubic crystal sampled off the path: the warped-band fit (tensorRun.ts). */
   warping?: WarpingFitReport;
+  /** Mesh runs: what the interpolation adds (its uncertainties, whether it resolved the extremum). */
+  interpolated?: InterpolatedExtremumInfo;
   warnings: string[];
+}
+
+/** An extremum found on the interpolated bands of a mesh run: its uncertainties (leave-one-out). */
+export interface InterpolatedExtremumInfo {
+  /** Largest change of the energy when a star of nearby mesh points is left out, eV (null when unknown). */
+  energyUncertainty_eV: number | null;
+  /** Largest change of the position, Å⁻¹. */
+  positionUncertainty_invA: number | null;
+  /** False when the mesh has an extremum here that the interpolation does not resolve (mesh energy, no masses). */
+  resolved: boolean;
+  /** 1-based bands within the interpolation's error of this one here. */
+  touchingBands: number[];
+}
+
+/** How a mesh run was interpolated (Report.interpolation). */
+export interface MeshInterpolationReport {
+  method: string;
+  /** The published method, named. */
+  reference: string;
+  divisions: Vec3;
+  /** 0 or ½ per axis. */
+  shift: Vec3;
+  irreduciblePoints: number;
+  stars: number;
+  /** 1-based bands interpolated (first, last), per spin channel in order. */
+  bands: [number, number][];
 }
 
 /** Insulator/metal/semimetal classification of one spin channel (spin-polarised runs). */
@@ -312,4 +351,6 @@ export interface Report {
   cautions: string[];
   /** Candidates that are not extrema (saddles, crossings, path ends, rounding): never valleys or peaks. */
   rejected?: RejectedCandidate[];
+  /** Mesh runs whose bands were interpolated to find the edges and masses. */
+  interpolation?: MeshInterpolationReport;
 }

@@ -14,6 +14,7 @@ import { CancelledError } from '../core/errors';
 import { WorkspaceFileAccessor } from './fileAccessor';
 import { fromJobError, prepareAnalysis, runAnalysisJob, type AnalysisJob, type AnalysisOutcome } from './analysisJob';
 import type { WorkerReply } from './workerMessages';
+import { meshRunForView } from './meshRunView';
 
 export interface LoadedRun {
   /** The URI the user opened (a file or a run folder). */
@@ -80,7 +81,9 @@ export async function loadAndAnalyze(
     if (stream) job.streamFrom = fileUri.fsPath;
     const size = stream ? st.size : bytes.byteLength;
     const useWorker = workerAvailable && size >= opts.workerThresholdBytes;
-    const out = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, token, progress);
+    const done = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, token, progress);
+    // A mesh run is shown as its interpolated bands along the standard path (meshRunView.ts).
+    const out = meshRunForView(done, opts.settings);
     const notice = otherCandidatesNotice(loc);
     if (notice) out.report.warnings.push(notice);
     progress(1, 'path geometry');

@@ -12,6 +12,7 @@ import { localRun } from './localRun';
 import { analyzeExtrema, analyzePocketExtrema } from './massEngine';
 import { symmetryContext } from './valleyCount';
 import { valleyRepresentative } from '../lattice/valleyIdentity';
+import { analyzeMeshRun, mayBeMeshRun, meshRunCautions } from './meshRunAnalysis';
 
 export interface AnalysisSettings {
   /** Energy window of the parabola fit, meV. */
@@ -85,7 +86,9 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
       report.spinGaps = edges.spins.map((e, i) => gapReport(bs, occ, e.vbm, e.cbm, e.metal, [i]));
     }
     const local = localRun(bs);
-    if (gap) analyzeExtrema(bs, report, s, { occ, edges });
+    // A mesh run: edges and masses from the interpolated bands; otherwise (or when it cannot be interpolated) the points as they are.
+    if (gap && !(mayBeMeshRun(bs, local !== null) && analyzeMeshRun(bs, report, s, { occ, edges }) === null))
+      analyzeExtrema(bs, report, s, { occ, edges });
     else if (metal && cls.fermi_eV !== null) {
       const crossing = cls.spins.flatMap((v) => v.crossing.map((band) => ({ spin: v.spin, band })));
       analyzePocketExtrema(bs, report, s, crossing, cls.fermi_eV);
@@ -110,7 +113,7 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
     }
   }
   if (bs.partial) warnings.push('Partial data: the file is incomplete, so these results are provisional.');
-  report.cautions = standardCautions(bs, report);
+  report.cautions = [...standardCautions(bs, report), ...meshRunCautions(report)];
   if (bs.bandNumberOffset) renumberBands(report, bs.bandNumberOffset);
   return report;
 }

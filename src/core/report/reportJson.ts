@@ -2,7 +2,17 @@
  * The JSON shape of a Report (the CLI contract): plain objects with keys in a fixed order, numbers rounded
  * to what the quantity can carry so output is stable.
  */
-import type { BandPoint, ExtremumReport, GapReport, MassFit, MassTensor, RejectedCandidate, Report, WarpingFitReport } from '../model';
+import type {
+  BandPoint,
+  ExtremumReport,
+  GapReport,
+  InterpolatedExtremumInfo,
+  MassFit,
+  MassTensor,
+  RejectedCandidate,
+  Report,
+  WarpingFitReport,
+} from '../model';
 
 const r = (x: number, digits: number): number => {
   if (!Number.isFinite(x)) return x;
@@ -16,7 +26,9 @@ const e6 = (x: number): number => {
 const kvec = (k: readonly number[]): number[] => k.map((x) => e6(x));
 
 export function pointJson(p: BandPoint): Record<string, unknown> {
-  return { band: p.band, spin: p.spin, k: kvec(p.k), eV: e6(p.eV), label: p.label };
+  const o: Record<string, unknown> = { band: p.band, spin: p.spin, k: kvec(p.k), eV: e6(p.eV), label: p.label };
+  if (p.position !== undefined) o.position = p.position;
+  return o;
 }
 
 export function gapJson(g: GapReport | null): Record<string, unknown> | null {
@@ -27,6 +39,7 @@ export function gapJson(g: GapReport | null): Record<string, unknown> | null {
     vbm: pointJson(g.vbm),
     cbm: pointJson(g.cbm),
     directGap: { eV: e6(g.directGap.eV), k: kvec(g.directGap.k) },
+    ...(g.source ? { source: g.source, uncertainty_eV: g.uncertainty_eV == null ? null : r(g.uncertainty_eV, 3) } : {}),
   };
 }
 
@@ -46,6 +59,7 @@ export function massJson(m: MassFit): Record<string, unknown> {
   o.determined = m.determined;
   if (!m.determined && m.undeterminedReason) o.undeterminedReason = m.undeterminedReason;
   if (m.warnings && m.warnings.length) o.warnings = m.warnings;
+  if (m.source) o.source = m.source;
   return o;
 }
 
@@ -59,6 +73,11 @@ export function tensorJson(t: MassTensor | null): Record<string, unknown> | null
   if (t.points !== undefined) o.points = t.points;
   if (t.residual_meV !== undefined) o.residual_meV = r(t.residual_meV, 3);
   if (t.stderr !== undefined) o.stderr = t.stderr.map((x) => r(x, 3));
+  if (t.source) {
+    o.source = t.source;
+    o.determined = t.determined ?? true;
+    if (t.determined === false && t.undeterminedReason) o.undeterminedReason = t.undeterminedReason;
+  }
   return o;
 }
 
@@ -75,6 +94,7 @@ export function extremumJson(e: ExtremumReport): Record<string, unknown> {
     conductivityMass: e.conductivityMass === null ? null : r(e.conductivityMass, 6),
     ...(e.dosMassPathLimited ? { dosMassPathLimited: { error: r(e.dosMassPathLimited.error, 4) } } : {}),
     ...(e.warping ? { warping: warpingJson(e.warping) } : {}),
+    ...(e.interpolated ? { interpolated: interpolatedJson(e.interpolated) } : {}),
     warnings: e.warnings,
   };
 }
@@ -97,6 +117,17 @@ export function warpingJson(w: WarpingFitReport): Record<string, unknown> {
     residual_meV: r(w.residual_meV, 3),
     heavy: side(w.heavy),
     light: side(w.light),
+  };
+}
+
+/** What the interpolation adds to an extremum of a mesh run. */
+export function interpolatedJson(x: InterpolatedExtremumInfo): Record<string, unknown> {
+  const u = (v: number | null): number | null => (v === null ? null : r(v, 3));
+  return {
+    energyUncertainty_eV: u(x.energyUncertainty_eV),
+    positionUncertainty_invA: u(x.positionUncertainty_invA),
+    resolved: x.resolved,
+    touchingBands: x.touchingBands,
   };
 }
 
@@ -134,6 +165,7 @@ export function reportToJson(rep: Report): Record<string, unknown> {
     }));
   }
   if (rep.rejected) o.rejected = rep.rejected.map(rejectedJson);
+  if (rep.interpolation) o.interpolation = { ...rep.interpolation };
   o.warnings = rep.warnings;
   o.cautions = rep.cautions;
   return o;

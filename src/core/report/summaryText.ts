@@ -1,6 +1,7 @@
 /** The readable summary of a Report: what `valleyscope analyze` prints without --json. */
 import type { BandPoint, ExtremumReport, MassFit, RejectedCandidate, Report } from '../model';
 import { energyZeroName, type EnergyZero } from './energyZero';
+import { gapUncertaintyText, interpolatedMassLines, interpolationLine } from './meshRunText';
 
 /** How the summary shows energies and positions (both optional: raw energies, fractional k only). */
 export interface SummaryOptions {
@@ -23,7 +24,7 @@ export function fmt(x: number, digits: number): string {
 
 export function describePoint(p: BandPoint, o: SummaryOptions = {}): string {
   const spin = o.spinPolarised ? ` (spin ${p.spin === 1 ? 'down' : 'up'})` : p.spin === 1 ? ' (spin down)' : '';
-  const place = p.label ? `${p.label} ` : o.positionOf ? (o.positionOf(p.k) ?? '').replace(/(.+)/, '$1 ') : '';
+  const place = p.label ? `${p.label} ` : ((o.positionOf?.(p.k) ?? p.position ?? '') || '').replace(/(.+)/, '$1 ');
   return `band ${p.band}${spin} at ${place}${formatK(p.k)}, ${fmt(p.eV - (o.zero?.eV ?? 0), 4)} eV`;
 }
 
@@ -68,14 +69,16 @@ function extremumBlock(e: ExtremumReport, o: SummaryOptions, metal = false): str
   if (e.degenerateBands > 1) lines.push(`    ${e.degenerateBands} degenerate bands at this point`);
   if (e.valleyDegeneracy !== null) lines.push(`    valley degeneracy N_v = ${e.valleyDegeneracy}`);
   const atMax = e.kind === 'vbm' || e.kind === 'peak';
-  if (e.masses.length) {
+  const interpolated = interpolatedMassLines(e);
+  if (interpolated) lines.push(...interpolated);
+  else if (e.masses.length) {
     lines.push('    directional masses (signed curvature masses; negative at a maximum):');
     for (const m of e.masses) {
       lines.push(massLine(m, atMax));
       for (const w of m.warnings ?? []) lines.push(`        ! ${w}`);
     }
   }
-  if (e.tensor) {
+  if (e.tensor && !interpolated) {
     lines.push(`    mass tensor (${e.tensor.method}): principal ${e.tensor.principal.map((x) => fmt(x, 3)).join(', ')} m_e`);
     e.tensor.axes.forEach((a, i) =>
       lines.push(
@@ -130,7 +133,7 @@ export function summaryText(r: Report, options: SummaryOptions = {}): string {
     if (r.classificationReason) out.push(`    ${r.classificationReason}`);
   } else if (r.gap) {
     const g = r.gap;
-    out.push(`  Band gap ${fmt(g.eV, 4)} eV, ${g.direct ? 'direct' : 'indirect'}`);
+    out.push(`  Band gap ${fmt(g.eV, 4)} eV${gapUncertaintyText(g)}, ${g.direct ? 'direct' : 'indirect'}`);
     out.push(`    VBM: ${describePoint(g.vbm, o)}`);
     out.push(`    CBM: ${describePoint(g.cbm, o)}`);
     out.push(`    smallest direct gap ${fmt(g.directGap.eV, 4)} eV at ${formatK(g.directGap.k)}`);
@@ -150,6 +153,8 @@ export function summaryText(r: Report, options: SummaryOptions = {}): string {
       out.push(`  spin ${s === 0 ? 'up' : 'down'}: ${what}`);
     });
   }
+  const mesh = interpolationLine(r);
+  if (mesh) out.push(mesh);
   if (r.extrema.length) {
     out.push('  Extrema:');
     for (const e of r.extrema) out.push(...extremumBlock(e, o, r.metal === true));

@@ -1,0 +1,108 @@
+/**
+ * One extremum of an interpolated mesh run as the Report states it: the principal masses of the interpolant's
+ * analytic Hessian (as directional masses along the principal axes and as a tensor), each marked
+ * `source: 'interpolated'` with its leave-one-out uncertainty and whether it can be quoted.
+ */
+import type { ExtremumKind, ExtremumReport, MassFit, RejectedCandidate } from '../model';
+import type { InterpolatedExtremum, RejectedStationaryPoint } from '../interpolation/meshInterpolation';
+
+/** The method id of masses from the interpolated bands (not a curvature fit: no window). */
+export const STAR_INTERPOLATION = 'star-interpolation';
+/** The published method, as the report names it. */
+export const STAR_INTERPOLATION_REFERENCE =
+  'star-function interpolation through the mesh energies with minimum Pickett–Krakauer–Allen roughness (Shankland 1971; Koelling & Wood, J. Comput. Phys. 67, 253 (1986); Pickett, Krakauer & Allen, Phys. Rev. B 38, 2721 (1988))';
+
+export interface MeshExtremumContext {
+  spin: 0 | 1;
+  /** 0-based band of the run that is band 0 of the interpolation. */
+  firstBand: number;
+  /** Irreducible data points of the fit (the provenance of each mass). */
+  points: number;
+  /** The special point's label at k, when k is one. */
+  labelOf: (k: readonly number[]) => string | null;
+}
+
+const axisText = (a: readonly number[]): string => `(${a.map((x) => (Math.abs(x) < 5e-4 ? 0 : x).toFixed(3)).join(', ')})`;
+
+/** The principal masses as directional masses along their axes (empty when the extremum has no masses). */
+export function principalMassFits(x: InterpolatedExtremum, points: number): MassFit[] {
+  if (!x.resolved) return [];
+  return x.masses.map((mass, i) => ({
+    towards: `principal axis ${i + 1} ${axisText(x.axes[i]!)}`,
+    direction: [...x.axes[i]!],
+    mass,
+    stderr: x.uncertainty.masses[i]!,
+    points,
+    window_meV: 0,
+    method: STAR_INTERPOLATION,
+    determined: x.determined,
+    ...(x.determined ? {} : { undeterminedReason: x.undeterminedReason ?? 'The interpolation cannot support this mass.' }),
+    source: 'interpolated' as const,
+  }));
+}
+
+export function meshExtremumReport(
+  x: InterpolatedExtremum,
+  kind: ExtremumKind,
+  edge_eV: number,
+  degenerateBands: number,
+  ctx: MeshExtremumContext,
+): ExtremumReport {
+  const finite = (v: number): number | null => (Number.isFinite(v) ? v : null);
+  return {
+    band: ctx.firstBand + x.band + 1,
+    spin: ctx.spin,
+    k: [...x.k],
+    eV: x.energy_eV,
+    label: ctx.labelOf(x.k),
+    position: x.position,
+    kind,
+    offset_eV: Math.abs(x.energy_eV - edge_eV),
+    degenerateBands,
+    valleyDegeneracy: x.valleyDegeneracy,
+    masses: principalMassFits(x, ctx.points),
+    tensor: x.resolved
+      ? {
+          principal: [...x.masses],
+          axes: [[...x.axes[0]], [...x.axes[1]], [...x.axes[2]]],
+          method: STAR_INTERPOLATION,
+          points: ctx.points,
+          stderr: [...x.uncertainty.masses],
+          source: 'interpolated',
+          determined: x.determined,
+          ...(x.determined ? {} : { undeterminedReason: x.undeterminedReason ?? 'The interpolation cannot support these masses.' }),
+        }
+      : null,
+    dosMass: x.dosMass,
+    conductivityMass: x.conductivityMass,
+    interpolated: {
+      energyUncertainty_eV: finite(x.uncertainty.energy_eV),
+      positionUncertainty_invA: finite(x.uncertainty.position_invA),
+      resolved: x.resolved,
+      touchingBands: x.touching.map((b) => ctx.firstBand + b + 1),
+    },
+    warnings: [...x.warnings],
+  };
+}
+
+const REJECT_DETAIL: Record<RejectedStationaryPoint['reason'], [RejectedCandidate['reason'], string] | null> = {
+  saddle: ['saddle', 'the interpolated band is stationary here but curves both ways'],
+  crossing: ['crossing', 'another band comes within the interpolation’s error here: no extremum is placed at a crossing'],
+  flat: ['shallow', 'the interpolated band is too flat here to place an extremum'],
+  // A Newton refinement that left the neighbourhood of its mesh start found nothing there: not a candidate.
+  escaped: null,
+};
+
+/** A stationary point the interpolation set aside, as a Report candidate (null for refinements that wandered off). */
+export function meshRejected(x: RejectedStationaryPoint, ctx: MeshExtremumContext): RejectedCandidate | null {
+  const why = REJECT_DETAIL[x.reason];
+  if (!why) return null;
+  return {
+    band: ctx.firstBand + x.band + 1,
+    spin: ctx.spin,
+    k: [...x.k],
+    eV: x.energy_eV,
+    reason: why[0],
+    detail: `Interpolated ${x.kind === 'min' ? 'minimum' : 'maximum'} candidate: ${why[1]}.`,
+  };
+}
