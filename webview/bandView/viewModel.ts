@@ -62,7 +62,10 @@ export function buildViewModel(data: BandData): ViewModel {
   const labelAt = new Map<number, string>();
   for (const t of data.ticks) labelAt.set(t.kIndex, t.label);
   const labelled = (k: number): boolean => labelAt.has(k);
-  const extrema = findLocalExtrema(energies, nBands, pieces, labelled);
+  // Time-reversal-invariant k (every fractional coordinate a multiple of 1/2): where the core places a plateau.
+  const invariant = (k: number): boolean =>
+    [0, 1, 2].every((c) => Math.abs(2 * kpoints[3 * k + c]! - Math.round(2 * kpoints[3 * k + c]!)) <= 1e-6);
+  const extrema = findLocalExtrema(energies, nBands, pieces, labelled, invariant);
   let energyMin = Infinity;
   let energyMax = -Infinity;
   for (const e of energies) {
