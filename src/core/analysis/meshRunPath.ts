@@ -1,54 +1,14 @@
 /**
  * A mesh run drawn like a path run: its interpolated bands sampled along the standard path of its lattice
- * (special points and paths of Setyawan & Curtarolo, Comput. Mater. Sci. 49, 299 (2010), paths as recalled
- * (memory)), as a path BandStructure that the band view draws and fits like any other. The energies are the
+ * (lattice/standardPaths.ts), as a path BandStructure that the band view draws and fits like any other. The energies are the
  * interpolant's, not computed ones: the caution returned with it says so.
  */
 import type { BandStructure, KLabel, Vec3 } from '../model';
 import { interpolateRun } from '../interpolation/fromBandStructure';
 import { starValues } from '../interpolation/starBasis';
 import type { MeshInterpolation } from '../interpolation/meshInterpolation';
-import type { LabelledLatticeKind, SpecialPointMap } from '../lattice/specialPoints';
-
-/** The standard paths: continuous pieces of labels (a jump between pieces). */
-export const STANDARD_PATHS: Record<LabelledLatticeKind, string[][]> = {
-  CUB: [
-    ['Γ', 'X', 'M', 'Γ', 'R', 'X'],
-    ['M', 'R'],
-  ],
-  FCC: [
-    ['Γ', 'X', 'W', 'K', 'Γ', 'L', 'U', 'W', 'L', 'K'],
-    ['U', 'X'],
-  ],
-  BCC: [
-    ['Γ', 'H', 'N', 'Γ', 'P', 'H'],
-    ['P', 'N'],
-  ],
-  HEX: [
-    ['Γ', 'M', 'K', 'Γ', 'A', 'L', 'H', 'A'],
-    ['L', 'M'],
-    ['K', 'H'],
-  ],
-  TET: [
-    ['Γ', 'X', 'M', 'Γ', 'Z', 'R', 'A', 'Z'],
-    ['X', 'R'],
-    ['M', 'A'],
-  ],
-  BCT1: [
-    ['Γ', 'X', 'M', 'Γ', 'Z', 'P', 'N', 'Z₁', 'M'],
-    ['X', 'P'],
-  ],
-  BCT2: [
-    ['Γ', 'X', 'Y', 'Σ', 'Γ', 'Z', 'Σ₁', 'N', 'P', 'Y₁', 'Z'],
-    ['X', 'P'],
-  ],
-  ORC: [
-    ['Γ', 'X', 'S', 'Y', 'Γ', 'Z', 'U', 'R', 'T', 'Z'],
-    ['Y', 'T'],
-    ['U', 'X'],
-    ['S', 'R'],
-  ],
-};
+import type { SpecialPointMap } from '../lattice/specialPoints';
+import { STANDARD_PATHS } from '../lattice/standardPaths';
 
 export interface MeshRunPathOptions {
   /** Points along the whole path (shared by the segments by length). */
