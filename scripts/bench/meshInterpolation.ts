@@ -1,7 +1,8 @@
 /**
  * Benchmark (not a test): a 24×24×24 Γ-centred mesh of the diamond structure (413 irreducible points) with
- * `nb` bands, interpolated band by band (src/core/interpolation) and the two edge bands analysed (extrema,
- * leave-one-out), against JSON.parse of the same energies written as JSON. Prints the ratio.
+ * `nb` bands, generated in memory; the interpolation set up (src/core/interpolation) and the two edge bands
+ * analysed (extrema anywhere in the zone with their leave-one-out uncertainty), against JSON.parse of the same
+ * energies written as JSON. Prints the ratios (cold: star basis built; warm: cached) beside the goal (< 10).
  * The band energies are smooth periodic functions made up for timing only (not physics).
  * Usage: nice -n 10 npx tsx scripts/bench/meshInterpolation.ts [nb=400] [n=24]
  */
@@ -51,27 +52,35 @@ async function main(): Promise<void> {
     JSON.parse(json);
     parseMs = Math.min(parseMs, performance.now() - t);
   }
-  const t0 = performance.now();
-  const made = MeshInterpolation.create({ lattice, kpoints, weights, bands, sym });
-  if (!made.run) throw new Error(made.reason);
-  const t1 = performance.now();
-  for (let band = 0; band < nb; band++) made.run.band(band);
-  const t2 = performance.now();
+  // The analysis needs only the bands at the edges: the valence top and conduction bottom (and their
+  // neighbours, fitted to check for touching bands). Run twice: cold (star basis built) and warm (the star
+  // basis of this lattice cached, as for a second run of the same crystal).
   const edge = Math.floor(nb / 2);
-  made.run.extrema(edge - 1, 'max');
-  made.run.extrema(edge, 'min');
-  const t3 = performance.now();
+  const runs: Record<string, number>[] = [];
+  for (const label of ['cold', 'warm']) {
+    const t0 = performance.now();
+    const made = MeshInterpolation.create({ lattice, kpoints, weights, bands, sym });
+    if (!made.run) throw new Error(made.reason);
+    const t1 = performance.now();
+    const top = made.run.extrema(edge - 1, 'max');
+    const bottom = made.run.extrema(edge, 'min');
+    const t2 = performance.now();
+    runs.push({ setupMs: Math.round(t1 - t0), edgeExtremaMs: Math.round(t2 - t1), found: top.extrema.length + bottom.extrema.length });
+    if (label === 'cold') runs[0]!.totalMs = t2 - t0;
+    else runs[1]!.totalMs = t2 - t0;
+  }
+  const [cold, warm] = runs as [Record<string, number>, Record<string, number>];
   console.log(
     JSON.stringify({
       mesh: `${n}×${n}×${n}`,
       irreducible: nk,
       bands: nb,
-      stars: made.run.fit.basis.count,
-      setupMs: Math.round(t1 - t0),
-      fitAllBandsMs: Math.round(t2 - t1),
-      edgeExtremaMs: Math.round(t3 - t2),
       jsonParseMs: Number(parseMs.toFixed(1)),
-      ratio: Number(((t3 - t0) / parseMs).toFixed(1)),
+      cold: { ...cold, totalMs: Math.round(cold.totalMs!) },
+      warm: { ...warm, totalMs: Math.round(warm.totalMs!) },
+      ratioCold: Number((cold.totalMs! / parseMs).toFixed(1)),
+      ratioWarm: Number((warm.totalMs! / parseMs).toFixed(1)),
+      goal: 'ratio < 10',
     }),
   );
 }

@@ -102,7 +102,7 @@ export class MeshInterpolation {
     const stars = Math.max(2, Math.round((input.starsPerPoint ?? DEFAULT_STARS_PER_POINT) * nk));
     const basis = buildStarBasis(input.lattice, input.sym.pointGroup, stars);
     this.kCart = toCartesian(input.kpoints, this.reciprocal);
-    this.fit = new SmoothStarFit(basis, this.kCart);
+    this.fit = new SmoothStarFit(basis, this.kCart, { mesh, kFrac: input.kpoints });
     this.halfSpacing = 0.5 * Math.min(...this.reciprocal.map((b, i) => Math.hypot(...b) / mesh.divisions[i]!));
   }
 

@@ -1,0 +1,165 @@
+/**
+ * The star-function fit on a regular mesh by discrete Fourier sums instead of star values at each data point.
+ *
+ * On a mesh k = (j + s)/n (fractional, per axis) every phase k·R of a lattice vector R = Σ n_a a_a is
+ * 2π Σ_a (j_a + s_a) n_a / n_a-divisions, so sums over the mesh of f(k) cos(k·R) are discrete Fourier transforms
+ * evaluated at R modulo the mesh. With the stars closed under the group and inversion (starBasis.ts), and
+ * star(i) the mesh points that irreducible point i stands for (c_i of them):
+ *   - the fit's matrix H_ij = Σ_{m≥1} S_m(k_i) S_m(k_j)/ρ_m equals (1/c_i) Σ_{q∈star(i)} F(q − k_j), with
+ *     F(p) = Σ_{R≠0} cos(p·R) / (ρ(R) n(R)) a function on the Γ-centred mesh of differences: one transform
+ *     of the folded roughness weights replaces the N² M products of the direct sum;
+ *   - a coefficient Σ_i μ_i S_m(k_i) equals Σ_q ν(q) cos(q·R_m), ν(q) = μ_i / c_i on star(i): one transform
+ *     of ν per band, read at each star's representative R_m.
+ * Both identities use only that S_m is invariant under the operations that map the mesh onto itself.
+ */
+import type { RegularMesh } from './regularMesh';
+import type { StarBasis } from './starBasis';
+
+/** In-place discrete Fourier transform X[p] = Σ_j x[j] exp(+2πi p·j/n) over the three mesh axes. */
+export function meshTransform(re: Float64Array, im: Float64Array, dims: readonly [number, number, number]): void {
+  const [n1, n2, n3] = dims;
+  const total = n1 * n2 * n3;
+  const strides = [n2 * n3, n3, 1];
+  for (let axis = 0; axis < 3; axis++) {
+    const n = dims[axis]!;
+    if (n === 1) continue;
+    const stride = strides[axis]!;
+    // Twiddles exp(2πi p t / n) for every (p, t).
+    const wr = new Float64Array(n * n);
+    const wi = new Float64Array(n * n);
+    for (let p = 0; p < n; p++) {
+      for (let t = 0; t < n; t++) {
+        wr[p * n + t] = Math.cos((2 * Math.PI * ((p * t) % n)) / n);
+        wi[p * n + t] = Math.sin((2 * Math.PI * ((p * t) % n)) / n);
+      }
+    }
+    const lineRe = new Float64Array(n);
+    const lineIm = new Float64Array(n);
+    // The lines along the axis start at the indices whose coordinate along it is 0.
+    const outer = total / (n * stride);
+    for (let hi = 0; hi < outer; hi++) {
+      for (let lo = 0; lo < stride; lo++) {
+        const base = hi * n * stride + lo;
+        for (let t = 0; t < n; t++) {
+          lineRe[t] = re[base + t * stride]!;
+          lineIm[t] = im[base + t * stride]!;
+        }
+        for (let p = 0; p < n; p++) {
+          let sr = 0;
+          let si = 0;
+          const o = p * n;
+          for (let t = 0; t < n; t++) {
+            const c = wr[o + t]!;
+            const sn = wi[o + t]!;
+            sr += lineRe[t]! * c - lineIm[t]! * sn;
+            si += lineRe[t]! * sn + lineIm[t]! * c;
+          }
+          re[base + p * stride] = sr;
+          im[base + p * stride] = si;
+        }
+      }
+    }
+  }
+}
+
+const mod = (x: number, n: number): number => ((x % n) + n) % n;
+
+/** Mesh index of each irreducible point (its own position on the mesh), or null if one is off the mesh. */
+export function meshIndexOf(mesh: RegularMesh, kFrac: Float64Array): Int32Array | null {
+  const [, n2, n3] = mesh.divisions;
+  const nk = kFrac.length / 3;
+  const out = new Int32Array(nk);
+  for (let i = 0; i < nk; i++) {
+    const j = [0, 1, 2].map((a) => {
+      const y = kFrac[3 * i + a]! * mesh.divisions[a]! - mesh.shift[a]!;
+      return Math.abs(y - Math.round(y)) < 1e-3 ? mod(Math.round(y), mesh.divisions[a]!) : -1;
+    });
+    if (j.some((x) => x < 0)) return null;
+    out[i] = (j[0]! * n2 + j[1]!) * n3 + j[2]!;
+    if (mesh.irreducibleOf[out[i]!] !== i) return null;
+  }
+  return out;
+}
+
+/** Index on the mesh of lattice vector member j of the basis (its integer coordinates modulo the divisions). */
+function foldedIndex(basis: StarBasis, j: number, dims: readonly number[]): number {
+  const z = basis.integer;
+  return (mod(z[3 * j]!, dims[0]!) * dims[1]! + mod(z[3 * j + 1]!, dims[1]!)) * dims[2]! + mod(z[3 * j + 2]!, dims[2]!);
+}
+
+/**
+ * The fit's matrix H (N × N, row-major) for the stars m ≥ 1 with weights 1/ρ_m (`inverseRoughness`), from one
+ * transform of the folded weights.
+ */
+export function meshFitMatrix(basis: StarBasis, inverseRoughness: Float64Array, mesh: RegularMesh, own: Int32Array): Float64Array {
+  const dims = mesh.divisions;
+  const [, n2, n3] = dims;
+  const re = new Float64Array(mesh.total);
+  const im = new Float64Array(mesh.total);
+  // Each kept member stands for ±R: 2/(ρ n_m) = weight_m/ρ_m on the real part.
+  for (let m = 1; m < basis.count; m++) {
+    const w = basis.weight[m]! * inverseRoughness[m]!;
+    for (let j = basis.start[m]!; j < basis.start[m + 1]!; j++) {
+      const p = foldedIndex(basis, j, dims);
+      re[p] = re[p]! + w;
+    }
+  }
+  meshTransform(re, im, dims);
+  const n = own.length;
+  const h = new Float64Array(n * n);
+  const [n1] = dims;
+  // Coordinates of each data point on the mesh, and of each mesh point.
+  const o1 = new Int32Array(n);
+  const o2 = new Int32Array(n);
+  const o3 = new Int32Array(n);
+  for (let k = 0; k < n; k++) {
+    o3[k] = own[k]! % n3;
+    o2[k] = Math.floor(own[k]! / n3) % n2;
+    o1[k] = Math.floor(own[k]! / (n2 * n3));
+  }
+  for (let a1 = 0, q = 0; a1 < n1; a1++) {
+    for (let a2 = 0; a2 < n2; a2++) {
+      for (let a3 = 0; a3 < n3; a3++, q++) {
+        const i = mesh.irreducibleOf[q]!;
+        const scale = 1 / mesh.starSize[i]!;
+        const row = i * n;
+        // H is symmetric: the lower triangle (k ≤ i) is enough.
+        for (let k = 0; k <= i; k++) {
+          let d1 = a1 - o1[k]!;
+          if (d1 < 0) d1 += n1;
+          let d2 = a2 - o2[k]!;
+          if (d2 < 0) d2 += n2;
+          let d3 = a3 - o3[k]!;
+          if (d3 < 0) d3 += n3;
+          h[row + k] = h[row + k]! + scale * re[(d1 * n2 + d2) * n3 + d3]!;
+        }
+      }
+    }
+  }
+  for (let i = 0; i < n; i++) for (let k = 0; k < i; k++) h[k * n + i] = h[i * n + k]!;
+  return h;
+}
+
+/** Σ_i μ_i S_m(k_i) for every star m, from one transform of μ spread over the mesh. */
+export function meshStarSums(basis: StarBasis, mesh: RegularMesh, mu: ArrayLike<number>): Float64Array {
+  const dims = mesh.divisions;
+  const re = new Float64Array(mesh.total);
+  const im = new Float64Array(mesh.total);
+  for (let q = 0; q < mesh.total; q++) {
+    const i = mesh.irreducibleOf[q]!;
+    re[q] = mu[i]! / mesh.starSize[i]!;
+  }
+  meshTransform(re, im, dims);
+  const out = new Float64Array(basis.count);
+  const z = basis.integer;
+  for (let m = 0; m < basis.count; m++) {
+    const j = basis.start[m]!;
+    const p = foldedIndex(basis, j, dims);
+    // The mesh shift s adds the phase 2π Σ_a s_a n_a / n_a.
+    let phase = 0;
+    for (let a = 0; a < 3; a++) phase += (mesh.shift[a]! * z[3 * j + a]!) / dims[a]!;
+    phase *= 2 * Math.PI;
+    out[m] = re[p]! * Math.cos(phase) - im[p]! * Math.sin(phase);
+  }
+  return out;
+}
