@@ -25,6 +25,15 @@ export interface MeshLayout {
   kFrac: Float64Array;
 }
 
+interface Solution {
+  lambda: Float64Array;
+  sums: Float64Array;
+  energies?: Float64Array;
+}
+
+/** Left-out points whose corrections are kept. */
+const MAX_CORRECTIONS = 64;
+
 export class SmoothStarFit {
   readonly n: number;
   /** S_m(k_i), row-major N × M, when the data are not laid out on a mesh (else null). */
@@ -34,6 +43,8 @@ export class SmoothStarFit {
   /** H_ij = Σ_{m≥1} S_m(k_i) S_m(k_j)/ρ_m, N × N. */
   private readonly h: Float64Array;
   private factorL: Float64Array | null = null;
+  private readonly solutions = new WeakMap<object, Solution>();
+  private readonly corrections = new Map<number, Solution>();
   private readonly referenceStars = new Map<number, Float64Array>();
 
   /**
@@ -107,25 +118,19 @@ export class SmoothStarFit {
     if (exclude !== null && !(Number.isInteger(exclude) && exclude >= 0 && exclude < n)) {
       throw new RangeError(`There is no data point ${exclude + 1} to leave out.`);
     }
-    const size = n - 1;
-    const factor = this.factor();
-    const rhs = new Float64Array(size);
-    for (let a = 0; a < size; a++) rhs[a] = energies[a + 1]! - energies[0]!;
-    const lambda = choleskySolve(factor, size, rhs);
+    // Everything is linear in the multipliers: Σ_i μ_i S_m(k_i) of the band's solution x, less f times that of z.
+    const base = this.solved(energies);
+    let c = base.sums;
     if (exclude !== null) {
-      const unit = new Float64Array(size);
-      if (exclude > 0) unit[exclude - 1] = 1;
-      else unit.fill(1);
-      const z = choleskySolve(factor, size, unit);
-      const f = exclude > 0 ? lambda[exclude - 1]! / z[exclude - 1]! : sum(lambda) / sum(z);
-      for (let a = 0; a < size; a++) lambda[a] = lambda[a]! - f * z[a]!;
-      if (exclude > 0) lambda[exclude - 1] = 0;
+      const out = this.leftOut(exclude);
+      const x = base.lambda;
+      const z = out.lambda;
+      const f = exclude > 0 ? x[exclude - 1]! / z[exclude - 1]! : sum(x) / sum(z);
+      c = new Float64Array(c.length);
+      for (let j = 0; j < c.length; j++) c[j] = base.sums[j]! - f * out.sums[j]!;
+    } else {
+      c = c.slice();
     }
-    // μ_i: the multipliers, with μ_0 = −Σ λ (the reference's share of the differences).
-    const mu = new Float64Array(n);
-    mu.set(lambda, 1);
-    mu[0] = exclude === 0 ? 0 : -sum(lambda);
-    const c = this.starSums(mu);
     // The constant: the interpolant passes through a kept point r.
     const r = exclude === 0 ? 1 : 0;
     const sr = this.starsAt(r);
@@ -136,6 +141,43 @@ export class SmoothStarFit {
     }
     c[0] = c0;
     return new StarInterpolant(this.basis, c);
+  }
+
+  /** The multipliers λ of a band and their star sums (kept per energies array: leave-one-out reuses them). */
+  private solved(energies: ArrayLike<number>): Solution {
+    const key = typeof energies === 'object' ? (energies as object) : null;
+    const hit = key ? this.solutions.get(key) : undefined;
+    // Kept with a copy of the energies: an array changed in place is solved again.
+    if (hit && hit.energies!.every((e, i) => e === energies[i])) return hit;
+    const size = this.n - 1;
+    const rhs = new Float64Array(size);
+    for (let a = 0; a < size; a++) rhs[a] = energies[a + 1]! - energies[0]!;
+    const out = { ...this.withSums(choleskySolve(this.factor(), size, rhs)), energies: Float64Array.from(energies) };
+    if (key) this.solutions.set(key, out);
+    return out;
+  }
+
+  /** z = A⁻¹ e_p (p > 0) or A⁻¹ 1 (p = 0) and its star sums: the same for every band. */
+  private leftOut(p: number): Solution {
+    let hit = this.corrections.get(p);
+    if (!hit) {
+      const size = this.n - 1;
+      const unit = new Float64Array(size);
+      if (p > 0) unit[p - 1] = 1;
+      else unit.fill(1);
+      hit = this.withSums(choleskySolve(this.factor(), size, unit));
+      if (this.corrections.size >= MAX_CORRECTIONS) this.corrections.delete(this.corrections.keys().next().value!);
+      this.corrections.set(p, hit);
+    }
+    return hit;
+  }
+
+  /** μ_i (the multipliers, with μ_0 = −Σ λ, the reference's share of the differences) and Σ_i μ_i S_m(k_i). */
+  private withSums(lambda: Float64Array): Solution {
+    const mu = new Float64Array(this.n);
+    mu.set(lambda, 1);
+    mu[0] = -sum(lambda);
+    return { lambda, sums: this.starSums(mu) };
   }
 
   /** Σ_i μ_i S_m(k_i) for every star. */
