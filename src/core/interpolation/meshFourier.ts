@@ -24,41 +24,94 @@ export function meshTransform(re: Float64Array, im: Float64Array, dims: readonly
     const n = dims[axis]!;
     if (n === 1) continue;
     const stride = strides[axis]!;
-    // Twiddles exp(2πi p t / n) for every (p, t).
-    const wr = new Float64Array(n * n);
-    const wi = new Float64Array(n * n);
-    for (let p = 0; p < n; p++) {
-      for (let t = 0; t < n; t++) {
-        wr[p * n + t] = Math.cos((2 * Math.PI * ((p * t) % n)) / n);
-        wi[p * n + t] = Math.sin((2 * Math.PI * ((p * t) % n)) / n);
-      }
-    }
-    const lineRe = new Float64Array(n);
-    const lineIm = new Float64Array(n);
+    const line = new LineTransform(n);
     // The lines along the axis start at the indices whose coordinate along it is 0.
     const outer = total / (n * stride);
     for (let hi = 0; hi < outer; hi++) {
       for (let lo = 0; lo < stride; lo++) {
         const base = hi * n * stride + lo;
         for (let t = 0; t < n; t++) {
-          lineRe[t] = re[base + t * stride]!;
-          lineIm[t] = im[base + t * stride]!;
+          line.re[t] = re[base + t * stride]!;
+          line.im[t] = im[base + t * stride]!;
         }
+        line.run();
         for (let p = 0; p < n; p++) {
-          let sr = 0;
-          let si = 0;
-          const o = p * n;
-          for (let t = 0; t < n; t++) {
-            const c = wr[o + t]!;
-            const sn = wi[o + t]!;
-            sr += lineRe[t]! * c - lineIm[t]! * sn;
-            si += lineRe[t]! * sn + lineIm[t]! * c;
-          }
-          re[base + p * stride] = sr;
-          im[base + p * stride] = si;
+          re[base + p * stride] = line.re[p]!;
+          im[base + p * stride] = line.im[p]!;
         }
       }
     }
+  }
+}
+
+/**
+ * The transform of one line of length n, in place in `re`/`im`: halved (even and odd terms, Cooley–Tukey)
+ * while n is even, by the direct sum once it is odd.
+ */
+class LineTransform {
+  readonly re: Float64Array;
+  readonly im: Float64Array;
+  private readonly half: LineTransform | null;
+  private readonly odd: LineTransform | null;
+  private readonly wr: Float64Array;
+  private readonly wi: Float64Array;
+  private readonly sr: Float64Array;
+  private readonly si: Float64Array;
+
+  constructor(readonly n: number) {
+    this.re = new Float64Array(n);
+    this.im = new Float64Array(n);
+    this.sr = new Float64Array(n);
+    this.si = new Float64Array(n);
+    const split = n % 2 === 0 && n > 2;
+    this.half = split ? new LineTransform(n / 2) : null;
+    this.odd = split ? new LineTransform(n / 2) : null;
+    // Twiddles: exp(2πi t/n) for the halving, exp(2πi (p t mod n)/n) for the direct sum.
+    const size = split ? n : n * n;
+    this.wr = new Float64Array(size);
+    this.wi = new Float64Array(size);
+    for (let q = 0; q < size; q++) {
+      const angle = (2 * Math.PI * (split ? q : (Math.floor(q / n) * (q % n)) % n)) / n;
+      this.wr[q] = Math.cos(angle);
+      this.wi[q] = Math.sin(angle);
+    }
+  }
+
+  run(): void {
+    const { n, re, im, wr, wi, half, odd } = this;
+    if (half && odd) {
+      const m = n / 2;
+      for (let t = 0; t < m; t++) {
+        half.re[t] = re[2 * t]!;
+        half.im[t] = im[2 * t]!;
+        odd.re[t] = re[2 * t + 1]!;
+        odd.im[t] = im[2 * t + 1]!;
+      }
+      half.run();
+      odd.run();
+      for (let p = 0; p < n; p++) {
+        const q = p < m ? p : p - m;
+        const orr = odd.re[q]!;
+        const oi = odd.im[q]!;
+        re[p] = half.re[q]! + wr[p]! * orr - wi[p]! * oi;
+        im[p] = half.im[q]! + wr[p]! * oi + wi[p]! * orr;
+      }
+      return;
+    }
+    const { sr, si } = this;
+    for (let p = 0; p < n; p++) {
+      let ar = 0;
+      let ai = 0;
+      const o = p * n;
+      for (let t = 0; t < n; t++) {
+        ar += re[t]! * wr[o + t]! - im[t]! * wi[o + t]!;
+        ai += re[t]! * wi[o + t]! + im[t]! * wr[o + t]!;
+      }
+      sr[p] = ar;
+      si[p] = ai;
+    }
+    re.set(sr);
+    im.set(si);
   }
 }
 
