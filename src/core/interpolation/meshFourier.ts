@@ -161,14 +161,17 @@ export function meshFitMatrix(basis: StarBasis, inverseRoughness: Float64Array, 
   const n = own.length;
   const h = new Float64Array(n * n);
   const [n1] = dims;
-  // Coordinates of each data point on the mesh, and of each mesh point.
-  const o1 = new Int32Array(n);
-  const o2 = new Int32Array(n);
-  const o3 = new Int32Array(n);
+  // Index of the difference q − k_j on the mesh, per axis: t1[a1·n + j] + t2[a2·n + j] + t3[a3·n + j].
+  const t1 = new Int32Array(n1 * n);
+  const t2 = new Int32Array(n2 * n);
+  const t3 = new Int32Array(n3 * n);
   for (let k = 0; k < n; k++) {
-    o3[k] = own[k]! % n3;
-    o2[k] = Math.floor(own[k]! / n3) % n2;
-    o1[k] = Math.floor(own[k]! / (n2 * n3));
+    const o3 = own[k]! % n3;
+    const o2 = Math.floor(own[k]! / n3) % n2;
+    const o1 = Math.floor(own[k]! / (n2 * n3));
+    for (let a = 0; a < n1; a++) t1[a * n + k] = mod(a - o1, n1) * n2 * n3;
+    for (let a = 0; a < n2; a++) t2[a * n + k] = mod(a - o2, n2) * n3;
+    for (let a = 0; a < n3; a++) t3[a * n + k] = mod(a - o3, n3);
   }
   for (let a1 = 0, q = 0; a1 < n1; a1++) {
     for (let a2 = 0; a2 < n2; a2++) {
@@ -176,16 +179,11 @@ export function meshFitMatrix(basis: StarBasis, inverseRoughness: Float64Array, 
         const i = mesh.irreducibleOf[q]!;
         const scale = 1 / mesh.starSize[i]!;
         const row = i * n;
+        const b1 = a1 * n;
+        const b2 = a2 * n;
+        const b3 = a3 * n;
         // H is symmetric: the lower triangle (k ≤ i) is enough.
-        for (let k = 0; k <= i; k++) {
-          let d1 = a1 - o1[k]!;
-          if (d1 < 0) d1 += n1;
-          let d2 = a2 - o2[k]!;
-          if (d2 < 0) d2 += n2;
-          let d3 = a3 - o3[k]!;
-          if (d3 < 0) d3 += n3;
-          h[row + k] = h[row + k]! + scale * re[(d1 * n2 + d2) * n3 + d3]!;
-        }
+        for (let k = 0; k <= i; k++) h[row + k] = h[row + k]! + scale * re[t1[b1 + k]! + t2[b2 + k]! + t3[b3 + k]!]!;
       }
     }
   }
