@@ -4,7 +4,7 @@
  * analysed (extrema anywhere in the zone with their leave-one-out uncertainty), against JSON.parse of the same
  * energies written as JSON. Prints the ratios (cold: star basis built; warm: cached) beside the goal (< 10).
  * The band energies are smooth periodic functions made up for timing only (not physics).
- * Usage: nice -n 10 npx tsx scripts/bench/meshInterpolation.ts [nb=400] [n=24]
+ * Usage: nice -n 10 npx tsx scripts/bench/meshInterpolation.ts [nb=400] [n=24]   (REPS=1: five more warm runs)
  */
 import { crystalSymmetry, ensureSymmetryReady } from '../../src/core/lattice/symmetry';
 import { reciprocalLattice } from '../../src/core/lattice/reciprocal';
