@@ -68,24 +68,30 @@ export function extremumUncertainty(
 function nearestIrreducible(mesh: RegularMesh, k: Vec3, b: Mat3, lattice: Mat3, count: number): number[] {
   // Cartesian distance to each mesh point, with the fractional difference wrapped into [−½, ½).
   const kf = cartesianToFractional(k, lattice);
-  const dist: { j: number; d: number }[] = [];
+  const d2 = new Float64Array(mesh.total);
   for (let j = 0; j < mesh.total; j++) {
     const p = meshPoint(mesh, j);
-    const df = [0, 1, 2].map((i) => {
-      const d = p[i]! - kf[i]!;
-      return d - Math.round(d);
-    });
-    const x = df[0]! * b[0][0] + df[1]! * b[1][0] + df[2]! * b[2][0];
-    const y = df[0]! * b[0][1] + df[1]! * b[1][1] + df[2]! * b[2][1];
-    const z = df[0]! * b[0][2] + df[1]! * b[1][2] + df[2]! * b[2][2];
-    dist.push({ j, d: x * x + y * y + z * z });
+    const f0 = p[0] - kf[0] - Math.round(p[0] - kf[0]);
+    const f1 = p[1] - kf[1] - Math.round(p[1] - kf[1]);
+    const f2 = p[2] - kf[2] - Math.round(p[2] - kf[2]);
+    const x = f0 * b[0][0] + f1 * b[1][0] + f2 * b[2][0];
+    const y = f0 * b[0][1] + f1 * b[1][1] + f2 * b[2][1];
+    const z = f0 * b[0][2] + f1 * b[1][2] + f2 * b[2][2];
+    d2[j] = x * x + y * y + z * z;
   }
-  dist.sort((p, q) => p.d - q.d);
-  const out: number[] = [];
-  for (const { j } of dist) {
-    const irr = mesh.irreducibleOf[j]!;
-    if (!out.includes(irr)) out.push(irr);
-    if (out.length === count) break;
+  // Sort only the points within a few mesh spacings (all of them if that finds too few).
+  const spacing = Math.max(...b.map((r, i) => Math.hypot(...r) / mesh.divisions[i]!));
+  for (const reach of [3 * spacing, Infinity]) {
+    const near: number[] = [];
+    for (let j = 0; j < mesh.total; j++) if (d2[j]! <= reach * reach) near.push(j);
+    near.sort((p, q) => d2[p]! - d2[q]! || p - q);
+    const out: number[] = [];
+    for (const j of near) {
+      const irr = mesh.irreducibleOf[j]!;
+      if (!out.includes(irr)) out.push(irr);
+      if (out.length === count) return out;
+    }
+    if (reach === Infinity) return out;
   }
-  return out;
+  return [];
 }

@@ -28,6 +28,8 @@ export const DEFAULT_STARS_PER_POINT = 8;
 export const MASS_UNCERTAINTY_LIMIT = 0.1;
 /** Most irreducible points interpolated (the star-value matrix holds about 8 N² numbers). */
 export const MAX_INTERPOLATION_POINTS = 1500;
+/** Opening words of the reason given at a degenerate (warped) extremum. */
+export const WARPED_NOTE = 'Warped: see directional masses.';
 /** Two bands closer than this (eV), or than three times the energy uncertainty, count as touching. */
 export const TOUCHING_EV = 1e-3;
 
@@ -64,6 +66,12 @@ export interface InterpolatedExtremum {
   undeterminedReason?: string;
   /** Bands (0-based) within the interpolation's error of this one at k: a degeneracy or crossing. */
   touching: number[];
+  /**
+   * True at a degenerate extremum at a symmetry point (touching not empty): warped bands, no single mass
+   * tensor (`determined` false, the reason starting with WARPED_NOTE); the masses given are the interpolant's
+   * curvature, not to be quoted.
+   */
+  warped?: boolean;
   warnings: string[];
   /** Density-of-states mass (with N_v) and conductivity mass, m_e: only for determined masses, else null. */
   dosMass: number | null;
@@ -102,7 +110,7 @@ export class MeshInterpolation {
     const stars = Math.max(2, Math.round((input.starsPerPoint ?? DEFAULT_STARS_PER_POINT) * nk));
     const basis = buildStarBasis(input.lattice, input.sym.pointGroup, stars);
     this.kCart = toCartesian(input.kpoints, this.reciprocal);
-    this.fit = new SmoothStarFit(basis, this.kCart);
+    this.fit = new SmoothStarFit(basis, this.kCart, { mesh, kFrac: input.kpoints });
     this.halfSpacing = 0.5 * Math.min(...this.reciprocal.map((b, i) => Math.hypot(...b) / mesh.divisions[i]!));
   }
 
@@ -205,12 +213,16 @@ export class MeshInterpolation {
       )
         continue;
       const uncertainty = extremumUncertainty(this.fit, energies, p, kind, this.kCart, mesh, this.reciprocal, input.lattice, newton);
+      // The whole degenerate set: outward from b while each next band is within the error of this one.
       const touching: number[] = [];
-      for (const other of [b - 1, b + 1]) {
-        if (other < 0 || other >= input.bands.length) continue;
-        const gap = Math.abs(this.band(other).value(p.k) - p.energy);
-        if (gap < Math.max(TOUCHING_EV, 3 * uncertainty.energy_eV)) touching.push(other);
+      const near = Math.max(TOUCHING_EV, 3 * uncertainty.energy_eV);
+      for (const step of [-1, 1]) {
+        for (let other = b + step; other >= 0 && other < input.bands.length; other += step) {
+          if (!(Math.abs(this.band(other).value(p.k) - p.energy) < near)) break;
+          touching.push(other);
+        }
       }
+      touching.sort((x, y) => x - y);
       const nv = valleyDegeneracy(input.sym, kFrac, 1e-4);
       const warnings: string[] = [];
       // A degeneracy at a point of the star of k fixed by symmetry (Γ, or a point whose star is small) is
@@ -223,7 +235,7 @@ export class MeshInterpolation {
       let undeterminedReason: string | undefined;
       if (touching.length > 0) {
         determined = false;
-        undeterminedReason = `Band ${touching.map((t) => t + 1).join(' and ')} meets this band here: masses of one band index through a degeneracy are not meaningful (a warped-band description is needed).`;
+        undeterminedReason = `${WARPED_NOTE} ${touching.length > 1 ? 'Bands' : 'Band'} ${touching.map((t) => t + 1).join(' and ')} ${touching.length > 1 ? 'meet' : 'meets'} this band here: a degenerate extremum, whose bands are warped (the mass depends on the direction), has no single mass tensor; and interpolated by band index, the bands near the degeneracy are not accurate enough for a warped-band fit.`;
         warnings.push(undeterminedReason);
       } else {
         const worst = Math.max(...p.masses.map((m, i) => uncertainty.masses[i]! / Math.abs(m)));
@@ -249,6 +261,7 @@ export class MeshInterpolation {
         uncertainty,
         determined,
         ...(undeterminedReason ? { undeterminedReason } : {}),
+        ...(touching.length > 0 ? { warped: true } : {}),
         touching,
         warnings,
         dosMass: averaged?.dosMass ?? null,

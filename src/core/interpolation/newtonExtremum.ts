@@ -7,7 +7,7 @@ import type { Mat3, Vec3 } from '../model';
 import { mat3Inverse } from '../lattice/linalg';
 import { symmetricEigen3 } from '../analysis/symmetricEigen';
 import { curvatureToMass } from '../units';
-import type { StarInterpolant } from './starInterpolant';
+import type { SmoothBand } from './starInterpolant';
 
 export type StationaryKind = 'min' | 'max';
 
@@ -41,7 +41,7 @@ export function massTensorOf(hessian: Mat3): { masses: Vec3; axes: Mat3; curvatu
   return { masses: values.map((c) => curvatureToMass(c)) as Vec3, axes: vectors, curvatures: values };
 }
 
-export function refineExtremum(band: StarInterpolant, start: Vec3, kind: StationaryKind, opt: NewtonOptions): RefinedPoint {
+export function refineExtremum(band: SmoothBand, start: Vec3, kind: StationaryKind, opt: NewtonOptions): RefinedPoint {
   // Newton steps where the Hessian has the curvature of the kind sought; elsewhere a steepest-descent step
   // (ascent for a maximum) of at most maxStep; every step is halved until the energy moves the right way.
   let k: Vec3 = [start[0], start[1], start[2]];

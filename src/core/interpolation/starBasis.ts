@@ -22,6 +22,10 @@ export interface StarBasis {
   start: Int32Array;
   /** Cartesian R of the kept members, Å, 3 numbers each. */
   members: Float64Array;
+  /** The same members in lattice coordinates (R = n1 a1 + n2 a2 + n3 a3), 3 integers each. */
+  integer: Int32Array;
+  /** The lattice rows a1, a2, a3, Å. */
+  lattice: Mat3;
   /** Factor on Σ_kept cos(k·R) that gives S_m: 2/n_m (1 for R = 0). */
   weight: Float64Array;
   /** |R| of each star, Å. */
@@ -30,113 +34,161 @@ export interface StarBasis {
   size: Int32Array;
 }
 
-function applyInteger(w: Mat3, n: readonly number[]): [number, number, number] {
-  return [
-    Math.round(w[0][0] * n[0]! + w[0][1] * n[1]! + w[0][2] * n[2]!) + 0,
-    Math.round(w[1][0] * n[0]! + w[1][1] * n[1]! + w[1][2] * n[2]!) + 0,
-    Math.round(w[2][0] * n[0]! + w[2][1] * n[1]! + w[2][2] * n[2]!) + 0,
-  ];
-}
-
 /**
  * The first `count` stars of the lattice (rows of `lattice`, Å) under `pointGroup`: the crystal's rotations
  * acting on fractional real-space coordinates (x → W x), as lattice/symmetry.ts gives them. Inversion is
- * added whatever the group (time reversal).
+ * added whatever the group (time reversal). The last few bases are kept (the same lattice and group give the
+ * same stars), so building one again for the same crystal costs nothing.
  */
 export function buildStarBasis(lattice: Mat3, pointGroup: readonly Mat3[], count: number): StarBasis {
   if (!Number.isInteger(count) || count < 1) throw new RangeError(`The number of stars must be a positive integer, got ${count}.`);
   const volume = Math.abs(det3(lattice));
   if (!(volume > 1e-9)) throw new RangeError('The lattice spans no volume.');
-  const b = reciprocalLattice(lattice);
+  const key = JSON.stringify([lattice, pointGroup, count]);
+  const hit = recent.get(key);
+  if (hit) return hit;
+  const ops = integerOps(pointGroup);
   // Lattice vectors needed: about count × (size of the group with inversion); more are tried if short.
-  const order = 2 * Math.max(1, pointGroup.length);
-  let points = count * order * 0.6 + 64;
+  let points = count * 2 * ops.length * 0.6 + 64;
   for (;;) {
     const radius = Math.cbrt((3 * points * volume) / (4 * Math.PI));
-    const out = starsWithin(lattice, b, pointGroup, radius, count);
-    if (out) return out;
+    const out = starsWithin(lattice, reciprocalLattice(lattice), ops, radius, count);
+    if (out) {
+      recent.set(key, out);
+      if (recent.size > RECENT_BASES) recent.delete(recent.keys().next().value!);
+      return out;
+    }
     points *= 2;
   }
 }
 
-function starsWithin(lattice: Mat3, b: Mat3, pointGroup: readonly Mat3[], radius: number, count: number): StarBasis | null {
+const RECENT_BASES = 4;
+const recent = new Map<string, StarBasis>();
+
+/** The operations as integer matrices (identity alone for an empty group). */
+function integerOps(pointGroup: readonly Mat3[]): Int32Array[] {
+  const ops = pointGroup.length > 0 ? pointGroup : [IDENTITY];
+  return ops.map((w) => Int32Array.from([0, 1, 2].flatMap((i) => [0, 1, 2].map((j) => Math.round(w[i]![j]!)))));
+}
+
+const IDENTITY: Mat3 = [
+  [1, 0, 0],
+  [0, 1, 0],
+  [0, 0, 1],
+];
+
+function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, count: number): StarBasis | null {
   const reach = b.map((r) => Math.ceil((radius * Math.hypot(...r)) / (2 * Math.PI)));
-  // Integer vectors as one number: images under the group stay within 3·reach of the origin per component.
-  const off = 3 * Math.max(...reach) + 1;
+  // Integer vectors as one index in a box: the operations keep lengths, so images of vectors within the
+  // radius stay in the box.
+  const off = Math.max(...reach) + 1;
   const width = 2 * off + 1;
-  const key = (i: number, j: number, l: number): number => ((i + off) * width + (j + off)) * width + (l + off);
-  const ni: number[] = [];
-  const nj: number[] = [];
-  const nl: number[] = [];
-  const len: number[] = [];
+  const cells = width * width * width;
+  if (cells > 2 ** 31) throw new RangeError('The star basis is too large for this lattice.');
+  const radius2 = radius * radius;
+  // Vectors within the radius, row by row: for each (i, j) the range of l solves a quadratic.
+  const [a0, a1, a2] = lattice;
+  const a22 = a2[0] * a2[0] + a2[1] * a2[1] + a2[2] * a2[2];
+  let vi = new Int32Array(3 * 4096);
+  let len = new Float64Array(4096);
+  let found = 0;
   for (let i = -reach[0]!; i <= reach[0]!; i++) {
     for (let j = -reach[1]!; j <= reach[1]!; j++) {
-      for (let l = -reach[2]!; l <= reach[2]!; l++) {
-        const x = i * lattice[0][0] + j * lattice[1][0] + l * lattice[2][0];
-        const y = i * lattice[0][1] + j * lattice[1][1] + l * lattice[2][1];
-        const z = i * lattice[0][2] + j * lattice[1][2] + l * lattice[2][2];
-        const r = Math.hypot(x, y, z);
-        if (r <= radius) {
-          ni.push(i);
-          nj.push(j);
-          nl.push(l);
-          len.push(r);
+      const px = i * a0[0] + j * a1[0];
+      const py = i * a0[1] + j * a1[1];
+      const pz = i * a0[2] + j * a1[2];
+      // |p + l a2|² ≤ r²: a22 l² + 2 (p·a2) l + |p|² − r² ≤ 0.
+      const pa = px * a2[0] + py * a2[1] + pz * a2[2];
+      const disc = pa * pa - a22 * (px * px + py * py + pz * pz - radius2);
+      if (disc < 0) continue;
+      const root = Math.sqrt(disc);
+      const lo = Math.max(-reach[2]!, Math.ceil((-pa - root) / a22));
+      const hi = Math.min(reach[2]!, Math.floor((-pa + root) / a22));
+      for (let l = lo; l <= hi; l++) {
+        const x = px + l * a2[0];
+        const y = py + l * a2[1];
+        const z = pz + l * a2[2];
+        const r2 = x * x + y * y + z * z;
+        if (r2 > radius2) continue;
+        if (found === len.length) {
+          const v2 = new Int32Array(6 * found);
+          v2.set(vi);
+          vi = v2;
+          const l2 = new Float64Array(2 * found);
+          l2.set(len);
+          len = l2;
         }
+        vi[3 * found] = i;
+        vi[3 * found + 1] = j;
+        vi[3 * found + 2] = l;
+        len[found++] = Math.sqrt(r2);
       }
     }
   }
-  const order = Array.from(len.keys()).sort((p, q) => len[p]! - len[q]!);
-  const ops: Mat3[] =
-    pointGroup.length > 0
-      ? [...pointGroup]
-      : [
-          [
-            [1, 0, 0],
-            [0, 1, 0],
-            [0, 0, 1],
-          ],
-        ];
-  const taken = new Set<number>();
-  const start: number[] = [0];
-  const members: number[] = [];
-  const weight: number[] = [];
-  const radii: number[] = [];
-  const sizes: number[] = [];
-  for (const c of order) {
-    const n: [number, number, number] = [ni[c]!, nj[c]!, nl[c]!];
-    if (taken.has(key(n[0], n[1], n[2]))) continue;
-    if (radii.length === count) break;
-    const star = new Map<number, [number, number, number]>();
+  // Every star within the radius is whole (the operations keep lengths): find them all in any order, then
+  // keep the `count` shortest (a sort of the stars, not of the vectors).
+  const taken = new Int32Array(cells); // 0 free, else 1 + the star that holds the vector
+  const keptCell: number[] = [];
+  const keptStar: number[] = [];
+  const starRadius: number[] = [];
+  const starSize: number[] = [];
+  const image = [0, 0, 0];
+  for (let c = 0; c < found; c++) {
+    const n0 = vi[3 * c]!;
+    const n1 = vi[3 * c + 1]!;
+    const n2 = vi[3 * c + 2]!;
+    if (taken[((n0 + off) * width + n1 + off) * width + n2 + off]) continue;
+    const star = starRadius.length + 1;
+    let size = 0;
     for (const w of ops) {
-      const m = applyInteger(w, n);
-      star.set(key(m[0], m[1], m[2]), m);
-      star.set(key(-m[0], -m[1], -m[2]), [-m[0] + 0, -m[1] + 0, -m[2] + 0]);
+      for (let i = 0; i < 3; i++) image[i] = w[3 * i]! * n0 + w[3 * i + 1]! * n1 + w[3 * i + 2]! * n2;
+      const cell = ((image[0]! + off) * width + image[1]! + off) * width + image[2]! + off;
+      if (taken[cell]) continue;
+      // Keep one of each ±R pair, marking both (R = 0 is its own partner).
+      const partner = ((off - image[0]!) * width + off - image[1]!) * width + off - image[2]!;
+      taken[cell] = star;
+      taken[partner] = star;
+      size += partner === cell ? 1 : 2;
+      keptCell.push(cell);
+      keptStar.push(star - 1);
     }
-    for (const k of star.keys()) taken.add(k);
-    const kept = new Set<number>();
-    for (const [k, m] of star) {
-      if (kept.has(key(-m[0], -m[1], -m[2]))) continue;
-      kept.add(k);
-      members.push(
-        m[0] * lattice[0][0] + m[1] * lattice[1][0] + m[2] * lattice[2][0],
-        m[0] * lattice[0][1] + m[1] * lattice[1][1] + m[2] * lattice[2][1],
-        m[0] * lattice[0][2] + m[1] * lattice[1][2] + m[2] * lattice[2][2],
-      );
-    }
-    start.push(members.length / 3);
-    weight.push(len[c] === 0 ? 1 : 2 / star.size);
-    radii.push(len[c]!);
-    sizes.push(star.size);
+    starRadius.push(len[c]!);
+    starSize.push(size);
   }
-  if (radii.length < count) return null;
-  return {
-    count,
-    start: Int32Array.from(start),
-    members: Float64Array.from(members),
-    weight: Float64Array.from(weight),
-    radius: Float64Array.from(radii),
-    size: Int32Array.from(sizes),
-  };
+  if (starRadius.length < count) return null;
+  const order = Array.from(starRadius.keys()).sort((p, q) => starRadius[p]! - starRadius[q]! || p - q);
+  const rank = new Int32Array(starRadius.length).fill(-1);
+  for (let r = 0; r < count; r++) rank[order[r]!] = r;
+  const start = new Int32Array(count + 1);
+  for (const st of keptStar) if (rank[st]! >= 0) start[rank[st]! + 1]!++;
+  for (let r = 0; r < count; r++) start[r + 1] = start[r + 1]! + start[r]!;
+  const total = start[count]!;
+  const members = new Float64Array(3 * total);
+  const integer = new Int32Array(3 * total);
+  const fill = start.slice(0, count);
+  for (let j = 0; j < keptCell.length; j++) {
+    const r = rank[keptStar[j]!]!;
+    if (r < 0) continue;
+    const at = fill[r]!++;
+    const cell = keptCell[j]!;
+    const m2 = (cell % width) - off;
+    const m1 = (Math.floor(cell / width) % width) - off;
+    const m0 = Math.floor(cell / (width * width)) - off;
+    integer[3 * at] = m0;
+    integer[3 * at + 1] = m1;
+    integer[3 * at + 2] = m2;
+    for (let x = 0; x < 3; x++) members[3 * at + x] = m0 * lattice[0][x]! + m1 * lattice[1][x]! + m2 * lattice[2][x]!;
+  }
+  const weight = new Float64Array(count);
+  const radii = new Float64Array(count);
+  const size = new Int32Array(count);
+  for (let r = 0; r < count; r++) {
+    const st = order[r]!;
+    radii[r] = starRadius[st]!;
+    size[r] = starSize[st]!;
+    weight[r] = radii[r] === 0 ? 1 : 2 / size[r]!;
+  }
+  return { count, start, members, integer, lattice, weight, radius: radii, size };
 }
 
 /** S_m(k) for every star m at cartesian k (Å⁻¹), into `out` (length count). */

@@ -1,0 +1,216 @@
+/**
+ * The star-function fit on a regular mesh by discrete Fourier sums instead of star values at each data point.
+ *
+ * On a mesh k = (j + s)/n (fractional, per axis) every phase k·R of a lattice vector R = Σ n_a a_a is
+ * 2π Σ_a (j_a + s_a) n_a / n_a-divisions, so sums over the mesh of f(k) cos(k·R) are discrete Fourier transforms
+ * evaluated at R modulo the mesh. With the stars closed under the group and inversion (starBasis.ts), and
+ * star(i) the mesh points that irreducible point i stands for (c_i of them):
+ *   - the fit's matrix H_ij = Σ_{m≥1} S_m(k_i) S_m(k_j)/ρ_m equals (1/c_i) Σ_{q∈star(i)} F(q − k_j), with
+ *     F(p) = Σ_{R≠0} cos(p·R) / (ρ(R) n(R)) a function on the Γ-centred mesh of differences: one transform
+ *     of the folded roughness weights replaces the N² M products of the direct sum;
+ *   - a coefficient Σ_i μ_i S_m(k_i) equals Σ_q ν(q) cos(q·R_m), ν(q) = μ_i / c_i on star(i): one transform
+ *     of ν per band, read at each star's representative R_m.
+ * Both identities use only that S_m is invariant under the operations that map the mesh onto itself.
+ */
+import type { RegularMesh } from './regularMesh';
+import type { StarBasis } from './starBasis';
+
+/** In-place discrete Fourier transform X[p] = Σ_j x[j] exp(+2πi p·j/n) over the three mesh axes. */
+export function meshTransform(re: Float64Array, im: Float64Array, dims: readonly [number, number, number]): void {
+  const [n1, n2, n3] = dims;
+  const total = n1 * n2 * n3;
+  const strides = [n2 * n3, n3, 1];
+  for (let axis = 0; axis < 3; axis++) {
+    const n = dims[axis]!;
+    if (n === 1) continue;
+    const stride = strides[axis]!;
+    const line = new LineTransform(n);
+    // The lines along the axis start at the indices whose coordinate along it is 0.
+    const outer = total / (n * stride);
+    for (let hi = 0; hi < outer; hi++) {
+      for (let lo = 0; lo < stride; lo++) {
+        const base = hi * n * stride + lo;
+        for (let t = 0; t < n; t++) {
+          line.re[t] = re[base + t * stride]!;
+          line.im[t] = im[base + t * stride]!;
+        }
+        line.run();
+        for (let p = 0; p < n; p++) {
+          re[base + p * stride] = line.re[p]!;
+          im[base + p * stride] = line.im[p]!;
+        }
+      }
+    }
+  }
+}
+
+/**
+ * The transform of one line of length n, in place in `re`/`im`: halved (even and odd terms, Cooley–Tukey)
+ * while n is even, by the direct sum once it is odd.
+ */
+class LineTransform {
+  readonly re: Float64Array;
+  readonly im: Float64Array;
+  private readonly half: LineTransform | null;
+  private readonly odd: LineTransform | null;
+  private readonly wr: Float64Array;
+  private readonly wi: Float64Array;
+  private readonly sr: Float64Array;
+  private readonly si: Float64Array;
+
+  constructor(readonly n: number) {
+    this.re = new Float64Array(n);
+    this.im = new Float64Array(n);
+    this.sr = new Float64Array(n);
+    this.si = new Float64Array(n);
+    const split = n % 2 === 0 && n > 2;
+    this.half = split ? new LineTransform(n / 2) : null;
+    this.odd = split ? new LineTransform(n / 2) : null;
+    // Twiddles: exp(2πi t/n) for the halving, exp(2πi (p t mod n)/n) for the direct sum.
+    const size = split ? n : n * n;
+    this.wr = new Float64Array(size);
+    this.wi = new Float64Array(size);
+    for (let q = 0; q < size; q++) {
+      const angle = (2 * Math.PI * (split ? q : (Math.floor(q / n) * (q % n)) % n)) / n;
+      this.wr[q] = Math.cos(angle);
+      this.wi[q] = Math.sin(angle);
+    }
+  }
+
+  run(): void {
+    const { n, re, im, wr, wi, half, odd } = this;
+    if (half && odd) {
+      const m = n / 2;
+      for (let t = 0; t < m; t++) {
+        half.re[t] = re[2 * t]!;
+        half.im[t] = im[2 * t]!;
+        odd.re[t] = re[2 * t + 1]!;
+        odd.im[t] = im[2 * t + 1]!;
+      }
+      half.run();
+      odd.run();
+      for (let p = 0; p < n; p++) {
+        const q = p < m ? p : p - m;
+        const orr = odd.re[q]!;
+        const oi = odd.im[q]!;
+        re[p] = half.re[q]! + wr[p]! * orr - wi[p]! * oi;
+        im[p] = half.im[q]! + wr[p]! * oi + wi[p]! * orr;
+      }
+      return;
+    }
+    const { sr, si } = this;
+    for (let p = 0; p < n; p++) {
+      let ar = 0;
+      let ai = 0;
+      const o = p * n;
+      for (let t = 0; t < n; t++) {
+        ar += re[t]! * wr[o + t]! - im[t]! * wi[o + t]!;
+        ai += re[t]! * wi[o + t]! + im[t]! * wr[o + t]!;
+      }
+      sr[p] = ar;
+      si[p] = ai;
+    }
+    re.set(sr);
+    im.set(si);
+  }
+}
+
+const mod = (x: number, n: number): number => ((x % n) + n) % n;
+
+/** Mesh index of each irreducible point (its own position on the mesh), or null if one is off the mesh. */
+export function meshIndexOf(mesh: RegularMesh, kFrac: Float64Array): Int32Array | null {
+  const [, n2, n3] = mesh.divisions;
+  const nk = kFrac.length / 3;
+  const out = new Int32Array(nk);
+  for (let i = 0; i < nk; i++) {
+    const j = [0, 1, 2].map((a) => {
+      const y = kFrac[3 * i + a]! * mesh.divisions[a]! - mesh.shift[a]!;
+      return Math.abs(y - Math.round(y)) < 1e-3 ? mod(Math.round(y), mesh.divisions[a]!) : -1;
+    });
+    if (j.some((x) => x < 0)) return null;
+    out[i] = (j[0]! * n2 + j[1]!) * n3 + j[2]!;
+    if (mesh.irreducibleOf[out[i]!] !== i) return null;
+  }
+  return out;
+}
+
+/** Index on the mesh of lattice vector member j of the basis (its integer coordinates modulo the divisions). */
+function foldedIndex(basis: StarBasis, j: number, dims: readonly number[]): number {
+  const z = basis.integer;
+  return (mod(z[3 * j]!, dims[0]!) * dims[1]! + mod(z[3 * j + 1]!, dims[1]!)) * dims[2]! + mod(z[3 * j + 2]!, dims[2]!);
+}
+
+/**
+ * The fit's matrix H (N × N, row-major) for the stars m ≥ 1 with weights 1/ρ_m (`inverseRoughness`), from one
+ * transform of the folded weights.
+ */
+export function meshFitMatrix(basis: StarBasis, inverseRoughness: Float64Array, mesh: RegularMesh, own: Int32Array): Float64Array {
+  const dims = mesh.divisions;
+  const [, n2, n3] = dims;
+  const re = new Float64Array(mesh.total);
+  const im = new Float64Array(mesh.total);
+  // Each kept member stands for ±R: 2/(ρ n_m) = weight_m/ρ_m on the real part.
+  for (let m = 1; m < basis.count; m++) {
+    const w = basis.weight[m]! * inverseRoughness[m]!;
+    for (let j = basis.start[m]!; j < basis.start[m + 1]!; j++) {
+      const p = foldedIndex(basis, j, dims);
+      re[p] = re[p]! + w;
+    }
+  }
+  meshTransform(re, im, dims);
+  const n = own.length;
+  const h = new Float64Array(n * n);
+  const [n1] = dims;
+  // Index of the difference q − k_j on the mesh, per axis: t1[a1·n + j] + t2[a2·n + j] + t3[a3·n + j].
+  const t1 = new Int32Array(n1 * n);
+  const t2 = new Int32Array(n2 * n);
+  const t3 = new Int32Array(n3 * n);
+  for (let k = 0; k < n; k++) {
+    const o3 = own[k]! % n3;
+    const o2 = Math.floor(own[k]! / n3) % n2;
+    const o1 = Math.floor(own[k]! / (n2 * n3));
+    for (let a = 0; a < n1; a++) t1[a * n + k] = mod(a - o1, n1) * n2 * n3;
+    for (let a = 0; a < n2; a++) t2[a * n + k] = mod(a - o2, n2) * n3;
+    for (let a = 0; a < n3; a++) t3[a * n + k] = mod(a - o3, n3);
+  }
+  for (let a1 = 0, q = 0; a1 < n1; a1++) {
+    for (let a2 = 0; a2 < n2; a2++) {
+      for (let a3 = 0; a3 < n3; a3++, q++) {
+        const i = mesh.irreducibleOf[q]!;
+        const scale = 1 / mesh.starSize[i]!;
+        const row = i * n;
+        const b1 = a1 * n;
+        const b2 = a2 * n;
+        const b3 = a3 * n;
+        // H is symmetric: the lower triangle (k ≤ i) is enough.
+        for (let k = 0; k <= i; k++) h[row + k] = h[row + k]! + scale * re[t1[b1 + k]! + t2[b2 + k]! + t3[b3 + k]!]!;
+      }
+    }
+  }
+  for (let i = 0; i < n; i++) for (let k = 0; k < i; k++) h[k * n + i] = h[i * n + k]!;
+  return h;
+}
+
+/** Σ_i μ_i S_m(k_i) for every star m, from one transform of μ spread over the mesh. */
+export function meshStarSums(basis: StarBasis, mesh: RegularMesh, mu: ArrayLike<number>): Float64Array {
+  const dims = mesh.divisions;
+  const re = new Float64Array(mesh.total);
+  const im = new Float64Array(mesh.total);
+  for (let q = 0; q < mesh.total; q++) {
+    const i = mesh.irreducibleOf[q]!;
+    re[q] = mu[i]! / mesh.starSize[i]!;
+  }
+  meshTransform(re, im, dims);
+  const out = new Float64Array(basis.count);
+  const z = basis.integer;
+  for (let m = 0; m < basis.count; m++) {
+    const j = basis.start[m]!;
+    const p = foldedIndex(basis, j, dims);
+    // The mesh shift s adds the phase 2π Σ_a s_a n_a / n_a.
+    let phase = 0;
+    for (let a = 0; a < 3; a++) phase += (mesh.shift[a]! * z[3 * j + a]!) / dims[a]!;
+    phase *= 2 * Math.PI;
+    out[m] = re[p]! * Math.cos(phase) - im[p]! * Math.sin(phase);
+  }
+  return out;
+}
