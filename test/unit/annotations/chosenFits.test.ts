@@ -11,7 +11,7 @@ import { join } from 'node:path';
 import { main } from '../../../src/cli/main';
 import type { CliIO } from '../../../src/cli/io';
 import { checkFile } from '../../../src/cli/commands/check';
-import { composeAnnotations } from '../../../src/extension/annotationsCompose';
+import { composeAnnotations } from '../../../src/core/annotations/composeAnnotations';
 import { parseAnnotations } from '../../../src/core/annotations/parseAnnotations';
 import { serializeAnnotations } from '../../../src/core/annotations/serializeAnnotations';
 import { annotatedSources, analysisSettingsOf } from '../../../src/core/annotations/buildAnnotations';

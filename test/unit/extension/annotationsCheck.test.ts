@@ -1,6 +1,6 @@
 import assert from 'node:assert/strict';
 import { annotationsProblems } from '../../../src/extension/annotationsCheck';
-import { composeAnnotations } from '../../../src/extension/annotationsCompose';
+import { composeAnnotations } from '../../../src/core/annotations/composeAnnotations';
 import { DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { loadSi } from './demoRun';
 

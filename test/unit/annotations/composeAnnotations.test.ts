@@ -1,11 +1,11 @@
 import assert from 'node:assert/strict';
-import { composeAnnotations, joinNotes } from '../../../src/extension/annotationsCompose';
+import { composeAnnotations, joinNotes } from '../../../src/core/annotations/composeAnnotations';
 import { parseAnnotations } from '../../../src/core/annotations/parseAnnotations';
 import { ReaderError } from '../../../src/core/errors';
 import { DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { fitExtremumAt } from '../../../src/core/analysis/massEngine';
 import { nearestKIndex } from '../../../src/extension/bandData';
-import { loadSi } from './demoRun';
+import { loadSi } from '../extension/demoRun';
 
 async function base() {
   const si = await loadSi();
@@ -22,7 +22,7 @@ async function base() {
   return { si, input };
 }
 
-describe('extension: composing the annotations file', () => {
+describe('annotations: composing the file (CLI annotate and the editor save)', () => {
   it('without an existing file, holds the numbers of the analysis (what `valleyscope analyze` reports)', async () => {
     const { si, input } = await base();
     const c = composeAnnotations(input);
