@@ -70,6 +70,7 @@ export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: Save
         ...(m.notes !== undefined ? { runNote: m.notes } : {}),
         existingText,
         existingName: name,
+        fit: deps.fits.cachedFitter(run),
       });
     } catch (e) {
       throw new UnreadableExisting(e);

@@ -5,7 +5,8 @@
  */
 import * as v from 'valibot';
 import type { ExtremumReport } from '../core/model';
-import type { BandData, EnvironmentData, FitCurve, WindowScanSeries } from './bandViewData';
+import type { FitCurve } from '../core/analysis/fitCurves';
+import type { BandData, EnvironmentData, WindowScanSeries } from './bandViewData';
 import {
   ErrorTextSchema,
   IndexSchema,

@@ -8,6 +8,9 @@
 import type { ExtremumKind, RejectReason, Report } from '../core/model';
 import type { EncodedArray } from './arrays';
 
+/** Fitted curve samples to draw over the data, one per direction of the fit (made by the core). */
+export type { FitCurve } from '../core/analysis/fitCurves';
+
 export type ThemeKind = 'light' | 'dark' | 'highContrast' | 'highContrastLight';
 export type EnergyReference = 'vbm' | 'fermi' | 'raw';
 
@@ -100,16 +103,6 @@ export interface EnvironmentData {
   readOnly: boolean;
   /** The sentence explaining why saving is off, when readOnly. */
   readOnlyReason: string | null;
-}
-
-/** Fitted curve samples to draw over the data, one per direction of the fit. */
-export interface FitCurve {
-  /** Same wording as MassFit.towards. */
-  towards: string;
-  /** Path distances of the samples (same units as BandData.distance). */
-  distance: number[];
-  /** Energies of the samples, eV raw. */
-  energy: number[];
 }
 
 /** Mass as a function of the fit window, for one direction. */

@@ -126,7 +126,15 @@ function vertexNote(bs: BandStructure, k: number, fits: CurvatureFit[], rays: Ra
 }
 
 /** Characterise one located extremum. */
-export function characterise(ctx: EngineContext, site: ExtremumSite, settings: AnalysisSettings): ExtremumReport {
+/** What a fit at a point found besides its report (fitExtremumAt's `detail`): the point fitted, the curvature fits. */
+export interface FitDetail {
+  /** 0-based index of the k-point fitted (after snapping). */
+  kIndex: number;
+  /** The directional fits, in the order of the report's masses (their vertices); empty off a path. */
+  fits: CurvatureFit[];
+}
+
+export function characterise(ctx: EngineContext, site: ExtremumSite, settings: AnalysisSettings, detail?: FitDetail): ExtremumReport {
   const { bs, network } = ctx;
   const k = kpointAt(bs, site.k);
   const warnings = [...site.warnings];
@@ -163,6 +171,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
         energySigma: ctx.energySigma,
       });
       masses = dm.masses;
+      if (detail) detail.fits = dm.fits;
       crossed = dm.crossed;
       if (g === 1) {
         const v = vertexNote(bs, site.k, dm.fits, dm.rays, maximum, site.energy);
@@ -498,7 +507,8 @@ function snap(ctx: EngineContext, spin: number, kIndex: number, band: number): {
 /**
  * Fit at a clicked point: snaps to the local extremum of band `band0` (0-based) nearest `kIndex`, then
  * characterises it like the analysis does (kind vbm/cbm when it is the edge, else peak/valley). With `at`,
- * the point is taken as the extremum (a maximum or a minimum, as given) without moving.
+ * the point is taken as the extremum (a maximum or a minimum, as given) without moving. `detail`, when given,
+ * receives the k index fitted and the directional fits (for drawing the fitted curves without fitting again).
  */
 export function fitExtremumAt(
   bs: BandStructure,
@@ -507,6 +517,7 @@ export function fitExtremumAt(
   band0: number,
   settings: AnalysisSettings,
   at?: { maximum: boolean },
+  detail?: FitDetail,
 ): ExtremumReport {
   if (!(spin >= 0 && spin < bs.nSpin)) throw new RangeError(`spin ${spin} is not in this band structure`);
   if (!(kIndex >= 0 && kIndex < bs.nk)) throw new RangeError(`k index ${kIndex} is out of range`);
@@ -539,7 +550,8 @@ export function fitExtremumAt(
     group,
     warnings: k !== kIndex ? [`Moved from the clicked point to the nearest ${maximum ? 'maximum' : 'minimum'} of band ${band0 + 1}.`] : [],
   };
-  const x = characterise(ctx, site, settings);
+  if (detail) detail.kIndex = k;
+  const x = characterise(ctx, site, settings, detail);
   const saddle = saddleFromMasses(x);
   if (saddle) x.warnings.unshift(`Not an extremum but a saddle point: ${saddle}.`);
   return x;

@@ -7,7 +7,7 @@
  */
 import type { BandSource, BandStructure, Report } from '../model';
 import { buildAnnotations, type RecordedSettings } from './buildAnnotations';
-import { chosenFromDoc, withChosenFits, type ChosenExtremum } from './chosenFits';
+import { chosenFromDoc, withChosenFits, type ChosenExtremum, type ExtremumFitter } from './chosenFits';
 import { mergeWithSummary, type MergeSummary } from './mergeAnnotations';
 import { parseAnnotations } from './parseAnnotations';
 import { serializeAnnotations } from './serializeAnnotations';
@@ -39,6 +39,8 @@ export interface ComposeInput {
   existingName: string;
   /** The parse of `existingText` when the caller already has it (read once). */
   existingDoc?: AnnotationsDoc | null;
+  /** How the chosen fits are redone (default: fitted now; the editor answers from the fits it already made). */
+  fit?: ExtremumFitter;
 }
 
 export interface Composed {
@@ -75,7 +77,7 @@ export function composeAnnotations(input: ComposeInput): Composed {
     input.existingDoc !== undefined ? input.existingDoc : readExistingAnnotations(input.existingText, input.existingName, warnings);
   // Fits chosen before (recorded in the file) are redone as recorded; the fits chosen now come last and win.
   const before = older ? chosenFromDoc(older, input.bs) : [];
-  const { report, fits, placed } = withChosenFits(input.bs, input.report, input.settings, [...before, ...input.fits]);
+  const { report, fits, placed } = withChosenFits(input.bs, input.report, input.settings, [...before, ...input.fits], input.fit);
   const fresh = buildAnnotations(report, input.source, input.settings, { toolVersion: input.toolVersion, fits });
   fresh.sources.push(...(input.extraSources ?? []));
   const merged = older ? mergeWithSummary(older, fresh) : null;
