@@ -5,7 +5,7 @@
  * JSON, a key written twice, conflict markers, a wrong type in a known field, or a file from a newer layout
  * are refused with a ReaderError that names the line and column and says what is wrong.
  */
-import type { ExtremumKind, Mat3, Vec3 } from '../model';
+import type { ExtremumKind, Mat3 } from '../model';
 import { ReaderError } from '../errors';
 import {
   ANNOTATIONS_LAYOUT_VERSION,
@@ -22,150 +22,14 @@ import {
   type AnnotatedSource,
   type AnnotatedTensor,
   type AnnotationsDoc,
-  type ExtraFields,
-  type JsonValue,
 } from './annotationsModel';
 import { JsonSyntaxError, parseJsonWithPositions, positionOf, type JsonNode } from './jsonWithPositions';
 import { DEFAULT_SETTINGS } from '../analysis/analyze';
 import { valleyRepresentative } from '../lattice/valleyIdentity';
 import { bandFromEdge } from './buildAnnotations';
+import { ANNOTATIONS_FORMAT, Walker, isWhole, need, nonNegative, positiveWhole, typeName } from './jsonFieldReader';
 
-export const ANNOTATIONS_FORMAT = 'valleyscope-annotations';
-
-type ObjNode = Extract<JsonNode, { type: 'object' }>;
-
-class Walker {
-  constructor(
-    private readonly text: string,
-    private readonly file: string,
-    readonly warnings: string[],
-  ) {}
-
-  error(at: number, reason: string): ReaderError {
-    return new ReaderError(ANNOTATIONS_FORMAT, this.file, positionOf(this.text, at), reason);
-  }
-
-  obj(n: JsonNode, what: string): ObjNode {
-    if (n.type !== 'object') throw this.error(n.at, `${what} must be an object ({ ... }), found ${typeName(n)}`);
-    return n;
-  }
-
-  /** Known members by key, and everything else as extra fields. */
-  fields(n: ObjNode, known: readonly string[]): { get: (key: string) => JsonNode | undefined; extra: ExtraFields } {
-    const map = new Map<string, JsonNode>();
-    const extra = emptyExtra();
-    for (const m of n.members) {
-      if (known.includes(m.key)) map.set(m.key, m.value);
-      else extra[m.key] = plain(m.value);
-    }
-    return { get: (k) => map.get(k), extra };
-  }
-
-  str(n: JsonNode | undefined, what: string, fallback?: string): string {
-    if (n === undefined || (n.type === 'null' && fallback !== undefined)) {
-      if (fallback !== undefined) return fallback;
-      throw this.missing(what);
-    }
-    if (n.type !== 'string') throw this.error(n.at, `${what} must be text in double quotes, found ${typeName(n)}`);
-    return n.value;
-  }
-
-  strOrNull(n: JsonNode | undefined, what: string): string | null {
-    if (n === undefined || n.type === 'null') return null;
-    return this.str(n, what);
-  }
-
-  num(n: JsonNode | undefined, what: string, check?: (x: number) => boolean, rule?: string): number {
-    if (n === undefined) throw this.missing(what);
-    if (n.type !== 'number') throw this.error(n.at, `${what} must be a number, found ${typeName(n)}`);
-    if (check && !check(n.value)) throw this.error(n.at, `${what} must be ${rule}, found ${n.value}`);
-    return n.value;
-  }
-
-  numOrNull(n: JsonNode | undefined, what: string, check?: (x: number) => boolean, rule?: string): number | null {
-    if (n === undefined || n.type === 'null') return null;
-    return this.num(n, what, check, rule);
-  }
-
-  bool(n: JsonNode | undefined, what: string, fallback: boolean): boolean {
-    if (n === undefined) return fallback;
-    if (n.type !== 'boolean') throw this.error(n.at, `${what} must be true or false, found ${typeName(n)}`);
-    return n.value;
-  }
-
-  list(n: JsonNode | undefined, what: string): JsonNode[] {
-    if (n === undefined || n.type === 'null') return [];
-    if (n.type !== 'array') throw this.error(n.at, `${what} must be a list ([ ... ]), found ${typeName(n)}`);
-    return n.items;
-  }
-
-  strings(n: JsonNode | undefined, what: string): string[] {
-    return this.list(n, what).map((x, i) => this.str(x, `${what}[${i}]`));
-  }
-
-  vec3(n: JsonNode | undefined, what: string): Vec3 {
-    if (n === undefined) throw this.missing(what);
-    const items = this.list(n, what);
-    if (items.length !== 3) throw this.error(n.at, `${what} must be a list of three numbers, found ${items.length} values`);
-    return items.map((x, i) => this.num(x, `${what}[${i}]`)) as Vec3;
-  }
-
-  private missing(what: string): ReaderError {
-    const dot = what.lastIndexOf('.');
-    const owner = dot > 0 ? what.slice(0, dot) : 'the file';
-    return new ReaderError(ANNOTATIONS_FORMAT, this.file, { line: 0, column: 0 }, `${what} is missing (required in ${owner})`);
-  }
-
-  /** Like error(), but located at the object that lacks the field. */
-  missingIn(n: ObjNode, what: string): ReaderError {
-    return this.error(n.at, `${what} is missing`);
-  }
-}
-
-function typeName(n: JsonNode): string {
-  switch (n.type) {
-    case 'object':
-      return 'an object';
-    case 'array':
-      return 'a list';
-    case 'string':
-      return `the text "${n.value.length > 40 ? n.value.slice(0, 40) + '…' : n.value}"`;
-    case 'number':
-      return `the number ${n.value}`;
-    case 'boolean':
-      return String(n.value);
-    case 'null':
-      return 'null';
-  }
-}
-
-/** A node as a plain JSON value (objects without prototype, so any key is safe). */
-function plain(n: JsonNode): JsonValue {
-  switch (n.type) {
-    case 'object': {
-      const o = emptyExtra();
-      for (const m of n.members) o[m.key] = plain(m.value);
-      return o;
-    }
-    case 'array':
-      return n.items.map(plain);
-    case 'string':
-    case 'number':
-    case 'boolean':
-      return n.value;
-    case 'null':
-      return null;
-  }
-}
-
-const isWhole = (x: number): boolean => Number.isInteger(x);
-const positiveWhole = (x: number): boolean => Number.isInteger(x) && x >= 1;
-const nonNegative = (x: number): boolean => x >= 0;
-
-function need<T extends JsonNode | undefined>(w: Walker, o: ObjNode, n: T, what: string): NonNullable<T> {
-  if (n === undefined) throw w.missingIn(o, what);
-  return n;
-}
+export { ANNOTATIONS_FORMAT };
 
 function readSource(w: Walker, n: JsonNode, what: string): AnnotatedSource {
   const o = w.obj(n, what);
