@@ -7,8 +7,8 @@ import * as v from 'valibot';
 import type { ExtremumReport } from '../core/model';
 import type { FitCurve } from '../core/analysis/fitCurves';
 import type { BandData, EnvironmentData, WindowScanSeries } from './bandViewData';
+import { bandViewNames } from './names';
 import {
-  ErrorTextSchema,
   IndexSchema,
   MESSAGE_LIMITS,
   MethodSchema,
@@ -16,56 +16,49 @@ import {
   RequestIdSchema,
   SpinSchema,
   WindowSchema,
+  guardOf,
   hasTypeIn,
+  viewErrorSchema,
 } from './limits';
 
 // ---------------------------------------------------------------------------------------------------------
 // Message type names (the naming rule is at the top of ./index.ts)
 
+/**
+ * Host → view: BandData (the band structure to draw, after `ready` and again when the file changes); FitResult
+ * and WindowScanResult (the answers to requestFit and requestWindowScan); RequestFailed (a request that failed,
+ * `requestId` says which); SaveResult, ExportResult (outcomes); RequestExport (command "Export plot": the view
+ * answers with `export`); RequestSave (command "Save annotations": the view sends a `save` with what it has);
+ * Environment (theme or trust changed); Loading (the file is being (re)loaded); LoadFailed (the sentence to show
+ * in place of the plot); Reviews (the review statuses and notes of the annotations file beside the run).
+ */
 export const HostToViewType = {
-  /** The band structure to draw (sent after `ready`, and again when the file changes). */
-  BandData: 'bandData',
-  /** The answer to a requestFit. */
-  FitResult: 'fitResult',
-  /** The answer to a requestWindowScan. */
-  WindowScanResult: 'windowScanResult',
-  /** A request (fit, scan) that failed; `requestId` says which. */
-  RequestFailed: 'requestFailed',
-  /** The answer to a requestSave (or to a save the view started). */
-  SaveResult: 'saveResult',
-  /** The answer to an `export`. */
-  ExportResult: 'exportResult',
-  /** The host asks the view for the plot (command "Export plot"); the view answers with `export`. */
-  RequestExport: 'requestExport',
-  /** The host asks the view to send a `save` with what it has (command "Save annotations"). */
-  RequestSave: 'requestSave',
+  ...bandViewNames([
+    'BandData',
+    'FitResult',
+    'WindowScanResult',
+    'RequestFailed',
+    'SaveResult',
+    'ExportResult',
+    'RequestExport',
+    'RequestSave',
+    'Environment',
+    'Loading',
+    'LoadFailed',
+    'Reviews',
+  ]),
   /** @deprecated old key of RequestExport (same message). */
   ExportRequest: 'requestExport',
   /** @deprecated old key of RequestSave (same message). */
   SaveRequest: 'requestSave',
-  /** Theme or trust changed while the view is open. */
-  Environment: 'environment',
-  /** The file is being (re)loaded; the view may show a busy state. */
-  Loading: 'loading',
-  /** Loading failed: the sentence to show in place of the plot. */
-  LoadFailed: 'loadFailed',
-  /** The review statuses and notes of the annotations file beside the run (after data, and after a save). */
-  Reviews: 'reviews',
 } as const;
 export type HostToViewType = (typeof HostToViewType)[keyof typeof HostToViewType];
 
-export const ViewToHostType = {
-  /** The view has loaded its script and listens. */
-  Ready: 'ready',
-  RequestFit: 'requestFit',
-  RequestWindowScan: 'requestWindowScan',
-  Save: 'save',
-  Export: 'export',
-  /** Show the source file in an editor (optionally at the line of a k-point). */
-  OpenFile: 'openFile',
-  /** An error inside the view, for the host's log. */
-  ViewError: 'viewError',
-} as const;
+/**
+ * View → host: Ready (the view has loaded its script and listens); RequestFit, RequestWindowScan; Save; Export;
+ * OpenFile (show the source file, optionally at the line of a k-point); ViewError (for the host's log).
+ */
+export const ViewToHostType = bandViewNames(['Ready', 'RequestFit', 'RequestWindowScan', 'Save', 'Export', 'OpenFile', 'ViewError']);
 export type ViewToHostType = (typeof ViewToHostType)[keyof typeof ViewToHostType];
 
 export type ExportFormat = 'svg' | 'png';
@@ -90,12 +83,13 @@ export type FitTarget = v.InferOutput<typeof FitTargetSchema>;
 export const ReadyMessageSchema = v.strictObject({ type: v.literal(ViewToHostType.Ready) });
 export type ReadyMessage = v.InferOutput<typeof ReadyMessageSchema>;
 
+/** What every fit request carries: its id (repeated by the answer), the point, the method. */
+const fitRequestEntries = { requestId: RequestIdSchema, ...fitTargetEntries, method: MethodSchema };
+
 export const RequestFitMessageSchema = v.strictObject({
   type: v.literal(ViewToHostType.RequestFit),
-  requestId: RequestIdSchema,
-  ...fitTargetEntries,
+  ...fitRequestEntries,
   window_meV: WindowSchema,
-  method: MethodSchema,
   /** Also run a window scan and return it with the fit. */
   withScan: v.optional(v.boolean()),
 });
@@ -103,9 +97,7 @@ export type RequestFitMessage = v.InferOutput<typeof RequestFitMessageSchema>;
 
 export const RequestWindowScanMessageSchema = v.strictObject({
   type: v.literal(ViewToHostType.RequestWindowScan),
-  requestId: RequestIdSchema,
-  ...fitTargetEntries,
-  method: MethodSchema,
+  ...fitRequestEntries,
   /** Windows to scan, meV; the host uses its own default list when absent. */
   windows_meV: v.optional(v.pipe(v.array(WindowSchema), v.minLength(1), v.maxLength(MESSAGE_LIMITS.maxScanWindows))),
 });
@@ -159,7 +151,7 @@ export const OpenFileMessageSchema = v.strictObject({
 });
 export type OpenFileMessage = v.InferOutput<typeof OpenFileMessageSchema>;
 
-export const ViewErrorMessageSchema = v.strictObject({ type: v.literal(ViewToHostType.ViewError), message: ErrorTextSchema });
+export const ViewErrorMessageSchema = viewErrorSchema(ViewToHostType.ViewError);
 export type ViewErrorMessage = v.InferOutput<typeof ViewErrorMessageSchema>;
 
 export const ViewToHostMessageSchema = v.variant('type', [
@@ -171,16 +163,14 @@ export const ViewToHostMessageSchema = v.variant('type', [
   OpenFileMessageSchema,
   ViewErrorMessageSchema,
 ]);
-export type ViewToHostMessage =
-  ReadyMessage | RequestFitMessage | RequestWindowScanMessage | SaveMessage | ExportMessage | OpenFileMessage | ViewErrorMessage;
+/** Any message the band view may send (the union of the schemas above). */
+export type ViewToHostMessage = v.InferOutput<typeof ViewToHostMessageSchema>;
 
 /**
  * True when `x` is a well-formed message from the view: known type, only known fields, every field of the
  * right type and within bounds. Anything else is dropped by the host.
  */
-export function isViewToHostMessage(x: unknown): x is ViewToHostMessage {
-  return v.is(ViewToHostMessageSchema, x);
-}
+export const isViewToHostMessage = guardOf(ViewToHostMessageSchema);
 
 // ---------------------------------------------------------------------------------------------------------
 // Host → view messages

@@ -6,34 +6,32 @@
 import * as v from 'valibot';
 import type { EncodedArray } from './arrays';
 import type { BandData, EnvironmentData, PathSegmentData, PathTickData } from './bandViewData';
-import { ErrorTextSchema, RequestIdSchema, hasTypeIn } from './limits';
+import { RequestIdSchema, guardOf, hasTypeIn, viewErrorSchema } from './limits';
+import { compareViewNames } from './names';
 
-export const CompareHostToViewType = {
-  /** Runs found so far and how many are still being read. */
-  Progress: 'compareProgress',
-  /** The table: one row per run, the numeric columns, events and cautions. */
-  Table: 'compareTable',
-  /** Band data for the runs the view asked to overlay. */
-  Bands: 'compareBands',
-  /** A sentence for the status line (e.g. a run that could not be opened). */
-  Notice: 'compareNotice',
-} as const;
+/**
+ * Host → compare view: Progress (runs found so far and how many are still being read); Table (one row per run,
+ * the numeric columns, events and cautions); Bands (band data for the runs the view asked to overlay); Notice (a
+ * sentence for the status line, e.g. a run that could not be opened).
+ */
+export const CompareHostToViewType = compareViewNames(['Progress', 'Table', 'Bands', 'Notice']);
 export type CompareHostToViewType = (typeof CompareHostToViewType)[keyof typeof CompareHostToViewType];
 
-export const CompareViewToHostType = {
-  Ready: 'compareReady',
-  /** Look for runs again and re-read them. */
-  Rescan: 'compareRescan',
-  /** Take differences against this run. */
-  SetReference: 'compareSetReference',
-  /** List annotations files as runs of their own (true) or only beside their data runs (false). */
-  SetAnnotationsAsRuns: 'compareSetAnnotationsAsRuns',
-  /** Send band data of these runs (overlay). */
-  RequestBands: 'compareRequestBands',
-  /** Open a run: its band view, or its file in an editor. */
-  OpenRun: 'compareOpenRun',
-  ViewError: 'compareViewError',
-} as const;
+/**
+ * Compare view → host: Ready; Rescan (look for runs again and re-read them); SetReference (take differences
+ * against this run); SetAnnotationsAsRuns (list annotations files as runs of their own, or only beside their data
+ * runs); RequestBands (send band data of these runs, to overlay); OpenRun (its band view, or its file in an
+ * editor); ViewError (for the host's log).
+ */
+export const CompareViewToHostType = compareViewNames([
+  'Ready',
+  'Rescan',
+  'SetReference',
+  'SetAnnotationsAsRuns',
+  'RequestBands',
+  'OpenRun',
+  'ViewError',
+]);
 export type CompareViewToHostType = (typeof CompareViewToHostType)[keyof typeof CompareViewToHostType];
 
 /** A numeric column of the compare table (also a y quantity of the trend plot). */
@@ -178,7 +176,7 @@ export const CompareOpenRunMessageSchema = v.strictObject({
 });
 export type CompareOpenRunMessage = v.InferOutput<typeof CompareOpenRunMessageSchema>;
 
-export const CompareViewErrorMessageSchema = v.strictObject({ type: v.literal(CompareViewToHostType.ViewError), message: ErrorTextSchema });
+export const CompareViewErrorMessageSchema = viewErrorSchema(CompareViewToHostType.ViewError);
 export type CompareViewErrorMessage = v.InferOutput<typeof CompareViewErrorMessageSchema>;
 
 export const CompareViewToHostMessageSchema = v.variant('type', [
@@ -190,19 +188,11 @@ export const CompareViewToHostMessageSchema = v.variant('type', [
   CompareOpenRunMessageSchema,
   CompareViewErrorMessageSchema,
 ]);
-export type CompareViewToHostMessage =
-  | CompareReadyMessage
-  | CompareRescanMessage
-  | CompareSetReferenceMessage
-  | CompareSetAnnotationsAsRunsMessage
-  | CompareRequestBandsMessage
-  | CompareOpenRunMessage
-  | CompareViewErrorMessage;
+/** Any message the compare view may send (the union of the schemas above). */
+export type CompareViewToHostMessage = v.InferOutput<typeof CompareViewToHostMessageSchema>;
 
 /** True when `x` is a well-formed message from the compare view (known type, known fields, bounded values). */
-export function isCompareViewToHostMessage(x: unknown): x is CompareViewToHostMessage {
-  return v.is(CompareViewToHostMessageSchema, x);
-}
+export const isCompareViewToHostMessage = guardOf(CompareViewToHostMessageSchema);
 
 /** The view side's check on what the host sends. */
 export const isCompareHostToViewMessage = hasTypeIn(CompareHostToViewType) as (x: unknown) => x is CompareHostToViewMessage;

@@ -3,6 +3,7 @@
  * folder; it has no `vscode` and no DOM imports, so it also runs in unit tests.
  *
  * - ./arrays.ts       numeric arrays in transit (ArrayBuffer, typed array or base64 text)
+ * - ./names.ts        message type names, built from their keys by the naming rule below
  * - ./limits.ts       bounds on what a view may send, and the small schemas messages are built from
  * - ./bandViewData.ts what the host sends the band view to draw (band data, marks, environment)
  * - ./bandView.ts     the band view's messages, both directions

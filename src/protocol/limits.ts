@@ -36,6 +36,16 @@ export const SpinSchema = v.picklist([0, 1]);
 /** The text of an error a view reports for the host's log. */
 export const ErrorTextSchema = v.pipe(v.string(), v.maxLength(MESSAGE_LIMITS.maxErrorChars));
 
+/** The schema of an error inside a view, sent for the host's log, under that view's type name. */
+export function viewErrorSchema<const T extends string>(type: T) {
+  return v.strictObject({ type: v.literal(type), message: ErrorTextSchema });
+}
+
+/** The type guard of a schema: true when `x` passes every check of it. */
+export function guardOf<S extends v.GenericSchema>(schema: S): (x: unknown) => x is v.InferOutput<S> {
+  return (x): x is v.InferOutput<S> => v.is(schema, x);
+}
+
 /** A check that a host-to-view message names one of the given types (the host is trusted; the view checks the tag). */
 export function hasTypeIn(types: Record<string, string>): (x: unknown) => boolean {
   const known = new Set(Object.values(types));

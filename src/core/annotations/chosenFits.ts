@@ -35,15 +35,10 @@ export interface ChosenExtremum extends FitChoice {
   maximum?: boolean;
 }
 
-/** Fits the extremum at a point like massEngine.fitExtremumAt (its signature); a caller may answer from fits made before. */
-export type ExtremumFitter = (
-  bs: BandStructure,
-  spin: number,
-  kIndex: number,
-  band0: number,
-  settings: AnalysisSettings,
-  at?: { maximum: boolean },
-) => ExtremumReport;
+/** Where and how to fit: massEngine.fitExtremumAt's arguments (bands, spin, k index, band, settings, exactly-at). */
+type FitAt = [bs: BandStructure, spin: number, kIndex: number, band0: number, settings: AnalysisSettings, at?: { maximum: boolean }];
+/** Fits the extremum at a point like fitExtremumAt; a caller may answer from fits made before. */
+export type ExtremumFitter = (...args: FitAt) => ExtremumReport;
 
 export interface AnnotatedReport {
   /** The analysis with the chosen fits in place of the same extrema (or added). */

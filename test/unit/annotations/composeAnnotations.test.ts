@@ -5,20 +5,11 @@ import { ReaderError } from '../../../src/core/errors';
 import { DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { fitExtremumAt } from '../../../src/core/analysis/massEngine';
 import { nearestKIndex } from '../../../src/extension/bandData';
-import { loadSi } from '../extension/demoRun';
+import { composeInputOf, loadSi } from '../extension/demoRun';
 
 async function base() {
   const si = await loadSi();
-  const input = {
-    bs: si.bs,
-    report: si.report,
-    source: si.bs.source,
-    settings: DEFAULT_SETTINGS,
-    toolVersion: '0.1.0',
-    fits: [],
-    existingText: null,
-    existingName: 'EIGENVAL.valleys.json',
-  };
+  const input = composeInputOf(si);
   return { si, input };
 }
 

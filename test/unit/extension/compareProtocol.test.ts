@@ -87,6 +87,16 @@ describe('protocol: one naming rule for requests in both directions', () => {
       const bare = wire.replace(/^compare/, '');
       assert.equal(bare.charAt(0).toUpperCase() + bare.slice(1), key, wire);
     }
+    // Every type name follows the rule (the deprecated aliases below aside).
+    const lowerFirst = (k: string): string => k.charAt(0).toLowerCase() + k.slice(1);
+    for (const [key, wire] of [...Object.entries(HostToViewType), ...Object.entries(ViewToHostType)]) {
+      if (key !== 'ExportRequest' && key !== 'SaveRequest') assert.equal(wire, lowerFirst(key), key);
+    }
+    for (const [key, wire] of [...Object.entries(CompareHostToViewType), ...Object.entries(CompareViewToHostType)]) {
+      assert.equal(wire, `compare${key}`, key);
+    }
+    assert.equal(ViewToHostType.RequestFit, 'requestFit');
+    assert.equal(CompareViewToHostType.RequestBands, 'compareRequestBands');
     // The old keys stay as aliases of the same messages, so code written against them keeps working.
     assert.equal(HostToViewType.SaveRequest, HostToViewType.RequestSave);
     assert.equal(HostToViewType.ExportRequest, HostToViewType.RequestExport);

@@ -11,7 +11,7 @@ import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import type { LoadedRun } from '../../../src/extension/runLoader';
 import type { BandStructure, Mat3 } from '../../../src/core/model';
 import { makeBands, line } from '../../support/bandStructure';
-import { loadSi } from './demoRun';
+import { composeInputOf, loadSi } from './demoRun';
 
 // ħ²/m_e = 7.6199642 eV·Å² (CODATA 2018, twice 3.80998212 eV·Å²; physics.md item 4), written out here so the
 // check does not reuse the code's own constant.
@@ -190,22 +190,14 @@ describe('extension: fits for the band view', () => {
   });
 
   it('a save after a fit answers from the fit already made, with the same numbers as fitting again', async () => {
-    const { bs, report, geometry } = await loadSi();
+    const si = await loadSi();
+    const { bs, report, geometry } = si;
     const run: LoadedRun = { uri: null as never, fileUri: null as never, bs, report, geometry, size: 0 };
     const svc = makeFitService(() => DEFAULT_SETTINGS);
     const cbm = buildBandData(bs, report, geometry, 'x', DEFAULT_SETTINGS, 'vbm').marks.find((m) => m.kind === 'cbm')!;
     const target = { spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0, maximum: false };
     svc.fit(run, target, 40, 'parabola', false);
-    const input = {
-      bs,
-      report,
-      source: bs.source,
-      settings: DEFAULT_SETTINGS,
-      toolVersion: 'test',
-      fits: [{ ...target, window_meV: 40, method: 'parabola' }],
-      existingText: null,
-      existingName: 'EIGENVAL.valleys.json',
-    };
+    const input = { ...composeInputOf(si), fits: [{ ...target, window_meV: 40, method: 'parabola' }] };
     // Byte-identical file whether the chosen fit is redone or taken from the fit the view asked for.
     assert.equal(composeAnnotations({ ...input, fit: svc.cachedFitter(run) }).text, composeAnnotations(input).text);
     // Taken, not redone: the kept fit survives a change of the arrays it was made from (runs are never changed in
