@@ -5,7 +5,7 @@
  * JSON, a key written twice, conflict markers, a wrong type in a known field, or a file from a newer layout
  * are refused with a ReaderError that names the line and column and says what is wrong.
  */
-import type { ExtremumKind, Mat3 } from '../model';
+import type { ExtremumKind } from '../model';
 import { ReaderError } from '../errors';
 import {
   ANNOTATIONS_LAYOUT_VERSION,
@@ -16,24 +16,34 @@ import {
   layout1EntryId,
   type AnnotatedEntry,
   type AnnotatedGap,
-  type AnnotatedMass,
-  type AnnotatedPoint,
   type AnnotatedSettings,
   type AnnotatedSource,
-  type AnnotatedTensor,
   type AnnotationsDoc,
 } from './annotationsModel';
 import { JsonSyntaxError, parseJsonWithPositions, positionOf, type JsonNode } from './jsonWithPositions';
 import { DEFAULT_SETTINGS } from '../analysis/analyze';
 import { valleyRepresentative } from '../lattice/valleyIdentity';
 import { bandFromEdge } from './buildAnnotations';
-import { ANNOTATIONS_FORMAT, Walker, isWhole, need, nonNegative, positiveWhole, typeName } from './jsonFieldReader';
+import { ANNOTATIONS_FORMAT, Walker, need, nonNegative, positiveWhole, typeName } from './jsonFieldReader';
+import { readFit, readGap, readMass, readSpin, readTensor, saysSecondChannel } from './readAnnotatedNumbers';
 
 export { ANNOTATIONS_FORMAT };
 
+/** The members of a recorded source and of the settings the reader knows. */
+export const SOURCE_KEYS = ['path', 'role', 'sha256'] as const;
+export const SETTINGS_KEYS = [
+  'window_meV',
+  'method',
+  'range_eV',
+  'degeneracy_meV',
+  'forceSpinorbit',
+  'alat_angstrom',
+  'structureFile',
+] as const;
+
 function readSource(w: Walker, n: JsonNode, what: string): AnnotatedSource {
   const o = w.obj(n, what);
-  const f = w.fields(o, ['path', 'role', 'sha256']);
+  const f = w.fields(o, SOURCE_KEYS);
   const sha = w.str(need(w, o, f.get('sha256'), `${what}.sha256`), `${what}.sha256`);
   const shaNode = f.get('sha256')!;
   if (!/^[0-9a-f]{64}$/.test(sha)) throw w.error(shaNode.at, `${what}.sha256 must be 64 lowercase hexadecimal digits (a SHA-256)`);
@@ -51,7 +61,7 @@ function readSettings(w: Walker, n: JsonNode | undefined): AnnotatedSettings {
     return { ...DEFAULT_SETTINGS, forceSpinorbit: false, alat_angstrom: null, structureFile: null, extra: emptyExtra() };
   }
   const o = w.obj(n, 'settings');
-  const f = w.fields(o, ['window_meV', 'method', 'range_eV', 'degeneracy_meV', 'forceSpinorbit', 'alat_angstrom', 'structureFile']);
+  const f = w.fields(o, SETTINGS_KEYS);
   const pos = (x: number): boolean => x > 0;
   const get = (k: 'window_meV' | 'range_eV' | 'degeneracy_meV', check: (x: number) => boolean, rule: string): number =>
     f.get(k) === undefined ? DEFAULT_SETTINGS[k] : w.num(f.get(k), `settings.${k}`, check, rule);
@@ -67,127 +77,8 @@ function readSettings(w: Walker, n: JsonNode | undefined): AnnotatedSettings {
   };
 }
 
-/** A spin channel: "up"/"down" (layout 2, spin-polarised runs) or 0/1 (layout 1). */
-function readSpin(w: Walker, n: JsonNode | undefined, what: string): 0 | 1 {
-  if (n !== undefined && n.type === 'string') {
-    if (n.value === 'up') return 0;
-    if (n.value === 'down') return 1;
-    throw w.error(n.at, `${what} must be "up" or "down", found "${n.value}"`);
-  }
-  if (n !== undefined && n.type === 'null') return 0;
-  return w.num(n, what, (x) => x === 0 || x === 1, '"up", "down", 0 or 1') as 0 | 1;
-}
-
-/** Whether a spin field was written at all, and as a layout-1 number 1 (a second channel). */
-const saysSecondChannel = (n: JsonNode | undefined): boolean =>
-  n !== undefined && ((n.type === 'number' && n.value === 1) || (n.type === 'string' && n.value === 'down'));
-
-function readPoint(w: Walker, n: JsonNode, what: string): AnnotatedPoint {
-  const o = w.obj(n, what);
-  const f = w.fields(o, ['band', 'spin', 'k', 'label', 'energy_eV']);
-  return {
-    band: w.num(need(w, o, f.get('band'), `${what}.band`), `${what}.band`, positiveWhole, 'a whole number of 1 or more'),
-    spin: f.get('spin') === undefined ? 0 : readSpin(w, f.get('spin'), `${what}.spin`),
-    k: w.vec3(need(w, o, f.get('k'), `${what}.k`), `${what}.k`),
-    label: w.strOrNull(f.get('label'), `${what}.label`),
-    energy_eV: w.num(need(w, o, f.get('energy_eV'), `${what}.energy_eV`), `${what}.energy_eV`),
-  };
-}
-
-function readGap(w: Walker, n: JsonNode | undefined): AnnotatedGap | null {
-  if (n === undefined || n.type === 'null') return null;
-  const o = w.obj(n, 'gap');
-  const f = w.fields(o, ['eV', 'direct', 'vbm', 'cbm', 'directGap']);
-  const dgNode = need(w, o, f.get('directGap'), 'gap.directGap');
-  const dg = w.obj(dgNode, 'gap.directGap');
-  const dgf = w.fields(dg, ['eV', 'k']);
-  return {
-    eV: w.num(need(w, o, f.get('eV'), 'gap.eV'), 'gap.eV'),
-    direct: w.bool(f.get('direct'), 'gap.direct', false),
-    vbm: readPoint(w, need(w, o, f.get('vbm'), 'gap.vbm'), 'gap.vbm'),
-    cbm: readPoint(w, need(w, o, f.get('cbm'), 'gap.cbm'), 'gap.cbm'),
-    directGap: {
-      eV: w.num(need(w, dg, dgf.get('eV'), 'gap.directGap.eV'), 'gap.directGap.eV'),
-      k: w.vec3(need(w, dg, dgf.get('k'), 'gap.directGap.k'), 'gap.directGap.k'),
-    },
-    extra: f.extra,
-  };
-}
-
-const MASS_KEYS = [
-  'towards',
-  'direction',
-  'mass',
-  'stderr',
-  'points',
-  'window_meV',
-  'method',
-  'alpha_per_eV',
-  'residual_meV',
-  'branch',
-  'determined',
-  'warnings',
-];
-
-function readMass(w: Walker, n: JsonNode, what: string): AnnotatedMass {
-  const o = w.obj(n, what);
-  const f = w.fields(o, MASS_KEYS);
-  return {
-    towards: w.str(f.get('towards'), `${what}.towards`, ''),
-    direction: w.vec3(need(w, o, f.get('direction'), `${what}.direction`), `${what}.direction`),
-    mass: w.numOrNull(f.get('mass'), `${what}.mass`),
-    stderr: w.numOrNull(f.get('stderr'), `${what}.stderr`, nonNegative, 'zero or positive'),
-    points: w.num(need(w, o, f.get('points'), `${what}.points`), `${what}.points`, (x) => isWhole(x) && x >= 0, 'a whole number'),
-    window_meV: w.num(need(w, o, f.get('window_meV'), `${what}.window_meV`), `${what}.window_meV`, nonNegative, 'zero or positive'),
-    method: w.str(need(w, o, f.get('method'), `${what}.method`), `${what}.method`),
-    alpha_per_eV: w.numOrNull(f.get('alpha_per_eV'), `${what}.alpha_per_eV`),
-    residual_meV: w.numOrNull(f.get('residual_meV'), `${what}.residual_meV`, nonNegative, 'zero or positive'),
-    branch: w.numOrNull(f.get('branch'), `${what}.branch`, positiveWhole, 'a whole number of 1 or more'),
-    determined:
-      f.get('determined') === undefined || f.get('determined')!.type === 'null'
-        ? null
-        : w.bool(f.get('determined'), `${what}.determined`, true),
-    warnings: w.strings(f.get('warnings'), `${what}.warnings`),
-    extra: f.extra,
-  };
-}
-
-function readTensor(w: Walker, n: JsonNode | undefined, what: string): AnnotatedTensor | null {
-  if (n === undefined || n.type === 'null') return null;
-  const o = w.obj(n, what);
-  const f = w.fields(o, ['principal', 'stderr', 'axes', 'method', 'points', 'residual_meV']);
-  const axesNode = need(w, o, f.get('axes'), `${what}.axes`);
-  const rows = w.list(axesNode, `${what}.axes`);
-  if (rows.length !== 3) throw w.error(axesNode.at, `${what}.axes must hold three rows, found ${rows.length}`);
-  return {
-    principal: w.vec3(need(w, o, f.get('principal'), `${what}.principal`), `${what}.principal`),
-    stderr: f.get('stderr') === undefined || f.get('stderr')!.type === 'null' ? null : w.vec3(f.get('stderr'), `${what}.stderr`),
-    axes: rows.map((r, i) => w.vec3(r, `${what}.axes[${i}]`)) as Mat3,
-    method: w.str(need(w, o, f.get('method'), `${what}.method`), `${what}.method`),
-    points: w.numOrNull(f.get('points'), `${what}.points`, (x) => isWhole(x) && x >= 0, 'a whole number'),
-    residual_meV: w.numOrNull(f.get('residual_meV'), `${what}.residual_meV`, nonNegative, 'zero or positive'),
-    extra: f.extra,
-  };
-}
-
-/** A reviewer's fit settings for one entry; null when absent. The window must be a positive number of meV. */
-function readFit(w: Walker, n: JsonNode | undefined, what: string): AnnotatedEntry['fit'] {
-  if (n === undefined || n.type === 'null') return null;
-  const o = w.obj(n, what);
-  const f = w.fields(o, ['window_meV', 'method']);
-  return {
-    window_meV: w.num(
-      need(w, o, f.get('window_meV'), `${what}.window_meV`),
-      `${what}.window_meV`,
-      (x) => x > 0 && x <= 1e5,
-      'a positive number of meV',
-    ),
-    method: w.str(need(w, o, f.get('method'), `${what}.method`), `${what}.method`),
-    extra: f.extra,
-  };
-}
-
-const ENTRY_KEYS = [
+/** The members of an entry the reader knows (others are kept as the entry's extra fields). */
+export const ENTRY_KEYS = [
   'id',
   'status',
   'note',
@@ -279,7 +170,8 @@ function readEntry(w: Walker, n: JsonNode, what: string, ctx: EntryContext): Ann
   return e;
 }
 
-const TOP_KEYS = [
+/** The top-level members the reader knows (others are kept as extra fields). */
+export const TOP_KEYS = [
   'valleyscopeAnnotations',
   'toolVersion',
   'format',
