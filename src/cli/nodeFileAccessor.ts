@@ -6,7 +6,7 @@
  */
 import { closeSync, constants as fsc, fstatSync, openSync, promises as fsp, readSync, statSync, type Stats } from 'node:fs';
 import { join } from 'node:path';
-import type { ByteRangeSource, DirEntry, FileAccessor, FileStat } from '../core/io/fileAccessor';
+import type { ByteRangeSource, DirEntry, EntryType, FileAccessor, FileStat } from '../core/io/fileAccessor';
 import { READ_LIMITS, tooLargeSentence } from '../core/io/readLimits';
 import { notRegularSentence } from '../core/io/pathPolicy';
 import { entryKindOf } from '../core/io/entryKind';
@@ -16,8 +16,12 @@ import { fsErrorCode, fsErrorSentence } from './fsErrors';
 /** O_NONBLOCK: opening a FIFO returns at once instead of waiting for a writer (0 where the platform lacks it). */
 const OPEN_FLAGS = fsc.O_RDONLY | (fsc.O_NONBLOCK ?? 0) | (fsc.O_NOCTTY ?? 0);
 
+function kindOf(s: Stats): { type: EntryType; kind?: string } {
+  return entryKindOf(s);
+}
+
 function toFileStat(s: Stats): FileStat {
-  return { ...entryKindOf(s), size: s.size };
+  return { ...kindOf(s), size: s.size };
 }
 
 function refuseIfNotRegular(path: string, s: Stats): void {
@@ -151,7 +155,7 @@ export const nodeFileAccessor: FileAccessor = {
       if (e.isSymbolicLink()) {
         // Followed for its type; whether its target may be opened is the path policy's decision.
         try {
-          out.push({ name: e.name, type: entryKindOf(await fsp.stat(join(dir, e.name))).type, link: true });
+          out.push({ name: e.name, type: kindOf(await fsp.stat(join(dir, e.name))).type, link: true });
         } catch {
           // A dangling link is nothing to read.
         }

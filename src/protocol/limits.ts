@@ -41,9 +41,12 @@ export function viewErrorSchema<const T extends string>(type: T) {
   return v.strictObject({ type: v.literal(type), message: ErrorTextSchema });
 }
 
-/** The type guard of a schema: true when `x` passes every check of it. */
-export function guardOf<S extends v.GenericSchema>(schema: S): (x: unknown) => x is v.InferOutput<S> {
-  return (x): x is v.InferOutput<S> => v.is(schema, x);
+/**
+ * The type guard of a schema: true when `x` passes every check of it. The narrowed type keeps what was known
+ * of `x` before (a `Record<string, unknown>` stays indexable), so callers can read any field after the check.
+ */
+export function guardOf<S extends v.GenericSchema>(schema: S): <T>(x: T) => x is T & v.InferOutput<S> {
+  return <T>(x: T): x is T & v.InferOutput<S> => v.is(schema, x);
 }
 
 /** A check that a host-to-view message names one of the given types (the host is trusted; the view checks the tag). */
