@@ -1,6 +1,6 @@
 // Lint configuration (ESLint flat config + typescript-eslint). `npm run lint` runs it; `npm test` runs lint first.
 // Layer rules (DEVELOPERS.md, "Layout"): src/core is pure (no `vscode`, no node built-ins, nothing from the
-// extension, the CLI or the webviews); the webviews import only src/protocol.ts and the core.
+// extension, the CLI or the webviews); the webviews import only src/protocol/ and the core.
 import { builtinModules } from 'node:module';
 import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
@@ -123,13 +123,13 @@ export default tseslint.config(
   layerRule(
     'src/core/**/*.ts',
     String.raw`^(\.\./)+(extension|cli|protocol)(/|$)|(^|/)webview(/|$)`,
-    'src/core imports nothing from src/extension, src/cli, src/protocol.ts or webview/.',
+    'src/core imports nothing from src/extension, src/cli, src/protocol/ or webview/.',
   ),
-  // Layer rule: the webviews import only src/protocol.ts and the core's pure modules.
+  // Layer rule: the webviews import only src/protocol/ and the core's pure modules.
   layerRule(
     'webview/**/*.ts',
-    String.raw`^(\.\./)+src/(?!protocol$|core/)`,
-    'The webviews import only src/protocol.ts and modules of src/core.',
+    String.raw`^(\.\./)+src/(?!protocol(/|$)|core/)`,
+    'The webviews import only src/protocol/ and modules of src/core.',
   ),
   // Formatting is Prettier's (`prettier --check` in `npm run lint`): turn off the lint rules it owns.
   prettierOff,

@@ -9,6 +9,7 @@ import { join } from 'node:path';
 import type { ByteRangeSource, DirEntry, EntryType, FileAccessor, FileStat } from '../core/io/fileAccessor';
 import { READ_LIMITS, tooLargeSentence } from '../core/io/readLimits';
 import { notRegularSentence } from '../core/io/pathPolicy';
+import { entryKindOf } from '../core/io/entryKind';
 import { ValleyscopeError } from '../core/errors';
 import { fsErrorCode, fsErrorSentence } from './fsErrors';
 
@@ -16,18 +17,7 @@ import { fsErrorCode, fsErrorSentence } from './fsErrors';
 const OPEN_FLAGS = fsc.O_RDONLY | (fsc.O_NONBLOCK ?? 0) | (fsc.O_NOCTTY ?? 0);
 
 function kindOf(s: Stats): { type: EntryType; kind?: string } {
-  if (s.isFile()) return { type: 'file' };
-  if (s.isDirectory()) return { type: 'directory' };
-  const kind = s.isFIFO()
-    ? 'a FIFO (named pipe)'
-    : s.isCharacterDevice()
-      ? 'a character device'
-      : s.isBlockDevice()
-        ? 'a block device'
-        : s.isSocket()
-          ? 'a socket'
-          : 'not a regular file';
-  return { type: 'other', kind };
+  return entryKindOf(s);
 }
 
 function toFileStat(s: Stats): FileStat {

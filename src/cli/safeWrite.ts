@@ -15,6 +15,7 @@ import { randomBytes } from 'node:crypto';
 import { dirname, join } from 'node:path';
 import { ValleyscopeError } from '../core/errors';
 import { annotationsPathFor } from '../core/annotations/annotationsModel';
+import { contentStamp, type AtomicWriter, type ContentStamp } from '../core/annotations/atomicWrite';
 
 /** The file-system calls used, replaceable in tests to simulate faults (disk full, crash before rename). */
 export interface SafeWriteFs {
@@ -42,10 +43,12 @@ export const nodeSafeWriteFs: SafeWriteFs = {
 export interface SafeWriteOptions {
   /**
    * What the caller read from the target before computing the new content: `null` when it did not exist,
-   * the bytes when it did. The write stops (WriteConflictError) if the target changed since. Leave out to
-   * overwrite whatever is there.
+   * the bytes when it did. The write stops (WriteConflictError) if the target's content changed since (the
+   * rule of core/annotations/atomicWrite.ts). Leave out to overwrite whatever is there.
    */
   expectExisting?: Uint8Array | null;
+  /** The same, as the content stamp of what was read (takes precedence over expectExisting). */
+  expectStamp?: ContentStamp;
   fs?: SafeWriteFs;
   /** Called after the temporary file is written and flushed, before the rename (tests simulate crashes here). */
   beforeRename?: (tempPath: string) => void | Promise<void>;
@@ -59,12 +62,6 @@ export class WriteConflictError extends ValleyscopeError {
     );
     this.name = 'WriteConflictError';
   }
-}
-
-function sameBytes(a: Uint8Array, b: Uint8Array): boolean {
-  if (a.length !== b.length) return false;
-  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
-  return true;
 }
 
 function explain(target: string, e: unknown): ValleyscopeError {
@@ -168,7 +165,13 @@ export async function writeFileSafely(target: string, content: Uint8Array | stri
     await handle.close();
     handle = null;
     if (options.beforeRename) await options.beforeRename(temp);
-    if (options.expectExisting !== undefined) {
+    const expected =
+      options.expectStamp !== undefined
+        ? options.expectStamp
+        : options.expectExisting !== undefined
+          ? contentStamp(options.expectExisting)
+          : undefined;
+    if (expected !== undefined) {
       let now: Uint8Array | null;
       try {
         now = await fs.readFile(target);
@@ -176,10 +179,7 @@ export async function writeFileSafely(target: string, content: Uint8Array | stri
         if ((e as NodeJS.ErrnoException).code !== 'ENOENT') throw e;
         now = null;
       }
-      const expected = options.expectExisting;
-      if ((now === null) !== (expected === null) || (now && expected && !sameBytes(now, expected))) {
-        throw new WriteConflictError(target);
-      }
+      if (contentStamp(now) !== expected) throw new WriteConflictError(target);
     }
     await fs.rename(temp, target);
     renamed = true;
@@ -209,4 +209,19 @@ export async function writeAnnotationsBeside(dataFile: string, text: string, opt
   const target = annotationsPathFor(dataFile);
   await writeFileSafely(target, text, options);
   return target;
+}
+
+/** The CLI's side of the atomic-write contract (core/annotations/atomicWrite.ts), over node's fs. */
+export function nodeAtomicWriter(options: Pick<SafeWriteOptions, 'fs' | 'beforeRename'> = {}): AtomicWriter {
+  return {
+    async writeIfUnchanged(path, bytes, expected) {
+      try {
+        await writeFileSafely(path, bytes, { ...options, expectStamp: expected });
+        return 'written';
+      } catch (e) {
+        if (e instanceof WriteConflictError) return 'changed-on-disk';
+        throw e;
+      }
+    },
+  };
 }

@@ -8,6 +8,7 @@
 import * as vscode from 'vscode';
 import { ValleyscopeError } from '../core/errors';
 import { READ_LIMITS, tooLargeSentence } from '../core/io/readLimits';
+import { readStateOf, type ReadState } from '../core/annotations/atomicWrite';
 import type { AtomicFs } from './atomicWrite';
 
 export interface AnnotationsTarget {
@@ -22,9 +23,9 @@ export function annotationsTarget(dataFile: vscode.Uri): AnnotationsTarget {
   return { uri, document };
 }
 
-/** The current text of the target: the open document's (with unsaved edits), or the file's, or null. */
-export async function currentText(t: AnnotationsTarget): Promise<{ text: string | null; mtime: number | null }> {
-  if (t.document) return { text: t.document.getText(), mtime: null };
+/** The current text of the target (the open document's, with unsaved edits, or the file's, or null) and its stamp. */
+export async function currentText(t: AnnotationsTarget): Promise<ReadState> {
+  if (t.document) return { text: t.document.getText(), stamp: null };
   try {
     const st = await vscode.workspace.fs.stat(t.uri);
     // Only a regular file within the annotations limit is read (a FIFO or device there would block or never end).
@@ -35,10 +36,9 @@ export async function currentText(t: AnnotationsTarget): Promise<{ text: string 
     }
     if (st.size > READ_LIMITS.annotations)
       throw new ValleyscopeError(tooLargeSentence(t.uri.path, st.size, READ_LIMITS.annotations, 'annotations'));
-    const bytes = await vscode.workspace.fs.readFile(t.uri);
-    return { text: new TextDecoder('utf-8').decode(bytes), mtime: st.mtime };
+    return readStateOf(await vscode.workspace.fs.readFile(t.uri));
   } catch (e) {
-    if (e instanceof vscode.FileSystemError && e.code === 'FileNotFound') return { text: null, mtime: null };
+    if (e instanceof vscode.FileSystemError && e.code === 'FileNotFound') return readStateOf(null);
     throw e;
   }
 }
@@ -60,17 +60,23 @@ export async function writeThroughEditor(doc: vscode.TextDocument, text: string)
   return 'saved';
 }
 
-/** vscode.workspace.fs as the small interface writeAtomically needs, for files beside `base`. */
+/** vscode.workspace.fs as the small interface the atomic writer needs, for files beside `base`. */
 export function workspaceAtomicFs(base: vscode.Uri): AtomicFs {
   const at = (path: string) => base.with({ path });
   return {
     writeFile: async (path, bytes) => vscode.workspace.fs.writeFile(at(path), bytes),
-    mtime: async (path) => {
+    readFile: async (path) => {
+      let st: vscode.FileStat;
       try {
-        return (await vscode.workspace.fs.stat(at(path))).mtime;
-      } catch {
-        return null;
+        st = await vscode.workspace.fs.stat(at(path));
+      } catch (e) {
+        if (e instanceof vscode.FileSystemError && e.code === 'FileNotFound') return null;
+        throw e;
       }
+      // Compared before the rename: only a regular file within the limit is read (a FIFO would never end).
+      if (!(st.type & vscode.FileType.File) || st.type & vscode.FileType.Directory || st.size > READ_LIMITS.annotations)
+        throw new ValleyscopeError(`${path}: replaced by something other than an annotations file while saving`);
+      return vscode.workspace.fs.readFile(at(path));
     },
     rename: async (from, to) => vscode.workspace.fs.rename(at(from), at(to), { overwrite: true }),
     delete: async (path) => vscode.workspace.fs.delete(at(path)),

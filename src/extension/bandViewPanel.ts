@@ -282,7 +282,7 @@ export class BandViewPanel implements vscode.Disposable {
         void this.save({ type: ViewToHostType.Save, entries: [] });
       }, VIEW_ANSWER_MS);
       this.pendingSave = done;
-      if (this.ready) this.post({ type: HostToViewType.SaveRequest });
+      if (this.ready) this.post({ type: HostToViewType.RequestSave });
       else void this.save({ type: ViewToHostType.Save, entries: [] });
     });
   }
@@ -300,7 +300,7 @@ export class BandViewPanel implements vscode.Disposable {
         resolve({ ok, message });
       };
       this.pendingExport = { format, target, done };
-      this.post({ type: HostToViewType.ExportRequest, format });
+      this.post({ type: HostToViewType.RequestExport, format });
     });
   }
 

@@ -1,8 +1,7 @@
 /**
- * The compare view, host side: one panel for the workspace. Finds the runs (compareViewRuns.ts), has the run
- * store read and analyse each data file (the same runner and worker as the band view), reads annotations
- * files as runs (src/core/compare/loadAnnotationsRun.ts), builds the table (compareViewData.ts), sends band
- * data for overlays, and opens runs. Every message from the view is validated against the protocol first.
+ * The compare view, host side: one panel for the workspace. Reads the workspace's runs (compareViewScan.ts),
+ * builds the table (compareViewData.ts), sends band data for overlays, and opens runs. Every message from the
+ * view is validated against the protocol first.
  */
 import * as vscode from 'vscode';
 import {
@@ -15,20 +14,13 @@ import {
   type CompareViewToHostMessage,
 } from '../protocol';
 import type { RunStore } from './runStore';
-import type { LoadedRun } from './runLoader';
 import type { ExtensionSettings } from './settings';
 import { bandViewHtml, makeNonce } from './bandViewHtml';
 import { environmentFor } from './trust';
 import { COMMANDS } from './commandIds';
-import { findWorkspaceRuns } from './compareViewRuns';
-import { bandRunOf, buildCompareTable, type CompareEntry } from './compareViewData';
-import { WorkspaceFileAccessor } from './fileAccessor';
-import { loadAnnotationsRun, type LoadedAnnotationsRun } from '../core/compare/loadAnnotationsRun';
-import { dataPathFor } from '../core/annotations/annotationsModel';
-import { crystalSymmetry, symmetryReady } from '../core/lattice/symmetry';
-import { compositionOf } from '../core/compare/structureDescriptors';
-import { labelledLines } from '../core/lattice/pathPosition';
-import type { RunInput } from '../core/compare/compareRuns';
+import { bandRunOf, buildCompareTable } from './compareViewData';
+import { readWorkspaceRuns, type Found } from './compareViewScan';
+import { dataRunInput } from '../core/compare/dataRunInput';
 
 export const COMPARE_VIEW_TYPE = 'valleyscope.compareView';
 export const OPEN_COMPARE_VIEW_COMMAND = 'valleyscope.openCompareView';
@@ -46,37 +38,8 @@ export interface CompareDeps {
 /** Key of the remembered reference (the run's workspace-relative name). */
 export const REFERENCE_MEMORY_KEY = 'valleyscope.compare.reference';
 
-interface Found {
-  entry: CompareEntry;
-  /** The eigenvalue file to draw and open in a band view (null when there is none). */
-  dataUri: vscode.Uri | null;
-  /** The file opened by "open file". */
-  fileUri: vscode.Uri;
-}
-
 function message(e: unknown): string {
   return e instanceof Error ? e.message : String(e);
-}
-
-/** What the comparison needs of a loaded run's crystal: rotations, lattice type, lattice points, composition. */
-function crystalOf(run: LoadedRun): Pick<RunInput, 'rotations' | 'latticeType' | 'latticePointsPerCell' | 'composition' | 'pathLines'> {
-  const composition = run.bs.structure ? compositionOf(run.bs.structure.species) : null;
-  // The labelled path lines name valleys off the labels as the CLI does ("0.85 Γ→X").
-  const pathLines = labelledLines(run.bs);
-  if (!run.bs.structure || !symmetryReady())
-    return { rotations: null, latticeType: null, latticePointsPerCell: null, composition, pathLines };
-  try {
-    const sym = crystalSymmetry(run.bs.structure);
-    return {
-      rotations: sym.rotations,
-      latticeType: sym.bravaisClass,
-      latticePointsPerCell: sym.latticePointsPerCell,
-      composition,
-      pathLines,
-    };
-  } catch {
-    return { rotations: null, latticeType: null, latticePointsPerCell: null, composition, pathLines };
-  }
 }
 
 export class CompareViewPanel implements vscode.Disposable {
@@ -209,126 +172,11 @@ export class CompareViewPanel implements vscode.Disposable {
     this.scan?.cancel();
     const cts = new vscode.CancellationTokenSource();
     this.scan = cts;
-    this.progress(0, 0, 'Looking for runs in the workspace …');
-    const s = this.deps.settings();
-    const runs = await findWorkspaceRuns(cts.token, s.maxBytes);
-    if (cts.token.isCancellationRequested) return;
-    const annotationsByData = new Map(runs.annotations.map((u) => [dataPathFor(u.path), u]));
-    const found: Found[] = [];
-    let n = 0;
-    const nextId = (): string => `r${n++}`;
-    const total = runs.data.length + runs.annotations.length;
-    let done = 0;
-    const tick = (what: string): void => this.progress(total, ++done, `Read ${done} of ${total}: ${what}`);
-    const annotationsCache = new Map<string, LoadedAnnotationsRun | Error>();
-    const readAnnotations = async (u: vscode.Uri): Promise<LoadedAnnotationsRun | Error> => {
-      const key = u.toString();
-      const have = annotationsCache.get(key);
-      if (have) return have;
-      const fs = new WorkspaceFileAccessor(u, s.maxBytes);
-      let out: LoadedAnnotationsRun | Error;
-      try {
-        out = await loadAnnotationsRun(fs, u.path, vscode.workspace.asRelativePath(u));
-      } catch (e) {
-        out = e instanceof Error ? e : new Error(String(e));
-      } finally {
-        fs.release();
-      }
-      annotationsCache.set(key, out);
-      return out;
-    };
-    for (const uri of runs.data) {
-      if (cts.token.isCancellationRequested) return;
-      const name = vscode.workspace.asRelativePath(uri);
-      const beside = annotationsByData.get(uri.path) ?? null;
-      let annotations: CompareEntry['annotations'] = 'none';
-      let staleReasons: string[] = [];
-      if (beside) {
-        const a = await readAnnotations(beside);
-        if (a instanceof Error) {
-          annotations = 'stale';
-          staleReasons = [`the annotations file could not be read: ${a.message}`];
-        } else {
-          annotations = a.run.stale ? 'stale' : 'current';
-          staleReasons = a.staleReasons;
-        }
-      }
-      const id = nextId();
-      try {
-        const run = await this.deps.store.get(uri);
-        found.push({
-          entry: {
-            id,
-            name,
-            origin: 'data',
-            annotations,
-            staleReasons,
-            run: { name: id, report: run.report, lattice: run.bs.lattice, ...crystalOf(run), origin: 'data' },
-            error: null,
-            canOverlay: true,
-          },
-          dataUri: uri,
-          fileUri: uri,
-        });
-      } catch (e) {
-        found.push({
-          entry: { id, name, origin: 'data', annotations, staleReasons, run: null, error: message(e), canOverlay: false },
-          dataUri: uri,
-          fileUri: uri,
-        });
-      }
-      tick(name);
-    }
-    const dataPaths = new Set(runs.data.map((u) => u.path));
-    for (const uri of runs.annotations) {
-      if (cts.token.isCancellationRequested) return;
-      const dataPath = dataPathFor(uri.path);
-      const hasData = dataPaths.has(dataPath);
-      // Beside a data run the annotations show as its flag; as a row of their own on request, or when the
-      // data file is gone or unreadable.
-      const dataReadable = hasData && found.some((f) => f.dataUri?.path === dataPath && f.entry.run !== null);
-      if (!this.annotationsAsRuns && dataReadable) {
-        tick(vscode.workspace.asRelativePath(uri));
-        continue;
-      }
-      const a = await readAnnotations(uri);
-      const name = vscode.workspace.asRelativePath(uri);
-      const id = nextId();
-      const dataUri = hasData ? uri.with({ path: dataPath }) : null;
-      if (a instanceof Error) {
-        found.push({
-          entry: {
-            id,
-            name,
-            origin: 'annotations',
-            annotations: 'stale',
-            staleReasons: [],
-            run: null,
-            error: a.message,
-            canOverlay: false,
-          },
-          dataUri,
-          fileUri: uri,
-        });
-      } else {
-        found.push({
-          entry: {
-            id,
-            name,
-            origin: 'annotations',
-            annotations: a.run.stale ? 'stale' : 'current',
-            staleReasons: a.staleReasons,
-            run: { ...a.run, name: id },
-            error: null,
-            canOverlay: dataReadable,
-          },
-          dataUri,
-          fileUri: uri,
-        });
-      }
-      tick(name);
-    }
-    if (cts.token.isCancellationRequested) return;
+    const runs = await readWorkspaceRuns(this.deps, cts.token, this.annotationsAsRuns, (found, done, text) =>
+      this.progress(found, done, text),
+    );
+    if (!runs || cts.token.isCancellationRequested) return;
+    const found = runs.found;
     this.found = found;
     if (this.referenceId && !found.some((f) => f.entry.id === this.referenceId)) this.referenceId = null;
     // The reference chosen before (also in an earlier session), found again by its name.
@@ -339,7 +187,7 @@ export class CompareViewPanel implements vscode.Disposable {
     if (runs.truncated)
       this.post({
         type: CompareHostToViewType.Notice,
-        message: `Only the first ${runs.data.length + runs.annotations.length} candidate files were looked at: the workspace has more.`,
+        message: `Only the first ${runs.candidates} candidate files were looked at: the workspace has more.`,
       });
     this.sendTable();
   }
@@ -360,7 +208,7 @@ export class CompareViewPanel implements vscode.Disposable {
       if (run)
         f.entry = {
           ...f.entry,
-          run: { name: f.entry.id, report: run.report, lattice: run.bs.lattice, ...crystalOf(run), origin: 'data' },
+          run: dataRunInput(f.entry.id, run.bs, run.report),
           error: null,
           canOverlay: true,
         };

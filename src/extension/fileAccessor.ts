@@ -15,6 +15,7 @@ import type { DirEntry, FileAccessor, FileStat } from '../core/io/fileAccessor';
 import { ValleyscopeError } from '../core/errors';
 import { READ_LIMITS, tooLargeSentence } from '../core/io/readLimits';
 import { notRegularSentence } from '../core/io/pathPolicy';
+import { entryKindOf } from '../core/io/entryKind';
 import { constants as fsc, open, realpath, stat as nodeStat } from 'node:fs/promises';
 
 /** Non-blocking open: a FIFO swapped in after the type check cannot hang the extension host. */
@@ -100,18 +101,7 @@ export class WorkspaceFileAccessor implements FileAccessor {
       // node tells a FIFO from a device; workspace.fs calls both "unknown".
       try {
         const s = await nodeStat(uri.fsPath);
-        if (s.isFile()) return { type: 'file', size: s.size };
-        if (s.isDirectory()) return { type: 'directory', size: s.size };
-        const kind = s.isFIFO()
-          ? 'a FIFO (named pipe)'
-          : s.isCharacterDevice()
-            ? 'a character device'
-            : s.isBlockDevice()
-              ? 'a block device'
-              : s.isSocket()
-                ? 'a socket'
-                : 'not a regular file';
-        return { type: 'other', size: s.size, kind };
+        return { ...entryKindOf(s), size: s.size };
       } catch {
         return null;
       }

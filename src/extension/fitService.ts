@@ -1,19 +1,18 @@
-/** The band view's fits, answered by the core's effective-mass engine (fitExtremumAt, massWindowScan). */
-import { engineContext, fitExtremumAt } from '../core/analysis/massEngine';
-import { massWindowScan } from '../core/analysis/windowScan';
+/**
+ * The band view's fits, answered by the core's effective-mass engine (fitOnPath, massWindowScan). Each fit is
+ * kept per run, so the save that follows redoes nothing the view already asked for (cachedFitter).
+ */
+import { fitExtremumAt } from '../core/analysis/massEngine';
+import { fitOnPath, type PathFit } from '../core/analysis/fitCurves';
+import { massWindowScan, type WindowScanPoint } from '../core/analysis/windowScan';
 import type { AnalysisSettings } from '../core/analysis/analyze';
 import { FIT_METHODS, methodId } from '../core/analysis/methods';
+import type { ExtremumFitter } from '../core/annotations/chosenFits';
 import { ValleyscopeError } from '../core/errors';
+import type { BandStructure } from '../core/model';
 import type { FitTarget, WindowScanSeries } from '../protocol';
 import type { FitOutcome, FitService } from './fitTypes';
 import type { LoadedRun } from './runLoader';
-import { fitCurves, type Vertex } from './fitCurves';
-import { directionalMasses } from '../core/analysis/directionalMasses';
-import { degenerateGroup } from '../core/analysis/extrema';
-import type { Ray } from '../core/analysis/pathRays';
-import type { ExtremumReport } from '../core/model';
-import { nearestKIndex } from './bandData';
-import type { WindowScanPoint } from '../core/analysis/windowScan';
 
 function checkedMethod(method: string): string {
   const id = methodId(method);
@@ -40,28 +39,31 @@ export function scanSeries(points: WindowScanPoint[]): WindowScanSeries[] {
   return [...byName.values()];
 }
 
-/**
- * The vertices of the directional fits (free-vertex fits put them between sampled points), from the core's
- * own directional fit repeated with the engine's inputs. Used only when it reproduces the engine's masses
- * exactly; otherwise the curves are drawn from the sampled point.
- */
-function vertices(run: LoadedRun, x: ExtremumReport, kIndex: number, rays: Ray[], s: AnalysisSettings): (Vertex | null)[] {
-  const band0 = x.band - 1;
-  const group = degenerateGroup(run.bs, x.spin, kIndex, band0, s.degeneracy_meV / 1000);
-  const dm = directionalMasses(run.bs, x.spin, group, band0, rays, {
-    method: s.method,
-    window_meV: s.window_meV,
-    energySigma: engineContext(run.bs).energySigma,
-  });
-  const same =
-    dm.masses.length === x.masses.length && dm.masses.every((m, i) => m.mass === x.masses[i]!.mass && m.towards === x.masses[i]!.towards);
-  if (!same) return [];
-  return dm.fits.map((f) => (f.vertexT !== undefined && f.vertexE !== undefined ? { t: f.vertexT, e: f.vertexE } : null));
-}
-
 /** A target the view names as an extremum is fitted exactly there (never moved to another); else it snaps. */
 function exactAt(t: FitTarget): { maximum: boolean } | undefined {
   return typeof t.maximum === 'boolean' ? { maximum: t.maximum } : undefined;
+}
+
+/** The fit's identity: where, exactly-or-snapped, and every setting the engine reads. */
+function fitKey(spin: number, kIndex: number, band0: number, s: AnalysisSettings, at: { maximum: boolean } | undefined): string {
+  return JSON.stringify([spin, kIndex, band0, at?.maximum ?? null, s.window_meV, s.method, s.range_eV, s.degeneracy_meV]);
+}
+
+/** Fits answered so far, per run (dropped with the run's bands); a few hundred at most per run. */
+const MAX_KEPT = 256;
+const kept = new WeakMap<BandStructure, Map<string, PathFit>>();
+
+function keptFit(run: LoadedRun, spin: number, kIndex: number, band0: number, s: AnalysisSettings, at?: { maximum: boolean }): PathFit {
+  let fits = kept.get(run.bs);
+  if (!fits) kept.set(run.bs, (fits = new Map<string, PathFit>()));
+  const key = fitKey(spin, kIndex, band0, s, at);
+  let f = fits.get(key);
+  if (!f) {
+    f = fitOnPath(run.bs, run.geometry, spin, kIndex, band0, s, at);
+    if (fits.size >= MAX_KEPT) fits.delete(fits.keys().next().value!);
+    fits.set(key, f);
+  }
+  return f;
 }
 
 export function makeFitService(settings: () => AnalysisSettings): FitService {
@@ -72,16 +74,13 @@ export function makeFitService(settings: () => AnalysisSettings): FitService {
   return {
     fit(run, t, window_meV, method, withScan): FitOutcome {
       const s: AnalysisSettings = { ...settings(), window_meV, method: checkedMethod(method) };
-      const extremum = fitExtremumAt(run.bs, t.spin, t.kIndex, t.band0, s, exactAt(t));
-      const net = engineContext(run.bs).network;
-      const kIndex = nearestKIndex(run.bs, extremum.k);
-      const rays = net ? net.raysFrom(kIndex) : [];
-      return {
-        extremum,
-        curves: fitCurves(run.geometry, extremum, rays, vertices(run, extremum, kIndex, rays, s)),
-        scan: withScan ? scan(run, t, method) : null,
-      };
+      const f = keptFit(run, t.spin, t.kIndex, t.band0, s, exactAt(t));
+      return { extremum: structuredClone(f.extremum), curves: f.curves, scan: withScan ? scan(run, t, method) : null };
     },
     scan,
+    cachedFitter(run): ExtremumFitter {
+      return (bs, spin, kIndex, band0, s, at) =>
+        bs === run.bs ? structuredClone(keptFit(run, spin, kIndex, band0, s, at).extremum) : fitExtremumAt(bs, spin, kIndex, band0, s, at);
+    },
   };
 }

@@ -1,5 +1,6 @@
 /** What the band view asks of the fit engine, as the panel sees it (implemented in fitService.ts). */
 import type { ExtremumReport } from '../core/model';
+import type { ExtremumFitter } from '../core/annotations/chosenFits';
 import type { FitCurve, FitTarget, WindowScanSeries } from '../protocol';
 import type { LoadedRun } from './runLoader';
 
@@ -12,6 +13,8 @@ export interface FitOutcome {
 export interface FitService {
   fit(run: LoadedRun, target: FitTarget, window_meV: number, method: string, withScan: boolean): FitOutcome;
   scan(run: LoadedRun, target: FitTarget, method: string, windows_meV?: number[]): WindowScanSeries[];
+  /** The fitter a save redoes the chosen fits with: the fits answered before are not fitted again. */
+  cachedFitter(run: LoadedRun): ExtremumFitter;
 }
 
 /** Null when the target lies inside the run's arrays, otherwise the sentence why not. */

@@ -9,8 +9,9 @@ import type { LoadedRun } from './runLoader';
 import type { ExtensionSettings } from './settings';
 import type { FitService } from './fitTypes';
 import { targetProblem } from './fitTypes';
-import { composeAnnotations, type ChosenFit, type Composed } from './annotationsCompose';
-import { mergeAndWrite } from './mergeAndWrite';
+import { composeAnnotations, type ChosenFit, type Composed } from '../core/annotations/composeAnnotations';
+import { mergeAndWrite } from '../core/annotations/atomicWrite';
+import { atomicWriterOver } from './atomicWrite';
 import { annotationsTarget, currentText, workspaceAtomicFs, writeThroughEditor } from './annotationsWriter';
 import { writeRefusal } from './trust';
 
@@ -69,6 +70,7 @@ export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: Save
         ...(m.notes !== undefined ? { runNote: m.notes } : {}),
         existingText,
         existingName: name,
+        fit: deps.fits.cachedFitter(run),
       });
     } catch (e) {
       throw new UnreadableExisting(e);
@@ -107,7 +109,13 @@ export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: Save
 
   // Otherwise on disk: read, merge, write atomically; merge again if the file changed meanwhile.
   try {
-    const out = await mergeAndWrite(workspaceAtomicFs(target.uri), target.uri.path, () => currentText(target), compose, ATTEMPTS);
+    const out = await mergeAndWrite(
+      atomicWriterOver(workspaceAtomicFs(target.uri)),
+      target.uri.path,
+      () => currentText(target),
+      compose,
+      ATTEMPTS,
+    );
     if (out.status === 'written') return done(out.result, false);
     return { ok: false, message: `Not saved: ${name} kept changing on disk while saving; try again.` };
   } catch (e) {

@@ -10,7 +10,7 @@ import { openWithRun, startHarness, type Harness, type ViewPage } from './suppor
 import { hostFitResult, loadRunForView, type LoadedRun } from './support/coreBandData';
 import { waitForExpression } from './support/pageHelpers';
 import { HostToViewType, type FitTarget, type ReviewsMessage } from '../../src/protocol';
-import { composeAnnotations } from '../../src/extension/annotationsCompose';
+import { composeAnnotations } from '../../src/core/annotations/composeAnnotations';
 import { parseAnnotations } from '../../src/core/annotations/parseAnnotations';
 import { reviewMarks } from '../../src/extension/reviewMarks';
 import { DEFAULT_SETTINGS } from '../../src/core/analysis/analyze';

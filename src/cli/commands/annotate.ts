@@ -5,14 +5,13 @@ import { nodeFileAccessor } from '../nodeFileAccessor';
 import { locateRun, readLocated } from '../../core/load';
 import { analyzeBandStructure, DEFAULT_SETTINGS, type AnalysisSettings } from '../../core/analysis/analyze';
 import { annotationsPathFor, emptyExtra } from '../../core/annotations/annotationsModel';
-import { chosenFromDoc, withChosenFits } from '../../core/annotations/chosenFits';
-import { parseAnnotations } from '../../core/annotations/parseAnnotations';
-import { serializeAnnotations } from '../../core/annotations/serializeAnnotations';
-import { analysisSettingsOf, buildAnnotations } from '../../core/annotations/buildAnnotations';
-import { mergeWithSummary, type MergeSummary } from '../../core/annotations/mergeAnnotations';
+import { composeAnnotations, readExistingAnnotations } from '../../core/annotations/composeAnnotations';
+import { contentStamp } from '../../core/annotations/atomicWrite';
+import { analysisSettingsOf } from '../../core/annotations/buildAnnotations';
+import type { MergeSummary } from '../../core/annotations/mergeAnnotations';
 import { compareAnnotations, EXACT_TOLERANCES } from '../../core/annotations/compareAnnotations';
 import { ReaderError, ValleyscopeError } from '../../core/errors';
-import { writeFileSafely, type SafeWriteOptions } from '../safeWrite';
+import { nodeAtomicWriter, WriteConflictError, type SafeWriteOptions } from '../safeWrite';
 import { ANALYSIS_FLAGS, READ_FLAGS, analysisSettingsFromArgs } from './analyze';
 import type { CliIO } from '../io';
 import type { ReadOptions } from '../../core/formats/types';
@@ -136,7 +135,7 @@ export async function annotateOne(
   let older = null;
   if (oldText !== null) {
     try {
-      older = parseAnnotations(oldText, target, readWarnings);
+      older = readExistingAnnotations(oldText, target, readWarnings);
     } catch (e) {
       if (e instanceof ValleyscopeError)
         throw new ValleyscopeError(`${e.message}. The annotations file was left as it is; fix it (or move it away) and run annotate again`);
@@ -161,33 +160,42 @@ export async function annotateOne(
   const { options, sources } = await readOptionsFor(target, readSettings, read.structure);
   const bs = await readLocated(nodeFileAccessor, loc, options);
   // Fits a reviewer chose (entries with "fit") are redone with their own window and method, as check does.
-  const { report, fits } = withChosenFits(bs, analyzeBandStructure(bs, settings), settings, older ? chosenFromDoc(older, bs) : []);
-  const fresh = buildAnnotations(report, bs.source, { ...settings, ...readSettings }, { toolVersion: TOOL_VERSION, fits });
-  fresh.sources.push(...sources);
-  const merged = older ? mergeWithSummary(older, fresh) : null;
-  const doc = merged ? merged.doc : fresh;
-  const text = serializeAnnotations(doc);
+  const composed = composeAnnotations({
+    bs,
+    report: analyzeBandStructure(bs, settings),
+    source: bs.source,
+    settings: { ...settings, ...readSettings },
+    toolVersion: TOOL_VERSION,
+    fits: [],
+    extraSources: sources,
+    existingText: oldText,
+    existingName: target,
+    existingDoc: older,
+  });
+  const { doc, text } = composed;
   for (const w of readWarnings) io.err(`valleyscope: ${target}: ${w}`);
   if (text === oldText) {
     io.out(`${target}: unchanged (${doc.entries.length} entries)`);
     return;
   }
-  await writeFileSafely(target, text, { ...faults, expectExisting: oldBytes });
+  const written = await nodeAtomicWriter(faults).writeIfUnchanged(target, new TextEncoder().encode(text), contentStamp(oldBytes));
+  if (written === 'changed-on-disk') throw new WriteConflictError(target);
   if (!older) {
     io.out(
       `${target}: created with ${doc.entries.length} entries${doc.entries.length ? ` (${doc.entries.map((e) => e.id).join(', ')})` : ''}`,
     );
     return;
   }
+  const summary = composed.summary!;
   const changes = compareAnnotations(older, doc, EXACT_TOLERANCES);
   io.out(
-    `${target}: updated; ${changes.length === 0 ? 'no recorded number moved (fit details, warnings or layout only)' : `${changes.length} change${changes.length === 1 ? '' : 's'}`}${reviewSentence(merged!.summary)}`,
+    `${target}: updated; ${changes.length === 0 ? 'no recorded number moved (fit details, warnings or layout only)' : `${changes.length} change${changes.length === 1 ? '' : 's'}`}${reviewSentence(summary)}`,
   );
   for (const c of changes) io.out(`  ${c.message}`);
-  for (const f of merged!.summary.moved.filter((x) => x.reviewed)) io.out(`  moved (note and status kept): ${f.from} → ${f.to}`);
-  for (const f of merged!.summary.folded.filter((x) => x.reviewed))
+  for (const f of summary.moved.filter((x) => x.reviewed)) io.out(`  moved (note and status kept): ${f.from} → ${f.to}`);
+  for (const f of summary.folded.filter((x) => x.reviewed))
     io.out(`  folded into one entry (the run is no longer spin-polarised): ${f.from} → ${f.to}`);
-  for (const f of merged!.summary.orphaned.filter((x) => x.reviewed)) io.out(`  orphaned (kept with "found": false): ${f.from}`);
+  for (const f of summary.orphaned.filter((x) => x.reviewed)) io.out(`  orphaned (kept with "found": false): ${f.from}`);
 }
 
 const entries = (n: number): string => `${n} entr${n === 1 ? 'y' : 'ies'}`;

@@ -70,8 +70,16 @@ function vertexNote(bs: BandStructure, k: number, fits: CurvatureFit[], rays: Ra
   return `The ${maximum ? 'maximum' : 'minimum'} lies between sampled points: the free-vertex ${fit.method} fit towards ${ray.towards} puts it ${step.toFixed(2)} of a step (${fit.vertexT!.toFixed(4)} Å⁻¹) from the sampled point, at k ≈ (${kv.join(', ')})${fit.vertexE !== undefined ? `, ${Math.abs(fit.vertexE - sampledE) * 1000 < 0.05 ? 'at the sampled energy' : `${(Math.abs(fit.vertexE - sampledE) * 1000).toFixed(1)} meV ${maximum ? 'above' : 'below'} the sampled energy`}` : ''}.`;
 }
 
+/** What a fit at a point found besides its report (fitExtremumAt's `detail`): the point fitted, the curvature fits. */
+export interface FitDetail {
+  /** 0-based index of the k-point fitted (after snapping). */
+  kIndex: number;
+  /** The directional fits, in the order of the report's masses (their vertices); empty off a path. */
+  fits: CurvatureFit[];
+}
+
 /** Characterise one located extremum. */
-export function characterise(ctx: EngineContext, site: ExtremumSite, settings: AnalysisSettings): ExtremumReport {
+export function characterise(ctx: EngineContext, site: ExtremumSite, settings: AnalysisSettings, detail?: FitDetail): ExtremumReport {
   const { bs, network } = ctx;
   const k = kpointAt(bs, site.k);
   const warnings = [...site.warnings];
@@ -108,6 +116,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
         energySigma: ctx.energySigma,
       });
       masses = dm.masses;
+      if (detail) detail.fits = dm.fits;
       crossed = dm.crossed;
       if (g === 1) {
         const v = vertexNote(bs, site.k, dm.fits, dm.rays, maximum, site.energy);

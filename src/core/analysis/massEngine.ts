@@ -13,9 +13,11 @@ import { degenerateGroup, locateExtrema, type ExtremumSite } from './extrema';
 import { kKey } from './pathRays';
 import { equivalentK } from '../lattice/symmetry';
 import { engineContext, type EngineContext } from './engineContext';
-import { characterise } from './extremumCharacter';
+import { characterise, type FitDetail } from './extremumCharacter';
 import { compareNeighbour } from './pathLocalExtrema';
 import { kIndexOf } from './kIndex';
+
+export type { FitDetail };
 
 export { engineContext, type EngineContext } from './engineContext';
 
@@ -223,6 +225,7 @@ export function fitExtremumAt(
   band0: number,
   settings: AnalysisSettings,
   at?: { maximum: boolean },
+  detail?: FitDetail,
 ): ExtremumReport {
   if (!(spin >= 0 && spin < bs.nSpin)) throw new RangeError(`spin ${spin} is not in this band structure`);
   if (!(kIndex >= 0 && kIndex < bs.nk)) throw new RangeError(`k index ${kIndex} is out of range`);
@@ -255,7 +258,8 @@ export function fitExtremumAt(
     group,
     warnings: k !== kIndex ? [`Moved from the clicked point to the nearest ${maximum ? 'maximum' : 'minimum'} of band ${band0 + 1}.`] : [],
   };
-  const x = characterise(ctx, site, settings);
+  if (detail) detail.kIndex = k;
+  const x = characterise(ctx, site, settings, detail);
   const saddle = saddleFromMasses(x);
   if (saddle) x.warnings.unshift(`Not an extremum but a saddle point: ${saddle}.`);
   return x;

@@ -35,6 +35,11 @@ export interface ChosenExtremum extends FitChoice {
   maximum?: boolean;
 }
 
+/** Where and how to fit: massEngine.fitExtremumAt's arguments (bands, spin, k index, band, settings, exactly-at). */
+type FitAt = [bs: BandStructure, spin: number, kIndex: number, band0: number, settings: AnalysisSettings, at?: { maximum: boolean }];
+/** Fits the extremum at a point like fitExtremumAt; a caller may answer from fits made before. */
+export type ExtremumFitter = (...args: FitAt) => ExtremumReport;
+
 export interface AnnotatedReport {
   /** The analysis with the chosen fits in place of the same extrema (or added). */
   report: Report;
@@ -55,6 +60,7 @@ export function withChosenFits(
   report: Report,
   settings: AnalysisSettings,
   chosen: readonly ChosenExtremum[],
+  fit: ExtremumFitter = fitExtremumAt,
 ): AnnotatedReport {
   const extrema = [...report.extrema];
   const fits = new Map<string, FitChoice>();
@@ -64,15 +70,8 @@ export function withChosenFits(
   for (const c of chosen) {
     const method = methodId(c.method) ?? c.method;
     const how = { ...settings, window_meV: c.window_meV, method };
-    const fitted: ExtremumReport = fitExtremumAt(
-      bs,
-      c.spin,
-      c.kIndex,
-      c.band0,
-      how,
-      c.maximum === undefined ? undefined : { maximum: c.maximum },
-    );
-    fitted.band += offset;
+    const raw = fit(bs, c.spin, c.kIndex, c.band0, how, c.maximum === undefined ? undefined : { maximum: c.maximum });
+    const fitted: ExtremumReport = { ...raw, band: raw.band + offset };
     const key = placeKey(fitted);
     const i = extrema.findIndex((x) => placeKey(x) === key);
     if (i >= 0) {

@@ -5,7 +5,7 @@
  * JSON, a key written twice, conflict markers, a wrong type in a known field, or a file from a newer layout
  * are refused with a ReaderError that names the line and column and says what is wrong.
  */
-import type { ExtremumKind, Mat3, Vec3 } from '../model';
+import type { ExtremumKind } from '../model';
 import { ReaderError } from '../errors';
 import {
   ANNOTATIONS_LAYOUT_VERSION,
@@ -16,160 +16,34 @@ import {
   layout1EntryId,
   type AnnotatedEntry,
   type AnnotatedGap,
-  type AnnotatedMass,
-  type AnnotatedPoint,
   type AnnotatedSettings,
   type AnnotatedSource,
-  type AnnotatedTensor,
   type AnnotationsDoc,
-  type ExtraFields,
-  type JsonValue,
 } from './annotationsModel';
 import { JsonSyntaxError, parseJsonWithPositions, positionOf, type JsonNode } from './jsonWithPositions';
 import { DEFAULT_SETTINGS } from '../analysis/analyze';
 import { valleyRepresentative } from '../lattice/valleyIdentity';
 import { bandFromEdge } from './buildAnnotations';
+import { ANNOTATIONS_FORMAT, Walker, need, nonNegative, positiveWhole, typeName } from './jsonFieldReader';
+import { readFit, readGap, readMass, readSpin, readTensor, saysSecondChannel } from './readAnnotatedNumbers';
 
-export const ANNOTATIONS_FORMAT = 'valleyscope-annotations';
+export { ANNOTATIONS_FORMAT };
 
-type ObjNode = Extract<JsonNode, { type: 'object' }>;
-
-class Walker {
-  constructor(
-    private readonly text: string,
-    private readonly file: string,
-    readonly warnings: string[],
-  ) {}
-
-  error(at: number, reason: string): ReaderError {
-    return new ReaderError(ANNOTATIONS_FORMAT, this.file, positionOf(this.text, at), reason);
-  }
-
-  obj(n: JsonNode, what: string): ObjNode {
-    if (n.type !== 'object') throw this.error(n.at, `${what} must be an object ({ ... }), found ${typeName(n)}`);
-    return n;
-  }
-
-  /** Known members by key, and everything else as extra fields. */
-  fields(n: ObjNode, known: readonly string[]): { get: (key: string) => JsonNode | undefined; extra: ExtraFields } {
-    const map = new Map<string, JsonNode>();
-    const extra = emptyExtra();
-    for (const m of n.members) {
-      if (known.includes(m.key)) map.set(m.key, m.value);
-      else extra[m.key] = plain(m.value);
-    }
-    return { get: (k) => map.get(k), extra };
-  }
-
-  str(n: JsonNode | undefined, what: string, fallback?: string): string {
-    if (n === undefined || (n.type === 'null' && fallback !== undefined)) {
-      if (fallback !== undefined) return fallback;
-      throw this.missing(what);
-    }
-    if (n.type !== 'string') throw this.error(n.at, `${what} must be text in double quotes, found ${typeName(n)}`);
-    return n.value;
-  }
-
-  strOrNull(n: JsonNode | undefined, what: string): string | null {
-    if (n === undefined || n.type === 'null') return null;
-    return this.str(n, what);
-  }
-
-  num(n: JsonNode | undefined, what: string, check?: (x: number) => boolean, rule?: string): number {
-    if (n === undefined) throw this.missing(what);
-    if (n.type !== 'number') throw this.error(n.at, `${what} must be a number, found ${typeName(n)}`);
-    if (check && !check(n.value)) throw this.error(n.at, `${what} must be ${rule}, found ${n.value}`);
-    return n.value;
-  }
-
-  numOrNull(n: JsonNode | undefined, what: string, check?: (x: number) => boolean, rule?: string): number | null {
-    if (n === undefined || n.type === 'null') return null;
-    return this.num(n, what, check, rule);
-  }
-
-  bool(n: JsonNode | undefined, what: string, fallback: boolean): boolean {
-    if (n === undefined) return fallback;
-    if (n.type !== 'boolean') throw this.error(n.at, `${what} must be true or false, found ${typeName(n)}`);
-    return n.value;
-  }
-
-  list(n: JsonNode | undefined, what: string): JsonNode[] {
-    if (n === undefined || n.type === 'null') return [];
-    if (n.type !== 'array') throw this.error(n.at, `${what} must be a list ([ ... ]), found ${typeName(n)}`);
-    return n.items;
-  }
-
-  strings(n: JsonNode | undefined, what: string): string[] {
-    return this.list(n, what).map((x, i) => this.str(x, `${what}[${i}]`));
-  }
-
-  vec3(n: JsonNode | undefined, what: string): Vec3 {
-    if (n === undefined) throw this.missing(what);
-    const items = this.list(n, what);
-    if (items.length !== 3) throw this.error(n.at, `${what} must be a list of three numbers, found ${items.length} values`);
-    return items.map((x, i) => this.num(x, `${what}[${i}]`)) as Vec3;
-  }
-
-  private missing(what: string): ReaderError {
-    const dot = what.lastIndexOf('.');
-    const owner = dot > 0 ? what.slice(0, dot) : 'the file';
-    return new ReaderError(ANNOTATIONS_FORMAT, this.file, { line: 0, column: 0 }, `${what} is missing (required in ${owner})`);
-  }
-
-  /** Like error(), but located at the object that lacks the field. */
-  missingIn(n: ObjNode, what: string): ReaderError {
-    return this.error(n.at, `${what} is missing`);
-  }
-}
-
-function typeName(n: JsonNode): string {
-  switch (n.type) {
-    case 'object':
-      return 'an object';
-    case 'array':
-      return 'a list';
-    case 'string':
-      return `the text "${n.value.length > 40 ? n.value.slice(0, 40) + '…' : n.value}"`;
-    case 'number':
-      return `the number ${n.value}`;
-    case 'boolean':
-      return String(n.value);
-    case 'null':
-      return 'null';
-  }
-}
-
-/** A node as a plain JSON value (objects without prototype, so any key is safe). */
-function plain(n: JsonNode): JsonValue {
-  switch (n.type) {
-    case 'object': {
-      const o = emptyExtra();
-      for (const m of n.members) o[m.key] = plain(m.value);
-      return o;
-    }
-    case 'array':
-      return n.items.map(plain);
-    case 'string':
-    case 'number':
-    case 'boolean':
-      return n.value;
-    case 'null':
-      return null;
-  }
-}
-
-const isWhole = (x: number): boolean => Number.isInteger(x);
-const positiveWhole = (x: number): boolean => Number.isInteger(x) && x >= 1;
-const nonNegative = (x: number): boolean => x >= 0;
-
-function need<T extends JsonNode | undefined>(w: Walker, o: ObjNode, n: T, what: string): NonNullable<T> {
-  if (n === undefined) throw w.missingIn(o, what);
-  return n;
-}
+/** The members of a recorded source and of the settings the reader knows. */
+export const SOURCE_KEYS = ['path', 'role', 'sha256'] as const;
+export const SETTINGS_KEYS = [
+  'window_meV',
+  'method',
+  'range_eV',
+  'degeneracy_meV',
+  'forceSpinorbit',
+  'alat_angstrom',
+  'structureFile',
+] as const;
 
 function readSource(w: Walker, n: JsonNode, what: string): AnnotatedSource {
   const o = w.obj(n, what);
-  const f = w.fields(o, ['path', 'role', 'sha256']);
+  const f = w.fields(o, SOURCE_KEYS);
   const sha = w.str(need(w, o, f.get('sha256'), `${what}.sha256`), `${what}.sha256`);
   const shaNode = f.get('sha256')!;
   if (!/^[0-9a-f]{64}$/.test(sha)) throw w.error(shaNode.at, `${what}.sha256 must be 64 lowercase hexadecimal digits (a SHA-256)`);
@@ -187,7 +61,7 @@ function readSettings(w: Walker, n: JsonNode | undefined): AnnotatedSettings {
     return { ...DEFAULT_SETTINGS, forceSpinorbit: false, alat_angstrom: null, structureFile: null, extra: emptyExtra() };
   }
   const o = w.obj(n, 'settings');
-  const f = w.fields(o, ['window_meV', 'method', 'range_eV', 'degeneracy_meV', 'forceSpinorbit', 'alat_angstrom', 'structureFile']);
+  const f = w.fields(o, SETTINGS_KEYS);
   const pos = (x: number): boolean => x > 0;
   const get = (k: 'window_meV' | 'range_eV' | 'degeneracy_meV', check: (x: number) => boolean, rule: string): number =>
     f.get(k) === undefined ? DEFAULT_SETTINGS[k] : w.num(f.get(k), `settings.${k}`, check, rule);
@@ -203,127 +77,8 @@ function readSettings(w: Walker, n: JsonNode | undefined): AnnotatedSettings {
   };
 }
 
-/** A spin channel: "up"/"down" (layout 2, spin-polarised runs) or 0/1 (layout 1). */
-function readSpin(w: Walker, n: JsonNode | undefined, what: string): 0 | 1 {
-  if (n !== undefined && n.type === 'string') {
-    if (n.value === 'up') return 0;
-    if (n.value === 'down') return 1;
-    throw w.error(n.at, `${what} must be "up" or "down", found "${n.value}"`);
-  }
-  if (n !== undefined && n.type === 'null') return 0;
-  return w.num(n, what, (x) => x === 0 || x === 1, '"up", "down", 0 or 1') as 0 | 1;
-}
-
-/** Whether a spin field was written at all, and as a layout-1 number 1 (a second channel). */
-const saysSecondChannel = (n: JsonNode | undefined): boolean =>
-  n !== undefined && ((n.type === 'number' && n.value === 1) || (n.type === 'string' && n.value === 'down'));
-
-function readPoint(w: Walker, n: JsonNode, what: string): AnnotatedPoint {
-  const o = w.obj(n, what);
-  const f = w.fields(o, ['band', 'spin', 'k', 'label', 'energy_eV']);
-  return {
-    band: w.num(need(w, o, f.get('band'), `${what}.band`), `${what}.band`, positiveWhole, 'a whole number of 1 or more'),
-    spin: f.get('spin') === undefined ? 0 : readSpin(w, f.get('spin'), `${what}.spin`),
-    k: w.vec3(need(w, o, f.get('k'), `${what}.k`), `${what}.k`),
-    label: w.strOrNull(f.get('label'), `${what}.label`),
-    energy_eV: w.num(need(w, o, f.get('energy_eV'), `${what}.energy_eV`), `${what}.energy_eV`),
-  };
-}
-
-function readGap(w: Walker, n: JsonNode | undefined): AnnotatedGap | null {
-  if (n === undefined || n.type === 'null') return null;
-  const o = w.obj(n, 'gap');
-  const f = w.fields(o, ['eV', 'direct', 'vbm', 'cbm', 'directGap']);
-  const dgNode = need(w, o, f.get('directGap'), 'gap.directGap');
-  const dg = w.obj(dgNode, 'gap.directGap');
-  const dgf = w.fields(dg, ['eV', 'k']);
-  return {
-    eV: w.num(need(w, o, f.get('eV'), 'gap.eV'), 'gap.eV'),
-    direct: w.bool(f.get('direct'), 'gap.direct', false),
-    vbm: readPoint(w, need(w, o, f.get('vbm'), 'gap.vbm'), 'gap.vbm'),
-    cbm: readPoint(w, need(w, o, f.get('cbm'), 'gap.cbm'), 'gap.cbm'),
-    directGap: {
-      eV: w.num(need(w, dg, dgf.get('eV'), 'gap.directGap.eV'), 'gap.directGap.eV'),
-      k: w.vec3(need(w, dg, dgf.get('k'), 'gap.directGap.k'), 'gap.directGap.k'),
-    },
-    extra: f.extra,
-  };
-}
-
-const MASS_KEYS = [
-  'towards',
-  'direction',
-  'mass',
-  'stderr',
-  'points',
-  'window_meV',
-  'method',
-  'alpha_per_eV',
-  'residual_meV',
-  'branch',
-  'determined',
-  'warnings',
-];
-
-function readMass(w: Walker, n: JsonNode, what: string): AnnotatedMass {
-  const o = w.obj(n, what);
-  const f = w.fields(o, MASS_KEYS);
-  return {
-    towards: w.str(f.get('towards'), `${what}.towards`, ''),
-    direction: w.vec3(need(w, o, f.get('direction'), `${what}.direction`), `${what}.direction`),
-    mass: w.numOrNull(f.get('mass'), `${what}.mass`),
-    stderr: w.numOrNull(f.get('stderr'), `${what}.stderr`, nonNegative, 'zero or positive'),
-    points: w.num(need(w, o, f.get('points'), `${what}.points`), `${what}.points`, (x) => isWhole(x) && x >= 0, 'a whole number'),
-    window_meV: w.num(need(w, o, f.get('window_meV'), `${what}.window_meV`), `${what}.window_meV`, nonNegative, 'zero or positive'),
-    method: w.str(need(w, o, f.get('method'), `${what}.method`), `${what}.method`),
-    alpha_per_eV: w.numOrNull(f.get('alpha_per_eV'), `${what}.alpha_per_eV`),
-    residual_meV: w.numOrNull(f.get('residual_meV'), `${what}.residual_meV`, nonNegative, 'zero or positive'),
-    branch: w.numOrNull(f.get('branch'), `${what}.branch`, positiveWhole, 'a whole number of 1 or more'),
-    determined:
-      f.get('determined') === undefined || f.get('determined')!.type === 'null'
-        ? null
-        : w.bool(f.get('determined'), `${what}.determined`, true),
-    warnings: w.strings(f.get('warnings'), `${what}.warnings`),
-    extra: f.extra,
-  };
-}
-
-function readTensor(w: Walker, n: JsonNode | undefined, what: string): AnnotatedTensor | null {
-  if (n === undefined || n.type === 'null') return null;
-  const o = w.obj(n, what);
-  const f = w.fields(o, ['principal', 'stderr', 'axes', 'method', 'points', 'residual_meV']);
-  const axesNode = need(w, o, f.get('axes'), `${what}.axes`);
-  const rows = w.list(axesNode, `${what}.axes`);
-  if (rows.length !== 3) throw w.error(axesNode.at, `${what}.axes must hold three rows, found ${rows.length}`);
-  return {
-    principal: w.vec3(need(w, o, f.get('principal'), `${what}.principal`), `${what}.principal`),
-    stderr: f.get('stderr') === undefined || f.get('stderr')!.type === 'null' ? null : w.vec3(f.get('stderr'), `${what}.stderr`),
-    axes: rows.map((r, i) => w.vec3(r, `${what}.axes[${i}]`)) as Mat3,
-    method: w.str(need(w, o, f.get('method'), `${what}.method`), `${what}.method`),
-    points: w.numOrNull(f.get('points'), `${what}.points`, (x) => isWhole(x) && x >= 0, 'a whole number'),
-    residual_meV: w.numOrNull(f.get('residual_meV'), `${what}.residual_meV`, nonNegative, 'zero or positive'),
-    extra: f.extra,
-  };
-}
-
-/** A reviewer's fit settings for one entry; null when absent. The window must be a positive number of meV. */
-function readFit(w: Walker, n: JsonNode | undefined, what: string): AnnotatedEntry['fit'] {
-  if (n === undefined || n.type === 'null') return null;
-  const o = w.obj(n, what);
-  const f = w.fields(o, ['window_meV', 'method']);
-  return {
-    window_meV: w.num(
-      need(w, o, f.get('window_meV'), `${what}.window_meV`),
-      `${what}.window_meV`,
-      (x) => x > 0 && x <= 1e5,
-      'a positive number of meV',
-    ),
-    method: w.str(need(w, o, f.get('method'), `${what}.method`), `${what}.method`),
-    extra: f.extra,
-  };
-}
-
-const ENTRY_KEYS = [
+/** The members of an entry the reader knows (others are kept as the entry's extra fields). */
+export const ENTRY_KEYS = [
   'id',
   'status',
   'note',
@@ -415,7 +170,8 @@ function readEntry(w: Walker, n: JsonNode, what: string, ctx: EntryContext): Ann
   return e;
 }
 
-const TOP_KEYS = [
+/** The top-level members the reader knows (others are kept as extra fields). */
+export const TOP_KEYS = [
   'valleyscopeAnnotations',
   'toolVersion',
   'format',

@@ -17,6 +17,8 @@ import {
   type JsonValue,
 } from '../../../src/core/annotations/annotationsModel';
 import type { Vec3 } from '../../../src/core/model';
+import { ENTRY_KEYS, SETTINGS_KEYS, SOURCE_KEYS, TOP_KEYS } from '../../../src/core/annotations/parseAnnotations';
+import { GAP_KEYS, MASS_KEYS, POINT_KEYS, TENSOR_KEYS } from '../../../src/core/annotations/readAnnotatedNumbers';
 
 const finite = (min: number, max: number): fc.Arbitrary<number> => fc.double({ min, max, noNaN: true, noDefaultInfinity: true });
 const vec3 = (min: number, max: number): fc.Arbitrary<Vec3> => fc.tuple(finite(min, max), finite(min, max), finite(min, max));
@@ -24,59 +26,15 @@ const text = fc.string({ maxLength: 30, unit: 'grapheme' });
 const hex64 = fc.stringMatching(/^[0-9a-f]{64}$/);
 
 /** Hand-added fields, with keys the program does not use (including awkward ones). */
-const KNOWN = new Set([
-  'valleyscopeAnnotations',
-  'toolVersion',
-  'format',
-  'sources',
-  'settings',
-  'metal',
-  'gap',
-  'note',
-  'entries',
-  'warnings',
-  'cautions',
-  'id',
-  'status',
-  'found',
-  'kind',
-  'spin',
-  'band',
-  'k',
-  'label',
-  'energy_eV',
-  'offset_eV',
-  'degenerateBands',
-  'valleyDegeneracy',
-  'masses',
-  'tensor',
-  'dosMass',
-  'conductivityMass',
-  'towards',
-  'direction',
-  'mass',
-  'stderr',
-  'points',
-  'window_meV',
-  'method',
-  'alpha_per_eV',
-  'residual_meV',
-  'branch',
-  'principal',
-  'axes',
-  'path',
-  'role',
-  'sha256',
-  'range_eV',
-  'degeneracy_meV',
-  'forceSpinorbit',
-  'alat_angstrom',
-  'structureFile',
-  'eV',
-  'direct',
-  'vbm',
-  'cbm',
-  'directGap',
+const KNOWN = new Set<string>([
+  ...TOP_KEYS,
+  ...ENTRY_KEYS,
+  ...SOURCE_KEYS,
+  ...SETTINGS_KEYS,
+  ...MASS_KEYS,
+  ...POINT_KEYS,
+  ...GAP_KEYS,
+  ...TENSOR_KEYS,
 ]);
 const extraKey = fc
   .oneof(fc.string({ minLength: 1, maxLength: 12 }), fc.constantFrom('__proto__', 'constructor', 'reviewer', 'x-ticket'))

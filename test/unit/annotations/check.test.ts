@@ -2,25 +2,10 @@ import { strict as assert } from 'node:assert';
 import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../../src/cli/main';
-import type { CliIO } from '../../../src/cli/io';
 import { parseAnnotations } from '../../../src/core/annotations/parseAnnotations';
 import { serializeAnnotations } from '../../../src/core/annotations/serializeAnnotations';
 import { TINY, writeTinyRun } from './tinyRun';
-
-interface Run {
-  code: number;
-  out: string;
-  err: string;
-}
-
-async function cli(...argv: string[]): Promise<Run> {
-  let out = '';
-  let err = '';
-  const io: CliIO = { out: (t) => (out += t + '\n'), err: (t) => (err += t + '\n') };
-  const code = await main(argv, io);
-  return { code, out, err };
-}
+import { cli } from './runCli';
 
 describe('valleyscope annotate and check', () => {
   let root = '';

@@ -8,16 +8,7 @@ import { strict as assert } from 'node:assert';
 import { cpSync, mkdtempSync, readdirSync, rmSync, writeFileSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../../src/cli/main';
-import type { CliIO } from '../../../src/cli/io';
-
-async function cli(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIO = { out: (t) => (out += t + '\n'), err: (t) => (err += t + '\n') };
-  const code = await main(argv, io);
-  return { code, out, err };
-}
+import { cli } from './runCli';
 
 describe('check --format md on the demo runs', function () {
   this.timeout(120000);

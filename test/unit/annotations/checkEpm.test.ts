@@ -6,16 +6,8 @@ import { strict as assert } from 'node:assert';
 import { cpSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../../src/cli/main';
-import type { CliIO } from '../../../src/cli/io';
 import { parseAnnotations } from '../../../src/core/annotations/parseAnnotations';
-
-async function cli(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIO = { out: (t) => (out += t + '\n'), err: (t) => (err += t + '\n') };
-  return { code: await main(argv, io), out, err };
-}
+import { cli } from './runCli';
 
 /** Add `shift` eV to band `band` (1-based) at k-point `k` (0-based) of an EIGENVAL text. */
 function shiftEigenvalue(text: string, k: number, band: number, shift: number): string {

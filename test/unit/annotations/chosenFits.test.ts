@@ -8,10 +8,8 @@ import { strict as assert } from 'node:assert';
 import { cpSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { main } from '../../../src/cli/main';
-import type { CliIO } from '../../../src/cli/io';
 import { checkFile } from '../../../src/cli/commands/check';
-import { composeAnnotations } from '../../../src/extension/annotationsCompose';
+import { composeAnnotations } from '../../../src/core/annotations/composeAnnotations';
 import { parseAnnotations } from '../../../src/core/annotations/parseAnnotations';
 import { serializeAnnotations } from '../../../src/core/annotations/serializeAnnotations';
 import { annotatedSources, analysisSettingsOf } from '../../../src/core/annotations/buildAnnotations';
@@ -22,14 +20,7 @@ import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analys
 import { CENTRAL_4, POLY4 } from '../../../src/core/analysis/methods';
 import { kpointAt } from '../../../src/core/model';
 import { loadSi, SI_DIR } from '../extension/demoRun';
-
-async function cli(...argv: string[]): Promise<{ code: number; out: string; err: string }> {
-  let out = '';
-  let err = '';
-  const io: CliIO = { out: (t) => (out += t + '\n'), err: (t) => (err += t + '\n') };
-  const code = await main(argv, io);
-  return { code, out, err };
-}
+import { cli } from './runCli';
 
 /** The k index of fractional k in the run, or -1. */
 function indexOf(bs: Awaited<ReturnType<typeof loadSi>>['bs'], k: readonly number[]): number {

@@ -3,8 +3,8 @@ import { buildBandData, F64_ENERGY_LIMIT, nearestKIndex } from '../../../src/ext
 import { decodeArray } from '../../../src/protocol';
 import { DEFAULT_SETTINGS, analyzeBandStructure } from '../../../src/core/analysis/analyze';
 import { pathGeometry } from '../../../src/core/lattice/kpath';
+import { emptyReport } from './emptyReport';
 import { makeBands } from '../../support/bandStructure';
-import type { Report } from '../../../src/core/model';
 import { loadSi } from './demoRun';
 
 describe('extension: band data sent to the band view', () => {
@@ -45,23 +45,7 @@ describe('extension: band data sent to the band view', () => {
     const small = makeBands({ kpoints: [[0, 0, 0]], energies: [[[0]]] });
     const bs = { ...small, nk, nBands: 100, kpoints: new Float64Array(3 * nk), energies: [new Float64Array(nk * 100)] };
     const geometry = { cartesian: null, distance: new Float64Array(nk), units: 'fractional' as const, segments: [], ticks: [] };
-    const report: Report = {
-      file: 'big',
-      format: 'test',
-      nk,
-      nbands: 100,
-      nspin: 1,
-      electrons: null,
-      metal: null,
-      semimetal: null,
-      fermi_eV: null,
-      classificationReason: '',
-      spinors: false,
-      gap: null,
-      extrema: [],
-      warnings: [],
-      cautions: [],
-    };
+    const report = emptyReport({ file: 'big', nk, nbands: 100 });
     const d = buildBandData(bs, report, geometry, 'big', DEFAULT_SETTINGS, 'raw');
     assert.equal(d.energies[0]!.dtype, 'f32');
   });

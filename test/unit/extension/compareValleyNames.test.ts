@@ -13,9 +13,9 @@ import type { CliIO } from '../../../src/cli/io';
 import { nodeFileAccessor } from '../../../src/cli/nodeFileAccessor';
 import { loadRun } from '../../../src/core/load';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
-import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
+import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { loadAnnotationsRun } from '../../../src/core/compare/loadAnnotationsRun';
-import { compositionOf } from '../../../src/core/compare/structureDescriptors';
+import { dataRunInput } from '../../../src/core/compare/dataRunInput';
 import { buildCompareTable, type CompareEntry } from '../../../src/extension/compareViewData';
 
 const RUNS = ['si-strain/01_biaxial-1.00pct', 'si-strain/05_biaxial+1.00pct', 'si-bulk'];
@@ -34,7 +34,6 @@ describe('compare view: one valley name per valley across data rows, annotations
       const io: CliIO & { err: (t: string) => void } = { out: () => undefined, err: () => undefined };
       assert.equal(await main(['annotate', join(dir, r, 'EIGENVAL')], io), 0);
       const bs = await loadRun(nodeFileAccessor, join(dir, r, 'EIGENVAL'));
-      const sym = crystalSymmetry(bs.structure!);
       const id = `r${i++}`;
       entries.push({
         id,
@@ -42,16 +41,8 @@ describe('compare view: one valley name per valley across data rows, annotations
         origin: 'data',
         annotations: 'current',
         staleReasons: [],
-        run: {
-          name: id,
-          report: analyzeBandStructure(bs, DEFAULT_SETTINGS),
-          lattice: bs.lattice,
-          rotations: sym.rotations,
-          latticeType: sym.bravaisClass,
-          latticePointsPerCell: sym.latticePointsPerCell,
-          composition: compositionOf(bs.structure!.species),
-          origin: 'data',
-        },
+        // As the compare view's host builds a data row (core/compare/dataRunInput.ts).
+        run: dataRunInput(id, bs, analyzeBandStructure(bs, DEFAULT_SETTINGS)),
         error: null,
         canOverlay: true,
       });

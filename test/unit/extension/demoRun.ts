@@ -6,6 +6,7 @@ import { loadRun } from '../../../src/core/load';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { pathGeometry } from '../../../src/core/lattice/kpath';
+import type { ComposeInput } from '../../../src/core/annotations/composeAnnotations';
 
 export const SI_DIR = join(__dirname, '../../../fixtures/demo/si-bulk');
 export const SI_EIGENVAL = join(SI_DIR, 'EIGENVAL');
@@ -17,4 +18,18 @@ export async function loadSi() {
   const geometry = pathGeometry(bs);
   const text = readFileSync(SI_EIGENVAL, 'utf8');
   return { bs, report, geometry, text };
+}
+
+/** What composing the demo run's annotations file starts from: the analysis at the defaults, no fits, no file yet. */
+export function composeInputOf(si: Awaited<ReturnType<typeof loadSi>>): ComposeInput {
+  return {
+    bs: si.bs,
+    report: si.report,
+    source: si.bs.source,
+    settings: DEFAULT_SETTINGS,
+    toolVersion: '0.1.0',
+    fits: [],
+    existingText: null,
+    existingName: 'EIGENVAL.valleys.json',
+  };
 }

@@ -1,6 +1,9 @@
 import assert from 'node:assert/strict';
 import { makeFitService, scanSeries } from '../../../src/extension/fitService';
-import { fittedEnergy } from '../../../src/extension/fitCurves';
+import { fitOnPath, fittedEnergy } from '../../../src/core/analysis/fitCurves';
+import { fitExtremumAt } from '../../../src/core/analysis/massEngine';
+import { composeAnnotations } from '../../../src/core/annotations/composeAnnotations';
+import { kpointAt } from '../../../src/core/model';
 import { buildBandData } from '../../../src/extension/bandData';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { pathGeometry } from '../../../src/core/lattice/kpath';
@@ -8,7 +11,7 @@ import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import type { LoadedRun } from '../../../src/extension/runLoader';
 import type { BandStructure, Mat3 } from '../../../src/core/model';
 import { makeBands, line } from '../../support/bandStructure';
-import { loadSi } from './demoRun';
+import { composeInputOf, loadSi } from './demoRun';
 
 // ħ²/m_e = 7.6199642 eV·Å² (CODATA 2018, twice 3.80998212 eV·Å²; physics.md item 4), written out here so the
 // check does not reuse the code's own constant.
@@ -172,5 +175,52 @@ describe('extension: fits for the band view', () => {
   it('refuses an unknown method', () => {
     const run = parabolicRun(0.5);
     assert.throws(() => service.fit(run, { spin: 0, kIndex: 0, band0: 1 }, 25, 'spline', false), /unknown fit method/);
+  });
+
+  it('a fit carries the k index it landed on and one vertex per directional mass (nothing looked up or fitted again)', () => {
+    const run = parabolicRun(0.5);
+    const f = fitOnPath(run.bs, run.geometry, 0, 3, 1, DEFAULT_SETTINGS);
+    // The analytic band's minimum is at Γ, k index 0 (the click was at index 3).
+    assert.equal(f.kIndex, 0);
+    assert.deepEqual(kpointAt(run.bs, f.kIndex), f.extremum.k);
+    assert.equal(f.vertices.length, f.extremum.masses.length);
+    // A parabola centred on a sampled point has its vertex there (t = 0, E = 1 eV in the model) when one is given.
+    for (const v of f.vertices) if (v) assert.ok(Math.abs(v.t) < 1e-6 && Math.abs(v.e - 1) < 1e-6, JSON.stringify(v));
+    assert.deepEqual(f.extremum, fitExtremumAt(run.bs, 0, 3, 1, DEFAULT_SETTINGS));
+  });
+
+  it('a save after a fit answers from the fit already made, with the same numbers as fitting again', async () => {
+    const si = await loadSi();
+    const { bs, report, geometry } = si;
+    const run: LoadedRun = { uri: null as never, fileUri: null as never, bs, report, geometry, size: 0 };
+    const svc = makeFitService(() => DEFAULT_SETTINGS);
+    const cbm = buildBandData(bs, report, geometry, 'x', DEFAULT_SETTINGS, 'vbm').marks.find((m) => m.kind === 'cbm')!;
+    const target = { spin: cbm.spin, kIndex: cbm.kIndex, band0: cbm.band0, maximum: false };
+    svc.fit(run, target, 40, 'parabola', false);
+    const input = { ...composeInputOf(si), fits: [{ ...target, window_meV: 40, method: 'parabola' }] };
+    // Byte-identical file whether the chosen fit is redone or taken from the fit the view asked for.
+    assert.equal(composeAnnotations({ ...input, fit: svc.cachedFitter(run) }).text, composeAnnotations(input).text);
+    // Taken, not redone: the kept fit survives a change of the arrays it was made from (runs are never changed in
+    // place; a reloaded file is a new band structure), while a fit made now sees the change.
+    const fitter = svc.cachedFitter(run);
+    const before = fitter(bs, target.spin, target.kIndex, target.band0, { ...DEFAULT_SETTINGS, window_meV: 40 }, { maximum: false });
+    const e = bs.energies[0]!;
+    const saved = Float64Array.from(e);
+    try {
+      for (let i = 0; i < e.length; i++) e[i] = e[i]! * 1.1;
+      const kept = fitter(bs, target.spin, target.kIndex, target.band0, { ...DEFAULT_SETTINGS, window_meV: 40 }, { maximum: false });
+      const fresh = fitExtremumAt(
+        bs,
+        target.spin,
+        target.kIndex,
+        target.band0,
+        { ...DEFAULT_SETTINGS, window_meV: 40 },
+        { maximum: false },
+      );
+      assert.deepEqual(kept, before);
+      assert.notEqual(fresh.masses[0]!.mass, before.masses[0]!.mass);
+    } finally {
+      e.set(saved);
+    }
   });
 });

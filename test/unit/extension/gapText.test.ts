@@ -2,24 +2,9 @@ import assert from 'node:assert/strict';
 import { gapLensText, gapStatusText, gapTooltip } from '../../../src/extension/gapText';
 import type { Report } from '../../../src/core/model';
 import { loadSi } from './demoRun';
+import { emptyReport } from './emptyReport';
 
-const base: Report = {
-  file: 'x',
-  format: 'test',
-  nk: 1,
-  nbands: 1,
-  nspin: 1,
-  electrons: 2,
-  metal: null,
-  semimetal: null,
-  fermi_eV: null,
-  classificationReason: '',
-  spinors: false,
-  gap: null,
-  extrema: [],
-  warnings: [],
-  cautions: [],
-};
+const base: Report = emptyReport({ electrons: 2 });
 
 describe('extension: gap texts for the status bar and code lens', () => {
   it('reports the demo silicon gap as indirect with its edges', async () => {

@@ -95,6 +95,12 @@ describe('protocol: validation of messages from the webview', () => {
       { type: 'openFile', kIndex: -1 },
       { type: 'openFile', path: '/etc/passwd' },
       { type: 'viewError', message: 'x'.repeat(MESSAGE_LIMITS.maxErrorChars + 1) },
+      { type: 'viewError', message: 404 },
+      { type: 'openFile', kIndex: '3' },
+      { type: 'save', entries: [{ spin: 0, kIndex: 3, band0: '4', window_meV: 30, method: 'poly4' }] },
+      { type: 'export', format: 'svg', data: '<svg/>', width: '1', height: 1 },
+      { type: 'requestSave' }, // a host-to-view request sent the wrong way
+      { type: 'fitRequest' }, // no such message
     ];
     for (const m of bad) assert.equal(isViewToHostMessage(m), false, String(JSON.stringify(m)).slice(0, 120));
   });
@@ -160,6 +166,8 @@ describe('protocol: compact arrays', () => {
   it('refuses a length that does not match the bytes', () => {
     assert.throws(() => decodeArray({ dtype: 'f64', length: 4, data: new ArrayBuffer(24) }), /do not hold 4 values/);
     assert.throws(() => decodeArray({ dtype: 'f32', length: 1, data: '*not*' }), /not base64/);
+    // RFC 4648 §4: base64 text is whole groups of 4 characters; one character left over cannot be decoded.
+    assert.throws(() => base64ToBytes('QUJDR'), /not base64/);
   });
 
   it('encodeArray copies: later changes to the source do not reach the message', () => {

@@ -1,28 +1,19 @@
 import assert from 'node:assert/strict';
-import { composeAnnotations, joinNotes } from '../../../src/extension/annotationsCompose';
+import { composeAnnotations, joinNotes } from '../../../src/core/annotations/composeAnnotations';
 import { parseAnnotations } from '../../../src/core/annotations/parseAnnotations';
 import { ReaderError } from '../../../src/core/errors';
 import { DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { fitExtremumAt } from '../../../src/core/analysis/massEngine';
 import { nearestKIndex } from '../../../src/extension/bandData';
-import { loadSi } from './demoRun';
+import { composeInputOf, loadSi } from '../extension/demoRun';
 
 async function base() {
   const si = await loadSi();
-  const input = {
-    bs: si.bs,
-    report: si.report,
-    source: si.bs.source,
-    settings: DEFAULT_SETTINGS,
-    toolVersion: '0.1.0',
-    fits: [],
-    existingText: null,
-    existingName: 'EIGENVAL.valleys.json',
-  };
+  const input = composeInputOf(si);
   return { si, input };
 }
 
-describe('extension: composing the annotations file', () => {
+describe('annotations: composing the file (CLI annotate and the editor save)', () => {
   it('without an existing file, holds the numbers of the analysis (what `valleyscope analyze` reports)', async () => {
     const { si, input } = await base();
     const c = composeAnnotations(input);

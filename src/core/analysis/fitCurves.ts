@@ -1,14 +1,26 @@
 /**
- * Curves to draw over the data for a fitted extremum: along each path direction a fit was made, the
- * fitted dispersion (parabola from the signed mass, or Kane's ε(1 + αε) = ħ²k²/2m* when α was fitted),
- * sampled in the band view's path-distance coordinate. Pure; the masses come from the core's engine.
+ * A fit at a point of a band path with the curves to draw over the data: along each path direction a fit was
+ * made, the fitted dispersion (parabola from the signed mass, or Kane's ε(1 + αε) = ħ²k²/2m* when α was
+ * fitted), sampled in the path-distance coordinate. The fit carries the k index it landed on and the vertex of
+ * each directional fit, so nothing is fitted twice and no k is looked up again.
  */
-import type { ExtremumReport, MassFit } from '../core/model';
-import type { PathGeometry } from '../core/lattice/kpath';
-import type { Ray } from '../core/analysis/pathRays';
-import { HBAR2_OVER_ME_EV_A2 } from '../core/units';
-import { kaneEnergy } from '../core/analysis/fits/kaneFit';
-import type { FitCurve } from '../protocol';
+import type { BandStructure, ExtremumReport, MassFit } from '../model';
+import type { PathGeometry } from '../lattice/kpath';
+import type { Ray } from './pathRays';
+import type { AnalysisSettings } from './analyze';
+import { HBAR2_OVER_ME_EV_A2 } from '../units';
+import { kaneEnergy } from './fits/kaneFit';
+import { engineContext, fitExtremumAt, type FitDetail } from './massEngine';
+
+/** Fitted curve samples to draw over the data, one per direction of the fit. */
+export interface FitCurve {
+  /** Same wording as MassFit.towards (with the branch when there is one). */
+  towards: string;
+  /** Path distances of the samples (same units as the path geometry's distance). */
+  distance: number[];
+  /** Energies of the samples, eV raw. */
+  energy: number[];
+}
 
 export const CURVE_SAMPLES = 41;
 
@@ -75,4 +87,36 @@ export function fitCurves(geometry: PathGeometry, x: ExtremumReport, rays: Ray[]
     }
   }
   return out;
+}
+
+/** A fit at a point of the path, with where it landed and what to draw. */
+export interface PathFit {
+  extremum: ExtremumReport;
+  /** 0-based index of the k-point fitted (the clicked one, or the extremum it snapped to). */
+  kIndex: number;
+  /** The vertex of each directional fit, in the order of `extremum.masses` (null: at the sampled point). */
+  vertices: (Vertex | null)[];
+  curves: FitCurve[];
+}
+
+/**
+ * Fit the extremum of band `band0` at (or, without `at`, nearest) `kIndex` like the analysis does
+ * (massEngine.fitExtremumAt), and sample its fitted curves along the path directions leaving the point.
+ */
+export function fitOnPath(
+  bs: BandStructure,
+  geometry: PathGeometry,
+  spin: number,
+  kIndex: number,
+  band0: number,
+  settings: AnalysisSettings,
+  at?: { maximum: boolean },
+): PathFit {
+  const detail: FitDetail = { kIndex, fits: [] };
+  const extremum = fitExtremumAt(bs, spin, kIndex, band0, settings, at, detail);
+  // Free-vertex fits put the vertex between sampled points; the others at the sampled point.
+  const vertices = detail.fits.map((f) => (f.vertexT !== undefined && f.vertexE !== undefined ? { t: f.vertexT, e: f.vertexE } : null));
+  const net = engineContext(bs).network;
+  const rays = net ? net.raysFrom(detail.kIndex) : [];
+  return { extremum, kIndex: detail.kIndex, vertices, curves: fitCurves(geometry, extremum, rays, vertices) };
 }
