@@ -8,7 +8,7 @@ import { ReaderError } from '../../../src/core/errors';
 import { detectFormat } from '../../../src/core/formats/index';
 import { qeXmlReader, readQeXml } from '../../../src/core/formats/qe/qeXml';
 import { bandsxReader } from '../../../src/core/formats/qe/bandsx';
-import { vasprunReader, VasprunStream } from '../../../src/core/formats/vasprun';
+import { vasprunReader, VasprunStream } from '../../../src/core/formats/vasp/vasprun';
 import { wannier90BandReader } from '../../../src/core/formats/wannier90';
 import { castepBandsReader } from '../../../src/core/formats/castep';
 import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';

@@ -1,18 +1,17 @@
 /**
- * A VASP band run: EIGENVAL plus what sits beside it (POSCAR or CONTCAR for the structure, KPOINTS for the
+ * The VASP EIGENVAL reader: the file (eigenvalScan.ts) plus what sits beside it (POSCAR or CONTCAR for the structure, KPOINTS for the
  * path labels, INCAR for spin-orbit). Each companion is optional; what is missing becomes a warning.
  */
-import type { BandStructure, InputWarning, KLabel, Mat3, SourceFile, Structure } from '../../model';
+import type { BandStructure, InputWarning, Mat3, SourceFile, Structure } from '../../model';
 import type { InputFile } from '../../io/fileAccessor';
 import { basename } from '../../io/fileAccessor';
 import type { FormatReader, ReadOptions } from '../types';
 import { sha256Hex } from '../../hash';
 import { ReaderError } from '../../errors';
-import { EIGENVAL_FORMAT, detectEigenval, readEigenval } from './eigenval';
+import { EIGENVAL_FORMAT, detectEigenval, readEigenval } from './eigenvalScan';
 import { readPoscarWithScale } from './poscar';
-import { readKpoints } from './kpoints';
-import { labelsFromLineMode } from './kpointLabels';
-import { dropMeshBeforePath } from './hybridMesh';
+import { placeLineModeLabels, readKpointsCompanion } from './kpointLabels';
+import { vaspBandStructure } from './vaspBandStructure';
 import { readIncar } from './incar';
 import { modelMethodFromSystem, vaspMethod } from './vaspMethod';
 
@@ -60,7 +59,7 @@ export const vaspEigenvalReader: FormatReader = {
       }
     }
     if (!structure && options.structure) structure = options.structure;
-    let lattice: Mat3 | null = structure?.lattice ?? options.lattice ?? null;
+    const lattice: Mat3 | null = structure?.lattice ?? options.lattice ?? null;
     if (!lattice) {
       warnings.push({
         code: 'no-lattice',
@@ -100,72 +99,28 @@ export const vaspEigenvalReader: FormatReader = {
             evidence: `No INCAR beside ${basename(main.path)}: nothing says how the energies were computed.`,
           });
 
-    const nBands = data.nBands;
-    // Hybrid-functional band runs list the self-consistent mesh (weighted) before the zero-weight path.
-    const dropped = dropMeshBeforePath(data, nBands);
-    if (dropped.warning) warnings.push(dropped.warning);
-    const { kpoints, weights, energies, occupations, nk } = dropped.arrays;
-
-    // Path labels from KPOINTS in line mode.
-    let labels: KLabel[] = [];
-    let sampling: BandStructure['sampling'] = 'points';
-    const kfile = byRole('KPOINTS');
-    if (kfile) {
-      try {
-        const content = readKpoints(kfile);
-        files.push({ role: 'kpath', path: kfile.path, sha256: sha256Hex(kfile.bytes) });
-        if (content.mode === 'line') {
-          sampling = 'path';
-          const r = labelsFromLineMode(
-            content.path,
-            kpoints,
-            nk,
-            structure ? (structure.lattice.map((row) => row.map((x) => x / scale)) as Mat3) : null,
-          );
-          labels = r.labels;
-          if (r.warning) warnings.push({ code: 'kpath-mismatch', message: r.warning, file: kfile.path });
-        } else {
-          sampling = 'grid';
-        }
-      } catch (e) {
-        if (e instanceof ReaderError)
-          warnings.push({ code: 'kpath-unreadable', message: `${e.message}; labels were not used`, file: kfile.path, line: e.line });
-        else throw e;
-      }
-    } else {
-      warnings.push({
-        code: 'no-kpath',
-        message: 'No KPOINTS beside the eigenvalue file: high-symmetry labels are recognised from the lattice where possible.',
-      });
-    }
     if (data.partial) {
       warnings.push({
         code: 'partial',
         message: `The file holds ${data.nk} of the ${data.announcedK} k-points its header announces (a running or interrupted job): results are provisional.`,
       });
     }
-    if (lattice === null && options.lattice) lattice = options.lattice;
-    return {
-      source: { format: EIGENVAL_FORMAT, file: main.path, files },
-      lattice,
-      structure,
-      nk,
-      nBands,
-      nSpin: data.nSpin,
-      kpoints,
-      weights,
-      energies,
-      occupations,
-      fermiEnergy: null,
-      electrons: data.electrons,
-      spinorbit,
-      method,
-      labels,
-      sampling,
-      grid: null,
-      writtenDistance: null,
-      partial: data.partial,
-      warnings,
-    };
+    const source = { format: EIGENVAL_FORMAT, file: main.path, files };
+    const found = { lattice, structure, fermiEnergy: null, spinorbit, method, partial: data.partial, warnings };
+    // Path labels from KPOINTS in line mode (cartesian ends converted with the POSCAR lattice over its scale).
+    const kfile = byRole('KPOINTS');
+    return vaspBandStructure(source, data, found, ({ kpoints, nk }) => {
+      if (!kfile) {
+        warnings.push({
+          code: 'no-kpath',
+          message: 'No KPOINTS beside the eigenvalue file: high-symmetry labels are recognised from the lattice where possible.',
+        });
+        return { labels: [], sampling: 'points' };
+      }
+      const content = readKpointsCompanion(kfile, files, warnings);
+      if (content?.mode !== 'line') return { labels: [], sampling: content ? 'grid' : 'points' };
+      const overScale = structure ? (structure.lattice.map((row) => row.map((x) => x / scale)) as Mat3) : null;
+      return { labels: placeLineModeLabels(content.path, kpoints, nk, overScale, kfile.path, warnings), sampling: 'path' };
+    });
   },
 };

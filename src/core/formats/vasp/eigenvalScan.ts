@@ -11,7 +11,8 @@
  */
 import type { InputFile } from '../../io/fileAccessor';
 import { CancelledError, ReaderError } from '../../errors';
-import { POW10, TextScanner } from '../textScanner';
+import { TextScanner } from '../textScanner';
+import { DECIMAL, decimalAt } from '../numbers';
 import { endsOnThisLine } from '../cutAtEnd';
 import { createSha256, sha256Hex } from '../../hash';
 import type { ReadOptions } from '../types';
@@ -249,8 +250,8 @@ function valueError(sc: TextScanner, what: string, k: number, b: number, spin: n
 }
 
 /**
- * The common band line, "  index  E [E_down] [occ [occ_down]]" with plain decimals, parsed in one pass
- * over the bytes. Returns false, leaving the scanner untouched, for anything else (exponents, long
+ * The common band line, "  index  E [E_down] [occ [occ_down]]", parsed in one pass over the bytes
+ * (numbers.ts's fast parser). Returns false, leaving the scanner untouched, for anything else (exponents, long
  * mantissas, a wrong index, damage): the general path then reads the line and words any error.
  */
 function fastBandLine(sc: TextScanner, expectIndex: number, out: Float64Array, count: number): boolean {
@@ -272,37 +273,11 @@ function fastBandLine(sc: TextScanner, expectIndex: number, out: Float64Array, c
     const start = p;
     while (p < n && (buf[p] === 32 || buf[p] === 9)) p++;
     if (p === start) return false;
-    let neg = false;
-    if (buf[p] === 45) {
-      neg = true;
-      p++;
-    }
-    let m = 0;
-    let nd = 0;
-    let frac = 0;
-    while (p < n) {
-      const d = buf[p]! - 48;
-      if (d < 0 || d > 9) break;
-      m = m * 10 + d;
-      p++;
-      nd++;
-    }
-    if (p < n && buf[p] === 46) {
-      p++;
-      while (p < n) {
-        const d = buf[p]! - 48;
-        if (d < 0 || d > 9) break;
-        m = m * 10 + d;
-        p++;
-        nd++;
-        frac++;
-      }
-    }
-    if (nd === 0 || nd > 15) return false;
+    p = decimalAt(buf, p, n);
+    if (p < 0) return false;
     const c = buf[p];
     if (!(c === 32 || c === 9 || c === 10 || c === 13)) return false;
-    const v = m / POW10[frac]!;
-    out[j] = neg ? -v : v;
+    out[j] = DECIMAL[0]!;
   }
   while (p < n && (buf[p] === 32 || buf[p] === 9 || buf[p] === 13)) p++;
   if (p >= n || buf[p] !== 10) return false;
