@@ -38,7 +38,6 @@ import { parseDecimal, scanNumbers } from '../numbers';
 import { DoubleBuffer } from '../doubleBuffer';
 import { BOHR_ANGSTROM, bohrToAngstrom, hartreeToEv } from '../../units';
 import { det3, mat3Inverse, mulVecMat } from '../../lattice/linalg';
-import { crystalSymmetry, symmetryReady } from '../../lattice/symmetry';
 
 export const QE_XML_FORMAT = 'qe-xml';
 
@@ -440,49 +439,9 @@ export function detectQeXml(head: Uint8Array, name: string): number {
   return /data-file-schema|\.xml$/i.test(name) ? 1 : 0.97;
 }
 
-/**
- * Compare the operations pw.x lists with those the symmetry library finds for the same structure. Returns a
- * warning when they disagree, null when they agree or the library is not loaded.
- */
-export function crossCheckSymmetry(data: QeXmlData): InputWarning | null {
-  if (data.symmetries.length === 0 || !symmetryReady()) return null;
-  let found: Mat3[];
-  try {
-    found = crystalSymmetry(data.structure).pointGroup;
-  } catch {
-    return null;
-  }
-  const key = (m: Mat3): string => m.map((r) => r.map((x) => Math.round(x)).join(',')).join(';');
-  const library = new Set(found.map(key));
-  const transpose = (m: Mat3): Mat3 => [
-    [m[0][0], m[1][0], m[2][0]],
-    [m[0][1], m[1][1], m[2][1]],
-    [m[0][2], m[1][2], m[2][2]],
-  ];
-  // pw.x's s acts on crystal coordinates in its own (transposed) convention; accept either reading, the same
-  // for every operation.
-  const distinct = new Set(data.symmetries.map((s) => key(s.rotation)));
-  const asIs = [...distinct].every((k) => library.has(k));
-  const transposed = data.symmetries.every((s) => library.has(key(transpose(s.rotation))));
-  const n = distinct.size;
-  if ((asIs || transposed) && n === library.size) return null;
-  if (asIs || transposed) {
-    return {
-      code: 'symmetry-subgroup',
-      message: `pw.x used ${n} of the ${library.size} point-group operations the symmetry library finds for this structure (a lower symmetry, e.g. from magnetisation, a chosen FFT grid or nosym): valley counts follow the library's full group.`,
-    };
-  }
-  return {
-    code: 'symmetry-mismatch',
-    message: `The ${n} symmetry operations pw.x lists are not all among the ${library.size} the symmetry library finds for this structure: check the structure and tolerances before trusting valley degeneracies.`,
-  };
-}
-
 export function qeXmlToBandStructure(data: QeXmlData, main: InputFile, options: ReadOptions): BandStructure {
   const warnings: InputWarning[] = [];
   const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: sha256Hex(main.bytes) }];
-  const sym = crossCheckSymmetry(data);
-  if (sym) warnings.push(sym);
   if (!data.complete) {
     warnings.push({
       code: 'partial',
@@ -522,6 +481,7 @@ export function qeXmlToBandStructure(data: QeXmlData, main: InputFile, options: 
     method: qeMethod(data.functional, data.hybrid),
     ...(data.fermiSource ? { fermiSource: data.fermiSource } : {}),
     ...(data.twoFermi && data.nSpin === 2 ? { fermiEnergies: data.twoFermi } : {}),
+    ...(data.symmetries.length > 0 ? { listedRotations: data.symmetries.map((o) => o.rotation) } : {}),
     labels: [],
     sampling: data.meshSampling ? 'grid' : 'points',
     grid: null,
