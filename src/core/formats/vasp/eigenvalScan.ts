@@ -12,10 +12,14 @@
 import type { InputFile } from '../../io/fileAccessor';
 import { CancelledError, ReaderError } from '../../errors';
 import { TextScanner } from '../textScanner';
-import { DECIMAL, decimalAt } from '../numbers';
+import { DECIMAL as DECIMAL_SLOT, decimalAt as parseDecimalAt } from '../numbers';
 import { endsOnThisLine } from '../cutAtEnd';
 import { createSha256, sha256Hex } from '../../hash';
 import type { ReadOptions } from '../types';
+
+/** Local bindings of the parser and its value slot: a hot loop then reads no module export per number. */
+const decimalAt = parseDecimalAt;
+const DECIMAL = DECIMAL_SLOT;
 
 export const EIGENVAL_FORMAT = 'vasp-eigenval';
 

@@ -6,9 +6,13 @@
  * and open events would do.
  */
 import type { ReaderError } from '../../errors';
-import { DECIMAL, decimalAt, scanDecimalBytes } from '../numbers';
+import { DECIMAL as DECIMAL_SLOT, decimalAt as parseDecimalAt, scanDecimalBytes } from '../numbers';
 import { DoubleBuffer, FloatBuffer } from '../doubleBuffer';
 import type { RowReader, XmlByteScanner } from '../xmlByteScanner';
+
+/** Local bindings of the parser and its value slot: a hot loop then reads no module export per number. */
+const decimalAt = parseDecimalAt;
+const DECIMAL = DECIMAL_SLOT;
 
 /** Fewest bytes one eigenvalue row can take (`<r>1</r>`): bounds what a header's NBANDS may claim. */
 const MIN_ROW_BYTES = 8;
