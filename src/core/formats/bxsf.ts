@@ -34,9 +34,7 @@ import { HARTREE_EV } from '../units';
 export const BXSF_FORMAT = 'bxsf';
 
 export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStructure {
-  const sc = new TextScanner(file.bytes, file.path, BXSF_FORMAT);
-  sc.skipBlankLines();
-  if (sc.atEnd()) throw sc.error('the band-grid file is empty');
+  const sc = TextScanner.atContent(file.bytes, file.path, BXSF_FORMAT, 'the band-grid file is empty');
   // Header: the Fermi energy, anywhere before the grid block.
   let fermiEnergy: number | null = null;
   const headerEnd = (() => {

@@ -50,6 +50,14 @@ export class TextScanner {
   /** Called with every chunk read from a source (e.g. to hash the file while streaming). */
   onChunk: ((chunk: Uint8Array) => void) | null = null;
 
+  /** A scanner at the first non-blank line of a small file; `empty` is the sentence when there is none. */
+  static atContent(bytes: Uint8Array, file: string, format: string, empty: string): TextScanner {
+    const sc = new TextScanner(bytes, file, format);
+    sc.skipBlankLines();
+    if (sc.atEnd()) throw sc.error(empty);
+    return sc;
+  }
+
   /** A scanner that reads a large file in windows through a ranged source. */
   static streaming(source: ByteRangeSource, file: string, format: string, onChunk?: (chunk: Uint8Array) => void): TextScanner {
     const first = source.read(0, Math.min(STREAM_CHUNK_BYTES, source.size));

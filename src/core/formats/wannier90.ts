@@ -37,9 +37,7 @@ export interface BandDatData {
 
 /** Read seedname_band.dat: blocks of (distance, energy) lines, one block per band. */
 export function readBandDat(file: InputFile, options: ReadOptions = {}): BandDatData {
-  const sc = new TextScanner(file.bytes, file.path, WANNIER90_BAND_FORMAT);
-  sc.skipBlankLines();
-  if (sc.atEnd()) throw sc.error('the band file is empty');
+  const sc = TextScanner.atContent(file.bytes, file.path, WANNIER90_BAND_FORMAT, 'the band file is empty');
   const x = new DoubleBuffer(1024);
   const e = new DoubleBuffer(4096);
   let nk = -1;
@@ -130,9 +128,7 @@ function transposeBands(src: Float64Array, nBands: number, nk: number): Float64A
 
 /** seedname_band.kpt: count, then fractional k and a weight per line. */
 export function readBandKpt(file: InputFile): Float64Array {
-  const sc = new TextScanner(file.bytes, file.path, 'wannier90-kpt');
-  sc.skipBlankLines();
-  if (sc.atEnd()) throw sc.error('the k-point file is empty');
+  const sc = TextScanner.atContent(file.bytes, file.path, 'wannier90-kpt', 'the k-point file is empty');
   const n = sc.integer('the number of k-points');
   if (n <= 0) throw sc.error(`the k-point file announces ${n} points`);
   sc.endLine('the number of k-points');

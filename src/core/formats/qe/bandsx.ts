@@ -38,9 +38,7 @@ export interface BandsxData {
 
 /** Read the numbers of a bands.x file. */
 export function readBandsx(file: InputFile, options: ReadOptions = {}): BandsxData {
-  const sc = new TextScanner(file.bytes, file.path, BANDSX_FORMAT);
-  sc.skipBlankLines();
-  if (sc.atEnd()) throw sc.error('the band file is empty');
+  const sc = TextScanner.atContent(file.bytes, file.path, BANDSX_FORMAT, 'the band file is empty');
   const headerLine = sc.line;
   const header = sc.restOfLine();
   const m = /^\s*&plot\s+nbnd\s*=\s*([^,\s]+)\s*,\s*nks\s*=\s*([^/\s]+)\s*\/\s*$/i.exec(header);
