@@ -21,17 +21,15 @@ import { DoubleBuffer } from './doubleBuffer';
 
 import { readBandKpt, readLabelInfo, readWin } from './wannier90Companions';
 
+import { pathBandStructure, type PathBandData } from './pathBands';
+
 export { readBandKpt, readLabelInfo, readWin };
 
 export const WANNIER90_BAND_FORMAT = 'wannier90-band';
 
-export interface BandDatData {
-  nk: number;
-  nBands: number;
+/** `partial`: the last band was cut short (dropped; only with allowPartial). */
+export interface BandDatData extends PathBandData {
   distance: Float64Array;
-  energies: Float64Array;
-  /** True when the last band was cut short (dropped; only with allowPartial). */
-  partial: boolean;
 }
 
 /** Read seedname_band.dat: blocks of (distance, energy) lines, one block per band. */
@@ -252,26 +250,18 @@ export const wannier90BandReader: FormatReader = {
           ? 'Wannier90 band files give no electron count: the fermi_energy of seedname.win places the band edges.'
           : 'Wannier90 band files give no electron count, and seedname.win gives no fermi_energy: band edges cannot be placed.',
     });
-    return {
-      source: { format: WANNIER90_BAND_FORMAT, file: main.path, files },
+    const spinorbit = options.spinorbit ?? win?.spinors ?? false;
+    const source = { format: WANNIER90_BAND_FORMAT, file: main.path, files };
+    return pathBandStructure(source, data, {
       lattice,
       structure,
-      nk: data.nk,
-      nBands: data.nBands,
-      nSpin: 1,
       kpoints,
-      weights: null,
-      energies: [data.energies],
-      occupations: null,
       fermiEnergy,
       electrons: null,
-      spinorbit: options.spinorbit ?? win?.spinors ?? false,
+      spinorbit,
       labels,
-      sampling: 'path',
-      grid: null,
       writtenDistance,
-      partial: data.partial,
       warnings,
-    };
+    });
   },
 };

@@ -24,16 +24,14 @@ import { endsOnThisLine } from '../cutAtEnd';
 import { detectQeXml, qeMethod, readQeXml, type QeXmlData } from './qeXml';
 import { det3, norm } from '../../lattice/linalg';
 
+import { pathBandStructure, type PathBandData } from '../pathBands';
+
 export const BANDSX_FORMAT = 'qe-bands';
 
-export interface BandsxData {
-  nBands: number;
-  nk: number;
+export interface BandsxData extends PathBandData {
   announcedK: number;
   /** Cartesian, units of 2π/alat, as written. */
   kCartesian: Float64Array;
-  energies: Float64Array;
-  partial: boolean;
 }
 
 /** Read the numbers of a bands.x file. */
@@ -332,28 +330,9 @@ export const bandsxReader: FormatReader = {
       code: 'rounded-energies',
       message: 'bands.x rounds energies to 1 meV: curvature fits on this file carry that rounding in their errors.',
     });
-    return {
-      source: { format: BANDSX_FORMAT, file: main.path, files },
-      lattice,
-      structure,
-      nk: data.nk,
-      nBands: data.nBands,
-      nSpin: 1,
-      kpoints,
-      weights: null,
-      energies: [data.energies],
-      occupations: null,
-      fermiEnergy,
-      electrons,
-      spinorbit,
-      ...(method ? { method } : {}),
-      ...(xml?.fermiSource ? { fermiSource: xml.fermiSource } : {}),
-      labels: [],
-      sampling: 'path',
-      grid: null,
-      writtenDistance: null,
-      partial: data.partial,
-      warnings,
-    };
+    const source = { format: BANDSX_FORMAT, file: main.path, files };
+    const fermi = xml?.fermiSource ? { fermiSource: xml.fermiSource } : {};
+    const found = { lattice, structure, kpoints, fermiEnergy, electrons, spinorbit, ...(method ? { method } : {}), ...fermi };
+    return pathBandStructure(source, data, { ...found, labels: [], writtenDistance: null, warnings });
   },
 };
