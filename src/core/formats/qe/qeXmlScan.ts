@@ -28,24 +28,19 @@
  *
  * With lsda the eigenvalues of one k-point hold the spin-up bands, then the spin-down bands.
  */
-import type { Mat3, Structure, Vec3 } from '../../model';
+import type { Mat3, Structure } from '../../model';
 import type { InputFile } from '../../io/fileAccessor';
 import type { ReadOptions } from '../types';
 import { ReaderError } from '../../errors';
-import { parseXmlSafely, numberAttribute } from '../xmlSafety';
+import { parseXmlSafely } from '../xmlSafety';
+import { QeXmlWalk, type QeSymmetryOperation } from './qeXmlWalk';
 import { parseDecimal, scanNumbers } from '../numbers';
-import { DoubleBuffer } from '../doubleBuffer';
 import { BOHR_ANGSTROM, hartreeToEv } from '../../units';
-import { qeStructure, type AtomicStructureDraft } from './qeStructure';
+import { qeStructure } from './qeStructure';
 
 export const QE_XML_FORMAT = 'qe-xml';
 
-/** A symmetry operation as pw.x lists it: QE's s(i,j) in crystal axes and the fractional translation. */
-export interface QeSymmetryOperation {
-  /** s(i,j) (row i, column j) as pw.x stores it, read from the Fortran (column-major) order of the file. */
-  rotation: Mat3;
-  translation: Vec3;
-}
+export type { QeSymmetryOperation };
 
 export interface QeXmlData {
   /** Lattice parameter alat, Å. */
@@ -91,183 +86,11 @@ export interface QeXmlData {
 /** Read a pw.x XML data file. */
 export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData {
   const fail = (line: number, reason: string): ReaderError => new ReaderError(QE_XML_FORMAT, file.path, { line, column: 0 }, reason);
-  let text = '';
-  let collecting = false;
-  let line = 0;
-  const structures: { input?: AtomicStructureDraft; output?: AtomicStructureDraft } = {};
-  let draft: AtomicStructureDraft | null = null;
-  let draftSection: 'input' | 'output' | null = null;
-  let atomName = '';
-  const flags = new Map<string, string>();
-  const symmetries: QeSymmetryOperation[] = [];
-  let symInfo = '';
-  let symRotation: Mat3 | null = null;
-  let symTranslation: Vec3 = [0, 0, 0];
-  const kCart = new DoubleBuffer(3 * 64);
-  const weights = new DoubleBuffer(64);
-  const eig = new DoubleBuffer(1024);
-  const occ = new DoubleBuffer(1024);
-  let kWeight: number | null = null;
-  let kSeen = false;
-  let bandsPerK = -1;
-  let occPerK = -1;
-  let kComplete = 0;
-  let kHasEig = false;
-  let kHasOcc = false;
-  let rootSeen = false;
-  let currentLine = 1;
-  let meshSampling = false;
-  let functional: string | null = null;
-  let hybrid = false;
-
-  const numbersOf = (what: string, expected: number, lineNo: number): number[] => {
-    const out: number[] = [];
-    const r = scanNumbers(text, out, 0, expected);
-    if (r.bad !== null) {
-      if (r.bad.includes('***'))
-        throw fail(lineNo, `${what} is written as "${r.bad}": the number field overflowed, so the value is unknown`);
-      throw fail(lineNo, `${what} should be a number, found "${r.bad}"`);
-    }
-    if (r.count !== expected) throw fail(lineNo, `${what} should hold ${expected} numbers, found ${r.count}`);
-    return out;
-  };
-  const section = (path: readonly string[]): 'input' | 'output' | null =>
-    path[1] === 'output' ? 'output' : path[1] === 'input' ? 'input' : null;
-
-  const outcome = parseXmlSafely(
-    file,
-    QE_XML_FORMAT,
-    {
-      open(name, attrs, path, lineNo) {
-        currentLine = lineNo;
-        const depth = path.length;
-        if (depth === 1) {
-          if (!/(^|:)espresso$/.test(name)) {
-            throw fail(
-              1,
-              `the root element is <${name}>; a pw.x data file starts with <qes:espresso> (files of versions before 6.2 are not read)`,
-            );
-          }
-          rootSeen = true;
-          return;
-        }
-        collecting = true;
-        text = '';
-        const parent = path[depth - 2]!;
-        if (name === 'atomic_structure') {
-          const sec = section(path);
-          draftSection = sec;
-          draft = {
-            alat: numberAttribute(attrs, 'alat'),
-            species: [],
-            positions: [],
-            kind: null,
-            cell: [null, null, null],
-            line: currentLine,
-          };
-        } else if (name === 'atom' && draft && (parent === 'atomic_positions' || parent === 'crystal_positions')) {
-          atomName = (attrs.name ?? '').trim();
-          draft.kind = parent === 'atomic_positions' ? 'cartesian' : 'crystal';
-        } else if (name === 'symmetry' && parent === 'symmetries' && section(path) === 'output') {
-          symInfo = '';
-          symRotation = null;
-          symTranslation = [0, 0, 0];
-        } else if (name === 'info' && parent === 'symmetry') {
-          symInfo = attrs.name ?? '';
-        } else if (name === 'hybrid' && parent === 'dft') {
-          hybrid = true;
-        } else if (name === 'monkhorst_pack' && parent === 'starting_k_points' && section(path) === 'output') {
-          meshSampling = true;
-        } else if (name === 'ks_energies') {
-          kSeen = true;
-          kWeight = null;
-          kHasEig = false;
-          kHasOcc = false;
-        } else if (name === 'k_point' && parent === 'ks_energies') {
-          kWeight = numberAttribute(attrs, 'weight');
-        }
-      },
-      text(t) {
-        if (collecting) text += t;
-      },
-      close(name, path, lineNo) {
-        currentLine = lineNo;
-        collecting = false;
-        const depth = path.length;
-        if (depth < 2) return;
-        const parent = path[depth - 2]!;
-        const sec = section(path);
-        line = currentLine;
-        if (draft && name === 'atom' && (parent === 'atomic_positions' || parent === 'crystal_positions')) {
-          draft.species.push(atomName);
-          draft.positions.push(...numbersOf(`the position of atom ${draft.species.length}`, 3, line));
-        } else if (draft && parent === 'cell' && /^a[123]$/.test(name)) {
-          const v = numbersOf(`the lattice vector ${name}`, 3, line);
-          draft.cell[Number(name[1]) - 1] = [v[0]!, v[1]!, v[2]!];
-        } else if (name === 'functional' && parent === 'dft') {
-          if (functional === null || sec === 'output') functional = text.trim();
-        } else if (name === 'atomic_structure') {
-          if (draft && draftSection) structures[draftSection] = draft;
-          draft = null;
-        } else if (parent === 'symmetry' && sec === 'output') {
-          if (name === 'rotation') {
-            const v = numbersOf('a symmetry rotation', 9, line);
-            // Fortran order: the first three numbers are the first column s(1:3,1).
-            symRotation = [
-              [v[0]!, v[3]!, v[6]!],
-              [v[1]!, v[4]!, v[7]!],
-              [v[2]!, v[5]!, v[8]!],
-            ];
-          } else if (name === 'fractional_translation') {
-            const v = numbersOf('a fractional translation', 3, line);
-            symTranslation = [v[0]!, v[1]!, v[2]!];
-          }
-        } else if (name === 'symmetry' && parent === 'symmetries' && sec === 'output') {
-          if (symRotation && symInfo === 'crystal_symmetry') symmetries.push({ rotation: symRotation, translation: symTranslation });
-        } else if (parent === 'band_structure' || parent === 'magnetization') {
-          if (sec === 'output' && name !== 'ks_energies' && name !== 'starting_k_points') {
-            if (parent === 'band_structure' || !flags.has(name)) flags.set(name, text.trim());
-          }
-          if (name === 'ks_energies') {
-            const k = kComplete + 1;
-            if (!kHasEig) throw fail(line, `k-point ${k} has no eigenvalues`);
-            if (kCart.length !== 3 * k) throw fail(line, `the block of k-point ${k} (<ks_energies>) should hold exactly one <k_point>`);
-            if (eig.length !== k * bandsPerK)
-              throw fail(line, `the block of k-point ${k} (<ks_energies>) should hold exactly one <eigenvalues>`);
-            if (occ.length !== 0 && occ.length !== k * occPerK)
-              throw fail(line, `the block of k-point ${k} (<ks_energies>) should hold exactly one <occupations>`);
-            kComplete++;
-          }
-        } else if (parent === 'ks_energies') {
-          if (name === 'k_point') {
-            const v = numbersOf(`k-point ${kComplete + 1}`, 3, line);
-            for (const x of v) kCart.push(x);
-            weights.push(kWeight ?? 0);
-          } else if (name === 'eigenvalues' || name === 'occupations') {
-            const buf = name === 'eigenvalues' ? eig : occ;
-            const out: number[] = [];
-            const r = scanNumbers(text, out, 0, 1 << 20);
-            const what = `the ${name} of k-point ${kComplete + 1}`;
-            if (r.bad !== null) throw fail(line, `${what} should be numbers, found "${r.bad}"`);
-            if (name === 'eigenvalues') {
-              if (bandsPerK < 0) bandsPerK = r.count;
-              else if (r.count !== bandsPerK) throw fail(line, `${what} are ${r.count} values where the k-points before have ${bandsPerK}`);
-              kHasEig = true;
-            } else {
-              if (occPerK < 0) occPerK = r.count;
-              else if (r.count !== occPerK) throw fail(line, `${what} are ${r.count} values where the k-points before have ${occPerK}`);
-              kHasOcc = true;
-            }
-            for (const x of out) buf.push(x);
-          }
-        }
-        void kHasOcc;
-      },
-    },
-    options,
-  );
-  line = outcome.endLine;
-  if (!rootSeen) throw fail(1, 'no <qes:espresso> root element: this is not a pw.x data file');
+  const walk = new QeXmlWalk(fail);
+  const outcome = parseXmlSafely(file, QE_XML_FORMAT, walk, options);
+  const line = outcome.endLine;
+  const { flags, structures, kComplete, bandsPerK, occPerK, eig, occ, kCart, weights } = walk;
+  if (!walk.rootSeen) throw fail(1, 'no <qes:espresso> root element: this is not a pw.x data file');
   const st = structures.output ?? structures.input;
   if (!st) throw fail(line, 'the file holds no <atomic_structure>: the cell is unknown');
   const { cellBohr, alatBohr, structure } = qeStructure(st, fail);
@@ -281,7 +104,7 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
   const lsda = bool('lsda');
   const noncolin = bool('noncolin');
   const spinorbit = bool('spinorbit');
-  if (!kSeen || kComplete === 0) {
+  if (!walk.kSeen || kComplete === 0) {
     throw fail(
       line,
       outcome.complete
@@ -372,12 +195,12 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
     lsda,
     noncolin,
     spinorbit,
-    symmetries,
+    symmetries: walk.symmetries,
     announcedK,
     complete: outcome.complete,
-    meshSampling,
-    functional,
-    hybrid,
+    meshSampling: walk.meshSampling,
+    functional: walk.functional,
+    hybrid: walk.hybrid,
     lowestUnoccupied: num('lowestUnoccupiedLevel') === null ? null : hartreeToEv(num('lowestUnoccupiedLevel')!),
     occupationsKind: flags.get('occupations_kind') ?? null,
   };
