@@ -4,12 +4,17 @@
  * (scripts/bench/measure.ts): the reader through the core loader, JSON.parse of the energies, and a bare
  * newline count of the XML. Prints each figure with the one it is compared against and the goal.
  * Two shapes: many bands (11 200 k × 520 bands, ~200 MB, streamed) and many k-points (20 000 k × 40 bands,
- * ~30 MB). With --small: 1 000 × 520 and 4 000 × 40.
+ * ~30 MB). With --small: 1 000 × 520 and 4 000 × 40; with --shape 20000x40 only that shape.
+ * For files up to 64 MiB it also reads the file twice in this process and prints the second pass: the
+ * reader's steady cost, apart from what a fresh process pays once (compiling the scanner, hashing, I/O).
  */
 import { spawnSync } from 'node:child_process';
-import { closeSync, existsSync, mkdirSync, openSync, statSync, writeSync } from 'node:fs';
+import { closeSync, existsSync, mkdirSync, openSync, readFileSync, statSync, writeSync } from 'node:fs';
+import { VasprunStream } from '../../src/core/formats/vasp/vasprunStream';
 
 const small = process.argv.includes('--small');
+const shapeArg = process.argv[process.argv.indexOf('--shape') + 1] ?? '';
+const onlyShape = process.argv.includes('--shape') ? shapeArg.split('x').map(Number) : null;
 const dir = 'bench-data';
 mkdirSync(dir, { recursive: true });
 const MB = 2 ** 20;
@@ -99,15 +104,35 @@ function measure(task: string, file: string): { ms: number; cpuMs: number; rssBe
 const fmt = (x: number, d = 2): string => x.toFixed(d);
 const STREAM_ABOVE_MB = 32;
 
-for (const [k, b] of small
-  ? [
-      [1000, 520],
-      [4000, 40],
-    ]
-  : [
-      [11200, 520],
-      [20000, 40],
-    ]) {
+const shapes = onlyShape
+  ? [onlyShape]
+  : small
+    ? [
+        [1000, 520],
+        [4000, 40],
+      ]
+    : [
+        [11200, 520],
+        [20000, 40],
+      ];
+
+/** CPU milliseconds of the second of two in-process reads of `file` (no hashing, bytes already in memory). */
+function warmReadCpuMs(file: string): number {
+  const bytes = readFileSync(file);
+  let cpu = 0;
+  for (let pass = 0; pass < 2; pass++) {
+    const c0 = process.cpuUsage();
+    const stream = new VasprunStream(file, bytes.length);
+    for (let i = 0; i < bytes.length; i += 1 << 20)
+      stream.write(bytes.subarray(i, Math.min(bytes.length, i + (1 << 20))), i + (1 << 20) >= bytes.length);
+    stream.finish(false);
+    const c = process.cpuUsage(c0);
+    cpu = (c.user + c.system) / 1000;
+  }
+  return cpu;
+}
+
+for (const [k, b] of shapes) {
   nk = k!;
   nb = b!;
   xml = `${dir}/vasprun-${nk}x${nb}.xml`;
@@ -144,6 +169,12 @@ for (const [k, b] of small
   console.log(
     `  (energies as doubles and occupations as floats: ${fmt((ours.count * 12) / MB, 0)} MiB, ${fmt((ours.count * 12) / size)} of the file size)`,
   );
+  if (size <= 64 * MB) {
+    const warm = warmReadCpuMs(xml);
+    console.log(
+      `  steady reader (second read in one process, bytes in memory, no hashing): ${fmt(warm, 0)} ms CPU, ${fmt((warm * 1e6) / ours.count, 1)} ns per energy; ratio to JSON.parse CPU ${fmt(warm / ours.count / (jp.cpuMs / jp.count))}`,
+    );
+  }
   const lpeak = loader.maxRssMB - loader.rssBeforeMB;
   const streamed = size > STREAM_ABOVE_MB * MB;
   console.log(

@@ -11,6 +11,7 @@ import { ReaderError, ValleyscopeError } from './errors';
 import { withInferredLabels } from './lattice/inferLabels';
 import { checkConfined, notRegularSentence, PathRefusedError, readListedFile, redactContent } from './io/pathPolicy';
 import { refuseAbsurdKpoints } from './formats/kpointSanity';
+import { crossCheckListedSymmetry } from './lattice/listedSymmetry';
 
 /** Files larger than this are streamed by readers that can (bytes). */
 export const STREAM_ABOVE_BYTES = 32 * 1024 * 1024;
@@ -182,6 +183,9 @@ export async function readFromBytes(
     throw e;
   }
   bs.warnings = bs.warnings.map((w) => (w.file !== undefined && w.file !== main.path ? { ...w, message: redactContent(w.message) } : w));
+  // The symmetry the file lists, checked against its structure: analysis, so here and not in the reader.
+  const symmetry = crossCheckListedSymmetry(bs);
+  if (symmetry) bs.warnings.push(symmetry);
   if (bs.electrons === null && options.electrons !== undefined && options.electrons > 0) {
     bs.electrons = options.electrons;
     bs.warnings.push({

@@ -100,6 +100,8 @@ export interface BandStructure {
   fermiEnergies?: [number, number];
   /** Where the written Fermi energy came from, when the layout says (e.g. 'fermi_energy', 'highestOccupiedLevel'). */
   fermiSource?: string;
+  /** Point-group rotations the file says its code used (pw.x's s(i,j), its own crystal convention); load.ts checks them. */
+  listedRotations?: Mat3[];
   labels: KLabel[];
   /** 'path' for line-mode runs, 'grid' for uniform meshes, 'points' when unknown. */
   sampling: 'path' | 'grid' | 'points';

@@ -45,9 +45,7 @@ function expectWords(sc: TextScanner, words: string[], what: string): void {
 }
 
 export function readCastepBands(file: InputFile, options: ReadOptions = {}): BandStructure {
-  const sc = new TextScanner(file.bytes, file.path, CASTEP_BANDS_FORMAT);
-  sc.skipBlankLines();
-  if (sc.atEnd()) throw sc.error('the .bands file is empty');
+  const sc = TextScanner.atContent(file.bytes, file.path, CASTEP_BANDS_FORMAT, 'the .bands file is empty');
   expectWords(sc, ['Number', 'of', 'k-points'], 'Number of k-points');
   const countLine = sc.line;
   const nkAnnounced = sc.integer('the number of k-points');

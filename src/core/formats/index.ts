@@ -2,8 +2,8 @@
  * The registry of readers. Each format lives in its own file and registers here; detection is by content.
  */
 import type { FormatReader } from './types';
-import { vaspEigenvalReader } from './vasp/vaspRun';
-import { vasprunReader } from './vasprun';
+import { vaspEigenvalReader } from './vasp/eigenval';
+import { vasprunReader } from './vasp/vasprun';
 import { qeXmlReader } from './qe/qeXml';
 import { bandsxReader } from './qe/bandsx';
 import { wannier90BandReader } from './wannier90';

@@ -5,16 +5,17 @@
  */
 import { ReaderError } from '../errors';
 import type { ByteRangeSource } from '../io/fileAccessor';
-import { POW10 } from './numbers';
+import { DECIMAL as DECIMAL_SLOT, decimalAt as parseDecimalAt } from './numbers';
+
+/** Local bindings of the parser and its value slot: a hot loop then reads no module export per number. */
+const decimalAt = parseDecimalAt;
+const DECIMAL = DECIMAL_SLOT;
 
 const NL = 10;
 const CR = 13;
 const SPACE = 32;
 const TAB = 9;
 const COMMA = 44;
-
-/** The one table of exact powers of ten (numbers.ts), re-exported for the readers built on the scanner. */
-export { POW10 };
 
 export function isSpace(c: number): boolean {
   return c === SPACE || c === TAB || c === CR || c === 0x0b || c === 0x0c;
@@ -49,6 +50,14 @@ export class TextScanner {
   private window: Uint8Array | null = null;
   /** Called with every chunk read from a source (e.g. to hash the file while streaming). */
   onChunk: ((chunk: Uint8Array) => void) | null = null;
+
+  /** A scanner at the first non-blank line of a small file; `empty` is the sentence when there is none. */
+  static atContent(bytes: Uint8Array, file: string, format: string, empty: string): TextScanner {
+    const sc = new TextScanner(bytes, file, format);
+    sc.skipBlankLines();
+    if (sc.atEnd()) throw sc.error(empty);
+    return sc;
+  }
 
   /** A scanner that reads a large file in windows through a ranged source. */
   static streaming(source: ByteRangeSource, file: string, format: string, onChunk?: (chunk: Uint8Array) => void): TextScanner {
@@ -310,119 +319,35 @@ export class TextScanner {
   /**
    * Parse a number at the cursor (no leading spaces skipped). Returns null, leaving the cursor unchanged,
    * when no complete number is there. A number must be followed by a separator or the end of the line.
+   * The common forms go through the one fast parser (numbers.ts); Fortran's forms (D exponents, an exponent
+   * of three digits written without its E: 0.1234-105) and long mantissas through the token's text.
    */
   tryNumber(): number | null {
     const b = this.bytes;
     const n = b.length;
     const start = this.pos;
+    const q = decimalAt(b, start, n);
+    if (q >= 0 && (q >= n || isSeparator(b[q]!))) {
+      this.pos = q;
+      return DECIMAL[0]!;
+    }
     let p = start;
-    let neg = false;
-    let c = b[p];
-    if (c === 45 /* - */) {
-      neg = true;
-      p++;
-    } else if (c === 43 /* + */) p++;
-    let mant = 0;
-    let digits = 0;
-    let sig = 0; // significant digits accumulated into mant
-    let scale = 0; // decimal exponent adjustment
-    let sawDigit = false;
-    while (p < n) {
-      c = b[p]!;
-      const d = c - 48;
-      if (d < 0 || d > 9) break;
-      sawDigit = true;
-      if (sig < 18) {
-        if (mant !== 0 || d !== 0) sig++;
-        mant = mant * 10 + d;
-      } else scale++;
-      digits++;
-      p++;
-    }
-    if (p < n && b[p] === 46 /* . */) {
-      p++;
-      while (p < n) {
-        c = b[p]!;
-        const d = c - 48;
-        if (d < 0 || d > 9) break;
-        sawDigit = true;
-        if (sig < 18) {
-          if (mant !== 0 || d !== 0) sig++;
-          mant = mant * 10 + d;
-          scale--;
-        }
-        digits++;
-        p++;
-      }
-    }
-    if (!sawDigit) return null;
-    let exp = 0;
-    if (p < n) {
-      c = b[p]!;
-      if (c === 101 || c === 69 || c === 100 || c === 68 /* e E d D */) {
-        let q = p + 1;
-        let eneg = false;
-        if (b[q] === 45) {
-          eneg = true;
-          q++;
-        } else if (b[q] === 43) q++;
-        let ed = 0;
-        let ev = 0;
-        while (q < n) {
-          const d = b[q]! - 48;
-          if (d < 0 || d > 9) break;
-          if (ev < 100000) ev = ev * 10 + d;
-          ed++;
-          q++;
-        }
-        if (ed === 0) return null;
-        exp = eneg ? -ev : ev;
-        p = q;
-      } else if ((c === 45 || c === 43) && digits > 0) {
-        // Fortran sometimes drops the E when the exponent has three digits: 0.1234-105.
-        let q = p + 1;
-        let ev = 0;
-        let ed = 0;
-        while (q < n) {
-          const d = b[q]! - 48;
-          if (d < 0 || d > 9) break;
-          ev = ev * 10 + d;
-          ed++;
-          q++;
-        }
-        if (ed >= 2 && ed <= 3 && (q >= n || !isNumberChar(b[q]!))) {
-          exp = c === 45 ? -ev : ev;
-          p = q;
-        }
-      }
-    }
-    // The number must end at a separator.
-    if (p < n) {
-      c = b[p]!;
-      if (!(isSpace(c) || c === NL || c === COMMA || c === 33 /* ! */ || c === 41 /* ) */ || c === 60 /* < */ || c === 59 /* ; */)) {
-        return null;
-      }
-    }
+    while (p < n && !isSeparator(b[p]!)) p++;
+    if (p === start || p - start > 64) return null;
+    let text = decodeText(b, start, p).replace(/[dD]/, 'e');
+    if (!/[eE]/.test(text)) text = text.replace(/^([+-]?(?:\d+\.?\d*|\.\d+))([+-]\d{2,3})$/, '$1e$2');
+    if (!FORTRAN_NUMBER.test(text)) return null;
+    const v = Number(text);
+    if (!Number.isFinite(v)) return null;
     this.pos = p;
-    const e10 = scale + exp;
-    let v: number;
-    if (mant === 0) v = 0;
-    else if (sig <= 15 && e10 >= -22 && e10 <= 22) {
-      v = e10 < 0 ? mant / POW10[-e10]! : mant * POW10[e10]!;
-    } else {
-      // Rare: long mantissa or large exponent. Let the runtime round correctly.
-      let s = decodeText(b, start, p).replace(/[dD]/, 'e');
-      if (!/[eE]/.test(s)) s = s.replace(/(\d)([+-]\d+)$/, '$1e$2');
-      v = Math.abs(Number.parseFloat(s));
-    }
-    if (!Number.isFinite(v)) {
-      this.pos = start;
-      return null;
-    }
-    return neg ? -v : v;
+    return v;
   }
 }
 
-function isNumberChar(c: number): boolean {
-  return (c >= 48 && c <= 57) || c === 46 || c === 101 || c === 69 || c === 45 || c === 43;
+/** A decimal number with an optional exponent, once Fortran's D and dropped E are made plain. */
+const FORTRAN_NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+
+/** Bytes that may follow a number: blanks, the end of the line, and , ! ) < ; */
+function isSeparator(c: number): boolean {
+  return isSpace(c) || c === NL || c === COMMA || c === 33 || c === 41 || c === 60 || c === 59;
 }

@@ -9,11 +9,11 @@
  * - errors are ReaderError with the line and column; a file that ends early is told apart from a malformed one.
  * Feed bytes in pieces with `write`, then `finish`.
  */
-import { ReaderError } from '../errors';
+import { MAX_CONSTRUCT_BYTES, XmlByteInput } from './xmlByteInput';
+import { entityCodePoint, indexIn, isNameChar, isNameStart, isWs, readAttributes, undefinedEntity } from './xmlMarkup';
 import { DOCTYPE_REFUSED, MAX_XML_DEPTH } from './xmlSafety';
 
-/** Longest single construct (a tag, a comment, a collected text) accepted. */
-export const MAX_CONSTRUCT_BYTES = 1 << 20;
+export { MAX_CONSTRUCT_BYTES };
 
 export interface XmlByteEvents {
   /** An element opens. `depth` counts the root as 1. Return true to receive its text (see `text`). */
@@ -35,33 +35,8 @@ const SLASH = 47;
 const BANG = 33;
 const QUESTION = 63;
 const AMP = 38;
-const NL = 10;
 
-/** The first `c` in buf[from, to), or -1 (indexOf would search to the end of the buffer). */
-function indexIn(buf: Uint8Array, c: number, from: number, to: number): number {
-  for (let i = from; i < to; i++) if (buf[i] === c) return i;
-  return -1;
-}
-
-function isWs(c: number): boolean {
-  return c === 32 || c === 10 || c === 13 || c === 9;
-}
-function isNameStart(c: number): boolean {
-  return (c >= 97 && c <= 122) || (c >= 65 && c <= 90) || c === 95 || c === 58 || c >= 0x80;
-}
-function isNameChar(c: number): boolean {
-  return isNameStart(c) || (c >= 48 && c <= 57) || c === 45 || c === 46;
-}
-
-export class XmlByteScanner {
-  /** 1-based line of the scan position. */
-  line = 1;
-  /** Absolute offset of the first byte of the current line. */
-  lineStart = 0;
-  /** Absolute offset of buf[0]. */
-  private base = 0;
-  private work: Uint8Array = new Uint8Array(0);
-  private carryLength = 0;
+export class XmlByteScanner extends XmlByteInput {
   private readonly stack: string[] = [];
   /** Per open element: 0 nothing yet, 1 child elements, 2 non-blank text. */
   private readonly content: number[] = [];
@@ -70,24 +45,17 @@ export class XmlByteScanner {
   private textLen = 0;
   private sawRoot = false;
   private rootClosed = false;
-  private fed = 0;
-  private sawBom = false;
-  private first = true;
-  private latin1 = true;
-  private decoder = new TextDecoder('latin1');
-  private readonly names = new Map<number, string[]>();
   /** The fast path for rows, active directly inside the element that was innermost when it was set. */
   private rows: RowReader | null = null;
   private rowsDepth = -1;
-  /** Column of the scan position, for errors (set before a construct is processed). */
-  private pos = 0;
-  private ended = false;
 
   constructor(
-    private readonly fileName: string,
-    private readonly format: string,
+    fileName: string,
+    format: string,
     private readonly events: XmlByteEvents,
-  ) {}
+  ) {
+    super(fileName, format);
+  }
 
   get depth(): number {
     return this.stack.length;
@@ -96,40 +64,6 @@ export class XmlByteScanner {
   /** The name of the open element `up` levels above the innermost (0: the innermost), or ''. */
   ancestor(up: number): string {
     return this.stack[this.stack.length - 1 - up] ?? '';
-  }
-
-  /** An error at the current position. */
-  fail(reason: string, line = this.line, column = this.base + this.pos - this.lineStart + 1): ReaderError {
-    return new ReaderError(this.format, this.fileName, { line, column: Math.max(1, column) }, reason);
-  }
-
-  /** An error at buf[at], where the line count is valid at buf[from] (at >= from). */
-  private failIn(buf: Uint8Array, from: number, at: number, reason: string): ReaderError {
-    let line = this.line;
-    let start = this.lineStart;
-    for (let i = from; i < at; i++) {
-      if (buf[i] === NL) {
-        line++;
-        start = this.base + i + 1;
-      }
-    }
-    return this.fail(reason, line, this.base + at - start + 1);
-  }
-
-  /** Advance the line count over buf[from, to). */
-  countLines(buf: Uint8Array, from: number, to: number): void {
-    for (let i = from; i < to; i++) {
-      if (buf[i] === NL) {
-        this.line++;
-        this.lineStart = this.base + i + 1;
-      }
-    }
-  }
-
-  /** For row readers: `count` newlines were consumed, the last at buf[last]. */
-  newlines(count: number, last: number): void {
-    this.line += count;
-    this.lineStart = this.base + last + 1;
   }
 
   /** Use `reader` for the rows directly inside the innermost open element (null: stop). */
@@ -169,114 +103,7 @@ export class XmlByteScanner {
     if (n > 0) this.content[n - 1] = 1;
   }
 
-  /** For row readers: mark the position (for error columns). */
-  at(pos: number): void {
-    this.pos = pos;
-  }
-
-  /** Decode bytes as the document's encoding (ISO-8859-1 as VASP declares it, else UTF-8). */
-  decode(buf: Uint8Array, start: number, end: number): string {
-    if (end - start <= 16) {
-      // Short ASCII (names, attribute values): no decoder call.
-      let s = '';
-      let ascii = true;
-      for (let i = start; i < end; i++) {
-        const c = buf[i]!;
-        if (c >= 0x80) {
-          ascii = false;
-          break;
-        }
-        s += String.fromCharCode(c);
-      }
-      if (ascii) return s;
-    }
-    return this.decoder.decode(buf.subarray(start, end));
-  }
-
-  private name(buf: Uint8Array, start: number, end: number): string {
-    const n = end - start;
-    if (n > 24) return this.decode(buf, start, end);
-    let h = n;
-    for (let i = start; i < end; i++) h = (Math.imul(h, 31) + buf[i]!) | 0;
-    const list = this.names.get(h);
-    if (list) {
-      outer: for (const s of list) {
-        if (s.length !== n) continue;
-        for (let i = 0; i < n; i++) if (s.charCodeAt(i) !== buf[start + i]) continue outer;
-        return s;
-      }
-    }
-    const s = this.decode(buf, start, end);
-    if (list) list.push(s);
-    else this.names.set(h, [s]);
-    return s;
-  }
-
-  write(chunk: Uint8Array, last = false): void {
-    if (this.ended) return;
-    let bytes = chunk;
-    if (this.first) {
-      if (this.carryLength + bytes.length < 3 && !last) {
-        // Too short to tell a byte-order mark: keep it for the next piece.
-        this.stash(bytes);
-        return;
-      }
-      const all = this.carryLength > 0 ? this.joined(bytes) : bytes;
-      this.carryLength = 0;
-      this.first = false;
-      let skip = 0;
-      if (all.length >= 3 && all[0] === 0xef && all[1] === 0xbb && all[2] === 0xbf) {
-        skip = 3;
-        this.sawBom = true;
-      }
-      bytes = all.subarray(skip);
-      this.base = skip;
-      this.lineStart = skip;
-      const head = this.decode(bytes, 0, Math.min(bytes.length, 200));
-      const m = /^<\?xml[^>]*encoding\s*=\s*["']([A-Za-z0-9._-]+)["']/.exec(head);
-      const enc = m ? m[1]!.toLowerCase() : 'utf-8';
-      this.latin1 = enc === 'iso-8859-1' || enc === 'latin1' || enc === 'iso8859-1' || enc === 'us-ascii' || enc === 'ascii';
-      this.decoder = new TextDecoder(this.latin1 ? 'latin1' : 'utf-8', { fatal: false });
-      this.fed += bytes.length;
-      this.scan(bytes, last);
-      return;
-    }
-    this.fed += bytes.length;
-    const buf = this.carryLength > 0 ? this.joined(bytes) : bytes;
-    this.carryLength = 0;
-    this.scan(buf, last);
-  }
-
-  /** The carried bytes followed by `bytes`, in the reused work buffer. */
-  private joined(bytes: Uint8Array): Uint8Array {
-    const need = this.carryLength + bytes.length;
-    if (this.work.length < need) {
-      const w = new Uint8Array(Math.max(need, 2 * this.work.length));
-      w.set(this.work.subarray(0, this.carryLength));
-      this.work = w;
-    }
-    this.work.set(bytes, this.carryLength);
-    return this.work.subarray(0, need);
-  }
-
-  private stash(bytes: Uint8Array): void {
-    if (this.work.length < this.carryLength + bytes.length) {
-      const w = new Uint8Array(Math.max(1024, 2 * (this.carryLength + bytes.length)));
-      w.set(this.work.subarray(0, this.carryLength));
-      this.work = w;
-    }
-    // `bytes` may be a view of `work` (the unconsumed tail): copyWithin handles the overlap.
-    if (bytes.buffer === this.work.buffer)
-      this.work.copyWithin(
-        this.carryLength,
-        bytes.byteOffset - this.work.byteOffset,
-        bytes.byteOffset - this.work.byteOffset + bytes.length,
-      );
-    else this.work.set(bytes, this.carryLength);
-    this.carryLength += bytes.length;
-  }
-
-  private scan(buf: Uint8Array, last: boolean): void {
+  protected scan(buf: Uint8Array, last: boolean): void {
     const end = buf.length;
     let pos = 0;
     while (pos < end) {
@@ -296,33 +123,7 @@ export class XmlByteScanner {
       }
     }
     if (pos < 0) pos = this.pos;
-    // Keep what is left (an incomplete construct) for the next piece.
-    const rest = end - pos;
-    if (rest > 0) {
-      if (last) {
-        this.ended = true;
-        this.pos = pos;
-        return;
-      }
-      if (rest > MAX_CONSTRUCT_BYTES)
-        throw this.fail(
-          `a single XML construct (tag, comment or value) runs over ${MAX_CONSTRUCT_BYTES} bytes; this is not a layout Valleyscope reads`,
-        );
-      const tail = buf.subarray(pos);
-      this.base += pos;
-      this.stashTail(tail);
-    } else this.base += end;
-  }
-
-  private stashTail(tail: Uint8Array): void {
-    if (tail.buffer === this.work.buffer) {
-      const off = tail.byteOffset - this.work.byteOffset;
-      this.work.copyWithin(0, off, off + tail.length);
-      this.carryLength = tail.length;
-    } else {
-      this.carryLength = 0;
-      this.stash(tail);
-    }
+    this.keepRest(buf, pos, last);
   }
 
   /** Character data from `pos` up to the next '<'. Returns the new position, or -1 to wait for more bytes. */
@@ -374,36 +175,14 @@ export class XmlByteScanner {
 
   /** The character an entity reference `&name;` stands for (buf[from, to) is the name). */
   private entity(buf: Uint8Array, from: number, to: number, runStart = from): number {
-    const s = this.decode(buf, from, to);
-    switch (s) {
-      case 'lt':
-        return 60;
-      case 'gt':
-        return 62;
-      case 'amp':
-        return 38;
-      case 'quot':
-        return 34;
-      case 'apos':
-        return 39;
-      default: {
-        const m = /^#(?:x([0-9a-fA-F]{1,6})|([0-9]{1,7}))$/.exec(s);
-        if (m) {
-          const v = m[1] ? parseInt(m[1], 16) : parseInt(m[2]!, 10);
-          if (v > 0 && v <= 0x10ffff) return v;
-        }
-        throw this.failIn(
-          buf,
-          runStart,
-          from - 1,
-          `the XML is malformed: undefined entity "&${s.slice(0, 12)};" (Valleyscope expands no entities beyond the five predefined ones)`,
-        );
-      }
-    }
+    const name = this.decode(buf, from, to);
+    const v = entityCodePoint(name);
+    if (v < 0) throw this.failIn(buf, runStart, from - 1, undefinedEntity(name));
+    return v;
   }
 
-  private collect(buf: Uint8Array, from: number, to: number): void {
-    const n = to - from;
+  /** Room for `n` more bytes of collected text, within MAX_CONSTRUCT_BYTES. */
+  private reserveText(n: number): void {
     if (this.textLen + n > MAX_CONSTRUCT_BYTES)
       throw this.fail(
         `the text of <${this.stack[this.stack.length - 1]}> runs over ${MAX_CONSTRUCT_BYTES} bytes; this is not a layout Valleyscope reads`,
@@ -413,6 +192,11 @@ export class XmlByteScanner {
       t.set(this.textBuf.subarray(0, this.textLen));
       this.textBuf = t;
     }
+  }
+
+  private collect(buf: Uint8Array, from: number, to: number): void {
+    const n = to - from;
+    this.reserveText(n);
     const amp = indexIn(buf, AMP, from, to);
     if (amp < 0) {
       this.textBuf.set(buf.subarray(from, to), this.textLen);
@@ -515,13 +299,7 @@ export class XmlByteScanner {
       }
       if (this.collecting) {
         const n = i - (pos + 9);
-        if (this.textLen + n > MAX_CONSTRUCT_BYTES)
-          throw this.fail(`the text of <${this.stack[depth - 1]}> runs over ${MAX_CONSTRUCT_BYTES} bytes`);
-        if (this.textLen + n > this.textBuf.length) {
-          const t = new Uint8Array(Math.max(this.textLen + n, 2 * this.textBuf.length));
-          t.set(this.textBuf.subarray(0, this.textLen));
-          this.textBuf = t;
-        }
+        this.reserveText(n);
         this.textBuf.set(buf.subarray(pos + 9, i), this.textLen);
         this.textLen += n;
       }
@@ -545,31 +323,7 @@ export class XmlByteScanner {
     let p = from + 1;
     while (p < stop && isNameChar(buf[p]!)) p++;
     const name = this.name(buf, from, p);
-    let attrs: Record<string, string> | null = null;
-    for (;;) {
-      let s = p;
-      while (s < stop && isWs(buf[s]!)) s++;
-      if (s >= stop) break;
-      if (s === p) throw this.fail(`the XML is malformed: no space before an attribute of <${name}>`);
-      if (!isNameStart(buf[s]!)) throw this.fail(`the XML is malformed: an attribute of <${name}> without a name`);
-      let e = s + 1;
-      while (e < stop && isNameChar(buf[e]!)) e++;
-      const aname = this.decode(buf, s, e);
-      while (e < stop && isWs(buf[e]!)) e++;
-      if (buf[e] !== 61 /* = */) throw this.fail(`the XML is malformed: attribute "${aname}" of <${name}> has no value`);
-      e++;
-      while (e < stop && isWs(buf[e]!)) e++;
-      const qc = buf[e];
-      if (qc !== 34 && qc !== 39) throw this.fail(`the XML is malformed: the value of attribute "${aname}" of <${name}> is not quoted`);
-      const close = indexIn(buf, qc, e + 1, stop);
-      if (close < 0) throw this.fail(`the XML is malformed: the value of attribute "${aname}" of <${name}> is not closed`);
-      attrs ??= {};
-      if (Object.hasOwn(attrs, aname)) throw this.fail(`the XML is malformed: attribute "${aname}" appears twice in <${name}>`);
-      // A plain object: an attribute named like an Object.prototype member is kept as an own property;
-      // "__proto__" is not a name any layout uses and is skipped.
-      if (aname !== '__proto__') attrs[aname] = this.attrValue(buf, e + 1, close);
-      p = close + 1;
-    }
+    const attrs = readAttributes(buf, p, stop, name, this);
     const depth = this.stack.length;
     if (depth === 0) {
       if (this.rootClosed) throw this.fail('the XML is malformed: a second root element');
@@ -590,23 +344,6 @@ export class XmlByteScanner {
       this.events.close(name, depth + 1, want ? this.textBuf : null, 0);
       this.pop();
     } else this.collecting = want;
-  }
-
-  private attrValue(buf: Uint8Array, from: number, to: number): string {
-    if (indexIn(buf, AMP, from, to) < 0) return this.decode(buf, from, to);
-    let s = '';
-    for (let i = from; i < to; i++) {
-      const c = buf[i]!;
-      if (c !== AMP) {
-        s += String.fromCharCode(c);
-        continue;
-      }
-      const semi = indexIn(buf, 59, i, to);
-      if (semi < 0 || semi - i > 12) throw this.fail('the XML is malformed: a "&" that starts no entity reference');
-      s += String.fromCodePoint(this.entity(buf, i + 1, semi));
-      i = semi;
-    }
-    return s;
   }
 
   private endTag(buf: Uint8Array, from: number, to: number): void {
@@ -639,27 +376,19 @@ export class XmlByteScanner {
   finish(allowPartial: boolean): { complete: boolean; endLine: number } {
     if (this.first && this.carryLength > 0) this.write(new Uint8Array(0), true);
     if (this.fed === 0) {
-      throw new ReaderError(
-        this.format,
-        this.fileName,
-        { line: 0, column: 0 },
-        this.sawBom ? 'the file holds only a byte-order mark' : 'the file is empty',
-      );
+      throw this.failAtLine(0, this.sawBom ? 'the file holds only a byte-order mark' : 'the file is empty');
     }
     const depth = this.stack.length;
     if (depth > 0 || (this.ended && !this.rootClosed)) {
       if (allowPartial) return { complete: false, endLine: this.line };
       const open = depth > 0 ? this.stack[depth - 1]! : 'a tag';
-      throw new ReaderError(
-        this.format,
-        this.fileName,
-        { line: this.line, column: 0 },
+      throw this.failAtLine(
+        this.line,
         `the file ends inside <${open}> before the XML is complete (it is truncated, or the run is still writing it)`,
       );
     }
     if (this.ended) throw this.fail('the XML is malformed: the file ends inside a tag after the root element');
-    if (!this.sawRoot)
-      throw new ReaderError(this.format, this.fileName, { line: this.line, column: 0 }, 'the XML is malformed: no root element');
+    if (!this.sawRoot) throw this.failAtLine(this.line, 'the XML is malformed: no root element');
     return { complete: true, endLine: this.line };
   }
 }

@@ -6,7 +6,7 @@
  */
 import { mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { vaspEigenvalReader } from '../../../src/core/formats/vasp/vaspRun';
+import { vaspEigenvalReader } from '../../../src/core/formats/vasp/eigenval';
 import type { BandStructure, Vec3 } from '../../../src/core/model';
 import { reciprocalLattice } from '../../../src/core/lattice/reciprocal';
 import { writeBandsx, writeQeXml } from './qe';

@@ -8,7 +8,7 @@
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { readEigenval } from '../../../src/core/formats/vasp/eigenval';
+import { readEigenval } from '../../../src/core/formats/vasp/eigenvalScan';
 import { readCastepBands } from '../../../src/core/formats/castep';
 import { readBandsx } from '../../../src/core/formats/qe/bandsx';
 import { readBandDat } from '../../../src/core/formats/wannier90';

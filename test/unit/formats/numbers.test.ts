@@ -5,7 +5,7 @@
  */
 import assert from 'node:assert/strict';
 import fc from 'fast-check';
-import { POW10, parseDecimal, scanDecimalBytes, scanNumbers } from '../../../src/core/formats/numbers';
+import { DECIMAL, POW10, decimalAt, parseDecimal, scanDecimalBytes, scanNumbers } from '../../../src/core/formats/numbers';
 
 const enc = (s: string): Uint8Array => new TextEncoder().encode(s);
 
@@ -48,6 +48,20 @@ describe('formats/numbers: one number scanner', () => {
       }),
       { numRuns: 300 },
     );
+  });
+
+  it('decimalAt: the fast form gives its end and the correctly rounded value; other forms say so', () => {
+    // Reference: ECMAScript Number() (ECMA-262 StringToNumber, correctly rounded).
+    for (const t of ['-5.757104', '0.1638729E+02', '+7', '.5', '1e-22', '123456789012345']) {
+      const b = enc(`${t} `);
+      assert.equal(decimalAt(b, 0, b.length), t.length, t);
+      assert.ok(Object.is(DECIMAL[0], Number(t)), t);
+    }
+    // Valid, but more than 15 digits or a power of ten beyond ±22: -2 - (the end), for the runtime's parse.
+    for (const t of ['0.1234567890123456', '1e-23', '2.5e300']) assert.equal(decimalAt(enc(t), 0, t.length), -2 - t.length, t);
+    // Not a number of this form: -1 (the caller's strict path words the error).
+    for (const t of ['abc', '-', '.', '1.0e', '1.0e+1234']) assert.equal(decimalAt(enc(t), 0, t.length), -1, t);
+    assert.equal(decimalAt(enc('1.5D-03'), 0, 7), 3); // stops before the D: the caller checks what follows
   });
 
   it('names the first token that is not a finite number, and counts past max', () => {

@@ -11,7 +11,7 @@ import type { FormatReader } from '../../../src/core/formats/types';
 import type { InputFile } from '../../../src/core/io/fileAccessor';
 import { qeXmlReader } from '../../../src/core/formats/qe/qeXml';
 import { bandsxReader } from '../../../src/core/formats/qe/bandsx';
-import { vasprunReader } from '../../../src/core/formats/vasprun';
+import { vasprunReader } from '../../../src/core/formats/vasp/vasprun';
 import { wannier90BandReader } from '../../../src/core/formats/wannier90';
 import { bxsfReader } from '../../../src/core/formats/bxsf';
 import { castepBandsReader } from '../../../src/core/formats/castep';

@@ -8,7 +8,7 @@ import assert from 'node:assert/strict';
 import fc from 'fast-check';
 import { ReaderError } from '../../../src/core/errors';
 import { MAX_CONSTRUCT_BYTES, XmlByteScanner } from '../../../src/core/formats/xmlByteScanner';
-import { VasprunStream, vasprunReader, type VasprunData } from '../../../src/core/formats/vasprun';
+import { VasprunStream, vasprunReader, type VasprunData } from '../../../src/core/formats/vasp/vasprun';
 import { collinearModel, spinPolarisedModel } from '../../support/writers/roundTripModel';
 import { writeVasprun } from '../../support/writers/vasprun';
 

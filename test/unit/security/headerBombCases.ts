@@ -15,7 +15,7 @@ import { castepBandsReader } from '../../../src/core/formats/castep';
 import { bxsfReader } from '../../../src/core/formats/bxsf';
 import { writeBxsf } from '../../support/writers/bxsf';
 import { writeCastepBands } from '../../support/writers/castep';
-import { vaspEigenvalReader } from '../../../src/core/formats/vasp/vaspRun';
+import { vaspEigenvalReader } from '../../../src/core/formats/vasp/eigenval';
 import { readFromBytes } from '../../../src/core/load';
 import { readStructureFile } from '../../../src/core/formats/structureFile';
 import { collinearModel } from '../../support/writers/roundTripModel';

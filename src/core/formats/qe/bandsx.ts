@@ -24,23 +24,19 @@ import { endsOnThisLine } from '../cutAtEnd';
 import { detectQeXml, qeMethod, readQeXml, type QeXmlData } from './qeXml';
 import { det3, norm } from '../../lattice/linalg';
 
+import { pathBandStructure, type PathBandData } from '../pathBands';
+
 export const BANDSX_FORMAT = 'qe-bands';
 
-export interface BandsxData {
-  nBands: number;
-  nk: number;
+export interface BandsxData extends PathBandData {
   announcedK: number;
   /** Cartesian, units of 2π/alat, as written. */
   kCartesian: Float64Array;
-  energies: Float64Array;
-  partial: boolean;
 }
 
 /** Read the numbers of a bands.x file. */
 export function readBandsx(file: InputFile, options: ReadOptions = {}): BandsxData {
-  const sc = new TextScanner(file.bytes, file.path, BANDSX_FORMAT);
-  sc.skipBlankLines();
-  if (sc.atEnd()) throw sc.error('the band file is empty');
+  const sc = TextScanner.atContent(file.bytes, file.path, BANDSX_FORMAT, 'the band file is empty');
   const headerLine = sc.line;
   const header = sc.restOfLine();
   const m = /^\s*&plot\s+nbnd\s*=\s*([^,\s]+)\s*,\s*nks\s*=\s*([^/\s]+)\s*\/\s*$/i.exec(header);
@@ -334,28 +330,9 @@ export const bandsxReader: FormatReader = {
       code: 'rounded-energies',
       message: 'bands.x rounds energies to 1 meV: curvature fits on this file carry that rounding in their errors.',
     });
-    return {
-      source: { format: BANDSX_FORMAT, file: main.path, files },
-      lattice,
-      structure,
-      nk: data.nk,
-      nBands: data.nBands,
-      nSpin: 1,
-      kpoints,
-      weights: null,
-      energies: [data.energies],
-      occupations: null,
-      fermiEnergy,
-      electrons,
-      spinorbit,
-      ...(method ? { method } : {}),
-      ...(xml?.fermiSource ? { fermiSource: xml.fermiSource } : {}),
-      labels: [],
-      sampling: 'path',
-      grid: null,
-      writtenDistance: null,
-      partial: data.partial,
-      warnings,
-    };
+    const source = { format: BANDSX_FORMAT, file: main.path, files };
+    const fermi = xml?.fermiSource ? { fermiSource: xml.fermiSource } : {};
+    const found = { lattice, structure, kpoints, fermiEnergy, electrons, spinorbit, ...(method ? { method } : {}), ...fermi };
+    return pathBandStructure(source, data, { ...found, labels: [], writtenDistance: null, warnings });
   },
 };

@@ -5,8 +5,11 @@
  *      and last point, provided the coordinates agree (within SAME_K_TOLERANCE).
  *   2. Otherwise (or when a coordinate disagrees) each labelled end labels every k-point equal to it.
  */
-import type { KLabel, Mat3, Vec3 } from '../../model';
-import { kpointsCartesianToFractional, type LineModePath } from './kpoints';
+import type { InputWarning, KLabel, Mat3, SourceFile, Vec3 } from '../../model';
+import type { InputFile } from '../../io/fileAccessor';
+import { ReaderError } from '../../errors';
+import { sha256Hex } from '../../hash';
+import { kpointsCartesianToFractional, readKpoints, type KpointsContent, type LineModePath } from './kpoints';
 
 /** Largest difference of a fractional coordinate for two k-points to count as the same (files print 6–8 digits). */
 export const SAME_K_TOLERANCE = 2e-4;
@@ -74,4 +77,40 @@ export function labelsFromLineMode(
 /** Labels by k-point index, in index order. */
 export function labelList(m: ReadonlyMap<number, string>): KLabel[] {
   return [...m.entries()].sort((a, b) => a[0] - b[0]).map(([index, label]) => ({ index, label }));
+}
+
+/**
+ * A KPOINTS beside the eigenvalue file, read for its path: recorded in `files` when `use` accepts what it
+ * holds; a file that cannot be read becomes a warning (labels are then not used), never an error.
+ */
+export function readKpointsCompanion(
+  kfile: InputFile,
+  files: SourceFile[],
+  warnings: InputWarning[],
+  use: (content: KpointsContent) => boolean = () => true,
+): KpointsContent | null {
+  try {
+    const content = readKpoints(kfile);
+    if (!use(content)) return null;
+    files.push({ role: 'kpath', path: kfile.path, sha256: sha256Hex(kfile.bytes) });
+    return content;
+  } catch (e) {
+    if (!(e instanceof ReaderError)) throw e;
+    warnings.push({ code: 'kpath-unreadable', message: `${e.message}; labels were not used`, file: kfile.path, line: e.line });
+    return null;
+  }
+}
+
+/** labelsFromLineMode, its warning added to `warnings` (attributed to the KPOINTS file). */
+export function placeLineModeLabels(
+  path: LineModePath,
+  kpoints: Float64Array,
+  nk: number,
+  latticeOverScale: Mat3 | null,
+  kfile: string,
+  warnings: InputWarning[],
+): KLabel[] {
+  const r = labelsFromLineMode(path, kpoints, nk, latticeOverScale);
+  if (r.warning) warnings.push({ code: 'kpath-mismatch', message: r.warning, file: kfile });
+  return r.labels;
 }

@@ -12,6 +12,7 @@
  */
 import type { ElectronicMethod } from '../../model';
 import { vaspLogical } from './incar';
+import { parseDecimal } from '../numbers';
 
 /** SYSTEM names starting with this (case-insensitive) mark model data (Valleyscope's convention). */
 export const MODEL_SYSTEM_PREFIX = 'model:';
@@ -105,4 +106,27 @@ export function vaspMethod(tags: ReadonlyMap<string, string> | null, where: stri
     name: plusU ? `DFT${plusU}` : null,
     evidence: `${where} sets none of LHFCALC, METAGGA, GGA or a GW ALGO: VASP's default, the semilocal functional of the POTCAR files.`,
   };
+}
+
+/**
+ * What a vasprun.xml's tags say: the values VASP used (<parameters>) over what the user wrote (<incar>).
+ * Spin-orbit or noncollinear (LSORBIT, LNONCOLLINEAR; null when neither is written), NELECT, and the method;
+ * a GW ALGO the user wrote is kept even if the parameter list spells it otherwise.
+ */
+export function vasprunTagFacts(
+  incarTags: ReadonlyMap<string, string>,
+  paramTags: ReadonlyMap<string, string>,
+  fileName: string,
+): { spinorbit: boolean | null; electrons: number | null; method: ElectronicMethod } {
+  const tag = (key: string): string | undefined => paramTags.get(key) ?? incarTags.get(key);
+  const lsorbit = vaspLogical(tag('LSORBIT'));
+  const noncollinear = vaspLogical(tag('LNONCOLLINEAR'));
+  const spinorbit = lsorbit === null && noncollinear === null ? null : Boolean(lsorbit) || Boolean(noncollinear);
+  const nelect = tag('NELECT');
+  const merged = new Map([...incarTags, ...paramTags]);
+  const userAlgo = incarTags.get('ALGO');
+  if (userAlgo !== undefined) merged.set('ALGO', userAlgo);
+  const where = paramTags.size > 0 ? `${fileName} (its parameter list)` : `${fileName} (its <incar> block)`;
+  const method = vaspMethod(merged.size > 0 ? merged : null, merged.size > 0 ? where : fileName, tag('SYSTEM') ?? null);
+  return { spinorbit, electrons: nelect === undefined ? null : parseDecimal(nelect), method };
 }

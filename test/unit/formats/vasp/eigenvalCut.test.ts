@@ -8,7 +8,7 @@
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { readEigenval } from '../../../../src/core/formats/vasp/eigenval';
+import { readEigenval } from '../../../../src/core/formats/vasp/eigenvalScan';
 import { ReaderError } from '../../../../src/core/errors';
 
 const TEXT = readFileSync(join(__dirname, '../../../../fixtures/epm/si/EIGENVAL'), 'utf8');

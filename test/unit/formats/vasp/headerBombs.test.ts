@@ -7,8 +7,8 @@
  */
 import assert from 'node:assert/strict';
 import { ReaderError, ValleyscopeError } from '../../../../src/core/errors';
-import { readEigenval } from '../../../../src/core/formats/vasp/eigenval';
-import { VasprunStream, vasprunReader } from '../../../../src/core/formats/vasprun';
+import { readEigenval } from '../../../../src/core/formats/vasp/eigenvalScan';
+import { VasprunStream, vasprunReader } from '../../../../src/core/formats/vasp/vasprun';
 import type { InputFile } from '../../../../src/core/io/fileAccessor';
 import { collinearModel, spinPolarisedModel } from '../../../support/writers/roundTripModel';
 import { writeEigenval } from '../../../support/writers/vasp';

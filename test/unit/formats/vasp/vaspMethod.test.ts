@@ -7,8 +7,8 @@
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import { vaspEigenvalReader } from '../../../../src/core/formats/vasp/vaspRun';
-import { vasprunReader } from '../../../../src/core/formats/vasprun';
+import { vaspEigenvalReader } from '../../../../src/core/formats/vasp/eigenval';
+import { vasprunReader } from '../../../../src/core/formats/vasp/vasprun';
 import { vaspMethod } from '../../../../src/core/formats/vasp/vaspMethod';
 import { readIncar } from '../../../../src/core/formats/vasp/incar';
 import type { BandStructure } from '../../../../src/core/model';

@@ -2,7 +2,7 @@ import assert from 'node:assert/strict';
 import { mkdtempSync, writeFileSync, mkdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { readEigenval, detectEigenval } from '../../../../src/core/formats/vasp/eigenval';
+import { readEigenval, detectEigenval } from '../../../../src/core/formats/vasp/eigenvalScan';
 import { readPoscar } from '../../../../src/core/formats/vasp/poscar';
 import { readKpoints } from '../../../../src/core/formats/vasp/kpoints';
 import { loadRun } from '../../../../src/core/load';

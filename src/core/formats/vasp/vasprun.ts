@@ -1,0 +1,109 @@
+/**
+ * The vasprun.xml reader: the file read as a byte stream (vasprunStream.ts) in 1 MiB pieces, then turned into
+ * a BandStructure with the KPOINTS beside it for path labels.
+ */
+import type { BandStructure, InputWarning, SourceFile } from '../../model';
+import type { InputFile } from '../../io/fileAccessor';
+import { basename } from '../../io/fileAccessor';
+import type { FormatReader, ReadOptions } from '../types';
+import { createSha256, sha256Hex } from '../../hash';
+import { CancelledError } from '../../errors';
+import { VASPRUN_FORMAT, VasprunStream, type VasprunData } from './vasprunStream';
+import { placeLineModeLabels, readKpointsCompanion } from './kpointLabels';
+import { vaspBandStructure } from './vaspBandStructure';
+
+export { VASPRUN_FORMAT, VasprunStream, type VasprunData };
+
+/**
+ * Read a vasprun.xml in chunks: from `file.bytes`, or through `file.stream` (a ranged source) when given, so
+ * the file is never held whole. Returns what it says and the SHA-256 of its bytes.
+ */
+export function readVasprun(file: InputFile, options: ReadOptions = {}): VasprunData & { sha256: string } {
+  const src = file.stream;
+  const size = src ? src.size : file.bytes.length;
+  const stream = new VasprunStream(file.path, size);
+  // 1 MiB pieces through one reused buffer: nothing but the typed arrays of the result grows with the file.
+  const CHUNK = 1 << 20;
+  const hasher = src ? createSha256() : null;
+  if (size === 0) return { ...stream.finish(false), sha256: '' };
+  const buffer = src?.readInto ? new Uint8Array(Math.min(CHUNK, size)) : null;
+  for (let start = 0; start < size;) {
+    if (options.isCancelled?.()) throw new CancelledError();
+    let chunk: Uint8Array;
+    if (!src) chunk = file.bytes.subarray(start, Math.min(size, start + CHUNK));
+    else if (buffer) chunk = buffer.subarray(0, src.readInto!(start, buffer, 0, Math.min(CHUNK, size - start)));
+    else chunk = src.read(start, Math.min(CHUNK, size - start));
+    if (chunk.length === 0) break;
+    start += chunk.length;
+    hasher?.update(chunk);
+    stream.write(chunk, start >= size);
+    options.onProgress?.(start / size);
+  }
+  const data = stream.finish(options.allowPartial ?? false);
+  return { ...data, sha256: hasher ? hasher.hex() : sha256Hex(file.bytes) };
+}
+
+/** Recognise a vasprun.xml: an XML file whose root is <modeling> with a VASP <generator>. */
+export function detectVasprun(head: Uint8Array, name: string): number {
+  const text = new TextDecoder('latin1').decode(head.subarray(0, 4096));
+  const root = /<modeling>/.test(text);
+  if (!root) return 0;
+  if (/<i name="program" type="string">\s*vasp/i.test(text) || /<generator>/.test(text)) return /vasprun/i.test(name) ? 1 : 0.97;
+  return 0.5;
+}
+
+/** Turn what the file says into a BandStructure, with warnings for what is missing. */
+export function vasprunToBandStructure(
+  data: VasprunData & { sha256: string },
+  main: InputFile,
+  companions: InputFile[],
+  options: ReadOptions,
+): BandStructure {
+  const warnings: InputWarning[] = [];
+  const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: data.sha256 }];
+  const structure = data.structure ?? options.structure ?? null;
+  if (!data.structure)
+    warnings.push({ code: 'no-structure', message: 'The file holds no complete structure: valley degeneracy cannot be determined.' });
+  if (data.spinorbit === null && options.spinorbit === undefined) {
+    warnings.push({
+      code: 'spinorbit-unknown',
+      message: 'The file does not say whether spin-orbit coupling was on (LSORBIT): read as a collinear run.',
+    });
+  }
+  if (data.electrons === null) warnings.push({ code: 'no-electrons', message: 'The file gives no electron count (NELECT).' });
+  if (!data.complete) {
+    warnings.push({
+      code: 'partial',
+      message: `The file ends before the run finished (a running or interrupted job): the eigenvalues are those of the last completed step (${data.steps} written so far); results are provisional.`,
+    });
+  }
+  const source = { format: VASPRUN_FORMAT, file: main.path, files };
+  const spinorbit = options.spinorbit ?? data.spinorbit ?? false;
+  const lattice = structure?.lattice ?? options.lattice ?? null;
+  const found = { lattice, structure, fermiEnergy: data.fermiEnergy, spinorbit, method: data.method, partial: !data.complete, warnings };
+  return vaspBandStructure(source, data, found, ({ kpoints, nk }) => {
+    if (!data.generation) return { labels: [], sampling: 'points' };
+    // Labels: a KPOINTS file in line mode beside the run names the ends VASP lists here; the positions
+    // vasprun.xml lists are fractional, as the path's ends are when given in reciprocal coordinates.
+    const kfile = companions.find((c) => /KPOINTS/i.test(basename(c.path)));
+    const content = kfile && readKpointsCompanion(kfile, files, warnings, (c) => c.mode === 'line' && c.path.coordinates === 'reciprocal');
+    const labels = content?.mode === 'line' ? placeLineModeLabels(content.path, kpoints, nk, null, kfile!.path, warnings) : [];
+    return { labels, sampling: 'path' };
+  });
+}
+
+export const vasprunReader: FormatReader = {
+  id: VASPRUN_FORMAT,
+  label: 'VASP vasprun.xml',
+  streaming: true,
+  detect: detectVasprun,
+  companions(mainName: string, siblings: string[]): string[] {
+    const prefix = /^(.*?)vasprun(.*)\.xml$/i.exec(mainName);
+    const candidates = prefix ? [`${prefix[1]}KPOINTS${prefix[2]}`, 'KPOINTS'] : ['KPOINTS'];
+    const hit = candidates.find((c) => siblings.includes(c));
+    return hit ? [hit] : [];
+  },
+  read(main: InputFile, companions: InputFile[], options: ReadOptions): BandStructure {
+    return vasprunToBandStructure(readVasprun(main, options), main, companions, options);
+  },
+};

@@ -1,0 +1,378 @@
+/**
+ * vasprun.xml as a byte stream: VASP's full record of a run, scanned in pieces (never a DOM), keeping only
+ * what a band structure needs: the final structure, the k-points (and the line-mode generation ends), the
+ * eigenvalues and occupations per spin of the last ionic step, the Fermi energy, NELECT, ISPIN, LSORBIT /
+ * LNONCOLLINEAR (spinor run), and the tags that name the method (vasp/vaspMethod.ts).
+ * Memory held is the eigenvalue arrays, not the file. Layout (as VASP writes it):
+ *
+ *   <modeling>
+ *     <incar> <i name="ISPIN">2</i> <i type="logical" name="LSORBIT"> T </i> ... </incar>
+ *     <kpoints>
+ *       <generation param="listgenerated"> <i name="divisions" type="int">20</i> <v>0 0 0</v> ... </generation>
+ *       <varray name="kpointlist"> <v> kx ky kz </v> ... </varray>
+ *       <varray name="weights"> <v> w </v> ... </varray>
+ *     </kpoints>
+ *     <parameters> ... <i name="NELECT"> 8.0 </i> ... <i type="logical" name="LSORBIT"> F </i> ... </parameters>
+ *     <atominfo> <array name="atoms"> <set> <rc><c>Si</c><c> 1</c></rc> ... </set> </array> </atominfo>
+ *     <structure name="initialpos"> <crystal> <varray name="basis"> <v>..</v>×3 </varray> </crystal>
+ *                                   <varray name="positions"> <v>..</v> </varray> </structure>
+ *     <calculation> ... <eigenvalues> <array> ... <set> <set comment="spin 1"> <set comment="kpoint 1">
+ *         <r> energy occupation </r> ... </set> ... </set> </set> </array> </eigenvalues>
+ *       <dos> <i name="efermi"> 5.9 </i> ... </dos> </calculation>
+ *     <structure name="finalpos"> ... </structure>
+ *   </modeling>
+ *
+ * Eigenvalues inside <projected> (and VASP 6's <eigenvalues_kpoints_opt>) are other blocks: only the
+ * <eigenvalues> directly inside <calculation> are read.
+ */
+import type { ElectronicMethod, OccupationArray, Structure, Vec3 } from '../../model';
+import { basename } from '../../io/fileAccessor';
+import { ReaderError } from '../../errors';
+import { parseDecimal, scanDecimalBytes } from '../numbers';
+import { XmlByteScanner, type RowReader } from '../xmlByteScanner';
+import { vasprunTagFacts } from './vaspMethod';
+import { chosenStructure, type StructureDraft } from './vasprunStructure';
+import { DoubleBuffer } from '../doubleBuffer';
+import { EigenvalueBlock, readVectorRows } from './vasprunEigenvalues';
+
+export const VASPRUN_FORMAT = 'vasprun-xml';
+
+/** What a vasprun.xml says, before it becomes a BandStructure. */
+export interface VasprunData {
+  structure: Structure | null;
+  species: string[];
+  kpoints: Float64Array;
+  weights: Float64Array | null;
+  nk: number;
+  nBands: number;
+  nSpin: 1 | 2;
+  energies: Float64Array[];
+  occupations: OccupationArray[] | null;
+  fermiEnergy: number | null;
+  electrons: number | null;
+  spinorbit: boolean | null;
+  /** How the energies were computed, from the <incar> and <parameters> tags (see vasp/vaspMethod.ts). */
+  method: ElectronicMethod;
+  /** Line-mode generation: points per segment and the segment ends (fractional), when written. */
+  generation: { divisions: number; ends: Vec3[] } | null;
+  /** False when the file ended early (only with allowPartial). */
+  complete: boolean;
+  /** Ionic steps whose eigenvalues were seen; the last complete one is kept. */
+  steps: number;
+}
+
+/**
+ * A vasprun.xml reader fed piece by piece: the benchmark and large-file paths stream a file through it
+ * without holding the file in memory. The bytes are scanned directly (XmlByteScanner); the eigenvalue rows,
+ * by far the bulk of the file, are read straight from the bytes into typed arrays.
+ */
+export class VasprunStream {
+  private readonly xml: XmlByteScanner;
+  private iName: string | null = null;
+  private varrayName: string | null = null;
+  private inIncar = false;
+  private inParameters = false;
+  private inGeneration = false;
+  private inAtomsArray = false;
+  private generation: { divisions: number; ends: Vec3[] } | null = null;
+  private readonly kpointList = new DoubleBuffer(3 * 256);
+  private readonly weightList = new DoubleBuffer(256);
+  private kpointsDone = false;
+  private readonly incarTags = new Map<string, string>();
+  private readonly paramTags = new Map<string, string>();
+  private readonly species: string[] = [];
+  private rcColumn = -1;
+  private structures: StructureDraft[] = [];
+  private draft: StructureDraft | null = null;
+  private eig: EigenvalueBlock | null = null;
+  private eigDepth = 0;
+  private lastEig: EigenvalueBlock | null = null;
+  private steps = 0;
+  private efermi: number | null = null;
+  private stepEfermi: number | null = null;
+  private sawRoot = false;
+  private readonly kpointRowReader: RowReader;
+
+  /** `sizeHint`: the file's size in bytes when known (header counts are checked against it). */
+  constructor(
+    private readonly fileName: string,
+    private readonly sizeHint: number | null = null,
+  ) {
+    this.xml = new XmlByteScanner(fileName, VASPRUN_FORMAT, {
+      open: (name, attrs, depth) => this.open(name, attrs, depth),
+      close: (name, depth, text, length) => this.close(name, depth, text, length),
+    });
+    this.kpointRowReader = (sc, buf, pos, end) => this.fastKpointRows(sc, buf, pos, end);
+  }
+
+  write(bytes: Uint8Array, last = false): void {
+    this.xml.write(bytes, last);
+  }
+
+  private fail(reason: string): ReaderError {
+    return this.xml.fail(reason);
+  }
+
+  private textOf(text: Uint8Array | null, length: number): string {
+    return text === null ? '' : this.xml.decode(text, 0, length);
+  }
+
+  private numbers(text: Uint8Array | null, length: number, what: string, expected: number): number[] {
+    const out: number[] = [];
+    const r = text === null ? { count: 0, bad: null } : scanDecimalBytes(text, 0, length, out, 0, expected);
+    if (r.bad !== null) {
+      if (r.bad.includes('***'))
+        throw this.fail(`${what} is written as "${r.bad}": VASP's number field overflowed, so the value is unknown`);
+      throw this.fail(`${what} should be a number, found "${r.bad}"`);
+    }
+    if (r.count !== expected) throw this.fail(`${what} should hold ${expected} number${expected === 1 ? '' : 's'}, found ${r.count}`);
+    return out;
+  }
+
+  /** The k-point list and its weights (`<v>` rows of 3 and of 1 numbers) straight from the bytes. */
+  private fastKpointRows(sc: XmlByteScanner, buf: Uint8Array, pos: number, end: number): number {
+    const weights = this.varrayName === 'weights';
+    return readVectorRows(sc, buf, pos, end, weights ? this.weightList : this.kpointList, weights ? 1 : 3);
+  }
+
+  private open(name: string, attrs: Record<string, string> | null, depth: number): boolean {
+    const sc = this.xml;
+    if (depth === 1) {
+      if (name !== 'modeling') throw this.fail(`the root element is <${name}>; a vasprun.xml starts with <modeling>`);
+      this.sawRoot = true;
+      return false;
+    }
+    switch (name) {
+      case 'r':
+        if (this.eig !== null && sc.ancestor(1) === 'set') {
+          this.eig.rowsInSet++;
+          return true;
+        }
+        return false;
+      case 'v':
+        if (this.inGeneration) return sc.ancestor(1) === 'generation';
+        if (sc.ancestor(1) !== 'varray') return false;
+        if (depth === 4 && !this.kpointsDone && sc.ancestor(2) === 'kpoints')
+          return this.varrayName === 'kpointlist' || this.varrayName === 'weights';
+        if (this.draft !== null) return this.varrayName === 'basis' || this.varrayName === 'positions';
+        return false;
+      case 'i': {
+        const key = attrs?.name ?? null;
+        this.iName = key;
+        if (key === null) return false;
+        return this.inIncar || this.inParameters || key === 'efermi' || (this.inGeneration && key === 'divisions');
+      }
+      case 'c':
+        return this.inAtomsArray && this.rcColumn === 0;
+      case 'set':
+        if (this.eig !== null) {
+          this.eig.openSet(attrs?.comment ?? '');
+          sc.setRows(this.eig.rowReader);
+        }
+        return false;
+      case 'varray':
+        this.varrayName = attrs?.name ?? null;
+        if (
+          depth === 3 &&
+          !this.kpointsDone &&
+          sc.ancestor(1) === 'kpoints' &&
+          (this.varrayName === 'kpointlist' || this.varrayName === 'weights')
+        ) {
+          sc.setRows(this.kpointRowReader);
+        }
+        return false;
+      case 'incar':
+        if (depth === 2) this.inIncar = true;
+        return false;
+      case 'parameters':
+        if (depth === 2) this.inParameters = true;
+        return false;
+      case 'generation':
+        if (depth === 3 && sc.ancestor(1) === 'kpoints' && /^listgenerated$/i.test(attrs?.param ?? '')) {
+          this.inGeneration = true;
+          this.generation = { divisions: 0, ends: [] };
+        }
+        return false;
+      case 'structure':
+        this.draft = { name: attrs?.name ?? '', basis: [], positions: [] };
+        return false;
+      case 'array':
+        if (sc.ancestor(1) === 'atominfo' && attrs?.name === 'atoms') this.inAtomsArray = true;
+        return false;
+      case 'rc':
+        if (this.inAtomsArray) this.rcColumn = 0;
+        return false;
+      case 'eigenvalues':
+        if (depth === 3 && sc.ancestor(1) === 'calculation') this.startEigenvalues(depth);
+        return false;
+      case 'calculation':
+        this.stepEfermi = null;
+        return false;
+      default:
+        return false;
+    }
+  }
+
+  /** An <eigenvalues> block opens: arrays sized from NBANDS, ISPIN and the k-points, checked against the file. */
+  private startEigenvalues(depth: number): void {
+    const nbText = this.paramTags.get('NBANDS') ?? this.incarTags.get('NBANDS');
+    const ispinText = this.paramTags.get('ISPIN') ?? this.incarTags.get('ISPIN');
+    const header = {
+      nbands: nbText === undefined ? NaN : Number(nbText.trim()),
+      ispin: ispinText === undefined ? 1 : Number(ispinText.trim()),
+      nk: this.kpointList.length / 3,
+      sizeHint: this.sizeHint,
+    };
+    this.eig = new EigenvalueBlock(header, this.xml.line, (reason) => this.fail(reason));
+    this.eigDepth = depth;
+  }
+
+  private close(name: string, depth: number, text: Uint8Array | null, length: number): void {
+    const sc = this.xml;
+    switch (name) {
+      case 'r': {
+        if (this.eig !== null && sc.ancestor(1) === 'set') this.eig.closeRow(text, length);
+        return;
+      }
+      case 'v': {
+        if (text === null) return;
+        if (this.inGeneration) {
+          const v = this.numbers(text, length, 'a line-mode segment end', 3);
+          this.generation?.ends.push([v[0]!, v[1]!, v[2]!]);
+          return;
+        }
+        if (depth === 4 && !this.kpointsDone && sc.ancestor(2) === 'kpoints') {
+          if (this.varrayName === 'kpointlist') {
+            const v = this.numbers(text, length, `k-point ${this.kpointList.length / 3 + 1}`, 3);
+            for (const x of v) this.kpointList.push(x);
+          } else if (this.varrayName === 'weights') {
+            this.weightList.push(this.numbers(text, length, `the weight of k-point ${this.weightList.length + 1}`, 1)[0]!);
+          }
+          return;
+        }
+        const d = this.draft;
+        if (d === null) return;
+        if (this.varrayName === 'basis' && sc.ancestor(2) === 'crystal') {
+          if (d.basis.length >= 3) throw this.fail('a structure lists more than three lattice vectors');
+          const v = this.numbers(text, length, 'a lattice vector', 3);
+          d.basis.push([v[0]!, v[1]!, v[2]!]);
+        } else if (this.varrayName === 'positions' && sc.ancestor(2) === 'structure') {
+          d.positions.push(...this.numbers(text, length, `the position of atom ${d.positions.length / 3 + 1}`, 3));
+        }
+        return;
+      }
+      case 'i': {
+        const key = this.iName;
+        this.iName = null;
+        if (key === null || text === null) return;
+        const value = this.textOf(text, length).trim();
+        if (this.inGeneration && key === 'divisions') {
+          const n = this.numbers(text, length, 'the number of points per line-mode segment', 1)[0]!;
+          if (this.generation) this.generation.divisions = n;
+          return;
+        }
+        if (key === 'efermi') {
+          const v = parseDecimal(value);
+          if (v === null) throw this.fail(`the Fermi energy (efermi) should be a number, found "${value.slice(0, 30)}"`);
+          this.stepEfermi = v;
+          this.efermi = v;
+          return;
+        }
+        // <parameters> holds the values VASP used; it comes after <incar> and wins.
+        if (this.inParameters) this.paramTags.set(key.toUpperCase(), value);
+        else if (this.inIncar) this.incarTags.set(key.toUpperCase(), value);
+        return;
+      }
+      case 'c':
+        if (this.inAtomsArray && this.rcColumn >= 0) {
+          if (this.rcColumn === 0) this.species.push(this.textOf(text, length).trim());
+          this.rcColumn++;
+        }
+        return;
+      case 'rc':
+        this.rcColumn = -1;
+        return;
+      case 'array':
+        this.inAtomsArray = false;
+        return;
+      case 'set': {
+        if (this.eig === null) return;
+        sc.setRows(null);
+        if (sc.ancestor(1) === 'set') this.eig.closeSet();
+        return;
+      }
+      case 'varray':
+        if (depth === 3 && sc.ancestor(1) === 'kpoints') {
+          sc.setRows(null);
+          if (this.varrayName === 'weights') this.kpointsDone = true;
+        }
+        this.varrayName = null;
+        return;
+      case 'generation':
+        this.inGeneration = false;
+        return;
+      case 'incar':
+        if (depth === 2) this.inIncar = false;
+        return;
+      case 'parameters':
+        if (depth === 2) this.inParameters = false;
+        return;
+      case 'structure': {
+        const d = this.draft;
+        this.draft = null;
+        if (d && d.basis.length === 3) this.structures.push(d);
+        return;
+      }
+      case 'eigenvalues':
+        if (this.eig !== null && depth === this.eigDepth) {
+          this.eig.complete = true;
+          this.lastEig = this.eig;
+          this.eig = null;
+          sc.setRows(null);
+          this.steps++;
+        }
+        return;
+      default:
+        return;
+    }
+  }
+
+  /** End of the input: what the file says. */
+  finish(allowPartial: boolean): VasprunData {
+    const outcome = this.xml.finish(allowPartial);
+    if (!this.sawRoot)
+      throw new ReaderError(VASPRUN_FORMAT, this.fileName, { line: 1, column: 1 }, 'no <modeling> root element: this is not a vasprun.xml');
+    const eig = this.lastEig;
+    if (!eig) {
+      const reason = outcome.complete
+        ? 'the file holds no eigenvalues (no <eigenvalues> block inside a <calculation>)'
+        : 'the file ends before the first eigenvalues were written (the run is still in its first step, or the file is truncated)';
+      throw new ReaderError(VASPRUN_FORMAT, this.fileName, { line: outcome.endLine, column: 0 }, reason);
+    }
+    const nk = this.kpointList.length / 3;
+    const fail = (reason: string): ReaderError => new ReaderError(VASPRUN_FORMAT, this.fileName, { line: eig.line, column: 0 }, reason);
+    if (nk === 0) throw fail('the file lists no k-points (<kpoints> with a "kpointlist")');
+    const { nSpin, nBands, energies, occupations } = eig.perSpin(nk, fail);
+    const { spinorbit, electrons, method } = vasprunTagFacts(this.incarTags, this.paramTags, basename(this.fileName));
+    const weights = this.weightList.length === nk ? this.weightList.toArray() : null;
+    const gen = this.generation && this.generation.divisions >= 2 && this.generation.ends.length >= 2 ? this.generation : null;
+    return {
+      structure: chosenStructure(this.structures, this.species),
+      species: this.species.slice(),
+      kpoints: this.kpointList.toArray(),
+      weights,
+      nk,
+      nBands,
+      nSpin,
+      energies,
+      occupations,
+      fermiEnergy: this.stepEfermi ?? this.efermi,
+      electrons,
+      spinorbit,
+      method,
+      generation: gen,
+      complete: outcome.complete,
+      steps: this.steps,
+    };
+  }
+}
