@@ -38,6 +38,17 @@ describe('an EPM silicon mesh run through loadRun and analyze', function () {
     for (let t = 0.75; t <= 0.95; t += 0.0005) cbm = Math.min(cbm, solver.bandsAt([0, t / 2, t / 2], nBands)[4]!);
     trueGap = cbm - solver.bandsAt([0, 0, 0], nBands)[3]!;
   });
+
+  it('is not taken for a path: no path labels inferred, and no warning about path labels', async () => {
+    // Common practice: codes write a band path with equal weights; an irreducible mesh carries multiplicities.
+    const bs = await loadRun(nodeFileAccessor, dir);
+    assert.deepEqual(bs.labels, []);
+    assert.equal(
+      bs.warnings.some((w) => w.code === 'labels-inferred' || w.code === 'labels-not-inferred'),
+      false,
+      JSON.stringify(bs.warnings),
+    );
+  });
   after(() => {
     if (dir) rmSync(dir, { recursive: true, force: true });
   });

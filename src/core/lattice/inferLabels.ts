@@ -7,9 +7,28 @@ import { isValleyscopeError } from '../errors';
 import { recogniseSpecialPoints } from './specialPoints';
 import { ensureSymmetryReady } from './symmetry';
 
+/**
+ * True when the k-points carry unequal weights: the multiplicities of an irreducible mesh, never a path (the
+ * codes write a band path with equal weights, or zero weights in a hybrid run).
+ */
+export function weightedLikeMesh(bs: BandStructure): boolean {
+  const w = bs.weights;
+  if (!w || w.length < 2) return false;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < w.length; i++) {
+    const v = w[i]!;
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
+  return lo > 0 && hi > 1.5 * lo;
+}
+
 /** Returns the band structure with inferred labels and a warning, or unchanged when labels exist or none fit. */
 export async function withInferredLabels(bs: BandStructure): Promise<BandStructure> {
   if (bs.labels.length > 0 || bs.sampling === 'grid' || !(bs.structure?.lattice ?? bs.lattice) || bs.nk === 0) return bs;
+  // An irreducible mesh (unequal weights) is not a path: no path labels to infer, and no warning about them.
+  if (weightedLikeMesh(bs)) return bs;
   // alat alone does not give the lattice (an fcc and a simple-cubic crystal share it): no labels from a frame
   // built from alat only.
   if (!bs.structure && bs.warnings.some((w) => w.code === 'cell-unknown')) {
