@@ -1,6 +1,6 @@
 import assert from 'node:assert/strict';
 import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
-import { makeBands } from '../../support/bandStructure';
+import { makeBands, type BandsSpec } from '../../support/bandStructure';
 
 // Two-band-pair toy spectra: each k has four bands; with 4 electrons and no spin, bands 1-2 are filled
 // (2 electrons per band: physics.md step 2, common practice).
@@ -9,21 +9,21 @@ const ks = [
   [0.25, 0, 0],
   [0.5, 0, 0],
 ];
+/** The same four levels at every k: a flat-band spectrum. */
+const flat = ks.map(() => [-3, -1, 1, 3]);
+
+/** Analyse one spin channel of energies[k][band] on the three k above; 4 electrons unless `extra` says otherwise. */
+function analyze(rows: number[][], extra: Partial<BandsSpec> = {}) {
+  return analyzeBandStructure(makeBands({ kpoints: ks, energies: [rows], electrons: 4, ...extra }));
+}
 
 describe('band edges and gap', () => {
   it('finds a direct gap at the shared k of VBM and CBM', () => {
-    const bs = makeBands({
-      kpoints: ks,
-      energies: [
-        [
-          [-3, -1, 1, 3],
-          [-3.1, -1.2, 1.3, 3],
-          [-3.2, -1.5, 1.6, 3],
-        ],
-      ],
-      electrons: 4,
-    });
-    const r = analyzeBandStructure(bs);
+    const r = analyze([
+      [-3, -1, 1, 3],
+      [-3.1, -1.2, 1.3, 3],
+      [-3.2, -1.5, 1.6, 3],
+    ]);
     assert.equal(r.metal, false);
     assert.ok(r.gap);
     // Hand count: VBM −1 (band 2, k0), CBM 1 (band 3, k0): gap 2 eV, direct.
@@ -36,18 +36,11 @@ describe('band edges and gap', () => {
   });
 
   it('finds an indirect gap and the smallest direct gap elsewhere', () => {
-    const bs = makeBands({
-      kpoints: ks,
-      energies: [
-        [
-          [-3, -1, 2, 3],
-          [-3.1, -1.2, 1.5, 3],
-          [-3.2, -1.5, 0.9, 3],
-        ],
-      ],
-      electrons: 4,
-    });
-    const r = analyzeBandStructure(bs);
+    const r = analyze([
+      [-3, -1, 2, 3],
+      [-3.1, -1.2, 1.5, 3],
+      [-3.2, -1.5, 0.9, 3],
+    ]);
     assert.ok(r.gap);
     // Hand count: VBM −1 at k0, CBM 0.9 at k2: 1.9 eV indirect; direct gaps 3, 2.7, 2.4 → 2.4 at k2.
     assert.ok(Math.abs(r.gap.eV - 1.9) < 1e-12);
@@ -58,55 +51,25 @@ describe('band edges and gap', () => {
   });
 
   it('reports a metal when a filled band rises above an empty one', () => {
-    const bs = makeBands({
-      kpoints: ks,
-      energies: [
-        [
-          [-3, -1, 0.2, 3],
-          [-3.1, 0.5, 1.3, 3],
-          [-3.2, -1.5, 1.6, 3],
-        ],
-      ],
-      electrons: 4,
-    });
-    const r = analyzeBandStructure(bs);
+    const r = analyze([
+      [-3, -1, 0.2, 3],
+      [-3.1, 0.5, 1.3, 3],
+      [-3.2, -1.5, 1.6, 3],
+    ]);
     // Band 2 reaches 0.5 eV at k1, band 3 dips to 0.2 eV at k0: overlap, so no gap (common practice).
     assert.equal(r.metal, true);
     assert.equal(r.gap, null);
   });
 
   it('reports a metal for an odd electron count without spin', () => {
-    const bs = makeBands({
-      kpoints: ks,
-      energies: [
-        [
-          [-3, -1, 1, 3],
-          [-3, -1, 1, 3],
-          [-3, -1, 1, 3],
-        ],
-      ],
-      electrons: 3,
-    });
-    const r = analyzeBandStructure(bs);
+    const r = analyze(flat, { electrons: 3 });
     // 3 electrons, 2 per band: band 2 is half filled (physics.md step 2).
     assert.equal(r.metal, true);
     assert.equal(r.gap, null);
   });
 
   it('with spin-orbit one electron fills one band', () => {
-    const bs = makeBands({
-      kpoints: ks,
-      energies: [
-        [
-          [-3, -1, 1, 3],
-          [-3, -1, 1, 3],
-          [-3, -1, 1, 3],
-        ],
-      ],
-      electrons: 3,
-      spinorbit: true,
-    });
-    const r = analyzeBandStructure(bs);
+    const r = analyze(flat, { electrons: 3, spinorbit: true });
     // 3 electrons, 1 per band with spin-orbit (physics.md step 2): VBM band 3 (1 eV), CBM band 4 (3 eV).
     assert.equal(r.metal, false);
     assert.equal(r.gap?.vbm.band, 3);
@@ -114,25 +77,7 @@ describe('band edges and gap', () => {
   });
 
   it('occupations decide over the electron count', () => {
-    const bs = makeBands({
-      kpoints: ks,
-      energies: [
-        [
-          [-3, -1, 1, 3],
-          [-3, -1, 1, 3],
-          [-3, -1, 1, 3],
-        ],
-      ],
-      occupations: [
-        [
-          [1, 1, 1, 0],
-          [1, 1, 1, 0],
-          [1, 1, 1, 0],
-        ],
-      ],
-      electrons: 4,
-    });
-    const r = analyzeBandStructure(bs);
+    const r = analyze(flat, { occupations: [ks.map(() => [1, 1, 1, 0])] });
     assert.equal(r.gap?.vbm.band, 3);
     assert.ok(r.warnings.some((w) => /Occupations fill 3 bands/.test(w)));
   });
@@ -164,36 +109,14 @@ describe('band edges and gap', () => {
   });
 
   it('without electrons, occupations or Fermi energy the edges are unknown, said plainly', () => {
-    const bs = makeBands({
-      kpoints: ks,
-      energies: [
-        [
-          [-3, -1, 1, 3],
-          [-3, -1, 1, 3],
-          [-3, -1, 1, 3],
-        ],
-      ],
-      electrons: null,
-    });
-    const r = analyzeBandStructure(bs);
+    const r = analyze(flat, { electrons: null });
     assert.equal(r.gap, null);
     assert.equal(r.metal, null);
     assert.ok(r.warnings.some((w) => /cannot be placed/.test(w)));
   });
 
   it('states the semilocal-DFT caution beside a gap', () => {
-    const bs = makeBands({
-      kpoints: ks,
-      energies: [
-        [
-          [-3, -1, 1, 3],
-          [-3, -1, 1, 3],
-          [-3, -1, 1, 3],
-        ],
-      ],
-      electrons: 4,
-    });
-    const r = analyzeBandStructure(bs);
+    const r = analyze(flat);
     assert.ok(r.cautions.some((c) => /underestimates band gaps/.test(c)));
   });
 });

@@ -2,9 +2,10 @@ import assert from 'node:assert/strict';
 import { compareRuns, type RunInput } from '../../../src/core/compare/compareRuns';
 import { formatComparison } from '../../../src/core/compare/formatComparison';
 import { structureDescriptors } from '../../../src/core/compare/structureDescriptors';
-import type { ExtremumReport, GapReport, Mat3, Report, Vec3 } from '../../../src/core/model';
+import type { ExtremumReport, Mat3, Report, Vec3 } from '../../../src/core/model';
 import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { fccLattice } from '../../support/bandStructure';
+import { compareTwo, handExtremum, handReport, type HandMass } from '../../support/unitHandReports';
 
 // Hand-made reports of a silicon-like crystal (numbers invented for the test, not physical claims).
 function ext(
@@ -14,64 +15,14 @@ function ext(
   eV: number,
   offset: number,
   label: string | null,
-  masses: [string, number][],
+  masses: HandMass[],
   nv: number | null = null,
 ): ExtremumReport {
-  return {
-    kind,
-    band,
-    spin: 0,
-    k,
-    eV,
-    label,
-    offset_eV: offset,
-    degenerateBands: 1,
-    valleyDegeneracy: nv,
-    masses: masses.map(([towards, mass]) => ({
-      towards,
-      direction: [1, 0, 0],
-      mass,
-      stderr: 0.001,
-      points: 7,
-      window_meV: 25,
-      method: 'parabola',
-      determined: true,
-    })),
-    tensor: null,
-    dosMass: null,
-    conductivityMass: null,
-    warnings: [],
-  };
+  return handExtremum({ kind, band, k, eV, label, masses, offset_eV: offset, valleyDegeneracy: nv });
 }
 
-function report(extrema: ExtremumReport[]): Report {
-  const vbm = extrema.find((e) => e.kind === 'vbm')!;
-  const cbm = extrema.find((e) => e.kind === 'cbm')!;
-  const gap: GapReport = {
-    eV: cbm.eV - vbm.eV,
-    direct: false,
-    vbm: { band: vbm.band, spin: 0, k: vbm.k, eV: vbm.eV, label: vbm.label },
-    cbm: { band: cbm.band, spin: 0, k: cbm.k, eV: cbm.eV, label: cbm.label },
-    directGap: { eV: 3, k: [0, 0, 0] },
-  };
-  return {
-    file: 'x',
-    format: 'test',
-    nk: 1,
-    nbands: 8,
-    nspin: 1,
-    electrons: 8,
-    metal: false,
-    semimetal: false,
-    fermi_eV: null,
-    classificationReason: '',
-    spinors: false,
-    gap,
-    extrema,
-    warnings: [],
-    cautions: [],
-  };
-}
+/** An indirect-gap report; the direct gap (3 eV at Γ) is not what these tests look at. */
+const report = (extrema: ExtremumReport[]): Report => handReport(extrema, 3);
 
 const G: Vec3 = [0, 0, 0];
 const D: Vec3 = [0.425, 0, 0.425]; // 0.85 of Γ–X in the fcc primitive basis
@@ -94,10 +45,7 @@ describe('comparing runs', () => {
         ['X', 0.92],
       ]),
     ]);
-    const c = compareRuns([
-      { name: 'a', report: A, lattice: null },
-      { name: 'b', report: B, lattice: null },
-    ]);
+    const c = compareTwo(A, B);
     const b = c.runs[1]!;
     // Hand arithmetic: gap 1.0 → 1.2 eV; Γ-ward mass 0.9 → 0.99 is +10 %.
     assert.ok(Math.abs(b.deltaGap_eV! - 0.2) < 1e-12);
@@ -110,10 +58,7 @@ describe('comparing runs', () => {
   it('matches extrema whose band indices moved (more semicore bands in one run)', () => {
     const A = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, D, 1, 0, null, [['X', 0.9]])]);
     const B = report([ext('vbm', 9, G, 0, 0, 'Γ', []), ext('cbm', 10, D, 1, 0, null, [['X', 0.91]])]);
-    const c = compareRuns([
-      { name: 'a', report: A, lattice: null },
-      { name: 'b', report: B, lattice: null },
-    ]);
+    const c = compareTwo(A, B);
     assert.equal(c.columns.length, 2);
     assert.equal(c.runs[1]!.cbmValley, c.runs[0]!.cbmValley);
   });
@@ -208,10 +153,7 @@ describe('comparing degenerate edges', () => {
     };
     const A = report([withBranches(-0.5, -0.2), ext('cbm', 5, D, 1, 0, null, [])]);
     const B = report([withBranches(-0.525, -0.21), ext('cbm', 5, D, 1, 0, null, [])]);
-    const c = compareRuns([
-      { name: 'a', report: A, lattice: null },
-      { name: 'b', report: B, lattice: null },
-    ]);
+    const c = compareTwo(A, B);
     const v = c.columns.find((x) => x.side === 'valence')!;
     const changes = c.runs[1]!.valleys[v.id]!.masses.map((m) => m.relativeChange!);
     // Hand arithmetic: |−0.525| vs |−0.5| and |−0.21| vs |−0.2| are both +5 %: the holes got heavier.

@@ -6,7 +6,7 @@
 import assert from 'node:assert/strict';
 import fc from 'fast-check';
 import { join } from 'node:path';
-import { compareRuns, type RunInput } from '../../../src/core/compare/compareRuns';
+import { compareRuns, type Comparison, type RunInput, type Side } from '../../../src/core/compare/compareRuns';
 import { formatComparison, TABLE_WIDTH } from '../../../src/core/compare/formatComparison';
 import { CSV_COLUMNS } from '../../../src/core/compare/comparisonCsv';
 import { compositionOf, structureDescriptors } from '../../../src/core/compare/structureDescriptors';
@@ -15,75 +15,26 @@ import { loadRun } from '../../../src/core/load';
 import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { labelledLines } from '../../../src/core/lattice/pathPosition';
 import { nodeFileAccessor } from '../../../src/cli/nodeFileAccessor';
-import type { ExtremumReport, GapReport, Mat3, Report, Vec3 } from '../../../src/core/model';
+import type { ExtremumReport, Mat3, Report, Vec3 } from '../../../src/core/model';
+import { compareTwo, handExtremum, handReport, type HandMass } from '../../support/unitHandReports';
 
-// Hand-made reports (numbers chosen for the arithmetic, not physical claims).
-function ext(
-  kind: ExtremumReport['kind'],
-  k: Vec3,
-  eV: number,
-  label: string | null,
-  masses: [string, number, number?][],
-  degenerate = 1,
-): ExtremumReport {
-  return {
-    kind,
-    band: kind === 'vbm' || kind === 'peak' ? 4 : 5,
-    spin: 0,
-    k,
-    eV,
-    label,
-    offset_eV: 0,
-    degenerateBands: degenerate,
-    valleyDegeneracy: 1,
-    masses: masses.map(([towards, mass, branch]) => ({
-      towards,
-      direction: [1, 0, 0],
-      mass,
-      stderr: 0.001,
-      points: 7,
-      window_meV: 25,
-      method: 'parabola',
-      determined: true,
-      ...(branch !== undefined ? { branch } : {}),
-    })),
-    tensor: null,
-    dosMass: null,
-    conductivityMass: null,
-    warnings: [],
-  };
-}
-
-function report(extrema: ExtremumReport[]): Report {
-  const vbm = extrema.find((e) => e.kind === 'vbm')!;
-  const cbm = extrema.find((e) => e.kind === 'cbm')!;
-  const gap: GapReport = {
-    eV: cbm.eV - vbm.eV,
-    direct: true,
-    vbm: { band: vbm.band, spin: 0, k: vbm.k, eV: vbm.eV, label: vbm.label },
-    cbm: { band: cbm.band, spin: 0, k: cbm.k, eV: cbm.eV, label: cbm.label },
-    directGap: { eV: cbm.eV - vbm.eV, k: [0, 0, 0] },
-  };
-  return {
-    file: 'x',
-    format: 'test',
-    nk: 1,
-    nbands: 8,
-    nspin: 1,
-    electrons: 8,
-    metal: false,
-    semimetal: false,
-    fermi_eV: null,
-    classificationReason: 'test report',
-    spinors: false,
-    gap,
-    extrema,
-    warnings: [],
-    cautions: [],
-  };
+// Hand-made reports (numbers chosen for the arithmetic, not physical claims): valence band 4, conduction band 5.
+function ext(kind: ExtremumReport['kind'], k: Vec3, eV: number, label: string | null, masses: HandMass[], degenerate = 1): ExtremumReport {
+  const band = kind === 'vbm' || kind === 'peak' ? 4 : 5;
+  return handExtremum({ kind, band, k, eV, label, masses, degenerateBands: degenerate, valleyDegeneracy: 1 });
 }
 
 const G: Vec3 = [0, 0, 0];
+
+/** A run with VBM (0 eV) and CBM (`cbm_eV`) both at Γ; `vbBands` bands meet at the VBM. */
+function atGamma(vb: HandMass[], cb: HandMass[] = [], vbBands = 1, cbm_eV = 1): Report {
+  return handReport([ext('vbm', G, 0, 'Γ', vb, vbBands), ext('cbm', G, cbm_eV, 'Γ', cb)]);
+}
+
+/** The valley entry of run 'b' on the given side. */
+function valleyOfB(c: Comparison, side: Side) {
+  return c.runs[1]!.valleys[c.columns.find((x) => x.side === side)!.id]!;
+}
 
 describe('honest comparison of masses', () => {
   it('gives the relative difference the sign of |new| − |reference|, for electron and hole masses', () => {
@@ -91,12 +42,9 @@ describe('honest comparison of masses', () => {
     fc.assert(
       fc.property(mass, mass, mass, mass, (h0, h1, e0, e1) => {
         // Holes carry negative curvature masses at the VBM, electrons positive ones at the CBM (design: signed masses).
-        const A = report([ext('vbm', G, 0, 'Γ', [['X', -h0]]), ext('cbm', G, 1, 'Γ', [['X', e0]])]);
-        const B = report([ext('vbm', G, 0, 'Γ', [['X', -h1]]), ext('cbm', G, 1, 'Γ', [['X', e1]])]);
-        const c = compareRuns([
-          { name: 'a', report: A, lattice: null },
-          { name: 'b', report: B, lattice: null },
-        ]);
+        const A = atGamma([['X', -h0]], [['X', e0]]);
+        const B = atGamma([['X', -h1]], [['X', e1]]);
+        const c = compareTwo(A, B);
         const b = c.runs[1]!;
         for (const [side, m0, m1] of [
           ['valence', h0, h1],
@@ -115,43 +63,25 @@ describe('honest comparison of masses', () => {
   });
 
   it('labels every difference with its direction and branch', () => {
-    const A = report([
-      ext(
-        'vbm',
-        G,
-        0,
-        'Γ',
-        [
-          ['X', -0.5, 1],
-          ['X', -0.2, 2],
-          ['L', -0.7, 1],
-          ['L', -0.1, 2],
-        ],
-        2,
-      ),
-      ext('cbm', G, 1, 'Γ', []),
-    ]);
-    const B = report([
-      ext(
-        'vbm',
-        G,
-        0,
-        'Γ',
-        [
-          ['X', -0.6, 1],
-          ['X', -0.2, 2],
-          ['L', -0.7, 1],
-          ['L', -0.15, 2],
-        ],
-        2,
-      ),
-      ext('cbm', G, 1, 'Γ', []),
-    ]);
-    const c = compareRuns([
-      { name: 'a', report: A, lattice: null },
-      { name: 'b', report: B, lattice: null },
-    ]);
-    const v = c.runs[1]!.valleys[c.columns.find((x) => x.side === 'valence')!.id]!;
+    // Each row: direction, branch, hole mass in run a, in run b (two bands meet at the VBM).
+    const rows = [
+      ['X', 1, -0.5, -0.6],
+      ['X', 2, -0.2, -0.2],
+      ['L', 1, -0.7, -0.7],
+      ['L', 2, -0.1, -0.15],
+    ] as const;
+    const A = atGamma(
+      rows.map(([d, branch, ma]) => [d, ma, branch]),
+      [],
+      2,
+    );
+    const B = atGamma(
+      rows.map(([d, branch, , mb]) => [d, mb, branch]),
+      [],
+      2,
+    );
+    const c = compareTwo(A, B);
+    const v = valleyOfB(c, 'valence');
     // Hand arithmetic: X branch 1: 0.6/0.5 − 1 = +20 %; X branch 2: 0; L branch 1: 0; L branch 2: 0.15/0.1 − 1 = +50 %.
     const got = v.masses.map((m) => [m.direction, m.branch, Math.round(m.relativeChange! * 1000) / 10]);
     assert.deepEqual(got, [
@@ -167,40 +97,13 @@ describe('honest comparison of masses', () => {
 
   it('reports a change of degeneracy instead of pairing branches across it', () => {
     // Reference: three bands meet at Γ (heavy, heavy, light); the other run: two (a lowered symmetry).
-    const A = report([
-      ext(
-        'vbm',
-        G,
-        0,
-        'Γ',
-        [
-          ['X', -0.29, 1],
-          ['X', -0.29, 2],
-          ['X', -0.16, 3],
-        ],
-        3,
-      ),
-      ext('cbm', G, 1, 'Γ', [['X', 0.1]]),
-    ]);
-    const B = report([
-      ext(
-        'vbm',
-        G,
-        0,
-        'Γ',
-        [
-          ['X', -0.29, 1],
-          ['X', -0.17, 2],
-        ],
-        2,
-      ),
-      ext('cbm', G, 1, 'Γ', [['X', 0.1]]),
-    ]);
-    const c = compareRuns([
-      { name: 'a', report: A, lattice: null },
-      { name: 'b', report: B, lattice: null },
-    ]);
-    const v = c.runs[1]!.valleys[c.columns.find((x) => x.side === 'valence')!.id]!;
+    const cbMasses: HandMass[] = [['X', 0.1]];
+    // prettier-ignore
+    const A = atGamma([['X', -0.29, 1], ['X', -0.29, 2], ['X', -0.16, 3]], cbMasses, 3);
+    // prettier-ignore
+    const B = atGamma([['X', -0.29, 1], ['X', -0.17, 2]], cbMasses, 2);
+    const c = compareTwo(A, B);
+    const v = valleyOfB(c, 'valence');
     assert.ok(v.degeneracyChanged);
     for (const m of v.masses) {
       assert.equal(m.status, 'degeneracy changed');
@@ -211,7 +114,7 @@ describe('honest comparison of masses', () => {
     assert.match(ev[0]!.message, /degeneracy changed: .* 2 degenerate bands, the reference 3/);
     assert.match(formatComparison(c, 'table'), /degeneracy changed/);
     // The conduction band, not degenerate in either run, is still compared.
-    const cb = c.runs[1]!.valleys[c.columns.find((x) => x.side === 'conduction')!.id]!;
+    const cb = valleyOfB(c, 'conduction');
     assert.equal(cb.masses[0]!.status, 'compared');
   });
 });
@@ -268,24 +171,11 @@ describe('matching valleys between different crystals', () => {
 
 describe('comparison outputs', () => {
   it('writes CSV in long form with exactly the agreed columns', () => {
-    const A = report([
-      ext('vbm', G, 0, 'Γ', [['X', -0.5]]),
-      ext('cbm', G, 1, 'Γ', [
-        ['X', 0.2],
-        ['L', 0.3],
-      ]),
-    ]);
-    const B = report([
-      ext('vbm', G, 0, 'Γ', [['X', -0.75]]),
-      ext('cbm', G, 1.2, 'Γ', [
-        ['X', 0.1],
-        ['L', 0.3],
-      ]),
-    ]);
-    const c = compareRuns([
-      { name: 'a', report: A, lattice: null },
-      { name: 'b', report: B, lattice: null },
-    ]);
+    // prettier-ignore
+    const A = atGamma([['X', -0.5]], [['X', 0.2], ['L', 0.3]], 1, 1);
+    // prettier-ignore
+    const B = atGamma([['X', -0.75]], [['X', 0.1], ['L', 0.3]], 1, 1.2);
+    const c = compareTwo(A, B);
     const lines = formatComparison(c, 'csv').split('\n');
     assert.equal(lines[0], CSV_COLUMNS.join(','));
     assert.equal(
@@ -317,7 +207,7 @@ describe('comparison outputs', () => {
     assert.ok(Math.abs(d.outOfPlaneStrain! + 0.008) < 1e-12);
     // Hydrostatic strain is not biaxial.
     assert.equal(structureDescriptors(cubic.map((r) => r.map((x) => x * 1.01)) as Mat3, cubic).inPlaneStrain, null);
-    const A = report([ext('vbm', G, 0, 'Γ', []), ext('cbm', G, 1, 'Γ', [])]);
+    const A = atGamma([]);
     const c = compareRuns([
       { name: 'bulk', report: A, lattice: cubic },
       { name: 'film', report: A, lattice: film },
@@ -331,23 +221,10 @@ describe('comparison outputs', () => {
   });
 
   it('keeps the text table within 120 columns however long the run names', () => {
-    const A = report([
-      ext(
-        'vbm',
-        G,
-        0,
-        'Γ',
-        [
-          ['X', -0.5, 1],
-          ['X', -0.2, 2],
-        ],
-        2,
-      ),
-      ext('cbm', [0.425, 0, 0.425], 1, null, [
-        ['Γ', 0.9],
-        ['X', 0.92],
-      ]),
-    ]);
+    // prettier-ignore
+    const vbm = ext('vbm', G, 0, 'Γ', [['X', -0.5, 1], ['X', -0.2, 2]], 2);
+    // prettier-ignore
+    const A = handReport([vbm, ext('cbm', [0.425, 0, 0.425], 1, null, [['Γ', 0.9], ['X', 0.92]])]);
     const names = [
       'runs/a-very-long-folder-name/of-a-cluster-project/bulk/EIGENVAL',
       'runs/a-very-long-folder-name/of-a-cluster-project/strained-by-one-per-cent/EIGENVAL',
