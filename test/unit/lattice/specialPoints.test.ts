@@ -16,6 +16,14 @@ import { anyCellChange, diamondConventional, diamondLike, fccPrimitive, redescri
 // not repeated.
 
 type Leg = [string, Vec3];
+/** The legs of a path written as in Setyawan & Curtarolo: 'Γ–X–W|U–X' is Γ→X, X→W, then a break, U→X. */
+function pathOf(notation: string): [string, string][] {
+  return notation.split('|').flatMap((run) => {
+    const names = run.split('–');
+    return names.slice(1).map((b, i): [string, string] => [names[i]!, b]);
+  });
+}
+
 /** Line-mode path: each segment from p to q with n points, ends repeated (as VASP writes line mode). */
 function linePath(legs: [Leg, Leg][], n: number): { kc: Vec3[]; ends: Map<number, string> } {
   const kc: Vec3[] = [];
@@ -38,6 +46,9 @@ function bandsOn(lattice: Mat3, kc: Vec3[], structure: Structure | null): BandSt
   return { ...bs, structure };
 }
 
+/** The labels in order of k index, so two label maps compare whatever order they were built in. */
+const sorted = (m: Map<number, string>): [number, string][] => [...m].sort((x, y) => x[0] - y[0]);
+
 function labelsOf(bs: BandStructure): Map<number, string> {
   return new Map(recogniseLabels(bs).map((l) => [l.index, l.label]));
 }
@@ -56,18 +67,7 @@ const fccPts: Record<string, Vec3> = {
   U: [u / 4, u, u / 4],
 };
 /** The fcc path of Setyawan & Curtarolo 2010: Γ–X–W–K–Γ–L–U–W–L–K|U–X. */
-const FCC_PATH: [string, string][] = [
-  ['Γ', 'X'],
-  ['X', 'W'],
-  ['W', 'K'],
-  ['K', 'Γ'],
-  ['Γ', 'L'],
-  ['L', 'U'],
-  ['U', 'W'],
-  ['W', 'L'],
-  ['L', 'K'],
-  ['U', 'X'],
-];
+const FCC_PATH = pathOf('Γ–X–W–K–Γ–L–U–W–L–K|U–X');
 const legsOf = (path: [string, string][], pts: Record<string, Vec3>, q?: Mat3): [Leg, Leg][] =>
   path.map(([a, b]) => [
     [a, q ? rot(pts[a]!, q) : pts[a]!],
@@ -83,11 +83,7 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     const { kc, ends } = linePath(legsOf(FCC_PATH, fccPts), 9);
     for (const structure of [diamondLike(A, 'Si', 'Si'), null]) {
       const got = labelsOf(bandsOn(fccPrimitive(A), kc, structure));
-      assert.deepEqual(
-        [...got].sort((x, y) => x[0] - y[0]),
-        [...ends].sort((x, y) => x[0] - y[0]),
-        structure ? 'with structure' : 'lattice only',
-      );
+      assert.deepEqual(sorted(got), sorted(ends), structure ? 'with structure' : 'lattice only');
     }
     const r = recogniseSpecialPoints(bandsOn(fccPrimitive(A), kc, null));
     assert.equal(r.kind, 'FCC');
@@ -102,35 +98,17 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
         // The cartesian path rotates with the crystal.
         const { kc, ends } = linePath(legsOf(FCC_PATH, fccPts, q), 5);
         const got = labelsOf(bandsOn(st.lattice, kc, withStructure ? st : null));
-        assert.deepEqual(
-          [...got].sort((x, y) => x[0] - y[0]),
-          [...ends].sort((x, y) => x[0] - y[0]),
-        );
+        assert.deepEqual(sorted(got), sorted(ends));
       }),
       { seed: 2010, numRuns: 20 },
     );
   });
 
   it('labels the fcc points in the conventional cubic cell when the structure shows the fcc lattice', () => {
-    const { kc, ends } = linePath(
-      legsOf(
-        [
-          ['Γ', 'X'],
-          ['X', 'W'],
-          ['W', 'L'],
-          ['L', 'Γ'],
-          ['Γ', 'K'],
-        ],
-        fccPts,
-      ),
-      7,
-    );
+    const { kc, ends } = linePath(legsOf(pathOf('Γ–X–W–L–Γ–K'), fccPts), 7);
     const conv = diamondConventional(A, 'Si');
     const got = labelsOf(bandsOn(conv.lattice, kc, conv));
-    assert.deepEqual(
-      [...got].sort((x, y) => x[0] - y[0]),
-      [...ends].sort((x, y) => x[0] - y[0]),
-    );
+    assert.deepEqual(sorted(got), sorted(ends));
   });
 
   it('labels Γ, M, K, A, L, H on the hexagonal path for 120° and 60° cells and for wurtzite', () => {
@@ -145,17 +123,7 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     const add = (p: Vec3, q: Vec3): Vec3 => [p[0] + q[0], p[1] + q[1], p[2] + q[2]];
     const pts: Record<string, Vec3> = { Γ: [0, 0, 0], M: m, K: k, A: az, L: add(m, az), H: add(k, az) };
     // Setyawan & Curtarolo's hexagonal path: Γ–M–K–Γ–A–L–H–A|L–M|K–H.
-    const path: [string, string][] = [
-      ['Γ', 'M'],
-      ['M', 'K'],
-      ['K', 'Γ'],
-      ['Γ', 'A'],
-      ['A', 'L'],
-      ['L', 'H'],
-      ['H', 'A'],
-      ['L', 'M'],
-      ['K', 'H'],
-    ];
+    const path = pathOf('Γ–M–K–Γ–A–L–H–A|L–M|K–H');
     const { kc, ends } = linePath(legsOf(path, pts), 6);
     const h = (Math.sqrt(3) / 2) * a;
     const cells: Mat3[] = [
@@ -177,11 +145,7 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     ];
     for (const lat of cells) {
       const got = labelsOf(bandsOn(lat, kc, null));
-      assert.deepEqual(
-        [...got].sort((x, y) => x[0] - y[0]),
-        [...ends].sort((x, y) => x[0] - y[0]),
-        JSON.stringify(lat),
-      );
+      assert.deepEqual(sorted(got), sorted(ends), JSON.stringify(lat));
     }
     // Wurtzite in the Setyawan & Curtarolo orientation, then rotated 30° about c: the labels follow the crystal.
     const wz = wurtzite(a, c, 0.382, 'Zn', 'O');
@@ -208,16 +172,19 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     ] as const) {
       const path2 = linePath(legsOf(path, wzPts, qq ?? undefined), 6);
       const got = labelsOf(bandsOn(st.lattice, path2.kc, st));
-      assert.deepEqual(
-        [...got].sort((x, y) => x[0] - y[0]),
-        [...path2.ends].sort((x, y) => x[0] - y[0]),
-      );
+      assert.deepEqual(sorted(got), sorted(path2.ends));
     }
   });
 
   it('labels the simple cubic, bcc, simple tetragonal and simple orthorhombic points', () => {
     const pi = Math.PI;
     const cases: { name: string; lattice: Mat3; pts: Record<string, Vec3>; path: [string, string][]; kind: string }[] = [];
+    /** An orthogonal cell with edges a, b, c along x, y, z, listed c first. */
+    const cFirst = (a: number, b: number, c: number): Mat3 => [
+      [0, 0, c],
+      [a, 0, 0],
+      [0, b, 0],
+    ];
     {
       const a = 4.1;
       // Simple cubic (common practice): X (0,π/a,0), M (π/a,π/a,0), R (π/a,π/a,π/a); path Γ–X–M–Γ–R–X|M–R.
@@ -230,14 +197,7 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
           [0, 0, a],
         ],
         pts: { Γ: [0, 0, 0], X: [0, pi / a, 0], M: [pi / a, pi / a, 0], R: [pi / a, pi / a, pi / a] },
-        path: [
-          ['Γ', 'X'],
-          ['X', 'M'],
-          ['M', 'Γ'],
-          ['Γ', 'R'],
-          ['R', 'X'],
-          ['M', 'R'],
-        ],
+        path: pathOf('Γ–X–M–Γ–R–X|M–R'),
       });
     }
     {
@@ -253,14 +213,7 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
           [a / 2, -a / 2, a / 2],
         ],
         pts: { Γ: [0, 0, 0], H: [0, 0, v], N: [v / 2, v / 2, 0], P: [v / 2, v / 2, v / 2] },
-        path: [
-          ['Γ', 'H'],
-          ['H', 'N'],
-          ['N', 'Γ'],
-          ['Γ', 'P'],
-          ['P', 'H'],
-          ['P', 'N'],
-        ],
+        path: pathOf('Γ–H–N–Γ–P–H|P–N'),
       });
     }
     {
@@ -271,11 +224,7 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
       cases.push({
         name: 'tet',
         kind: 'TET',
-        lattice: [
-          [0, 0, c],
-          [a, 0, 0],
-          [0, a, 0],
-        ],
+        lattice: cFirst(a, a, c),
         pts: {
           Γ: [0, 0, 0],
           X: [0, pi / a, 0],
@@ -284,17 +233,7 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
           R: [0, pi / a, pi / c],
           A: [pi / a, pi / a, pi / c],
         },
-        path: [
-          ['Γ', 'X'],
-          ['X', 'M'],
-          ['M', 'Γ'],
-          ['Γ', 'Z'],
-          ['Z', 'R'],
-          ['R', 'A'],
-          ['A', 'Z'],
-          ['X', 'R'],
-          ['M', 'A'],
-        ],
+        path: pathOf('Γ–X–M–Γ–Z–R–A–Z|X–R|M–A'),
       });
     }
     {
@@ -308,26 +247,9 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
       cases.push({
         name: 'orc',
         kind: 'ORC',
-        lattice: [
-          [0, 0, c],
-          [a, 0, 0],
-          [0, b, 0],
-        ],
+        lattice: cFirst(a, b, c),
         pts: { Γ: [0, 0, 0], X, Y, Z, S: s(X, Y), T: s(Y, Z), U: s(X, Z), R: s(X, Y, Z) },
-        path: [
-          ['Γ', 'X'],
-          ['X', 'S'],
-          ['S', 'Y'],
-          ['Y', 'Γ'],
-          ['Γ', 'Z'],
-          ['Z', 'U'],
-          ['U', 'R'],
-          ['R', 'T'],
-          ['T', 'Z'],
-          ['Y', 'T'],
-          ['U', 'X'],
-          ['S', 'R'],
-        ],
+        path: pathOf('Γ–X–S–Y–Γ–Z–U–R–T–Z|Y–T|U–X|S–R'),
       });
     }
     for (const cs of cases) {
@@ -336,11 +258,7 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
       const r = recogniseSpecialPoints(bs);
       assert.equal(r.kind, cs.kind, cs.name);
       const got = new Map(r.labels.map((l) => [l.index, l.label]));
-      assert.deepEqual(
-        [...got].sort((x, y) => x[0] - y[0]),
-        [...ends].sort((x, y) => x[0] - y[0]),
-        cs.name,
-      );
+      assert.deepEqual(sorted(got), sorted(ends), cs.name);
     }
   });
 
@@ -478,67 +396,39 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     // BCT1, a = 4, c = 3 (c < a). Zone geometry (derived by hand from the Bragg planes, common practice):
     // X = π/a (1,1,0) (half of G = 2π/a (1,1,0)); M = 2π/a (1,0,0); N = π (1/a, 0, 1/c); P = π (1/a, 1/a, 1/c)/…
     // Z: the zone's apex on the c axis, equidistant from Γ and G = 2π (0, 1/a, 1/c): z = π (1/c + c/a²).
-    {
-      const [a, c] = [4, 3];
-      const lat: Mat3 = [
-        [-a / 2, a / 2, c / 2],
-        [a / 2, -a / 2, c / 2],
-        [a / 2, a / 2, -c / 2],
-      ];
-      const pts: Record<string, Vec3> = {
-        Γ: [0, 0, 0],
-        X: [pi / a, pi / a, 0],
-        M: [(2 * pi) / a, 0, 0],
-        N: [pi / a, 0, pi / c],
-        Z: [0, 0, pi * (1 / c + c / (a * a))],
-      };
-      const { kc, ends } = linePath(
-        legsOf(
-          [
-            ['Γ', 'X'],
-            ['X', 'M'],
-            ['M', 'Γ'],
-            ['Γ', 'Z'],
-            ['Z', 'N'],
-          ],
-          pts,
-        ),
-        5,
-      );
-      const r = recogniseSpecialPoints(bandsOn(lat, kc, null));
-      assert.equal(r.kind, 'BCT1');
-      assert.deepEqual(new Map(r.labels.map((l) => [l.index, l.label])), ends);
-    }
     // BCT2, a = 3, c = 5 (c > a): Z = 2π/c (0,0,1) (half of G = (0,0,4π/c)); Σ: the zone's vertex on the a
     // axis, equidistant from Γ and G = 2π (1/a, 0, 1/c): x = π (1/a + a/c²).
-    {
-      const [a, c] = [3, 5];
+    const zones: { kind: string; a: number; c: number; path: string; pts: (a: number, c: number) => Record<string, Vec3> }[] = [
+      {
+        kind: 'BCT1',
+        a: 4,
+        c: 3,
+        path: 'Γ–X–M–Γ–Z–N',
+        pts: (a, c) => ({
+          Γ: [0, 0, 0],
+          X: [pi / a, pi / a, 0],
+          M: [(2 * pi) / a, 0, 0],
+          N: [pi / a, 0, pi / c],
+          Z: [0, 0, pi * (1 / c + c / (a * a))],
+        }),
+      },
+      {
+        kind: 'BCT2',
+        a: 3,
+        c: 5,
+        path: 'Γ–X–Γ–Z–Γ–Σ',
+        pts: (a, c) => ({ Γ: [0, 0, 0], X: [pi / a, pi / a, 0], Z: [0, 0, (2 * pi) / c], Σ: [pi * (1 / a + a / (c * c)), 0, 0] }),
+      },
+    ];
+    for (const { kind, a, c, path, pts } of zones) {
       const lat: Mat3 = [
         [-a / 2, a / 2, c / 2],
         [a / 2, -a / 2, c / 2],
         [a / 2, a / 2, -c / 2],
       ];
-      const pts: Record<string, Vec3> = {
-        Γ: [0, 0, 0],
-        X: [pi / a, pi / a, 0],
-        Z: [0, 0, (2 * pi) / c],
-        Σ: [pi * (1 / a + a / (c * c)), 0, 0],
-      };
-      const { kc, ends } = linePath(
-        legsOf(
-          [
-            ['Γ', 'X'],
-            ['X', 'Γ'],
-            ['Γ', 'Z'],
-            ['Z', 'Γ'],
-            ['Γ', 'Σ'],
-          ],
-          pts,
-        ),
-        5,
-      );
+      const { kc, ends } = linePath(legsOf(pathOf(path), pts(a, c)), 5);
       const r = recogniseSpecialPoints(bandsOn(lat, kc, null));
-      assert.equal(r.kind, 'BCT2');
+      assert.equal(r.kind, kind);
       assert.deepEqual(new Map(r.labels.map((l) => [l.index, l.label])), ends);
     }
   });
@@ -561,18 +451,7 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
       Z: [0, 0, (2 * Math.PI) / az],
       N: [Math.PI / ap, Math.PI / ap, Math.PI / az],
     };
-    const { kc, ends } = linePath(
-      legsOf(
-        [
-          ['Z', 'Γ'],
-          ['Γ', 'X'],
-          ['X', 'Γ'],
-          ['Γ', 'N'],
-        ],
-        pts,
-      ),
-      6,
-    );
+    const { kc, ends } = linePath(legsOf(pathOf('Z–Γ–X–Γ–N'), pts), 6);
     const r = recogniseSpecialPoints(bandsOn(lattice, kc, si));
     assert.equal(r.bravaisClass, 'tI');
     assert.equal(r.kind, 'BCT2');
