@@ -2,6 +2,7 @@ import assert from 'node:assert/strict';
 import type { Mat3 } from '../../../src/core/model';
 import { pathGeometry } from '../../../src/core/lattice/kpath';
 import { fccLattice, line, makeBands } from '../../support/bandStructure';
+import { labelsAt } from '../../support/unitLabels';
 
 // fcc with conventional constant a: in fractional reciprocal coordinates of the primitive cell
 // a1=(0,a/2,a/2), a2=(a/2,0,a/2), a3=(a/2,a/2,0): X = (0.5, 0, 0.5) = 2π/a (0,1,0),
@@ -20,18 +21,7 @@ describe('k-path geometry', () => {
     const n = 11;
     const kpts = [...line(G, X, n), ...line(X, W, n), ...line(K, G, n), ...line(U, X, n), ...line(X, L, n)];
     const e = kpts.map(() => [0]);
-    const labels = [
-      { index: 0, label: 'Γ' },
-      { index: 10, label: 'X' },
-      { index: 11, label: 'X' },
-      { index: 21, label: 'W' },
-      { index: 22, label: 'K' },
-      { index: 32, label: 'Γ' },
-      { index: 33, label: 'U' },
-      { index: 43, label: 'X' },
-      { index: 44, label: 'X' },
-      { index: 54, label: 'L' },
-    ];
+    const labels = labelsAt([0, 10, 11, 21, 22, 32, 33, 43, 44, 54], ['Γ', 'X', 'X', 'W', 'K', 'Γ', 'U', 'X', 'X', 'L']);
     const g = pathGeometry(makeBands({ kpoints: kpts, energies: [e], lattice: fccLattice(a), labels }));
     const u = (2 * Math.PI) / a;
     // Hand-computed: |Γ−X| = 2π/a; |X−W| = π/a; |K−Γ| = 2π/a·(3√2/4); |U−X| = 2π/a·(√2/4); |X−L| = 2π/a·(√3/2).

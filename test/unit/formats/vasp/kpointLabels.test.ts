@@ -10,6 +10,7 @@ import type { Vec3 } from '../../../../src/core/model';
 import type { LineModePath } from '../../../../src/core/formats/vasp/kpoints';
 import { SAME_K_TOLERANCE, labelsFromLineMode, sameK } from '../../../../src/core/formats/vasp/kpointLabels';
 import { dropMeshBeforePath, meshPointsBeforePath } from '../../../../src/core/formats/vasp/hybridMesh';
+import { labelsAt } from '../../../support/unitLabels';
 
 const G: Vec3 = [0, 0, 0];
 const X: Vec3 = [0.5, 0, 0.5];
@@ -49,14 +50,8 @@ describe('VASP k-point labels: one rule for EIGENVAL and vasprun.xml', () => {
   it('labels the ends of each segment by position when the count matches', () => {
     const r = labelsFromLineMode(path, k, 15, null);
     assert.equal(r.warning, null);
-    assert.deepEqual(r.labels, [
-      { index: 0, label: 'Γ' },
-      { index: 4, label: 'X' },
-      { index: 5, label: 'X' },
-      { index: 9, label: 'W' },
-      { index: 10, label: 'W' },
-      { index: 14, label: 'L' },
-    ]);
+    // Segment s of 5 points spans indices 5s … 5s + 4 (both ends written, common practice).
+    assert.deepEqual(r.labels, labelsAt([0, 4, 5, 9, 10, 14], ['Γ', 'X', 'X', 'W', 'W', 'L']));
   });
 
   it('falls back to coordinates, with a warning giving both counts, when the file holds fewer points', () => {
