@@ -10,7 +10,7 @@ import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
 import { FERMI_INSIDE_TOLERANCE_EV } from '../../../src/core/analysis/conductionClass';
 import { reportToJson } from '../../../src/core/report/reportJson';
 import { summaryText } from '../../../src/core/report/summaryText';
-import { makeBands } from '../../support/bandStructure';
+import { makeBands, type BandsSpec } from '../../support/bandStructure';
 import { HBAR2_OVER_ME_EV_A2 } from '../../../src/core/units';
 import {
   FE_A,
@@ -25,6 +25,11 @@ import {
   twoBandSemimetal,
 } from '../../support/metalModels';
 import { spinOrbitModel } from '../../support/writers/roundTripModel';
+
+/** Three separate bands at two k-points: band 1 spans −3.1 … −3 eV, band 2 −1.2 … −1 eV, band 3 2 … 2.5 eV. */
+const threeBandsAtTwoK = (extra: Partial<BandsSpec>) =>
+  // prettier-ignore
+  makeBands({ kpoints: [[0, 0, 0], [0.5, 0, 0]], energies: [[[-3, -1, 2], [-3.1, -1.2, 2.5]]], ...extra });
 
 describe('metal, semimetal or insulator', () => {
   it('the free-electron model has its Fermi sphere inside the zone: band 1 crosses E_F between Γ and X', () => {
@@ -72,19 +77,7 @@ describe('metal, semimetal or insulator', () => {
   });
 
   it('a non-integer electron count (2.9) is a metal whatever the band order', () => {
-    const bs = makeBands({
-      kpoints: [
-        [0, 0, 0],
-        [0.5, 0, 0],
-      ],
-      energies: [
-        [
-          [-3, -1, 2],
-          [-3.1, -1.2, 2.5],
-        ],
-      ],
-      electrons: 2.9,
-    });
+    const bs = threeBandsAtTwoK({ electrons: 2.9 });
     const r = analyzeBandStructure(bs);
     assert.equal(r.metal, true);
     assert.equal(r.gap, null);
@@ -92,20 +85,7 @@ describe('metal, semimetal or insulator', () => {
   });
 
   it('the same odd count with spinors fills whole bands: one electron per band (common practice)', () => {
-    const bs = makeBands({
-      kpoints: [
-        [0, 0, 0],
-        [0.5, 0, 0],
-      ],
-      energies: [
-        [
-          [-3, -1, 2],
-          [-3.1, -1.2, 2.5],
-        ],
-      ],
-      electrons: 1,
-      spinorbit: true,
-    });
+    const bs = threeBandsAtTwoK({ electrons: 1, spinorbit: true });
     const r = analyzeBandStructure(bs);
     assert.equal(r.metal, false);
     assert.equal(r.spinors, true);

@@ -18,18 +18,10 @@ import { writeBandsx, writeQeXml } from '../../support/writers/qe';
 import { writeBxsf } from '../../support/writers/bxsf';
 import { reciprocalLattice } from '../../../src/core/lattice/reciprocal';
 import { cubicLattice } from '../../support/models';
-import { FE_A, freeElectronFermi } from '../../support/metalModels';
+import * as metals from '../../support/metalModels';
 import { HBAR2_OVER_ME_EV_A2 } from '../../../src/core/units';
 import { writeCastepBands } from '../../support/writers/castep';
 import { writeWannier90 } from '../../support/writers/wannier90';
-import {
-  freeElectronMetal,
-  halfMetal,
-  smearedFreeElectronMetal,
-  smearedOccupations,
-  smearedSemiconductor,
-  twoBandSemimetal,
-} from '../../support/metalModels';
 
 const root = mkdtempSync(join(tmpdir(), 'vs-metals-'));
 let n = 0;
@@ -128,7 +120,7 @@ describe('model metals through every layout', () => {
     describe(l.name, () => {
       for (const kind of ['fermi-dirac', 'gaussian', 'methfessel-paxton'] as const) {
         it(`free-electron metal (${kind} occupations where the layout has them): a metal, band 1 crossing`, async () => {
-          const r = await analyzeIn(l, l.write(asWritten(smearedFreeElectronMetal(kind, 0.1), l)));
+          const r = await analyzeIn(l, l.write(asWritten(metals.smearedFreeElectronMetal(kind, 0.1), l)));
           assert.equal(r.metal, true, r.classificationReason);
           assert.equal(r.gap, null);
           assert.equal(r.semimetal, false, r.classificationReason);
@@ -138,8 +130,8 @@ describe('model metals through every layout', () => {
       }
 
       it('two-band semimetal: a semimetal, bands 2 and 3 crossing', async () => {
-        const bs = twoBandSemimetal();
-        if (l.occupations) bs.occupations = smearedOccupations(bs, 'fermi-dirac', 0, 0.01);
+        const bs = metals.twoBandSemimetal();
+        if (l.occupations) bs.occupations = metals.smearedOccupations(bs, 'fermi-dirac', 0, 0.01);
         const r = await analyzeIn(l, l.write(asWritten(bs, l)));
         assert.equal(r.metal, true, r.classificationReason);
         // Without an electron count (Wannier90), whole filling cannot be checked: undetermined, not false.
@@ -149,7 +141,7 @@ describe('model metals through every layout', () => {
 
       if (l.spin2) {
         it('spin-polarised half-metal: spin up metallic, spin down gapped', async () => {
-          const bs = halfMetal();
+          const bs = metals.halfMetal();
           const r = await analyzeIn(l, l.write(asWritten(bs, l)));
           assert.equal(r.metal, true, r.classificationReason);
           assert.deepEqual(
@@ -161,7 +153,7 @@ describe('model metals through every layout', () => {
       }
 
       it('semiconductor with smearing tails stays a semiconductor (gap 1.2 eV, analytic model)', async () => {
-        const bs = smearedSemiconductor(0.2);
+        const bs = metals.smearedSemiconductor(0.2);
         const r = await analyzeIn(l, l.write(asWritten(bs, l)));
         assert.equal(r.metal, false, r.classificationReason);
         assert.ok(r.gap && Math.abs(r.gap.eV - 1.2) < 2e-4, JSON.stringify(r.gap?.eV));
@@ -172,8 +164,8 @@ describe('model metals through every layout', () => {
   it('BXSF grid of the free-electron metal (empty-lattice bands on a 9³ periodic grid, header Fermi energy): a metal', async () => {
     // Empty simple-cubic lattice (Ashcroft & Mermin ch. 9): E_G(k) = ħ²|k + G|²/2m for G = 0 and ±2π/a x̂.
     const n = 9;
-    const rec = reciprocalLattice(cubicLattice(FE_A));
-    const g = (2 * Math.PI) / FE_A;
+    const rec = reciprocalLattice(cubicLattice(metals.FE_A));
+    const g = (2 * Math.PI) / metals.FE_A;
     const bands = [0, 1, -1].map((sh) => {
       const out = new Float64Array(n ** 3);
       let p = 0;
@@ -191,7 +183,7 @@ describe('model metals through every layout', () => {
       row.forEach((e, b) => (bands[b]![p] = e));
     }
     const r = await analyzeRun({
-      'fermi.bxsf': writeBxsf({ fermiEnergy: freeElectronFermi(1, FE_A), dims: [n, n, n], reciprocal: rec, bands }),
+      'fermi.bxsf': writeBxsf({ fermiEnergy: metals.freeElectronFermi(1, metals.FE_A), dims: [n, n, n], reciprocal: rec, bands }),
     });
     assert.equal(r.metal, true, r.classificationReason);
     assert.deepEqual(r.crossingBands, [1]);
@@ -199,7 +191,7 @@ describe('model metals through every layout', () => {
   });
 
   it('pw.x XML: a non-integer electron count (2.9, no occupations or Fermi energy written) is a metal', async () => {
-    const bs = freeElectronMetal(2.9);
+    const bs = metals.freeElectronMetal(2.9);
     bs.fermiEnergy = null;
     const r = await analyzeRun({ 'data-file-schema.xml': writeQeXml(bs) });
     assert.equal(r.electrons, 2.9);
@@ -208,7 +200,7 @@ describe('model metals through every layout', () => {
   });
 
   it('EIGENVAL without occupations: an odd count (3) without spin polarisation is a metal', async () => {
-    const bs = freeElectronMetal(3);
+    const bs = metals.freeElectronMetal(3);
     const r = await analyzeRun({
       EIGENVAL: writeEigenval({
         system: 'model',
@@ -225,7 +217,7 @@ describe('model metals through every layout', () => {
   });
 
   it('CASTEP .bands: the same odd count with a Fermi energy outside every band is still reported, and the disagreement said', async () => {
-    const bs = freeElectronMetal(3);
+    const bs = metals.freeElectronMetal(3);
     bs.fermiEnergy = -1; // below every band: inconsistent with 3 electrons on purpose
     const r = await analyzeRun({ 'model.bands': writeCastepBands(bs) });
     assert.equal(r.metal, false); // the written Fermi energy is the stronger evidence
