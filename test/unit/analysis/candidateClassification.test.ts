@@ -85,16 +85,15 @@ describe('candidate classification: crossings', () => {
 });
 
 describe('candidate classification: saddles', () => {
-  it('E = E0 + (kx² − ky²)ħ²/2m at Γ on the path X–Γ–Y is a saddle, not a valley', () => {
-    const m = 2;
+  const m = 2;
+  /** E = 2 eV + (kx² − ky²)ħ²/2m (analytic saddle at Γ) above a filled parabolic band, on the given legs. */
+  const saddleRun = (legs: PathLeg[][]) => {
     const saddle: Dispersion = (kc) => 2 + (HBAR2_OVER_ME_EV_A2 / (2 * m)) * (kc[0] ** 2 - kc[1] ** 2);
-    const bs = pathModel({
-      lattice: cubicLattice(A),
-      bands: [parabolicBand(-1, -0.5), saddle],
-      electrons: 2,
-      legs: [[X, G, Y]],
-      pointsPerSegment: 41,
-    });
+    return pathModel({ lattice: cubicLattice(A), bands: [parabolicBand(-1, -0.5), saddle], electrons: 2, legs, pointsPerSegment: 41 });
+  };
+
+  it('E = E0 + (kx² − ky²)ħ²/2m at Γ on the path X–Γ–Y is a saddle, not a valley', () => {
+    const bs = saddleRun([[X, G, Y]]);
     const r = analyzeBandStructure(bs, { range_eV: 3 });
     assert.equal(r.extrema.filter((e) => e.kind === 'valley' && near(e.k, [0, 0, 0])).length, 0);
     const at = (r.rejected ?? []).filter((x) => near(x.k, [0, 0, 0]) && x.band === 2);
@@ -104,15 +103,7 @@ describe('candidate classification: saddles', () => {
 
   it('the same band on the path X–Γ–X (no direction where it falls) is a minimum with m* = +2', () => {
     // Control: along x alone the saddle band is an upward parabola of mass m (analytic).
-    const m = 2;
-    const saddle: Dispersion = (kc) => 2 + (HBAR2_OVER_ME_EV_A2 / (2 * m)) * (kc[0] ** 2 - kc[1] ** 2);
-    const bs = pathModel({
-      lattice: cubicLattice(A),
-      bands: [parabolicBand(-1, -0.5), saddle],
-      electrons: 2,
-      legs: [[G, X]],
-      pointsPerSegment: 41,
-    });
+    const bs = saddleRun([[G, X]]);
     const r = analyzeBandStructure(bs, { range_eV: 3 });
     const cbm = r.extrema.find((e) => e.kind === 'cbm')!;
     assert.ok(near(cbm.k, [0, 0, 0]));

@@ -10,7 +10,8 @@ import { pathPosition, type LabelledLine } from '../../../src/core/lattice/pathP
 import { energyZeroOf } from '../../../src/core/report/energyZero';
 import { summaryText } from '../../../src/core/report/summaryText';
 import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
-import { cubicLattice, cosineBand, pathModel } from '../../support/models';
+import { cubicLattice, cosineBand, pathModel, type PathLeg } from '../../support/models';
+import type { BandStructure } from '../../../src/core/model';
 
 function capture(): CliIO & { stdout: string; stderr: string } {
   const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
@@ -18,6 +19,16 @@ function capture(): CliIO & { stdout: string; stderr: string } {
 }
 
 const SI = join('fixtures', 'epm', 'si');
+
+/** Two cosine bands on a 4 Å cubic cell, one filled, along Γ–X with 11 points (no Fermi energy written). */
+function twoCosineBands(): BandStructure {
+  const leg: PathLeg[] = [
+    { label: 'Γ', k: [0, 0, 0] },
+    { label: 'X', k: [0.5, 0, 0] },
+  ];
+  const bands = [cosineBand(0, [-0.5, -0.5, -0.5]), cosineBand(2, [0.5, 0.5, 0.5])];
+  return pathModel({ lattice: cubicLattice(4), bands, electrons: 2, legs: [leg], pointsPerSegment: 11 });
+}
 
 describe('positions on labelled path lines', () => {
   const lines: LabelledLine[] = [
@@ -79,18 +90,7 @@ describe('--energy-zero', () => {
   });
 
   it('falls back to raw energies, saying why, when the Fermi energy is not known', () => {
-    const bs = pathModel({
-      lattice: cubicLattice(4),
-      bands: [cosineBand(0, [-0.5, -0.5, -0.5]), cosineBand(2, [0.5, 0.5, 0.5])],
-      electrons: 2,
-      legs: [
-        [
-          { label: 'Γ', k: [0, 0, 0] },
-          { label: 'X', k: [0.5, 0, 0] },
-        ],
-      ],
-      pointsPerSegment: 11,
-    });
+    const bs = twoCosineBands();
     const z = energyZeroOf(analyzeBandStructure(bs), 'fermi', null);
     assert.deepEqual([z.used, z.eV], ['raw', 0]);
     assert.match(z.reason!, /no Fermi energy/);
@@ -114,18 +114,7 @@ describe('--energy-zero', () => {
 
 describe('spin channels in the text', () => {
   function model(spinPolarised: boolean): ReturnType<typeof pathModel> {
-    const bs = pathModel({
-      lattice: cubicLattice(4),
-      bands: [cosineBand(0, [-0.5, -0.5, -0.5]), cosineBand(2, [0.5, 0.5, 0.5])],
-      electrons: 2,
-      legs: [
-        [
-          { label: 'Γ', k: [0, 0, 0] },
-          { label: 'X', k: [0.5, 0, 0] },
-        ],
-      ],
-      pointsPerSegment: 11,
-    });
+    const bs = twoCosineBands();
     if (spinPolarised) {
       bs.nSpin = 2;
       bs.energies = [bs.energies[0]!, Float64Array.from(bs.energies[0]!, (e) => e + 0.1)];
