@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../src/cli/main';
 import type { CliIO } from '../../../src/cli/io';
+import { eigenvalHeader } from '../../support/unitEigenval';
 
 function capture(): CliIO & { stdout: string; stderr: string } {
   const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
@@ -11,13 +12,7 @@ function capture(): CliIO & { stdout: string; stderr: string } {
 }
 
 // A direct-gap toy run in VASP 5 layout: 2 k-points, 4 bands, 4 electrons (2 filled bands, common practice).
-const EIG = `       1       1       1       1
-  0.1000000E+02  0.2000000E-09  0.2000000E-09  0.2000000E-09  0.5000000E-15
-  1.000000000000000E-004
-  CAR
- toy
-      4      2      4
-
+const EIG = `${eigenvalHeader(4, 2, 4)}
   0.0000000E+00  0.0000000E+00  0.0000000E+00  0.5000000E+00
     1      -4.000000
     2      -1.000000

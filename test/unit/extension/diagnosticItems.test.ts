@@ -4,15 +4,10 @@ import { ReaderError, ValleyscopeError } from '../../../src/core/errors';
 import { readerById } from '../../../src/core/formats/index';
 import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
 import { makeBands } from '../../support/bandStructure';
+import { eigenvalHeader } from '../../support/unitEigenval';
 
 // A VASP 5 EIGENVAL (layout of the code's own files) with an overflowed field, as Fortran writes it.
-const EIG = `       1       1       1       1
-  0.1000000E+02  0.2000000E-09  0.2000000E-09  0.2000000E-09  0.5000000E-15
-  1.000000000000000E-004
-  CAR
- toy
-      4      2      2
-
+const EIG = `${eigenvalHeader(4, 2, 2)}
   0.0000000E+00  0.0000000E+00  0.0000000E+00  0.5000000E+00
     1      -4.000000
     2      *********
