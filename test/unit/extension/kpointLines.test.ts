@@ -2,11 +2,11 @@ import assert from 'node:assert/strict';
 import { kpointAtLine, lineNumbers, locateKpointLines } from '../../../src/extension/kpointLines';
 import { loadSi } from './demoRun';
 import { collinearModel } from '../../support/writers/roundTripModel';
-import { writeVasprun } from '../../support/writers/vasprun';
 import { writeCastepBands } from '../../support/writers/castep';
 import { writeBandsx, writeQeXml } from '../../support/writers/qe';
 import { pathGeometry } from '../../../src/core/lattice/kpath';
 import { readerById } from '../../../src/core/formats/index';
+import { modelVasprun } from '../../support/unitModelVasprun';
 
 describe('extension: k-point lines of a file', () => {
   it('finds the header line of every k-point of an EIGENVAL file, in order', async () => {
@@ -64,17 +64,7 @@ describe('extension: k-point lines of a file', () => {
 
   it('in vasprun.xml and CASTEP .bands written by the test writers, every k-point is found on its own line', () => {
     const model = collinearModel();
-    const vasprun = writeVasprun(model, {
-      generation: {
-        divisions: 21,
-        ends: [
-          [0, 0, 0],
-          [0.5, 0, 0],
-          [0.5, 0, 0],
-          [0.5, 0.5, 0],
-        ],
-      },
-    });
+    const vasprun = modelVasprun(model);
     const cases: [string, string, string, RegExp][] = [
       // vasprun.xml lists the path corners (Γ first) before the k-point list: Γ must come from the list.
       ['vasprun-xml', 'vasprun.xml', vasprun, /^\s*<v>/],

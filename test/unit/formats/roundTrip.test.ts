@@ -27,6 +27,7 @@ import { writeVasprun } from '../../support/writers/vasprun';
 import { writeCastepBands } from '../../support/writers/castep';
 import { writeWannier90 } from '../../support/writers/wannier90';
 import { main } from '../../../src/cli/main';
+import { modelVasprun } from '../../support/unitModelVasprun';
 
 const root = mkdtempSync(join(tmpdir(), 'vs-roundtrip-'));
 let n = 0;
@@ -91,17 +92,7 @@ describe('round trips through every layout (model → file → reader → analys
     {
       name: 'vasprun.xml',
       files: () => ({
-        'vasprun.xml': writeVasprun(model, {
-          generation: {
-            divisions: 21,
-            ends: [
-              [0, 0, 0],
-              [0.5, 0, 0],
-              [0.5, 0, 0],
-              [0.5, 0.5, 0],
-            ],
-          },
-        }),
+        'vasprun.xml': modelVasprun(model),
       }),
       tol: 1.5e-4,
       format: 'vasprun-xml',
