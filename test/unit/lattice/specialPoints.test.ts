@@ -67,7 +67,18 @@ const fccPts: Record<string, Vec3> = {
   U: [u / 4, u, u / 4],
 };
 /** The fcc path of Setyawan & Curtarolo 2010: Γ–X–W–K–Γ–L–U–W–L–K|U–X. */
-const FCC_PATH = pathOf('Γ–X–W–K–Γ–L–U–W–L–K|U–X');
+const FCC_PATH: [string, string][] = [
+  ['Γ', 'X'],
+  ['X', 'W'],
+  ['W', 'K'],
+  ['K', 'Γ'],
+  ['Γ', 'L'],
+  ['L', 'U'],
+  ['U', 'W'],
+  ['W', 'L'],
+  ['L', 'K'],
+  ['U', 'X'],
+];
 const legsOf = (path: [string, string][], pts: Record<string, Vec3>, q?: Mat3): [Leg, Leg][] =>
   path.map(([a, b]) => [
     [a, q ? rot(pts[a]!, q) : pts[a]!],
