@@ -1,10 +1,12 @@
 import assert from 'node:assert/strict';
-import type { Mat3, Vec3 } from '../../../src/core/model';
-import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
+import type { Vec3 } from '../../../src/core/model';
+import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { reciprocalLattice } from '../../../src/core/lattice/reciprocal';
 import { irreducibleMesh } from '../../../src/core/interpolation/regularMesh';
 import { MeshInterpolation, MASS_UNCERTAINTY_LIMIT } from '../../../src/core/interpolation/meshInterpolation';
 import { HBAR2_OVER_ME_EV_A2 } from '../../../src/core/units';
+import { latticeSymmetry } from '../../support/unitSymmetry';
+import { fccLattice } from '../../support/bandStructure';
 
 // Free electrons are not periodic in k; in a crystal they are the empty-lattice band (common practice:
 // Ashcroft & Mermin ch. 9): E(k) = min_G ħ²|k + G|²/2m_e, exactly the free-electron parabola (m = 1) inside
@@ -21,13 +23,8 @@ describe('a free-electron (empty-lattice) band sampled on an fcc mesh', function
   for (const n of [8, 12, 16]) {
     it(`${n}×${n}×${n}: minimum at Γ, isotropic, N_v = 1; m = 1 within ${100 * MASS_UNCERTAINTY_LIMIT} % or flagged`, () => {
       const a = 5.43;
-      const h = a / 2;
-      const lattice: Mat3 = [
-        [0, h, h],
-        [h, 0, h],
-        [h, h, 0],
-      ];
-      const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
+      const lattice = fccLattice(a);
+      const sym = latticeSymmetry(lattice);
       const b = reciprocalLattice(lattice);
       const energy = (k: Vec3): number => {
         let best = Infinity;

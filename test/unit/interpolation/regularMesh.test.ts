@@ -2,6 +2,8 @@ import assert from 'node:assert/strict';
 import type { Mat3 } from '../../../src/core/model';
 import { crystalSymmetry, ensureSymmetryReady, starOfK } from '../../../src/core/lattice/symmetry';
 import { irreducibleMesh, recogniseMesh } from '../../../src/core/interpolation/regularMesh';
+import { latticeSymmetry } from '../../support/unitSymmetry';
+import { cubicLattice } from '../../support/models';
 
 // Regular meshes k = (j + s)/n (Monkhorst & Pack, Phys. Rev. B 13, 5188 (1976); Γ-centred when s = 0) reduced
 // by the crystal's point group and time reversal: each irreducible point stands for the mesh points of its
@@ -38,15 +40,7 @@ describe('regular k-meshes: recognition and expansion by symmetry', () => {
   });
 
   it('a shifted 4×4×4 Monkhorst–Pack mesh of a simple cubic crystal is recognised with shift ½', () => {
-    const sym = crystalSymmetry({
-      lattice: [
-        [3, 0, 0],
-        [0, 3, 0],
-        [0, 0, 3],
-      ],
-      species: ['X'],
-      positions: new Float64Array([0, 0, 0]),
-    });
+    const sym = latticeSymmetry(cubicLattice(3));
     const { kpoints, weights } = irreducibleMesh([4, 4, 4], [0.5, 0.5, 0.5], sym.reciprocalPointGroup);
     // Written with integer multiplicities as a code's irreducible list does: the normalisation is free.
     const rec = recogniseMesh(
@@ -93,7 +87,7 @@ describe('mesh interpolation refuses hostile band data with a reason', () => {
       [0, 3, 0],
       [0, 0, 3],
     ];
-    const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
+    const sym = latticeSymmetry(lattice);
     const { kpoints, weights } = irreducibleMesh([4, 4, 4], [0, 0, 0], sym.reciprocalPointGroup);
     const nk = kpoints.length / 3;
     const bad = new Float64Array(nk).fill(1);

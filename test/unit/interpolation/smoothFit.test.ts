@@ -7,6 +7,7 @@ import { buildStarBasis, starValues } from '../../../src/core/interpolation/star
 import { roughness } from '../../../src/core/interpolation/roughness';
 import { SmoothStarFit, toCartesian } from '../../../src/core/interpolation/smoothFit';
 import { choleskyFactor, choleskySolve } from '../../../src/core/interpolation/cholesky';
+import { latticeSymmetry } from '../../support/unitSymmetry';
 
 // The published conditions of the smoothness-constrained fit (Pickett, Krakauer & Allen, Phys. Rev. B 38, 2721
 // (1988)): (1) the interpolant passes exactly through every data point; (2) it minimises Σ_{m≥1} ρ_m c_m² among
@@ -91,7 +92,7 @@ describe('smoothness-constrained star fit: exactness and minimum roughness', fun
       [0, 3.2, 0],
       [0, 0, 3.5],
     ];
-    const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
+    const sym = latticeSymmetry(lattice);
     const { kpoints } = irreducibleMesh([6, 6, 6], [0, 0, 0], sym.reciprocalPointGroup);
     const n = kpoints.length / 3;
     const fit = new SmoothStarFit(buildStarBasis(lattice, sym.pointGroup, 8 * n), toCartesian(kpoints, reciprocalLattice(lattice)));

@@ -1,10 +1,12 @@
 import assert from 'node:assert/strict';
 import type { Mat3, Vec3 } from '../../../src/core/model';
-import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
+import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { reciprocalLattice } from '../../../src/core/lattice/reciprocal';
 import { irreducibleMesh } from '../../../src/core/interpolation/regularMesh';
 import { MeshInterpolation } from '../../../src/core/interpolation/meshInterpolation';
 import { HBAR2_OVER_ME_EV_A2 } from '../../../src/core/units';
+import { latticeSymmetry } from '../../support/unitSymmetry';
+import { fccLattice } from '../../support/bandStructure';
 
 // Nearest-neighbour tight-binding bands (analytic models, common practice: Ashcroft & Mermin ch. 10):
 // simple cubic E = −2t Σ_i cos(k_i a); fcc E = −t Σ_{12 neighbours R} cos(k·R). Both are sums of the first
@@ -36,7 +38,7 @@ describe('star interpolation of tight-binding bands sampled on a mesh', function
       [0, a, 0],
       [0, 0, a],
     ];
-    const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
+    const sym = latticeSymmetry(lattice);
     const energy = (k: Vec3): number =>
       -2 * t * (Math.cos(2 * Math.PI * k[0]) + Math.cos(2 * Math.PI * k[1]) + Math.cos(2 * Math.PI * k[2]));
     const { kpoints, weights } = irreducibleMesh([16, 16, 16], [0, 0, 0], sym.reciprocalPointGroup);
@@ -78,12 +80,8 @@ describe('star interpolation of tight-binding bands sampled on a mesh', function
     const a = 5.43;
     const h = a / 2;
     const t = 0.3;
-    const lattice: Mat3 = [
-      [0, h, h],
-      [h, 0, h],
-      [h, h, 0],
-    ];
-    const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
+    const lattice = fccLattice(a);
+    const sym = latticeSymmetry(lattice);
     const b = reciprocalLattice(lattice);
     const neighbours: Vec3[] = [];
     for (const s of [
@@ -125,7 +123,7 @@ describe('star interpolation of tight-binding bands sampled on a mesh', function
       [-a / 2, (Math.sqrt(3) / 2) * a, 0],
       [0, 0, c],
     ];
-    const sym = crystalSymmetry({ lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) });
+    const sym = latticeSymmetry(lattice);
     assert.equal(sym.pointGroup.length, 24); // 6/mmm (International Tables)
     const b = reciprocalLattice(lattice);
     const inPlane: Vec3[] = [

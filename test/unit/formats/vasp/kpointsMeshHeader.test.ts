@@ -1,7 +1,9 @@
 import assert from 'node:assert/strict';
 import { automaticDivisions, readKpointsMeshHeader } from '../../../../src/core/formats/vasp/kpointsMesh';
-import { crystalSymmetry, ensureSymmetryReady } from '../../../../src/core/lattice/symmetry';
+import { ensureSymmetryReady } from '../../../../src/core/lattice/symmetry';
 import { irreducibleMesh, recogniseMesh } from '../../../../src/core/interpolation/regularMesh';
+import { latticeSymmetry } from '../../../support/unitSymmetry';
+import { cubicLattice, orthorhombicLattice } from '../../../support/models';
 
 // VASP's automatic KPOINTS layouts (as documented by VASP; common practice): "0" on line 2, the mesh kind on
 // line 3, divisions on line 4, an optional shift on line 5. Monkhorst–Pack meshes (Phys. Rev. B 13, 5188
@@ -40,15 +42,7 @@ describe('KPOINTS automatic mesh headers', () => {
     const header = readKpointsMeshHeader('m\n0\nMonkhorst-Pack\n4 4 4\n');
     assert.equal(header.kind, 'mesh');
     if (header.kind !== 'mesh') return;
-    const sym = crystalSymmetry({
-      lattice: [
-        [3, 0, 0],
-        [0, 3, 0],
-        [0, 0, 3],
-      ],
-      species: ['X'],
-      positions: new Float64Array([0, 0, 0]),
-    });
+    const sym = latticeSymmetry(cubicLattice(3));
     const { kpoints, weights } = irreducibleMesh(header.mesh.divisions, header.mesh.shift, sym.reciprocalPointGroup);
     const rec = recogniseMesh(kpoints, weights, sym.reciprocalPointGroup);
     assert.ok(rec.mesh);
@@ -58,30 +52,9 @@ describe('KPOINTS automatic mesh headers', () => {
 
   it('fully automatic divisions follow n = max(1, ⌊R_k |b| + ½⌋)', () => {
     // Cubic a = 4 Å: |b| = 1/4 Å⁻¹ without 2π, R_k = 20 → n = 5 (the documented rule, worked by hand).
-    assert.deepEqual(
-      automaticDivisions(20, [
-        [4, 0, 0],
-        [0, 4, 0],
-        [0, 0, 4],
-      ]),
-      [5, 5, 5],
-    );
+    assert.deepEqual(automaticDivisions(20, cubicLattice(4)), [5, 5, 5]);
     // Tetragonal c = 10 Å: |b3| = 0.1, R_k = 20 → 2; R_k = 1 → 1 (at least one division).
-    assert.deepEqual(
-      automaticDivisions(20, [
-        [4, 0, 0],
-        [0, 4, 0],
-        [0, 0, 10],
-      ]),
-      [5, 5, 2],
-    );
-    assert.deepEqual(
-      automaticDivisions(1, [
-        [4, 0, 0],
-        [0, 4, 0],
-        [0, 0, 10],
-      ]),
-      [1, 1, 1],
-    );
+    assert.deepEqual(automaticDivisions(20, orthorhombicLattice(4, 4, 10)), [5, 5, 2]);
+    assert.deepEqual(automaticDivisions(1, orthorhombicLattice(4, 4, 10)), [1, 1, 1]);
   });
 });
