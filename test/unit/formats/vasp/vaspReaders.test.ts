@@ -304,52 +304,33 @@ describe('a VASP run folder', () => {
   });
 });
 
-describe('EIGENVAL streamed in windows', () => {
-  it('gives the same data and hash as the whole-file read, across window boundaries', async () => {
-    const { STREAM_CHUNK_BYTES } = await import('../../../../src/core/formats/textScanner');
-    const { sha256Hex } = await import('../../../../src/core/hash');
-    // Enough k-points that the file spans several 16 MiB windows would be slow here; instead use a source
-    // that returns at most 1000 bytes per read, so every window boundary falls somewhere inside a line.
-    const kpts = Array.from({ length: 60 }, (_, i) => [i / 120, 0, i / 120]);
-    const text = eigenval({ kpts, bands: bands6, occ: true });
-    const bytes = enc(text);
-    const stream = {
-      size: bytes.length,
-      read: (off: number, len: number) => bytes.slice(off, Math.min(bytes.length, off + Math.min(len, 1000))),
-      close: () => undefined,
-    };
-    void STREAM_CHUNK_BYTES;
-    const whole = readEigenval(f('EIGENVAL', text));
-    const streamed = readEigenval({ path: 'EIGENVAL', bytes: new Uint8Array(0), stream });
-    assert.deepEqual(Array.from(streamed.energies[0]!), Array.from(whole.energies[0]!));
-    assert.deepEqual(Array.from(streamed.kpoints), Array.from(whole.kpoints));
-    // Reference: the one-shot SHA-256 of the bytes (FIPS 180-4 implementation checked above).
-    assert.equal(streamed.sha256, sha256Hex(bytes));
-  });
-});
-
-describe('EIGENVAL streamed into one reused buffer', () => {
-  it('gives the same data and hash as the whole-file read', async () => {
-    const { sha256Hex } = await import('../../../../src/core/hash');
-    const kpts = Array.from({ length: 60 }, (_, i) => [i / 120, 0, i / 120]);
-    const text = eigenval({ kpts, bands: bands6, occ: true });
-    const bytes = enc(text);
-    // A source that fills the caller's buffer 700 bytes at a time, so boundaries fall inside lines.
-    const stream = {
-      size: bytes.length,
-      read: (off: number, len: number) => bytes.slice(off, Math.min(bytes.length, off + Math.min(len, 700))),
-      readInto: (off: number, target: Uint8Array, at: number, len: number) => {
-        const n = Math.max(0, Math.min(len, 700, bytes.length - off, target.length - at));
+describe('EIGENVAL streamed', () => {
+  // Reading whole 16 MiB windows' worth of k-points would be slow here; instead the sources below hand out a
+  // few hundred bytes per call, so every window boundary falls somewhere inside a line.
+  const kpts = Array.from({ length: 60 }, (_, i) => [i / 120, 0, i / 120]);
+  const text = eigenval({ kpts, bands: bands6, occ: true });
+  const bytes = enc(text);
+  const cases = [
+    { how: 'in windows (a source returning at most 1000 bytes per read)', chunk: 1000, into: false },
+    { how: "into one reused buffer (a source filling the caller's buffer 700 bytes at a time)", chunk: 700, into: true },
+  ];
+  for (const { how, chunk, into } of cases) {
+    it(`gives the same data and hash as the whole-file read, ${how}`, async () => {
+      const { sha256Hex } = await import('../../../../src/core/hash');
+      const read = (off: number, len: number) => bytes.slice(off, Math.min(bytes.length, off + Math.min(len, chunk)));
+      const readInto = (off: number, target: Uint8Array, at: number, len: number) => {
+        const n = Math.max(0, Math.min(len, chunk, bytes.length - off, target.length - at));
         target.set(bytes.subarray(off, off + n), at);
         return n;
-      },
-      close: () => undefined,
-    };
-    const whole = readEigenval(f('EIGENVAL', text));
-    const streamed = readEigenval({ path: 'EIGENVAL', bytes: new Uint8Array(0), stream });
-    assert.deepEqual(Array.from(streamed.energies[0]!), Array.from(whole.energies[0]!));
-    assert.deepEqual(Array.from(streamed.occupations![0]!), Array.from(whole.occupations![0]!));
-    // Reference: the one-shot SHA-256 of the bytes (FIPS 180-4 implementation checked in hash.test.ts).
-    assert.equal(streamed.sha256, sha256Hex(bytes));
-  });
+      };
+      const stream = { size: bytes.length, read, ...(into ? { readInto } : {}), close: () => undefined };
+      const whole = readEigenval(f('EIGENVAL', text));
+      const streamed = readEigenval({ path: 'EIGENVAL', bytes: new Uint8Array(0), stream });
+      assert.deepEqual(Array.from(streamed.energies[0]!), Array.from(whole.energies[0]!));
+      assert.deepEqual(Array.from(streamed.occupations![0]!), Array.from(whole.occupations![0]!));
+      assert.deepEqual(Array.from(streamed.kpoints), Array.from(whole.kpoints));
+      // Reference: the one-shot SHA-256 of the bytes (FIPS 180-4 implementation checked in hash.test.ts).
+      assert.equal(streamed.sha256, sha256Hex(bytes));
+    });
+  }
 });
