@@ -3,7 +3,6 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../src/cli/main';
-import type { CliIO } from '../../../src/cli/io';
 import type { Mat3, Vec3 } from '../../../src/core/model';
 import { symmetricEigen3 } from '../../../src/core/analysis/symmetricEigen';
 import { reciprocalLattice } from '../../../src/core/lattice/reciprocal';
@@ -12,6 +11,7 @@ import { EpmBandSolver } from '../../../scripts/epm/bandSolver';
 import { unstrainedCrystal } from '../../../scripts/epm/crystal';
 import { GALLIUM_ARSENIDE, GERMANIUM, SILICON, type EpmMaterial } from '../../../scripts/epm/materials';
 import { insulatorOccupations, writeEigenval } from '../../support/writers/vasp';
+import { capture } from '../../support/unitCliCapture';
 
 // Round trips on the empirical pseudopotential model (Cohen & Bergstresser, Phys. Rev. 141, 789 (1966);
 // scripts/epm): plan a tensor run on the committed path fixture, solve the same model at the planned points,
@@ -19,11 +19,6 @@ import { insulatorOccupations, writeEigenval } from '../../support/writers/vasp'
 
 const ROOT = join(__dirname, '..', '..', '..', 'fixtures', 'epm');
 const NB = 8;
-
-function capture(): CliIO & { stdout: string; stderr: string } {
-  const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
-  return io;
-}
 
 function pointsOf(kpoints: string): { k: Vec3; w: number }[] {
   const lines = kpoints.trim().split('\n');

@@ -3,13 +3,8 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../src/cli/main';
-import type { CliIO } from '../../../src/cli/io';
 import { eigenvalHeader } from '../../support/unitEigenval';
-
-function capture(): CliIO & { stdout: string; stderr: string } {
-  const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
-  return io;
-}
+import { capture } from '../../support/unitCliCapture';
 
 // A direct-gap toy run in VASP 5 layout: 2 k-points, 4 bands, 4 electrons (2 filled bands, common practice).
 const EIG = `${eigenvalHeader(4, 2, 4)}

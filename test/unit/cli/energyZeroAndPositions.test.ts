@@ -5,18 +5,13 @@
 import assert from 'node:assert/strict';
 import { join } from 'node:path';
 import { main } from '../../../src/cli/main';
-import type { CliIO } from '../../../src/cli/io';
 import { pathPosition, type LabelledLine } from '../../../src/core/lattice/pathPosition';
 import { energyZeroOf } from '../../../src/core/report/energyZero';
 import { summaryText } from '../../../src/core/report/summaryText';
 import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
 import { cubicLattice, cosineBand, pathModel, type PathLeg } from '../../support/models';
 import type { BandStructure } from '../../../src/core/model';
-
-function capture(): CliIO & { stdout: string; stderr: string } {
-  const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
-  return io;
-}
+import { capture } from '../../support/unitCliCapture';
 
 const SI = join('fixtures', 'epm', 'si');
 

@@ -8,7 +8,6 @@ import { mkdtempSync, mkdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../src/cli/main';
-import type { CliIO } from '../../../src/cli/io';
 import { loadRun } from '../../../src/core/load';
 import { nodeFileAccessor } from '../../../src/cli/nodeFileAccessor';
 import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
@@ -16,11 +15,7 @@ import { BOHR_ANGSTROM } from '../../../src/core/units';
 import { collinearModel, spinOrbitModel } from '../../support/writers/roundTripModel';
 import { writeBandsx, writeQeXml } from '../../support/writers/qe';
 import { fccLattice, pathModel, parabolicBand } from '../../support/models';
-
-function capture(): CliIO & { stdout: string; stderr: string } {
-  const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
-  return io;
-}
+import { capture } from '../../support/unitCliCapture';
 
 const root = mkdtempSync(join(tmpdir(), 'vs-folder-'));
 let n = 0;

@@ -3,18 +3,13 @@ import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../src/cli/main';
-import type { CliIO } from '../../../src/cli/io';
 import type { Vec3 } from '../../../src/core/model';
 import { EpmBandSolver } from '../../../scripts/epm/bandSolver';
 import { unstrainedCrystal } from '../../../scripts/epm/crystal';
 import { SILICON } from '../../../scripts/epm/materials';
 import { fccLattice } from '../../support/models';
 import { cartesianDisplacement } from '../../../src/core/lattice/tensorKpoints';
-
-function capture(): CliIO & { stdout: string; stderr: string } {
-  const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
-  return io;
-}
+import { capture } from '../../support/unitCliCapture';
 
 const SI = join(__dirname, '..', '..', '..', 'fixtures', 'epm', 'si');
 

@@ -10,7 +10,6 @@ import { appendFileSync, cpSync, mkdtempSync, readFileSync, rmSync } from 'node:
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../src/cli/main';
-import type { CliIO } from '../../../src/cli/io';
 import { nodeFileAccessor } from '../../../src/cli/nodeFileAccessor';
 import { loadRun } from '../../../src/core/load';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
@@ -21,14 +20,10 @@ import { loadAnnotationsRun } from '../../../src/core/compare/loadAnnotationsRun
 import { compareRuns, type RunInput } from '../../../src/core/compare/compareRuns';
 import type { AnnotationsDoc } from '../../../src/core/annotations/annotationsModel';
 import type { Report } from '../../../src/core/model';
+import { capture } from '../../support/unitCliCapture';
 
 const SERIES = join('fixtures', 'demo', 'si-strain');
 const RUNS = ['01_biaxial-1.00pct', '03_biaxial+0.00pct', '05_biaxial+1.00pct'];
-
-function capture(): CliIO & { stdout: string; stderr: string } {
-  const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
-  return io;
-}
 
 /** The file layout keeps energies to 4 decimals (eV) and masses to 4 significant digits (serializeAnnotations.ts). */
 const E_TOL = 0.5e-4 + 1e-12;

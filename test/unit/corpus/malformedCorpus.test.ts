@@ -12,6 +12,7 @@ import { tmpdir } from 'node:os';
 import { join, basename } from 'node:path';
 import { main } from '../../../src/cli/main';
 import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
+import { capture } from '../../support/unitCliCapture';
 
 interface Sample {
   format: string;
@@ -126,7 +127,7 @@ interface Outcome {
 }
 
 async function run(file: string): Promise<Outcome> {
-  const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
+  const io = capture();
   const code = await main(['analyze', file, '--json'], io);
   return { code, stdout: io.stdout, stderr: io.stderr };
 }

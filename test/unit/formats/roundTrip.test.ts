@@ -28,6 +28,7 @@ import { writeCastepBands } from '../../support/writers/castep';
 import { writeWannier90 } from '../../support/writers/wannier90';
 import { main } from '../../../src/cli/main';
 import { modelVasprun } from '../../support/unitModelVasprun';
+import { capture } from '../../support/unitCliCapture';
 
 const root = mkdtempSync(join(tmpdir(), 'vs-roundtrip-'));
 let n = 0;
@@ -170,7 +171,7 @@ describe('round trips through every layout (model → file → reader → analys
     const dir = runFolder({ 'bands.out': writeBandsx(model, alat) });
     const poscar = join(root, 'model.POSCAR');
     writeFileSync(poscar, 'model\n1.0\n4 0 0\n0 5 0\n0 0 6\nXx\n1\nDirect\n0 0 0\n');
-    const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
+    const io = capture();
     // No electron count in bands.x output: the gap needs the XML; here the CLI must still run and say so.
     const code = await main(['analyze', join(dir, 'bands.out'), '--alat', '4A', '--structure', poscar, '--json'], io);
     assert.equal(code, 0, io.stderr);

@@ -9,6 +9,7 @@ import { main } from '../../../src/cli/main';
 import type { CliIO } from '../../../src/cli/io';
 import { writeEigenval, writeLineModeKpoints, writePoscar } from '../../support/writers/vasp';
 import { fccPrimitive } from './crystals';
+import { capture } from '../../support/unitCliCapture';
 
 // fcc special points in the primitive reciprocal basis (Setyawan & Curtarolo, Comput. Mater. Sci. 49, 299
 // (2010), FCC table); the path is theirs, cut after L.
@@ -116,7 +117,7 @@ describe('labels inferred when a run has no path file', () => {
   });
 
   it('reports the inferred labels at the band edges in the CLI JSON', async () => {
-    const io = { stdout: '', stderr: '', out: (t: string) => (io.stdout += `${t}\n`), err: (t: string) => (io.stderr += `${t}\n`) };
+    const io = capture();
     const cli: CliIO = io;
     const code = await main(['analyze', runFolder({ kpoints: false }), '--json'], cli);
     assert.equal(code, 0, io.stderr);
