@@ -13,6 +13,7 @@ import { spawnSync } from 'node:child_process';
 import { loadavg, cpus } from 'node:os';
 import { chromium } from 'playwright-core';
 import { FOLDED_CHAIN_SOURCE } from '../test/webview/support/foldedChain.mjs';
+import { BROWSER_ARGS, BROWSER_PATH } from './browserCheck.mjs';
 
 const arg = (name, dflt) => {
   const i = process.argv.indexOf(`--${name}`);
@@ -32,7 +33,7 @@ const height = arg('height', 900);
 const FRAME_MS = 1000 / 60;
 /** A count in millions, readable for small and large runs. */
 const millions = (x) => String(Number((x / 1e6).toPrecision(3)));
-const CHROMIUM = '/usr/bin/chromium';
+const CHROMIUM = BROWSER_PATH;
 const BUNDLE = 'dist/webview/bandView.js';
 
 if (!existsSync(CHROMIUM)) {
@@ -73,15 +74,7 @@ await new Promise((r) => server.listen(0, '127.0.0.1', r));
 const port = server.address().port;
 const browser = await chromium.launch({
   executablePath: CHROMIUM,
-  args: [
-    '--no-sandbox',
-    '--disable-gpu',
-    '--disable-quic',
-    '--no-first-run',
-    '--disable-background-networking',
-    '--disable-component-update',
-    '--disable-sync',
-  ],
+  args: BROWSER_ARGS,
 });
 try {
   const page = await browser.newPage({ viewport: { width, height }, deviceScaleFactor: 1 });

@@ -12,6 +12,7 @@ export interface BrowserCheck {
 }
 export const BROWSER_PATH: string;
 export const INSTALL_COMMAND: string;
+export const BROWSER_ARGS: string[];
 export function missingBrowserSentence(path?: string): string;
 export function ensureBrowser(machine: Machine, path?: string): BrowserCheck;
 export const realMachine: Machine;

@@ -7,6 +7,16 @@ import { existsSync } from 'node:fs';
 
 export const BROWSER_PATH = '/usr/bin/chromium';
 export const INSTALL_COMMAND = 'sudo bash scripts/install-test-deps.sh';
+/** Flags that let that Chromium run headless on these machines (tests, editor tests and the view benchmark). */
+export const BROWSER_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
 
 /** The sentence printed when the browser is missing and cannot be installed from here. */
 export function missingBrowserSentence(path = BROWSER_PATH) {

@@ -11,19 +11,9 @@
  * structure, k-point list, eigenvalues to 4 decimals as VASP writes them) and energies.json holds those values.
  * Usage: tsx scripts/bench/generatePathRun.ts <folder> <nk> <nb> [segments (1-5, default 4)] [vasprun]
  */
-import { createWriteStream, mkdirSync, writeFileSync, type WriteStream } from 'node:fs';
+import { createWriteStream, mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-
-async function write(ws: WriteStream, s: string): Promise<void> {
-  if (!ws.write(s)) await new Promise<void>((r) => ws.once('drain', () => r()));
-}
-
-function fortranE(x: number): string {
-  if (x === 0) return '0.0000000E+00';
-  const e = Math.floor(Math.log10(Math.abs(x))) + 1;
-  const m = x / 10 ** e;
-  return `${m < 0 ? '-' : ''}${Math.abs(m).toFixed(7)}E${e < 0 ? '-' : '+'}${String(Math.abs(e)).padStart(2, '0')}`;
-}
+import { close, write, writeEigenvalAndJson } from './eigenvalLayout';
 
 const CORNERS: { label: string; k: [number, number, number] }[] = [
   { label: '\\Gamma', k: [0, 0, 0] },
@@ -104,8 +94,8 @@ async function writeVasprun(dir: string, segments: number, per: number, nb: numb
   }
   await write(ws, `     </set>\n    </set>\n   </array>\n  </eigenvalues>\n </calculation>\n</modeling>\n`);
   await write(js, ']');
-  await new Promise<void>((r) => ws.end(() => r()));
-  await new Promise<void>((r) => js.end(() => r()));
+  await close(ws);
+  await close(js);
 }
 
 async function main(): Promise<void> {
@@ -127,30 +117,11 @@ async function main(): Promise<void> {
     kp += `   ${p.k.map((x) => x.toFixed(10)).join('   ')}   ! ${p.label}\n   ${q.k.map((x) => x.toFixed(10)).join('   ')}   ! ${q.label}\n\n`;
   }
   writeFileSync(join(dir!, 'KPOINTS'), kp);
-  const ws = createWriteStream(join(dir!, 'EIGENVAL'));
-  const js = createWriteStream(join(dir!, 'energies.json'));
   const nOcc = Math.floor(nb / 2);
-  await write(
-    ws,
-    `       2       2       1       1\n  0.4002443E+02  0.3840000E-09  0.3840000E-09  0.3840000E-09  0.5000000E-15\n  1.000000000000000E-004\n  CAR \n  benchmark\n     ${2 * nOcc}  ${nk}  ${nb}\n`,
-  );
-  await write(js, '[');
-  let first = true;
-  for (const { kf, e } of pathPoints(segments, per, nb)) {
-    let line = `\n  ${kf.map(fortranE).join('  ')}  ${fortranE(1 / nk)}\n`;
-    let j = '';
-    for (let b = 0; b < nb; b++) {
-      const es = e[b]!.toFixed(6);
-      line += `  ${String(b + 1).padStart(4)}  ${es.padStart(12)}  ${b < nOcc ? '1.000000' : '0.000000'}\n`;
-      j += (first ? '' : ',') + es;
-      first = false;
-    }
-    await write(ws, line);
-    await write(js, j);
-  }
-  await write(js, ']');
-  await new Promise<void>((r) => ws.end(() => r()));
-  await new Promise<void>((r) => js.end(() => r()));
+  const points = (function* () {
+    for (const { kf, e } of pathPoints(segments, per, nb)) yield { k: kf, weight: 1 / nk, energies: e };
+  })();
+  await writeEigenvalAndJson(join(dir!, 'EIGENVAL'), join(dir!, 'energies.json'), { electrons: 2 * nOcc, nk, nb, occupied: nOcc, points });
 }
 
 void main();

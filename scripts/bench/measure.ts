@@ -16,6 +16,8 @@ import { analyzeBandStructure } from '../../src/core/analysis/analyze';
 import { ensureSymmetryReady } from '../../src/core/lattice/symmetry';
 import { installNativeSha256 } from '../../src/cli/nativeHash';
 import type { BandStructure } from '../../src/core/model';
+import { oneSpinBands } from '../../test/support/bandStructure';
+import { diamondStructure, fccLattice } from '../../test/support/models';
 
 async function main(): Promise<void> {
   const [task, a1, a2] = process.argv.slice(2);
@@ -99,39 +101,17 @@ function syntheticPath(nk: number, nb: number): BandStructure {
     }
   }
   const labels = ['Γ', 'X', 'W', 'L'].map((label, s) => ({ index: s * per, label }));
-  return {
+  return oneSpinBands({
     source: { format: 'synthetic', file: 'synthetic', files: [] },
-    lattice: [
-      [0, a / 2, a / 2],
-      [a / 2, 0, a / 2],
-      [a / 2, a / 2, 0],
-    ],
-    structure: {
-      lattice: [
-        [0, a / 2, a / 2],
-        [a / 2, 0, a / 2],
-        [a / 2, a / 2, 0],
-      ],
-      species: ['Si', 'Si'],
-      positions: Float64Array.from([0, 0, 0, 0.25, 0.25, 0.25]),
-    },
-    nk: n,
-    nBands: nb,
-    nSpin: 1,
+    lattice: fccLattice(a),
+    structure: diamondStructure(a, 'Si'),
     kpoints,
-    weights: null,
-    energies: [energies],
-    occupations: null,
-    fermiEnergy: null,
+    nBands: nb,
+    energies,
     electrons: nb,
-    spinorbit: false,
     labels,
     sampling: 'path',
-    grid: null,
-    writtenDistance: null,
-    partial: false,
-    warnings: [],
-  };
+  });
 }
 
 void main();

@@ -10,7 +10,7 @@ import { crystalSymmetry, ensureSymmetryReady } from '../../src/core/lattice/sym
 import { reciprocalLattice } from '../../src/core/lattice/reciprocal';
 import { irreducibleMesh } from '../../src/core/interpolation/regularMesh';
 import { MeshInterpolation } from '../../src/core/interpolation/meshInterpolation';
-import type { Mat3 } from '../../src/core/model';
+import { diamondStructure, fccLattice } from '../../test/support/models';
 
 async function main(): Promise<void> {
   const nb = Number(process.argv[2] ?? 400);
@@ -18,23 +18,24 @@ async function main(): Promise<void> {
   await ensureSymmetryReady();
   const a = 5.43;
   const h = a / 2;
-  const lattice: Mat3 = [
-    [0, h, h],
-    [h, 0, h],
-    [h, h, 0],
-  ];
-  const sym = crystalSymmetry({ lattice, species: ['Si', 'Si'], positions: new Float64Array([0, 0, 0, 0.25, 0.25, 0.25]) });
+  const lattice = fccLattice(a);
+  const sym = crystalSymmetry(diamondStructure(a, 'Si'));
   const { kpoints, weights } = irreducibleMesh([n, n, n], [0, 0, 0], sym.reciprocalPointGroup);
   const nk = kpoints.length / 3;
   const b = reciprocalLattice(lattice);
+  // The six fcc nearest-neighbour vectors up to sign, h·(e_i ± e_j) for i < j (common practice).
   const neighbours = [
-    [0, 1, 1],
-    [0, 1, -1],
-    [1, 0, 1],
-    [1, 0, -1],
-    [1, 1, 0],
-    [1, -1, 0],
-  ].map((s) => s.map((x) => x * h));
+    [1, 2],
+    [0, 2],
+    [0, 1],
+  ].flatMap(([i, j]) =>
+    [1, -1].map((sign) => {
+      const r = [0, 0, 0];
+      r[i!] = h;
+      r[j!] = sign * h;
+      return r;
+    }),
+  );
   const bands = Array.from({ length: nb }, (_, band) => {
     const e = new Float64Array(nk);
     for (let i = 0; i < nk; i++) {

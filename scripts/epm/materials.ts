@@ -31,41 +31,36 @@ export interface EpmMaterial {
   electrons: number;
 }
 
+/** A diamond or zincblende crystal of two four-valent atoms: 8 valence electrons per primitive cell. */
+function epmMaterial(
+  id: string,
+  name: string,
+  latticeConstant: number,
+  species: [string, string],
+  symmetric: Record<number, number>,
+  antisymmetric: Record<number, number> = {},
+): EpmMaterial {
+  return { id, name, latticeConstant, species, symmetric, antisymmetric, electrons: 8 };
+}
+
 /** Silicon: V_S(3) = −0.21, V_S(8) = +0.04, V_S(11) = +0.08 Ry; a = 5.43 Å (memory). */
-export const SILICON: EpmMaterial = {
-  id: 'si',
-  name: 'Si',
-  latticeConstant: 5.43,
-  species: ['Si', 'Si'],
-  symmetric: { 3: -0.21, 8: 0.04, 11: 0.08 },
-  antisymmetric: {},
-  electrons: 8,
-};
+export const SILICON = epmMaterial('si', 'Si', 5.43, ['Si', 'Si'], { 3: -0.21, 8: 0.04, 11: 0.08 });
 
 /** Germanium: V_S(3) = −0.23, V_S(8) = +0.01, V_S(11) = +0.06 Ry; a = 5.66 Å (memory). */
-export const GERMANIUM: EpmMaterial = {
-  id: 'ge',
-  name: 'Ge',
-  latticeConstant: 5.66,
-  species: ['Ge', 'Ge'],
-  symmetric: { 3: -0.23, 8: 0.01, 11: 0.06 },
-  antisymmetric: {},
-  electrons: 8,
-};
+export const GERMANIUM = epmMaterial('ge', 'Ge', 5.66, ['Ge', 'Ge'], { 3: -0.23, 8: 0.01, 11: 0.06 });
 
 /**
  * Gallium arsenide: V_S as for Ge; V_A(3) = +0.07, V_A(4) = +0.05, V_A(11) = +0.01 Ry; a = 5.64 Å (memory).
  * With V(G) = V_S cos(G·τ) + i V_A sin(G·τ), V_A = (v(−τ) − v(+τ))/2: a positive V_A puts the more
  * attractive atom (the anion, As) at +τ and Ga at −τ.
  */
-export const GALLIUM_ARSENIDE: EpmMaterial = {
-  id: 'gaas',
-  name: 'GaAs',
-  latticeConstant: 5.64,
-  species: ['Ga', 'As'],
-  symmetric: { 3: -0.23, 8: 0.01, 11: 0.06 },
-  antisymmetric: { 3: 0.07, 4: 0.05, 11: 0.01 },
-  electrons: 8,
-};
+export const GALLIUM_ARSENIDE = epmMaterial(
+  'gaas',
+  'GaAs',
+  5.64,
+  ['Ga', 'As'],
+  { 3: -0.23, 8: 0.01, 11: 0.06 },
+  { 3: 0.07, 4: 0.05, 11: 0.01 },
+);
 
 export const MATERIALS: Record<string, EpmMaterial> = { si: SILICON, ge: GERMANIUM, gaas: GALLIUM_ARSENIDE };

@@ -1,5 +1,5 @@
 /** Build small BandStructure objects directly, for tests of analysis and geometry. */
-import type { BandStructure, KLabel, Mat3 } from '../../src/core/model';
+import type { BandStructure, KLabel, Mat3, Structure } from '../../src/core/model';
 
 export interface BandsSpec {
   kpoints: number[][];
@@ -38,6 +38,45 @@ export function makeBands(spec: BandsSpec): BandStructure {
     spinorbit: spec.spinorbit ?? false,
     labels: spec.labels ?? [],
     sampling: spec.sampling ?? 'path',
+    grid: null,
+    writtenDistance: null,
+    partial: false,
+    warnings: [],
+  };
+}
+
+export interface OneSpinParts {
+  source: BandStructure['source'];
+  lattice: Mat3 | null;
+  structure: Structure | null;
+  /** nk × 3 fractional k-points. */
+  kpoints: Float64Array;
+  nBands: number;
+  /** nk × nBands energies, eV. */
+  energies: Float64Array;
+  electrons: number | null;
+  labels: KLabel[];
+  sampling: BandStructure['sampling'];
+}
+
+/** A one-spin band structure from flat arrays, without weights, occupations, Fermi level or spin-orbit. */
+export function oneSpinBands(p: OneSpinParts): BandStructure {
+  return {
+    source: p.source,
+    lattice: p.lattice,
+    structure: p.structure,
+    nk: p.kpoints.length / 3,
+    nBands: p.nBands,
+    nSpin: 1,
+    kpoints: p.kpoints,
+    weights: null,
+    energies: [p.energies],
+    occupations: null,
+    fermiEnergy: null,
+    electrons: p.electrons,
+    spinorbit: false,
+    labels: p.labels,
+    sampling: p.sampling,
     grid: null,
     writtenDistance: null,
     partial: false,

@@ -6,6 +6,7 @@
 import type { BandStructure, KLabel, Mat3, Structure, Vec3 } from '../../src/core/model';
 import { reciprocalLattice } from '../../src/core/lattice/reciprocal';
 import { HBAR2_OVER_ME_EV_A2 } from '../../src/core/units';
+import { oneSpinBands } from './bandStructure';
 
 /** A band as a function of cartesian k (Å⁻¹) and fractional k. */
 export type Dispersion = (kc: Vec3, kf: Vec3) => number;
@@ -47,27 +48,17 @@ function assemble(opts: ModelOptions, kf: Vec3[], labels: KLabel[], sampling: Ba
       energies[i * nb + b] = opts.roundTo ? Math.round(e / opts.roundTo) * opts.roundTo : e;
     });
   });
-  return {
+  return oneSpinBands({
     source: { format: 'model', file: 'model', files: [] },
     lattice: opts.lattice,
     structure: opts.structure ?? null,
-    nk,
-    nBands: nb,
-    nSpin: 1,
     kpoints,
-    weights: null,
-    energies: [energies],
-    occupations: null,
-    fermiEnergy: null,
+    nBands: nb,
+    energies,
     electrons: opts.electrons,
-    spinorbit: false,
     labels,
     sampling,
-    grid: null,
-    writtenDistance: null,
-    partial: false,
-    warnings: [],
-  };
+  });
 }
 
 /**

@@ -6,7 +6,7 @@
  * symmetry lines in Light High Contrast.
  */
 import assert from 'node:assert/strict';
-import { ARTIFACTS, markOf, openWithRun, siliconSession, waitPosted, type Harness, type ViewPage } from './support/bandViewHarness';
+import { ARTIFACTS, markOf, openWithRun, siliconSession, waitPosted, type ViewPage } from './support/bandViewHarness';
 import { hostFitResult, type LoadedRun } from './support/coreBandData';
 import { waitForExpression } from './support/pageHelpers';
 import { THEME_VARS } from './support/themes';
@@ -48,16 +48,12 @@ function cells(v: ViewPage, selector: string): Promise<string[][]> {
 
 describe('fit panel (headless Chromium, silicon EPM)', function () {
   this.timeout(90_000);
+  // The harness and the run, set up once by the shared before() hook.
   const session = siliconSession();
-  let h: Harness;
-  let run: LoadedRun;
-  before(() => {
-    ({ h, run } = session);
-  });
 
   it('at the threefold VBM: a branch column, rows told apart by direction and branch, provenance as a table, each warning once', async () => {
-    const v = await openWithRun(h, run);
-    const masses = await fitByKey(v, run, 'ArrowDown', 'parabola', 25, 1);
+    const v = await openWithRun(session.h, session.run);
+    const masses = await fitByKey(v, session.run, 'ArrowDown', 'parabola', 25, 1);
     // Without spin-orbit the top valence level of diamond-structure Si at Γ is threefold degenerate (heavy,
     // light and split-off holes; common practice): every direction carries three branches.
     const heads = await v.page.locator('.vs-masses thead th').allTextContents();
@@ -107,8 +103,8 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
   });
 
   it('at the non-degenerate CBM there is no branch column (control)', async () => {
-    const v = await openWithRun(h, run);
-    const masses = await fitByKey(v, run, 'ArrowUp', 'parabola', 25, 1);
+    const v = await openWithRun(session.h, session.run);
+    const masses = await fitByKey(v, session.run, 'ArrowUp', 'parabola', 25, 1);
     assert.ok(masses.every((f) => f.branch === undefined));
     const heads = await v.page.locator('.vs-masses thead th').allTextContents();
     assert.ok(!heads.includes('branch'), heads.join(', '));
@@ -124,8 +120,8 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
     assert.equal(windowAtSlider(0), 1);
     assert.equal(windowAtSlider(WINDOW_SLIDER_STEPS), 300);
     assert.equal(windowAtSlider(WINDOW_SLIDER_STEPS / 2), Math.round(Math.sqrt(300))); // geometric mean of 1 and 300
-    const v = await openWithRun(h, run);
-    await fitByKey(v, run, 'ArrowUp', 'parabola', 25, 1);
+    const v = await openWithRun(session.h, session.run);
+    await fitByKey(v, session.run, 'ArrowUp', 'parabola', 25, 1);
     const range = v.page.locator('#vs-window-range');
     assert.equal(await range.getAttribute('max'), String(WINDOW_SLIDER_STEPS));
     assert.equal(
@@ -169,11 +165,11 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
   });
 
   it('central differences: the uncertainty is the spread against the parabola at the same window, labelled so', async () => {
-    const v = await openWithRun(h, run);
-    const masses = await fitByKey(v, run, 'ArrowUp', 'central-2', 25, 1);
+    const v = await openWithRun(session.h, session.run);
+    const masses = await fitByKey(v, session.run, 'ArrowUp', 'central-2', 25, 1);
     // The parabola at the same point and window, from the fit service independently.
-    const cbm = markOf(run, 'cbm');
-    const parabola = hostFitResult(run, 0, cbm, 25, 'parabola', false).extremum.masses;
+    const cbm = markOf(session.run, 'cbm');
+    const parabola = hostFitResult(session.run, 0, cbm, 25, 'parabola', false).extremum.masses;
     const withSpread = masses.filter((f) => f.methodSpread);
     assert.ok(withSpread.length > 0, 'some direction was fitted by a finite difference');
     const heads = await v.page.locator('.vs-masses thead th').allTextContents();
@@ -195,8 +191,8 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
   });
 
   it('Kane fits show α in the provenance table; the method list carries one-line descriptions', async () => {
-    const v = await openWithRun(h, run);
-    const masses = await fitByKey(v, run, 'ArrowUp', 'kane', 100, 1);
+    const v = await openWithRun(session.h, session.run);
+    const masses = await fitByKey(v, session.run, 'ArrowUp', 'kane', 100, 1);
     const heads = await v.page.locator('.vs-provenance-table thead th').allTextContents();
     const col = heads.indexOf('Kane α (eV⁻¹)');
     assert.ok(col > 0, heads.join(', '));
@@ -215,7 +211,7 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
   });
 
   it('Light High Contrast: the symmetry lines are not drawn in a band colour', async () => {
-    const v = await openWithRun(h, run, 'hcLight');
+    const v = await openWithRun(session.h, session.run, 'hcLight');
     const stroke = await v.page
       .locator('line.vs-sym-line')
       .first()

@@ -112,6 +112,8 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
   const energies = Array.from({ length: nSpin }, () => new Float64Array(maxK * nBands));
   const seen = new Uint8Array(maxK);
   let read = 0;
+  /** The k-point (fractional) and weight of the block being read, kept only once the block is complete. */
+  const kw = new Float64Array(4);
   let partial = false;
   const progressEvery = Math.max(1, Math.floor(nkAnnounced / 100));
   for (let n = 0; n < nkAnnounced; n++) {
@@ -131,10 +133,6 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
     }
     let complete = true;
     let k = 0;
-    let kx = 0;
-    let ky = 0;
-    let kz = 0;
-    let w = 0;
     try {
       const kLine = sc.line;
       const word = sc.token();
@@ -145,10 +143,10 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
       if (index > maxK) throw sc.error(`k-point index ${index} cannot fit in what remains of the file (it is truncated)`, kLine, 0);
       if (seen[index - 1]) throw sc.error(`k-point ${index} appears twice`, kLine, 0);
       k = index - 1;
-      kx = sc.number(`the first coordinate of k-point ${index}`);
-      ky = sc.number(`the second coordinate of k-point ${index}`);
-      kz = sc.number(`the third coordinate of k-point ${index}`);
-      w = sc.number(`the weight of k-point ${index}`);
+      kw[0] = sc.number(`the first coordinate of k-point ${index}`);
+      kw[1] = sc.number(`the second coordinate of k-point ${index}`);
+      kw[2] = sc.number(`the third coordinate of k-point ${index}`);
+      kw[3] = sc.number(`the weight of k-point ${index}`);
       sc.endLine(`the weight of k-point ${index}`);
       for (let s = 0; s < nSpin && complete; s++) {
         sc.skipBlankLines();
@@ -193,10 +191,10 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
       break;
     }
     seen[k] = 1;
-    kpoints[3 * k] = kx;
-    kpoints[3 * k + 1] = ky;
-    kpoints[3 * k + 2] = kz;
-    weights[k] = w;
+    kpoints[3 * k] = kw[0]!;
+    kpoints[3 * k + 1] = kw[1]!;
+    kpoints[3 * k + 2] = kw[2]!;
+    weights[k] = kw[3]!;
     read++;
   }
   if (read === 0)

@@ -42,6 +42,18 @@ function images(k: readonly number[], ops: readonly Mat3[]): number[][] {
   return out;
 }
 
+/** The point group given, or the identity alone when none is (no symmetry known). */
+function opsOrIdentity(reciprocalOps: readonly Mat3[]): Mat3[] {
+  if (reciprocalOps.length > 0) return [...reciprocalOps];
+  return [
+    [
+      [1, 0, 0],
+      [0, 1, 0],
+      [0, 0, 1],
+    ],
+  ];
+}
+
 function offMesh(x: number, n: number, s: number): number {
   const y = x * n - s;
   return Math.abs(y - Math.round(y)) / n;
@@ -55,16 +67,7 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
   const nk = kFrac.length / 3;
   if (!Number.isInteger(nk) || nk < 1) return { mesh: null, reason: 'There are no k-points.' };
   if (!Array.from(kFrac).every(Number.isFinite)) return { mesh: null, reason: 'Some k-points are not finite numbers.' };
-  const ops: Mat3[] =
-    reciprocalOps.length > 0
-      ? [...reciprocalOps]
-      : [
-          [
-            [1, 0, 0],
-            [0, 1, 0],
-            [0, 0, 1],
-          ],
-        ];
+  const ops = opsOrIdentity(reciprocalOps);
   const all: number[][][] = [];
   for (let i = 0; i < nk; i++) all.push(images([kFrac[3 * i]!, kFrac[3 * i + 1]!, kFrac[3 * i + 2]!], ops));
   const divisions: number[] = [];
@@ -153,16 +156,7 @@ export function irreducibleMesh(
   const [n1, n2, n3] = divisions;
   const total = n1 * n2 * n3;
   const seen = new Uint8Array(total);
-  const ops: Mat3[] =
-    reciprocalOps.length > 0
-      ? [...reciprocalOps]
-      : [
-          [
-            [1, 0, 0],
-            [0, 1, 0],
-            [0, 0, 1],
-          ],
-        ];
+  const ops = opsOrIdentity(reciprocalOps);
   const k: number[] = [];
   const w: number[] = [];
   const wrap = (x: number, n: number, s: number): number => ((Math.round(x * n - s) % n) + n) % n;

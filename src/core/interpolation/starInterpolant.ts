@@ -25,6 +25,8 @@ export class StarInterpolant implements SmoothBand {
   /** c_m times the star's weight, per kept member. */
   private readonly memberCoefficient: Float64Array;
   private readonly integer: Int32Array;
+  /** Per member, the positions of n_0, n_1, n_2 in the phase tables (axis a's table starts at a·(2·reach + 1)). */
+  private readonly tableIndex: Int32Array;
   /** Largest |n_a| of any member, and the tables exp(i n θ_a) for n in −reach..reach (3 axes). */
   private readonly reach: number;
   private readonly tableCos: Float64Array;
@@ -42,6 +44,9 @@ export class StarInterpolant implements SmoothBand {
     }
     const reach = reachOf(basis);
     this.reach = reach;
+    const width = 2 * reach + 1;
+    this.tableIndex = new Int32Array(this.integer.length);
+    for (let j = 0; j < this.integer.length; j++) this.tableIndex[j] = this.integer[j]! + (j % 3) * width + reach;
     this.tableCos = new Float64Array(3 * (2 * reach + 1));
     this.tableSin = new Float64Array(3 * (2 * reach + 1));
   }
@@ -64,14 +69,12 @@ export class StarInterpolant implements SmoothBand {
   /** ε(k), k cartesian Å⁻¹. */
   value(k: Vec3): number {
     this.tables(k);
-    const { integer: z, memberCoefficient: c, tableCos: tc, tableSin: ts, reach } = this;
-    const o1 = 2 * reach + 1 + reach;
-    const o2 = 2 * (2 * reach + 1) + reach;
+    const { tableIndex: t, memberCoefficient: c, tableCos: tc, tableSin: ts } = this;
     let e = 0;
     for (let j = 0; j < c.length; j++) {
-      const i0 = z[3 * j]! + reach;
-      const i1 = z[3 * j + 1]! + o1;
-      const i2 = z[3 * j + 2]! + o2;
+      const i0 = t[3 * j]!;
+      const i1 = t[3 * j + 1]!;
+      const i2 = t[3 * j + 2]!;
       const cr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
       const ci = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
       e += c[j]! * (cr * tc[i2]! - ci * ts[i2]!);
@@ -82,9 +85,7 @@ export class StarInterpolant implements SmoothBand {
   /** ε, ∇ε and the Hessian at cartesian k. */
   derivatives(k: Vec3): BandDerivatives {
     this.tables(k);
-    const { integer: z, memberCoefficient: c, tableCos: tc, tableSin: ts, reach } = this;
-    const o1 = 2 * reach + 1 + reach;
-    const o2 = 2 * (2 * reach + 1) + reach;
+    const { integer: z, tableIndex: t, memberCoefficient: c, tableCos: tc, tableSin: ts } = this;
     let e = 0;
     let g0 = 0,
       g1 = 0,
@@ -99,9 +100,9 @@ export class StarInterpolant implements SmoothBand {
       const n0 = z[3 * j]!;
       const n1 = z[3 * j + 1]!;
       const n2 = z[3 * j + 2]!;
-      const i0 = n0 + reach;
-      const i1 = n1 + o1;
-      const i2 = n2 + o2;
+      const i0 = t[3 * j]!;
+      const i1 = t[3 * j + 1]!;
+      const i2 = t[3 * j + 2]!;
       const cr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
       const ci = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
       const cs = c[j]! * (cr * tc[i2]! - ci * ts[i2]!);

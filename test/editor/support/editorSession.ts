@@ -11,6 +11,8 @@ import { createServer } from 'node:net';
 import { join } from 'node:path';
 import { chromium, type Browser, type FrameLocator, type Locator, type Page } from 'playwright-core';
 import { editorTestEnvironment, type EditorTestEnvironment } from './environment';
+// Chromium flags that work on these machines (see ../../../../shared/editor-tests.md).
+import { BROWSER_ARGS, BROWSER_PATH } from '../../../scripts/browserCheck.mjs';
 
 export interface SessionOptions {
   /** Name used for folders and logs. */
@@ -22,17 +24,6 @@ export interface SessionOptions {
   /** Extra user settings. */
   settings?: Record<string, unknown>;
 }
-
-/** Chromium flags that work on these machines (see ../../../../shared/editor-tests.md). */
-const CHROMIUM_ARGS = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
 
 async function freePort(): Promise<number> {
   return new Promise((resolvePort, reject) => {
@@ -199,7 +190,7 @@ export class EditorSession {
         await sleep(250);
       }
       if (status !== 302 && status !== 200) throw new Error(`code-server did not answer on 127.0.0.1:${port} within 60 s; see ${logPath}`);
-      session.browser = await chromium.launch({ executablePath: '/usr/bin/chromium', args: CHROMIUM_ARGS });
+      session.browser = await chromium.launch({ executablePath: BROWSER_PATH, args: BROWSER_ARGS });
       recordBrowserGroups(env.runDir);
       const context = await session.browser.newContext({ viewport: { width: 1920, height: 1080 } });
       session.page = await context.newPage();

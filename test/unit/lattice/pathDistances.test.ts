@@ -1,9 +1,10 @@
 import assert from 'node:assert/strict';
-import type { Mat3, Vec3 } from '../../../src/core/model';
+import type { Mat3 } from '../../../src/core/model';
 import { pathGeometry } from '../../../src/core/lattice/kpath';
 import { mulMat, mulMatVec } from '../../../src/core/lattice/linalg';
 import { makeBands } from '../../support/bandStructure';
 import { fccPrimitive, rotationMatrix } from './crystals';
+import { FCC_POINTS } from '../../../scripts/epm/kpath';
 
 // Hand-computed fcc leg lengths for conventional constant a (2π/a units), from the cartesian points
 // X (0,1,0), W (½,1,0), K (¾,¾,0), L (½,½,½), U (¼,1,¼) (common practice; points as in Setyawan &
@@ -20,15 +21,8 @@ const LEGS: [string, string, number][] = [
   ['W', 'L', Math.SQRT2 / 2],
 ];
 // Fractional coordinates in the primitive reciprocal basis of a1=(0,a/2,a/2), a2=(a/2,0,a/2), a3=(a/2,a/2,0)
-// (Setyawan & Curtarolo 2010, FCC table).
-const F: Record<string, Vec3> = {
-  Γ: [0, 0, 0],
-  X: [0.5, 0, 0.5],
-  W: [0.5, 0.25, 0.75],
-  K: [0.375, 0.375, 0.75],
-  L: [0.5, 0.5, 0.5],
-  U: [0.625, 0.25, 0.625],
-};
+// (Setyawan & Curtarolo 2010, FCC table, as the fixtures transcribe it).
+const F = FCC_POINTS;
 
 function linePath(M: Mat3, n: number): number[][] {
   const out: number[][] = [];

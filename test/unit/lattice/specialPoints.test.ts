@@ -7,6 +7,8 @@ import { relateCells } from '../../../src/core/lattice/cellRelation';
 import { cartesianToFractional, fractionalToCartesian, reciprocalLattice } from '../../../src/core/lattice/reciprocal';
 import { mulMatVec } from '../../../src/core/lattice/linalg';
 import { makeBands } from '../../support/bandStructure';
+// The fcc path of Setyawan & Curtarolo 2010, Γ–X–W–K–Γ–L–U–W–L–K|U–X, as the fixtures transcribe it.
+import { FCC_STANDARD_PATH as FCC_PATH } from '../../../scripts/epm/kpath';
 import { anyCellChange, diamondConventional, diamondLike, fccPrimitive, redescribe, rotationMatrix, wurtzite } from './crystals';
 
 // Special points are given here in CARTESIAN coordinates from the geometry of each Brillouin zone (common
@@ -66,19 +68,6 @@ const fccPts: Record<string, Vec3> = {
   K: [(3 * u) / 4, (3 * u) / 4, 0],
   U: [u / 4, u, u / 4],
 };
-/** The fcc path of Setyawan & Curtarolo 2010: Γ–X–W–K–Γ–L–U–W–L–K|U–X. */
-const FCC_PATH: [string, string][] = [
-  ['Γ', 'X'],
-  ['X', 'W'],
-  ['W', 'K'],
-  ['K', 'Γ'],
-  ['Γ', 'L'],
-  ['L', 'U'],
-  ['U', 'W'],
-  ['W', 'L'],
-  ['L', 'K'],
-  ['U', 'X'],
-];
 const legsOf = (path: [string, string][], pts: Record<string, Vec3>, q?: Mat3): [Leg, Leg][] =>
   path.map(([a, b]) => [
     [a, q ? rot(pts[a]!, q) : pts[a]!],

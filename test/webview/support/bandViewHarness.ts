@@ -15,16 +15,8 @@ import { installPageHelpers, waitForExpression } from './pageHelpers';
 import { bandDataMessage, loadRunForView, type LoadedRun } from './coreBandData';
 import type { ExtremumMark } from '../../../src/protocol';
 
-export const CHROMIUM_PATH = '/usr/bin/chromium';
-export const CHROMIUM_ARGS = [
-  '--no-sandbox',
-  '--disable-gpu',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-];
+export { BROWSER_PATH as CHROMIUM_PATH, BROWSER_ARGS as CHROMIUM_ARGS } from '../../../scripts/browserCheck.mjs';
+import { BROWSER_PATH as CHROMIUM_PATH, BROWSER_ARGS as CHROMIUM_ARGS } from '../../../scripts/browserCheck.mjs';
 export const BUNDLE = join('dist', 'webview', 'bandView.js');
 
 /** The stub of VS Code's webview API, run before the bundle. */
