@@ -2,7 +2,7 @@
  * The compare view (webview entry): a sortable table of every run in the workspace, band structures of the
  * ticked runs overlaid on one plot (aligned at each run's VBM; one shared path when the paths match,
  * otherwise side by side), and a trend plot of any numeric column against a structural descriptor or a value
- * the user types per run. Talks to the host only through the compare messages of src/protocol.ts; computes
+ * the user types per run. Talks to the host only through the compare messages of src/protocol/; computes
  * no physics (every number comes from the core, in the host). Strict-CSP friendly: no eval, no inline
  * handlers or styles. This file only wires the modules together.
  */

@@ -5,7 +5,7 @@
  *   E_n(φ) = −2t cos(θ_n),  θ_n = (2π⌈n/2⌉ + (n even ? φ : −φ)) / M,
  * which lists the M folded bands in increasing energy. Half filling puts the Fermi level at E = 0.
  * Exported as JavaScript text, evaluated in the page: `(${FOLDED_CHAIN_SOURCE})(nBands, nk)` returns a
- * BandDataMessage of src/protocol.ts with ArrayBuffer-encoded arrays (energies as 32-bit floats above 4 million
+ * BandDataMessage of src/protocol/ with ArrayBuffer-encoded arrays (energies as 32-bit floats above 4 million
  * values, as the extension sends them).
  */
 export const FOLDED_CHAIN_SOURCE = String.raw`function (nBands, nk) {
