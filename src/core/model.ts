@@ -118,6 +118,8 @@ export interface BandStructure {
   bandNumberOffset?: number;
   /** True when the file ended early (a running job): what is here is complete only up to nk. */
   partial: boolean;
+  /** Set on a path made by interpolating a mesh run (not read from a file): the mesh it came from. */
+  interpolatedFrom?: { divisions: [number, number, number] };
   warnings: InputWarning[];
 }
 

@@ -14,6 +14,7 @@ import { mergeAndWrite } from '../core/annotations/atomicWrite';
 import { atomicWriterOver } from './atomicWrite';
 import { annotationsTarget, currentText, workspaceAtomicFs, writeThroughEditor } from './annotationsWriter';
 import { writeRefusal } from './trust';
+import { annotationsSaveRefusal } from '../core/annotations/saveRefusal';
 
 export interface SaveOutcome {
   ok: boolean;
@@ -33,12 +34,8 @@ const ATTEMPTS = 3;
 export async function saveAnnotations(run: LoadedRun, m: SaveMessage, deps: SaveDeps): Promise<SaveOutcome> {
   const refusal = writeRefusal(run.fileUri);
   if (refusal) return { ok: false, message: refusal };
-  if (run.bs.partial) {
-    return {
-      ok: false,
-      message: 'Not saved: the file is incomplete (a running job?), so its numbers are provisional. Save once the run has finished.',
-    };
-  }
+  const notHere = annotationsSaveRefusal(run.bs);
+  if (notHere) return { ok: false, message: notHere };
   const fits: ChosenFit[] = [];
   for (const e of m.entries) {
     const problem = targetProblem(run, e);

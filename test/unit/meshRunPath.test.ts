@@ -10,6 +10,7 @@ import { interpolatedPathRun } from '../../src/core/analysis/meshRunPath';
 import { pathGeometry } from '../../src/core/lattice/kpath';
 import { meshRunForView } from '../../src/extension/meshRunView';
 import type { BandStructure } from '../../src/core/model';
+import { annotationsSaveRefusal } from '../../src/core/annotations/saveRefusal';
 import {
   AXIS_VALLEY_BANDS,
   axisValleyBands,
@@ -70,6 +71,14 @@ describe('a mesh run drawn along the standard path of its lattice', function () 
     // (the written energies carry 6 decimals; the star fit is exact through them, smooth between).
     worst.forEach((w, b) => assert.ok(w < 2e-5 * (hi[b]! - lo[b]!), `band ${b + 1}: ${w} eV of a ${hi[b]! - lo[b]!} eV width`));
     assert.match(made.caution, /^Interpolated from a 12×12×12 mesh/);
+  });
+
+  it('is never saved as the run annotations (those are the mesh analysis that check recomputes); the mesh run itself may be', () => {
+    const made = interpolatedPathRun(mesh);
+    assert.ok(made.path, made.reason ?? '');
+    assert.deepEqual(made.path.interpolatedFrom, { divisions: [12, 12, 12] });
+    assert.match(annotationsSaveRefusal(made.path) ?? '', /^Not saved: these bands are interpolated from the 12×12×12 mesh/);
+    assert.equal(annotationsSaveRefusal(mesh), null);
   });
 
   it('opens in the view like a path run: a path analysis with the interpolation caution and the mesh result', () => {

@@ -103,6 +103,7 @@ export function interpolatedPathRun(bs: BandStructure, o: MeshRunPathOptions = {
     grid: null,
     writtenDistance: null,
     partial: bs.partial,
+    interpolatedFrom: { divisions: [...first.mesh.divisions] },
     warnings: [...bs.warnings],
   };
   return { path, caution, reason: null };
