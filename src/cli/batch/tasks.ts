@@ -3,11 +3,10 @@
  * The same function runs in a worker thread of the pool and, with one job, in the main thread, so the result
  * does not depend on --jobs. It never throws: a failure is a result carrying an error sentence.
  */
-import type { Mat3 } from '../../core/model';
 import { nodeFileAccessor } from '../nodeFileAccessor';
 import { loadRun } from '../../core/load';
 import { analyzeBandStructure, type AnalysisSettings } from '../../core/analysis/analyze';
-import { crystalSymmetry } from '../../core/lattice/symmetry';
+import { runCrystal } from '../../core/compare/dataRunInput';
 import { isValleyscopeError } from '../../core/errors';
 import type { ReadOptions } from '../../core/formats/types';
 import type { Tolerances } from '../../core/annotations/compareAnnotations';
@@ -47,15 +46,7 @@ async function analyzeLine(
   // The eigenvalue file found when the runs were searched, when known (the same file loadRun would find).
   const bs = await loadRun(nodeFileAccessor, file ?? path, read);
   const report = analyzeBandStructure(bs, settings);
-  let rotations: Mat3[] | null = null;
-  if (bs.structure) {
-    try {
-      rotations = crystalSymmetry(bs.structure).rotations;
-    } catch {
-      rotations = null;
-    }
-  }
-  return { path, ...analysisJson(bs, report, zero), lattice: bs.lattice, rotations };
+  return { path, ...analysisJson(bs, report, zero), lattice: bs.lattice, rotations: runCrystal(bs.structure).rotations };
 }
 
 export async function runTask(task: BatchTask): Promise<BatchResult> {

@@ -5,13 +5,12 @@ import { loadRun } from '../../core/load';
 import { analyzeBandStructure } from '../../core/analysis/analyze';
 import { compareRuns, type RunInput } from '../../core/compare/compareRuns';
 import { formatComparison, type ComparisonFormat } from '../../core/compare/formatComparison';
-import { crystalSymmetry, ensureSymmetryReady } from '../../core/lattice/symmetry';
+import { ensureSymmetryReady } from '../../core/lattice/symmetry';
+import { dataRunInput } from '../../core/compare/dataRunInput';
 import { ANALYSIS_FLAGS, analysisSettingsFromArgs, energyZeroFromArgs } from './analyze';
 import { energyZeroOf, type EnergyZero } from '../../core/report/energyZero';
 import { isAnnotationsPath } from '../../core/annotations/annotationsModel';
 import { loadAnnotationsRun } from '../../core/compare/loadAnnotationsRun';
-import { compositionOf } from '../../core/compare/structureDescriptors';
-import { labelledLines } from '../../core/lattice/pathPosition';
 import type { CliIO } from '../io';
 import { isJsonLinesPath, readJsonLines, runsFromRecords } from '../batch/jsonLines';
 
@@ -60,30 +59,7 @@ export async function runCompare(argv: string[], io: CliIO): Promise<number> {
       continue;
     }
     const bs = await loadRun(nodeFileAccessor, path, p.flags.has('soc') ? { spinorbit: true } : {});
-    const report = analyzeBandStructure(bs, settings);
-    let rotations = null;
-    let latticeType: string | null = null;
-    if (bs.structure) {
-      try {
-        const sym = crystalSymmetry(bs.structure);
-        rotations = sym.rotations;
-        latticeType = sym.bravaisClass;
-      } catch {
-        rotations = null;
-      }
-    }
-    const composition = bs.structure ? compositionOf(bs.structure.species) : null;
-    runs.push({
-      name: path,
-      report,
-      lattice: bs.lattice,
-      rotations,
-      latticeType,
-      composition,
-      fermi_eV: bs.fermiEnergy,
-      pathLines: labelledLines(bs),
-      origin: 'data',
-    });
+    runs.push(dataRunInput(path, bs, analyzeBandStructure(bs, settings)));
   }
   const c = compareRuns(runs, reference);
   const zeros: Record<string, EnergyZero> = {};

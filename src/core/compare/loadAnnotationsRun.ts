@@ -17,9 +17,8 @@ import { readStructureFile } from '../formats/structureFile';
 import { READ_LIMITS } from '../io/readLimits';
 import { checkConfined, PathRefusedError, readRecordedPath, redactContent } from '../io/pathPolicy';
 import { locateRun, readLocated } from '../load';
-import { crystalSymmetry, symmetryReady } from '../lattice/symmetry';
+import { runCrystal } from './dataRunInput';
 import { runFromAnnotations, type AnnotationsRun } from './runFromAnnotations';
-import { compositionOf } from './structureDescriptors';
 
 export interface LoadedAnnotationsRun extends AnnotationsRun {
   doc: AnnotationsDoc;
@@ -72,22 +71,10 @@ export async function loadAnnotationsRun(fs: FileAccessor, file: string, name: s
     }
   }
   if (!lattice) notes.push('no crystal structure found for this run: it has no lattice parameters or strain');
-  let rotations: Mat3[] | null = null;
-  let latticeType: string | null = null;
-  let latticePointsPerCell: number | null = null;
-  if (structure && symmetryReady()) {
-    try {
-      const sym = crystalSymmetry(structure);
-      rotations = sym.rotations;
-      latticeType = sym.bravaisClass;
-      latticePointsPerCell = sym.latticePointsPerCell;
-    } catch {
-      rotations = null;
-    }
-  }
-  const out = runFromAnnotations(doc, { name, currentSources: current, lattice, rotations });
-  out.run.latticeType = latticeType;
-  out.run.latticePointsPerCell = latticePointsPerCell;
-  out.run.composition = structure ? compositionOf(structure.species) : null;
+  const crystal = runCrystal(structure);
+  const out = runFromAnnotations(doc, { name, currentSources: current, lattice, rotations: crystal.rotations });
+  out.run.latticeType = crystal.latticeType;
+  out.run.latticePointsPerCell = crystal.latticePointsPerCell;
+  out.run.composition = crystal.composition;
   return { ...out, doc, notes };
 }
