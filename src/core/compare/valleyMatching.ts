@@ -10,7 +10,7 @@ import type { RunInput } from './compareRuns';
 /** Tolerance (fractional, max-norm modulo G) within which a drifting extremum of the same crystal is one valley. */
 export const VALLEY_K_TOLERANCE = 0.06;
 /** Tolerance within which two k-points are the same point (written k, fitted vertices). */
-export const SAME_K_TOLERANCE = 2e-3;
+export const VALLEY_SAME_K_TOLERANCE = 2e-3;
 
 function apply(m: Mat3, k: Vec3): Vec3 {
   return [
@@ -39,7 +39,7 @@ export function littleGroupOrder(k: Vec3, kRots: Mat3[] | null): number {
       let same = true;
       for (let i = 0; i < 3; i++) {
         const d = s[i]! - k[i]!;
-        if (Math.abs(d - Math.round(d)) > SAME_K_TOLERANCE) same = false;
+        if (Math.abs(d - Math.round(d)) > VALLEY_SAME_K_TOLERANCE) same = false;
       }
       if (same) n++;
     }
@@ -83,7 +83,7 @@ export interface Matcher {
 export function sameValley(m: Matcher, a: Vec3, b: Vec3): boolean {
   if (!m.shared) return false;
   const d = equivalenceDistance(a, b, m.kRots);
-  if (d < SAME_K_TOLERANCE) return true;
+  if (d < VALLEY_SAME_K_TOLERANCE) return true;
   if (!m.drift || d >= VALLEY_K_TOLERANCE) return false;
   // A drifting valley keeps its symmetry: the same little group, and never a high-symmetry point's.
   const ga = littleGroupOrder(a, m.kRots);
