@@ -101,8 +101,11 @@ function describe(structure: Structure): string {
   return [...counts].map(([s, n]) => `${s}${n > 1 ? n : ''}`).join('') || 'empty cell';
 }
 
-/** The library's dataset for a structure; throws AnalysisError with a plain sentence on failure. */
-export function analyzeStructure(structure: Structure, symprec: number = DEFAULT_SYMPREC): MoyoDataset {
+/**
+ * The cell as the library reads it (JSON), after checking the structure: the library's input exactly, so two
+ * structures with equal text get equal results. Throws AnalysisError with a plain sentence.
+ */
+function moyoCellJson(structure: Structure, symprec: number): string {
   if (!moyoReady()) {
     throw new AnalysisError('Crystal symmetry is not available yet: the symmetry module has not been loaded (ensureSymmetryReady).');
   }
@@ -125,11 +128,15 @@ export function analyzeStructure(structure: Structure, symprec: number = DEFAULT
   const positions: [number, number, number][] = [];
   for (let i = 0; i < n; i++)
     positions.push([structure.positions[3 * i]!, structure.positions[3 * i + 1]!, structure.positions[3 * i + 2]!]);
-  const cell = { lattice: { basis: [...lat[0], ...lat[1], ...lat[2]] }, positions, numbers: speciesNumbers(structure.species) };
+  return JSON.stringify({ lattice: { basis: [...lat[0], ...lat[1], ...lat[2]] }, positions, numbers: speciesNumbers(structure.species) });
+}
+
+function moyoDataset(structure: Structure, cellJson: string, symprec: number): MoyoDataset {
   try {
-    return moyoAnalyze(JSON.stringify(cell), symprec);
+    return moyoAnalyze(cellJson, symprec);
   } catch (e) {
     const why = e instanceof Error ? e.message : String(e);
+    const n = structure.species.length;
     throw new AnalysisError(
       `Could not determine the crystal symmetry of the structure (${describe(structure)}, ${n} atoms) with a tolerance of ${symprec} Å` +
         `${why ? ` (${why})` : ''}; check for overlapping atoms or try another tolerance.`,
@@ -137,13 +144,42 @@ export function analyzeStructure(structure: Structure, symprec: number = DEFAULT
   }
 }
 
+/** The library's dataset for a structure; throws AnalysisError with a plain sentence on failure. */
+export function analyzeStructure(structure: Structure, symprec: number = DEFAULT_SYMPREC): MoyoDataset {
+  return moyoDataset(structure, moyoCellJson(structure, symprec), symprec);
+}
+
 const cache = new WeakMap<Structure, Map<number, CrystalSymmetry>>();
+
+/**
+ * Results by the library's exact input (tolerance and cell text), for the many runs of one crystal in a batch
+ * (convergence series, functionals, spin-orbit on and off): the library is deterministic, so equal input
+ * gives the same operations. Bounded; the oldest entry goes first.
+ */
+const byCellText = new Map<string, CrystalSymmetry>();
+const CELL_TEXT_ENTRIES = 64;
 
 /** Space group and operations of a structure. Synchronous once ensureSymmetryReady() has resolved. */
 export function crystalSymmetry(structure: Structure, symprec: number = DEFAULT_SYMPREC): CrystalSymmetry {
   const hit = cache.get(structure)?.get(symprec);
   if (hit) return hit;
-  const d = analyzeStructure(structure, symprec);
+  const cellJson = moyoCellJson(structure, symprec);
+  const key = `${symprec} ${cellJson}`;
+  const same = byCellText.get(key);
+  const sym = same
+    ? { ...same, lattice: structure.lattice }
+    : symmetryFromDataset(structure, moyoDataset(structure, cellJson, symprec), symprec);
+  if (!same) {
+    if (byCellText.size >= CELL_TEXT_ENTRIES) byCellText.delete(byCellText.keys().next().value!);
+    byCellText.set(key, sym);
+  }
+  let perStructure = cache.get(structure);
+  if (!perStructure) cache.set(structure, (perStructure = new Map<number, CrystalSymmetry>()));
+  perStructure.set(symprec, sym);
+  return sym;
+}
+
+function symmetryFromDataset(structure: Structure, d: MoyoDataset, symprec: number): CrystalSymmetry {
   const rotations = d.operations.map((op) => matFromColumnMajor(op.rotation));
   const translations = d.operations.map((op) => [op.translation[0], op.translation[1], op.translation[2]] as Vec3);
   const pointGroup: Mat3[] = [];
@@ -167,7 +203,7 @@ export function crystalSymmetry(structure: Structure, symprec: number = DEFAULT_
       centringTranslations.push(wrapped.map((x) => (x < -1e-9 ? x + 1 : x) + 0) as Vec3);
     }
   });
-  const sym: CrystalSymmetry = {
+  return {
     spaceGroup: d.number,
     hmSymbol: d.hm_symbol,
     rotations,
@@ -182,10 +218,6 @@ export function crystalSymmetry(structure: Structure, symprec: number = DEFAULT_
     lattice: structure.lattice,
     symprec,
   };
-  let perStructure = cache.get(structure);
-  if (!perStructure) cache.set(structure, (perStructure = new Map<number, CrystalSymmetry>()));
-  perStructure.set(symprec, sym);
-  return sym;
 }
 
 function roundMat(m: Mat3): Mat3 {

@@ -81,6 +81,24 @@ describe('crystal symmetry (moyo-wasm)', () => {
     }
   });
 
+  it('gives structures with the same cell the same operations, and a cell that differs its own (results kept by cell)', () => {
+    const first = crystalSymmetry(diamondLike(A_SI, 'Si', 'Si'));
+    // A second object with equal content (another run of the same crystal): equal operations, its own lattice.
+    const again = diamondLike(A_SI, 'Si', 'Si');
+    const second = crystalSymmetry(again);
+    assert.equal(second.spaceGroup, 227); // International Tables Vol. A: diamond, Fd-3m
+    assert.deepEqual(second.rotations, first.rotations);
+    assert.equal(second.lattice, again.lattice);
+    // The second atom moved by 0.002 along the body diagonal (about 0.019 Å, more than the 1e-3 Å tolerance):
+    // the inversion between the two atoms is lost, so fewer than the 48 operations of m-3m remain
+    // (International Tables Vol. A: order of m-3m 48). The kept result of the undistorted cell must not answer.
+    const moved: Structure = { ...again, positions: new Float64Array([0, 0, 0, 0.252, 0.252, 0.252]) };
+    assert.ok(crystalSymmetry(moved).rotations.length < 48);
+    // The same cell with a tolerance larger than the displacement: the full group again (the tolerance is part of the key).
+    const loose = crystalSymmetry({ ...moved, positions: new Float64Array(moved.positions) }, 0.1);
+    assert.equal(loose.rotations.length, 48);
+  });
+
   it('finds F-43m (216) with 24 operations for zincblende GaAs', () => {
     const s = crystalSymmetry(diamondLike(A_GAAS, 'Ga', 'As'));
     // International Tables Vol. A: zincblende is F-43m, No. 216; point group -43m has order 24.
