@@ -7,7 +7,9 @@
 // Γ–X–M–Γ–R, 200 k-points, in VASP's EIGENVAL/POSCAR/KPOINTS layouts. Invented numbers: input only.
 // On a shared machine the wall times say little about what a second core gives, so each run's CPU time is
 // also sampled per thread (Linux /proc, scripts/bench/threadCpu.mjs) and printed beside them.
-// Usage: node scripts/bench-batch.mjs [--runs N] [--repeat R]
+// Usage: node scripts/bench-batch.mjs [--runs N] [--repeat R] [--per-segment P]
+// --per-segment: k-points per path segment (default 50: 200 k-points a run). Larger runs show how the pool
+// scales once each run's work outweighs what every thread pays once (compiling the code it runs).
 import { runWithThreadCpu } from './bench/threadCpu.mjs';
 import { availableParallelism, loadavg } from 'node:os';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
@@ -19,13 +21,14 @@ const arg = (name, dflt) => {
 };
 const nRuns = arg('--runs', 200);
 const repeat = arg('--repeat', 3);
+const PER_SEGMENT = arg('--per-segment', 50);
 const cli = join('dist', 'cli.js');
 if (!existsSync(cli) || !existsSync(join('dist', 'batchWorker.js'))) {
   console.log('batch: dist/cli.js or dist/batchWorker.js missing; run "node esbuild.mjs" first');
   process.exit(1);
 }
 
-const dir = join('bench-data', `batch-${nRuns}`);
+const dir = join('bench-data', PER_SEGMENT === 50 ? `batch-${nRuns}` : `batch-${nRuns}-k${4 * PER_SEGMENT}`);
 const f = (x, w, d) => x.toFixed(d).padStart(w);
 const SEGMENTS = [
   ['Γ', [0, 0, 0], 'X', [0.5, 0, 0]],
@@ -33,7 +36,6 @@ const SEGMENTS = [
   ['M', [0.5, 0.5, 0], 'Γ', [0, 0, 0]],
   ['Γ', [0, 0, 0], 'R', [0.5, 0.5, 0.5]],
 ];
-const PER_SEGMENT = 50;
 
 function writeRun(runDir, seed) {
   mkdirSync(runDir, { recursive: true });
@@ -76,13 +78,13 @@ function writeRun(runDir, seed) {
 
 const stamp = join(dir, '.complete');
 if (!existsSync(stamp)) {
-  console.log(`generating ${nRuns} small runs under ${dir} ...`);
+  console.log(`generating ${nRuns} runs under ${dir} ...`);
   for (let i = 0; i < nRuns; i++) writeRun(join(dir, `run-${String(i).padStart(4, '0')}`), i);
   writeFileSync(stamp, 'generated\n');
 }
 
 async function timeOnce(jobs) {
-  const out = join('bench-data', `batch-jobs${jobs}.jsonl`);
+  const out = join('bench-data', `batch-k${4 * PER_SEGMENT}-jobs${jobs}.jsonl`);
   const r = await runWithThreadCpu(process.execPath, [cli, 'analyze', dir, '--jsonl', '--jobs', String(jobs)], out);
   if (r.status !== 0) throw new Error(`--jobs ${jobs} failed: ${(r.stderr || '').trim().split('\n').pop()}`);
   return { ...r, out };
@@ -91,7 +93,7 @@ async function timeOnce(jobs) {
 const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 const load0 = loadavg()[0];
 console.log(
-  `\nBatch: analyze --jsonl over ${nRuns} small runs (200 k × 8 bands each), ${availableParallelism()} cores, median of ${repeat}, alternating`,
+  `\nBatch: analyze --jsonl over ${nRuns} runs (${4 * PER_SEGMENT} k × 8 bands each), ${availableParallelism()} cores, median of ${repeat}, alternating`,
 );
 const r1 = [];
 const r2 = [];

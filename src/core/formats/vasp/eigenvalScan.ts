@@ -40,11 +40,67 @@ export interface EigenvalData {
   sha256: string;
 }
 
+/** What the header says, checked against the bytes after it. */
+interface EigenvalHeader {
+  ispin: 1 | 2;
+  electrons: number;
+  nkAnnounced: number;
+  nBands: number;
+  system: string;
+  /** The most k-points the rest of the file can hold (never allocate for more). */
+  maxK: number;
+}
+
+/**
+ * The arrays being filled and the layout of the band lines (found on the first one). One class, so the hot
+ * functions below always see objects of one shape.
+ */
+class KBlocks {
+  readonly kpoints: Float64Array;
+  readonly weights: Float64Array;
+  readonly energies: Float64Array[] = [];
+  occupations: Float32Array[] | null = null;
+  /** Columns of a band line (index included), -1 before the first line is read. */
+  columns = -1;
+  readonly values = new Float64Array(4);
+  nk = 0;
+
+  constructor(readonly h: EigenvalHeader) {
+    this.kpoints = new Float64Array(h.maxK * 3);
+    this.weights = new Float64Array(h.maxK);
+    for (let s = 0; s < h.ispin; s++) this.energies.push(new Float64Array(h.maxK * h.nBands));
+  }
+}
+
 export function readEigenval(file: InputFile, options: ReadOptions = {}): EigenvalData {
   const hasher = file.stream ? createSha256() : null;
   const sc = file.stream
     ? TextScanner.streaming(file.stream, file.path, EIGENVAL_FORMAT, (c) => hasher!.update(c))
     : new TextScanner(file.bytes, file.path, EIGENVAL_FORMAT);
+  const h = readHeader(sc);
+  const st = new KBlocks(h);
+  readKBlocks(sc, st, options);
+  const nk = st.nk;
+  const nBands = h.nBands;
+  const trim = (a: Float64Array, n: number): Float64Array => (a.length === n ? a : a.slice(0, n));
+  return {
+    nSpin: h.ispin,
+    electrons: h.electrons,
+    nk,
+    nBands,
+    kpoints: trim(st.kpoints, nk * 3),
+    weights: trim(st.weights, nk),
+    energies: st.energies.map((e) => trim(e, nk * nBands)),
+    occupations: st.occupations ? st.occupations.map((e) => (e.length === nk * nBands ? e : e.slice(0, nk * nBands))) : null,
+    system: h.system,
+    announcedK: h.nkAnnounced,
+    partial: nk < h.nkAnnounced,
+    sha256: hasher ? (sc.drain(), hasher.hex()) : sha256Hex(file.bytes),
+  };
+}
+
+/** The six header lines, checked; the scanner is left at the first k-point's block. */
+function readHeader(sc: TextScanner): EigenvalHeader {
   if (sc.atEnd()) throw sc.error('the eigenvalue file is empty');
   sc.integer('the number of ions');
   sc.integer('the number of ions');
@@ -80,15 +136,12 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
   // k-points than the file can hold (a corrupt header must not exhaust memory).
   const maxK = Math.min(nkAnnounced, Math.floor(remaining / Math.max(1, 4 * nBands)) + 1);
   sc.nextLine();
+  return { ispin, electrons, nkAnnounced, nBands, system, maxK };
+}
 
-  const kpoints = new Float64Array(maxK * 3);
-  const weights = new Float64Array(maxK);
-  const energies: Float64Array[] = [];
-  for (let s = 0; s < ispin; s++) energies.push(new Float64Array(maxK * nBands));
-  let occupations: Float32Array[] | null = null;
-  let columns = -1;
-  const values = new Float64Array(4);
-  let nk = 0;
+/** Every k-point's block, then the check that nothing follows the last one. */
+function readKBlocks(sc: TextScanner, st: KBlocks, options: ReadOptions): void {
+  const { nkAnnounced, nBands, maxK } = st.h;
   const progressEvery = Math.max(1, Math.floor(nkAnnounced / 100));
   // Bytes one k-point block may take, generously: streaming keeps at least two blocks in the window.
   const blockBytes = (nBands + 3) * 256;
@@ -103,118 +156,119 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
       if (options.allowPartial && k > 0) break;
       throw sc.error(`the file ends after ${k} of ${nkAnnounced} k-points (it is truncated, or the run is still writing it)`);
     }
-    let complete = true;
-    let kx = 0;
-    let ky = 0;
-    let kz = 0;
-    let w = 0;
+    let complete: boolean;
     try {
-      kx = sc.number(() => `the first coordinate of k-point ${k + 1}`);
-      ky = sc.number(() => `the second coordinate of k-point ${k + 1}`);
-      kz = sc.number(() => `the third coordinate of k-point ${k + 1}`);
-      w = sc.number(() => `the weight of k-point ${k + 1}`);
-      sc.endLine(`the weight of k-point ${k + 1}`);
-      const base = k * nBands;
-      for (let b = 0; b < nBands; b++) {
-        if (columns > 0 && fastBandLine(sc, b + 1, values, columns - 1)) {
-          for (let s = 0; s < ispin; s++) energies[s]![base + b] = values[s]!;
-          if (occupations) for (let s = 0; s < ispin; s++) occupations[s]![base + b] = values[ispin + s]!;
-          continue;
-        }
-        if (sc.atEnd()) {
-          if (options.allowPartial) {
-            complete = false;
-            break;
-          }
-          throw sc.error(
-            `the file ends inside k-point ${k + 1} of ${nkAnnounced}, after ${b} of ${nBands} bands (it is truncated, or the run is still writing it)`,
-          );
-        }
-        const lineNo = sc.line;
-        const idx = sc.tryNumberAfterSpaces() ?? bandIndexError(sc, k, b, nBands);
-        if (idx !== b + 1) {
-          // Band 1 again: the next k-point began early, so the header's NBANDS is wrong. Any other index: this line.
-          throw sc.error(
-            idx === 1 && b > 0
-              ? `expected band ${b + 1} of k-point ${k + 1}, found band index ${idx}: the header's NBANDS (${nBands}) does not match the data`
-              : `band line ${b + 1} of k-point ${k + 1} has the band index ${idx}, expected ${b + 1}: the line is damaged or out of order`,
-            lineNo,
-            1,
-          );
-        }
-        if (columns < 0) {
-          const save = sc.pos;
-          let c = 1;
-          while (!sc.atEol()) {
-            if (sc.tryNumber() === null) sc.token();
-            c++;
-          }
-          sc.pos = save;
-          columns = c;
-          const expectOcc = ispin === 1 ? 3 : 5;
-          const expectNoOcc = ispin === 1 ? 2 : 3;
-          if (columns !== expectOcc && columns !== expectNoOcc) {
-            throw sc.error(
-              `a band line has ${columns} columns; with ISPIN = ${ispin} expected ${expectNoOcc} (index, energies) or ${expectOcc} (with occupations)`,
-            );
-          }
-          if (columns === expectOcc) {
-            occupations = [];
-            for (let s = 0; s < ispin; s++) occupations.push(new Float32Array(maxK * nBands));
-          }
-        }
-        for (let s = 0; s < ispin; s++) {
-          const v = sc.tryNumberAfterSpaces();
-          energies[s]![base + b] = v ?? valueError(sc, 'the energy', k, b, ispin === 2 ? s : -1);
-        }
-        if (occupations) {
-          for (let s = 0; s < ispin; s++) {
-            const v = sc.tryNumberAfterSpaces();
-            occupations[s]![base + b] = v ?? valueError(sc, 'the occupation', k, b, ispin === 2 ? s : -1);
-          }
-        }
-        if (!sc.atEol()) {
-          throw sc.error(`band ${b + 1} of k-point ${k + 1} has more columns than the first band line (${columns}): "${sc.peekToken()}"`);
-        }
-        // A last line without its newline may have been cut inside a number: not trusted in a file still being written.
-        if (!sc.nextLine() && options.allowPartial && !(k === nkAnnounced - 1 && b === nBands - 1)) {
-          complete = false;
-          break;
-        }
-      }
+      complete = readKBlock(sc, st, k, options);
     } catch (e) {
       // Cut inside this k-point's block (a running job, a copy cut short): keep the complete k-points before it.
       if (!(options.allowPartial && k > 0 && e instanceof ReaderError && endsOnThisLine(sc))) throw e;
       complete = false;
     }
     if (!complete) break;
-    kpoints[3 * k] = kx;
-    kpoints[3 * k + 1] = ky;
-    kpoints[3 * k + 2] = kz;
-    weights[k] = w;
-    nk = k + 1;
+    st.nk = k + 1;
   }
   sc.ensure(blockBytes);
   sc.skipBlankLines();
-  if (!sc.atEnd() && nk === nkAnnounced) {
+  if (!sc.atEnd() && st.nk === nkAnnounced) {
     throw sc.error(`unexpected data after the last of the ${nkAnnounced} k-points the header announces: "${sc.peekToken()}"`);
   }
   options.onProgress?.(1);
-  const trim = (a: Float64Array, n: number): Float64Array => (a.length === n ? a : a.slice(0, n));
-  return {
-    nSpin: ispin,
-    electrons,
-    nk,
-    nBands,
-    kpoints: trim(kpoints, nk * 3),
-    weights: trim(weights, nk),
-    energies: energies.map((e) => trim(e, nk * nBands)),
-    occupations: occupations ? occupations.map((e) => (e.length === nk * nBands ? e : e.slice(0, nk * nBands))) : null,
-    system,
-    announcedK: nkAnnounced,
-    partial: nk < nkAnnounced,
-    sha256: hasher ? (sc.drain(), hasher.hex()) : sha256Hex(file.bytes),
-  };
+}
+
+/**
+ * One k-point: its line and its band lines (the common ones through fastBandLine, the rest through
+ * generalBandLine). False when the file ends inside it and partial files are allowed.
+ */
+function readKBlock(sc: TextScanner, st: KBlocks, k: number, options: ReadOptions): boolean {
+  const { ispin, nBands } = st.h;
+  const kx = sc.number(() => `the first coordinate of k-point ${k + 1}`);
+  const ky = sc.number(() => `the second coordinate of k-point ${k + 1}`);
+  const kz = sc.number(() => `the third coordinate of k-point ${k + 1}`);
+  const w = sc.number(() => `the weight of k-point ${k + 1}`);
+  sc.endLine(`the weight of k-point ${k + 1}`);
+  const base = k * nBands;
+  const values = st.values;
+  const energies = st.energies;
+  for (let b = 0; b < nBands; b++) {
+    const columns = st.columns;
+    if (columns > 0 && fastBandLine(sc, b + 1, values, columns - 1)) {
+      for (let s = 0; s < ispin; s++) energies[s]![base + b] = values[s]!;
+      const occupations = st.occupations;
+      if (occupations) for (let s = 0; s < ispin; s++) occupations[s]![base + b] = values[ispin + s]!;
+      continue;
+    }
+    if (!generalBandLine(sc, st, k, b, options)) return false;
+  }
+  st.kpoints[3 * k] = kx;
+  st.kpoints[3 * k + 1] = ky;
+  st.kpoints[3 * k + 2] = kz;
+  st.weights[k] = w;
+  return true;
+}
+
+/**
+ * A band line the fast path left (the first one, exponents, damage): read number by number, every error in the
+ * reader's words; the first line fixes the column layout. False when the file is cut here (partial files allowed).
+ */
+function generalBandLine(sc: TextScanner, st: KBlocks, k: number, b: number, options: ReadOptions): boolean {
+  const { ispin, nBands, nkAnnounced, maxK } = st.h;
+  const base = k * nBands;
+  if (sc.atEnd()) {
+    if (options.allowPartial) return false;
+    throw sc.error(
+      `the file ends inside k-point ${k + 1} of ${nkAnnounced}, after ${b} of ${nBands} bands (it is truncated, or the run is still writing it)`,
+    );
+  }
+  const lineNo = sc.line;
+  const idx = sc.tryNumberAfterSpaces() ?? bandIndexError(sc, k, b, nBands);
+  if (idx !== b + 1) {
+    // Band 1 again: the next k-point began early, so the header's NBANDS is wrong. Any other index: this line.
+    throw sc.error(
+      idx === 1 && b > 0
+        ? `expected band ${b + 1} of k-point ${k + 1}, found band index ${idx}: the header's NBANDS (${nBands}) does not match the data`
+        : `band line ${b + 1} of k-point ${k + 1} has the band index ${idx}, expected ${b + 1}: the line is damaged or out of order`,
+      lineNo,
+      1,
+    );
+  }
+  if (st.columns < 0) {
+    const save = sc.pos;
+    let c = 1;
+    while (!sc.atEol()) {
+      if (sc.tryNumber() === null) sc.token();
+      c++;
+    }
+    sc.pos = save;
+    st.columns = c;
+    const expectOcc = ispin === 1 ? 3 : 5;
+    const expectNoOcc = ispin === 1 ? 2 : 3;
+    if (c !== expectOcc && c !== expectNoOcc) {
+      throw sc.error(
+        `a band line has ${c} columns; with ISPIN = ${ispin} expected ${expectNoOcc} (index, energies) or ${expectOcc} (with occupations)`,
+      );
+    }
+    if (c === expectOcc) {
+      const occupations: Float32Array[] = [];
+      for (let s = 0; s < ispin; s++) occupations.push(new Float32Array(maxK * nBands));
+      st.occupations = occupations;
+    }
+  }
+  for (let s = 0; s < ispin; s++) {
+    const v = sc.tryNumberAfterSpaces();
+    st.energies[s]![base + b] = v ?? valueError(sc, 'the energy', k, b, ispin === 2 ? s : -1);
+  }
+  const occupations = st.occupations;
+  if (occupations) {
+    for (let s = 0; s < ispin; s++) {
+      const v = sc.tryNumberAfterSpaces();
+      occupations[s]![base + b] = v ?? valueError(sc, 'the occupation', k, b, ispin === 2 ? s : -1);
+    }
+  }
+  if (!sc.atEol()) {
+    throw sc.error(`band ${b + 1} of k-point ${k + 1} has more columns than the first band line (${st.columns}): "${sc.peekToken()}"`);
+  }
+  // A last line without its newline may have been cut inside a number: not trusted in a file still being written.
+  return sc.nextLine() || !options.allowPartial || (k === nkAnnounced - 1 && b === nBands - 1);
 }
 
 /** Recognise EIGENVAL by its header: four integers, then on line 6 three numbers. */
