@@ -1,5 +1,5 @@
 /**
- * The vasprun.xml reader: the file read as a byte stream (vasprunStream.ts) in 1 MiB pieces, then turned into
+ * The vasprun.xml reader: the file read as a byte stream (vasprunStream.ts) in 256 KiB pieces, then turned into
  * a BandStructure with the KPOINTS beside it for path labels.
  */
 import type { BandStructure, InputWarning, SourceFile } from '../../model';
@@ -22,8 +22,10 @@ export function readVasprun(file: InputFile, options: ReadOptions = {}): Vasprun
   const src = file.stream;
   const size = src ? src.size : file.bytes.length;
   const stream = new VasprunStream(file.path, size);
-  // 1 MiB pieces through one reused buffer: nothing but the typed arrays of the result grows with the file.
-  const CHUNK = 1 << 20;
+  // 256 KiB pieces through one reused buffer: nothing but the typed arrays of the result grows with the file. The
+  // scanner joins each piece to the unfinished row before it in a second buffer of the same size, so the piece
+  // size counts twice in the peak memory (1 MiB pieces: 0.54 of a 30 MiB file, these: 0.48; CPU the same).
+  const CHUNK = 1 << 18;
   const hasher = src ? createSha256() : null;
   if (size === 0) return { ...stream.finish(false), sha256: '' };
   const buffer = src?.readInto ? new Uint8Array(Math.min(CHUNK, size)) : null;
