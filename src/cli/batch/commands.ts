@@ -46,7 +46,9 @@ export async function analyzeBatch(
   if (note) io.err(`valleyscope: ${note}`);
   const tasks: BatchTask[] = runs.map((path) => {
     const file = found.files.get(path);
-    return file === undefined ? { kind: 'analyze', path, settings, read, zero } : { kind: 'analyze', path, settings, read, zero, file };
+    return file === undefined
+      ? { kind: 'analyze', path, settings, read, zero }
+      : { kind: 'analyze', path, settings, read, zero, found: file };
   });
   let failed = 0;
   const progress = progressReporter(io.progress, 'runs analysed');

@@ -13,18 +13,27 @@ import { comparePaths } from './pathOrder';
 export const MAX_DEPTH = 32;
 const SKIP_DIRS = new Set(['.git', '.hg', '.svn', 'node_modules']);
 
+export interface FoundFile {
+  file: string;
+  readerId: string;
+}
+
 export interface FoundRuns {
   runs: string[];
-  /** The eigenvalue file found in each run folder (run path → file), so it need not be searched for again. */
-  files: Map<string, string>;
+  /**
+   * The eigenvalue file found in each run folder and the id of the reader that recognised it (run path → both),
+   * so it need not be searched for or recognised again.
+   */
+  files: Map<string, FoundFile>;
   /** Sentences about what the search left out (depth limit reached). */
   notes: string[];
 }
 
-/** The eigenvalue file of a run folder, or null when the folder holds none. */
-async function runFile(fs: FileAccessor, dir: string): Promise<string | null> {
+/** The eigenvalue file of a run folder and its reader, or null when the folder holds none. */
+async function runFile(fs: FileAccessor, dir: string): Promise<FoundFile | null> {
   try {
-    return (await locateRun(fs, dir)).file;
+    const loc = await locateRun(fs, dir);
+    return { file: loc.file, readerId: loc.reader.id };
   } catch (e) {
     if (e instanceof ValleyscopeError) return null;
     throw e;
@@ -33,7 +42,7 @@ async function runFile(fs: FileAccessor, dir: string): Promise<string | null> {
 
 export async function findRuns(fs: FileAccessor, roots: readonly string[]): Promise<FoundRuns> {
   const found = new Set<string>();
-  const files = new Map<string, string>();
+  const files = new Map<string, FoundFile>();
   const notes: string[] = [];
   const walk = async (dir: string, depth: number): Promise<void> => {
     const file = await runFile(fs, dir);

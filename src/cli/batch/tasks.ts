@@ -4,7 +4,9 @@
  * does not depend on --jobs. It never throws: a failure is a result carrying an error sentence.
  */
 import { nodeFileAccessor } from '../nodeFileAccessor';
-import { loadRun } from '../../core/load';
+import { loadRun, readLocated } from '../../core/load';
+import { readerById } from '../../core/formats/index';
+import type { FoundFile } from './findRuns';
 import { analyzeBandStructure, type AnalysisSettings } from '../../core/analysis/analyze';
 import { runCrystal } from '../../core/compare/dataRunInput';
 import { isValleyscopeError } from '../../core/errors';
@@ -16,7 +18,8 @@ import { checkFile, type FileOutcome } from '../commands/check';
 import { annotateOne, type ReadFlags } from '../commands/annotate';
 
 export type BatchTask =
-  | { kind: 'analyze'; path: string; settings: Partial<AnalysisSettings>; read: ReadOptions; zero?: EnergyZeroMode; file?: string }
+  /** `found`: the eigenvalue file and its reader when the runs were searched (not looked for again). */
+  | { kind: 'analyze'; path: string; settings: Partial<AnalysisSettings>; read: ReadOptions; zero?: EnergyZeroMode; found?: FoundFile }
   /** `root`: the folder searched when the file was found by searching (it must stay inside it), null when named. */
   | { kind: 'check'; path: string; tolerances: Tolerances; root: string | null }
   | { kind: 'annotate'; path: string; settings: Partial<AnalysisSettings>; read: ReadFlags };
@@ -41,10 +44,14 @@ async function analyzeLine(
   settings: Partial<AnalysisSettings>,
   read: ReadOptions,
   zero: EnergyZeroMode,
-  file?: string,
+  found?: FoundFile,
 ): Promise<Record<string, unknown>> {
-  // The eigenvalue file found when the runs were searched, when known (the same file loadRun would find).
-  const bs = await loadRun(nodeFileAccessor, file ?? path, read);
+  // The eigenvalue file and reader found when the runs were searched, when known (what loadRun would find for
+  // that file): the file is not opened and recognised a second time.
+  const reader = found && readerById(found.readerId);
+  const bs = reader
+    ? await readLocated(nodeFileAccessor, { file: found.file, reader, others: [] }, read)
+    : await loadRun(nodeFileAccessor, path, read);
   const report = analyzeBandStructure(bs, settings);
   return { path, ...analysisJson(bs, report, zero), lattice: bs.lattice, rotations: runCrystal(bs.structure).rotations };
 }
@@ -57,7 +64,7 @@ export async function runTask(task: BatchTask): Promise<BatchResult> {
         return {
           kind: 'analyze',
           path,
-          line: JSON.stringify(await analyzeLine(path, task.settings, task.read, task.zero ?? 'vbm', task.file)),
+          line: JSON.stringify(await analyzeLine(path, task.settings, task.read, task.zero ?? 'vbm', task.found)),
           failed: false,
         };
       } catch (e) {
