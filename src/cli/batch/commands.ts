@@ -7,7 +7,8 @@ import type { FileOutcome, FoundAnnotations } from '../commands/check';
 import type { EnergyZeroMode } from '../../core/report/energyZero';
 import type { ReadFlags } from '../commands/annotate';
 import { nodeFileAccessor } from '../nodeFileAccessor';
-import { findRuns } from './findRuns';
+import type { Worker } from 'node:worker_threads';
+import { findRuns, type FoundRuns } from './findRuns';
 import { inShard } from './shard';
 import { prestartWorkers, runPool } from './pool';
 import { progressReporter, type BatchOptions } from './batchOptions';
@@ -16,6 +17,36 @@ import type { BatchTask } from './tasks';
 function shardNote(opts: BatchOptions, kept: number, all: number, what: string): string | null {
   if (!opts.shard) return null;
   return `shard ${opts.shard.index}/${opts.shard.count}: ${kept} of the ${all} ${what}`;
+}
+
+/**
+ * The runs under `roots`, with the pool's workers started meanwhile (their start overlaps the search). Null,
+ * the workers stopped and a sentence on stderr, when there are none.
+ */
+async function runsWithWorkers(
+  roots: string[],
+  opts: BatchOptions,
+  io: CliIO,
+  command: string,
+): Promise<{ found: FoundRuns; workers: Worker[] } | null> {
+  const workers = prestartWorkers(opts.jobs);
+  const stop = (): void => {
+    for (const w of workers) void w.terminate();
+  };
+  let found: FoundRuns;
+  try {
+    found = await findRuns(nodeFileAccessor, roots);
+  } catch (e) {
+    stop();
+    throw e;
+  }
+  for (const n of found.notes) io.err(`valleyscope: ${n}`);
+  if (found.runs.length === 0) {
+    stop();
+    io.err(`valleyscope ${command}: no eigenvalue files found under ${roots.join(', ')}`);
+    return null;
+  }
+  return { found, workers };
 }
 
 /** `analyze --jsonl`: one line per run, in path order; exit 1 when any run failed (its line says why). */
@@ -27,20 +58,9 @@ export async function analyzeBatch(
   io: CliIO,
   zero: EnergyZeroMode = 'vbm',
 ): Promise<number> {
-  const workers = prestartWorkers(opts.jobs);
-  let found;
-  try {
-    found = await findRuns(nodeFileAccessor, roots);
-  } catch (e) {
-    for (const w of workers) void w.terminate();
-    throw e;
-  }
-  for (const n of found.notes) io.err(`valleyscope: ${n}`);
-  if (found.runs.length === 0) {
-    for (const w of workers) void w.terminate();
-    io.err(`valleyscope analyze: no eigenvalue files found under ${roots.join(', ')}`);
-    return 1;
-  }
+  const search = await runsWithWorkers(roots, opts, io, 'analyze');
+  if (!search) return 1;
+  const { found, workers } = search;
   const runs = found.runs.filter((r) => inShard(r, opts.shard));
   const note = shardNote(opts, runs.length, found.runs.length, 'runs');
   if (note) io.err(`valleyscope: ${note}`);
@@ -96,12 +116,9 @@ export async function annotateBatch(
   opts: BatchOptions,
   io: CliIO,
 ): Promise<number> {
-  const found = await findRuns(nodeFileAccessor, roots);
-  for (const n of found.notes) io.err(`valleyscope: ${n}`);
-  if (found.runs.length === 0) {
-    io.err(`valleyscope annotate: no eigenvalue files found under ${roots.join(', ')}`);
-    return 1;
-  }
+  const search = await runsWithWorkers(roots, opts, io, 'annotate');
+  if (!search) return 1;
+  const { found, workers } = search;
   const runs = found.runs.filter((r) => inShard(r, opts.shard));
   let failed = 0;
   const progress = progressReporter(io.progress, 'runs annotated');
@@ -121,6 +138,7 @@ export async function annotateBatch(
       if (r.error !== null) io.err(`valleyscope: ${r.error}`);
     },
     progress.update,
+    workers,
   );
   progress.clear();
   return failed > 0 ? 1 : 0;

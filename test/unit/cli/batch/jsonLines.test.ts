@@ -242,4 +242,17 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
       assert.match((r.messages as string[])[0]!, /\.valleys\.json: (unchanged|updated)/);
     }
   });
+  it('analyze and annotate over folders holding no run (workers prestarted): a sentence and exit 1', async () => {
+    const empty = mkdtempSync(join(tmpdir(), 'vs-batch-empty-'));
+    mkdirSync(join(empty, 'nothing-here'));
+    for (const argv of [
+      ['analyze', empty, '--jsonl', '--jobs', '2'],
+      ['annotate', empty, '--jobs', '2'],
+    ]) {
+      const io = capture();
+      assert.equal(await main(argv, io), 1);
+      assert.match(io.stderr, new RegExp(`valleyscope ${argv[0]}: no eigenvalue files found under`));
+      assert.equal(io.stdout, '');
+    }
+  });
 });
