@@ -11,6 +11,7 @@ import { openLocalRanged } from './localRangedSource';
 import { analyzeBandStructure, type AnalysisSettings } from '../core/analysis/analyze';
 import { ReaderError, ValleyscopeError, CancelledError } from '../core/errors';
 import { ensureSymmetryReady } from '../core/lattice/symmetry';
+import { meshRunForView, type ViewRun } from './meshRunView';
 
 /**
  * Load what analysis needs before the first job in a thread: the crystal-symmetry module (its WebAssembly is
@@ -34,12 +35,19 @@ export interface AnalysisJob {
   companions: InputFile[];
   read: Pick<ReadOptions, 'spinorbit' | 'alatAngstrom' | 'allowPartial'>;
   settings: AnalysisSettings;
+  /** Also make what the band view shows (a mesh run's interpolated bands along the path: meshRunView.ts). */
+  forView?: boolean;
 }
 
-export interface AnalysisOutcome {
-  bs: BandStructure;
-  report: Report;
+/** The band view's picture of a run already read and analysed, made on the worker (meshRunView.ts). */
+export interface MeshViewJob {
+  kind: 'meshView';
+  run: { bs: BandStructure; report: Report };
+  settings: AnalysisSettings;
 }
+
+/** The run as read and analysed; with `forView`, as the band view shows it (a mesh run's points on the path). */
+export type AnalysisOutcome = ViewRun;
 
 /** An error as it crosses a thread boundary (class identity is lost in structured clone). */
 export interface JobError {
@@ -75,7 +83,7 @@ export async function runAnalysisJob(job: AnalysisJob, hooks: JobHooks = {}): Pr
   } else bs = await readFromBytes(reader, job.main, job.companions, options);
   if (hooks.isCancelled?.()) throw new CancelledError();
   const report = analyzeBandStructure(bs, job.settings);
-  return { bs, report };
+  return job.forView ? meshRunForView({ bs, report }, job.settings) : { bs, report };
 }
 
 export function toJobError(e: unknown): JobError {
@@ -113,4 +121,16 @@ export function transferablesOf(bs: BandStructure): ArrayBuffer[] {
   bs.occupations?.forEach(add);
   if (bs.structure) add(bs.structure.positions);
   return [...set];
+}
+
+/** The typed arrays of a view outcome (the band structure's and the mesh points'), for transfer. */
+export function outcomeTransferables(out: AnalysisOutcome): ArrayBuffer[] {
+  const list = transferablesOf(out.bs);
+  const m = out.meshPoints;
+  if (m) {
+    for (const a of [m.distance, m.kpoints, m.irreducible, ...m.energies]) {
+      if (a.buffer instanceof ArrayBuffer && !list.includes(a.buffer)) list.push(a.buffer);
+    }
+  }
+  return list;
 }

@@ -13,8 +13,9 @@ import type { AnalysisSettings } from '../core/analysis/analyze';
 import { CancelledError } from '../core/errors';
 import { WorkspaceFileAccessor } from './fileAccessor';
 import { fromJobError, prepareAnalysis, runAnalysisJob, type AnalysisJob, type AnalysisOutcome } from './analysisJob';
-import type { WorkerReply } from './workerMessages';
-import { meshRunForView } from './meshRunView';
+import type { WorkerReply, WorkerRequest } from './workerMessages';
+import { meshViewWanted } from './meshRunView';
+import type { MeshPointsWithEnergies } from '../core/interpolation/meshPointsOnPath';
 
 export interface LoadedRun {
   /** The URI the user opened (a file or a run folder). */
@@ -26,6 +27,8 @@ export interface LoadedRun {
   geometry: PathGeometry;
   /** Size of the eigenvalue file in bytes when read (used to notice growth). */
   size: number;
+  /** A mesh run shown as interpolated bands: its mesh points on the path, with their energies (data). */
+  meshPoints?: MeshPointsWithEnergies;
 }
 
 export interface LoadOptions {
@@ -71,23 +74,28 @@ export async function loadAndAnalyze(
     const companions = await readCompanions(fs, loc);
     fs.release();
     if (token.isCancellationRequested) throw new CancelledError();
+    const size = stream ? st.size : bytes.byteLength;
+    const useWorker = workerAvailable && size >= opts.workerThresholdBytes;
+    // A mesh run is shown as its interpolated bands along the standard path (meshRunView.ts): made by the
+    // job where it runs on the worker or where there is no worker, else by a second job on the worker below.
     const job: AnalysisJob = {
       readerId: loc.reader.id,
       main: { path: loc.file, bytes },
       companions,
       read: { allowPartial: true },
       settings: opts.settings,
+      forView: useWorker || !workerAvailable,
     };
     if (stream) job.streamFrom = fileUri.fsPath;
-    const size = stream ? st.size : bytes.byteLength;
-    const useWorker = workerAvailable && size >= opts.workerThresholdBytes;
     const done = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, token, progress);
-    // A mesh run is shown as its interpolated bands along the standard path (meshRunView.ts).
-    const out = meshRunForView(done, opts.settings);
+    const out =
+      job.forView || !meshViewWanted(done) ? done : await meshViewInWorker(opts.workerScript!, done, opts.settings, token, progress);
     const notice = otherCandidatesNotice(loc);
     if (notice) out.report.warnings.push(notice);
     progress(1, 'path geometry');
-    return { uri, fileUri, bs: out.bs, report: out.report, geometry: pathGeometry(out.bs), size };
+    const loaded: LoadedRun = { uri, fileUri, bs: out.bs, report: out.report, geometry: pathGeometry(out.bs), size };
+    if (out.meshPoints) loaded.meshPoints = out.meshPoints;
+    return loaded;
   } finally {
     fs.release();
   }
@@ -101,6 +109,40 @@ function runInProcess(job: AnalysisJob, token: vscode.CancellationToken, progres
 }
 
 function runInWorker(script: string, job: AnalysisJob, token: vscode.CancellationToken, progress: ProgressSink): Promise<AnalysisOutcome> {
+  const b = job.main.bytes;
+  const whole = b.byteOffset === 0 && b.byteLength === b.buffer.byteLength && b.buffer instanceof ArrayBuffer;
+  return inWorker(script, job, whole ? [b.buffer] : [], token, progress);
+}
+
+/**
+ * A small mesh run read and analysed here, shown as its interpolated bands: the interpolation runs on a worker
+ * (seconds on large meshes). The run is copied over (the host keeps it: a failed worker leaves it shown as its
+ * points, with the reason).
+ */
+async function meshViewInWorker(
+  script: string,
+  run: AnalysisOutcome,
+  settings: AnalysisJob['settings'],
+  token: vscode.CancellationToken,
+  progress: ProgressSink,
+): Promise<AnalysisOutcome> {
+  progress(0, 'interpolating the mesh along the path');
+  try {
+    return await inWorker(script, { kind: 'meshView', run: { bs: run.bs, report: run.report }, settings }, [], token, progress);
+  } catch (e) {
+    if (e instanceof CancelledError) throw e;
+    run.report.warnings.push(`The interpolated bands could not be drawn along a path: ${e instanceof Error ? e.message : String(e)}`);
+    return run;
+  }
+}
+
+function inWorker(
+  script: string,
+  request: WorkerRequest,
+  transfer: ArrayBuffer[],
+  token: vscode.CancellationToken,
+  progress: ProgressSink,
+): Promise<AnalysisOutcome> {
   return new Promise<AnalysisOutcome>((resolve, reject) => {
     const worker = new Worker(script);
     let settled = false;
@@ -114,13 +156,12 @@ function runInWorker(script: string, job: AnalysisJob, token: vscode.Cancellatio
     const sub = token.onCancellationRequested(() => finish(() => reject(new CancelledError())));
     worker.on('message', (m: WorkerReply) => {
       if (m.type === 'progress') progress(m.fraction, 'reading');
-      else if (m.type === 'done') finish(() => resolve({ bs: m.bs, report: m.report }));
+      else if (m.type === 'done')
+        finish(() => resolve({ bs: m.bs, report: m.report, ...(m.meshPoints ? { meshPoints: m.meshPoints } : {}) }));
       else finish(() => reject(fromJobError(m.error)));
     });
     worker.on('error', (e) => finish(() => reject(new Error(`analysis worker failed: ${e.message}`))));
     worker.on('exit', (code) => finish(() => reject(new Error(`analysis worker stopped (exit code ${code})`))));
-    const b = job.main.bytes;
-    const whole = b.byteOffset === 0 && b.byteLength === b.buffer.byteLength && b.buffer instanceof ArrayBuffer;
-    worker.postMessage(job, whole ? [b.buffer] : []);
+    worker.postMessage(request, transfer);
   });
 }
