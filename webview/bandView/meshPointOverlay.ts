@@ -106,3 +106,32 @@ function drawLegend(g: Group): void {
     .attr('y', y0 + 29)
     .text(INTERPOLATED_LINE_NAME);
 }
+
+/**
+ * The exported figure's mesh points (exportPlot.ts): one path of small open diamonds (half-size r, figure
+ * units) for the points inside the box, with a title naming them; '' when none is inside.
+ */
+export function exportMeshPoints(
+  m: MeshPointsView,
+  spins: readonly number[],
+  at: { x: (d: number) => number; y: (e: number) => number; offset: number },
+  box: { left: number; top: number; right: number; bottom: number },
+  style: { ink: string; r: number },
+): string {
+  const d: string[] = [];
+  const f = (n: number): string => (Math.round(n * 100) / 100).toString();
+  for (const spin of spins) {
+    const e = m.energies[spin];
+    for (let i = 0; e && i < m.count; i++) {
+      const px = at.x(m.distance[i]!);
+      for (let b = 0; b < m.nBands; b++) {
+        const py = at.y(e[i * m.nBands + b]! - at.offset);
+        if (px < box.left || px > box.right || py < box.top || py > box.bottom) continue;
+        d.push(`M${f(px)},${f(py - style.r)}l${style.r},${style.r}l${-style.r},${style.r}l${-style.r},${-style.r}Z`);
+      }
+    }
+  }
+  if (d.length === 0) return '';
+  const title = `${MESH_POINT_NAME}: the run's energies at the mesh points on the path; the lines are ${INTERPOLATED_LINE_NAME}`;
+  return `<path class="mesh-points" d="${d.join('')}" stroke="${style.ink}" stroke-width="0.4" fill="#ffffff"><title>${title}</title></path>`;
+}
