@@ -5,9 +5,7 @@
  * (fixtures/demo/tessellite-mesh: the simple-cubic tight-binding model of scripts/meshModel, 12×12×12 mesh).
  */
 import assert from 'node:assert/strict';
-import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { Worker } from 'node:worker_threads';
 import { runAnalysisJob, type AnalysisJob, type MeshViewJob } from '../../../src/extension/analysisJob';
 import type { WorkerReply, WorkerRequest } from '../../../src/extension/workerMessages';
 import { meshRunForView } from '../../../src/extension/meshRunView';
@@ -16,25 +14,16 @@ import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { reportToJson } from '../../../src/core/report/reportJson';
 import { axisValleyBands } from '../../../scripts/meshModel/axisValleyModel';
 import { TESSELLITE } from '../../../scripts/meshModel/demoMeshRun';
+import { analysisWorkerThread, folderJob } from './demoRun';
 
 const MESH_DIR = join(__dirname, '../../../fixtures/demo/tessellite-mesh');
 
 function meshJob(forView: boolean): AnalysisJob {
-  const read = (n: string) => ({ path: join(MESH_DIR, n), bytes: new Uint8Array(readFileSync(join(MESH_DIR, n))) });
-  return {
-    readerId: 'vasp-eigenval',
-    main: read('EIGENVAL'),
-    companions: [read('POSCAR'), read('KPOINTS')],
-    read: { allowPartial: true },
-    settings: DEFAULT_SETTINGS,
-    forView,
-  };
+  return folderJob(MESH_DIR, 'EIGENVAL', ['POSCAR', 'KPOINTS'], forView);
 }
 
 function inWorker(request: WorkerRequest): Promise<WorkerReply> {
-  // The worker's TypeScript source, compiled on the fly by tsx's require hook (the bundle does this at build time).
-  const entry = join(__dirname, '../../../src/extension/analysisWorker.ts');
-  const worker = new Worker(`require('tsx/cjs/api').register(); require(${JSON.stringify(entry)});`, { eval: true });
+  const worker = analysisWorkerThread();
   return new Promise<WorkerReply>((resolve, reject) => {
     worker.on('message', (m: WorkerReply) => {
       if (m.type !== 'progress') resolve(m);

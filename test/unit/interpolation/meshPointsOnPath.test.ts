@@ -1,10 +1,7 @@
 import assert from 'node:assert/strict';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
 import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
-import { loadRun } from '../../../src/core/load';
-import { nodeFileAccessor } from '../../../src/cli/nodeFileAccessor';
+import { readFromBytes } from '../../../src/core/load';
+import { readerById } from '../../../src/core/formats/index';
 import { interpolatedPathRun } from '../../../src/core/analysis/meshRunPath';
 import { pathGeometry } from '../../../src/core/lattice/kpath';
 import { meshPointsOnSegment, meshRunPointsOnPath } from '../../../src/core/interpolation/meshPointsOnPath';
@@ -61,18 +58,13 @@ describe('mesh points on a path (pure geometry)', () => {
 describe('mesh points of a mesh run on its interpolated path', function () {
   this.timeout(120000);
   const MODEL: AxisValleyParameters = { L: 3.8, v0: -0.3, tv: 0.45, ec: 5.2, a: -1.6295, b: 0.25, B: 1.2 };
-  let dir = '';
   let mesh: BandStructure;
   before(async () => {
     await ensureSymmetryReady();
-    dir = mkdtempSync(join(tmpdir(), 'vs-meshpoints-'));
+    // Read from the bytes in memory, as the editor hands them to the reader (no files needed).
     const run = axisValleyMeshRun(MODEL, 12, 'axis-valley mesh points');
-    writeFileSync(join(dir, 'EIGENVAL'), run.eigenval);
-    writeFileSync(join(dir, 'POSCAR'), run.poscar);
-    mesh = await loadRun(nodeFileAccessor, dir);
-  });
-  after(() => {
-    if (dir) rmSync(dir, { recursive: true, force: true });
+    const bytes = (path: string, text: string) => ({ path, bytes: new TextEncoder().encode(text) });
+    mesh = await readFromBytes(readerById('vasp-eigenval')!, bytes('EIGENVAL', run.eigenval), [bytes('POSCAR', run.poscar)]);
   });
 
   it('simple cubic 12³: seven points per segment of Γ–X–M–Γ–R–X|M–R, at sixths, carrying the model energies', () => {
