@@ -121,6 +121,20 @@ describe('band view: a mesh run drawn as interpolated bands with its mesh points
     await v.page.mouse.move(between.x, between.y);
     await waitForExpression(v.page, `document.querySelector('.vs-readout').textContent.indexOf('mesh point') < 0`);
     assert.match((await v.page.locator('.vs-readout').textContent()) ?? '', / · interpolated$/);
+    // By keyboard, the status line says the same of the selected extremum: the VBM at Γ is a mesh point (the first
+    // point of a Γ-centred mesh file); the CBM of the model at x₀ ≈ 0.78 of Γ–X lies between mesh points (12 x₀/2
+    // is not an integer; axisValleyTruth, analytic model).
+    await v.page.focus('.vs-plot');
+    await v.page.keyboard.press('ArrowDown');
+    await waitForExpression(v.page, `document.querySelector('.vs-status').textContent.indexOf('Valence-band maximum') >= 0`);
+    assert.match(
+      (await v.page.locator('.vs-status').textContent()) ?? '',
+      /interpolated; mesh point \(data\) here: k-point 1 of the file, 0\.0000 eV\. Enter fits it\.$/,
+    );
+    await v.page.keyboard.press('Escape');
+    await v.page.keyboard.press('ArrowUp');
+    await waitForExpression(v.page, `document.querySelector('.vs-status').textContent.indexOf('Conduction-band minimum') >= 0`);
+    assert.match((await v.page.locator('.vs-status').textContent()) ?? '', / · interpolated\. Enter fits it\.$/);
     await v.page.close();
   });
 

@@ -60,11 +60,14 @@ export function meshPointsSentence(m: MeshPointsView): string {
 export function meshPointTitle(m: MeshPointsView, i: number, spin: number, band0: number, energyName: string, offset: number): string {
   const k = fracK(m.kpoints.subarray(3 * i, 3 * i + 3));
   const spinText = m.energies.length === 2 ? (spin === 0 ? ', spin up' : ', spin down') : '';
-  const e = fixed(m.energies[spin]![i * m.nBands + band0]! - offset, 4);
+  const e = energy4(m.energies[spin]![i * m.nBands + band0]! - offset);
   return `${capitalised(MESH_POINT_NAME)}: band ${band0 + 1}${spinText}, k = ${k} (k-point ${m.fileKpoint[i]} of the file, by symmetry), ${energyName} = ${e} eV.`;
 }
 
 const capitalised = (s: string): string => s.charAt(0).toUpperCase() + s.slice(1);
+
+/** An energy with 4 decimals, without a minus sign on a value that rounds to zero. */
+const energy4 = (e: number): string => fixed(Math.abs(e) < 5e-5 ? 0 : e, 4);
 
 /**
  * The mesh point drawn nearest a path distance, when it is within `reach` (path units): the read-out then says
@@ -86,6 +89,6 @@ export function meshPointNear(m: MeshPointsView, x: number, reach: number): numb
 /** What the read-out adds for a point of an interpolated band: the data at a mesh point there, or that it is interpolated. */
 export function meshPointNote(m: MeshPointsView, i: number, spin: number, band0: number, offset: number): string {
   if (i < 0 || band0 >= m.nBands) return ` · ${INTERPOLATED_LINE_NAME}`;
-  const e = fixed(m.energies[spin]![i * m.nBands + band0]! - offset, 4);
+  const e = energy4(m.energies[spin]![i * m.nBands + band0]! - offset);
   return ` · ${INTERPOLATED_LINE_NAME}; ${MESH_POINT_NAME} here: k-point ${m.fileKpoint[i]} of the file, ${e} eV`;
 }
