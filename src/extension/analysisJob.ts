@@ -39,11 +39,20 @@ export interface AnalysisJob {
   forView?: boolean;
 }
 
-/** The band view's picture of a run already read and analysed, made on the worker (meshRunView.ts). */
+/**
+ * A mesh run read on the host, analysed (when `report` is absent) and made into the band view's picture on the
+ * worker (meshRunView.ts): both interpolate, which takes seconds on large meshes.
+ */
 export interface MeshViewJob {
   kind: 'meshView';
-  run: { bs: BandStructure; report: Report };
+  run: { bs: BandStructure; report?: Report };
   settings: AnalysisSettings;
+}
+
+/** The analysis and band-view picture of a mesh view job. */
+export function runMeshViewJob(job: MeshViewJob): AnalysisOutcome {
+  const report = job.run.report ?? analyzeBandStructure(job.run.bs, job.settings);
+  return meshRunForView({ bs: job.run.bs, report }, job.settings);
 }
 
 /** The run as read and analysed; with `forView`, as the band view shows it (a mesh run's points on the path). */
@@ -66,6 +75,17 @@ export interface JobHooks {
 }
 
 export async function runAnalysisJob(job: AnalysisJob, hooks: JobHooks = {}): Promise<AnalysisOutcome> {
+  return analyzeRead(await readJobInput(job, hooks), job);
+}
+
+/** The analysis of a run read by `readJobInput` (with `forView`, the band view's picture of a mesh run). */
+export function analyzeRead(bs: BandStructure, job: Pick<AnalysisJob, 'settings' | 'forView'>): AnalysisOutcome {
+  const report = analyzeBandStructure(bs, job.settings);
+  return job.forView ? meshRunForView({ bs, report }, job.settings) : { bs, report };
+}
+
+/** The run of a job, read (streamed from disk when `streamFrom` is given), not yet analysed. */
+export async function readJobInput(job: AnalysisJob, hooks: JobHooks = {}): Promise<BandStructure> {
   const reader = readerById(job.readerId);
   if (!reader) throw new ValleyscopeError(`${job.main.path}: no reader named ${job.readerId}`);
   const options: ReadOptions = { ...job.read };
@@ -82,8 +102,7 @@ export async function runAnalysisJob(job: AnalysisJob, hooks: JobHooks = {}): Pr
     }
   } else bs = await readFromBytes(reader, job.main, job.companions, options);
   if (hooks.isCancelled?.()) throw new CancelledError();
-  const report = analyzeBandStructure(bs, job.settings);
-  return job.forView ? meshRunForView({ bs, report }, job.settings) : { bs, report };
+  return bs;
 }
 
 export function toJobError(e: unknown): JobError {

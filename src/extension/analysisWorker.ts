@@ -5,10 +5,9 @@
  * meshes. Cancellation is by terminating the worker.
  */
 import { parentPort } from 'node:worker_threads';
-import { outcomeTransferables, prepareAnalysis, runAnalysisJob, toJobError, type AnalysisOutcome } from './analysisJob';
+import { outcomeTransferables, prepareAnalysis, runAnalysisJob, runMeshViewJob, toJobError, type AnalysisOutcome } from './analysisJob';
 import { isMeshViewJob, type WorkerReply, type WorkerRequest } from './workerMessages';
 import { installNativeSha256IfAvailable } from './nativeHashInWorker';
-import { meshRunForView } from './meshRunView';
 
 const port = parentPort;
 if (port) {
@@ -21,7 +20,7 @@ if (port) {
     try {
       await prepared;
       let out: AnalysisOutcome;
-      if (isMeshViewJob(job)) out = meshRunForView(job.run, job.settings);
+      if (isMeshViewJob(job)) out = runMeshViewJob(job);
       else {
         out = await runAnalysisJob(job, {
           onProgress: (f) => {

@@ -29,13 +29,16 @@ export interface ViewRun {
   meshPoints?: MeshPointsWithEnergies;
 }
 
-/** True for a run the view shows as interpolated bands (an interpolated analysis, or a mesh run without a gap). */
-export function meshViewWanted(run: { bs: BandStructure; report: Report }): boolean {
-  return run.report.interpolation !== undefined || mayBeMeshRun(run.bs, localRun(run.bs) !== null);
+/**
+ * True for a run the view shows as interpolated bands: the k-points may be a mesh (the analysis interpolates
+ * exactly these runs when they have a gap; a mesh run without one is drawn interpolated too). Cheap: no fit.
+ */
+export function isMeshRun(bs: BandStructure): boolean {
+  return mayBeMeshRun(bs, localRun(bs) !== null);
 }
 
 export function meshRunForView(run: ViewRun, settings: AnalysisSettings): ViewRun {
-  if (!meshViewWanted(run)) return run;
+  if (!isMeshRun(run.bs)) return run;
   if (run.bs.nk > MAX_PATH_VIEW_POINTS) {
     if (run.report.interpolation) {
       run.report.warnings.push(

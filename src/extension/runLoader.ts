@@ -12,9 +12,9 @@ import type { BandStructure, Report } from '../core/model';
 import type { AnalysisSettings } from '../core/analysis/analyze';
 import { CancelledError } from '../core/errors';
 import { WorkspaceFileAccessor } from './fileAccessor';
-import { fromJobError, prepareAnalysis, runAnalysisJob, type AnalysisJob, type AnalysisOutcome } from './analysisJob';
+import { analyzeRead, fromJobError, prepareAnalysis, readJobInput, type AnalysisJob, type AnalysisOutcome } from './analysisJob';
 import type { WorkerReply, WorkerRequest } from './workerMessages';
-import { meshViewWanted } from './meshRunView';
+import { isMeshRun } from './meshRunView';
 import type { MeshPointsWithEnergies } from '../core/interpolation/meshPointsOnPath';
 
 export interface LoadedRun {
@@ -76,8 +76,9 @@ export async function loadAndAnalyze(
     if (token.isCancellationRequested) throw new CancelledError();
     const size = stream ? st.size : bytes.byteLength;
     const useWorker = workerAvailable && size >= opts.workerThresholdBytes;
-    // A mesh run is shown as its interpolated bands along the standard path (meshRunView.ts): made by the
-    // job where it runs on the worker or where there is no worker, else by a second job on the worker below.
+    // A mesh run is shown as its interpolated bands along the standard path (meshRunView.ts): made by the job
+    // where it runs on the worker or where there is no worker; a small mesh run read here is analysed and made
+    // into that picture on the worker (both interpolate: seconds on large meshes). Path runs as before.
     const job: AnalysisJob = {
       readerId: loc.reader.id,
       main: { path: loc.file, bytes },
@@ -87,9 +88,7 @@ export async function loadAndAnalyze(
       forView: useWorker || !workerAvailable,
     };
     if (stream) job.streamFrom = fileUri.fsPath;
-    const done = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, token, progress);
-    const out =
-      job.forView || !meshViewWanted(done) ? done : await meshViewInWorker(opts.workerScript!, done, opts.settings, token, progress);
+    const out = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, opts, token, progress);
     const notice = otherCandidatesNotice(loc);
     if (notice) out.report.warnings.push(notice);
     progress(1, 'path geometry');
@@ -101,11 +100,18 @@ export async function loadAndAnalyze(
   }
 }
 
-function runInProcess(job: AnalysisJob, token: vscode.CancellationToken, progress: ProgressSink): Promise<AnalysisOutcome> {
-  return runAnalysisJob(job, {
+async function runInProcess(
+  job: AnalysisJob,
+  opts: LoadOptions,
+  token: vscode.CancellationToken,
+  progress: ProgressSink,
+): Promise<AnalysisOutcome> {
+  const bs = await readJobInput(job, {
     isCancelled: () => token.isCancellationRequested,
     onProgress: (f) => progress(f, 'reading'),
   });
+  if (job.forView || !isMeshRun(bs)) return analyzeRead(bs, job);
+  return meshViewInWorker(opts.workerScript!, bs, opts.settings, token, progress);
 }
 
 function runInWorker(script: string, job: AnalysisJob, token: vscode.CancellationToken, progress: ProgressSink): Promise<AnalysisOutcome> {
@@ -115,22 +121,23 @@ function runInWorker(script: string, job: AnalysisJob, token: vscode.Cancellatio
 }
 
 /**
- * A small mesh run read and analysed here, shown as its interpolated bands: the interpolation runs on a worker
- * (seconds on large meshes). The run is copied over (the host keeps it: a failed worker leaves it shown as its
- * points, with the reason).
+ * A small mesh run read here, analysed and shown as its interpolated bands by a worker (the interpolation takes
+ * seconds on large meshes). The run is copied over; should the worker fail, it is analysed here and shown as its
+ * points, with the reason.
  */
 async function meshViewInWorker(
   script: string,
-  run: AnalysisOutcome,
+  bs: BandStructure,
   settings: AnalysisJob['settings'],
   token: vscode.CancellationToken,
   progress: ProgressSink,
 ): Promise<AnalysisOutcome> {
-  progress(0, 'interpolating the mesh along the path');
+  progress(0, 'interpolating the mesh');
   try {
-    return await inWorker(script, { kind: 'meshView', run: { bs: run.bs, report: run.report }, settings }, [], token, progress);
+    return await inWorker(script, { kind: 'meshView', run: { bs }, settings }, [], token, progress);
   } catch (e) {
     if (e instanceof CancelledError) throw e;
+    const run = analyzeRead(bs, { settings });
     run.report.warnings.push(`The interpolated bands could not be drawn along a path: ${e instanceof Error ? e.message : String(e)}`);
     return run;
   }

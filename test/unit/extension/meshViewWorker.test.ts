@@ -6,15 +6,15 @@
  */
 import assert from 'node:assert/strict';
 import { join } from 'node:path';
-import { runAnalysisJob, type AnalysisJob, type MeshViewJob } from '../../../src/extension/analysisJob';
+import { runAnalysisJob, runMeshViewJob, type AnalysisJob, type MeshViewJob } from '../../../src/extension/analysisJob';
 import type { WorkerReply, WorkerRequest } from '../../../src/extension/workerMessages';
-import { meshRunForView } from '../../../src/extension/meshRunView';
+import { isMeshRun, meshRunForView } from '../../../src/extension/meshRunView';
 import { DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { reportToJson } from '../../../src/core/report/reportJson';
 import { axisValleyBands } from '../../../scripts/meshModel/axisValleyModel';
 import { TESSELLITE } from '../../../scripts/meshModel/demoMeshRun';
-import { analysisWorkerThread, folderJob } from './demoRun';
+import { analysisWorkerThread, folderJob, loadSi } from './demoRun';
 
 const MESH_DIR = join(__dirname, '../../../fixtures/demo/tessellite-mesh');
 
@@ -55,12 +55,13 @@ describe('extension: a mesh run made into the band view on the analysis worker',
     assert.equal(plain.meshPoints, undefined);
   });
 
-  it('on a worker thread: the analysis job with forView, and a meshView job for a run analysed elsewhere, agree with in-process', async () => {
+  it('on a worker thread: the analysis job with forView, and a meshView job for a run read elsewhere, agree with in-process', async () => {
     const local = await runAnalysisJob(meshJob(true));
     const fromJob = await inWorker(meshJob(true));
     assert.equal(fromJob.type, 'done');
     const plain = await runAnalysisJob(meshJob(false));
-    const view: MeshViewJob = { kind: 'meshView', run: { bs: plain.bs, report: plain.report }, settings: DEFAULT_SETTINGS };
+    // As the host sends a small mesh run it has read: the worker analyses it and makes the picture.
+    const view: MeshViewJob = { kind: 'meshView', run: { bs: plain.bs }, settings: DEFAULT_SETTINGS };
     const fromView = await inWorker(view);
     assert.equal(fromView.type, 'done');
     for (const reply of [fromJob, fromView]) {
@@ -73,8 +74,15 @@ describe('extension: a mesh run made into the band view on the analysis worker',
       assert.deepEqual(Array.from(reply.meshPoints.irreducible), Array.from(local.meshPoints!.irreducible));
       assert.deepEqual(Array.from(reply.meshPoints.distance), Array.from(local.meshPoints!.distance));
     }
-    // The same as the in-process call on the run analysed here.
+    // The same as the in-process calls on the run analysed here.
     const direct = meshRunForView({ bs: plain.bs, report: plain.report }, DEFAULT_SETTINGS);
     assert.deepEqual(Array.from(direct.meshPoints!.irreducible), Array.from(local.meshPoints!.irreducible));
+    const job = runMeshViewJob({ kind: 'meshView', run: { bs: plain.bs, report: plain.report }, settings: DEFAULT_SETTINGS });
+    assert.deepEqual(reportToJson(job.report), reportToJson(local.report));
+  });
+
+  it('tells a mesh run from a path run without fitting anything (isMeshRun)', async () => {
+    assert.equal(isMeshRun((await runAnalysisJob(meshJob(false))).bs), true);
+    assert.equal(isMeshRun((await loadSi()).bs), false); // the demo silicon path run
   });
 });
