@@ -14,6 +14,8 @@ import { THEME_VARS } from './support/themes';
 import { axisValleyBands } from '../../scripts/meshModel/axisValleyModel';
 import { TESSELLITE } from '../../scripts/meshModel/demoMeshRun';
 import type { BandStructure } from '../../src/core/model';
+import { decodeArray, encodeArrayBase64, type EncodedArray } from '../../src/protocol';
+import { MAX_MARKER_ELEMENTS } from '../../webview/bandView/meshPointOverlay';
 
 type Marker = { band: number; x: number; y: number; title: string };
 
@@ -149,6 +151,34 @@ describe('band view: a mesh run drawn as interpolated bands with its mesh points
     assert.equal(style.fill, rgb(THEME_VARS.hcLight['--vscode-editor-background']!));
     assert.equal(style.width, '2px');
     await v.page.screenshot({ path: `${ARTIFACTS}/bandview-mesh-points-hc-light.png` });
+    await v.page.close();
+  });
+
+  it('very many markers in view are drawn as one path per band (the redraw stays fast), each still titled', async () => {
+    // The demo's points repeated 20 times: 760 points × the bands in view, more than MAX_MARKER_ELEMENTS.
+    const m = run.data.meshPoints!;
+    const times = 20;
+    const repeat = (a: EncodedArray): EncodedArray => {
+      const v = decodeArray(a);
+      const out = new Float64Array(v.length * times);
+      for (let r = 0; r < times; r++) out.set(v, r * v.length);
+      return encodeArrayBase64(out);
+    };
+    const many = {
+      ...m,
+      count: m.count * times,
+      distance: repeat(m.distance),
+      kpoints: repeat(m.kpoints),
+      fileKpoint: Array.from({ length: times }, () => m.fileKpoint).flat(),
+      energies: m.energies.map(repeat),
+    };
+    const v = await open(h, { ...run.data, meshPoints: many });
+    const drawn = Number(await v.page.locator('g.vs-mesh-points').getAttribute('data-count'));
+    assert.ok(drawn > MAX_MARKER_ELEMENTS, String(drawn));
+    const paths = v.page.locator('g.vs-mesh-points path.vs-mesh-point');
+    assert.ok((await paths.count()) <= run.data.nBands, String(await paths.count()));
+    assert.match((await paths.first().locator('title').textContent()) ?? '', /^mesh point \(data\), band \d+: \d+ points in view$/);
+    assert.deepEqual(v.errors, []);
     await v.page.close();
   });
 
