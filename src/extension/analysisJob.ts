@@ -11,7 +11,7 @@ import { openLocalRanged } from './localRangedSource';
 import { analyzeBandStructure, type AnalysisSettings } from '../core/analysis/analyze';
 import { ReaderError, ValleyscopeError, CancelledError } from '../core/errors';
 import { ensureSymmetryReady } from '../core/lattice/symmetry';
-import { meshRunForView, type ViewRun } from './meshRunView';
+import { MAX_WORKER_VIEW_POINTS, meshRunForView, type ViewRun } from './meshRunView';
 
 /**
  * Load what analysis needs before the first job in a thread: the crystal-symmetry module (its WebAssembly is
@@ -37,6 +37,8 @@ export interface AnalysisJob {
   settings: AnalysisSettings;
   /** Also make what the band view shows (a mesh run's interpolated bands along the path: meshRunView.ts). */
   forView?: boolean;
+  /** With `forView`: most irreducible points drawn interpolated (meshRunView.ts; default MAX_PATH_VIEW_POINTS). */
+  viewPoints?: number;
 }
 
 /**
@@ -52,7 +54,7 @@ export interface MeshViewJob {
 /** The analysis and band-view picture of a mesh view job. */
 export function runMeshViewJob(job: MeshViewJob): AnalysisOutcome {
   const report = job.run.report ?? analyzeBandStructure(job.run.bs, job.settings);
-  return meshRunForView({ bs: job.run.bs, report }, job.settings);
+  return meshRunForView({ bs: job.run.bs, report }, job.settings, MAX_WORKER_VIEW_POINTS);
 }
 
 /** The run as read and analysed; with `forView`, as the band view shows it (a mesh run's points on the path). */
@@ -79,9 +81,9 @@ export async function runAnalysisJob(job: AnalysisJob, hooks: JobHooks = {}): Pr
 }
 
 /** The analysis of a run read by `readJobInput` (with `forView`, the band view's picture of a mesh run). */
-export function analyzeRead(bs: BandStructure, job: Pick<AnalysisJob, 'settings' | 'forView'>): AnalysisOutcome {
+export function analyzeRead(bs: BandStructure, job: Pick<AnalysisJob, 'settings' | 'forView' | 'viewPoints'>): AnalysisOutcome {
   const report = analyzeBandStructure(bs, job.settings);
-  return job.forView ? meshRunForView({ bs, report }, job.settings) : { bs, report };
+  return job.forView ? meshRunForView({ bs, report }, job.settings, job.viewPoints) : { bs, report };
 }
 
 /** The run of a job, read (streamed from disk when `streamFrom` is given), not yet analysed. */

@@ -14,7 +14,7 @@ import { CancelledError } from '../core/errors';
 import { WorkspaceFileAccessor } from './fileAccessor';
 import { analyzeRead, fromJobError, prepareAnalysis, readJobInput, type AnalysisJob, type AnalysisOutcome } from './analysisJob';
 import type { WorkerReply, WorkerRequest } from './workerMessages';
-import { isMeshRun } from './meshRunView';
+import { isMeshRun, MAX_WORKER_VIEW_POINTS } from './meshRunView';
 import type { MeshPointsWithEnergies } from '../core/interpolation/meshPointsOnPath';
 
 export interface LoadedRun {
@@ -88,6 +88,7 @@ export async function loadAndAnalyze(
       forView: useWorker || !workerAvailable,
     };
     if (stream) job.streamFrom = fileUri.fsPath;
+    if (useWorker) job.viewPoints = MAX_WORKER_VIEW_POINTS;
     const out = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, opts, token, progress);
     const notice = otherCandidatesNotice(loc);
     if (notice) out.report.warnings.push(notice);

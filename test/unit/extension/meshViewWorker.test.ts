@@ -8,7 +8,7 @@ import assert from 'node:assert/strict';
 import { join } from 'node:path';
 import { runAnalysisJob, runMeshViewJob, type AnalysisJob, type MeshViewJob } from '../../../src/extension/analysisJob';
 import type { WorkerReply, WorkerRequest } from '../../../src/extension/workerMessages';
-import { isMeshRun, meshRunForView } from '../../../src/extension/meshRunView';
+import { isMeshRun, MAX_PATH_VIEW_POINTS, MAX_WORKER_VIEW_POINTS, meshRunForView } from '../../../src/extension/meshRunView';
 import { DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { reportToJson } from '../../../src/core/report/reportJson';
@@ -79,6 +79,20 @@ describe('extension: a mesh run made into the band view on the analysis worker',
     assert.deepEqual(Array.from(direct.meshPoints!.irreducible), Array.from(local.meshPoints!.irreducible));
     const job = runMeshViewJob({ kind: 'meshView', run: { bs: plain.bs, report: plain.report }, settings: DEFAULT_SETTINGS });
     assert.deepEqual(reportToJson(job.report), reportToJson(local.report));
+  });
+
+  it('a mesh of more irreducible points than the limit opens as its points, saying why (the limit is larger on the worker)', async () => {
+    const plain = await runAnalysisJob(meshJob(false));
+    const n = plain.bs.nk;
+    const small = meshRunForView({ bs: plain.bs, report: structuredClone(plain.report) }, DEFAULT_SETTINGS, n - 1);
+    assert.equal(small.bs, plain.bs);
+    assert.ok(
+      small.report.warnings.some((w) =>
+        w.startsWith(`The interpolated bands are not drawn along a path for more than ${n - 1} irreducible k-points (${n} here)`),
+      ),
+    );
+    assert.equal(meshRunForView({ bs: plain.bs, report: structuredClone(plain.report) }, DEFAULT_SETTINGS, n).bs.sampling, 'path');
+    assert.ok(MAX_WORKER_VIEW_POINTS > MAX_PATH_VIEW_POINTS);
   });
 
   it('tells a mesh run from a path run without fitting anything (isMeshRun)', async () => {
