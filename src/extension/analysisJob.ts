@@ -11,6 +11,7 @@ import { openLocalRanged } from './localRangedSource';
 import { analyzeBandStructure, type AnalysisSettings } from '../core/analysis/analyze';
 import { ReaderError, ValleyscopeError, CancelledError } from '../core/errors';
 import { ensureSymmetryReady } from '../core/lattice/symmetry';
+import { MAX_WORKER_VIEW_POINTS, meshRunForView, type ViewRun } from './meshRunView';
 
 /**
  * Load what analysis needs before the first job in a thread: the crystal-symmetry module (its WebAssembly is
@@ -34,12 +35,30 @@ export interface AnalysisJob {
   companions: InputFile[];
   read: Pick<ReadOptions, 'spinorbit' | 'alatAngstrom' | 'allowPartial'>;
   settings: AnalysisSettings;
+  /** Also make what the band view shows (a mesh run's interpolated bands along the path: meshRunView.ts). */
+  forView?: boolean;
+  /** With `forView`: most irreducible points drawn interpolated (meshRunView.ts; default MAX_PATH_VIEW_POINTS). */
+  viewPoints?: number;
 }
 
-export interface AnalysisOutcome {
-  bs: BandStructure;
-  report: Report;
+/**
+ * A mesh run read on the host, analysed (when `report` is absent) and made into the band view's picture on the
+ * worker (meshRunView.ts): both interpolate, which takes seconds on large meshes.
+ */
+export interface MeshViewJob {
+  kind: 'meshView';
+  run: { bs: BandStructure; report?: Report };
+  settings: AnalysisSettings;
 }
+
+/** The analysis and band-view picture of a mesh view job. */
+export function runMeshViewJob(job: MeshViewJob): AnalysisOutcome {
+  const report = job.run.report ?? analyzeBandStructure(job.run.bs, job.settings);
+  return meshRunForView({ bs: job.run.bs, report }, job.settings, MAX_WORKER_VIEW_POINTS);
+}
+
+/** The run as read and analysed; with `forView`, as the band view shows it (a mesh run's points on the path). */
+export type AnalysisOutcome = ViewRun;
 
 /** An error as it crosses a thread boundary (class identity is lost in structured clone). */
 export interface JobError {
@@ -58,6 +77,17 @@ export interface JobHooks {
 }
 
 export async function runAnalysisJob(job: AnalysisJob, hooks: JobHooks = {}): Promise<AnalysisOutcome> {
+  return analyzeRead(await readJobInput(job, hooks), job);
+}
+
+/** The analysis of a run read by `readJobInput` (with `forView`, the band view's picture of a mesh run). */
+export function analyzeRead(bs: BandStructure, job: Pick<AnalysisJob, 'settings' | 'forView' | 'viewPoints'>): AnalysisOutcome {
+  const report = analyzeBandStructure(bs, job.settings);
+  return job.forView ? meshRunForView({ bs, report }, job.settings, job.viewPoints) : { bs, report };
+}
+
+/** The run of a job, read (streamed from disk when `streamFrom` is given), not yet analysed. */
+export async function readJobInput(job: AnalysisJob, hooks: JobHooks = {}): Promise<BandStructure> {
   const reader = readerById(job.readerId);
   if (!reader) throw new ValleyscopeError(`${job.main.path}: no reader named ${job.readerId}`);
   const options: ReadOptions = { ...job.read };
@@ -74,8 +104,7 @@ export async function runAnalysisJob(job: AnalysisJob, hooks: JobHooks = {}): Pr
     }
   } else bs = await readFromBytes(reader, job.main, job.companions, options);
   if (hooks.isCancelled?.()) throw new CancelledError();
-  const report = analyzeBandStructure(bs, job.settings);
-  return { bs, report };
+  return bs;
 }
 
 export function toJobError(e: unknown): JobError {
@@ -113,4 +142,16 @@ export function transferablesOf(bs: BandStructure): ArrayBuffer[] {
   bs.occupations?.forEach(add);
   if (bs.structure) add(bs.structure.positions);
   return [...set];
+}
+
+/** The typed arrays of a view outcome (the band structure's and the mesh points'), for transfer. */
+export function outcomeTransferables(out: AnalysisOutcome): ArrayBuffer[] {
+  const list = transferablesOf(out.bs);
+  const m = out.meshPoints;
+  if (m) {
+    for (const a of [m.distance, m.kpoints, m.irreducible, ...m.energies]) {
+      if (a.buffer instanceof ArrayBuffer && !list.includes(a.buffer)) list.push(a.buffer);
+    }
+  }
+  return list;
 }

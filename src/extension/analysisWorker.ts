@@ -1,11 +1,12 @@
 /**
  * Worker-thread entry (desktop and remote extension hosts): reads and analyses one file off the extension
- * host's main thread, posting progress, so a large file does not freeze the editor. Cancellation is by
- * terminating the worker.
+ * host's main thread, posting progress, so a large file does not freeze the editor; and makes the band view's
+ * picture of a mesh run (its interpolated bands along the path, meshRunView.ts), which takes seconds on large
+ * meshes. Cancellation is by terminating the worker.
  */
 import { parentPort } from 'node:worker_threads';
-import { prepareAnalysis, runAnalysisJob, toJobError, transferablesOf, type AnalysisJob } from './analysisJob';
-import type { WorkerReply } from './workerMessages';
+import { outcomeTransferables, prepareAnalysis, runAnalysisJob, runMeshViewJob, toJobError, type AnalysisOutcome } from './analysisJob';
+import { isMeshViewJob, type WorkerReply, type WorkerRequest } from './workerMessages';
 import { installNativeSha256IfAvailable } from './nativeHashInWorker';
 
 const port = parentPort;
@@ -14,24 +15,34 @@ if (port) {
   installNativeSha256IfAvailable();
   const prepared = prepareAnalysis();
   // One job per message; every failure (the preparation's too) is answered with a 'failed' reply.
-  const handle = async (job: AnalysisJob): Promise<void> => {
+  const handle = async (job: WorkerRequest): Promise<void> => {
     let last = -1;
     try {
       await prepared;
-      const out = await runAnalysisJob(job, {
-        onProgress: (f) => {
-          // At most ~100 progress messages per job.
-          const step = Math.floor(f * 100);
-          if (step !== last) {
-            last = step;
-            port.postMessage({ type: 'progress', fraction: f } satisfies WorkerReply);
-          }
-        },
-      });
-      port.postMessage({ type: 'done', bs: out.bs, report: out.report } satisfies WorkerReply, transferablesOf(out.bs));
+      let out: AnalysisOutcome;
+      if (isMeshViewJob(job)) out = runMeshViewJob(job);
+      else {
+        out = await runAnalysisJob(job, {
+          onProgress: (f) => {
+            // At most ~100 progress messages per job.
+            const step = Math.floor(f * 100);
+            if (step !== last) {
+              last = step;
+              port.postMessage({ type: 'progress', fraction: f } satisfies WorkerReply);
+            }
+          },
+        });
+      }
+      const reply: WorkerReply = {
+        type: 'done',
+        bs: out.bs,
+        report: out.report,
+        ...(out.meshPoints ? { meshPoints: out.meshPoints } : {}),
+      };
+      port.postMessage(reply, outcomeTransferables(out));
     } catch (e) {
       port.postMessage({ type: 'failed', error: toJobError(e) } satisfies WorkerReply);
     }
   };
-  port.on('message', (job: AnalysisJob) => void handle(job));
+  port.on('message', (job: WorkerRequest) => void handle(job));
 }

@@ -21,6 +21,7 @@ import type { ExtensionSettings } from './settings';
 import type { FitService } from './fitTypes';
 import { targetProblem } from './fitTypes';
 import { buildBandData } from './bandData';
+import { withMeshPoints } from './meshPointsData';
 import { bandViewHtml, makeNonce } from './bandViewHtml';
 import { BAND_VIEW_TYPE } from './commandIds';
 import { environmentFor, writeRefusal } from './trust';
@@ -157,7 +158,8 @@ export class BandViewPanel implements vscode.Disposable {
     const s = this.deps.settings();
     // The header names the run's folder and file and the layout it was read as.
     const layout = readerById(run.bs.source.format)?.label ?? run.bs.source.format;
-    const data = buildBandData(run.bs, run.report, run.geometry, `${fileName(run.fileUri)} (${layout})`, s.analysis, s.energyReference);
+    const title = `${fileName(run.fileUri)} (${layout})`;
+    const data = withMeshPoints(buildBandData(run.bs, run.report, run.geometry, title, s.analysis, s.energyReference), run);
     const environment = environmentFor(run.fileUri);
     this.post({ type: HostToViewType.BandData, data, environment });
     // Also as its own message, so controls that depend on it (save) update the same way as on a trust change.

@@ -12,9 +12,10 @@ import type { BandStructure, Report } from '../core/model';
 import type { AnalysisSettings } from '../core/analysis/analyze';
 import { CancelledError } from '../core/errors';
 import { WorkspaceFileAccessor } from './fileAccessor';
-import { fromJobError, prepareAnalysis, runAnalysisJob, type AnalysisJob, type AnalysisOutcome } from './analysisJob';
-import type { WorkerReply } from './workerMessages';
-import { meshRunForView } from './meshRunView';
+import { analyzeRead, fromJobError, prepareAnalysis, readJobInput, type AnalysisJob, type AnalysisOutcome } from './analysisJob';
+import type { WorkerReply, WorkerRequest } from './workerMessages';
+import { isMeshRun, MAX_WORKER_VIEW_POINTS } from './meshRunView';
+import type { MeshPointsWithEnergies } from '../core/interpolation/meshPointsOnPath';
 
 export interface LoadedRun {
   /** The URI the user opened (a file or a run folder). */
@@ -26,6 +27,8 @@ export interface LoadedRun {
   geometry: PathGeometry;
   /** Size of the eigenvalue file in bytes when read (used to notice growth). */
   size: number;
+  /** A mesh run shown as interpolated bands: its mesh points on the path, with their energies (data). */
+  meshPoints?: MeshPointsWithEnergies;
 }
 
 export interface LoadOptions {
@@ -71,36 +74,83 @@ export async function loadAndAnalyze(
     const companions = await readCompanions(fs, loc);
     fs.release();
     if (token.isCancellationRequested) throw new CancelledError();
+    const size = stream ? st.size : bytes.byteLength;
+    const useWorker = workerAvailable && size >= opts.workerThresholdBytes;
+    // A mesh run is shown as its interpolated bands along the standard path (meshRunView.ts): made by the job
+    // where it runs on the worker or where there is no worker; a small mesh run read here is analysed and made
+    // into that picture on the worker (both interpolate: seconds on large meshes). Path runs as before.
     const job: AnalysisJob = {
       readerId: loc.reader.id,
       main: { path: loc.file, bytes },
       companions,
       read: { allowPartial: true },
       settings: opts.settings,
+      forView: useWorker || !workerAvailable,
     };
     if (stream) job.streamFrom = fileUri.fsPath;
-    const size = stream ? st.size : bytes.byteLength;
-    const useWorker = workerAvailable && size >= opts.workerThresholdBytes;
-    const done = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, token, progress);
-    // A mesh run is shown as its interpolated bands along the standard path (meshRunView.ts).
-    const out = meshRunForView(done, opts.settings);
+    if (useWorker) job.viewPoints = MAX_WORKER_VIEW_POINTS;
+    const out = useWorker ? await runInWorker(opts.workerScript!, job, token, progress) : await runInProcess(job, opts, token, progress);
     const notice = otherCandidatesNotice(loc);
     if (notice) out.report.warnings.push(notice);
     progress(1, 'path geometry');
-    return { uri, fileUri, bs: out.bs, report: out.report, geometry: pathGeometry(out.bs), size };
+    const loaded: LoadedRun = { uri, fileUri, bs: out.bs, report: out.report, geometry: pathGeometry(out.bs), size };
+    if (out.meshPoints) loaded.meshPoints = out.meshPoints;
+    return loaded;
   } finally {
     fs.release();
   }
 }
 
-function runInProcess(job: AnalysisJob, token: vscode.CancellationToken, progress: ProgressSink): Promise<AnalysisOutcome> {
-  return runAnalysisJob(job, {
+async function runInProcess(
+  job: AnalysisJob,
+  opts: LoadOptions,
+  token: vscode.CancellationToken,
+  progress: ProgressSink,
+): Promise<AnalysisOutcome> {
+  const bs = await readJobInput(job, {
     isCancelled: () => token.isCancellationRequested,
     onProgress: (f) => progress(f, 'reading'),
   });
+  if (job.forView || !isMeshRun(bs)) return analyzeRead(bs, job);
+  return meshViewInWorker(opts.workerScript!, bs, opts.settings, token, progress);
 }
 
 function runInWorker(script: string, job: AnalysisJob, token: vscode.CancellationToken, progress: ProgressSink): Promise<AnalysisOutcome> {
+  const b = job.main.bytes;
+  const whole = b.byteOffset === 0 && b.byteLength === b.buffer.byteLength && b.buffer instanceof ArrayBuffer;
+  return inWorker(script, job, whole ? [b.buffer] : [], token, progress);
+}
+
+/**
+ * A small mesh run read here, analysed and shown as its interpolated bands by a worker (the interpolation takes
+ * seconds on large meshes). The run is copied over; should the worker fail, it is analysed here and shown as its
+ * points, with the reason.
+ */
+async function meshViewInWorker(
+  script: string,
+  bs: BandStructure,
+  settings: AnalysisJob['settings'],
+  token: vscode.CancellationToken,
+  progress: ProgressSink,
+): Promise<AnalysisOutcome> {
+  progress(0, 'interpolating the mesh');
+  try {
+    return await inWorker(script, { kind: 'meshView', run: { bs }, settings }, [], token, progress);
+  } catch (e) {
+    if (e instanceof CancelledError) throw e;
+    const run = analyzeRead(bs, { settings });
+    run.report.warnings.push(`The interpolated bands could not be drawn along a path: ${e instanceof Error ? e.message : String(e)}`);
+    return run;
+  }
+}
+
+function inWorker(
+  script: string,
+  request: WorkerRequest,
+  transfer: ArrayBuffer[],
+  token: vscode.CancellationToken,
+  progress: ProgressSink,
+): Promise<AnalysisOutcome> {
   return new Promise<AnalysisOutcome>((resolve, reject) => {
     const worker = new Worker(script);
     let settled = false;
@@ -114,13 +164,12 @@ function runInWorker(script: string, job: AnalysisJob, token: vscode.Cancellatio
     const sub = token.onCancellationRequested(() => finish(() => reject(new CancelledError())));
     worker.on('message', (m: WorkerReply) => {
       if (m.type === 'progress') progress(m.fraction, 'reading');
-      else if (m.type === 'done') finish(() => resolve({ bs: m.bs, report: m.report }));
+      else if (m.type === 'done')
+        finish(() => resolve({ bs: m.bs, report: m.report, ...(m.meshPoints ? { meshPoints: m.meshPoints } : {}) }));
       else finish(() => reject(fromJobError(m.error)));
     });
     worker.on('error', (e) => finish(() => reject(new Error(`analysis worker failed: ${e.message}`))));
     worker.on('exit', (code) => finish(() => reject(new Error(`analysis worker stopped (exit code ${code})`))));
-    const b = job.main.bytes;
-    const whole = b.byteOffset === 0 && b.byteLength === b.buffer.byteLength && b.buffer instanceof ArrayBuffer;
-    worker.postMessage(job, whole ? [b.buffer] : []);
+    worker.postMessage(request, transfer);
   });
 }

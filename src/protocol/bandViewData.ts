@@ -56,6 +56,27 @@ export interface SetAsideMark {
   detail: string;
 }
 
+/**
+ * A mesh run drawn as its interpolated bands: the run's own mesh points (after symmetry expansion) that lie on
+ * the drawn path, with the run's energies there (data, as written), so the view marks where the interpolated
+ * lines are pinned to data.
+ */
+export interface MeshPointsData {
+  count: number;
+  /** Path distance of each point (same units as `distance`), count values. */
+  distance: EncodedArray;
+  /** Fractional k of each point as it lies on the path, count × 3. */
+  kpoints: EncodedArray;
+  /** 1-based number, in the file, of the k-point whose energies hold at each point (by symmetry). */
+  fileKpoint: number[];
+  /** Bands carried per point (the first `nBands` of the drawn bands). */
+  nBands: number;
+  /** One array per spin channel, layout [point * nBands + band0], eV (raw, as in the file). */
+  energies: EncodedArray[];
+  /** Divisions of the mesh, for the read-out. */
+  divisions: [number, number, number];
+}
+
 /** Fit settings the view starts from (the user's settings). */
 export interface FitDefaults {
   window_meV: number;
@@ -95,6 +116,8 @@ export interface BandData {
   defaults: FitDefaults;
   /** The file ended early (a running job): results are provisional. */
   partial: boolean;
+  /** A mesh run shown as interpolated bands: its mesh points on the path (absent otherwise). */
+  meshPoints?: MeshPointsData;
 }
 
 export interface EnvironmentData {

@@ -31,6 +31,7 @@ import { ReviewNote } from './reviewNote';
 import { READ_ONLY_NOTE, Toolbar } from './toolbar';
 import { runMethods, ViewChoices } from './viewChoices';
 import { buildViewModel, energyAt, type ViewModel } from './viewModel';
+import { meshPointsSentence } from './meshPoints';
 import type { ReferenceName, SpinName } from './viewState';
 
 export class BandViewApp {
@@ -164,8 +165,11 @@ export class BandViewApp {
     }
     this.toolbar.showRun(data, this.choices.reference, this.choices.spin);
     this.panel.setCautions(data.report.cautions);
-    this.page.plot.setAttribute('aria-label', plotLabel(data.title, data.nBands, data.nk));
     const vm = this.vm;
+    this.page.plot.setAttribute(
+      'aria-label',
+      plotLabel(data.title, data.nBands, data.nk, vm.meshPoints && meshPointsSentence(vm.meshPoints)),
+    );
     this.nav.candidates = reachableCandidates(vm.marks, vm.extrema, data.setAside, (s, k, b) => energyAt(vm, s, k, b));
     // Keep the selection and zoom on a refresh of the same run (a growing file); reset otherwise.
     if (!prev || prev.nBands !== vm.nBands || prev.data.title !== data.title) {

@@ -9,6 +9,7 @@ import { clearEnvelope, columnEnvelope, createEnvelope, lowerBound } from './dec
 import type { ReferenceChoice } from './energyReference';
 import { edgeMarkerPath, isMaximumKind, secondaryMarkerPath } from './markers';
 import type { ViewModel } from './viewModel';
+import { exportMeshPoints } from './meshPointOverlay';
 
 /** Figure size: 85 mm × 64 mm (a single journal column); user units are points (1/72 in). */
 export const EXPORT_WIDTH_MM = 85;
@@ -139,6 +140,7 @@ export function buildExportSvg(input: ExportInput): { svg: string; width: number
     parts.push(`<path d="${d}" stroke="${PRINT.fit}" stroke-width="1.6" stroke-opacity="0.85"/>`);
   }
   // Markers.
+  const box = { left: m.left, top: m.top, right: m.left + pw, bottom: m.top + ph };
   for (const mk of input.marks) {
     if (!input.spins.includes(mk.spin)) continue;
     const px = x(vm.distance[mk.kIndex]!);
@@ -147,6 +149,9 @@ export function buildExportSvg(input: ExportInput): { svg: string; width: number
     const shape = mk.kind === 'vbm' || mk.kind === 'cbm' ? edgeMarkerPath(2.2, 1.8, 1.2) : secondaryMarkerPath(isMaximumKind(mk.kind), 2);
     parts.push(`<path transform="translate(${f(px)},${f(py)})" d="${shape}" stroke="${PRINT.ink}" stroke-width="0.5" fill="none"/>`);
   }
+  // A mesh run's data points on its interpolated lines.
+  if (vm.meshPoints)
+    parts.push(exportMeshPoints(vm.meshPoints, input.spins, { x, y, offset: reference.offset }, box, { ink: PRINT.ink, r: 1.6 }));
   parts.push(`</g>`);
   // Frame and axes.
   parts.push(`<rect x="${m.left}" y="${m.top}" width="${pw}" height="${ph}" fill="none" stroke="${PRINT.ink}" stroke-width="0.7"/>`);

@@ -35,3 +35,8 @@ export function secondaryMarkerPath(isMaximum: boolean, size = 5): string {
 export function isMaximumKind(kind: string): boolean {
   return kind === 'vbm' || kind === 'peak';
 }
+
+/** A mesh run's data point on its interpolated line: a small open diamond (the line runs through its corners). */
+export function meshPointMarkerPath(r = 3.5): string {
+  return `M0,${-r}L${r},0L0,${r}L${-r},0Z`;
+}

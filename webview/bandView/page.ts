@@ -47,7 +47,7 @@ export function buildPage(toolbar: Toolbar, side: HTMLElement): PlotElements {
   return { plot, canvas, svg: select(svgEl), overlay: svgEl, message, readout, status };
 }
 
-/** The plot's accessible name once a run is shown: what it is and the keys that work on it. */
-export function plotLabel(title: string, nBands: number, nk: number): string {
-  return `Band structure of ${title}: ${nBands} bands at ${nk} k-points. Arrow keys move between band extrema, Enter fits the selected one, plus and minus zoom, 0 resets.`;
+/** The plot's accessible name once a run is shown: what it is and the keys that work on it (and a note, e.g. on mesh points). */
+export function plotLabel(title: string, nBands: number, nk: number, note?: string): string {
+  return `Band structure of ${title}: ${nBands} bands at ${nk} k-points. Arrow keys move between band extrema, Enter fits the selected one, plus and minus zoom, 0 resets.${note ? ` ${note}` : ''}`;
 }

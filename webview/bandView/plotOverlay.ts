@@ -10,7 +10,8 @@ import type { ReferenceChoice } from './energyReference';
 import { edgeMarkerPath, isMaximumKind, secondaryMarkerPath } from './markers';
 import { drawAxes } from './plotAxes';
 import { MARGIN, type OverlaySvg, type Scale } from './plotScales';
-import { markTitle } from './pointText';
+import { energyName, markTitle } from './pointText';
+import { drawMeshPoints } from './meshPointOverlay';
 import type { ViewModel } from './viewModel';
 
 /** The fit shown: the extremum as fitted, its curves and the window asked. */
@@ -100,6 +101,8 @@ export function drawOverlay(svg: OverlaySvg, o: OverlayInput): void {
       .text('E_F');
   }
   if (o.fit) drawFit(plotG, o, o.fit);
+  const m = vm.meshPoints;
+  if (m) drawMeshPoints(svg.append('g'), { m, zx: o.zx, zy, pw, ph, spins: o.spins, offset: off, energyName: energyName(o.reference) });
   drawMarks(svg.append('g').attr('class', 'vs-marks'), o);
   if (o.selected) plotG.append('circle').attr('class', 'vs-selection').attr('cx', o.selected.x).attr('cy', o.selected.y).attr('r', 10);
   if (o.hover) {

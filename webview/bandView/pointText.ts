@@ -7,6 +7,7 @@ import type { ReferenceChoice } from './energyReference';
 import type { Candidate } from './keyNavigation';
 import { fixed, fracK, sig } from '../shared/format';
 import { energyAt, labelNear, type ViewModel } from './viewModel';
+import { meshPointNear, meshPointNote } from './meshPoints';
 
 export function kindName(kind: string): string {
   switch (kind) {
@@ -36,7 +37,17 @@ export function describePoint(vm: ViewModel, ref: ReferenceChoice, spin: number,
   const cart = c ? ` · k = (${fixed(c[3 * k]!, 3)}, ${fixed(c[3 * k + 1]!, 3)}, ${fixed(c[3 * k + 2]!, 3)}) Å⁻¹` : '';
   const spinText = vm.nSpin === 2 ? (spin === 0 ? ' (spin ↑)' : ' (spin ↓)') : '';
   const e = fixed(energyAt(vm, spin, k, band0) - ref.offset, 4);
-  return `k-point ${k + 1}${label ? ` ${label}` : ''} · k = ${fracK(kf)} (fractional)${cart} · band ${band0 + 1}${spinText} · ${energyName(ref)} = ${e} eV`;
+  return `k-point ${k + 1}${label ? ` ${label}` : ''} · k = ${fracK(kf)} (fractional)${cart} · band ${band0 + 1}${spinText} · ${energyName(ref)} = ${e} eV${meshText(vm, ref, spin, k, band0)}`;
+}
+
+/** For a mesh run's interpolated bands: that the point is interpolated, and the data of a mesh point drawn there. */
+function meshText(vm: ViewModel, ref: ReferenceChoice, spin: number, k: number, band0: number): string {
+  const m = vm.meshPoints;
+  if (!m) return '';
+  const d = vm.distance;
+  // The path sample nearest a mesh point is within half a step of it.
+  const reach = 0.5 * Math.max(k > 0 ? d[k]! - d[k - 1]! : 0, k + 1 < vm.nk ? d[k + 1]! - d[k]! : 0);
+  return meshPointNote(m, meshPointNear(m, d[k]!, reach), spin, band0, ref.offset);
 }
 
 /** The status line when an extremum is selected. */

@@ -41,6 +41,12 @@ body.vscode-high-contrast .vs-gap-band, body.vscode-high-contrast-light .vs-gap-
 body.vscode-high-contrast .vs-mark, body.vscode-high-contrast-light .vs-mark { stroke-width: 2.5; }
 .vs-mark-label { fill: var(--vscode-foreground); font-size: 10px; font-weight: 600; paint-order: stroke;
   stroke: var(--vscode-editor-background); stroke-width: 3px; }
+/* A mesh run's data points on its interpolated lines: open diamonds in the text colour (the bands are chart colours). */
+.vs-mesh-point { fill: var(--vscode-editor-background); stroke: var(--vscode-editor-foreground, var(--vscode-foreground)); stroke-width: 1.25; }
+body.vscode-high-contrast .vs-mesh-point, body.vscode-high-contrast-light .vs-mesh-point { stroke-width: 2; }
+.vs-mesh-legend-box { fill: var(--vscode-editor-background); fill-opacity: 0.85; stroke: var(--vscode-foreground); stroke-opacity: 0.35; }
+.vs-mesh-legend text { fill: var(--vscode-foreground); font-size: 11px; }
+.vs-mesh-legend-line { stroke: var(--vscode-charts-blue, var(--vscode-foreground)); stroke-width: 1.5; }
 .vs-selection { fill: none; stroke: var(--vscode-focusBorder); stroke-width: 2; stroke-dasharray: 3 2; }
 .vs-fit-curve { fill: none; stroke: var(--vscode-charts-green); stroke-width: 3; stroke-opacity: 0.9; stroke-linecap: round; }
 .vs-fit-window { stroke: var(--vscode-charts-green); stroke-width: 1; stroke-dasharray: 2 3; }

@@ -6,6 +6,7 @@ import type { BandData, ExtremumMark } from '../../src/protocol';
 import { decodeArray } from '../../src/protocol';
 import { buildPyramid, type EnergyArray, type MinMaxPyramid } from './decimate';
 import { findLocalExtrema, piecesFromSegments, type ExtremaSet, type Piece } from './localExtrema';
+import { decodeMeshPoints, type MeshPointsView } from './meshPoints';
 
 export interface ViewModel {
   data: BandData;
@@ -28,6 +29,8 @@ export interface ViewModel {
   labelAt: Map<number, string>;
   energyMin: number;
   energyMax: number;
+  /** A mesh run drawn as interpolated bands: its data points on the path (meshPoints.ts). */
+  meshPoints?: MeshPointsView;
 }
 
 /** Above this many values per spin channel, build pyramids (smaller data reads faster raw). */
@@ -52,6 +55,7 @@ export function buildViewModel(data: BandData): ViewModel {
   // x must be nondecreasing for the column mapping; path distances are by construction.
   for (let i = 1; i < nk; i++)
     if (distance[i]! < distance[i - 1]!) throw new Error(`band data: path distance decreases at k-point ${i + 1}`);
+  const meshPoints = decodeMeshPoints(data, distance);
   const pieces = piecesFromSegments(data.segments, nk);
   const total = nk * nBands;
   const pyramids = energies.map((e) =>
@@ -94,6 +98,7 @@ export function buildViewModel(data: BandData): ViewModel {
     labelAt,
     energyMin,
     energyMax,
+    ...(meshPoints ? { meshPoints } : {}),
   };
 }
 

@@ -1,29 +1,17 @@
 import assert from 'node:assert/strict';
-import { readFileSync } from 'node:fs';
-import { join } from 'node:path';
-import { Worker } from 'node:worker_threads';
+import type { Worker } from 'node:worker_threads';
 import { runAnalysisJob, toJobError, fromJobError, transferablesOf, type AnalysisJob } from '../../../src/extension/analysisJob';
 import type { WorkerReply } from '../../../src/extension/workerMessages';
-import { DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { ReaderError, CancelledError, ValleyscopeError } from '../../../src/core/errors';
 import { reportToJson } from '../../../src/core/report/reportJson';
-import { loadSi, SI_DIR } from './demoRun';
+import { analysisWorkerThread, folderJob, loadSi, SI_DIR } from './demoRun';
 
 function siJob(): AnalysisJob {
-  const read = (n: string) => ({ path: join(SI_DIR, n), bytes: new Uint8Array(readFileSync(join(SI_DIR, n))) });
-  return {
-    readerId: 'vasp-eigenval',
-    main: read('EIGENVAL'),
-    companions: [read('POSCAR'), read('KPOINTS')],
-    read: { allowPartial: true },
-    settings: DEFAULT_SETTINGS,
-  };
+  return folderJob(SI_DIR, 'EIGENVAL', ['POSCAR', 'KPOINTS']);
 }
 
 function runWorker(job: AnalysisJob, onProgress?: (f: number) => void): { done: Promise<WorkerReply>; worker: Worker } {
-  // The worker's TypeScript source, compiled on the fly by tsx's require hook (the bundle does this at build time).
-  const entry = join(__dirname, '../../../src/extension/analysisWorker.ts');
-  const worker = new Worker(`require('tsx/cjs/api').register(); require(${JSON.stringify(entry)});`, { eval: true });
+  const worker = analysisWorkerThread();
   const done = new Promise<WorkerReply>((resolve, reject) => {
     worker.on('message', (m: WorkerReply) => {
       if (m.type === 'progress') onProgress?.(m.fraction);

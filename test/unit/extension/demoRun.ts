@@ -1,6 +1,8 @@
 /** The demo silicon run (fixtures/demo/si-bulk: Cohen–Bergstresser EPM bands in EIGENVAL layout), loaded as the CLI does. */
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { Worker } from 'node:worker_threads';
+import type { AnalysisJob } from '../../../src/extension/analysisJob';
 import { nodeFileAccessor } from '../../../src/cli/nodeFileAccessor';
 import { loadRun } from '../../../src/core/load';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
@@ -32,4 +34,24 @@ export function composeInputOf(si: Awaited<ReturnType<typeof loadSi>>): ComposeI
     existingText: null,
     existingName: 'EIGENVAL.valleys.json',
   };
+}
+
+/** The host's analysis job for the files of a run folder (the main file, then its companions), read whole. */
+export function folderJob(dir: string, main: string, companions: string[], forView = false): AnalysisJob {
+  const read = (n: string) => ({ path: join(dir, n), bytes: new Uint8Array(readFileSync(join(dir, n))) });
+  const job: AnalysisJob = {
+    readerId: 'vasp-eigenval',
+    main: read(main),
+    companions: companions.map(read),
+    read: { allowPartial: true },
+    settings: DEFAULT_SETTINGS,
+  };
+  if (forView) job.forView = true;
+  return job;
+}
+
+/** The analysis worker from its TypeScript source, compiled on the fly by tsx's require hook (the bundle does this at build time). */
+export function analysisWorkerThread(): Worker {
+  const entry = join(__dirname, '../../../src/extension/analysisWorker.ts');
+  return new Worker(`require('tsx/cjs/api').register(); require(${JSON.stringify(entry)});`, { eval: true });
 }

@@ -8,6 +8,8 @@ import { nodeFileAccessor } from '../../../src/cli/nodeFileAccessor';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { pathGeometry } from '../../../src/core/lattice/kpath';
 import { buildBandData } from '../../../src/extension/bandData';
+import { meshRunForView } from '../../../src/extension/meshRunView';
+import { withMeshPoints } from '../../../src/extension/meshPointsData';
 import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { makeFitService } from '../../../src/extension/fitService';
 import type { LoadedRun as HostRun } from '../../../src/extension/runLoader';
@@ -36,12 +38,16 @@ function toBase64(a: EncodedArray): EncodedArray {
 }
 
 export function jsonSafe(data: BandData): BandData {
+  const m = data.meshPoints;
   return {
     ...data,
     distance: toBase64(data.distance),
     kpoints: toBase64(data.kpoints),
     cartesian: data.cartesian ? toBase64(data.cartesian) : null,
     energies: data.energies.map(toBase64),
+    ...(m
+      ? { meshPoints: { ...m, distance: toBase64(m.distance), kpoints: toBase64(m.kpoints), energies: m.energies.map(toBase64) } }
+      : {}),
   };
 }
 
@@ -50,6 +56,19 @@ export function bandDataFromStructure(bs: BandStructure, title: string): LoadedR
   const geometry = pathGeometry(bs);
   const data = buildBandData(bs, report, geometry, title, DEFAULT_SETTINGS, 'vbm');
   return { bs, report, geometry, data: jsonSafe(data) };
+}
+
+/**
+ * A mesh run as the editor shows it (src/extension/meshRunView.ts): its interpolated bands along the standard
+ * path, with its mesh points on the path (src/extension/meshPointsData.ts). `mesh` is the run as read.
+ */
+export async function loadMeshRunForView(path: string, title: string): Promise<LoadedRun & { mesh: BandStructure }> {
+  await ensureSymmetryReady();
+  const mesh = await loadRun(nodeFileAccessor, path);
+  const shown = meshRunForView({ bs: mesh, report: analyzeBandStructure(mesh, DEFAULT_SETTINGS) }, DEFAULT_SETTINGS);
+  const geometry = pathGeometry(shown.bs);
+  const data = withMeshPoints(buildBandData(shown.bs, shown.report, geometry, title, DEFAULT_SETTINGS, 'vbm'), shown);
+  return { bs: shown.bs, report: shown.report, geometry, data: jsonSafe(data), mesh };
 }
 
 export async function loadRunForView(path: string, title: string): Promise<LoadedRun> {
