@@ -100,6 +100,9 @@ describe('band view: a mesh run drawn as interpolated bands with its mesh points
     const v = await open(h, run.data);
     const label = (await v.page.locator('.vs-plot').getAttribute('aria-label')) ?? '';
     assert.match(label, /\d+ points of the 12×12×12 mesh lie on this path: markers, mesh point \(data\); the lines are interpolated\./);
+    // The caution beside the summary is the interpolation's (every number in this view inherits it), not the
+    // demo's model-data caution that the report also carries.
+    assert.match((await v.page.locator('.vs-caution-line').textContent()) ?? '', /^Caution: Interpolated from a 12×12×12 mesh/);
     const valence = (await markers(v)).filter((m) => m.band === 2).sort((a, b) => a.x - b.x);
     const third = valence[3]!; // (3/12, 0, 0) on Γ–X
     const q = (await v.page.evaluate(`__t.pagePoint(${third.x}, ${third.y})`)) as { x: number; y: number };

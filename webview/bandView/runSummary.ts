@@ -23,9 +23,14 @@ export function gapSummary(data: BandData): string {
   return `gap unknown (no electron count or occupations)${spinors}`;
 }
 
-/** The caution about the gap (the first of the report's cautions that names it), or null. */
+/**
+ * The caution shown beside the summary: for bands drawn from an interpolant (a mesh run's view), the one saying
+ * so, since every number in that view inherits it; otherwise the first of the report's cautions that names the
+ * gap; or null.
+ */
 export function gapCaution(data: BandData): string | null {
-  return data.report.cautions.find((c) => /gap/i.test(c)) ?? null;
+  const cautions = data.report.cautions;
+  return cautions.find((c) => /^Interpolated from\b/.test(c)) ?? cautions.find((c) => /gap/i.test(c)) ?? null;
 }
 
 /** The banner: partial data first, then the report's warnings, each once. */
