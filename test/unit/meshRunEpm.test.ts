@@ -66,6 +66,19 @@ describe('an EPM silicon mesh run through loadRun and analyze', function () {
     assert.match(summaryText(report), /m1 undetermined/);
   });
 
+  it('says that band 6 meets the conduction band at X, a mesh spacing or two from the valley', () => {
+    // Diamond's lowest conduction level at X is twofold (X1; group theory of the diamond structure, common
+    // practice): bands 5 and 6 of the model meet there, so band 5 by index has a kink next to its Δ valley. The
+    // model's plane-wave set (a sphere about Γ, not about k) splits them by about a meV.
+    const atX = new EpmBandSolver(unstrainedCrystal(SILICON)).bandsAt([0, 0.5, 0.5], 8);
+    assert.ok(Math.abs(atX[5]! - atX[4]!) < 5e-3, `${atX[4]} ${atX[5]}`);
+    const cbm = report.extrema.find((e) => e.kind === 'cbm')!;
+    const note = cbm.warnings.find((w) => w.startsWith('Band 6 meets this band'));
+    assert.ok(note, JSON.stringify(cbm.warnings));
+    assert.match(note, / at X /);
+    if (cbm.tensor && !cbm.tensor.determined) assert.ok(cbm.tensor.undeterminedReason?.includes('Band 6 meets this band'));
+  });
+
   it('quotes a gap whose uncertainty covers its actual error', () => {
     const g = report.gap!;
     assert.equal(g.direct, false);

@@ -22,6 +22,7 @@ import {
   meshRejected,
   type MeshExtremumContext,
 } from './meshRunExtremum';
+import { nearbyTouching, touchingWarning } from './meshRunTouching';
 
 /** One spin channel's interpolated edges and extrema. */
 interface ChannelResult {
@@ -124,6 +125,7 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
         const c = meshRejected(x, ctx);
         if (c) rejected.push(c);
       }
+      for (const x of r.extrema) noteNearbyTouching(run, x, ctx);
       return r.extrema;
     });
   // Valence: the searched bands below the conduction edge; conduction: those above the valence edge.
@@ -135,6 +137,15 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
   const valence = listed(maxima, 'vbm', 'peak', s, run, ctx);
   const conduction = listed(minima, 'cbm', 'valley', s, run, ctx);
   return { spin, run, firstBand: lo, lastBand: hi, vbm: valence[0]!, cbm: conduction[0]!, extrema: [...valence, ...conduction], rejected };
+}
+
+/** Says so in the extremum's warnings (and its reason when its masses are not quoted) when a band meets it nearby. */
+function noteNearbyTouching(run: MeshInterpolation, x: InterpolatedExtremum, ctx: MeshExtremumContext): void {
+  const t = nearbyTouching(run, x);
+  if (!t) return;
+  const warning = touchingWarning(t, ctx.firstBand + t.band + 1, ctx.labelOf(t.k));
+  x.warnings.push(warning);
+  if (!x.determined && x.undeterminedReason) x.undeterminedReason += ` ${warning}`;
 }
 
 /**

@@ -1,7 +1,7 @@
 import assert from 'node:assert/strict';
 import type { Vec3 } from '../../../src/core/model';
 import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
-import { specialPointMap } from '../../../src/core/lattice/specialPoints';
+import { labelOfK, specialPointMap } from '../../../src/core/lattice/specialPoints';
 import { cartesianToFractional } from '../../../src/core/lattice/reciprocal';
 import { irreducibleMesh } from '../../../src/core/interpolation/regularMesh';
 import {
@@ -11,6 +11,7 @@ import {
   type InterpolatedExtremum,
 } from '../../../src/core/interpolation/meshInterpolation';
 import { curvatureToMass } from '../../../src/core/units';
+import { nearbyTouching } from '../../../src/core/analysis/meshRunTouching';
 import { EpmBandSolver } from '../../../scripts/epm/bandSolver';
 import { unstrainedCrystal } from '../../../scripts/epm/crystal';
 import { GALLIUM_ARSENIDE, GERMANIUM, SILICON, type EpmMaterial } from '../../../scripts/epm/materials';
@@ -129,6 +130,12 @@ describe('masses from an ordinary mesh run: silicon in the EPM model (Cohen & Be
       if (cbm.determined) assert.ok(Math.abs(m / r - 1) <= MASS_UNCERTAINTY_LIMIT, `${m} vs ${r} reported as determined`);
     }
     if (!cbm.determined) assert.ok(cbm.undeterminedReason && /too coarse/.test(cbm.undeterminedReason));
+    // Bands 5 and 6 meet at X (diamond's twofold X1, common practice), within two mesh spacings of the valley.
+    const touching = nearbyTouching(run, cbm);
+    assert.ok(touching);
+    assert.equal(touching.band, 5);
+    assert.equal(labelOfK(specialPointMap(crystal.lattice, structure)!, touching.k), 'X');
+    assert.ok(touching.steps <= 2);
     // The valence top at Γ is a mesh point: the interpolant passes through it; the threefold degeneracy is said.
     const vbm = run.extrema(3, 'max').extrema[0]!;
     assert.ok(Math.hypot(...vbm.k) < 1e-9);
@@ -215,6 +222,11 @@ describe('mesh runs of germanium and gallium arsenide in the EPM model (Cohen & 
     );
     if (cbm.determined) cbm.masses.forEach((m) => assert.ok(Math.abs(m / reference - 1) <= MASS_UNCERTAINTY_LIMIT));
     if (process.env.VS_PRINT) console.log(JSON.stringify({ gaas: cbm.masses, reference, u: cbm.uncertainty.masses }));
+    // No band meets the conduction band near Γ: the model's next band lies far above it there (zinc blende's
+    // lowest conduction level at Γ is single, common practice), so no kink warning.
+    const atGamma = s.bandsAt([0, 0, 0], 6);
+    assert.ok(atGamma[5]! - atGamma[4]! > 1 && atGamma[4]! - atGamma[3]! > 1, JSON.stringify([...atGamma]));
+    assert.equal(nearbyTouching(run, cbm), null);
     assertWarpedTop(run.extrema(3, 'max').extrema[0]!);
   });
 });
