@@ -8,17 +8,14 @@
  *   npx tsx scripts/epm/meshMassSurvey.ts [si:12 si:16 ge:12 gaas:12]
  */
 import type { Mat3, Vec3 } from '../../src/core/model';
-import { crystalSymmetry, ensureSymmetryReady } from '../../src/core/lattice/symmetry';
-import { labelOfK, specialPointMap } from '../../src/core/lattice/specialPoints';
+import { ensureSymmetryReady } from '../../src/core/lattice/symmetry';
+import { labelOfK } from '../../src/core/lattice/specialPoints';
 import { cartesianToFractional } from '../../src/core/lattice/reciprocal';
-import { irreducibleMesh } from '../../src/core/interpolation/regularMesh';
-import { MeshInterpolation } from '../../src/core/interpolation/meshInterpolation';
 import { massTensorOf, refineExtremum, type RefinedPoint } from '../../src/core/interpolation/newtonExtremum';
 import { positionOnGammaLine } from '../../src/core/interpolation/linePosition';
 import type { BandDerivatives, SmoothBand } from '../../src/core/interpolation/starInterpolant';
-import { EpmBandSolver } from './bandSolver';
-import { unstrainedCrystal } from './crystal';
 import { MATERIALS, type EpmMaterial } from './materials';
+import { epmMeshRun } from './meshRunModel';
 import { fitLocalPair, pairSamples } from './pairInvariantTrial';
 
 const BANDS = 8;
@@ -82,21 +79,9 @@ function kaneBand(y: SmoothBand, mid: number, sign: 1 | -1): SmoothBand {
 }
 
 function survey({ material, n }: Case): void {
-  const crystal = unstrainedCrystal(material);
-  const solver = new EpmBandSolver(crystal);
-  const structure = { lattice: crystal.lattice, species: [...material.species], positions: new Float64Array([0, 0, 0, 0.25, 0.25, 0.25]) };
-  const sym = crystalSymmetry(structure);
-  const { kpoints, weights } = irreducibleMesh([n, n, n], [0, 0, 0], sym.reciprocalPointGroup);
+  const { crystal, solver, kpoints, bands, run, reason, specialPoints: points } = epmMeshRun(material, n, BANDS);
+  if (!run || !points) throw new Error(`${material.name} ${n}³: ${reason ?? 'no special points'}`);
   const nk = kpoints.length / 3;
-  const bands = Array.from({ length: BANDS }, () => new Float64Array(nk));
-  for (let i = 0; i < nk; i++) {
-    const e = solver.bandsAt([kpoints[3 * i]!, kpoints[3 * i + 1]!, kpoints[3 * i + 2]!], BANDS);
-    for (let b = 0; b < BANDS; b++) bands[b]![i] = e[b]!;
-  }
-  const points = specialPointMap(crystal.lattice, structure);
-  if (!points) throw new Error('No special points for the fcc lattice.');
-  const run = MeshInterpolation.create({ lattice: crystal.lattice, kpoints, weights, bands, sym, specialPoints: points }).run;
-  if (!run) throw new Error(`${material.name} ${n}³: not a mesh`);
   const x = run.extrema(CB, 'min').extrema[0]!;
   const vbm = run.extrema(CB - 1, 'max').extrema[0]!;
   const model = (k: Vec3): number => solver.bandsAt(cartesianToFractional(k, crystal.lattice), CB + 1)[CB]!;

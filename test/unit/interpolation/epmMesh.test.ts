@@ -1,11 +1,10 @@
 import assert from 'node:assert/strict';
 import type { Vec3 } from '../../../src/core/model';
-import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
+import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { labelOfK, specialPointMap } from '../../../src/core/lattice/specialPoints';
 import { cartesianToFractional } from '../../../src/core/lattice/reciprocal';
-import { irreducibleMesh } from '../../../src/core/interpolation/regularMesh';
 import {
-  MeshInterpolation,
+  type MeshInterpolation,
   MASS_UNCERTAINTY_LIMIT,
   WARPED_NOTE,
   type InterpolatedExtremum,
@@ -13,6 +12,7 @@ import {
 import { curvatureToMass } from '../../../src/core/units';
 import { nearbyTouching } from '../../../src/core/analysis/meshRunTouching';
 import { EpmBandSolver } from '../../../scripts/epm/bandSolver';
+import { epmMeshRun } from '../../../scripts/epm/meshRunModel';
 import { unstrainedCrystal } from '../../../scripts/epm/crystal';
 import { GALLIUM_ARSENIDE, GERMANIUM, SILICON, type EpmMaterial } from '../../../scripts/epm/materials';
 
@@ -76,22 +76,7 @@ function assertWarpedTop(vbm: InterpolatedExtremum): void {
 }
 
 function meshRun(n: number): MeshInterpolation {
-  const sym = crystalSymmetry(structure);
-  const { kpoints, weights } = irreducibleMesh([n, n, n], [0, 0, 0], sym.reciprocalPointGroup);
-  const nk = kpoints.length / 3;
-  const bands = Array.from({ length: 8 }, () => new Float64Array(nk));
-  for (let i = 0; i < nk; i++) {
-    const e = solver.bandsAt([kpoints[3 * i]!, kpoints[3 * i + 1]!, kpoints[3 * i + 2]!], 8);
-    for (let b = 0; b < 8; b++) bands[b]![i] = e[b]!;
-  }
-  const made = MeshInterpolation.create({
-    lattice: crystal.lattice,
-    kpoints,
-    weights,
-    bands,
-    sym,
-    specialPoints: specialPointMap(crystal.lattice, structure),
-  });
+  const made = epmMeshRun(SILICON, n);
   assert.ok(made.run, made.reason ?? '');
   return made.run;
 }
@@ -163,27 +148,9 @@ describe('masses from an ordinary mesh run: silicon in the EPM model (Cohen & Be
 
 /** Mesh run of another material of the model, bands 1–8. */
 function materialRun(material: EpmMaterial, n: number): { run: MeshInterpolation; solver: EpmBandSolver; lattice: typeof crystal.lattice } {
-  const c = unstrainedCrystal(material);
-  const s = new EpmBandSolver(c);
-  const st = { lattice: c.lattice, species: [...material.species], positions: new Float64Array([0, 0, 0, 0.25, 0.25, 0.25]) };
-  const sym = crystalSymmetry(st);
-  const { kpoints, weights } = irreducibleMesh([n, n, n], [0, 0, 0], sym.reciprocalPointGroup);
-  const nk = kpoints.length / 3;
-  const bands = Array.from({ length: 8 }, () => new Float64Array(nk));
-  for (let i = 0; i < nk; i++) {
-    const e = s.bandsAt([kpoints[3 * i]!, kpoints[3 * i + 1]!, kpoints[3 * i + 2]!], 8);
-    for (let b = 0; b < 8; b++) bands[b]![i] = e[b]!;
-  }
-  const made = MeshInterpolation.create({
-    lattice: c.lattice,
-    kpoints,
-    weights,
-    bands,
-    sym,
-    specialPoints: specialPointMap(c.lattice, st),
-  });
+  const made = epmMeshRun(material, n);
   assert.ok(made.run, made.reason ?? '');
-  return { run: made.run, solver: s, lattice: c.lattice };
+  return { run: made.run, solver: made.solver, lattice: made.crystal.lattice };
 }
 
 describe('mesh runs of germanium and gallium arsenide in the EPM model (Cohen & Bergstresser 1966)', function () {
