@@ -14,6 +14,8 @@ import { cartesianToFractional } from '../../src/core/lattice/reciprocal';
 import { massTensorOf, refineExtremum, type RefinedPoint } from '../../src/core/interpolation/newtonExtremum';
 import { positionOnGammaLine } from '../../src/core/interpolation/linePosition';
 import type { BandDerivatives, SmoothBand } from '../../src/core/interpolation/starInterpolant';
+import { nearbyTouching } from '../../src/core/analysis/meshRunTouching';
+import { refineOnTouchingLine } from '../../src/core/analysis/meshRunLinePair';
 import { MATERIALS, type EpmMaterial } from './materials';
 import { epmMeshRun } from './meshRunModel';
 import { fitLocalPair, pairSamples } from './pairInvariantTrial';
@@ -97,17 +99,25 @@ function survey({ material, n }: Case): void {
   };
   const row = (method: string, k: Vec3, eV: number, masses: readonly number[], note: string): void =>
     console.log(
-      `${material.name} ${n}³ ${method.padEnd(12)} at ${where(k).padEnd(12)} gap error ${(1000 * (eV - vbm.energy_eV - refGap)).toFixed(1)} meV  masses ${massText(masses)}  ${note}`,
+      `${material.name} ${n}³ ${method.padEnd(14)} at ${where(k).padEnd(12)} gap error ${(1000 * (eV - vbm.energy_eV - refGap)).toFixed(1)} meV  masses ${massText(masses)}  ${note}`,
     );
   console.log(
     `${material.name} ${n}³ model        at ${where(ref.k).padEnd(12)} gap ${refGap.toFixed(4)} eV          masses ${ref.masses.map((m) => m.toFixed(3)).join(' ')}`,
   );
   const quoted = x.uncertainty.masses.map((u, i) => `${(100 * (u / Math.abs(x.masses[i]!))).toFixed(0)} %`).join(' ');
   row('star', x.kCartesian, x.energy_eV, x.masses, `determined ${x.determined} (leave-one-out ${quoted})`);
+  // What the analysis adopts when a neighbouring band touches the extremum's band nearby (pair-line).
+  const touching = nearbyTouching(run, x);
+  const refined = touching ? refineOnTouchingLine(run, x, touching, 'star-interpolation') : null;
+  if (refined) {
+    const y = refined.extremum;
+    const quotedLine = y.uncertainty.masses.map((u, i) => `${(100 * (u / Math.abs(y.masses[i]!))).toFixed(0)} %`).join(' ');
+    row('star+pair-line', y.kCartesian, y.energy_eV, y.masses, `quoted ${refined.axes.determined.join(' ')} (${quotedLine})`);
+  } else console.log(`${material.name} ${n}³ star+pair-line not used (${touching ? 'the line cannot be used' : 'no band touches nearby'})`);
   const step = Math.min(...run.reciprocal.map((b) => Math.hypot(...b) / n));
   const newton = { maxStep: step / 2, maxTravel: 2 * step };
   const show = (method: string, p: RefinedPoint | null, note = ''): void => {
-    if (!p || p.rejected) console.log(`${material.name} ${n}³ ${method.padEnd(12)} ${p ? p.rejected : 'no fit'}`);
+    if (!p || p.rejected) console.log(`${material.name} ${n}³ ${method.padEnd(14)} ${p ? p.rejected : 'no fit'}`);
     else row(method, p.k, p.energy, p.masses, note);
   };
   // Trial 1: the pair (bands 5 and 6) by its invariants, local polynomials about the interpolated extremum.

@@ -11,6 +11,7 @@ import {
 } from '../../../src/core/interpolation/meshInterpolation';
 import { curvatureToMass } from '../../../src/core/units';
 import { nearbyTouching } from '../../../src/core/analysis/meshRunTouching';
+import { refineOnTouchingLine } from '../../../src/core/analysis/meshRunLinePair';
 import { EpmBandSolver } from '../../../scripts/epm/bandSolver';
 import { epmMeshRun } from '../../../scripts/epm/meshRunModel';
 import { unstrainedCrystal } from '../../../scripts/epm/crystal';
@@ -144,6 +145,25 @@ describe('masses from an ordinary mesh run: silicon in the EPM model (Cohen & Be
       assert.ok(Math.abs(sorted[2]! / ref.ml - 1) <= MASS_UNCERTAINTY_LIMIT && Math.abs(sorted[0]! / ref.mt - 1) <= MASS_UNCERTAINTY_LIMIT);
     }
   });
+
+  for (const n of [12, 16]) {
+    it(`${n}×${n}×${n}: on the line to X, where band 6 touches, the pair model gives the valley within 0.01, m_l within 5 %, the energy within 2 meV`, () => {
+      const run = meshRun(n);
+      const cbm = run.extrema(4, 'min').extrema[0]!;
+      const touching = nearbyTouching(run, cbm);
+      assert.ok(touching);
+      const refined = refineOnTouchingLine(run, cbm, touching, 'star-interpolation');
+      assert.ok(refined);
+      const x = refined.extremum;
+      const t = Math.hypot(...x.kCartesian) / unit;
+      assert.ok(Math.abs(t - ref.t) < 0.01, `${t} vs ${ref.t}`);
+      assert.ok(Math.abs(x.energy_eV - ref.cbm) < 2e-3, `${x.energy_eV} vs ${ref.cbm}`);
+      const line = refined.axes.methods.indexOf('pair-line');
+      assert.ok(line >= 0);
+      assert.ok(Math.abs(x.masses[line]! / ref.ml - 1) < 0.05, `${x.masses[line]} vs ${ref.ml}`);
+      assert.equal(refined.axes.determined[line], true);
+    });
+  }
 });
 
 /** Mesh run of another material of the model, bands 1–8. */
