@@ -33,7 +33,7 @@ describe('mesh points near a k-point (meshNeighbourhood)', () => {
         for (let c = -2; c <= 2; c++)
           for (let d = -2; d <= 2; d++) {
             const g = [p[0]! + a - k[0], p[1]! + c - k[1], p[2]! + d - k[2]];
-            const dk = [0, 1, 2].map((x) => g[0]! * b[0][x] + g[1]! * b[1][x] + g[2]! * b[2][x]);
+            const dk = [0, 1, 2].map((x) => g[0]! * b[0][x]! + g[1]! * b[1][x]! + g[2]! * b[2][x]!);
             if (Math.hypot(...dk) <= radius) out.push(`${j}:${dk.map((x) => x.toFixed(9)).join(',')}`);
           }
     }
