@@ -8,6 +8,7 @@ import { nodeFileAccessor } from '../../src/cli/nodeFileAccessor';
 import { analyzeBandStructure } from '../../src/core/analysis/analyze';
 import { summaryText } from '../../src/core/report/summaryText';
 import type { Report } from '../../src/core/model';
+import { curvatureToMass } from '../../src/core/units';
 import { EpmBandSolver } from '../../scripts/epm/bandSolver';
 import { unstrainedCrystal } from '../../scripts/epm/crystal';
 import { GERMANIUM, SILICON } from '../../scripts/epm/materials';
@@ -25,6 +26,8 @@ describe('an EPM silicon mesh run through loadRun and analyze', function () {
   let dir = '';
   let report: Report;
   let trueGap = 0;
+  let trueT = 0;
+  let trueMl = 0;
   before(async () => {
     await ensureSymmetryReady();
     dir = mkdtempSync(join(tmpdir(), 'vs-meshrun-si-'));
@@ -34,9 +37,16 @@ describe('an EPM silicon mesh run through loadRun and analyze', function () {
     const solver = new EpmBandSolver(crystal);
     report = analyzeBandStructure(await loadRun(nodeFileAccessor, dir));
     // The model's gap: VBM at Γ (band 4), CBM on Γ–X (band 5) found on a 0.0005-step line, Γ–X = (0, t/2, t/2).
+    const e = (t: number): number => solver.bandsAt([0, t / 2, t / 2], nBands)[4]!;
     let cbm = Infinity;
-    for (let t = 0.75; t <= 0.95; t += 0.0005) cbm = Math.min(cbm, solver.bandsAt([0, t / 2, t / 2], nBands)[4]!);
+    for (let t = 0.75; t <= 0.95; t += 0.0005) {
+      if (e(t) < cbm) [cbm, trueT] = [e(t), t];
+    }
     trueGap = cbm - solver.bandsAt([0, 0, 0], nBands)[3]!;
+    // The longitudinal mass: central difference along Γ–X (|Γ–X| = 2π/a, common practice), step 0.005 Å⁻¹.
+    const h = 0.005;
+    const dt = h / ((2 * Math.PI) / SILICON.latticeConstant);
+    trueMl = curvatureToMass((e(trueT + dt) - 2 * e(trueT) + e(trueT - dt)) / (h * h));
   });
 
   it('is not taken for a path: no path labels inferred, and no warning about path labels', async () => {
@@ -64,6 +74,37 @@ describe('an EPM silicon mesh run through loadRun and analyze', function () {
     assert.equal(cbm.valleyDegeneracy, 6); // six Δ valleys (common practice)
     assert.match(cbm.position ?? '', /^0\.8\d Γ→X$/); // the model's Δ minimum near 0.85 of Γ–X (physics.md; dense line above)
     assert.match(summaryText(report), /m1 undetermined/);
+  });
+
+  it('says that band 6 meets the conduction band at X, a mesh spacing or two from the valley', () => {
+    // Diamond's lowest conduction level at X is twofold (X1; group theory of the diamond structure, common
+    // practice): bands 5 and 6 of the model meet there, so band 5 by index has a kink next to its Δ valley. The
+    // model's plane-wave set (a sphere about Γ, not about k) splits them by about a meV.
+    const atX = new EpmBandSolver(unstrainedCrystal(SILICON)).bandsAt([0, 0.5, 0.5], 8);
+    assert.ok(Math.abs(atX[5]! - atX[4]!) < 5e-3, `${atX[4]} ${atX[5]}`);
+    const cbm = report.extrema.find((e) => e.kind === 'cbm')!;
+    const note = cbm.warnings.find((w) => w.startsWith('Band 6 meets this band'));
+    assert.ok(note, JSON.stringify(cbm.warnings));
+    assert.match(note, / at X /);
+  });
+
+  it('on the line to X, the pair model puts the valley within 0.01 of the model minimum, the gap within 2 meV, m_l within 5 %', () => {
+    const cbm = report.extrema.find((e) => e.kind === 'cbm')!;
+    // Position on Γ–X as a fraction: the valley member found lies on the line to X = (0, ½, ½).
+    const t = cbm.k[1] * 2;
+    assert.ok(Math.abs(cbm.k[1] - cbm.k[2]) < 1e-9 && Math.abs(cbm.k[0]) < 1e-9, JSON.stringify(cbm.k));
+    assert.ok(Math.abs(t - trueT) < 0.01, `${t} vs ${trueT}`);
+    assert.ok(Math.abs(report.gap!.eV - trueGap) < 2e-3, `${report.gap!.eV} vs ${trueGap}`);
+    const along = cbm.masses.find((m) => m.method === 'pair-line');
+    assert.ok(along, JSON.stringify(cbm.masses));
+    assert.ok(Math.abs(Math.abs(along.direction![0]) - 1) < 1e-9); // Γ–X is cartesian x in this cell (b2 + b3)
+    assert.ok(Math.abs(along.mass / trueMl - 1) < 0.05, `${along.mass} vs ${trueMl}`);
+    // Quoted only within its own uncertainty; the error lies inside twice the quoted one (leave-one-out is a spread).
+    assert.equal(along.determined, true);
+    assert.ok(Math.abs(along.mass - trueMl) <= 2 * along.stderr!, `${along.mass} vs ${trueMl} ± ${along.stderr}`);
+    // The masses across the line stay the interpolant's; at 12³ they are not quoted.
+    assert.ok(cbm.masses.filter((m) => m.method === 'star-interpolation').every((m) => !m.determined));
+    assert.equal(cbm.tensor?.determined, false);
   });
 
   it('quotes a gap whose uncertainty covers its actual error', () => {

@@ -22,6 +22,8 @@ import {
   meshRejected,
   type MeshExtremumContext,
 } from './meshRunExtremum';
+import { nearbyTouching, touchingWarning, type NearbyTouching } from './meshRunTouching';
+import { refineOnTouchingLine, type AxisProvenance } from './meshRunLinePair';
 
 /** One spin channel's interpolated edges and extrema. */
 interface ChannelResult {
@@ -110,11 +112,13 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
   if (!made.run) return made.reason;
   const run = made.run;
   const map = run.input.specialPoints ?? null;
+  const axes = new Map<InterpolatedExtremum, AxisProvenance>();
   const ctx: MeshExtremumContext = {
     spin,
     firstBand: lo,
     points: bs.nk,
     labelOf: (k) => (map ? labelOfK(map, [k[0]!, k[1]!, k[2]!]) : null),
+    axesOf: (x) => axes.get(x),
   };
   const rejected: RejectedCandidate[] = [];
   const collect = (from: number, to: number, kind: 'min' | 'max'): InterpolatedExtremum[] =>
@@ -124,7 +128,13 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
         const c = meshRejected(x, ctx);
         if (c) rejected.push(c);
       }
-      return r.extrema;
+      return r.extrema.map((x) => {
+        const t = noteNearbyTouching(run, x, ctx);
+        const refined = t ? refineOnTouchingLine(run, x, t, STAR_INTERPOLATION) : null;
+        if (!refined) return x;
+        axes.set(refined.extremum, refined.axes);
+        return refined.extremum;
+      });
     });
   // Valence: the searched bands below the conduction edge; conduction: those above the valence edge.
   const maxima = collect(first, cb - 1, 'max').sort((a, b) => b.energy_eV - a.energy_eV);
@@ -135,6 +145,16 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
   const valence = listed(maxima, 'vbm', 'peak', s, run, ctx);
   const conduction = listed(minima, 'cbm', 'valley', s, run, ctx);
   return { spin, run, firstBand: lo, lastBand: hi, vbm: valence[0]!, cbm: conduction[0]!, extrema: [...valence, ...conduction], rejected };
+}
+
+/** Says so in the extremum's warnings (and its reason when its masses are not quoted) when a band meets it nearby. */
+function noteNearbyTouching(run: MeshInterpolation, x: InterpolatedExtremum, ctx: MeshExtremumContext): NearbyTouching | null {
+  const t = nearbyTouching(run, x);
+  if (!t) return null;
+  const warning = touchingWarning(t, ctx.firstBand + t.band + 1, ctx.labelOf(t.k));
+  x.warnings.push(warning);
+  if (!x.determined && x.undeterminedReason) x.undeterminedReason += ` ${warning}`;
+  return t;
 }
 
 /**

@@ -5,6 +5,7 @@
  */
 import type { ExtremumKind, ExtremumReport, MassFit, RejectedCandidate } from '../model';
 import type { InterpolatedExtremum, RejectedStationaryPoint } from '../interpolation/meshInterpolation';
+import type { AxisProvenance } from './meshRunLinePair';
 
 /** The method id of masses from the interpolated bands (not a curvature fit: no window). */
 export const STAR_INTERPOLATION = 'star-interpolation';
@@ -20,25 +21,30 @@ export interface MeshExtremumContext {
   points: number;
   /** The special point's label at k, when k is one. */
   labelOf: (k: readonly number[]) => string | null;
+  /** Per principal axis, the method and whether it is quoted, for extrema refined beyond the interpolant. */
+  axesOf?: (x: InterpolatedExtremum) => AxisProvenance | undefined;
 }
 
 const axisText = (a: readonly number[]): string => `(${a.map((x) => (Math.abs(x) < 5e-4 ? 0 : x).toFixed(3)).join(', ')})`;
 
 /** The principal masses as directional masses along their axes (empty when the extremum has no masses). */
-export function principalMassFits(x: InterpolatedExtremum, points: number): MassFit[] {
+export function principalMassFits(x: InterpolatedExtremum, points: number, axes?: AxisProvenance): MassFit[] {
   if (!x.resolved) return [];
-  return x.masses.map((mass, i) => ({
-    towards: `principal axis ${i + 1} ${axisText(x.axes[i]!)}`,
-    direction: [...x.axes[i]!],
-    mass,
-    stderr: x.uncertainty.masses[i]!,
-    points,
-    window_meV: 0,
-    method: STAR_INTERPOLATION,
-    determined: x.determined,
-    ...(x.determined ? {} : { undeterminedReason: x.undeterminedReason ?? 'The interpolation cannot support this mass.' }),
-    source: 'interpolated' as const,
-  }));
+  return x.masses.map((mass, i) => {
+    const determined = axes?.determined[i] ?? x.determined;
+    return {
+      towards: `principal axis ${i + 1} ${axisText(x.axes[i]!)}`,
+      direction: [...x.axes[i]!],
+      mass,
+      stderr: x.uncertainty.masses[i]!,
+      points,
+      window_meV: 0,
+      method: axes?.methods[i] ?? STAR_INTERPOLATION,
+      determined,
+      ...(determined ? {} : { undeterminedReason: x.undeterminedReason ?? 'The interpolation cannot support this mass.' }),
+      source: 'interpolated' as const,
+    };
+  });
 }
 
 export function meshExtremumReport(
@@ -49,6 +55,8 @@ export function meshExtremumReport(
   ctx: MeshExtremumContext,
 ): ExtremumReport {
   const finite = (v: number): number | null => (Number.isFinite(v) ? v : null);
+  const axes = ctx.axesOf?.(x);
+  const tensorMethod = axes ? [...new Set(axes.methods)].join('+') : STAR_INTERPOLATION;
   return {
     band: ctx.firstBand + x.band + 1,
     spin: ctx.spin,
@@ -60,12 +68,12 @@ export function meshExtremumReport(
     offset_eV: Math.abs(x.energy_eV - edge_eV),
     degenerateBands,
     valleyDegeneracy: x.valleyDegeneracy,
-    masses: principalMassFits(x, ctx.points),
+    masses: principalMassFits(x, ctx.points, axes),
     tensor: x.resolved
       ? {
           principal: [...x.masses],
           axes: [[...x.axes[0]], [...x.axes[1]], [...x.axes[2]]],
-          method: STAR_INTERPOLATION,
+          method: tensorMethod,
           points: ctx.points,
           stderr: [...x.uncertainty.masses],
           source: 'interpolated',

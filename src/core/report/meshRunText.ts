@@ -41,9 +41,13 @@ export function interpolatedMassLines(e: ExtremumReport): string[] | null {
   lines.push(`    interpolated mass tensor (analytic Hessian of the interpolant; uncertainties leave-one-out; ${state}):`);
   t.principal.forEach((m, i) => {
     const err = t.stderr?.[i];
-    const value = t.determined === false ? `m${i + 1} undetermined (the interpolant gives ${fixed(m, 3)}` : `m${i + 1} = ${fixed(m, 3)}`;
-    const close = t.determined === false ? ')' : '';
-    const hole = atMax && m < 0 && t.determined !== false ? ` (hole mass ${fixed(-m, 3)})` : '';
+    // Each principal mass may be quoted on its own (its directional entry says so, and by which method).
+    const fit = e.masses[i];
+    const quoted = fit?.determined ?? t.determined !== false;
+    const how = fit && fit.method !== t.method && t.method.includes('+') ? ` [${fit.method}]` : '';
+    const value = quoted ? `m${i + 1} = ${fixed(m, 3)}` : `m${i + 1} undetermined (the interpolant gives ${fixed(m, 3)}`;
+    const close = quoted ? how : `)${how}`;
+    const hole = atMax && m < 0 && quoted ? ` (hole mass ${fixed(-m, 3)})` : '';
     lines.push(
       `      ${value}${err !== undefined && Number.isFinite(err) ? ` ± ${fixed(err, 3)}` : ''} m_e${close} along (${t.axes[i]!.map((x) => fixed(x, 3)).join(', ')})${hole}`,
     );

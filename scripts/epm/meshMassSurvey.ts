@@ -1,0 +1,157 @@
+/**
+ * How well masses, valley positions and gaps come out of ordinary mesh runs of the EPM crystals
+ * (Cohen & Bergstresser, Phys. Rev. 141, 789 (1966)), against the same model solved densely: the lowest
+ * conduction extremum (band 5) found by the analysis' star interpolation, and by two trial local models
+ * (pairInvariantTrial.ts; a two-band Kane transform of the band, Kane 1957), beside the model's own minimum
+ * and its mass tensor by central differences (step 0.005 Å⁻¹). A measurement, not a test: it prints a table.
+ *
+ *   npx tsx scripts/epm/meshMassSurvey.ts [si:12 si:16 ge:12 gaas:12]
+ */
+import type { Mat3, Vec3 } from '../../src/core/model';
+import { ensureSymmetryReady } from '../../src/core/lattice/symmetry';
+import { labelOfK } from '../../src/core/lattice/specialPoints';
+import { cartesianToFractional } from '../../src/core/lattice/reciprocal';
+import { massTensorOf, refineExtremum, type RefinedPoint } from '../../src/core/interpolation/newtonExtremum';
+import { positionOnGammaLine } from '../../src/core/interpolation/linePosition';
+import type { BandDerivatives, SmoothBand } from '../../src/core/interpolation/starInterpolant';
+import { nearbyTouching } from '../../src/core/analysis/meshRunTouching';
+import { refineOnTouchingLine } from '../../src/core/analysis/meshRunLinePair';
+import { MATERIALS, type EpmMaterial } from './materials';
+import { epmMeshRun } from './meshRunModel';
+import { fitLocalPair, pairSamples } from './pairInvariantTrial';
+
+const BANDS = 8;
+const CB = 4; // 0-based: band 5, the lowest conduction band of the four-band valence crystals
+const H = 0.005; // Å⁻¹, central-difference step of the reference
+
+interface Case {
+  material: EpmMaterial;
+  n: number;
+}
+
+/** The model's conduction minimum near cartesian k (Newton on the model by central differences) and its masses. */
+function modelMinimum(e: (k: Vec3) => number, start: Vec3): { k: Vec3; eV: number; masses: number[] } {
+  const hessianAt = (k: Vec3): { g: Vec3; h: Mat3 } => {
+    const at = (d: Vec3): number => e([k[0] + d[0], k[1] + d[1], k[2] + d[2]]);
+    const unit = (i: number, s: number): Vec3 => [0, 1, 2].map((j) => (j === i ? s * H : 0)) as Vec3;
+    const e0 = e(k);
+    const g = [0, 1, 2].map((i) => (at(unit(i, 1)) - at(unit(i, -1))) / (2 * H)) as Vec3;
+    const h = [0, 1, 2].map((i) =>
+      [0, 1, 2].map((j) => {
+        if (i === j) return (at(unit(i, 1)) - 2 * e0 + at(unit(i, -1))) / (H * H);
+        const pp = at(unit(i, 1).map((x, q) => x + unit(j, 1)[q]!) as Vec3);
+        const mm = at(unit(i, -1).map((x, q) => x + unit(j, -1)[q]!) as Vec3);
+        const pm = at(unit(i, 1).map((x, q) => x + unit(j, -1)[q]!) as Vec3);
+        const mp = at(unit(i, -1).map((x, q) => x + unit(j, 1)[q]!) as Vec3);
+        return (pp + mm - pm - mp) / (4 * H * H);
+      }),
+    ) as Mat3;
+    return { g, h };
+  };
+  let k: Vec3 = [...start];
+  for (let it = 0; it < 20; it++) {
+    const { g, h } = hessianAt(k);
+    // Solve h Δ = −g by Cramer's rule (3×3).
+    const det = (m: Mat3): number =>
+      m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1]) -
+      m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0]) +
+      m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]);
+    const d0 = det(h);
+    const step = [0, 1, 2].map((c) => det(h.map((row, r) => row.map((x, q) => (q === c ? -g[r]! : x))) as Mat3) / d0) as Vec3;
+    k = [k[0] + step[0], k[1] + step[1], k[2] + step[2]];
+    if (Math.hypot(...step) < 1e-7) break;
+  }
+  return { k, eV: e(k), masses: [...massTensorOf(hessianAt(k).h).masses].sort((a, b) => a - b) };
+}
+
+/** The band as E_mid ± √y with y a smooth interpolant of (E − E_mid)² (two-band Kane form, Kane 1957). */
+function kaneBand(y: SmoothBand, mid: number, sign: 1 | -1): SmoothBand {
+  const derivatives = (k: Vec3): BandDerivatives => {
+    const d = y.derivatives(k);
+    const r = Math.sqrt(Math.max(d.value, 1e-30));
+    return {
+      value: mid + sign * r,
+      gradient: d.gradient.map((x) => (sign * x) / (2 * r)) as Vec3,
+      hessian: [0, 1, 2].map((i) =>
+        [0, 1, 2].map((j) => sign * (d.hessian[i]![j]! / (2 * r) - (d.gradient[i]! * d.gradient[j]!) / (4 * r * d.value))),
+      ) as Mat3,
+    };
+  };
+  return { value: (k) => derivatives(k).value, derivatives };
+}
+
+function survey({ material, n }: Case): void {
+  const { crystal, solver, kpoints, bands, run, reason, specialPoints: points } = epmMeshRun(material, n, BANDS);
+  if (!run || !points) throw new Error(`${material.name} ${n}³: ${reason ?? 'no special points'}`);
+  const nk = kpoints.length / 3;
+  const x = run.extrema(CB, 'min').extrema[0]!;
+  const vbm = run.extrema(CB - 1, 'max').extrema[0]!;
+  const model = (k: Vec3): number => solver.bandsAt(cartesianToFractional(k, crystal.lattice), CB + 1)[CB]!;
+  const ref = modelMinimum(model, x.resolved ? x.kCartesian : run.toCart(x.k));
+  const refGap = ref.eV - solver.bandsAt([0, 0, 0], CB)[CB - 1]!;
+  const where = (k: Vec3): string => {
+    const f = cartesianToFractional(k, crystal.lattice);
+    return positionOnGammaLine(points, f) ?? labelOfK(points, f) ?? f.map((v) => v.toFixed(3)).join(',');
+  };
+  const massText = (m: readonly number[]): string => {
+    const s = [...m].sort((a, b) => a - b);
+    return s.map((v, i) => `${v.toFixed(3)} (${(100 * (v / ref.masses[i]! - 1)).toFixed(0)} %)`).join(' ');
+  };
+  const row = (method: string, k: Vec3, eV: number, masses: readonly number[], note: string): void =>
+    console.log(
+      `${material.name} ${n}³ ${method.padEnd(14)} at ${where(k).padEnd(12)} gap error ${(1000 * (eV - vbm.energy_eV - refGap)).toFixed(1)} meV  masses ${massText(masses)}  ${note}`,
+    );
+  console.log(
+    `${material.name} ${n}³ model        at ${where(ref.k).padEnd(12)} gap ${refGap.toFixed(4)} eV          masses ${ref.masses.map((m) => m.toFixed(3)).join(' ')}`,
+  );
+  const quoted = x.uncertainty.masses.map((u, i) => `${(100 * (u / Math.abs(x.masses[i]!))).toFixed(0)} %`).join(' ');
+  row('star', x.kCartesian, x.energy_eV, x.masses, `determined ${x.determined} (leave-one-out ${quoted})`);
+  // What the analysis adopts when a neighbouring band touches the extremum's band nearby (pair-line).
+  const touching = nearbyTouching(run, x);
+  const refined = touching ? refineOnTouchingLine(run, x, touching, 'star-interpolation') : null;
+  if (refined) {
+    const y = refined.extremum;
+    const quotedLine = y.uncertainty.masses.map((u, i) => `${(100 * (u / Math.abs(y.masses[i]!))).toFixed(0)} %`).join(' ');
+    row('star+pair-line', y.kCartesian, y.energy_eV, y.masses, `quoted ${refined.axes.determined.join(' ')} (${quotedLine})`);
+  } else console.log(`${material.name} ${n}³ star+pair-line not used (${touching ? 'the line cannot be used' : 'no band touches nearby'})`);
+  const step = Math.min(...run.reciprocal.map((b) => Math.hypot(...b) / n));
+  const newton = { maxStep: step / 2, maxTravel: 2 * step };
+  const show = (method: string, p: RefinedPoint | null, note = ''): void => {
+    if (!p || p.rejected) console.log(`${material.name} ${n}³ ${method.padEnd(14)} ${p ? p.rejected : 'no fit'}`);
+    else row(method, p.k, p.energy, p.masses, note);
+  };
+  // Trial 1: the pair (bands 5 and 6) by its invariants, local polynomials about the interpolated extremum.
+  for (const radius of [2, 2.5, 3]) {
+    for (const degree of [3, 4]) {
+      const samples = pairSamples(run.mesh, run.reciprocal, bands[CB]!, bands[CB + 1]!, x.k, radius * step + 1e-9);
+      const touch = Math.min(...samples.map((q) => q.upper - q.lower));
+      const band = fitLocalPair(samples, x.kCartesian, degree, radius * step, -1);
+      const note = band ? `residual ${(1000 * band.residual.s).toFixed(0)} meV; bands 5–6 within ${(1000 * touch).toFixed(0)} meV` : '';
+      show(`pair r${radius} d${degree}`, band ? refineExtremum(band, x.kCartesian, 'min', newton) : null, note);
+    }
+  }
+  // Trial 2: (E − E_mid)² interpolated, E_mid the middle of the direct gap at the mesh point nearest the extremum.
+  let nearest = 0;
+  for (let i = 0; i < nk; i++) {
+    const d = (j: number): number =>
+      Math.hypot(...run.toCart([kpoints[3 * j]!, kpoints[3 * j + 1]!, kpoints[3 * j + 2]!]).map((v, q) => v - x.kCartesian[q]!));
+    if (d(i) < d(nearest)) nearest = i;
+  }
+  const mid = (bands[CB]![nearest]! + bands[CB - 1]![nearest]!) / 2;
+  const kane = kaneBand(run.fit.fit(bands[CB]!.map((e) => (e - mid) ** 2)), mid, 1);
+  show('kane', refineExtremum(kane, x.kCartesian, 'min', newton), `E_mid ${mid.toFixed(3)} eV`);
+}
+
+async function main(): Promise<void> {
+  await ensureSymmetryReady();
+  const args = process.argv.slice(2);
+  const cases = (args.length ? args : ['si:12', 'si:16', 'ge:12', 'gaas:12']).map((a) => {
+    const [id, n] = a.split(':');
+    const material = MATERIALS[id ?? ''];
+    if (!material || !Number(n)) throw new Error(`Expected material:n (${Object.keys(MATERIALS).join(', ')}), got ${a}`);
+    return { material, n: Number(n) };
+  });
+  for (const c of cases) survey(c);
+}
+
+void main();
