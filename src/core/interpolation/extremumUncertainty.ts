@@ -81,10 +81,13 @@ function nearestIrreducible(mesh: RegularMesh, k: Vec3, b: Mat3, lattice: Mat3, 
   }
   // Sort only the points within a few mesh spacings (all of them if that finds too few).
   const spacing = Math.max(...b.map((r, i) => Math.hypot(...r) / mesh.divisions[i]!));
+  // Distances equal to rounding (points of one shell) are ties, taken in mesh order: the choice must not
+  // depend on the last bits of k.
+  const grain = 1e-9 * spacing * spacing;
   for (const reach of [3 * spacing, Infinity]) {
     const near: number[] = [];
     for (let j = 0; j < mesh.total; j++) if (d2[j]! <= reach * reach) near.push(j);
-    near.sort((p, q) => d2[p]! - d2[q]! || p - q);
+    near.sort((p, q) => Math.round(d2[p]! / grain) - Math.round(d2[q]! / grain) || p - q);
     const out: number[] = [];
     for (const j of near) {
       const irr = mesh.irreducibleOf[j]!;

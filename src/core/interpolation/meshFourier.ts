@@ -11,6 +11,13 @@
  *   - a coefficient Σ_i μ_i S_m(k_i) equals Σ_q ν(q) cos(q·R_m), ν(q) = μ_i / c_i on star(i): one transform
  *     of ν per band, read at each star's representative R_m.
  * Both identities use only that S_m is invariant under the operations that map the mesh onto itself.
+ *
+ * Better still, H is the mesh convolution with F restricted to functions invariant under the group: with
+ * ν(q) = μ_i / c_i, Σ_j H_ij μ_j = (F ∗ ν)(k_i). A convolution is diagonal in Fourier space, so the fit's
+ * system H μ = ε + C, Σ μ = 0 is solved by one transform of the energies divided by F̂(G) = N w(G), w(G) the
+ * weights 1/(ρ n) of every basis vector R ≡ G folded onto the mesh (MeshSpectralSolver): no matrix, no
+ * factorisation. It needs every frequency G ≢ 0 of the mesh held by some vector of the basis (else H is
+ * singular there); the caller falls back to the matrix otherwise.
  */
 import type { RegularMesh } from './regularMesh';
 import type { StarBasis } from './starBasis';
@@ -193,24 +200,127 @@ export function meshFitMatrix(basis: StarBasis, inverseRoughness: Float64Array, 
 
 /** Σ_i μ_i S_m(k_i) for every star m, from one transform of μ spread over the mesh. */
 export function meshStarSums(basis: StarBasis, mesh: RegularMesh, mu: ArrayLike<number>): Float64Array {
-  const dims = mesh.divisions;
   const re = new Float64Array(mesh.total);
   const im = new Float64Array(mesh.total);
   for (let q = 0; q < mesh.total; q++) {
     const i = mesh.irreducibleOf[q]!;
     re[q] = mu[i]! / mesh.starSize[i]!;
   }
-  meshTransform(re, im, dims);
-  const out = new Float64Array(basis.count);
+  meshTransform(re, im, mesh.divisions);
+  return readStarSums(starPhases(basis, mesh), re, im, basis.count);
+}
+
+/** Per star: the mesh index of its representative R_m and the mesh shift's phase 2π Σ_a s_a n_a / n_a (cos, sin). */
+interface StarPhases {
+  index: Int32Array;
+  cos: Float64Array;
+  sin: Float64Array;
+}
+
+function starPhases(basis: StarBasis, mesh: RegularMesh): StarPhases {
+  const dims = mesh.divisions;
   const z = basis.integer;
+  const out = { index: new Int32Array(basis.count), cos: new Float64Array(basis.count), sin: new Float64Array(basis.count) };
   for (let m = 0; m < basis.count; m++) {
     const j = basis.start[m]!;
-    const p = foldedIndex(basis, j, dims);
-    // The mesh shift s adds the phase 2π Σ_a s_a n_a / n_a.
+    out.index[m] = foldedIndex(basis, j, dims);
     let phase = 0;
     for (let a = 0; a < 3; a++) phase += (mesh.shift[a]! * z[3 * j + a]!) / dims[a]!;
     phase *= 2 * Math.PI;
-    out[m] = re[p]! * Math.cos(phase) - im[p]! * Math.sin(phase);
+    out.cos[m] = Math.cos(phase);
+    out.sin[m] = Math.sin(phase);
   }
   return out;
+}
+
+/** Re[X(R_m) e^{2πi s·n/N}] for every star, X a transform over the mesh (re, im). */
+function readStarSums(p: StarPhases, re: Float64Array, im: Float64Array, count: number): Float64Array {
+  const out = new Float64Array(count);
+  for (let m = 0; m < count; m++) {
+    const q = p.index[m]!;
+    out[m] = re[q]! * p.cos[m]! - im[q]! * p.sin[m]!;
+  }
+  return out;
+}
+
+/**
+ * F̂(G) = N w(G) on the mesh of frequencies (G ≡ R modulo the divisions), w(G) = Σ_{R ≡ G, R ≠ 0} 1/(ρ(R) n(R))
+ * over every vector of the basis (both of each ±R pair); null when a frequency G ≢ 0 holds no vector.
+ */
+export function meshKernelSpectrum(basis: StarBasis, inverseRoughness: Float64Array, mesh: RegularMesh): Float64Array | null {
+  const dims = mesh.divisions;
+  const [, n2, n3] = dims;
+  const z = basis.integer;
+  const w = new Float64Array(mesh.total);
+  for (let m = 1; m < basis.count; m++) {
+    // Each kept member stands for R and −R, each with 1/(ρ n) = (weight/2)/ρ.
+    const half = 0.5 * basis.weight[m]! * inverseRoughness[m]! * mesh.total;
+    for (let j = basis.start[m]!; j < basis.start[m + 1]!; j++) {
+      const plus = foldedIndex(basis, j, dims);
+      const minus = (mod(-z[3 * j]!, dims[0]) * n2 + mod(-z[3 * j + 1]!, n2)) * n3 + mod(-z[3 * j + 2]!, n3);
+      w[plus] = w[plus]! + half;
+      w[minus] = w[minus]! + half;
+    }
+  }
+  for (let q = 1; q < mesh.total; q++) if (!(w[q]! > 0)) return null;
+  return w;
+}
+
+/** One solve of the fit's system for values given at the irreducible points. */
+export interface SpectralSolution {
+  /** Σ_i μ_i S_m(k_i) for every star m. */
+  sums: Float64Array;
+  /** Mean of the values over the whole mesh (the constant that the multipliers leave free). */
+  mean: number;
+  /** μ_i of irreducible point i (computed on first use: one more transform). */
+  multiplier(i: number): number;
+}
+
+/**
+ * The fit's system H μ = ε + C with Σ_i μ_i = 0 solved in Fourier space (see the top of this file): one
+ * transform of the values spread over the mesh, divided by the kernel's spectrum.
+ */
+export class MeshSpectralSolver {
+  private readonly phases: StarPhases;
+
+  constructor(
+    readonly basis: StarBasis,
+    readonly mesh: RegularMesh,
+    private readonly spectrum: Float64Array,
+  ) {
+    this.phases = starPhases(basis, mesh);
+  }
+
+  solve(values: ArrayLike<number>): SpectralSolution {
+    const { mesh, spectrum } = this;
+    const total = mesh.total;
+    const re = new Float64Array(total);
+    const im = new Float64Array(total);
+    for (let q = 0; q < total; q++) re[q] = values[mesh.irreducibleOf[q]!]!;
+    meshTransform(re, im, mesh.divisions);
+    const mean = re[0]! / total;
+    re[0] = 0;
+    im[0] = 0;
+    for (let q = 1; q < total; q++) {
+      re[q] = re[q]! / spectrum[q]!;
+      im[q] = im[q]! / spectrum[q]!;
+    }
+    const sums = readStarSums(this.phases, re, im, this.basis.count);
+    let mu: Float64Array | null = null;
+    const multiplier = (i: number): number => {
+      if (!mu) {
+        // ν(q) = (1/N) Σ_G V(G) e^{−2πi q·G/n}: the transform of the conjugate, conjugated; μ_i sums ν over star(i).
+        const nr = re.slice();
+        const ni = im.map((x) => -x);
+        meshTransform(nr, ni, mesh.divisions);
+        mu = new Float64Array(mesh.starSize.length);
+        for (let q = 0; q < total; q++) {
+          const i = mesh.irreducibleOf[q]!;
+          mu[i] = mu[i]! + nr[q]! / total;
+        }
+      }
+      return mu[i]!;
+    };
+    return { sums, mean, multiplier };
+  }
 }
