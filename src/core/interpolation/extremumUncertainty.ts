@@ -14,6 +14,12 @@ import { refineExtremum, type NewtonOptions, type RefinedPoint, type StationaryK
 
 /** Number of nearest irreducible points left out, one at a time. */
 export const LEAVE_OUT_COUNT = 4;
+/**
+ * Most Newton steps of a refit from the extremum found: a refit that keeps the extremum reaches it in a few
+ * (it starts next to it, and Newton converges quadratically there); one still searching after this many has
+ * lost it.
+ */
+export const REFIT_MAX_ITERATIONS = 12;
 
 export interface ExtremumUncertainty {
   /** Largest change of the extremum's energy, eV. */
@@ -48,10 +54,11 @@ export function extremumUncertainty(
   let leftOutError = 0;
   let lost = 0;
   const dm: Vec3 = [0, 0, 0];
+  const refitNewton = { ...newton, maxIterations: Math.min(newton.maxIterations ?? REFIT_MAX_ITERATIONS, REFIT_MAX_ITERATIONS) };
   for (const p of nearest) {
     const reduced = fit.fit(energies, p);
     leftOutError = Math.max(leftOutError, Math.abs(reduced.value([kCart[3 * p]!, kCart[3 * p + 1]!, kCart[3 * p + 2]!]) - energies[p]!));
-    const again = refineExtremum(reduced, found.k, kind, newton);
+    const again = refineExtremum(reduced, found.k, kind, refitNewton);
     if (again.rejected) {
       lost++;
       continue;

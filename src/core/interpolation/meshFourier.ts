@@ -21,106 +21,9 @@
  */
 import type { RegularMesh } from './regularMesh';
 import type { StarBasis } from './starBasis';
+import { meshTransform } from './lineTransform';
 
-/** In-place discrete Fourier transform X[p] = Σ_j x[j] exp(+2πi p·j/n) over the three mesh axes. */
-export function meshTransform(re: Float64Array, im: Float64Array, dims: readonly [number, number, number]): void {
-  const [n1, n2, n3] = dims;
-  const total = n1 * n2 * n3;
-  const strides = [n2 * n3, n3, 1];
-  for (let axis = 0; axis < 3; axis++) {
-    const n = dims[axis]!;
-    if (n === 1) continue;
-    const stride = strides[axis]!;
-    const line = new LineTransform(n);
-    // The lines along the axis start at the indices whose coordinate along it is 0.
-    const outer = total / (n * stride);
-    for (let hi = 0; hi < outer; hi++) {
-      for (let lo = 0; lo < stride; lo++) {
-        const base = hi * n * stride + lo;
-        for (let t = 0; t < n; t++) {
-          line.re[t] = re[base + t * stride]!;
-          line.im[t] = im[base + t * stride]!;
-        }
-        line.run();
-        for (let p = 0; p < n; p++) {
-          re[base + p * stride] = line.re[p]!;
-          im[base + p * stride] = line.im[p]!;
-        }
-      }
-    }
-  }
-}
-
-/**
- * The transform of one line of length n, in place in `re`/`im`: halved (even and odd terms, Cooley–Tukey)
- * while n is even, by the direct sum once it is odd.
- */
-class LineTransform {
-  readonly re: Float64Array;
-  readonly im: Float64Array;
-  private readonly half: LineTransform | null;
-  private readonly odd: LineTransform | null;
-  private readonly wr: Float64Array;
-  private readonly wi: Float64Array;
-  private readonly sr: Float64Array;
-  private readonly si: Float64Array;
-
-  constructor(readonly n: number) {
-    this.re = new Float64Array(n);
-    this.im = new Float64Array(n);
-    this.sr = new Float64Array(n);
-    this.si = new Float64Array(n);
-    const split = n % 2 === 0 && n > 2;
-    this.half = split ? new LineTransform(n / 2) : null;
-    this.odd = split ? new LineTransform(n / 2) : null;
-    // Twiddles: exp(2πi t/n) for the halving, exp(2πi (p t mod n)/n) for the direct sum.
-    const size = split ? n : n * n;
-    this.wr = new Float64Array(size);
-    this.wi = new Float64Array(size);
-    for (let q = 0; q < size; q++) {
-      const angle = (2 * Math.PI * (split ? q : (Math.floor(q / n) * (q % n)) % n)) / n;
-      this.wr[q] = Math.cos(angle);
-      this.wi[q] = Math.sin(angle);
-    }
-  }
-
-  run(): void {
-    const { n, re, im, wr, wi, half, odd } = this;
-    if (half && odd) {
-      const m = n / 2;
-      for (let t = 0; t < m; t++) {
-        half.re[t] = re[2 * t]!;
-        half.im[t] = im[2 * t]!;
-        odd.re[t] = re[2 * t + 1]!;
-        odd.im[t] = im[2 * t + 1]!;
-      }
-      half.run();
-      odd.run();
-      for (let p = 0; p < n; p++) {
-        const q = p < m ? p : p - m;
-        const orr = odd.re[q]!;
-        const oi = odd.im[q]!;
-        re[p] = half.re[q]! + wr[p]! * orr - wi[p]! * oi;
-        im[p] = half.im[q]! + wr[p]! * oi + wi[p]! * orr;
-      }
-      return;
-    }
-    const { sr, si } = this;
-    for (let p = 0; p < n; p++) {
-      let ar = 0;
-      let ai = 0;
-      const o = p * n;
-      for (let t = 0; t < n; t++) {
-        ar += re[t]! * wr[o + t]! - im[t]! * wi[o + t]!;
-        ai += re[t]! * wi[o + t]! + im[t]! * wr[o + t]!;
-      }
-      sr[p] = ar;
-      si[p] = ai;
-    }
-    re.set(sr);
-    im.set(si);
-  }
-}
+export { meshTransform } from './lineTransform';
 
 const mod = (x: number, n: number): number => ((x % n) + n) % n;
 
@@ -272,8 +175,8 @@ export interface SpectralSolution {
   sums: Float64Array;
   /** Mean of the values over the whole mesh (the constant that the multipliers leave free). */
   mean: number;
-  /** μ_i of irreducible point i (computed on first use: one more transform). */
-  multiplier(i: number): number;
+  /** μ_i of every irreducible point, when asked for (one more transform). */
+  multipliers: Float64Array | null;
 }
 
 /**
@@ -291,7 +194,7 @@ export class MeshSpectralSolver {
     this.phases = starPhases(basis, mesh);
   }
 
-  solve(values: ArrayLike<number>): SpectralSolution {
+  solve(values: ArrayLike<number>, withMultipliers = false): SpectralSolution {
     const { mesh, spectrum } = this;
     const total = mesh.total;
     const re = new Float64Array(total);
@@ -303,24 +206,24 @@ export class MeshSpectralSolver {
     im[0] = 0;
     for (let q = 1; q < total; q++) {
       re[q] = re[q]! / spectrum[q]!;
-      im[q] = im[q]! / spectrum[q]!;
+      im[q] = -im[q]! / spectrum[q]!;
     }
-    const sums = readStarSums(this.phases, re, im, this.basis.count);
-    let mu: Float64Array | null = null;
-    const multiplier = (i: number): number => {
-      if (!mu) {
-        // ν(q) = (1/N) Σ_G V(G) e^{−2πi q·G/n}: the transform of the conjugate, conjugated; μ_i sums ν over star(i).
-        const nr = re.slice();
-        const ni = im.map((x) => -x);
-        meshTransform(nr, ni, mesh.divisions);
-        mu = new Float64Array(mesh.starSize.length);
-        for (let q = 0; q < total; q++) {
-          const i = mesh.irreducibleOf[q]!;
-          mu[i] = mu[i]! + nr[q]! / total;
-        }
-      }
-      return mu[i]!;
-    };
-    return { sums, mean, multiplier };
+    // Read with the conjugate undone (im was negated for the inverse below).
+    const sums = readStarSums(
+      this.phases,
+      re,
+      im.map((x) => -x),
+      this.basis.count,
+    );
+    if (!withMultipliers) return { sums, mean, multipliers: null };
+    // ν(q) = (1/N) Σ_G V(G) e^{−2πi q·G/n}: the transform of the conjugate (taken above), conjugated; μ_i sums
+    // ν over star(i).
+    meshTransform(re, im, mesh.divisions);
+    const mu = new Float64Array(mesh.starSize.length);
+    for (let q = 0; q < total; q++) {
+      const i = mesh.irreducibleOf[q]!;
+      mu[i] = mu[i]! + re[q]! / total;
+    }
+    return { sums, mean, multipliers: mu };
   }
 }

@@ -71,15 +71,18 @@ export function refineExtremum(band: SmoothBand, start: Vec3, kind: StationaryKi
       step = step.map((x) => (x * opt.maxStep) / len) as Vec3;
       len = opt.maxStep;
     }
-    let next = band.derivatives([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
-    for (let halving = 0; halving < 30 && sign * (next.value - d.value) > 1e-12 * Math.max(1, Math.abs(d.value)); halving++) {
+    // The halvings need only the energy (a third of the work); the derivatives once, where the step ends.
+    let next = band.value([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
+    for (let halving = 0; halving < 30 && sign * (next - d.value) > 1e-12 * Math.max(1, Math.abs(d.value)); halving++) {
       step = step.map((x) => x / 2) as Vec3;
       len /= 2;
-      next = band.derivatives([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
+      next = band.value([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
     }
     k = [k[0] + step[0], k[1] + step[1], k[2] + step[2]];
-    d = next;
+    d = band.derivatives(k);
     iterations++;
+    // Gone beyond maxTravel: rejected as escaped whatever comes next, so stop here.
+    if (norm([k[0] - start[0], k[1] - start[1], k[2] - start[2]]) > opt.maxTravel) break;
     if (len < 1e-11) {
       converged = true;
       break;

@@ -155,7 +155,9 @@ export class SmoothStarFit {
   /**
    * The fit in Fourier space. Leaving out p: the multipliers μ(ε) − f μ(e_p) with f = μ_p(ε)/μ_p(e_p) give p a
    * zero multiplier and keep every other equation (up to the free constant), as the reduced-system solution
-   * above; the constant is then the mean of ε over the mesh less f times that of e_p (c_p/N).
+   * above; the constant is then the mean of ε over the mesh less f times that of e_p (c_p/N). The map from
+   * values to multipliers is symmetric (the bordered system is), so μ_p(ε) = Σ_i μ_i(e_p) ε_i: only e_p's
+   * multipliers are needed, the same for every band.
    */
   private spectralFit(energies: ArrayLike<number>, exclude: number | null): StarInterpolant {
     const solver = this.spectral!;
@@ -171,12 +173,18 @@ export class SmoothStarFit {
     if (exclude !== null) {
       let out = this.spectralCorrections.get(exclude);
       if (!out) {
-        out = solver.solve(Float64Array.from({ length: this.n }, (_, i) => (i === exclude ? 1 : 0)));
+        out = solver.solve(
+          Float64Array.from({ length: this.n }, (_, i) => (i === exclude ? 1 : 0)),
+          true,
+        );
         if (this.spectralCorrections.size >= MAX_CORRECTIONS)
           this.spectralCorrections.delete(this.spectralCorrections.keys().next().value!);
         this.spectralCorrections.set(exclude, out);
       }
-      const f = base.multiplier(exclude) / out.multiplier(exclude);
+      const mu = out.multipliers!;
+      let muOfEnergies = 0;
+      for (let i = 0; i < this.n; i++) muOfEnergies += mu[i]! * energies[i]!;
+      const f = muOfEnergies / mu[exclude]!;
       for (let j = 0; j < c.length; j++) c[j] = c[j]! - f * out.sums[j]!;
       c0 -= f * out.mean;
     }

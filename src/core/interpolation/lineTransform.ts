@@ -1,0 +1,125 @@
+/**
+ * The discrete Fourier transform over a mesh, X[p] = Σ_j x[j] exp(+2πi p·j/n) over the three axes, line by line.
+ * Each line of length n = a·b is done in two short direct sums (Cooley–Tukey with one split, a the largest
+ * divisor of n not above √n): n(a + b) products instead of n², from tables made once per length.
+ */
+
+/** In-place transform of the mesh (re, im), axes n1 × n2 × n3 in row-major order. */
+export function meshTransform(re: Float64Array, im: Float64Array, dims: readonly [number, number, number]): void {
+  const [n1, n2, n3] = dims;
+  const total = n1 * n2 * n3;
+  const strides = [n2 * n3, n3, 1];
+  for (let axis = 0; axis < 3; axis++) {
+    const n = dims[axis]!;
+    if (n === 1) continue;
+    const stride = strides[axis]!;
+    const line = lineTransform(n);
+    const { xr, xi } = line;
+    // The lines along the axis start at the indices whose coordinate along it is 0.
+    const outer = total / (n * stride);
+    for (let hi = 0; hi < outer; hi++) {
+      for (let lo = 0; lo < stride; lo++) {
+        const base = hi * n * stride + lo;
+        for (let t = 0, at = base; t < n; t++, at += stride) {
+          xr[t] = re[at]!;
+          xi[t] = im[at]!;
+        }
+        line.run();
+        for (let p = 0, at = base; p < n; p++, at += stride) {
+          re[at] = xr[p]!;
+          im[at] = xi[p]!;
+        }
+      }
+    }
+  }
+}
+
+const lines = new Map<number, LineTransform>();
+
+function lineTransform(n: number): LineTransform {
+  let hit = lines.get(n);
+  if (!hit) {
+    hit = new LineTransform(n);
+    if (lines.size > 8) lines.delete(lines.keys().next().value!);
+    lines.set(n, hit);
+  }
+  return hit;
+}
+
+/** One line of length n = a·b, in place in xr/xi: t = b·t1 + t2, p = p1 + a·p2. */
+class LineTransform {
+  readonly xr: Float64Array;
+  readonly xi: Float64Array;
+  private readonly a: number;
+  private readonly b: number;
+  /** exp(2πi t1 p1 / a) at t1·a + p1. */
+  private readonly war: Float64Array;
+  private readonly wai: Float64Array;
+  /** exp(2πi t2 p / n) at t2·n + p. */
+  private readonly wbr: Float64Array;
+  private readonly wbi: Float64Array;
+  /** The inner sums Y[t2·a + p1] = Σ_t1 x[b·t1 + t2] exp(2πi t1 p1 / a). */
+  private readonly yr: Float64Array;
+  private readonly yi: Float64Array;
+
+  constructor(readonly n: number) {
+    let a = 1;
+    for (let d = 2; d * d <= n; d++) if (n % d === 0) a = d;
+    const b = n / a;
+    this.a = a;
+    this.b = b;
+    this.xr = new Float64Array(n);
+    this.xi = new Float64Array(n);
+    this.yr = new Float64Array(n);
+    this.yi = new Float64Array(n);
+    this.war = new Float64Array(a * a);
+    this.wai = new Float64Array(a * a);
+    for (let t = 0; t < a; t++) {
+      for (let p = 0; p < a; p++) {
+        const angle = (2 * Math.PI * ((t * p) % a)) / a;
+        this.war[t * a + p] = Math.cos(angle);
+        this.wai[t * a + p] = Math.sin(angle);
+      }
+    }
+    this.wbr = new Float64Array(b * n);
+    this.wbi = new Float64Array(b * n);
+    for (let t = 0; t < b; t++) {
+      for (let p = 0; p < n; p++) {
+        const angle = (2 * Math.PI * ((t * p) % n)) / n;
+        this.wbr[t * n + p] = Math.cos(angle);
+        this.wbi[t * n + p] = Math.sin(angle);
+      }
+    }
+  }
+
+  run(): void {
+    const { n, a, b, xr, xi, yr, yi, war, wai, wbr, wbi } = this;
+    for (let t2 = 0; t2 < b; t2++) {
+      for (let p1 = 0; p1 < a; p1++) {
+        let sr = 0;
+        let si = 0;
+        for (let t1 = 0, w = p1; t1 < a; t1++, w += a) {
+          const r = xr[b * t1 + t2]!;
+          const i = xi[b * t1 + t2]!;
+          sr += r * war[w]! - i * wai[w]!;
+          si += r * wai[w]! + i * war[w]!;
+        }
+        yr[t2 * a + p1] = sr;
+        yi[t2 * a + p1] = si;
+      }
+    }
+    for (let p = 0; p < n; p++) {
+      const p1 = p % a;
+      let sr = 0;
+      let si = 0;
+      for (let t2 = 0, w = p; t2 < b; t2++, w += n) {
+        const r = yr[t2 * a + p1]!;
+        const i = yi[t2 * a + p1]!;
+        sr += r * wbr[w]! - i * wbi[w]!;
+        si += r * wbi[w]! + i * wbr[w]!;
+      }
+      xr[p] = sr;
+      xi[p] = si;
+    }
+  }
+}
