@@ -20,7 +20,8 @@
  * singular there); the caller falls back to the matrix otherwise.
  */
 import type { RegularMesh } from './regularMesh';
-import type { StarBasis } from './starBasis';
+import { starValuesFractional, type StarBasis } from './starBasis';
+import { meshPoint } from './meshExtrema';
 import { meshTransform } from './lineTransform';
 
 export { meshTransform } from './lineTransform';
@@ -175,8 +176,6 @@ export interface SpectralSolution {
   sums: Float64Array;
   /** Mean of the values over the whole mesh (the constant that the multipliers leave free). */
   mean: number;
-  /** μ_i of every irreducible point, when asked for (one more transform). */
-  multipliers: Float64Array | null;
 }
 
 /**
@@ -185,16 +184,22 @@ export interface SpectralSolution {
  */
 export class MeshSpectralSolver {
   private readonly phases: StarPhases;
+  /** K(d) = (1/N) Σ_{G≢0} e^{−2πi d·G/n} / F̂(G) on the mesh of differences (made on first use). */
+  private kernel: Float64Array | null = null;
+  /** The mesh points of each irreducible point's star: points[from[i] .. from[i+1]−1]. */
+  private stars: { from: Int32Array; points: Int32Array } | null = null;
 
+  /** `own`: each irreducible point's own mesh index (meshIndexOf). */
   constructor(
     readonly basis: StarBasis,
     readonly mesh: RegularMesh,
     private readonly spectrum: Float64Array,
+    private readonly own: Int32Array,
   ) {
     this.phases = starPhases(basis, mesh);
   }
 
-  solve(values: ArrayLike<number>, withMultipliers = false): SpectralSolution {
+  solve(values: ArrayLike<number>): SpectralSolution {
     const { mesh, spectrum } = this;
     const total = mesh.total;
     const re = new Float64Array(total);
@@ -206,24 +211,70 @@ export class MeshSpectralSolver {
     im[0] = 0;
     for (let q = 1; q < total; q++) {
       re[q] = re[q]! / spectrum[q]!;
-      im[q] = -im[q]! / spectrum[q]!;
+      im[q] = im[q]! / spectrum[q]!;
     }
-    // Read with the conjugate undone (im was negated for the inverse below).
-    const sums = readStarSums(
-      this.phases,
-      re,
-      im.map((x) => -x),
-      this.basis.count,
-    );
-    if (!withMultipliers) return { sums, mean, multipliers: null };
-    // ν(q) = (1/N) Σ_G V(G) e^{−2πi q·G/n}: the transform of the conjugate (taken above), conjugated; μ_i sums
-    // ν over star(i).
+    return { sums: readStarSums(this.phases, re, im, this.basis.count), mean };
+  }
+
+  /**
+   * The solution for the values e_p (1 at irreducible point p, 0 elsewhere) without a transform, and the
+   * multipliers μ_i(e_p) of every point. Its transform is known: Σ_{q∈star(p)} e^{iq·R_m} = c_p S_m(k_p)
+   * (S_m at p's exact place on the mesh); and ν = K ∗ 1_{star(p)}, so μ_i = c_i Σ_{q∈star(p)} K(k_i − q) (K is
+   * invariant under the group).
+   */
+  indicator(p: number): SpectralSolution & { multipliers: Float64Array } {
+    const { mesh, spectrum, own } = this;
+    const cp = mesh.starSize[p]!;
+    const starsAtP = starValuesFractional(this.basis, meshPoint(mesh, own[p]!));
+    const sums = new Float64Array(this.basis.count);
+    for (let m = 1; m < sums.length; m++) {
+      const q = this.phases.index[m]!;
+      sums[m] = q === 0 ? 0 : (cp * starsAtP[m]!) / spectrum[q]!;
+    }
+    const kernel = this.kernelTable();
+    const { from, points } = this.starPoints();
+    const [, n2, n3] = mesh.divisions;
+    const [n1] = mesh.divisions;
+    const multipliers = new Float64Array(own.length);
+    for (let i = 0; i < own.length; i++) {
+      const o = own[i]!;
+      const o1 = Math.floor(o / (n2 * n3));
+      const o2 = Math.floor(o / n3) % n2;
+      const o3 = o % n3;
+      let acc = 0;
+      for (let t = from[p]!; t < from[p + 1]!; t++) {
+        const q = points[t]!;
+        const d1 = mod(o1 - Math.floor(q / (n2 * n3)), n1);
+        const d2 = mod(o2 - (Math.floor(q / n3) % n2), n2);
+        const d3 = mod(o3 - (q % n3), n3);
+        acc += kernel[(d1 * n2 + d2) * n3 + d3]!;
+      }
+      multipliers[i] = mesh.starSize[i]! * acc;
+    }
+    return { sums, mean: cp / mesh.total, multipliers };
+  }
+
+  private kernelTable(): Float64Array {
+    if (this.kernel) return this.kernel;
+    const { mesh, spectrum } = this;
+    const re = new Float64Array(mesh.total);
+    const im = new Float64Array(mesh.total);
+    // 1/F̂ is real and even, so its transform is real and either sign of the exponent gives it.
+    for (let q = 1; q < mesh.total; q++) re[q] = 1 / spectrum[q]! / mesh.total;
     meshTransform(re, im, mesh.divisions);
-    const mu = new Float64Array(mesh.starSize.length);
-    for (let q = 0; q < total; q++) {
-      const i = mesh.irreducibleOf[q]!;
-      mu[i] = mu[i]! + re[q]! / total;
-    }
-    return { sums, mean, multipliers: mu };
+    this.kernel = re;
+    return re;
+  }
+
+  private starPoints(): { from: Int32Array; points: Int32Array } {
+    if (this.stars) return this.stars;
+    const { irreducibleOf, starSize } = this.mesh;
+    const from = new Int32Array(starSize.length + 1);
+    for (let i = 0; i < starSize.length; i++) from[i + 1] = from[i]! + starSize[i]!;
+    const fill = from.slice(0, starSize.length);
+    const points = new Int32Array(irreducibleOf.length);
+    for (let q = 0; q < irreducibleOf.length; q++) points[fill[irreducibleOf[q]!]!++] = q;
+    this.stars = { from, points };
+    return this.stars;
   }
 }

@@ -47,7 +47,7 @@ export class SmoothStarFit {
   /** The solver in Fourier space on a mesh, or null. */
   private readonly spectral: MeshSpectralSolver | null = null;
   private readonly spectralSolutions = new WeakMap<object, SpectralSolution & { energies: Float64Array }>();
-  private readonly spectralCorrections = new Map<number, SpectralSolution>();
+  private readonly spectralCorrections = new Map<number, SpectralSolution & { multipliers: Float64Array }>();
   private readonly solutions = new WeakMap<object, Solution>();
   private readonly corrections = new Map<number, Solution>();
   private readonly referenceStars = new Map<number, Float64Array>();
@@ -74,7 +74,7 @@ export class SmoothStarFit {
       this.mesh = layout.mesh;
       this.s = null;
       const spectrum = meshKernelSpectrum(basis, this.inverseRoughness, layout.mesh);
-      this.spectral = spectrum ? new MeshSpectralSolver(basis, layout.mesh, spectrum) : null;
+      this.spectral = spectrum ? new MeshSpectralSolver(basis, layout.mesh, spectrum, own) : null;
       this.h = spectrum ? null : meshFitMatrix(basis, this.inverseRoughness, layout.mesh, own);
       return;
     }
@@ -173,15 +173,12 @@ export class SmoothStarFit {
     if (exclude !== null) {
       let out = this.spectralCorrections.get(exclude);
       if (!out) {
-        out = solver.solve(
-          Float64Array.from({ length: this.n }, (_, i) => (i === exclude ? 1 : 0)),
-          true,
-        );
+        out = solver.indicator(exclude);
         if (this.spectralCorrections.size >= MAX_CORRECTIONS)
           this.spectralCorrections.delete(this.spectralCorrections.keys().next().value!);
         this.spectralCorrections.set(exclude, out);
       }
-      const mu = out.multipliers!;
+      const mu = out.multipliers;
       let muOfEnergies = 0;
       for (let i = 0; i < this.n; i++) muOfEnergies += mu[i]! * energies[i]!;
       const f = muOfEnergies / mu[exclude]!;

@@ -191,13 +191,52 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
   return { count, start, members, integer, lattice, weight, radius: radii, size };
 }
 
-/** S_m(k) for every star m at cartesian k (Å⁻¹), into `out` (length count). */
+const reaches = new WeakMap<StarBasis, number>();
+
+/**
+ * S_m(k) for every star m at cartesian k (Å⁻¹), into `out` (length count). Each cos(k·R) is the real part of
+ * Π_a exp(i n_a θ_a), θ_a = k·a_a, from three short tables.
+ */
 export function starValues(basis: StarBasis, k: Vec3, out: Float64Array = new Float64Array(basis.count)): Float64Array {
-  const { start, members, weight } = basis;
+  const a = basis.lattice;
+  const theta = [0, 1, 2].map((x) => k[0] * a[x]![0] + k[1] * a[x]![1] + k[2] * a[x]![2]) as Vec3;
+  return starValuesAtPhases(basis, theta, out);
+}
+
+/** S_m(k) for every star m at fractional k (reciprocal-lattice coordinates of the basis's lattice). */
+export function starValuesFractional(basis: StarBasis, kFrac: Vec3, out: Float64Array = new Float64Array(basis.count)): Float64Array {
+  return starValuesAtPhases(basis, [2 * Math.PI * kFrac[0], 2 * Math.PI * kFrac[1], 2 * Math.PI * kFrac[2]], out);
+}
+
+/** S_m for every star, θ_a = k·a_a. */
+function starValuesAtPhases(basis: StarBasis, theta: Vec3, out: Float64Array): Float64Array {
+  const { start, integer: z, weight } = basis;
+  let reach = reaches.get(basis);
+  if (reach === undefined) {
+    reach = 0;
+    for (let j = 0; j < z.length; j++) reach = Math.max(reach, Math.abs(z[j]!));
+    reaches.set(basis, reach);
+  }
+  const width = 2 * reach + 1;
+  const tc = new Float64Array(3 * width);
+  const ts = new Float64Array(3 * width);
+  for (let a = 0; a < 3; a++) {
+    for (let n = -reach; n <= reach; n++) {
+      tc[a * width + reach + n] = Math.cos(n * theta[a]!);
+      ts[a * width + reach + n] = Math.sin(n * theta[a]!);
+    }
+  }
+  const o1 = width + reach;
+  const o2 = 2 * width + reach;
   for (let m = 0; m < basis.count; m++) {
     let s = 0;
     for (let j = start[m]!; j < start[m + 1]!; j++) {
-      s += Math.cos(k[0] * members[3 * j]! + k[1] * members[3 * j + 1]! + k[2] * members[3 * j + 2]!);
+      const i0 = z[3 * j]! + reach;
+      const i1 = z[3 * j + 1]! + o1;
+      const i2 = z[3 * j + 2]! + o2;
+      const cr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
+      const ci = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
+      s += cr * tc[i2]! - ci * ts[i2]!;
     }
     out[m] = s * weight[m]!;
   }

@@ -2,9 +2,10 @@
  * One band as a sum of star functions, ε(k) = Σ_m c_m S_m(k), with its analytic gradient and Hessian
  * (cartesian, eV·Å and eV·Å²): ∂/∂k cos(k·R) = −R sin(k·R), ∂²/∂k∂k cos(k·R) = −R Rᵀ cos(k·R).
  *
- * With R = Σ_a n_a a_a the phase is Σ_a n_a θ_a, θ_a = k·a_a, so cos and sin of every member come from three
- * short tables of exp(i n θ_a) by two complex products; derivatives are summed in lattice coordinates and
- * turned cartesian at the end (∂θ_a/∂k = a_a).
+ * With R = Σ_a n_a a_a the phase is Σ_a n_a θ_a, θ_a = k·a_a, read from three short tables of exp(i n θ_a).
+ * The members are regrouped in lines of equal (n_0, n_1) (memberLines): along a line only n_2 changes, so the
+ * sums Σ c e^{i n_2 θ_2} (and with n_2, n_2²) are taken first and multiplied once by e^{i(n_0 θ_0 + n_1 θ_1)}.
+ * Derivatives are summed in lattice coordinates and turned cartesian at the end (∂θ_a/∂k = a_a).
  */
 import type { Mat3, Vec3 } from '../model';
 import type { StarBasis } from './starBasis';
@@ -22,13 +23,10 @@ export interface SmoothBand {
 }
 
 export class StarInterpolant implements SmoothBand {
-  /** c_m times the star's weight, per kept member. */
-  private readonly memberCoefficient: Float64Array;
-  private readonly integer: Int32Array;
-  /** Per member, the positions of n_0, n_1, n_2 in the phase tables (axis a's table starts at a·(2·reach + 1)). */
-  private readonly tableIndex: Int32Array;
-  /** Largest |n_a| of any member, and the tables exp(i n θ_a) for n in −reach..reach (3 axes). */
-  private readonly reach: number;
+  /** c_m times the star's weight, per member in line order. */
+  private readonly lineCoefficient: Float64Array;
+  private readonly lines: MemberLines;
+  /** cos and sin of n θ_a for n in −reach..reach, axis a's table starting at a·(2·reach + 1). */
   private readonly tableCos: Float64Array;
   private readonly tableSin: Float64Array;
 
@@ -36,24 +34,21 @@ export class StarInterpolant implements SmoothBand {
     readonly basis: StarBasis,
     readonly coefficients: Float64Array,
   ) {
-    this.integer = basis.integer;
-    this.memberCoefficient = new Float64Array(basis.members.length / 3);
-    for (let m = 0; m < basis.count; m++) {
-      const f = coefficients[m]! * basis.weight[m]!;
-      for (let j = basis.start[m]!; j < basis.start[m + 1]!; j++) this.memberCoefficient[j] = f;
+    const lines = memberLines(basis);
+    this.lines = lines;
+    this.lineCoefficient = new Float64Array(lines.star.length);
+    for (let p = 0; p < lines.star.length; p++) {
+      const m = lines.star[p]!;
+      this.lineCoefficient[p] = coefficients[m]! * basis.weight[m]!;
     }
-    const reach = reachOf(basis);
-    this.reach = reach;
-    const width = 2 * reach + 1;
-    this.tableIndex = new Int32Array(this.integer.length);
-    for (let j = 0; j < this.integer.length; j++) this.tableIndex[j] = this.integer[j]! + (j % 3) * width + reach;
-    this.tableCos = new Float64Array(3 * (2 * reach + 1));
-    this.tableSin = new Float64Array(3 * (2 * reach + 1));
+    this.tableCos = new Float64Array(3 * (2 * lines.reach + 1));
+    this.tableSin = new Float64Array(3 * (2 * lines.reach + 1));
   }
 
   /** Fills the phase tables at cartesian k. */
   private tables(k: Vec3): void {
-    const { reach, tableCos, tableSin } = this;
+    const { tableCos, tableSin } = this;
+    const reach = this.lines.reach;
     const width = 2 * reach + 1;
     const a = this.basis.lattice;
     for (let axis = 0; axis < 3; axis++) {
@@ -69,15 +64,22 @@ export class StarInterpolant implements SmoothBand {
   /** ε(k), k cartesian Å⁻¹. */
   value(k: Vec3): number {
     this.tables(k);
-    const { tableIndex: t, memberCoefficient: c, tableCos: tc, tableSin: ts } = this;
+    const { lineCoefficient: c, tableCos: tc, tableSin: ts } = this;
+    const { start, at0, at1, at2 } = this.lines;
     let e = 0;
-    for (let j = 0; j < c.length; j++) {
-      const i0 = t[3 * j]!;
-      const i1 = t[3 * j + 1]!;
-      const i2 = t[3 * j + 2]!;
-      const cr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
-      const ci = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
-      e += c[j]! * (cr * tc[i2]! - ci * ts[i2]!);
+    for (let l = 0; l + 1 < start.length; l++) {
+      let ar = 0;
+      let ai = 0;
+      for (let p = start[l]!; p < start[l + 1]!; p++) {
+        const i2 = at2[p]!;
+        ar += c[p]! * tc[i2]!;
+        ai += c[p]! * ts[i2]!;
+      }
+      const i0 = at0[l]!;
+      const i1 = at1[l]!;
+      const pr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
+      const pi = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
+      e += pr * ar - pi * ai;
     }
     return e;
   }
@@ -85,7 +87,8 @@ export class StarInterpolant implements SmoothBand {
   /** ε, ∇ε and the Hessian at cartesian k. */
   derivatives(k: Vec3): BandDerivatives {
     this.tables(k);
-    const { integer: z, tableIndex: t, memberCoefficient: c, tableCos: tc, tableSin: ts } = this;
+    const { lineCoefficient: c, tableCos: tc, tableSin: ts } = this;
+    const { start, at0, at1, at2, n0, n1, n2 } = this.lines;
     let e = 0;
     let g0 = 0,
       g1 = 0,
@@ -96,27 +99,48 @@ export class StarInterpolant implements SmoothBand {
       h11 = 0,
       h12 = 0,
       h22 = 0;
-    for (let j = 0; j < c.length; j++) {
-      const n0 = z[3 * j]!;
-      const n1 = z[3 * j + 1]!;
-      const n2 = z[3 * j + 2]!;
-      const i0 = t[3 * j]!;
-      const i1 = t[3 * j + 1]!;
-      const i2 = t[3 * j + 2]!;
-      const cr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
-      const ci = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
-      const cs = c[j]! * (cr * tc[i2]! - ci * ts[i2]!);
-      const sn = c[j]! * (cr * ts[i2]! + ci * tc[i2]!);
-      e += cs;
-      g0 -= n0 * sn;
-      g1 -= n1 * sn;
-      g2 -= n2 * sn;
-      h00 -= n0 * n0 * cs;
-      h01 -= n0 * n1 * cs;
-      h02 -= n0 * n2 * cs;
-      h11 -= n1 * n1 * cs;
-      h12 -= n1 * n2 * cs;
-      h22 -= n2 * n2 * cs;
+    for (let l = 0; l + 1 < start.length; l++) {
+      // A = Σ c e^{i n2 θ2}, B = Σ c n2 e^{i n2 θ2}, C = Σ c n2² e^{i n2 θ2} along the line.
+      let ar = 0,
+        ai = 0,
+        br = 0,
+        bi = 0,
+        cr = 0,
+        ci = 0;
+      for (let p = start[l]!; p < start[l + 1]!; p++) {
+        const i2 = at2[p]!;
+        const x = c[p]! * tc[i2]!;
+        const y = c[p]! * ts[i2]!;
+        const m = n2[p]!;
+        ar += x;
+        ai += y;
+        br += m * x;
+        bi += m * y;
+        cr += m * m * x;
+        ci += m * m * y;
+      }
+      const i0 = at0[l]!;
+      const i1 = at1[l]!;
+      const pr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
+      const pi = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
+      // Σ c cos φ and Σ c sin φ with their n2 and n2² weights, φ the whole phase.
+      const cosA = pr * ar - pi * ai;
+      const sinA = pr * ai + pi * ar;
+      const cosB = pr * br - pi * bi;
+      const sinB = pr * bi + pi * br;
+      const cosC = pr * cr - pi * ci;
+      const m0 = n0[l]!;
+      const m1 = n1[l]!;
+      e += cosA;
+      g0 -= m0 * sinA;
+      g1 -= m1 * sinA;
+      g2 -= sinB;
+      h00 -= m0 * m0 * cosA;
+      h01 -= m0 * m1 * cosA;
+      h02 -= m0 * cosB;
+      h11 -= m1 * m1 * cosA;
+      h12 -= m1 * cosB;
+      h22 -= cosC;
     }
     // Cartesian: ∇_k = Σ_a a_a ∂/∂θ_a; Hessian Aᵀ H_θ A with the lattice rows A.
     const a = this.basis.lattice;
@@ -138,15 +162,78 @@ export class StarInterpolant implements SmoothBand {
   }
 }
 
-const reaches = new WeakMap<StarBasis, number>();
+/**
+ * The members of a basis in lines: R and −R give the same terms (cos is even, and the gradient and Hessian
+ * terms are even in R too), so each member is taken with its first nonzero coordinate positive; sorted by
+ * (n_0, n_1, n_2), those with the same (n_0, n_1) form a line. Made once per basis.
+ */
+interface MemberLines {
+  /** Largest |n_a| of any member. */
+  reach: number;
+  /** Line l holds positions start[l] .. start[l+1]−1; its n_0, n_1 and their places in the phase tables. */
+  start: Int32Array;
+  n0: Float64Array;
+  n1: Float64Array;
+  at0: Int32Array;
+  at1: Int32Array;
+  /** Per position: n_2, its place in the phase table, and the star the member belongs to. */
+  n2: Float64Array;
+  at2: Int32Array;
+  star: Int32Array;
+}
 
-/** Largest |n_a| of any member of the basis (computed once per basis). */
-function reachOf(basis: StarBasis): number {
-  let reach = reaches.get(basis);
-  if (reach === undefined) {
-    reach = 0;
-    for (const x of basis.integer) reach = Math.max(reach, Math.abs(x));
-    reaches.set(basis, reach);
+const layouts = new WeakMap<StarBasis, MemberLines>();
+
+function memberLines(basis: StarBasis): MemberLines {
+  const hit = layouts.get(basis);
+  if (hit) return hit;
+  const z = basis.integer;
+  const count = z.length / 3;
+  let reach = 0;
+  for (const x of z) reach = Math.max(reach, Math.abs(x));
+  const width = 2 * reach + 1;
+  const canon = new Int32Array(3 * count);
+  const star = new Int32Array(count);
+  for (let m = 0; m < basis.count; m++) {
+    for (let j = basis.start[m]!; j < basis.start[m + 1]!; j++) {
+      const [a, b, c] = [z[3 * j]!, z[3 * j + 1]!, z[3 * j + 2]!];
+      const flip = a < 0 || (a === 0 && (b < 0 || (b === 0 && c < 0))) ? -1 : 1;
+      canon[3 * j] = flip * a;
+      canon[3 * j + 1] = flip * b;
+      canon[3 * j + 2] = flip * c;
+      star[j] = m;
+    }
   }
-  return reach;
+  const order = Int32Array.from({ length: count }, (_, j) => j).sort(
+    (p, q) => canon[3 * p]! - canon[3 * q]! || canon[3 * p + 1]! - canon[3 * q + 1]! || canon[3 * p + 2]! - canon[3 * q + 2]!,
+  );
+  const starts: number[] = [];
+  const n0: number[] = [];
+  const n1: number[] = [];
+  const out = { n2: new Float64Array(count), at2: new Int32Array(count), star: new Int32Array(count) };
+  for (let p = 0; p < count; p++) {
+    const j = order[p]!;
+    const a = canon[3 * j]!;
+    const b = canon[3 * j + 1]!;
+    if (p === 0 || a !== n0[n0.length - 1] || b !== n1[n1.length - 1]) {
+      starts.push(p);
+      n0.push(a);
+      n1.push(b);
+    }
+    out.n2[p] = canon[3 * j + 2]!;
+    out.at2[p] = canon[3 * j + 2]! + 2 * width + reach;
+    out.star[p] = star[j]!;
+  }
+  starts.push(count);
+  const lines: MemberLines = {
+    reach,
+    start: Int32Array.from(starts),
+    n0: Float64Array.from(n0),
+    n1: Float64Array.from(n1),
+    at0: Int32Array.from(n0, (x) => x + reach),
+    at1: Int32Array.from(n1, (x) => x + width + reach),
+    ...out,
+  };
+  layouts.set(basis, lines);
+  return lines;
 }
