@@ -21,6 +21,7 @@
  */
 import type { RegularMesh } from './regularMesh';
 import { starValuesFractional, type StarBasis } from './starBasis';
+import { inverseRoughnessOf } from './roughness';
 import { meshPoint } from './meshExtrema';
 import { meshTransform } from './lineTransform';
 
@@ -151,7 +152,20 @@ function readStarSums(p: StarPhases, re: Float64Array, im: Float64Array, count: 
  * F̂(G) = N w(G) on the mesh of frequencies (G ≡ R modulo the divisions), w(G) = Σ_{R ≡ G, R ≠ 0} 1/(ρ(R) n(R))
  * over every vector of the basis (both of each ±R pair); null when a frequency G ≢ 0 holds no vector.
  */
-export function meshKernelSpectrum(basis: StarBasis, inverseRoughness: Float64Array, mesh: RegularMesh): Float64Array | null {
+export function meshKernelSpectrum(basis: StarBasis, mesh: RegularMesh): Float64Array | null {
+  // The same basis and divisions give the same spectrum.
+  const key = mesh.divisions.join('×');
+  let perBasis = spectra.get(basis);
+  if (!perBasis) spectra.set(basis, (perBasis = new Map<string, Float64Array | null>()));
+  if (!perBasis.has(key)) perBasis.set(key, kernelSpectrum(basis, inverseRoughnessOf(basis), mesh));
+  return perBasis.get(key)!;
+}
+
+const spectra = new WeakMap<StarBasis, Map<string, Float64Array | null>>();
+/** The inverse kernels made from each spectrum. */
+const kernels = new WeakMap<Float64Array, Float64Array>();
+
+function kernelSpectrum(basis: StarBasis, inverseRoughness: Float64Array, mesh: RegularMesh): Float64Array | null {
   const dims = mesh.divisions;
   const [, n2, n3] = dims;
   const z = basis.integer;
@@ -257,11 +271,14 @@ export class MeshSpectralSolver {
   private kernelTable(): Float64Array {
     if (this.kernel) return this.kernel;
     const { mesh, spectrum } = this;
+    const hit = kernels.get(spectrum);
+    if (hit) return (this.kernel = hit);
     const re = new Float64Array(mesh.total);
     const im = new Float64Array(mesh.total);
     // 1/F̂ is real and even, so its transform is real and either sign of the exponent gives it.
     for (let q = 1; q < mesh.total; q++) re[q] = 1 / spectrum[q]! / mesh.total;
     meshTransform(re, im, mesh.divisions);
+    kernels.set(spectrum, re);
     this.kernel = re;
     return re;
   }

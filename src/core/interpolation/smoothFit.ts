@@ -15,7 +15,7 @@ import type { Vec3 } from '../model';
 import { choleskyFactor, choleskySolve } from './cholesky';
 import { MeshSpectralSolver, meshFitMatrix, meshIndexOf, meshKernelSpectrum, meshStarSums, type SpectralSolution } from './meshFourier';
 import type { RegularMesh } from './regularMesh';
-import { roughness } from './roughness';
+import { inverseRoughnessOf } from './roughness';
 import { starValues, type StarBasis } from './starBasis';
 import { StarInterpolant } from './starInterpolant';
 
@@ -66,14 +66,12 @@ export class SmoothStarFit {
     if (!Number.isInteger(n) || n < 2) throw new RangeError('The fit needs at least two k-points.');
     if (m <= n) throw new RangeError(`The fit needs more stars (${m}) than k-points (${n}).`);
     this.n = n;
-    const rMin = basis.radius[1]!;
-    this.inverseRoughness = new Float64Array(m);
-    for (let j = 1; j < m; j++) this.inverseRoughness[j] = 1 / roughness(basis.radius[j]!, rMin);
+    this.inverseRoughness = inverseRoughnessOf(basis);
     const own = layout && layout.kFrac.length === kCart.length ? meshIndexOf(layout.mesh, layout.kFrac) : null;
     if (layout && own) {
       this.mesh = layout.mesh;
       this.s = null;
-      const spectrum = meshKernelSpectrum(basis, this.inverseRoughness, layout.mesh);
+      const spectrum = meshKernelSpectrum(basis, layout.mesh);
       this.spectral = spectrum ? new MeshSpectralSolver(basis, layout.mesh, spectrum, own) : null;
       this.h = spectrum ? null : meshFitMatrix(basis, this.inverseRoughness, layout.mesh, own);
       return;

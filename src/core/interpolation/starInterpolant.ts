@@ -204,9 +204,14 @@ function memberLines(basis: StarBasis): MemberLines {
       star[j] = m;
     }
   }
-  const order = Int32Array.from({ length: count }, (_, j) => j).sort(
-    (p, q) => canon[3 * p]! - canon[3 * q]! || canon[3 * p + 1]! - canon[3 * q + 1]! || canon[3 * p + 2]! - canon[3 * q + 2]!,
-  );
+  // Sorted by one number per member, (n_0, n_1, n_2) in a box, times count plus the member (a typed sort).
+  const keys = new Float64Array(count);
+  for (let j = 0; j < count; j++) {
+    const box = ((canon[3 * j]! + reach) * width + canon[3 * j + 1]! + reach) * width + canon[3 * j + 2]! + reach;
+    keys[j] = box * count + j;
+  }
+  keys.sort();
+  const order = Int32Array.from(keys, (x) => x % count);
   const starts: number[] = [];
   const n0: number[] = [];
   const n1: number[] = [];
