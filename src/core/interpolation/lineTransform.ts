@@ -72,54 +72,54 @@ class LineTransform {
     this.xi = new Float64Array(n);
     this.yr = new Float64Array(n);
     this.yi = new Float64Array(n);
-    this.war = new Float64Array(a * a);
-    this.wai = new Float64Array(a * a);
-    for (let t = 0; t < a; t++) {
-      for (let p = 0; p < a; p++) {
-        const angle = (2 * Math.PI * ((t * p) % a)) / a;
-        this.war[t * a + p] = Math.cos(angle);
-        this.wai[t * a + p] = Math.sin(angle);
-      }
-    }
-    this.wbr = new Float64Array(b * n);
-    this.wbi = new Float64Array(b * n);
-    for (let t = 0; t < b; t++) {
-      for (let p = 0; p < n; p++) {
-        const angle = (2 * Math.PI * ((t * p) % n)) / n;
-        this.wbr[t * n + p] = Math.cos(angle);
-        this.wbi[t * n + p] = Math.sin(angle);
-      }
-    }
+    [this.war, this.wai] = twiddles(a, a);
+    [this.wbr, this.wbi] = twiddles(b, n);
   }
 
   run(): void {
     const { n, a, b, xr, xi, yr, yi, war, wai, wbr, wbi } = this;
     for (let t2 = 0; t2 < b; t2++) {
-      for (let p1 = 0; p1 < a; p1++) {
-        let sr = 0;
-        let si = 0;
-        for (let t1 = 0, w = p1; t1 < a; t1++, w += a) {
-          const r = xr[b * t1 + t2]!;
-          const i = xi[b * t1 + t2]!;
-          sr += r * war[w]! - i * wai[w]!;
-          si += r * wai[w]! + i * war[w]!;
-        }
-        yr[t2 * a + p1] = sr;
-        yi[t2 * a + p1] = si;
-      }
+      for (let p1 = 0; p1 < a; p1++) weightedSum(yr, yi, t2 * a + p1, xr, xi, t2, b, war, wai, p1, a, a);
     }
+    for (let p = 0; p < n; p++) weightedSum(xr, xi, p, yr, yi, p % a, a, wbr, wbi, p, n, b);
+  }
+}
+
+/** out[at] = Σ_{s<count} x[x0 + s·xStep] w[w0 + s·wStep], complex (real and imaginary arrays). */
+function weightedSum(
+  outR: Float64Array,
+  outI: Float64Array,
+  at: number,
+  xr: Float64Array,
+  xi: Float64Array,
+  x0: number,
+  xStep: number,
+  wr: Float64Array,
+  wi: Float64Array,
+  w0: number,
+  wStep: number,
+  count: number,
+): void {
+  let sr = 0;
+  let si = 0;
+  for (let s = 0, x = x0, w = w0; s < count; s++, x += xStep, w += wStep) {
+    sr += xr[x]! * wr[w]! - xi[x]! * wi[w]!;
+    si += xr[x]! * wi[w]! + xi[x]! * wr[w]!;
+  }
+  outR[at] = sr;
+  outI[at] = si;
+}
+
+/** exp(2πi (t·p mod n)/n) for t < rows, p < n, at t·n + p: real and imaginary parts. */
+function twiddles(rows: number, n: number): [Float64Array, Float64Array] {
+  const re = new Float64Array(rows * n);
+  const im = new Float64Array(rows * n);
+  for (let t = 0; t < rows; t++) {
     for (let p = 0; p < n; p++) {
-      const p1 = p % a;
-      let sr = 0;
-      let si = 0;
-      for (let t2 = 0, w = p; t2 < b; t2++, w += n) {
-        const r = yr[t2 * a + p1]!;
-        const i = yi[t2 * a + p1]!;
-        sr += r * wbr[w]! - i * wbi[w]!;
-        si += r * wbi[w]! + i * wbr[w]!;
-      }
-      xr[p] = sr;
-      xi[p] = si;
+      const angle = (2 * Math.PI * ((t * p) % n)) / n;
+      re[t * n + p] = Math.cos(angle);
+      im[t * n + p] = Math.sin(angle);
     }
   }
+  return [re, im];
 }

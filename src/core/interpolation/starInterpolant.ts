@@ -89,16 +89,8 @@ export class StarInterpolant implements SmoothBand {
     this.tables(k);
     const { lineCoefficient: c, tableCos: tc, tableSin: ts } = this;
     const { start, at0, at1, at2, n0, n1, n2 } = this.lines;
-    let e = 0;
-    let g0 = 0,
-      g1 = 0,
-      g2 = 0;
-    let h00 = 0,
-      h01 = 0,
-      h02 = 0,
-      h11 = 0,
-      h12 = 0,
-      h22 = 0;
+    // ε, then ∂ε/∂θ_0..2, then ∂²ε/∂θ∂θ as 00, 01, 02, 11, 12, 22.
+    const t = new Float64Array(10);
     for (let l = 0; l + 1 < start.length; l++) {
       // A = Σ c e^{i n2 θ2}, B = Σ c n2 e^{i n2 θ2}, C = Σ c n2² e^{i n2 θ2} along the line.
       let ar = 0,
@@ -131,24 +123,25 @@ export class StarInterpolant implements SmoothBand {
       const cosC = pr * cr - pi * ci;
       const m0 = n0[l]!;
       const m1 = n1[l]!;
-      e += cosA;
-      g0 -= m0 * sinA;
-      g1 -= m1 * sinA;
-      g2 -= sinB;
-      h00 -= m0 * m0 * cosA;
-      h01 -= m0 * m1 * cosA;
-      h02 -= m0 * cosB;
-      h11 -= m1 * m1 * cosA;
-      h12 -= m1 * cosB;
-      h22 -= cosC;
+      t[0] = t[0]! + cosA;
+      t[1] = t[1]! - m0 * sinA;
+      t[2] = t[2]! - m1 * sinA;
+      t[3] = t[3]! - sinB;
+      t[4] = t[4]! - m0 * m0 * cosA;
+      t[5] = t[5]! - m0 * m1 * cosA;
+      t[6] = t[6]! - m0 * cosB;
+      t[7] = t[7]! - m1 * m1 * cosA;
+      t[8] = t[8]! - m1 * cosB;
+      t[9] = t[9]! - cosC;
     }
+    const e = t[0]!;
     // Cartesian: ∇_k = Σ_a a_a ∂/∂θ_a; Hessian Aᵀ H_θ A with the lattice rows A.
     const a = this.basis.lattice;
-    const gt = [g0, g1, g2];
+    const gt = [t[1]!, t[2]!, t[3]!];
     const ht = [
-      [h00, h01, h02],
-      [h01, h11, h12],
-      [h02, h12, h22],
+      [t[4]!, t[5]!, t[6]!],
+      [t[5]!, t[7]!, t[8]!],
+      [t[6]!, t[8]!, t[9]!],
     ];
     const gradient = [0, 1, 2].map((x) => a[0][x]! * gt[0]! + a[1][x]! * gt[1]! + a[2][x]! * gt[2]!) as Vec3;
     const hessian = [0, 1, 2].map((x) =>
