@@ -247,8 +247,22 @@ export class MeshSpectralSolver {
     }
     const kernel = this.kernelTable();
     const { from, points } = this.starPoints();
-    const [, n2, n3] = mesh.divisions;
-    const [n1] = mesh.divisions;
+    const [n1, n2, n3] = mesh.divisions;
+    // Per axis, (x mod n) times the axis's stride for x in −n .. n−1: the index of a difference, by lookups.
+    const wrapped = (n: number, stride: number): Int32Array => Int32Array.from({ length: 2 * n }, (_, t) => (t % n) * stride);
+    const w1 = wrapped(n1, n2 * n3);
+    const w2 = wrapped(n2, n3);
+    const w3 = wrapped(n3, 1);
+    const count = from[p + 1]! - from[p]!;
+    const q1 = new Int32Array(count);
+    const q2 = new Int32Array(count);
+    const q3 = new Int32Array(count);
+    for (let t = 0; t < count; t++) {
+      const q = points[from[p]! + t]!;
+      q1[t] = n1 - Math.floor(q / (n2 * n3));
+      q2[t] = n2 - (Math.floor(q / n3) % n2);
+      q3[t] = n3 - (q % n3);
+    }
     const multipliers = new Float64Array(own.length);
     for (let i = 0; i < own.length; i++) {
       const o = own[i]!;
@@ -256,13 +270,7 @@ export class MeshSpectralSolver {
       const o2 = Math.floor(o / n3) % n2;
       const o3 = o % n3;
       let acc = 0;
-      for (let t = from[p]!; t < from[p + 1]!; t++) {
-        const q = points[t]!;
-        const d1 = mod(o1 - Math.floor(q / (n2 * n3)), n1);
-        const d2 = mod(o2 - (Math.floor(q / n3) % n2), n2);
-        const d3 = mod(o3 - (q % n3), n3);
-        acc += kernel[(d1 * n2 + d2) * n3 + d3]!;
-      }
+      for (let t = 0; t < count; t++) acc += kernel[w1[o1 + q1[t]!]! + w2[o2 + q2[t]!]! + w3[o3 + q3[t]!]!]!;
       multipliers[i] = mesh.starSize[i]! * acc;
     }
     return { sums, mean: cp / mesh.total, multipliers };
