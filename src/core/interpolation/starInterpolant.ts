@@ -23,8 +23,8 @@ export interface SmoothBand {
 }
 
 export class StarInterpolant implements SmoothBand {
-  /** c_m times the star's weight, per member in line order. */
-  private readonly lineCoefficient: Float64Array;
+  /** c_m times the star's weight, per star (members find theirs through lines.star). */
+  private readonly starCoefficient: Float64Array;
   private readonly lines: MemberLines;
   /** cos and sin of n θ_a for n in −reach..reach, axis a's table starting at a·(2·reach + 1). */
   private readonly tableCos: Float64Array;
@@ -36,11 +36,8 @@ export class StarInterpolant implements SmoothBand {
   ) {
     const lines = memberLines(basis);
     this.lines = lines;
-    this.lineCoefficient = new Float64Array(lines.star.length);
-    for (let p = 0; p < lines.star.length; p++) {
-      const m = lines.star[p]!;
-      this.lineCoefficient[p] = coefficients[m]! * basis.weight[m]!;
-    }
+    this.starCoefficient = new Float64Array(basis.count);
+    for (let m = 0; m < basis.count; m++) this.starCoefficient[m] = coefficients[m]! * basis.weight[m]!;
     this.tableCos = new Float64Array(3 * (2 * lines.reach + 1));
     this.tableSin = new Float64Array(3 * (2 * lines.reach + 1));
   }
@@ -64,16 +61,17 @@ export class StarInterpolant implements SmoothBand {
   /** ε(k), k cartesian Å⁻¹. */
   value(k: Vec3): number {
     this.tables(k);
-    const { lineCoefficient: c, tableCos: tc, tableSin: ts } = this;
-    const { start, at0, at1, at2 } = this.lines;
+    const { starCoefficient: c, tableCos: tc, tableSin: ts } = this;
+    const { start, at0, at1, at2, star } = this.lines;
     let e = 0;
     for (let l = 0; l + 1 < start.length; l++) {
       let ar = 0;
       let ai = 0;
       for (let p = start[l]!; p < start[l + 1]!; p++) {
         const i2 = at2[p]!;
-        ar += c[p]! * tc[i2]!;
-        ai += c[p]! * ts[i2]!;
+        const w = c[star[p]!]!;
+        ar += w * tc[i2]!;
+        ai += w * ts[i2]!;
       }
       const i0 = at0[l]!;
       const i1 = at1[l]!;
@@ -87,8 +85,8 @@ export class StarInterpolant implements SmoothBand {
   /** ε, ∇ε and the Hessian at cartesian k. */
   derivatives(k: Vec3): BandDerivatives {
     this.tables(k);
-    const { lineCoefficient: c, tableCos: tc, tableSin: ts } = this;
-    const { start, at0, at1, at2, n0, n1, n2 } = this.lines;
+    const { starCoefficient: c, tableCos: tc, tableSin: ts } = this;
+    const { start, at0, at1, at2, n0, n1, n2, star } = this.lines;
     // ε, then ∂ε/∂θ_0..2, then ∂²ε/∂θ∂θ as 00, 01, 02, 11, 12, 22.
     const t = new Float64Array(10);
     for (let l = 0; l + 1 < start.length; l++) {
@@ -101,8 +99,9 @@ export class StarInterpolant implements SmoothBand {
         ci = 0;
       for (let p = start[l]!; p < start[l + 1]!; p++) {
         const i2 = at2[p]!;
-        const x = c[p]! * tc[i2]!;
-        const y = c[p]! * ts[i2]!;
+        const w = c[star[p]!]!;
+        const x = w * tc[i2]!;
+        const y = w * ts[i2]!;
         const m = n2[p]!;
         ar += x;
         ai += y;
