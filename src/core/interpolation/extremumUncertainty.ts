@@ -9,7 +9,6 @@ import type { Mat3, Vec3 } from '../model';
 import { cartesianToFractional } from '../lattice/reciprocal';
 import type { RegularMesh } from './regularMesh';
 import type { SmoothStarFit } from './smoothFit';
-import { meshPoint } from './meshExtrema';
 import { refineExtremum, type NewtonOptions, type RefinedPoint, type StationaryKind } from './newtonExtremum';
 
 /** Number of nearest irreducible points left out, one at a time. */
@@ -76,15 +75,23 @@ function nearestIrreducible(mesh: RegularMesh, k: Vec3, b: Mat3, lattice: Mat3, 
   // Cartesian distance to each mesh point, with the fractional difference wrapped into [−½, ½).
   const kf = cartesianToFractional(k, lattice);
   const d2 = new Float64Array(mesh.total);
-  for (let j = 0; j < mesh.total; j++) {
-    const p = meshPoint(mesh, j);
-    const f0 = p[0] - kf[0] - Math.round(p[0] - kf[0]);
-    const f1 = p[1] - kf[1] - Math.round(p[1] - kf[1]);
-    const f2 = p[2] - kf[2] - Math.round(p[2] - kf[2]);
-    const x = f0 * b[0][0] + f1 * b[1][0] + f2 * b[2][0];
-    const y = f0 * b[0][1] + f1 * b[1][1] + f2 * b[2][1];
-    const z = f0 * b[0][2] + f1 * b[1][2] + f2 * b[2][2];
-    d2[j] = x * x + y * y + z * z;
+  const [n1, n2, n3] = mesh.divisions;
+  for (let j1 = 0, j = 0; j1 < n1; j1++) {
+    // The mesh point's fractional k is (j + s)/n per axis, as meshPoint gives it.
+    const p0 = (j1 + mesh.shift[0]) / n1 - kf[0];
+    const f0 = p0 - Math.round(p0);
+    for (let j2 = 0; j2 < n2; j2++) {
+      const p1 = (j2 + mesh.shift[1]) / n2 - kf[1];
+      const f1 = p1 - Math.round(p1);
+      for (let j3 = 0; j3 < n3; j3++, j++) {
+        const p2 = (j3 + mesh.shift[2]) / n3 - kf[2];
+        const f2 = p2 - Math.round(p2);
+        const x = f0 * b[0][0] + f1 * b[1][0] + f2 * b[2][0];
+        const y = f0 * b[0][1] + f1 * b[1][1] + f2 * b[2][1];
+        const z = f0 * b[0][2] + f1 * b[1][2] + f2 * b[2][2];
+        d2[j] = x * x + y * y + z * z;
+      }
+    }
   }
   // Sort only the points within a few mesh spacings (all of them if that finds too few).
   const spacing = Math.max(...b.map((r, i) => Math.hypot(...r) / mesh.divisions[i]!));

@@ -188,7 +188,9 @@ function memberLines(basis: StarBasis): MemberLines {
   const star = new Int32Array(count);
   for (let m = 0; m < basis.count; m++) {
     for (let j = basis.start[m]!; j < basis.start[m + 1]!; j++) {
-      const [a, b, c] = [z[3 * j]!, z[3 * j + 1]!, z[3 * j + 2]!];
+      const a = z[3 * j]!;
+      const b = z[3 * j + 1]!;
+      const c = z[3 * j + 2]!;
       const flip = a < 0 || (a === 0 && (b < 0 || (b === 0 && c < 0))) ? -1 : 1;
       canon[3 * j] = flip * a;
       canon[3 * j + 1] = flip * b;
@@ -203,7 +205,8 @@ function memberLines(basis: StarBasis): MemberLines {
     keys[j] = box * count + j;
   }
   keys.sort();
-  const order = Int32Array.from(keys, (x) => x % count);
+  const order = new Int32Array(count);
+  for (let p = 0; p < count; p++) order[p] = keys[p]! % count;
   const starts: number[] = [];
   const n0: number[] = [];
   const n1: number[] = [];
