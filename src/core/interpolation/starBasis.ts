@@ -132,7 +132,9 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
   const keptStar: number[] = [];
   const starRadius: number[] = [];
   const starSize: number[] = [];
-  const image = [0, 0, 0];
+  // The operations' entries one after another (9 each), read with plain indices.
+  const w = new Int32Array(9 * ops.length);
+  ops.forEach((op, o) => w.set(op, 9 * o));
   for (let c = 0; c < found; c++) {
     const n0 = vi[3 * c]!;
     const n1 = vi[3 * c + 1]!;
@@ -140,12 +142,14 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
     if (taken[((n0 + off) * width + n1 + off) * width + n2 + off]) continue;
     const star = starRadius.length + 1;
     let size = 0;
-    for (const w of ops) {
-      for (let i = 0; i < 3; i++) image[i] = w[3 * i]! * n0 + w[3 * i + 1]! * n1 + w[3 * i + 2]! * n2;
-      const cell = ((image[0]! + off) * width + image[1]! + off) * width + image[2]! + off;
+    for (let o = 0; o < w.length; o += 9) {
+      const x = w[o]! * n0 + w[o + 1]! * n1 + w[o + 2]! * n2;
+      const y = w[o + 3]! * n0 + w[o + 4]! * n1 + w[o + 5]! * n2;
+      const z = w[o + 6]! * n0 + w[o + 7]! * n1 + w[o + 8]! * n2;
+      const cell = ((x + off) * width + y + off) * width + z + off;
       if (taken[cell]) continue;
       // Keep one of each ±R pair, marking both (R = 0 is its own partner).
-      const partner = ((off - image[0]!) * width + off - image[1]!) * width + off - image[2]!;
+      const partner = ((off - x) * width + off - y) * width + off - z;
       taken[cell] = star;
       taken[partner] = star;
       size += partner === cell ? 1 : 2;
