@@ -128,8 +128,10 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
   // Every star within the radius is whole (the operations keep lengths): find them all in any order, then
   // keep the `count` shortest (a sort of the stars, not of the vectors).
   const taken = new Int32Array(cells); // 0 free, else 1 + the star that holds the vector
-  const keptCell: number[] = [];
-  const keptStar: number[] = [];
+  // One kept member per ±R pair at most per vector found.
+  const keptCell = new Int32Array(found);
+  const keptStar = new Int32Array(found);
+  let kept = 0;
   const starRadius: number[] = [];
   const starSize: number[] = [];
   // The operations' entries one after another (9 each), read with plain indices.
@@ -153,8 +155,8 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
       taken[cell] = star;
       taken[partner] = star;
       size += partner === cell ? 1 : 2;
-      keptCell.push(cell);
-      keptStar.push(star - 1);
+      keptCell[kept] = cell;
+      keptStar[kept++] = star - 1;
     }
     starRadius.push(len[c]!);
     starSize.push(size);
@@ -164,13 +166,16 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
   const rank = new Int32Array(starRadius.length).fill(-1);
   for (let r = 0; r < count; r++) rank[order[r]!] = r;
   const start = new Int32Array(count + 1);
-  for (const st of keptStar) if (rank[st]! >= 0) start[rank[st]! + 1]!++;
+  for (let j = 0; j < kept; j++) {
+    const r = rank[keptStar[j]!]!;
+    if (r >= 0) start[r + 1]!++;
+  }
   for (let r = 0; r < count; r++) start[r + 1] = start[r + 1]! + start[r]!;
   const total = start[count]!;
   const members = new Float64Array(3 * total);
   const integer = new Int32Array(3 * total);
   const fill = start.slice(0, count);
-  for (let j = 0; j < keptCell.length; j++) {
+  for (let j = 0; j < kept; j++) {
     const r = rank[keptStar[j]!]!;
     if (r < 0) continue;
     const at = fill[r]!++;
