@@ -156,8 +156,8 @@ export class StarInterpolant implements SmoothBand {
 
 /**
  * The members of a basis in lines: R and −R give the same terms (cos is even, and the gradient and Hessian
- * terms are even in R too), so each member is taken with its first nonzero coordinate positive; sorted by
- * (n_0, n_1, n_2), those with the same (n_0, n_1) form a line. Made once per basis.
+ * terms are even in R too), so each member is taken with its first nonzero coordinate positive; those with
+ * the same (n_0, n_1) form a line, lines in order of (n_0, n_1). Made once per basis.
  */
 interface MemberLines {
   /** Largest |n_a| of any member. */
@@ -182,58 +182,59 @@ function memberLines(basis: StarBasis): MemberLines {
   const z = basis.integer;
   const count = z.length / 3;
   let reach = 0;
-  for (const x of z) reach = Math.max(reach, Math.abs(x));
+  for (let j = 0; j < z.length; j++) reach = Math.max(reach, Math.abs(z[j]!));
   const width = 2 * reach + 1;
-  const canon = new Int32Array(3 * count);
+  // Lines are buckets of (n_0, n_1), n_0 in 0..reach after the flip: a counting sort, members of a line in
+  // basis order.
+  const buckets = (reach + 1) * width;
+  const bucketOf = new Int32Array(count);
+  const third = new Int32Array(count);
   const star = new Int32Array(count);
+  const from = new Int32Array(buckets + 1);
   for (let m = 0; m < basis.count; m++) {
     for (let j = basis.start[m]!; j < basis.start[m + 1]!; j++) {
       const a = z[3 * j]!;
       const b = z[3 * j + 1]!;
       const c = z[3 * j + 2]!;
       const flip = a < 0 || (a === 0 && (b < 0 || (b === 0 && c < 0))) ? -1 : 1;
-      canon[3 * j] = flip * a;
-      canon[3 * j + 1] = flip * b;
-      canon[3 * j + 2] = flip * c;
+      bucketOf[j] = flip * a * width + flip * b + reach;
+      third[j] = flip * c;
       star[j] = m;
+      from[bucketOf[j]! + 1]!++;
     }
   }
-  // Sorted by one number per member, (n_0, n_1, n_2) in a box, times count plus the member (a typed sort).
-  const keys = new Float64Array(count);
-  for (let j = 0; j < count; j++) {
-    const box = ((canon[3 * j]! + reach) * width + canon[3 * j + 1]! + reach) * width + canon[3 * j + 2]! + reach;
-    keys[j] = box * count + j;
-  }
-  keys.sort();
-  const order = new Int32Array(count);
-  for (let p = 0; p < count; p++) order[p] = keys[p]! % count;
-  const starts: number[] = [];
-  const n0: number[] = [];
-  const n1: number[] = [];
+  for (let q = 0; q < buckets; q++) from[q + 1] = from[q + 1]! + from[q]!;
+  const fill = from.slice(0, buckets);
   const out = { n2: new Float64Array(count), at2: new Int32Array(count), star: new Int32Array(count) };
-  for (let p = 0; p < count; p++) {
-    const j = order[p]!;
-    const a = canon[3 * j]!;
-    const b = canon[3 * j + 1]!;
-    if (p === 0 || a !== n0[n0.length - 1] || b !== n1[n1.length - 1]) {
-      starts.push(p);
-      n0.push(a);
-      n1.push(b);
-    }
-    out.n2[p] = canon[3 * j + 2]!;
-    out.at2[p] = canon[3 * j + 2]! + 2 * width + reach;
+  for (let j = 0; j < count; j++) {
+    const p = fill[bucketOf[j]!]!++;
+    out.n2[p] = third[j]!;
+    out.at2[p] = third[j]! + 2 * width + reach;
     out.star[p] = star[j]!;
   }
-  starts.push(count);
+  let lineCount = 0;
+  for (let q = 0; q < buckets; q++) if (from[q + 1]! > from[q]!) lineCount++;
   const lines: MemberLines = {
     reach,
-    start: Int32Array.from(starts),
-    n0: Float64Array.from(n0),
-    n1: Float64Array.from(n1),
-    at0: Int32Array.from(n0, (x) => x + reach),
-    at1: Int32Array.from(n1, (x) => x + width + reach),
+    start: new Int32Array(lineCount + 1),
+    n0: new Float64Array(lineCount),
+    n1: new Float64Array(lineCount),
+    at0: new Int32Array(lineCount),
+    at1: new Int32Array(lineCount),
     ...out,
   };
+  for (let q = 0, l = 0; q < buckets; q++) {
+    if (from[q + 1]! === from[q]!) continue;
+    const a = Math.floor(q / width);
+    const b = (q % width) - reach;
+    lines.start[l] = from[q]!;
+    lines.n0[l] = a;
+    lines.n1[l] = b;
+    lines.at0[l] = a + reach;
+    lines.at1[l] = b + width + reach;
+    l++;
+  }
+  lines.start[lineCount] = count;
   layouts.set(basis, lines);
   return lines;
 }
