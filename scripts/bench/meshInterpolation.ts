@@ -2,7 +2,9 @@
  * Benchmark (not a test): a 24×24×24 Γ-centred mesh of the diamond structure (413 irreducible points) with
  * `nb` bands, generated in memory; the interpolation set up (src/core/interpolation) and the two edge bands
  * analysed (extrema anywhere in the zone with their leave-one-out uncertainty), against JSON.parse of the same
- * energies written as JSON. Prints the ratios (cold: star basis built; warm: cached) beside the goal (< 10).
+ * energies written as JSON. Prints the ratios (cold: first run in the process, star basis and kernel built, code
+ * not yet optimised; warm: a second run of the same crystal and mesh, basis and kernel spectrum cached) beside the
+ * goal (< 10).
  * The band energies are smooth periodic functions made up for timing only (not physics).
  * Usage: nice -n 10 npx tsx scripts/bench/meshInterpolation.ts [nb=400] [n=24]   (REPS=1: five more warm runs)
  */
@@ -55,7 +57,8 @@ async function main(): Promise<void> {
   }
   // The analysis needs only the bands at the edges: the valence top and conduction bottom (and their
   // neighbours, fitted to check for touching bands). Run twice: cold (star basis built, code not yet compiled)
-  // and warm (the star basis of this lattice cached, as for a second run of the same crystal).
+  // and warm (the star basis and the kernel's spectrum of this lattice and mesh cached, as for a second run of
+  // the same crystal).
   const edge = Math.floor(nb / 2);
   const out: Record<string, unknown> = { mesh: `${n}×${n}×${n}`, irreducible: nk, bands: nb, jsonParse: round(parse) };
   for (const label of process.env.REPS ? ['cold', 'w1', 'w2', 'w3', 'w4', 'w5', 'warm'] : ['cold', 'warm']) {

@@ -9,11 +9,16 @@ import type { Mat3, Vec3 } from '../model';
 import { cartesianToFractional } from '../lattice/reciprocal';
 import type { RegularMesh } from './regularMesh';
 import type { SmoothStarFit } from './smoothFit';
-import { meshPoint } from './meshExtrema';
 import { refineExtremum, type NewtonOptions, type RefinedPoint, type StationaryKind } from './newtonExtremum';
 
 /** Number of nearest irreducible points left out, one at a time. */
 export const LEAVE_OUT_COUNT = 4;
+/**
+ * Most Newton steps of a refit from the extremum found: a refit that keeps the extremum reaches it in a few
+ * (it starts next to it, and Newton converges quadratically there); one still searching after this many has
+ * lost it.
+ */
+export const REFIT_MAX_ITERATIONS = 12;
 
 export interface ExtremumUncertainty {
   /** Largest change of the extremum's energy, eV. */
@@ -48,10 +53,11 @@ export function extremumUncertainty(
   let leftOutError = 0;
   let lost = 0;
   const dm: Vec3 = [0, 0, 0];
+  const refitNewton = { ...newton, maxIterations: Math.min(newton.maxIterations ?? REFIT_MAX_ITERATIONS, REFIT_MAX_ITERATIONS) };
   for (const p of nearest) {
     const reduced = fit.fit(energies, p);
     leftOutError = Math.max(leftOutError, Math.abs(reduced.value([kCart[3 * p]!, kCart[3 * p + 1]!, kCart[3 * p + 2]!]) - energies[p]!));
-    const again = refineExtremum(reduced, found.k, kind, newton);
+    const again = refineExtremum(reduced, found.k, kind, refitNewton);
     if (again.rejected) {
       lost++;
       continue;
@@ -69,22 +75,33 @@ function nearestIrreducible(mesh: RegularMesh, k: Vec3, b: Mat3, lattice: Mat3, 
   // Cartesian distance to each mesh point, with the fractional difference wrapped into [−½, ½).
   const kf = cartesianToFractional(k, lattice);
   const d2 = new Float64Array(mesh.total);
-  for (let j = 0; j < mesh.total; j++) {
-    const p = meshPoint(mesh, j);
-    const f0 = p[0] - kf[0] - Math.round(p[0] - kf[0]);
-    const f1 = p[1] - kf[1] - Math.round(p[1] - kf[1]);
-    const f2 = p[2] - kf[2] - Math.round(p[2] - kf[2]);
-    const x = f0 * b[0][0] + f1 * b[1][0] + f2 * b[2][0];
-    const y = f0 * b[0][1] + f1 * b[1][1] + f2 * b[2][1];
-    const z = f0 * b[0][2] + f1 * b[1][2] + f2 * b[2][2];
-    d2[j] = x * x + y * y + z * z;
+  const [n1, n2, n3] = mesh.divisions;
+  for (let j1 = 0, j = 0; j1 < n1; j1++) {
+    // The mesh point's fractional k is (j + s)/n per axis, as meshPoint gives it.
+    const p0 = (j1 + mesh.shift[0]) / n1 - kf[0];
+    const f0 = p0 - Math.round(p0);
+    for (let j2 = 0; j2 < n2; j2++) {
+      const p1 = (j2 + mesh.shift[1]) / n2 - kf[1];
+      const f1 = p1 - Math.round(p1);
+      for (let j3 = 0; j3 < n3; j3++, j++) {
+        const p2 = (j3 + mesh.shift[2]) / n3 - kf[2];
+        const f2 = p2 - Math.round(p2);
+        const x = f0 * b[0][0] + f1 * b[1][0] + f2 * b[2][0];
+        const y = f0 * b[0][1] + f1 * b[1][1] + f2 * b[2][1];
+        const z = f0 * b[0][2] + f1 * b[1][2] + f2 * b[2][2];
+        d2[j] = x * x + y * y + z * z;
+      }
+    }
   }
   // Sort only the points within a few mesh spacings (all of them if that finds too few).
   const spacing = Math.max(...b.map((r, i) => Math.hypot(...r) / mesh.divisions[i]!));
+  // Distances equal to rounding (points of one shell) are ties, taken in mesh order: the choice must not
+  // depend on the last bits of k.
+  const grain = 1e-9 * spacing * spacing;
   for (const reach of [3 * spacing, Infinity]) {
     const near: number[] = [];
     for (let j = 0; j < mesh.total; j++) if (d2[j]! <= reach * reach) near.push(j);
-    near.sort((p, q) => d2[p]! - d2[q]! || p - q);
+    near.sort((p, q) => Math.round(d2[p]! / grain) - Math.round(d2[q]! / grain) || p - q);
     const out: number[] = [];
     for (const j of near) {
       const irr = mesh.irreducibleOf[j]!;

@@ -20,28 +20,41 @@ export function meshPoint(mesh: RegularMesh, j: number): [number, number, number
  */
 export function meshLocalExtrema(mesh: RegularMesh, energies: ArrayLike<number>, kind: StationaryKind): number[] {
   const [n1, n2, n3] = mesh.divisions;
-  const e = (j1: number, j2: number, j3: number): number =>
-    energies[mesh.irreducibleOf[((((j1 % n1) + n1) % n1) * n2 + (((j2 % n2) + n2) % n2)) * n3 + (((j3 % n3) + n3) % n3)]!]!;
   const sign = kind === 'min' ? 1 : -1;
+  // The band over the whole mesh (signed so that a minimum is sought), and per axis the wrapped neighbours.
+  const full = new Float64Array(mesh.total);
+  for (let q = 0; q < mesh.total; q++) full[q] = sign * energies[mesh.irreducibleOf[q]!]!;
+  const around = (n: number, scale: number): Int32Array => {
+    const out = new Int32Array(3 * n);
+    for (let j = 0; j < n; j++) for (let d = -1; d <= 1; d++) out[3 * j + d + 1] = ((((j + d) % n) + n) % n) * scale;
+    return out;
+  };
+  const w1 = around(n1, n2 * n3);
+  const w2 = around(n2, n3);
+  const w3 = around(n3, 1);
   const starts: number[] = [];
-  const seen = new Set<number>();
+  const seen = new Uint8Array(mesh.starSize.length);
   for (let j1 = 0; j1 < n1; j1++) {
     for (let j2 = 0; j2 < n2; j2++) {
       for (let j3 = 0; j3 < n3; j3++) {
         const j = (j1 * n2 + j2) * n3 + j3;
         const irr = mesh.irreducibleOf[j]!;
-        if (seen.has(irr)) continue;
-        const e0 = sign * energies[irr]!;
+        if (seen[irr]) continue;
+        const e0 = full[j]!;
         let ok = true;
-        for (let a = -1; a <= 1 && ok; a++) {
-          for (let b = -1; b <= 1 && ok; b++) {
-            for (let c = -1; c <= 1 && ok; c++) {
-              if ((a || b || c) && sign * e(j1 + a, j2 + b, j3 + c) < e0) ok = false;
+        for (let a = 0; a < 3 && ok; a++) {
+          for (let b = 0; b < 3 && ok; b++) {
+            const row = w1[3 * j1 + a]! + w2[3 * j2 + b]!;
+            for (let c = 0; c < 3; c++) {
+              if (full[row + w3[3 * j3 + c]!]! < e0) {
+                ok = false;
+                break;
+              }
             }
           }
         }
         if (ok) {
-          seen.add(irr);
+          seen[irr] = 1;
           starts.push(j);
         }
       }

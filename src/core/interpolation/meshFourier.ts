@@ -11,109 +11,21 @@
  *   - a coefficient Σ_i μ_i S_m(k_i) equals Σ_q ν(q) cos(q·R_m), ν(q) = μ_i / c_i on star(i): one transform
  *     of ν per band, read at each star's representative R_m.
  * Both identities use only that S_m is invariant under the operations that map the mesh onto itself.
+ *
+ * Better still, H is the mesh convolution with F restricted to functions invariant under the group: with
+ * ν(q) = μ_i / c_i, Σ_j H_ij μ_j = (F ∗ ν)(k_i). A convolution is diagonal in Fourier space, so the fit's
+ * system H μ = ε + C, Σ μ = 0 is solved by one transform of the energies divided by F̂(G) = N w(G), w(G) the
+ * weights 1/(ρ n) of every basis vector R ≡ G folded onto the mesh (MeshSpectralSolver): no matrix, no
+ * factorisation. It needs every frequency G ≢ 0 of the mesh held by some vector of the basis (else H is
+ * singular there); the caller falls back to the matrix otherwise.
  */
 import type { RegularMesh } from './regularMesh';
-import type { StarBasis } from './starBasis';
+import { starValuesFractional, type StarBasis } from './starBasis';
+import { inverseRoughnessOf } from './roughness';
+import { meshPoint } from './meshExtrema';
+import { meshTransform } from './lineTransform';
 
-/** In-place discrete Fourier transform X[p] = Σ_j x[j] exp(+2πi p·j/n) over the three mesh axes. */
-export function meshTransform(re: Float64Array, im: Float64Array, dims: readonly [number, number, number]): void {
-  const [n1, n2, n3] = dims;
-  const total = n1 * n2 * n3;
-  const strides = [n2 * n3, n3, 1];
-  for (let axis = 0; axis < 3; axis++) {
-    const n = dims[axis]!;
-    if (n === 1) continue;
-    const stride = strides[axis]!;
-    const line = new LineTransform(n);
-    // The lines along the axis start at the indices whose coordinate along it is 0.
-    const outer = total / (n * stride);
-    for (let hi = 0; hi < outer; hi++) {
-      for (let lo = 0; lo < stride; lo++) {
-        const base = hi * n * stride + lo;
-        for (let t = 0; t < n; t++) {
-          line.re[t] = re[base + t * stride]!;
-          line.im[t] = im[base + t * stride]!;
-        }
-        line.run();
-        for (let p = 0; p < n; p++) {
-          re[base + p * stride] = line.re[p]!;
-          im[base + p * stride] = line.im[p]!;
-        }
-      }
-    }
-  }
-}
-
-/**
- * The transform of one line of length n, in place in `re`/`im`: halved (even and odd terms, Cooley–Tukey)
- * while n is even, by the direct sum once it is odd.
- */
-class LineTransform {
-  readonly re: Float64Array;
-  readonly im: Float64Array;
-  private readonly half: LineTransform | null;
-  private readonly odd: LineTransform | null;
-  private readonly wr: Float64Array;
-  private readonly wi: Float64Array;
-  private readonly sr: Float64Array;
-  private readonly si: Float64Array;
-
-  constructor(readonly n: number) {
-    this.re = new Float64Array(n);
-    this.im = new Float64Array(n);
-    this.sr = new Float64Array(n);
-    this.si = new Float64Array(n);
-    const split = n % 2 === 0 && n > 2;
-    this.half = split ? new LineTransform(n / 2) : null;
-    this.odd = split ? new LineTransform(n / 2) : null;
-    // Twiddles: exp(2πi t/n) for the halving, exp(2πi (p t mod n)/n) for the direct sum.
-    const size = split ? n : n * n;
-    this.wr = new Float64Array(size);
-    this.wi = new Float64Array(size);
-    for (let q = 0; q < size; q++) {
-      const angle = (2 * Math.PI * (split ? q : (Math.floor(q / n) * (q % n)) % n)) / n;
-      this.wr[q] = Math.cos(angle);
-      this.wi[q] = Math.sin(angle);
-    }
-  }
-
-  run(): void {
-    const { n, re, im, wr, wi, half, odd } = this;
-    if (half && odd) {
-      const m = n / 2;
-      for (let t = 0; t < m; t++) {
-        half.re[t] = re[2 * t]!;
-        half.im[t] = im[2 * t]!;
-        odd.re[t] = re[2 * t + 1]!;
-        odd.im[t] = im[2 * t + 1]!;
-      }
-      half.run();
-      odd.run();
-      for (let p = 0; p < n; p++) {
-        const q = p < m ? p : p - m;
-        const orr = odd.re[q]!;
-        const oi = odd.im[q]!;
-        re[p] = half.re[q]! + wr[p]! * orr - wi[p]! * oi;
-        im[p] = half.im[q]! + wr[p]! * oi + wi[p]! * orr;
-      }
-      return;
-    }
-    const { sr, si } = this;
-    for (let p = 0; p < n; p++) {
-      let ar = 0;
-      let ai = 0;
-      const o = p * n;
-      for (let t = 0; t < n; t++) {
-        ar += re[t]! * wr[o + t]! - im[t]! * wi[o + t]!;
-        ai += re[t]! * wi[o + t]! + im[t]! * wr[o + t]!;
-      }
-      sr[p] = ar;
-      si[p] = ai;
-    }
-    re.set(sr);
-    im.set(si);
-  }
-}
+export { meshTransform } from './lineTransform';
 
 const mod = (x: number, n: number): number => ((x % n) + n) % n;
 
@@ -193,24 +105,201 @@ export function meshFitMatrix(basis: StarBasis, inverseRoughness: Float64Array, 
 
 /** Σ_i μ_i S_m(k_i) for every star m, from one transform of μ spread over the mesh. */
 export function meshStarSums(basis: StarBasis, mesh: RegularMesh, mu: ArrayLike<number>): Float64Array {
-  const dims = mesh.divisions;
   const re = new Float64Array(mesh.total);
   const im = new Float64Array(mesh.total);
   for (let q = 0; q < mesh.total; q++) {
     const i = mesh.irreducibleOf[q]!;
     re[q] = mu[i]! / mesh.starSize[i]!;
   }
-  meshTransform(re, im, dims);
-  const out = new Float64Array(basis.count);
+  meshTransform(re, im, mesh.divisions);
+  return readStarSums(starPhases(basis, mesh), re, im, basis.count);
+}
+
+/** Per star: the mesh index of its representative R_m and the mesh shift's phase 2π Σ_a s_a n_a / n_a (cos, sin). */
+interface StarPhases {
+  index: Int32Array;
+  cos: Float64Array;
+  sin: Float64Array;
+}
+
+function starPhases(basis: StarBasis, mesh: RegularMesh): StarPhases {
+  const dims = mesh.divisions;
   const z = basis.integer;
+  const out = { index: new Int32Array(basis.count), cos: new Float64Array(basis.count), sin: new Float64Array(basis.count) };
   for (let m = 0; m < basis.count; m++) {
     const j = basis.start[m]!;
-    const p = foldedIndex(basis, j, dims);
-    // The mesh shift s adds the phase 2π Σ_a s_a n_a / n_a.
+    out.index[m] = foldedIndex(basis, j, dims);
     let phase = 0;
     for (let a = 0; a < 3; a++) phase += (mesh.shift[a]! * z[3 * j + a]!) / dims[a]!;
     phase *= 2 * Math.PI;
-    out[m] = re[p]! * Math.cos(phase) - im[p]! * Math.sin(phase);
+    out.cos[m] = Math.cos(phase);
+    out.sin[m] = Math.sin(phase);
   }
   return out;
+}
+
+/** Re[X(R_m) e^{2πi s·n/N}] for every star, X a transform over the mesh (re, im). */
+function readStarSums(p: StarPhases, re: Float64Array, im: Float64Array, count: number): Float64Array {
+  const out = new Float64Array(count);
+  for (let m = 0; m < count; m++) {
+    const q = p.index[m]!;
+    out[m] = re[q]! * p.cos[m]! - im[q]! * p.sin[m]!;
+  }
+  return out;
+}
+
+/**
+ * F̂(G) = N w(G) on the mesh of frequencies (G ≡ R modulo the divisions), w(G) = Σ_{R ≡ G, R ≠ 0} 1/(ρ(R) n(R))
+ * over every vector of the basis (both of each ±R pair); null when a frequency G ≢ 0 holds no vector.
+ */
+export function meshKernelSpectrum(basis: StarBasis, mesh: RegularMesh): Float64Array | null {
+  // The same basis and divisions give the same spectrum.
+  const key = mesh.divisions.join('×');
+  let perBasis = spectra.get(basis);
+  if (!perBasis) spectra.set(basis, (perBasis = new Map<string, Float64Array | null>()));
+  if (!perBasis.has(key)) perBasis.set(key, kernelSpectrum(basis, inverseRoughnessOf(basis), mesh));
+  return perBasis.get(key)!;
+}
+
+const spectra = new WeakMap<StarBasis, Map<string, Float64Array | null>>();
+/** The inverse kernels made from each spectrum. */
+const kernels = new WeakMap<Float64Array, Float64Array>();
+
+function kernelSpectrum(basis: StarBasis, inverseRoughness: Float64Array, mesh: RegularMesh): Float64Array | null {
+  const dims = mesh.divisions;
+  const [, n2, n3] = dims;
+  const z = basis.integer;
+  const w = new Float64Array(mesh.total);
+  for (let m = 1; m < basis.count; m++) {
+    // Each kept member stands for R and −R, each with 1/(ρ n) = (weight/2)/ρ.
+    const half = 0.5 * basis.weight[m]! * inverseRoughness[m]! * mesh.total;
+    for (let j = basis.start[m]!; j < basis.start[m + 1]!; j++) {
+      const plus = foldedIndex(basis, j, dims);
+      const minus = (mod(-z[3 * j]!, dims[0]) * n2 + mod(-z[3 * j + 1]!, n2)) * n3 + mod(-z[3 * j + 2]!, n3);
+      w[plus] = w[plus]! + half;
+      w[minus] = w[minus]! + half;
+    }
+  }
+  for (let q = 1; q < mesh.total; q++) if (!(w[q]! > 0)) return null;
+  return w;
+}
+
+/** One solve of the fit's system for values given at the irreducible points. */
+export interface SpectralSolution {
+  /** Σ_i μ_i S_m(k_i) for every star m. */
+  sums: Float64Array;
+  /** Mean of the values over the whole mesh (the constant that the multipliers leave free). */
+  mean: number;
+}
+
+/**
+ * The fit's system H μ = ε + C with Σ_i μ_i = 0 solved in Fourier space (see the top of this file): one
+ * transform of the values spread over the mesh, divided by the kernel's spectrum.
+ */
+export class MeshSpectralSolver {
+  private readonly phases: StarPhases;
+  /** K(d) = (1/N) Σ_{G≢0} e^{−2πi d·G/n} / F̂(G) on the mesh of differences (made on first use). */
+  private kernel: Float64Array | null = null;
+  /** The mesh points of each irreducible point's star: points[from[i] .. from[i+1]−1]. */
+  private stars: { from: Int32Array; points: Int32Array } | null = null;
+
+  /** `own`: each irreducible point's own mesh index (meshIndexOf). */
+  constructor(
+    readonly basis: StarBasis,
+    readonly mesh: RegularMesh,
+    private readonly spectrum: Float64Array,
+    private readonly own: Int32Array,
+  ) {
+    this.phases = starPhases(basis, mesh);
+  }
+
+  solve(values: ArrayLike<number>): SpectralSolution {
+    const { mesh, spectrum } = this;
+    const total = mesh.total;
+    const re = new Float64Array(total);
+    const im = new Float64Array(total);
+    for (let q = 0; q < total; q++) re[q] = values[mesh.irreducibleOf[q]!]!;
+    meshTransform(re, im, mesh.divisions);
+    const mean = re[0]! / total;
+    re[0] = 0;
+    im[0] = 0;
+    for (let q = 1; q < total; q++) {
+      re[q] = re[q]! / spectrum[q]!;
+      im[q] = im[q]! / spectrum[q]!;
+    }
+    return { sums: readStarSums(this.phases, re, im, this.basis.count), mean };
+  }
+
+  /**
+   * The solution for the values e_p (1 at irreducible point p, 0 elsewhere) without a transform, and the
+   * multipliers μ_i(e_p) of every point. Its transform is known: Σ_{q∈star(p)} e^{iq·R_m} = c_p S_m(k_p)
+   * (S_m at p's exact place on the mesh); and ν = K ∗ 1_{star(p)}, so μ_i = c_i Σ_{q∈star(p)} K(k_i − q) (K is
+   * invariant under the group).
+   */
+  indicator(p: number): SpectralSolution & { multipliers: Float64Array } {
+    const { mesh, spectrum, own } = this;
+    const cp = mesh.starSize[p]!;
+    const starsAtP = starValuesFractional(this.basis, meshPoint(mesh, own[p]!));
+    const sums = new Float64Array(this.basis.count);
+    for (let m = 1; m < sums.length; m++) {
+      const q = this.phases.index[m]!;
+      sums[m] = q === 0 ? 0 : (cp * starsAtP[m]!) / spectrum[q]!;
+    }
+    const kernel = this.kernelTable();
+    const { from, points } = this.starPoints();
+    const [n1, n2, n3] = mesh.divisions;
+    // Per axis, (x mod n) times the axis's stride for x in −n .. n−1: the index of a difference, by lookups.
+    const wrapped = (n: number, stride: number): Int32Array => Int32Array.from({ length: 2 * n }, (_, t) => (t % n) * stride);
+    const w1 = wrapped(n1, n2 * n3);
+    const w2 = wrapped(n2, n3);
+    const w3 = wrapped(n3, 1);
+    const count = from[p + 1]! - from[p]!;
+    const q1 = new Int32Array(count);
+    const q2 = new Int32Array(count);
+    const q3 = new Int32Array(count);
+    for (let t = 0; t < count; t++) {
+      const q = points[from[p]! + t]!;
+      q1[t] = n1 - Math.floor(q / (n2 * n3));
+      q2[t] = n2 - (Math.floor(q / n3) % n2);
+      q3[t] = n3 - (q % n3);
+    }
+    const multipliers = new Float64Array(own.length);
+    for (let i = 0; i < own.length; i++) {
+      const o = own[i]!;
+      const o1 = Math.floor(o / (n2 * n3));
+      const o2 = Math.floor(o / n3) % n2;
+      const o3 = o % n3;
+      let acc = 0;
+      for (let t = 0; t < count; t++) acc += kernel[w1[o1 + q1[t]!]! + w2[o2 + q2[t]!]! + w3[o3 + q3[t]!]!]!;
+      multipliers[i] = mesh.starSize[i]! * acc;
+    }
+    return { sums, mean: cp / mesh.total, multipliers };
+  }
+
+  private kernelTable(): Float64Array {
+    if (this.kernel) return this.kernel;
+    const { mesh, spectrum } = this;
+    const hit = kernels.get(spectrum);
+    if (hit) return (this.kernel = hit);
+    const re = new Float64Array(mesh.total);
+    const im = new Float64Array(mesh.total);
+    // 1/F̂ is real and even, so its transform is real and either sign of the exponent gives it.
+    for (let q = 1; q < mesh.total; q++) re[q] = 1 / spectrum[q]! / mesh.total;
+    meshTransform(re, im, mesh.divisions);
+    kernels.set(spectrum, re);
+    this.kernel = re;
+    return re;
+  }
+
+  private starPoints(): { from: Int32Array; points: Int32Array } {
+    if (this.stars) return this.stars;
+    const { irreducibleOf, starSize } = this.mesh;
+    const from = new Int32Array(starSize.length + 1);
+    for (let i = 0; i < starSize.length; i++) from[i + 1] = from[i]! + starSize[i]!;
+    const fill = from.slice(0, starSize.length);
+    const points = new Int32Array(irreducibleOf.length);
+    for (let q = 0; q < irreducibleOf.length; q++) points[fill[irreducibleOf[q]!]!++] = q;
+    this.stars = { from, points };
+    return this.stars;
+  }
 }

@@ -125,7 +125,9 @@ export class MeshInterpolation {
     }
     for (const [i, b] of input.bands.entries()) {
       if (b.length !== nk) return { run: null, reason: `Band ${i + 1} has ${b.length} energies for ${nk} k-points.` };
-      if (!b.every(Number.isFinite)) return { run: null, reason: `Band ${i + 1} has energies that are not finite numbers.` };
+      for (let k = 0; k < b.length; k++) {
+        if (!Number.isFinite(b[k])) return { run: null, reason: `Band ${i + 1} has energies that are not finite numbers.` };
+      }
     }
     const rec = recogniseMesh(input.kpoints, input.weights, input.sym.reciprocalPointGroup);
     if (!rec.mesh) return { run: null, reason: rec.reason };

@@ -49,6 +49,7 @@ export function refineExtremum(band: SmoothBand, start: Vec3, kind: StationaryKi
   let iterations = 0;
   let converged = false;
   const maxIterations = opt.maxIterations ?? 100;
+  let gradientStep = opt.maxStep;
   const sign = kind === 'min' ? 1 : -1;
   const scale = Math.max(1e-12, Math.abs(d.hessian[0][0]) + Math.abs(d.hessian[1][1]) + Math.abs(d.hessian[2][2]));
   while (iterations < maxIterations) {
@@ -59,11 +60,12 @@ export function refineExtremum(band: SmoothBand, start: Vec3, kind: StationaryKi
     }
     let step: Vec3;
     const curv = symmetricEigen3(d.hessian).values;
-    if (curv.every((c) => sign * c > 0)) {
+    const newton = curv.every((c) => sign * c > 0);
+    if (newton) {
       const inv = mat3Inverse(d.hessian);
       step = [0, 1, 2].map((i) => -(inv[i]![0] * d.gradient[0] + inv[i]![1] * d.gradient[1] + inv[i]![2] * d.gradient[2])) as Vec3;
     } else {
-      step = d.gradient.map((x) => (-sign * x * opt.maxStep) / g) as Vec3;
+      step = d.gradient.map((x) => (-sign * x * gradientStep) / g) as Vec3;
     }
     let len = norm(step);
     if (!Number.isFinite(len)) break;
@@ -71,15 +73,21 @@ export function refineExtremum(band: SmoothBand, start: Vec3, kind: StationaryKi
       step = step.map((x) => (x * opt.maxStep) / len) as Vec3;
       len = opt.maxStep;
     }
-    let next = band.derivatives([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
-    for (let halving = 0; halving < 30 && sign * (next.value - d.value) > 1e-12 * Math.max(1, Math.abs(d.value)); halving++) {
+    // The halvings need only the energy (a third of the work); the derivatives once, where the step ends.
+    let next = band.value([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
+    for (let halving = 0; halving < 30 && sign * (next - d.value) > 1e-12 * Math.max(1, Math.abs(d.value)); halving++) {
       step = step.map((x) => x / 2) as Vec3;
       len /= 2;
-      next = band.derivatives([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
+      next = band.value([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
     }
+    // A descent step starts from four times the last one that was kept (at most maxStep): along a curved
+    // valley the kept length changes slowly, and halving from maxStep every time costs many evaluations.
+    gradientStep = newton ? opt.maxStep : Math.min(opt.maxStep, 4 * len);
     k = [k[0] + step[0], k[1] + step[1], k[2] + step[2]];
-    d = next;
+    d = band.derivatives(k);
     iterations++;
+    // Gone beyond maxTravel: rejected as escaped whatever comes next, so stop here.
+    if (norm([k[0] - start[0], k[1] - start[1], k[2] - start[2]]) > opt.maxTravel) break;
     if (len < 1e-11) {
       converged = true;
       break;

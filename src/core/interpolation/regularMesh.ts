@@ -68,15 +68,33 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
   if (!Number.isInteger(nk) || nk < 1) return { mesh: null, reason: 'There are no k-points.' };
   if (!Array.from(kFrac).every(Number.isFinite)) return { mesh: null, reason: 'Some k-points are not finite numbers.' };
   const ops = opsOrIdentity(reciprocalOps);
-  const all: number[][][] = [];
-  for (let i = 0; i < nk; i++) all.push(images([kFrac[3 * i]!, kFrac[3 * i + 1]!, kFrac[3 * i + 2]!], ops));
+  // Every image (each operation, and its negative) of every point, flat: point i's images at i·per .. (i+1)·per − 1.
+  const per = 2 * ops.length;
+  const all = new Float64Array(3 * per * nk);
+  for (let i = 0, at = 0; i < nk; i++) {
+    const k0 = kFrac[3 * i]!;
+    const k1 = kFrac[3 * i + 1]!;
+    const k2 = kFrac[3 * i + 2]!;
+    for (const r of ops) {
+      for (let x = 0; x < 3; x++) {
+        const q = r[x]![0] * k0 + r[x]![1] * k1 + r[x]![2] * k2;
+        all[at + x] = q;
+        all[at + 3 + x] = -q;
+      }
+      at += 6;
+    }
+  }
+  const onMesh = (axis: number, n: number, s: number): boolean => {
+    for (let t = axis; t < all.length; t += 3) if (!(offMesh(all[t]!, n, s) < ON_MESH)) return false;
+    return true;
+  };
   const divisions: number[] = [];
   const shift: number[] = [];
   for (let axis = 0; axis < 3; axis++) {
     let found = false;
     for (let n = 1; n <= MAX_DIVISIONS && !found; n++) {
       for (const s of [0, 0.5]) {
-        if (all.every((imgs) => imgs.every((q) => offMesh(q[axis]!, n, s) < ON_MESH))) {
+        if (onMesh(axis, n, s)) {
           divisions.push(n);
           shift.push(s);
           found = true;
@@ -98,8 +116,8 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
   const starSize = new Int32Array(nk);
   const wrap = (x: number, n: number, s: number): number => ((Math.round(x * n - s) % n) + n) % n;
   for (let i = 0; i < nk; i++) {
-    for (const q of all[i]!) {
-      const j = (wrap(q[0]!, n1, shift[0]!) * n2 + wrap(q[1]!, n2, shift[1]!)) * n3 + wrap(q[2]!, n3, shift[2]!);
+    for (let t = 3 * per * i; t < 3 * per * (i + 1); t += 3) {
+      const j = (wrap(all[t]!, n1, shift[0]!) * n2 + wrap(all[t + 1]!, n2, shift[1]!)) * n3 + wrap(all[t + 2]!, n3, shift[2]!);
       const owner = irreducibleOf[j]!;
       if (owner === -1) {
         irreducibleOf[j] = i;

@@ -12,3 +12,17 @@ export function roughness(r: number, rMin: number, c1: number = ROUGHNESS_C1, c2
   const x = (r / rMin) ** 2;
   return (1 - c1 * x) ** 2 + c2 * x * x * x;
 }
+
+/** 1/ρ(R_m) of every star of a basis (0 for R = 0, which the roughness leaves free); made once per basis. */
+export function inverseRoughnessOf(basis: { count: number; radius: Float64Array }): Float64Array {
+  let hit = inverses.get(basis);
+  if (!hit) {
+    hit = new Float64Array(basis.count);
+    const rMin = basis.radius[1]!;
+    for (let j = 1; j < basis.count; j++) hit[j] = 1 / roughness(basis.radius[j]!, rMin);
+    inverses.set(basis, hit);
+  }
+  return hit;
+}
+
+const inverses = new WeakMap<object, Float64Array>();

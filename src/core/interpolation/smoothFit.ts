@@ -8,13 +8,14 @@
  * c_m = Σ_i λ_i ΔS_m(k_i) / ρ_m (m ≥ 1) and c_0 = ε_r − Σ_{m≥1} c_m S_m(k_r).
  *
  * H depends only on the k-points: it is built once, factored once per set of points kept (all, or all but
- * one star of points for leave-one-out) and then serves every band.
+ * one star of points for leave-one-out) and then serves every band. On a mesh whose every frequency the basis
+ * holds, H is not built at all: the system is solved by one Fourier transform per band (meshFourier.ts).
  */
 import type { Vec3 } from '../model';
 import { choleskyFactor, choleskySolve } from './cholesky';
-import { meshFitMatrix, meshIndexOf, meshStarSums } from './meshFourier';
+import { MeshSpectralSolver, meshFitMatrix, meshIndexOf, meshKernelSpectrum, meshStarSums, type SpectralSolution } from './meshFourier';
 import type { RegularMesh } from './regularMesh';
-import { roughness } from './roughness';
+import { inverseRoughnessOf } from './roughness';
 import { starValues, type StarBasis } from './starBasis';
 import { StarInterpolant } from './starInterpolant';
 
@@ -40,9 +41,13 @@ export class SmoothStarFit {
   private readonly s: Float64Array | null;
   private readonly mesh: RegularMesh | null;
   private readonly inverseRoughness: Float64Array;
-  /** H_ij = Σ_{m≥1} S_m(k_i) S_m(k_j)/ρ_m, N × N. */
-  private readonly h: Float64Array;
+  /** H_ij = Σ_{m≥1} S_m(k_i) S_m(k_j)/ρ_m, N × N (null when the system is solved in Fourier space). */
+  private readonly h: Float64Array | null;
   private factorL: Float64Array | null = null;
+  /** The solver in Fourier space on a mesh, or null. */
+  private readonly spectral: MeshSpectralSolver | null = null;
+  private readonly spectralSolutions = new WeakMap<object, SpectralSolution & { energies: Float64Array }>();
+  private readonly spectralCorrections = new Map<number, SpectralSolution & { multipliers: Float64Array }>();
   private readonly solutions = new WeakMap<object, Solution>();
   private readonly corrections = new Map<number, Solution>();
   private readonly referenceStars = new Map<number, Float64Array>();
@@ -61,14 +66,14 @@ export class SmoothStarFit {
     if (!Number.isInteger(n) || n < 2) throw new RangeError('The fit needs at least two k-points.');
     if (m <= n) throw new RangeError(`The fit needs more stars (${m}) than k-points (${n}).`);
     this.n = n;
-    const rMin = basis.radius[1]!;
-    this.inverseRoughness = new Float64Array(m);
-    for (let j = 1; j < m; j++) this.inverseRoughness[j] = 1 / roughness(basis.radius[j]!, rMin);
+    this.inverseRoughness = inverseRoughnessOf(basis);
     const own = layout && layout.kFrac.length === kCart.length ? meshIndexOf(layout.mesh, layout.kFrac) : null;
     if (layout && own) {
       this.mesh = layout.mesh;
       this.s = null;
-      this.h = meshFitMatrix(basis, this.inverseRoughness, layout.mesh, own);
+      const spectrum = meshKernelSpectrum(basis, layout.mesh);
+      this.spectral = spectrum ? new MeshSpectralSolver(basis, layout.mesh, spectrum, own) : null;
+      this.h = spectrum ? null : meshFitMatrix(basis, this.inverseRoughness, layout.mesh, own);
       return;
     }
     this.mesh = null;
@@ -84,20 +89,21 @@ export class SmoothStarFit {
     for (let i = 0; i < n; i++) {
       for (let j = 1; j < m; j++) d[i * m + j] = s[i * m + j]! * Math.sqrt(this.inverseRoughness[j]!);
     }
-    this.h = new Float64Array(n * n);
+    const h = new Float64Array(n * n);
     for (let i = 0; i < n; i++) {
       for (let q = 0; q <= i; q++) {
         let acc = 0;
         const oi = i * m;
         const oq = q * m;
         for (let j = 1; j < m; j++) acc += d[oi + j]! * d[oq + j]!;
-        this.h[i * n + q] = acc;
-        this.h[q * n + i] = acc;
+        h[i * n + q] = acc;
+        h[q * n + i] = acc;
       }
     }
+    this.h = h;
   }
 
-  /** True when the fit was built by Fourier sums over a mesh. */
+  /** True when the fit was built by Fourier sums over a mesh (solved in Fourier space, or by its matrix). */
   get onMesh(): boolean {
     return this.mesh !== null;
   }
@@ -118,6 +124,7 @@ export class SmoothStarFit {
     if (exclude !== null && !(Number.isInteger(exclude) && exclude >= 0 && exclude < n)) {
       throw new RangeError(`There is no data point ${exclude + 1} to leave out.`);
     }
+    if (this.spectral) return this.spectralFit(energies, exclude);
     // Everything is linear in the multipliers: Σ_i μ_i S_m(k_i) of the band's solution x, less f times that of z.
     const base = this.solved(energies);
     let c = base.sums;
@@ -139,6 +146,44 @@ export class SmoothStarFit {
       c[j] = c[j]! * this.inverseRoughness[j]!;
       c0 -= c[j]! * sr[j]!;
     }
+    c[0] = c0;
+    return new StarInterpolant(this.basis, c);
+  }
+
+  /**
+   * The fit in Fourier space. Leaving out p: the multipliers μ(ε) − f μ(e_p) with f = μ_p(ε)/μ_p(e_p) give p a
+   * zero multiplier and keep every other equation (up to the free constant), as the reduced-system solution
+   * above; the constant is then the mean of ε over the mesh less f times that of e_p (c_p/N). The map from
+   * values to multipliers is symmetric (the bordered system is), so μ_p(ε) = Σ_i μ_i(e_p) ε_i: only e_p's
+   * multipliers are needed, the same for every band.
+   */
+  private spectralFit(energies: ArrayLike<number>, exclude: number | null): StarInterpolant {
+    const solver = this.spectral!;
+    const key = typeof energies === 'object' ? (energies as object) : null;
+    let base = key ? this.spectralSolutions.get(key) : undefined;
+    // Kept with a copy of the energies: an array changed in place is solved again.
+    if (!base || !base.energies.every((e, i) => e === energies[i])) {
+      base = { ...solver.solve(energies), energies: Float64Array.from(energies) };
+      if (key) this.spectralSolutions.set(key, base);
+    }
+    const c = base.sums.slice();
+    let c0 = base.mean;
+    if (exclude !== null) {
+      let out = this.spectralCorrections.get(exclude);
+      if (!out) {
+        out = solver.indicator(exclude);
+        if (this.spectralCorrections.size >= MAX_CORRECTIONS)
+          this.spectralCorrections.delete(this.spectralCorrections.keys().next().value!);
+        this.spectralCorrections.set(exclude, out);
+      }
+      const mu = out.multipliers;
+      let muOfEnergies = 0;
+      for (let i = 0; i < this.n; i++) muOfEnergies += mu[i]! * energies[i]!;
+      const f = muOfEnergies / mu[exclude]!;
+      for (let j = 0; j < c.length; j++) c[j] = c[j]! - f * out.sums[j]!;
+      c0 -= f * out.mean;
+    }
+    for (let j = 1; j < c.length; j++) c[j] = c[j]! * this.inverseRoughness[j]!;
     c[0] = c0;
     return new StarInterpolant(this.basis, c);
   }
@@ -209,7 +254,8 @@ export class SmoothStarFit {
   /** The Cholesky factor of A (relative to point 0), made once. */
   private factor(): Float64Array {
     if (this.factorL) return this.factorL;
-    const { n, h } = this;
+    const { n } = this;
+    const h = this.h!;
     const size = n - 1;
     const a = new Float64Array(size * size);
     const h00 = h[0]!;

@@ -128,11 +128,15 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
   // Every star within the radius is whole (the operations keep lengths): find them all in any order, then
   // keep the `count` shortest (a sort of the stars, not of the vectors).
   const taken = new Int32Array(cells); // 0 free, else 1 + the star that holds the vector
-  const keptCell: number[] = [];
-  const keptStar: number[] = [];
+  // One kept member per ±R pair at most per vector found.
+  const keptCell = new Int32Array(found);
+  const keptStar = new Int32Array(found);
+  let kept = 0;
   const starRadius: number[] = [];
   const starSize: number[] = [];
-  const image = [0, 0, 0];
+  // The operations' entries one after another (9 each), read with plain indices.
+  const w = new Int32Array(9 * ops.length);
+  ops.forEach((op, o) => w.set(op, 9 * o));
   for (let c = 0; c < found; c++) {
     const n0 = vi[3 * c]!;
     const n1 = vi[3 * c + 1]!;
@@ -140,17 +144,19 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
     if (taken[((n0 + off) * width + n1 + off) * width + n2 + off]) continue;
     const star = starRadius.length + 1;
     let size = 0;
-    for (const w of ops) {
-      for (let i = 0; i < 3; i++) image[i] = w[3 * i]! * n0 + w[3 * i + 1]! * n1 + w[3 * i + 2]! * n2;
-      const cell = ((image[0]! + off) * width + image[1]! + off) * width + image[2]! + off;
+    for (let o = 0; o < w.length; o += 9) {
+      const x = w[o]! * n0 + w[o + 1]! * n1 + w[o + 2]! * n2;
+      const y = w[o + 3]! * n0 + w[o + 4]! * n1 + w[o + 5]! * n2;
+      const z = w[o + 6]! * n0 + w[o + 7]! * n1 + w[o + 8]! * n2;
+      const cell = ((x + off) * width + y + off) * width + z + off;
       if (taken[cell]) continue;
       // Keep one of each ±R pair, marking both (R = 0 is its own partner).
-      const partner = ((off - image[0]!) * width + off - image[1]!) * width + off - image[2]!;
+      const partner = ((off - x) * width + off - y) * width + off - z;
       taken[cell] = star;
       taken[partner] = star;
       size += partner === cell ? 1 : 2;
-      keptCell.push(cell);
-      keptStar.push(star - 1);
+      keptCell[kept] = cell;
+      keptStar[kept++] = star - 1;
     }
     starRadius.push(len[c]!);
     starSize.push(size);
@@ -160,13 +166,16 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
   const rank = new Int32Array(starRadius.length).fill(-1);
   for (let r = 0; r < count; r++) rank[order[r]!] = r;
   const start = new Int32Array(count + 1);
-  for (const st of keptStar) if (rank[st]! >= 0) start[rank[st]! + 1]!++;
+  for (let j = 0; j < kept; j++) {
+    const r = rank[keptStar[j]!]!;
+    if (r >= 0) start[r + 1]!++;
+  }
   for (let r = 0; r < count; r++) start[r + 1] = start[r + 1]! + start[r]!;
   const total = start[count]!;
   const members = new Float64Array(3 * total);
   const integer = new Int32Array(3 * total);
   const fill = start.slice(0, count);
-  for (let j = 0; j < keptCell.length; j++) {
+  for (let j = 0; j < kept; j++) {
     const r = rank[keptStar[j]!]!;
     if (r < 0) continue;
     const at = fill[r]!++;
@@ -191,13 +200,52 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
   return { count, start, members, integer, lattice, weight, radius: radii, size };
 }
 
-/** S_m(k) for every star m at cartesian k (Å⁻¹), into `out` (length count). */
+const reaches = new WeakMap<StarBasis, number>();
+
+/**
+ * S_m(k) for every star m at cartesian k (Å⁻¹), into `out` (length count). Each cos(k·R) is the real part of
+ * Π_a exp(i n_a θ_a), θ_a = k·a_a, from three short tables.
+ */
 export function starValues(basis: StarBasis, k: Vec3, out: Float64Array = new Float64Array(basis.count)): Float64Array {
-  const { start, members, weight } = basis;
+  const a = basis.lattice;
+  const theta = [0, 1, 2].map((x) => k[0] * a[x]![0] + k[1] * a[x]![1] + k[2] * a[x]![2]) as Vec3;
+  return starValuesAtPhases(basis, theta, out);
+}
+
+/** S_m(k) for every star m at fractional k (reciprocal-lattice coordinates of the basis's lattice). */
+export function starValuesFractional(basis: StarBasis, kFrac: Vec3, out: Float64Array = new Float64Array(basis.count)): Float64Array {
+  return starValuesAtPhases(basis, [2 * Math.PI * kFrac[0], 2 * Math.PI * kFrac[1], 2 * Math.PI * kFrac[2]], out);
+}
+
+/** S_m for every star, θ_a = k·a_a. */
+function starValuesAtPhases(basis: StarBasis, theta: Vec3, out: Float64Array): Float64Array {
+  const { start, integer: z, weight } = basis;
+  let reach = reaches.get(basis);
+  if (reach === undefined) {
+    reach = 0;
+    for (let j = 0; j < z.length; j++) reach = Math.max(reach, Math.abs(z[j]!));
+    reaches.set(basis, reach);
+  }
+  const width = 2 * reach + 1;
+  const tc = new Float64Array(3 * width);
+  const ts = new Float64Array(3 * width);
+  for (let a = 0; a < 3; a++) {
+    for (let n = -reach; n <= reach; n++) {
+      tc[a * width + reach + n] = Math.cos(n * theta[a]!);
+      ts[a * width + reach + n] = Math.sin(n * theta[a]!);
+    }
+  }
+  const o1 = width + reach;
+  const o2 = 2 * width + reach;
   for (let m = 0; m < basis.count; m++) {
     let s = 0;
     for (let j = start[m]!; j < start[m + 1]!; j++) {
-      s += Math.cos(k[0] * members[3 * j]! + k[1] * members[3 * j + 1]! + k[2] * members[3 * j + 2]!);
+      const i0 = z[3 * j]! + reach;
+      const i1 = z[3 * j + 1]! + o1;
+      const i2 = z[3 * j + 2]! + o2;
+      const cr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
+      const ci = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
+      s += cr * tc[i2]! - ci * ts[i2]!;
     }
     out[m] = s * weight[m]!;
   }

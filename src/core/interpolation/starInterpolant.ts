@@ -2,9 +2,10 @@
  * One band as a sum of star functions, ε(k) = Σ_m c_m S_m(k), with its analytic gradient and Hessian
  * (cartesian, eV·Å and eV·Å²): ∂/∂k cos(k·R) = −R sin(k·R), ∂²/∂k∂k cos(k·R) = −R Rᵀ cos(k·R).
  *
- * With R = Σ_a n_a a_a the phase is Σ_a n_a θ_a, θ_a = k·a_a, so cos and sin of every member come from three
- * short tables of exp(i n θ_a) by two complex products; derivatives are summed in lattice coordinates and
- * turned cartesian at the end (∂θ_a/∂k = a_a).
+ * With R = Σ_a n_a a_a the phase is Σ_a n_a θ_a, θ_a = k·a_a, read from three short tables of exp(i n θ_a).
+ * The members are regrouped in lines of equal (n_0, n_1) (memberLines): along a line only n_2 changes, so the
+ * sums Σ c e^{i n_2 θ_2} (and with n_2, n_2²) are taken first and multiplied once by e^{i(n_0 θ_0 + n_1 θ_1)}.
+ * Derivatives are summed in lattice coordinates and turned cartesian at the end (∂θ_a/∂k = a_a).
  */
 import type { Mat3, Vec3 } from '../model';
 import type { StarBasis } from './starBasis';
@@ -22,13 +23,10 @@ export interface SmoothBand {
 }
 
 export class StarInterpolant implements SmoothBand {
-  /** c_m times the star's weight, per kept member. */
-  private readonly memberCoefficient: Float64Array;
-  private readonly integer: Int32Array;
-  /** Per member, the positions of n_0, n_1, n_2 in the phase tables (axis a's table starts at a·(2·reach + 1)). */
-  private readonly tableIndex: Int32Array;
-  /** Largest |n_a| of any member, and the tables exp(i n θ_a) for n in −reach..reach (3 axes). */
-  private readonly reach: number;
+  /** c_m times the star's weight, per star (members find theirs through lines.star). */
+  private readonly starCoefficient: Float64Array;
+  private readonly lines: MemberLines;
+  /** cos and sin of n θ_a for n in −reach..reach, axis a's table starting at a·(2·reach + 1). */
   private readonly tableCos: Float64Array;
   private readonly tableSin: Float64Array;
 
@@ -36,24 +34,18 @@ export class StarInterpolant implements SmoothBand {
     readonly basis: StarBasis,
     readonly coefficients: Float64Array,
   ) {
-    this.integer = basis.integer;
-    this.memberCoefficient = new Float64Array(basis.members.length / 3);
-    for (let m = 0; m < basis.count; m++) {
-      const f = coefficients[m]! * basis.weight[m]!;
-      for (let j = basis.start[m]!; j < basis.start[m + 1]!; j++) this.memberCoefficient[j] = f;
-    }
-    const reach = reachOf(basis);
-    this.reach = reach;
-    const width = 2 * reach + 1;
-    this.tableIndex = new Int32Array(this.integer.length);
-    for (let j = 0; j < this.integer.length; j++) this.tableIndex[j] = this.integer[j]! + (j % 3) * width + reach;
-    this.tableCos = new Float64Array(3 * (2 * reach + 1));
-    this.tableSin = new Float64Array(3 * (2 * reach + 1));
+    const lines = memberLines(basis);
+    this.lines = lines;
+    this.starCoefficient = new Float64Array(basis.count);
+    for (let m = 0; m < basis.count; m++) this.starCoefficient[m] = coefficients[m]! * basis.weight[m]!;
+    this.tableCos = new Float64Array(3 * (2 * lines.reach + 1));
+    this.tableSin = new Float64Array(3 * (2 * lines.reach + 1));
   }
 
   /** Fills the phase tables at cartesian k. */
   private tables(k: Vec3): void {
-    const { reach, tableCos, tableSin } = this;
+    const { tableCos, tableSin } = this;
+    const reach = this.lines.reach;
     const width = 2 * reach + 1;
     const a = this.basis.lattice;
     for (let axis = 0; axis < 3; axis++) {
@@ -69,15 +61,23 @@ export class StarInterpolant implements SmoothBand {
   /** ε(k), k cartesian Å⁻¹. */
   value(k: Vec3): number {
     this.tables(k);
-    const { tableIndex: t, memberCoefficient: c, tableCos: tc, tableSin: ts } = this;
+    const { starCoefficient: c, tableCos: tc, tableSin: ts } = this;
+    const { start, at0, at1, at2, star } = this.lines;
     let e = 0;
-    for (let j = 0; j < c.length; j++) {
-      const i0 = t[3 * j]!;
-      const i1 = t[3 * j + 1]!;
-      const i2 = t[3 * j + 2]!;
-      const cr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
-      const ci = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
-      e += c[j]! * (cr * tc[i2]! - ci * ts[i2]!);
+    for (let l = 0; l + 1 < start.length; l++) {
+      let ar = 0;
+      let ai = 0;
+      for (let p = start[l]!; p < start[l + 1]!; p++) {
+        const i2 = at2[p]!;
+        const w = c[star[p]!]!;
+        ar += w * tc[i2]!;
+        ai += w * ts[i2]!;
+      }
+      const i0 = at0[l]!;
+      const i1 = at1[l]!;
+      const pr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
+      const pi = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
+      e += pr * ar - pi * ai;
     }
     return e;
   }
@@ -85,46 +85,62 @@ export class StarInterpolant implements SmoothBand {
   /** ε, ∇ε and the Hessian at cartesian k. */
   derivatives(k: Vec3): BandDerivatives {
     this.tables(k);
-    const { integer: z, tableIndex: t, memberCoefficient: c, tableCos: tc, tableSin: ts } = this;
-    let e = 0;
-    let g0 = 0,
-      g1 = 0,
-      g2 = 0;
-    let h00 = 0,
-      h01 = 0,
-      h02 = 0,
-      h11 = 0,
-      h12 = 0,
-      h22 = 0;
-    for (let j = 0; j < c.length; j++) {
-      const n0 = z[3 * j]!;
-      const n1 = z[3 * j + 1]!;
-      const n2 = z[3 * j + 2]!;
-      const i0 = t[3 * j]!;
-      const i1 = t[3 * j + 1]!;
-      const i2 = t[3 * j + 2]!;
-      const cr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
-      const ci = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
-      const cs = c[j]! * (cr * tc[i2]! - ci * ts[i2]!);
-      const sn = c[j]! * (cr * ts[i2]! + ci * tc[i2]!);
-      e += cs;
-      g0 -= n0 * sn;
-      g1 -= n1 * sn;
-      g2 -= n2 * sn;
-      h00 -= n0 * n0 * cs;
-      h01 -= n0 * n1 * cs;
-      h02 -= n0 * n2 * cs;
-      h11 -= n1 * n1 * cs;
-      h12 -= n1 * n2 * cs;
-      h22 -= n2 * n2 * cs;
+    const { starCoefficient: c, tableCos: tc, tableSin: ts } = this;
+    const { start, at0, at1, at2, n0, n1, n2, star } = this.lines;
+    // ε, then ∂ε/∂θ_0..2, then ∂²ε/∂θ∂θ as 00, 01, 02, 11, 12, 22.
+    const t = new Float64Array(10);
+    for (let l = 0; l + 1 < start.length; l++) {
+      // A = Σ c e^{i n2 θ2}, B = Σ c n2 e^{i n2 θ2}, C = Σ c n2² e^{i n2 θ2} along the line.
+      let ar = 0,
+        ai = 0,
+        br = 0,
+        bi = 0,
+        cr = 0,
+        ci = 0;
+      for (let p = start[l]!; p < start[l + 1]!; p++) {
+        const i2 = at2[p]!;
+        const w = c[star[p]!]!;
+        const x = w * tc[i2]!;
+        const y = w * ts[i2]!;
+        const m = n2[p]!;
+        ar += x;
+        ai += y;
+        br += m * x;
+        bi += m * y;
+        cr += m * m * x;
+        ci += m * m * y;
+      }
+      const i0 = at0[l]!;
+      const i1 = at1[l]!;
+      const pr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
+      const pi = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
+      // Σ c cos φ and Σ c sin φ with their n2 and n2² weights, φ the whole phase.
+      const cosA = pr * ar - pi * ai;
+      const sinA = pr * ai + pi * ar;
+      const cosB = pr * br - pi * bi;
+      const sinB = pr * bi + pi * br;
+      const cosC = pr * cr - pi * ci;
+      const m0 = n0[l]!;
+      const m1 = n1[l]!;
+      t[0] = t[0]! + cosA;
+      t[1] = t[1]! - m0 * sinA;
+      t[2] = t[2]! - m1 * sinA;
+      t[3] = t[3]! - sinB;
+      t[4] = t[4]! - m0 * m0 * cosA;
+      t[5] = t[5]! - m0 * m1 * cosA;
+      t[6] = t[6]! - m0 * cosB;
+      t[7] = t[7]! - m1 * m1 * cosA;
+      t[8] = t[8]! - m1 * cosB;
+      t[9] = t[9]! - cosC;
     }
+    const e = t[0]!;
     // Cartesian: ∇_k = Σ_a a_a ∂/∂θ_a; Hessian Aᵀ H_θ A with the lattice rows A.
     const a = this.basis.lattice;
-    const gt = [g0, g1, g2];
+    const gt = [t[1]!, t[2]!, t[3]!];
     const ht = [
-      [h00, h01, h02],
-      [h01, h11, h12],
-      [h02, h12, h22],
+      [t[4]!, t[5]!, t[6]!],
+      [t[5]!, t[7]!, t[8]!],
+      [t[6]!, t[8]!, t[9]!],
     ];
     const gradient = [0, 1, 2].map((x) => a[0][x]! * gt[0]! + a[1][x]! * gt[1]! + a[2][x]! * gt[2]!) as Vec3;
     const hessian = [0, 1, 2].map((x) =>
@@ -138,15 +154,87 @@ export class StarInterpolant implements SmoothBand {
   }
 }
 
-const reaches = new WeakMap<StarBasis, number>();
+/**
+ * The members of a basis in lines: R and −R give the same terms (cos is even, and the gradient and Hessian
+ * terms are even in R too), so each member is taken with its first nonzero coordinate positive; those with
+ * the same (n_0, n_1) form a line, lines in order of (n_0, n_1). Made once per basis.
+ */
+interface MemberLines {
+  /** Largest |n_a| of any member. */
+  reach: number;
+  /** Line l holds positions start[l] .. start[l+1]−1; its n_0, n_1 and their places in the phase tables. */
+  start: Int32Array;
+  n0: Float64Array;
+  n1: Float64Array;
+  at0: Int32Array;
+  at1: Int32Array;
+  /** Per position: n_2, its place in the phase table, and the star the member belongs to. */
+  n2: Float64Array;
+  at2: Int32Array;
+  star: Int32Array;
+}
 
-/** Largest |n_a| of any member of the basis (computed once per basis). */
-function reachOf(basis: StarBasis): number {
-  let reach = reaches.get(basis);
-  if (reach === undefined) {
-    reach = 0;
-    for (const x of basis.integer) reach = Math.max(reach, Math.abs(x));
-    reaches.set(basis, reach);
+const layouts = new WeakMap<StarBasis, MemberLines>();
+
+function memberLines(basis: StarBasis): MemberLines {
+  const hit = layouts.get(basis);
+  if (hit) return hit;
+  const z = basis.integer;
+  const count = z.length / 3;
+  let reach = 0;
+  for (let j = 0; j < z.length; j++) reach = Math.max(reach, Math.abs(z[j]!));
+  const width = 2 * reach + 1;
+  // Lines are buckets of (n_0, n_1), n_0 in 0..reach after the flip: a counting sort, members of a line in
+  // basis order.
+  const buckets = (reach + 1) * width;
+  const bucketOf = new Int32Array(count);
+  const third = new Int32Array(count);
+  const star = new Int32Array(count);
+  const from = new Int32Array(buckets + 1);
+  for (let m = 0; m < basis.count; m++) {
+    for (let j = basis.start[m]!; j < basis.start[m + 1]!; j++) {
+      const a = z[3 * j]!;
+      const b = z[3 * j + 1]!;
+      const c = z[3 * j + 2]!;
+      const flip = a < 0 || (a === 0 && (b < 0 || (b === 0 && c < 0))) ? -1 : 1;
+      bucketOf[j] = flip * a * width + flip * b + reach;
+      third[j] = flip * c;
+      star[j] = m;
+      from[bucketOf[j]! + 1]!++;
+    }
   }
-  return reach;
+  for (let q = 0; q < buckets; q++) from[q + 1] = from[q + 1]! + from[q]!;
+  const fill = from.slice(0, buckets);
+  const out = { n2: new Float64Array(count), at2: new Int32Array(count), star: new Int32Array(count) };
+  for (let j = 0; j < count; j++) {
+    const p = fill[bucketOf[j]!]!++;
+    out.n2[p] = third[j]!;
+    out.at2[p] = third[j]! + 2 * width + reach;
+    out.star[p] = star[j]!;
+  }
+  let lineCount = 0;
+  for (let q = 0; q < buckets; q++) if (from[q + 1]! > from[q]!) lineCount++;
+  const lines: MemberLines = {
+    reach,
+    start: new Int32Array(lineCount + 1),
+    n0: new Float64Array(lineCount),
+    n1: new Float64Array(lineCount),
+    at0: new Int32Array(lineCount),
+    at1: new Int32Array(lineCount),
+    ...out,
+  };
+  for (let q = 0, l = 0; q < buckets; q++) {
+    if (from[q + 1]! === from[q]!) continue;
+    const a = Math.floor(q / width);
+    const b = (q % width) - reach;
+    lines.start[l] = from[q]!;
+    lines.n0[l] = a;
+    lines.n1[l] = b;
+    lines.at0[l] = a + reach;
+    lines.at1[l] = b + width + reach;
+    l++;
+  }
+  lines.start[lineCount] = count;
+  layouts.set(basis, lines);
+  return lines;
 }

@@ -5,7 +5,7 @@ import { reciprocalLattice } from '../../../src/core/lattice/reciprocal';
 import { irreducibleMesh, recogniseMesh } from '../../../src/core/interpolation/regularMesh';
 import { buildStarBasis, starValues } from '../../../src/core/interpolation/starBasis';
 import { SmoothStarFit, toCartesian } from '../../../src/core/interpolation/smoothFit';
-import { meshTransform } from '../../../src/core/interpolation/meshFourier';
+import { meshKernelSpectrum, meshTransform } from '../../../src/core/interpolation/meshFourier';
 
 // The fast paths of the smoothness-constrained star fit (Pickett, Krakauer & Allen, Phys. Rev. B 38, 2721
 // (1988)) checked against the fit's definition computed directly: star values at each data point, the matrix
@@ -56,6 +56,8 @@ describe('star fit on a mesh by Fourier sums: the same fit as the direct definit
       const { kpoints, mesh, nk, basis, kCart, energies } = setUp(lattice, sym, n, shift, 6);
       const direct = new SmoothStarFit(basis, kCart);
       const fourier = new SmoothStarFit(basis, kCart, { mesh, kFrac: kpoints });
+      // Six stars per point hold every frequency of the mesh: the system is solved in Fourier space.
+      assert.ok(meshKernelSpectrum(basis, mesh));
       assert.equal(direct.onMesh, false);
       assert.equal(fourier.onMesh, true);
       for (const exclude of [null, 0, 1, nk - 1]) {
@@ -66,6 +68,16 @@ describe('star fit on a mesh by Fourier sums: the same fit as the direct definit
       }
     });
   }
+
+  it('a basis too small to hold every mesh frequency: not solved in Fourier space, and singular by the direct sums', () => {
+    const sym = crystalSymmetry({ lattice: cubic, species: ['X'], positions: new Float64Array([0, 0, 0]) });
+    const { mesh, basis, kCart, energies } = setUp(cubic, sym, 6, 0.5, 1.2);
+    // Fewer lattice vectors than mesh points: some frequency has none; a symmetrised plane wave of that
+    // frequency is then orthogonal on the mesh to every star function, so no fit passes through every value.
+    assert.ok(basis.size.reduce((s, x) => s + x, 0) < mesh.total);
+    assert.equal(meshKernelSpectrum(basis, mesh), null);
+    assert.throws(() => new SmoothStarFit(basis, kCart).fit(energies), /singular/);
+  });
 
   it('leave-one-out from the one factorisation equals a fresh fit of the data without that point', () => {
     const sym = crystalSymmetry({ lattice: diamond, species: ['Si', 'Si'], positions: new Float64Array([0, 0, 0, 0.25, 0.25, 0.25]) });
