@@ -4,6 +4,12 @@
  * from the same place, and the largest change of its energy and of each principal mass taken as the
  * uncertainty. Leaving a star out makes the mesh locally coarser, so this errs on the cautious side. The
  * error of each reduced fit at the point it left out is kept too (the interpolation's own error there).
+ *
+ * An extremum found on a mesh point (Γ, X, L on a Γ-centred mesh) has the run's own energy there: the data, not
+ * an interpolated value. Leaving that point out still says whether the extremum stays there (position, masses),
+ * but its energy change is then measured on the full fit, which passes through the data, at the place the
+ * reduced fit moved it to; the reduced fit's own miss at the left-out point is the interpolation's error
+ * (`leftOutError_eV`), not an error of the extremum's energy.
  */
 import type { Mat3, Vec3 } from '../model';
 import { cartesianToFractional } from '../lattice/reciprocal';
@@ -54,6 +60,7 @@ export function extremumUncertainty(
   let lost = 0;
   const dm: Vec3 = [0, 0, 0];
   const refitNewton = { ...newton, maxIterations: Math.min(newton.maxIterations ?? REFIT_MAX_ITERATIONS, REFIT_MAX_ITERATIONS) };
+  const own = meshPointAt(mesh, found.k, lattice);
   for (const p of nearest) {
     const reduced = fit.fit(energies, p);
     leftOutError = Math.max(leftOutError, Math.abs(reduced.value([kCart[3 * p]!, kCart[3 * p + 1]!, kCart[3 * p + 2]!]) - energies[p]!));
@@ -62,12 +69,27 @@ export function extremumUncertainty(
       lost++;
       continue;
     }
-    dE = Math.max(dE, Math.abs(again.energy - found.energy));
+    const energy = p === own ? fit.fit(energies).value(again.k) : again.energy;
+    dE = Math.max(dE, Math.abs(energy - found.energy));
     dPos = Math.max(dPos, Math.hypot(again.k[0] - found.k[0], again.k[1] - found.k[1], again.k[2] - found.k[2]));
     for (let i = 0; i < 3; i++) dm[i] = Math.max(dm[i]!, Math.abs(again.masses[i]! - found.masses[i]!));
   }
   if (lost > 0) for (let i = 0; i < 3; i++) dm[i] = Infinity;
   return { energy_eV: dE, masses: dm, position_invA: dPos, leftOutError_eV: leftOutError, leftOut: nearest, lost };
+}
+
+/** The irreducible point (0-based) whose mesh image is at cartesian k (to 1e-6 of a mesh step), or −1. */
+function meshPointAt(mesh: RegularMesh, k: Vec3, lattice: Mat3): number {
+  const kf = cartesianToFractional(k, lattice);
+  let j = 0;
+  for (let a = 0; a < 3; a++) {
+    const n = mesh.divisions[a]!;
+    const x = kf[a]! * n - mesh.shift[a]!;
+    const i = Math.round(x);
+    if (Math.abs(x - i) > 1e-6) return -1;
+    j = j * n + (((i % n) + n) % n);
+  }
+  return mesh.irreducibleOf[j]!;
 }
 
 /** The `count` distinct irreducible points whose mesh images lie nearest to cartesian k. */
