@@ -41,7 +41,44 @@ export interface PathGeometry {
 
 const DUP_TOL = 1e-7;
 
+/**
+ * One geometry per band structure (the analysis, the path-position text and the editor all ask for it), kept
+ * while the arrays it was computed from are the same ones. Callers must not change what it returns.
+ */
+interface CachedGeometry {
+  kpoints: Float64Array;
+  labels: BandStructure['labels'];
+  lattice: BandStructure['lattice'];
+  writtenDistance: BandStructure['writtenDistance'];
+  nk: number;
+  geometry: PathGeometry;
+}
+const geometries = new WeakMap<BandStructure, CachedGeometry>();
+
 export function pathGeometry(bs: BandStructure): PathGeometry {
+  const hit = geometries.get(bs);
+  if (
+    hit &&
+    hit.kpoints === bs.kpoints &&
+    hit.labels === bs.labels &&
+    hit.lattice === bs.lattice &&
+    hit.writtenDistance === bs.writtenDistance &&
+    hit.nk === bs.nk
+  )
+    return hit.geometry;
+  const geometry = computePathGeometry(bs);
+  geometries.set(bs, {
+    kpoints: bs.kpoints,
+    labels: bs.labels,
+    lattice: bs.lattice,
+    writtenDistance: bs.writtenDistance,
+    nk: bs.nk,
+    geometry,
+  });
+  return geometry;
+}
+
+function computePathGeometry(bs: BandStructure): PathGeometry {
   const nk = bs.nk;
   const cart = bs.lattice ? kpointsToCartesian(bs.kpoints, reciprocalLattice(bs.lattice)) : null;
   const pts = cart ?? bs.kpoints;
