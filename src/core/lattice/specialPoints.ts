@@ -255,6 +255,49 @@ export function labelOfK(map: SpecialPointMap, kUser: Vec3, invM: Mat3 = mat3Inv
   return null;
 }
 
+/**
+ * labelOfK for every k-point of a run (nk × 3 fractional), with the images in one typed array and no array per
+ * point: runs without a path file can hold tens of thousands of points. The same arithmetic and order as labelOfK.
+ */
+function labelsOfKpoints(map: SpecialPointMap, kpoints: Float64Array, nk: number, tol = LABEL_TOLERANCE): KLabel[] {
+  const invM = mat3Inverse(map.M);
+  const imageK: number[] = [];
+  const imageLabel: number[] = [];
+  map.images.forEach((p, li) => {
+    for (const q of p.k) {
+      imageK.push(q[0], q[1], q[2]);
+      imageLabel.push(li);
+    }
+  });
+  const q = Float64Array.from(imageK);
+  const n = imageLabel.length;
+  const [m0, m1, m2] = invM;
+  const labels: KLabel[] = [];
+  for (let i = 0; i < nk; i++) {
+    const k0 = kpoints[3 * i]!;
+    const k1 = kpoints[3 * i + 1]!;
+    const k2 = kpoints[3 * i + 2]!;
+    const s0 = m0[0] * k0 + m0[1] * k1 + m0[2] * k2;
+    const s1 = m1[0] * k0 + m1[1] * k1 + m1[2] * k2;
+    const s2 = m2[0] * k0 + m2[1] * k1 + m2[2] * k2;
+    let found = -1;
+    // On a special point itself first, then on one modulo a reciprocal lattice vector (sameModuloG).
+    for (let j = 0; j < n && found < 0; j++) {
+      if (Math.max(Math.abs(q[3 * j]! - s0), Math.abs(q[3 * j + 1]! - s1), Math.abs(q[3 * j + 2]! - s2)) < tol) found = imageLabel[j]!;
+    }
+    for (let j = 0; j < n && found < 0; j++) {
+      if (offG(q[3 * j]! - s0) > tol || offG(q[3 * j + 1]! - s1) > tol || offG(q[3 * j + 2]! - s2) > tol) continue;
+      found = imageLabel[j]!;
+    }
+    const label = found >= 0 ? map.images[found]!.label : '';
+    if (label) labels.push({ index: i, label });
+  }
+  return labels;
+}
+
+/** Distance of d from the nearest integer. */
+const offG = (d: number): number => Math.abs(d - Math.round(d));
+
 export interface RecognisedLabels {
   labels: KLabel[];
   /** The lattice whose convention was used, or null when none applies. */
@@ -282,13 +325,7 @@ export function recogniseSpecialPoints(bs: BandStructure, symprec: number = DEFA
         : `special-point labels are recognised for cubic, hexagonal, tetragonal and simple orthorhombic lattices, not for ${b.bravaisClass}`,
     };
   }
-  const invM = mat3Inverse(map.M);
-  const labels: KLabel[] = [];
-  for (let i = 0; i < bs.nk; i++) {
-    const k: Vec3 = [bs.kpoints[3 * i]!, bs.kpoints[3 * i + 1]!, bs.kpoints[3 * i + 2]!];
-    const label = labelOfK(map, k, invM);
-    if (label) labels.push({ index: i, label });
-  }
+  const labels = labelsOfKpoints(map, bs.kpoints, bs.nk);
   return {
     labels,
     kind: map.kind,
