@@ -80,9 +80,15 @@ function largestOccupation(o: OccupationArray): number {
 /** What a full state holds as the file writes occupations: fractions (0..1, Methfessel-Paxton slightly beyond) → 1, electrons (0..2) → 2. */
 export function fullOccupation(occupations: readonly OccupationArray[]): 1 | 2 {
   let maxOcc = 0;
-  for (const o of occupations) maxOcc = Math.max(maxOcc, largestOccupation(o));
+  for (const o of occupations) {
+    let m = largestValues.get(o);
+    if (m === undefined) largestValues.set(o, (m = largestOccupation(o)));
+    maxOcc = Math.max(maxOcc, m);
+  }
   return maxOcc > 1.5 ? 2 : 1;
 }
+/** The largest value of each occupation array seen (the occupation rule and the classification both ask). Arrays read are not changed. */
+const largestValues = new WeakMap<OccupationArray, number>();
 
 /** Occupation fractions (0..1 of a full state) per channel, as the file writes them. */
 export function occupationFractions(bs: BandStructure): Float64Array[] {

@@ -60,12 +60,14 @@ export function kKey(k: Vec3): string {
 
 /** kKey as one number (three 5-digit fractions packed; exact in a double): cheap to build for every k. */
 export function kKeyNumber(x: number, y: number, z: number): number {
-  const part = (v: number): number => {
-    let r = v - Math.floor(v + 1e-6);
-    r = Math.round(r * 1e5);
-    return r === 100000 ? 0 : r;
-  };
-  return (part(x) * 100000 + part(y)) * 100000 + part(z);
+  return (keyPart(x) * 100000 + keyPart(y)) * 100000 + keyPart(z);
+}
+
+/** One fractional coordinate of kKeyNumber: its part in [0, 1) in steps of 1e-5. */
+function keyPart(v: number): number {
+  let r = v - Math.floor(v + 1e-6);
+  r = Math.round(r * 1e5);
+  return r === 100000 ? 0 : r;
 }
 
 export function fractionalText(k: Vec3): string {
