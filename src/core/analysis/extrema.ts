@@ -179,9 +179,16 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
   for (let spin = 0; spin < bs.nSpin; spin++) {
     const e = bs.energies[spin]!;
     const occupied = occ.occupied[spin]!;
-    const done = new Set<number>();
     const bands = bandsInRange(bs, spin, occupied, edges.spins[spin], overallV - inp.range_eV, overallC + inp.range_eV);
     if (!bands.length) continue;
+    // Points already walked, per band in range: done[slot[b] * nk + k] (a typed array: candidates can be most of the path).
+    const slot = new Int32Array(nb).fill(-1);
+    bands.forEach((b, i) => (slot[b] = i));
+    const done = new Uint8Array(bands.length * bs.nk);
+    const mark = (members: readonly number[], b: number): void => {
+      const base = slot[b]! * bs.nk;
+      for (const m of members) done[base + m] = 1;
+    };
     const table = inp.network ? inp.network.neighbourTable() : gridTable(bs, firstOf, neighbours);
     const found0 = scanCandidates(
       e,
@@ -209,16 +216,16 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
         }
         continue;
       }
-      if (done.has(i * nb + b)) continue;
+      if (done[slot[b]! * bs.nk + i] === 1) continue;
       // First the plateau of equal values: a step of the rounding on a slope leads higher, silently.
       const plateau = topRegion(bs, e, nb, b, i, valence, TIE_EV, neighbours, firstOf, bs.nk);
-      for (const m of plateau.members) done.add(m * nb + b);
+      mark(plateau.members, b);
       if (plateau.outcome === 'higher') continue;
       let region = plateau;
       if (mergeTol > TIE_EV) {
         // Then everything the rounding cannot tell apart from it.
         region = topRegion(bs, e, nb, b, i, valence, mergeTol, neighbours, firstOf, bs.nk);
-        for (const m of region.members) done.add(m * nb + b);
+        mark(region.members, b);
         if (region.outcome === 'higher') {
           reject({
             spin: spin as 0 | 1,
