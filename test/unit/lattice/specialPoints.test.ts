@@ -90,6 +90,22 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     assert.equal(r.bravaisClass, 'cF');
   });
 
+  it('labels points written in another zone (k + G) like the points themselves', () => {
+    // k and k + G are the same state for any reciprocal lattice vector G (Bloch's theorem: common practice).
+    const lattice = fccPrimitive(A);
+    const [b1, b2, b3] = reciprocalLattice(lattice);
+    const { kc, ends } = linePath(legsOf(FCC_PATH, fccPts), 9);
+    for (const g of [
+      [b1[0] - b2[0], b1[1] - b2[1], b1[2] - b2[2]],
+      [2 * b3[0], 2 * b3[1], 2 * b3[2]],
+    ] as Vec3[]) {
+      const shifted = kc.map((k): Vec3 => [k[0] + g[0], k[1] + g[1], k[2] + g[2]]);
+      // In fcc, U and K are one point of the zone (U = K + G, the path's "K|U" jump): either name is right.
+      const kIsU = (m: Map<number, string>): [number, string][] => sorted(m).map(([i, l]) => [i, l === 'U' ? 'K' : l]);
+      assert.deepEqual(kIsU(labelsOf(bandsOn(lattice, shifted, null))), kIsU(ends));
+    }
+  });
+
   it('gives the same labels for any primitive cell of the crystal, rotated (property)', () => {
     const si = diamondLike(A, 'Si', 'Si');
     fc.assert(
