@@ -190,6 +190,8 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
       for (const m of members) done[base + m] = 1;
     };
     const table = inp.network ? inp.network.neighbourTable() : gridTable(bs, firstOf, neighbours);
+    // Where a point rising one way and falling another is tested as a saddle: the corners of a path.
+    const saddleTest = inp.network ? cornersOf(inp.network, bs.nk) : null;
     const found0 = scanCandidates(
       e,
       occupied,
@@ -201,6 +203,7 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
       Int32Array.from(bands),
       overallV - inp.range_eV,
       overallC + inp.range_eV,
+      saddleTest,
     );
     for (let c = 0; c < found0.count; c++) {
       const i = found0.k[c]!;
@@ -295,4 +298,11 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
   found.sort((a, b) => a.offset - b.offset || a.spin - b.spin || a.k - b.k);
   rejected.sort((a, b) => a.spin - b.spin || a.band - b.band || a.k - b.k);
   return { sites: [...sites, ...found], rejected };
+}
+
+/** 1 at the k indices that are corners of the path (a segment starts or ends at the point). */
+function cornersOf(network: PathNetwork, nk: number): Uint8Array {
+  const out = new Uint8Array(nk);
+  for (let i = 0; i < nk; i++) if (network.isCorner(i)) out[i] = 1;
+  return out;
 }
