@@ -86,18 +86,44 @@ export type RayExtent = (kIndex: number, m: number) => boolean;
  * identity (firstOf): the point a repeated k is judged at.
  */
 export function kIdentities(bs: BandStructure): { keyOf: Float64Array; firstOf: Int32Array } {
-  const keyOf = new Float64Array(bs.nk);
-  const firstOf = new Int32Array(bs.nk);
-  const first = new Map<number, number>();
+  const nk = bs.nk;
+  const keyOf = new Float64Array(nk);
+  const firstOf = new Int32Array(nk);
   const kp = bs.kpoints;
-  for (let i = 0; i < bs.nk; i++) {
+  // An open-addressing table of first indices (+1; 0 is empty), at most half full: no Map of boxed keys.
+  let cap = 16;
+  while (cap < 2 * nk) cap *= 2;
+  const table = new Int32Array(cap);
+  const mask = cap - 1;
+  for (let i = 0; i < nk; i++) {
     const key = kKeyNumber(kp[3 * i]!, kp[3 * i + 1]!, kp[3 * i + 2]!);
     keyOf[i] = key;
-    const f = first.get(key);
-    if (f === undefined) first.set(key, i);
-    firstOf[i] = f ?? i;
+    let slot = keyHash(key) & mask;
+    let f = -1;
+    for (;;) {
+      const at = table[slot]!;
+      if (at === 0) {
+        table[slot] = i + 1;
+        break;
+      }
+      const other = keyOf[at - 1]!;
+      // The same key (NaN keys are one key, as a Map has them).
+      if (other === key || (other !== other && key !== key)) {
+        f = at - 1;
+        break;
+      }
+      slot = (slot + 1) & mask;
+    }
+    firstOf[i] = f >= 0 ? f : i;
   }
   return { keyOf, firstOf };
+}
+
+/** A 32-bit hash of a key (a whole number below 2⁵³, or NaN). */
+function keyHash(key: number): number {
+  const lo = key % 4294967296;
+  const hi = (key - lo) / 4294967296;
+  return (Math.imul(lo | 0, 0x9e3779b1) ^ Math.imul(hi | 0, 0x85ebca6b)) >>> 0;
 }
 
 export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeometry(bs)): PathNetwork {
