@@ -53,6 +53,17 @@ export function scanOccupations(
     for (let b = 0; b < nb; b++) {
       const x = occ[row + b]! / full;
       const en = energies[row + b]!;
+      // Whole states (most of them): no deviation from 0 or 1 to weigh.
+      if (x === 1) {
+        filledSomewhere[b] = 1;
+        maxFilled = Math.max(maxFilled, en);
+        continue;
+      }
+      if (x === 0) {
+        emptySomewhere[b] = 1;
+        minEmpty = Math.min(minEmpty, en);
+        continue;
+      }
       if (x > 0.5) {
         filledSomewhere[b] = 1;
         maxFilled = Math.max(maxFilled, en);
