@@ -106,6 +106,30 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     }
   });
 
+  it('labels a point within the tolerance of a special point in any zone, and not one beyond it', () => {
+    const lattice = fccPrimitive(A);
+    const names = ['Γ', 'X', 'L', 'W', 'K'];
+    const kc: Vec3[] = [];
+    const want = new Map<number, string>();
+    // Fractional offsets: 3e-5 inside LABEL_TOLERANCE (1e-4), 4e-4 outside; G from −2 to 2 in each coordinate.
+    for (let i = 0; i < 400; i++) {
+      const name = names[i % names.length]!;
+      const base = cartesianToFractional(fccPts[name]!, lattice);
+      const inside = i % 2 === 0;
+      const off = inside ? 3e-5 : 4e-4;
+      const f: Vec3 = [
+        base[0] + ((i * 7) % 5) - 2 + (i % 4 < 2 ? off : -off),
+        base[1] + ((i * 3) % 5) - 2 - off,
+        base[2] + ((i * 11) % 5) - 2,
+      ];
+      kc.push(fractionalToCartesian(f, reciprocalLattice(lattice)));
+      if (inside) want.set(i, name);
+    }
+    const got = labelsOf(bandsOn(lattice, kc, null));
+    const kIsU = (m: Map<number, string>): [number, string][] => sorted(m).map(([i, l]) => [i, l === 'U' ? 'K' : l]);
+    assert.deepEqual(kIsU(got), kIsU(want));
+  });
+
   it('gives the same labels for any primitive cell of the crystal, rotated (property)', () => {
     const si = diamondLike(A, 'Si', 'Si');
     fc.assert(
