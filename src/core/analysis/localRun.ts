@@ -4,7 +4,8 @@
  * the extremum the run was made for (at its centre) is meaningful. Pure.
  */
 import type { BandStructure, Vec3 } from '../model';
-import { kpointsToCartesian, reciprocalLattice } from '../lattice/reciprocal';
+import { reciprocalLattice } from '../lattice/reciprocal';
+import { pathGeometry } from '../lattice/kpath';
 
 /** A run whose k-points all lie within this fraction of the shortest reciprocal vector of their centre is local. */
 export const LOCAL_RUN_FRACTION = 0.2;
@@ -28,8 +29,8 @@ export interface LocalRun {
 export function localRun(bs: BandStructure): LocalRun | null {
   if (bs.nk < 3 || bs.grid?.endpointsRepeated) return null;
   const rec = bs.lattice ? reciprocalLattice(bs.lattice) : null;
-  // nk × 3 positions: cartesian with a lattice, fractional without (no array per point: runs can be long).
-  const xyz = rec ? kpointsToCartesian(bs.kpoints, rec) : bs.kpoints;
+  // nk × 3 positions: cartesian with a lattice (the path geometry's, computed once per run), fractional without.
+  const xyz = rec ? (pathGeometry(bs).cartesian ?? bs.kpoints) : bs.kpoints;
   const scale = rec ? Math.min(...rec.map((r) => Math.hypot(r[0], r[1], r[2]))) : 1;
   const { extent, centre: nearestCentre } = centroidSpread(xyz, bs.nk);
   let centre = nearestCentre;
