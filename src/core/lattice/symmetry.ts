@@ -101,24 +101,8 @@ function describe(structure: Structure): string {
   return [...counts].map(([s, n]) => `${s}${n > 1 ? n : ''}`).join('') || 'empty cell';
 }
 
-/** Datasets already computed, per structure and tolerance (the Bravais lattice and the crystal symmetry ask for the same one). */
-const datasets = new WeakMap<Structure, Map<number, MoyoDataset>>();
-
-/**
- * The library's dataset for a structure; throws AnalysisError with a plain sentence on failure. Computed once per
- * structure object and tolerance: callers must not change the dataset or the structure.
- */
+/** The library's dataset for a structure; throws AnalysisError with a plain sentence on failure. */
 export function analyzeStructure(structure: Structure, symprec: number = DEFAULT_SYMPREC): MoyoDataset {
-  const hit = datasets.get(structure)?.get(symprec);
-  if (hit) return hit;
-  const d = computeDataset(structure, symprec);
-  let perStructure = datasets.get(structure);
-  if (!perStructure) datasets.set(structure, (perStructure = new Map<number, MoyoDataset>()));
-  perStructure.set(symprec, d);
-  return d;
-}
-
-function computeDataset(structure: Structure, symprec: number): MoyoDataset {
   if (!moyoReady()) {
     throw new AnalysisError('Crystal symmetry is not available yet: the symmetry module has not been loaded (ensureSymmetryReady).');
   }
