@@ -3,7 +3,7 @@
  * of a full state, the electrons they hold, whole bands per channel, and the Fermi level that fills a count
  * (by bisection on the counting function).
  */
-import type { BandStructure } from '../model';
+import type { BandStructure, OccupationArray } from '../model';
 import type { OccupationRule } from './occupation';
 
 /** Energies within this of each other are one level (eV), as in gap.ts. */
@@ -70,12 +70,29 @@ export function wholeBandsPerChannel(bs: BandStructure, occ: OccupationRule | nu
   return Math.abs(n - Math.round(n)) < 0.05 ? Math.round(n) : null;
 }
 
+/** The largest value of one occupation array (0 when none is positive). A small function: it is compiled for its loop alone. */
+function largestOccupation(o: OccupationArray): number {
+  let maxOcc = 0;
+  for (let i = 0; i < o.length; i++) if (o[i]! > maxOcc) maxOcc = o[i]!;
+  return maxOcc;
+}
+
+/** What a full state holds as the file writes occupations: fractions (0..1, Methfessel-Paxton slightly beyond) → 1, electrons (0..2) → 2. */
+export function fullOccupation(occupations: readonly OccupationArray[]): 1 | 2 {
+  let maxOcc = 0;
+  for (const o of occupations) {
+    let m = largestValues.get(o);
+    if (m === undefined) largestValues.set(o, (m = largestOccupation(o)));
+    maxOcc = Math.max(maxOcc, m);
+  }
+  return maxOcc > 1.5 ? 2 : 1;
+}
+/** The largest value of each occupation array seen (the occupation rule and the classification both ask). Arrays read are not changed. */
+const largestValues = new WeakMap<OccupationArray, number>();
+
 /** Occupation fractions (0..1 of a full state) per channel, as the file writes them. */
 export function occupationFractions(bs: BandStructure): Float64Array[] {
-  let maxOcc = 0;
-  for (const o of bs.occupations!) for (let i = 0; i < o.length; i++) if (o[i]! > maxOcc) maxOcc = o[i]!;
-  // Files write fractions (0..1, Methfessel-Paxton slightly beyond) or electrons (0..2).
-  const full = maxOcc > 1.5 ? 2 : 1;
+  const full = fullOccupation(bs.occupations!);
   // A plain loop: TypedArray.from with a mapping function goes through a JS list of every value on the way
   // (tens of MB of heap on a large run).
   return bs.occupations!.map((o) => {

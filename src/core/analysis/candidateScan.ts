@@ -62,7 +62,8 @@ export interface CandidateList {
 /**
  * The one pass over k-points × bands near the edges: a point is a candidate maximum of a valence band when no
  * neighbour is higher (minimum of a conduction band: none lower), and a saddle to test when neighbours lie
- * both above and below (the point test of pathLocalExtrema.ts). Plain loops over typed arrays (this runs
+ * both above and below (the point test of pathLocalExtrema.ts) where `saddleTest` is 1 (the path's corners:
+ * elsewhere such a point is the band running through it, and is not listed). Plain loops over typed arrays (this runs
  * over the whole path; everything after it only over the candidates).
  */
 export function scanCandidates(
@@ -76,6 +77,7 @@ export function scanCandidates(
   bands: Int32Array,
   valenceFloor: number,
   conductionCeiling: number,
+  saddleTest: Uint8Array | null,
 ): CandidateList {
   let cap = 64;
   let k = new Int32Array(cap);
@@ -120,7 +122,7 @@ export function scanCandidates(
       // A level point is a candidate too: its plateau is walked next (pathLocalExtrema.ts's rule).
       const standing = standingOf(up, down);
       if (standing === 'level' || standing === (valence ? 'maximum' : 'minimum')) push(i, b, 0);
-      else if (standing === 'mixed' && q1 - q0 >= 2) push(i, b, 1);
+      else if (standing === 'mixed' && q1 - q0 >= 2 && saddleTest !== null && saddleTest[i] === 1) push(i, b, 1);
     }
   }
   return { k, band, mixed, count };

@@ -13,7 +13,16 @@
  */
 import type { BandStructure } from '../model';
 import type { OccupationRule } from './occupation';
-import { electronsPerBand, fillingFermiLevel, LEVEL_EV, occupationFractions, totalElectrons, wholeBandsPerChannel } from './bandFilling';
+import {
+  electronsPerBand,
+  fillingFermiLevel,
+  fullOccupation,
+  LEVEL_EV,
+  occupationFractions,
+  totalElectrons,
+  wholeBandsPerChannel,
+} from './bandFilling';
+import { scanOccupations } from './occupationScan';
 import { semimetalVerdict } from './semimetal';
 
 /** Which evidence decided. */
@@ -78,50 +87,40 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
   const offset = bs.bandNumberOffset ?? 0;
   const warnings: string[] = [];
   const spins = Array.from({ length: bs.nSpin }, (_, s) => s);
-  const ranges = spins.map((s) => bandRanges(bs, s));
+  // Each band's energy range per channel: made when a Fermi level is compared with it.
+  let ranges: BandRange[][] | null = null;
   const perBand = electronsPerBand(bs, occ);
   const written = bs.fermiEnergy;
   const per: ChannelVerdict[] = [];
   let evidence: ClassEvidence = 'none';
   let fermi: number | null = written;
   let fermiEstimated = false;
+  // Occupations as fractions of a full state: made only when a metal's filling needs them.
   let fractions: Float64Array[] | null = null;
+  const fractionsOf = (): Float64Array[] => (fractions ??= occupationFractions(bs));
 
   const crossingAt = (s: number, ef: number): number[] =>
-    ranges[s]!.flatMap((r, b) => (r.min < ef - FERMI_INSIDE_TOLERANCE_EV && r.max > ef + FERMI_INSIDE_TOLERANCE_EV ? [b] : []));
+    (ranges ??= spins.map((c) => bandRanges(bs, c)))[s]!.flatMap((r, b) =>
+      r.min < ef - FERMI_INSIDE_TOLERANCE_EV && r.max > ef + FERMI_INSIDE_TOLERANCE_EV ? [b] : [],
+    );
 
   if (occ && occ.basis === 'occupations' && bs.occupations) {
     evidence = 'occupations';
-    fractions = occupationFractions(bs);
+    const full = fullOccupation(bs.occupations);
     let largestTail = 0;
     let maxFilled = -Infinity;
     let minEmpty = Infinity;
     for (const s of spins) {
-      const f = fractions[s]!;
-      const e = bs.energies[s]!;
-      const nb = bs.nBands;
+      const scan = scanOccupations(bs.occupations[s]!, bs.energies[s]!, full, bs.nk, bs.nBands, TAIL_LIMIT);
+      largestTail = Math.max(largestTail, scan.largestTail);
+      maxFilled = Math.max(maxFilled, scan.maxFilled);
+      minEmpty = Math.min(minEmpty, scan.minEmpty);
       const crossing: number[] = [];
       const straddling: number[] = [];
-      let partlyFilled: { band: number; value: number; dev: number } | null = null;
-      for (let b = 0; b < nb; b++) {
-        let above = false;
-        let below = false;
-        let partial = false;
-        for (let k = 0; k < bs.nk; k++) {
-          const x = f[k * nb + b]!;
-          if (x > 0.5) above = true;
-          else below = true;
-          const dev = Math.min(Math.abs(x), Math.abs(x - 1));
-          if (dev > TAIL_LIMIT) {
-            partial = true;
-            if (!partlyFilled || dev > partlyFilled.dev) partlyFilled = { band: b, value: x, dev };
-          } else if (dev > largestTail) largestTail = dev;
-          const en = e[k * nb + b]!;
-          if (x > 0.5) maxFilled = Math.max(maxFilled, en);
-          else minEmpty = Math.min(minEmpty, en);
-        }
-        if (above && below) straddling.push(b);
-        if ((above && below) || partial) crossing.push(b);
+      for (let b = 0; b < bs.nBands; b++) {
+        const straddles = scan.filledSomewhere[b] === 1 && scan.emptySomewhere[b] === 1;
+        if (straddles) straddling.push(b);
+        if (straddles || scan.partial[b] === 1) crossing.push(b);
       }
       const metal = crossing.length > 0;
       // Bands only smeared at E_F (partly filled everywhere sampled) lie near it; the crossing ones straddle it.
@@ -132,7 +131,7 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
       else if (straddling.length > 0)
         reason = `The occupations show ${bandList(straddling, offset)} filled at some k-points and empty at others: ${straddling.length === 1 ? 'it crosses' : 'they cross'} the Fermi level.`;
       else
-        reason = `The occupations show ${bandList(crossing, offset)} partly filled (occupation ${partlyFilled!.value.toFixed(2)} of a full state): states lie at the Fermi level.`;
+        reason = `The occupations show ${bandList(crossing, offset)} partly filled (occupation ${scan.partlyFilledValue.toFixed(2)} of a full state): states lie at the Fermi level.`;
       per.push({ spin: s as 0 | 1, metal, semimetal: null, crossing, reason });
     }
     if (largestTail > 1e-4 && !per.some((v) => v.metal)) {
@@ -141,7 +140,8 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
       );
     }
     if (fermi === null && Number.isFinite(maxFilled) && Number.isFinite(minEmpty)) {
-      fermi = maxFilled < minEmpty ? 0.5 * (maxFilled + minEmpty) : fillingFermiLevel(bs, totalElectrons(bs, fractions, perBand), perBand);
+      fermi =
+        maxFilled < minEmpty ? 0.5 * (maxFilled + minEmpty) : fillingFermiLevel(bs, totalElectrons(bs, fractionsOf(), perBand), perBand);
       fermiEstimated = fermi !== null;
     }
   } else if (written !== null) {
@@ -246,7 +246,7 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
       continue;
     }
     if (v.crossing.length === 0 && fermi !== null) v.crossing = crossingAt(v.spin, fermi);
-    const n = wholeBandsPerChannel(bs, occ, fractions ? fractions[v.spin]! : null);
+    const n = wholeBandsPerChannel(bs, occ, evidence === 'occupations' ? fractionsOf()[v.spin]! : null);
     const sm = semimetalVerdict(bs, v.spin, v.crossing, n);
     if (v.semimetal === null || v.semimetal === undefined) v.semimetal = sm.semimetal;
     v.reason += sm.detail;

@@ -179,10 +179,19 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
   for (let spin = 0; spin < bs.nSpin; spin++) {
     const e = bs.energies[spin]!;
     const occupied = occ.occupied[spin]!;
-    const done = new Set<number>();
     const bands = bandsInRange(bs, spin, occupied, edges.spins[spin], overallV - inp.range_eV, overallC + inp.range_eV);
     if (!bands.length) continue;
+    // Points already walked, per band in range: done[slot[b] * nk + k] (a typed array: candidates can be most of the path).
+    const slot = new Int32Array(nb).fill(-1);
+    bands.forEach((b, i) => (slot[b] = i));
+    const done = new Uint8Array(bands.length * bs.nk);
+    const mark = (members: readonly number[], b: number): void => {
+      const base = slot[b]! * bs.nk;
+      for (const m of members) done[base + m] = 1;
+    };
     const table = inp.network ? inp.network.neighbourTable() : gridTable(bs, firstOf, neighbours);
+    // Where a point rising one way and falling another is tested as a saddle: the corners of a path.
+    const saddleTest = inp.network ? cornersOf(inp.network, bs.nk) : null;
     const found0 = scanCandidates(
       e,
       occupied,
@@ -194,6 +203,7 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
       Int32Array.from(bands),
       overallV - inp.range_eV,
       overallC + inp.range_eV,
+      saddleTest,
     );
     for (let c = 0; c < found0.count; c++) {
       const i = found0.k[c]!;
@@ -209,16 +219,16 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
         }
         continue;
       }
-      if (done.has(i * nb + b)) continue;
+      if (done[slot[b]! * bs.nk + i] === 1) continue;
       // First the plateau of equal values: a step of the rounding on a slope leads higher, silently.
       const plateau = topRegion(bs, e, nb, b, i, valence, TIE_EV, neighbours, firstOf, bs.nk);
-      for (const m of plateau.members) done.add(m * nb + b);
+      mark(plateau.members, b);
       if (plateau.outcome === 'higher') continue;
       let region = plateau;
       if (mergeTol > TIE_EV) {
         // Then everything the rounding cannot tell apart from it.
         region = topRegion(bs, e, nb, b, i, valence, mergeTol, neighbours, firstOf, bs.nk);
-        for (const m of region.members) done.add(m * nb + b);
+        mark(region.members, b);
         if (region.outcome === 'higher') {
           reject({
             spin: spin as 0 | 1,
@@ -288,4 +298,11 @@ export function locateExtrema(inp: ExtremaInput): ExtremaSearch {
   found.sort((a, b) => a.offset - b.offset || a.spin - b.spin || a.k - b.k);
   rejected.sort((a, b) => a.spin - b.spin || a.band - b.band || a.k - b.k);
   return { sites: [...sites, ...found], rejected };
+}
+
+/** 1 at the k indices that are corners of the path (a segment starts or ends at the point). */
+function cornersOf(network: PathNetwork, nk: number): Uint8Array {
+  const out = new Uint8Array(nk);
+  for (let i = 0; i < nk; i++) if (network.isCorner(i)) out[i] = 1;
+  return out;
 }

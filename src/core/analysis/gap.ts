@@ -26,25 +26,67 @@ export interface EdgeAnalysis {
   spins: { vbm: EdgeState | null; cbm: EdgeState | null; metal: boolean }[];
 }
 
-function channelEdges(bs: BandStructure, occ: OccupationRule, spin: 0 | 1): { vbm: EdgeState | null; cbm: EdgeState | null } {
+/**
+ * Per k-point of one channel: the highest occupied state (the highest band among equal values) and the lowest
+ * empty one (the lowest band among equal values); band −1 where there is none. One pass over the channel,
+ * shared by the edges and the direct gaps (kept per occupation array while the energies are the same).
+ */
+interface KPointEdges {
+  hi: Float64Array;
+  hb: Int32Array;
+  lo: Float64Array;
+  lb: Int32Array;
+}
+const kPointEdgesKept = new WeakMap<Uint8Array, { energies: Float64Array; nb: number; nk: number; edges: KPointEdges }>();
+
+function kPointEdges(bs: BandStructure, occ: OccupationRule, spin: number): KPointEdges {
   const e = bs.energies[spin]!;
   const o = occ.occupied[spin]!;
-  const nb = bs.nBands;
-  let vbm: EdgeState | null = null;
-  let cbm: EdgeState | null = null;
-  for (let k = 0; k < bs.nk; k++) {
+  const hit = kPointEdgesKept.get(o);
+  if (hit && hit.energies === e && hit.nb === bs.nBands && hit.nk === bs.nk) return hit.edges;
+  const edges = scanKPointEdges(e, o, bs.nk, bs.nBands);
+  kPointEdgesKept.set(o, { energies: e, nb: bs.nBands, nk: bs.nk, edges });
+  return edges;
+}
+
+function scanKPointEdges(e: Float64Array, o: Uint8Array, nk: number, nb: number): KPointEdges {
+  const hi = new Float64Array(nk);
+  const hb = new Int32Array(nk);
+  const lo = new Float64Array(nk);
+  const lb = new Int32Array(nk);
+  for (let k = 0; k < nk; k++) {
+    let h = -Infinity;
+    let l = Infinity;
+    let hbk = -1;
+    let lbk = -1;
     for (let b = 0; b < nb; b++) {
-      const i = k * nb + b;
-      const x = e[i]!;
-      if (o[i]) {
-        // Highest occupied (the first k among exact ties; at one k the highest band index); lowest empty.
-        if (!vbm || x > vbm.energy || (x === vbm.energy && k === vbm.k && b > vbm.band)) {
-          vbm = { spin, k, band: b, energy: x };
+      const x = e[k * nb + b]!;
+      if (o[k * nb + b]) {
+        if (x >= h) {
+          h = x;
+          hbk = b;
         }
-      } else if (!cbm || x < cbm.energy) {
-        cbm = { spin, k, band: b, energy: x };
+      } else if (x < l) {
+        l = x;
+        lbk = b;
       }
     }
+    hi[k] = h;
+    hb[k] = hbk;
+    lo[k] = l;
+    lb[k] = lbk;
+  }
+  return { hi, hb, lo, lb };
+}
+
+function channelEdges(bs: BandStructure, occ: OccupationRule, spin: 0 | 1): { vbm: EdgeState | null; cbm: EdgeState | null } {
+  const { hi, hb, lo, lb } = kPointEdges(bs, occ, spin);
+  let vbm: EdgeState | null = null;
+  let cbm: EdgeState | null = null;
+  // Highest occupied (the first k among exact ties; at one k the highest band index); lowest empty (the first).
+  for (let k = 0; k < bs.nk; k++) {
+    if (hb[k]! >= 0 && (!vbm || hi[k]! > vbm.energy)) vbm = { spin, k, band: hb[k]!, energy: hi[k]! };
+    if (lb[k]! >= 0 && (!cbm || lo[k]! < cbm.energy)) cbm = { spin, k, band: lb[k]!, energy: lo[k]! };
   }
   return { vbm, cbm };
 }
@@ -80,30 +122,17 @@ export interface DirectGapState {
 
 export function smallestDirectGap(bs: BandStructure, occ: OccupationRule, spins: number[]): DirectGapState | null {
   let best: DirectGapState | null = null;
-  const nb = bs.nBands;
   for (const s of spins) {
-    const e = bs.energies[s]!;
-    const o = occ.occupied[s]!;
+    const { hi, hb, lo, lb } = kPointEdges(bs, occ, s);
     for (let k = 0; k < bs.nk; k++) {
-      let hi = -Infinity;
-      let lo = Infinity;
-      let hb = -1;
-      let lb = -1;
-      for (let b = 0; b < nb; b++) {
-        const x = e[k * nb + b]!;
-        if (o[k * nb + b]) {
-          if (x >= hi) {
-            hi = x;
-            hb = b;
-          }
-        } else if (x < lo) {
-          lo = x;
-          lb = b;
-        }
-      }
-      if (hb >= 0 && lb >= 0 && (!best || lo - hi < best.eV)) {
+      if (hb[k]! >= 0 && lb[k]! >= 0 && (!best || lo[k]! - hi[k]! < best.eV)) {
         const spin = s as 0 | 1;
-        best = { eV: lo - hi, k, top: { spin, k, band: hb, energy: hi }, bottom: { spin, k, band: lb, energy: lo } };
+        best = {
+          eV: lo[k]! - hi[k]!,
+          k,
+          top: { spin, k, band: hb[k]!, energy: hi[k]! },
+          bottom: { spin, k, band: lb[k]!, energy: lo[k]! },
+        };
       }
     }
   }

@@ -5,6 +5,7 @@
  */
 import type { BandStructure, Vec3 } from '../model';
 import { reciprocalLattice } from '../lattice/reciprocal';
+import { pathGeometry } from '../lattice/kpath';
 
 /** A run whose k-points all lie within this fraction of the shortest reciprocal vector of their centre is local. */
 export const LOCAL_RUN_FRACTION = 0.2;
@@ -28,32 +29,15 @@ export interface LocalRun {
 export function localRun(bs: BandStructure): LocalRun | null {
   if (bs.nk < 3 || bs.grid?.endpointsRepeated) return null;
   const rec = bs.lattice ? reciprocalLattice(bs.lattice) : null;
-  const cart = (k: number): Vec3 => {
-    const f: Vec3 = [bs.kpoints[3 * k]!, bs.kpoints[3 * k + 1]!, bs.kpoints[3 * k + 2]!];
-    if (!rec) return f;
-    return [0, 1, 2].map((j) => f[0] * rec[0][j]! + f[1] * rec[1][j]! + f[2] * rec[2][j]!) as Vec3;
-  };
+  // nk × 3 positions: cartesian with a lattice (the path geometry's, computed once per run), fractional without.
+  const xyz = rec ? (pathGeometry(bs).cartesian ?? bs.kpoints) : bs.kpoints;
   const scale = rec ? Math.min(...rec.map((r) => Math.hypot(r[0], r[1], r[2]))) : 1;
-  const c: Vec3 = [0, 0, 0];
-  const pts: Vec3[] = [];
-  for (let k = 0; k < bs.nk; k++) {
-    const p = cart(k);
-    pts.push(p);
-    for (let j = 0; j < 3; j++) c[j]! += p[j]! / bs.nk;
-  }
-  let extent = 0;
-  let centre = 0;
-  let nearest = Infinity;
-  pts.forEach((p, k) => {
-    const d = Math.hypot(p[0] - c[0], p[1] - c[1], p[2] - c[2]);
-    if (d > extent) extent = d;
-    if (d < nearest) {
-      nearest = d;
-      centre = k;
-    }
-  });
+  const { extent, centre: nearestCentre } = centroidSpread(xyz, bs.nk);
+  let centre = nearestCentre;
   const fraction = extent / scale;
   if (!(fraction > 0 && fraction < LOCAL_RUN_FRACTION)) return null;
+  const pts: Vec3[] = [];
+  for (let k = 0; k < bs.nk; k++) pts.push([xyz[3 * k]!, xyz[3 * k + 1]!, xyz[3 * k + 2]!]);
   // The centre. A tensor run (tensor-kpoints) has one point whose neighbours all lie on two shells (h and 2h),
   // also when only its symmetry-inequivalent points were computed, which lie on one side of it: that point is
   // the centre. Otherwise (a local grid) the point whose farthest neighbour is nearest (minimax).
@@ -94,4 +78,28 @@ function onTwoShells(c: Vec3, pts: readonly Vec3[]): boolean {
     else return false;
   }
   return inner > 0 && outer > 0;
+}
+
+/** The largest distance of a point from the points' centroid, and the point nearest to it (the first on ties). */
+function centroidSpread(xyz: Float64Array, nk: number): { extent: number; centre: number } {
+  let c0 = 0;
+  let c1 = 0;
+  let c2 = 0;
+  for (let k = 0; k < nk; k++) {
+    c0 += xyz[3 * k]! / nk;
+    c1 += xyz[3 * k + 1]! / nk;
+    c2 += xyz[3 * k + 2]! / nk;
+  }
+  let extent = 0;
+  let centre = 0;
+  let nearest = Infinity;
+  for (let k = 0; k < nk; k++) {
+    const d = Math.hypot(xyz[3 * k]! - c0, xyz[3 * k + 1]! - c1, xyz[3 * k + 2]! - c2);
+    if (d > extent) extent = d;
+    if (d < nearest) {
+      nearest = d;
+      centre = k;
+    }
+  }
+  return { extent, centre };
 }

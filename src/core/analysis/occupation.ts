@@ -3,7 +3,8 @@
  * fills the lowest states at every k (2 electrons per band without spin-orbit or spin polarisation, 1 with
  * either); otherwise the Fermi energy. (physics.md, step 2: common practice.)
  */
-import type { BandStructure } from '../model';
+import type { BandStructure, OccupationArray } from '../model';
+import { fullOccupation } from './bandFilling';
 
 export interface OccupationRule {
   /** How occupation was decided: 'occupations', 'electrons', 'fermi'. */
@@ -23,19 +24,10 @@ export function occupationRule(bs: BandStructure): OccupationRule | null {
   const occupied = Array.from({ length: nSpin }, () => new Uint8Array(nk * nBands));
   const warnings: string[] = [];
   if (bs.occupations) {
-    let maxOcc = 0;
-    for (const o of bs.occupations) for (let i = 0; i < o.length; i++) if (o[i]! > maxOcc) maxOcc = o[i]!;
     // Files write either fractions (0..1) or electrons (0..2): half of the largest value is the threshold.
-    const full = maxOcc > 1.5 ? 2 : 1;
+    const full = fullOccupation(bs.occupations);
     let anyOcc = false;
-    for (let s = 0; s < nSpin; s++) {
-      const o = bs.occupations[s]!;
-      for (let i = 0; i < o.length; i++)
-        if (o[i]! > 0.5 * full) {
-          occupied[s]![i] = 1;
-          anyOcc = true;
-        }
-    }
+    for (let s = 0; s < nSpin; s++) if (markAbove(bs.occupations[s]!, 0.5 * full, occupied[s]!)) anyOcc = true;
     if (anyOcc) {
       if (bs.electrons !== null && bs.nk > 0) {
         let count = 0;
@@ -87,4 +79,15 @@ export function occupationRule(bs: BandStructure): OccupationRule | null {
     return { basis: 'fermi', perBand, fractionalFilling: false, occupied, warnings };
   }
   return null;
+}
+
+/** Set out[i] = 1 where values[i] > threshold; true when any is. A small function: compiled for its loop alone. */
+function markAbove(values: OccupationArray, threshold: number, out: Uint8Array): boolean {
+  let any = false;
+  for (let i = 0; i < values.length; i++)
+    if (values[i]! > threshold) {
+      out[i] = 1;
+      any = true;
+    }
+  return any;
 }

@@ -60,12 +60,14 @@ export function kKey(k: Vec3): string {
 
 /** kKey as one number (three 5-digit fractions packed; exact in a double): cheap to build for every k. */
 export function kKeyNumber(x: number, y: number, z: number): number {
-  const part = (v: number): number => {
-    let r = v - Math.floor(v + 1e-6);
-    r = Math.round(r * 1e5);
-    return r === 100000 ? 0 : r;
-  };
-  return (part(x) * 100000 + part(y)) * 100000 + part(z);
+  return (keyPart(x) * 100000 + keyPart(y)) * 100000 + keyPart(z);
+}
+
+/** One fractional coordinate of kKeyNumber: its part in [0, 1) in steps of 1e-5. */
+function keyPart(v: number): number {
+  let r = v - Math.floor(v + 1e-6);
+  r = Math.round(r * 1e5);
+  return r === 100000 ? 0 : r;
 }
 
 export function fractionalText(k: Vec3): string {
@@ -84,18 +86,44 @@ export type RayExtent = (kIndex: number, m: number) => boolean;
  * identity (firstOf): the point a repeated k is judged at.
  */
 export function kIdentities(bs: BandStructure): { keyOf: Float64Array; firstOf: Int32Array } {
-  const keyOf = new Float64Array(bs.nk);
-  const firstOf = new Int32Array(bs.nk);
-  const first = new Map<number, number>();
+  const nk = bs.nk;
+  const keyOf = new Float64Array(nk);
+  const firstOf = new Int32Array(nk);
   const kp = bs.kpoints;
-  for (let i = 0; i < bs.nk; i++) {
+  // An open-addressing table of first indices (+1; 0 is empty), at most half full: no Map of boxed keys.
+  let cap = 16;
+  while (cap < 2 * nk) cap *= 2;
+  const table = new Int32Array(cap);
+  const mask = cap - 1;
+  for (let i = 0; i < nk; i++) {
     const key = kKeyNumber(kp[3 * i]!, kp[3 * i + 1]!, kp[3 * i + 2]!);
     keyOf[i] = key;
-    const f = first.get(key);
-    if (f === undefined) first.set(key, i);
-    firstOf[i] = f ?? i;
+    let slot = keyHash(key) & mask;
+    let f = -1;
+    for (;;) {
+      const at = table[slot]!;
+      if (at === 0) {
+        table[slot] = i + 1;
+        break;
+      }
+      const other = keyOf[at - 1]!;
+      // The same key (NaN keys are one key, as a Map has them).
+      if (other === key || (other !== other && key !== key)) {
+        f = at - 1;
+        break;
+      }
+      slot = (slot + 1) & mask;
+    }
+    firstOf[i] = f >= 0 ? f : i;
   }
   return { keyOf, firstOf };
+}
+
+/** A 32-bit hash of a key (a whole number below 2⁵³, or NaN). */
+function keyHash(key: number): number {
+  const lo = key % 4294967296;
+  const hi = (key - lo) / 4294967296;
+  return (Math.imul(lo | 0, 0x9e3779b1) ^ Math.imul(hi | 0, 0x85ebca6b)) >>> 0;
 }
 
 export function pathNetwork(bs: BandStructure, geometry: PathGeometry = pathGeometry(bs)): PathNetwork {

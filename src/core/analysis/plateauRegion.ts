@@ -15,7 +15,9 @@ export function climb(bs: BandStructure, spin: number, band: number, k: number, 
   const nb = bs.nBands;
   for (let steps = 0; steps < bs.nk; steps++) {
     let best = k;
-    for (const j of neighbours(k)) {
+    const around = neighbours(k);
+    for (let n = 0; n < around.length; n++) {
+      const j = around[n]!;
       const y = e[j * nb + band]!;
       if (up ? y > e[best * nb + band]! : y < e[best * nb + band]!) best = j;
     }
@@ -61,7 +63,9 @@ export function topRegion(
   for (let q = 0; q < queue.length; q++) {
     const i = queue[q]!;
     if (sign * (e[i * nb + band]! - x) >= -TIE_EV) plateau.push(i);
-    for (const j0 of neighbours(i)) {
+    const around = neighbours(i);
+    for (let n = 0; n < around.length; n++) {
+      const j0 = around[n]!;
       const j = firstOf[j0]!;
       if (seen.has(j)) continue;
       const d = sign * (e[j0 * nb + band]! - x);

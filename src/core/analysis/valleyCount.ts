@@ -47,12 +47,36 @@ export function symmetryContext(bs: BandStructure): SymmetryContext {
   return ctx;
 }
 
+/**
+ * Results per crystal symmetry and k-point (several extrema often share a k: the bands meeting at Γ, the valence
+ * and conduction extrema at L), and per lattice for the cartesian operations. Pure functions of their inputs.
+ */
+const valleyCounts = new WeakMap<CrystalSymmetry, Map<string, number>>();
+const littleGroups = new WeakMap<CrystalSymmetry, WeakMap<Mat3, Map<string, Mat3[]>>>();
+const coordText = (x: number): string => (Object.is(x, -0) ? '-0' : String(x));
+const kText = (k: Vec3): string => `${coordText(k[0])},${coordText(k[1])},${coordText(k[2])}`;
+
 export function valleysAt(ctx: SymmetryContext, k: Vec3): number | null {
-  return ctx.sym ? valleyDegeneracy(ctx.sym, k, K_TOL) : null;
+  const sym = ctx.sym;
+  if (!sym) return null;
+  let known = valleyCounts.get(sym);
+  if (!known) valleyCounts.set(sym, (known = new Map<string, number>()));
+  const key = kText(k);
+  let n = known.get(key);
+  if (n === undefined) known.set(key, (n = valleyDegeneracy(sym, k, K_TOL)));
+  return n;
 }
 
-/** The little group of k (with time reversal) as cartesian operations. */
+/** The little group of k (with time reversal) as cartesian operations (a new list each call; the operations are shared: do not change them). */
 export function cartesianLittleGroup(ctx: SymmetryContext, k: Vec3, lattice: Mat3): Mat3[] | null {
-  if (!ctx.sym) return null;
-  return littleGroup(ctx.sym.reciprocalPointGroup, k, K_TOL).map((r) => cartesianOperation(r, lattice));
+  const sym = ctx.sym;
+  if (!sym) return null;
+  let perLattice = littleGroups.get(sym);
+  if (!perLattice) littleGroups.set(sym, (perLattice = new WeakMap<Mat3, Map<string, Mat3[]>>()));
+  let known = perLattice.get(lattice);
+  if (!known) perLattice.set(lattice, (known = new Map<string, Mat3[]>()));
+  const key = kText(k);
+  let ops = known.get(key);
+  if (!ops) known.set(key, (ops = littleGroup(sym.reciprocalPointGroup, k, K_TOL).map((r) => cartesianOperation(r, lattice))));
+  return [...ops];
 }

@@ -22,8 +22,12 @@ export interface BravaisLattice {
 
 /** One atom at the origin: a cell whose symmetry is the lattice's own (its holohedry). */
 export function latticeOnlyStructure(lattice: Mat3): Structure {
-  return { lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) };
+  // One per lattice object, so its symmetry is computed once (analyzeStructure keeps datasets per structure).
+  let cell = latticeCells.get(lattice);
+  if (!cell) latticeCells.set(lattice, (cell = { lattice, species: ['X'], positions: new Float64Array([0, 0, 0]) }));
+  return cell;
 }
+const latticeCells = new WeakMap<Mat3, Structure>();
 
 /**
  * Bravais lattice from the structure when given (its symmetry may be lower than the lattice's), else from the

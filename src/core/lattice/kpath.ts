@@ -8,7 +8,7 @@
  * - a jump (consecutive points that are both labelled with different labels, e.g. K then U, or a step far
  *   longer than the path's typical step) starts a new, disconnected segment: distance does not advance.
  */
-import type { BandStructure, Vec3 } from '../model';
+import type { BandStructure } from '../model';
 import { reciprocalLattice, kpointsToCartesian } from './reciprocal';
 
 export interface PathSegment {
@@ -41,7 +41,44 @@ export interface PathGeometry {
 
 const DUP_TOL = 1e-7;
 
+/**
+ * One geometry per band structure (the analysis, the path-position text and the editor all ask for it), kept
+ * while the arrays it was computed from are the same ones. Callers must not change what it returns.
+ */
+interface CachedGeometry {
+  kpoints: Float64Array;
+  labels: BandStructure['labels'];
+  lattice: BandStructure['lattice'];
+  writtenDistance: BandStructure['writtenDistance'];
+  nk: number;
+  geometry: PathGeometry;
+}
+const geometries = new WeakMap<BandStructure, CachedGeometry>();
+
 export function pathGeometry(bs: BandStructure): PathGeometry {
+  const hit = geometries.get(bs);
+  if (
+    hit &&
+    hit.kpoints === bs.kpoints &&
+    hit.labels === bs.labels &&
+    hit.lattice === bs.lattice &&
+    hit.writtenDistance === bs.writtenDistance &&
+    hit.nk === bs.nk
+  )
+    return hit.geometry;
+  const geometry = computePathGeometry(bs);
+  geometries.set(bs, {
+    kpoints: bs.kpoints,
+    labels: bs.labels,
+    lattice: bs.lattice,
+    writtenDistance: bs.writtenDistance,
+    nk: bs.nk,
+    geometry,
+  });
+  return geometry;
+}
+
+function computePathGeometry(bs: BandStructure): PathGeometry {
   const nk = bs.nk;
   const cart = bs.lattice ? kpointsToCartesian(bs.kpoints, reciprocalLattice(bs.lattice)) : null;
   const pts = cart ?? bs.kpoints;
@@ -55,7 +92,11 @@ export function pathGeometry(bs: BandStructure): PathGeometry {
   const distance = new Float64Array(nk);
   let segStart = 0;
   let afterJump = false;
-  let dir: Vec3 | null = null;
+  // Direction of the previous step (a unit vector; hasDir false when there is none): three numbers, not an array per point.
+  let hasDir = false;
+  let dx = 0;
+  let dy = 0;
+  let dz = 0;
   const close = (end: number, nextAfterJump: boolean): void => {
     segments.push({ start: segStart, end, startLabel: labelOf.get(segStart) ?? null, endLabel: labelOf.get(end) ?? null, afterJump });
     afterJump = nextAfterJump;
@@ -67,7 +108,7 @@ export function pathGeometry(bs: BandStructure): PathGeometry {
       distance[i] = distance[i - 1]!;
       if (i - 1 > segStart) close(i - 1, false);
       segStart = i;
-      dir = null;
+      hasDir = false;
       continue;
     }
     const la = labelOf.get(i - 1);
@@ -85,16 +126,21 @@ export function pathGeometry(bs: BandStructure): PathGeometry {
       distance[i] = distance[i - 1]!;
       close(i - 1, true);
       segStart = i;
-      dir = null;
+      hasDir = false;
       continue;
     }
-    const d: Vec3 = [(pts[3 * i]! - pts[3 * i - 3]!) / s, (pts[3 * i + 1]! - pts[3 * i - 2]!) / s, (pts[3 * i + 2]! - pts[3 * i - 1]!) / s];
-    if (dir && d[0] * dir[0] + d[1] * dir[1] + d[2] * dir[2] < 1 - 1e-6) {
+    const ux = (pts[3 * i]! - pts[3 * i - 3]!) / s;
+    const uy = (pts[3 * i + 1]! - pts[3 * i - 2]!) / s;
+    const uz = (pts[3 * i + 2]! - pts[3 * i - 1]!) / s;
+    if (hasDir && ux * dx + uy * dy + uz * dz < 1 - 1e-6) {
       // A turn at point i-1: it ends one segment and starts the next.
       close(i - 1, false);
       segStart = i - 1;
     }
-    dir = d;
+    hasDir = true;
+    dx = ux;
+    dy = uy;
+    dz = uz;
     distance[i] = distance[i - 1]! + s;
   }
   if (nk > 0) close(nk - 1, false);

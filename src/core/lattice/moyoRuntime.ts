@@ -112,10 +112,23 @@ export function moyoReady(): boolean {
   return ready;
 }
 
-/** The library's dataset for a cell (operations are given in the basis of the cell passed in). */
+/**
+ * The library's dataset for a cell (operations are given in the basis of the cell passed in). The library is
+ * deterministic: the same input text gives the same dataset, kept for the next caller (the Bravais lattice of
+ * label inference and the crystal symmetry of the analysis ask for the same cell; each call also brings the
+ * runtime closer to recompiling the module). Bounded; the oldest goes first. Callers must not change it.
+ */
 export function moyoAnalyze(cellJson: string, symprec: number): MoyoDataset {
-  return analyze_cell(cellJson, symprec, 'Standard');
+  const key = `${symprec} ${cellJson}`;
+  const known = datasets.get(key);
+  if (known) return known;
+  const d = analyze_cell(cellJson, symprec, 'Standard');
+  if (datasets.size >= DATASETS_KEPT) datasets.delete(datasets.keys().next().value!);
+  datasets.set(key, d);
+  return d;
 }
+const datasets = new Map<string, MoyoDataset>();
+const DATASETS_KEPT = 16;
 
 export function moyoSpaceGroupType(num: number): MoyoSpaceGroupType {
   return space_group_type(num);

@@ -21,6 +21,7 @@ import { mat3Inverse, mulMatVec } from './linalg';
 import { relateCells } from './cellRelation';
 import { bravaisLattice, latticeOnlyStructure, type BravaisLattice } from './bravais';
 import { crystalSymmetry, DEFAULT_SYMPREC, sameModuloG } from './symmetry';
+import { labelsOfKpoints } from './kpointLabelScan';
 
 export type LabelledLatticeKind = 'CUB' | 'FCC' | 'BCC' | 'HEX' | 'TET' | 'BCT1' | 'BCT2' | 'ORC';
 
@@ -282,13 +283,7 @@ export function recogniseSpecialPoints(bs: BandStructure, symprec: number = DEFA
         : `special-point labels are recognised for cubic, hexagonal, tetragonal and simple orthorhombic lattices, not for ${b.bravaisClass}`,
     };
   }
-  const invM = mat3Inverse(map.M);
-  const labels: KLabel[] = [];
-  for (let i = 0; i < bs.nk; i++) {
-    const k: Vec3 = [bs.kpoints[3 * i]!, bs.kpoints[3 * i + 1]!, bs.kpoints[3 * i + 2]!];
-    const label = labelOfK(map, k, invM);
-    if (label) labels.push({ index: i, label });
-  }
+  const labels = labelsOfKpoints(map, bs.kpoints, bs.nk, LABEL_TOLERANCE);
   return {
     labels,
     kind: map.kind,

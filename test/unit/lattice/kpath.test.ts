@@ -102,4 +102,27 @@ describe('k-path geometry, corner cases', () => {
     assert.ok(Math.abs(g.distance[kpts.length - 1]! - total) < 1e-9, `${g.distance[kpts.length - 1]} vs ${total}`);
     assert.ok(g.segments.every((s) => !s.afterJump));
   });
+
+  it('computes a geometry once per band structure, and again for one whose labels or lattice are new', () => {
+    const n = 11;
+    const kpts = [...line(G, X, n), ...line(X, W, n)];
+    const bs = makeBands({ kpoints: kpts, energies: [kpts.map(() => [0])], lattice: fccLattice(a), labels: labelsAt([0, 10], ['Γ', 'X']) });
+    const g = pathGeometry(bs);
+    assert.equal(pathGeometry(bs), g, 'the same band structure: the geometry already computed');
+    // New labels on the same object (a run given its path file later): ticks at Γ, X and W.
+    bs.labels = labelsAt([0, 10, 21], ['Γ', 'X', 'W']);
+    assert.deepEqual(
+      pathGeometry(bs).ticks.map((t) => t.label),
+      ['Γ', 'X', 'W'],
+    );
+    assert.deepEqual(
+      g.ticks.map((t) => t.label),
+      ['Γ', 'X'],
+    );
+    // A lattice twice as large: every reciprocal distance halves (reciprocal vectors scale as 1/a).
+    const doubled = fccLattice(2 * a);
+    bs.lattice = doubled;
+    const g2 = pathGeometry(bs);
+    assert.ok(Math.abs(g2.distance[10]! - g.distance[10]! / 2) < 1e-12, `${g2.distance[10]} vs ${g.distance[10]! / 2}`);
+  });
 });

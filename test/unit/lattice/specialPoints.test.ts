@@ -90,6 +90,46 @@ describe('high-symmetry label recognition (Setyawan & Curtarolo 2010)', () => {
     assert.equal(r.bravaisClass, 'cF');
   });
 
+  it('labels points written in another zone (k + G) like the points themselves', () => {
+    // k and k + G are the same state for any reciprocal lattice vector G (Bloch's theorem: common practice).
+    const lattice = fccPrimitive(A);
+    const [b1, b2, b3] = reciprocalLattice(lattice);
+    const { kc, ends } = linePath(legsOf(FCC_PATH, fccPts), 9);
+    for (const g of [
+      [b1[0] - b2[0], b1[1] - b2[1], b1[2] - b2[2]],
+      [2 * b3[0], 2 * b3[1], 2 * b3[2]],
+    ] as Vec3[]) {
+      const shifted = kc.map((k): Vec3 => [k[0] + g[0], k[1] + g[1], k[2] + g[2]]);
+      // In fcc, U and K are one point of the zone (U = K + G, the path's "K|U" jump): either name is right.
+      const kIsU = (m: Map<number, string>): [number, string][] => sorted(m).map(([i, l]) => [i, l === 'U' ? 'K' : l]);
+      assert.deepEqual(kIsU(labelsOf(bandsOn(lattice, shifted, null))), kIsU(ends));
+    }
+  });
+
+  it('labels a point within the tolerance of a special point in any zone, and not one beyond it', () => {
+    const lattice = fccPrimitive(A);
+    const names = ['Γ', 'X', 'L', 'W', 'K'];
+    const kc: Vec3[] = [];
+    const want = new Map<number, string>();
+    // Fractional offsets: 3e-5 inside LABEL_TOLERANCE (1e-4), 4e-4 outside; G from −2 to 2 in each coordinate.
+    for (let i = 0; i < 400; i++) {
+      const name = names[i % names.length]!;
+      const base = cartesianToFractional(fccPts[name]!, lattice);
+      const inside = i % 2 === 0;
+      const off = inside ? 3e-5 : 4e-4;
+      const f: Vec3 = [
+        base[0] + ((i * 7) % 5) - 2 + (i % 4 < 2 ? off : -off),
+        base[1] + ((i * 3) % 5) - 2 - off,
+        base[2] + ((i * 11) % 5) - 2,
+      ];
+      kc.push(fractionalToCartesian(f, reciprocalLattice(lattice)));
+      if (inside) want.set(i, name);
+    }
+    const got = labelsOf(bandsOn(lattice, kc, null));
+    const kIsU = (m: Map<number, string>): [number, string][] => sorted(m).map(([i, l]) => [i, l === 'U' ? 'K' : l]);
+    assert.deepEqual(kIsU(got), kIsU(want));
+  });
+
   it('gives the same labels for any primitive cell of the crystal, rotated (property)', () => {
     const si = diamondLike(A, 'Si', 'Si');
     fc.assert(
