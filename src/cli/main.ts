@@ -14,7 +14,7 @@ import { TOOL_VERSION } from '../core/version';
 import { ensureSymmetryReady } from '../core/lattice/symmetry';
 import { installNativeSha256 } from './nativeHash';
 import { fsErrorCode, fsErrorSentence } from './fsErrors';
-import { raiseWasmTieringBudget } from './wasmTiering';
+import { raiseEngineBudgets } from './engineBudgets';
 
 export interface Command {
   help: string;
@@ -88,7 +88,7 @@ const VERSION = TOOL_VERSION;
 const isEntry = typeof require !== 'undefined' && typeof module !== 'undefined' && require.main === module;
 if (isEntry) {
   // Before the symmetry module is compiled (the setting applies to modules compiled afterwards; workers share it).
-  raiseWasmTieringBudget();
+  raiseEngineBudgets();
   // A reader that stops early (`| head`) is not an error of ours.
   process.stdout.on('error', (e: NodeJS.ErrnoException) => {
     if (e.code !== 'EPIPE') process.stderr.write(`valleyscope: cannot write the output: ${e.message}\n`);

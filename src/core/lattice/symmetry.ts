@@ -152,27 +152,13 @@ export function analyzeStructure(structure: Structure, symprec: number = DEFAULT
 const cache = new WeakMap<Structure, Map<number, CrystalSymmetry>>();
 
 /**
- * Results by the library's exact input (tolerance and cell text), for the many runs of one crystal in a batch
- * (convergence series, functionals, spin-orbit on and off): the library is deterministic, so equal input
- * gives the same operations. Bounded; the oldest entry goes first.
+ * Space group and operations of a structure. Synchronous once ensureSymmetryReady() has resolved. A batch of runs
+ * of one crystal asks the library once: moyoAnalyze keeps its answers by exact input (moyoRuntime.ts).
  */
-const byCellText = new Map<string, CrystalSymmetry>();
-const CELL_TEXT_ENTRIES = 64;
-
-/** Space group and operations of a structure. Synchronous once ensureSymmetryReady() has resolved. */
 export function crystalSymmetry(structure: Structure, symprec: number = DEFAULT_SYMPREC): CrystalSymmetry {
   const hit = cache.get(structure)?.get(symprec);
   if (hit) return hit;
-  const cellJson = moyoCellJson(structure, symprec);
-  const key = `${symprec} ${cellJson}`;
-  const same = byCellText.get(key);
-  const sym = same
-    ? { ...same, lattice: structure.lattice }
-    : symmetryFromDataset(structure, moyoDataset(structure, cellJson, symprec), symprec);
-  if (!same) {
-    if (byCellText.size >= CELL_TEXT_ENTRIES) byCellText.delete(byCellText.keys().next().value!);
-    byCellText.set(key, sym);
-  }
+  const sym = symmetryFromDataset(structure, analyzeStructure(structure, symprec), symprec);
   let perStructure = cache.get(structure);
   if (!perStructure) cache.set(structure, (perStructure = new Map<number, CrystalSymmetry>()));
   perStructure.set(symprec, sym);
