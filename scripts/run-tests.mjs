@@ -6,7 +6,8 @@
 // failed, never as silently skipped.
 // Usage: node scripts/run-tests.mjs [unit|webview|all] [extra mocha args...]
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { ensureBrowser, realMachine } from './browserCheck.mjs';
 
@@ -14,6 +15,10 @@ const which = process.argv[2] && !process.argv[2].startsWith('-') ? process.argv
 const extra = process.argv.slice(which === process.argv[2] ? 3 : 2);
 const suites = which === 'all' ? ['unit', 'webview'] : [which];
 mkdirSync('test-artifacts', { recursive: true });
+// The suites write their scratch runs under one folder of their own, removed at the end, so a run of the
+// tests leaves nothing behind in the machine's temporary folder (tests take tmpdir(), which reads TMPDIR).
+const scratch = mkdtempSync(join(tmpdir(), 'valleyscope-tests-'));
+process.on('exit', () => rmSync(scratch, { recursive: true, force: true }));
 let passed = 0;
 let failed = 0;
 let pending = 0;
@@ -47,7 +52,7 @@ for (const suite of suites) {
       `statsFile=${statsFile}`,
       ...extra,
     ],
-    { stdio: 'inherit' },
+    { stdio: 'inherit', env: { ...process.env, TMPDIR: scratch } },
   );
   if (r.status !== 0) code = 1;
   if (existsSync(statsFile)) {

@@ -5,7 +5,8 @@
  * its gap is exactly the E_g each run is written with, direct at Γ.
  */
 import assert from 'node:assert/strict';
-import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { dirname } from 'node:path';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { main } from '../../../../src/cli/main';
@@ -51,6 +52,10 @@ function makeScreen(): string {
 describe('batch commands: JSON Lines, jobs and shards', function () {
   this.timeout(120000);
   const root = makeScreen();
+  const made = [dirname(root)];
+  after(() => {
+    for (const d of made) rmSync(d, { recursive: true, force: true });
+  });
   const expectedPaths = [...Object.keys(GAPS), 'c-broken']
     .map((n) => `${root}/${n}`)
     .sort((a, b) => {
@@ -139,6 +144,7 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
 
   it('a hostile record is refused with a sentence naming file, line and field', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'vs-jsonl-bad-'));
+    made.push(dir);
     const good = lines(oneMachine).filter((x) => !('error' in x));
     const gap = good[1]!.gap as { vbm: object };
     const bad = { ...good[1]!, gap: { ...gap, vbm: { ...gap.vbm, band: -3 } } };
@@ -156,6 +162,7 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
 
   it('shards: every run in exactly one shard; compare of the merged shards equals one machine', async () => {
     const dir = mkdtempSync(join(tmpdir(), 'vs-shards-'));
+    made.push(dir);
     const files: string[] = [];
     const seen: string[] = [];
     for (let i = 1; i <= 3; i++) {
@@ -202,6 +209,7 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
     // Change one run's data: its annotations become stale (new bytes) and drifted (gap 1.5 → 1.7 eV).
     writeTinyRun(`${root}/b-gap1.5`, { gap_eV: 1.7 });
     const dir = mkdtempSync(join(tmpdir(), 'vs-check-shards-'));
+    made.push(dir);
     const files: string[] = [];
     for (let i = 1; i <= 2; i++) {
       const s = capture();
@@ -244,6 +252,7 @@ describe('batch commands: JSON Lines, jobs and shards', function () {
   });
   it('analyze and annotate over folders holding no run (workers prestarted): a sentence and exit 1', async () => {
     const empty = mkdtempSync(join(tmpdir(), 'vs-batch-empty-'));
+    made.push(empty);
     mkdirSync(join(empty, 'nothing-here'));
     for (const argv of [
       ['analyze', empty, '--jsonl', '--jobs', '2'],
