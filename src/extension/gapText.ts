@@ -4,7 +4,9 @@ import type { BandPoint, Report } from '../core/model';
 /** Spin named up/down in a spin-polarised run, not mentioned otherwise. */
 function where(p: BandPoint, spinPolarised = false): string {
   const spin = spinPolarised ? `, spin ${p.spin === 1 ? 'down' : 'up'}` : '';
-  return `${p.label ?? 'k ' + p.k.map((x) => x.toFixed(3)).join(' ')} (band ${p.band}${spin})`;
+  // A mesh run's edge off the mesh has its place on a labelled line from Γ ("0.78 Γ→X"), easier to read than k.
+  const at = p.label ?? p.position ?? `k ${p.k.map((x) => x.toFixed(3)).join(' ')}`;
+  return `${at} (band ${p.band}${spin})`;
 }
 
 /** Status bar text: "Gap 1.12 eV indirect", "Metal", "Gap unknown", with " (partial)" for a running job. */

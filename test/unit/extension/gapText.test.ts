@@ -19,6 +19,14 @@ describe('extension: gap texts for the status bar and code lens', () => {
     for (const c of report.cautions) assert.ok(tip.includes(c));
   });
 
+  it("names a mesh run's edge off the mesh by its place on a line from Γ, as the analysis gives it", async () => {
+    const { report } = await loadSi();
+    const g = report.gap!;
+    const mesh: Report = { ...report, gap: { ...g, cbm: { ...g.cbm, position: '0.85 Γ→X' } } };
+    assert.match(gapLensText(mesh, false), /→ CBM 0\.85 Γ→X \(band 5\)$/);
+    assert.match(gapTooltip(mesh, false), /CBM .* eV at 0\.85 Γ→X \(band 5\)/);
+  });
+
   it('names the spin channel of each edge only in a spin-polarised run', async () => {
     const { report } = await loadSi();
     assert.doesNotMatch(gapLensText(report, false), /spin/);
