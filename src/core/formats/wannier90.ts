@@ -43,6 +43,8 @@ export function readBandDat(file: InputFile, options: ReadOptions = {}): BandDat
   let lines = 0;
   /** The file ends on a line without its newline (or inside a line): its last value may be cut. */
   let cutLastLine = false;
+  /** Where the energy of the previous data line ends, counted from its line's start (the layout is fixed-width). */
+  let previousWidth = -1;
   while (!sc.atEnd()) {
     if ((++lines & 0xffff) === 0) {
       if (options.isCancelled?.()) throw new CancelledError();
@@ -69,8 +71,12 @@ export function readBandDat(file: InputFile, options: ReadOptions = {}): BandDat
     try {
       d = sc.number(`the path distance (band ${band + 1}, point ${inBlock + 1})`);
       en = sc.number(`the energy (band ${band + 1}, point ${inBlock + 1})`);
+      const width = sc.pos - sc.lineStart;
       if (!sc.atEol()) sc.endLine(`the energy of band ${band + 1}, point ${inBlock + 1}`);
-      else if (!sc.nextLine()) cutLastLine = true;
+      // Without its newline, a last line as wide as the one before (Wannier90 writes every line in one fixed
+      // format) ends on a whole number: the file is complete. A narrower one may have been cut inside a number.
+      else if (!sc.nextLine()) cutLastLine = width !== previousWidth;
+      previousWidth = width;
     } catch (err) {
       // Cut inside this line (a running job, a copy cut short): the bands before it are kept, this one dropped.
       if (!(options.allowPartial && band > 0 && err instanceof ReaderError && endsOnThisLine(sc))) throw err;

@@ -65,6 +65,23 @@ describe('files cut at any byte, read with allowPartial', () => {
     assert.ok(kept > 3, `${kept} cuts gave partial data`);
   });
 
+  it('Wannier90 _band.dat without its final newline: whole when the last line is as wide as the others, partial when it is cut inside a number', () => {
+    // Wannier90 writes every line of the band file in one fixed format (common practice), so a last line as
+    // wide as the one before ends on a whole number; the fixture is the reference.
+    const path = 'fixtures/wannier90/si_band.dat';
+    const text = readFileSync(join(root, path), 'utf8');
+    const whole = readBandDat({ path, bytes: Buffer.from(text) });
+    const trimmed = text.replace(/\s+$/, '');
+    const complete = readBandDat({ path, bytes: Buffer.from(trimmed) }, { allowPartial: true });
+    assert.equal(complete.partial, false);
+    assert.equal(complete.nBands, whole.nBands);
+    assert.deepEqual(complete.energies, whole.energies);
+    // Cut inside the last energy's digits: that band is dropped, the rest kept and marked partial.
+    const cut = readBandDat({ path, bytes: Buffer.from(trimmed.slice(0, -4)) }, { allowPartial: true });
+    assert.equal(cut.partial, true);
+    assert.equal(cut.nBands, whole.nBands - 1);
+  });
+
   for (const [name, path, read] of layouts) {
     it(`${name}: the k-points kept are the whole file's own, the rest left out and the data marked partial`, () => {
       const bytes = readFileSync(join(root, path));
