@@ -69,8 +69,26 @@ function rotatedUnitEntry(r: Mat3, i: number, j: number, a: number, b: number): 
   return i === j ? ra[i]! * rb[i]! : ra[j]! * rb[i]! + ra[i]! * rb[j]!;
 }
 
+/**
+ * Bases already found, by the operation objects themselves (valleyCount.ts keeps one list of operations per k:
+ * extrema of several bands at one k ask with the same objects). Operations are never changed after they are made.
+ */
+const basesByFirstOp = new WeakMap<Mat3, { ops: Mat3[]; basis: Mat3[] }[]>();
+
 /** An orthonormal basis (as symmetric matrices) of the tensors invariant under the cartesian operations. */
 export function invariantTensorBasis(cartesianOps: Mat3[]): Mat3[] {
+  const first = cartesianOps[0];
+  if (!first) return computeInvariantBasis(cartesianOps);
+  let known = basesByFirstOp.get(first);
+  if (!known) basesByFirstOp.set(first, (known = []));
+  const hit = known.find((x) => x.ops.length === cartesianOps.length && x.ops.every((o, i) => o === cartesianOps[i]));
+  if (hit) return hit.basis.map((m) => m.map((r) => [...r]) as Mat3);
+  const basis = computeInvariantBasis(cartesianOps);
+  known.push({ ops: [...cartesianOps], basis: basis.map((m) => m.map((r) => [...r]) as Mat3) });
+  return basis;
+}
+
+function computeInvariantBasis(cartesianOps: Mat3[]): Mat3[] {
   const images: number[][] = SYM_PAIRS.map(([i, j]) => {
     const acc = [0, 0, 0, 0, 0, 0];
     for (const r of cartesianOps) {
