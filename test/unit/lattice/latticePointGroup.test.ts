@@ -28,19 +28,14 @@ describe('lattice point group from the metric', () => {
     await ensureSymmetryReady();
   });
 
-  const cases: [string, [number, number, number]][] = [
-    ['cP', [4.1, 4.1, 4.1]],
-    ['cF', [5.43, 5.43, 5.43]],
-    ['cI', [3.3, 3.3, 3.3]],
-    ['hP', [3.19, 3.19, 5.19]],
-    ['hP', [2.46, 2.46, 1.5]],
-    ['tP', [4.6, 4.6, 2.96]],
-    ['tP', [3.0, 3.0, 7.0]],
-    ['tI', [4.0, 4.0, 3.0]], // c < a (the first body-centred tetragonal kind)
-    ['tI', [3.0, 3.0, 9.0]], // c > a (the second)
-    ['oP', [3.0, 4.0, 5.0]],
-    ['oP', [2.5, 6.0, 9.5]],
-  ];
+  // Class and conventional lengths (Å); body-centred tetragonal with c < a and with c > a (its two kinds).
+  const cases =
+    'cP 4.1 4.1 4.1|cF 5.43 5.43 5.43|cI 3.3 3.3 3.3|hP 3.19 3.19 5.19|hP 2.46 2.46 1.5|tP 4.6 4.6 2.96|tP 3 3 7|tI 4 4 3|tI 3 3 9|oP 3 4 5|oP 2.5 6 9.5'
+      .split('|')
+      .map((c) => {
+        const [cls, ...l] = c.split(' ');
+        return [cls!, l.map(Number) as [number, number, number]] as const;
+      });
   for (const [cls, lengths] of cases) {
     it(`${cls} ${lengths.join(' × ')} Å: the library's operations, ${ORDER[cls]} of them`, () => {
       const std = standardCell(bravais(cls, lengths));
