@@ -34,7 +34,7 @@ export interface OccupationScan {
 export function scanOccupations(
   occ: OccupationArray,
   energies: Float64Array,
-  full: number,
+  full: 1 | 2,
   nk: number,
   nb: number,
   tailLimit: number,
@@ -51,19 +51,21 @@ export function scanOccupations(
   for (let k = 0; k < nk; k++) {
     const row = k * nb;
     for (let b = 0; b < nb; b++) {
-      const x = occ[row + b]! / full;
+      const o = occ[row + b]!;
       const en = energies[row + b]!;
-      // Whole states (most of them): no deviation from 0 or 1 to weigh.
-      if (x === 1) {
+      // Whole states (most of them): no deviation from 0 or 1 to weigh. (o === full is o / full === 1, and
+      // o === 0 is o / full === 0: full is 1 or 2, whose division is exact.)
+      if (o === full) {
         filledSomewhere[b] = 1;
         maxFilled = Math.max(maxFilled, en);
         continue;
       }
-      if (x === 0) {
+      if (o === 0) {
         emptySomewhere[b] = 1;
         minEmpty = Math.min(minEmpty, en);
         continue;
       }
+      const x = o / full;
       if (x > 0.5) {
         filledSomewhere[b] = 1;
         maxFilled = Math.max(maxFilled, en);
