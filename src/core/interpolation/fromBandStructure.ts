@@ -69,6 +69,14 @@ export function meshRunInput(
   };
 }
 
+/**
+ * The reason interpolateRun gives, before any band is read, for a run with too many points for the
+ * interpolation; null when it has another reason first or none of this kind.
+ */
+export function tooManyPointsRefusal(bs: BandStructure, req: MeshRunRequest = {}): string | null {
+  return inputRefusal(bs, req) === null ? tooManyPointsReason(bs.nk) : null;
+}
+
 /** The interpolation of a read run (band b of the result is band firstBand + b of the run). */
 export function interpolateRun(
   bs: BandStructure,
@@ -76,7 +84,7 @@ export function interpolateRun(
 ): { run: MeshInterpolation; reason: null } | { run: null; reason: string } {
   // Too many points for the interpolation: said before the bands are copied and the special points found (the
   // same reason, in the same order, as MeshInterpolation.create would give after them).
-  const tooMany = inputRefusal(bs, req) === null ? tooManyPointsReason(bs.nk) : null;
+  const tooMany = tooManyPointsRefusal(bs, req);
   if (tooMany) return { run: null, reason: tooMany };
   const made = meshRunInput(bs, req);
   if (!made.input) return { run: null, reason: made.reason };

@@ -1,7 +1,7 @@
 import assert from 'node:assert/strict';
 import type { Vec3 } from '../../../src/core/model';
 import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
-import { interpolateRun, meshRunInput } from '../../../src/core/interpolation/fromBandStructure';
+import { interpolateRun, meshRunInput, tooManyPointsRefusal } from '../../../src/core/interpolation/fromBandStructure';
 import { MAX_INTERPOLATION_POINTS, MeshInterpolation, tooManyPointsReason } from '../../../src/core/interpolation/meshInterpolation';
 import { diamondStructure, parabolicBand, pointsModel } from '../../support/models';
 
@@ -51,5 +51,12 @@ describe('mesh run refusal before the bands are copied', () => {
 
   it('at the limit, no refusal for the number of points', () => {
     assert.equal(tooManyPointsReason(MAX_INTERPOLATION_POINTS), null);
+  });
+
+  it('the refusal asked before any band is chosen is the one interpolateRun gives', () => {
+    const many = run(MAX_INTERPOLATION_POINTS + 1, 'points');
+    assert.equal(tooManyPointsRefusal(many, { spin: 0 }), interpolateRun(many, { spin: 0, firstBand: 0, lastBand: 1 }).reason);
+    assert.equal(tooManyPointsRefusal(run(MAX_INTERPOLATION_POINTS + 1, 'path')), null);
+    assert.equal(tooManyPointsRefusal(run(20, 'points')), null);
   });
 });
