@@ -8,14 +8,17 @@ import { markFilled } from '../../../src/core/analysis/bandFilling';
 // (as the occupation rule marks it), highest filled = the largest energy, the higher band among equal ones;
 // lowest empty = the smallest energy, the lower band among equal ones; band -1 where there is none.
 
+const occupationValues = fc.array(fc.constantFrom(0, 0.02, 0.4, 0.5, 0.6, 0.98, 1, 2), { minLength: 30, maxLength: 30 });
+const energyValues = fc.array(fc.constantFrom(-1, -0.5, 0, 0.5, 1, Number.NaN), { minLength: 30, maxLength: 30 });
+
 describe('occupation scan: per-k edges', () => {
   it('the edges of the states the occupation rule marks filled', () => {
     fc.assert(
       fc.property(
         fc.integer({ min: 1, max: 5 }),
         fc.integer({ min: 1, max: 6 }),
-        fc.array(fc.constantFrom(0, 0.02, 0.4, 0.5, 0.6, 0.98, 1, 2), { minLength: 30, maxLength: 30 }),
-        fc.array(fc.constantFrom(-1, -0.5, 0, 0.5, 1, Number.NaN), { minLength: 30, maxLength: 30 }),
+        occupationValues,
+        energyValues,
         (nb, nk, occPool, ePool) => {
           const occ = Float32Array.from({ length: nk * nb }, (_, i) => occPool[(i * 7) % occPool.length]!);
           const e = Float64Array.from({ length: nk * nb }, (_, i) => ePool[(i * 11) % ePool.length]!);
