@@ -90,6 +90,43 @@ export function fullOccupation(occupations: readonly OccupationArray[]): 1 | 2 {
 /** The largest value of each occupation array seen (the occupation rule and the classification both ask). Arrays read are not changed. */
 const largestValues = new WeakMap<OccupationArray, number>();
 
+/**
+ * fullOccupation of all `occupations`, and out[s][i] = 1 where occupations[s][i] is above half of it (a filled
+ * state) for each channel s of `out`; `any`: some state of those channels is. One pass over the occupations that
+ * also finds their largest value, with the full value the first k-point's values point to (the largest of all
+ * is at least theirs); when the largest of all says otherwise, the states are marked again. `out` starts zeroed.
+ */
+export function markFilled(occupations: readonly OccupationArray[], nb: number, out: Uint8Array[]): { full: 1 | 2; any: boolean } {
+  let firstMax = 0;
+  for (const o of occupations) for (let i = 0; i < Math.min(nb, o.length); i++) if (o[i]! > firstMax) firstMax = o[i]!;
+  const guess: 1 | 2 = firstMax > 1.5 ? 2 : 1;
+  occupations.forEach((o, s) => {
+    const m = s < out.length ? markAboveFindingLargest(o, 0.5 * guess, out[s]!) : undefined;
+    if (!largestValues.has(o)) largestValues.set(o, m ?? largestOccupation(o));
+  });
+  const full = fullOccupation(occupations);
+  if (full !== guess) {
+    out.forEach((marks, s) => {
+      marks.fill(0);
+      markAboveFindingLargest(occupations[s]!, 0.5 * full, marks);
+    });
+  }
+  // Some state is above the threshold exactly when the largest value of its channel is (the largest starts at 0).
+  const any = out.some((_, s) => largestValues.get(occupations[s]!)! > 0.5 * full);
+  return { full, any };
+}
+
+/** Set out[i] = 1 where values[i] > threshold; returns the largest value (0 when none is positive). A small function: compiled for its loop alone. */
+function markAboveFindingLargest(values: OccupationArray, threshold: number, out: Uint8Array): number {
+  let maxOcc = 0;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i]!;
+    if (v > maxOcc) maxOcc = v;
+    if (v > threshold) out[i] = 1;
+  }
+  return maxOcc;
+}
+
 /** Occupation fractions (0..1 of a full state) per channel, as the file writes them. */
 export function occupationFractions(bs: BandStructure): Float64Array[] {
   const full = fullOccupation(bs.occupations!);

@@ -4,7 +4,7 @@
  */
 import type { BandStructure } from '../model';
 import type { EdgeState } from './gap';
-import { compareNeighbour, standingOf } from './pathLocalExtrema';
+import { standingOf, TIE_EV } from './pathLocalExtrema';
 
 /**
  * The bands that can hold a candidate: those with an occupied state above `valenceFloor` or an empty one
@@ -107,17 +107,28 @@ export function scanCandidates(
     const q0 = start[i]!;
     const q1 = start[i + 1]!;
     if (q1 === q0) continue;
+    // Whether a point whose neighbours lie both above and below is listed here (as a saddle to test).
+    const testable = q1 - q0 >= 2 && saddleTest !== null && saddleTest[i] === 1;
     for (let t = 0; t < bands.length; t++) {
       const b = bands[t]!;
       const x = e[i * nb + b]!;
       const valence = occupied[i * nb + b] === 1;
       if (valence ? x < valenceFloor : x > conductionCeiling) continue;
+      // compareNeighbour's test with its two bounds computed once; the count stops once the outcome is known
+      // (a valence point with a higher neighbour is no candidate unless it is testable, and so on).
+      const above = x + TIE_EV;
+      const below = x - TIE_EV;
       let up = 0;
       let down = 0;
       for (let q = q0; q < q1; q++) {
-        const c = compareNeighbour(x, e[list[q]! * nb + b]!);
-        if (c > 0) up++;
-        else if (c < 0) down++;
+        const y = e[list[q]! * nb + b]!;
+        if (y > above) {
+          up++;
+          if (valence ? !testable || down > 0 : down > 0) break;
+        } else if (y < below) {
+          down++;
+          if (valence ? up > 0 : !testable || up > 0) break;
+        }
       }
       // A level point is a candidate too: its plateau is walked next (pathLocalExtrema.ts's rule).
       const standing = standingOf(up, down);

@@ -23,6 +23,7 @@ import {
   wholeBandsPerChannel,
 } from './bandFilling';
 import { scanOccupations } from './occupationScan';
+import { keepKPointEdges } from './gap';
 import { semimetalVerdict } from './semimetal';
 
 /** Which evidence decided. */
@@ -112,6 +113,7 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
     let minEmpty = Infinity;
     for (const s of spins) {
       const scan = scanOccupations(bs.occupations[s]!, bs.energies[s]!, full, bs.nk, bs.nBands, TAIL_LIMIT);
+      keepKPointEdges(bs, occ, s, scan.kEdges);
       largestTail = Math.max(largestTail, scan.largestTail);
       maxFilled = Math.max(maxFilled, scan.maxFilled);
       minEmpty = Math.min(minEmpty, scan.minEmpty);

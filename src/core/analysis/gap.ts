@@ -31,13 +31,21 @@ export interface EdgeAnalysis {
  * empty one (the lowest band among equal values); band −1 where there is none. One pass over the channel,
  * shared by the edges and the direct gaps (kept per occupation array while the energies are the same).
  */
-interface KPointEdges {
+export interface KPointEdges {
   hi: Float64Array;
   hb: Int32Array;
   lo: Float64Array;
   lb: Int32Array;
 }
 const kPointEdgesKept = new WeakMap<Uint8Array, { energies: Float64Array; nb: number; nk: number; edges: KPointEdges }>();
+
+/**
+ * Keep edges found elsewhere with the same comparisons (occupationScan.ts, in its pass over the occupations:
+ * a state is filled there exactly when `occ.occupied` marks it, as the occupation rule marks from the same values).
+ */
+export function keepKPointEdges(bs: BandStructure, occ: OccupationRule, spin: number, edges: KPointEdges): void {
+  kPointEdgesKept.set(occ.occupied[spin]!, { energies: bs.energies[spin]!, nb: bs.nBands, nk: bs.nk, edges });
+}
 
 function kPointEdges(bs: BandStructure, occ: OccupationRule, spin: number): KPointEdges {
   const e = bs.energies[spin]!;

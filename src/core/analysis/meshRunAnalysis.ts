@@ -8,7 +8,7 @@
 import type { AnalysisSettings } from './analyze';
 import type { EdgeInputs } from './massEngine';
 import type { BandStructure, ExtremumReport, GapReport, RejectedCandidate, Report, Vec3 } from '../model';
-import { interpolateRun } from '../interpolation/fromBandStructure';
+import { interpolateRun, tooManyPointsRefusal } from '../interpolation/fromBandStructure';
 import type { InterpolatedExtremum, MeshInterpolation } from '../interpolation/meshInterpolation';
 import { equivalentK } from '../lattice/symmetry';
 import { cartesianToFractional } from '../lattice/reciprocal';
@@ -104,6 +104,9 @@ function searchedBands(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, r
 }
 
 function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s: AnalysisSettings): ChannelResult | string {
+  // Too many points: the reason interpolateRun would give below, before the bands are searched.
+  const tooMany = tooManyPointsRefusal(bs, { spin });
+  if (tooMany) return tooMany;
   const [first, last] = searchedBands(bs, spin, vb, cb, s.range_eV);
   // One more band each side is fitted, not searched: a crossing with it is then seen.
   const lo = Math.max(0, first - 1);

@@ -3,8 +3,8 @@
  * fills the lowest states at every k (2 electrons per band without spin-orbit or spin polarisation, 1 with
  * either); otherwise the Fermi energy. (physics.md, step 2: common practice.)
  */
-import type { BandStructure, OccupationArray } from '../model';
-import { fullOccupation } from './bandFilling';
+import type { BandStructure } from '../model';
+import { markFilled } from './bandFilling';
 
 export interface OccupationRule {
   /** How occupation was decided: 'occupations', 'electrons', 'fermi'. */
@@ -25,10 +25,7 @@ export function occupationRule(bs: BandStructure): OccupationRule | null {
   const warnings: string[] = [];
   if (bs.occupations) {
     // Files write either fractions (0..1) or electrons (0..2): half of the largest value is the threshold.
-    const full = fullOccupation(bs.occupations);
-    let anyOcc = false;
-    for (let s = 0; s < nSpin; s++) if (markAbove(bs.occupations[s]!, 0.5 * full, occupied[s]!)) anyOcc = true;
-    if (anyOcc) {
+    if (markFilled(bs.occupations, nBands, occupied).any) {
       if (bs.electrons !== null && bs.nk > 0) {
         let count = 0;
         for (let s = 0; s < nSpin; s++) for (let b = 0; b < nBands; b++) count += occupied[s]![b]!;
@@ -79,15 +76,4 @@ export function occupationRule(bs: BandStructure): OccupationRule | null {
     return { basis: 'fermi', perBand, fractionalFilling: false, occupied, warnings };
   }
   return null;
-}
-
-/** Set out[i] = 1 where values[i] > threshold; true when any is. A small function: compiled for its loop alone. */
-function markAbove(values: OccupationArray, threshold: number, out: Uint8Array): boolean {
-  let any = false;
-  for (let i = 0; i < values.length; i++)
-    if (values[i]! > threshold) {
-      out[i] = 1;
-      any = true;
-    }
-  return any;
 }

@@ -8,6 +8,7 @@
  * Pure: no I/O.
  */
 import type { OccupationArray } from '../model';
+import type { KPointEdges } from './gap';
 
 /** What one channel's occupations show. Per-band arrays are indexed by the 0-based band. */
 export interface OccupationScan {
@@ -25,6 +26,8 @@ export interface OccupationScan {
   /** Highest energy of a filled state, lowest of an empty one (±Infinity when none). */
   maxFilled: number;
   minEmpty: number;
+  /** Per k-point, the highest filled and lowest empty state (gap.ts's KPointEdges, found in the same pass). */
+  kEdges: KPointEdges;
 }
 
 /**
@@ -34,7 +37,7 @@ export interface OccupationScan {
 export function scanOccupations(
   occ: OccupationArray,
   energies: Float64Array,
-  full: number,
+  full: 1 | 2,
   nk: number,
   nb: number,
   tailLimit: number,
@@ -48,28 +51,55 @@ export function scanOccupations(
   let largestTail = 0;
   let maxFilled = -Infinity;
   let minEmpty = Infinity;
+  const hi = new Float64Array(nk);
+  const hb = new Int32Array(nk);
+  const lo = new Float64Array(nk);
+  const lb = new Int32Array(nk);
   for (let k = 0; k < nk; k++) {
     const row = k * nb;
+    // gap.ts's per-k edges, with its comparisons: the highest band among equal filled values, the lowest empty.
+    let h = -Infinity;
+    let l = Infinity;
+    let hbk = -1;
+    let lbk = -1;
     for (let b = 0; b < nb; b++) {
-      const x = occ[row + b]! / full;
+      const o = occ[row + b]!;
       const en = energies[row + b]!;
-      // Whole states (most of them): no deviation from 0 or 1 to weigh.
-      if (x === 1) {
+      // Whole states (most of them): no deviation from 0 or 1 to weigh. (o === full is o / full === 1, and
+      // o === 0 is o / full === 0: full is 1 or 2, whose division is exact.)
+      if (o === full) {
         filledSomewhere[b] = 1;
         maxFilled = Math.max(maxFilled, en);
+        if (en >= h) {
+          h = en;
+          hbk = b;
+        }
         continue;
       }
-      if (x === 0) {
+      if (o === 0) {
         emptySomewhere[b] = 1;
         minEmpty = Math.min(minEmpty, en);
+        if (en < l) {
+          l = en;
+          lbk = b;
+        }
         continue;
       }
+      const x = o / full;
       if (x > 0.5) {
         filledSomewhere[b] = 1;
         maxFilled = Math.max(maxFilled, en);
+        if (en >= h) {
+          h = en;
+          hbk = b;
+        }
       } else {
         emptySomewhere[b] = 1;
         minEmpty = Math.min(minEmpty, en);
+        if (en < l) {
+          l = en;
+          lbk = b;
+        }
       }
       const dev = Math.min(Math.abs(x), Math.abs(x - 1));
       if (dev > tailLimit) {
@@ -80,6 +110,10 @@ export function scanOccupations(
         partial[b] = 1;
       } else if (dev > largestTail) largestTail = dev;
     }
+    hi[k] = h;
+    hb[k] = hbk;
+    lo[k] = l;
+    lb[k] = lbk;
   }
   // Across bands in band order, the first on ties (as a scan band by band would find it).
   let partlyFilledBand = -1;
@@ -92,5 +126,6 @@ export function scanOccupations(
       best = bestDev[b]!;
     }
   }
-  return { filledSomewhere, emptySomewhere, partial, partlyFilledBand, partlyFilledValue, largestTail, maxFilled, minEmpty };
+  const kEdges = { hi, hb, lo, lb };
+  return { filledSomewhere, emptySomewhere, partial, partlyFilledBand, partlyFilledValue, largestTail, maxFilled, minEmpty, kEdges };
 }

@@ -39,53 +39,63 @@ export function cartesianOperation(r: Mat3, lattice: Mat3): Mat3 {
   return mulMat(mulMat(bt, r), mat3Inverse(bt));
 }
 
-const SYM_BASIS: Mat3[] = [
-  [
-    [1, 0, 0],
-    [0, 0, 0],
-    [0, 0, 0],
-  ],
-  [
-    [0, 0, 0],
-    [0, 1, 0],
-    [0, 0, 0],
-  ],
-  [
-    [0, 0, 0],
-    [0, 0, 0],
-    [0, 0, 1],
-  ],
-  [
-    [0, 1, 0],
-    [1, 0, 0],
-    [0, 0, 0],
-  ],
-  [
-    [0, 0, 1],
-    [0, 0, 0],
-    [1, 0, 0],
-  ],
-  [
-    [0, 0, 0],
-    [0, 0, 1],
-    [0, 1, 0],
-  ],
+/**
+ * The six symmetric unit tensors (xx, yy, zz, xy, xz, yz) as index pairs: E_ij = e_i e_jᵀ + e_j e_iᵀ for i ≠ j.
+ */
+const SYM_PAIRS: readonly (readonly [number, number])[] = [
+  [0, 0],
+  [1, 1],
+  [2, 2],
+  [0, 1],
+  [0, 2],
+  [1, 2],
 ];
+/** flat6 order: (row, column) of the six independent entries of a symmetric matrix. */
+const FLAT6: readonly (readonly [number, number])[] = SYM_PAIRS;
 
-const flat6 = (m: Mat3): number[] => [m[0][0], m[1][1], m[2][2], m[0][1], m[0][2], m[1][2]];
 const unflat6 = (v: number[]): Mat3 => [
   [v[0]!, v[3]!, v[4]!],
   [v[3]!, v[1]!, v[5]!],
   [v[4]!, v[5]!, v[2]!],
 ];
 
+/**
+ * Entry (a, b) of R E Rᵀ for a unit tensor E of SYM_PAIRS: R_ai R_bi on the diagonal pairs, R_aj R_bi + R_ai R_bj
+ * off it (the same value the two matrix products give: the other terms of their sums are exact zeros).
+ */
+function rotatedUnitEntry(r: Mat3, i: number, j: number, a: number, b: number): number {
+  const ra = r[a]!;
+  const rb = r[b]!;
+  return i === j ? ra[i]! * rb[i]! : ra[j]! * rb[i]! + ra[i]! * rb[j]!;
+}
+
+/**
+ * Bases already found, by the operation objects themselves (valleyCount.ts keeps one list of operations per k:
+ * extrema of several bands at one k ask with the same objects). Operations are never changed after they are made.
+ */
+const basesByFirstOp = new WeakMap<Mat3, { ops: Mat3[]; basis: Mat3[] }[]>();
+
 /** An orthonormal basis (as symmetric matrices) of the tensors invariant under the cartesian operations. */
 export function invariantTensorBasis(cartesianOps: Mat3[]): Mat3[] {
-  const images: number[][] = SYM_BASIS.map((s) => {
+  const first = cartesianOps[0];
+  if (!first) return computeInvariantBasis(cartesianOps);
+  let known = basesByFirstOp.get(first);
+  if (!known) basesByFirstOp.set(first, (known = []));
+  const hit = known.find((x) => x.ops.length === cartesianOps.length && x.ops.every((o, i) => o === cartesianOps[i]));
+  if (hit) return hit.basis.map((m) => m.map((r) => [...r]) as Mat3);
+  const basis = computeInvariantBasis(cartesianOps);
+  known.push({ ops: [...cartesianOps], basis: basis.map((m) => m.map((r) => [...r]) as Mat3) });
+  return basis;
+}
+
+function computeInvariantBasis(cartesianOps: Mat3[]): Mat3[] {
+  const images: number[][] = SYM_PAIRS.map(([i, j]) => {
     const acc = [0, 0, 0, 0, 0, 0];
     for (const r of cartesianOps) {
-      const v = flat6(mulMat(mulMat(r, s), transpose3(r)));
-      for (let i = 0; i < 6; i++) acc[i] = acc[i]! + v[i]! / cartesianOps.length;
+      for (let c = 0; c < 6; c++) {
+        const [a, b] = FLAT6[c]!;
+        acc[c] = acc[c]! + rotatedUnitEntry(r, i, j, a, b) / cartesianOps.length;
+      }
     }
     return acc;
   });

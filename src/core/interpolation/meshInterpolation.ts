@@ -28,6 +28,13 @@ export const DEFAULT_STARS_PER_POINT = 8;
 export const MASS_UNCERTAINTY_LIMIT = 0.1;
 /** Most irreducible points interpolated (the star-value matrix holds about 8 N² numbers). */
 export const MAX_INTERPOLATION_POINTS = 1500;
+
+/** Why nk irreducible points are too many to interpolate, or null. */
+export function tooManyPointsReason(nk: number): string | null {
+  return nk > MAX_INTERPOLATION_POINTS
+    ? `${nk} irreducible k-points are more than the ${MAX_INTERPOLATION_POINTS} the interpolation handles (its matrices grow as the square).`
+    : null;
+}
 /** Opening words of the reason given at a degenerate (warped) extremum. */
 export const WARPED_NOTE = 'Warped: see directional masses.';
 /** Two bands closer than this (eV), or than three times the energy uncertainty, count as touching. */
@@ -117,12 +124,8 @@ export class MeshInterpolation {
   /** The interpolation of a mesh run, or the reason the k-points are not a mesh this can use. */
   static create(input: MeshRunInput): { run: MeshInterpolation; reason: null } | { run: null; reason: string } {
     const nk = input.kpoints.length / 3;
-    if (nk > MAX_INTERPOLATION_POINTS) {
-      return {
-        run: null,
-        reason: `${nk} irreducible k-points are more than the ${MAX_INTERPOLATION_POINTS} the interpolation handles (its matrices grow as the square).`,
-      };
-    }
+    const tooMany = tooManyPointsReason(nk);
+    if (tooMany) return { run: null, reason: tooMany };
     for (const [i, b] of input.bands.entries()) {
       if (b.length !== nk) return { run: null, reason: `Band ${i + 1} has ${b.length} energies for ${nk} k-points.` };
       for (let k = 0; k < b.length; k++) {

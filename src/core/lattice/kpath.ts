@@ -82,7 +82,10 @@ function computePathGeometry(bs: BandStructure): PathGeometry {
   const nk = bs.nk;
   const cart = bs.lattice ? kpointsToCartesian(bs.kpoints, reciprocalLattice(bs.lattice)) : null;
   const pts = cart ?? bs.kpoints;
-  const labelOf = new Map(bs.labels.map((l) => [l.index, l.label]));
+  // The label at each k (the last given for an index, as a Map built from the list would keep): an array read
+  // per point, not a Map lookup.
+  const labelAt: (string | undefined)[] = new Array<string | undefined>(nk).fill(undefined);
+  for (const l of bs.labels) if (Number.isInteger(l.index) && l.index >= 0 && l.index < nk) labelAt[l.index] = l.label;
   const step = new Float64Array(nk);
   for (let i = 1; i < nk; i++) {
     step[i] = Math.hypot(pts[3 * i]! - pts[3 * i - 3]!, pts[3 * i + 1]! - pts[3 * i - 2]!, pts[3 * i + 2]! - pts[3 * i - 1]!);
@@ -98,7 +101,7 @@ function computePathGeometry(bs: BandStructure): PathGeometry {
   let dy = 0;
   let dz = 0;
   const close = (end: number, nextAfterJump: boolean): void => {
-    segments.push({ start: segStart, end, startLabel: labelOf.get(segStart) ?? null, endLabel: labelOf.get(end) ?? null, afterJump });
+    segments.push({ start: segStart, end, startLabel: labelAt[segStart] ?? null, endLabel: labelAt[end] ?? null, afterJump });
     afterJump = nextAfterJump;
   };
   for (let i = 1; i < nk; i++) {
@@ -111,16 +114,17 @@ function computePathGeometry(bs: BandStructure): PathGeometry {
       hasDir = false;
       continue;
     }
-    const la = labelOf.get(i - 1);
-    const lb = labelOf.get(i);
+    const la = labelAt[i - 1];
+    const lb = labelAt[i];
     // A labelled jump: the end of one segment and the start of the next, both labelled, with the new
     // segment continuing unlabelled after it (a path written only at its corners has no jumps this way).
     const labelledJump =
-      la !== undefined && lb !== undefined && la !== lb && i - 1 > segStart && i + 1 < nk && labelOf.get(i + 1) === undefined;
+      la !== undefined && lb !== undefined && la !== lb && i - 1 > segStart && i + 1 < nk && labelAt[i + 1] === undefined;
     // An unlabelled jump: a step far longer than the steps on both sides of it (legs of different
     // densities are not jumps: their steps are alike within each leg).
-    const before = neighbourStep(step, i, -1);
-    const after = neighbourStep(step, i, +1);
+    // neighbourStep's answers, read directly when the adjacent step is not a repeat (nearly always).
+    const before = i - 1 >= 1 && step[i - 1]! > DUP_TOL ? step[i - 1]! : neighbourStep(step, i, -1);
+    const after = i + 1 < nk && step[i + 1]! > DUP_TOL ? step[i + 1]! : neighbourStep(step, i, +1);
     const longJump = before > 0 && after > 0 && s > 4 * Math.max(before, after);
     if (labelledJump || longJump) {
       distance[i] = distance[i - 1]!;

@@ -22,6 +22,7 @@ import { relateCells } from './cellRelation';
 import { bravaisLattice, latticeOnlyStructure, type BravaisLattice } from './bravais';
 import { crystalSymmetry, DEFAULT_SYMPREC, sameModuloG } from './symmetry';
 import { labelsOfKpoints } from './kpointLabelScan';
+import { latticeHolohedry } from './latticePointGroup';
 
 export type LabelledLatticeKind = 'CUB' | 'FCC' | 'BCC' | 'HEX' | 'TET' | 'BCT1' | 'BCT2' | 'ORC';
 
@@ -217,6 +218,9 @@ export interface SpecialPointMap {
   userPoints: SpecialPoint[];
 }
 
+/** Order of the lattice point group (holohedry) of each kind: m-3m, 6/mmm, 4/mmm, mmm. */
+const HOLOHEDRY_ORDER: Record<LabelledLatticeKind, number> = { CUB: 48, FCC: 48, BCC: 48, HEX: 24, TET: 16, BCT1: 16, BCT2: 16, ORC: 8 };
+
 /**
  * The special points of a lattice, related to the user's cell. Null when the lattice is not one covered here
  * or when the user's cell could not be related to the standard one. Needs ensureSymmetryReady() first.
@@ -228,7 +232,10 @@ export function specialPointMap(lattice: Mat3, structure: Structure | null, symp
   const M = relateCells(structure ? structure.lattice : lattice, standard.primitive);
   if (!M) return null;
   // The lattice's point group, in the standard cell's basis, acting on k: (W⁻¹)ᵀ.
-  const holohedry = crystalSymmetry(latticeOnlyStructure(standard.primitive), symprec).reciprocalPointGroup;
+  // Found directly from the cell's metric when it shows exactly the holohedry of its kind; else by the library.
+  const holohedry =
+    latticeHolohedry(standard.primitive, symprec, HOLOHEDRY_ORDER[standard.kind]) ??
+    crystalSymmetry(latticeOnlyStructure(standard.primitive), symprec).reciprocalPointGroup;
   const images = standard.points.map((p) => {
     const list: Vec3[] = [];
     for (const r of holohedry) {

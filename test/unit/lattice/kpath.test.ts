@@ -125,4 +125,18 @@ describe('k-path geometry, corner cases', () => {
     const g2 = pathGeometry(bs);
     assert.ok(Math.abs(g2.distance[10]! - g.distance[10]! / 2) < 1e-12, `${g2.distance[10]} vs ${g.distance[10]! / 2}`);
   });
+
+  it('segment labels: the last label given for an index, labels outside the path ignored', () => {
+    // Γ→X, then a labelled jump to W and on towards X (segments found from the labels, as in the first test).
+    const kpts = [...line(G, X, 6), ...line(W, X, 6)];
+    const labels = [...labelsAt([0, 5, 6, 11, 40], ['Γ', 'X', 'W', 'X', 'Z']), { index: 0, label: 'G' }];
+    const g = pathGeometry(makeBands({ kpoints: kpts, energies: [kpts.map(() => [0])], lattice: fccLattice(a), labels }));
+    assert.deepEqual(
+      g.segments.map((s) => [s.start, s.end, s.startLabel, s.endLabel, s.afterJump]),
+      [
+        [0, 5, 'G', 'X', false],
+        [6, 11, 'W', 'X', true],
+      ],
+    );
+  });
 });
