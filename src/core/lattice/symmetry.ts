@@ -131,22 +131,18 @@ function moyoCellJson(structure: Structure, symprec: number): string {
   return JSON.stringify({ lattice: { basis: [...lat[0], ...lat[1], ...lat[2]] }, positions, numbers: speciesNumbers(structure.species) });
 }
 
-function moyoDataset(structure: Structure, cellJson: string, symprec: number): MoyoDataset {
+/** The library's dataset for a structure; throws AnalysisError with a plain sentence on failure. */
+export function analyzeStructure(structure: Structure, symprec: number = DEFAULT_SYMPREC): MoyoDataset {
+  const cellJson = moyoCellJson(structure, symprec);
   try {
     return moyoAnalyze(cellJson, symprec);
   } catch (e) {
     const why = e instanceof Error ? e.message : String(e);
-    const n = structure.species.length;
     throw new AnalysisError(
-      `Could not determine the crystal symmetry of the structure (${describe(structure)}, ${n} atoms) with a tolerance of ${symprec} Å` +
+      `Could not determine the crystal symmetry of the structure (${describe(structure)}, ${structure.species.length} atoms) with a tolerance of ${symprec} Å` +
         `${why ? ` (${why})` : ''}; check for overlapping atoms or try another tolerance.`,
     );
   }
-}
-
-/** The library's dataset for a structure; throws AnalysisError with a plain sentence on failure. */
-export function analyzeStructure(structure: Structure, symprec: number = DEFAULT_SYMPREC): MoyoDataset {
-  return moyoDataset(structure, moyoCellJson(structure, symprec), symprec);
 }
 
 const cache = new WeakMap<Structure, Map<number, CrystalSymmetry>>();
