@@ -15,6 +15,7 @@ import type { Mat3, Vec3 } from '../model';
 import { cartesianToFractional } from '../lattice/reciprocal';
 import type { RegularMesh } from './regularMesh';
 import type { SmoothStarFit } from './smoothFit';
+import { meshIndexAt } from './meshExtrema';
 import { refineExtremum, type NewtonOptions, type RefinedPoint, type StationaryKind } from './newtonExtremum';
 
 /** Number of nearest irreducible points left out, one at a time. */
@@ -80,16 +81,8 @@ export function extremumUncertainty(
 
 /** The irreducible point (0-based) whose mesh image is at cartesian k (to 1e-6 of a mesh step), or −1. */
 function meshPointAt(mesh: RegularMesh, k: Vec3, lattice: Mat3): number {
-  const kf = cartesianToFractional(k, lattice);
-  let j = 0;
-  for (let a = 0; a < 3; a++) {
-    const n = mesh.divisions[a]!;
-    const x = kf[a]! * n - mesh.shift[a]!;
-    const i = Math.round(x);
-    if (Math.abs(x - i) > 1e-6) return -1;
-    j = j * n + (((i % n) + n) % n);
-  }
-  return mesh.irreducibleOf[j]!;
+  const j = meshIndexAt(mesh, cartesianToFractional(k, lattice), 1e-6);
+  return j < 0 ? -1 : mesh.irreducibleOf[j]!;
 }
 
 /** The `count` distinct irreducible points whose mesh images lie nearest to cartesian k. */

@@ -15,6 +15,22 @@ export function meshPoint(mesh: RegularMesh, j: number): [number, number, number
 }
 
 /**
+ * The inverse of meshPoint: the index of the mesh point at fractional k (any periodic image), or −1 when a
+ * component lies `tolerance` or farther (a fraction of one mesh step) from the mesh.
+ */
+export function meshIndexAt(mesh: RegularMesh, kFrac: ArrayLike<number>, tolerance: number, offset = 0): number {
+  let j = 0;
+  for (let a = 0; a < 3; a++) {
+    const n = mesh.divisions[a]!;
+    const y = kFrac[offset + a]! * n - mesh.shift[a]!;
+    const i = Math.round(y);
+    if (!(Math.abs(y - i) < tolerance)) return -1;
+    j = j * n + (((i % n) + n) % n);
+  }
+  return j;
+}
+
+/**
  * Mesh points (one per irreducible point) whose energy is not above (min) / not below (max) any of their
  * 26 neighbours. `energies`: the band at the irreducible points.
  */

@@ -22,7 +22,7 @@
 import type { RegularMesh } from './regularMesh';
 import { starValuesFractional, type StarBasis } from './starBasis';
 import { inverseRoughnessOf } from './roughness';
-import { meshPoint } from './meshExtrema';
+import { meshIndexAt, meshPoint } from './meshExtrema';
 import { meshTransform } from './lineTransform';
 
 export { meshTransform } from './lineTransform';
@@ -31,17 +31,12 @@ const mod = (x: number, n: number): number => ((x % n) + n) % n;
 
 /** Mesh index of each irreducible point (its own position on the mesh), or null if one is off the mesh. */
 export function meshIndexOf(mesh: RegularMesh, kFrac: Float64Array): Int32Array | null {
-  const [, n2, n3] = mesh.divisions;
   const nk = kFrac.length / 3;
   const out = new Int32Array(nk);
   for (let i = 0; i < nk; i++) {
-    const j = [0, 1, 2].map((a) => {
-      const y = kFrac[3 * i + a]! * mesh.divisions[a]! - mesh.shift[a]!;
-      return Math.abs(y - Math.round(y)) < 1e-3 ? mod(Math.round(y), mesh.divisions[a]!) : -1;
-    });
-    if (j.some((x) => x < 0)) return null;
-    out[i] = (j[0]! * n2 + j[1]!) * n3 + j[2]!;
-    if (mesh.irreducibleOf[out[i]!] !== i) return null;
+    const j = meshIndexAt(mesh, kFrac, 1e-3, 3 * i);
+    if (j < 0 || mesh.irreducibleOf[j] !== i) return null;
+    out[i] = j;
   }
   return out;
 }
