@@ -369,6 +369,12 @@ describe('band view in headless Chromium (silicon, empirical pseudopotential mod
     assert.equal(down.band0, cbm.band0 - 1, 'Down moves to the band below');
     const sel = v.page.locator('circle.vs-selection');
     const p = await screenOf(v, down);
+    // The ring is redrawn with the next frame after the key: wait for that frame (up to 2 s), then check.
+    await waitForExpression(
+      v.page,
+      `(function () { var c = document.querySelector('circle.vs-selection'); return !!c && Math.abs(Number(c.getAttribute('cx')) - ${p.x}) < 0.01; })()`,
+      2000,
+    ).catch(() => undefined);
     assert.ok(Math.abs(Number(await sel.getAttribute('cx')) - p.x) < 0.01, 'selection ring drawn at the selection');
     await v.page.keyboard.press('Enter');
     const req = await waitPosted(v, 'requestFit', 1);
