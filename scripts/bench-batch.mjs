@@ -11,6 +11,7 @@
 // --per-segment: k-points per path segment (default 50: 200 k-points a run). Larger runs show how the pool
 // scales once each run's work outweighs what every thread pays once (compiling the code it runs).
 import { runWithThreadCpu } from './bench/threadCpu.mjs';
+import { spawn } from 'node:child_process';
 import { availableParallelism, loadavg } from 'node:os';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -22,13 +23,14 @@ const arg = (name, dflt) => {
 const nRuns = arg('--runs', 200);
 const repeat = arg('--repeat', 3);
 const PER_SEGMENT = arg('--per-segment', 50);
+const N_BANDS = Math.max(8, arg('--bands', 8));
 const cli = join('dist', 'cli.js');
 if (!existsSync(cli) || !existsSync(join('dist', 'batchWorker.js'))) {
   console.log('batch: dist/cli.js or dist/batchWorker.js missing; run "node esbuild.mjs" first');
   process.exit(1);
 }
 
-const dir = join('bench-data', PER_SEGMENT === 50 ? `batch-${nRuns}` : `batch-${nRuns}-k${4 * PER_SEGMENT}`);
+const dir = join('bench-data', `batch-${nRuns}${PER_SEGMENT === 50 ? '' : `-k${4 * PER_SEGMENT}`}${N_BANDS === 8 ? '' : `-b${N_BANDS}`}`);
 const f = (x, w, d) => x.toFixed(d).padStart(w);
 const SEGMENTS = [
   ['Γ', [0, 0, 0], 'X', [0.5, 0, 0]],
@@ -39,12 +41,12 @@ const SEGMENTS = [
 
 function writeRun(runDir, seed) {
   mkdirSync(runDir, { recursive: true });
-  const nb = 8;
+  const nb = N_BANDS;
   const bands = [];
   for (let b = 0; b < nb; b++) {
-    const valence = b < 4;
-    const t = 0.4 + 0.1 * b + 0.003 * seed;
-    bands.push(valence ? { c: -1.5 * (3 - b), s: -1, t } : { c: 0.8 + 0.002 * seed + 1.1 * (b - 4), s: 1, t });
+    const valence = b < nb / 2;
+    const t = 0.4 + 0.1 * (b % 8) + 0.003 * seed;
+    bands.push(valence ? { c: -1.5 * (nb / 2 - 1 - b), s: -1, t } : { c: 0.8 + 0.002 * seed + 1.1 * (b - nb / 2), s: 1, t });
   }
   const ks = [];
   for (const [, a, , z] of SEGMENTS)
@@ -55,14 +57,14 @@ function writeRun(runDir, seed) {
     '  1.0000000000000E-004',
     '  CAR',
     ` batch benchmark run ${seed}`,
-    `      8     ${ks.length}      ${nb}`,
+    `      ${nb}     ${ks.length}      ${nb}`,
   ];
   for (const k of ks) {
     lines.push('', `  ${f(k[0], 12, 7)}  ${f(k[1], 12, 7)}  ${f(k[2], 12, 7)}  ${f(1 / ks.length, 12, 7)}`);
     const s = 3 - k.reduce((acc, x) => acc + Math.cos(2 * Math.PI * x), 0);
     bands.forEach((bd, b) => {
       const e = bd.s < 0 ? bd.c - 2 * bd.t * s : bd.c + 2 * bd.t * s;
-      lines.push(`    ${b + 1}   ${f(e, 12, 6)}   ${f(b < 4 ? 1 : 0, 8, 6)}`);
+      lines.push(`    ${b + 1}   ${f(e, 12, 6)}   ${f(b < nb / 2 ? 1 : 0, 8, 6)}`);
     });
   }
   writeFileSync(join(runDir, 'EIGENVAL'), lines.join('\n') + '\n');
@@ -84,7 +86,7 @@ if (!existsSync(stamp)) {
 }
 
 async function timeOnce(jobs) {
-  const out = join('bench-data', `batch-k${4 * PER_SEGMENT}-jobs${jobs}.jsonl`);
+  const out = join('bench-data', `batch-k${4 * PER_SEGMENT}-b${N_BANDS}-jobs${jobs}.jsonl`);
   const r = await runWithThreadCpu(process.execPath, [cli, 'analyze', dir, '--jsonl', '--jobs', String(jobs)], out);
   if (r.status !== 0) throw new Error(`--jobs ${jobs} failed: ${(r.stderr || '').trim().split('\n').pop()}`);
   return { ...r, out };
@@ -93,7 +95,7 @@ async function timeOnce(jobs) {
 const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 const load0 = loadavg()[0];
 console.log(
-  `\nBatch: analyze --jsonl over ${nRuns} runs (${4 * PER_SEGMENT} k × 8 bands each), ${availableParallelism()} cores, median of ${repeat}, alternating`,
+  `\nBatch: analyze --jsonl over ${nRuns} runs (${4 * PER_SEGMENT} k × ${N_BANDS} bands each), ${availableParallelism()} cores, median of ${repeat}, alternating`,
 );
 const r1 = [];
 const r2 = [];
@@ -141,6 +143,31 @@ if (r1[0].cpu !== null) {
     `  shortest possible wall time with both cores free (max of each thread's CPU time and half the total): --jobs 1 ${f2(s1.bound)} s, --jobs 2 ${f2(s2.bound)} s; ratio ${f2(s2.bound / s1.bound)}   (an estimate beside the goal, not the goal's measurement)`,
   );
 }
+// Each thread starts with cold code: the runtime compiles and then optimises it as the runs go by, so a thread's
+// first runs are slower than its later ones. With one job the lines come out as the runs finish: the time at
+// which half of them are out is what two perfect threads (starting at once, costing nothing more, each as fast
+// as this one) would take for all of them, and that over the whole time is the best ratio two threads can give.
+function halfwayTimes() {
+  return new Promise((resolve, reject) => {
+    const t0 = process.hrtime.bigint();
+    const child = spawn(process.execPath, [cli, 'analyze', dir, '--jsonl', '--jobs', '1'], { stdio: ['ignore', 'pipe', 'ignore'] });
+    let lines = 0;
+    let half = null;
+    child.stdout.on('data', (d) => {
+      for (let i = 0; i < d.length; i++) if (d[i] === 10) lines++;
+      if (half === null && lines >= nRuns / 2) half = Number(process.hrtime.bigint() - t0) / 1e6;
+    });
+    child.on('error', reject);
+    child.on('exit', () => resolve({ half, all: Number(process.hrtime.bigint() - t0) / 1e6 }));
+  });
+}
+const lc = [];
+for (let i = 0; i < repeat; i++) lc.push(await halfwayTimes());
+const lcHalf = median(lc.map((x) => x.half ?? NaN));
+const lcAll = median(lc.map((x) => x.all));
+console.log(
+  `  one job, the first half of the runs out after ${lcHalf.toFixed(0)} ms of ${lcAll.toFixed(0)} ms (process start included): the best two threads can do, each starting cold, is ${(lcHalf / lcAll).toFixed(2)} of one   (a bound beside the goal)`,
+);
 const load1 = loadavg()[0];
 const busy = Math.max(load0, load1) > availableParallelism();
 console.log(

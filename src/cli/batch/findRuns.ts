@@ -40,12 +40,35 @@ async function runFile(fs: FileAccessor, dir: string): Promise<FoundFile | null>
   }
 }
 
+/**
+ * Folders looked at at once: on a cluster's network file system each look (list, stat, read a file's head) waits
+ * for the server, so the search keeps several in flight; the result does not depend on the order they finish.
+ */
+export const SEARCH_CONCURRENCY = 16;
+
+/** A gate letting at most `n` calls run at once. */
+function limiter(n: number): <T>(f: () => Promise<T>) => Promise<T> {
+  let active = 0;
+  const waiting: (() => void)[] = [];
+  return async (f) => {
+    if (active >= n) await new Promise<void>((r) => waiting.push(r));
+    active++;
+    try {
+      return await f();
+    } finally {
+      active--;
+      waiting.shift()?.();
+    }
+  };
+}
+
 export async function findRuns(fs: FileAccessor, roots: readonly string[]): Promise<FoundRuns> {
   const found = new Set<string>();
   const files = new Map<string, FoundFile>();
   const notes: string[] = [];
+  const gate = limiter(SEARCH_CONCURRENCY);
   const walk = async (dir: string, depth: number): Promise<void> => {
-    const file = await runFile(fs, dir);
+    const file = await gate(() => runFile(fs, dir));
     if (file !== null) {
       found.add(normalizeRunPath(dir));
       files.set(normalizeRunPath(dir), file);
@@ -57,7 +80,7 @@ export async function findRuns(fs: FileAccessor, roots: readonly string[]): Prom
     }
     let entries;
     try {
-      entries = await fs.list(dir);
+      entries = await gate(() => fs.list(dir));
     } catch {
       notes.push(`${dir}: the folder could not be listed`);
       return;
@@ -66,7 +89,7 @@ export async function findRuns(fs: FileAccessor, roots: readonly string[]): Prom
       .filter((e) => e.type === 'directory' && !SKIP_DIRS.has(e.name))
       .map((e) => e.name)
       .sort();
-    for (const name of dirs) await walk(joinPath(dir, name), depth + 1);
+    await Promise.all(dirs.map((name) => walk(joinPath(dir, name), depth + 1)));
   };
   for (const root of roots) {
     const st = await fs.stat(root);
@@ -74,5 +97,7 @@ export async function findRuns(fs: FileAccessor, roots: readonly string[]): Prom
     if (st.type === 'file') found.add(normalizeRunPath(root));
     else await walk(normalizeRunPath(root), 0);
   }
+  // Folders are searched several at a time: the notes in path order, like the runs.
+  notes.sort(comparePaths);
   return { runs: [...found].sort(comparePaths), files, notes };
 }
