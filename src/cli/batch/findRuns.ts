@@ -5,7 +5,7 @@
  */
 import type { FileAccessor } from '../../core/io/fileAccessor';
 import { joinPath } from '../../core/io/fileAccessor';
-import { locateRun } from '../../core/load';
+import { locateRun, type OtherCandidate } from '../../core/load';
 import { ValleyscopeError } from '../../core/errors';
 import { normalizeRunPath } from './shard';
 import { comparePaths } from './pathOrder';
@@ -16,6 +16,8 @@ const SKIP_DIRS = new Set(['.git', '.hg', '.svn', 'node_modules']);
 export interface FoundFile {
   file: string;
   readerId: string;
+  /** The folder's other eigenvalue files (named in the run's notice, as `analyze <folder>` names them). */
+  others?: OtherCandidate[];
 }
 
 export interface FoundRuns {
@@ -33,7 +35,7 @@ export interface FoundRuns {
 async function runFile(fs: FileAccessor, dir: string): Promise<FoundFile | null> {
   try {
     const loc = await locateRun(fs, dir);
-    return { file: loc.file, readerId: loc.reader.id };
+    return { file: loc.file, readerId: loc.reader.id, others: loc.others ?? [] };
   } catch (e) {
     if (e instanceof ValleyscopeError) return null;
     throw e;

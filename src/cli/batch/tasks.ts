@@ -50,7 +50,7 @@ async function analyzeLine(
   // that file): the file is not opened and recognised a second time.
   const reader = found && readerById(found.readerId);
   const bs = reader
-    ? await readLocated(nodeFileAccessor, { file: found.file, reader, others: [] }, read)
+    ? await readLocated(nodeFileAccessor, { file: found.file, reader, others: found.others ?? [] }, read)
     : await loadRun(nodeFileAccessor, path, read);
   const report = analyzeBandStructure(bs, settings);
   return { path, ...analysisJson(bs, report, zero), lattice: bs.lattice, rotations: runCrystal(bs.structure).rotations };

@@ -61,6 +61,20 @@ describe('run folders', () => {
     assert.match(r.file, /a\.xml$/);
     assert.ok(r.warnings.some((w: string) => /also found: b\.xml \(Quantum ESPRESSO XML data file\)/.test(w)));
   });
+
+  it('a batch line (--jsonl) of such a folder names the other file as --json does: the same contract plus path', async () => {
+    const other = collinearModel();
+    other.fermiEnergy = 0.7;
+    const dir = folder({ 'b.xml': writeQeXml(other), 'a.xml': writeQeXml(model) });
+    const one = capture();
+    assert.equal(await main(['analyze', dir, '--json'], one), 0, one.stderr);
+    const batch = capture();
+    assert.equal(await main(['analyze', dir, '--jsonl', '--jobs', '1'], batch), 0, batch.stderr);
+    const line = JSON.parse(batch.stdout.trim()) as Record<string, unknown>;
+    const r = JSON.parse(one.stdout) as Record<string, unknown>;
+    assert.deepEqual(line.warnings, r.warnings);
+    assert.ok((line.warnings as string[]).some((w) => /also found: b\.xml/.test(w)));
+  });
 });
 
 describe('--alat with a unit', () => {
