@@ -97,6 +97,14 @@ describe('fit panel (headless Chromium, silicon EPM)', function () {
     // (the core estimates it from the path; a number without that would be quoted as a full-sphere value).
     const dl = (await v.page.locator('.vs-degeneracy').textContent()) ?? '';
     assert.match(dl, /Density-of-states mass[\d.]+ ± [\d.]+ mₑ \(path-limited\)/);
+    // In the 300 px side panel the provenance rows are label–value cards, not a table to scroll sideways.
+    const fits = (await v.page.evaluate(`(function () {
+      var w = document.querySelector('.vs-provenance-scroll');
+      var td = document.querySelector('.vs-provenance-table tbody td:nth-child(4)');
+      return [w.scrollWidth <= w.clientWidth + 1, getComputedStyle(td, '::before').content];
+    })()`)) as [boolean, string];
+    assert.deepEqual(fits, [true, '"points"']);
+    await v.page.locator('.vs-provenance').scrollIntoViewIfNeeded();
     await v.page.screenshot({ path: `${ARTIFACTS}/fitpanel-vbm-branches.png` });
     assert.deepEqual(v.errors, []);
     await v.page.close();

@@ -38,14 +38,20 @@ export function provenanceParts(masses: MassFit[], method: string, window_meV: n
   const table = el('table', 'vs-provenance-table');
   const thead = el('thead');
   const hr = el('tr');
-  for (const h of heads) hr.append(el('th', undefined, h));
+  table.setAttribute('role', 'table');
+  hr.setAttribute('role', 'row');
+  for (const h of heads) {
+    const th = el('th', undefined, h);
+    th.setAttribute('role', 'columnheader');
+    hr.append(th);
+  }
   thead.append(hr);
   const tbody = el('tbody');
   for (const f of masses) {
     const tr = el('tr');
     tr.dataset.towards = f.towards;
     const cells = [
-      el('td', undefined, directionName(f)),
+      el('td', 'vs-prov-direction', directionName(f)),
       el('td', undefined, f.method),
       el('td', 'vs-num', sig(f.window_meV, 3)),
       el('td', 'vs-num', String(f.points)),
@@ -57,6 +63,12 @@ export function provenanceParts(masses: MassFit[], method: string, window_meV: n
       const td = el('td', 'vs-num vs-alpha', f.alpha_per_eV === undefined ? '—' : sig(f.alpha_per_eV, 3));
       cells.push(td);
     }
+    // Each cell carries its column head: the side panel shows the row as label–value pairs (styles.ts).
+    cells.forEach((td, i) => {
+      td.dataset.label = heads[i]!;
+      td.setAttribute('role', 'cell');
+    });
+    tr.setAttribute('role', 'row');
     tr.append(...cells);
     tbody.append(tr);
   }

@@ -83,6 +83,19 @@ body.vscode-high-contrast .vs-mesh-point, body.vscode-high-contrast-light .vs-me
 .vs-provenance-table th, .vs-provenance-table td { padding: 1px 4px; text-align: left; white-space: nowrap;
   border-bottom: 1px solid var(--vscode-editorIndentGuide-background1, rgba(128,128,128,0.3)); }
 .vs-provenance-table th { font-weight: 600; color: var(--vscode-descriptionForeground); white-space: normal; vertical-align: bottom; }
+/* In the side panel (300 px) the table would scroll sideways: each fitted direction becomes a small card of
+   label and value (the column heads stay in the page for screen readers; roles keep the table's meaning). */
+.vs-side { container-type: inline-size; }
+@container (max-width: 560px) {
+  .vs-provenance-table thead { position: absolute; width: 1px; height: 1px; overflow: hidden; clip-path: inset(50%); white-space: nowrap; }
+  .vs-provenance-table, .vs-provenance-table tbody { display: block; }
+  .vs-provenance-table tr { display: grid; grid-template-columns: max-content 1fr; column-gap: 10px; padding: 3px 0;
+    border-bottom: 1px solid var(--vscode-editorIndentGuide-background1, rgba(128,128,128,0.3)); }
+  .vs-provenance-table td { display: contents; white-space: normal; }
+  .vs-provenance-table td:first-child::before { content: none; }
+  .vs-provenance-table td::before { content: attr(data-label); color: var(--vscode-descriptionForeground); }
+  .vs-provenance-table .vs-prov-direction { display: block; grid-column: 1 / -1; font-weight: 600; }
+}
 .vs-spread-tag { font-size: 0.8em; color: var(--vscode-descriptionForeground); }
 .vs-branch { width: 3em; }
 .vs-masses-scroll { overflow-x: auto; max-width: 100%; }
