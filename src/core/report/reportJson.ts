@@ -56,6 +56,11 @@ export function massJson(m: MassFit): Record<string, unknown> {
   if (m.alpha_per_eV !== undefined) o.alpha_per_eV = r(m.alpha_per_eV, 6);
   if (m.residual_meV !== undefined) o.residual_meV = r(m.residual_meV, 3);
   if (m.branch !== undefined) o.branch = m.branch;
+  // A finite difference's uncertainty to quote (its stderr is the rounding alone): the spread against the parabola.
+  if (m.methodSpread) {
+    const s = m.methodSpread;
+    o.methodSpread = { against: s.against, mass: r(s.mass, 6), window_meV: r(s.window_meV, 6), spread: r(s.spread, 3) };
+  }
   o.determined = m.determined;
   if (!m.determined && m.undeterminedReason) o.undeterminedReason = m.undeterminedReason;
   if (m.warnings && m.warnings.length) o.warnings = m.warnings;

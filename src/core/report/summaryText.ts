@@ -38,7 +38,12 @@ function massLine(m: MassFit, atMaximum: boolean): string {
     return `      towards ${m.towards}${branch}: m* undetermined (the fit gave ${fmt(m.mass, 3)} ± ${fmt(m.stderr, 3)} m_e: ${m.undeterminedReason ?? 'not quotable'})  ${provenance}`;
   }
   const hole = atMaximum && m.mass < 0 ? ` (hole mass ${fmt(-m.mass, 3)})` : '';
-  return `      towards ${m.towards}${branch}: m* = ${fmt(m.mass, 3)} ± ${fmt(m.stderr, 3)} m_e${hole}${alpha}  ${provenance}`;
+  // A finite difference passes through its points: its stderr is the rounding alone, and the uncertainty to
+  // quote is its spread against the parabola fit on the same samples (as the editor's fit panel says).
+  const s = m.methodSpread;
+  const error = s ? Math.max(s.spread, m.stderr) : m.stderr;
+  const why = s ? `; ± is the spread against the ${s.against} fit at the same window (rounding alone ± ${m.stderr.toPrecision(2)})` : '';
+  return `      towards ${m.towards}${branch}: m* = ${fmt(m.mass, 3)} ± ${fmt(error, 3)} m_e${hole}${alpha}${why}  ${provenance}`;
 }
 
 const REASON_WORDS: Record<RejectedCandidate['reason'], string> = {
