@@ -106,6 +106,8 @@ export interface BandStructure {
   /** 'path' for line-mode runs, 'grid' for uniform meshes, 'points' when unknown. */
   sampling: 'path' | 'grid' | 'points';
   grid: KGrid | null;
+  /** The k-point mesh the run's input declares, when it says (checked against the points: meshRunAnalysis.ts). */
+  declaredMesh?: DeclaredMesh;
   /**
    * Path distance (Å⁻¹) as written by the file, for layouts that give distances but no k-points
    * (or when the lattice is unknown). Null when distances are computed from k-points.
@@ -258,6 +260,18 @@ export interface ExtremumReport extends BandPoint {
   warnings: string[];
 }
 
+/**
+ * A k-point mesh as an input file declares it (VASP's KPOINTS automatic forms or vasprun.xml's <generation>,
+ * pw.x's <monkhorst_pack>), in the convention k = (j + shift)/n of interpolation/regularMesh.ts.
+ */
+export interface DeclaredMesh {
+  divisions: [number, number, number];
+  /** Per axis, in units of the spacing, in [0, 1). */
+  shift: [number, number, number];
+  /** Where it is declared, for messages, e.g. 'the KPOINTS file (Gamma-centred)'. */
+  source: string;
+}
+
 /** An extremum found on the interpolated bands of a mesh run: its uncertainties (leave-one-out). */
 export interface InterpolatedExtremumInfo {
   /** Largest change of the energy when a star of nearby mesh points is left out, eV (null when unknown). */
@@ -282,6 +296,8 @@ export interface MeshInterpolationReport {
   stars: number;
   /** 1-based bands interpolated (first, last), per spin channel in order. */
   bands: [number, number][];
+  /** The input file that declares the mesh, when one does (a declared mesh other than the points' is a warning). */
+  declaredBy?: string;
 }
 
 /** Insulator/metal/semimetal classification of one spin channel (spin-polarised runs). */

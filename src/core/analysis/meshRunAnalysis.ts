@@ -5,6 +5,7 @@
  * interpolant, each with its leave-one-out uncertainty. Only the bands within `range_eV` of an edge (and one
  * neighbour each side, to see crossings) are fitted: the fit is shared, each band costs one solve.
  */
+import { declaredMeshAgrees, declaredMeshMismatch } from './declaredMesh';
 import type { AnalysisSettings } from './analyze';
 import type { EdgeInputs } from './massEngine';
 import type { BandStructure, ExtremumReport, GapReport, RejectedCandidate, Report, Vec3 } from '../model';
@@ -82,7 +83,10 @@ export function analyzeMeshRun(bs: BandStructure, report: Report, s: AnalysisSet
     irreduciblePoints: bs.nk,
     stars: first.fit.basis.count,
     bands: channels.map((c) => [c.firstBand + 1, c.lastBand + 1]),
+    ...(bs.declaredMesh && declaredMeshAgrees(bs.declaredMesh, first.mesh) ? { declaredBy: bs.declaredMesh.source } : {}),
   };
+  const mismatch = declaredMeshMismatch(bs.declaredMesh, first.mesh);
+  if (mismatch) report.warnings.push(mismatch);
   return null;
 }
 

@@ -15,7 +15,8 @@ export function interpolationLine(r: Report): string | null {
   if (!i) return null;
   const spin = (n: number): string => (i.bands.length === 2 ? ` (spin ${n === 0 ? 'up' : 'down'})` : '');
   const bands = i.bands.map(([a, b], n) => `${a === b ? `band ${a}` : `bands ${a}–${b}`}${spin(n)}`).join(' and ');
-  return `  Mesh run: ${bands} interpolated from the ${i.divisions.join('×')} mesh (${i.irreduciblePoints} irreducible points, ${i.stars} star functions) by star-function interpolation with minimum Pickett–Krakauer–Allen roughness; the edges and masses below are interpolated.`;
+  const declared = i.declaredBy ? `, as ${i.declaredBy} declares` : '';
+  return `  Mesh run: ${bands} interpolated from the ${i.divisions.join('×')} mesh${declared} (${i.irreduciblePoints} irreducible points, ${i.stars} star functions) by star-function interpolation with minimum Pickett–Krakauer–Allen roughness; the edges and masses below are interpolated.`;
 }
 
 /** "± 0.3 meV (interpolated)" after a gap from interpolated edges; empty otherwise. */

@@ -47,6 +47,8 @@ export interface QeXmlOptions {
   /** Stop after this many k-points without closing the document (a file cut short). */
   truncateAfterK?: number;
   monkhorstPack?: [number, number, number];
+  /** pw.x's k1 k2 k3 of the mesh (1: offset by half a step), default 0 0 0. */
+  monkhorstOffset?: [number, number, number];
   /** Write <dft><functional>name</functional></dft> (e.g. 'PBE', 'HSE'); with `hybrid`, a <hybrid> block too. */
   functional?: string;
   hybrid?: boolean;
@@ -148,7 +150,8 @@ export function writeQeXml(bs: BandStructure, opts: QeXmlOptions = {}): string {
   out.push('      <starting_k_points>');
   if (opts.monkhorstPack) {
     const [a, b, c] = opts.monkhorstPack;
-    out.push(`        <monkhorst_pack nk1="${a}" nk2="${b}" nk3="${c}" k1="0" k2="0" k3="0">Monkhorst-Pack</monkhorst_pack>`);
+    const [o1, o2, o3] = opts.monkhorstOffset ?? [0, 0, 0];
+    out.push(`        <monkhorst_pack nk1="${a}" nk2="${b}" nk3="${c}" k1="${o1}" k2="${o2}" k3="${o3}">Monkhorst-Pack</monkhorst_pack>`);
   } else {
     out.push(`        <nk>${bs.nk}</nk>`);
   }

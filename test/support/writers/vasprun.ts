@@ -25,6 +25,8 @@ export interface VasprunOptions {
   parameterTags?: Record<string, string>;
   /** Write no <parameters> block. */
   noParameters?: boolean;
+  /** An automatic mesh's <generation> (param "Gamma" or "Monkhorst-Pack"), as VASP 5.4/6 writes it (memory). */
+  meshGeneration?: { param: string; divisions: string; usershift?: string };
 }
 
 const f = (x: number, w = 16, d = 8): string => fortranF(x, w, d);
@@ -55,6 +57,19 @@ export function writeVasprun(bs: BandStructure, opts: VasprunOptions = {}): stri
     );
     for (const e of opts.generation.ends) out.push(`   <v>${e.map((x) => f(x)).join('')} </v>`);
     out.push('  </generation>');
+  }
+  if (opts.meshGeneration) {
+    const g = opts.meshGeneration;
+    out.push(
+      `  <generation param="${g.param}">`,
+      `   <v type="int" name="divisions">${g.divisions} </v>`,
+      `   <v name="usershift">${g.usershift ?? '      0.00000000      0.00000000      0.00000000'} </v>`,
+      '   <v name="genvec1">      0.08333333      0.00000000      0.00000000 </v>',
+      '   <v name="genvec2">      0.00000000      0.08333333      0.00000000 </v>',
+      '   <v name="genvec3">      0.00000000      0.00000000      0.08333333 </v>',
+      '   <v name="shift">      0.00000000      0.00000000      0.00000000 </v>',
+      '  </generation>',
+    );
   }
   out.push('  <varray name="kpointlist" >');
   for (let k = 0; k < bs.nk; k++) out.push(`   <v>${[0, 1, 2].map((j) => f(bs.kpoints[3 * k + j]!)).join('')} </v>`);

@@ -64,6 +64,7 @@ export function qeXmlToBandStructure(data: QeXmlData, main: InputFile, options: 
     labels: [],
     sampling: data.meshSampling ? 'grid' : 'points',
     grid: null,
+    ...(data.declaredMesh ? { declaredMesh: data.declaredMesh } : {}),
     writtenDistance: null,
     partial: !data.complete,
     warnings,

@@ -28,7 +28,7 @@
  *
  * With lsda the eigenvalues of one k-point hold the spin-up bands, then the spin-down bands.
  */
-import type { Mat3, Structure } from '../../model';
+import type { DeclaredMesh, Mat3, Structure } from '../../model';
 import type { InputFile } from '../../io/fileAccessor';
 import type { ReadOptions } from '../types';
 import { ReaderError } from '../../errors';
@@ -74,6 +74,7 @@ export interface QeXmlData {
   complete: boolean;
   /** True when pw.x generated the k-points as a Monkhorst-Pack mesh (then they sample a grid, not a path). */
   meshSampling: boolean;
+  declaredMesh: DeclaredMesh | null;
   /** The exchange-correlation functional pw.x names in <dft><functional>, and whether a <hybrid> block follows. */
   functional: string | null;
   hybrid: boolean;
@@ -199,6 +200,7 @@ export function readQeXml(file: InputFile, options: ReadOptions = {}): QeXmlData
     announcedK,
     complete: outcome.complete,
     meshSampling: walk.meshSampling,
+    declaredMesh: walk.declaredMesh,
     functional: walk.functional,
     hybrid: walk.hybrid,
     lowestUnoccupied: num('lowestUnoccupiedLevel') === null ? null : hartreeToEv(num('lowestUnoccupiedLevel')!),

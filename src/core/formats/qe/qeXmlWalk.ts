@@ -4,7 +4,7 @@
  * <band_structure> and, per <ks_energies>, one k-point with its weight, eigenvalues and occupations. Each
  * element is handled where it opens or closes; the checks that need the whole file are in qeXmlScan.ts.
  */
-import type { Mat3, Vec3 } from '../../model';
+import type { DeclaredMesh, Mat3, Vec3 } from '../../model';
 import type { ReaderError } from '../../errors';
 import { numberAttribute, type XmlEvents } from '../xmlSafety';
 import { scanNumbers } from '../numbers';
@@ -38,6 +38,8 @@ export class QeXmlWalk implements XmlEvents {
   /** <ks_energies> blocks read whole. */
   kComplete = 0;
   meshSampling = false;
+  /** The mesh <monkhorst_pack> declares, when its attributes state one (checked against the points later). */
+  declaredMesh: DeclaredMesh | null = null;
   functional: string | null = null;
   hybrid = false;
 
@@ -85,6 +87,7 @@ export class QeXmlWalk implements XmlEvents {
       this.hybrid = true;
     } else if (name === 'monkhorst_pack' && parent === 'starting_k_points' && section(path) === 'output') {
       this.meshSampling = true;
+      this.declaredMesh = qeDeclaredMesh(attrs);
     } else if (name === 'ks_energies') {
       this.kSeen = true;
       this.kWeight = null;
@@ -193,4 +196,21 @@ export class QeXmlWalk implements XmlEvents {
       throw this.fail(line, `the block of k-point ${k} (<ks_energies>) should hold exactly one <occupations>`);
     this.kComplete++;
   }
+}
+
+/**
+ * pw.x's <monkhorst_pack nk1 nk2 nk3 k1 k2 k3>: an nk1×nk2×nk3 mesh through Γ, offset by half a step along
+ * each axis whose k is 1 (pw.x's documented K_POINTS automatic). Null unless the attributes are whole numbers
+ * in range (hostile input: a declared mesh is only compared, never allocated).
+ */
+function qeDeclaredMesh(attrs: Record<string, string>): DeclaredMesh | null {
+  const n = ['nk1', 'nk2', 'nk3'].map((a) => numberAttribute(attrs, a));
+  const k = ['k1', 'k2', 'k3'].map((a) => numberAttribute(attrs, a) ?? 0);
+  if (!n.every((x) => x !== null && Number.isInteger(x) && x >= 1 && x <= 1000)) return null;
+  if (!k.every((x) => x === 0 || x === 1)) return null;
+  return {
+    divisions: n as [number, number, number],
+    shift: k.map((x) => x / 2) as [number, number, number],
+    source: 'the pw.x data file (<monkhorst_pack>)',
+  };
 }

@@ -13,6 +13,7 @@ import { readPoscarWithScale } from './poscar';
 import { placeLineModeLabels, readKpointsCompanion } from './kpointLabels';
 import { vaspBandStructure } from './vaspBandStructure';
 import { readIncar } from './incar';
+import { declaredMeshOfKpoints } from './kpointsMesh';
 import { modelMethodFromSystem, vaspMethod } from './vaspMethod';
 
 const STRUCTURE_NAMES = ['CONTCAR', 'POSCAR'];
@@ -118,7 +119,11 @@ export const vaspEigenvalReader: FormatReader = {
         return { labels: [], sampling: 'points' };
       }
       const content = readKpointsCompanion(kfile, files, warnings);
-      if (content?.mode !== 'line') return { labels: [], sampling: content ? 'grid' : 'points' };
+      if (content?.mode !== 'line') {
+        // An automatic mesh: what it declares is checked against the points by the analysis.
+        const declaredMesh = content ? declaredMeshOfKpoints(kfile.bytes, lattice, basename(kfile.path)) : null;
+        return { labels: [], sampling: content ? 'grid' : 'points', declaredMesh };
+      }
       const overScale = structure ? (structure.lattice.map((row) => row.map((x) => x / scale)) as Mat3) : null;
       return { labels: placeLineModeLabels(content.path, kpoints, nk, overScale, kfile.path, warnings), sampling: 'path' };
     });

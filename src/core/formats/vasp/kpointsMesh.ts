@@ -5,7 +5,7 @@
  * line-mode reader (kpoints.ts) is separate. The mesh is stated as divisions n and a shift s per axis in the
  * convention k = (j + s)/n of interpolation/regularMesh.ts, so the two can be compared.
  */
-import type { Mat3 } from '../../model';
+import type { DeclaredMesh, Mat3 } from '../../model';
 
 export interface RequestedMesh {
   centring: 'gamma' | 'monkhorst-pack';
@@ -48,7 +48,7 @@ export function readKpointsMeshHeader(text: string): KpointsMeshHeader {
       reason: `Line 3 of the KPOINTS file ("${(lines[2] ?? '').trim().slice(0, 40)}") names no mesh kind this reads (Gamma, Monkhorst-Pack, Auto).`,
     };
   const n = numbers(lines[3]);
-  if (n.length !== 3 || !n.every((x) => Number.isInteger(x) && x >= 1 && x <= MAX_DIVISIONS)) {
+  if (!plausibleDivisions(n)) {
     return {
       kind: 'not-a-mesh',
       reason: `Line 4 of the KPOINTS file does not give three whole numbers of divisions between 1 and ${MAX_DIVISIONS}.`,
@@ -56,13 +56,22 @@ export function readKpointsMeshHeader(text: string): KpointsMeshHeader {
   }
   const extra = numbers(lines[4]);
   const user = extra.length === 3 && extra.every(Number.isFinite) ? extra : [0, 0, 0];
-  const centring = mode === 'g' ? 'gamma' : 'monkhorst-pack';
+  return { kind: 'mesh', mesh: requestedMesh(mode === 'g' ? 'gamma' : 'monkhorst-pack', n, user) };
+}
+
+/** A mesh from VASP's centring, divisions and user shift (units of the spacing), in the convention above. */
+export function requestedMesh(centring: RequestedMesh['centring'], n: [number, number, number], user: readonly number[]): RequestedMesh {
   // Monkhorst–Pack: k = (j + ½)/n − ½ per axis, i.e. offset ½ from Γ for even n, none for odd n.
   const shift = n.map((ni, a) => {
     const s = (centring === 'monkhorst-pack' && ni % 2 === 0 ? 0.5 : 0) + user[a]!;
     return s - Math.floor(s);
   }) as [number, number, number];
-  return { kind: 'mesh', mesh: { centring, divisions: n as [number, number, number], shift } };
+  return { centring, divisions: [...n], shift };
+}
+
+/** Divisions a declared mesh may have: whole numbers from 1 to MAX_DIVISIONS (hostile input is only compared). */
+export function plausibleDivisions(n: readonly number[]): n is [number, number, number] {
+  return n.length === 3 && n.every((x) => Number.isInteger(x) && x >= 1 && x <= MAX_DIVISIONS);
 }
 
 /**
@@ -80,4 +89,25 @@ export function automaticDivisions(length: number, lattice: Mat3): [number, numb
   return [cross(a2, a3), cross(a3, a1), cross(a1, a2)].map((c) =>
     Math.max(1, Math.floor((length * Math.hypot(c[0]!, c[1]!, c[2]!)) / Math.abs(vol) + 0.5)),
   ) as [number, number, number];
+}
+
+/**
+ * The mesh a KPOINTS file declares, in the form the analysis checks against the points (null when it declares
+ * none: a path, a list, or a header this does not read). `lattice` (Å) turns a fully automatic length into
+ * divisions; without it that form declares nothing stated here.
+ */
+export function declaredMeshOfKpoints(bytes: Uint8Array, lattice: Mat3 | null, fileName: string): DeclaredMesh | null {
+  const h = readKpointsMeshHeader(new TextDecoder().decode(bytes.subarray(0, 4096)));
+  if (h.kind === 'mesh') {
+    const kind = h.mesh.centring === 'gamma' ? 'Γ-centred' : 'Monkhorst–Pack';
+    return { divisions: [...h.mesh.divisions], shift: [...h.mesh.shift], source: `${fileName} (${kind})` };
+  }
+  if (h.kind === 'auto-length' && lattice) {
+    return {
+      divisions: automaticDivisions(h.length, lattice),
+      shift: [0, 0, 0],
+      source: `${fileName} (fully automatic, length ${h.length})`,
+    };
+  }
+  return null;
 }

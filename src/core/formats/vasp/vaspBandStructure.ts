@@ -2,7 +2,7 @@
  * The BandStructure both VASP readers (EIGENVAL, vasprun.xml) build, in one place: the hybrid-functional mesh
  * dropped by its one rule (hybridMesh.ts), the path labels placed on what is left, the arrays handed over.
  */
-import type { BandStructure, KLabel, SourceFile } from '../../model';
+import type { BandStructure, DeclaredMesh, KLabel, SourceFile } from '../../model';
 import { dropMeshBeforePath, type KArrays } from './hybridMesh';
 
 /** What a VASP reader found beside the arrays. */
@@ -12,7 +12,7 @@ export type VaspFindings = Pick<BandStructure, 'lattice' | 'structure' | 'fermiE
 export type VaspArrays = KArrays & { nBands: number; nSpin: 1 | 2; electrons: number | null };
 
 /** Labels and sampling for the k-points kept (`placeLabels` sees the arrays after the mesh is dropped). */
-export type LabelPlacer = (kept: KArrays) => { labels: KLabel[]; sampling: BandStructure['sampling'] };
+export type LabelPlacer = (kept: KArrays) => { labels: KLabel[]; sampling: BandStructure['sampling']; declaredMesh?: DeclaredMesh | null };
 
 export function vaspBandStructure(
   source: { format: string; file: string; files: SourceFile[] },
@@ -23,7 +23,7 @@ export function vaspBandStructure(
   const dropped = dropMeshBeforePath(data, data.nBands);
   if (dropped.warning) found.warnings.push(dropped.warning);
   const kept = dropped.arrays;
-  const { labels, sampling } = placeLabels(kept);
+  const { labels, sampling, declaredMesh } = placeLabels(kept);
   return {
     source,
     ...found,
@@ -39,5 +39,6 @@ export function vaspBandStructure(
     sampling,
     grid: null,
     writtenDistance: null,
+    ...(declaredMesh ? { declaredMesh } : {}),
   };
 }

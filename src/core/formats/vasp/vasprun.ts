@@ -84,7 +84,7 @@ export function vasprunToBandStructure(
   const lattice = structure?.lattice ?? options.lattice ?? null;
   const found = { lattice, structure, fermiEnergy: data.fermiEnergy, spinorbit, method: data.method, partial: !data.complete, warnings };
   return vaspBandStructure(source, data, found, ({ kpoints, nk }) => {
-    if (!data.generation) return { labels: [], sampling: 'points' };
+    if (!data.generation) return { labels: [], sampling: 'points', declaredMesh: data.declaredMesh };
     // Labels: a KPOINTS file in line mode beside the run names the ends VASP lists here; the positions
     // vasprun.xml lists are fractional, as the path's ends are when given in reciprocal coordinates.
     const kfile = companions.find((c) => /KPOINTS/i.test(basename(c.path)));

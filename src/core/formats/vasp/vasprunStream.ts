@@ -25,7 +25,7 @@
  * Eigenvalues inside <projected> (and VASP 6's <eigenvalues_kpoints_opt>) are other blocks: only the
  * <eigenvalues> directly inside <calculation> are read.
  */
-import type { ElectronicMethod, OccupationArray, Structure, Vec3 } from '../../model';
+import type { DeclaredMesh, ElectronicMethod, OccupationArray, Structure, Vec3 } from '../../model';
 import { basename } from '../../io/fileAccessor';
 import { ReaderError } from '../../errors';
 import { parseDecimal, scanDecimalBytes } from '../numbers';
@@ -34,6 +34,7 @@ import { vasprunTagFacts } from './vaspMethod';
 import { chosenStructure, type StructureDraft } from './vasprunStructure';
 import { DoubleBuffer } from '../doubleBuffer';
 import { EigenvalueBlock, readVectorRows } from './vasprunEigenvalues';
+import { VasprunMeshGeneration } from './vasprunMeshGeneration';
 
 export const VASPRUN_FORMAT = 'vasprun-xml';
 
@@ -55,6 +56,8 @@ export interface VasprunData {
   method: ElectronicMethod;
   /** Line-mode generation: points per segment and the segment ends (fractional), when written. */
   generation: { divisions: number; ends: Vec3[] } | null;
+  /** A Γ-centred or Monkhorst–Pack mesh the <generation> declares. */
+  declaredMesh: DeclaredMesh | null;
   /** False when the file ended early (only with allowPartial). */
   complete: boolean;
   /** Ionic steps whose eigenvalues were seen; the last complete one is kept. */
@@ -75,6 +78,7 @@ export class VasprunStream {
   private inGeneration = false;
   private inAtomsArray = false;
   private generation: { divisions: number; ends: Vec3[] } | null = null;
+  private readonly meshGeneration = new VasprunMeshGeneration();
   private readonly kpointList = new DoubleBuffer(3 * 256);
   private readonly weightList = new DoubleBuffer(256);
   private kpointsDone = false;
@@ -151,6 +155,7 @@ export class VasprunStream {
         return false;
       case 'v':
         if (this.inGeneration) return sc.ancestor(1) === 'generation';
+        if (this.meshGeneration.active) return sc.ancestor(1) === 'generation' && this.meshGeneration.openV(attrs?.name);
         if (sc.ancestor(1) !== 'varray') return false;
         if (depth === 4 && !this.kpointsDone && sc.ancestor(2) === 'kpoints')
           return this.varrayName === 'kpointlist' || this.varrayName === 'weights';
@@ -191,7 +196,7 @@ export class VasprunStream {
         if (depth === 3 && sc.ancestor(1) === 'kpoints' && /^listgenerated$/i.test(attrs?.param ?? '')) {
           this.inGeneration = true;
           this.generation = { divisions: 0, ends: [] };
-        }
+        } else if (depth === 3 && sc.ancestor(1) === 'kpoints') this.meshGeneration.start(attrs?.param);
         return false;
       case 'structure':
         this.draft = { name: attrs?.name ?? '', basis: [], positions: [] };
@@ -236,6 +241,7 @@ export class VasprunStream {
       }
       case 'v': {
         if (text === null) return;
+        if (this.meshGeneration.active) return this.meshGeneration.closeV(this.numbers(text, length, 'a k-mesh generation vector', 3));
         if (this.inGeneration) {
           const v = this.numbers(text, length, 'a line-mode segment end', 3);
           this.generation?.ends.push([v[0]!, v[1]!, v[2]!]);
@@ -310,6 +316,7 @@ export class VasprunStream {
         return;
       case 'generation':
         this.inGeneration = false;
+        this.meshGeneration.end();
         return;
       case 'incar':
         if (depth === 2) this.inIncar = false;
@@ -371,6 +378,7 @@ export class VasprunStream {
       spinorbit,
       method,
       generation: gen,
+      declaredMesh: this.meshGeneration.declared(),
       complete: outcome.complete,
       steps: this.steps,
     };
