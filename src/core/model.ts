@@ -298,6 +298,8 @@ export interface MeshInterpolationReport {
   bands: [number, number][];
   /** The input file that declares the mesh, when one does (a declared mesh other than the points' is a warning). */
   declaredBy?: string;
+  /** Set when the file lists points equivalent by the crystal's symmetry (merged, one per star). */
+  mergedEquivalentPoints?: { listed: number; kept: number; largestDifference_eV: number };
 }
 
 /** Insulator/metal/semimetal classification of one spin channel (spin-polarised runs). */

@@ -13,7 +13,7 @@ import { analyzeExtrema, analyzePocketExtrema } from './massEngine';
 import { symmetryContext } from './valleyCount';
 import { valleyRepresentative } from '../lattice/valleyIdentity';
 import { analyzeMeshRun, mayBeMeshRun, meshRunCautions } from './meshRunAnalysis';
-import { declaredMeshNotUsed } from './declaredMesh';
+import { meshRunNotUsed } from './declaredMesh';
 
 export interface AnalysisSettings {
   /** Energy window of the parabola fit, meV. */
@@ -90,7 +90,7 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
     // A mesh run: edges and masses from the interpolated bands; otherwise (or when it cannot be interpolated) the points as they are.
     const meshRefusal = gap && mayBeMeshRun(bs, local !== null) ? analyzeMeshRun(bs, report, s, { occ, edges }) : 'not a mesh run';
     if (gap && meshRefusal !== null) {
-      if (bs.declaredMesh && mayBeMeshRun(bs, local !== null)) report.warnings.push(declaredMeshNotUsed(bs.declaredMesh, meshRefusal));
+      if (mayBeMeshRun(bs, local !== null)) report.warnings.push(meshRunNotUsed(bs.declaredMesh, meshRefusal));
       analyzeExtrema(bs, report, s, { occ, edges });
     } else if (metal && cls.fermi_eV !== null) {
       const crossing = cls.spins.flatMap((v) => v.crossing.map((band) => ({ spin: v.spin, band })));

@@ -40,9 +40,11 @@ export function declaredMeshMismatch(
   return `${capital(declared.source)} declares the mesh ${describeMesh(declared)}, but the k-points of the eigenvalue file form the mesh ${describeMesh(found)}: the input file beside the data may belong to another run (check the structure beside it too). The k-points in the eigenvalue file were used.`;
 }
 
-/** Why a declared mesh was not interpolated, for the report (the points did not form it, or another reason). */
-export function declaredMeshNotUsed(declared: DeclaredMesh, reason: string): string {
-  return `${capital(declared.source)} declares the mesh ${describeMesh(declared)}, but the run was not interpolated: ${reason.replace(/\.$/, '')}. The k-points are analysed as they are.`;
+/** Why a run of scattered points (a declared mesh or not) was not interpolated as a mesh run, for the report. */
+export function meshRunNotUsed(declared: DeclaredMesh | undefined, reason: string): string {
+  const why = reason.replace(/\.$/, '');
+  if (!declared) return `The k-points were not interpolated as a mesh run: ${why}. They are analysed as they are.`;
+  return `${capital(declared.source)} declares the mesh ${describeMesh(declared)}, but the run was not interpolated: ${why}. The k-points are analysed as they are.`;
 }
 
 const capital = (s: string): string => s.charAt(0).toUpperCase() + s.slice(1);

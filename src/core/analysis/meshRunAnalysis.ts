@@ -80,9 +80,10 @@ export function analyzeMeshRun(bs: BandStructure, report: Report, s: AnalysisSet
     reference: STAR_INTERPOLATION_REFERENCE,
     divisions: [...first.mesh.divisions],
     shift: [...first.mesh.shift],
-    irreduciblePoints: bs.nk,
+    irreduciblePoints: first.input.kpoints.length / 3,
     stars: first.fit.basis.count,
     bands: channels.map((c) => [c.firstBand + 1, c.lastBand + 1]),
+    ...(first.merged ? { mergedEquivalentPoints: { ...first.merged } } : {}),
     ...(bs.declaredMesh && declaredMeshAgrees(bs.declaredMesh, first.mesh) ? { declaredBy: bs.declaredMesh.source } : {}),
   };
   const mismatch = declaredMeshMismatch(bs.declaredMesh, first.mesh);

@@ -8,6 +8,7 @@
  * extremum, the extremum is set aside as a crossing (or flagged degenerate at a symmetry point) rather than
  * given masses of one index through a degeneracy.
  */
+import { mergeEquivalentPoints, type MergedPoints } from './equivalentPoints';
 import type { Mat3, Vec3 } from '../model';
 import { cartesianToFractional, reciprocalLattice } from '../lattice/reciprocal';
 import { valleyDegeneracy, type CrystalSymmetry } from '../lattice/symmetry';
@@ -106,6 +107,8 @@ export class MeshInterpolation {
   private readonly cache = new Map<number, StarInterpolant>();
   /** Half the shortest mesh spacing, Å⁻¹. */
   readonly halfSpacing: number;
+  /** Set when the file listed points equivalent by symmetry and they were merged (equivalentPoints.ts). */
+  merged: MergedPoints | null = null;
 
   private constructor(
     readonly input: MeshRunInput,
@@ -132,8 +135,16 @@ export class MeshInterpolation {
         if (!Number.isFinite(b[k])) return { run: null, reason: `Band ${i + 1} has energies that are not finite numbers.` };
       }
     }
-    const rec = recogniseMesh(input.kpoints, input.weights, input.sym.reciprocalPointGroup);
+    const rec = recogniseMesh(input.kpoints, input.weights, input.sym.reciprocalPointGroup, { mergeEquivalent: true });
     if (!rec.mesh) return { run: null, reason: rec.reason };
+    if (rec.mesh.duplicateOf) {
+      // Points equivalent by symmetry listed more than once (a run reduced by fewer operations): one per star.
+      const m = mergeEquivalentPoints(input, rec.mesh.duplicateOf);
+      if (!m.input) return { run: null, reason: m.reason };
+      const made = MeshInterpolation.create(m.input);
+      if (made.run) made.run.merged = m.merged;
+      return made;
+    }
     if (nk < 2) return { run: null, reason: 'One k-point cannot be interpolated.' };
     return { run: new MeshInterpolation(input, rec.mesh), reason: null };
   }

@@ -116,7 +116,8 @@ export function meshRunPointsOnPath(
 ): { points: MeshPointsWithEnergies; reason: null } | { points: null; reason: string } {
   const ctx = symmetryContext(run);
   if (!ctx.sym) return { points: null, reason: ctx.unavailable ?? 'The crystal symmetry is unknown.' };
-  const rec = recogniseMesh(run.kpoints, run.weights, ctx.sym.reciprocalPointGroup);
+  // Points listed more than once by symmetry (a run reduced by fewer operations) are drawn with the first one's energies.
+  const rec = recogniseMesh(run.kpoints, run.weights, ctx.sym.reciprocalPointGroup, { mergeEquivalent: true });
   if (!rec.mesh) return { points: null, reason: rec.reason };
   const on = meshPointsOnPath(rec.mesh, path);
   const count = on.irreducible.length;

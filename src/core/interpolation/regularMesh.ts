@@ -11,6 +11,11 @@
 import type { Mat3 } from '../model';
 
 export interface RegularMesh {
+  /**
+   * Only with `mergeEquivalent`: for each listed point, the earlier listed point it is equivalent to by symmetry
+   * (−1 for the first of its star). Absent when no two listed points are equivalent.
+   */
+  duplicateOf?: Int32Array;
   divisions: [number, number, number];
   /** 0 or ½ per axis. */
   shift: [number, number, number];
@@ -63,7 +68,12 @@ function offMesh(x: number, n: number, s: number): number {
  * `kFrac`: nk × 3 fractional k-points; `weights`: their weights (any normalisation) or null; `reciprocalOps`:
  * the point group acting on fractional k (CrystalSymmetry.reciprocalPointGroup).
  */
-export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | null, reciprocalOps: readonly Mat3[]): MeshRecognition {
+export function recogniseMesh(
+  kFrac: Float64Array,
+  weights: ArrayLike<number> | null,
+  reciprocalOps: readonly Mat3[],
+  options: { mergeEquivalent?: boolean } = {},
+): MeshRecognition {
   const nk = kFrac.length / 3;
   if (!Number.isInteger(nk) || nk < 1) return { mesh: null, reason: 'There are no k-points.' };
   if (!Array.from(kFrac).every(Number.isFinite)) return { mesh: null, reason: 'Some k-points are not finite numbers.' };
@@ -115,6 +125,8 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
   const irreducibleOf = new Int32Array(total).fill(-1);
   const starSize = new Int32Array(nk);
   const wrap = (x: number, n: number, s: number): number => ((Math.round(x * n - s) % n) + n) % n;
+  // A point whose first image belongs to an earlier point's star lies wholly in it (stars are disjoint).
+  let duplicateOf: Int32Array | null = null;
   for (let i = 0; i < nk; i++) {
     for (let t = 3 * per * i; t < 3 * per * (i + 1); t += 3) {
       const j = (wrap(all[t]!, n1, shift[0]!) * n2 + wrap(all[t + 1]!, n2, shift[1]!)) * n3 + wrap(all[t + 2]!, n3, shift[2]!);
@@ -123,10 +135,15 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
         irreducibleOf[j] = i;
         starSize[i]!++;
       } else if (owner !== i) {
-        return {
-          mesh: null,
-          reason: `k-points ${owner + 1} and ${i + 1} are equivalent by symmetry: the list is not an irreducible set for this crystal.`,
-        };
+        if (!options.mergeEquivalent || t !== 3 * per * i) {
+          return {
+            mesh: null,
+            reason: `k-points ${owner + 1} and ${i + 1} are equivalent by symmetry: the list is not an irreducible set for this crystal.`,
+          };
+        }
+        duplicateOf ??= new Int32Array(nk).fill(-1);
+        duplicateOf[i] = owner;
+        break;
       }
     }
   }
@@ -148,9 +165,20 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
       sum += w;
     }
     if (!(sum > 0)) return { mesh: null, reason: 'The k-point weights do not add up to a positive number.' };
+    // Points equivalent to an earlier one (merged) add their weight to its star's.
+    const starWeight = Float64Array.from({ length: nk }, (_, i) => weights[i]!);
+    if (duplicateOf) {
+      for (let i = 0; i < nk; i++) {
+        if (duplicateOf[i]! >= 0) {
+          starWeight[duplicateOf[i]!]! += starWeight[i]!;
+          starWeight[i] = 0;
+        }
+      }
+    }
     for (let i = 0; i < nk; i++) {
+      if (duplicateOf && duplicateOf[i]! >= 0) continue;
       const expected = starSize[i]! / total;
-      const got = weights[i]! / sum;
+      const got = starWeight[i]! / sum;
       if (Math.abs(got - expected) > 1e-3 * expected + 1e-7) {
         return {
           mesh: null,
@@ -159,7 +187,9 @@ export function recogniseMesh(kFrac: Float64Array, weights: ArrayLike<number> | 
       }
     }
   }
-  return { mesh: { divisions: [n1, n2, n3], shift: shift as [number, number, number], total, irreducibleOf, starSize }, reason: null };
+  const mesh: RegularMesh = { divisions: [n1, n2, n3], shift: shift as [number, number, number], total, irreducibleOf, starSize };
+  if (duplicateOf) mesh.duplicateOf = duplicateOf;
+  return { mesh, reason: null };
 }
 
 /**

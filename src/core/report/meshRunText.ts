@@ -16,7 +16,11 @@ export function interpolationLine(r: Report): string | null {
   const spin = (n: number): string => (i.bands.length === 2 ? ` (spin ${n === 0 ? 'up' : 'down'})` : '');
   const bands = i.bands.map(([a, b], n) => `${a === b ? `band ${a}` : `bands ${a}–${b}`}${spin(n)}`).join(' and ');
   const declared = i.declaredBy ? `, as ${i.declaredBy} declares` : '';
-  return `  Mesh run: ${bands} interpolated from the ${i.divisions.join('×')} mesh${declared} (${i.irreduciblePoints} irreducible points, ${i.stars} star functions) by star-function interpolation with minimum Pickett–Krakauer–Allen roughness; the edges and masses below are interpolated.`;
+  const m = i.mergedEquivalentPoints;
+  const merged = m
+    ? ` The file lists points equivalent by the crystal's symmetry (a run reduced by fewer operations, e.g. VASP's ISYM = 0 or −1): its ${m.listed} points were read as ${m.kept}, one per star (their energies agree within ${(1000 * m.largestDifference_eV).toFixed(2)} meV).`
+    : '';
+  return `  Mesh run: ${bands} interpolated from the ${i.divisions.join('×')} mesh${declared} (${i.irreduciblePoints} irreducible points, ${i.stars} star functions) by star-function interpolation with minimum Pickett–Krakauer–Allen roughness; the edges and masses below are interpolated.${merged}`;
 }
 
 /** "± 0.3 meV (interpolated)" after a gap from interpolated edges; empty otherwise. */
