@@ -16,6 +16,7 @@ import { positionOnGammaLine } from '../../src/core/interpolation/linePosition';
 import type { BandDerivatives, SmoothBand } from '../../src/core/interpolation/starInterpolant';
 import { nearbyTouching } from '../../src/core/analysis/meshRunTouching';
 import { refineOnTouchingLine } from '../../src/core/analysis/meshRunLinePair';
+import { massesAtEvenMeshPoint } from '../../src/core/analysis/meshRunLineMass';
 import { MATERIALS, type EpmMaterial } from './materials';
 import { epmMeshRun } from './meshRunModel';
 import { fitLocalPair, pairSamples } from './pairInvariantTrial';
@@ -106,6 +107,13 @@ function survey({ material, n }: Case): void {
   );
   const quoted = x.uncertainty.masses.map((u, i) => `${(100 * (u / Math.abs(x.masses[i]!))).toFixed(0)} %`).join(' ');
   row('star', x.kCartesian, x.energy_eV, x.masses, `determined ${x.determined} (leave-one-out ${quoted})`);
+  // What the analysis adopts at an unresolved extremum on an even mesh point (even-line).
+  const atPoint = massesAtEvenMeshPoint(run, x, 'star-interpolation');
+  if (atPoint) {
+    const y = atPoint.extremum;
+    const quotedLine = y.uncertainty.masses.map((u, i) => `${(100 * (u / Math.abs(y.masses[i]!))).toFixed(0)} %`).join(' ');
+    row('star+even-line', y.kCartesian, y.energy_eV, y.masses, `quoted ${atPoint.axes.determined.join(' ')} (${quotedLine})`);
+  }
   // What the analysis adopts when a neighbouring band touches the extremum's band nearby (pair-line).
   const touching = nearbyTouching(run, x);
   const refined = touching ? refineOnTouchingLine(run, x, touching, 'star-interpolation') : null;

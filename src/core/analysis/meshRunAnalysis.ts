@@ -24,6 +24,7 @@ import {
 } from './meshRunExtremum';
 import { nearbyTouching, touchingWarning, type NearbyTouching } from './meshRunTouching';
 import { refineOnTouchingLine, type AxisProvenance } from './meshRunLinePair';
+import { massesAtEvenMeshPoint } from './meshRunLineMass';
 
 /** One spin channel's interpolated edges and extrema. */
 interface ChannelResult {
@@ -131,7 +132,10 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
         const c = meshRejected(x, ctx);
         if (c) rejected.push(c);
       }
-      return r.extrema.map((x) => {
+      return r.extrema.map((found) => {
+        const atPoint = massesAtEvenMeshPoint(run, found, STAR_INTERPOLATION);
+        if (atPoint) axes.set(atPoint.extremum, atPoint.axes);
+        const x = atPoint?.extremum ?? found;
         const t = noteNearbyTouching(run, x, ctx);
         const refined = t ? refineOnTouchingLine(run, x, t, STAR_INTERPOLATION) : null;
         if (!refined) return x;
