@@ -170,6 +170,11 @@ describe('an EPM silicon mesh run through loadRun and analyze', function () {
         cbm.tensor?.determined,
         cbm.masses.every((m) => m.determined),
       );
+      // The interpolant's saddle there is no longer listed as a candidate set aside.
+      assert.ok(
+        !(r.rejected ?? []).some((c) => c.band === cbm.band && c.k.every((v, i) => Math.abs(v - cbm.k[i]!) < 1e-9)),
+        JSON.stringify(r.rejected),
+      );
     } finally {
       rmSync(geDir, { recursive: true, force: true });
     }

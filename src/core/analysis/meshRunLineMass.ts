@@ -98,7 +98,7 @@ export function massesAtEvenMeshPoint(
   };
   if (determined) delete extremum.undeterminedReason;
   else {
-    const bad = [0, 1, 2].filter((i) => !ok[i]).map((i) => `${i === axis ? 'along' : 'across'} the line ±${percent(i)} %`);
+    const bad = [...new Set([0, 1, 2].filter((i) => !ok[i]).map((i) => `${i === axis ? 'along' : 'across'} the line ±${percent(i)} %`))];
     extremum.undeterminedReason = `Masses not all quoted (limit ${100 * MASS_UNCERTAINTY_LIMIT} %): ${bad.join(', ')}: the mesh is too coarse for this valley.`;
   }
   return { extremum, axes: { methods: masses.map((_, i) => (i === axis ? EVEN_LINE : starMethod)), determined: ok } };
