@@ -77,7 +77,7 @@ export function massesAtEvenMeshPoint(
   const ok = stderr.map((u, i) => u <= MASS_UNCERTAINTY_LIMIT * Math.abs(masses[i]!));
   const determined = ok.every(Boolean);
   const percent = (i: number): string => ((100 * stderr[i]!) / Math.abs(masses[i]!)).toFixed(1);
-  const lineNote = `The interpolation does not resolve this extremum (it curves the wrong way along one axis); ${x.kind === 'min' ? 'a minimum' : 'a maximum'} by symmetry at an even point. The mass along the line to Γ comes from the band's ${fit.points} mesh points on that line (${EVEN_LINE}: polynomial of order ${fit.order} in q², ±${percent(axis)} %); across it, from the interpolant's curvature at this point (leave-one-out ±${[
+  const lineNote = `The interpolation does not resolve this extremum (it finds a saddle); the point is stationary by symmetry (twice its k is a reciprocal lattice vector). The mass along the line to Γ comes from the band's ${fit.points} mesh points on that line (${EVEN_LINE}: polynomial of order ${fit.order} in q², ±${percent(axis)} %); across it, from the interpolant's curvature at this point (leave-one-out ±${[
     0, 1, 2,
   ]
     .filter((i) => i !== axis)
