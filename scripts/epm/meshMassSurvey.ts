@@ -2,7 +2,8 @@
  * How well masses, valley positions and gaps come out of ordinary mesh runs of the EPM crystals
  * (Cohen & Bergstresser, Phys. Rev. 141, 789 (1966)), against the same model solved densely: the lowest
  * conduction extremum (band 5) found by the analysis' star interpolation, and by two trial local models
- * (pairInvariantTrial.ts; a two-band Kane transform of the band, Kane 1957), beside the model's own minimum
+ * (pairInvariantTrial.ts; a two-band Kane transform of the band, Kane 1957) and the invariants of an isolated
+ * band group (groupInvariantTrial.ts), beside the model's own minimum
  * and its mass tensor by central differences (step 0.005 Å⁻¹). A measurement, not a test: it prints a table.
  *
  *   npx tsx scripts/epm/meshMassSurvey.ts [si:12 si:16 ge:12 gaas:12]
@@ -16,13 +17,18 @@ import { positionOnGammaLine } from '../../src/core/interpolation/linePosition';
 import type { BandDerivatives, SmoothBand } from '../../src/core/interpolation/starInterpolant';
 import { nearbyTouching } from '../../src/core/analysis/meshRunTouching';
 import { refineOnTouchingLine } from '../../src/core/analysis/meshRunLinePair';
+import { massesAtEvenMeshPoint } from '../../src/core/analysis/meshRunLineMass';
 import { MATERIALS, type EpmMaterial } from './materials';
 import { epmMeshRun } from './meshRunModel';
 import { fitLocalPair, pairSamples } from './pairInvariantTrial';
+import { candidateGroups, GroupInvariantBand, isolatedGroups } from './groupInvariantTrial';
+import { nearestIrreducible } from '../../src/core/interpolation/extremumUncertainty';
 
 const BANDS = 8;
 const CB = 4; // 0-based: band 5, the lowest conduction band of the four-band valence crystals
 const H = 0.005; // Å⁻¹, central-difference step of the reference
+/** Two bands whose smallest separation over the mesh exceeds this bound two isolated groups (eV). */
+const GROUP_MARGIN_EV = 0.01;
 
 interface Case {
   material: EpmMaterial;
@@ -106,6 +112,13 @@ function survey({ material, n }: Case): void {
   );
   const quoted = x.uncertainty.masses.map((u, i) => `${(100 * (u / Math.abs(x.masses[i]!))).toFixed(0)} %`).join(' ');
   row('star', x.kCartesian, x.energy_eV, x.masses, `determined ${x.determined} (leave-one-out ${quoted})`);
+  // What the analysis adopts at an unresolved extremum on an even mesh point (even-line).
+  const atPoint = massesAtEvenMeshPoint(run, x, 'star-interpolation');
+  if (atPoint) {
+    const y = atPoint.extremum;
+    const quotedLine = y.uncertainty.masses.map((u, i) => `${(100 * (u / Math.abs(y.masses[i]!))).toFixed(0)} %`).join(' ');
+    row('star+even-line', y.kCartesian, y.energy_eV, y.masses, `quoted ${atPoint.axes.determined.join(' ')} (${quotedLine})`);
+  }
   // What the analysis adopts when a neighbouring band touches the extremum's band nearby (pair-line).
   const touching = nearbyTouching(run, x);
   const refined = touching ? refineOnTouchingLine(run, x, touching, 'star-interpolation') : null;
@@ -120,6 +133,25 @@ function survey({ material, n }: Case): void {
     if (!p || p.rejected) console.log(`${material.name} ${n}³ ${method.padEnd(14)} ${p ? p.rejected : 'no fit'}`);
     else row(method, p.k, p.energy, p.masses, note);
   };
+  // Trial 0: the band from the invariants of an isolated group holding it (groupInvariantTrial.ts), with the
+  // largest mass change when each of the 4 nearest irreducible points is left out.
+  const groups = isolatedGroups(bands, GROUP_MARGIN_EV);
+  const candidates = candidateGroups(groups, CB, bands.length, 8);
+  if (!candidates.length)
+    console.log(
+      `${material.name} ${n}³ group          none (isolated groups ${groups.map((g) => `${g.first + 1}–${g.last + 1}`).join(', ')})`,
+    );
+  for (const g of candidates) {
+    const make = (left: number | null): GroupInvariantBand =>
+      new GroupInvariantBand(g, CB, bands, (v, q) => run.fit.fit(v, q), left, run.fit.fit(bands[CB]!, left));
+    const p = refineExtremum(make(null), x.kCartesian, 'min', newton);
+    let spread = 0;
+    for (const left of nearestIrreducible(run.mesh, p.k, run.reciprocal, crystal.lattice, 4)) {
+      const again = refineExtremum(make(left), p.k, 'min', newton);
+      spread = Math.max(spread, again.rejected ? Infinity : Math.max(...again.masses.map((m, i) => Math.abs(m / p.masses[i]! - 1))));
+    }
+    show(`group ${g.first + 1}–${g.last + 1}`, p, `leave-one-out ${(100 * spread).toFixed(0)} %`);
+  }
   // Trial 1: the pair (bands 5 and 6) by its invariants, local polynomials about the interpolated extremum.
   for (const radius of [2, 2.5, 3]) {
     for (const degree of [3, 4]) {

@@ -7,8 +7,9 @@ import { loadRun } from '../../src/core/load';
 import { nodeFileAccessor } from '../../src/cli/nodeFileAccessor';
 import { analyzeBandStructure } from '../../src/core/analysis/analyze';
 import { summaryText } from '../../src/core/report/summaryText';
-import type { Report } from '../../src/core/model';
+import type { Report, Vec3 } from '../../src/core/model';
 import { curvatureToMass } from '../../src/core/units';
+import { cartesianToFractional, fractionalToCartesian, reciprocalLattice } from '../../src/core/lattice/reciprocal';
 import { EpmBandSolver } from '../../scripts/epm/bandSolver';
 import { unstrainedCrystal } from '../../scripts/epm/crystal';
 import { GERMANIUM, SILICON } from '../../scripts/epm/materials';
@@ -118,7 +119,7 @@ describe('an EPM silicon mesh run through loadRun and analyze', function () {
     assert.ok(Math.abs(g.eV - trueGap) <= g.uncertainty_eV, `${g.eV} vs ${trueGap} ± ${g.uncertainty_eV}`);
   });
 
-  it('germanium: the minimum at L (N_v = 4) is the CBM; an extremum the interpolation cannot resolve keeps the mesh energy and no masses', async () => {
+  it('germanium: the minimum at L (N_v = 4) is the CBM; along Γ–L the line fit gives m_l within 5 %, quoted; across, not quoted unless within its uncertainty', async () => {
     const geDir = mkdtempSync(join(tmpdir(), 'vs-meshrun-ge-'));
     try {
       const crystal = unstrainedCrystal(GERMANIUM);
@@ -128,16 +129,52 @@ describe('an EPM silicon mesh run through loadRun and analyze', function () {
       assert.equal(cbm.label, 'L'); // germanium's conduction minimum at L (Cohen & Bergstresser 1966; common practice)
       assert.equal(cbm.valleyDegeneracy, 4); // eight half-valleys at the zone faces: four (common practice)
       assert.equal(r.extrema.find((e) => e.kind === 'vbm')!.band, 4);
-      if (cbm.interpolated!.resolved) {
-        assert.ok(cbm.tensor && cbm.tensor.source === 'interpolated');
-      } else {
-        // L is a point of the Γ-centred 12³ mesh: the entry keeps the model's energy there, and no masses.
-        const atL = new EpmBandSolver(crystal).bandsAt([0.5, 0.5, 0.5], 8)[4]!;
-        assert.ok(Math.abs(cbm.eV - atL) < 2e-6, `${cbm.eV} vs ${atL}`);
-        assert.equal(cbm.tensor, null);
-        assert.deepEqual(cbm.masses, []);
-        assert.equal(r.gap!.uncertainty_eV, null);
+      // L is a point of the Γ-centred 12³ mesh: the entry keeps the model's energy there.
+      const solver = new EpmBandSolver(crystal);
+      const atL = solver.bandsAt([0.5, 0.5, 0.5], 8)[4]!;
+      assert.ok(Math.abs(cbm.eV - atL) < 2e-6, `${cbm.eV} vs ${atL}`);
+      // The model's gap from Γ (band 4) to L (band 5), both mesh points: within 2 meV.
+      const trueGe = atL - solver.bandsAt([0, 0, 0], 8)[3]!;
+      assert.ok(Math.abs(r.gap!.eV - trueGe) < 2e-3, `${r.gap!.eV} vs ${trueGe}`);
+      // Truth: the model's curvature at the reported k by central differences (step 0.005 Å⁻¹, as for silicon)
+      // along each principal axis the report gives (cartesian, turned fractional by the lattice).
+      const h = 0.005;
+      const truth = (d: readonly number[]): number => {
+        const e = (s: number): number =>
+          solver.bandsAt(
+            cartesianToFractional(
+              [0, 1, 2].map((i) => fractionalToCartesian(cbm.k, reciprocalLattice(crystal.lattice))[i]! + s * h * d[i]!) as Vec3,
+              crystal.lattice,
+            ),
+            8,
+          )[4]!;
+        return curvatureToMass((e(1) - 2 * e(0) + e(-1)) / (h * h));
+      };
+      const along = cbm.masses.find((m) => m.method === 'even-line');
+      assert.ok(along, JSON.stringify(cbm.masses));
+      const ml = truth(along.direction!);
+      assert.ok(Math.abs(along.mass / ml - 1) < 0.05, `${along.mass} vs ${ml}`);
+      assert.equal(along.determined, true);
+      assert.ok(Math.abs(along.mass - ml) <= 2 * along.stderr!, `${along.mass} vs ${ml} ± ${along.stderr}`);
+      // The line to Γ: the reported k is parallel to the line's direction (an L point of the star).
+      const kc = fractionalToCartesian(cbm.k, reciprocalLattice(crystal.lattice));
+      assert.ok(Math.abs(Math.abs(kc.reduce((acc, v, i) => acc + v * along.direction![i]!, 0)) / Math.hypot(...kc) - 1) < 1e-6);
+      // Across the line: the interpolant's curvature; quoted only when its leave-one-out change is within 10 %.
+      const across = cbm.masses.filter((x) => x.method === 'star-interpolation');
+      assert.equal(across.length, 2);
+      for (const m of across) {
+        if (m.determined) assert.ok(Math.abs(m.mass / truth(m.direction!) - 1) < 0.05, `${m.mass} vs ${truth(m.direction!)}`);
+        else assert.match(m.undeterminedReason ?? '', /across the line/);
       }
+      assert.equal(
+        cbm.tensor?.determined,
+        cbm.masses.every((m) => m.determined),
+      );
+      // The interpolant's saddle there is no longer listed as a candidate set aside.
+      assert.ok(
+        !(r.rejected ?? []).some((c) => c.band === cbm.band && c.k.every((v, i) => Math.abs(v - cbm.k[i]!) < 1e-9)),
+        JSON.stringify(r.rejected),
+      );
     } finally {
       rmSync(geDir, { recursive: true, force: true });
     }

@@ -25,6 +25,7 @@ import {
 } from './meshRunExtremum';
 import { nearbyTouching, touchingWarning, type NearbyTouching } from './meshRunTouching';
 import { refineOnTouchingLine, type AxisProvenance } from './meshRunLinePair';
+import { EVEN_LINE, massesAtEvenMeshPoint } from './meshRunLineMass';
 
 /** One spin channel's interpolated edges and extrema. */
 interface ChannelResult {
@@ -132,17 +133,24 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
   const collect = (from: number, to: number, kind: 'min' | 'max'): InterpolatedExtremum[] =>
     Array.from({ length: Math.max(0, to - from + 1) }, (_, i) => from + i).flatMap((b) => {
       const r = run.extrema(b - lo, kind);
-      for (const x of r.rejected) {
-        const c = meshRejected(x, ctx);
-        if (c) rejected.push(c);
-      }
-      return r.extrema.map((x) => {
+      const extrema = r.extrema.map((found) => {
+        const atPoint = massesAtEvenMeshPoint(run, found, STAR_INTERPOLATION);
+        if (atPoint) axes.set(atPoint.extremum, atPoint.axes);
+        const x = atPoint?.extremum ?? found;
         const t = noteNearbyTouching(run, x, ctx);
         const refined = t ? refineOnTouchingLine(run, x, t, STAR_INTERPOLATION) : null;
         if (!refined) return x;
         axes.set(refined.extremum, refined.axes);
         return refined.extremum;
       });
+      // The interpolant's saddle at a mesh extremum that the even line resolved is no longer a candidate set aside.
+      const resolvedHere = (k: Vec3): boolean =>
+        extrema.some((x) => axes.get(x)?.methods.includes(EVEN_LINE) && equivalentK(run.input.sym, x.k, k, 2e-4));
+      for (const x of r.rejected) {
+        const c = meshRejected(x, ctx);
+        if (c && !resolvedHere(x.k)) rejected.push(c);
+      }
+      return extrema;
     });
   // Valence: the searched bands below the conduction edge; conduction: those above the valence edge.
   const maxima = collect(first, cb - 1, 'max').sort((a, b) => b.energy_eV - a.energy_eV);

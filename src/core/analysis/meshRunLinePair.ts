@@ -13,6 +13,7 @@ import { cartesianToFractional } from '../lattice/reciprocal';
 import { curvatureToMass } from '../units';
 import { averagedFromPrincipal } from './averagedMasses';
 import type { NearbyTouching } from './meshRunTouching';
+import { gammaLinePoints } from './meshRunGammaLine';
 
 /** Method id of a mass along the line from the pair model. */
 export const PAIR_LINE = 'pair-line';
@@ -23,7 +24,6 @@ export interface AxisProvenance {
   determined: boolean[];
 }
 
-const gcd = (a: number, b: number): number => (b === 0 ? a : gcd(b, a % b));
 const dot = (a: readonly number[], b: readonly number[]): number => a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!;
 
 /** The refined extremum and its axes' provenance, or null when the line cannot be used (then keep x). */
@@ -33,9 +33,9 @@ export function refineOnTouchingLine(
   t: NearbyTouching,
   starMethod: string,
 ): { extremum: InterpolatedExtremum; axes: AxisProvenance } | null {
-  const { mesh, input } = run;
+  const { input } = run;
   // P fixed by inversion modulo G (s and d even about it), on a Γ-centred mesh (the line's points on the mesh).
-  if (mesh.shift.some((s) => s !== 0) || !t.k.every((v) => Math.abs(2 * v - Math.round(2 * v)) < 1e-9)) return null;
+  if (!t.k.every((v) => Math.abs(2 * v - Math.round(2 * v)) < 1e-9)) return null;
   let p: Vec3 = t.k;
   let pc = run.toCart(p);
   for (let a = -1; a <= 1; a++) {
@@ -54,29 +54,22 @@ export function refineOnTouchingLine(
   const lambda = dot(x.kCartesian, pc) / (len * len);
   const off = Math.hypot(...x.kCartesian.map((v, i) => v - lambda * pc[i]!));
   if (!(lambda > 0 && lambda < 1 && off < 1e-6 * len)) return null;
-  // The line Γ→P holds the mesh points P·m/M, M the gcd of P's integer mesh coordinates.
-  const ints = p.map((v, i) => v * mesh.divisions[i]!);
-  if (!ints.every((v) => Math.abs(v - Math.round(v)) < 1e-9)) return null;
-  const steps = ints.map((v) => Math.abs(Math.round(v))).reduce(gcd, 0);
+  // The line Γ→P's mesh points, from P towards Γ while the pair is closer to itself than to any other band.
+  const line = gammaLinePoints(run, p);
+  if (!line) return null;
   const [lo, hi] = x.band < t.band ? [x.band, t.band] : [t.band, x.band];
   const band = (b: number): Float64Array | null => input.bands[b] ?? null;
   const q: number[] = [];
   const lower: number[] = [];
   const upper: number[] = [];
-  // From P towards Γ while the pair is closer to itself than to any other band (isolated).
-  for (let m = steps; m >= 1; m--) {
-    const j = [0, 1, 2].reduce((acc, i) => {
-      const n = mesh.divisions[i]!;
-      return acc * n + (((((Math.round(ints[i]!) * m) / steps) % n) + n) % n);
-    }, 0);
-    const irr = mesh.irreducibleOf[j]!;
+  for (const [i, irr] of line.irreducible.entries()) {
     const e1 = band(lo)![irr]!;
     const e2 = band(hi)![irr]!;
     const below = band(lo - 1);
     const above = band(hi + 1);
     const outside = Math.min(below ? e1 - below[irr]! : Infinity, above ? above[irr]! - e2 : Infinity);
     if (!(e2 - e1 < outside)) break;
-    q.push((1 - m / steps) * len);
+    q.push(line.q[i]!);
     lower.push(e1);
     upper.push(e2);
   }

@@ -86,7 +86,7 @@ function meshPointAt(mesh: RegularMesh, k: Vec3, lattice: Mat3): number {
 }
 
 /** The `count` distinct irreducible points whose mesh images lie nearest to cartesian k. */
-function nearestIrreducible(mesh: RegularMesh, k: Vec3, b: Mat3, lattice: Mat3, count: number): number[] {
+export function nearestIrreducible(mesh: RegularMesh, k: Vec3, b: Mat3, lattice: Mat3, count: number): number[] {
   // Cartesian distance to each mesh point, with the fractional difference wrapped into [−½, ½).
   const kf = cartesianToFractional(k, lattice);
   const d2 = new Float64Array(mesh.total);

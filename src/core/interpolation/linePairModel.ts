@@ -38,7 +38,7 @@ export interface LinePairResult extends LinePairExtremum {
 }
 
 /** Least-squares coefficients of Σ_i c_i (q²)^i, i = 0…order; null when singular. */
-function fitEven(q: readonly number[], y: readonly number[], order: number): number[] | null {
+export function fitEven(q: readonly number[], y: readonly number[], order: number): number[] | null {
   const n = order + 1;
   const ata = new Float64Array(n * n);
   const atb = new Float64Array(n);
@@ -56,7 +56,7 @@ function fitEven(q: readonly number[], y: readonly number[], order: number): num
 }
 
 /** Value, first and second derivative in q of Σ c_i q^{2i}. */
-function evenPoly(c: readonly number[], q: number): [number, number, number] {
+export function evenPoly(c: readonly number[], q: number): [number, number, number] {
   let v = 0;
   let d1 = 0;
   let d2 = 0;
