@@ -29,6 +29,7 @@ import { TextScanner, decodeText } from './textScanner';
 import { bohrToAngstrom, hartreeToEv } from '../units';
 import { det3 } from '../lattice/linalg';
 import { parseDecimal } from './numbers';
+import { withCastepCell } from './castepCell';
 
 export const CASTEP_BANDS_FORMAT = 'castep-bands';
 
@@ -231,10 +232,12 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
       message: `The file holds ${nk} of the ${nkAnnounced} k-points its header announces (a running or interrupted job): results are provisional.`,
     });
   }
-  warnings.push({
-    code: 'no-structure',
-    message: 'A .bands file holds the cell but not the atoms: valley degeneracy needs the structure (.cell file or a POSCAR-like file).',
-  });
+  if (!options.structure)
+    warnings.push({
+      code: 'no-structure',
+      message:
+        "A .bands file holds the cell but not the atoms: valley degeneracy needs the structure (the run's <seed>.cell beside it, or --structure with a .cell, POSCAR-like or pw.x XML file).",
+    });
   if (nSpin === 1 && options.spinorbit === undefined) {
     warnings.push({
       code: 'spinorbit-unknown',
@@ -293,10 +296,15 @@ export const castepBandsReader: FormatReader = {
   id: CASTEP_BANDS_FORMAT,
   label: 'CASTEP .bands',
   detect: detectCastepBands,
-  companions(): string[] {
-    return [];
+  /** The run's .cell for the atoms: `<seed>-out.cell` (the final structure) before `<seed>.cell`. */
+  companions(mainName: string, siblings: string[]): string[] {
+    const seed = mainName.replace(/\.bands$/i, '');
+    const hit = [`${seed}-out.cell`, `${seed}.cell`].find((c) => siblings.includes(c));
+    return hit ? [hit] : [];
   },
-  read(main: InputFile, _companions: InputFile[], options: ReadOptions): BandStructure {
-    return readCastepBands(main, options);
+  read(main: InputFile, companions: InputFile[], options: ReadOptions): BandStructure {
+    const bs = readCastepBands(main, options);
+    const cell = companions.find((c) => /\.cell$/i.test(c.path));
+    return cell && !options.structure ? withCastepCell(bs, cell) : bs;
   },
 };
