@@ -20,7 +20,9 @@ import { ReaderError } from '../../../src/core/errors';
 import { BOHR_ANGSTROM } from '../../../src/core/units';
 import { writeCastepBands } from '../../support/writers/castep';
 import { collinearModel } from '../../support/writers/roundTripModel';
-import { fccLattice } from '../../support/models';
+import { cosineBand, cubicLattice, fccLattice, pointsModel, simpleCubicStructure } from '../../support/models';
+import { irreducibleMesh } from '../../../src/core/interpolation/regularMesh';
+import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
 
 const A = 5.43;
 const enc = (t: string): { path: string; bytes: Uint8Array } => ({ path: 'si.cell', bytes: new TextEncoder().encode(t) });
@@ -141,5 +143,34 @@ describe('CASTEP .cell', function () {
     const st = readStructureFile(enc(SI_CELL));
     assert.equal(st.layout, 'castep-cell');
     assert.equal(st.structure.species.length, 2);
+  });
+
+  it('a CASTEP mesh run (.bands of irreducible points and weights) with its .cell is interpolated as a mesh run', async () => {
+    // Simple cubic one-band tight-binding pair (published analytic model; invented numbers), Γ-centred 6×6×6 mesh.
+    const a = 4;
+    const sym = crystalSymmetry(simpleCubicStructure(a));
+    const mesh = irreducibleMesh([6, 6, 6], [0, 0, 0], sym.reciprocalPointGroup);
+    const kpoints = Array.from(
+      { length: mesh.kpoints.length / 3 },
+      (_, i) => [0, 1, 2].map((j) => mesh.kpoints[3 * i + j]!) as [number, number, number],
+    );
+    const bs = pointsModel({
+      lattice: cubicLattice(a),
+      bands: [cosineBand(-3, [-0.5, -0.5, -0.5]), cosineBand(1, [0.6, 0.6, 0.6])],
+      electrons: 2,
+      kpoints,
+    });
+    bs.weights = Float64Array.from(mesh.weights);
+    const dir = mkdtempSync(join(tmpdir(), 'vs-castep-mesh-'));
+    writeFileSync(join(dir, 'po.bands'), writeCastepBands(bs));
+    writeFileSync(
+      join(dir, 'po.cell'),
+      `%BLOCK LATTICE_CART\n${rows(cubicLattice(a))}\n%ENDBLOCK LATTICE_CART\n%BLOCK POSITIONS_FRAC\nPo 0 0 0\n%ENDBLOCK POSITIONS_FRAC\n`,
+    );
+    const r = analyzeBandStructure(await loadRun(nodeFileAccessor, dir));
+    assert.ok(r.interpolation, r.warnings.join('\n'));
+    assert.deepEqual(r.interpolation.divisions, [6, 6, 6]);
+    // Direct gap at Γ: E_c(Γ) − E_v(Γ) = 1 − (−3) = 4 eV (the model's own values).
+    assert.ok(Math.abs(r.gap!.eV - 4) < 1e-3, String(r.gap!.eV));
   });
 });
