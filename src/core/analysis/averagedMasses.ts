@@ -106,6 +106,8 @@ export function pathLimitedDosMass(
   cubicAxes: boolean,
   valleys: number | null,
   maximum: boolean,
+  /** States per branch relative to a spin-degenerate band: ½ for a spinor run's unpaired bands, else 1. */
+  statesPerBranch = 1,
 ): PathLimitedDos | null {
   if (!masses.length || !masses.every((m) => (maximum ? m.mass < 0 : m.mass > 0))) return null;
   const perBranch: number[] = [];
@@ -127,7 +129,7 @@ export function pathLimitedDosMass(
     spread = Math.max(spread, (Math.max(...abs) - Math.min(...abs)) / 2 / mb);
   }
   const nv = valleys ?? 1;
-  const combine = (list: number[]): number => nv ** (2 / 3) * multiBandDosMass(list);
+  const combine = (list: number[]): number => (statesPerBranch * nv) ** (2 / 3) * multiBandDosMass(list);
   const dosMass = combine(perBranch);
   // Cross-check with the warped form: per direction, the upper and lower branches' signed inverse masses.
   let warpedValue: number | null = null;
@@ -172,7 +174,7 @@ export function pathLimitedDosMass(
   const error = warpedValue !== null ? Math.abs(dosMass - warpedValue) : spread * dosMass;
   const classes = [...new Set(masses.map((m) => starOf(m.direction)))].sort((a, b) => a - b);
   const note =
-    `Path-limited density-of-states mass of the ${branches} branches together: each branch's ⟨|m|^(3/2)⟩ over the ${masses.length / branches} path direction${masses.length / branches === 1 ? '' : 's'}, each weighted by its star (${classes.join(', ')} equivalent directions${cartesianOps ? '' : '; symmetry unknown, so equal weights'}), then (Σ m_i^(3/2))^(2/3)${nv > 1 ? ` × N_v^(2/3), N_v = ${nv}` : ''}: ` +
+    `Path-limited density-of-states mass of the ${branches} branches together: each branch's ⟨|m|^(3/2)⟩ over the ${masses.length / branches} path direction${masses.length / branches === 1 ? '' : 's'}, each weighted by its star (${classes.join(', ')} equivalent directions${cartesianOps ? '' : '; symmetry unknown, so equal weights'}), then (Σ m_i^(3/2))^(2/3)${statesPerBranch !== 1 ? ` × (${statesPerBranch})^(2/3) (a spinor run: each band holds one electron, half the states of a band without spin–orbit coupling)` : ''}${nv > 1 ? ` × N_v^(2/3), N_v = ${nv}` : ''}: ` +
     `branch masses ${perBranch.map((x) => x.toPrecision(3)).join(', ')} m_e, total ${dosMass.toPrecision(3)} ± ${error.toPrecision(2)} m_e (estimated error: ` +
     (warpedValue !== null
       ? `difference from the angular integral of the ${branches === 3 ? 'three-band (L, M, N)' : 'warped'} form fitted to these directions, ${warpedValue.toPrecision(3)} m_e`

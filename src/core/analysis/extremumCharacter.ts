@@ -19,6 +19,7 @@ import { averagedFromPrincipal, pathLimitedDosMass } from './averagedMasses';
 import { cubicAxesAreCartesian } from './warpedBands';
 import { cartesianLittleGroup, valleysAt } from './valleyCount';
 import { tensorFromDirections } from './symmetryTensor';
+import { kramersRepresentatives } from './kramersPairs';
 
 function pointLabel(bs: BandStructure, net: PathNetwork | null, k: number): string | null {
   const own = labelAt(bs, k);
@@ -84,10 +85,18 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   const k = kpointAt(bs, site.k);
   const warnings = [...site.warnings];
   const maximum = site.kind === 'vbm' || site.kind === 'peak';
-  const g = site.group.length;
+  // Spinor runs with inversion symmetry: each Kramers pair is one band for the masses (kramersPairs.ts).
+  const pairs = kramersRepresentatives(bs, site.spin, site.group, site.band);
+  const massGroup = pairs ?? site.group;
+  const g = massGroup.length;
+  if (pairs) {
+    warnings.push(
+      `The ${site.group.length} bands here are ${g === 1 ? 'a Kramers pair' : `${g} Kramers pairs`}: in this spin–orbit run every band is twofold degenerate at every k-point (time reversal with inversion symmetry). Each pair is one band for the masses, and the averaged masses count it once, as a band of a run without spin–orbit coupling holds both spin states.`,
+    );
+  }
   if (g > 1) {
     warnings.push(
-      `${g} bands meet here within ${settings.degeneracy_meV} meV: masses by band index are ill-defined at a degenerate edge, so each mass below follows one branch by smooth continuation of E(k) (branch 1 is the one ${maximum ? 'highest' : 'lowest'} in energy next to the extremum).`,
+      `${g} ${pairs ? 'Kramers pairs' : 'bands'} meet here within ${settings.degeneracy_meV} meV: masses by band index are ill-defined at a degenerate edge, so each mass below follows one branch by smooth continuation of E(k) (branch 1 is the one ${maximum ? 'highest' : 'lowest'} in energy next to the extremum).`,
     );
   }
   const near = nearestOtherBand(bs, site);
@@ -110,7 +119,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
       if (network.geometry.cartesian === null)
         warnings.push('No lattice: distances are as the file wrote them and directions are unknown (written as zero vectors).');
       const rays = network.raysFrom(site.k, fitExtent(bs, site, settings.window_meV / 1000));
-      const dm = directionalMasses(bs, site.spin, site.group, site.band, rays, {
+      const dm = directionalMasses(bs, site.spin, massGroup, site.band, rays, {
         method: settings.method,
         window_meV: settings.window_meV,
         energySigma: ctx.energySigma,
@@ -190,6 +199,8 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   } else if (g > 1 && masses.length > 0) {
     // Several bands share the edge: path-limited DOS mass, directions weighted by their stars (averagedMasses.ts).
     const ops = bs.lattice ? cartesianLittleGroup(ctx.symmetry, k, bs.lattice) : null;
+    // A spinor run's bands hold one electron each: unpaired, a degenerate set's branches count half a
+    // spin-degenerate band each (the density-of-states mass is quoted for N = 2(m kT/2πħ²)^{3/2} per valley).
     const est = pathLimitedDosMass(
       masses.filter((m) => m.branch !== undefined).map((m) => ({ branch: m.branch!, direction: m.direction, mass: m.mass })),
       g,
@@ -197,6 +208,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
       ops ? cubicAxesAreCartesian(ops) : false,
       valleyDegeneracy,
       maximum,
+      bs.spinorbit && !pairs ? 0.5 : 1,
     );
     if (est) {
       dosMass = est.dosMass;
@@ -212,7 +224,7 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
     label: pointLabel(bs, network, site.k),
     kind: site.kind,
     offset_eV: site.offset,
-    degenerateBands: g,
+    degenerateBands: site.group.length,
     valleyDegeneracy,
     masses,
     tensor,

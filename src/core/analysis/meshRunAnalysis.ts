@@ -21,11 +21,13 @@ import {
   STAR_INTERPOLATION_REFERENCE,
   meshExtremumReport,
   meshRejected,
+  runBand,
   type MeshExtremumContext,
 } from './meshRunExtremum';
 import { nearbyTouching, touchingWarning, type NearbyTouching } from './meshRunTouching';
 import { refineOnTouchingLine, type AxisProvenance } from './meshRunLinePair';
 import { EVEN_LINE, massesAtEvenMeshPoint } from './meshRunLineMass';
+import { kramersRepresentatives } from './kramersPairs';
 
 /** One spin channel's interpolated edges and extrema. */
 interface ChannelResult {
@@ -33,6 +35,8 @@ interface ChannelResult {
   run: MeshInterpolation;
   firstBand: number;
   lastBand: number;
+  /** 2 when Kramers pairs are interpolated one band per pair. */
+  stride: 1 | 2;
   vbm: ExtremumReport;
   cbm: ExtremumReport;
   extrema: ExtremumReport[];
@@ -115,24 +119,40 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
   if (tooMany) return tooMany;
   const [first, last] = searchedBands(bs, spin, vb, cb, s.range_eV);
   // One more band each side is fitted, not searched: a crossing with it is then seen.
-  const lo = Math.max(0, first - 1);
-  const hi = Math.min(bs.nBands - 1, last + 1);
-  const made = interpolateRun(bs, { spin, firstBand: lo, lastBand: hi });
+  let lo = Math.max(0, first - 1);
+  let hi = Math.min(bs.nBands - 1, last + 1);
+  // A spinor run whose bands are Kramers pairs everywhere: one band per pair is interpolated (two identical
+  // bands by index would read as touching everywhere).
+  const pairLo = lo - (lo % 2);
+  const pairHi = Math.min(bs.nBands - 1, hi + ((hi + 1) % 2));
+  const paired = kramersRepresentatives(
+    bs,
+    spin,
+    Array.from({ length: pairHi - pairLo + 1 }, (_, i) => pairLo + i),
+    pairLo,
+  );
+  const stride: 1 | 2 = paired && paired.length > 1 ? 2 : 1;
+  if (stride === 2) [lo, hi] = [pairLo, pairHi - 1];
+  const made = interpolateRun(bs, { spin, firstBand: lo, lastBand: hi, stride });
   if (!made.run) return made.reason;
   const run = made.run;
   const map = run.input.specialPoints ?? null;
   const axes = new Map<InterpolatedExtremum, AxisProvenance>();
   const ctx: MeshExtremumContext = {
     spin,
+    stride,
     firstBand: lo,
     points: bs.nk,
     labelOf: (k) => (map ? labelOfK(map, [k[0]!, k[1]!, k[2]!]) : null),
     axesOf: (x) => axes.get(x),
   };
   const rejected: RejectedCandidate[] = [];
+  // Bands from..to of the run (0-based) as bands of the interpolation.
   const collect = (from: number, to: number, kind: 'min' | 'max'): InterpolatedExtremum[] =>
-    Array.from({ length: Math.max(0, to - from + 1) }, (_, i) => from + i).flatMap((b) => {
-      const r = run.extrema(b - lo, kind);
+    Array.from({ length: run.input.bands.length }, (_, j) => j).flatMap((j) => {
+      const b = lo + stride * j;
+      if (b + stride - 1 < from || b > to) return [];
+      const r = run.extrema(j, kind);
       const extrema = r.extrema.map((found) => {
         const atPoint = massesAtEvenMeshPoint(run, found, STAR_INTERPOLATION);
         if (atPoint) axes.set(atPoint.extremum, atPoint.axes);
@@ -160,14 +180,31 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
   }
   const valence = listed(maxima, 'vbm', 'peak', s, run, ctx);
   const conduction = listed(minima, 'cbm', 'valley', s, run, ctx);
-  return { spin, run, firstBand: lo, lastBand: hi, vbm: valence[0]!, cbm: conduction[0]!, extrema: [...valence, ...conduction], rejected };
+  if (stride === 2) {
+    for (const x of [...valence, ...conduction]) {
+      x.warnings.push(
+        'A spin–orbit run whose bands are Kramers pairs at every k-point (time reversal with inversion symmetry): one band of each pair was interpolated, and the averaged masses count the pair once, as a band of a run without spin–orbit coupling holds both spin states.',
+      );
+    }
+  }
+  return {
+    spin,
+    run,
+    firstBand: lo,
+    lastBand: hi,
+    stride,
+    vbm: valence[0]!,
+    cbm: conduction[0]!,
+    extrema: [...valence, ...conduction],
+    rejected,
+  };
 }
 
 /** Says so in the extremum's warnings (and its reason when its masses are not quoted) when a band meets it nearby. */
 function noteNearbyTouching(run: MeshInterpolation, x: InterpolatedExtremum, ctx: MeshExtremumContext): NearbyTouching | null {
   const t = nearbyTouching(run, x);
   if (!t) return null;
-  const warning = touchingWarning(t, ctx.firstBand + t.band + 1, ctx.labelOf(t.k));
+  const warning = touchingWarning(t, runBand(ctx, t.band), ctx.labelOf(t.k));
   x.warnings.push(warning);
   if (!x.determined && x.undeterminedReason) x.undeterminedReason += ` ${warning}`;
   return t;
@@ -201,7 +238,7 @@ function listed(
     kept.push(x);
     degenerate.push(1);
   }
-  return kept.map((x, i) => meshExtremumReport(x, i === 0 ? edgeKind : otherKind, edge, degenerate[i]!, ctx));
+  return kept.map((x, i) => meshExtremumReport(x, i === 0 ? edgeKind : otherKind, edge, ctx.stride * degenerate[i]!, ctx));
 }
 
 /**
@@ -244,8 +281,9 @@ function interpolatedGap(vbm: ExtremumReport, cbm: ExtremumReport, channels: Cha
  */
 function smallestDirectGap(c: ChannelResult, starts: readonly Vec3[]): { eV: number; k: Vec3 } | null {
   const { run } = c;
-  const upper = run.band(c.cbm.band - 1 - c.firstBand).coefficients;
-  const lower = run.band(c.vbm.band - 1 - c.firstBand).coefficients;
+  // Back from the run's band numbers (runBand) to the interpolation's.
+  const upper = run.band((c.cbm.band - 1 - c.firstBand) / c.stride).coefficients;
+  const lower = run.band((c.vbm.band - 1 - c.firstBand - (c.stride - 1)) / c.stride).coefficients;
   const difference = new StarInterpolant(
     run.fit.basis,
     upper.map((x, m) => x - lower[m]!),

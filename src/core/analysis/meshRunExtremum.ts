@@ -17,12 +17,22 @@ export interface MeshExtremumContext {
   spin: 0 | 1;
   /** 0-based band of the run that is band 0 of the interpolation. */
   firstBand: number;
+  /** 2 when a spinor run's Kramers pairs are interpolated one band per pair (kramersPairs.ts), else 1. */
+  stride: 1 | 2;
   /** Irreducible data points of the fit (the provenance of each mass). */
   points: number;
   /** The special point's label at k, when k is one. */
   labelOf: (k: readonly number[]) => string | null;
   /** Per principal axis, the method and whether it is quoted, for extrema refined beyond the interpolant. */
   axesOf?: (x: InterpolatedExtremum) => AxisProvenance | undefined;
+}
+
+/**
+ * The 1-based band of the run for band j of the interpolation. Of a Kramers pair (stride 2) a maximum is named by
+ * the pair's upper band and anything else by its lower one, as a degenerate edge is named on paths.
+ */
+export function runBand(ctx: Pick<MeshExtremumContext, 'firstBand' | 'stride'>, j: number, kind: 'min' | 'max' | null = null): number {
+  return ctx.firstBand + ctx.stride * j + 1 + (kind === 'max' ? ctx.stride - 1 : 0);
 }
 
 const axisText = (a: readonly number[]): string => `(${a.map((x) => (Math.abs(x) < 5e-4 ? 0 : x).toFixed(3)).join(', ')})`;
@@ -58,7 +68,7 @@ export function meshExtremumReport(
   const axes = ctx.axesOf?.(x);
   const tensorMethod = axes ? [...new Set(axes.methods)].join('+') : STAR_INTERPOLATION;
   return {
-    band: ctx.firstBand + x.band + 1,
+    band: runBand(ctx, x.band, x.kind),
     spin: ctx.spin,
     k: [...x.k],
     eV: x.energy_eV,
@@ -87,7 +97,7 @@ export function meshExtremumReport(
       energyUncertainty_eV: finite(x.uncertainty.energy_eV),
       positionUncertainty_invA: finite(x.uncertainty.position_invA),
       resolved: x.resolved,
-      touchingBands: x.touching.map((b) => ctx.firstBand + b + 1),
+      touchingBands: x.touching.map((b) => runBand(ctx, b)),
     },
     warnings: [...x.warnings],
   };
@@ -106,7 +116,7 @@ export function meshRejected(x: RejectedStationaryPoint, ctx: MeshExtremumContex
   const why = REJECT_DETAIL[x.reason];
   if (!why) return null;
   return {
-    band: ctx.firstBand + x.band + 1,
+    band: runBand(ctx, x.band, x.kind),
     spin: ctx.spin,
     k: [...x.k],
     eV: x.energy_eV,

@@ -13,6 +13,8 @@ export interface MeshRunRequest {
   /** 0-based bands to interpolate, first and last inclusive (default: all). */
   firstBand?: number;
   lastBand?: number;
+  /** Every `stride`-th band from firstBand (2: one band of each Kramers pair of a spinor run), default 1. */
+  stride?: 1 | 2;
   starsPerPoint?: number;
 }
 
@@ -44,7 +46,7 @@ export function meshRunInput(
   const last = req.lastBand ?? bs.nBands - 1;
   const e = bs.energies[spin]!;
   const bands: Float64Array[] = [];
-  for (let b = first; b <= last; b++) {
+  for (let b = first; b <= last; b += req.stride ?? 1) {
     const band = new Float64Array(bs.nk);
     for (let k = 0; k < bs.nk; k++) band[k] = e[k * bs.nBands + b]!;
     bands.push(band);
