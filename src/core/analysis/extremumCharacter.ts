@@ -138,8 +138,8 @@ export function characterise(ctx: EngineContext, site: ExtremumSite, settings: A
   } else if (bs.nk > 1) {
     // A tensor run (tensor-kpoints), or a grid around a degenerate edge: tensorRun.ts.
     offPath =
-      tensorRunMasses(bs, site.spin, site.group, site.k, ctx.symmetry.sym, maximum, valleyDegeneracy, ctx.energySigma) ??
-      (g > 1 ? gridWarpedMasses(bs, site.spin, site.group, site.k, ctx.symmetry.sym, ctx.energySigma) : null);
+      tensorRunMasses(bs, site.spin, massGroup, site.k, ctx.symmetry.sym, maximum, valleyDegeneracy, ctx.energySigma) ??
+      (g > 1 ? gridWarpedMasses(bs, site.spin, massGroup, site.k, ctx.symmetry.sym, ctx.energySigma) : null);
     if (offPath) {
       masses = offPath.masses;
       tensor = offPath.tensor;

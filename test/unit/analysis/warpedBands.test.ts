@@ -260,7 +260,9 @@ describe('a spinor tensor run at a fourfold maximum (heavy and light pairs)', ()
       Math.abs(vbm.warping.A / P.A - 1) < 0.01 && Math.abs(vbm.warping.B / P.B - 1) < 0.01 && Math.abs(vbm.warping.C / P.C - 1) < 0.01,
       JSON.stringify(vbm.warping),
     );
-    assert.equal(vbm.masses.length, 12); // four bands × [100], [110], [111]
+    // Four bands, two Kramers pairs (kramersPairs.ts): one branch per pair × [100], [110], [111].
+    assert.equal(vbm.masses.length, 6);
+    assert.ok(vbm.warnings.some((w) => /2 Kramers pairs/.test(w)));
     // Heavy along [111]: 1/(A + √(B² + C²/3)) (analytic, the form).
     const h111 = vbm.masses.find((m) => m.branch === 1 && m.towards === '[111]')!.mass;
     assert.ok(Math.abs(h111 * (P.A + Math.sqrt(P.B ** 2 + P.C ** 2 / 3)) - 1) < 0.01, String(h111));
