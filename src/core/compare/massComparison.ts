@@ -14,7 +14,12 @@ export function compareMasses(
   r: ExtremumReport | undefined,
   isReference: boolean,
 ): { masses: MassChange[]; degeneracyChanged: boolean } {
-  const degeneracyChanged = !isReference && r !== undefined && r.degenerateBands !== e.degenerateBands;
+  // Masses pair branch by branch: the same number of branches (a Kramers pair of a spinor run is one branch, as
+  // the band without spin–orbit coupling), or, without masses, the same number of bands.
+  const branches = (x: ExtremumReport): number => Math.max(1, ...x.masses.map((m) => m.branch ?? 1));
+  const comparable = (a: ExtremumReport, b: ExtremumReport): boolean =>
+    a.masses.length && b.masses.length ? branches(a) === branches(b) : a.degenerateBands === b.degenerateBands;
+  const degeneracyChanged = !isReference && r !== undefined && !comparable(r, e);
   const masses = e.masses.map((m): MassChange => {
     const branch = m.branch ?? null;
     const base = { towards: massLabel(m.towards, branch), direction: m.towards, branch, mass: m.mass };

@@ -55,6 +55,32 @@ describe('comparing runs', () => {
     assert.equal(c.events.length, 0);
   });
 
+  it('a spin-orbit run whose edge is a Kramers pair (2 bands, one branch) pairs its masses with the run without spin-orbit coupling', () => {
+    const plain = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, D, 1, 0, null, [['X', 0.9]])]);
+    const pair = ext('cbm', 9, D, 0.98, 0, null, [['X', 0.9]]);
+    pair.degenerateBands = 2; // a Kramers pair: the masses of one branch (kramersPairs.ts)
+    const spinors = report([ext('vbm', 8, G, 0, 0, 'Γ', []), pair]);
+    const c = compareTwo(plain, spinors);
+    const col = c.columns.find((x) => x.side === 'conduction')!;
+    const v = c.runs[1]!.valleys[col.id]!;
+    assert.equal(v.degeneracyChanged, false);
+    assert.equal(v.masses[0]!.status, 'compared');
+    assert.ok(Math.abs(v.masses[0]!.relativeChange!) < 1e-12);
+    // Branches that differ in number still refuse to pair (three bands without spin-orbit, two pairs with).
+    const three = ext('vbm', 4, G, 0, 0, 'Γ', [
+      ['X', -0.5, 1],
+      ['X', -0.5, 2],
+      ['X', -0.2, 3],
+    ]);
+    const two = ext('vbm', 8, G, 0, 0, 'Γ', [
+      ['X', -0.5, 1],
+      ['X', -0.2, 2],
+    ]);
+    const d = compareTwo(report([three, ext('cbm', 5, D, 1, 0, null, [])]), report([two, ext('cbm', 9, D, 1, 0, null, [])]));
+    const vcol = d.columns.find((x) => x.side === 'valence')!;
+    assert.equal(d.runs[1]!.valleys[vcol.id]!.degeneracyChanged, true);
+  });
+
   it('matches extrema whose band indices moved (more semicore bands in one run)', () => {
     const A = report([ext('vbm', 4, G, 0, 0, 'Γ', []), ext('cbm', 5, D, 1, 0, null, [['X', 0.9]])]);
     const B = report([ext('vbm', 9, G, 0, 0, 'Γ', []), ext('cbm', 10, D, 1, 0, null, [['X', 0.91]])]);
