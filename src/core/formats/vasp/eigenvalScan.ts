@@ -14,7 +14,7 @@ import { CancelledError, ReaderError } from '../../errors';
 import { TextScanner } from '../textScanner';
 import { DECIMAL as DECIMAL_SLOT, decimalAt as parseDecimalAt } from '../numbers';
 import { endsOnThisLine } from '../cutAtEnd';
-import { createSha256, sha256Hex } from '../../hash';
+import { mainFileHasher, mainFileSha256 } from '../sourceHash';
 import type { ReadOptions } from '../types';
 
 /** Local bindings of the parser and its value slot: a hot loop then reads no module export per number. */
@@ -36,7 +36,7 @@ export interface EigenvalData {
   /** Number of k-points the header announced (equals nk unless partial). */
   announcedK: number;
   partial: boolean;
-  /** SHA-256 of the file's bytes. */
+  /** SHA-256 of the file's bytes ('' when ReadOptions.hashSources is false). */
   sha256: string;
 }
 
@@ -73,9 +73,9 @@ class KBlocks {
 }
 
 export function readEigenval(file: InputFile, options: ReadOptions = {}): EigenvalData {
-  const hasher = file.stream ? createSha256() : null;
+  const hasher = file.stream ? mainFileHasher(options) : null;
   const sc = file.stream
-    ? TextScanner.streaming(file.stream, file.path, EIGENVAL_FORMAT, (c) => hasher!.update(c))
+    ? TextScanner.streaming(file.stream, file.path, EIGENVAL_FORMAT, hasher ? (c) => hasher.update(c) : undefined)
     : new TextScanner(file.bytes, file.path, EIGENVAL_FORMAT);
   const h = readHeader(sc);
   const st = new KBlocks(h);
@@ -95,7 +95,7 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
     system: h.system,
     announcedK: h.nkAnnounced,
     partial: nk < h.nkAnnounced,
-    sha256: hasher ? (sc.drain(), hasher.hex()) : sha256Hex(file.bytes),
+    sha256: hasher ? (sc.drain(), hasher.hex()) : file.stream ? '' : mainFileSha256(file.bytes, options),
   };
 }
 
