@@ -12,14 +12,10 @@
 import type { InputFile } from '../../io/fileAccessor';
 import { CancelledError, ReaderError } from '../../errors';
 import { TextScanner } from '../textScanner';
-import { DECIMAL as DECIMAL_SLOT, decimalAt as parseDecimalAt } from '../numbers';
 import { endsOnThisLine } from '../cutAtEnd';
 import { mainFileHasher, mainFileSha256 } from '../sourceHash';
 import type { ReadOptions } from '../types';
-
-/** Local bindings of the parser and its value slot: a hot loop then reads no module export per number. */
-const decimalAt = parseDecimalAt;
-const DECIMAL = DECIMAL_SLOT;
+import { fastBandLine, fastKBlock, KBlocks, type EigenvalHeader } from './eigenvalBlocks';
 
 export const EIGENVAL_FORMAT = 'vasp-eigenval';
 
@@ -38,38 +34,6 @@ export interface EigenvalData {
   partial: boolean;
   /** SHA-256 of the file's bytes ('' when ReadOptions.hashSources is false). */
   sha256: string;
-}
-
-/** What the header says, checked against the bytes after it. */
-interface EigenvalHeader {
-  ispin: 1 | 2;
-  electrons: number;
-  nkAnnounced: number;
-  nBands: number;
-  system: string;
-  /** The most k-points the rest of the file can hold (never allocate for more). */
-  maxK: number;
-}
-
-/**
- * The arrays being filled and the layout of the band lines (found on the first one). One class, so the hot
- * functions below always see objects of one shape.
- */
-class KBlocks {
-  readonly kpoints: Float64Array;
-  readonly weights: Float64Array;
-  readonly energies: Float64Array[] = [];
-  occupations: Float32Array[] | null = null;
-  /** Columns of a band line (index included), -1 before the first line is read. */
-  columns = -1;
-  readonly values = new Float64Array(4);
-  nk = 0;
-
-  constructor(readonly h: EigenvalHeader) {
-    this.kpoints = new Float64Array(h.maxK * 3);
-    this.weights = new Float64Array(h.maxK);
-    for (let s = 0; s < h.ispin; s++) this.energies.push(new Float64Array(h.maxK * h.nBands));
-  }
 }
 
 export function readEigenval(file: InputFile, options: ReadOptions = {}): EigenvalData {
@@ -150,6 +114,10 @@ function readKBlocks(sc: TextScanner, st: KBlocks, options: ReadOptions): void {
     if (k % progressEvery === 0) {
       if (options.isCancelled?.()) throw new CancelledError();
       options.onProgress?.(sc.filePosition / sc.fileSize);
+    }
+    if (k < maxK && st.columns > 0 && fastKBlock(sc, st, k)) {
+      st.nk = k + 1;
+      continue;
     }
     sc.skipBlankLines();
     if (sc.atEnd() || k >= maxK) {
@@ -305,43 +273,4 @@ function valueError(sc: TextScanner, what: string, k: number, b: number, spin: n
   const channel = spin === 0 ? ' (spin up)' : spin === 1 ? ' (spin down)' : '';
   sc.number(`${what} of band ${b + 1} at k-point ${k + 1}${channel}`);
   throw sc.error(`expected ${what} of band ${b + 1} at k-point ${k + 1}${channel}`);
-}
-
-/**
- * The common band line, "  index  E [E_down] [occ [occ_down]]", parsed in one pass over the bytes
- * (numbers.ts's fast parser). Returns false, leaving the scanner untouched, for anything else (exponents, long
- * mantissas, a wrong index, damage): the general path then reads the line and words any error.
- */
-function fastBandLine(sc: TextScanner, expectIndex: number, out: Float64Array, count: number): boolean {
-  const buf = sc.bytes;
-  const n = buf.length;
-  let p = sc.pos;
-  while (p < n && (buf[p] === 32 || buf[p] === 9)) p++;
-  let idx = 0;
-  let digits = 0;
-  while (p < n) {
-    const d = buf[p]! - 48;
-    if (d < 0 || d > 9) break;
-    idx = idx * 10 + d;
-    p++;
-    digits++;
-  }
-  if (digits === 0 || idx !== expectIndex) return false;
-  for (let j = 0; j < count; j++) {
-    const start = p;
-    while (p < n && (buf[p] === 32 || buf[p] === 9)) p++;
-    if (p === start) return false;
-    p = decimalAt(buf, p, n);
-    if (p < 0) return false;
-    const c = buf[p];
-    if (!(c === 32 || c === 9 || c === 10 || c === 13)) return false;
-    out[j] = DECIMAL[0]!;
-  }
-  while (p < n && (buf[p] === 32 || buf[p] === 9 || buf[p] === 13)) p++;
-  if (p >= n || buf[p] !== 10) return false;
-  p++;
-  sc.pos = p;
-  sc.line++;
-  sc.lineStart = p;
-  return true;
 }
