@@ -15,7 +15,7 @@ import { TextScanner } from '../textScanner';
 import { endsOnThisLine } from '../cutAtEnd';
 import { mainFileHasher, mainFileSha256 } from '../sourceHash';
 import type { ReadOptions } from '../types';
-import { fastBandLine, fastKBlock, KBlocks, type EigenvalHeader } from './eigenvalBlocks';
+import { fastKBlock, KBlocks, type EigenvalHeader } from './eigenvalBlocks';
 
 export const EIGENVAL_FORMAT = 'vasp-eigenval';
 
@@ -144,29 +144,16 @@ function readKBlocks(sc: TextScanner, st: KBlocks, options: ReadOptions): void {
 }
 
 /**
- * One k-point: its line and its band lines (the common ones through fastBandLine, the rest through
- * generalBandLine). False when the file ends inside it and partial files are allowed.
+ * One k-point that fastKBlock left (the first one, exponents, damage): its line and its band lines, number by
+ * number (generalBandLine). False when the file ends inside it and partial files are allowed.
  */
 function readKBlock(sc: TextScanner, st: KBlocks, k: number, options: ReadOptions): boolean {
-  const { ispin, nBands } = st.h;
   const kx = sc.number(() => `the first coordinate of k-point ${k + 1}`);
   const ky = sc.number(() => `the second coordinate of k-point ${k + 1}`);
   const kz = sc.number(() => `the third coordinate of k-point ${k + 1}`);
   const w = sc.number(() => `the weight of k-point ${k + 1}`);
   sc.endLine(`the weight of k-point ${k + 1}`);
-  const base = k * nBands;
-  const values = st.values;
-  const energies = st.energies;
-  for (let b = 0; b < nBands; b++) {
-    const columns = st.columns;
-    if (columns > 0 && fastBandLine(sc, b + 1, values, columns - 1)) {
-      for (let s = 0; s < ispin; s++) energies[s]![base + b] = values[s]!;
-      const occupations = st.occupations;
-      if (occupations) for (let s = 0; s < ispin; s++) occupations[s]![base + b] = values[ispin + s]!;
-      continue;
-    }
-    if (!generalBandLine(sc, st, k, b, options)) return false;
-  }
+  for (let b = 0; b < st.h.nBands; b++) if (!generalBandLine(sc, st, k, b, options)) return false;
   st.kpoints[3 * k] = kx;
   st.kpoints[3 * k + 1] = ky;
   st.kpoints[3 * k + 2] = kz;
