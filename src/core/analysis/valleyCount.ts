@@ -4,7 +4,7 @@
  * module is not loaded, or the structure's cell is not the band structure's cell.
  */
 import type { BandStructure, Mat3, Structure, Vec3 } from '../model';
-import { crystalSymmetry, symmetryReady, valleyDegeneracy, type CrystalSymmetry } from '../lattice/symmetry';
+import { crystalSymmetry, operationSymmetry, symmetryReady, valleyDegeneracy, type CrystalSymmetry } from '../lattice/symmetry';
 import { cartesianOperation, littleGroup } from './symmetryTensor';
 
 export interface SymmetryContext {
@@ -39,7 +39,9 @@ export function symmetryContext(bs: BandStructure): SymmetryContext {
   if (known) return known;
   let ctx: SymmetryContext;
   try {
-    ctx = { sym: crystalSymmetry(bs.structure), unavailable: null };
+    // A path run needs the operations only (valley counts, little groups of k): without the library's search on a
+    // cubic lattice. Other runs (meshes feed the interpolation) keep the library's operations as they are.
+    ctx = { sym: bs.sampling === 'path' ? operationSymmetry(bs.structure) : crystalSymmetry(bs.structure), unavailable: null };
   } catch (e) {
     ctx = { sym: null, unavailable: `${e instanceof Error ? e.message : String(e)} Valley degeneracy was not determined.` };
   }
