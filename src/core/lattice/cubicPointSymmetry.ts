@@ -12,6 +12,7 @@
  */
 import type { Mat3, Structure, Vec3 } from '../model';
 import { latticeOperations } from './latticePointGroup';
+import { det3 } from './linalg';
 
 /** The most atoms checked this way (the check grows as 48 × atoms³). */
 const MOST_ATOMS = 64;
@@ -116,4 +117,41 @@ function worstMiss(cell: Mat3, w: Mat3, t: Vec3, x: Float64Array, kind: Int32Arr
     if (worst > stopAbove) return worst;
   }
   return worst;
+}
+
+/** Conventional cubic cells per primitive cell's lattice points: P 1, I 2, F 4. */
+const CUBIC_CENTRINGS = [
+  { bravaisClass: 'cP', points: 1 },
+  { bravaisClass: 'cI', points: 2 },
+  { bravaisClass: 'cF', points: 4 },
+] as const;
+
+/**
+ * The Bravais class and conventional edge (Å) of a crystal with a cubic point group (eight threefold rotations)
+ * given in a primitive cell, from cubicCrystalOperations and the cell's shortest vector against its volume: the
+ * shortest lattice vector of cP, cI, cF is a, a√3/2, a/√2 for a conventional cube of a³ = 1, 2, 4 primitive
+ * volumes (common practice). Null when the operations are not settled here, the point group is not cubic (a
+ * crystal of lower symmetry on a cubic lattice), or the ratio is not clearly one of the three.
+ */
+export function cubicBravais(structure: Structure, symprec: number): { bravaisClass: 'cP' | 'cI' | 'cF'; a: number } | null {
+  const ops = cubicCrystalOperations(structure, symprec);
+  if (!ops) return null;
+  const threefold = ops.rotations.filter((w) => w[0][0] + w[1][1] + w[2][2] === 0 && det3(w) === 1).length;
+  if (threefold !== 8) return null;
+  const cell = structure.lattice;
+  const volume = Math.abs(det3(cell));
+  let shortest = Infinity;
+  for (let i = -1; i <= 1; i++)
+    for (let j = -1; j <= 1; j++)
+      for (let l = -1; l <= 1; l++) {
+        if (!i && !j && !l) continue;
+        const v = [0, 1, 2].map((c) => i * cell[0][c]! + j * cell[1][c]! + l * cell[2][c]!);
+        shortest = Math.min(shortest, Math.hypot(v[0]!, v[1]!, v[2]!));
+      }
+  for (const { bravaisClass, points } of CUBIC_CENTRINGS) {
+    const a = Math.cbrt(points * volume);
+    const expected = bravaisClass === 'cP' ? a : bravaisClass === 'cI' ? (a * Math.sqrt(3)) / 2 : a / Math.SQRT2;
+    if (Math.abs(shortest - expected) < 1e-3 * expected) return { bravaisClass, a };
+  }
+  return null;
 }

@@ -1,13 +1,17 @@
 import assert from 'node:assert/strict';
 import type { Mat3, Structure } from '../../../src/core/model';
 import {
+  analyzeStructure,
   crystalSymmetry,
   DEFAULT_SYMPREC,
   ensureSymmetryReady,
+  latticeFromMoyo,
   operationSymmetry,
   valleyDegeneracy,
 } from '../../../src/core/lattice/symmetry';
-import { cubicCrystalOperations } from '../../../src/core/lattice/cubicPointSymmetry';
+import { moyoSpaceGroupType } from '../../../src/core/lattice/moyoRuntime';
+import { bravaisLattice } from '../../../src/core/lattice/bravais';
+import { cubicBravais, cubicCrystalOperations } from '../../../src/core/lattice/cubicPointSymmetry';
 import { diamondConventional, diamondLike, redescribe, rotationMatrix, UNIMODULAR, wurtzite } from './crystals';
 
 // The operations found without the library are checked against the crystal-symmetry library (moyo, a general-purpose
@@ -115,3 +119,55 @@ describe('operations of a crystal on a cubic lattice without the library', () =>
     }
   });
 });
+
+describe('the Bravais class of a cubic crystal without the library', () => {
+  before(async () => {
+    await ensureSymmetryReady();
+  });
+
+  // Reference: the library's Bravais class and conventional edge for the same cell (bravaisLattice's own path).
+  const cells: [string, Structure][] = [
+    ['diamond Si (cF)', diamondLike(5.43, 'Si', 'Si')],
+    ['zincblende GaAs (cF)', diamondLike(5.65, 'Ga', 'As')],
+    ['bcc Fe, one atom (cI)', { lattice: bccPrimitive(2.87), species: ['Fe'], positions: new Float64Array([0, 0, 0]) }],
+    ['CsCl (cP)', { lattice: cubic(4.12), species: ['Cs', 'Cl'], positions: new Float64Array([0, 0, 0, 0.5, 0.5, 0.5]) }],
+  ];
+  for (const [name, s] of cells) {
+    it(`${name}: the library's class and edge`, () => {
+      const ours = cubicBravais(s, DEFAULT_SYMPREC);
+      const lib = libraryBravaisOf(s);
+      assert.ok(ours);
+      assert.equal(ours.bravaisClass, lib.bravaisClass);
+      for (const l of lib.lengths) assert.ok(Math.abs(ours.a - l) < 1e-9 * l, `edge ${ours.a} against ${l}`);
+      const viaModule = bravaisLattice(s.lattice, s);
+      assert.equal(viaModule.bravaisClass, lib.bravaisClass);
+      assert.equal(viaModule.spaceGroup, lib.spaceGroup, 'the space group, read from the library when asked');
+    });
+  }
+
+  it('a crystal of lower symmetry on a cubic lattice is left to the library', () => {
+    const s: Structure = { lattice: cubic(4), species: ['A', 'B'], positions: new Float64Array([0, 0, 0, 0.1, 0.1, 0.3]) };
+    assert.equal(cubicBravais(s, DEFAULT_SYMPREC), null);
+    assert.notEqual(bravaisLattice(s.lattice, s).bravaisClass[0], 'c');
+  });
+});
+
+/** bcc primitive vectors (−a/2, a/2, a/2), (a/2, −a/2, a/2), (a/2, a/2, −a/2) (common practice). */
+function bccPrimitive(a: number): Mat3 {
+  return [
+    [-a / 2, a / 2, a / 2],
+    [a / 2, -a / 2, a / 2],
+    [a / 2, a / 2, -a / 2],
+  ];
+}
+
+/** The library's answer: the dataset's space-group type and standard cell. */
+function libraryBravaisOf(s: Structure): { bravaisClass: string; spaceGroup: number; lengths: number[] } {
+  const d = analyzeStructure(s, DEFAULT_SYMPREC);
+  const lat = latticeFromMoyo(d.std_cell.lattice.basis);
+  return {
+    bravaisClass: moyoSpaceGroupType(d.number).bravais_class,
+    spaceGroup: d.number,
+    lengths: lat.map((r) => Math.hypot(r[0], r[1], r[2])),
+  };
+}
