@@ -6,6 +6,7 @@
 import type { BandStructure, Mat3, Structure, Vec3 } from '../model';
 import { crystalSymmetry, operationSymmetry, symmetryReady, valleyDegeneracy, type CrystalSymmetry } from '../lattice/symmetry';
 import { cartesianOperation, littleGroup } from './symmetryTensor';
+import { MAX_INTERPOLATION_POINTS } from '../interpolation/meshInterpolation';
 
 export interface SymmetryContext {
   sym: CrystalSymmetry | null;
@@ -39,9 +40,11 @@ export function symmetryContext(bs: BandStructure): SymmetryContext {
   if (known) return known;
   let ctx: SymmetryContext;
   try {
-    // A path run needs the operations only (valley counts, little groups of k): without the library's search on a
-    // cubic lattice. Other runs (meshes feed the interpolation) keep the library's operations as they are.
-    ctx = { sym: bs.sampling === 'path' ? operationSymmetry(bs.structure) : crystalSymmetry(bs.structure), unavailable: null };
+    // A run that is not interpolated needs the operations only (valley counts, little groups of k): on a cubic
+    // lattice without the library's search. Runs the mesh interpolation may take keep the library's operations
+    // (its stars are sums over them, in their order).
+    const interpolated = bs.sampling !== 'path' && bs.nk <= MAX_INTERPOLATION_POINTS;
+    ctx = { sym: interpolated ? crystalSymmetry(bs.structure) : operationSymmetry(bs.structure), unavailable: null };
   } catch (e) {
     ctx = { sym: null, unavailable: `${e instanceof Error ? e.message : String(e)} Valley degeneracy was not determined.` };
   }
