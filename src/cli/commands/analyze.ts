@@ -107,7 +107,8 @@ export async function runAnalyze(argv: string[], io: CliIO): Promise<number> {
   if (p.positional.length !== 1) throw new UsageError('analyze takes exactly one file or folder (several with --jsonl)');
   const settings = analysisSettingsFromArgs(p);
   const mode = energyZeroFromArgs(p);
-  const bs = await loadRun(nodeFileAccessor, p.positional[0]!, await readOptionsFromArgs(p));
+  // Neither output prints the file's SHA-256 (annotations record it: `annotate`): not computed.
+  const bs = await loadRun(nodeFileAccessor, p.positional[0]!, { ...(await readOptionsFromArgs(p)), hashSources: false });
   const report = analyzeBandStructure(bs, settings);
   // --json: raw energies as the code wrote them; the zero and the path positions beside them.
   if (p.flags.has('json')) {

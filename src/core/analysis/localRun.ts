@@ -32,6 +32,9 @@ export function localRun(bs: BandStructure): LocalRun | null {
   // nk × 3 positions: cartesian with a lattice (the path geometry's, computed once per run), fractional without.
   const xyz = rec ? (pathGeometry(bs).cartesian ?? bs.kpoints) : bs.kpoints;
   const scale = rec ? Math.min(...rec.map((r) => Math.hypot(r[0], r[1], r[2]))) : 1;
+  // Two points 2d apart lie at least d from any centre (triangle inequality): a run reaching that far from its
+  // first point is not local, and the centroid passes are not needed (a path across the zone stops early).
+  if (reachesBeyond(xyz, bs.nk, 2 * LOCAL_RUN_FRACTION * scale * (1 + 1e-6))) return null;
   const { extent, centre: nearestCentre } = centroidSpread(xyz, bs.nk);
   let centre = nearestCentre;
   const fraction = extent / scale;
@@ -78,6 +81,21 @@ function onTwoShells(c: Vec3, pts: readonly Vec3[]): boolean {
     else return false;
   }
   return inner > 0 && outer > 0;
+}
+
+/** True when some point lies farther than `d` from the first one (NaN coordinates never count). */
+function reachesBeyond(xyz: Float64Array, nk: number, d: number): boolean {
+  const x0 = xyz[0]!;
+  const y0 = xyz[1]!;
+  const z0 = xyz[2]!;
+  const d2 = d * d;
+  for (let k = 1; k < nk; k++) {
+    const dx = xyz[3 * k]! - x0;
+    const dy = xyz[3 * k + 1]! - y0;
+    const dz = xyz[3 * k + 2]! - z0;
+    if (dx * dx + dy * dy + dz * dz > d2) return true;
+  }
+  return false;
 }
 
 /** The largest distance of a point from the points' centroid, and the point nearest to it (the first on ties). */

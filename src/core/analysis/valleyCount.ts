@@ -4,8 +4,9 @@
  * module is not loaded, or the structure's cell is not the band structure's cell.
  */
 import type { BandStructure, Mat3, Structure, Vec3 } from '../model';
-import { crystalSymmetry, symmetryReady, valleyDegeneracy, type CrystalSymmetry } from '../lattice/symmetry';
+import { crystalSymmetry, operationSymmetry, symmetryReady, valleyDegeneracy, type CrystalSymmetry } from '../lattice/symmetry';
 import { cartesianOperation, littleGroup } from './symmetryTensor';
+import { MAX_INTERPOLATION_POINTS } from '../interpolation/meshInterpolation';
 
 export interface SymmetryContext {
   sym: CrystalSymmetry | null;
@@ -26,6 +27,8 @@ function sameLattice(a: Mat3, b: Mat3): boolean {
  * on the structure alone; a run read again brings a new object).
  */
 const contexts = new WeakMap<Structure, SymmetryContext>();
+/** The same for runs the mesh interpolation does not take (their operations may come without the library). */
+const pointContexts = new WeakMap<Structure, SymmetryContext>();
 
 export function symmetryContext(bs: BandStructure): SymmetryContext {
   if (!bs.structure) return { sym: null, unavailable: 'No crystal structure is known: valley degeneracy cannot be determined.' };
@@ -35,15 +38,20 @@ export function symmetryContext(bs: BandStructure): SymmetryContext {
   // Not cached: the module may be loaded by the next call.
   if (!symmetryReady())
     return { sym: null, unavailable: 'The crystal-symmetry module is not loaded: valley degeneracy was not determined.' };
-  const known = contexts.get(bs.structure);
+  // A run that is not interpolated needs the operations only (valley counts, little groups of k): on a cubic
+  // lattice without the library's search. Runs the mesh interpolation may take keep the library's operations
+  // (its stars are sums over them, in their order).
+  const interpolated = bs.sampling !== 'path' && bs.nk <= MAX_INTERPOLATION_POINTS;
+  const cache = interpolated ? contexts : pointContexts;
+  const known = cache.get(bs.structure);
   if (known) return known;
   let ctx: SymmetryContext;
   try {
-    ctx = { sym: crystalSymmetry(bs.structure), unavailable: null };
+    ctx = { sym: interpolated ? crystalSymmetry(bs.structure) : operationSymmetry(bs.structure), unavailable: null };
   } catch (e) {
     ctx = { sym: null, unavailable: `${e instanceof Error ? e.message : String(e)} Valley degeneracy was not determined.` };
   }
-  contexts.set(bs.structure, ctx);
+  cache.set(bs.structure, ctx);
   return ctx;
 }
 

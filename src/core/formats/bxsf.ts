@@ -24,7 +24,7 @@
 import type { BandStructure, InputWarning, Mat3, Vec3 } from '../model';
 import type { InputFile } from '../io/fileAccessor';
 import type { FormatReader, ReadOptions } from './types';
-import { sha256Hex } from '../hash';
+import { mainFileSha256 } from './sourceHash';
 import { CancelledError } from '../errors';
 import { TextScanner, decodeText } from './textScanner';
 import { det3, mat3Inverse, transpose3 } from '../lattice/linalg';
@@ -318,7 +318,11 @@ export function readBxsf(file: InputFile, options: ReadOptions = {}): BandStruct
       message: 'A band-grid file holds the reciprocal cell but not the atoms: valley degeneracy needs the structure.',
     });
   return {
-    source: { format: BXSF_FORMAT, file: file.path, files: [{ role: 'eigenvalues', path: file.path, sha256: sha256Hex(file.bytes) }] },
+    source: {
+      format: BXSF_FORMAT,
+      file: file.path,
+      files: [{ role: 'eigenvalues', path: file.path, sha256: mainFileSha256(file.bytes, options) }],
+    },
     lattice,
     structure: options.structure ?? null,
     nk,

@@ -21,7 +21,7 @@
 import type { BandStructure, InputWarning, Mat3 } from '../model';
 import type { InputFile } from '../io/fileAccessor';
 import type { FormatReader, ReadOptions } from './types';
-import { sha256Hex } from '../hash';
+import { mainFileSha256 } from './sourceHash';
 import { CancelledError, ReaderError } from '../errors';
 import { endsOnThisLine } from './cutAtEnd';
 import { checkAnnouncedCount } from './announcedCount';
@@ -260,7 +260,7 @@ export function readCastepBands(file: InputFile, options: ReadOptions = {}): Ban
     source: {
       format: CASTEP_BANDS_FORMAT,
       file: file.path,
-      files: [{ role: 'eigenvalues', path: file.path, sha256: sha256Hex(file.bytes) }],
+      files: [{ role: 'eigenvalues', path: file.path, sha256: mainFileSha256(file.bytes, options) }],
     },
     lattice,
     structure: options.structure ?? null,

@@ -22,6 +22,11 @@ export interface ReadOptions {
   onProgress?: (fraction: number) => void;
   /** Accept a file that ends early (a running job) and mark the result partial instead of failing. */
   allowPartial?: boolean;
+  /**
+   * false: the main file's SHA-256 is not computed and its SourceFile.sha256 is '' (formats/sourceHash.ts), for
+   * callers that print no hash. Anything that records or compares hashes (annotations, checks) keeps the default.
+   */
+  hashSources?: boolean;
 }
 
 export interface FormatReader {

@@ -14,6 +14,7 @@ import type { InputFile } from '../io/fileAccessor';
 import { basename } from '../io/fileAccessor';
 import type { FormatReader, ReadOptions } from './types';
 import { sha256Hex } from '../hash';
+import { mainFileSha256 } from './sourceHash';
 import { CancelledError, ReaderError } from '../errors';
 import { TextScanner, decodeText } from './textScanner';
 import { endsOnThisLine } from './cutAtEnd';
@@ -163,7 +164,7 @@ export const wannier90BandReader: FormatReader = {
   read(main: InputFile, companions: InputFile[], options: ReadOptions): BandStructure {
     const data = readBandDat(main, options);
     const warnings: InputWarning[] = [];
-    const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: sha256Hex(main.bytes) }];
+    const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: mainFileSha256(main.bytes, options) }];
     const find = (suffix: string): InputFile | undefined => companions.find((c) => basename(c.path).toLowerCase().endsWith(suffix));
     const use = <T>(f: InputFile | undefined, role: string, fn: (f: InputFile) => T): T | null => {
       if (!f) return null;

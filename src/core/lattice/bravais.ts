@@ -6,6 +6,7 @@ import type { Mat3, Structure } from '../model';
 import { norm } from './linalg';
 import { analyzeStructure, DEFAULT_SYMPREC, latticeFromMoyo } from './symmetry';
 import { moyoSpaceGroupType } from './moyoRuntime';
+import { cubicBravais } from './cubicPointSymmetry';
 
 export interface BravaisLattice {
   /** International Tables Bravais class: 'aP', 'mP', 'mC', 'oP', 'oS', 'oI', 'oF', 'tP', 'tI', 'hR', 'hP', 'cP', 'cI', 'cF'. */
@@ -35,6 +36,23 @@ const latticeCells = new WeakMap<Mat3, Structure>();
  */
 export function bravaisLattice(lattice: Mat3, structure: Structure | null, symprec: number = DEFAULT_SYMPREC): BravaisLattice {
   const cell = structure ?? latticeOnlyStructure(lattice);
+  // A cubic crystal in a primitive cell: class and edge from its operations (cubicPointSymmetry.ts) without the
+  // library's search; the space group and the library's conventional cell only when read.
+  const cubic = cubicBravais(cell, symprec);
+  if (cubic) {
+    const full = (): BravaisLattice => libraryBravais(cell, structure !== null, symprec);
+    return Object.defineProperties(
+      { bravaisClass: cubic.bravaisClass, lengths: [cubic.a, cubic.a, cubic.a], fromStructure: structure !== null },
+      {
+        spaceGroup: { get: () => full().spaceGroup, enumerable: true },
+        conventional: { get: () => full().conventional, enumerable: true },
+      },
+    ) as BravaisLattice;
+  }
+  return libraryBravais(cell, structure !== null, symprec);
+}
+
+function libraryBravais(cell: Structure, fromStructure: boolean, symprec: number): BravaisLattice {
   const d = analyzeStructure(cell, symprec);
   const conventional = latticeFromMoyo(d.std_cell.lattice.basis);
   return {
@@ -42,6 +60,6 @@ export function bravaisLattice(lattice: Mat3, structure: Structure | null, sympr
     spaceGroup: d.number,
     conventional,
     lengths: [norm(conventional[0]), norm(conventional[1]), norm(conventional[2])],
-    fromStructure: structure !== null,
+    fromStructure,
   };
 }

@@ -15,19 +15,17 @@ const STEPS: readonly (readonly [number, number, number])[] = (() => {
 })();
 
 /**
- * The lattice's point group acting on fractional reciprocal coordinates, (W⁻¹)ᵀ for each W (the convention of
- * CrystalSymmetry.reciprocalPointGroup), found with a tolerance looser than the symmetry library's: a lattice
- * near a higher symmetry then shows more operations than `expected`, and the caller asks the library instead.
- * Null unless exactly `expected` operations are found.
+ * Every integer matrix W with entries −1, 0, 1 and determinant ±1 that keeps the cell's metric within what a change
+ * of `delta` Å in each vector allows (W acts on fractional real-space coordinates: column j is the image of cell
+ * vector j). Null when the cell spans no length, or when more than `most` are found.
  */
-export function latticeHolohedry(cell: Mat3, symprec: number, expected: number): Mat3[] | null {
+export function latticeOperations(cell: Mat3, delta: number, most: number): Mat3[] | null {
   const g: Mat3 = [0, 1, 2].map((i) =>
     [0, 1, 2].map((j) => cell[i]![0] * cell[j]![0] + cell[i]![1] * cell[j]![1] + cell[i]![2] * cell[j]![2]),
   ) as Mat3;
   const maxLen = Math.sqrt(Math.max(g[0][0], g[1][1], g[2][2]));
   if (!Number.isFinite(maxLen) || maxLen <= 0) return null;
-  // A change δ of a vector changes the metric by about 2 δ |a|: δ ten times the library's position tolerance.
-  const delta = 10 * symprec;
+  // A change δ of a vector changes the metric by about 2 δ |a|.
   const tol = 2 * delta * maxLen + delta * delta;
   const dotG = (u: readonly number[], v: readonly number[]): number => {
     let x = 0;
@@ -49,10 +47,21 @@ export function latticeHolohedry(cell: Mat3, symprec: number, expected: number):
         ];
         if (Math.abs(det3(w)) !== 1) continue;
         found.push(w);
-        if (found.length > expected) return null;
+        if (found.length > most) return null;
       }
     }
   }
-  if (found.length !== expected) return null;
+  return found;
+}
+
+/**
+ * The lattice's point group acting on fractional reciprocal coordinates, (W⁻¹)ᵀ for each W (the convention of
+ * CrystalSymmetry.reciprocalPointGroup), found with a tolerance looser than the symmetry library's (ten times its
+ * position tolerance): a lattice near a higher symmetry then shows more operations than `expected`, and the
+ * caller asks the library instead. Null unless exactly `expected` operations are found.
+ */
+export function latticeHolohedry(cell: Mat3, symprec: number, expected: number): Mat3[] | null {
+  const found = latticeOperations(cell, 10 * symprec, expected);
+  if (!found || found.length !== expected) return null;
   return found.map((w) => transpose3(mat3Inverse(w)).map((r) => r.map((x) => Math.round(x) + 0)) as Mat3);
 }

@@ -14,6 +14,7 @@ import type { Mat3, Structure, Vec3 } from '../model';
 import { AnalysisError } from '../errors';
 import { det3, mat3Inverse, mulMatVec, transpose3 } from './linalg';
 import { ensureMoyoReady, moyoAnalyze, moyoReady, moyoSpaceGroupType, type MoyoDataset } from './moyoRuntime';
+import { cubicCrystalOperations } from './cubicPointSymmetry';
 export { moyoCompiledModule as symmetryCompiledModule } from './moyoRuntime';
 
 export interface CrystalSymmetry {
@@ -164,6 +165,15 @@ export function crystalSymmetry(structure: Structure, symprec: number = DEFAULT_
 function symmetryFromDataset(structure: Structure, d: MoyoDataset, symprec: number): CrystalSymmetry {
   const rotations = d.operations.map((op) => matFromColumnMajor(op.rotation));
   const translations = d.operations.map((op) => [op.translation[0], op.translation[1], op.translation[2]] as Vec3);
+  const type = moyoSpaceGroupType(d.number);
+  const group = { spaceGroup: d.number, hmSymbol: d.hm_symbol, bravaisClass: type.bravais_class, crystalSystem: type.crystal_system };
+  return { ...group, ...symmetryFromOperations(structure, rotations, translations, symprec) };
+}
+
+/** What the operations alone give (everything but the space-group type). */
+type OperationSymmetry = Omit<CrystalSymmetry, 'spaceGroup' | 'hmSymbol' | 'bravaisClass' | 'crystalSystem'>;
+
+function symmetryFromOperations(structure: Structure, rotations: Mat3[], translations: Vec3[], symprec: number): OperationSymmetry {
   const pointGroup: Mat3[] = [];
   const seen = new Set<string>();
   for (const w of rotations) {
@@ -175,7 +185,6 @@ function symmetryFromDataset(structure: Structure, d: MoyoDataset, symprec: numb
   }
   const reciprocalPointGroup = pointGroup.map((w) => roundMat(transpose3(mat3Inverse(w))));
   const centrosymmetric = pointGroup.some((w) => w.every((r, i) => r.every((x, j) => x === (i === j ? -1 : 0))));
-  const type = moyoSpaceGroupType(d.number);
   const centringTranslations: Vec3[] = [];
   rotations.forEach((w, i) => {
     const t = translations[i]!;
@@ -186,20 +195,35 @@ function symmetryFromDataset(structure: Structure, d: MoyoDataset, symprec: numb
     }
   });
   return {
-    spaceGroup: d.number,
-    hmSymbol: d.hm_symbol,
     rotations,
     translations,
     pointGroup,
     reciprocalPointGroup,
     centrosymmetric,
-    bravaisClass: type.bravais_class,
-    crystalSystem: type.crystal_system,
     latticePointsPerCell: Math.max(1, Math.round(rotations.length / pointGroup.length)),
     centringTranslations,
     lattice: structure.lattice,
     symprec,
   };
+}
+
+/**
+ * The symmetry of a crystal on a cubic lattice from its operations alone (cubicPointSymmetry.ts), without the
+ * library's search, when that check is clear; else crystalSymmetry. The space-group type (number, symbol, Bravais
+ * class, crystal system) is asked of the library only when read. Valley counts and little groups of k need the
+ * operations only.
+ */
+export function operationSymmetry(structure: Structure, symprec: number = DEFAULT_SYMPREC): CrystalSymmetry {
+  const ops = cubicCrystalOperations(structure, symprec);
+  if (!ops) return crystalSymmetry(structure, symprec);
+  const sym = symmetryFromOperations(structure, ops.rotations, ops.translations, symprec);
+  const full = (): CrystalSymmetry => crystalSymmetry(structure, symprec);
+  return Object.defineProperties(sym, {
+    spaceGroup: { get: () => full().spaceGroup, enumerable: true },
+    hmSymbol: { get: () => full().hmSymbol, enumerable: true },
+    bravaisClass: { get: () => full().bravaisClass, enumerable: true },
+    crystalSystem: { get: () => full().crystalSystem, enumerable: true },
+  }) as CrystalSymmetry;
 }
 
 function roundMat(m: Mat3): Mat3 {

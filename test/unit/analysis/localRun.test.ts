@@ -3,9 +3,11 @@
  * and reports only the extremum at its centre; a metal's annotations hold no gap entry.
  */
 import assert from 'node:assert/strict';
+import fc from 'fast-check';
 import { analyzeBandStructure, DEFAULT_SETTINGS } from '../../../src/core/analysis/analyze';
 import { fitExtremumAt } from '../../../src/core/analysis/massEngine';
-import { localRun } from '../../../src/core/analysis/localRun';
+import { LOCAL_RUN_FRACTION, localRun } from '../../../src/core/analysis/localRun';
+import { kpointsToCartesian, reciprocalLattice } from '../../../src/core/lattice/reciprocal';
 import { planTensorRun } from '../../../src/core/lattice/tensorKpoints';
 import { buildAnnotations } from '../../../src/core/annotations/buildAnnotations';
 import { reportToJson } from '../../../src/core/report/reportJson';
@@ -65,5 +67,45 @@ describe('local runs', () => {
     const e = fitExtremumAt(bs, 0, 0, 0, DEFAULT_SETTINGS);
     assert.equal(e.kind, 'valley');
     assert.equal(e.band, 1);
+  });
+
+  it('is local exactly when every point lies within the set fraction of the shortest reciprocal vector from the centroid', () => {
+    // The rule as defined (localRun.ts), computed the long way: the centroid, the farthest point from it, over the
+    // shortest reciprocal vector. Clouds from tight patches to spreads over the zone, around random centres.
+    const lattice = fccLattice(aSi);
+    const rec = reciprocalLattice(lattice);
+    const shortest = Math.min(...rec.map((r) => Math.hypot(r[0], r[1], r[2])));
+    const cloud = fc.record({
+      centre: fc.tuple(
+        fc.double({ min: -0.5, max: 0.5, noNaN: true }),
+        fc.double({ min: -0.5, max: 0.5, noNaN: true }),
+        fc.double({ min: -0.5, max: 0.5, noNaN: true }),
+      ),
+      spread: fc.double({ min: 0.001, max: 0.6, noNaN: true }),
+      offsets: fc.array(
+        fc.tuple(
+          fc.double({ min: -1, max: 1, noNaN: true }),
+          fc.double({ min: -1, max: 1, noNaN: true }),
+          fc.double({ min: -1, max: 1, noNaN: true }),
+        ),
+        { minLength: 3, maxLength: 40 },
+      ),
+    });
+    fc.assert(
+      fc.property(cloud, ({ centre, spread, offsets }) => {
+        const kpoints = offsets.map((o) => o.map((x, i) => centre[i]! + spread * x) as Vec3);
+        const bs = pointsModel({ lattice, bands: [parabolicBand(0, 1)], electrons: 2, kpoints });
+        const xyz = kpointsToCartesian(bs.kpoints, rec);
+        const n = kpoints.length;
+        const c = [0, 1, 2].map((a) => kpoints.reduce((sum, _, k) => sum + xyz[3 * k + a]! / n, 0));
+        let extent = 0;
+        for (let k = 0; k < n; k++)
+          extent = Math.max(extent, Math.hypot(xyz[3 * k]! - c[0]!, xyz[3 * k + 1]! - c[1]!, xyz[3 * k + 2]! - c[2]!));
+        const fraction = extent / shortest;
+        const local = fraction > 0 && fraction < LOCAL_RUN_FRACTION;
+        assert.equal(localRun(bs) !== null, local);
+      }),
+      { numRuns: 300, seed: 16 },
+    );
   });
 });

@@ -17,6 +17,7 @@ import type { InputFile } from '../../io/fileAccessor';
 import { basename } from '../../io/fileAccessor';
 import type { FormatReader, ReadOptions } from '../types';
 import { sha256Hex } from '../../hash';
+import { mainFileSha256 } from '../sourceHash';
 import { CancelledError, ReaderError } from '../../errors';
 import { checkAnnouncedCount } from '../announcedCount';
 import { TextScanner, decodeText } from '../textScanner';
@@ -207,7 +208,7 @@ export const bandsxReader: FormatReader = {
   read(main: InputFile, companions: InputFile[], options: ReadOptions): BandStructure {
     const data = readBandsx(main, options);
     const warnings: InputWarning[] = [];
-    const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: sha256Hex(main.bytes) }];
+    const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: mainFileSha256(main.bytes, options) }];
     let xml: QeXmlData | null = null;
     for (const c of companions) {
       if (!/\.xml$/i.test(c.path) || detectQeXml(c.bytes.subarray(0, 4096), basename(c.path)) === 0) continue;

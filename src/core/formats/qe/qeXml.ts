@@ -5,7 +5,7 @@
 import type { BandStructure, InputWarning, SourceFile } from '../../model';
 import type { InputFile } from '../../io/fileAccessor';
 import type { FormatReader, ReadOptions } from '../types';
-import { sha256Hex } from '../../hash';
+import { mainFileSha256 } from '../sourceHash';
 import { QE_XML_FORMAT, readQeXml, type QeXmlData } from './qeXmlScan';
 import { qeMethod } from './qeMethod';
 
@@ -20,7 +20,7 @@ export function detectQeXml(head: Uint8Array, name: string): number {
 
 export function qeXmlToBandStructure(data: QeXmlData, main: InputFile, options: ReadOptions): BandStructure {
   const warnings: InputWarning[] = [];
-  const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: sha256Hex(main.bytes) }];
+  const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: mainFileSha256(main.bytes, options) }];
   if (!data.complete) {
     warnings.push({
       code: 'partial',

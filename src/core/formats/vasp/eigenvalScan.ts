@@ -12,14 +12,10 @@
 import type { InputFile } from '../../io/fileAccessor';
 import { CancelledError, ReaderError } from '../../errors';
 import { TextScanner } from '../textScanner';
-import { DECIMAL as DECIMAL_SLOT, decimalAt as parseDecimalAt } from '../numbers';
 import { endsOnThisLine } from '../cutAtEnd';
-import { createSha256, sha256Hex } from '../../hash';
+import { mainFileHasher, mainFileSha256 } from '../sourceHash';
 import type { ReadOptions } from '../types';
-
-/** Local bindings of the parser and its value slot: a hot loop then reads no module export per number. */
-const decimalAt = parseDecimalAt;
-const DECIMAL = DECIMAL_SLOT;
+import { fastKBlock, KBlocks, type EigenvalHeader } from './eigenvalBlocks';
 
 export const EIGENVAL_FORMAT = 'vasp-eigenval';
 
@@ -36,46 +32,14 @@ export interface EigenvalData {
   /** Number of k-points the header announced (equals nk unless partial). */
   announcedK: number;
   partial: boolean;
-  /** SHA-256 of the file's bytes. */
+  /** SHA-256 of the file's bytes ('' when ReadOptions.hashSources is false). */
   sha256: string;
 }
 
-/** What the header says, checked against the bytes after it. */
-interface EigenvalHeader {
-  ispin: 1 | 2;
-  electrons: number;
-  nkAnnounced: number;
-  nBands: number;
-  system: string;
-  /** The most k-points the rest of the file can hold (never allocate for more). */
-  maxK: number;
-}
-
-/**
- * The arrays being filled and the layout of the band lines (found on the first one). One class, so the hot
- * functions below always see objects of one shape.
- */
-class KBlocks {
-  readonly kpoints: Float64Array;
-  readonly weights: Float64Array;
-  readonly energies: Float64Array[] = [];
-  occupations: Float32Array[] | null = null;
-  /** Columns of a band line (index included), -1 before the first line is read. */
-  columns = -1;
-  readonly values = new Float64Array(4);
-  nk = 0;
-
-  constructor(readonly h: EigenvalHeader) {
-    this.kpoints = new Float64Array(h.maxK * 3);
-    this.weights = new Float64Array(h.maxK);
-    for (let s = 0; s < h.ispin; s++) this.energies.push(new Float64Array(h.maxK * h.nBands));
-  }
-}
-
 export function readEigenval(file: InputFile, options: ReadOptions = {}): EigenvalData {
-  const hasher = file.stream ? createSha256() : null;
+  const hasher = file.stream ? mainFileHasher(options) : null;
   const sc = file.stream
-    ? TextScanner.streaming(file.stream, file.path, EIGENVAL_FORMAT, (c) => hasher!.update(c))
+    ? TextScanner.streaming(file.stream, file.path, EIGENVAL_FORMAT, hasher ? (c) => hasher.update(c) : undefined)
     : new TextScanner(file.bytes, file.path, EIGENVAL_FORMAT);
   const h = readHeader(sc);
   const st = new KBlocks(h);
@@ -95,7 +59,7 @@ export function readEigenval(file: InputFile, options: ReadOptions = {}): Eigenv
     system: h.system,
     announcedK: h.nkAnnounced,
     partial: nk < h.nkAnnounced,
-    sha256: hasher ? (sc.drain(), hasher.hex()) : sha256Hex(file.bytes),
+    sha256: hasher ? (sc.drain(), hasher.hex()) : file.stream ? '' : mainFileSha256(file.bytes, options),
   };
 }
 
@@ -151,6 +115,10 @@ function readKBlocks(sc: TextScanner, st: KBlocks, options: ReadOptions): void {
       if (options.isCancelled?.()) throw new CancelledError();
       options.onProgress?.(sc.filePosition / sc.fileSize);
     }
+    if (k < maxK && st.columns > 0 && fastKBlock(sc, st, k)) {
+      st.nk = k + 1;
+      continue;
+    }
     sc.skipBlankLines();
     if (sc.atEnd() || k >= maxK) {
       if (options.allowPartial && k > 0) break;
@@ -176,29 +144,16 @@ function readKBlocks(sc: TextScanner, st: KBlocks, options: ReadOptions): void {
 }
 
 /**
- * One k-point: its line and its band lines (the common ones through fastBandLine, the rest through
- * generalBandLine). False when the file ends inside it and partial files are allowed.
+ * One k-point that fastKBlock left (the first one, exponents, damage): its line and its band lines, number by
+ * number (generalBandLine). False when the file ends inside it and partial files are allowed.
  */
 function readKBlock(sc: TextScanner, st: KBlocks, k: number, options: ReadOptions): boolean {
-  const { ispin, nBands } = st.h;
   const kx = sc.number(() => `the first coordinate of k-point ${k + 1}`);
   const ky = sc.number(() => `the second coordinate of k-point ${k + 1}`);
   const kz = sc.number(() => `the third coordinate of k-point ${k + 1}`);
   const w = sc.number(() => `the weight of k-point ${k + 1}`);
   sc.endLine(`the weight of k-point ${k + 1}`);
-  const base = k * nBands;
-  const values = st.values;
-  const energies = st.energies;
-  for (let b = 0; b < nBands; b++) {
-    const columns = st.columns;
-    if (columns > 0 && fastBandLine(sc, b + 1, values, columns - 1)) {
-      for (let s = 0; s < ispin; s++) energies[s]![base + b] = values[s]!;
-      const occupations = st.occupations;
-      if (occupations) for (let s = 0; s < ispin; s++) occupations[s]![base + b] = values[ispin + s]!;
-      continue;
-    }
-    if (!generalBandLine(sc, st, k, b, options)) return false;
-  }
+  for (let b = 0; b < st.h.nBands; b++) if (!generalBandLine(sc, st, k, b, options)) return false;
   st.kpoints[3 * k] = kx;
   st.kpoints[3 * k + 1] = ky;
   st.kpoints[3 * k + 2] = kz;
@@ -305,43 +260,4 @@ function valueError(sc: TextScanner, what: string, k: number, b: number, spin: n
   const channel = spin === 0 ? ' (spin up)' : spin === 1 ? ' (spin down)' : '';
   sc.number(`${what} of band ${b + 1} at k-point ${k + 1}${channel}`);
   throw sc.error(`expected ${what} of band ${b + 1} at k-point ${k + 1}${channel}`);
-}
-
-/**
- * The common band line, "  index  E [E_down] [occ [occ_down]]", parsed in one pass over the bytes
- * (numbers.ts's fast parser). Returns false, leaving the scanner untouched, for anything else (exponents, long
- * mantissas, a wrong index, damage): the general path then reads the line and words any error.
- */
-function fastBandLine(sc: TextScanner, expectIndex: number, out: Float64Array, count: number): boolean {
-  const buf = sc.bytes;
-  const n = buf.length;
-  let p = sc.pos;
-  while (p < n && (buf[p] === 32 || buf[p] === 9)) p++;
-  let idx = 0;
-  let digits = 0;
-  while (p < n) {
-    const d = buf[p]! - 48;
-    if (d < 0 || d > 9) break;
-    idx = idx * 10 + d;
-    p++;
-    digits++;
-  }
-  if (digits === 0 || idx !== expectIndex) return false;
-  for (let j = 0; j < count; j++) {
-    const start = p;
-    while (p < n && (buf[p] === 32 || buf[p] === 9)) p++;
-    if (p === start) return false;
-    p = decimalAt(buf, p, n);
-    if (p < 0) return false;
-    const c = buf[p];
-    if (!(c === 32 || c === 9 || c === 10 || c === 13)) return false;
-    out[j] = DECIMAL[0]!;
-  }
-  while (p < n && (buf[p] === 32 || buf[p] === 9 || buf[p] === 13)) p++;
-  if (p >= n || buf[p] !== 10) return false;
-  p++;
-  sc.pos = p;
-  sc.line++;
-  sc.lineStart = p;
-  return true;
 }

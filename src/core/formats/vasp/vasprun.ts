@@ -6,7 +6,7 @@ import type { BandStructure, InputWarning, SourceFile } from '../../model';
 import type { InputFile } from '../../io/fileAccessor';
 import { basename } from '../../io/fileAccessor';
 import type { FormatReader, ReadOptions } from '../types';
-import { createSha256, sha256Hex } from '../../hash';
+import { mainFileHasher, mainFileSha256 } from '../sourceHash';
 import { CancelledError } from '../../errors';
 import { VASPRUN_FORMAT, VasprunStream, type VasprunData } from './vasprunStream';
 import { placeLineModeLabels, readKpointsCompanion } from './kpointLabels';
@@ -26,7 +26,7 @@ export function readVasprun(file: InputFile, options: ReadOptions = {}): Vasprun
   // scanner joins each piece to the unfinished row before it in a second buffer of the same size, so the piece
   // size counts twice in the peak memory (1 MiB pieces: 0.54 of a 30 MiB file, these: 0.48; CPU the same).
   const CHUNK = 1 << 18;
-  const hasher = src ? createSha256() : null;
+  const hasher = src ? mainFileHasher(options) : null;
   if (size === 0) return { ...stream.finish(false), sha256: '' };
   const buffer = src?.readInto ? new Uint8Array(Math.min(CHUNK, size)) : null;
   for (let start = 0; start < size;) {
@@ -42,7 +42,7 @@ export function readVasprun(file: InputFile, options: ReadOptions = {}): Vasprun
     options.onProgress?.(start / size);
   }
   const data = stream.finish(options.allowPartial ?? false);
-  return { ...data, sha256: hasher ? hasher.hex() : sha256Hex(file.bytes) };
+  return { ...data, sha256: hasher ? hasher.hex() : src ? '' : mainFileSha256(file.bytes, options) };
 }
 
 /** Recognise a vasprun.xml: an XML file whose root is <modeling> with a VASP <generator>. */

@@ -83,6 +83,29 @@ function simpleRow(buf: Uint8Array, p: number, end: number, tag: number, n: numb
   return q + 4;
 }
 
+/** Rows read by the last rowsOfSet call. */
+let rowsRead = 0;
+
+/**
+ * Consecutive `<r>` rows of `cols` numbers (one k-point's set) into the buffers, as many as are complete and simple;
+ * the position after the last one, their number in rowsRead. A function of its own, called once per set, so the
+ * runtime optimises this loop as an ordinary call rather than while one long call is still in it.
+ */
+function rowsOfSet(buf: Uint8Array, pos: number, end: number, cols: number, energies: DoubleBuffer, occupations: FloatBuffer): number {
+  let rows = 0;
+  for (;;) {
+    pos = skipBlanks(buf, pos, end);
+    const next = simpleRow(buf, pos, end, 114 /* r */, cols);
+    if (next < 0) break;
+    energies.push(ROW[0]!);
+    if (cols >= 2) occupations.push(ROW[1]!);
+    rows++;
+    pos = next;
+  }
+  rowsRead = rows;
+  return pos;
+}
+
 /**
  * Rows of `cols` numbers in `<v>` elements (the k-point list, the weights) straight from the bytes into
  * `list`, as many as are complete in the piece; the rest is left to the general path.
@@ -210,16 +233,8 @@ export class EigenvalueBlock {
     const occupations = this.occupations;
     newlineCount = 0;
     for (;;) {
-      let rows = 0;
-      for (;;) {
-        pos = skipBlanks(buf, pos, end);
-        const next = simpleRow(buf, pos, end, 114 /* r */, cols);
-        if (next < 0) break;
-        energies.push(ROW[0]!);
-        if (cols >= 2) occupations.push(ROW[1]!);
-        rows++;
-        pos = next;
-      }
+      pos = rowsOfSet(buf, pos, end, cols, energies, occupations);
+      const rows = rowsRead;
       if (rows > 0) {
         this.rowsInSet += rows;
         sc.markChild();
