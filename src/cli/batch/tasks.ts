@@ -49,9 +49,11 @@ async function analyzeLine(
   // The eigenvalue file and reader found when the runs were searched, when known (what loadRun would find for
   // that file): the file is not opened and recognised a second time.
   const reader = found && readerById(found.readerId);
+  // The line prints no file hash (the --json contract): the readers need not compute one.
+  const options = { ...read, hashSources: false };
   const bs = reader
-    ? await readLocated(nodeFileAccessor, { file: found.file, reader, others: found.others ?? [] }, read)
-    : await loadRun(nodeFileAccessor, path, read);
+    ? await readLocated(nodeFileAccessor, { file: found.file, reader, others: found.others ?? [] }, options)
+    : await loadRun(nodeFileAccessor, path, options);
   const report = analyzeBandStructure(bs, settings);
   return { path, ...analysisJson(bs, report, zero), lattice: bs.lattice, rotations: runCrystal(bs.structure).rotations };
 }
