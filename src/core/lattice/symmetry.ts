@@ -214,6 +214,19 @@ function symmetryFromOperations(structure: Structure, rotations: Mat3[], transla
  * operations only.
  */
 export function operationSymmetry(structure: Structure, symprec: number = DEFAULT_SYMPREC): CrystalSymmetry {
+  // A batch of runs of one crystal: the answer kept by exact input, as the library's is (moyoRuntime.ts).
+  const key = `${symprec} ${structure.lattice.flat().join(',')} ${structure.species.join(',')} ${structure.positions.join(',')}`;
+  const known = operationAnswers.get(key);
+  if (known) return known;
+  const answer = operationSymmetryOf(structure, symprec);
+  if (operationAnswers.size >= OPERATION_ANSWERS_KEPT) operationAnswers.delete(operationAnswers.keys().next().value!);
+  operationAnswers.set(key, answer);
+  return answer;
+}
+const operationAnswers = new Map<string, CrystalSymmetry>();
+const OPERATION_ANSWERS_KEPT = 16;
+
+function operationSymmetryOf(structure: Structure, symprec: number): CrystalSymmetry {
   const ops = cubicCrystalOperations(structure, symprec);
   if (!ops) return crystalSymmetry(structure, symprec);
   const sym = symmetryFromOperations(structure, ops.rotations, ops.translations, symprec);
