@@ -121,7 +121,8 @@ export function readCastepCell(file: InputFile): CastepCell {
     throw fail(abs[0]?.n ?? 1, 'POSITIONS_ABS needs the cell (LATTICE_CART or LATTICE_ABC) to give fractional positions');
   rows.forEach((r, i) => {
     const name = (r.words[0] ?? '').split(':')[0]!;
-    if (!/^[A-Za-z][A-Za-z0-9_]{0,15}$/.test(name)) throw fail(r.n, `"${r.words[0] ?? ''}" is not a species`);
+    // An element symbol or label, or an atomic number (only equality of species matters here).
+    if (!/^([A-Za-z][A-Za-z0-9_]{0,15}|[1-9]\d{0,2})$/.test(name)) throw fail(r.n, `"${r.words[0] ?? ''}" is not a species`);
     species.push(name);
     let p = numbersOf(r, 1, 3, 'a position');
     if (inverse) {

@@ -78,6 +78,11 @@ describe('CASTEP .cell', function () {
     Array.from(c.positions.subarray(3)).forEach((v) => assert.ok(Math.abs(v - 0.25) < 1e-9, String(v)));
   });
 
+  it('species given by atomic number are read as such', () => {
+    const c = readCastepCell(enc('%BLOCK POSITIONS_FRAC\n14 0 0 0\n14 0.25 0.25 0.25\n%ENDBLOCK POSITIONS_FRAC\n'));
+    assert.deepEqual(c.species, ['14', '14']);
+  });
+
   it('hostile or incomplete files are refused with the line (no positions, unterminated, twice, bad numbers, no volume)', () => {
     const cases: [string, RegExp][] = [
       [`%BLOCK LATTICE_CART\n${rows(fcc)}\n%ENDBLOCK LATTICE_CART\n`, /no POSITIONS_FRAC or POSITIONS_ABS/],
@@ -88,6 +93,7 @@ describe('CASTEP .cell', function () {
       ],
       ['%BLOCK POSITIONS_FRAC\nSi 0 zero 0\n%ENDBLOCK POSITIONS_FRAC\n', /a position should be 3 numbers/],
       ['%BLOCK POSITIONS_FRAC\n1.0 0 0 0\n%ENDBLOCK POSITIONS_FRAC\n', /is not a species/],
+      ['%BLOCK POSITIONS_FRAC\n0 0 0 0\n%ENDBLOCK POSITIONS_FRAC\n', /is not a species/],
       [
         '%BLOCK LATTICE_CART\n1 0 0\n2 0 0\n0 0 1\n%ENDBLOCK LATTICE_CART\n%BLOCK POSITIONS_FRAC\nSi 0 0 0\n%ENDBLOCK POSITIONS_FRAC\n',
         /no volume/,
