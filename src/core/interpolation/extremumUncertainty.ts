@@ -17,6 +17,7 @@ import type { RegularMesh } from './regularMesh';
 import type { SmoothStarFit } from './smoothFit';
 import { meshIndexAt } from './meshExtrema';
 import { refineExtremum, type NewtonOptions, type RefinedPoint, type StationaryKind } from './newtonExtremum';
+import type { SmoothBand } from './starInterpolant';
 
 /** Number of nearest irreducible points left out, one at a time. */
 export const LEAVE_OUT_COUNT = 4;
@@ -45,6 +46,8 @@ export interface ExtremumUncertainty {
 export function extremumUncertainty(
   fit: SmoothStarFit,
   energies: ArrayLike<number>,
+  /** The fit through all of `energies` (fit.fit(energies), which the caller has already). */
+  full: SmoothBand,
   found: RefinedPoint,
   kind: StationaryKind,
   kCart: Float64Array,
@@ -62,21 +65,32 @@ export function extremumUncertainty(
   const dm: Vec3 = [0, 0, 0];
   const refitNewton = { ...newton, maxIterations: Math.min(newton.maxIterations ?? REFIT_MAX_ITERATIONS, REFIT_MAX_ITERATIONS) };
   const own = meshPointAt(mesh, found.k, lattice);
+  // The reduced fits are used one after another and dropped: one buffer for their member coefficients.
+  const buffer = scratchFor(fit);
   for (const p of nearest) {
-    const reduced = fit.fit(energies, p);
+    const reduced = fit.fit(energies, p, buffer);
     leftOutError = Math.max(leftOutError, Math.abs(reduced.value([kCart[3 * p]!, kCart[3 * p + 1]!, kCart[3 * p + 2]!]) - energies[p]!));
     const again = refineExtremum(reduced, found.k, kind, refitNewton);
     if (again.rejected) {
       lost++;
       continue;
     }
-    const energy = p === own ? fit.fit(energies).value(again.k) : again.energy;
+    const energy = p === own ? full.value(again.k) : again.energy;
     dE = Math.max(dE, Math.abs(energy - found.energy));
     dPos = Math.max(dPos, Math.hypot(again.k[0] - found.k[0], again.k[1] - found.k[1], again.k[2] - found.k[2]));
     for (let i = 0; i < 3; i++) dm[i] = Math.max(dm[i]!, Math.abs(again.masses[i]! - found.masses[i]!));
   }
   if (lost > 0) for (let i = 0; i < 3; i++) dm[i] = Infinity;
   return { energy_eV: dE, masses: dm, position_invA: dPos, leftOutError_eV: leftOutError, leftOut: nearest, lost };
+}
+
+const scratch = new WeakMap<SmoothStarFit, Float64Array>();
+
+/** One buffer per fit for the member coefficients of its brief reduced interpolants. */
+function scratchFor(fit: SmoothStarFit): Float64Array {
+  let hit = scratch.get(fit);
+  if (!hit) scratch.set(fit, (hit = new Float64Array(fit.basis.start[fit.basis.count]!)));
+  return hit;
 }
 
 /** The irreducible point (0-based) whose mesh image is at cartesian k (to 1e-6 of a mesh step), or −1. */
