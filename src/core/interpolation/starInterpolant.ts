@@ -47,8 +47,12 @@ export class StarInterpolant implements SmoothBand {
     const lines = memberLines(basis);
     this.lines = lines;
     const star = lines.star;
-    this.memberCoefficient = memberBuffer?.length === star.length ? memberBuffer : new Float64Array(star.length);
-    for (let p = 0; p < star.length; p++) this.memberCoefficient[p] = coefficients[star[p]!]! * basis.weight[star[p]!]!;
+    this.memberCoefficient = memberCoefficients(
+      coefficients,
+      basis.weight,
+      star,
+      memberBuffer?.length === star.length ? memberBuffer : new Float64Array(star.length),
+    );
     this.tableCos = new Float64Array(3 * (2 * lines.reach + 1));
     this.tableSin = new Float64Array(3 * (2 * lines.reach + 1));
   }
@@ -126,23 +130,20 @@ function lineValueSum(lines: MemberLines, c: Float64Array, tc: Float64Array, ts:
   return e;
 }
 
+/** c_m times the star's weight for each member (stars[p] its star), into `out`. */
+function memberCoefficients(c: Float64Array, weight: Float64Array, stars: Int32Array, out: Float64Array): Float64Array {
+  for (let p = 0; p < stars.length; p++) out[p] = c[stars[p]!]! * weight[stars[p]!]!;
+  return out;
+}
+
 /** Scratch for the ten sums of lineDerivativeSums (read at once by the caller). */
 const SUMS = new Float64Array(10);
 
 /** ε, then ∂ε/∂θ_0..2, then ∂²ε/∂θ∂θ as 00, 01, 02, 11, 12, 22, into `out`. */
 function lineDerivativeSums(lines: MemberLines, c: Float64Array, tc: Float64Array, ts: Float64Array, out: Float64Array): Float64Array {
   const { start, at0, at1, at2, n0, n1, n2 } = lines;
-  // (Sums in locals, not an array: the loop then keeps them in registers.)
-  let t0 = 0,
-    t1 = 0,
-    t2 = 0,
-    t3 = 0,
-    t4 = 0,
-    t5 = 0,
-    t6 = 0,
-    t7 = 0,
-    t8 = 0,
-    t9 = 0;
+  // The ten sums are kept in `out` itself, line by line: nothing is left to do after the loop (see above).
+  out.fill(0);
   for (let l = 0; l + 1 < start.length; l++) {
     // A = Σ c e^{i n2 θ2}, B = Σ c n2 e^{i n2 θ2}, C = Σ c n2² e^{i n2 θ2} along the line.
     let ar = 0,
@@ -177,27 +178,17 @@ function lineDerivativeSums(lines: MemberLines, c: Float64Array, tc: Float64Arra
     const cosC = pr * cr - pi * ci;
     const m0 = n0[l]!;
     const m1 = n1[l]!;
-    t0 = t0 + cosA;
-    t1 = t1 - m0 * sinA;
-    t2 = t2 - m1 * sinA;
-    t3 = t3 - sinB;
-    t4 = t4 - m0 * m0 * cosA;
-    t5 = t5 - m0 * m1 * cosA;
-    t6 = t6 - m0 * cosB;
-    t7 = t7 - m1 * m1 * cosA;
-    t8 = t8 - m1 * cosB;
-    t9 = t9 - cosC;
+    out[0] = out[0]! + cosA;
+    out[1] = out[1]! - m0 * sinA;
+    out[2] = out[2]! - m1 * sinA;
+    out[3] = out[3]! - sinB;
+    out[4] = out[4]! - m0 * m0 * cosA;
+    out[5] = out[5]! - m0 * m1 * cosA;
+    out[6] = out[6]! - m0 * cosB;
+    out[7] = out[7]! - m1 * m1 * cosA;
+    out[8] = out[8]! - m1 * cosB;
+    out[9] = out[9]! - cosC;
   }
-  out[0] = t0;
-  out[1] = t1;
-  out[2] = t2;
-  out[3] = t3;
-  out[4] = t4;
-  out[5] = t5;
-  out[6] = t6;
-  out[7] = t7;
-  out[8] = t8;
-  out[9] = t9;
   return out;
 }
 
