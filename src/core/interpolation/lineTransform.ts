@@ -78,36 +78,31 @@ class LineTransform {
 
   run(): void {
     const { n, a, b, xr, xi, yr, yi, war, wai, wbr, wbi } = this;
+    // Y[t2·a + p1] = Σ_t1 x[b·t1 + t2] wa[t1·a + p1], then X[p] = Σ_t2 Y[t2·a + p mod a] wb[t2·n + p]: each
+    // complex sum in the order of its index (the loops are written out; a call per sum cost more than the sum).
     for (let t2 = 0; t2 < b; t2++) {
-      for (let p1 = 0; p1 < a; p1++) weightedSum(yr, yi, t2 * a + p1, xr, xi, t2, b, war, wai, p1, a, a);
+      for (let p1 = 0; p1 < a; p1++) {
+        let sr = 0;
+        let si = 0;
+        for (let t1 = 0, x = t2, w = p1; t1 < a; t1++, x += b, w += a) {
+          sr += xr[x]! * war[w]! - xi[x]! * wai[w]!;
+          si += xr[x]! * wai[w]! + xi[x]! * war[w]!;
+        }
+        yr[t2 * a + p1] = sr;
+        yi[t2 * a + p1] = si;
+      }
     }
-    for (let p = 0; p < n; p++) weightedSum(xr, xi, p, yr, yi, p % a, a, wbr, wbi, p, n, b);
+    for (let p = 0; p < n; p++) {
+      let sr = 0;
+      let si = 0;
+      for (let t2 = 0, y = p % a, w = p; t2 < b; t2++, y += a, w += n) {
+        sr += yr[y]! * wbr[w]! - yi[y]! * wbi[w]!;
+        si += yr[y]! * wbi[w]! + yi[y]! * wbr[w]!;
+      }
+      xr[p] = sr;
+      xi[p] = si;
+    }
   }
-}
-
-/** out[at] = Σ_{s<count} x[x0 + s·xStep] w[w0 + s·wStep], complex (real and imaginary arrays). */
-function weightedSum(
-  outR: Float64Array,
-  outI: Float64Array,
-  at: number,
-  xr: Float64Array,
-  xi: Float64Array,
-  x0: number,
-  xStep: number,
-  wr: Float64Array,
-  wi: Float64Array,
-  w0: number,
-  wStep: number,
-  count: number,
-): void {
-  let sr = 0;
-  let si = 0;
-  for (let s = 0, x = x0, w = w0; s < count; s++, x += xStep, w += wStep) {
-    sr += xr[x]! * wr[w]! - xi[x]! * wi[w]!;
-    si += xr[x]! * wi[w]! + xi[x]! * wr[w]!;
-  }
-  outR[at] = sr;
-  outI[at] = si;
 }
 
 /** exp(2πi (t·p mod n)/n) for t < rows, p < n, at t·n + p: real and imaginary parts. */

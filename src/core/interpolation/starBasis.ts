@@ -48,8 +48,10 @@ export function buildStarBasis(lattice: Mat3, pointGroup: readonly Mat3[], count
   const hit = recent.get(key);
   if (hit) return hit;
   const ops = integerOps(pointGroup);
-  // Lattice vectors needed: about count × (size of the group with inversion); more are tried if short.
-  let points = count * 2 * ops.length * 0.6 + 64;
+  // Lattice vectors needed: at most about count × (size of the group with inversion), a general star's size
+  // (special stars are smaller); more are tried if short. The stars kept do not depend on the radius tried.
+  const inversion = ops.some((w) => w.every((x, i) => x === (i % 4 === 0 ? -1 : 0)));
+  let points = count * (inversion ? ops.length : 2 * ops.length) + 64;
   for (;;) {
     const radius = Math.cbrt((3 * points * volume) / (4 * Math.PI));
     const out = starsWithin(lattice, reciprocalLattice(lattice), ops, radius, count);
