@@ -57,6 +57,31 @@ export class StarInterpolant implements SmoothBand {
     this.tableSin = new Float64Array(3 * (2 * lines.reach + 1));
   }
 
+  /**
+   * The last few energies computed, by exact k: the analysis asks again for the energy where it has just had
+   * the derivatives (a band's value at another band's extremum, the energy at the extremum found), and the
+   * same number is returned without the sum.
+   */
+  private readonly memoK = new Float64Array(3 * MEMO);
+  private readonly memoE = new Float64Array(MEMO);
+  private memoCount = 0;
+
+  private recalled(k: Vec3): number | null {
+    const n = Math.min(this.memoCount, MEMO);
+    const mk = this.memoK;
+    for (let i = 0; i < n; i++) if (mk[3 * i] === k[0] && mk[3 * i + 1] === k[1] && mk[3 * i + 2] === k[2]) return this.memoE[i]!;
+    return null;
+  }
+
+  private remember(k: Vec3, e: number): number {
+    const i = this.memoCount++ % MEMO;
+    this.memoK[3 * i] = k[0];
+    this.memoK[3 * i + 1] = k[1];
+    this.memoK[3 * i + 2] = k[2];
+    this.memoE[i] = e;
+    return e;
+  }
+
   /** Fills the phase tables at cartesian k. */
   private tables(k: Vec3): void {
     const { tableCos, tableSin } = this;
@@ -75,14 +100,17 @@ export class StarInterpolant implements SmoothBand {
 
   /** ε(k), k cartesian Å⁻¹. */
   value(k: Vec3): number {
+    const known = this.recalled(k);
+    if (known !== null) return known;
     this.tables(k);
-    return lineValueSum(this.lines, this.memberCoefficient, this.tableCos, this.tableSin);
+    return this.remember(k, lineValueSum(this.lines, this.memberCoefficient, this.tableCos, this.tableSin));
   }
 
   /** ε, ∇ε and the Hessian at cartesian k. */
   derivatives(k: Vec3): BandDerivatives {
     this.tables(k);
     const t = lineDerivativeSums(this.lines, this.memberCoefficient, this.tableCos, this.tableSin, SUMS);
+    this.remember(k, t[0]!);
     // Cartesian: ∇_k = Σ_a a_a ∂/∂θ_a; Hessian Aᵀ H_θ A with the lattice rows A.
     const a = this.basis.lattice;
     const gt = [t[1]!, t[2]!, t[3]!];
@@ -135,6 +163,9 @@ function memberCoefficients(c: Float64Array, weight: Float64Array, stars: Int32A
   for (let p = 0; p < stars.length; p++) out[p] = c[stars[p]!]! * weight[stars[p]!]!;
   return out;
 }
+
+/** Energies remembered per interpolant (StarInterpolant.recalled). */
+const MEMO = 4;
 
 /** Scratch for the ten sums of lineDerivativeSums (read at once by the caller). */
 const SUMS = new Float64Array(10);
