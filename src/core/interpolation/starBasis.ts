@@ -87,14 +87,14 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
   const width = 2 * off + 1;
   const cells = width * width * width;
   if (cells > 2 ** 31) throw new RangeError('The star basis is too large for this lattice.');
-  const { vi, len, found } = vectorsWithin(lattice, reach, radius);
+  const { vi, len2, found } = vectorsWithin(lattice, reach, radius);
   // Every star within the radius is whole (the operations keep lengths): find them all in any order, then
   // keep the `count` shortest (a sort of the stars, not of the vectors).
   // The operations' entries one after another (9 each), read with plain indices.
   const w = new Int32Array(9 * ops.length);
   ops.forEach((op, o) => w.set(op, 9 * o));
   const grouped = groupIntoStars(vi, found, w, off, width);
-  const starRadius = Array.from(grouped.representative.subarray(0, grouped.stars), (c) => len[c]!);
+  const starRadius = Array.from(grouped.representative.subarray(0, grouped.stars), (c) => Math.sqrt(len2[c]!));
   if (starRadius.length < count) return null;
   const order = Array.from(starRadius.keys()).sort((p, q) => starRadius[p]! - starRadius[q]! || p - q);
   const rank = new Int32Array(starRadius.length).fill(-1);
@@ -125,8 +125,8 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
 // The loops below are functions of their own, each run once per basis: the runtime optimises a long loop while
 // it runs, and code after it that had not yet run would otherwise send the function back to the interpreter.
 
-/** Integer vectors (i, j, l) within the radius, row by row, with their lengths. */
-function vectorsWithin(lattice: Mat3, reach: number[], radius: number): { vi: Int32Array; len: Float64Array; found: number } {
+/** Integer vectors (i, j, l) within the radius, row by row, with their squared lengths (the root only for the stars' first vectors). */
+function vectorsWithin(lattice: Mat3, reach: number[], radius: number): { vi: Int32Array; len2: Float64Array; found: number } {
   const radius2 = radius * radius;
   // For each (i, j) the range of l solves a quadratic.
   const [a0, a1, a2] = lattice;
@@ -157,11 +157,11 @@ function vectorsWithin(lattice: Mat3, reach: number[], radius: number): { vi: In
         vi[3 * found] = i;
         vi[3 * found + 1] = j;
         vi[3 * found + 2] = l;
-        len[found++] = Math.sqrt(r2);
+        len[found++] = r2;
       }
     }
   }
-  return { vi, len, found };
+  return { vi, len2: len, found };
 }
 
 /** The arrays of vectorsWithin with room for at least `need` vectors (doubling). */
