@@ -135,11 +135,50 @@ export class StarInterpolant implements SmoothBand {
 // them while the loop runs (on-stack replacement), and code after the loop that had not yet run would send
 // that optimised code back to the interpreter on every call (measured: once per derivatives call, before).
 
-/** ε = Σ c cos φ over the members, by lines. */
+/**
+ * ε = Σ c cos φ over the members, by lines. Two lines are summed side by side (each in its own order, so the
+ * sums are the same to the bit): the two chains of additions overlap, about a third faster than one at a time.
+ */
 function lineValueSum(lines: MemberLines, c: Float64Array, tc: Float64Array, ts: Float64Array): number {
-  const { start, at0, at1, at2 } = lines;
+  const { start, at2 } = lines;
+  const count = start.length - 1;
   let e = 0;
-  for (let l = 0; l + 1 < start.length; l++) {
+  let l = 0;
+  for (; l + 1 < count; l += 2) {
+    let ar = 0;
+    let ai = 0;
+    let br = 0;
+    let bi = 0;
+    let p = start[l]!;
+    let q = start[l + 1]!;
+    const pEnd = start[l + 1]!;
+    const qEnd = start[l + 2]!;
+    for (; p < pEnd && q < qEnd; p++, q++) {
+      const i2 = at2[p]!;
+      const j2 = at2[q]!;
+      const w = c[p]!;
+      const v = c[q]!;
+      ar += w * tc[i2]!;
+      ai += w * ts[i2]!;
+      br += v * tc[j2]!;
+      bi += v * ts[j2]!;
+    }
+    for (; p < pEnd; p++) {
+      const i2 = at2[p]!;
+      const w = c[p]!;
+      ar += w * tc[i2]!;
+      ai += w * ts[i2]!;
+    }
+    for (; q < qEnd; q++) {
+      const j2 = at2[q]!;
+      const v = c[q]!;
+      br += v * tc[j2]!;
+      bi += v * ts[j2]!;
+    }
+    e += lineTerm(lines, l, tc, ts, ar, ai);
+    e += lineTerm(lines, l + 1, tc, ts, br, bi);
+  }
+  for (; l < count; l++) {
     let ar = 0;
     let ai = 0;
     const end = start[l + 1]!;
@@ -149,13 +188,18 @@ function lineValueSum(lines: MemberLines, c: Float64Array, tc: Float64Array, ts:
       ar += w * tc[i2]!;
       ai += w * ts[i2]!;
     }
-    const i0 = at0[l]!;
-    const i1 = at1[l]!;
-    const pr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
-    const pi = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
-    e += pr * ar - pi * ai;
+    e += lineTerm(lines, l, tc, ts, ar, ai);
   }
   return e;
+}
+
+/** Re[e^{i(n_0 θ_0 + n_1 θ_1)} (ar + i ai)] for line l. */
+function lineTerm(lines: MemberLines, l: number, tc: Float64Array, ts: Float64Array, ar: number, ai: number): number {
+  const i0 = lines.at0[l]!;
+  const i1 = lines.at1[l]!;
+  const pr = tc[i0]! * tc[i1]! - ts[i0]! * ts[i1]!;
+  const pi = tc[i0]! * ts[i1]! + ts[i0]! * tc[i1]!;
+  return pr * ar - pi * ai;
 }
 
 /** c_m times the star's weight for each member (stars[p] its star), into `out`. */
