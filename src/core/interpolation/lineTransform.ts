@@ -17,6 +17,11 @@ export function meshTransform(re: Float64Array, im: Float64Array, dims: readonly
     const { xr, xi } = line;
     // The lines along the axis start at the indices whose coordinate along it is 0.
     const outer = total / (n * stride);
+    if (stride > 1) {
+      // Neighbouring lines side by side: the same sums, the innermost loop along contiguous memory.
+      for (let hi = 0; hi < outer; hi++) line.runSideBySide(re, im, hi * n * stride, stride);
+      continue;
+    }
     for (let hi = 0; hi < outer; hi++) {
       for (let lo = 0; lo < stride; lo++) {
         const base = hi * n * stride + lo;
@@ -102,6 +107,60 @@ class LineTransform {
       xr[p] = sr;
       xi[p] = si;
     }
+  }
+
+  /**
+   * The `stride` lines starting at base, base + 1, …, base + stride − 1 (element t of line lo at base + t·stride
+   * + lo), transformed in place in (re, im): every output is the same sum as run() makes, term by term in the
+   * same order, only the lines are interleaved.
+   */
+  runSideBySide(re: Float64Array, im: Float64Array, base: number, stride: number): void {
+    const { n, a, b, war, wai, wbr, wbi } = this;
+    const size = n * stride;
+    if (scratch.re.length < size) scratch = { re: new Float64Array(size), im: new Float64Array(size) };
+    const yr = scratch.re;
+    const yi = scratch.im;
+    for (let t2 = 0; t2 < b; t2++) {
+      for (let p1 = 0; p1 < a; p1++) {
+        const o = (t2 * a + p1) * stride;
+        yr.fill(0, o, o + stride);
+        yi.fill(0, o, o + stride);
+        for (let t1 = 0, w = p1; t1 < a; t1++, w += a) {
+          addProducts(yr, yi, o, re, im, base + (b * t1 + t2) * stride, war[w]!, wai[w]!, stride);
+        }
+      }
+    }
+    for (let p = 0; p < n; p++) {
+      const o = base + p * stride;
+      re.fill(0, o, o + stride);
+      im.fill(0, o, o + stride);
+      for (let t2 = 0, w = p; t2 < b; t2++, w += n) {
+        addProducts(re, im, o, yr, yi, (t2 * a + (p % a)) * stride, wbr[w]!, wbi[w]!, stride);
+      }
+    }
+  }
+}
+
+/** Scratch for the inner sums of side-by-side lines (grown as needed). */
+let scratch = { re: new Float64Array(0), im: new Float64Array(0) };
+
+/** out[o + i] += x[x0 + i]·(wr + i wi) for i < count, complex (real and imaginary arrays). */
+function addProducts(
+  outR: Float64Array,
+  outI: Float64Array,
+  o: number,
+  xr: Float64Array,
+  xi: Float64Array,
+  x0: number,
+  wr: number,
+  wi: number,
+  count: number,
+): void {
+  for (let i = 0; i < count; i++) {
+    const r = xr[x0 + i]!;
+    const m = xi[x0 + i]!;
+    outR[o + i] = outR[o + i]! + (r * wr - m * wi);
+    outI[o + i] = outI[o + i]! + (r * wi + m * wr);
   }
 }
 
