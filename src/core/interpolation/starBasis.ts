@@ -96,7 +96,7 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
   const grouped = groupIntoStars(vi, found, w, off, width);
   const starRadius = Array.from(grouped.representative.subarray(0, grouped.stars), (c) => Math.sqrt(len2[c]!));
   if (starRadius.length < count) return null;
-  const order = Array.from(starRadius.keys()).sort((p, q) => starRadius[p]! - starRadius[q]! || p - q);
+  const order = byRadius(starRadius);
   const rank = new Int32Array(starRadius.length).fill(-1);
   for (let r = 0; r < count; r++) rank[order[r]!] = r;
   const { keptStar, kept } = grouped;
@@ -124,6 +124,23 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
 
 // The loops below are functions of their own, each run once per basis: the runtime optimises a long loop while
 // it runs, and code after it that had not yet run would otherwise send the function back to the interpreter.
+
+/**
+ * The stars' indices by radius, equal radii in the order found: a native sort of the radii and, per distinct
+ * radius, its stars in order (the same order as sorting the indices by radius, then index; no comparator calls).
+ */
+function byRadius(radius: number[]): number[] {
+  const holders = new Map<number, number[]>();
+  for (let p = 0; p < radius.length; p++) {
+    const list = holders.get(radius[p]!);
+    if (list) list.push(p);
+    else holders.set(radius[p]!, [p]);
+  }
+  const sorted = Float64Array.from(holders.keys()).sort();
+  const order: number[] = [];
+  for (const r of sorted) order.push(...holders.get(r)!);
+  return order;
+}
 
 /** Integer vectors (i, j, l) within the radius, row by row, with their squared lengths (the root only for the stars' first vectors). */
 function vectorsWithin(lattice: Mat3, reach: number[], radius: number): { vi: Int32Array; len2: Float64Array; found: number } {
