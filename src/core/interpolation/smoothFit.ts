@@ -163,7 +163,7 @@ export class SmoothStarFit {
     const key = typeof energies === 'object' ? (energies as object) : null;
     let base = key ? this.spectralSolutions.get(key) : undefined;
     // Kept with a copy of the energies: an array changed in place is solved again.
-    if (!base || !base.energies.every((e, i) => e === energies[i])) {
+    if (!base || !sameValues(base.energies, energies)) {
       base = { ...solver.solve(energies), energies: Float64Array.from(energies) };
       if (key) this.spectralSolutions.set(key, base);
     }
@@ -194,7 +194,7 @@ export class SmoothStarFit {
     const key = typeof energies === 'object' ? (energies as object) : null;
     const hit = key ? this.solutions.get(key) : undefined;
     // Kept with a copy of the energies: an array changed in place is solved again.
-    if (hit && hit.energies!.every((e, i) => e === energies[i])) return hit;
+    if (hit && sameValues(hit.energies!, energies)) return hit;
     const size = this.n - 1;
     const rhs = new Float64Array(size);
     for (let a = 0; a < size; a++) rhs[a] = energies[a + 1]! - energies[0]!;
@@ -273,6 +273,12 @@ export class SmoothStarFit {
     this.factorL = l;
     return l;
   }
+}
+
+/** Every value of a equal (===) to the value of b at the same place (b at least as long as a). */
+function sameValues(a: Float64Array, b: ArrayLike<number>): boolean {
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
 }
 
 function sum(x: Float64Array): number {

@@ -202,11 +202,17 @@ function lineTerm(lines: MemberLines, l: number, tc: Float64Array, ts: Float64Ar
   return pr * ar - pi * ai;
 }
 
-/** c_m times the star's weight for each member (stars[p] its star), into `out`. */
+/** c_m times the star's weight for each member (stars[p] its star), into `out`: the product once per star. */
 function memberCoefficients(c: Float64Array, weight: Float64Array, stars: Int32Array, out: Float64Array): Float64Array {
-  for (let p = 0; p < stars.length; p++) out[p] = c[stars[p]!]! * weight[stars[p]!]!;
+  if (perStar.length < c.length) perStar = new Float64Array(c.length);
+  const product = perStar;
+  for (let m = 0; m < c.length; m++) product[m] = c[m]! * weight[m]!;
+  for (let p = 0; p < stars.length; p++) out[p] = product[stars[p]!]!;
   return out;
 }
+
+/** Scratch for memberCoefficients (grown as needed). */
+let perStar = new Float64Array(0);
 
 /** Energies remembered per interpolant (StarInterpolant.recalled). */
 const MEMO = 4;
