@@ -1,10 +1,11 @@
 /**
  * Writes a mesh run for the benchmark (not committed): a folder with EIGENVAL (the irreducible points of a
- * Γ-centred n×n×n mesh of diamond-structure silicon with their weights, normalised as VASP writes them, and `nb`
- * bands with occupations), KPOINTS (automatic mesh form), POSCAR, and energies.json (the energies as written, as
- * one JSON array, for the JSON.parse comparison).
+ * Γ-centred n×n×n mesh of a diamond or zincblende crystal, silicon by default, with their weights, normalised as
+ * VASP writes them, and `nb` bands with occupations), KPOINTS (automatic mesh form), POSCAR, and energies.json
+ * (the energies as written, as one JSON array, for the JSON.parse comparison).
  * Every band is the local empirical pseudopotential model of Cohen & Bergstresser (1966) (scripts/epm), solved
- * in a plane-wave basis large enough for `nb` bands (|G|² ≤ 56 (2π/a)², 459 plane waves, for 400): the lowest
+ * in a plane-wave basis large enough for `nb` bands (the smallest cutoff with 16 plane waves to spare; for 400
+ * bands |G|² ≤ 56 (2π/a)², 459 plane waves, about 40 s for a 24³ mesh): the lowest
  * bands are the published model; the high ones are the same model's eigenvalues at that cutoff, not converged
  * and not meant as physics (only the edge bands are analysed; the others are read and carried).
  * Usage: tsx scripts/bench/meshRunFiles.ts <folder> [nb=400] [n=24] [material=si (si, ge, gaas)]
