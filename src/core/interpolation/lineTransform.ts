@@ -14,28 +14,12 @@ export function meshTransform(re: Float64Array, im: Float64Array, dims: readonly
     if (n === 1) continue;
     const stride = strides[axis]!;
     const line = lineTransform(n);
-    const { xr, xi } = line;
-    // The lines along the axis start at the indices whose coordinate along it is 0.
+    // The lines along the axis start at the indices whose coordinate along it is 0. (The loops are the line
+    // transform's methods: this function stays small, and the runtime compiles each loop once, not again inside
+    // every caller it is inlined into.)
     const outer = total / (n * stride);
-    if (stride > 1) {
-      // Neighbouring lines side by side: the same sums, the innermost loop along contiguous memory.
-      for (let hi = 0; hi < outer; hi++) line.runSideBySide(re, im, hi * n * stride, stride);
-      continue;
-    }
-    for (let hi = 0; hi < outer; hi++) {
-      for (let lo = 0; lo < stride; lo++) {
-        const base = hi * n * stride + lo;
-        for (let t = 0, at = base; t < n; t++, at += stride) {
-          xr[t] = re[at]!;
-          xi[t] = im[at]!;
-        }
-        line.run();
-        for (let p = 0, at = base; p < n; p++, at += stride) {
-          re[at] = xr[p]!;
-          im[at] = xi[p]!;
-        }
-      }
-    }
+    if (stride > 1) line.sideBySide(re, im, outer, stride);
+    else line.oneByOne(re, im, outer);
   }
 }
 
@@ -107,6 +91,28 @@ class LineTransform {
       xr[p] = sr;
       xi[p] = si;
     }
+  }
+
+  /** The `outer` contiguous lines of (re, im) (line h at h·n .. h·n + n − 1), each copied out, transformed and back. */
+  oneByOne(re: Float64Array, im: Float64Array, outer: number): void {
+    const { n, xr, xi } = this;
+    for (let hi = 0; hi < outer; hi++) {
+      const base = hi * n;
+      for (let t = 0; t < n; t++) {
+        xr[t] = re[base + t]!;
+        xi[t] = im[base + t]!;
+      }
+      this.run();
+      for (let p = 0; p < n; p++) {
+        re[base + p] = xr[p]!;
+        im[base + p] = xi[p]!;
+      }
+    }
+  }
+
+  /** The lines of every block of `stride` neighbouring lines (`outer` blocks of n·stride), side by side. */
+  sideBySide(re: Float64Array, im: Float64Array, outer: number, stride: number): void {
+    for (let hi = 0; hi < outer; hi++) this.runSideBySide(re, im, hi * this.n * stride, stride);
   }
 
   /**
