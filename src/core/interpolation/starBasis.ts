@@ -87,14 +87,16 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
   const width = 2 * off + 1;
   const cells = width * width * width;
   if (cells > 2 ** 31) throw new RangeError('The star basis is too large for this lattice.');
-  const { vi, len2, found } = vectorsWithin(lattice, reach, radius);
+  const { vi, found } = vectorsWithin(lattice, reach, radius);
   // Every star within the radius is whole (the operations keep lengths): find them all in any order, then
   // keep the `count` shortest (a sort of the stars, not of the vectors).
   // The operations' entries one after another (9 each), read with plain indices.
   const w = new Int32Array(9 * ops.length);
   ops.forEach((op, o) => w.set(op, 9 * o));
   const grouped = groupIntoStars(vi, found, w, off, width);
-  const starRadius = Array.from(grouped.representative.subarray(0, grouped.stars), (c) => Math.sqrt(len2[c]!));
+  const starRadius = Array.from(grouped.representative.subarray(0, grouped.stars), (c) =>
+    Math.sqrt(squaredLength(lattice, vi[3 * c]!, vi[3 * c + 1]!, vi[3 * c + 2]!)),
+  );
   if (starRadius.length < count) return null;
   const order = byRadius(starRadius);
   const rank = new Int32Array(starRadius.length).fill(-1);
@@ -142,14 +144,16 @@ function byRadius(radius: number[]): number[] {
   return order;
 }
 
-/** Integer vectors (i, j, l) within the radius, row by row, with their squared lengths (the root only for the stars' first vectors). */
-function vectorsWithin(lattice: Mat3, reach: number[], radius: number): { vi: Int32Array; len2: Float64Array; found: number } {
+/**
+ * Integer vectors (i, j, l) within the radius, row by row. For each (i, j) the range of l solves a quadratic;
+ * only its two ends can fall outside by rounding (inside them the quadratic is below zero by at least |a3|²), so
+ * only they are measured.
+ */
+function vectorsWithin(lattice: Mat3, reach: number[], radius: number): { vi: Int32Array; found: number } {
   const radius2 = radius * radius;
-  // For each (i, j) the range of l solves a quadratic.
   const [a0, a1, a2] = lattice;
   const a22 = a2[0] * a2[0] + a2[1] * a2[1] + a2[2] * a2[2];
   let vi: Int32Array = new Int32Array(3 * 4096);
-  let len: Float64Array = new Float64Array(4096);
   let found = 0;
   for (let i = -reach[0]!; i <= reach[0]!; i++) {
     for (let j = -reach[1]!; j <= reach[1]!; j++) {
@@ -164,32 +168,35 @@ function vectorsWithin(lattice: Mat3, reach: number[], radius: number): { vi: In
       // (+ 0: an integer, never −0, which the optimised loop would have to leave for.)
       const lo = Math.max(-reach[2]!, Math.ceil((-pa - root) / a22)) + 0;
       const hi = Math.min(reach[2]!, Math.floor((-pa + root) / a22)) + 0;
-      if (found + hi - lo + 1 > len.length) ({ vi, len } = grown(vi, len, found + hi - lo + 1));
+      if (3 * (found + hi - lo + 1) > vi.length) vi = grown(vi, 3 * (found + hi - lo + 1));
       for (let l = lo; l <= hi; l++) {
-        const x = px + l * a2[0];
-        const y = py + l * a2[1];
-        const z = pz + l * a2[2];
-        const r2 = x * x + y * y + z * z;
-        if (r2 > radius2) continue;
+        if ((l === lo || l === hi) && squaredLength(lattice, i, j, l) > radius2) continue;
         vi[3 * found] = i;
         vi[3 * found + 1] = j;
         vi[3 * found + 2] = l;
-        len[found++] = r2;
+        found++;
       }
     }
   }
-  return { vi, len2: len, found };
+  return { vi, found };
 }
 
-/** The arrays of vectorsWithin with room for at least `need` vectors (doubling). */
-function grown(vi: Int32Array, len: Float64Array, need: number): { vi: Int32Array; len: Float64Array } {
-  let size = len.length;
+/** |i a1 + j a2 + l a3|², always by the same expression (the stars' radii come from it). */
+function squaredLength(lattice: Mat3, i: number, j: number, l: number): number {
+  const [a0, a1, a2] = lattice;
+  const x = i * a0[0] + j * a1[0] + l * a2[0];
+  const y = i * a0[1] + j * a1[1] + l * a2[1];
+  const z = i * a0[2] + j * a1[2] + l * a2[2];
+  return x * x + y * y + z * z;
+}
+
+/** vi with room for at least `need` entries (doubling). */
+function grown(vi: Int32Array, need: number): Int32Array {
+  let size = vi.length;
   while (size < need) size *= 2;
-  const v2 = new Int32Array(3 * size);
+  const v2 = new Int32Array(size);
   v2.set(vi);
-  const l2 = new Float64Array(size);
-  l2.set(len);
-  return { vi: v2, len: l2 };
+  return v2;
 }
 
 interface GroupedStars {
