@@ -20,8 +20,8 @@ export interface StarBasis {
    * Members kept per star: one of each ±R pair (R = 0 alone). Star m owns members start[m] .. start[m+1]−1.
    */
   start: Int32Array;
-  /** Cartesian R of the kept members, Å, 3 numbers each. */
-  members: Float64Array;
+  /** Cartesian R of the kept members, Å, 3 numbers each (made on first use: the interpolation reads `integer`). */
+  readonly members: Float64Array;
   /** The same members in lattice coordinates (R = n1 a1 + n2 a2 + n3 a3), 3 integers each. */
   integer: Int32Array;
   /** The lattice rows a1, a2, a3, Å. */
@@ -109,9 +109,8 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
   }
   for (let r = 0; r < count; r++) start[r + 1] = start[r + 1]! + start[r]!;
   const total = start[count]!;
-  const members = new Float64Array(3 * total);
   const integer = new Int32Array(3 * total);
-  placeMembers(lattice, grouped, rank, start, off, width, integer, members);
+  placeMembers(grouped, rank, start, off, width, integer);
   const weight = new Float64Array(count);
   const radii = new Float64Array(count);
   const size = new Int32Array(count);
@@ -121,7 +120,29 @@ function starsWithin(lattice: Mat3, b: Mat3, ops: Int32Array[], radius: number, 
     size[r] = grouped.size[st]!;
     weight[r] = radii[r] === 0 ? 1 : 2 / size[r]!;
   }
-  return { count, start, members, integer, lattice, weight, radius: radii, size };
+  let members: Float64Array | null = null;
+  return {
+    count,
+    start,
+    get members(): Float64Array {
+      return (members ??= cartesianMembers(lattice, integer));
+    },
+    integer,
+    lattice,
+    weight,
+    radius: radii,
+    size,
+  };
+}
+
+/** R = n1 a1 + n2 a2 + n3 a3 of every member, Å. */
+function cartesianMembers(lattice: Mat3, integer: Int32Array): Float64Array {
+  const members = new Float64Array(integer.length);
+  for (let at = 0; at < integer.length / 3; at++) {
+    const [m0, m1, m2] = [integer[3 * at]!, integer[3 * at + 1]!, integer[3 * at + 2]!];
+    for (let x = 0; x < 3; x++) members[3 * at + x] = m0 * lattice[0][x]! + m1 * lattice[1][x]! + m2 * lattice[2][x]!;
+  }
+  return members;
 }
 
 // The loops below are functions of their own, each run once per basis: the runtime optimises a long loop while
@@ -247,17 +268,8 @@ function groupIntoStars(vi: Int32Array, found: number, w: Int32Array, off: numbe
   return { stars, representative, size, keptCell, keptStar, kept };
 }
 
-/** The kept members of the ranked stars into `integer` and `members` (cartesian), star by star from `start`. */
-function placeMembers(
-  lattice: Mat3,
-  g: GroupedStars,
-  rank: Int32Array,
-  start: Int32Array,
-  off: number,
-  width: number,
-  integer: Int32Array,
-  members: Float64Array,
-): void {
+/** The kept members of the ranked stars into `integer`, star by star from `start`. */
+function placeMembers(g: GroupedStars, rank: Int32Array, start: Int32Array, off: number, width: number, integer: Int32Array): void {
   const fill = start.slice(0, start.length - 1);
   for (let j = 0; j < g.kept; j++) {
     const r = rank[g.keptStar[j]!]!;
@@ -270,7 +282,6 @@ function placeMembers(
     integer[3 * at] = m0;
     integer[3 * at + 1] = m1;
     integer[3 * at + 2] = m2;
-    for (let x = 0; x < 3; x++) members[3 * at + x] = m0 * lattice[0][x]! + m1 * lattice[1][x]! + m2 * lattice[2][x]!;
   }
 }
 
