@@ -3,7 +3,8 @@
 // process doing JSON.parse of the run's energies. The run: EPM silicon (Cohen & Bergstresser 1966) on the
 // irreducible points of a Γ-centred 24×24×24 mesh, 400 bands, as VASP files (EIGENVAL, KPOINTS, POSCAR), written
 // under bench-data/ by scripts/bench/meshRunFiles.ts the first time (not committed; about a minute). Both
-// commands under /usr/bin/time (wall and CPU = user + system, every thread), run alternately, medians printed
+// commands under /usr/bin/time (wall) with their CPU time (user + system, every thread) from the process itself
+// (scripts/bench/meshRunCpu.cjs), run alternately, medians printed
 // with their ratios beside the goal (< 10, issue 18). CPU time is the fairer measure when other work loads the machine.
 // Usage: node scripts/bench/meshRunProcess.mjs [--repeat 3] [--bands 400] [--mesh 24] [--cli dist/cli.js]
 //          [--against other/cli.js]   (--against: a second build timed alternately with the first, e.g. a base)
@@ -39,15 +40,24 @@ if (!existsSync(eigenval) || !existsSync(energies)) {
   }
 }
 
-/** One command under /usr/bin/time: wall and CPU seconds, or null. */
+/**
+ * One node process under /usr/bin/time (wall seconds) with scripts/bench/meshRunCpu.cjs preloaded (CPU seconds of
+ * every thread to the microsecond, as it exits; /usr/bin/time's own CPU figure is used if that is missing), or null.
+ */
 function timed(args) {
-  const r = spawnSync('/usr/bin/time', ['-f', '%e %U %S', ...args], { encoding: 'utf8', stdio: ['ignore', 'ignore', 'pipe'] });
-  const m = /^([\d.]+) ([\d.]+) ([\d.]+)$/.exec((r.stderr || '').trim().split('\n').pop() ?? '');
+  const [node, ...rest] = args;
+  const r = spawnSync('/usr/bin/time', ['-f', 'time %e %U %S', node, '-r', './scripts/bench/meshRunCpu.cjs', ...rest], {
+    encoding: 'utf8',
+    stdio: ['ignore', 'ignore', 'pipe'],
+  });
+  const lines = (r.stderr || '').trim().split('\n');
+  const m = /^time ([\d.]+) ([\d.]+) ([\d.]+)$/.exec(lines.pop() ?? '');
+  const own = /^cpu-us (\d+)$/.exec(lines.pop() ?? '');
   if (r.status !== 0 || !m) {
-    console.log(`  ${args.slice(1).join(' ')}: no measurement (${(r.stderr || '').trim().split('\n').pop()})`);
+    console.log(`  ${rest.join(' ')}: no measurement (${(r.stderr || '').trim().split('\n').pop()})`);
     return null;
   }
-  return { wall: Number(m[1]), cpu: Number(m[2]) + Number(m[3]) };
+  return { wall: Number(m[1]), cpu: own ? Number(own[1]) / 1e6 : Number(m[2]) + Number(m[3]) };
 }
 
 const median = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
@@ -68,14 +78,14 @@ console.log(
   `\nMesh run, EPM silicon ${n}×${n}×${n} (irreducible points) × ${bands} bands, EIGENVAL ${mib(eigenval)} MiB: analyze --json as a whole process (medians of ${repeat})`,
 );
 console.log(
-  `  JSON.parse of its energies (${mib(energies)} MiB) as a process: ${parse.wall.toFixed(2)} s wall, ${parse.cpu.toFixed(2)} s CPU`,
+  `  JSON.parse of its energies (${mib(energies)} MiB) as a process: ${parse.wall.toFixed(2)} s wall, ${parse.cpu.toFixed(3)} s CPU`,
 );
 for (const cli of clis) {
   if (!runs[cli].length) continue;
   const wall = median(runs[cli].map((r) => r.wall));
   const cpu = median(runs[cli].map((r) => r.cpu));
   console.log(
-    `  ${cli}: ${wall.toFixed(2)} s wall, ${cpu.toFixed(2)} s CPU; ratio to JSON.parse wall ${(wall / parse.wall).toFixed(1)}, CPU ${(cpu / parse.cpu).toFixed(1)}   (goal < 10)`,
+    `  ${cli}: ${wall.toFixed(2)} s wall, ${cpu.toFixed(3)} s CPU; ratio to JSON.parse wall ${(wall / parse.wall).toFixed(1)}, CPU ${(cpu / parse.cpu).toFixed(1)}   (goal < 10)`,
   );
 }
 if (clis.length === 2 && runs[clis[0]].length && runs[clis[1]].length) {
