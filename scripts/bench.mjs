@@ -104,7 +104,10 @@ if (existsSync('scripts/bench-batch.mjs')) {
   if ((await section(['scripts/bench-batch.mjs'])) !== 0) console.log('  batch benchmark failed');
 } else console.log('\nbatch: benchmark not available (scripts/bench-batch.mjs missing)');
 
-// 6. Analysis against the size of the data (issue goals: analyze --json ≤ 2.5× JSON.parse; memory and the other
+// 6. A mesh run (EPM silicon, 24³ mesh, 400 bands) analysed as a whole process against JSON.parse (issue 18).
+if ((await section(['scripts/bench/meshRunProcess.mjs'])) !== 0) console.log('  mesh run benchmark failed');
+
+// 7. Analysis against the size of the data (issue goals: analyze --json ≤ 2.5× JSON.parse; memory and the other
 // commands on a 50 MB path), in its own script.
 if (existsSync('scripts/bench-scaling.mjs')) {
   console.log('');

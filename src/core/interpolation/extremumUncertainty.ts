@@ -17,6 +17,7 @@ import type { RegularMesh } from './regularMesh';
 import type { SmoothStarFit } from './smoothFit';
 import { meshIndexAt } from './meshExtrema';
 import { refineExtremum, type NewtonOptions, type RefinedPoint, type StationaryKind } from './newtonExtremum';
+import type { SmoothBand } from './starInterpolant';
 
 /** Number of nearest irreducible points left out, one at a time. */
 export const LEAVE_OUT_COUNT = 4;
@@ -45,6 +46,8 @@ export interface ExtremumUncertainty {
 export function extremumUncertainty(
   fit: SmoothStarFit,
   energies: ArrayLike<number>,
+  /** The fit through all of `energies` (fit.fit(energies), which the caller has already). */
+  full: SmoothBand,
   found: RefinedPoint,
   kind: StationaryKind,
   kCart: Float64Array,
@@ -62,21 +65,32 @@ export function extremumUncertainty(
   const dm: Vec3 = [0, 0, 0];
   const refitNewton = { ...newton, maxIterations: Math.min(newton.maxIterations ?? REFIT_MAX_ITERATIONS, REFIT_MAX_ITERATIONS) };
   const own = meshPointAt(mesh, found.k, lattice);
+  // The reduced fits are used one after another and dropped: one buffer for their member coefficients.
+  const buffer = scratchFor(fit);
   for (const p of nearest) {
-    const reduced = fit.fit(energies, p);
+    const reduced = fit.fit(energies, p, buffer);
     leftOutError = Math.max(leftOutError, Math.abs(reduced.value([kCart[3 * p]!, kCart[3 * p + 1]!, kCart[3 * p + 2]!]) - energies[p]!));
     const again = refineExtremum(reduced, found.k, kind, refitNewton);
     if (again.rejected) {
       lost++;
       continue;
     }
-    const energy = p === own ? fit.fit(energies).value(again.k) : again.energy;
+    const energy = p === own ? full.value(again.k) : again.energy;
     dE = Math.max(dE, Math.abs(energy - found.energy));
     dPos = Math.max(dPos, Math.hypot(again.k[0] - found.k[0], again.k[1] - found.k[1], again.k[2] - found.k[2]));
     for (let i = 0; i < 3; i++) dm[i] = Math.max(dm[i]!, Math.abs(again.masses[i]! - found.masses[i]!));
   }
   if (lost > 0) for (let i = 0; i < 3; i++) dm[i] = Infinity;
   return { energy_eV: dE, masses: dm, position_invA: dPos, leftOutError_eV: leftOutError, leftOut: nearest, lost };
+}
+
+const scratch = new WeakMap<SmoothStarFit, Float64Array>();
+
+/** One buffer per fit for the member coefficients of its brief reduced interpolants. */
+function scratchFor(fit: SmoothStarFit): Float64Array {
+  let hit = scratch.get(fit);
+  if (!hit) scratch.set(fit, (hit = new Float64Array(fit.basis.start[fit.basis.count]!)));
+  return hit;
 }
 
 /** The irreducible point (0-based) whose mesh image is at cartesian k (to 1e-6 of a mesh step), or −1. */
@@ -87,36 +101,38 @@ function meshPointAt(mesh: RegularMesh, k: Vec3, lattice: Mat3): number {
 
 /** The `count` distinct irreducible points whose mesh images lie nearest to cartesian k. */
 export function nearestIrreducible(mesh: RegularMesh, k: Vec3, b: Mat3, lattice: Mat3, count: number): number[] {
-  // Cartesian distance to each mesh point, with the fractional difference wrapped into [−½, ½).
+  // Cartesian distance to mesh points, with the fractional difference wrapped into [−½, ½).
   const kf = cartesianToFractional(k, lattice);
-  const d2 = new Float64Array(mesh.total);
-  const [n1, n2, n3] = mesh.divisions;
-  for (let j1 = 0, j = 0; j1 < n1; j1++) {
-    // The mesh point's fractional k is (j + s)/n per axis, as meshPoint gives it.
-    const p0 = (j1 + mesh.shift[0]) / n1 - kf[0];
-    const f0 = p0 - Math.round(p0);
-    for (let j2 = 0; j2 < n2; j2++) {
-      const p1 = (j2 + mesh.shift[1]) / n2 - kf[1];
-      const f1 = p1 - Math.round(p1);
-      for (let j3 = 0; j3 < n3; j3++, j++) {
-        const p2 = (j3 + mesh.shift[2]) / n3 - kf[2];
-        const f2 = p2 - Math.round(p2);
-        const x = f0 * b[0][0] + f1 * b[1][0] + f2 * b[2][0];
-        const y = f0 * b[0][1] + f1 * b[1][1] + f2 * b[2][1];
-        const z = f0 * b[0][2] + f1 * b[1][2] + f2 * b[2][2];
-        d2[j] = x * x + y * y + z * z;
-      }
-    }
-  }
-  // Sort only the points within a few mesh spacings (all of them if that finds too few).
   const spacing = Math.max(...b.map((r, i) => Math.hypot(...r) / mesh.divisions[i]!));
   // Distances equal to rounding (points of one shell) are ties, taken in mesh order: the choice must not
   // depend on the last bits of k.
   const grain = 1e-9 * spacing * spacing;
+  // First the points within a few mesh spacings: along axis a only the indices with |Δf_a| ≤ reach·|a_a|/2π
+  // can be (f = Δk·B⁻¹, B⁻¹ = Aᵀ/2π); then, if that finds too few, every point of the mesh.
   for (const reach of [3 * spacing, Infinity]) {
-    const near: number[] = [];
-    for (let j = 0; j < mesh.total; j++) if (d2[j]! <= reach * reach) near.push(j);
-    near.sort((p, q) => Math.round(d2[p]! / grain) - Math.round(d2[q]! / grain) || p - q);
+    const axes = [0, 1, 2].map((a) => {
+      const limit = (reach * Math.hypot(...lattice[a]!)) / (2 * Math.PI);
+      const keep: number[] = [];
+      for (let j = 0; j < mesh.divisions[a]!; j++) if (Math.abs(wrappedOffset(mesh, a, j, kf)) <= limit * (1 + 1e-9) + 1e-12) keep.push(j);
+      return keep;
+    });
+    const d2 = new Map<number, number>();
+    const [, n2, n3] = mesh.divisions;
+    for (const j1 of axes[0]!) {
+      const f0 = wrappedOffset(mesh, 0, j1, kf);
+      for (const j2 of axes[1]!) {
+        const f1 = wrappedOffset(mesh, 1, j2, kf);
+        for (const j3 of axes[2]!) {
+          const f2 = wrappedOffset(mesh, 2, j3, kf);
+          const x = f0 * b[0][0] + f1 * b[1][0] + f2 * b[2][0];
+          const y = f0 * b[0][1] + f1 * b[1][1] + f2 * b[2][1];
+          const z = f0 * b[0][2] + f1 * b[1][2] + f2 * b[2][2];
+          const r2 = x * x + y * y + z * z;
+          if (r2 <= reach * reach) d2.set((j1 * n2 + j2) * n3 + j3, r2);
+        }
+      }
+    }
+    const near = [...d2.keys()].sort((p, q) => Math.round(d2.get(p)! / grain) - Math.round(d2.get(q)! / grain) || p - q);
     const out: number[] = [];
     for (const j of near) {
       const irr = mesh.irreducibleOf[j]!;
@@ -126,4 +142,10 @@ export function nearestIrreducible(mesh: RegularMesh, k: Vec3, b: Mat3, lattice:
     if (reach === Infinity) return out;
   }
   return [];
+}
+
+/** Fractional offset along axis a of mesh index j from kf, wrapped into [−½, ½] (the point is (j + s)/n, as meshPoint gives it). */
+function wrappedOffset(mesh: RegularMesh, a: number, j: number, kf: Vec3): number {
+  const p = (j + mesh.shift[a]!) / mesh.divisions[a]! - kf[a]!;
+  return p - Math.round(p);
 }

@@ -14,23 +14,12 @@ export function meshTransform(re: Float64Array, im: Float64Array, dims: readonly
     if (n === 1) continue;
     const stride = strides[axis]!;
     const line = lineTransform(n);
-    const { xr, xi } = line;
-    // The lines along the axis start at the indices whose coordinate along it is 0.
+    // The lines along the axis start at the indices whose coordinate along it is 0. (The loops are the line
+    // transform's methods: this function stays small, and the runtime compiles each loop once, not again inside
+    // every caller it is inlined into.)
     const outer = total / (n * stride);
-    for (let hi = 0; hi < outer; hi++) {
-      for (let lo = 0; lo < stride; lo++) {
-        const base = hi * n * stride + lo;
-        for (let t = 0, at = base; t < n; t++, at += stride) {
-          xr[t] = re[at]!;
-          xi[t] = im[at]!;
-        }
-        line.run();
-        for (let p = 0, at = base; p < n; p++, at += stride) {
-          re[at] = xr[p]!;
-          im[at] = xi[p]!;
-        }
-      }
-    }
+    if (stride > 1) line.sideBySide(re, im, outer, stride);
+    else line.oneByOne(re, im, outer);
   }
 }
 
@@ -78,36 +67,107 @@ class LineTransform {
 
   run(): void {
     const { n, a, b, xr, xi, yr, yi, war, wai, wbr, wbi } = this;
+    // Y[t2·a + p1] = Σ_t1 x[b·t1 + t2] wa[t1·a + p1], then X[p] = Σ_t2 Y[t2·a + p mod a] wb[t2·n + p]: each
+    // complex sum in the order of its index (the loops are written out; a call per sum cost more than the sum).
     for (let t2 = 0; t2 < b; t2++) {
-      for (let p1 = 0; p1 < a; p1++) weightedSum(yr, yi, t2 * a + p1, xr, xi, t2, b, war, wai, p1, a, a);
+      for (let p1 = 0; p1 < a; p1++) {
+        let sr = 0;
+        let si = 0;
+        for (let t1 = 0, x = t2, w = p1; t1 < a; t1++, x += b, w += a) {
+          sr += xr[x]! * war[w]! - xi[x]! * wai[w]!;
+          si += xr[x]! * wai[w]! + xi[x]! * war[w]!;
+        }
+        yr[t2 * a + p1] = sr;
+        yi[t2 * a + p1] = si;
+      }
     }
-    for (let p = 0; p < n; p++) weightedSum(xr, xi, p, yr, yi, p % a, a, wbr, wbi, p, n, b);
+    for (let p = 0; p < n; p++) {
+      let sr = 0;
+      let si = 0;
+      for (let t2 = 0, y = p % a, w = p; t2 < b; t2++, y += a, w += n) {
+        sr += yr[y]! * wbr[w]! - yi[y]! * wbi[w]!;
+        si += yr[y]! * wbi[w]! + yi[y]! * wbr[w]!;
+      }
+      xr[p] = sr;
+      xi[p] = si;
+    }
+  }
+
+  /** The `outer` contiguous lines of (re, im) (line h at h·n .. h·n + n − 1), each copied out, transformed and back. */
+  oneByOne(re: Float64Array, im: Float64Array, outer: number): void {
+    const { n, xr, xi } = this;
+    for (let hi = 0; hi < outer; hi++) {
+      const base = hi * n;
+      for (let t = 0; t < n; t++) {
+        xr[t] = re[base + t]!;
+        xi[t] = im[base + t]!;
+      }
+      this.run();
+      for (let p = 0; p < n; p++) {
+        re[base + p] = xr[p]!;
+        im[base + p] = xi[p]!;
+      }
+    }
+  }
+
+  /** The lines of every block of `stride` neighbouring lines (`outer` blocks of n·stride), side by side. */
+  sideBySide(re: Float64Array, im: Float64Array, outer: number, stride: number): void {
+    for (let hi = 0; hi < outer; hi++) this.runSideBySide(re, im, hi * this.n * stride, stride);
+  }
+
+  /**
+   * The `stride` lines starting at base, base + 1, …, base + stride − 1 (element t of line lo at base + t·stride
+   * + lo), transformed in place in (re, im): every output is the same sum as run() makes, term by term in the
+   * same order, only the lines are interleaved.
+   */
+  runSideBySide(re: Float64Array, im: Float64Array, base: number, stride: number): void {
+    const { n, a, b, war, wai, wbr, wbi } = this;
+    const size = n * stride;
+    if (scratch.re.length < size) scratch = { re: new Float64Array(size), im: new Float64Array(size) };
+    const yr = scratch.re;
+    const yi = scratch.im;
+    for (let t2 = 0; t2 < b; t2++) {
+      for (let p1 = 0; p1 < a; p1++) {
+        const o = (t2 * a + p1) * stride;
+        yr.fill(0, o, o + stride);
+        yi.fill(0, o, o + stride);
+        for (let t1 = 0, w = p1; t1 < a; t1++, w += a) {
+          addProducts(yr, yi, o, re, im, base + (b * t1 + t2) * stride, war[w]!, wai[w]!, stride);
+        }
+      }
+    }
+    for (let p = 0; p < n; p++) {
+      const o = base + p * stride;
+      re.fill(0, o, o + stride);
+      im.fill(0, o, o + stride);
+      for (let t2 = 0, w = p; t2 < b; t2++, w += n) {
+        addProducts(re, im, o, yr, yi, (t2 * a + (p % a)) * stride, wbr[w]!, wbi[w]!, stride);
+      }
+    }
   }
 }
 
-/** out[at] = Σ_{s<count} x[x0 + s·xStep] w[w0 + s·wStep], complex (real and imaginary arrays). */
-function weightedSum(
+/** Scratch for the inner sums of side-by-side lines (grown as needed). */
+let scratch = { re: new Float64Array(0), im: new Float64Array(0) };
+
+/** out[o + i] += x[x0 + i]·(wr + i wi) for i < count, complex (real and imaginary arrays). */
+function addProducts(
   outR: Float64Array,
   outI: Float64Array,
-  at: number,
+  o: number,
   xr: Float64Array,
   xi: Float64Array,
   x0: number,
-  xStep: number,
-  wr: Float64Array,
-  wi: Float64Array,
-  w0: number,
-  wStep: number,
+  wr: number,
+  wi: number,
   count: number,
 ): void {
-  let sr = 0;
-  let si = 0;
-  for (let s = 0, x = x0, w = w0; s < count; s++, x += xStep, w += wStep) {
-    sr += xr[x]! * wr[w]! - xi[x]! * wi[w]!;
-    si += xr[x]! * wi[w]! + xi[x]! * wr[w]!;
+  for (let i = 0; i < count; i++) {
+    const r = xr[x0 + i]!;
+    const m = xi[x0 + i]!;
+    outR[o + i] = outR[o + i]! + (r * wr - m * wi);
+    outI[o + i] = outI[o + i]! + (r * wi + m * wr);
   }
-  outR[at] = sr;
-  outI[at] = si;
 }
 
 /** exp(2πi (t·p mod n)/n) for t < rows, p < n, at t·n + p: real and imaginary parts. */

@@ -55,28 +55,34 @@ export function meshLocalExtrema(mesh: RegularMesh, energies: ArrayLike<number>,
       for (let j3 = 0; j3 < n3; j3++) {
         const j = (j1 * n2 + j2) * n3 + j3;
         const irr = mesh.irreducibleOf[j]!;
-        if (seen[irr]) continue;
-        const e0 = full[j]!;
-        let ok = true;
-        for (let a = 0; a < 3 && ok; a++) {
-          for (let b = 0; b < 3 && ok; b++) {
-            const row = w1[3 * j1 + a]! + w2[3 * j2 + b]!;
-            for (let c = 0; c < 3; c++) {
-              if (full[row + w3[3 * j3 + c]!]! < e0) {
-                ok = false;
-                break;
-              }
-            }
-          }
-        }
-        if (ok) {
-          seen[irr] = 1;
-          starts.push(j);
-        }
+        if (seen[irr] || !noNeighbourBelow(full, j, w1, 3 * j1, w2, 3 * j2, w3, 3 * j3)) continue;
+        seen[irr] = 1;
+        starts.push(j);
       }
     }
   }
   return starts;
+}
+
+/** True when no point of the 3 × 3 × 3 block around mesh point j (w1..w3: the wrapped neighbours per axis) is below it. */
+function noNeighbourBelow(
+  full: Float64Array,
+  j: number,
+  w1: Int32Array,
+  o1: number,
+  w2: Int32Array,
+  o2: number,
+  w3: Int32Array,
+  o3: number,
+): boolean {
+  const e0 = full[j]!;
+  for (let a = 0; a < 3; a++) {
+    for (let b = 0; b < 3; b++) {
+      const row = w1[o1 + a]! + w2[o2 + b]!;
+      for (let c = 0; c < 3; c++) if (full[row + w3[o3 + c]!]! < e0) return false;
+    }
+  }
+  return true;
 }
 
 /** True when every one of the 26 neighbours of mesh point j is strictly above (min) / below (max) it. */

@@ -162,21 +162,40 @@ const kernels = new WeakMap<Float64Array, Float64Array>();
 
 function kernelSpectrum(basis: StarBasis, inverseRoughness: Float64Array, mesh: RegularMesh): Float64Array | null {
   const dims = mesh.divisions;
-  const [, n2, n3] = dims;
   const z = basis.integer;
+  // Per axis, (x mod n) times the axis's stride for every coordinate x of the basis: the folded index of ±R by lookups.
+  let reach = 0;
+  for (let j = 0; j < z.length; j++) reach = Math.max(reach, Math.abs(z[j]!));
+  const strides = [dims[1] * dims[2], dims[2], 1];
+  const [f0, f1, f2] = [0, 1, 2].map((a) => Int32Array.from({ length: 2 * reach + 1 }, (_, t) => mod(t - reach, dims[a]!) * strides[a]!));
   const w = new Float64Array(mesh.total);
   for (let m = 1; m < basis.count; m++) {
     // Each kept member stands for R and −R, each with 1/(ρ n) = (weight/2)/ρ.
     const half = 0.5 * basis.weight[m]! * inverseRoughness[m]! * mesh.total;
-    for (let j = basis.start[m]!; j < basis.start[m + 1]!; j++) {
-      const plus = foldedIndex(basis, j, dims);
-      const minus = (mod(-z[3 * j]!, dims[0]) * n2 + mod(-z[3 * j + 1]!, n2)) * n3 + mod(-z[3 * j + 2]!, n3);
-      w[plus] = w[plus]! + half;
-      w[minus] = w[minus]! + half;
-    }
+    spreadStar(w, half, z, basis.start[m]!, basis.start[m + 1]!, reach, f0!, f1!, f2!);
   }
   for (let q = 1; q < mesh.total; q++) if (!(w[q]! > 0)) return null;
   return w;
+}
+
+/** Adds `half` at the folded index of R and of −R for members from..to−1 (f0..f2: kernelSpectrum's axis tables). */
+function spreadStar(
+  w: Float64Array,
+  half: number,
+  z: Int32Array,
+  from: number,
+  to: number,
+  reach: number,
+  f0: Int32Array,
+  f1: Int32Array,
+  f2: Int32Array,
+): void {
+  for (let j = from; j < to; j++) {
+    const plus = f0[reach + z[3 * j]!]! + f1[reach + z[3 * j + 1]!]! + f2[reach + z[3 * j + 2]!]!;
+    const minus = f0[reach - z[3 * j]!]! + f1[reach - z[3 * j + 1]!]! + f2[reach - z[3 * j + 2]!]!;
+    w[plus] = w[plus]! + half;
+    w[minus] = w[minus]! + half;
+  }
 }
 
 /** One solve of the fit's system for values given at the irreducible points. */

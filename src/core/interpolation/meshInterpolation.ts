@@ -228,7 +228,18 @@ export class MeshInterpolation {
         rejected.some((e) => e.reason === 'crossing' && sameStar(input.sym, e.k, kFrac))
       )
         continue;
-      const uncertainty = extremumUncertainty(this.fit, energies, p, kind, this.kCart, mesh, this.reciprocal, input.lattice, newton);
+      const uncertainty = extremumUncertainty(
+        this.fit,
+        energies,
+        interp,
+        p,
+        kind,
+        this.kCart,
+        mesh,
+        this.reciprocal,
+        input.lattice,
+        newton,
+      );
       // The whole degenerate set: outward from b while each next band is within the error of this one.
       const touching: number[] = [];
       const near = Math.max(TOUCHING_EV, 3 * uncertainty.energy_eV);

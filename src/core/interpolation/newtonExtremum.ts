@@ -7,7 +7,7 @@ import type { Mat3, Vec3 } from '../model';
 import { mat3Inverse } from '../lattice/linalg';
 import { symmetricEigen3 } from '../analysis/symmetricEigen';
 import { curvatureToMass } from '../units';
-import type { SmoothBand } from './starInterpolant';
+import type { BandDerivatives, SmoothBand } from './starInterpolant';
 
 export type StationaryKind = 'min' | 'max';
 
@@ -73,18 +73,21 @@ export function refineExtremum(band: SmoothBand, start: Vec3, kind: StationaryKi
       step = step.map((x) => (x * opt.maxStep) / len) as Vec3;
       len = opt.maxStep;
     }
-    // The halvings need only the energy (a third of the work); the derivatives once, where the step ends.
-    let next = band.value([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
+    // The first trial with the derivatives (its value is the energy, to the bit): near the extremum it is kept, and
+    // the derivatives there are then at hand. The halvings need only the energy (a third of the work).
+    let trial: BandDerivatives | null = band.derivatives([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
+    let next = trial.value;
     for (let halving = 0; halving < 30 && sign * (next - d.value) > 1e-12 * Math.max(1, Math.abs(d.value)); halving++) {
       step = step.map((x) => x / 2) as Vec3;
       len /= 2;
+      trial = null;
       next = band.value([k[0] + step[0], k[1] + step[1], k[2] + step[2]]);
     }
     // A descent step starts from four times the last one that was kept (at most maxStep): along a curved
     // valley the kept length changes slowly, and halving from maxStep every time costs many evaluations.
     gradientStep = newton ? opt.maxStep : Math.min(opt.maxStep, 4 * len);
     k = [k[0] + step[0], k[1] + step[1], k[2] + step[2]];
-    d = band.derivatives(k);
+    d = trial ?? band.derivatives(k);
     iterations++;
     // Gone beyond maxTravel: rejected as escaped whatever comes next, so stop here.
     if (norm([k[0] - start[0], k[1] - start[1], k[2] - start[2]]) > opt.maxTravel) break;

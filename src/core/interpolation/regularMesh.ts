@@ -80,24 +80,8 @@ export function recogniseMesh(
   const ops = opsOrIdentity(reciprocalOps);
   // Every image (each operation, and its negative) of every point, flat: point i's images at i·per .. (i+1)·per − 1.
   const per = 2 * ops.length;
-  const all = new Float64Array(3 * per * nk);
-  for (let i = 0, at = 0; i < nk; i++) {
-    const k0 = kFrac[3 * i]!;
-    const k1 = kFrac[3 * i + 1]!;
-    const k2 = kFrac[3 * i + 2]!;
-    for (const r of ops) {
-      for (let x = 0; x < 3; x++) {
-        const q = r[x]![0] * k0 + r[x]![1] * k1 + r[x]![2] * k2;
-        all[at + x] = q;
-        all[at + 3 + x] = -q;
-      }
-      at += 6;
-    }
-  }
-  const onMesh = (axis: number, n: number, s: number): boolean => {
-    for (let t = axis; t < all.length; t += 3) if (!(offMesh(all[t]!, n, s) < ON_MESH)) return false;
-    return true;
-  };
+  const all = allImages(kFrac, Float64Array.from(ops.flatMap((r) => [...r[0], ...r[1], ...r[2]])));
+  const onMesh = (axis: number, n: number, s: number): boolean => allOnMesh(all, axis, n, s);
   const divisions: number[] = [];
   const shift: number[] = [];
   for (let axis = 0; axis < 3; axis++) {
@@ -124,29 +108,16 @@ export function recogniseMesh(
   if (total > MAX_MESH_POINTS) return { mesh: null, reason: `The mesh ${n1}×${n2}×${n3} has more than ${MAX_MESH_POINTS} points.` };
   const irreducibleOf = new Int32Array(total).fill(-1);
   const starSize = new Int32Array(nk);
-  const wrap = (x: number, n: number, s: number): number => ((Math.round(x * n - s) % n) + n) % n;
   // A point whose first image belongs to an earlier point's star lies wholly in it (stars are disjoint).
-  let duplicateOf: Int32Array | null = null;
-  for (let i = 0; i < nk; i++) {
-    for (let t = 3 * per * i; t < 3 * per * (i + 1); t += 3) {
-      const j = (wrap(all[t]!, n1, shift[0]!) * n2 + wrap(all[t + 1]!, n2, shift[1]!)) * n3 + wrap(all[t + 2]!, n3, shift[2]!);
-      const owner = irreducibleOf[j]!;
-      if (owner === -1) {
-        irreducibleOf[j] = i;
-        starSize[i]!++;
-      } else if (owner !== i) {
-        if (!options.mergeEquivalent || t !== 3 * per * i) {
-          return {
-            mesh: null,
-            reason: `k-points ${owner + 1} and ${i + 1} are equivalent by symmetry: the list is not an irreducible set for this crystal.`,
-          };
-        }
-        duplicateOf ??= new Int32Array(nk).fill(-1);
-        duplicateOf[i] = owner;
-        break;
-      }
-    }
+  const duplicates = options.mergeEquivalent ? new Int32Array(nk).fill(-1) : null;
+  const clash = markImages(all, per, [n1, n2, n3], shift, irreducibleOf, starSize, duplicates);
+  if (clash) {
+    return {
+      mesh: null,
+      reason: `k-points ${clash[0] + 1} and ${clash[1] + 1} are equivalent by symmetry: the list is not an irreducible set for this crystal.`,
+    };
   }
+  const duplicateOf = duplicates && duplicates.some((d) => d >= 0) ? duplicates : null;
   let missing = 0;
   for (let j = 0; j < total; j++) if (irreducibleOf[j] === -1) missing++;
   if (missing > 0) {
@@ -190,6 +161,74 @@ export function recogniseMesh(
   const mesh: RegularMesh = { divisions: [n1, n2, n3], shift: shift as [number, number, number], total, irreducibleOf, starSize };
   if (duplicateOf) mesh.duplicateOf = duplicateOf;
   return { mesh, reason: null };
+}
+
+// The loops over every image are small functions of their own (they run once per run, mostly before the
+// runtime has optimised them: plain loops, no calls per image).
+
+/** Every image (each operation, and its negative) of every point, flat: point i's images at i·per .. (i+1)·per − 1. */
+function allImages(kFrac: Float64Array, ops: Float64Array): Float64Array {
+  const nk = kFrac.length / 3;
+  const all = new Float64Array(((3 * 2 * ops.length) / 9) * nk);
+  for (let i = 0, at = 0; i < nk; i++) {
+    const k0 = kFrac[3 * i]!;
+    const k1 = kFrac[3 * i + 1]!;
+    const k2 = kFrac[3 * i + 2]!;
+    for (let o = 0; o < ops.length; o += 9) {
+      for (let x = 0; x < 3; x++) {
+        const q = ops[o + 3 * x]! * k0 + ops[o + 3 * x + 1]! * k1 + ops[o + 3 * x + 2]! * k2;
+        all[at + x] = q;
+        all[at + 3 + x] = -q;
+      }
+      at += 6;
+    }
+  }
+  return all;
+}
+
+/** Whether component `axis` of every image lies on the mesh (j + s)/n (offMesh below ON_MESH). */
+function allOnMesh(all: Float64Array, axis: number, n: number, s: number): boolean {
+  for (let t = axis; t < all.length; t += 3) {
+    const y = all[t]! * n - s;
+    if (!(Math.abs(y - Math.round(y)) / n < ON_MESH)) return false;
+  }
+  return true;
+}
+
+/**
+ * Marks the mesh point of every image with its irreducible point and counts the stars; the first two points
+ * found equivalent, or null.
+ */
+function markImages(
+  all: Float64Array,
+  per: number,
+  dims: readonly [number, number, number],
+  shift: readonly number[],
+  irreducibleOf: Int32Array,
+  starSize: Int32Array,
+  /** When given, a point whose first image is already taken is recorded as a duplicate of its owner (not a clash). */
+  duplicateOf: Int32Array | null = null,
+): [number, number] | null {
+  const [n1, n2, n3] = dims;
+  const [s1, s2, s3] = [shift[0]!, shift[1]!, shift[2]!];
+  for (let i = 0; i < starSize.length; i++) {
+    for (let t = 3 * per * i; t < 3 * per * (i + 1); t += 3) {
+      const j1 = ((Math.round(all[t]! * n1 - s1) % n1) + n1) % n1;
+      const j2 = ((Math.round(all[t + 1]! * n2 - s2) % n2) + n2) % n2;
+      const j3 = ((Math.round(all[t + 2]! * n3 - s3) % n3) + n3) % n3;
+      const j = (j1 * n2 + j2) * n3 + j3;
+      const owner = irreducibleOf[j]!;
+      if (owner === -1) {
+        irreducibleOf[j] = i;
+        starSize[i]!++;
+      } else if (owner !== i) {
+        if (!duplicateOf || t !== 3 * per * i) return [owner, i];
+        duplicateOf[i] = owner;
+        break;
+      }
+    }
+  }
+  return null;
 }
 
 /**

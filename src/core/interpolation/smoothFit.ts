@@ -110,7 +110,8 @@ export class SmoothStarFit {
 
   /**
    * The interpolant through `energies` (one per data point, eV), leaving out data point `exclude` when given
-   * (leave-one-out). Throws when the system is singular (two data points at the same k).
+   * (leave-one-out). Throws when the system is singular (two data points at the same k). `memberBuffer`: see
+   * StarInterpolant (an interpolant for brief use).
    *
    * With the reference point 0 the multipliers solve A λ = ε − ε_0 over the other points (A the matrix of the
    * differences S(k_i) − S(k_0)); one factorisation of A serves every band and every point left out. Leaving
@@ -118,13 +119,13 @@ export class SmoothStarFit {
    * then zero and the other equations hold). Leaving out 0: the differences to point 1 still hold if every
    * equation is shifted alike, λ = x + β A⁻¹ 1, with β making the multiplier of point 0, −Σλ, zero.
    */
-  fit(energies: ArrayLike<number>, exclude: number | null = null): StarInterpolant {
+  fit(energies: ArrayLike<number>, exclude: number | null = null, memberBuffer?: Float64Array): StarInterpolant {
     const { n } = this;
     if (energies.length !== n) throw new RangeError(`Expected ${n} energies, got ${energies.length}.`);
     if (exclude !== null && !(Number.isInteger(exclude) && exclude >= 0 && exclude < n)) {
       throw new RangeError(`There is no data point ${exclude + 1} to leave out.`);
     }
-    if (this.spectral) return this.spectralFit(energies, exclude);
+    if (this.spectral) return this.spectralFit(energies, exclude, memberBuffer);
     // Everything is linear in the multipliers: Σ_i μ_i S_m(k_i) of the band's solution x, less f times that of z.
     const base = this.solved(energies);
     let c = base.sums;
@@ -147,7 +148,7 @@ export class SmoothStarFit {
       c0 -= c[j]! * sr[j]!;
     }
     c[0] = c0;
-    return new StarInterpolant(this.basis, c);
+    return new StarInterpolant(this.basis, c, memberBuffer);
   }
 
   /**
@@ -157,12 +158,12 @@ export class SmoothStarFit {
    * values to multipliers is symmetric (the bordered system is), so μ_p(ε) = Σ_i μ_i(e_p) ε_i: only e_p's
    * multipliers are needed, the same for every band.
    */
-  private spectralFit(energies: ArrayLike<number>, exclude: number | null): StarInterpolant {
+  private spectralFit(energies: ArrayLike<number>, exclude: number | null, memberBuffer?: Float64Array): StarInterpolant {
     const solver = this.spectral!;
     const key = typeof energies === 'object' ? (energies as object) : null;
     let base = key ? this.spectralSolutions.get(key) : undefined;
     // Kept with a copy of the energies: an array changed in place is solved again.
-    if (!base || !base.energies.every((e, i) => e === energies[i])) {
+    if (!base || !sameValues(base.energies, energies)) {
       base = { ...solver.solve(energies), energies: Float64Array.from(energies) };
       if (key) this.spectralSolutions.set(key, base);
     }
@@ -185,7 +186,7 @@ export class SmoothStarFit {
     }
     for (let j = 1; j < c.length; j++) c[j] = c[j]! * this.inverseRoughness[j]!;
     c[0] = c0;
-    return new StarInterpolant(this.basis, c);
+    return new StarInterpolant(this.basis, c, memberBuffer);
   }
 
   /** The multipliers λ of a band and their star sums (kept per energies array: leave-one-out reuses them). */
@@ -193,7 +194,7 @@ export class SmoothStarFit {
     const key = typeof energies === 'object' ? (energies as object) : null;
     const hit = key ? this.solutions.get(key) : undefined;
     // Kept with a copy of the energies: an array changed in place is solved again.
-    if (hit && hit.energies!.every((e, i) => e === energies[i])) return hit;
+    if (hit && sameValues(hit.energies!, energies)) return hit;
     const size = this.n - 1;
     const rhs = new Float64Array(size);
     for (let a = 0; a < size; a++) rhs[a] = energies[a + 1]! - energies[0]!;
@@ -272,6 +273,12 @@ export class SmoothStarFit {
     this.factorL = l;
     return l;
   }
+}
+
+/** Every value of a equal (===) to the value of b at the same place (b at least as long as a). */
+function sameValues(a: Float64Array, b: ArrayLike<number>): boolean {
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
 }
 
 function sum(x: Float64Array): number {
