@@ -4,7 +4,8 @@
  * Usage: tsx scripts/bench/measure.ts <task> <file> [args]
  *   read-valleyscope <file>     read through the core loader (streaming where the reader can)
  *   read-only <file>            the reader alone, streamed through a ranged source (no companions, no label
- *                               inference from the lattice): what a reader's own speed and memory goals are about
+ *                               inference from the lattice, no file hash: as `analyze` reads, which prints none;
+ *                               `annotate` adds the SHA-256): what a reader's own speed and memory goals are about
  *   json-parse <file.json>      read the file and JSON.parse it (the runtime's C++ number parser)
  *   newline-count <file>        read in 16 MiB chunks and count newlines (the I/O floor)
  *   analyze-path <nk> <nb>      full analysis of a synthetic path band structure (all extrema, fits, symmetry)
@@ -36,7 +37,7 @@ async function main(): Promise<void> {
     const loc = await locateRun(nodeFileAccessor, a1!);
     const stream = nodeFileAccessor.openRanged!(loc.file);
     try {
-      const bs = loc.reader.read({ path: loc.file, bytes: new Uint8Array(0), stream }, [], {});
+      const bs = loc.reader.read({ path: loc.file, bytes: new Uint8Array(0), stream }, [], { hashSources: false });
       count = bs.nk * bs.nBands * bs.nSpin;
     } finally {
       stream.close();
