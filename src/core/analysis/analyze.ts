@@ -90,7 +90,8 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
     // A mesh run: edges and masses from the interpolated bands; otherwise (or when it cannot be interpolated) the points as they are.
     const meshRefusal = gap && mayBeMeshRun(bs, local !== null) ? analyzeMeshRun(bs, report, s, { occ, edges }) : 'not a mesh run';
     if (gap && meshRefusal !== null) {
-      if (mayBeMeshRun(bs, local !== null)) report.warnings.push(meshRunNotUsed(bs.declaredMesh, meshRefusal));
+      const why = mayBeMeshRun(bs, local !== null) ? meshRunNotUsed(bs, meshRefusal) : null;
+      if (why) report.warnings.push(why);
       analyzeExtrema(bs, report, s, { occ, edges });
     } else if (metal && cls.fermi_eV !== null) {
       const crossing = cls.spins.flatMap((v) => v.crossing.map((band) => ({ spin: v.spin, band })));

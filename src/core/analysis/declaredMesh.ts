@@ -4,7 +4,8 @@
  * beside the data most likely belongs to another run (and so may the structure beside it), which a reviewer
  * must hear. The points decide what is interpolated; the declaration is only compared.
  */
-import type { DeclaredMesh } from '../model';
+import type { BandStructure, DeclaredMesh } from '../model';
+import { BANDS_BREAK_SYMMETRY } from '../interpolation/equivalentPoints';
 
 const HALF = 0.5;
 
@@ -40,8 +41,16 @@ export function declaredMeshMismatch(
   return `${capital(declared.source)} declares the mesh ${describeMesh(declared)}, but the k-points of the eigenvalue file form the mesh ${describeMesh(found)}: the input file beside the data may belong to another run (check the structure beside it too). The k-points in the eigenvalue file were used.`;
 }
 
-/** Why a run of scattered points (a declared mesh or not) was not interpolated as a mesh run, for the report. */
-export function meshRunNotUsed(declared: DeclaredMesh | undefined, reason: string): string {
+/**
+ * Why a run of scattered points was not interpolated as a mesh run, for the report — when a reader would expect
+ * it to be: a mesh is declared, the weights differ (a mesh reduced by symmetry), or the bands broke the crystal's
+ * symmetry. Null for other lists (a path written point by point, a hybrid run's zero-weight path): no noise.
+ */
+export function meshRunNotUsed(bs: Pick<BandStructure, 'declaredMesh' | 'weights'>, reason: string): string | null {
+  const declared = bs.declaredMesh;
+  const w = bs.weights;
+  const reduced = w !== null && w.length > 1 && w.some((x) => Math.abs(x - w[0]!) > 1e-6 * Math.abs(w[0]!) + 1e-12);
+  if (!declared && !reduced && !reason.includes(BANDS_BREAK_SYMMETRY)) return null;
   const why = reason.replace(/\.$/, '');
   if (!declared) return `The k-points were not interpolated as a mesh run: ${why}. They are analysed as they are.`;
   return `${capital(declared.source)} declares the mesh ${describeMesh(declared)}, but the run was not interpolated: ${why}. The k-points are analysed as they are.`;

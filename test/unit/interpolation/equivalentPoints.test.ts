@@ -106,13 +106,20 @@ describe('mesh runs listing points equivalent by symmetry', function () {
     assert.equal(r.interpolation!.mergedEquivalentPoints!.listed, kpoints.length / 3);
   });
 
-  it('equal weights on the time-reversal half do not match the stars: not interpolated, the reason given', async () => {
+  it('weights that do not match the stars: not interpolated; the reason given when the weights say a reduced mesh', async () => {
     const { kpoints } = wholeMesh(true);
     const r = await analyzeRun(kpoints, new Float64Array(kpoints.length / 3).fill(1));
     assert.equal(r.interpolation, undefined);
+    // Equal weights and no declared mesh: a list like a path written point by point, so no word about meshes.
+    assert.ok(!r.warnings.some((w) => /mesh run/.test(w)), r.warnings.join('\n'));
+    // Weights that differ (a symmetry-reduced mesh) but not as the stars: the reason is given.
+    const { weights } = wholeMesh(true);
+    const wrong = Float64Array.from(weights, (w, i) => (i === 1 ? 3 * w : w));
+    const r2 = await analyzeRun(kpoints, wrong);
+    assert.equal(r2.interpolation, undefined);
     assert.ok(
-      r.warnings.some((w) => /not interpolated as a mesh run: The weight of k-point \d+ .* differs from its star/.test(w)),
-      r.warnings.join('\n'),
+      r2.warnings.some((w) => /not interpolated as a mesh run: The weight of k-point \d+ .* differs from its star/.test(w)),
+      r2.warnings.join('\n'),
     );
   });
 
