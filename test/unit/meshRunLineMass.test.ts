@@ -34,6 +34,9 @@ describe('masses at unresolved extrema on even mesh points (meshRunLineMass)', f
         assert.equal(y.energy_eV, x.energy_eV); // the run's own energy at the mesh point
         const line = r.axes.methods.indexOf(EVEN_LINE);
         assert.ok(line >= 0, JSON.stringify(r.axes));
+        // Provenance: the line mass names the line's own points (Γ to L or X on a 12³ mesh: 7 mesh points, common
+        // practice), the others the whole run's (null here: the caller's count).
+        r.axes.points!.forEach((n, i) => (i === line ? assert.ok(n !== null && n >= 3 && n <= 7, String(n)) : assert.equal(n, null)));
         // The line axis points at Γ from k (these k are the shortest images of their points).
         const kc = run.toCart(x.k);
         const cos = Math.abs(kc.reduce((acc, v, i) => acc + v * y.axes[line]![i]!, 0)) / Math.hypot(...kc);

@@ -47,7 +47,7 @@ export function principalMassFits(x: InterpolatedExtremum, points: number, axes?
       direction: [...x.axes[i]!],
       mass,
       stderr: x.uncertainty.masses[i]!,
-      points,
+      points: axes?.points?.[i] ?? points,
       window_meV: 0,
       method: axes?.methods[i] ?? STAR_INTERPOLATION,
       determined,

@@ -101,5 +101,12 @@ export function massesAtEvenMeshPoint(
     const bad = [...new Set([0, 1, 2].filter((i) => !ok[i]).map((i) => `${i === axis ? 'along' : 'across'} the line ±${percent(i)} %`))];
     extremum.undeterminedReason = `Masses not all quoted (limit ${100 * MASS_UNCERTAINTY_LIMIT} %): ${bad.join(', ')}: the mesh is too coarse for this valley.`;
   }
-  return { extremum, axes: { methods: masses.map((_, i) => (i === axis ? EVEN_LINE : starMethod)), determined: ok } };
+  return {
+    extremum,
+    axes: {
+      methods: masses.map((_, i) => (i === axis ? EVEN_LINE : starMethod)),
+      determined: ok,
+      points: masses.map((_, i) => (i === axis ? fit.points : null)),
+    },
+  };
 }

@@ -22,6 +22,8 @@ export const PAIR_LINE = 'pair-line';
 export interface AxisProvenance {
   methods: string[];
   determined: boolean[];
+  /** Data points behind each axis's mass, where an axis used fewer than the whole run (a line's mesh points). */
+  points?: (number | null)[];
 }
 
 const dot = (a: readonly number[], b: readonly number[]): number => a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!;
@@ -116,5 +118,12 @@ export function refineOnTouchingLine(
   };
   if (reason) extremum.undeterminedReason = reason;
   else delete extremum.undeterminedReason;
-  return { extremum, axes: { methods: masses.map((_, i) => (i === axis ? PAIR_LINE : starMethod)), determined: ok } };
+  return {
+    extremum,
+    axes: {
+      methods: masses.map((_, i) => (i === axis ? PAIR_LINE : starMethod)),
+      determined: ok,
+      points: masses.map((_, i) => (i === axis ? q.length : null)),
+    },
+  };
 }
