@@ -13,7 +13,7 @@
 import { runWithThreadCpu } from './bench/threadCpu.mjs';
 import { spawn } from 'node:child_process';
 import { availableParallelism, loadavg } from 'node:os';
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 
 const arg = (name, dflt) => {
@@ -167,6 +167,39 @@ const lcHalf = median(lc.map((x) => x.half ?? NaN));
 const lcAll = median(lc.map((x) => x.all));
 console.log(
   `  one job, the first half of the runs out after ${lcHalf.toFixed(0)} ms of ${lcAll.toFixed(0)} ms (process start included): the best two threads can do, each starting cold, is ${(lcHalf / lcAll).toFixed(2)} of one   (a bound beside the goal)`,
+);
+// What this machine's two cores give this work with no pool at all: two separate processes, each given half
+// of the runs by name and started at once, against one process given all of them by name. Nothing is shared
+// between the two (each starts, searches its half and warms its own code), so this is what a perfect split of
+// the runs between two jobs would take here; --jobs 2 is set beside it.
+function wallOf(argsList) {
+  return new Promise((resolve, reject) => {
+    const t0 = process.hrtime.bigint();
+    let left = argsList.length;
+    for (const args of argsList) {
+      const child = spawn(process.execPath, [cli, 'analyze', ...args, '--jsonl', '--jobs', '1'], { stdio: 'ignore' });
+      child.on('error', reject);
+      child.on('exit', () => {
+        if (--left === 0) resolve(Number(process.hrtime.bigint() - t0) / 1e6);
+      });
+    }
+  });
+}
+const runDirs = readdirSync(dir)
+  .filter((n) => n.startsWith('run-'))
+  .sort()
+  .map((n) => join(dir, n));
+const halves = [runDirs.slice(0, runDirs.length >> 1), runDirs.slice(runDirs.length >> 1)];
+const oneAll = [];
+const twoHalves = [];
+for (let i = 0; i < repeat; i++) {
+  oneAll.push(await wallOf([runDirs]));
+  twoHalves.push(await wallOf(halves));
+}
+const mOne = median(oneAll);
+const mTwo = median(twoHalves);
+console.log(
+  `  two separate processes, each given half of the runs, at once: ${mTwo.toFixed(0)} ms against ${mOne.toFixed(0)} ms for one given all: ${(mTwo / mOne).toFixed(2)}   (what a perfect split gives on this machine; --jobs 2 / --jobs 1 above: ${(m2 / m1).toFixed(2)})`,
 );
 const load1 = loadavg()[0];
 const busy = Math.max(load0, load1) > availableParallelism();

@@ -42,15 +42,16 @@ export function batchOptionsFromArgs(p: ParsedArgs): BatchOptions {
 export function progressReporter(
   progress: ((text: string) => void) | undefined,
   what: string,
-): { update: (p: { done: number; failed: number; total: number }) => void; clear: () => void } {
+): { update: (p: { done: number; failed: number; total: number; searching?: boolean }) => void; clear: () => void } {
   let last = 0;
   return {
     update: (p) => {
       if (!progress) return;
       const now = Date.now();
-      if (p.done < p.total && now - last < 100) return;
+      if ((p.searching || p.done < p.total) && now - last < 100) return;
       last = now;
-      progress(`valleyscope: ${p.done}/${p.total} ${what}${p.failed ? `, ${p.failed} failed` : ''}`);
+      const failed = p.failed ? `, ${p.failed} failed` : '';
+      progress(`valleyscope: ${p.done}/${p.total} ${what}${failed}${p.searching ? ' (still searching for runs)' : ''}`);
     },
     clear: () => progress?.(''),
   };

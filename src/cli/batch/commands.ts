@@ -7,12 +7,13 @@ import type { FileOutcome, FoundAnnotations } from '../commands/check';
 import type { EnergyZeroMode } from '../../core/report/energyZero';
 import type { ReadFlags } from '../commands/annotate';
 import { nodeFileAccessor } from '../nodeFileAccessor';
-import type { Worker } from 'node:worker_threads';
-import { findRuns, type FoundRuns } from './findRuns';
+import { findRuns, type FoundFile, type FoundRuns } from './findRuns';
 import { inShard } from './shard';
 import { prestartWorkers, runPool } from './pool';
 import { progressReporter, type BatchOptions } from './batchOptions';
-import type { BatchTask } from './tasks';
+import type { BatchResult, BatchTask } from './tasks';
+import { TaskFeed } from './taskFeed';
+import { comparePaths } from './pathOrder';
 
 function shardNote(opts: BatchOptions, kept: number, all: number, what: string): string | null {
   if (!opts.shard) return null;
@@ -20,33 +21,54 @@ function shardNote(opts: BatchOptions, kept: number, all: number, what: string):
 }
 
 /**
- * The runs under `roots`, with the pool's workers started meanwhile (their start overlaps the search). Null,
- * the workers stopped and a sentence on stderr, when there are none.
+ * Search `roots` for runs and run this shard's share in the pool, each run started as soon as it is found (the
+ * workers start meanwhile); results are handed to `onResult` in path order once the search has ended. Returns
+ * the number of runs, or null (the workers stopped and a sentence on stderr) when there are none.
  */
-async function runsWithWorkers(
+async function searchAndRun(
   roots: string[],
   opts: BatchOptions,
   io: CliIO,
   command: string,
-): Promise<{ found: FoundRuns; workers: Worker[] } | null> {
+  what: string,
+  taskOf: (path: string, file: FoundFile | undefined) => BatchTask,
+  onResult: (r: BatchResult) => void,
+): Promise<number | null> {
   const workers = prestartWorkers(opts.jobs);
-  const stop = (): void => {
-    for (const w of workers) void w.terminate();
-  };
+  const feed = new TaskFeed();
+  const paths: string[] = [];
+  const progress = progressReporter(io.progress, what);
+  const pool = runPool(feed, opts.jobs, onResult, progress.update, workers);
   let found: FoundRuns;
   try {
-    found = await findRuns(nodeFileAccessor, roots);
+    found = await findRuns(nodeFileAccessor, roots, (path, file) => {
+      if (!inShard(path, opts.shard)) return;
+      paths.push(path);
+      feed.push(taskOf(path, file));
+    });
   } catch (e) {
-    stop();
+    feed.cancel();
+    await pool;
     throw e;
   }
   for (const n of found.notes) io.err(`valleyscope: ${n}`);
   if (found.runs.length === 0) {
-    stop();
+    feed.close();
+    await pool;
     io.err(`valleyscope ${command}: no eigenvalue files found under ${roots.join(', ')}`);
     return null;
   }
-  return { found, workers };
+  const note = shardNote(opts, paths.length, found.runs.length, 'runs');
+  if (note) io.err(`valleyscope: ${note}`);
+  feed.close(
+    paths
+      .map((p, i) => [p, i] as const)
+      .sort((a, b) => comparePaths(a[0], b[0]))
+      .map(([, i]) => i),
+  );
+  await pool;
+  progress.clear();
+  return paths.length;
 }
 
 /** `analyze --jsonl`: one line per run, in path order; exit 1 when any run failed (its line says why). */
@@ -58,32 +80,22 @@ export async function analyzeBatch(
   io: CliIO,
   zero: EnergyZeroMode = 'vbm',
 ): Promise<number> {
-  const search = await runsWithWorkers(roots, opts, io, 'analyze');
-  if (!search) return 1;
-  const { found, workers } = search;
-  const runs = found.runs.filter((r) => inShard(r, opts.shard));
-  const note = shardNote(opts, runs.length, found.runs.length, 'runs');
-  if (note) io.err(`valleyscope: ${note}`);
-  const tasks: BatchTask[] = runs.map((path) => {
-    const file = found.files.get(path);
-    return file === undefined
-      ? { kind: 'analyze', path, settings, read, zero }
-      : { kind: 'analyze', path, settings, read, zero, found: file };
-  });
   let failed = 0;
-  const progress = progressReporter(io.progress, 'runs analysed');
-  await runPool(
-    tasks,
-    opts.jobs,
+  const runs = await searchAndRun(
+    roots,
+    opts,
+    io,
+    'analyze',
+    'runs analysed',
+    (path, file) =>
+      file === undefined ? { kind: 'analyze', path, settings, read, zero } : { kind: 'analyze', path, settings, read, zero, found: file },
     (r) => {
       if (r.kind !== 'analyze') return;
       if (r.failed) failed++;
       io.out(r.line);
     },
-    progress.update,
-    workers,
   );
-  progress.clear();
+  if (runs === null) return 1;
   return failed > 0 ? 1 : 0;
 }
 
@@ -116,15 +128,14 @@ export async function annotateBatch(
   opts: BatchOptions,
   io: CliIO,
 ): Promise<number> {
-  const search = await runsWithWorkers(roots, opts, io, 'annotate');
-  if (!search) return 1;
-  const { found, workers } = search;
-  const runs = found.runs.filter((r) => inShard(r, opts.shard));
   let failed = 0;
-  const progress = progressReporter(io.progress, 'runs annotated');
-  await runPool(
-    runs.map((path): BatchTask => ({ kind: 'annotate', path, settings, read })),
-    opts.jobs,
+  const runs = await searchAndRun(
+    roots,
+    opts,
+    io,
+    'annotate',
+    'runs annotated',
+    (path) => ({ kind: 'annotate', path, settings, read }),
     (r) => {
       if (r.kind !== 'annotate') return;
       if (r.failed) failed++;
@@ -132,14 +143,12 @@ export async function annotateBatch(
         io.out(JSON.stringify({ path: r.path, messages: r.out, warnings: r.err, ...(r.error !== null ? { error: r.error } : {}) }));
         return;
       }
-      progress.clear();
+      io.progress?.('');
       for (const t of r.out) io.out(t);
       for (const t of r.err) io.err(t);
       if (r.error !== null) io.err(`valleyscope: ${r.error}`);
     },
-    progress.update,
-    workers,
   );
-  progress.clear();
+  if (runs === null) return 1;
   return failed > 0 ? 1 : 0;
 }

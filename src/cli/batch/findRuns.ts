@@ -64,16 +64,29 @@ function limiter(n: number): <T>(f: () => Promise<T>) => Promise<T> {
   };
 }
 
-export async function findRuns(fs: FileAccessor, roots: readonly string[]): Promise<FoundRuns> {
+/**
+ * `onRun`, when given, hears of each run as soon as it is found (in no particular order, each once), so work on it
+ * can start while the search goes on. A named path that does not exist fails the search before any run is found.
+ */
+export async function findRuns(
+  fs: FileAccessor,
+  roots: readonly string[],
+  onRun?: (run: string, file: FoundFile | undefined) => void,
+): Promise<FoundRuns> {
   const found = new Set<string>();
   const files = new Map<string, FoundFile>();
   const notes: string[] = [];
   const gate = limiter(SEARCH_CONCURRENCY);
+  const add = (run: string, file?: FoundFile): void => {
+    if (found.has(run)) return;
+    found.add(run);
+    if (file) files.set(run, file);
+    onRun?.(run, file);
+  };
   const walk = async (dir: string, depth: number): Promise<void> => {
     const file = await gate(() => runFile(fs, dir));
     if (file !== null) {
-      found.add(normalizeRunPath(dir));
-      files.set(normalizeRunPath(dir), file);
+      add(normalizeRunPath(dir), file);
       return;
     }
     if (depth >= MAX_DEPTH) {
@@ -93,11 +106,15 @@ export async function findRuns(fs: FileAccessor, roots: readonly string[]): Prom
       .sort();
     await Promise.all(dirs.map((name) => walk(joinPath(dir, name), depth + 1)));
   };
+  const kinds = [];
   for (const root of roots) {
     const st = await fs.stat(root);
     if (!st) throw new ValleyscopeError(`${root}: no such file or folder`);
-    if (st.type === 'file') found.add(normalizeRunPath(root));
-    else await walk(normalizeRunPath(root), 0);
+    kinds.push(st.type);
+  }
+  for (let i = 0; i < roots.length; i++) {
+    if (kinds[i] === 'file') add(normalizeRunPath(roots[i]!));
+    else await walk(normalizeRunPath(roots[i]!), 0);
   }
   // Folders are searched several at a time: the notes in path order, like the runs.
   notes.sort(comparePaths);

@@ -1,12 +1,14 @@
 /**
  * A pool of worker threads for batch commands: each worker takes the next task when it finishes one; results
- * are handed on in the order of the tasks (not of completion), so the output does not depend on --jobs or on
- * timing. With one job (or one task) the tasks run in this thread, one after another.
+ * are handed on in the feed's order (path order, not the order of completion), so the output does not depend
+ * on --jobs or on timing. Tasks may still be arriving (a search going on) while the first ones run. With one
+ * job (or one task) the tasks run in this thread, one after another.
  */
 import { join } from 'node:path';
 import { Worker } from 'node:worker_threads';
 import { symmetryCompiledModule } from '../../core/lattice/symmetry';
 import { runTask, type BatchResult, type BatchTask } from './tasks';
+import { TaskFeed } from './taskFeed';
 
 /** What a worker is started with: this thread's compiled symmetry module, so the worker neither compiles it nor optimises its code again. */
 export interface WorkerStart {
@@ -16,7 +18,9 @@ export interface WorkerStart {
 export interface PoolProgress {
   done: number;
   failed: number;
+  /** Tasks known so far: the total once `searching` is false. */
   total: number;
+  searching: boolean;
 }
 
 /** The worker script: the bundled one beside the CLI bundle, or the TypeScript source through tsx (tests, scripts). */
@@ -55,96 +59,125 @@ export function prestartWorkers(jobs: number): Worker[] {
 const IN_FLIGHT_PER_WORKER = 2;
 
 export async function runPool(
-  tasks: readonly BatchTask[],
+  source: readonly BatchTask[] | TaskFeed,
   jobs: number,
   onResult: (r: BatchResult, index: number) => void,
   onProgress?: (p: PoolProgress) => void,
   prestarted: Worker[] = [],
 ): Promise<void> {
-  const total = tasks.length;
+  const feed = source instanceof TaskFeed ? source : TaskFeed.of(source);
+  const tasks = feed.tasks;
   let failed = 0;
   let done = 0;
-  const results = new Array<BatchResult | undefined>(total);
-  let nextOut = 0;
+  const results: (BatchResult | undefined)[] = [];
+  let emitted = 0;
+  // Results go out once the order is known (the feed closed), each as soon as all before it are in.
+  const flush = (): void => {
+    const order = feed.order;
+    if (order === null) return;
+    while (emitted < order.length && results[order[emitted]!] !== undefined) {
+      const i = order[emitted]!;
+      onResult(results[i]!, i);
+      results[i] = undefined;
+      emitted++;
+    }
+  };
   const deliver = (i: number, r: BatchResult): void => {
     results[i] = r;
     done++;
     if (r.failed) failed++;
-    while (nextOut < total && results[nextOut] !== undefined) {
-      onResult(results[nextOut]!, nextOut);
-      results[nextOut] = undefined;
-      nextOut++;
-    }
-    onProgress?.({ done, failed, total });
+    flush();
+    onProgress?.({ done, failed, total: tasks.length, searching: !feed.closed });
   };
-  // The main thread is one of the jobs: with N jobs, N − 1 workers start (each loads the code and the
-  // symmetry library again, a fixed cost worth paying only once there is more than one job).
-  const threads = Math.min(Math.max(1, Math.floor(jobs)), total);
-  const ready = prestarted.slice(0, Math.max(0, threads - 1));
+  // The main thread is one of the jobs: with N jobs, N − 1 workers (each loads the code and the symmetry
+  // library again, a fixed cost worth paying only once there is more than one job).
+  // Tasks known in full (a closed feed): no more workers than tasks beyond the one this thread takes.
+  const extra = Math.max(0, Math.min(Math.floor(jobs) - 1, feed.closed ? tasks.length - 1 : Infinity));
+  const ready = prestarted.slice(0, extra);
   for (const w of prestarted.slice(ready.length)) void w.terminate();
   let next = 0;
   // Tasks a lost worker had received but not started, to be given out again (lowest first).
   const retry: number[] = [];
-  const hasWork = (): boolean => retry.length > 0 || next < total;
+  const hasWork = (): boolean => !feed.cancelled && (retry.length > 0 || next < tasks.length);
   const take = (): number => (retry.length > 0 ? retry.shift()! : next++);
-  const allDone = new Promise<void>((resolve) => {
-    const live = new Set<Worker>();
-    const finishIfDone = (): void => {
-      if (done < total) return;
-      const all = [...live];
-      live.clear();
-      for (const w of all) void w.terminate();
-      resolve();
-    };
-    const launch = (): void => {
-      if (!hasWork()) {
-        for (const w of ready.splice(0)) void w.terminate();
-        return;
+  const finished = (): boolean => feed.cancelled || (feed.closed && done === tasks.length);
+  const live = new Map<Worker, () => void>();
+  // Set when a worker stops before it was given any task (it could not start): no more are started, and this
+  // thread does the work.
+  let noMoreWorkers = false;
+  let resolveAll: () => void = () => undefined;
+  const allDone = new Promise<void>((resolve) => (resolveAll = resolve));
+  let wakeMain: (() => void) | null = null;
+  const finishIfDone = (): void => {
+    if (!finished()) return;
+    for (const w of [...live.keys(), ...ready.splice(0)]) void w.terminate();
+    live.clear();
+    stopListening();
+    resolveAll();
+  };
+  const launch = (): void => {
+    const w = ready.shift() ?? startWorker();
+    // Tasks given to this worker, in the order given: it runs them in that order, so the first is running.
+    const given: number[] = [];
+    const feedWorker = (): void => {
+      while (given.length < IN_FLIGHT_PER_WORKER && hasWork()) {
+        const i = take();
+        given.push(i);
+        w.postMessage({ id: i, task: tasks[i] });
       }
-      const w = ready.shift() ?? startWorker();
-      live.add(w);
-      const inFlight = new Set<number>();
-      const feed = (): void => {
-        while (inFlight.size < IN_FLIGHT_PER_WORKER && hasWork()) {
-          const i = take();
-          inFlight.add(i);
-          w.postMessage({ id: i, task: tasks[i] });
-        }
-      };
-      const lost = (why: string): void => {
-        if (!live.delete(w)) return;
-        void w.terminate();
-        // A worker runs its tasks in the order received: the lowest one was running and fails with the
-        // reason; the others had not started and go back in the queue.
-        const held = [...inFlight].sort((a, b) => a - b);
-        inFlight.clear();
-        if (held.length > 0) {
-          retry.push(...held.slice(1));
-          retry.sort((a, b) => a - b);
-          deliver(held[0]!, stoppedResult(tasks[held[0]!]!, why));
-        }
-        // A replacement takes the remaining tasks.
-        launch();
-        finishIfDone();
-      };
-      w.on('message', (m: { id: number; result: BatchResult }) => {
-        if (!inFlight.delete(m.id)) return;
-        deliver(m.id, m.result);
-        feed();
-        finishIfDone();
-      });
-      w.on('error', (e) => lost(e.message));
-      w.on('exit', (code) => lost(`exit code ${code}`));
-      feed();
     };
-    for (let i = 1; i < threads; i++) launch();
+    live.set(w, feedWorker);
+    const lost = (why: string): void => {
+      if (!live.delete(w)) return;
+      void w.terminate();
+      // The first task given was running and fails with the reason; the others had not started and go back
+      // in the queue. A replacement takes the remaining tasks.
+      const held = given.splice(0);
+      if (held.length > 0) {
+        retry.push(...held.slice(1));
+        retry.sort((a, b) => a - b);
+        deliver(held[0]!, stoppedResult(tasks[held[0]!]!, why));
+      } else noMoreWorkers = true;
+      startWorkers();
+      wakeMain?.();
+      finishIfDone();
+    };
+    w.on('message', (m: { id: number; result: BatchResult }) => {
+      if (given[0] !== m.id) return;
+      given.shift();
+      deliver(m.id, m.result);
+      feedWorker();
+      finishIfDone();
+    });
+    w.on('error', (e) => lost(e.message));
+    w.on('exit', (code) => lost(`exit code ${code}`));
+    feedWorker();
+  };
+  const startWorkers = (): void => {
+    while (!noMoreWorkers && live.size < extra && hasWork()) launch();
+  };
+  // New tasks go first to the workers (started as the first tasks arrive), then wake this thread.
+  const onChange = (): void => {
+    for (const feedWorker of live.values()) feedWorker();
+    startWorkers();
+    flush();
+    wakeMain?.();
     finishIfDone();
-  });
+  };
+  const stopListening = feed.onChange(onChange);
+  onChange();
   // This thread takes tasks too, one at a time, between which the workers' results are handled.
-  while (hasWork()) {
-    const i = take();
-    deliver(i, await runTask(tasks[i]!));
-    await new Promise<void>((r) => setImmediate(r));
+  for (;;) {
+    if (hasWork()) {
+      const i = take();
+      deliver(i, await runTask(tasks[i]!));
+      await new Promise<void>((r) => setImmediate(r));
+      continue;
+    }
+    if (feed.closed) break;
+    await new Promise<void>((r) => (wakeMain = r));
+    wakeMain = null;
   }
-  if (done < total) await allDone;
+  finishIfDone();
+  await allDone;
 }
