@@ -36,7 +36,7 @@ interface Case {
 }
 
 /** The model's conduction minimum near cartesian k (Newton on the model by central differences) and its masses. */
-function modelMinimum(e: (k: Vec3) => number, start: Vec3): { k: Vec3; eV: number; masses: number[] } {
+function modelMinimum(e: (k: Vec3) => number, start: Vec3): { k: Vec3; eV: number; masses: number[]; axes: Mat3 } {
   const hessianAt = (k: Vec3): { g: Vec3; h: Mat3 } => {
     const at = (d: Vec3): number => e([k[0] + d[0], k[1] + d[1], k[2] + d[2]]);
     const unit = (i: number, s: number): Vec3 => [0, 1, 2].map((j) => (j === i ? s * H : 0)) as Vec3;
@@ -67,7 +67,8 @@ function modelMinimum(e: (k: Vec3) => number, start: Vec3): { k: Vec3; eV: numbe
     k = [k[0] + step[0], k[1] + step[1], k[2] + step[2]];
     if (Math.hypot(...step) < 1e-7) break;
   }
-  return { k, eV: e(k), masses: [...massTensorOf(hessianAt(k).h).masses].sort((a, b) => a - b) };
+  const t = massTensorOf(hessianAt(k).h);
+  return { k, eV: e(k), masses: [...t.masses].sort((a, b) => a - b), axes: t.axes };
 }
 
 /** The band as E_mid ± √y with y a smooth interpolant of (E − E_mid)² (two-band Kane form, Kane 1957). */
@@ -84,6 +85,58 @@ function kaneBand(y: SmoothBand, mid: number, sign: 1 | -1): SmoothBand {
     };
   };
   return { value: (k) => derivatives(k).value, derivatives };
+}
+
+/** ħ²/2m₀ in eV·Å² (CODATA 2018). */
+const HBAR2_2M0 = 3.80998212;
+
+/**
+ * What a mesh of this density can resolve at the model's extremum: the distance between neighbouring mesh
+ * points against the distance from the extremum to where its band stops being analytic, measured on the model:
+ * (a) a minimum at Γ: the branch point of the two-band Kane dispersion E(1 + E/E_g) = ħ²k²/2m* (Kane, J. Phys.
+ * Chem. Solids 1, 249 (1957)), at |k| = √(m* E_g / 2)/ħ, taking m* and E_g of the model; (b) the nearest point,
+ * along the principal axes, where the band meets the next one (within 3 meV) (a touching makes the band's energy a kink there).
+ * A band known only beyond such a distance does not fix its curvature at the extremum from energies alone.
+ */
+function resolution(
+  name: string,
+  n: number,
+  reciprocal: Mat3,
+  ref: { k: Vec3; masses: number[]; axes: Mat3 },
+  gap: number,
+  splitting: (k: Vec3) => number,
+): void {
+  let step = Infinity;
+  for (const i of [-1, 0, 1])
+    for (const j of [-1, 0, 1])
+      for (const l of [-1, 0, 1]) {
+        if (!i && !j && !l) continue;
+        const g = [0, 1, 2].map((c) => i * reciprocal[0][c]! + j * reciprocal[1][c]! + l * reciprocal[2][c]!);
+        step = Math.min(step, Math.hypot(...g) / n);
+      }
+  const parts = [`nearest mesh neighbours ${step.toFixed(3)} Å⁻¹ apart`];
+  if (Math.hypot(...ref.k) < 1e-6) {
+    const kb = Math.sqrt((ref.masses[0]! * gap) / (4 * HBAR2_2M0));
+    parts.push(`two-band Kane branch point at ${kb.toFixed(3)} Å⁻¹ (mesh step / that: ${(step / kb).toFixed(2)})`);
+  }
+  let touch = Infinity;
+  // Steps of 0.0005 Å⁻¹: a linear splitting of a few eV·Å is then under 3 meV at the step nearest a touching.
+  const dk = 0.0005;
+  for (let a = 0; a < 3; a++)
+    for (const sign of [1, -1])
+      for (let d = dk; d <= 3 * step && d < touch; d += dk) {
+        const k = [0, 1, 2].map((c) => ref.k[c]! + sign * d * ref.axes[a]![c]!) as Vec3;
+        if (splitting(k) < 3e-3) {
+          touch = d;
+          break;
+        }
+      }
+  parts.push(
+    Number.isFinite(touch)
+      ? `the band meets the next one ${touch.toFixed(3)} Å⁻¹ away along a principal axis (mesh step / that: ${(step / touch).toFixed(2)})`
+      : `the band meets no other within ${(3 * step).toFixed(2)} Å⁻¹ along its principal axes`,
+  );
+  console.log(`${name} ${n}³ resolution   ${parts.join('; ')}`);
 }
 
 function survey({ material, n }: Case): void {
@@ -110,6 +163,10 @@ function survey({ material, n }: Case): void {
   console.log(
     `${material.name} ${n}³ model        at ${where(ref.k).padEnd(12)} gap ${refGap.toFixed(4)} eV          masses ${ref.masses.map((m) => m.toFixed(3)).join(' ')}`,
   );
+  resolution(material.name, n, run.reciprocal, ref, refGap, (k) => {
+    const e = solver.bandsAt(cartesianToFractional(k, crystal.lattice), CB + 2);
+    return e[CB + 1]! - e[CB]!;
+  });
   const quoted = x.uncertainty.masses.map((u, i) => `${(100 * (u / Math.abs(x.masses[i]!))).toFixed(0)} %`).join(' ');
   row('star', x.kCartesian, x.energy_eV, x.masses, `determined ${x.determined} (leave-one-out ${quoted})`);
   // What the analysis adopts at an unresolved extremum on an even mesh point (even-line).
