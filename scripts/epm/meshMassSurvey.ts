@@ -229,6 +229,27 @@ function survey({ material, n }: Case): void {
   const mid = (bands[CB]![nearest]! + bands[CB - 1]![nearest]!) / 2;
   const kane = kaneBand(run.fit.fit(bands[CB]!.map((e) => (e - mid) ** 2)), mid, 1);
   show('kane', refineExtremum(kane, x.kCartesian, 'min', newton), `E_mid ${mid.toFixed(3)} eV`);
+  // Trial 3: the pair (bands 5, 6) by its invariants s = (e5+e6)/2, d = ((e6−e5)/2)², each star-interpolated over the
+  // whole mesh; e5 = s − √d. Not adopted: band 6 meets band 7 elsewhere in the zone (Γ), which spoils both
+  // invariants everywhere (Si 12³: m_l −51 %, m_t +22 %).
+  const lo = bands[CB]!;
+  const hi = bands[CB + 1]!;
+  const sFit = run.fit.fit(lo.map((e, i) => (e + hi[i]!) / 2));
+  const dFit = run.fit.fit(lo.map((e, i) => ((hi[i]! - e) / 2) ** 2));
+  const pairDerivatives = (k: Vec3): BandDerivatives => {
+    const S = sFit.derivatives(k);
+    const D = dFit.derivatives(k);
+    const dv = Math.max(D.value, 1e-30);
+    const r = Math.sqrt(dv);
+    return {
+      value: S.value - r,
+      gradient: S.gradient.map((g, i) => g - D.gradient[i]! / (2 * r)) as Vec3,
+      hessian: [0, 1, 2].map((i) =>
+        [0, 1, 2].map((j) => S.hessian[i]![j]! - (D.hessian[i]![j]! / (2 * r) - (D.gradient[i]! * D.gradient[j]!) / (4 * r * dv))),
+      ) as Mat3,
+    };
+  };
+  show('pair-star', refineExtremum({ value: (k) => pairDerivatives(k).value, derivatives: pairDerivatives }, x.kCartesian, 'min', newton));
 }
 
 async function main(): Promise<void> {
