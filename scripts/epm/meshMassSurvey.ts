@@ -168,7 +168,13 @@ function survey({ material, n }: Case): void {
     return e[CB + 1]! - e[CB]!;
   });
   const quoted = x.uncertainty.masses.map((u, i) => `${(100 * (u / Math.abs(x.masses[i]!))).toFixed(0)} %`).join(' ');
-  row('star', x.kCartesian, x.energy_eV, x.masses, `determined ${x.determined} (leave-one-out ${quoted})`);
+  row(
+    'star',
+    x.kCartesian,
+    x.energy_eV,
+    x.masses,
+    `determined ${x.determined} (leave-one-out ${quoted}; miss at the left-out points ${(1000 * x.uncertainty.leftOutError_eV).toFixed(1)} meV)`,
+  );
   // What the analysis adopts at an unresolved extremum on an even mesh point (even-line).
   const atPoint = massesAtEvenMeshPoint(run, x, 'star-interpolation');
   if (atPoint) {
