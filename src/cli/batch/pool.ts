@@ -157,10 +157,16 @@ export async function runPool(
     while (!noMoreWorkers && live.size < extra && hasWork()) launch();
   };
   // New tasks go first to the workers (started as the first tasks arrive), then wake this thread.
+  let toldClosed = false;
   const onChange = (): void => {
     for (const feedWorker of live.values()) feedWorker();
     startWorkers();
     flush();
+    // The search has ended: the progress line gives the total (without "still searching").
+    if (feed.closed && !toldClosed && !feed.cancelled && tasks.length > 0) {
+      toldClosed = true;
+      onProgress?.({ done, failed, total: tasks.length, searching: false });
+    }
     wakeMain?.();
     finishIfDone();
   };
