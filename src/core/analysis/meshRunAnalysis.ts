@@ -114,7 +114,7 @@ function searchedBands(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, r
 }
 
 function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s: AnalysisSettings): ChannelResult | string {
-  // Too many points: the reason interpolateRun would give below, before the bands are searched.
+  // Too many points listed: the reason interpolateRun would give below, before the bands are searched.
   const tooMany = tooManyPointsRefusal(bs, { spin });
   if (tooMany) return tooMany;
   const [first, last] = searchedBands(bs, spin, vb, cb, s.range_eV);
@@ -142,7 +142,7 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
     spin,
     stride,
     firstBand: lo,
-    points: bs.nk,
+    points: run.input.kpoints.length / 3,
     labelOf: (k) => (map ? labelOfK(map, [k[0]!, k[1]!, k[2]!]) : null),
     axesOf: (x) => axes.get(x),
   };

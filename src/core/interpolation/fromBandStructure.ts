@@ -6,7 +6,7 @@
 import type { BandStructure } from '../model';
 import { symmetryContext } from '../analysis/valleyCount';
 import { specialPointMap } from '../lattice/specialPoints';
-import { MeshInterpolation, tooManyPointsReason, type MeshRunInput } from './meshInterpolation';
+import { MeshInterpolation, tooManyListedReason, type MeshRunInput } from './meshInterpolation';
 
 export interface MeshRunRequest {
   spin?: 0 | 1;
@@ -72,11 +72,12 @@ export function meshRunInput(
 }
 
 /**
- * The reason interpolateRun gives, before any band is read, for a run with too many points for the
- * interpolation; null when it has another reason first or none of this kind.
+ * The reason interpolateRun gives, before any band is read, for a run listing too many points to be recognised
+ * as a mesh (MAX_LISTED_POINTS; the bound on the irreducible points applies after merging, in
+ * MeshInterpolation.create); null when it has another reason first or none of this kind.
  */
 export function tooManyPointsRefusal(bs: BandStructure, req: MeshRunRequest = {}): string | null {
-  return inputRefusal(bs, req) === null ? tooManyPointsReason(bs.nk) : null;
+  return inputRefusal(bs, req) === null ? tooManyListedReason(bs.nk) : null;
 }
 
 /** The interpolation of a read run (band b of the result is band firstBand + b of the run). */
@@ -84,8 +85,8 @@ export function interpolateRun(
   bs: BandStructure,
   req: MeshRunRequest = {},
 ): { run: MeshInterpolation; reason: null } | { run: null; reason: string } {
-  // Too many points for the interpolation: said before the bands are copied and the special points found (the
-  // same reason, in the same order, as MeshInterpolation.create would give after them).
+  // Too many points listed: said before the bands are copied and the special points found (the same reason, in
+  // the same order, as MeshInterpolation.create would give after them).
   const tooMany = tooManyPointsRefusal(bs, req);
   if (tooMany) return { run: null, reason: tooMany };
   const made = meshRunInput(bs, req);
