@@ -9,6 +9,7 @@
  * given masses of one index through a degeneracy.
  */
 import { mergeEquivalentPoints, type MergedPoints } from './equivalentPoints';
+import type { MeshRefusal } from './meshRefusal';
 import type { Mat3, Vec3 } from '../model';
 import { cartesianToFractional, reciprocalLattice } from '../lattice/reciprocal';
 import { valleyDegeneracy, type CrystalSymmetry } from '../lattice/symmetry';
@@ -142,30 +143,31 @@ export class MeshInterpolation {
   }
 
   /** The interpolation of a mesh run, or the reason the k-points are not a mesh this can use. */
-  static create(input: MeshRunInput): { run: MeshInterpolation; reason: null } | { run: null; reason: string } {
+  static create(input: MeshRunInput): { run: MeshInterpolation; reason: null; kind?: undefined } | ({ run: null } & MeshRefusal) {
     const nk = input.kpoints.length / 3;
     const tooManyListed = tooManyListedReason(nk);
-    if (tooManyListed) return { run: null, reason: tooManyListed };
+    if (tooManyListed) return { run: null, kind: 'too-many', reason: tooManyListed };
     for (const [i, b] of input.bands.entries()) {
-      if (b.length !== nk) return { run: null, reason: `Band ${i + 1} has ${b.length} energies for ${nk} k-points.` };
+      if (b.length !== nk) return { run: null, kind: 'energies', reason: `Band ${i + 1} has ${b.length} energies for ${nk} k-points.` };
       for (let k = 0; k < b.length; k++) {
-        if (!Number.isFinite(b[k])) return { run: null, reason: `Band ${i + 1} has energies that are not finite numbers.` };
+        if (!Number.isFinite(b[k]))
+          return { run: null, kind: 'energies', reason: `Band ${i + 1} has energies that are not finite numbers.` };
       }
     }
     const rec = recogniseMesh(input.kpoints, input.weights, input.sym.reciprocalPointGroup, { mergeEquivalent: true });
-    if (!rec.mesh) return { run: null, reason: rec.reason };
+    if (!rec.mesh) return { run: null, kind: rec.kind, reason: rec.reason };
     if (rec.mesh.duplicateOf) {
       // Points equivalent by symmetry listed more than once (a run reduced by fewer operations): one per star.
       const m = mergeEquivalentPoints(input, rec.mesh.duplicateOf);
-      if (!m.input) return { run: null, reason: m.reason };
+      if (!m.input) return { run: null, kind: m.kind, reason: m.reason };
       const made = MeshInterpolation.create(m.input);
       if (made.run) made.run.merged = m.merged;
       return made;
     }
     // The bound on the interpolation: on the irreducible points (after any merging, in the call above).
     const tooMany = tooManyPointsReason(nk);
-    if (tooMany) return { run: null, reason: tooMany };
-    if (nk < 2) return { run: null, reason: 'One k-point cannot be interpolated.' };
+    if (tooMany) return { run: null, kind: 'too-many', reason: tooMany };
+    if (nk < 2) return { run: null, kind: 'too-few', reason: 'One k-point cannot be interpolated.' };
     return { run: new MeshInterpolation(input, rec.mesh), reason: null };
   }
 

@@ -58,11 +58,13 @@ describe('mesh run refusal before the bands are copied', () => {
     const made = MeshInterpolation.create({ lattice: cubicLattice(4), kpoints, weights, bands: [new Float64Array(nk)], sym });
     assert.equal(made.run, null);
     assert.equal(made.reason, tooManyPointsReason(nk));
+    assert.equal(made.kind, 'too-many');
   });
 
   it('a path run with too many points is refused as a path, the earlier reason', () => {
     const r = interpolateRun(run(MAX_LISTED_POINTS + 1, 'path'));
     assert.equal(r.reason, 'The k-points form a path, not a mesh.');
+    assert.equal(r.kind, 'not-a-mesh');
   });
 
   it('bands outside the run are said before the number of points', () => {
@@ -77,7 +79,11 @@ describe('mesh run refusal before the bands are copied', () => {
 
   it('the refusal asked before any band is chosen is the one interpolateRun gives', () => {
     const many = run(MAX_LISTED_POINTS + 1, 'points');
-    assert.equal(tooManyPointsRefusal(many, { spin: 0 }), interpolateRun(many, { spin: 0, firstBand: 0, lastBand: 1 }).reason);
+    const early = tooManyPointsRefusal(many, { spin: 0 });
+    const late = interpolateRun(many, { spin: 0, firstBand: 0, lastBand: 1 });
+    assert.equal(early?.reason, late.reason);
+    assert.equal(early?.kind, 'too-many');
+    assert.equal(late.kind, 'too-many');
     assert.equal(tooManyPointsRefusal(run(MAX_LISTED_POINTS + 1, 'path')), null);
     assert.equal(tooManyPointsRefusal(run(20, 'points')), null);
   });
