@@ -8,6 +8,7 @@
  */
 import initMoyo, { analyze_cell, initSync, space_group_type } from '@spglib/moyo-wasm';
 import type { MoyoDataset, MoyoSpaceGroupType } from '@spglib/moyo-wasm';
+import { KeptByKey } from '../keptByKey';
 
 export type { MoyoDataset, MoyoSpaceGroupType };
 
@@ -120,15 +121,9 @@ export function moyoReady(): boolean {
  */
 export function moyoAnalyze(cellJson: string, symprec: number): MoyoDataset {
   const key = `${symprec} ${cellJson}`;
-  const known = datasets.get(key);
-  if (known) return known;
-  const d = analyze_cell(cellJson, symprec, 'Standard');
-  if (datasets.size >= DATASETS_KEPT) datasets.delete(datasets.keys().next().value!);
-  datasets.set(key, d);
-  return d;
+  return datasets.answer(key, () => analyze_cell(cellJson, symprec, 'Standard'));
 }
-const datasets = new Map<string, MoyoDataset>();
-const DATASETS_KEPT = 16;
+const datasets = new KeptByKey<MoyoDataset>(16);
 
 export function moyoSpaceGroupType(num: number): MoyoSpaceGroupType {
   return space_group_type(num);

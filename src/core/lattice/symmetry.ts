@@ -15,6 +15,7 @@ import { AnalysisError } from '../errors';
 import { det3, mat3Inverse, mulMatVec, transpose3 } from './linalg';
 import { ensureMoyoReady, moyoAnalyze, moyoReady, moyoSpaceGroupType, type MoyoDataset } from './moyoRuntime';
 import { cubicCrystalOperations } from './cubicPointSymmetry';
+import { KeptByKey } from '../keptByKey';
 export { moyoCompiledModule as symmetryCompiledModule } from './moyoRuntime';
 
 export interface CrystalSymmetry {
@@ -216,15 +217,9 @@ function symmetryFromOperations(structure: Structure, rotations: Mat3[], transla
 export function operationSymmetry(structure: Structure, symprec: number = DEFAULT_SYMPREC): CrystalSymmetry {
   // A batch of runs of one crystal: the answer kept by exact input, as the library's is (moyoRuntime.ts).
   const key = `${symprec} ${structure.lattice.flat().join(',')} ${structure.species.join(',')} ${structure.positions.join(',')}`;
-  const known = operationAnswers.get(key);
-  if (known) return known;
-  const answer = operationSymmetryOf(structure, symprec);
-  if (operationAnswers.size >= OPERATION_ANSWERS_KEPT) operationAnswers.delete(operationAnswers.keys().next().value!);
-  operationAnswers.set(key, answer);
-  return answer;
+  return operationAnswers.answer(key, () => operationSymmetryOf(structure, symprec));
 }
-const operationAnswers = new Map<string, CrystalSymmetry>();
-const OPERATION_ANSWERS_KEPT = 16;
+const operationAnswers = new KeptByKey<CrystalSymmetry>(16);
 
 function operationSymmetryOf(structure: Structure, symprec: number): CrystalSymmetry {
   const ops = cubicCrystalOperations(structure, symprec);
