@@ -13,7 +13,7 @@
 import type { Mat3, Structure, Vec3 } from '../model';
 import { AnalysisError } from '../errors';
 import { det3, mat3Inverse, mulMatVec, transpose3 } from './linalg';
-import { ensureMoyoReady, moyoAnalyze, moyoReady, moyoSpaceGroupType, type MoyoDataset } from './moyoRuntime';
+import { ensureMoyoReady, moyoAnalyze, moyoReady, moyoSpaceGroupType, prepareMoyoOnDemand, type MoyoDataset } from './moyoRuntime';
 import { cubicCrystalOperations } from './cubicPointSymmetry';
 import { KeptByKey } from '../keptByKey';
 export { moyoCompiledModule as symmetryCompiledModule } from './moyoRuntime';
@@ -59,6 +59,14 @@ export const K_TOLERANCE = 1e-5;
 /** Load the symmetry library (once). `compiled`: its WebAssembly module compiled by another thread, when one has it. */
 export async function ensureSymmetryReady(compiled?: WebAssembly.Module): Promise<void> {
   await ensureMoyoReady(compiled);
+}
+
+/**
+ * Make the symmetry library usable without compiling it yet: in Node its bytes are read now and compiled on its
+ * first use (a run that never needs it does not pay for it); elsewhere the same as ensureSymmetryReady.
+ */
+export async function prepareSymmetryOnDemand(): Promise<void> {
+  await prepareMoyoOnDemand();
 }
 
 export function symmetryReady(): boolean {
