@@ -11,7 +11,7 @@ import { CHECK_HELP, runCheck } from './commands/check';
 import { TENSOR_KPOINTS_HELP, runTensorKpoints } from './commands/tensorKpoints';
 import { isValleyscopeError } from '../core/errors';
 import { TOOL_VERSION } from '../core/version';
-import { ensureSymmetryReady } from '../core/lattice/symmetry';
+import { prepareSymmetryOnDemand } from '../core/lattice/symmetry';
 import { installNativeSha256 } from './nativeHash';
 import { fsErrorCode, fsErrorSentence } from './fsErrors';
 import { raiseEngineBudgets } from './engineBudgets';
@@ -59,9 +59,10 @@ export async function main(argv: string[], io: CliIO = processIO): Promise<numbe
     return 0;
   }
   try {
-    // Crystal symmetry (valley degeneracy, label recognition) is synchronous once its module is loaded.
+    // Crystal symmetry (valley degeneracy, label recognition) is synchronous once its module is loaded; it is
+    // compiled on its first use (many path runs never need the library), and for the batch pool when it starts.
     installNativeSha256();
-    await ensureSymmetryReady();
+    await prepareSymmetryOnDemand();
     return await cmd.run(rest, io);
   } catch (e) {
     if (e instanceof UsageError) {

@@ -47,10 +47,12 @@ export function isMeshRun(bs: BandStructure): boolean {
 /** `maxPoints`: MAX_PATH_VIEW_POINTS on the editor's own thread, MAX_WORKER_VIEW_POINTS on the worker. */
 export function meshRunForView(run: ViewRun, settings: AnalysisSettings, maxPoints = MAX_PATH_VIEW_POINTS): ViewRun {
   if (!isMeshRun(run.bs)) return run;
-  if (run.bs.nk > maxPoints) {
+  // The fit's cost is set by the irreducible points (a run listing the whole mesh is merged first).
+  const points = run.report.interpolation?.irreduciblePoints ?? run.bs.nk;
+  if (points > maxPoints) {
     if (run.report.interpolation) {
       run.report.warnings.push(
-        `The interpolated bands are not drawn along a path for more than ${maxPoints} irreducible k-points (${run.bs.nk} here): the fit would take too long. The analysis of the mesh (extrema anywhere in the zone) is complete.`,
+        `The interpolated bands are not drawn along a path for more than ${maxPoints} irreducible k-points (${points} here): the fit would take too long. The analysis of the mesh (extrema anywhere in the zone) is complete.`,
       );
     }
     return run;

@@ -88,9 +88,10 @@ export function analyzeBandStructure(bs: BandStructure, settings: Partial<Analys
     }
     const local = localRun(bs);
     // A mesh run: edges and masses from the interpolated bands; otherwise (or when it cannot be interpolated) the points as they are.
-    const meshRefusal = gap && mayBeMeshRun(bs, local !== null) ? analyzeMeshRun(bs, report, s, { occ, edges }) : 'not a mesh run';
-    if (gap && meshRefusal !== null) {
-      const why = mayBeMeshRun(bs, local !== null) ? meshRunNotUsed(bs, meshRefusal) : null;
+    const mesh = gap !== null && mayBeMeshRun(bs, local !== null);
+    const meshRefusal = mesh ? analyzeMeshRun(bs, report, s, { occ, edges }) : null;
+    if (gap && (!mesh || meshRefusal !== null)) {
+      const why = meshRefusal ? meshRunNotUsed(bs, meshRefusal) : null;
       if (why) report.warnings.push(why);
       analyzeExtrema(bs, report, s, { occ, edges });
     } else if (metal && cls.fermi_eV !== null) {

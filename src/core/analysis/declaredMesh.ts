@@ -5,7 +5,7 @@
  * must hear. The points decide what is interpolated; the declaration is only compared.
  */
 import type { BandStructure, DeclaredMesh } from '../model';
-import { BANDS_BREAK_SYMMETRY } from '../interpolation/equivalentPoints';
+import type { MeshRefusal } from '../interpolation/meshRefusal';
 
 const HALF = 0.5;
 
@@ -46,12 +46,12 @@ export function declaredMeshMismatch(
  * it to be: a mesh is declared, the weights differ (a mesh reduced by symmetry), or the bands broke the crystal's
  * symmetry. Null for other lists (a path written point by point, a hybrid run's zero-weight path): no noise.
  */
-export function meshRunNotUsed(bs: Pick<BandStructure, 'declaredMesh' | 'weights'>, reason: string): string | null {
+export function meshRunNotUsed(bs: Pick<BandStructure, 'declaredMesh' | 'weights'>, refusal: MeshRefusal): string | null {
   const declared = bs.declaredMesh;
   const w = bs.weights;
   const reduced = w !== null && w.length > 1 && w.some((x) => Math.abs(x - w[0]!) > 1e-6 * Math.abs(w[0]!) + 1e-12);
-  if (!declared && !reduced && !reason.includes(BANDS_BREAK_SYMMETRY)) return null;
-  const why = reason.replace(/\.$/, '');
+  if (!declared && !reduced && refusal.kind !== 'lower-symmetry') return null;
+  const why = refusal.reason.replace(/\.$/, '');
   if (!declared) return `The k-points were not interpolated as a mesh run: ${why}. They are analysed as they are.`;
   return `${capital(declared.source)} declares the mesh ${describeMesh(declared)}, but the run was not interpolated: ${why}. The k-points are analysed as they are.`;
 }

@@ -11,6 +11,7 @@ import type { EdgeInputs } from './massEngine';
 import type { BandStructure, ExtremumReport, GapReport, RejectedCandidate, Report, Vec3 } from '../model';
 import { interpolateRun, tooManyPointsRefusal } from '../interpolation/fromBandStructure';
 import type { InterpolatedExtremum, MeshInterpolation } from '../interpolation/meshInterpolation';
+import type { MeshRefusal } from '../interpolation/meshRefusal';
 import { equivalentK } from '../lattice/symmetry';
 import { cartesianToFractional } from '../lattice/reciprocal';
 import { StarInterpolant } from '../interpolation/starInterpolant';
@@ -56,16 +57,16 @@ export function mayBeMeshRun(bs: BandStructure, local: boolean): boolean {
  * bands. Returns the reason, and changes nothing, when the run cannot be interpolated (then the caller
  * analyses the points as they are).
  */
-export function analyzeMeshRun(bs: BandStructure, report: Report, s: AnalysisSettings, inputs: EdgeInputs): string | null {
+export function analyzeMeshRun(bs: BandStructure, report: Report, s: AnalysisSettings, inputs: EdgeInputs): MeshRefusal | null {
   const channels: ChannelResult[] = [];
   for (const spin of bs.nSpin === 2 ? ([0, 1] as const) : ([0] as const)) {
     const e = inputs.edges.spins[spin];
     if (!e?.vbm || !e.cbm) continue;
     const made = channelResult(bs, spin, e.vbm.band, e.cbm.band, s);
-    if (typeof made === 'string') return made;
+    if (!('run' in made)) return made;
     channels.push(made);
   }
-  if (!channels.length) return 'No spin channel has both band edges.';
+  if (!channels.length) return { kind: 'no-edges', reason: 'No spin channel has both band edges.' };
   const vbm = channels.map((c) => c.vbm).reduce((a, b) => (b.eV > a.eV ? b : a));
   const cbm = channels.map((c) => c.cbm).reduce((a, b) => (b.eV < a.eV ? b : a));
   report.gap = interpolatedGap(vbm, cbm, channels, report.gap);
@@ -113,8 +114,8 @@ function searchedBands(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, r
   return [first, last];
 }
 
-function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s: AnalysisSettings): ChannelResult | string {
-  // Too many points: the reason interpolateRun would give below, before the bands are searched.
+function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s: AnalysisSettings): ChannelResult | MeshRefusal {
+  // Too many points listed: the reason interpolateRun would give below, before the bands are searched.
   const tooMany = tooManyPointsRefusal(bs, { spin });
   if (tooMany) return tooMany;
   const [first, last] = searchedBands(bs, spin, vb, cb, s.range_eV);
@@ -134,7 +135,7 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
   const stride: 1 | 2 = paired && paired.length > 1 ? 2 : 1;
   if (stride === 2) [lo, hi] = [pairLo, pairHi - 1];
   const made = interpolateRun(bs, { spin, firstBand: lo, lastBand: hi, stride });
-  if (!made.run) return made.reason;
+  if (!made.run) return { kind: made.kind, reason: made.reason };
   const run = made.run;
   const map = run.input.specialPoints ?? null;
   const axes = new Map<InterpolatedExtremum, AxisProvenance>();
@@ -142,7 +143,7 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
     spin,
     stride,
     firstBand: lo,
-    points: bs.nk,
+    points: run.input.kpoints.length / 3,
     labelOf: (k) => (map ? labelOfK(map, [k[0]!, k[1]!, k[2]!]) : null),
     axesOf: (x) => axes.get(x),
   };
@@ -176,7 +177,10 @@ function channelResult(bs: BandStructure, spin: 0 | 1, vb: number, cb: number, s
   const maxima = collect(first, cb - 1, 'max').sort((a, b) => b.energy_eV - a.energy_eV);
   const minima = collect(vb + 1, last, 'min').sort((a, b) => a.energy_eV - b.energy_eV);
   if (!maxima.length || !minima.length) {
-    return `The interpolated bands have no ${maxima.length ? 'minimum' : 'maximum'} near the ${maxima.length ? 'conduction' : 'valence'} edge.`;
+    return {
+      kind: 'no-edges',
+      reason: `The interpolated bands have no ${maxima.length ? 'minimum' : 'maximum'} near the ${maxima.length ? 'conduction' : 'valence'} edge.`,
+    };
   }
   const valence = listed(maxima, 'vbm', 'peak', s, run, ctx);
   const conduction = listed(minima, 'cbm', 'valley', s, run, ctx);

@@ -16,7 +16,7 @@ import { massTensorOf } from '../interpolation/newtonExtremum';
 import { curvatureToMass } from '../units';
 import { averagedFromPrincipal } from './averagedMasses';
 import { gammaLinePoints } from './meshRunGammaLine';
-import type { AxisProvenance } from './meshRunLinePair';
+import { lineAxisProvenance, type AxisProvenance } from './meshRunLinePair';
 
 /** Method id of a mass along the line from an even point to Γ, from the band's mesh points on that line. */
 export const EVEN_LINE = 'even-line';
@@ -101,12 +101,5 @@ export function massesAtEvenMeshPoint(
     const bad = [...new Set([0, 1, 2].filter((i) => !ok[i]).map((i) => `${i === axis ? 'along' : 'across'} the line ±${percent(i)} %`))];
     extremum.undeterminedReason = `Masses not all quoted (limit ${100 * MASS_UNCERTAINTY_LIMIT} %): ${bad.join(', ')}: the mesh is too coarse for this valley.`;
   }
-  return {
-    extremum,
-    axes: {
-      methods: masses.map((_, i) => (i === axis ? EVEN_LINE : starMethod)),
-      determined: ok,
-      points: masses.map((_, i) => (i === axis ? fit.points : null)),
-    },
-  };
+  return { extremum, axes: lineAxisProvenance(axis, EVEN_LINE, fit.points, starMethod, ok) };
 }

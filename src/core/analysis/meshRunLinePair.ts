@@ -26,6 +26,24 @@ export interface AxisProvenance {
   points?: (number | null)[];
 }
 
+/**
+ * The provenance of principal masses of which the one along `axis` comes from a line fit (`lineMethod`, from
+ * `linePoints` mesh points of the line) and the others from the star interpolation (`starMethod`).
+ */
+export function lineAxisProvenance(
+  axis: number,
+  lineMethod: string,
+  linePoints: number,
+  starMethod: string,
+  determined: boolean[],
+): AxisProvenance {
+  return {
+    methods: [0, 1, 2].map((i) => (i === axis ? lineMethod : starMethod)),
+    determined,
+    points: [0, 1, 2].map((i) => (i === axis ? linePoints : null)),
+  };
+}
+
 const dot = (a: readonly number[], b: readonly number[]): number => a[0]! * b[0]! + a[1]! * b[1]! + a[2]! * b[2]!;
 
 /** The refined extremum and its axes' provenance, or null when the line cannot be used (then keep x). */
@@ -118,12 +136,5 @@ export function refineOnTouchingLine(
   };
   if (reason) extremum.undeterminedReason = reason;
   else delete extremum.undeterminedReason;
-  return {
-    extremum,
-    axes: {
-      methods: masses.map((_, i) => (i === axis ? PAIR_LINE : starMethod)),
-      determined: ok,
-      points: masses.map((_, i) => (i === axis ? q.length : null)),
-    },
-  };
+  return { extremum, axes: lineAxisProvenance(axis, PAIR_LINE, q.length, starMethod, ok) };
 }

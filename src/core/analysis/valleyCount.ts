@@ -6,7 +6,7 @@
 import type { BandStructure, Mat3, Structure, Vec3 } from '../model';
 import { crystalSymmetry, operationSymmetry, symmetryReady, valleyDegeneracy, type CrystalSymmetry } from '../lattice/symmetry';
 import { cartesianOperation, littleGroup } from './symmetryTensor';
-import { MAX_INTERPOLATION_POINTS } from '../interpolation/meshInterpolation';
+import { MAX_LISTED_POINTS } from '../interpolation/meshInterpolation';
 
 export interface SymmetryContext {
   sym: CrystalSymmetry | null;
@@ -41,7 +41,7 @@ export function symmetryContext(bs: BandStructure): SymmetryContext {
   // A run that is not interpolated needs the operations only (valley counts, little groups of k): on a cubic
   // lattice without the library's search. Runs the mesh interpolation may take keep the library's operations
   // (its stars are sums over them, in their order).
-  const interpolated = bs.sampling !== 'path' && bs.nk <= MAX_INTERPOLATION_POINTS;
+  const interpolated = bs.sampling !== 'path' && bs.nk <= MAX_LISTED_POINTS;
   const cache = interpolated ? contexts : pointContexts;
   const known = cache.get(bs.structure);
   if (known) return known;

@@ -8,9 +8,6 @@
  */
 import type { MeshRunInput } from './meshInterpolation';
 
-/** The words of the refusal when equivalent points' energies differ (the report tells this reason apart). */
-export const BANDS_BREAK_SYMMETRY = 'the bands have less symmetry than the crystal';
-
 /** Largest difference of a band's energies at equivalent listed points still read as one point, eV. */
 export const EQUIVALENT_ENERGY_TOLERANCE_EV = 1e-3;
 
@@ -26,7 +23,7 @@ export interface MergedPoints {
 export function mergeEquivalentPoints(
   input: MeshRunInput,
   duplicateOf: Int32Array,
-): { input: MeshRunInput; merged: MergedPoints; reason: null } | { input: null; merged: null; reason: string } {
+): { input: MeshRunInput; merged: MergedPoints; reason: null } | { input: null; merged: null; kind: 'lower-symmetry'; reason: string } {
   const nk = input.kpoints.length / 3;
   let largest = 0;
   let worst: [number, number] | null = null;
@@ -46,7 +43,8 @@ export function mergeEquivalentPoints(
     return {
       input: null,
       merged: null,
-      reason: `k-points ${owner + 1} and ${i + 1} are equivalent by the crystal's symmetry, but an interpolated band's energies differ there by ${(1000 * largest).toFixed(1)} meV (more than ${1000 * EQUIVALENT_ENERGY_TOLERANCE_EV} meV): ${BANDS_BREAK_SYMMETRY} (magnetic order, spin–orbit coupling with a magnetic moment, an applied field), so the run is not interpolated with the crystal's operations.`,
+      kind: 'lower-symmetry',
+      reason: `k-points ${owner + 1} and ${i + 1} are equivalent by the crystal's symmetry, but an interpolated band's energies differ there by ${(1000 * largest).toFixed(1)} meV (more than ${1000 * EQUIVALENT_ENERGY_TOLERANCE_EV} meV): the bands have less symmetry than the crystal (magnetic order, spin–orbit coupling with a magnetic moment, an applied field), so the run is not interpolated with the crystal's operations.`,
     };
   }
   const keep: number[] = [];

@@ -6,7 +6,8 @@
 import type { BandStructure } from '../model';
 import { symmetryContext } from '../analysis/valleyCount';
 import { specialPointMap } from '../lattice/specialPoints';
-import { MeshInterpolation, tooManyPointsReason, type MeshRunInput } from './meshInterpolation';
+import { MeshInterpolation, tooManyListedReason, type MeshRunInput } from './meshInterpolation';
+import type { MeshRefusal } from './meshRefusal';
 
 export interface MeshRunRequest {
   spin?: 0 | 1;
@@ -19,16 +20,16 @@ export interface MeshRunRequest {
 }
 
 /** Why the run cannot be the interpolation's input, from its description alone (no band copied), or null. */
-function inputRefusal(bs: BandStructure, req: MeshRunRequest): string | null {
-  if (bs.sampling === 'path') return 'The k-points form a path, not a mesh.';
+function inputRefusal(bs: BandStructure, req: MeshRunRequest): MeshRefusal | null {
+  if (bs.sampling === 'path') return { kind: 'not-a-mesh', reason: 'The k-points form a path, not a mesh.' };
   const ctx = symmetryContext(bs);
-  if (!ctx.sym || !bs.structure) return ctx.unavailable ?? 'No crystal structure is known.';
+  if (!ctx.sym || !bs.structure) return { kind: 'no-symmetry', reason: ctx.unavailable ?? 'No crystal structure is known.' };
   const spin = req.spin ?? 0;
-  if (spin >= bs.nSpin) return `There is no spin channel ${spin + 1}.`;
+  if (spin >= bs.nSpin) return { kind: 'request', reason: `There is no spin channel ${spin + 1}.` };
   const first = req.firstBand ?? 0;
   const last = req.lastBand ?? bs.nBands - 1;
   if (!(Number.isInteger(first) && Number.isInteger(last) && first >= 0 && last < bs.nBands && first <= last)) {
-    return `Bands ${first + 1}–${last + 1} are not within the run's ${bs.nBands} bands.`;
+    return { kind: 'request', reason: `Bands ${first + 1}–${last + 1} are not within the run's ${bs.nBands} bands.` };
   }
   return null;
 }
@@ -36,11 +37,12 @@ function inputRefusal(bs: BandStructure, req: MeshRunRequest): string | null {
 export function meshRunInput(
   bs: BandStructure,
   req: MeshRunRequest = {},
-): { input: MeshRunInput; reason: null } | { input: null; reason: string } {
+): { input: MeshRunInput; reason: null } | ({ input: null } & MeshRefusal) {
   const refused = inputRefusal(bs, req);
-  if (refused !== null || !bs.structure) return { input: null, reason: refused ?? 'No crystal structure is known.' };
+  if (refused !== null || !bs.structure)
+    return { input: null, ...(refused ?? { kind: 'no-symmetry', reason: 'No crystal structure is known.' }) };
   const ctx = symmetryContext(bs);
-  if (!ctx.sym) return { input: null, reason: ctx.unavailable ?? 'No crystal structure is known.' };
+  if (!ctx.sym) return { input: null, kind: 'no-symmetry', reason: ctx.unavailable ?? 'No crystal structure is known.' };
   const spin = req.spin ?? 0;
   const first = req.firstBand ?? 0;
   const last = req.lastBand ?? bs.nBands - 1;
@@ -72,23 +74,25 @@ export function meshRunInput(
 }
 
 /**
- * The reason interpolateRun gives, before any band is read, for a run with too many points for the
- * interpolation; null when it has another reason first or none of this kind.
+ * The reason interpolateRun gives, before any band is read, for a run listing too many points to be recognised
+ * as a mesh (MAX_LISTED_POINTS; the bound on the irreducible points applies after merging, in
+ * MeshInterpolation.create); null when it has another reason first or none of this kind.
  */
-export function tooManyPointsRefusal(bs: BandStructure, req: MeshRunRequest = {}): string | null {
-  return inputRefusal(bs, req) === null ? tooManyPointsReason(bs.nk) : null;
+export function tooManyPointsRefusal(bs: BandStructure, req: MeshRunRequest = {}): MeshRefusal | null {
+  const reason = inputRefusal(bs, req) === null ? tooManyListedReason(bs.nk) : null;
+  return reason === null ? null : { kind: 'too-many', reason };
 }
 
 /** The interpolation of a read run (band b of the result is band firstBand + b of the run). */
 export function interpolateRun(
   bs: BandStructure,
   req: MeshRunRequest = {},
-): { run: MeshInterpolation; reason: null } | { run: null; reason: string } {
-  // Too many points for the interpolation: said before the bands are copied and the special points found (the
-  // same reason, in the same order, as MeshInterpolation.create would give after them).
+): { run: MeshInterpolation; reason: null; kind?: undefined } | ({ run: null } & MeshRefusal) {
+  // Too many points listed: said before the bands are copied and the special points found (the same reason, in
+  // the same order, as MeshInterpolation.create would give after them).
   const tooMany = tooManyPointsRefusal(bs, req);
-  if (tooMany) return { run: null, reason: tooMany };
+  if (tooMany) return { run: null, ...tooMany };
   const made = meshRunInput(bs, req);
-  if (!made.input) return { run: null, reason: made.reason };
+  if (!made.input) return { run: null, kind: made.kind, reason: made.reason };
   return MeshInterpolation.create(made.input);
 }

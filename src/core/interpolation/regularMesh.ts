@@ -9,6 +9,7 @@
  * magnetic or lower-symmetry run), and the expansion is refused with that reason.
  */
 import type { Mat3 } from '../model';
+import type { MeshRefusal } from './meshRefusal';
 
 export interface RegularMesh {
   /**
@@ -27,7 +28,8 @@ export interface RegularMesh {
   starSize: Int32Array;
 }
 
-export type MeshRecognition = { mesh: RegularMesh; reason: null } | { mesh: null; reason: string };
+export type MeshRecognition =
+  { mesh: RegularMesh; reason: null; kind?: undefined } | ({ mesh: null } & MeshRefusal & { kind: 'not-a-mesh' | 'weights' | 'too-many' });
 
 /** Largest number of divisions per axis considered, and of mesh points expanded. */
 export const MAX_DIVISIONS = 400;
@@ -75,8 +77,8 @@ export function recogniseMesh(
   options: { mergeEquivalent?: boolean } = {},
 ): MeshRecognition {
   const nk = kFrac.length / 3;
-  if (!Number.isInteger(nk) || nk < 1) return { mesh: null, reason: 'There are no k-points.' };
-  if (!Array.from(kFrac).every(Number.isFinite)) return { mesh: null, reason: 'Some k-points are not finite numbers.' };
+  if (!Number.isInteger(nk) || nk < 1) return { mesh: null, kind: 'not-a-mesh', reason: 'There are no k-points.' };
+  if (!Array.from(kFrac).every(Number.isFinite)) return { mesh: null, kind: 'not-a-mesh', reason: 'Some k-points are not finite numbers.' };
   const ops = opsOrIdentity(reciprocalOps);
   // Every image (each operation, and its negative) of every point, flat: point i's images at i·per .. (i+1)·per − 1.
   const per = 2 * ops.length;
@@ -99,13 +101,15 @@ export function recogniseMesh(
     if (!found) {
       return {
         mesh: null,
+        kind: 'not-a-mesh',
         reason: `Along reciprocal axis ${axis + 1} the k-points (with their symmetry images) lie on no regular mesh of up to ${MAX_DIVISIONS} divisions.`,
       };
     }
   }
   const [n1, n2, n3] = divisions as [number, number, number];
   const total = n1 * n2 * n3;
-  if (total > MAX_MESH_POINTS) return { mesh: null, reason: `The mesh ${n1}×${n2}×${n3} has more than ${MAX_MESH_POINTS} points.` };
+  if (total > MAX_MESH_POINTS)
+    return { mesh: null, kind: 'too-many', reason: `The mesh ${n1}×${n2}×${n3} has more than ${MAX_MESH_POINTS} points.` };
   const irreducibleOf = new Int32Array(total).fill(-1);
   const starSize = new Int32Array(nk);
   // A point whose first image belongs to an earlier point's star lies wholly in it (stars are disjoint).
@@ -114,6 +118,7 @@ export function recogniseMesh(
   if (clash) {
     return {
       mesh: null,
+      kind: 'not-a-mesh',
       reason: `k-points ${clash[0] + 1} and ${clash[1] + 1} are equivalent by symmetry: the list is not an irreducible set for this crystal.`,
     };
   }
@@ -123,19 +128,20 @@ export function recogniseMesh(
   if (missing > 0) {
     return {
       mesh: null,
+      kind: 'not-a-mesh',
       reason: `Expanded by symmetry, the k-points leave ${missing} of the ${total} points of the ${n1}×${n2}×${n3} mesh uncovered.`,
     };
   }
   if (weights) {
-    if (weights.length !== nk) return { mesh: null, reason: `There are ${weights.length} weights for ${nk} k-points.` };
+    if (weights.length !== nk) return { mesh: null, kind: 'weights', reason: `There are ${weights.length} weights for ${nk} k-points.` };
     let sum = 0;
     for (let i = 0; i < nk; i++) {
       const w = weights[i]!;
       if (!Number.isFinite(w) || w < 0)
-        return { mesh: null, reason: `The weight of k-point ${i + 1} is not a finite non-negative number.` };
+        return { mesh: null, kind: 'weights', reason: `The weight of k-point ${i + 1} is not a finite non-negative number.` };
       sum += w;
     }
-    if (!(sum > 0)) return { mesh: null, reason: 'The k-point weights do not add up to a positive number.' };
+    if (!(sum > 0)) return { mesh: null, kind: 'weights', reason: 'The k-point weights do not add up to a positive number.' };
     // Points equivalent to an earlier one (merged) add their weight to its star's.
     const starWeight = Float64Array.from({ length: nk }, (_, i) => weights[i]!);
     if (duplicateOf) {
@@ -153,6 +159,7 @@ export function recogniseMesh(
       if (Math.abs(got - expected) > 1e-3 * expected + 1e-7) {
         return {
           mesh: null,
+          kind: 'weights',
           reason: `The weight of k-point ${i + 1} (${got.toPrecision(4)} of the total) differs from its star (${starSize[i]} of ${total} mesh points): the run used other symmetry operations than the crystal's.`,
         };
       }

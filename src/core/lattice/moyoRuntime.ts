@@ -8,12 +8,15 @@
  */
 import initMoyo, { analyze_cell, initSync, space_group_type } from '@spglib/moyo-wasm';
 import type { MoyoDataset, MoyoSpaceGroupType } from '@spglib/moyo-wasm';
+import { KeptByKey } from '../keptByKey';
 
 export type { MoyoDataset, MoyoSpaceGroupType };
 
 let ready = false;
 let loading: Promise<void> | null = null;
 let compiled: WebAssembly.Module | null = null;
+/** Node, after prepareMoyoOnDemand: the module's bytes, compiled when the library is first used. */
+let waiting: Uint8Array<ArrayBuffer> | null = null;
 
 /**
  * Bytes of the WebAssembly module: inlined by the bundler, or read from the installed package in Node. Both
@@ -82,7 +85,7 @@ function inNode(): boolean {
  * of a CLI run). Browsers keep the library's asynchronous loader.
  */
 export function ensureMoyoReady(module?: WebAssembly.Module): Promise<void> {
-  if (ready) return Promise.resolve();
+  if (ready || loadWaiting(module)) return Promise.resolve();
   if (!loading) {
     loading = (async () => {
       if (inNode()) {
@@ -101,15 +104,39 @@ export function ensureMoyoReady(module?: WebAssembly.Module): Promise<void> {
 }
 
 /**
- * The compiled WebAssembly module once loaded in Node (null before, and in browsers): a worker thread given it
- * (postMessage or workerData copy it by reference) skips compiling the same bytes again.
+ * Node: read the module's bytes now, and compile them only when the library is first used (a CLI run that never
+ * asks for symmetry does not pay for compiling it, about 4 ms of CPU). The library then counts as ready: its
+ * first use compiles and instantiates it synchronously, as ensureMoyoReady does in Node. Elsewhere: ensureMoyoReady.
+ */
+export async function prepareMoyoOnDemand(): Promise<void> {
+  if (!inNode() || ready || loading) return ensureMoyoReady();
+  waiting ??= await wasmBytes();
+}
+
+/** Compile and instantiate the waiting bytes (or use `module`, compiled elsewhere) now; true when that made the library ready. */
+function loadWaiting(module?: WebAssembly.Module): boolean {
+  if (ready || !waiting) return false;
+  compiled = module ?? new WebAssembly.Module(waiting);
+  initSync({ module: compiled });
+  waiting = null;
+  ready = true;
+  loading = Promise.resolve();
+  return true;
+}
+
+/**
+ * The compiled WebAssembly module in Node (compiled now if its bytes are waiting; null before they are read, and
+ * in browsers): a worker thread given it (postMessage or workerData copy it by reference) skips compiling the
+ * same bytes again.
  */
 export function moyoCompiledModule(): WebAssembly.Module | null {
+  loadWaiting();
   return compiled;
 }
 
+/** True when the library can be used synchronously: loaded, or its bytes waiting to be compiled on first use. */
 export function moyoReady(): boolean {
-  return ready;
+  return ready || waiting !== null;
 }
 
 /**
@@ -120,16 +147,14 @@ export function moyoReady(): boolean {
  */
 export function moyoAnalyze(cellJson: string, symprec: number): MoyoDataset {
   const key = `${symprec} ${cellJson}`;
-  const known = datasets.get(key);
-  if (known) return known;
-  const d = analyze_cell(cellJson, symprec, 'Standard');
-  if (datasets.size >= DATASETS_KEPT) datasets.delete(datasets.keys().next().value!);
-  datasets.set(key, d);
-  return d;
+  return datasets.answer(key, () => {
+    loadWaiting();
+    return analyze_cell(cellJson, symprec, 'Standard');
+  });
 }
-const datasets = new Map<string, MoyoDataset>();
-const DATASETS_KEPT = 16;
+const datasets = new KeptByKey<MoyoDataset>(16);
 
 export function moyoSpaceGroupType(num: number): MoyoSpaceGroupType {
+  loadWaiting();
   return space_group_type(num);
 }

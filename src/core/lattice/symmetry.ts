@@ -13,8 +13,9 @@
 import type { Mat3, Structure, Vec3 } from '../model';
 import { AnalysisError } from '../errors';
 import { det3, mat3Inverse, mulMatVec, transpose3 } from './linalg';
-import { ensureMoyoReady, moyoAnalyze, moyoReady, moyoSpaceGroupType, type MoyoDataset } from './moyoRuntime';
+import { ensureMoyoReady, moyoAnalyze, moyoReady, moyoSpaceGroupType, prepareMoyoOnDemand, type MoyoDataset } from './moyoRuntime';
 import { cubicCrystalOperations } from './cubicPointSymmetry';
+import { KeptByKey } from '../keptByKey';
 export { moyoCompiledModule as symmetryCompiledModule } from './moyoRuntime';
 
 export interface CrystalSymmetry {
@@ -58,6 +59,14 @@ export const K_TOLERANCE = 1e-5;
 /** Load the symmetry library (once). `compiled`: its WebAssembly module compiled by another thread, when one has it. */
 export async function ensureSymmetryReady(compiled?: WebAssembly.Module): Promise<void> {
   await ensureMoyoReady(compiled);
+}
+
+/**
+ * Make the symmetry library usable without compiling it yet: in Node its bytes are read now and compiled on its
+ * first use (a run that never needs it does not pay for it); elsewhere the same as ensureSymmetryReady.
+ */
+export async function prepareSymmetryOnDemand(): Promise<void> {
+  await prepareMoyoOnDemand();
 }
 
 export function symmetryReady(): boolean {
@@ -216,15 +225,9 @@ function symmetryFromOperations(structure: Structure, rotations: Mat3[], transla
 export function operationSymmetry(structure: Structure, symprec: number = DEFAULT_SYMPREC): CrystalSymmetry {
   // A batch of runs of one crystal: the answer kept by exact input, as the library's is (moyoRuntime.ts).
   const key = `${symprec} ${structure.lattice.flat().join(',')} ${structure.species.join(',')} ${structure.positions.join(',')}`;
-  const known = operationAnswers.get(key);
-  if (known) return known;
-  const answer = operationSymmetryOf(structure, symprec);
-  if (operationAnswers.size >= OPERATION_ANSWERS_KEPT) operationAnswers.delete(operationAnswers.keys().next().value!);
-  operationAnswers.set(key, answer);
-  return answer;
+  return operationAnswers.answer(key, () => operationSymmetryOf(structure, symprec));
 }
-const operationAnswers = new Map<string, CrystalSymmetry>();
-const OPERATION_ANSWERS_KEPT = 16;
+const operationAnswers = new KeptByKey<CrystalSymmetry>(16);
 
 function operationSymmetryOf(structure: Structure, symprec: number): CrystalSymmetry {
   const ops = cubicCrystalOperations(structure, symprec);

@@ -2,11 +2,20 @@ import assert from 'node:assert/strict';
 import type { Vec3 } from '../../../src/core/model';
 import { ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { interpolateRun, meshRunInput, tooManyPointsRefusal } from '../../../src/core/interpolation/fromBandStructure';
-import { MAX_INTERPOLATION_POINTS, MeshInterpolation, tooManyPointsReason } from '../../../src/core/interpolation/meshInterpolation';
-import { diamondStructure, parabolicBand, pointsModel } from '../../support/models';
+import {
+  MAX_INTERPOLATION_POINTS,
+  MAX_LISTED_POINTS,
+  MeshInterpolation,
+  tooManyListedReason,
+  tooManyPointsReason,
+} from '../../../src/core/interpolation/meshInterpolation';
+import { crystalSymmetry } from '../../../src/core/lattice/symmetry';
+import { irreducibleMesh } from '../../../src/core/interpolation/regularMesh';
+import { cubicLattice, diamondStructure, parabolicBand, pointsModel, simpleCubicStructure } from '../../support/models';
 
-// A run with more irreducible points than the interpolation takes is refused before its bands are copied, with
-// the reason the interpolation itself gives, and after the reasons that come first (a path run stays a path run).
+// A run listing more points than the mesh recognition takes is refused before its bands are copied, with the
+// reason the interpolation itself gives, and after the reasons that come first (a path run stays a path run); the
+// bound on interpolated points applies to the irreducible points (after any merging).
 // The model: two parabolic bands (free-electron form, common practice) on silicon's diamond structure
 // (a = 5.43 Å, handbook value (memory)).
 
@@ -27,8 +36,8 @@ describe('mesh run refusal before the bands are copied', () => {
     await ensureSymmetryReady();
   });
 
-  it('too many points: the interpolation’s own reason, the same as from the full input', () => {
-    const bs = run(MAX_INTERPOLATION_POINTS + 1, 'points');
+  it('too many points listed: the interpolation’s own reason, the same as from the full input', () => {
+    const bs = run(MAX_LISTED_POINTS + 1, 'points');
     const early = interpolateRun(bs, { spin: 0, firstBand: 0, lastBand: 1 });
     assert.equal(early.run, null);
     const full = meshRunInput(bs, { spin: 0, firstBand: 0, lastBand: 1 });
@@ -36,27 +45,46 @@ describe('mesh run refusal before the bands are copied', () => {
     const late = MeshInterpolation.create(full.input);
     assert.equal(late.run, null);
     assert.equal(early.reason, late.reason);
-    assert.equal(early.reason, tooManyPointsReason(MAX_INTERPOLATION_POINTS + 1));
+    assert.equal(early.reason, tooManyListedReason(MAX_LISTED_POINTS + 1));
+  });
+
+  it('more irreducible points than the interpolation takes: refused after the mesh is recognised', () => {
+    // A Γ-centred 40³ mesh of a simple cubic crystal (m-3m, 48 operations): its irreducible points (counted by
+    // irreducibleMesh) are more than MAX_INTERPOLATION_POINTS and fewer than MAX_LISTED_POINTS.
+    const sym = crystalSymmetry(simpleCubicStructure(4));
+    const { kpoints, weights } = irreducibleMesh([40, 40, 40], [0, 0, 0], sym.reciprocalPointGroup);
+    const nk = kpoints.length / 3;
+    assert.ok(nk > MAX_INTERPOLATION_POINTS && nk <= MAX_LISTED_POINTS, `${nk}`);
+    const made = MeshInterpolation.create({ lattice: cubicLattice(4), kpoints, weights, bands: [new Float64Array(nk)], sym });
+    assert.equal(made.run, null);
+    assert.equal(made.reason, tooManyPointsReason(nk));
+    assert.equal(made.kind, 'too-many');
   });
 
   it('a path run with too many points is refused as a path, the earlier reason', () => {
-    const r = interpolateRun(run(MAX_INTERPOLATION_POINTS + 1, 'path'));
+    const r = interpolateRun(run(MAX_LISTED_POINTS + 1, 'path'));
     assert.equal(r.reason, 'The k-points form a path, not a mesh.');
+    assert.equal(r.kind, 'not-a-mesh');
   });
 
   it('bands outside the run are said before the number of points', () => {
-    const r = interpolateRun(run(MAX_INTERPOLATION_POINTS + 1, 'points'), { firstBand: 0, lastBand: 5 });
+    const r = interpolateRun(run(MAX_LISTED_POINTS + 1, 'points'), { firstBand: 0, lastBand: 5 });
     assert.match(r.reason ?? '', /not within the run's 2 bands/);
   });
 
   it('at the limit, no refusal for the number of points', () => {
     assert.equal(tooManyPointsReason(MAX_INTERPOLATION_POINTS), null);
+    assert.equal(tooManyListedReason(MAX_LISTED_POINTS), null);
   });
 
   it('the refusal asked before any band is chosen is the one interpolateRun gives', () => {
-    const many = run(MAX_INTERPOLATION_POINTS + 1, 'points');
-    assert.equal(tooManyPointsRefusal(many, { spin: 0 }), interpolateRun(many, { spin: 0, firstBand: 0, lastBand: 1 }).reason);
-    assert.equal(tooManyPointsRefusal(run(MAX_INTERPOLATION_POINTS + 1, 'path')), null);
+    const many = run(MAX_LISTED_POINTS + 1, 'points');
+    const early = tooManyPointsRefusal(many, { spin: 0 });
+    const late = interpolateRun(many, { spin: 0, firstBand: 0, lastBand: 1 });
+    assert.equal(early?.reason, late.reason);
+    assert.equal(early?.kind, 'too-many');
+    assert.equal(late.kind, 'too-many');
+    assert.equal(tooManyPointsRefusal(run(MAX_LISTED_POINTS + 1, 'path')), null);
     assert.equal(tooManyPointsRefusal(run(20, 'points')), null);
   });
 });

@@ -22,7 +22,7 @@ import { nodeFileAccessor } from '../../../src/cli/nodeFileAccessor';
 import { analyzeBandStructure } from '../../../src/core/analysis/analyze';
 import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
 import { irreducibleMesh } from '../../../src/core/interpolation/regularMesh';
-import { declaredMeshMismatch, describeMesh } from '../../../src/core/analysis/declaredMesh';
+import { declaredMeshMismatch, describeMesh, meshRunNotUsed } from '../../../src/core/analysis/declaredMesh';
 import { insulatorOccupations, writeEigenval, writePoscar } from '../../support/writers/vasp';
 import { writeVasprun } from '../../support/writers/vasprun';
 import { writeQeXml } from '../../support/writers/qe';
@@ -185,6 +185,21 @@ describe('declared k-point meshes', function () {
     assert.equal(r.interpolation, undefined);
     const w = r.warnings.find((x) => /declares the mesh 6×6×6 \(through Γ\), but the run was not interpolated: /.test(x));
     assert.ok(w, r.warnings.join('\n'));
+  });
+
+  it('a refusal is told apart by its kind, not by its words: only bands with less symmetry speak for an undeclared, equal-weight list', () => {
+    const plain = { declaredMesh: undefined, weights: new Float64Array([1, 1, 1]) };
+    const sentence = 'Some words that happen to say the bands have less symmetry than the crystal.';
+    assert.equal(meshRunNotUsed(plain, { kind: 'not-a-mesh', reason: sentence }), null);
+    assert.equal(
+      meshRunNotUsed(plain, { kind: 'lower-symmetry', reason: 'Points 1 and 2 differ.' }),
+      'The k-points were not interpolated as a mesh run: Points 1 and 2 differ. They are analysed as they are.',
+    );
+    const reduced = { declaredMesh: undefined, weights: new Float64Array([1, 6, 8]) };
+    assert.match(
+      meshRunNotUsed(reduced, { kind: 'weights', reason: 'The weights differ.' }) ?? '',
+      /not interpolated as a mesh run: The weights differ\. /,
+    );
   });
 
   it('describeMesh and the comparison on their own (a shift of 1 is a shift of 0: the same mesh)', () => {

@@ -63,8 +63,10 @@ describe('regular k-meshes: recognition and expansion by symmetry', () => {
     // Two weights exchanged (Γ, a star of one, with its neighbour): the total is unchanged, Γ is now wrong.
     [badWeights[0], badWeights[1]] = [badWeights[1]!, badWeights[0]!];
     assert.match(recogniseMesh(kpoints, badWeights, sym.reciprocalPointGroup).reason ?? '', /weight of k-point 1 .*star \(1 of 216/);
+    assert.equal(recogniseMesh(kpoints, badWeights, sym.reciprocalPointGroup).kind, 'weights');
     const dropped = kpoints.slice(0, 3 * (nk - 1));
     assert.match(recogniseMesh(dropped, null, sym.reciprocalPointGroup).reason ?? '', /uncovered/);
+    assert.equal(recogniseMesh(dropped, null, sym.reciprocalPointGroup).kind, 'not-a-mesh');
     const k1 = [kpoints[3]!, kpoints[4]!, kpoints[5]!];
     const doubled = Float64Array.from([...kpoints, -k1[0]!, -k1[1]!, -k1[2]!]);
     assert.match(recogniseMesh(doubled, null, sym.reciprocalPointGroup).reason ?? '', /equivalent by symmetry/);
@@ -100,5 +102,6 @@ describe('mesh interpolation refuses hostile band data with a reason', () => {
       MeshInterpolation.create({ lattice, kpoints, weights, bands: [new Float64Array(nk + 1)], sym }).reason ?? '',
       /Band 1 has/,
     );
+    assert.equal(MeshInterpolation.create({ lattice, kpoints, weights, bands: [new Float64Array(nk + 1)], sym }).kind, 'energies');
   });
 });
