@@ -6,7 +6,7 @@
 import type { BandStructure, Mat3, Structure, Vec3 } from '../model';
 import { crystalSymmetry, operationSymmetry, symmetryReady, valleyDegeneracy, type CrystalSymmetry } from '../lattice/symmetry';
 import { cartesianOperation, littleGroup } from './symmetryTensor';
-import { MAX_LISTED_POINTS } from '../interpolation/meshInterpolation';
+import { MAX_INTERPOLATION_POINTS } from '../interpolation/meshInterpolation';
 
 export interface SymmetryContext {
   sym: CrystalSymmetry | null;
@@ -39,9 +39,11 @@ export function symmetryContext(bs: BandStructure): SymmetryContext {
   if (!symmetryReady())
     return { sym: null, unavailable: 'The crystal-symmetry module is not loaded: valley degeneracy was not determined.' };
   // A run that is not interpolated needs the operations only (valley counts, little groups of k): on a cubic
-  // lattice without the library's search. Runs the mesh interpolation may take keep the library's operations
-  // (its stars are sums over them, in their order).
-  const interpolated = bs.sampling !== 'path' && bs.nk <= MAX_LISTED_POINTS;
+  // lattice without the library's search. Runs the mesh interpolation may take as listed keep the library's
+  // operations (its stars are sums over them, in their order). A longer list is interpolated only when it is a
+  // whole mesh (or half of one) whose equivalent points merge: most such lists are not, and the operations from
+  // the lattice serve the merge and the interpolation as well (the same operations, in another order).
+  const interpolated = bs.sampling !== 'path' && bs.nk <= MAX_INTERPOLATION_POINTS;
   const cache = interpolated ? contexts : pointContexts;
   const known = cache.get(bs.structure);
   if (known) return known;

@@ -154,7 +154,10 @@ export class MeshInterpolation {
           return { run: null, kind: 'energies', reason: `Band ${i + 1} has energies that are not finite numbers.` };
       }
     }
-    const rec = recogniseMesh(input.kpoints, input.weights, input.sym.reciprocalPointGroup, { mergeEquivalent: true });
+    const rec = recogniseMesh(input.kpoints, input.weights, input.sym.reciprocalPointGroup, {
+      mergeEquivalent: true,
+      listedFirst: nk > MAX_INTERPOLATION_POINTS,
+    });
     if (!rec.mesh) return { run: null, kind: rec.kind, reason: rec.reason };
     if (rec.mesh.duplicateOf) {
       // Points equivalent by symmetry listed more than once (a run reduced by fewer operations): one per star.

@@ -74,11 +74,15 @@ export function recogniseMesh(
   kFrac: Float64Array,
   weights: ArrayLike<number> | null,
   reciprocalOps: readonly Mat3[],
-  options: { mergeEquivalent?: boolean } = {},
+  options: { mergeEquivalent?: boolean; listedFirst?: boolean } = {},
 ): MeshRecognition {
   const nk = kFrac.length / 3;
   if (!Number.isInteger(nk) || nk < 1) return { mesh: null, kind: 'not-a-mesh', reason: 'There are no k-points.' };
   if (!Array.from(kFrac).every(Number.isFinite)) return { mesh: null, kind: 'not-a-mesh', reason: 'Some k-points are not finite numbers.' };
+  if (options.listedFirst) {
+    const refused = listedPointsRefusal(kFrac);
+    if (refused) return refused;
+  }
   const ops = opsOrIdentity(reciprocalOps);
   // Every image (each operation, and its negative) of every point, flat: point i's images at i·per .. (i+1)·per − 1.
   const per = 2 * ops.length;
@@ -194,6 +198,36 @@ function allImages(kFrac: Float64Array, ops: Float64Array): Float64Array {
 }
 
 /** Whether component `axis` of every image lies on the mesh (j + s)/n (offMesh below ON_MESH). */
+/**
+ * A long list (a whole mesh, listed before its equivalent points are merged) is refused from its listed points
+ * alone, before the symmetry images are made, when those already lie on no mesh: the images include the points
+ * themselves, so they can only need a finer mesh. This keeps the cost of a long list that is no mesh (a path
+ * written as points) to one pass over it.
+ */
+function listedPointsRefusal(kFrac: Float64Array): MeshRecognition | null {
+  const divisions: number[] = [];
+  for (let axis = 0; axis < 3; axis++) {
+    let n = 1;
+    while (n <= MAX_DIVISIONS && !allOnMesh(kFrac, axis, n, 0) && !allOnMesh(kFrac, axis, n, 0.5)) n++;
+    if (n > MAX_DIVISIONS) {
+      return {
+        mesh: null,
+        kind: 'not-a-mesh',
+        reason: `Along reciprocal axis ${axis + 1} the k-points lie on no regular mesh of up to ${MAX_DIVISIONS} divisions.`,
+      };
+    }
+    divisions.push(n);
+  }
+  const total = divisions[0]! * divisions[1]! * divisions[2]!;
+  if (total > MAX_MESH_POINTS)
+    return {
+      mesh: null,
+      kind: 'too-many',
+      reason: `The k-points need a mesh of at least ${divisions.join('×')}: more than ${MAX_MESH_POINTS} points.`,
+    };
+  return null;
+}
+
 function allOnMesh(all: Float64Array, axis: number, n: number, s: number): boolean {
   for (let t = axis; t < all.length; t += 3) {
     const y = all[t]! * n - s;

@@ -48,6 +48,14 @@ describe('mesh run refusal before the bands are copied', () => {
     assert.equal(early.reason, tooManyListedReason(MAX_LISTED_POINTS + 1));
   });
 
+  it('a long list that is no mesh (a path written as points) is refused from its listed points, before any symmetry image', () => {
+    // Along axis 1 the points are multiples of 1/(2 nk): a mesh of 2 nk > MAX_DIVISIONS divisions.
+    const made = interpolateRun(run(MAX_INTERPOLATION_POINTS + 1, 'points'), { spin: 0, firstBand: 0, lastBand: 1 });
+    assert.equal(made.run, null);
+    assert.equal(made.kind, 'not-a-mesh');
+    assert.match(made.reason!, /^Along reciprocal axis 1 the k-points lie on no regular mesh of up to \d+ divisions\.$/);
+  });
+
   it('more irreducible points than the interpolation takes: refused after the mesh is recognised', () => {
     // A Γ-centred 40³ mesh of a simple cubic crystal (m-3m, 48 operations): its irreducible points (counted by
     // irreducibleMesh) are more than MAX_INTERPOLATION_POINTS and fewer than MAX_LISTED_POINTS.

@@ -2,7 +2,7 @@ import assert from 'node:assert/strict';
 import type { Mat3, Vec3 } from '../../../src/core/model';
 import { symmetryContext } from '../../../src/core/analysis/valleyCount';
 import { crystalSymmetry, ensureSymmetryReady } from '../../../src/core/lattice/symmetry';
-import { MAX_LISTED_POINTS } from '../../../src/core/interpolation/meshInterpolation';
+import { MAX_INTERPOLATION_POINTS } from '../../../src/core/interpolation/meshInterpolation';
 import { diamondStructure, fccLattice, parabolicBand, pointsModel } from '../../support/models';
 
 // Which operations a run's analysis uses: runs the mesh interpolation may take keep the library's operations in the
@@ -32,7 +32,7 @@ describe('the symmetry a run is analysed with', () => {
   });
 
   it('a point run too large for the interpolation: the same operations as the library', () => {
-    const sym = symmetryContext(run(MAX_LISTED_POINTS + 1, 'points')).sym!;
+    const sym = symmetryContext(run(MAX_INTERPOLATION_POINTS + 1, 'points')).sym!;
     assert.deepEqual(sym.reciprocalPointGroup.map(key).sort(), crystalSymmetry(structure).reciprocalPointGroup.map(key).sort());
   });
 });
