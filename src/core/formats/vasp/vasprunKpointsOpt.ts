@@ -10,14 +10,15 @@
  *     <eigenvalues> <array> ... <set> <set comment="spin 1"> <set comment="kpoint 1"> <r> energy [occupation] </r>
  *   </eigenvalues_kpoints_opt>
  *   <projected_kpoints_opt> ... </projected_kpoints_opt>     (projections: ignored)
- *   <dos_kpoints_opt> <i name="efermi"> .. </i> ... </dos_kpoints_opt>   (its efermi: only a fallback)
+ *   <dos_kpoints_opt> <i name="efermi"> .. </i> ... </dos_kpoints_opt>   (ignored: the Fermi energy is the
+ *                                                                         self-consistent run's, from a weighted mesh)
  *
  * VasprunStream hands every event inside a `*_kpoints_opt` element directly under <calculation> to this reader.
  * Both sets are kept (the self-consistent one is usually the smaller), each checked like the ordinary block.
  */
 import type { DeclaredMesh, OccupationArray, Vec3 } from '../../model';
 import type { ReaderError } from '../../errors';
-import { parseDecimal, scanDecimalBytes } from '../numbers';
+import { scanDecimalBytes } from '../numbers';
 import type { RowReader, XmlByteScanner } from '../xmlByteScanner';
 import { DoubleBuffer } from '../doubleBuffer';
 import { EigenvalueBlock, readVectorRows, type EigenvalueHeader } from './vasprunEigenvalues';
@@ -67,8 +68,6 @@ export class KpointsOptReader {
   private eigDepth = 0;
   private seen = false;
   private readonly vectorRows: RowReader;
-  /** The efermi of <dos_kpoints_opt>: used only when the self-consistent step gives none. */
-  efermi: number | null = null;
 
   constructor(
     private readonly sc: XmlByteScanner,
@@ -117,10 +116,7 @@ export class KpointsOptReader {
   /** An element opens inside the scope: true when its text is wanted. */
   open(name: string, attrs: Record<string, string> | null, depth: number): boolean {
     const sc = this.sc;
-    if (this.scope !== KPOINTS_OPT_BLOCK) {
-      this.iName = name === 'i' ? (attrs?.name ?? null) : null;
-      return this.iName === 'efermi';
-    }
+    if (this.scope !== KPOINTS_OPT_BLOCK) return false;
     const parent = sc.ancestor(1);
     switch (name) {
       case 'r':
@@ -175,10 +171,7 @@ export class KpointsOptReader {
       this.scope = null;
       return;
     }
-    if (this.scope !== KPOINTS_OPT_BLOCK) {
-      if (name === 'i' && this.iName === 'efermi' && text !== null) this.efermi = parseDecimal(this.sc.decode(text, 0, length).trim());
-      return;
-    }
+    if (this.scope !== KPOINTS_OPT_BLOCK) return;
     const sc = this.sc;
     switch (name) {
       case 'r':

@@ -360,7 +360,7 @@ export class VasprunStream {
       nSpin,
       energies,
       occupations,
-      fermiEnergy: this.stepEfermi ?? this.efermi ?? this.opt.efermi,
+      fermiEnergy: this.stepEfermi ?? this.efermi,
       electrons,
       spinorbit,
       method,

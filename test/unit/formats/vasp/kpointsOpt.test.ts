@@ -15,7 +15,9 @@ import { loadRun, locateRun, otherCandidatesNotice } from '../../../../src/core/
 import { nodeFileAccessor } from '../../../../src/cli/nodeFileAccessor';
 import { analyzeBandStructure } from '../../../../src/core/analysis/analyze';
 import { ReaderError } from '../../../../src/core/errors';
-import { vasprunReader } from '../../../../src/core/formats/vasp/vasprun';
+import { vasprunReader, VasprunStream } from '../../../../src/core/formats/vasp/vasprun';
+import { main } from '../../../../src/cli/main';
+import { capture } from '../../../support/unitCliCapture';
 import { writeVasprun } from '../../../support/writers/vasprun';
 import { writeEigenval } from '../../../support/writers/vasp';
 import { kpointsOptBlock, withKpointsOpt, type KpointsOptSpec } from '../../../support/writers/vasprunKpointsOpt';
@@ -162,8 +164,10 @@ describe('VASP 6 KPOINTS_OPT runs (vasprun.xml <eigenvalues_kpoints_opt>)', () =
   });
 
   it('(a) without occupations or a Fermi energy: the electron count decides (NELECT = 4 insulator, 3 metal)', () => {
-    // No efermi anywhere (the <dos_kpoints_opt> one left out too): NELECT and the band order remain (common practice).
-    const text = vasprun(optSpec({ dosEfermi: undefined })).replace(/<i name="efermi">[^<]*<\/i>/, '');
+    // No efermi in the self-consistent <dos>; the <dos_kpoints_opt> one (5 eV, inside the conduction band) is not
+    // taken: NELECT and the band order remain (common practice).
+    const text = vasprun(optSpec()).replace(/(<dos>\s*)<i name="efermi">[^<]*<\/i>/, '$1');
+    assert.match(text, /<dos_kpoints_opt>\s*<i name="efermi">/);
     const bs = readText(text);
     assert.equal(bs.fermiEnergy, null);
     const insulator = analyzeBandStructure(bs);
@@ -178,6 +182,36 @@ describe('VASP 6 KPOINTS_OPT runs (vasprun.xml <eigenvalues_kpoints_opt>)', () =
     assert.equal(bs.nk, 8);
     assert.ok(bs.occupations !== null);
     assert.match(bs.warnings.find((w) => w.code === 'kpoints-opt')!.message, /analysed: the self-consistent set, as asked/);
+  });
+
+  it('(a) the CLI: analyze --json reads the KPOINTS_OPT set, --scf-set the mesh', async () => {
+    const dir = runFolder({ 'vasprun.xml': vasprun(optSpec()), KPOINTS_OPT });
+    const nkOf = async (extra: string[]): Promise<number> => {
+      const io = capture();
+      assert.equal(await main(['analyze', dir, '--json', ...extra], io), 0, io.stderr);
+      return (JSON.parse(io.stdout) as { nk: number }).nk;
+    };
+    assert.equal(await nkOf([]), PATH.length);
+    assert.equal(await nkOf(['--scf-set']), 8);
+  });
+
+  it('(a) fed to the stream in small pieces (every row and tag split somewhere): the same KPOINTS_OPT set', () => {
+    const bytes = new TextEncoder().encode(vasprun(optSpec({ nSpin: 2 })));
+    const whole = new VasprunStream('vasprun.xml', bytes.length);
+    whole.write(bytes, true);
+    const a = whole.finish(false).kpointsOpt;
+    for (const piece of [7, 61]) {
+      const s = new VasprunStream('vasprun.xml', bytes.length);
+      for (let i = 0; i < bytes.length; i += piece) s.write(bytes.subarray(i, i + piece), i + piece >= bytes.length);
+      const b = s.finish(false).kpointsOpt;
+      assert.ok(a?.state === 'read' && b?.state === 'read');
+      assert.deepEqual(Array.from(b.set.kpoints), Array.from(a.set.kpoints));
+      assert.deepEqual(
+        b.set.energies.map((e) => Array.from(e)),
+        a.set.energies.map((e) => Array.from(e)),
+      );
+      assert.equal(b.set.nk, PATH.length);
+    }
   });
 
   it('(b) the KPOINTS_OPT block before the ordinary eigenvalues reads the same', () => {
