@@ -16,6 +16,8 @@ export interface KpointsOptSpec {
   occupations?: (s: number, k: number) => number[];
   /** A line-mode <generation>: points per segment and the segment ends. */
   generation?: { divisions: number; ends: number[][] };
+  /** An automatic mesh's <generation> (param "Gamma" or "Monkhorst-Pack", divisions as "n1 n2 n3"), as for the ordinary <kpoints>. */
+  meshGeneration?: { param: string; divisions: string };
   /** Leave out the <varray name="kpointlist"> (a hostile file). */
   omitKpointList?: boolean;
   /** Extra <set comment="kpoint"> sets after the listed k-points (more rows than the list declares). */
@@ -59,6 +61,11 @@ export function kpointsOptBlock(spec: KpointsOptSpec): string {
     );
     for (const e of spec.generation.ends) out.push(`     <v>${e.map(f).join('')} </v>`);
     out.push('    </generation>');
+  }
+  if (spec.meshGeneration) {
+    const g = spec.meshGeneration;
+    out.push(`    <generation param="${g.param}">`, `     <v type="int" name="divisions">${g.divisions} </v>`);
+    out.push(`     <v name="usershift">${[0, 0, 0].map(f).join('')} </v>`, '    </generation>');
   }
   if (!spec.omitKpointList) {
     out.push('    <varray name="kpointlist" >');

@@ -91,9 +91,11 @@ export function vasprunToBandStructure(
   return vaspBandStructure(source, arrays, found, ({ kpoints, nk }) => {
     // Labels: a KPOINTS file in line mode beside the run names the ends VASP lists here (KPOINTS_OPT for that
     // set); the positions vasprun.xml lists are fractional, as the path's ends are when given in reciprocal coordinates.
+    // The KPOINTS_OPT set is a path also when its <generation> is not written but its KPOINTS_OPT is in line mode.
     const kfile = companions.find((c) => isKpointsOptName(basename(c.path)) === (chosen.set !== null));
-    if (!generation) return { labels: [], sampling: 'points', declaredMesh };
+    if (!generation && !(chosen.set && kfile)) return { labels: [], sampling: 'points', declaredMesh };
     const content = kfile && readKpointsCompanion(kfile, files, warnings, (c) => c.mode === 'line' && c.path.coordinates === 'reciprocal');
+    if (!generation && content?.mode !== 'line') return { labels: [], sampling: 'points', declaredMesh };
     const labels = content?.mode === 'line' ? placeLineModeLabels(content.path, kpoints, nk, null, kfile!.path, warnings) : [];
     return { labels, sampling: 'path' };
   });

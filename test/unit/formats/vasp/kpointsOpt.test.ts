@@ -106,7 +106,8 @@ function optSpec(over: Partial<KpointsOptSpec> = {}): KpointsOptSpec {
 }
 
 function vasprun(spec: KpointsOptSpec | null, where: 'after' | 'before' = 'after'): string {
-  const scf = writeVasprun(scfRun(spec?.nSpin ?? 1));
+  // The self-consistent <kpoints> declares its 2×2×2 Monkhorst–Pack mesh, as VASP writes it.
+  const scf = writeVasprun(scfRun(spec?.nSpin ?? 1), { meshGeneration: { param: 'Monkhorst-Pack', divisions: '2 2 2' } });
   return spec ? withKpointsOpt(scf, kpointsOptBlock(spec), where) : scf;
 }
 
@@ -212,6 +213,42 @@ describe('VASP 6 KPOINTS_OPT runs (vasprun.xml <eigenvalues_kpoints_opt>)', () =
       );
       assert.equal(b.set.nk, PATH.length);
     }
+  });
+
+  it('(a) no <generation> in the KPOINTS_OPT set: a path when KPOINTS_OPT is in line mode, else points', () => {
+    const text = vasprun(optSpec({ generation: undefined }));
+    const optFile = { path: 'KPOINTS_OPT', bytes: new TextEncoder().encode(KPOINTS_OPT) };
+    const withFile = vasprunReader.read({ path: 'vasprun.xml', bytes: new TextEncoder().encode(text) }, [optFile], {});
+    assert.equal(withFile.sampling, 'path');
+    assert.deepEqual(withFile.labels.slice(0, 2), [
+      { index: 0, label: 'Γ' },
+      { index: DIV - 1, label: 'X' },
+    ]);
+    const without = readText(text);
+    assert.equal(without.sampling, 'points');
+    assert.equal(without.nk, PATH.length);
+  });
+
+  it('(a) a mesh KPOINTS_OPT set: its own declared mesh (3×3×3 Γ-centred), not the self-consistent 2×2×2', () => {
+    const mesh: number[][] = [];
+    for (const x of [0, 1, 2]) for (const y of [0, 1, 2]) for (const z of [0, 1, 2]) mesh.push([x / 3, y / 3, z / 3]);
+    const bs = readText(
+      vasprun(
+        optSpec({
+          kpoints: mesh,
+          energies: (s, k) => model(mesh[k]!),
+          generation: undefined,
+          meshGeneration: { param: 'Gamma', divisions: '3 3 3' },
+        }),
+      ),
+    );
+    assert.equal(bs.nk, 27);
+    assert.equal(bs.sampling, 'points');
+    assert.deepEqual(bs.declaredMesh?.divisions, [3, 3, 3]);
+    assert.ok(
+      readText(vasprun(null)).declaredMesh?.divisions.every((n) => n === 2),
+      'the self-consistent set declares 2×2×2',
+    );
   });
 
   it('(b) the KPOINTS_OPT block before the ordinary eigenvalues reads the same', () => {
