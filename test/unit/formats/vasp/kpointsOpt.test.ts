@@ -23,6 +23,7 @@ import { writeEigenval } from '../../../support/writers/vasp';
 import { kpointsOptBlock, withKpointsOpt, type KpointsOptSpec } from '../../../support/writers/vasprunKpointsOpt';
 import { cubicLattice } from '../../../support/models';
 import { runFolderMaker } from '../../../support/unitRunFolders';
+import { HBAR2_OVER_ME_EV_A2 } from '../../../../src/core/units';
 
 const A = 4;
 /** (E0, t) per band of the tight-binding model above. */
@@ -134,6 +135,18 @@ function assertModelGap(bs: BandStructure, spin: 0 | 1 = 0): void {
   assert.ok(near(gap.vbm.k, R), `VBM at ${gap.vbm.k.join(' ')}`);
   assert.ok(near(gap.cbm.k, G), `CBM at ${gap.cbm.k.join(' ')}`);
   assert.deepEqual([gap.vbm.band, gap.cbm.band], [2, 3]);
+  if (spin === 1) return;
+  // Curvature masses of the tight-binding bands: d²E/dk² = 2 t a² at the band's extremum, m* = ħ²/(m_e · 2 t a²)
+  // (model): 0.3175 m_e at Γ (t = 0.75), −0.476 m_e at R (t = 0.5). 3 %: the cosine's quartic term over the fit window.
+  const massTowards = (kind: string, dir: number[]): number => {
+    const unit = dir.map((x) => x / Math.hypot(...dir));
+    return report.extrema.find((e) => e.kind === kind)!.masses.find((m) => m.direction.every((x, j) => Math.abs(x - unit[j]!) < 1e-6))!
+      .mass;
+  };
+  const cbmMass = HBAR2_OVER_ME_EV_A2 / (2 * 0.75 * A * A);
+  const vbmMass = -HBAR2_OVER_ME_EV_A2 / (2 * 0.5 * A * A);
+  assert.ok(Math.abs(massTowards('cbm', [0, 1, 0]) / cbmMass - 1) < 0.03, `m*(Γ→X) vs ${cbmMass}`);
+  assert.ok(Math.abs(massTowards('vbm', [-1, -1, -1]) / vbmMass - 1) < 0.03, `m*(R→Γ) vs ${vbmMass}`);
 }
 
 describe('VASP 6 KPOINTS_OPT runs (vasprun.xml <eigenvalues_kpoints_opt>)', () => {
