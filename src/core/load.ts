@@ -12,6 +12,8 @@ import { withInferredLabels } from './lattice/inferLabels';
 import { checkConfined, notRegularSentence, PathRefusedError, readListedFile, redactContent } from './io/pathPolicy';
 import { refuseAbsurdKpoints } from './formats/kpointSanity';
 import { crossCheckListedSymmetry } from './lattice/listedSymmetry';
+import { isKpointsOptName } from './formats/vasp/kpointsOptChoice';
+import { VASPRUN_FORMAT } from './formats/vasp/vasprunStream';
 
 /** Files larger than this are streamed by readers that can (bytes); also the largest two candidates compared whole. */
 export const STREAM_ABOVE_BYTES = 32 * 1024 * 1024;
@@ -43,6 +45,8 @@ export interface RunLocation {
   reader: FormatReader;
   /** Other files of the folder that hold eigenvalues too (none when a file was given). */
   others?: OtherCandidate[];
+  /** Why the file read was preferred to the others, when a rule other than the general one decided. */
+  preferredBecause?: string;
 }
 
 /** Files never worth opening when looking for eigenvalues in a run folder. */
@@ -109,8 +113,15 @@ export async function locateRun(fs: FileAccessor, path: string): Promise<RunLoca
       `${path}: no eigenvalue file found in this folder or in a <prefix>.save/ inside it (looked for ${READERS.map((r) => r.label).join(', ')})${refused.length ? `; not followed: ${refused.join('; ')}` : ''}`,
     );
   }
-  found.sort((a, b) => b.confidence - a.confidence || a.depth - b.depth || a.name.localeCompare(b.name));
+  // A KPOINTS_OPT file: its eigenvalues are only in vasprun.xml (EIGENVAL holds the self-consistent mesh).
+  const optFile = listing.find((e) => e.type === 'file' && isKpointsOptName(e.name));
+  const first = (c: { reader: FormatReader }): number => (optFile && c.reader.id === VASPRUN_FORMAT ? 0 : 1);
+  found.sort((a, b) => first(a) - first(b) || b.confidence - a.confidence || a.depth - b.depth || a.name.localeCompare(b.name));
   const best = found[0]!;
+  const preferredBecause =
+    optFile && first(best) === 0 && found.length > 1
+      ? `the folder holds ${optFile.name}, whose eigenvalues VASP writes only to vasprun.xml (EIGENVAL holds the self-consistent mesh only)`
+      : undefined;
   const others: OtherCandidate[] = [];
   for (const o of found.slice(1)) {
     let identical = false;
@@ -123,14 +134,15 @@ export async function locateRun(fs: FileAccessor, path: string): Promise<RunLoca
     }
     others.push({ name: o.name, label: o.reader.label, identical });
   }
-  return { file: best.file, reader: best.reader, others };
+  return { file: best.file, reader: best.reader, others, ...(preferredBecause ? { preferredBecause } : {}) };
 }
 
 /** A notice naming the other candidate files of a run folder, or null when there were none. */
 export function otherCandidatesNotice(loc: RunLocation): string | null {
   if (!loc.others || loc.others.length === 0) return null;
   const list = loc.others.map((o) => `${o.name} (${o.label}${o.identical ? ', an identical copy' : ''})`).join(', ');
-  return `The folder holds more than one eigenvalue file: ${basename(loc.file)} was read (recognised most surely, then files in the folder before those in <prefix>.save/, then by name); also found: ${list}. Give the file itself to read another one.`;
+  const why = loc.preferredBecause ?? 'recognised most surely, then files in the folder before those in <prefix>.save/, then by name';
+  return `The folder holds more than one eigenvalue file: ${basename(loc.file)} was read (${why}); also found: ${list}. Give the file itself to read another one.`;
 }
 
 /** Read a run: the eigenvalue file plus the companions its reader wants from the same folder. */

@@ -30,6 +30,7 @@ ${BATCH_HELP}
                     distances and masses, not the lattice: labels then need --structure
   --structure <file>  a POSCAR-like structure file (or a pw.x XML data file, which also gives the electron
                     count and spinor state), for runs whose files give no cell or atoms
+  --scf-set         a VASP 6 vasprun.xml with a KPOINTS_OPT set: analyse the self-consistent set instead
   --energy-zero <vbm|cbm|midgap|fermi|raw>
                     the zero of the energies printed (default vbm); --json keeps the raw energies and
                     says which zero the text would use`;
@@ -73,6 +74,7 @@ export const READ_FLAGS = {
 export async function readOptionsFromArgs(p: ReturnType<typeof parseArgs>): Promise<ReadOptions> {
   const o: ReadOptions = {};
   if (p.flags.has('soc')) o.spinorbit = true;
+  if (p.flags.has('scf-set')) o.scfSet = true;
   const alat = alatFlag(p);
   if (alat !== undefined) o.alatAngstrom = alat;
   const sfile = flag(p, 'structure');
@@ -96,7 +98,14 @@ export async function readOptionsFromArgs(p: ReturnType<typeof parseArgs>): Prom
 }
 
 export async function runAnalyze(argv: string[], io: CliIO): Promise<number> {
-  const p = parseArgs(argv, { json: { value: false }, 'energy-zero': { value: true }, ...ANALYSIS_FLAGS, ...READ_FLAGS, ...BATCH_FLAGS });
+  const p = parseArgs(argv, {
+    json: { value: false },
+    'energy-zero': { value: true },
+    'scf-set': { value: false },
+    ...ANALYSIS_FLAGS,
+    ...READ_FLAGS,
+    ...BATCH_FLAGS,
+  });
   const batch = batchOptionsFromArgs(p);
   if (batch.requested) {
     if (!batch.jsonl) throw new UsageError('--jobs and --shard go with --jsonl (one line per run)');

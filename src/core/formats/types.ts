@@ -20,6 +20,8 @@ export interface ReadOptions {
   isCancelled?: () => boolean;
   /** Called with the fraction of the main file read so far. */
   onProgress?: (fraction: number) => void;
+  /** vasprun.xml with a VASP 6 KPOINTS_OPT set: analyse the self-consistent set instead (default: the KPOINTS_OPT set). */
+  scfSet?: boolean;
   /** Accept a file that ends early (a running job) and mark the result partial instead of failing. */
   allowPartial?: boolean;
   /**

@@ -18,6 +18,7 @@ import { castepBandsReader } from '../../../src/core/formats/castep';
 import { collinearModel, spinPolarisedModel } from '../../support/writers/roundTripModel';
 import { writeBandsx, writeQeXml } from '../../support/writers/qe';
 import { writeVasprun } from '../../support/writers/vasprun';
+import { kpointsOptBlock, withKpointsOpt } from '../../support/writers/vasprunKpointsOpt';
 import { writeWannier90 } from '../../support/writers/wannier90';
 import { writeBxsf } from '../../support/writers/bxsf';
 import { writeCastepBands } from '../../support/writers/castep';
@@ -64,6 +65,21 @@ const SAMPLES: { reader: FormatReader; name: string; text: string; companions?: 
   },
   { reader: bandsxReader, name: 'bands.out', text: writeBandsx(model, 4) },
   { reader: vasprunReader, name: 'vasprun.xml', text: writeVasprun(model) },
+  {
+    // VASP 6: a KPOINTS_OPT set (energy-only rows) after the ordinary eigenvalues, with its <dos_kpoints_opt>.
+    reader: vasprunReader,
+    name: 'opt.vasprun.xml',
+    text: withKpointsOpt(
+      writeVasprun(model),
+      kpointsOptBlock({
+        kpoints: [0, 1, 2, 3].map((k) => Array.from(model.kpoints.subarray(3 * k, 3 * k + 3))),
+        nSpin: 1,
+        energies: (_, k) => Array.from(model.energies[0]!.subarray(k * model.nBands, (k + 1) * model.nBands)),
+        dosEfermi: 0.5,
+      }),
+      'after',
+    ),
+  },
   {
     reader: wannier90BandReader,
     name: 'm_band.dat',

@@ -180,9 +180,9 @@ describe('hostile paths: the annotations file itself', function () {
   }
 });
 
-describe('hostile companions of a VASP run (POSCAR, CONTCAR, KPOINTS, INCAR)', function () {
+describe('hostile companions of a VASP run (POSCAR, CONTCAR, KPOINTS, INCAR, KPOINTS_OPT)', function () {
   this.timeout(30000);
-  for (const name of ['POSCAR', 'CONTCAR', 'KPOINTS', 'INCAR']) {
+  for (const name of ['POSCAR', 'CONTCAR', 'KPOINTS', 'INCAR', 'KPOINTS_OPT']) {
     for (const t of [...TARGETS, 'link-to-hidden' as const]) {
       it(`${name} ${t}: analyze and annotate end with a sentence`, async () => {
         const dir = caseDir(`vasp-${name}-${t}`);
@@ -201,16 +201,17 @@ describe('hostile companions of a VASP run (POSCAR, CONTCAR, KPOINTS, INCAR)', f
   }
 });
 
-describe('hostile KPOINTS beside vasprun.xml', function () {
+describe('hostile KPOINTS and KPOINTS_OPT beside vasprun.xml', function () {
   this.timeout(30000);
-  for (const t of TARGETS) {
-    it(`KPOINTS ${t}: analyze ends with a sentence`, async () => {
-      const dir = caseDir(`vasprun-KPOINTS-${t}`);
-      writeFileSync(join(dir, 'vasprun.xml'), writeVasprun(collinearModel()));
-      plant(join(dir, 'KPOINTS'), t);
-      assertContained(await runCli(['analyze', dir]), `analyze (${t})`, REFUSED);
-    });
-  }
+  for (const name of ['KPOINTS', 'KPOINTS_OPT'])
+    for (const t of TARGETS) {
+      it(`${name} ${t}: analyze ends with a sentence`, async () => {
+        const dir = caseDir(`vasprun-${name}-${t}`);
+        writeFileSync(join(dir, 'vasprun.xml'), writeVasprun(collinearModel()));
+        plant(join(dir, name), t);
+        assertContained(await runCli(['analyze', dir]), `analyze (${name} ${t})`, REFUSED);
+      });
+    }
 });
 
 describe('hostile companions of a Wannier90 run (_band.kpt, _band.labelinfo.dat, .win)', function () {

@@ -15,6 +15,7 @@ import { vaspBandStructure } from './vaspBandStructure';
 import { readIncar } from './incar';
 import { declaredMeshOfKpoints } from './kpointsMesh';
 import { modelMethodFromSystem, vaspMethod } from './vaspMethod';
+import { eigenvalBesideKpointsOpt, isKpointsOptName, KPOINTS_OPT_NAME } from './kpointsOptChoice';
 
 const STRUCTURE_NAMES = ['CONTCAR', 'POSCAR'];
 
@@ -28,7 +29,7 @@ export const vaspEigenvalReader: FormatReader = {
     // "si.POSCAR" / "si.KPOINTS" when present.
     const prefix = /^(.*?)(EIGENVAL)(.*)$/i.exec(mainName);
     const want: string[] = [];
-    for (const role of [...STRUCTURE_NAMES, 'KPOINTS', 'INCAR']) {
+    for (const role of [...STRUCTURE_NAMES, 'KPOINTS', 'INCAR', KPOINTS_OPT_NAME]) {
       const candidates = prefix ? [`${prefix[1]}${role}${prefix[3]}`, role] : [role];
       const hit = candidates.find((c) => siblings.includes(c));
       if (hit) want.push(hit);
@@ -39,7 +40,10 @@ export const vaspEigenvalReader: FormatReader = {
     const data = readEigenval(main, options);
     const warnings: InputWarning[] = [];
     const files: SourceFile[] = [{ role: 'eigenvalues', path: main.path, sha256: data.sha256 }];
-    const byRole = (role: string): InputFile | undefined => companions.find((c) => basename(c.path).toUpperCase().includes(role));
+    const byRole = (role: string): InputFile | undefined =>
+      companions.find(
+        (c) => basename(c.path).toUpperCase().includes(role) && isKpointsOptName(basename(c.path)) === (role === KPOINTS_OPT_NAME),
+      );
 
     // Structure: CONTCAR (the final structure) when present and not empty, else POSCAR.
     let structure: Structure | null = null;
@@ -106,6 +110,8 @@ export const vaspEigenvalReader: FormatReader = {
         message: `The file holds ${data.nk} of the ${data.announcedK} k-points its header announces (a running or interrupted job): results are provisional.`,
       });
     }
+    const optFile = byRole(KPOINTS_OPT_NAME);
+    if (optFile) warnings.push(eigenvalBesideKpointsOpt(basename(optFile.path)));
     const source = { format: EIGENVAL_FORMAT, file: main.path, files };
     const found = { lattice, structure, fermiEnergy: null, spinorbit, method, partial: data.partial, warnings };
     // Path labels from KPOINTS in line mode (cartesian ends converted with the POSCAR lattice over its scale).

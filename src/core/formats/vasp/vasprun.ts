@@ -11,6 +11,7 @@ import { CancelledError } from '../../errors';
 import { VASPRUN_FORMAT, VasprunStream, type VasprunData } from './vasprunStream';
 import { placeLineModeLabels, readKpointsCompanion } from './kpointLabels';
 import { vaspBandStructure } from './vaspBandStructure';
+import { chosenEigenvalueSet, isKpointsOptName, KPOINTS_OPT_NAME } from './kpointsOptChoice';
 
 export { VASPRUN_FORMAT, VasprunStream, type VasprunData };
 
@@ -83,12 +84,18 @@ export function vasprunToBandStructure(
   const spinorbit = options.spinorbit ?? data.spinorbit ?? false;
   const lattice = structure?.lattice ?? options.lattice ?? null;
   const found = { lattice, structure, fermiEnergy: data.fermiEnergy, spinorbit, method: data.method, partial: !data.complete, warnings };
-  return vaspBandStructure(source, data, found, ({ kpoints, nk }) => {
-    if (!data.generation) return { labels: [], sampling: 'points', declaredMesh: data.declaredMesh };
-    // Labels: a KPOINTS file in line mode beside the run names the ends VASP lists here; the positions
-    // vasprun.xml lists are fractional, as the path's ends are when given in reciprocal coordinates.
-    const kfile = companions.find((c) => /KPOINTS/i.test(basename(c.path)));
+  // VASP 6's KPOINTS_OPT set, when present and complete, is what the user asked VASP for (vasprunKpointsOpt.ts).
+  const chosen = chosenEigenvalueSet(data, options.scfSet === true, warnings);
+  const arrays = chosen.set ? { ...chosen.set, electrons: data.electrons } : data;
+  const { generation, declaredMesh } = chosen.set ?? data;
+  return vaspBandStructure(source, arrays, found, ({ kpoints, nk }) => {
+    // Labels: a KPOINTS file in line mode beside the run names the ends VASP lists here (KPOINTS_OPT for that
+    // set); the positions vasprun.xml lists are fractional, as the path's ends are when given in reciprocal coordinates.
+    // The KPOINTS_OPT set is a path also when its <generation> is not written but its KPOINTS_OPT is in line mode.
+    const kfile = companions.find((c) => isKpointsOptName(basename(c.path)) === (chosen.set !== null));
+    if (!generation && !(chosen.set && kfile)) return { labels: [], sampling: 'points', declaredMesh };
     const content = kfile && readKpointsCompanion(kfile, files, warnings, (c) => c.mode === 'line' && c.path.coordinates === 'reciprocal');
+    if (!generation && content?.mode !== 'line') return { labels: [], sampling: 'points', declaredMesh };
     const labels = content?.mode === 'line' ? placeLineModeLabels(content.path, kpoints, nk, null, kfile!.path, warnings) : [];
     return { labels, sampling: 'path' };
   });
@@ -101,9 +108,12 @@ export const vasprunReader: FormatReader = {
   detect: detectVasprun,
   companions(mainName: string, siblings: string[]): string[] {
     const prefix = /^(.*?)vasprun(.*)\.xml$/i.exec(mainName);
-    const candidates = prefix ? [`${prefix[1]}KPOINTS${prefix[2]}`, 'KPOINTS'] : ['KPOINTS'];
-    const hit = candidates.find((c) => siblings.includes(c));
-    return hit ? [hit] : [];
+    const out: string[] = [];
+    for (const role of ['KPOINTS', KPOINTS_OPT_NAME]) {
+      const hit = (prefix ? [`${prefix[1]}${role}${prefix[2]}`, role] : [role]).find((c) => siblings.includes(c));
+      if (hit) out.push(hit);
+    }
+    return out;
   },
   read(main: InputFile, companions: InputFile[], options: ReadOptions): BandStructure {
     return vasprunToBandStructure(readVasprun(main, options), main, companions, options);

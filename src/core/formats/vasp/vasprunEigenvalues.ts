@@ -135,6 +135,14 @@ export interface EigenvalueHeader {
   sizeHint: number | null;
 }
 
+/** The counts that size an eigenvalue block of `nk` k-points: NBANDS and ISPIN from the first of `tags` that gives each. */
+export function eigenvalueHeader(tags: ReadonlyMap<string, string>[], nk: number, sizeHint: number | null): EigenvalueHeader {
+  const tag = (key: string): string | undefined => tags.map((t) => t.get(key)).find((v) => v !== undefined);
+  const nb = tag('NBANDS');
+  const ispin = tag('ISPIN');
+  return { nbands: nb === undefined ? NaN : Number(nb.trim()), ispin: ispin === undefined ? 1 : Number(ispin.trim()), nk, sizeHint };
+}
+
 export class EigenvalueBlock {
   readonly energies: DoubleBuffer;
   /** Occupations in single precision: VASP writes them with four decimals, and they only decide filling. */
@@ -184,6 +192,18 @@ export class EigenvalueBlock {
       this.kInSpin++;
       this.rowsInSet = 0;
     }
+  }
+
+  /** A `<set>` opens in the scanner: counted by `openSet`, its rows read by this block's row reader. */
+  enterSet(sc: XmlByteScanner, comment: string): void {
+    this.openSet(comment);
+    sc.setRows(this.rowReader);
+  }
+
+  /** A `<set>` closes in the scanner: row reading stops; a k-point's set is checked by `closeSet`. */
+  leaveSet(sc: XmlByteScanner): void {
+    sc.setRows(null);
+    if (sc.ancestor(1) === 'set') this.closeSet();
   }
 
   /** A row the general path read (its text): the numbers, or the error in the reader's words. */

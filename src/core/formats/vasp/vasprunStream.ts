@@ -22,10 +22,10 @@
  *     <structure name="finalpos"> ... </structure>
  *   </modeling>
  *
- * Eigenvalues inside <projected> (and VASP 6's <eigenvalues_kpoints_opt>) are other blocks: only the
- * <eigenvalues> directly inside <calculation> are read.
+ * Eigenvalues inside <projected> are other blocks: only the <eigenvalues> directly inside <calculation> are read,
+ * and VASP 6's KPOINTS_OPT set (<eigenvalues_kpoints_opt>) by vasprunKpointsOpt.ts.
  */
-import type { DeclaredMesh, ElectronicMethod, OccupationArray, Structure, Vec3 } from '../../model';
+import type { ElectronicMethod, Structure, Vec3 } from '../../model';
 import { basename } from '../../io/fileAccessor';
 import { ReaderError } from '../../errors';
 import { parseDecimal, scanDecimalBytes } from '../numbers';
@@ -33,35 +33,27 @@ import { XmlByteScanner, type RowReader } from '../xmlByteScanner';
 import { vasprunTagFacts } from './vaspMethod';
 import { chosenStructure, type StructureDraft } from './vasprunStructure';
 import { DoubleBuffer } from '../doubleBuffer';
-import { EigenvalueBlock, readVectorRows } from './vasprunEigenvalues';
+import { EigenvalueBlock, eigenvalueHeader, readVectorRows, type EigenvalueHeader } from './vasprunEigenvalues';
 import { VasprunMeshGeneration } from './vasprunMeshGeneration';
+import { isKpointsOptScope, KpointsOptReader, type KpointsOptOutcome, type VasprunKSet } from './vasprunKpointsOpt';
 
 export const VASPRUN_FORMAT = 'vasprun-xml';
 
-/** What a vasprun.xml says, before it becomes a BandStructure. */
-export interface VasprunData {
+/** What a vasprun.xml says, before it becomes a BandStructure; the eigenvalue set is the self-consistent one. */
+export interface VasprunData extends VasprunKSet {
   structure: Structure | null;
   species: string[];
-  kpoints: Float64Array;
-  weights: Float64Array | null;
-  nk: number;
-  nBands: number;
-  nSpin: 1 | 2;
-  energies: Float64Array[];
-  occupations: OccupationArray[] | null;
   fermiEnergy: number | null;
   electrons: number | null;
   spinorbit: boolean | null;
   /** How the energies were computed, from the <incar> and <parameters> tags (see vasp/vaspMethod.ts). */
   method: ElectronicMethod;
-  /** Line-mode generation: points per segment and the segment ends (fractional), when written. */
-  generation: { divisions: number; ends: Vec3[] } | null;
-  /** A Γ-centred or Monkhorst–Pack mesh the <generation> declares. */
-  declaredMesh: DeclaredMesh | null;
   /** False when the file ended early (only with allowPartial). */
   complete: boolean;
   /** Ionic steps whose eigenvalues were seen; the last complete one is kept. */
   steps: number;
+  /** VASP 6's KPOINTS_OPT eigenvalue set, when the file holds one (vasprunKpointsOpt.ts). */
+  kpointsOpt: KpointsOptOutcome | null;
 }
 
 /**
@@ -96,6 +88,9 @@ export class VasprunStream {
   private stepEfermi: number | null = null;
   private sawRoot = false;
   private readonly kpointRowReader: RowReader;
+  private readonly opt: KpointsOptReader;
+  /** The counts that size an eigenvalue block of `nk` k-points (NBANDS, ISPIN: <parameters> before <incar>). */
+  private readonly headerFor = (nk: number): EigenvalueHeader => eigenvalueHeader([this.paramTags, this.incarTags], nk, this.sizeHint);
 
   /** `sizeHint`: the file's size in bytes when known (header counts are checked against it). */
   constructor(
@@ -107,6 +102,7 @@ export class VasprunStream {
       close: (name, depth, text, length) => this.close(name, depth, text, length),
     });
     this.kpointRowReader = (sc, buf, pos, end) => this.fastKpointRows(sc, buf, pos, end);
+    this.opt = new KpointsOptReader(this.xml, this.headerFor);
   }
 
   write(bytes: Uint8Array, last = false): void {
@@ -146,6 +142,8 @@ export class VasprunStream {
       this.sawRoot = true;
       return false;
     }
+    if (this.opt.active) return this.opt.open(name, attrs, depth);
+    if (isKpointsOptScope(name, depth)) this.opt.enter(name, depth);
     switch (name) {
       case 'r':
         if (this.eig !== null && sc.ancestor(1) === 'set') {
@@ -170,10 +168,7 @@ export class VasprunStream {
       case 'c':
         return this.inAtomsArray && this.rcColumn === 0;
       case 'set':
-        if (this.eig !== null) {
-          this.eig.openSet(attrs?.comment ?? '');
-          sc.setRows(this.eig.rowReader);
-        }
+        this.eig?.enterSet(sc, attrs?.comment ?? '');
         return false;
       case 'varray':
         this.varrayName = attrs?.name ?? null;
@@ -220,19 +215,12 @@ export class VasprunStream {
 
   /** An <eigenvalues> block opens: arrays sized from NBANDS, ISPIN and the k-points, checked against the file. */
   private startEigenvalues(depth: number): void {
-    const nbText = this.paramTags.get('NBANDS') ?? this.incarTags.get('NBANDS');
-    const ispinText = this.paramTags.get('ISPIN') ?? this.incarTags.get('ISPIN');
-    const header = {
-      nbands: nbText === undefined ? NaN : Number(nbText.trim()),
-      ispin: ispinText === undefined ? 1 : Number(ispinText.trim()),
-      nk: this.kpointList.length / 3,
-      sizeHint: this.sizeHint,
-    };
-    this.eig = new EigenvalueBlock(header, this.xml.line, (reason) => this.fail(reason));
+    this.eig = new EigenvalueBlock(this.headerFor(this.kpointList.length / 3), this.xml.line, (reason) => this.fail(reason));
     this.eigDepth = depth;
   }
 
   private close(name: string, depth: number, text: Uint8Array | null, length: number): void {
+    if (this.opt.active) return this.opt.close(name, depth, text, length);
     const sc = this.xml;
     switch (name) {
       case 'r': {
@@ -301,12 +289,9 @@ export class VasprunStream {
       case 'array':
         this.inAtomsArray = false;
         return;
-      case 'set': {
-        if (this.eig === null) return;
-        sc.setRows(null);
-        if (sc.ancestor(1) === 'set') this.eig.closeSet();
+      case 'set':
+        this.eig?.leaveSet(sc);
         return;
-      }
       case 'varray':
         if (depth === 3 && sc.ancestor(1) === 'kpoints') {
           sc.setRows(null);
@@ -357,7 +342,9 @@ export class VasprunStream {
       throw new ReaderError(VASPRUN_FORMAT, this.fileName, { line: outcome.endLine, column: 0 }, reason);
     }
     const nk = this.kpointList.length / 3;
-    const fail = (reason: string): ReaderError => new ReaderError(VASPRUN_FORMAT, this.fileName, { line: eig.line, column: 0 }, reason);
+    const failAt = (line: number, reason: string): ReaderError =>
+      new ReaderError(VASPRUN_FORMAT, this.fileName, { line, column: 0 }, reason);
+    const fail = (reason: string): ReaderError => failAt(eig.line, reason);
     if (nk === 0) throw fail('the file lists no k-points (<kpoints> with a "kpointlist")');
     const { nSpin, nBands, energies, occupations } = eig.perSpin(nk, fail);
     const { spinorbit, electrons, method } = vasprunTagFacts(this.incarTags, this.paramTags, basename(this.fileName));
@@ -381,6 +368,7 @@ export class VasprunStream {
       declaredMesh: this.meshGeneration.declared(),
       complete: outcome.complete,
       steps: this.steps,
+      kpointsOpt: this.opt.outcome({ nBands, nSpin }, failAt),
     };
   }
 }
