@@ -13,11 +13,15 @@
  *   <dos_kpoints_opt> <i name="efermi"> .. </i> ... </dos_kpoints_opt>   (ignored: the Fermi energy is the
  *                                                                         self-consistent run's, from a weighted mesh)
  *
- * VasprunStream hands every event inside a `*_kpoints_opt` element directly under <calculation> to this reader.
- * Both sets are kept (the self-consistent one is usually the smaller), each checked like the ordinary block.
+ * The set's k-points may also come in a `<kpoints comment="kpoints_opt">` of their own, under <modeling> or
+ * <calculation> before the block: read for the set, never taken for the self-consistent k-points.
+ * VasprunStream hands every event inside a `*_kpoints_opt` element directly under <calculation> (or such a
+ * <kpoints>) to this reader. Both sets are kept (the self-consistent one is usually the smaller), each checked
+ * like the ordinary block. A set that does not fit the run (no k-points, another band or spin count, more sets
+ * than k-points) is set aside with its reason and the self-consistent set read; malformed rows are errors.
  */
 import type { DeclaredMesh, OccupationArray, Vec3 } from '../../model';
-import type { ReaderError } from '../../errors';
+import { ReaderError } from '../../errors';
 import { scanDecimalBytes } from '../numbers';
 import type { RowReader, XmlByteScanner } from '../xmlByteScanner';
 import { DoubleBuffer } from '../doubleBuffer';
@@ -49,9 +53,14 @@ export type KpointsOptSet = VasprunKSet;
 /** What the file says of a KPOINTS_OPT set: read, or present but not usable (the file ends inside it). */
 export type KpointsOptOutcome = { state: 'read'; set: KpointsOptSet } | { state: 'unusable'; reason: string };
 
-/** Whether an element opened at depth 3 (directly under <calculation>) belongs to the KPOINTS_OPT run. */
-export function isKpointsOptScope(name: string, depth: number): boolean {
-  return depth === 3 && name.endsWith('_kpoints_opt');
+/**
+ * Whether an element belongs to the KPOINTS_OPT run: a `*_kpoints_opt` element directly under <calculation>, or a
+ * `<kpoints comment="kpoints_opt">` of its own under <modeling> or <calculation> (its k-points, when they are not
+ * inside the block; never the self-consistent k-points).
+ */
+export function isKpointsOptScope(name: string, depth: number, attrs?: Record<string, string> | null): boolean {
+  if (depth === 3 && name.endsWith('_kpoints_opt')) return true;
+  return name === 'kpoints' && (depth === 2 || depth === 3) && attrs?.comment === 'kpoints_opt';
 }
 
 export class KpointsOptReader {
@@ -67,6 +76,10 @@ export class KpointsOptReader {
   private eig: EigenvalueBlock | null = null;
   private eigDepth = 0;
   private seen = false;
+  /** The k-points were read from a `<kpoints comment="kpoints_opt">` outside the block (kept for it). */
+  private kFromSeparate = false;
+  /** Why the set cannot be used, found before its end (it is then skipped, and the self-consistent set read). */
+  private problem: string | null = null;
   private readonly vectorRows: RowReader;
 
   constructor(
@@ -89,16 +102,31 @@ export class KpointsOptReader {
     return this.scope !== null;
   }
 
-  /** A `*_kpoints_opt` element opens directly under <calculation>: a new set replaces an earlier one. */
+  /** A KPOINTS_OPT element opens (isKpointsOptScope): a new set replaces an earlier one. */
   enter(name: string, depth: number): void {
     this.scope = name;
     this.scopeDepth = depth;
+    if (name === 'kpoints') {
+      this.resetKpoints();
+      this.kFromSeparate = true;
+      this.inKpoints = true;
+      return;
+    }
     if (name !== KPOINTS_OPT_BLOCK) return;
     this.seen = true;
+    this.problem = null;
+    if (!this.kFromSeparate) this.resetKpoints();
+    this.eig = null;
+  }
+
+  private resetKpoints(): void {
     this.kpointList.length = 0;
     this.weightList.length = 0;
     this.line = null;
-    this.eig = null;
+  }
+
+  private get reading(): boolean {
+    return this.scope === KPOINTS_OPT_BLOCK || this.scope === 'kpoints';
   }
 
   private fail(reason: string): ReaderError {
@@ -116,7 +144,7 @@ export class KpointsOptReader {
   /** An element opens inside the scope: true when its text is wanted. */
   open(name: string, attrs: Record<string, string> | null, depth: number): boolean {
     const sc = this.sc;
-    if (this.scope !== KPOINTS_OPT_BLOCK) return false;
+    if (!this.reading) return false;
     const parent = sc.ancestor(1);
     switch (name) {
       case 'r':
@@ -140,6 +168,11 @@ export class KpointsOptReader {
         return this.line !== null && this.iName === 'divisions';
       case 'kpoints':
         this.inKpoints = parent === KPOINTS_OPT_BLOCK;
+        // The block's own k-points replace any read outside it.
+        if (this.inKpoints && this.kFromSeparate) {
+          this.resetKpoints();
+          this.kFromSeparate = false;
+        }
         return false;
       case 'generation':
         if (this.inKpoints && parent === 'kpoints') {
@@ -157,9 +190,15 @@ export class KpointsOptReader {
 
   private startEigenvalues(depth: number): void {
     const nk = this.kpointList.length / 3;
-    if (nk === 0) throw this.fail('the eigenvalues come before any k-point is listed (no <varray name="kpointlist"> in its <kpoints>)');
-    if (this.weightList.length !== 0 && this.weightList.length !== nk)
-      throw this.fail(`${this.weightList.length} weights are listed for ${nk} k-points`);
+    // A set whose k-points are not known is skipped (its rows are not read); the self-consistent set is analysed.
+    if (nk === 0) {
+      this.problem = `its eigenvalues (line ${this.sc.line}) come before any of its k-points is listed (no <varray name="kpointlist">)`;
+      return;
+    }
+    if (this.weightList.length !== 0 && this.weightList.length !== nk) {
+      this.problem = `${this.weightList.length} weights are listed for its ${nk} k-points`;
+      return;
+    }
     const sc = this.sc;
     this.eig = new EigenvalueBlock(this.header(nk), sc.line, (reason) => this.fail(reason));
     this.eigDepth = depth;
@@ -168,10 +207,14 @@ export class KpointsOptReader {
   /** An element closes inside the scope (or the scope itself). */
   close(name: string, depth: number, text: Uint8Array | null, length: number): void {
     if (depth === this.scopeDepth) {
+      if (this.scope === 'kpoints') {
+        this.inKpoints = false;
+        this.sc.setRows(null);
+      }
       this.scope = null;
       return;
     }
-    if (this.scope !== KPOINTS_OPT_BLOCK) return;
+    if (!this.reading) return;
     const sc = this.sc;
     switch (name) {
       case 'r':
@@ -234,6 +277,7 @@ export class KpointsOptReader {
    */
   outcome(scf: { nBands: number; nSpin: number }, failAt: (line: number, reason: string) => ReaderError): KpointsOptOutcome | null {
     if (!this.seen) return null;
+    if (this.problem !== null) return { state: 'unusable', reason: this.problem };
     const eig = this.eig;
     if (eig === null || !eig.complete) {
       return {
@@ -246,15 +290,27 @@ export class KpointsOptReader {
             : `the file ends inside its eigenvalues (begun at line ${eig.line})`,
       };
     }
-    const fail = (reason: string): ReaderError => failAt(eig.line, `in the KPOINTS_OPT set (<${KPOINTS_OPT_BLOCK}>): ${reason}`);
+    // A set that does not fit the run is not analysed: said in a warning, and the self-consistent set read (the
+    // file's main content is not refused for its second set).
     const nk = this.kpointList.length / 3;
-    const { nSpin, nBands, energies, occupations } = eig.perSpin(nk, fail);
+    let sets;
+    try {
+      sets = eig.perSpin(nk, (reason) => failAt(eig.line, reason));
+    } catch (e) {
+      if (e instanceof ReaderError) return { state: 'unusable', reason: `${e.reason} (line ${e.line})` };
+      throw e;
+    }
+    const { nSpin, nBands, energies, occupations } = sets;
+    const at = `(its eigenvalues begin at line ${eig.line})`;
     const declared = this.header(nk).nbands;
     if (Number.isInteger(declared) && declared > 0 && nBands !== declared)
-      throw fail(`every k-point lists ${nBands} bands, but the parameters say NBANDS = ${declared}`);
-    if (nBands !== scf.nBands) throw fail(`${nBands} bands per k-point, but the self-consistent eigenvalues list ${scf.nBands}`);
-    if (nSpin !== scf.nSpin)
-      throw fail(`${nSpin} spin set${nSpin === 1 ? '' : 's'}, but the self-consistent eigenvalues have ${scf.nSpin}`);
+      return { state: 'unusable', reason: `every k-point lists ${nBands} bands, but the parameters say NBANDS = ${declared} ${at}` };
+    if (nBands !== scf.nBands)
+      return { state: 'unusable', reason: `${nBands} bands per k-point, but the self-consistent eigenvalues list ${scf.nBands} ${at}` };
+    if (nSpin !== scf.nSpin) {
+      const what = `${nSpin} spin set${nSpin === 1 ? '' : 's'}`;
+      return { state: 'unusable', reason: `${what}, but the self-consistent eigenvalues have ${scf.nSpin} ${at}` };
+    }
     return {
       state: 'read',
       set: {

@@ -143,7 +143,7 @@ export class VasprunStream {
       return false;
     }
     if (this.opt.active) return this.opt.open(name, attrs, depth);
-    if (isKpointsOptScope(name, depth)) this.opt.enter(name, depth);
+    if (isKpointsOptScope(name, depth, attrs)) this.opt.enter(name, depth);
     switch (name) {
       case 'r':
         if (this.eig !== null && sc.ancestor(1) === 'set') {

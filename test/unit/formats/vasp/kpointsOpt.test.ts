@@ -305,32 +305,69 @@ describe('VASP 6 KPOINTS_OPT runs (vasprun.xml <eigenvalues_kpoints_opt>)', () =
     assert.ok(codes(early).includes('kpoints-opt-incomplete'));
   });
 
-  describe('(f) hostile KPOINTS_OPT blocks end in a clear error', () => {
+  describe('(f) hostile KPOINTS_OPT blocks: a clear error, or the set aside with its reason', () => {
     const refuse = (text: string, pattern: RegExp): void => {
       assert.throws(
         () => readText(text),
         (e: unknown) => e instanceof ReaderError && pattern.test(e.message) && e.line > 0,
       );
     };
-    it('a band count different from NBANDS', () => {
-      refuse(vasprun(optSpec({ energies: (s, k) => [...model(PATH[k]!), 12] })), /KPOINTS_OPT.*4 bands.*NBANDS = 3/);
+    // A second set that does not fit the run is not analysed; the self-consistent set is, and a warning says why.
+    const setAside = (text: string, pattern: RegExp): void => {
+      const bs = readText(text);
+      assert.equal(bs.nk, 8);
+      const w = bs.warnings.find((x) => x.code === 'kpoints-opt-incomplete');
+      assert.ok(w && pattern.test(w.message), w?.message ?? codes(bs).join(','));
+    };
+    it('a band count different from NBANDS: set aside', () => {
+      setAside(vasprun(optSpec({ energies: (s, k) => [...model(PATH[k]!), 12] })), /4 bands.*NBANDS = 3.*line \d+/);
     });
-    it('one k-point with a band more than the others', () => {
+    it('one k-point with a band more than the others: an error', () => {
       refuse(
         vasprun(optSpec({ energies: (s, k) => (k === 5 ? [...model(PATH[k]!), 12] : model(PATH[k]!)) })),
         /KPOINTS_OPT.*k-point 6 lists 4 bands/,
       );
     });
-    it('no kpointlist', () => {
-      refuse(vasprun(optSpec({ omitKpointList: true })), /KPOINTS_OPT.*no <varray name="kpointlist">/);
+    it('no kpointlist: set aside, its rows not read', () => {
+      setAside(vasprun(optSpec({ omitKpointList: true })), /before any of its k-points is listed \(no <varray name="kpointlist">\)/);
     });
-    it('more k-point sets than listed k-points', () => {
-      refuse(vasprun(optSpec({ extraKpointSets: 2 })), /KPOINTS_OPT.*cover 86 \(spin, k-point\) sets, but 84 k-points/);
+    it('more k-point sets than listed k-points: set aside', () => {
+      setAside(vasprun(optSpec({ extraKpointSets: 2 })), /cover 86 \(spin, k-point\) sets, but 84 k-points/);
     });
-    it('an energy that is not a number', () => {
+    it('an energy that is not a number: an error', () => {
       const text = vasprun(optSpec()).replace(/(<eigenvalues_kpoints_opt[\s\S]*?<r>)\s*[-\d.]+/, '$1  nonsense');
       refuse(text, /KPOINTS_OPT.*"nonsense"/);
     });
+  });
+
+  it('(h) k-points in a <kpoints comment="kpoints_opt"> of their own beside the block: read for it, the self-consistent ones kept', () => {
+    const text = vasprun(optSpec());
+    const start = text.indexOf('<eigenvalues_kpoints_opt');
+    const k0 = text.indexOf('<kpoints>', start);
+    const k1 = text.indexOf('</kpoints>', k0) + '</kpoints>'.length;
+    const own = text.slice(k0, k1).replace('<kpoints>', '<kpoints comment="kpoints_opt">');
+    const without = text.slice(0, k0) + text.slice(k1);
+    // Directly under <modeling>, after the self-consistent <kpoints>; and under <calculation>, before the block.
+    const scfEnd = without.indexOf('</kpoints>') + '</kpoints>'.length;
+    const atTop = without.slice(0, scfEnd) + '\n ' + own + without.slice(scfEnd);
+    const blockAt = without.indexOf('<eigenvalues_kpoints_opt');
+    const inCalc = without.slice(0, blockAt) + own + '\n  ' + without.slice(blockAt);
+    const reference = readText(text);
+    for (const variant of [atTop, inCalc]) {
+      const bs = readText(variant);
+      assert.equal(bs.nk, reference.nk);
+      assert.deepEqual(Array.from(bs.kpoints), Array.from(reference.kpoints));
+      assert.deepEqual(
+        bs.energies.map((e) => Array.from(e)),
+        reference.energies.map((e) => Array.from(e)),
+      );
+      assert.equal(bs.sampling, reference.sampling);
+      const scf = readText(variant, { scfSet: true });
+      const scfReference = readText(text, { scfSet: true });
+      assert.deepEqual(Array.from(scf.kpoints), Array.from(scfReference.kpoints));
+      assert.equal(scf.sampling, scfReference.sampling);
+      assert.deepEqual(scf.declaredMesh ?? null, scfReference.declaredMesh ?? null);
+    }
   });
 
   it('(g) a folder with EIGENVAL, vasprun.xml and KPOINTS_OPT reads vasprun.xml and says why', async () => {
