@@ -100,6 +100,11 @@ export interface BandStructure {
   fermiEnergies?: [number, number];
   /** Where the written Fermi energy came from, when the layout says (e.g. 'fermi_energy', 'highestOccupiedLevel'). */
   fermiSource?: string;
+  /**
+   * The written Fermi energy was found on other k-points than these (VASP's KPOINTS_OPT set, whose rows carry no
+   * occupations): where the electron count is known it classifies the run first (conductionClass.ts).
+   */
+  fermiFromOtherKPoints?: boolean;
   /** Point-group rotations the file says its code used (pw.x's s(i,j), its own crystal convention); load.ts checks them. */
   listedRotations?: Mat3[];
   labels: KLabel[];

@@ -6,6 +6,8 @@
  *   2. the Fermi energy the file writes: inside the energy range a band spans over the sampled k;
  *   3. the electron count: it cannot fill whole bands (odd without spin polarisation or spinors; non-integer);
  *   4. band order at the edges: the highest filled state at or above the lowest empty one.
+ * A Fermi energy found on other k-points than the run's (BandStructure.fermiFromOtherKPoints: VASP's KPOINTS_OPT set)
+ * comes after the electron count: a self-consistent mesh that misses a band edge puts it inside a band on a path.
  * A semimetal is a metal whose overlap is between two distinct bands, the lower with hole pockets and the upper
  * with electron pockets, the electron count filling a whole number of bands.
  * Parts: bandFilling.ts (k weights, filling, the Fermi level a count fills), semimetal.ts (the semimetal test).
@@ -99,6 +101,8 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
   // Occupations as fractions of a full state: made only when a metal's filling needs them.
   let fractions: Float64Array[] | null = null;
   const fractionsOf = (): Float64Array[] => (fractions ??= occupationFractions(bs));
+  // A Fermi energy found on other k-points (a KPOINTS_OPT set): the electron count, when known, decides first.
+  const countFirst = bs.fermiFromOtherKPoints === true && written !== null && bs.electrons !== null && bs.electrons > 0 && occ !== null;
 
   const crossingAt = (s: number, ef: number): number[] =>
     (ranges ??= spins.map((c) => bandRanges(bs, c)))[s]!.flatMap((r, b) =>
@@ -146,7 +150,7 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
         maxFilled < minEmpty ? 0.5 * (maxFilled + minEmpty) : fillingFermiLevel(bs, totalElectrons(bs, fractionsOf(), perBand), perBand);
       fermiEstimated = fermi !== null;
     }
-  } else if (written !== null) {
+  } else if (written !== null && !countFirst) {
     evidence = 'fermi';
     const perChannel = bs.nSpin === 2 && bs.fermiEnergies ? bs.fermiEnergies : null;
     const source =
@@ -271,6 +275,15 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
     if (inside && !metalNow && bs.fermiSource !== 'highestOccupiedLevel') {
       warnings.push(
         `The Fermi energy the file writes (${eV(written)}) lies inside a band's range, but the occupations fill whole bands: the occupations were followed.`,
+      );
+    }
+  }
+
+  if (countFirst && written !== null) {
+    const inside = spins.filter((s) => !per[s]!.metal && crossingAt(s, written).length > 0);
+    if (inside.length > 0) {
+      warnings.push(
+        `The Fermi energy the file writes (${eV(written)}) was found on the self-consistent k-points, not on these, and lies inside ${bandList(crossingAt(inside[0]!, written), offset)}'s range here: the electron count was followed (the self-consistent mesh may miss a band edge these k-points reach).`,
       );
     }
   }

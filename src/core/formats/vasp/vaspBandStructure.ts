@@ -6,7 +6,10 @@ import type { BandStructure, DeclaredMesh, KLabel, SourceFile } from '../../mode
 import { dropMeshBeforePath, type KArrays } from './hybridMesh';
 
 /** What a VASP reader found beside the arrays. */
-export type VaspFindings = Pick<BandStructure, 'lattice' | 'structure' | 'fermiEnergy' | 'spinorbit' | 'method' | 'partial' | 'warnings'>;
+export type VaspFindings = Pick<
+  BandStructure,
+  'lattice' | 'structure' | 'fermiEnergy' | 'spinorbit' | 'method' | 'partial' | 'warnings' | 'fermiFromOtherKPoints'
+>;
 
 /** The file's arrays as read (before the mesh is dropped) with the counts that describe them. */
 export type VaspArrays = KArrays & { nBands: number; nSpin: 1 | 2; electrons: number | null };

@@ -10,7 +10,7 @@ import { mainFileHasher, mainFileSha256 } from '../sourceHash';
 import { CancelledError } from '../../errors';
 import { VASPRUN_FORMAT, VasprunStream, type VasprunData } from './vasprunStream';
 import { placeLineModeLabels, readKpointsCompanion } from './kpointLabels';
-import { vaspBandStructure } from './vaspBandStructure';
+import { vaspBandStructure, type VaspFindings } from './vaspBandStructure';
 import { chosenEigenvalueSet, isKpointsOptName, KPOINTS_OPT_NAME } from './kpointsOptChoice';
 
 export { VASPRUN_FORMAT, VasprunStream, type VasprunData };
@@ -83,10 +83,20 @@ export function vasprunToBandStructure(
   const source = { format: VASPRUN_FORMAT, file: main.path, files };
   const spinorbit = options.spinorbit ?? data.spinorbit ?? false;
   const lattice = structure?.lattice ?? options.lattice ?? null;
-  const found = { lattice, structure, fermiEnergy: data.fermiEnergy, spinorbit, method: data.method, partial: !data.complete, warnings };
+  const found: VaspFindings = {
+    lattice,
+    structure,
+    fermiEnergy: data.fermiEnergy,
+    spinorbit,
+    method: data.method,
+    partial: !data.complete,
+    warnings,
+  };
   // VASP 6's KPOINTS_OPT set, when present and complete, is what the user asked VASP for (vasprunKpointsOpt.ts).
   const chosen = chosenEigenvalueSet(data, options.scfSet === true, warnings);
   const arrays = chosen.set ? { ...chosen.set, electrons: data.electrons } : data;
+  // Its Fermi energy is the self-consistent mesh's: without occupations of its own, the set is classified by its count.
+  if (chosen.set && !chosen.set.occupations && data.fermiEnergy !== null) found.fermiFromOtherKPoints = true;
   const { generation, declaredMesh } = chosen.set ?? data;
   return vaspBandStructure(source, arrays, found, ({ kpoints, nk }) => {
     // Labels: a KPOINTS file in line mode beside the run names the ends VASP lists here (KPOINTS_OPT for that

@@ -63,7 +63,7 @@ const KPOINTS_OPT = [
 const KPOINTS_MESH = 'mesh\n0\nMonkhorst-Pack\n2 2 2\n0 0 0\n';
 
 /** The self-consistent run on the 2×2×2 Monkhorst–Pack mesh: 4 electrons (deep and valence bands filled). */
-function scfRun(nSpin: 1 | 2): BandStructure {
+function scfRun(nSpin: 1 | 2, fermiEnergy = 2.3): BandStructure {
   const mesh: number[] = [];
   for (const x of [-0.25, 0.25]) for (const y of [-0.25, 0.25]) for (const z of [-0.25, 0.25]) mesh.push(x, y, z);
   const nk = 8;
@@ -82,7 +82,7 @@ function scfRun(nSpin: 1 | 2): BandStructure {
     weights: new Float64Array(nk).fill(1 / nk),
     energies,
     occupations,
-    fermiEnergy: 2.3,
+    fermiEnergy,
     electrons: 4,
     spinorbit: false,
     labels: [],
@@ -106,9 +106,9 @@ function optSpec(over: Partial<KpointsOptSpec> = {}): KpointsOptSpec {
   };
 }
 
-function vasprun(spec: KpointsOptSpec | null, where: 'after' | 'before' = 'after'): string {
+function vasprun(spec: KpointsOptSpec | null, where: 'after' | 'before' = 'after', fermiEnergy = 2.3): string {
   // The self-consistent <kpoints> declares its 2×2×2 Monkhorst–Pack mesh, as VASP writes it.
-  const scf = writeVasprun(scfRun(spec?.nSpin ?? 1), { meshGeneration: { param: 'Monkhorst-Pack', divisions: '2 2 2' } });
+  const scf = writeVasprun(scfRun(spec?.nSpin ?? 1, fermiEnergy), { meshGeneration: { param: 'Monkhorst-Pack', divisions: '2 2 2' } });
   return spec ? withKpointsOpt(scf, kpointsOptBlock(spec), where) : scf;
 }
 
@@ -338,6 +338,23 @@ describe('VASP 6 KPOINTS_OPT runs (vasprun.xml <eigenvalues_kpoints_opt>)', () =
       const text = vasprun(optSpec()).replace(/(<eigenvalues_kpoints_opt[\s\S]*?<r>)\s*[-\d.]+/, '$1  nonsense');
       refuse(text, /KPOINTS_OPT.*"nonsense"/);
     });
+  });
+
+  it('(i) a self-consistent Fermi energy below the path’s VBM (the mesh misses it): the electron count classifies the path', () => {
+    // The 2×2×2 Monkhorst–Pack mesh's valence band tops out at −1 eV (Σ cos = 0 at (±¼, ±¼, ±¼), model); VASP
+    // would place E_F there (−0.9 eV), below the path's VBM at R (2.0 eV).
+    const bs = readText(vasprun(optSpec(), 'after', -0.9));
+    assert.equal(bs.fermiFromOtherKPoints, true);
+    assertModelGap(bs);
+    const report = analyzeBandStructure(bs);
+    assert.match(report.classificationReason, /4 electrons .* fill whole bands/);
+    assert.ok(
+      report.warnings.some((w) => /found on the self-consistent k-points.*band 2's range here: the electron count was followed/.test(w)),
+      JSON.stringify(report.warnings),
+    );
+    // The self-consistent set itself keeps its written Fermi energy as evidence (it was found on those k-points).
+    const scf = readText(vasprun(optSpec(), 'after', -0.9), { scfSet: true });
+    assert.equal(scf.fermiFromOtherKPoints, undefined);
   });
 
   it('(h) k-points in a <kpoints comment="kpoints_opt"> of their own beside the block: read for it, the self-consistent ones kept', () => {
