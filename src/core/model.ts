@@ -101,8 +101,9 @@ export interface BandStructure {
   /** Where the written Fermi energy came from, when the layout says (e.g. 'fermi_energy', 'highestOccupiedLevel'). */
   fermiSource?: string;
   /**
-   * The written Fermi energy was found on other k-points than these (VASP's KPOINTS_OPT set, whose rows carry no
-   * occupations): where the electron count is known it classifies the run first (conductionClass.ts).
+   * The written Fermi energy was fixed on other k-points than these, and any occupations written here follow from
+   * it (VASP's KPOINTS_OPT set; the zero-weight path after a hybrid run's weighted mesh): where the electron count is
+   * known it decides which states are filled and classifies the run first (occupation.ts, conductionClass.ts).
    */
   fermiFromOtherKPoints?: boolean;
   /** Point-group rotations the file says its code used (pw.x's s(i,j), its own crystal convention); load.ts checks them. */

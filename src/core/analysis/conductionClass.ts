@@ -18,6 +18,7 @@ import type { OccupationRule } from './occupation';
 import {
   electronsPerBand,
   fillingFermiLevel,
+  markFilled,
   fullOccupation,
   LEVEL_EV,
   occupationFractions,
@@ -279,7 +280,24 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
     }
   }
 
-  if (countFirst && written !== null) {
+  if (bs.fermiFromOtherKPoints && occ?.basis === 'electrons' && bs.occupations && !per.some((v) => v.metal)) {
+    // Occupations written from that Fermi energy: a band they leave partly empty where the count fills it.
+    const marked = bs.occupations.map((o) => new Uint8Array(o.length));
+    markFilled(bs.occupations, bs.nBands, marked);
+    const differ = new Set<number>();
+    marked.forEach((m, s) => {
+      const o = occ.occupied[s]!;
+      for (let i = 0; i < m.length; i++) if (m[i] !== o[i]) differ.add(i % bs.nBands);
+    });
+    if (differ.size > 0) {
+      warnings.push(
+        `The occupations written on these k-points follow from a Fermi energy fixed on the self-consistent mesh and differ from whole bands for ${bandList(
+          [...differ].sort((a, b) => a - b),
+          offset,
+        )}: the electron count was followed (the mesh may miss a band edge these k-points reach).`,
+      );
+    }
+  } else if (countFirst && written !== null) {
     const inside = spins.filter((s) => !per[s]!.metal && crossingAt(s, written).length > 0);
     if (inside.length > 0) {
       warnings.push(

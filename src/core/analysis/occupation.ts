@@ -23,7 +23,9 @@ export function occupationRule(bs: BandStructure): OccupationRule | null {
   const { nk, nBands, nSpin } = bs;
   const occupied = Array.from({ length: nSpin }, () => new Uint8Array(nk * nBands));
   const warnings: string[] = [];
-  if (bs.occupations) {
+  // Occupations that follow from a Fermi energy fixed on other k-points carry nothing the electron count does not.
+  const ownOccupations = !(bs.fermiFromOtherKPoints && bs.electrons !== null && bs.electrons > 0);
+  if (bs.occupations && ownOccupations) {
     // Files write either fractions (0..1) or electrons (0..2): half of the largest value is the threshold.
     if (markFilled(bs.occupations, nBands, occupied).any) {
       if (bs.electrons !== null && bs.nk > 0) {

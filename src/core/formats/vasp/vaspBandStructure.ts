@@ -27,9 +27,12 @@ export function vaspBandStructure(
   if (dropped.warning) found.warnings.push(dropped.warning);
   const kept = dropped.arrays;
   const { labels, sampling, declaredMesh } = placeLabels(kept);
+  // The path after a weighted mesh: VASP fixed E_F on the mesh, and the path's occupations follow from it.
+  const otherK = dropped.warning !== null && (found.fermiEnergy !== null || kept.occupations !== null);
   return {
     source,
     ...found,
+    ...(otherK ? { fermiFromOtherKPoints: true } : {}),
     nk: kept.nk,
     nBands: data.nBands,
     nSpin: data.nSpin,
