@@ -172,10 +172,13 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
       : bs.nSpin === 2
         ? 'in two spin channels'
         : 'without spin polarisation (two electrons per band)';
+    // A metal's Fermi level is its charge density's: one written from the self-consistent mesh is kept as written.
+    const level = (): number | null =>
+      bs.fermiFromOtherKPoints && written !== null ? written : fillingFermiLevel(bs, bs.electrons!, perBand);
     if (!whole && bs.nSpin === 1) {
       evidence = 'count';
-      fermi = fillingFermiLevel(bs, bs.electrons, perBand);
-      fermiEstimated = fermi !== null;
+      fermi = level();
+      fermiEstimated = fermi !== null && fermi !== written;
       const band = Math.floor(slots);
       const crossing = fermi !== null ? crossingAt(0, fermi) : [band];
       per.push({
@@ -216,10 +219,10 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
         if (!metal)
           reason = `${bs.electrons} electrons ${spinWord} fill whole bands, and the highest filled state lies below the lowest empty one.`;
         else {
-          const ef = fillingFermiLevel(bs, bs.electrons, perBand);
+          const ef = level();
           if (ef !== null) {
             fermi = ef;
-            fermiEstimated = true;
+            fermiEstimated = ef !== written;
             crossing = crossingAt(s, ef);
           }
           reason = `${bs.electrons} electrons ${spinWord} fill whole bands, but the highest filled state (${eV(top)}) lies at or above the lowest empty one (${eV(bottom)}).`;

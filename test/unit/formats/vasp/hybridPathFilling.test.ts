@@ -10,6 +10,10 @@ import assert from 'node:assert/strict';
 import { vaspEigenvalReader } from '../../../../src/core/formats/vasp/eigenval';
 import { analyzeBandStructure } from '../../../../src/core/analysis/analyze';
 import { writeEigenval } from '../../../support/writers/vasp';
+import { writeVasprun } from '../../../support/writers/vasprun';
+import { vasprunReader } from '../../../../src/core/formats/vasp/vasprun';
+import { cubicLattice } from '../../../support/models';
+import type { BandStructure } from '../../../../src/core/model';
 
 const BANDS: [number, number][] = [
   [-9, 0.1],
@@ -93,5 +97,44 @@ describe('hybrid-functional path after its weighted mesh: filling by the electro
     const bs = read(text);
     assert.equal(bs.fermiFromOtherKPoints, undefined);
     assert.match(analyzeBandStructure(bs).classificationReason, /occupations/i);
+  });
+
+  it('a metal stays a metal, with the Fermi level the self-consistent run wrote (vasprun.xml)', () => {
+    // The conduction band lowered to E0 = 4 eV: its minimum at Γ (4 − 4.5 = −0.5 eV) lies below the valence band's
+    // maximum at R (2.0 eV), so the two overlap (model): a semimetal/metal whatever the filling.
+    const bands: [number, number][] = [BANDS[0]!, BANDS[1]!, [4, 0.75]];
+    const energyOf = (k: readonly number[]): number[] =>
+      bands.map(([e0, t]) => e0 - 2 * t * k.reduce((a, f) => a + Math.cos(2 * Math.PI * f), 0));
+    const points = [...MESH, ...PATH];
+    const energies = Float64Array.from(points.flatMap(energyOf));
+    const fermi = 0.8;
+    const bs: BandStructure = {
+      source: { format: 'model', file: 'model', files: [] },
+      lattice: cubicLattice(4),
+      structure: { lattice: cubicLattice(4), species: ['Si'], positions: new Float64Array([0, 0, 0]) },
+      nk: points.length,
+      nBands: bands.length,
+      nSpin: 1,
+      kpoints: Float64Array.from(points.flat()),
+      weights: Float64Array.from(points, (_, i) => (i < MESH.length ? 1 / MESH.length : 0)),
+      energies: [energies],
+      occupations: [Float64Array.from(energies, (e) => (e < fermi ? 2 : 0))],
+      fermiEnergy: fermi,
+      electrons: 4,
+      spinorbit: false,
+      labels: [],
+      sampling: 'points',
+      grid: null,
+      writtenDistance: null,
+      partial: false,
+      warnings: [],
+    };
+    const text = writeVasprun(bs);
+    const read = vasprunReader.read({ path: 'vasprun.xml', bytes: new TextEncoder().encode(text) }, [], {});
+    assert.equal(read.nk, PATH.length);
+    assert.equal(read.fermiFromOtherKPoints, true);
+    const report = analyzeBandStructure(read);
+    assert.equal(report.metal, true, report.classificationReason);
+    assert.equal(report.fermi_eV, fermi);
   });
 });
