@@ -23,10 +23,9 @@
 import type { DeclaredMesh, OccupationArray, Vec3 } from '../../model';
 import { ReaderError } from '../../errors';
 import { scanDecimalBytes } from '../numbers';
-import type { RowReader, XmlByteScanner } from '../xmlByteScanner';
-import { DoubleBuffer } from '../doubleBuffer';
-import { EigenvalueBlock, readVectorRows, type EigenvalueHeader } from './vasprunEigenvalues';
-import { VasprunMeshGeneration } from './vasprunMeshGeneration';
+import type { XmlByteScanner } from '../xmlByteScanner';
+import { EigenvalueBlock, type EigenvalueHeader } from './vasprunEigenvalues';
+import { VasprunKpoints } from './vasprunKpoints';
 
 /** The element that holds the KPOINTS_OPT eigenvalues. */
 export const KPOINTS_OPT_BLOCK = 'eigenvalues_kpoints_opt';
@@ -66,13 +65,9 @@ export function isKpointsOptScope(name: string, depth: number, attrs?: Record<st
 export class KpointsOptReader {
   private scope: string | null = null;
   private scopeDepth = 0;
+  /** True inside the set's <kpoints>: its events go to `k`. */
   private inKpoints = false;
-  private varrayName: string | null = null;
-  private iName: string | null = null;
-  private line: { divisions: number; ends: Vec3[] } | null = null;
-  private readonly mesh = new VasprunMeshGeneration();
-  private readonly kpointList = new DoubleBuffer(3 * 64);
-  private readonly weightList = new DoubleBuffer(64);
+  private readonly k: VasprunKpoints;
   private eig: EigenvalueBlock | null = null;
   private eigDepth = 0;
   private seen = false;
@@ -80,21 +75,12 @@ export class KpointsOptReader {
   private kFromSeparate = false;
   /** Why the set cannot be used, found before its end (it is then skipped, and the self-consistent set read). */
   private problem: string | null = null;
-  private readonly vectorRows: RowReader;
 
   constructor(
     private readonly sc: XmlByteScanner,
     private readonly header: (nk: number) => EigenvalueHeader,
   ) {
-    this.vectorRows = (s, buf, pos, end) =>
-      readVectorRows(
-        s,
-        buf,
-        pos,
-        end,
-        this.varrayName === 'weights' ? this.weightList : this.kpointList,
-        this.varrayName === 'weights' ? 1 : 3,
-      );
+    this.k = new VasprunKpoints(sc, (text, length, what, expected) => this.numbers(text, length, what, expected));
   }
 
   /** True while the events belong to a `*_kpoints_opt` element. */
@@ -107,7 +93,7 @@ export class KpointsOptReader {
     this.scope = name;
     this.scopeDepth = depth;
     if (name === 'kpoints') {
-      this.resetKpoints();
+      this.k.reset();
       this.kFromSeparate = true;
       this.inKpoints = true;
       return;
@@ -115,14 +101,8 @@ export class KpointsOptReader {
     if (name !== KPOINTS_OPT_BLOCK) return;
     this.seen = true;
     this.problem = null;
-    if (!this.kFromSeparate) this.resetKpoints();
+    if (!this.kFromSeparate) this.k.reset();
     this.eig = null;
-  }
-
-  private resetKpoints(): void {
-    this.kpointList.length = 0;
-    this.weightList.length = 0;
-    this.line = null;
   }
 
   private get reading(): boolean {
@@ -146,6 +126,7 @@ export class KpointsOptReader {
     const sc = this.sc;
     if (!this.reading) return false;
     const parent = sc.ancestor(1);
+    if (this.inKpoints) return this.k.open(name, attrs, parent);
     switch (name) {
       case 'r':
         if (this.eig === null || parent !== 'set') return false;
@@ -154,30 +135,12 @@ export class KpointsOptReader {
       case 'set':
         this.eig?.enterSet(sc, attrs?.comment ?? '');
         return false;
-      case 'v':
-        if (this.line !== null && parent === 'generation') return true;
-        if (this.mesh.active) return parent === 'generation' && this.mesh.openV(attrs?.name);
-        return this.inKpoints && parent === 'varray' && (this.varrayName === 'kpointlist' || this.varrayName === 'weights');
-      case 'varray':
-        this.varrayName = attrs?.name ?? null;
-        if (this.inKpoints && parent === 'kpoints' && (this.varrayName === 'kpointlist' || this.varrayName === 'weights'))
-          sc.setRows(this.vectorRows);
-        return false;
-      case 'i':
-        this.iName = attrs?.name ?? null;
-        return this.line !== null && this.iName === 'divisions';
       case 'kpoints':
         this.inKpoints = parent === KPOINTS_OPT_BLOCK;
         // The block's own k-points replace any read outside it.
         if (this.inKpoints && this.kFromSeparate) {
-          this.resetKpoints();
+          this.k.reset();
           this.kFromSeparate = false;
-        }
-        return false;
-      case 'generation':
-        if (this.inKpoints && parent === 'kpoints') {
-          if (/^listgenerated$/i.test(attrs?.param ?? '')) this.line = { divisions: 0, ends: [] };
-          else this.mesh.start(attrs?.param);
         }
         return false;
       case 'eigenvalues':
@@ -189,14 +152,15 @@ export class KpointsOptReader {
   }
 
   private startEigenvalues(depth: number): void {
-    const nk = this.kpointList.length / 3;
+    const nk = this.k.nk;
     // A set whose k-points are not known is skipped (its rows are not read); the self-consistent set is analysed.
     if (nk === 0) {
       this.problem = `its eigenvalues (line ${this.sc.line}) come before any of its k-points is listed (no <varray name="kpointlist">)`;
       return;
     }
-    if (this.weightList.length !== 0 && this.weightList.length !== nk) {
-      this.problem = `${this.weightList.length} weights are listed for its ${nk} k-points`;
+    const weights = this.k.weightList.length;
+    if (weights !== 0 && weights !== nk) {
+      this.problem = `${weights} weights are listed for its ${nk} k-points`;
       return;
     }
     const sc = this.sc;
@@ -216,31 +180,17 @@ export class KpointsOptReader {
     }
     if (!this.reading) return;
     const sc = this.sc;
+    if (this.inKpoints) {
+      if (name === 'kpoints') this.inKpoints = false;
+      else this.k.close(name, text, length, sc.ancestor(1));
+      return;
+    }
     switch (name) {
       case 'r':
         if (this.eig !== null && sc.ancestor(1) === 'set') this.eig.closeRow(text, length);
         return;
       case 'set':
         this.eig?.leaveSet(sc);
-        return;
-      case 'v':
-        if (text !== null) this.closeV(text, length);
-        return;
-      case 'i':
-        if (this.line !== null && this.iName === 'divisions' && text !== null)
-          this.line.divisions = this.numbers(text, length, 'the number of points per line-mode segment', 1)[0]!;
-        this.iName = null;
-        return;
-      case 'varray':
-        if (this.inKpoints) sc.setRows(null);
-        this.varrayName = null;
-        return;
-      case 'generation':
-        this.mesh.end();
-        if (this.line !== null && (this.line.divisions < 2 || this.line.ends.length < 2)) this.line = null;
-        return;
-      case 'kpoints':
-        this.inKpoints = false;
         return;
       case 'eigenvalues':
         if (this.eig !== null && depth === this.eigDepth) {
@@ -250,23 +200,6 @@ export class KpointsOptReader {
         return;
       default:
         return;
-    }
-  }
-
-  private closeV(text: Uint8Array, length: number): void {
-    const parent = this.sc.ancestor(1);
-    if (parent === 'generation') {
-      if (this.mesh.active) return this.mesh.closeV(this.numbers(text, length, 'a k-mesh generation vector', 3));
-      const v = this.numbers(text, length, 'a line-mode segment end', 3);
-      this.line?.ends.push([v[0]!, v[1]!, v[2]!]);
-      return;
-    }
-    if (!this.inKpoints || parent !== 'varray') return;
-    if (this.varrayName === 'kpointlist') {
-      const v = this.numbers(text, length, `k-point ${this.kpointList.length / 3 + 1}`, 3);
-      for (const x of v) this.kpointList.push(x);
-    } else if (this.varrayName === 'weights') {
-      this.weightList.push(this.numbers(text, length, `the weight of k-point ${this.weightList.length + 1}`, 1)[0]!);
     }
   }
 
@@ -292,7 +225,7 @@ export class KpointsOptReader {
     }
     // A set that does not fit the run is not analysed: said in a warning, and the self-consistent set read (the
     // file's main content is not refused for its second set).
-    const nk = this.kpointList.length / 3;
+    const nk = this.k.nk;
     let sets;
     try {
       sets = eig.perSpin(nk, (reason) => failAt(eig.line, reason));
@@ -314,15 +247,15 @@ export class KpointsOptReader {
     return {
       state: 'read',
       set: {
-        kpoints: this.kpointList.toArray(),
-        weights: this.weightList.length === nk ? this.weightList.toArray() : null,
+        kpoints: this.k.kpointList.toArray(),
+        weights: this.k.weightList.length === nk ? this.k.weightList.toArray() : null,
         nk,
         nBands,
         nSpin,
         energies,
         occupations,
-        generation: this.line,
-        declaredMesh: this.mesh.declared(),
+        generation: this.k.generation,
+        declaredMesh: this.k.declaredMesh(),
       },
     };
   }

@@ -25,16 +25,15 @@
  * Eigenvalues inside <projected> are other blocks: only the <eigenvalues> directly inside <calculation> are read,
  * and VASP 6's KPOINTS_OPT set (<eigenvalues_kpoints_opt>) by vasprunKpointsOpt.ts.
  */
-import type { ElectronicMethod, Structure, Vec3 } from '../../model';
+import type { ElectronicMethod, Structure } from '../../model';
 import { basename } from '../../io/fileAccessor';
 import { ReaderError } from '../../errors';
 import { parseDecimal, scanDecimalBytes } from '../numbers';
-import { XmlByteScanner, type RowReader } from '../xmlByteScanner';
+import { XmlByteScanner } from '../xmlByteScanner';
 import { vasprunTagFacts } from './vaspMethod';
 import { chosenStructure, type StructureDraft } from './vasprunStructure';
-import { DoubleBuffer } from '../doubleBuffer';
-import { EigenvalueBlock, eigenvalueHeader, readVectorRows, type EigenvalueHeader } from './vasprunEigenvalues';
-import { VasprunMeshGeneration } from './vasprunMeshGeneration';
+import { EigenvalueBlock, eigenvalueHeader, type EigenvalueHeader } from './vasprunEigenvalues';
+import { VasprunKpoints } from './vasprunKpoints';
 import { isKpointsOptScope, KpointsOptReader, type KpointsOptOutcome, type VasprunKSet } from './vasprunKpointsOpt';
 
 export const VASPRUN_FORMAT = 'vasprun-xml';
@@ -67,13 +66,10 @@ export class VasprunStream {
   private varrayName: string | null = null;
   private inIncar = false;
   private inParameters = false;
-  private inGeneration = false;
   private inAtomsArray = false;
-  private generation: { divisions: number; ends: Vec3[] } | null = null;
-  private readonly meshGeneration = new VasprunMeshGeneration();
-  private readonly kpointList = new DoubleBuffer(3 * 256);
-  private readonly weightList = new DoubleBuffer(256);
-  private kpointsDone = false;
+  /** The self-consistent k-points: the first <kpoints> under <modeling> (vasprunKpoints.ts). */
+  private readonly kpoints: VasprunKpoints;
+  private inKpoints = false;
   private readonly incarTags = new Map<string, string>();
   private readonly paramTags = new Map<string, string>();
   private readonly species: string[] = [];
@@ -87,7 +83,6 @@ export class VasprunStream {
   private efermi: number | null = null;
   private stepEfermi: number | null = null;
   private sawRoot = false;
-  private readonly kpointRowReader: RowReader;
   private readonly opt: KpointsOptReader;
   /** The counts that size an eigenvalue block of `nk` k-points (NBANDS, ISPIN: <parameters> before <incar>). */
   private readonly headerFor = (nk: number): EigenvalueHeader => eigenvalueHeader([this.paramTags, this.incarTags], nk, this.sizeHint);
@@ -101,7 +96,7 @@ export class VasprunStream {
       open: (name, attrs, depth) => this.open(name, attrs, depth),
       close: (name, depth, text, length) => this.close(name, depth, text, length),
     });
-    this.kpointRowReader = (sc, buf, pos, end) => this.fastKpointRows(sc, buf, pos, end);
+    this.kpoints = new VasprunKpoints(this.xml, (text, length, what, expected) => this.numbers(text, length, what, expected));
     this.opt = new KpointsOptReader(this.xml, this.headerFor);
   }
 
@@ -130,11 +125,6 @@ export class VasprunStream {
   }
 
   /** The k-point list and its weights (`<v>` rows of 3 and of 1 numbers) straight from the bytes. */
-  private fastKpointRows(sc: XmlByteScanner, buf: Uint8Array, pos: number, end: number): number {
-    const weights = this.varrayName === 'weights';
-    return readVectorRows(sc, buf, pos, end, weights ? this.weightList : this.kpointList, weights ? 1 : 3);
-  }
-
   private open(name: string, attrs: Record<string, string> | null, depth: number): boolean {
     const sc = this.xml;
     if (depth === 1) {
@@ -144,6 +134,7 @@ export class VasprunStream {
     }
     if (this.opt.active) return this.opt.open(name, attrs, depth);
     if (isKpointsOptScope(name, depth, attrs)) this.opt.enter(name, depth);
+    if (this.inKpoints) return this.kpoints.open(name, attrs, sc.ancestor(1));
     switch (name) {
       case 'r':
         if (this.eig !== null && sc.ancestor(1) === 'set') {
@@ -151,19 +142,19 @@ export class VasprunStream {
           return true;
         }
         return false;
+      case 'kpoints':
+        // The self-consistent k-points; a later <kpoints> of the same level is not read again.
+        this.inKpoints = depth === 2 && !this.kpoints.weightsRead;
+        return false;
       case 'v':
-        if (this.inGeneration) return sc.ancestor(1) === 'generation';
-        if (this.meshGeneration.active) return sc.ancestor(1) === 'generation' && this.meshGeneration.openV(attrs?.name);
         if (sc.ancestor(1) !== 'varray') return false;
-        if (depth === 4 && !this.kpointsDone && sc.ancestor(2) === 'kpoints')
-          return this.varrayName === 'kpointlist' || this.varrayName === 'weights';
         if (this.draft !== null) return this.varrayName === 'basis' || this.varrayName === 'positions';
         return false;
       case 'i': {
         const key = attrs?.name ?? null;
         this.iName = key;
         if (key === null) return false;
-        return this.inIncar || this.inParameters || key === 'efermi' || (this.inGeneration && key === 'divisions');
+        return this.inIncar || this.inParameters || key === 'efermi';
       }
       case 'c':
         return this.inAtomsArray && this.rcColumn === 0;
@@ -172,26 +163,12 @@ export class VasprunStream {
         return false;
       case 'varray':
         this.varrayName = attrs?.name ?? null;
-        if (
-          depth === 3 &&
-          !this.kpointsDone &&
-          sc.ancestor(1) === 'kpoints' &&
-          (this.varrayName === 'kpointlist' || this.varrayName === 'weights')
-        ) {
-          sc.setRows(this.kpointRowReader);
-        }
         return false;
       case 'incar':
         if (depth === 2) this.inIncar = true;
         return false;
       case 'parameters':
         if (depth === 2) this.inParameters = true;
-        return false;
-      case 'generation':
-        if (depth === 3 && sc.ancestor(1) === 'kpoints' && /^listgenerated$/i.test(attrs?.param ?? '')) {
-          this.inGeneration = true;
-          this.generation = { divisions: 0, ends: [] };
-        } else if (depth === 3 && sc.ancestor(1) === 'kpoints') this.meshGeneration.start(attrs?.param);
         return false;
       case 'structure':
         this.draft = { name: attrs?.name ?? '', basis: [], positions: [] };
@@ -215,13 +192,18 @@ export class VasprunStream {
 
   /** An <eigenvalues> block opens: arrays sized from NBANDS, ISPIN and the k-points, checked against the file. */
   private startEigenvalues(depth: number): void {
-    this.eig = new EigenvalueBlock(this.headerFor(this.kpointList.length / 3), this.xml.line, (reason) => this.fail(reason));
+    this.eig = new EigenvalueBlock(this.headerFor(this.kpoints.nk), this.xml.line, (reason) => this.fail(reason));
     this.eigDepth = depth;
   }
 
   private close(name: string, depth: number, text: Uint8Array | null, length: number): void {
     if (this.opt.active) return this.opt.close(name, depth, text, length);
     const sc = this.xml;
+    if (this.inKpoints) {
+      if (name === 'kpoints' && depth === 2) this.inKpoints = false;
+      else this.kpoints.close(name, text, length, sc.ancestor(1));
+      return;
+    }
     switch (name) {
       case 'r': {
         if (this.eig !== null && sc.ancestor(1) === 'set') this.eig.closeRow(text, length);
@@ -229,21 +211,6 @@ export class VasprunStream {
       }
       case 'v': {
         if (text === null) return;
-        if (this.meshGeneration.active) return this.meshGeneration.closeV(this.numbers(text, length, 'a k-mesh generation vector', 3));
-        if (this.inGeneration) {
-          const v = this.numbers(text, length, 'a line-mode segment end', 3);
-          this.generation?.ends.push([v[0]!, v[1]!, v[2]!]);
-          return;
-        }
-        if (depth === 4 && !this.kpointsDone && sc.ancestor(2) === 'kpoints') {
-          if (this.varrayName === 'kpointlist') {
-            const v = this.numbers(text, length, `k-point ${this.kpointList.length / 3 + 1}`, 3);
-            for (const x of v) this.kpointList.push(x);
-          } else if (this.varrayName === 'weights') {
-            this.weightList.push(this.numbers(text, length, `the weight of k-point ${this.weightList.length + 1}`, 1)[0]!);
-          }
-          return;
-        }
         const d = this.draft;
         if (d === null) return;
         if (this.varrayName === 'basis' && sc.ancestor(2) === 'crystal') {
@@ -260,11 +227,6 @@ export class VasprunStream {
         this.iName = null;
         if (key === null || text === null) return;
         const value = this.textOf(text, length).trim();
-        if (this.inGeneration && key === 'divisions') {
-          const n = this.numbers(text, length, 'the number of points per line-mode segment', 1)[0]!;
-          if (this.generation) this.generation.divisions = n;
-          return;
-        }
         if (key === 'efermi') {
           const v = parseDecimal(value);
           if (v === null) throw this.fail(`the Fermi energy (efermi) should be a number, found "${value.slice(0, 30)}"`);
@@ -293,15 +255,7 @@ export class VasprunStream {
         this.eig?.leaveSet(sc);
         return;
       case 'varray':
-        if (depth === 3 && sc.ancestor(1) === 'kpoints') {
-          sc.setRows(null);
-          if (this.varrayName === 'weights') this.kpointsDone = true;
-        }
         this.varrayName = null;
-        return;
-      case 'generation':
-        this.inGeneration = false;
-        this.meshGeneration.end();
         return;
       case 'incar':
         if (depth === 2) this.inIncar = false;
@@ -341,19 +295,18 @@ export class VasprunStream {
         : 'the file ends before the first eigenvalues were written (the run is still in its first step, or the file is truncated)';
       throw new ReaderError(VASPRUN_FORMAT, this.fileName, { line: outcome.endLine, column: 0 }, reason);
     }
-    const nk = this.kpointList.length / 3;
+    const nk = this.kpoints.nk;
     const failAt = (line: number, reason: string): ReaderError =>
       new ReaderError(VASPRUN_FORMAT, this.fileName, { line, column: 0 }, reason);
     const fail = (reason: string): ReaderError => failAt(eig.line, reason);
     if (nk === 0) throw fail('the file lists no k-points (<kpoints> with a "kpointlist")');
     const { nSpin, nBands, energies, occupations } = eig.perSpin(nk, fail);
     const { spinorbit, electrons, method } = vasprunTagFacts(this.incarTags, this.paramTags, basename(this.fileName));
-    const weights = this.weightList.length === nk ? this.weightList.toArray() : null;
-    const gen = this.generation && this.generation.divisions >= 2 && this.generation.ends.length >= 2 ? this.generation : null;
+    const weights = this.kpoints.weightList.length === nk ? this.kpoints.weightList.toArray() : null;
     return {
       structure: chosenStructure(this.structures, this.species),
       species: this.species.slice(),
-      kpoints: this.kpointList.toArray(),
+      kpoints: this.kpoints.kpointList.toArray(),
       weights,
       nk,
       nBands,
@@ -364,8 +317,8 @@ export class VasprunStream {
       electrons,
       spinorbit,
       method,
-      generation: gen,
-      declaredMesh: this.meshGeneration.declared(),
+      generation: this.kpoints.generation,
+      declaredMesh: this.kpoints.declaredMesh(),
       complete: outcome.complete,
       steps: this.steps,
       kpointsOpt: this.opt.outcome({ nBands, nSpin }, failAt),
