@@ -87,28 +87,19 @@ export function recogniseMesh(
   // Every image (each operation, and its negative) of every point, flat: point i's images at i·per .. (i+1)·per − 1.
   const per = 2 * ops.length;
   const all = allImages(kFrac, Float64Array.from(ops.flatMap((r) => [...r[0], ...r[1], ...r[2]])));
-  const onMesh = (axis: number, n: number, s: number): boolean => allOnMesh(all, axis, n, s);
   const divisions: number[] = [];
   const shift: number[] = [];
   for (let axis = 0; axis < 3; axis++) {
-    let found = false;
-    for (let n = 1; n <= MAX_DIVISIONS && !found; n++) {
-      for (const s of [0, 0.5]) {
-        if (onMesh(axis, n, s)) {
-          divisions.push(n);
-          shift.push(s);
-          found = true;
-          break;
-        }
-      }
-    }
-    if (!found) {
+    const along = meshAlong(all, axis);
+    if (!along) {
       return {
         mesh: null,
         kind: 'not-a-mesh',
         reason: `Along reciprocal axis ${axis + 1} the k-points (with their symmetry images) lie on no regular mesh of up to ${MAX_DIVISIONS} divisions.`,
       };
     }
+    divisions.push(along.n);
+    shift.push(along.s);
   }
   const [n1, n2, n3] = divisions as [number, number, number];
   const total = n1 * n2 * n3;
@@ -207,16 +198,15 @@ function allImages(kFrac: Float64Array, ops: Float64Array): Float64Array {
 function listedPointsRefusal(kFrac: Float64Array): MeshRecognition | null {
   const divisions: number[] = [];
   for (let axis = 0; axis < 3; axis++) {
-    let n = 1;
-    while (n <= MAX_DIVISIONS && !allOnMesh(kFrac, axis, n, 0) && !allOnMesh(kFrac, axis, n, 0.5)) n++;
-    if (n > MAX_DIVISIONS) {
+    const along = meshAlong(kFrac, axis);
+    if (!along) {
       return {
         mesh: null,
         kind: 'not-a-mesh',
         reason: `Along reciprocal axis ${axis + 1} the k-points lie on no regular mesh of up to ${MAX_DIVISIONS} divisions.`,
       };
     }
-    divisions.push(n);
+    divisions.push(along.n);
   }
   const total = divisions[0]! * divisions[1]! * divisions[2]!;
   if (total > MAX_MESH_POINTS)
@@ -225,6 +215,12 @@ function listedPointsRefusal(kFrac: Float64Array): MeshRecognition | null {
       kind: 'too-many',
       reason: `The k-points need a mesh of at least ${divisions.join('×')}: more than ${MAX_MESH_POINTS} points.`,
     };
+  return null;
+}
+
+/** The coarsest mesh along `axis` (fewest divisions n ≤ MAX_DIVISIONS, unshifted before shifted by ½) holding every value, or null. */
+function meshAlong(values: Float64Array, axis: number): { n: number; s: number } | null {
+  for (let n = 1; n <= MAX_DIVISIONS; n++) for (const s of [0, 0.5]) if (allOnMesh(values, axis, n, s)) return { n, s };
   return null;
 }
 
