@@ -102,8 +102,9 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
   // Occupations as fractions of a full state: made only when a metal's filling needs them.
   let fractions: Float64Array[] | null = null;
   const fractionsOf = (): Float64Array[] => (fractions ??= occupationFractions(bs));
-  // A Fermi energy found on other k-points (a KPOINTS_OPT set): the electron count, when known, decides first.
-  const countFirst = bs.fermiFromOtherKPoints === true && written !== null && bs.electrons !== null && bs.electrons > 0 && occ !== null;
+  // A Fermi energy found on other k-points (a KPOINTS_OPT set, a hybrid run's path): when occupation.ts filled the
+  // states by the electron count, that count decides before the Fermi energy.
+  const countFirst = bs.fermiFromOtherKPoints === true && occ?.basis === 'electrons';
 
   const crossingAt = (s: number, ef: number): number[] =>
     (ranges ??= spins.map((c) => bandRanges(bs, c)))[s]!.flatMap((r, b) =>
@@ -173,8 +174,7 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
         ? 'in two spin channels'
         : 'without spin polarisation (two electrons per band)';
     // A metal's Fermi level is its charge density's: one written from the self-consistent mesh is kept as written.
-    const level = (): number | null =>
-      bs.fermiFromOtherKPoints && written !== null ? written : fillingFermiLevel(bs, bs.electrons!, perBand);
+    const level = (): number | null => (countFirst && written !== null ? written : fillingFermiLevel(bs, bs.electrons!, perBand));
     if (!whole && bs.nSpin === 1) {
       evidence = 'count';
       fermi = level();
@@ -283,7 +283,7 @@ export function classifyConduction(bs: BandStructure, occ: OccupationRule | null
     }
   }
 
-  if (bs.fermiFromOtherKPoints && occ?.basis === 'electrons' && bs.occupations && !per.some((v) => v.metal)) {
+  if (countFirst && bs.occupations && !per.some((v) => v.metal)) {
     // Occupations written from that Fermi energy: a band they leave partly empty where the count fills it.
     const marked = bs.occupations.map((o) => new Uint8Array(o.length));
     markFilled(bs.occupations, bs.nBands, marked);
